@@ -37,6 +37,7 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
 	emitBox(f, p)
 	emitEntry(f, p, kernels.entryName)
 	emitScaling(f, p)
+	emitSolver(f, p, kernels.stateName)
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
 	if err := f.Render(&buf); err != nil {

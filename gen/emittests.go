@@ -146,6 +146,8 @@ func EmitTests(w io.Writer, p *Plan) error {
 		emitGradientCheck(f, p, helper, setup)
 	}
 
+	emitSolverTests(f, p, helper, setup)
+
 	// Benchmark.
 	f.Commentf("Benchmark%s measures one whole run from the spec's start.", name)
 	f.Func().Id("Benchmark" + name).Params(jen.Id("b").Op("*").Qual("testing", "B")).Block(append(setup(),

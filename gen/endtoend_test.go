@@ -89,7 +89,7 @@ func TestEndToEnd(t *testing.T) {
 		// nothing, respects the cap, the gradient check when analytic.
 		want := map[string]int{"Benchmark": len(plans)}
 		for _, p := range plans {
-			want["Test"] += 3
+			want["Test"] += 5 // converges, allocates nothing, cap, solver ticks, solver allocates nothing
 			if p.Derivative == rules.Analytic {
 				want["Test"]++
 			}
@@ -208,7 +208,7 @@ func e2eCheckFiles(t *testing.T, root string, plans []*Plan, outs []Output) {
 		text := string(data)
 		if isTest {
 			var want []string
-			for _, fn := range []string{"Converges", "AllocatesNothing", "RespectsEvaluationCap"} {
+			for _, fn := range []string{"Converges", "AllocatesNothing", "RespectsEvaluationCap", "SolverTicks", "SolverAllocatesNothing"} {
 				want = append(want, "func Test"+p.M.Name+fn+"(t *testing.T)")
 			}
 			want = append(want, "func Benchmark"+p.M.Name+"(b *testing.B)")
@@ -470,10 +470,10 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml", "ticks/ticks.toml"}
 
 // e2ePackages are the module's packages whose tests must pass.
-var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined"}
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined", "e2e/ticks"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
@@ -492,6 +492,9 @@ func e2eModule() map[string]string {
 		"combined/combined.go":      e2eCombinedGo,
 		"combined/combined.toml":    e2eCombinedSpec,
 		"combined/combined_test.go": e2eCombinedTest,
+		"ticks/ticks.go":            e2eTicksGo,
+		"ticks/ticks.toml":          e2eTicksSpec(),
+		"ticks/ticks_test.go":       e2eTicksTest(),
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)

@@ -41,6 +41,12 @@ func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 	}
 	p.SpecName = filepath.ToSlash(rel)
 	p.Context = resolveContext(m, shape.Elem, shape.Dim)
+	p.Context.Combined = shape.Combined
+	// Fix every value now: a plan is read from several goroutines (tune,
+	// concurrent generation), and a first read would write the memo.
+	for _, q := range rules.Params() {
+		p.Value(q)
+	}
 	return p
 }
 

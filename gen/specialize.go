@@ -206,6 +206,7 @@ type specializedKernels struct {
 	uses      map[string]bool // provided names the kernels reference
 	usesMath  bool
 	entryName string // the generated name of minimize
+	stateName string // the generated name of descent, the resumable run
 }
 
 // Stand-ins of the templates that gen never copies: gen replaces them or
@@ -279,6 +280,7 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	newName[root] = c.prefix + "Minimize"
 	out.entryName = newName[root]
 	visit(ks.units["minimize"])
+	out.stateName = newName[ks.pkg.Scope().Lookup("descent")]
 	if len(unpicked) > 0 {
 		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
 	}
@@ -391,17 +393,6 @@ func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 		case *ast.ExprStmt:
 			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
 				cur.Replace(rw.gradientCall(call))
-			}
-			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "keepGradient") {
-				if s.Combined {
-					// rewrite recv.keepGradient(&g, &h) to g = h // …
-					to, from := deref(call.Args[0]), deref(call.Args[1])
-					cur.Replace(&ast.AssignStmt{Lhs: []ast.Expr{to}, Tok: token.ASSIGN, TokPos: call.Pos(), Rhs: []ast.Expr{from}})
-					note := fmt.Sprintf("// ∇f at the start, which %s wrote into %s with fx (%s is not read again)", s.Objective, types.ExprString(from), types.ExprString(from))
-					rw.notes = append(rw.notes, &ast.CommentGroup{List: []*ast.Comment{{Slash: call.End(), Text: note}}})
-				} else {
-					cur.Delete() // rewrite recv.keepGradient(…) to nothing
-				}
 			}
 			if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
 				if rw.c.trace {

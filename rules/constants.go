@@ -19,6 +19,15 @@ var Constants = []*Constant{
 	{"derivativeCost", "objective calls per gradient", func(c *Context) string {
 		return strconv.Itoa(c.Derivative.GradientCalls(c.Dim))
 	}},
+	{"calibrationCost", "objective calls of choosing the difference intervals", func(c *Context) string {
+		return strconv.Itoa(c.Derivative.CalibrationCalls(c.Dim))
+	}},
+	{"iterationCalls", "most objective calls of one line search with the gradient at its step", func(c *Context) string {
+		return strconv.Itoa(c.IterationCalls())
+	}},
+	{"settleCalls", "most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall", func(c *Context) string {
+		return strconv.Itoa(c.SettleCalls())
+	}},
 	{"unitRoundoff", "unit roundoff u of the float type", func(c *Context) string {
 		return FormatFloat(Roundoff(c.Elem))
 	}},
@@ -43,4 +52,36 @@ func Roundoff(elem string) float64 {
 		return 0x1p-24
 	}
 	return 0x1p-53
+}
+
+// IterationCalls is the most objective calls of one iteration's line
+// search and the gradient at the accepted step.
+func (c *Context) IterationCalls() int {
+	return c.Rule.IterationCalls(int(c.Value(Trials)), c.Derivative.GradientCalls(c.Dim))
+}
+
+// StartCalls is the most objective calls of a run's start: the first
+// value, the calibration of differences and the first gradient.
+func (c *Context) StartCalls() int {
+	return 1 + c.Derivative.CalibrationCalls(c.Dim) + c.Derivative.GradientCalls(c.Dim)
+}
+
+// SettleCalls is the most objective calls of confirming a difference
+// gradient (a calibration and two gradients); none for an analytic one;
+// for a combined objective, the curvature probes of a stall, one per
+// unknown (settleCombined).
+func (c *Context) SettleCalls() int {
+	if c.Combined {
+		return c.Dim
+	}
+	if c.Derivative.CalibrationCalls(c.Dim) == 0 {
+		return 0
+	}
+	return c.Derivative.CalibrationCalls(c.Dim) + 2*c.Derivative.GradientCalls(c.Dim)
+}
+
+// TickMinimum is the smallest call budget with which every advance of a
+// solver makes progress: the largest worst case of one stage.
+func (c *Context) TickMinimum() int {
+	return max(c.StartCalls(), c.SettleCalls(), c.IterationCalls())
 }

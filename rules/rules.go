@@ -258,6 +258,7 @@ type Context struct {
 	Derivative, Direction, Rule, Test *Entry
 	Value                             func(*Param) float64
 	Bounded                           bool // whether the spec has [minimizer.bounds]
+	Combined                          bool // whether the objective gives its gradient with its value
 }
 
 // Entries lists the chosen entries, in the order of Choices.

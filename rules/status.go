@@ -30,7 +30,13 @@ var Statuses = []*Status{
 		"the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test)"},
 	{"statusDiverged", "Diverged", "diverged", false,
 		"a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective"},
+	Running,
 }
+
+// Running is the one status that does not end a run: a solver's advance
+// spent this tick's call budget first. Only advancing reports it.
+var Running = &Status{"statusRunning", "Running", "running", false,
+	"the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on"}
 
 // StatusByText finds a status by its String text.
 func StatusByText(text string) (*Status, bool) {

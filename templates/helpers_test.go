@@ -3,6 +3,8 @@ package templates
 import (
 	"fmt"
 	"testing"
+
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // rosenbrock is problem 1 of Moré, Garbow & Hillstrom, ACM TOMS
@@ -58,12 +60,16 @@ func (p policy) String() string {
 func (p policy) use(t *testing.T) {
 	t.Helper()
 	saved := policy{derivativeSource, directionKind, stepRule, backtrackKind}
-	savedCost := derivativeCost
+	savedCosts := [3]int{derivativeCost, calibrationCost, iterationCalls}
 	derivativeSource, directionKind, stepRule, backtrackKind = p.source, p.kind, p.rule, p.backtrack
-	derivativeCost = [...]int{0, dim, 2 * dim}[p.source]
+	// The registry's costs, which gen emits as constants for the spec's choice.
+	source := [...]*rules.Entry{rules.Analytic, rules.Forward, rules.Central}[p.source]
+	derivativeCost, calibrationCost = source.GradientCalls(dim), source.CalibrationCalls(dim)
+	rule := [...]*rules.Entry{rules.Fixed, rules.SimpleDecrease, rules.ArmijoRule, rules.WolfeRule, rules.StrongWolfeRule}[p.rule]
+	iterationCalls = rule.IterationCalls(stepTrials, derivativeCost)
 	t.Cleanup(func() {
 		derivativeSource, directionKind, stepRule, backtrackKind = saved.source, saved.kind, saved.rule, saved.backtrack
-		derivativeCost = savedCost
+		derivativeCost, calibrationCost, iterationCalls = savedCosts[0], savedCosts[1], savedCosts[2]
 	})
 }
 

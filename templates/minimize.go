@@ -45,175 +45,296 @@ type outcome struct {
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minimize(recv *receiver, x0 vec, lim limits, bounds box) outcome {
-	x := x0
-	enterBox(&x, &bounds)
-	out := outcome{x: x, status: statusOutOfEvaluations, gradient: elem(math.NaN())}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := recv.evaluate(&x, &x0)
-	out.f, out.evaluations = fx, 1
-	if !finite(fx) || !finiteVec(&x) {
-		out.status = statusNonFiniteStart
-		return out
-	}
-	diffs := differences{bounds: bounds}
-	calls, ok := calibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+derivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e vec
-	out.evaluations += derivative(recv, &x, fx, &g, &diffs)
-	recv.keepGradient(&g, &x0)
-	observe(0, out.evaluations, &x, fx, &g, 0, 0)
+	var r descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(recv, unlimited)
+}
 
-	if !finiteVec(&g) {
-		out.status = statusNonFiniteGradient
-		return out
+// unlimited is a tick budget that never pauses a run.
+const unlimited = int(^uint(0) >> 1)
+
+// descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type descent struct {
+	lim       limits
+	stage     int         // what advance does next
+	diffs     differences // the box and the difference intervals
+	dir       direction   // the direction's memory
+	x, g, e   vec         // the point, its gradient and the gradient's error bound
+	d, s, y   vec         // the search direction, the last step and its gradient change
+	fx        elem        // f(x)
+	t, slope  elem        // the previous iteration's accepted step and slope
+	out, best outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     elem        // f(x0)
+	rises     int         // consecutive accepted steps that raised f above f(x0)
+	confirmed bool        // whether g and e at x come from confirmGradient or settle
+	stalled   bool        // whether the run can make no more progress at x
+	retried   int         // the iteration whose stall was retried with recalibrated differences
+	verify    int         // what to check at x before judging it again
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	stageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	stageJudge         // settle when asked (settleCalls), judge x, learn from the step: no calls otherwise
+	stageSearch        // the line search and the gradient at the accepted point: iterationCalls
+	stageOver          // the run has ended; out is its result
+)
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *descent) prepare(x0 vec, lim limits, bounds box) {
+	r.lim, r.stage = lim, stageBegin
+	r.diffs = differences{bounds: bounds}
+	r.x = x0
+	enterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = vec{}, vec{}, vec{}, vec{}, vec{}
+	r.out = outcome{x: r.x, f: elem(math.NaN()), status: statusOutOfEvaluations, gradient: elem(math.NaN())}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with statusRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, settleCalls and iterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *descent) advance(recv *receiver, budget int) outcome {
+	used := r.out.evaluations
+	for r.stage != stageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case stageBegin:
+			if left < 1+calibrationCost+derivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin(recv)
+		case stageJudge:
+			if r.verify != verifyNothing && left < settleCalls {
+				return r.paused()
+			}
+			r.judge(recv)
+		default:
+			if left < iterationCalls {
+				return r.paused()
+			}
+			r.search(recv)
+		}
 	}
-	var dir direction
-	dir.reset()
-	var d, xt, gt, s, y vec
-	t, slope := elem(stepInitial), elem(0) // the previous iteration's accepted step and slope
-	best := out                            // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                     // whether g and e at x come from confirmGradient or settle
-	stalled := false                       // whether the run can make no more progress at x
-	retried := -1                          // the iteration whose stall was retried with recalibrated differences
-	verify := verifyNothing                // what to check at x before judging it again
-	for {
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *descent) paused() outcome {
+	return r.best.ending(statusRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *descent) finish(end status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = stageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *descent) begin(recv *receiver) {
+	r.stage = stageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = recv.evaluate(&r.x, &r.g) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !finite(r.fx) || !finiteVec(&r.x) {
+		r.out.status = statusNonFiniteStart
+		return
+	}
+	calls, ok := calibrate(recv, &r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+derivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += derivative(recv, &r.x, r.fx, &r.g, &r.diffs)
+	observe(0, r.out.evaluations, &r.x, r.fx, &r.g, 0, 0)
+
+	if !finiteVec(&r.g) {
+		r.out.status = statusNonFiniteGradient
+		return
+	}
+	r.t, r.slope = stepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, verifyNothing
+	r.stage = stageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves stageSearch next when the run goes on.
+func (r *descent) judge(recv *receiver) {
+	switch {
+	case r.verify != verifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see confirmGradient and settle).
+		calls, ok := settle(recv, &r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == verifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(statusOutOfEvaluations)
+			return
+		}
+		if !finiteVec(&r.g) {
+			r.finish(statusNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = verifyNothing, true
+	case !r.confirmed:
+		gradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (derivativeCost == 0 || r.confirmed) {
+		r.out.status = statusGradientSmall
+		r.stage = stageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = verifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if derivativeCost == 0 {
+			r.finish(statusStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if stepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = verifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(statusDiverged)
+			return
+		}
+		curvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(statusOutOfIterations)
+		return
+	}
+	r.stage = stageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves stageJudge next when the run
+// goes on.
+func (r *descent) search(recv *receiver) {
+	searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := dot(&r.g, &r.d)
+	if !(now < 0) || !finiteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = dot(&r.g, &r.d)
+	}
+	first := elem(stepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := tinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt vec
+	found := lineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case searchOutOfBudget:
+		r.finish(statusOutOfEvaluations)
+		return
+	case searchDiverged:
+		r.finish(statusDiverged)
+		return
+	case searchExhausted, searchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see riseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := statusNoAcceptableStep
 		switch {
-		case verify != verifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see confirmGradient and settle).
-			calls, ok := settle(recv, &x, fx, &g, &e, &diffs, verify == verifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !finiteVec(&g) {
-				return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = verifyNothing, true
-		case !confirmed:
-			gradientError(&x, fx, &g, &e, &diffs)
+		case found.rising:
+			end = statusNoDecrease
+		case found.end == searchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = verifyStall, true, stageJudge
+			return
+		case found.end == searchTiny:
+			end = statusStalled
 		}
-		measure, floor := stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (derivativeCost == 0 || confirmed) {
-			out.status = statusGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = verifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if derivativeCost == 0 {
-				return best.ending(statusStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if stepWithin(&s, &x, lim.Step) {
-				verify, stalled = verifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(statusDiverged, out.iterations, out.evaluations)
-			}
-			curvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(statusOutOfIterations, out.iterations, out.evaluations)
-		}
-		searchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := dot(&g, &d)
-		if !(now < 0) || !finiteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			searchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = dot(&g, &d)
-		}
-		first := elem(stepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := tinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := lineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case searchOutOfBudget:
-			return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
-		case searchDiverged:
-			return best.ending(statusDiverged, out.iterations, out.evaluations)
-		case searchExhausted, searchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see riseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := statusNoAcceptableStep
-			switch {
-			case found.rising:
-				end = statusNoDecrease
-			case found.end == searchTiny && canSettle:
-				verify, stalled = verifyStall, true
-				continue
-			case found.end == searchTiny:
-				end = statusStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !finiteVec(&xt) {
-			return best.ending(statusNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+derivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, elem(math.NaN())
-					out.iterations++
-				}
-				return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += derivative(recv, &xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		difference(&s, &xt, &x)
-		difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, elem(math.NaN())
-		t, slope = found.step, now
-		observe(out.iterations, out.evaluations, &x, fx, &g, t, slope)
-
-		if !finiteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
-		}
+		r.finish(end)
+		return
 	}
+	if !finiteVec(&xt) {
+		r.finish(statusNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+derivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, elem(math.NaN())
+				r.out.iterations++
+			}
+			r.finish(statusOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += derivative(recv, &xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	difference(&r.s, &xt, &r.x)
+	difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, elem(math.NaN())
+	r.t, r.slope = found.step, now
+	observe(r.out.iterations, r.out.evaluations, &r.x, r.fx, &r.g, r.t, r.slope)
+
+	if !finiteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(statusNonFiniteGradient)
+		return
+	}
+	r.stage = stageJudge
 }
 
 // ending is the best point seen, reported with the run's end and counts.

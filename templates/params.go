@@ -30,6 +30,9 @@ var (
 	backtrackKind    = backtrackShrink
 	gradientTest     = testRelative
 	derivativeCost   = 0     // objective calls per gradient, set with derivativeSource
+	calibrationCost  = 0     // objective calls of choosing the difference intervals, set with derivativeSource
+	iterationCalls   = 40    // most objective calls of a line search and the gradient at its step, set with stepRule
+	settleCalls      = 0     // most objective calls of settle: calibrationCost + 2·derivativeCost, or dim for a combined objective
 	boxed            = false // whether the spec has bounds
 	combined         = false // whether the objective gives its gradient with its value
 )

@@ -55,19 +55,6 @@ func (r *receiver) evaluate(x, g *vec) elem {
 	return r.combinedFunc(x, g)
 }
 
-// keepGradient stands in for taking the start's gradient, which a
-// combined objective wrote into given when evaluate computed the start's
-// value (given is then x0's room, free once x holds the start: minimize
-// declares g only later), into g. gen writes g = given for a combined
-// objective and deletes the statement otherwise; each call is followed
-// by observe and a blank line, so that deleting both leaves the layout
-// intact.
-func (r *receiver) keepGradient(g, given *vec) {
-	if r.combinedFunc != nil {
-		*g = *given
-	}
-}
-
 // observe stands in for the hook of `thalweg trace`, called with the state
 // after the first gradient (iteration 0) and after every accepted step:
 // the objective calls so far, x, f(x) and ∇f(x), the accepted step t and
@@ -95,6 +82,7 @@ const (
 	statusNonFiniteGradient
 	statusNoDecrease
 	statusDiverged
+	statusRunning
 )
 
 // limits stands in for the spec's run-time stop limits.

@@ -66,8 +66,9 @@ func TestChecksOnEveryTarget(t *testing.T) {
 			}
 			generated := len(regexp.MustCompile(`(?m)^--- PASS: Test\w+(BFGS|LBFGS|CG)\w+`).FindAllString(out2, -1))
 			// Per problem, 3 directions × (analytic: converges, allocations,
-			// cap, gradient; central: the first three).
-			if want := 3 * (4 + 3) * len(Representative); generated != want {
+			// cap, gradient, solver ticks, solver allocations; central: all
+			// but the gradient).
+			if want := 3 * (6 + 5) * len(Representative); generated != want {
 				t.Errorf("%d generated mgh tests passed, want %d:\n%s", generated, want, out2)
 			}
 			t.Logf("%s%d generated mgh tests and %d published minima passed", out, generated, len(Representative))

@@ -105,6 +105,55 @@ func TestConcaveLeftStrongWolfeMTAlphaEm1GradientMatchesDifferences(t *testing.T
 	}
 }
 
+// TestConcaveLeftStrongWolfeMTAlphaEm1SolverTicks advances a ConcaveLeftStrongWolfeMTAlphaEm1Solver from the spec's start with budgets of ConcaveLeftStrongWolfeMTAlphaEm1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveLeftStrongWolfeMTAlphaEm1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveLeftStrongWolfeMTAlphaEm1SolverTicks(t *testing.T) {
+	want := ConcaveLeftStrongWolfeMTAlphaEm1(concaveLeftStrongWolfeMTAlphaEm1TestStart())
+	for _, budget := range []int{ConcaveLeftStrongWolfeMTAlphaEm1TickMinimum, ConcaveLeftStrongWolfeMTAlphaEm1TickMinimum + 1, 2 * ConcaveLeftStrongWolfeMTAlphaEm1TickMinimum, 7 * ConcaveLeftStrongWolfeMTAlphaEm1TickMinimum} {
+		var s ConcaveLeftStrongWolfeMTAlphaEm1Solver
+		s.Start(concaveLeftStrongWolfeMTAlphaEm1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveLeftStrongWolfeMTAlphaEm1Running {
+				if !concaveLeftStrongWolfeMTAlphaEm1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveLeftStrongWolfeMTAlphaEm1Solver
+	s.Start(concaveLeftStrongWolfeMTAlphaEm1TestStart())
+	if r := s.Advance(0); r.Status != ConcaveLeftStrongWolfeMTAlphaEm1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveLeftStrongWolfeMTAlphaEm1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveLeftStrongWolfeMTAlphaEm1SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveLeftStrongWolfeMTAlphaEm1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveLeftStrongWolfeMTAlphaEm1TestStart())
+		for s.Advance(ConcaveLeftStrongWolfeMTAlphaEm1TickMinimum).Status == ConcaveLeftStrongWolfeMTAlphaEm1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveLeftStrongWolfeMTAlphaEm1TestSameResult(a, b ConcaveLeftStrongWolfeMTAlphaEm1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveLeftStrongWolfeMTAlphaEm1 measures one whole run from the spec's start.
 func BenchmarkConcaveLeftStrongWolfeMTAlphaEm1(b *testing.B) {
 	var r ConcaveLeftStrongWolfeMTAlphaEm1Result

@@ -105,6 +105,55 @@ func TestConcaveLeftStrongWolfeNWAlphaE1GradientMatchesDifferences(t *testing.T)
 	}
 }
 
+// TestConcaveLeftStrongWolfeNWAlphaE1SolverTicks advances a ConcaveLeftStrongWolfeNWAlphaE1Solver from the spec's start with budgets of ConcaveLeftStrongWolfeNWAlphaE1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveLeftStrongWolfeNWAlphaE1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveLeftStrongWolfeNWAlphaE1SolverTicks(t *testing.T) {
+	want := ConcaveLeftStrongWolfeNWAlphaE1(concaveLeftStrongWolfeNWAlphaE1TestStart())
+	for _, budget := range []int{ConcaveLeftStrongWolfeNWAlphaE1TickMinimum, ConcaveLeftStrongWolfeNWAlphaE1TickMinimum + 1, 2 * ConcaveLeftStrongWolfeNWAlphaE1TickMinimum, 7 * ConcaveLeftStrongWolfeNWAlphaE1TickMinimum} {
+		var s ConcaveLeftStrongWolfeNWAlphaE1Solver
+		s.Start(concaveLeftStrongWolfeNWAlphaE1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveLeftStrongWolfeNWAlphaE1Running {
+				if !concaveLeftStrongWolfeNWAlphaE1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveLeftStrongWolfeNWAlphaE1Solver
+	s.Start(concaveLeftStrongWolfeNWAlphaE1TestStart())
+	if r := s.Advance(0); r.Status != ConcaveLeftStrongWolfeNWAlphaE1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveLeftStrongWolfeNWAlphaE1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveLeftStrongWolfeNWAlphaE1SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveLeftStrongWolfeNWAlphaE1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveLeftStrongWolfeNWAlphaE1TestStart())
+		for s.Advance(ConcaveLeftStrongWolfeNWAlphaE1TickMinimum).Status == ConcaveLeftStrongWolfeNWAlphaE1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveLeftStrongWolfeNWAlphaE1TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveLeftStrongWolfeNWAlphaE1TestSameResult(a, b ConcaveLeftStrongWolfeNWAlphaE1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveLeftStrongWolfeNWAlphaE1 measures one whole run from the spec's start.
 func BenchmarkConcaveLeftStrongWolfeNWAlphaE1(b *testing.B) {
 	var r ConcaveLeftStrongWolfeNWAlphaE1Result

@@ -26,6 +26,8 @@ const (
 	ConcaveLeftWolfeMTAlphaE1NoDecrease
 	// ConcaveLeftWolfeMTAlphaE1Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	ConcaveLeftWolfeMTAlphaE1Diverged
+	// ConcaveLeftWolfeMTAlphaE1Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	ConcaveLeftWolfeMTAlphaE1Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s ConcaveLeftWolfeMTAlphaE1Status) String() string {
 		return "no decrease"
 	case ConcaveLeftWolfeMTAlphaE1Diverged:
 		return "diverged"
+	case ConcaveLeftWolfeMTAlphaE1Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func ConcaveLeftWolfeMTAlphaE1WithLimits(x0 float64, limits ConcaveLeftWolfeMTAl
 	}
 }
 
+// ConcaveLeftWolfeMTAlphaE1TickMinimum is the smallest call budget with which every ConcaveLeftWolfeMTAlphaE1Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 72).
+const ConcaveLeftWolfeMTAlphaE1TickMinimum = 72
+
+// ConcaveLeftWolfeMTAlphaE1Solver is a run of ConcaveLeftWolfeMTAlphaE1 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (ConcaveLeftWolfeMTAlphaE1DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 72. A budget of at least ConcaveLeftWolfeMTAlphaE1TickMinimum = 72 progresses at every Advance; a smaller one may make no call. Advancing until the status is not ConcaveLeftWolfeMTAlphaE1Running ends exactly as ConcaveLeftWolfeMTAlphaE1WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): ConcaveLeftWolfeMTAlphaE1 and ConcaveLeftWolfeMTAlphaE1WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is ConcaveLeftWolfeMTAlphaE1Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type ConcaveLeftWolfeMTAlphaE1Solver struct {
+	run       concaveLeftWolfeMTAlphaE1Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    ConcaveLeftWolfeMTAlphaE1Limits  // the limits of the runs; ConcaveLeftWolfeMTAlphaE1DefaultLimits() until SetLimits
+	ownLimits bool                             // whether SetLimits has set limits
+	started   bool                             // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *ConcaveLeftWolfeMTAlphaE1Solver) SetLimits(limits ConcaveLeftWolfeMTAlphaE1Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *ConcaveLeftWolfeMTAlphaE1Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *ConcaveLeftWolfeMTAlphaE1Solver) StartFrom(from ConcaveLeftWolfeMTAlphaE1Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *ConcaveLeftWolfeMTAlphaE1Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *ConcaveLeftWolfeMTAlphaE1Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = ConcaveLeftWolfeMTAlphaE1DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, concaveLeftWolfeMTAlphaE1Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status ConcaveLeftWolfeMTAlphaE1Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See ConcaveLeftWolfeMTAlphaE1Solver for the budget rule and what advancing assumes of the objective.
+func (s *ConcaveLeftWolfeMTAlphaE1Solver) Advance(budget int) ConcaveLeftWolfeMTAlphaE1Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return ConcaveLeftWolfeMTAlphaE1Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of ConcaveLeftWolfeMTAlphaE1 from linesearch.toml; the kernels below read them.
 const (
-	concaveLeftWolfeMTAlphaE1StepInitial    = 1.958020050125313e+07  // step.initial
-	concaveLeftWolfeMTAlphaE1StepDecrease   = 0.01                   // step.decrease (c1)
-	concaveLeftWolfeMTAlphaE1StepCurvature  = 0.1                    // step.curvature (c2)
-	concaveLeftWolfeMTAlphaE1StepTrials     = 72                     // step.trials
-	concaveLeftWolfeMTAlphaE1DerivativeCost = 0                      // objective calls per gradient
-	concaveLeftWolfeMTAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	concaveLeftWolfeMTAlphaE1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	concaveLeftWolfeMTAlphaE1StepInitial     = 1.958020050125313e+07  // step.initial
+	concaveLeftWolfeMTAlphaE1StepDecrease    = 0.01                   // step.decrease (c1)
+	concaveLeftWolfeMTAlphaE1StepCurvature   = 0.1                    // step.curvature (c2)
+	concaveLeftWolfeMTAlphaE1StepTrials      = 72                     // step.trials
+	concaveLeftWolfeMTAlphaE1DerivativeCost  = 0                      // objective calls per gradient
+	concaveLeftWolfeMTAlphaE1CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	concaveLeftWolfeMTAlphaE1IterationCalls  = 72                     // most objective calls of one line search with the gradient at its step
+	concaveLeftWolfeMTAlphaE1SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	concaveLeftWolfeMTAlphaE1UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	concaveLeftWolfeMTAlphaE1LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // concaveLeftWolfeMTAlphaE1Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func concaveLeftWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlphaE1Limits, bounds concaveLeftWolfeMTAlphaE1Box) concaveLeftWolfeMTAlphaE1Outcome {
-	x := x0
-	concaveLeftWolfeMTAlphaE1EnterBox(&x, &bounds)
-	out := concaveLeftWolfeMTAlphaE1Outcome{x: x, status: ConcaveLeftWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := ConcaveLeft(x[0])
-	out.f, out.evaluations = fx, 1
-	if !concaveLeftWolfeMTAlphaE1Finite(fx) || !concaveLeftWolfeMTAlphaE1FiniteVec(&x) {
-		out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteStart
-		return out
-	}
-	diffs := concaveLeftWolfeMTAlphaE1Differences{bounds: bounds}
-	calls, ok := concaveLeftWolfeMTAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+concaveLeftWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += concaveLeftWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
-
-	if !concaveLeftWolfeMTAlphaE1FiniteVec(&g) {
-		out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteGradient
-		return out
-	}
-	var dir concaveLeftWolfeMTAlphaE1Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(concaveLeftWolfeMTAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                           // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeMTAlphaE1ConfirmGradient or settle
-	stalled := false                                                      // whether the run can make no more progress at x
-	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
-	verify := concaveLeftWolfeMTAlphaE1VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != concaveLeftWolfeMTAlphaE1VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see concaveLeftWolfeMTAlphaE1ConfirmGradient and settle).
-			calls, ok := concaveLeftWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftWolfeMTAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftWolfeMTAlphaE1FiniteVec(&g) {
-				return best.ending(ConcaveLeftWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = concaveLeftWolfeMTAlphaE1VerifyNothing, true
-		case !confirmed:
-			concaveLeftWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := concaveLeftWolfeMTAlphaE1Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, concaveLeftWolfeMTAlphaE1Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * concaveLeftWolfeMTAlphaE1Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (concaveLeftWolfeMTAlphaE1DerivativeCost == 0 || confirmed) {
-			out.status = ConcaveLeftWolfeMTAlphaE1GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = concaveLeftWolfeMTAlphaE1VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if concaveLeftWolfeMTAlphaE1DerivativeCost == 0 {
-				return best.ending(ConcaveLeftWolfeMTAlphaE1Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if concaveLeftWolfeMTAlphaE1StepWithin(&s, &x, lim.Step) {
-				verify, stalled = concaveLeftWolfeMTAlphaE1VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(ConcaveLeftWolfeMTAlphaE1Diverged, out.iterations, out.evaluations)
-			}
-			concaveLeftWolfeMTAlphaE1CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(ConcaveLeftWolfeMTAlphaE1OutOfIterations, out.iterations, out.evaluations)
-		}
-		concaveLeftWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := concaveLeftWolfeMTAlphaE1Dot(&g, &d)
-		if !(now < 0) || !concaveLeftWolfeMTAlphaE1FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			concaveLeftWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = concaveLeftWolfeMTAlphaE1Dot(&g, &d)
-		}
-		first := float64(concaveLeftWolfeMTAlphaE1StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := concaveLeftWolfeMTAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftWolfeMTAlphaE1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case concaveLeftWolfeMTAlphaE1SearchOutOfBudget:
-			return best.ending(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-		case concaveLeftWolfeMTAlphaE1SearchDiverged:
-			return best.ending(ConcaveLeftWolfeMTAlphaE1Diverged, out.iterations, out.evaluations)
-		case concaveLeftWolfeMTAlphaE1SearchExhausted, concaveLeftWolfeMTAlphaE1SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see concaveLeftWolfeMTAlphaE1RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := ConcaveLeftWolfeMTAlphaE1NoAcceptableStep
-			switch {
-			case found.rising:
-				end = ConcaveLeftWolfeMTAlphaE1NoDecrease
-			case found.end == concaveLeftWolfeMTAlphaE1SearchTiny && canSettle:
-				verify, stalled = concaveLeftWolfeMTAlphaE1VerifyStall, true
-				continue
-			case found.end == concaveLeftWolfeMTAlphaE1SearchTiny:
-				end = ConcaveLeftWolfeMTAlphaE1Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !concaveLeftWolfeMTAlphaE1FiniteVec(&xt) {
-			return best.ending(ConcaveLeftWolfeMTAlphaE1NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+concaveLeftWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += concaveLeftWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		concaveLeftWolfeMTAlphaE1Difference(&s, &xt, &x)
-		concaveLeftWolfeMTAlphaE1Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !concaveLeftWolfeMTAlphaE1FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(ConcaveLeftWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r concaveLeftWolfeMTAlphaE1Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(concaveLeftWolfeMTAlphaE1Unlimited)
 }
 
 // concaveLeftWolfeMTAlphaE1Outcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o concaveLeftWolfeMTAlphaE1Outcome) ending(end ConcaveLeftWolfeMTAlphaE1St
 	return o
 }
 
-// concaveLeftWolfeMTAlphaE1EnterBox: without bounds every start is inside.
-func concaveLeftWolfeMTAlphaE1EnterBox(x *[1]float64, b *concaveLeftWolfeMTAlphaE1Box) {}
-
-// concaveLeftWolfeMTAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func concaveLeftWolfeMTAlphaE1Finite(v float64) bool {
-	return v >= -concaveLeftWolfeMTAlphaE1LargestFinite && v <= concaveLeftWolfeMTAlphaE1LargestFinite
+// concaveLeftWolfeMTAlphaE1Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type concaveLeftWolfeMTAlphaE1Descent struct {
+	lim       ConcaveLeftWolfeMTAlphaE1Limits
+	stage     int                                  // what advance does next
+	diffs     concaveLeftWolfeMTAlphaE1Differences // the box and the difference intervals
+	dir       concaveLeftWolfeMTAlphaE1Direction   // the direction's memory
+	x, g, e   [1]float64                           // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                           // the search direction, the last step and its gradient change
+	fx        float64                              // f(x)
+	t, slope  float64                              // the previous iteration's accepted step and slope
+	out, best concaveLeftWolfeMTAlphaE1Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                              // f(x0)
+	rises     int                                  // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                 // whether g and e at x come from concaveLeftWolfeMTAlphaE1ConfirmGradient or settle
+	stalled   bool                                 // whether the run can make no more progress at x
+	retried   int                                  // the iteration whose stall was retried with recalibrated differences
+	verify    int                                  // what to check at x before judging it again
 }
 
-// concaveLeftWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
-func concaveLeftWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveLeftWolfeMTAlphaE1Finite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *concaveLeftWolfeMTAlphaE1Descent) prepare(x0 [1]float64, lim ConcaveLeftWolfeMTAlphaE1Limits, bounds concaveLeftWolfeMTAlphaE1Box) {
+	r.lim, r.stage = lim, concaveLeftWolfeMTAlphaE1StageBegin
+	r.diffs = concaveLeftWolfeMTAlphaE1Differences{bounds: bounds}
+	r.x = x0
+	concaveLeftWolfeMTAlphaE1EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = concaveLeftWolfeMTAlphaE1Outcome{x: r.x, f: math.NaN(), status: ConcaveLeftWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *concaveLeftWolfeMTAlphaE1Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with ConcaveLeftWolfeMTAlphaE1Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, concaveLeftWolfeMTAlphaE1SettleCalls and concaveLeftWolfeMTAlphaE1IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *concaveLeftWolfeMTAlphaE1Descent) advance(budget int) concaveLeftWolfeMTAlphaE1Outcome {
+	used := r.out.evaluations
+	for r.stage != concaveLeftWolfeMTAlphaE1StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case concaveLeftWolfeMTAlphaE1StageBegin:
+			if left < 1+concaveLeftWolfeMTAlphaE1CalibrationCost+concaveLeftWolfeMTAlphaE1DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case concaveLeftWolfeMTAlphaE1StageJudge:
+			if r.verify != concaveLeftWolfeMTAlphaE1VerifyNothing && left < concaveLeftWolfeMTAlphaE1SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < concaveLeftWolfeMTAlphaE1IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *concaveLeftWolfeMTAlphaE1Descent) paused() concaveLeftWolfeMTAlphaE1Outcome {
+	return r.best.ending(ConcaveLeftWolfeMTAlphaE1Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *concaveLeftWolfeMTAlphaE1Descent) finish(end ConcaveLeftWolfeMTAlphaE1Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = concaveLeftWolfeMTAlphaE1StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *concaveLeftWolfeMTAlphaE1Descent) begin() {
+	r.stage = concaveLeftWolfeMTAlphaE1StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !concaveLeftWolfeMTAlphaE1Finite(r.fx) || !concaveLeftWolfeMTAlphaE1FiniteVec(&r.x) {
+		r.out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteStart
+		return
+	}
+	calls, ok := concaveLeftWolfeMTAlphaE1Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+concaveLeftWolfeMTAlphaE1DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += concaveLeftWolfeMTAlphaE1Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !concaveLeftWolfeMTAlphaE1FiniteVec(&r.g) {
+		r.out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteGradient
+		return
+	}
+	r.t, r.slope = concaveLeftWolfeMTAlphaE1StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, concaveLeftWolfeMTAlphaE1VerifyNothing
+	r.stage = concaveLeftWolfeMTAlphaE1StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves concaveLeftWolfeMTAlphaE1StageSearch next when the run goes on.
+func (r *concaveLeftWolfeMTAlphaE1Descent) judge() {
+	switch {
+	case r.verify != concaveLeftWolfeMTAlphaE1VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see concaveLeftWolfeMTAlphaE1ConfirmGradient and settle).
+		calls, ok := concaveLeftWolfeMTAlphaE1Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == concaveLeftWolfeMTAlphaE1VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations)
+			return
+		}
+		if !concaveLeftWolfeMTAlphaE1FiniteVec(&r.g) {
+			r.finish(ConcaveLeftWolfeMTAlphaE1NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = concaveLeftWolfeMTAlphaE1VerifyNothing, true
+	case !r.confirmed:
+		concaveLeftWolfeMTAlphaE1GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := concaveLeftWolfeMTAlphaE1Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, concaveLeftWolfeMTAlphaE1Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * concaveLeftWolfeMTAlphaE1Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (concaveLeftWolfeMTAlphaE1DerivativeCost == 0 || r.confirmed) {
+		r.out.status = ConcaveLeftWolfeMTAlphaE1GradientSmall
+		r.stage = concaveLeftWolfeMTAlphaE1StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = concaveLeftWolfeMTAlphaE1VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if concaveLeftWolfeMTAlphaE1DerivativeCost == 0 {
+			r.finish(ConcaveLeftWolfeMTAlphaE1Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if concaveLeftWolfeMTAlphaE1StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = concaveLeftWolfeMTAlphaE1VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(ConcaveLeftWolfeMTAlphaE1Diverged)
+			return
+		}
+		concaveLeftWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(ConcaveLeftWolfeMTAlphaE1OutOfIterations)
+		return
+	}
+	r.stage = concaveLeftWolfeMTAlphaE1StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves concaveLeftWolfeMTAlphaE1StageJudge next when the run
+// goes on.
+func (r *concaveLeftWolfeMTAlphaE1Descent) search() {
+	concaveLeftWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := concaveLeftWolfeMTAlphaE1Dot(&r.g, &r.d)
+	if !(now < 0) || !concaveLeftWolfeMTAlphaE1FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		concaveLeftWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = concaveLeftWolfeMTAlphaE1Dot(&r.g, &r.d)
+	}
+	first := float64(concaveLeftWolfeMTAlphaE1StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := concaveLeftWolfeMTAlphaE1TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := concaveLeftWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case concaveLeftWolfeMTAlphaE1SearchOutOfBudget:
+		r.finish(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations)
+		return
+	case concaveLeftWolfeMTAlphaE1SearchDiverged:
+		r.finish(ConcaveLeftWolfeMTAlphaE1Diverged)
+		return
+	case concaveLeftWolfeMTAlphaE1SearchExhausted, concaveLeftWolfeMTAlphaE1SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see concaveLeftWolfeMTAlphaE1RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := ConcaveLeftWolfeMTAlphaE1NoAcceptableStep
+		switch {
+		case found.rising:
+			end = ConcaveLeftWolfeMTAlphaE1NoDecrease
+		case found.end == concaveLeftWolfeMTAlphaE1SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = concaveLeftWolfeMTAlphaE1VerifyStall, true, concaveLeftWolfeMTAlphaE1StageJudge
+			return
+		case found.end == concaveLeftWolfeMTAlphaE1SearchTiny:
+			end = ConcaveLeftWolfeMTAlphaE1Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !concaveLeftWolfeMTAlphaE1FiniteVec(&xt) {
+		r.finish(ConcaveLeftWolfeMTAlphaE1NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+concaveLeftWolfeMTAlphaE1DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += concaveLeftWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	concaveLeftWolfeMTAlphaE1Difference(&r.s, &xt, &r.x)
+	concaveLeftWolfeMTAlphaE1Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !concaveLeftWolfeMTAlphaE1FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(ConcaveLeftWolfeMTAlphaE1NonFiniteGradient)
+		return
+	}
+	r.stage = concaveLeftWolfeMTAlphaE1StageJudge
 }
 
 // concaveLeftWolfeMTAlphaE1Differences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type concaveLeftWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeMTAlphaE1RoundingFloor)
 	bounds    concaveLeftWolfeMTAlphaE1Box
-}
-
-// concaveLeftWolfeMTAlphaE1Calibrate: an analytic gradient needs no intervals.
-func concaveLeftWolfeMTAlphaE1Calibrate(x *[1]float64, fx float64, diffs *concaveLeftWolfeMTAlphaE1Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// concaveLeftWolfeMTAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) int {
-	g[0] = ConcaveLeftDeriv(x[0])
-	return 0
 }
 
 // concaveLeftWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
@@ -447,12 +596,57 @@ func concaveLeftWolfeMTAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// concaveLeftWolfeMTAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func concaveLeftWolfeMTAlphaE1Finite(v float64) bool {
+	return v >= -concaveLeftWolfeMTAlphaE1LargestFinite && v <= concaveLeftWolfeMTAlphaE1LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	concaveLeftWolfeMTAlphaE1StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	concaveLeftWolfeMTAlphaE1StageJudge         // settle when asked (concaveLeftWolfeMTAlphaE1SettleCalls), judge x, learn from the step: no calls otherwise
+	concaveLeftWolfeMTAlphaE1StageSearch        // the line search and the gradient at the accepted point: concaveLeftWolfeMTAlphaE1IterationCalls
+	concaveLeftWolfeMTAlphaE1StageOver          // the run has ended; out is its result
+)
+
+// concaveLeftWolfeMTAlphaE1EnterBox: without bounds every start is inside.
+func concaveLeftWolfeMTAlphaE1EnterBox(x *[1]float64, b *concaveLeftWolfeMTAlphaE1Box) {}
+
 // What minimize checks at x before judging it again.
 const (
 	concaveLeftWolfeMTAlphaE1VerifyNothing = iota
 	concaveLeftWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
+func concaveLeftWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !concaveLeftWolfeMTAlphaE1Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// concaveLeftWolfeMTAlphaE1Calibrate: an analytic gradient needs no intervals.
+func concaveLeftWolfeMTAlphaE1Calibrate(x *[1]float64, fx float64, diffs *concaveLeftWolfeMTAlphaE1Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// concaveLeftWolfeMTAlphaE1Derivative calls the user's gradient; it costs no objective calls.
+func concaveLeftWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) int {
+	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
+}
 
 // concaveLeftWolfeMTAlphaE1Settle prepares a verdict at x: with differences it confirms the
 // gradient (concaveLeftWolfeMTAlphaE1ConfirmGradient), and at a stall it adds to each error bound
@@ -969,3 +1163,6 @@ func concaveLeftWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftWolfeMTAlphaE1Unlimited is a tick budget that never pauses a run.
+const concaveLeftWolfeMTAlphaE1Unlimited = int(^uint(0) >> 1)

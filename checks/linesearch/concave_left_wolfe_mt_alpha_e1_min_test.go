@@ -105,6 +105,55 @@ func TestConcaveLeftWolfeMTAlphaE1GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestConcaveLeftWolfeMTAlphaE1SolverTicks advances a ConcaveLeftWolfeMTAlphaE1Solver from the spec's start with budgets of ConcaveLeftWolfeMTAlphaE1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveLeftWolfeMTAlphaE1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveLeftWolfeMTAlphaE1SolverTicks(t *testing.T) {
+	want := ConcaveLeftWolfeMTAlphaE1(concaveLeftWolfeMTAlphaE1TestStart())
+	for _, budget := range []int{ConcaveLeftWolfeMTAlphaE1TickMinimum, ConcaveLeftWolfeMTAlphaE1TickMinimum + 1, 2 * ConcaveLeftWolfeMTAlphaE1TickMinimum, 7 * ConcaveLeftWolfeMTAlphaE1TickMinimum} {
+		var s ConcaveLeftWolfeMTAlphaE1Solver
+		s.Start(concaveLeftWolfeMTAlphaE1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveLeftWolfeMTAlphaE1Running {
+				if !concaveLeftWolfeMTAlphaE1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveLeftWolfeMTAlphaE1Solver
+	s.Start(concaveLeftWolfeMTAlphaE1TestStart())
+	if r := s.Advance(0); r.Status != ConcaveLeftWolfeMTAlphaE1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveLeftWolfeMTAlphaE1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveLeftWolfeMTAlphaE1SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveLeftWolfeMTAlphaE1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveLeftWolfeMTAlphaE1TestStart())
+		for s.Advance(ConcaveLeftWolfeMTAlphaE1TickMinimum).Status == ConcaveLeftWolfeMTAlphaE1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveLeftWolfeMTAlphaE1TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveLeftWolfeMTAlphaE1TestSameResult(a, b ConcaveLeftWolfeMTAlphaE1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveLeftWolfeMTAlphaE1 measures one whole run from the spec's start.
 func BenchmarkConcaveLeftWolfeMTAlphaE1(b *testing.B) {
 	var r ConcaveLeftWolfeMTAlphaE1Result

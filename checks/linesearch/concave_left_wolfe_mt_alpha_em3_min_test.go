@@ -105,6 +105,55 @@ func TestConcaveLeftWolfeMTAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestConcaveLeftWolfeMTAlphaEm3SolverTicks advances a ConcaveLeftWolfeMTAlphaEm3Solver from the spec's start with budgets of ConcaveLeftWolfeMTAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveLeftWolfeMTAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveLeftWolfeMTAlphaEm3SolverTicks(t *testing.T) {
+	want := ConcaveLeftWolfeMTAlphaEm3(concaveLeftWolfeMTAlphaEm3TestStart())
+	for _, budget := range []int{ConcaveLeftWolfeMTAlphaEm3TickMinimum, ConcaveLeftWolfeMTAlphaEm3TickMinimum + 1, 2 * ConcaveLeftWolfeMTAlphaEm3TickMinimum, 7 * ConcaveLeftWolfeMTAlphaEm3TickMinimum} {
+		var s ConcaveLeftWolfeMTAlphaEm3Solver
+		s.Start(concaveLeftWolfeMTAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveLeftWolfeMTAlphaEm3Running {
+				if !concaveLeftWolfeMTAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveLeftWolfeMTAlphaEm3Solver
+	s.Start(concaveLeftWolfeMTAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != ConcaveLeftWolfeMTAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveLeftWolfeMTAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveLeftWolfeMTAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveLeftWolfeMTAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveLeftWolfeMTAlphaEm3TestStart())
+		for s.Advance(ConcaveLeftWolfeMTAlphaEm3TickMinimum).Status == ConcaveLeftWolfeMTAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveLeftWolfeMTAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveLeftWolfeMTAlphaEm3TestSameResult(a, b ConcaveLeftWolfeMTAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveLeftWolfeMTAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkConcaveLeftWolfeMTAlphaEm3(b *testing.B) {
 	var r ConcaveLeftWolfeMTAlphaEm3Result

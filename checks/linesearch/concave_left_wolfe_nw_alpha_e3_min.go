@@ -26,6 +26,8 @@ const (
 	ConcaveLeftWolfeNWAlphaE3NoDecrease
 	// ConcaveLeftWolfeNWAlphaE3Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	ConcaveLeftWolfeNWAlphaE3Diverged
+	// ConcaveLeftWolfeNWAlphaE3Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	ConcaveLeftWolfeNWAlphaE3Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s ConcaveLeftWolfeNWAlphaE3Status) String() string {
 		return "no decrease"
 	case ConcaveLeftWolfeNWAlphaE3Diverged:
 		return "diverged"
+	case ConcaveLeftWolfeNWAlphaE3Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func ConcaveLeftWolfeNWAlphaE3WithLimits(x0 float64, limits ConcaveLeftWolfeNWAl
 	}
 }
 
+// ConcaveLeftWolfeNWAlphaE3TickMinimum is the smallest call budget with which every ConcaveLeftWolfeNWAlphaE3Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 79).
+const ConcaveLeftWolfeNWAlphaE3TickMinimum = 79
+
+// ConcaveLeftWolfeNWAlphaE3Solver is a run of ConcaveLeftWolfeNWAlphaE3 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (ConcaveLeftWolfeNWAlphaE3DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 79. A budget of at least ConcaveLeftWolfeNWAlphaE3TickMinimum = 79 progresses at every Advance; a smaller one may make no call. Advancing until the status is not ConcaveLeftWolfeNWAlphaE3Running ends exactly as ConcaveLeftWolfeNWAlphaE3WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): ConcaveLeftWolfeNWAlphaE3 and ConcaveLeftWolfeNWAlphaE3WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is ConcaveLeftWolfeNWAlphaE3Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type ConcaveLeftWolfeNWAlphaE3Solver struct {
+	run       concaveLeftWolfeNWAlphaE3Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    ConcaveLeftWolfeNWAlphaE3Limits  // the limits of the runs; ConcaveLeftWolfeNWAlphaE3DefaultLimits() until SetLimits
+	ownLimits bool                             // whether SetLimits has set limits
+	started   bool                             // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *ConcaveLeftWolfeNWAlphaE3Solver) SetLimits(limits ConcaveLeftWolfeNWAlphaE3Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *ConcaveLeftWolfeNWAlphaE3Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *ConcaveLeftWolfeNWAlphaE3Solver) StartFrom(from ConcaveLeftWolfeNWAlphaE3Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *ConcaveLeftWolfeNWAlphaE3Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *ConcaveLeftWolfeNWAlphaE3Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = ConcaveLeftWolfeNWAlphaE3DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, concaveLeftWolfeNWAlphaE3Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status ConcaveLeftWolfeNWAlphaE3Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See ConcaveLeftWolfeNWAlphaE3Solver for the budget rule and what advancing assumes of the objective.
+func (s *ConcaveLeftWolfeNWAlphaE3Solver) Advance(budget int) ConcaveLeftWolfeNWAlphaE3Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return ConcaveLeftWolfeNWAlphaE3Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of ConcaveLeftWolfeNWAlphaE3 from linesearch.toml; the kernels below read them.
 const (
-	concaveLeftWolfeNWAlphaE3StepInitial    = 1.958020050125313e+09  // step.initial
-	concaveLeftWolfeNWAlphaE3StepDecrease   = 0.0001                 // step.decrease (c1)
-	concaveLeftWolfeNWAlphaE3StepCurvature  = 0.9                    // step.curvature (c2)
-	concaveLeftWolfeNWAlphaE3StepTrials     = 79                     // step.trials
-	concaveLeftWolfeNWAlphaE3DerivativeCost = 0                      // objective calls per gradient
-	concaveLeftWolfeNWAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	concaveLeftWolfeNWAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	concaveLeftWolfeNWAlphaE3StepInitial     = 1.958020050125313e+09  // step.initial
+	concaveLeftWolfeNWAlphaE3StepDecrease    = 0.0001                 // step.decrease (c1)
+	concaveLeftWolfeNWAlphaE3StepCurvature   = 0.9                    // step.curvature (c2)
+	concaveLeftWolfeNWAlphaE3StepTrials      = 79                     // step.trials
+	concaveLeftWolfeNWAlphaE3DerivativeCost  = 0                      // objective calls per gradient
+	concaveLeftWolfeNWAlphaE3CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	concaveLeftWolfeNWAlphaE3IterationCalls  = 79                     // most objective calls of one line search with the gradient at its step
+	concaveLeftWolfeNWAlphaE3SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	concaveLeftWolfeNWAlphaE3UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	concaveLeftWolfeNWAlphaE3LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // concaveLeftWolfeNWAlphaE3Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlphaE3Limits, bounds concaveLeftWolfeNWAlphaE3Box) concaveLeftWolfeNWAlphaE3Outcome {
-	x := x0
-	concaveLeftWolfeNWAlphaE3EnterBox(&x, &bounds)
-	out := concaveLeftWolfeNWAlphaE3Outcome{x: x, status: ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := ConcaveLeft(x[0])
-	out.f, out.evaluations = fx, 1
-	if !concaveLeftWolfeNWAlphaE3Finite(fx) || !concaveLeftWolfeNWAlphaE3FiniteVec(&x) {
-		out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteStart
-		return out
-	}
-	diffs := concaveLeftWolfeNWAlphaE3Differences{bounds: bounds}
-	calls, ok := concaveLeftWolfeNWAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+concaveLeftWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += concaveLeftWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
-
-	if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
-		out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteGradient
-		return out
-	}
-	var dir concaveLeftWolfeNWAlphaE3Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(concaveLeftWolfeNWAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                           // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeNWAlphaE3ConfirmGradient or settle
-	stalled := false                                                      // whether the run can make no more progress at x
-	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
-	verify := concaveLeftWolfeNWAlphaE3VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != concaveLeftWolfeNWAlphaE3VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see concaveLeftWolfeNWAlphaE3ConfirmGradient and settle).
-			calls, ok := concaveLeftWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftWolfeNWAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
-				return best.ending(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = concaveLeftWolfeNWAlphaE3VerifyNothing, true
-		case !confirmed:
-			concaveLeftWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := concaveLeftWolfeNWAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, concaveLeftWolfeNWAlphaE3Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * concaveLeftWolfeNWAlphaE3Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (concaveLeftWolfeNWAlphaE3DerivativeCost == 0 || confirmed) {
-			out.status = ConcaveLeftWolfeNWAlphaE3GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = concaveLeftWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if concaveLeftWolfeNWAlphaE3DerivativeCost == 0 {
-				return best.ending(ConcaveLeftWolfeNWAlphaE3Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if concaveLeftWolfeNWAlphaE3StepWithin(&s, &x, lim.Step) {
-				verify, stalled = concaveLeftWolfeNWAlphaE3VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(ConcaveLeftWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
-			}
-			concaveLeftWolfeNWAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfIterations, out.iterations, out.evaluations)
-		}
-		concaveLeftWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := concaveLeftWolfeNWAlphaE3Dot(&g, &d)
-		if !(now < 0) || !concaveLeftWolfeNWAlphaE3FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			concaveLeftWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = concaveLeftWolfeNWAlphaE3Dot(&g, &d)
-		}
-		first := float64(concaveLeftWolfeNWAlphaE3StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := concaveLeftWolfeNWAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftWolfeNWAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case concaveLeftWolfeNWAlphaE3SearchOutOfBudget:
-			return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-		case concaveLeftWolfeNWAlphaE3SearchDiverged:
-			return best.ending(ConcaveLeftWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
-		case concaveLeftWolfeNWAlphaE3SearchExhausted, concaveLeftWolfeNWAlphaE3SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see concaveLeftWolfeNWAlphaE3RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := ConcaveLeftWolfeNWAlphaE3NoAcceptableStep
-			switch {
-			case found.rising:
-				end = ConcaveLeftWolfeNWAlphaE3NoDecrease
-			case found.end == concaveLeftWolfeNWAlphaE3SearchTiny && canSettle:
-				verify, stalled = concaveLeftWolfeNWAlphaE3VerifyStall, true
-				continue
-			case found.end == concaveLeftWolfeNWAlphaE3SearchTiny:
-				end = ConcaveLeftWolfeNWAlphaE3Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !concaveLeftWolfeNWAlphaE3FiniteVec(&xt) {
-			return best.ending(ConcaveLeftWolfeNWAlphaE3NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+concaveLeftWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += concaveLeftWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		concaveLeftWolfeNWAlphaE3Difference(&s, &xt, &x)
-		concaveLeftWolfeNWAlphaE3Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r concaveLeftWolfeNWAlphaE3Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(concaveLeftWolfeNWAlphaE3Unlimited)
 }
 
 // concaveLeftWolfeNWAlphaE3Outcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o concaveLeftWolfeNWAlphaE3Outcome) ending(end ConcaveLeftWolfeNWAlphaE3St
 	return o
 }
 
-// concaveLeftWolfeNWAlphaE3EnterBox: without bounds every start is inside.
-func concaveLeftWolfeNWAlphaE3EnterBox(x *[1]float64, b *concaveLeftWolfeNWAlphaE3Box) {}
-
-// concaveLeftWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func concaveLeftWolfeNWAlphaE3Finite(v float64) bool {
-	return v >= -concaveLeftWolfeNWAlphaE3LargestFinite && v <= concaveLeftWolfeNWAlphaE3LargestFinite
+// concaveLeftWolfeNWAlphaE3Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type concaveLeftWolfeNWAlphaE3Descent struct {
+	lim       ConcaveLeftWolfeNWAlphaE3Limits
+	stage     int                                  // what advance does next
+	diffs     concaveLeftWolfeNWAlphaE3Differences // the box and the difference intervals
+	dir       concaveLeftWolfeNWAlphaE3Direction   // the direction's memory
+	x, g, e   [1]float64                           // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                           // the search direction, the last step and its gradient change
+	fx        float64                              // f(x)
+	t, slope  float64                              // the previous iteration's accepted step and slope
+	out, best concaveLeftWolfeNWAlphaE3Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                              // f(x0)
+	rises     int                                  // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                 // whether g and e at x come from concaveLeftWolfeNWAlphaE3ConfirmGradient or settle
+	stalled   bool                                 // whether the run can make no more progress at x
+	retried   int                                  // the iteration whose stall was retried with recalibrated differences
+	verify    int                                  // what to check at x before judging it again
 }
 
-// concaveLeftWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
-func concaveLeftWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveLeftWolfeNWAlphaE3Finite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *concaveLeftWolfeNWAlphaE3Descent) prepare(x0 [1]float64, lim ConcaveLeftWolfeNWAlphaE3Limits, bounds concaveLeftWolfeNWAlphaE3Box) {
+	r.lim, r.stage = lim, concaveLeftWolfeNWAlphaE3StageBegin
+	r.diffs = concaveLeftWolfeNWAlphaE3Differences{bounds: bounds}
+	r.x = x0
+	concaveLeftWolfeNWAlphaE3EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = concaveLeftWolfeNWAlphaE3Outcome{x: r.x, f: math.NaN(), status: ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *concaveLeftWolfeNWAlphaE3Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with ConcaveLeftWolfeNWAlphaE3Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, concaveLeftWolfeNWAlphaE3SettleCalls and concaveLeftWolfeNWAlphaE3IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *concaveLeftWolfeNWAlphaE3Descent) advance(budget int) concaveLeftWolfeNWAlphaE3Outcome {
+	used := r.out.evaluations
+	for r.stage != concaveLeftWolfeNWAlphaE3StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case concaveLeftWolfeNWAlphaE3StageBegin:
+			if left < 1+concaveLeftWolfeNWAlphaE3CalibrationCost+concaveLeftWolfeNWAlphaE3DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case concaveLeftWolfeNWAlphaE3StageJudge:
+			if r.verify != concaveLeftWolfeNWAlphaE3VerifyNothing && left < concaveLeftWolfeNWAlphaE3SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < concaveLeftWolfeNWAlphaE3IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *concaveLeftWolfeNWAlphaE3Descent) paused() concaveLeftWolfeNWAlphaE3Outcome {
+	return r.best.ending(ConcaveLeftWolfeNWAlphaE3Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *concaveLeftWolfeNWAlphaE3Descent) finish(end ConcaveLeftWolfeNWAlphaE3Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = concaveLeftWolfeNWAlphaE3StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *concaveLeftWolfeNWAlphaE3Descent) begin() {
+	r.stage = concaveLeftWolfeNWAlphaE3StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !concaveLeftWolfeNWAlphaE3Finite(r.fx) || !concaveLeftWolfeNWAlphaE3FiniteVec(&r.x) {
+		r.out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteStart
+		return
+	}
+	calls, ok := concaveLeftWolfeNWAlphaE3Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+concaveLeftWolfeNWAlphaE3DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += concaveLeftWolfeNWAlphaE3Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !concaveLeftWolfeNWAlphaE3FiniteVec(&r.g) {
+		r.out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteGradient
+		return
+	}
+	r.t, r.slope = concaveLeftWolfeNWAlphaE3StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, concaveLeftWolfeNWAlphaE3VerifyNothing
+	r.stage = concaveLeftWolfeNWAlphaE3StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves concaveLeftWolfeNWAlphaE3StageSearch next when the run goes on.
+func (r *concaveLeftWolfeNWAlphaE3Descent) judge() {
+	switch {
+	case r.verify != concaveLeftWolfeNWAlphaE3VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see concaveLeftWolfeNWAlphaE3ConfirmGradient and settle).
+		calls, ok := concaveLeftWolfeNWAlphaE3Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == concaveLeftWolfeNWAlphaE3VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations)
+			return
+		}
+		if !concaveLeftWolfeNWAlphaE3FiniteVec(&r.g) {
+			r.finish(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = concaveLeftWolfeNWAlphaE3VerifyNothing, true
+	case !r.confirmed:
+		concaveLeftWolfeNWAlphaE3GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := concaveLeftWolfeNWAlphaE3Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, concaveLeftWolfeNWAlphaE3Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * concaveLeftWolfeNWAlphaE3Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (concaveLeftWolfeNWAlphaE3DerivativeCost == 0 || r.confirmed) {
+		r.out.status = ConcaveLeftWolfeNWAlphaE3GradientSmall
+		r.stage = concaveLeftWolfeNWAlphaE3StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = concaveLeftWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if concaveLeftWolfeNWAlphaE3DerivativeCost == 0 {
+			r.finish(ConcaveLeftWolfeNWAlphaE3Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if concaveLeftWolfeNWAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = concaveLeftWolfeNWAlphaE3VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(ConcaveLeftWolfeNWAlphaE3Diverged)
+			return
+		}
+		concaveLeftWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(ConcaveLeftWolfeNWAlphaE3OutOfIterations)
+		return
+	}
+	r.stage = concaveLeftWolfeNWAlphaE3StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves concaveLeftWolfeNWAlphaE3StageJudge next when the run
+// goes on.
+func (r *concaveLeftWolfeNWAlphaE3Descent) search() {
+	concaveLeftWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := concaveLeftWolfeNWAlphaE3Dot(&r.g, &r.d)
+	if !(now < 0) || !concaveLeftWolfeNWAlphaE3FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		concaveLeftWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = concaveLeftWolfeNWAlphaE3Dot(&r.g, &r.d)
+	}
+	first := float64(concaveLeftWolfeNWAlphaE3StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := concaveLeftWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := concaveLeftWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case concaveLeftWolfeNWAlphaE3SearchOutOfBudget:
+		r.finish(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations)
+		return
+	case concaveLeftWolfeNWAlphaE3SearchDiverged:
+		r.finish(ConcaveLeftWolfeNWAlphaE3Diverged)
+		return
+	case concaveLeftWolfeNWAlphaE3SearchExhausted, concaveLeftWolfeNWAlphaE3SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see concaveLeftWolfeNWAlphaE3RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := ConcaveLeftWolfeNWAlphaE3NoAcceptableStep
+		switch {
+		case found.rising:
+			end = ConcaveLeftWolfeNWAlphaE3NoDecrease
+		case found.end == concaveLeftWolfeNWAlphaE3SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = concaveLeftWolfeNWAlphaE3VerifyStall, true, concaveLeftWolfeNWAlphaE3StageJudge
+			return
+		case found.end == concaveLeftWolfeNWAlphaE3SearchTiny:
+			end = ConcaveLeftWolfeNWAlphaE3Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !concaveLeftWolfeNWAlphaE3FiniteVec(&xt) {
+		r.finish(ConcaveLeftWolfeNWAlphaE3NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+concaveLeftWolfeNWAlphaE3DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += concaveLeftWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	concaveLeftWolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
+	concaveLeftWolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !concaveLeftWolfeNWAlphaE3FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient)
+		return
+	}
+	r.stage = concaveLeftWolfeNWAlphaE3StageJudge
 }
 
 // concaveLeftWolfeNWAlphaE3Differences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type concaveLeftWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeNWAlphaE3RoundingFloor)
 	bounds    concaveLeftWolfeNWAlphaE3Box
-}
-
-// concaveLeftWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
-func concaveLeftWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *concaveLeftWolfeNWAlphaE3Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// concaveLeftWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) int {
-	g[0] = ConcaveLeftDeriv(x[0])
-	return 0
 }
 
 // concaveLeftWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -447,12 +596,57 @@ func concaveLeftWolfeNWAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// concaveLeftWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func concaveLeftWolfeNWAlphaE3Finite(v float64) bool {
+	return v >= -concaveLeftWolfeNWAlphaE3LargestFinite && v <= concaveLeftWolfeNWAlphaE3LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	concaveLeftWolfeNWAlphaE3StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	concaveLeftWolfeNWAlphaE3StageJudge         // settle when asked (concaveLeftWolfeNWAlphaE3SettleCalls), judge x, learn from the step: no calls otherwise
+	concaveLeftWolfeNWAlphaE3StageSearch        // the line search and the gradient at the accepted point: concaveLeftWolfeNWAlphaE3IterationCalls
+	concaveLeftWolfeNWAlphaE3StageOver          // the run has ended; out is its result
+)
+
+// concaveLeftWolfeNWAlphaE3EnterBox: without bounds every start is inside.
+func concaveLeftWolfeNWAlphaE3EnterBox(x *[1]float64, b *concaveLeftWolfeNWAlphaE3Box) {}
+
 // What minimize checks at x before judging it again.
 const (
 	concaveLeftWolfeNWAlphaE3VerifyNothing = iota
 	concaveLeftWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
+func concaveLeftWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !concaveLeftWolfeNWAlphaE3Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// concaveLeftWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
+func concaveLeftWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *concaveLeftWolfeNWAlphaE3Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// concaveLeftWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
+func concaveLeftWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) int {
+	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
+}
 
 // concaveLeftWolfeNWAlphaE3Settle prepares a verdict at x: with differences it confirms the
 // gradient (concaveLeftWolfeNWAlphaE3ConfirmGradient), and at a stall it adds to each error bound
@@ -969,3 +1163,6 @@ func concaveLeftWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftWolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
+const concaveLeftWolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

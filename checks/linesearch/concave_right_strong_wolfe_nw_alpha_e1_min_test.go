@@ -105,6 +105,55 @@ func TestConcaveRightStrongWolfeNWAlphaE1GradientMatchesDifferences(t *testing.T
 	}
 }
 
+// TestConcaveRightStrongWolfeNWAlphaE1SolverTicks advances a ConcaveRightStrongWolfeNWAlphaE1Solver from the spec's start with budgets of ConcaveRightStrongWolfeNWAlphaE1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightStrongWolfeNWAlphaE1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightStrongWolfeNWAlphaE1SolverTicks(t *testing.T) {
+	want := ConcaveRightStrongWolfeNWAlphaE1(concaveRightStrongWolfeNWAlphaE1TestStart())
+	for _, budget := range []int{ConcaveRightStrongWolfeNWAlphaE1TickMinimum, ConcaveRightStrongWolfeNWAlphaE1TickMinimum + 1, 2 * ConcaveRightStrongWolfeNWAlphaE1TickMinimum, 7 * ConcaveRightStrongWolfeNWAlphaE1TickMinimum} {
+		var s ConcaveRightStrongWolfeNWAlphaE1Solver
+		s.Start(concaveRightStrongWolfeNWAlphaE1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightStrongWolfeNWAlphaE1Running {
+				if !concaveRightStrongWolfeNWAlphaE1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightStrongWolfeNWAlphaE1Solver
+	s.Start(concaveRightStrongWolfeNWAlphaE1TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightStrongWolfeNWAlphaE1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightStrongWolfeNWAlphaE1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightStrongWolfeNWAlphaE1SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightStrongWolfeNWAlphaE1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightStrongWolfeNWAlphaE1TestStart())
+		for s.Advance(ConcaveRightStrongWolfeNWAlphaE1TickMinimum).Status == ConcaveRightStrongWolfeNWAlphaE1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightStrongWolfeNWAlphaE1TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightStrongWolfeNWAlphaE1TestSameResult(a, b ConcaveRightStrongWolfeNWAlphaE1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightStrongWolfeNWAlphaE1 measures one whole run from the spec's start.
 func BenchmarkConcaveRightStrongWolfeNWAlphaE1(b *testing.B) {
 	var r ConcaveRightStrongWolfeNWAlphaE1Result

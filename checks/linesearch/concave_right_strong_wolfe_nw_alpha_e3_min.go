@@ -26,6 +26,8 @@ const (
 	ConcaveRightStrongWolfeNWAlphaE3NoDecrease
 	// ConcaveRightStrongWolfeNWAlphaE3Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	ConcaveRightStrongWolfeNWAlphaE3Diverged
+	// ConcaveRightStrongWolfeNWAlphaE3Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	ConcaveRightStrongWolfeNWAlphaE3Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s ConcaveRightStrongWolfeNWAlphaE3Status) String() string {
 		return "no decrease"
 	case ConcaveRightStrongWolfeNWAlphaE3Diverged:
 		return "diverged"
+	case ConcaveRightStrongWolfeNWAlphaE3Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func ConcaveRightStrongWolfeNWAlphaE3WithLimits(x0 float64, limits ConcaveRightS
 	}
 }
 
+// ConcaveRightStrongWolfeNWAlphaE3TickMinimum is the smallest call budget with which every ConcaveRightStrongWolfeNWAlphaE3Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 59).
+const ConcaveRightStrongWolfeNWAlphaE3TickMinimum = 59
+
+// ConcaveRightStrongWolfeNWAlphaE3Solver is a run of ConcaveRightStrongWolfeNWAlphaE3 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (ConcaveRightStrongWolfeNWAlphaE3DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 59. A budget of at least ConcaveRightStrongWolfeNWAlphaE3TickMinimum = 59 progresses at every Advance; a smaller one may make no call. Advancing until the status is not ConcaveRightStrongWolfeNWAlphaE3Running ends exactly as ConcaveRightStrongWolfeNWAlphaE3WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): ConcaveRightStrongWolfeNWAlphaE3 and ConcaveRightStrongWolfeNWAlphaE3WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is ConcaveRightStrongWolfeNWAlphaE3Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type ConcaveRightStrongWolfeNWAlphaE3Solver struct {
+	run       concaveRightStrongWolfeNWAlphaE3Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    ConcaveRightStrongWolfeNWAlphaE3Limits  // the limits of the runs; ConcaveRightStrongWolfeNWAlphaE3DefaultLimits() until SetLimits
+	ownLimits bool                                    // whether SetLimits has set limits
+	started   bool                                    // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *ConcaveRightStrongWolfeNWAlphaE3Solver) SetLimits(limits ConcaveRightStrongWolfeNWAlphaE3Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *ConcaveRightStrongWolfeNWAlphaE3Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *ConcaveRightStrongWolfeNWAlphaE3Solver) StartFrom(from ConcaveRightStrongWolfeNWAlphaE3Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *ConcaveRightStrongWolfeNWAlphaE3Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *ConcaveRightStrongWolfeNWAlphaE3Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = ConcaveRightStrongWolfeNWAlphaE3DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, concaveRightStrongWolfeNWAlphaE3Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status ConcaveRightStrongWolfeNWAlphaE3Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See ConcaveRightStrongWolfeNWAlphaE3Solver for the budget rule and what advancing assumes of the objective.
+func (s *ConcaveRightStrongWolfeNWAlphaE3Solver) Advance(budget int) ConcaveRightStrongWolfeNWAlphaE3Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return ConcaveRightStrongWolfeNWAlphaE3Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of ConcaveRightStrongWolfeNWAlphaE3 from linesearch.toml; the kernels below read them.
 const (
-	concaveRightStrongWolfeNWAlphaE3StepInitial    = 2000.0                 // step.initial
-	concaveRightStrongWolfeNWAlphaE3StepDecrease   = 0.0001                 // step.decrease (c1)
-	concaveRightStrongWolfeNWAlphaE3StepCurvature  = 0.9                    // step.curvature (c2)
-	concaveRightStrongWolfeNWAlphaE3StepTrials     = 59                     // step.trials
-	concaveRightStrongWolfeNWAlphaE3DerivativeCost = 0                      // objective calls per gradient
-	concaveRightStrongWolfeNWAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	concaveRightStrongWolfeNWAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	concaveRightStrongWolfeNWAlphaE3StepInitial     = 2000.0                 // step.initial
+	concaveRightStrongWolfeNWAlphaE3StepDecrease    = 0.0001                 // step.decrease (c1)
+	concaveRightStrongWolfeNWAlphaE3StepCurvature   = 0.9                    // step.curvature (c2)
+	concaveRightStrongWolfeNWAlphaE3StepTrials      = 59                     // step.trials
+	concaveRightStrongWolfeNWAlphaE3DerivativeCost  = 0                      // objective calls per gradient
+	concaveRightStrongWolfeNWAlphaE3CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	concaveRightStrongWolfeNWAlphaE3IterationCalls  = 59                     // most objective calls of one line search with the gradient at its step
+	concaveRightStrongWolfeNWAlphaE3SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	concaveRightStrongWolfeNWAlphaE3UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	concaveRightStrongWolfeNWAlphaE3LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // concaveRightStrongWolfeNWAlphaE3Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStrongWolfeNWAlphaE3Limits, bounds concaveRightStrongWolfeNWAlphaE3Box) concaveRightStrongWolfeNWAlphaE3Outcome {
-	x := x0
-	concaveRightStrongWolfeNWAlphaE3EnterBox(&x, &bounds)
-	out := concaveRightStrongWolfeNWAlphaE3Outcome{x: x, status: ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := ConcaveRight(x[0])
-	out.f, out.evaluations = fx, 1
-	if !concaveRightStrongWolfeNWAlphaE3Finite(fx) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&x) {
-		out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteStart
-		return out
-	}
-	diffs := concaveRightStrongWolfeNWAlphaE3Differences{bounds: bounds}
-	calls, ok := concaveRightStrongWolfeNWAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+concaveRightStrongWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += concaveRightStrongWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
-
-	if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&g) {
-		out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient
-		return out
-	}
-	var dir concaveRightStrongWolfeNWAlphaE3Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(concaveRightStrongWolfeNWAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                                  // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeNWAlphaE3ConfirmGradient or settle
-	stalled := false                                                             // whether the run can make no more progress at x
-	retried := -1                                                                // the iteration whose stall was retried with recalibrated differences
-	verify := concaveRightStrongWolfeNWAlphaE3VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != concaveRightStrongWolfeNWAlphaE3VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see concaveRightStrongWolfeNWAlphaE3ConfirmGradient and settle).
-			calls, ok := concaveRightStrongWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == concaveRightStrongWolfeNWAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&g) {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = concaveRightStrongWolfeNWAlphaE3VerifyNothing, true
-		case !confirmed:
-			concaveRightStrongWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := concaveRightStrongWolfeNWAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, concaveRightStrongWolfeNWAlphaE3Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * concaveRightStrongWolfeNWAlphaE3Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (concaveRightStrongWolfeNWAlphaE3DerivativeCost == 0 || confirmed) {
-			out.status = ConcaveRightStrongWolfeNWAlphaE3GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = concaveRightStrongWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if concaveRightStrongWolfeNWAlphaE3DerivativeCost == 0 {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE3Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if concaveRightStrongWolfeNWAlphaE3StepWithin(&s, &x, lim.Step) {
-				verify, stalled = concaveRightStrongWolfeNWAlphaE3VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
-			}
-			concaveRightStrongWolfeNWAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(ConcaveRightStrongWolfeNWAlphaE3OutOfIterations, out.iterations, out.evaluations)
-		}
-		concaveRightStrongWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := concaveRightStrongWolfeNWAlphaE3Dot(&g, &d)
-		if !(now < 0) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			concaveRightStrongWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = concaveRightStrongWolfeNWAlphaE3Dot(&g, &d)
-		}
-		first := float64(concaveRightStrongWolfeNWAlphaE3StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := concaveRightStrongWolfeNWAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightStrongWolfeNWAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case concaveRightStrongWolfeNWAlphaE3SearchOutOfBudget:
-			return best.ending(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-		case concaveRightStrongWolfeNWAlphaE3SearchDiverged:
-			return best.ending(ConcaveRightStrongWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
-		case concaveRightStrongWolfeNWAlphaE3SearchExhausted, concaveRightStrongWolfeNWAlphaE3SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see concaveRightStrongWolfeNWAlphaE3RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := ConcaveRightStrongWolfeNWAlphaE3NoAcceptableStep
-			switch {
-			case found.rising:
-				end = ConcaveRightStrongWolfeNWAlphaE3NoDecrease
-			case found.end == concaveRightStrongWolfeNWAlphaE3SearchTiny && canSettle:
-				verify, stalled = concaveRightStrongWolfeNWAlphaE3VerifyStall, true
-				continue
-			case found.end == concaveRightStrongWolfeNWAlphaE3SearchTiny:
-				end = ConcaveRightStrongWolfeNWAlphaE3Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&xt) {
-			return best.ending(ConcaveRightStrongWolfeNWAlphaE3NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+concaveRightStrongWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += concaveRightStrongWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		concaveRightStrongWolfeNWAlphaE3Difference(&s, &xt, &x)
-		concaveRightStrongWolfeNWAlphaE3Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r concaveRightStrongWolfeNWAlphaE3Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(concaveRightStrongWolfeNWAlphaE3Unlimited)
 }
 
 // concaveRightStrongWolfeNWAlphaE3Outcome is the kernel's report; the generated entry point copies it into
@@ -348,30 +261,276 @@ func (o concaveRightStrongWolfeNWAlphaE3Outcome) ending(end ConcaveRightStrongWo
 	return o
 }
 
-// concaveRightStrongWolfeNWAlphaE3EnterBox: without bounds every start is inside.
-func concaveRightStrongWolfeNWAlphaE3EnterBox(x *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+// concaveRightStrongWolfeNWAlphaE3Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type concaveRightStrongWolfeNWAlphaE3Descent struct {
+	lim       ConcaveRightStrongWolfeNWAlphaE3Limits
+	stage     int                                         // what advance does next
+	diffs     concaveRightStrongWolfeNWAlphaE3Differences // the box and the difference intervals
+	dir       concaveRightStrongWolfeNWAlphaE3Direction   // the direction's memory
+	x, g, e   [1]float64                                  // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                                  // the search direction, the last step and its gradient change
+	fx        float64                                     // f(x)
+	t, slope  float64                                     // the previous iteration's accepted step and slope
+	out, best concaveRightStrongWolfeNWAlphaE3Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                     // f(x0)
+	rises     int                                         // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                        // whether g and e at x come from concaveRightStrongWolfeNWAlphaE3ConfirmGradient or settle
+	stalled   bool                                        // whether the run can make no more progress at x
+	retried   int                                         // the iteration whose stall was retried with recalibrated differences
+	verify    int                                         // what to check at x before judging it again
 }
 
-// concaveRightStrongWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func concaveRightStrongWolfeNWAlphaE3Finite(v float64) bool {
-	return v >= -concaveRightStrongWolfeNWAlphaE3LargestFinite && v <= concaveRightStrongWolfeNWAlphaE3LargestFinite
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) prepare(x0 [1]float64, lim ConcaveRightStrongWolfeNWAlphaE3Limits, bounds concaveRightStrongWolfeNWAlphaE3Box) {
+	r.lim, r.stage = lim, concaveRightStrongWolfeNWAlphaE3StageBegin
+	r.diffs = concaveRightStrongWolfeNWAlphaE3Differences{bounds: bounds}
+	r.x = x0
+	concaveRightStrongWolfeNWAlphaE3EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = concaveRightStrongWolfeNWAlphaE3Outcome{x: r.x, f: math.NaN(), status: ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
 }
 
-// concaveRightStrongWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
-func concaveRightStrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveRightStrongWolfeNWAlphaE3Finite(x[i]) {
-			return false
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with ConcaveRightStrongWolfeNWAlphaE3Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, concaveRightStrongWolfeNWAlphaE3SettleCalls and concaveRightStrongWolfeNWAlphaE3IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) advance(budget int) concaveRightStrongWolfeNWAlphaE3Outcome {
+	used := r.out.evaluations
+	for r.stage != concaveRightStrongWolfeNWAlphaE3StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case concaveRightStrongWolfeNWAlphaE3StageBegin:
+			if left < 1+concaveRightStrongWolfeNWAlphaE3CalibrationCost+concaveRightStrongWolfeNWAlphaE3DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case concaveRightStrongWolfeNWAlphaE3StageJudge:
+			if r.verify != concaveRightStrongWolfeNWAlphaE3VerifyNothing && left < concaveRightStrongWolfeNWAlphaE3SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < concaveRightStrongWolfeNWAlphaE3IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) paused() concaveRightStrongWolfeNWAlphaE3Outcome {
+	return r.best.ending(ConcaveRightStrongWolfeNWAlphaE3Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) finish(end ConcaveRightStrongWolfeNWAlphaE3Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = concaveRightStrongWolfeNWAlphaE3StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) begin() {
+	r.stage = concaveRightStrongWolfeNWAlphaE3StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !concaveRightStrongWolfeNWAlphaE3Finite(r.fx) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.x) {
+		r.out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteStart
+		return
+	}
+	calls, ok := concaveRightStrongWolfeNWAlphaE3Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+concaveRightStrongWolfeNWAlphaE3DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += concaveRightStrongWolfeNWAlphaE3Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.g) {
+		r.out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient
+		return
+	}
+	r.t, r.slope = concaveRightStrongWolfeNWAlphaE3StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, concaveRightStrongWolfeNWAlphaE3VerifyNothing
+	r.stage = concaveRightStrongWolfeNWAlphaE3StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves concaveRightStrongWolfeNWAlphaE3StageSearch next when the run goes on.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) judge() {
+	switch {
+	case r.verify != concaveRightStrongWolfeNWAlphaE3VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see concaveRightStrongWolfeNWAlphaE3ConfirmGradient and settle).
+		calls, ok := concaveRightStrongWolfeNWAlphaE3Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == concaveRightStrongWolfeNWAlphaE3VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations)
+			return
+		}
+		if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.g) {
+			r.finish(ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = concaveRightStrongWolfeNWAlphaE3VerifyNothing, true
+	case !r.confirmed:
+		concaveRightStrongWolfeNWAlphaE3GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := concaveRightStrongWolfeNWAlphaE3Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, concaveRightStrongWolfeNWAlphaE3Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * concaveRightStrongWolfeNWAlphaE3Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (concaveRightStrongWolfeNWAlphaE3DerivativeCost == 0 || r.confirmed) {
+		r.out.status = ConcaveRightStrongWolfeNWAlphaE3GradientSmall
+		r.stage = concaveRightStrongWolfeNWAlphaE3StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = concaveRightStrongWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if concaveRightStrongWolfeNWAlphaE3DerivativeCost == 0 {
+			r.finish(ConcaveRightStrongWolfeNWAlphaE3Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if concaveRightStrongWolfeNWAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = concaveRightStrongWolfeNWAlphaE3VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(ConcaveRightStrongWolfeNWAlphaE3Diverged)
+			return
+		}
+		concaveRightStrongWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(ConcaveRightStrongWolfeNWAlphaE3OutOfIterations)
+		return
+	}
+	r.stage = concaveRightStrongWolfeNWAlphaE3StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves concaveRightStrongWolfeNWAlphaE3StageJudge next when the run
+// goes on.
+func (r *concaveRightStrongWolfeNWAlphaE3Descent) search() {
+	concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
+	if !(now < 0) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
+	}
+	first := float64(concaveRightStrongWolfeNWAlphaE3StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := concaveRightStrongWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := concaveRightStrongWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case concaveRightStrongWolfeNWAlphaE3SearchOutOfBudget:
+		r.finish(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations)
+		return
+	case concaveRightStrongWolfeNWAlphaE3SearchDiverged:
+		r.finish(ConcaveRightStrongWolfeNWAlphaE3Diverged)
+		return
+	case concaveRightStrongWolfeNWAlphaE3SearchExhausted, concaveRightStrongWolfeNWAlphaE3SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see concaveRightStrongWolfeNWAlphaE3RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := ConcaveRightStrongWolfeNWAlphaE3NoAcceptableStep
+		switch {
+		case found.rising:
+			end = ConcaveRightStrongWolfeNWAlphaE3NoDecrease
+		case found.end == concaveRightStrongWolfeNWAlphaE3SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = concaveRightStrongWolfeNWAlphaE3VerifyStall, true, concaveRightStrongWolfeNWAlphaE3StageJudge
+			return
+		case found.end == concaveRightStrongWolfeNWAlphaE3SearchTiny:
+			end = ConcaveRightStrongWolfeNWAlphaE3Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&xt) {
+		r.finish(ConcaveRightStrongWolfeNWAlphaE3NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+concaveRightStrongWolfeNWAlphaE3DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += concaveRightStrongWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	concaveRightStrongWolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
+	concaveRightStrongWolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient)
+		return
+	}
+	r.stage = concaveRightStrongWolfeNWAlphaE3StageJudge
 }
 
 // concaveRightStrongWolfeNWAlphaE3Differences is what the kernel knows about evaluating the objective:
@@ -385,17 +544,6 @@ type concaveRightStrongWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaE3RoundingFloor)
 	bounds    concaveRightStrongWolfeNWAlphaE3Box
-}
-
-// concaveRightStrongWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
-func concaveRightStrongWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// concaveRightStrongWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightStrongWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) int {
-	g[0] = ConcaveRightDeriv(x[0])
-	return 0
 }
 
 // concaveRightStrongWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -448,12 +596,58 @@ func concaveRightStrongWolfeNWAlphaE3ScaledTrial(t, slope, now float64) float64 
 	return next
 }
 
+// concaveRightStrongWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func concaveRightStrongWolfeNWAlphaE3Finite(v float64) bool {
+	return v >= -concaveRightStrongWolfeNWAlphaE3LargestFinite && v <= concaveRightStrongWolfeNWAlphaE3LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	concaveRightStrongWolfeNWAlphaE3StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	concaveRightStrongWolfeNWAlphaE3StageJudge         // settle when asked (concaveRightStrongWolfeNWAlphaE3SettleCalls), judge x, learn from the step: no calls otherwise
+	concaveRightStrongWolfeNWAlphaE3StageSearch        // the line search and the gradient at the accepted point: concaveRightStrongWolfeNWAlphaE3IterationCalls
+	concaveRightStrongWolfeNWAlphaE3StageOver          // the run has ended; out is its result
+)
+
+// concaveRightStrongWolfeNWAlphaE3EnterBox: without bounds every start is inside.
+func concaveRightStrongWolfeNWAlphaE3EnterBox(x *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+}
+
 // What minimize checks at x before judging it again.
 const (
 	concaveRightStrongWolfeNWAlphaE3VerifyNothing = iota
 	concaveRightStrongWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
+func concaveRightStrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !concaveRightStrongWolfeNWAlphaE3Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// concaveRightStrongWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
+func concaveRightStrongWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// concaveRightStrongWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
+func concaveRightStrongWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) int {
+	g[0] = ConcaveRightDeriv(x[0])
+	return 0
+}
 
 // concaveRightStrongWolfeNWAlphaE3Settle prepares a verdict at x: with differences it confirms the
 // gradient (concaveRightStrongWolfeNWAlphaE3ConfirmGradient), and at a stall it adds to each error bound
@@ -971,3 +1165,6 @@ func concaveRightStrongWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
+const concaveRightStrongWolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestConcaveRightStrongWolfeNWAlphaE3GradientMatchesDifferences(t *testing.T
 	}
 }
 
+// TestConcaveRightStrongWolfeNWAlphaE3SolverTicks advances a ConcaveRightStrongWolfeNWAlphaE3Solver from the spec's start with budgets of ConcaveRightStrongWolfeNWAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightStrongWolfeNWAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightStrongWolfeNWAlphaE3SolverTicks(t *testing.T) {
+	want := ConcaveRightStrongWolfeNWAlphaE3(concaveRightStrongWolfeNWAlphaE3TestStart())
+	for _, budget := range []int{ConcaveRightStrongWolfeNWAlphaE3TickMinimum, ConcaveRightStrongWolfeNWAlphaE3TickMinimum + 1, 2 * ConcaveRightStrongWolfeNWAlphaE3TickMinimum, 7 * ConcaveRightStrongWolfeNWAlphaE3TickMinimum} {
+		var s ConcaveRightStrongWolfeNWAlphaE3Solver
+		s.Start(concaveRightStrongWolfeNWAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightStrongWolfeNWAlphaE3Running {
+				if !concaveRightStrongWolfeNWAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightStrongWolfeNWAlphaE3Solver
+	s.Start(concaveRightStrongWolfeNWAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightStrongWolfeNWAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightStrongWolfeNWAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightStrongWolfeNWAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightStrongWolfeNWAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightStrongWolfeNWAlphaE3TestStart())
+		for s.Advance(ConcaveRightStrongWolfeNWAlphaE3TickMinimum).Status == ConcaveRightStrongWolfeNWAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightStrongWolfeNWAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightStrongWolfeNWAlphaE3TestSameResult(a, b ConcaveRightStrongWolfeNWAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightStrongWolfeNWAlphaE3 measures one whole run from the spec's start.
 func BenchmarkConcaveRightStrongWolfeNWAlphaE3(b *testing.B) {
 	var r ConcaveRightStrongWolfeNWAlphaE3Result

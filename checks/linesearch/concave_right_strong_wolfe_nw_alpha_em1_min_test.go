@@ -105,6 +105,55 @@ func TestConcaveRightStrongWolfeNWAlphaEm1GradientMatchesDifferences(t *testing.
 	}
 }
 
+// TestConcaveRightStrongWolfeNWAlphaEm1SolverTicks advances a ConcaveRightStrongWolfeNWAlphaEm1Solver from the spec's start with budgets of ConcaveRightStrongWolfeNWAlphaEm1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightStrongWolfeNWAlphaEm1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightStrongWolfeNWAlphaEm1SolverTicks(t *testing.T) {
+	want := ConcaveRightStrongWolfeNWAlphaEm1(concaveRightStrongWolfeNWAlphaEm1TestStart())
+	for _, budget := range []int{ConcaveRightStrongWolfeNWAlphaEm1TickMinimum, ConcaveRightStrongWolfeNWAlphaEm1TickMinimum + 1, 2 * ConcaveRightStrongWolfeNWAlphaEm1TickMinimum, 7 * ConcaveRightStrongWolfeNWAlphaEm1TickMinimum} {
+		var s ConcaveRightStrongWolfeNWAlphaEm1Solver
+		s.Start(concaveRightStrongWolfeNWAlphaEm1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightStrongWolfeNWAlphaEm1Running {
+				if !concaveRightStrongWolfeNWAlphaEm1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightStrongWolfeNWAlphaEm1Solver
+	s.Start(concaveRightStrongWolfeNWAlphaEm1TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightStrongWolfeNWAlphaEm1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightStrongWolfeNWAlphaEm1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightStrongWolfeNWAlphaEm1SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightStrongWolfeNWAlphaEm1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightStrongWolfeNWAlphaEm1TestStart())
+		for s.Advance(ConcaveRightStrongWolfeNWAlphaEm1TickMinimum).Status == ConcaveRightStrongWolfeNWAlphaEm1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightStrongWolfeNWAlphaEm1TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightStrongWolfeNWAlphaEm1TestSameResult(a, b ConcaveRightStrongWolfeNWAlphaEm1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightStrongWolfeNWAlphaEm1 measures one whole run from the spec's start.
 func BenchmarkConcaveRightStrongWolfeNWAlphaEm1(b *testing.B) {
 	var r ConcaveRightStrongWolfeNWAlphaEm1Result

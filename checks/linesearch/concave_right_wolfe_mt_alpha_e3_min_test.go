@@ -105,6 +105,55 @@ func TestConcaveRightWolfeMTAlphaE3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestConcaveRightWolfeMTAlphaE3SolverTicks advances a ConcaveRightWolfeMTAlphaE3Solver from the spec's start with budgets of ConcaveRightWolfeMTAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightWolfeMTAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightWolfeMTAlphaE3SolverTicks(t *testing.T) {
+	want := ConcaveRightWolfeMTAlphaE3(concaveRightWolfeMTAlphaE3TestStart())
+	for _, budget := range []int{ConcaveRightWolfeMTAlphaE3TickMinimum, ConcaveRightWolfeMTAlphaE3TickMinimum + 1, 2 * ConcaveRightWolfeMTAlphaE3TickMinimum, 7 * ConcaveRightWolfeMTAlphaE3TickMinimum} {
+		var s ConcaveRightWolfeMTAlphaE3Solver
+		s.Start(concaveRightWolfeMTAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightWolfeMTAlphaE3Running {
+				if !concaveRightWolfeMTAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightWolfeMTAlphaE3Solver
+	s.Start(concaveRightWolfeMTAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightWolfeMTAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightWolfeMTAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightWolfeMTAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightWolfeMTAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightWolfeMTAlphaE3TestStart())
+		for s.Advance(ConcaveRightWolfeMTAlphaE3TickMinimum).Status == ConcaveRightWolfeMTAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightWolfeMTAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightWolfeMTAlphaE3TestSameResult(a, b ConcaveRightWolfeMTAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightWolfeMTAlphaE3 measures one whole run from the spec's start.
 func BenchmarkConcaveRightWolfeMTAlphaE3(b *testing.B) {
 	var r ConcaveRightWolfeMTAlphaE3Result

@@ -105,6 +105,55 @@ func TestConcaveRightWolfeMTAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestConcaveRightWolfeMTAlphaEm3SolverTicks advances a ConcaveRightWolfeMTAlphaEm3Solver from the spec's start with budgets of ConcaveRightWolfeMTAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightWolfeMTAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightWolfeMTAlphaEm3SolverTicks(t *testing.T) {
+	want := ConcaveRightWolfeMTAlphaEm3(concaveRightWolfeMTAlphaEm3TestStart())
+	for _, budget := range []int{ConcaveRightWolfeMTAlphaEm3TickMinimum, ConcaveRightWolfeMTAlphaEm3TickMinimum + 1, 2 * ConcaveRightWolfeMTAlphaEm3TickMinimum, 7 * ConcaveRightWolfeMTAlphaEm3TickMinimum} {
+		var s ConcaveRightWolfeMTAlphaEm3Solver
+		s.Start(concaveRightWolfeMTAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightWolfeMTAlphaEm3Running {
+				if !concaveRightWolfeMTAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightWolfeMTAlphaEm3Solver
+	s.Start(concaveRightWolfeMTAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightWolfeMTAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightWolfeMTAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightWolfeMTAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightWolfeMTAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightWolfeMTAlphaEm3TestStart())
+		for s.Advance(ConcaveRightWolfeMTAlphaEm3TickMinimum).Status == ConcaveRightWolfeMTAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightWolfeMTAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightWolfeMTAlphaEm3TestSameResult(a, b ConcaveRightWolfeMTAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightWolfeMTAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkConcaveRightWolfeMTAlphaEm3(b *testing.B) {
 	var r ConcaveRightWolfeMTAlphaEm3Result

@@ -105,6 +105,55 @@ func TestConcaveRightWolfeNWAlphaE3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestConcaveRightWolfeNWAlphaE3SolverTicks advances a ConcaveRightWolfeNWAlphaE3Solver from the spec's start with budgets of ConcaveRightWolfeNWAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightWolfeNWAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightWolfeNWAlphaE3SolverTicks(t *testing.T) {
+	want := ConcaveRightWolfeNWAlphaE3(concaveRightWolfeNWAlphaE3TestStart())
+	for _, budget := range []int{ConcaveRightWolfeNWAlphaE3TickMinimum, ConcaveRightWolfeNWAlphaE3TickMinimum + 1, 2 * ConcaveRightWolfeNWAlphaE3TickMinimum, 7 * ConcaveRightWolfeNWAlphaE3TickMinimum} {
+		var s ConcaveRightWolfeNWAlphaE3Solver
+		s.Start(concaveRightWolfeNWAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightWolfeNWAlphaE3Running {
+				if !concaveRightWolfeNWAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightWolfeNWAlphaE3Solver
+	s.Start(concaveRightWolfeNWAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightWolfeNWAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightWolfeNWAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightWolfeNWAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightWolfeNWAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightWolfeNWAlphaE3TestStart())
+		for s.Advance(ConcaveRightWolfeNWAlphaE3TickMinimum).Status == ConcaveRightWolfeNWAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightWolfeNWAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightWolfeNWAlphaE3TestSameResult(a, b ConcaveRightWolfeNWAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightWolfeNWAlphaE3 measures one whole run from the spec's start.
 func BenchmarkConcaveRightWolfeNWAlphaE3(b *testing.B) {
 	var r ConcaveRightWolfeNWAlphaE3Result

@@ -105,6 +105,55 @@ func TestConcaveRightWolfeNWAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestConcaveRightWolfeNWAlphaEm3SolverTicks advances a ConcaveRightWolfeNWAlphaEm3Solver from the spec's start with budgets of ConcaveRightWolfeNWAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ConcaveRightWolfeNWAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestConcaveRightWolfeNWAlphaEm3SolverTicks(t *testing.T) {
+	want := ConcaveRightWolfeNWAlphaEm3(concaveRightWolfeNWAlphaEm3TestStart())
+	for _, budget := range []int{ConcaveRightWolfeNWAlphaEm3TickMinimum, ConcaveRightWolfeNWAlphaEm3TickMinimum + 1, 2 * ConcaveRightWolfeNWAlphaEm3TickMinimum, 7 * ConcaveRightWolfeNWAlphaEm3TickMinimum} {
+		var s ConcaveRightWolfeNWAlphaEm3Solver
+		s.Start(concaveRightWolfeNWAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ConcaveRightWolfeNWAlphaEm3Running {
+				if !concaveRightWolfeNWAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ConcaveRightWolfeNWAlphaEm3Solver
+	s.Start(concaveRightWolfeNWAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != ConcaveRightWolfeNWAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestConcaveRightWolfeNWAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestConcaveRightWolfeNWAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s ConcaveRightWolfeNWAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(concaveRightWolfeNWAlphaEm3TestStart())
+		for s.Advance(ConcaveRightWolfeNWAlphaEm3TickMinimum).Status == ConcaveRightWolfeNWAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// concaveRightWolfeNWAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func concaveRightWolfeNWAlphaEm3TestSameResult(a, b ConcaveRightWolfeNWAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkConcaveRightWolfeNWAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkConcaveRightWolfeNWAlphaEm3(b *testing.B) {
 	var r ConcaveRightWolfeNWAlphaEm3Result

@@ -105,6 +105,55 @@ func TestPlassmannStrongWolfeMTAlphaE3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPlassmannStrongWolfeMTAlphaE3SolverTicks advances a PlassmannStrongWolfeMTAlphaE3Solver from the spec's start with budgets of PlassmannStrongWolfeMTAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PlassmannStrongWolfeMTAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPlassmannStrongWolfeMTAlphaE3SolverTicks(t *testing.T) {
+	want := PlassmannStrongWolfeMTAlphaE3(plassmannStrongWolfeMTAlphaE3TestStart())
+	for _, budget := range []int{PlassmannStrongWolfeMTAlphaE3TickMinimum, PlassmannStrongWolfeMTAlphaE3TickMinimum + 1, 2 * PlassmannStrongWolfeMTAlphaE3TickMinimum, 7 * PlassmannStrongWolfeMTAlphaE3TickMinimum} {
+		var s PlassmannStrongWolfeMTAlphaE3Solver
+		s.Start(plassmannStrongWolfeMTAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PlassmannStrongWolfeMTAlphaE3Running {
+				if !plassmannStrongWolfeMTAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PlassmannStrongWolfeMTAlphaE3Solver
+	s.Start(plassmannStrongWolfeMTAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != PlassmannStrongWolfeMTAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPlassmannStrongWolfeMTAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPlassmannStrongWolfeMTAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s PlassmannStrongWolfeMTAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(plassmannStrongWolfeMTAlphaE3TestStart())
+		for s.Advance(PlassmannStrongWolfeMTAlphaE3TickMinimum).Status == PlassmannStrongWolfeMTAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// plassmannStrongWolfeMTAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func plassmannStrongWolfeMTAlphaE3TestSameResult(a, b PlassmannStrongWolfeMTAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPlassmannStrongWolfeMTAlphaE3 measures one whole run from the spec's start.
 func BenchmarkPlassmannStrongWolfeMTAlphaE3(b *testing.B) {
 	var r PlassmannStrongWolfeMTAlphaE3Result

@@ -105,6 +105,55 @@ func TestPlassmannStrongWolfeMTAlphaEm1GradientMatchesDifferences(t *testing.T) 
 	}
 }
 
+// TestPlassmannStrongWolfeMTAlphaEm1SolverTicks advances a PlassmannStrongWolfeMTAlphaEm1Solver from the spec's start with budgets of PlassmannStrongWolfeMTAlphaEm1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PlassmannStrongWolfeMTAlphaEm1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPlassmannStrongWolfeMTAlphaEm1SolverTicks(t *testing.T) {
+	want := PlassmannStrongWolfeMTAlphaEm1(plassmannStrongWolfeMTAlphaEm1TestStart())
+	for _, budget := range []int{PlassmannStrongWolfeMTAlphaEm1TickMinimum, PlassmannStrongWolfeMTAlphaEm1TickMinimum + 1, 2 * PlassmannStrongWolfeMTAlphaEm1TickMinimum, 7 * PlassmannStrongWolfeMTAlphaEm1TickMinimum} {
+		var s PlassmannStrongWolfeMTAlphaEm1Solver
+		s.Start(plassmannStrongWolfeMTAlphaEm1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PlassmannStrongWolfeMTAlphaEm1Running {
+				if !plassmannStrongWolfeMTAlphaEm1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PlassmannStrongWolfeMTAlphaEm1Solver
+	s.Start(plassmannStrongWolfeMTAlphaEm1TestStart())
+	if r := s.Advance(0); r.Status != PlassmannStrongWolfeMTAlphaEm1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPlassmannStrongWolfeMTAlphaEm1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPlassmannStrongWolfeMTAlphaEm1SolverAllocatesNothing(t *testing.T) {
+	var s PlassmannStrongWolfeMTAlphaEm1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(plassmannStrongWolfeMTAlphaEm1TestStart())
+		for s.Advance(PlassmannStrongWolfeMTAlphaEm1TickMinimum).Status == PlassmannStrongWolfeMTAlphaEm1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// plassmannStrongWolfeMTAlphaEm1TestSameResult reports whether two results are the same, NaN matching NaN.
+func plassmannStrongWolfeMTAlphaEm1TestSameResult(a, b PlassmannStrongWolfeMTAlphaEm1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPlassmannStrongWolfeMTAlphaEm1 measures one whole run from the spec's start.
 func BenchmarkPlassmannStrongWolfeMTAlphaEm1(b *testing.B) {
 	var r PlassmannStrongWolfeMTAlphaEm1Result

@@ -105,6 +105,55 @@ func TestPlassmannStrongWolfeNWAlphaE1GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPlassmannStrongWolfeNWAlphaE1SolverTicks advances a PlassmannStrongWolfeNWAlphaE1Solver from the spec's start with budgets of PlassmannStrongWolfeNWAlphaE1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PlassmannStrongWolfeNWAlphaE1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPlassmannStrongWolfeNWAlphaE1SolverTicks(t *testing.T) {
+	want := PlassmannStrongWolfeNWAlphaE1(plassmannStrongWolfeNWAlphaE1TestStart())
+	for _, budget := range []int{PlassmannStrongWolfeNWAlphaE1TickMinimum, PlassmannStrongWolfeNWAlphaE1TickMinimum + 1, 2 * PlassmannStrongWolfeNWAlphaE1TickMinimum, 7 * PlassmannStrongWolfeNWAlphaE1TickMinimum} {
+		var s PlassmannStrongWolfeNWAlphaE1Solver
+		s.Start(plassmannStrongWolfeNWAlphaE1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PlassmannStrongWolfeNWAlphaE1Running {
+				if !plassmannStrongWolfeNWAlphaE1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PlassmannStrongWolfeNWAlphaE1Solver
+	s.Start(plassmannStrongWolfeNWAlphaE1TestStart())
+	if r := s.Advance(0); r.Status != PlassmannStrongWolfeNWAlphaE1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPlassmannStrongWolfeNWAlphaE1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPlassmannStrongWolfeNWAlphaE1SolverAllocatesNothing(t *testing.T) {
+	var s PlassmannStrongWolfeNWAlphaE1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(plassmannStrongWolfeNWAlphaE1TestStart())
+		for s.Advance(PlassmannStrongWolfeNWAlphaE1TickMinimum).Status == PlassmannStrongWolfeNWAlphaE1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// plassmannStrongWolfeNWAlphaE1TestSameResult reports whether two results are the same, NaN matching NaN.
+func plassmannStrongWolfeNWAlphaE1TestSameResult(a, b PlassmannStrongWolfeNWAlphaE1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPlassmannStrongWolfeNWAlphaE1 measures one whole run from the spec's start.
 func BenchmarkPlassmannStrongWolfeNWAlphaE1(b *testing.B) {
 	var r PlassmannStrongWolfeNWAlphaE1Result

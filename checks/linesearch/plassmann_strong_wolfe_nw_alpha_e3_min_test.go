@@ -105,6 +105,55 @@ func TestPlassmannStrongWolfeNWAlphaE3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPlassmannStrongWolfeNWAlphaE3SolverTicks advances a PlassmannStrongWolfeNWAlphaE3Solver from the spec's start with budgets of PlassmannStrongWolfeNWAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PlassmannStrongWolfeNWAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPlassmannStrongWolfeNWAlphaE3SolverTicks(t *testing.T) {
+	want := PlassmannStrongWolfeNWAlphaE3(plassmannStrongWolfeNWAlphaE3TestStart())
+	for _, budget := range []int{PlassmannStrongWolfeNWAlphaE3TickMinimum, PlassmannStrongWolfeNWAlphaE3TickMinimum + 1, 2 * PlassmannStrongWolfeNWAlphaE3TickMinimum, 7 * PlassmannStrongWolfeNWAlphaE3TickMinimum} {
+		var s PlassmannStrongWolfeNWAlphaE3Solver
+		s.Start(plassmannStrongWolfeNWAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PlassmannStrongWolfeNWAlphaE3Running {
+				if !plassmannStrongWolfeNWAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PlassmannStrongWolfeNWAlphaE3Solver
+	s.Start(plassmannStrongWolfeNWAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != PlassmannStrongWolfeNWAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPlassmannStrongWolfeNWAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPlassmannStrongWolfeNWAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s PlassmannStrongWolfeNWAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(plassmannStrongWolfeNWAlphaE3TestStart())
+		for s.Advance(PlassmannStrongWolfeNWAlphaE3TickMinimum).Status == PlassmannStrongWolfeNWAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// plassmannStrongWolfeNWAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func plassmannStrongWolfeNWAlphaE3TestSameResult(a, b PlassmannStrongWolfeNWAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPlassmannStrongWolfeNWAlphaE3 measures one whole run from the spec's start.
 func BenchmarkPlassmannStrongWolfeNWAlphaE3(b *testing.B) {
 	var r PlassmannStrongWolfeNWAlphaE3Result

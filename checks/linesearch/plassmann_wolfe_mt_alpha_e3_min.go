@@ -26,6 +26,8 @@ const (
 	PlassmannWolfeMTAlphaE3NoDecrease
 	// PlassmannWolfeMTAlphaE3Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PlassmannWolfeMTAlphaE3Diverged
+	// PlassmannWolfeMTAlphaE3Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PlassmannWolfeMTAlphaE3Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PlassmannWolfeMTAlphaE3Status) String() string {
 		return "no decrease"
 	case PlassmannWolfeMTAlphaE3Diverged:
 		return "diverged"
+	case PlassmannWolfeMTAlphaE3Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PlassmannWolfeMTAlphaE3WithLimits(x0 float64, limits PlassmannWolfeMTAlphaE
 	}
 }
 
+// PlassmannWolfeMTAlphaE3TickMinimum is the smallest call budget with which every PlassmannWolfeMTAlphaE3Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 65).
+const PlassmannWolfeMTAlphaE3TickMinimum = 65
+
+// PlassmannWolfeMTAlphaE3Solver is a run of PlassmannWolfeMTAlphaE3 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PlassmannWolfeMTAlphaE3DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 65. A budget of at least PlassmannWolfeMTAlphaE3TickMinimum = 65 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PlassmannWolfeMTAlphaE3Running ends exactly as PlassmannWolfeMTAlphaE3WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PlassmannWolfeMTAlphaE3 and PlassmannWolfeMTAlphaE3WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is PlassmannWolfeMTAlphaE3Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PlassmannWolfeMTAlphaE3Solver struct {
+	run       plassmannWolfeMTAlphaE3Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PlassmannWolfeMTAlphaE3Limits  // the limits of the runs; PlassmannWolfeMTAlphaE3DefaultLimits() until SetLimits
+	ownLimits bool                           // whether SetLimits has set limits
+	started   bool                           // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PlassmannWolfeMTAlphaE3Solver) SetLimits(limits PlassmannWolfeMTAlphaE3Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PlassmannWolfeMTAlphaE3Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PlassmannWolfeMTAlphaE3Solver) StartFrom(from PlassmannWolfeMTAlphaE3Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *PlassmannWolfeMTAlphaE3Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PlassmannWolfeMTAlphaE3Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = PlassmannWolfeMTAlphaE3DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, plassmannWolfeMTAlphaE3Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PlassmannWolfeMTAlphaE3Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PlassmannWolfeMTAlphaE3Solver for the budget rule and what advancing assumes of the objective.
+func (s *PlassmannWolfeMTAlphaE3Solver) Advance(budget int) PlassmannWolfeMTAlphaE3Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PlassmannWolfeMTAlphaE3Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of PlassmannWolfeMTAlphaE3 from linesearch.toml; the kernels below read them.
 const (
-	plassmannWolfeMTAlphaE3StepInitial    = 99999.99999999991      // step.initial
-	plassmannWolfeMTAlphaE3StepDecrease   = 0.01                   // step.decrease (c1)
-	plassmannWolfeMTAlphaE3StepCurvature  = 0.1                    // step.curvature (c2)
-	plassmannWolfeMTAlphaE3StepTrials     = 65                     // step.trials
-	plassmannWolfeMTAlphaE3DerivativeCost = 0                      // objective calls per gradient
-	plassmannWolfeMTAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	plassmannWolfeMTAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	plassmannWolfeMTAlphaE3StepInitial     = 99999.99999999991      // step.initial
+	plassmannWolfeMTAlphaE3StepDecrease    = 0.01                   // step.decrease (c1)
+	plassmannWolfeMTAlphaE3StepCurvature   = 0.1                    // step.curvature (c2)
+	plassmannWolfeMTAlphaE3StepTrials      = 65                     // step.trials
+	plassmannWolfeMTAlphaE3DerivativeCost  = 0                      // objective calls per gradient
+	plassmannWolfeMTAlphaE3CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	plassmannWolfeMTAlphaE3IterationCalls  = 65                     // most objective calls of one line search with the gradient at its step
+	plassmannWolfeMTAlphaE3SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	plassmannWolfeMTAlphaE3UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	plassmannWolfeMTAlphaE3LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // plassmannWolfeMTAlphaE3Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3Limits, bounds plassmannWolfeMTAlphaE3Box) plassmannWolfeMTAlphaE3Outcome {
-	x := x0
-	plassmannWolfeMTAlphaE3EnterBox(&x, &bounds)
-	out := plassmannWolfeMTAlphaE3Outcome{x: x, status: PlassmannWolfeMTAlphaE3OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Plassmann(x[0])
-	out.f, out.evaluations = fx, 1
-	if !plassmannWolfeMTAlphaE3Finite(fx) || !plassmannWolfeMTAlphaE3FiniteVec(&x) {
-		out.status = PlassmannWolfeMTAlphaE3NonFiniteStart
-		return out
-	}
-	diffs := plassmannWolfeMTAlphaE3Differences{bounds: bounds}
-	calls, ok := plassmannWolfeMTAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+plassmannWolfeMTAlphaE3DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += plassmannWolfeMTAlphaE3Derivative(&x, fx, &g, &diffs)
-
-	if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
-		out.status = PlassmannWolfeMTAlphaE3NonFiniteGradient
-		return out
-	}
-	var dir plassmannWolfeMTAlphaE3Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(plassmannWolfeMTAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                         // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from plassmannWolfeMTAlphaE3ConfirmGradient or settle
-	stalled := false                                                    // whether the run can make no more progress at x
-	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
-	verify := plassmannWolfeMTAlphaE3VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != plassmannWolfeMTAlphaE3VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see plassmannWolfeMTAlphaE3ConfirmGradient and settle).
-			calls, ok := plassmannWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeMTAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
-				return best.ending(PlassmannWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = plassmannWolfeMTAlphaE3VerifyNothing, true
-		case !confirmed:
-			plassmannWolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := plassmannWolfeMTAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, plassmannWolfeMTAlphaE3Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * plassmannWolfeMTAlphaE3Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (plassmannWolfeMTAlphaE3DerivativeCost == 0 || confirmed) {
-			out.status = PlassmannWolfeMTAlphaE3GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = plassmannWolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if plassmannWolfeMTAlphaE3DerivativeCost == 0 {
-				return best.ending(PlassmannWolfeMTAlphaE3Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if plassmannWolfeMTAlphaE3StepWithin(&s, &x, lim.Step) {
-				verify, stalled = plassmannWolfeMTAlphaE3VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PlassmannWolfeMTAlphaE3Diverged, out.iterations, out.evaluations)
-			}
-			plassmannWolfeMTAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PlassmannWolfeMTAlphaE3OutOfIterations, out.iterations, out.evaluations)
-		}
-		plassmannWolfeMTAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := plassmannWolfeMTAlphaE3Dot(&g, &d)
-		if !(now < 0) || !plassmannWolfeMTAlphaE3FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			plassmannWolfeMTAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = plassmannWolfeMTAlphaE3Dot(&g, &d)
-		}
-		first := float64(plassmannWolfeMTAlphaE3StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := plassmannWolfeMTAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannWolfeMTAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case plassmannWolfeMTAlphaE3SearchOutOfBudget:
-			return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-		case plassmannWolfeMTAlphaE3SearchDiverged:
-			return best.ending(PlassmannWolfeMTAlphaE3Diverged, out.iterations, out.evaluations)
-		case plassmannWolfeMTAlphaE3SearchExhausted, plassmannWolfeMTAlphaE3SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see plassmannWolfeMTAlphaE3RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PlassmannWolfeMTAlphaE3NoAcceptableStep
-			switch {
-			case found.rising:
-				end = PlassmannWolfeMTAlphaE3NoDecrease
-			case found.end == plassmannWolfeMTAlphaE3SearchTiny && canSettle:
-				verify, stalled = plassmannWolfeMTAlphaE3VerifyStall, true
-				continue
-			case found.end == plassmannWolfeMTAlphaE3SearchTiny:
-				end = PlassmannWolfeMTAlphaE3Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !plassmannWolfeMTAlphaE3FiniteVec(&xt) {
-			return best.ending(PlassmannWolfeMTAlphaE3NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+plassmannWolfeMTAlphaE3DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += plassmannWolfeMTAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		plassmannWolfeMTAlphaE3Difference(&s, &xt, &x)
-		plassmannWolfeMTAlphaE3Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PlassmannWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r plassmannWolfeMTAlphaE3Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(plassmannWolfeMTAlphaE3Unlimited)
 }
 
 // plassmannWolfeMTAlphaE3Outcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o plassmannWolfeMTAlphaE3Outcome) ending(end PlassmannWolfeMTAlphaE3Status
 	return o
 }
 
-// plassmannWolfeMTAlphaE3EnterBox: without bounds every start is inside.
-func plassmannWolfeMTAlphaE3EnterBox(x *[1]float64, b *plassmannWolfeMTAlphaE3Box) {}
-
-// plassmannWolfeMTAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func plassmannWolfeMTAlphaE3Finite(v float64) bool {
-	return v >= -plassmannWolfeMTAlphaE3LargestFinite && v <= plassmannWolfeMTAlphaE3LargestFinite
+// plassmannWolfeMTAlphaE3Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type plassmannWolfeMTAlphaE3Descent struct {
+	lim       PlassmannWolfeMTAlphaE3Limits
+	stage     int                                // what advance does next
+	diffs     plassmannWolfeMTAlphaE3Differences // the box and the difference intervals
+	dir       plassmannWolfeMTAlphaE3Direction   // the direction's memory
+	x, g, e   [1]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                         // the search direction, the last step and its gradient change
+	fx        float64                            // f(x)
+	t, slope  float64                            // the previous iteration's accepted step and slope
+	out, best plassmannWolfeMTAlphaE3Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                            // f(x0)
+	rises     int                                // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                               // whether g and e at x come from plassmannWolfeMTAlphaE3ConfirmGradient or settle
+	stalled   bool                               // whether the run can make no more progress at x
+	retried   int                                // the iteration whose stall was retried with recalibrated differences
+	verify    int                                // what to check at x before judging it again
 }
 
-// plassmannWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
-func plassmannWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !plassmannWolfeMTAlphaE3Finite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *plassmannWolfeMTAlphaE3Descent) prepare(x0 [1]float64, lim PlassmannWolfeMTAlphaE3Limits, bounds plassmannWolfeMTAlphaE3Box) {
+	r.lim, r.stage = lim, plassmannWolfeMTAlphaE3StageBegin
+	r.diffs = plassmannWolfeMTAlphaE3Differences{bounds: bounds}
+	r.x = x0
+	plassmannWolfeMTAlphaE3EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = plassmannWolfeMTAlphaE3Outcome{x: r.x, f: math.NaN(), status: PlassmannWolfeMTAlphaE3OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *plassmannWolfeMTAlphaE3Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PlassmannWolfeMTAlphaE3Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, plassmannWolfeMTAlphaE3SettleCalls and plassmannWolfeMTAlphaE3IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *plassmannWolfeMTAlphaE3Descent) advance(budget int) plassmannWolfeMTAlphaE3Outcome {
+	used := r.out.evaluations
+	for r.stage != plassmannWolfeMTAlphaE3StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case plassmannWolfeMTAlphaE3StageBegin:
+			if left < 1+plassmannWolfeMTAlphaE3CalibrationCost+plassmannWolfeMTAlphaE3DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case plassmannWolfeMTAlphaE3StageJudge:
+			if r.verify != plassmannWolfeMTAlphaE3VerifyNothing && left < plassmannWolfeMTAlphaE3SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < plassmannWolfeMTAlphaE3IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *plassmannWolfeMTAlphaE3Descent) paused() plassmannWolfeMTAlphaE3Outcome {
+	return r.best.ending(PlassmannWolfeMTAlphaE3Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *plassmannWolfeMTAlphaE3Descent) finish(end PlassmannWolfeMTAlphaE3Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = plassmannWolfeMTAlphaE3StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *plassmannWolfeMTAlphaE3Descent) begin() {
+	r.stage = plassmannWolfeMTAlphaE3StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !plassmannWolfeMTAlphaE3Finite(r.fx) || !plassmannWolfeMTAlphaE3FiniteVec(&r.x) {
+		r.out.status = PlassmannWolfeMTAlphaE3NonFiniteStart
+		return
+	}
+	calls, ok := plassmannWolfeMTAlphaE3Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+plassmannWolfeMTAlphaE3DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += plassmannWolfeMTAlphaE3Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !plassmannWolfeMTAlphaE3FiniteVec(&r.g) {
+		r.out.status = PlassmannWolfeMTAlphaE3NonFiniteGradient
+		return
+	}
+	r.t, r.slope = plassmannWolfeMTAlphaE3StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, plassmannWolfeMTAlphaE3VerifyNothing
+	r.stage = plassmannWolfeMTAlphaE3StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves plassmannWolfeMTAlphaE3StageSearch next when the run goes on.
+func (r *plassmannWolfeMTAlphaE3Descent) judge() {
+	switch {
+	case r.verify != plassmannWolfeMTAlphaE3VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see plassmannWolfeMTAlphaE3ConfirmGradient and settle).
+		calls, ok := plassmannWolfeMTAlphaE3Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == plassmannWolfeMTAlphaE3VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PlassmannWolfeMTAlphaE3OutOfEvaluations)
+			return
+		}
+		if !plassmannWolfeMTAlphaE3FiniteVec(&r.g) {
+			r.finish(PlassmannWolfeMTAlphaE3NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = plassmannWolfeMTAlphaE3VerifyNothing, true
+	case !r.confirmed:
+		plassmannWolfeMTAlphaE3GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := plassmannWolfeMTAlphaE3Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, plassmannWolfeMTAlphaE3Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * plassmannWolfeMTAlphaE3Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (plassmannWolfeMTAlphaE3DerivativeCost == 0 || r.confirmed) {
+		r.out.status = PlassmannWolfeMTAlphaE3GradientSmall
+		r.stage = plassmannWolfeMTAlphaE3StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = plassmannWolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if plassmannWolfeMTAlphaE3DerivativeCost == 0 {
+			r.finish(PlassmannWolfeMTAlphaE3Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if plassmannWolfeMTAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = plassmannWolfeMTAlphaE3VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PlassmannWolfeMTAlphaE3Diverged)
+			return
+		}
+		plassmannWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PlassmannWolfeMTAlphaE3OutOfIterations)
+		return
+	}
+	r.stage = plassmannWolfeMTAlphaE3StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves plassmannWolfeMTAlphaE3StageJudge next when the run
+// goes on.
+func (r *plassmannWolfeMTAlphaE3Descent) search() {
+	plassmannWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := plassmannWolfeMTAlphaE3Dot(&r.g, &r.d)
+	if !(now < 0) || !plassmannWolfeMTAlphaE3FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		plassmannWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = plassmannWolfeMTAlphaE3Dot(&r.g, &r.d)
+	}
+	first := float64(plassmannWolfeMTAlphaE3StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := plassmannWolfeMTAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := plassmannWolfeMTAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case plassmannWolfeMTAlphaE3SearchOutOfBudget:
+		r.finish(PlassmannWolfeMTAlphaE3OutOfEvaluations)
+		return
+	case plassmannWolfeMTAlphaE3SearchDiverged:
+		r.finish(PlassmannWolfeMTAlphaE3Diverged)
+		return
+	case plassmannWolfeMTAlphaE3SearchExhausted, plassmannWolfeMTAlphaE3SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see plassmannWolfeMTAlphaE3RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PlassmannWolfeMTAlphaE3NoAcceptableStep
+		switch {
+		case found.rising:
+			end = PlassmannWolfeMTAlphaE3NoDecrease
+		case found.end == plassmannWolfeMTAlphaE3SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = plassmannWolfeMTAlphaE3VerifyStall, true, plassmannWolfeMTAlphaE3StageJudge
+			return
+		case found.end == plassmannWolfeMTAlphaE3SearchTiny:
+			end = PlassmannWolfeMTAlphaE3Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !plassmannWolfeMTAlphaE3FiniteVec(&xt) {
+		r.finish(PlassmannWolfeMTAlphaE3NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+plassmannWolfeMTAlphaE3DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PlassmannWolfeMTAlphaE3OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += plassmannWolfeMTAlphaE3Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	plassmannWolfeMTAlphaE3Difference(&r.s, &xt, &r.x)
+	plassmannWolfeMTAlphaE3Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !plassmannWolfeMTAlphaE3FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PlassmannWolfeMTAlphaE3NonFiniteGradient)
+		return
+	}
+	r.stage = plassmannWolfeMTAlphaE3StageJudge
 }
 
 // plassmannWolfeMTAlphaE3Differences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type plassmannWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeMTAlphaE3RoundingFloor)
 	bounds    plassmannWolfeMTAlphaE3Box
-}
-
-// plassmannWolfeMTAlphaE3Calibrate: an analytic gradient needs no intervals.
-func plassmannWolfeMTAlphaE3Calibrate(x *[1]float64, fx float64, diffs *plassmannWolfeMTAlphaE3Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// plassmannWolfeMTAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func plassmannWolfeMTAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) int {
-	g[0] = PlassmannDeriv(x[0])
-	return 0
 }
 
 // plassmannWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -447,12 +596,57 @@ func plassmannWolfeMTAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// plassmannWolfeMTAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func plassmannWolfeMTAlphaE3Finite(v float64) bool {
+	return v >= -plassmannWolfeMTAlphaE3LargestFinite && v <= plassmannWolfeMTAlphaE3LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	plassmannWolfeMTAlphaE3StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	plassmannWolfeMTAlphaE3StageJudge         // settle when asked (plassmannWolfeMTAlphaE3SettleCalls), judge x, learn from the step: no calls otherwise
+	plassmannWolfeMTAlphaE3StageSearch        // the line search and the gradient at the accepted point: plassmannWolfeMTAlphaE3IterationCalls
+	plassmannWolfeMTAlphaE3StageOver          // the run has ended; out is its result
+)
+
+// plassmannWolfeMTAlphaE3EnterBox: without bounds every start is inside.
+func plassmannWolfeMTAlphaE3EnterBox(x *[1]float64, b *plassmannWolfeMTAlphaE3Box) {}
+
 // What minimize checks at x before judging it again.
 const (
 	plassmannWolfeMTAlphaE3VerifyNothing = iota
 	plassmannWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	plassmannWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
+func plassmannWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !plassmannWolfeMTAlphaE3Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// plassmannWolfeMTAlphaE3Calibrate: an analytic gradient needs no intervals.
+func plassmannWolfeMTAlphaE3Calibrate(x *[1]float64, fx float64, diffs *plassmannWolfeMTAlphaE3Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// plassmannWolfeMTAlphaE3Derivative calls the user's gradient; it costs no objective calls.
+func plassmannWolfeMTAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) int {
+	g[0] = PlassmannDeriv(x[0])
+	return 0
+}
 
 // plassmannWolfeMTAlphaE3Settle prepares a verdict at x: with differences it confirms the
 // gradient (plassmannWolfeMTAlphaE3ConfirmGradient), and at a stall it adds to each error bound
@@ -969,3 +1163,6 @@ func plassmannWolfeMTAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeMTAlphaE3Unlimited is a tick budget that never pauses a run.
+const plassmannWolfeMTAlphaE3Unlimited = int(^uint(0) >> 1)

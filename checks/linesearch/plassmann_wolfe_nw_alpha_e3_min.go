@@ -26,6 +26,8 @@ const (
 	PlassmannWolfeNWAlphaE3NoDecrease
 	// PlassmannWolfeNWAlphaE3Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PlassmannWolfeNWAlphaE3Diverged
+	// PlassmannWolfeNWAlphaE3Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PlassmannWolfeNWAlphaE3Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PlassmannWolfeNWAlphaE3Status) String() string {
 		return "no decrease"
 	case PlassmannWolfeNWAlphaE3Diverged:
 		return "diverged"
+	case PlassmannWolfeNWAlphaE3Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PlassmannWolfeNWAlphaE3WithLimits(x0 float64, limits PlassmannWolfeNWAlphaE
 	}
 }
 
+// PlassmannWolfeNWAlphaE3TickMinimum is the smallest call budget with which every PlassmannWolfeNWAlphaE3Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 65).
+const PlassmannWolfeNWAlphaE3TickMinimum = 65
+
+// PlassmannWolfeNWAlphaE3Solver is a run of PlassmannWolfeNWAlphaE3 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PlassmannWolfeNWAlphaE3DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 65. A budget of at least PlassmannWolfeNWAlphaE3TickMinimum = 65 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PlassmannWolfeNWAlphaE3Running ends exactly as PlassmannWolfeNWAlphaE3WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PlassmannWolfeNWAlphaE3 and PlassmannWolfeNWAlphaE3WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is PlassmannWolfeNWAlphaE3Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PlassmannWolfeNWAlphaE3Solver struct {
+	run       plassmannWolfeNWAlphaE3Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PlassmannWolfeNWAlphaE3Limits  // the limits of the runs; PlassmannWolfeNWAlphaE3DefaultLimits() until SetLimits
+	ownLimits bool                           // whether SetLimits has set limits
+	started   bool                           // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PlassmannWolfeNWAlphaE3Solver) SetLimits(limits PlassmannWolfeNWAlphaE3Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PlassmannWolfeNWAlphaE3Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PlassmannWolfeNWAlphaE3Solver) StartFrom(from PlassmannWolfeNWAlphaE3Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *PlassmannWolfeNWAlphaE3Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PlassmannWolfeNWAlphaE3Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = PlassmannWolfeNWAlphaE3DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, plassmannWolfeNWAlphaE3Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PlassmannWolfeNWAlphaE3Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PlassmannWolfeNWAlphaE3Solver for the budget rule and what advancing assumes of the objective.
+func (s *PlassmannWolfeNWAlphaE3Solver) Advance(budget int) PlassmannWolfeNWAlphaE3Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PlassmannWolfeNWAlphaE3Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of PlassmannWolfeNWAlphaE3 from linesearch.toml; the kernels below read them.
 const (
-	plassmannWolfeNWAlphaE3StepInitial    = 99999.99999999991      // step.initial
-	plassmannWolfeNWAlphaE3StepDecrease   = 0.0001                 // step.decrease (c1)
-	plassmannWolfeNWAlphaE3StepCurvature  = 0.9                    // step.curvature (c2)
-	plassmannWolfeNWAlphaE3StepTrials     = 65                     // step.trials
-	plassmannWolfeNWAlphaE3DerivativeCost = 0                      // objective calls per gradient
-	plassmannWolfeNWAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	plassmannWolfeNWAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	plassmannWolfeNWAlphaE3StepInitial     = 99999.99999999991      // step.initial
+	plassmannWolfeNWAlphaE3StepDecrease    = 0.0001                 // step.decrease (c1)
+	plassmannWolfeNWAlphaE3StepCurvature   = 0.9                    // step.curvature (c2)
+	plassmannWolfeNWAlphaE3StepTrials      = 65                     // step.trials
+	plassmannWolfeNWAlphaE3DerivativeCost  = 0                      // objective calls per gradient
+	plassmannWolfeNWAlphaE3CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	plassmannWolfeNWAlphaE3IterationCalls  = 65                     // most objective calls of one line search with the gradient at its step
+	plassmannWolfeNWAlphaE3SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	plassmannWolfeNWAlphaE3UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	plassmannWolfeNWAlphaE3LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // plassmannWolfeNWAlphaE3Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3Limits, bounds plassmannWolfeNWAlphaE3Box) plassmannWolfeNWAlphaE3Outcome {
-	x := x0
-	plassmannWolfeNWAlphaE3EnterBox(&x, &bounds)
-	out := plassmannWolfeNWAlphaE3Outcome{x: x, status: PlassmannWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Plassmann(x[0])
-	out.f, out.evaluations = fx, 1
-	if !plassmannWolfeNWAlphaE3Finite(fx) || !plassmannWolfeNWAlphaE3FiniteVec(&x) {
-		out.status = PlassmannWolfeNWAlphaE3NonFiniteStart
-		return out
-	}
-	diffs := plassmannWolfeNWAlphaE3Differences{bounds: bounds}
-	calls, ok := plassmannWolfeNWAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+plassmannWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += plassmannWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
-
-	if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
-		out.status = PlassmannWolfeNWAlphaE3NonFiniteGradient
-		return out
-	}
-	var dir plassmannWolfeNWAlphaE3Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(plassmannWolfeNWAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                         // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from plassmannWolfeNWAlphaE3ConfirmGradient or settle
-	stalled := false                                                    // whether the run can make no more progress at x
-	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
-	verify := plassmannWolfeNWAlphaE3VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != plassmannWolfeNWAlphaE3VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see plassmannWolfeNWAlphaE3ConfirmGradient and settle).
-			calls, ok := plassmannWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeNWAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
-				return best.ending(PlassmannWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = plassmannWolfeNWAlphaE3VerifyNothing, true
-		case !confirmed:
-			plassmannWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := plassmannWolfeNWAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, plassmannWolfeNWAlphaE3Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * plassmannWolfeNWAlphaE3Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (plassmannWolfeNWAlphaE3DerivativeCost == 0 || confirmed) {
-			out.status = PlassmannWolfeNWAlphaE3GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = plassmannWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if plassmannWolfeNWAlphaE3DerivativeCost == 0 {
-				return best.ending(PlassmannWolfeNWAlphaE3Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if plassmannWolfeNWAlphaE3StepWithin(&s, &x, lim.Step) {
-				verify, stalled = plassmannWolfeNWAlphaE3VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PlassmannWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
-			}
-			plassmannWolfeNWAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PlassmannWolfeNWAlphaE3OutOfIterations, out.iterations, out.evaluations)
-		}
-		plassmannWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := plassmannWolfeNWAlphaE3Dot(&g, &d)
-		if !(now < 0) || !plassmannWolfeNWAlphaE3FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			plassmannWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = plassmannWolfeNWAlphaE3Dot(&g, &d)
-		}
-		first := float64(plassmannWolfeNWAlphaE3StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := plassmannWolfeNWAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannWolfeNWAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case plassmannWolfeNWAlphaE3SearchOutOfBudget:
-			return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-		case plassmannWolfeNWAlphaE3SearchDiverged:
-			return best.ending(PlassmannWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
-		case plassmannWolfeNWAlphaE3SearchExhausted, plassmannWolfeNWAlphaE3SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see plassmannWolfeNWAlphaE3RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PlassmannWolfeNWAlphaE3NoAcceptableStep
-			switch {
-			case found.rising:
-				end = PlassmannWolfeNWAlphaE3NoDecrease
-			case found.end == plassmannWolfeNWAlphaE3SearchTiny && canSettle:
-				verify, stalled = plassmannWolfeNWAlphaE3VerifyStall, true
-				continue
-			case found.end == plassmannWolfeNWAlphaE3SearchTiny:
-				end = PlassmannWolfeNWAlphaE3Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !plassmannWolfeNWAlphaE3FiniteVec(&xt) {
-			return best.ending(PlassmannWolfeNWAlphaE3NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+plassmannWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += plassmannWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		plassmannWolfeNWAlphaE3Difference(&s, &xt, &x)
-		plassmannWolfeNWAlphaE3Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PlassmannWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r plassmannWolfeNWAlphaE3Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(plassmannWolfeNWAlphaE3Unlimited)
 }
 
 // plassmannWolfeNWAlphaE3Outcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o plassmannWolfeNWAlphaE3Outcome) ending(end PlassmannWolfeNWAlphaE3Status
 	return o
 }
 
-// plassmannWolfeNWAlphaE3EnterBox: without bounds every start is inside.
-func plassmannWolfeNWAlphaE3EnterBox(x *[1]float64, b *plassmannWolfeNWAlphaE3Box) {}
-
-// plassmannWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func plassmannWolfeNWAlphaE3Finite(v float64) bool {
-	return v >= -plassmannWolfeNWAlphaE3LargestFinite && v <= plassmannWolfeNWAlphaE3LargestFinite
+// plassmannWolfeNWAlphaE3Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type plassmannWolfeNWAlphaE3Descent struct {
+	lim       PlassmannWolfeNWAlphaE3Limits
+	stage     int                                // what advance does next
+	diffs     plassmannWolfeNWAlphaE3Differences // the box and the difference intervals
+	dir       plassmannWolfeNWAlphaE3Direction   // the direction's memory
+	x, g, e   [1]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                         // the search direction, the last step and its gradient change
+	fx        float64                            // f(x)
+	t, slope  float64                            // the previous iteration's accepted step and slope
+	out, best plassmannWolfeNWAlphaE3Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                            // f(x0)
+	rises     int                                // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                               // whether g and e at x come from plassmannWolfeNWAlphaE3ConfirmGradient or settle
+	stalled   bool                               // whether the run can make no more progress at x
+	retried   int                                // the iteration whose stall was retried with recalibrated differences
+	verify    int                                // what to check at x before judging it again
 }
 
-// plassmannWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
-func plassmannWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !plassmannWolfeNWAlphaE3Finite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *plassmannWolfeNWAlphaE3Descent) prepare(x0 [1]float64, lim PlassmannWolfeNWAlphaE3Limits, bounds plassmannWolfeNWAlphaE3Box) {
+	r.lim, r.stage = lim, plassmannWolfeNWAlphaE3StageBegin
+	r.diffs = plassmannWolfeNWAlphaE3Differences{bounds: bounds}
+	r.x = x0
+	plassmannWolfeNWAlphaE3EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = plassmannWolfeNWAlphaE3Outcome{x: r.x, f: math.NaN(), status: PlassmannWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *plassmannWolfeNWAlphaE3Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PlassmannWolfeNWAlphaE3Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, plassmannWolfeNWAlphaE3SettleCalls and plassmannWolfeNWAlphaE3IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *plassmannWolfeNWAlphaE3Descent) advance(budget int) plassmannWolfeNWAlphaE3Outcome {
+	used := r.out.evaluations
+	for r.stage != plassmannWolfeNWAlphaE3StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case plassmannWolfeNWAlphaE3StageBegin:
+			if left < 1+plassmannWolfeNWAlphaE3CalibrationCost+plassmannWolfeNWAlphaE3DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case plassmannWolfeNWAlphaE3StageJudge:
+			if r.verify != plassmannWolfeNWAlphaE3VerifyNothing && left < plassmannWolfeNWAlphaE3SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < plassmannWolfeNWAlphaE3IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *plassmannWolfeNWAlphaE3Descent) paused() plassmannWolfeNWAlphaE3Outcome {
+	return r.best.ending(PlassmannWolfeNWAlphaE3Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *plassmannWolfeNWAlphaE3Descent) finish(end PlassmannWolfeNWAlphaE3Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = plassmannWolfeNWAlphaE3StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *plassmannWolfeNWAlphaE3Descent) begin() {
+	r.stage = plassmannWolfeNWAlphaE3StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !plassmannWolfeNWAlphaE3Finite(r.fx) || !plassmannWolfeNWAlphaE3FiniteVec(&r.x) {
+		r.out.status = PlassmannWolfeNWAlphaE3NonFiniteStart
+		return
+	}
+	calls, ok := plassmannWolfeNWAlphaE3Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+plassmannWolfeNWAlphaE3DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += plassmannWolfeNWAlphaE3Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !plassmannWolfeNWAlphaE3FiniteVec(&r.g) {
+		r.out.status = PlassmannWolfeNWAlphaE3NonFiniteGradient
+		return
+	}
+	r.t, r.slope = plassmannWolfeNWAlphaE3StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, plassmannWolfeNWAlphaE3VerifyNothing
+	r.stage = plassmannWolfeNWAlphaE3StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves plassmannWolfeNWAlphaE3StageSearch next when the run goes on.
+func (r *plassmannWolfeNWAlphaE3Descent) judge() {
+	switch {
+	case r.verify != plassmannWolfeNWAlphaE3VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see plassmannWolfeNWAlphaE3ConfirmGradient and settle).
+		calls, ok := plassmannWolfeNWAlphaE3Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == plassmannWolfeNWAlphaE3VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PlassmannWolfeNWAlphaE3OutOfEvaluations)
+			return
+		}
+		if !plassmannWolfeNWAlphaE3FiniteVec(&r.g) {
+			r.finish(PlassmannWolfeNWAlphaE3NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = plassmannWolfeNWAlphaE3VerifyNothing, true
+	case !r.confirmed:
+		plassmannWolfeNWAlphaE3GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := plassmannWolfeNWAlphaE3Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, plassmannWolfeNWAlphaE3Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * plassmannWolfeNWAlphaE3Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (plassmannWolfeNWAlphaE3DerivativeCost == 0 || r.confirmed) {
+		r.out.status = PlassmannWolfeNWAlphaE3GradientSmall
+		r.stage = plassmannWolfeNWAlphaE3StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = plassmannWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if plassmannWolfeNWAlphaE3DerivativeCost == 0 {
+			r.finish(PlassmannWolfeNWAlphaE3Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if plassmannWolfeNWAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = plassmannWolfeNWAlphaE3VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PlassmannWolfeNWAlphaE3Diverged)
+			return
+		}
+		plassmannWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PlassmannWolfeNWAlphaE3OutOfIterations)
+		return
+	}
+	r.stage = plassmannWolfeNWAlphaE3StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves plassmannWolfeNWAlphaE3StageJudge next when the run
+// goes on.
+func (r *plassmannWolfeNWAlphaE3Descent) search() {
+	plassmannWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := plassmannWolfeNWAlphaE3Dot(&r.g, &r.d)
+	if !(now < 0) || !plassmannWolfeNWAlphaE3FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		plassmannWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = plassmannWolfeNWAlphaE3Dot(&r.g, &r.d)
+	}
+	first := float64(plassmannWolfeNWAlphaE3StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := plassmannWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := plassmannWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case plassmannWolfeNWAlphaE3SearchOutOfBudget:
+		r.finish(PlassmannWolfeNWAlphaE3OutOfEvaluations)
+		return
+	case plassmannWolfeNWAlphaE3SearchDiverged:
+		r.finish(PlassmannWolfeNWAlphaE3Diverged)
+		return
+	case plassmannWolfeNWAlphaE3SearchExhausted, plassmannWolfeNWAlphaE3SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see plassmannWolfeNWAlphaE3RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PlassmannWolfeNWAlphaE3NoAcceptableStep
+		switch {
+		case found.rising:
+			end = PlassmannWolfeNWAlphaE3NoDecrease
+		case found.end == plassmannWolfeNWAlphaE3SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = plassmannWolfeNWAlphaE3VerifyStall, true, plassmannWolfeNWAlphaE3StageJudge
+			return
+		case found.end == plassmannWolfeNWAlphaE3SearchTiny:
+			end = PlassmannWolfeNWAlphaE3Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !plassmannWolfeNWAlphaE3FiniteVec(&xt) {
+		r.finish(PlassmannWolfeNWAlphaE3NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+plassmannWolfeNWAlphaE3DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PlassmannWolfeNWAlphaE3OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += plassmannWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	plassmannWolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
+	plassmannWolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !plassmannWolfeNWAlphaE3FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PlassmannWolfeNWAlphaE3NonFiniteGradient)
+		return
+	}
+	r.stage = plassmannWolfeNWAlphaE3StageJudge
 }
 
 // plassmannWolfeNWAlphaE3Differences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type plassmannWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaE3RoundingFloor)
 	bounds    plassmannWolfeNWAlphaE3Box
-}
-
-// plassmannWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
-func plassmannWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *plassmannWolfeNWAlphaE3Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// plassmannWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func plassmannWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) int {
-	g[0] = PlassmannDeriv(x[0])
-	return 0
 }
 
 // plassmannWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -447,12 +596,57 @@ func plassmannWolfeNWAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// plassmannWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func plassmannWolfeNWAlphaE3Finite(v float64) bool {
+	return v >= -plassmannWolfeNWAlphaE3LargestFinite && v <= plassmannWolfeNWAlphaE3LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	plassmannWolfeNWAlphaE3StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	plassmannWolfeNWAlphaE3StageJudge         // settle when asked (plassmannWolfeNWAlphaE3SettleCalls), judge x, learn from the step: no calls otherwise
+	plassmannWolfeNWAlphaE3StageSearch        // the line search and the gradient at the accepted point: plassmannWolfeNWAlphaE3IterationCalls
+	plassmannWolfeNWAlphaE3StageOver          // the run has ended; out is its result
+)
+
+// plassmannWolfeNWAlphaE3EnterBox: without bounds every start is inside.
+func plassmannWolfeNWAlphaE3EnterBox(x *[1]float64, b *plassmannWolfeNWAlphaE3Box) {}
+
 // What minimize checks at x before judging it again.
 const (
 	plassmannWolfeNWAlphaE3VerifyNothing = iota
 	plassmannWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	plassmannWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
+func plassmannWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !plassmannWolfeNWAlphaE3Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// plassmannWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
+func plassmannWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *plassmannWolfeNWAlphaE3Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// plassmannWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
+func plassmannWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) int {
+	g[0] = PlassmannDeriv(x[0])
+	return 0
+}
 
 // plassmannWolfeNWAlphaE3Settle prepares a verdict at x: with differences it confirms the
 // gradient (plassmannWolfeNWAlphaE3ConfirmGradient), and at a stall it adds to each error bound
@@ -969,3 +1163,6 @@ func plassmannWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
+const plassmannWolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -26,6 +26,8 @@ const (
 	PlassmannWolfeNWAlphaEm1NoDecrease
 	// PlassmannWolfeNWAlphaEm1Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PlassmannWolfeNWAlphaEm1Diverged
+	// PlassmannWolfeNWAlphaEm1Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PlassmannWolfeNWAlphaEm1Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PlassmannWolfeNWAlphaEm1Status) String() string {
 		return "no decrease"
 	case PlassmannWolfeNWAlphaEm1Diverged:
 		return "diverged"
+	case PlassmannWolfeNWAlphaEm1Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PlassmannWolfeNWAlphaEm1WithLimits(x0 float64, limits PlassmannWolfeNWAlpha
 	}
 }
 
+// PlassmannWolfeNWAlphaEm1TickMinimum is the smallest call budget with which every PlassmannWolfeNWAlphaEm1Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 51).
+const PlassmannWolfeNWAlphaEm1TickMinimum = 51
+
+// PlassmannWolfeNWAlphaEm1Solver is a run of PlassmannWolfeNWAlphaEm1 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PlassmannWolfeNWAlphaEm1DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 51. A budget of at least PlassmannWolfeNWAlphaEm1TickMinimum = 51 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PlassmannWolfeNWAlphaEm1Running ends exactly as PlassmannWolfeNWAlphaEm1WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PlassmannWolfeNWAlphaEm1 and PlassmannWolfeNWAlphaEm1WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is PlassmannWolfeNWAlphaEm1Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PlassmannWolfeNWAlphaEm1Solver struct {
+	run       plassmannWolfeNWAlphaEm1Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PlassmannWolfeNWAlphaEm1Limits  // the limits of the runs; PlassmannWolfeNWAlphaEm1DefaultLimits() until SetLimits
+	ownLimits bool                            // whether SetLimits has set limits
+	started   bool                            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PlassmannWolfeNWAlphaEm1Solver) SetLimits(limits PlassmannWolfeNWAlphaEm1Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PlassmannWolfeNWAlphaEm1Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PlassmannWolfeNWAlphaEm1Solver) StartFrom(from PlassmannWolfeNWAlphaEm1Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *PlassmannWolfeNWAlphaEm1Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PlassmannWolfeNWAlphaEm1Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = PlassmannWolfeNWAlphaEm1DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, plassmannWolfeNWAlphaEm1Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PlassmannWolfeNWAlphaEm1Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PlassmannWolfeNWAlphaEm1Solver for the budget rule and what advancing assumes of the objective.
+func (s *PlassmannWolfeNWAlphaEm1Solver) Advance(budget int) PlassmannWolfeNWAlphaEm1Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PlassmannWolfeNWAlphaEm1Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of PlassmannWolfeNWAlphaEm1 from linesearch.toml; the kernels below read them.
 const (
-	plassmannWolfeNWAlphaEm1StepInitial    = 9.999999999999991      // step.initial
-	plassmannWolfeNWAlphaEm1StepDecrease   = 0.0001                 // step.decrease (c1)
-	plassmannWolfeNWAlphaEm1StepCurvature  = 0.9                    // step.curvature (c2)
-	plassmannWolfeNWAlphaEm1StepTrials     = 51                     // step.trials
-	plassmannWolfeNWAlphaEm1DerivativeCost = 0                      // objective calls per gradient
-	plassmannWolfeNWAlphaEm1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	plassmannWolfeNWAlphaEm1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	plassmannWolfeNWAlphaEm1StepInitial     = 9.999999999999991      // step.initial
+	plassmannWolfeNWAlphaEm1StepDecrease    = 0.0001                 // step.decrease (c1)
+	plassmannWolfeNWAlphaEm1StepCurvature   = 0.9                    // step.curvature (c2)
+	plassmannWolfeNWAlphaEm1StepTrials      = 51                     // step.trials
+	plassmannWolfeNWAlphaEm1DerivativeCost  = 0                      // objective calls per gradient
+	plassmannWolfeNWAlphaEm1CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	plassmannWolfeNWAlphaEm1IterationCalls  = 51                     // most objective calls of one line search with the gradient at its step
+	plassmannWolfeNWAlphaEm1SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	plassmannWolfeNWAlphaEm1UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	plassmannWolfeNWAlphaEm1LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // plassmannWolfeNWAlphaEm1Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func plassmannWolfeNWAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm1Limits, bounds plassmannWolfeNWAlphaEm1Box) plassmannWolfeNWAlphaEm1Outcome {
-	x := x0
-	plassmannWolfeNWAlphaEm1EnterBox(&x, &bounds)
-	out := plassmannWolfeNWAlphaEm1Outcome{x: x, status: PlassmannWolfeNWAlphaEm1OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Plassmann(x[0])
-	out.f, out.evaluations = fx, 1
-	if !plassmannWolfeNWAlphaEm1Finite(fx) || !plassmannWolfeNWAlphaEm1FiniteVec(&x) {
-		out.status = PlassmannWolfeNWAlphaEm1NonFiniteStart
-		return out
-	}
-	diffs := plassmannWolfeNWAlphaEm1Differences{bounds: bounds}
-	calls, ok := plassmannWolfeNWAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+plassmannWolfeNWAlphaEm1DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += plassmannWolfeNWAlphaEm1Derivative(&x, fx, &g, &diffs)
-
-	if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
-		out.status = PlassmannWolfeNWAlphaEm1NonFiniteGradient
-		return out
-	}
-	var dir plassmannWolfeNWAlphaEm1Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(plassmannWolfeNWAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from plassmannWolfeNWAlphaEm1ConfirmGradient or settle
-	stalled := false                                                     // whether the run can make no more progress at x
-	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
-	verify := plassmannWolfeNWAlphaEm1VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != plassmannWolfeNWAlphaEm1VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see plassmannWolfeNWAlphaEm1ConfirmGradient and settle).
-			calls, ok := plassmannWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeNWAlphaEm1VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
-				return best.ending(PlassmannWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = plassmannWolfeNWAlphaEm1VerifyNothing, true
-		case !confirmed:
-			plassmannWolfeNWAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := plassmannWolfeNWAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, plassmannWolfeNWAlphaEm1Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * plassmannWolfeNWAlphaEm1Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (plassmannWolfeNWAlphaEm1DerivativeCost == 0 || confirmed) {
-			out.status = PlassmannWolfeNWAlphaEm1GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = plassmannWolfeNWAlphaEm1VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if plassmannWolfeNWAlphaEm1DerivativeCost == 0 {
-				return best.ending(PlassmannWolfeNWAlphaEm1Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if plassmannWolfeNWAlphaEm1StepWithin(&s, &x, lim.Step) {
-				verify, stalled = plassmannWolfeNWAlphaEm1VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PlassmannWolfeNWAlphaEm1Diverged, out.iterations, out.evaluations)
-			}
-			plassmannWolfeNWAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PlassmannWolfeNWAlphaEm1OutOfIterations, out.iterations, out.evaluations)
-		}
-		plassmannWolfeNWAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := plassmannWolfeNWAlphaEm1Dot(&g, &d)
-		if !(now < 0) || !plassmannWolfeNWAlphaEm1FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			plassmannWolfeNWAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = plassmannWolfeNWAlphaEm1Dot(&g, &d)
-		}
-		first := float64(plassmannWolfeNWAlphaEm1StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := plassmannWolfeNWAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannWolfeNWAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case plassmannWolfeNWAlphaEm1SearchOutOfBudget:
-			return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-		case plassmannWolfeNWAlphaEm1SearchDiverged:
-			return best.ending(PlassmannWolfeNWAlphaEm1Diverged, out.iterations, out.evaluations)
-		case plassmannWolfeNWAlphaEm1SearchExhausted, plassmannWolfeNWAlphaEm1SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see plassmannWolfeNWAlphaEm1RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PlassmannWolfeNWAlphaEm1NoAcceptableStep
-			switch {
-			case found.rising:
-				end = PlassmannWolfeNWAlphaEm1NoDecrease
-			case found.end == plassmannWolfeNWAlphaEm1SearchTiny && canSettle:
-				verify, stalled = plassmannWolfeNWAlphaEm1VerifyStall, true
-				continue
-			case found.end == plassmannWolfeNWAlphaEm1SearchTiny:
-				end = PlassmannWolfeNWAlphaEm1Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !plassmannWolfeNWAlphaEm1FiniteVec(&xt) {
-			return best.ending(PlassmannWolfeNWAlphaEm1NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+plassmannWolfeNWAlphaEm1DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += plassmannWolfeNWAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		plassmannWolfeNWAlphaEm1Difference(&s, &xt, &x)
-		plassmannWolfeNWAlphaEm1Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PlassmannWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r plassmannWolfeNWAlphaEm1Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(plassmannWolfeNWAlphaEm1Unlimited)
 }
 
 // plassmannWolfeNWAlphaEm1Outcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o plassmannWolfeNWAlphaEm1Outcome) ending(end PlassmannWolfeNWAlphaEm1Stat
 	return o
 }
 
-// plassmannWolfeNWAlphaEm1EnterBox: without bounds every start is inside.
-func plassmannWolfeNWAlphaEm1EnterBox(x *[1]float64, b *plassmannWolfeNWAlphaEm1Box) {}
-
-// plassmannWolfeNWAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func plassmannWolfeNWAlphaEm1Finite(v float64) bool {
-	return v >= -plassmannWolfeNWAlphaEm1LargestFinite && v <= plassmannWolfeNWAlphaEm1LargestFinite
+// plassmannWolfeNWAlphaEm1Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type plassmannWolfeNWAlphaEm1Descent struct {
+	lim       PlassmannWolfeNWAlphaEm1Limits
+	stage     int                                 // what advance does next
+	diffs     plassmannWolfeNWAlphaEm1Differences // the box and the difference intervals
+	dir       plassmannWolfeNWAlphaEm1Direction   // the direction's memory
+	x, g, e   [1]float64                          // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                          // the search direction, the last step and its gradient change
+	fx        float64                             // f(x)
+	t, slope  float64                             // the previous iteration's accepted step and slope
+	out, best plassmannWolfeNWAlphaEm1Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                             // f(x0)
+	rises     int                                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                // whether g and e at x come from plassmannWolfeNWAlphaEm1ConfirmGradient or settle
+	stalled   bool                                // whether the run can make no more progress at x
+	retried   int                                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                                 // what to check at x before judging it again
 }
 
-// plassmannWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
-func plassmannWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !plassmannWolfeNWAlphaEm1Finite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *plassmannWolfeNWAlphaEm1Descent) prepare(x0 [1]float64, lim PlassmannWolfeNWAlphaEm1Limits, bounds plassmannWolfeNWAlphaEm1Box) {
+	r.lim, r.stage = lim, plassmannWolfeNWAlphaEm1StageBegin
+	r.diffs = plassmannWolfeNWAlphaEm1Differences{bounds: bounds}
+	r.x = x0
+	plassmannWolfeNWAlphaEm1EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = plassmannWolfeNWAlphaEm1Outcome{x: r.x, f: math.NaN(), status: PlassmannWolfeNWAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *plassmannWolfeNWAlphaEm1Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PlassmannWolfeNWAlphaEm1Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, plassmannWolfeNWAlphaEm1SettleCalls and plassmannWolfeNWAlphaEm1IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *plassmannWolfeNWAlphaEm1Descent) advance(budget int) plassmannWolfeNWAlphaEm1Outcome {
+	used := r.out.evaluations
+	for r.stage != plassmannWolfeNWAlphaEm1StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case plassmannWolfeNWAlphaEm1StageBegin:
+			if left < 1+plassmannWolfeNWAlphaEm1CalibrationCost+plassmannWolfeNWAlphaEm1DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case plassmannWolfeNWAlphaEm1StageJudge:
+			if r.verify != plassmannWolfeNWAlphaEm1VerifyNothing && left < plassmannWolfeNWAlphaEm1SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < plassmannWolfeNWAlphaEm1IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *plassmannWolfeNWAlphaEm1Descent) paused() plassmannWolfeNWAlphaEm1Outcome {
+	return r.best.ending(PlassmannWolfeNWAlphaEm1Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *plassmannWolfeNWAlphaEm1Descent) finish(end PlassmannWolfeNWAlphaEm1Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = plassmannWolfeNWAlphaEm1StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *plassmannWolfeNWAlphaEm1Descent) begin() {
+	r.stage = plassmannWolfeNWAlphaEm1StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !plassmannWolfeNWAlphaEm1Finite(r.fx) || !plassmannWolfeNWAlphaEm1FiniteVec(&r.x) {
+		r.out.status = PlassmannWolfeNWAlphaEm1NonFiniteStart
+		return
+	}
+	calls, ok := plassmannWolfeNWAlphaEm1Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+plassmannWolfeNWAlphaEm1DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += plassmannWolfeNWAlphaEm1Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !plassmannWolfeNWAlphaEm1FiniteVec(&r.g) {
+		r.out.status = PlassmannWolfeNWAlphaEm1NonFiniteGradient
+		return
+	}
+	r.t, r.slope = plassmannWolfeNWAlphaEm1StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, plassmannWolfeNWAlphaEm1VerifyNothing
+	r.stage = plassmannWolfeNWAlphaEm1StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves plassmannWolfeNWAlphaEm1StageSearch next when the run goes on.
+func (r *plassmannWolfeNWAlphaEm1Descent) judge() {
+	switch {
+	case r.verify != plassmannWolfeNWAlphaEm1VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see plassmannWolfeNWAlphaEm1ConfirmGradient and settle).
+		calls, ok := plassmannWolfeNWAlphaEm1Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == plassmannWolfeNWAlphaEm1VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PlassmannWolfeNWAlphaEm1OutOfEvaluations)
+			return
+		}
+		if !plassmannWolfeNWAlphaEm1FiniteVec(&r.g) {
+			r.finish(PlassmannWolfeNWAlphaEm1NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = plassmannWolfeNWAlphaEm1VerifyNothing, true
+	case !r.confirmed:
+		plassmannWolfeNWAlphaEm1GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := plassmannWolfeNWAlphaEm1Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, plassmannWolfeNWAlphaEm1Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * plassmannWolfeNWAlphaEm1Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (plassmannWolfeNWAlphaEm1DerivativeCost == 0 || r.confirmed) {
+		r.out.status = PlassmannWolfeNWAlphaEm1GradientSmall
+		r.stage = plassmannWolfeNWAlphaEm1StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = plassmannWolfeNWAlphaEm1VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if plassmannWolfeNWAlphaEm1DerivativeCost == 0 {
+			r.finish(PlassmannWolfeNWAlphaEm1Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if plassmannWolfeNWAlphaEm1StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = plassmannWolfeNWAlphaEm1VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PlassmannWolfeNWAlphaEm1Diverged)
+			return
+		}
+		plassmannWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PlassmannWolfeNWAlphaEm1OutOfIterations)
+		return
+	}
+	r.stage = plassmannWolfeNWAlphaEm1StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves plassmannWolfeNWAlphaEm1StageJudge next when the run
+// goes on.
+func (r *plassmannWolfeNWAlphaEm1Descent) search() {
+	plassmannWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := plassmannWolfeNWAlphaEm1Dot(&r.g, &r.d)
+	if !(now < 0) || !plassmannWolfeNWAlphaEm1FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		plassmannWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = plassmannWolfeNWAlphaEm1Dot(&r.g, &r.d)
+	}
+	first := float64(plassmannWolfeNWAlphaEm1StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := plassmannWolfeNWAlphaEm1TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := plassmannWolfeNWAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case plassmannWolfeNWAlphaEm1SearchOutOfBudget:
+		r.finish(PlassmannWolfeNWAlphaEm1OutOfEvaluations)
+		return
+	case plassmannWolfeNWAlphaEm1SearchDiverged:
+		r.finish(PlassmannWolfeNWAlphaEm1Diverged)
+		return
+	case plassmannWolfeNWAlphaEm1SearchExhausted, plassmannWolfeNWAlphaEm1SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see plassmannWolfeNWAlphaEm1RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PlassmannWolfeNWAlphaEm1NoAcceptableStep
+		switch {
+		case found.rising:
+			end = PlassmannWolfeNWAlphaEm1NoDecrease
+		case found.end == plassmannWolfeNWAlphaEm1SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = plassmannWolfeNWAlphaEm1VerifyStall, true, plassmannWolfeNWAlphaEm1StageJudge
+			return
+		case found.end == plassmannWolfeNWAlphaEm1SearchTiny:
+			end = PlassmannWolfeNWAlphaEm1Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !plassmannWolfeNWAlphaEm1FiniteVec(&xt) {
+		r.finish(PlassmannWolfeNWAlphaEm1NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+plassmannWolfeNWAlphaEm1DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PlassmannWolfeNWAlphaEm1OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += plassmannWolfeNWAlphaEm1Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	plassmannWolfeNWAlphaEm1Difference(&r.s, &xt, &r.x)
+	plassmannWolfeNWAlphaEm1Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !plassmannWolfeNWAlphaEm1FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PlassmannWolfeNWAlphaEm1NonFiniteGradient)
+		return
+	}
+	r.stage = plassmannWolfeNWAlphaEm1StageJudge
 }
 
 // plassmannWolfeNWAlphaEm1Differences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type plassmannWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaEm1RoundingFloor)
 	bounds    plassmannWolfeNWAlphaEm1Box
-}
-
-// plassmannWolfeNWAlphaEm1Calibrate: an analytic gradient needs no intervals.
-func plassmannWolfeNWAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *plassmannWolfeNWAlphaEm1Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// plassmannWolfeNWAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func plassmannWolfeNWAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) int {
-	g[0] = PlassmannDeriv(x[0])
-	return 0
 }
 
 // plassmannWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -447,12 +596,57 @@ func plassmannWolfeNWAlphaEm1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// plassmannWolfeNWAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func plassmannWolfeNWAlphaEm1Finite(v float64) bool {
+	return v >= -plassmannWolfeNWAlphaEm1LargestFinite && v <= plassmannWolfeNWAlphaEm1LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	plassmannWolfeNWAlphaEm1StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	plassmannWolfeNWAlphaEm1StageJudge         // settle when asked (plassmannWolfeNWAlphaEm1SettleCalls), judge x, learn from the step: no calls otherwise
+	plassmannWolfeNWAlphaEm1StageSearch        // the line search and the gradient at the accepted point: plassmannWolfeNWAlphaEm1IterationCalls
+	plassmannWolfeNWAlphaEm1StageOver          // the run has ended; out is its result
+)
+
+// plassmannWolfeNWAlphaEm1EnterBox: without bounds every start is inside.
+func plassmannWolfeNWAlphaEm1EnterBox(x *[1]float64, b *plassmannWolfeNWAlphaEm1Box) {}
+
 // What minimize checks at x before judging it again.
 const (
 	plassmannWolfeNWAlphaEm1VerifyNothing = iota
 	plassmannWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	plassmannWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
+func plassmannWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !plassmannWolfeNWAlphaEm1Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// plassmannWolfeNWAlphaEm1Calibrate: an analytic gradient needs no intervals.
+func plassmannWolfeNWAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *plassmannWolfeNWAlphaEm1Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// plassmannWolfeNWAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
+func plassmannWolfeNWAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) int {
+	g[0] = PlassmannDeriv(x[0])
+	return 0
+}
 
 // plassmannWolfeNWAlphaEm1Settle prepares a verdict at x: with differences it confirms the
 // gradient (plassmannWolfeNWAlphaEm1ConfirmGradient), and at a stall it adds to each error bound
@@ -969,3 +1163,6 @@ func plassmannWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeNWAlphaEm1Unlimited is a tick budget that never pauses a run.
+const plassmannWolfeNWAlphaEm1Unlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestPlassmannWolfeNWAlphaEm1GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPlassmannWolfeNWAlphaEm1SolverTicks advances a PlassmannWolfeNWAlphaEm1Solver from the spec's start with budgets of PlassmannWolfeNWAlphaEm1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PlassmannWolfeNWAlphaEm1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPlassmannWolfeNWAlphaEm1SolverTicks(t *testing.T) {
+	want := PlassmannWolfeNWAlphaEm1(plassmannWolfeNWAlphaEm1TestStart())
+	for _, budget := range []int{PlassmannWolfeNWAlphaEm1TickMinimum, PlassmannWolfeNWAlphaEm1TickMinimum + 1, 2 * PlassmannWolfeNWAlphaEm1TickMinimum, 7 * PlassmannWolfeNWAlphaEm1TickMinimum} {
+		var s PlassmannWolfeNWAlphaEm1Solver
+		s.Start(plassmannWolfeNWAlphaEm1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PlassmannWolfeNWAlphaEm1Running {
+				if !plassmannWolfeNWAlphaEm1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PlassmannWolfeNWAlphaEm1Solver
+	s.Start(plassmannWolfeNWAlphaEm1TestStart())
+	if r := s.Advance(0); r.Status != PlassmannWolfeNWAlphaEm1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPlassmannWolfeNWAlphaEm1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPlassmannWolfeNWAlphaEm1SolverAllocatesNothing(t *testing.T) {
+	var s PlassmannWolfeNWAlphaEm1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(plassmannWolfeNWAlphaEm1TestStart())
+		for s.Advance(PlassmannWolfeNWAlphaEm1TickMinimum).Status == PlassmannWolfeNWAlphaEm1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// plassmannWolfeNWAlphaEm1TestSameResult reports whether two results are the same, NaN matching NaN.
+func plassmannWolfeNWAlphaEm1TestSameResult(a, b PlassmannWolfeNWAlphaEm1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPlassmannWolfeNWAlphaEm1 measures one whole run from the spec's start.
 func BenchmarkPlassmannWolfeNWAlphaEm1(b *testing.B) {
 	var r PlassmannWolfeNWAlphaEm1Result

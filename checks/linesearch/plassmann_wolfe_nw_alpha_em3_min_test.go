@@ -105,6 +105,55 @@ func TestPlassmannWolfeNWAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPlassmannWolfeNWAlphaEm3SolverTicks advances a PlassmannWolfeNWAlphaEm3Solver from the spec's start with budgets of PlassmannWolfeNWAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PlassmannWolfeNWAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPlassmannWolfeNWAlphaEm3SolverTicks(t *testing.T) {
+	want := PlassmannWolfeNWAlphaEm3(plassmannWolfeNWAlphaEm3TestStart())
+	for _, budget := range []int{PlassmannWolfeNWAlphaEm3TickMinimum, PlassmannWolfeNWAlphaEm3TickMinimum + 1, 2 * PlassmannWolfeNWAlphaEm3TickMinimum, 7 * PlassmannWolfeNWAlphaEm3TickMinimum} {
+		var s PlassmannWolfeNWAlphaEm3Solver
+		s.Start(plassmannWolfeNWAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PlassmannWolfeNWAlphaEm3Running {
+				if !plassmannWolfeNWAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PlassmannWolfeNWAlphaEm3Solver
+	s.Start(plassmannWolfeNWAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != PlassmannWolfeNWAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPlassmannWolfeNWAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPlassmannWolfeNWAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s PlassmannWolfeNWAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(plassmannWolfeNWAlphaEm3TestStart())
+		for s.Advance(PlassmannWolfeNWAlphaEm3TickMinimum).Status == PlassmannWolfeNWAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// plassmannWolfeNWAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func plassmannWolfeNWAlphaEm3TestSameResult(a, b PlassmannWolfeNWAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPlassmannWolfeNWAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkPlassmannWolfeNWAlphaEm3(b *testing.B) {
 	var r PlassmannWolfeNWAlphaEm3Result

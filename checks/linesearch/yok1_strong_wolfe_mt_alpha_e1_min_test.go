@@ -105,6 +105,55 @@ func TestYOK1StrongWolfeMTAlphaE1GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK1StrongWolfeMTAlphaE1SolverTicks advances a YOK1StrongWolfeMTAlphaE1Solver from the spec's start with budgets of YOK1StrongWolfeMTAlphaE1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK1StrongWolfeMTAlphaE1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK1StrongWolfeMTAlphaE1SolverTicks(t *testing.T) {
+	want := YOK1StrongWolfeMTAlphaE1(yok1StrongWolfeMTAlphaE1TestStart())
+	for _, budget := range []int{YOK1StrongWolfeMTAlphaE1TickMinimum, YOK1StrongWolfeMTAlphaE1TickMinimum + 1, 2 * YOK1StrongWolfeMTAlphaE1TickMinimum, 7 * YOK1StrongWolfeMTAlphaE1TickMinimum} {
+		var s YOK1StrongWolfeMTAlphaE1Solver
+		s.Start(yok1StrongWolfeMTAlphaE1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK1StrongWolfeMTAlphaE1Running {
+				if !yok1StrongWolfeMTAlphaE1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK1StrongWolfeMTAlphaE1Solver
+	s.Start(yok1StrongWolfeMTAlphaE1TestStart())
+	if r := s.Advance(0); r.Status != YOK1StrongWolfeMTAlphaE1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK1StrongWolfeMTAlphaE1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK1StrongWolfeMTAlphaE1SolverAllocatesNothing(t *testing.T) {
+	var s YOK1StrongWolfeMTAlphaE1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok1StrongWolfeMTAlphaE1TestStart())
+		for s.Advance(YOK1StrongWolfeMTAlphaE1TickMinimum).Status == YOK1StrongWolfeMTAlphaE1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok1StrongWolfeMTAlphaE1TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok1StrongWolfeMTAlphaE1TestSameResult(a, b YOK1StrongWolfeMTAlphaE1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK1StrongWolfeMTAlphaE1 measures one whole run from the spec's start.
 func BenchmarkYOK1StrongWolfeMTAlphaE1(b *testing.B) {
 	var r YOK1StrongWolfeMTAlphaE1Result

@@ -105,6 +105,55 @@ func TestYOK1StrongWolfeMTAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK1StrongWolfeMTAlphaEm3SolverTicks advances a YOK1StrongWolfeMTAlphaEm3Solver from the spec's start with budgets of YOK1StrongWolfeMTAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK1StrongWolfeMTAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK1StrongWolfeMTAlphaEm3SolverTicks(t *testing.T) {
+	want := YOK1StrongWolfeMTAlphaEm3(yok1StrongWolfeMTAlphaEm3TestStart())
+	for _, budget := range []int{YOK1StrongWolfeMTAlphaEm3TickMinimum, YOK1StrongWolfeMTAlphaEm3TickMinimum + 1, 2 * YOK1StrongWolfeMTAlphaEm3TickMinimum, 7 * YOK1StrongWolfeMTAlphaEm3TickMinimum} {
+		var s YOK1StrongWolfeMTAlphaEm3Solver
+		s.Start(yok1StrongWolfeMTAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK1StrongWolfeMTAlphaEm3Running {
+				if !yok1StrongWolfeMTAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK1StrongWolfeMTAlphaEm3Solver
+	s.Start(yok1StrongWolfeMTAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != YOK1StrongWolfeMTAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK1StrongWolfeMTAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK1StrongWolfeMTAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s YOK1StrongWolfeMTAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok1StrongWolfeMTAlphaEm3TestStart())
+		for s.Advance(YOK1StrongWolfeMTAlphaEm3TickMinimum).Status == YOK1StrongWolfeMTAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok1StrongWolfeMTAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok1StrongWolfeMTAlphaEm3TestSameResult(a, b YOK1StrongWolfeMTAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK1StrongWolfeMTAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkYOK1StrongWolfeMTAlphaEm3(b *testing.B) {
 	var r YOK1StrongWolfeMTAlphaEm3Result

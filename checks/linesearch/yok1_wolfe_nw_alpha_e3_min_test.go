@@ -105,6 +105,55 @@ func TestYOK1WolfeNWAlphaE3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK1WolfeNWAlphaE3SolverTicks advances a YOK1WolfeNWAlphaE3Solver from the spec's start with budgets of YOK1WolfeNWAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK1WolfeNWAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK1WolfeNWAlphaE3SolverTicks(t *testing.T) {
+	want := YOK1WolfeNWAlphaE3(yok1WolfeNWAlphaE3TestStart())
+	for _, budget := range []int{YOK1WolfeNWAlphaE3TickMinimum, YOK1WolfeNWAlphaE3TickMinimum + 1, 2 * YOK1WolfeNWAlphaE3TickMinimum, 7 * YOK1WolfeNWAlphaE3TickMinimum} {
+		var s YOK1WolfeNWAlphaE3Solver
+		s.Start(yok1WolfeNWAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK1WolfeNWAlphaE3Running {
+				if !yok1WolfeNWAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK1WolfeNWAlphaE3Solver
+	s.Start(yok1WolfeNWAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != YOK1WolfeNWAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK1WolfeNWAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK1WolfeNWAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s YOK1WolfeNWAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok1WolfeNWAlphaE3TestStart())
+		for s.Advance(YOK1WolfeNWAlphaE3TickMinimum).Status == YOK1WolfeNWAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok1WolfeNWAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok1WolfeNWAlphaE3TestSameResult(a, b YOK1WolfeNWAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK1WolfeNWAlphaE3 measures one whole run from the spec's start.
 func BenchmarkYOK1WolfeNWAlphaE3(b *testing.B) {
 	var r YOK1WolfeNWAlphaE3Result

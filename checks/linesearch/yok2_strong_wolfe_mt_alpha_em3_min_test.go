@@ -105,6 +105,55 @@ func TestYOK2StrongWolfeMTAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK2StrongWolfeMTAlphaEm3SolverTicks advances a YOK2StrongWolfeMTAlphaEm3Solver from the spec's start with budgets of YOK2StrongWolfeMTAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK2StrongWolfeMTAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK2StrongWolfeMTAlphaEm3SolverTicks(t *testing.T) {
+	want := YOK2StrongWolfeMTAlphaEm3(yok2StrongWolfeMTAlphaEm3TestStart())
+	for _, budget := range []int{YOK2StrongWolfeMTAlphaEm3TickMinimum, YOK2StrongWolfeMTAlphaEm3TickMinimum + 1, 2 * YOK2StrongWolfeMTAlphaEm3TickMinimum, 7 * YOK2StrongWolfeMTAlphaEm3TickMinimum} {
+		var s YOK2StrongWolfeMTAlphaEm3Solver
+		s.Start(yok2StrongWolfeMTAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK2StrongWolfeMTAlphaEm3Running {
+				if !yok2StrongWolfeMTAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK2StrongWolfeMTAlphaEm3Solver
+	s.Start(yok2StrongWolfeMTAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != YOK2StrongWolfeMTAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK2StrongWolfeMTAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK2StrongWolfeMTAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s YOK2StrongWolfeMTAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok2StrongWolfeMTAlphaEm3TestStart())
+		for s.Advance(YOK2StrongWolfeMTAlphaEm3TickMinimum).Status == YOK2StrongWolfeMTAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok2StrongWolfeMTAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok2StrongWolfeMTAlphaEm3TestSameResult(a, b YOK2StrongWolfeMTAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK2StrongWolfeMTAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkYOK2StrongWolfeMTAlphaEm3(b *testing.B) {
 	var r YOK2StrongWolfeMTAlphaEm3Result

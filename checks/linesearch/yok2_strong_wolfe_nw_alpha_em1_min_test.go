@@ -105,6 +105,55 @@ func TestYOK2StrongWolfeNWAlphaEm1GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK2StrongWolfeNWAlphaEm1SolverTicks advances a YOK2StrongWolfeNWAlphaEm1Solver from the spec's start with budgets of YOK2StrongWolfeNWAlphaEm1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK2StrongWolfeNWAlphaEm1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK2StrongWolfeNWAlphaEm1SolverTicks(t *testing.T) {
+	want := YOK2StrongWolfeNWAlphaEm1(yok2StrongWolfeNWAlphaEm1TestStart())
+	for _, budget := range []int{YOK2StrongWolfeNWAlphaEm1TickMinimum, YOK2StrongWolfeNWAlphaEm1TickMinimum + 1, 2 * YOK2StrongWolfeNWAlphaEm1TickMinimum, 7 * YOK2StrongWolfeNWAlphaEm1TickMinimum} {
+		var s YOK2StrongWolfeNWAlphaEm1Solver
+		s.Start(yok2StrongWolfeNWAlphaEm1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK2StrongWolfeNWAlphaEm1Running {
+				if !yok2StrongWolfeNWAlphaEm1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK2StrongWolfeNWAlphaEm1Solver
+	s.Start(yok2StrongWolfeNWAlphaEm1TestStart())
+	if r := s.Advance(0); r.Status != YOK2StrongWolfeNWAlphaEm1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK2StrongWolfeNWAlphaEm1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK2StrongWolfeNWAlphaEm1SolverAllocatesNothing(t *testing.T) {
+	var s YOK2StrongWolfeNWAlphaEm1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok2StrongWolfeNWAlphaEm1TestStart())
+		for s.Advance(YOK2StrongWolfeNWAlphaEm1TickMinimum).Status == YOK2StrongWolfeNWAlphaEm1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok2StrongWolfeNWAlphaEm1TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok2StrongWolfeNWAlphaEm1TestSameResult(a, b YOK2StrongWolfeNWAlphaEm1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK2StrongWolfeNWAlphaEm1 measures one whole run from the spec's start.
 func BenchmarkYOK2StrongWolfeNWAlphaEm1(b *testing.B) {
 	var r YOK2StrongWolfeNWAlphaEm1Result

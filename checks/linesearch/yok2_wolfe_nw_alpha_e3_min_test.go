@@ -105,6 +105,55 @@ func TestYOK2WolfeNWAlphaE3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK2WolfeNWAlphaE3SolverTicks advances a YOK2WolfeNWAlphaE3Solver from the spec's start with budgets of YOK2WolfeNWAlphaE3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK2WolfeNWAlphaE3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK2WolfeNWAlphaE3SolverTicks(t *testing.T) {
+	want := YOK2WolfeNWAlphaE3(yok2WolfeNWAlphaE3TestStart())
+	for _, budget := range []int{YOK2WolfeNWAlphaE3TickMinimum, YOK2WolfeNWAlphaE3TickMinimum + 1, 2 * YOK2WolfeNWAlphaE3TickMinimum, 7 * YOK2WolfeNWAlphaE3TickMinimum} {
+		var s YOK2WolfeNWAlphaE3Solver
+		s.Start(yok2WolfeNWAlphaE3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK2WolfeNWAlphaE3Running {
+				if !yok2WolfeNWAlphaE3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK2WolfeNWAlphaE3Solver
+	s.Start(yok2WolfeNWAlphaE3TestStart())
+	if r := s.Advance(0); r.Status != YOK2WolfeNWAlphaE3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK2WolfeNWAlphaE3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK2WolfeNWAlphaE3SolverAllocatesNothing(t *testing.T) {
+	var s YOK2WolfeNWAlphaE3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok2WolfeNWAlphaE3TestStart())
+		for s.Advance(YOK2WolfeNWAlphaE3TickMinimum).Status == YOK2WolfeNWAlphaE3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok2WolfeNWAlphaE3TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok2WolfeNWAlphaE3TestSameResult(a, b YOK2WolfeNWAlphaE3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK2WolfeNWAlphaE3 measures one whole run from the spec's start.
 func BenchmarkYOK2WolfeNWAlphaE3(b *testing.B) {
 	var r YOK2WolfeNWAlphaE3Result

@@ -105,6 +105,55 @@ func TestYOK3StrongWolfeNWAlphaEm1GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK3StrongWolfeNWAlphaEm1SolverTicks advances a YOK3StrongWolfeNWAlphaEm1Solver from the spec's start with budgets of YOK3StrongWolfeNWAlphaEm1TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK3StrongWolfeNWAlphaEm1's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK3StrongWolfeNWAlphaEm1SolverTicks(t *testing.T) {
+	want := YOK3StrongWolfeNWAlphaEm1(yok3StrongWolfeNWAlphaEm1TestStart())
+	for _, budget := range []int{YOK3StrongWolfeNWAlphaEm1TickMinimum, YOK3StrongWolfeNWAlphaEm1TickMinimum + 1, 2 * YOK3StrongWolfeNWAlphaEm1TickMinimum, 7 * YOK3StrongWolfeNWAlphaEm1TickMinimum} {
+		var s YOK3StrongWolfeNWAlphaEm1Solver
+		s.Start(yok3StrongWolfeNWAlphaEm1TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK3StrongWolfeNWAlphaEm1Running {
+				if !yok3StrongWolfeNWAlphaEm1TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK3StrongWolfeNWAlphaEm1Solver
+	s.Start(yok3StrongWolfeNWAlphaEm1TestStart())
+	if r := s.Advance(0); r.Status != YOK3StrongWolfeNWAlphaEm1Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK3StrongWolfeNWAlphaEm1SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK3StrongWolfeNWAlphaEm1SolverAllocatesNothing(t *testing.T) {
+	var s YOK3StrongWolfeNWAlphaEm1Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok3StrongWolfeNWAlphaEm1TestStart())
+		for s.Advance(YOK3StrongWolfeNWAlphaEm1TickMinimum).Status == YOK3StrongWolfeNWAlphaEm1Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok3StrongWolfeNWAlphaEm1TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok3StrongWolfeNWAlphaEm1TestSameResult(a, b YOK3StrongWolfeNWAlphaEm1Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK3StrongWolfeNWAlphaEm1 measures one whole run from the spec's start.
 func BenchmarkYOK3StrongWolfeNWAlphaEm1(b *testing.B) {
 	var r YOK3StrongWolfeNWAlphaEm1Result

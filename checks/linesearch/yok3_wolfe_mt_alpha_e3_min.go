@@ -26,6 +26,8 @@ const (
 	YOK3WolfeMTAlphaE3NoDecrease
 	// YOK3WolfeMTAlphaE3Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	YOK3WolfeMTAlphaE3Diverged
+	// YOK3WolfeMTAlphaE3Running: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	YOK3WolfeMTAlphaE3Running
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s YOK3WolfeMTAlphaE3Status) String() string {
 		return "no decrease"
 	case YOK3WolfeMTAlphaE3Diverged:
 		return "diverged"
+	case YOK3WolfeMTAlphaE3Running:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func YOK3WolfeMTAlphaE3WithLimits(x0 float64, limits YOK3WolfeMTAlphaE3Limits) Y
 	}
 }
 
+// YOK3WolfeMTAlphaE3TickMinimum is the smallest call budget with which every YOK3WolfeMTAlphaE3Solver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 58).
+const YOK3WolfeMTAlphaE3TickMinimum = 58
+
+// YOK3WolfeMTAlphaE3Solver is a run of YOK3WolfeMTAlphaE3 that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (YOK3WolfeMTAlphaE3DefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 58. A budget of at least YOK3WolfeMTAlphaE3TickMinimum = 58 progresses at every Advance; a smaller one may make no call. Advancing until the status is not YOK3WolfeMTAlphaE3Running ends exactly as YOK3WolfeMTAlphaE3WithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): YOK3WolfeMTAlphaE3 and YOK3WolfeMTAlphaE3WithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is YOK3WolfeMTAlphaE3Running, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type YOK3WolfeMTAlphaE3Solver struct {
+	run       yok3WolfeMTAlphaE3Descent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    YOK3WolfeMTAlphaE3Limits  // the limits of the runs; YOK3WolfeMTAlphaE3DefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *YOK3WolfeMTAlphaE3Solver) SetLimits(limits YOK3WolfeMTAlphaE3Limits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *YOK3WolfeMTAlphaE3Solver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *YOK3WolfeMTAlphaE3Solver) StartFrom(from YOK3WolfeMTAlphaE3Result) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *YOK3WolfeMTAlphaE3Solver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *YOK3WolfeMTAlphaE3Solver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = YOK3WolfeMTAlphaE3DefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, yok3WolfeMTAlphaE3Box{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status YOK3WolfeMTAlphaE3Running (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See YOK3WolfeMTAlphaE3Solver for the budget rule and what advancing assumes of the objective.
+func (s *YOK3WolfeMTAlphaE3Solver) Advance(budget int) YOK3WolfeMTAlphaE3Result {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return YOK3WolfeMTAlphaE3Result{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of YOK3WolfeMTAlphaE3 from linesearch.toml; the kernels below read them.
 const (
-	yok3WolfeMTAlphaE3StepInitial    = 1001.0505487736867     // step.initial
-	yok3WolfeMTAlphaE3StepDecrease   = 0.0001                 // step.decrease (c1)
-	yok3WolfeMTAlphaE3StepCurvature  = 0.001                  // step.curvature (c2)
-	yok3WolfeMTAlphaE3StepTrials     = 58                     // step.trials
-	yok3WolfeMTAlphaE3DerivativeCost = 0                      // objective calls per gradient
-	yok3WolfeMTAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	yok3WolfeMTAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	yok3WolfeMTAlphaE3StepInitial     = 1001.0505487736867     // step.initial
+	yok3WolfeMTAlphaE3StepDecrease    = 0.0001                 // step.decrease (c1)
+	yok3WolfeMTAlphaE3StepCurvature   = 0.001                  // step.curvature (c2)
+	yok3WolfeMTAlphaE3StepTrials      = 58                     // step.trials
+	yok3WolfeMTAlphaE3DerivativeCost  = 0                      // objective calls per gradient
+	yok3WolfeMTAlphaE3CalibrationCost = 0                      // objective calls of choosing the difference intervals
+	yok3WolfeMTAlphaE3IterationCalls  = 58                     // most objective calls of one line search with the gradient at its step
+	yok3WolfeMTAlphaE3SettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	yok3WolfeMTAlphaE3UnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	yok3WolfeMTAlphaE3LargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // yok3WolfeMTAlphaE3Minimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func yok3WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaE3Limits, bounds yok3WolfeMTAlphaE3Box) yok3WolfeMTAlphaE3Outcome {
-	x := x0
-	yok3WolfeMTAlphaE3EnterBox(&x, &bounds)
-	out := yok3WolfeMTAlphaE3Outcome{x: x, status: YOK3WolfeMTAlphaE3OutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := YOK3(x[0])
-	out.f, out.evaluations = fx, 1
-	if !yok3WolfeMTAlphaE3Finite(fx) || !yok3WolfeMTAlphaE3FiniteVec(&x) {
-		out.status = YOK3WolfeMTAlphaE3NonFiniteStart
-		return out
-	}
-	diffs := yok3WolfeMTAlphaE3Differences{bounds: bounds}
-	calls, ok := yok3WolfeMTAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+yok3WolfeMTAlphaE3DerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += yok3WolfeMTAlphaE3Derivative(&x, fx, &g, &diffs)
-
-	if !yok3WolfeMTAlphaE3FiniteVec(&g) {
-		out.status = YOK3WolfeMTAlphaE3NonFiniteGradient
-		return out
-	}
-	var dir yok3WolfeMTAlphaE3Direction
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(yok3WolfeMTAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from yok3WolfeMTAlphaE3ConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := yok3WolfeMTAlphaE3VerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != yok3WolfeMTAlphaE3VerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see yok3WolfeMTAlphaE3ConfirmGradient and settle).
-			calls, ok := yok3WolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == yok3WolfeMTAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(YOK3WolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !yok3WolfeMTAlphaE3FiniteVec(&g) {
-				return best.ending(YOK3WolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = yok3WolfeMTAlphaE3VerifyNothing, true
-		case !confirmed:
-			yok3WolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := yok3WolfeMTAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, yok3WolfeMTAlphaE3Larger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * yok3WolfeMTAlphaE3Larger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (yok3WolfeMTAlphaE3DerivativeCost == 0 || confirmed) {
-			out.status = YOK3WolfeMTAlphaE3GradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = yok3WolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if yok3WolfeMTAlphaE3DerivativeCost == 0 {
-				return best.ending(YOK3WolfeMTAlphaE3Stalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if yok3WolfeMTAlphaE3StepWithin(&s, &x, lim.Step) {
-				verify, stalled = yok3WolfeMTAlphaE3VerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(YOK3WolfeMTAlphaE3Diverged, out.iterations, out.evaluations)
-			}
-			yok3WolfeMTAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(YOK3WolfeMTAlphaE3OutOfIterations, out.iterations, out.evaluations)
-		}
-		yok3WolfeMTAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := yok3WolfeMTAlphaE3Dot(&g, &d)
-		if !(now < 0) || !yok3WolfeMTAlphaE3FiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			yok3WolfeMTAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = yok3WolfeMTAlphaE3Dot(&g, &d)
-		}
-		first := float64(yok3WolfeMTAlphaE3StepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := yok3WolfeMTAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := yok3WolfeMTAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case yok3WolfeMTAlphaE3SearchOutOfBudget:
-			return best.ending(YOK3WolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-		case yok3WolfeMTAlphaE3SearchDiverged:
-			return best.ending(YOK3WolfeMTAlphaE3Diverged, out.iterations, out.evaluations)
-		case yok3WolfeMTAlphaE3SearchExhausted, yok3WolfeMTAlphaE3SearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see yok3WolfeMTAlphaE3RiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := YOK3WolfeMTAlphaE3NoAcceptableStep
-			switch {
-			case found.rising:
-				end = YOK3WolfeMTAlphaE3NoDecrease
-			case found.end == yok3WolfeMTAlphaE3SearchTiny && canSettle:
-				verify, stalled = yok3WolfeMTAlphaE3VerifyStall, true
-				continue
-			case found.end == yok3WolfeMTAlphaE3SearchTiny:
-				end = YOK3WolfeMTAlphaE3Stalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !yok3WolfeMTAlphaE3FiniteVec(&xt) {
-			return best.ending(YOK3WolfeMTAlphaE3NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+yok3WolfeMTAlphaE3DerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(YOK3WolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += yok3WolfeMTAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		yok3WolfeMTAlphaE3Difference(&s, &xt, &x)
-		yok3WolfeMTAlphaE3Difference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !yok3WolfeMTAlphaE3FiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(YOK3WolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r yok3WolfeMTAlphaE3Descent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(yok3WolfeMTAlphaE3Unlimited)
 }
 
 // yok3WolfeMTAlphaE3Outcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o yok3WolfeMTAlphaE3Outcome) ending(end YOK3WolfeMTAlphaE3Status, iteratio
 	return o
 }
 
-// yok3WolfeMTAlphaE3EnterBox: without bounds every start is inside.
-func yok3WolfeMTAlphaE3EnterBox(x *[1]float64, b *yok3WolfeMTAlphaE3Box) {}
-
-// yok3WolfeMTAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func yok3WolfeMTAlphaE3Finite(v float64) bool {
-	return v >= -yok3WolfeMTAlphaE3LargestFinite && v <= yok3WolfeMTAlphaE3LargestFinite
+// yok3WolfeMTAlphaE3Descent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type yok3WolfeMTAlphaE3Descent struct {
+	lim       YOK3WolfeMTAlphaE3Limits
+	stage     int                           // what advance does next
+	diffs     yok3WolfeMTAlphaE3Differences // the box and the difference intervals
+	dir       yok3WolfeMTAlphaE3Direction   // the direction's memory
+	x, g, e   [1]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best yok3WolfeMTAlphaE3Outcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from yok3WolfeMTAlphaE3ConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// yok3WolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
-func yok3WolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !yok3WolfeMTAlphaE3Finite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *yok3WolfeMTAlphaE3Descent) prepare(x0 [1]float64, lim YOK3WolfeMTAlphaE3Limits, bounds yok3WolfeMTAlphaE3Box) {
+	r.lim, r.stage = lim, yok3WolfeMTAlphaE3StageBegin
+	r.diffs = yok3WolfeMTAlphaE3Differences{bounds: bounds}
+	r.x = x0
+	yok3WolfeMTAlphaE3EnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = yok3WolfeMTAlphaE3Outcome{x: r.x, f: math.NaN(), status: YOK3WolfeMTAlphaE3OutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *yok3WolfeMTAlphaE3Descent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with YOK3WolfeMTAlphaE3Running. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, yok3WolfeMTAlphaE3SettleCalls and yok3WolfeMTAlphaE3IterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *yok3WolfeMTAlphaE3Descent) advance(budget int) yok3WolfeMTAlphaE3Outcome {
+	used := r.out.evaluations
+	for r.stage != yok3WolfeMTAlphaE3StageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case yok3WolfeMTAlphaE3StageBegin:
+			if left < 1+yok3WolfeMTAlphaE3CalibrationCost+yok3WolfeMTAlphaE3DerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case yok3WolfeMTAlphaE3StageJudge:
+			if r.verify != yok3WolfeMTAlphaE3VerifyNothing && left < yok3WolfeMTAlphaE3SettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < yok3WolfeMTAlphaE3IterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *yok3WolfeMTAlphaE3Descent) paused() yok3WolfeMTAlphaE3Outcome {
+	return r.best.ending(YOK3WolfeMTAlphaE3Running, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *yok3WolfeMTAlphaE3Descent) finish(end YOK3WolfeMTAlphaE3Status) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = yok3WolfeMTAlphaE3StageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *yok3WolfeMTAlphaE3Descent) begin() {
+	r.stage = yok3WolfeMTAlphaE3StageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = YOK3(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !yok3WolfeMTAlphaE3Finite(r.fx) || !yok3WolfeMTAlphaE3FiniteVec(&r.x) {
+		r.out.status = YOK3WolfeMTAlphaE3NonFiniteStart
+		return
+	}
+	calls, ok := yok3WolfeMTAlphaE3Calibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+yok3WolfeMTAlphaE3DerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += yok3WolfeMTAlphaE3Derivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !yok3WolfeMTAlphaE3FiniteVec(&r.g) {
+		r.out.status = YOK3WolfeMTAlphaE3NonFiniteGradient
+		return
+	}
+	r.t, r.slope = yok3WolfeMTAlphaE3StepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, yok3WolfeMTAlphaE3VerifyNothing
+	r.stage = yok3WolfeMTAlphaE3StageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves yok3WolfeMTAlphaE3StageSearch next when the run goes on.
+func (r *yok3WolfeMTAlphaE3Descent) judge() {
+	switch {
+	case r.verify != yok3WolfeMTAlphaE3VerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see yok3WolfeMTAlphaE3ConfirmGradient and settle).
+		calls, ok := yok3WolfeMTAlphaE3Settle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == yok3WolfeMTAlphaE3VerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(YOK3WolfeMTAlphaE3OutOfEvaluations)
+			return
+		}
+		if !yok3WolfeMTAlphaE3FiniteVec(&r.g) {
+			r.finish(YOK3WolfeMTAlphaE3NonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = yok3WolfeMTAlphaE3VerifyNothing, true
+	case !r.confirmed:
+		yok3WolfeMTAlphaE3GradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := yok3WolfeMTAlphaE3Stationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, yok3WolfeMTAlphaE3Larger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * yok3WolfeMTAlphaE3Larger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (yok3WolfeMTAlphaE3DerivativeCost == 0 || r.confirmed) {
+		r.out.status = YOK3WolfeMTAlphaE3GradientSmall
+		r.stage = yok3WolfeMTAlphaE3StageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = yok3WolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if yok3WolfeMTAlphaE3DerivativeCost == 0 {
+			r.finish(YOK3WolfeMTAlphaE3Stalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if yok3WolfeMTAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = yok3WolfeMTAlphaE3VerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(YOK3WolfeMTAlphaE3Diverged)
+			return
+		}
+		yok3WolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(YOK3WolfeMTAlphaE3OutOfIterations)
+		return
+	}
+	r.stage = yok3WolfeMTAlphaE3StageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves yok3WolfeMTAlphaE3StageJudge next when the run
+// goes on.
+func (r *yok3WolfeMTAlphaE3Descent) search() {
+	yok3WolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := yok3WolfeMTAlphaE3Dot(&r.g, &r.d)
+	if !(now < 0) || !yok3WolfeMTAlphaE3FiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		yok3WolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = yok3WolfeMTAlphaE3Dot(&r.g, &r.d)
+	}
+	first := float64(yok3WolfeMTAlphaE3StepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := yok3WolfeMTAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := yok3WolfeMTAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case yok3WolfeMTAlphaE3SearchOutOfBudget:
+		r.finish(YOK3WolfeMTAlphaE3OutOfEvaluations)
+		return
+	case yok3WolfeMTAlphaE3SearchDiverged:
+		r.finish(YOK3WolfeMTAlphaE3Diverged)
+		return
+	case yok3WolfeMTAlphaE3SearchExhausted, yok3WolfeMTAlphaE3SearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see yok3WolfeMTAlphaE3RiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := YOK3WolfeMTAlphaE3NoAcceptableStep
+		switch {
+		case found.rising:
+			end = YOK3WolfeMTAlphaE3NoDecrease
+		case found.end == yok3WolfeMTAlphaE3SearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = yok3WolfeMTAlphaE3VerifyStall, true, yok3WolfeMTAlphaE3StageJudge
+			return
+		case found.end == yok3WolfeMTAlphaE3SearchTiny:
+			end = YOK3WolfeMTAlphaE3Stalled
+		}
+		r.finish(end)
+		return
+	}
+	if !yok3WolfeMTAlphaE3FiniteVec(&xt) {
+		r.finish(YOK3WolfeMTAlphaE3NoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+yok3WolfeMTAlphaE3DerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(YOK3WolfeMTAlphaE3OutOfEvaluations)
+			return
+		}
+		r.out.evaluations += yok3WolfeMTAlphaE3Derivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	yok3WolfeMTAlphaE3Difference(&r.s, &xt, &r.x)
+	yok3WolfeMTAlphaE3Difference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !yok3WolfeMTAlphaE3FiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(YOK3WolfeMTAlphaE3NonFiniteGradient)
+		return
+	}
+	r.stage = yok3WolfeMTAlphaE3StageJudge
 }
 
 // yok3WolfeMTAlphaE3Differences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type yok3WolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok3WolfeMTAlphaE3RoundingFloor)
 	bounds    yok3WolfeMTAlphaE3Box
-}
-
-// yok3WolfeMTAlphaE3Calibrate: an analytic gradient needs no intervals.
-func yok3WolfeMTAlphaE3Calibrate(x *[1]float64, fx float64, diffs *yok3WolfeMTAlphaE3Differences, budget int) (int, bool) {
-	return 0, true
-}
-
-// yok3WolfeMTAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func yok3WolfeMTAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *yok3WolfeMTAlphaE3Differences) int {
-	g[0] = YOK3Deriv(x[0])
-	return 0
 }
 
 // yok3WolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -447,12 +596,57 @@ func yok3WolfeMTAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// yok3WolfeMTAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func yok3WolfeMTAlphaE3Finite(v float64) bool {
+	return v >= -yok3WolfeMTAlphaE3LargestFinite && v <= yok3WolfeMTAlphaE3LargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	yok3WolfeMTAlphaE3StageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	yok3WolfeMTAlphaE3StageJudge         // settle when asked (yok3WolfeMTAlphaE3SettleCalls), judge x, learn from the step: no calls otherwise
+	yok3WolfeMTAlphaE3StageSearch        // the line search and the gradient at the accepted point: yok3WolfeMTAlphaE3IterationCalls
+	yok3WolfeMTAlphaE3StageOver          // the run has ended; out is its result
+)
+
+// yok3WolfeMTAlphaE3EnterBox: without bounds every start is inside.
+func yok3WolfeMTAlphaE3EnterBox(x *[1]float64, b *yok3WolfeMTAlphaE3Box) {}
+
 // What minimize checks at x before judging it again.
 const (
 	yok3WolfeMTAlphaE3VerifyNothing = iota
 	yok3WolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	yok3WolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok3WolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
+func yok3WolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !yok3WolfeMTAlphaE3Finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// yok3WolfeMTAlphaE3Calibrate: an analytic gradient needs no intervals.
+func yok3WolfeMTAlphaE3Calibrate(x *[1]float64, fx float64, diffs *yok3WolfeMTAlphaE3Differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// yok3WolfeMTAlphaE3Derivative calls the user's gradient; it costs no objective calls.
+func yok3WolfeMTAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *yok3WolfeMTAlphaE3Differences) int {
+	g[0] = YOK3Deriv(x[0])
+	return 0
+}
 
 // yok3WolfeMTAlphaE3Settle prepares a verdict at x: with differences it confirms the
 // gradient (yok3WolfeMTAlphaE3ConfirmGradient), and at a stall it adds to each error bound
@@ -969,3 +1163,6 @@ func yok3WolfeMTAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// yok3WolfeMTAlphaE3Unlimited is a tick budget that never pauses a run.
+const yok3WolfeMTAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestYOK3WolfeMTAlphaEm3GradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestYOK3WolfeMTAlphaEm3SolverTicks advances a YOK3WolfeMTAlphaEm3Solver from the spec's start with budgets of YOK3WolfeMTAlphaEm3TickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where YOK3WolfeMTAlphaEm3's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestYOK3WolfeMTAlphaEm3SolverTicks(t *testing.T) {
+	want := YOK3WolfeMTAlphaEm3(yok3WolfeMTAlphaEm3TestStart())
+	for _, budget := range []int{YOK3WolfeMTAlphaEm3TickMinimum, YOK3WolfeMTAlphaEm3TickMinimum + 1, 2 * YOK3WolfeMTAlphaEm3TickMinimum, 7 * YOK3WolfeMTAlphaEm3TickMinimum} {
+		var s YOK3WolfeMTAlphaEm3Solver
+		s.Start(yok3WolfeMTAlphaEm3TestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != YOK3WolfeMTAlphaEm3Running {
+				if !yok3WolfeMTAlphaEm3TestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s YOK3WolfeMTAlphaEm3Solver
+	s.Start(yok3WolfeMTAlphaEm3TestStart())
+	if r := s.Advance(0); r.Status != YOK3WolfeMTAlphaEm3Running || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestYOK3WolfeMTAlphaEm3SolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestYOK3WolfeMTAlphaEm3SolverAllocatesNothing(t *testing.T) {
+	var s YOK3WolfeMTAlphaEm3Solver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(yok3WolfeMTAlphaEm3TestStart())
+		for s.Advance(YOK3WolfeMTAlphaEm3TickMinimum).Status == YOK3WolfeMTAlphaEm3Running {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// yok3WolfeMTAlphaEm3TestSameResult reports whether two results are the same, NaN matching NaN.
+func yok3WolfeMTAlphaEm3TestSameResult(a, b YOK3WolfeMTAlphaEm3Result) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkYOK3WolfeMTAlphaEm3 measures one whole run from the spec's start.
 func BenchmarkYOK3WolfeMTAlphaEm3(b *testing.B) {
 	var r YOK3WolfeMTAlphaEm3Result

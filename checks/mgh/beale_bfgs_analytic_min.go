@@ -26,6 +26,8 @@ const (
 	BealeBFGSAnalyticNoDecrease
 	// BealeBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BealeBFGSAnalyticDiverged
+	// BealeBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BealeBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BealeBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BealeBFGSAnalyticDiverged:
 		return "diverged"
+	case BealeBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BealeBFGSAnalyticWithLimits(x0 [2]float64, limits BealeBFGSAnalyticLimits) 
 	}
 }
 
+// BealeBFGSAnalyticTickMinimum is the smallest call budget with which every BealeBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BealeBFGSAnalyticTickMinimum = 48
+
+// BealeBFGSAnalyticSolver is a run of BealeBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BealeBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BealeBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BealeBFGSAnalyticRunning ends exactly as BealeBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BealeBFGSAnalytic and BealeBFGSAnalyticWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is BealeBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BealeBFGSAnalyticSolver struct {
+	run       bealeBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BealeBFGSAnalyticLimits  // the limits of the runs; BealeBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BealeBFGSAnalyticSolver) SetLimits(limits BealeBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BealeBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BealeBFGSAnalyticSolver) StartFrom(from BealeBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *BealeBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BealeBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = BealeBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, bealeBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BealeBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BealeBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BealeBFGSAnalyticSolver) Advance(budget int) BealeBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BealeBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BealeBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	bealeBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	bealeBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	bealeBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	bealeBFGSAnalyticStepTrials     = 48                     // step.trials
-	bealeBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	bealeBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	bealeBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	bealeBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	bealeBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	bealeBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	bealeBFGSAnalyticStepTrials      = 48                     // step.trials
+	bealeBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	bealeBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	bealeBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	bealeBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	bealeBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	bealeBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // bealeBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits, bounds bealeBFGSAnalyticBox) bealeBFGSAnalyticOutcome {
-	x := x0
-	bealeBFGSAnalyticEnterBox(&x, &bounds)
-	out := bealeBFGSAnalyticOutcome{x: x, status: BealeBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Beale(&x)
-	out.f, out.evaluations = fx, 1
-	if !bealeBFGSAnalyticFinite(fx) || !bealeBFGSAnalyticFiniteVec(&x) {
-		out.status = BealeBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := bealeBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := bealeBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+bealeBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += bealeBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !bealeBFGSAnalyticFiniteVec(&g) {
-		out.status = BealeBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir bealeBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(bealeBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from bealeBFGSAnalyticConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := bealeBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != bealeBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see bealeBFGSAnalyticConfirmGradient and settle).
-			calls, ok := bealeBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == bealeBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BealeBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = bealeBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			bealeBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := bealeBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, bealeBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * bealeBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (bealeBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BealeBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = bealeBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if bealeBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BealeBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if bealeBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = bealeBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BealeBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			bealeBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BealeBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		bealeBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := bealeBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !bealeBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			bealeBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = bealeBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(bealeBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := bealeBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case bealeBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case bealeBFGSAnalyticSearchDiverged:
-			return best.ending(BealeBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case bealeBFGSAnalyticSearchExhausted, bealeBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see bealeBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BealeBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BealeBFGSAnalyticNoDecrease
-			case found.end == bealeBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = bealeBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == bealeBFGSAnalyticSearchTiny:
-				end = BealeBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !bealeBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BealeBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+bealeBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += bealeBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		bealeBFGSAnalyticDifference(&s, &xt, &x)
-		bealeBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !bealeBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BealeBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r bealeBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(bealeBFGSAnalyticUnlimited)
 }
 
 // bealeBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o bealeBFGSAnalyticOutcome) ending(end BealeBFGSAnalyticStatus, iterations
 	return o
 }
 
-// bealeBFGSAnalyticEnterBox: without bounds every start is inside.
-func bealeBFGSAnalyticEnterBox(x *[2]float64, b *bealeBFGSAnalyticBox) {}
-
-// bealeBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func bealeBFGSAnalyticFinite(v float64) bool {
-	return v >= -bealeBFGSAnalyticLargestFinite && v <= bealeBFGSAnalyticLargestFinite
+// bealeBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type bealeBFGSAnalyticDescent struct {
+	lim       BealeBFGSAnalyticLimits
+	stage     int                          // what advance does next
+	diffs     bealeBFGSAnalyticDifferences // the box and the difference intervals
+	dir       bealeBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best bealeBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from bealeBFGSAnalyticConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
 }
 
-// bealeBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func bealeBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *bealeBFGSAnalyticDescent) prepare(x0 [2]float64, lim BealeBFGSAnalyticLimits, bounds bealeBFGSAnalyticBox) {
+	r.lim, r.stage = lim, bealeBFGSAnalyticStageBegin
+	r.diffs = bealeBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	bealeBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = bealeBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BealeBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *bealeBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BealeBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, bealeBFGSAnalyticSettleCalls and bealeBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *bealeBFGSAnalyticDescent) advance(budget int) bealeBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != bealeBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case bealeBFGSAnalyticStageBegin:
+			if left < 1+bealeBFGSAnalyticCalibrationCost+bealeBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case bealeBFGSAnalyticStageJudge:
+			if r.verify != bealeBFGSAnalyticVerifyNothing && left < bealeBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < bealeBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *bealeBFGSAnalyticDescent) paused() bealeBFGSAnalyticOutcome {
+	return r.best.ending(BealeBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *bealeBFGSAnalyticDescent) finish(end BealeBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = bealeBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *bealeBFGSAnalyticDescent) begin() {
+	r.stage = bealeBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !bealeBFGSAnalyticFinite(r.fx) || !bealeBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BealeBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := bealeBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+bealeBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += bealeBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !bealeBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BealeBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = bealeBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, bealeBFGSAnalyticVerifyNothing
+	r.stage = bealeBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves bealeBFGSAnalyticStageSearch next when the run goes on.
+func (r *bealeBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != bealeBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see bealeBFGSAnalyticConfirmGradient and settle).
+		calls, ok := bealeBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == bealeBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BealeBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !bealeBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BealeBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = bealeBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		bealeBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := bealeBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, bealeBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * bealeBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (bealeBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BealeBFGSAnalyticGradientSmall
+		r.stage = bealeBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = bealeBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if bealeBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BealeBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if bealeBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = bealeBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BealeBFGSAnalyticDiverged)
+			return
+		}
+		bealeBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BealeBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = bealeBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves bealeBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *bealeBFGSAnalyticDescent) search() {
+	bealeBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := bealeBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !bealeBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		bealeBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = bealeBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(bealeBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := bealeBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := bealeBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case bealeBFGSAnalyticSearchOutOfBudget:
+		r.finish(BealeBFGSAnalyticOutOfEvaluations)
+		return
+	case bealeBFGSAnalyticSearchDiverged:
+		r.finish(BealeBFGSAnalyticDiverged)
+		return
+	case bealeBFGSAnalyticSearchExhausted, bealeBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see bealeBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BealeBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BealeBFGSAnalyticNoDecrease
+		case found.end == bealeBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = bealeBFGSAnalyticVerifyStall, true, bealeBFGSAnalyticStageJudge
+			return
+		case found.end == bealeBFGSAnalyticSearchTiny:
+			end = BealeBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !bealeBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BealeBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+bealeBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BealeBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += bealeBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	bealeBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	bealeBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !bealeBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BealeBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = bealeBFGSAnalyticStageJudge
 }
 
 // bealeBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type bealeBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeBFGSAnalyticRoundingFloor)
 	bounds    bealeBFGSAnalyticBox
-}
-
-// bealeBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func bealeBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// bealeBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func bealeBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeBFGSAnalyticDifferences) int {
-	BealeGrad(x, g)
-	return 0
 }
 
 // bealeBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func bealeBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeBFGSAnalyticDot(s, s))*(sy/bealeBFGSAnalyticDot(y, y)) > bealeBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	bealeBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	bealeBFGSAnalyticStageJudge         // settle when asked (bealeBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	bealeBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: bealeBFGSAnalyticIterationCalls
+	bealeBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// bealeBFGSAnalyticEnterBox: without bounds every start is inside.
+func bealeBFGSAnalyticEnterBox(x *[2]float64, b *bealeBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	bealeBFGSAnalyticVerifyNothing = iota
 	bealeBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	bealeBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// bealeBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func bealeBFGSAnalyticFinite(v float64) bool {
+	return v >= -bealeBFGSAnalyticLargestFinite && v <= bealeBFGSAnalyticLargestFinite
+}
+
+// bealeBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func bealeBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !bealeBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// bealeBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func bealeBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// bealeBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func bealeBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeBFGSAnalyticDifferences) int {
+	BealeGrad(x, g)
+	return 0
+}
 
 // bealeBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (bealeBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func bealeBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// bealeBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const bealeBFGSAnalyticUnlimited = int(^uint(0) >> 1)

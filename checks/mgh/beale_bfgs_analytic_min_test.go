@@ -105,6 +105,55 @@ func TestBealeBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBealeBFGSAnalyticSolverTicks advances a BealeBFGSAnalyticSolver from the spec's start with budgets of BealeBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BealeBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBealeBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BealeBFGSAnalytic(bealeBFGSAnalyticTestStart())
+	for _, budget := range []int{BealeBFGSAnalyticTickMinimum, BealeBFGSAnalyticTickMinimum + 1, 2 * BealeBFGSAnalyticTickMinimum, 7 * BealeBFGSAnalyticTickMinimum} {
+		var s BealeBFGSAnalyticSolver
+		s.Start(bealeBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BealeBFGSAnalyticRunning {
+				if !bealeBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BealeBFGSAnalyticSolver
+	s.Start(bealeBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BealeBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBealeBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBealeBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BealeBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(bealeBFGSAnalyticTestStart())
+		for s.Advance(BealeBFGSAnalyticTickMinimum).Status == BealeBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// bealeBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func bealeBFGSAnalyticTestSameResult(a, b BealeBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBealeBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBealeBFGSAnalytic(b *testing.B) {
 	var r BealeBFGSAnalyticResult

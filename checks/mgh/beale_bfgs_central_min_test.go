@@ -47,6 +47,55 @@ func TestBealeBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBealeBFGSCentralSolverTicks advances a BealeBFGSCentralSolver from the spec's start with budgets of BealeBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BealeBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBealeBFGSCentralSolverTicks(t *testing.T) {
+	want := BealeBFGSCentral(bealeBFGSCentralTestStart())
+	for _, budget := range []int{BealeBFGSCentralTickMinimum, BealeBFGSCentralTickMinimum + 1, 2 * BealeBFGSCentralTickMinimum, 7 * BealeBFGSCentralTickMinimum} {
+		var s BealeBFGSCentralSolver
+		s.Start(bealeBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BealeBFGSCentralRunning {
+				if !bealeBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BealeBFGSCentralSolver
+	s.Start(bealeBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BealeBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBealeBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBealeBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BealeBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(bealeBFGSCentralTestStart())
+		for s.Advance(BealeBFGSCentralTickMinimum).Status == BealeBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// bealeBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func bealeBFGSCentralTestSameResult(a, b BealeBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBealeBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBealeBFGSCentral(b *testing.B) {
 	var r BealeBFGSCentralResult

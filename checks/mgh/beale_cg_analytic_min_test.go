@@ -105,6 +105,55 @@ func TestBealeCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBealeCGAnalyticSolverTicks advances a BealeCGAnalyticSolver from the spec's start with budgets of BealeCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BealeCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBealeCGAnalyticSolverTicks(t *testing.T) {
+	want := BealeCGAnalytic(bealeCGAnalyticTestStart())
+	for _, budget := range []int{BealeCGAnalyticTickMinimum, BealeCGAnalyticTickMinimum + 1, 2 * BealeCGAnalyticTickMinimum, 7 * BealeCGAnalyticTickMinimum} {
+		var s BealeCGAnalyticSolver
+		s.Start(bealeCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BealeCGAnalyticRunning {
+				if !bealeCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BealeCGAnalyticSolver
+	s.Start(bealeCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BealeCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBealeCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBealeCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BealeCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(bealeCGAnalyticTestStart())
+		for s.Advance(BealeCGAnalyticTickMinimum).Status == BealeCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// bealeCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func bealeCGAnalyticTestSameResult(a, b BealeCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBealeCGAnalytic measures one whole run from the spec's start.
 func BenchmarkBealeCGAnalytic(b *testing.B) {
 	var r BealeCGAnalyticResult

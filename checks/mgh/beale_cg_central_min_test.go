@@ -47,6 +47,55 @@ func TestBealeCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBealeCGCentralSolverTicks advances a BealeCGCentralSolver from the spec's start with budgets of BealeCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BealeCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBealeCGCentralSolverTicks(t *testing.T) {
+	want := BealeCGCentral(bealeCGCentralTestStart())
+	for _, budget := range []int{BealeCGCentralTickMinimum, BealeCGCentralTickMinimum + 1, 2 * BealeCGCentralTickMinimum, 7 * BealeCGCentralTickMinimum} {
+		var s BealeCGCentralSolver
+		s.Start(bealeCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BealeCGCentralRunning {
+				if !bealeCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BealeCGCentralSolver
+	s.Start(bealeCGCentralTestStart())
+	if r := s.Advance(0); r.Status != BealeCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBealeCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBealeCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s BealeCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(bealeCGCentralTestStart())
+		for s.Advance(BealeCGCentralTickMinimum).Status == BealeCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// bealeCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func bealeCGCentralTestSameResult(a, b BealeCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBealeCGCentral measures one whole run from the spec's start.
 func BenchmarkBealeCGCentral(b *testing.B) {
 	var r BealeCGCentralResult

@@ -26,6 +26,8 @@ const (
 	BealeLBFGSAnalyticNoDecrease
 	// BealeLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BealeLBFGSAnalyticDiverged
+	// BealeLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BealeLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BealeLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BealeLBFGSAnalyticDiverged:
 		return "diverged"
+	case BealeLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func BealeLBFGSAnalyticWithLimits(x0 [2]float64, limits BealeLBFGSAnalyticLimits
 	}
 }
 
+// BealeLBFGSAnalyticTickMinimum is the smallest call budget with which every BealeLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BealeLBFGSAnalyticTickMinimum = 48
+
+// BealeLBFGSAnalyticSolver is a run of BealeLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BealeLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BealeLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BealeLBFGSAnalyticRunning ends exactly as BealeLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BealeLBFGSAnalytic and BealeLBFGSAnalyticWithLimits use at most 2392 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is BealeLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BealeLBFGSAnalyticSolver struct {
+	run       bealeLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BealeLBFGSAnalyticLimits  // the limits of the runs; BealeLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BealeLBFGSAnalyticSolver) SetLimits(limits BealeLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BealeLBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BealeLBFGSAnalyticSolver) StartFrom(from BealeLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *BealeLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BealeLBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = BealeLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, bealeLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BealeLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BealeLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BealeLBFGSAnalyticSolver) Advance(budget int) BealeLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BealeLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BealeLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	bealeLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	bealeLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	bealeLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	bealeLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	bealeLBFGSAnalyticStepTrials     = 48                     // step.trials
-	bealeLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	bealeLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	bealeLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	bealeLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	bealeLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	bealeLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	bealeLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	bealeLBFGSAnalyticStepTrials      = 48                     // step.trials
+	bealeLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	bealeLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	bealeLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	bealeLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	bealeLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	bealeLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // bealeLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits, bounds bealeLBFGSAnalyticBox) bealeLBFGSAnalyticOutcome {
-	x := x0
-	bealeLBFGSAnalyticEnterBox(&x, &bounds)
-	out := bealeLBFGSAnalyticOutcome{x: x, status: BealeLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Beale(&x)
-	out.f, out.evaluations = fx, 1
-	if !bealeLBFGSAnalyticFinite(fx) || !bealeLBFGSAnalyticFiniteVec(&x) {
-		out.status = BealeLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := bealeLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := bealeLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+bealeLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += bealeLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !bealeLBFGSAnalyticFiniteVec(&g) {
-		out.status = BealeLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir bealeLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(bealeLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from bealeLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := bealeLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != bealeLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see bealeLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := bealeLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == bealeLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BealeLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = bealeLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			bealeLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := bealeLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, bealeLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * bealeLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (bealeLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BealeLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = bealeLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if bealeLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BealeLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if bealeLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = bealeLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BealeLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			bealeLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BealeLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		bealeLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := bealeLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !bealeLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			bealeLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = bealeLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(bealeLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := bealeLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case bealeLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case bealeLBFGSAnalyticSearchDiverged:
-			return best.ending(BealeLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case bealeLBFGSAnalyticSearchExhausted, bealeLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see bealeLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BealeLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BealeLBFGSAnalyticNoDecrease
-			case found.end == bealeLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = bealeLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == bealeLBFGSAnalyticSearchTiny:
-				end = BealeLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !bealeLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BealeLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+bealeLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += bealeLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		bealeLBFGSAnalyticDifference(&s, &xt, &x)
-		bealeLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !bealeLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BealeLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r bealeLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(bealeLBFGSAnalyticUnlimited)
 }
 
 // bealeLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o bealeLBFGSAnalyticOutcome) ending(end BealeLBFGSAnalyticStatus, iteratio
 	return o
 }
 
-// bealeLBFGSAnalyticEnterBox: without bounds every start is inside.
-func bealeLBFGSAnalyticEnterBox(x *[2]float64, b *bealeLBFGSAnalyticBox) {}
-
-// bealeLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func bealeLBFGSAnalyticFinite(v float64) bool {
-	return v >= -bealeLBFGSAnalyticLargestFinite && v <= bealeLBFGSAnalyticLargestFinite
+// bealeLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type bealeLBFGSAnalyticDescent struct {
+	lim       BealeLBFGSAnalyticLimits
+	stage     int                           // what advance does next
+	diffs     bealeLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       bealeLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best bealeLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from bealeLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// bealeLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func bealeLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *bealeLBFGSAnalyticDescent) prepare(x0 [2]float64, lim BealeLBFGSAnalyticLimits, bounds bealeLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, bealeLBFGSAnalyticStageBegin
+	r.diffs = bealeLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	bealeLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = bealeLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BealeLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *bealeLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BealeLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, bealeLBFGSAnalyticSettleCalls and bealeLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *bealeLBFGSAnalyticDescent) advance(budget int) bealeLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != bealeLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case bealeLBFGSAnalyticStageBegin:
+			if left < 1+bealeLBFGSAnalyticCalibrationCost+bealeLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case bealeLBFGSAnalyticStageJudge:
+			if r.verify != bealeLBFGSAnalyticVerifyNothing && left < bealeLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < bealeLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *bealeLBFGSAnalyticDescent) paused() bealeLBFGSAnalyticOutcome {
+	return r.best.ending(BealeLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *bealeLBFGSAnalyticDescent) finish(end BealeLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = bealeLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *bealeLBFGSAnalyticDescent) begin() {
+	r.stage = bealeLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !bealeLBFGSAnalyticFinite(r.fx) || !bealeLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BealeLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := bealeLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+bealeLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += bealeLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !bealeLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BealeLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = bealeLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, bealeLBFGSAnalyticVerifyNothing
+	r.stage = bealeLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves bealeLBFGSAnalyticStageSearch next when the run goes on.
+func (r *bealeLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != bealeLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see bealeLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := bealeLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == bealeLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BealeLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !bealeLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BealeLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = bealeLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		bealeLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := bealeLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, bealeLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * bealeLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (bealeLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BealeLBFGSAnalyticGradientSmall
+		r.stage = bealeLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = bealeLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if bealeLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BealeLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if bealeLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = bealeLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BealeLBFGSAnalyticDiverged)
+			return
+		}
+		bealeLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BealeLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = bealeLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves bealeLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *bealeLBFGSAnalyticDescent) search() {
+	bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := bealeLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !bealeLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = bealeLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(bealeLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := bealeLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := bealeLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case bealeLBFGSAnalyticSearchOutOfBudget:
+		r.finish(BealeLBFGSAnalyticOutOfEvaluations)
+		return
+	case bealeLBFGSAnalyticSearchDiverged:
+		r.finish(BealeLBFGSAnalyticDiverged)
+		return
+	case bealeLBFGSAnalyticSearchExhausted, bealeLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see bealeLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BealeLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BealeLBFGSAnalyticNoDecrease
+		case found.end == bealeLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = bealeLBFGSAnalyticVerifyStall, true, bealeLBFGSAnalyticStageJudge
+			return
+		case found.end == bealeLBFGSAnalyticSearchTiny:
+			end = BealeLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !bealeLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BealeLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+bealeLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BealeLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += bealeLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	bealeLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	bealeLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !bealeLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BealeLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = bealeLBFGSAnalyticStageJudge
 }
 
 // bealeLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type bealeLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeLBFGSAnalyticRoundingFloor)
 	bounds    bealeLBFGSAnalyticBox
-}
-
-// bealeLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func bealeLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// bealeLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func bealeLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeLBFGSAnalyticDifferences) int {
-	BealeGrad(x, g)
-	return 0
 }
 
 // bealeLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func bealeLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeLBFGSAnalyticDot(s, s))*(sy/bealeLBFGSAnalyticDot(y, y)) > bealeLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	bealeLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	bealeLBFGSAnalyticStageJudge         // settle when asked (bealeLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	bealeLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: bealeLBFGSAnalyticIterationCalls
+	bealeLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// bealeLBFGSAnalyticEnterBox: without bounds every start is inside.
+func bealeLBFGSAnalyticEnterBox(x *[2]float64, b *bealeLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	bealeLBFGSAnalyticVerifyNothing = iota
 	bealeLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	bealeLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// bealeLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func bealeLBFGSAnalyticFinite(v float64) bool {
+	return v >= -bealeLBFGSAnalyticLargestFinite && v <= bealeLBFGSAnalyticLargestFinite
+}
+
+// bealeLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func bealeLBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !bealeLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// bealeLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func bealeLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// bealeLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func bealeLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeLBFGSAnalyticDifferences) int {
+	BealeGrad(x, g)
+	return 0
+}
 
 // bealeLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (bealeLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func bealeLBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// bealeLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const bealeLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

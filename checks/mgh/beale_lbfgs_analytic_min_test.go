@@ -105,6 +105,55 @@ func TestBealeLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBealeLBFGSAnalyticSolverTicks advances a BealeLBFGSAnalyticSolver from the spec's start with budgets of BealeLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BealeLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBealeLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BealeLBFGSAnalytic(bealeLBFGSAnalyticTestStart())
+	for _, budget := range []int{BealeLBFGSAnalyticTickMinimum, BealeLBFGSAnalyticTickMinimum + 1, 2 * BealeLBFGSAnalyticTickMinimum, 7 * BealeLBFGSAnalyticTickMinimum} {
+		var s BealeLBFGSAnalyticSolver
+		s.Start(bealeLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BealeLBFGSAnalyticRunning {
+				if !bealeLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BealeLBFGSAnalyticSolver
+	s.Start(bealeLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BealeLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBealeLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBealeLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BealeLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(bealeLBFGSAnalyticTestStart())
+		for s.Advance(BealeLBFGSAnalyticTickMinimum).Status == BealeLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// bealeLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func bealeLBFGSAnalyticTestSameResult(a, b BealeLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBealeLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBealeLBFGSAnalytic(b *testing.B) {
 	var r BealeLBFGSAnalyticResult

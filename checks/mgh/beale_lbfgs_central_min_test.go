@@ -47,6 +47,55 @@ func TestBealeLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBealeLBFGSCentralSolverTicks advances a BealeLBFGSCentralSolver from the spec's start with budgets of BealeLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BealeLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBealeLBFGSCentralSolverTicks(t *testing.T) {
+	want := BealeLBFGSCentral(bealeLBFGSCentralTestStart())
+	for _, budget := range []int{BealeLBFGSCentralTickMinimum, BealeLBFGSCentralTickMinimum + 1, 2 * BealeLBFGSCentralTickMinimum, 7 * BealeLBFGSCentralTickMinimum} {
+		var s BealeLBFGSCentralSolver
+		s.Start(bealeLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BealeLBFGSCentralRunning {
+				if !bealeLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BealeLBFGSCentralSolver
+	s.Start(bealeLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BealeLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBealeLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBealeLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BealeLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(bealeLBFGSCentralTestStart())
+		for s.Advance(BealeLBFGSCentralTickMinimum).Status == BealeLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// bealeLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func bealeLBFGSCentralTestSameResult(a, b BealeLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBealeLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBealeLBFGSCentral(b *testing.B) {
 	var r BealeLBFGSCentralResult

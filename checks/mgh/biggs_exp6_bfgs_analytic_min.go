@@ -26,6 +26,8 @@ const (
 	BiggsEXP6BFGSAnalyticNoDecrease
 	// BiggsEXP6BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BiggsEXP6BFGSAnalyticDiverged
+	// BiggsEXP6BFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BiggsEXP6BFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BiggsEXP6BFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BiggsEXP6BFGSAnalyticDiverged:
 		return "diverged"
+	case BiggsEXP6BFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BiggsEXP6BFGSAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6BFGSAnalytic
 	}
 }
 
+// BiggsEXP6BFGSAnalyticTickMinimum is the smallest call budget with which every BiggsEXP6BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BiggsEXP6BFGSAnalyticTickMinimum = 48
+
+// BiggsEXP6BFGSAnalyticSolver is a run of BiggsEXP6BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BiggsEXP6BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BiggsEXP6BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BiggsEXP6BFGSAnalyticRunning ends exactly as BiggsEXP6BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BiggsEXP6BFGSAnalytic and BiggsEXP6BFGSAnalyticWithLimits use at most 3752 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is BiggsEXP6BFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BiggsEXP6BFGSAnalyticSolver struct {
+	run       biggsEXP6BFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BiggsEXP6BFGSAnalyticLimits  // the limits of the runs; BiggsEXP6BFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                         // whether SetLimits has set limits
+	started   bool                         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BiggsEXP6BFGSAnalyticSolver) SetLimits(limits BiggsEXP6BFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BiggsEXP6BFGSAnalyticSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BiggsEXP6BFGSAnalyticSolver) StartFrom(from BiggsEXP6BFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *BiggsEXP6BFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BiggsEXP6BFGSAnalyticSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = BiggsEXP6BFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, biggsEXP6BFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BiggsEXP6BFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BiggsEXP6BFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BiggsEXP6BFGSAnalyticSolver) Advance(budget int) BiggsEXP6BFGSAnalyticResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BiggsEXP6BFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BiggsEXP6BFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	biggsEXP6BFGSAnalyticStepInitial    = 1.0                    // step.initial
-	biggsEXP6BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	biggsEXP6BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	biggsEXP6BFGSAnalyticStepTrials     = 48                     // step.trials
-	biggsEXP6BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	biggsEXP6BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	biggsEXP6BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	biggsEXP6BFGSAnalyticStepInitial     = 1.0                    // step.initial
+	biggsEXP6BFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	biggsEXP6BFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	biggsEXP6BFGSAnalyticStepTrials      = 48                     // step.trials
+	biggsEXP6BFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	biggsEXP6BFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	biggsEXP6BFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	biggsEXP6BFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	biggsEXP6BFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	biggsEXP6BFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // biggsEXP6BFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimits, bounds biggsEXP6BFGSAnalyticBox) biggsEXP6BFGSAnalyticOutcome {
-	x := x0
-	biggsEXP6BFGSAnalyticEnterBox(&x, &bounds)
-	out := biggsEXP6BFGSAnalyticOutcome{x: x, status: BiggsEXP6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BiggsEXP6(&x)
-	out.f, out.evaluations = fx, 1
-	if !biggsEXP6BFGSAnalyticFinite(fx) || !biggsEXP6BFGSAnalyticFiniteVec(&x) {
-		out.status = BiggsEXP6BFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := biggsEXP6BFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := biggsEXP6BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+biggsEXP6BFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += biggsEXP6BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
-		out.status = BiggsEXP6BFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir biggsEXP6BFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(biggsEXP6BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from biggsEXP6BFGSAnalyticConfirmGradient or settle
-	stalled := false                                                  // whether the run can make no more progress at x
-	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
-	verify := biggsEXP6BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != biggsEXP6BFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see biggsEXP6BFGSAnalyticConfirmGradient and settle).
-			calls, ok := biggsEXP6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
-				return best.ending(BiggsEXP6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = biggsEXP6BFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			biggsEXP6BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := biggsEXP6BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, biggsEXP6BFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * biggsEXP6BFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (biggsEXP6BFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BiggsEXP6BFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = biggsEXP6BFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if biggsEXP6BFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BiggsEXP6BFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if biggsEXP6BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = biggsEXP6BFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BiggsEXP6BFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			biggsEXP6BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BiggsEXP6BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		biggsEXP6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := biggsEXP6BFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !biggsEXP6BFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			biggsEXP6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = biggsEXP6BFGSAnalyticDot(&g, &d)
-		}
-		first := float64(biggsEXP6BFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := biggsEXP6BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case biggsEXP6BFGSAnalyticSearchOutOfBudget:
-			return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case biggsEXP6BFGSAnalyticSearchDiverged:
-			return best.ending(BiggsEXP6BFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case biggsEXP6BFGSAnalyticSearchExhausted, biggsEXP6BFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see biggsEXP6BFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BiggsEXP6BFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BiggsEXP6BFGSAnalyticNoDecrease
-			case found.end == biggsEXP6BFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = biggsEXP6BFGSAnalyticVerifyStall, true
-				continue
-			case found.end == biggsEXP6BFGSAnalyticSearchTiny:
-				end = BiggsEXP6BFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !biggsEXP6BFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BiggsEXP6BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+biggsEXP6BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += biggsEXP6BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		biggsEXP6BFGSAnalyticDifference(&s, &xt, &x)
-		biggsEXP6BFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BiggsEXP6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r biggsEXP6BFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(biggsEXP6BFGSAnalyticUnlimited)
 }
 
 // biggsEXP6BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o biggsEXP6BFGSAnalyticOutcome) ending(end BiggsEXP6BFGSAnalyticStatus, it
 	return o
 }
 
-// biggsEXP6BFGSAnalyticEnterBox: without bounds every start is inside.
-func biggsEXP6BFGSAnalyticEnterBox(x *[6]float64, b *biggsEXP6BFGSAnalyticBox) {}
-
-// biggsEXP6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func biggsEXP6BFGSAnalyticFinite(v float64) bool {
-	return v >= -biggsEXP6BFGSAnalyticLargestFinite && v <= biggsEXP6BFGSAnalyticLargestFinite
+// biggsEXP6BFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type biggsEXP6BFGSAnalyticDescent struct {
+	lim       BiggsEXP6BFGSAnalyticLimits
+	stage     int                              // what advance does next
+	diffs     biggsEXP6BFGSAnalyticDifferences // the box and the difference intervals
+	dir       biggsEXP6BFGSAnalyticDirection   // the direction's memory
+	x, g, e   [6]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                       // the search direction, the last step and its gradient change
+	fx        float64                          // f(x)
+	t, slope  float64                          // the previous iteration's accepted step and slope
+	out, best biggsEXP6BFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                          // f(x0)
+	rises     int                              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                             // whether g and e at x come from biggsEXP6BFGSAnalyticConfirmGradient or settle
+	stalled   bool                             // whether the run can make no more progress at x
+	retried   int                              // the iteration whose stall was retried with recalibrated differences
+	verify    int                              // what to check at x before judging it again
 }
 
-// biggsEXP6BFGSAnalyticFiniteVec reports whether every component of x is finite.
-func biggsEXP6BFGSAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6BFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *biggsEXP6BFGSAnalyticDescent) prepare(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimits, bounds biggsEXP6BFGSAnalyticBox) {
+	r.lim, r.stage = lim, biggsEXP6BFGSAnalyticStageBegin
+	r.diffs = biggsEXP6BFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	biggsEXP6BFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = biggsEXP6BFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BiggsEXP6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *biggsEXP6BFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BiggsEXP6BFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, biggsEXP6BFGSAnalyticSettleCalls and biggsEXP6BFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *biggsEXP6BFGSAnalyticDescent) advance(budget int) biggsEXP6BFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != biggsEXP6BFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case biggsEXP6BFGSAnalyticStageBegin:
+			if left < 1+biggsEXP6BFGSAnalyticCalibrationCost+biggsEXP6BFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case biggsEXP6BFGSAnalyticStageJudge:
+			if r.verify != biggsEXP6BFGSAnalyticVerifyNothing && left < biggsEXP6BFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < biggsEXP6BFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *biggsEXP6BFGSAnalyticDescent) paused() biggsEXP6BFGSAnalyticOutcome {
+	return r.best.ending(BiggsEXP6BFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *biggsEXP6BFGSAnalyticDescent) finish(end BiggsEXP6BFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = biggsEXP6BFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *biggsEXP6BFGSAnalyticDescent) begin() {
+	r.stage = biggsEXP6BFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !biggsEXP6BFGSAnalyticFinite(r.fx) || !biggsEXP6BFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BiggsEXP6BFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := biggsEXP6BFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+biggsEXP6BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += biggsEXP6BFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !biggsEXP6BFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BiggsEXP6BFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = biggsEXP6BFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, biggsEXP6BFGSAnalyticVerifyNothing
+	r.stage = biggsEXP6BFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves biggsEXP6BFGSAnalyticStageSearch next when the run goes on.
+func (r *biggsEXP6BFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != biggsEXP6BFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see biggsEXP6BFGSAnalyticConfirmGradient and settle).
+		calls, ok := biggsEXP6BFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == biggsEXP6BFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BiggsEXP6BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !biggsEXP6BFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BiggsEXP6BFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = biggsEXP6BFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		biggsEXP6BFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := biggsEXP6BFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, biggsEXP6BFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * biggsEXP6BFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (biggsEXP6BFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BiggsEXP6BFGSAnalyticGradientSmall
+		r.stage = biggsEXP6BFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = biggsEXP6BFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if biggsEXP6BFGSAnalyticDerivativeCost == 0 {
+			r.finish(BiggsEXP6BFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if biggsEXP6BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = biggsEXP6BFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BiggsEXP6BFGSAnalyticDiverged)
+			return
+		}
+		biggsEXP6BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BiggsEXP6BFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = biggsEXP6BFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves biggsEXP6BFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *biggsEXP6BFGSAnalyticDescent) search() {
+	biggsEXP6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := biggsEXP6BFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !biggsEXP6BFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		biggsEXP6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = biggsEXP6BFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(biggsEXP6BFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := biggsEXP6BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := biggsEXP6BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case biggsEXP6BFGSAnalyticSearchOutOfBudget:
+		r.finish(BiggsEXP6BFGSAnalyticOutOfEvaluations)
+		return
+	case biggsEXP6BFGSAnalyticSearchDiverged:
+		r.finish(BiggsEXP6BFGSAnalyticDiverged)
+		return
+	case biggsEXP6BFGSAnalyticSearchExhausted, biggsEXP6BFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see biggsEXP6BFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BiggsEXP6BFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BiggsEXP6BFGSAnalyticNoDecrease
+		case found.end == biggsEXP6BFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = biggsEXP6BFGSAnalyticVerifyStall, true, biggsEXP6BFGSAnalyticStageJudge
+			return
+		case found.end == biggsEXP6BFGSAnalyticSearchTiny:
+			end = BiggsEXP6BFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !biggsEXP6BFGSAnalyticFiniteVec(&xt) {
+		r.finish(BiggsEXP6BFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+biggsEXP6BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BiggsEXP6BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += biggsEXP6BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	biggsEXP6BFGSAnalyticDifference(&r.s, &xt, &r.x)
+	biggsEXP6BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !biggsEXP6BFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BiggsEXP6BFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = biggsEXP6BFGSAnalyticStageJudge
 }
 
 // biggsEXP6BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type biggsEXP6BFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6BFGSAnalyticRoundingFloor)
 	bounds    biggsEXP6BFGSAnalyticBox
-}
-
-// biggsEXP6BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func biggsEXP6BFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6BFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// biggsEXP6BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func biggsEXP6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) int {
-	BiggsEXP6Grad(x, g)
-	return 0
 }
 
 // biggsEXP6BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func biggsEXP6BFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6BFGSAnalyticDot(s, s))*(sy/biggsEXP6BFGSAnalyticDot(y, y)) > biggsEXP6BFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	biggsEXP6BFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	biggsEXP6BFGSAnalyticStageJudge         // settle when asked (biggsEXP6BFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	biggsEXP6BFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: biggsEXP6BFGSAnalyticIterationCalls
+	biggsEXP6BFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// biggsEXP6BFGSAnalyticEnterBox: without bounds every start is inside.
+func biggsEXP6BFGSAnalyticEnterBox(x *[6]float64, b *biggsEXP6BFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	biggsEXP6BFGSAnalyticVerifyNothing = iota
 	biggsEXP6BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	biggsEXP6BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// biggsEXP6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func biggsEXP6BFGSAnalyticFinite(v float64) bool {
+	return v >= -biggsEXP6BFGSAnalyticLargestFinite && v <= biggsEXP6BFGSAnalyticLargestFinite
+}
+
+// biggsEXP6BFGSAnalyticFiniteVec reports whether every component of x is finite.
+func biggsEXP6BFGSAnalyticFiniteVec(x *[6]float64) bool {
+	for i := range x {
+		if !biggsEXP6BFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// biggsEXP6BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func biggsEXP6BFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// biggsEXP6BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func biggsEXP6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) int {
+	BiggsEXP6Grad(x, g)
+	return 0
+}
 
 // biggsEXP6BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (biggsEXP6BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func biggsEXP6BFGSAnalyticDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// biggsEXP6BFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const biggsEXP6BFGSAnalyticUnlimited = int(^uint(0) >> 1)

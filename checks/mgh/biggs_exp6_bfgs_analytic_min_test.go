@@ -105,6 +105,55 @@ func TestBiggsEXP6BFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBiggsEXP6BFGSAnalyticSolverTicks advances a BiggsEXP6BFGSAnalyticSolver from the spec's start with budgets of BiggsEXP6BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BiggsEXP6BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBiggsEXP6BFGSAnalyticSolverTicks(t *testing.T) {
+	want := BiggsEXP6BFGSAnalytic(biggsEXP6BFGSAnalyticTestStart())
+	for _, budget := range []int{BiggsEXP6BFGSAnalyticTickMinimum, BiggsEXP6BFGSAnalyticTickMinimum + 1, 2 * BiggsEXP6BFGSAnalyticTickMinimum, 7 * BiggsEXP6BFGSAnalyticTickMinimum} {
+		var s BiggsEXP6BFGSAnalyticSolver
+		s.Start(biggsEXP6BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BiggsEXP6BFGSAnalyticRunning {
+				if !biggsEXP6BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BiggsEXP6BFGSAnalyticSolver
+	s.Start(biggsEXP6BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BiggsEXP6BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBiggsEXP6BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBiggsEXP6BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BiggsEXP6BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(biggsEXP6BFGSAnalyticTestStart())
+		for s.Advance(BiggsEXP6BFGSAnalyticTickMinimum).Status == BiggsEXP6BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// biggsEXP6BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func biggsEXP6BFGSAnalyticTestSameResult(a, b BiggsEXP6BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBiggsEXP6BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBiggsEXP6BFGSAnalytic(b *testing.B) {
 	var r BiggsEXP6BFGSAnalyticResult

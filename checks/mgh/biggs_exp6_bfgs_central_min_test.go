@@ -47,6 +47,55 @@ func TestBiggsEXP6BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBiggsEXP6BFGSCentralSolverTicks advances a BiggsEXP6BFGSCentralSolver from the spec's start with budgets of BiggsEXP6BFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BiggsEXP6BFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBiggsEXP6BFGSCentralSolverTicks(t *testing.T) {
+	want := BiggsEXP6BFGSCentral(biggsEXP6BFGSCentralTestStart())
+	for _, budget := range []int{BiggsEXP6BFGSCentralTickMinimum, BiggsEXP6BFGSCentralTickMinimum + 1, 2 * BiggsEXP6BFGSCentralTickMinimum, 7 * BiggsEXP6BFGSCentralTickMinimum} {
+		var s BiggsEXP6BFGSCentralSolver
+		s.Start(biggsEXP6BFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BiggsEXP6BFGSCentralRunning {
+				if !biggsEXP6BFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BiggsEXP6BFGSCentralSolver
+	s.Start(biggsEXP6BFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BiggsEXP6BFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBiggsEXP6BFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBiggsEXP6BFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BiggsEXP6BFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(biggsEXP6BFGSCentralTestStart())
+		for s.Advance(BiggsEXP6BFGSCentralTickMinimum).Status == BiggsEXP6BFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// biggsEXP6BFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func biggsEXP6BFGSCentralTestSameResult(a, b BiggsEXP6BFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBiggsEXP6BFGSCentral measures one whole run from the spec's start.
 func BenchmarkBiggsEXP6BFGSCentral(b *testing.B) {
 	var r BiggsEXP6BFGSCentralResult

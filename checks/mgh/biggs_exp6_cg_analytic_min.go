@@ -26,6 +26,8 @@ const (
 	BiggsEXP6CGAnalyticNoDecrease
 	// BiggsEXP6CGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BiggsEXP6CGAnalyticDiverged
+	// BiggsEXP6CGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BiggsEXP6CGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BiggsEXP6CGAnalyticStatus) String() string {
 		return "no decrease"
 	case BiggsEXP6CGAnalyticDiverged:
 		return "diverged"
+	case BiggsEXP6CGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BiggsEXP6CGAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6CGAnalyticLimi
 	}
 }
 
+// BiggsEXP6CGAnalyticTickMinimum is the smallest call budget with which every BiggsEXP6CGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BiggsEXP6CGAnalyticTickMinimum = 48
+
+// BiggsEXP6CGAnalyticSolver is a run of BiggsEXP6CGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BiggsEXP6CGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BiggsEXP6CGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BiggsEXP6CGAnalyticRunning ends exactly as BiggsEXP6CGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BiggsEXP6CGAnalytic and BiggsEXP6CGAnalyticWithLimits use at most 3568 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is BiggsEXP6CGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BiggsEXP6CGAnalyticSolver struct {
+	run       biggsEXP6CGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BiggsEXP6CGAnalyticLimits  // the limits of the runs; BiggsEXP6CGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BiggsEXP6CGAnalyticSolver) SetLimits(limits BiggsEXP6CGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BiggsEXP6CGAnalyticSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BiggsEXP6CGAnalyticSolver) StartFrom(from BiggsEXP6CGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *BiggsEXP6CGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BiggsEXP6CGAnalyticSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = BiggsEXP6CGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, biggsEXP6CGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BiggsEXP6CGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BiggsEXP6CGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BiggsEXP6CGAnalyticSolver) Advance(budget int) BiggsEXP6CGAnalyticResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BiggsEXP6CGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BiggsEXP6CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	biggsEXP6CGAnalyticStepInitial    = 1.0                    // step.initial
-	biggsEXP6CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	biggsEXP6CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	biggsEXP6CGAnalyticStepTrials     = 48                     // step.trials
-	biggsEXP6CGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	biggsEXP6CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	biggsEXP6CGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	biggsEXP6CGAnalyticStepInitial     = 1.0                    // step.initial
+	biggsEXP6CGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	biggsEXP6CGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	biggsEXP6CGAnalyticStepTrials      = 48                     // step.trials
+	biggsEXP6CGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	biggsEXP6CGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	biggsEXP6CGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	biggsEXP6CGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	biggsEXP6CGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	biggsEXP6CGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // biggsEXP6CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits, bounds biggsEXP6CGAnalyticBox) biggsEXP6CGAnalyticOutcome {
-	x := x0
-	biggsEXP6CGAnalyticEnterBox(&x, &bounds)
-	out := biggsEXP6CGAnalyticOutcome{x: x, status: BiggsEXP6CGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BiggsEXP6(&x)
-	out.f, out.evaluations = fx, 1
-	if !biggsEXP6CGAnalyticFinite(fx) || !biggsEXP6CGAnalyticFiniteVec(&x) {
-		out.status = BiggsEXP6CGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := biggsEXP6CGAnalyticDifferences{bounds: bounds}
-	calls, ok := biggsEXP6CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+biggsEXP6CGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += biggsEXP6CGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !biggsEXP6CGAnalyticFiniteVec(&g) {
-		out.status = BiggsEXP6CGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir biggsEXP6CGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(biggsEXP6CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from biggsEXP6CGAnalyticConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := biggsEXP6CGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != biggsEXP6CGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see biggsEXP6CGAnalyticConfirmGradient and settle).
-			calls, ok := biggsEXP6CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6CGAnalyticFiniteVec(&g) {
-				return best.ending(BiggsEXP6CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = biggsEXP6CGAnalyticVerifyNothing, true
-		case !confirmed:
-			biggsEXP6CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := biggsEXP6CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, biggsEXP6CGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * biggsEXP6CGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (biggsEXP6CGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BiggsEXP6CGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = biggsEXP6CGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if biggsEXP6CGAnalyticDerivativeCost == 0 {
-				return best.ending(BiggsEXP6CGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if biggsEXP6CGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = biggsEXP6CGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BiggsEXP6CGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			biggsEXP6CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BiggsEXP6CGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		biggsEXP6CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := biggsEXP6CGAnalyticDot(&g, &d)
-		if !(now < 0) || !biggsEXP6CGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			biggsEXP6CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = biggsEXP6CGAnalyticDot(&g, &d)
-		}
-		first := float64(biggsEXP6CGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := biggsEXP6CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case biggsEXP6CGAnalyticSearchOutOfBudget:
-			return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case biggsEXP6CGAnalyticSearchDiverged:
-			return best.ending(BiggsEXP6CGAnalyticDiverged, out.iterations, out.evaluations)
-		case biggsEXP6CGAnalyticSearchExhausted, biggsEXP6CGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see biggsEXP6CGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BiggsEXP6CGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BiggsEXP6CGAnalyticNoDecrease
-			case found.end == biggsEXP6CGAnalyticSearchTiny && canSettle:
-				verify, stalled = biggsEXP6CGAnalyticVerifyStall, true
-				continue
-			case found.end == biggsEXP6CGAnalyticSearchTiny:
-				end = BiggsEXP6CGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !biggsEXP6CGAnalyticFiniteVec(&xt) {
-			return best.ending(BiggsEXP6CGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+biggsEXP6CGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += biggsEXP6CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		biggsEXP6CGAnalyticDifference(&s, &xt, &x)
-		biggsEXP6CGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !biggsEXP6CGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BiggsEXP6CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r biggsEXP6CGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(biggsEXP6CGAnalyticUnlimited)
 }
 
 // biggsEXP6CGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o biggsEXP6CGAnalyticOutcome) ending(end BiggsEXP6CGAnalyticStatus, iterat
 	return o
 }
 
-// biggsEXP6CGAnalyticEnterBox: without bounds every start is inside.
-func biggsEXP6CGAnalyticEnterBox(x *[6]float64, b *biggsEXP6CGAnalyticBox) {}
-
-// biggsEXP6CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func biggsEXP6CGAnalyticFinite(v float64) bool {
-	return v >= -biggsEXP6CGAnalyticLargestFinite && v <= biggsEXP6CGAnalyticLargestFinite
+// biggsEXP6CGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type biggsEXP6CGAnalyticDescent struct {
+	lim       BiggsEXP6CGAnalyticLimits
+	stage     int                            // what advance does next
+	diffs     biggsEXP6CGAnalyticDifferences // the box and the difference intervals
+	dir       biggsEXP6CGAnalyticDirection   // the direction's memory
+	x, g, e   [6]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best biggsEXP6CGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from biggsEXP6CGAnalyticConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
 }
 
-// biggsEXP6CGAnalyticFiniteVec reports whether every component of x is finite.
-func biggsEXP6CGAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6CGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *biggsEXP6CGAnalyticDescent) prepare(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits, bounds biggsEXP6CGAnalyticBox) {
+	r.lim, r.stage = lim, biggsEXP6CGAnalyticStageBegin
+	r.diffs = biggsEXP6CGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	biggsEXP6CGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = biggsEXP6CGAnalyticOutcome{x: r.x, f: math.NaN(), status: BiggsEXP6CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *biggsEXP6CGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BiggsEXP6CGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, biggsEXP6CGAnalyticSettleCalls and biggsEXP6CGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *biggsEXP6CGAnalyticDescent) advance(budget int) biggsEXP6CGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != biggsEXP6CGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case biggsEXP6CGAnalyticStageBegin:
+			if left < 1+biggsEXP6CGAnalyticCalibrationCost+biggsEXP6CGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case biggsEXP6CGAnalyticStageJudge:
+			if r.verify != biggsEXP6CGAnalyticVerifyNothing && left < biggsEXP6CGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < biggsEXP6CGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *biggsEXP6CGAnalyticDescent) paused() biggsEXP6CGAnalyticOutcome {
+	return r.best.ending(BiggsEXP6CGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *biggsEXP6CGAnalyticDescent) finish(end BiggsEXP6CGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = biggsEXP6CGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *biggsEXP6CGAnalyticDescent) begin() {
+	r.stage = biggsEXP6CGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !biggsEXP6CGAnalyticFinite(r.fx) || !biggsEXP6CGAnalyticFiniteVec(&r.x) {
+		r.out.status = BiggsEXP6CGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := biggsEXP6CGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+biggsEXP6CGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += biggsEXP6CGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !biggsEXP6CGAnalyticFiniteVec(&r.g) {
+		r.out.status = BiggsEXP6CGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = biggsEXP6CGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, biggsEXP6CGAnalyticVerifyNothing
+	r.stage = biggsEXP6CGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves biggsEXP6CGAnalyticStageSearch next when the run goes on.
+func (r *biggsEXP6CGAnalyticDescent) judge() {
+	switch {
+	case r.verify != biggsEXP6CGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see biggsEXP6CGAnalyticConfirmGradient and settle).
+		calls, ok := biggsEXP6CGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == biggsEXP6CGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BiggsEXP6CGAnalyticOutOfEvaluations)
+			return
+		}
+		if !biggsEXP6CGAnalyticFiniteVec(&r.g) {
+			r.finish(BiggsEXP6CGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = biggsEXP6CGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		biggsEXP6CGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := biggsEXP6CGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, biggsEXP6CGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * biggsEXP6CGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (biggsEXP6CGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BiggsEXP6CGAnalyticGradientSmall
+		r.stage = biggsEXP6CGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = biggsEXP6CGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if biggsEXP6CGAnalyticDerivativeCost == 0 {
+			r.finish(BiggsEXP6CGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if biggsEXP6CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = biggsEXP6CGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BiggsEXP6CGAnalyticDiverged)
+			return
+		}
+		biggsEXP6CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BiggsEXP6CGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = biggsEXP6CGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves biggsEXP6CGAnalyticStageJudge next when the run
+// goes on.
+func (r *biggsEXP6CGAnalyticDescent) search() {
+	biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := biggsEXP6CGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !biggsEXP6CGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = biggsEXP6CGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(biggsEXP6CGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := biggsEXP6CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := biggsEXP6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case biggsEXP6CGAnalyticSearchOutOfBudget:
+		r.finish(BiggsEXP6CGAnalyticOutOfEvaluations)
+		return
+	case biggsEXP6CGAnalyticSearchDiverged:
+		r.finish(BiggsEXP6CGAnalyticDiverged)
+		return
+	case biggsEXP6CGAnalyticSearchExhausted, biggsEXP6CGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see biggsEXP6CGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BiggsEXP6CGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BiggsEXP6CGAnalyticNoDecrease
+		case found.end == biggsEXP6CGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = biggsEXP6CGAnalyticVerifyStall, true, biggsEXP6CGAnalyticStageJudge
+			return
+		case found.end == biggsEXP6CGAnalyticSearchTiny:
+			end = BiggsEXP6CGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !biggsEXP6CGAnalyticFiniteVec(&xt) {
+		r.finish(BiggsEXP6CGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+biggsEXP6CGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BiggsEXP6CGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += biggsEXP6CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	biggsEXP6CGAnalyticDifference(&r.s, &xt, &r.x)
+	biggsEXP6CGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !biggsEXP6CGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BiggsEXP6CGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = biggsEXP6CGAnalyticStageJudge
 }
 
 // biggsEXP6CGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type biggsEXP6CGAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6CGAnalyticRoundingFloor)
 	bounds    biggsEXP6CGAnalyticBox
-}
-
-// biggsEXP6CGAnalyticCalibrate: an analytic gradient needs no intervals.
-func biggsEXP6CGAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6CGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// biggsEXP6CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func biggsEXP6CGAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) int {
-	BiggsEXP6Grad(x, g)
-	return 0
 }
 
 // biggsEXP6CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func biggsEXP6CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// biggsEXP6CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func biggsEXP6CGAnalyticFinite(v float64) bool {
+	return v >= -biggsEXP6CGAnalyticLargestFinite && v <= biggsEXP6CGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	biggsEXP6CGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	biggsEXP6CGAnalyticStageJudge         // settle when asked (biggsEXP6CGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	biggsEXP6CGAnalyticStageSearch        // the line search and the gradient at the accepted point: biggsEXP6CGAnalyticIterationCalls
+	biggsEXP6CGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// biggsEXP6CGAnalyticEnterBox: without bounds every start is inside.
+func biggsEXP6CGAnalyticEnterBox(x *[6]float64, b *biggsEXP6CGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	biggsEXP6CGAnalyticVerifyNothing = iota
 	biggsEXP6CGAnalyticVerifyPass    // a difference gradient passed the test
 	biggsEXP6CGAnalyticVerifyStall   // no step makes progress
 )
+
+// biggsEXP6CGAnalyticFiniteVec reports whether every component of x is finite.
+func biggsEXP6CGAnalyticFiniteVec(x *[6]float64) bool {
+	for i := range x {
+		if !biggsEXP6CGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// biggsEXP6CGAnalyticCalibrate: an analytic gradient needs no intervals.
+func biggsEXP6CGAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6CGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// biggsEXP6CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func biggsEXP6CGAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) int {
+	BiggsEXP6Grad(x, g)
+	return 0
+}
 
 // biggsEXP6CGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (biggsEXP6CGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func biggsEXP6CGAnalyticDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// biggsEXP6CGAnalyticUnlimited is a tick budget that never pauses a run.
+const biggsEXP6CGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -26,6 +26,8 @@ const (
 	BiggsEXP6CGCentralNoDecrease
 	// BiggsEXP6CGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BiggsEXP6CGCentralDiverged
+	// BiggsEXP6CGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BiggsEXP6CGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BiggsEXP6CGCentralStatus) String() string {
 		return "no decrease"
 	case BiggsEXP6CGCentralDiverged:
 		return "diverged"
+	case BiggsEXP6CGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BiggsEXP6CGCentralWithLimits(x0 [6]float64, limits BiggsEXP6CGCentralLimits
 	}
 }
 
+// BiggsEXP6CGCentralTickMinimum is the smallest call budget with which every BiggsEXP6CGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 37 calls, an iteration 624, confirming a difference gradient 48).
+const BiggsEXP6CGCentralTickMinimum = 624
+
+// BiggsEXP6CGCentralSolver is a run of BiggsEXP6CGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BiggsEXP6CGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 37 calls, an iteration 624, confirming a difference gradient 48. A budget of at least BiggsEXP6CGCentralTickMinimum = 624 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BiggsEXP6CGCentralRunning ends exactly as BiggsEXP6CGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BiggsEXP6CGCentral and BiggsEXP6CGCentralWithLimits use at most 3568 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is BiggsEXP6CGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BiggsEXP6CGCentralSolver struct {
+	run       biggsEXP6CGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BiggsEXP6CGCentralLimits  // the limits of the runs; BiggsEXP6CGCentralDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BiggsEXP6CGCentralSolver) SetLimits(limits BiggsEXP6CGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BiggsEXP6CGCentralSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *BiggsEXP6CGCentralSolver) StartFrom(from BiggsEXP6CGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *BiggsEXP6CGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BiggsEXP6CGCentralSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = BiggsEXP6CGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, biggsEXP6CGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BiggsEXP6CGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BiggsEXP6CGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *BiggsEXP6CGCentralSolver) Advance(budget int) BiggsEXP6CGCentralResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BiggsEXP6CGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BiggsEXP6CGCentral from mgh.toml; the kernels below read them.
 const (
-	biggsEXP6CGCentralStepInitial    = 1.0                    // step.initial
-	biggsEXP6CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	biggsEXP6CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	biggsEXP6CGCentralStepTrials     = 48                     // step.trials
-	biggsEXP6CGCentralDerivativeCost = 12                     // objective calls per gradient
-	biggsEXP6CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	biggsEXP6CGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	biggsEXP6CGCentralStepInitial     = 1.0                    // step.initial
+	biggsEXP6CGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	biggsEXP6CGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	biggsEXP6CGCentralStepTrials      = 48                     // step.trials
+	biggsEXP6CGCentralDerivativeCost  = 12                     // objective calls per gradient
+	biggsEXP6CGCentralCalibrationCost = 24                     // objective calls of choosing the difference intervals
+	biggsEXP6CGCentralIterationCalls  = 624                    // most objective calls of one line search with the gradient at its step
+	biggsEXP6CGCentralSettleCalls     = 48                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	biggsEXP6CGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	biggsEXP6CGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // biggsEXP6CGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits, bounds biggsEXP6CGCentralBox) biggsEXP6CGCentralOutcome {
-	x := x0
-	biggsEXP6CGCentralEnterBox(&x, &bounds)
-	out := biggsEXP6CGCentralOutcome{x: x, status: BiggsEXP6CGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BiggsEXP6(&x)
-	out.f, out.evaluations = fx, 1
-	if !biggsEXP6CGCentralFinite(fx) || !biggsEXP6CGCentralFiniteVec(&x) {
-		out.status = BiggsEXP6CGCentralNonFiniteStart
-		return out
-	}
-	diffs := biggsEXP6CGCentralDifferences{bounds: bounds}
-	calls, ok := biggsEXP6CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+biggsEXP6CGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += biggsEXP6CGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !biggsEXP6CGCentralFiniteVec(&g) {
-		out.status = BiggsEXP6CGCentralNonFiniteGradient
-		return out
-	}
-	var dir biggsEXP6CGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(biggsEXP6CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from biggsEXP6CGCentralConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := biggsEXP6CGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != biggsEXP6CGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see biggsEXP6CGCentralConfirmGradient and settle).
-			calls, ok := biggsEXP6CGCentralSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6CGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6CGCentralFiniteVec(&g) {
-				return best.ending(BiggsEXP6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = biggsEXP6CGCentralVerifyNothing, true
-		case !confirmed:
-			biggsEXP6CGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := biggsEXP6CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, biggsEXP6CGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * biggsEXP6CGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (biggsEXP6CGCentralDerivativeCost == 0 || confirmed) {
-			out.status = BiggsEXP6CGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = biggsEXP6CGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if biggsEXP6CGCentralDerivativeCost == 0 {
-				return best.ending(BiggsEXP6CGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if biggsEXP6CGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = biggsEXP6CGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BiggsEXP6CGCentralDiverged, out.iterations, out.evaluations)
-			}
-			biggsEXP6CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BiggsEXP6CGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		biggsEXP6CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := biggsEXP6CGCentralDot(&g, &d)
-		if !(now < 0) || !biggsEXP6CGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			biggsEXP6CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = biggsEXP6CGCentralDot(&g, &d)
-		}
-		first := float64(biggsEXP6CGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := biggsEXP6CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case biggsEXP6CGCentralSearchOutOfBudget:
-			return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case biggsEXP6CGCentralSearchDiverged:
-			return best.ending(BiggsEXP6CGCentralDiverged, out.iterations, out.evaluations)
-		case biggsEXP6CGCentralSearchExhausted, biggsEXP6CGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see biggsEXP6CGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BiggsEXP6CGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BiggsEXP6CGCentralNoDecrease
-			case found.end == biggsEXP6CGCentralSearchTiny && canSettle:
-				verify, stalled = biggsEXP6CGCentralVerifyStall, true
-				continue
-			case found.end == biggsEXP6CGCentralSearchTiny:
-				end = BiggsEXP6CGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !biggsEXP6CGCentralFiniteVec(&xt) {
-			return best.ending(BiggsEXP6CGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+biggsEXP6CGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += biggsEXP6CGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		biggsEXP6CGCentralDifference(&s, &xt, &x)
-		biggsEXP6CGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !biggsEXP6CGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BiggsEXP6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r biggsEXP6CGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(biggsEXP6CGCentralUnlimited)
 }
 
 // biggsEXP6CGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o biggsEXP6CGCentralOutcome) ending(end BiggsEXP6CGCentralStatus, iteratio
 	return o
 }
 
-// biggsEXP6CGCentralEnterBox: without bounds every start is inside.
-func biggsEXP6CGCentralEnterBox(x *[6]float64, b *biggsEXP6CGCentralBox) {}
-
-// biggsEXP6CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func biggsEXP6CGCentralFinite(v float64) bool {
-	return v >= -biggsEXP6CGCentralLargestFinite && v <= biggsEXP6CGCentralLargestFinite
+// biggsEXP6CGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type biggsEXP6CGCentralDescent struct {
+	lim       BiggsEXP6CGCentralLimits
+	stage     int                           // what advance does next
+	diffs     biggsEXP6CGCentralDifferences // the box and the difference intervals
+	dir       biggsEXP6CGCentralDirection   // the direction's memory
+	x, g, e   [6]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best biggsEXP6CGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from biggsEXP6CGCentralConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// biggsEXP6CGCentralFiniteVec reports whether every component of x is finite.
-func biggsEXP6CGCentralFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6CGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *biggsEXP6CGCentralDescent) prepare(x0 [6]float64, lim BiggsEXP6CGCentralLimits, bounds biggsEXP6CGCentralBox) {
+	r.lim, r.stage = lim, biggsEXP6CGCentralStageBegin
+	r.diffs = biggsEXP6CGCentralDifferences{bounds: bounds}
+	r.x = x0
+	biggsEXP6CGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = biggsEXP6CGCentralOutcome{x: r.x, f: math.NaN(), status: BiggsEXP6CGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *biggsEXP6CGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BiggsEXP6CGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, biggsEXP6CGCentralSettleCalls and biggsEXP6CGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *biggsEXP6CGCentralDescent) advance(budget int) biggsEXP6CGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != biggsEXP6CGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case biggsEXP6CGCentralStageBegin:
+			if left < 1+biggsEXP6CGCentralCalibrationCost+biggsEXP6CGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case biggsEXP6CGCentralStageJudge:
+			if r.verify != biggsEXP6CGCentralVerifyNothing && left < biggsEXP6CGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < biggsEXP6CGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *biggsEXP6CGCentralDescent) paused() biggsEXP6CGCentralOutcome {
+	return r.best.ending(BiggsEXP6CGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *biggsEXP6CGCentralDescent) finish(end BiggsEXP6CGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = biggsEXP6CGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *biggsEXP6CGCentralDescent) begin() {
+	r.stage = biggsEXP6CGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !biggsEXP6CGCentralFinite(r.fx) || !biggsEXP6CGCentralFiniteVec(&r.x) {
+		r.out.status = BiggsEXP6CGCentralNonFiniteStart
+		return
+	}
+	calls, ok := biggsEXP6CGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+biggsEXP6CGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += biggsEXP6CGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !biggsEXP6CGCentralFiniteVec(&r.g) {
+		r.out.status = BiggsEXP6CGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = biggsEXP6CGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, biggsEXP6CGCentralVerifyNothing
+	r.stage = biggsEXP6CGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves biggsEXP6CGCentralStageSearch next when the run goes on.
+func (r *biggsEXP6CGCentralDescent) judge() {
+	switch {
+	case r.verify != biggsEXP6CGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see biggsEXP6CGCentralConfirmGradient and settle).
+		calls, ok := biggsEXP6CGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == biggsEXP6CGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BiggsEXP6CGCentralOutOfEvaluations)
+			return
+		}
+		if !biggsEXP6CGCentralFiniteVec(&r.g) {
+			r.finish(BiggsEXP6CGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = biggsEXP6CGCentralVerifyNothing, true
+	case !r.confirmed:
+		biggsEXP6CGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := biggsEXP6CGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, biggsEXP6CGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * biggsEXP6CGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (biggsEXP6CGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BiggsEXP6CGCentralGradientSmall
+		r.stage = biggsEXP6CGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = biggsEXP6CGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if biggsEXP6CGCentralDerivativeCost == 0 {
+			r.finish(BiggsEXP6CGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if biggsEXP6CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = biggsEXP6CGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BiggsEXP6CGCentralDiverged)
+			return
+		}
+		biggsEXP6CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BiggsEXP6CGCentralOutOfIterations)
+		return
+	}
+	r.stage = biggsEXP6CGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves biggsEXP6CGCentralStageJudge next when the run
+// goes on.
+func (r *biggsEXP6CGCentralDescent) search() {
+	biggsEXP6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := biggsEXP6CGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !biggsEXP6CGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		biggsEXP6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = biggsEXP6CGCentralDot(&r.g, &r.d)
+	}
+	first := float64(biggsEXP6CGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := biggsEXP6CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := biggsEXP6CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case biggsEXP6CGCentralSearchOutOfBudget:
+		r.finish(BiggsEXP6CGCentralOutOfEvaluations)
+		return
+	case biggsEXP6CGCentralSearchDiverged:
+		r.finish(BiggsEXP6CGCentralDiverged)
+		return
+	case biggsEXP6CGCentralSearchExhausted, biggsEXP6CGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see biggsEXP6CGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BiggsEXP6CGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BiggsEXP6CGCentralNoDecrease
+		case found.end == biggsEXP6CGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = biggsEXP6CGCentralVerifyStall, true, biggsEXP6CGCentralStageJudge
+			return
+		case found.end == biggsEXP6CGCentralSearchTiny:
+			end = BiggsEXP6CGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !biggsEXP6CGCentralFiniteVec(&xt) {
+		r.finish(BiggsEXP6CGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+biggsEXP6CGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BiggsEXP6CGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += biggsEXP6CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	biggsEXP6CGCentralDifference(&r.s, &xt, &r.x)
+	biggsEXP6CGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !biggsEXP6CGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BiggsEXP6CGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = biggsEXP6CGCentralStageJudge
 }
 
 // biggsEXP6CGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type biggsEXP6CGCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6CGCentralRoundingFloor)
 	bounds    biggsEXP6CGCentralBox
+}
+
+// biggsEXP6CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type biggsEXP6CGCentralDirection struct {
+	previous [6]float64 // d₋₁
+	change   [6]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *biggsEXP6CGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *biggsEXP6CGCentralDirection) compute(g, d *[6]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 6 && s.squared > 0 {
+		beta = biggsEXP6CGCentralLarger(biggsEXP6CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = biggsEXP6CGCentralDot(g, g)
+}
+
+func (s *biggsEXP6CGCentralDirection) update(step, change *[6]float64) {
+	s.change = *change
+}
+
+func (s *biggsEXP6CGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return biggsEXP6CGCentralScaledTrial(t, slope, now)
+}
+
+// biggsEXP6CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func biggsEXP6CGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// biggsEXP6CGCentralDot returns aᵀb.
+func biggsEXP6CGCentralDot(a, b *[6]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// biggsEXP6CGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to biggsEXP6CGCentralStepInitial.
+func biggsEXP6CGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !biggsEXP6CGCentralFinite(next) {
+		return biggsEXP6CGCentralStepInitial
+	}
+	return next
+}
+
+// biggsEXP6CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func biggsEXP6CGCentralFinite(v float64) bool {
+	return v >= -biggsEXP6CGCentralLargestFinite && v <= biggsEXP6CGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	biggsEXP6CGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	biggsEXP6CGCentralStageJudge         // settle when asked (biggsEXP6CGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	biggsEXP6CGCentralStageSearch        // the line search and the gradient at the accepted point: biggsEXP6CGCentralIterationCalls
+	biggsEXP6CGCentralStageOver          // the run has ended; out is its result
+)
+
+// biggsEXP6CGCentralEnterBox: without bounds every start is inside.
+func biggsEXP6CGCentralEnterBox(x *[6]float64, b *biggsEXP6CGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6CGCentralVerifyNothing = iota
+	biggsEXP6CGCentralVerifyPass    // a difference gradient passed the test
+	biggsEXP6CGCentralVerifyStall   // no step makes progress
+)
+
+// biggsEXP6CGCentralFiniteVec reports whether every component of x is finite.
+func biggsEXP6CGCentralFiniteVec(x *[6]float64) bool {
+	for i := range x {
+		if !biggsEXP6CGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6CGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func biggsEXP6CGCentralAbs(v float64) float64 {
 // biggsEXP6CGCentralSquareRoot returns √v.
 func biggsEXP6CGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// biggsEXP6CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func biggsEXP6CGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // biggsEXP6CGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func biggsEXP6CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// biggsEXP6CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type biggsEXP6CGCentralDirection struct {
-	previous [6]float64 // d₋₁
-	change   [6]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *biggsEXP6CGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *biggsEXP6CGCentralDirection) compute(g, d *[6]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 6 && s.squared > 0 {
-		beta = biggsEXP6CGCentralLarger(biggsEXP6CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = biggsEXP6CGCentralDot(g, g)
-}
-
-func (s *biggsEXP6CGCentralDirection) update(step, change *[6]float64) {
-	s.change = *change
-}
-
-func (s *biggsEXP6CGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return biggsEXP6CGCentralScaledTrial(t, slope, now)
-}
-
-// biggsEXP6CGCentralDot returns aᵀb.
-func biggsEXP6CGCentralDot(a, b *[6]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// biggsEXP6CGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to biggsEXP6CGCentralStepInitial.
-func biggsEXP6CGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !biggsEXP6CGCentralFinite(next) {
-		return biggsEXP6CGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	biggsEXP6CGCentralVerifyNothing = iota
-	biggsEXP6CGCentralVerifyPass    // a difference gradient passed the test
-	biggsEXP6CGCentralVerifyStall   // no step makes progress
-)
 
 // biggsEXP6CGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (biggsEXP6CGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func biggsEXP6CGCentralDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// biggsEXP6CGCentralUnlimited is a tick budget that never pauses a run.
+const biggsEXP6CGCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestBiggsEXP6CGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBiggsEXP6CGCentralSolverTicks advances a BiggsEXP6CGCentralSolver from the spec's start with budgets of BiggsEXP6CGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BiggsEXP6CGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBiggsEXP6CGCentralSolverTicks(t *testing.T) {
+	want := BiggsEXP6CGCentral(biggsEXP6CGCentralTestStart())
+	for _, budget := range []int{BiggsEXP6CGCentralTickMinimum, BiggsEXP6CGCentralTickMinimum + 1, 2 * BiggsEXP6CGCentralTickMinimum, 7 * BiggsEXP6CGCentralTickMinimum} {
+		var s BiggsEXP6CGCentralSolver
+		s.Start(biggsEXP6CGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BiggsEXP6CGCentralRunning {
+				if !biggsEXP6CGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BiggsEXP6CGCentralSolver
+	s.Start(biggsEXP6CGCentralTestStart())
+	if r := s.Advance(0); r.Status != BiggsEXP6CGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBiggsEXP6CGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBiggsEXP6CGCentralSolverAllocatesNothing(t *testing.T) {
+	var s BiggsEXP6CGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(biggsEXP6CGCentralTestStart())
+		for s.Advance(BiggsEXP6CGCentralTickMinimum).Status == BiggsEXP6CGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// biggsEXP6CGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func biggsEXP6CGCentralTestSameResult(a, b BiggsEXP6CGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBiggsEXP6CGCentral measures one whole run from the spec's start.
 func BenchmarkBiggsEXP6CGCentral(b *testing.B) {
 	var r BiggsEXP6CGCentralResult

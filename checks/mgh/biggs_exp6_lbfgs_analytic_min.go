@@ -26,6 +26,8 @@ const (
 	BiggsEXP6LBFGSAnalyticNoDecrease
 	// BiggsEXP6LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BiggsEXP6LBFGSAnalyticDiverged
+	// BiggsEXP6LBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BiggsEXP6LBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BiggsEXP6LBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BiggsEXP6LBFGSAnalyticDiverged:
 		return "diverged"
+	case BiggsEXP6LBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func BiggsEXP6LBFGSAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6LBFGSAnalyt
 	}
 }
 
+// BiggsEXP6LBFGSAnalyticTickMinimum is the smallest call budget with which every BiggsEXP6LBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BiggsEXP6LBFGSAnalyticTickMinimum = 48
+
+// BiggsEXP6LBFGSAnalyticSolver is a run of BiggsEXP6LBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BiggsEXP6LBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BiggsEXP6LBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BiggsEXP6LBFGSAnalyticRunning ends exactly as BiggsEXP6LBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BiggsEXP6LBFGSAnalytic and BiggsEXP6LBFGSAnalyticWithLimits use at most 3992 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is BiggsEXP6LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BiggsEXP6LBFGSAnalyticSolver struct {
+	run       biggsEXP6LBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BiggsEXP6LBFGSAnalyticLimits  // the limits of the runs; BiggsEXP6LBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BiggsEXP6LBFGSAnalyticSolver) SetLimits(limits BiggsEXP6LBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BiggsEXP6LBFGSAnalyticSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BiggsEXP6LBFGSAnalyticSolver) StartFrom(from BiggsEXP6LBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *BiggsEXP6LBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BiggsEXP6LBFGSAnalyticSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = BiggsEXP6LBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, biggsEXP6LBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BiggsEXP6LBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BiggsEXP6LBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BiggsEXP6LBFGSAnalyticSolver) Advance(budget int) BiggsEXP6LBFGSAnalyticResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BiggsEXP6LBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BiggsEXP6LBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	biggsEXP6LBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	biggsEXP6LBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	biggsEXP6LBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	biggsEXP6LBFGSAnalyticLbfgsMemory    = 5                      // memory
-	biggsEXP6LBFGSAnalyticStepTrials     = 48                     // step.trials
-	biggsEXP6LBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	biggsEXP6LBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	biggsEXP6LBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	biggsEXP6LBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	biggsEXP6LBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	biggsEXP6LBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	biggsEXP6LBFGSAnalyticLbfgsMemory     = 5                      // memory
+	biggsEXP6LBFGSAnalyticStepTrials      = 48                     // step.trials
+	biggsEXP6LBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	biggsEXP6LBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	biggsEXP6LBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	biggsEXP6LBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	biggsEXP6LBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	biggsEXP6LBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // biggsEXP6LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLimits, bounds biggsEXP6LBFGSAnalyticBox) biggsEXP6LBFGSAnalyticOutcome {
-	x := x0
-	biggsEXP6LBFGSAnalyticEnterBox(&x, &bounds)
-	out := biggsEXP6LBFGSAnalyticOutcome{x: x, status: BiggsEXP6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BiggsEXP6(&x)
-	out.f, out.evaluations = fx, 1
-	if !biggsEXP6LBFGSAnalyticFinite(fx) || !biggsEXP6LBFGSAnalyticFiniteVec(&x) {
-		out.status = BiggsEXP6LBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := biggsEXP6LBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := biggsEXP6LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+biggsEXP6LBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
-		out.status = BiggsEXP6LBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir biggsEXP6LBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(biggsEXP6LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from biggsEXP6LBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := biggsEXP6LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != biggsEXP6LBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see biggsEXP6LBFGSAnalyticConfirmGradient and settle).
-			calls, ok := biggsEXP6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BiggsEXP6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = biggsEXP6LBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			biggsEXP6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := biggsEXP6LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, biggsEXP6LBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * biggsEXP6LBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (biggsEXP6LBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BiggsEXP6LBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = biggsEXP6LBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if biggsEXP6LBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BiggsEXP6LBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if biggsEXP6LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = biggsEXP6LBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BiggsEXP6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			biggsEXP6LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BiggsEXP6LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		biggsEXP6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := biggsEXP6LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !biggsEXP6LBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			biggsEXP6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = biggsEXP6LBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(biggsEXP6LBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := biggsEXP6LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case biggsEXP6LBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case biggsEXP6LBFGSAnalyticSearchDiverged:
-			return best.ending(BiggsEXP6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case biggsEXP6LBFGSAnalyticSearchExhausted, biggsEXP6LBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see biggsEXP6LBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BiggsEXP6LBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BiggsEXP6LBFGSAnalyticNoDecrease
-			case found.end == biggsEXP6LBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = biggsEXP6LBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == biggsEXP6LBFGSAnalyticSearchTiny:
-				end = BiggsEXP6LBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !biggsEXP6LBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BiggsEXP6LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+biggsEXP6LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		biggsEXP6LBFGSAnalyticDifference(&s, &xt, &x)
-		biggsEXP6LBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BiggsEXP6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r biggsEXP6LBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(biggsEXP6LBFGSAnalyticUnlimited)
 }
 
 // biggsEXP6LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o biggsEXP6LBFGSAnalyticOutcome) ending(end BiggsEXP6LBFGSAnalyticStatus, 
 	return o
 }
 
-// biggsEXP6LBFGSAnalyticEnterBox: without bounds every start is inside.
-func biggsEXP6LBFGSAnalyticEnterBox(x *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {}
-
-// biggsEXP6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func biggsEXP6LBFGSAnalyticFinite(v float64) bool {
-	return v >= -biggsEXP6LBFGSAnalyticLargestFinite && v <= biggsEXP6LBFGSAnalyticLargestFinite
+// biggsEXP6LBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type biggsEXP6LBFGSAnalyticDescent struct {
+	lim       BiggsEXP6LBFGSAnalyticLimits
+	stage     int                               // what advance does next
+	diffs     biggsEXP6LBFGSAnalyticDifferences // the box and the difference intervals
+	dir       biggsEXP6LBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [6]float64                        // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                        // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best biggsEXP6LBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from biggsEXP6LBFGSAnalyticConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
 }
 
-// biggsEXP6LBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func biggsEXP6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6LBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *biggsEXP6LBFGSAnalyticDescent) prepare(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLimits, bounds biggsEXP6LBFGSAnalyticBox) {
+	r.lim, r.stage = lim, biggsEXP6LBFGSAnalyticStageBegin
+	r.diffs = biggsEXP6LBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	biggsEXP6LBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = biggsEXP6LBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BiggsEXP6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *biggsEXP6LBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BiggsEXP6LBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, biggsEXP6LBFGSAnalyticSettleCalls and biggsEXP6LBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *biggsEXP6LBFGSAnalyticDescent) advance(budget int) biggsEXP6LBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != biggsEXP6LBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case biggsEXP6LBFGSAnalyticStageBegin:
+			if left < 1+biggsEXP6LBFGSAnalyticCalibrationCost+biggsEXP6LBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case biggsEXP6LBFGSAnalyticStageJudge:
+			if r.verify != biggsEXP6LBFGSAnalyticVerifyNothing && left < biggsEXP6LBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < biggsEXP6LBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *biggsEXP6LBFGSAnalyticDescent) paused() biggsEXP6LBFGSAnalyticOutcome {
+	return r.best.ending(BiggsEXP6LBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *biggsEXP6LBFGSAnalyticDescent) finish(end BiggsEXP6LBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = biggsEXP6LBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *biggsEXP6LBFGSAnalyticDescent) begin() {
+	r.stage = biggsEXP6LBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !biggsEXP6LBFGSAnalyticFinite(r.fx) || !biggsEXP6LBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BiggsEXP6LBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := biggsEXP6LBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+biggsEXP6LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !biggsEXP6LBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BiggsEXP6LBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = biggsEXP6LBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, biggsEXP6LBFGSAnalyticVerifyNothing
+	r.stage = biggsEXP6LBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves biggsEXP6LBFGSAnalyticStageSearch next when the run goes on.
+func (r *biggsEXP6LBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != biggsEXP6LBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see biggsEXP6LBFGSAnalyticConfirmGradient and settle).
+		calls, ok := biggsEXP6LBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == biggsEXP6LBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BiggsEXP6LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !biggsEXP6LBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BiggsEXP6LBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = biggsEXP6LBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		biggsEXP6LBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := biggsEXP6LBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, biggsEXP6LBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * biggsEXP6LBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (biggsEXP6LBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BiggsEXP6LBFGSAnalyticGradientSmall
+		r.stage = biggsEXP6LBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = biggsEXP6LBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if biggsEXP6LBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BiggsEXP6LBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if biggsEXP6LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = biggsEXP6LBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BiggsEXP6LBFGSAnalyticDiverged)
+			return
+		}
+		biggsEXP6LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BiggsEXP6LBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = biggsEXP6LBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves biggsEXP6LBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *biggsEXP6LBFGSAnalyticDescent) search() {
+	biggsEXP6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := biggsEXP6LBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !biggsEXP6LBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		biggsEXP6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = biggsEXP6LBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(biggsEXP6LBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := biggsEXP6LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := biggsEXP6LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case biggsEXP6LBFGSAnalyticSearchOutOfBudget:
+		r.finish(BiggsEXP6LBFGSAnalyticOutOfEvaluations)
+		return
+	case biggsEXP6LBFGSAnalyticSearchDiverged:
+		r.finish(BiggsEXP6LBFGSAnalyticDiverged)
+		return
+	case biggsEXP6LBFGSAnalyticSearchExhausted, biggsEXP6LBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see biggsEXP6LBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BiggsEXP6LBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BiggsEXP6LBFGSAnalyticNoDecrease
+		case found.end == biggsEXP6LBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = biggsEXP6LBFGSAnalyticVerifyStall, true, biggsEXP6LBFGSAnalyticStageJudge
+			return
+		case found.end == biggsEXP6LBFGSAnalyticSearchTiny:
+			end = BiggsEXP6LBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !biggsEXP6LBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BiggsEXP6LBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+biggsEXP6LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BiggsEXP6LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	biggsEXP6LBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	biggsEXP6LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !biggsEXP6LBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BiggsEXP6LBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = biggsEXP6LBFGSAnalyticStageJudge
 }
 
 // biggsEXP6LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type biggsEXP6LBFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSAnalyticRoundingFloor)
 	bounds    biggsEXP6LBFGSAnalyticBox
-}
-
-// biggsEXP6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func biggsEXP6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6LBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// biggsEXP6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func biggsEXP6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) int {
-	BiggsEXP6Grad(x, g)
-	return 0
 }
 
 // biggsEXP6LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func biggsEXP6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6LBFGSAnalyticDot(s, s))*(sy/biggsEXP6LBFGSAnalyticDot(y, y)) > biggsEXP6LBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	biggsEXP6LBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	biggsEXP6LBFGSAnalyticStageJudge         // settle when asked (biggsEXP6LBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	biggsEXP6LBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: biggsEXP6LBFGSAnalyticIterationCalls
+	biggsEXP6LBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// biggsEXP6LBFGSAnalyticEnterBox: without bounds every start is inside.
+func biggsEXP6LBFGSAnalyticEnterBox(x *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	biggsEXP6LBFGSAnalyticVerifyNothing = iota
 	biggsEXP6LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	biggsEXP6LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// biggsEXP6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func biggsEXP6LBFGSAnalyticFinite(v float64) bool {
+	return v >= -biggsEXP6LBFGSAnalyticLargestFinite && v <= biggsEXP6LBFGSAnalyticLargestFinite
+}
+
+// biggsEXP6LBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func biggsEXP6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
+	for i := range x {
+		if !biggsEXP6LBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// biggsEXP6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func biggsEXP6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// biggsEXP6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func biggsEXP6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) int {
+	BiggsEXP6Grad(x, g)
+	return 0
+}
 
 // biggsEXP6LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (biggsEXP6LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func biggsEXP6LBFGSAnalyticDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// biggsEXP6LBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const biggsEXP6LBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestBiggsEXP6LBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBiggsEXP6LBFGSAnalyticSolverTicks advances a BiggsEXP6LBFGSAnalyticSolver from the spec's start with budgets of BiggsEXP6LBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BiggsEXP6LBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBiggsEXP6LBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BiggsEXP6LBFGSAnalytic(biggsEXP6LBFGSAnalyticTestStart())
+	for _, budget := range []int{BiggsEXP6LBFGSAnalyticTickMinimum, BiggsEXP6LBFGSAnalyticTickMinimum + 1, 2 * BiggsEXP6LBFGSAnalyticTickMinimum, 7 * BiggsEXP6LBFGSAnalyticTickMinimum} {
+		var s BiggsEXP6LBFGSAnalyticSolver
+		s.Start(biggsEXP6LBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BiggsEXP6LBFGSAnalyticRunning {
+				if !biggsEXP6LBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BiggsEXP6LBFGSAnalyticSolver
+	s.Start(biggsEXP6LBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BiggsEXP6LBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBiggsEXP6LBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBiggsEXP6LBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BiggsEXP6LBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(biggsEXP6LBFGSAnalyticTestStart())
+		for s.Advance(BiggsEXP6LBFGSAnalyticTickMinimum).Status == BiggsEXP6LBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// biggsEXP6LBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func biggsEXP6LBFGSAnalyticTestSameResult(a, b BiggsEXP6LBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBiggsEXP6LBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBiggsEXP6LBFGSAnalytic(b *testing.B) {
 	var r BiggsEXP6LBFGSAnalyticResult

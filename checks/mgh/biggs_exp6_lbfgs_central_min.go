@@ -26,6 +26,8 @@ const (
 	BiggsEXP6LBFGSCentralNoDecrease
 	// BiggsEXP6LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BiggsEXP6LBFGSCentralDiverged
+	// BiggsEXP6LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BiggsEXP6LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BiggsEXP6LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case BiggsEXP6LBFGSCentralDiverged:
 		return "diverged"
+	case BiggsEXP6LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func BiggsEXP6LBFGSCentralWithLimits(x0 [6]float64, limits BiggsEXP6LBFGSCentral
 	}
 }
 
+// BiggsEXP6LBFGSCentralTickMinimum is the smallest call budget with which every BiggsEXP6LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 37 calls, an iteration 624, confirming a difference gradient 48).
+const BiggsEXP6LBFGSCentralTickMinimum = 624
+
+// BiggsEXP6LBFGSCentralSolver is a run of BiggsEXP6LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BiggsEXP6LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 37 calls, an iteration 624, confirming a difference gradient 48. A budget of at least BiggsEXP6LBFGSCentralTickMinimum = 624 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BiggsEXP6LBFGSCentralRunning ends exactly as BiggsEXP6LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BiggsEXP6LBFGSCentral and BiggsEXP6LBFGSCentralWithLimits use at most 3992 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is BiggsEXP6LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BiggsEXP6LBFGSCentralSolver struct {
+	run       biggsEXP6LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BiggsEXP6LBFGSCentralLimits  // the limits of the runs; BiggsEXP6LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                         // whether SetLimits has set limits
+	started   bool                         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BiggsEXP6LBFGSCentralSolver) SetLimits(limits BiggsEXP6LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BiggsEXP6LBFGSCentralSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *BiggsEXP6LBFGSCentralSolver) StartFrom(from BiggsEXP6LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *BiggsEXP6LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BiggsEXP6LBFGSCentralSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = BiggsEXP6LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, biggsEXP6LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BiggsEXP6LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BiggsEXP6LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *BiggsEXP6LBFGSCentralSolver) Advance(budget int) BiggsEXP6LBFGSCentralResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BiggsEXP6LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BiggsEXP6LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	biggsEXP6LBFGSCentralStepInitial    = 1.0                    // step.initial
-	biggsEXP6LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	biggsEXP6LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	biggsEXP6LBFGSCentralLbfgsMemory    = 5                      // memory
-	biggsEXP6LBFGSCentralStepTrials     = 48                     // step.trials
-	biggsEXP6LBFGSCentralDerivativeCost = 12                     // objective calls per gradient
-	biggsEXP6LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	biggsEXP6LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	biggsEXP6LBFGSCentralStepInitial     = 1.0                    // step.initial
+	biggsEXP6LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	biggsEXP6LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	biggsEXP6LBFGSCentralLbfgsMemory     = 5                      // memory
+	biggsEXP6LBFGSCentralStepTrials      = 48                     // step.trials
+	biggsEXP6LBFGSCentralDerivativeCost  = 12                     // objective calls per gradient
+	biggsEXP6LBFGSCentralCalibrationCost = 24                     // objective calls of choosing the difference intervals
+	biggsEXP6LBFGSCentralIterationCalls  = 624                    // most objective calls of one line search with the gradient at its step
+	biggsEXP6LBFGSCentralSettleCalls     = 48                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	biggsEXP6LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	biggsEXP6LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // biggsEXP6LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimits, bounds biggsEXP6LBFGSCentralBox) biggsEXP6LBFGSCentralOutcome {
-	x := x0
-	biggsEXP6LBFGSCentralEnterBox(&x, &bounds)
-	out := biggsEXP6LBFGSCentralOutcome{x: x, status: BiggsEXP6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BiggsEXP6(&x)
-	out.f, out.evaluations = fx, 1
-	if !biggsEXP6LBFGSCentralFinite(fx) || !biggsEXP6LBFGSCentralFiniteVec(&x) {
-		out.status = BiggsEXP6LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := biggsEXP6LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := biggsEXP6LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+biggsEXP6LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += biggsEXP6LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !biggsEXP6LBFGSCentralFiniteVec(&g) {
-		out.status = BiggsEXP6LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir biggsEXP6LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(biggsEXP6LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from biggsEXP6LBFGSCentralConfirmGradient or settle
-	stalled := false                                                  // whether the run can make no more progress at x
-	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
-	verify := biggsEXP6LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != biggsEXP6LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see biggsEXP6LBFGSCentralConfirmGradient and settle).
-			calls, ok := biggsEXP6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6LBFGSCentralFiniteVec(&g) {
-				return best.ending(BiggsEXP6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = biggsEXP6LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			biggsEXP6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := biggsEXP6LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, biggsEXP6LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * biggsEXP6LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (biggsEXP6LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = BiggsEXP6LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = biggsEXP6LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if biggsEXP6LBFGSCentralDerivativeCost == 0 {
-				return best.ending(BiggsEXP6LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if biggsEXP6LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = biggsEXP6LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BiggsEXP6LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			biggsEXP6LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BiggsEXP6LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		biggsEXP6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := biggsEXP6LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !biggsEXP6LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			biggsEXP6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = biggsEXP6LBFGSCentralDot(&g, &d)
-		}
-		first := float64(biggsEXP6LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := biggsEXP6LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case biggsEXP6LBFGSCentralSearchOutOfBudget:
-			return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case biggsEXP6LBFGSCentralSearchDiverged:
-			return best.ending(BiggsEXP6LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case biggsEXP6LBFGSCentralSearchExhausted, biggsEXP6LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see biggsEXP6LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BiggsEXP6LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BiggsEXP6LBFGSCentralNoDecrease
-			case found.end == biggsEXP6LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = biggsEXP6LBFGSCentralVerifyStall, true
-				continue
-			case found.end == biggsEXP6LBFGSCentralSearchTiny:
-				end = BiggsEXP6LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !biggsEXP6LBFGSCentralFiniteVec(&xt) {
-			return best.ending(BiggsEXP6LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+biggsEXP6LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += biggsEXP6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		biggsEXP6LBFGSCentralDifference(&s, &xt, &x)
-		biggsEXP6LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !biggsEXP6LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BiggsEXP6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r biggsEXP6LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(biggsEXP6LBFGSCentralUnlimited)
 }
 
 // biggsEXP6LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o biggsEXP6LBFGSCentralOutcome) ending(end BiggsEXP6LBFGSCentralStatus, it
 	return o
 }
 
+// biggsEXP6LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type biggsEXP6LBFGSCentralDescent struct {
+	lim       BiggsEXP6LBFGSCentralLimits
+	stage     int                              // what advance does next
+	diffs     biggsEXP6LBFGSCentralDifferences // the box and the difference intervals
+	dir       biggsEXP6LBFGSCentralDirection   // the direction's memory
+	x, g, e   [6]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                       // the search direction, the last step and its gradient change
+	fx        float64                          // f(x)
+	t, slope  float64                          // the previous iteration's accepted step and slope
+	out, best biggsEXP6LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                          // f(x0)
+	rises     int                              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                             // whether g and e at x come from biggsEXP6LBFGSCentralConfirmGradient or settle
+	stalled   bool                             // whether the run can make no more progress at x
+	retried   int                              // the iteration whose stall was retried with recalibrated differences
+	verify    int                              // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *biggsEXP6LBFGSCentralDescent) prepare(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimits, bounds biggsEXP6LBFGSCentralBox) {
+	r.lim, r.stage = lim, biggsEXP6LBFGSCentralStageBegin
+	r.diffs = biggsEXP6LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	biggsEXP6LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = biggsEXP6LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: BiggsEXP6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *biggsEXP6LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BiggsEXP6LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, biggsEXP6LBFGSCentralSettleCalls and biggsEXP6LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *biggsEXP6LBFGSCentralDescent) advance(budget int) biggsEXP6LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != biggsEXP6LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case biggsEXP6LBFGSCentralStageBegin:
+			if left < 1+biggsEXP6LBFGSCentralCalibrationCost+biggsEXP6LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case biggsEXP6LBFGSCentralStageJudge:
+			if r.verify != biggsEXP6LBFGSCentralVerifyNothing && left < biggsEXP6LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < biggsEXP6LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *biggsEXP6LBFGSCentralDescent) paused() biggsEXP6LBFGSCentralOutcome {
+	return r.best.ending(BiggsEXP6LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *biggsEXP6LBFGSCentralDescent) finish(end BiggsEXP6LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = biggsEXP6LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *biggsEXP6LBFGSCentralDescent) begin() {
+	r.stage = biggsEXP6LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !biggsEXP6LBFGSCentralFinite(r.fx) || !biggsEXP6LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = BiggsEXP6LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := biggsEXP6LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+biggsEXP6LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += biggsEXP6LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !biggsEXP6LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = BiggsEXP6LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = biggsEXP6LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, biggsEXP6LBFGSCentralVerifyNothing
+	r.stage = biggsEXP6LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves biggsEXP6LBFGSCentralStageSearch next when the run goes on.
+func (r *biggsEXP6LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != biggsEXP6LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see biggsEXP6LBFGSCentralConfirmGradient and settle).
+		calls, ok := biggsEXP6LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == biggsEXP6LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BiggsEXP6LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !biggsEXP6LBFGSCentralFiniteVec(&r.g) {
+			r.finish(BiggsEXP6LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = biggsEXP6LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		biggsEXP6LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := biggsEXP6LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, biggsEXP6LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * biggsEXP6LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (biggsEXP6LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BiggsEXP6LBFGSCentralGradientSmall
+		r.stage = biggsEXP6LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = biggsEXP6LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if biggsEXP6LBFGSCentralDerivativeCost == 0 {
+			r.finish(BiggsEXP6LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if biggsEXP6LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = biggsEXP6LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BiggsEXP6LBFGSCentralDiverged)
+			return
+		}
+		biggsEXP6LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BiggsEXP6LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = biggsEXP6LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves biggsEXP6LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *biggsEXP6LBFGSCentralDescent) search() {
+	biggsEXP6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := biggsEXP6LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !biggsEXP6LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		biggsEXP6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = biggsEXP6LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(biggsEXP6LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := biggsEXP6LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := biggsEXP6LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case biggsEXP6LBFGSCentralSearchOutOfBudget:
+		r.finish(BiggsEXP6LBFGSCentralOutOfEvaluations)
+		return
+	case biggsEXP6LBFGSCentralSearchDiverged:
+		r.finish(BiggsEXP6LBFGSCentralDiverged)
+		return
+	case biggsEXP6LBFGSCentralSearchExhausted, biggsEXP6LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see biggsEXP6LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BiggsEXP6LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BiggsEXP6LBFGSCentralNoDecrease
+		case found.end == biggsEXP6LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = biggsEXP6LBFGSCentralVerifyStall, true, biggsEXP6LBFGSCentralStageJudge
+			return
+		case found.end == biggsEXP6LBFGSCentralSearchTiny:
+			end = BiggsEXP6LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !biggsEXP6LBFGSCentralFiniteVec(&xt) {
+		r.finish(BiggsEXP6LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+biggsEXP6LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BiggsEXP6LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += biggsEXP6LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	biggsEXP6LBFGSCentralDifference(&r.s, &xt, &r.x)
+	biggsEXP6LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !biggsEXP6LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BiggsEXP6LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = biggsEXP6LBFGSCentralStageJudge
+}
+
+// biggsEXP6LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type biggsEXP6LBFGSCentralDifferences struct {
+	ratio     [6]float64
+	curvature [6]float64
+	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSCentralRoundingFloor)
+	bounds    biggsEXP6LBFGSCentralBox
+}
+
+// biggsEXP6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last biggsEXP6LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, biggsEXP6LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type biggsEXP6LBFGSCentralDirection struct {
+	s, y   [biggsEXP6LBFGSCentralLbfgsMemory][6]float64
+	rho    [biggsEXP6LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most biggsEXP6LBFGSCentralLbfgsMemory
+}
+
+func (s *biggsEXP6LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *biggsEXP6LBFGSCentralDirection) compute(g, d *[6]float64) {
+	var alpha [biggsEXP6LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * biggsEXP6LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = biggsEXP6LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := biggsEXP6LBFGSCentralDot(&s.s[newest], &s.y[newest]) / biggsEXP6LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == biggsEXP6LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * biggsEXP6LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	biggsEXP6LBFGSCentralNegate(d, &q)
+}
+
+func (s *biggsEXP6LBFGSCentralDirection) update(step, change *[6]float64) {
+	if !biggsEXP6LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == biggsEXP6LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < biggsEXP6LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / biggsEXP6LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *biggsEXP6LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// biggsEXP6LBFGSCentralDot returns aᵀb.
+func biggsEXP6LBFGSCentralDot(a, b *[6]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// biggsEXP6LBFGSCentralNegate sets out = −x.
+func biggsEXP6LBFGSCentralNegate(out, x *[6]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// biggsEXP6LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func biggsEXP6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
+	sy := biggsEXP6LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/biggsEXP6LBFGSCentralDot(s, s))*(sy/biggsEXP6LBFGSCentralDot(y, y)) > biggsEXP6LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	biggsEXP6LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	biggsEXP6LBFGSCentralStageJudge         // settle when asked (biggsEXP6LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	biggsEXP6LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: biggsEXP6LBFGSCentralIterationCalls
+	biggsEXP6LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // biggsEXP6LBFGSCentralEnterBox: without bounds every start is inside.
 func biggsEXP6LBFGSCentralEnterBox(x *[6]float64, b *biggsEXP6LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6LBFGSCentralVerifyNothing = iota
+	biggsEXP6LBFGSCentralVerifyPass    // a difference gradient passed the test
+	biggsEXP6LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // biggsEXP6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func biggsEXP6LBFGSCentralFiniteVec(x *[6]float64) bool {
 		}
 	}
 	return true
-}
-
-// biggsEXP6LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type biggsEXP6LBFGSCentralDifferences struct {
-	ratio     [6]float64
-	curvature [6]float64
-	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSCentralRoundingFloor)
-	bounds    biggsEXP6LBFGSCentralBox
 }
 
 // biggsEXP6LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func biggsEXP6LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second floa
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// biggsEXP6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last biggsEXP6LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, biggsEXP6LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type biggsEXP6LBFGSCentralDirection struct {
-	s, y   [biggsEXP6LBFGSCentralLbfgsMemory][6]float64
-	rho    [biggsEXP6LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most biggsEXP6LBFGSCentralLbfgsMemory
-}
-
-func (s *biggsEXP6LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *biggsEXP6LBFGSCentralDirection) compute(g, d *[6]float64) {
-	var alpha [biggsEXP6LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * biggsEXP6LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = biggsEXP6LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := biggsEXP6LBFGSCentralDot(&s.s[newest], &s.y[newest]) / biggsEXP6LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == biggsEXP6LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * biggsEXP6LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	biggsEXP6LBFGSCentralNegate(d, &q)
-}
-
-func (s *biggsEXP6LBFGSCentralDirection) update(step, change *[6]float64) {
-	if !biggsEXP6LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == biggsEXP6LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < biggsEXP6LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / biggsEXP6LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *biggsEXP6LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// biggsEXP6LBFGSCentralDot returns aᵀb.
-func biggsEXP6LBFGSCentralDot(a, b *[6]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// biggsEXP6LBFGSCentralNegate sets out = −x.
-func biggsEXP6LBFGSCentralNegate(out, x *[6]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// biggsEXP6LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func biggsEXP6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
-	sy := biggsEXP6LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/biggsEXP6LBFGSCentralDot(s, s))*(sy/biggsEXP6LBFGSCentralDot(y, y)) > biggsEXP6LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	biggsEXP6LBFGSCentralVerifyNothing = iota
-	biggsEXP6LBFGSCentralVerifyPass    // a difference gradient passed the test
-	biggsEXP6LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // biggsEXP6LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (biggsEXP6LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func biggsEXP6LBFGSCentralDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// biggsEXP6LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const biggsEXP6LBFGSCentralUnlimited = int(^uint(0) >> 1)

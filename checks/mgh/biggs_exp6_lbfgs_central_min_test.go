@@ -47,6 +47,55 @@ func TestBiggsEXP6LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBiggsEXP6LBFGSCentralSolverTicks advances a BiggsEXP6LBFGSCentralSolver from the spec's start with budgets of BiggsEXP6LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BiggsEXP6LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBiggsEXP6LBFGSCentralSolverTicks(t *testing.T) {
+	want := BiggsEXP6LBFGSCentral(biggsEXP6LBFGSCentralTestStart())
+	for _, budget := range []int{BiggsEXP6LBFGSCentralTickMinimum, BiggsEXP6LBFGSCentralTickMinimum + 1, 2 * BiggsEXP6LBFGSCentralTickMinimum, 7 * BiggsEXP6LBFGSCentralTickMinimum} {
+		var s BiggsEXP6LBFGSCentralSolver
+		s.Start(biggsEXP6LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BiggsEXP6LBFGSCentralRunning {
+				if !biggsEXP6LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BiggsEXP6LBFGSCentralSolver
+	s.Start(biggsEXP6LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BiggsEXP6LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBiggsEXP6LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBiggsEXP6LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BiggsEXP6LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(biggsEXP6LBFGSCentralTestStart())
+		for s.Advance(BiggsEXP6LBFGSCentralTickMinimum).Status == BiggsEXP6LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// biggsEXP6LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func biggsEXP6LBFGSCentralTestSameResult(a, b BiggsEXP6LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBiggsEXP6LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBiggsEXP6LBFGSCentral(b *testing.B) {
 	var r BiggsEXP6LBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	Box3DBFGSAnalyticNoDecrease
 	// Box3DBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Box3DBFGSAnalyticDiverged
+	// Box3DBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Box3DBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Box3DBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Box3DBFGSAnalyticDiverged:
 		return "diverged"
+	case Box3DBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Box3DBFGSAnalyticWithLimits(x0 [3]float64, limits Box3DBFGSAnalyticLimits) 
 	}
 }
 
+// Box3DBFGSAnalyticTickMinimum is the smallest call budget with which every Box3DBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Box3DBFGSAnalyticTickMinimum = 48
+
+// Box3DBFGSAnalyticSolver is a run of Box3DBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Box3DBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Box3DBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DBFGSAnalyticRunning ends exactly as Box3DBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Box3DBFGSAnalytic and Box3DBFGSAnalyticWithLimits use at most 2576 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is Box3DBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Box3DBFGSAnalyticSolver struct {
+	run       box3DBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Box3DBFGSAnalyticLimits  // the limits of the runs; Box3DBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Box3DBFGSAnalyticSolver) SetLimits(limits Box3DBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Box3DBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Box3DBFGSAnalyticSolver) StartFrom(from Box3DBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *Box3DBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Box3DBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = Box3DBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, box3DBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Box3DBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Box3DBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Box3DBFGSAnalyticSolver) Advance(budget int) Box3DBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Box3DBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Box3DBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	box3DBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	box3DBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	box3DBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	box3DBFGSAnalyticStepTrials     = 48                     // step.trials
-	box3DBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	box3DBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	box3DBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	box3DBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	box3DBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	box3DBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	box3DBFGSAnalyticStepTrials      = 48                     // step.trials
+	box3DBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	box3DBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	box3DBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	box3DBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	box3DBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	box3DBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // box3DBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits, bounds box3DBFGSAnalyticBox) box3DBFGSAnalyticOutcome {
-	x := x0
-	box3DBFGSAnalyticEnterBox(&x, &bounds)
-	out := box3DBFGSAnalyticOutcome{x: x, status: Box3DBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Box3D(&x)
-	out.f, out.evaluations = fx, 1
-	if !box3DBFGSAnalyticFinite(fx) || !box3DBFGSAnalyticFiniteVec(&x) {
-		out.status = Box3DBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := box3DBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := box3DBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+box3DBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += box3DBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !box3DBFGSAnalyticFiniteVec(&g) {
-		out.status = Box3DBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir box3DBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(box3DBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from box3DBFGSAnalyticConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := box3DBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != box3DBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see box3DBFGSAnalyticConfirmGradient and settle).
-			calls, ok := box3DBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == box3DBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Box3DBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = box3DBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			box3DBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := box3DBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, box3DBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * box3DBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (box3DBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Box3DBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = box3DBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if box3DBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Box3DBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if box3DBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = box3DBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Box3DBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			box3DBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Box3DBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		box3DBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := box3DBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !box3DBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			box3DBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = box3DBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(box3DBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := box3DBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case box3DBFGSAnalyticSearchOutOfBudget:
-			return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case box3DBFGSAnalyticSearchDiverged:
-			return best.ending(Box3DBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case box3DBFGSAnalyticSearchExhausted, box3DBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see box3DBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Box3DBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Box3DBFGSAnalyticNoDecrease
-			case found.end == box3DBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = box3DBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == box3DBFGSAnalyticSearchTiny:
-				end = Box3DBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !box3DBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Box3DBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+box3DBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += box3DBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		box3DBFGSAnalyticDifference(&s, &xt, &x)
-		box3DBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !box3DBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Box3DBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r box3DBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(box3DBFGSAnalyticUnlimited)
 }
 
 // box3DBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o box3DBFGSAnalyticOutcome) ending(end Box3DBFGSAnalyticStatus, iterations
 	return o
 }
 
-// box3DBFGSAnalyticEnterBox: without bounds every start is inside.
-func box3DBFGSAnalyticEnterBox(x *[3]float64, b *box3DBFGSAnalyticBox) {}
-
-// box3DBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func box3DBFGSAnalyticFinite(v float64) bool {
-	return v >= -box3DBFGSAnalyticLargestFinite && v <= box3DBFGSAnalyticLargestFinite
+// box3DBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type box3DBFGSAnalyticDescent struct {
+	lim       Box3DBFGSAnalyticLimits
+	stage     int                          // what advance does next
+	diffs     box3DBFGSAnalyticDifferences // the box and the difference intervals
+	dir       box3DBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best box3DBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from box3DBFGSAnalyticConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
 }
 
-// box3DBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func box3DBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !box3DBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *box3DBFGSAnalyticDescent) prepare(x0 [3]float64, lim Box3DBFGSAnalyticLimits, bounds box3DBFGSAnalyticBox) {
+	r.lim, r.stage = lim, box3DBFGSAnalyticStageBegin
+	r.diffs = box3DBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	box3DBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = box3DBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Box3DBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *box3DBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Box3DBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, box3DBFGSAnalyticSettleCalls and box3DBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *box3DBFGSAnalyticDescent) advance(budget int) box3DBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != box3DBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case box3DBFGSAnalyticStageBegin:
+			if left < 1+box3DBFGSAnalyticCalibrationCost+box3DBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case box3DBFGSAnalyticStageJudge:
+			if r.verify != box3DBFGSAnalyticVerifyNothing && left < box3DBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < box3DBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *box3DBFGSAnalyticDescent) paused() box3DBFGSAnalyticOutcome {
+	return r.best.ending(Box3DBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *box3DBFGSAnalyticDescent) finish(end Box3DBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = box3DBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *box3DBFGSAnalyticDescent) begin() {
+	r.stage = box3DBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !box3DBFGSAnalyticFinite(r.fx) || !box3DBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Box3DBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := box3DBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+box3DBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += box3DBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !box3DBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Box3DBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = box3DBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, box3DBFGSAnalyticVerifyNothing
+	r.stage = box3DBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves box3DBFGSAnalyticStageSearch next when the run goes on.
+func (r *box3DBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != box3DBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see box3DBFGSAnalyticConfirmGradient and settle).
+		calls, ok := box3DBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == box3DBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Box3DBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !box3DBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Box3DBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = box3DBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		box3DBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := box3DBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, box3DBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * box3DBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (box3DBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Box3DBFGSAnalyticGradientSmall
+		r.stage = box3DBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = box3DBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if box3DBFGSAnalyticDerivativeCost == 0 {
+			r.finish(Box3DBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if box3DBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = box3DBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Box3DBFGSAnalyticDiverged)
+			return
+		}
+		box3DBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Box3DBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = box3DBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves box3DBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *box3DBFGSAnalyticDescent) search() {
+	box3DBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := box3DBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !box3DBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		box3DBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = box3DBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(box3DBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := box3DBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := box3DBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case box3DBFGSAnalyticSearchOutOfBudget:
+		r.finish(Box3DBFGSAnalyticOutOfEvaluations)
+		return
+	case box3DBFGSAnalyticSearchDiverged:
+		r.finish(Box3DBFGSAnalyticDiverged)
+		return
+	case box3DBFGSAnalyticSearchExhausted, box3DBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see box3DBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Box3DBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Box3DBFGSAnalyticNoDecrease
+		case found.end == box3DBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = box3DBFGSAnalyticVerifyStall, true, box3DBFGSAnalyticStageJudge
+			return
+		case found.end == box3DBFGSAnalyticSearchTiny:
+			end = Box3DBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !box3DBFGSAnalyticFiniteVec(&xt) {
+		r.finish(Box3DBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+box3DBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Box3DBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += box3DBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	box3DBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	box3DBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !box3DBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Box3DBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = box3DBFGSAnalyticStageJudge
 }
 
 // box3DBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type box3DBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DBFGSAnalyticRoundingFloor)
 	bounds    box3DBFGSAnalyticBox
-}
-
-// box3DBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func box3DBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// box3DBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func box3DBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSAnalyticDifferences) int {
-	Box3DGrad(x, g)
-	return 0
 }
 
 // box3DBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func box3DBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DBFGSAnalyticDot(s, s))*(sy/box3DBFGSAnalyticDot(y, y)) > box3DBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	box3DBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	box3DBFGSAnalyticStageJudge         // settle when asked (box3DBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	box3DBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: box3DBFGSAnalyticIterationCalls
+	box3DBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// box3DBFGSAnalyticEnterBox: without bounds every start is inside.
+func box3DBFGSAnalyticEnterBox(x *[3]float64, b *box3DBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	box3DBFGSAnalyticVerifyNothing = iota
 	box3DBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	box3DBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// box3DBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func box3DBFGSAnalyticFinite(v float64) bool {
+	return v >= -box3DBFGSAnalyticLargestFinite && v <= box3DBFGSAnalyticLargestFinite
+}
+
+// box3DBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func box3DBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !box3DBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// box3DBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func box3DBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// box3DBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func box3DBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSAnalyticDifferences) int {
+	Box3DGrad(x, g)
+	return 0
+}
 
 // box3DBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (box3DBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func box3DBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// box3DBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const box3DBFGSAnalyticUnlimited = int(^uint(0) >> 1)

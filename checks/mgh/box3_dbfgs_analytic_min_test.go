@@ -105,6 +105,55 @@ func TestBox3DBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBox3DBFGSAnalyticSolverTicks advances a Box3DBFGSAnalyticSolver from the spec's start with budgets of Box3DBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Box3DBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBox3DBFGSAnalyticSolverTicks(t *testing.T) {
+	want := Box3DBFGSAnalytic(box3DBFGSAnalyticTestStart())
+	for _, budget := range []int{Box3DBFGSAnalyticTickMinimum, Box3DBFGSAnalyticTickMinimum + 1, 2 * Box3DBFGSAnalyticTickMinimum, 7 * Box3DBFGSAnalyticTickMinimum} {
+		var s Box3DBFGSAnalyticSolver
+		s.Start(box3DBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Box3DBFGSAnalyticRunning {
+				if !box3DBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Box3DBFGSAnalyticSolver
+	s.Start(box3DBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Box3DBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBox3DBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBox3DBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Box3DBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(box3DBFGSAnalyticTestStart())
+		for s.Advance(Box3DBFGSAnalyticTickMinimum).Status == Box3DBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// box3DBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func box3DBFGSAnalyticTestSameResult(a, b Box3DBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBox3DBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBox3DBFGSAnalytic(b *testing.B) {
 	var r Box3DBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	Box3DCGAnalyticNoDecrease
 	// Box3DCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Box3DCGAnalyticDiverged
+	// Box3DCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Box3DCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Box3DCGAnalyticStatus) String() string {
 		return "no decrease"
 	case Box3DCGAnalyticDiverged:
 		return "diverged"
+	case Box3DCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Box3DCGAnalyticWithLimits(x0 [3]float64, limits Box3DCGAnalyticLimits) Box3
 	}
 }
 
+// Box3DCGAnalyticTickMinimum is the smallest call budget with which every Box3DCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Box3DCGAnalyticTickMinimum = 48
+
+// Box3DCGAnalyticSolver is a run of Box3DCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Box3DCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Box3DCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DCGAnalyticRunning ends exactly as Box3DCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Box3DCGAnalytic and Box3DCGAnalyticWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is Box3DCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Box3DCGAnalyticSolver struct {
+	run       box3DCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Box3DCGAnalyticLimits  // the limits of the runs; Box3DCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                   // whether SetLimits has set limits
+	started   bool                   // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Box3DCGAnalyticSolver) SetLimits(limits Box3DCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Box3DCGAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Box3DCGAnalyticSolver) StartFrom(from Box3DCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *Box3DCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Box3DCGAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = Box3DCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, box3DCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Box3DCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Box3DCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Box3DCGAnalyticSolver) Advance(budget int) Box3DCGAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Box3DCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Box3DCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	box3DCGAnalyticStepInitial    = 1.0                    // step.initial
-	box3DCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	box3DCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	box3DCGAnalyticStepTrials     = 48                     // step.trials
-	box3DCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	box3DCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	box3DCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	box3DCGAnalyticStepInitial     = 1.0                    // step.initial
+	box3DCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	box3DCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	box3DCGAnalyticStepTrials      = 48                     // step.trials
+	box3DCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	box3DCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	box3DCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	box3DCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	box3DCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	box3DCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // box3DCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits, bounds box3DCGAnalyticBox) box3DCGAnalyticOutcome {
-	x := x0
-	box3DCGAnalyticEnterBox(&x, &bounds)
-	out := box3DCGAnalyticOutcome{x: x, status: Box3DCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Box3D(&x)
-	out.f, out.evaluations = fx, 1
-	if !box3DCGAnalyticFinite(fx) || !box3DCGAnalyticFiniteVec(&x) {
-		out.status = Box3DCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := box3DCGAnalyticDifferences{bounds: bounds}
-	calls, ok := box3DCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+box3DCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += box3DCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !box3DCGAnalyticFiniteVec(&g) {
-		out.status = Box3DCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir box3DCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(box3DCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                 // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from box3DCGAnalyticConfirmGradient or settle
-	stalled := false                                            // whether the run can make no more progress at x
-	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
-	verify := box3DCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != box3DCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see box3DCGAnalyticConfirmGradient and settle).
-			calls, ok := box3DCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == box3DCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DCGAnalyticFiniteVec(&g) {
-				return best.ending(Box3DCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = box3DCGAnalyticVerifyNothing, true
-		case !confirmed:
-			box3DCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := box3DCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, box3DCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * box3DCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (box3DCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Box3DCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = box3DCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if box3DCGAnalyticDerivativeCost == 0 {
-				return best.ending(Box3DCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if box3DCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = box3DCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Box3DCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			box3DCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Box3DCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		box3DCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := box3DCGAnalyticDot(&g, &d)
-		if !(now < 0) || !box3DCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			box3DCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = box3DCGAnalyticDot(&g, &d)
-		}
-		first := float64(box3DCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := box3DCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case box3DCGAnalyticSearchOutOfBudget:
-			return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case box3DCGAnalyticSearchDiverged:
-			return best.ending(Box3DCGAnalyticDiverged, out.iterations, out.evaluations)
-		case box3DCGAnalyticSearchExhausted, box3DCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see box3DCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Box3DCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Box3DCGAnalyticNoDecrease
-			case found.end == box3DCGAnalyticSearchTiny && canSettle:
-				verify, stalled = box3DCGAnalyticVerifyStall, true
-				continue
-			case found.end == box3DCGAnalyticSearchTiny:
-				end = Box3DCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !box3DCGAnalyticFiniteVec(&xt) {
-			return best.ending(Box3DCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+box3DCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += box3DCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		box3DCGAnalyticDifference(&s, &xt, &x)
-		box3DCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !box3DCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Box3DCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r box3DCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(box3DCGAnalyticUnlimited)
 }
 
 // box3DCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o box3DCGAnalyticOutcome) ending(end Box3DCGAnalyticStatus, iterations, ev
 	return o
 }
 
-// box3DCGAnalyticEnterBox: without bounds every start is inside.
-func box3DCGAnalyticEnterBox(x *[3]float64, b *box3DCGAnalyticBox) {}
-
-// box3DCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func box3DCGAnalyticFinite(v float64) bool {
-	return v >= -box3DCGAnalyticLargestFinite && v <= box3DCGAnalyticLargestFinite
+// box3DCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type box3DCGAnalyticDescent struct {
+	lim       Box3DCGAnalyticLimits
+	stage     int                        // what advance does next
+	diffs     box3DCGAnalyticDifferences // the box and the difference intervals
+	dir       box3DCGAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                 // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                 // the search direction, the last step and its gradient change
+	fx        float64                    // f(x)
+	t, slope  float64                    // the previous iteration's accepted step and slope
+	out, best box3DCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                    // f(x0)
+	rises     int                        // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                       // whether g and e at x come from box3DCGAnalyticConfirmGradient or settle
+	stalled   bool                       // whether the run can make no more progress at x
+	retried   int                        // the iteration whose stall was retried with recalibrated differences
+	verify    int                        // what to check at x before judging it again
 }
 
-// box3DCGAnalyticFiniteVec reports whether every component of x is finite.
-func box3DCGAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !box3DCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *box3DCGAnalyticDescent) prepare(x0 [3]float64, lim Box3DCGAnalyticLimits, bounds box3DCGAnalyticBox) {
+	r.lim, r.stage = lim, box3DCGAnalyticStageBegin
+	r.diffs = box3DCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	box3DCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = box3DCGAnalyticOutcome{x: r.x, f: math.NaN(), status: Box3DCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *box3DCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Box3DCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, box3DCGAnalyticSettleCalls and box3DCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *box3DCGAnalyticDescent) advance(budget int) box3DCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != box3DCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case box3DCGAnalyticStageBegin:
+			if left < 1+box3DCGAnalyticCalibrationCost+box3DCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case box3DCGAnalyticStageJudge:
+			if r.verify != box3DCGAnalyticVerifyNothing && left < box3DCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < box3DCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *box3DCGAnalyticDescent) paused() box3DCGAnalyticOutcome {
+	return r.best.ending(Box3DCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *box3DCGAnalyticDescent) finish(end Box3DCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = box3DCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *box3DCGAnalyticDescent) begin() {
+	r.stage = box3DCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !box3DCGAnalyticFinite(r.fx) || !box3DCGAnalyticFiniteVec(&r.x) {
+		r.out.status = Box3DCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := box3DCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+box3DCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += box3DCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !box3DCGAnalyticFiniteVec(&r.g) {
+		r.out.status = Box3DCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = box3DCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, box3DCGAnalyticVerifyNothing
+	r.stage = box3DCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves box3DCGAnalyticStageSearch next when the run goes on.
+func (r *box3DCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != box3DCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see box3DCGAnalyticConfirmGradient and settle).
+		calls, ok := box3DCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == box3DCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Box3DCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !box3DCGAnalyticFiniteVec(&r.g) {
+			r.finish(Box3DCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = box3DCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		box3DCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := box3DCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, box3DCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * box3DCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (box3DCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Box3DCGAnalyticGradientSmall
+		r.stage = box3DCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = box3DCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if box3DCGAnalyticDerivativeCost == 0 {
+			r.finish(Box3DCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if box3DCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = box3DCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Box3DCGAnalyticDiverged)
+			return
+		}
+		box3DCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Box3DCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = box3DCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves box3DCGAnalyticStageJudge next when the run
+// goes on.
+func (r *box3DCGAnalyticDescent) search() {
+	box3DCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := box3DCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !box3DCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		box3DCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = box3DCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(box3DCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := box3DCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := box3DCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case box3DCGAnalyticSearchOutOfBudget:
+		r.finish(Box3DCGAnalyticOutOfEvaluations)
+		return
+	case box3DCGAnalyticSearchDiverged:
+		r.finish(Box3DCGAnalyticDiverged)
+		return
+	case box3DCGAnalyticSearchExhausted, box3DCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see box3DCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Box3DCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Box3DCGAnalyticNoDecrease
+		case found.end == box3DCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = box3DCGAnalyticVerifyStall, true, box3DCGAnalyticStageJudge
+			return
+		case found.end == box3DCGAnalyticSearchTiny:
+			end = Box3DCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !box3DCGAnalyticFiniteVec(&xt) {
+		r.finish(Box3DCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+box3DCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Box3DCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += box3DCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	box3DCGAnalyticDifference(&r.s, &xt, &r.x)
+	box3DCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !box3DCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Box3DCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = box3DCGAnalyticStageJudge
 }
 
 // box3DCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type box3DCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DCGAnalyticRoundingFloor)
 	bounds    box3DCGAnalyticBox
-}
-
-// box3DCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func box3DCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// box3DCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func box3DCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DCGAnalyticDifferences) int {
-	Box3DGrad(x, g)
-	return 0
 }
 
 // box3DCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func box3DCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// box3DCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func box3DCGAnalyticFinite(v float64) bool {
+	return v >= -box3DCGAnalyticLargestFinite && v <= box3DCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	box3DCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	box3DCGAnalyticStageJudge         // settle when asked (box3DCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	box3DCGAnalyticStageSearch        // the line search and the gradient at the accepted point: box3DCGAnalyticIterationCalls
+	box3DCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// box3DCGAnalyticEnterBox: without bounds every start is inside.
+func box3DCGAnalyticEnterBox(x *[3]float64, b *box3DCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	box3DCGAnalyticVerifyNothing = iota
 	box3DCGAnalyticVerifyPass    // a difference gradient passed the test
 	box3DCGAnalyticVerifyStall   // no step makes progress
 )
+
+// box3DCGAnalyticFiniteVec reports whether every component of x is finite.
+func box3DCGAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !box3DCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// box3DCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func box3DCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// box3DCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func box3DCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DCGAnalyticDifferences) int {
+	Box3DGrad(x, g)
+	return 0
+}
 
 // box3DCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (box3DCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func box3DCGAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// box3DCGAnalyticUnlimited is a tick budget that never pauses a run.
+const box3DCGAnalyticUnlimited = int(^uint(0) >> 1)

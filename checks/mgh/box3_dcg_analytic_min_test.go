@@ -105,6 +105,55 @@ func TestBox3DCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBox3DCGAnalyticSolverTicks advances a Box3DCGAnalyticSolver from the spec's start with budgets of Box3DCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Box3DCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBox3DCGAnalyticSolverTicks(t *testing.T) {
+	want := Box3DCGAnalytic(box3DCGAnalyticTestStart())
+	for _, budget := range []int{Box3DCGAnalyticTickMinimum, Box3DCGAnalyticTickMinimum + 1, 2 * Box3DCGAnalyticTickMinimum, 7 * Box3DCGAnalyticTickMinimum} {
+		var s Box3DCGAnalyticSolver
+		s.Start(box3DCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Box3DCGAnalyticRunning {
+				if !box3DCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Box3DCGAnalyticSolver
+	s.Start(box3DCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Box3DCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBox3DCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBox3DCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Box3DCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(box3DCGAnalyticTestStart())
+		for s.Advance(Box3DCGAnalyticTickMinimum).Status == Box3DCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// box3DCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func box3DCGAnalyticTestSameResult(a, b Box3DCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBox3DCGAnalytic measures one whole run from the spec's start.
 func BenchmarkBox3DCGAnalytic(b *testing.B) {
 	var r Box3DCGAnalyticResult

@@ -26,6 +26,8 @@ const (
 	Box3DCGCentralNoDecrease
 	// Box3DCGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Box3DCGCentralDiverged
+	// Box3DCGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Box3DCGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Box3DCGCentralStatus) String() string {
 		return "no decrease"
 	case Box3DCGCentralDiverged:
 		return "diverged"
+	case Box3DCGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Box3DCGCentralWithLimits(x0 [3]float64, limits Box3DCGCentralLimits) Box3DC
 	}
 }
 
+// Box3DCGCentralTickMinimum is the smallest call budget with which every Box3DCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const Box3DCGCentralTickMinimum = 336
+
+// Box3DCGCentralSolver is a run of Box3DCGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Box3DCGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least Box3DCGCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DCGCentralRunning ends exactly as Box3DCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Box3DCGCentral and Box3DCGCentralWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is Box3DCGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Box3DCGCentralSolver struct {
+	run       box3DCGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Box3DCGCentralLimits  // the limits of the runs; Box3DCGCentralDefaultLimits() until SetLimits
+	ownLimits bool                  // whether SetLimits has set limits
+	started   bool                  // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Box3DCGCentralSolver) SetLimits(limits Box3DCGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Box3DCGCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Box3DCGCentralSolver) StartFrom(from Box3DCGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *Box3DCGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Box3DCGCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = Box3DCGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, box3DCGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Box3DCGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Box3DCGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Box3DCGCentralSolver) Advance(budget int) Box3DCGCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Box3DCGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Box3DCGCentral from mgh.toml; the kernels below read them.
 const (
-	box3DCGCentralStepInitial    = 1.0                    // step.initial
-	box3DCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	box3DCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	box3DCGCentralStepTrials     = 48                     // step.trials
-	box3DCGCentralDerivativeCost = 6                      // objective calls per gradient
-	box3DCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	box3DCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	box3DCGCentralStepInitial     = 1.0                    // step.initial
+	box3DCGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	box3DCGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	box3DCGCentralStepTrials      = 48                     // step.trials
+	box3DCGCentralDerivativeCost  = 6                      // objective calls per gradient
+	box3DCGCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	box3DCGCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	box3DCGCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	box3DCGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	box3DCGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // box3DCGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits, bounds box3DCGCentralBox) box3DCGCentralOutcome {
-	x := x0
-	box3DCGCentralEnterBox(&x, &bounds)
-	out := box3DCGCentralOutcome{x: x, status: Box3DCGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Box3D(&x)
-	out.f, out.evaluations = fx, 1
-	if !box3DCGCentralFinite(fx) || !box3DCGCentralFiniteVec(&x) {
-		out.status = Box3DCGCentralNonFiniteStart
-		return out
-	}
-	diffs := box3DCGCentralDifferences{bounds: bounds}
-	calls, ok := box3DCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+box3DCGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += box3DCGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !box3DCGCentralFiniteVec(&g) {
-		out.status = Box3DCGCentralNonFiniteGradient
-		return out
-	}
-	var dir box3DCGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(box3DCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                         // whether g and e at x come from box3DCGCentralConfirmGradient or settle
-	stalled := false                                           // whether the run can make no more progress at x
-	retried := -1                                              // the iteration whose stall was retried with recalibrated differences
-	verify := box3DCGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != box3DCGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see box3DCGCentralConfirmGradient and settle).
-			calls, ok := box3DCGCentralSettle(&x, fx, &g, &e, &diffs, verify == box3DCGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DCGCentralFiniteVec(&g) {
-				return best.ending(Box3DCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = box3DCGCentralVerifyNothing, true
-		case !confirmed:
-			box3DCGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := box3DCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, box3DCGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * box3DCGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (box3DCGCentralDerivativeCost == 0 || confirmed) {
-			out.status = Box3DCGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = box3DCGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if box3DCGCentralDerivativeCost == 0 {
-				return best.ending(Box3DCGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if box3DCGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = box3DCGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Box3DCGCentralDiverged, out.iterations, out.evaluations)
-			}
-			box3DCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Box3DCGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		box3DCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := box3DCGCentralDot(&g, &d)
-		if !(now < 0) || !box3DCGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			box3DCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = box3DCGCentralDot(&g, &d)
-		}
-		first := float64(box3DCGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := box3DCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case box3DCGCentralSearchOutOfBudget:
-			return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case box3DCGCentralSearchDiverged:
-			return best.ending(Box3DCGCentralDiverged, out.iterations, out.evaluations)
-		case box3DCGCentralSearchExhausted, box3DCGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see box3DCGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Box3DCGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Box3DCGCentralNoDecrease
-			case found.end == box3DCGCentralSearchTiny && canSettle:
-				verify, stalled = box3DCGCentralVerifyStall, true
-				continue
-			case found.end == box3DCGCentralSearchTiny:
-				end = Box3DCGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !box3DCGCentralFiniteVec(&xt) {
-			return best.ending(Box3DCGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+box3DCGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += box3DCGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		box3DCGCentralDifference(&s, &xt, &x)
-		box3DCGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !box3DCGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Box3DCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r box3DCGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(box3DCGCentralUnlimited)
 }
 
 // box3DCGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o box3DCGCentralOutcome) ending(end Box3DCGCentralStatus, iterations, eval
 	return o
 }
 
-// box3DCGCentralEnterBox: without bounds every start is inside.
-func box3DCGCentralEnterBox(x *[3]float64, b *box3DCGCentralBox) {}
-
-// box3DCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func box3DCGCentralFinite(v float64) bool {
-	return v >= -box3DCGCentralLargestFinite && v <= box3DCGCentralLargestFinite
+// box3DCGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type box3DCGCentralDescent struct {
+	lim       Box3DCGCentralLimits
+	stage     int                       // what advance does next
+	diffs     box3DCGCentralDifferences // the box and the difference intervals
+	dir       box3DCGCentralDirection   // the direction's memory
+	x, g, e   [3]float64                // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                // the search direction, the last step and its gradient change
+	fx        float64                   // f(x)
+	t, slope  float64                   // the previous iteration's accepted step and slope
+	out, best box3DCGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                   // f(x0)
+	rises     int                       // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                      // whether g and e at x come from box3DCGCentralConfirmGradient or settle
+	stalled   bool                      // whether the run can make no more progress at x
+	retried   int                       // the iteration whose stall was retried with recalibrated differences
+	verify    int                       // what to check at x before judging it again
 }
 
-// box3DCGCentralFiniteVec reports whether every component of x is finite.
-func box3DCGCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !box3DCGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *box3DCGCentralDescent) prepare(x0 [3]float64, lim Box3DCGCentralLimits, bounds box3DCGCentralBox) {
+	r.lim, r.stage = lim, box3DCGCentralStageBegin
+	r.diffs = box3DCGCentralDifferences{bounds: bounds}
+	r.x = x0
+	box3DCGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = box3DCGCentralOutcome{x: r.x, f: math.NaN(), status: Box3DCGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *box3DCGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Box3DCGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, box3DCGCentralSettleCalls and box3DCGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *box3DCGCentralDescent) advance(budget int) box3DCGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != box3DCGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case box3DCGCentralStageBegin:
+			if left < 1+box3DCGCentralCalibrationCost+box3DCGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case box3DCGCentralStageJudge:
+			if r.verify != box3DCGCentralVerifyNothing && left < box3DCGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < box3DCGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *box3DCGCentralDescent) paused() box3DCGCentralOutcome {
+	return r.best.ending(Box3DCGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *box3DCGCentralDescent) finish(end Box3DCGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = box3DCGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *box3DCGCentralDescent) begin() {
+	r.stage = box3DCGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !box3DCGCentralFinite(r.fx) || !box3DCGCentralFiniteVec(&r.x) {
+		r.out.status = Box3DCGCentralNonFiniteStart
+		return
+	}
+	calls, ok := box3DCGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+box3DCGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += box3DCGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !box3DCGCentralFiniteVec(&r.g) {
+		r.out.status = Box3DCGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = box3DCGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, box3DCGCentralVerifyNothing
+	r.stage = box3DCGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves box3DCGCentralStageSearch next when the run goes on.
+func (r *box3DCGCentralDescent) judge() {
+	switch {
+	case r.verify != box3DCGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see box3DCGCentralConfirmGradient and settle).
+		calls, ok := box3DCGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == box3DCGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Box3DCGCentralOutOfEvaluations)
+			return
+		}
+		if !box3DCGCentralFiniteVec(&r.g) {
+			r.finish(Box3DCGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = box3DCGCentralVerifyNothing, true
+	case !r.confirmed:
+		box3DCGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := box3DCGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, box3DCGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * box3DCGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (box3DCGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Box3DCGCentralGradientSmall
+		r.stage = box3DCGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = box3DCGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if box3DCGCentralDerivativeCost == 0 {
+			r.finish(Box3DCGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if box3DCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = box3DCGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Box3DCGCentralDiverged)
+			return
+		}
+		box3DCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Box3DCGCentralOutOfIterations)
+		return
+	}
+	r.stage = box3DCGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves box3DCGCentralStageJudge next when the run
+// goes on.
+func (r *box3DCGCentralDescent) search() {
+	box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := box3DCGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !box3DCGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = box3DCGCentralDot(&r.g, &r.d)
+	}
+	first := float64(box3DCGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := box3DCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := box3DCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case box3DCGCentralSearchOutOfBudget:
+		r.finish(Box3DCGCentralOutOfEvaluations)
+		return
+	case box3DCGCentralSearchDiverged:
+		r.finish(Box3DCGCentralDiverged)
+		return
+	case box3DCGCentralSearchExhausted, box3DCGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see box3DCGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Box3DCGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Box3DCGCentralNoDecrease
+		case found.end == box3DCGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = box3DCGCentralVerifyStall, true, box3DCGCentralStageJudge
+			return
+		case found.end == box3DCGCentralSearchTiny:
+			end = Box3DCGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !box3DCGCentralFiniteVec(&xt) {
+		r.finish(Box3DCGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+box3DCGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Box3DCGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += box3DCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	box3DCGCentralDifference(&r.s, &xt, &r.x)
+	box3DCGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !box3DCGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Box3DCGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = box3DCGCentralStageJudge
 }
 
 // box3DCGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type box3DCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DCGCentralRoundingFloor)
 	bounds    box3DCGCentralBox
+}
+
+// box3DCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type box3DCGCentralDirection struct {
+	previous [3]float64 // d₋₁
+	change   [3]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *box3DCGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *box3DCGCentralDirection) compute(g, d *[3]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
+		beta = box3DCGCentralLarger(box3DCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = box3DCGCentralDot(g, g)
+}
+
+func (s *box3DCGCentralDirection) update(step, change *[3]float64) {
+	s.change = *change
+}
+
+func (s *box3DCGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return box3DCGCentralScaledTrial(t, slope, now)
+}
+
+// box3DCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func box3DCGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// box3DCGCentralDot returns aᵀb.
+func box3DCGCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// box3DCGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to box3DCGCentralStepInitial.
+func box3DCGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !box3DCGCentralFinite(next) {
+		return box3DCGCentralStepInitial
+	}
+	return next
+}
+
+// box3DCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func box3DCGCentralFinite(v float64) bool {
+	return v >= -box3DCGCentralLargestFinite && v <= box3DCGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	box3DCGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	box3DCGCentralStageJudge         // settle when asked (box3DCGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	box3DCGCentralStageSearch        // the line search and the gradient at the accepted point: box3DCGCentralIterationCalls
+	box3DCGCentralStageOver          // the run has ended; out is its result
+)
+
+// box3DCGCentralEnterBox: without bounds every start is inside.
+func box3DCGCentralEnterBox(x *[3]float64, b *box3DCGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	box3DCGCentralVerifyNothing = iota
+	box3DCGCentralVerifyPass    // a difference gradient passed the test
+	box3DCGCentralVerifyStall   // no step makes progress
+)
+
+// box3DCGCentralFiniteVec reports whether every component of x is finite.
+func box3DCGCentralFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !box3DCGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DCGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func box3DCGCentralAbs(v float64) float64 {
 // box3DCGCentralSquareRoot returns √v.
 func box3DCGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// box3DCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func box3DCGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // box3DCGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func box3DCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// box3DCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type box3DCGCentralDirection struct {
-	previous [3]float64 // d₋₁
-	change   [3]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *box3DCGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *box3DCGCentralDirection) compute(g, d *[3]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = box3DCGCentralLarger(box3DCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = box3DCGCentralDot(g, g)
-}
-
-func (s *box3DCGCentralDirection) update(step, change *[3]float64) {
-	s.change = *change
-}
-
-func (s *box3DCGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return box3DCGCentralScaledTrial(t, slope, now)
-}
-
-// box3DCGCentralDot returns aᵀb.
-func box3DCGCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// box3DCGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to box3DCGCentralStepInitial.
-func box3DCGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !box3DCGCentralFinite(next) {
-		return box3DCGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	box3DCGCentralVerifyNothing = iota
-	box3DCGCentralVerifyPass    // a difference gradient passed the test
-	box3DCGCentralVerifyStall   // no step makes progress
-)
 
 // box3DCGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (box3DCGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func box3DCGCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// box3DCGCentralUnlimited is a tick budget that never pauses a run.
+const box3DCGCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestBox3DCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBox3DCGCentralSolverTicks advances a Box3DCGCentralSolver from the spec's start with budgets of Box3DCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Box3DCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBox3DCGCentralSolverTicks(t *testing.T) {
+	want := Box3DCGCentral(box3DCGCentralTestStart())
+	for _, budget := range []int{Box3DCGCentralTickMinimum, Box3DCGCentralTickMinimum + 1, 2 * Box3DCGCentralTickMinimum, 7 * Box3DCGCentralTickMinimum} {
+		var s Box3DCGCentralSolver
+		s.Start(box3DCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Box3DCGCentralRunning {
+				if !box3DCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Box3DCGCentralSolver
+	s.Start(box3DCGCentralTestStart())
+	if r := s.Advance(0); r.Status != Box3DCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBox3DCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBox3DCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s Box3DCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(box3DCGCentralTestStart())
+		for s.Advance(Box3DCGCentralTickMinimum).Status == Box3DCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// box3DCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func box3DCGCentralTestSameResult(a, b Box3DCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBox3DCGCentral measures one whole run from the spec's start.
 func BenchmarkBox3DCGCentral(b *testing.B) {
 	var r Box3DCGCentralResult

@@ -26,6 +26,8 @@ const (
 	Box3DLBFGSAnalyticNoDecrease
 	// Box3DLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Box3DLBFGSAnalyticDiverged
+	// Box3DLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Box3DLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Box3DLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Box3DLBFGSAnalyticDiverged:
 		return "diverged"
+	case Box3DLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Box3DLBFGSAnalyticWithLimits(x0 [3]float64, limits Box3DLBFGSAnalyticLimits
 	}
 }
 
+// Box3DLBFGSAnalyticTickMinimum is the smallest call budget with which every Box3DLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Box3DLBFGSAnalyticTickMinimum = 48
+
+// Box3DLBFGSAnalyticSolver is a run of Box3DLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Box3DLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Box3DLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DLBFGSAnalyticRunning ends exactly as Box3DLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Box3DLBFGSAnalytic and Box3DLBFGSAnalyticWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is Box3DLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Box3DLBFGSAnalyticSolver struct {
+	run       box3DLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Box3DLBFGSAnalyticLimits  // the limits of the runs; Box3DLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Box3DLBFGSAnalyticSolver) SetLimits(limits Box3DLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Box3DLBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Box3DLBFGSAnalyticSolver) StartFrom(from Box3DLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Box3DLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Box3DLBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = Box3DLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, box3DLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Box3DLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Box3DLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Box3DLBFGSAnalyticSolver) Advance(budget int) Box3DLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Box3DLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Box3DLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	box3DLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	box3DLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	box3DLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	box3DLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	box3DLBFGSAnalyticStepTrials     = 48                     // step.trials
-	box3DLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	box3DLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	box3DLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	box3DLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	box3DLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	box3DLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	box3DLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	box3DLBFGSAnalyticStepTrials      = 48                     // step.trials
+	box3DLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	box3DLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	box3DLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	box3DLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	box3DLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	box3DLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // box3DLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits, bounds box3DLBFGSAnalyticBox) box3DLBFGSAnalyticOutcome {
-	x := x0
-	box3DLBFGSAnalyticEnterBox(&x, &bounds)
-	out := box3DLBFGSAnalyticOutcome{x: x, status: Box3DLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Box3D(&x)
-	out.f, out.evaluations = fx, 1
-	if !box3DLBFGSAnalyticFinite(fx) || !box3DLBFGSAnalyticFiniteVec(&x) {
-		out.status = Box3DLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := box3DLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := box3DLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+box3DLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += box3DLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !box3DLBFGSAnalyticFiniteVec(&g) {
-		out.status = Box3DLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir box3DLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(box3DLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from box3DLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := box3DLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != box3DLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see box3DLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := box3DLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == box3DLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Box3DLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = box3DLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			box3DLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := box3DLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, box3DLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * box3DLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (box3DLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Box3DLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = box3DLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if box3DLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Box3DLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if box3DLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = box3DLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Box3DLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			box3DLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Box3DLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		box3DLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := box3DLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !box3DLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			box3DLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = box3DLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(box3DLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := box3DLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case box3DLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case box3DLBFGSAnalyticSearchDiverged:
-			return best.ending(Box3DLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case box3DLBFGSAnalyticSearchExhausted, box3DLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see box3DLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Box3DLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Box3DLBFGSAnalyticNoDecrease
-			case found.end == box3DLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = box3DLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == box3DLBFGSAnalyticSearchTiny:
-				end = Box3DLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !box3DLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Box3DLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+box3DLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += box3DLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		box3DLBFGSAnalyticDifference(&s, &xt, &x)
-		box3DLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !box3DLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Box3DLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r box3DLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(box3DLBFGSAnalyticUnlimited)
 }
 
 // box3DLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o box3DLBFGSAnalyticOutcome) ending(end Box3DLBFGSAnalyticStatus, iteratio
 	return o
 }
 
-// box3DLBFGSAnalyticEnterBox: without bounds every start is inside.
-func box3DLBFGSAnalyticEnterBox(x *[3]float64, b *box3DLBFGSAnalyticBox) {}
-
-// box3DLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func box3DLBFGSAnalyticFinite(v float64) bool {
-	return v >= -box3DLBFGSAnalyticLargestFinite && v <= box3DLBFGSAnalyticLargestFinite
+// box3DLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type box3DLBFGSAnalyticDescent struct {
+	lim       Box3DLBFGSAnalyticLimits
+	stage     int                           // what advance does next
+	diffs     box3DLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       box3DLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best box3DLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from box3DLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// box3DLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func box3DLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !box3DLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *box3DLBFGSAnalyticDescent) prepare(x0 [3]float64, lim Box3DLBFGSAnalyticLimits, bounds box3DLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, box3DLBFGSAnalyticStageBegin
+	r.diffs = box3DLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	box3DLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = box3DLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Box3DLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *box3DLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Box3DLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, box3DLBFGSAnalyticSettleCalls and box3DLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *box3DLBFGSAnalyticDescent) advance(budget int) box3DLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != box3DLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case box3DLBFGSAnalyticStageBegin:
+			if left < 1+box3DLBFGSAnalyticCalibrationCost+box3DLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case box3DLBFGSAnalyticStageJudge:
+			if r.verify != box3DLBFGSAnalyticVerifyNothing && left < box3DLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < box3DLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *box3DLBFGSAnalyticDescent) paused() box3DLBFGSAnalyticOutcome {
+	return r.best.ending(Box3DLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *box3DLBFGSAnalyticDescent) finish(end Box3DLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = box3DLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *box3DLBFGSAnalyticDescent) begin() {
+	r.stage = box3DLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !box3DLBFGSAnalyticFinite(r.fx) || !box3DLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Box3DLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := box3DLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+box3DLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += box3DLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !box3DLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Box3DLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = box3DLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, box3DLBFGSAnalyticVerifyNothing
+	r.stage = box3DLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves box3DLBFGSAnalyticStageSearch next when the run goes on.
+func (r *box3DLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != box3DLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see box3DLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := box3DLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == box3DLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Box3DLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !box3DLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Box3DLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = box3DLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		box3DLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := box3DLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, box3DLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * box3DLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (box3DLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Box3DLBFGSAnalyticGradientSmall
+		r.stage = box3DLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = box3DLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if box3DLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(Box3DLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if box3DLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = box3DLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Box3DLBFGSAnalyticDiverged)
+			return
+		}
+		box3DLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Box3DLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = box3DLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves box3DLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *box3DLBFGSAnalyticDescent) search() {
+	box3DLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := box3DLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !box3DLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		box3DLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = box3DLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(box3DLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := box3DLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := box3DLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case box3DLBFGSAnalyticSearchOutOfBudget:
+		r.finish(Box3DLBFGSAnalyticOutOfEvaluations)
+		return
+	case box3DLBFGSAnalyticSearchDiverged:
+		r.finish(Box3DLBFGSAnalyticDiverged)
+		return
+	case box3DLBFGSAnalyticSearchExhausted, box3DLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see box3DLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Box3DLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Box3DLBFGSAnalyticNoDecrease
+		case found.end == box3DLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = box3DLBFGSAnalyticVerifyStall, true, box3DLBFGSAnalyticStageJudge
+			return
+		case found.end == box3DLBFGSAnalyticSearchTiny:
+			end = Box3DLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !box3DLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(Box3DLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+box3DLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Box3DLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += box3DLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	box3DLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	box3DLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !box3DLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Box3DLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = box3DLBFGSAnalyticStageJudge
 }
 
 // box3DLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type box3DLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSAnalyticRoundingFloor)
 	bounds    box3DLBFGSAnalyticBox
-}
-
-// box3DLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func box3DLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// box3DLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func box3DLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSAnalyticDifferences) int {
-	Box3DGrad(x, g)
-	return 0
 }
 
 // box3DLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func box3DLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DLBFGSAnalyticDot(s, s))*(sy/box3DLBFGSAnalyticDot(y, y)) > box3DLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	box3DLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	box3DLBFGSAnalyticStageJudge         // settle when asked (box3DLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	box3DLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: box3DLBFGSAnalyticIterationCalls
+	box3DLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// box3DLBFGSAnalyticEnterBox: without bounds every start is inside.
+func box3DLBFGSAnalyticEnterBox(x *[3]float64, b *box3DLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	box3DLBFGSAnalyticVerifyNothing = iota
 	box3DLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	box3DLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// box3DLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func box3DLBFGSAnalyticFinite(v float64) bool {
+	return v >= -box3DLBFGSAnalyticLargestFinite && v <= box3DLBFGSAnalyticLargestFinite
+}
+
+// box3DLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func box3DLBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !box3DLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// box3DLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func box3DLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// box3DLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func box3DLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSAnalyticDifferences) int {
+	Box3DGrad(x, g)
+	return 0
+}
 
 // box3DLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (box3DLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func box3DLBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// box3DLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const box3DLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

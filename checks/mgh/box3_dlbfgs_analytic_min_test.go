@@ -105,6 +105,55 @@ func TestBox3DLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBox3DLBFGSAnalyticSolverTicks advances a Box3DLBFGSAnalyticSolver from the spec's start with budgets of Box3DLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Box3DLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBox3DLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := Box3DLBFGSAnalytic(box3DLBFGSAnalyticTestStart())
+	for _, budget := range []int{Box3DLBFGSAnalyticTickMinimum, Box3DLBFGSAnalyticTickMinimum + 1, 2 * Box3DLBFGSAnalyticTickMinimum, 7 * Box3DLBFGSAnalyticTickMinimum} {
+		var s Box3DLBFGSAnalyticSolver
+		s.Start(box3DLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Box3DLBFGSAnalyticRunning {
+				if !box3DLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Box3DLBFGSAnalyticSolver
+	s.Start(box3DLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Box3DLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBox3DLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBox3DLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Box3DLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(box3DLBFGSAnalyticTestStart())
+		for s.Advance(Box3DLBFGSAnalyticTickMinimum).Status == Box3DLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// box3DLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func box3DLBFGSAnalyticTestSameResult(a, b Box3DLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBox3DLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBox3DLBFGSAnalytic(b *testing.B) {
 	var r Box3DLBFGSAnalyticResult

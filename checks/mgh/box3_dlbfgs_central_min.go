@@ -26,6 +26,8 @@ const (
 	Box3DLBFGSCentralNoDecrease
 	// Box3DLBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Box3DLBFGSCentralDiverged
+	// Box3DLBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Box3DLBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Box3DLBFGSCentralStatus) String() string {
 		return "no decrease"
 	case Box3DLBFGSCentralDiverged:
 		return "diverged"
+	case Box3DLBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Box3DLBFGSCentralWithLimits(x0 [3]float64, limits Box3DLBFGSCentralLimits) 
 	}
 }
 
+// Box3DLBFGSCentralTickMinimum is the smallest call budget with which every Box3DLBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const Box3DLBFGSCentralTickMinimum = 336
+
+// Box3DLBFGSCentralSolver is a run of Box3DLBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Box3DLBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least Box3DLBFGSCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DLBFGSCentralRunning ends exactly as Box3DLBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Box3DLBFGSCentral and Box3DLBFGSCentralWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is Box3DLBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Box3DLBFGSCentralSolver struct {
+	run       box3DLBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Box3DLBFGSCentralLimits  // the limits of the runs; Box3DLBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Box3DLBFGSCentralSolver) SetLimits(limits Box3DLBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Box3DLBFGSCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Box3DLBFGSCentralSolver) StartFrom(from Box3DLBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Box3DLBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Box3DLBFGSCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = Box3DLBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, box3DLBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Box3DLBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Box3DLBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Box3DLBFGSCentralSolver) Advance(budget int) Box3DLBFGSCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Box3DLBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Box3DLBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	box3DLBFGSCentralStepInitial    = 1.0                    // step.initial
-	box3DLBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	box3DLBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	box3DLBFGSCentralLbfgsMemory    = 5                      // memory
-	box3DLBFGSCentralStepTrials     = 48                     // step.trials
-	box3DLBFGSCentralDerivativeCost = 6                      // objective calls per gradient
-	box3DLBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	box3DLBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	box3DLBFGSCentralStepInitial     = 1.0                    // step.initial
+	box3DLBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	box3DLBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	box3DLBFGSCentralLbfgsMemory     = 5                      // memory
+	box3DLBFGSCentralStepTrials      = 48                     // step.trials
+	box3DLBFGSCentralDerivativeCost  = 6                      // objective calls per gradient
+	box3DLBFGSCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	box3DLBFGSCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	box3DLBFGSCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	box3DLBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	box3DLBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // box3DLBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits, bounds box3DLBFGSCentralBox) box3DLBFGSCentralOutcome {
-	x := x0
-	box3DLBFGSCentralEnterBox(&x, &bounds)
-	out := box3DLBFGSCentralOutcome{x: x, status: Box3DLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Box3D(&x)
-	out.f, out.evaluations = fx, 1
-	if !box3DLBFGSCentralFinite(fx) || !box3DLBFGSCentralFiniteVec(&x) {
-		out.status = Box3DLBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := box3DLBFGSCentralDifferences{bounds: bounds}
-	calls, ok := box3DLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+box3DLBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += box3DLBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !box3DLBFGSCentralFiniteVec(&g) {
-		out.status = Box3DLBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir box3DLBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(box3DLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from box3DLBFGSCentralConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := box3DLBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != box3DLBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see box3DLBFGSCentralConfirmGradient and settle).
-			calls, ok := box3DLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == box3DLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DLBFGSCentralFiniteVec(&g) {
-				return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = box3DLBFGSCentralVerifyNothing, true
-		case !confirmed:
-			box3DLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := box3DLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, box3DLBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * box3DLBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (box3DLBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = Box3DLBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = box3DLBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if box3DLBFGSCentralDerivativeCost == 0 {
-				return best.ending(Box3DLBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if box3DLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = box3DLBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Box3DLBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			box3DLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Box3DLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		box3DLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := box3DLBFGSCentralDot(&g, &d)
-		if !(now < 0) || !box3DLBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			box3DLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = box3DLBFGSCentralDot(&g, &d)
-		}
-		first := float64(box3DLBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := box3DLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case box3DLBFGSCentralSearchOutOfBudget:
-			return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case box3DLBFGSCentralSearchDiverged:
-			return best.ending(Box3DLBFGSCentralDiverged, out.iterations, out.evaluations)
-		case box3DLBFGSCentralSearchExhausted, box3DLBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see box3DLBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Box3DLBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Box3DLBFGSCentralNoDecrease
-			case found.end == box3DLBFGSCentralSearchTiny && canSettle:
-				verify, stalled = box3DLBFGSCentralVerifyStall, true
-				continue
-			case found.end == box3DLBFGSCentralSearchTiny:
-				end = Box3DLBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !box3DLBFGSCentralFiniteVec(&xt) {
-			return best.ending(Box3DLBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+box3DLBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += box3DLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		box3DLBFGSCentralDifference(&s, &xt, &x)
-		box3DLBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !box3DLBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r box3DLBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(box3DLBFGSCentralUnlimited)
 }
 
 // box3DLBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o box3DLBFGSCentralOutcome) ending(end Box3DLBFGSCentralStatus, iterations
 	return o
 }
 
+// box3DLBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type box3DLBFGSCentralDescent struct {
+	lim       Box3DLBFGSCentralLimits
+	stage     int                          // what advance does next
+	diffs     box3DLBFGSCentralDifferences // the box and the difference intervals
+	dir       box3DLBFGSCentralDirection   // the direction's memory
+	x, g, e   [3]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best box3DLBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from box3DLBFGSCentralConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *box3DLBFGSCentralDescent) prepare(x0 [3]float64, lim Box3DLBFGSCentralLimits, bounds box3DLBFGSCentralBox) {
+	r.lim, r.stage = lim, box3DLBFGSCentralStageBegin
+	r.diffs = box3DLBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	box3DLBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = box3DLBFGSCentralOutcome{x: r.x, f: math.NaN(), status: Box3DLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *box3DLBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Box3DLBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, box3DLBFGSCentralSettleCalls and box3DLBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *box3DLBFGSCentralDescent) advance(budget int) box3DLBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != box3DLBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case box3DLBFGSCentralStageBegin:
+			if left < 1+box3DLBFGSCentralCalibrationCost+box3DLBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case box3DLBFGSCentralStageJudge:
+			if r.verify != box3DLBFGSCentralVerifyNothing && left < box3DLBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < box3DLBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *box3DLBFGSCentralDescent) paused() box3DLBFGSCentralOutcome {
+	return r.best.ending(Box3DLBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *box3DLBFGSCentralDescent) finish(end Box3DLBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = box3DLBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *box3DLBFGSCentralDescent) begin() {
+	r.stage = box3DLBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !box3DLBFGSCentralFinite(r.fx) || !box3DLBFGSCentralFiniteVec(&r.x) {
+		r.out.status = Box3DLBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := box3DLBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+box3DLBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += box3DLBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !box3DLBFGSCentralFiniteVec(&r.g) {
+		r.out.status = Box3DLBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = box3DLBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, box3DLBFGSCentralVerifyNothing
+	r.stage = box3DLBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves box3DLBFGSCentralStageSearch next when the run goes on.
+func (r *box3DLBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != box3DLBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see box3DLBFGSCentralConfirmGradient and settle).
+		calls, ok := box3DLBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == box3DLBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Box3DLBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !box3DLBFGSCentralFiniteVec(&r.g) {
+			r.finish(Box3DLBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = box3DLBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		box3DLBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := box3DLBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, box3DLBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * box3DLBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (box3DLBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Box3DLBFGSCentralGradientSmall
+		r.stage = box3DLBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = box3DLBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if box3DLBFGSCentralDerivativeCost == 0 {
+			r.finish(Box3DLBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if box3DLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = box3DLBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Box3DLBFGSCentralDiverged)
+			return
+		}
+		box3DLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Box3DLBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = box3DLBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves box3DLBFGSCentralStageJudge next when the run
+// goes on.
+func (r *box3DLBFGSCentralDescent) search() {
+	box3DLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := box3DLBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !box3DLBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		box3DLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = box3DLBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(box3DLBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := box3DLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := box3DLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case box3DLBFGSCentralSearchOutOfBudget:
+		r.finish(Box3DLBFGSCentralOutOfEvaluations)
+		return
+	case box3DLBFGSCentralSearchDiverged:
+		r.finish(Box3DLBFGSCentralDiverged)
+		return
+	case box3DLBFGSCentralSearchExhausted, box3DLBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see box3DLBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Box3DLBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Box3DLBFGSCentralNoDecrease
+		case found.end == box3DLBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = box3DLBFGSCentralVerifyStall, true, box3DLBFGSCentralStageJudge
+			return
+		case found.end == box3DLBFGSCentralSearchTiny:
+			end = Box3DLBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !box3DLBFGSCentralFiniteVec(&xt) {
+		r.finish(Box3DLBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+box3DLBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Box3DLBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += box3DLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	box3DLBFGSCentralDifference(&r.s, &xt, &r.x)
+	box3DLBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !box3DLBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Box3DLBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = box3DLBFGSCentralStageJudge
+}
+
+// box3DLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type box3DLBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSCentralRoundingFloor)
+	bounds    box3DLBFGSCentralBox
+}
+
+// box3DLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last box3DLBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, box3DLBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type box3DLBFGSCentralDirection struct {
+	s, y   [box3DLBFGSCentralLbfgsMemory][3]float64
+	rho    [box3DLBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most box3DLBFGSCentralLbfgsMemory
+}
+
+func (s *box3DLBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *box3DLBFGSCentralDirection) compute(g, d *[3]float64) {
+	var alpha [box3DLBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * box3DLBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = box3DLBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := box3DLBFGSCentralDot(&s.s[newest], &s.y[newest]) / box3DLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == box3DLBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * box3DLBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	box3DLBFGSCentralNegate(d, &q)
+}
+
+func (s *box3DLBFGSCentralDirection) update(step, change *[3]float64) {
+	if !box3DLBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == box3DLBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < box3DLBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / box3DLBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *box3DLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// box3DLBFGSCentralDot returns aᵀb.
+func box3DLBFGSCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// box3DLBFGSCentralNegate sets out = −x.
+func box3DLBFGSCentralNegate(out, x *[3]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// box3DLBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
+	sy := box3DLBFGSCentralDot(s, y)
+	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	box3DLBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	box3DLBFGSCentralStageJudge         // settle when asked (box3DLBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	box3DLBFGSCentralStageSearch        // the line search and the gradient at the accepted point: box3DLBFGSCentralIterationCalls
+	box3DLBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // box3DLBFGSCentralEnterBox: without bounds every start is inside.
 func box3DLBFGSCentralEnterBox(x *[3]float64, b *box3DLBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	box3DLBFGSCentralVerifyNothing = iota
+	box3DLBFGSCentralVerifyPass    // a difference gradient passed the test
+	box3DLBFGSCentralVerifyStall   // no step makes progress
+)
 
 // box3DLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func box3DLBFGSCentralFiniteVec(x *[3]float64) bool {
 		}
 	}
 	return true
-}
-
-// box3DLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type box3DLBFGSCentralDifferences struct {
-	ratio     [3]float64
-	curvature [3]float64
-	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSCentralRoundingFloor)
-	bounds    box3DLBFGSCentralBox
 }
 
 // box3DLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func box3DLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64)
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// box3DLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last box3DLBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, box3DLBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type box3DLBFGSCentralDirection struct {
-	s, y   [box3DLBFGSCentralLbfgsMemory][3]float64
-	rho    [box3DLBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most box3DLBFGSCentralLbfgsMemory
-}
-
-func (s *box3DLBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *box3DLBFGSCentralDirection) compute(g, d *[3]float64) {
-	var alpha [box3DLBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * box3DLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = box3DLBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := box3DLBFGSCentralDot(&s.s[newest], &s.y[newest]) / box3DLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == box3DLBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * box3DLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	box3DLBFGSCentralNegate(d, &q)
-}
-
-func (s *box3DLBFGSCentralDirection) update(step, change *[3]float64) {
-	if !box3DLBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == box3DLBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < box3DLBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / box3DLBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *box3DLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// box3DLBFGSCentralDot returns aᵀb.
-func box3DLBFGSCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// box3DLBFGSCentralNegate sets out = −x.
-func box3DLBFGSCentralNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// box3DLBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := box3DLBFGSCentralDot(s, y)
-	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	box3DLBFGSCentralVerifyNothing = iota
-	box3DLBFGSCentralVerifyPass    // a difference gradient passed the test
-	box3DLBFGSCentralVerifyStall   // no step makes progress
-)
 
 // box3DLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (box3DLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func box3DLBFGSCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// box3DLBFGSCentralUnlimited is a tick budget that never pauses a run.
+const box3DLBFGSCentralUnlimited = int(^uint(0) >> 1)

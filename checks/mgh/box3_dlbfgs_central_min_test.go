@@ -47,6 +47,55 @@ func TestBox3DLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBox3DLBFGSCentralSolverTicks advances a Box3DLBFGSCentralSolver from the spec's start with budgets of Box3DLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Box3DLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBox3DLBFGSCentralSolverTicks(t *testing.T) {
+	want := Box3DLBFGSCentral(box3DLBFGSCentralTestStart())
+	for _, budget := range []int{Box3DLBFGSCentralTickMinimum, Box3DLBFGSCentralTickMinimum + 1, 2 * Box3DLBFGSCentralTickMinimum, 7 * Box3DLBFGSCentralTickMinimum} {
+		var s Box3DLBFGSCentralSolver
+		s.Start(box3DLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Box3DLBFGSCentralRunning {
+				if !box3DLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Box3DLBFGSCentralSolver
+	s.Start(box3DLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != Box3DLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBox3DLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBox3DLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s Box3DLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(box3DLBFGSCentralTestStart())
+		for s.Advance(Box3DLBFGSCentralTickMinimum).Status == Box3DLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// box3DLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func box3DLBFGSCentralTestSameResult(a, b Box3DLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBox3DLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBox3DLBFGSCentral(b *testing.B) {
 	var r Box3DLBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	BrownBadlyScaledBFGSAnalyticNoDecrease
 	// BrownBadlyScaledBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownBadlyScaledBFGSAnalyticDiverged
+	// BrownBadlyScaledBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownBadlyScaledBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownBadlyScaledBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BrownBadlyScaledBFGSAnalyticDiverged:
 		return "diverged"
+	case BrownBadlyScaledBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BrownBadlyScaledBFGSAnalyticWithLimits(x0 [2]float64, limits BrownBadlyScal
 	}
 }
 
+// BrownBadlyScaledBFGSAnalyticTickMinimum is the smallest call budget with which every BrownBadlyScaledBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BrownBadlyScaledBFGSAnalyticTickMinimum = 48
+
+// BrownBadlyScaledBFGSAnalyticSolver is a run of BrownBadlyScaledBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownBadlyScaledBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BrownBadlyScaledBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownBadlyScaledBFGSAnalyticRunning ends exactly as BrownBadlyScaledBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownBadlyScaledBFGSAnalytic and BrownBadlyScaledBFGSAnalyticWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is BrownBadlyScaledBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownBadlyScaledBFGSAnalyticSolver struct {
+	run       brownBadlyScaledBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownBadlyScaledBFGSAnalyticLimits  // the limits of the runs; BrownBadlyScaledBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                                // whether SetLimits has set limits
+	started   bool                                // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownBadlyScaledBFGSAnalyticSolver) SetLimits(limits BrownBadlyScaledBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownBadlyScaledBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BrownBadlyScaledBFGSAnalyticSolver) StartFrom(from BrownBadlyScaledBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownBadlyScaledBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownBadlyScaledBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = BrownBadlyScaledBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownBadlyScaledBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownBadlyScaledBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownBadlyScaledBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownBadlyScaledBFGSAnalyticSolver) Advance(budget int) BrownBadlyScaledBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownBadlyScaledBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownBadlyScaledBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	brownBadlyScaledBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	brownBadlyScaledBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownBadlyScaledBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	brownBadlyScaledBFGSAnalyticStepTrials     = 48                     // step.trials
-	brownBadlyScaledBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	brownBadlyScaledBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownBadlyScaledBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownBadlyScaledBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	brownBadlyScaledBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownBadlyScaledBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	brownBadlyScaledBFGSAnalyticStepTrials      = 48                     // step.trials
+	brownBadlyScaledBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	brownBadlyScaledBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	brownBadlyScaledBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	brownBadlyScaledBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownBadlyScaledBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownBadlyScaledBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownBadlyScaledBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFGSAnalyticLimits, bounds brownBadlyScaledBFGSAnalyticBox) brownBadlyScaledBFGSAnalyticOutcome {
-	x := x0
-	brownBadlyScaledBFGSAnalyticEnterBox(&x, &bounds)
-	out := brownBadlyScaledBFGSAnalyticOutcome{x: x, status: BrownBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownBadlyScaledBFGSAnalyticFinite(fx) || !brownBadlyScaledBFGSAnalyticFiniteVec(&x) {
-		out.status = BrownBadlyScaledBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := brownBadlyScaledBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := brownBadlyScaledBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownBadlyScaledBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
-		out.status = BrownBadlyScaledBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir brownBadlyScaledBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(brownBadlyScaledBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                              // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                       // whether g and e at x come from brownBadlyScaledBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                         // whether the run can make no more progress at x
-	retried := -1                                                            // the iteration whose stall was retried with recalibrated differences
-	verify := brownBadlyScaledBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownBadlyScaledBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownBadlyScaledBFGSAnalyticConfirmGradient and settle).
-			calls, ok := brownBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownBadlyScaledBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			brownBadlyScaledBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownBadlyScaledBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownBadlyScaledBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownBadlyScaledBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownBadlyScaledBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BrownBadlyScaledBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownBadlyScaledBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownBadlyScaledBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BrownBadlyScaledBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownBadlyScaledBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownBadlyScaledBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownBadlyScaledBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			brownBadlyScaledBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownBadlyScaledBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownBadlyScaledBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !brownBadlyScaledBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownBadlyScaledBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(brownBadlyScaledBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownBadlyScaledBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownBadlyScaledBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case brownBadlyScaledBFGSAnalyticSearchDiverged:
-			return best.ending(BrownBadlyScaledBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case brownBadlyScaledBFGSAnalyticSearchExhausted, brownBadlyScaledBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownBadlyScaledBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownBadlyScaledBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownBadlyScaledBFGSAnalyticNoDecrease
-			case found.end == brownBadlyScaledBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = brownBadlyScaledBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == brownBadlyScaledBFGSAnalyticSearchTiny:
-				end = BrownBadlyScaledBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownBadlyScaledBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BrownBadlyScaledBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownBadlyScaledBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownBadlyScaledBFGSAnalyticDifference(&s, &xt, &x)
-		brownBadlyScaledBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownBadlyScaledBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownBadlyScaledBFGSAnalyticUnlimited)
 }
 
 // brownBadlyScaledBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o brownBadlyScaledBFGSAnalyticOutcome) ending(end BrownBadlyScaledBFGSAnal
 	return o
 }
 
-// brownBadlyScaledBFGSAnalyticEnterBox: without bounds every start is inside.
-func brownBadlyScaledBFGSAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {}
-
-// brownBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownBadlyScaledBFGSAnalyticFinite(v float64) bool {
-	return v >= -brownBadlyScaledBFGSAnalyticLargestFinite && v <= brownBadlyScaledBFGSAnalyticLargestFinite
+// brownBadlyScaledBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownBadlyScaledBFGSAnalyticDescent struct {
+	lim       BrownBadlyScaledBFGSAnalyticLimits
+	stage     int                                     // what advance does next
+	diffs     brownBadlyScaledBFGSAnalyticDifferences // the box and the difference intervals
+	dir       brownBadlyScaledBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                              // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                              // the search direction, the last step and its gradient change
+	fx        float64                                 // f(x)
+	t, slope  float64                                 // the previous iteration's accepted step and slope
+	out, best brownBadlyScaledBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                 // f(x0)
+	rises     int                                     // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                    // whether g and e at x come from brownBadlyScaledBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                    // whether the run can make no more progress at x
+	retried   int                                     // the iteration whose stall was retried with recalibrated differences
+	verify    int                                     // what to check at x before judging it again
 }
 
-// brownBadlyScaledBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func brownBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownBadlyScaledBFGSAnalyticDescent) prepare(x0 [2]float64, lim BrownBadlyScaledBFGSAnalyticLimits, bounds brownBadlyScaledBFGSAnalyticBox) {
+	r.lim, r.stage = lim, brownBadlyScaledBFGSAnalyticStageBegin
+	r.diffs = brownBadlyScaledBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	brownBadlyScaledBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = brownBadlyScaledBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BrownBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownBadlyScaledBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownBadlyScaledBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownBadlyScaledBFGSAnalyticSettleCalls and brownBadlyScaledBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownBadlyScaledBFGSAnalyticDescent) advance(budget int) brownBadlyScaledBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != brownBadlyScaledBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownBadlyScaledBFGSAnalyticStageBegin:
+			if left < 1+brownBadlyScaledBFGSAnalyticCalibrationCost+brownBadlyScaledBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownBadlyScaledBFGSAnalyticStageJudge:
+			if r.verify != brownBadlyScaledBFGSAnalyticVerifyNothing && left < brownBadlyScaledBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownBadlyScaledBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownBadlyScaledBFGSAnalyticDescent) paused() brownBadlyScaledBFGSAnalyticOutcome {
+	return r.best.ending(BrownBadlyScaledBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownBadlyScaledBFGSAnalyticDescent) finish(end BrownBadlyScaledBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownBadlyScaledBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownBadlyScaledBFGSAnalyticDescent) begin() {
+	r.stage = brownBadlyScaledBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownBadlyScaledBFGSAnalyticFinite(r.fx) || !brownBadlyScaledBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BrownBadlyScaledBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := brownBadlyScaledBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownBadlyScaledBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownBadlyScaledBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BrownBadlyScaledBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownBadlyScaledBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownBadlyScaledBFGSAnalyticVerifyNothing
+	r.stage = brownBadlyScaledBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownBadlyScaledBFGSAnalyticStageSearch next when the run goes on.
+func (r *brownBadlyScaledBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != brownBadlyScaledBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownBadlyScaledBFGSAnalyticConfirmGradient and settle).
+		calls, ok := brownBadlyScaledBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownBadlyScaledBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownBadlyScaledBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !brownBadlyScaledBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BrownBadlyScaledBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownBadlyScaledBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		brownBadlyScaledBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownBadlyScaledBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownBadlyScaledBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownBadlyScaledBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownBadlyScaledBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownBadlyScaledBFGSAnalyticGradientSmall
+		r.stage = brownBadlyScaledBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownBadlyScaledBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownBadlyScaledBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BrownBadlyScaledBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownBadlyScaledBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownBadlyScaledBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownBadlyScaledBFGSAnalyticDiverged)
+			return
+		}
+		brownBadlyScaledBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownBadlyScaledBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = brownBadlyScaledBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownBadlyScaledBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
+	brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !brownBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(brownBadlyScaledBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := brownBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownBadlyScaledBFGSAnalyticSearchOutOfBudget:
+		r.finish(BrownBadlyScaledBFGSAnalyticOutOfEvaluations)
+		return
+	case brownBadlyScaledBFGSAnalyticSearchDiverged:
+		r.finish(BrownBadlyScaledBFGSAnalyticDiverged)
+		return
+	case brownBadlyScaledBFGSAnalyticSearchExhausted, brownBadlyScaledBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownBadlyScaledBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownBadlyScaledBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownBadlyScaledBFGSAnalyticNoDecrease
+		case found.end == brownBadlyScaledBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownBadlyScaledBFGSAnalyticVerifyStall, true, brownBadlyScaledBFGSAnalyticStageJudge
+			return
+		case found.end == brownBadlyScaledBFGSAnalyticSearchTiny:
+			end = BrownBadlyScaledBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownBadlyScaledBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BrownBadlyScaledBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownBadlyScaledBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownBadlyScaledBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownBadlyScaledBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	brownBadlyScaledBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownBadlyScaledBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownBadlyScaledBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = brownBadlyScaledBFGSAnalyticStageJudge
 }
 
 // brownBadlyScaledBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type brownBadlyScaledBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSAnalyticRoundingFloor)
 	bounds    brownBadlyScaledBFGSAnalyticBox
-}
-
-// brownBadlyScaledBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func brownBadlyScaledBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// brownBadlyScaledBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) int {
-	BrownBadlyScaledGrad(x, g)
-	return 0
 }
 
 // brownBadlyScaledBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func brownBadlyScaledBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledBFGSAnalyticDot(y, y)) > brownBadlyScaledBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownBadlyScaledBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownBadlyScaledBFGSAnalyticStageJudge         // settle when asked (brownBadlyScaledBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	brownBadlyScaledBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: brownBadlyScaledBFGSAnalyticIterationCalls
+	brownBadlyScaledBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// brownBadlyScaledBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownBadlyScaledBFGSAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	brownBadlyScaledBFGSAnalyticVerifyNothing = iota
 	brownBadlyScaledBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownBadlyScaledBFGSAnalyticFinite(v float64) bool {
+	return v >= -brownBadlyScaledBFGSAnalyticLargestFinite && v <= brownBadlyScaledBFGSAnalyticLargestFinite
+}
+
+// brownBadlyScaledBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func brownBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !brownBadlyScaledBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownBadlyScaledBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownBadlyScaledBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// brownBadlyScaledBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func brownBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) int {
+	BrownBadlyScaledGrad(x, g)
+	return 0
+}
 
 // brownBadlyScaledBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownBadlyScaledBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1001,3 +1195,6 @@ func brownBadlyScaledBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownBadlyScaledBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const brownBadlyScaledBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestBrownBadlyScaledBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBrownBadlyScaledBFGSAnalyticSolverTicks advances a BrownBadlyScaledBFGSAnalyticSolver from the spec's start with budgets of BrownBadlyScaledBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownBadlyScaledBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownBadlyScaledBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BrownBadlyScaledBFGSAnalytic(brownBadlyScaledBFGSAnalyticTestStart())
+	for _, budget := range []int{BrownBadlyScaledBFGSAnalyticTickMinimum, BrownBadlyScaledBFGSAnalyticTickMinimum + 1, 2 * BrownBadlyScaledBFGSAnalyticTickMinimum, 7 * BrownBadlyScaledBFGSAnalyticTickMinimum} {
+		var s BrownBadlyScaledBFGSAnalyticSolver
+		s.Start(brownBadlyScaledBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownBadlyScaledBFGSAnalyticRunning {
+				if !brownBadlyScaledBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownBadlyScaledBFGSAnalyticSolver
+	s.Start(brownBadlyScaledBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BrownBadlyScaledBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownBadlyScaledBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownBadlyScaledBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BrownBadlyScaledBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownBadlyScaledBFGSAnalyticTestStart())
+		for s.Advance(BrownBadlyScaledBFGSAnalyticTickMinimum).Status == BrownBadlyScaledBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownBadlyScaledBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownBadlyScaledBFGSAnalyticTestSameResult(a, b BrownBadlyScaledBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownBadlyScaledBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBrownBadlyScaledBFGSAnalytic(b *testing.B) {
 	var r BrownBadlyScaledBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	BrownBadlyScaledBFGSCentralNoDecrease
 	// BrownBadlyScaledBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownBadlyScaledBFGSCentralDiverged
+	// BrownBadlyScaledBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownBadlyScaledBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownBadlyScaledBFGSCentralStatus) String() string {
 		return "no decrease"
 	case BrownBadlyScaledBFGSCentralDiverged:
 		return "diverged"
+	case BrownBadlyScaledBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BrownBadlyScaledBFGSCentralWithLimits(x0 [2]float64, limits BrownBadlyScale
 	}
 }
 
+// BrownBadlyScaledBFGSCentralTickMinimum is the smallest call budget with which every BrownBadlyScaledBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 13 calls, an iteration 240, confirming a difference gradient 16).
+const BrownBadlyScaledBFGSCentralTickMinimum = 240
+
+// BrownBadlyScaledBFGSCentralSolver is a run of BrownBadlyScaledBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownBadlyScaledBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 13 calls, an iteration 240, confirming a difference gradient 16. A budget of at least BrownBadlyScaledBFGSCentralTickMinimum = 240 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownBadlyScaledBFGSCentralRunning ends exactly as BrownBadlyScaledBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownBadlyScaledBFGSCentral and BrownBadlyScaledBFGSCentralWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is BrownBadlyScaledBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownBadlyScaledBFGSCentralSolver struct {
+	run       brownBadlyScaledBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownBadlyScaledBFGSCentralLimits  // the limits of the runs; BrownBadlyScaledBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                               // whether SetLimits has set limits
+	started   bool                               // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownBadlyScaledBFGSCentralSolver) SetLimits(limits BrownBadlyScaledBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownBadlyScaledBFGSCentralSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *BrownBadlyScaledBFGSCentralSolver) StartFrom(from BrownBadlyScaledBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownBadlyScaledBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownBadlyScaledBFGSCentralSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = BrownBadlyScaledBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownBadlyScaledBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownBadlyScaledBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownBadlyScaledBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownBadlyScaledBFGSCentralSolver) Advance(budget int) BrownBadlyScaledBFGSCentralResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownBadlyScaledBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownBadlyScaledBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	brownBadlyScaledBFGSCentralStepInitial    = 1.0                    // step.initial
-	brownBadlyScaledBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownBadlyScaledBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	brownBadlyScaledBFGSCentralStepTrials     = 48                     // step.trials
-	brownBadlyScaledBFGSCentralDerivativeCost = 4                      // objective calls per gradient
-	brownBadlyScaledBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownBadlyScaledBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownBadlyScaledBFGSCentralStepInitial     = 1.0                    // step.initial
+	brownBadlyScaledBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownBadlyScaledBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	brownBadlyScaledBFGSCentralStepTrials      = 48                     // step.trials
+	brownBadlyScaledBFGSCentralDerivativeCost  = 4                      // objective calls per gradient
+	brownBadlyScaledBFGSCentralCalibrationCost = 8                      // objective calls of choosing the difference intervals
+	brownBadlyScaledBFGSCentralIterationCalls  = 240                    // most objective calls of one line search with the gradient at its step
+	brownBadlyScaledBFGSCentralSettleCalls     = 16                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownBadlyScaledBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownBadlyScaledBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownBadlyScaledBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGSCentralLimits, bounds brownBadlyScaledBFGSCentralBox) brownBadlyScaledBFGSCentralOutcome {
-	x := x0
-	brownBadlyScaledBFGSCentralEnterBox(&x, &bounds)
-	out := brownBadlyScaledBFGSCentralOutcome{x: x, status: BrownBadlyScaledBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownBadlyScaledBFGSCentralFinite(fx) || !brownBadlyScaledBFGSCentralFiniteVec(&x) {
-		out.status = BrownBadlyScaledBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := brownBadlyScaledBFGSCentralDifferences{bounds: bounds}
-	calls, ok := brownBadlyScaledBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownBadlyScaledBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += brownBadlyScaledBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
-		out.status = BrownBadlyScaledBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir brownBadlyScaledBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(brownBadlyScaledBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                             // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from brownBadlyScaledBFGSCentralConfirmGradient or settle
-	stalled := false                                                        // whether the run can make no more progress at x
-	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
-	verify := brownBadlyScaledBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownBadlyScaledBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownBadlyScaledBFGSCentralConfirmGradient and settle).
-			calls, ok := brownBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownBadlyScaledBFGSCentralVerifyNothing, true
-		case !confirmed:
-			brownBadlyScaledBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownBadlyScaledBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownBadlyScaledBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownBadlyScaledBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownBadlyScaledBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = BrownBadlyScaledBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownBadlyScaledBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownBadlyScaledBFGSCentralDerivativeCost == 0 {
-				return best.ending(BrownBadlyScaledBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownBadlyScaledBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownBadlyScaledBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownBadlyScaledBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			brownBadlyScaledBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownBadlyScaledBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownBadlyScaledBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownBadlyScaledBFGSCentralDot(&g, &d)
-		if !(now < 0) || !brownBadlyScaledBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownBadlyScaledBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownBadlyScaledBFGSCentralDot(&g, &d)
-		}
-		first := float64(brownBadlyScaledBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownBadlyScaledBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownBadlyScaledBFGSCentralSearchOutOfBudget:
-			return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case brownBadlyScaledBFGSCentralSearchDiverged:
-			return best.ending(BrownBadlyScaledBFGSCentralDiverged, out.iterations, out.evaluations)
-		case brownBadlyScaledBFGSCentralSearchExhausted, brownBadlyScaledBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownBadlyScaledBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownBadlyScaledBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownBadlyScaledBFGSCentralNoDecrease
-			case found.end == brownBadlyScaledBFGSCentralSearchTiny && canSettle:
-				verify, stalled = brownBadlyScaledBFGSCentralVerifyStall, true
-				continue
-			case found.end == brownBadlyScaledBFGSCentralSearchTiny:
-				end = BrownBadlyScaledBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownBadlyScaledBFGSCentralFiniteVec(&xt) {
-			return best.ending(BrownBadlyScaledBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownBadlyScaledBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownBadlyScaledBFGSCentralDifference(&s, &xt, &x)
-		brownBadlyScaledBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownBadlyScaledBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownBadlyScaledBFGSCentralUnlimited)
 }
 
 // brownBadlyScaledBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o brownBadlyScaledBFGSCentralOutcome) ending(end BrownBadlyScaledBFGSCentr
 	return o
 }
 
+// brownBadlyScaledBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownBadlyScaledBFGSCentralDescent struct {
+	lim       BrownBadlyScaledBFGSCentralLimits
+	stage     int                                    // what advance does next
+	diffs     brownBadlyScaledBFGSCentralDifferences // the box and the difference intervals
+	dir       brownBadlyScaledBFGSCentralDirection   // the direction's memory
+	x, g, e   [2]float64                             // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                             // the search direction, the last step and its gradient change
+	fx        float64                                // f(x)
+	t, slope  float64                                // the previous iteration's accepted step and slope
+	out, best brownBadlyScaledBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                // f(x0)
+	rises     int                                    // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                   // whether g and e at x come from brownBadlyScaledBFGSCentralConfirmGradient or settle
+	stalled   bool                                   // whether the run can make no more progress at x
+	retried   int                                    // the iteration whose stall was retried with recalibrated differences
+	verify    int                                    // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownBadlyScaledBFGSCentralDescent) prepare(x0 [2]float64, lim BrownBadlyScaledBFGSCentralLimits, bounds brownBadlyScaledBFGSCentralBox) {
+	r.lim, r.stage = lim, brownBadlyScaledBFGSCentralStageBegin
+	r.diffs = brownBadlyScaledBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	brownBadlyScaledBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = brownBadlyScaledBFGSCentralOutcome{x: r.x, f: math.NaN(), status: BrownBadlyScaledBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownBadlyScaledBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownBadlyScaledBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownBadlyScaledBFGSCentralSettleCalls and brownBadlyScaledBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownBadlyScaledBFGSCentralDescent) advance(budget int) brownBadlyScaledBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != brownBadlyScaledBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownBadlyScaledBFGSCentralStageBegin:
+			if left < 1+brownBadlyScaledBFGSCentralCalibrationCost+brownBadlyScaledBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownBadlyScaledBFGSCentralStageJudge:
+			if r.verify != brownBadlyScaledBFGSCentralVerifyNothing && left < brownBadlyScaledBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownBadlyScaledBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownBadlyScaledBFGSCentralDescent) paused() brownBadlyScaledBFGSCentralOutcome {
+	return r.best.ending(BrownBadlyScaledBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownBadlyScaledBFGSCentralDescent) finish(end BrownBadlyScaledBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownBadlyScaledBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownBadlyScaledBFGSCentralDescent) begin() {
+	r.stage = brownBadlyScaledBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownBadlyScaledBFGSCentralFinite(r.fx) || !brownBadlyScaledBFGSCentralFiniteVec(&r.x) {
+		r.out.status = BrownBadlyScaledBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := brownBadlyScaledBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownBadlyScaledBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownBadlyScaledBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownBadlyScaledBFGSCentralFiniteVec(&r.g) {
+		r.out.status = BrownBadlyScaledBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownBadlyScaledBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownBadlyScaledBFGSCentralVerifyNothing
+	r.stage = brownBadlyScaledBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownBadlyScaledBFGSCentralStageSearch next when the run goes on.
+func (r *brownBadlyScaledBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != brownBadlyScaledBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownBadlyScaledBFGSCentralConfirmGradient and settle).
+		calls, ok := brownBadlyScaledBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownBadlyScaledBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownBadlyScaledBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !brownBadlyScaledBFGSCentralFiniteVec(&r.g) {
+			r.finish(BrownBadlyScaledBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownBadlyScaledBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		brownBadlyScaledBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownBadlyScaledBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownBadlyScaledBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownBadlyScaledBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownBadlyScaledBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownBadlyScaledBFGSCentralGradientSmall
+		r.stage = brownBadlyScaledBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownBadlyScaledBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownBadlyScaledBFGSCentralDerivativeCost == 0 {
+			r.finish(BrownBadlyScaledBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownBadlyScaledBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownBadlyScaledBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownBadlyScaledBFGSCentralDiverged)
+			return
+		}
+		brownBadlyScaledBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownBadlyScaledBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = brownBadlyScaledBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownBadlyScaledBFGSCentralStageJudge next when the run
+// goes on.
+func (r *brownBadlyScaledBFGSCentralDescent) search() {
+	brownBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownBadlyScaledBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !brownBadlyScaledBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownBadlyScaledBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(brownBadlyScaledBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownBadlyScaledBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := brownBadlyScaledBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownBadlyScaledBFGSCentralSearchOutOfBudget:
+		r.finish(BrownBadlyScaledBFGSCentralOutOfEvaluations)
+		return
+	case brownBadlyScaledBFGSCentralSearchDiverged:
+		r.finish(BrownBadlyScaledBFGSCentralDiverged)
+		return
+	case brownBadlyScaledBFGSCentralSearchExhausted, brownBadlyScaledBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownBadlyScaledBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownBadlyScaledBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownBadlyScaledBFGSCentralNoDecrease
+		case found.end == brownBadlyScaledBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownBadlyScaledBFGSCentralVerifyStall, true, brownBadlyScaledBFGSCentralStageJudge
+			return
+		case found.end == brownBadlyScaledBFGSCentralSearchTiny:
+			end = BrownBadlyScaledBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownBadlyScaledBFGSCentralFiniteVec(&xt) {
+		r.finish(BrownBadlyScaledBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownBadlyScaledBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownBadlyScaledBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownBadlyScaledBFGSCentralDifference(&r.s, &xt, &r.x)
+	brownBadlyScaledBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownBadlyScaledBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownBadlyScaledBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = brownBadlyScaledBFGSCentralStageJudge
+}
+
+// brownBadlyScaledBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type brownBadlyScaledBFGSCentralDifferences struct {
+	ratio     [2]float64
+	curvature [2]float64
+	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSCentralRoundingFloor)
+	bounds    brownBadlyScaledBFGSCentralBox
+}
+
+// brownBadlyScaledBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type brownBadlyScaledBFGSCentralDirection struct {
+	h      [2][2]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *brownBadlyScaledBFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *brownBadlyScaledBFGSCentralDirection) compute(g, d *[2]float64) {
+	for i := range s.h {
+		d[i] = -brownBadlyScaledBFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *brownBadlyScaledBFGSCentralDirection) update(step, change *[2]float64) {
+	if !brownBadlyScaledBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := brownBadlyScaledBFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / brownBadlyScaledBFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [2]float64
+	for i := range s.h {
+		hy[i] = brownBadlyScaledBFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*brownBadlyScaledBFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *brownBadlyScaledBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// brownBadlyScaledBFGSCentralDot returns aᵀb.
+func brownBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// brownBadlyScaledBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func brownBadlyScaledBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
+	sy := brownBadlyScaledBFGSCentralDot(s, y)
+	return sy > 0 && (sy/brownBadlyScaledBFGSCentralDot(s, s))*(sy/brownBadlyScaledBFGSCentralDot(y, y)) > brownBadlyScaledBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownBadlyScaledBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownBadlyScaledBFGSCentralStageJudge         // settle when asked (brownBadlyScaledBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	brownBadlyScaledBFGSCentralStageSearch        // the line search and the gradient at the accepted point: brownBadlyScaledBFGSCentralIterationCalls
+	brownBadlyScaledBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // brownBadlyScaledBFGSCentralEnterBox: without bounds every start is inside.
 func brownBadlyScaledBFGSCentralEnterBox(x *[2]float64, b *brownBadlyScaledBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledBFGSCentralVerifyNothing = iota
+	brownBadlyScaledBFGSCentralVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledBFGSCentralVerifyStall   // no step makes progress
+)
 
 // brownBadlyScaledBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func brownBadlyScaledBFGSCentralFiniteVec(x *[2]float64) bool {
 		}
 	}
 	return true
-}
-
-// brownBadlyScaledBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type brownBadlyScaledBFGSCentralDifferences struct {
-	ratio     [2]float64
-	curvature [2]float64
-	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSCentralRoundingFloor)
-	bounds    brownBadlyScaledBFGSCentralBox
 }
 
 // brownBadlyScaledBFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func brownBadlyScaledBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, secon
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// brownBadlyScaledBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type brownBadlyScaledBFGSCentralDirection struct {
-	h      [2][2]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *brownBadlyScaledBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *brownBadlyScaledBFGSCentralDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -brownBadlyScaledBFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *brownBadlyScaledBFGSCentralDirection) update(step, change *[2]float64) {
-	if !brownBadlyScaledBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := brownBadlyScaledBFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / brownBadlyScaledBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [2]float64
-	for i := range s.h {
-		hy[i] = brownBadlyScaledBFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*brownBadlyScaledBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *brownBadlyScaledBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// brownBadlyScaledBFGSCentralDot returns aᵀb.
-func brownBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// brownBadlyScaledBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func brownBadlyScaledBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
-	sy := brownBadlyScaledBFGSCentralDot(s, y)
-	return sy > 0 && (sy/brownBadlyScaledBFGSCentralDot(s, s))*(sy/brownBadlyScaledBFGSCentralDot(y, y)) > brownBadlyScaledBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	brownBadlyScaledBFGSCentralVerifyNothing = iota
-	brownBadlyScaledBFGSCentralVerifyPass    // a difference gradient passed the test
-	brownBadlyScaledBFGSCentralVerifyStall   // no step makes progress
-)
 
 // brownBadlyScaledBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownBadlyScaledBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1180,3 +1374,6 @@ func brownBadlyScaledBFGSCentralDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownBadlyScaledBFGSCentralUnlimited is a tick budget that never pauses a run.
+const brownBadlyScaledBFGSCentralUnlimited = int(^uint(0) >> 1)

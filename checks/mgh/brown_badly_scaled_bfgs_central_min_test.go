@@ -47,6 +47,55 @@ func TestBrownBadlyScaledBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBrownBadlyScaledBFGSCentralSolverTicks advances a BrownBadlyScaledBFGSCentralSolver from the spec's start with budgets of BrownBadlyScaledBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownBadlyScaledBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownBadlyScaledBFGSCentralSolverTicks(t *testing.T) {
+	want := BrownBadlyScaledBFGSCentral(brownBadlyScaledBFGSCentralTestStart())
+	for _, budget := range []int{BrownBadlyScaledBFGSCentralTickMinimum, BrownBadlyScaledBFGSCentralTickMinimum + 1, 2 * BrownBadlyScaledBFGSCentralTickMinimum, 7 * BrownBadlyScaledBFGSCentralTickMinimum} {
+		var s BrownBadlyScaledBFGSCentralSolver
+		s.Start(brownBadlyScaledBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownBadlyScaledBFGSCentralRunning {
+				if !brownBadlyScaledBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownBadlyScaledBFGSCentralSolver
+	s.Start(brownBadlyScaledBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BrownBadlyScaledBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownBadlyScaledBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownBadlyScaledBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BrownBadlyScaledBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownBadlyScaledBFGSCentralTestStart())
+		for s.Advance(BrownBadlyScaledBFGSCentralTickMinimum).Status == BrownBadlyScaledBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownBadlyScaledBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownBadlyScaledBFGSCentralTestSameResult(a, b BrownBadlyScaledBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownBadlyScaledBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBrownBadlyScaledBFGSCentral(b *testing.B) {
 	var r BrownBadlyScaledBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	BrownBadlyScaledCGAnalyticNoDecrease
 	// BrownBadlyScaledCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownBadlyScaledCGAnalyticDiverged
+	// BrownBadlyScaledCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownBadlyScaledCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownBadlyScaledCGAnalyticStatus) String() string {
 		return "no decrease"
 	case BrownBadlyScaledCGAnalyticDiverged:
 		return "diverged"
+	case BrownBadlyScaledCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BrownBadlyScaledCGAnalyticWithLimits(x0 [2]float64, limits BrownBadlyScaled
 	}
 }
 
+// BrownBadlyScaledCGAnalyticTickMinimum is the smallest call budget with which every BrownBadlyScaledCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BrownBadlyScaledCGAnalyticTickMinimum = 48
+
+// BrownBadlyScaledCGAnalyticSolver is a run of BrownBadlyScaledCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownBadlyScaledCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BrownBadlyScaledCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownBadlyScaledCGAnalyticRunning ends exactly as BrownBadlyScaledCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownBadlyScaledCGAnalytic and BrownBadlyScaledCGAnalyticWithLimits use at most 2224 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is BrownBadlyScaledCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownBadlyScaledCGAnalyticSolver struct {
+	run       brownBadlyScaledCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownBadlyScaledCGAnalyticLimits  // the limits of the runs; BrownBadlyScaledCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                              // whether SetLimits has set limits
+	started   bool                              // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownBadlyScaledCGAnalyticSolver) SetLimits(limits BrownBadlyScaledCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownBadlyScaledCGAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BrownBadlyScaledCGAnalyticSolver) StartFrom(from BrownBadlyScaledCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownBadlyScaledCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownBadlyScaledCGAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = BrownBadlyScaledCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownBadlyScaledCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownBadlyScaledCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownBadlyScaledCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownBadlyScaledCGAnalyticSolver) Advance(budget int) BrownBadlyScaledCGAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownBadlyScaledCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownBadlyScaledCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	brownBadlyScaledCGAnalyticStepInitial    = 1.0                    // step.initial
-	brownBadlyScaledCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownBadlyScaledCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	brownBadlyScaledCGAnalyticStepTrials     = 48                     // step.trials
-	brownBadlyScaledCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	brownBadlyScaledCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownBadlyScaledCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownBadlyScaledCGAnalyticStepInitial     = 1.0                    // step.initial
+	brownBadlyScaledCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownBadlyScaledCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	brownBadlyScaledCGAnalyticStepTrials      = 48                     // step.trials
+	brownBadlyScaledCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	brownBadlyScaledCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	brownBadlyScaledCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	brownBadlyScaledCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownBadlyScaledCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownBadlyScaledCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownBadlyScaledCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAnalyticLimits, bounds brownBadlyScaledCGAnalyticBox) brownBadlyScaledCGAnalyticOutcome {
-	x := x0
-	brownBadlyScaledCGAnalyticEnterBox(&x, &bounds)
-	out := brownBadlyScaledCGAnalyticOutcome{x: x, status: BrownBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownBadlyScaledCGAnalyticFinite(fx) || !brownBadlyScaledCGAnalyticFiniteVec(&x) {
-		out.status = BrownBadlyScaledCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := brownBadlyScaledCGAnalyticDifferences{bounds: bounds}
-	calls, ok := brownBadlyScaledCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += brownBadlyScaledCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
-		out.status = BrownBadlyScaledCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir brownBadlyScaledCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(brownBadlyScaledCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                            // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from brownBadlyScaledCGAnalyticConfirmGradient or settle
-	stalled := false                                                       // whether the run can make no more progress at x
-	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
-	verify := brownBadlyScaledCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownBadlyScaledCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownBadlyScaledCGAnalyticConfirmGradient and settle).
-			calls, ok := brownBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownBadlyScaledCGAnalyticVerifyNothing, true
-		case !confirmed:
-			brownBadlyScaledCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownBadlyScaledCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownBadlyScaledCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownBadlyScaledCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownBadlyScaledCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BrownBadlyScaledCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownBadlyScaledCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownBadlyScaledCGAnalyticDerivativeCost == 0 {
-				return best.ending(BrownBadlyScaledCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownBadlyScaledCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownBadlyScaledCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownBadlyScaledCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			brownBadlyScaledCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownBadlyScaledCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownBadlyScaledCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownBadlyScaledCGAnalyticDot(&g, &d)
-		if !(now < 0) || !brownBadlyScaledCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownBadlyScaledCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownBadlyScaledCGAnalyticDot(&g, &d)
-		}
-		first := float64(brownBadlyScaledCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownBadlyScaledCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownBadlyScaledCGAnalyticSearchOutOfBudget:
-			return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case brownBadlyScaledCGAnalyticSearchDiverged:
-			return best.ending(BrownBadlyScaledCGAnalyticDiverged, out.iterations, out.evaluations)
-		case brownBadlyScaledCGAnalyticSearchExhausted, brownBadlyScaledCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownBadlyScaledCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownBadlyScaledCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownBadlyScaledCGAnalyticNoDecrease
-			case found.end == brownBadlyScaledCGAnalyticSearchTiny && canSettle:
-				verify, stalled = brownBadlyScaledCGAnalyticVerifyStall, true
-				continue
-			case found.end == brownBadlyScaledCGAnalyticSearchTiny:
-				end = BrownBadlyScaledCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownBadlyScaledCGAnalyticFiniteVec(&xt) {
-			return best.ending(BrownBadlyScaledCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownBadlyScaledCGAnalyticDifference(&s, &xt, &x)
-		brownBadlyScaledCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownBadlyScaledCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownBadlyScaledCGAnalyticUnlimited)
 }
 
 // brownBadlyScaledCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o brownBadlyScaledCGAnalyticOutcome) ending(end BrownBadlyScaledCGAnalytic
 	return o
 }
 
-// brownBadlyScaledCGAnalyticEnterBox: without bounds every start is inside.
-func brownBadlyScaledCGAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledCGAnalyticBox) {}
-
-// brownBadlyScaledCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownBadlyScaledCGAnalyticFinite(v float64) bool {
-	return v >= -brownBadlyScaledCGAnalyticLargestFinite && v <= brownBadlyScaledCGAnalyticLargestFinite
+// brownBadlyScaledCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownBadlyScaledCGAnalyticDescent struct {
+	lim       BrownBadlyScaledCGAnalyticLimits
+	stage     int                                   // what advance does next
+	diffs     brownBadlyScaledCGAnalyticDifferences // the box and the difference intervals
+	dir       brownBadlyScaledCGAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                            // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                            // the search direction, the last step and its gradient change
+	fx        float64                               // f(x)
+	t, slope  float64                               // the previous iteration's accepted step and slope
+	out, best brownBadlyScaledCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                               // f(x0)
+	rises     int                                   // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                  // whether g and e at x come from brownBadlyScaledCGAnalyticConfirmGradient or settle
+	stalled   bool                                  // whether the run can make no more progress at x
+	retried   int                                   // the iteration whose stall was retried with recalibrated differences
+	verify    int                                   // what to check at x before judging it again
 }
 
-// brownBadlyScaledCGAnalyticFiniteVec reports whether every component of x is finite.
-func brownBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownBadlyScaledCGAnalyticDescent) prepare(x0 [2]float64, lim BrownBadlyScaledCGAnalyticLimits, bounds brownBadlyScaledCGAnalyticBox) {
+	r.lim, r.stage = lim, brownBadlyScaledCGAnalyticStageBegin
+	r.diffs = brownBadlyScaledCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	brownBadlyScaledCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = brownBadlyScaledCGAnalyticOutcome{x: r.x, f: math.NaN(), status: BrownBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownBadlyScaledCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownBadlyScaledCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownBadlyScaledCGAnalyticSettleCalls and brownBadlyScaledCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownBadlyScaledCGAnalyticDescent) advance(budget int) brownBadlyScaledCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != brownBadlyScaledCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownBadlyScaledCGAnalyticStageBegin:
+			if left < 1+brownBadlyScaledCGAnalyticCalibrationCost+brownBadlyScaledCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownBadlyScaledCGAnalyticStageJudge:
+			if r.verify != brownBadlyScaledCGAnalyticVerifyNothing && left < brownBadlyScaledCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownBadlyScaledCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownBadlyScaledCGAnalyticDescent) paused() brownBadlyScaledCGAnalyticOutcome {
+	return r.best.ending(BrownBadlyScaledCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownBadlyScaledCGAnalyticDescent) finish(end BrownBadlyScaledCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownBadlyScaledCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownBadlyScaledCGAnalyticDescent) begin() {
+	r.stage = brownBadlyScaledCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownBadlyScaledCGAnalyticFinite(r.fx) || !brownBadlyScaledCGAnalyticFiniteVec(&r.x) {
+		r.out.status = BrownBadlyScaledCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := brownBadlyScaledCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownBadlyScaledCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownBadlyScaledCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownBadlyScaledCGAnalyticFiniteVec(&r.g) {
+		r.out.status = BrownBadlyScaledCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownBadlyScaledCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownBadlyScaledCGAnalyticVerifyNothing
+	r.stage = brownBadlyScaledCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownBadlyScaledCGAnalyticStageSearch next when the run goes on.
+func (r *brownBadlyScaledCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != brownBadlyScaledCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownBadlyScaledCGAnalyticConfirmGradient and settle).
+		calls, ok := brownBadlyScaledCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownBadlyScaledCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownBadlyScaledCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !brownBadlyScaledCGAnalyticFiniteVec(&r.g) {
+			r.finish(BrownBadlyScaledCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownBadlyScaledCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		brownBadlyScaledCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownBadlyScaledCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownBadlyScaledCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownBadlyScaledCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownBadlyScaledCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownBadlyScaledCGAnalyticGradientSmall
+		r.stage = brownBadlyScaledCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownBadlyScaledCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownBadlyScaledCGAnalyticDerivativeCost == 0 {
+			r.finish(BrownBadlyScaledCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownBadlyScaledCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownBadlyScaledCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownBadlyScaledCGAnalyticDiverged)
+			return
+		}
+		brownBadlyScaledCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownBadlyScaledCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = brownBadlyScaledCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownBadlyScaledCGAnalyticStageJudge next when the run
+// goes on.
+func (r *brownBadlyScaledCGAnalyticDescent) search() {
+	brownBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownBadlyScaledCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !brownBadlyScaledCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownBadlyScaledCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(brownBadlyScaledCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownBadlyScaledCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := brownBadlyScaledCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownBadlyScaledCGAnalyticSearchOutOfBudget:
+		r.finish(BrownBadlyScaledCGAnalyticOutOfEvaluations)
+		return
+	case brownBadlyScaledCGAnalyticSearchDiverged:
+		r.finish(BrownBadlyScaledCGAnalyticDiverged)
+		return
+	case brownBadlyScaledCGAnalyticSearchExhausted, brownBadlyScaledCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownBadlyScaledCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownBadlyScaledCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownBadlyScaledCGAnalyticNoDecrease
+		case found.end == brownBadlyScaledCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownBadlyScaledCGAnalyticVerifyStall, true, brownBadlyScaledCGAnalyticStageJudge
+			return
+		case found.end == brownBadlyScaledCGAnalyticSearchTiny:
+			end = BrownBadlyScaledCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownBadlyScaledCGAnalyticFiniteVec(&xt) {
+		r.finish(BrownBadlyScaledCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownBadlyScaledCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownBadlyScaledCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownBadlyScaledCGAnalyticDifference(&r.s, &xt, &r.x)
+	brownBadlyScaledCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownBadlyScaledCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownBadlyScaledCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = brownBadlyScaledCGAnalyticStageJudge
 }
 
 // brownBadlyScaledCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type brownBadlyScaledCGAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledCGAnalyticRoundingFloor)
 	bounds    brownBadlyScaledCGAnalyticBox
-}
-
-// brownBadlyScaledCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func brownBadlyScaledCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// brownBadlyScaledCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) int {
-	BrownBadlyScaledGrad(x, g)
-	return 0
 }
 
 // brownBadlyScaledCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func brownBadlyScaledCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// brownBadlyScaledCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownBadlyScaledCGAnalyticFinite(v float64) bool {
+	return v >= -brownBadlyScaledCGAnalyticLargestFinite && v <= brownBadlyScaledCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownBadlyScaledCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownBadlyScaledCGAnalyticStageJudge         // settle when asked (brownBadlyScaledCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	brownBadlyScaledCGAnalyticStageSearch        // the line search and the gradient at the accepted point: brownBadlyScaledCGAnalyticIterationCalls
+	brownBadlyScaledCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// brownBadlyScaledCGAnalyticEnterBox: without bounds every start is inside.
+func brownBadlyScaledCGAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	brownBadlyScaledCGAnalyticVerifyNothing = iota
 	brownBadlyScaledCGAnalyticVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledCGAnalyticVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledCGAnalyticFiniteVec reports whether every component of x is finite.
+func brownBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !brownBadlyScaledCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownBadlyScaledCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownBadlyScaledCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// brownBadlyScaledCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func brownBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) int {
+	BrownBadlyScaledGrad(x, g)
+	return 0
+}
 
 // brownBadlyScaledCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownBadlyScaledCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func brownBadlyScaledCGAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownBadlyScaledCGAnalyticUnlimited is a tick budget that never pauses a run.
+const brownBadlyScaledCGAnalyticUnlimited = int(^uint(0) >> 1)

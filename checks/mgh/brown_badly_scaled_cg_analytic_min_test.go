@@ -105,6 +105,55 @@ func TestBrownBadlyScaledCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBrownBadlyScaledCGAnalyticSolverTicks advances a BrownBadlyScaledCGAnalyticSolver from the spec's start with budgets of BrownBadlyScaledCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownBadlyScaledCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownBadlyScaledCGAnalyticSolverTicks(t *testing.T) {
+	want := BrownBadlyScaledCGAnalytic(brownBadlyScaledCGAnalyticTestStart())
+	for _, budget := range []int{BrownBadlyScaledCGAnalyticTickMinimum, BrownBadlyScaledCGAnalyticTickMinimum + 1, 2 * BrownBadlyScaledCGAnalyticTickMinimum, 7 * BrownBadlyScaledCGAnalyticTickMinimum} {
+		var s BrownBadlyScaledCGAnalyticSolver
+		s.Start(brownBadlyScaledCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownBadlyScaledCGAnalyticRunning {
+				if !brownBadlyScaledCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownBadlyScaledCGAnalyticSolver
+	s.Start(brownBadlyScaledCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BrownBadlyScaledCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownBadlyScaledCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownBadlyScaledCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BrownBadlyScaledCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownBadlyScaledCGAnalyticTestStart())
+		for s.Advance(BrownBadlyScaledCGAnalyticTickMinimum).Status == BrownBadlyScaledCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownBadlyScaledCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownBadlyScaledCGAnalyticTestSameResult(a, b BrownBadlyScaledCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownBadlyScaledCGAnalytic measures one whole run from the spec's start.
 func BenchmarkBrownBadlyScaledCGAnalytic(b *testing.B) {
 	var r BrownBadlyScaledCGAnalyticResult

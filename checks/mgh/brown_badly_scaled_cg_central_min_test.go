@@ -44,6 +44,55 @@ func TestBrownBadlyScaledCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBrownBadlyScaledCGCentralSolverTicks advances a BrownBadlyScaledCGCentralSolver from the spec's start with budgets of BrownBadlyScaledCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownBadlyScaledCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownBadlyScaledCGCentralSolverTicks(t *testing.T) {
+	want := BrownBadlyScaledCGCentral(brownBadlyScaledCGCentralTestStart())
+	for _, budget := range []int{BrownBadlyScaledCGCentralTickMinimum, BrownBadlyScaledCGCentralTickMinimum + 1, 2 * BrownBadlyScaledCGCentralTickMinimum, 7 * BrownBadlyScaledCGCentralTickMinimum} {
+		var s BrownBadlyScaledCGCentralSolver
+		s.Start(brownBadlyScaledCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownBadlyScaledCGCentralRunning {
+				if !brownBadlyScaledCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownBadlyScaledCGCentralSolver
+	s.Start(brownBadlyScaledCGCentralTestStart())
+	if r := s.Advance(0); r.Status != BrownBadlyScaledCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownBadlyScaledCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownBadlyScaledCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s BrownBadlyScaledCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownBadlyScaledCGCentralTestStart())
+		for s.Advance(BrownBadlyScaledCGCentralTickMinimum).Status == BrownBadlyScaledCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownBadlyScaledCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownBadlyScaledCGCentralTestSameResult(a, b BrownBadlyScaledCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownBadlyScaledCGCentral measures one whole run from the spec's start.
 func BenchmarkBrownBadlyScaledCGCentral(b *testing.B) {
 	var r BrownBadlyScaledCGCentralResult

@@ -26,6 +26,8 @@ const (
 	BrownBadlyScaledLBFGSAnalyticNoDecrease
 	// BrownBadlyScaledLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownBadlyScaledLBFGSAnalyticDiverged
+	// BrownBadlyScaledLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownBadlyScaledLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownBadlyScaledLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BrownBadlyScaledLBFGSAnalyticDiverged:
 		return "diverged"
+	case BrownBadlyScaledLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func BrownBadlyScaledLBFGSAnalyticWithLimits(x0 [2]float64, limits BrownBadlySca
 	}
 }
 
+// BrownBadlyScaledLBFGSAnalyticTickMinimum is the smallest call budget with which every BrownBadlyScaledLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BrownBadlyScaledLBFGSAnalyticTickMinimum = 48
+
+// BrownBadlyScaledLBFGSAnalyticSolver is a run of BrownBadlyScaledLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownBadlyScaledLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BrownBadlyScaledLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownBadlyScaledLBFGSAnalyticRunning ends exactly as BrownBadlyScaledLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownBadlyScaledLBFGSAnalytic and BrownBadlyScaledLBFGSAnalyticWithLimits use at most 2392 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is BrownBadlyScaledLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownBadlyScaledLBFGSAnalyticSolver struct {
+	run       brownBadlyScaledLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownBadlyScaledLBFGSAnalyticLimits  // the limits of the runs; BrownBadlyScaledLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                                 // whether SetLimits has set limits
+	started   bool                                 // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownBadlyScaledLBFGSAnalyticSolver) SetLimits(limits BrownBadlyScaledLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownBadlyScaledLBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BrownBadlyScaledLBFGSAnalyticSolver) StartFrom(from BrownBadlyScaledLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownBadlyScaledLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownBadlyScaledLBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = BrownBadlyScaledLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownBadlyScaledLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownBadlyScaledLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownBadlyScaledLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownBadlyScaledLBFGSAnalyticSolver) Advance(budget int) BrownBadlyScaledLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownBadlyScaledLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownBadlyScaledLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	brownBadlyScaledLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	brownBadlyScaledLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownBadlyScaledLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	brownBadlyScaledLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	brownBadlyScaledLBFGSAnalyticStepTrials     = 48                     // step.trials
-	brownBadlyScaledLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	brownBadlyScaledLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownBadlyScaledLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownBadlyScaledLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	brownBadlyScaledLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownBadlyScaledLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	brownBadlyScaledLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	brownBadlyScaledLBFGSAnalyticStepTrials      = 48                     // step.trials
+	brownBadlyScaledLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	brownBadlyScaledLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	brownBadlyScaledLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	brownBadlyScaledLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownBadlyScaledLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownBadlyScaledLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownBadlyScaledLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLBFGSAnalyticLimits, bounds brownBadlyScaledLBFGSAnalyticBox) brownBadlyScaledLBFGSAnalyticOutcome {
-	x := x0
-	brownBadlyScaledLBFGSAnalyticEnterBox(&x, &bounds)
-	out := brownBadlyScaledLBFGSAnalyticOutcome{x: x, status: BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownBadlyScaledLBFGSAnalyticFinite(fx) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&x) {
-		out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := brownBadlyScaledLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := brownBadlyScaledLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-		out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir brownBadlyScaledLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(brownBadlyScaledLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                               // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from brownBadlyScaledLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                          // whether the run can make no more progress at x
-	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
-	verify := brownBadlyScaledLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownBadlyScaledLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownBadlyScaledLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownBadlyScaledLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			brownBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownBadlyScaledLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownBadlyScaledLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownBadlyScaledLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BrownBadlyScaledLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownBadlyScaledLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BrownBadlyScaledLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownBadlyScaledLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownBadlyScaledLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			brownBadlyScaledLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownBadlyScaledLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownBadlyScaledLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(brownBadlyScaledLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownBadlyScaledLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownBadlyScaledLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case brownBadlyScaledLBFGSAnalyticSearchDiverged:
-			return best.ending(BrownBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case brownBadlyScaledLBFGSAnalyticSearchExhausted, brownBadlyScaledLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownBadlyScaledLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownBadlyScaledLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownBadlyScaledLBFGSAnalyticNoDecrease
-			case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = brownBadlyScaledLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny:
-				end = BrownBadlyScaledLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownBadlyScaledLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BrownBadlyScaledLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownBadlyScaledLBFGSAnalyticDifference(&s, &xt, &x)
-		brownBadlyScaledLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownBadlyScaledLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownBadlyScaledLBFGSAnalyticUnlimited)
 }
 
 // brownBadlyScaledLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o brownBadlyScaledLBFGSAnalyticOutcome) ending(end BrownBadlyScaledLBFGSAn
 	return o
 }
 
-// brownBadlyScaledLBFGSAnalyticEnterBox: without bounds every start is inside.
-func brownBadlyScaledLBFGSAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {}
-
-// brownBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownBadlyScaledLBFGSAnalyticFinite(v float64) bool {
-	return v >= -brownBadlyScaledLBFGSAnalyticLargestFinite && v <= brownBadlyScaledLBFGSAnalyticLargestFinite
+// brownBadlyScaledLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownBadlyScaledLBFGSAnalyticDescent struct {
+	lim       BrownBadlyScaledLBFGSAnalyticLimits
+	stage     int                                      // what advance does next
+	diffs     brownBadlyScaledLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       brownBadlyScaledLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                               // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                               // the search direction, the last step and its gradient change
+	fx        float64                                  // f(x)
+	t, slope  float64                                  // the previous iteration's accepted step and slope
+	out, best brownBadlyScaledLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                  // f(x0)
+	rises     int                                      // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                     // whether g and e at x come from brownBadlyScaledLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                     // whether the run can make no more progress at x
+	retried   int                                      // the iteration whose stall was retried with recalibrated differences
+	verify    int                                      // what to check at x before judging it again
 }
 
-// brownBadlyScaledLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func brownBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) prepare(x0 [2]float64, lim BrownBadlyScaledLBFGSAnalyticLimits, bounds brownBadlyScaledLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, brownBadlyScaledLBFGSAnalyticStageBegin
+	r.diffs = brownBadlyScaledLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	brownBadlyScaledLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = brownBadlyScaledLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownBadlyScaledLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownBadlyScaledLBFGSAnalyticSettleCalls and brownBadlyScaledLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) advance(budget int) brownBadlyScaledLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != brownBadlyScaledLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownBadlyScaledLBFGSAnalyticStageBegin:
+			if left < 1+brownBadlyScaledLBFGSAnalyticCalibrationCost+brownBadlyScaledLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownBadlyScaledLBFGSAnalyticStageJudge:
+			if r.verify != brownBadlyScaledLBFGSAnalyticVerifyNothing && left < brownBadlyScaledLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownBadlyScaledLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) paused() brownBadlyScaledLBFGSAnalyticOutcome {
+	return r.best.ending(BrownBadlyScaledLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) finish(end BrownBadlyScaledLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownBadlyScaledLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) begin() {
+	r.stage = brownBadlyScaledLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownBadlyScaledLBFGSAnalyticFinite(r.fx) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := brownBadlyScaledLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownBadlyScaledLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownBadlyScaledLBFGSAnalyticVerifyNothing
+	r.stage = brownBadlyScaledLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownBadlyScaledLBFGSAnalyticStageSearch next when the run goes on.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != brownBadlyScaledLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownBadlyScaledLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownBadlyScaledLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownBadlyScaledLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		brownBadlyScaledLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownBadlyScaledLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownBadlyScaledLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownBadlyScaledLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownBadlyScaledLBFGSAnalyticGradientSmall
+		r.stage = brownBadlyScaledLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownBadlyScaledLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BrownBadlyScaledLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownBadlyScaledLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownBadlyScaledLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownBadlyScaledLBFGSAnalyticDiverged)
+			return
+		}
+		brownBadlyScaledLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownBadlyScaledLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = brownBadlyScaledLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownBadlyScaledLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *brownBadlyScaledLBFGSAnalyticDescent) search() {
+	brownBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(brownBadlyScaledLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownBadlyScaledLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := brownBadlyScaledLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownBadlyScaledLBFGSAnalyticSearchOutOfBudget:
+		r.finish(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations)
+		return
+	case brownBadlyScaledLBFGSAnalyticSearchDiverged:
+		r.finish(BrownBadlyScaledLBFGSAnalyticDiverged)
+		return
+	case brownBadlyScaledLBFGSAnalyticSearchExhausted, brownBadlyScaledLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownBadlyScaledLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownBadlyScaledLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownBadlyScaledLBFGSAnalyticNoDecrease
+		case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownBadlyScaledLBFGSAnalyticVerifyStall, true, brownBadlyScaledLBFGSAnalyticStageJudge
+			return
+		case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny:
+			end = BrownBadlyScaledLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BrownBadlyScaledLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownBadlyScaledLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	brownBadlyScaledLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = brownBadlyScaledLBFGSAnalyticStageJudge
 }
 
 // brownBadlyScaledLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type brownBadlyScaledLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledLBFGSAnalyticRoundingFloor)
 	bounds    brownBadlyScaledLBFGSAnalyticBox
-}
-
-// brownBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func brownBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// brownBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) int {
-	BrownBadlyScaledGrad(x, g)
-	return 0
 }
 
 // brownBadlyScaledLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func brownBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledLBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledLBFGSAnalyticDot(y, y)) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownBadlyScaledLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownBadlyScaledLBFGSAnalyticStageJudge         // settle when asked (brownBadlyScaledLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	brownBadlyScaledLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: brownBadlyScaledLBFGSAnalyticIterationCalls
+	brownBadlyScaledLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// brownBadlyScaledLBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownBadlyScaledLBFGSAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	brownBadlyScaledLBFGSAnalyticVerifyNothing = iota
 	brownBadlyScaledLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownBadlyScaledLBFGSAnalyticFinite(v float64) bool {
+	return v >= -brownBadlyScaledLBFGSAnalyticLargestFinite && v <= brownBadlyScaledLBFGSAnalyticLargestFinite
+}
+
+// brownBadlyScaledLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func brownBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !brownBadlyScaledLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// brownBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func brownBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) int {
+	BrownBadlyScaledGrad(x, g)
+	return 0
+}
 
 // brownBadlyScaledLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownBadlyScaledLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1027,3 +1221,6 @@ func brownBadlyScaledLBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownBadlyScaledLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const brownBadlyScaledLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestBrownBadlyScaledLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBrownBadlyScaledLBFGSAnalyticSolverTicks advances a BrownBadlyScaledLBFGSAnalyticSolver from the spec's start with budgets of BrownBadlyScaledLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownBadlyScaledLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownBadlyScaledLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BrownBadlyScaledLBFGSAnalytic(brownBadlyScaledLBFGSAnalyticTestStart())
+	for _, budget := range []int{BrownBadlyScaledLBFGSAnalyticTickMinimum, BrownBadlyScaledLBFGSAnalyticTickMinimum + 1, 2 * BrownBadlyScaledLBFGSAnalyticTickMinimum, 7 * BrownBadlyScaledLBFGSAnalyticTickMinimum} {
+		var s BrownBadlyScaledLBFGSAnalyticSolver
+		s.Start(brownBadlyScaledLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownBadlyScaledLBFGSAnalyticRunning {
+				if !brownBadlyScaledLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownBadlyScaledLBFGSAnalyticSolver
+	s.Start(brownBadlyScaledLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BrownBadlyScaledLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownBadlyScaledLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownBadlyScaledLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BrownBadlyScaledLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownBadlyScaledLBFGSAnalyticTestStart())
+		for s.Advance(BrownBadlyScaledLBFGSAnalyticTickMinimum).Status == BrownBadlyScaledLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownBadlyScaledLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownBadlyScaledLBFGSAnalyticTestSameResult(a, b BrownBadlyScaledLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownBadlyScaledLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBrownBadlyScaledLBFGSAnalytic(b *testing.B) {
 	var r BrownBadlyScaledLBFGSAnalyticResult

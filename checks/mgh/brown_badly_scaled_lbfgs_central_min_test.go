@@ -47,6 +47,55 @@ func TestBrownBadlyScaledLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBrownBadlyScaledLBFGSCentralSolverTicks advances a BrownBadlyScaledLBFGSCentralSolver from the spec's start with budgets of BrownBadlyScaledLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownBadlyScaledLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownBadlyScaledLBFGSCentralSolverTicks(t *testing.T) {
+	want := BrownBadlyScaledLBFGSCentral(brownBadlyScaledLBFGSCentralTestStart())
+	for _, budget := range []int{BrownBadlyScaledLBFGSCentralTickMinimum, BrownBadlyScaledLBFGSCentralTickMinimum + 1, 2 * BrownBadlyScaledLBFGSCentralTickMinimum, 7 * BrownBadlyScaledLBFGSCentralTickMinimum} {
+		var s BrownBadlyScaledLBFGSCentralSolver
+		s.Start(brownBadlyScaledLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownBadlyScaledLBFGSCentralRunning {
+				if !brownBadlyScaledLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownBadlyScaledLBFGSCentralSolver
+	s.Start(brownBadlyScaledLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BrownBadlyScaledLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownBadlyScaledLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownBadlyScaledLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BrownBadlyScaledLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownBadlyScaledLBFGSCentralTestStart())
+		for s.Advance(BrownBadlyScaledLBFGSCentralTickMinimum).Status == BrownBadlyScaledLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownBadlyScaledLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownBadlyScaledLBFGSCentralTestSameResult(a, b BrownBadlyScaledLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownBadlyScaledLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBrownBadlyScaledLBFGSCentral(b *testing.B) {
 	var r BrownBadlyScaledLBFGSCentralResult

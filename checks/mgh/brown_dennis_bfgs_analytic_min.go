@@ -26,6 +26,8 @@ const (
 	BrownDennisBFGSAnalyticNoDecrease
 	// BrownDennisBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownDennisBFGSAnalyticDiverged
+	// BrownDennisBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownDennisBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownDennisBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BrownDennisBFGSAnalyticDiverged:
 		return "diverged"
+	case BrownDennisBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BrownDennisBFGSAnalyticWithLimits(x0 [4]float64, limits BrownDennisBFGSAnal
 	}
 }
 
+// BrownDennisBFGSAnalyticTickMinimum is the smallest call budget with which every BrownDennisBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BrownDennisBFGSAnalyticTickMinimum = 48
+
+// BrownDennisBFGSAnalyticSolver is a run of BrownDennisBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownDennisBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BrownDennisBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownDennisBFGSAnalyticRunning ends exactly as BrownDennisBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownDennisBFGSAnalytic and BrownDennisBFGSAnalyticWithLimits use at most 2952 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is BrownDennisBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownDennisBFGSAnalyticSolver struct {
+	run       brownDennisBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownDennisBFGSAnalyticLimits  // the limits of the runs; BrownDennisBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                           // whether SetLimits has set limits
+	started   bool                           // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownDennisBFGSAnalyticSolver) SetLimits(limits BrownDennisBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownDennisBFGSAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BrownDennisBFGSAnalyticSolver) StartFrom(from BrownDennisBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownDennisBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownDennisBFGSAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = BrownDennisBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownDennisBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownDennisBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownDennisBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownDennisBFGSAnalyticSolver) Advance(budget int) BrownDennisBFGSAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownDennisBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownDennisBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	brownDennisBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	brownDennisBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownDennisBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	brownDennisBFGSAnalyticStepTrials     = 48                     // step.trials
-	brownDennisBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	brownDennisBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownDennisBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownDennisBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	brownDennisBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownDennisBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	brownDennisBFGSAnalyticStepTrials      = 48                     // step.trials
+	brownDennisBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	brownDennisBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	brownDennisBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	brownDennisBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownDennisBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownDennisBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownDennisBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticLimits, bounds brownDennisBFGSAnalyticBox) brownDennisBFGSAnalyticOutcome {
-	x := x0
-	brownDennisBFGSAnalyticEnterBox(&x, &bounds)
-	out := brownDennisBFGSAnalyticOutcome{x: x, status: BrownDennisBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownDennis(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownDennisBFGSAnalyticFinite(fx) || !brownDennisBFGSAnalyticFiniteVec(&x) {
-		out.status = BrownDennisBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := brownDennisBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := brownDennisBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownDennisBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += brownDennisBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !brownDennisBFGSAnalyticFiniteVec(&g) {
-		out.status = BrownDennisBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir brownDennisBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(brownDennisBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                         // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from brownDennisBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                    // whether the run can make no more progress at x
-	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
-	verify := brownDennisBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownDennisBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownDennisBFGSAnalyticConfirmGradient and settle).
-			calls, ok := brownDennisBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownDennisBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownDennisBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownDennisBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			brownDennisBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownDennisBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownDennisBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownDennisBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownDennisBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BrownDennisBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownDennisBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownDennisBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BrownDennisBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownDennisBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownDennisBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownDennisBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			brownDennisBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownDennisBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownDennisBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownDennisBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !brownDennisBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownDennisBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownDennisBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(brownDennisBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownDennisBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownDennisBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case brownDennisBFGSAnalyticSearchDiverged:
-			return best.ending(BrownDennisBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case brownDennisBFGSAnalyticSearchExhausted, brownDennisBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownDennisBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownDennisBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownDennisBFGSAnalyticNoDecrease
-			case found.end == brownDennisBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = brownDennisBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == brownDennisBFGSAnalyticSearchTiny:
-				end = BrownDennisBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownDennisBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BrownDennisBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownDennisBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownDennisBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownDennisBFGSAnalyticDifference(&s, &xt, &x)
-		brownDennisBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownDennisBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownDennisBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownDennisBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownDennisBFGSAnalyticUnlimited)
 }
 
 // brownDennisBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o brownDennisBFGSAnalyticOutcome) ending(end BrownDennisBFGSAnalyticStatus
 	return o
 }
 
-// brownDennisBFGSAnalyticEnterBox: without bounds every start is inside.
-func brownDennisBFGSAnalyticEnterBox(x *[4]float64, b *brownDennisBFGSAnalyticBox) {}
-
-// brownDennisBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownDennisBFGSAnalyticFinite(v float64) bool {
-	return v >= -brownDennisBFGSAnalyticLargestFinite && v <= brownDennisBFGSAnalyticLargestFinite
+// brownDennisBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownDennisBFGSAnalyticDescent struct {
+	lim       BrownDennisBFGSAnalyticLimits
+	stage     int                                // what advance does next
+	diffs     brownDennisBFGSAnalyticDifferences // the box and the difference intervals
+	dir       brownDennisBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                         // the search direction, the last step and its gradient change
+	fx        float64                            // f(x)
+	t, slope  float64                            // the previous iteration's accepted step and slope
+	out, best brownDennisBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                            // f(x0)
+	rises     int                                // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                               // whether g and e at x come from brownDennisBFGSAnalyticConfirmGradient or settle
+	stalled   bool                               // whether the run can make no more progress at x
+	retried   int                                // the iteration whose stall was retried with recalibrated differences
+	verify    int                                // what to check at x before judging it again
 }
 
-// brownDennisBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func brownDennisBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownDennisBFGSAnalyticDescent) prepare(x0 [4]float64, lim BrownDennisBFGSAnalyticLimits, bounds brownDennisBFGSAnalyticBox) {
+	r.lim, r.stage = lim, brownDennisBFGSAnalyticStageBegin
+	r.diffs = brownDennisBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	brownDennisBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = brownDennisBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BrownDennisBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownDennisBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownDennisBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownDennisBFGSAnalyticSettleCalls and brownDennisBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownDennisBFGSAnalyticDescent) advance(budget int) brownDennisBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != brownDennisBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownDennisBFGSAnalyticStageBegin:
+			if left < 1+brownDennisBFGSAnalyticCalibrationCost+brownDennisBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownDennisBFGSAnalyticStageJudge:
+			if r.verify != brownDennisBFGSAnalyticVerifyNothing && left < brownDennisBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownDennisBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownDennisBFGSAnalyticDescent) paused() brownDennisBFGSAnalyticOutcome {
+	return r.best.ending(BrownDennisBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownDennisBFGSAnalyticDescent) finish(end BrownDennisBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownDennisBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownDennisBFGSAnalyticDescent) begin() {
+	r.stage = brownDennisBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownDennisBFGSAnalyticFinite(r.fx) || !brownDennisBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BrownDennisBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := brownDennisBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownDennisBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownDennisBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownDennisBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BrownDennisBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownDennisBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownDennisBFGSAnalyticVerifyNothing
+	r.stage = brownDennisBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownDennisBFGSAnalyticStageSearch next when the run goes on.
+func (r *brownDennisBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != brownDennisBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownDennisBFGSAnalyticConfirmGradient and settle).
+		calls, ok := brownDennisBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownDennisBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownDennisBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !brownDennisBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BrownDennisBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownDennisBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		brownDennisBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownDennisBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownDennisBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownDennisBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownDennisBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownDennisBFGSAnalyticGradientSmall
+		r.stage = brownDennisBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownDennisBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownDennisBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BrownDennisBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownDennisBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownDennisBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownDennisBFGSAnalyticDiverged)
+			return
+		}
+		brownDennisBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownDennisBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = brownDennisBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownDennisBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *brownDennisBFGSAnalyticDescent) search() {
+	brownDennisBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownDennisBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !brownDennisBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownDennisBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownDennisBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(brownDennisBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownDennisBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := brownDennisBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownDennisBFGSAnalyticSearchOutOfBudget:
+		r.finish(BrownDennisBFGSAnalyticOutOfEvaluations)
+		return
+	case brownDennisBFGSAnalyticSearchDiverged:
+		r.finish(BrownDennisBFGSAnalyticDiverged)
+		return
+	case brownDennisBFGSAnalyticSearchExhausted, brownDennisBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownDennisBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownDennisBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownDennisBFGSAnalyticNoDecrease
+		case found.end == brownDennisBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownDennisBFGSAnalyticVerifyStall, true, brownDennisBFGSAnalyticStageJudge
+			return
+		case found.end == brownDennisBFGSAnalyticSearchTiny:
+			end = BrownDennisBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownDennisBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BrownDennisBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownDennisBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownDennisBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownDennisBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownDennisBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	brownDennisBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownDennisBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownDennisBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = brownDennisBFGSAnalyticStageJudge
 }
 
 // brownDennisBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type brownDennisBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisBFGSAnalyticRoundingFloor)
 	bounds    brownDennisBFGSAnalyticBox
-}
-
-// brownDennisBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func brownDennisBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDennisBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// brownDennisBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownDennisBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) int {
-	BrownDennisGrad(x, g)
-	return 0
 }
 
 // brownDennisBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func brownDennisBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisBFGSAnalyticDot(s, s))*(sy/brownDennisBFGSAnalyticDot(y, y)) > brownDennisBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownDennisBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownDennisBFGSAnalyticStageJudge         // settle when asked (brownDennisBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	brownDennisBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: brownDennisBFGSAnalyticIterationCalls
+	brownDennisBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// brownDennisBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownDennisBFGSAnalyticEnterBox(x *[4]float64, b *brownDennisBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	brownDennisBFGSAnalyticVerifyNothing = iota
 	brownDennisBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownDennisBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownDennisBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownDennisBFGSAnalyticFinite(v float64) bool {
+	return v >= -brownDennisBFGSAnalyticLargestFinite && v <= brownDennisBFGSAnalyticLargestFinite
+}
+
+// brownDennisBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func brownDennisBFGSAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !brownDennisBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownDennisBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownDennisBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDennisBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// brownDennisBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func brownDennisBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) int {
+	BrownDennisGrad(x, g)
+	return 0
+}
 
 // brownDennisBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownDennisBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func brownDennisBFGSAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownDennisBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const brownDennisBFGSAnalyticUnlimited = int(^uint(0) >> 1)

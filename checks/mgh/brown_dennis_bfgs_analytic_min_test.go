@@ -105,6 +105,55 @@ func TestBrownDennisBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBrownDennisBFGSAnalyticSolverTicks advances a BrownDennisBFGSAnalyticSolver from the spec's start with budgets of BrownDennisBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownDennisBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownDennisBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BrownDennisBFGSAnalytic(brownDennisBFGSAnalyticTestStart())
+	for _, budget := range []int{BrownDennisBFGSAnalyticTickMinimum, BrownDennisBFGSAnalyticTickMinimum + 1, 2 * BrownDennisBFGSAnalyticTickMinimum, 7 * BrownDennisBFGSAnalyticTickMinimum} {
+		var s BrownDennisBFGSAnalyticSolver
+		s.Start(brownDennisBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownDennisBFGSAnalyticRunning {
+				if !brownDennisBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownDennisBFGSAnalyticSolver
+	s.Start(brownDennisBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BrownDennisBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownDennisBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownDennisBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BrownDennisBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownDennisBFGSAnalyticTestStart())
+		for s.Advance(BrownDennisBFGSAnalyticTickMinimum).Status == BrownDennisBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownDennisBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownDennisBFGSAnalyticTestSameResult(a, b BrownDennisBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownDennisBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBrownDennisBFGSAnalytic(b *testing.B) {
 	var r BrownDennisBFGSAnalyticResult

@@ -47,6 +47,55 @@ func TestBrownDennisBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBrownDennisBFGSCentralSolverTicks advances a BrownDennisBFGSCentralSolver from the spec's start with budgets of BrownDennisBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownDennisBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownDennisBFGSCentralSolverTicks(t *testing.T) {
+	want := BrownDennisBFGSCentral(brownDennisBFGSCentralTestStart())
+	for _, budget := range []int{BrownDennisBFGSCentralTickMinimum, BrownDennisBFGSCentralTickMinimum + 1, 2 * BrownDennisBFGSCentralTickMinimum, 7 * BrownDennisBFGSCentralTickMinimum} {
+		var s BrownDennisBFGSCentralSolver
+		s.Start(brownDennisBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownDennisBFGSCentralRunning {
+				if !brownDennisBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownDennisBFGSCentralSolver
+	s.Start(brownDennisBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BrownDennisBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownDennisBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownDennisBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BrownDennisBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownDennisBFGSCentralTestStart())
+		for s.Advance(BrownDennisBFGSCentralTickMinimum).Status == BrownDennisBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownDennisBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownDennisBFGSCentralTestSameResult(a, b BrownDennisBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownDennisBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBrownDennisBFGSCentral(b *testing.B) {
 	var r BrownDennisBFGSCentralResult

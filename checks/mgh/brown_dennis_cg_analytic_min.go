@@ -26,6 +26,8 @@ const (
 	BrownDennisCGAnalyticNoDecrease
 	// BrownDennisCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownDennisCGAnalyticDiverged
+	// BrownDennisCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownDennisCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownDennisCGAnalyticStatus) String() string {
 		return "no decrease"
 	case BrownDennisCGAnalyticDiverged:
 		return "diverged"
+	case BrownDennisCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BrownDennisCGAnalyticWithLimits(x0 [4]float64, limits BrownDennisCGAnalytic
 	}
 }
 
+// BrownDennisCGAnalyticTickMinimum is the smallest call budget with which every BrownDennisCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BrownDennisCGAnalyticTickMinimum = 48
+
+// BrownDennisCGAnalyticSolver is a run of BrownDennisCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownDennisCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BrownDennisCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownDennisCGAnalyticRunning ends exactly as BrownDennisCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownDennisCGAnalytic and BrownDennisCGAnalyticWithLimits use at most 2896 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is BrownDennisCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownDennisCGAnalyticSolver struct {
+	run       brownDennisCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownDennisCGAnalyticLimits  // the limits of the runs; BrownDennisCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                         // whether SetLimits has set limits
+	started   bool                         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownDennisCGAnalyticSolver) SetLimits(limits BrownDennisCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownDennisCGAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BrownDennisCGAnalyticSolver) StartFrom(from BrownDennisCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownDennisCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownDennisCGAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = BrownDennisCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownDennisCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownDennisCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownDennisCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownDennisCGAnalyticSolver) Advance(budget int) BrownDennisCGAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownDennisCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownDennisCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	brownDennisCGAnalyticStepInitial    = 1.0                    // step.initial
-	brownDennisCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownDennisCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	brownDennisCGAnalyticStepTrials     = 48                     // step.trials
-	brownDennisCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	brownDennisCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownDennisCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownDennisCGAnalyticStepInitial     = 1.0                    // step.initial
+	brownDennisCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownDennisCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	brownDennisCGAnalyticStepTrials      = 48                     // step.trials
+	brownDennisCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	brownDennisCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	brownDennisCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	brownDennisCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownDennisCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownDennisCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownDennisCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimits, bounds brownDennisCGAnalyticBox) brownDennisCGAnalyticOutcome {
-	x := x0
-	brownDennisCGAnalyticEnterBox(&x, &bounds)
-	out := brownDennisCGAnalyticOutcome{x: x, status: BrownDennisCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownDennis(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownDennisCGAnalyticFinite(fx) || !brownDennisCGAnalyticFiniteVec(&x) {
-		out.status = BrownDennisCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := brownDennisCGAnalyticDifferences{bounds: bounds}
-	calls, ok := brownDennisCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownDennisCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += brownDennisCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !brownDennisCGAnalyticFiniteVec(&g) {
-		out.status = BrownDennisCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir brownDennisCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(brownDennisCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from brownDennisCGAnalyticConfirmGradient or settle
-	stalled := false                                                  // whether the run can make no more progress at x
-	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
-	verify := brownDennisCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownDennisCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownDennisCGAnalyticConfirmGradient and settle).
-			calls, ok := brownDennisCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownDennisCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisCGAnalyticFiniteVec(&g) {
-				return best.ending(BrownDennisCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownDennisCGAnalyticVerifyNothing, true
-		case !confirmed:
-			brownDennisCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownDennisCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownDennisCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownDennisCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownDennisCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BrownDennisCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownDennisCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownDennisCGAnalyticDerivativeCost == 0 {
-				return best.ending(BrownDennisCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownDennisCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownDennisCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownDennisCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			brownDennisCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownDennisCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownDennisCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownDennisCGAnalyticDot(&g, &d)
-		if !(now < 0) || !brownDennisCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownDennisCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownDennisCGAnalyticDot(&g, &d)
-		}
-		first := float64(brownDennisCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownDennisCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownDennisCGAnalyticSearchOutOfBudget:
-			return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case brownDennisCGAnalyticSearchDiverged:
-			return best.ending(BrownDennisCGAnalyticDiverged, out.iterations, out.evaluations)
-		case brownDennisCGAnalyticSearchExhausted, brownDennisCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownDennisCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownDennisCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownDennisCGAnalyticNoDecrease
-			case found.end == brownDennisCGAnalyticSearchTiny && canSettle:
-				verify, stalled = brownDennisCGAnalyticVerifyStall, true
-				continue
-			case found.end == brownDennisCGAnalyticSearchTiny:
-				end = BrownDennisCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownDennisCGAnalyticFiniteVec(&xt) {
-			return best.ending(BrownDennisCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownDennisCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownDennisCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownDennisCGAnalyticDifference(&s, &xt, &x)
-		brownDennisCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownDennisCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownDennisCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownDennisCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownDennisCGAnalyticUnlimited)
 }
 
 // brownDennisCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o brownDennisCGAnalyticOutcome) ending(end BrownDennisCGAnalyticStatus, it
 	return o
 }
 
-// brownDennisCGAnalyticEnterBox: without bounds every start is inside.
-func brownDennisCGAnalyticEnterBox(x *[4]float64, b *brownDennisCGAnalyticBox) {}
-
-// brownDennisCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownDennisCGAnalyticFinite(v float64) bool {
-	return v >= -brownDennisCGAnalyticLargestFinite && v <= brownDennisCGAnalyticLargestFinite
+// brownDennisCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownDennisCGAnalyticDescent struct {
+	lim       BrownDennisCGAnalyticLimits
+	stage     int                              // what advance does next
+	diffs     brownDennisCGAnalyticDifferences // the box and the difference intervals
+	dir       brownDennisCGAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                       // the search direction, the last step and its gradient change
+	fx        float64                          // f(x)
+	t, slope  float64                          // the previous iteration's accepted step and slope
+	out, best brownDennisCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                          // f(x0)
+	rises     int                              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                             // whether g and e at x come from brownDennisCGAnalyticConfirmGradient or settle
+	stalled   bool                             // whether the run can make no more progress at x
+	retried   int                              // the iteration whose stall was retried with recalibrated differences
+	verify    int                              // what to check at x before judging it again
 }
 
-// brownDennisCGAnalyticFiniteVec reports whether every component of x is finite.
-func brownDennisCGAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownDennisCGAnalyticDescent) prepare(x0 [4]float64, lim BrownDennisCGAnalyticLimits, bounds brownDennisCGAnalyticBox) {
+	r.lim, r.stage = lim, brownDennisCGAnalyticStageBegin
+	r.diffs = brownDennisCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	brownDennisCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = brownDennisCGAnalyticOutcome{x: r.x, f: math.NaN(), status: BrownDennisCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownDennisCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownDennisCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownDennisCGAnalyticSettleCalls and brownDennisCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownDennisCGAnalyticDescent) advance(budget int) brownDennisCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != brownDennisCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownDennisCGAnalyticStageBegin:
+			if left < 1+brownDennisCGAnalyticCalibrationCost+brownDennisCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownDennisCGAnalyticStageJudge:
+			if r.verify != brownDennisCGAnalyticVerifyNothing && left < brownDennisCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownDennisCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownDennisCGAnalyticDescent) paused() brownDennisCGAnalyticOutcome {
+	return r.best.ending(BrownDennisCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownDennisCGAnalyticDescent) finish(end BrownDennisCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownDennisCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownDennisCGAnalyticDescent) begin() {
+	r.stage = brownDennisCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownDennisCGAnalyticFinite(r.fx) || !brownDennisCGAnalyticFiniteVec(&r.x) {
+		r.out.status = BrownDennisCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := brownDennisCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownDennisCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownDennisCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownDennisCGAnalyticFiniteVec(&r.g) {
+		r.out.status = BrownDennisCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownDennisCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownDennisCGAnalyticVerifyNothing
+	r.stage = brownDennisCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownDennisCGAnalyticStageSearch next when the run goes on.
+func (r *brownDennisCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != brownDennisCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownDennisCGAnalyticConfirmGradient and settle).
+		calls, ok := brownDennisCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownDennisCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownDennisCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !brownDennisCGAnalyticFiniteVec(&r.g) {
+			r.finish(BrownDennisCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownDennisCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		brownDennisCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownDennisCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownDennisCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownDennisCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownDennisCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownDennisCGAnalyticGradientSmall
+		r.stage = brownDennisCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownDennisCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownDennisCGAnalyticDerivativeCost == 0 {
+			r.finish(BrownDennisCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownDennisCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownDennisCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownDennisCGAnalyticDiverged)
+			return
+		}
+		brownDennisCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownDennisCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = brownDennisCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownDennisCGAnalyticStageJudge next when the run
+// goes on.
+func (r *brownDennisCGAnalyticDescent) search() {
+	brownDennisCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownDennisCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !brownDennisCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownDennisCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownDennisCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(brownDennisCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownDennisCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := brownDennisCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownDennisCGAnalyticSearchOutOfBudget:
+		r.finish(BrownDennisCGAnalyticOutOfEvaluations)
+		return
+	case brownDennisCGAnalyticSearchDiverged:
+		r.finish(BrownDennisCGAnalyticDiverged)
+		return
+	case brownDennisCGAnalyticSearchExhausted, brownDennisCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownDennisCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownDennisCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownDennisCGAnalyticNoDecrease
+		case found.end == brownDennisCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownDennisCGAnalyticVerifyStall, true, brownDennisCGAnalyticStageJudge
+			return
+		case found.end == brownDennisCGAnalyticSearchTiny:
+			end = BrownDennisCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownDennisCGAnalyticFiniteVec(&xt) {
+		r.finish(BrownDennisCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownDennisCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownDennisCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownDennisCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownDennisCGAnalyticDifference(&r.s, &xt, &r.x)
+	brownDennisCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownDennisCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownDennisCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = brownDennisCGAnalyticStageJudge
 }
 
 // brownDennisCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type brownDennisCGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisCGAnalyticRoundingFloor)
 	bounds    brownDennisCGAnalyticBox
-}
-
-// brownDennisCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func brownDennisCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDennisCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// brownDennisCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownDennisCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisCGAnalyticDifferences) int {
-	BrownDennisGrad(x, g)
-	return 0
 }
 
 // brownDennisCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func brownDennisCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// brownDennisCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownDennisCGAnalyticFinite(v float64) bool {
+	return v >= -brownDennisCGAnalyticLargestFinite && v <= brownDennisCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownDennisCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownDennisCGAnalyticStageJudge         // settle when asked (brownDennisCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	brownDennisCGAnalyticStageSearch        // the line search and the gradient at the accepted point: brownDennisCGAnalyticIterationCalls
+	brownDennisCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// brownDennisCGAnalyticEnterBox: without bounds every start is inside.
+func brownDennisCGAnalyticEnterBox(x *[4]float64, b *brownDennisCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	brownDennisCGAnalyticVerifyNothing = iota
 	brownDennisCGAnalyticVerifyPass    // a difference gradient passed the test
 	brownDennisCGAnalyticVerifyStall   // no step makes progress
 )
+
+// brownDennisCGAnalyticFiniteVec reports whether every component of x is finite.
+func brownDennisCGAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !brownDennisCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownDennisCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownDennisCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDennisCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// brownDennisCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func brownDennisCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisCGAnalyticDifferences) int {
+	BrownDennisGrad(x, g)
+	return 0
+}
 
 // brownDennisCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownDennisCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func brownDennisCGAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownDennisCGAnalyticUnlimited is a tick budget that never pauses a run.
+const brownDennisCGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestBrownDennisCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBrownDennisCGAnalyticSolverTicks advances a BrownDennisCGAnalyticSolver from the spec's start with budgets of BrownDennisCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownDennisCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownDennisCGAnalyticSolverTicks(t *testing.T) {
+	want := BrownDennisCGAnalytic(brownDennisCGAnalyticTestStart())
+	for _, budget := range []int{BrownDennisCGAnalyticTickMinimum, BrownDennisCGAnalyticTickMinimum + 1, 2 * BrownDennisCGAnalyticTickMinimum, 7 * BrownDennisCGAnalyticTickMinimum} {
+		var s BrownDennisCGAnalyticSolver
+		s.Start(brownDennisCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownDennisCGAnalyticRunning {
+				if !brownDennisCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownDennisCGAnalyticSolver
+	s.Start(brownDennisCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BrownDennisCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownDennisCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownDennisCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BrownDennisCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownDennisCGAnalyticTestStart())
+		for s.Advance(BrownDennisCGAnalyticTickMinimum).Status == BrownDennisCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownDennisCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownDennisCGAnalyticTestSameResult(a, b BrownDennisCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownDennisCGAnalytic measures one whole run from the spec's start.
 func BenchmarkBrownDennisCGAnalytic(b *testing.B) {
 	var r BrownDennisCGAnalyticResult

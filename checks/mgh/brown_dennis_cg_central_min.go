@@ -26,6 +26,8 @@ const (
 	BrownDennisCGCentralNoDecrease
 	// BrownDennisCGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownDennisCGCentralDiverged
+	// BrownDennisCGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownDennisCGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownDennisCGCentralStatus) String() string {
 		return "no decrease"
 	case BrownDennisCGCentralDiverged:
 		return "diverged"
+	case BrownDennisCGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func BrownDennisCGCentralWithLimits(x0 [4]float64, limits BrownDennisCGCentralLi
 	}
 }
 
+// BrownDennisCGCentralTickMinimum is the smallest call budget with which every BrownDennisCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const BrownDennisCGCentralTickMinimum = 432
+
+// BrownDennisCGCentralSolver is a run of BrownDennisCGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownDennisCGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least BrownDennisCGCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownDennisCGCentralRunning ends exactly as BrownDennisCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownDennisCGCentral and BrownDennisCGCentralWithLimits use at most 2896 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is BrownDennisCGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownDennisCGCentralSolver struct {
+	run       brownDennisCGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownDennisCGCentralLimits  // the limits of the runs; BrownDennisCGCentralDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownDennisCGCentralSolver) SetLimits(limits BrownDennisCGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownDennisCGCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *BrownDennisCGCentralSolver) StartFrom(from BrownDennisCGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownDennisCGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownDennisCGCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = BrownDennisCGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownDennisCGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownDennisCGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownDennisCGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownDennisCGCentralSolver) Advance(budget int) BrownDennisCGCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownDennisCGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownDennisCGCentral from mgh.toml; the kernels below read them.
 const (
-	brownDennisCGCentralStepInitial    = 1.0                    // step.initial
-	brownDennisCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownDennisCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	brownDennisCGCentralStepTrials     = 48                     // step.trials
-	brownDennisCGCentralDerivativeCost = 8                      // objective calls per gradient
-	brownDennisCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownDennisCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownDennisCGCentralStepInitial     = 1.0                    // step.initial
+	brownDennisCGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownDennisCGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	brownDennisCGCentralStepTrials      = 48                     // step.trials
+	brownDennisCGCentralDerivativeCost  = 8                      // objective calls per gradient
+	brownDennisCGCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	brownDennisCGCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	brownDennisCGCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownDennisCGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownDennisCGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownDennisCGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits, bounds brownDennisCGCentralBox) brownDennisCGCentralOutcome {
-	x := x0
-	brownDennisCGCentralEnterBox(&x, &bounds)
-	out := brownDennisCGCentralOutcome{x: x, status: BrownDennisCGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownDennis(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownDennisCGCentralFinite(fx) || !brownDennisCGCentralFiniteVec(&x) {
-		out.status = BrownDennisCGCentralNonFiniteStart
-		return out
-	}
-	diffs := brownDennisCGCentralDifferences{bounds: bounds}
-	calls, ok := brownDennisCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownDennisCGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += brownDennisCGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !brownDennisCGCentralFiniteVec(&g) {
-		out.status = BrownDennisCGCentralNonFiniteGradient
-		return out
-	}
-	var dir brownDennisCGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(brownDennisCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from brownDennisCGCentralConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := brownDennisCGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownDennisCGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownDennisCGCentralConfirmGradient and settle).
-			calls, ok := brownDennisCGCentralSettle(&x, fx, &g, &e, &diffs, verify == brownDennisCGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisCGCentralFiniteVec(&g) {
-				return best.ending(BrownDennisCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownDennisCGCentralVerifyNothing, true
-		case !confirmed:
-			brownDennisCGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownDennisCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownDennisCGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownDennisCGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownDennisCGCentralDerivativeCost == 0 || confirmed) {
-			out.status = BrownDennisCGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownDennisCGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownDennisCGCentralDerivativeCost == 0 {
-				return best.ending(BrownDennisCGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownDennisCGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownDennisCGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownDennisCGCentralDiverged, out.iterations, out.evaluations)
-			}
-			brownDennisCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownDennisCGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownDennisCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownDennisCGCentralDot(&g, &d)
-		if !(now < 0) || !brownDennisCGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownDennisCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownDennisCGCentralDot(&g, &d)
-		}
-		first := float64(brownDennisCGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownDennisCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownDennisCGCentralSearchOutOfBudget:
-			return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case brownDennisCGCentralSearchDiverged:
-			return best.ending(BrownDennisCGCentralDiverged, out.iterations, out.evaluations)
-		case brownDennisCGCentralSearchExhausted, brownDennisCGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownDennisCGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownDennisCGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownDennisCGCentralNoDecrease
-			case found.end == brownDennisCGCentralSearchTiny && canSettle:
-				verify, stalled = brownDennisCGCentralVerifyStall, true
-				continue
-			case found.end == brownDennisCGCentralSearchTiny:
-				end = BrownDennisCGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownDennisCGCentralFiniteVec(&xt) {
-			return best.ending(BrownDennisCGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownDennisCGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownDennisCGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownDennisCGCentralDifference(&s, &xt, &x)
-		brownDennisCGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownDennisCGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownDennisCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownDennisCGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownDennisCGCentralUnlimited)
 }
 
 // brownDennisCGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o brownDennisCGCentralOutcome) ending(end BrownDennisCGCentralStatus, iter
 	return o
 }
 
-// brownDennisCGCentralEnterBox: without bounds every start is inside.
-func brownDennisCGCentralEnterBox(x *[4]float64, b *brownDennisCGCentralBox) {}
-
-// brownDennisCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownDennisCGCentralFinite(v float64) bool {
-	return v >= -brownDennisCGCentralLargestFinite && v <= brownDennisCGCentralLargestFinite
+// brownDennisCGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownDennisCGCentralDescent struct {
+	lim       BrownDennisCGCentralLimits
+	stage     int                             // what advance does next
+	diffs     brownDennisCGCentralDifferences // the box and the difference intervals
+	dir       brownDennisCGCentralDirection   // the direction's memory
+	x, g, e   [4]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best brownDennisCGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from brownDennisCGCentralConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
 }
 
-// brownDennisCGCentralFiniteVec reports whether every component of x is finite.
-func brownDennisCGCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisCGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownDennisCGCentralDescent) prepare(x0 [4]float64, lim BrownDennisCGCentralLimits, bounds brownDennisCGCentralBox) {
+	r.lim, r.stage = lim, brownDennisCGCentralStageBegin
+	r.diffs = brownDennisCGCentralDifferences{bounds: bounds}
+	r.x = x0
+	brownDennisCGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = brownDennisCGCentralOutcome{x: r.x, f: math.NaN(), status: BrownDennisCGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownDennisCGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownDennisCGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownDennisCGCentralSettleCalls and brownDennisCGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownDennisCGCentralDescent) advance(budget int) brownDennisCGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != brownDennisCGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownDennisCGCentralStageBegin:
+			if left < 1+brownDennisCGCentralCalibrationCost+brownDennisCGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownDennisCGCentralStageJudge:
+			if r.verify != brownDennisCGCentralVerifyNothing && left < brownDennisCGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownDennisCGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownDennisCGCentralDescent) paused() brownDennisCGCentralOutcome {
+	return r.best.ending(BrownDennisCGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownDennisCGCentralDescent) finish(end BrownDennisCGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownDennisCGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownDennisCGCentralDescent) begin() {
+	r.stage = brownDennisCGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownDennisCGCentralFinite(r.fx) || !brownDennisCGCentralFiniteVec(&r.x) {
+		r.out.status = BrownDennisCGCentralNonFiniteStart
+		return
+	}
+	calls, ok := brownDennisCGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownDennisCGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownDennisCGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownDennisCGCentralFiniteVec(&r.g) {
+		r.out.status = BrownDennisCGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownDennisCGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownDennisCGCentralVerifyNothing
+	r.stage = brownDennisCGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownDennisCGCentralStageSearch next when the run goes on.
+func (r *brownDennisCGCentralDescent) judge() {
+	switch {
+	case r.verify != brownDennisCGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownDennisCGCentralConfirmGradient and settle).
+		calls, ok := brownDennisCGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownDennisCGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownDennisCGCentralOutOfEvaluations)
+			return
+		}
+		if !brownDennisCGCentralFiniteVec(&r.g) {
+			r.finish(BrownDennisCGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownDennisCGCentralVerifyNothing, true
+	case !r.confirmed:
+		brownDennisCGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownDennisCGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownDennisCGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownDennisCGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownDennisCGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownDennisCGCentralGradientSmall
+		r.stage = brownDennisCGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownDennisCGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownDennisCGCentralDerivativeCost == 0 {
+			r.finish(BrownDennisCGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownDennisCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownDennisCGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownDennisCGCentralDiverged)
+			return
+		}
+		brownDennisCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownDennisCGCentralOutOfIterations)
+		return
+	}
+	r.stage = brownDennisCGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownDennisCGCentralStageJudge next when the run
+// goes on.
+func (r *brownDennisCGCentralDescent) search() {
+	brownDennisCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownDennisCGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !brownDennisCGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownDennisCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownDennisCGCentralDot(&r.g, &r.d)
+	}
+	first := float64(brownDennisCGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownDennisCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := brownDennisCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownDennisCGCentralSearchOutOfBudget:
+		r.finish(BrownDennisCGCentralOutOfEvaluations)
+		return
+	case brownDennisCGCentralSearchDiverged:
+		r.finish(BrownDennisCGCentralDiverged)
+		return
+	case brownDennisCGCentralSearchExhausted, brownDennisCGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownDennisCGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownDennisCGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownDennisCGCentralNoDecrease
+		case found.end == brownDennisCGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownDennisCGCentralVerifyStall, true, brownDennisCGCentralStageJudge
+			return
+		case found.end == brownDennisCGCentralSearchTiny:
+			end = BrownDennisCGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownDennisCGCentralFiniteVec(&xt) {
+		r.finish(BrownDennisCGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownDennisCGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownDennisCGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownDennisCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownDennisCGCentralDifference(&r.s, &xt, &r.x)
+	brownDennisCGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownDennisCGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownDennisCGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = brownDennisCGCentralStageJudge
 }
 
 // brownDennisCGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type brownDennisCGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisCGCentralRoundingFloor)
 	bounds    brownDennisCGCentralBox
+}
+
+// brownDennisCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type brownDennisCGCentralDirection struct {
+	previous [4]float64 // d₋₁
+	change   [4]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *brownDennisCGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *brownDennisCGCentralDirection) compute(g, d *[4]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
+		beta = brownDennisCGCentralLarger(brownDennisCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = brownDennisCGCentralDot(g, g)
+}
+
+func (s *brownDennisCGCentralDirection) update(step, change *[4]float64) {
+	s.change = *change
+}
+
+func (s *brownDennisCGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return brownDennisCGCentralScaledTrial(t, slope, now)
+}
+
+// brownDennisCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownDennisCGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// brownDennisCGCentralDot returns aᵀb.
+func brownDennisCGCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// brownDennisCGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to brownDennisCGCentralStepInitial.
+func brownDennisCGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !brownDennisCGCentralFinite(next) {
+		return brownDennisCGCentralStepInitial
+	}
+	return next
+}
+
+// brownDennisCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownDennisCGCentralFinite(v float64) bool {
+	return v >= -brownDennisCGCentralLargestFinite && v <= brownDennisCGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownDennisCGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownDennisCGCentralStageJudge         // settle when asked (brownDennisCGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	brownDennisCGCentralStageSearch        // the line search and the gradient at the accepted point: brownDennisCGCentralIterationCalls
+	brownDennisCGCentralStageOver          // the run has ended; out is its result
+)
+
+// brownDennisCGCentralEnterBox: without bounds every start is inside.
+func brownDennisCGCentralEnterBox(x *[4]float64, b *brownDennisCGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	brownDennisCGCentralVerifyNothing = iota
+	brownDennisCGCentralVerifyPass    // a difference gradient passed the test
+	brownDennisCGCentralVerifyStall   // no step makes progress
+)
+
+// brownDennisCGCentralFiniteVec reports whether every component of x is finite.
+func brownDennisCGCentralFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !brownDennisCGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisCGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func brownDennisCGCentralAbs(v float64) float64 {
 // brownDennisCGCentralSquareRoot returns √v.
 func brownDennisCGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// brownDennisCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func brownDennisCGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // brownDennisCGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func brownDennisCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// brownDennisCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type brownDennisCGCentralDirection struct {
-	previous [4]float64 // d₋₁
-	change   [4]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *brownDennisCGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *brownDennisCGCentralDirection) compute(g, d *[4]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
-		beta = brownDennisCGCentralLarger(brownDennisCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = brownDennisCGCentralDot(g, g)
-}
-
-func (s *brownDennisCGCentralDirection) update(step, change *[4]float64) {
-	s.change = *change
-}
-
-func (s *brownDennisCGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return brownDennisCGCentralScaledTrial(t, slope, now)
-}
-
-// brownDennisCGCentralDot returns aᵀb.
-func brownDennisCGCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// brownDennisCGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to brownDennisCGCentralStepInitial.
-func brownDennisCGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !brownDennisCGCentralFinite(next) {
-		return brownDennisCGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	brownDennisCGCentralVerifyNothing = iota
-	brownDennisCGCentralVerifyPass    // a difference gradient passed the test
-	brownDennisCGCentralVerifyStall   // no step makes progress
-)
 
 // brownDennisCGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownDennisCGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func brownDennisCGCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownDennisCGCentralUnlimited is a tick budget that never pauses a run.
+const brownDennisCGCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestBrownDennisCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBrownDennisCGCentralSolverTicks advances a BrownDennisCGCentralSolver from the spec's start with budgets of BrownDennisCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownDennisCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownDennisCGCentralSolverTicks(t *testing.T) {
+	want := BrownDennisCGCentral(brownDennisCGCentralTestStart())
+	for _, budget := range []int{BrownDennisCGCentralTickMinimum, BrownDennisCGCentralTickMinimum + 1, 2 * BrownDennisCGCentralTickMinimum, 7 * BrownDennisCGCentralTickMinimum} {
+		var s BrownDennisCGCentralSolver
+		s.Start(brownDennisCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownDennisCGCentralRunning {
+				if !brownDennisCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownDennisCGCentralSolver
+	s.Start(brownDennisCGCentralTestStart())
+	if r := s.Advance(0); r.Status != BrownDennisCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownDennisCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownDennisCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s BrownDennisCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownDennisCGCentralTestStart())
+		for s.Advance(BrownDennisCGCentralTickMinimum).Status == BrownDennisCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownDennisCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownDennisCGCentralTestSameResult(a, b BrownDennisCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownDennisCGCentral measures one whole run from the spec's start.
 func BenchmarkBrownDennisCGCentral(b *testing.B) {
 	var r BrownDennisCGCentralResult

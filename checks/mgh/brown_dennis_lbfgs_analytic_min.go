@@ -26,6 +26,8 @@ const (
 	BrownDennisLBFGSAnalyticNoDecrease
 	// BrownDennisLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	BrownDennisLBFGSAnalyticDiverged
+	// BrownDennisLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	BrownDennisLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s BrownDennisLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case BrownDennisLBFGSAnalyticDiverged:
 		return "diverged"
+	case BrownDennisLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func BrownDennisLBFGSAnalyticWithLimits(x0 [4]float64, limits BrownDennisLBFGSAn
 	}
 }
 
+// BrownDennisLBFGSAnalyticTickMinimum is the smallest call budget with which every BrownDennisLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const BrownDennisLBFGSAnalyticTickMinimum = 48
+
+// BrownDennisLBFGSAnalyticSolver is a run of BrownDennisLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (BrownDennisLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least BrownDennisLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not BrownDennisLBFGSAnalyticRunning ends exactly as BrownDennisLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownDennisLBFGSAnalytic and BrownDennisLBFGSAnalyticWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is BrownDennisLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type BrownDennisLBFGSAnalyticSolver struct {
+	run       brownDennisLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    BrownDennisLBFGSAnalyticLimits  // the limits of the runs; BrownDennisLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                            // whether SetLimits has set limits
+	started   bool                            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *BrownDennisLBFGSAnalyticSolver) SetLimits(limits BrownDennisLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *BrownDennisLBFGSAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *BrownDennisLBFGSAnalyticSolver) StartFrom(from BrownDennisLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *BrownDennisLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *BrownDennisLBFGSAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = BrownDennisLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, brownDennisLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status BrownDennisLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See BrownDennisLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *BrownDennisLBFGSAnalyticSolver) Advance(budget int) BrownDennisLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return BrownDennisLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of BrownDennisLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	brownDennisLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	brownDennisLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	brownDennisLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	brownDennisLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	brownDennisLBFGSAnalyticStepTrials     = 48                     // step.trials
-	brownDennisLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	brownDennisLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	brownDennisLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	brownDennisLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	brownDennisLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	brownDennisLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	brownDennisLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	brownDennisLBFGSAnalyticStepTrials      = 48                     // step.trials
+	brownDennisLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	brownDennisLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	brownDennisLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	brownDennisLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	brownDennisLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	brownDennisLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // brownDennisLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyticLimits, bounds brownDennisLBFGSAnalyticBox) brownDennisLBFGSAnalyticOutcome {
-	x := x0
-	brownDennisLBFGSAnalyticEnterBox(&x, &bounds)
-	out := brownDennisLBFGSAnalyticOutcome{x: x, status: BrownDennisLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := BrownDennis(&x)
-	out.f, out.evaluations = fx, 1
-	if !brownDennisLBFGSAnalyticFinite(fx) || !brownDennisLBFGSAnalyticFiniteVec(&x) {
-		out.status = BrownDennisLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := brownDennisLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := brownDennisLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+brownDennisLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += brownDennisLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !brownDennisLBFGSAnalyticFiniteVec(&g) {
-		out.status = BrownDennisLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir brownDennisLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(brownDennisLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from brownDennisLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                     // whether the run can make no more progress at x
-	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
-	verify := brownDennisLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != brownDennisLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see brownDennisLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := brownDennisLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownDennisLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownDennisLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = brownDennisLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			brownDennisLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := brownDennisLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, brownDennisLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * brownDennisLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (brownDennisLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = BrownDennisLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = brownDennisLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if brownDennisLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(BrownDennisLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if brownDennisLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = brownDennisLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(BrownDennisLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			brownDennisLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(BrownDennisLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		brownDennisLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := brownDennisLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !brownDennisLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			brownDennisLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = brownDennisLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(brownDennisLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := brownDennisLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case brownDennisLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case brownDennisLBFGSAnalyticSearchDiverged:
-			return best.ending(BrownDennisLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case brownDennisLBFGSAnalyticSearchExhausted, brownDennisLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see brownDennisLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := BrownDennisLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = BrownDennisLBFGSAnalyticNoDecrease
-			case found.end == brownDennisLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = brownDennisLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == brownDennisLBFGSAnalyticSearchTiny:
-				end = BrownDennisLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !brownDennisLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(BrownDennisLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+brownDennisLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += brownDennisLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		brownDennisLBFGSAnalyticDifference(&s, &xt, &x)
-		brownDennisLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !brownDennisLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(BrownDennisLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r brownDennisLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(brownDennisLBFGSAnalyticUnlimited)
 }
 
 // brownDennisLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o brownDennisLBFGSAnalyticOutcome) ending(end BrownDennisLBFGSAnalyticStat
 	return o
 }
 
-// brownDennisLBFGSAnalyticEnterBox: without bounds every start is inside.
-func brownDennisLBFGSAnalyticEnterBox(x *[4]float64, b *brownDennisLBFGSAnalyticBox) {}
-
-// brownDennisLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func brownDennisLBFGSAnalyticFinite(v float64) bool {
-	return v >= -brownDennisLBFGSAnalyticLargestFinite && v <= brownDennisLBFGSAnalyticLargestFinite
+// brownDennisLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type brownDennisLBFGSAnalyticDescent struct {
+	lim       BrownDennisLBFGSAnalyticLimits
+	stage     int                                 // what advance does next
+	diffs     brownDennisLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       brownDennisLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                          // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                          // the search direction, the last step and its gradient change
+	fx        float64                             // f(x)
+	t, slope  float64                             // the previous iteration's accepted step and slope
+	out, best brownDennisLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                             // f(x0)
+	rises     int                                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                // whether g and e at x come from brownDennisLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                // whether the run can make no more progress at x
+	retried   int                                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                                 // what to check at x before judging it again
 }
 
-// brownDennisLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func brownDennisLBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *brownDennisLBFGSAnalyticDescent) prepare(x0 [4]float64, lim BrownDennisLBFGSAnalyticLimits, bounds brownDennisLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, brownDennisLBFGSAnalyticStageBegin
+	r.diffs = brownDennisLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	brownDennisLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = brownDennisLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: BrownDennisLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *brownDennisLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with BrownDennisLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, brownDennisLBFGSAnalyticSettleCalls and brownDennisLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *brownDennisLBFGSAnalyticDescent) advance(budget int) brownDennisLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != brownDennisLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case brownDennisLBFGSAnalyticStageBegin:
+			if left < 1+brownDennisLBFGSAnalyticCalibrationCost+brownDennisLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case brownDennisLBFGSAnalyticStageJudge:
+			if r.verify != brownDennisLBFGSAnalyticVerifyNothing && left < brownDennisLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < brownDennisLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *brownDennisLBFGSAnalyticDescent) paused() brownDennisLBFGSAnalyticOutcome {
+	return r.best.ending(BrownDennisLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *brownDennisLBFGSAnalyticDescent) finish(end BrownDennisLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = brownDennisLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *brownDennisLBFGSAnalyticDescent) begin() {
+	r.stage = brownDennisLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !brownDennisLBFGSAnalyticFinite(r.fx) || !brownDennisLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = BrownDennisLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := brownDennisLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+brownDennisLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += brownDennisLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !brownDennisLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = BrownDennisLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = brownDennisLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, brownDennisLBFGSAnalyticVerifyNothing
+	r.stage = brownDennisLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves brownDennisLBFGSAnalyticStageSearch next when the run goes on.
+func (r *brownDennisLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != brownDennisLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see brownDennisLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := brownDennisLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == brownDennisLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(BrownDennisLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !brownDennisLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(BrownDennisLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = brownDennisLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		brownDennisLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := brownDennisLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, brownDennisLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * brownDennisLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (brownDennisLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = BrownDennisLBFGSAnalyticGradientSmall
+		r.stage = brownDennisLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = brownDennisLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if brownDennisLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(BrownDennisLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if brownDennisLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = brownDennisLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(BrownDennisLBFGSAnalyticDiverged)
+			return
+		}
+		brownDennisLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(BrownDennisLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = brownDennisLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves brownDennisLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *brownDennisLBFGSAnalyticDescent) search() {
+	brownDennisLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := brownDennisLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !brownDennisLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		brownDennisLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = brownDennisLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(brownDennisLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := brownDennisLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := brownDennisLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case brownDennisLBFGSAnalyticSearchOutOfBudget:
+		r.finish(BrownDennisLBFGSAnalyticOutOfEvaluations)
+		return
+	case brownDennisLBFGSAnalyticSearchDiverged:
+		r.finish(BrownDennisLBFGSAnalyticDiverged)
+		return
+	case brownDennisLBFGSAnalyticSearchExhausted, brownDennisLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see brownDennisLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := BrownDennisLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = BrownDennisLBFGSAnalyticNoDecrease
+		case found.end == brownDennisLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = brownDennisLBFGSAnalyticVerifyStall, true, brownDennisLBFGSAnalyticStageJudge
+			return
+		case found.end == brownDennisLBFGSAnalyticSearchTiny:
+			end = BrownDennisLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !brownDennisLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(BrownDennisLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+brownDennisLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(BrownDennisLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += brownDennisLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	brownDennisLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	brownDennisLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !brownDennisLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(BrownDennisLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = brownDennisLBFGSAnalyticStageJudge
 }
 
 // brownDennisLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type brownDennisLBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisLBFGSAnalyticRoundingFloor)
 	bounds    brownDennisLBFGSAnalyticBox
-}
-
-// brownDennisLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func brownDennisLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDennisLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// brownDennisLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownDennisLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) int {
-	BrownDennisGrad(x, g)
-	return 0
 }
 
 // brownDennisLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func brownDennisLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisLBFGSAnalyticDot(s, s))*(sy/brownDennisLBFGSAnalyticDot(y, y)) > brownDennisLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	brownDennisLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	brownDennisLBFGSAnalyticStageJudge         // settle when asked (brownDennisLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	brownDennisLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: brownDennisLBFGSAnalyticIterationCalls
+	brownDennisLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// brownDennisLBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownDennisLBFGSAnalyticEnterBox(x *[4]float64, b *brownDennisLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	brownDennisLBFGSAnalyticVerifyNothing = iota
 	brownDennisLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownDennisLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownDennisLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func brownDennisLBFGSAnalyticFinite(v float64) bool {
+	return v >= -brownDennisLBFGSAnalyticLargestFinite && v <= brownDennisLBFGSAnalyticLargestFinite
+}
+
+// brownDennisLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func brownDennisLBFGSAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !brownDennisLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownDennisLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownDennisLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDennisLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// brownDennisLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func brownDennisLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) int {
+	BrownDennisGrad(x, g)
+	return 0
+}
 
 // brownDennisLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (brownDennisLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func brownDennisLBFGSAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// brownDennisLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const brownDennisLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestBrownDennisLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestBrownDennisLBFGSAnalyticSolverTicks advances a BrownDennisLBFGSAnalyticSolver from the spec's start with budgets of BrownDennisLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownDennisLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownDennisLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := BrownDennisLBFGSAnalytic(brownDennisLBFGSAnalyticTestStart())
+	for _, budget := range []int{BrownDennisLBFGSAnalyticTickMinimum, BrownDennisLBFGSAnalyticTickMinimum + 1, 2 * BrownDennisLBFGSAnalyticTickMinimum, 7 * BrownDennisLBFGSAnalyticTickMinimum} {
+		var s BrownDennisLBFGSAnalyticSolver
+		s.Start(brownDennisLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownDennisLBFGSAnalyticRunning {
+				if !brownDennisLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownDennisLBFGSAnalyticSolver
+	s.Start(brownDennisLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != BrownDennisLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownDennisLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownDennisLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s BrownDennisLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownDennisLBFGSAnalyticTestStart())
+		for s.Advance(BrownDennisLBFGSAnalyticTickMinimum).Status == BrownDennisLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownDennisLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownDennisLBFGSAnalyticTestSameResult(a, b BrownDennisLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownDennisLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkBrownDennisLBFGSAnalytic(b *testing.B) {
 	var r BrownDennisLBFGSAnalyticResult

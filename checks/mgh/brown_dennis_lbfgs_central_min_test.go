@@ -47,6 +47,55 @@ func TestBrownDennisLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestBrownDennisLBFGSCentralSolverTicks advances a BrownDennisLBFGSCentralSolver from the spec's start with budgets of BrownDennisLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where BrownDennisLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestBrownDennisLBFGSCentralSolverTicks(t *testing.T) {
+	want := BrownDennisLBFGSCentral(brownDennisLBFGSCentralTestStart())
+	for _, budget := range []int{BrownDennisLBFGSCentralTickMinimum, BrownDennisLBFGSCentralTickMinimum + 1, 2 * BrownDennisLBFGSCentralTickMinimum, 7 * BrownDennisLBFGSCentralTickMinimum} {
+		var s BrownDennisLBFGSCentralSolver
+		s.Start(brownDennisLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != BrownDennisLBFGSCentralRunning {
+				if !brownDennisLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s BrownDennisLBFGSCentralSolver
+	s.Start(brownDennisLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != BrownDennisLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestBrownDennisLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestBrownDennisLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s BrownDennisLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(brownDennisLBFGSCentralTestStart())
+		for s.Advance(BrownDennisLBFGSCentralTickMinimum).Status == BrownDennisLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// brownDennisLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func brownDennisLBFGSCentralTestSameResult(a, b BrownDennisLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkBrownDennisLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkBrownDennisLBFGSCentral(b *testing.B) {
 	var r BrownDennisLBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	GaussianBFGSAnalyticNoDecrease
 	// GaussianBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GaussianBFGSAnalyticDiverged
+	// GaussianBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GaussianBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GaussianBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case GaussianBFGSAnalyticDiverged:
 		return "diverged"
+	case GaussianBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GaussianBFGSAnalyticWithLimits(x0 [3]float64, limits GaussianBFGSAnalyticLi
 	}
 }
 
+// GaussianBFGSAnalyticTickMinimum is the smallest call budget with which every GaussianBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const GaussianBFGSAnalyticTickMinimum = 48
+
+// GaussianBFGSAnalyticSolver is a run of GaussianBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GaussianBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least GaussianBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GaussianBFGSAnalyticRunning ends exactly as GaussianBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GaussianBFGSAnalytic and GaussianBFGSAnalyticWithLimits use at most 2576 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GaussianBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GaussianBFGSAnalyticSolver struct {
+	run       gaussianBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GaussianBFGSAnalyticLimits  // the limits of the runs; GaussianBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GaussianBFGSAnalyticSolver) SetLimits(limits GaussianBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GaussianBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *GaussianBFGSAnalyticSolver) StartFrom(from GaussianBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *GaussianBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GaussianBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GaussianBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gaussianBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GaussianBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GaussianBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *GaussianBFGSAnalyticSolver) Advance(budget int) GaussianBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GaussianBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GaussianBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	gaussianBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	gaussianBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	gaussianBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	gaussianBFGSAnalyticStepTrials     = 48                     // step.trials
-	gaussianBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	gaussianBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gaussianBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gaussianBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	gaussianBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	gaussianBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	gaussianBFGSAnalyticStepTrials      = 48                     // step.trials
+	gaussianBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	gaussianBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	gaussianBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	gaussianBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gaussianBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gaussianBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gaussianBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits, bounds gaussianBFGSAnalyticBox) gaussianBFGSAnalyticOutcome {
-	x := x0
-	gaussianBFGSAnalyticEnterBox(&x, &bounds)
-	out := gaussianBFGSAnalyticOutcome{x: x, status: GaussianBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Gaussian(&x)
-	out.f, out.evaluations = fx, 1
-	if !gaussianBFGSAnalyticFinite(fx) || !gaussianBFGSAnalyticFiniteVec(&x) {
-		out.status = GaussianBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := gaussianBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := gaussianBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gaussianBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gaussianBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !gaussianBFGSAnalyticFiniteVec(&g) {
-		out.status = GaussianBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir gaussianBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gaussianBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from gaussianBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := gaussianBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gaussianBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gaussianBFGSAnalyticConfirmGradient and settle).
-			calls, ok := gaussianBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gaussianBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GaussianBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gaussianBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			gaussianBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gaussianBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gaussianBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gaussianBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gaussianBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = GaussianBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gaussianBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gaussianBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(GaussianBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gaussianBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gaussianBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GaussianBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			gaussianBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GaussianBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		gaussianBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gaussianBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !gaussianBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gaussianBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gaussianBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(gaussianBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gaussianBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gaussianBFGSAnalyticSearchOutOfBudget:
-			return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case gaussianBFGSAnalyticSearchDiverged:
-			return best.ending(GaussianBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case gaussianBFGSAnalyticSearchExhausted, gaussianBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gaussianBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GaussianBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GaussianBFGSAnalyticNoDecrease
-			case found.end == gaussianBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = gaussianBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == gaussianBFGSAnalyticSearchTiny:
-				end = GaussianBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gaussianBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(GaussianBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gaussianBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gaussianBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gaussianBFGSAnalyticDifference(&s, &xt, &x)
-		gaussianBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gaussianBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GaussianBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gaussianBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gaussianBFGSAnalyticUnlimited)
 }
 
 // gaussianBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o gaussianBFGSAnalyticOutcome) ending(end GaussianBFGSAnalyticStatus, iter
 	return o
 }
 
-// gaussianBFGSAnalyticEnterBox: without bounds every start is inside.
-func gaussianBFGSAnalyticEnterBox(x *[3]float64, b *gaussianBFGSAnalyticBox) {}
-
-// gaussianBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gaussianBFGSAnalyticFinite(v float64) bool {
-	return v >= -gaussianBFGSAnalyticLargestFinite && v <= gaussianBFGSAnalyticLargestFinite
+// gaussianBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gaussianBFGSAnalyticDescent struct {
+	lim       GaussianBFGSAnalyticLimits
+	stage     int                             // what advance does next
+	diffs     gaussianBFGSAnalyticDifferences // the box and the difference intervals
+	dir       gaussianBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best gaussianBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from gaussianBFGSAnalyticConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
 }
 
-// gaussianBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func gaussianBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gaussianBFGSAnalyticDescent) prepare(x0 [3]float64, lim GaussianBFGSAnalyticLimits, bounds gaussianBFGSAnalyticBox) {
+	r.lim, r.stage = lim, gaussianBFGSAnalyticStageBegin
+	r.diffs = gaussianBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	gaussianBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gaussianBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: GaussianBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gaussianBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GaussianBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gaussianBFGSAnalyticSettleCalls and gaussianBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gaussianBFGSAnalyticDescent) advance(budget int) gaussianBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != gaussianBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gaussianBFGSAnalyticStageBegin:
+			if left < 1+gaussianBFGSAnalyticCalibrationCost+gaussianBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gaussianBFGSAnalyticStageJudge:
+			if r.verify != gaussianBFGSAnalyticVerifyNothing && left < gaussianBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gaussianBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gaussianBFGSAnalyticDescent) paused() gaussianBFGSAnalyticOutcome {
+	return r.best.ending(GaussianBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gaussianBFGSAnalyticDescent) finish(end GaussianBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gaussianBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gaussianBFGSAnalyticDescent) begin() {
+	r.stage = gaussianBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gaussianBFGSAnalyticFinite(r.fx) || !gaussianBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = GaussianBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := gaussianBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gaussianBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gaussianBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gaussianBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = GaussianBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gaussianBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gaussianBFGSAnalyticVerifyNothing
+	r.stage = gaussianBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gaussianBFGSAnalyticStageSearch next when the run goes on.
+func (r *gaussianBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != gaussianBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gaussianBFGSAnalyticConfirmGradient and settle).
+		calls, ok := gaussianBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gaussianBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GaussianBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !gaussianBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(GaussianBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gaussianBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		gaussianBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gaussianBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gaussianBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gaussianBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gaussianBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GaussianBFGSAnalyticGradientSmall
+		r.stage = gaussianBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gaussianBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gaussianBFGSAnalyticDerivativeCost == 0 {
+			r.finish(GaussianBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gaussianBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gaussianBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GaussianBFGSAnalyticDiverged)
+			return
+		}
+		gaussianBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GaussianBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = gaussianBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gaussianBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *gaussianBFGSAnalyticDescent) search() {
+	gaussianBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gaussianBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !gaussianBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gaussianBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gaussianBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(gaussianBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gaussianBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gaussianBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gaussianBFGSAnalyticSearchOutOfBudget:
+		r.finish(GaussianBFGSAnalyticOutOfEvaluations)
+		return
+	case gaussianBFGSAnalyticSearchDiverged:
+		r.finish(GaussianBFGSAnalyticDiverged)
+		return
+	case gaussianBFGSAnalyticSearchExhausted, gaussianBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gaussianBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GaussianBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GaussianBFGSAnalyticNoDecrease
+		case found.end == gaussianBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gaussianBFGSAnalyticVerifyStall, true, gaussianBFGSAnalyticStageJudge
+			return
+		case found.end == gaussianBFGSAnalyticSearchTiny:
+			end = GaussianBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gaussianBFGSAnalyticFiniteVec(&xt) {
+		r.finish(GaussianBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gaussianBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GaussianBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gaussianBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gaussianBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	gaussianBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gaussianBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GaussianBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = gaussianBFGSAnalyticStageJudge
 }
 
 // gaussianBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type gaussianBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSAnalyticRoundingFloor)
 	bounds    gaussianBFGSAnalyticBox
-}
-
-// gaussianBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func gaussianBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// gaussianBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gaussianBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianBFGSAnalyticDifferences) int {
-	GaussianGrad(x, g)
-	return 0
 }
 
 // gaussianBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func gaussianBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianBFGSAnalyticDot(s, s))*(sy/gaussianBFGSAnalyticDot(y, y)) > gaussianBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gaussianBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gaussianBFGSAnalyticStageJudge         // settle when asked (gaussianBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	gaussianBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: gaussianBFGSAnalyticIterationCalls
+	gaussianBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// gaussianBFGSAnalyticEnterBox: without bounds every start is inside.
+func gaussianBFGSAnalyticEnterBox(x *[3]float64, b *gaussianBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	gaussianBFGSAnalyticVerifyNothing = iota
 	gaussianBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gaussianBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gaussianBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gaussianBFGSAnalyticFinite(v float64) bool {
+	return v >= -gaussianBFGSAnalyticLargestFinite && v <= gaussianBFGSAnalyticLargestFinite
+}
+
+// gaussianBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func gaussianBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gaussianBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// gaussianBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func gaussianBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// gaussianBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func gaussianBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianBFGSAnalyticDifferences) int {
+	GaussianGrad(x, g)
+	return 0
+}
 
 // gaussianBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (gaussianBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func gaussianBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gaussianBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const gaussianBFGSAnalyticUnlimited = int(^uint(0) >> 1)

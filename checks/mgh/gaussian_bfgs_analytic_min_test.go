@@ -105,6 +105,55 @@ func TestGaussianBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestGaussianBFGSAnalyticSolverTicks advances a GaussianBFGSAnalyticSolver from the spec's start with budgets of GaussianBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GaussianBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGaussianBFGSAnalyticSolverTicks(t *testing.T) {
+	want := GaussianBFGSAnalytic(gaussianBFGSAnalyticTestStart())
+	for _, budget := range []int{GaussianBFGSAnalyticTickMinimum, GaussianBFGSAnalyticTickMinimum + 1, 2 * GaussianBFGSAnalyticTickMinimum, 7 * GaussianBFGSAnalyticTickMinimum} {
+		var s GaussianBFGSAnalyticSolver
+		s.Start(gaussianBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GaussianBFGSAnalyticRunning {
+				if !gaussianBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GaussianBFGSAnalyticSolver
+	s.Start(gaussianBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != GaussianBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGaussianBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGaussianBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s GaussianBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gaussianBFGSAnalyticTestStart())
+		for s.Advance(GaussianBFGSAnalyticTickMinimum).Status == GaussianBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gaussianBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func gaussianBFGSAnalyticTestSameResult(a, b GaussianBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGaussianBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkGaussianBFGSAnalytic(b *testing.B) {
 	var r GaussianBFGSAnalyticResult

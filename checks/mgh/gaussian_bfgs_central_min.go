@@ -26,6 +26,8 @@ const (
 	GaussianBFGSCentralNoDecrease
 	// GaussianBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GaussianBFGSCentralDiverged
+	// GaussianBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GaussianBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GaussianBFGSCentralStatus) String() string {
 		return "no decrease"
 	case GaussianBFGSCentralDiverged:
 		return "diverged"
+	case GaussianBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GaussianBFGSCentralWithLimits(x0 [3]float64, limits GaussianBFGSCentralLimi
 	}
 }
 
+// GaussianBFGSCentralTickMinimum is the smallest call budget with which every GaussianBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const GaussianBFGSCentralTickMinimum = 336
+
+// GaussianBFGSCentralSolver is a run of GaussianBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GaussianBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least GaussianBFGSCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GaussianBFGSCentralRunning ends exactly as GaussianBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GaussianBFGSCentral and GaussianBFGSCentralWithLimits use at most 2576 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GaussianBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GaussianBFGSCentralSolver struct {
+	run       gaussianBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GaussianBFGSCentralLimits  // the limits of the runs; GaussianBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GaussianBFGSCentralSolver) SetLimits(limits GaussianBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GaussianBFGSCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *GaussianBFGSCentralSolver) StartFrom(from GaussianBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *GaussianBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GaussianBFGSCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GaussianBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gaussianBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GaussianBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GaussianBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *GaussianBFGSCentralSolver) Advance(budget int) GaussianBFGSCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GaussianBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GaussianBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	gaussianBFGSCentralStepInitial    = 1.0                    // step.initial
-	gaussianBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	gaussianBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	gaussianBFGSCentralStepTrials     = 48                     // step.trials
-	gaussianBFGSCentralDerivativeCost = 6                      // objective calls per gradient
-	gaussianBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gaussianBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gaussianBFGSCentralStepInitial     = 1.0                    // step.initial
+	gaussianBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	gaussianBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	gaussianBFGSCentralStepTrials      = 48                     // step.trials
+	gaussianBFGSCentralDerivativeCost  = 6                      // objective calls per gradient
+	gaussianBFGSCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	gaussianBFGSCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	gaussianBFGSCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gaussianBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gaussianBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gaussianBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits, bounds gaussianBFGSCentralBox) gaussianBFGSCentralOutcome {
-	x := x0
-	gaussianBFGSCentralEnterBox(&x, &bounds)
-	out := gaussianBFGSCentralOutcome{x: x, status: GaussianBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Gaussian(&x)
-	out.f, out.evaluations = fx, 1
-	if !gaussianBFGSCentralFinite(fx) || !gaussianBFGSCentralFiniteVec(&x) {
-		out.status = GaussianBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := gaussianBFGSCentralDifferences{bounds: bounds}
-	calls, ok := gaussianBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gaussianBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gaussianBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !gaussianBFGSCentralFiniteVec(&g) {
-		out.status = GaussianBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir gaussianBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gaussianBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from gaussianBFGSCentralConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := gaussianBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gaussianBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gaussianBFGSCentralConfirmGradient and settle).
-			calls, ok := gaussianBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gaussianBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianBFGSCentralFiniteVec(&g) {
-				return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gaussianBFGSCentralVerifyNothing, true
-		case !confirmed:
-			gaussianBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gaussianBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gaussianBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gaussianBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gaussianBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = GaussianBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gaussianBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gaussianBFGSCentralDerivativeCost == 0 {
-				return best.ending(GaussianBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gaussianBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gaussianBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GaussianBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			gaussianBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GaussianBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		gaussianBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gaussianBFGSCentralDot(&g, &d)
-		if !(now < 0) || !gaussianBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gaussianBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gaussianBFGSCentralDot(&g, &d)
-		}
-		first := float64(gaussianBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gaussianBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gaussianBFGSCentralSearchOutOfBudget:
-			return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case gaussianBFGSCentralSearchDiverged:
-			return best.ending(GaussianBFGSCentralDiverged, out.iterations, out.evaluations)
-		case gaussianBFGSCentralSearchExhausted, gaussianBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gaussianBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GaussianBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GaussianBFGSCentralNoDecrease
-			case found.end == gaussianBFGSCentralSearchTiny && canSettle:
-				verify, stalled = gaussianBFGSCentralVerifyStall, true
-				continue
-			case found.end == gaussianBFGSCentralSearchTiny:
-				end = GaussianBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gaussianBFGSCentralFiniteVec(&xt) {
-			return best.ending(GaussianBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gaussianBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gaussianBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gaussianBFGSCentralDifference(&s, &xt, &x)
-		gaussianBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gaussianBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gaussianBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gaussianBFGSCentralUnlimited)
 }
 
 // gaussianBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o gaussianBFGSCentralOutcome) ending(end GaussianBFGSCentralStatus, iterat
 	return o
 }
 
+// gaussianBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gaussianBFGSCentralDescent struct {
+	lim       GaussianBFGSCentralLimits
+	stage     int                            // what advance does next
+	diffs     gaussianBFGSCentralDifferences // the box and the difference intervals
+	dir       gaussianBFGSCentralDirection   // the direction's memory
+	x, g, e   [3]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best gaussianBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from gaussianBFGSCentralConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gaussianBFGSCentralDescent) prepare(x0 [3]float64, lim GaussianBFGSCentralLimits, bounds gaussianBFGSCentralBox) {
+	r.lim, r.stage = lim, gaussianBFGSCentralStageBegin
+	r.diffs = gaussianBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	gaussianBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gaussianBFGSCentralOutcome{x: r.x, f: math.NaN(), status: GaussianBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gaussianBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GaussianBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gaussianBFGSCentralSettleCalls and gaussianBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gaussianBFGSCentralDescent) advance(budget int) gaussianBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != gaussianBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gaussianBFGSCentralStageBegin:
+			if left < 1+gaussianBFGSCentralCalibrationCost+gaussianBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gaussianBFGSCentralStageJudge:
+			if r.verify != gaussianBFGSCentralVerifyNothing && left < gaussianBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gaussianBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gaussianBFGSCentralDescent) paused() gaussianBFGSCentralOutcome {
+	return r.best.ending(GaussianBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gaussianBFGSCentralDescent) finish(end GaussianBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gaussianBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gaussianBFGSCentralDescent) begin() {
+	r.stage = gaussianBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gaussianBFGSCentralFinite(r.fx) || !gaussianBFGSCentralFiniteVec(&r.x) {
+		r.out.status = GaussianBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := gaussianBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gaussianBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gaussianBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gaussianBFGSCentralFiniteVec(&r.g) {
+		r.out.status = GaussianBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gaussianBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gaussianBFGSCentralVerifyNothing
+	r.stage = gaussianBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gaussianBFGSCentralStageSearch next when the run goes on.
+func (r *gaussianBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != gaussianBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gaussianBFGSCentralConfirmGradient and settle).
+		calls, ok := gaussianBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gaussianBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GaussianBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !gaussianBFGSCentralFiniteVec(&r.g) {
+			r.finish(GaussianBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gaussianBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		gaussianBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gaussianBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gaussianBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gaussianBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gaussianBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GaussianBFGSCentralGradientSmall
+		r.stage = gaussianBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gaussianBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gaussianBFGSCentralDerivativeCost == 0 {
+			r.finish(GaussianBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gaussianBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gaussianBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GaussianBFGSCentralDiverged)
+			return
+		}
+		gaussianBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GaussianBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = gaussianBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gaussianBFGSCentralStageJudge next when the run
+// goes on.
+func (r *gaussianBFGSCentralDescent) search() {
+	gaussianBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gaussianBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !gaussianBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gaussianBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gaussianBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(gaussianBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gaussianBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gaussianBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gaussianBFGSCentralSearchOutOfBudget:
+		r.finish(GaussianBFGSCentralOutOfEvaluations)
+		return
+	case gaussianBFGSCentralSearchDiverged:
+		r.finish(GaussianBFGSCentralDiverged)
+		return
+	case gaussianBFGSCentralSearchExhausted, gaussianBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gaussianBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GaussianBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GaussianBFGSCentralNoDecrease
+		case found.end == gaussianBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gaussianBFGSCentralVerifyStall, true, gaussianBFGSCentralStageJudge
+			return
+		case found.end == gaussianBFGSCentralSearchTiny:
+			end = GaussianBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gaussianBFGSCentralFiniteVec(&xt) {
+		r.finish(GaussianBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gaussianBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GaussianBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gaussianBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gaussianBFGSCentralDifference(&r.s, &xt, &r.x)
+	gaussianBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gaussianBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GaussianBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = gaussianBFGSCentralStageJudge
+}
+
+// gaussianBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type gaussianBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSCentralRoundingFloor)
+	bounds    gaussianBFGSCentralBox
+}
+
+// gaussianBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type gaussianBFGSCentralDirection struct {
+	h      [3][3]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *gaussianBFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *gaussianBFGSCentralDirection) compute(g, d *[3]float64) {
+	for i := range s.h {
+		d[i] = -gaussianBFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *gaussianBFGSCentralDirection) update(step, change *[3]float64) {
+	if !gaussianBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := gaussianBFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / gaussianBFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [3]float64
+	for i := range s.h {
+		hy[i] = gaussianBFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*gaussianBFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *gaussianBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// gaussianBFGSCentralDot returns aᵀb.
+func gaussianBFGSCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// gaussianBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func gaussianBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
+	sy := gaussianBFGSCentralDot(s, y)
+	return sy > 0 && (sy/gaussianBFGSCentralDot(s, s))*(sy/gaussianBFGSCentralDot(y, y)) > gaussianBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gaussianBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gaussianBFGSCentralStageJudge         // settle when asked (gaussianBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	gaussianBFGSCentralStageSearch        // the line search and the gradient at the accepted point: gaussianBFGSCentralIterationCalls
+	gaussianBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // gaussianBFGSCentralEnterBox: without bounds every start is inside.
 func gaussianBFGSCentralEnterBox(x *[3]float64, b *gaussianBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	gaussianBFGSCentralVerifyNothing = iota
+	gaussianBFGSCentralVerifyPass    // a difference gradient passed the test
+	gaussianBFGSCentralVerifyStall   // no step makes progress
+)
 
 // gaussianBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func gaussianBFGSCentralFiniteVec(x *[3]float64) bool {
 		}
 	}
 	return true
-}
-
-// gaussianBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type gaussianBFGSCentralDifferences struct {
-	ratio     [3]float64
-	curvature [3]float64
-	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSCentralRoundingFloor)
-	bounds    gaussianBFGSCentralBox
 }
 
 // gaussianBFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func gaussianBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float6
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// gaussianBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type gaussianBFGSCentralDirection struct {
-	h      [3][3]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *gaussianBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *gaussianBFGSCentralDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -gaussianBFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *gaussianBFGSCentralDirection) update(step, change *[3]float64) {
-	if !gaussianBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := gaussianBFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / gaussianBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [3]float64
-	for i := range s.h {
-		hy[i] = gaussianBFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*gaussianBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *gaussianBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// gaussianBFGSCentralDot returns aᵀb.
-func gaussianBFGSCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// gaussianBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func gaussianBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := gaussianBFGSCentralDot(s, y)
-	return sy > 0 && (sy/gaussianBFGSCentralDot(s, s))*(sy/gaussianBFGSCentralDot(y, y)) > gaussianBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	gaussianBFGSCentralVerifyNothing = iota
-	gaussianBFGSCentralVerifyPass    // a difference gradient passed the test
-	gaussianBFGSCentralVerifyStall   // no step makes progress
-)
 
 // gaussianBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (gaussianBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func gaussianBFGSCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gaussianBFGSCentralUnlimited is a tick budget that never pauses a run.
+const gaussianBFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestGaussianBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestGaussianBFGSCentralSolverTicks advances a GaussianBFGSCentralSolver from the spec's start with budgets of GaussianBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GaussianBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGaussianBFGSCentralSolverTicks(t *testing.T) {
+	want := GaussianBFGSCentral(gaussianBFGSCentralTestStart())
+	for _, budget := range []int{GaussianBFGSCentralTickMinimum, GaussianBFGSCentralTickMinimum + 1, 2 * GaussianBFGSCentralTickMinimum, 7 * GaussianBFGSCentralTickMinimum} {
+		var s GaussianBFGSCentralSolver
+		s.Start(gaussianBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GaussianBFGSCentralRunning {
+				if !gaussianBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GaussianBFGSCentralSolver
+	s.Start(gaussianBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != GaussianBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGaussianBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGaussianBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s GaussianBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gaussianBFGSCentralTestStart())
+		for s.Advance(GaussianBFGSCentralTickMinimum).Status == GaussianBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gaussianBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func gaussianBFGSCentralTestSameResult(a, b GaussianBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGaussianBFGSCentral measures one whole run from the spec's start.
 func BenchmarkGaussianBFGSCentral(b *testing.B) {
 	var r GaussianBFGSCentralResult

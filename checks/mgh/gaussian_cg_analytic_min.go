@@ -26,6 +26,8 @@ const (
 	GaussianCGAnalyticNoDecrease
 	// GaussianCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GaussianCGAnalyticDiverged
+	// GaussianCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GaussianCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GaussianCGAnalyticStatus) String() string {
 		return "no decrease"
 	case GaussianCGAnalyticDiverged:
 		return "diverged"
+	case GaussianCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GaussianCGAnalyticWithLimits(x0 [3]float64, limits GaussianCGAnalyticLimits
 	}
 }
 
+// GaussianCGAnalyticTickMinimum is the smallest call budget with which every GaussianCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const GaussianCGAnalyticTickMinimum = 48
+
+// GaussianCGAnalyticSolver is a run of GaussianCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GaussianCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least GaussianCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GaussianCGAnalyticRunning ends exactly as GaussianCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GaussianCGAnalytic and GaussianCGAnalyticWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GaussianCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GaussianCGAnalyticSolver struct {
+	run       gaussianCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GaussianCGAnalyticLimits  // the limits of the runs; GaussianCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GaussianCGAnalyticSolver) SetLimits(limits GaussianCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GaussianCGAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *GaussianCGAnalyticSolver) StartFrom(from GaussianCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *GaussianCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GaussianCGAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GaussianCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gaussianCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GaussianCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GaussianCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *GaussianCGAnalyticSolver) Advance(budget int) GaussianCGAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GaussianCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GaussianCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	gaussianCGAnalyticStepInitial    = 1.0                    // step.initial
-	gaussianCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	gaussianCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	gaussianCGAnalyticStepTrials     = 48                     // step.trials
-	gaussianCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	gaussianCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gaussianCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gaussianCGAnalyticStepInitial     = 1.0                    // step.initial
+	gaussianCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	gaussianCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	gaussianCGAnalyticStepTrials      = 48                     // step.trials
+	gaussianCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	gaussianCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	gaussianCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	gaussianCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gaussianCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gaussianCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gaussianCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits, bounds gaussianCGAnalyticBox) gaussianCGAnalyticOutcome {
-	x := x0
-	gaussianCGAnalyticEnterBox(&x, &bounds)
-	out := gaussianCGAnalyticOutcome{x: x, status: GaussianCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Gaussian(&x)
-	out.f, out.evaluations = fx, 1
-	if !gaussianCGAnalyticFinite(fx) || !gaussianCGAnalyticFiniteVec(&x) {
-		out.status = GaussianCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := gaussianCGAnalyticDifferences{bounds: bounds}
-	calls, ok := gaussianCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gaussianCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gaussianCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !gaussianCGAnalyticFiniteVec(&g) {
-		out.status = GaussianCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir gaussianCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gaussianCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from gaussianCGAnalyticConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := gaussianCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gaussianCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gaussianCGAnalyticConfirmGradient and settle).
-			calls, ok := gaussianCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gaussianCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianCGAnalyticFiniteVec(&g) {
-				return best.ending(GaussianCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gaussianCGAnalyticVerifyNothing, true
-		case !confirmed:
-			gaussianCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gaussianCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gaussianCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gaussianCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gaussianCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = GaussianCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gaussianCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gaussianCGAnalyticDerivativeCost == 0 {
-				return best.ending(GaussianCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gaussianCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gaussianCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GaussianCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			gaussianCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GaussianCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		gaussianCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gaussianCGAnalyticDot(&g, &d)
-		if !(now < 0) || !gaussianCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gaussianCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gaussianCGAnalyticDot(&g, &d)
-		}
-		first := float64(gaussianCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gaussianCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gaussianCGAnalyticSearchOutOfBudget:
-			return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case gaussianCGAnalyticSearchDiverged:
-			return best.ending(GaussianCGAnalyticDiverged, out.iterations, out.evaluations)
-		case gaussianCGAnalyticSearchExhausted, gaussianCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gaussianCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GaussianCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GaussianCGAnalyticNoDecrease
-			case found.end == gaussianCGAnalyticSearchTiny && canSettle:
-				verify, stalled = gaussianCGAnalyticVerifyStall, true
-				continue
-			case found.end == gaussianCGAnalyticSearchTiny:
-				end = GaussianCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gaussianCGAnalyticFiniteVec(&xt) {
-			return best.ending(GaussianCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gaussianCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gaussianCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gaussianCGAnalyticDifference(&s, &xt, &x)
-		gaussianCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gaussianCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GaussianCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gaussianCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gaussianCGAnalyticUnlimited)
 }
 
 // gaussianCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o gaussianCGAnalyticOutcome) ending(end GaussianCGAnalyticStatus, iteratio
 	return o
 }
 
-// gaussianCGAnalyticEnterBox: without bounds every start is inside.
-func gaussianCGAnalyticEnterBox(x *[3]float64, b *gaussianCGAnalyticBox) {}
-
-// gaussianCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gaussianCGAnalyticFinite(v float64) bool {
-	return v >= -gaussianCGAnalyticLargestFinite && v <= gaussianCGAnalyticLargestFinite
+// gaussianCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gaussianCGAnalyticDescent struct {
+	lim       GaussianCGAnalyticLimits
+	stage     int                           // what advance does next
+	diffs     gaussianCGAnalyticDifferences // the box and the difference intervals
+	dir       gaussianCGAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best gaussianCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from gaussianCGAnalyticConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// gaussianCGAnalyticFiniteVec reports whether every component of x is finite.
-func gaussianCGAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gaussianCGAnalyticDescent) prepare(x0 [3]float64, lim GaussianCGAnalyticLimits, bounds gaussianCGAnalyticBox) {
+	r.lim, r.stage = lim, gaussianCGAnalyticStageBegin
+	r.diffs = gaussianCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	gaussianCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gaussianCGAnalyticOutcome{x: r.x, f: math.NaN(), status: GaussianCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gaussianCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GaussianCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gaussianCGAnalyticSettleCalls and gaussianCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gaussianCGAnalyticDescent) advance(budget int) gaussianCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != gaussianCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gaussianCGAnalyticStageBegin:
+			if left < 1+gaussianCGAnalyticCalibrationCost+gaussianCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gaussianCGAnalyticStageJudge:
+			if r.verify != gaussianCGAnalyticVerifyNothing && left < gaussianCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gaussianCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gaussianCGAnalyticDescent) paused() gaussianCGAnalyticOutcome {
+	return r.best.ending(GaussianCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gaussianCGAnalyticDescent) finish(end GaussianCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gaussianCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gaussianCGAnalyticDescent) begin() {
+	r.stage = gaussianCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gaussianCGAnalyticFinite(r.fx) || !gaussianCGAnalyticFiniteVec(&r.x) {
+		r.out.status = GaussianCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := gaussianCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gaussianCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gaussianCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gaussianCGAnalyticFiniteVec(&r.g) {
+		r.out.status = GaussianCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gaussianCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gaussianCGAnalyticVerifyNothing
+	r.stage = gaussianCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gaussianCGAnalyticStageSearch next when the run goes on.
+func (r *gaussianCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != gaussianCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gaussianCGAnalyticConfirmGradient and settle).
+		calls, ok := gaussianCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gaussianCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GaussianCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !gaussianCGAnalyticFiniteVec(&r.g) {
+			r.finish(GaussianCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gaussianCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		gaussianCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gaussianCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gaussianCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gaussianCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gaussianCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GaussianCGAnalyticGradientSmall
+		r.stage = gaussianCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gaussianCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gaussianCGAnalyticDerivativeCost == 0 {
+			r.finish(GaussianCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gaussianCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gaussianCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GaussianCGAnalyticDiverged)
+			return
+		}
+		gaussianCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GaussianCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = gaussianCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gaussianCGAnalyticStageJudge next when the run
+// goes on.
+func (r *gaussianCGAnalyticDescent) search() {
+	gaussianCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gaussianCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !gaussianCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gaussianCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gaussianCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(gaussianCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gaussianCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gaussianCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gaussianCGAnalyticSearchOutOfBudget:
+		r.finish(GaussianCGAnalyticOutOfEvaluations)
+		return
+	case gaussianCGAnalyticSearchDiverged:
+		r.finish(GaussianCGAnalyticDiverged)
+		return
+	case gaussianCGAnalyticSearchExhausted, gaussianCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gaussianCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GaussianCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GaussianCGAnalyticNoDecrease
+		case found.end == gaussianCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gaussianCGAnalyticVerifyStall, true, gaussianCGAnalyticStageJudge
+			return
+		case found.end == gaussianCGAnalyticSearchTiny:
+			end = GaussianCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gaussianCGAnalyticFiniteVec(&xt) {
+		r.finish(GaussianCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gaussianCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GaussianCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gaussianCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gaussianCGAnalyticDifference(&r.s, &xt, &r.x)
+	gaussianCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gaussianCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GaussianCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = gaussianCGAnalyticStageJudge
 }
 
 // gaussianCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type gaussianCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianCGAnalyticRoundingFloor)
 	bounds    gaussianCGAnalyticBox
-}
-
-// gaussianCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func gaussianCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// gaussianCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gaussianCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianCGAnalyticDifferences) int {
-	GaussianGrad(x, g)
-	return 0
 }
 
 // gaussianCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func gaussianCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// gaussianCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gaussianCGAnalyticFinite(v float64) bool {
+	return v >= -gaussianCGAnalyticLargestFinite && v <= gaussianCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gaussianCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gaussianCGAnalyticStageJudge         // settle when asked (gaussianCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	gaussianCGAnalyticStageSearch        // the line search and the gradient at the accepted point: gaussianCGAnalyticIterationCalls
+	gaussianCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// gaussianCGAnalyticEnterBox: without bounds every start is inside.
+func gaussianCGAnalyticEnterBox(x *[3]float64, b *gaussianCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	gaussianCGAnalyticVerifyNothing = iota
 	gaussianCGAnalyticVerifyPass    // a difference gradient passed the test
 	gaussianCGAnalyticVerifyStall   // no step makes progress
 )
+
+// gaussianCGAnalyticFiniteVec reports whether every component of x is finite.
+func gaussianCGAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gaussianCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// gaussianCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func gaussianCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// gaussianCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func gaussianCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianCGAnalyticDifferences) int {
+	GaussianGrad(x, g)
+	return 0
+}
 
 // gaussianCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (gaussianCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func gaussianCGAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gaussianCGAnalyticUnlimited is a tick budget that never pauses a run.
+const gaussianCGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestGaussianCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestGaussianCGAnalyticSolverTicks advances a GaussianCGAnalyticSolver from the spec's start with budgets of GaussianCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GaussianCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGaussianCGAnalyticSolverTicks(t *testing.T) {
+	want := GaussianCGAnalytic(gaussianCGAnalyticTestStart())
+	for _, budget := range []int{GaussianCGAnalyticTickMinimum, GaussianCGAnalyticTickMinimum + 1, 2 * GaussianCGAnalyticTickMinimum, 7 * GaussianCGAnalyticTickMinimum} {
+		var s GaussianCGAnalyticSolver
+		s.Start(gaussianCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GaussianCGAnalyticRunning {
+				if !gaussianCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GaussianCGAnalyticSolver
+	s.Start(gaussianCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != GaussianCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGaussianCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGaussianCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s GaussianCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gaussianCGAnalyticTestStart())
+		for s.Advance(GaussianCGAnalyticTickMinimum).Status == GaussianCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gaussianCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func gaussianCGAnalyticTestSameResult(a, b GaussianCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGaussianCGAnalytic measures one whole run from the spec's start.
 func BenchmarkGaussianCGAnalytic(b *testing.B) {
 	var r GaussianCGAnalyticResult

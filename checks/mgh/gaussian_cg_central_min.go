@@ -26,6 +26,8 @@ const (
 	GaussianCGCentralNoDecrease
 	// GaussianCGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GaussianCGCentralDiverged
+	// GaussianCGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GaussianCGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GaussianCGCentralStatus) String() string {
 		return "no decrease"
 	case GaussianCGCentralDiverged:
 		return "diverged"
+	case GaussianCGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GaussianCGCentralWithLimits(x0 [3]float64, limits GaussianCGCentralLimits) 
 	}
 }
 
+// GaussianCGCentralTickMinimum is the smallest call budget with which every GaussianCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const GaussianCGCentralTickMinimum = 336
+
+// GaussianCGCentralSolver is a run of GaussianCGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GaussianCGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least GaussianCGCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GaussianCGCentralRunning ends exactly as GaussianCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GaussianCGCentral and GaussianCGCentralWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GaussianCGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GaussianCGCentralSolver struct {
+	run       gaussianCGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GaussianCGCentralLimits  // the limits of the runs; GaussianCGCentralDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GaussianCGCentralSolver) SetLimits(limits GaussianCGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GaussianCGCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *GaussianCGCentralSolver) StartFrom(from GaussianCGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *GaussianCGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GaussianCGCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GaussianCGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gaussianCGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GaussianCGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GaussianCGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *GaussianCGCentralSolver) Advance(budget int) GaussianCGCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GaussianCGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GaussianCGCentral from mgh.toml; the kernels below read them.
 const (
-	gaussianCGCentralStepInitial    = 1.0                    // step.initial
-	gaussianCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	gaussianCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	gaussianCGCentralStepTrials     = 48                     // step.trials
-	gaussianCGCentralDerivativeCost = 6                      // objective calls per gradient
-	gaussianCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gaussianCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gaussianCGCentralStepInitial     = 1.0                    // step.initial
+	gaussianCGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	gaussianCGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	gaussianCGCentralStepTrials      = 48                     // step.trials
+	gaussianCGCentralDerivativeCost  = 6                      // objective calls per gradient
+	gaussianCGCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	gaussianCGCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	gaussianCGCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gaussianCGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gaussianCGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gaussianCGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits, bounds gaussianCGCentralBox) gaussianCGCentralOutcome {
-	x := x0
-	gaussianCGCentralEnterBox(&x, &bounds)
-	out := gaussianCGCentralOutcome{x: x, status: GaussianCGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Gaussian(&x)
-	out.f, out.evaluations = fx, 1
-	if !gaussianCGCentralFinite(fx) || !gaussianCGCentralFiniteVec(&x) {
-		out.status = GaussianCGCentralNonFiniteStart
-		return out
-	}
-	diffs := gaussianCGCentralDifferences{bounds: bounds}
-	calls, ok := gaussianCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gaussianCGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gaussianCGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !gaussianCGCentralFiniteVec(&g) {
-		out.status = GaussianCGCentralNonFiniteGradient
-		return out
-	}
-	var dir gaussianCGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gaussianCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from gaussianCGCentralConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := gaussianCGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gaussianCGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gaussianCGCentralConfirmGradient and settle).
-			calls, ok := gaussianCGCentralSettle(&x, fx, &g, &e, &diffs, verify == gaussianCGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianCGCentralFiniteVec(&g) {
-				return best.ending(GaussianCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gaussianCGCentralVerifyNothing, true
-		case !confirmed:
-			gaussianCGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gaussianCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gaussianCGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gaussianCGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gaussianCGCentralDerivativeCost == 0 || confirmed) {
-			out.status = GaussianCGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gaussianCGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gaussianCGCentralDerivativeCost == 0 {
-				return best.ending(GaussianCGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gaussianCGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gaussianCGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GaussianCGCentralDiverged, out.iterations, out.evaluations)
-			}
-			gaussianCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GaussianCGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		gaussianCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gaussianCGCentralDot(&g, &d)
-		if !(now < 0) || !gaussianCGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gaussianCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gaussianCGCentralDot(&g, &d)
-		}
-		first := float64(gaussianCGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gaussianCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gaussianCGCentralSearchOutOfBudget:
-			return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case gaussianCGCentralSearchDiverged:
-			return best.ending(GaussianCGCentralDiverged, out.iterations, out.evaluations)
-		case gaussianCGCentralSearchExhausted, gaussianCGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gaussianCGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GaussianCGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GaussianCGCentralNoDecrease
-			case found.end == gaussianCGCentralSearchTiny && canSettle:
-				verify, stalled = gaussianCGCentralVerifyStall, true
-				continue
-			case found.end == gaussianCGCentralSearchTiny:
-				end = GaussianCGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gaussianCGCentralFiniteVec(&xt) {
-			return best.ending(GaussianCGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gaussianCGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gaussianCGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gaussianCGCentralDifference(&s, &xt, &x)
-		gaussianCGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gaussianCGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GaussianCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gaussianCGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gaussianCGCentralUnlimited)
 }
 
 // gaussianCGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o gaussianCGCentralOutcome) ending(end GaussianCGCentralStatus, iterations
 	return o
 }
 
-// gaussianCGCentralEnterBox: without bounds every start is inside.
-func gaussianCGCentralEnterBox(x *[3]float64, b *gaussianCGCentralBox) {}
-
-// gaussianCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gaussianCGCentralFinite(v float64) bool {
-	return v >= -gaussianCGCentralLargestFinite && v <= gaussianCGCentralLargestFinite
+// gaussianCGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gaussianCGCentralDescent struct {
+	lim       GaussianCGCentralLimits
+	stage     int                          // what advance does next
+	diffs     gaussianCGCentralDifferences // the box and the difference intervals
+	dir       gaussianCGCentralDirection   // the direction's memory
+	x, g, e   [3]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best gaussianCGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from gaussianCGCentralConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
 }
 
-// gaussianCGCentralFiniteVec reports whether every component of x is finite.
-func gaussianCGCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianCGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gaussianCGCentralDescent) prepare(x0 [3]float64, lim GaussianCGCentralLimits, bounds gaussianCGCentralBox) {
+	r.lim, r.stage = lim, gaussianCGCentralStageBegin
+	r.diffs = gaussianCGCentralDifferences{bounds: bounds}
+	r.x = x0
+	gaussianCGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gaussianCGCentralOutcome{x: r.x, f: math.NaN(), status: GaussianCGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gaussianCGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GaussianCGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gaussianCGCentralSettleCalls and gaussianCGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gaussianCGCentralDescent) advance(budget int) gaussianCGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != gaussianCGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gaussianCGCentralStageBegin:
+			if left < 1+gaussianCGCentralCalibrationCost+gaussianCGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gaussianCGCentralStageJudge:
+			if r.verify != gaussianCGCentralVerifyNothing && left < gaussianCGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gaussianCGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gaussianCGCentralDescent) paused() gaussianCGCentralOutcome {
+	return r.best.ending(GaussianCGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gaussianCGCentralDescent) finish(end GaussianCGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gaussianCGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gaussianCGCentralDescent) begin() {
+	r.stage = gaussianCGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gaussianCGCentralFinite(r.fx) || !gaussianCGCentralFiniteVec(&r.x) {
+		r.out.status = GaussianCGCentralNonFiniteStart
+		return
+	}
+	calls, ok := gaussianCGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gaussianCGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gaussianCGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gaussianCGCentralFiniteVec(&r.g) {
+		r.out.status = GaussianCGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gaussianCGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gaussianCGCentralVerifyNothing
+	r.stage = gaussianCGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gaussianCGCentralStageSearch next when the run goes on.
+func (r *gaussianCGCentralDescent) judge() {
+	switch {
+	case r.verify != gaussianCGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gaussianCGCentralConfirmGradient and settle).
+		calls, ok := gaussianCGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gaussianCGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GaussianCGCentralOutOfEvaluations)
+			return
+		}
+		if !gaussianCGCentralFiniteVec(&r.g) {
+			r.finish(GaussianCGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gaussianCGCentralVerifyNothing, true
+	case !r.confirmed:
+		gaussianCGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gaussianCGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gaussianCGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gaussianCGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gaussianCGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GaussianCGCentralGradientSmall
+		r.stage = gaussianCGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gaussianCGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gaussianCGCentralDerivativeCost == 0 {
+			r.finish(GaussianCGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gaussianCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gaussianCGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GaussianCGCentralDiverged)
+			return
+		}
+		gaussianCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GaussianCGCentralOutOfIterations)
+		return
+	}
+	r.stage = gaussianCGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gaussianCGCentralStageJudge next when the run
+// goes on.
+func (r *gaussianCGCentralDescent) search() {
+	gaussianCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gaussianCGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !gaussianCGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gaussianCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gaussianCGCentralDot(&r.g, &r.d)
+	}
+	first := float64(gaussianCGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gaussianCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gaussianCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gaussianCGCentralSearchOutOfBudget:
+		r.finish(GaussianCGCentralOutOfEvaluations)
+		return
+	case gaussianCGCentralSearchDiverged:
+		r.finish(GaussianCGCentralDiverged)
+		return
+	case gaussianCGCentralSearchExhausted, gaussianCGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gaussianCGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GaussianCGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GaussianCGCentralNoDecrease
+		case found.end == gaussianCGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gaussianCGCentralVerifyStall, true, gaussianCGCentralStageJudge
+			return
+		case found.end == gaussianCGCentralSearchTiny:
+			end = GaussianCGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gaussianCGCentralFiniteVec(&xt) {
+		r.finish(GaussianCGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gaussianCGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GaussianCGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gaussianCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gaussianCGCentralDifference(&r.s, &xt, &r.x)
+	gaussianCGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gaussianCGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GaussianCGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = gaussianCGCentralStageJudge
 }
 
 // gaussianCGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type gaussianCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianCGCentralRoundingFloor)
 	bounds    gaussianCGCentralBox
+}
+
+// gaussianCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type gaussianCGCentralDirection struct {
+	previous [3]float64 // d₋₁
+	change   [3]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *gaussianCGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *gaussianCGCentralDirection) compute(g, d *[3]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
+		beta = gaussianCGCentralLarger(gaussianCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = gaussianCGCentralDot(g, g)
+}
+
+func (s *gaussianCGCentralDirection) update(step, change *[3]float64) {
+	s.change = *change
+}
+
+func (s *gaussianCGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return gaussianCGCentralScaledTrial(t, slope, now)
+}
+
+// gaussianCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func gaussianCGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// gaussianCGCentralDot returns aᵀb.
+func gaussianCGCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// gaussianCGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to gaussianCGCentralStepInitial.
+func gaussianCGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !gaussianCGCentralFinite(next) {
+		return gaussianCGCentralStepInitial
+	}
+	return next
+}
+
+// gaussianCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gaussianCGCentralFinite(v float64) bool {
+	return v >= -gaussianCGCentralLargestFinite && v <= gaussianCGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gaussianCGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gaussianCGCentralStageJudge         // settle when asked (gaussianCGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	gaussianCGCentralStageSearch        // the line search and the gradient at the accepted point: gaussianCGCentralIterationCalls
+	gaussianCGCentralStageOver          // the run has ended; out is its result
+)
+
+// gaussianCGCentralEnterBox: without bounds every start is inside.
+func gaussianCGCentralEnterBox(x *[3]float64, b *gaussianCGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	gaussianCGCentralVerifyNothing = iota
+	gaussianCGCentralVerifyPass    // a difference gradient passed the test
+	gaussianCGCentralVerifyStall   // no step makes progress
+)
+
+// gaussianCGCentralFiniteVec reports whether every component of x is finite.
+func gaussianCGCentralFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gaussianCGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianCGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func gaussianCGCentralAbs(v float64) float64 {
 // gaussianCGCentralSquareRoot returns √v.
 func gaussianCGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// gaussianCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func gaussianCGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // gaussianCGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func gaussianCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64)
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// gaussianCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type gaussianCGCentralDirection struct {
-	previous [3]float64 // d₋₁
-	change   [3]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *gaussianCGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *gaussianCGCentralDirection) compute(g, d *[3]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = gaussianCGCentralLarger(gaussianCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = gaussianCGCentralDot(g, g)
-}
-
-func (s *gaussianCGCentralDirection) update(step, change *[3]float64) {
-	s.change = *change
-}
-
-func (s *gaussianCGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return gaussianCGCentralScaledTrial(t, slope, now)
-}
-
-// gaussianCGCentralDot returns aᵀb.
-func gaussianCGCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// gaussianCGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to gaussianCGCentralStepInitial.
-func gaussianCGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !gaussianCGCentralFinite(next) {
-		return gaussianCGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	gaussianCGCentralVerifyNothing = iota
-	gaussianCGCentralVerifyPass    // a difference gradient passed the test
-	gaussianCGCentralVerifyStall   // no step makes progress
-)
 
 // gaussianCGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (gaussianCGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func gaussianCGCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gaussianCGCentralUnlimited is a tick budget that never pauses a run.
+const gaussianCGCentralUnlimited = int(^uint(0) >> 1)

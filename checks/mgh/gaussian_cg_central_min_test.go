@@ -47,6 +47,55 @@ func TestGaussianCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestGaussianCGCentralSolverTicks advances a GaussianCGCentralSolver from the spec's start with budgets of GaussianCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GaussianCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGaussianCGCentralSolverTicks(t *testing.T) {
+	want := GaussianCGCentral(gaussianCGCentralTestStart())
+	for _, budget := range []int{GaussianCGCentralTickMinimum, GaussianCGCentralTickMinimum + 1, 2 * GaussianCGCentralTickMinimum, 7 * GaussianCGCentralTickMinimum} {
+		var s GaussianCGCentralSolver
+		s.Start(gaussianCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GaussianCGCentralRunning {
+				if !gaussianCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GaussianCGCentralSolver
+	s.Start(gaussianCGCentralTestStart())
+	if r := s.Advance(0); r.Status != GaussianCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGaussianCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGaussianCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s GaussianCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gaussianCGCentralTestStart())
+		for s.Advance(GaussianCGCentralTickMinimum).Status == GaussianCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gaussianCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func gaussianCGCentralTestSameResult(a, b GaussianCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGaussianCGCentral measures one whole run from the spec's start.
 func BenchmarkGaussianCGCentral(b *testing.B) {
 	var r GaussianCGCentralResult

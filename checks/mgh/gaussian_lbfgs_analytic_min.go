@@ -26,6 +26,8 @@ const (
 	GaussianLBFGSAnalyticNoDecrease
 	// GaussianLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GaussianLBFGSAnalyticDiverged
+	// GaussianLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GaussianLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GaussianLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case GaussianLBFGSAnalyticDiverged:
 		return "diverged"
+	case GaussianLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func GaussianLBFGSAnalyticWithLimits(x0 [3]float64, limits GaussianLBFGSAnalytic
 	}
 }
 
+// GaussianLBFGSAnalyticTickMinimum is the smallest call budget with which every GaussianLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const GaussianLBFGSAnalyticTickMinimum = 48
+
+// GaussianLBFGSAnalyticSolver is a run of GaussianLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GaussianLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least GaussianLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GaussianLBFGSAnalyticRunning ends exactly as GaussianLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GaussianLBFGSAnalytic and GaussianLBFGSAnalyticWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GaussianLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GaussianLBFGSAnalyticSolver struct {
+	run       gaussianLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GaussianLBFGSAnalyticLimits  // the limits of the runs; GaussianLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                         // whether SetLimits has set limits
+	started   bool                         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GaussianLBFGSAnalyticSolver) SetLimits(limits GaussianLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GaussianLBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *GaussianLBFGSAnalyticSolver) StartFrom(from GaussianLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *GaussianLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GaussianLBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GaussianLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gaussianLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GaussianLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GaussianLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *GaussianLBFGSAnalyticSolver) Advance(budget int) GaussianLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GaussianLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GaussianLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	gaussianLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	gaussianLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	gaussianLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	gaussianLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	gaussianLBFGSAnalyticStepTrials     = 48                     // step.trials
-	gaussianLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	gaussianLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gaussianLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gaussianLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	gaussianLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	gaussianLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	gaussianLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	gaussianLBFGSAnalyticStepTrials      = 48                     // step.trials
+	gaussianLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	gaussianLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	gaussianLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	gaussianLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gaussianLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gaussianLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gaussianLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimits, bounds gaussianLBFGSAnalyticBox) gaussianLBFGSAnalyticOutcome {
-	x := x0
-	gaussianLBFGSAnalyticEnterBox(&x, &bounds)
-	out := gaussianLBFGSAnalyticOutcome{x: x, status: GaussianLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Gaussian(&x)
-	out.f, out.evaluations = fx, 1
-	if !gaussianLBFGSAnalyticFinite(fx) || !gaussianLBFGSAnalyticFiniteVec(&x) {
-		out.status = GaussianLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := gaussianLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := gaussianLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gaussianLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gaussianLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !gaussianLBFGSAnalyticFiniteVec(&g) {
-		out.status = GaussianLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir gaussianLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gaussianLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from gaussianLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                  // whether the run can make no more progress at x
-	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
-	verify := gaussianLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gaussianLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gaussianLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := gaussianLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gaussianLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GaussianLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gaussianLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			gaussianLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gaussianLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gaussianLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gaussianLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gaussianLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = GaussianLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gaussianLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gaussianLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(GaussianLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gaussianLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gaussianLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GaussianLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			gaussianLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GaussianLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		gaussianLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gaussianLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !gaussianLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gaussianLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gaussianLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(gaussianLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gaussianLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gaussianLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case gaussianLBFGSAnalyticSearchDiverged:
-			return best.ending(GaussianLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case gaussianLBFGSAnalyticSearchExhausted, gaussianLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gaussianLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GaussianLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GaussianLBFGSAnalyticNoDecrease
-			case found.end == gaussianLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = gaussianLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == gaussianLBFGSAnalyticSearchTiny:
-				end = GaussianLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gaussianLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(GaussianLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gaussianLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gaussianLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gaussianLBFGSAnalyticDifference(&s, &xt, &x)
-		gaussianLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gaussianLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GaussianLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gaussianLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gaussianLBFGSAnalyticUnlimited)
 }
 
 // gaussianLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o gaussianLBFGSAnalyticOutcome) ending(end GaussianLBFGSAnalyticStatus, it
 	return o
 }
 
-// gaussianLBFGSAnalyticEnterBox: without bounds every start is inside.
-func gaussianLBFGSAnalyticEnterBox(x *[3]float64, b *gaussianLBFGSAnalyticBox) {}
-
-// gaussianLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gaussianLBFGSAnalyticFinite(v float64) bool {
-	return v >= -gaussianLBFGSAnalyticLargestFinite && v <= gaussianLBFGSAnalyticLargestFinite
+// gaussianLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gaussianLBFGSAnalyticDescent struct {
+	lim       GaussianLBFGSAnalyticLimits
+	stage     int                              // what advance does next
+	diffs     gaussianLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       gaussianLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                       // the search direction, the last step and its gradient change
+	fx        float64                          // f(x)
+	t, slope  float64                          // the previous iteration's accepted step and slope
+	out, best gaussianLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                          // f(x0)
+	rises     int                              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                             // whether g and e at x come from gaussianLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                             // whether the run can make no more progress at x
+	retried   int                              // the iteration whose stall was retried with recalibrated differences
+	verify    int                              // what to check at x before judging it again
 }
 
-// gaussianLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func gaussianLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gaussianLBFGSAnalyticDescent) prepare(x0 [3]float64, lim GaussianLBFGSAnalyticLimits, bounds gaussianLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, gaussianLBFGSAnalyticStageBegin
+	r.diffs = gaussianLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	gaussianLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gaussianLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: GaussianLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gaussianLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GaussianLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gaussianLBFGSAnalyticSettleCalls and gaussianLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gaussianLBFGSAnalyticDescent) advance(budget int) gaussianLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != gaussianLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gaussianLBFGSAnalyticStageBegin:
+			if left < 1+gaussianLBFGSAnalyticCalibrationCost+gaussianLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gaussianLBFGSAnalyticStageJudge:
+			if r.verify != gaussianLBFGSAnalyticVerifyNothing && left < gaussianLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gaussianLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gaussianLBFGSAnalyticDescent) paused() gaussianLBFGSAnalyticOutcome {
+	return r.best.ending(GaussianLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gaussianLBFGSAnalyticDescent) finish(end GaussianLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gaussianLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gaussianLBFGSAnalyticDescent) begin() {
+	r.stage = gaussianLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gaussianLBFGSAnalyticFinite(r.fx) || !gaussianLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = GaussianLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := gaussianLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gaussianLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gaussianLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gaussianLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = GaussianLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gaussianLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gaussianLBFGSAnalyticVerifyNothing
+	r.stage = gaussianLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gaussianLBFGSAnalyticStageSearch next when the run goes on.
+func (r *gaussianLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != gaussianLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gaussianLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := gaussianLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gaussianLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GaussianLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !gaussianLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(GaussianLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gaussianLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		gaussianLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gaussianLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gaussianLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gaussianLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gaussianLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GaussianLBFGSAnalyticGradientSmall
+		r.stage = gaussianLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gaussianLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gaussianLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(GaussianLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gaussianLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gaussianLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GaussianLBFGSAnalyticDiverged)
+			return
+		}
+		gaussianLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GaussianLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = gaussianLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gaussianLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *gaussianLBFGSAnalyticDescent) search() {
+	gaussianLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gaussianLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !gaussianLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gaussianLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gaussianLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(gaussianLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gaussianLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gaussianLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gaussianLBFGSAnalyticSearchOutOfBudget:
+		r.finish(GaussianLBFGSAnalyticOutOfEvaluations)
+		return
+	case gaussianLBFGSAnalyticSearchDiverged:
+		r.finish(GaussianLBFGSAnalyticDiverged)
+		return
+	case gaussianLBFGSAnalyticSearchExhausted, gaussianLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gaussianLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GaussianLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GaussianLBFGSAnalyticNoDecrease
+		case found.end == gaussianLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gaussianLBFGSAnalyticVerifyStall, true, gaussianLBFGSAnalyticStageJudge
+			return
+		case found.end == gaussianLBFGSAnalyticSearchTiny:
+			end = GaussianLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gaussianLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(GaussianLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gaussianLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GaussianLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gaussianLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gaussianLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	gaussianLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gaussianLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GaussianLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = gaussianLBFGSAnalyticStageJudge
 }
 
 // gaussianLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type gaussianLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianLBFGSAnalyticRoundingFloor)
 	bounds    gaussianLBFGSAnalyticBox
-}
-
-// gaussianLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func gaussianLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// gaussianLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gaussianLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) int {
-	GaussianGrad(x, g)
-	return 0
 }
 
 // gaussianLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func gaussianLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianLBFGSAnalyticDot(s, s))*(sy/gaussianLBFGSAnalyticDot(y, y)) > gaussianLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gaussianLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gaussianLBFGSAnalyticStageJudge         // settle when asked (gaussianLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	gaussianLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: gaussianLBFGSAnalyticIterationCalls
+	gaussianLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// gaussianLBFGSAnalyticEnterBox: without bounds every start is inside.
+func gaussianLBFGSAnalyticEnterBox(x *[3]float64, b *gaussianLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	gaussianLBFGSAnalyticVerifyNothing = iota
 	gaussianLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gaussianLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gaussianLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gaussianLBFGSAnalyticFinite(v float64) bool {
+	return v >= -gaussianLBFGSAnalyticLargestFinite && v <= gaussianLBFGSAnalyticLargestFinite
+}
+
+// gaussianLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func gaussianLBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gaussianLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// gaussianLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func gaussianLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// gaussianLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func gaussianLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) int {
+	GaussianGrad(x, g)
+	return 0
+}
 
 // gaussianLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (gaussianLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func gaussianLBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gaussianLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const gaussianLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestGaussianLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestGaussianLBFGSAnalyticSolverTicks advances a GaussianLBFGSAnalyticSolver from the spec's start with budgets of GaussianLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GaussianLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGaussianLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := GaussianLBFGSAnalytic(gaussianLBFGSAnalyticTestStart())
+	for _, budget := range []int{GaussianLBFGSAnalyticTickMinimum, GaussianLBFGSAnalyticTickMinimum + 1, 2 * GaussianLBFGSAnalyticTickMinimum, 7 * GaussianLBFGSAnalyticTickMinimum} {
+		var s GaussianLBFGSAnalyticSolver
+		s.Start(gaussianLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GaussianLBFGSAnalyticRunning {
+				if !gaussianLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GaussianLBFGSAnalyticSolver
+	s.Start(gaussianLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != GaussianLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGaussianLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGaussianLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s GaussianLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gaussianLBFGSAnalyticTestStart())
+		for s.Advance(GaussianLBFGSAnalyticTickMinimum).Status == GaussianLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gaussianLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func gaussianLBFGSAnalyticTestSameResult(a, b GaussianLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGaussianLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkGaussianLBFGSAnalytic(b *testing.B) {
 	var r GaussianLBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	GaussianLBFGSCentralNoDecrease
 	// GaussianLBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GaussianLBFGSCentralDiverged
+	// GaussianLBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GaussianLBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GaussianLBFGSCentralStatus) String() string {
 		return "no decrease"
 	case GaussianLBFGSCentralDiverged:
 		return "diverged"
+	case GaussianLBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func GaussianLBFGSCentralWithLimits(x0 [3]float64, limits GaussianLBFGSCentralLi
 	}
 }
 
+// GaussianLBFGSCentralTickMinimum is the smallest call budget with which every GaussianLBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const GaussianLBFGSCentralTickMinimum = 336
+
+// GaussianLBFGSCentralSolver is a run of GaussianLBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GaussianLBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least GaussianLBFGSCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GaussianLBFGSCentralRunning ends exactly as GaussianLBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GaussianLBFGSCentral and GaussianLBFGSCentralWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GaussianLBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GaussianLBFGSCentralSolver struct {
+	run       gaussianLBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GaussianLBFGSCentralLimits  // the limits of the runs; GaussianLBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GaussianLBFGSCentralSolver) SetLimits(limits GaussianLBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GaussianLBFGSCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *GaussianLBFGSCentralSolver) StartFrom(from GaussianLBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *GaussianLBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GaussianLBFGSCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GaussianLBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gaussianLBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GaussianLBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GaussianLBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *GaussianLBFGSCentralSolver) Advance(budget int) GaussianLBFGSCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GaussianLBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GaussianLBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	gaussianLBFGSCentralStepInitial    = 1.0                    // step.initial
-	gaussianLBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	gaussianLBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	gaussianLBFGSCentralLbfgsMemory    = 5                      // memory
-	gaussianLBFGSCentralStepTrials     = 48                     // step.trials
-	gaussianLBFGSCentralDerivativeCost = 6                      // objective calls per gradient
-	gaussianLBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gaussianLBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gaussianLBFGSCentralStepInitial     = 1.0                    // step.initial
+	gaussianLBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	gaussianLBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	gaussianLBFGSCentralLbfgsMemory     = 5                      // memory
+	gaussianLBFGSCentralStepTrials      = 48                     // step.trials
+	gaussianLBFGSCentralDerivativeCost  = 6                      // objective calls per gradient
+	gaussianLBFGSCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	gaussianLBFGSCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	gaussianLBFGSCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gaussianLBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gaussianLBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gaussianLBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits, bounds gaussianLBFGSCentralBox) gaussianLBFGSCentralOutcome {
-	x := x0
-	gaussianLBFGSCentralEnterBox(&x, &bounds)
-	out := gaussianLBFGSCentralOutcome{x: x, status: GaussianLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Gaussian(&x)
-	out.f, out.evaluations = fx, 1
-	if !gaussianLBFGSCentralFinite(fx) || !gaussianLBFGSCentralFiniteVec(&x) {
-		out.status = GaussianLBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := gaussianLBFGSCentralDifferences{bounds: bounds}
-	calls, ok := gaussianLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gaussianLBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gaussianLBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !gaussianLBFGSCentralFiniteVec(&g) {
-		out.status = GaussianLBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir gaussianLBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gaussianLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from gaussianLBFGSCentralConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := gaussianLBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gaussianLBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gaussianLBFGSCentralConfirmGradient and settle).
-			calls, ok := gaussianLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gaussianLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianLBFGSCentralFiniteVec(&g) {
-				return best.ending(GaussianLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gaussianLBFGSCentralVerifyNothing, true
-		case !confirmed:
-			gaussianLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gaussianLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gaussianLBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gaussianLBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gaussianLBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = GaussianLBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gaussianLBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gaussianLBFGSCentralDerivativeCost == 0 {
-				return best.ending(GaussianLBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gaussianLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gaussianLBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GaussianLBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			gaussianLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GaussianLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		gaussianLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gaussianLBFGSCentralDot(&g, &d)
-		if !(now < 0) || !gaussianLBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gaussianLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gaussianLBFGSCentralDot(&g, &d)
-		}
-		first := float64(gaussianLBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gaussianLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gaussianLBFGSCentralSearchOutOfBudget:
-			return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case gaussianLBFGSCentralSearchDiverged:
-			return best.ending(GaussianLBFGSCentralDiverged, out.iterations, out.evaluations)
-		case gaussianLBFGSCentralSearchExhausted, gaussianLBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gaussianLBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GaussianLBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GaussianLBFGSCentralNoDecrease
-			case found.end == gaussianLBFGSCentralSearchTiny && canSettle:
-				verify, stalled = gaussianLBFGSCentralVerifyStall, true
-				continue
-			case found.end == gaussianLBFGSCentralSearchTiny:
-				end = GaussianLBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gaussianLBFGSCentralFiniteVec(&xt) {
-			return best.ending(GaussianLBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gaussianLBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gaussianLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gaussianLBFGSCentralDifference(&s, &xt, &x)
-		gaussianLBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gaussianLBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GaussianLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gaussianLBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gaussianLBFGSCentralUnlimited)
 }
 
 // gaussianLBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o gaussianLBFGSCentralOutcome) ending(end GaussianLBFGSCentralStatus, iter
 	return o
 }
 
+// gaussianLBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gaussianLBFGSCentralDescent struct {
+	lim       GaussianLBFGSCentralLimits
+	stage     int                             // what advance does next
+	diffs     gaussianLBFGSCentralDifferences // the box and the difference intervals
+	dir       gaussianLBFGSCentralDirection   // the direction's memory
+	x, g, e   [3]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best gaussianLBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from gaussianLBFGSCentralConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gaussianLBFGSCentralDescent) prepare(x0 [3]float64, lim GaussianLBFGSCentralLimits, bounds gaussianLBFGSCentralBox) {
+	r.lim, r.stage = lim, gaussianLBFGSCentralStageBegin
+	r.diffs = gaussianLBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	gaussianLBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gaussianLBFGSCentralOutcome{x: r.x, f: math.NaN(), status: GaussianLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gaussianLBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GaussianLBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gaussianLBFGSCentralSettleCalls and gaussianLBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gaussianLBFGSCentralDescent) advance(budget int) gaussianLBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != gaussianLBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gaussianLBFGSCentralStageBegin:
+			if left < 1+gaussianLBFGSCentralCalibrationCost+gaussianLBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gaussianLBFGSCentralStageJudge:
+			if r.verify != gaussianLBFGSCentralVerifyNothing && left < gaussianLBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gaussianLBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gaussianLBFGSCentralDescent) paused() gaussianLBFGSCentralOutcome {
+	return r.best.ending(GaussianLBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gaussianLBFGSCentralDescent) finish(end GaussianLBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gaussianLBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gaussianLBFGSCentralDescent) begin() {
+	r.stage = gaussianLBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gaussianLBFGSCentralFinite(r.fx) || !gaussianLBFGSCentralFiniteVec(&r.x) {
+		r.out.status = GaussianLBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := gaussianLBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gaussianLBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gaussianLBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gaussianLBFGSCentralFiniteVec(&r.g) {
+		r.out.status = GaussianLBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gaussianLBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gaussianLBFGSCentralVerifyNothing
+	r.stage = gaussianLBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gaussianLBFGSCentralStageSearch next when the run goes on.
+func (r *gaussianLBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != gaussianLBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gaussianLBFGSCentralConfirmGradient and settle).
+		calls, ok := gaussianLBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gaussianLBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GaussianLBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !gaussianLBFGSCentralFiniteVec(&r.g) {
+			r.finish(GaussianLBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gaussianLBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		gaussianLBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gaussianLBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gaussianLBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gaussianLBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gaussianLBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GaussianLBFGSCentralGradientSmall
+		r.stage = gaussianLBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gaussianLBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gaussianLBFGSCentralDerivativeCost == 0 {
+			r.finish(GaussianLBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gaussianLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gaussianLBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GaussianLBFGSCentralDiverged)
+			return
+		}
+		gaussianLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GaussianLBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = gaussianLBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gaussianLBFGSCentralStageJudge next when the run
+// goes on.
+func (r *gaussianLBFGSCentralDescent) search() {
+	gaussianLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gaussianLBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !gaussianLBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gaussianLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gaussianLBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(gaussianLBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gaussianLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gaussianLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gaussianLBFGSCentralSearchOutOfBudget:
+		r.finish(GaussianLBFGSCentralOutOfEvaluations)
+		return
+	case gaussianLBFGSCentralSearchDiverged:
+		r.finish(GaussianLBFGSCentralDiverged)
+		return
+	case gaussianLBFGSCentralSearchExhausted, gaussianLBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gaussianLBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GaussianLBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GaussianLBFGSCentralNoDecrease
+		case found.end == gaussianLBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gaussianLBFGSCentralVerifyStall, true, gaussianLBFGSCentralStageJudge
+			return
+		case found.end == gaussianLBFGSCentralSearchTiny:
+			end = GaussianLBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gaussianLBFGSCentralFiniteVec(&xt) {
+		r.finish(GaussianLBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gaussianLBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GaussianLBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gaussianLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gaussianLBFGSCentralDifference(&r.s, &xt, &r.x)
+	gaussianLBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gaussianLBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GaussianLBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = gaussianLBFGSCentralStageJudge
+}
+
+// gaussianLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type gaussianLBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianLBFGSCentralRoundingFloor)
+	bounds    gaussianLBFGSCentralBox
+}
+
+// gaussianLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last gaussianLBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, gaussianLBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type gaussianLBFGSCentralDirection struct {
+	s, y   [gaussianLBFGSCentralLbfgsMemory][3]float64
+	rho    [gaussianLBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most gaussianLBFGSCentralLbfgsMemory
+}
+
+func (s *gaussianLBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *gaussianLBFGSCentralDirection) compute(g, d *[3]float64) {
+	var alpha [gaussianLBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * gaussianLBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = gaussianLBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := gaussianLBFGSCentralDot(&s.s[newest], &s.y[newest]) / gaussianLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == gaussianLBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * gaussianLBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	gaussianLBFGSCentralNegate(d, &q)
+}
+
+func (s *gaussianLBFGSCentralDirection) update(step, change *[3]float64) {
+	if !gaussianLBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == gaussianLBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < gaussianLBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / gaussianLBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *gaussianLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// gaussianLBFGSCentralDot returns aᵀb.
+func gaussianLBFGSCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// gaussianLBFGSCentralNegate sets out = −x.
+func gaussianLBFGSCentralNegate(out, x *[3]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// gaussianLBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func gaussianLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
+	sy := gaussianLBFGSCentralDot(s, y)
+	return sy > 0 && (sy/gaussianLBFGSCentralDot(s, s))*(sy/gaussianLBFGSCentralDot(y, y)) > gaussianLBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gaussianLBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gaussianLBFGSCentralStageJudge         // settle when asked (gaussianLBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	gaussianLBFGSCentralStageSearch        // the line search and the gradient at the accepted point: gaussianLBFGSCentralIterationCalls
+	gaussianLBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // gaussianLBFGSCentralEnterBox: without bounds every start is inside.
 func gaussianLBFGSCentralEnterBox(x *[3]float64, b *gaussianLBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	gaussianLBFGSCentralVerifyNothing = iota
+	gaussianLBFGSCentralVerifyPass    // a difference gradient passed the test
+	gaussianLBFGSCentralVerifyStall   // no step makes progress
+)
 
 // gaussianLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func gaussianLBFGSCentralFiniteVec(x *[3]float64) bool {
 		}
 	}
 	return true
-}
-
-// gaussianLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type gaussianLBFGSCentralDifferences struct {
-	ratio     [3]float64
-	curvature [3]float64
-	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianLBFGSCentralRoundingFloor)
-	bounds    gaussianLBFGSCentralBox
 }
 
 // gaussianLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func gaussianLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// gaussianLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last gaussianLBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, gaussianLBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type gaussianLBFGSCentralDirection struct {
-	s, y   [gaussianLBFGSCentralLbfgsMemory][3]float64
-	rho    [gaussianLBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most gaussianLBFGSCentralLbfgsMemory
-}
-
-func (s *gaussianLBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *gaussianLBFGSCentralDirection) compute(g, d *[3]float64) {
-	var alpha [gaussianLBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * gaussianLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = gaussianLBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := gaussianLBFGSCentralDot(&s.s[newest], &s.y[newest]) / gaussianLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == gaussianLBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * gaussianLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	gaussianLBFGSCentralNegate(d, &q)
-}
-
-func (s *gaussianLBFGSCentralDirection) update(step, change *[3]float64) {
-	if !gaussianLBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == gaussianLBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < gaussianLBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / gaussianLBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *gaussianLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// gaussianLBFGSCentralDot returns aᵀb.
-func gaussianLBFGSCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// gaussianLBFGSCentralNegate sets out = −x.
-func gaussianLBFGSCentralNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// gaussianLBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func gaussianLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := gaussianLBFGSCentralDot(s, y)
-	return sy > 0 && (sy/gaussianLBFGSCentralDot(s, s))*(sy/gaussianLBFGSCentralDot(y, y)) > gaussianLBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	gaussianLBFGSCentralVerifyNothing = iota
-	gaussianLBFGSCentralVerifyPass    // a difference gradient passed the test
-	gaussianLBFGSCentralVerifyStall   // no step makes progress
-)
 
 // gaussianLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (gaussianLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func gaussianLBFGSCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gaussianLBFGSCentralUnlimited is a tick budget that never pauses a run.
+const gaussianLBFGSCentralUnlimited = int(^uint(0) >> 1)

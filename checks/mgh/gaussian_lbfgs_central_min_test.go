@@ -47,6 +47,55 @@ func TestGaussianLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestGaussianLBFGSCentralSolverTicks advances a GaussianLBFGSCentralSolver from the spec's start with budgets of GaussianLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GaussianLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGaussianLBFGSCentralSolverTicks(t *testing.T) {
+	want := GaussianLBFGSCentral(gaussianLBFGSCentralTestStart())
+	for _, budget := range []int{GaussianLBFGSCentralTickMinimum, GaussianLBFGSCentralTickMinimum + 1, 2 * GaussianLBFGSCentralTickMinimum, 7 * GaussianLBFGSCentralTickMinimum} {
+		var s GaussianLBFGSCentralSolver
+		s.Start(gaussianLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GaussianLBFGSCentralRunning {
+				if !gaussianLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GaussianLBFGSCentralSolver
+	s.Start(gaussianLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != GaussianLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGaussianLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGaussianLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s GaussianLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gaussianLBFGSCentralTestStart())
+		for s.Advance(GaussianLBFGSCentralTickMinimum).Status == GaussianLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gaussianLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func gaussianLBFGSCentralTestSameResult(a, b GaussianLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGaussianLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkGaussianLBFGSCentral(b *testing.B) {
 	var r GaussianLBFGSCentralResult

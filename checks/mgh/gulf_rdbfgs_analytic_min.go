@@ -26,6 +26,8 @@ const (
 	GulfRDBFGSAnalyticNoDecrease
 	// GulfRDBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GulfRDBFGSAnalyticDiverged
+	// GulfRDBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GulfRDBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GulfRDBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case GulfRDBFGSAnalyticDiverged:
 		return "diverged"
+	case GulfRDBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GulfRDBFGSAnalyticWithLimits(x0 [3]float64, limits GulfRDBFGSAnalyticLimits
 	}
 }
 
+// GulfRDBFGSAnalyticTickMinimum is the smallest call budget with which every GulfRDBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const GulfRDBFGSAnalyticTickMinimum = 48
+
+// GulfRDBFGSAnalyticSolver is a run of GulfRDBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GulfRDBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least GulfRDBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GulfRDBFGSAnalyticRunning ends exactly as GulfRDBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GulfRDBFGSAnalytic and GulfRDBFGSAnalyticWithLimits use at most 2576 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GulfRDBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GulfRDBFGSAnalyticSolver struct {
+	run       gulfRDBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GulfRDBFGSAnalyticLimits  // the limits of the runs; GulfRDBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GulfRDBFGSAnalyticSolver) SetLimits(limits GulfRDBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GulfRDBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *GulfRDBFGSAnalyticSolver) StartFrom(from GulfRDBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *GulfRDBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GulfRDBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GulfRDBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gulfRDBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GulfRDBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GulfRDBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *GulfRDBFGSAnalyticSolver) Advance(budget int) GulfRDBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GulfRDBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GulfRDBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	gulfRDBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	gulfRDBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	gulfRDBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	gulfRDBFGSAnalyticStepTrials     = 48                     // step.trials
-	gulfRDBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	gulfRDBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gulfRDBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gulfRDBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	gulfRDBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	gulfRDBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	gulfRDBFGSAnalyticStepTrials      = 48                     // step.trials
+	gulfRDBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	gulfRDBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	gulfRDBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	gulfRDBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gulfRDBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gulfRDBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gulfRDBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits, bounds gulfRDBFGSAnalyticBox) gulfRDBFGSAnalyticOutcome {
-	x := x0
-	gulfRDBFGSAnalyticEnterBox(&x, &bounds)
-	out := gulfRDBFGSAnalyticOutcome{x: x, status: GulfRDBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := GulfRD(&x)
-	out.f, out.evaluations = fx, 1
-	if !gulfRDBFGSAnalyticFinite(fx) || !gulfRDBFGSAnalyticFiniteVec(&x) {
-		out.status = GulfRDBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := gulfRDBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := gulfRDBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gulfRDBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gulfRDBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !gulfRDBFGSAnalyticFiniteVec(&g) {
-		out.status = GulfRDBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir gulfRDBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gulfRDBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from gulfRDBFGSAnalyticConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := gulfRDBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gulfRDBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gulfRDBFGSAnalyticConfirmGradient and settle).
-			calls, ok := gulfRDBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gulfRDBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GulfRDBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gulfRDBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			gulfRDBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gulfRDBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gulfRDBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gulfRDBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gulfRDBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = GulfRDBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gulfRDBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gulfRDBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(GulfRDBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gulfRDBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gulfRDBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GulfRDBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			gulfRDBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GulfRDBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		gulfRDBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gulfRDBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !gulfRDBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gulfRDBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gulfRDBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(gulfRDBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gulfRDBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gulfRDBFGSAnalyticSearchOutOfBudget:
-			return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case gulfRDBFGSAnalyticSearchDiverged:
-			return best.ending(GulfRDBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case gulfRDBFGSAnalyticSearchExhausted, gulfRDBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gulfRDBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GulfRDBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GulfRDBFGSAnalyticNoDecrease
-			case found.end == gulfRDBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = gulfRDBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == gulfRDBFGSAnalyticSearchTiny:
-				end = GulfRDBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gulfRDBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(GulfRDBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gulfRDBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gulfRDBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gulfRDBFGSAnalyticDifference(&s, &xt, &x)
-		gulfRDBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gulfRDBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GulfRDBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gulfRDBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gulfRDBFGSAnalyticUnlimited)
 }
 
 // gulfRDBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o gulfRDBFGSAnalyticOutcome) ending(end GulfRDBFGSAnalyticStatus, iteratio
 	return o
 }
 
-// gulfRDBFGSAnalyticEnterBox: without bounds every start is inside.
-func gulfRDBFGSAnalyticEnterBox(x *[3]float64, b *gulfRDBFGSAnalyticBox) {}
-
-// gulfRDBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gulfRDBFGSAnalyticFinite(v float64) bool {
-	return v >= -gulfRDBFGSAnalyticLargestFinite && v <= gulfRDBFGSAnalyticLargestFinite
+// gulfRDBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gulfRDBFGSAnalyticDescent struct {
+	lim       GulfRDBFGSAnalyticLimits
+	stage     int                           // what advance does next
+	diffs     gulfRDBFGSAnalyticDifferences // the box and the difference intervals
+	dir       gulfRDBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best gulfRDBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from gulfRDBFGSAnalyticConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// gulfRDBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func gulfRDBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gulfRDBFGSAnalyticDescent) prepare(x0 [3]float64, lim GulfRDBFGSAnalyticLimits, bounds gulfRDBFGSAnalyticBox) {
+	r.lim, r.stage = lim, gulfRDBFGSAnalyticStageBegin
+	r.diffs = gulfRDBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	gulfRDBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gulfRDBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: GulfRDBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gulfRDBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GulfRDBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gulfRDBFGSAnalyticSettleCalls and gulfRDBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gulfRDBFGSAnalyticDescent) advance(budget int) gulfRDBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != gulfRDBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gulfRDBFGSAnalyticStageBegin:
+			if left < 1+gulfRDBFGSAnalyticCalibrationCost+gulfRDBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gulfRDBFGSAnalyticStageJudge:
+			if r.verify != gulfRDBFGSAnalyticVerifyNothing && left < gulfRDBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gulfRDBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gulfRDBFGSAnalyticDescent) paused() gulfRDBFGSAnalyticOutcome {
+	return r.best.ending(GulfRDBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gulfRDBFGSAnalyticDescent) finish(end GulfRDBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gulfRDBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gulfRDBFGSAnalyticDescent) begin() {
+	r.stage = gulfRDBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gulfRDBFGSAnalyticFinite(r.fx) || !gulfRDBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = GulfRDBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := gulfRDBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gulfRDBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gulfRDBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gulfRDBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = GulfRDBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gulfRDBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gulfRDBFGSAnalyticVerifyNothing
+	r.stage = gulfRDBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gulfRDBFGSAnalyticStageSearch next when the run goes on.
+func (r *gulfRDBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != gulfRDBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gulfRDBFGSAnalyticConfirmGradient and settle).
+		calls, ok := gulfRDBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gulfRDBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GulfRDBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !gulfRDBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(GulfRDBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gulfRDBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		gulfRDBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gulfRDBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gulfRDBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gulfRDBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gulfRDBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GulfRDBFGSAnalyticGradientSmall
+		r.stage = gulfRDBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gulfRDBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gulfRDBFGSAnalyticDerivativeCost == 0 {
+			r.finish(GulfRDBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gulfRDBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gulfRDBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GulfRDBFGSAnalyticDiverged)
+			return
+		}
+		gulfRDBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GulfRDBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = gulfRDBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gulfRDBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *gulfRDBFGSAnalyticDescent) search() {
+	gulfRDBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gulfRDBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !gulfRDBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gulfRDBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gulfRDBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(gulfRDBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gulfRDBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gulfRDBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gulfRDBFGSAnalyticSearchOutOfBudget:
+		r.finish(GulfRDBFGSAnalyticOutOfEvaluations)
+		return
+	case gulfRDBFGSAnalyticSearchDiverged:
+		r.finish(GulfRDBFGSAnalyticDiverged)
+		return
+	case gulfRDBFGSAnalyticSearchExhausted, gulfRDBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gulfRDBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GulfRDBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GulfRDBFGSAnalyticNoDecrease
+		case found.end == gulfRDBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gulfRDBFGSAnalyticVerifyStall, true, gulfRDBFGSAnalyticStageJudge
+			return
+		case found.end == gulfRDBFGSAnalyticSearchTiny:
+			end = GulfRDBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gulfRDBFGSAnalyticFiniteVec(&xt) {
+		r.finish(GulfRDBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gulfRDBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GulfRDBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gulfRDBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gulfRDBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	gulfRDBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gulfRDBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GulfRDBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = gulfRDBFGSAnalyticStageJudge
 }
 
 // gulfRDBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type gulfRDBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSAnalyticRoundingFloor)
 	bounds    gulfRDBFGSAnalyticBox
-}
-
-// gulfRDBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func gulfRDBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// gulfRDBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gulfRDBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) int {
-	GulfRDGrad(x, g)
-	return 0
 }
 
 // gulfRDBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func gulfRDBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDBFGSAnalyticDot(s, s))*(sy/gulfRDBFGSAnalyticDot(y, y)) > gulfRDBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gulfRDBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gulfRDBFGSAnalyticStageJudge         // settle when asked (gulfRDBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	gulfRDBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: gulfRDBFGSAnalyticIterationCalls
+	gulfRDBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// gulfRDBFGSAnalyticEnterBox: without bounds every start is inside.
+func gulfRDBFGSAnalyticEnterBox(x *[3]float64, b *gulfRDBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	gulfRDBFGSAnalyticVerifyNothing = iota
 	gulfRDBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gulfRDBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gulfRDBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gulfRDBFGSAnalyticFinite(v float64) bool {
+	return v >= -gulfRDBFGSAnalyticLargestFinite && v <= gulfRDBFGSAnalyticLargestFinite
+}
+
+// gulfRDBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func gulfRDBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gulfRDBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// gulfRDBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func gulfRDBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// gulfRDBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func gulfRDBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) int {
+	GulfRDGrad(x, g)
+	return 0
+}
 
 // gulfRDBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (gulfRDBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func gulfRDBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gulfRDBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const gulfRDBFGSAnalyticUnlimited = int(^uint(0) >> 1)

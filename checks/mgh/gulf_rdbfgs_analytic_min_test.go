@@ -105,6 +105,55 @@ func TestGulfRDBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestGulfRDBFGSAnalyticSolverTicks advances a GulfRDBFGSAnalyticSolver from the spec's start with budgets of GulfRDBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GulfRDBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGulfRDBFGSAnalyticSolverTicks(t *testing.T) {
+	want := GulfRDBFGSAnalytic(gulfRDBFGSAnalyticTestStart())
+	for _, budget := range []int{GulfRDBFGSAnalyticTickMinimum, GulfRDBFGSAnalyticTickMinimum + 1, 2 * GulfRDBFGSAnalyticTickMinimum, 7 * GulfRDBFGSAnalyticTickMinimum} {
+		var s GulfRDBFGSAnalyticSolver
+		s.Start(gulfRDBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GulfRDBFGSAnalyticRunning {
+				if !gulfRDBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GulfRDBFGSAnalyticSolver
+	s.Start(gulfRDBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != GulfRDBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGulfRDBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGulfRDBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s GulfRDBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gulfRDBFGSAnalyticTestStart())
+		for s.Advance(GulfRDBFGSAnalyticTickMinimum).Status == GulfRDBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gulfRDBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func gulfRDBFGSAnalyticTestSameResult(a, b GulfRDBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGulfRDBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkGulfRDBFGSAnalytic(b *testing.B) {
 	var r GulfRDBFGSAnalyticResult

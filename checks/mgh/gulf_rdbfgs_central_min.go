@@ -26,6 +26,8 @@ const (
 	GulfRDBFGSCentralNoDecrease
 	// GulfRDBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GulfRDBFGSCentralDiverged
+	// GulfRDBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GulfRDBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GulfRDBFGSCentralStatus) String() string {
 		return "no decrease"
 	case GulfRDBFGSCentralDiverged:
 		return "diverged"
+	case GulfRDBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GulfRDBFGSCentralWithLimits(x0 [3]float64, limits GulfRDBFGSCentralLimits) 
 	}
 }
 
+// GulfRDBFGSCentralTickMinimum is the smallest call budget with which every GulfRDBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const GulfRDBFGSCentralTickMinimum = 336
+
+// GulfRDBFGSCentralSolver is a run of GulfRDBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GulfRDBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least GulfRDBFGSCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GulfRDBFGSCentralRunning ends exactly as GulfRDBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GulfRDBFGSCentral and GulfRDBFGSCentralWithLimits use at most 2576 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GulfRDBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GulfRDBFGSCentralSolver struct {
+	run       gulfRDBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GulfRDBFGSCentralLimits  // the limits of the runs; GulfRDBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GulfRDBFGSCentralSolver) SetLimits(limits GulfRDBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GulfRDBFGSCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *GulfRDBFGSCentralSolver) StartFrom(from GulfRDBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *GulfRDBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GulfRDBFGSCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GulfRDBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gulfRDBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GulfRDBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GulfRDBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *GulfRDBFGSCentralSolver) Advance(budget int) GulfRDBFGSCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GulfRDBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GulfRDBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	gulfRDBFGSCentralStepInitial    = 1.0                    // step.initial
-	gulfRDBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	gulfRDBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	gulfRDBFGSCentralStepTrials     = 48                     // step.trials
-	gulfRDBFGSCentralDerivativeCost = 6                      // objective calls per gradient
-	gulfRDBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gulfRDBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gulfRDBFGSCentralStepInitial     = 1.0                    // step.initial
+	gulfRDBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	gulfRDBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	gulfRDBFGSCentralStepTrials      = 48                     // step.trials
+	gulfRDBFGSCentralDerivativeCost  = 6                      // objective calls per gradient
+	gulfRDBFGSCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	gulfRDBFGSCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	gulfRDBFGSCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gulfRDBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gulfRDBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gulfRDBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits, bounds gulfRDBFGSCentralBox) gulfRDBFGSCentralOutcome {
-	x := x0
-	gulfRDBFGSCentralEnterBox(&x, &bounds)
-	out := gulfRDBFGSCentralOutcome{x: x, status: GulfRDBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := GulfRD(&x)
-	out.f, out.evaluations = fx, 1
-	if !gulfRDBFGSCentralFinite(fx) || !gulfRDBFGSCentralFiniteVec(&x) {
-		out.status = GulfRDBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := gulfRDBFGSCentralDifferences{bounds: bounds}
-	calls, ok := gulfRDBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gulfRDBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gulfRDBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !gulfRDBFGSCentralFiniteVec(&g) {
-		out.status = GulfRDBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir gulfRDBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gulfRDBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from gulfRDBFGSCentralConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := gulfRDBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gulfRDBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gulfRDBFGSCentralConfirmGradient and settle).
-			calls, ok := gulfRDBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gulfRDBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDBFGSCentralFiniteVec(&g) {
-				return best.ending(GulfRDBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gulfRDBFGSCentralVerifyNothing, true
-		case !confirmed:
-			gulfRDBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gulfRDBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gulfRDBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gulfRDBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gulfRDBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = GulfRDBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gulfRDBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gulfRDBFGSCentralDerivativeCost == 0 {
-				return best.ending(GulfRDBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gulfRDBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gulfRDBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GulfRDBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			gulfRDBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GulfRDBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		gulfRDBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gulfRDBFGSCentralDot(&g, &d)
-		if !(now < 0) || !gulfRDBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gulfRDBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gulfRDBFGSCentralDot(&g, &d)
-		}
-		first := float64(gulfRDBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gulfRDBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gulfRDBFGSCentralSearchOutOfBudget:
-			return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case gulfRDBFGSCentralSearchDiverged:
-			return best.ending(GulfRDBFGSCentralDiverged, out.iterations, out.evaluations)
-		case gulfRDBFGSCentralSearchExhausted, gulfRDBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gulfRDBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GulfRDBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GulfRDBFGSCentralNoDecrease
-			case found.end == gulfRDBFGSCentralSearchTiny && canSettle:
-				verify, stalled = gulfRDBFGSCentralVerifyStall, true
-				continue
-			case found.end == gulfRDBFGSCentralSearchTiny:
-				end = GulfRDBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gulfRDBFGSCentralFiniteVec(&xt) {
-			return best.ending(GulfRDBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gulfRDBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gulfRDBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gulfRDBFGSCentralDifference(&s, &xt, &x)
-		gulfRDBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gulfRDBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GulfRDBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gulfRDBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gulfRDBFGSCentralUnlimited)
 }
 
 // gulfRDBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o gulfRDBFGSCentralOutcome) ending(end GulfRDBFGSCentralStatus, iterations
 	return o
 }
 
+// gulfRDBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gulfRDBFGSCentralDescent struct {
+	lim       GulfRDBFGSCentralLimits
+	stage     int                          // what advance does next
+	diffs     gulfRDBFGSCentralDifferences // the box and the difference intervals
+	dir       gulfRDBFGSCentralDirection   // the direction's memory
+	x, g, e   [3]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best gulfRDBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from gulfRDBFGSCentralConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gulfRDBFGSCentralDescent) prepare(x0 [3]float64, lim GulfRDBFGSCentralLimits, bounds gulfRDBFGSCentralBox) {
+	r.lim, r.stage = lim, gulfRDBFGSCentralStageBegin
+	r.diffs = gulfRDBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	gulfRDBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gulfRDBFGSCentralOutcome{x: r.x, f: math.NaN(), status: GulfRDBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gulfRDBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GulfRDBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gulfRDBFGSCentralSettleCalls and gulfRDBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gulfRDBFGSCentralDescent) advance(budget int) gulfRDBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != gulfRDBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gulfRDBFGSCentralStageBegin:
+			if left < 1+gulfRDBFGSCentralCalibrationCost+gulfRDBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gulfRDBFGSCentralStageJudge:
+			if r.verify != gulfRDBFGSCentralVerifyNothing && left < gulfRDBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gulfRDBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gulfRDBFGSCentralDescent) paused() gulfRDBFGSCentralOutcome {
+	return r.best.ending(GulfRDBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gulfRDBFGSCentralDescent) finish(end GulfRDBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gulfRDBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gulfRDBFGSCentralDescent) begin() {
+	r.stage = gulfRDBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gulfRDBFGSCentralFinite(r.fx) || !gulfRDBFGSCentralFiniteVec(&r.x) {
+		r.out.status = GulfRDBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := gulfRDBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gulfRDBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gulfRDBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gulfRDBFGSCentralFiniteVec(&r.g) {
+		r.out.status = GulfRDBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gulfRDBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gulfRDBFGSCentralVerifyNothing
+	r.stage = gulfRDBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gulfRDBFGSCentralStageSearch next when the run goes on.
+func (r *gulfRDBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != gulfRDBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gulfRDBFGSCentralConfirmGradient and settle).
+		calls, ok := gulfRDBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gulfRDBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GulfRDBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !gulfRDBFGSCentralFiniteVec(&r.g) {
+			r.finish(GulfRDBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gulfRDBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		gulfRDBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gulfRDBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gulfRDBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gulfRDBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gulfRDBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GulfRDBFGSCentralGradientSmall
+		r.stage = gulfRDBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gulfRDBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gulfRDBFGSCentralDerivativeCost == 0 {
+			r.finish(GulfRDBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gulfRDBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gulfRDBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GulfRDBFGSCentralDiverged)
+			return
+		}
+		gulfRDBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GulfRDBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = gulfRDBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gulfRDBFGSCentralStageJudge next when the run
+// goes on.
+func (r *gulfRDBFGSCentralDescent) search() {
+	gulfRDBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gulfRDBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !gulfRDBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gulfRDBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gulfRDBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(gulfRDBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gulfRDBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gulfRDBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gulfRDBFGSCentralSearchOutOfBudget:
+		r.finish(GulfRDBFGSCentralOutOfEvaluations)
+		return
+	case gulfRDBFGSCentralSearchDiverged:
+		r.finish(GulfRDBFGSCentralDiverged)
+		return
+	case gulfRDBFGSCentralSearchExhausted, gulfRDBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gulfRDBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GulfRDBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GulfRDBFGSCentralNoDecrease
+		case found.end == gulfRDBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gulfRDBFGSCentralVerifyStall, true, gulfRDBFGSCentralStageJudge
+			return
+		case found.end == gulfRDBFGSCentralSearchTiny:
+			end = GulfRDBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gulfRDBFGSCentralFiniteVec(&xt) {
+		r.finish(GulfRDBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gulfRDBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GulfRDBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gulfRDBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gulfRDBFGSCentralDifference(&r.s, &xt, &r.x)
+	gulfRDBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gulfRDBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GulfRDBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = gulfRDBFGSCentralStageJudge
+}
+
+// gulfRDBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type gulfRDBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSCentralRoundingFloor)
+	bounds    gulfRDBFGSCentralBox
+}
+
+// gulfRDBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type gulfRDBFGSCentralDirection struct {
+	h      [3][3]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *gulfRDBFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *gulfRDBFGSCentralDirection) compute(g, d *[3]float64) {
+	for i := range s.h {
+		d[i] = -gulfRDBFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *gulfRDBFGSCentralDirection) update(step, change *[3]float64) {
+	if !gulfRDBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := gulfRDBFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / gulfRDBFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [3]float64
+	for i := range s.h {
+		hy[i] = gulfRDBFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*gulfRDBFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *gulfRDBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// gulfRDBFGSCentralDot returns aᵀb.
+func gulfRDBFGSCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// gulfRDBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func gulfRDBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
+	sy := gulfRDBFGSCentralDot(s, y)
+	return sy > 0 && (sy/gulfRDBFGSCentralDot(s, s))*(sy/gulfRDBFGSCentralDot(y, y)) > gulfRDBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gulfRDBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gulfRDBFGSCentralStageJudge         // settle when asked (gulfRDBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	gulfRDBFGSCentralStageSearch        // the line search and the gradient at the accepted point: gulfRDBFGSCentralIterationCalls
+	gulfRDBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // gulfRDBFGSCentralEnterBox: without bounds every start is inside.
 func gulfRDBFGSCentralEnterBox(x *[3]float64, b *gulfRDBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	gulfRDBFGSCentralVerifyNothing = iota
+	gulfRDBFGSCentralVerifyPass    // a difference gradient passed the test
+	gulfRDBFGSCentralVerifyStall   // no step makes progress
+)
 
 // gulfRDBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func gulfRDBFGSCentralFiniteVec(x *[3]float64) bool {
 		}
 	}
 	return true
-}
-
-// gulfRDBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type gulfRDBFGSCentralDifferences struct {
-	ratio     [3]float64
-	curvature [3]float64
-	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSCentralRoundingFloor)
-	bounds    gulfRDBFGSCentralBox
 }
 
 // gulfRDBFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func gulfRDBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64)
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// gulfRDBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type gulfRDBFGSCentralDirection struct {
-	h      [3][3]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *gulfRDBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *gulfRDBFGSCentralDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -gulfRDBFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *gulfRDBFGSCentralDirection) update(step, change *[3]float64) {
-	if !gulfRDBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := gulfRDBFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / gulfRDBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [3]float64
-	for i := range s.h {
-		hy[i] = gulfRDBFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*gulfRDBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *gulfRDBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// gulfRDBFGSCentralDot returns aᵀb.
-func gulfRDBFGSCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// gulfRDBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func gulfRDBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := gulfRDBFGSCentralDot(s, y)
-	return sy > 0 && (sy/gulfRDBFGSCentralDot(s, s))*(sy/gulfRDBFGSCentralDot(y, y)) > gulfRDBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	gulfRDBFGSCentralVerifyNothing = iota
-	gulfRDBFGSCentralVerifyPass    // a difference gradient passed the test
-	gulfRDBFGSCentralVerifyStall   // no step makes progress
-)
 
 // gulfRDBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (gulfRDBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func gulfRDBFGSCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gulfRDBFGSCentralUnlimited is a tick budget that never pauses a run.
+const gulfRDBFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestGulfRDBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestGulfRDBFGSCentralSolverTicks advances a GulfRDBFGSCentralSolver from the spec's start with budgets of GulfRDBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GulfRDBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGulfRDBFGSCentralSolverTicks(t *testing.T) {
+	want := GulfRDBFGSCentral(gulfRDBFGSCentralTestStart())
+	for _, budget := range []int{GulfRDBFGSCentralTickMinimum, GulfRDBFGSCentralTickMinimum + 1, 2 * GulfRDBFGSCentralTickMinimum, 7 * GulfRDBFGSCentralTickMinimum} {
+		var s GulfRDBFGSCentralSolver
+		s.Start(gulfRDBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GulfRDBFGSCentralRunning {
+				if !gulfRDBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GulfRDBFGSCentralSolver
+	s.Start(gulfRDBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != GulfRDBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGulfRDBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGulfRDBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s GulfRDBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gulfRDBFGSCentralTestStart())
+		for s.Advance(GulfRDBFGSCentralTickMinimum).Status == GulfRDBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gulfRDBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func gulfRDBFGSCentralTestSameResult(a, b GulfRDBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGulfRDBFGSCentral measures one whole run from the spec's start.
 func BenchmarkGulfRDBFGSCentral(b *testing.B) {
 	var r GulfRDBFGSCentralResult

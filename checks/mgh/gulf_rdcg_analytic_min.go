@@ -26,6 +26,8 @@ const (
 	GulfRDCGAnalyticNoDecrease
 	// GulfRDCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GulfRDCGAnalyticDiverged
+	// GulfRDCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GulfRDCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GulfRDCGAnalyticStatus) String() string {
 		return "no decrease"
 	case GulfRDCGAnalyticDiverged:
 		return "diverged"
+	case GulfRDCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func GulfRDCGAnalyticWithLimits(x0 [3]float64, limits GulfRDCGAnalyticLimits) Gu
 	}
 }
 
+// GulfRDCGAnalyticTickMinimum is the smallest call budget with which every GulfRDCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const GulfRDCGAnalyticTickMinimum = 48
+
+// GulfRDCGAnalyticSolver is a run of GulfRDCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GulfRDCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least GulfRDCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GulfRDCGAnalyticRunning ends exactly as GulfRDCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GulfRDCGAnalytic and GulfRDCGAnalyticWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GulfRDCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GulfRDCGAnalyticSolver struct {
+	run       gulfRDCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GulfRDCGAnalyticLimits  // the limits of the runs; GulfRDCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                    // whether SetLimits has set limits
+	started   bool                    // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GulfRDCGAnalyticSolver) SetLimits(limits GulfRDCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GulfRDCGAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *GulfRDCGAnalyticSolver) StartFrom(from GulfRDCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *GulfRDCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GulfRDCGAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GulfRDCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gulfRDCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GulfRDCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GulfRDCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *GulfRDCGAnalyticSolver) Advance(budget int) GulfRDCGAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GulfRDCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GulfRDCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	gulfRDCGAnalyticStepInitial    = 1.0                    // step.initial
-	gulfRDCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	gulfRDCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	gulfRDCGAnalyticStepTrials     = 48                     // step.trials
-	gulfRDCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	gulfRDCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gulfRDCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gulfRDCGAnalyticStepInitial     = 1.0                    // step.initial
+	gulfRDCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	gulfRDCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	gulfRDCGAnalyticStepTrials      = 48                     // step.trials
+	gulfRDCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	gulfRDCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	gulfRDCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	gulfRDCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gulfRDCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gulfRDCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gulfRDCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits, bounds gulfRDCGAnalyticBox) gulfRDCGAnalyticOutcome {
-	x := x0
-	gulfRDCGAnalyticEnterBox(&x, &bounds)
-	out := gulfRDCGAnalyticOutcome{x: x, status: GulfRDCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := GulfRD(&x)
-	out.f, out.evaluations = fx, 1
-	if !gulfRDCGAnalyticFinite(fx) || !gulfRDCGAnalyticFiniteVec(&x) {
-		out.status = GulfRDCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := gulfRDCGAnalyticDifferences{bounds: bounds}
-	calls, ok := gulfRDCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gulfRDCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gulfRDCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !gulfRDCGAnalyticFiniteVec(&g) {
-		out.status = GulfRDCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir gulfRDCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gulfRDCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                  // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from gulfRDCGAnalyticConfirmGradient or settle
-	stalled := false                                             // whether the run can make no more progress at x
-	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
-	verify := gulfRDCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gulfRDCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gulfRDCGAnalyticConfirmGradient and settle).
-			calls, ok := gulfRDCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gulfRDCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDCGAnalyticFiniteVec(&g) {
-				return best.ending(GulfRDCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gulfRDCGAnalyticVerifyNothing, true
-		case !confirmed:
-			gulfRDCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gulfRDCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gulfRDCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gulfRDCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gulfRDCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = GulfRDCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gulfRDCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gulfRDCGAnalyticDerivativeCost == 0 {
-				return best.ending(GulfRDCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gulfRDCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gulfRDCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GulfRDCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			gulfRDCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GulfRDCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		gulfRDCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gulfRDCGAnalyticDot(&g, &d)
-		if !(now < 0) || !gulfRDCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gulfRDCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gulfRDCGAnalyticDot(&g, &d)
-		}
-		first := float64(gulfRDCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gulfRDCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gulfRDCGAnalyticSearchOutOfBudget:
-			return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case gulfRDCGAnalyticSearchDiverged:
-			return best.ending(GulfRDCGAnalyticDiverged, out.iterations, out.evaluations)
-		case gulfRDCGAnalyticSearchExhausted, gulfRDCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gulfRDCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GulfRDCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GulfRDCGAnalyticNoDecrease
-			case found.end == gulfRDCGAnalyticSearchTiny && canSettle:
-				verify, stalled = gulfRDCGAnalyticVerifyStall, true
-				continue
-			case found.end == gulfRDCGAnalyticSearchTiny:
-				end = GulfRDCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gulfRDCGAnalyticFiniteVec(&xt) {
-			return best.ending(GulfRDCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gulfRDCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gulfRDCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gulfRDCGAnalyticDifference(&s, &xt, &x)
-		gulfRDCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gulfRDCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GulfRDCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gulfRDCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gulfRDCGAnalyticUnlimited)
 }
 
 // gulfRDCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o gulfRDCGAnalyticOutcome) ending(end GulfRDCGAnalyticStatus, iterations, 
 	return o
 }
 
-// gulfRDCGAnalyticEnterBox: without bounds every start is inside.
-func gulfRDCGAnalyticEnterBox(x *[3]float64, b *gulfRDCGAnalyticBox) {}
-
-// gulfRDCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gulfRDCGAnalyticFinite(v float64) bool {
-	return v >= -gulfRDCGAnalyticLargestFinite && v <= gulfRDCGAnalyticLargestFinite
+// gulfRDCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gulfRDCGAnalyticDescent struct {
+	lim       GulfRDCGAnalyticLimits
+	stage     int                         // what advance does next
+	diffs     gulfRDCGAnalyticDifferences // the box and the difference intervals
+	dir       gulfRDCGAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                  // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                  // the search direction, the last step and its gradient change
+	fx        float64                     // f(x)
+	t, slope  float64                     // the previous iteration's accepted step and slope
+	out, best gulfRDCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                     // f(x0)
+	rises     int                         // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                        // whether g and e at x come from gulfRDCGAnalyticConfirmGradient or settle
+	stalled   bool                        // whether the run can make no more progress at x
+	retried   int                         // the iteration whose stall was retried with recalibrated differences
+	verify    int                         // what to check at x before judging it again
 }
 
-// gulfRDCGAnalyticFiniteVec reports whether every component of x is finite.
-func gulfRDCGAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gulfRDCGAnalyticDescent) prepare(x0 [3]float64, lim GulfRDCGAnalyticLimits, bounds gulfRDCGAnalyticBox) {
+	r.lim, r.stage = lim, gulfRDCGAnalyticStageBegin
+	r.diffs = gulfRDCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	gulfRDCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gulfRDCGAnalyticOutcome{x: r.x, f: math.NaN(), status: GulfRDCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gulfRDCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GulfRDCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gulfRDCGAnalyticSettleCalls and gulfRDCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gulfRDCGAnalyticDescent) advance(budget int) gulfRDCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != gulfRDCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gulfRDCGAnalyticStageBegin:
+			if left < 1+gulfRDCGAnalyticCalibrationCost+gulfRDCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gulfRDCGAnalyticStageJudge:
+			if r.verify != gulfRDCGAnalyticVerifyNothing && left < gulfRDCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gulfRDCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gulfRDCGAnalyticDescent) paused() gulfRDCGAnalyticOutcome {
+	return r.best.ending(GulfRDCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gulfRDCGAnalyticDescent) finish(end GulfRDCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gulfRDCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gulfRDCGAnalyticDescent) begin() {
+	r.stage = gulfRDCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gulfRDCGAnalyticFinite(r.fx) || !gulfRDCGAnalyticFiniteVec(&r.x) {
+		r.out.status = GulfRDCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := gulfRDCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gulfRDCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gulfRDCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gulfRDCGAnalyticFiniteVec(&r.g) {
+		r.out.status = GulfRDCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gulfRDCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gulfRDCGAnalyticVerifyNothing
+	r.stage = gulfRDCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gulfRDCGAnalyticStageSearch next when the run goes on.
+func (r *gulfRDCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != gulfRDCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gulfRDCGAnalyticConfirmGradient and settle).
+		calls, ok := gulfRDCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gulfRDCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GulfRDCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !gulfRDCGAnalyticFiniteVec(&r.g) {
+			r.finish(GulfRDCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gulfRDCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		gulfRDCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gulfRDCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gulfRDCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gulfRDCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gulfRDCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GulfRDCGAnalyticGradientSmall
+		r.stage = gulfRDCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gulfRDCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gulfRDCGAnalyticDerivativeCost == 0 {
+			r.finish(GulfRDCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gulfRDCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gulfRDCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GulfRDCGAnalyticDiverged)
+			return
+		}
+		gulfRDCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GulfRDCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = gulfRDCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gulfRDCGAnalyticStageJudge next when the run
+// goes on.
+func (r *gulfRDCGAnalyticDescent) search() {
+	gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gulfRDCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !gulfRDCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gulfRDCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(gulfRDCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gulfRDCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gulfRDCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gulfRDCGAnalyticSearchOutOfBudget:
+		r.finish(GulfRDCGAnalyticOutOfEvaluations)
+		return
+	case gulfRDCGAnalyticSearchDiverged:
+		r.finish(GulfRDCGAnalyticDiverged)
+		return
+	case gulfRDCGAnalyticSearchExhausted, gulfRDCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gulfRDCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GulfRDCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GulfRDCGAnalyticNoDecrease
+		case found.end == gulfRDCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gulfRDCGAnalyticVerifyStall, true, gulfRDCGAnalyticStageJudge
+			return
+		case found.end == gulfRDCGAnalyticSearchTiny:
+			end = GulfRDCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gulfRDCGAnalyticFiniteVec(&xt) {
+		r.finish(GulfRDCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gulfRDCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GulfRDCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gulfRDCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gulfRDCGAnalyticDifference(&r.s, &xt, &r.x)
+	gulfRDCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gulfRDCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GulfRDCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = gulfRDCGAnalyticStageJudge
 }
 
 // gulfRDCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type gulfRDCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDCGAnalyticRoundingFloor)
 	bounds    gulfRDCGAnalyticBox
-}
-
-// gulfRDCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func gulfRDCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// gulfRDCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gulfRDCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDCGAnalyticDifferences) int {
-	GulfRDGrad(x, g)
-	return 0
 }
 
 // gulfRDCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func gulfRDCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// gulfRDCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gulfRDCGAnalyticFinite(v float64) bool {
+	return v >= -gulfRDCGAnalyticLargestFinite && v <= gulfRDCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gulfRDCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gulfRDCGAnalyticStageJudge         // settle when asked (gulfRDCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	gulfRDCGAnalyticStageSearch        // the line search and the gradient at the accepted point: gulfRDCGAnalyticIterationCalls
+	gulfRDCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// gulfRDCGAnalyticEnterBox: without bounds every start is inside.
+func gulfRDCGAnalyticEnterBox(x *[3]float64, b *gulfRDCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	gulfRDCGAnalyticVerifyNothing = iota
 	gulfRDCGAnalyticVerifyPass    // a difference gradient passed the test
 	gulfRDCGAnalyticVerifyStall   // no step makes progress
 )
+
+// gulfRDCGAnalyticFiniteVec reports whether every component of x is finite.
+func gulfRDCGAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gulfRDCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// gulfRDCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func gulfRDCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// gulfRDCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func gulfRDCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDCGAnalyticDifferences) int {
+	GulfRDGrad(x, g)
+	return 0
+}
 
 // gulfRDCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (gulfRDCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func gulfRDCGAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gulfRDCGAnalyticUnlimited is a tick budget that never pauses a run.
+const gulfRDCGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestGulfRDCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestGulfRDCGAnalyticSolverTicks advances a GulfRDCGAnalyticSolver from the spec's start with budgets of GulfRDCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GulfRDCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGulfRDCGAnalyticSolverTicks(t *testing.T) {
+	want := GulfRDCGAnalytic(gulfRDCGAnalyticTestStart())
+	for _, budget := range []int{GulfRDCGAnalyticTickMinimum, GulfRDCGAnalyticTickMinimum + 1, 2 * GulfRDCGAnalyticTickMinimum, 7 * GulfRDCGAnalyticTickMinimum} {
+		var s GulfRDCGAnalyticSolver
+		s.Start(gulfRDCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GulfRDCGAnalyticRunning {
+				if !gulfRDCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GulfRDCGAnalyticSolver
+	s.Start(gulfRDCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != GulfRDCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGulfRDCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGulfRDCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s GulfRDCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gulfRDCGAnalyticTestStart())
+		for s.Advance(GulfRDCGAnalyticTickMinimum).Status == GulfRDCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gulfRDCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func gulfRDCGAnalyticTestSameResult(a, b GulfRDCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGulfRDCGAnalytic measures one whole run from the spec's start.
 func BenchmarkGulfRDCGAnalytic(b *testing.B) {
 	var r GulfRDCGAnalyticResult

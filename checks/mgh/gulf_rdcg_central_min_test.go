@@ -47,6 +47,55 @@ func TestGulfRDCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestGulfRDCGCentralSolverTicks advances a GulfRDCGCentralSolver from the spec's start with budgets of GulfRDCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GulfRDCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGulfRDCGCentralSolverTicks(t *testing.T) {
+	want := GulfRDCGCentral(gulfRDCGCentralTestStart())
+	for _, budget := range []int{GulfRDCGCentralTickMinimum, GulfRDCGCentralTickMinimum + 1, 2 * GulfRDCGCentralTickMinimum, 7 * GulfRDCGCentralTickMinimum} {
+		var s GulfRDCGCentralSolver
+		s.Start(gulfRDCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GulfRDCGCentralRunning {
+				if !gulfRDCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GulfRDCGCentralSolver
+	s.Start(gulfRDCGCentralTestStart())
+	if r := s.Advance(0); r.Status != GulfRDCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGulfRDCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGulfRDCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s GulfRDCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gulfRDCGCentralTestStart())
+		for s.Advance(GulfRDCGCentralTickMinimum).Status == GulfRDCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gulfRDCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func gulfRDCGCentralTestSameResult(a, b GulfRDCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGulfRDCGCentral measures one whole run from the spec's start.
 func BenchmarkGulfRDCGCentral(b *testing.B) {
 	var r GulfRDCGCentralResult

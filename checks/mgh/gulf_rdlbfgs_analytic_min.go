@@ -26,6 +26,8 @@ const (
 	GulfRDLBFGSAnalyticNoDecrease
 	// GulfRDLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	GulfRDLBFGSAnalyticDiverged
+	// GulfRDLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	GulfRDLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s GulfRDLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case GulfRDLBFGSAnalyticDiverged:
 		return "diverged"
+	case GulfRDLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func GulfRDLBFGSAnalyticWithLimits(x0 [3]float64, limits GulfRDLBFGSAnalyticLimi
 	}
 }
 
+// GulfRDLBFGSAnalyticTickMinimum is the smallest call budget with which every GulfRDLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const GulfRDLBFGSAnalyticTickMinimum = 48
+
+// GulfRDLBFGSAnalyticSolver is a run of GulfRDLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (GulfRDLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least GulfRDLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not GulfRDLBFGSAnalyticRunning ends exactly as GulfRDLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GulfRDLBFGSAnalytic and GulfRDLBFGSAnalyticWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is GulfRDLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type GulfRDLBFGSAnalyticSolver struct {
+	run       gulfRDLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    GulfRDLBFGSAnalyticLimits  // the limits of the runs; GulfRDLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *GulfRDLBFGSAnalyticSolver) SetLimits(limits GulfRDLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *GulfRDLBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *GulfRDLBFGSAnalyticSolver) StartFrom(from GulfRDLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *GulfRDLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *GulfRDLBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = GulfRDLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, gulfRDLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status GulfRDLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See GulfRDLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *GulfRDLBFGSAnalyticSolver) Advance(budget int) GulfRDLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return GulfRDLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of GulfRDLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	gulfRDLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	gulfRDLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	gulfRDLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	gulfRDLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	gulfRDLBFGSAnalyticStepTrials     = 48                     // step.trials
-	gulfRDLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	gulfRDLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	gulfRDLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	gulfRDLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	gulfRDLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	gulfRDLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	gulfRDLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	gulfRDLBFGSAnalyticStepTrials      = 48                     // step.trials
+	gulfRDLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	gulfRDLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	gulfRDLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	gulfRDLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	gulfRDLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	gulfRDLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // gulfRDLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits, bounds gulfRDLBFGSAnalyticBox) gulfRDLBFGSAnalyticOutcome {
-	x := x0
-	gulfRDLBFGSAnalyticEnterBox(&x, &bounds)
-	out := gulfRDLBFGSAnalyticOutcome{x: x, status: GulfRDLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := GulfRD(&x)
-	out.f, out.evaluations = fx, 1
-	if !gulfRDLBFGSAnalyticFinite(fx) || !gulfRDLBFGSAnalyticFiniteVec(&x) {
-		out.status = GulfRDLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := gulfRDLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := gulfRDLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+gulfRDLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += gulfRDLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !gulfRDLBFGSAnalyticFiniteVec(&g) {
-		out.status = GulfRDLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir gulfRDLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(gulfRDLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from gulfRDLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := gulfRDLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != gulfRDLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see gulfRDLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := gulfRDLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gulfRDLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GulfRDLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = gulfRDLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			gulfRDLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := gulfRDLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, gulfRDLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * gulfRDLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (gulfRDLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = GulfRDLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = gulfRDLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if gulfRDLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(GulfRDLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if gulfRDLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = gulfRDLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(GulfRDLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			gulfRDLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(GulfRDLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		gulfRDLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := gulfRDLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !gulfRDLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			gulfRDLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = gulfRDLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(gulfRDLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := gulfRDLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case gulfRDLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case gulfRDLBFGSAnalyticSearchDiverged:
-			return best.ending(GulfRDLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case gulfRDLBFGSAnalyticSearchExhausted, gulfRDLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see gulfRDLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := GulfRDLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = GulfRDLBFGSAnalyticNoDecrease
-			case found.end == gulfRDLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = gulfRDLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == gulfRDLBFGSAnalyticSearchTiny:
-				end = GulfRDLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !gulfRDLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(GulfRDLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+gulfRDLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += gulfRDLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		gulfRDLBFGSAnalyticDifference(&s, &xt, &x)
-		gulfRDLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !gulfRDLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(GulfRDLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r gulfRDLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(gulfRDLBFGSAnalyticUnlimited)
 }
 
 // gulfRDLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o gulfRDLBFGSAnalyticOutcome) ending(end GulfRDLBFGSAnalyticStatus, iterat
 	return o
 }
 
-// gulfRDLBFGSAnalyticEnterBox: without bounds every start is inside.
-func gulfRDLBFGSAnalyticEnterBox(x *[3]float64, b *gulfRDLBFGSAnalyticBox) {}
-
-// gulfRDLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func gulfRDLBFGSAnalyticFinite(v float64) bool {
-	return v >= -gulfRDLBFGSAnalyticLargestFinite && v <= gulfRDLBFGSAnalyticLargestFinite
+// gulfRDLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type gulfRDLBFGSAnalyticDescent struct {
+	lim       GulfRDLBFGSAnalyticLimits
+	stage     int                            // what advance does next
+	diffs     gulfRDLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       gulfRDLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best gulfRDLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from gulfRDLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
 }
 
-// gulfRDLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func gulfRDLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *gulfRDLBFGSAnalyticDescent) prepare(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits, bounds gulfRDLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, gulfRDLBFGSAnalyticStageBegin
+	r.diffs = gulfRDLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	gulfRDLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = gulfRDLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: GulfRDLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *gulfRDLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with GulfRDLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, gulfRDLBFGSAnalyticSettleCalls and gulfRDLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *gulfRDLBFGSAnalyticDescent) advance(budget int) gulfRDLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != gulfRDLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case gulfRDLBFGSAnalyticStageBegin:
+			if left < 1+gulfRDLBFGSAnalyticCalibrationCost+gulfRDLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case gulfRDLBFGSAnalyticStageJudge:
+			if r.verify != gulfRDLBFGSAnalyticVerifyNothing && left < gulfRDLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < gulfRDLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *gulfRDLBFGSAnalyticDescent) paused() gulfRDLBFGSAnalyticOutcome {
+	return r.best.ending(GulfRDLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *gulfRDLBFGSAnalyticDescent) finish(end GulfRDLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = gulfRDLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *gulfRDLBFGSAnalyticDescent) begin() {
+	r.stage = gulfRDLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !gulfRDLBFGSAnalyticFinite(r.fx) || !gulfRDLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = GulfRDLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := gulfRDLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+gulfRDLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += gulfRDLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !gulfRDLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = GulfRDLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = gulfRDLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, gulfRDLBFGSAnalyticVerifyNothing
+	r.stage = gulfRDLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves gulfRDLBFGSAnalyticStageSearch next when the run goes on.
+func (r *gulfRDLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != gulfRDLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see gulfRDLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := gulfRDLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == gulfRDLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(GulfRDLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !gulfRDLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(GulfRDLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = gulfRDLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		gulfRDLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := gulfRDLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, gulfRDLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * gulfRDLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (gulfRDLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = GulfRDLBFGSAnalyticGradientSmall
+		r.stage = gulfRDLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = gulfRDLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if gulfRDLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(GulfRDLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if gulfRDLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = gulfRDLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(GulfRDLBFGSAnalyticDiverged)
+			return
+		}
+		gulfRDLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(GulfRDLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = gulfRDLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves gulfRDLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *gulfRDLBFGSAnalyticDescent) search() {
+	gulfRDLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := gulfRDLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !gulfRDLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		gulfRDLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = gulfRDLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(gulfRDLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := gulfRDLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := gulfRDLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case gulfRDLBFGSAnalyticSearchOutOfBudget:
+		r.finish(GulfRDLBFGSAnalyticOutOfEvaluations)
+		return
+	case gulfRDLBFGSAnalyticSearchDiverged:
+		r.finish(GulfRDLBFGSAnalyticDiverged)
+		return
+	case gulfRDLBFGSAnalyticSearchExhausted, gulfRDLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see gulfRDLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := GulfRDLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = GulfRDLBFGSAnalyticNoDecrease
+		case found.end == gulfRDLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = gulfRDLBFGSAnalyticVerifyStall, true, gulfRDLBFGSAnalyticStageJudge
+			return
+		case found.end == gulfRDLBFGSAnalyticSearchTiny:
+			end = GulfRDLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !gulfRDLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(GulfRDLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+gulfRDLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(GulfRDLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += gulfRDLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	gulfRDLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	gulfRDLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !gulfRDLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(GulfRDLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = gulfRDLBFGSAnalyticStageJudge
 }
 
 // gulfRDLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type gulfRDLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDLBFGSAnalyticRoundingFloor)
 	bounds    gulfRDLBFGSAnalyticBox
-}
-
-// gulfRDLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func gulfRDLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// gulfRDLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gulfRDLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) int {
-	GulfRDGrad(x, g)
-	return 0
 }
 
 // gulfRDLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func gulfRDLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDLBFGSAnalyticDot(s, s))*(sy/gulfRDLBFGSAnalyticDot(y, y)) > gulfRDLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	gulfRDLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	gulfRDLBFGSAnalyticStageJudge         // settle when asked (gulfRDLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	gulfRDLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: gulfRDLBFGSAnalyticIterationCalls
+	gulfRDLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// gulfRDLBFGSAnalyticEnterBox: without bounds every start is inside.
+func gulfRDLBFGSAnalyticEnterBox(x *[3]float64, b *gulfRDLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	gulfRDLBFGSAnalyticVerifyNothing = iota
 	gulfRDLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gulfRDLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gulfRDLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func gulfRDLBFGSAnalyticFinite(v float64) bool {
+	return v >= -gulfRDLBFGSAnalyticLargestFinite && v <= gulfRDLBFGSAnalyticLargestFinite
+}
+
+// gulfRDLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func gulfRDLBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !gulfRDLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// gulfRDLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func gulfRDLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// gulfRDLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func gulfRDLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) int {
+	GulfRDGrad(x, g)
+	return 0
+}
 
 // gulfRDLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (gulfRDLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func gulfRDLBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// gulfRDLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const gulfRDLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

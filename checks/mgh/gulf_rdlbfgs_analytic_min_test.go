@@ -105,6 +105,55 @@ func TestGulfRDLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestGulfRDLBFGSAnalyticSolverTicks advances a GulfRDLBFGSAnalyticSolver from the spec's start with budgets of GulfRDLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GulfRDLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGulfRDLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := GulfRDLBFGSAnalytic(gulfRDLBFGSAnalyticTestStart())
+	for _, budget := range []int{GulfRDLBFGSAnalyticTickMinimum, GulfRDLBFGSAnalyticTickMinimum + 1, 2 * GulfRDLBFGSAnalyticTickMinimum, 7 * GulfRDLBFGSAnalyticTickMinimum} {
+		var s GulfRDLBFGSAnalyticSolver
+		s.Start(gulfRDLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GulfRDLBFGSAnalyticRunning {
+				if !gulfRDLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GulfRDLBFGSAnalyticSolver
+	s.Start(gulfRDLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != GulfRDLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGulfRDLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGulfRDLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s GulfRDLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gulfRDLBFGSAnalyticTestStart())
+		for s.Advance(GulfRDLBFGSAnalyticTickMinimum).Status == GulfRDLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gulfRDLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func gulfRDLBFGSAnalyticTestSameResult(a, b GulfRDLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGulfRDLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkGulfRDLBFGSAnalytic(b *testing.B) {
 	var r GulfRDLBFGSAnalyticResult

@@ -47,6 +47,55 @@ func TestGulfRDLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestGulfRDLBFGSCentralSolverTicks advances a GulfRDLBFGSCentralSolver from the spec's start with budgets of GulfRDLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where GulfRDLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestGulfRDLBFGSCentralSolverTicks(t *testing.T) {
+	want := GulfRDLBFGSCentral(gulfRDLBFGSCentralTestStart())
+	for _, budget := range []int{GulfRDLBFGSCentralTickMinimum, GulfRDLBFGSCentralTickMinimum + 1, 2 * GulfRDLBFGSCentralTickMinimum, 7 * GulfRDLBFGSCentralTickMinimum} {
+		var s GulfRDLBFGSCentralSolver
+		s.Start(gulfRDLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != GulfRDLBFGSCentralRunning {
+				if !gulfRDLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s GulfRDLBFGSCentralSolver
+	s.Start(gulfRDLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != GulfRDLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestGulfRDLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestGulfRDLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s GulfRDLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(gulfRDLBFGSCentralTestStart())
+		for s.Advance(GulfRDLBFGSCentralTickMinimum).Status == GulfRDLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// gulfRDLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func gulfRDLBFGSCentralTestSameResult(a, b GulfRDLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkGulfRDLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkGulfRDLBFGSCentral(b *testing.B) {
 	var r GulfRDLBFGSCentralResult

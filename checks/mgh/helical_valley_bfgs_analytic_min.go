@@ -26,6 +26,8 @@ const (
 	HelicalValleyBFGSAnalyticNoDecrease
 	// HelicalValleyBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	HelicalValleyBFGSAnalyticDiverged
+	// HelicalValleyBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	HelicalValleyBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s HelicalValleyBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case HelicalValleyBFGSAnalyticDiverged:
 		return "diverged"
+	case HelicalValleyBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func HelicalValleyBFGSAnalyticWithLimits(x0 [3]float64, limits HelicalValleyBFGS
 	}
 }
 
+// HelicalValleyBFGSAnalyticTickMinimum is the smallest call budget with which every HelicalValleyBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const HelicalValleyBFGSAnalyticTickMinimum = 48
+
+// HelicalValleyBFGSAnalyticSolver is a run of HelicalValleyBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (HelicalValleyBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least HelicalValleyBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not HelicalValleyBFGSAnalyticRunning ends exactly as HelicalValleyBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): HelicalValleyBFGSAnalytic and HelicalValleyBFGSAnalyticWithLimits use at most 2576 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is HelicalValleyBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type HelicalValleyBFGSAnalyticSolver struct {
+	run       helicalValleyBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    HelicalValleyBFGSAnalyticLimits  // the limits of the runs; HelicalValleyBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                             // whether SetLimits has set limits
+	started   bool                             // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *HelicalValleyBFGSAnalyticSolver) SetLimits(limits HelicalValleyBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *HelicalValleyBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *HelicalValleyBFGSAnalyticSolver) StartFrom(from HelicalValleyBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *HelicalValleyBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *HelicalValleyBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = HelicalValleyBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, helicalValleyBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status HelicalValleyBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See HelicalValleyBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *HelicalValleyBFGSAnalyticSolver) Advance(budget int) HelicalValleyBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return HelicalValleyBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of HelicalValleyBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	helicalValleyBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	helicalValleyBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	helicalValleyBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	helicalValleyBFGSAnalyticStepTrials     = 48                     // step.trials
-	helicalValleyBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	helicalValleyBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	helicalValleyBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	helicalValleyBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	helicalValleyBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	helicalValleyBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	helicalValleyBFGSAnalyticStepTrials      = 48                     // step.trials
+	helicalValleyBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	helicalValleyBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	helicalValleyBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	helicalValleyBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	helicalValleyBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	helicalValleyBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // helicalValleyBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnalyticLimits, bounds helicalValleyBFGSAnalyticBox) helicalValleyBFGSAnalyticOutcome {
-	x := x0
-	helicalValleyBFGSAnalyticEnterBox(&x, &bounds)
-	out := helicalValleyBFGSAnalyticOutcome{x: x, status: HelicalValleyBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := HelicalValley(&x)
-	out.f, out.evaluations = fx, 1
-	if !helicalValleyBFGSAnalyticFinite(fx) || !helicalValleyBFGSAnalyticFiniteVec(&x) {
-		out.status = HelicalValleyBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := helicalValleyBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := helicalValleyBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += helicalValleyBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-		out.status = HelicalValleyBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir helicalValleyBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(helicalValleyBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                           // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from helicalValleyBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                      // whether the run can make no more progress at x
-	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
-	verify := helicalValleyBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != helicalValleyBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see helicalValleyBFGSAnalyticConfirmGradient and settle).
-			calls, ok := helicalValleyBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-				return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = helicalValleyBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			helicalValleyBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := helicalValleyBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, helicalValleyBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * helicalValleyBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (helicalValleyBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = HelicalValleyBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = helicalValleyBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if helicalValleyBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(HelicalValleyBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if helicalValleyBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = helicalValleyBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(HelicalValleyBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			helicalValleyBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(HelicalValleyBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		helicalValleyBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := helicalValleyBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !helicalValleyBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			helicalValleyBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = helicalValleyBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(helicalValleyBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := helicalValleyBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case helicalValleyBFGSAnalyticSearchOutOfBudget:
-			return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case helicalValleyBFGSAnalyticSearchDiverged:
-			return best.ending(HelicalValleyBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case helicalValleyBFGSAnalyticSearchExhausted, helicalValleyBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see helicalValleyBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := HelicalValleyBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = HelicalValleyBFGSAnalyticNoDecrease
-			case found.end == helicalValleyBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = helicalValleyBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == helicalValleyBFGSAnalyticSearchTiny:
-				end = HelicalValleyBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !helicalValleyBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(HelicalValleyBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		helicalValleyBFGSAnalyticDifference(&s, &xt, &x)
-		helicalValleyBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r helicalValleyBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(helicalValleyBFGSAnalyticUnlimited)
 }
 
 // helicalValleyBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o helicalValleyBFGSAnalyticOutcome) ending(end HelicalValleyBFGSAnalyticSt
 	return o
 }
 
-// helicalValleyBFGSAnalyticEnterBox: without bounds every start is inside.
-func helicalValleyBFGSAnalyticEnterBox(x *[3]float64, b *helicalValleyBFGSAnalyticBox) {}
-
-// helicalValleyBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func helicalValleyBFGSAnalyticFinite(v float64) bool {
-	return v >= -helicalValleyBFGSAnalyticLargestFinite && v <= helicalValleyBFGSAnalyticLargestFinite
+// helicalValleyBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type helicalValleyBFGSAnalyticDescent struct {
+	lim       HelicalValleyBFGSAnalyticLimits
+	stage     int                                  // what advance does next
+	diffs     helicalValleyBFGSAnalyticDifferences // the box and the difference intervals
+	dir       helicalValleyBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                           // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                           // the search direction, the last step and its gradient change
+	fx        float64                              // f(x)
+	t, slope  float64                              // the previous iteration's accepted step and slope
+	out, best helicalValleyBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                              // f(x0)
+	rises     int                                  // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                 // whether g and e at x come from helicalValleyBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                 // whether the run can make no more progress at x
+	retried   int                                  // the iteration whose stall was retried with recalibrated differences
+	verify    int                                  // what to check at x before judging it again
 }
 
-// helicalValleyBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func helicalValleyBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *helicalValleyBFGSAnalyticDescent) prepare(x0 [3]float64, lim HelicalValleyBFGSAnalyticLimits, bounds helicalValleyBFGSAnalyticBox) {
+	r.lim, r.stage = lim, helicalValleyBFGSAnalyticStageBegin
+	r.diffs = helicalValleyBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	helicalValleyBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = helicalValleyBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: HelicalValleyBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *helicalValleyBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with HelicalValleyBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, helicalValleyBFGSAnalyticSettleCalls and helicalValleyBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *helicalValleyBFGSAnalyticDescent) advance(budget int) helicalValleyBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != helicalValleyBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case helicalValleyBFGSAnalyticStageBegin:
+			if left < 1+helicalValleyBFGSAnalyticCalibrationCost+helicalValleyBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case helicalValleyBFGSAnalyticStageJudge:
+			if r.verify != helicalValleyBFGSAnalyticVerifyNothing && left < helicalValleyBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < helicalValleyBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *helicalValleyBFGSAnalyticDescent) paused() helicalValleyBFGSAnalyticOutcome {
+	return r.best.ending(HelicalValleyBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *helicalValleyBFGSAnalyticDescent) finish(end HelicalValleyBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = helicalValleyBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *helicalValleyBFGSAnalyticDescent) begin() {
+	r.stage = helicalValleyBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !helicalValleyBFGSAnalyticFinite(r.fx) || !helicalValleyBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = HelicalValleyBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := helicalValleyBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += helicalValleyBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !helicalValleyBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = HelicalValleyBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = helicalValleyBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, helicalValleyBFGSAnalyticVerifyNothing
+	r.stage = helicalValleyBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves helicalValleyBFGSAnalyticStageSearch next when the run goes on.
+func (r *helicalValleyBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != helicalValleyBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see helicalValleyBFGSAnalyticConfirmGradient and settle).
+		calls, ok := helicalValleyBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == helicalValleyBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(HelicalValleyBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !helicalValleyBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(HelicalValleyBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = helicalValleyBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		helicalValleyBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := helicalValleyBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, helicalValleyBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * helicalValleyBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (helicalValleyBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = HelicalValleyBFGSAnalyticGradientSmall
+		r.stage = helicalValleyBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = helicalValleyBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if helicalValleyBFGSAnalyticDerivativeCost == 0 {
+			r.finish(HelicalValleyBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if helicalValleyBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = helicalValleyBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(HelicalValleyBFGSAnalyticDiverged)
+			return
+		}
+		helicalValleyBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(HelicalValleyBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = helicalValleyBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves helicalValleyBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *helicalValleyBFGSAnalyticDescent) search() {
+	helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := helicalValleyBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !helicalValleyBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = helicalValleyBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(helicalValleyBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := helicalValleyBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := helicalValleyBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case helicalValleyBFGSAnalyticSearchOutOfBudget:
+		r.finish(HelicalValleyBFGSAnalyticOutOfEvaluations)
+		return
+	case helicalValleyBFGSAnalyticSearchDiverged:
+		r.finish(HelicalValleyBFGSAnalyticDiverged)
+		return
+	case helicalValleyBFGSAnalyticSearchExhausted, helicalValleyBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see helicalValleyBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := HelicalValleyBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = HelicalValleyBFGSAnalyticNoDecrease
+		case found.end == helicalValleyBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = helicalValleyBFGSAnalyticVerifyStall, true, helicalValleyBFGSAnalyticStageJudge
+			return
+		case found.end == helicalValleyBFGSAnalyticSearchTiny:
+			end = HelicalValleyBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !helicalValleyBFGSAnalyticFiniteVec(&xt) {
+		r.finish(HelicalValleyBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(HelicalValleyBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	helicalValleyBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	helicalValleyBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !helicalValleyBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(HelicalValleyBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = helicalValleyBFGSAnalyticStageJudge
 }
 
 // helicalValleyBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type helicalValleyBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyBFGSAnalyticRoundingFloor)
 	bounds    helicalValleyBFGSAnalyticBox
-}
-
-// helicalValleyBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func helicalValleyBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// helicalValleyBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) int {
-	HelicalValleyGrad(x, g)
-	return 0
 }
 
 // helicalValleyBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func helicalValleyBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyBFGSAnalyticDot(s, s))*(sy/helicalValleyBFGSAnalyticDot(y, y)) > helicalValleyBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	helicalValleyBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	helicalValleyBFGSAnalyticStageJudge         // settle when asked (helicalValleyBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	helicalValleyBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: helicalValleyBFGSAnalyticIterationCalls
+	helicalValleyBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// helicalValleyBFGSAnalyticEnterBox: without bounds every start is inside.
+func helicalValleyBFGSAnalyticEnterBox(x *[3]float64, b *helicalValleyBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	helicalValleyBFGSAnalyticVerifyNothing = iota
 	helicalValleyBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	helicalValleyBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// helicalValleyBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func helicalValleyBFGSAnalyticFinite(v float64) bool {
+	return v >= -helicalValleyBFGSAnalyticLargestFinite && v <= helicalValleyBFGSAnalyticLargestFinite
+}
+
+// helicalValleyBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func helicalValleyBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !helicalValleyBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// helicalValleyBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func helicalValleyBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// helicalValleyBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func helicalValleyBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) int {
+	HelicalValleyGrad(x, g)
+	return 0
+}
 
 // helicalValleyBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (helicalValleyBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func helicalValleyBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// helicalValleyBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const helicalValleyBFGSAnalyticUnlimited = int(^uint(0) >> 1)

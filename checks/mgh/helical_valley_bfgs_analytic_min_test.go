@@ -105,6 +105,55 @@ func TestHelicalValleyBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestHelicalValleyBFGSAnalyticSolverTicks advances a HelicalValleyBFGSAnalyticSolver from the spec's start with budgets of HelicalValleyBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where HelicalValleyBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestHelicalValleyBFGSAnalyticSolverTicks(t *testing.T) {
+	want := HelicalValleyBFGSAnalytic(helicalValleyBFGSAnalyticTestStart())
+	for _, budget := range []int{HelicalValleyBFGSAnalyticTickMinimum, HelicalValleyBFGSAnalyticTickMinimum + 1, 2 * HelicalValleyBFGSAnalyticTickMinimum, 7 * HelicalValleyBFGSAnalyticTickMinimum} {
+		var s HelicalValleyBFGSAnalyticSolver
+		s.Start(helicalValleyBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != HelicalValleyBFGSAnalyticRunning {
+				if !helicalValleyBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s HelicalValleyBFGSAnalyticSolver
+	s.Start(helicalValleyBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != HelicalValleyBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestHelicalValleyBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestHelicalValleyBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s HelicalValleyBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(helicalValleyBFGSAnalyticTestStart())
+		for s.Advance(HelicalValleyBFGSAnalyticTickMinimum).Status == HelicalValleyBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// helicalValleyBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func helicalValleyBFGSAnalyticTestSameResult(a, b HelicalValleyBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkHelicalValleyBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkHelicalValleyBFGSAnalytic(b *testing.B) {
 	var r HelicalValleyBFGSAnalyticResult

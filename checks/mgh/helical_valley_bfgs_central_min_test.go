@@ -47,6 +47,55 @@ func TestHelicalValleyBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestHelicalValleyBFGSCentralSolverTicks advances a HelicalValleyBFGSCentralSolver from the spec's start with budgets of HelicalValleyBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where HelicalValleyBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestHelicalValleyBFGSCentralSolverTicks(t *testing.T) {
+	want := HelicalValleyBFGSCentral(helicalValleyBFGSCentralTestStart())
+	for _, budget := range []int{HelicalValleyBFGSCentralTickMinimum, HelicalValleyBFGSCentralTickMinimum + 1, 2 * HelicalValleyBFGSCentralTickMinimum, 7 * HelicalValleyBFGSCentralTickMinimum} {
+		var s HelicalValleyBFGSCentralSolver
+		s.Start(helicalValleyBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != HelicalValleyBFGSCentralRunning {
+				if !helicalValleyBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s HelicalValleyBFGSCentralSolver
+	s.Start(helicalValleyBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != HelicalValleyBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestHelicalValleyBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestHelicalValleyBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s HelicalValleyBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(helicalValleyBFGSCentralTestStart())
+		for s.Advance(HelicalValleyBFGSCentralTickMinimum).Status == HelicalValleyBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// helicalValleyBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func helicalValleyBFGSCentralTestSameResult(a, b HelicalValleyBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkHelicalValleyBFGSCentral measures one whole run from the spec's start.
 func BenchmarkHelicalValleyBFGSCentral(b *testing.B) {
 	var r HelicalValleyBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	HelicalValleyCGAnalyticNoDecrease
 	// HelicalValleyCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	HelicalValleyCGAnalyticDiverged
+	// HelicalValleyCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	HelicalValleyCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s HelicalValleyCGAnalyticStatus) String() string {
 		return "no decrease"
 	case HelicalValleyCGAnalyticDiverged:
 		return "diverged"
+	case HelicalValleyCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func HelicalValleyCGAnalyticWithLimits(x0 [3]float64, limits HelicalValleyCGAnal
 	}
 }
 
+// HelicalValleyCGAnalyticTickMinimum is the smallest call budget with which every HelicalValleyCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const HelicalValleyCGAnalyticTickMinimum = 48
+
+// HelicalValleyCGAnalyticSolver is a run of HelicalValleyCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (HelicalValleyCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least HelicalValleyCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not HelicalValleyCGAnalyticRunning ends exactly as HelicalValleyCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): HelicalValleyCGAnalytic and HelicalValleyCGAnalyticWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is HelicalValleyCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type HelicalValleyCGAnalyticSolver struct {
+	run       helicalValleyCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    HelicalValleyCGAnalyticLimits  // the limits of the runs; HelicalValleyCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                           // whether SetLimits has set limits
+	started   bool                           // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *HelicalValleyCGAnalyticSolver) SetLimits(limits HelicalValleyCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *HelicalValleyCGAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *HelicalValleyCGAnalyticSolver) StartFrom(from HelicalValleyCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *HelicalValleyCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *HelicalValleyCGAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = HelicalValleyCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, helicalValleyCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status HelicalValleyCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See HelicalValleyCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *HelicalValleyCGAnalyticSolver) Advance(budget int) HelicalValleyCGAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return HelicalValleyCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of HelicalValleyCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	helicalValleyCGAnalyticStepInitial    = 1.0                    // step.initial
-	helicalValleyCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	helicalValleyCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	helicalValleyCGAnalyticStepTrials     = 48                     // step.trials
-	helicalValleyCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	helicalValleyCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	helicalValleyCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	helicalValleyCGAnalyticStepInitial     = 1.0                    // step.initial
+	helicalValleyCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	helicalValleyCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	helicalValleyCGAnalyticStepTrials      = 48                     // step.trials
+	helicalValleyCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	helicalValleyCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	helicalValleyCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	helicalValleyCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	helicalValleyCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	helicalValleyCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // helicalValleyCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticLimits, bounds helicalValleyCGAnalyticBox) helicalValleyCGAnalyticOutcome {
-	x := x0
-	helicalValleyCGAnalyticEnterBox(&x, &bounds)
-	out := helicalValleyCGAnalyticOutcome{x: x, status: HelicalValleyCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := HelicalValley(&x)
-	out.f, out.evaluations = fx, 1
-	if !helicalValleyCGAnalyticFinite(fx) || !helicalValleyCGAnalyticFiniteVec(&x) {
-		out.status = HelicalValleyCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := helicalValleyCGAnalyticDifferences{bounds: bounds}
-	calls, ok := helicalValleyCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+helicalValleyCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += helicalValleyCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !helicalValleyCGAnalyticFiniteVec(&g) {
-		out.status = HelicalValleyCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir helicalValleyCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(helicalValleyCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                         // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from helicalValleyCGAnalyticConfirmGradient or settle
-	stalled := false                                                    // whether the run can make no more progress at x
-	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
-	verify := helicalValleyCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != helicalValleyCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see helicalValleyCGAnalyticConfirmGradient and settle).
-			calls, ok := helicalValleyCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyCGAnalyticFiniteVec(&g) {
-				return best.ending(HelicalValleyCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = helicalValleyCGAnalyticVerifyNothing, true
-		case !confirmed:
-			helicalValleyCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := helicalValleyCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, helicalValleyCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * helicalValleyCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (helicalValleyCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = HelicalValleyCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = helicalValleyCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if helicalValleyCGAnalyticDerivativeCost == 0 {
-				return best.ending(HelicalValleyCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if helicalValleyCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = helicalValleyCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(HelicalValleyCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			helicalValleyCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(HelicalValleyCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		helicalValleyCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := helicalValleyCGAnalyticDot(&g, &d)
-		if !(now < 0) || !helicalValleyCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			helicalValleyCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = helicalValleyCGAnalyticDot(&g, &d)
-		}
-		first := float64(helicalValleyCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := helicalValleyCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case helicalValleyCGAnalyticSearchOutOfBudget:
-			return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case helicalValleyCGAnalyticSearchDiverged:
-			return best.ending(HelicalValleyCGAnalyticDiverged, out.iterations, out.evaluations)
-		case helicalValleyCGAnalyticSearchExhausted, helicalValleyCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see helicalValleyCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := HelicalValleyCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = HelicalValleyCGAnalyticNoDecrease
-			case found.end == helicalValleyCGAnalyticSearchTiny && canSettle:
-				verify, stalled = helicalValleyCGAnalyticVerifyStall, true
-				continue
-			case found.end == helicalValleyCGAnalyticSearchTiny:
-				end = HelicalValleyCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !helicalValleyCGAnalyticFiniteVec(&xt) {
-			return best.ending(HelicalValleyCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+helicalValleyCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += helicalValleyCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		helicalValleyCGAnalyticDifference(&s, &xt, &x)
-		helicalValleyCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !helicalValleyCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(HelicalValleyCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r helicalValleyCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(helicalValleyCGAnalyticUnlimited)
 }
 
 // helicalValleyCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o helicalValleyCGAnalyticOutcome) ending(end HelicalValleyCGAnalyticStatus
 	return o
 }
 
-// helicalValleyCGAnalyticEnterBox: without bounds every start is inside.
-func helicalValleyCGAnalyticEnterBox(x *[3]float64, b *helicalValleyCGAnalyticBox) {}
-
-// helicalValleyCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func helicalValleyCGAnalyticFinite(v float64) bool {
-	return v >= -helicalValleyCGAnalyticLargestFinite && v <= helicalValleyCGAnalyticLargestFinite
+// helicalValleyCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type helicalValleyCGAnalyticDescent struct {
+	lim       HelicalValleyCGAnalyticLimits
+	stage     int                                // what advance does next
+	diffs     helicalValleyCGAnalyticDifferences // the box and the difference intervals
+	dir       helicalValleyCGAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                         // the search direction, the last step and its gradient change
+	fx        float64                            // f(x)
+	t, slope  float64                            // the previous iteration's accepted step and slope
+	out, best helicalValleyCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                            // f(x0)
+	rises     int                                // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                               // whether g and e at x come from helicalValleyCGAnalyticConfirmGradient or settle
+	stalled   bool                               // whether the run can make no more progress at x
+	retried   int                                // the iteration whose stall was retried with recalibrated differences
+	verify    int                                // what to check at x before judging it again
 }
 
-// helicalValleyCGAnalyticFiniteVec reports whether every component of x is finite.
-func helicalValleyCGAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *helicalValleyCGAnalyticDescent) prepare(x0 [3]float64, lim HelicalValleyCGAnalyticLimits, bounds helicalValleyCGAnalyticBox) {
+	r.lim, r.stage = lim, helicalValleyCGAnalyticStageBegin
+	r.diffs = helicalValleyCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	helicalValleyCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = helicalValleyCGAnalyticOutcome{x: r.x, f: math.NaN(), status: HelicalValleyCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *helicalValleyCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with HelicalValleyCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, helicalValleyCGAnalyticSettleCalls and helicalValleyCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *helicalValleyCGAnalyticDescent) advance(budget int) helicalValleyCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != helicalValleyCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case helicalValleyCGAnalyticStageBegin:
+			if left < 1+helicalValleyCGAnalyticCalibrationCost+helicalValleyCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case helicalValleyCGAnalyticStageJudge:
+			if r.verify != helicalValleyCGAnalyticVerifyNothing && left < helicalValleyCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < helicalValleyCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *helicalValleyCGAnalyticDescent) paused() helicalValleyCGAnalyticOutcome {
+	return r.best.ending(HelicalValleyCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *helicalValleyCGAnalyticDescent) finish(end HelicalValleyCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = helicalValleyCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *helicalValleyCGAnalyticDescent) begin() {
+	r.stage = helicalValleyCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !helicalValleyCGAnalyticFinite(r.fx) || !helicalValleyCGAnalyticFiniteVec(&r.x) {
+		r.out.status = HelicalValleyCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := helicalValleyCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+helicalValleyCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += helicalValleyCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !helicalValleyCGAnalyticFiniteVec(&r.g) {
+		r.out.status = HelicalValleyCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = helicalValleyCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, helicalValleyCGAnalyticVerifyNothing
+	r.stage = helicalValleyCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves helicalValleyCGAnalyticStageSearch next when the run goes on.
+func (r *helicalValleyCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != helicalValleyCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see helicalValleyCGAnalyticConfirmGradient and settle).
+		calls, ok := helicalValleyCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == helicalValleyCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(HelicalValleyCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !helicalValleyCGAnalyticFiniteVec(&r.g) {
+			r.finish(HelicalValleyCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = helicalValleyCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		helicalValleyCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := helicalValleyCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, helicalValleyCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * helicalValleyCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (helicalValleyCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = HelicalValleyCGAnalyticGradientSmall
+		r.stage = helicalValleyCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = helicalValleyCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if helicalValleyCGAnalyticDerivativeCost == 0 {
+			r.finish(HelicalValleyCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if helicalValleyCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = helicalValleyCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(HelicalValleyCGAnalyticDiverged)
+			return
+		}
+		helicalValleyCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(HelicalValleyCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = helicalValleyCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves helicalValleyCGAnalyticStageJudge next when the run
+// goes on.
+func (r *helicalValleyCGAnalyticDescent) search() {
+	helicalValleyCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := helicalValleyCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !helicalValleyCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		helicalValleyCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = helicalValleyCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(helicalValleyCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := helicalValleyCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := helicalValleyCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case helicalValleyCGAnalyticSearchOutOfBudget:
+		r.finish(HelicalValleyCGAnalyticOutOfEvaluations)
+		return
+	case helicalValleyCGAnalyticSearchDiverged:
+		r.finish(HelicalValleyCGAnalyticDiverged)
+		return
+	case helicalValleyCGAnalyticSearchExhausted, helicalValleyCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see helicalValleyCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := HelicalValleyCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = HelicalValleyCGAnalyticNoDecrease
+		case found.end == helicalValleyCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = helicalValleyCGAnalyticVerifyStall, true, helicalValleyCGAnalyticStageJudge
+			return
+		case found.end == helicalValleyCGAnalyticSearchTiny:
+			end = HelicalValleyCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !helicalValleyCGAnalyticFiniteVec(&xt) {
+		r.finish(HelicalValleyCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+helicalValleyCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(HelicalValleyCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += helicalValleyCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	helicalValleyCGAnalyticDifference(&r.s, &xt, &r.x)
+	helicalValleyCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !helicalValleyCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(HelicalValleyCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = helicalValleyCGAnalyticStageJudge
 }
 
 // helicalValleyCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type helicalValleyCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyCGAnalyticRoundingFloor)
 	bounds    helicalValleyCGAnalyticBox
-}
-
-// helicalValleyCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func helicalValleyCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// helicalValleyCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyCGAnalyticDifferences) int {
-	HelicalValleyGrad(x, g)
-	return 0
 }
 
 // helicalValleyCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func helicalValleyCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// helicalValleyCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func helicalValleyCGAnalyticFinite(v float64) bool {
+	return v >= -helicalValleyCGAnalyticLargestFinite && v <= helicalValleyCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	helicalValleyCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	helicalValleyCGAnalyticStageJudge         // settle when asked (helicalValleyCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	helicalValleyCGAnalyticStageSearch        // the line search and the gradient at the accepted point: helicalValleyCGAnalyticIterationCalls
+	helicalValleyCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// helicalValleyCGAnalyticEnterBox: without bounds every start is inside.
+func helicalValleyCGAnalyticEnterBox(x *[3]float64, b *helicalValleyCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	helicalValleyCGAnalyticVerifyNothing = iota
 	helicalValleyCGAnalyticVerifyPass    // a difference gradient passed the test
 	helicalValleyCGAnalyticVerifyStall   // no step makes progress
 )
+
+// helicalValleyCGAnalyticFiniteVec reports whether every component of x is finite.
+func helicalValleyCGAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !helicalValleyCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// helicalValleyCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func helicalValleyCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// helicalValleyCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func helicalValleyCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyCGAnalyticDifferences) int {
+	HelicalValleyGrad(x, g)
+	return 0
+}
 
 // helicalValleyCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (helicalValleyCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func helicalValleyCGAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// helicalValleyCGAnalyticUnlimited is a tick budget that never pauses a run.
+const helicalValleyCGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestHelicalValleyCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestHelicalValleyCGAnalyticSolverTicks advances a HelicalValleyCGAnalyticSolver from the spec's start with budgets of HelicalValleyCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where HelicalValleyCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestHelicalValleyCGAnalyticSolverTicks(t *testing.T) {
+	want := HelicalValleyCGAnalytic(helicalValleyCGAnalyticTestStart())
+	for _, budget := range []int{HelicalValleyCGAnalyticTickMinimum, HelicalValleyCGAnalyticTickMinimum + 1, 2 * HelicalValleyCGAnalyticTickMinimum, 7 * HelicalValleyCGAnalyticTickMinimum} {
+		var s HelicalValleyCGAnalyticSolver
+		s.Start(helicalValleyCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != HelicalValleyCGAnalyticRunning {
+				if !helicalValleyCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s HelicalValleyCGAnalyticSolver
+	s.Start(helicalValleyCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != HelicalValleyCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestHelicalValleyCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestHelicalValleyCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s HelicalValleyCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(helicalValleyCGAnalyticTestStart())
+		for s.Advance(HelicalValleyCGAnalyticTickMinimum).Status == HelicalValleyCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// helicalValleyCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func helicalValleyCGAnalyticTestSameResult(a, b HelicalValleyCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkHelicalValleyCGAnalytic measures one whole run from the spec's start.
 func BenchmarkHelicalValleyCGAnalytic(b *testing.B) {
 	var r HelicalValleyCGAnalyticResult

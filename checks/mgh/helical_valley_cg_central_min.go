@@ -26,6 +26,8 @@ const (
 	HelicalValleyCGCentralNoDecrease
 	// HelicalValleyCGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	HelicalValleyCGCentralDiverged
+	// HelicalValleyCGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	HelicalValleyCGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s HelicalValleyCGCentralStatus) String() string {
 		return "no decrease"
 	case HelicalValleyCGCentralDiverged:
 		return "diverged"
+	case HelicalValleyCGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func HelicalValleyCGCentralWithLimits(x0 [3]float64, limits HelicalValleyCGCentr
 	}
 }
 
+// HelicalValleyCGCentralTickMinimum is the smallest call budget with which every HelicalValleyCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+const HelicalValleyCGCentralTickMinimum = 336
+
+// HelicalValleyCGCentralSolver is a run of HelicalValleyCGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (HelicalValleyCGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least HelicalValleyCGCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not HelicalValleyCGCentralRunning ends exactly as HelicalValleyCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): HelicalValleyCGCentral and HelicalValleyCGCentralWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is HelicalValleyCGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type HelicalValleyCGCentralSolver struct {
+	run       helicalValleyCGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    HelicalValleyCGCentralLimits  // the limits of the runs; HelicalValleyCGCentralDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *HelicalValleyCGCentralSolver) SetLimits(limits HelicalValleyCGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *HelicalValleyCGCentralSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *HelicalValleyCGCentralSolver) StartFrom(from HelicalValleyCGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *HelicalValleyCGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *HelicalValleyCGCentralSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = HelicalValleyCGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, helicalValleyCGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status HelicalValleyCGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See HelicalValleyCGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *HelicalValleyCGCentralSolver) Advance(budget int) HelicalValleyCGCentralResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return HelicalValleyCGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of HelicalValleyCGCentral from mgh.toml; the kernels below read them.
 const (
-	helicalValleyCGCentralStepInitial    = 1.0                    // step.initial
-	helicalValleyCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	helicalValleyCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	helicalValleyCGCentralStepTrials     = 48                     // step.trials
-	helicalValleyCGCentralDerivativeCost = 6                      // objective calls per gradient
-	helicalValleyCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	helicalValleyCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	helicalValleyCGCentralStepInitial     = 1.0                    // step.initial
+	helicalValleyCGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	helicalValleyCGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	helicalValleyCGCentralStepTrials      = 48                     // step.trials
+	helicalValleyCGCentralDerivativeCost  = 6                      // objective calls per gradient
+	helicalValleyCGCentralCalibrationCost = 12                     // objective calls of choosing the difference intervals
+	helicalValleyCGCentralIterationCalls  = 336                    // most objective calls of one line search with the gradient at its step
+	helicalValleyCGCentralSettleCalls     = 24                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	helicalValleyCGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	helicalValleyCGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // helicalValleyCGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLimits, bounds helicalValleyCGCentralBox) helicalValleyCGCentralOutcome {
-	x := x0
-	helicalValleyCGCentralEnterBox(&x, &bounds)
-	out := helicalValleyCGCentralOutcome{x: x, status: HelicalValleyCGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := HelicalValley(&x)
-	out.f, out.evaluations = fx, 1
-	if !helicalValleyCGCentralFinite(fx) || !helicalValleyCGCentralFiniteVec(&x) {
-		out.status = HelicalValleyCGCentralNonFiniteStart
-		return out
-	}
-	diffs := helicalValleyCGCentralDifferences{bounds: bounds}
-	calls, ok := helicalValleyCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+helicalValleyCGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += helicalValleyCGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !helicalValleyCGCentralFiniteVec(&g) {
-		out.status = HelicalValleyCGCentralNonFiniteGradient
-		return out
-	}
-	var dir helicalValleyCGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(helicalValleyCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from helicalValleyCGCentralConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := helicalValleyCGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != helicalValleyCGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see helicalValleyCGCentralConfirmGradient and settle).
-			calls, ok := helicalValleyCGCentralSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyCGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyCGCentralFiniteVec(&g) {
-				return best.ending(HelicalValleyCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = helicalValleyCGCentralVerifyNothing, true
-		case !confirmed:
-			helicalValleyCGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := helicalValleyCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, helicalValleyCGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * helicalValleyCGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (helicalValleyCGCentralDerivativeCost == 0 || confirmed) {
-			out.status = HelicalValleyCGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = helicalValleyCGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if helicalValleyCGCentralDerivativeCost == 0 {
-				return best.ending(HelicalValleyCGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if helicalValleyCGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = helicalValleyCGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(HelicalValleyCGCentralDiverged, out.iterations, out.evaluations)
-			}
-			helicalValleyCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(HelicalValleyCGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		helicalValleyCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := helicalValleyCGCentralDot(&g, &d)
-		if !(now < 0) || !helicalValleyCGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			helicalValleyCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = helicalValleyCGCentralDot(&g, &d)
-		}
-		first := float64(helicalValleyCGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := helicalValleyCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case helicalValleyCGCentralSearchOutOfBudget:
-			return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case helicalValleyCGCentralSearchDiverged:
-			return best.ending(HelicalValleyCGCentralDiverged, out.iterations, out.evaluations)
-		case helicalValleyCGCentralSearchExhausted, helicalValleyCGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see helicalValleyCGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := HelicalValleyCGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = HelicalValleyCGCentralNoDecrease
-			case found.end == helicalValleyCGCentralSearchTiny && canSettle:
-				verify, stalled = helicalValleyCGCentralVerifyStall, true
-				continue
-			case found.end == helicalValleyCGCentralSearchTiny:
-				end = HelicalValleyCGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !helicalValleyCGCentralFiniteVec(&xt) {
-			return best.ending(HelicalValleyCGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+helicalValleyCGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += helicalValleyCGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		helicalValleyCGCentralDifference(&s, &xt, &x)
-		helicalValleyCGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !helicalValleyCGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(HelicalValleyCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r helicalValleyCGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(helicalValleyCGCentralUnlimited)
 }
 
 // helicalValleyCGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o helicalValleyCGCentralOutcome) ending(end HelicalValleyCGCentralStatus, 
 	return o
 }
 
-// helicalValleyCGCentralEnterBox: without bounds every start is inside.
-func helicalValleyCGCentralEnterBox(x *[3]float64, b *helicalValleyCGCentralBox) {}
-
-// helicalValleyCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func helicalValleyCGCentralFinite(v float64) bool {
-	return v >= -helicalValleyCGCentralLargestFinite && v <= helicalValleyCGCentralLargestFinite
+// helicalValleyCGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type helicalValleyCGCentralDescent struct {
+	lim       HelicalValleyCGCentralLimits
+	stage     int                               // what advance does next
+	diffs     helicalValleyCGCentralDifferences // the box and the difference intervals
+	dir       helicalValleyCGCentralDirection   // the direction's memory
+	x, g, e   [3]float64                        // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                        // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best helicalValleyCGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from helicalValleyCGCentralConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
 }
 
-// helicalValleyCGCentralFiniteVec reports whether every component of x is finite.
-func helicalValleyCGCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyCGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *helicalValleyCGCentralDescent) prepare(x0 [3]float64, lim HelicalValleyCGCentralLimits, bounds helicalValleyCGCentralBox) {
+	r.lim, r.stage = lim, helicalValleyCGCentralStageBegin
+	r.diffs = helicalValleyCGCentralDifferences{bounds: bounds}
+	r.x = x0
+	helicalValleyCGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = helicalValleyCGCentralOutcome{x: r.x, f: math.NaN(), status: HelicalValleyCGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *helicalValleyCGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with HelicalValleyCGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, helicalValleyCGCentralSettleCalls and helicalValleyCGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *helicalValleyCGCentralDescent) advance(budget int) helicalValleyCGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != helicalValleyCGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case helicalValleyCGCentralStageBegin:
+			if left < 1+helicalValleyCGCentralCalibrationCost+helicalValleyCGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case helicalValleyCGCentralStageJudge:
+			if r.verify != helicalValleyCGCentralVerifyNothing && left < helicalValleyCGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < helicalValleyCGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *helicalValleyCGCentralDescent) paused() helicalValleyCGCentralOutcome {
+	return r.best.ending(HelicalValleyCGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *helicalValleyCGCentralDescent) finish(end HelicalValleyCGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = helicalValleyCGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *helicalValleyCGCentralDescent) begin() {
+	r.stage = helicalValleyCGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !helicalValleyCGCentralFinite(r.fx) || !helicalValleyCGCentralFiniteVec(&r.x) {
+		r.out.status = HelicalValleyCGCentralNonFiniteStart
+		return
+	}
+	calls, ok := helicalValleyCGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+helicalValleyCGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += helicalValleyCGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !helicalValleyCGCentralFiniteVec(&r.g) {
+		r.out.status = HelicalValleyCGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = helicalValleyCGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, helicalValleyCGCentralVerifyNothing
+	r.stage = helicalValleyCGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves helicalValleyCGCentralStageSearch next when the run goes on.
+func (r *helicalValleyCGCentralDescent) judge() {
+	switch {
+	case r.verify != helicalValleyCGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see helicalValleyCGCentralConfirmGradient and settle).
+		calls, ok := helicalValleyCGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == helicalValleyCGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(HelicalValleyCGCentralOutOfEvaluations)
+			return
+		}
+		if !helicalValleyCGCentralFiniteVec(&r.g) {
+			r.finish(HelicalValleyCGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = helicalValleyCGCentralVerifyNothing, true
+	case !r.confirmed:
+		helicalValleyCGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := helicalValleyCGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, helicalValleyCGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * helicalValleyCGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (helicalValleyCGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = HelicalValleyCGCentralGradientSmall
+		r.stage = helicalValleyCGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = helicalValleyCGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if helicalValleyCGCentralDerivativeCost == 0 {
+			r.finish(HelicalValleyCGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if helicalValleyCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = helicalValleyCGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(HelicalValleyCGCentralDiverged)
+			return
+		}
+		helicalValleyCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(HelicalValleyCGCentralOutOfIterations)
+		return
+	}
+	r.stage = helicalValleyCGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves helicalValleyCGCentralStageJudge next when the run
+// goes on.
+func (r *helicalValleyCGCentralDescent) search() {
+	helicalValleyCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := helicalValleyCGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !helicalValleyCGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		helicalValleyCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = helicalValleyCGCentralDot(&r.g, &r.d)
+	}
+	first := float64(helicalValleyCGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := helicalValleyCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := helicalValleyCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case helicalValleyCGCentralSearchOutOfBudget:
+		r.finish(HelicalValleyCGCentralOutOfEvaluations)
+		return
+	case helicalValleyCGCentralSearchDiverged:
+		r.finish(HelicalValleyCGCentralDiverged)
+		return
+	case helicalValleyCGCentralSearchExhausted, helicalValleyCGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see helicalValleyCGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := HelicalValleyCGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = HelicalValleyCGCentralNoDecrease
+		case found.end == helicalValleyCGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = helicalValleyCGCentralVerifyStall, true, helicalValleyCGCentralStageJudge
+			return
+		case found.end == helicalValleyCGCentralSearchTiny:
+			end = HelicalValleyCGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !helicalValleyCGCentralFiniteVec(&xt) {
+		r.finish(HelicalValleyCGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+helicalValleyCGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(HelicalValleyCGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += helicalValleyCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	helicalValleyCGCentralDifference(&r.s, &xt, &r.x)
+	helicalValleyCGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !helicalValleyCGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(HelicalValleyCGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = helicalValleyCGCentralStageJudge
 }
 
 // helicalValleyCGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type helicalValleyCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyCGCentralRoundingFloor)
 	bounds    helicalValleyCGCentralBox
+}
+
+// helicalValleyCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type helicalValleyCGCentralDirection struct {
+	previous [3]float64 // d₋₁
+	change   [3]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *helicalValleyCGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *helicalValleyCGCentralDirection) compute(g, d *[3]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
+		beta = helicalValleyCGCentralLarger(helicalValleyCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = helicalValleyCGCentralDot(g, g)
+}
+
+func (s *helicalValleyCGCentralDirection) update(step, change *[3]float64) {
+	s.change = *change
+}
+
+func (s *helicalValleyCGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return helicalValleyCGCentralScaledTrial(t, slope, now)
+}
+
+// helicalValleyCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func helicalValleyCGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// helicalValleyCGCentralDot returns aᵀb.
+func helicalValleyCGCentralDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// helicalValleyCGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to helicalValleyCGCentralStepInitial.
+func helicalValleyCGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !helicalValleyCGCentralFinite(next) {
+		return helicalValleyCGCentralStepInitial
+	}
+	return next
+}
+
+// helicalValleyCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func helicalValleyCGCentralFinite(v float64) bool {
+	return v >= -helicalValleyCGCentralLargestFinite && v <= helicalValleyCGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	helicalValleyCGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	helicalValleyCGCentralStageJudge         // settle when asked (helicalValleyCGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	helicalValleyCGCentralStageSearch        // the line search and the gradient at the accepted point: helicalValleyCGCentralIterationCalls
+	helicalValleyCGCentralStageOver          // the run has ended; out is its result
+)
+
+// helicalValleyCGCentralEnterBox: without bounds every start is inside.
+func helicalValleyCGCentralEnterBox(x *[3]float64, b *helicalValleyCGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyCGCentralVerifyNothing = iota
+	helicalValleyCGCentralVerifyPass    // a difference gradient passed the test
+	helicalValleyCGCentralVerifyStall   // no step makes progress
+)
+
+// helicalValleyCGCentralFiniteVec reports whether every component of x is finite.
+func helicalValleyCGCentralFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !helicalValleyCGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyCGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func helicalValleyCGCentralAbs(v float64) float64 {
 // helicalValleyCGCentralSquareRoot returns √v.
 func helicalValleyCGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// helicalValleyCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func helicalValleyCGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // helicalValleyCGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func helicalValleyCGCentralParabola(f0, a, fa, b, fb float64) (slope, second flo
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// helicalValleyCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type helicalValleyCGCentralDirection struct {
-	previous [3]float64 // d₋₁
-	change   [3]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *helicalValleyCGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *helicalValleyCGCentralDirection) compute(g, d *[3]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = helicalValleyCGCentralLarger(helicalValleyCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = helicalValleyCGCentralDot(g, g)
-}
-
-func (s *helicalValleyCGCentralDirection) update(step, change *[3]float64) {
-	s.change = *change
-}
-
-func (s *helicalValleyCGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return helicalValleyCGCentralScaledTrial(t, slope, now)
-}
-
-// helicalValleyCGCentralDot returns aᵀb.
-func helicalValleyCGCentralDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// helicalValleyCGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to helicalValleyCGCentralStepInitial.
-func helicalValleyCGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !helicalValleyCGCentralFinite(next) {
-		return helicalValleyCGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	helicalValleyCGCentralVerifyNothing = iota
-	helicalValleyCGCentralVerifyPass    // a difference gradient passed the test
-	helicalValleyCGCentralVerifyStall   // no step makes progress
-)
 
 // helicalValleyCGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (helicalValleyCGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func helicalValleyCGCentralDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// helicalValleyCGCentralUnlimited is a tick budget that never pauses a run.
+const helicalValleyCGCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestHelicalValleyCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestHelicalValleyCGCentralSolverTicks advances a HelicalValleyCGCentralSolver from the spec's start with budgets of HelicalValleyCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where HelicalValleyCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestHelicalValleyCGCentralSolverTicks(t *testing.T) {
+	want := HelicalValleyCGCentral(helicalValleyCGCentralTestStart())
+	for _, budget := range []int{HelicalValleyCGCentralTickMinimum, HelicalValleyCGCentralTickMinimum + 1, 2 * HelicalValleyCGCentralTickMinimum, 7 * HelicalValleyCGCentralTickMinimum} {
+		var s HelicalValleyCGCentralSolver
+		s.Start(helicalValleyCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != HelicalValleyCGCentralRunning {
+				if !helicalValleyCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s HelicalValleyCGCentralSolver
+	s.Start(helicalValleyCGCentralTestStart())
+	if r := s.Advance(0); r.Status != HelicalValleyCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestHelicalValleyCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestHelicalValleyCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s HelicalValleyCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(helicalValleyCGCentralTestStart())
+		for s.Advance(HelicalValleyCGCentralTickMinimum).Status == HelicalValleyCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// helicalValleyCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func helicalValleyCGCentralTestSameResult(a, b HelicalValleyCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkHelicalValleyCGCentral measures one whole run from the spec's start.
 func BenchmarkHelicalValleyCGCentral(b *testing.B) {
 	var r HelicalValleyCGCentralResult

@@ -26,6 +26,8 @@ const (
 	HelicalValleyLBFGSAnalyticNoDecrease
 	// HelicalValleyLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	HelicalValleyLBFGSAnalyticDiverged
+	// HelicalValleyLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	HelicalValleyLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s HelicalValleyLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case HelicalValleyLBFGSAnalyticDiverged:
 		return "diverged"
+	case HelicalValleyLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func HelicalValleyLBFGSAnalyticWithLimits(x0 [3]float64, limits HelicalValleyLBF
 	}
 }
 
+// HelicalValleyLBFGSAnalyticTickMinimum is the smallest call budget with which every HelicalValleyLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const HelicalValleyLBFGSAnalyticTickMinimum = 48
+
+// HelicalValleyLBFGSAnalyticSolver is a run of HelicalValleyLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (HelicalValleyLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least HelicalValleyLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not HelicalValleyLBFGSAnalyticRunning ends exactly as HelicalValleyLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): HelicalValleyLBFGSAnalytic and HelicalValleyLBFGSAnalyticWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+//
+// While Status is HelicalValleyLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type HelicalValleyLBFGSAnalyticSolver struct {
+	run       helicalValleyLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    HelicalValleyLBFGSAnalyticLimits  // the limits of the runs; HelicalValleyLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                              // whether SetLimits has set limits
+	started   bool                              // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *HelicalValleyLBFGSAnalyticSolver) SetLimits(limits HelicalValleyLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *HelicalValleyLBFGSAnalyticSolver) Start(x0 [3]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *HelicalValleyLBFGSAnalyticSolver) StartFrom(from HelicalValleyLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *HelicalValleyLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *HelicalValleyLBFGSAnalyticSolver) begin(x0 [3]float64) {
+	if !s.ownLimits {
+		s.limits = HelicalValleyLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, helicalValleyLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status HelicalValleyLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See HelicalValleyLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *HelicalValleyLBFGSAnalyticSolver) Advance(budget int) HelicalValleyLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [3]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return HelicalValleyLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of HelicalValleyLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	helicalValleyLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	helicalValleyLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	helicalValleyLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	helicalValleyLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	helicalValleyLBFGSAnalyticStepTrials     = 48                     // step.trials
-	helicalValleyLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	helicalValleyLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	helicalValleyLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	helicalValleyLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	helicalValleyLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	helicalValleyLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	helicalValleyLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	helicalValleyLBFGSAnalyticStepTrials      = 48                     // step.trials
+	helicalValleyLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	helicalValleyLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	helicalValleyLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	helicalValleyLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	helicalValleyLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	helicalValleyLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // helicalValleyLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAnalyticLimits, bounds helicalValleyLBFGSAnalyticBox) helicalValleyLBFGSAnalyticOutcome {
-	x := x0
-	helicalValleyLBFGSAnalyticEnterBox(&x, &bounds)
-	out := helicalValleyLBFGSAnalyticOutcome{x: x, status: HelicalValleyLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := HelicalValley(&x)
-	out.f, out.evaluations = fx, 1
-	if !helicalValleyLBFGSAnalyticFinite(fx) || !helicalValleyLBFGSAnalyticFiniteVec(&x) {
-		out.status = HelicalValleyLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := helicalValleyLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := helicalValleyLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+helicalValleyLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float64
-	out.evaluations += helicalValleyLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
-		out.status = HelicalValleyLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir helicalValleyLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float64
-	t, slope := float64(helicalValleyLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                            // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from helicalValleyLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                       // whether the run can make no more progress at x
-	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
-	verify := helicalValleyLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != helicalValleyLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see helicalValleyLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := helicalValleyLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(HelicalValleyLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = helicalValleyLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			helicalValleyLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := helicalValleyLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, helicalValleyLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * helicalValleyLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (helicalValleyLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = HelicalValleyLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = helicalValleyLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if helicalValleyLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(HelicalValleyLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if helicalValleyLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = helicalValleyLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(HelicalValleyLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			helicalValleyLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(HelicalValleyLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		helicalValleyLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := helicalValleyLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !helicalValleyLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			helicalValleyLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = helicalValleyLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(helicalValleyLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := helicalValleyLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case helicalValleyLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case helicalValleyLBFGSAnalyticSearchDiverged:
-			return best.ending(HelicalValleyLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case helicalValleyLBFGSAnalyticSearchExhausted, helicalValleyLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see helicalValleyLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := HelicalValleyLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = HelicalValleyLBFGSAnalyticNoDecrease
-			case found.end == helicalValleyLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = helicalValleyLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == helicalValleyLBFGSAnalyticSearchTiny:
-				end = HelicalValleyLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !helicalValleyLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(HelicalValleyLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+helicalValleyLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += helicalValleyLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		helicalValleyLBFGSAnalyticDifference(&s, &xt, &x)
-		helicalValleyLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(HelicalValleyLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r helicalValleyLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(helicalValleyLBFGSAnalyticUnlimited)
 }
 
 // helicalValleyLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o helicalValleyLBFGSAnalyticOutcome) ending(end HelicalValleyLBFGSAnalytic
 	return o
 }
 
-// helicalValleyLBFGSAnalyticEnterBox: without bounds every start is inside.
-func helicalValleyLBFGSAnalyticEnterBox(x *[3]float64, b *helicalValleyLBFGSAnalyticBox) {}
-
-// helicalValleyLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func helicalValleyLBFGSAnalyticFinite(v float64) bool {
-	return v >= -helicalValleyLBFGSAnalyticLargestFinite && v <= helicalValleyLBFGSAnalyticLargestFinite
+// helicalValleyLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type helicalValleyLBFGSAnalyticDescent struct {
+	lim       HelicalValleyLBFGSAnalyticLimits
+	stage     int                                   // what advance does next
+	diffs     helicalValleyLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       helicalValleyLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [3]float64                            // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float64                            // the search direction, the last step and its gradient change
+	fx        float64                               // f(x)
+	t, slope  float64                               // the previous iteration's accepted step and slope
+	out, best helicalValleyLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                               // f(x0)
+	rises     int                                   // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                  // whether g and e at x come from helicalValleyLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                  // whether the run can make no more progress at x
+	retried   int                                   // the iteration whose stall was retried with recalibrated differences
+	verify    int                                   // what to check at x before judging it again
 }
 
-// helicalValleyLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func helicalValleyLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *helicalValleyLBFGSAnalyticDescent) prepare(x0 [3]float64, lim HelicalValleyLBFGSAnalyticLimits, bounds helicalValleyLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, helicalValleyLBFGSAnalyticStageBegin
+	r.diffs = helicalValleyLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	helicalValleyLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}, [3]float64{}
+	r.out = helicalValleyLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: HelicalValleyLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *helicalValleyLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with HelicalValleyLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, helicalValleyLBFGSAnalyticSettleCalls and helicalValleyLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *helicalValleyLBFGSAnalyticDescent) advance(budget int) helicalValleyLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != helicalValleyLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case helicalValleyLBFGSAnalyticStageBegin:
+			if left < 1+helicalValleyLBFGSAnalyticCalibrationCost+helicalValleyLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case helicalValleyLBFGSAnalyticStageJudge:
+			if r.verify != helicalValleyLBFGSAnalyticVerifyNothing && left < helicalValleyLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < helicalValleyLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *helicalValleyLBFGSAnalyticDescent) paused() helicalValleyLBFGSAnalyticOutcome {
+	return r.best.ending(HelicalValleyLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *helicalValleyLBFGSAnalyticDescent) finish(end HelicalValleyLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = helicalValleyLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *helicalValleyLBFGSAnalyticDescent) begin() {
+	r.stage = helicalValleyLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !helicalValleyLBFGSAnalyticFinite(r.fx) || !helicalValleyLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = HelicalValleyLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := helicalValleyLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+helicalValleyLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += helicalValleyLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !helicalValleyLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = HelicalValleyLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = helicalValleyLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, helicalValleyLBFGSAnalyticVerifyNothing
+	r.stage = helicalValleyLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves helicalValleyLBFGSAnalyticStageSearch next when the run goes on.
+func (r *helicalValleyLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != helicalValleyLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see helicalValleyLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := helicalValleyLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == helicalValleyLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(HelicalValleyLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !helicalValleyLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(HelicalValleyLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = helicalValleyLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		helicalValleyLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := helicalValleyLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, helicalValleyLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * helicalValleyLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (helicalValleyLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = HelicalValleyLBFGSAnalyticGradientSmall
+		r.stage = helicalValleyLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = helicalValleyLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if helicalValleyLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(HelicalValleyLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if helicalValleyLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = helicalValleyLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(HelicalValleyLBFGSAnalyticDiverged)
+			return
+		}
+		helicalValleyLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(HelicalValleyLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = helicalValleyLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves helicalValleyLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *helicalValleyLBFGSAnalyticDescent) search() {
+	helicalValleyLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := helicalValleyLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !helicalValleyLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		helicalValleyLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = helicalValleyLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(helicalValleyLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := helicalValleyLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float64
+	found := helicalValleyLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case helicalValleyLBFGSAnalyticSearchOutOfBudget:
+		r.finish(HelicalValleyLBFGSAnalyticOutOfEvaluations)
+		return
+	case helicalValleyLBFGSAnalyticSearchDiverged:
+		r.finish(HelicalValleyLBFGSAnalyticDiverged)
+		return
+	case helicalValleyLBFGSAnalyticSearchExhausted, helicalValleyLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see helicalValleyLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := HelicalValleyLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = HelicalValleyLBFGSAnalyticNoDecrease
+		case found.end == helicalValleyLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = helicalValleyLBFGSAnalyticVerifyStall, true, helicalValleyLBFGSAnalyticStageJudge
+			return
+		case found.end == helicalValleyLBFGSAnalyticSearchTiny:
+			end = HelicalValleyLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !helicalValleyLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(HelicalValleyLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+helicalValleyLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(HelicalValleyLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += helicalValleyLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	helicalValleyLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	helicalValleyLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !helicalValleyLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(HelicalValleyLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = helicalValleyLBFGSAnalyticStageJudge
 }
 
 // helicalValleyLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type helicalValleyLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyLBFGSAnalyticRoundingFloor)
 	bounds    helicalValleyLBFGSAnalyticBox
-}
-
-// helicalValleyLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func helicalValleyLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// helicalValleyLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) int {
-	HelicalValleyGrad(x, g)
-	return 0
 }
 
 // helicalValleyLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func helicalValleyLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyLBFGSAnalyticDot(s, s))*(sy/helicalValleyLBFGSAnalyticDot(y, y)) > helicalValleyLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	helicalValleyLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	helicalValleyLBFGSAnalyticStageJudge         // settle when asked (helicalValleyLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	helicalValleyLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: helicalValleyLBFGSAnalyticIterationCalls
+	helicalValleyLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// helicalValleyLBFGSAnalyticEnterBox: without bounds every start is inside.
+func helicalValleyLBFGSAnalyticEnterBox(x *[3]float64, b *helicalValleyLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	helicalValleyLBFGSAnalyticVerifyNothing = iota
 	helicalValleyLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	helicalValleyLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// helicalValleyLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func helicalValleyLBFGSAnalyticFinite(v float64) bool {
+	return v >= -helicalValleyLBFGSAnalyticLargestFinite && v <= helicalValleyLBFGSAnalyticLargestFinite
+}
+
+// helicalValleyLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func helicalValleyLBFGSAnalyticFiniteVec(x *[3]float64) bool {
+	for i := range x {
+		if !helicalValleyLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// helicalValleyLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func helicalValleyLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// helicalValleyLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func helicalValleyLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) int {
+	HelicalValleyGrad(x, g)
+	return 0
+}
 
 // helicalValleyLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (helicalValleyLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func helicalValleyLBFGSAnalyticDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// helicalValleyLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const helicalValleyLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

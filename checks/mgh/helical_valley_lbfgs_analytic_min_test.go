@@ -105,6 +105,55 @@ func TestHelicalValleyLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestHelicalValleyLBFGSAnalyticSolverTicks advances a HelicalValleyLBFGSAnalyticSolver from the spec's start with budgets of HelicalValleyLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where HelicalValleyLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestHelicalValleyLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := HelicalValleyLBFGSAnalytic(helicalValleyLBFGSAnalyticTestStart())
+	for _, budget := range []int{HelicalValleyLBFGSAnalyticTickMinimum, HelicalValleyLBFGSAnalyticTickMinimum + 1, 2 * HelicalValleyLBFGSAnalyticTickMinimum, 7 * HelicalValleyLBFGSAnalyticTickMinimum} {
+		var s HelicalValleyLBFGSAnalyticSolver
+		s.Start(helicalValleyLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != HelicalValleyLBFGSAnalyticRunning {
+				if !helicalValleyLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s HelicalValleyLBFGSAnalyticSolver
+	s.Start(helicalValleyLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != HelicalValleyLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestHelicalValleyLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestHelicalValleyLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s HelicalValleyLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(helicalValleyLBFGSAnalyticTestStart())
+		for s.Advance(HelicalValleyLBFGSAnalyticTickMinimum).Status == HelicalValleyLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// helicalValleyLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func helicalValleyLBFGSAnalyticTestSameResult(a, b HelicalValleyLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkHelicalValleyLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkHelicalValleyLBFGSAnalytic(b *testing.B) {
 	var r HelicalValleyLBFGSAnalyticResult

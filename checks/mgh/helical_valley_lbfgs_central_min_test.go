@@ -47,6 +47,55 @@ func TestHelicalValleyLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestHelicalValleyLBFGSCentralSolverTicks advances a HelicalValleyLBFGSCentralSolver from the spec's start with budgets of HelicalValleyLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where HelicalValleyLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestHelicalValleyLBFGSCentralSolverTicks(t *testing.T) {
+	want := HelicalValleyLBFGSCentral(helicalValleyLBFGSCentralTestStart())
+	for _, budget := range []int{HelicalValleyLBFGSCentralTickMinimum, HelicalValleyLBFGSCentralTickMinimum + 1, 2 * HelicalValleyLBFGSCentralTickMinimum, 7 * HelicalValleyLBFGSCentralTickMinimum} {
+		var s HelicalValleyLBFGSCentralSolver
+		s.Start(helicalValleyLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != HelicalValleyLBFGSCentralRunning {
+				if !helicalValleyLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s HelicalValleyLBFGSCentralSolver
+	s.Start(helicalValleyLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != HelicalValleyLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestHelicalValleyLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestHelicalValleyLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s HelicalValleyLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(helicalValleyLBFGSCentralTestStart())
+		for s.Advance(HelicalValleyLBFGSCentralTickMinimum).Status == HelicalValleyLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// helicalValleyLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func helicalValleyLBFGSCentralTestSameResult(a, b HelicalValleyLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkHelicalValleyLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkHelicalValleyLBFGSCentral(b *testing.B) {
 	var r HelicalValleyLBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	PenaltyI10BFGSAnalyticNoDecrease
 	// PenaltyI10BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI10BFGSAnalyticDiverged
+	// PenaltyI10BFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI10BFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI10BFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PenaltyI10BFGSAnalyticDiverged:
 		return "diverged"
+	case PenaltyI10BFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyI10BFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyI10BFGSAnaly
 	}
 }
 
+// PenaltyI10BFGSAnalyticTickMinimum is the smallest call budget with which every PenaltyI10BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PenaltyI10BFGSAnalyticTickMinimum = 48
+
+// PenaltyI10BFGSAnalyticSolver is a run of PenaltyI10BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI10BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PenaltyI10BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI10BFGSAnalyticRunning ends exactly as PenaltyI10BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI10BFGSAnalytic and PenaltyI10BFGSAnalyticWithLimits use at most 5544 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is PenaltyI10BFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI10BFGSAnalyticSolver struct {
+	run       penaltyI10BFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI10BFGSAnalyticLimits  // the limits of the runs; PenaltyI10BFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI10BFGSAnalyticSolver) SetLimits(limits PenaltyI10BFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI10BFGSAnalyticSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PenaltyI10BFGSAnalyticSolver) StartFrom(from PenaltyI10BFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI10BFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI10BFGSAnalyticSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI10BFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI10BFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI10BFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI10BFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI10BFGSAnalyticSolver) Advance(budget int) PenaltyI10BFGSAnalyticResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI10BFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI10BFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	penaltyI10BFGSAnalyticStepInitial    = 1.0                    // step.initial
-	penaltyI10BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI10BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI10BFGSAnalyticStepTrials     = 48                     // step.trials
-	penaltyI10BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	penaltyI10BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI10BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI10BFGSAnalyticStepInitial     = 1.0                    // step.initial
+	penaltyI10BFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI10BFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyI10BFGSAnalyticStepTrials      = 48                     // step.trials
+	penaltyI10BFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	penaltyI10BFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	penaltyI10BFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	penaltyI10BFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI10BFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI10BFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI10BFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLimits, bounds penaltyI10BFGSAnalyticBox) penaltyI10BFGSAnalyticOutcome {
-	x := x0
-	penaltyI10BFGSAnalyticEnterBox(&x, &bounds)
-	out := penaltyI10BFGSAnalyticOutcome{x: x, status: PenaltyI10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI10(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI10BFGSAnalyticFinite(fx) || !penaltyI10BFGSAnalyticFiniteVec(&x) {
-		out.status = PenaltyI10BFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := penaltyI10BFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := penaltyI10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI10BFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += penaltyI10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI10BFGSAnalyticFiniteVec(&g) {
-		out.status = PenaltyI10BFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir penaltyI10BFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(penaltyI10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyI10BFGSAnalyticConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI10BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI10BFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI10BFGSAnalyticConfirmGradient and settle).
-			calls, ok := penaltyI10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10BFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI10BFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			penaltyI10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI10BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI10BFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI10BFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI10BFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI10BFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI10BFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI10BFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PenaltyI10BFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI10BFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI10BFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI10BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI10BFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !penaltyI10BFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI10BFGSAnalyticDot(&g, &d)
-		}
-		first := float64(penaltyI10BFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI10BFGSAnalyticSearchOutOfBudget:
-			return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI10BFGSAnalyticSearchDiverged:
-			return best.ending(PenaltyI10BFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case penaltyI10BFGSAnalyticSearchExhausted, penaltyI10BFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI10BFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI10BFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI10BFGSAnalyticNoDecrease
-			case found.end == penaltyI10BFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = penaltyI10BFGSAnalyticVerifyStall, true
-				continue
-			case found.end == penaltyI10BFGSAnalyticSearchTiny:
-				end = PenaltyI10BFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI10BFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PenaltyI10BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI10BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI10BFGSAnalyticDifference(&s, &xt, &x)
-		penaltyI10BFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI10BFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI10BFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI10BFGSAnalyticUnlimited)
 }
 
 // penaltyI10BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o penaltyI10BFGSAnalyticOutcome) ending(end PenaltyI10BFGSAnalyticStatus, 
 	return o
 }
 
-// penaltyI10BFGSAnalyticEnterBox: without bounds every start is inside.
-func penaltyI10BFGSAnalyticEnterBox(x *[10]float64, b *penaltyI10BFGSAnalyticBox) {}
-
-// penaltyI10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func penaltyI10BFGSAnalyticFinite(v float64) bool {
-	return v >= -penaltyI10BFGSAnalyticLargestFinite && v <= penaltyI10BFGSAnalyticLargestFinite
+// penaltyI10BFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI10BFGSAnalyticDescent struct {
+	lim       PenaltyI10BFGSAnalyticLimits
+	stage     int                               // what advance does next
+	diffs     penaltyI10BFGSAnalyticDifferences // the box and the difference intervals
+	dir       penaltyI10BFGSAnalyticDirection   // the direction's memory
+	x, g, e   [10]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                       // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best penaltyI10BFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from penaltyI10BFGSAnalyticConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
 }
 
-// penaltyI10BFGSAnalyticFiniteVec reports whether every component of x is finite.
-func penaltyI10BFGSAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !penaltyI10BFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI10BFGSAnalyticDescent) prepare(x0 [10]float64, lim PenaltyI10BFGSAnalyticLimits, bounds penaltyI10BFGSAnalyticBox) {
+	r.lim, r.stage = lim, penaltyI10BFGSAnalyticStageBegin
+	r.diffs = penaltyI10BFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI10BFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = penaltyI10BFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PenaltyI10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI10BFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI10BFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI10BFGSAnalyticSettleCalls and penaltyI10BFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI10BFGSAnalyticDescent) advance(budget int) penaltyI10BFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI10BFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI10BFGSAnalyticStageBegin:
+			if left < 1+penaltyI10BFGSAnalyticCalibrationCost+penaltyI10BFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI10BFGSAnalyticStageJudge:
+			if r.verify != penaltyI10BFGSAnalyticVerifyNothing && left < penaltyI10BFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI10BFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI10BFGSAnalyticDescent) paused() penaltyI10BFGSAnalyticOutcome {
+	return r.best.ending(PenaltyI10BFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI10BFGSAnalyticDescent) finish(end PenaltyI10BFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI10BFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI10BFGSAnalyticDescent) begin() {
+	r.stage = penaltyI10BFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI10BFGSAnalyticFinite(r.fx) || !penaltyI10BFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PenaltyI10BFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI10BFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI10BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI10BFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI10BFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PenaltyI10BFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI10BFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI10BFGSAnalyticVerifyNothing
+	r.stage = penaltyI10BFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI10BFGSAnalyticStageSearch next when the run goes on.
+func (r *penaltyI10BFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != penaltyI10BFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI10BFGSAnalyticConfirmGradient and settle).
+		calls, ok := penaltyI10BFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI10BFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI10BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !penaltyI10BFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PenaltyI10BFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI10BFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		penaltyI10BFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI10BFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI10BFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI10BFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI10BFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI10BFGSAnalyticGradientSmall
+		r.stage = penaltyI10BFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI10BFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI10BFGSAnalyticDerivativeCost == 0 {
+			r.finish(PenaltyI10BFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI10BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI10BFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI10BFGSAnalyticDiverged)
+			return
+		}
+		penaltyI10BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI10BFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = penaltyI10BFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI10BFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *penaltyI10BFGSAnalyticDescent) search() {
+	penaltyI10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI10BFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI10BFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI10BFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI10BFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI10BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := penaltyI10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI10BFGSAnalyticSearchOutOfBudget:
+		r.finish(PenaltyI10BFGSAnalyticOutOfEvaluations)
+		return
+	case penaltyI10BFGSAnalyticSearchDiverged:
+		r.finish(PenaltyI10BFGSAnalyticDiverged)
+		return
+	case penaltyI10BFGSAnalyticSearchExhausted, penaltyI10BFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI10BFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI10BFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI10BFGSAnalyticNoDecrease
+		case found.end == penaltyI10BFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI10BFGSAnalyticVerifyStall, true, penaltyI10BFGSAnalyticStageJudge
+			return
+		case found.end == penaltyI10BFGSAnalyticSearchTiny:
+			end = PenaltyI10BFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI10BFGSAnalyticFiniteVec(&xt) {
+		r.finish(PenaltyI10BFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI10BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI10BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI10BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI10BFGSAnalyticDifference(&r.s, &xt, &r.x)
+	penaltyI10BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI10BFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI10BFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI10BFGSAnalyticStageJudge
 }
 
 // penaltyI10BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type penaltyI10BFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10BFGSAnalyticRoundingFloor)
 	bounds    penaltyI10BFGSAnalyticBox
-}
-
-// penaltyI10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func penaltyI10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI10BFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// penaltyI10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) int {
-	PenaltyI10Grad(x, g)
-	return 0
 }
 
 // penaltyI10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func penaltyI10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10BFGSAnalyticDot(s, s))*(sy/penaltyI10BFGSAnalyticDot(y, y)) > penaltyI10BFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI10BFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI10BFGSAnalyticStageJudge         // settle when asked (penaltyI10BFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI10BFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: penaltyI10BFGSAnalyticIterationCalls
+	penaltyI10BFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// penaltyI10BFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyI10BFGSAnalyticEnterBox(x *[10]float64, b *penaltyI10BFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	penaltyI10BFGSAnalyticVerifyNothing = iota
 	penaltyI10BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI10BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func penaltyI10BFGSAnalyticFinite(v float64) bool {
+	return v >= -penaltyI10BFGSAnalyticLargestFinite && v <= penaltyI10BFGSAnalyticLargestFinite
+}
+
+// penaltyI10BFGSAnalyticFiniteVec reports whether every component of x is finite.
+func penaltyI10BFGSAnalyticFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !penaltyI10BFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyI10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyI10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI10BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// penaltyI10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func penaltyI10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) int {
+	PenaltyI10Grad(x, g)
+	return 0
+}
 
 // penaltyI10BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI10BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func penaltyI10BFGSAnalyticDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI10BFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const penaltyI10BFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestPenaltyI10BFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyI10BFGSAnalyticSolverTicks advances a PenaltyI10BFGSAnalyticSolver from the spec's start with budgets of PenaltyI10BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI10BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI10BFGSAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyI10BFGSAnalytic(penaltyI10BFGSAnalyticTestStart())
+	for _, budget := range []int{PenaltyI10BFGSAnalyticTickMinimum, PenaltyI10BFGSAnalyticTickMinimum + 1, 2 * PenaltyI10BFGSAnalyticTickMinimum, 7 * PenaltyI10BFGSAnalyticTickMinimum} {
+		var s PenaltyI10BFGSAnalyticSolver
+		s.Start(penaltyI10BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI10BFGSAnalyticRunning {
+				if !penaltyI10BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI10BFGSAnalyticSolver
+	s.Start(penaltyI10BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI10BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI10BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI10BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI10BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI10BFGSAnalyticTestStart())
+		for s.Advance(PenaltyI10BFGSAnalyticTickMinimum).Status == PenaltyI10BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI10BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI10BFGSAnalyticTestSameResult(a, b PenaltyI10BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI10BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyI10BFGSAnalytic(b *testing.B) {
 	var r PenaltyI10BFGSAnalyticResult

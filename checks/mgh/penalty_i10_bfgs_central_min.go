@@ -26,6 +26,8 @@ const (
 	PenaltyI10BFGSCentralNoDecrease
 	// PenaltyI10BFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI10BFGSCentralDiverged
+	// PenaltyI10BFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI10BFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI10BFGSCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyI10BFGSCentralDiverged:
 		return "diverged"
+	case PenaltyI10BFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyI10BFGSCentralWithLimits(x0 [10]float64, limits PenaltyI10BFGSCentra
 	}
 }
 
+// PenaltyI10BFGSCentralTickMinimum is the smallest call budget with which every PenaltyI10BFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 61 calls, an iteration 1008, confirming a difference gradient 80).
+const PenaltyI10BFGSCentralTickMinimum = 1008
+
+// PenaltyI10BFGSCentralSolver is a run of PenaltyI10BFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI10BFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 61 calls, an iteration 1008, confirming a difference gradient 80. A budget of at least PenaltyI10BFGSCentralTickMinimum = 1008 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI10BFGSCentralRunning ends exactly as PenaltyI10BFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI10BFGSCentral and PenaltyI10BFGSCentralWithLimits use at most 5544 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is PenaltyI10BFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI10BFGSCentralSolver struct {
+	run       penaltyI10BFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI10BFGSCentralLimits  // the limits of the runs; PenaltyI10BFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                         // whether SetLimits has set limits
+	started   bool                         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI10BFGSCentralSolver) SetLimits(limits PenaltyI10BFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI10BFGSCentralSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyI10BFGSCentralSolver) StartFrom(from PenaltyI10BFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI10BFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI10BFGSCentralSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI10BFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI10BFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI10BFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI10BFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI10BFGSCentralSolver) Advance(budget int) PenaltyI10BFGSCentralResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI10BFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI10BFGSCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyI10BFGSCentralStepInitial    = 1.0                    // step.initial
-	penaltyI10BFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI10BFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI10BFGSCentralStepTrials     = 48                     // step.trials
-	penaltyI10BFGSCentralDerivativeCost = 20                     // objective calls per gradient
-	penaltyI10BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI10BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI10BFGSCentralStepInitial     = 1.0                    // step.initial
+	penaltyI10BFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI10BFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyI10BFGSCentralStepTrials      = 48                     // step.trials
+	penaltyI10BFGSCentralDerivativeCost  = 20                     // objective calls per gradient
+	penaltyI10BFGSCentralCalibrationCost = 40                     // objective calls of choosing the difference intervals
+	penaltyI10BFGSCentralIterationCalls  = 1008                   // most objective calls of one line search with the gradient at its step
+	penaltyI10BFGSCentralSettleCalls     = 80                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI10BFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI10BFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI10BFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI10BFGSCentralMinimize(x0 [10]float64, lim PenaltyI10BFGSCentralLimits, bounds penaltyI10BFGSCentralBox) penaltyI10BFGSCentralOutcome {
-	x := x0
-	penaltyI10BFGSCentralEnterBox(&x, &bounds)
-	out := penaltyI10BFGSCentralOutcome{x: x, status: PenaltyI10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI10(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI10BFGSCentralFinite(fx) || !penaltyI10BFGSCentralFiniteVec(&x) {
-		out.status = PenaltyI10BFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyI10BFGSCentralDifferences{bounds: bounds}
-	calls, ok := penaltyI10BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI10BFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += penaltyI10BFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI10BFGSCentralFiniteVec(&g) {
-		out.status = PenaltyI10BFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyI10BFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(penaltyI10BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from penaltyI10BFGSCentralConfirmGradient or settle
-	stalled := false                                                  // whether the run can make no more progress at x
-	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI10BFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI10BFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI10BFGSCentralConfirmGradient and settle).
-			calls, ok := penaltyI10BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10BFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI10BFGSCentralVerifyNothing, true
-		case !confirmed:
-			penaltyI10BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI10BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI10BFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI10BFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI10BFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI10BFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI10BFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI10BFGSCentralDerivativeCost == 0 {
-				return best.ending(PenaltyI10BFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI10BFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI10BFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI10BFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI10BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI10BFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI10BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI10BFGSCentralDot(&g, &d)
-		if !(now < 0) || !penaltyI10BFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI10BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI10BFGSCentralDot(&g, &d)
-		}
-		first := float64(penaltyI10BFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI10BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI10BFGSCentralSearchOutOfBudget:
-			return best.ending(PenaltyI10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI10BFGSCentralSearchDiverged:
-			return best.ending(PenaltyI10BFGSCentralDiverged, out.iterations, out.evaluations)
-		case penaltyI10BFGSCentralSearchExhausted, penaltyI10BFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI10BFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI10BFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI10BFGSCentralNoDecrease
-			case found.end == penaltyI10BFGSCentralSearchTiny && canSettle:
-				verify, stalled = penaltyI10BFGSCentralVerifyStall, true
-				continue
-			case found.end == penaltyI10BFGSCentralSearchTiny:
-				end = PenaltyI10BFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI10BFGSCentralFiniteVec(&xt) {
-			return best.ending(PenaltyI10BFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI10BFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI10BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI10BFGSCentralDifference(&s, &xt, &x)
-		penaltyI10BFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI10BFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI10BFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI10BFGSCentralUnlimited)
 }
 
 // penaltyI10BFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o penaltyI10BFGSCentralOutcome) ending(end PenaltyI10BFGSCentralStatus, it
 	return o
 }
 
+// penaltyI10BFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI10BFGSCentralDescent struct {
+	lim       PenaltyI10BFGSCentralLimits
+	stage     int                              // what advance does next
+	diffs     penaltyI10BFGSCentralDifferences // the box and the difference intervals
+	dir       penaltyI10BFGSCentralDirection   // the direction's memory
+	x, g, e   [10]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                      // the search direction, the last step and its gradient change
+	fx        float64                          // f(x)
+	t, slope  float64                          // the previous iteration's accepted step and slope
+	out, best penaltyI10BFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                          // f(x0)
+	rises     int                              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                             // whether g and e at x come from penaltyI10BFGSCentralConfirmGradient or settle
+	stalled   bool                             // whether the run can make no more progress at x
+	retried   int                              // the iteration whose stall was retried with recalibrated differences
+	verify    int                              // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI10BFGSCentralDescent) prepare(x0 [10]float64, lim PenaltyI10BFGSCentralLimits, bounds penaltyI10BFGSCentralBox) {
+	r.lim, r.stage = lim, penaltyI10BFGSCentralStageBegin
+	r.diffs = penaltyI10BFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI10BFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = penaltyI10BFGSCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyI10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI10BFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI10BFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI10BFGSCentralSettleCalls and penaltyI10BFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI10BFGSCentralDescent) advance(budget int) penaltyI10BFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI10BFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI10BFGSCentralStageBegin:
+			if left < 1+penaltyI10BFGSCentralCalibrationCost+penaltyI10BFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI10BFGSCentralStageJudge:
+			if r.verify != penaltyI10BFGSCentralVerifyNothing && left < penaltyI10BFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI10BFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI10BFGSCentralDescent) paused() penaltyI10BFGSCentralOutcome {
+	return r.best.ending(PenaltyI10BFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI10BFGSCentralDescent) finish(end PenaltyI10BFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI10BFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI10BFGSCentralDescent) begin() {
+	r.stage = penaltyI10BFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI10BFGSCentralFinite(r.fx) || !penaltyI10BFGSCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyI10BFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI10BFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI10BFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI10BFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI10BFGSCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyI10BFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI10BFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI10BFGSCentralVerifyNothing
+	r.stage = penaltyI10BFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI10BFGSCentralStageSearch next when the run goes on.
+func (r *penaltyI10BFGSCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyI10BFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI10BFGSCentralConfirmGradient and settle).
+		calls, ok := penaltyI10BFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI10BFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI10BFGSCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyI10BFGSCentralFiniteVec(&r.g) {
+			r.finish(PenaltyI10BFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI10BFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyI10BFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI10BFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI10BFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI10BFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI10BFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI10BFGSCentralGradientSmall
+		r.stage = penaltyI10BFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI10BFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI10BFGSCentralDerivativeCost == 0 {
+			r.finish(PenaltyI10BFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI10BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI10BFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI10BFGSCentralDiverged)
+			return
+		}
+		penaltyI10BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI10BFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyI10BFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI10BFGSCentralStageJudge next when the run
+// goes on.
+func (r *penaltyI10BFGSCentralDescent) search() {
+	penaltyI10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI10BFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI10BFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI10BFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI10BFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI10BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := penaltyI10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI10BFGSCentralSearchOutOfBudget:
+		r.finish(PenaltyI10BFGSCentralOutOfEvaluations)
+		return
+	case penaltyI10BFGSCentralSearchDiverged:
+		r.finish(PenaltyI10BFGSCentralDiverged)
+		return
+	case penaltyI10BFGSCentralSearchExhausted, penaltyI10BFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI10BFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI10BFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI10BFGSCentralNoDecrease
+		case found.end == penaltyI10BFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI10BFGSCentralVerifyStall, true, penaltyI10BFGSCentralStageJudge
+			return
+		case found.end == penaltyI10BFGSCentralSearchTiny:
+			end = PenaltyI10BFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI10BFGSCentralFiniteVec(&xt) {
+		r.finish(PenaltyI10BFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI10BFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI10BFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI10BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI10BFGSCentralDifference(&r.s, &xt, &r.x)
+	penaltyI10BFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI10BFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI10BFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI10BFGSCentralStageJudge
+}
+
+// penaltyI10BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type penaltyI10BFGSCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10BFGSCentralRoundingFloor)
+	bounds    penaltyI10BFGSCentralBox
+}
+
+// penaltyI10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type penaltyI10BFGSCentralDirection struct {
+	h      [10][10]float64 // inverse-Hessian approximation, symmetric
+	scaled bool            // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *penaltyI10BFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *penaltyI10BFGSCentralDirection) compute(g, d *[10]float64) {
+	for i := range s.h {
+		d[i] = -penaltyI10BFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *penaltyI10BFGSCentralDirection) update(step, change *[10]float64) {
+	if !penaltyI10BFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := penaltyI10BFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / penaltyI10BFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [10]float64
+	for i := range s.h {
+		hy[i] = penaltyI10BFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*penaltyI10BFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *penaltyI10BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// penaltyI10BFGSCentralDot returns aᵀb.
+func penaltyI10BFGSCentralDot(a, b *[10]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyI10BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func penaltyI10BFGSCentralCurvatureSafe(s, y *[10]float64) bool {
+	sy := penaltyI10BFGSCentralDot(s, y)
+	return sy > 0 && (sy/penaltyI10BFGSCentralDot(s, s))*(sy/penaltyI10BFGSCentralDot(y, y)) > penaltyI10BFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI10BFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI10BFGSCentralStageJudge         // settle when asked (penaltyI10BFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI10BFGSCentralStageSearch        // the line search and the gradient at the accepted point: penaltyI10BFGSCentralIterationCalls
+	penaltyI10BFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // penaltyI10BFGSCentralEnterBox: without bounds every start is inside.
 func penaltyI10BFGSCentralEnterBox(x *[10]float64, b *penaltyI10BFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyI10BFGSCentralVerifyNothing = iota
+	penaltyI10BFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI10BFGSCentralVerifyStall   // no step makes progress
+)
 
 // penaltyI10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func penaltyI10BFGSCentralFiniteVec(x *[10]float64) bool {
 		}
 	}
 	return true
-}
-
-// penaltyI10BFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type penaltyI10BFGSCentralDifferences struct {
-	ratio     [10]float64
-	curvature [10]float64
-	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10BFGSCentralRoundingFloor)
-	bounds    penaltyI10BFGSCentralBox
 }
 
 // penaltyI10BFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func penaltyI10BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second floa
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyI10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type penaltyI10BFGSCentralDirection struct {
-	h      [10][10]float64 // inverse-Hessian approximation, symmetric
-	scaled bool            // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *penaltyI10BFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *penaltyI10BFGSCentralDirection) compute(g, d *[10]float64) {
-	for i := range s.h {
-		d[i] = -penaltyI10BFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *penaltyI10BFGSCentralDirection) update(step, change *[10]float64) {
-	if !penaltyI10BFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := penaltyI10BFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / penaltyI10BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [10]float64
-	for i := range s.h {
-		hy[i] = penaltyI10BFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*penaltyI10BFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *penaltyI10BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// penaltyI10BFGSCentralDot returns aᵀb.
-func penaltyI10BFGSCentralDot(a, b *[10]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyI10BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func penaltyI10BFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := penaltyI10BFGSCentralDot(s, y)
-	return sy > 0 && (sy/penaltyI10BFGSCentralDot(s, s))*(sy/penaltyI10BFGSCentralDot(y, y)) > penaltyI10BFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyI10BFGSCentralVerifyNothing = iota
-	penaltyI10BFGSCentralVerifyPass    // a difference gradient passed the test
-	penaltyI10BFGSCentralVerifyStall   // no step makes progress
-)
 
 // penaltyI10BFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI10BFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func penaltyI10BFGSCentralDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI10BFGSCentralUnlimited is a tick budget that never pauses a run.
+const penaltyI10BFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -26,6 +26,8 @@ const (
 	PenaltyI10CGAnalyticNoDecrease
 	// PenaltyI10CGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI10CGAnalyticDiverged
+	// PenaltyI10CGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI10CGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI10CGAnalyticStatus) String() string {
 		return "no decrease"
 	case PenaltyI10CGAnalyticDiverged:
 		return "diverged"
+	case PenaltyI10CGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyI10CGAnalyticWithLimits(x0 [10]float64, limits PenaltyI10CGAnalyticL
 	}
 }
 
+// PenaltyI10CGAnalyticTickMinimum is the smallest call budget with which every PenaltyI10CGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PenaltyI10CGAnalyticTickMinimum = 48
+
+// PenaltyI10CGAnalyticSolver is a run of PenaltyI10CGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI10CGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PenaltyI10CGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI10CGAnalyticRunning ends exactly as PenaltyI10CGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI10CGAnalytic and PenaltyI10CGAnalyticWithLimits use at most 4912 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is PenaltyI10CGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI10CGAnalyticSolver struct {
+	run       penaltyI10CGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI10CGAnalyticLimits  // the limits of the runs; PenaltyI10CGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI10CGAnalyticSolver) SetLimits(limits PenaltyI10CGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI10CGAnalyticSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PenaltyI10CGAnalyticSolver) StartFrom(from PenaltyI10CGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI10CGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI10CGAnalyticSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI10CGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI10CGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI10CGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI10CGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI10CGAnalyticSolver) Advance(budget int) PenaltyI10CGAnalyticResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI10CGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI10CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	penaltyI10CGAnalyticStepInitial    = 1.0                    // step.initial
-	penaltyI10CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI10CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	penaltyI10CGAnalyticStepTrials     = 48                     // step.trials
-	penaltyI10CGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	penaltyI10CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI10CGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI10CGAnalyticStepInitial     = 1.0                    // step.initial
+	penaltyI10CGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI10CGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	penaltyI10CGAnalyticStepTrials      = 48                     // step.trials
+	penaltyI10CGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	penaltyI10CGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	penaltyI10CGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	penaltyI10CGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI10CGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI10CGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI10CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits, bounds penaltyI10CGAnalyticBox) penaltyI10CGAnalyticOutcome {
-	x := x0
-	penaltyI10CGAnalyticEnterBox(&x, &bounds)
-	out := penaltyI10CGAnalyticOutcome{x: x, status: PenaltyI10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI10(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI10CGAnalyticFinite(fx) || !penaltyI10CGAnalyticFiniteVec(&x) {
-		out.status = PenaltyI10CGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := penaltyI10CGAnalyticDifferences{bounds: bounds}
-	calls, ok := penaltyI10CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI10CGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += penaltyI10CGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI10CGAnalyticFiniteVec(&g) {
-		out.status = PenaltyI10CGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir penaltyI10CGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(penaltyI10CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from penaltyI10CGAnalyticConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI10CGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI10CGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI10CGAnalyticConfirmGradient and settle).
-			calls, ok := penaltyI10CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10CGAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI10CGAnalyticVerifyNothing, true
-		case !confirmed:
-			penaltyI10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI10CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI10CGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI10CGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI10CGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI10CGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI10CGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI10CGAnalyticDerivativeCost == 0 {
-				return best.ending(PenaltyI10CGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI10CGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI10CGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI10CGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI10CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI10CGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI10CGAnalyticDot(&g, &d)
-		if !(now < 0) || !penaltyI10CGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI10CGAnalyticDot(&g, &d)
-		}
-		first := float64(penaltyI10CGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI10CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI10CGAnalyticSearchOutOfBudget:
-			return best.ending(PenaltyI10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI10CGAnalyticSearchDiverged:
-			return best.ending(PenaltyI10CGAnalyticDiverged, out.iterations, out.evaluations)
-		case penaltyI10CGAnalyticSearchExhausted, penaltyI10CGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI10CGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI10CGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI10CGAnalyticNoDecrease
-			case found.end == penaltyI10CGAnalyticSearchTiny && canSettle:
-				verify, stalled = penaltyI10CGAnalyticVerifyStall, true
-				continue
-			case found.end == penaltyI10CGAnalyticSearchTiny:
-				end = PenaltyI10CGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI10CGAnalyticFiniteVec(&xt) {
-			return best.ending(PenaltyI10CGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI10CGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI10CGAnalyticDifference(&s, &xt, &x)
-		penaltyI10CGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI10CGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI10CGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI10CGAnalyticUnlimited)
 }
 
 // penaltyI10CGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o penaltyI10CGAnalyticOutcome) ending(end PenaltyI10CGAnalyticStatus, iter
 	return o
 }
 
-// penaltyI10CGAnalyticEnterBox: without bounds every start is inside.
-func penaltyI10CGAnalyticEnterBox(x *[10]float64, b *penaltyI10CGAnalyticBox) {}
-
-// penaltyI10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func penaltyI10CGAnalyticFinite(v float64) bool {
-	return v >= -penaltyI10CGAnalyticLargestFinite && v <= penaltyI10CGAnalyticLargestFinite
+// penaltyI10CGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI10CGAnalyticDescent struct {
+	lim       PenaltyI10CGAnalyticLimits
+	stage     int                             // what advance does next
+	diffs     penaltyI10CGAnalyticDifferences // the box and the difference intervals
+	dir       penaltyI10CGAnalyticDirection   // the direction's memory
+	x, g, e   [10]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                     // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best penaltyI10CGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from penaltyI10CGAnalyticConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
 }
 
-// penaltyI10CGAnalyticFiniteVec reports whether every component of x is finite.
-func penaltyI10CGAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !penaltyI10CGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI10CGAnalyticDescent) prepare(x0 [10]float64, lim PenaltyI10CGAnalyticLimits, bounds penaltyI10CGAnalyticBox) {
+	r.lim, r.stage = lim, penaltyI10CGAnalyticStageBegin
+	r.diffs = penaltyI10CGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI10CGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = penaltyI10CGAnalyticOutcome{x: r.x, f: math.NaN(), status: PenaltyI10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI10CGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI10CGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI10CGAnalyticSettleCalls and penaltyI10CGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI10CGAnalyticDescent) advance(budget int) penaltyI10CGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI10CGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI10CGAnalyticStageBegin:
+			if left < 1+penaltyI10CGAnalyticCalibrationCost+penaltyI10CGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI10CGAnalyticStageJudge:
+			if r.verify != penaltyI10CGAnalyticVerifyNothing && left < penaltyI10CGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI10CGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI10CGAnalyticDescent) paused() penaltyI10CGAnalyticOutcome {
+	return r.best.ending(PenaltyI10CGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI10CGAnalyticDescent) finish(end PenaltyI10CGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI10CGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI10CGAnalyticDescent) begin() {
+	r.stage = penaltyI10CGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI10CGAnalyticFinite(r.fx) || !penaltyI10CGAnalyticFiniteVec(&r.x) {
+		r.out.status = PenaltyI10CGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI10CGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI10CGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI10CGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI10CGAnalyticFiniteVec(&r.g) {
+		r.out.status = PenaltyI10CGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI10CGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI10CGAnalyticVerifyNothing
+	r.stage = penaltyI10CGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI10CGAnalyticStageSearch next when the run goes on.
+func (r *penaltyI10CGAnalyticDescent) judge() {
+	switch {
+	case r.verify != penaltyI10CGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI10CGAnalyticConfirmGradient and settle).
+		calls, ok := penaltyI10CGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI10CGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI10CGAnalyticOutOfEvaluations)
+			return
+		}
+		if !penaltyI10CGAnalyticFiniteVec(&r.g) {
+			r.finish(PenaltyI10CGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI10CGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		penaltyI10CGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI10CGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI10CGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI10CGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI10CGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI10CGAnalyticGradientSmall
+		r.stage = penaltyI10CGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI10CGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI10CGAnalyticDerivativeCost == 0 {
+			r.finish(PenaltyI10CGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI10CGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI10CGAnalyticDiverged)
+			return
+		}
+		penaltyI10CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI10CGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = penaltyI10CGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI10CGAnalyticStageJudge next when the run
+// goes on.
+func (r *penaltyI10CGAnalyticDescent) search() {
+	penaltyI10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI10CGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI10CGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI10CGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI10CGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := penaltyI10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI10CGAnalyticSearchOutOfBudget:
+		r.finish(PenaltyI10CGAnalyticOutOfEvaluations)
+		return
+	case penaltyI10CGAnalyticSearchDiverged:
+		r.finish(PenaltyI10CGAnalyticDiverged)
+		return
+	case penaltyI10CGAnalyticSearchExhausted, penaltyI10CGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI10CGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI10CGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI10CGAnalyticNoDecrease
+		case found.end == penaltyI10CGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI10CGAnalyticVerifyStall, true, penaltyI10CGAnalyticStageJudge
+			return
+		case found.end == penaltyI10CGAnalyticSearchTiny:
+			end = PenaltyI10CGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI10CGAnalyticFiniteVec(&xt) {
+		r.finish(PenaltyI10CGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI10CGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI10CGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI10CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI10CGAnalyticDifference(&r.s, &xt, &r.x)
+	penaltyI10CGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI10CGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI10CGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI10CGAnalyticStageJudge
 }
 
 // penaltyI10CGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type penaltyI10CGAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10CGAnalyticRoundingFloor)
 	bounds    penaltyI10CGAnalyticBox
-}
-
-// penaltyI10CGAnalyticCalibrate: an analytic gradient needs no intervals.
-func penaltyI10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI10CGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// penaltyI10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGAnalyticDifferences) int {
-	PenaltyI10Grad(x, g)
-	return 0
 }
 
 // penaltyI10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func penaltyI10CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// penaltyI10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func penaltyI10CGAnalyticFinite(v float64) bool {
+	return v >= -penaltyI10CGAnalyticLargestFinite && v <= penaltyI10CGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI10CGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI10CGAnalyticStageJudge         // settle when asked (penaltyI10CGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI10CGAnalyticStageSearch        // the line search and the gradient at the accepted point: penaltyI10CGAnalyticIterationCalls
+	penaltyI10CGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// penaltyI10CGAnalyticEnterBox: without bounds every start is inside.
+func penaltyI10CGAnalyticEnterBox(x *[10]float64, b *penaltyI10CGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	penaltyI10CGAnalyticVerifyNothing = iota
 	penaltyI10CGAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI10CGAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI10CGAnalyticFiniteVec reports whether every component of x is finite.
+func penaltyI10CGAnalyticFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !penaltyI10CGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyI10CGAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyI10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI10CGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// penaltyI10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func penaltyI10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGAnalyticDifferences) int {
+	PenaltyI10Grad(x, g)
+	return 0
+}
 
 // penaltyI10CGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI10CGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func penaltyI10CGAnalyticDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI10CGAnalyticUnlimited is a tick budget that never pauses a run.
+const penaltyI10CGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestPenaltyI10CGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyI10CGCentralSolverTicks advances a PenaltyI10CGCentralSolver from the spec's start with budgets of PenaltyI10CGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI10CGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI10CGCentralSolverTicks(t *testing.T) {
+	want := PenaltyI10CGCentral(penaltyI10CGCentralTestStart())
+	for _, budget := range []int{PenaltyI10CGCentralTickMinimum, PenaltyI10CGCentralTickMinimum + 1, 2 * PenaltyI10CGCentralTickMinimum, 7 * PenaltyI10CGCentralTickMinimum} {
+		var s PenaltyI10CGCentralSolver
+		s.Start(penaltyI10CGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI10CGCentralRunning {
+				if !penaltyI10CGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI10CGCentralSolver
+	s.Start(penaltyI10CGCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI10CGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI10CGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI10CGCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI10CGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI10CGCentralTestStart())
+		for s.Advance(PenaltyI10CGCentralTickMinimum).Status == PenaltyI10CGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI10CGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI10CGCentralTestSameResult(a, b PenaltyI10CGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI10CGCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyI10CGCentral(b *testing.B) {
 	var r PenaltyI10CGCentralResult

@@ -105,6 +105,55 @@ func TestPenaltyI10LBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyI10LBFGSAnalyticSolverTicks advances a PenaltyI10LBFGSAnalyticSolver from the spec's start with budgets of PenaltyI10LBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI10LBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI10LBFGSAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyI10LBFGSAnalytic(penaltyI10LBFGSAnalyticTestStart())
+	for _, budget := range []int{PenaltyI10LBFGSAnalyticTickMinimum, PenaltyI10LBFGSAnalyticTickMinimum + 1, 2 * PenaltyI10LBFGSAnalyticTickMinimum, 7 * PenaltyI10LBFGSAnalyticTickMinimum} {
+		var s PenaltyI10LBFGSAnalyticSolver
+		s.Start(penaltyI10LBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI10LBFGSAnalyticRunning {
+				if !penaltyI10LBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI10LBFGSAnalyticSolver
+	s.Start(penaltyI10LBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI10LBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI10LBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI10LBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI10LBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI10LBFGSAnalyticTestStart())
+		for s.Advance(PenaltyI10LBFGSAnalyticTickMinimum).Status == PenaltyI10LBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI10LBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI10LBFGSAnalyticTestSameResult(a, b PenaltyI10LBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI10LBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyI10LBFGSAnalytic(b *testing.B) {
 	var r PenaltyI10LBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	PenaltyI10LBFGSCentralNoDecrease
 	// PenaltyI10LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI10LBFGSCentralDiverged
+	// PenaltyI10LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI10LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI10LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyI10LBFGSCentralDiverged:
 		return "diverged"
+	case PenaltyI10LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func PenaltyI10LBFGSCentralWithLimits(x0 [10]float64, limits PenaltyI10LBFGSCent
 	}
 }
 
+// PenaltyI10LBFGSCentralTickMinimum is the smallest call budget with which every PenaltyI10LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 61 calls, an iteration 1008, confirming a difference gradient 80).
+const PenaltyI10LBFGSCentralTickMinimum = 1008
+
+// PenaltyI10LBFGSCentralSolver is a run of PenaltyI10LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI10LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 61 calls, an iteration 1008, confirming a difference gradient 80. A budget of at least PenaltyI10LBFGSCentralTickMinimum = 1008 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI10LBFGSCentralRunning ends exactly as PenaltyI10LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI10LBFGSCentral and PenaltyI10LBFGSCentralWithLimits use at most 5592 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is PenaltyI10LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI10LBFGSCentralSolver struct {
+	run       penaltyI10LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI10LBFGSCentralLimits  // the limits of the runs; PenaltyI10LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI10LBFGSCentralSolver) SetLimits(limits PenaltyI10LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI10LBFGSCentralSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyI10LBFGSCentralSolver) StartFrom(from PenaltyI10LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI10LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI10LBFGSCentralSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI10LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI10LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI10LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI10LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI10LBFGSCentralSolver) Advance(budget int) PenaltyI10LBFGSCentralResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI10LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI10LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyI10LBFGSCentralStepInitial    = 1.0                    // step.initial
-	penaltyI10LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI10LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI10LBFGSCentralLbfgsMemory    = 5                      // memory
-	penaltyI10LBFGSCentralStepTrials     = 48                     // step.trials
-	penaltyI10LBFGSCentralDerivativeCost = 20                     // objective calls per gradient
-	penaltyI10LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI10LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI10LBFGSCentralStepInitial     = 1.0                    // step.initial
+	penaltyI10LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI10LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyI10LBFGSCentralLbfgsMemory     = 5                      // memory
+	penaltyI10LBFGSCentralStepTrials      = 48                     // step.trials
+	penaltyI10LBFGSCentralDerivativeCost  = 20                     // objective calls per gradient
+	penaltyI10LBFGSCentralCalibrationCost = 40                     // objective calls of choosing the difference intervals
+	penaltyI10LBFGSCentralIterationCalls  = 1008                   // most objective calls of one line search with the gradient at its step
+	penaltyI10LBFGSCentralSettleCalls     = 80                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI10LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI10LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI10LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLimits, bounds penaltyI10LBFGSCentralBox) penaltyI10LBFGSCentralOutcome {
-	x := x0
-	penaltyI10LBFGSCentralEnterBox(&x, &bounds)
-	out := penaltyI10LBFGSCentralOutcome{x: x, status: PenaltyI10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI10(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI10LBFGSCentralFinite(fx) || !penaltyI10LBFGSCentralFiniteVec(&x) {
-		out.status = PenaltyI10LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyI10LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := penaltyI10LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI10LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += penaltyI10LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI10LBFGSCentralFiniteVec(&g) {
-		out.status = PenaltyI10LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyI10LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(penaltyI10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyI10LBFGSCentralConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI10LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI10LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI10LBFGSCentralConfirmGradient and settle).
-			calls, ok := penaltyI10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI10LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			penaltyI10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI10LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI10LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI10LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI10LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI10LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI10LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI10LBFGSCentralDerivativeCost == 0 {
-				return best.ending(PenaltyI10LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI10LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI10LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI10LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI10LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI10LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !penaltyI10LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI10LBFGSCentralDot(&g, &d)
-		}
-		first := float64(penaltyI10LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI10LBFGSCentralSearchOutOfBudget:
-			return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI10LBFGSCentralSearchDiverged:
-			return best.ending(PenaltyI10LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case penaltyI10LBFGSCentralSearchExhausted, penaltyI10LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI10LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI10LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI10LBFGSCentralNoDecrease
-			case found.end == penaltyI10LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = penaltyI10LBFGSCentralVerifyStall, true
-				continue
-			case found.end == penaltyI10LBFGSCentralSearchTiny:
-				end = PenaltyI10LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI10LBFGSCentralFiniteVec(&xt) {
-			return best.ending(PenaltyI10LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI10LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI10LBFGSCentralDifference(&s, &xt, &x)
-		penaltyI10LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI10LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI10LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI10LBFGSCentralUnlimited)
 }
 
 // penaltyI10LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o penaltyI10LBFGSCentralOutcome) ending(end PenaltyI10LBFGSCentralStatus, 
 	return o
 }
 
+// penaltyI10LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI10LBFGSCentralDescent struct {
+	lim       PenaltyI10LBFGSCentralLimits
+	stage     int                               // what advance does next
+	diffs     penaltyI10LBFGSCentralDifferences // the box and the difference intervals
+	dir       penaltyI10LBFGSCentralDirection   // the direction's memory
+	x, g, e   [10]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                       // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best penaltyI10LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from penaltyI10LBFGSCentralConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI10LBFGSCentralDescent) prepare(x0 [10]float64, lim PenaltyI10LBFGSCentralLimits, bounds penaltyI10LBFGSCentralBox) {
+	r.lim, r.stage = lim, penaltyI10LBFGSCentralStageBegin
+	r.diffs = penaltyI10LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI10LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = penaltyI10LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyI10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI10LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI10LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI10LBFGSCentralSettleCalls and penaltyI10LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI10LBFGSCentralDescent) advance(budget int) penaltyI10LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI10LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI10LBFGSCentralStageBegin:
+			if left < 1+penaltyI10LBFGSCentralCalibrationCost+penaltyI10LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI10LBFGSCentralStageJudge:
+			if r.verify != penaltyI10LBFGSCentralVerifyNothing && left < penaltyI10LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI10LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI10LBFGSCentralDescent) paused() penaltyI10LBFGSCentralOutcome {
+	return r.best.ending(PenaltyI10LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI10LBFGSCentralDescent) finish(end PenaltyI10LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI10LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI10LBFGSCentralDescent) begin() {
+	r.stage = penaltyI10LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI10LBFGSCentralFinite(r.fx) || !penaltyI10LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyI10LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI10LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI10LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI10LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI10LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyI10LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI10LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI10LBFGSCentralVerifyNothing
+	r.stage = penaltyI10LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI10LBFGSCentralStageSearch next when the run goes on.
+func (r *penaltyI10LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyI10LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI10LBFGSCentralConfirmGradient and settle).
+		calls, ok := penaltyI10LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI10LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI10LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyI10LBFGSCentralFiniteVec(&r.g) {
+			r.finish(PenaltyI10LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI10LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyI10LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI10LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI10LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI10LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI10LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI10LBFGSCentralGradientSmall
+		r.stage = penaltyI10LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI10LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI10LBFGSCentralDerivativeCost == 0 {
+			r.finish(PenaltyI10LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI10LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI10LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI10LBFGSCentralDiverged)
+			return
+		}
+		penaltyI10LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI10LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyI10LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI10LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *penaltyI10LBFGSCentralDescent) search() {
+	penaltyI10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI10LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI10LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI10LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI10LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI10LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := penaltyI10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI10LBFGSCentralSearchOutOfBudget:
+		r.finish(PenaltyI10LBFGSCentralOutOfEvaluations)
+		return
+	case penaltyI10LBFGSCentralSearchDiverged:
+		r.finish(PenaltyI10LBFGSCentralDiverged)
+		return
+	case penaltyI10LBFGSCentralSearchExhausted, penaltyI10LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI10LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI10LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI10LBFGSCentralNoDecrease
+		case found.end == penaltyI10LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI10LBFGSCentralVerifyStall, true, penaltyI10LBFGSCentralStageJudge
+			return
+		case found.end == penaltyI10LBFGSCentralSearchTiny:
+			end = PenaltyI10LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI10LBFGSCentralFiniteVec(&xt) {
+		r.finish(PenaltyI10LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI10LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI10LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI10LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI10LBFGSCentralDifference(&r.s, &xt, &r.x)
+	penaltyI10LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI10LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI10LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI10LBFGSCentralStageJudge
+}
+
+// penaltyI10LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type penaltyI10LBFGSCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10LBFGSCentralRoundingFloor)
+	bounds    penaltyI10LBFGSCentralBox
+}
+
+// penaltyI10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last penaltyI10LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, penaltyI10LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type penaltyI10LBFGSCentralDirection struct {
+	s, y   [penaltyI10LBFGSCentralLbfgsMemory][10]float64
+	rho    [penaltyI10LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most penaltyI10LBFGSCentralLbfgsMemory
+}
+
+func (s *penaltyI10LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *penaltyI10LBFGSCentralDirection) compute(g, d *[10]float64) {
+	var alpha [penaltyI10LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * penaltyI10LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = penaltyI10LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := penaltyI10LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyI10LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == penaltyI10LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * penaltyI10LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	penaltyI10LBFGSCentralNegate(d, &q)
+}
+
+func (s *penaltyI10LBFGSCentralDirection) update(step, change *[10]float64) {
+	if !penaltyI10LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == penaltyI10LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < penaltyI10LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / penaltyI10LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *penaltyI10LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// penaltyI10LBFGSCentralDot returns aᵀb.
+func penaltyI10LBFGSCentralDot(a, b *[10]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyI10LBFGSCentralNegate sets out = −x.
+func penaltyI10LBFGSCentralNegate(out, x *[10]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// penaltyI10LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func penaltyI10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
+	sy := penaltyI10LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/penaltyI10LBFGSCentralDot(s, s))*(sy/penaltyI10LBFGSCentralDot(y, y)) > penaltyI10LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI10LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI10LBFGSCentralStageJudge         // settle when asked (penaltyI10LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI10LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: penaltyI10LBFGSCentralIterationCalls
+	penaltyI10LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // penaltyI10LBFGSCentralEnterBox: without bounds every start is inside.
 func penaltyI10LBFGSCentralEnterBox(x *[10]float64, b *penaltyI10LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyI10LBFGSCentralVerifyNothing = iota
+	penaltyI10LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI10LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // penaltyI10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func penaltyI10LBFGSCentralFiniteVec(x *[10]float64) bool {
 		}
 	}
 	return true
-}
-
-// penaltyI10LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type penaltyI10LBFGSCentralDifferences struct {
-	ratio     [10]float64
-	curvature [10]float64
-	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10LBFGSCentralRoundingFloor)
-	bounds    penaltyI10LBFGSCentralBox
 }
 
 // penaltyI10LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func penaltyI10LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second flo
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyI10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last penaltyI10LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, penaltyI10LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type penaltyI10LBFGSCentralDirection struct {
-	s, y   [penaltyI10LBFGSCentralLbfgsMemory][10]float64
-	rho    [penaltyI10LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most penaltyI10LBFGSCentralLbfgsMemory
-}
-
-func (s *penaltyI10LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *penaltyI10LBFGSCentralDirection) compute(g, d *[10]float64) {
-	var alpha [penaltyI10LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * penaltyI10LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = penaltyI10LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := penaltyI10LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyI10LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == penaltyI10LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * penaltyI10LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	penaltyI10LBFGSCentralNegate(d, &q)
-}
-
-func (s *penaltyI10LBFGSCentralDirection) update(step, change *[10]float64) {
-	if !penaltyI10LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == penaltyI10LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < penaltyI10LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / penaltyI10LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *penaltyI10LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// penaltyI10LBFGSCentralDot returns aᵀb.
-func penaltyI10LBFGSCentralDot(a, b *[10]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyI10LBFGSCentralNegate sets out = −x.
-func penaltyI10LBFGSCentralNegate(out, x *[10]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// penaltyI10LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func penaltyI10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := penaltyI10LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/penaltyI10LBFGSCentralDot(s, s))*(sy/penaltyI10LBFGSCentralDot(y, y)) > penaltyI10LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyI10LBFGSCentralVerifyNothing = iota
-	penaltyI10LBFGSCentralVerifyPass    // a difference gradient passed the test
-	penaltyI10LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // penaltyI10LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI10LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func penaltyI10LBFGSCentralDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI10LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const penaltyI10LBFGSCentralUnlimited = int(^uint(0) >> 1)

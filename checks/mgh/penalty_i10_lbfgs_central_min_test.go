@@ -47,6 +47,55 @@ func TestPenaltyI10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyI10LBFGSCentralSolverTicks advances a PenaltyI10LBFGSCentralSolver from the spec's start with budgets of PenaltyI10LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI10LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI10LBFGSCentralSolverTicks(t *testing.T) {
+	want := PenaltyI10LBFGSCentral(penaltyI10LBFGSCentralTestStart())
+	for _, budget := range []int{PenaltyI10LBFGSCentralTickMinimum, PenaltyI10LBFGSCentralTickMinimum + 1, 2 * PenaltyI10LBFGSCentralTickMinimum, 7 * PenaltyI10LBFGSCentralTickMinimum} {
+		var s PenaltyI10LBFGSCentralSolver
+		s.Start(penaltyI10LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI10LBFGSCentralRunning {
+				if !penaltyI10LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI10LBFGSCentralSolver
+	s.Start(penaltyI10LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI10LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI10LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI10LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI10LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI10LBFGSCentralTestStart())
+		for s.Advance(PenaltyI10LBFGSCentralTickMinimum).Status == PenaltyI10LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI10LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI10LBFGSCentralTestSameResult(a, b PenaltyI10LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI10LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyI10LBFGSCentral(b *testing.B) {
 	var r PenaltyI10LBFGSCentralResult

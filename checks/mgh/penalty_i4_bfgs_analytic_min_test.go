@@ -105,6 +105,55 @@ func TestPenaltyI4BFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyI4BFGSAnalyticSolverTicks advances a PenaltyI4BFGSAnalyticSolver from the spec's start with budgets of PenaltyI4BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI4BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI4BFGSAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyI4BFGSAnalytic(penaltyI4BFGSAnalyticTestStart())
+	for _, budget := range []int{PenaltyI4BFGSAnalyticTickMinimum, PenaltyI4BFGSAnalyticTickMinimum + 1, 2 * PenaltyI4BFGSAnalyticTickMinimum, 7 * PenaltyI4BFGSAnalyticTickMinimum} {
+		var s PenaltyI4BFGSAnalyticSolver
+		s.Start(penaltyI4BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI4BFGSAnalyticRunning {
+				if !penaltyI4BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI4BFGSAnalyticSolver
+	s.Start(penaltyI4BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI4BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI4BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI4BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI4BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI4BFGSAnalyticTestStart())
+		for s.Advance(PenaltyI4BFGSAnalyticTickMinimum).Status == PenaltyI4BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI4BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI4BFGSAnalyticTestSameResult(a, b PenaltyI4BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI4BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyI4BFGSAnalytic(b *testing.B) {
 	var r PenaltyI4BFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	PenaltyI4BFGSCentralNoDecrease
 	// PenaltyI4BFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI4BFGSCentralDiverged
+	// PenaltyI4BFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI4BFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI4BFGSCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyI4BFGSCentralDiverged:
 		return "diverged"
+	case PenaltyI4BFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyI4BFGSCentralWithLimits(x0 [4]float64, limits PenaltyI4BFGSCentralLi
 	}
 }
 
+// PenaltyI4BFGSCentralTickMinimum is the smallest call budget with which every PenaltyI4BFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const PenaltyI4BFGSCentralTickMinimum = 432
+
+// PenaltyI4BFGSCentralSolver is a run of PenaltyI4BFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI4BFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least PenaltyI4BFGSCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI4BFGSCentralRunning ends exactly as PenaltyI4BFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI4BFGSCentral and PenaltyI4BFGSCentralWithLimits use at most 2952 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PenaltyI4BFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI4BFGSCentralSolver struct {
+	run       penaltyI4BFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI4BFGSCentralLimits  // the limits of the runs; PenaltyI4BFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI4BFGSCentralSolver) SetLimits(limits PenaltyI4BFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI4BFGSCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyI4BFGSCentralSolver) StartFrom(from PenaltyI4BFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI4BFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI4BFGSCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI4BFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI4BFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI4BFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI4BFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI4BFGSCentralSolver) Advance(budget int) PenaltyI4BFGSCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI4BFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI4BFGSCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyI4BFGSCentralStepInitial    = 1.0                    // step.initial
-	penaltyI4BFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI4BFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI4BFGSCentralStepTrials     = 48                     // step.trials
-	penaltyI4BFGSCentralDerivativeCost = 8                      // objective calls per gradient
-	penaltyI4BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI4BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI4BFGSCentralStepInitial     = 1.0                    // step.initial
+	penaltyI4BFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI4BFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyI4BFGSCentralStepTrials      = 48                     // step.trials
+	penaltyI4BFGSCentralDerivativeCost  = 8                      // objective calls per gradient
+	penaltyI4BFGSCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	penaltyI4BFGSCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	penaltyI4BFGSCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI4BFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI4BFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI4BFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits, bounds penaltyI4BFGSCentralBox) penaltyI4BFGSCentralOutcome {
-	x := x0
-	penaltyI4BFGSCentralEnterBox(&x, &bounds)
-	out := penaltyI4BFGSCentralOutcome{x: x, status: PenaltyI4BFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI4(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI4BFGSCentralFinite(fx) || !penaltyI4BFGSCentralFiniteVec(&x) {
-		out.status = PenaltyI4BFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyI4BFGSCentralDifferences{bounds: bounds}
-	calls, ok := penaltyI4BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI4BFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += penaltyI4BFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI4BFGSCentralFiniteVec(&g) {
-		out.status = PenaltyI4BFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyI4BFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(penaltyI4BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from penaltyI4BFGSCentralConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI4BFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI4BFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI4BFGSCentralConfirmGradient and settle).
-			calls, ok := penaltyI4BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4BFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI4BFGSCentralVerifyNothing, true
-		case !confirmed:
-			penaltyI4BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI4BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI4BFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI4BFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI4BFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI4BFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI4BFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI4BFGSCentralDerivativeCost == 0 {
-				return best.ending(PenaltyI4BFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI4BFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI4BFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI4BFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI4BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI4BFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI4BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI4BFGSCentralDot(&g, &d)
-		if !(now < 0) || !penaltyI4BFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI4BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI4BFGSCentralDot(&g, &d)
-		}
-		first := float64(penaltyI4BFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI4BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI4BFGSCentralSearchOutOfBudget:
-			return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI4BFGSCentralSearchDiverged:
-			return best.ending(PenaltyI4BFGSCentralDiverged, out.iterations, out.evaluations)
-		case penaltyI4BFGSCentralSearchExhausted, penaltyI4BFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI4BFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI4BFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI4BFGSCentralNoDecrease
-			case found.end == penaltyI4BFGSCentralSearchTiny && canSettle:
-				verify, stalled = penaltyI4BFGSCentralVerifyStall, true
-				continue
-			case found.end == penaltyI4BFGSCentralSearchTiny:
-				end = PenaltyI4BFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI4BFGSCentralFiniteVec(&xt) {
-			return best.ending(PenaltyI4BFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI4BFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI4BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI4BFGSCentralDifference(&s, &xt, &x)
-		penaltyI4BFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI4BFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI4BFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI4BFGSCentralUnlimited)
 }
 
 // penaltyI4BFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o penaltyI4BFGSCentralOutcome) ending(end PenaltyI4BFGSCentralStatus, iter
 	return o
 }
 
+// penaltyI4BFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI4BFGSCentralDescent struct {
+	lim       PenaltyI4BFGSCentralLimits
+	stage     int                             // what advance does next
+	diffs     penaltyI4BFGSCentralDifferences // the box and the difference intervals
+	dir       penaltyI4BFGSCentralDirection   // the direction's memory
+	x, g, e   [4]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best penaltyI4BFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from penaltyI4BFGSCentralConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI4BFGSCentralDescent) prepare(x0 [4]float64, lim PenaltyI4BFGSCentralLimits, bounds penaltyI4BFGSCentralBox) {
+	r.lim, r.stage = lim, penaltyI4BFGSCentralStageBegin
+	r.diffs = penaltyI4BFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI4BFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = penaltyI4BFGSCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyI4BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI4BFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI4BFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI4BFGSCentralSettleCalls and penaltyI4BFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI4BFGSCentralDescent) advance(budget int) penaltyI4BFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI4BFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI4BFGSCentralStageBegin:
+			if left < 1+penaltyI4BFGSCentralCalibrationCost+penaltyI4BFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI4BFGSCentralStageJudge:
+			if r.verify != penaltyI4BFGSCentralVerifyNothing && left < penaltyI4BFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI4BFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI4BFGSCentralDescent) paused() penaltyI4BFGSCentralOutcome {
+	return r.best.ending(PenaltyI4BFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI4BFGSCentralDescent) finish(end PenaltyI4BFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI4BFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI4BFGSCentralDescent) begin() {
+	r.stage = penaltyI4BFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI4BFGSCentralFinite(r.fx) || !penaltyI4BFGSCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyI4BFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI4BFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI4BFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI4BFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI4BFGSCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyI4BFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI4BFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI4BFGSCentralVerifyNothing
+	r.stage = penaltyI4BFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI4BFGSCentralStageSearch next when the run goes on.
+func (r *penaltyI4BFGSCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyI4BFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI4BFGSCentralConfirmGradient and settle).
+		calls, ok := penaltyI4BFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI4BFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI4BFGSCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyI4BFGSCentralFiniteVec(&r.g) {
+			r.finish(PenaltyI4BFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI4BFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyI4BFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI4BFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI4BFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI4BFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI4BFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI4BFGSCentralGradientSmall
+		r.stage = penaltyI4BFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI4BFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI4BFGSCentralDerivativeCost == 0 {
+			r.finish(PenaltyI4BFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI4BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI4BFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI4BFGSCentralDiverged)
+			return
+		}
+		penaltyI4BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI4BFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyI4BFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI4BFGSCentralStageJudge next when the run
+// goes on.
+func (r *penaltyI4BFGSCentralDescent) search() {
+	penaltyI4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI4BFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI4BFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI4BFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI4BFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI4BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := penaltyI4BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI4BFGSCentralSearchOutOfBudget:
+		r.finish(PenaltyI4BFGSCentralOutOfEvaluations)
+		return
+	case penaltyI4BFGSCentralSearchDiverged:
+		r.finish(PenaltyI4BFGSCentralDiverged)
+		return
+	case penaltyI4BFGSCentralSearchExhausted, penaltyI4BFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI4BFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI4BFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI4BFGSCentralNoDecrease
+		case found.end == penaltyI4BFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI4BFGSCentralVerifyStall, true, penaltyI4BFGSCentralStageJudge
+			return
+		case found.end == penaltyI4BFGSCentralSearchTiny:
+			end = PenaltyI4BFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI4BFGSCentralFiniteVec(&xt) {
+		r.finish(PenaltyI4BFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI4BFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI4BFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI4BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI4BFGSCentralDifference(&r.s, &xt, &r.x)
+	penaltyI4BFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI4BFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI4BFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI4BFGSCentralStageJudge
+}
+
+// penaltyI4BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type penaltyI4BFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSCentralRoundingFloor)
+	bounds    penaltyI4BFGSCentralBox
+}
+
+// penaltyI4BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type penaltyI4BFGSCentralDirection struct {
+	h      [4][4]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *penaltyI4BFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *penaltyI4BFGSCentralDirection) compute(g, d *[4]float64) {
+	for i := range s.h {
+		d[i] = -penaltyI4BFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *penaltyI4BFGSCentralDirection) update(step, change *[4]float64) {
+	if !penaltyI4BFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := penaltyI4BFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / penaltyI4BFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [4]float64
+	for i := range s.h {
+		hy[i] = penaltyI4BFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*penaltyI4BFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *penaltyI4BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// penaltyI4BFGSCentralDot returns aᵀb.
+func penaltyI4BFGSCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyI4BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func penaltyI4BFGSCentralCurvatureSafe(s, y *[4]float64) bool {
+	sy := penaltyI4BFGSCentralDot(s, y)
+	return sy > 0 && (sy/penaltyI4BFGSCentralDot(s, s))*(sy/penaltyI4BFGSCentralDot(y, y)) > penaltyI4BFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI4BFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI4BFGSCentralStageJudge         // settle when asked (penaltyI4BFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI4BFGSCentralStageSearch        // the line search and the gradient at the accepted point: penaltyI4BFGSCentralIterationCalls
+	penaltyI4BFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // penaltyI4BFGSCentralEnterBox: without bounds every start is inside.
 func penaltyI4BFGSCentralEnterBox(x *[4]float64, b *penaltyI4BFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4BFGSCentralVerifyNothing = iota
+	penaltyI4BFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI4BFGSCentralVerifyStall   // no step makes progress
+)
 
 // penaltyI4BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func penaltyI4BFGSCentralFiniteVec(x *[4]float64) bool {
 		}
 	}
 	return true
-}
-
-// penaltyI4BFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type penaltyI4BFGSCentralDifferences struct {
-	ratio     [4]float64
-	curvature [4]float64
-	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSCentralRoundingFloor)
-	bounds    penaltyI4BFGSCentralBox
 }
 
 // penaltyI4BFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func penaltyI4BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyI4BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type penaltyI4BFGSCentralDirection struct {
-	h      [4][4]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *penaltyI4BFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *penaltyI4BFGSCentralDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -penaltyI4BFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *penaltyI4BFGSCentralDirection) update(step, change *[4]float64) {
-	if !penaltyI4BFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := penaltyI4BFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / penaltyI4BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [4]float64
-	for i := range s.h {
-		hy[i] = penaltyI4BFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*penaltyI4BFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *penaltyI4BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// penaltyI4BFGSCentralDot returns aᵀb.
-func penaltyI4BFGSCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyI4BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func penaltyI4BFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyI4BFGSCentralDot(s, y)
-	return sy > 0 && (sy/penaltyI4BFGSCentralDot(s, s))*(sy/penaltyI4BFGSCentralDot(y, y)) > penaltyI4BFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyI4BFGSCentralVerifyNothing = iota
-	penaltyI4BFGSCentralVerifyPass    // a difference gradient passed the test
-	penaltyI4BFGSCentralVerifyStall   // no step makes progress
-)
 
 // penaltyI4BFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI4BFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func penaltyI4BFGSCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI4BFGSCentralUnlimited is a tick budget that never pauses a run.
+const penaltyI4BFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestPenaltyI4BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyI4BFGSCentralSolverTicks advances a PenaltyI4BFGSCentralSolver from the spec's start with budgets of PenaltyI4BFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI4BFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI4BFGSCentralSolverTicks(t *testing.T) {
+	want := PenaltyI4BFGSCentral(penaltyI4BFGSCentralTestStart())
+	for _, budget := range []int{PenaltyI4BFGSCentralTickMinimum, PenaltyI4BFGSCentralTickMinimum + 1, 2 * PenaltyI4BFGSCentralTickMinimum, 7 * PenaltyI4BFGSCentralTickMinimum} {
+		var s PenaltyI4BFGSCentralSolver
+		s.Start(penaltyI4BFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI4BFGSCentralRunning {
+				if !penaltyI4BFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI4BFGSCentralSolver
+	s.Start(penaltyI4BFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI4BFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI4BFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI4BFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI4BFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI4BFGSCentralTestStart())
+		for s.Advance(PenaltyI4BFGSCentralTickMinimum).Status == PenaltyI4BFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI4BFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI4BFGSCentralTestSameResult(a, b PenaltyI4BFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI4BFGSCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyI4BFGSCentral(b *testing.B) {
 	var r PenaltyI4BFGSCentralResult

@@ -105,6 +105,55 @@ func TestPenaltyI4CGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyI4CGAnalyticSolverTicks advances a PenaltyI4CGAnalyticSolver from the spec's start with budgets of PenaltyI4CGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI4CGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI4CGAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyI4CGAnalytic(penaltyI4CGAnalyticTestStart())
+	for _, budget := range []int{PenaltyI4CGAnalyticTickMinimum, PenaltyI4CGAnalyticTickMinimum + 1, 2 * PenaltyI4CGAnalyticTickMinimum, 7 * PenaltyI4CGAnalyticTickMinimum} {
+		var s PenaltyI4CGAnalyticSolver
+		s.Start(penaltyI4CGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI4CGAnalyticRunning {
+				if !penaltyI4CGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI4CGAnalyticSolver
+	s.Start(penaltyI4CGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI4CGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI4CGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI4CGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI4CGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI4CGAnalyticTestStart())
+		for s.Advance(PenaltyI4CGAnalyticTickMinimum).Status == PenaltyI4CGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI4CGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI4CGAnalyticTestSameResult(a, b PenaltyI4CGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI4CGAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyI4CGAnalytic(b *testing.B) {
 	var r PenaltyI4CGAnalyticResult

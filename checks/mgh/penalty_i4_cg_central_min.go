@@ -26,6 +26,8 @@ const (
 	PenaltyI4CGCentralNoDecrease
 	// PenaltyI4CGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI4CGCentralDiverged
+	// PenaltyI4CGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI4CGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI4CGCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyI4CGCentralDiverged:
 		return "diverged"
+	case PenaltyI4CGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyI4CGCentralWithLimits(x0 [4]float64, limits PenaltyI4CGCentralLimits
 	}
 }
 
+// PenaltyI4CGCentralTickMinimum is the smallest call budget with which every PenaltyI4CGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const PenaltyI4CGCentralTickMinimum = 432
+
+// PenaltyI4CGCentralSolver is a run of PenaltyI4CGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI4CGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least PenaltyI4CGCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI4CGCentralRunning ends exactly as PenaltyI4CGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI4CGCentral and PenaltyI4CGCentralWithLimits use at most 2896 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PenaltyI4CGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI4CGCentralSolver struct {
+	run       penaltyI4CGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI4CGCentralLimits  // the limits of the runs; PenaltyI4CGCentralDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI4CGCentralSolver) SetLimits(limits PenaltyI4CGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI4CGCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyI4CGCentralSolver) StartFrom(from PenaltyI4CGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI4CGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI4CGCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI4CGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI4CGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI4CGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI4CGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI4CGCentralSolver) Advance(budget int) PenaltyI4CGCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI4CGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI4CGCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyI4CGCentralStepInitial    = 1.0                    // step.initial
-	penaltyI4CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI4CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	penaltyI4CGCentralStepTrials     = 48                     // step.trials
-	penaltyI4CGCentralDerivativeCost = 8                      // objective calls per gradient
-	penaltyI4CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI4CGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI4CGCentralStepInitial     = 1.0                    // step.initial
+	penaltyI4CGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI4CGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	penaltyI4CGCentralStepTrials      = 48                     // step.trials
+	penaltyI4CGCentralDerivativeCost  = 8                      // objective calls per gradient
+	penaltyI4CGCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	penaltyI4CGCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	penaltyI4CGCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI4CGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI4CGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI4CGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits, bounds penaltyI4CGCentralBox) penaltyI4CGCentralOutcome {
-	x := x0
-	penaltyI4CGCentralEnterBox(&x, &bounds)
-	out := penaltyI4CGCentralOutcome{x: x, status: PenaltyI4CGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI4(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI4CGCentralFinite(fx) || !penaltyI4CGCentralFiniteVec(&x) {
-		out.status = PenaltyI4CGCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyI4CGCentralDifferences{bounds: bounds}
-	calls, ok := penaltyI4CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI4CGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += penaltyI4CGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI4CGCentralFiniteVec(&g) {
-		out.status = PenaltyI4CGCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyI4CGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(penaltyI4CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from penaltyI4CGCentralConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI4CGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI4CGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI4CGCentralConfirmGradient and settle).
-			calls, ok := penaltyI4CGCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4CGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4CGCentralFiniteVec(&g) {
-				return best.ending(PenaltyI4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI4CGCentralVerifyNothing, true
-		case !confirmed:
-			penaltyI4CGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI4CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI4CGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI4CGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI4CGCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI4CGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI4CGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI4CGCentralDerivativeCost == 0 {
-				return best.ending(PenaltyI4CGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI4CGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI4CGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI4CGCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI4CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI4CGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI4CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI4CGCentralDot(&g, &d)
-		if !(now < 0) || !penaltyI4CGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI4CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI4CGCentralDot(&g, &d)
-		}
-		first := float64(penaltyI4CGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI4CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI4CGCentralSearchOutOfBudget:
-			return best.ending(PenaltyI4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI4CGCentralSearchDiverged:
-			return best.ending(PenaltyI4CGCentralDiverged, out.iterations, out.evaluations)
-		case penaltyI4CGCentralSearchExhausted, penaltyI4CGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI4CGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI4CGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI4CGCentralNoDecrease
-			case found.end == penaltyI4CGCentralSearchTiny && canSettle:
-				verify, stalled = penaltyI4CGCentralVerifyStall, true
-				continue
-			case found.end == penaltyI4CGCentralSearchTiny:
-				end = PenaltyI4CGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI4CGCentralFiniteVec(&xt) {
-			return best.ending(PenaltyI4CGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI4CGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI4CGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI4CGCentralDifference(&s, &xt, &x)
-		penaltyI4CGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI4CGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI4CGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI4CGCentralUnlimited)
 }
 
 // penaltyI4CGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o penaltyI4CGCentralOutcome) ending(end PenaltyI4CGCentralStatus, iteratio
 	return o
 }
 
-// penaltyI4CGCentralEnterBox: without bounds every start is inside.
-func penaltyI4CGCentralEnterBox(x *[4]float64, b *penaltyI4CGCentralBox) {}
-
-// penaltyI4CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func penaltyI4CGCentralFinite(v float64) bool {
-	return v >= -penaltyI4CGCentralLargestFinite && v <= penaltyI4CGCentralLargestFinite
+// penaltyI4CGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI4CGCentralDescent struct {
+	lim       PenaltyI4CGCentralLimits
+	stage     int                           // what advance does next
+	diffs     penaltyI4CGCentralDifferences // the box and the difference intervals
+	dir       penaltyI4CGCentralDirection   // the direction's memory
+	x, g, e   [4]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best penaltyI4CGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from penaltyI4CGCentralConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
 }
 
-// penaltyI4CGCentralFiniteVec reports whether every component of x is finite.
-func penaltyI4CGCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyI4CGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI4CGCentralDescent) prepare(x0 [4]float64, lim PenaltyI4CGCentralLimits, bounds penaltyI4CGCentralBox) {
+	r.lim, r.stage = lim, penaltyI4CGCentralStageBegin
+	r.diffs = penaltyI4CGCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI4CGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = penaltyI4CGCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyI4CGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI4CGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI4CGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI4CGCentralSettleCalls and penaltyI4CGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI4CGCentralDescent) advance(budget int) penaltyI4CGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI4CGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI4CGCentralStageBegin:
+			if left < 1+penaltyI4CGCentralCalibrationCost+penaltyI4CGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI4CGCentralStageJudge:
+			if r.verify != penaltyI4CGCentralVerifyNothing && left < penaltyI4CGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI4CGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI4CGCentralDescent) paused() penaltyI4CGCentralOutcome {
+	return r.best.ending(PenaltyI4CGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI4CGCentralDescent) finish(end PenaltyI4CGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI4CGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI4CGCentralDescent) begin() {
+	r.stage = penaltyI4CGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI4CGCentralFinite(r.fx) || !penaltyI4CGCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyI4CGCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI4CGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI4CGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI4CGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI4CGCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyI4CGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI4CGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI4CGCentralVerifyNothing
+	r.stage = penaltyI4CGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI4CGCentralStageSearch next when the run goes on.
+func (r *penaltyI4CGCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyI4CGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI4CGCentralConfirmGradient and settle).
+		calls, ok := penaltyI4CGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI4CGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI4CGCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyI4CGCentralFiniteVec(&r.g) {
+			r.finish(PenaltyI4CGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI4CGCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyI4CGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI4CGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI4CGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI4CGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI4CGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI4CGCentralGradientSmall
+		r.stage = penaltyI4CGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI4CGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI4CGCentralDerivativeCost == 0 {
+			r.finish(PenaltyI4CGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI4CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI4CGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI4CGCentralDiverged)
+			return
+		}
+		penaltyI4CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI4CGCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyI4CGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI4CGCentralStageJudge next when the run
+// goes on.
+func (r *penaltyI4CGCentralDescent) search() {
+	penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI4CGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI4CGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI4CGCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI4CGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI4CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := penaltyI4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI4CGCentralSearchOutOfBudget:
+		r.finish(PenaltyI4CGCentralOutOfEvaluations)
+		return
+	case penaltyI4CGCentralSearchDiverged:
+		r.finish(PenaltyI4CGCentralDiverged)
+		return
+	case penaltyI4CGCentralSearchExhausted, penaltyI4CGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI4CGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI4CGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI4CGCentralNoDecrease
+		case found.end == penaltyI4CGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI4CGCentralVerifyStall, true, penaltyI4CGCentralStageJudge
+			return
+		case found.end == penaltyI4CGCentralSearchTiny:
+			end = PenaltyI4CGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI4CGCentralFiniteVec(&xt) {
+		r.finish(PenaltyI4CGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI4CGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI4CGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI4CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI4CGCentralDifference(&r.s, &xt, &r.x)
+	penaltyI4CGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI4CGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI4CGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI4CGCentralStageJudge
 }
 
 // penaltyI4CGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type penaltyI4CGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4CGCentralRoundingFloor)
 	bounds    penaltyI4CGCentralBox
+}
+
+// penaltyI4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type penaltyI4CGCentralDirection struct {
+	previous [4]float64 // d₋₁
+	change   [4]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *penaltyI4CGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *penaltyI4CGCentralDirection) compute(g, d *[4]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
+		beta = penaltyI4CGCentralLarger(penaltyI4CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = penaltyI4CGCentralDot(g, g)
+}
+
+func (s *penaltyI4CGCentralDirection) update(step, change *[4]float64) {
+	s.change = *change
+}
+
+func (s *penaltyI4CGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return penaltyI4CGCentralScaledTrial(t, slope, now)
+}
+
+// penaltyI4CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI4CGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyI4CGCentralDot returns aᵀb.
+func penaltyI4CGCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyI4CGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to penaltyI4CGCentralStepInitial.
+func penaltyI4CGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !penaltyI4CGCentralFinite(next) {
+		return penaltyI4CGCentralStepInitial
+	}
+	return next
+}
+
+// penaltyI4CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func penaltyI4CGCentralFinite(v float64) bool {
+	return v >= -penaltyI4CGCentralLargestFinite && v <= penaltyI4CGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI4CGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI4CGCentralStageJudge         // settle when asked (penaltyI4CGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI4CGCentralStageSearch        // the line search and the gradient at the accepted point: penaltyI4CGCentralIterationCalls
+	penaltyI4CGCentralStageOver          // the run has ended; out is its result
+)
+
+// penaltyI4CGCentralEnterBox: without bounds every start is inside.
+func penaltyI4CGCentralEnterBox(x *[4]float64, b *penaltyI4CGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4CGCentralVerifyNothing = iota
+	penaltyI4CGCentralVerifyPass    // a difference gradient passed the test
+	penaltyI4CGCentralVerifyStall   // no step makes progress
+)
+
+// penaltyI4CGCentralFiniteVec reports whether every component of x is finite.
+func penaltyI4CGCentralFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !penaltyI4CGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4CGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func penaltyI4CGCentralAbs(v float64) float64 {
 // penaltyI4CGCentralSquareRoot returns √v.
 func penaltyI4CGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// penaltyI4CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyI4CGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // penaltyI4CGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func penaltyI4CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyI4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type penaltyI4CGCentralDirection struct {
-	previous [4]float64 // d₋₁
-	change   [4]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *penaltyI4CGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *penaltyI4CGCentralDirection) compute(g, d *[4]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
-		beta = penaltyI4CGCentralLarger(penaltyI4CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = penaltyI4CGCentralDot(g, g)
-}
-
-func (s *penaltyI4CGCentralDirection) update(step, change *[4]float64) {
-	s.change = *change
-}
-
-func (s *penaltyI4CGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return penaltyI4CGCentralScaledTrial(t, slope, now)
-}
-
-// penaltyI4CGCentralDot returns aᵀb.
-func penaltyI4CGCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyI4CGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to penaltyI4CGCentralStepInitial.
-func penaltyI4CGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !penaltyI4CGCentralFinite(next) {
-		return penaltyI4CGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyI4CGCentralVerifyNothing = iota
-	penaltyI4CGCentralVerifyPass    // a difference gradient passed the test
-	penaltyI4CGCentralVerifyStall   // no step makes progress
-)
 
 // penaltyI4CGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI4CGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func penaltyI4CGCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI4CGCentralUnlimited is a tick budget that never pauses a run.
+const penaltyI4CGCentralUnlimited = int(^uint(0) >> 1)

@@ -26,6 +26,8 @@ const (
 	PenaltyI4LBFGSCentralNoDecrease
 	// PenaltyI4LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyI4LBFGSCentralDiverged
+	// PenaltyI4LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyI4LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyI4LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyI4LBFGSCentralDiverged:
 		return "diverged"
+	case PenaltyI4LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func PenaltyI4LBFGSCentralWithLimits(x0 [4]float64, limits PenaltyI4LBFGSCentral
 	}
 }
 
+// PenaltyI4LBFGSCentralTickMinimum is the smallest call budget with which every PenaltyI4LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const PenaltyI4LBFGSCentralTickMinimum = 432
+
+// PenaltyI4LBFGSCentralSolver is a run of PenaltyI4LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI4LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least PenaltyI4LBFGSCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI4LBFGSCentralRunning ends exactly as PenaltyI4LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI4LBFGSCentral and PenaltyI4LBFGSCentralWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PenaltyI4LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyI4LBFGSCentralSolver struct {
+	run       penaltyI4LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyI4LBFGSCentralLimits  // the limits of the runs; PenaltyI4LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                         // whether SetLimits has set limits
+	started   bool                         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyI4LBFGSCentralSolver) SetLimits(limits PenaltyI4LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyI4LBFGSCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyI4LBFGSCentralSolver) StartFrom(from PenaltyI4LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyI4LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyI4LBFGSCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyI4LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyI4LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyI4LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyI4LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyI4LBFGSCentralSolver) Advance(budget int) PenaltyI4LBFGSCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyI4LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyI4LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyI4LBFGSCentralStepInitial    = 1.0                    // step.initial
-	penaltyI4LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyI4LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI4LBFGSCentralLbfgsMemory    = 5                      // memory
-	penaltyI4LBFGSCentralStepTrials     = 48                     // step.trials
-	penaltyI4LBFGSCentralDerivativeCost = 8                      // objective calls per gradient
-	penaltyI4LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyI4LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyI4LBFGSCentralStepInitial     = 1.0                    // step.initial
+	penaltyI4LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyI4LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyI4LBFGSCentralLbfgsMemory     = 5                      // memory
+	penaltyI4LBFGSCentralStepTrials      = 48                     // step.trials
+	penaltyI4LBFGSCentralDerivativeCost  = 8                      // objective calls per gradient
+	penaltyI4LBFGSCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	penaltyI4LBFGSCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	penaltyI4LBFGSCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyI4LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI4LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyI4LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimits, bounds penaltyI4LBFGSCentralBox) penaltyI4LBFGSCentralOutcome {
-	x := x0
-	penaltyI4LBFGSCentralEnterBox(&x, &bounds)
-	out := penaltyI4LBFGSCentralOutcome{x: x, status: PenaltyI4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyI4(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyI4LBFGSCentralFinite(fx) || !penaltyI4LBFGSCentralFiniteVec(&x) {
-		out.status = PenaltyI4LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyI4LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := penaltyI4LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyI4LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += penaltyI4LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyI4LBFGSCentralFiniteVec(&g) {
-		out.status = PenaltyI4LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyI4LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(penaltyI4LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from penaltyI4LBFGSCentralConfirmGradient or settle
-	stalled := false                                                  // whether the run can make no more progress at x
-	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyI4LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyI4LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyI4LBFGSCentralConfirmGradient and settle).
-			calls, ok := penaltyI4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyI4LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			penaltyI4LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyI4LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyI4LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyI4LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyI4LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyI4LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyI4LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyI4LBFGSCentralDerivativeCost == 0 {
-				return best.ending(PenaltyI4LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyI4LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyI4LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyI4LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyI4LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyI4LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyI4LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyI4LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !penaltyI4LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyI4LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyI4LBFGSCentralDot(&g, &d)
-		}
-		first := float64(penaltyI4LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyI4LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyI4LBFGSCentralSearchOutOfBudget:
-			return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyI4LBFGSCentralSearchDiverged:
-			return best.ending(PenaltyI4LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case penaltyI4LBFGSCentralSearchExhausted, penaltyI4LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyI4LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyI4LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyI4LBFGSCentralNoDecrease
-			case found.end == penaltyI4LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = penaltyI4LBFGSCentralVerifyStall, true
-				continue
-			case found.end == penaltyI4LBFGSCentralSearchTiny:
-				end = PenaltyI4LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyI4LBFGSCentralFiniteVec(&xt) {
-			return best.ending(PenaltyI4LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyI4LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyI4LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyI4LBFGSCentralDifference(&s, &xt, &x)
-		penaltyI4LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyI4LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyI4LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyI4LBFGSCentralUnlimited)
 }
 
 // penaltyI4LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o penaltyI4LBFGSCentralOutcome) ending(end PenaltyI4LBFGSCentralStatus, it
 	return o
 }
 
+// penaltyI4LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyI4LBFGSCentralDescent struct {
+	lim       PenaltyI4LBFGSCentralLimits
+	stage     int                              // what advance does next
+	diffs     penaltyI4LBFGSCentralDifferences // the box and the difference intervals
+	dir       penaltyI4LBFGSCentralDirection   // the direction's memory
+	x, g, e   [4]float64                       // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                       // the search direction, the last step and its gradient change
+	fx        float64                          // f(x)
+	t, slope  float64                          // the previous iteration's accepted step and slope
+	out, best penaltyI4LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                          // f(x0)
+	rises     int                              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                             // whether g and e at x come from penaltyI4LBFGSCentralConfirmGradient or settle
+	stalled   bool                             // whether the run can make no more progress at x
+	retried   int                              // the iteration whose stall was retried with recalibrated differences
+	verify    int                              // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyI4LBFGSCentralDescent) prepare(x0 [4]float64, lim PenaltyI4LBFGSCentralLimits, bounds penaltyI4LBFGSCentralBox) {
+	r.lim, r.stage = lim, penaltyI4LBFGSCentralStageBegin
+	r.diffs = penaltyI4LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyI4LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = penaltyI4LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyI4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyI4LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyI4LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyI4LBFGSCentralSettleCalls and penaltyI4LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyI4LBFGSCentralDescent) advance(budget int) penaltyI4LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyI4LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyI4LBFGSCentralStageBegin:
+			if left < 1+penaltyI4LBFGSCentralCalibrationCost+penaltyI4LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyI4LBFGSCentralStageJudge:
+			if r.verify != penaltyI4LBFGSCentralVerifyNothing && left < penaltyI4LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyI4LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyI4LBFGSCentralDescent) paused() penaltyI4LBFGSCentralOutcome {
+	return r.best.ending(PenaltyI4LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyI4LBFGSCentralDescent) finish(end PenaltyI4LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyI4LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyI4LBFGSCentralDescent) begin() {
+	r.stage = penaltyI4LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyI4LBFGSCentralFinite(r.fx) || !penaltyI4LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyI4LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyI4LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyI4LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyI4LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyI4LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyI4LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyI4LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyI4LBFGSCentralVerifyNothing
+	r.stage = penaltyI4LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyI4LBFGSCentralStageSearch next when the run goes on.
+func (r *penaltyI4LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyI4LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyI4LBFGSCentralConfirmGradient and settle).
+		calls, ok := penaltyI4LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyI4LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyI4LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyI4LBFGSCentralFiniteVec(&r.g) {
+			r.finish(PenaltyI4LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyI4LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyI4LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyI4LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyI4LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyI4LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyI4LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyI4LBFGSCentralGradientSmall
+		r.stage = penaltyI4LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyI4LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyI4LBFGSCentralDerivativeCost == 0 {
+			r.finish(PenaltyI4LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyI4LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyI4LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyI4LBFGSCentralDiverged)
+			return
+		}
+		penaltyI4LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyI4LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyI4LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyI4LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *penaltyI4LBFGSCentralDescent) search() {
+	penaltyI4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyI4LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyI4LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyI4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyI4LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyI4LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyI4LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := penaltyI4LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyI4LBFGSCentralSearchOutOfBudget:
+		r.finish(PenaltyI4LBFGSCentralOutOfEvaluations)
+		return
+	case penaltyI4LBFGSCentralSearchDiverged:
+		r.finish(PenaltyI4LBFGSCentralDiverged)
+		return
+	case penaltyI4LBFGSCentralSearchExhausted, penaltyI4LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyI4LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyI4LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyI4LBFGSCentralNoDecrease
+		case found.end == penaltyI4LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyI4LBFGSCentralVerifyStall, true, penaltyI4LBFGSCentralStageJudge
+			return
+		case found.end == penaltyI4LBFGSCentralSearchTiny:
+			end = PenaltyI4LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyI4LBFGSCentralFiniteVec(&xt) {
+		r.finish(PenaltyI4LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyI4LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyI4LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyI4LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyI4LBFGSCentralDifference(&r.s, &xt, &r.x)
+	penaltyI4LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyI4LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyI4LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyI4LBFGSCentralStageJudge
+}
+
+// penaltyI4LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type penaltyI4LBFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSCentralRoundingFloor)
+	bounds    penaltyI4LBFGSCentralBox
+}
+
+// penaltyI4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last penaltyI4LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, penaltyI4LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type penaltyI4LBFGSCentralDirection struct {
+	s, y   [penaltyI4LBFGSCentralLbfgsMemory][4]float64
+	rho    [penaltyI4LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most penaltyI4LBFGSCentralLbfgsMemory
+}
+
+func (s *penaltyI4LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *penaltyI4LBFGSCentralDirection) compute(g, d *[4]float64) {
+	var alpha [penaltyI4LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * penaltyI4LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = penaltyI4LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := penaltyI4LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyI4LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == penaltyI4LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * penaltyI4LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	penaltyI4LBFGSCentralNegate(d, &q)
+}
+
+func (s *penaltyI4LBFGSCentralDirection) update(step, change *[4]float64) {
+	if !penaltyI4LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == penaltyI4LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < penaltyI4LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / penaltyI4LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *penaltyI4LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// penaltyI4LBFGSCentralDot returns aᵀb.
+func penaltyI4LBFGSCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyI4LBFGSCentralNegate sets out = −x.
+func penaltyI4LBFGSCentralNegate(out, x *[4]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// penaltyI4LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func penaltyI4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
+	sy := penaltyI4LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/penaltyI4LBFGSCentralDot(s, s))*(sy/penaltyI4LBFGSCentralDot(y, y)) > penaltyI4LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyI4LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyI4LBFGSCentralStageJudge         // settle when asked (penaltyI4LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyI4LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: penaltyI4LBFGSCentralIterationCalls
+	penaltyI4LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // penaltyI4LBFGSCentralEnterBox: without bounds every start is inside.
 func penaltyI4LBFGSCentralEnterBox(x *[4]float64, b *penaltyI4LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4LBFGSCentralVerifyNothing = iota
+	penaltyI4LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI4LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // penaltyI4LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func penaltyI4LBFGSCentralFiniteVec(x *[4]float64) bool {
 		}
 	}
 	return true
-}
-
-// penaltyI4LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type penaltyI4LBFGSCentralDifferences struct {
-	ratio     [4]float64
-	curvature [4]float64
-	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSCentralRoundingFloor)
-	bounds    penaltyI4LBFGSCentralBox
 }
 
 // penaltyI4LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func penaltyI4LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second floa
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyI4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last penaltyI4LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, penaltyI4LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type penaltyI4LBFGSCentralDirection struct {
-	s, y   [penaltyI4LBFGSCentralLbfgsMemory][4]float64
-	rho    [penaltyI4LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most penaltyI4LBFGSCentralLbfgsMemory
-}
-
-func (s *penaltyI4LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *penaltyI4LBFGSCentralDirection) compute(g, d *[4]float64) {
-	var alpha [penaltyI4LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * penaltyI4LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = penaltyI4LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := penaltyI4LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyI4LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == penaltyI4LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * penaltyI4LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	penaltyI4LBFGSCentralNegate(d, &q)
-}
-
-func (s *penaltyI4LBFGSCentralDirection) update(step, change *[4]float64) {
-	if !penaltyI4LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == penaltyI4LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < penaltyI4LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / penaltyI4LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *penaltyI4LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// penaltyI4LBFGSCentralDot returns aᵀb.
-func penaltyI4LBFGSCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyI4LBFGSCentralNegate sets out = −x.
-func penaltyI4LBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// penaltyI4LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func penaltyI4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyI4LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/penaltyI4LBFGSCentralDot(s, s))*(sy/penaltyI4LBFGSCentralDot(y, y)) > penaltyI4LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyI4LBFGSCentralVerifyNothing = iota
-	penaltyI4LBFGSCentralVerifyPass    // a difference gradient passed the test
-	penaltyI4LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // penaltyI4LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyI4LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func penaltyI4LBFGSCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyI4LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const penaltyI4LBFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestPenaltyI4LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyI4LBFGSCentralSolverTicks advances a PenaltyI4LBFGSCentralSolver from the spec's start with budgets of PenaltyI4LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyI4LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyI4LBFGSCentralSolverTicks(t *testing.T) {
+	want := PenaltyI4LBFGSCentral(penaltyI4LBFGSCentralTestStart())
+	for _, budget := range []int{PenaltyI4LBFGSCentralTickMinimum, PenaltyI4LBFGSCentralTickMinimum + 1, 2 * PenaltyI4LBFGSCentralTickMinimum, 7 * PenaltyI4LBFGSCentralTickMinimum} {
+		var s PenaltyI4LBFGSCentralSolver
+		s.Start(penaltyI4LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyI4LBFGSCentralRunning {
+				if !penaltyI4LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyI4LBFGSCentralSolver
+	s.Start(penaltyI4LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyI4LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyI4LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyI4LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyI4LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyI4LBFGSCentralTestStart())
+		for s.Advance(PenaltyI4LBFGSCentralTickMinimum).Status == PenaltyI4LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyI4LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyI4LBFGSCentralTestSameResult(a, b PenaltyI4LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyI4LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyI4LBFGSCentral(b *testing.B) {
 	var r PenaltyI4LBFGSCentralResult

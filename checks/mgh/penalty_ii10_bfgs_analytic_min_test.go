@@ -105,6 +105,55 @@ func TestPenaltyII10BFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyII10BFGSAnalyticSolverTicks advances a PenaltyII10BFGSAnalyticSolver from the spec's start with budgets of PenaltyII10BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII10BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII10BFGSAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyII10BFGSAnalytic(penaltyII10BFGSAnalyticTestStart())
+	for _, budget := range []int{PenaltyII10BFGSAnalyticTickMinimum, PenaltyII10BFGSAnalyticTickMinimum + 1, 2 * PenaltyII10BFGSAnalyticTickMinimum, 7 * PenaltyII10BFGSAnalyticTickMinimum} {
+		var s PenaltyII10BFGSAnalyticSolver
+		s.Start(penaltyII10BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII10BFGSAnalyticRunning {
+				if !penaltyII10BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII10BFGSAnalyticSolver
+	s.Start(penaltyII10BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII10BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII10BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII10BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII10BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII10BFGSAnalyticTestStart())
+		for s.Advance(PenaltyII10BFGSAnalyticTickMinimum).Status == PenaltyII10BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII10BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII10BFGSAnalyticTestSameResult(a, b PenaltyII10BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII10BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyII10BFGSAnalytic(b *testing.B) {
 	var r PenaltyII10BFGSAnalyticResult

@@ -47,6 +47,55 @@ func TestPenaltyII10BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyII10BFGSCentralSolverTicks advances a PenaltyII10BFGSCentralSolver from the spec's start with budgets of PenaltyII10BFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII10BFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII10BFGSCentralSolverTicks(t *testing.T) {
+	want := PenaltyII10BFGSCentral(penaltyII10BFGSCentralTestStart())
+	for _, budget := range []int{PenaltyII10BFGSCentralTickMinimum, PenaltyII10BFGSCentralTickMinimum + 1, 2 * PenaltyII10BFGSCentralTickMinimum, 7 * PenaltyII10BFGSCentralTickMinimum} {
+		var s PenaltyII10BFGSCentralSolver
+		s.Start(penaltyII10BFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII10BFGSCentralRunning {
+				if !penaltyII10BFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII10BFGSCentralSolver
+	s.Start(penaltyII10BFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII10BFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII10BFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII10BFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII10BFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII10BFGSCentralTestStart())
+		for s.Advance(PenaltyII10BFGSCentralTickMinimum).Status == PenaltyII10BFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII10BFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII10BFGSCentralTestSameResult(a, b PenaltyII10BFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII10BFGSCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyII10BFGSCentral(b *testing.B) {
 	var r PenaltyII10BFGSCentralResult

@@ -105,6 +105,55 @@ func TestPenaltyII10CGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyII10CGAnalyticSolverTicks advances a PenaltyII10CGAnalyticSolver from the spec's start with budgets of PenaltyII10CGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII10CGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII10CGAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyII10CGAnalytic(penaltyII10CGAnalyticTestStart())
+	for _, budget := range []int{PenaltyII10CGAnalyticTickMinimum, PenaltyII10CGAnalyticTickMinimum + 1, 2 * PenaltyII10CGAnalyticTickMinimum, 7 * PenaltyII10CGAnalyticTickMinimum} {
+		var s PenaltyII10CGAnalyticSolver
+		s.Start(penaltyII10CGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII10CGAnalyticRunning {
+				if !penaltyII10CGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII10CGAnalyticSolver
+	s.Start(penaltyII10CGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII10CGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII10CGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII10CGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII10CGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII10CGAnalyticTestStart())
+		for s.Advance(PenaltyII10CGAnalyticTickMinimum).Status == PenaltyII10CGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII10CGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII10CGAnalyticTestSameResult(a, b PenaltyII10CGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII10CGAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyII10CGAnalytic(b *testing.B) {
 	var r PenaltyII10CGAnalyticResult

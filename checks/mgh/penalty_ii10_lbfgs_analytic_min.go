@@ -26,6 +26,8 @@ const (
 	PenaltyII10LBFGSAnalyticNoDecrease
 	// PenaltyII10LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyII10LBFGSAnalyticDiverged
+	// PenaltyII10LBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyII10LBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyII10LBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PenaltyII10LBFGSAnalyticDiverged:
 		return "diverged"
+	case PenaltyII10LBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func PenaltyII10LBFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyII10LBFGSA
 	}
 }
 
+// PenaltyII10LBFGSAnalyticTickMinimum is the smallest call budget with which every PenaltyII10LBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PenaltyII10LBFGSAnalyticTickMinimum = 48
+
+// PenaltyII10LBFGSAnalyticSolver is a run of PenaltyII10LBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyII10LBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PenaltyII10LBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyII10LBFGSAnalyticRunning ends exactly as PenaltyII10LBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyII10LBFGSAnalytic and PenaltyII10LBFGSAnalyticWithLimits use at most 5592 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is PenaltyII10LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyII10LBFGSAnalyticSolver struct {
+	run       penaltyII10LBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyII10LBFGSAnalyticLimits  // the limits of the runs; PenaltyII10LBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                            // whether SetLimits has set limits
+	started   bool                            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyII10LBFGSAnalyticSolver) SetLimits(limits PenaltyII10LBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyII10LBFGSAnalyticSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PenaltyII10LBFGSAnalyticSolver) StartFrom(from PenaltyII10LBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyII10LBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyII10LBFGSAnalyticSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyII10LBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyII10LBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyII10LBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyII10LBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyII10LBFGSAnalyticSolver) Advance(budget int) PenaltyII10LBFGSAnalyticResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyII10LBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyII10LBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	penaltyII10LBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	penaltyII10LBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyII10LBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyII10LBFGSAnalyticLbfgsMemory    = 5                      // memory
-	penaltyII10LBFGSAnalyticStepTrials     = 48                     // step.trials
-	penaltyII10LBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	penaltyII10LBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyII10LBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyII10LBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	penaltyII10LBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyII10LBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyII10LBFGSAnalyticLbfgsMemory     = 5                      // memory
+	penaltyII10LBFGSAnalyticStepTrials      = 48                     // step.trials
+	penaltyII10LBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	penaltyII10LBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	penaltyII10LBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	penaltyII10LBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyII10LBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyII10LBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyII10LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyticLimits, bounds penaltyII10LBFGSAnalyticBox) penaltyII10LBFGSAnalyticOutcome {
-	x := x0
-	penaltyII10LBFGSAnalyticEnterBox(&x, &bounds)
-	out := penaltyII10LBFGSAnalyticOutcome{x: x, status: PenaltyII10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyII10(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyII10LBFGSAnalyticFinite(fx) || !penaltyII10LBFGSAnalyticFiniteVec(&x) {
-		out.status = PenaltyII10LBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := penaltyII10LBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := penaltyII10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyII10LBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += penaltyII10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
-		out.status = PenaltyII10LBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir penaltyII10LBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(penaltyII10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from penaltyII10LBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                     // whether the run can make no more progress at x
-	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyII10LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyII10LBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyII10LBFGSAnalyticConfirmGradient and settle).
-			calls, ok := penaltyII10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII10LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyII10LBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			penaltyII10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyII10LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyII10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyII10LBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyII10LBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyII10LBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyII10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyII10LBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PenaltyII10LBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyII10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyII10LBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyII10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			penaltyII10LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyII10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyII10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyII10LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !penaltyII10LBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyII10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyII10LBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(penaltyII10LBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyII10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyII10LBFGSAnalyticSearchOutOfBudget:
-			return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyII10LBFGSAnalyticSearchDiverged:
-			return best.ending(PenaltyII10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case penaltyII10LBFGSAnalyticSearchExhausted, penaltyII10LBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyII10LBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyII10LBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyII10LBFGSAnalyticNoDecrease
-			case found.end == penaltyII10LBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = penaltyII10LBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == penaltyII10LBFGSAnalyticSearchTiny:
-				end = PenaltyII10LBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyII10LBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PenaltyII10LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyII10LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyII10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyII10LBFGSAnalyticDifference(&s, &xt, &x)
-		penaltyII10LBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyII10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyII10LBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyII10LBFGSAnalyticUnlimited)
 }
 
 // penaltyII10LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o penaltyII10LBFGSAnalyticOutcome) ending(end PenaltyII10LBFGSAnalyticStat
 	return o
 }
 
-// penaltyII10LBFGSAnalyticEnterBox: without bounds every start is inside.
-func penaltyII10LBFGSAnalyticEnterBox(x *[10]float64, b *penaltyII10LBFGSAnalyticBox) {}
-
-// penaltyII10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func penaltyII10LBFGSAnalyticFinite(v float64) bool {
-	return v >= -penaltyII10LBFGSAnalyticLargestFinite && v <= penaltyII10LBFGSAnalyticLargestFinite
+// penaltyII10LBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyII10LBFGSAnalyticDescent struct {
+	lim       PenaltyII10LBFGSAnalyticLimits
+	stage     int                                 // what advance does next
+	diffs     penaltyII10LBFGSAnalyticDifferences // the box and the difference intervals
+	dir       penaltyII10LBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [10]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                         // the search direction, the last step and its gradient change
+	fx        float64                             // f(x)
+	t, slope  float64                             // the previous iteration's accepted step and slope
+	out, best penaltyII10LBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                             // f(x0)
+	rises     int                                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                // whether g and e at x come from penaltyII10LBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                // whether the run can make no more progress at x
+	retried   int                                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                                 // what to check at x before judging it again
 }
 
-// penaltyII10LBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func penaltyII10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !penaltyII10LBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyII10LBFGSAnalyticDescent) prepare(x0 [10]float64, lim PenaltyII10LBFGSAnalyticLimits, bounds penaltyII10LBFGSAnalyticBox) {
+	r.lim, r.stage = lim, penaltyII10LBFGSAnalyticStageBegin
+	r.diffs = penaltyII10LBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	penaltyII10LBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = penaltyII10LBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PenaltyII10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyII10LBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyII10LBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyII10LBFGSAnalyticSettleCalls and penaltyII10LBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyII10LBFGSAnalyticDescent) advance(budget int) penaltyII10LBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyII10LBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyII10LBFGSAnalyticStageBegin:
+			if left < 1+penaltyII10LBFGSAnalyticCalibrationCost+penaltyII10LBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyII10LBFGSAnalyticStageJudge:
+			if r.verify != penaltyII10LBFGSAnalyticVerifyNothing && left < penaltyII10LBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyII10LBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyII10LBFGSAnalyticDescent) paused() penaltyII10LBFGSAnalyticOutcome {
+	return r.best.ending(PenaltyII10LBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyII10LBFGSAnalyticDescent) finish(end PenaltyII10LBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyII10LBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyII10LBFGSAnalyticDescent) begin() {
+	r.stage = penaltyII10LBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyII10LBFGSAnalyticFinite(r.fx) || !penaltyII10LBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PenaltyII10LBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := penaltyII10LBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyII10LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyII10LBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyII10LBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PenaltyII10LBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyII10LBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyII10LBFGSAnalyticVerifyNothing
+	r.stage = penaltyII10LBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyII10LBFGSAnalyticStageSearch next when the run goes on.
+func (r *penaltyII10LBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != penaltyII10LBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyII10LBFGSAnalyticConfirmGradient and settle).
+		calls, ok := penaltyII10LBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyII10LBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyII10LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !penaltyII10LBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PenaltyII10LBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyII10LBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		penaltyII10LBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyII10LBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyII10LBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyII10LBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyII10LBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyII10LBFGSAnalyticGradientSmall
+		r.stage = penaltyII10LBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyII10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyII10LBFGSAnalyticDerivativeCost == 0 {
+			r.finish(PenaltyII10LBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyII10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyII10LBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyII10LBFGSAnalyticDiverged)
+			return
+		}
+		penaltyII10LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyII10LBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = penaltyII10LBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyII10LBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *penaltyII10LBFGSAnalyticDescent) search() {
+	penaltyII10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyII10LBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyII10LBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyII10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyII10LBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(penaltyII10LBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyII10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := penaltyII10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyII10LBFGSAnalyticSearchOutOfBudget:
+		r.finish(PenaltyII10LBFGSAnalyticOutOfEvaluations)
+		return
+	case penaltyII10LBFGSAnalyticSearchDiverged:
+		r.finish(PenaltyII10LBFGSAnalyticDiverged)
+		return
+	case penaltyII10LBFGSAnalyticSearchExhausted, penaltyII10LBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyII10LBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyII10LBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyII10LBFGSAnalyticNoDecrease
+		case found.end == penaltyII10LBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyII10LBFGSAnalyticVerifyStall, true, penaltyII10LBFGSAnalyticStageJudge
+			return
+		case found.end == penaltyII10LBFGSAnalyticSearchTiny:
+			end = PenaltyII10LBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyII10LBFGSAnalyticFiniteVec(&xt) {
+		r.finish(PenaltyII10LBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyII10LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyII10LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyII10LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyII10LBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	penaltyII10LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyII10LBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyII10LBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyII10LBFGSAnalyticStageJudge
 }
 
 // penaltyII10LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type penaltyII10LBFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10LBFGSAnalyticRoundingFloor)
 	bounds    penaltyII10LBFGSAnalyticBox
-}
-
-// penaltyII10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func penaltyII10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyII10LBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// penaltyII10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) int {
-	PenaltyII10Grad(x, g)
-	return 0
 }
 
 // penaltyII10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func penaltyII10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10LBFGSAnalyticDot(s, s))*(sy/penaltyII10LBFGSAnalyticDot(y, y)) > penaltyII10LBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyII10LBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyII10LBFGSAnalyticStageJudge         // settle when asked (penaltyII10LBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyII10LBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: penaltyII10LBFGSAnalyticIterationCalls
+	penaltyII10LBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// penaltyII10LBFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyII10LBFGSAnalyticEnterBox(x *[10]float64, b *penaltyII10LBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	penaltyII10LBFGSAnalyticVerifyNothing = iota
 	penaltyII10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII10LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func penaltyII10LBFGSAnalyticFinite(v float64) bool {
+	return v >= -penaltyII10LBFGSAnalyticLargestFinite && v <= penaltyII10LBFGSAnalyticLargestFinite
+}
+
+// penaltyII10LBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func penaltyII10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !penaltyII10LBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyII10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyII10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyII10LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// penaltyII10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func penaltyII10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) int {
+	PenaltyII10Grad(x, g)
+	return 0
+}
 
 // penaltyII10LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyII10LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func penaltyII10LBFGSAnalyticDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyII10LBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const penaltyII10LBFGSAnalyticUnlimited = int(^uint(0) >> 1)

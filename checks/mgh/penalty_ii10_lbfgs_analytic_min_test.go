@@ -105,6 +105,55 @@ func TestPenaltyII10LBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyII10LBFGSAnalyticSolverTicks advances a PenaltyII10LBFGSAnalyticSolver from the spec's start with budgets of PenaltyII10LBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII10LBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII10LBFGSAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyII10LBFGSAnalytic(penaltyII10LBFGSAnalyticTestStart())
+	for _, budget := range []int{PenaltyII10LBFGSAnalyticTickMinimum, PenaltyII10LBFGSAnalyticTickMinimum + 1, 2 * PenaltyII10LBFGSAnalyticTickMinimum, 7 * PenaltyII10LBFGSAnalyticTickMinimum} {
+		var s PenaltyII10LBFGSAnalyticSolver
+		s.Start(penaltyII10LBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII10LBFGSAnalyticRunning {
+				if !penaltyII10LBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII10LBFGSAnalyticSolver
+	s.Start(penaltyII10LBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII10LBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII10LBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII10LBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII10LBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII10LBFGSAnalyticTestStart())
+		for s.Advance(PenaltyII10LBFGSAnalyticTickMinimum).Status == PenaltyII10LBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII10LBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII10LBFGSAnalyticTestSameResult(a, b PenaltyII10LBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII10LBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyII10LBFGSAnalytic(b *testing.B) {
 	var r PenaltyII10LBFGSAnalyticResult

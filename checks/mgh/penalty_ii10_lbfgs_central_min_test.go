@@ -47,6 +47,55 @@ func TestPenaltyII10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyII10LBFGSCentralSolverTicks advances a PenaltyII10LBFGSCentralSolver from the spec's start with budgets of PenaltyII10LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII10LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII10LBFGSCentralSolverTicks(t *testing.T) {
+	want := PenaltyII10LBFGSCentral(penaltyII10LBFGSCentralTestStart())
+	for _, budget := range []int{PenaltyII10LBFGSCentralTickMinimum, PenaltyII10LBFGSCentralTickMinimum + 1, 2 * PenaltyII10LBFGSCentralTickMinimum, 7 * PenaltyII10LBFGSCentralTickMinimum} {
+		var s PenaltyII10LBFGSCentralSolver
+		s.Start(penaltyII10LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII10LBFGSCentralRunning {
+				if !penaltyII10LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII10LBFGSCentralSolver
+	s.Start(penaltyII10LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII10LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII10LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII10LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII10LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII10LBFGSCentralTestStart())
+		for s.Advance(PenaltyII10LBFGSCentralTickMinimum).Status == PenaltyII10LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII10LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII10LBFGSCentralTestSameResult(a, b PenaltyII10LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII10LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyII10LBFGSCentral(b *testing.B) {
 	var r PenaltyII10LBFGSCentralResult

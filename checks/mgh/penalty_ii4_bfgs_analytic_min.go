@@ -26,6 +26,8 @@ const (
 	PenaltyII4BFGSAnalyticNoDecrease
 	// PenaltyII4BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyII4BFGSAnalyticDiverged
+	// PenaltyII4BFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyII4BFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyII4BFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PenaltyII4BFGSAnalyticDiverged:
 		return "diverged"
+	case PenaltyII4BFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyII4BFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyII4BFGSAnalyt
 	}
 }
 
+// PenaltyII4BFGSAnalyticTickMinimum is the smallest call budget with which every PenaltyII4BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PenaltyII4BFGSAnalyticTickMinimum = 48
+
+// PenaltyII4BFGSAnalyticSolver is a run of PenaltyII4BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyII4BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PenaltyII4BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyII4BFGSAnalyticRunning ends exactly as PenaltyII4BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyII4BFGSAnalytic and PenaltyII4BFGSAnalyticWithLimits use at most 2952 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PenaltyII4BFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyII4BFGSAnalyticSolver struct {
+	run       penaltyII4BFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyII4BFGSAnalyticLimits  // the limits of the runs; PenaltyII4BFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyII4BFGSAnalyticSolver) SetLimits(limits PenaltyII4BFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyII4BFGSAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PenaltyII4BFGSAnalyticSolver) StartFrom(from PenaltyII4BFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyII4BFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyII4BFGSAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyII4BFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyII4BFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyII4BFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyII4BFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyII4BFGSAnalyticSolver) Advance(budget int) PenaltyII4BFGSAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyII4BFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyII4BFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	penaltyII4BFGSAnalyticStepInitial    = 1.0                    // step.initial
-	penaltyII4BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyII4BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyII4BFGSAnalyticStepTrials     = 48                     // step.trials
-	penaltyII4BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	penaltyII4BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyII4BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyII4BFGSAnalyticStepInitial     = 1.0                    // step.initial
+	penaltyII4BFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyII4BFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyII4BFGSAnalyticStepTrials      = 48                     // step.trials
+	penaltyII4BFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	penaltyII4BFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	penaltyII4BFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	penaltyII4BFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyII4BFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyII4BFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyII4BFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLimits, bounds penaltyII4BFGSAnalyticBox) penaltyII4BFGSAnalyticOutcome {
-	x := x0
-	penaltyII4BFGSAnalyticEnterBox(&x, &bounds)
-	out := penaltyII4BFGSAnalyticOutcome{x: x, status: PenaltyII4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyII4(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyII4BFGSAnalyticFinite(fx) || !penaltyII4BFGSAnalyticFiniteVec(&x) {
-		out.status = PenaltyII4BFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := penaltyII4BFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := penaltyII4BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyII4BFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += penaltyII4BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyII4BFGSAnalyticFiniteVec(&g) {
-		out.status = PenaltyII4BFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir penaltyII4BFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(penaltyII4BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyII4BFGSAnalyticConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyII4BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyII4BFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyII4BFGSAnalyticConfirmGradient and settle).
-			calls, ok := penaltyII4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4BFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyII4BFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			penaltyII4BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyII4BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyII4BFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyII4BFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyII4BFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyII4BFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyII4BFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyII4BFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PenaltyII4BFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyII4BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyII4BFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyII4BFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			penaltyII4BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyII4BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyII4BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyII4BFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !penaltyII4BFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyII4BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyII4BFGSAnalyticDot(&g, &d)
-		}
-		first := float64(penaltyII4BFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyII4BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyII4BFGSAnalyticSearchOutOfBudget:
-			return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyII4BFGSAnalyticSearchDiverged:
-			return best.ending(PenaltyII4BFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case penaltyII4BFGSAnalyticSearchExhausted, penaltyII4BFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyII4BFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyII4BFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyII4BFGSAnalyticNoDecrease
-			case found.end == penaltyII4BFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = penaltyII4BFGSAnalyticVerifyStall, true
-				continue
-			case found.end == penaltyII4BFGSAnalyticSearchTiny:
-				end = PenaltyII4BFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyII4BFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PenaltyII4BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyII4BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyII4BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyII4BFGSAnalyticDifference(&s, &xt, &x)
-		penaltyII4BFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyII4BFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyII4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyII4BFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyII4BFGSAnalyticUnlimited)
 }
 
 // penaltyII4BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o penaltyII4BFGSAnalyticOutcome) ending(end PenaltyII4BFGSAnalyticStatus, 
 	return o
 }
 
-// penaltyII4BFGSAnalyticEnterBox: without bounds every start is inside.
-func penaltyII4BFGSAnalyticEnterBox(x *[4]float64, b *penaltyII4BFGSAnalyticBox) {}
-
-// penaltyII4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func penaltyII4BFGSAnalyticFinite(v float64) bool {
-	return v >= -penaltyII4BFGSAnalyticLargestFinite && v <= penaltyII4BFGSAnalyticLargestFinite
+// penaltyII4BFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyII4BFGSAnalyticDescent struct {
+	lim       PenaltyII4BFGSAnalyticLimits
+	stage     int                               // what advance does next
+	diffs     penaltyII4BFGSAnalyticDifferences // the box and the difference intervals
+	dir       penaltyII4BFGSAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                        // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                        // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best penaltyII4BFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from penaltyII4BFGSAnalyticConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
 }
 
-// penaltyII4BFGSAnalyticFiniteVec reports whether every component of x is finite.
-func penaltyII4BFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyII4BFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyII4BFGSAnalyticDescent) prepare(x0 [4]float64, lim PenaltyII4BFGSAnalyticLimits, bounds penaltyII4BFGSAnalyticBox) {
+	r.lim, r.stage = lim, penaltyII4BFGSAnalyticStageBegin
+	r.diffs = penaltyII4BFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	penaltyII4BFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = penaltyII4BFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PenaltyII4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyII4BFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyII4BFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyII4BFGSAnalyticSettleCalls and penaltyII4BFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyII4BFGSAnalyticDescent) advance(budget int) penaltyII4BFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyII4BFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyII4BFGSAnalyticStageBegin:
+			if left < 1+penaltyII4BFGSAnalyticCalibrationCost+penaltyII4BFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyII4BFGSAnalyticStageJudge:
+			if r.verify != penaltyII4BFGSAnalyticVerifyNothing && left < penaltyII4BFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyII4BFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyII4BFGSAnalyticDescent) paused() penaltyII4BFGSAnalyticOutcome {
+	return r.best.ending(PenaltyII4BFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyII4BFGSAnalyticDescent) finish(end PenaltyII4BFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyII4BFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyII4BFGSAnalyticDescent) begin() {
+	r.stage = penaltyII4BFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyII4BFGSAnalyticFinite(r.fx) || !penaltyII4BFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PenaltyII4BFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := penaltyII4BFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyII4BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyII4BFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyII4BFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PenaltyII4BFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyII4BFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyII4BFGSAnalyticVerifyNothing
+	r.stage = penaltyII4BFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyII4BFGSAnalyticStageSearch next when the run goes on.
+func (r *penaltyII4BFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != penaltyII4BFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyII4BFGSAnalyticConfirmGradient and settle).
+		calls, ok := penaltyII4BFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyII4BFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyII4BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !penaltyII4BFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PenaltyII4BFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyII4BFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		penaltyII4BFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyII4BFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyII4BFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyII4BFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyII4BFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyII4BFGSAnalyticGradientSmall
+		r.stage = penaltyII4BFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyII4BFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyII4BFGSAnalyticDerivativeCost == 0 {
+			r.finish(PenaltyII4BFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyII4BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyII4BFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyII4BFGSAnalyticDiverged)
+			return
+		}
+		penaltyII4BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyII4BFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = penaltyII4BFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyII4BFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *penaltyII4BFGSAnalyticDescent) search() {
+	penaltyII4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyII4BFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyII4BFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyII4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyII4BFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(penaltyII4BFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyII4BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := penaltyII4BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyII4BFGSAnalyticSearchOutOfBudget:
+		r.finish(PenaltyII4BFGSAnalyticOutOfEvaluations)
+		return
+	case penaltyII4BFGSAnalyticSearchDiverged:
+		r.finish(PenaltyII4BFGSAnalyticDiverged)
+		return
+	case penaltyII4BFGSAnalyticSearchExhausted, penaltyII4BFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyII4BFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyII4BFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyII4BFGSAnalyticNoDecrease
+		case found.end == penaltyII4BFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyII4BFGSAnalyticVerifyStall, true, penaltyII4BFGSAnalyticStageJudge
+			return
+		case found.end == penaltyII4BFGSAnalyticSearchTiny:
+			end = PenaltyII4BFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyII4BFGSAnalyticFiniteVec(&xt) {
+		r.finish(PenaltyII4BFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyII4BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyII4BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyII4BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyII4BFGSAnalyticDifference(&r.s, &xt, &r.x)
+	penaltyII4BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyII4BFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyII4BFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyII4BFGSAnalyticStageJudge
 }
 
 // penaltyII4BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type penaltyII4BFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4BFGSAnalyticRoundingFloor)
 	bounds    penaltyII4BFGSAnalyticBox
-}
-
-// penaltyII4BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func penaltyII4BFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyII4BFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// penaltyII4BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) int {
-	PenaltyII4Grad(x, g)
-	return 0
 }
 
 // penaltyII4BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func penaltyII4BFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4BFGSAnalyticDot(s, s))*(sy/penaltyII4BFGSAnalyticDot(y, y)) > penaltyII4BFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyII4BFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyII4BFGSAnalyticStageJudge         // settle when asked (penaltyII4BFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyII4BFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: penaltyII4BFGSAnalyticIterationCalls
+	penaltyII4BFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// penaltyII4BFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyII4BFGSAnalyticEnterBox(x *[4]float64, b *penaltyII4BFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	penaltyII4BFGSAnalyticVerifyNothing = iota
 	penaltyII4BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII4BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func penaltyII4BFGSAnalyticFinite(v float64) bool {
+	return v >= -penaltyII4BFGSAnalyticLargestFinite && v <= penaltyII4BFGSAnalyticLargestFinite
+}
+
+// penaltyII4BFGSAnalyticFiniteVec reports whether every component of x is finite.
+func penaltyII4BFGSAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !penaltyII4BFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyII4BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyII4BFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyII4BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// penaltyII4BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func penaltyII4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) int {
+	PenaltyII4Grad(x, g)
+	return 0
+}
 
 // penaltyII4BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyII4BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func penaltyII4BFGSAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyII4BFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const penaltyII4BFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestPenaltyII4BFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPenaltyII4BFGSAnalyticSolverTicks advances a PenaltyII4BFGSAnalyticSolver from the spec's start with budgets of PenaltyII4BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII4BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII4BFGSAnalyticSolverTicks(t *testing.T) {
+	want := PenaltyII4BFGSAnalytic(penaltyII4BFGSAnalyticTestStart())
+	for _, budget := range []int{PenaltyII4BFGSAnalyticTickMinimum, PenaltyII4BFGSAnalyticTickMinimum + 1, 2 * PenaltyII4BFGSAnalyticTickMinimum, 7 * PenaltyII4BFGSAnalyticTickMinimum} {
+		var s PenaltyII4BFGSAnalyticSolver
+		s.Start(penaltyII4BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII4BFGSAnalyticRunning {
+				if !penaltyII4BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII4BFGSAnalyticSolver
+	s.Start(penaltyII4BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII4BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII4BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII4BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII4BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII4BFGSAnalyticTestStart())
+		for s.Advance(PenaltyII4BFGSAnalyticTickMinimum).Status == PenaltyII4BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII4BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII4BFGSAnalyticTestSameResult(a, b PenaltyII4BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII4BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPenaltyII4BFGSAnalytic(b *testing.B) {
 	var r PenaltyII4BFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	PenaltyII4CGCentralNoDecrease
 	// PenaltyII4CGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyII4CGCentralDiverged
+	// PenaltyII4CGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyII4CGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyII4CGCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyII4CGCentralDiverged:
 		return "diverged"
+	case PenaltyII4CGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PenaltyII4CGCentralWithLimits(x0 [4]float64, limits PenaltyII4CGCentralLimi
 	}
 }
 
+// PenaltyII4CGCentralTickMinimum is the smallest call budget with which every PenaltyII4CGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const PenaltyII4CGCentralTickMinimum = 432
+
+// PenaltyII4CGCentralSolver is a run of PenaltyII4CGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyII4CGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least PenaltyII4CGCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyII4CGCentralRunning ends exactly as PenaltyII4CGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyII4CGCentral and PenaltyII4CGCentralWithLimits use at most 2896 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PenaltyII4CGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyII4CGCentralSolver struct {
+	run       penaltyII4CGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyII4CGCentralLimits  // the limits of the runs; PenaltyII4CGCentralDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyII4CGCentralSolver) SetLimits(limits PenaltyII4CGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyII4CGCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyII4CGCentralSolver) StartFrom(from PenaltyII4CGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyII4CGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyII4CGCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyII4CGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyII4CGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyII4CGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyII4CGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyII4CGCentralSolver) Advance(budget int) PenaltyII4CGCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyII4CGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyII4CGCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyII4CGCentralStepInitial    = 1.0                    // step.initial
-	penaltyII4CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyII4CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	penaltyII4CGCentralStepTrials     = 48                     // step.trials
-	penaltyII4CGCentralDerivativeCost = 8                      // objective calls per gradient
-	penaltyII4CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyII4CGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyII4CGCentralStepInitial     = 1.0                    // step.initial
+	penaltyII4CGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyII4CGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	penaltyII4CGCentralStepTrials      = 48                     // step.trials
+	penaltyII4CGCentralDerivativeCost  = 8                      // objective calls per gradient
+	penaltyII4CGCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	penaltyII4CGCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	penaltyII4CGCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyII4CGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyII4CGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyII4CGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits, bounds penaltyII4CGCentralBox) penaltyII4CGCentralOutcome {
-	x := x0
-	penaltyII4CGCentralEnterBox(&x, &bounds)
-	out := penaltyII4CGCentralOutcome{x: x, status: PenaltyII4CGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyII4(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyII4CGCentralFinite(fx) || !penaltyII4CGCentralFiniteVec(&x) {
-		out.status = PenaltyII4CGCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyII4CGCentralDifferences{bounds: bounds}
-	calls, ok := penaltyII4CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyII4CGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += penaltyII4CGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyII4CGCentralFiniteVec(&g) {
-		out.status = PenaltyII4CGCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyII4CGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(penaltyII4CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from penaltyII4CGCentralConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyII4CGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyII4CGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyII4CGCentralConfirmGradient and settle).
-			calls, ok := penaltyII4CGCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4CGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4CGCentralFiniteVec(&g) {
-				return best.ending(PenaltyII4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyII4CGCentralVerifyNothing, true
-		case !confirmed:
-			penaltyII4CGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyII4CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyII4CGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyII4CGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyII4CGCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyII4CGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyII4CGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyII4CGCentralDerivativeCost == 0 {
-				return best.ending(PenaltyII4CGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyII4CGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyII4CGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyII4CGCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyII4CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyII4CGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyII4CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyII4CGCentralDot(&g, &d)
-		if !(now < 0) || !penaltyII4CGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyII4CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyII4CGCentralDot(&g, &d)
-		}
-		first := float64(penaltyII4CGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyII4CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyII4CGCentralSearchOutOfBudget:
-			return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyII4CGCentralSearchDiverged:
-			return best.ending(PenaltyII4CGCentralDiverged, out.iterations, out.evaluations)
-		case penaltyII4CGCentralSearchExhausted, penaltyII4CGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyII4CGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyII4CGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyII4CGCentralNoDecrease
-			case found.end == penaltyII4CGCentralSearchTiny && canSettle:
-				verify, stalled = penaltyII4CGCentralVerifyStall, true
-				continue
-			case found.end == penaltyII4CGCentralSearchTiny:
-				end = PenaltyII4CGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyII4CGCentralFiniteVec(&xt) {
-			return best.ending(PenaltyII4CGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyII4CGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyII4CGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyII4CGCentralDifference(&s, &xt, &x)
-		penaltyII4CGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyII4CGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyII4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyII4CGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyII4CGCentralUnlimited)
 }
 
 // penaltyII4CGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o penaltyII4CGCentralOutcome) ending(end PenaltyII4CGCentralStatus, iterat
 	return o
 }
 
-// penaltyII4CGCentralEnterBox: without bounds every start is inside.
-func penaltyII4CGCentralEnterBox(x *[4]float64, b *penaltyII4CGCentralBox) {}
-
-// penaltyII4CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func penaltyII4CGCentralFinite(v float64) bool {
-	return v >= -penaltyII4CGCentralLargestFinite && v <= penaltyII4CGCentralLargestFinite
+// penaltyII4CGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyII4CGCentralDescent struct {
+	lim       PenaltyII4CGCentralLimits
+	stage     int                            // what advance does next
+	diffs     penaltyII4CGCentralDifferences // the box and the difference intervals
+	dir       penaltyII4CGCentralDirection   // the direction's memory
+	x, g, e   [4]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best penaltyII4CGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from penaltyII4CGCentralConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
 }
 
-// penaltyII4CGCentralFiniteVec reports whether every component of x is finite.
-func penaltyII4CGCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyII4CGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyII4CGCentralDescent) prepare(x0 [4]float64, lim PenaltyII4CGCentralLimits, bounds penaltyII4CGCentralBox) {
+	r.lim, r.stage = lim, penaltyII4CGCentralStageBegin
+	r.diffs = penaltyII4CGCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyII4CGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = penaltyII4CGCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyII4CGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyII4CGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyII4CGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyII4CGCentralSettleCalls and penaltyII4CGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyII4CGCentralDescent) advance(budget int) penaltyII4CGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyII4CGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyII4CGCentralStageBegin:
+			if left < 1+penaltyII4CGCentralCalibrationCost+penaltyII4CGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyII4CGCentralStageJudge:
+			if r.verify != penaltyII4CGCentralVerifyNothing && left < penaltyII4CGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyII4CGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyII4CGCentralDescent) paused() penaltyII4CGCentralOutcome {
+	return r.best.ending(PenaltyII4CGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyII4CGCentralDescent) finish(end PenaltyII4CGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyII4CGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyII4CGCentralDescent) begin() {
+	r.stage = penaltyII4CGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyII4CGCentralFinite(r.fx) || !penaltyII4CGCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyII4CGCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyII4CGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyII4CGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyII4CGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyII4CGCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyII4CGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyII4CGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyII4CGCentralVerifyNothing
+	r.stage = penaltyII4CGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyII4CGCentralStageSearch next when the run goes on.
+func (r *penaltyII4CGCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyII4CGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyII4CGCentralConfirmGradient and settle).
+		calls, ok := penaltyII4CGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyII4CGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyII4CGCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyII4CGCentralFiniteVec(&r.g) {
+			r.finish(PenaltyII4CGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyII4CGCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyII4CGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyII4CGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyII4CGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyII4CGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyII4CGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyII4CGCentralGradientSmall
+		r.stage = penaltyII4CGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyII4CGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyII4CGCentralDerivativeCost == 0 {
+			r.finish(PenaltyII4CGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyII4CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyII4CGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyII4CGCentralDiverged)
+			return
+		}
+		penaltyII4CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyII4CGCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyII4CGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyII4CGCentralStageJudge next when the run
+// goes on.
+func (r *penaltyII4CGCentralDescent) search() {
+	penaltyII4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyII4CGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyII4CGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyII4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyII4CGCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyII4CGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyII4CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := penaltyII4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyII4CGCentralSearchOutOfBudget:
+		r.finish(PenaltyII4CGCentralOutOfEvaluations)
+		return
+	case penaltyII4CGCentralSearchDiverged:
+		r.finish(PenaltyII4CGCentralDiverged)
+		return
+	case penaltyII4CGCentralSearchExhausted, penaltyII4CGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyII4CGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyII4CGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyII4CGCentralNoDecrease
+		case found.end == penaltyII4CGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyII4CGCentralVerifyStall, true, penaltyII4CGCentralStageJudge
+			return
+		case found.end == penaltyII4CGCentralSearchTiny:
+			end = PenaltyII4CGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyII4CGCentralFiniteVec(&xt) {
+		r.finish(PenaltyII4CGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyII4CGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyII4CGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyII4CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyII4CGCentralDifference(&r.s, &xt, &r.x)
+	penaltyII4CGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyII4CGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyII4CGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyII4CGCentralStageJudge
 }
 
 // penaltyII4CGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type penaltyII4CGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4CGCentralRoundingFloor)
 	bounds    penaltyII4CGCentralBox
+}
+
+// penaltyII4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type penaltyII4CGCentralDirection struct {
+	previous [4]float64 // d₋₁
+	change   [4]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *penaltyII4CGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *penaltyII4CGCentralDirection) compute(g, d *[4]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
+		beta = penaltyII4CGCentralLarger(penaltyII4CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = penaltyII4CGCentralDot(g, g)
+}
+
+func (s *penaltyII4CGCentralDirection) update(step, change *[4]float64) {
+	s.change = *change
+}
+
+func (s *penaltyII4CGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return penaltyII4CGCentralScaledTrial(t, slope, now)
+}
+
+// penaltyII4CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyII4CGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyII4CGCentralDot returns aᵀb.
+func penaltyII4CGCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyII4CGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to penaltyII4CGCentralStepInitial.
+func penaltyII4CGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !penaltyII4CGCentralFinite(next) {
+		return penaltyII4CGCentralStepInitial
+	}
+	return next
+}
+
+// penaltyII4CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func penaltyII4CGCentralFinite(v float64) bool {
+	return v >= -penaltyII4CGCentralLargestFinite && v <= penaltyII4CGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyII4CGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyII4CGCentralStageJudge         // settle when asked (penaltyII4CGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyII4CGCentralStageSearch        // the line search and the gradient at the accepted point: penaltyII4CGCentralIterationCalls
+	penaltyII4CGCentralStageOver          // the run has ended; out is its result
+)
+
+// penaltyII4CGCentralEnterBox: without bounds every start is inside.
+func penaltyII4CGCentralEnterBox(x *[4]float64, b *penaltyII4CGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4CGCentralVerifyNothing = iota
+	penaltyII4CGCentralVerifyPass    // a difference gradient passed the test
+	penaltyII4CGCentralVerifyStall   // no step makes progress
+)
+
+// penaltyII4CGCentralFiniteVec reports whether every component of x is finite.
+func penaltyII4CGCentralFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !penaltyII4CGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4CGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func penaltyII4CGCentralAbs(v float64) float64 {
 // penaltyII4CGCentralSquareRoot returns √v.
 func penaltyII4CGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// penaltyII4CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyII4CGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // penaltyII4CGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func penaltyII4CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float6
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyII4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type penaltyII4CGCentralDirection struct {
-	previous [4]float64 // d₋₁
-	change   [4]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *penaltyII4CGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *penaltyII4CGCentralDirection) compute(g, d *[4]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
-		beta = penaltyII4CGCentralLarger(penaltyII4CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = penaltyII4CGCentralDot(g, g)
-}
-
-func (s *penaltyII4CGCentralDirection) update(step, change *[4]float64) {
-	s.change = *change
-}
-
-func (s *penaltyII4CGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return penaltyII4CGCentralScaledTrial(t, slope, now)
-}
-
-// penaltyII4CGCentralDot returns aᵀb.
-func penaltyII4CGCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyII4CGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to penaltyII4CGCentralStepInitial.
-func penaltyII4CGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !penaltyII4CGCentralFinite(next) {
-		return penaltyII4CGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyII4CGCentralVerifyNothing = iota
-	penaltyII4CGCentralVerifyPass    // a difference gradient passed the test
-	penaltyII4CGCentralVerifyStall   // no step makes progress
-)
 
 // penaltyII4CGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyII4CGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func penaltyII4CGCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyII4CGCentralUnlimited is a tick budget that never pauses a run.
+const penaltyII4CGCentralUnlimited = int(^uint(0) >> 1)

@@ -26,6 +26,8 @@ const (
 	PenaltyII4LBFGSCentralNoDecrease
 	// PenaltyII4LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PenaltyII4LBFGSCentralDiverged
+	// PenaltyII4LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PenaltyII4LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PenaltyII4LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case PenaltyII4LBFGSCentralDiverged:
 		return "diverged"
+	case PenaltyII4LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func PenaltyII4LBFGSCentralWithLimits(x0 [4]float64, limits PenaltyII4LBFGSCentr
 	}
 }
 
+// PenaltyII4LBFGSCentralTickMinimum is the smallest call budget with which every PenaltyII4LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const PenaltyII4LBFGSCentralTickMinimum = 432
+
+// PenaltyII4LBFGSCentralSolver is a run of PenaltyII4LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyII4LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least PenaltyII4LBFGSCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyII4LBFGSCentralRunning ends exactly as PenaltyII4LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyII4LBFGSCentral and PenaltyII4LBFGSCentralWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PenaltyII4LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PenaltyII4LBFGSCentralSolver struct {
+	run       penaltyII4LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PenaltyII4LBFGSCentralLimits  // the limits of the runs; PenaltyII4LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PenaltyII4LBFGSCentralSolver) SetLimits(limits PenaltyII4LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PenaltyII4LBFGSCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PenaltyII4LBFGSCentralSolver) StartFrom(from PenaltyII4LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *PenaltyII4LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PenaltyII4LBFGSCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PenaltyII4LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, penaltyII4LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PenaltyII4LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PenaltyII4LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PenaltyII4LBFGSCentralSolver) Advance(budget int) PenaltyII4LBFGSCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PenaltyII4LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PenaltyII4LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyII4LBFGSCentralStepInitial    = 1.0                    // step.initial
-	penaltyII4LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyII4LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyII4LBFGSCentralLbfgsMemory    = 5                      // memory
-	penaltyII4LBFGSCentralStepTrials     = 48                     // step.trials
-	penaltyII4LBFGSCentralDerivativeCost = 8                      // objective calls per gradient
-	penaltyII4LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	penaltyII4LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	penaltyII4LBFGSCentralStepInitial     = 1.0                    // step.initial
+	penaltyII4LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	penaltyII4LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	penaltyII4LBFGSCentralLbfgsMemory     = 5                      // memory
+	penaltyII4LBFGSCentralStepTrials      = 48                     // step.trials
+	penaltyII4LBFGSCentralDerivativeCost  = 8                      // objective calls per gradient
+	penaltyII4LBFGSCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	penaltyII4LBFGSCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	penaltyII4LBFGSCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	penaltyII4LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyII4LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // penaltyII4LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLimits, bounds penaltyII4LBFGSCentralBox) penaltyII4LBFGSCentralOutcome {
-	x := x0
-	penaltyII4LBFGSCentralEnterBox(&x, &bounds)
-	out := penaltyII4LBFGSCentralOutcome{x: x, status: PenaltyII4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PenaltyII4(&x)
-	out.f, out.evaluations = fx, 1
-	if !penaltyII4LBFGSCentralFinite(fx) || !penaltyII4LBFGSCentralFiniteVec(&x) {
-		out.status = PenaltyII4LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := penaltyII4LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := penaltyII4LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+penaltyII4LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += penaltyII4LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !penaltyII4LBFGSCentralFiniteVec(&g) {
-		out.status = PenaltyII4LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir penaltyII4LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(penaltyII4LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyII4LBFGSCentralConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := penaltyII4LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != penaltyII4LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see penaltyII4LBFGSCentralConfirmGradient and settle).
-			calls, ok := penaltyII4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyII4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = penaltyII4LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			penaltyII4LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := penaltyII4LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, penaltyII4LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * penaltyII4LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (penaltyII4LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = PenaltyII4LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = penaltyII4LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if penaltyII4LBFGSCentralDerivativeCost == 0 {
-				return best.ending(PenaltyII4LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if penaltyII4LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = penaltyII4LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PenaltyII4LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			penaltyII4LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PenaltyII4LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		penaltyII4LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := penaltyII4LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !penaltyII4LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			penaltyII4LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = penaltyII4LBFGSCentralDot(&g, &d)
-		}
-		first := float64(penaltyII4LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := penaltyII4LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case penaltyII4LBFGSCentralSearchOutOfBudget:
-			return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case penaltyII4LBFGSCentralSearchDiverged:
-			return best.ending(PenaltyII4LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case penaltyII4LBFGSCentralSearchExhausted, penaltyII4LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see penaltyII4LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PenaltyII4LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PenaltyII4LBFGSCentralNoDecrease
-			case found.end == penaltyII4LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = penaltyII4LBFGSCentralVerifyStall, true
-				continue
-			case found.end == penaltyII4LBFGSCentralSearchTiny:
-				end = PenaltyII4LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !penaltyII4LBFGSCentralFiniteVec(&xt) {
-			return best.ending(PenaltyII4LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+penaltyII4LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += penaltyII4LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		penaltyII4LBFGSCentralDifference(&s, &xt, &x)
-		penaltyII4LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !penaltyII4LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PenaltyII4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r penaltyII4LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(penaltyII4LBFGSCentralUnlimited)
 }
 
 // penaltyII4LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o penaltyII4LBFGSCentralOutcome) ending(end PenaltyII4LBFGSCentralStatus, 
 	return o
 }
 
+// penaltyII4LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type penaltyII4LBFGSCentralDescent struct {
+	lim       PenaltyII4LBFGSCentralLimits
+	stage     int                               // what advance does next
+	diffs     penaltyII4LBFGSCentralDifferences // the box and the difference intervals
+	dir       penaltyII4LBFGSCentralDirection   // the direction's memory
+	x, g, e   [4]float64                        // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                        // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best penaltyII4LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from penaltyII4LBFGSCentralConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *penaltyII4LBFGSCentralDescent) prepare(x0 [4]float64, lim PenaltyII4LBFGSCentralLimits, bounds penaltyII4LBFGSCentralBox) {
+	r.lim, r.stage = lim, penaltyII4LBFGSCentralStageBegin
+	r.diffs = penaltyII4LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	penaltyII4LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = penaltyII4LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: PenaltyII4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *penaltyII4LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PenaltyII4LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, penaltyII4LBFGSCentralSettleCalls and penaltyII4LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *penaltyII4LBFGSCentralDescent) advance(budget int) penaltyII4LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != penaltyII4LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case penaltyII4LBFGSCentralStageBegin:
+			if left < 1+penaltyII4LBFGSCentralCalibrationCost+penaltyII4LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case penaltyII4LBFGSCentralStageJudge:
+			if r.verify != penaltyII4LBFGSCentralVerifyNothing && left < penaltyII4LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < penaltyII4LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *penaltyII4LBFGSCentralDescent) paused() penaltyII4LBFGSCentralOutcome {
+	return r.best.ending(PenaltyII4LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *penaltyII4LBFGSCentralDescent) finish(end PenaltyII4LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = penaltyII4LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *penaltyII4LBFGSCentralDescent) begin() {
+	r.stage = penaltyII4LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !penaltyII4LBFGSCentralFinite(r.fx) || !penaltyII4LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = PenaltyII4LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := penaltyII4LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+penaltyII4LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += penaltyII4LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !penaltyII4LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = PenaltyII4LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = penaltyII4LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, penaltyII4LBFGSCentralVerifyNothing
+	r.stage = penaltyII4LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves penaltyII4LBFGSCentralStageSearch next when the run goes on.
+func (r *penaltyII4LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != penaltyII4LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see penaltyII4LBFGSCentralConfirmGradient and settle).
+		calls, ok := penaltyII4LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == penaltyII4LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PenaltyII4LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !penaltyII4LBFGSCentralFiniteVec(&r.g) {
+			r.finish(PenaltyII4LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = penaltyII4LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		penaltyII4LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := penaltyII4LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, penaltyII4LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * penaltyII4LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (penaltyII4LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PenaltyII4LBFGSCentralGradientSmall
+		r.stage = penaltyII4LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = penaltyII4LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if penaltyII4LBFGSCentralDerivativeCost == 0 {
+			r.finish(PenaltyII4LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if penaltyII4LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = penaltyII4LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PenaltyII4LBFGSCentralDiverged)
+			return
+		}
+		penaltyII4LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PenaltyII4LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = penaltyII4LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves penaltyII4LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *penaltyII4LBFGSCentralDescent) search() {
+	penaltyII4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := penaltyII4LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !penaltyII4LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		penaltyII4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = penaltyII4LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(penaltyII4LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := penaltyII4LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := penaltyII4LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case penaltyII4LBFGSCentralSearchOutOfBudget:
+		r.finish(PenaltyII4LBFGSCentralOutOfEvaluations)
+		return
+	case penaltyII4LBFGSCentralSearchDiverged:
+		r.finish(PenaltyII4LBFGSCentralDiverged)
+		return
+	case penaltyII4LBFGSCentralSearchExhausted, penaltyII4LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see penaltyII4LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PenaltyII4LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PenaltyII4LBFGSCentralNoDecrease
+		case found.end == penaltyII4LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = penaltyII4LBFGSCentralVerifyStall, true, penaltyII4LBFGSCentralStageJudge
+			return
+		case found.end == penaltyII4LBFGSCentralSearchTiny:
+			end = PenaltyII4LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !penaltyII4LBFGSCentralFiniteVec(&xt) {
+		r.finish(PenaltyII4LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+penaltyII4LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PenaltyII4LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += penaltyII4LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	penaltyII4LBFGSCentralDifference(&r.s, &xt, &r.x)
+	penaltyII4LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !penaltyII4LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PenaltyII4LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = penaltyII4LBFGSCentralStageJudge
+}
+
+// penaltyII4LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type penaltyII4LBFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSCentralRoundingFloor)
+	bounds    penaltyII4LBFGSCentralBox
+}
+
+// penaltyII4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last penaltyII4LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, penaltyII4LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type penaltyII4LBFGSCentralDirection struct {
+	s, y   [penaltyII4LBFGSCentralLbfgsMemory][4]float64
+	rho    [penaltyII4LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most penaltyII4LBFGSCentralLbfgsMemory
+}
+
+func (s *penaltyII4LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *penaltyII4LBFGSCentralDirection) compute(g, d *[4]float64) {
+	var alpha [penaltyII4LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * penaltyII4LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = penaltyII4LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := penaltyII4LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyII4LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == penaltyII4LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * penaltyII4LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	penaltyII4LBFGSCentralNegate(d, &q)
+}
+
+func (s *penaltyII4LBFGSCentralDirection) update(step, change *[4]float64) {
+	if !penaltyII4LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == penaltyII4LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < penaltyII4LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / penaltyII4LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *penaltyII4LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// penaltyII4LBFGSCentralDot returns aᵀb.
+func penaltyII4LBFGSCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// penaltyII4LBFGSCentralNegate sets out = −x.
+func penaltyII4LBFGSCentralNegate(out, x *[4]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// penaltyII4LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func penaltyII4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
+	sy := penaltyII4LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/penaltyII4LBFGSCentralDot(s, s))*(sy/penaltyII4LBFGSCentralDot(y, y)) > penaltyII4LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	penaltyII4LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	penaltyII4LBFGSCentralStageJudge         // settle when asked (penaltyII4LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	penaltyII4LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: penaltyII4LBFGSCentralIterationCalls
+	penaltyII4LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // penaltyII4LBFGSCentralEnterBox: without bounds every start is inside.
 func penaltyII4LBFGSCentralEnterBox(x *[4]float64, b *penaltyII4LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4LBFGSCentralVerifyNothing = iota
+	penaltyII4LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyII4LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // penaltyII4LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func penaltyII4LBFGSCentralFiniteVec(x *[4]float64) bool {
 		}
 	}
 	return true
-}
-
-// penaltyII4LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type penaltyII4LBFGSCentralDifferences struct {
-	ratio     [4]float64
-	curvature [4]float64
-	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSCentralRoundingFloor)
-	bounds    penaltyII4LBFGSCentralBox
 }
 
 // penaltyII4LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func penaltyII4LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second flo
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// penaltyII4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last penaltyII4LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, penaltyII4LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type penaltyII4LBFGSCentralDirection struct {
-	s, y   [penaltyII4LBFGSCentralLbfgsMemory][4]float64
-	rho    [penaltyII4LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most penaltyII4LBFGSCentralLbfgsMemory
-}
-
-func (s *penaltyII4LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *penaltyII4LBFGSCentralDirection) compute(g, d *[4]float64) {
-	var alpha [penaltyII4LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * penaltyII4LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = penaltyII4LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := penaltyII4LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyII4LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == penaltyII4LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * penaltyII4LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	penaltyII4LBFGSCentralNegate(d, &q)
-}
-
-func (s *penaltyII4LBFGSCentralDirection) update(step, change *[4]float64) {
-	if !penaltyII4LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == penaltyII4LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < penaltyII4LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / penaltyII4LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *penaltyII4LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// penaltyII4LBFGSCentralDot returns aᵀb.
-func penaltyII4LBFGSCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// penaltyII4LBFGSCentralNegate sets out = −x.
-func penaltyII4LBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// penaltyII4LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func penaltyII4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyII4LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/penaltyII4LBFGSCentralDot(s, s))*(sy/penaltyII4LBFGSCentralDot(y, y)) > penaltyII4LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	penaltyII4LBFGSCentralVerifyNothing = iota
-	penaltyII4LBFGSCentralVerifyPass    // a difference gradient passed the test
-	penaltyII4LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // penaltyII4LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (penaltyII4LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func penaltyII4LBFGSCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// penaltyII4LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const penaltyII4LBFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestPenaltyII4LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPenaltyII4LBFGSCentralSolverTicks advances a PenaltyII4LBFGSCentralSolver from the spec's start with budgets of PenaltyII4LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PenaltyII4LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPenaltyII4LBFGSCentralSolverTicks(t *testing.T) {
+	want := PenaltyII4LBFGSCentral(penaltyII4LBFGSCentralTestStart())
+	for _, budget := range []int{PenaltyII4LBFGSCentralTickMinimum, PenaltyII4LBFGSCentralTickMinimum + 1, 2 * PenaltyII4LBFGSCentralTickMinimum, 7 * PenaltyII4LBFGSCentralTickMinimum} {
+		var s PenaltyII4LBFGSCentralSolver
+		s.Start(penaltyII4LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PenaltyII4LBFGSCentralRunning {
+				if !penaltyII4LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PenaltyII4LBFGSCentralSolver
+	s.Start(penaltyII4LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PenaltyII4LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPenaltyII4LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPenaltyII4LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PenaltyII4LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(penaltyII4LBFGSCentralTestStart())
+		for s.Advance(PenaltyII4LBFGSCentralTickMinimum).Status == PenaltyII4LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// penaltyII4LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func penaltyII4LBFGSCentralTestSameResult(a, b PenaltyII4LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPenaltyII4LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPenaltyII4LBFGSCentral(b *testing.B) {
 	var r PenaltyII4LBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	PowellBadlyScaledBFGSAnalyticNoDecrease
 	// PowellBadlyScaledBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PowellBadlyScaledBFGSAnalyticDiverged
+	// PowellBadlyScaledBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PowellBadlyScaledBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PowellBadlyScaledBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PowellBadlyScaledBFGSAnalyticDiverged:
 		return "diverged"
+	case PowellBadlyScaledBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PowellBadlyScaledBFGSAnalyticWithLimits(x0 [2]float64, limits PowellBadlySc
 	}
 }
 
+// PowellBadlyScaledBFGSAnalyticTickMinimum is the smallest call budget with which every PowellBadlyScaledBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PowellBadlyScaledBFGSAnalyticTickMinimum = 48
+
+// PowellBadlyScaledBFGSAnalyticSolver is a run of PowellBadlyScaledBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PowellBadlyScaledBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PowellBadlyScaledBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PowellBadlyScaledBFGSAnalyticRunning ends exactly as PowellBadlyScaledBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PowellBadlyScaledBFGSAnalytic and PowellBadlyScaledBFGSAnalyticWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is PowellBadlyScaledBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PowellBadlyScaledBFGSAnalyticSolver struct {
+	run       powellBadlyScaledBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PowellBadlyScaledBFGSAnalyticLimits  // the limits of the runs; PowellBadlyScaledBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                                 // whether SetLimits has set limits
+	started   bool                                 // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PowellBadlyScaledBFGSAnalyticSolver) SetLimits(limits PowellBadlyScaledBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PowellBadlyScaledBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PowellBadlyScaledBFGSAnalyticSolver) StartFrom(from PowellBadlyScaledBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *PowellBadlyScaledBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PowellBadlyScaledBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = PowellBadlyScaledBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, powellBadlyScaledBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PowellBadlyScaledBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PowellBadlyScaledBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PowellBadlyScaledBFGSAnalyticSolver) Advance(budget int) PowellBadlyScaledBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PowellBadlyScaledBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PowellBadlyScaledBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	powellBadlyScaledBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	powellBadlyScaledBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	powellBadlyScaledBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	powellBadlyScaledBFGSAnalyticStepTrials     = 48                     // step.trials
-	powellBadlyScaledBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	powellBadlyScaledBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	powellBadlyScaledBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	powellBadlyScaledBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	powellBadlyScaledBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	powellBadlyScaledBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	powellBadlyScaledBFGSAnalyticStepTrials      = 48                     // step.trials
+	powellBadlyScaledBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	powellBadlyScaledBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	powellBadlyScaledBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	powellBadlyScaledBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	powellBadlyScaledBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	powellBadlyScaledBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // powellBadlyScaledBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledBFGSAnalyticLimits, bounds powellBadlyScaledBFGSAnalyticBox) powellBadlyScaledBFGSAnalyticOutcome {
-	x := x0
-	powellBadlyScaledBFGSAnalyticEnterBox(&x, &bounds)
-	out := powellBadlyScaledBFGSAnalyticOutcome{x: x, status: PowellBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PowellBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !powellBadlyScaledBFGSAnalyticFinite(fx) || !powellBadlyScaledBFGSAnalyticFiniteVec(&x) {
-		out.status = PowellBadlyScaledBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := powellBadlyScaledBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := powellBadlyScaledBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+powellBadlyScaledBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
-		out.status = PowellBadlyScaledBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir powellBadlyScaledBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(powellBadlyScaledBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                               // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from powellBadlyScaledBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                          // whether the run can make no more progress at x
-	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
-	verify := powellBadlyScaledBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != powellBadlyScaledBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see powellBadlyScaledBFGSAnalyticConfirmGradient and settle).
-			calls, ok := powellBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = powellBadlyScaledBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			powellBadlyScaledBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := powellBadlyScaledBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, powellBadlyScaledBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * powellBadlyScaledBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (powellBadlyScaledBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PowellBadlyScaledBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = powellBadlyScaledBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if powellBadlyScaledBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PowellBadlyScaledBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if powellBadlyScaledBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = powellBadlyScaledBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PowellBadlyScaledBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			powellBadlyScaledBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PowellBadlyScaledBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		powellBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := powellBadlyScaledBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !powellBadlyScaledBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			powellBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = powellBadlyScaledBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(powellBadlyScaledBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := powellBadlyScaledBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case powellBadlyScaledBFGSAnalyticSearchOutOfBudget:
-			return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case powellBadlyScaledBFGSAnalyticSearchDiverged:
-			return best.ending(PowellBadlyScaledBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case powellBadlyScaledBFGSAnalyticSearchExhausted, powellBadlyScaledBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see powellBadlyScaledBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PowellBadlyScaledBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PowellBadlyScaledBFGSAnalyticNoDecrease
-			case found.end == powellBadlyScaledBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = powellBadlyScaledBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == powellBadlyScaledBFGSAnalyticSearchTiny:
-				end = PowellBadlyScaledBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !powellBadlyScaledBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PowellBadlyScaledBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+powellBadlyScaledBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		powellBadlyScaledBFGSAnalyticDifference(&s, &xt, &x)
-		powellBadlyScaledBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PowellBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r powellBadlyScaledBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(powellBadlyScaledBFGSAnalyticUnlimited)
 }
 
 // powellBadlyScaledBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o powellBadlyScaledBFGSAnalyticOutcome) ending(end PowellBadlyScaledBFGSAn
 	return o
 }
 
-// powellBadlyScaledBFGSAnalyticEnterBox: without bounds every start is inside.
-func powellBadlyScaledBFGSAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {}
-
-// powellBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func powellBadlyScaledBFGSAnalyticFinite(v float64) bool {
-	return v >= -powellBadlyScaledBFGSAnalyticLargestFinite && v <= powellBadlyScaledBFGSAnalyticLargestFinite
+// powellBadlyScaledBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type powellBadlyScaledBFGSAnalyticDescent struct {
+	lim       PowellBadlyScaledBFGSAnalyticLimits
+	stage     int                                      // what advance does next
+	diffs     powellBadlyScaledBFGSAnalyticDifferences // the box and the difference intervals
+	dir       powellBadlyScaledBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                               // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                               // the search direction, the last step and its gradient change
+	fx        float64                                  // f(x)
+	t, slope  float64                                  // the previous iteration's accepted step and slope
+	out, best powellBadlyScaledBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                  // f(x0)
+	rises     int                                      // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                     // whether g and e at x come from powellBadlyScaledBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                     // whether the run can make no more progress at x
+	retried   int                                      // the iteration whose stall was retried with recalibrated differences
+	verify    int                                      // what to check at x before judging it again
 }
 
-// powellBadlyScaledBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func powellBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *powellBadlyScaledBFGSAnalyticDescent) prepare(x0 [2]float64, lim PowellBadlyScaledBFGSAnalyticLimits, bounds powellBadlyScaledBFGSAnalyticBox) {
+	r.lim, r.stage = lim, powellBadlyScaledBFGSAnalyticStageBegin
+	r.diffs = powellBadlyScaledBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	powellBadlyScaledBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = powellBadlyScaledBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PowellBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *powellBadlyScaledBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PowellBadlyScaledBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, powellBadlyScaledBFGSAnalyticSettleCalls and powellBadlyScaledBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *powellBadlyScaledBFGSAnalyticDescent) advance(budget int) powellBadlyScaledBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != powellBadlyScaledBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case powellBadlyScaledBFGSAnalyticStageBegin:
+			if left < 1+powellBadlyScaledBFGSAnalyticCalibrationCost+powellBadlyScaledBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case powellBadlyScaledBFGSAnalyticStageJudge:
+			if r.verify != powellBadlyScaledBFGSAnalyticVerifyNothing && left < powellBadlyScaledBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < powellBadlyScaledBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *powellBadlyScaledBFGSAnalyticDescent) paused() powellBadlyScaledBFGSAnalyticOutcome {
+	return r.best.ending(PowellBadlyScaledBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *powellBadlyScaledBFGSAnalyticDescent) finish(end PowellBadlyScaledBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = powellBadlyScaledBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *powellBadlyScaledBFGSAnalyticDescent) begin() {
+	r.stage = powellBadlyScaledBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !powellBadlyScaledBFGSAnalyticFinite(r.fx) || !powellBadlyScaledBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PowellBadlyScaledBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := powellBadlyScaledBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+powellBadlyScaledBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !powellBadlyScaledBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PowellBadlyScaledBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = powellBadlyScaledBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, powellBadlyScaledBFGSAnalyticVerifyNothing
+	r.stage = powellBadlyScaledBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves powellBadlyScaledBFGSAnalyticStageSearch next when the run goes on.
+func (r *powellBadlyScaledBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != powellBadlyScaledBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see powellBadlyScaledBFGSAnalyticConfirmGradient and settle).
+		calls, ok := powellBadlyScaledBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == powellBadlyScaledBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PowellBadlyScaledBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !powellBadlyScaledBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PowellBadlyScaledBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = powellBadlyScaledBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		powellBadlyScaledBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := powellBadlyScaledBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, powellBadlyScaledBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * powellBadlyScaledBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (powellBadlyScaledBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PowellBadlyScaledBFGSAnalyticGradientSmall
+		r.stage = powellBadlyScaledBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = powellBadlyScaledBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if powellBadlyScaledBFGSAnalyticDerivativeCost == 0 {
+			r.finish(PowellBadlyScaledBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if powellBadlyScaledBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = powellBadlyScaledBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PowellBadlyScaledBFGSAnalyticDiverged)
+			return
+		}
+		powellBadlyScaledBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PowellBadlyScaledBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = powellBadlyScaledBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves powellBadlyScaledBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
+	powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !powellBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(powellBadlyScaledBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := powellBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := powellBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case powellBadlyScaledBFGSAnalyticSearchOutOfBudget:
+		r.finish(PowellBadlyScaledBFGSAnalyticOutOfEvaluations)
+		return
+	case powellBadlyScaledBFGSAnalyticSearchDiverged:
+		r.finish(PowellBadlyScaledBFGSAnalyticDiverged)
+		return
+	case powellBadlyScaledBFGSAnalyticSearchExhausted, powellBadlyScaledBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see powellBadlyScaledBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PowellBadlyScaledBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PowellBadlyScaledBFGSAnalyticNoDecrease
+		case found.end == powellBadlyScaledBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = powellBadlyScaledBFGSAnalyticVerifyStall, true, powellBadlyScaledBFGSAnalyticStageJudge
+			return
+		case found.end == powellBadlyScaledBFGSAnalyticSearchTiny:
+			end = PowellBadlyScaledBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !powellBadlyScaledBFGSAnalyticFiniteVec(&xt) {
+		r.finish(PowellBadlyScaledBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+powellBadlyScaledBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PowellBadlyScaledBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	powellBadlyScaledBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	powellBadlyScaledBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !powellBadlyScaledBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PowellBadlyScaledBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = powellBadlyScaledBFGSAnalyticStageJudge
 }
 
 // powellBadlyScaledBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type powellBadlyScaledBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledBFGSAnalyticRoundingFloor)
 	bounds    powellBadlyScaledBFGSAnalyticBox
-}
-
-// powellBadlyScaledBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func powellBadlyScaledBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *powellBadlyScaledBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// powellBadlyScaledBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) int {
-	PowellBadlyScaledGrad(x, g)
-	return 0
 }
 
 // powellBadlyScaledBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func powellBadlyScaledBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledBFGSAnalyticDot(y, y)) > powellBadlyScaledBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	powellBadlyScaledBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	powellBadlyScaledBFGSAnalyticStageJudge         // settle when asked (powellBadlyScaledBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	powellBadlyScaledBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: powellBadlyScaledBFGSAnalyticIterationCalls
+	powellBadlyScaledBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// powellBadlyScaledBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellBadlyScaledBFGSAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	powellBadlyScaledBFGSAnalyticVerifyNothing = iota
 	powellBadlyScaledBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func powellBadlyScaledBFGSAnalyticFinite(v float64) bool {
+	return v >= -powellBadlyScaledBFGSAnalyticLargestFinite && v <= powellBadlyScaledBFGSAnalyticLargestFinite
+}
+
+// powellBadlyScaledBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func powellBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !powellBadlyScaledBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// powellBadlyScaledBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func powellBadlyScaledBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *powellBadlyScaledBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// powellBadlyScaledBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func powellBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) int {
+	PowellBadlyScaledGrad(x, g)
+	return 0
+}
 
 // powellBadlyScaledBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (powellBadlyScaledBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1001,3 +1195,6 @@ func powellBadlyScaledBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// powellBadlyScaledBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const powellBadlyScaledBFGSAnalyticUnlimited = int(^uint(0) >> 1)

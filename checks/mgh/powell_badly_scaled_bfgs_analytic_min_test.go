@@ -105,6 +105,55 @@ func TestPowellBadlyScaledBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPowellBadlyScaledBFGSAnalyticSolverTicks advances a PowellBadlyScaledBFGSAnalyticSolver from the spec's start with budgets of PowellBadlyScaledBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellBadlyScaledBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellBadlyScaledBFGSAnalyticSolverTicks(t *testing.T) {
+	want := PowellBadlyScaledBFGSAnalytic(powellBadlyScaledBFGSAnalyticTestStart())
+	for _, budget := range []int{PowellBadlyScaledBFGSAnalyticTickMinimum, PowellBadlyScaledBFGSAnalyticTickMinimum + 1, 2 * PowellBadlyScaledBFGSAnalyticTickMinimum, 7 * PowellBadlyScaledBFGSAnalyticTickMinimum} {
+		var s PowellBadlyScaledBFGSAnalyticSolver
+		s.Start(powellBadlyScaledBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellBadlyScaledBFGSAnalyticRunning {
+				if !powellBadlyScaledBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellBadlyScaledBFGSAnalyticSolver
+	s.Start(powellBadlyScaledBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PowellBadlyScaledBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellBadlyScaledBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellBadlyScaledBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PowellBadlyScaledBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellBadlyScaledBFGSAnalyticTestStart())
+		for s.Advance(PowellBadlyScaledBFGSAnalyticTickMinimum).Status == PowellBadlyScaledBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellBadlyScaledBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellBadlyScaledBFGSAnalyticTestSameResult(a, b PowellBadlyScaledBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellBadlyScaledBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPowellBadlyScaledBFGSAnalytic(b *testing.B) {
 	var r PowellBadlyScaledBFGSAnalyticResult

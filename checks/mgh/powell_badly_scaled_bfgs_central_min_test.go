@@ -44,6 +44,55 @@ func TestPowellBadlyScaledBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPowellBadlyScaledBFGSCentralSolverTicks advances a PowellBadlyScaledBFGSCentralSolver from the spec's start with budgets of PowellBadlyScaledBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellBadlyScaledBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellBadlyScaledBFGSCentralSolverTicks(t *testing.T) {
+	want := PowellBadlyScaledBFGSCentral(powellBadlyScaledBFGSCentralTestStart())
+	for _, budget := range []int{PowellBadlyScaledBFGSCentralTickMinimum, PowellBadlyScaledBFGSCentralTickMinimum + 1, 2 * PowellBadlyScaledBFGSCentralTickMinimum, 7 * PowellBadlyScaledBFGSCentralTickMinimum} {
+		var s PowellBadlyScaledBFGSCentralSolver
+		s.Start(powellBadlyScaledBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellBadlyScaledBFGSCentralRunning {
+				if !powellBadlyScaledBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellBadlyScaledBFGSCentralSolver
+	s.Start(powellBadlyScaledBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PowellBadlyScaledBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellBadlyScaledBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellBadlyScaledBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PowellBadlyScaledBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellBadlyScaledBFGSCentralTestStart())
+		for s.Advance(PowellBadlyScaledBFGSCentralTickMinimum).Status == PowellBadlyScaledBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellBadlyScaledBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellBadlyScaledBFGSCentralTestSameResult(a, b PowellBadlyScaledBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellBadlyScaledBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPowellBadlyScaledBFGSCentral(b *testing.B) {
 	var r PowellBadlyScaledBFGSCentralResult

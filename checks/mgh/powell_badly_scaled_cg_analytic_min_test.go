@@ -102,6 +102,55 @@ func TestPowellBadlyScaledCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPowellBadlyScaledCGAnalyticSolverTicks advances a PowellBadlyScaledCGAnalyticSolver from the spec's start with budgets of PowellBadlyScaledCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellBadlyScaledCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellBadlyScaledCGAnalyticSolverTicks(t *testing.T) {
+	want := PowellBadlyScaledCGAnalytic(powellBadlyScaledCGAnalyticTestStart())
+	for _, budget := range []int{PowellBadlyScaledCGAnalyticTickMinimum, PowellBadlyScaledCGAnalyticTickMinimum + 1, 2 * PowellBadlyScaledCGAnalyticTickMinimum, 7 * PowellBadlyScaledCGAnalyticTickMinimum} {
+		var s PowellBadlyScaledCGAnalyticSolver
+		s.Start(powellBadlyScaledCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellBadlyScaledCGAnalyticRunning {
+				if !powellBadlyScaledCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellBadlyScaledCGAnalyticSolver
+	s.Start(powellBadlyScaledCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PowellBadlyScaledCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellBadlyScaledCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellBadlyScaledCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PowellBadlyScaledCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellBadlyScaledCGAnalyticTestStart())
+		for s.Advance(PowellBadlyScaledCGAnalyticTickMinimum).Status == PowellBadlyScaledCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellBadlyScaledCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellBadlyScaledCGAnalyticTestSameResult(a, b PowellBadlyScaledCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellBadlyScaledCGAnalytic measures one whole run from the spec's start.
 func BenchmarkPowellBadlyScaledCGAnalytic(b *testing.B) {
 	var r PowellBadlyScaledCGAnalyticResult

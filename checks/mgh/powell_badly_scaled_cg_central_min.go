@@ -26,6 +26,8 @@ const (
 	PowellBadlyScaledCGCentralNoDecrease
 	// PowellBadlyScaledCGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PowellBadlyScaledCGCentralDiverged
+	// PowellBadlyScaledCGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PowellBadlyScaledCGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PowellBadlyScaledCGCentralStatus) String() string {
 		return "no decrease"
 	case PowellBadlyScaledCGCentralDiverged:
 		return "diverged"
+	case PowellBadlyScaledCGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PowellBadlyScaledCGCentralWithLimits(x0 [2]float64, limits PowellBadlyScale
 	}
 }
 
+// PowellBadlyScaledCGCentralTickMinimum is the smallest call budget with which every PowellBadlyScaledCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 13 calls, an iteration 240, confirming a difference gradient 16).
+const PowellBadlyScaledCGCentralTickMinimum = 240
+
+// PowellBadlyScaledCGCentralSolver is a run of PowellBadlyScaledCGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PowellBadlyScaledCGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 13 calls, an iteration 240, confirming a difference gradient 16. A budget of at least PowellBadlyScaledCGCentralTickMinimum = 240 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PowellBadlyScaledCGCentralRunning ends exactly as PowellBadlyScaledCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PowellBadlyScaledCGCentral and PowellBadlyScaledCGCentralWithLimits use at most 2224 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is PowellBadlyScaledCGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PowellBadlyScaledCGCentralSolver struct {
+	run       powellBadlyScaledCGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PowellBadlyScaledCGCentralLimits  // the limits of the runs; PowellBadlyScaledCGCentralDefaultLimits() until SetLimits
+	ownLimits bool                              // whether SetLimits has set limits
+	started   bool                              // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PowellBadlyScaledCGCentralSolver) SetLimits(limits PowellBadlyScaledCGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PowellBadlyScaledCGCentralSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *PowellBadlyScaledCGCentralSolver) StartFrom(from PowellBadlyScaledCGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *PowellBadlyScaledCGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PowellBadlyScaledCGCentralSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = PowellBadlyScaledCGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, powellBadlyScaledCGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PowellBadlyScaledCGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PowellBadlyScaledCGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *PowellBadlyScaledCGCentralSolver) Advance(budget int) PowellBadlyScaledCGCentralResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PowellBadlyScaledCGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PowellBadlyScaledCGCentral from mgh.toml; the kernels below read them.
 const (
-	powellBadlyScaledCGCentralStepInitial    = 1.0                    // step.initial
-	powellBadlyScaledCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	powellBadlyScaledCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	powellBadlyScaledCGCentralStepTrials     = 48                     // step.trials
-	powellBadlyScaledCGCentralDerivativeCost = 4                      // objective calls per gradient
-	powellBadlyScaledCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	powellBadlyScaledCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	powellBadlyScaledCGCentralStepInitial     = 1.0                    // step.initial
+	powellBadlyScaledCGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	powellBadlyScaledCGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	powellBadlyScaledCGCentralStepTrials      = 48                     // step.trials
+	powellBadlyScaledCGCentralDerivativeCost  = 4                      // objective calls per gradient
+	powellBadlyScaledCGCentralCalibrationCost = 8                      // objective calls of choosing the difference intervals
+	powellBadlyScaledCGCentralIterationCalls  = 240                    // most objective calls of one line search with the gradient at its step
+	powellBadlyScaledCGCentralSettleCalls     = 16                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	powellBadlyScaledCGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	powellBadlyScaledCGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // powellBadlyScaledCGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCentralLimits, bounds powellBadlyScaledCGCentralBox) powellBadlyScaledCGCentralOutcome {
-	x := x0
-	powellBadlyScaledCGCentralEnterBox(&x, &bounds)
-	out := powellBadlyScaledCGCentralOutcome{x: x, status: PowellBadlyScaledCGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PowellBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !powellBadlyScaledCGCentralFinite(fx) || !powellBadlyScaledCGCentralFiniteVec(&x) {
-		out.status = PowellBadlyScaledCGCentralNonFiniteStart
-		return out
-	}
-	diffs := powellBadlyScaledCGCentralDifferences{bounds: bounds}
-	calls, ok := powellBadlyScaledCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+powellBadlyScaledCGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += powellBadlyScaledCGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !powellBadlyScaledCGCentralFiniteVec(&g) {
-		out.status = PowellBadlyScaledCGCentralNonFiniteGradient
-		return out
-	}
-	var dir powellBadlyScaledCGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(powellBadlyScaledCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                            // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from powellBadlyScaledCGCentralConfirmGradient or settle
-	stalled := false                                                       // whether the run can make no more progress at x
-	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
-	verify := powellBadlyScaledCGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != powellBadlyScaledCGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see powellBadlyScaledCGCentralConfirmGradient and settle).
-			calls, ok := powellBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledCGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledCGCentralFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = powellBadlyScaledCGCentralVerifyNothing, true
-		case !confirmed:
-			powellBadlyScaledCGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := powellBadlyScaledCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, powellBadlyScaledCGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * powellBadlyScaledCGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (powellBadlyScaledCGCentralDerivativeCost == 0 || confirmed) {
-			out.status = PowellBadlyScaledCGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = powellBadlyScaledCGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if powellBadlyScaledCGCentralDerivativeCost == 0 {
-				return best.ending(PowellBadlyScaledCGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if powellBadlyScaledCGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = powellBadlyScaledCGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PowellBadlyScaledCGCentralDiverged, out.iterations, out.evaluations)
-			}
-			powellBadlyScaledCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PowellBadlyScaledCGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		powellBadlyScaledCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := powellBadlyScaledCGCentralDot(&g, &d)
-		if !(now < 0) || !powellBadlyScaledCGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			powellBadlyScaledCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = powellBadlyScaledCGCentralDot(&g, &d)
-		}
-		first := float64(powellBadlyScaledCGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := powellBadlyScaledCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case powellBadlyScaledCGCentralSearchOutOfBudget:
-			return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case powellBadlyScaledCGCentralSearchDiverged:
-			return best.ending(PowellBadlyScaledCGCentralDiverged, out.iterations, out.evaluations)
-		case powellBadlyScaledCGCentralSearchExhausted, powellBadlyScaledCGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see powellBadlyScaledCGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PowellBadlyScaledCGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PowellBadlyScaledCGCentralNoDecrease
-			case found.end == powellBadlyScaledCGCentralSearchTiny && canSettle:
-				verify, stalled = powellBadlyScaledCGCentralVerifyStall, true
-				continue
-			case found.end == powellBadlyScaledCGCentralSearchTiny:
-				end = PowellBadlyScaledCGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !powellBadlyScaledCGCentralFiniteVec(&xt) {
-			return best.ending(PowellBadlyScaledCGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+powellBadlyScaledCGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += powellBadlyScaledCGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		powellBadlyScaledCGCentralDifference(&s, &xt, &x)
-		powellBadlyScaledCGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !powellBadlyScaledCGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PowellBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r powellBadlyScaledCGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(powellBadlyScaledCGCentralUnlimited)
 }
 
 // powellBadlyScaledCGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o powellBadlyScaledCGCentralOutcome) ending(end PowellBadlyScaledCGCentral
 	return o
 }
 
-// powellBadlyScaledCGCentralEnterBox: without bounds every start is inside.
-func powellBadlyScaledCGCentralEnterBox(x *[2]float64, b *powellBadlyScaledCGCentralBox) {}
-
-// powellBadlyScaledCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func powellBadlyScaledCGCentralFinite(v float64) bool {
-	return v >= -powellBadlyScaledCGCentralLargestFinite && v <= powellBadlyScaledCGCentralLargestFinite
+// powellBadlyScaledCGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type powellBadlyScaledCGCentralDescent struct {
+	lim       PowellBadlyScaledCGCentralLimits
+	stage     int                                   // what advance does next
+	diffs     powellBadlyScaledCGCentralDifferences // the box and the difference intervals
+	dir       powellBadlyScaledCGCentralDirection   // the direction's memory
+	x, g, e   [2]float64                            // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                            // the search direction, the last step and its gradient change
+	fx        float64                               // f(x)
+	t, slope  float64                               // the previous iteration's accepted step and slope
+	out, best powellBadlyScaledCGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                               // f(x0)
+	rises     int                                   // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                  // whether g and e at x come from powellBadlyScaledCGCentralConfirmGradient or settle
+	stalled   bool                                  // whether the run can make no more progress at x
+	retried   int                                   // the iteration whose stall was retried with recalibrated differences
+	verify    int                                   // what to check at x before judging it again
 }
 
-// powellBadlyScaledCGCentralFiniteVec reports whether every component of x is finite.
-func powellBadlyScaledCGCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledCGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *powellBadlyScaledCGCentralDescent) prepare(x0 [2]float64, lim PowellBadlyScaledCGCentralLimits, bounds powellBadlyScaledCGCentralBox) {
+	r.lim, r.stage = lim, powellBadlyScaledCGCentralStageBegin
+	r.diffs = powellBadlyScaledCGCentralDifferences{bounds: bounds}
+	r.x = x0
+	powellBadlyScaledCGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = powellBadlyScaledCGCentralOutcome{x: r.x, f: math.NaN(), status: PowellBadlyScaledCGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *powellBadlyScaledCGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PowellBadlyScaledCGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, powellBadlyScaledCGCentralSettleCalls and powellBadlyScaledCGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *powellBadlyScaledCGCentralDescent) advance(budget int) powellBadlyScaledCGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != powellBadlyScaledCGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case powellBadlyScaledCGCentralStageBegin:
+			if left < 1+powellBadlyScaledCGCentralCalibrationCost+powellBadlyScaledCGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case powellBadlyScaledCGCentralStageJudge:
+			if r.verify != powellBadlyScaledCGCentralVerifyNothing && left < powellBadlyScaledCGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < powellBadlyScaledCGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *powellBadlyScaledCGCentralDescent) paused() powellBadlyScaledCGCentralOutcome {
+	return r.best.ending(PowellBadlyScaledCGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *powellBadlyScaledCGCentralDescent) finish(end PowellBadlyScaledCGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = powellBadlyScaledCGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *powellBadlyScaledCGCentralDescent) begin() {
+	r.stage = powellBadlyScaledCGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !powellBadlyScaledCGCentralFinite(r.fx) || !powellBadlyScaledCGCentralFiniteVec(&r.x) {
+		r.out.status = PowellBadlyScaledCGCentralNonFiniteStart
+		return
+	}
+	calls, ok := powellBadlyScaledCGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+powellBadlyScaledCGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += powellBadlyScaledCGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !powellBadlyScaledCGCentralFiniteVec(&r.g) {
+		r.out.status = PowellBadlyScaledCGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = powellBadlyScaledCGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, powellBadlyScaledCGCentralVerifyNothing
+	r.stage = powellBadlyScaledCGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves powellBadlyScaledCGCentralStageSearch next when the run goes on.
+func (r *powellBadlyScaledCGCentralDescent) judge() {
+	switch {
+	case r.verify != powellBadlyScaledCGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see powellBadlyScaledCGCentralConfirmGradient and settle).
+		calls, ok := powellBadlyScaledCGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == powellBadlyScaledCGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PowellBadlyScaledCGCentralOutOfEvaluations)
+			return
+		}
+		if !powellBadlyScaledCGCentralFiniteVec(&r.g) {
+			r.finish(PowellBadlyScaledCGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = powellBadlyScaledCGCentralVerifyNothing, true
+	case !r.confirmed:
+		powellBadlyScaledCGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := powellBadlyScaledCGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, powellBadlyScaledCGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * powellBadlyScaledCGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (powellBadlyScaledCGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PowellBadlyScaledCGCentralGradientSmall
+		r.stage = powellBadlyScaledCGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = powellBadlyScaledCGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if powellBadlyScaledCGCentralDerivativeCost == 0 {
+			r.finish(PowellBadlyScaledCGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if powellBadlyScaledCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = powellBadlyScaledCGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PowellBadlyScaledCGCentralDiverged)
+			return
+		}
+		powellBadlyScaledCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PowellBadlyScaledCGCentralOutOfIterations)
+		return
+	}
+	r.stage = powellBadlyScaledCGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves powellBadlyScaledCGCentralStageJudge next when the run
+// goes on.
+func (r *powellBadlyScaledCGCentralDescent) search() {
+	powellBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := powellBadlyScaledCGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !powellBadlyScaledCGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		powellBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = powellBadlyScaledCGCentralDot(&r.g, &r.d)
+	}
+	first := float64(powellBadlyScaledCGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := powellBadlyScaledCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := powellBadlyScaledCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case powellBadlyScaledCGCentralSearchOutOfBudget:
+		r.finish(PowellBadlyScaledCGCentralOutOfEvaluations)
+		return
+	case powellBadlyScaledCGCentralSearchDiverged:
+		r.finish(PowellBadlyScaledCGCentralDiverged)
+		return
+	case powellBadlyScaledCGCentralSearchExhausted, powellBadlyScaledCGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see powellBadlyScaledCGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PowellBadlyScaledCGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PowellBadlyScaledCGCentralNoDecrease
+		case found.end == powellBadlyScaledCGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = powellBadlyScaledCGCentralVerifyStall, true, powellBadlyScaledCGCentralStageJudge
+			return
+		case found.end == powellBadlyScaledCGCentralSearchTiny:
+			end = PowellBadlyScaledCGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !powellBadlyScaledCGCentralFiniteVec(&xt) {
+		r.finish(PowellBadlyScaledCGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+powellBadlyScaledCGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PowellBadlyScaledCGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += powellBadlyScaledCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	powellBadlyScaledCGCentralDifference(&r.s, &xt, &r.x)
+	powellBadlyScaledCGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !powellBadlyScaledCGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PowellBadlyScaledCGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = powellBadlyScaledCGCentralStageJudge
 }
 
 // powellBadlyScaledCGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type powellBadlyScaledCGCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledCGCentralRoundingFloor)
 	bounds    powellBadlyScaledCGCentralBox
+}
+
+// powellBadlyScaledCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type powellBadlyScaledCGCentralDirection struct {
+	previous [2]float64 // d₋₁
+	change   [2]float64 // y = g − g₋₁, set by update
+	squared  float64    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *powellBadlyScaledCGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *powellBadlyScaledCGCentralDirection) compute(g, d *[2]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 2 && s.squared > 0 {
+		beta = powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = powellBadlyScaledCGCentralDot(g, g)
+}
+
+func (s *powellBadlyScaledCGCentralDirection) update(step, change *[2]float64) {
+	s.change = *change
+}
+
+func (s *powellBadlyScaledCGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return powellBadlyScaledCGCentralScaledTrial(t, slope, now)
+}
+
+// powellBadlyScaledCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func powellBadlyScaledCGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// powellBadlyScaledCGCentralDot returns aᵀb.
+func powellBadlyScaledCGCentralDot(a, b *[2]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// powellBadlyScaledCGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to powellBadlyScaledCGCentralStepInitial.
+func powellBadlyScaledCGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !powellBadlyScaledCGCentralFinite(next) {
+		return powellBadlyScaledCGCentralStepInitial
+	}
+	return next
+}
+
+// powellBadlyScaledCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func powellBadlyScaledCGCentralFinite(v float64) bool {
+	return v >= -powellBadlyScaledCGCentralLargestFinite && v <= powellBadlyScaledCGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	powellBadlyScaledCGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	powellBadlyScaledCGCentralStageJudge         // settle when asked (powellBadlyScaledCGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	powellBadlyScaledCGCentralStageSearch        // the line search and the gradient at the accepted point: powellBadlyScaledCGCentralIterationCalls
+	powellBadlyScaledCGCentralStageOver          // the run has ended; out is its result
+)
+
+// powellBadlyScaledCGCentralEnterBox: without bounds every start is inside.
+func powellBadlyScaledCGCentralEnterBox(x *[2]float64, b *powellBadlyScaledCGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledCGCentralVerifyNothing = iota
+	powellBadlyScaledCGCentralVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledCGCentralVerifyStall   // no step makes progress
+)
+
+// powellBadlyScaledCGCentralFiniteVec reports whether every component of x is finite.
+func powellBadlyScaledCGCentralFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !powellBadlyScaledCGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledCGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func powellBadlyScaledCGCentralAbs(v float64) float64 {
 // powellBadlyScaledCGCentralSquareRoot returns √v.
 func powellBadlyScaledCGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// powellBadlyScaledCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func powellBadlyScaledCGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // powellBadlyScaledCGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func powellBadlyScaledCGCentralParabola(f0, a, fa, b, fb float64) (slope, second
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// powellBadlyScaledCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type powellBadlyScaledCGCentralDirection struct {
-	previous [2]float64 // d₋₁
-	change   [2]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *powellBadlyScaledCGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *powellBadlyScaledCGCentralDirection) compute(g, d *[2]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 2 && s.squared > 0 {
-		beta = powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = powellBadlyScaledCGCentralDot(g, g)
-}
-
-func (s *powellBadlyScaledCGCentralDirection) update(step, change *[2]float64) {
-	s.change = *change
-}
-
-func (s *powellBadlyScaledCGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return powellBadlyScaledCGCentralScaledTrial(t, slope, now)
-}
-
-// powellBadlyScaledCGCentralDot returns aᵀb.
-func powellBadlyScaledCGCentralDot(a, b *[2]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// powellBadlyScaledCGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to powellBadlyScaledCGCentralStepInitial.
-func powellBadlyScaledCGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !powellBadlyScaledCGCentralFinite(next) {
-		return powellBadlyScaledCGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	powellBadlyScaledCGCentralVerifyNothing = iota
-	powellBadlyScaledCGCentralVerifyPass    // a difference gradient passed the test
-	powellBadlyScaledCGCentralVerifyStall   // no step makes progress
-)
 
 // powellBadlyScaledCGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (powellBadlyScaledCGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func powellBadlyScaledCGCentralDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// powellBadlyScaledCGCentralUnlimited is a tick budget that never pauses a run.
+const powellBadlyScaledCGCentralUnlimited = int(^uint(0) >> 1)

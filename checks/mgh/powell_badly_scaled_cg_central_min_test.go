@@ -44,6 +44,55 @@ func TestPowellBadlyScaledCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPowellBadlyScaledCGCentralSolverTicks advances a PowellBadlyScaledCGCentralSolver from the spec's start with budgets of PowellBadlyScaledCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellBadlyScaledCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellBadlyScaledCGCentralSolverTicks(t *testing.T) {
+	want := PowellBadlyScaledCGCentral(powellBadlyScaledCGCentralTestStart())
+	for _, budget := range []int{PowellBadlyScaledCGCentralTickMinimum, PowellBadlyScaledCGCentralTickMinimum + 1, 2 * PowellBadlyScaledCGCentralTickMinimum, 7 * PowellBadlyScaledCGCentralTickMinimum} {
+		var s PowellBadlyScaledCGCentralSolver
+		s.Start(powellBadlyScaledCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellBadlyScaledCGCentralRunning {
+				if !powellBadlyScaledCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellBadlyScaledCGCentralSolver
+	s.Start(powellBadlyScaledCGCentralTestStart())
+	if r := s.Advance(0); r.Status != PowellBadlyScaledCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellBadlyScaledCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellBadlyScaledCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s PowellBadlyScaledCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellBadlyScaledCGCentralTestStart())
+		for s.Advance(PowellBadlyScaledCGCentralTickMinimum).Status == PowellBadlyScaledCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellBadlyScaledCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellBadlyScaledCGCentralTestSameResult(a, b PowellBadlyScaledCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellBadlyScaledCGCentral measures one whole run from the spec's start.
 func BenchmarkPowellBadlyScaledCGCentral(b *testing.B) {
 	var r PowellBadlyScaledCGCentralResult

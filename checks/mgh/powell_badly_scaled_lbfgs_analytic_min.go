@@ -26,6 +26,8 @@ const (
 	PowellBadlyScaledLBFGSAnalyticNoDecrease
 	// PowellBadlyScaledLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PowellBadlyScaledLBFGSAnalyticDiverged
+	// PowellBadlyScaledLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PowellBadlyScaledLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PowellBadlyScaledLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PowellBadlyScaledLBFGSAnalyticDiverged:
 		return "diverged"
+	case PowellBadlyScaledLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func PowellBadlyScaledLBFGSAnalyticWithLimits(x0 [2]float64, limits PowellBadlyS
 	}
 }
 
+// PowellBadlyScaledLBFGSAnalyticTickMinimum is the smallest call budget with which every PowellBadlyScaledLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PowellBadlyScaledLBFGSAnalyticTickMinimum = 48
+
+// PowellBadlyScaledLBFGSAnalyticSolver is a run of PowellBadlyScaledLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PowellBadlyScaledLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PowellBadlyScaledLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PowellBadlyScaledLBFGSAnalyticRunning ends exactly as PowellBadlyScaledLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PowellBadlyScaledLBFGSAnalytic and PowellBadlyScaledLBFGSAnalyticWithLimits use at most 2392 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is PowellBadlyScaledLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PowellBadlyScaledLBFGSAnalyticSolver struct {
+	run       powellBadlyScaledLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PowellBadlyScaledLBFGSAnalyticLimits  // the limits of the runs; PowellBadlyScaledLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                                  // whether SetLimits has set limits
+	started   bool                                  // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PowellBadlyScaledLBFGSAnalyticSolver) SetLimits(limits PowellBadlyScaledLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PowellBadlyScaledLBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PowellBadlyScaledLBFGSAnalyticSolver) StartFrom(from PowellBadlyScaledLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *PowellBadlyScaledLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PowellBadlyScaledLBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = PowellBadlyScaledLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, powellBadlyScaledLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PowellBadlyScaledLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PowellBadlyScaledLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PowellBadlyScaledLBFGSAnalyticSolver) Advance(budget int) PowellBadlyScaledLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PowellBadlyScaledLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PowellBadlyScaledLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	powellBadlyScaledLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	powellBadlyScaledLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	powellBadlyScaledLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	powellBadlyScaledLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	powellBadlyScaledLBFGSAnalyticStepTrials     = 48                     // step.trials
-	powellBadlyScaledLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	powellBadlyScaledLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	powellBadlyScaledLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	powellBadlyScaledLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	powellBadlyScaledLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	powellBadlyScaledLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	powellBadlyScaledLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	powellBadlyScaledLBFGSAnalyticStepTrials      = 48                     // step.trials
+	powellBadlyScaledLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	powellBadlyScaledLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	powellBadlyScaledLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	powellBadlyScaledLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	powellBadlyScaledLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	powellBadlyScaledLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // powellBadlyScaledLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledLBFGSAnalyticLimits, bounds powellBadlyScaledLBFGSAnalyticBox) powellBadlyScaledLBFGSAnalyticOutcome {
-	x := x0
-	powellBadlyScaledLBFGSAnalyticEnterBox(&x, &bounds)
-	out := powellBadlyScaledLBFGSAnalyticOutcome{x: x, status: PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PowellBadlyScaled(&x)
-	out.f, out.evaluations = fx, 1
-	if !powellBadlyScaledLBFGSAnalyticFinite(fx) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&x) {
-		out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := powellBadlyScaledLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := powellBadlyScaledLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+powellBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-		out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir powellBadlyScaledLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(powellBadlyScaledLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                                // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                         // whether g and e at x come from powellBadlyScaledLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                           // whether the run can make no more progress at x
-	retried := -1                                                              // the iteration whose stall was retried with recalibrated differences
-	verify := powellBadlyScaledLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != powellBadlyScaledLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see powellBadlyScaledLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := powellBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = powellBadlyScaledLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			powellBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := powellBadlyScaledLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, powellBadlyScaledLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * powellBadlyScaledLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (powellBadlyScaledLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PowellBadlyScaledLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = powellBadlyScaledLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if powellBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PowellBadlyScaledLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if powellBadlyScaledLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = powellBadlyScaledLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PowellBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			powellBadlyScaledLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		powellBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := powellBadlyScaledLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			powellBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = powellBadlyScaledLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(powellBadlyScaledLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := powellBadlyScaledLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case powellBadlyScaledLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case powellBadlyScaledLBFGSAnalyticSearchDiverged:
-			return best.ending(PowellBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case powellBadlyScaledLBFGSAnalyticSearchExhausted, powellBadlyScaledLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see powellBadlyScaledLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PowellBadlyScaledLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PowellBadlyScaledLBFGSAnalyticNoDecrease
-			case found.end == powellBadlyScaledLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = powellBadlyScaledLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == powellBadlyScaledLBFGSAnalyticSearchTiny:
-				end = PowellBadlyScaledLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !powellBadlyScaledLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PowellBadlyScaledLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+powellBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		powellBadlyScaledLBFGSAnalyticDifference(&s, &xt, &x)
-		powellBadlyScaledLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r powellBadlyScaledLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(powellBadlyScaledLBFGSAnalyticUnlimited)
 }
 
 // powellBadlyScaledLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o powellBadlyScaledLBFGSAnalyticOutcome) ending(end PowellBadlyScaledLBFGS
 	return o
 }
 
-// powellBadlyScaledLBFGSAnalyticEnterBox: without bounds every start is inside.
-func powellBadlyScaledLBFGSAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {}
-
-// powellBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func powellBadlyScaledLBFGSAnalyticFinite(v float64) bool {
-	return v >= -powellBadlyScaledLBFGSAnalyticLargestFinite && v <= powellBadlyScaledLBFGSAnalyticLargestFinite
+// powellBadlyScaledLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type powellBadlyScaledLBFGSAnalyticDescent struct {
+	lim       PowellBadlyScaledLBFGSAnalyticLimits
+	stage     int                                       // what advance does next
+	diffs     powellBadlyScaledLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       powellBadlyScaledLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                                // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                                // the search direction, the last step and its gradient change
+	fx        float64                                   // f(x)
+	t, slope  float64                                   // the previous iteration's accepted step and slope
+	out, best powellBadlyScaledLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                   // f(x0)
+	rises     int                                       // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                      // whether g and e at x come from powellBadlyScaledLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                      // whether the run can make no more progress at x
+	retried   int                                       // the iteration whose stall was retried with recalibrated differences
+	verify    int                                       // what to check at x before judging it again
 }
 
-// powellBadlyScaledLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func powellBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) prepare(x0 [2]float64, lim PowellBadlyScaledLBFGSAnalyticLimits, bounds powellBadlyScaledLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, powellBadlyScaledLBFGSAnalyticStageBegin
+	r.diffs = powellBadlyScaledLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	powellBadlyScaledLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = powellBadlyScaledLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PowellBadlyScaledLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, powellBadlyScaledLBFGSAnalyticSettleCalls and powellBadlyScaledLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) advance(budget int) powellBadlyScaledLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != powellBadlyScaledLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case powellBadlyScaledLBFGSAnalyticStageBegin:
+			if left < 1+powellBadlyScaledLBFGSAnalyticCalibrationCost+powellBadlyScaledLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case powellBadlyScaledLBFGSAnalyticStageJudge:
+			if r.verify != powellBadlyScaledLBFGSAnalyticVerifyNothing && left < powellBadlyScaledLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < powellBadlyScaledLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) paused() powellBadlyScaledLBFGSAnalyticOutcome {
+	return r.best.ending(PowellBadlyScaledLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) finish(end PowellBadlyScaledLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = powellBadlyScaledLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) begin() {
+	r.stage = powellBadlyScaledLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !powellBadlyScaledLBFGSAnalyticFinite(r.fx) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := powellBadlyScaledLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+powellBadlyScaledLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = powellBadlyScaledLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, powellBadlyScaledLBFGSAnalyticVerifyNothing
+	r.stage = powellBadlyScaledLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves powellBadlyScaledLBFGSAnalyticStageSearch next when the run goes on.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != powellBadlyScaledLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see powellBadlyScaledLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := powellBadlyScaledLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == powellBadlyScaledLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = powellBadlyScaledLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		powellBadlyScaledLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := powellBadlyScaledLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, powellBadlyScaledLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * powellBadlyScaledLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (powellBadlyScaledLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PowellBadlyScaledLBFGSAnalyticGradientSmall
+		r.stage = powellBadlyScaledLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = powellBadlyScaledLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if powellBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(PowellBadlyScaledLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if powellBadlyScaledLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = powellBadlyScaledLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PowellBadlyScaledLBFGSAnalyticDiverged)
+			return
+		}
+		powellBadlyScaledLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PowellBadlyScaledLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = powellBadlyScaledLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves powellBadlyScaledLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *powellBadlyScaledLBFGSAnalyticDescent) search() {
+	powellBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := powellBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		powellBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = powellBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(powellBadlyScaledLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := powellBadlyScaledLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := powellBadlyScaledLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case powellBadlyScaledLBFGSAnalyticSearchOutOfBudget:
+		r.finish(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations)
+		return
+	case powellBadlyScaledLBFGSAnalyticSearchDiverged:
+		r.finish(PowellBadlyScaledLBFGSAnalyticDiverged)
+		return
+	case powellBadlyScaledLBFGSAnalyticSearchExhausted, powellBadlyScaledLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see powellBadlyScaledLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PowellBadlyScaledLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PowellBadlyScaledLBFGSAnalyticNoDecrease
+		case found.end == powellBadlyScaledLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = powellBadlyScaledLBFGSAnalyticVerifyStall, true, powellBadlyScaledLBFGSAnalyticStageJudge
+			return
+		case found.end == powellBadlyScaledLBFGSAnalyticSearchTiny:
+			end = PowellBadlyScaledLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !powellBadlyScaledLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(PowellBadlyScaledLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+powellBadlyScaledLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	powellBadlyScaledLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	powellBadlyScaledLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = powellBadlyScaledLBFGSAnalyticStageJudge
 }
 
 // powellBadlyScaledLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type powellBadlyScaledLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledLBFGSAnalyticRoundingFloor)
 	bounds    powellBadlyScaledLBFGSAnalyticBox
-}
-
-// powellBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func powellBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// powellBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) int {
-	PowellBadlyScaledGrad(x, g)
-	return 0
 }
 
 // powellBadlyScaledLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func powellBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledLBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledLBFGSAnalyticDot(y, y)) > powellBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	powellBadlyScaledLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	powellBadlyScaledLBFGSAnalyticStageJudge         // settle when asked (powellBadlyScaledLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	powellBadlyScaledLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: powellBadlyScaledLBFGSAnalyticIterationCalls
+	powellBadlyScaledLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// powellBadlyScaledLBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellBadlyScaledLBFGSAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	powellBadlyScaledLBFGSAnalyticVerifyNothing = iota
 	powellBadlyScaledLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func powellBadlyScaledLBFGSAnalyticFinite(v float64) bool {
+	return v >= -powellBadlyScaledLBFGSAnalyticLargestFinite && v <= powellBadlyScaledLBFGSAnalyticLargestFinite
+}
+
+// powellBadlyScaledLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func powellBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !powellBadlyScaledLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// powellBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func powellBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// powellBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func powellBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) int {
+	PowellBadlyScaledGrad(x, g)
+	return 0
+}
 
 // powellBadlyScaledLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (powellBadlyScaledLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1027,3 +1221,6 @@ func powellBadlyScaledLBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// powellBadlyScaledLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const powellBadlyScaledLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

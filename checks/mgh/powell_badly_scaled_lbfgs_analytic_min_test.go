@@ -105,6 +105,55 @@ func TestPowellBadlyScaledLBFGSAnalyticGradientMatchesDifferences(t *testing.T) 
 	}
 }
 
+// TestPowellBadlyScaledLBFGSAnalyticSolverTicks advances a PowellBadlyScaledLBFGSAnalyticSolver from the spec's start with budgets of PowellBadlyScaledLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellBadlyScaledLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellBadlyScaledLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := PowellBadlyScaledLBFGSAnalytic(powellBadlyScaledLBFGSAnalyticTestStart())
+	for _, budget := range []int{PowellBadlyScaledLBFGSAnalyticTickMinimum, PowellBadlyScaledLBFGSAnalyticTickMinimum + 1, 2 * PowellBadlyScaledLBFGSAnalyticTickMinimum, 7 * PowellBadlyScaledLBFGSAnalyticTickMinimum} {
+		var s PowellBadlyScaledLBFGSAnalyticSolver
+		s.Start(powellBadlyScaledLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellBadlyScaledLBFGSAnalyticRunning {
+				if !powellBadlyScaledLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellBadlyScaledLBFGSAnalyticSolver
+	s.Start(powellBadlyScaledLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PowellBadlyScaledLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellBadlyScaledLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellBadlyScaledLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PowellBadlyScaledLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellBadlyScaledLBFGSAnalyticTestStart())
+		for s.Advance(PowellBadlyScaledLBFGSAnalyticTickMinimum).Status == PowellBadlyScaledLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellBadlyScaledLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellBadlyScaledLBFGSAnalyticTestSameResult(a, b PowellBadlyScaledLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellBadlyScaledLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPowellBadlyScaledLBFGSAnalytic(b *testing.B) {
 	var r PowellBadlyScaledLBFGSAnalyticResult

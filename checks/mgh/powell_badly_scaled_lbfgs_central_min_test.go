@@ -47,6 +47,55 @@ func TestPowellBadlyScaledLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPowellBadlyScaledLBFGSCentralSolverTicks advances a PowellBadlyScaledLBFGSCentralSolver from the spec's start with budgets of PowellBadlyScaledLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellBadlyScaledLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellBadlyScaledLBFGSCentralSolverTicks(t *testing.T) {
+	want := PowellBadlyScaledLBFGSCentral(powellBadlyScaledLBFGSCentralTestStart())
+	for _, budget := range []int{PowellBadlyScaledLBFGSCentralTickMinimum, PowellBadlyScaledLBFGSCentralTickMinimum + 1, 2 * PowellBadlyScaledLBFGSCentralTickMinimum, 7 * PowellBadlyScaledLBFGSCentralTickMinimum} {
+		var s PowellBadlyScaledLBFGSCentralSolver
+		s.Start(powellBadlyScaledLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellBadlyScaledLBFGSCentralRunning {
+				if !powellBadlyScaledLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellBadlyScaledLBFGSCentralSolver
+	s.Start(powellBadlyScaledLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PowellBadlyScaledLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellBadlyScaledLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellBadlyScaledLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PowellBadlyScaledLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellBadlyScaledLBFGSCentralTestStart())
+		for s.Advance(PowellBadlyScaledLBFGSCentralTickMinimum).Status == PowellBadlyScaledLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellBadlyScaledLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellBadlyScaledLBFGSCentralTestSameResult(a, b PowellBadlyScaledLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellBadlyScaledLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPowellBadlyScaledLBFGSCentral(b *testing.B) {
 	var r PowellBadlyScaledLBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	PowellSingularBFGSAnalyticNoDecrease
 	// PowellSingularBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PowellSingularBFGSAnalyticDiverged
+	// PowellSingularBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PowellSingularBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PowellSingularBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PowellSingularBFGSAnalyticDiverged:
 		return "diverged"
+	case PowellSingularBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PowellSingularBFGSAnalyticWithLimits(x0 [4]float64, limits PowellSingularBF
 	}
 }
 
+// PowellSingularBFGSAnalyticTickMinimum is the smallest call budget with which every PowellSingularBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PowellSingularBFGSAnalyticTickMinimum = 48
+
+// PowellSingularBFGSAnalyticSolver is a run of PowellSingularBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PowellSingularBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PowellSingularBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PowellSingularBFGSAnalyticRunning ends exactly as PowellSingularBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PowellSingularBFGSAnalytic and PowellSingularBFGSAnalyticWithLimits use at most 2952 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PowellSingularBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PowellSingularBFGSAnalyticSolver struct {
+	run       powellSingularBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PowellSingularBFGSAnalyticLimits  // the limits of the runs; PowellSingularBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                              // whether SetLimits has set limits
+	started   bool                              // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PowellSingularBFGSAnalyticSolver) SetLimits(limits PowellSingularBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PowellSingularBFGSAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PowellSingularBFGSAnalyticSolver) StartFrom(from PowellSingularBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *PowellSingularBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PowellSingularBFGSAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PowellSingularBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, powellSingularBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PowellSingularBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PowellSingularBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PowellSingularBFGSAnalyticSolver) Advance(budget int) PowellSingularBFGSAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PowellSingularBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PowellSingularBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	powellSingularBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	powellSingularBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	powellSingularBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	powellSingularBFGSAnalyticStepTrials     = 48                     // step.trials
-	powellSingularBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	powellSingularBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	powellSingularBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	powellSingularBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	powellSingularBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	powellSingularBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	powellSingularBFGSAnalyticStepTrials      = 48                     // step.trials
+	powellSingularBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	powellSingularBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	powellSingularBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	powellSingularBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	powellSingularBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	powellSingularBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // powellSingularBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAnalyticLimits, bounds powellSingularBFGSAnalyticBox) powellSingularBFGSAnalyticOutcome {
-	x := x0
-	powellSingularBFGSAnalyticEnterBox(&x, &bounds)
-	out := powellSingularBFGSAnalyticOutcome{x: x, status: PowellSingularBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PowellSingular(&x)
-	out.f, out.evaluations = fx, 1
-	if !powellSingularBFGSAnalyticFinite(fx) || !powellSingularBFGSAnalyticFiniteVec(&x) {
-		out.status = PowellSingularBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := powellSingularBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := powellSingularBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+powellSingularBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += powellSingularBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !powellSingularBFGSAnalyticFiniteVec(&g) {
-		out.status = PowellSingularBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir powellSingularBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(powellSingularBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                            // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from powellSingularBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                       // whether the run can make no more progress at x
-	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
-	verify := powellSingularBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != powellSingularBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see powellSingularBFGSAnalyticConfirmGradient and settle).
-			calls, ok := powellSingularBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellSingularBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellSingularBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = powellSingularBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			powellSingularBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := powellSingularBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, powellSingularBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * powellSingularBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (powellSingularBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PowellSingularBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = powellSingularBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if powellSingularBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PowellSingularBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if powellSingularBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = powellSingularBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PowellSingularBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			powellSingularBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PowellSingularBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		powellSingularBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := powellSingularBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !powellSingularBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			powellSingularBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = powellSingularBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(powellSingularBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := powellSingularBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case powellSingularBFGSAnalyticSearchOutOfBudget:
-			return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case powellSingularBFGSAnalyticSearchDiverged:
-			return best.ending(PowellSingularBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case powellSingularBFGSAnalyticSearchExhausted, powellSingularBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see powellSingularBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PowellSingularBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PowellSingularBFGSAnalyticNoDecrease
-			case found.end == powellSingularBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = powellSingularBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == powellSingularBFGSAnalyticSearchTiny:
-				end = PowellSingularBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !powellSingularBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PowellSingularBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+powellSingularBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += powellSingularBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		powellSingularBFGSAnalyticDifference(&s, &xt, &x)
-		powellSingularBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !powellSingularBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PowellSingularBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r powellSingularBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(powellSingularBFGSAnalyticUnlimited)
 }
 
 // powellSingularBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o powellSingularBFGSAnalyticOutcome) ending(end PowellSingularBFGSAnalytic
 	return o
 }
 
-// powellSingularBFGSAnalyticEnterBox: without bounds every start is inside.
-func powellSingularBFGSAnalyticEnterBox(x *[4]float64, b *powellSingularBFGSAnalyticBox) {}
-
-// powellSingularBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func powellSingularBFGSAnalyticFinite(v float64) bool {
-	return v >= -powellSingularBFGSAnalyticLargestFinite && v <= powellSingularBFGSAnalyticLargestFinite
+// powellSingularBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type powellSingularBFGSAnalyticDescent struct {
+	lim       PowellSingularBFGSAnalyticLimits
+	stage     int                                   // what advance does next
+	diffs     powellSingularBFGSAnalyticDifferences // the box and the difference intervals
+	dir       powellSingularBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                            // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                            // the search direction, the last step and its gradient change
+	fx        float64                               // f(x)
+	t, slope  float64                               // the previous iteration's accepted step and slope
+	out, best powellSingularBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                               // f(x0)
+	rises     int                                   // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                  // whether g and e at x come from powellSingularBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                  // whether the run can make no more progress at x
+	retried   int                                   // the iteration whose stall was retried with recalibrated differences
+	verify    int                                   // what to check at x before judging it again
 }
 
-// powellSingularBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func powellSingularBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *powellSingularBFGSAnalyticDescent) prepare(x0 [4]float64, lim PowellSingularBFGSAnalyticLimits, bounds powellSingularBFGSAnalyticBox) {
+	r.lim, r.stage = lim, powellSingularBFGSAnalyticStageBegin
+	r.diffs = powellSingularBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	powellSingularBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = powellSingularBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PowellSingularBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *powellSingularBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PowellSingularBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, powellSingularBFGSAnalyticSettleCalls and powellSingularBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *powellSingularBFGSAnalyticDescent) advance(budget int) powellSingularBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != powellSingularBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case powellSingularBFGSAnalyticStageBegin:
+			if left < 1+powellSingularBFGSAnalyticCalibrationCost+powellSingularBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case powellSingularBFGSAnalyticStageJudge:
+			if r.verify != powellSingularBFGSAnalyticVerifyNothing && left < powellSingularBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < powellSingularBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *powellSingularBFGSAnalyticDescent) paused() powellSingularBFGSAnalyticOutcome {
+	return r.best.ending(PowellSingularBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *powellSingularBFGSAnalyticDescent) finish(end PowellSingularBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = powellSingularBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *powellSingularBFGSAnalyticDescent) begin() {
+	r.stage = powellSingularBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !powellSingularBFGSAnalyticFinite(r.fx) || !powellSingularBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PowellSingularBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := powellSingularBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+powellSingularBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += powellSingularBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !powellSingularBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PowellSingularBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = powellSingularBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, powellSingularBFGSAnalyticVerifyNothing
+	r.stage = powellSingularBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves powellSingularBFGSAnalyticStageSearch next when the run goes on.
+func (r *powellSingularBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != powellSingularBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see powellSingularBFGSAnalyticConfirmGradient and settle).
+		calls, ok := powellSingularBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == powellSingularBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PowellSingularBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !powellSingularBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PowellSingularBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = powellSingularBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		powellSingularBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := powellSingularBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, powellSingularBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * powellSingularBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (powellSingularBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PowellSingularBFGSAnalyticGradientSmall
+		r.stage = powellSingularBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = powellSingularBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if powellSingularBFGSAnalyticDerivativeCost == 0 {
+			r.finish(PowellSingularBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if powellSingularBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = powellSingularBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PowellSingularBFGSAnalyticDiverged)
+			return
+		}
+		powellSingularBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PowellSingularBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = powellSingularBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves powellSingularBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *powellSingularBFGSAnalyticDescent) search() {
+	powellSingularBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := powellSingularBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !powellSingularBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		powellSingularBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = powellSingularBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(powellSingularBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := powellSingularBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := powellSingularBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case powellSingularBFGSAnalyticSearchOutOfBudget:
+		r.finish(PowellSingularBFGSAnalyticOutOfEvaluations)
+		return
+	case powellSingularBFGSAnalyticSearchDiverged:
+		r.finish(PowellSingularBFGSAnalyticDiverged)
+		return
+	case powellSingularBFGSAnalyticSearchExhausted, powellSingularBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see powellSingularBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PowellSingularBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PowellSingularBFGSAnalyticNoDecrease
+		case found.end == powellSingularBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = powellSingularBFGSAnalyticVerifyStall, true, powellSingularBFGSAnalyticStageJudge
+			return
+		case found.end == powellSingularBFGSAnalyticSearchTiny:
+			end = PowellSingularBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !powellSingularBFGSAnalyticFiniteVec(&xt) {
+		r.finish(PowellSingularBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+powellSingularBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PowellSingularBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += powellSingularBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	powellSingularBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	powellSingularBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !powellSingularBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PowellSingularBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = powellSingularBFGSAnalyticStageJudge
 }
 
 // powellSingularBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type powellSingularBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularBFGSAnalyticRoundingFloor)
 	bounds    powellSingularBFGSAnalyticBox
-}
-
-// powellSingularBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func powellSingularBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellSingularBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// powellSingularBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellSingularBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) int {
-	PowellSingularGrad(x, g)
-	return 0
 }
 
 // powellSingularBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func powellSingularBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularBFGSAnalyticDot(s, s))*(sy/powellSingularBFGSAnalyticDot(y, y)) > powellSingularBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	powellSingularBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	powellSingularBFGSAnalyticStageJudge         // settle when asked (powellSingularBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	powellSingularBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: powellSingularBFGSAnalyticIterationCalls
+	powellSingularBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// powellSingularBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellSingularBFGSAnalyticEnterBox(x *[4]float64, b *powellSingularBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	powellSingularBFGSAnalyticVerifyNothing = iota
 	powellSingularBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellSingularBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellSingularBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func powellSingularBFGSAnalyticFinite(v float64) bool {
+	return v >= -powellSingularBFGSAnalyticLargestFinite && v <= powellSingularBFGSAnalyticLargestFinite
+}
+
+// powellSingularBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func powellSingularBFGSAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !powellSingularBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// powellSingularBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func powellSingularBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellSingularBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// powellSingularBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func powellSingularBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) int {
+	PowellSingularGrad(x, g)
+	return 0
+}
 
 // powellSingularBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (powellSingularBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func powellSingularBFGSAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// powellSingularBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const powellSingularBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestPowellSingularBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPowellSingularBFGSAnalyticSolverTicks advances a PowellSingularBFGSAnalyticSolver from the spec's start with budgets of PowellSingularBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellSingularBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellSingularBFGSAnalyticSolverTicks(t *testing.T) {
+	want := PowellSingularBFGSAnalytic(powellSingularBFGSAnalyticTestStart())
+	for _, budget := range []int{PowellSingularBFGSAnalyticTickMinimum, PowellSingularBFGSAnalyticTickMinimum + 1, 2 * PowellSingularBFGSAnalyticTickMinimum, 7 * PowellSingularBFGSAnalyticTickMinimum} {
+		var s PowellSingularBFGSAnalyticSolver
+		s.Start(powellSingularBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellSingularBFGSAnalyticRunning {
+				if !powellSingularBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellSingularBFGSAnalyticSolver
+	s.Start(powellSingularBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PowellSingularBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellSingularBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellSingularBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PowellSingularBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellSingularBFGSAnalyticTestStart())
+		for s.Advance(PowellSingularBFGSAnalyticTickMinimum).Status == PowellSingularBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellSingularBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellSingularBFGSAnalyticTestSameResult(a, b PowellSingularBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellSingularBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPowellSingularBFGSAnalytic(b *testing.B) {
 	var r PowellSingularBFGSAnalyticResult

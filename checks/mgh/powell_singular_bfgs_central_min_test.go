@@ -47,6 +47,55 @@ func TestPowellSingularBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPowellSingularBFGSCentralSolverTicks advances a PowellSingularBFGSCentralSolver from the spec's start with budgets of PowellSingularBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellSingularBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellSingularBFGSCentralSolverTicks(t *testing.T) {
+	want := PowellSingularBFGSCentral(powellSingularBFGSCentralTestStart())
+	for _, budget := range []int{PowellSingularBFGSCentralTickMinimum, PowellSingularBFGSCentralTickMinimum + 1, 2 * PowellSingularBFGSCentralTickMinimum, 7 * PowellSingularBFGSCentralTickMinimum} {
+		var s PowellSingularBFGSCentralSolver
+		s.Start(powellSingularBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellSingularBFGSCentralRunning {
+				if !powellSingularBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellSingularBFGSCentralSolver
+	s.Start(powellSingularBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PowellSingularBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellSingularBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellSingularBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PowellSingularBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellSingularBFGSCentralTestStart())
+		for s.Advance(PowellSingularBFGSCentralTickMinimum).Status == PowellSingularBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellSingularBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellSingularBFGSCentralTestSameResult(a, b PowellSingularBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellSingularBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPowellSingularBFGSCentral(b *testing.B) {
 	var r PowellSingularBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	PowellSingularCGAnalyticNoDecrease
 	// PowellSingularCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PowellSingularCGAnalyticDiverged
+	// PowellSingularCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PowellSingularCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PowellSingularCGAnalyticStatus) String() string {
 		return "no decrease"
 	case PowellSingularCGAnalyticDiverged:
 		return "diverged"
+	case PowellSingularCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func PowellSingularCGAnalyticWithLimits(x0 [4]float64, limits PowellSingularCGAn
 	}
 }
 
+// PowellSingularCGAnalyticTickMinimum is the smallest call budget with which every PowellSingularCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PowellSingularCGAnalyticTickMinimum = 48
+
+// PowellSingularCGAnalyticSolver is a run of PowellSingularCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PowellSingularCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PowellSingularCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PowellSingularCGAnalyticRunning ends exactly as PowellSingularCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PowellSingularCGAnalytic and PowellSingularCGAnalyticWithLimits use at most 2896 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PowellSingularCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PowellSingularCGAnalyticSolver struct {
+	run       powellSingularCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PowellSingularCGAnalyticLimits  // the limits of the runs; PowellSingularCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                            // whether SetLimits has set limits
+	started   bool                            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PowellSingularCGAnalyticSolver) SetLimits(limits PowellSingularCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PowellSingularCGAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PowellSingularCGAnalyticSolver) StartFrom(from PowellSingularCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *PowellSingularCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PowellSingularCGAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PowellSingularCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, powellSingularCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PowellSingularCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PowellSingularCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PowellSingularCGAnalyticSolver) Advance(budget int) PowellSingularCGAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PowellSingularCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PowellSingularCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	powellSingularCGAnalyticStepInitial    = 1.0                    // step.initial
-	powellSingularCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	powellSingularCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	powellSingularCGAnalyticStepTrials     = 48                     // step.trials
-	powellSingularCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	powellSingularCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	powellSingularCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	powellSingularCGAnalyticStepInitial     = 1.0                    // step.initial
+	powellSingularCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	powellSingularCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	powellSingularCGAnalyticStepTrials      = 48                     // step.trials
+	powellSingularCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	powellSingularCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	powellSingularCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	powellSingularCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	powellSingularCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	powellSingularCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // powellSingularCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyticLimits, bounds powellSingularCGAnalyticBox) powellSingularCGAnalyticOutcome {
-	x := x0
-	powellSingularCGAnalyticEnterBox(&x, &bounds)
-	out := powellSingularCGAnalyticOutcome{x: x, status: PowellSingularCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PowellSingular(&x)
-	out.f, out.evaluations = fx, 1
-	if !powellSingularCGAnalyticFinite(fx) || !powellSingularCGAnalyticFiniteVec(&x) {
-		out.status = PowellSingularCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := powellSingularCGAnalyticDifferences{bounds: bounds}
-	calls, ok := powellSingularCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+powellSingularCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += powellSingularCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !powellSingularCGAnalyticFiniteVec(&g) {
-		out.status = PowellSingularCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir powellSingularCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(powellSingularCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from powellSingularCGAnalyticConfirmGradient or settle
-	stalled := false                                                     // whether the run can make no more progress at x
-	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
-	verify := powellSingularCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != powellSingularCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see powellSingularCGAnalyticConfirmGradient and settle).
-			calls, ok := powellSingularCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellSingularCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularCGAnalyticFiniteVec(&g) {
-				return best.ending(PowellSingularCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = powellSingularCGAnalyticVerifyNothing, true
-		case !confirmed:
-			powellSingularCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := powellSingularCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, powellSingularCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * powellSingularCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (powellSingularCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PowellSingularCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = powellSingularCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if powellSingularCGAnalyticDerivativeCost == 0 {
-				return best.ending(PowellSingularCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if powellSingularCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = powellSingularCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PowellSingularCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			powellSingularCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PowellSingularCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		powellSingularCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := powellSingularCGAnalyticDot(&g, &d)
-		if !(now < 0) || !powellSingularCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			powellSingularCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = powellSingularCGAnalyticDot(&g, &d)
-		}
-		first := float64(powellSingularCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := powellSingularCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case powellSingularCGAnalyticSearchOutOfBudget:
-			return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case powellSingularCGAnalyticSearchDiverged:
-			return best.ending(PowellSingularCGAnalyticDiverged, out.iterations, out.evaluations)
-		case powellSingularCGAnalyticSearchExhausted, powellSingularCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see powellSingularCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PowellSingularCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PowellSingularCGAnalyticNoDecrease
-			case found.end == powellSingularCGAnalyticSearchTiny && canSettle:
-				verify, stalled = powellSingularCGAnalyticVerifyStall, true
-				continue
-			case found.end == powellSingularCGAnalyticSearchTiny:
-				end = PowellSingularCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !powellSingularCGAnalyticFiniteVec(&xt) {
-			return best.ending(PowellSingularCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+powellSingularCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += powellSingularCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		powellSingularCGAnalyticDifference(&s, &xt, &x)
-		powellSingularCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !powellSingularCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PowellSingularCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r powellSingularCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(powellSingularCGAnalyticUnlimited)
 }
 
 // powellSingularCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o powellSingularCGAnalyticOutcome) ending(end PowellSingularCGAnalyticStat
 	return o
 }
 
-// powellSingularCGAnalyticEnterBox: without bounds every start is inside.
-func powellSingularCGAnalyticEnterBox(x *[4]float64, b *powellSingularCGAnalyticBox) {}
-
-// powellSingularCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func powellSingularCGAnalyticFinite(v float64) bool {
-	return v >= -powellSingularCGAnalyticLargestFinite && v <= powellSingularCGAnalyticLargestFinite
+// powellSingularCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type powellSingularCGAnalyticDescent struct {
+	lim       PowellSingularCGAnalyticLimits
+	stage     int                                 // what advance does next
+	diffs     powellSingularCGAnalyticDifferences // the box and the difference intervals
+	dir       powellSingularCGAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                          // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                          // the search direction, the last step and its gradient change
+	fx        float64                             // f(x)
+	t, slope  float64                             // the previous iteration's accepted step and slope
+	out, best powellSingularCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                             // f(x0)
+	rises     int                                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                // whether g and e at x come from powellSingularCGAnalyticConfirmGradient or settle
+	stalled   bool                                // whether the run can make no more progress at x
+	retried   int                                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                                 // what to check at x before judging it again
 }
 
-// powellSingularCGAnalyticFiniteVec reports whether every component of x is finite.
-func powellSingularCGAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *powellSingularCGAnalyticDescent) prepare(x0 [4]float64, lim PowellSingularCGAnalyticLimits, bounds powellSingularCGAnalyticBox) {
+	r.lim, r.stage = lim, powellSingularCGAnalyticStageBegin
+	r.diffs = powellSingularCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	powellSingularCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = powellSingularCGAnalyticOutcome{x: r.x, f: math.NaN(), status: PowellSingularCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *powellSingularCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PowellSingularCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, powellSingularCGAnalyticSettleCalls and powellSingularCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *powellSingularCGAnalyticDescent) advance(budget int) powellSingularCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != powellSingularCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case powellSingularCGAnalyticStageBegin:
+			if left < 1+powellSingularCGAnalyticCalibrationCost+powellSingularCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case powellSingularCGAnalyticStageJudge:
+			if r.verify != powellSingularCGAnalyticVerifyNothing && left < powellSingularCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < powellSingularCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *powellSingularCGAnalyticDescent) paused() powellSingularCGAnalyticOutcome {
+	return r.best.ending(PowellSingularCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *powellSingularCGAnalyticDescent) finish(end PowellSingularCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = powellSingularCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *powellSingularCGAnalyticDescent) begin() {
+	r.stage = powellSingularCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !powellSingularCGAnalyticFinite(r.fx) || !powellSingularCGAnalyticFiniteVec(&r.x) {
+		r.out.status = PowellSingularCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := powellSingularCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+powellSingularCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += powellSingularCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !powellSingularCGAnalyticFiniteVec(&r.g) {
+		r.out.status = PowellSingularCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = powellSingularCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, powellSingularCGAnalyticVerifyNothing
+	r.stage = powellSingularCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves powellSingularCGAnalyticStageSearch next when the run goes on.
+func (r *powellSingularCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != powellSingularCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see powellSingularCGAnalyticConfirmGradient and settle).
+		calls, ok := powellSingularCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == powellSingularCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PowellSingularCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !powellSingularCGAnalyticFiniteVec(&r.g) {
+			r.finish(PowellSingularCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = powellSingularCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		powellSingularCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := powellSingularCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, powellSingularCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * powellSingularCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (powellSingularCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PowellSingularCGAnalyticGradientSmall
+		r.stage = powellSingularCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = powellSingularCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if powellSingularCGAnalyticDerivativeCost == 0 {
+			r.finish(PowellSingularCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if powellSingularCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = powellSingularCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PowellSingularCGAnalyticDiverged)
+			return
+		}
+		powellSingularCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PowellSingularCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = powellSingularCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves powellSingularCGAnalyticStageJudge next when the run
+// goes on.
+func (r *powellSingularCGAnalyticDescent) search() {
+	powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := powellSingularCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !powellSingularCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = powellSingularCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(powellSingularCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := powellSingularCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := powellSingularCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case powellSingularCGAnalyticSearchOutOfBudget:
+		r.finish(PowellSingularCGAnalyticOutOfEvaluations)
+		return
+	case powellSingularCGAnalyticSearchDiverged:
+		r.finish(PowellSingularCGAnalyticDiverged)
+		return
+	case powellSingularCGAnalyticSearchExhausted, powellSingularCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see powellSingularCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PowellSingularCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PowellSingularCGAnalyticNoDecrease
+		case found.end == powellSingularCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = powellSingularCGAnalyticVerifyStall, true, powellSingularCGAnalyticStageJudge
+			return
+		case found.end == powellSingularCGAnalyticSearchTiny:
+			end = PowellSingularCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !powellSingularCGAnalyticFiniteVec(&xt) {
+		r.finish(PowellSingularCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+powellSingularCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PowellSingularCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += powellSingularCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	powellSingularCGAnalyticDifference(&r.s, &xt, &r.x)
+	powellSingularCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !powellSingularCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PowellSingularCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = powellSingularCGAnalyticStageJudge
 }
 
 // powellSingularCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type powellSingularCGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularCGAnalyticRoundingFloor)
 	bounds    powellSingularCGAnalyticBox
-}
-
-// powellSingularCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func powellSingularCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellSingularCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// powellSingularCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellSingularCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularCGAnalyticDifferences) int {
-	PowellSingularGrad(x, g)
-	return 0
 }
 
 // powellSingularCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func powellSingularCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// powellSingularCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func powellSingularCGAnalyticFinite(v float64) bool {
+	return v >= -powellSingularCGAnalyticLargestFinite && v <= powellSingularCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	powellSingularCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	powellSingularCGAnalyticStageJudge         // settle when asked (powellSingularCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	powellSingularCGAnalyticStageSearch        // the line search and the gradient at the accepted point: powellSingularCGAnalyticIterationCalls
+	powellSingularCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// powellSingularCGAnalyticEnterBox: without bounds every start is inside.
+func powellSingularCGAnalyticEnterBox(x *[4]float64, b *powellSingularCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	powellSingularCGAnalyticVerifyNothing = iota
 	powellSingularCGAnalyticVerifyPass    // a difference gradient passed the test
 	powellSingularCGAnalyticVerifyStall   // no step makes progress
 )
+
+// powellSingularCGAnalyticFiniteVec reports whether every component of x is finite.
+func powellSingularCGAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !powellSingularCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// powellSingularCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func powellSingularCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellSingularCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// powellSingularCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func powellSingularCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularCGAnalyticDifferences) int {
+	PowellSingularGrad(x, g)
+	return 0
+}
 
 // powellSingularCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (powellSingularCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func powellSingularCGAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// powellSingularCGAnalyticUnlimited is a tick budget that never pauses a run.
+const powellSingularCGAnalyticUnlimited = int(^uint(0) >> 1)

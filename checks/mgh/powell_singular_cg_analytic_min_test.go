@@ -105,6 +105,55 @@ func TestPowellSingularCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPowellSingularCGAnalyticSolverTicks advances a PowellSingularCGAnalyticSolver from the spec's start with budgets of PowellSingularCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellSingularCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellSingularCGAnalyticSolverTicks(t *testing.T) {
+	want := PowellSingularCGAnalytic(powellSingularCGAnalyticTestStart())
+	for _, budget := range []int{PowellSingularCGAnalyticTickMinimum, PowellSingularCGAnalyticTickMinimum + 1, 2 * PowellSingularCGAnalyticTickMinimum, 7 * PowellSingularCGAnalyticTickMinimum} {
+		var s PowellSingularCGAnalyticSolver
+		s.Start(powellSingularCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellSingularCGAnalyticRunning {
+				if !powellSingularCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellSingularCGAnalyticSolver
+	s.Start(powellSingularCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PowellSingularCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellSingularCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellSingularCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PowellSingularCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellSingularCGAnalyticTestStart())
+		for s.Advance(PowellSingularCGAnalyticTickMinimum).Status == PowellSingularCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellSingularCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellSingularCGAnalyticTestSameResult(a, b PowellSingularCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellSingularCGAnalytic measures one whole run from the spec's start.
 func BenchmarkPowellSingularCGAnalytic(b *testing.B) {
 	var r PowellSingularCGAnalyticResult

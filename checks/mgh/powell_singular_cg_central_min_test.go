@@ -47,6 +47,55 @@ func TestPowellSingularCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPowellSingularCGCentralSolverTicks advances a PowellSingularCGCentralSolver from the spec's start with budgets of PowellSingularCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellSingularCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellSingularCGCentralSolverTicks(t *testing.T) {
+	want := PowellSingularCGCentral(powellSingularCGCentralTestStart())
+	for _, budget := range []int{PowellSingularCGCentralTickMinimum, PowellSingularCGCentralTickMinimum + 1, 2 * PowellSingularCGCentralTickMinimum, 7 * PowellSingularCGCentralTickMinimum} {
+		var s PowellSingularCGCentralSolver
+		s.Start(powellSingularCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellSingularCGCentralRunning {
+				if !powellSingularCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellSingularCGCentralSolver
+	s.Start(powellSingularCGCentralTestStart())
+	if r := s.Advance(0); r.Status != PowellSingularCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellSingularCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellSingularCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s PowellSingularCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellSingularCGCentralTestStart())
+		for s.Advance(PowellSingularCGCentralTickMinimum).Status == PowellSingularCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellSingularCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellSingularCGCentralTestSameResult(a, b PowellSingularCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellSingularCGCentral measures one whole run from the spec's start.
 func BenchmarkPowellSingularCGCentral(b *testing.B) {
 	var r PowellSingularCGCentralResult

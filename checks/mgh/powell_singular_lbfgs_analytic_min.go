@@ -26,6 +26,8 @@ const (
 	PowellSingularLBFGSAnalyticNoDecrease
 	// PowellSingularLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	PowellSingularLBFGSAnalyticDiverged
+	// PowellSingularLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	PowellSingularLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s PowellSingularLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case PowellSingularLBFGSAnalyticDiverged:
 		return "diverged"
+	case PowellSingularLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func PowellSingularLBFGSAnalyticWithLimits(x0 [4]float64, limits PowellSingularL
 	}
 }
 
+// PowellSingularLBFGSAnalyticTickMinimum is the smallest call budget with which every PowellSingularLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const PowellSingularLBFGSAnalyticTickMinimum = 48
+
+// PowellSingularLBFGSAnalyticSolver is a run of PowellSingularLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PowellSingularLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least PowellSingularLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PowellSingularLBFGSAnalyticRunning ends exactly as PowellSingularLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PowellSingularLBFGSAnalytic and PowellSingularLBFGSAnalyticWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is PowellSingularLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type PowellSingularLBFGSAnalyticSolver struct {
+	run       powellSingularLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    PowellSingularLBFGSAnalyticLimits  // the limits of the runs; PowellSingularLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                               // whether SetLimits has set limits
+	started   bool                               // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *PowellSingularLBFGSAnalyticSolver) SetLimits(limits PowellSingularLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *PowellSingularLBFGSAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *PowellSingularLBFGSAnalyticSolver) StartFrom(from PowellSingularLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *PowellSingularLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *PowellSingularLBFGSAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = PowellSingularLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, powellSingularLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status PowellSingularLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See PowellSingularLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *PowellSingularLBFGSAnalyticSolver) Advance(budget int) PowellSingularLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return PowellSingularLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of PowellSingularLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	powellSingularLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	powellSingularLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	powellSingularLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	powellSingularLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	powellSingularLBFGSAnalyticStepTrials     = 48                     // step.trials
-	powellSingularLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	powellSingularLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	powellSingularLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	powellSingularLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	powellSingularLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	powellSingularLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	powellSingularLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	powellSingularLBFGSAnalyticStepTrials      = 48                     // step.trials
+	powellSingularLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	powellSingularLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	powellSingularLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	powellSingularLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	powellSingularLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	powellSingularLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // powellSingularLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSAnalyticLimits, bounds powellSingularLBFGSAnalyticBox) powellSingularLBFGSAnalyticOutcome {
-	x := x0
-	powellSingularLBFGSAnalyticEnterBox(&x, &bounds)
-	out := powellSingularLBFGSAnalyticOutcome{x: x, status: PowellSingularLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := PowellSingular(&x)
-	out.f, out.evaluations = fx, 1
-	if !powellSingularLBFGSAnalyticFinite(fx) || !powellSingularLBFGSAnalyticFiniteVec(&x) {
-		out.status = PowellSingularLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := powellSingularLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := powellSingularLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+powellSingularLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += powellSingularLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !powellSingularLBFGSAnalyticFiniteVec(&g) {
-		out.status = PowellSingularLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir powellSingularLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(powellSingularLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                             // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from powellSingularLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                        // whether the run can make no more progress at x
-	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
-	verify := powellSingularLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != powellSingularLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see powellSingularLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := powellSingularLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellSingularLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellSingularLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = powellSingularLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			powellSingularLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := powellSingularLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, powellSingularLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * powellSingularLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (powellSingularLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = PowellSingularLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = powellSingularLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if powellSingularLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(PowellSingularLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if powellSingularLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = powellSingularLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(PowellSingularLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			powellSingularLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(PowellSingularLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		powellSingularLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := powellSingularLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !powellSingularLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			powellSingularLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = powellSingularLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(powellSingularLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := powellSingularLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case powellSingularLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case powellSingularLBFGSAnalyticSearchDiverged:
-			return best.ending(PowellSingularLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case powellSingularLBFGSAnalyticSearchExhausted, powellSingularLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see powellSingularLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := PowellSingularLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = PowellSingularLBFGSAnalyticNoDecrease
-			case found.end == powellSingularLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = powellSingularLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == powellSingularLBFGSAnalyticSearchTiny:
-				end = PowellSingularLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !powellSingularLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(PowellSingularLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+powellSingularLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += powellSingularLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		powellSingularLBFGSAnalyticDifference(&s, &xt, &x)
-		powellSingularLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !powellSingularLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(PowellSingularLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r powellSingularLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(powellSingularLBFGSAnalyticUnlimited)
 }
 
 // powellSingularLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o powellSingularLBFGSAnalyticOutcome) ending(end PowellSingularLBFGSAnalyt
 	return o
 }
 
-// powellSingularLBFGSAnalyticEnterBox: without bounds every start is inside.
-func powellSingularLBFGSAnalyticEnterBox(x *[4]float64, b *powellSingularLBFGSAnalyticBox) {}
-
-// powellSingularLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func powellSingularLBFGSAnalyticFinite(v float64) bool {
-	return v >= -powellSingularLBFGSAnalyticLargestFinite && v <= powellSingularLBFGSAnalyticLargestFinite
+// powellSingularLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type powellSingularLBFGSAnalyticDescent struct {
+	lim       PowellSingularLBFGSAnalyticLimits
+	stage     int                                    // what advance does next
+	diffs     powellSingularLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       powellSingularLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                             // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                             // the search direction, the last step and its gradient change
+	fx        float64                                // f(x)
+	t, slope  float64                                // the previous iteration's accepted step and slope
+	out, best powellSingularLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                // f(x0)
+	rises     int                                    // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                   // whether g and e at x come from powellSingularLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                   // whether the run can make no more progress at x
+	retried   int                                    // the iteration whose stall was retried with recalibrated differences
+	verify    int                                    // what to check at x before judging it again
 }
 
-// powellSingularLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func powellSingularLBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *powellSingularLBFGSAnalyticDescent) prepare(x0 [4]float64, lim PowellSingularLBFGSAnalyticLimits, bounds powellSingularLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, powellSingularLBFGSAnalyticStageBegin
+	r.diffs = powellSingularLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	powellSingularLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = powellSingularLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: PowellSingularLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *powellSingularLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with PowellSingularLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, powellSingularLBFGSAnalyticSettleCalls and powellSingularLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *powellSingularLBFGSAnalyticDescent) advance(budget int) powellSingularLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != powellSingularLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case powellSingularLBFGSAnalyticStageBegin:
+			if left < 1+powellSingularLBFGSAnalyticCalibrationCost+powellSingularLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case powellSingularLBFGSAnalyticStageJudge:
+			if r.verify != powellSingularLBFGSAnalyticVerifyNothing && left < powellSingularLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < powellSingularLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *powellSingularLBFGSAnalyticDescent) paused() powellSingularLBFGSAnalyticOutcome {
+	return r.best.ending(PowellSingularLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *powellSingularLBFGSAnalyticDescent) finish(end PowellSingularLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = powellSingularLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *powellSingularLBFGSAnalyticDescent) begin() {
+	r.stage = powellSingularLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !powellSingularLBFGSAnalyticFinite(r.fx) || !powellSingularLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = PowellSingularLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := powellSingularLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+powellSingularLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += powellSingularLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !powellSingularLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = PowellSingularLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = powellSingularLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, powellSingularLBFGSAnalyticVerifyNothing
+	r.stage = powellSingularLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves powellSingularLBFGSAnalyticStageSearch next when the run goes on.
+func (r *powellSingularLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != powellSingularLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see powellSingularLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := powellSingularLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == powellSingularLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(PowellSingularLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !powellSingularLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(PowellSingularLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = powellSingularLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		powellSingularLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := powellSingularLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, powellSingularLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * powellSingularLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (powellSingularLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = PowellSingularLBFGSAnalyticGradientSmall
+		r.stage = powellSingularLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = powellSingularLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if powellSingularLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(PowellSingularLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if powellSingularLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = powellSingularLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(PowellSingularLBFGSAnalyticDiverged)
+			return
+		}
+		powellSingularLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(PowellSingularLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = powellSingularLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves powellSingularLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *powellSingularLBFGSAnalyticDescent) search() {
+	powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := powellSingularLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !powellSingularLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = powellSingularLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(powellSingularLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := powellSingularLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := powellSingularLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case powellSingularLBFGSAnalyticSearchOutOfBudget:
+		r.finish(PowellSingularLBFGSAnalyticOutOfEvaluations)
+		return
+	case powellSingularLBFGSAnalyticSearchDiverged:
+		r.finish(PowellSingularLBFGSAnalyticDiverged)
+		return
+	case powellSingularLBFGSAnalyticSearchExhausted, powellSingularLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see powellSingularLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := PowellSingularLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = PowellSingularLBFGSAnalyticNoDecrease
+		case found.end == powellSingularLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = powellSingularLBFGSAnalyticVerifyStall, true, powellSingularLBFGSAnalyticStageJudge
+			return
+		case found.end == powellSingularLBFGSAnalyticSearchTiny:
+			end = PowellSingularLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !powellSingularLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(PowellSingularLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+powellSingularLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(PowellSingularLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += powellSingularLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	powellSingularLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	powellSingularLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !powellSingularLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(PowellSingularLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = powellSingularLBFGSAnalyticStageJudge
 }
 
 // powellSingularLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type powellSingularLBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularLBFGSAnalyticRoundingFloor)
 	bounds    powellSingularLBFGSAnalyticBox
-}
-
-// powellSingularLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func powellSingularLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellSingularLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// powellSingularLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellSingularLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) int {
-	PowellSingularGrad(x, g)
-	return 0
 }
 
 // powellSingularLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func powellSingularLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularLBFGSAnalyticDot(s, s))*(sy/powellSingularLBFGSAnalyticDot(y, y)) > powellSingularLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	powellSingularLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	powellSingularLBFGSAnalyticStageJudge         // settle when asked (powellSingularLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	powellSingularLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: powellSingularLBFGSAnalyticIterationCalls
+	powellSingularLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// powellSingularLBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellSingularLBFGSAnalyticEnterBox(x *[4]float64, b *powellSingularLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	powellSingularLBFGSAnalyticVerifyNothing = iota
 	powellSingularLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellSingularLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellSingularLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func powellSingularLBFGSAnalyticFinite(v float64) bool {
+	return v >= -powellSingularLBFGSAnalyticLargestFinite && v <= powellSingularLBFGSAnalyticLargestFinite
+}
+
+// powellSingularLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func powellSingularLBFGSAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !powellSingularLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// powellSingularLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func powellSingularLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellSingularLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// powellSingularLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func powellSingularLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) int {
+	PowellSingularGrad(x, g)
+	return 0
+}
 
 // powellSingularLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (powellSingularLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1027,3 +1221,6 @@ func powellSingularLBFGSAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// powellSingularLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const powellSingularLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestPowellSingularLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestPowellSingularLBFGSAnalyticSolverTicks advances a PowellSingularLBFGSAnalyticSolver from the spec's start with budgets of PowellSingularLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellSingularLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellSingularLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := PowellSingularLBFGSAnalytic(powellSingularLBFGSAnalyticTestStart())
+	for _, budget := range []int{PowellSingularLBFGSAnalyticTickMinimum, PowellSingularLBFGSAnalyticTickMinimum + 1, 2 * PowellSingularLBFGSAnalyticTickMinimum, 7 * PowellSingularLBFGSAnalyticTickMinimum} {
+		var s PowellSingularLBFGSAnalyticSolver
+		s.Start(powellSingularLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellSingularLBFGSAnalyticRunning {
+				if !powellSingularLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellSingularLBFGSAnalyticSolver
+	s.Start(powellSingularLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != PowellSingularLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellSingularLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellSingularLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s PowellSingularLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellSingularLBFGSAnalyticTestStart())
+		for s.Advance(PowellSingularLBFGSAnalyticTickMinimum).Status == PowellSingularLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellSingularLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellSingularLBFGSAnalyticTestSameResult(a, b PowellSingularLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellSingularLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkPowellSingularLBFGSAnalytic(b *testing.B) {
 	var r PowellSingularLBFGSAnalyticResult

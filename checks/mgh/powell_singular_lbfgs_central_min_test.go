@@ -47,6 +47,55 @@ func TestPowellSingularLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestPowellSingularLBFGSCentralSolverTicks advances a PowellSingularLBFGSCentralSolver from the spec's start with budgets of PowellSingularLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where PowellSingularLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestPowellSingularLBFGSCentralSolverTicks(t *testing.T) {
+	want := PowellSingularLBFGSCentral(powellSingularLBFGSCentralTestStart())
+	for _, budget := range []int{PowellSingularLBFGSCentralTickMinimum, PowellSingularLBFGSCentralTickMinimum + 1, 2 * PowellSingularLBFGSCentralTickMinimum, 7 * PowellSingularLBFGSCentralTickMinimum} {
+		var s PowellSingularLBFGSCentralSolver
+		s.Start(powellSingularLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != PowellSingularLBFGSCentralRunning {
+				if !powellSingularLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s PowellSingularLBFGSCentralSolver
+	s.Start(powellSingularLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != PowellSingularLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestPowellSingularLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestPowellSingularLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s PowellSingularLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(powellSingularLBFGSCentralTestStart())
+		for s.Advance(PowellSingularLBFGSCentralTickMinimum).Status == PowellSingularLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// powellSingularLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func powellSingularLBFGSCentralTestSameResult(a, b PowellSingularLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkPowellSingularLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkPowellSingularLBFGSCentral(b *testing.B) {
 	var r PowellSingularLBFGSCentralResult

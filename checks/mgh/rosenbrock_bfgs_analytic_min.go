@@ -26,6 +26,8 @@ const (
 	RosenbrockBFGSAnalyticNoDecrease
 	// RosenbrockBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	RosenbrockBFGSAnalyticDiverged
+	// RosenbrockBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	RosenbrockBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s RosenbrockBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case RosenbrockBFGSAnalyticDiverged:
 		return "diverged"
+	case RosenbrockBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func RosenbrockBFGSAnalyticWithLimits(x0 [2]float64, limits RosenbrockBFGSAnalyt
 	}
 }
 
+// RosenbrockBFGSAnalyticTickMinimum is the smallest call budget with which every RosenbrockBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const RosenbrockBFGSAnalyticTickMinimum = 48
+
+// RosenbrockBFGSAnalyticSolver is a run of RosenbrockBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (RosenbrockBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least RosenbrockBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not RosenbrockBFGSAnalyticRunning ends exactly as RosenbrockBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): RosenbrockBFGSAnalytic and RosenbrockBFGSAnalyticWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is RosenbrockBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type RosenbrockBFGSAnalyticSolver struct {
+	run       rosenbrockBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    RosenbrockBFGSAnalyticLimits  // the limits of the runs; RosenbrockBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                          // whether SetLimits has set limits
+	started   bool                          // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *RosenbrockBFGSAnalyticSolver) SetLimits(limits RosenbrockBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *RosenbrockBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *RosenbrockBFGSAnalyticSolver) StartFrom(from RosenbrockBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *RosenbrockBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *RosenbrockBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = RosenbrockBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, rosenbrockBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status RosenbrockBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See RosenbrockBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *RosenbrockBFGSAnalyticSolver) Advance(budget int) RosenbrockBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return RosenbrockBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of RosenbrockBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	rosenbrockBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	rosenbrockBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	rosenbrockBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	rosenbrockBFGSAnalyticStepTrials     = 48                     // step.trials
-	rosenbrockBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	rosenbrockBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	rosenbrockBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	rosenbrockBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	rosenbrockBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	rosenbrockBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	rosenbrockBFGSAnalyticStepTrials      = 48                     // step.trials
+	rosenbrockBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	rosenbrockBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	rosenbrockBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	rosenbrockBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	rosenbrockBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	rosenbrockBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // rosenbrockBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLimits, bounds rosenbrockBFGSAnalyticBox) rosenbrockBFGSAnalyticOutcome {
-	x := x0
-	rosenbrockBFGSAnalyticEnterBox(&x, &bounds)
-	out := rosenbrockBFGSAnalyticOutcome{x: x, status: RosenbrockBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Rosenbrock(&x)
-	out.f, out.evaluations = fx, 1
-	if !rosenbrockBFGSAnalyticFinite(fx) || !rosenbrockBFGSAnalyticFiniteVec(&x) {
-		out.status = RosenbrockBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := rosenbrockBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := rosenbrockBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+rosenbrockBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += rosenbrockBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !rosenbrockBFGSAnalyticFiniteVec(&g) {
-		out.status = RosenbrockBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir rosenbrockBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(rosenbrockBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                        // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from rosenbrockBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                   // whether the run can make no more progress at x
-	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
-	verify := rosenbrockBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != rosenbrockBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see rosenbrockBFGSAnalyticConfirmGradient and settle).
-			calls, ok := rosenbrockBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockBFGSAnalyticFiniteVec(&g) {
-				return best.ending(RosenbrockBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = rosenbrockBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			rosenbrockBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := rosenbrockBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, rosenbrockBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * rosenbrockBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (rosenbrockBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = RosenbrockBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = rosenbrockBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if rosenbrockBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(RosenbrockBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if rosenbrockBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = rosenbrockBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(RosenbrockBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			rosenbrockBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(RosenbrockBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		rosenbrockBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := rosenbrockBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !rosenbrockBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			rosenbrockBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = rosenbrockBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(rosenbrockBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := rosenbrockBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case rosenbrockBFGSAnalyticSearchOutOfBudget:
-			return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case rosenbrockBFGSAnalyticSearchDiverged:
-			return best.ending(RosenbrockBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case rosenbrockBFGSAnalyticSearchExhausted, rosenbrockBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see rosenbrockBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := RosenbrockBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = RosenbrockBFGSAnalyticNoDecrease
-			case found.end == rosenbrockBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = rosenbrockBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == rosenbrockBFGSAnalyticSearchTiny:
-				end = RosenbrockBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !rosenbrockBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(RosenbrockBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+rosenbrockBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += rosenbrockBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		rosenbrockBFGSAnalyticDifference(&s, &xt, &x)
-		rosenbrockBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !rosenbrockBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(RosenbrockBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r rosenbrockBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(rosenbrockBFGSAnalyticUnlimited)
 }
 
 // rosenbrockBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o rosenbrockBFGSAnalyticOutcome) ending(end RosenbrockBFGSAnalyticStatus, 
 	return o
 }
 
-// rosenbrockBFGSAnalyticEnterBox: without bounds every start is inside.
-func rosenbrockBFGSAnalyticEnterBox(x *[2]float64, b *rosenbrockBFGSAnalyticBox) {}
-
-// rosenbrockBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func rosenbrockBFGSAnalyticFinite(v float64) bool {
-	return v >= -rosenbrockBFGSAnalyticLargestFinite && v <= rosenbrockBFGSAnalyticLargestFinite
+// rosenbrockBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type rosenbrockBFGSAnalyticDescent struct {
+	lim       RosenbrockBFGSAnalyticLimits
+	stage     int                               // what advance does next
+	diffs     rosenbrockBFGSAnalyticDifferences // the box and the difference intervals
+	dir       rosenbrockBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                        // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                        // the search direction, the last step and its gradient change
+	fx        float64                           // f(x)
+	t, slope  float64                           // the previous iteration's accepted step and slope
+	out, best rosenbrockBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                           // f(x0)
+	rises     int                               // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                              // whether g and e at x come from rosenbrockBFGSAnalyticConfirmGradient or settle
+	stalled   bool                              // whether the run can make no more progress at x
+	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	verify    int                               // what to check at x before judging it again
 }
 
-// rosenbrockBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func rosenbrockBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *rosenbrockBFGSAnalyticDescent) prepare(x0 [2]float64, lim RosenbrockBFGSAnalyticLimits, bounds rosenbrockBFGSAnalyticBox) {
+	r.lim, r.stage = lim, rosenbrockBFGSAnalyticStageBegin
+	r.diffs = rosenbrockBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	rosenbrockBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = rosenbrockBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: RosenbrockBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *rosenbrockBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with RosenbrockBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, rosenbrockBFGSAnalyticSettleCalls and rosenbrockBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *rosenbrockBFGSAnalyticDescent) advance(budget int) rosenbrockBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != rosenbrockBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case rosenbrockBFGSAnalyticStageBegin:
+			if left < 1+rosenbrockBFGSAnalyticCalibrationCost+rosenbrockBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case rosenbrockBFGSAnalyticStageJudge:
+			if r.verify != rosenbrockBFGSAnalyticVerifyNothing && left < rosenbrockBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < rosenbrockBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *rosenbrockBFGSAnalyticDescent) paused() rosenbrockBFGSAnalyticOutcome {
+	return r.best.ending(RosenbrockBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *rosenbrockBFGSAnalyticDescent) finish(end RosenbrockBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = rosenbrockBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *rosenbrockBFGSAnalyticDescent) begin() {
+	r.stage = rosenbrockBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !rosenbrockBFGSAnalyticFinite(r.fx) || !rosenbrockBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = RosenbrockBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := rosenbrockBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+rosenbrockBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += rosenbrockBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !rosenbrockBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = RosenbrockBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = rosenbrockBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, rosenbrockBFGSAnalyticVerifyNothing
+	r.stage = rosenbrockBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves rosenbrockBFGSAnalyticStageSearch next when the run goes on.
+func (r *rosenbrockBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != rosenbrockBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see rosenbrockBFGSAnalyticConfirmGradient and settle).
+		calls, ok := rosenbrockBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == rosenbrockBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(RosenbrockBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !rosenbrockBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(RosenbrockBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = rosenbrockBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		rosenbrockBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := rosenbrockBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, rosenbrockBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * rosenbrockBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (rosenbrockBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = RosenbrockBFGSAnalyticGradientSmall
+		r.stage = rosenbrockBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = rosenbrockBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if rosenbrockBFGSAnalyticDerivativeCost == 0 {
+			r.finish(RosenbrockBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if rosenbrockBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = rosenbrockBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(RosenbrockBFGSAnalyticDiverged)
+			return
+		}
+		rosenbrockBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(RosenbrockBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = rosenbrockBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves rosenbrockBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *rosenbrockBFGSAnalyticDescent) search() {
+	rosenbrockBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := rosenbrockBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !rosenbrockBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		rosenbrockBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = rosenbrockBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(rosenbrockBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := rosenbrockBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := rosenbrockBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case rosenbrockBFGSAnalyticSearchOutOfBudget:
+		r.finish(RosenbrockBFGSAnalyticOutOfEvaluations)
+		return
+	case rosenbrockBFGSAnalyticSearchDiverged:
+		r.finish(RosenbrockBFGSAnalyticDiverged)
+		return
+	case rosenbrockBFGSAnalyticSearchExhausted, rosenbrockBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see rosenbrockBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := RosenbrockBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = RosenbrockBFGSAnalyticNoDecrease
+		case found.end == rosenbrockBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = rosenbrockBFGSAnalyticVerifyStall, true, rosenbrockBFGSAnalyticStageJudge
+			return
+		case found.end == rosenbrockBFGSAnalyticSearchTiny:
+			end = RosenbrockBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !rosenbrockBFGSAnalyticFiniteVec(&xt) {
+		r.finish(RosenbrockBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+rosenbrockBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(RosenbrockBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += rosenbrockBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	rosenbrockBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	rosenbrockBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !rosenbrockBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(RosenbrockBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = rosenbrockBFGSAnalyticStageJudge
 }
 
 // rosenbrockBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type rosenbrockBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockBFGSAnalyticRoundingFloor)
 	bounds    rosenbrockBFGSAnalyticBox
-}
-
-// rosenbrockBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func rosenbrockBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// rosenbrockBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func rosenbrockBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) int {
-	RosenbrockGrad(x, g)
-	return 0
 }
 
 // rosenbrockBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func rosenbrockBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockBFGSAnalyticDot(s, s))*(sy/rosenbrockBFGSAnalyticDot(y, y)) > rosenbrockBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	rosenbrockBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	rosenbrockBFGSAnalyticStageJudge         // settle when asked (rosenbrockBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	rosenbrockBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: rosenbrockBFGSAnalyticIterationCalls
+	rosenbrockBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// rosenbrockBFGSAnalyticEnterBox: without bounds every start is inside.
+func rosenbrockBFGSAnalyticEnterBox(x *[2]float64, b *rosenbrockBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	rosenbrockBFGSAnalyticVerifyNothing = iota
 	rosenbrockBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	rosenbrockBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// rosenbrockBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func rosenbrockBFGSAnalyticFinite(v float64) bool {
+	return v >= -rosenbrockBFGSAnalyticLargestFinite && v <= rosenbrockBFGSAnalyticLargestFinite
+}
+
+// rosenbrockBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func rosenbrockBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !rosenbrockBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// rosenbrockBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func rosenbrockBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// rosenbrockBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func rosenbrockBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) int {
+	RosenbrockGrad(x, g)
+	return 0
+}
 
 // rosenbrockBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (rosenbrockBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func rosenbrockBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// rosenbrockBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const rosenbrockBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestRosenbrockBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestRosenbrockBFGSAnalyticSolverTicks advances a RosenbrockBFGSAnalyticSolver from the spec's start with budgets of RosenbrockBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where RosenbrockBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestRosenbrockBFGSAnalyticSolverTicks(t *testing.T) {
+	want := RosenbrockBFGSAnalytic(rosenbrockBFGSAnalyticTestStart())
+	for _, budget := range []int{RosenbrockBFGSAnalyticTickMinimum, RosenbrockBFGSAnalyticTickMinimum + 1, 2 * RosenbrockBFGSAnalyticTickMinimum, 7 * RosenbrockBFGSAnalyticTickMinimum} {
+		var s RosenbrockBFGSAnalyticSolver
+		s.Start(rosenbrockBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != RosenbrockBFGSAnalyticRunning {
+				if !rosenbrockBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s RosenbrockBFGSAnalyticSolver
+	s.Start(rosenbrockBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != RosenbrockBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestRosenbrockBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestRosenbrockBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s RosenbrockBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(rosenbrockBFGSAnalyticTestStart())
+		for s.Advance(RosenbrockBFGSAnalyticTickMinimum).Status == RosenbrockBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// rosenbrockBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func rosenbrockBFGSAnalyticTestSameResult(a, b RosenbrockBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkRosenbrockBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkRosenbrockBFGSAnalytic(b *testing.B) {
 	var r RosenbrockBFGSAnalyticResult

@@ -47,6 +47,55 @@ func TestRosenbrockBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestRosenbrockBFGSCentralSolverTicks advances a RosenbrockBFGSCentralSolver from the spec's start with budgets of RosenbrockBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where RosenbrockBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestRosenbrockBFGSCentralSolverTicks(t *testing.T) {
+	want := RosenbrockBFGSCentral(rosenbrockBFGSCentralTestStart())
+	for _, budget := range []int{RosenbrockBFGSCentralTickMinimum, RosenbrockBFGSCentralTickMinimum + 1, 2 * RosenbrockBFGSCentralTickMinimum, 7 * RosenbrockBFGSCentralTickMinimum} {
+		var s RosenbrockBFGSCentralSolver
+		s.Start(rosenbrockBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != RosenbrockBFGSCentralRunning {
+				if !rosenbrockBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s RosenbrockBFGSCentralSolver
+	s.Start(rosenbrockBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != RosenbrockBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestRosenbrockBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestRosenbrockBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s RosenbrockBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(rosenbrockBFGSCentralTestStart())
+		for s.Advance(RosenbrockBFGSCentralTickMinimum).Status == RosenbrockBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// rosenbrockBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func rosenbrockBFGSCentralTestSameResult(a, b RosenbrockBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkRosenbrockBFGSCentral measures one whole run from the spec's start.
 func BenchmarkRosenbrockBFGSCentral(b *testing.B) {
 	var r RosenbrockBFGSCentralResult

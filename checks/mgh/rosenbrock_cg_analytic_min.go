@@ -26,6 +26,8 @@ const (
 	RosenbrockCGAnalyticNoDecrease
 	// RosenbrockCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	RosenbrockCGAnalyticDiverged
+	// RosenbrockCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	RosenbrockCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s RosenbrockCGAnalyticStatus) String() string {
 		return "no decrease"
 	case RosenbrockCGAnalyticDiverged:
 		return "diverged"
+	case RosenbrockCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func RosenbrockCGAnalyticWithLimits(x0 [2]float64, limits RosenbrockCGAnalyticLi
 	}
 }
 
+// RosenbrockCGAnalyticTickMinimum is the smallest call budget with which every RosenbrockCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const RosenbrockCGAnalyticTickMinimum = 48
+
+// RosenbrockCGAnalyticSolver is a run of RosenbrockCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (RosenbrockCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least RosenbrockCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not RosenbrockCGAnalyticRunning ends exactly as RosenbrockCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): RosenbrockCGAnalytic and RosenbrockCGAnalyticWithLimits use at most 2224 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is RosenbrockCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type RosenbrockCGAnalyticSolver struct {
+	run       rosenbrockCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    RosenbrockCGAnalyticLimits  // the limits of the runs; RosenbrockCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *RosenbrockCGAnalyticSolver) SetLimits(limits RosenbrockCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *RosenbrockCGAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *RosenbrockCGAnalyticSolver) StartFrom(from RosenbrockCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *RosenbrockCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *RosenbrockCGAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = RosenbrockCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, rosenbrockCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status RosenbrockCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See RosenbrockCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *RosenbrockCGAnalyticSolver) Advance(budget int) RosenbrockCGAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return RosenbrockCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of RosenbrockCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	rosenbrockCGAnalyticStepInitial    = 1.0                    // step.initial
-	rosenbrockCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	rosenbrockCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	rosenbrockCGAnalyticStepTrials     = 48                     // step.trials
-	rosenbrockCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	rosenbrockCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	rosenbrockCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	rosenbrockCGAnalyticStepInitial     = 1.0                    // step.initial
+	rosenbrockCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	rosenbrockCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	rosenbrockCGAnalyticStepTrials      = 48                     // step.trials
+	rosenbrockCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	rosenbrockCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	rosenbrockCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	rosenbrockCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	rosenbrockCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	rosenbrockCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // rosenbrockCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits, bounds rosenbrockCGAnalyticBox) rosenbrockCGAnalyticOutcome {
-	x := x0
-	rosenbrockCGAnalyticEnterBox(&x, &bounds)
-	out := rosenbrockCGAnalyticOutcome{x: x, status: RosenbrockCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Rosenbrock(&x)
-	out.f, out.evaluations = fx, 1
-	if !rosenbrockCGAnalyticFinite(fx) || !rosenbrockCGAnalyticFiniteVec(&x) {
-		out.status = RosenbrockCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := rosenbrockCGAnalyticDifferences{bounds: bounds}
-	calls, ok := rosenbrockCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+rosenbrockCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += rosenbrockCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !rosenbrockCGAnalyticFiniteVec(&g) {
-		out.status = RosenbrockCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir rosenbrockCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(rosenbrockCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from rosenbrockCGAnalyticConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := rosenbrockCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != rosenbrockCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see rosenbrockCGAnalyticConfirmGradient and settle).
-			calls, ok := rosenbrockCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockCGAnalyticFiniteVec(&g) {
-				return best.ending(RosenbrockCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = rosenbrockCGAnalyticVerifyNothing, true
-		case !confirmed:
-			rosenbrockCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := rosenbrockCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, rosenbrockCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * rosenbrockCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (rosenbrockCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = RosenbrockCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = rosenbrockCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if rosenbrockCGAnalyticDerivativeCost == 0 {
-				return best.ending(RosenbrockCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if rosenbrockCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = rosenbrockCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(RosenbrockCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			rosenbrockCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(RosenbrockCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		rosenbrockCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := rosenbrockCGAnalyticDot(&g, &d)
-		if !(now < 0) || !rosenbrockCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			rosenbrockCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = rosenbrockCGAnalyticDot(&g, &d)
-		}
-		first := float64(rosenbrockCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := rosenbrockCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case rosenbrockCGAnalyticSearchOutOfBudget:
-			return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case rosenbrockCGAnalyticSearchDiverged:
-			return best.ending(RosenbrockCGAnalyticDiverged, out.iterations, out.evaluations)
-		case rosenbrockCGAnalyticSearchExhausted, rosenbrockCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see rosenbrockCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := RosenbrockCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = RosenbrockCGAnalyticNoDecrease
-			case found.end == rosenbrockCGAnalyticSearchTiny && canSettle:
-				verify, stalled = rosenbrockCGAnalyticVerifyStall, true
-				continue
-			case found.end == rosenbrockCGAnalyticSearchTiny:
-				end = RosenbrockCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !rosenbrockCGAnalyticFiniteVec(&xt) {
-			return best.ending(RosenbrockCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+rosenbrockCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += rosenbrockCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		rosenbrockCGAnalyticDifference(&s, &xt, &x)
-		rosenbrockCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !rosenbrockCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(RosenbrockCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r rosenbrockCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(rosenbrockCGAnalyticUnlimited)
 }
 
 // rosenbrockCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o rosenbrockCGAnalyticOutcome) ending(end RosenbrockCGAnalyticStatus, iter
 	return o
 }
 
-// rosenbrockCGAnalyticEnterBox: without bounds every start is inside.
-func rosenbrockCGAnalyticEnterBox(x *[2]float64, b *rosenbrockCGAnalyticBox) {}
-
-// rosenbrockCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func rosenbrockCGAnalyticFinite(v float64) bool {
-	return v >= -rosenbrockCGAnalyticLargestFinite && v <= rosenbrockCGAnalyticLargestFinite
+// rosenbrockCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type rosenbrockCGAnalyticDescent struct {
+	lim       RosenbrockCGAnalyticLimits
+	stage     int                             // what advance does next
+	diffs     rosenbrockCGAnalyticDifferences // the box and the difference intervals
+	dir       rosenbrockCGAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best rosenbrockCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from rosenbrockCGAnalyticConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
 }
 
-// rosenbrockCGAnalyticFiniteVec reports whether every component of x is finite.
-func rosenbrockCGAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *rosenbrockCGAnalyticDescent) prepare(x0 [2]float64, lim RosenbrockCGAnalyticLimits, bounds rosenbrockCGAnalyticBox) {
+	r.lim, r.stage = lim, rosenbrockCGAnalyticStageBegin
+	r.diffs = rosenbrockCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	rosenbrockCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = rosenbrockCGAnalyticOutcome{x: r.x, f: math.NaN(), status: RosenbrockCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *rosenbrockCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with RosenbrockCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, rosenbrockCGAnalyticSettleCalls and rosenbrockCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *rosenbrockCGAnalyticDescent) advance(budget int) rosenbrockCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != rosenbrockCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case rosenbrockCGAnalyticStageBegin:
+			if left < 1+rosenbrockCGAnalyticCalibrationCost+rosenbrockCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case rosenbrockCGAnalyticStageJudge:
+			if r.verify != rosenbrockCGAnalyticVerifyNothing && left < rosenbrockCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < rosenbrockCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *rosenbrockCGAnalyticDescent) paused() rosenbrockCGAnalyticOutcome {
+	return r.best.ending(RosenbrockCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *rosenbrockCGAnalyticDescent) finish(end RosenbrockCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = rosenbrockCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *rosenbrockCGAnalyticDescent) begin() {
+	r.stage = rosenbrockCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !rosenbrockCGAnalyticFinite(r.fx) || !rosenbrockCGAnalyticFiniteVec(&r.x) {
+		r.out.status = RosenbrockCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := rosenbrockCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+rosenbrockCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += rosenbrockCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !rosenbrockCGAnalyticFiniteVec(&r.g) {
+		r.out.status = RosenbrockCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = rosenbrockCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, rosenbrockCGAnalyticVerifyNothing
+	r.stage = rosenbrockCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves rosenbrockCGAnalyticStageSearch next when the run goes on.
+func (r *rosenbrockCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != rosenbrockCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see rosenbrockCGAnalyticConfirmGradient and settle).
+		calls, ok := rosenbrockCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == rosenbrockCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(RosenbrockCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !rosenbrockCGAnalyticFiniteVec(&r.g) {
+			r.finish(RosenbrockCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = rosenbrockCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		rosenbrockCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := rosenbrockCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, rosenbrockCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * rosenbrockCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (rosenbrockCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = RosenbrockCGAnalyticGradientSmall
+		r.stage = rosenbrockCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = rosenbrockCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if rosenbrockCGAnalyticDerivativeCost == 0 {
+			r.finish(RosenbrockCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if rosenbrockCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = rosenbrockCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(RosenbrockCGAnalyticDiverged)
+			return
+		}
+		rosenbrockCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(RosenbrockCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = rosenbrockCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves rosenbrockCGAnalyticStageJudge next when the run
+// goes on.
+func (r *rosenbrockCGAnalyticDescent) search() {
+	rosenbrockCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := rosenbrockCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !rosenbrockCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		rosenbrockCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = rosenbrockCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(rosenbrockCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := rosenbrockCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := rosenbrockCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case rosenbrockCGAnalyticSearchOutOfBudget:
+		r.finish(RosenbrockCGAnalyticOutOfEvaluations)
+		return
+	case rosenbrockCGAnalyticSearchDiverged:
+		r.finish(RosenbrockCGAnalyticDiverged)
+		return
+	case rosenbrockCGAnalyticSearchExhausted, rosenbrockCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see rosenbrockCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := RosenbrockCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = RosenbrockCGAnalyticNoDecrease
+		case found.end == rosenbrockCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = rosenbrockCGAnalyticVerifyStall, true, rosenbrockCGAnalyticStageJudge
+			return
+		case found.end == rosenbrockCGAnalyticSearchTiny:
+			end = RosenbrockCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !rosenbrockCGAnalyticFiniteVec(&xt) {
+		r.finish(RosenbrockCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+rosenbrockCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(RosenbrockCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += rosenbrockCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	rosenbrockCGAnalyticDifference(&r.s, &xt, &r.x)
+	rosenbrockCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !rosenbrockCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(RosenbrockCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = rosenbrockCGAnalyticStageJudge
 }
 
 // rosenbrockCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type rosenbrockCGAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockCGAnalyticRoundingFloor)
 	bounds    rosenbrockCGAnalyticBox
-}
-
-// rosenbrockCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func rosenbrockCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// rosenbrockCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func rosenbrockCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockCGAnalyticDifferences) int {
-	RosenbrockGrad(x, g)
-	return 0
 }
 
 // rosenbrockCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func rosenbrockCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// rosenbrockCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func rosenbrockCGAnalyticFinite(v float64) bool {
+	return v >= -rosenbrockCGAnalyticLargestFinite && v <= rosenbrockCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	rosenbrockCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	rosenbrockCGAnalyticStageJudge         // settle when asked (rosenbrockCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	rosenbrockCGAnalyticStageSearch        // the line search and the gradient at the accepted point: rosenbrockCGAnalyticIterationCalls
+	rosenbrockCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// rosenbrockCGAnalyticEnterBox: without bounds every start is inside.
+func rosenbrockCGAnalyticEnterBox(x *[2]float64, b *rosenbrockCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	rosenbrockCGAnalyticVerifyNothing = iota
 	rosenbrockCGAnalyticVerifyPass    // a difference gradient passed the test
 	rosenbrockCGAnalyticVerifyStall   // no step makes progress
 )
+
+// rosenbrockCGAnalyticFiniteVec reports whether every component of x is finite.
+func rosenbrockCGAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !rosenbrockCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// rosenbrockCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func rosenbrockCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// rosenbrockCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func rosenbrockCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockCGAnalyticDifferences) int {
+	RosenbrockGrad(x, g)
+	return 0
+}
 
 // rosenbrockCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (rosenbrockCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func rosenbrockCGAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// rosenbrockCGAnalyticUnlimited is a tick budget that never pauses a run.
+const rosenbrockCGAnalyticUnlimited = int(^uint(0) >> 1)

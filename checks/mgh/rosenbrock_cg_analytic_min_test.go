@@ -105,6 +105,55 @@ func TestRosenbrockCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestRosenbrockCGAnalyticSolverTicks advances a RosenbrockCGAnalyticSolver from the spec's start with budgets of RosenbrockCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where RosenbrockCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestRosenbrockCGAnalyticSolverTicks(t *testing.T) {
+	want := RosenbrockCGAnalytic(rosenbrockCGAnalyticTestStart())
+	for _, budget := range []int{RosenbrockCGAnalyticTickMinimum, RosenbrockCGAnalyticTickMinimum + 1, 2 * RosenbrockCGAnalyticTickMinimum, 7 * RosenbrockCGAnalyticTickMinimum} {
+		var s RosenbrockCGAnalyticSolver
+		s.Start(rosenbrockCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != RosenbrockCGAnalyticRunning {
+				if !rosenbrockCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s RosenbrockCGAnalyticSolver
+	s.Start(rosenbrockCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != RosenbrockCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestRosenbrockCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestRosenbrockCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s RosenbrockCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(rosenbrockCGAnalyticTestStart())
+		for s.Advance(RosenbrockCGAnalyticTickMinimum).Status == RosenbrockCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// rosenbrockCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func rosenbrockCGAnalyticTestSameResult(a, b RosenbrockCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkRosenbrockCGAnalytic measures one whole run from the spec's start.
 func BenchmarkRosenbrockCGAnalytic(b *testing.B) {
 	var r RosenbrockCGAnalyticResult

@@ -47,6 +47,55 @@ func TestRosenbrockCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestRosenbrockCGCentralSolverTicks advances a RosenbrockCGCentralSolver from the spec's start with budgets of RosenbrockCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where RosenbrockCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestRosenbrockCGCentralSolverTicks(t *testing.T) {
+	want := RosenbrockCGCentral(rosenbrockCGCentralTestStart())
+	for _, budget := range []int{RosenbrockCGCentralTickMinimum, RosenbrockCGCentralTickMinimum + 1, 2 * RosenbrockCGCentralTickMinimum, 7 * RosenbrockCGCentralTickMinimum} {
+		var s RosenbrockCGCentralSolver
+		s.Start(rosenbrockCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != RosenbrockCGCentralRunning {
+				if !rosenbrockCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s RosenbrockCGCentralSolver
+	s.Start(rosenbrockCGCentralTestStart())
+	if r := s.Advance(0); r.Status != RosenbrockCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestRosenbrockCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestRosenbrockCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s RosenbrockCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(rosenbrockCGCentralTestStart())
+		for s.Advance(RosenbrockCGCentralTickMinimum).Status == RosenbrockCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// rosenbrockCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func rosenbrockCGCentralTestSameResult(a, b RosenbrockCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkRosenbrockCGCentral measures one whole run from the spec's start.
 func BenchmarkRosenbrockCGCentral(b *testing.B) {
 	var r RosenbrockCGCentralResult

@@ -26,6 +26,8 @@ const (
 	RosenbrockLBFGSAnalyticNoDecrease
 	// RosenbrockLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	RosenbrockLBFGSAnalyticDiverged
+	// RosenbrockLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	RosenbrockLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s RosenbrockLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case RosenbrockLBFGSAnalyticDiverged:
 		return "diverged"
+	case RosenbrockLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func RosenbrockLBFGSAnalyticWithLimits(x0 [2]float64, limits RosenbrockLBFGSAnal
 	}
 }
 
+// RosenbrockLBFGSAnalyticTickMinimum is the smallest call budget with which every RosenbrockLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const RosenbrockLBFGSAnalyticTickMinimum = 48
+
+// RosenbrockLBFGSAnalyticSolver is a run of RosenbrockLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (RosenbrockLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least RosenbrockLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not RosenbrockLBFGSAnalyticRunning ends exactly as RosenbrockLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): RosenbrockLBFGSAnalytic and RosenbrockLBFGSAnalyticWithLimits use at most 2392 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is RosenbrockLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type RosenbrockLBFGSAnalyticSolver struct {
+	run       rosenbrockLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    RosenbrockLBFGSAnalyticLimits  // the limits of the runs; RosenbrockLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                           // whether SetLimits has set limits
+	started   bool                           // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *RosenbrockLBFGSAnalyticSolver) SetLimits(limits RosenbrockLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *RosenbrockLBFGSAnalyticSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *RosenbrockLBFGSAnalyticSolver) StartFrom(from RosenbrockLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *RosenbrockLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *RosenbrockLBFGSAnalyticSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = RosenbrockLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, rosenbrockLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status RosenbrockLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See RosenbrockLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *RosenbrockLBFGSAnalyticSolver) Advance(budget int) RosenbrockLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return RosenbrockLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of RosenbrockLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	rosenbrockLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	rosenbrockLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	rosenbrockLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	rosenbrockLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	rosenbrockLBFGSAnalyticStepTrials     = 48                     // step.trials
-	rosenbrockLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	rosenbrockLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	rosenbrockLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	rosenbrockLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	rosenbrockLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	rosenbrockLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	rosenbrockLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	rosenbrockLBFGSAnalyticStepTrials      = 48                     // step.trials
+	rosenbrockLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	rosenbrockLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	rosenbrockLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	rosenbrockLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	rosenbrockLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	rosenbrockLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // rosenbrockLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticLimits, bounds rosenbrockLBFGSAnalyticBox) rosenbrockLBFGSAnalyticOutcome {
-	x := x0
-	rosenbrockLBFGSAnalyticEnterBox(&x, &bounds)
-	out := rosenbrockLBFGSAnalyticOutcome{x: x, status: RosenbrockLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Rosenbrock(&x)
-	out.f, out.evaluations = fx, 1
-	if !rosenbrockLBFGSAnalyticFinite(fx) || !rosenbrockLBFGSAnalyticFiniteVec(&x) {
-		out.status = RosenbrockLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := rosenbrockLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := rosenbrockLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+rosenbrockLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += rosenbrockLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
-		out.status = RosenbrockLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir rosenbrockLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(rosenbrockLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                         // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from rosenbrockLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                    // whether the run can make no more progress at x
-	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
-	verify := rosenbrockLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != rosenbrockLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see rosenbrockLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := rosenbrockLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(RosenbrockLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = rosenbrockLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			rosenbrockLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := rosenbrockLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, rosenbrockLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * rosenbrockLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (rosenbrockLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = RosenbrockLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = rosenbrockLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if rosenbrockLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(RosenbrockLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if rosenbrockLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = rosenbrockLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(RosenbrockLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			rosenbrockLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(RosenbrockLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		rosenbrockLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := rosenbrockLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !rosenbrockLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			rosenbrockLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = rosenbrockLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(rosenbrockLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := rosenbrockLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case rosenbrockLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case rosenbrockLBFGSAnalyticSearchDiverged:
-			return best.ending(RosenbrockLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case rosenbrockLBFGSAnalyticSearchExhausted, rosenbrockLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see rosenbrockLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := RosenbrockLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = RosenbrockLBFGSAnalyticNoDecrease
-			case found.end == rosenbrockLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = rosenbrockLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == rosenbrockLBFGSAnalyticSearchTiny:
-				end = RosenbrockLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !rosenbrockLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(RosenbrockLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+rosenbrockLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += rosenbrockLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		rosenbrockLBFGSAnalyticDifference(&s, &xt, &x)
-		rosenbrockLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(RosenbrockLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r rosenbrockLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(rosenbrockLBFGSAnalyticUnlimited)
 }
 
 // rosenbrockLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o rosenbrockLBFGSAnalyticOutcome) ending(end RosenbrockLBFGSAnalyticStatus
 	return o
 }
 
-// rosenbrockLBFGSAnalyticEnterBox: without bounds every start is inside.
-func rosenbrockLBFGSAnalyticEnterBox(x *[2]float64, b *rosenbrockLBFGSAnalyticBox) {}
-
-// rosenbrockLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func rosenbrockLBFGSAnalyticFinite(v float64) bool {
-	return v >= -rosenbrockLBFGSAnalyticLargestFinite && v <= rosenbrockLBFGSAnalyticLargestFinite
+// rosenbrockLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type rosenbrockLBFGSAnalyticDescent struct {
+	lim       RosenbrockLBFGSAnalyticLimits
+	stage     int                                // what advance does next
+	diffs     rosenbrockLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       rosenbrockLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [2]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                         // the search direction, the last step and its gradient change
+	fx        float64                            // f(x)
+	t, slope  float64                            // the previous iteration's accepted step and slope
+	out, best rosenbrockLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                            // f(x0)
+	rises     int                                // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                               // whether g and e at x come from rosenbrockLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                               // whether the run can make no more progress at x
+	retried   int                                // the iteration whose stall was retried with recalibrated differences
+	verify    int                                // what to check at x before judging it again
 }
 
-// rosenbrockLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func rosenbrockLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *rosenbrockLBFGSAnalyticDescent) prepare(x0 [2]float64, lim RosenbrockLBFGSAnalyticLimits, bounds rosenbrockLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, rosenbrockLBFGSAnalyticStageBegin
+	r.diffs = rosenbrockLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	rosenbrockLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = rosenbrockLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: RosenbrockLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *rosenbrockLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with RosenbrockLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, rosenbrockLBFGSAnalyticSettleCalls and rosenbrockLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *rosenbrockLBFGSAnalyticDescent) advance(budget int) rosenbrockLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != rosenbrockLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case rosenbrockLBFGSAnalyticStageBegin:
+			if left < 1+rosenbrockLBFGSAnalyticCalibrationCost+rosenbrockLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case rosenbrockLBFGSAnalyticStageJudge:
+			if r.verify != rosenbrockLBFGSAnalyticVerifyNothing && left < rosenbrockLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < rosenbrockLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *rosenbrockLBFGSAnalyticDescent) paused() rosenbrockLBFGSAnalyticOutcome {
+	return r.best.ending(RosenbrockLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *rosenbrockLBFGSAnalyticDescent) finish(end RosenbrockLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = rosenbrockLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *rosenbrockLBFGSAnalyticDescent) begin() {
+	r.stage = rosenbrockLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !rosenbrockLBFGSAnalyticFinite(r.fx) || !rosenbrockLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = RosenbrockLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := rosenbrockLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+rosenbrockLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += rosenbrockLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !rosenbrockLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = RosenbrockLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = rosenbrockLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, rosenbrockLBFGSAnalyticVerifyNothing
+	r.stage = rosenbrockLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves rosenbrockLBFGSAnalyticStageSearch next when the run goes on.
+func (r *rosenbrockLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != rosenbrockLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see rosenbrockLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := rosenbrockLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == rosenbrockLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(RosenbrockLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !rosenbrockLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(RosenbrockLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = rosenbrockLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		rosenbrockLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := rosenbrockLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, rosenbrockLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * rosenbrockLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (rosenbrockLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = RosenbrockLBFGSAnalyticGradientSmall
+		r.stage = rosenbrockLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = rosenbrockLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if rosenbrockLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(RosenbrockLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if rosenbrockLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = rosenbrockLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(RosenbrockLBFGSAnalyticDiverged)
+			return
+		}
+		rosenbrockLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(RosenbrockLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = rosenbrockLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves rosenbrockLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *rosenbrockLBFGSAnalyticDescent) search() {
+	rosenbrockLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := rosenbrockLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !rosenbrockLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		rosenbrockLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = rosenbrockLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(rosenbrockLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := rosenbrockLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := rosenbrockLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case rosenbrockLBFGSAnalyticSearchOutOfBudget:
+		r.finish(RosenbrockLBFGSAnalyticOutOfEvaluations)
+		return
+	case rosenbrockLBFGSAnalyticSearchDiverged:
+		r.finish(RosenbrockLBFGSAnalyticDiverged)
+		return
+	case rosenbrockLBFGSAnalyticSearchExhausted, rosenbrockLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see rosenbrockLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := RosenbrockLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = RosenbrockLBFGSAnalyticNoDecrease
+		case found.end == rosenbrockLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = rosenbrockLBFGSAnalyticVerifyStall, true, rosenbrockLBFGSAnalyticStageJudge
+			return
+		case found.end == rosenbrockLBFGSAnalyticSearchTiny:
+			end = RosenbrockLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !rosenbrockLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(RosenbrockLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+rosenbrockLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(RosenbrockLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += rosenbrockLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	rosenbrockLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	rosenbrockLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !rosenbrockLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(RosenbrockLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = rosenbrockLBFGSAnalyticStageJudge
 }
 
 // rosenbrockLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type rosenbrockLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockLBFGSAnalyticRoundingFloor)
 	bounds    rosenbrockLBFGSAnalyticBox
-}
-
-// rosenbrockLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func rosenbrockLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// rosenbrockLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func rosenbrockLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) int {
-	RosenbrockGrad(x, g)
-	return 0
 }
 
 // rosenbrockLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func rosenbrockLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockLBFGSAnalyticDot(s, s))*(sy/rosenbrockLBFGSAnalyticDot(y, y)) > rosenbrockLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	rosenbrockLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	rosenbrockLBFGSAnalyticStageJudge         // settle when asked (rosenbrockLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	rosenbrockLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: rosenbrockLBFGSAnalyticIterationCalls
+	rosenbrockLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// rosenbrockLBFGSAnalyticEnterBox: without bounds every start is inside.
+func rosenbrockLBFGSAnalyticEnterBox(x *[2]float64, b *rosenbrockLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	rosenbrockLBFGSAnalyticVerifyNothing = iota
 	rosenbrockLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	rosenbrockLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// rosenbrockLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func rosenbrockLBFGSAnalyticFinite(v float64) bool {
+	return v >= -rosenbrockLBFGSAnalyticLargestFinite && v <= rosenbrockLBFGSAnalyticLargestFinite
+}
+
+// rosenbrockLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func rosenbrockLBFGSAnalyticFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !rosenbrockLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// rosenbrockLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func rosenbrockLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// rosenbrockLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func rosenbrockLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) int {
+	RosenbrockGrad(x, g)
+	return 0
+}
 
 // rosenbrockLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (rosenbrockLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func rosenbrockLBFGSAnalyticDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// rosenbrockLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const rosenbrockLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestRosenbrockLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestRosenbrockLBFGSAnalyticSolverTicks advances a RosenbrockLBFGSAnalyticSolver from the spec's start with budgets of RosenbrockLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where RosenbrockLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestRosenbrockLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := RosenbrockLBFGSAnalytic(rosenbrockLBFGSAnalyticTestStart())
+	for _, budget := range []int{RosenbrockLBFGSAnalyticTickMinimum, RosenbrockLBFGSAnalyticTickMinimum + 1, 2 * RosenbrockLBFGSAnalyticTickMinimum, 7 * RosenbrockLBFGSAnalyticTickMinimum} {
+		var s RosenbrockLBFGSAnalyticSolver
+		s.Start(rosenbrockLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != RosenbrockLBFGSAnalyticRunning {
+				if !rosenbrockLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s RosenbrockLBFGSAnalyticSolver
+	s.Start(rosenbrockLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != RosenbrockLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestRosenbrockLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestRosenbrockLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s RosenbrockLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(rosenbrockLBFGSAnalyticTestStart())
+		for s.Advance(RosenbrockLBFGSAnalyticTickMinimum).Status == RosenbrockLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// rosenbrockLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func rosenbrockLBFGSAnalyticTestSameResult(a, b RosenbrockLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkRosenbrockLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkRosenbrockLBFGSAnalytic(b *testing.B) {
 	var r RosenbrockLBFGSAnalyticResult

@@ -47,6 +47,55 @@ func TestRosenbrockLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestRosenbrockLBFGSCentralSolverTicks advances a RosenbrockLBFGSCentralSolver from the spec's start with budgets of RosenbrockLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where RosenbrockLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestRosenbrockLBFGSCentralSolverTicks(t *testing.T) {
+	want := RosenbrockLBFGSCentral(rosenbrockLBFGSCentralTestStart())
+	for _, budget := range []int{RosenbrockLBFGSCentralTickMinimum, RosenbrockLBFGSCentralTickMinimum + 1, 2 * RosenbrockLBFGSCentralTickMinimum, 7 * RosenbrockLBFGSCentralTickMinimum} {
+		var s RosenbrockLBFGSCentralSolver
+		s.Start(rosenbrockLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != RosenbrockLBFGSCentralRunning {
+				if !rosenbrockLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s RosenbrockLBFGSCentralSolver
+	s.Start(rosenbrockLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != RosenbrockLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestRosenbrockLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestRosenbrockLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s RosenbrockLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(rosenbrockLBFGSCentralTestStart())
+		for s.Advance(RosenbrockLBFGSCentralTickMinimum).Status == RosenbrockLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// rosenbrockLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func rosenbrockLBFGSCentralTestSameResult(a, b RosenbrockLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkRosenbrockLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkRosenbrockLBFGSCentral(b *testing.B) {
 	var r RosenbrockLBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	Trigonometric10BFGSAnalyticNoDecrease
 	// Trigonometric10BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Trigonometric10BFGSAnalyticDiverged
+	// Trigonometric10BFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Trigonometric10BFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Trigonometric10BFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Trigonometric10BFGSAnalyticDiverged:
 		return "diverged"
+	case Trigonometric10BFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Trigonometric10BFGSAnalyticWithLimits(x0 [10]float64, limits Trigonometric1
 	}
 }
 
+// Trigonometric10BFGSAnalyticTickMinimum is the smallest call budget with which every Trigonometric10BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Trigonometric10BFGSAnalyticTickMinimum = 48
+
+// Trigonometric10BFGSAnalyticSolver is a run of Trigonometric10BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Trigonometric10BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Trigonometric10BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Trigonometric10BFGSAnalyticRunning ends exactly as Trigonometric10BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Trigonometric10BFGSAnalytic and Trigonometric10BFGSAnalyticWithLimits use at most 5544 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is Trigonometric10BFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Trigonometric10BFGSAnalyticSolver struct {
+	run       trigonometric10BFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Trigonometric10BFGSAnalyticLimits  // the limits of the runs; Trigonometric10BFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                               // whether SetLimits has set limits
+	started   bool                               // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Trigonometric10BFGSAnalyticSolver) SetLimits(limits Trigonometric10BFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Trigonometric10BFGSAnalyticSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Trigonometric10BFGSAnalyticSolver) StartFrom(from Trigonometric10BFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *Trigonometric10BFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Trigonometric10BFGSAnalyticSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = Trigonometric10BFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, trigonometric10BFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Trigonometric10BFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Trigonometric10BFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Trigonometric10BFGSAnalyticSolver) Advance(budget int) Trigonometric10BFGSAnalyticResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Trigonometric10BFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Trigonometric10BFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	trigonometric10BFGSAnalyticStepInitial    = 1.0                    // step.initial
-	trigonometric10BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	trigonometric10BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	trigonometric10BFGSAnalyticStepTrials     = 48                     // step.trials
-	trigonometric10BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	trigonometric10BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	trigonometric10BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	trigonometric10BFGSAnalyticStepInitial     = 1.0                    // step.initial
+	trigonometric10BFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	trigonometric10BFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	trigonometric10BFGSAnalyticStepTrials      = 48                     // step.trials
+	trigonometric10BFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	trigonometric10BFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	trigonometric10BFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	trigonometric10BFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	trigonometric10BFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	trigonometric10BFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // trigonometric10BFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGSAnalyticLimits, bounds trigonometric10BFGSAnalyticBox) trigonometric10BFGSAnalyticOutcome {
-	x := x0
-	trigonometric10BFGSAnalyticEnterBox(&x, &bounds)
-	out := trigonometric10BFGSAnalyticOutcome{x: x, status: Trigonometric10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Trigonometric10(&x)
-	out.f, out.evaluations = fx, 1
-	if !trigonometric10BFGSAnalyticFinite(fx) || !trigonometric10BFGSAnalyticFiniteVec(&x) {
-		out.status = Trigonometric10BFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := trigonometric10BFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := trigonometric10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+trigonometric10BFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += trigonometric10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !trigonometric10BFGSAnalyticFiniteVec(&g) {
-		out.status = Trigonometric10BFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir trigonometric10BFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(trigonometric10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                             // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from trigonometric10BFGSAnalyticConfirmGradient or settle
-	stalled := false                                                        // whether the run can make no more progress at x
-	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
-	verify := trigonometric10BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != trigonometric10BFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see trigonometric10BFGSAnalyticConfirmGradient and settle).
-			calls, ok := trigonometric10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10BFGSAnalyticFiniteVec(&g) {
-				return best.ending(Trigonometric10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = trigonometric10BFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			trigonometric10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := trigonometric10BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, trigonometric10BFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * trigonometric10BFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (trigonometric10BFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Trigonometric10BFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = trigonometric10BFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if trigonometric10BFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Trigonometric10BFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if trigonometric10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = trigonometric10BFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Trigonometric10BFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			trigonometric10BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Trigonometric10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		trigonometric10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := trigonometric10BFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !trigonometric10BFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			trigonometric10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = trigonometric10BFGSAnalyticDot(&g, &d)
-		}
-		first := float64(trigonometric10BFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := trigonometric10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case trigonometric10BFGSAnalyticSearchOutOfBudget:
-			return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case trigonometric10BFGSAnalyticSearchDiverged:
-			return best.ending(Trigonometric10BFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case trigonometric10BFGSAnalyticSearchExhausted, trigonometric10BFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see trigonometric10BFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Trigonometric10BFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Trigonometric10BFGSAnalyticNoDecrease
-			case found.end == trigonometric10BFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = trigonometric10BFGSAnalyticVerifyStall, true
-				continue
-			case found.end == trigonometric10BFGSAnalyticSearchTiny:
-				end = Trigonometric10BFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !trigonometric10BFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Trigonometric10BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+trigonometric10BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += trigonometric10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		trigonometric10BFGSAnalyticDifference(&s, &xt, &x)
-		trigonometric10BFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !trigonometric10BFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Trigonometric10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r trigonometric10BFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(trigonometric10BFGSAnalyticUnlimited)
 }
 
 // trigonometric10BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o trigonometric10BFGSAnalyticOutcome) ending(end Trigonometric10BFGSAnalyt
 	return o
 }
 
-// trigonometric10BFGSAnalyticEnterBox: without bounds every start is inside.
-func trigonometric10BFGSAnalyticEnterBox(x *[10]float64, b *trigonometric10BFGSAnalyticBox) {}
-
-// trigonometric10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func trigonometric10BFGSAnalyticFinite(v float64) bool {
-	return v >= -trigonometric10BFGSAnalyticLargestFinite && v <= trigonometric10BFGSAnalyticLargestFinite
+// trigonometric10BFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type trigonometric10BFGSAnalyticDescent struct {
+	lim       Trigonometric10BFGSAnalyticLimits
+	stage     int                                    // what advance does next
+	diffs     trigonometric10BFGSAnalyticDifferences // the box and the difference intervals
+	dir       trigonometric10BFGSAnalyticDirection   // the direction's memory
+	x, g, e   [10]float64                            // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                            // the search direction, the last step and its gradient change
+	fx        float64                                // f(x)
+	t, slope  float64                                // the previous iteration's accepted step and slope
+	out, best trigonometric10BFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                // f(x0)
+	rises     int                                    // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                   // whether g and e at x come from trigonometric10BFGSAnalyticConfirmGradient or settle
+	stalled   bool                                   // whether the run can make no more progress at x
+	retried   int                                    // the iteration whose stall was retried with recalibrated differences
+	verify    int                                    // what to check at x before judging it again
 }
 
-// trigonometric10BFGSAnalyticFiniteVec reports whether every component of x is finite.
-func trigonometric10BFGSAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10BFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *trigonometric10BFGSAnalyticDescent) prepare(x0 [10]float64, lim Trigonometric10BFGSAnalyticLimits, bounds trigonometric10BFGSAnalyticBox) {
+	r.lim, r.stage = lim, trigonometric10BFGSAnalyticStageBegin
+	r.diffs = trigonometric10BFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	trigonometric10BFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = trigonometric10BFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Trigonometric10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *trigonometric10BFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Trigonometric10BFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, trigonometric10BFGSAnalyticSettleCalls and trigonometric10BFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *trigonometric10BFGSAnalyticDescent) advance(budget int) trigonometric10BFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != trigonometric10BFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case trigonometric10BFGSAnalyticStageBegin:
+			if left < 1+trigonometric10BFGSAnalyticCalibrationCost+trigonometric10BFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case trigonometric10BFGSAnalyticStageJudge:
+			if r.verify != trigonometric10BFGSAnalyticVerifyNothing && left < trigonometric10BFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < trigonometric10BFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *trigonometric10BFGSAnalyticDescent) paused() trigonometric10BFGSAnalyticOutcome {
+	return r.best.ending(Trigonometric10BFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *trigonometric10BFGSAnalyticDescent) finish(end Trigonometric10BFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = trigonometric10BFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *trigonometric10BFGSAnalyticDescent) begin() {
+	r.stage = trigonometric10BFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !trigonometric10BFGSAnalyticFinite(r.fx) || !trigonometric10BFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Trigonometric10BFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := trigonometric10BFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+trigonometric10BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += trigonometric10BFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !trigonometric10BFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Trigonometric10BFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = trigonometric10BFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, trigonometric10BFGSAnalyticVerifyNothing
+	r.stage = trigonometric10BFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves trigonometric10BFGSAnalyticStageSearch next when the run goes on.
+func (r *trigonometric10BFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != trigonometric10BFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see trigonometric10BFGSAnalyticConfirmGradient and settle).
+		calls, ok := trigonometric10BFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == trigonometric10BFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Trigonometric10BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !trigonometric10BFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Trigonometric10BFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = trigonometric10BFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		trigonometric10BFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := trigonometric10BFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, trigonometric10BFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * trigonometric10BFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (trigonometric10BFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Trigonometric10BFGSAnalyticGradientSmall
+		r.stage = trigonometric10BFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = trigonometric10BFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if trigonometric10BFGSAnalyticDerivativeCost == 0 {
+			r.finish(Trigonometric10BFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if trigonometric10BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = trigonometric10BFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Trigonometric10BFGSAnalyticDiverged)
+			return
+		}
+		trigonometric10BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Trigonometric10BFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = trigonometric10BFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves trigonometric10BFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *trigonometric10BFGSAnalyticDescent) search() {
+	trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := trigonometric10BFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !trigonometric10BFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = trigonometric10BFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(trigonometric10BFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := trigonometric10BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := trigonometric10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case trigonometric10BFGSAnalyticSearchOutOfBudget:
+		r.finish(Trigonometric10BFGSAnalyticOutOfEvaluations)
+		return
+	case trigonometric10BFGSAnalyticSearchDiverged:
+		r.finish(Trigonometric10BFGSAnalyticDiverged)
+		return
+	case trigonometric10BFGSAnalyticSearchExhausted, trigonometric10BFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see trigonometric10BFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Trigonometric10BFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Trigonometric10BFGSAnalyticNoDecrease
+		case found.end == trigonometric10BFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = trigonometric10BFGSAnalyticVerifyStall, true, trigonometric10BFGSAnalyticStageJudge
+			return
+		case found.end == trigonometric10BFGSAnalyticSearchTiny:
+			end = Trigonometric10BFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !trigonometric10BFGSAnalyticFiniteVec(&xt) {
+		r.finish(Trigonometric10BFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+trigonometric10BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Trigonometric10BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += trigonometric10BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	trigonometric10BFGSAnalyticDifference(&r.s, &xt, &r.x)
+	trigonometric10BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !trigonometric10BFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Trigonometric10BFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = trigonometric10BFGSAnalyticStageJudge
 }
 
 // trigonometric10BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type trigonometric10BFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10BFGSAnalyticRoundingFloor)
 	bounds    trigonometric10BFGSAnalyticBox
-}
-
-// trigonometric10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func trigonometric10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *trigonometric10BFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// trigonometric10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func trigonometric10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) int {
-	Trigonometric10Grad(x, g)
-	return 0
 }
 
 // trigonometric10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func trigonometric10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10BFGSAnalyticDot(s, s))*(sy/trigonometric10BFGSAnalyticDot(y, y)) > trigonometric10BFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	trigonometric10BFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	trigonometric10BFGSAnalyticStageJudge         // settle when asked (trigonometric10BFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	trigonometric10BFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: trigonometric10BFGSAnalyticIterationCalls
+	trigonometric10BFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// trigonometric10BFGSAnalyticEnterBox: without bounds every start is inside.
+func trigonometric10BFGSAnalyticEnterBox(x *[10]float64, b *trigonometric10BFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	trigonometric10BFGSAnalyticVerifyNothing = iota
 	trigonometric10BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	trigonometric10BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// trigonometric10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func trigonometric10BFGSAnalyticFinite(v float64) bool {
+	return v >= -trigonometric10BFGSAnalyticLargestFinite && v <= trigonometric10BFGSAnalyticLargestFinite
+}
+
+// trigonometric10BFGSAnalyticFiniteVec reports whether every component of x is finite.
+func trigonometric10BFGSAnalyticFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !trigonometric10BFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// trigonometric10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func trigonometric10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *trigonometric10BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// trigonometric10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func trigonometric10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) int {
+	Trigonometric10Grad(x, g)
+	return 0
+}
 
 // trigonometric10BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (trigonometric10BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1001,3 +1195,6 @@ func trigonometric10BFGSAnalyticDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// trigonometric10BFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const trigonometric10BFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestTrigonometric10CGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestTrigonometric10CGAnalyticSolverTicks advances a Trigonometric10CGAnalyticSolver from the spec's start with budgets of Trigonometric10CGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Trigonometric10CGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestTrigonometric10CGAnalyticSolverTicks(t *testing.T) {
+	want := Trigonometric10CGAnalytic(trigonometric10CGAnalyticTestStart())
+	for _, budget := range []int{Trigonometric10CGAnalyticTickMinimum, Trigonometric10CGAnalyticTickMinimum + 1, 2 * Trigonometric10CGAnalyticTickMinimum, 7 * Trigonometric10CGAnalyticTickMinimum} {
+		var s Trigonometric10CGAnalyticSolver
+		s.Start(trigonometric10CGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Trigonometric10CGAnalyticRunning {
+				if !trigonometric10CGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Trigonometric10CGAnalyticSolver
+	s.Start(trigonometric10CGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Trigonometric10CGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestTrigonometric10CGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestTrigonometric10CGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Trigonometric10CGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(trigonometric10CGAnalyticTestStart())
+		for s.Advance(Trigonometric10CGAnalyticTickMinimum).Status == Trigonometric10CGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// trigonometric10CGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func trigonometric10CGAnalyticTestSameResult(a, b Trigonometric10CGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkTrigonometric10CGAnalytic measures one whole run from the spec's start.
 func BenchmarkTrigonometric10CGAnalytic(b *testing.B) {
 	var r Trigonometric10CGAnalyticResult

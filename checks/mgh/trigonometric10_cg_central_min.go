@@ -26,6 +26,8 @@ const (
 	Trigonometric10CGCentralNoDecrease
 	// Trigonometric10CGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Trigonometric10CGCentralDiverged
+	// Trigonometric10CGCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Trigonometric10CGCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Trigonometric10CGCentralStatus) String() string {
 		return "no decrease"
 	case Trigonometric10CGCentralDiverged:
 		return "diverged"
+	case Trigonometric10CGCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Trigonometric10CGCentralWithLimits(x0 [10]float64, limits Trigonometric10CG
 	}
 }
 
+// Trigonometric10CGCentralTickMinimum is the smallest call budget with which every Trigonometric10CGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 61 calls, an iteration 1008, confirming a difference gradient 80).
+const Trigonometric10CGCentralTickMinimum = 1008
+
+// Trigonometric10CGCentralSolver is a run of Trigonometric10CGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Trigonometric10CGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 61 calls, an iteration 1008, confirming a difference gradient 80. A budget of at least Trigonometric10CGCentralTickMinimum = 1008 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Trigonometric10CGCentralRunning ends exactly as Trigonometric10CGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Trigonometric10CGCentral and Trigonometric10CGCentralWithLimits use at most 4912 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is Trigonometric10CGCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Trigonometric10CGCentralSolver struct {
+	run       trigonometric10CGCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Trigonometric10CGCentralLimits  // the limits of the runs; Trigonometric10CGCentralDefaultLimits() until SetLimits
+	ownLimits bool                            // whether SetLimits has set limits
+	started   bool                            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Trigonometric10CGCentralSolver) SetLimits(limits Trigonometric10CGCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Trigonometric10CGCentralSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Trigonometric10CGCentralSolver) StartFrom(from Trigonometric10CGCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *Trigonometric10CGCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Trigonometric10CGCentralSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = Trigonometric10CGCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, trigonometric10CGCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Trigonometric10CGCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Trigonometric10CGCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Trigonometric10CGCentralSolver) Advance(budget int) Trigonometric10CGCentralResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Trigonometric10CGCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Trigonometric10CGCentral from mgh.toml; the kernels below read them.
 const (
-	trigonometric10CGCentralStepInitial    = 1.0                    // step.initial
-	trigonometric10CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	trigonometric10CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	trigonometric10CGCentralStepTrials     = 48                     // step.trials
-	trigonometric10CGCentralDerivativeCost = 20                     // objective calls per gradient
-	trigonometric10CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	trigonometric10CGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	trigonometric10CGCentralStepInitial     = 1.0                    // step.initial
+	trigonometric10CGCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	trigonometric10CGCentralStepCurvature   = 0.1                    // step.curvature (c2)
+	trigonometric10CGCentralStepTrials      = 48                     // step.trials
+	trigonometric10CGCentralDerivativeCost  = 20                     // objective calls per gradient
+	trigonometric10CGCentralCalibrationCost = 40                     // objective calls of choosing the difference intervals
+	trigonometric10CGCentralIterationCalls  = 1008                   // most objective calls of one line search with the gradient at its step
+	trigonometric10CGCentralSettleCalls     = 80                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	trigonometric10CGCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	trigonometric10CGCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // trigonometric10CGCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentralLimits, bounds trigonometric10CGCentralBox) trigonometric10CGCentralOutcome {
-	x := x0
-	trigonometric10CGCentralEnterBox(&x, &bounds)
-	out := trigonometric10CGCentralOutcome{x: x, status: Trigonometric10CGCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Trigonometric10(&x)
-	out.f, out.evaluations = fx, 1
-	if !trigonometric10CGCentralFinite(fx) || !trigonometric10CGCentralFiniteVec(&x) {
-		out.status = Trigonometric10CGCentralNonFiniteStart
-		return out
-	}
-	diffs := trigonometric10CGCentralDifferences{bounds: bounds}
-	calls, ok := trigonometric10CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+trigonometric10CGCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += trigonometric10CGCentralDerivative(&x, fx, &g, &diffs)
-
-	if !trigonometric10CGCentralFiniteVec(&g) {
-		out.status = Trigonometric10CGCentralNonFiniteGradient
-		return out
-	}
-	var dir trigonometric10CGCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(trigonometric10CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from trigonometric10CGCentralConfirmGradient or settle
-	stalled := false                                                     // whether the run can make no more progress at x
-	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
-	verify := trigonometric10CGCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != trigonometric10CGCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see trigonometric10CGCentralConfirmGradient and settle).
-			calls, ok := trigonometric10CGCentralSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10CGCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10CGCentralFiniteVec(&g) {
-				return best.ending(Trigonometric10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = trigonometric10CGCentralVerifyNothing, true
-		case !confirmed:
-			trigonometric10CGCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := trigonometric10CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, trigonometric10CGCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * trigonometric10CGCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (trigonometric10CGCentralDerivativeCost == 0 || confirmed) {
-			out.status = Trigonometric10CGCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = trigonometric10CGCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if trigonometric10CGCentralDerivativeCost == 0 {
-				return best.ending(Trigonometric10CGCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if trigonometric10CGCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = trigonometric10CGCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Trigonometric10CGCentralDiverged, out.iterations, out.evaluations)
-			}
-			trigonometric10CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Trigonometric10CGCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		trigonometric10CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := trigonometric10CGCentralDot(&g, &d)
-		if !(now < 0) || !trigonometric10CGCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			trigonometric10CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = trigonometric10CGCentralDot(&g, &d)
-		}
-		first := float64(trigonometric10CGCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := trigonometric10CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case trigonometric10CGCentralSearchOutOfBudget:
-			return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case trigonometric10CGCentralSearchDiverged:
-			return best.ending(Trigonometric10CGCentralDiverged, out.iterations, out.evaluations)
-		case trigonometric10CGCentralSearchExhausted, trigonometric10CGCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see trigonometric10CGCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Trigonometric10CGCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Trigonometric10CGCentralNoDecrease
-			case found.end == trigonometric10CGCentralSearchTiny && canSettle:
-				verify, stalled = trigonometric10CGCentralVerifyStall, true
-				continue
-			case found.end == trigonometric10CGCentralSearchTiny:
-				end = Trigonometric10CGCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !trigonometric10CGCentralFiniteVec(&xt) {
-			return best.ending(Trigonometric10CGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+trigonometric10CGCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += trigonometric10CGCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		trigonometric10CGCentralDifference(&s, &xt, &x)
-		trigonometric10CGCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !trigonometric10CGCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Trigonometric10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r trigonometric10CGCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(trigonometric10CGCentralUnlimited)
 }
 
 // trigonometric10CGCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o trigonometric10CGCentralOutcome) ending(end Trigonometric10CGCentralStat
 	return o
 }
 
-// trigonometric10CGCentralEnterBox: without bounds every start is inside.
-func trigonometric10CGCentralEnterBox(x *[10]float64, b *trigonometric10CGCentralBox) {}
-
-// trigonometric10CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func trigonometric10CGCentralFinite(v float64) bool {
-	return v >= -trigonometric10CGCentralLargestFinite && v <= trigonometric10CGCentralLargestFinite
+// trigonometric10CGCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type trigonometric10CGCentralDescent struct {
+	lim       Trigonometric10CGCentralLimits
+	stage     int                                 // what advance does next
+	diffs     trigonometric10CGCentralDifferences // the box and the difference intervals
+	dir       trigonometric10CGCentralDirection   // the direction's memory
+	x, g, e   [10]float64                         // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                         // the search direction, the last step and its gradient change
+	fx        float64                             // f(x)
+	t, slope  float64                             // the previous iteration's accepted step and slope
+	out, best trigonometric10CGCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                             // f(x0)
+	rises     int                                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                // whether g and e at x come from trigonometric10CGCentralConfirmGradient or settle
+	stalled   bool                                // whether the run can make no more progress at x
+	retried   int                                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                                 // what to check at x before judging it again
 }
 
-// trigonometric10CGCentralFiniteVec reports whether every component of x is finite.
-func trigonometric10CGCentralFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10CGCentralFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *trigonometric10CGCentralDescent) prepare(x0 [10]float64, lim Trigonometric10CGCentralLimits, bounds trigonometric10CGCentralBox) {
+	r.lim, r.stage = lim, trigonometric10CGCentralStageBegin
+	r.diffs = trigonometric10CGCentralDifferences{bounds: bounds}
+	r.x = x0
+	trigonometric10CGCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = trigonometric10CGCentralOutcome{x: r.x, f: math.NaN(), status: Trigonometric10CGCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *trigonometric10CGCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Trigonometric10CGCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, trigonometric10CGCentralSettleCalls and trigonometric10CGCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *trigonometric10CGCentralDescent) advance(budget int) trigonometric10CGCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != trigonometric10CGCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case trigonometric10CGCentralStageBegin:
+			if left < 1+trigonometric10CGCentralCalibrationCost+trigonometric10CGCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case trigonometric10CGCentralStageJudge:
+			if r.verify != trigonometric10CGCentralVerifyNothing && left < trigonometric10CGCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < trigonometric10CGCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *trigonometric10CGCentralDescent) paused() trigonometric10CGCentralOutcome {
+	return r.best.ending(Trigonometric10CGCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *trigonometric10CGCentralDescent) finish(end Trigonometric10CGCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = trigonometric10CGCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *trigonometric10CGCentralDescent) begin() {
+	r.stage = trigonometric10CGCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !trigonometric10CGCentralFinite(r.fx) || !trigonometric10CGCentralFiniteVec(&r.x) {
+		r.out.status = Trigonometric10CGCentralNonFiniteStart
+		return
+	}
+	calls, ok := trigonometric10CGCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+trigonometric10CGCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += trigonometric10CGCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !trigonometric10CGCentralFiniteVec(&r.g) {
+		r.out.status = Trigonometric10CGCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = trigonometric10CGCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, trigonometric10CGCentralVerifyNothing
+	r.stage = trigonometric10CGCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves trigonometric10CGCentralStageSearch next when the run goes on.
+func (r *trigonometric10CGCentralDescent) judge() {
+	switch {
+	case r.verify != trigonometric10CGCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see trigonometric10CGCentralConfirmGradient and settle).
+		calls, ok := trigonometric10CGCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == trigonometric10CGCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Trigonometric10CGCentralOutOfEvaluations)
+			return
+		}
+		if !trigonometric10CGCentralFiniteVec(&r.g) {
+			r.finish(Trigonometric10CGCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = trigonometric10CGCentralVerifyNothing, true
+	case !r.confirmed:
+		trigonometric10CGCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := trigonometric10CGCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, trigonometric10CGCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * trigonometric10CGCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (trigonometric10CGCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Trigonometric10CGCentralGradientSmall
+		r.stage = trigonometric10CGCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = trigonometric10CGCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if trigonometric10CGCentralDerivativeCost == 0 {
+			r.finish(Trigonometric10CGCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if trigonometric10CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = trigonometric10CGCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Trigonometric10CGCentralDiverged)
+			return
+		}
+		trigonometric10CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Trigonometric10CGCentralOutOfIterations)
+		return
+	}
+	r.stage = trigonometric10CGCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves trigonometric10CGCentralStageJudge next when the run
+// goes on.
+func (r *trigonometric10CGCentralDescent) search() {
+	trigonometric10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := trigonometric10CGCentralDot(&r.g, &r.d)
+	if !(now < 0) || !trigonometric10CGCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		trigonometric10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = trigonometric10CGCentralDot(&r.g, &r.d)
+	}
+	first := float64(trigonometric10CGCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := trigonometric10CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := trigonometric10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case trigonometric10CGCentralSearchOutOfBudget:
+		r.finish(Trigonometric10CGCentralOutOfEvaluations)
+		return
+	case trigonometric10CGCentralSearchDiverged:
+		r.finish(Trigonometric10CGCentralDiverged)
+		return
+	case trigonometric10CGCentralSearchExhausted, trigonometric10CGCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see trigonometric10CGCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Trigonometric10CGCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Trigonometric10CGCentralNoDecrease
+		case found.end == trigonometric10CGCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = trigonometric10CGCentralVerifyStall, true, trigonometric10CGCentralStageJudge
+			return
+		case found.end == trigonometric10CGCentralSearchTiny:
+			end = Trigonometric10CGCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !trigonometric10CGCentralFiniteVec(&xt) {
+		r.finish(Trigonometric10CGCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+trigonometric10CGCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Trigonometric10CGCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += trigonometric10CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	trigonometric10CGCentralDifference(&r.s, &xt, &r.x)
+	trigonometric10CGCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !trigonometric10CGCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Trigonometric10CGCentralNonFiniteGradient)
+		return
+	}
+	r.stage = trigonometric10CGCentralStageJudge
 }
 
 // trigonometric10CGCentralDifferences is what the kernel knows about evaluating the objective:
@@ -384,6 +544,129 @@ type trigonometric10CGCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10CGCentralRoundingFloor)
 	bounds    trigonometric10CGCentralBox
+}
+
+// trigonometric10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type trigonometric10CGCentralDirection struct {
+	previous [10]float64 // d₋₁
+	change   [10]float64 // y = g − g₋₁, set by update
+	squared  float64     // ‖g₋₁‖²
+	steps    int         // iterations since the last restart; 0 means restart
+}
+
+func (s *trigonometric10CGCentralDirection) reset() {
+	s.steps = 0
+}
+
+func (s *trigonometric10CGCentralDirection) compute(g, d *[10]float64) {
+	var beta float64
+	if s.steps > 0 && s.steps < 10 && s.squared > 0 {
+		beta = trigonometric10CGCentralLarger(trigonometric10CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = trigonometric10CGCentralDot(g, g)
+}
+
+func (s *trigonometric10CGCentralDirection) update(step, change *[10]float64) {
+	s.change = *change
+}
+
+func (s *trigonometric10CGCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return trigonometric10CGCentralScaledTrial(t, slope, now)
+}
+
+// trigonometric10CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func trigonometric10CGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// trigonometric10CGCentralDot returns aᵀb.
+func trigonometric10CGCentralDot(a, b *[10]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// trigonometric10CGCentralScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to trigonometric10CGCentralStepInitial.
+func trigonometric10CGCentralScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !trigonometric10CGCentralFinite(next) {
+		return trigonometric10CGCentralStepInitial
+	}
+	return next
+}
+
+// trigonometric10CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func trigonometric10CGCentralFinite(v float64) bool {
+	return v >= -trigonometric10CGCentralLargestFinite && v <= trigonometric10CGCentralLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	trigonometric10CGCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	trigonometric10CGCentralStageJudge         // settle when asked (trigonometric10CGCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	trigonometric10CGCentralStageSearch        // the line search and the gradient at the accepted point: trigonometric10CGCentralIterationCalls
+	trigonometric10CGCentralStageOver          // the run has ended; out is its result
+)
+
+// trigonometric10CGCentralEnterBox: without bounds every start is inside.
+func trigonometric10CGCentralEnterBox(x *[10]float64, b *trigonometric10CGCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10CGCentralVerifyNothing = iota
+	trigonometric10CGCentralVerifyPass    // a difference gradient passed the test
+	trigonometric10CGCentralVerifyStall   // no step makes progress
+)
+
+// trigonometric10CGCentralFiniteVec reports whether every component of x is finite.
+func trigonometric10CGCentralFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !trigonometric10CGCentralFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10CGCentralCalibrate chooses each central-difference interval from the
@@ -476,16 +759,6 @@ func trigonometric10CGCentralAbs(v float64) float64 {
 // trigonometric10CGCentralSquareRoot returns √v.
 func trigonometric10CGCentralSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
-}
-
-// trigonometric10CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func trigonometric10CGCentralLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // trigonometric10CGCentralCoordinateRange: without bounds any probe is allowed.
@@ -645,85 +918,6 @@ func trigonometric10CGCentralParabola(f0, a, fa, b, fb float64) (slope, second f
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// trigonometric10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type trigonometric10CGCentralDirection struct {
-	previous [10]float64 // d₋₁
-	change   [10]float64 // y = g − g₋₁, set by update
-	squared  float64     // ‖g₋₁‖²
-	steps    int         // iterations since the last restart; 0 means restart
-}
-
-func (s *trigonometric10CGCentralDirection) reset() {
-	s.steps = 0
-}
-
-func (s *trigonometric10CGCentralDirection) compute(g, d *[10]float64) {
-	var beta float64
-	if s.steps > 0 && s.steps < 10 && s.squared > 0 {
-		beta = trigonometric10CGCentralLarger(trigonometric10CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = trigonometric10CGCentralDot(g, g)
-}
-
-func (s *trigonometric10CGCentralDirection) update(step, change *[10]float64) {
-	s.change = *change
-}
-
-func (s *trigonometric10CGCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return trigonometric10CGCentralScaledTrial(t, slope, now)
-}
-
-// trigonometric10CGCentralDot returns aᵀb.
-func trigonometric10CGCentralDot(a, b *[10]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// trigonometric10CGCentralScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to trigonometric10CGCentralStepInitial.
-func trigonometric10CGCentralScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !trigonometric10CGCentralFinite(next) {
-		return trigonometric10CGCentralStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	trigonometric10CGCentralVerifyNothing = iota
-	trigonometric10CGCentralVerifyPass    // a difference gradient passed the test
-	trigonometric10CGCentralVerifyStall   // no step makes progress
-)
 
 // trigonometric10CGCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (trigonometric10CGCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1161,3 +1355,6 @@ func trigonometric10CGCentralDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// trigonometric10CGCentralUnlimited is a tick budget that never pauses a run.
+const trigonometric10CGCentralUnlimited = int(^uint(0) >> 1)

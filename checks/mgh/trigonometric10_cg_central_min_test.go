@@ -47,6 +47,55 @@ func TestTrigonometric10CGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestTrigonometric10CGCentralSolverTicks advances a Trigonometric10CGCentralSolver from the spec's start with budgets of Trigonometric10CGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Trigonometric10CGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestTrigonometric10CGCentralSolverTicks(t *testing.T) {
+	want := Trigonometric10CGCentral(trigonometric10CGCentralTestStart())
+	for _, budget := range []int{Trigonometric10CGCentralTickMinimum, Trigonometric10CGCentralTickMinimum + 1, 2 * Trigonometric10CGCentralTickMinimum, 7 * Trigonometric10CGCentralTickMinimum} {
+		var s Trigonometric10CGCentralSolver
+		s.Start(trigonometric10CGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Trigonometric10CGCentralRunning {
+				if !trigonometric10CGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Trigonometric10CGCentralSolver
+	s.Start(trigonometric10CGCentralTestStart())
+	if r := s.Advance(0); r.Status != Trigonometric10CGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestTrigonometric10CGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestTrigonometric10CGCentralSolverAllocatesNothing(t *testing.T) {
+	var s Trigonometric10CGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(trigonometric10CGCentralTestStart())
+		for s.Advance(Trigonometric10CGCentralTickMinimum).Status == Trigonometric10CGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// trigonometric10CGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func trigonometric10CGCentralTestSameResult(a, b Trigonometric10CGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkTrigonometric10CGCentral measures one whole run from the spec's start.
 func BenchmarkTrigonometric10CGCentral(b *testing.B) {
 	var r Trigonometric10CGCentralResult

@@ -26,6 +26,8 @@ const (
 	Trigonometric10LBFGSAnalyticNoDecrease
 	// Trigonometric10LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Trigonometric10LBFGSAnalyticDiverged
+	// Trigonometric10LBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Trigonometric10LBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Trigonometric10LBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Trigonometric10LBFGSAnalyticDiverged:
 		return "diverged"
+	case Trigonometric10LBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Trigonometric10LBFGSAnalyticWithLimits(x0 [10]float64, limits Trigonometric
 	}
 }
 
+// Trigonometric10LBFGSAnalyticTickMinimum is the smallest call budget with which every Trigonometric10LBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Trigonometric10LBFGSAnalyticTickMinimum = 48
+
+// Trigonometric10LBFGSAnalyticSolver is a run of Trigonometric10LBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Trigonometric10LBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Trigonometric10LBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Trigonometric10LBFGSAnalyticRunning ends exactly as Trigonometric10LBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Trigonometric10LBFGSAnalytic and Trigonometric10LBFGSAnalyticWithLimits use at most 5592 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is Trigonometric10LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Trigonometric10LBFGSAnalyticSolver struct {
+	run       trigonometric10LBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Trigonometric10LBFGSAnalyticLimits  // the limits of the runs; Trigonometric10LBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                                // whether SetLimits has set limits
+	started   bool                                // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Trigonometric10LBFGSAnalyticSolver) SetLimits(limits Trigonometric10LBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Trigonometric10LBFGSAnalyticSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Trigonometric10LBFGSAnalyticSolver) StartFrom(from Trigonometric10LBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Trigonometric10LBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Trigonometric10LBFGSAnalyticSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = Trigonometric10LBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, trigonometric10LBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Trigonometric10LBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Trigonometric10LBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Trigonometric10LBFGSAnalyticSolver) Advance(budget int) Trigonometric10LBFGSAnalyticResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Trigonometric10LBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Trigonometric10LBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	trigonometric10LBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	trigonometric10LBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	trigonometric10LBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	trigonometric10LBFGSAnalyticLbfgsMemory    = 5                      // memory
-	trigonometric10LBFGSAnalyticStepTrials     = 48                     // step.trials
-	trigonometric10LBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	trigonometric10LBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	trigonometric10LBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	trigonometric10LBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	trigonometric10LBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	trigonometric10LBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	trigonometric10LBFGSAnalyticLbfgsMemory     = 5                      // memory
+	trigonometric10LBFGSAnalyticStepTrials      = 48                     // step.trials
+	trigonometric10LBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	trigonometric10LBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	trigonometric10LBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	trigonometric10LBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	trigonometric10LBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	trigonometric10LBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // trigonometric10LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBFGSAnalyticLimits, bounds trigonometric10LBFGSAnalyticBox) trigonometric10LBFGSAnalyticOutcome {
-	x := x0
-	trigonometric10LBFGSAnalyticEnterBox(&x, &bounds)
-	out := trigonometric10LBFGSAnalyticOutcome{x: x, status: Trigonometric10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Trigonometric10(&x)
-	out.f, out.evaluations = fx, 1
-	if !trigonometric10LBFGSAnalyticFinite(fx) || !trigonometric10LBFGSAnalyticFiniteVec(&x) {
-		out.status = Trigonometric10LBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := trigonometric10LBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := trigonometric10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+trigonometric10LBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += trigonometric10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
-		out.status = Trigonometric10LBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir trigonometric10LBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(trigonometric10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                              // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                       // whether g and e at x come from trigonometric10LBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                         // whether the run can make no more progress at x
-	retried := -1                                                            // the iteration whose stall was retried with recalibrated differences
-	verify := trigonometric10LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != trigonometric10LBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see trigonometric10LBFGSAnalyticConfirmGradient and settle).
-			calls, ok := trigonometric10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Trigonometric10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = trigonometric10LBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			trigonometric10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := trigonometric10LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, trigonometric10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * trigonometric10LBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (trigonometric10LBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Trigonometric10LBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = trigonometric10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if trigonometric10LBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Trigonometric10LBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if trigonometric10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = trigonometric10LBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Trigonometric10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			trigonometric10LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Trigonometric10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		trigonometric10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := trigonometric10LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !trigonometric10LBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			trigonometric10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = trigonometric10LBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(trigonometric10LBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := trigonometric10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case trigonometric10LBFGSAnalyticSearchOutOfBudget:
-			return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case trigonometric10LBFGSAnalyticSearchDiverged:
-			return best.ending(Trigonometric10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case trigonometric10LBFGSAnalyticSearchExhausted, trigonometric10LBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see trigonometric10LBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Trigonometric10LBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Trigonometric10LBFGSAnalyticNoDecrease
-			case found.end == trigonometric10LBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = trigonometric10LBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == trigonometric10LBFGSAnalyticSearchTiny:
-				end = Trigonometric10LBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !trigonometric10LBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Trigonometric10LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+trigonometric10LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += trigonometric10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		trigonometric10LBFGSAnalyticDifference(&s, &xt, &x)
-		trigonometric10LBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Trigonometric10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r trigonometric10LBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(trigonometric10LBFGSAnalyticUnlimited)
 }
 
 // trigonometric10LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o trigonometric10LBFGSAnalyticOutcome) ending(end Trigonometric10LBFGSAnal
 	return o
 }
 
-// trigonometric10LBFGSAnalyticEnterBox: without bounds every start is inside.
-func trigonometric10LBFGSAnalyticEnterBox(x *[10]float64, b *trigonometric10LBFGSAnalyticBox) {}
-
-// trigonometric10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func trigonometric10LBFGSAnalyticFinite(v float64) bool {
-	return v >= -trigonometric10LBFGSAnalyticLargestFinite && v <= trigonometric10LBFGSAnalyticLargestFinite
+// trigonometric10LBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type trigonometric10LBFGSAnalyticDescent struct {
+	lim       Trigonometric10LBFGSAnalyticLimits
+	stage     int                                     // what advance does next
+	diffs     trigonometric10LBFGSAnalyticDifferences // the box and the difference intervals
+	dir       trigonometric10LBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [10]float64                             // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                             // the search direction, the last step and its gradient change
+	fx        float64                                 // f(x)
+	t, slope  float64                                 // the previous iteration's accepted step and slope
+	out, best trigonometric10LBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                 // f(x0)
+	rises     int                                     // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                    // whether g and e at x come from trigonometric10LBFGSAnalyticConfirmGradient or settle
+	stalled   bool                                    // whether the run can make no more progress at x
+	retried   int                                     // the iteration whose stall was retried with recalibrated differences
+	verify    int                                     // what to check at x before judging it again
 }
 
-// trigonometric10LBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func trigonometric10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10LBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *trigonometric10LBFGSAnalyticDescent) prepare(x0 [10]float64, lim Trigonometric10LBFGSAnalyticLimits, bounds trigonometric10LBFGSAnalyticBox) {
+	r.lim, r.stage = lim, trigonometric10LBFGSAnalyticStageBegin
+	r.diffs = trigonometric10LBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	trigonometric10LBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = trigonometric10LBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Trigonometric10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *trigonometric10LBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Trigonometric10LBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, trigonometric10LBFGSAnalyticSettleCalls and trigonometric10LBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *trigonometric10LBFGSAnalyticDescent) advance(budget int) trigonometric10LBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != trigonometric10LBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case trigonometric10LBFGSAnalyticStageBegin:
+			if left < 1+trigonometric10LBFGSAnalyticCalibrationCost+trigonometric10LBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case trigonometric10LBFGSAnalyticStageJudge:
+			if r.verify != trigonometric10LBFGSAnalyticVerifyNothing && left < trigonometric10LBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < trigonometric10LBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *trigonometric10LBFGSAnalyticDescent) paused() trigonometric10LBFGSAnalyticOutcome {
+	return r.best.ending(Trigonometric10LBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *trigonometric10LBFGSAnalyticDescent) finish(end Trigonometric10LBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = trigonometric10LBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *trigonometric10LBFGSAnalyticDescent) begin() {
+	r.stage = trigonometric10LBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !trigonometric10LBFGSAnalyticFinite(r.fx) || !trigonometric10LBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Trigonometric10LBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := trigonometric10LBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+trigonometric10LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += trigonometric10LBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !trigonometric10LBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Trigonometric10LBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = trigonometric10LBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, trigonometric10LBFGSAnalyticVerifyNothing
+	r.stage = trigonometric10LBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves trigonometric10LBFGSAnalyticStageSearch next when the run goes on.
+func (r *trigonometric10LBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != trigonometric10LBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see trigonometric10LBFGSAnalyticConfirmGradient and settle).
+		calls, ok := trigonometric10LBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == trigonometric10LBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Trigonometric10LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !trigonometric10LBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Trigonometric10LBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = trigonometric10LBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		trigonometric10LBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := trigonometric10LBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, trigonometric10LBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * trigonometric10LBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (trigonometric10LBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Trigonometric10LBFGSAnalyticGradientSmall
+		r.stage = trigonometric10LBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = trigonometric10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if trigonometric10LBFGSAnalyticDerivativeCost == 0 {
+			r.finish(Trigonometric10LBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if trigonometric10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = trigonometric10LBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Trigonometric10LBFGSAnalyticDiverged)
+			return
+		}
+		trigonometric10LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Trigonometric10LBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = trigonometric10LBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves trigonometric10LBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *trigonometric10LBFGSAnalyticDescent) search() {
+	trigonometric10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := trigonometric10LBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !trigonometric10LBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		trigonometric10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = trigonometric10LBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(trigonometric10LBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := trigonometric10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := trigonometric10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case trigonometric10LBFGSAnalyticSearchOutOfBudget:
+		r.finish(Trigonometric10LBFGSAnalyticOutOfEvaluations)
+		return
+	case trigonometric10LBFGSAnalyticSearchDiverged:
+		r.finish(Trigonometric10LBFGSAnalyticDiverged)
+		return
+	case trigonometric10LBFGSAnalyticSearchExhausted, trigonometric10LBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see trigonometric10LBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Trigonometric10LBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Trigonometric10LBFGSAnalyticNoDecrease
+		case found.end == trigonometric10LBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = trigonometric10LBFGSAnalyticVerifyStall, true, trigonometric10LBFGSAnalyticStageJudge
+			return
+		case found.end == trigonometric10LBFGSAnalyticSearchTiny:
+			end = Trigonometric10LBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !trigonometric10LBFGSAnalyticFiniteVec(&xt) {
+		r.finish(Trigonometric10LBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+trigonometric10LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Trigonometric10LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += trigonometric10LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	trigonometric10LBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	trigonometric10LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !trigonometric10LBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Trigonometric10LBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = trigonometric10LBFGSAnalyticStageJudge
 }
 
 // trigonometric10LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type trigonometric10LBFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSAnalyticRoundingFloor)
 	bounds    trigonometric10LBFGSAnalyticBox
-}
-
-// trigonometric10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func trigonometric10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *trigonometric10LBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// trigonometric10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func trigonometric10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) int {
-	Trigonometric10Grad(x, g)
-	return 0
 }
 
 // trigonometric10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func trigonometric10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10LBFGSAnalyticDot(s, s))*(sy/trigonometric10LBFGSAnalyticDot(y, y)) > trigonometric10LBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	trigonometric10LBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	trigonometric10LBFGSAnalyticStageJudge         // settle when asked (trigonometric10LBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	trigonometric10LBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: trigonometric10LBFGSAnalyticIterationCalls
+	trigonometric10LBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// trigonometric10LBFGSAnalyticEnterBox: without bounds every start is inside.
+func trigonometric10LBFGSAnalyticEnterBox(x *[10]float64, b *trigonometric10LBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	trigonometric10LBFGSAnalyticVerifyNothing = iota
 	trigonometric10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	trigonometric10LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// trigonometric10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func trigonometric10LBFGSAnalyticFinite(v float64) bool {
+	return v >= -trigonometric10LBFGSAnalyticLargestFinite && v <= trigonometric10LBFGSAnalyticLargestFinite
+}
+
+// trigonometric10LBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func trigonometric10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !trigonometric10LBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// trigonometric10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func trigonometric10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *trigonometric10LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// trigonometric10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func trigonometric10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) int {
+	Trigonometric10Grad(x, g)
+	return 0
+}
 
 // trigonometric10LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (trigonometric10LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1027,3 +1221,6 @@ func trigonometric10LBFGSAnalyticDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// trigonometric10LBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const trigonometric10LBFGSAnalyticUnlimited = int(^uint(0) >> 1)

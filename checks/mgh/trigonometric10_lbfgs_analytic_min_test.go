@@ -105,6 +105,55 @@ func TestTrigonometric10LBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestTrigonometric10LBFGSAnalyticSolverTicks advances a Trigonometric10LBFGSAnalyticSolver from the spec's start with budgets of Trigonometric10LBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Trigonometric10LBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestTrigonometric10LBFGSAnalyticSolverTicks(t *testing.T) {
+	want := Trigonometric10LBFGSAnalytic(trigonometric10LBFGSAnalyticTestStart())
+	for _, budget := range []int{Trigonometric10LBFGSAnalyticTickMinimum, Trigonometric10LBFGSAnalyticTickMinimum + 1, 2 * Trigonometric10LBFGSAnalyticTickMinimum, 7 * Trigonometric10LBFGSAnalyticTickMinimum} {
+		var s Trigonometric10LBFGSAnalyticSolver
+		s.Start(trigonometric10LBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Trigonometric10LBFGSAnalyticRunning {
+				if !trigonometric10LBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Trigonometric10LBFGSAnalyticSolver
+	s.Start(trigonometric10LBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Trigonometric10LBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestTrigonometric10LBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestTrigonometric10LBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Trigonometric10LBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(trigonometric10LBFGSAnalyticTestStart())
+		for s.Advance(Trigonometric10LBFGSAnalyticTickMinimum).Status == Trigonometric10LBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// trigonometric10LBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func trigonometric10LBFGSAnalyticTestSameResult(a, b Trigonometric10LBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkTrigonometric10LBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkTrigonometric10LBFGSAnalytic(b *testing.B) {
 	var r Trigonometric10LBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	Trigonometric10LBFGSCentralNoDecrease
 	// Trigonometric10LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Trigonometric10LBFGSCentralDiverged
+	// Trigonometric10LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Trigonometric10LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Trigonometric10LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case Trigonometric10LBFGSCentralDiverged:
 		return "diverged"
+	case Trigonometric10LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Trigonometric10LBFGSCentralWithLimits(x0 [10]float64, limits Trigonometric1
 	}
 }
 
+// Trigonometric10LBFGSCentralTickMinimum is the smallest call budget with which every Trigonometric10LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 61 calls, an iteration 1008, confirming a difference gradient 80).
+const Trigonometric10LBFGSCentralTickMinimum = 1008
+
+// Trigonometric10LBFGSCentralSolver is a run of Trigonometric10LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Trigonometric10LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 61 calls, an iteration 1008, confirming a difference gradient 80. A budget of at least Trigonometric10LBFGSCentralTickMinimum = 1008 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Trigonometric10LBFGSCentralRunning ends exactly as Trigonometric10LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Trigonometric10LBFGSCentral and Trigonometric10LBFGSCentralWithLimits use at most 5592 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is Trigonometric10LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Trigonometric10LBFGSCentralSolver struct {
+	run       trigonometric10LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Trigonometric10LBFGSCentralLimits  // the limits of the runs; Trigonometric10LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                               // whether SetLimits has set limits
+	started   bool                               // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Trigonometric10LBFGSCentralSolver) SetLimits(limits Trigonometric10LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Trigonometric10LBFGSCentralSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Trigonometric10LBFGSCentralSolver) StartFrom(from Trigonometric10LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Trigonometric10LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Trigonometric10LBFGSCentralSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = Trigonometric10LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, trigonometric10LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Trigonometric10LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Trigonometric10LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Trigonometric10LBFGSCentralSolver) Advance(budget int) Trigonometric10LBFGSCentralResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Trigonometric10LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Trigonometric10LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	trigonometric10LBFGSCentralStepInitial    = 1.0                    // step.initial
-	trigonometric10LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	trigonometric10LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	trigonometric10LBFGSCentralLbfgsMemory    = 5                      // memory
-	trigonometric10LBFGSCentralStepTrials     = 48                     // step.trials
-	trigonometric10LBFGSCentralDerivativeCost = 20                     // objective calls per gradient
-	trigonometric10LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	trigonometric10LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	trigonometric10LBFGSCentralStepInitial     = 1.0                    // step.initial
+	trigonometric10LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	trigonometric10LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	trigonometric10LBFGSCentralLbfgsMemory     = 5                      // memory
+	trigonometric10LBFGSCentralStepTrials      = 48                     // step.trials
+	trigonometric10LBFGSCentralDerivativeCost  = 20                     // objective calls per gradient
+	trigonometric10LBFGSCentralCalibrationCost = 40                     // objective calls of choosing the difference intervals
+	trigonometric10LBFGSCentralIterationCalls  = 1008                   // most objective calls of one line search with the gradient at its step
+	trigonometric10LBFGSCentralSettleCalls     = 80                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	trigonometric10LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	trigonometric10LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // trigonometric10LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFGSCentralLimits, bounds trigonometric10LBFGSCentralBox) trigonometric10LBFGSCentralOutcome {
-	x := x0
-	trigonometric10LBFGSCentralEnterBox(&x, &bounds)
-	out := trigonometric10LBFGSCentralOutcome{x: x, status: Trigonometric10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Trigonometric10(&x)
-	out.f, out.evaluations = fx, 1
-	if !trigonometric10LBFGSCentralFinite(fx) || !trigonometric10LBFGSCentralFiniteVec(&x) {
-		out.status = Trigonometric10LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := trigonometric10LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := trigonometric10LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+trigonometric10LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += trigonometric10LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !trigonometric10LBFGSCentralFiniteVec(&g) {
-		out.status = Trigonometric10LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir trigonometric10LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(trigonometric10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                             // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from trigonometric10LBFGSCentralConfirmGradient or settle
-	stalled := false                                                        // whether the run can make no more progress at x
-	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
-	verify := trigonometric10LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != trigonometric10LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see trigonometric10LBFGSCentralConfirmGradient and settle).
-			calls, ok := trigonometric10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10LBFGSCentralFiniteVec(&g) {
-				return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = trigonometric10LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			trigonometric10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := trigonometric10LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, trigonometric10LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * trigonometric10LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (trigonometric10LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = Trigonometric10LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = trigonometric10LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if trigonometric10LBFGSCentralDerivativeCost == 0 {
-				return best.ending(Trigonometric10LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if trigonometric10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = trigonometric10LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Trigonometric10LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			trigonometric10LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Trigonometric10LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		trigonometric10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := trigonometric10LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !trigonometric10LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			trigonometric10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = trigonometric10LBFGSCentralDot(&g, &d)
-		}
-		first := float64(trigonometric10LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := trigonometric10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case trigonometric10LBFGSCentralSearchOutOfBudget:
-			return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case trigonometric10LBFGSCentralSearchDiverged:
-			return best.ending(Trigonometric10LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case trigonometric10LBFGSCentralSearchExhausted, trigonometric10LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see trigonometric10LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Trigonometric10LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Trigonometric10LBFGSCentralNoDecrease
-			case found.end == trigonometric10LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = trigonometric10LBFGSCentralVerifyStall, true
-				continue
-			case found.end == trigonometric10LBFGSCentralSearchTiny:
-				end = Trigonometric10LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !trigonometric10LBFGSCentralFiniteVec(&xt) {
-			return best.ending(Trigonometric10LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+trigonometric10LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += trigonometric10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		trigonometric10LBFGSCentralDifference(&s, &xt, &x)
-		trigonometric10LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !trigonometric10LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r trigonometric10LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(trigonometric10LBFGSCentralUnlimited)
 }
 
 // trigonometric10LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o trigonometric10LBFGSCentralOutcome) ending(end Trigonometric10LBFGSCentr
 	return o
 }
 
+// trigonometric10LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type trigonometric10LBFGSCentralDescent struct {
+	lim       Trigonometric10LBFGSCentralLimits
+	stage     int                                    // what advance does next
+	diffs     trigonometric10LBFGSCentralDifferences // the box and the difference intervals
+	dir       trigonometric10LBFGSCentralDirection   // the direction's memory
+	x, g, e   [10]float64                            // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                            // the search direction, the last step and its gradient change
+	fx        float64                                // f(x)
+	t, slope  float64                                // the previous iteration's accepted step and slope
+	out, best trigonometric10LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                // f(x0)
+	rises     int                                    // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                   // whether g and e at x come from trigonometric10LBFGSCentralConfirmGradient or settle
+	stalled   bool                                   // whether the run can make no more progress at x
+	retried   int                                    // the iteration whose stall was retried with recalibrated differences
+	verify    int                                    // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *trigonometric10LBFGSCentralDescent) prepare(x0 [10]float64, lim Trigonometric10LBFGSCentralLimits, bounds trigonometric10LBFGSCentralBox) {
+	r.lim, r.stage = lim, trigonometric10LBFGSCentralStageBegin
+	r.diffs = trigonometric10LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	trigonometric10LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = trigonometric10LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: Trigonometric10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *trigonometric10LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Trigonometric10LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, trigonometric10LBFGSCentralSettleCalls and trigonometric10LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *trigonometric10LBFGSCentralDescent) advance(budget int) trigonometric10LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != trigonometric10LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case trigonometric10LBFGSCentralStageBegin:
+			if left < 1+trigonometric10LBFGSCentralCalibrationCost+trigonometric10LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case trigonometric10LBFGSCentralStageJudge:
+			if r.verify != trigonometric10LBFGSCentralVerifyNothing && left < trigonometric10LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < trigonometric10LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *trigonometric10LBFGSCentralDescent) paused() trigonometric10LBFGSCentralOutcome {
+	return r.best.ending(Trigonometric10LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *trigonometric10LBFGSCentralDescent) finish(end Trigonometric10LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = trigonometric10LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *trigonometric10LBFGSCentralDescent) begin() {
+	r.stage = trigonometric10LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !trigonometric10LBFGSCentralFinite(r.fx) || !trigonometric10LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = Trigonometric10LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := trigonometric10LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+trigonometric10LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += trigonometric10LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !trigonometric10LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = Trigonometric10LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = trigonometric10LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, trigonometric10LBFGSCentralVerifyNothing
+	r.stage = trigonometric10LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves trigonometric10LBFGSCentralStageSearch next when the run goes on.
+func (r *trigonometric10LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != trigonometric10LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see trigonometric10LBFGSCentralConfirmGradient and settle).
+		calls, ok := trigonometric10LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == trigonometric10LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Trigonometric10LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !trigonometric10LBFGSCentralFiniteVec(&r.g) {
+			r.finish(Trigonometric10LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = trigonometric10LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		trigonometric10LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := trigonometric10LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, trigonometric10LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * trigonometric10LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (trigonometric10LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Trigonometric10LBFGSCentralGradientSmall
+		r.stage = trigonometric10LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = trigonometric10LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if trigonometric10LBFGSCentralDerivativeCost == 0 {
+			r.finish(Trigonometric10LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if trigonometric10LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = trigonometric10LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Trigonometric10LBFGSCentralDiverged)
+			return
+		}
+		trigonometric10LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Trigonometric10LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = trigonometric10LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves trigonometric10LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *trigonometric10LBFGSCentralDescent) search() {
+	trigonometric10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := trigonometric10LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !trigonometric10LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		trigonometric10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = trigonometric10LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(trigonometric10LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := trigonometric10LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := trigonometric10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case trigonometric10LBFGSCentralSearchOutOfBudget:
+		r.finish(Trigonometric10LBFGSCentralOutOfEvaluations)
+		return
+	case trigonometric10LBFGSCentralSearchDiverged:
+		r.finish(Trigonometric10LBFGSCentralDiverged)
+		return
+	case trigonometric10LBFGSCentralSearchExhausted, trigonometric10LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see trigonometric10LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Trigonometric10LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Trigonometric10LBFGSCentralNoDecrease
+		case found.end == trigonometric10LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = trigonometric10LBFGSCentralVerifyStall, true, trigonometric10LBFGSCentralStageJudge
+			return
+		case found.end == trigonometric10LBFGSCentralSearchTiny:
+			end = Trigonometric10LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !trigonometric10LBFGSCentralFiniteVec(&xt) {
+		r.finish(Trigonometric10LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+trigonometric10LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Trigonometric10LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += trigonometric10LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	trigonometric10LBFGSCentralDifference(&r.s, &xt, &r.x)
+	trigonometric10LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !trigonometric10LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Trigonometric10LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = trigonometric10LBFGSCentralStageJudge
+}
+
+// trigonometric10LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type trigonometric10LBFGSCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSCentralRoundingFloor)
+	bounds    trigonometric10LBFGSCentralBox
+}
+
+// trigonometric10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last trigonometric10LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, trigonometric10LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type trigonometric10LBFGSCentralDirection struct {
+	s, y   [trigonometric10LBFGSCentralLbfgsMemory][10]float64
+	rho    [trigonometric10LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most trigonometric10LBFGSCentralLbfgsMemory
+}
+
+func (s *trigonometric10LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
+	var alpha [trigonometric10LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * trigonometric10LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = trigonometric10LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := trigonometric10LBFGSCentralDot(&s.s[newest], &s.y[newest]) / trigonometric10LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == trigonometric10LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * trigonometric10LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	trigonometric10LBFGSCentralNegate(d, &q)
+}
+
+func (s *trigonometric10LBFGSCentralDirection) update(step, change *[10]float64) {
+	if !trigonometric10LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == trigonometric10LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < trigonometric10LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / trigonometric10LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *trigonometric10LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// trigonometric10LBFGSCentralDot returns aᵀb.
+func trigonometric10LBFGSCentralDot(a, b *[10]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// trigonometric10LBFGSCentralNegate sets out = −x.
+func trigonometric10LBFGSCentralNegate(out, x *[10]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// trigonometric10LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
+	sy := trigonometric10LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/trigonometric10LBFGSCentralDot(s, s))*(sy/trigonometric10LBFGSCentralDot(y, y)) > trigonometric10LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	trigonometric10LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	trigonometric10LBFGSCentralStageJudge         // settle when asked (trigonometric10LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	trigonometric10LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: trigonometric10LBFGSCentralIterationCalls
+	trigonometric10LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // trigonometric10LBFGSCentralEnterBox: without bounds every start is inside.
 func trigonometric10LBFGSCentralEnterBox(x *[10]float64, b *trigonometric10LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10LBFGSCentralVerifyNothing = iota
+	trigonometric10LBFGSCentralVerifyPass    // a difference gradient passed the test
+	trigonometric10LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // trigonometric10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func trigonometric10LBFGSCentralFiniteVec(x *[10]float64) bool {
 		}
 	}
 	return true
-}
-
-// trigonometric10LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type trigonometric10LBFGSCentralDifferences struct {
-	ratio     [10]float64
-	curvature [10]float64
-	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSCentralRoundingFloor)
-	bounds    trigonometric10LBFGSCentralBox
 }
 
 // trigonometric10LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func trigonometric10LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, secon
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// trigonometric10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last trigonometric10LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, trigonometric10LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type trigonometric10LBFGSCentralDirection struct {
-	s, y   [trigonometric10LBFGSCentralLbfgsMemory][10]float64
-	rho    [trigonometric10LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most trigonometric10LBFGSCentralLbfgsMemory
-}
-
-func (s *trigonometric10LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
-	var alpha [trigonometric10LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * trigonometric10LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = trigonometric10LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := trigonometric10LBFGSCentralDot(&s.s[newest], &s.y[newest]) / trigonometric10LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == trigonometric10LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * trigonometric10LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	trigonometric10LBFGSCentralNegate(d, &q)
-}
-
-func (s *trigonometric10LBFGSCentralDirection) update(step, change *[10]float64) {
-	if !trigonometric10LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == trigonometric10LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < trigonometric10LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / trigonometric10LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *trigonometric10LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// trigonometric10LBFGSCentralDot returns aᵀb.
-func trigonometric10LBFGSCentralDot(a, b *[10]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// trigonometric10LBFGSCentralNegate sets out = −x.
-func trigonometric10LBFGSCentralNegate(out, x *[10]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// trigonometric10LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := trigonometric10LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/trigonometric10LBFGSCentralDot(s, s))*(sy/trigonometric10LBFGSCentralDot(y, y)) > trigonometric10LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	trigonometric10LBFGSCentralVerifyNothing = iota
-	trigonometric10LBFGSCentralVerifyPass    // a difference gradient passed the test
-	trigonometric10LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // trigonometric10LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (trigonometric10LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1206,3 +1400,6 @@ func trigonometric10LBFGSCentralDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// trigonometric10LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const trigonometric10LBFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestVariablyDimensioned10BFGSAnalyticGradientMatchesDifferences(t *testing.
 	}
 }
 
+// TestVariablyDimensioned10BFGSAnalyticSolverTicks advances a VariablyDimensioned10BFGSAnalyticSolver from the spec's start with budgets of VariablyDimensioned10BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where VariablyDimensioned10BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestVariablyDimensioned10BFGSAnalyticSolverTicks(t *testing.T) {
+	want := VariablyDimensioned10BFGSAnalytic(variablyDimensioned10BFGSAnalyticTestStart())
+	for _, budget := range []int{VariablyDimensioned10BFGSAnalyticTickMinimum, VariablyDimensioned10BFGSAnalyticTickMinimum + 1, 2 * VariablyDimensioned10BFGSAnalyticTickMinimum, 7 * VariablyDimensioned10BFGSAnalyticTickMinimum} {
+		var s VariablyDimensioned10BFGSAnalyticSolver
+		s.Start(variablyDimensioned10BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != VariablyDimensioned10BFGSAnalyticRunning {
+				if !variablyDimensioned10BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s VariablyDimensioned10BFGSAnalyticSolver
+	s.Start(variablyDimensioned10BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != VariablyDimensioned10BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestVariablyDimensioned10BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestVariablyDimensioned10BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s VariablyDimensioned10BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(variablyDimensioned10BFGSAnalyticTestStart())
+		for s.Advance(VariablyDimensioned10BFGSAnalyticTickMinimum).Status == VariablyDimensioned10BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// variablyDimensioned10BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func variablyDimensioned10BFGSAnalyticTestSameResult(a, b VariablyDimensioned10BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkVariablyDimensioned10BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkVariablyDimensioned10BFGSAnalytic(b *testing.B) {
 	var r VariablyDimensioned10BFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	VariablyDimensioned10CGAnalyticNoDecrease
 	// VariablyDimensioned10CGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	VariablyDimensioned10CGAnalyticDiverged
+	// VariablyDimensioned10CGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	VariablyDimensioned10CGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s VariablyDimensioned10CGAnalyticStatus) String() string {
 		return "no decrease"
 	case VariablyDimensioned10CGAnalyticDiverged:
 		return "diverged"
+	case VariablyDimensioned10CGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func VariablyDimensioned10CGAnalyticWithLimits(x0 [10]float64, limits VariablyDi
 	}
 }
 
+// VariablyDimensioned10CGAnalyticTickMinimum is the smallest call budget with which every VariablyDimensioned10CGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const VariablyDimensioned10CGAnalyticTickMinimum = 48
+
+// VariablyDimensioned10CGAnalyticSolver is a run of VariablyDimensioned10CGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (VariablyDimensioned10CGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least VariablyDimensioned10CGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not VariablyDimensioned10CGAnalyticRunning ends exactly as VariablyDimensioned10CGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): VariablyDimensioned10CGAnalytic and VariablyDimensioned10CGAnalyticWithLimits use at most 4912 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+//
+// While Status is VariablyDimensioned10CGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type VariablyDimensioned10CGAnalyticSolver struct {
+	run       variablyDimensioned10CGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    VariablyDimensioned10CGAnalyticLimits  // the limits of the runs; VariablyDimensioned10CGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                                   // whether SetLimits has set limits
+	started   bool                                   // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *VariablyDimensioned10CGAnalyticSolver) SetLimits(limits VariablyDimensioned10CGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *VariablyDimensioned10CGAnalyticSolver) Start(x0 [10]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *VariablyDimensioned10CGAnalyticSolver) StartFrom(from VariablyDimensioned10CGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *VariablyDimensioned10CGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *VariablyDimensioned10CGAnalyticSolver) begin(x0 [10]float64) {
+	if !s.ownLimits {
+		s.limits = VariablyDimensioned10CGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, variablyDimensioned10CGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status VariablyDimensioned10CGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See VariablyDimensioned10CGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *VariablyDimensioned10CGAnalyticSolver) Advance(budget int) VariablyDimensioned10CGAnalyticResult {
+	if !s.started {
+		var x0 [10]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return VariablyDimensioned10CGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of VariablyDimensioned10CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	variablyDimensioned10CGAnalyticStepInitial    = 1.0                    // step.initial
-	variablyDimensioned10CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	variablyDimensioned10CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	variablyDimensioned10CGAnalyticStepTrials     = 48                     // step.trials
-	variablyDimensioned10CGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	variablyDimensioned10CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	variablyDimensioned10CGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	variablyDimensioned10CGAnalyticStepInitial     = 1.0                    // step.initial
+	variablyDimensioned10CGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	variablyDimensioned10CGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	variablyDimensioned10CGAnalyticStepTrials      = 48                     // step.trials
+	variablyDimensioned10CGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	variablyDimensioned10CGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	variablyDimensioned10CGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	variablyDimensioned10CGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	variablyDimensioned10CGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	variablyDimensioned10CGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // variablyDimensioned10CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10CGAnalyticLimits, bounds variablyDimensioned10CGAnalyticBox) variablyDimensioned10CGAnalyticOutcome {
-	x := x0
-	variablyDimensioned10CGAnalyticEnterBox(&x, &bounds)
-	out := variablyDimensioned10CGAnalyticOutcome{x: x, status: VariablyDimensioned10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := VariablyDimensioned10(&x)
-	out.f, out.evaluations = fx, 1
-	if !variablyDimensioned10CGAnalyticFinite(fx) || !variablyDimensioned10CGAnalyticFiniteVec(&x) {
-		out.status = VariablyDimensioned10CGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := variablyDimensioned10CGAnalyticDifferences{bounds: bounds}
-	calls, ok := variablyDimensioned10CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+variablyDimensioned10CGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [10]float64
-	out.evaluations += variablyDimensioned10CGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
-		out.status = VariablyDimensioned10CGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir variablyDimensioned10CGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [10]float64
-	t, slope := float64(variablyDimensioned10CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                                 // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                          // whether g and e at x come from variablyDimensioned10CGAnalyticConfirmGradient or settle
-	stalled := false                                                            // whether the run can make no more progress at x
-	retried := -1                                                               // the iteration whose stall was retried with recalibrated differences
-	verify := variablyDimensioned10CGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != variablyDimensioned10CGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see variablyDimensioned10CGAnalyticConfirmGradient and settle).
-			calls, ok := variablyDimensioned10CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == variablyDimensioned10CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
-				return best.ending(VariablyDimensioned10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = variablyDimensioned10CGAnalyticVerifyNothing, true
-		case !confirmed:
-			variablyDimensioned10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := variablyDimensioned10CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, variablyDimensioned10CGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * variablyDimensioned10CGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (variablyDimensioned10CGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = VariablyDimensioned10CGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = variablyDimensioned10CGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if variablyDimensioned10CGAnalyticDerivativeCost == 0 {
-				return best.ending(VariablyDimensioned10CGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if variablyDimensioned10CGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = variablyDimensioned10CGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(VariablyDimensioned10CGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			variablyDimensioned10CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(VariablyDimensioned10CGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		variablyDimensioned10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := variablyDimensioned10CGAnalyticDot(&g, &d)
-		if !(now < 0) || !variablyDimensioned10CGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			variablyDimensioned10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = variablyDimensioned10CGAnalyticDot(&g, &d)
-		}
-		first := float64(variablyDimensioned10CGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := variablyDimensioned10CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case variablyDimensioned10CGAnalyticSearchOutOfBudget:
-			return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case variablyDimensioned10CGAnalyticSearchDiverged:
-			return best.ending(VariablyDimensioned10CGAnalyticDiverged, out.iterations, out.evaluations)
-		case variablyDimensioned10CGAnalyticSearchExhausted, variablyDimensioned10CGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see variablyDimensioned10CGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := VariablyDimensioned10CGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = VariablyDimensioned10CGAnalyticNoDecrease
-			case found.end == variablyDimensioned10CGAnalyticSearchTiny && canSettle:
-				verify, stalled = variablyDimensioned10CGAnalyticVerifyStall, true
-				continue
-			case found.end == variablyDimensioned10CGAnalyticSearchTiny:
-				end = VariablyDimensioned10CGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !variablyDimensioned10CGAnalyticFiniteVec(&xt) {
-			return best.ending(VariablyDimensioned10CGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+variablyDimensioned10CGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += variablyDimensioned10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		variablyDimensioned10CGAnalyticDifference(&s, &xt, &x)
-		variablyDimensioned10CGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(VariablyDimensioned10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r variablyDimensioned10CGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(variablyDimensioned10CGAnalyticUnlimited)
 }
 
 // variablyDimensioned10CGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o variablyDimensioned10CGAnalyticOutcome) ending(end VariablyDimensioned10
 	return o
 }
 
-// variablyDimensioned10CGAnalyticEnterBox: without bounds every start is inside.
-func variablyDimensioned10CGAnalyticEnterBox(x *[10]float64, b *variablyDimensioned10CGAnalyticBox) {}
-
-// variablyDimensioned10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func variablyDimensioned10CGAnalyticFinite(v float64) bool {
-	return v >= -variablyDimensioned10CGAnalyticLargestFinite && v <= variablyDimensioned10CGAnalyticLargestFinite
+// variablyDimensioned10CGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type variablyDimensioned10CGAnalyticDescent struct {
+	lim       VariablyDimensioned10CGAnalyticLimits
+	stage     int                                        // what advance does next
+	diffs     variablyDimensioned10CGAnalyticDifferences // the box and the difference intervals
+	dir       variablyDimensioned10CGAnalyticDirection   // the direction's memory
+	x, g, e   [10]float64                                // the point, its gradient and the gradient's error bound
+	d, s, y   [10]float64                                // the search direction, the last step and its gradient change
+	fx        float64                                    // f(x)
+	t, slope  float64                                    // the previous iteration's accepted step and slope
+	out, best variablyDimensioned10CGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                                    // f(x0)
+	rises     int                                        // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                                       // whether g and e at x come from variablyDimensioned10CGAnalyticConfirmGradient or settle
+	stalled   bool                                       // whether the run can make no more progress at x
+	retried   int                                        // the iteration whose stall was retried with recalibrated differences
+	verify    int                                        // what to check at x before judging it again
 }
 
-// variablyDimensioned10CGAnalyticFiniteVec reports whether every component of x is finite.
-func variablyDimensioned10CGAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !variablyDimensioned10CGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *variablyDimensioned10CGAnalyticDescent) prepare(x0 [10]float64, lim VariablyDimensioned10CGAnalyticLimits, bounds variablyDimensioned10CGAnalyticBox) {
+	r.lim, r.stage = lim, variablyDimensioned10CGAnalyticStageBegin
+	r.diffs = variablyDimensioned10CGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	variablyDimensioned10CGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}, [10]float64{}
+	r.out = variablyDimensioned10CGAnalyticOutcome{x: r.x, f: math.NaN(), status: VariablyDimensioned10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *variablyDimensioned10CGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with VariablyDimensioned10CGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, variablyDimensioned10CGAnalyticSettleCalls and variablyDimensioned10CGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *variablyDimensioned10CGAnalyticDescent) advance(budget int) variablyDimensioned10CGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != variablyDimensioned10CGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case variablyDimensioned10CGAnalyticStageBegin:
+			if left < 1+variablyDimensioned10CGAnalyticCalibrationCost+variablyDimensioned10CGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case variablyDimensioned10CGAnalyticStageJudge:
+			if r.verify != variablyDimensioned10CGAnalyticVerifyNothing && left < variablyDimensioned10CGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < variablyDimensioned10CGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *variablyDimensioned10CGAnalyticDescent) paused() variablyDimensioned10CGAnalyticOutcome {
+	return r.best.ending(VariablyDimensioned10CGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *variablyDimensioned10CGAnalyticDescent) finish(end VariablyDimensioned10CGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = variablyDimensioned10CGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *variablyDimensioned10CGAnalyticDescent) begin() {
+	r.stage = variablyDimensioned10CGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !variablyDimensioned10CGAnalyticFinite(r.fx) || !variablyDimensioned10CGAnalyticFiniteVec(&r.x) {
+		r.out.status = VariablyDimensioned10CGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := variablyDimensioned10CGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+variablyDimensioned10CGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += variablyDimensioned10CGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !variablyDimensioned10CGAnalyticFiniteVec(&r.g) {
+		r.out.status = VariablyDimensioned10CGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = variablyDimensioned10CGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, variablyDimensioned10CGAnalyticVerifyNothing
+	r.stage = variablyDimensioned10CGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves variablyDimensioned10CGAnalyticStageSearch next when the run goes on.
+func (r *variablyDimensioned10CGAnalyticDescent) judge() {
+	switch {
+	case r.verify != variablyDimensioned10CGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see variablyDimensioned10CGAnalyticConfirmGradient and settle).
+		calls, ok := variablyDimensioned10CGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == variablyDimensioned10CGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(VariablyDimensioned10CGAnalyticOutOfEvaluations)
+			return
+		}
+		if !variablyDimensioned10CGAnalyticFiniteVec(&r.g) {
+			r.finish(VariablyDimensioned10CGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = variablyDimensioned10CGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		variablyDimensioned10CGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := variablyDimensioned10CGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, variablyDimensioned10CGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * variablyDimensioned10CGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (variablyDimensioned10CGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = VariablyDimensioned10CGAnalyticGradientSmall
+		r.stage = variablyDimensioned10CGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = variablyDimensioned10CGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if variablyDimensioned10CGAnalyticDerivativeCost == 0 {
+			r.finish(VariablyDimensioned10CGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if variablyDimensioned10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = variablyDimensioned10CGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(VariablyDimensioned10CGAnalyticDiverged)
+			return
+		}
+		variablyDimensioned10CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(VariablyDimensioned10CGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = variablyDimensioned10CGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves variablyDimensioned10CGAnalyticStageJudge next when the run
+// goes on.
+func (r *variablyDimensioned10CGAnalyticDescent) search() {
+	variablyDimensioned10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := variablyDimensioned10CGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !variablyDimensioned10CGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		variablyDimensioned10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = variablyDimensioned10CGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(variablyDimensioned10CGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := variablyDimensioned10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [10]float64
+	found := variablyDimensioned10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case variablyDimensioned10CGAnalyticSearchOutOfBudget:
+		r.finish(VariablyDimensioned10CGAnalyticOutOfEvaluations)
+		return
+	case variablyDimensioned10CGAnalyticSearchDiverged:
+		r.finish(VariablyDimensioned10CGAnalyticDiverged)
+		return
+	case variablyDimensioned10CGAnalyticSearchExhausted, variablyDimensioned10CGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see variablyDimensioned10CGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := VariablyDimensioned10CGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = VariablyDimensioned10CGAnalyticNoDecrease
+		case found.end == variablyDimensioned10CGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = variablyDimensioned10CGAnalyticVerifyStall, true, variablyDimensioned10CGAnalyticStageJudge
+			return
+		case found.end == variablyDimensioned10CGAnalyticSearchTiny:
+			end = VariablyDimensioned10CGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !variablyDimensioned10CGAnalyticFiniteVec(&xt) {
+		r.finish(VariablyDimensioned10CGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+variablyDimensioned10CGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(VariablyDimensioned10CGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += variablyDimensioned10CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	variablyDimensioned10CGAnalyticDifference(&r.s, &xt, &r.x)
+	variablyDimensioned10CGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !variablyDimensioned10CGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(VariablyDimensioned10CGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = variablyDimensioned10CGAnalyticStageJudge
 }
 
 // variablyDimensioned10CGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type variablyDimensioned10CGAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10CGAnalyticRoundingFloor)
 	bounds    variablyDimensioned10CGAnalyticBox
-}
-
-// variablyDimensioned10CGAnalyticCalibrate: an analytic gradient needs no intervals.
-func variablyDimensioned10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *variablyDimensioned10CGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// variablyDimensioned10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func variablyDimensioned10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) int {
-	VariablyDimensioned10Grad(x, g)
-	return 0
 }
 
 // variablyDimensioned10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func variablyDimensioned10CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// variablyDimensioned10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func variablyDimensioned10CGAnalyticFinite(v float64) bool {
+	return v >= -variablyDimensioned10CGAnalyticLargestFinite && v <= variablyDimensioned10CGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	variablyDimensioned10CGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	variablyDimensioned10CGAnalyticStageJudge         // settle when asked (variablyDimensioned10CGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	variablyDimensioned10CGAnalyticStageSearch        // the line search and the gradient at the accepted point: variablyDimensioned10CGAnalyticIterationCalls
+	variablyDimensioned10CGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// variablyDimensioned10CGAnalyticEnterBox: without bounds every start is inside.
+func variablyDimensioned10CGAnalyticEnterBox(x *[10]float64, b *variablyDimensioned10CGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	variablyDimensioned10CGAnalyticVerifyNothing = iota
 	variablyDimensioned10CGAnalyticVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10CGAnalyticVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10CGAnalyticFiniteVec reports whether every component of x is finite.
+func variablyDimensioned10CGAnalyticFiniteVec(x *[10]float64) bool {
+	for i := range x {
+		if !variablyDimensioned10CGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// variablyDimensioned10CGAnalyticCalibrate: an analytic gradient needs no intervals.
+func variablyDimensioned10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *variablyDimensioned10CGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// variablyDimensioned10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func variablyDimensioned10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) int {
+	VariablyDimensioned10Grad(x, g)
+	return 0
+}
 
 // variablyDimensioned10CGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (variablyDimensioned10CGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -983,3 +1177,6 @@ func variablyDimensioned10CGAnalyticDifference(out, a, b *[10]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// variablyDimensioned10CGAnalyticUnlimited is a tick budget that never pauses a run.
+const variablyDimensioned10CGAnalyticUnlimited = int(^uint(0) >> 1)

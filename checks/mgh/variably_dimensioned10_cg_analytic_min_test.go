@@ -105,6 +105,55 @@ func TestVariablyDimensioned10CGAnalyticGradientMatchesDifferences(t *testing.T)
 	}
 }
 
+// TestVariablyDimensioned10CGAnalyticSolverTicks advances a VariablyDimensioned10CGAnalyticSolver from the spec's start with budgets of VariablyDimensioned10CGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where VariablyDimensioned10CGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestVariablyDimensioned10CGAnalyticSolverTicks(t *testing.T) {
+	want := VariablyDimensioned10CGAnalytic(variablyDimensioned10CGAnalyticTestStart())
+	for _, budget := range []int{VariablyDimensioned10CGAnalyticTickMinimum, VariablyDimensioned10CGAnalyticTickMinimum + 1, 2 * VariablyDimensioned10CGAnalyticTickMinimum, 7 * VariablyDimensioned10CGAnalyticTickMinimum} {
+		var s VariablyDimensioned10CGAnalyticSolver
+		s.Start(variablyDimensioned10CGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != VariablyDimensioned10CGAnalyticRunning {
+				if !variablyDimensioned10CGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s VariablyDimensioned10CGAnalyticSolver
+	s.Start(variablyDimensioned10CGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != VariablyDimensioned10CGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestVariablyDimensioned10CGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestVariablyDimensioned10CGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s VariablyDimensioned10CGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(variablyDimensioned10CGAnalyticTestStart())
+		for s.Advance(VariablyDimensioned10CGAnalyticTickMinimum).Status == VariablyDimensioned10CGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// variablyDimensioned10CGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func variablyDimensioned10CGAnalyticTestSameResult(a, b VariablyDimensioned10CGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkVariablyDimensioned10CGAnalytic measures one whole run from the spec's start.
 func BenchmarkVariablyDimensioned10CGAnalytic(b *testing.B) {
 	var r VariablyDimensioned10CGAnalyticResult

@@ -47,6 +47,55 @@ func TestVariablyDimensioned10CGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestVariablyDimensioned10CGCentralSolverTicks advances a VariablyDimensioned10CGCentralSolver from the spec's start with budgets of VariablyDimensioned10CGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where VariablyDimensioned10CGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestVariablyDimensioned10CGCentralSolverTicks(t *testing.T) {
+	want := VariablyDimensioned10CGCentral(variablyDimensioned10CGCentralTestStart())
+	for _, budget := range []int{VariablyDimensioned10CGCentralTickMinimum, VariablyDimensioned10CGCentralTickMinimum + 1, 2 * VariablyDimensioned10CGCentralTickMinimum, 7 * VariablyDimensioned10CGCentralTickMinimum} {
+		var s VariablyDimensioned10CGCentralSolver
+		s.Start(variablyDimensioned10CGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != VariablyDimensioned10CGCentralRunning {
+				if !variablyDimensioned10CGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s VariablyDimensioned10CGCentralSolver
+	s.Start(variablyDimensioned10CGCentralTestStart())
+	if r := s.Advance(0); r.Status != VariablyDimensioned10CGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestVariablyDimensioned10CGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestVariablyDimensioned10CGCentralSolverAllocatesNothing(t *testing.T) {
+	var s VariablyDimensioned10CGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(variablyDimensioned10CGCentralTestStart())
+		for s.Advance(VariablyDimensioned10CGCentralTickMinimum).Status == VariablyDimensioned10CGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// variablyDimensioned10CGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func variablyDimensioned10CGCentralTestSameResult(a, b VariablyDimensioned10CGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkVariablyDimensioned10CGCentral measures one whole run from the spec's start.
 func BenchmarkVariablyDimensioned10CGCentral(b *testing.B) {
 	var r VariablyDimensioned10CGCentralResult

@@ -105,6 +105,55 @@ func TestVariablyDimensioned10LBFGSAnalyticGradientMatchesDifferences(t *testing
 	}
 }
 
+// TestVariablyDimensioned10LBFGSAnalyticSolverTicks advances a VariablyDimensioned10LBFGSAnalyticSolver from the spec's start with budgets of VariablyDimensioned10LBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where VariablyDimensioned10LBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestVariablyDimensioned10LBFGSAnalyticSolverTicks(t *testing.T) {
+	want := VariablyDimensioned10LBFGSAnalytic(variablyDimensioned10LBFGSAnalyticTestStart())
+	for _, budget := range []int{VariablyDimensioned10LBFGSAnalyticTickMinimum, VariablyDimensioned10LBFGSAnalyticTickMinimum + 1, 2 * VariablyDimensioned10LBFGSAnalyticTickMinimum, 7 * VariablyDimensioned10LBFGSAnalyticTickMinimum} {
+		var s VariablyDimensioned10LBFGSAnalyticSolver
+		s.Start(variablyDimensioned10LBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != VariablyDimensioned10LBFGSAnalyticRunning {
+				if !variablyDimensioned10LBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s VariablyDimensioned10LBFGSAnalyticSolver
+	s.Start(variablyDimensioned10LBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != VariablyDimensioned10LBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestVariablyDimensioned10LBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestVariablyDimensioned10LBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s VariablyDimensioned10LBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(variablyDimensioned10LBFGSAnalyticTestStart())
+		for s.Advance(VariablyDimensioned10LBFGSAnalyticTickMinimum).Status == VariablyDimensioned10LBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// variablyDimensioned10LBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func variablyDimensioned10LBFGSAnalyticTestSameResult(a, b VariablyDimensioned10LBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkVariablyDimensioned10LBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkVariablyDimensioned10LBFGSAnalytic(b *testing.B) {
 	var r VariablyDimensioned10LBFGSAnalyticResult

@@ -47,6 +47,55 @@ func TestVariablyDimensioned10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestVariablyDimensioned10LBFGSCentralSolverTicks advances a VariablyDimensioned10LBFGSCentralSolver from the spec's start with budgets of VariablyDimensioned10LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where VariablyDimensioned10LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestVariablyDimensioned10LBFGSCentralSolverTicks(t *testing.T) {
+	want := VariablyDimensioned10LBFGSCentral(variablyDimensioned10LBFGSCentralTestStart())
+	for _, budget := range []int{VariablyDimensioned10LBFGSCentralTickMinimum, VariablyDimensioned10LBFGSCentralTickMinimum + 1, 2 * VariablyDimensioned10LBFGSCentralTickMinimum, 7 * VariablyDimensioned10LBFGSCentralTickMinimum} {
+		var s VariablyDimensioned10LBFGSCentralSolver
+		s.Start(variablyDimensioned10LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != VariablyDimensioned10LBFGSCentralRunning {
+				if !variablyDimensioned10LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s VariablyDimensioned10LBFGSCentralSolver
+	s.Start(variablyDimensioned10LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != VariablyDimensioned10LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestVariablyDimensioned10LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestVariablyDimensioned10LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s VariablyDimensioned10LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(variablyDimensioned10LBFGSCentralTestStart())
+		for s.Advance(VariablyDimensioned10LBFGSCentralTickMinimum).Status == VariablyDimensioned10LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// variablyDimensioned10LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func variablyDimensioned10LBFGSCentralTestSameResult(a, b VariablyDimensioned10LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkVariablyDimensioned10LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkVariablyDimensioned10LBFGSCentral(b *testing.B) {
 	var r VariablyDimensioned10LBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	Watson6BFGSAnalyticNoDecrease
 	// Watson6BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson6BFGSAnalyticDiverged
+	// Watson6BFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson6BFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson6BFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Watson6BFGSAnalyticDiverged:
 		return "diverged"
+	case Watson6BFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Watson6BFGSAnalyticWithLimits(x0 [6]float64, limits Watson6BFGSAnalyticLimi
 	}
 }
 
+// Watson6BFGSAnalyticTickMinimum is the smallest call budget with which every Watson6BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Watson6BFGSAnalyticTickMinimum = 48
+
+// Watson6BFGSAnalyticSolver is a run of Watson6BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson6BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Watson6BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson6BFGSAnalyticRunning ends exactly as Watson6BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson6BFGSAnalytic and Watson6BFGSAnalyticWithLimits use at most 3752 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is Watson6BFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson6BFGSAnalyticSolver struct {
+	run       watson6BFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson6BFGSAnalyticLimits  // the limits of the runs; Watson6BFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson6BFGSAnalyticSolver) SetLimits(limits Watson6BFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson6BFGSAnalyticSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Watson6BFGSAnalyticSolver) StartFrom(from Watson6BFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson6BFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson6BFGSAnalyticSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = Watson6BFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson6BFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson6BFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson6BFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson6BFGSAnalyticSolver) Advance(budget int) Watson6BFGSAnalyticResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson6BFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson6BFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson6BFGSAnalyticStepInitial    = 1.0                    // step.initial
-	watson6BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson6BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	watson6BFGSAnalyticStepTrials     = 48                     // step.trials
-	watson6BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	watson6BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson6BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson6BFGSAnalyticStepInitial     = 1.0                    // step.initial
+	watson6BFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson6BFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	watson6BFGSAnalyticStepTrials      = 48                     // step.trials
+	watson6BFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	watson6BFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	watson6BFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	watson6BFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson6BFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson6BFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson6BFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits, bounds watson6BFGSAnalyticBox) watson6BFGSAnalyticOutcome {
-	x := x0
-	watson6BFGSAnalyticEnterBox(&x, &bounds)
-	out := watson6BFGSAnalyticOutcome{x: x, status: Watson6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson6(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson6BFGSAnalyticFinite(fx) || !watson6BFGSAnalyticFiniteVec(&x) {
-		out.status = Watson6BFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := watson6BFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := watson6BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson6BFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += watson6BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !watson6BFGSAnalyticFiniteVec(&g) {
-		out.status = Watson6BFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir watson6BFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(watson6BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson6BFGSAnalyticConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := watson6BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson6BFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson6BFGSAnalyticConfirmGradient and settle).
-			calls, ok := watson6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson6BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6BFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson6BFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			watson6BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson6BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson6BFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson6BFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson6BFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Watson6BFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson6BFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson6BFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Watson6BFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson6BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson6BFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson6BFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			watson6BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson6BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson6BFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !watson6BFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson6BFGSAnalyticDot(&g, &d)
-		}
-		first := float64(watson6BFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson6BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson6BFGSAnalyticSearchOutOfBudget:
-			return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case watson6BFGSAnalyticSearchDiverged:
-			return best.ending(Watson6BFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case watson6BFGSAnalyticSearchExhausted, watson6BFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson6BFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson6BFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson6BFGSAnalyticNoDecrease
-			case found.end == watson6BFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = watson6BFGSAnalyticVerifyStall, true
-				continue
-			case found.end == watson6BFGSAnalyticSearchTiny:
-				end = Watson6BFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson6BFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Watson6BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson6BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson6BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson6BFGSAnalyticDifference(&s, &xt, &x)
-		watson6BFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson6BFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson6BFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson6BFGSAnalyticUnlimited)
 }
 
 // watson6BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o watson6BFGSAnalyticOutcome) ending(end Watson6BFGSAnalyticStatus, iterat
 	return o
 }
 
-// watson6BFGSAnalyticEnterBox: without bounds every start is inside.
-func watson6BFGSAnalyticEnterBox(x *[6]float64, b *watson6BFGSAnalyticBox) {}
-
-// watson6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func watson6BFGSAnalyticFinite(v float64) bool {
-	return v >= -watson6BFGSAnalyticLargestFinite && v <= watson6BFGSAnalyticLargestFinite
+// watson6BFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson6BFGSAnalyticDescent struct {
+	lim       Watson6BFGSAnalyticLimits
+	stage     int                            // what advance does next
+	diffs     watson6BFGSAnalyticDifferences // the box and the difference intervals
+	dir       watson6BFGSAnalyticDirection   // the direction's memory
+	x, g, e   [6]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best watson6BFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from watson6BFGSAnalyticConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
 }
 
-// watson6BFGSAnalyticFiniteVec reports whether every component of x is finite.
-func watson6BFGSAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !watson6BFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson6BFGSAnalyticDescent) prepare(x0 [6]float64, lim Watson6BFGSAnalyticLimits, bounds watson6BFGSAnalyticBox) {
+	r.lim, r.stage = lim, watson6BFGSAnalyticStageBegin
+	r.diffs = watson6BFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	watson6BFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = watson6BFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Watson6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson6BFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson6BFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson6BFGSAnalyticSettleCalls and watson6BFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson6BFGSAnalyticDescent) advance(budget int) watson6BFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != watson6BFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson6BFGSAnalyticStageBegin:
+			if left < 1+watson6BFGSAnalyticCalibrationCost+watson6BFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson6BFGSAnalyticStageJudge:
+			if r.verify != watson6BFGSAnalyticVerifyNothing && left < watson6BFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson6BFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson6BFGSAnalyticDescent) paused() watson6BFGSAnalyticOutcome {
+	return r.best.ending(Watson6BFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson6BFGSAnalyticDescent) finish(end Watson6BFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson6BFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson6BFGSAnalyticDescent) begin() {
+	r.stage = watson6BFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson6BFGSAnalyticFinite(r.fx) || !watson6BFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Watson6BFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := watson6BFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson6BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson6BFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson6BFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Watson6BFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson6BFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson6BFGSAnalyticVerifyNothing
+	r.stage = watson6BFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson6BFGSAnalyticStageSearch next when the run goes on.
+func (r *watson6BFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != watson6BFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson6BFGSAnalyticConfirmGradient and settle).
+		calls, ok := watson6BFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson6BFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson6BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !watson6BFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Watson6BFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson6BFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		watson6BFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson6BFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson6BFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson6BFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson6BFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson6BFGSAnalyticGradientSmall
+		r.stage = watson6BFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson6BFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson6BFGSAnalyticDerivativeCost == 0 {
+			r.finish(Watson6BFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson6BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson6BFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson6BFGSAnalyticDiverged)
+			return
+		}
+		watson6BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson6BFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = watson6BFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson6BFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *watson6BFGSAnalyticDescent) search() {
+	watson6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson6BFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !watson6BFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson6BFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(watson6BFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson6BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := watson6BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson6BFGSAnalyticSearchOutOfBudget:
+		r.finish(Watson6BFGSAnalyticOutOfEvaluations)
+		return
+	case watson6BFGSAnalyticSearchDiverged:
+		r.finish(Watson6BFGSAnalyticDiverged)
+		return
+	case watson6BFGSAnalyticSearchExhausted, watson6BFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson6BFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson6BFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson6BFGSAnalyticNoDecrease
+		case found.end == watson6BFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson6BFGSAnalyticVerifyStall, true, watson6BFGSAnalyticStageJudge
+			return
+		case found.end == watson6BFGSAnalyticSearchTiny:
+			end = Watson6BFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson6BFGSAnalyticFiniteVec(&xt) {
+		r.finish(Watson6BFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson6BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson6BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson6BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson6BFGSAnalyticDifference(&r.s, &xt, &r.x)
+	watson6BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson6BFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson6BFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = watson6BFGSAnalyticStageJudge
 }
 
 // watson6BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type watson6BFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6BFGSAnalyticRoundingFloor)
 	bounds    watson6BFGSAnalyticBox
-}
-
-// watson6BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func watson6BFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6BFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// watson6BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6BFGSAnalyticDifferences) int {
-	Watson6Grad(x, g)
-	return 0
 }
 
 // watson6BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func watson6BFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6BFGSAnalyticDot(s, s))*(sy/watson6BFGSAnalyticDot(y, y)) > watson6BFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson6BFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson6BFGSAnalyticStageJudge         // settle when asked (watson6BFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	watson6BFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: watson6BFGSAnalyticIterationCalls
+	watson6BFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// watson6BFGSAnalyticEnterBox: without bounds every start is inside.
+func watson6BFGSAnalyticEnterBox(x *[6]float64, b *watson6BFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	watson6BFGSAnalyticVerifyNothing = iota
 	watson6BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson6BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func watson6BFGSAnalyticFinite(v float64) bool {
+	return v >= -watson6BFGSAnalyticLargestFinite && v <= watson6BFGSAnalyticLargestFinite
+}
+
+// watson6BFGSAnalyticFiniteVec reports whether every component of x is finite.
+func watson6BFGSAnalyticFiniteVec(x *[6]float64) bool {
+	for i := range x {
+		if !watson6BFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson6BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson6BFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// watson6BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func watson6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6BFGSAnalyticDifferences) int {
+	Watson6Grad(x, g)
+	return 0
+}
 
 // watson6BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson6BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func watson6BFGSAnalyticDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson6BFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const watson6BFGSAnalyticUnlimited = int(^uint(0) >> 1)

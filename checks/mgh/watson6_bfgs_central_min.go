@@ -26,6 +26,8 @@ const (
 	Watson6BFGSCentralNoDecrease
 	// Watson6BFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson6BFGSCentralDiverged
+	// Watson6BFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson6BFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson6BFGSCentralStatus) String() string {
 		return "no decrease"
 	case Watson6BFGSCentralDiverged:
 		return "diverged"
+	case Watson6BFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Watson6BFGSCentralWithLimits(x0 [6]float64, limits Watson6BFGSCentralLimits
 	}
 }
 
+// Watson6BFGSCentralTickMinimum is the smallest call budget with which every Watson6BFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 37 calls, an iteration 624, confirming a difference gradient 48).
+const Watson6BFGSCentralTickMinimum = 624
+
+// Watson6BFGSCentralSolver is a run of Watson6BFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson6BFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 37 calls, an iteration 624, confirming a difference gradient 48. A budget of at least Watson6BFGSCentralTickMinimum = 624 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson6BFGSCentralRunning ends exactly as Watson6BFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson6BFGSCentral and Watson6BFGSCentralWithLimits use at most 3752 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is Watson6BFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson6BFGSCentralSolver struct {
+	run       watson6BFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson6BFGSCentralLimits  // the limits of the runs; Watson6BFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson6BFGSCentralSolver) SetLimits(limits Watson6BFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson6BFGSCentralSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Watson6BFGSCentralSolver) StartFrom(from Watson6BFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson6BFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson6BFGSCentralSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = Watson6BFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson6BFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson6BFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson6BFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson6BFGSCentralSolver) Advance(budget int) Watson6BFGSCentralResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson6BFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson6BFGSCentral from mgh.toml; the kernels below read them.
 const (
-	watson6BFGSCentralStepInitial    = 1.0                    // step.initial
-	watson6BFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson6BFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	watson6BFGSCentralStepTrials     = 48                     // step.trials
-	watson6BFGSCentralDerivativeCost = 12                     // objective calls per gradient
-	watson6BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson6BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson6BFGSCentralStepInitial     = 1.0                    // step.initial
+	watson6BFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson6BFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	watson6BFGSCentralStepTrials      = 48                     // step.trials
+	watson6BFGSCentralDerivativeCost  = 12                     // objective calls per gradient
+	watson6BFGSCentralCalibrationCost = 24                     // objective calls of choosing the difference intervals
+	watson6BFGSCentralIterationCalls  = 624                    // most objective calls of one line search with the gradient at its step
+	watson6BFGSCentralSettleCalls     = 48                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson6BFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson6BFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson6BFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits, bounds watson6BFGSCentralBox) watson6BFGSCentralOutcome {
-	x := x0
-	watson6BFGSCentralEnterBox(&x, &bounds)
-	out := watson6BFGSCentralOutcome{x: x, status: Watson6BFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson6(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson6BFGSCentralFinite(fx) || !watson6BFGSCentralFiniteVec(&x) {
-		out.status = Watson6BFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := watson6BFGSCentralDifferences{bounds: bounds}
-	calls, ok := watson6BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson6BFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += watson6BFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !watson6BFGSCentralFiniteVec(&g) {
-		out.status = Watson6BFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir watson6BFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(watson6BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from watson6BFGSCentralConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := watson6BFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson6BFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson6BFGSCentralConfirmGradient and settle).
-			calls, ok := watson6BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson6BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6BFGSCentralFiniteVec(&g) {
-				return best.ending(Watson6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson6BFGSCentralVerifyNothing, true
-		case !confirmed:
-			watson6BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson6BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson6BFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson6BFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson6BFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = Watson6BFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson6BFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson6BFGSCentralDerivativeCost == 0 {
-				return best.ending(Watson6BFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson6BFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson6BFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson6BFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			watson6BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson6BFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson6BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson6BFGSCentralDot(&g, &d)
-		if !(now < 0) || !watson6BFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson6BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson6BFGSCentralDot(&g, &d)
-		}
-		first := float64(watson6BFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson6BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson6BFGSCentralSearchOutOfBudget:
-			return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case watson6BFGSCentralSearchDiverged:
-			return best.ending(Watson6BFGSCentralDiverged, out.iterations, out.evaluations)
-		case watson6BFGSCentralSearchExhausted, watson6BFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson6BFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson6BFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson6BFGSCentralNoDecrease
-			case found.end == watson6BFGSCentralSearchTiny && canSettle:
-				verify, stalled = watson6BFGSCentralVerifyStall, true
-				continue
-			case found.end == watson6BFGSCentralSearchTiny:
-				end = Watson6BFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson6BFGSCentralFiniteVec(&xt) {
-			return best.ending(Watson6BFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson6BFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson6BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson6BFGSCentralDifference(&s, &xt, &x)
-		watson6BFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson6BFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson6BFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson6BFGSCentralUnlimited)
 }
 
 // watson6BFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o watson6BFGSCentralOutcome) ending(end Watson6BFGSCentralStatus, iteratio
 	return o
 }
 
+// watson6BFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson6BFGSCentralDescent struct {
+	lim       Watson6BFGSCentralLimits
+	stage     int                           // what advance does next
+	diffs     watson6BFGSCentralDifferences // the box and the difference intervals
+	dir       watson6BFGSCentralDirection   // the direction's memory
+	x, g, e   [6]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best watson6BFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from watson6BFGSCentralConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson6BFGSCentralDescent) prepare(x0 [6]float64, lim Watson6BFGSCentralLimits, bounds watson6BFGSCentralBox) {
+	r.lim, r.stage = lim, watson6BFGSCentralStageBegin
+	r.diffs = watson6BFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	watson6BFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = watson6BFGSCentralOutcome{x: r.x, f: math.NaN(), status: Watson6BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson6BFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson6BFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson6BFGSCentralSettleCalls and watson6BFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson6BFGSCentralDescent) advance(budget int) watson6BFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != watson6BFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson6BFGSCentralStageBegin:
+			if left < 1+watson6BFGSCentralCalibrationCost+watson6BFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson6BFGSCentralStageJudge:
+			if r.verify != watson6BFGSCentralVerifyNothing && left < watson6BFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson6BFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson6BFGSCentralDescent) paused() watson6BFGSCentralOutcome {
+	return r.best.ending(Watson6BFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson6BFGSCentralDescent) finish(end Watson6BFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson6BFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson6BFGSCentralDescent) begin() {
+	r.stage = watson6BFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson6BFGSCentralFinite(r.fx) || !watson6BFGSCentralFiniteVec(&r.x) {
+		r.out.status = Watson6BFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := watson6BFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson6BFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson6BFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson6BFGSCentralFiniteVec(&r.g) {
+		r.out.status = Watson6BFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson6BFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson6BFGSCentralVerifyNothing
+	r.stage = watson6BFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson6BFGSCentralStageSearch next when the run goes on.
+func (r *watson6BFGSCentralDescent) judge() {
+	switch {
+	case r.verify != watson6BFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson6BFGSCentralConfirmGradient and settle).
+		calls, ok := watson6BFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson6BFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson6BFGSCentralOutOfEvaluations)
+			return
+		}
+		if !watson6BFGSCentralFiniteVec(&r.g) {
+			r.finish(Watson6BFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson6BFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		watson6BFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson6BFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson6BFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson6BFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson6BFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson6BFGSCentralGradientSmall
+		r.stage = watson6BFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson6BFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson6BFGSCentralDerivativeCost == 0 {
+			r.finish(Watson6BFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson6BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson6BFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson6BFGSCentralDiverged)
+			return
+		}
+		watson6BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson6BFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = watson6BFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson6BFGSCentralStageJudge next when the run
+// goes on.
+func (r *watson6BFGSCentralDescent) search() {
+	watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson6BFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !watson6BFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson6BFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(watson6BFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson6BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := watson6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson6BFGSCentralSearchOutOfBudget:
+		r.finish(Watson6BFGSCentralOutOfEvaluations)
+		return
+	case watson6BFGSCentralSearchDiverged:
+		r.finish(Watson6BFGSCentralDiverged)
+		return
+	case watson6BFGSCentralSearchExhausted, watson6BFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson6BFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson6BFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson6BFGSCentralNoDecrease
+		case found.end == watson6BFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson6BFGSCentralVerifyStall, true, watson6BFGSCentralStageJudge
+			return
+		case found.end == watson6BFGSCentralSearchTiny:
+			end = Watson6BFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson6BFGSCentralFiniteVec(&xt) {
+		r.finish(Watson6BFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson6BFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson6BFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson6BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson6BFGSCentralDifference(&r.s, &xt, &r.x)
+	watson6BFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson6BFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson6BFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = watson6BFGSCentralStageJudge
+}
+
+// watson6BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type watson6BFGSCentralDifferences struct {
+	ratio     [6]float64
+	curvature [6]float64
+	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6BFGSCentralRoundingFloor)
+	bounds    watson6BFGSCentralBox
+}
+
+// watson6BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type watson6BFGSCentralDirection struct {
+	h      [6][6]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *watson6BFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *watson6BFGSCentralDirection) compute(g, d *[6]float64) {
+	for i := range s.h {
+		d[i] = -watson6BFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *watson6BFGSCentralDirection) update(step, change *[6]float64) {
+	if !watson6BFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := watson6BFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / watson6BFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [6]float64
+	for i := range s.h {
+		hy[i] = watson6BFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*watson6BFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *watson6BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// watson6BFGSCentralDot returns aᵀb.
+func watson6BFGSCentralDot(a, b *[6]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// watson6BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func watson6BFGSCentralCurvatureSafe(s, y *[6]float64) bool {
+	sy := watson6BFGSCentralDot(s, y)
+	return sy > 0 && (sy/watson6BFGSCentralDot(s, s))*(sy/watson6BFGSCentralDot(y, y)) > watson6BFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson6BFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson6BFGSCentralStageJudge         // settle when asked (watson6BFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	watson6BFGSCentralStageSearch        // the line search and the gradient at the accepted point: watson6BFGSCentralIterationCalls
+	watson6BFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // watson6BFGSCentralEnterBox: without bounds every start is inside.
 func watson6BFGSCentralEnterBox(x *[6]float64, b *watson6BFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	watson6BFGSCentralVerifyNothing = iota
+	watson6BFGSCentralVerifyPass    // a difference gradient passed the test
+	watson6BFGSCentralVerifyStall   // no step makes progress
+)
 
 // watson6BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func watson6BFGSCentralFiniteVec(x *[6]float64) bool {
 		}
 	}
 	return true
-}
-
-// watson6BFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type watson6BFGSCentralDifferences struct {
-	ratio     [6]float64
-	curvature [6]float64
-	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6BFGSCentralRoundingFloor)
-	bounds    watson6BFGSCentralBox
 }
 
 // watson6BFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func watson6BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// watson6BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type watson6BFGSCentralDirection struct {
-	h      [6][6]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *watson6BFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *watson6BFGSCentralDirection) compute(g, d *[6]float64) {
-	for i := range s.h {
-		d[i] = -watson6BFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *watson6BFGSCentralDirection) update(step, change *[6]float64) {
-	if !watson6BFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := watson6BFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / watson6BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [6]float64
-	for i := range s.h {
-		hy[i] = watson6BFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*watson6BFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *watson6BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// watson6BFGSCentralDot returns aᵀb.
-func watson6BFGSCentralDot(a, b *[6]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// watson6BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func watson6BFGSCentralCurvatureSafe(s, y *[6]float64) bool {
-	sy := watson6BFGSCentralDot(s, y)
-	return sy > 0 && (sy/watson6BFGSCentralDot(s, s))*(sy/watson6BFGSCentralDot(y, y)) > watson6BFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	watson6BFGSCentralVerifyNothing = iota
-	watson6BFGSCentralVerifyPass    // a difference gradient passed the test
-	watson6BFGSCentralVerifyStall   // no step makes progress
-)
 
 // watson6BFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson6BFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func watson6BFGSCentralDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson6BFGSCentralUnlimited is a tick budget that never pauses a run.
+const watson6BFGSCentralUnlimited = int(^uint(0) >> 1)

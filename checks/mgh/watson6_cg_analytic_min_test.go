@@ -102,6 +102,55 @@ func TestWatson6CGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWatson6CGAnalyticSolverTicks advances a Watson6CGAnalyticSolver from the spec's start with budgets of Watson6CGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson6CGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson6CGAnalyticSolverTicks(t *testing.T) {
+	want := Watson6CGAnalytic(watson6CGAnalyticTestStart())
+	for _, budget := range []int{Watson6CGAnalyticTickMinimum, Watson6CGAnalyticTickMinimum + 1, 2 * Watson6CGAnalyticTickMinimum, 7 * Watson6CGAnalyticTickMinimum} {
+		var s Watson6CGAnalyticSolver
+		s.Start(watson6CGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson6CGAnalyticRunning {
+				if !watson6CGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson6CGAnalyticSolver
+	s.Start(watson6CGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Watson6CGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson6CGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson6CGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Watson6CGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson6CGAnalyticTestStart())
+		for s.Advance(Watson6CGAnalyticTickMinimum).Status == Watson6CGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson6CGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson6CGAnalyticTestSameResult(a, b Watson6CGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson6CGAnalytic measures one whole run from the spec's start.
 func BenchmarkWatson6CGAnalytic(b *testing.B) {
 	var r Watson6CGAnalyticResult

@@ -47,6 +47,55 @@ func TestWatson6CGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWatson6CGCentralSolverTicks advances a Watson6CGCentralSolver from the spec's start with budgets of Watson6CGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson6CGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson6CGCentralSolverTicks(t *testing.T) {
+	want := Watson6CGCentral(watson6CGCentralTestStart())
+	for _, budget := range []int{Watson6CGCentralTickMinimum, Watson6CGCentralTickMinimum + 1, 2 * Watson6CGCentralTickMinimum, 7 * Watson6CGCentralTickMinimum} {
+		var s Watson6CGCentralSolver
+		s.Start(watson6CGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson6CGCentralRunning {
+				if !watson6CGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson6CGCentralSolver
+	s.Start(watson6CGCentralTestStart())
+	if r := s.Advance(0); r.Status != Watson6CGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson6CGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson6CGCentralSolverAllocatesNothing(t *testing.T) {
+	var s Watson6CGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson6CGCentralTestStart())
+		for s.Advance(Watson6CGCentralTickMinimum).Status == Watson6CGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson6CGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson6CGCentralTestSameResult(a, b Watson6CGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson6CGCentral measures one whole run from the spec's start.
 func BenchmarkWatson6CGCentral(b *testing.B) {
 	var r Watson6CGCentralResult

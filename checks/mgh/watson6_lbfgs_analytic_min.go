@@ -26,6 +26,8 @@ const (
 	Watson6LBFGSAnalyticNoDecrease
 	// Watson6LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson6LBFGSAnalyticDiverged
+	// Watson6LBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson6LBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson6LBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Watson6LBFGSAnalyticDiverged:
 		return "diverged"
+	case Watson6LBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Watson6LBFGSAnalyticWithLimits(x0 [6]float64, limits Watson6LBFGSAnalyticLi
 	}
 }
 
+// Watson6LBFGSAnalyticTickMinimum is the smallest call budget with which every Watson6LBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Watson6LBFGSAnalyticTickMinimum = 48
+
+// Watson6LBFGSAnalyticSolver is a run of Watson6LBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson6LBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Watson6LBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson6LBFGSAnalyticRunning ends exactly as Watson6LBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson6LBFGSAnalytic and Watson6LBFGSAnalyticWithLimits use at most 3992 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is Watson6LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson6LBFGSAnalyticSolver struct {
+	run       watson6LBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson6LBFGSAnalyticLimits  // the limits of the runs; Watson6LBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson6LBFGSAnalyticSolver) SetLimits(limits Watson6LBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson6LBFGSAnalyticSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Watson6LBFGSAnalyticSolver) StartFrom(from Watson6LBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson6LBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson6LBFGSAnalyticSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = Watson6LBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson6LBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson6LBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson6LBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson6LBFGSAnalyticSolver) Advance(budget int) Watson6LBFGSAnalyticResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson6LBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson6LBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson6LBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	watson6LBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson6LBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	watson6LBFGSAnalyticLbfgsMemory    = 5                      // memory
-	watson6LBFGSAnalyticStepTrials     = 48                     // step.trials
-	watson6LBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	watson6LBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson6LBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson6LBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	watson6LBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson6LBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	watson6LBFGSAnalyticLbfgsMemory     = 5                      // memory
+	watson6LBFGSAnalyticStepTrials      = 48                     // step.trials
+	watson6LBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	watson6LBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	watson6LBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	watson6LBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson6LBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson6LBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson6LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits, bounds watson6LBFGSAnalyticBox) watson6LBFGSAnalyticOutcome {
-	x := x0
-	watson6LBFGSAnalyticEnterBox(&x, &bounds)
-	out := watson6LBFGSAnalyticOutcome{x: x, status: Watson6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson6(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson6LBFGSAnalyticFinite(fx) || !watson6LBFGSAnalyticFiniteVec(&x) {
-		out.status = Watson6LBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := watson6LBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := watson6LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson6LBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += watson6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !watson6LBFGSAnalyticFiniteVec(&g) {
-		out.status = Watson6LBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir watson6LBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(watson6LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from watson6LBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := watson6LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson6LBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson6LBFGSAnalyticConfirmGradient and settle).
-			calls, ok := watson6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson6LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson6LBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			watson6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson6LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson6LBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson6LBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson6LBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Watson6LBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson6LBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson6LBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Watson6LBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson6LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson6LBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			watson6LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson6LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson6LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !watson6LBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson6LBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(watson6LBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson6LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson6LBFGSAnalyticSearchOutOfBudget:
-			return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case watson6LBFGSAnalyticSearchDiverged:
-			return best.ending(Watson6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case watson6LBFGSAnalyticSearchExhausted, watson6LBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson6LBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson6LBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson6LBFGSAnalyticNoDecrease
-			case found.end == watson6LBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = watson6LBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == watson6LBFGSAnalyticSearchTiny:
-				end = Watson6LBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson6LBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Watson6LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson6LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson6LBFGSAnalyticDifference(&s, &xt, &x)
-		watson6LBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson6LBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson6LBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson6LBFGSAnalyticUnlimited)
 }
 
 // watson6LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o watson6LBFGSAnalyticOutcome) ending(end Watson6LBFGSAnalyticStatus, iter
 	return o
 }
 
-// watson6LBFGSAnalyticEnterBox: without bounds every start is inside.
-func watson6LBFGSAnalyticEnterBox(x *[6]float64, b *watson6LBFGSAnalyticBox) {}
-
-// watson6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func watson6LBFGSAnalyticFinite(v float64) bool {
-	return v >= -watson6LBFGSAnalyticLargestFinite && v <= watson6LBFGSAnalyticLargestFinite
+// watson6LBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson6LBFGSAnalyticDescent struct {
+	lim       Watson6LBFGSAnalyticLimits
+	stage     int                             // what advance does next
+	diffs     watson6LBFGSAnalyticDifferences // the box and the difference intervals
+	dir       watson6LBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [6]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best watson6LBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from watson6LBFGSAnalyticConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
 }
 
-// watson6LBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func watson6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !watson6LBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson6LBFGSAnalyticDescent) prepare(x0 [6]float64, lim Watson6LBFGSAnalyticLimits, bounds watson6LBFGSAnalyticBox) {
+	r.lim, r.stage = lim, watson6LBFGSAnalyticStageBegin
+	r.diffs = watson6LBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	watson6LBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = watson6LBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Watson6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson6LBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson6LBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson6LBFGSAnalyticSettleCalls and watson6LBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson6LBFGSAnalyticDescent) advance(budget int) watson6LBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != watson6LBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson6LBFGSAnalyticStageBegin:
+			if left < 1+watson6LBFGSAnalyticCalibrationCost+watson6LBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson6LBFGSAnalyticStageJudge:
+			if r.verify != watson6LBFGSAnalyticVerifyNothing && left < watson6LBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson6LBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson6LBFGSAnalyticDescent) paused() watson6LBFGSAnalyticOutcome {
+	return r.best.ending(Watson6LBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson6LBFGSAnalyticDescent) finish(end Watson6LBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson6LBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson6LBFGSAnalyticDescent) begin() {
+	r.stage = watson6LBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson6LBFGSAnalyticFinite(r.fx) || !watson6LBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Watson6LBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := watson6LBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson6LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson6LBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson6LBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Watson6LBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson6LBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson6LBFGSAnalyticVerifyNothing
+	r.stage = watson6LBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson6LBFGSAnalyticStageSearch next when the run goes on.
+func (r *watson6LBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != watson6LBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson6LBFGSAnalyticConfirmGradient and settle).
+		calls, ok := watson6LBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson6LBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson6LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !watson6LBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Watson6LBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson6LBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		watson6LBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson6LBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson6LBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson6LBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson6LBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson6LBFGSAnalyticGradientSmall
+		r.stage = watson6LBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson6LBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson6LBFGSAnalyticDerivativeCost == 0 {
+			r.finish(Watson6LBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson6LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson6LBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson6LBFGSAnalyticDiverged)
+			return
+		}
+		watson6LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson6LBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = watson6LBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson6LBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *watson6LBFGSAnalyticDescent) search() {
+	watson6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson6LBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !watson6LBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson6LBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(watson6LBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson6LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := watson6LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson6LBFGSAnalyticSearchOutOfBudget:
+		r.finish(Watson6LBFGSAnalyticOutOfEvaluations)
+		return
+	case watson6LBFGSAnalyticSearchDiverged:
+		r.finish(Watson6LBFGSAnalyticDiverged)
+		return
+	case watson6LBFGSAnalyticSearchExhausted, watson6LBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson6LBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson6LBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson6LBFGSAnalyticNoDecrease
+		case found.end == watson6LBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson6LBFGSAnalyticVerifyStall, true, watson6LBFGSAnalyticStageJudge
+			return
+		case found.end == watson6LBFGSAnalyticSearchTiny:
+			end = Watson6LBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson6LBFGSAnalyticFiniteVec(&xt) {
+		r.finish(Watson6LBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson6LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson6LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson6LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson6LBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	watson6LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson6LBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson6LBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = watson6LBFGSAnalyticStageJudge
 }
 
 // watson6LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type watson6LBFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSAnalyticRoundingFloor)
 	bounds    watson6LBFGSAnalyticBox
-}
-
-// watson6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func watson6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6LBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// watson6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences) int {
-	Watson6Grad(x, g)
-	return 0
 }
 
 // watson6LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func watson6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSAnalyticDot(s, s))*(sy/watson6LBFGSAnalyticDot(y, y)) > watson6LBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson6LBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson6LBFGSAnalyticStageJudge         // settle when asked (watson6LBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	watson6LBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: watson6LBFGSAnalyticIterationCalls
+	watson6LBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// watson6LBFGSAnalyticEnterBox: without bounds every start is inside.
+func watson6LBFGSAnalyticEnterBox(x *[6]float64, b *watson6LBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	watson6LBFGSAnalyticVerifyNothing = iota
 	watson6LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson6LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func watson6LBFGSAnalyticFinite(v float64) bool {
+	return v >= -watson6LBFGSAnalyticLargestFinite && v <= watson6LBFGSAnalyticLargestFinite
+}
+
+// watson6LBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func watson6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
+	for i := range x {
+		if !watson6LBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// watson6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func watson6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences) int {
+	Watson6Grad(x, g)
+	return 0
+}
 
 // watson6LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson6LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func watson6LBFGSAnalyticDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson6LBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const watson6LBFGSAnalyticUnlimited = int(^uint(0) >> 1)

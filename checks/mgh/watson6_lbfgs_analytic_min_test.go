@@ -105,6 +105,55 @@ func TestWatson6LBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWatson6LBFGSAnalyticSolverTicks advances a Watson6LBFGSAnalyticSolver from the spec's start with budgets of Watson6LBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson6LBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson6LBFGSAnalyticSolverTicks(t *testing.T) {
+	want := Watson6LBFGSAnalytic(watson6LBFGSAnalyticTestStart())
+	for _, budget := range []int{Watson6LBFGSAnalyticTickMinimum, Watson6LBFGSAnalyticTickMinimum + 1, 2 * Watson6LBFGSAnalyticTickMinimum, 7 * Watson6LBFGSAnalyticTickMinimum} {
+		var s Watson6LBFGSAnalyticSolver
+		s.Start(watson6LBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson6LBFGSAnalyticRunning {
+				if !watson6LBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson6LBFGSAnalyticSolver
+	s.Start(watson6LBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Watson6LBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson6LBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson6LBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Watson6LBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson6LBFGSAnalyticTestStart())
+		for s.Advance(Watson6LBFGSAnalyticTickMinimum).Status == Watson6LBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson6LBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson6LBFGSAnalyticTestSameResult(a, b Watson6LBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson6LBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkWatson6LBFGSAnalytic(b *testing.B) {
 	var r Watson6LBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	Watson6LBFGSCentralNoDecrease
 	// Watson6LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson6LBFGSCentralDiverged
+	// Watson6LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson6LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson6LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case Watson6LBFGSCentralDiverged:
 		return "diverged"
+	case Watson6LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Watson6LBFGSCentralWithLimits(x0 [6]float64, limits Watson6LBFGSCentralLimi
 	}
 }
 
+// Watson6LBFGSCentralTickMinimum is the smallest call budget with which every Watson6LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 37 calls, an iteration 624, confirming a difference gradient 48).
+const Watson6LBFGSCentralTickMinimum = 624
+
+// Watson6LBFGSCentralSolver is a run of Watson6LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson6LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 37 calls, an iteration 624, confirming a difference gradient 48. A budget of at least Watson6LBFGSCentralTickMinimum = 624 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson6LBFGSCentralRunning ends exactly as Watson6LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson6LBFGSCentral and Watson6LBFGSCentralWithLimits use at most 3992 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+//
+// While Status is Watson6LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson6LBFGSCentralSolver struct {
+	run       watson6LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson6LBFGSCentralLimits  // the limits of the runs; Watson6LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson6LBFGSCentralSolver) SetLimits(limits Watson6LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson6LBFGSCentralSolver) Start(x0 [6]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Watson6LBFGSCentralSolver) StartFrom(from Watson6LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson6LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson6LBFGSCentralSolver) begin(x0 [6]float64) {
+	if !s.ownLimits {
+		s.limits = Watson6LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson6LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson6LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson6LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson6LBFGSCentralSolver) Advance(budget int) Watson6LBFGSCentralResult {
+	if !s.started {
+		var x0 [6]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson6LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson6LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	watson6LBFGSCentralStepInitial    = 1.0                    // step.initial
-	watson6LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson6LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	watson6LBFGSCentralLbfgsMemory    = 5                      // memory
-	watson6LBFGSCentralStepTrials     = 48                     // step.trials
-	watson6LBFGSCentralDerivativeCost = 12                     // objective calls per gradient
-	watson6LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson6LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson6LBFGSCentralStepInitial     = 1.0                    // step.initial
+	watson6LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson6LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	watson6LBFGSCentralLbfgsMemory     = 5                      // memory
+	watson6LBFGSCentralStepTrials      = 48                     // step.trials
+	watson6LBFGSCentralDerivativeCost  = 12                     // objective calls per gradient
+	watson6LBFGSCentralCalibrationCost = 24                     // objective calls of choosing the difference intervals
+	watson6LBFGSCentralIterationCalls  = 624                    // most objective calls of one line search with the gradient at its step
+	watson6LBFGSCentralSettleCalls     = 48                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson6LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson6LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson6LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits, bounds watson6LBFGSCentralBox) watson6LBFGSCentralOutcome {
-	x := x0
-	watson6LBFGSCentralEnterBox(&x, &bounds)
-	out := watson6LBFGSCentralOutcome{x: x, status: Watson6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson6(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson6LBFGSCentralFinite(fx) || !watson6LBFGSCentralFiniteVec(&x) {
-		out.status = Watson6LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := watson6LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := watson6LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson6LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [6]float64
-	out.evaluations += watson6LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !watson6LBFGSCentralFiniteVec(&g) {
-		out.status = Watson6LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir watson6LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [6]float64
-	t, slope := float64(watson6LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson6LBFGSCentralConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := watson6LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson6LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson6LBFGSCentralConfirmGradient and settle).
-			calls, ok := watson6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson6LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6LBFGSCentralFiniteVec(&g) {
-				return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson6LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			watson6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson6LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson6LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson6LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson6LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = Watson6LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson6LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson6LBFGSCentralDerivativeCost == 0 {
-				return best.ending(Watson6LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson6LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson6LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson6LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			watson6LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson6LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson6LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !watson6LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson6LBFGSCentralDot(&g, &d)
-		}
-		first := float64(watson6LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson6LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson6LBFGSCentralSearchOutOfBudget:
-			return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case watson6LBFGSCentralSearchDiverged:
-			return best.ending(Watson6LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case watson6LBFGSCentralSearchExhausted, watson6LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson6LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson6LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson6LBFGSCentralNoDecrease
-			case found.end == watson6LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = watson6LBFGSCentralVerifyStall, true
-				continue
-			case found.end == watson6LBFGSCentralSearchTiny:
-				end = Watson6LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson6LBFGSCentralFiniteVec(&xt) {
-			return best.ending(Watson6LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson6LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson6LBFGSCentralDifference(&s, &xt, &x)
-		watson6LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson6LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson6LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson6LBFGSCentralUnlimited)
 }
 
 // watson6LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o watson6LBFGSCentralOutcome) ending(end Watson6LBFGSCentralStatus, iterat
 	return o
 }
 
+// watson6LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson6LBFGSCentralDescent struct {
+	lim       Watson6LBFGSCentralLimits
+	stage     int                            // what advance does next
+	diffs     watson6LBFGSCentralDifferences // the box and the difference intervals
+	dir       watson6LBFGSCentralDirection   // the direction's memory
+	x, g, e   [6]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [6]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best watson6LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from watson6LBFGSCentralConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson6LBFGSCentralDescent) prepare(x0 [6]float64, lim Watson6LBFGSCentralLimits, bounds watson6LBFGSCentralBox) {
+	r.lim, r.stage = lim, watson6LBFGSCentralStageBegin
+	r.diffs = watson6LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	watson6LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}, [6]float64{}
+	r.out = watson6LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: Watson6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson6LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson6LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson6LBFGSCentralSettleCalls and watson6LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson6LBFGSCentralDescent) advance(budget int) watson6LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != watson6LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson6LBFGSCentralStageBegin:
+			if left < 1+watson6LBFGSCentralCalibrationCost+watson6LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson6LBFGSCentralStageJudge:
+			if r.verify != watson6LBFGSCentralVerifyNothing && left < watson6LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson6LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson6LBFGSCentralDescent) paused() watson6LBFGSCentralOutcome {
+	return r.best.ending(Watson6LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson6LBFGSCentralDescent) finish(end Watson6LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson6LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson6LBFGSCentralDescent) begin() {
+	r.stage = watson6LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson6LBFGSCentralFinite(r.fx) || !watson6LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = Watson6LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := watson6LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson6LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson6LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson6LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = Watson6LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson6LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson6LBFGSCentralVerifyNothing
+	r.stage = watson6LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson6LBFGSCentralStageSearch next when the run goes on.
+func (r *watson6LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != watson6LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson6LBFGSCentralConfirmGradient and settle).
+		calls, ok := watson6LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson6LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson6LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !watson6LBFGSCentralFiniteVec(&r.g) {
+			r.finish(Watson6LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson6LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		watson6LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson6LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson6LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson6LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson6LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson6LBFGSCentralGradientSmall
+		r.stage = watson6LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson6LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson6LBFGSCentralDerivativeCost == 0 {
+			r.finish(Watson6LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson6LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson6LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson6LBFGSCentralDiverged)
+			return
+		}
+		watson6LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson6LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = watson6LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson6LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *watson6LBFGSCentralDescent) search() {
+	watson6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson6LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !watson6LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson6LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(watson6LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson6LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [6]float64
+	found := watson6LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson6LBFGSCentralSearchOutOfBudget:
+		r.finish(Watson6LBFGSCentralOutOfEvaluations)
+		return
+	case watson6LBFGSCentralSearchDiverged:
+		r.finish(Watson6LBFGSCentralDiverged)
+		return
+	case watson6LBFGSCentralSearchExhausted, watson6LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson6LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson6LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson6LBFGSCentralNoDecrease
+		case found.end == watson6LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson6LBFGSCentralVerifyStall, true, watson6LBFGSCentralStageJudge
+			return
+		case found.end == watson6LBFGSCentralSearchTiny:
+			end = Watson6LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson6LBFGSCentralFiniteVec(&xt) {
+		r.finish(Watson6LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson6LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson6LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson6LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson6LBFGSCentralDifference(&r.s, &xt, &r.x)
+	watson6LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson6LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson6LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = watson6LBFGSCentralStageJudge
+}
+
+// watson6LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type watson6LBFGSCentralDifferences struct {
+	ratio     [6]float64
+	curvature [6]float64
+	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSCentralRoundingFloor)
+	bounds    watson6LBFGSCentralBox
+}
+
+// watson6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last watson6LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, watson6LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type watson6LBFGSCentralDirection struct {
+	s, y   [watson6LBFGSCentralLbfgsMemory][6]float64
+	rho    [watson6LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most watson6LBFGSCentralLbfgsMemory
+}
+
+func (s *watson6LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *watson6LBFGSCentralDirection) compute(g, d *[6]float64) {
+	var alpha [watson6LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * watson6LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = watson6LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := watson6LBFGSCentralDot(&s.s[newest], &s.y[newest]) / watson6LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == watson6LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * watson6LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	watson6LBFGSCentralNegate(d, &q)
+}
+
+func (s *watson6LBFGSCentralDirection) update(step, change *[6]float64) {
+	if !watson6LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == watson6LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < watson6LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / watson6LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *watson6LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// watson6LBFGSCentralDot returns aᵀb.
+func watson6LBFGSCentralDot(a, b *[6]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// watson6LBFGSCentralNegate sets out = −x.
+func watson6LBFGSCentralNegate(out, x *[6]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// watson6LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
+	sy := watson6LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/watson6LBFGSCentralDot(s, s))*(sy/watson6LBFGSCentralDot(y, y)) > watson6LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson6LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson6LBFGSCentralStageJudge         // settle when asked (watson6LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	watson6LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: watson6LBFGSCentralIterationCalls
+	watson6LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // watson6LBFGSCentralEnterBox: without bounds every start is inside.
 func watson6LBFGSCentralEnterBox(x *[6]float64, b *watson6LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	watson6LBFGSCentralVerifyNothing = iota
+	watson6LBFGSCentralVerifyPass    // a difference gradient passed the test
+	watson6LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // watson6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func watson6LBFGSCentralFiniteVec(x *[6]float64) bool {
 		}
 	}
 	return true
-}
-
-// watson6LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type watson6LBFGSCentralDifferences struct {
-	ratio     [6]float64
-	curvature [6]float64
-	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSCentralRoundingFloor)
-	bounds    watson6LBFGSCentralBox
 }
 
 // watson6LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func watson6LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float6
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// watson6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last watson6LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, watson6LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type watson6LBFGSCentralDirection struct {
-	s, y   [watson6LBFGSCentralLbfgsMemory][6]float64
-	rho    [watson6LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most watson6LBFGSCentralLbfgsMemory
-}
-
-func (s *watson6LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *watson6LBFGSCentralDirection) compute(g, d *[6]float64) {
-	var alpha [watson6LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * watson6LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = watson6LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := watson6LBFGSCentralDot(&s.s[newest], &s.y[newest]) / watson6LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == watson6LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * watson6LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	watson6LBFGSCentralNegate(d, &q)
-}
-
-func (s *watson6LBFGSCentralDirection) update(step, change *[6]float64) {
-	if !watson6LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == watson6LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < watson6LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / watson6LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *watson6LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// watson6LBFGSCentralDot returns aᵀb.
-func watson6LBFGSCentralDot(a, b *[6]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// watson6LBFGSCentralNegate sets out = −x.
-func watson6LBFGSCentralNegate(out, x *[6]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// watson6LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
-	sy := watson6LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/watson6LBFGSCentralDot(s, s))*(sy/watson6LBFGSCentralDot(y, y)) > watson6LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	watson6LBFGSCentralVerifyNothing = iota
-	watson6LBFGSCentralVerifyPass    // a difference gradient passed the test
-	watson6LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // watson6LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson6LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func watson6LBFGSCentralDifference(out, a, b *[6]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson6LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const watson6LBFGSCentralUnlimited = int(^uint(0) >> 1)

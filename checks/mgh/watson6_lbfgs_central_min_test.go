@@ -47,6 +47,55 @@ func TestWatson6LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWatson6LBFGSCentralSolverTicks advances a Watson6LBFGSCentralSolver from the spec's start with budgets of Watson6LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson6LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson6LBFGSCentralSolverTicks(t *testing.T) {
+	want := Watson6LBFGSCentral(watson6LBFGSCentralTestStart())
+	for _, budget := range []int{Watson6LBFGSCentralTickMinimum, Watson6LBFGSCentralTickMinimum + 1, 2 * Watson6LBFGSCentralTickMinimum, 7 * Watson6LBFGSCentralTickMinimum} {
+		var s Watson6LBFGSCentralSolver
+		s.Start(watson6LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson6LBFGSCentralRunning {
+				if !watson6LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson6LBFGSCentralSolver
+	s.Start(watson6LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != Watson6LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson6LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson6LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s Watson6LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson6LBFGSCentralTestStart())
+		for s.Advance(Watson6LBFGSCentralTickMinimum).Status == Watson6LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson6LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson6LBFGSCentralTestSameResult(a, b Watson6LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson6LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkWatson6LBFGSCentral(b *testing.B) {
 	var r Watson6LBFGSCentralResult

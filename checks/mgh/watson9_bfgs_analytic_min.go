@@ -26,6 +26,8 @@ const (
 	Watson9BFGSAnalyticNoDecrease
 	// Watson9BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson9BFGSAnalyticDiverged
+	// Watson9BFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson9BFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson9BFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Watson9BFGSAnalyticDiverged:
 		return "diverged"
+	case Watson9BFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Watson9BFGSAnalyticWithLimits(x0 [9]float64, limits Watson9BFGSAnalyticLimi
 	}
 }
 
+// Watson9BFGSAnalyticTickMinimum is the smallest call budget with which every Watson9BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Watson9BFGSAnalyticTickMinimum = 48
+
+// Watson9BFGSAnalyticSolver is a run of Watson9BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson9BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Watson9BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson9BFGSAnalyticRunning ends exactly as Watson9BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9BFGSAnalytic and Watson9BFGSAnalyticWithLimits use at most 5072 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
+//
+// While Status is Watson9BFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson9BFGSAnalyticSolver struct {
+	run       watson9BFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson9BFGSAnalyticLimits  // the limits of the runs; Watson9BFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson9BFGSAnalyticSolver) SetLimits(limits Watson9BFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson9BFGSAnalyticSolver) Start(x0 [9]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Watson9BFGSAnalyticSolver) StartFrom(from Watson9BFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson9BFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson9BFGSAnalyticSolver) begin(x0 [9]float64) {
+	if !s.ownLimits {
+		s.limits = Watson9BFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson9BFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson9BFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson9BFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson9BFGSAnalyticSolver) Advance(budget int) Watson9BFGSAnalyticResult {
+	if !s.started {
+		var x0 [9]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson9BFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson9BFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson9BFGSAnalyticStepInitial    = 1.0                    // step.initial
-	watson9BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson9BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	watson9BFGSAnalyticStepTrials     = 48                     // step.trials
-	watson9BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	watson9BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson9BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson9BFGSAnalyticStepInitial     = 1.0                    // step.initial
+	watson9BFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson9BFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	watson9BFGSAnalyticStepTrials      = 48                     // step.trials
+	watson9BFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	watson9BFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	watson9BFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	watson9BFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson9BFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson9BFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson9BFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits, bounds watson9BFGSAnalyticBox) watson9BFGSAnalyticOutcome {
-	x := x0
-	watson9BFGSAnalyticEnterBox(&x, &bounds)
-	out := watson9BFGSAnalyticOutcome{x: x, status: Watson9BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson9(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson9BFGSAnalyticFinite(fx) || !watson9BFGSAnalyticFiniteVec(&x) {
-		out.status = Watson9BFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := watson9BFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := watson9BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson9BFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [9]float64
-	out.evaluations += watson9BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !watson9BFGSAnalyticFiniteVec(&g) {
-		out.status = Watson9BFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir watson9BFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [9]float64
-	t, slope := float64(watson9BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson9BFGSAnalyticConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := watson9BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson9BFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson9BFGSAnalyticConfirmGradient and settle).
-			calls, ok := watson9BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson9BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9BFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson9BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson9BFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			watson9BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson9BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson9BFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson9BFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson9BFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Watson9BFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson9BFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson9BFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Watson9BFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson9BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson9BFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson9BFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			watson9BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson9BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson9BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson9BFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !watson9BFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson9BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson9BFGSAnalyticDot(&g, &d)
-		}
-		first := float64(watson9BFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson9BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson9BFGSAnalyticSearchOutOfBudget:
-			return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case watson9BFGSAnalyticSearchDiverged:
-			return best.ending(Watson9BFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case watson9BFGSAnalyticSearchExhausted, watson9BFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson9BFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson9BFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson9BFGSAnalyticNoDecrease
-			case found.end == watson9BFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = watson9BFGSAnalyticVerifyStall, true
-				continue
-			case found.end == watson9BFGSAnalyticSearchTiny:
-				end = Watson9BFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson9BFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Watson9BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson9BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson9BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson9BFGSAnalyticDifference(&s, &xt, &x)
-		watson9BFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson9BFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson9BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson9BFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson9BFGSAnalyticUnlimited)
 }
 
 // watson9BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o watson9BFGSAnalyticOutcome) ending(end Watson9BFGSAnalyticStatus, iterat
 	return o
 }
 
-// watson9BFGSAnalyticEnterBox: without bounds every start is inside.
-func watson9BFGSAnalyticEnterBox(x *[9]float64, b *watson9BFGSAnalyticBox) {}
-
-// watson9BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func watson9BFGSAnalyticFinite(v float64) bool {
-	return v >= -watson9BFGSAnalyticLargestFinite && v <= watson9BFGSAnalyticLargestFinite
+// watson9BFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson9BFGSAnalyticDescent struct {
+	lim       Watson9BFGSAnalyticLimits
+	stage     int                            // what advance does next
+	diffs     watson9BFGSAnalyticDifferences // the box and the difference intervals
+	dir       watson9BFGSAnalyticDirection   // the direction's memory
+	x, g, e   [9]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [9]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best watson9BFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from watson9BFGSAnalyticConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
 }
 
-// watson9BFGSAnalyticFiniteVec reports whether every component of x is finite.
-func watson9BFGSAnalyticFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9BFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson9BFGSAnalyticDescent) prepare(x0 [9]float64, lim Watson9BFGSAnalyticLimits, bounds watson9BFGSAnalyticBox) {
+	r.lim, r.stage = lim, watson9BFGSAnalyticStageBegin
+	r.diffs = watson9BFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	watson9BFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}
+	r.out = watson9BFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Watson9BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson9BFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson9BFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson9BFGSAnalyticSettleCalls and watson9BFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson9BFGSAnalyticDescent) advance(budget int) watson9BFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != watson9BFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson9BFGSAnalyticStageBegin:
+			if left < 1+watson9BFGSAnalyticCalibrationCost+watson9BFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson9BFGSAnalyticStageJudge:
+			if r.verify != watson9BFGSAnalyticVerifyNothing && left < watson9BFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson9BFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson9BFGSAnalyticDescent) paused() watson9BFGSAnalyticOutcome {
+	return r.best.ending(Watson9BFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson9BFGSAnalyticDescent) finish(end Watson9BFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson9BFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson9BFGSAnalyticDescent) begin() {
+	r.stage = watson9BFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson9BFGSAnalyticFinite(r.fx) || !watson9BFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Watson9BFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := watson9BFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson9BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson9BFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson9BFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Watson9BFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson9BFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson9BFGSAnalyticVerifyNothing
+	r.stage = watson9BFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson9BFGSAnalyticStageSearch next when the run goes on.
+func (r *watson9BFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != watson9BFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson9BFGSAnalyticConfirmGradient and settle).
+		calls, ok := watson9BFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson9BFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson9BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !watson9BFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Watson9BFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson9BFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		watson9BFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson9BFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson9BFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson9BFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson9BFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson9BFGSAnalyticGradientSmall
+		r.stage = watson9BFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson9BFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson9BFGSAnalyticDerivativeCost == 0 {
+			r.finish(Watson9BFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson9BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson9BFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson9BFGSAnalyticDiverged)
+			return
+		}
+		watson9BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson9BFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = watson9BFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson9BFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *watson9BFGSAnalyticDescent) search() {
+	watson9BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson9BFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !watson9BFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson9BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson9BFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(watson9BFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson9BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [9]float64
+	found := watson9BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson9BFGSAnalyticSearchOutOfBudget:
+		r.finish(Watson9BFGSAnalyticOutOfEvaluations)
+		return
+	case watson9BFGSAnalyticSearchDiverged:
+		r.finish(Watson9BFGSAnalyticDiverged)
+		return
+	case watson9BFGSAnalyticSearchExhausted, watson9BFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson9BFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson9BFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson9BFGSAnalyticNoDecrease
+		case found.end == watson9BFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson9BFGSAnalyticVerifyStall, true, watson9BFGSAnalyticStageJudge
+			return
+		case found.end == watson9BFGSAnalyticSearchTiny:
+			end = Watson9BFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson9BFGSAnalyticFiniteVec(&xt) {
+		r.finish(Watson9BFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson9BFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson9BFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson9BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson9BFGSAnalyticDifference(&r.s, &xt, &r.x)
+	watson9BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson9BFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson9BFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = watson9BFGSAnalyticStageJudge
 }
 
 // watson9BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type watson9BFGSAnalyticDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSAnalyticRoundingFloor)
 	bounds    watson9BFGSAnalyticBox
-}
-
-// watson9BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func watson9BFGSAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9BFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// watson9BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9BFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSAnalyticDifferences) int {
-	Watson9Grad(x, g)
-	return 0
 }
 
 // watson9BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func watson9BFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9BFGSAnalyticDot(s, s))*(sy/watson9BFGSAnalyticDot(y, y)) > watson9BFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson9BFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson9BFGSAnalyticStageJudge         // settle when asked (watson9BFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	watson9BFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: watson9BFGSAnalyticIterationCalls
+	watson9BFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// watson9BFGSAnalyticEnterBox: without bounds every start is inside.
+func watson9BFGSAnalyticEnterBox(x *[9]float64, b *watson9BFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	watson9BFGSAnalyticVerifyNothing = iota
 	watson9BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson9BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson9BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func watson9BFGSAnalyticFinite(v float64) bool {
+	return v >= -watson9BFGSAnalyticLargestFinite && v <= watson9BFGSAnalyticLargestFinite
+}
+
+// watson9BFGSAnalyticFiniteVec reports whether every component of x is finite.
+func watson9BFGSAnalyticFiniteVec(x *[9]float64) bool {
+	for i := range x {
+		if !watson9BFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson9BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson9BFGSAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// watson9BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func watson9BFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSAnalyticDifferences) int {
+	Watson9Grad(x, g)
+	return 0
+}
 
 // watson9BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson9BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1000,3 +1194,6 @@ func watson9BFGSAnalyticDifference(out, a, b *[9]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson9BFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const watson9BFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestWatson9BFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWatson9BFGSAnalyticSolverTicks advances a Watson9BFGSAnalyticSolver from the spec's start with budgets of Watson9BFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson9BFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson9BFGSAnalyticSolverTicks(t *testing.T) {
+	want := Watson9BFGSAnalytic(watson9BFGSAnalyticTestStart())
+	for _, budget := range []int{Watson9BFGSAnalyticTickMinimum, Watson9BFGSAnalyticTickMinimum + 1, 2 * Watson9BFGSAnalyticTickMinimum, 7 * Watson9BFGSAnalyticTickMinimum} {
+		var s Watson9BFGSAnalyticSolver
+		s.Start(watson9BFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson9BFGSAnalyticRunning {
+				if !watson9BFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson9BFGSAnalyticSolver
+	s.Start(watson9BFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Watson9BFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson9BFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson9BFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Watson9BFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson9BFGSAnalyticTestStart())
+		for s.Advance(Watson9BFGSAnalyticTickMinimum).Status == Watson9BFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson9BFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson9BFGSAnalyticTestSameResult(a, b Watson9BFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson9BFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkWatson9BFGSAnalytic(b *testing.B) {
 	var r Watson9BFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	Watson9BFGSCentralNoDecrease
 	// Watson9BFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson9BFGSCentralDiverged
+	// Watson9BFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson9BFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson9BFGSCentralStatus) String() string {
 		return "no decrease"
 	case Watson9BFGSCentralDiverged:
 		return "diverged"
+	case Watson9BFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Watson9BFGSCentralWithLimits(x0 [9]float64, limits Watson9BFGSCentralLimits
 	}
 }
 
+// Watson9BFGSCentralTickMinimum is the smallest call budget with which every Watson9BFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 55 calls, an iteration 912, confirming a difference gradient 72).
+const Watson9BFGSCentralTickMinimum = 912
+
+// Watson9BFGSCentralSolver is a run of Watson9BFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson9BFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 55 calls, an iteration 912, confirming a difference gradient 72. A budget of at least Watson9BFGSCentralTickMinimum = 912 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson9BFGSCentralRunning ends exactly as Watson9BFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9BFGSCentral and Watson9BFGSCentralWithLimits use at most 5072 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
+//
+// While Status is Watson9BFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson9BFGSCentralSolver struct {
+	run       watson9BFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson9BFGSCentralLimits  // the limits of the runs; Watson9BFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                      // whether SetLimits has set limits
+	started   bool                      // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson9BFGSCentralSolver) SetLimits(limits Watson9BFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson9BFGSCentralSolver) Start(x0 [9]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Watson9BFGSCentralSolver) StartFrom(from Watson9BFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson9BFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson9BFGSCentralSolver) begin(x0 [9]float64) {
+	if !s.ownLimits {
+		s.limits = Watson9BFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson9BFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson9BFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson9BFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson9BFGSCentralSolver) Advance(budget int) Watson9BFGSCentralResult {
+	if !s.started {
+		var x0 [9]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson9BFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson9BFGSCentral from mgh.toml; the kernels below read them.
 const (
-	watson9BFGSCentralStepInitial    = 1.0                    // step.initial
-	watson9BFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson9BFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	watson9BFGSCentralStepTrials     = 48                     // step.trials
-	watson9BFGSCentralDerivativeCost = 18                     // objective calls per gradient
-	watson9BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson9BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson9BFGSCentralStepInitial     = 1.0                    // step.initial
+	watson9BFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson9BFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	watson9BFGSCentralStepTrials      = 48                     // step.trials
+	watson9BFGSCentralDerivativeCost  = 18                     // objective calls per gradient
+	watson9BFGSCentralCalibrationCost = 36                     // objective calls of choosing the difference intervals
+	watson9BFGSCentralIterationCalls  = 912                    // most objective calls of one line search with the gradient at its step
+	watson9BFGSCentralSettleCalls     = 72                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson9BFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson9BFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson9BFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits, bounds watson9BFGSCentralBox) watson9BFGSCentralOutcome {
-	x := x0
-	watson9BFGSCentralEnterBox(&x, &bounds)
-	out := watson9BFGSCentralOutcome{x: x, status: Watson9BFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson9(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson9BFGSCentralFinite(fx) || !watson9BFGSCentralFiniteVec(&x) {
-		out.status = Watson9BFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := watson9BFGSCentralDifferences{bounds: bounds}
-	calls, ok := watson9BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson9BFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [9]float64
-	out.evaluations += watson9BFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !watson9BFGSCentralFiniteVec(&g) {
-		out.status = Watson9BFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir watson9BFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [9]float64
-	t, slope := float64(watson9BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                    // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from watson9BFGSCentralConfirmGradient or settle
-	stalled := false                                               // whether the run can make no more progress at x
-	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
-	verify := watson9BFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson9BFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson9BFGSCentralConfirmGradient and settle).
-			calls, ok := watson9BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson9BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9BFGSCentralFiniteVec(&g) {
-				return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson9BFGSCentralVerifyNothing, true
-		case !confirmed:
-			watson9BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson9BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson9BFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson9BFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson9BFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = Watson9BFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson9BFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson9BFGSCentralDerivativeCost == 0 {
-				return best.ending(Watson9BFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson9BFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson9BFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson9BFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			watson9BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson9BFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson9BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson9BFGSCentralDot(&g, &d)
-		if !(now < 0) || !watson9BFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson9BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson9BFGSCentralDot(&g, &d)
-		}
-		first := float64(watson9BFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson9BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson9BFGSCentralSearchOutOfBudget:
-			return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case watson9BFGSCentralSearchDiverged:
-			return best.ending(Watson9BFGSCentralDiverged, out.iterations, out.evaluations)
-		case watson9BFGSCentralSearchExhausted, watson9BFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson9BFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson9BFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson9BFGSCentralNoDecrease
-			case found.end == watson9BFGSCentralSearchTiny && canSettle:
-				verify, stalled = watson9BFGSCentralVerifyStall, true
-				continue
-			case found.end == watson9BFGSCentralSearchTiny:
-				end = Watson9BFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson9BFGSCentralFiniteVec(&xt) {
-			return best.ending(Watson9BFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson9BFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson9BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson9BFGSCentralDifference(&s, &xt, &x)
-		watson9BFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson9BFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson9BFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson9BFGSCentralUnlimited)
 }
 
 // watson9BFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o watson9BFGSCentralOutcome) ending(end Watson9BFGSCentralStatus, iteratio
 	return o
 }
 
+// watson9BFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson9BFGSCentralDescent struct {
+	lim       Watson9BFGSCentralLimits
+	stage     int                           // what advance does next
+	diffs     watson9BFGSCentralDifferences // the box and the difference intervals
+	dir       watson9BFGSCentralDirection   // the direction's memory
+	x, g, e   [9]float64                    // the point, its gradient and the gradient's error bound
+	d, s, y   [9]float64                    // the search direction, the last step and its gradient change
+	fx        float64                       // f(x)
+	t, slope  float64                       // the previous iteration's accepted step and slope
+	out, best watson9BFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                       // f(x0)
+	rises     int                           // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                          // whether g and e at x come from watson9BFGSCentralConfirmGradient or settle
+	stalled   bool                          // whether the run can make no more progress at x
+	retried   int                           // the iteration whose stall was retried with recalibrated differences
+	verify    int                           // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson9BFGSCentralDescent) prepare(x0 [9]float64, lim Watson9BFGSCentralLimits, bounds watson9BFGSCentralBox) {
+	r.lim, r.stage = lim, watson9BFGSCentralStageBegin
+	r.diffs = watson9BFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	watson9BFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}
+	r.out = watson9BFGSCentralOutcome{x: r.x, f: math.NaN(), status: Watson9BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson9BFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson9BFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson9BFGSCentralSettleCalls and watson9BFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson9BFGSCentralDescent) advance(budget int) watson9BFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != watson9BFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson9BFGSCentralStageBegin:
+			if left < 1+watson9BFGSCentralCalibrationCost+watson9BFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson9BFGSCentralStageJudge:
+			if r.verify != watson9BFGSCentralVerifyNothing && left < watson9BFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson9BFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson9BFGSCentralDescent) paused() watson9BFGSCentralOutcome {
+	return r.best.ending(Watson9BFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson9BFGSCentralDescent) finish(end Watson9BFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson9BFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson9BFGSCentralDescent) begin() {
+	r.stage = watson9BFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson9BFGSCentralFinite(r.fx) || !watson9BFGSCentralFiniteVec(&r.x) {
+		r.out.status = Watson9BFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := watson9BFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson9BFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson9BFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson9BFGSCentralFiniteVec(&r.g) {
+		r.out.status = Watson9BFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson9BFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson9BFGSCentralVerifyNothing
+	r.stage = watson9BFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson9BFGSCentralStageSearch next when the run goes on.
+func (r *watson9BFGSCentralDescent) judge() {
+	switch {
+	case r.verify != watson9BFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson9BFGSCentralConfirmGradient and settle).
+		calls, ok := watson9BFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson9BFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson9BFGSCentralOutOfEvaluations)
+			return
+		}
+		if !watson9BFGSCentralFiniteVec(&r.g) {
+			r.finish(Watson9BFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson9BFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		watson9BFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson9BFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson9BFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson9BFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson9BFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson9BFGSCentralGradientSmall
+		r.stage = watson9BFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson9BFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson9BFGSCentralDerivativeCost == 0 {
+			r.finish(Watson9BFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson9BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson9BFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson9BFGSCentralDiverged)
+			return
+		}
+		watson9BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson9BFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = watson9BFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson9BFGSCentralStageJudge next when the run
+// goes on.
+func (r *watson9BFGSCentralDescent) search() {
+	watson9BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson9BFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !watson9BFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson9BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson9BFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(watson9BFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson9BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [9]float64
+	found := watson9BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson9BFGSCentralSearchOutOfBudget:
+		r.finish(Watson9BFGSCentralOutOfEvaluations)
+		return
+	case watson9BFGSCentralSearchDiverged:
+		r.finish(Watson9BFGSCentralDiverged)
+		return
+	case watson9BFGSCentralSearchExhausted, watson9BFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson9BFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson9BFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson9BFGSCentralNoDecrease
+		case found.end == watson9BFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson9BFGSCentralVerifyStall, true, watson9BFGSCentralStageJudge
+			return
+		case found.end == watson9BFGSCentralSearchTiny:
+			end = Watson9BFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson9BFGSCentralFiniteVec(&xt) {
+		r.finish(Watson9BFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson9BFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson9BFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson9BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson9BFGSCentralDifference(&r.s, &xt, &r.x)
+	watson9BFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson9BFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson9BFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = watson9BFGSCentralStageJudge
+}
+
+// watson9BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type watson9BFGSCentralDifferences struct {
+	ratio     [9]float64
+	curvature [9]float64
+	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSCentralRoundingFloor)
+	bounds    watson9BFGSCentralBox
+}
+
+// watson9BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type watson9BFGSCentralDirection struct {
+	h      [9][9]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *watson9BFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *watson9BFGSCentralDirection) compute(g, d *[9]float64) {
+	for i := range s.h {
+		d[i] = -watson9BFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *watson9BFGSCentralDirection) update(step, change *[9]float64) {
+	if !watson9BFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := watson9BFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / watson9BFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [9]float64
+	for i := range s.h {
+		hy[i] = watson9BFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*watson9BFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *watson9BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// watson9BFGSCentralDot returns aᵀb.
+func watson9BFGSCentralDot(a, b *[9]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// watson9BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func watson9BFGSCentralCurvatureSafe(s, y *[9]float64) bool {
+	sy := watson9BFGSCentralDot(s, y)
+	return sy > 0 && (sy/watson9BFGSCentralDot(s, s))*(sy/watson9BFGSCentralDot(y, y)) > watson9BFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson9BFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson9BFGSCentralStageJudge         // settle when asked (watson9BFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	watson9BFGSCentralStageSearch        // the line search and the gradient at the accepted point: watson9BFGSCentralIterationCalls
+	watson9BFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // watson9BFGSCentralEnterBox: without bounds every start is inside.
 func watson9BFGSCentralEnterBox(x *[9]float64, b *watson9BFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	watson9BFGSCentralVerifyNothing = iota
+	watson9BFGSCentralVerifyPass    // a difference gradient passed the test
+	watson9BFGSCentralVerifyStall   // no step makes progress
+)
 
 // watson9BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func watson9BFGSCentralFiniteVec(x *[9]float64) bool {
 		}
 	}
 	return true
-}
-
-// watson9BFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type watson9BFGSCentralDifferences struct {
-	ratio     [9]float64
-	curvature [9]float64
-	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSCentralRoundingFloor)
-	bounds    watson9BFGSCentralBox
 }
 
 // watson9BFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func watson9BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// watson9BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type watson9BFGSCentralDirection struct {
-	h      [9][9]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *watson9BFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *watson9BFGSCentralDirection) compute(g, d *[9]float64) {
-	for i := range s.h {
-		d[i] = -watson9BFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *watson9BFGSCentralDirection) update(step, change *[9]float64) {
-	if !watson9BFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := watson9BFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / watson9BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [9]float64
-	for i := range s.h {
-		hy[i] = watson9BFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*watson9BFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *watson9BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// watson9BFGSCentralDot returns aᵀb.
-func watson9BFGSCentralDot(a, b *[9]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// watson9BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func watson9BFGSCentralCurvatureSafe(s, y *[9]float64) bool {
-	sy := watson9BFGSCentralDot(s, y)
-	return sy > 0 && (sy/watson9BFGSCentralDot(s, s))*(sy/watson9BFGSCentralDot(y, y)) > watson9BFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	watson9BFGSCentralVerifyNothing = iota
-	watson9BFGSCentralVerifyPass    // a difference gradient passed the test
-	watson9BFGSCentralVerifyStall   // no step makes progress
-)
 
 // watson9BFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson9BFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func watson9BFGSCentralDifference(out, a, b *[9]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson9BFGSCentralUnlimited is a tick budget that never pauses a run.
+const watson9BFGSCentralUnlimited = int(^uint(0) >> 1)

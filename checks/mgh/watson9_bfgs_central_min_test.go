@@ -47,6 +47,55 @@ func TestWatson9BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWatson9BFGSCentralSolverTicks advances a Watson9BFGSCentralSolver from the spec's start with budgets of Watson9BFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson9BFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson9BFGSCentralSolverTicks(t *testing.T) {
+	want := Watson9BFGSCentral(watson9BFGSCentralTestStart())
+	for _, budget := range []int{Watson9BFGSCentralTickMinimum, Watson9BFGSCentralTickMinimum + 1, 2 * Watson9BFGSCentralTickMinimum, 7 * Watson9BFGSCentralTickMinimum} {
+		var s Watson9BFGSCentralSolver
+		s.Start(watson9BFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson9BFGSCentralRunning {
+				if !watson9BFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson9BFGSCentralSolver
+	s.Start(watson9BFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != Watson9BFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson9BFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson9BFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s Watson9BFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson9BFGSCentralTestStart())
+		for s.Advance(Watson9BFGSCentralTickMinimum).Status == Watson9BFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson9BFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson9BFGSCentralTestSameResult(a, b Watson9BFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson9BFGSCentral measures one whole run from the spec's start.
 func BenchmarkWatson9BFGSCentral(b *testing.B) {
 	var r Watson9BFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	Watson9CGAnalyticNoDecrease
 	// Watson9CGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson9CGAnalyticDiverged
+	// Watson9CGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson9CGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson9CGAnalyticStatus) String() string {
 		return "no decrease"
 	case Watson9CGAnalyticDiverged:
 		return "diverged"
+	case Watson9CGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func Watson9CGAnalyticWithLimits(x0 [9]float64, limits Watson9CGAnalyticLimits) 
 	}
 }
 
+// Watson9CGAnalyticTickMinimum is the smallest call budget with which every Watson9CGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Watson9CGAnalyticTickMinimum = 48
+
+// Watson9CGAnalyticSolver is a run of Watson9CGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson9CGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Watson9CGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson9CGAnalyticRunning ends exactly as Watson9CGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9CGAnalytic and Watson9CGAnalyticWithLimits use at most 4576 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
+//
+// While Status is Watson9CGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson9CGAnalyticSolver struct {
+	run       watson9CGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson9CGAnalyticLimits  // the limits of the runs; Watson9CGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson9CGAnalyticSolver) SetLimits(limits Watson9CGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson9CGAnalyticSolver) Start(x0 [9]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Watson9CGAnalyticSolver) StartFrom(from Watson9CGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson9CGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson9CGAnalyticSolver) begin(x0 [9]float64) {
+	if !s.ownLimits {
+		s.limits = Watson9CGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson9CGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson9CGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson9CGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson9CGAnalyticSolver) Advance(budget int) Watson9CGAnalyticResult {
+	if !s.started {
+		var x0 [9]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson9CGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson9CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson9CGAnalyticStepInitial    = 1.0                    // step.initial
-	watson9CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson9CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	watson9CGAnalyticStepTrials     = 48                     // step.trials
-	watson9CGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	watson9CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson9CGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson9CGAnalyticStepInitial     = 1.0                    // step.initial
+	watson9CGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson9CGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	watson9CGAnalyticStepTrials      = 48                     // step.trials
+	watson9CGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	watson9CGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	watson9CGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	watson9CGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson9CGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson9CGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson9CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits, bounds watson9CGAnalyticBox) watson9CGAnalyticOutcome {
-	x := x0
-	watson9CGAnalyticEnterBox(&x, &bounds)
-	out := watson9CGAnalyticOutcome{x: x, status: Watson9CGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson9(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson9CGAnalyticFinite(fx) || !watson9CGAnalyticFiniteVec(&x) {
-		out.status = Watson9CGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := watson9CGAnalyticDifferences{bounds: bounds}
-	calls, ok := watson9CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [9]float64
-	out.evaluations += watson9CGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !watson9CGAnalyticFiniteVec(&g) {
-		out.status = Watson9CGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir watson9CGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [9]float64
-	t, slope := float64(watson9CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from watson9CGAnalyticConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := watson9CGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson9CGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson9CGAnalyticConfirmGradient and settle).
-			calls, ok := watson9CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson9CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9CGAnalyticFiniteVec(&g) {
-				return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson9CGAnalyticVerifyNothing, true
-		case !confirmed:
-			watson9CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson9CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson9CGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson9CGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson9CGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Watson9CGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson9CGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson9CGAnalyticDerivativeCost == 0 {
-				return best.ending(Watson9CGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson9CGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson9CGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson9CGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			watson9CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson9CGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson9CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson9CGAnalyticDot(&g, &d)
-		if !(now < 0) || !watson9CGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson9CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson9CGAnalyticDot(&g, &d)
-		}
-		first := float64(watson9CGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson9CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson9CGAnalyticSearchOutOfBudget:
-			return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case watson9CGAnalyticSearchDiverged:
-			return best.ending(Watson9CGAnalyticDiverged, out.iterations, out.evaluations)
-		case watson9CGAnalyticSearchExhausted, watson9CGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson9CGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson9CGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson9CGAnalyticNoDecrease
-			case found.end == watson9CGAnalyticSearchTiny && canSettle:
-				verify, stalled = watson9CGAnalyticVerifyStall, true
-				continue
-			case found.end == watson9CGAnalyticSearchTiny:
-				end = Watson9CGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson9CGAnalyticFiniteVec(&xt) {
-			return best.ending(Watson9CGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson9CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson9CGAnalyticDifference(&s, &xt, &x)
-		watson9CGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson9CGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson9CGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson9CGAnalyticUnlimited)
 }
 
 // watson9CGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o watson9CGAnalyticOutcome) ending(end Watson9CGAnalyticStatus, iterations
 	return o
 }
 
-// watson9CGAnalyticEnterBox: without bounds every start is inside.
-func watson9CGAnalyticEnterBox(x *[9]float64, b *watson9CGAnalyticBox) {}
-
-// watson9CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func watson9CGAnalyticFinite(v float64) bool {
-	return v >= -watson9CGAnalyticLargestFinite && v <= watson9CGAnalyticLargestFinite
+// watson9CGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson9CGAnalyticDescent struct {
+	lim       Watson9CGAnalyticLimits
+	stage     int                          // what advance does next
+	diffs     watson9CGAnalyticDifferences // the box and the difference intervals
+	dir       watson9CGAnalyticDirection   // the direction's memory
+	x, g, e   [9]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [9]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best watson9CGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from watson9CGAnalyticConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
 }
 
-// watson9CGAnalyticFiniteVec reports whether every component of x is finite.
-func watson9CGAnalyticFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9CGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson9CGAnalyticDescent) prepare(x0 [9]float64, lim Watson9CGAnalyticLimits, bounds watson9CGAnalyticBox) {
+	r.lim, r.stage = lim, watson9CGAnalyticStageBegin
+	r.diffs = watson9CGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	watson9CGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}
+	r.out = watson9CGAnalyticOutcome{x: r.x, f: math.NaN(), status: Watson9CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson9CGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson9CGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson9CGAnalyticSettleCalls and watson9CGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson9CGAnalyticDescent) advance(budget int) watson9CGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != watson9CGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson9CGAnalyticStageBegin:
+			if left < 1+watson9CGAnalyticCalibrationCost+watson9CGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson9CGAnalyticStageJudge:
+			if r.verify != watson9CGAnalyticVerifyNothing && left < watson9CGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson9CGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson9CGAnalyticDescent) paused() watson9CGAnalyticOutcome {
+	return r.best.ending(Watson9CGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson9CGAnalyticDescent) finish(end Watson9CGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson9CGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson9CGAnalyticDescent) begin() {
+	r.stage = watson9CGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson9CGAnalyticFinite(r.fx) || !watson9CGAnalyticFiniteVec(&r.x) {
+		r.out.status = Watson9CGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := watson9CGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson9CGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson9CGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson9CGAnalyticFiniteVec(&r.g) {
+		r.out.status = Watson9CGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson9CGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson9CGAnalyticVerifyNothing
+	r.stage = watson9CGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson9CGAnalyticStageSearch next when the run goes on.
+func (r *watson9CGAnalyticDescent) judge() {
+	switch {
+	case r.verify != watson9CGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson9CGAnalyticConfirmGradient and settle).
+		calls, ok := watson9CGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson9CGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson9CGAnalyticOutOfEvaluations)
+			return
+		}
+		if !watson9CGAnalyticFiniteVec(&r.g) {
+			r.finish(Watson9CGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson9CGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		watson9CGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson9CGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson9CGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson9CGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson9CGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson9CGAnalyticGradientSmall
+		r.stage = watson9CGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson9CGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson9CGAnalyticDerivativeCost == 0 {
+			r.finish(Watson9CGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson9CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson9CGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson9CGAnalyticDiverged)
+			return
+		}
+		watson9CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson9CGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = watson9CGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson9CGAnalyticStageJudge next when the run
+// goes on.
+func (r *watson9CGAnalyticDescent) search() {
+	watson9CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson9CGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !watson9CGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson9CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson9CGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(watson9CGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson9CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [9]float64
+	found := watson9CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson9CGAnalyticSearchOutOfBudget:
+		r.finish(Watson9CGAnalyticOutOfEvaluations)
+		return
+	case watson9CGAnalyticSearchDiverged:
+		r.finish(Watson9CGAnalyticDiverged)
+		return
+	case watson9CGAnalyticSearchExhausted, watson9CGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson9CGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson9CGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson9CGAnalyticNoDecrease
+		case found.end == watson9CGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson9CGAnalyticVerifyStall, true, watson9CGAnalyticStageJudge
+			return
+		case found.end == watson9CGAnalyticSearchTiny:
+			end = Watson9CGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson9CGAnalyticFiniteVec(&xt) {
+		r.finish(Watson9CGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson9CGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson9CGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson9CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson9CGAnalyticDifference(&r.s, &xt, &r.x)
+	watson9CGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson9CGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson9CGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = watson9CGAnalyticStageJudge
 }
 
 // watson9CGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type watson9CGAnalyticDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9CGAnalyticRoundingFloor)
 	bounds    watson9CGAnalyticBox
-}
-
-// watson9CGAnalyticCalibrate: an analytic gradient needs no intervals.
-func watson9CGAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9CGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// watson9CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9CGAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGAnalyticDifferences) int {
-	Watson9Grad(x, g)
-	return 0
 }
 
 // watson9CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func watson9CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// watson9CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func watson9CGAnalyticFinite(v float64) bool {
+	return v >= -watson9CGAnalyticLargestFinite && v <= watson9CGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson9CGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson9CGAnalyticStageJudge         // settle when asked (watson9CGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	watson9CGAnalyticStageSearch        // the line search and the gradient at the accepted point: watson9CGAnalyticIterationCalls
+	watson9CGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// watson9CGAnalyticEnterBox: without bounds every start is inside.
+func watson9CGAnalyticEnterBox(x *[9]float64, b *watson9CGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	watson9CGAnalyticVerifyNothing = iota
 	watson9CGAnalyticVerifyPass    // a difference gradient passed the test
 	watson9CGAnalyticVerifyStall   // no step makes progress
 )
+
+// watson9CGAnalyticFiniteVec reports whether every component of x is finite.
+func watson9CGAnalyticFiniteVec(x *[9]float64) bool {
+	for i := range x {
+		if !watson9CGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson9CGAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson9CGAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9CGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// watson9CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func watson9CGAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGAnalyticDifferences) int {
+	Watson9Grad(x, g)
+	return 0
+}
 
 // watson9CGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson9CGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func watson9CGAnalyticDifference(out, a, b *[9]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson9CGAnalyticUnlimited is a tick budget that never pauses a run.
+const watson9CGAnalyticUnlimited = int(^uint(0) >> 1)

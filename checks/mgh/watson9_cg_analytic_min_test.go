@@ -102,6 +102,55 @@ func TestWatson9CGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWatson9CGAnalyticSolverTicks advances a Watson9CGAnalyticSolver from the spec's start with budgets of Watson9CGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson9CGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson9CGAnalyticSolverTicks(t *testing.T) {
+	want := Watson9CGAnalytic(watson9CGAnalyticTestStart())
+	for _, budget := range []int{Watson9CGAnalyticTickMinimum, Watson9CGAnalyticTickMinimum + 1, 2 * Watson9CGAnalyticTickMinimum, 7 * Watson9CGAnalyticTickMinimum} {
+		var s Watson9CGAnalyticSolver
+		s.Start(watson9CGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson9CGAnalyticRunning {
+				if !watson9CGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson9CGAnalyticSolver
+	s.Start(watson9CGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != Watson9CGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson9CGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson9CGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s Watson9CGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson9CGAnalyticTestStart())
+		for s.Advance(Watson9CGAnalyticTickMinimum).Status == Watson9CGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson9CGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson9CGAnalyticTestSameResult(a, b Watson9CGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson9CGAnalytic measures one whole run from the spec's start.
 func BenchmarkWatson9CGAnalytic(b *testing.B) {
 	var r Watson9CGAnalyticResult

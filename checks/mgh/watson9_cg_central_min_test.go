@@ -44,6 +44,55 @@ func TestWatson9CGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWatson9CGCentralSolverTicks advances a Watson9CGCentralSolver from the spec's start with budgets of Watson9CGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson9CGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson9CGCentralSolverTicks(t *testing.T) {
+	want := Watson9CGCentral(watson9CGCentralTestStart())
+	for _, budget := range []int{Watson9CGCentralTickMinimum, Watson9CGCentralTickMinimum + 1, 2 * Watson9CGCentralTickMinimum, 7 * Watson9CGCentralTickMinimum} {
+		var s Watson9CGCentralSolver
+		s.Start(watson9CGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson9CGCentralRunning {
+				if !watson9CGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson9CGCentralSolver
+	s.Start(watson9CGCentralTestStart())
+	if r := s.Advance(0); r.Status != Watson9CGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson9CGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson9CGCentralSolverAllocatesNothing(t *testing.T) {
+	var s Watson9CGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson9CGCentralTestStart())
+		for s.Advance(Watson9CGCentralTickMinimum).Status == Watson9CGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson9CGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson9CGCentralTestSameResult(a, b Watson9CGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson9CGCentral measures one whole run from the spec's start.
 func BenchmarkWatson9CGCentral(b *testing.B) {
 	var r Watson9CGCentralResult

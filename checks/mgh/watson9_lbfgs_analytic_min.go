@@ -26,6 +26,8 @@ const (
 	Watson9LBFGSAnalyticNoDecrease
 	// Watson9LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson9LBFGSAnalyticDiverged
+	// Watson9LBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson9LBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson9LBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case Watson9LBFGSAnalyticDiverged:
 		return "diverged"
+	case Watson9LBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Watson9LBFGSAnalyticWithLimits(x0 [9]float64, limits Watson9LBFGSAnalyticLi
 	}
 }
 
+// Watson9LBFGSAnalyticTickMinimum is the smallest call budget with which every Watson9LBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const Watson9LBFGSAnalyticTickMinimum = 48
+
+// Watson9LBFGSAnalyticSolver is a run of Watson9LBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson9LBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Watson9LBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson9LBFGSAnalyticRunning ends exactly as Watson9LBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9LBFGSAnalytic and Watson9LBFGSAnalyticWithLimits use at most 5192 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
+//
+// While Status is Watson9LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson9LBFGSAnalyticSolver struct {
+	run       watson9LBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson9LBFGSAnalyticLimits  // the limits of the runs; Watson9LBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                        // whether SetLimits has set limits
+	started   bool                        // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson9LBFGSAnalyticSolver) SetLimits(limits Watson9LBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson9LBFGSAnalyticSolver) Start(x0 [9]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *Watson9LBFGSAnalyticSolver) StartFrom(from Watson9LBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson9LBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson9LBFGSAnalyticSolver) begin(x0 [9]float64) {
+	if !s.ownLimits {
+		s.limits = Watson9LBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson9LBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson9LBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson9LBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson9LBFGSAnalyticSolver) Advance(budget int) Watson9LBFGSAnalyticResult {
+	if !s.started {
+		var x0 [9]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson9LBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson9LBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson9LBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	watson9LBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson9LBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	watson9LBFGSAnalyticLbfgsMemory    = 5                      // memory
-	watson9LBFGSAnalyticStepTrials     = 48                     // step.trials
-	watson9LBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	watson9LBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson9LBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson9LBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	watson9LBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson9LBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	watson9LBFGSAnalyticLbfgsMemory     = 5                      // memory
+	watson9LBFGSAnalyticStepTrials      = 48                     // step.trials
+	watson9LBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	watson9LBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	watson9LBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	watson9LBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson9LBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson9LBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson9LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits, bounds watson9LBFGSAnalyticBox) watson9LBFGSAnalyticOutcome {
-	x := x0
-	watson9LBFGSAnalyticEnterBox(&x, &bounds)
-	out := watson9LBFGSAnalyticOutcome{x: x, status: Watson9LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson9(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson9LBFGSAnalyticFinite(fx) || !watson9LBFGSAnalyticFiniteVec(&x) {
-		out.status = Watson9LBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := watson9LBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := watson9LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson9LBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [9]float64
-	out.evaluations += watson9LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !watson9LBFGSAnalyticFiniteVec(&g) {
-		out.status = Watson9LBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir watson9LBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [9]float64
-	t, slope := float64(watson9LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                      // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from watson9LBFGSAnalyticConfirmGradient or settle
-	stalled := false                                                 // whether the run can make no more progress at x
-	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
-	verify := watson9LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson9LBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson9LBFGSAnalyticConfirmGradient and settle).
-			calls, ok := watson9LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson9LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson9LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson9LBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			watson9LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson9LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson9LBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson9LBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson9LBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = Watson9LBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson9LBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson9LBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(Watson9LBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson9LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson9LBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson9LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			watson9LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson9LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson9LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson9LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !watson9LBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson9LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson9LBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(watson9LBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson9LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson9LBFGSAnalyticSearchOutOfBudget:
-			return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case watson9LBFGSAnalyticSearchDiverged:
-			return best.ending(Watson9LBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case watson9LBFGSAnalyticSearchExhausted, watson9LBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson9LBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson9LBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson9LBFGSAnalyticNoDecrease
-			case found.end == watson9LBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = watson9LBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == watson9LBFGSAnalyticSearchTiny:
-				end = Watson9LBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson9LBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(Watson9LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson9LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson9LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson9LBFGSAnalyticDifference(&s, &xt, &x)
-		watson9LBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson9LBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson9LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson9LBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson9LBFGSAnalyticUnlimited)
 }
 
 // watson9LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o watson9LBFGSAnalyticOutcome) ending(end Watson9LBFGSAnalyticStatus, iter
 	return o
 }
 
-// watson9LBFGSAnalyticEnterBox: without bounds every start is inside.
-func watson9LBFGSAnalyticEnterBox(x *[9]float64, b *watson9LBFGSAnalyticBox) {}
-
-// watson9LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func watson9LBFGSAnalyticFinite(v float64) bool {
-	return v >= -watson9LBFGSAnalyticLargestFinite && v <= watson9LBFGSAnalyticLargestFinite
+// watson9LBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson9LBFGSAnalyticDescent struct {
+	lim       Watson9LBFGSAnalyticLimits
+	stage     int                             // what advance does next
+	diffs     watson9LBFGSAnalyticDifferences // the box and the difference intervals
+	dir       watson9LBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [9]float64                      // the point, its gradient and the gradient's error bound
+	d, s, y   [9]float64                      // the search direction, the last step and its gradient change
+	fx        float64                         // f(x)
+	t, slope  float64                         // the previous iteration's accepted step and slope
+	out, best watson9LBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                         // f(x0)
+	rises     int                             // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                            // whether g and e at x come from watson9LBFGSAnalyticConfirmGradient or settle
+	stalled   bool                            // whether the run can make no more progress at x
+	retried   int                             // the iteration whose stall was retried with recalibrated differences
+	verify    int                             // what to check at x before judging it again
 }
 
-// watson9LBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func watson9LBFGSAnalyticFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9LBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson9LBFGSAnalyticDescent) prepare(x0 [9]float64, lim Watson9LBFGSAnalyticLimits, bounds watson9LBFGSAnalyticBox) {
+	r.lim, r.stage = lim, watson9LBFGSAnalyticStageBegin
+	r.diffs = watson9LBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	watson9LBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}
+	r.out = watson9LBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: Watson9LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson9LBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson9LBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson9LBFGSAnalyticSettleCalls and watson9LBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson9LBFGSAnalyticDescent) advance(budget int) watson9LBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != watson9LBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson9LBFGSAnalyticStageBegin:
+			if left < 1+watson9LBFGSAnalyticCalibrationCost+watson9LBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson9LBFGSAnalyticStageJudge:
+			if r.verify != watson9LBFGSAnalyticVerifyNothing && left < watson9LBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson9LBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson9LBFGSAnalyticDescent) paused() watson9LBFGSAnalyticOutcome {
+	return r.best.ending(Watson9LBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson9LBFGSAnalyticDescent) finish(end Watson9LBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson9LBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson9LBFGSAnalyticDescent) begin() {
+	r.stage = watson9LBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson9LBFGSAnalyticFinite(r.fx) || !watson9LBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = Watson9LBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := watson9LBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson9LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson9LBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson9LBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = Watson9LBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson9LBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson9LBFGSAnalyticVerifyNothing
+	r.stage = watson9LBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson9LBFGSAnalyticStageSearch next when the run goes on.
+func (r *watson9LBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != watson9LBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson9LBFGSAnalyticConfirmGradient and settle).
+		calls, ok := watson9LBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson9LBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson9LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !watson9LBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(Watson9LBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson9LBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		watson9LBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson9LBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson9LBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson9LBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson9LBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson9LBFGSAnalyticGradientSmall
+		r.stage = watson9LBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson9LBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson9LBFGSAnalyticDerivativeCost == 0 {
+			r.finish(Watson9LBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson9LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson9LBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson9LBFGSAnalyticDiverged)
+			return
+		}
+		watson9LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson9LBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = watson9LBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson9LBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *watson9LBFGSAnalyticDescent) search() {
+	watson9LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson9LBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !watson9LBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson9LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson9LBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(watson9LBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson9LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [9]float64
+	found := watson9LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson9LBFGSAnalyticSearchOutOfBudget:
+		r.finish(Watson9LBFGSAnalyticOutOfEvaluations)
+		return
+	case watson9LBFGSAnalyticSearchDiverged:
+		r.finish(Watson9LBFGSAnalyticDiverged)
+		return
+	case watson9LBFGSAnalyticSearchExhausted, watson9LBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson9LBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson9LBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson9LBFGSAnalyticNoDecrease
+		case found.end == watson9LBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson9LBFGSAnalyticVerifyStall, true, watson9LBFGSAnalyticStageJudge
+			return
+		case found.end == watson9LBFGSAnalyticSearchTiny:
+			end = Watson9LBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson9LBFGSAnalyticFiniteVec(&xt) {
+		r.finish(Watson9LBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson9LBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson9LBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson9LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson9LBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	watson9LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson9LBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson9LBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = watson9LBFGSAnalyticStageJudge
 }
 
 // watson9LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type watson9LBFGSAnalyticDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSAnalyticRoundingFloor)
 	bounds    watson9LBFGSAnalyticBox
-}
-
-// watson9LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func watson9LBFGSAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9LBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// watson9LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9LBFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9LBFGSAnalyticDifferences) int {
-	Watson9Grad(x, g)
-	return 0
 }
 
 // watson9LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func watson9LBFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9LBFGSAnalyticDot(s, s))*(sy/watson9LBFGSAnalyticDot(y, y)) > watson9LBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson9LBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson9LBFGSAnalyticStageJudge         // settle when asked (watson9LBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	watson9LBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: watson9LBFGSAnalyticIterationCalls
+	watson9LBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// watson9LBFGSAnalyticEnterBox: without bounds every start is inside.
+func watson9LBFGSAnalyticEnterBox(x *[9]float64, b *watson9LBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	watson9LBFGSAnalyticVerifyNothing = iota
 	watson9LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson9LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson9LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func watson9LBFGSAnalyticFinite(v float64) bool {
+	return v >= -watson9LBFGSAnalyticLargestFinite && v <= watson9LBFGSAnalyticLargestFinite
+}
+
+// watson9LBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func watson9LBFGSAnalyticFiniteVec(x *[9]float64) bool {
+	for i := range x {
+		if !watson9LBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson9LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson9LBFGSAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// watson9LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func watson9LBFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9LBFGSAnalyticDifferences) int {
+	Watson9Grad(x, g)
+	return 0
+}
 
 // watson9LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson9LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func watson9LBFGSAnalyticDifference(out, a, b *[9]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson9LBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const watson9LBFGSAnalyticUnlimited = int(^uint(0) >> 1)

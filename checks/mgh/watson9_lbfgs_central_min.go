@@ -26,6 +26,8 @@ const (
 	Watson9LBFGSCentralNoDecrease
 	// Watson9LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	Watson9LBFGSCentralDiverged
+	// Watson9LBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	Watson9LBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s Watson9LBFGSCentralStatus) String() string {
 		return "no decrease"
 	case Watson9LBFGSCentralDiverged:
 		return "diverged"
+	case Watson9LBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func Watson9LBFGSCentralWithLimits(x0 [9]float64, limits Watson9LBFGSCentralLimi
 	}
 }
 
+// Watson9LBFGSCentralTickMinimum is the smallest call budget with which every Watson9LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 55 calls, an iteration 912, confirming a difference gradient 72).
+const Watson9LBFGSCentralTickMinimum = 912
+
+// Watson9LBFGSCentralSolver is a run of Watson9LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson9LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 55 calls, an iteration 912, confirming a difference gradient 72. A budget of at least Watson9LBFGSCentralTickMinimum = 912 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson9LBFGSCentralRunning ends exactly as Watson9LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9LBFGSCentral and Watson9LBFGSCentralWithLimits use at most 5192 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
+//
+// While Status is Watson9LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type Watson9LBFGSCentralSolver struct {
+	run       watson9LBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    Watson9LBFGSCentralLimits  // the limits of the runs; Watson9LBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                       // whether SetLimits has set limits
+	started   bool                       // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *Watson9LBFGSCentralSolver) SetLimits(limits Watson9LBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *Watson9LBFGSCentralSolver) Start(x0 [9]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *Watson9LBFGSCentralSolver) StartFrom(from Watson9LBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *Watson9LBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *Watson9LBFGSCentralSolver) begin(x0 [9]float64) {
+	if !s.ownLimits {
+		s.limits = Watson9LBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, watson9LBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status Watson9LBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See Watson9LBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *Watson9LBFGSCentralSolver) Advance(budget int) Watson9LBFGSCentralResult {
+	if !s.started {
+		var x0 [9]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return Watson9LBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Watson9LBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	watson9LBFGSCentralStepInitial    = 1.0                    // step.initial
-	watson9LBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson9LBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	watson9LBFGSCentralLbfgsMemory    = 5                      // memory
-	watson9LBFGSCentralStepTrials     = 48                     // step.trials
-	watson9LBFGSCentralDerivativeCost = 18                     // objective calls per gradient
-	watson9LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	watson9LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	watson9LBFGSCentralStepInitial     = 1.0                    // step.initial
+	watson9LBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	watson9LBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	watson9LBFGSCentralLbfgsMemory     = 5                      // memory
+	watson9LBFGSCentralStepTrials      = 48                     // step.trials
+	watson9LBFGSCentralDerivativeCost  = 18                     // objective calls per gradient
+	watson9LBFGSCentralCalibrationCost = 36                     // objective calls of choosing the difference intervals
+	watson9LBFGSCentralIterationCalls  = 912                    // most objective calls of one line search with the gradient at its step
+	watson9LBFGSCentralSettleCalls     = 72                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	watson9LBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson9LBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // watson9LBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits, bounds watson9LBFGSCentralBox) watson9LBFGSCentralOutcome {
-	x := x0
-	watson9LBFGSCentralEnterBox(&x, &bounds)
-	out := watson9LBFGSCentralOutcome{x: x, status: Watson9LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Watson9(&x)
-	out.f, out.evaluations = fx, 1
-	if !watson9LBFGSCentralFinite(fx) || !watson9LBFGSCentralFiniteVec(&x) {
-		out.status = Watson9LBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := watson9LBFGSCentralDifferences{bounds: bounds}
-	calls, ok := watson9LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+watson9LBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [9]float64
-	out.evaluations += watson9LBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !watson9LBFGSCentralFiniteVec(&g) {
-		out.status = Watson9LBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir watson9LBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [9]float64
-	t, slope := float64(watson9LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                     // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson9LBFGSCentralConfirmGradient or settle
-	stalled := false                                                // whether the run can make no more progress at x
-	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
-	verify := watson9LBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != watson9LBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see watson9LBFGSCentralConfirmGradient and settle).
-			calls, ok := watson9LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson9LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9LBFGSCentralFiniteVec(&g) {
-				return best.ending(Watson9LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = watson9LBFGSCentralVerifyNothing, true
-		case !confirmed:
-			watson9LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := watson9LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, watson9LBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * watson9LBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (watson9LBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = Watson9LBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = watson9LBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if watson9LBFGSCentralDerivativeCost == 0 {
-				return best.ending(Watson9LBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if watson9LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = watson9LBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(Watson9LBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			watson9LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(Watson9LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		watson9LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := watson9LBFGSCentralDot(&g, &d)
-		if !(now < 0) || !watson9LBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			watson9LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = watson9LBFGSCentralDot(&g, &d)
-		}
-		first := float64(watson9LBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := watson9LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case watson9LBFGSCentralSearchOutOfBudget:
-			return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case watson9LBFGSCentralSearchDiverged:
-			return best.ending(Watson9LBFGSCentralDiverged, out.iterations, out.evaluations)
-		case watson9LBFGSCentralSearchExhausted, watson9LBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see watson9LBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := Watson9LBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = Watson9LBFGSCentralNoDecrease
-			case found.end == watson9LBFGSCentralSearchTiny && canSettle:
-				verify, stalled = watson9LBFGSCentralVerifyStall, true
-				continue
-			case found.end == watson9LBFGSCentralSearchTiny:
-				end = Watson9LBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !watson9LBFGSCentralFiniteVec(&xt) {
-			return best.ending(Watson9LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+watson9LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += watson9LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		watson9LBFGSCentralDifference(&s, &xt, &x)
-		watson9LBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !watson9LBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(Watson9LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r watson9LBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(watson9LBFGSCentralUnlimited)
 }
 
 // watson9LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o watson9LBFGSCentralOutcome) ending(end Watson9LBFGSCentralStatus, iterat
 	return o
 }
 
+// watson9LBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type watson9LBFGSCentralDescent struct {
+	lim       Watson9LBFGSCentralLimits
+	stage     int                            // what advance does next
+	diffs     watson9LBFGSCentralDifferences // the box and the difference intervals
+	dir       watson9LBFGSCentralDirection   // the direction's memory
+	x, g, e   [9]float64                     // the point, its gradient and the gradient's error bound
+	d, s, y   [9]float64                     // the search direction, the last step and its gradient change
+	fx        float64                        // f(x)
+	t, slope  float64                        // the previous iteration's accepted step and slope
+	out, best watson9LBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                        // f(x0)
+	rises     int                            // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                           // whether g and e at x come from watson9LBFGSCentralConfirmGradient or settle
+	stalled   bool                           // whether the run can make no more progress at x
+	retried   int                            // the iteration whose stall was retried with recalibrated differences
+	verify    int                            // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *watson9LBFGSCentralDescent) prepare(x0 [9]float64, lim Watson9LBFGSCentralLimits, bounds watson9LBFGSCentralBox) {
+	r.lim, r.stage = lim, watson9LBFGSCentralStageBegin
+	r.diffs = watson9LBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	watson9LBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}, [9]float64{}
+	r.out = watson9LBFGSCentralOutcome{x: r.x, f: math.NaN(), status: Watson9LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *watson9LBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with Watson9LBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, watson9LBFGSCentralSettleCalls and watson9LBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *watson9LBFGSCentralDescent) advance(budget int) watson9LBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != watson9LBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case watson9LBFGSCentralStageBegin:
+			if left < 1+watson9LBFGSCentralCalibrationCost+watson9LBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case watson9LBFGSCentralStageJudge:
+			if r.verify != watson9LBFGSCentralVerifyNothing && left < watson9LBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < watson9LBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *watson9LBFGSCentralDescent) paused() watson9LBFGSCentralOutcome {
+	return r.best.ending(Watson9LBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *watson9LBFGSCentralDescent) finish(end Watson9LBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = watson9LBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *watson9LBFGSCentralDescent) begin() {
+	r.stage = watson9LBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !watson9LBFGSCentralFinite(r.fx) || !watson9LBFGSCentralFiniteVec(&r.x) {
+		r.out.status = Watson9LBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := watson9LBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+watson9LBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += watson9LBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !watson9LBFGSCentralFiniteVec(&r.g) {
+		r.out.status = Watson9LBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = watson9LBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, watson9LBFGSCentralVerifyNothing
+	r.stage = watson9LBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves watson9LBFGSCentralStageSearch next when the run goes on.
+func (r *watson9LBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != watson9LBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see watson9LBFGSCentralConfirmGradient and settle).
+		calls, ok := watson9LBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == watson9LBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(Watson9LBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !watson9LBFGSCentralFiniteVec(&r.g) {
+			r.finish(Watson9LBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = watson9LBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		watson9LBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := watson9LBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, watson9LBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * watson9LBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (watson9LBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = Watson9LBFGSCentralGradientSmall
+		r.stage = watson9LBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = watson9LBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if watson9LBFGSCentralDerivativeCost == 0 {
+			r.finish(Watson9LBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if watson9LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = watson9LBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(Watson9LBFGSCentralDiverged)
+			return
+		}
+		watson9LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(Watson9LBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = watson9LBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves watson9LBFGSCentralStageJudge next when the run
+// goes on.
+func (r *watson9LBFGSCentralDescent) search() {
+	watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := watson9LBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !watson9LBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = watson9LBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(watson9LBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := watson9LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [9]float64
+	found := watson9LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case watson9LBFGSCentralSearchOutOfBudget:
+		r.finish(Watson9LBFGSCentralOutOfEvaluations)
+		return
+	case watson9LBFGSCentralSearchDiverged:
+		r.finish(Watson9LBFGSCentralDiverged)
+		return
+	case watson9LBFGSCentralSearchExhausted, watson9LBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see watson9LBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := Watson9LBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = Watson9LBFGSCentralNoDecrease
+		case found.end == watson9LBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = watson9LBFGSCentralVerifyStall, true, watson9LBFGSCentralStageJudge
+			return
+		case found.end == watson9LBFGSCentralSearchTiny:
+			end = Watson9LBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !watson9LBFGSCentralFiniteVec(&xt) {
+		r.finish(Watson9LBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+watson9LBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(Watson9LBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += watson9LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	watson9LBFGSCentralDifference(&r.s, &xt, &r.x)
+	watson9LBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !watson9LBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(Watson9LBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = watson9LBFGSCentralStageJudge
+}
+
+// watson9LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type watson9LBFGSCentralDifferences struct {
+	ratio     [9]float64
+	curvature [9]float64
+	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSCentralRoundingFloor)
+	bounds    watson9LBFGSCentralBox
+}
+
+// watson9LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last watson9LBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, watson9LBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type watson9LBFGSCentralDirection struct {
+	s, y   [watson9LBFGSCentralLbfgsMemory][9]float64
+	rho    [watson9LBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most watson9LBFGSCentralLbfgsMemory
+}
+
+func (s *watson9LBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *watson9LBFGSCentralDirection) compute(g, d *[9]float64) {
+	var alpha [watson9LBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * watson9LBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = watson9LBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := watson9LBFGSCentralDot(&s.s[newest], &s.y[newest]) / watson9LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == watson9LBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * watson9LBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	watson9LBFGSCentralNegate(d, &q)
+}
+
+func (s *watson9LBFGSCentralDirection) update(step, change *[9]float64) {
+	if !watson9LBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == watson9LBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < watson9LBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / watson9LBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *watson9LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// watson9LBFGSCentralDot returns aᵀb.
+func watson9LBFGSCentralDot(a, b *[9]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// watson9LBFGSCentralNegate sets out = −x.
+func watson9LBFGSCentralNegate(out, x *[9]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// watson9LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func watson9LBFGSCentralCurvatureSafe(s, y *[9]float64) bool {
+	sy := watson9LBFGSCentralDot(s, y)
+	return sy > 0 && (sy/watson9LBFGSCentralDot(s, s))*(sy/watson9LBFGSCentralDot(y, y)) > watson9LBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	watson9LBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	watson9LBFGSCentralStageJudge         // settle when asked (watson9LBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	watson9LBFGSCentralStageSearch        // the line search and the gradient at the accepted point: watson9LBFGSCentralIterationCalls
+	watson9LBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // watson9LBFGSCentralEnterBox: without bounds every start is inside.
 func watson9LBFGSCentralEnterBox(x *[9]float64, b *watson9LBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	watson9LBFGSCentralVerifyNothing = iota
+	watson9LBFGSCentralVerifyPass    // a difference gradient passed the test
+	watson9LBFGSCentralVerifyStall   // no step makes progress
+)
 
 // watson9LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func watson9LBFGSCentralFiniteVec(x *[9]float64) bool {
 		}
 	}
 	return true
-}
-
-// watson9LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type watson9LBFGSCentralDifferences struct {
-	ratio     [9]float64
-	curvature [9]float64
-	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSCentralRoundingFloor)
-	bounds    watson9LBFGSCentralBox
 }
 
 // watson9LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func watson9LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float6
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// watson9LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last watson9LBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, watson9LBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type watson9LBFGSCentralDirection struct {
-	s, y   [watson9LBFGSCentralLbfgsMemory][9]float64
-	rho    [watson9LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most watson9LBFGSCentralLbfgsMemory
-}
-
-func (s *watson9LBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *watson9LBFGSCentralDirection) compute(g, d *[9]float64) {
-	var alpha [watson9LBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * watson9LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = watson9LBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := watson9LBFGSCentralDot(&s.s[newest], &s.y[newest]) / watson9LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == watson9LBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * watson9LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	watson9LBFGSCentralNegate(d, &q)
-}
-
-func (s *watson9LBFGSCentralDirection) update(step, change *[9]float64) {
-	if !watson9LBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == watson9LBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < watson9LBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / watson9LBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *watson9LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// watson9LBFGSCentralDot returns aᵀb.
-func watson9LBFGSCentralDot(a, b *[9]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// watson9LBFGSCentralNegate sets out = −x.
-func watson9LBFGSCentralNegate(out, x *[9]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// watson9LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func watson9LBFGSCentralCurvatureSafe(s, y *[9]float64) bool {
-	sy := watson9LBFGSCentralDot(s, y)
-	return sy > 0 && (sy/watson9LBFGSCentralDot(s, s))*(sy/watson9LBFGSCentralDot(y, y)) > watson9LBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	watson9LBFGSCentralVerifyNothing = iota
-	watson9LBFGSCentralVerifyPass    // a difference gradient passed the test
-	watson9LBFGSCentralVerifyStall   // no step makes progress
-)
 
 // watson9LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (watson9LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func watson9LBFGSCentralDifference(out, a, b *[9]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// watson9LBFGSCentralUnlimited is a tick budget that never pauses a run.
+const watson9LBFGSCentralUnlimited = int(^uint(0) >> 1)

@@ -44,6 +44,55 @@ func TestWatson9LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWatson9LBFGSCentralSolverTicks advances a Watson9LBFGSCentralSolver from the spec's start with budgets of Watson9LBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Watson9LBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWatson9LBFGSCentralSolverTicks(t *testing.T) {
+	want := Watson9LBFGSCentral(watson9LBFGSCentralTestStart())
+	for _, budget := range []int{Watson9LBFGSCentralTickMinimum, Watson9LBFGSCentralTickMinimum + 1, 2 * Watson9LBFGSCentralTickMinimum, 7 * Watson9LBFGSCentralTickMinimum} {
+		var s Watson9LBFGSCentralSolver
+		s.Start(watson9LBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != Watson9LBFGSCentralRunning {
+				if !watson9LBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s Watson9LBFGSCentralSolver
+	s.Start(watson9LBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != Watson9LBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWatson9LBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWatson9LBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s Watson9LBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(watson9LBFGSCentralTestStart())
+		for s.Advance(Watson9LBFGSCentralTickMinimum).Status == Watson9LBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// watson9LBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func watson9LBFGSCentralTestSameResult(a, b Watson9LBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWatson9LBFGSCentral measures one whole run from the spec's start.
 func BenchmarkWatson9LBFGSCentral(b *testing.B) {
 	var r Watson9LBFGSCentralResult

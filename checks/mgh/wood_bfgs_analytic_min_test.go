@@ -105,6 +105,55 @@ func TestWoodBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWoodBFGSAnalyticSolverTicks advances a WoodBFGSAnalyticSolver from the spec's start with budgets of WoodBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where WoodBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWoodBFGSAnalyticSolverTicks(t *testing.T) {
+	want := WoodBFGSAnalytic(woodBFGSAnalyticTestStart())
+	for _, budget := range []int{WoodBFGSAnalyticTickMinimum, WoodBFGSAnalyticTickMinimum + 1, 2 * WoodBFGSAnalyticTickMinimum, 7 * WoodBFGSAnalyticTickMinimum} {
+		var s WoodBFGSAnalyticSolver
+		s.Start(woodBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != WoodBFGSAnalyticRunning {
+				if !woodBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s WoodBFGSAnalyticSolver
+	s.Start(woodBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != WoodBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWoodBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWoodBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s WoodBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(woodBFGSAnalyticTestStart())
+		for s.Advance(WoodBFGSAnalyticTickMinimum).Status == WoodBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// woodBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func woodBFGSAnalyticTestSameResult(a, b WoodBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWoodBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkWoodBFGSAnalytic(b *testing.B) {
 	var r WoodBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	WoodBFGSCentralNoDecrease
 	// WoodBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	WoodBFGSCentralDiverged
+	// WoodBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	WoodBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s WoodBFGSCentralStatus) String() string {
 		return "no decrease"
 	case WoodBFGSCentralDiverged:
 		return "diverged"
+	case WoodBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func WoodBFGSCentralWithLimits(x0 [4]float64, limits WoodBFGSCentralLimits) Wood
 	}
 }
 
+// WoodBFGSCentralTickMinimum is the smallest call budget with which every WoodBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const WoodBFGSCentralTickMinimum = 432
+
+// WoodBFGSCentralSolver is a run of WoodBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (WoodBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least WoodBFGSCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not WoodBFGSCentralRunning ends exactly as WoodBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): WoodBFGSCentral and WoodBFGSCentralWithLimits use at most 2952 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is WoodBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type WoodBFGSCentralSolver struct {
+	run       woodBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    WoodBFGSCentralLimits  // the limits of the runs; WoodBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                   // whether SetLimits has set limits
+	started   bool                   // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *WoodBFGSCentralSolver) SetLimits(limits WoodBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *WoodBFGSCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *WoodBFGSCentralSolver) StartFrom(from WoodBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *WoodBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *WoodBFGSCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = WoodBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, woodBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status WoodBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See WoodBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *WoodBFGSCentralSolver) Advance(budget int) WoodBFGSCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return WoodBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of WoodBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	woodBFGSCentralStepInitial    = 1.0                    // step.initial
-	woodBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	woodBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	woodBFGSCentralStepTrials     = 48                     // step.trials
-	woodBFGSCentralDerivativeCost = 8                      // objective calls per gradient
-	woodBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	woodBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	woodBFGSCentralStepInitial     = 1.0                    // step.initial
+	woodBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	woodBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	woodBFGSCentralStepTrials      = 48                     // step.trials
+	woodBFGSCentralDerivativeCost  = 8                      // objective calls per gradient
+	woodBFGSCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	woodBFGSCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	woodBFGSCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	woodBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	woodBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // woodBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits, bounds woodBFGSCentralBox) woodBFGSCentralOutcome {
-	x := x0
-	woodBFGSCentralEnterBox(&x, &bounds)
-	out := woodBFGSCentralOutcome{x: x, status: WoodBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Wood(&x)
-	out.f, out.evaluations = fx, 1
-	if !woodBFGSCentralFinite(fx) || !woodBFGSCentralFiniteVec(&x) {
-		out.status = WoodBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := woodBFGSCentralDifferences{bounds: bounds}
-	calls, ok := woodBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+woodBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += woodBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !woodBFGSCentralFiniteVec(&g) {
-		out.status = WoodBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir woodBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(woodBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                 // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from woodBFGSCentralConfirmGradient or settle
-	stalled := false                                            // whether the run can make no more progress at x
-	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
-	verify := woodBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != woodBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see woodBFGSCentralConfirmGradient and settle).
-			calls, ok := woodBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == woodBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodBFGSCentralFiniteVec(&g) {
-				return best.ending(WoodBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = woodBFGSCentralVerifyNothing, true
-		case !confirmed:
-			woodBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := woodBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, woodBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * woodBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (woodBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = WoodBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = woodBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if woodBFGSCentralDerivativeCost == 0 {
-				return best.ending(WoodBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if woodBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = woodBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(WoodBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			woodBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(WoodBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		woodBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := woodBFGSCentralDot(&g, &d)
-		if !(now < 0) || !woodBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			woodBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = woodBFGSCentralDot(&g, &d)
-		}
-		first := float64(woodBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := woodBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case woodBFGSCentralSearchOutOfBudget:
-			return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case woodBFGSCentralSearchDiverged:
-			return best.ending(WoodBFGSCentralDiverged, out.iterations, out.evaluations)
-		case woodBFGSCentralSearchExhausted, woodBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see woodBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := WoodBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = WoodBFGSCentralNoDecrease
-			case found.end == woodBFGSCentralSearchTiny && canSettle:
-				verify, stalled = woodBFGSCentralVerifyStall, true
-				continue
-			case found.end == woodBFGSCentralSearchTiny:
-				end = WoodBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !woodBFGSCentralFiniteVec(&xt) {
-			return best.ending(WoodBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+woodBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += woodBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		woodBFGSCentralDifference(&s, &xt, &x)
-		woodBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !woodBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(WoodBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r woodBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(woodBFGSCentralUnlimited)
 }
 
 // woodBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o woodBFGSCentralOutcome) ending(end WoodBFGSCentralStatus, iterations, ev
 	return o
 }
 
+// woodBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type woodBFGSCentralDescent struct {
+	lim       WoodBFGSCentralLimits
+	stage     int                        // what advance does next
+	diffs     woodBFGSCentralDifferences // the box and the difference intervals
+	dir       woodBFGSCentralDirection   // the direction's memory
+	x, g, e   [4]float64                 // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                 // the search direction, the last step and its gradient change
+	fx        float64                    // f(x)
+	t, slope  float64                    // the previous iteration's accepted step and slope
+	out, best woodBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                    // f(x0)
+	rises     int                        // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                       // whether g and e at x come from woodBFGSCentralConfirmGradient or settle
+	stalled   bool                       // whether the run can make no more progress at x
+	retried   int                        // the iteration whose stall was retried with recalibrated differences
+	verify    int                        // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *woodBFGSCentralDescent) prepare(x0 [4]float64, lim WoodBFGSCentralLimits, bounds woodBFGSCentralBox) {
+	r.lim, r.stage = lim, woodBFGSCentralStageBegin
+	r.diffs = woodBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	woodBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = woodBFGSCentralOutcome{x: r.x, f: math.NaN(), status: WoodBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *woodBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with WoodBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, woodBFGSCentralSettleCalls and woodBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *woodBFGSCentralDescent) advance(budget int) woodBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != woodBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case woodBFGSCentralStageBegin:
+			if left < 1+woodBFGSCentralCalibrationCost+woodBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case woodBFGSCentralStageJudge:
+			if r.verify != woodBFGSCentralVerifyNothing && left < woodBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < woodBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *woodBFGSCentralDescent) paused() woodBFGSCentralOutcome {
+	return r.best.ending(WoodBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *woodBFGSCentralDescent) finish(end WoodBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = woodBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *woodBFGSCentralDescent) begin() {
+	r.stage = woodBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !woodBFGSCentralFinite(r.fx) || !woodBFGSCentralFiniteVec(&r.x) {
+		r.out.status = WoodBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := woodBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+woodBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += woodBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !woodBFGSCentralFiniteVec(&r.g) {
+		r.out.status = WoodBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = woodBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, woodBFGSCentralVerifyNothing
+	r.stage = woodBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves woodBFGSCentralStageSearch next when the run goes on.
+func (r *woodBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != woodBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see woodBFGSCentralConfirmGradient and settle).
+		calls, ok := woodBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == woodBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(WoodBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !woodBFGSCentralFiniteVec(&r.g) {
+			r.finish(WoodBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = woodBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		woodBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := woodBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, woodBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * woodBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (woodBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = WoodBFGSCentralGradientSmall
+		r.stage = woodBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = woodBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if woodBFGSCentralDerivativeCost == 0 {
+			r.finish(WoodBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if woodBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = woodBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(WoodBFGSCentralDiverged)
+			return
+		}
+		woodBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(WoodBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = woodBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves woodBFGSCentralStageJudge next when the run
+// goes on.
+func (r *woodBFGSCentralDescent) search() {
+	woodBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := woodBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !woodBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		woodBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = woodBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(woodBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := woodBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := woodBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case woodBFGSCentralSearchOutOfBudget:
+		r.finish(WoodBFGSCentralOutOfEvaluations)
+		return
+	case woodBFGSCentralSearchDiverged:
+		r.finish(WoodBFGSCentralDiverged)
+		return
+	case woodBFGSCentralSearchExhausted, woodBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see woodBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := WoodBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = WoodBFGSCentralNoDecrease
+		case found.end == woodBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = woodBFGSCentralVerifyStall, true, woodBFGSCentralStageJudge
+			return
+		case found.end == woodBFGSCentralSearchTiny:
+			end = WoodBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !woodBFGSCentralFiniteVec(&xt) {
+		r.finish(WoodBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+woodBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(WoodBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += woodBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	woodBFGSCentralDifference(&r.s, &xt, &r.x)
+	woodBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !woodBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(WoodBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = woodBFGSCentralStageJudge
+}
+
+// woodBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type woodBFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodBFGSCentralRoundingFloor)
+	bounds    woodBFGSCentralBox
+}
+
+// woodBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type woodBFGSCentralDirection struct {
+	h      [4][4]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *woodBFGSCentralDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *woodBFGSCentralDirection) compute(g, d *[4]float64) {
+	for i := range s.h {
+		d[i] = -woodBFGSCentralDot(&s.h[i], g)
+	}
+}
+
+func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
+	if !woodBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	sy := woodBFGSCentralDot(step, change)
+	if !s.scaled {
+		gamma := sy / woodBFGSCentralDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [4]float64
+	for i := range s.h {
+		hy[i] = woodBFGSCentralDot(&s.h[i], change)
+	}
+	outer := (rho*rho*woodBFGSCentralDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *woodBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// woodBFGSCentralDot returns aᵀb.
+func woodBFGSCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// woodBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func woodBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
+	sy := woodBFGSCentralDot(s, y)
+	return sy > 0 && (sy/woodBFGSCentralDot(s, s))*(sy/woodBFGSCentralDot(y, y)) > woodBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	woodBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	woodBFGSCentralStageJudge         // settle when asked (woodBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	woodBFGSCentralStageSearch        // the line search and the gradient at the accepted point: woodBFGSCentralIterationCalls
+	woodBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // woodBFGSCentralEnterBox: without bounds every start is inside.
 func woodBFGSCentralEnterBox(x *[4]float64, b *woodBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	woodBFGSCentralVerifyNothing = iota
+	woodBFGSCentralVerifyPass    // a difference gradient passed the test
+	woodBFGSCentralVerifyStall   // no step makes progress
+)
 
 // woodBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func woodBFGSCentralFiniteVec(x *[4]float64) bool {
 		}
 	}
 	return true
-}
-
-// woodBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type woodBFGSCentralDifferences struct {
-	ratio     [4]float64
-	curvature [4]float64
-	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodBFGSCentralRoundingFloor)
-	bounds    woodBFGSCentralBox
 }
 
 // woodBFGSCentralCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func woodBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// woodBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type woodBFGSCentralDirection struct {
-	h      [4][4]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *woodBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *woodBFGSCentralDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -woodBFGSCentralDot(&s.h[i], g)
-	}
-}
-
-func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
-	if !woodBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	sy := woodBFGSCentralDot(step, change)
-	if !s.scaled {
-		gamma := sy / woodBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [4]float64
-	for i := range s.h {
-		hy[i] = woodBFGSCentralDot(&s.h[i], change)
-	}
-	outer := (rho*rho*woodBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *woodBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// woodBFGSCentralDot returns aᵀb.
-func woodBFGSCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// woodBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func woodBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := woodBFGSCentralDot(s, y)
-	return sy > 0 && (sy/woodBFGSCentralDot(s, s))*(sy/woodBFGSCentralDot(y, y)) > woodBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	woodBFGSCentralVerifyNothing = iota
-	woodBFGSCentralVerifyPass    // a difference gradient passed the test
-	woodBFGSCentralVerifyStall   // no step makes progress
-)
 
 // woodBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (woodBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func woodBFGSCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// woodBFGSCentralUnlimited is a tick budget that never pauses a run.
+const woodBFGSCentralUnlimited = int(^uint(0) >> 1)

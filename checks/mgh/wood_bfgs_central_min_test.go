@@ -47,6 +47,55 @@ func TestWoodBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWoodBFGSCentralSolverTicks advances a WoodBFGSCentralSolver from the spec's start with budgets of WoodBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where WoodBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWoodBFGSCentralSolverTicks(t *testing.T) {
+	want := WoodBFGSCentral(woodBFGSCentralTestStart())
+	for _, budget := range []int{WoodBFGSCentralTickMinimum, WoodBFGSCentralTickMinimum + 1, 2 * WoodBFGSCentralTickMinimum, 7 * WoodBFGSCentralTickMinimum} {
+		var s WoodBFGSCentralSolver
+		s.Start(woodBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != WoodBFGSCentralRunning {
+				if !woodBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s WoodBFGSCentralSolver
+	s.Start(woodBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != WoodBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWoodBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWoodBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s WoodBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(woodBFGSCentralTestStart())
+		for s.Advance(WoodBFGSCentralTickMinimum).Status == WoodBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// woodBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func woodBFGSCentralTestSameResult(a, b WoodBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWoodBFGSCentral measures one whole run from the spec's start.
 func BenchmarkWoodBFGSCentral(b *testing.B) {
 	var r WoodBFGSCentralResult

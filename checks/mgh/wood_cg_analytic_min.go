@@ -26,6 +26,8 @@ const (
 	WoodCGAnalyticNoDecrease
 	// WoodCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	WoodCGAnalyticDiverged
+	// WoodCGAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	WoodCGAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s WoodCGAnalyticStatus) String() string {
 		return "no decrease"
 	case WoodCGAnalyticDiverged:
 		return "diverged"
+	case WoodCGAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func WoodCGAnalyticWithLimits(x0 [4]float64, limits WoodCGAnalyticLimits) WoodCG
 	}
 }
 
+// WoodCGAnalyticTickMinimum is the smallest call budget with which every WoodCGAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const WoodCGAnalyticTickMinimum = 48
+
+// WoodCGAnalyticSolver is a run of WoodCGAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (WoodCGAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least WoodCGAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not WoodCGAnalyticRunning ends exactly as WoodCGAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): WoodCGAnalytic and WoodCGAnalyticWithLimits use at most 2896 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is WoodCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type WoodCGAnalyticSolver struct {
+	run       woodCGAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    WoodCGAnalyticLimits  // the limits of the runs; WoodCGAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                  // whether SetLimits has set limits
+	started   bool                  // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *WoodCGAnalyticSolver) SetLimits(limits WoodCGAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *WoodCGAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *WoodCGAnalyticSolver) StartFrom(from WoodCGAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *WoodCGAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *WoodCGAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = WoodCGAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, woodCGAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status WoodCGAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See WoodCGAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *WoodCGAnalyticSolver) Advance(budget int) WoodCGAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return WoodCGAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of WoodCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	woodCGAnalyticStepInitial    = 1.0                    // step.initial
-	woodCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	woodCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	woodCGAnalyticStepTrials     = 48                     // step.trials
-	woodCGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	woodCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	woodCGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	woodCGAnalyticStepInitial     = 1.0                    // step.initial
+	woodCGAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	woodCGAnalyticStepCurvature   = 0.1                    // step.curvature (c2)
+	woodCGAnalyticStepTrials      = 48                     // step.trials
+	woodCGAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	woodCGAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	woodCGAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	woodCGAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	woodCGAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	woodCGAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // woodCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits, bounds woodCGAnalyticBox) woodCGAnalyticOutcome {
-	x := x0
-	woodCGAnalyticEnterBox(&x, &bounds)
-	out := woodCGAnalyticOutcome{x: x, status: WoodCGAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Wood(&x)
-	out.f, out.evaluations = fx, 1
-	if !woodCGAnalyticFinite(fx) || !woodCGAnalyticFiniteVec(&x) {
-		out.status = WoodCGAnalyticNonFiniteStart
-		return out
-	}
-	diffs := woodCGAnalyticDifferences{bounds: bounds}
-	calls, ok := woodCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+woodCGAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += woodCGAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !woodCGAnalyticFiniteVec(&g) {
-		out.status = WoodCGAnalyticNonFiniteGradient
-		return out
-	}
-	var dir woodCGAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(woodCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                         // whether g and e at x come from woodCGAnalyticConfirmGradient or settle
-	stalled := false                                           // whether the run can make no more progress at x
-	retried := -1                                              // the iteration whose stall was retried with recalibrated differences
-	verify := woodCGAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != woodCGAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see woodCGAnalyticConfirmGradient and settle).
-			calls, ok := woodCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == woodCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodCGAnalyticFiniteVec(&g) {
-				return best.ending(WoodCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = woodCGAnalyticVerifyNothing, true
-		case !confirmed:
-			woodCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := woodCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, woodCGAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * woodCGAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (woodCGAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = WoodCGAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = woodCGAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if woodCGAnalyticDerivativeCost == 0 {
-				return best.ending(WoodCGAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if woodCGAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = woodCGAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(WoodCGAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			woodCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(WoodCGAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		woodCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := woodCGAnalyticDot(&g, &d)
-		if !(now < 0) || !woodCGAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			woodCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = woodCGAnalyticDot(&g, &d)
-		}
-		first := float64(woodCGAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := woodCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case woodCGAnalyticSearchOutOfBudget:
-			return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case woodCGAnalyticSearchDiverged:
-			return best.ending(WoodCGAnalyticDiverged, out.iterations, out.evaluations)
-		case woodCGAnalyticSearchExhausted, woodCGAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see woodCGAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := WoodCGAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = WoodCGAnalyticNoDecrease
-			case found.end == woodCGAnalyticSearchTiny && canSettle:
-				verify, stalled = woodCGAnalyticVerifyStall, true
-				continue
-			case found.end == woodCGAnalyticSearchTiny:
-				end = WoodCGAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !woodCGAnalyticFiniteVec(&xt) {
-			return best.ending(WoodCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+woodCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += woodCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		woodCGAnalyticDifference(&s, &xt, &x)
-		woodCGAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !woodCGAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(WoodCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r woodCGAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(woodCGAnalyticUnlimited)
 }
 
 // woodCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o woodCGAnalyticOutcome) ending(end WoodCGAnalyticStatus, iterations, eval
 	return o
 }
 
-// woodCGAnalyticEnterBox: without bounds every start is inside.
-func woodCGAnalyticEnterBox(x *[4]float64, b *woodCGAnalyticBox) {}
-
-// woodCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func woodCGAnalyticFinite(v float64) bool {
-	return v >= -woodCGAnalyticLargestFinite && v <= woodCGAnalyticLargestFinite
+// woodCGAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type woodCGAnalyticDescent struct {
+	lim       WoodCGAnalyticLimits
+	stage     int                       // what advance does next
+	diffs     woodCGAnalyticDifferences // the box and the difference intervals
+	dir       woodCGAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                // the search direction, the last step and its gradient change
+	fx        float64                   // f(x)
+	t, slope  float64                   // the previous iteration's accepted step and slope
+	out, best woodCGAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                   // f(x0)
+	rises     int                       // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                      // whether g and e at x come from woodCGAnalyticConfirmGradient or settle
+	stalled   bool                      // whether the run can make no more progress at x
+	retried   int                       // the iteration whose stall was retried with recalibrated differences
+	verify    int                       // what to check at x before judging it again
 }
 
-// woodCGAnalyticFiniteVec reports whether every component of x is finite.
-func woodCGAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !woodCGAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *woodCGAnalyticDescent) prepare(x0 [4]float64, lim WoodCGAnalyticLimits, bounds woodCGAnalyticBox) {
+	r.lim, r.stage = lim, woodCGAnalyticStageBegin
+	r.diffs = woodCGAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	woodCGAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = woodCGAnalyticOutcome{x: r.x, f: math.NaN(), status: WoodCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *woodCGAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with WoodCGAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, woodCGAnalyticSettleCalls and woodCGAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *woodCGAnalyticDescent) advance(budget int) woodCGAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != woodCGAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case woodCGAnalyticStageBegin:
+			if left < 1+woodCGAnalyticCalibrationCost+woodCGAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case woodCGAnalyticStageJudge:
+			if r.verify != woodCGAnalyticVerifyNothing && left < woodCGAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < woodCGAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *woodCGAnalyticDescent) paused() woodCGAnalyticOutcome {
+	return r.best.ending(WoodCGAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *woodCGAnalyticDescent) finish(end WoodCGAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = woodCGAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *woodCGAnalyticDescent) begin() {
+	r.stage = woodCGAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !woodCGAnalyticFinite(r.fx) || !woodCGAnalyticFiniteVec(&r.x) {
+		r.out.status = WoodCGAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := woodCGAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+woodCGAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += woodCGAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !woodCGAnalyticFiniteVec(&r.g) {
+		r.out.status = WoodCGAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = woodCGAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, woodCGAnalyticVerifyNothing
+	r.stage = woodCGAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves woodCGAnalyticStageSearch next when the run goes on.
+func (r *woodCGAnalyticDescent) judge() {
+	switch {
+	case r.verify != woodCGAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see woodCGAnalyticConfirmGradient and settle).
+		calls, ok := woodCGAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == woodCGAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(WoodCGAnalyticOutOfEvaluations)
+			return
+		}
+		if !woodCGAnalyticFiniteVec(&r.g) {
+			r.finish(WoodCGAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = woodCGAnalyticVerifyNothing, true
+	case !r.confirmed:
+		woodCGAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := woodCGAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, woodCGAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * woodCGAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (woodCGAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = WoodCGAnalyticGradientSmall
+		r.stage = woodCGAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = woodCGAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if woodCGAnalyticDerivativeCost == 0 {
+			r.finish(WoodCGAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if woodCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = woodCGAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(WoodCGAnalyticDiverged)
+			return
+		}
+		woodCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(WoodCGAnalyticOutOfIterations)
+		return
+	}
+	r.stage = woodCGAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves woodCGAnalyticStageJudge next when the run
+// goes on.
+func (r *woodCGAnalyticDescent) search() {
+	woodCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := woodCGAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !woodCGAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		woodCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = woodCGAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(woodCGAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := woodCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := woodCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case woodCGAnalyticSearchOutOfBudget:
+		r.finish(WoodCGAnalyticOutOfEvaluations)
+		return
+	case woodCGAnalyticSearchDiverged:
+		r.finish(WoodCGAnalyticDiverged)
+		return
+	case woodCGAnalyticSearchExhausted, woodCGAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see woodCGAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := WoodCGAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = WoodCGAnalyticNoDecrease
+		case found.end == woodCGAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = woodCGAnalyticVerifyStall, true, woodCGAnalyticStageJudge
+			return
+		case found.end == woodCGAnalyticSearchTiny:
+			end = WoodCGAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !woodCGAnalyticFiniteVec(&xt) {
+		r.finish(WoodCGAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+woodCGAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(WoodCGAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += woodCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	woodCGAnalyticDifference(&r.s, &xt, &r.x)
+	woodCGAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !woodCGAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(WoodCGAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = woodCGAnalyticStageJudge
 }
 
 // woodCGAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type woodCGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodCGAnalyticRoundingFloor)
 	bounds    woodCGAnalyticBox
-}
-
-// woodCGAnalyticCalibrate: an analytic gradient needs no intervals.
-func woodCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodCGAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// woodCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func woodCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodCGAnalyticDifferences) int {
-	WoodGrad(x, g)
-	return 0
 }
 
 // woodCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -479,12 +628,57 @@ func woodCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
+// woodCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func woodCGAnalyticFinite(v float64) bool {
+	return v >= -woodCGAnalyticLargestFinite && v <= woodCGAnalyticLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	woodCGAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	woodCGAnalyticStageJudge         // settle when asked (woodCGAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	woodCGAnalyticStageSearch        // the line search and the gradient at the accepted point: woodCGAnalyticIterationCalls
+	woodCGAnalyticStageOver          // the run has ended; out is its result
+)
+
+// woodCGAnalyticEnterBox: without bounds every start is inside.
+func woodCGAnalyticEnterBox(x *[4]float64, b *woodCGAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	woodCGAnalyticVerifyNothing = iota
 	woodCGAnalyticVerifyPass    // a difference gradient passed the test
 	woodCGAnalyticVerifyStall   // no step makes progress
 )
+
+// woodCGAnalyticFiniteVec reports whether every component of x is finite.
+func woodCGAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !woodCGAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// woodCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func woodCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// woodCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func woodCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodCGAnalyticDifferences) int {
+	WoodGrad(x, g)
+	return 0
+}
 
 // woodCGAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (woodCGAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -982,3 +1176,6 @@ func woodCGAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// woodCGAnalyticUnlimited is a tick budget that never pauses a run.
+const woodCGAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestWoodCGAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWoodCGAnalyticSolverTicks advances a WoodCGAnalyticSolver from the spec's start with budgets of WoodCGAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where WoodCGAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWoodCGAnalyticSolverTicks(t *testing.T) {
+	want := WoodCGAnalytic(woodCGAnalyticTestStart())
+	for _, budget := range []int{WoodCGAnalyticTickMinimum, WoodCGAnalyticTickMinimum + 1, 2 * WoodCGAnalyticTickMinimum, 7 * WoodCGAnalyticTickMinimum} {
+		var s WoodCGAnalyticSolver
+		s.Start(woodCGAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != WoodCGAnalyticRunning {
+				if !woodCGAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s WoodCGAnalyticSolver
+	s.Start(woodCGAnalyticTestStart())
+	if r := s.Advance(0); r.Status != WoodCGAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWoodCGAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWoodCGAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s WoodCGAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(woodCGAnalyticTestStart())
+		for s.Advance(WoodCGAnalyticTickMinimum).Status == WoodCGAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// woodCGAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func woodCGAnalyticTestSameResult(a, b WoodCGAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWoodCGAnalytic measures one whole run from the spec's start.
 func BenchmarkWoodCGAnalytic(b *testing.B) {
 	var r WoodCGAnalyticResult

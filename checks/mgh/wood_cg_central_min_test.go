@@ -47,6 +47,55 @@ func TestWoodCGCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWoodCGCentralSolverTicks advances a WoodCGCentralSolver from the spec's start with budgets of WoodCGCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where WoodCGCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWoodCGCentralSolverTicks(t *testing.T) {
+	want := WoodCGCentral(woodCGCentralTestStart())
+	for _, budget := range []int{WoodCGCentralTickMinimum, WoodCGCentralTickMinimum + 1, 2 * WoodCGCentralTickMinimum, 7 * WoodCGCentralTickMinimum} {
+		var s WoodCGCentralSolver
+		s.Start(woodCGCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != WoodCGCentralRunning {
+				if !woodCGCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s WoodCGCentralSolver
+	s.Start(woodCGCentralTestStart())
+	if r := s.Advance(0); r.Status != WoodCGCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWoodCGCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWoodCGCentralSolverAllocatesNothing(t *testing.T) {
+	var s WoodCGCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(woodCGCentralTestStart())
+		for s.Advance(WoodCGCentralTickMinimum).Status == WoodCGCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// woodCGCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func woodCGCentralTestSameResult(a, b WoodCGCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWoodCGCentral measures one whole run from the spec's start.
 func BenchmarkWoodCGCentral(b *testing.B) {
 	var r WoodCGCentralResult

@@ -26,6 +26,8 @@ const (
 	WoodLBFGSAnalyticNoDecrease
 	// WoodLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	WoodLBFGSAnalyticDiverged
+	// WoodLBFGSAnalyticRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	WoodLBFGSAnalyticRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s WoodLBFGSAnalyticStatus) String() string {
 		return "no decrease"
 	case WoodLBFGSAnalyticDiverged:
 		return "diverged"
+	case WoodLBFGSAnalyticRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func WoodLBFGSAnalyticWithLimits(x0 [4]float64, limits WoodLBFGSAnalyticLimits) 
 	}
 }
 
+// WoodLBFGSAnalyticTickMinimum is the smallest call budget with which every WoodLBFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const WoodLBFGSAnalyticTickMinimum = 48
+
+// WoodLBFGSAnalyticSolver is a run of WoodLBFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (WoodLBFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least WoodLBFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not WoodLBFGSAnalyticRunning ends exactly as WoodLBFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): WoodLBFGSAnalytic and WoodLBFGSAnalyticWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is WoodLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type WoodLBFGSAnalyticSolver struct {
+	run       woodLBFGSAnalyticDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    WoodLBFGSAnalyticLimits  // the limits of the runs; WoodLBFGSAnalyticDefaultLimits() until SetLimits
+	ownLimits bool                     // whether SetLimits has set limits
+	started   bool                     // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *WoodLBFGSAnalyticSolver) SetLimits(limits WoodLBFGSAnalyticLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *WoodLBFGSAnalyticSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *WoodLBFGSAnalyticSolver) StartFrom(from WoodLBFGSAnalyticResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *WoodLBFGSAnalyticSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *WoodLBFGSAnalyticSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = WoodLBFGSAnalyticDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, woodLBFGSAnalyticBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status WoodLBFGSAnalyticRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See WoodLBFGSAnalyticSolver for the budget rule and what advancing assumes of the objective.
+func (s *WoodLBFGSAnalyticSolver) Advance(budget int) WoodLBFGSAnalyticResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return WoodLBFGSAnalyticResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of WoodLBFGSAnalytic from mgh.toml; the kernels below read them.
 const (
-	woodLBFGSAnalyticStepInitial    = 1.0                    // step.initial
-	woodLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	woodLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	woodLBFGSAnalyticLbfgsMemory    = 5                      // memory
-	woodLBFGSAnalyticStepTrials     = 48                     // step.trials
-	woodLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
-	woodLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	woodLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	woodLBFGSAnalyticStepInitial     = 1.0                    // step.initial
+	woodLBFGSAnalyticStepDecrease    = 0.0001                 // step.decrease (c1)
+	woodLBFGSAnalyticStepCurvature   = 0.9                    // step.curvature (c2)
+	woodLBFGSAnalyticLbfgsMemory     = 5                      // memory
+	woodLBFGSAnalyticStepTrials      = 48                     // step.trials
+	woodLBFGSAnalyticDerivativeCost  = 0                      // objective calls per gradient
+	woodLBFGSAnalyticCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	woodLBFGSAnalyticIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	woodLBFGSAnalyticSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	woodLBFGSAnalyticUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	woodLBFGSAnalyticLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // woodLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits, bounds woodLBFGSAnalyticBox) woodLBFGSAnalyticOutcome {
-	x := x0
-	woodLBFGSAnalyticEnterBox(&x, &bounds)
-	out := woodLBFGSAnalyticOutcome{x: x, status: WoodLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Wood(&x)
-	out.f, out.evaluations = fx, 1
-	if !woodLBFGSAnalyticFinite(fx) || !woodLBFGSAnalyticFiniteVec(&x) {
-		out.status = WoodLBFGSAnalyticNonFiniteStart
-		return out
-	}
-	diffs := woodLBFGSAnalyticDifferences{bounds: bounds}
-	calls, ok := woodLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+woodLBFGSAnalyticDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += woodLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-
-	if !woodLBFGSAnalyticFiniteVec(&g) {
-		out.status = WoodLBFGSAnalyticNonFiniteGradient
-		return out
-	}
-	var dir woodLBFGSAnalyticDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(woodLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                   // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from woodLBFGSAnalyticConfirmGradient or settle
-	stalled := false                                              // whether the run can make no more progress at x
-	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
-	verify := woodLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != woodLBFGSAnalyticVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see woodLBFGSAnalyticConfirmGradient and settle).
-			calls, ok := woodLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == woodLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(WoodLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = woodLBFGSAnalyticVerifyNothing, true
-		case !confirmed:
-			woodLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := woodLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, woodLBFGSAnalyticLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * woodLBFGSAnalyticLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (woodLBFGSAnalyticDerivativeCost == 0 || confirmed) {
-			out.status = WoodLBFGSAnalyticGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = woodLBFGSAnalyticVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if woodLBFGSAnalyticDerivativeCost == 0 {
-				return best.ending(WoodLBFGSAnalyticStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if woodLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				verify, stalled = woodLBFGSAnalyticVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(WoodLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-			}
-			woodLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(WoodLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
-		}
-		woodLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := woodLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) || !woodLBFGSAnalyticFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			woodLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = woodLBFGSAnalyticDot(&g, &d)
-		}
-		first := float64(woodLBFGSAnalyticStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := woodLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case woodLBFGSAnalyticSearchOutOfBudget:
-			return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-		case woodLBFGSAnalyticSearchDiverged:
-			return best.ending(WoodLBFGSAnalyticDiverged, out.iterations, out.evaluations)
-		case woodLBFGSAnalyticSearchExhausted, woodLBFGSAnalyticSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see woodLBFGSAnalyticRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := WoodLBFGSAnalyticNoAcceptableStep
-			switch {
-			case found.rising:
-				end = WoodLBFGSAnalyticNoDecrease
-			case found.end == woodLBFGSAnalyticSearchTiny && canSettle:
-				verify, stalled = woodLBFGSAnalyticVerifyStall, true
-				continue
-			case found.end == woodLBFGSAnalyticSearchTiny:
-				end = WoodLBFGSAnalyticStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !woodLBFGSAnalyticFiniteVec(&xt) {
-			return best.ending(WoodLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+woodLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += woodLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		woodLBFGSAnalyticDifference(&s, &xt, &x)
-		woodLBFGSAnalyticDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !woodLBFGSAnalyticFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(WoodLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r woodLBFGSAnalyticDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(woodLBFGSAnalyticUnlimited)
 }
 
 // woodLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o woodLBFGSAnalyticOutcome) ending(end WoodLBFGSAnalyticStatus, iterations
 	return o
 }
 
-// woodLBFGSAnalyticEnterBox: without bounds every start is inside.
-func woodLBFGSAnalyticEnterBox(x *[4]float64, b *woodLBFGSAnalyticBox) {}
-
-// woodLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func woodLBFGSAnalyticFinite(v float64) bool {
-	return v >= -woodLBFGSAnalyticLargestFinite && v <= woodLBFGSAnalyticLargestFinite
+// woodLBFGSAnalyticDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type woodLBFGSAnalyticDescent struct {
+	lim       WoodLBFGSAnalyticLimits
+	stage     int                          // what advance does next
+	diffs     woodLBFGSAnalyticDifferences // the box and the difference intervals
+	dir       woodLBFGSAnalyticDirection   // the direction's memory
+	x, g, e   [4]float64                   // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                   // the search direction, the last step and its gradient change
+	fx        float64                      // f(x)
+	t, slope  float64                      // the previous iteration's accepted step and slope
+	out, best woodLBFGSAnalyticOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                      // f(x0)
+	rises     int                          // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                         // whether g and e at x come from woodLBFGSAnalyticConfirmGradient or settle
+	stalled   bool                         // whether the run can make no more progress at x
+	retried   int                          // the iteration whose stall was retried with recalibrated differences
+	verify    int                          // what to check at x before judging it again
 }
 
-// woodLBFGSAnalyticFiniteVec reports whether every component of x is finite.
-func woodLBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !woodLBFGSAnalyticFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *woodLBFGSAnalyticDescent) prepare(x0 [4]float64, lim WoodLBFGSAnalyticLimits, bounds woodLBFGSAnalyticBox) {
+	r.lim, r.stage = lim, woodLBFGSAnalyticStageBegin
+	r.diffs = woodLBFGSAnalyticDifferences{bounds: bounds}
+	r.x = x0
+	woodLBFGSAnalyticEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = woodLBFGSAnalyticOutcome{x: r.x, f: math.NaN(), status: WoodLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *woodLBFGSAnalyticDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with WoodLBFGSAnalyticRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, woodLBFGSAnalyticSettleCalls and woodLBFGSAnalyticIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *woodLBFGSAnalyticDescent) advance(budget int) woodLBFGSAnalyticOutcome {
+	used := r.out.evaluations
+	for r.stage != woodLBFGSAnalyticStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case woodLBFGSAnalyticStageBegin:
+			if left < 1+woodLBFGSAnalyticCalibrationCost+woodLBFGSAnalyticDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case woodLBFGSAnalyticStageJudge:
+			if r.verify != woodLBFGSAnalyticVerifyNothing && left < woodLBFGSAnalyticSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < woodLBFGSAnalyticIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *woodLBFGSAnalyticDescent) paused() woodLBFGSAnalyticOutcome {
+	return r.best.ending(WoodLBFGSAnalyticRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *woodLBFGSAnalyticDescent) finish(end WoodLBFGSAnalyticStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = woodLBFGSAnalyticStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *woodLBFGSAnalyticDescent) begin() {
+	r.stage = woodLBFGSAnalyticStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !woodLBFGSAnalyticFinite(r.fx) || !woodLBFGSAnalyticFiniteVec(&r.x) {
+		r.out.status = WoodLBFGSAnalyticNonFiniteStart
+		return
+	}
+	calls, ok := woodLBFGSAnalyticCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+woodLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += woodLBFGSAnalyticDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !woodLBFGSAnalyticFiniteVec(&r.g) {
+		r.out.status = WoodLBFGSAnalyticNonFiniteGradient
+		return
+	}
+	r.t, r.slope = woodLBFGSAnalyticStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, woodLBFGSAnalyticVerifyNothing
+	r.stage = woodLBFGSAnalyticStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves woodLBFGSAnalyticStageSearch next when the run goes on.
+func (r *woodLBFGSAnalyticDescent) judge() {
+	switch {
+	case r.verify != woodLBFGSAnalyticVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see woodLBFGSAnalyticConfirmGradient and settle).
+		calls, ok := woodLBFGSAnalyticSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == woodLBFGSAnalyticVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(WoodLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		if !woodLBFGSAnalyticFiniteVec(&r.g) {
+			r.finish(WoodLBFGSAnalyticNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = woodLBFGSAnalyticVerifyNothing, true
+	case !r.confirmed:
+		woodLBFGSAnalyticGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := woodLBFGSAnalyticStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, woodLBFGSAnalyticLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * woodLBFGSAnalyticLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (woodLBFGSAnalyticDerivativeCost == 0 || r.confirmed) {
+		r.out.status = WoodLBFGSAnalyticGradientSmall
+		r.stage = woodLBFGSAnalyticStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = woodLBFGSAnalyticVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if woodLBFGSAnalyticDerivativeCost == 0 {
+			r.finish(WoodLBFGSAnalyticStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if woodLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = woodLBFGSAnalyticVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(WoodLBFGSAnalyticDiverged)
+			return
+		}
+		woodLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(WoodLBFGSAnalyticOutOfIterations)
+		return
+	}
+	r.stage = woodLBFGSAnalyticStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves woodLBFGSAnalyticStageJudge next when the run
+// goes on.
+func (r *woodLBFGSAnalyticDescent) search() {
+	woodLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := woodLBFGSAnalyticDot(&r.g, &r.d)
+	if !(now < 0) || !woodLBFGSAnalyticFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		woodLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = woodLBFGSAnalyticDot(&r.g, &r.d)
+	}
+	first := float64(woodLBFGSAnalyticStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := woodLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := woodLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case woodLBFGSAnalyticSearchOutOfBudget:
+		r.finish(WoodLBFGSAnalyticOutOfEvaluations)
+		return
+	case woodLBFGSAnalyticSearchDiverged:
+		r.finish(WoodLBFGSAnalyticDiverged)
+		return
+	case woodLBFGSAnalyticSearchExhausted, woodLBFGSAnalyticSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see woodLBFGSAnalyticRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := WoodLBFGSAnalyticNoAcceptableStep
+		switch {
+		case found.rising:
+			end = WoodLBFGSAnalyticNoDecrease
+		case found.end == woodLBFGSAnalyticSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = woodLBFGSAnalyticVerifyStall, true, woodLBFGSAnalyticStageJudge
+			return
+		case found.end == woodLBFGSAnalyticSearchTiny:
+			end = WoodLBFGSAnalyticStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !woodLBFGSAnalyticFiniteVec(&xt) {
+		r.finish(WoodLBFGSAnalyticNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+woodLBFGSAnalyticDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(WoodLBFGSAnalyticOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += woodLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	woodLBFGSAnalyticDifference(&r.s, &xt, &r.x)
+	woodLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !woodLBFGSAnalyticFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(WoodLBFGSAnalyticNonFiniteGradient)
+		return
+	}
+	r.stage = woodLBFGSAnalyticStageJudge
 }
 
 // woodLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type woodLBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSAnalyticRoundingFloor)
 	bounds    woodLBFGSAnalyticBox
-}
-
-// woodLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
-func woodLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodLBFGSAnalyticDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// woodLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func woodLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodLBFGSAnalyticDifferences) int {
-	WoodGrad(x, g)
-	return 0
 }
 
 // woodLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func woodLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodLBFGSAnalyticDot(s, s))*(sy/woodLBFGSAnalyticDot(y, y)) > woodLBFGSAnalyticUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	woodLBFGSAnalyticStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	woodLBFGSAnalyticStageJudge         // settle when asked (woodLBFGSAnalyticSettleCalls), judge x, learn from the step: no calls otherwise
+	woodLBFGSAnalyticStageSearch        // the line search and the gradient at the accepted point: woodLBFGSAnalyticIterationCalls
+	woodLBFGSAnalyticStageOver          // the run has ended; out is its result
+)
+
+// woodLBFGSAnalyticEnterBox: without bounds every start is inside.
+func woodLBFGSAnalyticEnterBox(x *[4]float64, b *woodLBFGSAnalyticBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	woodLBFGSAnalyticVerifyNothing = iota
 	woodLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	woodLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// woodLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func woodLBFGSAnalyticFinite(v float64) bool {
+	return v >= -woodLBFGSAnalyticLargestFinite && v <= woodLBFGSAnalyticLargestFinite
+}
+
+// woodLBFGSAnalyticFiniteVec reports whether every component of x is finite.
+func woodLBFGSAnalyticFiniteVec(x *[4]float64) bool {
+	for i := range x {
+		if !woodLBFGSAnalyticFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// woodLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func woodLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// woodLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
+func woodLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodLBFGSAnalyticDifferences) int {
+	WoodGrad(x, g)
+	return 0
+}
 
 // woodLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
 // gradient (woodLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func woodLBFGSAnalyticDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// woodLBFGSAnalyticUnlimited is a tick budget that never pauses a run.
+const woodLBFGSAnalyticUnlimited = int(^uint(0) >> 1)

@@ -105,6 +105,55 @@ func TestWoodLBFGSAnalyticGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestWoodLBFGSAnalyticSolverTicks advances a WoodLBFGSAnalyticSolver from the spec's start with budgets of WoodLBFGSAnalyticTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where WoodLBFGSAnalytic's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWoodLBFGSAnalyticSolverTicks(t *testing.T) {
+	want := WoodLBFGSAnalytic(woodLBFGSAnalyticTestStart())
+	for _, budget := range []int{WoodLBFGSAnalyticTickMinimum, WoodLBFGSAnalyticTickMinimum + 1, 2 * WoodLBFGSAnalyticTickMinimum, 7 * WoodLBFGSAnalyticTickMinimum} {
+		var s WoodLBFGSAnalyticSolver
+		s.Start(woodLBFGSAnalyticTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != WoodLBFGSAnalyticRunning {
+				if !woodLBFGSAnalyticTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s WoodLBFGSAnalyticSolver
+	s.Start(woodLBFGSAnalyticTestStart())
+	if r := s.Advance(0); r.Status != WoodLBFGSAnalyticRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWoodLBFGSAnalyticSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWoodLBFGSAnalyticSolverAllocatesNothing(t *testing.T) {
+	var s WoodLBFGSAnalyticSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(woodLBFGSAnalyticTestStart())
+		for s.Advance(WoodLBFGSAnalyticTickMinimum).Status == WoodLBFGSAnalyticRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// woodLBFGSAnalyticTestSameResult reports whether two results are the same, NaN matching NaN.
+func woodLBFGSAnalyticTestSameResult(a, b WoodLBFGSAnalyticResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWoodLBFGSAnalytic measures one whole run from the spec's start.
 func BenchmarkWoodLBFGSAnalytic(b *testing.B) {
 	var r WoodLBFGSAnalyticResult

@@ -26,6 +26,8 @@ const (
 	WoodLBFGSCentralNoDecrease
 	// WoodLBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	WoodLBFGSCentralDiverged
+	// WoodLBFGSCentralRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	WoodLBFGSCentralRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s WoodLBFGSCentralStatus) String() string {
 		return "no decrease"
 	case WoodLBFGSCentralDiverged:
 		return "diverged"
+	case WoodLBFGSCentralRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func WoodLBFGSCentralWithLimits(x0 [4]float64, limits WoodLBFGSCentralLimits) Wo
 	}
 }
 
+// WoodLBFGSCentralTickMinimum is the smallest call budget with which every WoodLBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 25 calls, an iteration 432, confirming a difference gradient 32).
+const WoodLBFGSCentralTickMinimum = 432
+
+// WoodLBFGSCentralSolver is a run of WoodLBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (WoodLBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 25 calls, an iteration 432, confirming a difference gradient 32. A budget of at least WoodLBFGSCentralTickMinimum = 432 progresses at every Advance; a smaller one may make no call. Advancing until the status is not WoodLBFGSCentralRunning ends exactly as WoodLBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): WoodLBFGSCentral and WoodLBFGSCentralWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+//
+// While Status is WoodLBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type WoodLBFGSCentralSolver struct {
+	run       woodLBFGSCentralDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    WoodLBFGSCentralLimits  // the limits of the runs; WoodLBFGSCentralDefaultLimits() until SetLimits
+	ownLimits bool                    // whether SetLimits has set limits
+	started   bool                    // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *WoodLBFGSCentralSolver) SetLimits(limits WoodLBFGSCentralLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *WoodLBFGSCentralSolver) Start(x0 [4]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *WoodLBFGSCentralSolver) StartFrom(from WoodLBFGSCentralResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *WoodLBFGSCentralSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *WoodLBFGSCentralSolver) begin(x0 [4]float64) {
+	if !s.ownLimits {
+		s.limits = WoodLBFGSCentralDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, woodLBFGSCentralBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status WoodLBFGSCentralRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See WoodLBFGSCentralSolver for the budget rule and what advancing assumes of the objective.
+func (s *WoodLBFGSCentralSolver) Advance(budget int) WoodLBFGSCentralResult {
+	if !s.started {
+		var x0 [4]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return WoodLBFGSCentralResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of WoodLBFGSCentral from mgh.toml; the kernels below read them.
 const (
-	woodLBFGSCentralStepInitial    = 1.0                    // step.initial
-	woodLBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
-	woodLBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	woodLBFGSCentralLbfgsMemory    = 5                      // memory
-	woodLBFGSCentralStepTrials     = 48                     // step.trials
-	woodLBFGSCentralDerivativeCost = 8                      // objective calls per gradient
-	woodLBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	woodLBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	woodLBFGSCentralStepInitial     = 1.0                    // step.initial
+	woodLBFGSCentralStepDecrease    = 0.0001                 // step.decrease (c1)
+	woodLBFGSCentralStepCurvature   = 0.9                    // step.curvature (c2)
+	woodLBFGSCentralLbfgsMemory     = 5                      // memory
+	woodLBFGSCentralStepTrials      = 48                     // step.trials
+	woodLBFGSCentralDerivativeCost  = 8                      // objective calls per gradient
+	woodLBFGSCentralCalibrationCost = 16                     // objective calls of choosing the difference intervals
+	woodLBFGSCentralIterationCalls  = 432                    // most objective calls of one line search with the gradient at its step
+	woodLBFGSCentralSettleCalls     = 32                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	woodLBFGSCentralUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	woodLBFGSCentralLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // woodLBFGSCentralMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits, bounds woodLBFGSCentralBox) woodLBFGSCentralOutcome {
-	x := x0
-	woodLBFGSCentralEnterBox(&x, &bounds)
-	out := woodLBFGSCentralOutcome{x: x, status: WoodLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Wood(&x)
-	out.f, out.evaluations = fx, 1
-	if !woodLBFGSCentralFinite(fx) || !woodLBFGSCentralFiniteVec(&x) {
-		out.status = WoodLBFGSCentralNonFiniteStart
-		return out
-	}
-	diffs := woodLBFGSCentralDifferences{bounds: bounds}
-	calls, ok := woodLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+woodLBFGSCentralDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [4]float64
-	out.evaluations += woodLBFGSCentralDerivative(&x, fx, &g, &diffs)
-
-	if !woodLBFGSCentralFiniteVec(&g) {
-		out.status = WoodLBFGSCentralNonFiniteGradient
-		return out
-	}
-	var dir woodLBFGSCentralDirection
-	dir.reset()
-	var d, xt, gt, s, y [4]float64
-	t, slope := float64(woodLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                  // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from woodLBFGSCentralConfirmGradient or settle
-	stalled := false                                             // whether the run can make no more progress at x
-	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
-	verify := woodLBFGSCentralVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != woodLBFGSCentralVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see woodLBFGSCentralConfirmGradient and settle).
-			calls, ok := woodLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == woodLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodLBFGSCentralFiniteVec(&g) {
-				return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = woodLBFGSCentralVerifyNothing, true
-		case !confirmed:
-			woodLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := woodLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, woodLBFGSCentralLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * woodLBFGSCentralLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (woodLBFGSCentralDerivativeCost == 0 || confirmed) {
-			out.status = WoodLBFGSCentralGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = woodLBFGSCentralVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if woodLBFGSCentralDerivativeCost == 0 {
-				return best.ending(WoodLBFGSCentralStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if woodLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				verify, stalled = woodLBFGSCentralVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(WoodLBFGSCentralDiverged, out.iterations, out.evaluations)
-			}
-			woodLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(WoodLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
-		}
-		woodLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := woodLBFGSCentralDot(&g, &d)
-		if !(now < 0) || !woodLBFGSCentralFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			woodLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = woodLBFGSCentralDot(&g, &d)
-		}
-		first := float64(woodLBFGSCentralStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := woodLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case woodLBFGSCentralSearchOutOfBudget:
-			return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-		case woodLBFGSCentralSearchDiverged:
-			return best.ending(WoodLBFGSCentralDiverged, out.iterations, out.evaluations)
-		case woodLBFGSCentralSearchExhausted, woodLBFGSCentralSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see woodLBFGSCentralRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := WoodLBFGSCentralNoAcceptableStep
-			switch {
-			case found.rising:
-				end = WoodLBFGSCentralNoDecrease
-			case found.end == woodLBFGSCentralSearchTiny && canSettle:
-				verify, stalled = woodLBFGSCentralVerifyStall, true
-				continue
-			case found.end == woodLBFGSCentralSearchTiny:
-				end = WoodLBFGSCentralStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !woodLBFGSCentralFiniteVec(&xt) {
-			return best.ending(WoodLBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+woodLBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += woodLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		woodLBFGSCentralDifference(&s, &xt, &x)
-		woodLBFGSCentralDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !woodLBFGSCentralFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r woodLBFGSCentralDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(woodLBFGSCentralUnlimited)
 }
 
 // woodLBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
@@ -349,8 +262,424 @@ func (o woodLBFGSCentralOutcome) ending(end WoodLBFGSCentralStatus, iterations, 
 	return o
 }
 
+// woodLBFGSCentralDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type woodLBFGSCentralDescent struct {
+	lim       WoodLBFGSCentralLimits
+	stage     int                         // what advance does next
+	diffs     woodLBFGSCentralDifferences // the box and the difference intervals
+	dir       woodLBFGSCentralDirection   // the direction's memory
+	x, g, e   [4]float64                  // the point, its gradient and the gradient's error bound
+	d, s, y   [4]float64                  // the search direction, the last step and its gradient change
+	fx        float64                     // f(x)
+	t, slope  float64                     // the previous iteration's accepted step and slope
+	out, best woodLBFGSCentralOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                     // f(x0)
+	rises     int                         // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                        // whether g and e at x come from woodLBFGSCentralConfirmGradient or settle
+	stalled   bool                        // whether the run can make no more progress at x
+	retried   int                         // the iteration whose stall was retried with recalibrated differences
+	verify    int                         // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *woodLBFGSCentralDescent) prepare(x0 [4]float64, lim WoodLBFGSCentralLimits, bounds woodLBFGSCentralBox) {
+	r.lim, r.stage = lim, woodLBFGSCentralStageBegin
+	r.diffs = woodLBFGSCentralDifferences{bounds: bounds}
+	r.x = x0
+	woodLBFGSCentralEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}, [4]float64{}
+	r.out = woodLBFGSCentralOutcome{x: r.x, f: math.NaN(), status: WoodLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *woodLBFGSCentralDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with WoodLBFGSCentralRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, woodLBFGSCentralSettleCalls and woodLBFGSCentralIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *woodLBFGSCentralDescent) advance(budget int) woodLBFGSCentralOutcome {
+	used := r.out.evaluations
+	for r.stage != woodLBFGSCentralStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case woodLBFGSCentralStageBegin:
+			if left < 1+woodLBFGSCentralCalibrationCost+woodLBFGSCentralDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case woodLBFGSCentralStageJudge:
+			if r.verify != woodLBFGSCentralVerifyNothing && left < woodLBFGSCentralSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < woodLBFGSCentralIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *woodLBFGSCentralDescent) paused() woodLBFGSCentralOutcome {
+	return r.best.ending(WoodLBFGSCentralRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *woodLBFGSCentralDescent) finish(end WoodLBFGSCentralStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = woodLBFGSCentralStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *woodLBFGSCentralDescent) begin() {
+	r.stage = woodLBFGSCentralStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !woodLBFGSCentralFinite(r.fx) || !woodLBFGSCentralFiniteVec(&r.x) {
+		r.out.status = WoodLBFGSCentralNonFiniteStart
+		return
+	}
+	calls, ok := woodLBFGSCentralCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+woodLBFGSCentralDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += woodLBFGSCentralDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !woodLBFGSCentralFiniteVec(&r.g) {
+		r.out.status = WoodLBFGSCentralNonFiniteGradient
+		return
+	}
+	r.t, r.slope = woodLBFGSCentralStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, woodLBFGSCentralVerifyNothing
+	r.stage = woodLBFGSCentralStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves woodLBFGSCentralStageSearch next when the run goes on.
+func (r *woodLBFGSCentralDescent) judge() {
+	switch {
+	case r.verify != woodLBFGSCentralVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see woodLBFGSCentralConfirmGradient and settle).
+		calls, ok := woodLBFGSCentralSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == woodLBFGSCentralVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(WoodLBFGSCentralOutOfEvaluations)
+			return
+		}
+		if !woodLBFGSCentralFiniteVec(&r.g) {
+			r.finish(WoodLBFGSCentralNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = woodLBFGSCentralVerifyNothing, true
+	case !r.confirmed:
+		woodLBFGSCentralGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := woodLBFGSCentralStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, woodLBFGSCentralLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * woodLBFGSCentralLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (woodLBFGSCentralDerivativeCost == 0 || r.confirmed) {
+		r.out.status = WoodLBFGSCentralGradientSmall
+		r.stage = woodLBFGSCentralStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = woodLBFGSCentralVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if woodLBFGSCentralDerivativeCost == 0 {
+			r.finish(WoodLBFGSCentralStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if woodLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = woodLBFGSCentralVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(WoodLBFGSCentralDiverged)
+			return
+		}
+		woodLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(WoodLBFGSCentralOutOfIterations)
+		return
+	}
+	r.stage = woodLBFGSCentralStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves woodLBFGSCentralStageJudge next when the run
+// goes on.
+func (r *woodLBFGSCentralDescent) search() {
+	woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := woodLBFGSCentralDot(&r.g, &r.d)
+	if !(now < 0) || !woodLBFGSCentralFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = woodLBFGSCentralDot(&r.g, &r.d)
+	}
+	first := float64(woodLBFGSCentralStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := woodLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [4]float64
+	found := woodLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case woodLBFGSCentralSearchOutOfBudget:
+		r.finish(WoodLBFGSCentralOutOfEvaluations)
+		return
+	case woodLBFGSCentralSearchDiverged:
+		r.finish(WoodLBFGSCentralDiverged)
+		return
+	case woodLBFGSCentralSearchExhausted, woodLBFGSCentralSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see woodLBFGSCentralRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := WoodLBFGSCentralNoAcceptableStep
+		switch {
+		case found.rising:
+			end = WoodLBFGSCentralNoDecrease
+		case found.end == woodLBFGSCentralSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = woodLBFGSCentralVerifyStall, true, woodLBFGSCentralStageJudge
+			return
+		case found.end == woodLBFGSCentralSearchTiny:
+			end = WoodLBFGSCentralStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !woodLBFGSCentralFiniteVec(&xt) {
+		r.finish(WoodLBFGSCentralNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+woodLBFGSCentralDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(WoodLBFGSCentralOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += woodLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	woodLBFGSCentralDifference(&r.s, &xt, &r.x)
+	woodLBFGSCentralDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !woodLBFGSCentralFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(WoodLBFGSCentralNonFiniteGradient)
+		return
+	}
+	r.stage = woodLBFGSCentralStageJudge
+}
+
+// woodLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type woodLBFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSCentralRoundingFloor)
+	bounds    woodLBFGSCentralBox
+}
+
+// woodLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
+// inverse Hessian built from only the last woodLBFGSCentralLbfgsMemory pairs (s, y), kept
+// in fixed-size ring buffers, and applied by the two-loop recursion
+// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
+// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
+// safely positive are skipped.
+//
+// Memory (the spec's memory key, woodLBFGSCentralLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
+//
+// References:
+//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
+//     scale optimization, Math. Programming 45:503–528, 1989.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §7.2.
+type woodLBFGSCentralDirection struct {
+	s, y   [woodLBFGSCentralLbfgsMemory][4]float64
+	rho    [woodLBFGSCentralLbfgsMemory]float64
+	newest int // index of the newest pair
+	count  int // pairs held, at most woodLBFGSCentralLbfgsMemory
+}
+
+func (s *woodLBFGSCentralDirection) reset() {
+	s.count = 0
+	s.newest = 0
+}
+
+func (s *woodLBFGSCentralDirection) compute(g, d *[4]float64) {
+	var alpha [woodLBFGSCentralLbfgsMemory]float64
+	q := *g
+	// First loop, newest pair to oldest (Algorithm 7.4).
+	k := s.newest
+	for n := 0; n < s.count; n++ {
+		alpha[k] = s.rho[k] * woodLBFGSCentralDot(&s.s[k], &q)
+		for i := range q {
+			q[i] -= alpha[k] * s.y[k][i]
+		}
+		k--
+		if k < 0 {
+			k = woodLBFGSCentralLbfgsMemory - 1
+		}
+	}
+	if s.count > 0 {
+		newest := s.newest
+		gamma := woodLBFGSCentralDot(&s.s[newest], &s.y[newest]) / woodLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
+		for i := range q {
+			q[i] *= gamma
+		}
+	}
+	// Second loop, oldest pair to newest; k is now the slot before the oldest.
+	for n := 0; n < s.count; n++ {
+		k++
+		if k == woodLBFGSCentralLbfgsMemory {
+			k = 0
+		}
+		beta := s.rho[k] * woodLBFGSCentralDot(&s.y[k], &q)
+		for i := range q {
+			q[i] += s.s[k][i] * (alpha[k] - beta)
+		}
+	}
+	woodLBFGSCentralNegate(d, &q)
+}
+
+func (s *woodLBFGSCentralDirection) update(step, change *[4]float64) {
+	if !woodLBFGSCentralCurvatureSafe(step, change) {
+		return
+	}
+	if s.count > 0 {
+		s.newest++
+		if s.newest == woodLBFGSCentralLbfgsMemory {
+			s.newest = 0
+		}
+	}
+	if s.count < woodLBFGSCentralLbfgsMemory {
+		s.count++
+	}
+	s.s[s.newest] = *step
+	s.y[s.newest] = *change
+	s.rho[s.newest] = 1 / woodLBFGSCentralDot(step, change)
+}
+
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+func (s *woodLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// woodLBFGSCentralDot returns aᵀb.
+func woodLBFGSCentralDot(a, b *[4]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// woodLBFGSCentralNegate sets out = −x.
+func woodLBFGSCentralNegate(out, x *[4]float64) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// woodLBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func woodLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
+	sy := woodLBFGSCentralDot(s, y)
+	return sy > 0 && (sy/woodLBFGSCentralDot(s, s))*(sy/woodLBFGSCentralDot(y, y)) > woodLBFGSCentralUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	woodLBFGSCentralStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	woodLBFGSCentralStageJudge         // settle when asked (woodLBFGSCentralSettleCalls), judge x, learn from the step: no calls otherwise
+	woodLBFGSCentralStageSearch        // the line search and the gradient at the accepted point: woodLBFGSCentralIterationCalls
+	woodLBFGSCentralStageOver          // the run has ended; out is its result
+)
+
 // woodLBFGSCentralEnterBox: without bounds every start is inside.
 func woodLBFGSCentralEnterBox(x *[4]float64, b *woodLBFGSCentralBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	woodLBFGSCentralVerifyNothing = iota
+	woodLBFGSCentralVerifyPass    // a difference gradient passed the test
+	woodLBFGSCentralVerifyStall   // no step makes progress
+)
 
 // woodLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -372,19 +701,6 @@ func woodLBFGSCentralFiniteVec(x *[4]float64) bool {
 		}
 	}
 	return true
-}
-
-// woodLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type woodLBFGSCentralDifferences struct {
-	ratio     [4]float64
-	curvature [4]float64
-	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSCentralRoundingFloor)
-	bounds    woodLBFGSCentralBox
 }
 
 // woodLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -646,128 +962,6 @@ func woodLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) 
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// woodLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
-// inverse Hessian built from only the last woodLBFGSCentralLbfgsMemory pairs (s, y), kept
-// in fixed-size ring buffers, and applied by the two-loop recursion
-// (Nocedal & Wright 2006, Algorithm 7.4) starting from H₀ = γI with
-// γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
-// safely positive are skipped.
-//
-// Memory (the spec's memory key, woodLBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work
-// (§7.2). thalweg's default is 5, to keep the stack small on devices.
-//
-// References:
-//   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
-//     scale optimization, Math. Programming 45:503–528, 1989.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §7.2.
-type woodLBFGSCentralDirection struct {
-	s, y   [woodLBFGSCentralLbfgsMemory][4]float64
-	rho    [woodLBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most woodLBFGSCentralLbfgsMemory
-}
-
-func (s *woodLBFGSCentralDirection) reset() {
-	s.count = 0
-	s.newest = 0
-}
-
-func (s *woodLBFGSCentralDirection) compute(g, d *[4]float64) {
-	var alpha [woodLBFGSCentralLbfgsMemory]float64
-	q := *g
-	// First loop, newest pair to oldest (Algorithm 7.4).
-	k := s.newest
-	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * woodLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
-		}
-		k--
-		if k < 0 {
-			k = woodLBFGSCentralLbfgsMemory - 1
-		}
-	}
-	if s.count > 0 {
-		newest := s.newest
-		gamma := woodLBFGSCentralDot(&s.s[newest], &s.y[newest]) / woodLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
-		}
-	}
-	// Second loop, oldest pair to newest; k is now the slot before the oldest.
-	for n := 0; n < s.count; n++ {
-		k++
-		if k == woodLBFGSCentralLbfgsMemory {
-			k = 0
-		}
-		beta := s.rho[k] * woodLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
-		}
-	}
-	woodLBFGSCentralNegate(d, &q)
-}
-
-func (s *woodLBFGSCentralDirection) update(step, change *[4]float64) {
-	if !woodLBFGSCentralCurvatureSafe(step, change) {
-		return
-	}
-	if s.count > 0 {
-		s.newest++
-		if s.newest == woodLBFGSCentralLbfgsMemory {
-			s.newest = 0
-		}
-	}
-	if s.count < woodLBFGSCentralLbfgsMemory {
-		s.count++
-	}
-	s.s[s.newest] = *step
-	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / woodLBFGSCentralDot(step, change)
-}
-
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-func (s *woodLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// woodLBFGSCentralDot returns aᵀb.
-func woodLBFGSCentralDot(a, b *[4]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// woodLBFGSCentralNegate sets out = −x.
-func woodLBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// woodLBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func woodLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := woodLBFGSCentralDot(s, y)
-	return sy > 0 && (sy/woodLBFGSCentralDot(s, s))*(sy/woodLBFGSCentralDot(y, y)) > woodLBFGSCentralUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	woodLBFGSCentralVerifyNothing = iota
-	woodLBFGSCentralVerifyPass    // a difference gradient passed the test
-	woodLBFGSCentralVerifyStall   // no step makes progress
-)
 
 // woodLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
 // gradient (woodLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
@@ -1205,3 +1399,6 @@ func woodLBFGSCentralDifference(out, a, b *[4]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// woodLBFGSCentralUnlimited is a tick budget that never pauses a run.
+const woodLBFGSCentralUnlimited = int(^uint(0) >> 1)

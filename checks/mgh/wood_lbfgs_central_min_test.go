@@ -47,6 +47,55 @@ func TestWoodLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestWoodLBFGSCentralSolverTicks advances a WoodLBFGSCentralSolver from the spec's start with budgets of WoodLBFGSCentralTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where WoodLBFGSCentral's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestWoodLBFGSCentralSolverTicks(t *testing.T) {
+	want := WoodLBFGSCentral(woodLBFGSCentralTestStart())
+	for _, budget := range []int{WoodLBFGSCentralTickMinimum, WoodLBFGSCentralTickMinimum + 1, 2 * WoodLBFGSCentralTickMinimum, 7 * WoodLBFGSCentralTickMinimum} {
+		var s WoodLBFGSCentralSolver
+		s.Start(woodLBFGSCentralTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != WoodLBFGSCentralRunning {
+				if !woodLBFGSCentralTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s WoodLBFGSCentralSolver
+	s.Start(woodLBFGSCentralTestStart())
+	if r := s.Advance(0); r.Status != WoodLBFGSCentralRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestWoodLBFGSCentralSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestWoodLBFGSCentralSolverAllocatesNothing(t *testing.T) {
+	var s WoodLBFGSCentralSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(woodLBFGSCentralTestStart())
+		for s.Advance(WoodLBFGSCentralTickMinimum).Status == WoodLBFGSCentralRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// woodLBFGSCentralTestSameResult reports whether two results are the same, NaN matching NaN.
+func woodLBFGSCentralTestSameResult(a, b WoodLBFGSCentralResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkWoodLBFGSCentral measures one whole run from the spec's start.
 func BenchmarkWoodLBFGSCentral(b *testing.B) {
 	var r WoodLBFGSCentralResult

@@ -26,6 +26,8 @@ const (
 	ImpliedVolNoDecrease
 	// ImpliedVolDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	ImpliedVolDiverged
+	// ImpliedVolRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	ImpliedVolRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s ImpliedVolStatus) String() string {
 		return "no decrease"
 	case ImpliedVolDiverged:
 		return "diverged"
+	case ImpliedVolRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -126,16 +130,90 @@ func ImpliedVolWithLimits(recv Trade, x0 float64, limits ImpliedVolLimits) Impli
 	}
 }
 
+// ImpliedVolTickMinimum is the smallest call budget with which every ImpliedVolSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const ImpliedVolTickMinimum = 48
+
+// ImpliedVolSolver is a run of ImpliedVol that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (ImpliedVolDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least ImpliedVolTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not ImpliedVolRunning ends exactly as ImpliedVolWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): ImpliedVol and ImpliedVolWithLimits use at most 2000 bytes, the run's state included; Advance at most 1216 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 248 bytes.
+//
+// While Status is ImpliedVolRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type ImpliedVolSolver struct {
+	run       impliedVolDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    ImpliedVolLimits  // the limits of the runs; ImpliedVolDefaultLimits() until SetLimits
+	ownLimits bool              // whether SetLimits has set limits
+	started   bool              // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *ImpliedVolSolver) SetLimits(limits ImpliedVolLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *ImpliedVolSolver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *ImpliedVolSolver) StartFrom(from ImpliedVolResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *ImpliedVolSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *ImpliedVolSolver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = ImpliedVolDefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, impliedVolBox{
+		lower: [1]float64{0.001},
+		upper: [1]float64{5.0},
+	})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status ImpliedVolRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See ImpliedVolSolver for the budget rule and what advancing assumes of the objective.
+func (s *ImpliedVolSolver) Advance(recv Trade, budget int) ImpliedVolResult {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(&recv, budget)
+	return ImpliedVolResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of ImpliedVol from impliedvol.toml; the kernels below read them.
 const (
-	impliedVolStepInitial    = 1.0                    // step.initial
-	impliedVolStepDecrease   = 0.0001                 // step.decrease (c1)
-	impliedVolStepCurvature  = 0.9                    // step.curvature (c2)
-	impliedVolStepTrials     = 48                     // step.trials
-	impliedVolDerivativeCost = 0                      // objective calls per gradient
-	impliedVolUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	impliedVolLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	impliedVolActiveMargin   = 1e-3                   // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
+	impliedVolStepInitial     = 1.0                    // step.initial
+	impliedVolStepDecrease    = 0.0001                 // step.decrease (c1)
+	impliedVolStepCurvature   = 0.9                    // step.curvature (c2)
+	impliedVolStepTrials      = 48                     // step.trials
+	impliedVolDerivativeCost  = 0                      // objective calls per gradient
+	impliedVolCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	impliedVolIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	impliedVolSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	impliedVolUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	impliedVolLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	impliedVolActiveMargin    = 1e-3                   // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
 )
 
 // impliedVolMinimize runs the descent loop from x0 within lim:
@@ -169,172 +247,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func impliedVolMinimize(recv *Trade, x0 [1]float64, lim ImpliedVolLimits, bounds impliedVolBox) impliedVolOutcome {
-	x := x0
-	impliedVolEnterBox(&x, &bounds)
-	out := impliedVolOutcome{x: x, status: ImpliedVolOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := recv.PricingError(x[0])
-	out.f, out.evaluations = fx, 1
-	if !impliedVolFinite(fx) || !impliedVolFiniteVec(&x) {
-		out.status = ImpliedVolNonFiniteStart
-		return out
-	}
-	diffs := impliedVolDifferences{bounds: bounds}
-	calls, ok := impliedVolCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+impliedVolDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += impliedVolDerivative(recv, &x, fx, &g, &diffs)
-
-	if !impliedVolFiniteVec(&g) {
-		out.status = ImpliedVolNonFiniteGradient
-		return out
-	}
-	var dir impliedVolDirection
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(impliedVolStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                            // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                     // whether g and e at x come from impliedVolConfirmGradient or settle
-	stalled := false                                       // whether the run can make no more progress at x
-	retried := -1                                          // the iteration whose stall was retried with recalibrated differences
-	verify := impliedVolVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != impliedVolVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see impliedVolConfirmGradient and settle).
-			calls, ok := impliedVolSettle(recv, &x, fx, &g, &e, &diffs, verify == impliedVolVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ImpliedVolOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !impliedVolFiniteVec(&g) {
-				return best.ending(ImpliedVolNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = impliedVolVerifyNothing, true
-		case !confirmed:
-			impliedVolGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := impliedVolStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, impliedVolLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * impliedVolLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (impliedVolDerivativeCost == 0 || confirmed) {
-			out.status = ImpliedVolGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = impliedVolVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if impliedVolDerivativeCost == 0 {
-				return best.ending(ImpliedVolStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if impliedVolStepWithin(&s, &x, lim.Step) {
-				verify, stalled = impliedVolVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(ImpliedVolDiverged, out.iterations, out.evaluations)
-			}
-			impliedVolCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(ImpliedVolOutOfIterations, out.iterations, out.evaluations)
-		}
-		impliedVolSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := impliedVolDot(&g, &d)
-		if !(now < 0) || !impliedVolFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			impliedVolSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = impliedVolDot(&g, &d)
-		}
-		first := float64(impliedVolStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := impliedVolTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := impliedVolLineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case impliedVolSearchOutOfBudget:
-			return best.ending(ImpliedVolOutOfEvaluations, out.iterations, out.evaluations)
-		case impliedVolSearchDiverged:
-			return best.ending(ImpliedVolDiverged, out.iterations, out.evaluations)
-		case impliedVolSearchExhausted, impliedVolSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see impliedVolRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := ImpliedVolNoAcceptableStep
-			switch {
-			case found.rising:
-				end = ImpliedVolNoDecrease
-			case found.end == impliedVolSearchTiny && canSettle:
-				verify, stalled = impliedVolVerifyStall, true
-				continue
-			case found.end == impliedVolSearchTiny:
-				end = ImpliedVolStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !impliedVolFiniteVec(&xt) {
-			return best.ending(ImpliedVolNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+impliedVolDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(ImpliedVolOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += impliedVolDerivative(recv, &xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		impliedVolDifference(&s, &xt, &x)
-		impliedVolDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !impliedVolFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(ImpliedVolNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r impliedVolDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(recv, impliedVolUnlimited)
 }
 
 // impliedVolOutcome is the kernel's report; the generated entry point copies it into
@@ -355,49 +271,276 @@ func (o impliedVolOutcome) ending(end ImpliedVolStatus, iterations, evaluations 
 	return o
 }
 
-// impliedVolEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
-// the projection P(x) onto the box.
-func impliedVolEnterBox(x *[1]float64, b *impliedVolBox) {
-	for i := range x {
-		x[i] = impliedVolClampBetween(x[i], b.lower[i], b.upper[i])
-	}
+// impliedVolDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type impliedVolDescent struct {
+	lim       ImpliedVolLimits
+	stage     int                   // what advance does next
+	diffs     impliedVolDifferences // the box and the difference intervals
+	dir       impliedVolDirection   // the direction's memory
+	x, g, e   [1]float64            // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64            // the search direction, the last step and its gradient change
+	fx        float64               // f(x)
+	t, slope  float64               // the previous iteration's accepted step and slope
+	out, best impliedVolOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64               // f(x0)
+	rises     int                   // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                  // whether g and e at x come from impliedVolConfirmGradient or settle
+	stalled   bool                  // whether the run can make no more progress at x
+	retried   int                   // the iteration whose stall was retried with recalibrated differences
+	verify    int                   // what to check at x before judging it again
 }
 
-// impliedVolClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func impliedVolClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *impliedVolDescent) prepare(x0 [1]float64, lim ImpliedVolLimits, bounds impliedVolBox) {
+	r.lim, r.stage = lim, impliedVolStageBegin
+	r.diffs = impliedVolDifferences{bounds: bounds}
+	r.x = x0
+	impliedVolEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = impliedVolOutcome{x: r.x, f: math.NaN(), status: ImpliedVolOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
 }
 
-// impliedVolFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func impliedVolFinite(v float64) bool {
-	return v >= -impliedVolLargestFinite && v <= impliedVolLargestFinite
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *impliedVolDescent) forget() {
+	r.dir.reset()
 }
 
-// impliedVolFiniteVec reports whether every component of x is finite.
-func impliedVolFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !impliedVolFinite(x[i]) {
-			return false
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with ImpliedVolRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, impliedVolSettleCalls and impliedVolIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *impliedVolDescent) advance(recv *Trade, budget int) impliedVolOutcome {
+	used := r.out.evaluations
+	for r.stage != impliedVolStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case impliedVolStageBegin:
+			if left < 1+impliedVolCalibrationCost+impliedVolDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin(recv)
+		case impliedVolStageJudge:
+			if r.verify != impliedVolVerifyNothing && left < impliedVolSettleCalls {
+				return r.paused()
+			}
+			r.judge(recv)
+		default:
+			if left < impliedVolIterationCalls {
+				return r.paused()
+			}
+			r.search(recv)
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *impliedVolDescent) paused() impliedVolOutcome {
+	return r.best.ending(ImpliedVolRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *impliedVolDescent) finish(end ImpliedVolStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = impliedVolStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *impliedVolDescent) begin(recv *Trade) {
+	r.stage = impliedVolStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = recv.PricingError(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !impliedVolFinite(r.fx) || !impliedVolFiniteVec(&r.x) {
+		r.out.status = ImpliedVolNonFiniteStart
+		return
+	}
+	calls, ok := impliedVolCalibrate(recv, &r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+impliedVolDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += impliedVolDerivative(recv, &r.x, r.fx, &r.g, &r.diffs)
+
+	if !impliedVolFiniteVec(&r.g) {
+		r.out.status = ImpliedVolNonFiniteGradient
+		return
+	}
+	r.t, r.slope = impliedVolStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, impliedVolVerifyNothing
+	r.stage = impliedVolStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves impliedVolStageSearch next when the run goes on.
+func (r *impliedVolDescent) judge(recv *Trade) {
+	switch {
+	case r.verify != impliedVolVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see impliedVolConfirmGradient and settle).
+		calls, ok := impliedVolSettle(recv, &r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == impliedVolVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(ImpliedVolOutOfEvaluations)
+			return
+		}
+		if !impliedVolFiniteVec(&r.g) {
+			r.finish(ImpliedVolNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = impliedVolVerifyNothing, true
+	case !r.confirmed:
+		impliedVolGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := impliedVolStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, impliedVolLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * impliedVolLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (impliedVolDerivativeCost == 0 || r.confirmed) {
+		r.out.status = ImpliedVolGradientSmall
+		r.stage = impliedVolStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = impliedVolVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if impliedVolDerivativeCost == 0 {
+			r.finish(ImpliedVolStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if impliedVolStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = impliedVolVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(ImpliedVolDiverged)
+			return
+		}
+		impliedVolCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(ImpliedVolOutOfIterations)
+		return
+	}
+	r.stage = impliedVolStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves impliedVolStageJudge next when the run
+// goes on.
+func (r *impliedVolDescent) search(recv *Trade) {
+	impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := impliedVolDot(&r.g, &r.d)
+	if !(now < 0) || !impliedVolFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = impliedVolDot(&r.g, &r.d)
+	}
+	first := float64(impliedVolStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := impliedVolTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := impliedVolLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case impliedVolSearchOutOfBudget:
+		r.finish(ImpliedVolOutOfEvaluations)
+		return
+	case impliedVolSearchDiverged:
+		r.finish(ImpliedVolDiverged)
+		return
+	case impliedVolSearchExhausted, impliedVolSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see impliedVolRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := ImpliedVolNoAcceptableStep
+		switch {
+		case found.rising:
+			end = ImpliedVolNoDecrease
+		case found.end == impliedVolSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = impliedVolVerifyStall, true, impliedVolStageJudge
+			return
+		case found.end == impliedVolSearchTiny:
+			end = ImpliedVolStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !impliedVolFiniteVec(&xt) {
+		r.finish(ImpliedVolNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+impliedVolDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(ImpliedVolOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += impliedVolDerivative(recv, &xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	impliedVolDifference(&r.s, &xt, &r.x)
+	impliedVolDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !impliedVolFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(ImpliedVolNonFiniteGradient)
+		return
+	}
+	r.stage = impliedVolStageJudge
 }
 
 // impliedVolDifferences is what the kernel knows about evaluating the objective:
@@ -411,17 +554,6 @@ type impliedVolDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see impliedVolRoundingFloor)
 	bounds    impliedVolBox
-}
-
-// impliedVolCalibrate: an analytic gradient needs no intervals.
-func impliedVolCalibrate(recv *Trade, x *[1]float64, fx float64, diffs *impliedVolDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// impliedVolDerivative calls the user's gradient; it costs no objective calls.
-func impliedVolDerivative(recv *Trade, x *[1]float64, fx float64, g *[1]float64, diffs *impliedVolDifferences) int {
-	g[0] = recv.PricingErrorSlope(x[0])
-	return 0
 }
 
 // impliedVolDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -514,12 +646,77 @@ func impliedVolCurvatureSafe(s, y *[1]float64) bool {
 	return sy > 0 && (sy/impliedVolDot(s, s))*(sy/impliedVolDot(y, y)) > impliedVolUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	impliedVolStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	impliedVolStageJudge         // settle when asked (impliedVolSettleCalls), judge x, learn from the step: no calls otherwise
+	impliedVolStageSearch        // the line search and the gradient at the accepted point: impliedVolIterationCalls
+	impliedVolStageOver          // the run has ended; out is its result
+)
+
+// impliedVolEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
+// the projection P(x) onto the box.
+func impliedVolEnterBox(x *[1]float64, b *impliedVolBox) {
+	for i := range x {
+		x[i] = impliedVolClampBetween(x[i], b.lower[i], b.upper[i])
+	}
+}
+
+// impliedVolClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func impliedVolClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
 // What minimize checks at x before judging it again.
 const (
 	impliedVolVerifyNothing = iota
 	impliedVolVerifyPass    // a difference gradient passed the test
 	impliedVolVerifyStall   // no step makes progress
 )
+
+// impliedVolFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func impliedVolFinite(v float64) bool {
+	return v >= -impliedVolLargestFinite && v <= impliedVolLargestFinite
+}
+
+// impliedVolFiniteVec reports whether every component of x is finite.
+func impliedVolFiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !impliedVolFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// impliedVolCalibrate: an analytic gradient needs no intervals.
+func impliedVolCalibrate(recv *Trade, x *[1]float64, fx float64, diffs *impliedVolDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// impliedVolDerivative calls the user's gradient; it costs no objective calls.
+func impliedVolDerivative(recv *Trade, x *[1]float64, fx float64, g *[1]float64, diffs *impliedVolDifferences) int {
+	g[0] = recv.PricingErrorSlope(x[0])
+	return 0
+}
 
 // impliedVolSettle prepares a verdict at x: with differences it confirms the
 // gradient (impliedVolConfirmGradient), and at a stall it adds to each error bound
@@ -1119,3 +1316,6 @@ func impliedVolDifference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// impliedVolUnlimited is a tick budget that never pauses a run.
+const impliedVolUnlimited = int(^uint(0) >> 1)

@@ -152,6 +152,57 @@ func TestImpliedVolGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestImpliedVolSolverTicks advances a ImpliedVolSolver from the spec's start with budgets of ImpliedVolTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where ImpliedVol's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestImpliedVolSolverTicks(t *testing.T) {
+	recv := impliedVolTestReceiver()
+	want := ImpliedVol(recv, impliedVolTestStart())
+	for _, budget := range []int{ImpliedVolTickMinimum, ImpliedVolTickMinimum + 1, 2 * ImpliedVolTickMinimum, 7 * ImpliedVolTickMinimum} {
+		var s ImpliedVolSolver
+		s.Start(impliedVolTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(recv, budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ImpliedVolRunning {
+				if !impliedVolTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ImpliedVolSolver
+	s.Start(impliedVolTestStart())
+	if r := s.Advance(recv, 0); r.Status != ImpliedVolRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestImpliedVolSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestImpliedVolSolverAllocatesNothing(t *testing.T) {
+	recv := impliedVolTestReceiver()
+	var s ImpliedVolSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(impliedVolTestStart())
+		for s.Advance(recv, ImpliedVolTickMinimum).Status == ImpliedVolRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// impliedVolTestSameResult reports whether two results are the same, NaN matching NaN.
+func impliedVolTestSameResult(a, b ImpliedVolResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkImpliedVol measures one whole run from the spec's start.
 func BenchmarkImpliedVol(b *testing.B) {
 	recv := impliedVolTestReceiver()

@@ -26,6 +26,8 @@ const (
 	CalibrateNoDecrease
 	// CalibrateDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	CalibrateDiverged
+	// CalibrateRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	CalibrateRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s CalibrateStatus) String() string {
 		return "no decrease"
 	case CalibrateDiverged:
 		return "diverged"
+	case CalibrateRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func CalibrateWithLimits(x0 [2]float64, limits CalibrateLimits) CalibrateResult 
 	}
 }
 
+// CalibrateTickMinimum is the smallest call budget with which every CalibrateSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 40).
+const CalibrateTickMinimum = 40
+
+// CalibrateSolver is a run of Calibrate that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (CalibrateDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 40. A budget of at least CalibrateTickMinimum = 40 progresses at every Advance; a smaller one may make no call. Advancing until the status is not CalibrateRunning ends exactly as CalibrateWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Calibrate and CalibrateWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is CalibrateRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type CalibrateSolver struct {
+	run       calibrateDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    CalibrateLimits  // the limits of the runs; CalibrateDefaultLimits() until SetLimits
+	ownLimits bool             // whether SetLimits has set limits
+	started   bool             // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *CalibrateSolver) SetLimits(limits CalibrateLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *CalibrateSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *CalibrateSolver) StartFrom(from CalibrateResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *CalibrateSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *CalibrateSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = CalibrateDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, calibrateBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status CalibrateRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See CalibrateSolver for the budget rule and what advancing assumes of the objective.
+func (s *CalibrateSolver) Advance(budget int) CalibrateResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return CalibrateResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Calibrate from quickstart.toml; the kernels below read them.
 const (
-	calibrateStepInitial    = 1.0                    // step.initial
-	calibrateStepShrink     = 0.5                    // step.shrink
-	calibrateStepDecrease   = 0.0001                 // step.decrease (c1)
-	calibrateStepTrials     = 40                     // step.trials
-	calibrateDerivativeCost = 0                      // objective calls per gradient
-	calibrateUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	calibrateLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	calibrateStepInitial     = 1.0                    // step.initial
+	calibrateStepShrink      = 0.5                    // step.shrink
+	calibrateStepDecrease    = 0.0001                 // step.decrease (c1)
+	calibrateStepTrials      = 40                     // step.trials
+	calibrateDerivativeCost  = 0                      // objective calls per gradient
+	calibrateCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	calibrateIterationCalls  = 40                     // most objective calls of one line search with the gradient at its step
+	calibrateSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	calibrateUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	calibrateLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // calibrateMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func calibrateMinimize(x0 [2]float64, lim CalibrateLimits, bounds calibrateBox) calibrateOutcome {
-	x := x0
-	calibrateEnterBox(&x, &bounds)
-	out := calibrateOutcome{x: x, status: CalibrateOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := CalibrationError(&x)
-	out.f, out.evaluations = fx, 1
-	if !calibrateFinite(fx) || !calibrateFiniteVec(&x) {
-		out.status = CalibrateNonFiniteStart
-		return out
-	}
-	diffs := calibrateDifferences{bounds: bounds}
-	calls, ok := calibrateCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+calibrateDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += calibrateDerivative(&x, fx, &g, &diffs)
-
-	if !calibrateFiniteVec(&g) {
-		out.status = CalibrateNonFiniteGradient
-		return out
-	}
-	var dir calibrateDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(calibrateStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                           // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                    // whether g and e at x come from calibrateConfirmGradient or settle
-	stalled := false                                      // whether the run can make no more progress at x
-	retried := -1                                         // the iteration whose stall was retried with recalibrated differences
-	verify := calibrateVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != calibrateVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see calibrateConfirmGradient and settle).
-			calls, ok := calibrateSettle(&x, fx, &g, &e, &diffs, verify == calibrateVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !calibrateFiniteVec(&g) {
-				return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = calibrateVerifyNothing, true
-		case !confirmed:
-			calibrateGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := calibrateStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * calibrateLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (calibrateDerivativeCost == 0 || confirmed) {
-			out.status = CalibrateGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = calibrateVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if calibrateDerivativeCost == 0 {
-				return best.ending(CalibrateStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if calibrateStepWithin(&s, &x, lim.Step) {
-				verify, stalled = calibrateVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(CalibrateDiverged, out.iterations, out.evaluations)
-			}
-			calibrateCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(CalibrateOutOfIterations, out.iterations, out.evaluations)
-		}
-		calibrateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := calibrateDot(&g, &d)
-		if !(now < 0) || !calibrateFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			calibrateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = calibrateDot(&g, &d)
-		}
-		first := float64(calibrateStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := calibrateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := calibrateLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case calibrateSearchOutOfBudget:
-			return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
-		case calibrateSearchDiverged:
-			return best.ending(CalibrateDiverged, out.iterations, out.evaluations)
-		case calibrateSearchExhausted, calibrateSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see calibrateRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := CalibrateNoAcceptableStep
-			switch {
-			case found.rising:
-				end = CalibrateNoDecrease
-			case found.end == calibrateSearchTiny && canSettle:
-				verify, stalled = calibrateVerifyStall, true
-				continue
-			case found.end == calibrateSearchTiny:
-				end = CalibrateStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !calibrateFiniteVec(&xt) {
-			return best.ending(CalibrateNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+calibrateDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += calibrateDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		calibrateDifference(&s, &xt, &x)
-		calibrateDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !calibrateFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r calibrateDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(calibrateUnlimited)
 }
 
 // calibrateOutcome is the kernel's report; the generated entry point copies it into
@@ -348,29 +261,276 @@ func (o calibrateOutcome) ending(end CalibrateStatus, iterations, evaluations in
 	return o
 }
 
-// calibrateEnterBox: without bounds every start is inside.
-func calibrateEnterBox(x *[2]float64, b *calibrateBox) {}
-
-// calibrateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func calibrateFinite(v float64) bool {
-	return v >= -calibrateLargestFinite && v <= calibrateLargestFinite
+// calibrateDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type calibrateDescent struct {
+	lim       CalibrateLimits
+	stage     int                  // what advance does next
+	diffs     calibrateDifferences // the box and the difference intervals
+	dir       calibrateDirection   // the direction's memory
+	x, g, e   [2]float64           // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64           // the search direction, the last step and its gradient change
+	fx        float64              // f(x)
+	t, slope  float64              // the previous iteration's accepted step and slope
+	out, best calibrateOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64              // f(x0)
+	rises     int                  // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                 // whether g and e at x come from calibrateConfirmGradient or settle
+	stalled   bool                 // whether the run can make no more progress at x
+	retried   int                  // the iteration whose stall was retried with recalibrated differences
+	verify    int                  // what to check at x before judging it again
 }
 
-// calibrateFiniteVec reports whether every component of x is finite.
-func calibrateFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !calibrateFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *calibrateDescent) prepare(x0 [2]float64, lim CalibrateLimits, bounds calibrateBox) {
+	r.lim, r.stage = lim, calibrateStageBegin
+	r.diffs = calibrateDifferences{bounds: bounds}
+	r.x = x0
+	calibrateEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = calibrateOutcome{x: r.x, f: math.NaN(), status: CalibrateOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *calibrateDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with CalibrateRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, calibrateSettleCalls and calibrateIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *calibrateDescent) advance(budget int) calibrateOutcome {
+	used := r.out.evaluations
+	for r.stage != calibrateStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case calibrateStageBegin:
+			if left < 1+calibrateCalibrationCost+calibrateDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case calibrateStageJudge:
+			if r.verify != calibrateVerifyNothing && left < calibrateSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < calibrateIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *calibrateDescent) paused() calibrateOutcome {
+	return r.best.ending(CalibrateRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *calibrateDescent) finish(end CalibrateStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = calibrateStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *calibrateDescent) begin() {
+	r.stage = calibrateStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = CalibrationError(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !calibrateFinite(r.fx) || !calibrateFiniteVec(&r.x) {
+		r.out.status = CalibrateNonFiniteStart
+		return
+	}
+	calls, ok := calibrateCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+calibrateDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += calibrateDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !calibrateFiniteVec(&r.g) {
+		r.out.status = CalibrateNonFiniteGradient
+		return
+	}
+	r.t, r.slope = calibrateStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, calibrateVerifyNothing
+	r.stage = calibrateStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves calibrateStageSearch next when the run goes on.
+func (r *calibrateDescent) judge() {
+	switch {
+	case r.verify != calibrateVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see calibrateConfirmGradient and settle).
+		calls, ok := calibrateSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == calibrateVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(CalibrateOutOfEvaluations)
+			return
+		}
+		if !calibrateFiniteVec(&r.g) {
+			r.finish(CalibrateNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = calibrateVerifyNothing, true
+	case !r.confirmed:
+		calibrateGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := calibrateStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, calibrateLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * calibrateLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (calibrateDerivativeCost == 0 || r.confirmed) {
+		r.out.status = CalibrateGradientSmall
+		r.stage = calibrateStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = calibrateVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if calibrateDerivativeCost == 0 {
+			r.finish(CalibrateStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if calibrateStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = calibrateVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(CalibrateDiverged)
+			return
+		}
+		calibrateCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(CalibrateOutOfIterations)
+		return
+	}
+	r.stage = calibrateStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves calibrateStageJudge next when the run
+// goes on.
+func (r *calibrateDescent) search() {
+	calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := calibrateDot(&r.g, &r.d)
+	if !(now < 0) || !calibrateFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = calibrateDot(&r.g, &r.d)
+	}
+	first := float64(calibrateStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := calibrateTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := calibrateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case calibrateSearchOutOfBudget:
+		r.finish(CalibrateOutOfEvaluations)
+		return
+	case calibrateSearchDiverged:
+		r.finish(CalibrateDiverged)
+		return
+	case calibrateSearchExhausted, calibrateSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see calibrateRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := CalibrateNoAcceptableStep
+		switch {
+		case found.rising:
+			end = CalibrateNoDecrease
+		case found.end == calibrateSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = calibrateVerifyStall, true, calibrateStageJudge
+			return
+		case found.end == calibrateSearchTiny:
+			end = CalibrateStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !calibrateFiniteVec(&xt) {
+		r.finish(CalibrateNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+calibrateDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(CalibrateOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += calibrateDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	calibrateDifference(&r.s, &xt, &r.x)
+	calibrateDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !calibrateFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(CalibrateNonFiniteGradient)
+		return
+	}
+	r.stage = calibrateStageJudge
 }
 
 // calibrateDifferences is what the kernel knows about evaluating the objective:
@@ -384,17 +544,6 @@ type calibrateDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see calibrateRoundingFloor)
 	bounds    calibrateBox
-}
-
-// calibrateCalibrate: an analytic gradient needs no intervals.
-func calibrateCalibrate(x *[2]float64, fx float64, diffs *calibrateDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// calibrateDerivative calls the user's gradient; it costs no objective calls.
-func calibrateDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *calibrateDifferences) int {
-	CalibrationGradient(x, g)
-	return 0
 }
 
 // calibrateDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -487,12 +636,57 @@ func calibrateCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/calibrateDot(s, s))*(sy/calibrateDot(y, y)) > calibrateUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	calibrateStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	calibrateStageJudge         // settle when asked (calibrateSettleCalls), judge x, learn from the step: no calls otherwise
+	calibrateStageSearch        // the line search and the gradient at the accepted point: calibrateIterationCalls
+	calibrateStageOver          // the run has ended; out is its result
+)
+
+// calibrateEnterBox: without bounds every start is inside.
+func calibrateEnterBox(x *[2]float64, b *calibrateBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	calibrateVerifyNothing = iota
 	calibrateVerifyPass    // a difference gradient passed the test
 	calibrateVerifyStall   // no step makes progress
 )
+
+// calibrateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func calibrateFinite(v float64) bool {
+	return v >= -calibrateLargestFinite && v <= calibrateLargestFinite
+}
+
+// calibrateFiniteVec reports whether every component of x is finite.
+func calibrateFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !calibrateFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// calibrateCalibrate: an analytic gradient needs no intervals.
+func calibrateCalibrate(x *[2]float64, fx float64, diffs *calibrateDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// calibrateDerivative calls the user's gradient; it costs no objective calls.
+func calibrateDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *calibrateDifferences) int {
+	CalibrationGradient(x, g)
+	return 0
+}
 
 // calibrateSettle prepares a verdict at x: with differences it confirms the
 // gradient (calibrateConfirmGradient), and at a stall it adds to each error bound
@@ -871,3 +1065,6 @@ func calibrateDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// calibrateUnlimited is a tick budget that never pauses a run.
+const calibrateUnlimited = int(^uint(0) >> 1)

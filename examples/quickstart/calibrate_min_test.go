@@ -108,6 +108,55 @@ func TestCalibrateGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestCalibrateSolverTicks advances a CalibrateSolver from the spec's start with budgets of CalibrateTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Calibrate's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestCalibrateSolverTicks(t *testing.T) {
+	want := Calibrate(calibrateTestStart())
+	for _, budget := range []int{CalibrateTickMinimum, CalibrateTickMinimum + 1, 2 * CalibrateTickMinimum, 7 * CalibrateTickMinimum} {
+		var s CalibrateSolver
+		s.Start(calibrateTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != CalibrateRunning {
+				if !calibrateTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s CalibrateSolver
+	s.Start(calibrateTestStart())
+	if r := s.Advance(0); r.Status != CalibrateRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestCalibrateSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestCalibrateSolverAllocatesNothing(t *testing.T) {
+	var s CalibrateSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(calibrateTestStart())
+		for s.Advance(CalibrateTickMinimum).Status == CalibrateRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// calibrateTestSameResult reports whether two results are the same, NaN matching NaN.
+func calibrateTestSameResult(a, b CalibrateResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkCalibrate measures one whole run from the spec's start.
 func BenchmarkCalibrate(b *testing.B) {
 	var r CalibrateResult

@@ -51,6 +51,55 @@ func TestTuneGainRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestTuneGainSolverTicks advances a TuneGainSolver from the spec's start with budgets of TuneGainTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where TuneGain's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestTuneGainSolverTicks(t *testing.T) {
+	want := TuneGain(tuneGainTestStart())
+	for _, budget := range []int{TuneGainTickMinimum, TuneGainTickMinimum + 1, 2 * TuneGainTickMinimum, 7 * TuneGainTickMinimum} {
+		var s TuneGainSolver
+		s.Start(tuneGainTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != TuneGainRunning {
+				if !tuneGainTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s TuneGainSolver
+	s.Start(tuneGainTestStart())
+	if r := s.Advance(0); r.Status != TuneGainRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestTuneGainSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestTuneGainSolverAllocatesNothing(t *testing.T) {
+	var s TuneGainSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(tuneGainTestStart())
+		for s.Advance(TuneGainTickMinimum).Status == TuneGainRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// tuneGainTestSameResult reports whether two results are the same, NaN matching NaN.
+func tuneGainTestSameResult(a, b TuneGainResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkTuneGain measures one whole run from the spec's start.
 func BenchmarkTuneGain(b *testing.B) {
 	var r TuneGainResult

@@ -55,6 +55,57 @@ func TestFitSteinhartHartRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestFitSteinhartHartSolverTicks advances a FitSteinhartHartSolver from the spec's start with budgets of FitSteinhartHartTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where FitSteinhartHart's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestFitSteinhartHartSolverTicks(t *testing.T) {
+	recv := fitSteinhartHartTestReceiver()
+	want := FitSteinhartHart(recv, fitSteinhartHartTestStart())
+	for _, budget := range []int{FitSteinhartHartTickMinimum, FitSteinhartHartTickMinimum + 1, 2 * FitSteinhartHartTickMinimum, 7 * FitSteinhartHartTickMinimum} {
+		var s FitSteinhartHartSolver
+		s.Start(fitSteinhartHartTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(recv, budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != FitSteinhartHartRunning {
+				if !fitSteinhartHartTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s FitSteinhartHartSolver
+	s.Start(fitSteinhartHartTestStart())
+	if r := s.Advance(recv, 0); r.Status != FitSteinhartHartRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestFitSteinhartHartSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestFitSteinhartHartSolverAllocatesNothing(t *testing.T) {
+	recv := fitSteinhartHartTestReceiver()
+	var s FitSteinhartHartSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(fitSteinhartHartTestStart())
+		for s.Advance(recv, FitSteinhartHartTickMinimum).Status == FitSteinhartHartRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// fitSteinhartHartTestSameResult reports whether two results are the same, NaN matching NaN.
+func fitSteinhartHartTestSameResult(a, b FitSteinhartHartResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkFitSteinhartHart measures one whole run from the spec's start.
 func BenchmarkFitSteinhartHart(b *testing.B) {
 	recv := fitSteinhartHartTestReceiver()

@@ -26,6 +26,8 @@ const (
 	ReachNoDecrease
 	// ReachDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	ReachDiverged
+	// ReachRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	ReachRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s ReachStatus) String() string {
 		return "no decrease"
 	case ReachDiverged:
 		return "diverged"
+	case ReachRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -126,16 +130,90 @@ func ReachWithLimits(recv *Arm, x0 [2]float32, limits ReachLimits) ReachResult {
 	}
 }
 
+// ReachTickMinimum is the smallest call budget with which every ReachSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 21).
+const ReachTickMinimum = 21
+
+// ReachSolver is a run of Reach that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (ReachDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 21. A budget of at least ReachTickMinimum = 21 progresses at every Advance; a smaller one may make no call. Advancing until the status is not ReachRunning ends exactly as ReachWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Reach and ReachWithLimits use at most 2008 bytes, the run's state included; Advance at most 1216 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 248 bytes.
+//
+// While Status is ReachRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type ReachSolver struct {
+	run       reachDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    ReachLimits  // the limits of the runs; ReachDefaultLimits() until SetLimits
+	ownLimits bool         // whether SetLimits has set limits
+	started   bool         // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *ReachSolver) SetLimits(limits ReachLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *ReachSolver) Start(x0 [2]float32) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *ReachSolver) StartFrom(from ReachResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *ReachSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *ReachSolver) begin(x0 [2]float32) {
+	if !s.ownLimits {
+		s.limits = ReachDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, reachBox{
+		lower: [2]float32{-0.5, 0.1},
+		upper: [2]float32{2.0, 2.6},
+	})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status ReachRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See ReachSolver for the budget rule and what advancing assumes of the objective.
+func (s *ReachSolver) Advance(recv *Arm, budget int) ReachResult {
+	if !s.started {
+		var x0 [2]float32
+		s.Start(x0)
+	}
+	out := s.run.advance(recv, budget)
+	return ReachResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of Reach from twolink.toml; the kernels below read them.
 const (
-	reachStepInitial    = 1.0                   // step.initial
-	reachStepDecrease   = 0.0001                // step.decrease (c1)
-	reachStepCurvature  = 0.9                   // step.curvature (c2)
-	reachStepTrials     = 21                    // step.trials
-	reachDerivativeCost = 0                     // objective calls per gradient
-	reachUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	reachLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
-	reachActiveMargin   = 1e-3                  // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
+	reachStepInitial     = 1.0                   // step.initial
+	reachStepDecrease    = 0.0001                // step.decrease (c1)
+	reachStepCurvature   = 0.9                   // step.curvature (c2)
+	reachStepTrials      = 21                    // step.trials
+	reachDerivativeCost  = 0                     // objective calls per gradient
+	reachCalibrationCost = 0                     // objective calls of choosing the difference intervals
+	reachIterationCalls  = 21                    // most objective calls of one line search with the gradient at its step
+	reachSettleCalls     = 0                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	reachUnitRoundoff    = 5.960464477539063e-08 // unit roundoff u of the float type
+	reachLargestFinite   = 0x1.fffffep127        // the largest finite value of the float type
+	reachActiveMargin    = 1e-3                  // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
 )
 
 // reachMinimize runs the descent loop from x0 within lim:
@@ -169,172 +247,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func reachMinimize(recv *Arm, x0 [2]float32, lim ReachLimits, bounds reachBox) reachOutcome {
-	x := x0
-	reachEnterBox(&x, &bounds)
-	out := reachOutcome{x: x, status: ReachOutOfEvaluations, gradient: float32(math.NaN())}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := recv.Miss(x)
-	out.f, out.evaluations = fx, 1
-	if !reachFinite(fx) || !reachFiniteVec(&x) {
-		out.status = ReachNonFiniteStart
-		return out
-	}
-	diffs := reachDifferences{bounds: bounds}
-	calls, ok := reachCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+reachDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float32
-	out.evaluations += reachDerivative(recv, &x, fx, &g, &diffs)
-
-	if !reachFiniteVec(&g) {
-		out.status = ReachNonFiniteGradient
-		return out
-	}
-	var dir reachDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float32
-	t, slope := float32(reachStepInitial), float32(0) // the previous iteration's accepted step and slope
-	best := out                                       // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                // whether g and e at x come from reachConfirmGradient or settle
-	stalled := false                                  // whether the run can make no more progress at x
-	retried := -1                                     // the iteration whose stall was retried with recalibrated differences
-	verify := reachVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != reachVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see reachConfirmGradient and settle).
-			calls, ok := reachSettle(recv, &x, fx, &g, &e, &diffs, verify == reachVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ReachOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !reachFiniteVec(&g) {
-				return best.ending(ReachNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = reachVerifyNothing, true
-		case !confirmed:
-			reachGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := reachStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, reachLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * reachLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (reachDerivativeCost == 0 || confirmed) {
-			out.status = ReachGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = reachVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if reachDerivativeCost == 0 {
-				return best.ending(ReachStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if reachStepWithin(&s, &x, lim.Step) {
-				verify, stalled = reachVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(ReachDiverged, out.iterations, out.evaluations)
-			}
-			reachCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(ReachOutOfIterations, out.iterations, out.evaluations)
-		}
-		reachSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := reachDot(&g, &d)
-		if !(now < 0) || !reachFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			reachSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = reachDot(&g, &d)
-		}
-		first := float32(reachStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := reachTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := reachLineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case reachSearchOutOfBudget:
-			return best.ending(ReachOutOfEvaluations, out.iterations, out.evaluations)
-		case reachSearchDiverged:
-			return best.ending(ReachDiverged, out.iterations, out.evaluations)
-		case reachSearchExhausted, reachSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see reachRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := ReachNoAcceptableStep
-			switch {
-			case found.rising:
-				end = ReachNoDecrease
-			case found.end == reachSearchTiny && canSettle:
-				verify, stalled = reachVerifyStall, true
-				continue
-			case found.end == reachSearchTiny:
-				end = ReachStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !reachFiniteVec(&xt) {
-			return best.ending(ReachNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+reachDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
-					out.iterations++
-				}
-				return best.ending(ReachOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += reachDerivative(recv, &xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		reachDifference(&s, &xt, &x)
-		reachDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
-		t, slope = found.step, now
-
-		if !reachFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(ReachNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r reachDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(recv, reachUnlimited)
 }
 
 // reachOutcome is the kernel's report; the generated entry point copies it into
@@ -355,49 +271,276 @@ func (o reachOutcome) ending(end ReachStatus, iterations, evaluations int) reach
 	return o
 }
 
-// reachEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
-// the projection P(x) onto the box.
-func reachEnterBox(x *[2]float32, b *reachBox) {
-	for i := range x {
-		x[i] = reachClampBetween(x[i], b.lower[i], b.upper[i])
-	}
+// reachDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type reachDescent struct {
+	lim       ReachLimits
+	stage     int              // what advance does next
+	diffs     reachDifferences // the box and the difference intervals
+	dir       reachDirection   // the direction's memory
+	x, g, e   [2]float32       // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float32       // the search direction, the last step and its gradient change
+	fx        float32          // f(x)
+	t, slope  float32          // the previous iteration's accepted step and slope
+	out, best reachOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float32          // f(x0)
+	rises     int              // consecutive accepted steps that raised f above f(x0)
+	confirmed bool             // whether g and e at x come from reachConfirmGradient or settle
+	stalled   bool             // whether the run can make no more progress at x
+	retried   int              // the iteration whose stall was retried with recalibrated differences
+	verify    int              // what to check at x before judging it again
 }
 
-// reachClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func reachClampBetween(v, a, b float32) float32 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *reachDescent) prepare(x0 [2]float32, lim ReachLimits, bounds reachBox) {
+	r.lim, r.stage = lim, reachStageBegin
+	r.diffs = reachDifferences{bounds: bounds}
+	r.x = x0
+	reachEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float32{}, [2]float32{}, [2]float32{}, [2]float32{}, [2]float32{}
+	r.out = reachOutcome{x: r.x, f: float32(math.NaN()), status: ReachOutOfEvaluations, gradient: float32(math.NaN())}
+	r.best = r.out
 }
 
-// reachFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func reachFinite(v float32) bool {
-	return v >= -reachLargestFinite && v <= reachLargestFinite
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *reachDescent) forget() {
+	r.dir.reset()
 }
 
-// reachFiniteVec reports whether every component of x is finite.
-func reachFiniteVec(x *[2]float32) bool {
-	for i := range x {
-		if !reachFinite(x[i]) {
-			return false
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with ReachRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, reachSettleCalls and reachIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *reachDescent) advance(recv *Arm, budget int) reachOutcome {
+	used := r.out.evaluations
+	for r.stage != reachStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case reachStageBegin:
+			if left < 1+reachCalibrationCost+reachDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin(recv)
+		case reachStageJudge:
+			if r.verify != reachVerifyNothing && left < reachSettleCalls {
+				return r.paused()
+			}
+			r.judge(recv)
+		default:
+			if left < reachIterationCalls {
+				return r.paused()
+			}
+			r.search(recv)
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *reachDescent) paused() reachOutcome {
+	return r.best.ending(ReachRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *reachDescent) finish(end ReachStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = reachStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *reachDescent) begin(recv *Arm) {
+	r.stage = reachStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = recv.Miss(r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !reachFinite(r.fx) || !reachFiniteVec(&r.x) {
+		r.out.status = ReachNonFiniteStart
+		return
+	}
+	calls, ok := reachCalibrate(recv, &r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+reachDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += reachDerivative(recv, &r.x, r.fx, &r.g, &r.diffs)
+
+	if !reachFiniteVec(&r.g) {
+		r.out.status = ReachNonFiniteGradient
+		return
+	}
+	r.t, r.slope = reachStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, reachVerifyNothing
+	r.stage = reachStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves reachStageSearch next when the run goes on.
+func (r *reachDescent) judge(recv *Arm) {
+	switch {
+	case r.verify != reachVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see reachConfirmGradient and settle).
+		calls, ok := reachSettle(recv, &r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == reachVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(ReachOutOfEvaluations)
+			return
+		}
+		if !reachFiniteVec(&r.g) {
+			r.finish(ReachNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = reachVerifyNothing, true
+	case !r.confirmed:
+		reachGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := reachStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, reachLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * reachLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (reachDerivativeCost == 0 || r.confirmed) {
+		r.out.status = ReachGradientSmall
+		r.stage = reachStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = reachVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if reachDerivativeCost == 0 {
+			r.finish(ReachStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if reachStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = reachVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(ReachDiverged)
+			return
+		}
+		reachCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(ReachOutOfIterations)
+		return
+	}
+	r.stage = reachStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves reachStageJudge next when the run
+// goes on.
+func (r *reachDescent) search(recv *Arm) {
+	reachSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := reachDot(&r.g, &r.d)
+	if !(now < 0) || !reachFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		reachSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = reachDot(&r.g, &r.d)
+	}
+	first := float32(reachStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := reachTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float32
+	found := reachLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case reachSearchOutOfBudget:
+		r.finish(ReachOutOfEvaluations)
+		return
+	case reachSearchDiverged:
+		r.finish(ReachDiverged)
+		return
+	case reachSearchExhausted, reachSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see reachRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := ReachNoAcceptableStep
+		switch {
+		case found.rising:
+			end = ReachNoDecrease
+		case found.end == reachSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = reachVerifyStall, true, reachStageJudge
+			return
+		case found.end == reachSearchTiny:
+			end = ReachStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !reachFiniteVec(&xt) {
+		r.finish(ReachNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+reachDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, float32(math.NaN())
+				r.out.iterations++
+			}
+			r.finish(ReachOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += reachDerivative(recv, &xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	reachDifference(&r.s, &xt, &r.x)
+	reachDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, float32(math.NaN())
+	r.t, r.slope = found.step, now
+
+	if !reachFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(ReachNonFiniteGradient)
+		return
+	}
+	r.stage = reachStageJudge
 }
 
 // reachDifferences is what the kernel knows about evaluating the objective:
@@ -411,17 +554,6 @@ type reachDifferences struct {
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see reachRoundingFloor)
 	bounds    reachBox
-}
-
-// reachCalibrate: an analytic gradient needs no intervals.
-func reachCalibrate(recv *Arm, x *[2]float32, fx float32, diffs *reachDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// reachDerivative calls the user's gradient; it costs no objective calls.
-func reachDerivative(recv *Arm, x *[2]float32, fx float32, g *[2]float32, diffs *reachDifferences) int {
-	*g = recv.MissGrad(*x)
-	return 0
 }
 
 // reachDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -514,12 +646,77 @@ func reachCurvatureSafe(s, y *[2]float32) bool {
 	return sy > 0 && (sy/reachDot(s, s))*(sy/reachDot(y, y)) > reachUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	reachStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	reachStageJudge         // settle when asked (reachSettleCalls), judge x, learn from the step: no calls otherwise
+	reachStageSearch        // the line search and the gradient at the accepted point: reachIterationCalls
+	reachStageOver          // the run has ended; out is its result
+)
+
+// reachEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
+// the projection P(x) onto the box.
+func reachEnterBox(x *[2]float32, b *reachBox) {
+	for i := range x {
+		x[i] = reachClampBetween(x[i], b.lower[i], b.upper[i])
+	}
+}
+
+// reachClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func reachClampBetween(v, a, b float32) float32 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
 // What minimize checks at x before judging it again.
 const (
 	reachVerifyNothing = iota
 	reachVerifyPass    // a difference gradient passed the test
 	reachVerifyStall   // no step makes progress
 )
+
+// reachFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func reachFinite(v float32) bool {
+	return v >= -reachLargestFinite && v <= reachLargestFinite
+}
+
+// reachFiniteVec reports whether every component of x is finite.
+func reachFiniteVec(x *[2]float32) bool {
+	for i := range x {
+		if !reachFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// reachCalibrate: an analytic gradient needs no intervals.
+func reachCalibrate(recv *Arm, x *[2]float32, fx float32, diffs *reachDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// reachDerivative calls the user's gradient; it costs no objective calls.
+func reachDerivative(recv *Arm, x *[2]float32, fx float32, g *[2]float32, diffs *reachDifferences) int {
+	*g = recv.MissGrad(*x)
+	return 0
+}
 
 // reachSettle prepares a verdict at x: with differences it confirms the
 // gradient (reachConfirmGradient), and at a stall it adds to each error bound
@@ -1119,3 +1316,6 @@ func reachDifference(out, a, b *[2]float32) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// reachUnlimited is a tick budget that never pauses a run.
+const reachUnlimited = int(^uint(0) >> 1)

@@ -152,6 +152,57 @@ func TestReachGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestReachSolverTicks advances a ReachSolver from the spec's start with budgets of ReachTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where Reach's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestReachSolverTicks(t *testing.T) {
+	recv := reachTestReceiver()
+	want := Reach(recv, reachTestStart())
+	for _, budget := range []int{ReachTickMinimum, ReachTickMinimum + 1, 2 * ReachTickMinimum, 7 * ReachTickMinimum} {
+		var s ReachSolver
+		s.Start(reachTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(recv, budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != ReachRunning {
+				if !reachTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s ReachSolver
+	s.Start(reachTestStart())
+	if r := s.Advance(recv, 0); r.Status != ReachRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestReachSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestReachSolverAllocatesNothing(t *testing.T) {
+	recv := reachTestReceiver()
+	var s ReachSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(reachTestStart())
+		for s.Advance(recv, ReachTickMinimum).Status == ReachRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// reachTestSameResult reports whether two results are the same, NaN matching NaN.
+func reachTestSameResult(a, b ReachResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkReach measures one whole run from the spec's start.
 func BenchmarkReach(b *testing.B) {
 	recv := reachTestReceiver()

@@ -26,6 +26,8 @@ const (
 	MinBowlInBoxNoDecrease
 	// MinBowlInBoxDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinBowlInBoxDiverged
+	// MinBowlInBoxRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinBowlInBoxRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinBowlInBoxStatus) String() string {
 		return "no decrease"
 	case MinBowlInBoxDiverged:
 		return "diverged"
+	case MinBowlInBoxRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -126,16 +130,90 @@ func MinBowlInBoxWithLimits(x0 [3]float32, limits MinBowlInBoxLimits) MinBowlInB
 	}
 }
 
+// MinBowlInBoxTickMinimum is the smallest call budget with which every MinBowlInBoxSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 27, confirming a difference gradient 24).
+const MinBowlInBoxTickMinimum = 27
+
+// MinBowlInBoxSolver is a run of MinBowlInBox that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinBowlInBoxDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 27, confirming a difference gradient 24. A budget of at least MinBowlInBoxTickMinimum = 27 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinBowlInBoxRunning ends exactly as MinBowlInBoxWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinBowlInBox and MinBowlInBoxWithLimits use at most 2252 bytes, the run's state included; Advance at most 1312 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 308 bytes.
+//
+// While Status is MinBowlInBoxRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinBowlInBoxSolver struct {
+	run       minBowlInBoxDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinBowlInBoxLimits  // the limits of the runs; MinBowlInBoxDefaultLimits() until SetLimits
+	ownLimits bool                // whether SetLimits has set limits
+	started   bool                // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinBowlInBoxSolver) SetLimits(limits MinBowlInBoxLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinBowlInBoxSolver) Start(x0 [3]float32) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *MinBowlInBoxSolver) StartFrom(from MinBowlInBoxResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *MinBowlInBoxSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinBowlInBoxSolver) begin(x0 [3]float32) {
+	if !s.ownLimits {
+		s.limits = MinBowlInBoxDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minBowlInBoxBox{
+		lower: [3]float32{0.5, float32(math.Inf(-1)), 0.25},
+		upper: [3]float32{2.0, float32(math.Inf(1)), 0.25},
+	})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinBowlInBoxRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinBowlInBoxSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinBowlInBoxSolver) Advance(budget int) MinBowlInBoxResult {
+	if !s.started {
+		var x0 [3]float32
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return MinBowlInBoxResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinBowlInBox from shapes.toml; the kernels below read them.
 const (
-	minBowlInBoxStepInitial    = 1.0                   // step.initial
-	minBowlInBoxStepShrink     = 0.5                   // step.shrink
-	minBowlInBoxStepDecrease   = 0.0001                // step.decrease (c1)
-	minBowlInBoxStepTrials     = 21                    // step.trials
-	minBowlInBoxDerivativeCost = 6                     // objective calls per gradient
-	minBowlInBoxUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	minBowlInBoxLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
-	minBowlInBoxActiveMargin   = 1e-3                  // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
+	minBowlInBoxStepInitial     = 1.0                   // step.initial
+	minBowlInBoxStepShrink      = 0.5                   // step.shrink
+	minBowlInBoxStepDecrease    = 0.0001                // step.decrease (c1)
+	minBowlInBoxStepTrials      = 21                    // step.trials
+	minBowlInBoxDerivativeCost  = 6                     // objective calls per gradient
+	minBowlInBoxCalibrationCost = 12                    // objective calls of choosing the difference intervals
+	minBowlInBoxIterationCalls  = 27                    // most objective calls of one line search with the gradient at its step
+	minBowlInBoxSettleCalls     = 24                    // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minBowlInBoxUnitRoundoff    = 5.960464477539063e-08 // unit roundoff u of the float type
+	minBowlInBoxLargestFinite   = 0x1.fffffep127        // the largest finite value of the float type
+	minBowlInBoxActiveMargin    = 1e-3                  // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
 )
 
 // minBowlInBoxMinimize runs the descent loop from x0 within lim:
@@ -169,172 +247,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minBowlInBoxMinimize(x0 [3]float32, lim MinBowlInBoxLimits, bounds minBowlInBoxBox) minBowlInBoxOutcome {
-	x := x0
-	minBowlInBoxEnterBox(&x, &bounds)
-	out := minBowlInBoxOutcome{x: x, status: MinBowlInBoxOutOfEvaluations, gradient: float32(math.NaN())}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Bowl(x[:])
-	out.f, out.evaluations = fx, 1
-	if !minBowlInBoxFinite(fx) || !minBowlInBoxFiniteVec(&x) {
-		out.status = MinBowlInBoxNonFiniteStart
-		return out
-	}
-	diffs := minBowlInBoxDifferences{bounds: bounds}
-	calls, ok := minBowlInBoxCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minBowlInBoxDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float32
-	out.evaluations += minBowlInBoxDerivative(&x, fx, &g, &diffs)
-
-	if !minBowlInBoxFiniteVec(&g) {
-		out.status = MinBowlInBoxNonFiniteGradient
-		return out
-	}
-	var dir minBowlInBoxDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float32
-	t, slope := float32(minBowlInBoxStepInitial), float32(0) // the previous iteration's accepted step and slope
-	best := out                                              // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                       // whether g and e at x come from minBowlInBoxConfirmGradient or settle
-	stalled := false                                         // whether the run can make no more progress at x
-	retried := -1                                            // the iteration whose stall was retried with recalibrated differences
-	verify := minBowlInBoxVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minBowlInBoxVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minBowlInBoxConfirmGradient and settle).
-			calls, ok := minBowlInBoxSettle(&x, fx, &g, &e, &diffs, verify == minBowlInBoxVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinBowlInBoxOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minBowlInBoxFiniteVec(&g) {
-				return best.ending(MinBowlInBoxNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minBowlInBoxVerifyNothing, true
-		case !confirmed:
-			minBowlInBoxGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minBowlInBoxStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minBowlInBoxLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minBowlInBoxLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minBowlInBoxDerivativeCost == 0 || confirmed) {
-			out.status = MinBowlInBoxGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minBowlInBoxVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minBowlInBoxDerivativeCost == 0 {
-				return best.ending(MinBowlInBoxStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minBowlInBoxStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minBowlInBoxVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinBowlInBoxDiverged, out.iterations, out.evaluations)
-			}
-			minBowlInBoxCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinBowlInBoxOutOfIterations, out.iterations, out.evaluations)
-		}
-		minBowlInBoxSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minBowlInBoxDot(&g, &d)
-		if !(now < 0) || !minBowlInBoxFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minBowlInBoxSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minBowlInBoxDot(&g, &d)
-		}
-		first := float32(minBowlInBoxStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minBowlInBoxTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minBowlInBoxLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minBowlInBoxSearchOutOfBudget:
-			return best.ending(MinBowlInBoxOutOfEvaluations, out.iterations, out.evaluations)
-		case minBowlInBoxSearchDiverged:
-			return best.ending(MinBowlInBoxDiverged, out.iterations, out.evaluations)
-		case minBowlInBoxSearchExhausted, minBowlInBoxSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minBowlInBoxRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinBowlInBoxNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinBowlInBoxNoDecrease
-			case found.end == minBowlInBoxSearchTiny && canSettle:
-				verify, stalled = minBowlInBoxVerifyStall, true
-				continue
-			case found.end == minBowlInBoxSearchTiny:
-				end = MinBowlInBoxStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minBowlInBoxFiniteVec(&xt) {
-			return best.ending(MinBowlInBoxNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minBowlInBoxDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
-					out.iterations++
-				}
-				return best.ending(MinBowlInBoxOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minBowlInBoxDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minBowlInBoxDifference(&s, &xt, &x)
-		minBowlInBoxDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
-		t, slope = found.step, now
-
-		if !minBowlInBoxFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinBowlInBoxNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minBowlInBoxDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(minBowlInBoxUnlimited)
 }
 
 // minBowlInBoxOutcome is the kernel's report; the generated entry point copies it into
@@ -354,6 +270,390 @@ func (o minBowlInBoxOutcome) ending(end MinBowlInBoxStatus, iterations, evaluati
 	o.status, o.iterations, o.evaluations = end, iterations, evaluations
 	return o
 }
+
+// minBowlInBoxDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minBowlInBoxDescent struct {
+	lim       MinBowlInBoxLimits
+	stage     int                     // what advance does next
+	diffs     minBowlInBoxDifferences // the box and the difference intervals
+	dir       minBowlInBoxDirection   // the direction's memory
+	x, g, e   [3]float32              // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float32              // the search direction, the last step and its gradient change
+	fx        float32                 // f(x)
+	t, slope  float32                 // the previous iteration's accepted step and slope
+	out, best minBowlInBoxOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float32                 // f(x0)
+	rises     int                     // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                    // whether g and e at x come from minBowlInBoxConfirmGradient or settle
+	stalled   bool                    // whether the run can make no more progress at x
+	retried   int                     // the iteration whose stall was retried with recalibrated differences
+	verify    int                     // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minBowlInBoxDescent) prepare(x0 [3]float32, lim MinBowlInBoxLimits, bounds minBowlInBoxBox) {
+	r.lim, r.stage = lim, minBowlInBoxStageBegin
+	r.diffs = minBowlInBoxDifferences{bounds: bounds}
+	r.x = x0
+	minBowlInBoxEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float32{}, [3]float32{}, [3]float32{}, [3]float32{}, [3]float32{}
+	r.out = minBowlInBoxOutcome{x: r.x, f: float32(math.NaN()), status: MinBowlInBoxOutOfEvaluations, gradient: float32(math.NaN())}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minBowlInBoxDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinBowlInBoxRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minBowlInBoxSettleCalls and minBowlInBoxIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minBowlInBoxDescent) advance(budget int) minBowlInBoxOutcome {
+	used := r.out.evaluations
+	for r.stage != minBowlInBoxStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minBowlInBoxStageBegin:
+			if left < 1+minBowlInBoxCalibrationCost+minBowlInBoxDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case minBowlInBoxStageJudge:
+			if r.verify != minBowlInBoxVerifyNothing && left < minBowlInBoxSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < minBowlInBoxIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minBowlInBoxDescent) paused() minBowlInBoxOutcome {
+	return r.best.ending(MinBowlInBoxRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minBowlInBoxDescent) finish(end MinBowlInBoxStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minBowlInBoxStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minBowlInBoxDescent) begin() {
+	r.stage = minBowlInBoxStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Bowl(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minBowlInBoxFinite(r.fx) || !minBowlInBoxFiniteVec(&r.x) {
+		r.out.status = MinBowlInBoxNonFiniteStart
+		return
+	}
+	calls, ok := minBowlInBoxCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minBowlInBoxDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minBowlInBoxDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !minBowlInBoxFiniteVec(&r.g) {
+		r.out.status = MinBowlInBoxNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minBowlInBoxStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minBowlInBoxVerifyNothing
+	r.stage = minBowlInBoxStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minBowlInBoxStageSearch next when the run goes on.
+func (r *minBowlInBoxDescent) judge() {
+	switch {
+	case r.verify != minBowlInBoxVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minBowlInBoxConfirmGradient and settle).
+		calls, ok := minBowlInBoxSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minBowlInBoxVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinBowlInBoxOutOfEvaluations)
+			return
+		}
+		if !minBowlInBoxFiniteVec(&r.g) {
+			r.finish(MinBowlInBoxNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minBowlInBoxVerifyNothing, true
+	case !r.confirmed:
+		minBowlInBoxGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minBowlInBoxStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minBowlInBoxLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minBowlInBoxLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minBowlInBoxDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinBowlInBoxGradientSmall
+		r.stage = minBowlInBoxStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minBowlInBoxVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minBowlInBoxDerivativeCost == 0 {
+			r.finish(MinBowlInBoxStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minBowlInBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minBowlInBoxVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinBowlInBoxDiverged)
+			return
+		}
+		minBowlInBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinBowlInBoxOutOfIterations)
+		return
+	}
+	r.stage = minBowlInBoxStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minBowlInBoxStageJudge next when the run
+// goes on.
+func (r *minBowlInBoxDescent) search() {
+	minBowlInBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minBowlInBoxDot(&r.g, &r.d)
+	if !(now < 0) || !minBowlInBoxFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minBowlInBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minBowlInBoxDot(&r.g, &r.d)
+	}
+	first := float32(minBowlInBoxStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minBowlInBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float32
+	found := minBowlInBoxLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minBowlInBoxSearchOutOfBudget:
+		r.finish(MinBowlInBoxOutOfEvaluations)
+		return
+	case minBowlInBoxSearchDiverged:
+		r.finish(MinBowlInBoxDiverged)
+		return
+	case minBowlInBoxSearchExhausted, minBowlInBoxSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minBowlInBoxRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinBowlInBoxNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinBowlInBoxNoDecrease
+		case found.end == minBowlInBoxSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minBowlInBoxVerifyStall, true, minBowlInBoxStageJudge
+			return
+		case found.end == minBowlInBoxSearchTiny:
+			end = MinBowlInBoxStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minBowlInBoxFiniteVec(&xt) {
+		r.finish(MinBowlInBoxNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minBowlInBoxDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, float32(math.NaN())
+				r.out.iterations++
+			}
+			r.finish(MinBowlInBoxOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minBowlInBoxDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minBowlInBoxDifference(&r.s, &xt, &r.x)
+	minBowlInBoxDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, float32(math.NaN())
+	r.t, r.slope = found.step, now
+
+	if !minBowlInBoxFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinBowlInBoxNonFiniteGradient)
+		return
+	}
+	r.stage = minBowlInBoxStageJudge
+}
+
+// minBowlInBoxDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type minBowlInBoxDifferences struct {
+	ratio     [3]float32
+	curvature [3]float32
+	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlInBoxRoundingFloor)
+	bounds    minBowlInBoxBox
+}
+
+// minBowlInBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type minBowlInBoxDirection struct {
+	h      [3][3]float32 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *minBowlInBoxDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *minBowlInBoxDirection) compute(g, d *[3]float32) {
+	for i := range s.h {
+		d[i] = -minBowlInBoxDot(&s.h[i], g)
+	}
+}
+
+func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
+	if !minBowlInBoxCurvatureSafe(step, change) {
+		return
+	}
+	sy := minBowlInBoxDot(step, change)
+	if !s.scaled {
+		gamma := sy / minBowlInBoxDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [3]float32
+	for i := range s.h {
+		hy[i] = minBowlInBoxDot(&s.h[i], change)
+	}
+	outer := (rho*rho*minBowlInBoxDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *minBowlInBoxDirection) firstTrial(t, slope, now float32) float32 {
+	return 1
+}
+
+// minBowlInBoxDot returns aᵀb.
+func minBowlInBoxDot(a, b *[3]float32) float32 {
+	var s float32
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// minBowlInBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func minBowlInBoxCurvatureSafe(s, y *[3]float32) bool {
+	sy := minBowlInBoxDot(s, y)
+	return sy > 0 && (sy/minBowlInBoxDot(s, s))*(sy/minBowlInBoxDot(y, y)) > minBowlInBoxUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minBowlInBoxStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minBowlInBoxStageJudge         // settle when asked (minBowlInBoxSettleCalls), judge x, learn from the step: no calls otherwise
+	minBowlInBoxStageSearch        // the line search and the gradient at the accepted point: minBowlInBoxIterationCalls
+	minBowlInBoxStageOver          // the run has ended; out is its result
+)
 
 // minBowlInBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
@@ -378,6 +678,13 @@ func minBowlInBoxClampBetween(v, a, b float32) float32 {
 	return v
 }
 
+// What minimize checks at x before judging it again.
+const (
+	minBowlInBoxVerifyNothing = iota
+	minBowlInBoxVerifyPass    // a difference gradient passed the test
+	minBowlInBoxVerifyStall   // no step makes progress
+)
+
 // minBowlInBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -398,19 +705,6 @@ func minBowlInBoxFiniteVec(x *[3]float32) bool {
 		}
 	}
 	return true
-}
-
-// minBowlInBoxDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type minBowlInBoxDifferences struct {
-	ratio     [3]float32
-	curvature [3]float32
-	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlInBoxRoundingFloor)
-	bounds    minBowlInBoxBox
 }
 
 // minBowlInBoxCalibrate chooses each central-difference interval from the
@@ -657,103 +951,6 @@ func minBowlInBoxParabola(f0, a, fa, b, fb float32) (slope, second float32) {
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// minBowlInBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type minBowlInBoxDirection struct {
-	h      [3][3]float32 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *minBowlInBoxDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *minBowlInBoxDirection) compute(g, d *[3]float32) {
-	for i := range s.h {
-		d[i] = -minBowlInBoxDot(&s.h[i], g)
-	}
-}
-
-func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
-	if !minBowlInBoxCurvatureSafe(step, change) {
-		return
-	}
-	sy := minBowlInBoxDot(step, change)
-	if !s.scaled {
-		gamma := sy / minBowlInBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [3]float32
-	for i := range s.h {
-		hy[i] = minBowlInBoxDot(&s.h[i], change)
-	}
-	outer := (rho*rho*minBowlInBoxDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *minBowlInBoxDirection) firstTrial(t, slope, now float32) float32 {
-	return 1
-}
-
-// minBowlInBoxDot returns aᵀb.
-func minBowlInBoxDot(a, b *[3]float32) float32 {
-	var s float32
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// minBowlInBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func minBowlInBoxCurvatureSafe(s, y *[3]float32) bool {
-	sy := minBowlInBoxDot(s, y)
-	return sy > 0 && (sy/minBowlInBoxDot(s, s))*(sy/minBowlInBoxDot(y, y)) > minBowlInBoxUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	minBowlInBoxVerifyNothing = iota
-	minBowlInBoxVerifyPass    // a difference gradient passed the test
-	minBowlInBoxVerifyStall   // no step makes progress
-)
 
 // minBowlInBoxSettle prepares a verdict at x: with differences it confirms the
 // gradient (minBowlInBoxConfirmGradient), and at a stall it adds to each error bound
@@ -1149,3 +1346,6 @@ func minBowlInBoxDifference(out, a, b *[3]float32) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minBowlInBoxUnlimited is a tick budget that never pauses a run.
+const minBowlInBoxUnlimited = int(^uint(0) >> 1)

@@ -59,6 +59,55 @@ func TestMinBowlInBoxRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestMinBowlInBoxSolverTicks advances a MinBowlInBoxSolver from the spec's start with budgets of MinBowlInBoxTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinBowlInBox's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinBowlInBoxSolverTicks(t *testing.T) {
+	want := MinBowlInBox(minBowlInBoxTestStart())
+	for _, budget := range []int{MinBowlInBoxTickMinimum, MinBowlInBoxTickMinimum + 1, 2 * MinBowlInBoxTickMinimum, 7 * MinBowlInBoxTickMinimum} {
+		var s MinBowlInBoxSolver
+		s.Start(minBowlInBoxTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinBowlInBoxRunning {
+				if !minBowlInBoxTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinBowlInBoxSolver
+	s.Start(minBowlInBoxTestStart())
+	if r := s.Advance(0); r.Status != MinBowlInBoxRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinBowlInBoxSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinBowlInBoxSolverAllocatesNothing(t *testing.T) {
+	var s MinBowlInBoxSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minBowlInBoxTestStart())
+		for s.Advance(MinBowlInBoxTickMinimum).Status == MinBowlInBoxRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minBowlInBoxTestSameResult reports whether two results are the same, NaN matching NaN.
+func minBowlInBoxTestSameResult(a, b MinBowlInBoxResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinBowlInBox measures one whole run from the spec's start.
 func BenchmarkMinBowlInBox(b *testing.B) {
 	var r MinBowlInBoxResult

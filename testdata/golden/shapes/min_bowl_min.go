@@ -26,6 +26,8 @@ const (
 	MinBowlNoDecrease
 	// MinBowlDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinBowlDiverged
+	// MinBowlRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinBowlRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinBowlStatus) String() string {
 		return "no decrease"
 	case MinBowlDiverged:
 		return "diverged"
+	case MinBowlRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func MinBowlWithLimits(x0 [3]float32, limits MinBowlLimits) MinBowlResult {
 	}
 }
 
+// MinBowlTickMinimum is the smallest call budget with which every MinBowlSolver.Advance progresses: the largest worst case of one stage of a run (the start 10 calls, an iteration 84, confirming a difference gradient 12).
+const MinBowlTickMinimum = 84
+
+// MinBowlSolver is a run of MinBowl that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinBowlDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 10 calls, an iteration 84, confirming a difference gradient 12. A budget of at least MinBowlTickMinimum = 84 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinBowlRunning ends exactly as MinBowlWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 3 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinBowl and MinBowlWithLimits use at most 2056 bytes, the run's state included; Advance at most 1216 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 200 bytes.
+//
+// While Status is MinBowlRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinBowlSolver struct {
+	run       minBowlDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinBowlLimits  // the limits of the runs; MinBowlDefaultLimits() until SetLimits
+	ownLimits bool           // whether SetLimits has set limits
+	started   bool           // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinBowlSolver) SetLimits(limits MinBowlLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinBowlSolver) Start(x0 [3]float32) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *MinBowlSolver) StartFrom(from MinBowlResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the previous conjugate direction); the run goes on from its point, next with a steepest-descent step.
+func (s *MinBowlSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinBowlSolver) begin(x0 [3]float32) {
+	if !s.ownLimits {
+		s.limits = MinBowlDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minBowlBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinBowlRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinBowlSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinBowlSolver) Advance(budget int) MinBowlResult {
+	if !s.started {
+		var x0 [3]float32
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return MinBowlResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinBowl from shapes.toml; the kernels below read them.
 const (
-	minBowlStepInitial    = 1.0                   // step.initial
-	minBowlStepDecrease   = 0.0001                // step.decrease (c1)
-	minBowlStepCurvature  = 0.1                   // step.curvature (c2)
-	minBowlStepTrials     = 21                    // step.trials
-	minBowlDerivativeCost = 3                     // objective calls per gradient
-	minBowlUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	minBowlLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
-	minBowlCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	minBowlStepInitial     = 1.0                   // step.initial
+	minBowlStepDecrease    = 0.0001                // step.decrease (c1)
+	minBowlStepCurvature   = 0.1                   // step.curvature (c2)
+	minBowlStepTrials      = 21                    // step.trials
+	minBowlDerivativeCost  = 3                     // objective calls per gradient
+	minBowlCalibrationCost = 6                     // objective calls of choosing the difference intervals
+	minBowlIterationCalls  = 84                    // most objective calls of one line search with the gradient at its step
+	minBowlSettleCalls     = 12                    // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minBowlUnitRoundoff    = 5.960464477539063e-08 // unit roundoff u of the float type
+	minBowlLargestFinite   = 0x1.fffffep127        // the largest finite value of the float type
+	minBowlCentralScale    = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minBowlMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minBowlMinimize(x0 [3]float32, lim MinBowlLimits, bounds minBowlBox) minBowlOutcome {
-	x := x0
-	minBowlEnterBox(&x, &bounds)
-	out := minBowlOutcome{x: x, status: MinBowlOutOfEvaluations, gradient: float32(math.NaN())}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Bowl(x[:])
-	out.f, out.evaluations = fx, 1
-	if !minBowlFinite(fx) || !minBowlFiniteVec(&x) {
-		out.status = MinBowlNonFiniteStart
-		return out
-	}
-	diffs := minBowlDifferences{bounds: bounds}
-	calls, ok := minBowlCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minBowlDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [3]float32
-	out.evaluations += minBowlDerivative(&x, fx, &g, &diffs)
-
-	if !minBowlFiniteVec(&g) {
-		out.status = MinBowlNonFiniteGradient
-		return out
-	}
-	var dir minBowlDirection
-	dir.reset()
-	var d, xt, gt, s, y [3]float32
-	t, slope := float32(minBowlStepInitial), float32(0) // the previous iteration's accepted step and slope
-	best := out                                         // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                  // whether g and e at x come from minBowlConfirmGradient or settle
-	stalled := false                                    // whether the run can make no more progress at x
-	retried := -1                                       // the iteration whose stall was retried with recalibrated differences
-	verify := minBowlVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minBowlVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minBowlConfirmGradient and settle).
-			calls, ok := minBowlSettle(&x, fx, &g, &e, &diffs, verify == minBowlVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minBowlFiniteVec(&g) {
-				return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minBowlVerifyNothing, true
-		case !confirmed:
-			minBowlGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minBowlStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minBowlLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minBowlDerivativeCost == 0 || confirmed) {
-			out.status = MinBowlGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minBowlVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minBowlDerivativeCost == 0 {
-				return best.ending(MinBowlStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minBowlStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minBowlVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinBowlDiverged, out.iterations, out.evaluations)
-			}
-			minBowlCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinBowlOutOfIterations, out.iterations, out.evaluations)
-		}
-		minBowlSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minBowlDot(&g, &d)
-		if !(now < 0) || !minBowlFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minBowlSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minBowlDot(&g, &d)
-		}
-		first := float32(minBowlStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minBowlTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minBowlLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minBowlSearchOutOfBudget:
-			return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
-		case minBowlSearchDiverged:
-			return best.ending(MinBowlDiverged, out.iterations, out.evaluations)
-		case minBowlSearchExhausted, minBowlSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minBowlRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinBowlNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinBowlNoDecrease
-			case found.end == minBowlSearchTiny && canSettle:
-				verify, stalled = minBowlVerifyStall, true
-				continue
-			case found.end == minBowlSearchTiny:
-				end = MinBowlStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minBowlFiniteVec(&xt) {
-			return best.ending(MinBowlNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minBowlDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
-					out.iterations++
-				}
-				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minBowlDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minBowlDifference(&s, &xt, &x)
-		minBowlDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
-		t, slope = found.step, now
-
-		if !minBowlFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minBowlDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(minBowlUnlimited)
 }
 
 // minBowlOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o minBowlOutcome) ending(end MinBowlStatus, iterations, evaluations int) m
 	return o
 }
 
-// minBowlEnterBox: without bounds every start is inside.
-func minBowlEnterBox(x *[3]float32, b *minBowlBox) {}
-
-// minBowlFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func minBowlFinite(v float32) bool {
-	return v >= -minBowlLargestFinite && v <= minBowlLargestFinite
+// minBowlDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minBowlDescent struct {
+	lim       MinBowlLimits
+	stage     int                // what advance does next
+	diffs     minBowlDifferences // the box and the difference intervals
+	dir       minBowlDirection   // the direction's memory
+	x, g, e   [3]float32         // the point, its gradient and the gradient's error bound
+	d, s, y   [3]float32         // the search direction, the last step and its gradient change
+	fx        float32            // f(x)
+	t, slope  float32            // the previous iteration's accepted step and slope
+	out, best minBowlOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float32            // f(x0)
+	rises     int                // consecutive accepted steps that raised f above f(x0)
+	confirmed bool               // whether g and e at x come from minBowlConfirmGradient or settle
+	stalled   bool               // whether the run can make no more progress at x
+	retried   int                // the iteration whose stall was retried with recalibrated differences
+	verify    int                // what to check at x before judging it again
 }
 
-// minBowlFiniteVec reports whether every component of x is finite.
-func minBowlFiniteVec(x *[3]float32) bool {
-	for i := range x {
-		if !minBowlFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minBowlDescent) prepare(x0 [3]float32, lim MinBowlLimits, bounds minBowlBox) {
+	r.lim, r.stage = lim, minBowlStageBegin
+	r.diffs = minBowlDifferences{bounds: bounds}
+	r.x = x0
+	minBowlEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [3]float32{}, [3]float32{}, [3]float32{}, [3]float32{}, [3]float32{}
+	r.out = minBowlOutcome{x: r.x, f: float32(math.NaN()), status: MinBowlOutOfEvaluations, gradient: float32(math.NaN())}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minBowlDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinBowlRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minBowlSettleCalls and minBowlIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minBowlDescent) advance(budget int) minBowlOutcome {
+	used := r.out.evaluations
+	for r.stage != minBowlStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minBowlStageBegin:
+			if left < 1+minBowlCalibrationCost+minBowlDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case minBowlStageJudge:
+			if r.verify != minBowlVerifyNothing && left < minBowlSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < minBowlIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minBowlDescent) paused() minBowlOutcome {
+	return r.best.ending(MinBowlRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minBowlDescent) finish(end MinBowlStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minBowlStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minBowlDescent) begin() {
+	r.stage = minBowlStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Bowl(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minBowlFinite(r.fx) || !minBowlFiniteVec(&r.x) {
+		r.out.status = MinBowlNonFiniteStart
+		return
+	}
+	calls, ok := minBowlCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minBowlDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minBowlDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !minBowlFiniteVec(&r.g) {
+		r.out.status = MinBowlNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minBowlStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minBowlVerifyNothing
+	r.stage = minBowlStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minBowlStageSearch next when the run goes on.
+func (r *minBowlDescent) judge() {
+	switch {
+	case r.verify != minBowlVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minBowlConfirmGradient and settle).
+		calls, ok := minBowlSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minBowlVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinBowlOutOfEvaluations)
+			return
+		}
+		if !minBowlFiniteVec(&r.g) {
+			r.finish(MinBowlNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minBowlVerifyNothing, true
+	case !r.confirmed:
+		minBowlGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minBowlStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minBowlLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minBowlLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minBowlDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinBowlGradientSmall
+		r.stage = minBowlStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minBowlVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minBowlDerivativeCost == 0 {
+			r.finish(MinBowlStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minBowlStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minBowlVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinBowlDiverged)
+			return
+		}
+		minBowlCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinBowlOutOfIterations)
+		return
+	}
+	r.stage = minBowlStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minBowlStageJudge next when the run
+// goes on.
+func (r *minBowlDescent) search() {
+	minBowlSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minBowlDot(&r.g, &r.d)
+	if !(now < 0) || !minBowlFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minBowlSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minBowlDot(&r.g, &r.d)
+	}
+	first := float32(minBowlStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minBowlTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [3]float32
+	found := minBowlLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minBowlSearchOutOfBudget:
+		r.finish(MinBowlOutOfEvaluations)
+		return
+	case minBowlSearchDiverged:
+		r.finish(MinBowlDiverged)
+		return
+	case minBowlSearchExhausted, minBowlSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minBowlRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinBowlNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinBowlNoDecrease
+		case found.end == minBowlSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minBowlVerifyStall, true, minBowlStageJudge
+			return
+		case found.end == minBowlSearchTiny:
+			end = MinBowlStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minBowlFiniteVec(&xt) {
+		r.finish(MinBowlNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minBowlDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, float32(math.NaN())
+				r.out.iterations++
+			}
+			r.finish(MinBowlOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minBowlDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minBowlDifference(&r.s, &xt, &r.x)
+	minBowlDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, float32(math.NaN())
+	r.t, r.slope = found.step, now
+
+	if !minBowlFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinBowlNonFiniteGradient)
+		return
+	}
+	r.stage = minBowlStageJudge
 }
 
 // minBowlDifferences is what the kernel knows about evaluating the objective:
@@ -385,6 +545,129 @@ type minBowlDifferences struct {
 	curvature [3]float32
 	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlRoundingFloor)
 	bounds    minBowlBox
+}
+
+// minBowlDirection is nonlinear conjugate gradients with the Polak–Ribière
+// choice, clipped at zero (PR+):
+//
+//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
+//
+// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
+// descent every dim iterations (§5.2) and whenever the kernel finds d is
+// not a descent direction. It needs a line search that keeps curvature in
+// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
+//
+// References:
+//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
+//     directions conjuguées, Rev. Française Informat. Recherche
+//     Opérationnelle 3(16):35–43, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §5.2.
+type minBowlDirection struct {
+	previous [3]float32 // d₋₁
+	change   [3]float32 // y = g − g₋₁, set by update
+	squared  float32    // ‖g₋₁‖²
+	steps    int        // iterations since the last restart; 0 means restart
+}
+
+func (s *minBowlDirection) reset() {
+	s.steps = 0
+}
+
+func (s *minBowlDirection) compute(g, d *[3]float32) {
+	var beta float32
+	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
+		beta = minBowlLarger(minBowlDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	}
+	for i := range d {
+		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+	}
+	if beta == 0 {
+		s.steps = 0
+	}
+	s.steps++
+	s.previous = *d
+	s.squared = minBowlDot(g, g)
+}
+
+func (s *minBowlDirection) update(step, change *[3]float32) {
+	s.change = *change
+}
+
+func (s *minBowlDirection) firstTrial(t, slope, now float32) float32 {
+	return minBowlScaledTrial(t, slope, now)
+}
+
+// minBowlLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minBowlLarger(a, b float32) float32 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// minBowlDot returns aᵀb.
+func minBowlDot(a, b *[3]float32) float32 {
+	var s float32
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// minBowlScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to minBowlStepInitial.
+func minBowlScaledTrial(t, slope, now float32) float32 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !minBowlFinite(next) {
+		return minBowlStepInitial
+	}
+	return next
+}
+
+// minBowlFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func minBowlFinite(v float32) bool {
+	return v >= -minBowlLargestFinite && v <= minBowlLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minBowlStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minBowlStageJudge         // settle when asked (minBowlSettleCalls), judge x, learn from the step: no calls otherwise
+	minBowlStageSearch        // the line search and the gradient at the accepted point: minBowlIterationCalls
+	minBowlStageOver          // the run has ended; out is its result
+)
+
+// minBowlEnterBox: without bounds every start is inside.
+func minBowlEnterBox(x *[3]float32, b *minBowlBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	minBowlVerifyNothing = iota
+	minBowlVerifyPass    // a difference gradient passed the test
+	minBowlVerifyStall   // no step makes progress
+)
+
+// minBowlFiniteVec reports whether every component of x is finite.
+func minBowlFiniteVec(x *[3]float32) bool {
+	for i := range x {
+		if !minBowlFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // minBowlCalibrate chooses each forward-difference interval from the
@@ -472,16 +755,6 @@ func minBowlAbs(v float32) float32 {
 		return -v
 	}
 	return v
-}
-
-// minBowlLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func minBowlLarger(a, b float32) float32 {
-	if a > b || a != a {
-		return a
-	}
-	return b
 }
 
 // minBowlCoordinateRange: without bounds any probe is allowed.
@@ -626,85 +899,6 @@ func minBowlForwardInterval(x *[3]float32, i int, diffs *minBowlDifferences) flo
 	lower, upper := minBowlCoordinateRange(i, diffs)
 	return minBowlOneSide(x[i], diffs.ratio[i]*minBowlLarger(1, minBowlAbs(x[i])), 1, lower, upper)
 }
-
-// minBowlDirection is nonlinear conjugate gradients with the Polak–Ribière
-// choice, clipped at zero (PR+):
-//
-//	d = −g + β d₋₁,  β = max(gᵀ(g − g₋₁) / ‖g₋₁‖², 0)
-//
-// (Nocedal & Wright 2006, eqs. 5.44 and 5.45). It restarts with steepest
-// descent every dim iterations (§5.2) and whenever the kernel finds d is
-// not a descent direction. It needs a line search that keeps curvature in
-// check: the strong Wolfe rule with c2 = 0.1 (§5.2).
-//
-// References:
-//   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
-//     directions conjuguées, Rev. Française Informat. Recherche
-//     Opérationnelle 3(16):35–43, 1969.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §5.2.
-type minBowlDirection struct {
-	previous [3]float32 // d₋₁
-	change   [3]float32 // y = g − g₋₁, set by update
-	squared  float32    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
-}
-
-func (s *minBowlDirection) reset() {
-	s.steps = 0
-}
-
-func (s *minBowlDirection) compute(g, d *[3]float32) {
-	var beta float32
-	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = minBowlLarger(minBowlDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
-	}
-	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
-	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
-	s.previous = *d
-	s.squared = minBowlDot(g, g)
-}
-
-func (s *minBowlDirection) update(step, change *[3]float32) {
-	s.change = *change
-}
-
-func (s *minBowlDirection) firstTrial(t, slope, now float32) float32 {
-	return minBowlScaledTrial(t, slope, now)
-}
-
-// minBowlDot returns aᵀb.
-func minBowlDot(a, b *[3]float32) float32 {
-	var s float32
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// minBowlScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to minBowlStepInitial.
-func minBowlScaledTrial(t, slope, now float32) float32 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !minBowlFinite(next) {
-		return minBowlStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	minBowlVerifyNothing = iota
-	minBowlVerifyPass    // a difference gradient passed the test
-	minBowlVerifyStall   // no step makes progress
-)
 
 // minBowlSettle prepares a verdict at x: with differences it confirms the
 // gradient (minBowlConfirmGradient), and at a stall it adds to each error bound
@@ -1138,3 +1332,6 @@ func minBowlDifference(out, a, b *[3]float32) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minBowlUnlimited is a tick budget that never pauses a run.
+const minBowlUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestMinBowlRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestMinBowlSolverTicks advances a MinBowlSolver from the spec's start with budgets of MinBowlTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinBowl's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinBowlSolverTicks(t *testing.T) {
+	want := MinBowl(minBowlTestStart())
+	for _, budget := range []int{MinBowlTickMinimum, MinBowlTickMinimum + 1, 2 * MinBowlTickMinimum, 7 * MinBowlTickMinimum} {
+		var s MinBowlSolver
+		s.Start(minBowlTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinBowlRunning {
+				if !minBowlTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinBowlSolver
+	s.Start(minBowlTestStart())
+	if r := s.Advance(0); r.Status != MinBowlRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinBowlSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinBowlSolverAllocatesNothing(t *testing.T) {
+	var s MinBowlSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minBowlTestStart())
+		for s.Advance(MinBowlTickMinimum).Status == MinBowlRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minBowlTestSameResult reports whether two results are the same, NaN matching NaN.
+func minBowlTestSameResult(a, b MinBowlResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinBowl measures one whole run from the spec's start.
 func BenchmarkMinBowl(b *testing.B) {
 	var r MinBowlResult

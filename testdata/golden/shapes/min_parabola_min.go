@@ -26,6 +26,8 @@ const (
 	MinParabolaNoDecrease
 	// MinParabolaDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinParabolaDiverged
+	// MinParabolaRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinParabolaRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinParabolaStatus) String() string {
 		return "no decrease"
 	case MinParabolaDiverged:
 		return "diverged"
+	case MinParabolaRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func MinParabolaWithLimits(x0 float64, limits MinParabolaLimits) MinParabolaResu
 	}
 }
 
+// MinParabolaTickMinimum is the smallest call budget with which every MinParabolaSolver.Advance progresses: the largest worst case of one stage of a run (the start 7 calls, an iteration 144, confirming a difference gradient 8).
+const MinParabolaTickMinimum = 144
+
+// MinParabolaSolver is a run of MinParabola that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinParabolaDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 7 calls, an iteration 144, confirming a difference gradient 8. A budget of at least MinParabolaTickMinimum = 144 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinParabolaRunning ends exactly as MinParabolaWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinParabola and MinParabolaWithLimits use at most 1872 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is MinParabolaRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinParabolaSolver struct {
+	run       minParabolaDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinParabolaLimits  // the limits of the runs; MinParabolaDefaultLimits() until SetLimits
+	ownLimits bool               // whether SetLimits has set limits
+	started   bool               // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinParabolaSolver) SetLimits(limits MinParabolaLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinParabolaSolver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *MinParabolaSolver) StartFrom(from MinParabolaResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *MinParabolaSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinParabolaSolver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = MinParabolaDefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, minParabolaBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinParabolaRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinParabolaSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinParabolaSolver) Advance(budget int) MinParabolaResult {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return MinParabolaResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
 // Tunables of MinParabola from shapes.toml; the kernels below read them.
 const (
-	minParabolaStepInitial    = 1.0                    // step.initial
-	minParabolaStepDecrease   = 0.0001                 // step.decrease (c1)
-	minParabolaStepCurvature  = 0.9                    // step.curvature (c2)
-	minParabolaStepTrials     = 48                     // step.trials
-	minParabolaDerivativeCost = 2                      // objective calls per gradient
-	minParabolaUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	minParabolaLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	minParabolaStepInitial     = 1.0                    // step.initial
+	minParabolaStepDecrease    = 0.0001                 // step.decrease (c1)
+	minParabolaStepCurvature   = 0.9                    // step.curvature (c2)
+	minParabolaStepTrials      = 48                     // step.trials
+	minParabolaDerivativeCost  = 2                      // objective calls per gradient
+	minParabolaCalibrationCost = 4                      // objective calls of choosing the difference intervals
+	minParabolaIterationCalls  = 144                    // most objective calls of one line search with the gradient at its step
+	minParabolaSettleCalls     = 8                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minParabolaUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	minParabolaLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // minParabolaMinimize runs the descent loop from x0 within lim:
@@ -162,172 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits, bounds minParabolaBox) minParabolaOutcome {
-	x := x0
-	minParabolaEnterBox(&x, &bounds)
-	out := minParabolaOutcome{x: x, status: MinParabolaOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Parabola(x[0])
-	out.f, out.evaluations = fx, 1
-	if !minParabolaFinite(fx) || !minParabolaFiniteVec(&x) {
-		out.status = MinParabolaNonFiniteStart
-		return out
-	}
-	diffs := minParabolaDifferences{bounds: bounds}
-	calls, ok := minParabolaCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	out.evaluations += minParabolaDerivative(&x, fx, &g, &diffs)
-
-	if !minParabolaFiniteVec(&g) {
-		out.status = MinParabolaNonFiniteGradient
-		return out
-	}
-	var dir minParabolaDirection
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(minParabolaStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                             // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                      // whether g and e at x come from minParabolaConfirmGradient or settle
-	stalled := false                                        // whether the run can make no more progress at x
-	retried := -1                                           // the iteration whose stall was retried with recalibrated differences
-	verify := minParabolaVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minParabolaVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minParabolaConfirmGradient and settle).
-			calls, ok := minParabolaSettle(&x, fx, &g, &e, &diffs, verify == minParabolaVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minParabolaFiniteVec(&g) {
-				return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minParabolaVerifyNothing, true
-		case !confirmed:
-			minParabolaGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minParabolaStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minParabolaLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minParabolaDerivativeCost == 0 || confirmed) {
-			out.status = MinParabolaGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minParabolaVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minParabolaDerivativeCost == 0 {
-				return best.ending(MinParabolaStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minParabolaStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minParabolaVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinParabolaDiverged, out.iterations, out.evaluations)
-			}
-			minParabolaCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinParabolaOutOfIterations, out.iterations, out.evaluations)
-		}
-		minParabolaSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minParabolaDot(&g, &d)
-		if !(now < 0) || !minParabolaFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minParabolaSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minParabolaDot(&g, &d)
-		}
-		first := float64(minParabolaStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minParabolaTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minParabolaLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minParabolaSearchOutOfBudget:
-			return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
-		case minParabolaSearchDiverged:
-			return best.ending(MinParabolaDiverged, out.iterations, out.evaluations)
-		case minParabolaSearchExhausted, minParabolaSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minParabolaRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinParabolaNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinParabolaNoDecrease
-			case found.end == minParabolaSearchTiny && canSettle:
-				verify, stalled = minParabolaVerifyStall, true
-				continue
-			case found.end == minParabolaSearchTiny:
-				end = MinParabolaStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minParabolaFiniteVec(&xt) {
-			return best.ending(MinParabolaNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minParabolaDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minParabolaDifference(&s, &xt, &x)
-		minParabolaDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !minParabolaFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minParabolaDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(minParabolaUnlimited)
 }
 
 // minParabolaOutcome is the kernel's report; the generated entry point copies it into
@@ -348,8 +261,399 @@ func (o minParabolaOutcome) ending(end MinParabolaStatus, iterations, evaluation
 	return o
 }
 
+// minParabolaDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minParabolaDescent struct {
+	lim       MinParabolaLimits
+	stage     int                    // what advance does next
+	diffs     minParabolaDifferences // the box and the difference intervals
+	dir       minParabolaDirection   // the direction's memory
+	x, g, e   [1]float64             // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64             // the search direction, the last step and its gradient change
+	fx        float64                // f(x)
+	t, slope  float64                // the previous iteration's accepted step and slope
+	out, best minParabolaOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                // f(x0)
+	rises     int                    // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                   // whether g and e at x come from minParabolaConfirmGradient or settle
+	stalled   bool                   // whether the run can make no more progress at x
+	retried   int                    // the iteration whose stall was retried with recalibrated differences
+	verify    int                    // what to check at x before judging it again
+}
+
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minParabolaDescent) prepare(x0 [1]float64, lim MinParabolaLimits, bounds minParabolaBox) {
+	r.lim, r.stage = lim, minParabolaStageBegin
+	r.diffs = minParabolaDifferences{bounds: bounds}
+	r.x = x0
+	minParabolaEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = minParabolaOutcome{x: r.x, f: math.NaN(), status: MinParabolaOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minParabolaDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinParabolaRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minParabolaSettleCalls and minParabolaIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minParabolaDescent) advance(budget int) minParabolaOutcome {
+	used := r.out.evaluations
+	for r.stage != minParabolaStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minParabolaStageBegin:
+			if left < 1+minParabolaCalibrationCost+minParabolaDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case minParabolaStageJudge:
+			if r.verify != minParabolaVerifyNothing && left < minParabolaSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < minParabolaIterationCalls {
+				return r.paused()
+			}
+			r.search()
+		}
+	}
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minParabolaDescent) paused() minParabolaOutcome {
+	return r.best.ending(MinParabolaRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minParabolaDescent) finish(end MinParabolaStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minParabolaStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minParabolaDescent) begin() {
+	r.stage = minParabolaStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Parabola(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minParabolaFinite(r.fx) || !minParabolaFiniteVec(&r.x) {
+		r.out.status = MinParabolaNonFiniteStart
+		return
+	}
+	calls, ok := minParabolaCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minParabolaDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minParabolaDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !minParabolaFiniteVec(&r.g) {
+		r.out.status = MinParabolaNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minParabolaStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minParabolaVerifyNothing
+	r.stage = minParabolaStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minParabolaStageSearch next when the run goes on.
+func (r *minParabolaDescent) judge() {
+	switch {
+	case r.verify != minParabolaVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minParabolaConfirmGradient and settle).
+		calls, ok := minParabolaSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minParabolaVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinParabolaOutOfEvaluations)
+			return
+		}
+		if !minParabolaFiniteVec(&r.g) {
+			r.finish(MinParabolaNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minParabolaVerifyNothing, true
+	case !r.confirmed:
+		minParabolaGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minParabolaStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minParabolaLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minParabolaLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minParabolaDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinParabolaGradientSmall
+		r.stage = minParabolaStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minParabolaVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minParabolaDerivativeCost == 0 {
+			r.finish(MinParabolaStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minParabolaStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minParabolaVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinParabolaDiverged)
+			return
+		}
+		minParabolaCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinParabolaOutOfIterations)
+		return
+	}
+	r.stage = minParabolaStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minParabolaStageJudge next when the run
+// goes on.
+func (r *minParabolaDescent) search() {
+	minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minParabolaDot(&r.g, &r.d)
+	if !(now < 0) || !minParabolaFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minParabolaDot(&r.g, &r.d)
+	}
+	first := float64(minParabolaStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minParabolaTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := minParabolaLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minParabolaSearchOutOfBudget:
+		r.finish(MinParabolaOutOfEvaluations)
+		return
+	case minParabolaSearchDiverged:
+		r.finish(MinParabolaDiverged)
+		return
+	case minParabolaSearchExhausted, minParabolaSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minParabolaRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinParabolaNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinParabolaNoDecrease
+		case found.end == minParabolaSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minParabolaVerifyStall, true, minParabolaStageJudge
+			return
+		case found.end == minParabolaSearchTiny:
+			end = MinParabolaStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minParabolaFiniteVec(&xt) {
+		r.finish(MinParabolaNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minParabolaDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(MinParabolaOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minParabolaDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minParabolaDifference(&r.s, &xt, &r.x)
+	minParabolaDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !minParabolaFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinParabolaNonFiniteGradient)
+		return
+	}
+	r.stage = minParabolaStageJudge
+}
+
+// minParabolaDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
+type minParabolaDifferences struct {
+	ratio     [1]float64
+	curvature [1]float64
+	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see minParabolaRoundingFloor)
+	bounds    minParabolaBox
+}
+
+// minParabolaDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
+// approximates the inverse Hessian in a fixed dim×dim array and is updated
+// after each step s with gradient change y by
+//
+//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
+//
+// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
+// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
+// not safely positive is skipped, which keeps H positive definite (§6.1).
+//
+// References:
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, chapter 6.
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
+type minParabolaDirection struct {
+	h      [1][1]float64 // inverse-Hessian approximation, symmetric
+	scaled bool          // whether h has been scaled by eq. 6.20 since reset
+}
+
+func (s *minParabolaDirection) reset() {
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] = 0
+		}
+		s.h[i][i] = 1
+	}
+	s.scaled = false
+}
+
+func (s *minParabolaDirection) compute(g, d *[1]float64) {
+	for i := range s.h {
+		d[i] = -minParabolaDot(&s.h[i], g)
+	}
+}
+
+func (s *minParabolaDirection) update(step, change *[1]float64) {
+	if !minParabolaCurvatureSafe(step, change) {
+		return
+	}
+	sy := minParabolaDot(step, change)
+	if !s.scaled {
+		gamma := sy / minParabolaDot(change, change) // N&W eq. 6.20
+		for i := range s.h {
+			s.h[i][i] = gamma
+		}
+		s.scaled = true
+	}
+	rho := 1 / sy
+	// With hy = H·y, eq. 6.17 expands to
+	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
+	var hy [1]float64
+	for i := range s.h {
+		hy[i] = minParabolaDot(&s.h[i], change)
+	}
+	outer := (rho*rho*minParabolaDot(change, &hy) + rho)
+	for i := range s.h {
+		for j := range s.h[i] {
+			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+		}
+	}
+}
+
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
+func (s *minParabolaDirection) firstTrial(t, slope, now float64) float64 {
+	return 1
+}
+
+// minParabolaDot returns aᵀb.
+func minParabolaDot(a, b *[1]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// minParabolaCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
+func minParabolaCurvatureSafe(s, y *[1]float64) bool {
+	sy := minParabolaDot(s, y)
+	return sy > 0 && (sy/minParabolaDot(s, s))*(sy/minParabolaDot(y, y)) > minParabolaUnitRoundoff
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minParabolaStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minParabolaStageJudge         // settle when asked (minParabolaSettleCalls), judge x, learn from the step: no calls otherwise
+	minParabolaStageSearch        // the line search and the gradient at the accepted point: minParabolaIterationCalls
+	minParabolaStageOver          // the run has ended; out is its result
+)
+
 // minParabolaEnterBox: without bounds every start is inside.
 func minParabolaEnterBox(x *[1]float64, b *minParabolaBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	minParabolaVerifyNothing = iota
+	minParabolaVerifyPass    // a difference gradient passed the test
+	minParabolaVerifyStall   // no step makes progress
+)
 
 // minParabolaFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -371,19 +675,6 @@ func minParabolaFiniteVec(x *[1]float64) bool {
 		}
 	}
 	return true
-}
-
-// minParabolaDifferences is what the kernel knows about evaluating the objective:
-// the box it may be evaluated in, and what the difference gradients learn
-// from the objective at the start: for each coordinate i, the interval as
-// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
-// from (|f″| for forward differences, |f‴| for central ones). The
-// analytic gradient uses only the box.
-type minParabolaDifferences struct {
-	ratio     [1]float64
-	curvature [1]float64
-	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see minParabolaRoundingFloor)
-	bounds    minParabolaBox
 }
 
 // minParabolaCalibrate chooses each central-difference interval from the
@@ -645,103 +936,6 @@ func minParabolaParabola(f0, a, fa, b, fb float64) (slope, second float64) {
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// minParabolaDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
-// approximates the inverse Hessian in a fixed dim×dim array and is updated
-// after each step s with gradient change y by
-//
-//	H₊ = (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ,  ρ = 1/(yᵀs)
-//
-// (Nocedal & Wright 2006, eq. 6.17). Before the first update H is the
-// scaled identity (yᵀs / yᵀy)·I (eq. 6.20). A pair whose curvature yᵀs is
-// not safely positive is skipped, which keeps H positive definite (§6.1).
-//
-// References:
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, chapter 6.
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983.
-type minParabolaDirection struct {
-	h      [1][1]float64 // inverse-Hessian approximation, symmetric
-	scaled bool          // whether h has been scaled by eq. 6.20 since reset
-}
-
-func (s *minParabolaDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
-		}
-		s.h[i][i] = 1
-	}
-	s.scaled = false
-}
-
-func (s *minParabolaDirection) compute(g, d *[1]float64) {
-	for i := range s.h {
-		d[i] = -minParabolaDot(&s.h[i], g)
-	}
-}
-
-func (s *minParabolaDirection) update(step, change *[1]float64) {
-	if !minParabolaCurvatureSafe(step, change) {
-		return
-	}
-	sy := minParabolaDot(step, change)
-	if !s.scaled {
-		gamma := sy / minParabolaDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
-		}
-		s.scaled = true
-	}
-	rho := 1 / sy
-	// With hy = H·y, eq. 6.17 expands to
-	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
-	var hy [1]float64
-	for i := range s.h {
-		hy[i] = minParabolaDot(&s.h[i], change)
-	}
-	outer := (rho*rho*minParabolaDot(change, &hy) + rho)
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
-		}
-	}
-}
-
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-func (s *minParabolaDirection) firstTrial(t, slope, now float64) float64 {
-	return 1
-}
-
-// minParabolaDot returns aᵀb.
-func minParabolaDot(a, b *[1]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// minParabolaCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func minParabolaCurvatureSafe(s, y *[1]float64) bool {
-	sy := minParabolaDot(s, y)
-	return sy > 0 && (sy/minParabolaDot(s, s))*(sy/minParabolaDot(y, y)) > minParabolaUnitRoundoff
-}
-
-// What minimize checks at x before judging it again.
-const (
-	minParabolaVerifyNothing = iota
-	minParabolaVerifyPass    // a difference gradient passed the test
-	minParabolaVerifyStall   // no step makes progress
-)
 
 // minParabolaSettle prepares a verdict at x: with differences it confirms the
 // gradient (minParabolaConfirmGradient), and at a stall it adds to each error bound
@@ -1179,3 +1373,6 @@ func minParabolaDifference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minParabolaUnlimited is a tick budget that never pauses a run.
+const minParabolaUnlimited = int(^uint(0) >> 1)

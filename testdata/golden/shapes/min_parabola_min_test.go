@@ -47,6 +47,55 @@ func TestMinParabolaRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestMinParabolaSolverTicks advances a MinParabolaSolver from the spec's start with budgets of MinParabolaTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinParabola's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinParabolaSolverTicks(t *testing.T) {
+	want := MinParabola(minParabolaTestStart())
+	for _, budget := range []int{MinParabolaTickMinimum, MinParabolaTickMinimum + 1, 2 * MinParabolaTickMinimum, 7 * MinParabolaTickMinimum} {
+		var s MinParabolaSolver
+		s.Start(minParabolaTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinParabolaRunning {
+				if !minParabolaTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinParabolaSolver
+	s.Start(minParabolaTestStart())
+	if r := s.Advance(0); r.Status != MinParabolaRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinParabolaSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinParabolaSolverAllocatesNothing(t *testing.T) {
+	var s MinParabolaSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minParabolaTestStart())
+		for s.Advance(MinParabolaTickMinimum).Status == MinParabolaRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minParabolaTestSameResult reports whether two results are the same, NaN matching NaN.
+func minParabolaTestSameResult(a, b MinParabolaResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinParabola measures one whole run from the spec's start.
 func BenchmarkMinParabola(b *testing.B) {
 	var r MinParabolaResult

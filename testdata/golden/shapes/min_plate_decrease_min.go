@@ -26,6 +26,8 @@ const (
 	MinPlateDecreaseNoDecrease
 	// MinPlateDecreaseDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinPlateDecreaseDiverged
+	// MinPlateDecreaseRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinPlateDecreaseRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinPlateDecreaseStatus) String() string {
 		return "no decrease"
 	case MinPlateDecreaseDiverged:
 		return "diverged"
+	case MinPlateDecreaseRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,14 +124,85 @@ func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) Mi
 	}
 }
 
+// MinPlateDecreaseTickMinimum is the smallest call budget with which every MinPlateDecreaseSolver.Advance progresses: the largest worst case of one stage of a run (the start 13 calls, an iteration 25, confirming a difference gradient 16).
+const MinPlateDecreaseTickMinimum = 25
+
+// MinPlateDecreaseSolver is a run of MinPlateDecrease that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinPlateDecreaseDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 13 calls, an iteration 25, confirming a difference gradient 16. A budget of at least MinPlateDecreaseTickMinimum = 25 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinPlateDecreaseRunning ends exactly as MinPlateDecreaseWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinPlateDecrease and MinPlateDecreaseWithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is MinPlateDecreaseRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinPlateDecreaseSolver struct {
+	run       minPlateDecreaseDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinPlateDecreaseLimits  // the limits of the runs; MinPlateDecreaseDefaultLimits() until SetLimits
+	ownLimits bool                    // whether SetLimits has set limits
+	started   bool                    // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinPlateDecreaseSolver) SetLimits(limits MinPlateDecreaseLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinPlateDecreaseSolver) Start(x0 [2]float32) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *MinPlateDecreaseSolver) StartFrom(from MinPlateDecreaseResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *MinPlateDecreaseSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinPlateDecreaseSolver) begin(x0 [2]float32) {
+	if !s.ownLimits {
+		s.limits = MinPlateDecreaseDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minPlateDecreaseBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinPlateDecreaseRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinPlateDecreaseSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinPlateDecreaseSolver) Advance(budget int) MinPlateDecreaseResult {
+	if !s.started {
+		var x0 [2]float32
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return MinPlateDecreaseResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinPlateDecrease from shapes.toml; the kernels below read them.
 const (
-	minPlateDecreaseStepInitial    = 1.0                   // step.initial
-	minPlateDecreaseStepShrink     = 0.5                   // step.shrink
-	minPlateDecreaseStepTrials     = 21                    // step.trials
-	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
-	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	minPlateDecreaseLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
+	minPlateDecreaseStepInitial     = 1.0                   // step.initial
+	minPlateDecreaseStepShrink      = 0.5                   // step.shrink
+	minPlateDecreaseStepTrials      = 21                    // step.trials
+	minPlateDecreaseDerivativeCost  = 4                     // objective calls per gradient
+	minPlateDecreaseCalibrationCost = 8                     // objective calls of choosing the difference intervals
+	minPlateDecreaseIterationCalls  = 25                    // most objective calls of one line search with the gradient at its step
+	minPlateDecreaseSettleCalls     = 16                    // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minPlateDecreaseUnitRoundoff    = 5.960464477539063e-08 // unit roundoff u of the float type
+	minPlateDecreaseLargestFinite   = 0x1.fffffep127        // the largest finite value of the float type
 )
 
 // minPlateDecreaseMinimize runs the descent loop from x0 within lim:
@@ -161,172 +236,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits, bounds minPlateDecreaseBox) minPlateDecreaseOutcome {
-	x := x0
-	minPlateDecreaseEnterBox(&x, &bounds)
-	out := minPlateDecreaseOutcome{x: x, status: MinPlateDecreaseOutOfEvaluations, gradient: float32(math.NaN())}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Plate(&x)
-	out.f, out.evaluations = fx, 1
-	if !minPlateDecreaseFinite(fx) || !minPlateDecreaseFiniteVec(&x) {
-		out.status = MinPlateDecreaseNonFiniteStart
-		return out
-	}
-	diffs := minPlateDecreaseDifferences{bounds: bounds}
-	calls, ok := minPlateDecreaseCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float32
-	out.evaluations += minPlateDecreaseDerivative(&x, fx, &g, &diffs)
-
-	if !minPlateDecreaseFiniteVec(&g) {
-		out.status = MinPlateDecreaseNonFiniteGradient
-		return out
-	}
-	var dir minPlateDecreaseDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float32
-	t, slope := float32(minPlateDecreaseStepInitial), float32(0) // the previous iteration's accepted step and slope
-	best := out                                                  // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from minPlateDecreaseConfirmGradient or settle
-	stalled := false                                             // whether the run can make no more progress at x
-	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
-	verify := minPlateDecreaseVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minPlateDecreaseVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minPlateDecreaseConfirmGradient and settle).
-			calls, ok := minPlateDecreaseSettle(&x, fx, &g, &e, &diffs, verify == minPlateDecreaseVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minPlateDecreaseFiniteVec(&g) {
-				return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minPlateDecreaseVerifyNothing, true
-		case !confirmed:
-			minPlateDecreaseGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minPlateDecreaseStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minPlateDecreaseLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minPlateDecreaseDerivativeCost == 0 || confirmed) {
-			out.status = MinPlateDecreaseGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minPlateDecreaseVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minPlateDecreaseDerivativeCost == 0 {
-				return best.ending(MinPlateDecreaseStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minPlateDecreaseStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minPlateDecreaseVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinPlateDecreaseDiverged, out.iterations, out.evaluations)
-			}
-			minPlateDecreaseCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinPlateDecreaseOutOfIterations, out.iterations, out.evaluations)
-		}
-		minPlateDecreaseSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minPlateDecreaseDot(&g, &d)
-		if !(now < 0) || !minPlateDecreaseFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minPlateDecreaseSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minPlateDecreaseDot(&g, &d)
-		}
-		first := float32(minPlateDecreaseStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minPlateDecreaseTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minPlateDecreaseLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minPlateDecreaseSearchOutOfBudget:
-			return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
-		case minPlateDecreaseSearchDiverged:
-			return best.ending(MinPlateDecreaseDiverged, out.iterations, out.evaluations)
-		case minPlateDecreaseSearchExhausted, minPlateDecreaseSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minPlateDecreaseRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinPlateDecreaseNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinPlateDecreaseNoDecrease
-			case found.end == minPlateDecreaseSearchTiny && canSettle:
-				verify, stalled = minPlateDecreaseVerifyStall, true
-				continue
-			case found.end == minPlateDecreaseSearchTiny:
-				end = MinPlateDecreaseStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minPlateDecreaseFiniteVec(&xt) {
-			return best.ending(MinPlateDecreaseNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
-					out.iterations++
-				}
-				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minPlateDecreaseDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minPlateDecreaseDifference(&s, &xt, &x)
-		minPlateDecreaseDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
-		t, slope = found.step, now
-
-		if !minPlateDecreaseFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minPlateDecreaseDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(minPlateDecreaseUnlimited)
 }
 
 // minPlateDecreaseOutcome is the kernel's report; the generated entry point copies it into
@@ -347,29 +260,276 @@ func (o minPlateDecreaseOutcome) ending(end MinPlateDecreaseStatus, iterations, 
 	return o
 }
 
-// minPlateDecreaseEnterBox: without bounds every start is inside.
-func minPlateDecreaseEnterBox(x *[2]float32, b *minPlateDecreaseBox) {}
-
-// minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func minPlateDecreaseFinite(v float32) bool {
-	return v >= -minPlateDecreaseLargestFinite && v <= minPlateDecreaseLargestFinite
+// minPlateDecreaseDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minPlateDecreaseDescent struct {
+	lim       MinPlateDecreaseLimits
+	stage     int                         // what advance does next
+	diffs     minPlateDecreaseDifferences // the box and the difference intervals
+	dir       minPlateDecreaseDirection   // the direction's memory
+	x, g, e   [2]float32                  // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float32                  // the search direction, the last step and its gradient change
+	fx        float32                     // f(x)
+	t, slope  float32                     // the previous iteration's accepted step and slope
+	out, best minPlateDecreaseOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float32                     // f(x0)
+	rises     int                         // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                        // whether g and e at x come from minPlateDecreaseConfirmGradient or settle
+	stalled   bool                        // whether the run can make no more progress at x
+	retried   int                         // the iteration whose stall was retried with recalibrated differences
+	verify    int                         // what to check at x before judging it again
 }
 
-// minPlateDecreaseFiniteVec reports whether every component of x is finite.
-func minPlateDecreaseFiniteVec(x *[2]float32) bool {
-	for i := range x {
-		if !minPlateDecreaseFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minPlateDecreaseDescent) prepare(x0 [2]float32, lim MinPlateDecreaseLimits, bounds minPlateDecreaseBox) {
+	r.lim, r.stage = lim, minPlateDecreaseStageBegin
+	r.diffs = minPlateDecreaseDifferences{bounds: bounds}
+	r.x = x0
+	minPlateDecreaseEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float32{}, [2]float32{}, [2]float32{}, [2]float32{}, [2]float32{}
+	r.out = minPlateDecreaseOutcome{x: r.x, f: float32(math.NaN()), status: MinPlateDecreaseOutOfEvaluations, gradient: float32(math.NaN())}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minPlateDecreaseDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinPlateDecreaseRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minPlateDecreaseSettleCalls and minPlateDecreaseIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minPlateDecreaseDescent) advance(budget int) minPlateDecreaseOutcome {
+	used := r.out.evaluations
+	for r.stage != minPlateDecreaseStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minPlateDecreaseStageBegin:
+			if left < 1+minPlateDecreaseCalibrationCost+minPlateDecreaseDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case minPlateDecreaseStageJudge:
+			if r.verify != minPlateDecreaseVerifyNothing && left < minPlateDecreaseSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < minPlateDecreaseIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minPlateDecreaseDescent) paused() minPlateDecreaseOutcome {
+	return r.best.ending(MinPlateDecreaseRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minPlateDecreaseDescent) finish(end MinPlateDecreaseStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minPlateDecreaseStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minPlateDecreaseDescent) begin() {
+	r.stage = minPlateDecreaseStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Plate(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minPlateDecreaseFinite(r.fx) || !minPlateDecreaseFiniteVec(&r.x) {
+		r.out.status = MinPlateDecreaseNonFiniteStart
+		return
+	}
+	calls, ok := minPlateDecreaseCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minPlateDecreaseDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minPlateDecreaseDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !minPlateDecreaseFiniteVec(&r.g) {
+		r.out.status = MinPlateDecreaseNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minPlateDecreaseStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minPlateDecreaseVerifyNothing
+	r.stage = minPlateDecreaseStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minPlateDecreaseStageSearch next when the run goes on.
+func (r *minPlateDecreaseDescent) judge() {
+	switch {
+	case r.verify != minPlateDecreaseVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minPlateDecreaseConfirmGradient and settle).
+		calls, ok := minPlateDecreaseSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minPlateDecreaseVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinPlateDecreaseOutOfEvaluations)
+			return
+		}
+		if !minPlateDecreaseFiniteVec(&r.g) {
+			r.finish(MinPlateDecreaseNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minPlateDecreaseVerifyNothing, true
+	case !r.confirmed:
+		minPlateDecreaseGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minPlateDecreaseStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minPlateDecreaseLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minPlateDecreaseLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minPlateDecreaseDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinPlateDecreaseGradientSmall
+		r.stage = minPlateDecreaseStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minPlateDecreaseVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minPlateDecreaseDerivativeCost == 0 {
+			r.finish(MinPlateDecreaseStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minPlateDecreaseStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minPlateDecreaseVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinPlateDecreaseDiverged)
+			return
+		}
+		minPlateDecreaseCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinPlateDecreaseOutOfIterations)
+		return
+	}
+	r.stage = minPlateDecreaseStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minPlateDecreaseStageJudge next when the run
+// goes on.
+func (r *minPlateDecreaseDescent) search() {
+	minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minPlateDecreaseDot(&r.g, &r.d)
+	if !(now < 0) || !minPlateDecreaseFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minPlateDecreaseDot(&r.g, &r.d)
+	}
+	first := float32(minPlateDecreaseStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minPlateDecreaseTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float32
+	found := minPlateDecreaseLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minPlateDecreaseSearchOutOfBudget:
+		r.finish(MinPlateDecreaseOutOfEvaluations)
+		return
+	case minPlateDecreaseSearchDiverged:
+		r.finish(MinPlateDecreaseDiverged)
+		return
+	case minPlateDecreaseSearchExhausted, minPlateDecreaseSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minPlateDecreaseRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinPlateDecreaseNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinPlateDecreaseNoDecrease
+		case found.end == minPlateDecreaseSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minPlateDecreaseVerifyStall, true, minPlateDecreaseStageJudge
+			return
+		case found.end == minPlateDecreaseSearchTiny:
+			end = MinPlateDecreaseStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minPlateDecreaseFiniteVec(&xt) {
+		r.finish(MinPlateDecreaseNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minPlateDecreaseDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, float32(math.NaN())
+				r.out.iterations++
+			}
+			r.finish(MinPlateDecreaseOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minPlateDecreaseDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minPlateDecreaseDifference(&r.s, &xt, &r.x)
+	minPlateDecreaseDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, float32(math.NaN())
+	r.t, r.slope = found.step, now
+
+	if !minPlateDecreaseFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinPlateDecreaseNonFiniteGradient)
+		return
+	}
+	r.stage = minPlateDecreaseStageJudge
 }
 
 // minPlateDecreaseDifferences is what the kernel knows about evaluating the objective:
@@ -383,6 +543,97 @@ type minPlateDecreaseDifferences struct {
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateDecreaseRoundingFloor)
 	bounds    minPlateDecreaseBox
+}
+
+// minPlateDecreaseDirection is steepest descent, d = −∇f(x): the direction of
+// fastest first-order decrease. It needs no memory and converges linearly,
+// slowly on ill-conditioned problems (Nocedal & Wright 2006, §3.3).
+type minPlateDecreaseDirection struct{}
+
+func (s *minPlateDecreaseDirection) reset() {}
+
+func (s *minPlateDecreaseDirection) compute(g, d *[2]float32) {
+	minPlateDecreaseNegate(d, g)
+}
+
+func (s *minPlateDecreaseDirection) update(step, change *[2]float32) {}
+
+// firstTrial is the scaled trial (minPlateDecreaseScaledTrial), grown at most by
+// 2^(minPlateDecreaseStepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
+func (s *minPlateDecreaseDirection) firstTrial(t, slope, now float32) float32 {
+	next := minPlateDecreaseScaledTrial(t, slope, now)
+	if reach := t * float32(math.Ldexp(1, minPlateDecreaseStepTrials/2)); next > reach {
+		return reach
+	}
+	return next
+}
+
+// minPlateDecreaseNegate sets out = −x.
+func minPlateDecreaseNegate(out, x *[2]float32) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// minPlateDecreaseScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to minPlateDecreaseStepInitial.
+func minPlateDecreaseScaledTrial(t, slope, now float32) float32 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !minPlateDecreaseFinite(next) {
+		return minPlateDecreaseStepInitial
+	}
+	return next
+}
+
+// minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func minPlateDecreaseFinite(v float32) bool {
+	return v >= -minPlateDecreaseLargestFinite && v <= minPlateDecreaseLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minPlateDecreaseStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minPlateDecreaseStageJudge         // settle when asked (minPlateDecreaseSettleCalls), judge x, learn from the step: no calls otherwise
+	minPlateDecreaseStageSearch        // the line search and the gradient at the accepted point: minPlateDecreaseIterationCalls
+	minPlateDecreaseStageOver          // the run has ended; out is its result
+)
+
+// minPlateDecreaseEnterBox: without bounds every start is inside.
+func minPlateDecreaseEnterBox(x *[2]float32, b *minPlateDecreaseBox) {}
+
+// What minimize checks at x before judging it again.
+const (
+	minPlateDecreaseVerifyNothing = iota
+	minPlateDecreaseVerifyPass    // a difference gradient passed the test
+	minPlateDecreaseVerifyStall   // no step makes progress
+)
+
+// minPlateDecreaseFiniteVec reports whether every component of x is finite.
+func minPlateDecreaseFiniteVec(x *[2]float32) bool {
+	for i := range x {
+		if !minPlateDecreaseFinite(x[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // minPlateDecreaseCalibrate chooses each central-difference interval from the
@@ -644,63 +895,6 @@ func minPlateDecreaseParabola(f0, a, fa, b, fb float32) (slope, second float32) 
 	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
 	return slope, second
 }
-
-// minPlateDecreaseDirection is steepest descent, d = −∇f(x): the direction of
-// fastest first-order decrease. It needs no memory and converges linearly,
-// slowly on ill-conditioned problems (Nocedal & Wright 2006, §3.3).
-type minPlateDecreaseDirection struct{}
-
-func (s *minPlateDecreaseDirection) reset() {}
-
-func (s *minPlateDecreaseDirection) compute(g, d *[2]float32) {
-	minPlateDecreaseNegate(d, g)
-}
-
-func (s *minPlateDecreaseDirection) update(step, change *[2]float32) {}
-
-// firstTrial is the scaled trial (minPlateDecreaseScaledTrial), grown at most by
-// 2^(minPlateDecreaseStepTrials/2) over the previous step t. Steepest descent is the one
-// direction paired with backtracking that scales its first trial, and
-// backtracking can only shrink: after a step that nearly solved the
-// problem the slope collapses, the ratio can exceed the range its trials
-// halve through, and the search would end with no acceptable step. The
-// cap keeps at least half the trials below the previous step (a safeguard
-// of our own; cg, whose ratios can legitimately be that large on badly
-// scaled problems, always pairs with a Wolfe search, which expands and
-// zooms instead).
-func (s *minPlateDecreaseDirection) firstTrial(t, slope, now float32) float32 {
-	next := minPlateDecreaseScaledTrial(t, slope, now)
-	if reach := t * float32(math.Ldexp(1, minPlateDecreaseStepTrials/2)); next > reach {
-		return reach
-	}
-	return next
-}
-
-// minPlateDecreaseNegate sets out = −x.
-func minPlateDecreaseNegate(out, x *[2]float32) {
-	for i := range x {
-		out[i] = -x[i]
-	}
-}
-
-// minPlateDecreaseScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to minPlateDecreaseStepInitial.
-func minPlateDecreaseScaledTrial(t, slope, now float32) float32 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !minPlateDecreaseFinite(next) {
-		return minPlateDecreaseStepInitial
-	}
-	return next
-}
-
-// What minimize checks at x before judging it again.
-const (
-	minPlateDecreaseVerifyNothing = iota
-	minPlateDecreaseVerifyPass    // a difference gradient passed the test
-	minPlateDecreaseVerifyStall   // no step makes progress
-)
 
 // minPlateDecreaseSettle prepares a verdict at x: with differences it confirms the
 // gradient (minPlateDecreaseConfirmGradient), and at a stall it adds to each error bound
@@ -1055,3 +1249,6 @@ func minPlateDecreaseDifference(out, a, b *[2]float32) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minPlateDecreaseUnlimited is a tick budget that never pauses a run.
+const minPlateDecreaseUnlimited = int(^uint(0) >> 1)

@@ -47,6 +47,55 @@ func TestMinPlateDecreaseRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
+// TestMinPlateDecreaseSolverTicks advances a MinPlateDecreaseSolver from the spec's start with budgets of MinPlateDecreaseTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinPlateDecrease's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinPlateDecreaseSolverTicks(t *testing.T) {
+	want := MinPlateDecrease(minPlateDecreaseTestStart())
+	for _, budget := range []int{MinPlateDecreaseTickMinimum, MinPlateDecreaseTickMinimum + 1, 2 * MinPlateDecreaseTickMinimum, 7 * MinPlateDecreaseTickMinimum} {
+		var s MinPlateDecreaseSolver
+		s.Start(minPlateDecreaseTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinPlateDecreaseRunning {
+				if !minPlateDecreaseTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinPlateDecreaseSolver
+	s.Start(minPlateDecreaseTestStart())
+	if r := s.Advance(0); r.Status != MinPlateDecreaseRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinPlateDecreaseSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinPlateDecreaseSolverAllocatesNothing(t *testing.T) {
+	var s MinPlateDecreaseSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minPlateDecreaseTestStart())
+		for s.Advance(MinPlateDecreaseTickMinimum).Status == MinPlateDecreaseRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minPlateDecreaseTestSameResult reports whether two results are the same, NaN matching NaN.
+func minPlateDecreaseTestSameResult(a, b MinPlateDecreaseResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinPlateDecrease measures one whole run from the spec's start.
 func BenchmarkMinPlateDecrease(b *testing.B) {
 	var r MinPlateDecreaseResult

@@ -26,6 +26,8 @@ const (
 	MinValleyCostNoDecrease
 	// MinValleyCostDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinValleyCostDiverged
+	// MinValleyCostRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinValleyCostRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinValleyCostStatus) String() string {
 		return "no decrease"
 	case MinValleyCostDiverged:
 		return "diverged"
+	case MinValleyCostRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,15 +124,86 @@ func MinValleyCostWithLimits(recv *Valley, x0 [2]float64, limits MinValleyCostLi
 	}
 }
 
+// MinValleyCostTickMinimum is the smallest call budget with which every MinValleyCostSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48, confirming a difference gradient 2).
+const MinValleyCostTickMinimum = 48
+
+// MinValleyCostSolver is a run of MinValleyCost that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinValleyCostDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48, confirming a difference gradient 2. A budget of at least MinValleyCostTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinValleyCostRunning ends exactly as MinValleyCostWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinValleyCost and MinValleyCostWithLimits use at most 2216 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is MinValleyCostRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinValleyCostSolver struct {
+	run       minValleyCostDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinValleyCostLimits  // the limits of the runs; MinValleyCostDefaultLimits() until SetLimits
+	ownLimits bool                 // whether SetLimits has set limits
+	started   bool                 // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinValleyCostSolver) SetLimits(limits MinValleyCostLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinValleyCostSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *MinValleyCostSolver) StartFrom(from MinValleyCostResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *MinValleyCostSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinValleyCostSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = MinValleyCostDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minValleyCostBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinValleyCostRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinValleyCostSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinValleyCostSolver) Advance(recv *Valley, budget int) MinValleyCostResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(recv, budget)
+	return MinValleyCostResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinValleyCost from shapes.toml; the kernels below read them.
 const (
-	minValleyCostStepInitial    = 1.0                    // step.initial
-	minValleyCostStepShrink     = 0.5                    // step.shrink
-	minValleyCostStepDecrease   = 0.0001                 // step.decrease (c1)
-	minValleyCostStepTrials     = 48                     // step.trials
-	minValleyCostDerivativeCost = 0                      // objective calls per gradient
-	minValleyCostUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	minValleyCostLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	minValleyCostStepInitial     = 1.0                    // step.initial
+	minValleyCostStepShrink      = 0.5                    // step.shrink
+	minValleyCostStepDecrease    = 0.0001                 // step.decrease (c1)
+	minValleyCostStepTrials      = 48                     // step.trials
+	minValleyCostDerivativeCost  = 0                      // objective calls per gradient
+	minValleyCostCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	minValleyCostIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	minValleyCostSettleCalls     = 2                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minValleyCostUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	minValleyCostLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // minValleyCostMinimize runs the descent loop from x0 within lim:
@@ -162,173 +237,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minValleyCostMinimize(recv *Valley, x0 [2]float64, lim MinValleyCostLimits, bounds minValleyCostBox) minValleyCostOutcome {
-	x := x0
-	minValleyCostEnterBox(&x, &bounds)
-	out := minValleyCostOutcome{x: x, status: MinValleyCostOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := recv.Cost(&x, &x0)
-	out.f, out.evaluations = fx, 1
-	if !minValleyCostFinite(fx) || !minValleyCostFiniteVec(&x) {
-		out.status = MinValleyCostNonFiniteStart
-		return out
-	}
-	diffs := minValleyCostDifferences{bounds: bounds}
-	calls, ok := minValleyCostCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minValleyCostDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += minValleyCostDerivative(recv, &x, fx, &g, &diffs)
-	g = x0 // ∇f at the start, which Cost wrote into x0 with fx (x0 is not read again)
-
-	if !minValleyCostFiniteVec(&g) {
-		out.status = MinValleyCostNonFiniteGradient
-		return out
-	}
-	var dir minValleyCostDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(minValleyCostStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                               // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                        // whether g and e at x come from confirmGradient or settle
-	stalled := false                                          // whether the run can make no more progress at x
-	retried := -1                                             // the iteration whose stall was retried with recalibrated differences
-	verify := minValleyCostVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minValleyCostVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see confirmGradient and settle).
-			calls, ok := minValleyCostSettle(recv, &x, fx, &g, &e, &diffs, verify == minValleyCostVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinValleyCostOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minValleyCostFiniteVec(&g) {
-				return best.ending(MinValleyCostNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minValleyCostVerifyNothing, true
-		case !confirmed:
-			minValleyCostGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minValleyCostStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minValleyCostLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minValleyCostLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minValleyCostDerivativeCost == 0 || confirmed) {
-			out.status = MinValleyCostGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minValleyCostVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minValleyCostDerivativeCost == 0 {
-				return best.ending(MinValleyCostStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minValleyCostStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minValleyCostVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinValleyCostDiverged, out.iterations, out.evaluations)
-			}
-			minValleyCostCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinValleyCostOutOfIterations, out.iterations, out.evaluations)
-		}
-		minValleyCostSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minValleyCostDot(&g, &d)
-		if !(now < 0) || !minValleyCostFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minValleyCostSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minValleyCostDot(&g, &d)
-		}
-		first := float64(minValleyCostStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minValleyCostTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minValleyCostLineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minValleyCostSearchOutOfBudget:
-			return best.ending(MinValleyCostOutOfEvaluations, out.iterations, out.evaluations)
-		case minValleyCostSearchDiverged:
-			return best.ending(MinValleyCostDiverged, out.iterations, out.evaluations)
-		case minValleyCostSearchExhausted, minValleyCostSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minValleyCostRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinValleyCostNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinValleyCostNoDecrease
-			case found.end == minValleyCostSearchTiny && canSettle:
-				verify, stalled = minValleyCostVerifyStall, true
-				continue
-			case found.end == minValleyCostSearchTiny:
-				end = MinValleyCostStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minValleyCostFiniteVec(&xt) {
-			return best.ending(MinValleyCostNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minValleyCostDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(MinValleyCostOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minValleyCostDerivative(recv, &xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minValleyCostDifference(&s, &xt, &x)
-		minValleyCostDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !minValleyCostFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinValleyCostNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minValleyCostDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(recv, minValleyCostUnlimited)
 }
 
 // minValleyCostOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +261,276 @@ func (o minValleyCostOutcome) ending(end MinValleyCostStatus, iterations, evalua
 	return o
 }
 
-// minValleyCostEnterBox: without bounds every start is inside.
-func minValleyCostEnterBox(x *[2]float64, b *minValleyCostBox) {}
-
-// minValleyCostFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func minValleyCostFinite(v float64) bool {
-	return v >= -minValleyCostLargestFinite && v <= minValleyCostLargestFinite
+// minValleyCostDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minValleyCostDescent struct {
+	lim       MinValleyCostLimits
+	stage     int                      // what advance does next
+	diffs     minValleyCostDifferences // the box and the difference intervals
+	dir       minValleyCostDirection   // the direction's memory
+	x, g, e   [2]float64               // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64               // the search direction, the last step and its gradient change
+	fx        float64                  // f(x)
+	t, slope  float64                  // the previous iteration's accepted step and slope
+	out, best minValleyCostOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                  // f(x0)
+	rises     int                      // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                     // whether g and e at x come from confirmGradient or settle
+	stalled   bool                     // whether the run can make no more progress at x
+	retried   int                      // the iteration whose stall was retried with recalibrated differences
+	verify    int                      // what to check at x before judging it again
 }
 
-// minValleyCostFiniteVec reports whether every component of x is finite.
-func minValleyCostFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !minValleyCostFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minValleyCostDescent) prepare(x0 [2]float64, lim MinValleyCostLimits, bounds minValleyCostBox) {
+	r.lim, r.stage = lim, minValleyCostStageBegin
+	r.diffs = minValleyCostDifferences{bounds: bounds}
+	r.x = x0
+	minValleyCostEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = minValleyCostOutcome{x: r.x, f: math.NaN(), status: MinValleyCostOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minValleyCostDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinValleyCostRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minValleyCostSettleCalls and minValleyCostIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minValleyCostDescent) advance(recv *Valley, budget int) minValleyCostOutcome {
+	used := r.out.evaluations
+	for r.stage != minValleyCostStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minValleyCostStageBegin:
+			if left < 1+minValleyCostCalibrationCost+minValleyCostDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin(recv)
+		case minValleyCostStageJudge:
+			if r.verify != minValleyCostVerifyNothing && left < minValleyCostSettleCalls {
+				return r.paused()
+			}
+			r.judge(recv)
+		default:
+			if left < minValleyCostIterationCalls {
+				return r.paused()
+			}
+			r.search(recv)
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minValleyCostDescent) paused() minValleyCostOutcome {
+	return r.best.ending(MinValleyCostRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minValleyCostDescent) finish(end MinValleyCostStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minValleyCostStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minValleyCostDescent) begin(recv *Valley) {
+	r.stage = minValleyCostStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = recv.Cost(&r.x, &r.g) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minValleyCostFinite(r.fx) || !minValleyCostFiniteVec(&r.x) {
+		r.out.status = MinValleyCostNonFiniteStart
+		return
+	}
+	calls, ok := minValleyCostCalibrate(recv, &r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minValleyCostDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minValleyCostDerivative(recv, &r.x, r.fx, &r.g, &r.diffs)
+
+	if !minValleyCostFiniteVec(&r.g) {
+		r.out.status = MinValleyCostNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minValleyCostStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minValleyCostVerifyNothing
+	r.stage = minValleyCostStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minValleyCostStageSearch next when the run goes on.
+func (r *minValleyCostDescent) judge(recv *Valley) {
+	switch {
+	case r.verify != minValleyCostVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see confirmGradient and settle).
+		calls, ok := minValleyCostSettle(recv, &r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minValleyCostVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinValleyCostOutOfEvaluations)
+			return
+		}
+		if !minValleyCostFiniteVec(&r.g) {
+			r.finish(MinValleyCostNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minValleyCostVerifyNothing, true
+	case !r.confirmed:
+		minValleyCostGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minValleyCostStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minValleyCostLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minValleyCostLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minValleyCostDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinValleyCostGradientSmall
+		r.stage = minValleyCostStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minValleyCostVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minValleyCostDerivativeCost == 0 {
+			r.finish(MinValleyCostStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minValleyCostStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minValleyCostVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinValleyCostDiverged)
+			return
+		}
+		minValleyCostCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinValleyCostOutOfIterations)
+		return
+	}
+	r.stage = minValleyCostStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minValleyCostStageJudge next when the run
+// goes on.
+func (r *minValleyCostDescent) search(recv *Valley) {
+	minValleyCostSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minValleyCostDot(&r.g, &r.d)
+	if !(now < 0) || !minValleyCostFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minValleyCostSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minValleyCostDot(&r.g, &r.d)
+	}
+	first := float64(minValleyCostStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minValleyCostTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := minValleyCostLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minValleyCostSearchOutOfBudget:
+		r.finish(MinValleyCostOutOfEvaluations)
+		return
+	case minValleyCostSearchDiverged:
+		r.finish(MinValleyCostDiverged)
+		return
+	case minValleyCostSearchExhausted, minValleyCostSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minValleyCostRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinValleyCostNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinValleyCostNoDecrease
+		case found.end == minValleyCostSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minValleyCostVerifyStall, true, minValleyCostStageJudge
+			return
+		case found.end == minValleyCostSearchTiny:
+			end = MinValleyCostStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minValleyCostFiniteVec(&xt) {
+		r.finish(MinValleyCostNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minValleyCostDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(MinValleyCostOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minValleyCostDerivative(recv, &xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minValleyCostDifference(&r.s, &xt, &r.x)
+	minValleyCostDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !minValleyCostFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinValleyCostNonFiniteGradient)
+		return
+	}
+	r.stage = minValleyCostStageJudge
 }
 
 // minValleyCostDifferences is what the kernel knows about evaluating the objective:
@@ -385,18 +544,6 @@ type minValleyCostDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see roundingFloor)
 	bounds    minValleyCostBox
-}
-
-// minValleyCostCalibrate: an analytic gradient needs no intervals.
-func minValleyCostCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyCostDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// minValleyCostDerivative: a combined objective wrote ∇f(x) into g in the call
-// that computed fx (the start's, or the line-search trial's at x), so
-// there is nothing to compute and no call to make.
-func minValleyCostDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyCostDifferences) int {
-	return 0
 }
 
 // minValleyCostDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -489,12 +636,58 @@ func minValleyCostCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/minValleyCostDot(s, s))*(sy/minValleyCostDot(y, y)) > minValleyCostUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minValleyCostStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minValleyCostStageJudge         // settle when asked (minValleyCostSettleCalls), judge x, learn from the step: no calls otherwise
+	minValleyCostStageSearch        // the line search and the gradient at the accepted point: minValleyCostIterationCalls
+	minValleyCostStageOver          // the run has ended; out is its result
+)
+
+// minValleyCostEnterBox: without bounds every start is inside.
+func minValleyCostEnterBox(x *[2]float64, b *minValleyCostBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	minValleyCostVerifyNothing = iota
 	minValleyCostVerifyPass    // a difference gradient passed the test
 	minValleyCostVerifyStall   // no step makes progress
 )
+
+// minValleyCostFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func minValleyCostFinite(v float64) bool {
+	return v >= -minValleyCostLargestFinite && v <= minValleyCostLargestFinite
+}
+
+// minValleyCostFiniteVec reports whether every component of x is finite.
+func minValleyCostFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !minValleyCostFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// minValleyCostCalibrate: an analytic gradient needs no intervals.
+func minValleyCostCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyCostDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// minValleyCostDerivative: a combined objective wrote ∇f(x) into g in the call
+// that computed fx (the start's, or the line-search trial's at x), so
+// there is nothing to compute and no call to make.
+func minValleyCostDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyCostDifferences) int {
+	return 0
+}
 
 // minValleyCostSettle prepares a verdict at a stall for a combined objective,
 // which gives its gradient only with its value: it adds to each error
@@ -826,3 +1019,6 @@ func minValleyCostDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minValleyCostUnlimited is a tick budget that never pauses a run.
+const minValleyCostUnlimited = int(^uint(0) >> 1)

@@ -118,6 +118,57 @@ func TestMinValleyCostGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestMinValleyCostSolverTicks advances a MinValleyCostSolver from the spec's start with budgets of MinValleyCostTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinValleyCost's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinValleyCostSolverTicks(t *testing.T) {
+	recv := minValleyCostTestReceiver()
+	want := MinValleyCost(recv, minValleyCostTestStart())
+	for _, budget := range []int{MinValleyCostTickMinimum, MinValleyCostTickMinimum + 1, 2 * MinValleyCostTickMinimum, 7 * MinValleyCostTickMinimum} {
+		var s MinValleyCostSolver
+		s.Start(minValleyCostTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(recv, budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinValleyCostRunning {
+				if !minValleyCostTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinValleyCostSolver
+	s.Start(minValleyCostTestStart())
+	if r := s.Advance(recv, 0); r.Status != MinValleyCostRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinValleyCostSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinValleyCostSolverAllocatesNothing(t *testing.T) {
+	recv := minValleyCostTestReceiver()
+	var s MinValleyCostSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minValleyCostTestStart())
+		for s.Advance(recv, MinValleyCostTickMinimum).Status == MinValleyCostRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minValleyCostTestSameResult reports whether two results are the same, NaN matching NaN.
+func minValleyCostTestSameResult(a, b MinValleyCostResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinValleyCost measures one whole run from the spec's start.
 func BenchmarkMinValleyCost(b *testing.B) {
 	recv := minValleyCostTestReceiver()

@@ -26,6 +26,8 @@ const (
 	MinValleyNoDecrease
 	// MinValleyDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinValleyDiverged
+	// MinValleyRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinValleyRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinValleyStatus) String() string {
 		return "no decrease"
 	case MinValleyDiverged:
 		return "diverged"
+	case MinValleyRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,16 +124,87 @@ func MinValleyWithLimits(recv *Valley, x0 [2]float64, limits MinValleyLimits) Mi
 	}
 }
 
+// MinValleyTickMinimum is the smallest call budget with which every MinValleySolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const MinValleyTickMinimum = 48
+
+// MinValleySolver is a run of MinValley that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinValleyDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least MinValleyTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinValleyRunning ends exactly as MinValleyWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinValley and MinValleyWithLimits use at most 2312 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+//
+// While Status is MinValleyRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinValleySolver struct {
+	run       minValleyDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinValleyLimits  // the limits of the runs; MinValleyDefaultLimits() until SetLimits
+	ownLimits bool             // whether SetLimits has set limits
+	started   bool             // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinValleySolver) SetLimits(limits MinValleyLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinValleySolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the L-BFGS correction pairs), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *MinValleySolver) StartFrom(from MinValleyResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the L-BFGS correction pairs); the run goes on from its point, next with a steepest-descent step.
+func (s *MinValleySolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinValleySolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = MinValleyDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minValleyBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinValleyRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinValleySolver for the budget rule and what advancing assumes of the objective.
+func (s *MinValleySolver) Advance(recv *Valley, budget int) MinValleyResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(recv, budget)
+	return MinValleyResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinValley from shapes.toml; the kernels below read them.
 const (
-	minValleyStepInitial    = 1.0                    // step.initial
-	minValleyStepDecrease   = 0.0001                 // step.decrease (c1)
-	minValleyStepCurvature  = 0.8                    // step.curvature (c2)
-	minValleyLbfgsMemory    = 3                      // memory
-	minValleyStepTrials     = 48                     // step.trials
-	minValleyDerivativeCost = 0                      // objective calls per gradient
-	minValleyUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	minValleyLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	minValleyStepInitial     = 1.0                    // step.initial
+	minValleyStepDecrease    = 0.0001                 // step.decrease (c1)
+	minValleyStepCurvature   = 0.8                    // step.curvature (c2)
+	minValleyLbfgsMemory     = 3                      // memory
+	minValleyStepTrials      = 48                     // step.trials
+	minValleyDerivativeCost  = 0                      // objective calls per gradient
+	minValleyCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	minValleyIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	minValleySettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minValleyUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	minValleyLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // minValleyMinimize runs the descent loop from x0 within lim:
@@ -163,172 +238,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits, bounds minValleyBox) minValleyOutcome {
-	x := x0
-	minValleyEnterBox(&x, &bounds)
-	out := minValleyOutcome{x: x, status: MinValleyOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := recv.Depth(x)
-	out.f, out.evaluations = fx, 1
-	if !minValleyFinite(fx) || !minValleyFiniteVec(&x) {
-		out.status = MinValleyNonFiniteStart
-		return out
-	}
-	diffs := minValleyDifferences{bounds: bounds}
-	calls, ok := minValleyCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minValleyDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += minValleyDerivative(recv, &x, fx, &g, &diffs)
-
-	if !minValleyFiniteVec(&g) {
-		out.status = MinValleyNonFiniteGradient
-		return out
-	}
-	var dir minValleyDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(minValleyStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                           // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                    // whether g and e at x come from minValleyConfirmGradient or settle
-	stalled := false                                      // whether the run can make no more progress at x
-	retried := -1                                         // the iteration whose stall was retried with recalibrated differences
-	verify := minValleyVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minValleyVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minValleyConfirmGradient and settle).
-			calls, ok := minValleySettle(recv, &x, fx, &g, &e, &diffs, verify == minValleyVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minValleyFiniteVec(&g) {
-				return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minValleyVerifyNothing, true
-		case !confirmed:
-			minValleyGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minValleyStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minValleyLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minValleyDerivativeCost == 0 || confirmed) {
-			out.status = MinValleyGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minValleyVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minValleyDerivativeCost == 0 {
-				return best.ending(MinValleyStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minValleyStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minValleyVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinValleyDiverged, out.iterations, out.evaluations)
-			}
-			minValleyCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinValleyOutOfIterations, out.iterations, out.evaluations)
-		}
-		minValleySearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minValleyDot(&g, &d)
-		if !(now < 0) || !minValleyFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minValleySearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minValleyDot(&g, &d)
-		}
-		first := float64(minValleyStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minValleyTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minValleyLineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minValleySearchOutOfBudget:
-			return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
-		case minValleySearchDiverged:
-			return best.ending(MinValleyDiverged, out.iterations, out.evaluations)
-		case minValleySearchExhausted, minValleySearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minValleyRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinValleyNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinValleyNoDecrease
-			case found.end == minValleySearchTiny && canSettle:
-				verify, stalled = minValleyVerifyStall, true
-				continue
-			case found.end == minValleySearchTiny:
-				end = MinValleyStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minValleyFiniteVec(&xt) {
-			return best.ending(MinValleyNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minValleyDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minValleyDerivative(recv, &xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minValleyDifference(&s, &xt, &x)
-		minValleyDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !minValleyFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minValleyDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(recv, minValleyUnlimited)
 }
 
 // minValleyOutcome is the kernel's report; the generated entry point copies it into
@@ -349,29 +262,276 @@ func (o minValleyOutcome) ending(end MinValleyStatus, iterations, evaluations in
 	return o
 }
 
-// minValleyEnterBox: without bounds every start is inside.
-func minValleyEnterBox(x *[2]float64, b *minValleyBox) {}
-
-// minValleyFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func minValleyFinite(v float64) bool {
-	return v >= -minValleyLargestFinite && v <= minValleyLargestFinite
+// minValleyDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minValleyDescent struct {
+	lim       MinValleyLimits
+	stage     int                  // what advance does next
+	diffs     minValleyDifferences // the box and the difference intervals
+	dir       minValleyDirection   // the direction's memory
+	x, g, e   [2]float64           // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64           // the search direction, the last step and its gradient change
+	fx        float64              // f(x)
+	t, slope  float64              // the previous iteration's accepted step and slope
+	out, best minValleyOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64              // f(x0)
+	rises     int                  // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                 // whether g and e at x come from minValleyConfirmGradient or settle
+	stalled   bool                 // whether the run can make no more progress at x
+	retried   int                  // the iteration whose stall was retried with recalibrated differences
+	verify    int                  // what to check at x before judging it again
 }
 
-// minValleyFiniteVec reports whether every component of x is finite.
-func minValleyFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !minValleyFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minValleyDescent) prepare(x0 [2]float64, lim MinValleyLimits, bounds minValleyBox) {
+	r.lim, r.stage = lim, minValleyStageBegin
+	r.diffs = minValleyDifferences{bounds: bounds}
+	r.x = x0
+	minValleyEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = minValleyOutcome{x: r.x, f: math.NaN(), status: MinValleyOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minValleyDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinValleyRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minValleySettleCalls and minValleyIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minValleyDescent) advance(recv *Valley, budget int) minValleyOutcome {
+	used := r.out.evaluations
+	for r.stage != minValleyStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minValleyStageBegin:
+			if left < 1+minValleyCalibrationCost+minValleyDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin(recv)
+		case minValleyStageJudge:
+			if r.verify != minValleyVerifyNothing && left < minValleySettleCalls {
+				return r.paused()
+			}
+			r.judge(recv)
+		default:
+			if left < minValleyIterationCalls {
+				return r.paused()
+			}
+			r.search(recv)
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minValleyDescent) paused() minValleyOutcome {
+	return r.best.ending(MinValleyRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minValleyDescent) finish(end MinValleyStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minValleyStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minValleyDescent) begin(recv *Valley) {
+	r.stage = minValleyStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = recv.Depth(r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minValleyFinite(r.fx) || !minValleyFiniteVec(&r.x) {
+		r.out.status = MinValleyNonFiniteStart
+		return
+	}
+	calls, ok := minValleyCalibrate(recv, &r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minValleyDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minValleyDerivative(recv, &r.x, r.fx, &r.g, &r.diffs)
+
+	if !minValleyFiniteVec(&r.g) {
+		r.out.status = MinValleyNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minValleyStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minValleyVerifyNothing
+	r.stage = minValleyStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minValleyStageSearch next when the run goes on.
+func (r *minValleyDescent) judge(recv *Valley) {
+	switch {
+	case r.verify != minValleyVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minValleyConfirmGradient and settle).
+		calls, ok := minValleySettle(recv, &r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minValleyVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinValleyOutOfEvaluations)
+			return
+		}
+		if !minValleyFiniteVec(&r.g) {
+			r.finish(MinValleyNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minValleyVerifyNothing, true
+	case !r.confirmed:
+		minValleyGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minValleyStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minValleyLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minValleyLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minValleyDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinValleyGradientSmall
+		r.stage = minValleyStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minValleyVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minValleyDerivativeCost == 0 {
+			r.finish(MinValleyStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minValleyStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minValleyVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinValleyDiverged)
+			return
+		}
+		minValleyCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinValleyOutOfIterations)
+		return
+	}
+	r.stage = minValleyStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minValleyStageJudge next when the run
+// goes on.
+func (r *minValleyDescent) search(recv *Valley) {
+	minValleySearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minValleyDot(&r.g, &r.d)
+	if !(now < 0) || !minValleyFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minValleySearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minValleyDot(&r.g, &r.d)
+	}
+	first := float64(minValleyStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minValleyTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := minValleyLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minValleySearchOutOfBudget:
+		r.finish(MinValleyOutOfEvaluations)
+		return
+	case minValleySearchDiverged:
+		r.finish(MinValleyDiverged)
+		return
+	case minValleySearchExhausted, minValleySearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minValleyRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinValleyNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinValleyNoDecrease
+		case found.end == minValleySearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minValleyVerifyStall, true, minValleyStageJudge
+			return
+		case found.end == minValleySearchTiny:
+			end = MinValleyStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minValleyFiniteVec(&xt) {
+		r.finish(MinValleyNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minValleyDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(MinValleyOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minValleyDerivative(recv, &xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minValleyDifference(&r.s, &xt, &r.x)
+	minValleyDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !minValleyFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinValleyNonFiniteGradient)
+		return
+	}
+	r.stage = minValleyStageJudge
 }
 
 // minValleyDifferences is what the kernel knows about evaluating the objective:
@@ -385,17 +545,6 @@ type minValleyDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see minValleyRoundingFloor)
 	bounds    minValleyBox
-}
-
-// minValleyCalibrate: an analytic gradient needs no intervals.
-func minValleyCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// minValleyDerivative calls the user's gradient; it costs no objective calls.
-func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyDifferences) int {
-	*g = recv.DepthGradient(*x)
-	return 0
 }
 
 // minValleyDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -513,12 +662,57 @@ func minValleyCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/minValleyDot(s, s))*(sy/minValleyDot(y, y)) > minValleyUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minValleyStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minValleyStageJudge         // settle when asked (minValleySettleCalls), judge x, learn from the step: no calls otherwise
+	minValleyStageSearch        // the line search and the gradient at the accepted point: minValleyIterationCalls
+	minValleyStageOver          // the run has ended; out is its result
+)
+
+// minValleyEnterBox: without bounds every start is inside.
+func minValleyEnterBox(x *[2]float64, b *minValleyBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	minValleyVerifyNothing = iota
 	minValleyVerifyPass    // a difference gradient passed the test
 	minValleyVerifyStall   // no step makes progress
 )
+
+// minValleyFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func minValleyFinite(v float64) bool {
+	return v >= -minValleyLargestFinite && v <= minValleyLargestFinite
+}
+
+// minValleyFiniteVec reports whether every component of x is finite.
+func minValleyFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !minValleyFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// minValleyCalibrate: an analytic gradient needs no intervals.
+func minValleyCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// minValleyDerivative calls the user's gradient; it costs no objective calls.
+func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyDifferences) int {
+	*g = recv.DepthGradient(*x)
+	return 0
+}
 
 // minValleySettle prepares a verdict at x: with differences it confirms the
 // gradient (minValleyConfirmGradient), and at a stall it adds to each error bound
@@ -1026,3 +1220,6 @@ func minValleyDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minValleyUnlimited is a tick budget that never pauses a run.
+const minValleyUnlimited = int(^uint(0) >> 1)

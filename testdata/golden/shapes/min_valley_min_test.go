@@ -117,6 +117,57 @@ func TestMinValleyGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestMinValleySolverTicks advances a MinValleySolver from the spec's start with budgets of MinValleyTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinValley's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinValleySolverTicks(t *testing.T) {
+	recv := minValleyTestReceiver()
+	want := MinValley(recv, minValleyTestStart())
+	for _, budget := range []int{MinValleyTickMinimum, MinValleyTickMinimum + 1, 2 * MinValleyTickMinimum, 7 * MinValleyTickMinimum} {
+		var s MinValleySolver
+		s.Start(minValleyTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(recv, budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinValleyRunning {
+				if !minValleyTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinValleySolver
+	s.Start(minValleyTestStart())
+	if r := s.Advance(recv, 0); r.Status != MinValleyRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinValleySolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinValleySolverAllocatesNothing(t *testing.T) {
+	recv := minValleyTestReceiver()
+	var s MinValleySolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minValleyTestStart())
+		for s.Advance(recv, MinValleyTickMinimum).Status == MinValleyRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minValleyTestSameResult reports whether two results are the same, NaN matching NaN.
+func minValleyTestSameResult(a, b MinValleyResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinValley measures one whole run from the spec's start.
 func BenchmarkMinValley(b *testing.B) {
 	recv := minValleyTestReceiver()

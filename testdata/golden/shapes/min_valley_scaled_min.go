@@ -26,6 +26,8 @@ const (
 	MinValleyScaledNoDecrease
 	// MinValleyScaledDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinValleyScaledDiverged
+	// MinValleyScaledRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinValleyScaledRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinValleyScaledStatus) String() string {
 		return "no decrease"
 	case MinValleyScaledDiverged:
 		return "diverged"
+	case MinValleyScaledRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -170,16 +174,90 @@ func minValleyScaledGradientAt(recv *Valley, z, g *[2]float64) {
 	}
 }
 
+// MinValleyScaledTickMinimum is the smallest call budget with which every MinValleyScaledSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+const MinValleyScaledTickMinimum = 48
+
+// MinValleyScaledSolver is a run of MinValleyScaled that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinValleyScaledDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least MinValleyScaledTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinValleyScaledRunning ends exactly as MinValleyScaledWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinValleyScaled and MinValleyScaledWithLimits use at most 2472 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 368 bytes.
+//
+// While Status is MinValleyScaledRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinValleyScaledSolver struct {
+	run       minValleyScaledDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinValleyScaledLimits  // the limits of the runs; MinValleyScaledDefaultLimits() until SetLimits
+	ownLimits bool                   // whether SetLimits has set limits
+	started   bool                   // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinValleyScaledSolver) SetLimits(limits MinValleyScaledLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinValleyScaledSolver) Start(x0 [2]float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *MinValleyScaledSolver) StartFrom(from MinValleyScaledResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *MinValleyScaledSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinValleyScaledSolver) begin(x0 [2]float64) {
+	if !s.ownLimits {
+		s.limits = MinValleyScaledDefaultLimits()
+	}
+	s.run.prepare(minValleyScaledScaled(x0), s.limits, minValleyScaledBox{
+		lower: [2]float64{math.Inf(-1), -0.375},
+		upper: [2]float64{math.Inf(1), math.Inf(1)},
+	})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinValleyScaledRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinValleyScaledSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinValleyScaledSolver) Advance(recv *Valley, budget int) MinValleyScaledResult {
+	if !s.started {
+		var x0 [2]float64
+		s.Start(x0)
+	}
+	out := s.run.advance(recv, budget)
+	return MinValleyScaledResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             minValleyScaledUnscaled(&out.x),
+	}
+}
+
 // Tunables of MinValleyScaled from shapes.toml; the kernels below read them.
 const (
-	minValleyScaledStepInitial    = 1.0                    // step.initial
-	minValleyScaledStepDecrease   = 0.0001                 // step.decrease (c1)
-	minValleyScaledStepCurvature  = 0.9                    // step.curvature (c2)
-	minValleyScaledStepTrials     = 48                     // step.trials
-	minValleyScaledDerivativeCost = 0                      // objective calls per gradient
-	minValleyScaledUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	minValleyScaledLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	minValleyScaledActiveMargin   = 1e-3                   // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
+	minValleyScaledStepInitial     = 1.0                    // step.initial
+	minValleyScaledStepDecrease    = 0.0001                 // step.decrease (c1)
+	minValleyScaledStepCurvature   = 0.9                    // step.curvature (c2)
+	minValleyScaledStepTrials      = 48                     // step.trials
+	minValleyScaledDerivativeCost  = 0                      // objective calls per gradient
+	minValleyScaledCalibrationCost = 0                      // objective calls of choosing the difference intervals
+	minValleyScaledIterationCalls  = 48                     // most objective calls of one line search with the gradient at its step
+	minValleyScaledSettleCalls     = 0                      // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minValleyScaledUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	minValleyScaledLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	minValleyScaledActiveMargin    = 1e-3                   // ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)
 )
 
 // minValleyScaledMinimize runs the descent loop from x0 within lim:
@@ -213,172 +291,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minValleyScaledMinimize(recv *Valley, x0 [2]float64, lim MinValleyScaledLimits, bounds minValleyScaledBox) minValleyScaledOutcome {
-	x := x0
-	minValleyScaledEnterBox(&x, &bounds)
-	out := minValleyScaledOutcome{x: x, status: MinValleyScaledOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := minValleyScaledValueAt(recv, &x)
-	out.f, out.evaluations = fx, 1
-	if !minValleyScaledFinite(fx) || !minValleyScaledFiniteVec(&x) {
-		out.status = MinValleyScaledNonFiniteStart
-		return out
-	}
-	diffs := minValleyScaledDifferences{bounds: bounds}
-	calls, ok := minValleyScaledCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minValleyScaledDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float64
-	out.evaluations += minValleyScaledDerivative(recv, &x, fx, &g, &diffs)
-
-	if !minValleyScaledFiniteVec(&g) {
-		out.status = MinValleyScaledNonFiniteGradient
-		return out
-	}
-	var dir minValleyScaledDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float64
-	t, slope := float64(minValleyScaledStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                                 // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from minValleyScaledConfirmGradient or settle
-	stalled := false                                            // whether the run can make no more progress at x
-	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
-	verify := minValleyScaledVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minValleyScaledVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minValleyScaledConfirmGradient and settle).
-			calls, ok := minValleyScaledSettle(recv, &x, fx, &g, &e, &diffs, verify == minValleyScaledVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinValleyScaledOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minValleyScaledFiniteVec(&g) {
-				return best.ending(MinValleyScaledNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minValleyScaledVerifyNothing, true
-		case !confirmed:
-			minValleyScaledGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minValleyScaledStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minValleyScaledLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minValleyScaledLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minValleyScaledDerivativeCost == 0 || confirmed) {
-			out.status = MinValleyScaledGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minValleyScaledVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minValleyScaledDerivativeCost == 0 {
-				return best.ending(MinValleyScaledStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minValleyScaledStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minValleyScaledVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinValleyScaledDiverged, out.iterations, out.evaluations)
-			}
-			minValleyScaledCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinValleyScaledOutOfIterations, out.iterations, out.evaluations)
-		}
-		minValleyScaledSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minValleyScaledDot(&g, &d)
-		if !(now < 0) || !minValleyScaledFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minValleyScaledSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minValleyScaledDot(&g, &d)
-		}
-		first := float64(minValleyScaledStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minValleyScaledTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minValleyScaledLineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minValleyScaledSearchOutOfBudget:
-			return best.ending(MinValleyScaledOutOfEvaluations, out.iterations, out.evaluations)
-		case minValleyScaledSearchDiverged:
-			return best.ending(MinValleyScaledDiverged, out.iterations, out.evaluations)
-		case minValleyScaledSearchExhausted, minValleyScaledSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see minValleyScaledRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinValleyScaledNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinValleyScaledNoDecrease
-			case found.end == minValleyScaledSearchTiny && canSettle:
-				verify, stalled = minValleyScaledVerifyStall, true
-				continue
-			case found.end == minValleyScaledSearchTiny:
-				end = MinValleyScaledStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minValleyScaledFiniteVec(&xt) {
-			return best.ending(MinValleyScaledNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minValleyScaledDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(MinValleyScaledOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minValleyScaledDerivative(recv, &xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minValleyScaledDifference(&s, &xt, &x)
-		minValleyScaledDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !minValleyScaledFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinValleyScaledNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minValleyScaledDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(recv, minValleyScaledUnlimited)
 }
 
 // minValleyScaledOutcome is the kernel's report; the generated entry point copies it into
@@ -399,49 +315,276 @@ func (o minValleyScaledOutcome) ending(end MinValleyScaledStatus, iterations, ev
 	return o
 }
 
-// minValleyScaledEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
-// the projection P(x) onto the box.
-func minValleyScaledEnterBox(x *[2]float64, b *minValleyScaledBox) {
-	for i := range x {
-		x[i] = minValleyScaledClampBetween(x[i], b.lower[i], b.upper[i])
-	}
+// minValleyScaledDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minValleyScaledDescent struct {
+	lim       MinValleyScaledLimits
+	stage     int                        // what advance does next
+	diffs     minValleyScaledDifferences // the box and the difference intervals
+	dir       minValleyScaledDirection   // the direction's memory
+	x, g, e   [2]float64                 // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float64                 // the search direction, the last step and its gradient change
+	fx        float64                    // f(x)
+	t, slope  float64                    // the previous iteration's accepted step and slope
+	out, best minValleyScaledOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64                    // f(x0)
+	rises     int                        // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                       // whether g and e at x come from minValleyScaledConfirmGradient or settle
+	stalled   bool                       // whether the run can make no more progress at x
+	retried   int                        // the iteration whose stall was retried with recalibrated differences
+	verify    int                        // what to check at x before judging it again
 }
 
-// minValleyScaledClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func minValleyScaledClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minValleyScaledDescent) prepare(x0 [2]float64, lim MinValleyScaledLimits, bounds minValleyScaledBox) {
+	r.lim, r.stage = lim, minValleyScaledStageBegin
+	r.diffs = minValleyScaledDifferences{bounds: bounds}
+	r.x = x0
+	minValleyScaledEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}, [2]float64{}
+	r.out = minValleyScaledOutcome{x: r.x, f: math.NaN(), status: MinValleyScaledOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
 }
 
-// minValleyScaledFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func minValleyScaledFinite(v float64) bool {
-	return v >= -minValleyScaledLargestFinite && v <= minValleyScaledLargestFinite
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minValleyScaledDescent) forget() {
+	r.dir.reset()
 }
 
-// minValleyScaledFiniteVec reports whether every component of x is finite.
-func minValleyScaledFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !minValleyScaledFinite(x[i]) {
-			return false
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinValleyScaledRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minValleyScaledSettleCalls and minValleyScaledIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minValleyScaledDescent) advance(recv *Valley, budget int) minValleyScaledOutcome {
+	used := r.out.evaluations
+	for r.stage != minValleyScaledStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minValleyScaledStageBegin:
+			if left < 1+minValleyScaledCalibrationCost+minValleyScaledDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin(recv)
+		case minValleyScaledStageJudge:
+			if r.verify != minValleyScaledVerifyNothing && left < minValleyScaledSettleCalls {
+				return r.paused()
+			}
+			r.judge(recv)
+		default:
+			if left < minValleyScaledIterationCalls {
+				return r.paused()
+			}
+			r.search(recv)
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minValleyScaledDescent) paused() minValleyScaledOutcome {
+	return r.best.ending(MinValleyScaledRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minValleyScaledDescent) finish(end MinValleyScaledStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minValleyScaledStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minValleyScaledDescent) begin(recv *Valley) {
+	r.stage = minValleyScaledStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = minValleyScaledValueAt(recv, &r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minValleyScaledFinite(r.fx) || !minValleyScaledFiniteVec(&r.x) {
+		r.out.status = MinValleyScaledNonFiniteStart
+		return
+	}
+	calls, ok := minValleyScaledCalibrate(recv, &r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minValleyScaledDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minValleyScaledDerivative(recv, &r.x, r.fx, &r.g, &r.diffs)
+
+	if !minValleyScaledFiniteVec(&r.g) {
+		r.out.status = MinValleyScaledNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minValleyScaledStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minValleyScaledVerifyNothing
+	r.stage = minValleyScaledStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minValleyScaledStageSearch next when the run goes on.
+func (r *minValleyScaledDescent) judge(recv *Valley) {
+	switch {
+	case r.verify != minValleyScaledVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minValleyScaledConfirmGradient and settle).
+		calls, ok := minValleyScaledSettle(recv, &r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minValleyScaledVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinValleyScaledOutOfEvaluations)
+			return
+		}
+		if !minValleyScaledFiniteVec(&r.g) {
+			r.finish(MinValleyScaledNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minValleyScaledVerifyNothing, true
+	case !r.confirmed:
+		minValleyScaledGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minValleyScaledStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minValleyScaledLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minValleyScaledLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minValleyScaledDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinValleyScaledGradientSmall
+		r.stage = minValleyScaledStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minValleyScaledVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minValleyScaledDerivativeCost == 0 {
+			r.finish(MinValleyScaledStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minValleyScaledStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minValleyScaledVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinValleyScaledDiverged)
+			return
+		}
+		minValleyScaledCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinValleyScaledOutOfIterations)
+		return
+	}
+	r.stage = minValleyScaledStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minValleyScaledStageJudge next when the run
+// goes on.
+func (r *minValleyScaledDescent) search(recv *Valley) {
+	minValleyScaledSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minValleyScaledDot(&r.g, &r.d)
+	if !(now < 0) || !minValleyScaledFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minValleyScaledSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minValleyScaledDot(&r.g, &r.d)
+	}
+	first := float64(minValleyScaledStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minValleyScaledTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float64
+	found := minValleyScaledLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minValleyScaledSearchOutOfBudget:
+		r.finish(MinValleyScaledOutOfEvaluations)
+		return
+	case minValleyScaledSearchDiverged:
+		r.finish(MinValleyScaledDiverged)
+		return
+	case minValleyScaledSearchExhausted, minValleyScaledSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see minValleyScaledRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinValleyScaledNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinValleyScaledNoDecrease
+		case found.end == minValleyScaledSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minValleyScaledVerifyStall, true, minValleyScaledStageJudge
+			return
+		case found.end == minValleyScaledSearchTiny:
+			end = MinValleyScaledStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minValleyScaledFiniteVec(&xt) {
+		r.finish(MinValleyScaledNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minValleyScaledDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(MinValleyScaledOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minValleyScaledDerivative(recv, &xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minValleyScaledDifference(&r.s, &xt, &r.x)
+	minValleyScaledDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !minValleyScaledFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinValleyScaledNonFiniteGradient)
+		return
+	}
+	r.stage = minValleyScaledStageJudge
 }
 
 // minValleyScaledDifferences is what the kernel knows about evaluating the objective:
@@ -455,17 +598,6 @@ type minValleyScaledDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see minValleyScaledRoundingFloor)
 	bounds    minValleyScaledBox
-}
-
-// minValleyScaledCalibrate: an analytic gradient needs no intervals.
-func minValleyScaledCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyScaledDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// minValleyScaledDerivative calls the user's gradient; it costs no objective calls.
-func minValleyScaledDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyScaledDifferences) int {
-	minValleyScaledGradientAt(recv, x, g)
-	return 0
 }
 
 // minValleyScaledDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -558,12 +690,77 @@ func minValleyScaledCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/minValleyScaledDot(s, s))*(sy/minValleyScaledDot(y, y)) > minValleyScaledUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minValleyScaledStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minValleyScaledStageJudge         // settle when asked (minValleyScaledSettleCalls), judge x, learn from the step: no calls otherwise
+	minValleyScaledStageSearch        // the line search and the gradient at the accepted point: minValleyScaledIterationCalls
+	minValleyScaledStageOver          // the run has ended; out is its result
+)
+
+// minValleyScaledEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
+// the projection P(x) onto the box.
+func minValleyScaledEnterBox(x *[2]float64, b *minValleyScaledBox) {
+	for i := range x {
+		x[i] = minValleyScaledClampBetween(x[i], b.lower[i], b.upper[i])
+	}
+}
+
+// minValleyScaledClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minValleyScaledClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
 // What minimize checks at x before judging it again.
 const (
 	minValleyScaledVerifyNothing = iota
 	minValleyScaledVerifyPass    // a difference gradient passed the test
 	minValleyScaledVerifyStall   // no step makes progress
 )
+
+// minValleyScaledFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func minValleyScaledFinite(v float64) bool {
+	return v >= -minValleyScaledLargestFinite && v <= minValleyScaledLargestFinite
+}
+
+// minValleyScaledFiniteVec reports whether every component of x is finite.
+func minValleyScaledFiniteVec(x *[2]float64) bool {
+	for i := range x {
+		if !minValleyScaledFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// minValleyScaledCalibrate: an analytic gradient needs no intervals.
+func minValleyScaledCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyScaledDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// minValleyScaledDerivative calls the user's gradient; it costs no objective calls.
+func minValleyScaledDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyScaledDifferences) int {
+	minValleyScaledGradientAt(recv, x, g)
+	return 0
+}
 
 // minValleyScaledSettle prepares a verdict at x: with differences it confirms the
 // gradient (minValleyScaledConfirmGradient), and at a stall it adds to each error bound
@@ -1163,3 +1360,6 @@ func minValleyScaledDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minValleyScaledUnlimited is a tick budget that never pauses a run.
+const minValleyScaledUnlimited = int(^uint(0) >> 1)

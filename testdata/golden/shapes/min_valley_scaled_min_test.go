@@ -158,6 +158,57 @@ func TestMinValleyScaledGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestMinValleyScaledSolverTicks advances a MinValleyScaledSolver from the spec's start with budgets of MinValleyScaledTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinValleyScaled's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinValleyScaledSolverTicks(t *testing.T) {
+	recv := minValleyScaledTestReceiver()
+	want := MinValleyScaled(recv, minValleyScaledTestStart())
+	for _, budget := range []int{MinValleyScaledTickMinimum, MinValleyScaledTickMinimum + 1, 2 * MinValleyScaledTickMinimum, 7 * MinValleyScaledTickMinimum} {
+		var s MinValleyScaledSolver
+		s.Start(minValleyScaledTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(recv, budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinValleyScaledRunning {
+				if !minValleyScaledTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinValleyScaledSolver
+	s.Start(minValleyScaledTestStart())
+	if r := s.Advance(recv, 0); r.Status != MinValleyScaledRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinValleyScaledSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinValleyScaledSolverAllocatesNothing(t *testing.T) {
+	recv := minValleyScaledTestReceiver()
+	var s MinValleyScaledSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minValleyScaledTestStart())
+		for s.Advance(recv, MinValleyScaledTickMinimum).Status == MinValleyScaledRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minValleyScaledTestSameResult reports whether two results are the same, NaN matching NaN.
+func minValleyScaledTestSameResult(a, b MinValleyScaledResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinValleyScaled measures one whole run from the spec's start.
 func BenchmarkMinValleyScaled(b *testing.B) {
 	recv := minValleyScaledTestReceiver()

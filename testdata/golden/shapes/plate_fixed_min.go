@@ -26,6 +26,8 @@ const (
 	MinPlateNoDecrease
 	// MinPlateDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	MinPlateDiverged
+	// MinPlateRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	MinPlateRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s MinPlateStatus) String() string {
 		return "no decrease"
 	case MinPlateDiverged:
 		return "diverged"
+	case MinPlateRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -120,13 +124,84 @@ func MinPlateWithLimits(x0 [2]float32, limits MinPlateLimits) MinPlateResult {
 	}
 }
 
+// MinPlateTickMinimum is the smallest call budget with which every MinPlateSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 1).
+const MinPlateTickMinimum = 1
+
+// MinPlateSolver is a run of MinPlate that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinPlateDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 1. A budget of at least MinPlateTickMinimum = 1 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinPlateRunning ends exactly as MinPlateWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinPlate and MinPlateWithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is MinPlateRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinPlateSolver struct {
+	run       minPlateDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinPlateLimits  // the limits of the runs; MinPlateDefaultLimits() until SetLimits
+	ownLimits bool            // whether SetLimits has set limits
+	started   bool            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinPlateSolver) SetLimits(limits MinPlateLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinPlateSolver) Start(x0 [2]float32) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X, and the counts and limits start over.
+func (s *MinPlateSolver) StartFrom(from MinPlateResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *MinPlateSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinPlateSolver) begin(x0 [2]float32) {
+	if !s.ownLimits {
+		s.limits = MinPlateDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minPlateBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinPlateRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinPlateSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinPlateSolver) Advance(budget int) MinPlateResult {
+	if !s.started {
+		var x0 [2]float32
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return MinPlateResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinPlate from shapes.toml; the kernels below read them.
 const (
-	minPlateStepInitial    = 0.2                   // step.initial
-	minPlateStepTrials     = 19                    // step.trials
-	minPlateDerivativeCost = 0                     // objective calls per gradient
-	minPlateUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	minPlateLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
+	minPlateStepInitial     = 0.2                   // step.initial
+	minPlateStepTrials      = 19                    // step.trials
+	minPlateDerivativeCost  = 0                     // objective calls per gradient
+	minPlateCalibrationCost = 0                     // objective calls of choosing the difference intervals
+	minPlateIterationCalls  = 1                     // most objective calls of one line search with the gradient at its step
+	minPlateSettleCalls     = 0                     // most objective calls of settling at x: confirming a difference gradient, or a combined objective's probes at a stall
+	minPlateUnitRoundoff    = 5.960464477539063e-08 // unit roundoff u of the float type
+	minPlateLargestFinite   = 0x1.fffffep127        // the largest finite value of the float type
 )
 
 // minPlateMinimize runs the descent loop from x0 within lim:
@@ -160,172 +235,10 @@ const (
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
 func minPlateMinimize(x0 [2]float32, lim MinPlateLimits, bounds minPlateBox) minPlateOutcome {
-	x := x0
-	minPlateEnterBox(&x, &bounds)
-	out := minPlateOutcome{x: x, status: MinPlateOutOfEvaluations, gradient: float32(math.NaN())}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	fx := Plate(&x)
-	out.f, out.evaluations = fx, 1
-	if !minPlateFinite(fx) || !minPlateFiniteVec(&x) {
-		out.status = MinPlateNonFiniteStart
-		return out
-	}
-	diffs := minPlateDifferences{bounds: bounds}
-	calls, ok := minPlateCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+minPlateDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [2]float32
-	out.evaluations += minPlateDerivative(&x, fx, &g, &diffs)
-
-	if !minPlateFiniteVec(&g) {
-		out.status = MinPlateNonFiniteGradient
-		return out
-	}
-	var dir minPlateDirection
-	dir.reset()
-	var d, xt, gt, s, y [2]float32
-	t, slope := float32(minPlateStepInitial), float32(0) // the previous iteration's accepted step and slope
-	best := out                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                   // whether g and e at x come from minPlateConfirmGradient or settle
-	stalled := false                                     // whether the run can make no more progress at x
-	retried := -1                                        // the iteration whose stall was retried with recalibrated differences
-	verify := minPlateVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != minPlateVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see minPlateConfirmGradient and settle).
-			calls, ok := minPlateSettle(&x, fx, &g, &e, &diffs, verify == minPlateVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minPlateFiniteVec(&g) {
-				return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = minPlateVerifyNothing, true
-		case !confirmed:
-			minPlateGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := minPlateStationarity(&g, &e, &x, fx, &diffs.bounds)
-		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * minPlateLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (minPlateDerivativeCost == 0 || confirmed) {
-			out.status = MinPlateGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = minPlateVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if minPlateDerivativeCost == 0 {
-				return best.ending(MinPlateStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if minPlateStepWithin(&s, &x, lim.Step) {
-				verify, stalled = minPlateVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(MinPlateDiverged, out.iterations, out.evaluations)
-			}
-			minPlateCurvaturePair(&s, &y, &x, &diffs.bounds)
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(MinPlateOutOfIterations, out.iterations, out.evaluations)
-		}
-		minPlateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-		now := minPlateDot(&g, &d)
-		if !(now < 0) || !minPlateFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			minPlateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
-			now = minPlateDot(&g, &d)
-		}
-		first := float32(minPlateStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := minPlateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minPlateLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case minPlateSearchOutOfBudget:
-			return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
-		case minPlateSearchDiverged:
-			return best.ending(MinPlateDiverged, out.iterations, out.evaluations)
-		case minPlateSearchExhausted, minPlateSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see riseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := MinPlateNoAcceptableStep
-			switch {
-			case found.rising:
-				end = MinPlateNoDecrease
-			case found.end == minPlateSearchTiny && canSettle:
-				verify, stalled = minPlateVerifyStall, true
-				continue
-			case found.end == minPlateSearchTiny:
-				end = MinPlateStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !minPlateFiniteVec(&xt) {
-			return best.ending(MinPlateNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+minPlateDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
-					out.iterations++
-				}
-				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			out.evaluations += minPlateDerivative(&xt, found.value, &gt, &diffs)
-		}
-		out.iterations++
-		minPlateDifference(&s, &xt, &x)
-		minPlateDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
-		t, slope = found.step, now
-
-		if !minPlateFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+	var r minPlateDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(minPlateUnlimited)
 }
 
 // minPlateOutcome is the kernel's report; the generated entry point copies it into
@@ -346,29 +259,276 @@ func (o minPlateOutcome) ending(end MinPlateStatus, iterations, evaluations int)
 	return o
 }
 
-// minPlateEnterBox: without bounds every start is inside.
-func minPlateEnterBox(x *[2]float32, b *minPlateBox) {}
-
-// minPlateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func minPlateFinite(v float32) bool {
-	return v >= -minPlateLargestFinite && v <= minPlateLargestFinite
+// minPlateDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type minPlateDescent struct {
+	lim       MinPlateLimits
+	stage     int                 // what advance does next
+	diffs     minPlateDifferences // the box and the difference intervals
+	dir       minPlateDirection   // the direction's memory
+	x, g, e   [2]float32          // the point, its gradient and the gradient's error bound
+	d, s, y   [2]float32          // the search direction, the last step and its gradient change
+	fx        float32             // f(x)
+	t, slope  float32             // the previous iteration's accepted step and slope
+	out, best minPlateOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float32             // f(x0)
+	rises     int                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                // whether g and e at x come from minPlateConfirmGradient or settle
+	stalled   bool                // whether the run can make no more progress at x
+	retried   int                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                 // what to check at x before judging it again
 }
 
-// minPlateFiniteVec reports whether every component of x is finite.
-func minPlateFiniteVec(x *[2]float32) bool {
-	for i := range x {
-		if !minPlateFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *minPlateDescent) prepare(x0 [2]float32, lim MinPlateLimits, bounds minPlateBox) {
+	r.lim, r.stage = lim, minPlateStageBegin
+	r.diffs = minPlateDifferences{bounds: bounds}
+	r.x = x0
+	minPlateEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [2]float32{}, [2]float32{}, [2]float32{}, [2]float32{}, [2]float32{}
+	r.out = minPlateOutcome{x: r.x, f: float32(math.NaN()), status: MinPlateOutOfEvaluations, gradient: float32(math.NaN())}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *minPlateDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with MinPlateRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, minPlateSettleCalls and minPlateIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *minPlateDescent) advance(budget int) minPlateOutcome {
+	used := r.out.evaluations
+	for r.stage != minPlateStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case minPlateStageBegin:
+			if left < 1+minPlateCalibrationCost+minPlateDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case minPlateStageJudge:
+			if r.verify != minPlateVerifyNothing && left < minPlateSettleCalls {
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < minPlateIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
+}
+
+// paused is the best point so far, reported as still running.
+func (r *minPlateDescent) paused() minPlateOutcome {
+	return r.best.ending(MinPlateRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *minPlateDescent) finish(end MinPlateStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = minPlateStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *minPlateDescent) begin() {
+	r.stage = minPlateStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = Plate(&r.x) // a combined objective writes ∇f(x) into g
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !minPlateFinite(r.fx) || !minPlateFiniteVec(&r.x) {
+		r.out.status = MinPlateNonFiniteStart
+		return
+	}
+	calls, ok := minPlateCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+minPlateDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += minPlateDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !minPlateFiniteVec(&r.g) {
+		r.out.status = MinPlateNonFiniteGradient
+		return
+	}
+	r.t, r.slope = minPlateStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, minPlateVerifyNothing
+	r.stage = minPlateStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves minPlateStageSearch next when the run goes on.
+func (r *minPlateDescent) judge() {
+	switch {
+	case r.verify != minPlateVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see minPlateConfirmGradient and settle).
+		calls, ok := minPlateSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == minPlateVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(MinPlateOutOfEvaluations)
+			return
+		}
+		if !minPlateFiniteVec(&r.g) {
+			r.finish(MinPlateNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = minPlateVerifyNothing, true
+	case !r.confirmed:
+		minPlateGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := minPlateStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, minPlateLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * minPlateLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (minPlateDerivativeCost == 0 || r.confirmed) {
+		r.out.status = MinPlateGradientSmall
+		r.stage = minPlateStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = minPlateVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if minPlateDerivativeCost == 0 {
+			r.finish(MinPlateStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if minPlateStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = minPlateVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(MinPlateDiverged)
+			return
+		}
+		minPlateCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(MinPlateOutOfIterations)
+		return
+	}
+	r.stage = minPlateStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves minPlateStageJudge next when the run
+// goes on.
+func (r *minPlateDescent) search() {
+	minPlateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := minPlateDot(&r.g, &r.d)
+	if !(now < 0) || !minPlateFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		minPlateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = minPlateDot(&r.g, &r.d)
+	}
+	first := float32(minPlateStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := minPlateTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [2]float32
+	found := minPlateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case minPlateSearchOutOfBudget:
+		r.finish(MinPlateOutOfEvaluations)
+		return
+	case minPlateSearchDiverged:
+		r.finish(MinPlateDiverged)
+		return
+	case minPlateSearchExhausted, minPlateSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see riseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := MinPlateNoAcceptableStep
+		switch {
+		case found.rising:
+			end = MinPlateNoDecrease
+		case found.end == minPlateSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = minPlateVerifyStall, true, minPlateStageJudge
+			return
+		case found.end == minPlateSearchTiny:
+			end = MinPlateStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !minPlateFiniteVec(&xt) {
+		r.finish(MinPlateNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+minPlateDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, float32(math.NaN())
+				r.out.iterations++
+			}
+			r.finish(MinPlateOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += minPlateDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	minPlateDifference(&r.s, &xt, &r.x)
+	minPlateDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, float32(math.NaN())
+	r.t, r.slope = found.step, now
+
+	if !minPlateFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(MinPlateNonFiniteGradient)
+		return
+	}
+	r.stage = minPlateStageJudge
 }
 
 // minPlateDifferences is what the kernel knows about evaluating the objective:
@@ -382,17 +542,6 @@ type minPlateDifferences struct {
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateRoundingFloor)
 	bounds    minPlateBox
-}
-
-// minPlateCalibrate: an analytic gradient needs no intervals.
-func minPlateCalibrate(x *[2]float32, fx float32, diffs *minPlateDifferences, budget int) (int, bool) {
-	return 0, true
-}
-
-// minPlateDerivative calls the user's gradient; it costs no objective calls.
-func minPlateDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDifferences) int {
-	PlateGradient(x, g)
-	return 0
 }
 
 // minPlateDirection is steepest descent, d = −∇f(x): the direction of
@@ -445,12 +594,57 @@ func minPlateScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
+// minPlateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func minPlateFinite(v float32) bool {
+	return v >= -minPlateLargestFinite && v <= minPlateLargestFinite
+}
+
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	minPlateStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	minPlateStageJudge         // settle when asked (minPlateSettleCalls), judge x, learn from the step: no calls otherwise
+	minPlateStageSearch        // the line search and the gradient at the accepted point: minPlateIterationCalls
+	minPlateStageOver          // the run has ended; out is its result
+)
+
+// minPlateEnterBox: without bounds every start is inside.
+func minPlateEnterBox(x *[2]float32, b *minPlateBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	minPlateVerifyNothing = iota
 	minPlateVerifyPass    // a difference gradient passed the test
 	minPlateVerifyStall   // no step makes progress
 )
+
+// minPlateFiniteVec reports whether every component of x is finite.
+func minPlateFiniteVec(x *[2]float32) bool {
+	for i := range x {
+		if !minPlateFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// minPlateCalibrate: an analytic gradient needs no intervals.
+func minPlateCalibrate(x *[2]float32, fx float32, diffs *minPlateDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
+// minPlateDerivative calls the user's gradient; it costs no objective calls.
+func minPlateDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDifferences) int {
+	PlateGradient(x, g)
+	return 0
+}
 
 // minPlateSettle prepares a verdict at x: with differences it confirms the
 // gradient (minPlateConfirmGradient), and at a stall it adds to each error bound
@@ -736,3 +930,6 @@ func minPlateDifference(out, a, b *[2]float32) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minPlateUnlimited is a tick budget that never pauses a run.
+const minPlateUnlimited = int(^uint(0) >> 1)

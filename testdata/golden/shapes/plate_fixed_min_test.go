@@ -105,6 +105,55 @@ func TestMinPlateGradientMatchesDifferences(t *testing.T) {
 	}
 }
 
+// TestMinPlateSolverTicks advances a MinPlateSolver from the spec's start with budgets of MinPlateTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where MinPlate's does (same X, F, counts and status); and that a budget of 0 makes no call.
+func TestMinPlateSolverTicks(t *testing.T) {
+	want := MinPlate(minPlateTestStart())
+	for _, budget := range []int{MinPlateTickMinimum, MinPlateTickMinimum + 1, 2 * MinPlateTickMinimum, 7 * MinPlateTickMinimum} {
+		var s MinPlateSolver
+		s.Start(minPlateTestStart())
+		spent := 0
+		for tick := 1; ; tick++ {
+			r := s.Advance(budget)
+			if r.Evaluations-spent > budget {
+				t.Fatalf("budget %d, tick %d: %d objective calls", budget, tick, r.Evaluations-spent)
+			}
+			if r.Status != MinPlateRunning {
+				if !minPlateTestSameResult(r, want) {
+					t.Fatalf("budget %d: the ticks ended with %+v, the whole run with %+v", budget, r, want)
+				}
+				break
+			}
+			if r.Evaluations == spent {
+				t.Fatalf("budget %d, tick %d: no progress", budget, tick)
+			}
+			spent = r.Evaluations
+		}
+	}
+	var s MinPlateSolver
+	s.Start(minPlateTestStart())
+	if r := s.Advance(0); r.Status != MinPlateRunning || r.Evaluations != 0 {
+		t.Errorf("budget 0: status %v after %d calls", r.Status, r.Evaluations)
+	}
+}
+
+// TestMinPlateSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.
+func TestMinPlateSolverAllocatesNothing(t *testing.T) {
+	var s MinPlateSolver
+	allocs := testing.AllocsPerRun(10, func() {
+		s.Start(minPlateTestStart())
+		for s.Advance(MinPlateTickMinimum).Status == MinPlateRunning {
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("%v allocations per run, want 0", allocs)
+	}
+}
+
+// minPlateTestSameResult reports whether two results are the same, NaN matching NaN.
+func minPlateTestSameResult(a, b MinPlateResult) bool {
+	return a.X == b.X && (a.F == b.F || a.F != a.F && b.F != b.F) && (a.Gradient == b.Gradient || a.Gradient != a.Gradient && b.Gradient != b.Gradient) && (a.GradientLimit == b.GradientLimit || a.GradientLimit != a.GradientLimit && b.GradientLimit != b.GradientLimit) && a.Iterations == b.Iterations && a.Evaluations == b.Evaluations && a.Status == b.Status
+}
+
 // BenchmarkMinPlate measures one whole run from the spec's start.
 func BenchmarkMinPlate(b *testing.B) {
 	var r MinPlateResult
