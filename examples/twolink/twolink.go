@@ -66,3 +66,52 @@ func (a *Arm) MissGrad(theta [2]float32) [2]float32 {
 	j1x, j1y := -a.Upper*float32(s1)+j2x, a.Upper*float32(c1)+j2y
 	return [2]float32{j1x*dx + j1y*dy, j2x*dx + j2y*dy}
 }
+
+// TickBudget is the objective calls the controller may spend per tick:
+// two of the solver's worst-case iterations (ReachTickMinimum each), a few
+// microseconds on the cell's processor, within a 1 ms tick.
+const TickBudget = 2 * ReachTickMinimum
+
+// Controller turns targets into joint commands, a tick at a time. It owns
+// the solver, so the BFGS matrix learned on one tick helps the next.
+type Controller struct {
+	Arm     Arm
+	Command [2]float32 // the joint angles last sent to the drives
+	solver  ReachSolver
+	last    ReachResult
+	started bool
+}
+
+// NewController starts from the arm's parked pose.
+func NewController(arm Arm, parked [2]float32) *Controller {
+	c := &Controller{Arm: arm, Command: parked}
+	c.solver.Start(parked)
+	return c
+}
+
+// Tick takes this tick's target and spends at most TickBudget objective
+// calls on it. A new target restarts the run from the last result with
+// the direction's memory kept (StartFrom: the objective changed). The
+// command changes only to a converged pose within the joint limits; a
+// run still going or one that failed keeps the previous command, so the
+// drives never receive an unchecked angle. It reports whether the command
+// is fresh for this target, and the calls spent.
+func (c *Controller) Tick(target [2]float32) (fresh bool, calls int) {
+	before := c.last.Evaluations // the run's calls so far
+	if target != c.Arm.Target {
+		c.Arm.Target = target
+		if c.started {
+			c.solver.StartFrom(c.last)
+		}
+		before = 0 // a new run counts from zero
+	}
+	c.last = c.solver.Advance(&c.Arm, TickBudget)
+	c.started = true
+	calls = c.last.Evaluations - before
+	x := c.last.X
+	if !c.last.Status.Converged() || !(x[0] >= ShoulderMin && x[0] <= ShoulderMax && x[1] >= ElbowMin && x[1] <= ElbowMax) {
+		return false, calls
+	}
+	c.Command = x
+	return true, calls
+}

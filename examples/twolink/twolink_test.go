@@ -107,3 +107,91 @@ func TestTargetsBeyondALimitEndOnIt(t *testing.T) {
 		}
 	}
 }
+
+// A target held still: the controller converges within a few ticks, never
+// spends more than TickBudget calls in one, sends no command before the
+// run converges, and ends on the law-of-cosines pose.
+func TestControllerSettlesOnAStillTarget(t *testing.T) {
+	c := NewController(*Cell, [2]float32{0.5, 1.2})
+	target := [2]float32{0.20, 0.35}
+	want := lawOfCosines(float64(Cell.Upper), float64(Cell.Fore), 0.20, 0.35)
+	for tick := 0; tick < 20; tick++ {
+		fresh, calls := c.Tick(target)
+		if calls > TickBudget {
+			t.Fatalf("tick %d spent %d calls, budget %d", tick, calls, TickBudget)
+		}
+		if !fresh && c.Command != [2]float32{0.5, 1.2} {
+			t.Fatalf("tick %d: the command moved to %v before the run converged", tick, c.Command)
+		}
+		if fresh {
+			if !near(c.Command, want) {
+				t.Errorf("converged at tick %d on %v, law of cosines %v", tick, c.Command, want)
+			}
+			return
+		}
+	}
+	t.Errorf("no converged command after 20 ticks")
+}
+
+// A target moving 1 mm per tick along an arc through the workspace: every
+// tick stays within its budget, the command keeps up (fresh on most
+// ticks, with the gripper within 1 mm of the current target when fresh),
+// and when the target stops the command is the law-of-cosines pose.
+func TestControllerTracksAMovingTarget(t *testing.T) {
+	c := NewController(*Cell, [2]float32{0.5, 1.2})
+	const radius, step = 0.38, 0.001 // metres; 1 mm per tick
+	ticks := int(1.2 * radius / step)
+	freshTicks, most := 0, 0
+	var target [2]float32
+	for tick := 0; tick <= ticks; tick++ {
+		phi := 0.3 + float64(tick)*step/radius // θ₁ from −0.42 to 0.78: inside the limits
+		target = [2]float32{float32(radius * math.Cos(phi)), float32(radius * math.Sin(phi))}
+		fresh, calls := c.Tick(target)
+		most = max(most, calls)
+		if calls > TickBudget {
+			t.Fatalf("tick %d spent %d calls, budget %d", tick, calls, TickBudget)
+		}
+		if fresh {
+			freshTicks++
+			p := c.Arm.Gripper(c.Command)
+			if miss := math.Hypot(float64(p[0]-target[0]), float64(p[1]-target[1])); miss > 1e-3 {
+				t.Errorf("tick %d: a fresh command misses the target by %.2g m", tick, miss)
+			}
+		}
+	}
+	if freshTicks < ticks*9/10 {
+		t.Errorf("fresh commands on %d of %d ticks", freshTicks, ticks+1)
+	}
+	for tick := 0; tick < 10; tick++ {
+		c.Tick(target)
+	}
+	want := lawOfCosines(float64(Cell.Upper), float64(Cell.Fore), float64(target[0]), float64(target[1]))
+	if !near(c.Command, want) {
+		t.Errorf("stopped target: command %v, law of cosines %v", c.Command, want)
+	}
+	t.Logf("%d ticks, %d fresh, at most %d calls in one (budget %d)", ticks+1, freshTicks, most, TickBudget)
+}
+
+func TestTickAllocatesNothing(t *testing.T) {
+	c := NewController(*Cell, [2]float32{0.5, 1.2})
+	phi := 0.3
+	if n := testing.AllocsPerRun(200, func() {
+		phi += 0.002
+		c.Tick([2]float32{float32(0.4 * math.Cos(phi)), float32(0.4 * math.Sin(phi))})
+	}); n != 0 {
+		t.Errorf("%v allocations per tick", n)
+	}
+}
+
+func BenchmarkTick(b *testing.B) {
+	c := NewController(*Cell, [2]float32{0.5, 1.2})
+	phi := 0.3
+	b.ReportAllocs()
+	for b.Loop() {
+		phi += 0.001
+		if phi > 2 {
+			phi = 0.3
+		}
+		c.Tick([2]float32{float32(0.4 * math.Cos(phi)), float32(0.4 * math.Sin(phi))})
+	}
+}
