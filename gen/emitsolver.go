@@ -110,8 +110,11 @@ func emitSolver(f *jen.File, p *Plan, state string) {
 
 // stageCosts names the worst case of each stage of a run.
 func stageCosts(p *Plan) string {
-	s := fmt.Sprintf("the start %d calls, an iteration %d", p.StartCalls(), p.IterationCalls())
-	if c := p.SettleCalls(); c > 0 {
+	s := fmt.Sprintf("objective calls: the start %d, an iteration %d", p.StartCalls(), p.IterationCalls())
+	switch c := p.SettleCalls(); {
+	case c > 0 && p.Shape.Combined:
+		s += fmt.Sprintf(", the curvature probes at a stall %d", c)
+	case c > 0:
 		s += fmt.Sprintf(", confirming a difference gradient %d", c)
 	}
 	return s

@@ -124,12 +124,12 @@ func Box3DCGCentralWithLimits(x0 [3]float64, limits Box3DCGCentralLimits) Box3DC
 	}
 }
 
-// Box3DCGCentralTickMinimum is the smallest call budget with which every Box3DCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 19 calls, an iteration 336, confirming a difference gradient 24).
+// Box3DCGCentralTickMinimum is the smallest call budget with which every Box3DCGCentralSolver.Advance progresses: the largest worst case of one stage of a run (objective calls: the start 19, an iteration 336, confirming a difference gradient 24).
 const Box3DCGCentralTickMinimum = 336
 
 // Box3DCGCentralSolver is a run of Box3DCGCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Box3DCGCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
 //
-// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 19 calls, an iteration 336, confirming a difference gradient 24. A budget of at least Box3DCGCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DCGCentralRunning ends exactly as Box3DCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: objective calls: the start 19, an iteration 336, confirming a difference gradient 24. A budget of at least Box3DCGCentralTickMinimum = 336 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Box3DCGCentralRunning ends exactly as Box3DCGCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //

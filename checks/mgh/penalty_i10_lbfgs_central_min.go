@@ -124,12 +124,12 @@ func PenaltyI10LBFGSCentralWithLimits(x0 [10]float64, limits PenaltyI10LBFGSCent
 	}
 }
 
-// PenaltyI10LBFGSCentralTickMinimum is the smallest call budget with which every PenaltyI10LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (the start 61 calls, an iteration 1008, confirming a difference gradient 80).
+// PenaltyI10LBFGSCentralTickMinimum is the smallest call budget with which every PenaltyI10LBFGSCentralSolver.Advance progresses: the largest worst case of one stage of a run (objective calls: the start 61, an iteration 1008, confirming a difference gradient 80).
 const PenaltyI10LBFGSCentralTickMinimum = 1008
 
 // PenaltyI10LBFGSCentralSolver is a run of PenaltyI10LBFGSCentral that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (PenaltyI10LBFGSCentralDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
 //
-// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 61 calls, an iteration 1008, confirming a difference gradient 80. A budget of at least PenaltyI10LBFGSCentralTickMinimum = 1008 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI10LBFGSCentralRunning ends exactly as PenaltyI10LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: objective calls: the start 61, an iteration 1008, confirming a difference gradient 80. A budget of at least PenaltyI10LBFGSCentralTickMinimum = 1008 progresses at every Advance; a smaller one may make no call. Advancing until the status is not PenaltyI10LBFGSCentralRunning ends exactly as PenaltyI10LBFGSCentralWithLimits does with the same limits, with the same calls, whatever the budgets.
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //

@@ -124,12 +124,12 @@ func Watson6BFGSAnalyticWithLimits(x0 [6]float64, limits Watson6BFGSAnalyticLimi
 	}
 }
 
-// Watson6BFGSAnalyticTickMinimum is the smallest call budget with which every Watson6BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (the start 1 calls, an iteration 48).
+// Watson6BFGSAnalyticTickMinimum is the smallest call budget with which every Watson6BFGSAnalyticSolver.Advance progresses: the largest worst case of one stage of a run (objective calls: the start 1, an iteration 48).
 const Watson6BFGSAnalyticTickMinimum = 48
 
 // Watson6BFGSAnalyticSolver is a run of Watson6BFGSAnalytic that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (Watson6BFGSAnalyticDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
 //
-// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 1 calls, an iteration 48. A budget of at least Watson6BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson6BFGSAnalyticRunning ends exactly as Watson6BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: objective calls: the start 1, an iteration 48. A budget of at least Watson6BFGSAnalyticTickMinimum = 48 progresses at every Advance; a smaller one may make no call. Advancing until the status is not Watson6BFGSAnalyticRunning ends exactly as Watson6BFGSAnalyticWithLimits does with the same limits, with the same calls, whatever the budgets.
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
