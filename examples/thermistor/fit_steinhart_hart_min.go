@@ -87,7 +87,7 @@ type FitSteinhartHartLimits struct {
 func FitSteinhartHartDefaultLimits() FitSteinhartHartLimits {
 	return FitSteinhartHartLimits{
 		Evaluations: 2000,
-		Gradient:    1e-08,
+		Gradient:    0.0001,
 		Iterations:  200,
 		Step:        1e-14,
 	}
@@ -104,7 +104,7 @@ type fitSteinhartHartBox struct{}
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Scale 0.001, 0.0002, 1e-07: the kernels work in zᵢ = xᵢ/sᵢ, s the typical magnitude of each unknown, and report X in the user's units; Gradient and the gradient limit apply to the scaled gradient sᵢ·∂f/∂xᵢ, the step limit to the scaled step, and difference steps are taken in z.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 200 iterations, 2000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 200 iterations, 2000 objective calls.
 //
 // Worst case: 2000 objective calls, 6 of them per gradient and 12 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 72379). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.

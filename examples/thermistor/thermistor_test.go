@@ -118,10 +118,12 @@ func TestThreePointsMatchTheClosedForm(t *testing.T) {
 }
 
 // On all eight points the fit must be the least-squares solution. Misfit
-// is f = 10¹²/n·‖r‖², f ≈ 2e3 at the solution; the gradient test stops at
-// a relative gradient of 1e-8 in the scaled unknowns, which bounds the
-// coefficients' relative error near 1e-9 for this conditioning (measured:
-// 1e-11); 1e-7 leaves a wide margin on every target.
+// is f = 10¹²/n·‖r‖², f ≈ 2e3 at the solution; the spec's gradient test
+// stops at a relative gradient of 1e-4 in the scaled unknowns (what f's
+// rounding noise lets every target reach; see thermistor.toml). Measured:
+// a relative gap of 1.3e-11 on amd64 and 1.2e-10 to 1.4e-10 with fused
+// multiply-adds (arm64, riscv64, ppc64le, s390x under emulation); 1e-7
+// leaves a wide margin.
 func TestAllPointsMatchLeastSquares(t *testing.T) {
 	want := leastSquares(Tank)
 	fit := FitSteinhartHart(Tank, nominal)
