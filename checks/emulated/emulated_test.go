@@ -51,6 +51,10 @@ func TestChecksOnEveryTarget(t *testing.T) {
 	run := `^(TestPublishedMinima|Test(` + problems + `)(BFGS|LBFGS|CG)\w*)$/^(` + problems + `)$`
 	for _, target := range targets.All {
 		t.Run(target.Name, func(t *testing.T) {
+			// Targets in parallel (up to -parallel, GOMAXPROCS by
+			// default): each is one emulated process at a time, so two
+			// cores run two targets in about the time of one.
+			t.Parallel()
 			out, err := target.Test(dir, "-count=1", "./linesearch")
 			if err != nil {
 				t.Fatalf("%v\n%s", err, out)
