@@ -18,18 +18,42 @@ import (
 
 // EmitMinimizer writes the generated minimizer for p: header, status,
 // result and limits types and entry points (shaped by the spec, built with
-// jennifer), the tunables, then the specialized kernels. The whole file
-// goes through go/format once; source that does not parse is an error
-// that quotes it with line numbers, never a file on disk.
+// jennifer, which formats them), the tunables, then the specialized
+// kernels, each printed as gofmt prints it. Source that does not parse is
+// an error that quotes it with line numbers, never a file on disk.
 func EmitMinimizer(w io.Writer, p *Plan) error {
-	return emitMinimizer(w, p, p.kernelChoice())
+	_, err := emitMinimizer(w, p, p.kernelChoice())
+	return err
 }
 
-func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
+// emitMinimizer is EmitMinimizer for a given kernel choice; it also
+// returns the package-level names the file declares, read from the parse
+// that checks it.
+func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) ([]string, error) {
 	kernels, err := specialize(choice)
 	if err != nil {
-		return err
+		return nil, err
 	}
+	glue, err := renderGlue(p, kernels)
+	if err != nil {
+		return nil, err
+	}
+	src, ok := assemble(glue, kernels.source, kernels.usesMath)
+	if !ok {
+		if src, err = formatWhole(append(glue, kernels.source...), kernels.usesMath); err != nil {
+			return nil, err
+		}
+	}
+	names, err := topLevelNames(src)
+	if err != nil {
+		return nil, fmt.Errorf("generated code does not parse (a thalweg bug): %v\n%s", err, numbered(src))
+	}
+	_, err = w.Write(src)
+	return names, err
+}
+
+// renderGlue renders, formatted, the spec-shaped part of the file.
+func renderGlue(p *Plan, kernels *specializedKernels) ([]byte, error) {
 	f := jen.NewFile(p.Shape.Package)
 	f.HeaderComment(headerLine(p.SpecName))
 	emitStatus(f, p)
@@ -41,29 +65,59 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
 	if err := f.Render(&buf); err != nil {
-		return err
+		return nil, err
 	}
-	buf.Write(kernels.source)
-	return formatInto(w, buf.Bytes(), kernels.usesMath)
+	return buf.Bytes(), nil
 }
 
-// formatInto parses the assembled source, adds the math import when the
-// kernels need it and writes it gofmt'ed.
-func formatInto(w io.Writer, src []byte, usesMath bool) error {
+// assemble joins the glue, which jennifer has formatted, and the kernels,
+// each declaration printed as go/format prints it and followed by a blank
+// line, into the file go/format would make of the two: the glue, a blank
+// line, the kernels. When the kernels use math and the glue does not
+// import it, the import goes after the package clause, where
+// astutil.AddImport puts it in a file without imports. It reports false
+// when the glue imports other packages (then formatWhole adds the import).
+// TestAssembleIsFormatted compares it with formatWhole.
+func assemble(glue, kernels []byte, usesMath bool) ([]byte, bool) {
+	imports := bytes.Contains(glue, []byte("\nimport "))
+	if usesMath && !bytes.Contains(glue, []byte("\nimport \"math\"\n")) {
+		if imports {
+			return nil, false
+		}
+		clause := bytes.Index(glue, []byte("\npackage "))
+		if clause < 0 {
+			return nil, false
+		}
+		end := clause + 1 + bytes.IndexByte(glue[clause+1:], '\n') + 1
+		out := make([]byte, 0, len(glue)+len(kernels)+16)
+		out = append(out, glue[:end]...)
+		out = append(out, "\nimport \"math\"\n"...)
+		out = append(out, glue[end:]...)
+		glue = out
+	}
+	out := make([]byte, 0, len(glue)+len(kernels))
+	out = append(out, glue...)
+	out = append(out, '\n')
+	out = append(out, bytes.TrimSuffix(kernels, []byte("\n"))...)
+	return out, true
+}
+
+// formatWhole parses the assembled source, adds the math import when the
+// kernels need it and formats it.
+func formatWhole(src []byte, usesMath bool) ([]byte, error) {
 	fset := token.NewFileSet()
 	file, err := parser.ParseFile(fset, "", src, parser.ParseComments)
 	if err != nil {
-		return fmt.Errorf("generated code does not parse (a thalweg bug): %v\n%s", err, numbered(src))
+		return nil, fmt.Errorf("generated code does not parse (a thalweg bug): %v\n%s", err, numbered(src))
 	}
 	if usesMath {
 		astutil.AddImport(fset, file, "math")
 	}
 	var out bytes.Buffer
 	if err := format.Node(&out, fset, file); err != nil {
-		return err
+		return nil, err
 	}
-	_, err = w.Write(out.Bytes())
-	return err
+	return out.Bytes(), nil
 }
 
 func numbered(src []byte) string {

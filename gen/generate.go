@@ -8,6 +8,7 @@ import (
 	"go/token"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 )
@@ -28,17 +29,20 @@ func Generate(specPaths []string) ([]Output, error) {
 	}
 	var outs []Output
 	var probs Problems
-	for _, p := range plans {
+	declared := make([][]string, len(plans))
+	for i, p := range plans {
 		var main, tests bytes.Buffer
-		if err := EmitMinimizer(&main, p); err != nil {
+		names, err := emitMinimizer(&main, p, p.kernelChoice())
+		if err != nil {
 			return nil, fmt.Errorf("%s: %v", p.describe(), err)
 		}
+		declared[i] = names
 		if err := EmitTests(&tests, p); err != nil {
 			return nil, fmt.Errorf("%s: %v", p.describe(), err)
 		}
 		outs = append(outs, Output{p.Output, main.Bytes()}, Output{p.TestFile, tests.Bytes()})
 	}
-	checkCollisions(plans, outs, &probs)
+	checkCollisions(plans, declared, &probs)
 	if err := probs.Err(); err != nil {
 		return nil, err
 	}
@@ -147,8 +151,9 @@ func packageDirProblem(dir string) string {
 }
 
 // checkCollisions reports generated names or files that clash with the
-// user's code or with another minimizer's.
-func checkCollisions(plans []*Plan, outs []Output, probs *Problems) {
+// user's code or with another minimizer's; declaredBy[i] are the
+// package-level names of plans[i]'s minimizer file.
+func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 	owner := map[string]*Plan{} // absolute output path → plan
 	names := map[string]*Plan{} // package dir + name → plan
 	clashed := map[[2]*Plan]bool{}
@@ -161,8 +166,7 @@ func checkCollisions(plans []*Plan, outs []Output, probs *Problems) {
 			}
 			owner[abs] = p
 		}
-		declared := topLevelNames(outs[2*i].Data)
-		sort.Strings(declared)
+		declared := slices.Sorted(slices.Values(declaredBy[i]))
 		if userNames[p.pkg] == nil {
 			userNames[p.pkg] = p.pkg.names(false)
 		}
@@ -187,11 +191,12 @@ func checkCollisions(plans []*Plan, outs []Output, probs *Problems) {
 	}
 }
 
-// topLevelNames lists the package-level names a Go file declares.
-func topLevelNames(src []byte) []string {
+// topLevelNames lists the package-level names a Go file declares, or
+// the error that it does not parse.
+func topLevelNames(src []byte) ([]string, error) {
 	f, err := parser.ParseFile(token.NewFileSet(), "", src, parser.SkipObjectResolution)
 	if err != nil {
-		return nil
+		return nil, err
 	}
 	var names []string
 	for _, d := range f.Decls {
@@ -206,7 +211,7 @@ func topLevelNames(src []byte) []string {
 			}
 		}
 	}
-	return names
+	return names, nil
 }
 
 // Write writes the outputs, as WriteChanged does.

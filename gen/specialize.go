@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"go/ast"
+	"go/format"
 	"go/parser"
 	"go/printer"
 	"go/token"
@@ -311,7 +312,9 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 				comments = append(comments, rw.notes...)
 				sort.SliceStable(comments, func(i, j int) bool { return comments[i].Pos() < comments[j].Pos() })
 			}
-			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
+			// Printed as go/format prints it, so the file needs no
+			// formatting as a whole (see assemble).
+			if err := format.Node(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
 			}
 			buf.WriteString("\n\n")

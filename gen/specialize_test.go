@@ -36,7 +36,11 @@ func TestSpecializedNamesAreHygienic(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for _, name := range topLevelNames(buf.Bytes()) {
+		names, err := topLevelNames(buf.Bytes())
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, name := range names {
 			if !strings.HasPrefix(name, p.M.Name) && !strings.HasPrefix(name, p.Prefix) {
 				t.Errorf("%s: top-level %s lacks the minimizer's name or prefix", p.M.Name, name)
 			}
@@ -110,4 +114,61 @@ func TestCombinedRefusesValueOnlyAndGradientCalls(t *testing.T) {
 		return
 	}
 	t.Fatal("no golden minimizer has a combined objective")
+}
+
+// The minimizer file is assembled from the glue jennifer formatted and
+// the kernels as printed, without formatting the whole: it must be the
+// file go/format makes of the two, for every shape, rule, derivative and
+// option of the golden specs, the examples and a mix of 41 minimizers,
+// traced or not.
+func TestAssembleIsFormatted(t *testing.T) {
+	_, many := benchModule(t, 41)
+	specs, err := filepath.Glob(filepath.Join("..", "testdata", "golden", "*", "*.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	examples, err := filepath.Glob(filepath.Join("..", "examples", "*", "*.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	specs = append(append(specs, examples...), many)
+	compared := 0
+	for _, spec := range specs {
+		plans, err := Plans([]string{spec})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range plans {
+			for _, trace := range []bool{false, true} {
+				choice := p.kernelChoice()
+				if trace {
+					choice.trace, choice.traceHook, choice.traceTrial = true, traceHook, traceTrial
+				}
+				kernels, err := specialize(choice)
+				if err != nil {
+					t.Fatal(err)
+				}
+				glue, err := renderGlue(p, kernels)
+				if err != nil {
+					t.Fatal(err)
+				}
+				got, ok := assemble(glue, kernels.source, kernels.usesMath)
+				if !ok {
+					t.Errorf("%s (trace %v): the glue imports more than math; assemble declined", p.M.Name, trace)
+					continue
+				}
+				want, err := formatWhole(append(glue[:len(glue):len(glue)], kernels.source...), kernels.usesMath)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !bytes.Equal(got, want) {
+					t.Errorf("%s (trace %v): assembled file differs from the formatted whole; diff:\n%s", p.M.Name, trace, diff(t, want, got))
+				}
+				compared++
+			}
+		}
+	}
+	if compared < 2*41 {
+		t.Errorf("compared %d files, want at least %d", compared, 2*41)
+	}
 }
