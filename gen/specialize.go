@@ -31,14 +31,34 @@ type kernelSource struct {
 	pkg   *types.Package
 	units map[string]*unit // by package-level name
 	order []string         // unit names in source order
+	// dispatch caches dispatchers by the names a choice provides (they
+	// depend on nothing else): provided names, sorted and joined by
+	// spaces → map[string][]string, never modified.
+	dispatch *sync.Map
 }
 
 // unit is one top-level declaration of the templates, with the methods of
 // a type, or a whole const/var group.
 type unit struct {
-	name  string
-	decls []ast.Decl
-	exprs int // expressions in decls, to size a copy's type information
+	name     string
+	decls    []ast.Decl
+	comments []declComments // of each of decls
+	exprs    int            // expressions in decls, to size a copy's type information
+}
+
+// declComments are the comments within a declaration, doc comment
+// included, with the words in them that renameComments may rename: the
+// template names written in camelCase, and the declaration's own name
+// opening a comment group. words[g][c] are those of groups[g].List[c].
+type declComments struct {
+	groups []*ast.CommentGroup
+	words  [][][]commentWord
+}
+
+// commentWord is a template name at text[start:end] of a comment.
+type commentWord struct {
+	start, end int
+	word       string
 }
 
 // kernelCache parses and type-checks the embedded templates on first use.
@@ -62,7 +82,7 @@ func loadKernels() (*kernelSource, error) {
 const embedFile = "source.go"
 
 func parseKernels(src fs.FS) (*kernelSource, error) {
-	ks := &kernelSource{fset: token.NewFileSet(), units: map[string]*unit{}}
+	ks := &kernelSource{fset: token.NewFileSet(), units: map[string]*unit{}, dispatch: new(sync.Map)}
 	names, err := fs.Glob(src, "*.go")
 	if err != nil {
 		return nil, err
@@ -126,6 +146,7 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 			}
 			u := ks.unitFor(name)
 			u.decls = append(u.decls, d)
+			u.comments = append(u.comments, ks.declComments(f, d))
 			ast.Inspect(d, func(n ast.Node) bool {
 				if _, ok := n.(ast.Expr); ok {
 					u.exprs++
@@ -137,14 +158,24 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 	return ks, nil
 }
 
-// fileOf returns the file that declares d.
-func (ks *kernelSource) fileOf(d ast.Decl) *ast.File {
-	for _, f := range ks.files {
-		if f.Pos() <= d.Pos() && d.End() <= f.End() {
-			return f
+// declComments indexes the comments within d, which f declares.
+func (ks *kernelSource) declComments(f *ast.File, d ast.Decl) declComments {
+	own := declName(d)
+	dc := declComments{groups: commentsWithin(f, d)}
+	dc.words = make([][][]commentWord, len(dc.groups))
+	for g, cg := range dc.groups {
+		dc.words[g] = make([][]commentWord, len(cg.List))
+		for c, cm := range cg.List {
+			for i, loc := range wordPattern.FindAllStringIndex(cm.Text, -1) {
+				w := cm.Text[loc[0]:loc[1]]
+				opening := c == 0 && i == 0 && w == own
+				if (opening || strings.ToLower(w) != w) && ks.pkg.Scope().Lookup(w) != nil {
+					dc.words[g][c] = append(dc.words[g][c], commentWord{loc[0], loc[1], w})
+				}
+			}
 		}
 	}
-	return nil
+	return dc
 }
 
 func (ks *kernelSource) unitFor(name string) *unit {
@@ -226,7 +257,7 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		return nil, err
 	}
 	out := &specializedKernels{uses: map[string]bool{}}
-	dispatchers := ks.dispatchers(c.provided)
+	dispatchers := ks.cachedDispatchers(c.provided)
 	var unpicked []string
 	// Decide the generated name of every template object reached.
 	newName := map[types.Object]string{}
@@ -297,17 +328,21 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	view := *ks
 	view.info = cp.info
 	rw := &rewriter{ks: &view, c: c, newName: newName}
+	names := make(map[string]string, len(newName))
+	for o, n := range newName {
+		names[o.Name()] = n
+	}
 	var buf bytes.Buffer
 	for _, u := range reached {
-		for _, d := range u.decls {
-			own := declName(d)
-			comments := cp.comments(commentsWithin(ks.fileOf(d), d)) // before renaming lengthens them
+		for i, d := range u.decls {
+			dc := u.comments[i]
+			comments := cp.comments(dc.groups)
 			rw.notes = nil
 			copyDecl := rw.rewrite(cp.decl(d))
 			if rw.err != nil {
 				return nil, rw.err
 			}
-			rw.renameComments(comments, own)
+			renameComments(comments, dc.words, names)
 			if len(rw.notes) > 0 {
 				comments = append(comments, rw.notes...)
 				sort.SliceStable(comments, func(i, j int) bool { return comments[i].Pos() < comments[j].Pos() })
@@ -647,28 +682,29 @@ func fullSlice(p ast.Expr) ast.Expr {
 
 var wordPattern = regexp.MustCompile(`[A-Za-z_][A-Za-z0-9_]*`)
 
-// renameComments rewrites template names inside the declaration's
-// comments to their generated names, so comments keep naming the right
-// thing. Plain words ("direction", "finite") are left alone unless they
-// open the declaration's doc comment as its own name; camelCase words are
-// always names.
-func (rw *rewriter) renameComments(comments []*ast.CommentGroup, own string) {
-	names := map[string]string{}
-	for o, n := range rw.newName {
-		names[o.Name()] = n
-	}
-	for _, cg := range comments {
-		for i, c := range cg.List {
-			first := i == 0
-			c.Text = wordPattern.ReplaceAllStringFunc(c.Text, func(w string) string {
-				n, ok := names[w]
-				opening := first && w == own
-				first = false
-				if ok && (opening || strings.ToLower(w) != w) {
-					return n
+// renameComments rewrites template names inside the copies of a
+// declaration's comments to their generated names (names, by template
+// name), so comments keep naming the right thing. Plain words
+// ("direction", "finite") are left alone unless they open the
+// declaration's doc comment as its own name; camelCase words are always
+// names. words indexes them in the originals (see declComments).
+func renameComments(comments []*ast.CommentGroup, words [][][]commentWord, names map[string]string) {
+	var b strings.Builder
+	for g, cg := range comments {
+		for c, cm := range cg.List {
+			b.Reset()
+			last := 0
+			for _, w := range words[g][c] {
+				if n, ok := names[w.word]; ok {
+					b.WriteString(cm.Text[last:w.start])
+					b.WriteString(n)
+					last = w.end
 				}
-				return w
-			})
+			}
+			if last > 0 {
+				b.WriteString(cm.Text[last:])
+				cm.Text = b.String()
+			}
 		}
 	}
 }
