@@ -8,9 +8,10 @@ import (
 
 // kernelCopier deep-copies declarations of the shared kernels for one
 // specialization, whose passes rewrite the tree and its comments in place.
-// The type checker's facts about the originals are carried over to the
-// copies in info, so the passes read them exactly as they would on a tree
-// of their own.
+// The type checker's facts that the passes read about the originals are
+// carried over to the copies in info: the objects of identifiers and the
+// types of calls' sole arguments, so the passes read them exactly as they
+// would on a tree of their own.
 //
 // Every node and every slice of nodes is new; positions, names and
 // literal values are kept. The parser's deprecated *ast.Object and
@@ -32,7 +33,7 @@ func newKernelCopier(src *types.Info, exprs int) *kernelCopier {
 	return &kernelCopier{
 		src: src,
 		info: &types.Info{
-			Types: make(map[ast.Expr]types.TypeAndValue, exprs),
+			Types: make(map[ast.Expr]types.TypeAndValue, exprs/16),
 			Defs:  make(map[*ast.Ident]types.Object, exprs/8),
 			Uses:  make(map[*ast.Ident]types.Object, exprs/2),
 		},
@@ -132,6 +133,13 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 		cp := *n
 		cp.Fun = c.expr(n.Fun)
 		cp.Args = c.exprs(n.Args)
+		if len(n.Args) == 1 {
+			// The sole argument's type: the passes read it to drop
+			// conversions that change nothing.
+			if tv, ok := c.src.Types[n.Args[0]]; ok {
+				c.info.Types[cp.Args[0]] = tv
+			}
+		}
 		out = &cp
 	case *ast.StarExpr:
 		cp := *n
@@ -351,15 +359,10 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 	return out
 }
 
-// carry records for the copy what the type checker recorded for orig.
+// carry records for the copy of an identifier the object the type
+// checker recorded for orig. (Of the expressions' types, the passes read
+// only those of a call's sole argument, which node carries.)
 func (c *kernelCopier) carry(orig, cp ast.Node) {
-	e, ok := orig.(ast.Expr)
-	if !ok {
-		return
-	}
-	if tv, ok := c.src.Types[e]; ok {
-		c.info.Types[cp.(ast.Expr)] = tv
-	}
 	if id, ok := orig.(*ast.Ident); ok {
 		if o, ok := c.src.Uses[id]; ok {
 			c.info.Uses[cp.(*ast.Ident)] = o
