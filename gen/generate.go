@@ -3,8 +3,6 @@ package gen
 import (
 	"bytes"
 	"fmt"
-	"go/ast"
-	"go/parser"
 	"go/token"
 	"os"
 	"path/filepath"
@@ -189,29 +187,6 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 			}
 		}
 	}
-}
-
-// topLevelNames lists the package-level names a Go file declares, or
-// the error that it does not parse.
-func topLevelNames(src []byte) ([]string, error) {
-	f, err := parser.ParseFile(token.NewFileSet(), "", src, parser.SkipObjectResolution)
-	if err != nil {
-		return nil, err
-	}
-	var names []string
-	for _, d := range f.Decls {
-		switch d := d.(type) {
-		case *ast.FuncDecl:
-			if d.Recv == nil {
-				names = append(names, d.Name.Name)
-			}
-		case *ast.GenDecl:
-			for _, s := range d.Specs {
-				names = append(names, specNames(s)...)
-			}
-		}
-	}
-	return names, nil
 }
 
 // Write writes the outputs, as WriteChanged does.

@@ -6,6 +6,7 @@ import (
 	"go/parser"
 	"go/token"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -164,6 +165,13 @@ func TestAssembleIsFormatted(t *testing.T) {
 				if !bytes.Equal(got, want) {
 					t.Errorf("%s (trace %v): assembled file differs from the formatted whole; diff:\n%s", p.M.Name, trace, diff(t, want, got))
 				}
+				parsed, err := topLevelNames(got)
+				if err != nil {
+					t.Fatalf("%s (trace %v): %v", p.M.Name, trace, err)
+				}
+				if read := declaredNames(got); !slices.Equal(read, parsed) {
+					t.Errorf("%s (trace %v): names read from the lines %v, parsed %v", p.M.Name, trace, read, parsed)
+				}
 				compared++
 			}
 		}
@@ -171,4 +179,27 @@ func TestAssembleIsFormatted(t *testing.T) {
 	if compared < 2*41 {
 		t.Errorf("compared %d files, want at least %d", compared, 2*41)
 	}
+}
+
+// topLevelNames lists the package-level names a Go file declares, or
+// the error that it does not parse: what declaredNames must find.
+func topLevelNames(src []byte) ([]string, error) {
+	f, err := parser.ParseFile(token.NewFileSet(), "", src, parser.SkipObjectResolution)
+	if err != nil {
+		return nil, err
+	}
+	var names []string
+	for _, d := range f.Decls {
+		switch d := d.(type) {
+		case *ast.FuncDecl:
+			if d.Recv == nil {
+				names = append(names, d.Name.Name)
+			}
+		case *ast.GenDecl:
+			for _, s := range d.Specs {
+				names = append(names, specNames(s)...)
+			}
+		}
+	}
+	return names, nil
 }
