@@ -44,6 +44,9 @@ type unit struct {
 	decls    []ast.Decl
 	comments []declComments // of each of decls
 	exprs    int            // expressions in decls, to size a copy's type information
+	// refs are the package-level objects of the templates that the
+	// identifiers in decls use, in source order, repeats included.
+	refs []types.Object
 }
 
 // declComments are the comments within a declaration, doc comment
@@ -150,6 +153,11 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 			ast.Inspect(d, func(n ast.Node) bool {
 				if _, ok := n.(ast.Expr); ok {
 					u.exprs++
+				}
+				if id, ok := n.(*ast.Ident); ok {
+					if obj := ks.info.Uses[id]; obj != nil && obj.Pkg() == ks.pkg && obj.Parent() == ks.pkg.Scope() {
+						u.refs = append(u.refs, obj)
+					}
 				}
 				return true
 			})
@@ -299,13 +307,8 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		}
 		seen[u] = true
 		reached = append(reached, u)
-		for _, d := range u.decls {
-			ast.Inspect(d, func(n ast.Node) bool {
-				if id, ok := n.(*ast.Ident); ok {
-					visitObj(ks.info.Uses[id])
-				}
-				return true
-			})
+		for _, obj := range u.refs {
+			visitObj(obj)
 		}
 	}
 	root := ks.pkg.Scope().Lookup("minimize")
