@@ -6,9 +6,12 @@ import (
 	"go/token"
 	"os"
 	"path/filepath"
+	"runtime"
 	"slices"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 )
 
 // Output is one file thalweg writes.
@@ -25,20 +28,37 @@ func Generate(specPaths []string) ([]Output, error) {
 	if err != nil {
 		return nil, err
 	}
+	// The minimizers are emitted in parallel (the kernels they share are
+	// only read); the outputs and the first error keep the plans' order.
+	type emitted struct {
+		main, tests bytes.Buffer
+		names       []string
+		err         error
+	}
+	results := make([]emitted, len(plans))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(plans)) {
+		wg.Go(func() {
+			for i := int(next.Add(1) - 1); i < len(plans); i = int(next.Add(1) - 1) {
+				p, r := plans[i], &results[i]
+				if r.names, r.err = emitMinimizer(&r.main, p, p.kernelChoice()); r.err == nil {
+					r.err = EmitTests(&r.tests, p)
+				}
+			}
+		})
+	}
+	wg.Wait()
 	var outs []Output
 	var probs Problems
 	declared := make([][]string, len(plans))
 	for i, p := range plans {
-		var main, tests bytes.Buffer
-		names, err := emitMinimizer(&main, p, p.kernelChoice())
-		if err != nil {
-			return nil, fmt.Errorf("%s: %v", p.describe(), err)
+		r := &results[i]
+		if r.err != nil {
+			return nil, fmt.Errorf("%s: %v", p.describe(), r.err)
 		}
-		declared[i] = names
-		if err := EmitTests(&tests, p); err != nil {
-			return nil, fmt.Errorf("%s: %v", p.describe(), err)
-		}
-		outs = append(outs, Output{p.Output, main.Bytes()}, Output{p.TestFile, tests.Bytes()})
+		declared[i] = r.names
+		outs = append(outs, Output{p.Output, r.main.Bytes()}, Output{p.TestFile, r.tests.Bytes()})
 	}
 	checkCollisions(plans, declared, &probs)
 	if err := probs.Err(); err != nil {
