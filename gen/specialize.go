@@ -350,6 +350,17 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 				comments = append(comments, rw.notes...)
 				sort.SliceStable(comments, func(i, j int) bool { return comments[i].Pos() < comments[j].Pos() })
 			}
+			// The doc comment is written as it stands: the templates are
+			// gofmt'ed, so it is already in the form go/format would give
+			// it, and renaming words changes none of its structure.
+			if doc := docOf(copyDecl); doc != nil && len(comments) > 0 && comments[0] == doc {
+				for _, cm := range doc.List {
+					buf.WriteString(cm.Text)
+					buf.WriteByte('\n')
+				}
+				comments = comments[1:]
+				setDoc(copyDecl, nil)
+			}
 			// Printed as go/format prints it, so the file needs no
 			// formatting as a whole (see assemble).
 			if err := format.Node(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
@@ -361,6 +372,26 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	out.source = buf.Bytes()
 	out.usesMath = rw.usesMath
 	return out, nil
+}
+
+// docOf returns the doc comment of a declaration.
+func docOf(d ast.Decl) *ast.CommentGroup {
+	switch d := d.(type) {
+	case *ast.FuncDecl:
+		return d.Doc
+	case *ast.GenDecl:
+		return d.Doc
+	}
+	return nil
+}
+
+func setDoc(d ast.Decl, doc *ast.CommentGroup) {
+	switch d := d.(type) {
+	case *ast.FuncDecl:
+		d.Doc = doc
+	case *ast.GenDecl:
+		d.Doc = doc
+	}
 }
 
 // commentsWithin returns the file's comments that lie inside d, doc

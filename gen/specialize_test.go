@@ -3,7 +3,9 @@ package gen
 import (
 	"bytes"
 	"go/ast"
+	"go/format"
 	"go/parser"
+	"go/printer"
 	"go/token"
 	"path/filepath"
 	"slices"
@@ -202,4 +204,39 @@ func topLevelNames(src []byte) ([]string, error) {
 		}
 	}
 	return names, nil
+}
+
+// specialize writes the kernels' doc comments as they stand, which is
+// what go/format writes only when they are already in its form: printed
+// with go/format, every template declaration begins with its doc comment
+// unchanged.
+func TestKernelDocCommentsAreFormatted(t *testing.T) {
+	ks, err := loadKernels()
+	if err != nil {
+		t.Fatal(err)
+	}
+	docs := 0
+	for _, f := range ks.files {
+		for _, d := range f.Decls {
+			doc := docOf(d)
+			if doc == nil {
+				continue
+			}
+			docs++
+			var want strings.Builder
+			for _, cm := range doc.List {
+				want.WriteString(cm.Text + "\n")
+			}
+			var got bytes.Buffer
+			if err := format.Node(&got, ks.fset, &printer.CommentedNode{Node: d, Comments: commentsWithin(f, d)}); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.HasPrefix(got.String(), want.String()) {
+				t.Errorf("%s: go/format rewrites the doc comment of %s:\n%s\nwant it as it stands:\n%s", ks.fset.Position(d.Pos()), declName(d), got.String()[:min(got.Len(), want.Len()+80)], want.String())
+			}
+		}
+	}
+	if docs < 20 {
+		t.Errorf("%d doc comments in the templates; want at least 20", docs)
+	}
 }
