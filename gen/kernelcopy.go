@@ -7,7 +7,8 @@ import (
 )
 
 // kernelCopier deep-copies declarations of the shared kernels for one
-// specialization, whose passes rewrite the tree and its comments in place.
+// specialization, whose passes rewrite each node as it is copied (post)
+// and the copied comments in place.
 // The type checker's facts that the passes read about the originals are
 // carried over to the copies in info: the objects of identifiers and the
 // types of calls' sole arguments, so the passes read them exactly as they
@@ -25,6 +26,10 @@ type kernelCopier struct {
 	// or Comment and the comment list given to the printer stay the same
 	// object, as in a parsed file.
 	groups map[*ast.CommentGroup]*ast.CommentGroup
+	// post, when set, is applied to every copied node except a
+	// selector's Sel, after its children: it returns the node, its
+	// replacement, or nil to delete a statement from its list.
+	post func(ast.Node) ast.Node
 }
 
 // newKernelCopier returns a copier whose info has room for about exprs
@@ -105,7 +110,10 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 	case *ast.SelectorExpr:
 		cp := *n
 		cp.X = c.expr(n.X)
+		post := c.post
+		c.post = nil // a field or method name, never a template name
 		cp.Sel = c.ident(n.Sel)
+		c.post = post
 		out = &cp
 	case *ast.IndexExpr:
 		cp := *n
@@ -356,6 +364,9 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 		panic(fmt.Sprintf("kernelCopier: cannot copy %T", n))
 	}
 	c.carry(n, out)
+	if c.post != nil {
+		return c.post(out)
+	}
 	return out
 }
 
@@ -384,7 +395,8 @@ func (c *kernelCopier) stmt(s ast.Stmt) ast.Stmt {
 	if s == nil {
 		return nil
 	}
-	return c.node(s).(ast.Stmt)
+	cp, _ := c.node(s).(ast.Stmt) // nil when post deletes it
+	return cp
 }
 
 func (c *kernelCopier) ident(id *ast.Ident) *ast.Ident {
@@ -444,9 +456,11 @@ func (c *kernelCopier) stmts(list []ast.Stmt) []ast.Stmt {
 	if list == nil {
 		return nil
 	}
-	out := make([]ast.Stmt, len(list))
-	for i, s := range list {
-		out[i] = c.stmt(s)
+	out := make([]ast.Stmt, 0, len(list))
+	for _, s := range list {
+		if cp := c.stmt(s); cp != nil {
+			out = append(out, cp)
+		}
 	}
 	return out
 }

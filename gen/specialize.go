@@ -16,8 +16,6 @@ import (
 	"strings"
 	"sync"
 
-	"golang.org/x/tools/go/ast/astutil"
-
 	"github.com/thalweg-go/thalweg/templates"
 )
 
@@ -341,7 +339,7 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 			dc := u.comments[i]
 			comments := cp.comments(dc.groups)
 			rw.notes = nil
-			copyDecl := rw.rewrite(cp.decl(d))
+			copyDecl := rw.rewrite(cp, d)
 			if rw.err != nil {
 				return nil, rw.err
 			}
@@ -437,8 +435,8 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 	return rw.ks.info.Defs[id]
 }
 
-// rewrite rewrites d in place, so d must be a copy of the shared kernels
-// (see kernelCopier), and returns it. The passes, in order:
+// rewrite copies d with cp (see kernelCopier) and rewrites the copy as it
+// is made, and returns it. The passes, in order:
 //
 //   - rewrite recv.objective(p), recv.gradient(p, g) and
 //     recv.evaluate(p, g) to calls of the user's functions in the form
@@ -454,86 +452,90 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 //   - delete the calls of the observe hook, or, for tracing, point them at
 //     the recorder and wrap the line search's objective calls (its trials)
 //     in the trial recorder.
-func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
-	// The passes run after a node's children (post-order), so a node's
-	// type information is read while the node itself is still the one the
-	// type checker saw; replaced children are new nodes without it.
-	s := rw.c.shape
+func (rw *rewriter) rewrite(cp *kernelCopier, d ast.Decl) ast.Decl {
+	// The passes run as the copier leaves each node, after its children
+	// (post-order), so a node's type information is read while the node
+	// itself is still a copy of the one the type checker saw; replaced
+	// children are new nodes without it.
 	rw.trials = rw.c.trace && declName(d) == rw.c.pick["lineSearch"]
-	result := astutil.Apply(d, nil, func(cur *astutil.Cursor) bool {
-		switch n := cur.Node().(type) {
-		case *ast.ExprStmt:
-			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
-				cur.Replace(rw.gradientCall(call))
-			}
-			if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
-				if rw.c.trace {
-					call.Fun = &ast.Ident{Name: rw.c.traceHook, NamePos: call.Fun.Pos()}
-				} else {
-					cur.Delete() // rewrite observe(…) to nothing
-				}
-			}
-		case *ast.CallExpr:
-			if rw.isRecvCall(n, "objective") || rw.isRecvCall(n, "evaluate") {
-				call := rw.objectiveCall(n)
-				if rw.trials {
-					// traceTrial(xt, f(xt)): the trial point, then its value.
-					call = &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{n.Args[0], call}, Lparen: n.Lparen, Rparen: n.Rparen}
-				}
-				cur.Replace(call)
-				return true
-			}
-			if s.Elem == "float64" && len(n.Args) == 1 {
-				// elem has already been rewritten to float64 here.
-				if id, ok := n.Fun.(*ast.Ident); ok && id.Name == "float64" {
-					if tv, ok := rw.ks.info.Types[n.Args[0]]; ok && tv.Value == nil && !isUntyped(tv.Type) && types.Identical(tv.Type, types.Typ[types.Float64]) {
-						cur.Replace(n.Args[0])
-						return true
-					}
-				}
-			}
-			if s.Receiver == "" {
-				n.Args = rw.withoutRecv(n.Args)
-			}
-		case *ast.FieldList:
-			if s.Receiver == "" {
-				n.List = rw.withoutRecvFields(n.List)
-			}
-		case *ast.SelectorExpr:
-			if id, ok := n.X.(*ast.Ident); ok && id.Name == "math" {
-				rw.usesMath = true
-			}
-		case *ast.Ident:
-			if cur.Name() == "Sel" {
-				return true // a field or method name, never a template name
-			}
-			rw.replaceIdent(cur, n)
-		}
-		return true
-	})
-	return result.(ast.Decl)
+	cp.post = rw.post
+	defer func() { cp.post = nil }()
+	return cp.decl(d)
 }
 
-func (rw *rewriter) replaceIdent(cur *astutil.Cursor, id *ast.Ident) {
+// post rewrites the copy n, whose children are rewritten, and returns it,
+// its replacement, or nil to delete the statement.
+func (rw *rewriter) post(n ast.Node) ast.Node {
+	s := rw.c.shape
+	switch n := n.(type) {
+	case *ast.ExprStmt:
+		if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
+			return rw.gradientCall(call)
+		}
+		if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
+			if !rw.c.trace {
+				return nil // rewrite observe(…) to nothing
+			}
+			call.Fun = &ast.Ident{Name: rw.c.traceHook, NamePos: call.Fun.Pos()}
+		}
+	case *ast.CallExpr:
+		if rw.isRecvCall(n, "objective") || rw.isRecvCall(n, "evaluate") {
+			call := rw.objectiveCall(n)
+			if rw.trials {
+				// traceTrial(xt, f(xt)): the trial point, then its value.
+				call = &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{n.Args[0], call}, Lparen: n.Lparen, Rparen: n.Rparen}
+			}
+			return call
+		}
+		if s.Elem == "float64" && len(n.Args) == 1 {
+			// elem has already been rewritten to float64 here.
+			if id, ok := n.Fun.(*ast.Ident); ok && id.Name == "float64" {
+				if tv, ok := rw.ks.info.Types[n.Args[0]]; ok && tv.Value == nil && !isUntyped(tv.Type) && types.Identical(tv.Type, types.Typ[types.Float64]) {
+					return n.Args[0]
+				}
+			}
+		}
+		if s.Receiver == "" {
+			n.Args = rw.withoutRecv(n.Args)
+		}
+	case *ast.FieldList:
+		if s.Receiver == "" {
+			n.List = rw.withoutRecvFields(n.List)
+		}
+	case *ast.SelectorExpr:
+		if id, ok := n.X.(*ast.Ident); ok && id.Name == "math" {
+			rw.usesMath = true
+		}
+	case *ast.Ident:
+		// (Never a selector's Sel, a field or method name: the copier
+		// leaves those alone.)
+		return rw.replaceIdent(n)
+	}
+	return n
+}
+
+// replaceIdent returns what a template name becomes: the shape's types
+// and length for the stand-ins, else id renamed in place.
+func (rw *rewriter) replaceIdent(id *ast.Ident) ast.Node {
 	s := rw.c.shape
 	o := rw.obj(id)
 	if o == nil || o.Parent() != rw.ks.pkg.Scope() {
-		return
+		return id
 	}
 	switch o.Name() {
 	case "elem":
-		cur.Replace(&ast.Ident{Name: s.Elem, NamePos: id.Pos()})
+		return &ast.Ident{Name: s.Elem, NamePos: id.Pos()}
 	case "vec":
-		cur.Replace(&ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Dim, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}})
+		return &ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Dim, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}}
 	case "dim":
-		cur.Replace(intLit(s.Dim, id.Pos()))
+		return intLit(s.Dim, id.Pos())
 	case "receiver":
-		cur.Replace(&ast.Ident{Name: s.Receiver, NamePos: id.Pos()})
-	default:
-		if n, ok := rw.newName[o]; ok {
-			id.Name = n
-		}
+		return &ast.Ident{Name: s.Receiver, NamePos: id.Pos()}
 	}
+	if n, ok := rw.newName[o]; ok {
+		id.Name = n
+	}
+	return id
 }
 
 func intLit(n int, pos token.Pos) *ast.BasicLit {
