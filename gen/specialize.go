@@ -318,9 +318,9 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
 	}
 
-	// The passes rewrite declarations and comments in place: they get
-	// copies, and a view of the kernels whose type information is the
-	// copies'.
+	// The passes rewrite copies of the declarations, as they are made, and
+	// of their comments, and see a view of the kernels whose type
+	// information is the copies'.
 	exprs := 0
 	for _, u := range reached {
 		exprs += u.exprs
