@@ -33,6 +33,10 @@ type kernelSource struct {
 	// depend on nothing else): provided names, sorted and joined by
 	// spaces → map[string][]string, never modified.
 	dispatch *sync.Map
+	// printSets holds copies of fset for printing: go/token locks a
+	// file's line table at every position the printer looks up, which
+	// goroutines printing at once would contend for.
+	printSets *sync.Pool
 }
 
 // unit is one top-level declaration of the templates, with the methods of
@@ -84,6 +88,7 @@ const embedFile = "source.go"
 
 func parseKernels(src fs.FS) (*kernelSource, error) {
 	ks := &kernelSource{fset: token.NewFileSet(), units: map[string]*unit{}, dispatch: new(sync.Map)}
+	ks.printSets = &sync.Pool{New: func() any { return cloneFileSet(ks.fset) }}
 	names, err := fs.Glob(src, "*.go")
 	if err != nil {
 		return nil, err
@@ -333,6 +338,8 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	for o, n := range newName {
 		names[o.Name()] = n
 	}
+	fset := ks.printSets.Get().(*token.FileSet)
+	defer ks.printSets.Put(fset)
 	var buf bytes.Buffer
 	for _, u := range reached {
 		for i, d := range u.decls {
@@ -361,7 +368,7 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 			}
 			// Printed as go/format prints it, so the file needs no
 			// formatting as a whole (see assemble).
-			if err := format.Node(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
+			if err := format.Node(&buf, fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
 			}
 			buf.WriteString("\n\n")
@@ -370,6 +377,17 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	out.source = buf.Bytes()
 	out.usesMath = rw.usesMath
 	return out, nil
+}
+
+// cloneFileSet returns a file set with the files of src, at the same
+// bases and with the same lines.
+func cloneFileSet(src *token.FileSet) *token.FileSet {
+	dst := token.NewFileSet()
+	src.Iterate(func(f *token.File) bool {
+		dst.AddFile(f.Name(), f.Base(), f.Size()).SetLines(f.Lines())
+		return true
+	})
+	return dst
 }
 
 // docOf returns the doc comment of a declaration.
