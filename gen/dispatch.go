@@ -3,7 +3,10 @@ package gen
 import (
 	"go/ast"
 	"go/types"
+	"maps"
+	"slices"
 	"sort"
+	"strings"
 )
 
 // dispatchers finds the templates' dispatchers and their alternatives. A
@@ -63,4 +66,15 @@ func (ks *kernelSource) dispatchers(provided map[string]string) map[string][]str
 		out[name] = list
 	}
 	return out
+}
+
+// cachedDispatchers is dispatchers, computed once for each set of
+// provided names.
+func (ks *kernelSource) cachedDispatchers(provided map[string]string) map[string][]string {
+	key := strings.Join(slices.Sorted(maps.Keys(provided)), " ")
+	if d, ok := ks.dispatch.Load(key); ok {
+		return d.(map[string][]string)
+	}
+	d, _ := ks.dispatch.LoadOrStore(key, ks.dispatchers(provided))
+	return d.(map[string][]string)
 }

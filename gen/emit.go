@@ -18,18 +18,116 @@ import (
 
 // EmitMinimizer writes the generated minimizer for p: header, status,
 // result and limits types and entry points (shaped by the spec, built with
-// jennifer), the tunables, then the specialized kernels. The whole file
-// goes through go/format once; source that does not parse is an error
-// that quotes it with line numbers, never a file on disk.
+// jennifer, which formats them and fails on source that does not parse),
+// the tunables, then the specialized kernels, each printed from its
+// rewritten syntax tree as go/format prints it.
 func EmitMinimizer(w io.Writer, p *Plan) error {
-	return emitMinimizer(w, p, p.kernelChoice())
+	_, err := emitMinimizer(w, p, p.kernelChoice())
+	return err
 }
 
-func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
+// emitMinimizer is EmitMinimizer for a given kernel choice; it also
+// returns the package-level names the file declares.
+func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) ([]string, error) {
 	kernels, err := specialize(choice)
 	if err != nil {
-		return err
+		return nil, err
 	}
+	glue, err := renderGlue(p, kernels)
+	if err != nil {
+		return nil, err
+	}
+	src, ok := assemble(glue, kernels.source, kernels.usesMath)
+	if !ok {
+		if src, err = formatWhole(append(glue, kernels.source...), kernels.usesMath); err != nil {
+			return nil, err
+		}
+	}
+	_, err = w.Write(src)
+	return declaredNames(src), err
+}
+
+// declaredNames lists the package-level names a gofmt'ed Go file
+// declares, as topLevelNames does, read from its lines without parsing
+// it: "func F", "type T", "const C", "var V" (or a list of names) at the
+// start of a line, and the names opening a line indented once in a
+// "const (", "var (" or "type (" group. A raw string spanning lines could
+// fool it; generated minimizers have none (TestAssembleIsFormatted
+// compares it with topLevelNames).
+func declaredNames(src []byte) []string {
+	var names []string
+	group := false
+	for len(src) > 0 {
+		line := src
+		if i := bytes.IndexByte(src, '\n'); i >= 0 {
+			line, src = src[:i], src[i+1:]
+		} else {
+			src = nil
+		}
+		if group {
+			if len(line) == 1 && line[0] == ')' {
+				group = false
+			} else if len(line) > 1 && line[0] == '\t' && isIdentStart(line[1]) {
+				names = identList(names, line[1:])
+			}
+			continue
+		}
+		var rest []byte
+		switch {
+		case bytes.HasPrefix(line, []byte("func ")):
+			rest = line[len("func "):]
+		case bytes.HasPrefix(line, []byte("type ")):
+			rest = line[len("type "):]
+		case bytes.HasPrefix(line, []byte("const ")):
+			rest = line[len("const "):]
+		case bytes.HasPrefix(line, []byte("var ")):
+			rest = line[len("var "):]
+		default:
+			continue
+		}
+		switch {
+		case len(rest) > 0 && rest[0] == '(' && line[0] != 'f':
+			group = true
+		case len(rest) > 0 && isIdentStart(rest[0]):
+			if line[0] == 'f' {
+				names = append(names, string(rest[:identLen(rest)]))
+			} else {
+				names = identList(names, rest)
+			}
+		}
+	}
+	return names
+}
+
+// identList appends the names of a list "a, b, c …" that opens line.
+func identList(names []string, line []byte) []string {
+	for {
+		n := identLen(line)
+		names = append(names, string(line[:n]))
+		line = line[n:]
+		if !bytes.HasPrefix(line, []byte(", ")) || len(line) < 3 || !isIdentStart(line[2]) {
+			return names
+		}
+		line = line[2:]
+	}
+}
+
+func identLen(b []byte) int {
+	n := 0
+	for n < len(b) && (isIdentStart(b[n]) || '0' <= b[n] && b[n] <= '9') {
+		n++
+	}
+	return n
+}
+
+// isIdentStart reports whether c can open an identifier; the generated
+// code's package-level names are ASCII.
+func isIdentStart(c byte) bool {
+	return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' || c == '_'
+}
+
+// renderGlue renders, formatted, the spec-shaped part of the file.
+func renderGlue(p *Plan, kernels *specializedKernels) ([]byte, error) {
 	f := jen.NewFile(p.Shape.Package)
 	f.HeaderComment(headerLine(p.SpecName))
 	emitStatus(f, p)
@@ -41,29 +139,59 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
 	if err := f.Render(&buf); err != nil {
-		return err
+		return nil, err
 	}
-	buf.Write(kernels.source)
-	return formatInto(w, buf.Bytes(), kernels.usesMath)
+	return buf.Bytes(), nil
 }
 
-// formatInto parses the assembled source, adds the math import when the
-// kernels need it and writes it gofmt'ed.
-func formatInto(w io.Writer, src []byte, usesMath bool) error {
+// assemble joins the glue, which jennifer has formatted, and the kernels,
+// each declaration printed as go/format prints it and followed by a blank
+// line, into the file go/format would make of the two: the glue, a blank
+// line, the kernels. When the kernels use math and the glue does not
+// import it, the import goes after the package clause, where
+// astutil.AddImport puts it in a file without imports. It reports false
+// when the glue imports other packages (then formatWhole adds the import).
+// TestAssembleIsFormatted compares it with formatWhole.
+func assemble(glue, kernels []byte, usesMath bool) ([]byte, bool) {
+	imports := bytes.Contains(glue, []byte("\nimport "))
+	if usesMath && !bytes.Contains(glue, []byte("\nimport \"math\"\n")) {
+		if imports {
+			return nil, false
+		}
+		clause := bytes.Index(glue, []byte("\npackage "))
+		if clause < 0 {
+			return nil, false
+		}
+		end := clause + 1 + bytes.IndexByte(glue[clause+1:], '\n') + 1
+		out := make([]byte, 0, len(glue)+len(kernels)+16)
+		out = append(out, glue[:end]...)
+		out = append(out, "\nimport \"math\"\n"...)
+		out = append(out, glue[end:]...)
+		glue = out
+	}
+	out := make([]byte, 0, len(glue)+len(kernels))
+	out = append(out, glue...)
+	out = append(out, '\n')
+	out = append(out, bytes.TrimSuffix(kernels, []byte("\n"))...)
+	return out, true
+}
+
+// formatWhole parses the assembled source, adds the math import when the
+// kernels need it and formats it.
+func formatWhole(src []byte, usesMath bool) ([]byte, error) {
 	fset := token.NewFileSet()
 	file, err := parser.ParseFile(fset, "", src, parser.ParseComments)
 	if err != nil {
-		return fmt.Errorf("generated code does not parse (a thalweg bug): %v\n%s", err, numbered(src))
+		return nil, fmt.Errorf("generated code does not parse (a thalweg bug): %v\n%s", err, numbered(src))
 	}
 	if usesMath {
 		astutil.AddImport(fset, file, "math")
 	}
 	var out bytes.Buffer
 	if err := format.Node(&out, fset, file); err != nil {
-		return err
+		return nil, err
 	}
-	_, err = w.Write(out.Bytes())
-	return err
+	return out.Bytes(), nil
 }
 
 func numbered(src []byte) string {

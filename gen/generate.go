@@ -3,13 +3,15 @@ package gen
 import (
 	"bytes"
 	"fmt"
-	"go/ast"
-	"go/parser"
 	"go/token"
 	"os"
 	"path/filepath"
+	"runtime"
+	"slices"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 )
 
 // Output is one file thalweg writes.
@@ -26,19 +28,39 @@ func Generate(specPaths []string) ([]Output, error) {
 	if err != nil {
 		return nil, err
 	}
+	// The minimizers are emitted in parallel (the kernels they share are
+	// only read); the outputs and the first error keep the plans' order.
+	type emitted struct {
+		main, tests bytes.Buffer
+		names       []string
+		err         error
+	}
+	results := make([]emitted, len(plans))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(plans)) {
+		wg.Go(func() {
+			for i := int(next.Add(1) - 1); i < len(plans); i = int(next.Add(1) - 1) {
+				p, r := plans[i], &results[i]
+				if r.names, r.err = emitMinimizer(&r.main, p, p.kernelChoice()); r.err == nil {
+					r.err = EmitTests(&r.tests, p)
+				}
+			}
+		})
+	}
+	wg.Wait()
 	var outs []Output
 	var probs Problems
-	for _, p := range plans {
-		var main, tests bytes.Buffer
-		if err := EmitMinimizer(&main, p); err != nil {
-			return nil, fmt.Errorf("%s: %v", p.describe(), err)
+	declared := make([][]string, len(plans))
+	for i, p := range plans {
+		r := &results[i]
+		if r.err != nil {
+			return nil, fmt.Errorf("%s: %v", p.describe(), r.err)
 		}
-		if err := EmitTests(&tests, p); err != nil {
-			return nil, fmt.Errorf("%s: %v", p.describe(), err)
-		}
-		outs = append(outs, Output{p.Output, main.Bytes()}, Output{p.TestFile, tests.Bytes()})
+		declared[i] = r.names
+		outs = append(outs, Output{p.Output, r.main.Bytes()}, Output{p.TestFile, r.tests.Bytes()})
 	}
-	checkCollisions(plans, outs, &probs)
+	checkCollisions(plans, declared, &probs)
 	if err := probs.Err(); err != nil {
 		return nil, err
 	}
@@ -147,8 +169,9 @@ func packageDirProblem(dir string) string {
 }
 
 // checkCollisions reports generated names or files that clash with the
-// user's code or with another minimizer's.
-func checkCollisions(plans []*Plan, outs []Output, probs *Problems) {
+// user's code or with another minimizer's; declaredBy[i] are the
+// package-level names of plans[i]'s minimizer file.
+func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 	owner := map[string]*Plan{} // absolute output path → plan
 	names := map[string]*Plan{} // package dir + name → plan
 	clashed := map[[2]*Plan]bool{}
@@ -161,8 +184,7 @@ func checkCollisions(plans []*Plan, outs []Output, probs *Problems) {
 			}
 			owner[abs] = p
 		}
-		declared := topLevelNames(outs[2*i].Data)
-		sort.Strings(declared)
+		declared := slices.Sorted(slices.Values(declaredBy[i]))
 		if userNames[p.pkg] == nil {
 			userNames[p.pkg] = p.pkg.names(false)
 		}
@@ -185,28 +207,6 @@ func checkCollisions(plans []*Plan, outs []Output, probs *Problems) {
 			}
 		}
 	}
-}
-
-// topLevelNames lists the package-level names a Go file declares.
-func topLevelNames(src []byte) []string {
-	f, err := parser.ParseFile(token.NewFileSet(), "", src, parser.SkipObjectResolution)
-	if err != nil {
-		return nil
-	}
-	var names []string
-	for _, d := range f.Decls {
-		switch d := d.(type) {
-		case *ast.FuncDecl:
-			if d.Recv == nil {
-				names = append(names, d.Name.Name)
-			}
-		case *ast.GenDecl:
-			for _, s := range d.Specs {
-				names = append(names, specNames(s)...)
-			}
-		}
-	}
-	return names
 }
 
 // Write writes the outputs, as WriteChanged does.

@@ -7,10 +7,12 @@ import (
 )
 
 // kernelCopier deep-copies declarations of the shared kernels for one
-// specialization, whose passes rewrite the tree and its comments in place.
-// The type checker's facts about the originals are carried over to the
-// copies in info, so the passes read them exactly as they would on a tree
-// of their own.
+// specialization, whose passes rewrite each node as it is copied (post)
+// and the copied comments in place.
+// The type checker's facts that the passes read about the originals are
+// carried over to the copies in info: the objects of identifiers and the
+// types of calls' sole arguments, so the passes read them exactly as they
+// would on a tree of their own.
 //
 // Every node and every slice of nodes is new; positions, names and
 // literal values are kept. The parser's deprecated *ast.Object and
@@ -24,6 +26,10 @@ type kernelCopier struct {
 	// or Comment and the comment list given to the printer stay the same
 	// object, as in a parsed file.
 	groups map[*ast.CommentGroup]*ast.CommentGroup
+	// post, when set, is applied to every copied node except a
+	// selector's Sel, after its children: it returns the node, its
+	// replacement, or nil to delete a statement from its list.
+	post func(ast.Node) ast.Node
 }
 
 // newKernelCopier returns a copier whose info has room for about exprs
@@ -32,7 +38,7 @@ func newKernelCopier(src *types.Info, exprs int) *kernelCopier {
 	return &kernelCopier{
 		src: src,
 		info: &types.Info{
-			Types: make(map[ast.Expr]types.TypeAndValue, exprs),
+			Types: make(map[ast.Expr]types.TypeAndValue, exprs/16),
 			Defs:  make(map[*ast.Ident]types.Object, exprs/8),
 			Uses:  make(map[*ast.Ident]types.Object, exprs/2),
 		},
@@ -104,7 +110,10 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 	case *ast.SelectorExpr:
 		cp := *n
 		cp.X = c.expr(n.X)
+		post := c.post
+		c.post = nil // a field or method name, never a template name
 		cp.Sel = c.ident(n.Sel)
+		c.post = post
 		out = &cp
 	case *ast.IndexExpr:
 		cp := *n
@@ -132,6 +141,13 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 		cp := *n
 		cp.Fun = c.expr(n.Fun)
 		cp.Args = c.exprs(n.Args)
+		if len(n.Args) == 1 {
+			// The sole argument's type: the passes read it to drop
+			// conversions that change nothing.
+			if tv, ok := c.src.Types[n.Args[0]]; ok {
+				c.info.Types[cp.Args[0]] = tv
+			}
+		}
 		out = &cp
 	case *ast.StarExpr:
 		cp := *n
@@ -348,18 +364,16 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 		panic(fmt.Sprintf("kernelCopier: cannot copy %T", n))
 	}
 	c.carry(n, out)
+	if c.post != nil {
+		return c.post(out)
+	}
 	return out
 }
 
-// carry records for the copy what the type checker recorded for orig.
+// carry records for the copy of an identifier the object the type
+// checker recorded for orig. (Of the expressions' types, the passes read
+// only those of a call's sole argument, which node carries.)
 func (c *kernelCopier) carry(orig, cp ast.Node) {
-	e, ok := orig.(ast.Expr)
-	if !ok {
-		return
-	}
-	if tv, ok := c.src.Types[e]; ok {
-		c.info.Types[cp.(ast.Expr)] = tv
-	}
 	if id, ok := orig.(*ast.Ident); ok {
 		if o, ok := c.src.Uses[id]; ok {
 			c.info.Uses[cp.(*ast.Ident)] = o
@@ -381,7 +395,8 @@ func (c *kernelCopier) stmt(s ast.Stmt) ast.Stmt {
 	if s == nil {
 		return nil
 	}
-	return c.node(s).(ast.Stmt)
+	cp, _ := c.node(s).(ast.Stmt) // nil when post deletes it
+	return cp
 }
 
 func (c *kernelCopier) ident(id *ast.Ident) *ast.Ident {
@@ -441,9 +456,11 @@ func (c *kernelCopier) stmts(list []ast.Stmt) []ast.Stmt {
 	if list == nil {
 		return nil
 	}
-	out := make([]ast.Stmt, len(list))
-	for i, s := range list {
-		out[i] = c.stmt(s)
+	out := make([]ast.Stmt, 0, len(list))
+	for _, s := range list {
+		if cp := c.stmt(s); cp != nil {
+			out = append(out, cp)
+		}
 	}
 	return out
 }

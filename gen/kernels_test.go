@@ -151,7 +151,8 @@ func TestKernelsLoadedOnce(t *testing.T) {
 }
 
 // A copy is equal to its original, shares no node or comment with it, and
-// carries the original's type information.
+// carries the original's type information that the passes read: every
+// identifier's object, and the type of every call's sole argument.
 func TestKernelCopyIsDeep(t *testing.T) {
 	ks, err := loadKernels()
 	if err != nil {
@@ -187,8 +188,8 @@ func TestKernelCopyIsDeep(t *testing.T) {
 				if n != nil && orig[n] {
 					t.Errorf("%s: the copy shares a %T with the original", name, n)
 				}
-				if e, ok := n.(ast.Expr); ok {
-					if _, ok := cp.info.Types[e]; ok {
+				if call, ok := n.(*ast.CallExpr); ok && len(call.Args) == 1 {
+					if _, ok := cp.info.Types[call.Args[0]]; ok {
 						typed++
 					}
 				}
@@ -205,8 +206,8 @@ func TestKernelCopyIsDeep(t *testing.T) {
 				}
 			}
 			ast.Inspect(d, func(n ast.Node) bool {
-				if e, ok := n.(ast.Expr); ok {
-					if _, ok := ks.info.Types[e]; ok {
+				if call, ok := n.(*ast.CallExpr); ok && len(call.Args) == 1 {
+					if _, ok := ks.info.Types[call.Args[0]]; ok {
 						typed--
 					}
 				}
@@ -221,7 +222,28 @@ func TestKernelCopyIsDeep(t *testing.T) {
 				return true
 			})
 			if typed != 0 || uses != len(cp.info.Uses) || defs != len(cp.info.Defs) {
-				t.Errorf("%s: type information carried for %+d expressions, %d of %d uses, %d of %d definitions", name, -typed, len(cp.info.Uses), uses, len(cp.info.Defs), defs)
+				t.Errorf("%s: types carried for %+d sole arguments of calls, %d of %d uses, %d of %d definitions", name, -typed, len(cp.info.Uses), uses, len(cp.info.Defs), defs)
+			}
+			// The sole arguments' types are the originals'.
+			var wantTypes []types.TypeAndValue
+			ast.Inspect(d, func(n ast.Node) bool {
+				if call, ok := n.(*ast.CallExpr); ok && len(call.Args) == 1 {
+					wantTypes = append(wantTypes, ks.info.Types[call.Args[0]])
+				}
+				return true
+			})
+			k := 0
+			ast.Inspect(c, func(n ast.Node) bool {
+				if call, ok := n.(*ast.CallExpr); ok && len(call.Args) == 1 {
+					if got := cp.info.Types[call.Args[0]]; got != wantTypes[k] {
+						t.Errorf("%s: the copied argument %d has type %v, the original %v", name, k, got.Type, wantTypes[k].Type)
+					}
+					k++
+				}
+				return true
+			})
+			if len(cp.info.Types) != k {
+				t.Errorf("%s: types carried for %d expressions, %d of them sole arguments of calls", name, len(cp.info.Types), k)
 			}
 			// The copy's identifiers resolve to the original's objects.
 			var want []types.Object

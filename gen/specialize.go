@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"go/ast"
+	"go/format"
 	"go/parser"
 	"go/printer"
 	"go/token"
@@ -14,8 +15,6 @@ import (
 	"strconv"
 	"strings"
 	"sync"
-
-	"golang.org/x/tools/go/ast/astutil"
 
 	"github.com/thalweg-go/thalweg/templates"
 )
@@ -30,14 +29,41 @@ type kernelSource struct {
 	pkg   *types.Package
 	units map[string]*unit // by package-level name
 	order []string         // unit names in source order
+	// dispatch caches dispatchers by the names a choice provides (they
+	// depend on nothing else): provided names, sorted and joined by
+	// spaces → map[string][]string, never modified.
+	dispatch *sync.Map
+	// printSets holds copies of fset for printing: go/token locks a
+	// file's line table at every position the printer looks up, which
+	// goroutines printing at once would contend for.
+	printSets *sync.Pool
 }
 
 // unit is one top-level declaration of the templates, with the methods of
 // a type, or a whole const/var group.
 type unit struct {
-	name  string
-	decls []ast.Decl
-	exprs int // expressions in decls, to size a copy's type information
+	name     string
+	decls    []ast.Decl
+	comments []declComments // of each of decls
+	exprs    int            // expressions in decls, to size a copy's type information
+	// refs are the package-level objects of the templates that the
+	// identifiers in decls use, in source order, repeats included.
+	refs []types.Object
+}
+
+// declComments are the comments within a declaration, doc comment
+// included, with the words in them that renameComments may rename: the
+// template names written in camelCase, and the declaration's own name
+// opening a comment group. words[g][c] are those of groups[g].List[c].
+type declComments struct {
+	groups []*ast.CommentGroup
+	words  [][][]commentWord
+}
+
+// commentWord is a template name at text[start:end] of a comment.
+type commentWord struct {
+	start, end int
+	word       string
 }
 
 // kernelCache parses and type-checks the embedded templates on first use.
@@ -61,7 +87,8 @@ func loadKernels() (*kernelSource, error) {
 const embedFile = "source.go"
 
 func parseKernels(src fs.FS) (*kernelSource, error) {
-	ks := &kernelSource{fset: token.NewFileSet(), units: map[string]*unit{}}
+	ks := &kernelSource{fset: token.NewFileSet(), units: map[string]*unit{}, dispatch: new(sync.Map)}
+	ks.printSets = &sync.Pool{New: func() any { return cloneFileSet(ks.fset) }}
 	names, err := fs.Glob(src, "*.go")
 	if err != nil {
 		return nil, err
@@ -125,9 +152,15 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 			}
 			u := ks.unitFor(name)
 			u.decls = append(u.decls, d)
+			u.comments = append(u.comments, ks.declComments(f, d))
 			ast.Inspect(d, func(n ast.Node) bool {
 				if _, ok := n.(ast.Expr); ok {
 					u.exprs++
+				}
+				if id, ok := n.(*ast.Ident); ok {
+					if obj := ks.info.Uses[id]; obj != nil && obj.Pkg() == ks.pkg && obj.Parent() == ks.pkg.Scope() {
+						u.refs = append(u.refs, obj)
+					}
 				}
 				return true
 			})
@@ -136,14 +169,24 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 	return ks, nil
 }
 
-// fileOf returns the file that declares d.
-func (ks *kernelSource) fileOf(d ast.Decl) *ast.File {
-	for _, f := range ks.files {
-		if f.Pos() <= d.Pos() && d.End() <= f.End() {
-			return f
+// declComments indexes the comments within d, which f declares.
+func (ks *kernelSource) declComments(f *ast.File, d ast.Decl) declComments {
+	own := declName(d)
+	dc := declComments{groups: commentsWithin(f, d)}
+	dc.words = make([][][]commentWord, len(dc.groups))
+	for g, cg := range dc.groups {
+		dc.words[g] = make([][]commentWord, len(cg.List))
+		for c, cm := range cg.List {
+			for i, loc := range wordPattern.FindAllStringIndex(cm.Text, -1) {
+				w := cm.Text[loc[0]:loc[1]]
+				opening := c == 0 && i == 0 && w == own
+				if (opening || strings.ToLower(w) != w) && ks.pkg.Scope().Lookup(w) != nil {
+					dc.words[g][c] = append(dc.words[g][c], commentWord{loc[0], loc[1], w})
+				}
+			}
 		}
 	}
-	return nil
+	return dc
 }
 
 func (ks *kernelSource) unitFor(name string) *unit {
@@ -225,7 +268,7 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		return nil, err
 	}
 	out := &specializedKernels{uses: map[string]bool{}}
-	dispatchers := ks.dispatchers(c.provided)
+	dispatchers := ks.cachedDispatchers(c.provided)
 	var unpicked []string
 	// Decide the generated name of every template object reached.
 	newName := map[types.Object]string{}
@@ -267,13 +310,8 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		}
 		seen[u] = true
 		reached = append(reached, u)
-		for _, d := range u.decls {
-			ast.Inspect(d, func(n ast.Node) bool {
-				if id, ok := n.(*ast.Ident); ok {
-					visitObj(ks.info.Uses[id])
-				}
-				return true
-			})
+		for _, obj := range u.refs {
+			visitObj(obj)
 		}
 	}
 	root := ks.pkg.Scope().Lookup("minimize")
@@ -285,9 +323,9 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
 	}
 
-	// The passes rewrite declarations and comments in place: they get
-	// copies, and a view of the kernels whose type information is the
-	// copies'.
+	// The passes rewrite copies of the declarations, as they are made, and
+	// of their comments, and see a view of the kernels whose type
+	// information is the copies'.
 	exprs := 0
 	for _, u := range reached {
 		exprs += u.exprs
@@ -296,22 +334,41 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	view := *ks
 	view.info = cp.info
 	rw := &rewriter{ks: &view, c: c, newName: newName}
+	names := make(map[string]string, len(newName))
+	for o, n := range newName {
+		names[o.Name()] = n
+	}
+	fset := ks.printSets.Get().(*token.FileSet)
+	defer ks.printSets.Put(fset)
 	var buf bytes.Buffer
 	for _, u := range reached {
-		for _, d := range u.decls {
-			own := declName(d)
-			comments := cp.comments(commentsWithin(ks.fileOf(d), d)) // before renaming lengthens them
+		for i, d := range u.decls {
+			dc := u.comments[i]
+			comments := cp.comments(dc.groups)
 			rw.notes = nil
-			copyDecl := rw.rewrite(cp.decl(d))
+			copyDecl := rw.rewrite(cp, d)
 			if rw.err != nil {
 				return nil, rw.err
 			}
-			rw.renameComments(comments, own)
+			renameComments(comments, dc.words, names)
 			if len(rw.notes) > 0 {
 				comments = append(comments, rw.notes...)
 				sort.SliceStable(comments, func(i, j int) bool { return comments[i].Pos() < comments[j].Pos() })
 			}
-			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
+			// The doc comment is written as it stands: the templates are
+			// gofmt'ed, so it is already in the form go/format would give
+			// it, and renaming words changes none of its structure.
+			if doc := docOf(copyDecl); doc != nil && len(comments) > 0 && comments[0] == doc {
+				for _, cm := range doc.List {
+					buf.WriteString(cm.Text)
+					buf.WriteByte('\n')
+				}
+				comments = comments[1:]
+				setDoc(copyDecl, nil)
+			}
+			// Printed as go/format prints it, so the file needs no
+			// formatting as a whole (see assemble).
+			if err := format.Node(&buf, fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
 			}
 			buf.WriteString("\n\n")
@@ -320,6 +377,37 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	out.source = buf.Bytes()
 	out.usesMath = rw.usesMath
 	return out, nil
+}
+
+// cloneFileSet returns a file set with the files of src, at the same
+// bases and with the same lines.
+func cloneFileSet(src *token.FileSet) *token.FileSet {
+	dst := token.NewFileSet()
+	src.Iterate(func(f *token.File) bool {
+		dst.AddFile(f.Name(), f.Base(), f.Size()).SetLines(f.Lines())
+		return true
+	})
+	return dst
+}
+
+// docOf returns the doc comment of a declaration.
+func docOf(d ast.Decl) *ast.CommentGroup {
+	switch d := d.(type) {
+	case *ast.FuncDecl:
+		return d.Doc
+	case *ast.GenDecl:
+		return d.Doc
+	}
+	return nil
+}
+
+func setDoc(d ast.Decl, doc *ast.CommentGroup) {
+	switch d := d.(type) {
+	case *ast.FuncDecl:
+		d.Doc = doc
+	case *ast.GenDecl:
+		d.Doc = doc
+	}
 }
 
 // commentsWithin returns the file's comments that lie inside d, doc
@@ -365,8 +453,8 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 	return rw.ks.info.Defs[id]
 }
 
-// rewrite rewrites d in place, so d must be a copy of the shared kernels
-// (see kernelCopier), and returns it. The passes, in order:
+// rewrite copies d with cp (see kernelCopier) and rewrites the copy as it
+// is made, and returns it. The passes, in order:
 //
 //   - rewrite recv.objective(p), recv.gradient(p, g) and
 //     recv.evaluate(p, g) to calls of the user's functions in the form
@@ -382,86 +470,90 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 //   - delete the calls of the observe hook, or, for tracing, point them at
 //     the recorder and wrap the line search's objective calls (its trials)
 //     in the trial recorder.
-func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
-	// The passes run after a node's children (post-order), so a node's
-	// type information is read while the node itself is still the one the
-	// type checker saw; replaced children are new nodes without it.
-	s := rw.c.shape
+func (rw *rewriter) rewrite(cp *kernelCopier, d ast.Decl) ast.Decl {
+	// The passes run as the copier leaves each node, after its children
+	// (post-order), so a node's type information is read while the node
+	// itself is still a copy of the one the type checker saw; replaced
+	// children are new nodes without it.
 	rw.trials = rw.c.trace && declName(d) == rw.c.pick["lineSearch"]
-	result := astutil.Apply(d, nil, func(cur *astutil.Cursor) bool {
-		switch n := cur.Node().(type) {
-		case *ast.ExprStmt:
-			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
-				cur.Replace(rw.gradientCall(call))
-			}
-			if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
-				if rw.c.trace {
-					call.Fun = &ast.Ident{Name: rw.c.traceHook, NamePos: call.Fun.Pos()}
-				} else {
-					cur.Delete() // rewrite observe(…) to nothing
-				}
-			}
-		case *ast.CallExpr:
-			if rw.isRecvCall(n, "objective") || rw.isRecvCall(n, "evaluate") {
-				call := rw.objectiveCall(n)
-				if rw.trials {
-					// traceTrial(xt, f(xt)): the trial point, then its value.
-					call = &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{n.Args[0], call}, Lparen: n.Lparen, Rparen: n.Rparen}
-				}
-				cur.Replace(call)
-				return true
-			}
-			if s.Elem == "float64" && len(n.Args) == 1 {
-				// elem has already been rewritten to float64 here.
-				if id, ok := n.Fun.(*ast.Ident); ok && id.Name == "float64" {
-					if tv, ok := rw.ks.info.Types[n.Args[0]]; ok && tv.Value == nil && !isUntyped(tv.Type) && types.Identical(tv.Type, types.Typ[types.Float64]) {
-						cur.Replace(n.Args[0])
-						return true
-					}
-				}
-			}
-			if s.Receiver == "" {
-				n.Args = rw.withoutRecv(n.Args)
-			}
-		case *ast.FieldList:
-			if s.Receiver == "" {
-				n.List = rw.withoutRecvFields(n.List)
-			}
-		case *ast.SelectorExpr:
-			if id, ok := n.X.(*ast.Ident); ok && id.Name == "math" {
-				rw.usesMath = true
-			}
-		case *ast.Ident:
-			if cur.Name() == "Sel" {
-				return true // a field or method name, never a template name
-			}
-			rw.replaceIdent(cur, n)
-		}
-		return true
-	})
-	return result.(ast.Decl)
+	cp.post = rw.post
+	defer func() { cp.post = nil }()
+	return cp.decl(d)
 }
 
-func (rw *rewriter) replaceIdent(cur *astutil.Cursor, id *ast.Ident) {
+// post rewrites the copy n, whose children are rewritten, and returns it,
+// its replacement, or nil to delete the statement.
+func (rw *rewriter) post(n ast.Node) ast.Node {
+	s := rw.c.shape
+	switch n := n.(type) {
+	case *ast.ExprStmt:
+		if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
+			return rw.gradientCall(call)
+		}
+		if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
+			if !rw.c.trace {
+				return nil // rewrite observe(…) to nothing
+			}
+			call.Fun = &ast.Ident{Name: rw.c.traceHook, NamePos: call.Fun.Pos()}
+		}
+	case *ast.CallExpr:
+		if rw.isRecvCall(n, "objective") || rw.isRecvCall(n, "evaluate") {
+			call := rw.objectiveCall(n)
+			if rw.trials {
+				// traceTrial(xt, f(xt)): the trial point, then its value.
+				call = &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{n.Args[0], call}, Lparen: n.Lparen, Rparen: n.Rparen}
+			}
+			return call
+		}
+		if s.Elem == "float64" && len(n.Args) == 1 {
+			// elem has already been rewritten to float64 here.
+			if id, ok := n.Fun.(*ast.Ident); ok && id.Name == "float64" {
+				if tv, ok := rw.ks.info.Types[n.Args[0]]; ok && tv.Value == nil && !isUntyped(tv.Type) && types.Identical(tv.Type, types.Typ[types.Float64]) {
+					return n.Args[0]
+				}
+			}
+		}
+		if s.Receiver == "" {
+			n.Args = rw.withoutRecv(n.Args)
+		}
+	case *ast.FieldList:
+		if s.Receiver == "" {
+			n.List = rw.withoutRecvFields(n.List)
+		}
+	case *ast.SelectorExpr:
+		if id, ok := n.X.(*ast.Ident); ok && id.Name == "math" {
+			rw.usesMath = true
+		}
+	case *ast.Ident:
+		// (Never a selector's Sel, a field or method name: the copier
+		// leaves those alone.)
+		return rw.replaceIdent(n)
+	}
+	return n
+}
+
+// replaceIdent returns what a template name becomes: the shape's types
+// and length for the stand-ins, else id renamed in place.
+func (rw *rewriter) replaceIdent(id *ast.Ident) ast.Node {
 	s := rw.c.shape
 	o := rw.obj(id)
 	if o == nil || o.Parent() != rw.ks.pkg.Scope() {
-		return
+		return id
 	}
 	switch o.Name() {
 	case "elem":
-		cur.Replace(&ast.Ident{Name: s.Elem, NamePos: id.Pos()})
+		return &ast.Ident{Name: s.Elem, NamePos: id.Pos()}
 	case "vec":
-		cur.Replace(&ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Dim, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}})
+		return &ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Dim, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}}
 	case "dim":
-		cur.Replace(intLit(s.Dim, id.Pos()))
+		return intLit(s.Dim, id.Pos())
 	case "receiver":
-		cur.Replace(&ast.Ident{Name: s.Receiver, NamePos: id.Pos()})
-	default:
-		if n, ok := rw.newName[o]; ok {
-			id.Name = n
-		}
+		return &ast.Ident{Name: s.Receiver, NamePos: id.Pos()}
 	}
+	if n, ok := rw.newName[o]; ok {
+		id.Name = n
+	}
+	return id
 }
 
 func intLit(n int, pos token.Pos) *ast.BasicLit {
@@ -644,28 +736,29 @@ func fullSlice(p ast.Expr) ast.Expr {
 
 var wordPattern = regexp.MustCompile(`[A-Za-z_][A-Za-z0-9_]*`)
 
-// renameComments rewrites template names inside the declaration's
-// comments to their generated names, so comments keep naming the right
-// thing. Plain words ("direction", "finite") are left alone unless they
-// open the declaration's doc comment as its own name; camelCase words are
-// always names.
-func (rw *rewriter) renameComments(comments []*ast.CommentGroup, own string) {
-	names := map[string]string{}
-	for o, n := range rw.newName {
-		names[o.Name()] = n
-	}
-	for _, cg := range comments {
-		for i, c := range cg.List {
-			first := i == 0
-			c.Text = wordPattern.ReplaceAllStringFunc(c.Text, func(w string) string {
-				n, ok := names[w]
-				opening := first && w == own
-				first = false
-				if ok && (opening || strings.ToLower(w) != w) {
-					return n
+// renameComments rewrites template names inside the copies of a
+// declaration's comments to their generated names (names, by template
+// name), so comments keep naming the right thing. Plain words
+// ("direction", "finite") are left alone unless they open the
+// declaration's doc comment as its own name; camelCase words are always
+// names. words indexes them in the originals (see declComments).
+func renameComments(comments []*ast.CommentGroup, words [][][]commentWord, names map[string]string) {
+	var b strings.Builder
+	for g, cg := range comments {
+		for c, cm := range cg.List {
+			b.Reset()
+			last := 0
+			for _, w := range words[g][c] {
+				if n, ok := names[w.word]; ok {
+					b.WriteString(cm.Text[last:w.start])
+					b.WriteString(n)
+					last = w.end
 				}
-				return w
-			})
+			}
+			if last > 0 {
+				b.WriteString(cm.Text[last:])
+				cm.Text = b.String()
+			}
 		}
 	}
 }

@@ -3,9 +3,12 @@ package gen
 import (
 	"bytes"
 	"go/ast"
+	"go/format"
 	"go/parser"
+	"go/printer"
 	"go/token"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -36,7 +39,11 @@ func TestSpecializedNamesAreHygienic(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for _, name := range topLevelNames(buf.Bytes()) {
+		names, err := topLevelNames(buf.Bytes())
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, name := range names {
 			if !strings.HasPrefix(name, p.M.Name) && !strings.HasPrefix(name, p.Prefix) {
 				t.Errorf("%s: top-level %s lacks the minimizer's name or prefix", p.M.Name, name)
 			}
@@ -110,4 +117,126 @@ func TestCombinedRefusesValueOnlyAndGradientCalls(t *testing.T) {
 		return
 	}
 	t.Fatal("no golden minimizer has a combined objective")
+}
+
+// The minimizer file is assembled from the glue jennifer formatted and
+// the kernels as printed, without formatting the whole: it must be the
+// file go/format makes of the two, for every shape, rule, derivative and
+// option of the golden specs, the examples and a mix of 41 minimizers,
+// traced or not.
+func TestAssembleIsFormatted(t *testing.T) {
+	_, many := benchModule(t, 41)
+	specs, err := filepath.Glob(filepath.Join("..", "testdata", "golden", "*", "*.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	examples, err := filepath.Glob(filepath.Join("..", "examples", "*", "*.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	specs = append(append(specs, examples...), many)
+	compared := 0
+	for _, spec := range specs {
+		plans, err := Plans([]string{spec})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range plans {
+			for _, trace := range []bool{false, true} {
+				choice := p.kernelChoice()
+				if trace {
+					choice.trace, choice.traceHook, choice.traceTrial = true, traceHook, traceTrial
+				}
+				kernels, err := specialize(choice)
+				if err != nil {
+					t.Fatal(err)
+				}
+				glue, err := renderGlue(p, kernels)
+				if err != nil {
+					t.Fatal(err)
+				}
+				got, ok := assemble(glue, kernels.source, kernels.usesMath)
+				if !ok {
+					t.Errorf("%s (trace %v): the glue imports more than math; assemble declined", p.M.Name, trace)
+					continue
+				}
+				want, err := formatWhole(append(glue[:len(glue):len(glue)], kernels.source...), kernels.usesMath)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !bytes.Equal(got, want) {
+					t.Errorf("%s (trace %v): assembled file differs from the formatted whole; diff:\n%s", p.M.Name, trace, diff(t, want, got))
+				}
+				parsed, err := topLevelNames(got)
+				if err != nil {
+					t.Fatalf("%s (trace %v): %v", p.M.Name, trace, err)
+				}
+				if read := declaredNames(got); !slices.Equal(read, parsed) {
+					t.Errorf("%s (trace %v): names read from the lines %v, parsed %v", p.M.Name, trace, read, parsed)
+				}
+				compared++
+			}
+		}
+	}
+	if compared < 2*41 {
+		t.Errorf("compared %d files, want at least %d", compared, 2*41)
+	}
+}
+
+// topLevelNames lists the package-level names a Go file declares, or
+// the error that it does not parse: what declaredNames must find.
+func topLevelNames(src []byte) ([]string, error) {
+	f, err := parser.ParseFile(token.NewFileSet(), "", src, parser.SkipObjectResolution)
+	if err != nil {
+		return nil, err
+	}
+	var names []string
+	for _, d := range f.Decls {
+		switch d := d.(type) {
+		case *ast.FuncDecl:
+			if d.Recv == nil {
+				names = append(names, d.Name.Name)
+			}
+		case *ast.GenDecl:
+			for _, s := range d.Specs {
+				names = append(names, specNames(s)...)
+			}
+		}
+	}
+	return names, nil
+}
+
+// specialize writes the kernels' doc comments as they stand, which is
+// what go/format writes only when they are already in its form: printed
+// with go/format, every template declaration begins with its doc comment
+// unchanged.
+func TestKernelDocCommentsAreFormatted(t *testing.T) {
+	ks, err := loadKernels()
+	if err != nil {
+		t.Fatal(err)
+	}
+	docs := 0
+	for _, f := range ks.files {
+		for _, d := range f.Decls {
+			doc := docOf(d)
+			if doc == nil {
+				continue
+			}
+			docs++
+			var want strings.Builder
+			for _, cm := range doc.List {
+				want.WriteString(cm.Text + "\n")
+			}
+			var got bytes.Buffer
+			if err := format.Node(&got, ks.fset, &printer.CommentedNode{Node: d, Comments: commentsWithin(f, d)}); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.HasPrefix(got.String(), want.String()) {
+				t.Errorf("%s: go/format rewrites the doc comment of %s:\n%s\nwant it as it stands:\n%s", ks.fset.Position(d.Pos()), declName(d), got.String()[:min(got.Len(), want.Len()+80)], want.String())
+			}
+		}
+	}
+	if docs < 20 {
+		t.Errorf("%d doc comments in the templates; want at least 20", docs)
+	}
 }

@@ -97,7 +97,7 @@ func Trace(p *Plan) (*TraceResult, error) {
 	choice := p.kernelChoice()
 	choice.trace, choice.traceHook, choice.traceTrial = true, traceHook, traceTrial
 	var minimizer, harness bytes.Buffer
-	if err := emitMinimizer(&minimizer, p, choice); err != nil {
+	if _, err := emitMinimizer(&minimizer, p, choice); err != nil {
 		return nil, err
 	}
 	if err := emitTraceHarness(&harness, p); err != nil {

@@ -167,7 +167,7 @@ func TestTracedKernels(t *testing.T) {
 		}
 		choice := p.kernelChoice()
 		choice.trace, choice.traceHook, choice.traceTrial = true, traceHook, traceTrial
-		if err := emitMinimizer(&traced, p, choice); err != nil {
+		if _, err := emitMinimizer(&traced, p, choice); err != nil {
 			t.Fatal(err)
 		}
 		if bytes.Contains(plain.Bytes(), []byte("thalwegTrace")) {
