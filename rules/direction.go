@@ -55,8 +55,8 @@ var (
 	})
 	CG = Direction.register(&Entry{
 		Name:    "cg",
-		Summary: "nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps",
-		Math:    "d = −g + βd₋₁, β = max(gᵀ(g − g₋₁)/‖g₋₁‖², 0); pair with strong-wolfe, c2 = 0.1",
+		Summary: "nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted when successive gradients are far from orthogonal (Powell)",
+		Math:    "d = −g + βd₋₁, β = max(gᵀ(g − g₋₁)/‖g₋₁‖², 0); d = −g when |gᵀg₋₁| ≥ 0.1‖g‖² (N&W eq. 5.52); pair with strong-wolfe, c2 = 0.1",
 		References: []string{
 			PolakRibiere,
 			NocedalWright + ", eqs. 5.44–5.45, §5.2",

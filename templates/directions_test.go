@@ -371,29 +371,36 @@ func polakRibiere(g, previous vec) float64 {
 	return num / den
 }
 
-// With gradients that keep β positive, conjugate gradients takes
-// d = −g + β d₋₁ except on the first compute and every dim-th one after
-// it, which restart with d = −g (Nocedal & Wright 2006, §5.2, restarts
-// every n iterations).
-func TestCGRestartsEveryDimIterations(t *testing.T) {
+// Conjugate gradients takes d = −g + β d₋₁ while successive gradients
+// stay nearly orthogonal, |gᵀg₋₁| < 0.1‖g‖², for any number of steps (no
+// periodic restart), and restarts with d = −g exactly once they are not
+// (Powell's restart test, Nocedal & Wright 2006, eq. 5.52, ν = 0.1).
+func TestCGRestartsWhenGradientsLoseOrthogonality(t *testing.T) {
 	var dir cgDirection
 	dir.reset()
 	var previousG, previousD vec
-	for k := 0; k < 4*dim+1; k++ {
-		// Growing gradients turning slowly keep gᵀ(g − g₋₁) > 0.
-		g := vec{float64(k+1) + 0.1*math.Cos(float64(k)), 0.5*float64(k+1) + 0.1*math.Sin(float64(k))}
+	for k := 0; k < 4*dim+2; k++ {
+		// Gradients turning by about a right angle each step, shrinking;
+		// the last one turns back by 45 degrees, |gᵀg₋₁| = 0.7‖g‖²·….
+		angle := float64(k) * (math.Pi/2 - 0.05)
+		if k == 4*dim+1 {
+			angle = float64(k-1)*(math.Pi/2-0.05) + math.Pi/4
+		}
+		size := math.Pow(0.8, float64(k))
+		g := vec{size * math.Cos(angle), size * math.Sin(angle)}
 		want := g
 		negate(&want, &want)
+		restart := k == 0
 		if k > 0 {
-			var s, y vec
+			var y vec
 			difference(&y, &g, &previousG)
-			s = previousD
-			dir.update(&s, &y)
-			beta := polakRibiere(g, previousG)
-			if !(beta > 0) {
-				t.Fatalf("test data: β = %g at k = %d, want positive", beta, k)
+			dir.update(&previousD, &y)
+			restart = math.Abs(dot(&g, &previousG)) >= 0.1*dot(&g, &g)
+			if restart != (k == 4*dim+1) {
+				t.Fatalf("test data: restart %v at k = %d", restart, k)
 			}
-			if k%dim != 0 {
+			if !restart {
+				beta := polakRibiere(g, previousG)
 				for i := range want {
 					want[i] += beta * previousD[i] // N&W eq. 5.44 (d = −g + βd₋₁)
 				}
@@ -404,21 +411,21 @@ func TestCGRestartsEveryDimIterations(t *testing.T) {
 		if gap := vectorGap(d, want); gap > 1e-15 {
 			t.Errorf("compute %d: d = %v, want %v", k, d, want)
 		}
-		if k%dim == 0 && d != want {
+		if restart && d != want {
 			t.Errorf("compute %d is a restart: d = %v, want exactly −g = %v", k, d, want)
 		}
 		previousG, previousD = g, d
 	}
 }
 
-// β is clipped at zero (PR+, Nocedal & Wright 2006, eq. 5.45): a negative
-// Polak–Ribière β gives d = −g exactly. The clip is itself a restart, so
-// the count towards the next periodic restart starts again from it
-// (common practice, as the code documents).
+// A negative Polak–Ribière β gives d = −g exactly: clipped at zero (PR+,
+// Nocedal & Wright 2006, eq. 5.45), and in any case restarted, since
+// β_PR < 0 means gᵀg₋₁ > ‖g‖², which fails Powell's test. The next step,
+// with a nearly orthogonal gradient, goes on from the restart.
 func TestCGClipsNegativeBeta(t *testing.T) {
 	var dir cgDirection
 	dir.reset()
-	g0, g1, g2 := vec{2, 0}, vec{1, 0.5}, vec{1.5, 1.5}
+	g0, g1, g2 := vec{2, 0}, vec{1, 0.5}, vec{-0.5, 1.2} // g2ᵀg1 = 0.1 < 0.1‖g2‖² = 0.169
 	var d0, d1, d2, y vec
 	dir.compute(&g0, &d0)
 	difference(&y, &g1, &g0)
