@@ -339,30 +339,30 @@ func boxLiteral(p *Plan, lower, upper []float64) *jen.Statement {
 	if !p.Bounded {
 		return jen.Id(name).Values()
 	}
-	side := func(vals []float64) *jen.Statement {
-		items := make([]jen.Code, len(vals))
-		for i, v := range vals {
-			switch {
-			case math.IsInf(v, 0) && p.Shape.Elem == "float32":
-				items[i] = jen.Float32().Call(jen.Qual("math", "Inf").Call(jen.Lit(int(math.Copysign(1, v)))))
-			case math.IsInf(v, 0):
-				items[i] = jen.Qual("math", "Inf").Call(jen.Lit(int(math.Copysign(1, v))))
-			default:
-				items[i] = jen.Op(formatFloat(v))
-			}
-		}
-		return jen.Index(jen.Lit(p.Dim)).Id(p.Shape.Elem).Values(items...)
-	}
+	side := func(vals []float64) *jen.Statement { return vecLiteral(p, vals) }
 	return jen.Id(name).Values(jen.Dict{jen.Id("lower"): side(lower), jen.Id("upper"): side(upper)})
 }
 
-// vecLiteral is [N]T{v…}.
+// vecLiteral is [N]T{v…}, ±Inf written as math.Inf(±1).
 func vecLiteral(p *Plan, vals []float64) *jen.Statement {
+	return jen.Index(jen.Lit(p.Dim)).Id(p.Shape.Elem).Values(floatItems(vals, p.Shape.Elem)...)
+}
+
+// floatItems are the elements of a literal of vals in elem: each exactly
+// as formatFloat writes it, ±Inf as math.Inf(±1), converted for float32.
+func floatItems(vals []float64, elem string) []jen.Code {
 	items := make([]jen.Code, len(vals))
 	for i, v := range vals {
-		items[i] = jen.Op(formatFloat(v))
+		switch {
+		case math.IsInf(v, 0) && elem == "float32":
+			items[i] = jen.Float32().Call(jen.Qual("math", "Inf").Call(jen.Lit(int(math.Copysign(1, v)))))
+		case math.IsInf(v, 0):
+			items[i] = jen.Qual("math", "Inf").Call(jen.Lit(int(math.Copysign(1, v))))
+		default:
+			items[i] = jen.Op(formatFloat(v))
+		}
 	}
-	return jen.Index(jen.Lit(p.Dim)).Id(p.Shape.Elem).Values(items...)
+	return items
 }
 
 // emitScaling writes, for a spec with scale, the conversions between the
@@ -480,29 +480,10 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 	name := p.M.Name
 	params := append(receiverParam(p), jen.Id("x0").Add(xType(p)))
 	var args []jen.Code
-	var kernelArgs []jen.Code
 	if p.Shape.Receiver != "" {
 		args = append(args, jen.Id("recv"))
-		if p.Shape.Pointer {
-			kernelArgs = append(kernelArgs, jen.Id("recv"))
-		} else {
-			kernelArgs = append(kernelArgs, jen.Op("&").Id("recv"))
-		}
 	}
-	start := jen.Id("x0")
-	x := jen.Id("out").Dot("x")
-	if p.Shape.Scalar() {
-		start = jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(jen.Id("x0"))
-		x = jen.Id("out").Dot("x").Index(jen.Lit(0))
-	}
-	if p.Scaled() {
-		start = jen.Id(p.Prefix + "Scaled").Call(start)
-		x = jen.Id(p.Prefix + "Unscaled").Call(jen.Op("&").Id("out").Dot("x"))
-		if p.Shape.Scalar() {
-			x = x.Index(jen.Lit(0))
-		}
-	}
-	kernelArgs = append(kernelArgs, start, jen.Id("limits"), kernelBoxValue(p))
+	kernelArgs := append(kernelRecv(p), kernelStart(p, jen.Id("x0")), jen.Id("limits"), kernelBoxValue(p))
 
 	for _, line := range entryDoc(p) {
 		f.Comment(line)
@@ -513,16 +494,53 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 	f.Commentf("%sWithLimits is %s with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.", name, name)
 	f.Func().Id(name+"WithLimits").Params(append(params, jen.Id("limits").Id(name+"Limits"))...).Id(name+"Result").Block(
 		jen.Id("out").Op(":=").Id(kernel).Call(kernelArgs...),
-		jen.Return(jen.Id(name+"Result").Values(jen.Dict{
-			jen.Id("X"):             x,
-			jen.Id("F"):             jen.Id("out").Dot("f"),
-			jen.Id("Gradient"):      jen.Id("out").Dot("gradient"),
-			jen.Id("GradientLimit"): jen.Id("out").Dot("gradientLimit"),
-			jen.Id("Iterations"):    jen.Id("out").Dot("iterations"),
-			jen.Id("Evaluations"):   jen.Id("out").Dot("evaluations"),
-			jen.Id("Status"):        jen.Id("out").Dot("status"),
-		})),
+		jen.Return(resultOf(p)),
 	)
+}
+
+// kernelRecv is the receiver argument of the kernels, which take a
+// pointer: recv, or &recv for a value receiver; none for a function.
+func kernelRecv(p *Plan) []jen.Code {
+	switch {
+	case p.Shape.Receiver == "":
+		return nil
+	case p.Shape.Pointer:
+		return []jen.Code{jen.Id("recv")}
+	}
+	return []jen.Code{jen.Op("&").Id("recv")}
+}
+
+// kernelStart is the kernels' start for the user's x0 (an X): [1]T{x0}
+// for a scalar objective, and with scale in zᵢ = xᵢ/sᵢ.
+func kernelStart(p *Plan, x0 *jen.Statement) *jen.Statement {
+	if p.Shape.Scalar() {
+		x0 = jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(x0)
+	}
+	if p.Scaled() {
+		x0 = jen.Id(p.Prefix + "Scaled").Call(x0)
+	}
+	return x0
+}
+
+// resultOf is NAMEResult{…} from the kernels' outcome out, with X in the
+// user's form and units.
+func resultOf(p *Plan) *jen.Statement {
+	x := jen.Id("out").Dot("x")
+	if p.Scaled() {
+		x = jen.Id(p.Prefix + "Unscaled").Call(jen.Op("&").Id("out").Dot("x"))
+	}
+	if p.Shape.Scalar() {
+		x = x.Index(jen.Lit(0))
+	}
+	return jen.Id(p.M.Name + "Result").Values(jen.Dict{
+		jen.Id("X"):             x,
+		jen.Id("F"):             jen.Id("out").Dot("f"),
+		jen.Id("Gradient"):      jen.Id("out").Dot("gradient"),
+		jen.Id("GradientLimit"): jen.Id("out").Dot("gradientLimit"),
+		jen.Id("Iterations"):    jen.Id("out").Dot("iterations"),
+		jen.Id("Evaluations"):   jen.Id("out").Dot("evaluations"),
+		jen.Id("Status"):        jen.Id("out").Dot("status"),
+	})
 }
 
 // entryDoc is the doc comment of the main entry point: the policy, every

@@ -24,12 +24,6 @@ func emitSolver(f *jen.File, p *Plan, state string) {
 	name := p.M.Name
 	solver := name + "Solver"
 	self := func() *jen.Statement { return jen.Id("s").Op("*").Id(solver) }
-	start := func(x *jen.Statement) *jen.Statement {
-		if p.Shape.Scalar() {
-			return jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(x)
-		}
-		return x
-	}
 
 	f.Commentf("%sTickMinimum is the smallest call budget with which every %s.Advance progresses: the largest worst case of one stage of a run (%s).", name, solver, stageCosts(p))
 	f.Const().Id(name + "TickMinimum").Op("=").Lit(p.TickMinimum())
@@ -67,28 +61,13 @@ func emitSolver(f *jen.File, p *Plan, state string) {
 	f.Commentf("begin prepares a run at x0 with the solver's limits, the direction's memory kept.")
 	f.Func().Params(self()).Id("begin").Params(jen.Id("x0").Add(xType(p))).Block(
 		jen.If(jen.Op("!").Id("s").Dot("ownLimits")).Block(jen.Id("s").Dot("limits").Op("=").Id(name+"DefaultLimits").Call()),
-		jen.Id("s").Dot("run").Dot("prepare").Call(scaledStart(p, start(jen.Id("x0"))), jen.Id("s").Dot("limits"), kernelBoxValue(p)),
+		jen.Id("s").Dot("run").Dot("prepare").Call(kernelStart(p, jen.Id("x0")), jen.Id("s").Dot("limits"), kernelBoxValue(p)),
 		jen.Id("s").Dot("started").Op("=").True(),
 	)
 
 	// Advance.
 	params := append(receiverParam(p), jen.Id("budget").Int())
-	var kernelArgs []jen.Code
-	if p.Shape.Receiver != "" {
-		if p.Shape.Pointer {
-			kernelArgs = append(kernelArgs, jen.Id("recv"))
-		} else {
-			kernelArgs = append(kernelArgs, jen.Op("&").Id("recv"))
-		}
-	}
-	kernelArgs = append(kernelArgs, jen.Id("budget"))
-	x := jen.Id("out").Dot("x")
-	if p.Scaled() {
-		x = jen.Id(p.Prefix + "Unscaled").Call(jen.Op("&").Id("out").Dot("x"))
-	}
-	if p.Shape.Scalar() {
-		x = x.Index(jen.Lit(0))
-	}
+	kernelArgs := append(kernelRecv(p), jen.Id("budget"))
 	f.Commentf("Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status %sRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See %s for the budget rule and what advancing assumes of the objective.", name, solver)
 	f.Func().Params(self()).Id("Advance").Params(params...).Id(name+"Result").Block(
 		jen.If(jen.Op("!").Id("s").Dot("started")).Block(
@@ -96,15 +75,7 @@ func emitSolver(f *jen.File, p *Plan, state string) {
 			jen.Id("s").Dot("Start").Call(jen.Id("x0")),
 		),
 		jen.Id("out").Op(":=").Id("s").Dot("run").Dot("advance").Call(kernelArgs...),
-		jen.Return(jen.Id(name+"Result").Values(jen.Dict{
-			jen.Id("X"):             x,
-			jen.Id("F"):             jen.Id("out").Dot("f"),
-			jen.Id("Gradient"):      jen.Id("out").Dot("gradient"),
-			jen.Id("GradientLimit"): jen.Id("out").Dot("gradientLimit"),
-			jen.Id("Iterations"):    jen.Id("out").Dot("iterations"),
-			jen.Id("Evaluations"):   jen.Id("out").Dot("evaluations"),
-			jen.Id("Status"):        jen.Id("out").Dot("status"),
-		})),
+		jen.Return(resultOf(p)),
 	)
 }
 
@@ -234,13 +205,4 @@ func emitSolverTests(f *jen.File, p *Plan, helper string, setup func() []jen.Cod
 		jen.Return(jen.Id("a").Dot("X").Op("==").Id("b").Dot("X").Op("&&").Add(eq("F")).Op("&&").Add(eq("Gradient")).Op("&&").Add(eq("GradientLimit")).Op("&&").
 			Id("a").Dot("Iterations").Op("==").Id("b").Dot("Iterations").Op("&&").Id("a").Dot("Evaluations").Op("==").Id("b").Dot("Evaluations").Op("&&").Id("a").Dot("Status").Op("==").Id("b").Dot("Status")),
 	)
-}
-
-// scaledStart is the kernels' start for the user's x0 (a [N]T): with
-// scale, in zᵢ = xᵢ/sᵢ.
-func scaledStart(p *Plan, x0 *jen.Statement) *jen.Statement {
-	if !p.Scaled() {
-		return x0
-	}
-	return jen.Id(p.Prefix + "Scaled").Call(x0)
 }

@@ -91,11 +91,11 @@ func EmitTests(w io.Writer, p *Plan) error {
 			if p.Shape.Scalar() {
 				tol = jen.Op(formatFloat(e.Tolerance * p.M.Scale[0]))
 			} else {
-				items := make([]jen.Code, len(p.M.Scale))
+				tolerances := make([]float64, len(p.M.Scale))
 				for i, v := range p.M.Scale {
-					items[i] = jen.Op(formatFloat(e.Tolerance * v))
+					tolerances[i] = e.Tolerance * v
 				}
-				body = append(body, jen.Id("tolerance").Op(":=").Index(jen.Lit(p.Dim)).Float64().Values(items...))
+				body = append(body, jen.Id("tolerance").Op(":=").Index(jen.Lit(p.Dim)).Float64().Values(floatItems(tolerances, "float64")...))
 				tol = jen.Id("tolerance").Index(jen.Id("i"))
 			}
 		}
@@ -167,11 +167,7 @@ func literal(p *Plan, vals []float64) *jen.Statement {
 		}
 		return jen.Op(formatFloat(vals[0]))
 	}
-	items := make([]jen.Code, len(vals))
-	for i, v := range vals {
-		items[i] = jen.Op(formatFloat(v))
-	}
-	return xType(p).Values(items...)
+	return xType(p).Values(floatItems(vals, p.Shape.Elem)...)
 }
 
 // emitTestReceiver writes the receiver the tests call the objective on:
@@ -352,11 +348,7 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	times := func(c *jen.Statement) *jen.Statement { return c }
 	scaleDoc := ""
 	if p.Scaled() {
-		items := make([]jen.Code, len(p.M.Scale))
-		for i, v := range p.M.Scale {
-			items[i] = jen.Op(formatFloat(v))
-		}
-		boxed = append(boxed, jen.Id("sc").Op(":=").Index(jen.Lit(p.Dim)).Float64().Values(items...))
+		boxed = append(boxed, jen.Id("sc").Op(":=").Index(jen.Lit(p.Dim)).Float64().Values(floatItems(p.M.Scale, "float64")...))
 		times = func(c *jen.Statement) *jen.Statement { return c.Op("*").Id("sc").Index(jen.Id("i")) }
 		scaleDoc = " With scale, lengths are in units of sᵢ (h = ∛u·max(sᵢ, |xᵢ|), the nearby points and the steps along −∇f in z = x/s) and the scaled components sᵢ·∂f/∂xᵢ are compared."
 	}

@@ -307,11 +307,8 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 		}
 		m.Expect.X = x
 	}
-	for _, v := range start {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			probs.add(at("start"), "start must be finite: replace it with a typical starting point (thalweg init writes nan there on purpose)")
-			break
-		}
+	if !finiteAll(start) {
+		probs.add(at("start"), "start must be finite: replace it with a typical starting point (thalweg init writes nan there on purpose)")
 	}
 	if m.bounds != nil && len(*probs) == before {
 		resolveBounds(m, shape, at, probs)
