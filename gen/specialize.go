@@ -459,8 +459,7 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 //   - rewrite recv.objective(p), recv.gradient(p, g) and
 //     recv.evaluate(p, g) to calls of the user's functions in the form
 //     their signatures take: evaluate is the objective's value call, to
-//     which a combined objective adds g; rewrite recv.keepGradient(g, h)
-//     to g = h for a combined objective and delete it otherwise;
+//     which a combined objective adds g;
 //   - rewrite T(x) to x when elem is float64 and x is already float64;
 //   - drop the recv parameter and argument when the objective is a plain
 //     function;

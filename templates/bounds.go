@@ -165,7 +165,7 @@ func boundDirection(dir *direction, x, g, d *vec, b *box) {
 		if reach < margin {
 			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
 		}
-		active[i] = (x[i] <= b.lower[i]+margin && g[i] > 0) || (x[i] >= b.upper[i]-margin && g[i] < 0)
+		active[i] = pushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
 		if !active[i] {
 			free[i] = g[i]
 		}
@@ -175,7 +175,7 @@ func boundDirection(dir *direction, x, g, d *vec, b *box) {
 		if active[i] {
 			d[i] = -g[i]
 		}
-		if (x[i] <= b.lower[i] && d[i] < 0) || (x[i] >= b.upper[i] && d[i] > 0) {
+		if pushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
 		}
 	}
@@ -236,7 +236,7 @@ func unboundedMeasure(g, e, x *vec, fx elem, b *box) (measure, floor elem) {
 func projectedMeasure(g, e, x *vec, fx elem, b *box) (measure, floor elem) {
 	pg, pe := *g, *e
 	for i := range pg {
-		if (x[i] <= b.lower[i] && g[i] > 0) || (x[i] >= b.upper[i] && g[i] < 0) {
+		if pushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, larger(0, e[i]-abs(g[i]))
 		}
 	}
@@ -293,4 +293,11 @@ func oneSide(xi, h, reach, lower, upper elem) elem {
 		return above / reach
 	}
 	return -below / reach
+}
+
+// pushedAgainst reports whether xᵢ sits on (or within) lower or upper and
+// the gradient component gᵢ pushes it against that bound, so that a
+// descent step −gᵢ would leave the box there. NaN never pushes.
+func pushedAgainst(xi, gi, lower, upper elem) bool {
+	return (xi <= lower && gi > 0) || (xi >= upper && gi < 0)
 }

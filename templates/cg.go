@@ -29,26 +29,23 @@ type cgDirection struct {
 	previous vec  // d₋₁
 	change   vec  // y = g − g₋₁, set by update
 	squared  elem // ‖g₋₁‖²
-	steps    int  // iterations since the last restart; 0 means restart
+	fresh    bool // no previous direction to build on: the next compute restarts
 }
 
 func (s *cgDirection) reset() {
-	s.steps = 0
+	s.fresh = true
 }
 
 func (s *cgDirection) compute(g, d *vec) {
 	var beta elem
-	gg := dot(g, g)
-	if s.steps > 0 && s.squared > 0 && abs(gg-dot(g, &s.change)) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
-		beta = larger(dot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	gg, gy := dot(g, g), dot(g, &s.change)
+	if !s.fresh && s.squared > 0 && abs(gg-gy) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
+		beta = larger(gy/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
 	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
+	s.fresh = false
 	s.previous = *d
 	s.squared = gg
 }

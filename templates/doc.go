@@ -14,9 +14,7 @@
 //     alone (differences), as recv.evaluate(x, g) where its gradient may
 //     be wanted too (a combined objective writes it into g in the same
 //     call), and the gradient only as the statement recv.gradient(x, g),
-//     all with *vec operands; recv.keepGradient(g, h) is a statement
-//     that gen turns into g = h for a combined objective and deletes
-//     otherwise;
+//     all with *vec operands;
 //   - a dispatcher (derivative, direction, lineSearch, acceptable,
 //     backtrackTrial, curvatureMet, settle, …) switches on a selector in params.go, and every
 //     alternative it names has the same signature;

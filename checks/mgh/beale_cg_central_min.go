@@ -575,26 +575,23 @@ type bealeCGCentralDirection struct {
 	previous [2]float64 // d₋₁
 	change   [2]float64 // y = g − g₋₁, set by update
 	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
+	fresh    bool       // no previous direction to build on: the next compute restarts
 }
 
 func (s *bealeCGCentralDirection) reset() {
-	s.steps = 0
+	s.fresh = true
 }
 
 func (s *bealeCGCentralDirection) compute(g, d *[2]float64) {
 	var beta float64
-	gg := bealeCGCentralDot(g, g)
-	if s.steps > 0 && s.squared > 0 && bealeCGCentralAbs(gg-bealeCGCentralDot(g, &s.change)) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
-		beta = bealeCGCentralLarger(bealeCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	gg, gy := bealeCGCentralDot(g, g), bealeCGCentralDot(g, &s.change)
+	if !s.fresh && s.squared > 0 && bealeCGCentralAbs(gg-gy) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
+		beta = bealeCGCentralLarger(gy/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
 	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
+	s.fresh = false
 	s.previous = *d
 	s.squared = gg
 }

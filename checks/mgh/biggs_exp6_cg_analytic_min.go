@@ -575,26 +575,23 @@ type biggsEXP6CGAnalyticDirection struct {
 	previous [6]float64 // d₋₁
 	change   [6]float64 // y = g − g₋₁, set by update
 	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
+	fresh    bool       // no previous direction to build on: the next compute restarts
 }
 
 func (s *biggsEXP6CGAnalyticDirection) reset() {
-	s.steps = 0
+	s.fresh = true
 }
 
 func (s *biggsEXP6CGAnalyticDirection) compute(g, d *[6]float64) {
 	var beta float64
-	gg := biggsEXP6CGAnalyticDot(g, g)
-	if s.steps > 0 && s.squared > 0 && biggsEXP6CGAnalyticAbs(gg-biggsEXP6CGAnalyticDot(g, &s.change)) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
-		beta = biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	gg, gy := biggsEXP6CGAnalyticDot(g, g), biggsEXP6CGAnalyticDot(g, &s.change)
+	if !s.fresh && s.squared > 0 && biggsEXP6CGAnalyticAbs(gg-gy) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
+		beta = biggsEXP6CGAnalyticLarger(gy/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
 	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
+	s.fresh = false
 	s.previous = *d
 	s.squared = gg
 }

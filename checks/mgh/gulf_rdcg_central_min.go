@@ -575,26 +575,23 @@ type gulfRDCGCentralDirection struct {
 	previous [3]float64 // d₋₁
 	change   [3]float64 // y = g − g₋₁, set by update
 	squared  float64    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
+	fresh    bool       // no previous direction to build on: the next compute restarts
 }
 
 func (s *gulfRDCGCentralDirection) reset() {
-	s.steps = 0
+	s.fresh = true
 }
 
 func (s *gulfRDCGCentralDirection) compute(g, d *[3]float64) {
 	var beta float64
-	gg := gulfRDCGCentralDot(g, g)
-	if s.steps > 0 && s.squared > 0 && gulfRDCGCentralAbs(gg-gulfRDCGCentralDot(g, &s.change)) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
-		beta = gulfRDCGCentralLarger(gulfRDCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	gg, gy := gulfRDCGCentralDot(g, g), gulfRDCGCentralDot(g, &s.change)
+	if !s.fresh && s.squared > 0 && gulfRDCGCentralAbs(gg-gy) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
+		beta = gulfRDCGCentralLarger(gy/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
 	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
+	s.fresh = false
 	s.previous = *d
 	s.squared = gg
 }

@@ -871,11 +871,18 @@ func impliedVolLarger(a, b float64) float64 {
 func impliedVolStationarity(g, e, x *[1]float64, fx float64, b *impliedVolBox) (measure, floor float64) {
 	pg, pe := *g, *e
 	for i := range pg {
-		if (x[i] <= b.lower[i] && g[i] > 0) || (x[i] >= b.upper[i] && g[i] < 0) {
+		if impliedVolPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, impliedVolLarger(0, e[i]-impliedVolAbs(g[i]))
 		}
 	}
 	return impliedVolGradientMeasure(&pg, &pe, x, fx)
+}
+
+// impliedVolPushedAgainst reports whether xᵢ sits on (or within) lower or upper and
+// the gradient component gᵢ pushes it against that bound, so that a
+// descent step −gᵢ would leave the box there. NaN never pushes.
+func impliedVolPushedAgainst(xi, gi, lower, upper float64) bool {
+	return (xi <= lower && gi > 0) || (xi >= upper && gi < 0)
 }
 
 // impliedVolGradientMeasure is the scale-free measure
@@ -966,7 +973,7 @@ func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, b 
 		if reach < margin {
 			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
 		}
-		active[i] = (x[i] <= b.lower[i]+margin && g[i] > 0) || (x[i] >= b.upper[i]-margin && g[i] < 0)
+		active[i] = impliedVolPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
 		if !active[i] {
 			free[i] = g[i]
 		}
@@ -976,7 +983,7 @@ func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, b 
 		if active[i] {
 			d[i] = -g[i]
 		}
-		if (x[i] <= b.lower[i] && d[i] < 0) || (x[i] >= b.upper[i] && d[i] > 0) {
+		if impliedVolPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
 		}
 	}

@@ -871,11 +871,18 @@ func reachLarger(a, b float32) float32 {
 func reachStationarity(g, e, x *[2]float32, fx float32, b *reachBox) (measure, floor float32) {
 	pg, pe := *g, *e
 	for i := range pg {
-		if (x[i] <= b.lower[i] && g[i] > 0) || (x[i] >= b.upper[i] && g[i] < 0) {
+		if reachPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, reachLarger(0, e[i]-reachAbs(g[i]))
 		}
 	}
 	return reachGradientMeasure(&pg, &pe, x, fx)
+}
+
+// reachPushedAgainst reports whether xᵢ sits on (or within) lower or upper and
+// the gradient component gᵢ pushes it against that bound, so that a
+// descent step −gᵢ would leave the box there. NaN never pushes.
+func reachPushedAgainst(xi, gi, lower, upper float32) bool {
+	return (xi <= lower && gi > 0) || (xi >= upper && gi < 0)
 }
 
 // reachGradientMeasure is the scale-free measure
@@ -966,7 +973,7 @@ func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, b *reachBox)
 		if reach < margin {
 			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
 		}
-		active[i] = (x[i] <= b.lower[i]+margin && g[i] > 0) || (x[i] >= b.upper[i]-margin && g[i] < 0)
+		active[i] = reachPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
 		if !active[i] {
 			free[i] = g[i]
 		}
@@ -976,7 +983,7 @@ func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, b *reachBox)
 		if active[i] {
 			d[i] = -g[i]
 		}
-		if (x[i] <= b.lower[i] && d[i] < 0) || (x[i] >= b.upper[i] && d[i] > 0) {
+		if reachPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
 		}
 	}

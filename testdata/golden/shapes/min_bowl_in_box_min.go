@@ -1050,11 +1050,18 @@ func minBowlInBoxDiagonalCurvature(x, g *[3]float32, diffs *minBowlInBoxDifferen
 func minBowlInBoxStationarity(g, e, x *[3]float32, fx float32, b *minBowlInBoxBox) (measure, floor float32) {
 	pg, pe := *g, *e
 	for i := range pg {
-		if (x[i] <= b.lower[i] && g[i] > 0) || (x[i] >= b.upper[i] && g[i] < 0) {
+		if minBowlInBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, minBowlInBoxLarger(0, e[i]-minBowlInBoxAbs(g[i]))
 		}
 	}
 	return minBowlInBoxGradientMeasure(&pg, &pe, x, fx)
+}
+
+// minBowlInBoxPushedAgainst reports whether xᵢ sits on (or within) lower or upper and
+// the gradient component gᵢ pushes it against that bound, so that a
+// descent step −gᵢ would leave the box there. NaN never pushes.
+func minBowlInBoxPushedAgainst(xi, gi, lower, upper float32) bool {
+	return (xi <= lower && gi > 0) || (xi >= upper && gi < 0)
 }
 
 // minBowlInBoxGradientMeasure is the scale-free measure
@@ -1145,7 +1152,7 @@ func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32
 		if reach < margin {
 			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
 		}
-		active[i] = (x[i] <= b.lower[i]+margin && g[i] > 0) || (x[i] >= b.upper[i]-margin && g[i] < 0)
+		active[i] = minBowlInBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
 		if !active[i] {
 			free[i] = g[i]
 		}
@@ -1155,7 +1162,7 @@ func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32
 		if active[i] {
 			d[i] = -g[i]
 		}
-		if (x[i] <= b.lower[i] && d[i] < 0) || (x[i] >= b.upper[i] && d[i] > 0) {
+		if minBowlInBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
 		}
 	}

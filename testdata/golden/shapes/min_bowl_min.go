@@ -576,26 +576,23 @@ type minBowlDirection struct {
 	previous [3]float32 // d₋₁
 	change   [3]float32 // y = g − g₋₁, set by update
 	squared  float32    // ‖g₋₁‖²
-	steps    int        // iterations since the last restart; 0 means restart
+	fresh    bool       // no previous direction to build on: the next compute restarts
 }
 
 func (s *minBowlDirection) reset() {
-	s.steps = 0
+	s.fresh = true
 }
 
 func (s *minBowlDirection) compute(g, d *[3]float32) {
 	var beta float32
-	gg := minBowlDot(g, g)
-	if s.steps > 0 && s.squared > 0 && minBowlAbs(gg-minBowlDot(g, &s.change)) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
-		beta = minBowlLarger(minBowlDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+	gg, gy := minBowlDot(g, g), minBowlDot(g, &s.change)
+	if !s.fresh && s.squared > 0 && minBowlAbs(gg-gy) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
+		beta = minBowlLarger(gy/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
 	}
-	if beta == 0 {
-		s.steps = 0
-	}
-	s.steps++
+	s.fresh = false
 	s.previous = *d
 	s.squared = gg
 }

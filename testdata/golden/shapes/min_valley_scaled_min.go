@@ -915,11 +915,18 @@ func minValleyScaledLarger(a, b float64) float64 {
 func minValleyScaledStationarity(g, e, x *[2]float64, fx float64, b *minValleyScaledBox) (measure, floor float64) {
 	pg, pe := *g, *e
 	for i := range pg {
-		if (x[i] <= b.lower[i] && g[i] > 0) || (x[i] >= b.upper[i] && g[i] < 0) {
+		if minValleyScaledPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, minValleyScaledLarger(0, e[i]-minValleyScaledAbs(g[i]))
 		}
 	}
 	return minValleyScaledGradientMeasure(&pg, &pe, x, fx)
+}
+
+// minValleyScaledPushedAgainst reports whether xᵢ sits on (or within) lower or upper and
+// the gradient component gᵢ pushes it against that bound, so that a
+// descent step −gᵢ would leave the box there. NaN never pushes.
+func minValleyScaledPushedAgainst(xi, gi, lower, upper float64) bool {
+	return (xi <= lower && gi > 0) || (xi >= upper && gi < 0)
 }
 
 // minValleyScaledGradientMeasure is the scale-free measure
@@ -1010,7 +1017,7 @@ func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]f
 		if reach < margin {
 			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
 		}
-		active[i] = (x[i] <= b.lower[i]+margin && g[i] > 0) || (x[i] >= b.upper[i]-margin && g[i] < 0)
+		active[i] = minValleyScaledPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
 		if !active[i] {
 			free[i] = g[i]
 		}
@@ -1020,7 +1027,7 @@ func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]f
 		if active[i] {
 			d[i] = -g[i]
 		}
-		if (x[i] <= b.lower[i] && d[i] < 0) || (x[i] >= b.upper[i] && d[i] > 0) {
+		if minValleyScaledPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
 		}
 	}
