@@ -113,7 +113,7 @@ prediction, the step, and the step and gradient against their limits;
 		run: runTrace,
 	}, {
 		name:    "rules",
-		summary: "list directions, step rules and derivative sources with their parameters",
+		summary: "list directions, step rules and derivative sources with their math, parameters, defaults, ranges and references, and the bounds, scale and combined-objective features",
 		run:     runRules,
 	}, {
 		name:    "version",
