@@ -19,6 +19,8 @@ import (
 //	go test -run '^$' -bench 'Quickstart|PerMinimizer' -count 6 ./gen
 //
 // (the figures are in the README, "How thalweg is built and checked").
+// Those that generate in this process set the collector as the thalweg
+// command does (RoomyHeap), so they measure what a run of it pays.
 
 var quickstartSpec = filepath.Join("..", "examples", "quickstart", "quickstart.toml")
 
@@ -40,6 +42,7 @@ func BenchmarkLoadQuickstart(b *testing.B) {
 // BenchmarkGenerateQuickstart generates the quickstart's two minimizers
 // and their tests in memory, as gen and check do before writing.
 func BenchmarkGenerateQuickstart(b *testing.B) {
+	defer RoomyHeap()()
 	Generate([]string{quickstartSpec}) // warm up
 	for b.Loop() {
 		if _, err := Generate([]string{quickstartSpec}); err != nil {
@@ -52,6 +55,7 @@ func BenchmarkGenerateQuickstart(b *testing.B) {
 // run of thalweg pays for it: every iteration parses and type-checks the
 // kernels again, which a process does once.
 func BenchmarkGenerateQuickstartCold(b *testing.B) {
+	defer RoomyHeap()()
 	defer func() { kernelCache = newKernelCache() }()
 	Generate([]string{quickstartSpec}) // warm up go list
 	for b.Loop() {
@@ -85,6 +89,7 @@ func BenchmarkCheckQuickstartCommand(b *testing.B) {
 // minimizers (a mix of directions, step rules and derivative sources),
 // ns/extra-minimizer = (t₄₁ − t₁)/40.
 func BenchmarkGeneratePerMinimizer(b *testing.B) {
+	defer RoomyHeap()()
 	one, many := benchModule(b, 41)
 	// generate returns the wall and CPU time (this process's threads, GC
 	// included; go list's child process excluded) of one generation.

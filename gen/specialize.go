@@ -340,7 +340,19 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	}
 	fset := ks.printSets.Get().(*token.FileSet)
 	defer ks.printSets.Put(fset)
+	// The copies print about as long as the templates' source, doc
+	// comments included: sized once, the buffer is not grown and copied.
+	size := 0
+	for _, u := range reached {
+		for i, d := range u.decls {
+			size += int(d.End() - d.Pos())
+			if doc := u.comments[i].groups; len(doc) > 0 {
+				size += int(doc[0].End() - doc[0].Pos())
+			}
+		}
+	}
 	var buf bytes.Buffer
+	buf.Grow(size + size/8)
 	for _, u := range reached {
 		for i, d := range u.decls {
 			dc := u.comments[i]
