@@ -15,7 +15,7 @@ const (
 	inkPaper     = "#fbfaf6"
 	inkText      = "#33302b"
 	inkRule      = "#e3dfd4" // grid lines
-	inkGradient  = "#24505a" // slate green: largest |∂f/∂xᵢ| and its limit
+	inkGradient  = "#24505a" // slate green: the gradient test's measure and its limit
 	inkGap       = "#b0502a" // rust: f − final f, the path
 	inkTrials    = "#b0502a" // trials per move
 	inkDiffCalls = "#e2b99f" // calls for differences per move
@@ -30,7 +30,7 @@ func (f frame) right() float64  { return f.left + f.width }
 func (f frame) bottom() float64 { return f.top + f.height }
 
 // WriteTraceSVG draws the run as a hand-written SVG chart. The left
-// panel: the largest |∂f/∂xᵢ| and f − final f per move on a log axis with
+// panel: the gradient test's measure and f − final f per move on a log axis with
 // the gradient limit as a line, and under it the objective calls each
 // move spent, trials and differences. For objectives of two unknowns the
 // right panel draws contours of f over the box the harness sampled, with
@@ -64,6 +64,9 @@ func drawConvergence(b *strings.Builder, res *TraceResult, main, strip frame) {
 		points              [][2]float64 // move, log₁₀ value
 	}
 	grad := series{name: "largest |∂f/∂xᵢ|", color: inkGradient, marker: "circle"}
+	if res.Relative {
+		grad.name = "relative gradient"
+	}
 	gap := series{name: "f − final f", color: inkGap, marker: "square"}
 	positive := func(v float64) bool { return v > 0 && !math.IsInf(v, 0) }
 	low, high := math.Inf(1), math.Inf(-1)

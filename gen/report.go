@@ -47,7 +47,7 @@ var traceColumns = []struct {
 	{"decrease/predicted", "decrease_ratio"},  // (f before − f after) / (−t·∇fᵀd)
 	{"step t", "step_t"},                      // the accepted step along d
 	{"step/limit", "step_over_limit"},         // largest |Δxᵢ|/(|xᵢ|+1) over the step limit; ≤ 1 stops
-	{"gradient/limit", "gradient_over_limit"}, // largest |∂f/∂xᵢ| over the gradient limit; ≤ 1 stops
+	{"gradient/limit", "gradient_over_limit"}, // the gradient test's measure over its limit; ≤ 1 stops
 }
 
 // traceCells is one row's values in traceColumns order; cells that do not
@@ -61,6 +61,20 @@ func traceCells(res *TraceResult, r TraceRow, format func(float64) string, fForm
 		cells[7] = format(ratio(r.StepMeasure, res.Limits.Step))
 	}
 	return cells
+}
+
+// measureWords names the gradient test's measure as the kernel computes
+// it: in the scaled unknowns zᵢ = xᵢ/sᵢ with a scale, where ∂f/∂zᵢ =
+// sᵢ·∂f/∂xᵢ.
+func (res *TraceResult) measureWords() string {
+	partial, unknown := "∂f/∂xᵢ", "xᵢ"
+	if res.Scale != nil {
+		partial, unknown = "sᵢ·∂f/∂xᵢ", "zᵢ"
+	}
+	if res.Relative {
+		return fmt.Sprintf("the relative gradient max |%s|·max(|%s|, 1)/max(|f|, 1)", partial, unknown)
+	}
+	return fmt.Sprintf("the largest |%s|", partial)
 }
 
 // ratio is measure/limit, +Inf for a positive measure over a zero limit.
@@ -81,11 +95,11 @@ func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
 	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, source, formatNumbers(p.M.Start))
 	l := res.Limits
 	if res.Scale != nil {
-		fmt.Fprintf(w, "in the scaled unknowns zᵢ = xᵢ/sᵢ, s = %s: stops when the largest |sᵢ·∂f/∂xᵢ| ≤ %s or every |Δzᵢ| ≤ %s·(|zᵢ| + 1), after at most %d moves and %d objective calls\n\n",
-			formatNumbers(res.Scale), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+		fmt.Fprintf(w, "in the scaled unknowns zᵢ = xᵢ/sᵢ, s = %s: stops when %s ≤ %s or every |Δzᵢ| ≤ %s·(|zᵢ| + 1), after at most %d moves and %d objective calls\n\n",
+			formatNumbers(res.Scale), res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
 	} else {
-		fmt.Fprintf(w, "stops when the largest |∂f/∂xᵢ| ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
-			compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+		fmt.Fprintf(w, "stops when %s ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
+			res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
 	}
 	differences := p.Derivative != rules.Analytic
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)

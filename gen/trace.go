@@ -11,6 +11,8 @@ import (
 	"strings"
 
 	"github.com/dave/jennifer/jen"
+
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // TraceRow is the state after the first gradient (iteration 0, the start)
@@ -23,7 +25,7 @@ type TraceRow struct {
 	Trials        int     // trial points this step's line search evaluated (0 at the start)
 	GradientCalls int     // objective calls for finite differences in this step (at the start, the first gradient's)
 	F             float64 // f(x)
-	Gradient      float64 // largest |∂f/∂xᵢ|, with bounds of the projected gradient (components pushing against a bound they sit on count as 0)
+	Gradient      float64 // the gradient test's measure without error bounds (relative or largest |∂f/∂xᵢ|), with bounds of the projected gradient (components pushing against a bound they sit on count as 0)
 	Step          float64 // the accepted step t along d (0 at the start)
 	Slope         float64 // ∇fᵀd where this step's search began (0 at the start)
 	X             []float64
@@ -79,6 +81,9 @@ type TraceResult struct {
 	// Scale is the spec's scale, nil without one: the step test then
 	// measures the scaled unknowns xᵢ/sᵢ.
 	Scale []float64
+	// Relative reports that Gradient is the relative gradient (the spec's
+	// stop.gradient_test), not the largest |∂f/∂xᵢ|.
+	Relative bool
 }
 
 // Names of the hooks in the instrumented copy and of the harness's helpers.
@@ -114,6 +119,7 @@ func Trace(p *Plan) (*TraceResult, error) {
 	if err != nil {
 		return nil, err
 	}
+	res.Relative = p.M.Test == rules.Relative
 	if p.Scaled() {
 		res.Scale = p.M.Scale
 		res.derive()
@@ -180,6 +186,13 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 	// With bounds, the projected gradient: a component pushing against a
 	// bound it sits on counts as 0.
 	gradientIndex, projected := jen.Id("_"), []jen.Code(nil)
+	size := jen.Qual("math", "Abs").Call(float(jen.Id("v")))
+	if p.M.Test == rules.Relative {
+		// The relative gradient, as the kernel's stop test measures it
+		// (in the scaled unknowns with a scale).
+		gradientIndex = jen.Id("i")
+		size = size.Op("*").Qual("math", "Max").Call(jen.Qual("math", "Abs").Call(float(jen.Id(point).Index(jen.Id("i")))), jen.Lit(1.0)).Op("/").Qual("math", "Max").Call(jen.Qual("math", "Abs").Call(float(jen.Id("fx"))), jen.Lit(1.0))
+	}
 	if p.Bounded {
 		gradientIndex = jen.Id("i")
 		projected = []jen.Code{
@@ -194,7 +207,7 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 	).Block(append(unscale,
 		jen.Id("largest").Op(":=").Lit(0.0),
 		jen.For(jen.List(gradientIndex, jen.Id("v")).Op(":=").Range().Id("g")).Block(append(projected,
-			jen.If(jen.Id("a").Op(":=").Qual("math", "Abs").Call(float(jen.Id("v"))), jen.Id("a").Op(">").Id("largest").Op("||").Id("a").Op("!=").Id("a")).Block(jen.Id("largest").Op("=").Id("a")),
+			jen.If(jen.Id("a").Op(":=").Add(size), jen.Id("a").Op(">").Id("largest").Op("||").Id("a").Op("!=").Id("a")).Block(jen.Id("largest").Op("=").Id("a")),
 		)...),
 		jen.Id("row").Op(":=").Index().Byte().Call(jen.Qual("fmt", "Sprintf").Call(jen.Lit("thalweg-trace\t%d\t%d\t%d"), jen.Id("iteration"), jen.Id("evaluations"), jen.Id("thalwegTraceTrials"))),
 		appendFloat("row", float(jen.Id("fx"))),

@@ -25,7 +25,7 @@ func TestParseTrace(t *testing.T) {
 		"thalweg-trial\t5.1\t-1\t1.25",
 		"thalweg-trace\t1\t12\t2\t5.1\t38\t0.5\t-100\t-1\t1.25",
 		"thalweg-trial\t6\t-1\t2",
-		"thalweg-result\tstep tiny\ttrue\t1\t13\t5.1\t1",
+		"thalweg-result\tgradient small\ttrue\t1\t13\t5.1\t1",
 		"thalweg-grid\t2\t-2\t2\t0\t4",
 		"thalweg-gridrow\t1\t2\t3",
 		"thalweg-gridrow\t4\tNaN\t+Inf",
@@ -39,7 +39,7 @@ func TestParseTrace(t *testing.T) {
 	if res.Limits != (TraceLimits{Gradient: 1e-8, Step: 1e-14, Iterations: 500, Evaluations: 100}) {
 		t.Errorf("limits %+v", res.Limits)
 	}
-	if res.Status != "step tiny" || !res.Converged || res.Iterations != 1 || res.Evaluations != 13 || res.F != 5.1 || res.LastTrials != 1 {
+	if res.Status != "gradient small" || !res.Converged || res.Iterations != 1 || res.Evaluations != 13 || res.F != 5.1 || res.LastTrials != 1 {
 		t.Errorf("result %+v", res)
 	}
 	if len(res.Rows) != 2 {
@@ -81,7 +81,7 @@ func TestParseTrace(t *testing.T) {
 func TestTraceTable(t *testing.T) {
 	res := syntheticTrace(false)
 	res.Rows = append(res.Rows, TraceRow{Iteration: 4, Evaluations: 7, Trials: 2, F: 0, Gradient: 1e-10, Step: 1, Slope: -1e-40, X: []float64{0, 0}})
-	res.Iterations, res.Evaluations, res.LastTrials, res.Status = 4, 10, 3, "step tiny"
+	res.Iterations, res.Evaluations, res.LastTrials, res.Status = 4, 10, 3, "gradient small"
 	res.derive()
 	var buf bytes.Buffer
 	if err := WriteTraceTable(&buf, tracePlan(2), res); err != nil {
@@ -105,7 +105,7 @@ func TestTraceTable(t *testing.T) {
 			t.Errorf("table line %d: %q, want %q", i, got, w)
 		}
 	}
-	if !strings.Contains(buf.String(), "\nstep tiny (converged) after 4 iterations and 10 objective calls; f = 0\nthe last line search spent 3 trials and accepted none\n") {
+	if !strings.Contains(buf.String(), "\ngradient small (converged) after 4 iterations and 10 objective calls; f = 0\nthe last line search spent 3 trials and accepted none\n") {
 		t.Errorf("outcome lines missing:\n%s", buf.String())
 	}
 

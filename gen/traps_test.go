@@ -1,6 +1,7 @@
 package gen
 
 import (
+	"bytes"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -173,6 +174,28 @@ start = [-1.2, 1.0]
 	}
 	if calls >= 1000 {
 		t.Errorf("lbfgs with defaults on Rosenbrock: want fewer than 1000 evaluations, got:\n%s", bench)
+	}
+
+	// The trace shows the test the run used: Heavy's f of 86 000 makes the
+	// relative gradient 1/86 000 of the largest |∂f/∂xᵢ|, which the trace
+	// once showed against the limit, so that a converged run's last row
+	// stood far above it.
+	for _, p := range plans {
+		if p.M.Name != "HeavyDefaults" {
+			continue
+		}
+		res, err := Trace(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var table bytes.Buffer
+		if err := WriteTraceTable(&table, p, res); err != nil {
+			t.Fatal(err)
+		}
+		last := res.Rows[len(res.Rows)-1]
+		if !res.Converged || !(last.Gradient <= res.Limits.Gradient) || !strings.Contains(table.String(), "stops when the relative gradient max |∂f/∂xᵢ|·max(|xᵢ|, 1)/max(|f|, 1) ≤ 1e-8") {
+			t.Errorf("HeavyDefaults traced: %s, last row's gradient measure %g over a limit of %g\n%s", res.Status, last.Gradient, res.Limits.Gradient, table.String())
+		}
 	}
 
 	// cg with armijo is refused.
