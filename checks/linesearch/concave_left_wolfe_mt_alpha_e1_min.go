@@ -87,7 +87,7 @@ func ConcaveLeftWolfeMTAlphaE1DefaultLimits() ConcaveLeftWolfeMTAlphaE1Limits {
 	return ConcaveLeftWolfeMTAlphaE1Limits{
 		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-14,
 	}
 }
@@ -102,9 +102,9 @@ type concaveLeftWolfeMTAlphaE1Box struct{}
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.958020050125313e+07, c1 0.01, c2 0.1, at most 72 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 360073). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 1440073). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveLeftWolfeMTAlphaE1(x0 float64) ConcaveLeftWolfeMTAlphaE1Result {
 	return ConcaveLeftWolfeMTAlphaE1WithLimits(x0, ConcaveLeftWolfeMTAlphaE1DefaultLimits())

@@ -87,7 +87,7 @@ func BealeBFGSAnalyticDefaultLimits() BealeBFGSAnalyticLimits {
 	return BealeBFGSAnalyticLimits{
 		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-14,
 	}
 }
@@ -102,9 +102,9 @@ type bealeBFGSAnalyticBox struct{}
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 960049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func BealeBFGSAnalytic(x0 [2]float64) BealeBFGSAnalyticResult {
 	return BealeBFGSAnalyticWithLimits(x0, BealeBFGSAnalyticDefaultLimits())

@@ -37,6 +37,15 @@ type outcome struct {
 // second order in x − x*.
 const fTol = 1e-10
 
+// fTolIllConditioned replaces fTol where the gradient test itself allows
+// more: near x*, f − f* ≈ ½gᵀ∇²f(x*)⁻¹g ≤ ‖g‖₂²/(2λ_min), and a run that
+// passes the default test (each |gᵢ| ≤ 1e-8 when |f| ≤ 1) may stop up to
+// n·(1e-8)²/(2λ_min) above f*. That exceeds 1e-10 only on Watson 9.
+var fTolIllConditioned = map[string]float64{
+	// λ_min 3.2e-7 (computed here, see expectations): 9·1e-16/6.4e-7.
+	"Watson9": 1.4e-9,
+}
+
 // expectation is what a run of one problem must reach: x within xTol of
 // one of the recorded minimizers, componentwise relative to
 // max(1, |x*ᵢ|), with f within fTol of that minimizer's value.
@@ -175,20 +184,8 @@ var exclusions = map[string]exclusion{
 		"as PowellBadlyScaledCGAnalytic, PR+ CG stalls in the valley, at f ≈ 1.5e-7: stalled, not converged",
 		"MGH (3) is badly scaled by design; functions.go: \"very flat near the minimum\"",
 	},
-	"Watson9LBFGSAnalytic": {
-		"out of iterations at the default 5000 (f = 3.4e-6); L-BFGS (5 pairs) needs about 17 000",
-		"functions.go Watson: \"For dim == 9, the problem of minimizing the function is very ill conditioned\"; λ_min/λ_max of ∇²f(x*) ≈ 3.2e-7/539 (computed here)",
-	},
-	"Watson9LBFGSCentral": {
-		"out of iterations at the default 5000 (f = 4.8e-6)",
-		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"",
-	},
-	"Watson9CGAnalytic": {
-		"out of iterations at the default 5000 (f = 1.5e-6)",
-		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"; CG's rate degrades with the condition number (Nocedal & Wright 2006, §5.1)",
-	},
 	"Watson9CGCentral": {
-		"out of evaluations at the default 200 000 (f = 6.8e-6)",
+		"out of evaluations at the default 200 000 (f = 6.9e-6, 4375 iterations); with the analytic gradient PR+ CG needs 7932 iterations here, and the differences' error slows it further (at 5 million calls it stalls at f = 1.40141e-6, the minimum being 1.39976e-6)",
 		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"",
 	},
 }
@@ -220,8 +217,10 @@ func problemOf(name string) Problem {
 	return Problem{}
 }
 
-// reaches reports whether o is at one of e's recorded minima, and which.
-func reaches(e expectation, o outcome) (functions.Minimum, bool) {
+// reaches reports whether o is at one of e's recorded minima, and which;
+// e is the expectation of the named problem.
+func reaches(problem string, e expectation, o outcome) (functions.Minimum, bool) {
+	fTol := fTolOf(problem)
 	for _, m := range e.minima {
 		near := true
 		for i := range m.X {
@@ -237,6 +236,14 @@ func reaches(e expectation, o outcome) (functions.Minimum, bool) {
 		return functions.Minimum{X: o.X, F: 0}, true
 	}
 	return functions.Minimum{}, false
+}
+
+// fTolOf is the tolerance on f for a problem: fTolIllConditioned's, or fTol.
+func fTolOf(problem string) float64 {
+	if t, ok := fTolIllConditioned[problem]; ok {
+		return t
+	}
+	return fTol
 }
 
 // fUlps bounds how far F may be from gonum's Func at X, in units in the
@@ -306,7 +313,7 @@ func checkRun(t *testing.T, p Problem, e expectation, dir, der string) string {
 			t.Errorf("%s: converged claiming a gradient measure ≤ %g, but gonum's gradient gives %g at X", name, o.GradientLimit, m)
 		}
 	}
-	_, atMinimum := reaches(e, o)
+	_, atMinimum := reaches(p.Name, e, o)
 	pass := o.Converged && atMinimum
 	check := "ok"
 	ex, excluded := exclusions[name]
@@ -319,7 +326,7 @@ func checkRun(t *testing.T, p Problem, e expectation, dir, der string) string {
 		t.Errorf("%s: status %s after %d iterations, %d evaluations; f = %g, gradient %g (limit %g), x = %v", name, o.Status, o.Iterations, o.Evaluations, o.F, o.Gradient, o.GradientLimit, o.X)
 		check = "FAIL"
 	case !atMinimum:
-		t.Errorf("%s: %s at f = %.17g, x = %v: no recorded minimum within x tol %g, f tol %g", name, o.Status, o.F, o.X, e.xTol, fTol)
+		t.Errorf("%s: %s at f = %.17g, x = %v: no recorded minimum within x tol %g, f tol %g", name, o.Status, o.F, o.X, e.xTol, fTolOf(p.Name))
 		check = "FAIL"
 	}
 	return fmt.Sprintf("| %s (%d) | %d | %s | %s | %s | %d | %d | %.6g | %s |\n",
@@ -375,7 +382,7 @@ with the strong Wolfe rule (c1 = 1e-4, c2 = 0.1); converged when the
 relative gradient measure max |gᵢ|·max(|xᵢ|, 1)/max(|f|, 1) is at most
 1e-8 (raised with central differences to three times the measure of their
 error bound, and at a stall to ten times), stalled when no step above
-1e-14·(|xᵢ| + 1) makes progress; at most 5000 iterations and 200 000
+1e-14·(|xᵢ| + 1) makes progress; at most 20 000 iterations and 200 000
 evaluations. Evaluations count objective calls, finite differences and
 their calibration included. A converged run's gradient measure from
 gonum's gradient is at most ten times the limit it reports. "problem"

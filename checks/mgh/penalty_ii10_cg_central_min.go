@@ -87,7 +87,7 @@ func PenaltyII10CGCentralDefaultLimits() PenaltyII10CGCentralLimits {
 	return PenaltyII10CGCentralLimits{
 		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-14,
 	}
 }
@@ -102,9 +102,9 @@ type penaltyII10CGCentralBox struct{}
 // Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient and 40 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 5441149). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient and 40 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 21761149). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyII10CGCentral(x0 [10]float64) PenaltyII10CGCentralResult {
 	return PenaltyII10CGCentralWithLimits(x0, PenaltyII10CGCentralDefaultLimits())

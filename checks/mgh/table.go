@@ -54,9 +54,6 @@ var ExpectedEnds = map[string]string{
 	"PowellBadlyScaledBFGSCentral": "stalled",
 	"PowellBadlyScaledCGAnalytic":  "stalled",
 	"PowellBadlyScaledCGCentral":   "stalled",
-	"Watson9LBFGSAnalytic":         "out of iterations",
-	"Watson9LBFGSCentral":          "out of iterations",
-	"Watson9CGAnalytic":            "out of iterations",
 	"Watson9CGCentral":             "out of evaluations",
 }
 

@@ -87,7 +87,7 @@ func ReachDefaultLimits() ReachLimits {
 	return ReachLimits{
 		Evaluations: 200000,
 		Gradient:    1e-06,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-06,
 	}
 }
@@ -105,9 +105,9 @@ type reachBox struct {
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Bounds [-0.5, 2] × [0.1, 2.6]: box bounds lower ≤ x ≤ upper (either side optional per variable, ±inf allowed); the start is projected into the box and the objective is never evaluated outside it; Gradient is the measure of the projected gradient (zero in components pushing against a bound they sit on).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 21 trials per line search.
-// Default stop: gradient measure ≤ 1e-06, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-06, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 105022 objective calls (the bound the iteration limit sets, below the evaluation cap of 200000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 420022). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Reach(recv *Arm, x0 [2]float32) ReachResult {
 	return ReachWithLimits(recv, x0, ReachDefaultLimits())

@@ -87,7 +87,7 @@ func MinBowlDefaultLimits() MinBowlLimits {
 	return MinBowlLimits{
 		Evaluations: 200000,
 		Gradient:    0.0001,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-06,
 	}
 }
@@ -102,9 +102,9 @@ type minBowlBox struct{}
 // Derivative forward: forward differences: dim objective calls per gradient, intervals from the objective's curvature, error O(√u).
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 21 trials per line search.
-// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 3 of them per gradient and 6 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 480106). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 3 of them per gradient and 6 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 1920106). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinBowl(x0 [3]float32) MinBowlResult {
 	return MinBowlWithLimits(x0, MinBowlDefaultLimits())

@@ -87,7 +87,7 @@ func MinValleyCostDefaultLimits() MinValleyCostLimits {
 	return MinValleyCostLimits{
 		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-14,
 	}
 }
@@ -102,9 +102,9 @@ type minValleyCostBox struct{}
 // Derivative analytic, from the objective itself: the objective returns its value and writes its gradient through g in the same call, so a computation the two share is paid once per point; each such call is one objective call.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, each giving the value and the gradient, 2 of them for the curvature probes of a stall (the evaluation cap; the iteration limit alone would allow 240051). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, each giving the value and the gradient, 2 of them for the curvature probes of a stall (the evaluation cap; the iteration limit alone would allow 960051). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinValleyCost(recv *Valley, x0 [2]float64) MinValleyCostResult {
 	return MinValleyCostWithLimits(recv, x0, MinValleyCostDefaultLimits())

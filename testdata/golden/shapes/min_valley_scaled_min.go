@@ -88,7 +88,7 @@ func MinValleyScaledDefaultLimits() MinValleyScaledLimits {
 	return MinValleyScaledLimits{
 		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-14,
 	}
 }
@@ -107,9 +107,9 @@ type minValleyScaledBox struct {
 // Bounds [-inf, inf] × [-1.5, inf]: box bounds lower ≤ x ≤ upper (either side optional per variable, ±inf allowed); the start is projected into the box and the objective is never evaluated outside it; Gradient is the measure of the projected gradient (zero in components pushing against a bound they sit on).
 // Scale 0.5, 4: the kernels work in zᵢ = xᵢ/sᵢ, s the typical magnitude of each unknown, and report X in the user's units; Gradient and the gradient limit apply to the scaled gradient sᵢ·∂f/∂xᵢ, the step limit to the scaled step, and difference steps are taken in z.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 960049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinValleyScaled(recv *Valley, x0 [2]float64) MinValleyScaledResult {
 	return MinValleyScaledWithLimits(recv, x0, MinValleyScaledDefaultLimits())

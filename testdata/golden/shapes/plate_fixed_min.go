@@ -87,7 +87,7 @@ func MinPlateDefaultLimits() MinPlateLimits {
 	return MinPlateLimits{
 		Evaluations: 200000,
 		Gradient:    0.0001,
-		Iterations:  5000,
+		Iterations:  20000,
 		Step:        1e-06,
 	}
 }
@@ -102,9 +102,9 @@ type minPlateBox struct{}
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 0.2.
-// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 20000 iterations, 200000 objective calls.
 //
-// Worst case: 5002 objective calls (the bound the iteration limit sets, below the evaluation cap of 200000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 20002 objective calls (the bound the iteration limit sets, below the evaluation cap of 200000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlate(x0 [2]float32) MinPlateResult {
 	return MinPlateWithLimits(x0, MinPlateDefaultLimits())
