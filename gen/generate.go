@@ -176,6 +176,12 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 	names := map[string]*Plan{} // package dir + name → plan
 	clashed := map[[2]*Plan]bool{}
 	userNames := map[*loadedPackage]map[string]token.Pos{}
+	otherNames := map[*loadedPackage]map[string]token.Pos{}
+	specs := map[string]bool{} // the specs of this run, by absolute path
+	for _, p := range plans {
+		abs, _ := filepath.Abs(p.Spec.Path)
+		specs[abs] = true
+	}
 	for i, p := range plans {
 		for _, path := range []string{p.Output, p.TestFile} {
 			abs, _ := filepath.Abs(path)
@@ -187,6 +193,7 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 		declared := slices.Sorted(slices.Values(declaredBy[i]))
 		if userNames[p.pkg] == nil {
 			userNames[p.pkg] = p.pkg.names(false)
+			otherNames[p.pkg] = p.pkg.otherSpecsNames(specs)
 		}
 		// The generated files import math and testing: a package-level
 		// name of either would clash with the import.
@@ -205,6 +212,15 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 			if pos, ok := userNames[p.pkg][n]; ok {
 				probs.add(p.pkg.position(pos), "%s is already declared in package %s; minimizer %s generates a declaration of that name (rename one of them)", n, p.Shape.Package, p.M.Name)
 			}
+			if pos, ok := otherNames[p.pkg][n]; ok && !clashed[[2]*Plan{p, nil}] {
+				clashed[[2]*Plan{p, nil}] = true
+				at := p.pkg.position(pos)
+				from := "another spec"
+				if data, err := os.ReadFile(at.File); err == nil {
+					from = headerSpec(data)
+				}
+				probs.add(at, "%s (and more) is already declared here, in a file thalweg generated from %s; minimizer %s of %s generates a declaration of that name: rename one of the minimizers, or delete this file if its spec no longer asks for it", n, from, p.M.Name, displayPath(p.Spec.Path))
+			}
 		}
 	}
 }
@@ -215,27 +231,6 @@ func Write(outs []Output) error {
 	return err
 }
 
-// WriteChanged writes the outputs whose file is missing or differs and
-// returns their paths; a file that already holds the output's bytes is
-// left untouched, modification time included. It first checks every
-// target (see CheckTargets) and writes nothing when one is refused. Each
-// file is written to a temporary file beside it and renamed into place.
-func WriteChanged(outs []Output) (written []string, err error) {
-	if err := CheckTargets(outs); err != nil {
-		return nil, err
-	}
-	for _, o := range outs {
-		if data, err := os.ReadFile(o.Path); err == nil && bytes.Equal(data, o.Data) {
-			continue
-		}
-		if err := writeAtomic(o.Path, o.Data); err != nil {
-			return written, err
-		}
-		written = append(written, displayPath(o.Path))
-	}
-	return written, nil
-}
-
 // CheckTargets refuses every output whose file exists without thalweg's
 // header: thalweg never overwrites code it did not write.
 func CheckTargets(outs []Output) error {
@@ -244,6 +239,8 @@ func CheckTargets(outs []Output) error {
 		data, err := os.ReadFile(o.Path)
 		switch {
 		case os.IsNotExist(err):
+		case isDirectory(o.Path):
+			probs.add(Pos{displayPath(o.Path), 1, 1}, "refusing to write: the output path is a directory")
 		case err != nil:
 			probs.add(Pos{displayPath(o.Path), 1, 1}, "%v", err)
 		case !hasHeader(data):
@@ -255,28 +252,10 @@ func CheckTargets(outs []Output) error {
 	return probs.Err()
 }
 
-func writeAtomic(path string, data []byte) error {
-	tmp, err := os.CreateTemp(filepath.Dir(path), ".thalweg-*.tmp")
-	if err != nil {
-		return err
-	}
-	defer os.Remove(tmp.Name()) // no-op after the rename
-	if _, err := tmp.Write(data); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Chmod(0o644); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Sync(); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
+// isDirectory reports whether path names a directory.
+func isDirectory(path string) bool {
+	info, err := os.Stat(path)
+	return err == nil && info.IsDir()
 }
 
 // Stale lists the outputs whose file is missing or differs.

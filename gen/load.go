@@ -152,24 +152,59 @@ func (lp *loadedPackage) names(generated bool) map[string]token.Pos {
 		if lp.files[lp.pkg.Fset.Position(f.Pos()).Filename] != generated {
 			continue
 		}
-		for _, d := range f.Decls {
-			switch d := d.(type) {
-			case *ast.FuncDecl:
-				if d.Recv == nil {
-					names[d.Name.Name] = d.Name.Pos()
-				}
-			case *ast.GenDecl:
-				for _, s := range d.Specs {
-					switch s := s.(type) {
-					case *ast.TypeSpec:
-						names[s.Name.Name] = s.Name.Pos()
-					case *ast.ValueSpec:
-						for _, n := range s.Names {
-							names[n.Name] = n.Pos()
-						}
+		for name, pos := range fileDeclarations(f) {
+			names[name] = pos
+		}
+	}
+	return names
+}
+
+// fileDeclarations maps each package-level name f declares to its position.
+func fileDeclarations(f *ast.File) map[string]token.Pos {
+	names := map[string]token.Pos{}
+	for _, d := range f.Decls {
+		switch d := d.(type) {
+		case *ast.FuncDecl:
+			if d.Recv == nil {
+				names[d.Name.Name] = d.Name.Pos()
+			}
+		case *ast.GenDecl:
+			for _, s := range d.Specs {
+				switch s := s.(type) {
+				case *ast.TypeSpec:
+					names[s.Name.Name] = s.Name.Pos()
+				case *ast.ValueSpec:
+					for _, n := range s.Names {
+						names[n.Name] = n.Pos()
 					}
 				}
 			}
+		}
+	}
+	return names
+}
+
+// otherSpecsNames maps each package-level name declared in a file thalweg
+// generated from a spec outside specs (absolute spec paths) to its
+// declaration: that file stays when this run writes its own, so a name
+// it declares is taken, as one of the user's would be.
+func (lp *loadedPackage) otherSpecsNames(specs map[string]bool) map[string]token.Pos {
+	names := map[string]token.Pos{}
+	for _, f := range lp.pkg.Syntax {
+		file := lp.pkg.Fset.Position(f.Pos()).Filename
+		if !lp.files[file] {
+			continue
+		}
+		data, err := os.ReadFile(file)
+		if err != nil {
+			continue
+		}
+		spec, _ := filepath.Abs(filepath.Join(filepath.Dir(file), filepath.FromSlash(headerSpec(data))))
+		if specs[spec] {
+			continue // this run replaces it, or reports it as an orphan
+		}
+		for name, pos := range fileDeclarations(f) {
+			names[name] = pos
 		}
 	}
 	return names

@@ -530,6 +530,31 @@ func TestGenReportsNameClashOnce(t *testing.T) {
 	}
 }
 
+// A second spec whose minimizer takes a name that another spec's output
+// already declares is refused at that declaration, and nothing is
+// written: the package would no longer compile.
+func TestGenRefusesNameTakenByAnotherSpec(t *testing.T) {
+	root := quickstartModule(t)
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	writeFile(t, "second.toml", "[[minimizer]]\nname = \"TuneGain\"\nobjective = \"GainCost\"\noutput = \"second_min.go\"\nstart = 3.0\n")
+	before := snapshot(t, root)
+	code, _, stderr := thalweg("gen", "second.toml")
+	want := "tune_gain_min.go:"
+	if code != 2 || !strings.HasPrefix(strings.TrimSpace(stderr), want) || !strings.Contains(stderr, "is already declared here, in a file thalweg generated from quickstart.toml; minimizer TuneGain of second.toml generates a declaration of that name") {
+		t.Errorf("gen exited %d, want 2 with a problem at %s…, got:\n%s", code, want, stderr)
+	}
+	if diff := sameFiles(before, snapshot(t, root)); diff != "" {
+		t.Errorf("a refused gen changed files:\n%s", diff)
+	}
+	// Regenerating the first spec alone still works: its own files are
+	// replaced, not counted as taken.
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
+		t.Errorf("regenerating quickstart.toml exited %d:\n%s", code, stderr)
+	}
+}
+
 // init writes a starter spec with every key, proposes a fitting gradient
 // and instance, and never overwrites. Its start is nan, which gen refuses
 // until the user writes a real one: a start of zeros is often stationary.
