@@ -27,7 +27,10 @@ import (
 //     with both the backtracking and the Wolfe rules;
 //   - a stationary start converged in 0 iterations and every generated
 //     test passed: the generated convergence test now fails, saying why;
-//   - cg took armijo by default: now strong-wolfe, and armijo is refused.
+//   - cg took armijo by default: now strong-wolfe, and armijo is refused;
+//   - gradients near 1e200 made ∇fᵀd overflow to −Inf, and every
+//     direction ended "no acceptable step" at the start: now the search
+//     direction is shortened until the slope is finite, and all converge.
 //
 // (A method on a receiver with data, which ran its tests on the zero
 // value, is refused by gen; cmd/thalweg's TestInit covers it.)
@@ -63,6 +66,18 @@ func Bowl(x [2]float64) float64 { return 2 * (x[0]*x[0] + x[1]*x[1]) }
 
 // BowlGrad is Bowl's gradient.
 func BowlGrad(x [2]float64) [2]float64 { return [2]float64{4 * x[0], 4 * x[1]} }
+
+// Huge is 1e200·((x₀ − 1)² + (x₁ + 2)²), with gradients near 1e200 at
+// the start, where ∇fᵀd overflowed to −Inf and every trial was rejected.
+func Huge(x [2]float64) float64 {
+	a, b := x[0]-1, x[1]+2
+	return 1e200 * (a*a + b*b)
+}
+
+// HugeGrad is Huge's gradient.
+func HugeGrad(x [2]float64) [2]float64 {
+	return [2]float64{2e200 * (x[0] - 1), 2e200 * (x[1] + 2)}
+}
 
 // WrongGrad flips the sign of Bowl's first gradient component.
 func WrongGrad(x [2]float64) [2]float64 { return [2]float64{-4 * x[0], 4 * x[1]} }
@@ -120,6 +135,50 @@ gradient = "BowlGrad"
 start = [0.0, 0.0]
 
 [[minimizer]]
+name = "HugeSteepest"
+objective = "Huge"
+derivative = "analytic"
+gradient = "HugeGrad"
+direction = "steepest"
+start = [3.0, 3.0]
+[minimizer.expect]
+x = [1.0, -2.0]
+tolerance = 1e-9
+
+[[minimizer]]
+name = "HugeBfgs"
+objective = "Huge"
+derivative = "analytic"
+gradient = "HugeGrad"
+direction = "bfgs"
+start = [3.0, 3.0]
+[minimizer.expect]
+x = [1.0, -2.0]
+tolerance = 1e-9
+
+[[minimizer]]
+name = "HugeLbfgs"
+objective = "Huge"
+derivative = "analytic"
+gradient = "HugeGrad"
+direction = "lbfgs"
+start = [3.0, 3.0]
+[minimizer.expect]
+x = [1.0, -2.0]
+tolerance = 1e-9
+
+[[minimizer]]
+name = "HugeCg"
+objective = "Huge"
+derivative = "analytic"
+gradient = "HugeGrad"
+direction = "cg"
+start = [3.0, 3.0]
+[minimizer.expect]
+x = [1.0, -2.0]
+tolerance = 1e-9
+
+[[minimizer]]
 name = "CgDefaults"
 objective = "Rosen"
 direction = "cg"
@@ -152,7 +211,7 @@ start = [-1.2, 1.0]
 	cmd.Env = append(os.Environ(), "GOWORK=off", "GOFLAGS=-mod=mod")
 	out, _ := cmd.CombinedOutput() // the stationary start's test must fail
 	text := string(out)
-	for _, pass := range []string{"TestLbfgsDefaultsConverges", "TestHeavyDefaultsConverges", "TestTooLongEndsWithDiverged", "TestWrongArmijoEndsWithNoDecrease", "TestWrongWolfeEndsWithNoDecrease", "TestCgDefaultsConverges"} {
+	for _, pass := range []string{"TestLbfgsDefaultsConverges", "TestHeavyDefaultsConverges", "TestTooLongEndsWithDiverged", "TestWrongArmijoEndsWithNoDecrease", "TestWrongWolfeEndsWithNoDecrease", "TestCgDefaultsConverges", "TestHugeSteepestConverges", "TestHugeBfgsConverges", "TestHugeLbfgsConverges", "TestHugeCgConverges"} {
 		if !regexp.MustCompile(`(?m)^--- PASS: ` + pass + ` `).MatchString(text) {
 			t.Errorf("%s did not pass:\n%s", pass, text)
 		}

@@ -22,6 +22,7 @@ func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny el
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+	slope, tiny = shortenAlong(g, d, slope, tiny)
 	t := first
 	var previous, fPrevious elem
 	var trend riseTrend

@@ -189,3 +189,29 @@ func TestWarmStartKeepsMemory(t *testing.T) {
 		t.Errorf("advancing an ended run: %+v after %d calls", again, recv.calls-calls)
 	}
 }
+
+// shrinkDirection makes ∇fᵀd finite where it overflowed, keeping d's
+// direction: first to a largest component of 1, then, with gradients
+// near the largest float, down by the largest |gᵢ| as well.
+func TestShrinkDirection(t *testing.T) {
+	for _, size := range []elem{2e200, 1.2e308} {
+		var g, d vec
+		for i := range g {
+			g[i] = size * (1 - 0.1*elem(i)) // 1.2e308: still overflows with |dᵢ| ≤ 1
+			d[i] = -g[i]
+		}
+		if finite(dot(&g, &d)) {
+			t.Fatalf("gradient %g: the test needs ∇fᵀd to overflow", size)
+		}
+		shrinkDirection(&d, &g)
+		slope := dot(&g, &d)
+		if !finite(slope) || !(slope < 0) {
+			t.Errorf("gradient %g: ∇fᵀd = %g after shrinking", size, slope)
+		}
+		for i := range d {
+			if ratio, want := d[i]/d[0], 1-0.1*elem(i); abs(ratio-want) > 1e-12 {
+				t.Errorf("gradient %g: d turned: d[%d]/d[0] = %g, want %g", size, i, ratio, want)
+			}
+		}
+	}
+}

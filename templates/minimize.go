@@ -273,6 +273,9 @@ func (r *descent) search(recv *receiver) {
 	var xt, gt vec
 	found := lineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !finite(now) {
+		now = dot(&r.g, &r.d) // the search shortened d (see shortenAlong)
+	}
 	switch found.end {
 	case searchOutOfBudget:
 		r.finish(statusOutOfEvaluations)

@@ -113,3 +113,39 @@ func tinyStep(x, d *vec, tol elem) elem {
 	}
 	return tiny
 }
+
+// shortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (shrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func shortenAlong(g, d *vec, slope, tiny elem) (elem, elem) {
+	if finite(slope) || !finiteVec(d) {
+		return slope, tiny
+	}
+	before := maxAbs(d)
+	shrinkDirection(d, g)
+	return dot(g, d), tiny * (before / maxAbs(d))
+}
+
+// shrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func shrinkDirection(d, g *vec) {
+	if m := maxAbs(d); m > 0 {
+		scaleBy(d, 1/m)
+	}
+	if !finite(dot(g, d)) {
+		if m := maxAbs(g); m > 1 {
+			scaleBy(d, 1/m)
+		}
+	}
+}
+
+// scaleBy sets x = c·x.
+func scaleBy(x *vec, c elem) {
+	for i := range x {
+		x[i] *= c
+	}
+}

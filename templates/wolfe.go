@@ -33,6 +33,7 @@ type linePoint struct {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+	slope, tiny = shortenAlong(g, d, slope, tiny)
 	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket

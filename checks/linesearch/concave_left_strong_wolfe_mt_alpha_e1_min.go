@@ -470,6 +470,9 @@ func (r *concaveLeftStrongWolfeMTAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftStrongWolfeMTAlphaE1Finite(now) {
+		now = concaveLeftStrongWolfeMTAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveLeftStrongWolfeMTAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftStrongWolfeMTAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveLeftStrongWolfeMTAlphaE1OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveLeftStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) floa
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) concaveLeftStrongWolfeMTAlphaE1LineResult {
+	slope, tiny = concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveLeftStrongWolfeMTAlphaE1LineResult struct {
 
 // concaveLeftStrongWolfeMTAlphaE1SearchEnd tells how a line search ended.
 type concaveLeftStrongWolfeMTAlphaE1SearchEnd uint8
+
+// concaveLeftStrongWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftStrongWolfeMTAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftStrongWolfeMTAlphaE1Finite(slope) || !concaveLeftStrongWolfeMTAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftStrongWolfeMTAlphaE1MaxAbs(d)
+	concaveLeftStrongWolfeMTAlphaE1ShrinkDirection(d, g)
+	return concaveLeftStrongWolfeMTAlphaE1Dot(g, d), tiny * (before / concaveLeftStrongWolfeMTAlphaE1MaxAbs(d))
+}
+
+// concaveLeftStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftStrongWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftStrongWolfeMTAlphaE1MaxAbs(d); m > 0 {
+		concaveLeftStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveLeftStrongWolfeMTAlphaE1Finite(concaveLeftStrongWolfeMTAlphaE1Dot(g, d)) {
+		if m := concaveLeftStrongWolfeMTAlphaE1MaxAbs(g); m > 1 {
+			concaveLeftStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftStrongWolfeMTAlphaE1ScaleBy sets x = c·x.
+func concaveLeftStrongWolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftStrongWolfeMTAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

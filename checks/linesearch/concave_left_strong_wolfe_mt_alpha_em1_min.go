@@ -470,6 +470,9 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftStrongWolfeMTAlphaEm1Finite(now) {
+		now = concaveLeftStrongWolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see concaveLeftStrongWolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftStrongWolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) flo
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) concaveLeftStrongWolfeMTAlphaEm1LineResult {
+	slope, tiny = concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveLeftStrongWolfeMTAlphaEm1LineResult struct {
 
 // concaveLeftStrongWolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type concaveLeftStrongWolfeMTAlphaEm1SearchEnd uint8
+
+// concaveLeftStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftStrongWolfeMTAlphaEm1Finite(slope) || !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftStrongWolfeMTAlphaEm1MaxAbs(d)
+	concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
+	return concaveLeftStrongWolfeMTAlphaEm1Dot(g, d), tiny * (before / concaveLeftStrongWolfeMTAlphaEm1MaxAbs(d))
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftStrongWolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		concaveLeftStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !concaveLeftStrongWolfeMTAlphaEm1Finite(concaveLeftStrongWolfeMTAlphaEm1Dot(g, d)) {
+		if m := concaveLeftStrongWolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			concaveLeftStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.
+func concaveLeftStrongWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftStrongWolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *concaveLeftStrongWolfeNWAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftStrongWolfeNWAlphaE1Finite(now) {
+		now = concaveLeftStrongWolfeNWAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveLeftStrongWolfeNWAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftStrongWolfeNWAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveLeftStrongWolfeNWAlphaE1OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveLeftStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) floa
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) concaveLeftStrongWolfeNWAlphaE1LineResult {
+	slope, tiny = concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveLeftStrongWolfeNWAlphaE1LineResult struct {
 
 // concaveLeftStrongWolfeNWAlphaE1SearchEnd tells how a line search ended.
 type concaveLeftStrongWolfeNWAlphaE1SearchEnd uint8
+
+// concaveLeftStrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftStrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftStrongWolfeNWAlphaE1Finite(slope) || !concaveLeftStrongWolfeNWAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftStrongWolfeNWAlphaE1MaxAbs(d)
+	concaveLeftStrongWolfeNWAlphaE1ShrinkDirection(d, g)
+	return concaveLeftStrongWolfeNWAlphaE1Dot(g, d), tiny * (before / concaveLeftStrongWolfeNWAlphaE1MaxAbs(d))
+}
+
+// concaveLeftStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftStrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftStrongWolfeNWAlphaE1MaxAbs(d); m > 0 {
+		concaveLeftStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveLeftStrongWolfeNWAlphaE1Finite(concaveLeftStrongWolfeNWAlphaE1Dot(g, d)) {
+		if m := concaveLeftStrongWolfeNWAlphaE1MaxAbs(g); m > 1 {
+			concaveLeftStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftStrongWolfeNWAlphaE1ScaleBy sets x = c·x.
+func concaveLeftStrongWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftStrongWolfeNWAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

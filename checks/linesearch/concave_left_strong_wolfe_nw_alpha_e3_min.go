@@ -470,6 +470,9 @@ func (r *concaveLeftStrongWolfeNWAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftStrongWolfeNWAlphaE3Finite(now) {
+		now = concaveLeftStrongWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see concaveLeftStrongWolfeNWAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftStrongWolfeNWAlphaE3SearchOutOfBudget:
 		r.finish(ConcaveLeftStrongWolfeNWAlphaE3OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveLeftStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) floa
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) concaveLeftStrongWolfeNWAlphaE3LineResult {
+	slope, tiny = concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveLeftStrongWolfeNWAlphaE3LineResult struct {
 
 // concaveLeftStrongWolfeNWAlphaE3SearchEnd tells how a line search ended.
 type concaveLeftStrongWolfeNWAlphaE3SearchEnd uint8
+
+// concaveLeftStrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftStrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftStrongWolfeNWAlphaE3Finite(slope) || !concaveLeftStrongWolfeNWAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftStrongWolfeNWAlphaE3MaxAbs(d)
+	concaveLeftStrongWolfeNWAlphaE3ShrinkDirection(d, g)
+	return concaveLeftStrongWolfeNWAlphaE3Dot(g, d), tiny * (before / concaveLeftStrongWolfeNWAlphaE3MaxAbs(d))
+}
+
+// concaveLeftStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftStrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftStrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftStrongWolfeNWAlphaE3MaxAbs(d); m > 0 {
+		concaveLeftStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
+	}
+	if !concaveLeftStrongWolfeNWAlphaE3Finite(concaveLeftStrongWolfeNWAlphaE3Dot(g, d)) {
+		if m := concaveLeftStrongWolfeNWAlphaE3MaxAbs(g); m > 1 {
+			concaveLeftStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftStrongWolfeNWAlphaE3ScaleBy sets x = c·x.
+func concaveLeftStrongWolfeNWAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftStrongWolfeNWAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

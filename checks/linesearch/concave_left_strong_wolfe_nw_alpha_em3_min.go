@@ -470,6 +470,9 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftStrongWolfeNWAlphaEm3Finite(now) {
+		now = concaveLeftStrongWolfeNWAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see concaveLeftStrongWolfeNWAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftStrongWolfeNWAlphaEm3SearchOutOfBudget:
 		r.finish(ConcaveLeftStrongWolfeNWAlphaEm3OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) flo
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) concaveLeftStrongWolfeNWAlphaEm3LineResult {
+	slope, tiny = concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveLeftStrongWolfeNWAlphaEm3LineResult struct {
 
 // concaveLeftStrongWolfeNWAlphaEm3SearchEnd tells how a line search ended.
 type concaveLeftStrongWolfeNWAlphaEm3SearchEnd uint8
+
+// concaveLeftStrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftStrongWolfeNWAlphaEm3Finite(slope) || !concaveLeftStrongWolfeNWAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftStrongWolfeNWAlphaEm3MaxAbs(d)
+	concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection(d, g)
+	return concaveLeftStrongWolfeNWAlphaEm3Dot(g, d), tiny * (before / concaveLeftStrongWolfeNWAlphaEm3MaxAbs(d))
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftStrongWolfeNWAlphaEm3MaxAbs(d); m > 0 {
+		concaveLeftStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !concaveLeftStrongWolfeNWAlphaEm3Finite(concaveLeftStrongWolfeNWAlphaEm3Dot(g, d)) {
+		if m := concaveLeftStrongWolfeNWAlphaEm3MaxAbs(g); m > 1 {
+			concaveLeftStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.
+func concaveLeftStrongWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftStrongWolfeNWAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *concaveLeftWolfeMTAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftWolfeMTAlphaE1Finite(now) {
+		now = concaveLeftWolfeMTAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveLeftWolfeMTAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftWolfeMTAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveLeftWolfeMTAlphaE1OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveLeftWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) concaveLeftWolfeMTAlphaE1LineResult {
+	slope, tiny = concaveLeftWolfeMTAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveLeftWolfeMTAlphaE1LineResult struct {
 
 // concaveLeftWolfeMTAlphaE1SearchEnd tells how a line search ended.
 type concaveLeftWolfeMTAlphaE1SearchEnd uint8
+
+// concaveLeftWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftWolfeMTAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftWolfeMTAlphaE1Finite(slope) || !concaveLeftWolfeMTAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftWolfeMTAlphaE1MaxAbs(d)
+	concaveLeftWolfeMTAlphaE1ShrinkDirection(d, g)
+	return concaveLeftWolfeMTAlphaE1Dot(g, d), tiny * (before / concaveLeftWolfeMTAlphaE1MaxAbs(d))
+}
+
+// concaveLeftWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftWolfeMTAlphaE1MaxAbs(d); m > 0 {
+		concaveLeftWolfeMTAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveLeftWolfeMTAlphaE1Finite(concaveLeftWolfeMTAlphaE1Dot(g, d)) {
+		if m := concaveLeftWolfeMTAlphaE1MaxAbs(g); m > 1 {
+			concaveLeftWolfeMTAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftWolfeMTAlphaE1ScaleBy sets x = c·x.
+func concaveLeftWolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftWolfeMTAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

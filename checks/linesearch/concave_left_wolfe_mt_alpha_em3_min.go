@@ -470,6 +470,9 @@ func (r *concaveLeftWolfeMTAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftWolfeMTAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftWolfeMTAlphaEm3Finite(now) {
+		now = concaveLeftWolfeMTAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see concaveLeftWolfeMTAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftWolfeMTAlphaEm3SearchOutOfBudget:
 		r.finish(ConcaveLeftWolfeMTAlphaEm3OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveLeftWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) concaveLeftWolfeMTAlphaEm3LineResult {
+	slope, tiny = concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveLeftWolfeMTAlphaEm3LineResult struct {
 
 // concaveLeftWolfeMTAlphaEm3SearchEnd tells how a line search ended.
 type concaveLeftWolfeMTAlphaEm3SearchEnd uint8
+
+// concaveLeftWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftWolfeMTAlphaEm3Finite(slope) || !concaveLeftWolfeMTAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftWolfeMTAlphaEm3MaxAbs(d)
+	concaveLeftWolfeMTAlphaEm3ShrinkDirection(d, g)
+	return concaveLeftWolfeMTAlphaEm3Dot(g, d), tiny * (before / concaveLeftWolfeMTAlphaEm3MaxAbs(d))
+}
+
+// concaveLeftWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftWolfeMTAlphaEm3MaxAbs(d); m > 0 {
+		concaveLeftWolfeMTAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !concaveLeftWolfeMTAlphaEm3Finite(concaveLeftWolfeMTAlphaEm3Dot(g, d)) {
+		if m := concaveLeftWolfeMTAlphaEm3MaxAbs(g); m > 1 {
+			concaveLeftWolfeMTAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftWolfeMTAlphaEm3ScaleBy sets x = c·x.
+func concaveLeftWolfeMTAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftWolfeMTAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

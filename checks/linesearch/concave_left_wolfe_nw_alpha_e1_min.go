@@ -470,6 +470,9 @@ func (r *concaveLeftWolfeNWAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftWolfeNWAlphaE1Finite(now) {
+		now = concaveLeftWolfeNWAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveLeftWolfeNWAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftWolfeNWAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveLeftWolfeNWAlphaE1OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveLeftWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) concaveLeftWolfeNWAlphaE1LineResult {
+	slope, tiny = concaveLeftWolfeNWAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveLeftWolfeNWAlphaE1LineResult struct {
 
 // concaveLeftWolfeNWAlphaE1SearchEnd tells how a line search ended.
 type concaveLeftWolfeNWAlphaE1SearchEnd uint8
+
+// concaveLeftWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftWolfeNWAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftWolfeNWAlphaE1Finite(slope) || !concaveLeftWolfeNWAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftWolfeNWAlphaE1MaxAbs(d)
+	concaveLeftWolfeNWAlphaE1ShrinkDirection(d, g)
+	return concaveLeftWolfeNWAlphaE1Dot(g, d), tiny * (before / concaveLeftWolfeNWAlphaE1MaxAbs(d))
+}
+
+// concaveLeftWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftWolfeNWAlphaE1MaxAbs(d); m > 0 {
+		concaveLeftWolfeNWAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveLeftWolfeNWAlphaE1Finite(concaveLeftWolfeNWAlphaE1Dot(g, d)) {
+		if m := concaveLeftWolfeNWAlphaE1MaxAbs(g); m > 1 {
+			concaveLeftWolfeNWAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftWolfeNWAlphaE1ScaleBy sets x = c·x.
+func concaveLeftWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftWolfeNWAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

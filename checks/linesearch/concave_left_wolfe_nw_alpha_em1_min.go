@@ -470,6 +470,9 @@ func (r *concaveLeftWolfeNWAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveLeftWolfeNWAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveLeftWolfeNWAlphaEm1Finite(now) {
+		now = concaveLeftWolfeNWAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see concaveLeftWolfeNWAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case concaveLeftWolfeNWAlphaEm1SearchOutOfBudget:
 		r.finish(ConcaveLeftWolfeNWAlphaEm1OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveLeftWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) concaveLeftWolfeNWAlphaEm1LineResult {
+	slope, tiny = concaveLeftWolfeNWAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := concaveLeftWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveLeftWolfeNWAlphaEm1LineResult struct {
 
 // concaveLeftWolfeNWAlphaEm1SearchEnd tells how a line search ended.
 type concaveLeftWolfeNWAlphaEm1SearchEnd uint8
+
+// concaveLeftWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveLeftWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveLeftWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveLeftWolfeNWAlphaEm1Finite(slope) || !concaveLeftWolfeNWAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveLeftWolfeNWAlphaEm1MaxAbs(d)
+	concaveLeftWolfeNWAlphaEm1ShrinkDirection(d, g)
+	return concaveLeftWolfeNWAlphaEm1Dot(g, d), tiny * (before / concaveLeftWolfeNWAlphaEm1MaxAbs(d))
+}
+
+// concaveLeftWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveLeftWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveLeftWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveLeftWolfeNWAlphaEm1MaxAbs(d); m > 0 {
+		concaveLeftWolfeNWAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !concaveLeftWolfeNWAlphaEm1Finite(concaveLeftWolfeNWAlphaEm1Dot(g, d)) {
+		if m := concaveLeftWolfeNWAlphaEm1MaxAbs(g); m > 1 {
+			concaveLeftWolfeNWAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveLeftWolfeNWAlphaEm1ScaleBy sets x = c·x.
+func concaveLeftWolfeNWAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveLeftWolfeNWAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

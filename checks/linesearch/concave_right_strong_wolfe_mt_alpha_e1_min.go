@@ -470,6 +470,9 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightStrongWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightStrongWolfeMTAlphaE1Finite(now) {
+		now = concaveRightStrongWolfeMTAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveRightStrongWolfeMTAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightStrongWolfeMTAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) flo
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) concaveRightStrongWolfeMTAlphaE1LineResult {
+	slope, tiny = concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveRightStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveRightStrongWolfeMTAlphaE1LineResult struct {
 
 // concaveRightStrongWolfeMTAlphaE1SearchEnd tells how a line search ended.
 type concaveRightStrongWolfeMTAlphaE1SearchEnd uint8
+
+// concaveRightStrongWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightStrongWolfeMTAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightStrongWolfeMTAlphaE1Finite(slope) || !concaveRightStrongWolfeMTAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightStrongWolfeMTAlphaE1MaxAbs(d)
+	concaveRightStrongWolfeMTAlphaE1ShrinkDirection(d, g)
+	return concaveRightStrongWolfeMTAlphaE1Dot(g, d), tiny * (before / concaveRightStrongWolfeMTAlphaE1MaxAbs(d))
+}
+
+// concaveRightStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightStrongWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightStrongWolfeMTAlphaE1MaxAbs(d); m > 0 {
+		concaveRightStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveRightStrongWolfeMTAlphaE1Finite(concaveRightStrongWolfeMTAlphaE1Dot(g, d)) {
+		if m := concaveRightStrongWolfeMTAlphaE1MaxAbs(g); m > 1 {
+			concaveRightStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightStrongWolfeMTAlphaE1ScaleBy sets x = c·x.
+func concaveRightStrongWolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightStrongWolfeMTAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *concaveRightStrongWolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightStrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightStrongWolfeMTAlphaEm1Finite(now) {
+		now = concaveRightStrongWolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see concaveRightStrongWolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightStrongWolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(ConcaveRightStrongWolfeMTAlphaEm1OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveRightStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) fl
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) concaveRightStrongWolfeMTAlphaEm1LineResult {
+	slope, tiny = concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := concaveRightStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveRightStrongWolfeMTAlphaEm1LineResult struct {
 
 // concaveRightStrongWolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type concaveRightStrongWolfeMTAlphaEm1SearchEnd uint8
+
+// concaveRightStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightStrongWolfeMTAlphaEm1Finite(slope) || !concaveRightStrongWolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightStrongWolfeMTAlphaEm1MaxAbs(d)
+	concaveRightStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
+	return concaveRightStrongWolfeMTAlphaEm1Dot(g, d), tiny * (before / concaveRightStrongWolfeMTAlphaEm1MaxAbs(d))
+}
+
+// concaveRightStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightStrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightStrongWolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		concaveRightStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !concaveRightStrongWolfeMTAlphaEm1Finite(concaveRightStrongWolfeMTAlphaEm1Dot(g, d)) {
+		if m := concaveRightStrongWolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			concaveRightStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.
+func concaveRightStrongWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightStrongWolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *concaveRightStrongWolfeMTAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightStrongWolfeMTAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightStrongWolfeMTAlphaEm3Finite(now) {
+		now = concaveRightStrongWolfeMTAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see concaveRightStrongWolfeMTAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightStrongWolfeMTAlphaEm3SearchOutOfBudget:
 		r.finish(ConcaveRightStrongWolfeMTAlphaEm3OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveRightStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) fl
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) concaveRightStrongWolfeMTAlphaEm3LineResult {
+	slope, tiny = concaveRightStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := concaveRightStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveRightStrongWolfeMTAlphaEm3LineResult struct {
 
 // concaveRightStrongWolfeMTAlphaEm3SearchEnd tells how a line search ended.
 type concaveRightStrongWolfeMTAlphaEm3SearchEnd uint8
+
+// concaveRightStrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightStrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightStrongWolfeMTAlphaEm3Finite(slope) || !concaveRightStrongWolfeMTAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightStrongWolfeMTAlphaEm3MaxAbs(d)
+	concaveRightStrongWolfeMTAlphaEm3ShrinkDirection(d, g)
+	return concaveRightStrongWolfeMTAlphaEm3Dot(g, d), tiny * (before / concaveRightStrongWolfeMTAlphaEm3MaxAbs(d))
+}
+
+// concaveRightStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightStrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightStrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightStrongWolfeMTAlphaEm3MaxAbs(d); m > 0 {
+		concaveRightStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !concaveRightStrongWolfeMTAlphaEm3Finite(concaveRightStrongWolfeMTAlphaEm3Dot(g, d)) {
+		if m := concaveRightStrongWolfeMTAlphaEm3MaxAbs(g); m > 1 {
+			concaveRightStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightStrongWolfeMTAlphaEm3ScaleBy sets x = c·x.
+func concaveRightStrongWolfeMTAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightStrongWolfeMTAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

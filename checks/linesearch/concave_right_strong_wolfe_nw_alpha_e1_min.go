@@ -470,6 +470,9 @@ func (r *concaveRightStrongWolfeNWAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightStrongWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightStrongWolfeNWAlphaE1Finite(now) {
+		now = concaveRightStrongWolfeNWAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveRightStrongWolfeNWAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightStrongWolfeNWAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveRightStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) flo
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) concaveRightStrongWolfeNWAlphaE1LineResult {
+	slope, tiny = concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveRightStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveRightStrongWolfeNWAlphaE1LineResult struct {
 
 // concaveRightStrongWolfeNWAlphaE1SearchEnd tells how a line search ended.
 type concaveRightStrongWolfeNWAlphaE1SearchEnd uint8
+
+// concaveRightStrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightStrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightStrongWolfeNWAlphaE1Finite(slope) || !concaveRightStrongWolfeNWAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightStrongWolfeNWAlphaE1MaxAbs(d)
+	concaveRightStrongWolfeNWAlphaE1ShrinkDirection(d, g)
+	return concaveRightStrongWolfeNWAlphaE1Dot(g, d), tiny * (before / concaveRightStrongWolfeNWAlphaE1MaxAbs(d))
+}
+
+// concaveRightStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightStrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightStrongWolfeNWAlphaE1MaxAbs(d); m > 0 {
+		concaveRightStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveRightStrongWolfeNWAlphaE1Finite(concaveRightStrongWolfeNWAlphaE1Dot(g, d)) {
+		if m := concaveRightStrongWolfeNWAlphaE1MaxAbs(g); m > 1 {
+			concaveRightStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightStrongWolfeNWAlphaE1ScaleBy sets x = c·x.
+func concaveRightStrongWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightStrongWolfeNWAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

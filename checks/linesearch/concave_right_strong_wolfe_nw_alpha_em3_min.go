@@ -470,6 +470,9 @@ func (r *concaveRightStrongWolfeNWAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightStrongWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightStrongWolfeNWAlphaEm3Finite(now) {
+		now = concaveRightStrongWolfeNWAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see concaveRightStrongWolfeNWAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightStrongWolfeNWAlphaEm3SearchOutOfBudget:
 		r.finish(ConcaveRightStrongWolfeNWAlphaEm3OutOfEvaluations)
@@ -904,6 +907,7 @@ func concaveRightStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) fl
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) concaveRightStrongWolfeNWAlphaEm3LineResult {
+	slope, tiny = concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := concaveRightStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -982,6 +986,53 @@ type concaveRightStrongWolfeNWAlphaEm3LineResult struct {
 
 // concaveRightStrongWolfeNWAlphaEm3SearchEnd tells how a line search ended.
 type concaveRightStrongWolfeNWAlphaEm3SearchEnd uint8
+
+// concaveRightStrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightStrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightStrongWolfeNWAlphaEm3Finite(slope) || !concaveRightStrongWolfeNWAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightStrongWolfeNWAlphaEm3MaxAbs(d)
+	concaveRightStrongWolfeNWAlphaEm3ShrinkDirection(d, g)
+	return concaveRightStrongWolfeNWAlphaEm3Dot(g, d), tiny * (before / concaveRightStrongWolfeNWAlphaEm3MaxAbs(d))
+}
+
+// concaveRightStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightStrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightStrongWolfeNWAlphaEm3MaxAbs(d); m > 0 {
+		concaveRightStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !concaveRightStrongWolfeNWAlphaEm3Finite(concaveRightStrongWolfeNWAlphaEm3Dot(g, d)) {
+		if m := concaveRightStrongWolfeNWAlphaEm3MaxAbs(g); m > 1 {
+			concaveRightStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.
+func concaveRightStrongWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightStrongWolfeNWAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *concaveRightWolfeMTAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeMTAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeMTAlphaE3Finite(now) {
+		now = concaveRightWolfeMTAlphaE3Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeMTAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeMTAlphaE3SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeMTAlphaE3OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveRightWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) concaveRightWolfeMTAlphaE3LineResult {
+	slope, tiny = concaveRightWolfeMTAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveRightWolfeMTAlphaE3LineResult struct {
 
 // concaveRightWolfeMTAlphaE3SearchEnd tells how a line search ended.
 type concaveRightWolfeMTAlphaE3SearchEnd uint8
+
+// concaveRightWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeMTAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeMTAlphaE3Finite(slope) || !concaveRightWolfeMTAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeMTAlphaE3MaxAbs(d)
+	concaveRightWolfeMTAlphaE3ShrinkDirection(d, g)
+	return concaveRightWolfeMTAlphaE3Dot(g, d), tiny * (before / concaveRightWolfeMTAlphaE3MaxAbs(d))
+}
+
+// concaveRightWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeMTAlphaE3MaxAbs(d); m > 0 {
+		concaveRightWolfeMTAlphaE3ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeMTAlphaE3Finite(concaveRightWolfeMTAlphaE3Dot(g, d)) {
+		if m := concaveRightWolfeMTAlphaE3MaxAbs(g); m > 1 {
+			concaveRightWolfeMTAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeMTAlphaE3ScaleBy sets x = c·x.
+func concaveRightWolfeMTAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeMTAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

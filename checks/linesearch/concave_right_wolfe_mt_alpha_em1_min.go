@@ -470,6 +470,9 @@ func (r *concaveRightWolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeMTAlphaEm1Finite(now) {
+		now = concaveRightWolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
+	slope, tiny = concaveRightWolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveRightWolfeMTAlphaEm1LineResult struct {
 
 // concaveRightWolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type concaveRightWolfeMTAlphaEm1SearchEnd uint8
+
+// concaveRightWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeMTAlphaEm1Finite(slope) || !concaveRightWolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeMTAlphaEm1MaxAbs(d)
+	concaveRightWolfeMTAlphaEm1ShrinkDirection(d, g)
+	return concaveRightWolfeMTAlphaEm1Dot(g, d), tiny * (before / concaveRightWolfeMTAlphaEm1MaxAbs(d))
+}
+
+// concaveRightWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		concaveRightWolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeMTAlphaEm1Finite(concaveRightWolfeMTAlphaEm1Dot(g, d)) {
+		if m := concaveRightWolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			concaveRightWolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeMTAlphaEm1ScaleBy sets x = c·x.
+func concaveRightWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

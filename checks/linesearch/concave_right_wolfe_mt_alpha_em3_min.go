@@ -470,6 +470,9 @@ func (r *concaveRightWolfeMTAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeMTAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeMTAlphaEm3Finite(now) {
+		now = concaveRightWolfeMTAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeMTAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeMTAlphaEm3SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeMTAlphaEm3OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveRightWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) concaveRightWolfeMTAlphaEm3LineResult {
+	slope, tiny = concaveRightWolfeMTAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveRightWolfeMTAlphaEm3LineResult struct {
 
 // concaveRightWolfeMTAlphaEm3SearchEnd tells how a line search ended.
 type concaveRightWolfeMTAlphaEm3SearchEnd uint8
+
+// concaveRightWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeMTAlphaEm3Finite(slope) || !concaveRightWolfeMTAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeMTAlphaEm3MaxAbs(d)
+	concaveRightWolfeMTAlphaEm3ShrinkDirection(d, g)
+	return concaveRightWolfeMTAlphaEm3Dot(g, d), tiny * (before / concaveRightWolfeMTAlphaEm3MaxAbs(d))
+}
+
+// concaveRightWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeMTAlphaEm3MaxAbs(d); m > 0 {
+		concaveRightWolfeMTAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeMTAlphaEm3Finite(concaveRightWolfeMTAlphaEm3Dot(g, d)) {
+		if m := concaveRightWolfeMTAlphaEm3MaxAbs(g); m > 1 {
+			concaveRightWolfeMTAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeMTAlphaEm3ScaleBy sets x = c·x.
+func concaveRightWolfeMTAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeMTAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *concaveRightWolfeNWAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeNWAlphaE1Finite(now) {
+		now = concaveRightWolfeNWAlphaE1Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeNWAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeNWAlphaE1SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeNWAlphaE1OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) concaveRightWolfeNWAlphaE1LineResult {
+	slope, tiny = concaveRightWolfeNWAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveRightWolfeNWAlphaE1LineResult struct {
 
 // concaveRightWolfeNWAlphaE1SearchEnd tells how a line search ended.
 type concaveRightWolfeNWAlphaE1SearchEnd uint8
+
+// concaveRightWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeNWAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeNWAlphaE1Finite(slope) || !concaveRightWolfeNWAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeNWAlphaE1MaxAbs(d)
+	concaveRightWolfeNWAlphaE1ShrinkDirection(d, g)
+	return concaveRightWolfeNWAlphaE1Dot(g, d), tiny * (before / concaveRightWolfeNWAlphaE1MaxAbs(d))
+}
+
+// concaveRightWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeNWAlphaE1MaxAbs(d); m > 0 {
+		concaveRightWolfeNWAlphaE1ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeNWAlphaE1Finite(concaveRightWolfeNWAlphaE1Dot(g, d)) {
+		if m := concaveRightWolfeNWAlphaE1MaxAbs(g); m > 1 {
+			concaveRightWolfeNWAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeNWAlphaE1ScaleBy sets x = c·x.
+func concaveRightWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeNWAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

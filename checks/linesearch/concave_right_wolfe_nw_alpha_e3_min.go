@@ -470,6 +470,9 @@ func (r *concaveRightWolfeNWAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeNWAlphaE3Finite(now) {
+		now = concaveRightWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeNWAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeNWAlphaE3SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeNWAlphaE3OutOfEvaluations)
@@ -902,6 +905,7 @@ func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
+	slope, tiny = concaveRightWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type concaveRightWolfeNWAlphaE3LineResult struct {
 
 // concaveRightWolfeNWAlphaE3SearchEnd tells how a line search ended.
 type concaveRightWolfeNWAlphaE3SearchEnd uint8
+
+// concaveRightWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeNWAlphaE3Finite(slope) || !concaveRightWolfeNWAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeNWAlphaE3MaxAbs(d)
+	concaveRightWolfeNWAlphaE3ShrinkDirection(d, g)
+	return concaveRightWolfeNWAlphaE3Dot(g, d), tiny * (before / concaveRightWolfeNWAlphaE3MaxAbs(d))
+}
+
+// concaveRightWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeNWAlphaE3MaxAbs(d); m > 0 {
+		concaveRightWolfeNWAlphaE3ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeNWAlphaE3Finite(concaveRightWolfeNWAlphaE3Dot(g, d)) {
+		if m := concaveRightWolfeNWAlphaE3MaxAbs(g); m > 1 {
+			concaveRightWolfeNWAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeNWAlphaE3ScaleBy sets x = c·x.
+func concaveRightWolfeNWAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeNWAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

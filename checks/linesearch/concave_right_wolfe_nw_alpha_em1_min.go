@@ -470,6 +470,9 @@ func (r *concaveRightWolfeNWAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeNWAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeNWAlphaEm1Finite(now) {
+		now = concaveRightWolfeNWAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeNWAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeNWAlphaEm1SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeNWAlphaEm1OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveRightWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) concaveRightWolfeNWAlphaEm1LineResult {
+	slope, tiny = concaveRightWolfeNWAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveRightWolfeNWAlphaEm1LineResult struct {
 
 // concaveRightWolfeNWAlphaEm1SearchEnd tells how a line search ended.
 type concaveRightWolfeNWAlphaEm1SearchEnd uint8
+
+// concaveRightWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeNWAlphaEm1Finite(slope) || !concaveRightWolfeNWAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeNWAlphaEm1MaxAbs(d)
+	concaveRightWolfeNWAlphaEm1ShrinkDirection(d, g)
+	return concaveRightWolfeNWAlphaEm1Dot(g, d), tiny * (before / concaveRightWolfeNWAlphaEm1MaxAbs(d))
+}
+
+// concaveRightWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeNWAlphaEm1MaxAbs(d); m > 0 {
+		concaveRightWolfeNWAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeNWAlphaEm1Finite(concaveRightWolfeNWAlphaEm1Dot(g, d)) {
+		if m := concaveRightWolfeNWAlphaEm1MaxAbs(g); m > 1 {
+			concaveRightWolfeNWAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeNWAlphaEm1ScaleBy sets x = c·x.
+func concaveRightWolfeNWAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeNWAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

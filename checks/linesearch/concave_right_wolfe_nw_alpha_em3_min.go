@@ -470,6 +470,9 @@ func (r *concaveRightWolfeNWAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := concaveRightWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !concaveRightWolfeNWAlphaEm3Finite(now) {
+		now = concaveRightWolfeNWAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeNWAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case concaveRightWolfeNWAlphaEm3SearchOutOfBudget:
 		r.finish(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations)
@@ -903,6 +906,7 @@ func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) concaveRightWolfeNWAlphaEm3LineResult {
+	slope, tiny = concaveRightWolfeNWAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := concaveRightWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type concaveRightWolfeNWAlphaEm3LineResult struct {
 
 // concaveRightWolfeNWAlphaEm3SearchEnd tells how a line search ended.
 type concaveRightWolfeNWAlphaEm3SearchEnd uint8
+
+// concaveRightWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (concaveRightWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func concaveRightWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if concaveRightWolfeNWAlphaEm3Finite(slope) || !concaveRightWolfeNWAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := concaveRightWolfeNWAlphaEm3MaxAbs(d)
+	concaveRightWolfeNWAlphaEm3ShrinkDirection(d, g)
+	return concaveRightWolfeNWAlphaEm3Dot(g, d), tiny * (before / concaveRightWolfeNWAlphaEm3MaxAbs(d))
+}
+
+// concaveRightWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// concaveRightWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func concaveRightWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := concaveRightWolfeNWAlphaEm3MaxAbs(d); m > 0 {
+		concaveRightWolfeNWAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !concaveRightWolfeNWAlphaEm3Finite(concaveRightWolfeNWAlphaEm3Dot(g, d)) {
+		if m := concaveRightWolfeNWAlphaEm3MaxAbs(g); m > 1 {
+			concaveRightWolfeNWAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// concaveRightWolfeNWAlphaEm3ScaleBy sets x = c·x.
+func concaveRightWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // concaveRightWolfeNWAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

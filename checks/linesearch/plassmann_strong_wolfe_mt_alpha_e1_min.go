@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeMTAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeMTAlphaE1Finite(now) {
+		now = plassmannStrongWolfeMTAlphaE1Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeMTAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeMTAlphaE1SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeMTAlphaE1OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) plassmannStrongWolfeMTAlphaE1LineResult {
+	slope, tiny = plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeMTAlphaE1LineResult struct {
 
 // plassmannStrongWolfeMTAlphaE1SearchEnd tells how a line search ended.
 type plassmannStrongWolfeMTAlphaE1SearchEnd uint8
+
+// plassmannStrongWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeMTAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeMTAlphaE1Finite(slope) || !plassmannStrongWolfeMTAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeMTAlphaE1MaxAbs(d)
+	plassmannStrongWolfeMTAlphaE1ShrinkDirection(d, g)
+	return plassmannStrongWolfeMTAlphaE1Dot(g, d), tiny * (before / plassmannStrongWolfeMTAlphaE1MaxAbs(d))
+}
+
+// plassmannStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeMTAlphaE1MaxAbs(d); m > 0 {
+		plassmannStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeMTAlphaE1Finite(plassmannStrongWolfeMTAlphaE1Dot(g, d)) {
+		if m := plassmannStrongWolfeMTAlphaE1MaxAbs(g); m > 1 {
+			plassmannStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeMTAlphaE1ScaleBy sets x = c·x.
+func plassmannStrongWolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeMTAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeMTAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeMTAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeMTAlphaE3Finite(now) {
+		now = plassmannStrongWolfeMTAlphaE3Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeMTAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeMTAlphaE3SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeMTAlphaE3OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) plassmannStrongWolfeMTAlphaE3LineResult {
+	slope, tiny = plassmannStrongWolfeMTAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeMTAlphaE3LineResult struct {
 
 // plassmannStrongWolfeMTAlphaE3SearchEnd tells how a line search ended.
 type plassmannStrongWolfeMTAlphaE3SearchEnd uint8
+
+// plassmannStrongWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeMTAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeMTAlphaE3Finite(slope) || !plassmannStrongWolfeMTAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeMTAlphaE3MaxAbs(d)
+	plassmannStrongWolfeMTAlphaE3ShrinkDirection(d, g)
+	return plassmannStrongWolfeMTAlphaE3Dot(g, d), tiny * (before / plassmannStrongWolfeMTAlphaE3MaxAbs(d))
+}
+
+// plassmannStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeMTAlphaE3MaxAbs(d); m > 0 {
+		plassmannStrongWolfeMTAlphaE3ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeMTAlphaE3Finite(plassmannStrongWolfeMTAlphaE3Dot(g, d)) {
+		if m := plassmannStrongWolfeMTAlphaE3MaxAbs(g); m > 1 {
+			plassmannStrongWolfeMTAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeMTAlphaE3ScaleBy sets x = c·x.
+func plassmannStrongWolfeMTAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeMTAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeMTAlphaEm1Finite(now) {
+		now = plassmannStrongWolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
+	slope, tiny = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeMTAlphaEm1LineResult struct {
 
 // plassmannStrongWolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type plassmannStrongWolfeMTAlphaEm1SearchEnd uint8
+
+// plassmannStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeMTAlphaEm1Finite(slope) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeMTAlphaEm1MaxAbs(d)
+	plassmannStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
+	return plassmannStrongWolfeMTAlphaEm1Dot(g, d), tiny * (before / plassmannStrongWolfeMTAlphaEm1MaxAbs(d))
+}
+
+// plassmannStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		plassmannStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeMTAlphaEm1Finite(plassmannStrongWolfeMTAlphaEm1Dot(g, d)) {
+		if m := plassmannStrongWolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			plassmannStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.
+func plassmannStrongWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeMTAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeMTAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeMTAlphaEm3Finite(now) {
+		now = plassmannStrongWolfeMTAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeMTAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeMTAlphaEm3SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeMTAlphaEm3OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) plassmannStrongWolfeMTAlphaEm3LineResult {
+	slope, tiny = plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeMTAlphaEm3LineResult struct {
 
 // plassmannStrongWolfeMTAlphaEm3SearchEnd tells how a line search ended.
 type plassmannStrongWolfeMTAlphaEm3SearchEnd uint8
+
+// plassmannStrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeMTAlphaEm3Finite(slope) || !plassmannStrongWolfeMTAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeMTAlphaEm3MaxAbs(d)
+	plassmannStrongWolfeMTAlphaEm3ShrinkDirection(d, g)
+	return plassmannStrongWolfeMTAlphaEm3Dot(g, d), tiny * (before / plassmannStrongWolfeMTAlphaEm3MaxAbs(d))
+}
+
+// plassmannStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeMTAlphaEm3MaxAbs(d); m > 0 {
+		plassmannStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeMTAlphaEm3Finite(plassmannStrongWolfeMTAlphaEm3Dot(g, d)) {
+		if m := plassmannStrongWolfeMTAlphaEm3MaxAbs(g); m > 1 {
+			plassmannStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeMTAlphaEm3ScaleBy sets x = c·x.
+func plassmannStrongWolfeMTAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeMTAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

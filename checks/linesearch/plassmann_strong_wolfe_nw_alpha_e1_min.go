@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeNWAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeNWAlphaE1Finite(now) {
+		now = plassmannStrongWolfeNWAlphaE1Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeNWAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeNWAlphaE1SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeNWAlphaE1OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) plassmannStrongWolfeNWAlphaE1LineResult {
+	slope, tiny = plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeNWAlphaE1LineResult struct {
 
 // plassmannStrongWolfeNWAlphaE1SearchEnd tells how a line search ended.
 type plassmannStrongWolfeNWAlphaE1SearchEnd uint8
+
+// plassmannStrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeNWAlphaE1Finite(slope) || !plassmannStrongWolfeNWAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeNWAlphaE1MaxAbs(d)
+	plassmannStrongWolfeNWAlphaE1ShrinkDirection(d, g)
+	return plassmannStrongWolfeNWAlphaE1Dot(g, d), tiny * (before / plassmannStrongWolfeNWAlphaE1MaxAbs(d))
+}
+
+// plassmannStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeNWAlphaE1MaxAbs(d); m > 0 {
+		plassmannStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeNWAlphaE1Finite(plassmannStrongWolfeNWAlphaE1Dot(g, d)) {
+		if m := plassmannStrongWolfeNWAlphaE1MaxAbs(g); m > 1 {
+			plassmannStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeNWAlphaE1ScaleBy sets x = c·x.
+func plassmannStrongWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeNWAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeNWAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeNWAlphaE3Finite(now) {
+		now = plassmannStrongWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeNWAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeNWAlphaE3SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeNWAlphaE3OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) plassmannStrongWolfeNWAlphaE3LineResult {
+	slope, tiny = plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeNWAlphaE3LineResult struct {
 
 // plassmannStrongWolfeNWAlphaE3SearchEnd tells how a line search ended.
 type plassmannStrongWolfeNWAlphaE3SearchEnd uint8
+
+// plassmannStrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeNWAlphaE3Finite(slope) || !plassmannStrongWolfeNWAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeNWAlphaE3MaxAbs(d)
+	plassmannStrongWolfeNWAlphaE3ShrinkDirection(d, g)
+	return plassmannStrongWolfeNWAlphaE3Dot(g, d), tiny * (before / plassmannStrongWolfeNWAlphaE3MaxAbs(d))
+}
+
+// plassmannStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeNWAlphaE3MaxAbs(d); m > 0 {
+		plassmannStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeNWAlphaE3Finite(plassmannStrongWolfeNWAlphaE3Dot(g, d)) {
+		if m := plassmannStrongWolfeNWAlphaE3MaxAbs(g); m > 1 {
+			plassmannStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeNWAlphaE3ScaleBy sets x = c·x.
+func plassmannStrongWolfeNWAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeNWAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeNWAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeNWAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeNWAlphaEm1Finite(now) {
+		now = plassmannStrongWolfeNWAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeNWAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeNWAlphaEm1SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeNWAlphaEm1OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) plassmannStrongWolfeNWAlphaEm1LineResult {
+	slope, tiny = plassmannStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeNWAlphaEm1LineResult struct {
 
 // plassmannStrongWolfeNWAlphaEm1SearchEnd tells how a line search ended.
 type plassmannStrongWolfeNWAlphaEm1SearchEnd uint8
+
+// plassmannStrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeNWAlphaEm1Finite(slope) || !plassmannStrongWolfeNWAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeNWAlphaEm1MaxAbs(d)
+	plassmannStrongWolfeNWAlphaEm1ShrinkDirection(d, g)
+	return plassmannStrongWolfeNWAlphaEm1Dot(g, d), tiny * (before / plassmannStrongWolfeNWAlphaEm1MaxAbs(d))
+}
+
+// plassmannStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeNWAlphaEm1MaxAbs(d); m > 0 {
+		plassmannStrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeNWAlphaEm1Finite(plassmannStrongWolfeNWAlphaEm1Dot(g, d)) {
+		if m := plassmannStrongWolfeNWAlphaEm1MaxAbs(g); m > 1 {
+			plassmannStrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeNWAlphaEm1ScaleBy sets x = c·x.
+func plassmannStrongWolfeNWAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeNWAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannStrongWolfeNWAlphaEm3Finite(now) {
+		now = plassmannStrongWolfeNWAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeNWAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case plassmannStrongWolfeNWAlphaEm3SearchOutOfBudget:
 		r.finish(PlassmannStrongWolfeNWAlphaEm3OutOfEvaluations)
@@ -903,6 +906,7 @@ func plassmannStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) plassmannStrongWolfeNWAlphaEm3LineResult {
+	slope, tiny = plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := plassmannStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -981,6 +985,53 @@ type plassmannStrongWolfeNWAlphaEm3LineResult struct {
 
 // plassmannStrongWolfeNWAlphaEm3SearchEnd tells how a line search ended.
 type plassmannStrongWolfeNWAlphaEm3SearchEnd uint8
+
+// plassmannStrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannStrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannStrongWolfeNWAlphaEm3Finite(slope) || !plassmannStrongWolfeNWAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannStrongWolfeNWAlphaEm3MaxAbs(d)
+	plassmannStrongWolfeNWAlphaEm3ShrinkDirection(d, g)
+	return plassmannStrongWolfeNWAlphaEm3Dot(g, d), tiny * (before / plassmannStrongWolfeNWAlphaEm3MaxAbs(d))
+}
+
+// plassmannStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannStrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannStrongWolfeNWAlphaEm3MaxAbs(d); m > 0 {
+		plassmannStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !plassmannStrongWolfeNWAlphaEm3Finite(plassmannStrongWolfeNWAlphaEm3Dot(g, d)) {
+		if m := plassmannStrongWolfeNWAlphaEm3MaxAbs(g); m > 1 {
+			plassmannStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.
+func plassmannStrongWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannStrongWolfeNWAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannWolfeMTAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannWolfeMTAlphaE1Finite(now) {
+		now = plassmannWolfeMTAlphaE1Dot(&r.g, &r.d) // the search shortened d (see plassmannWolfeMTAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannWolfeMTAlphaE1SearchOutOfBudget:
 		r.finish(PlassmannWolfeMTAlphaE1OutOfEvaluations)
@@ -902,6 +905,7 @@ func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) plassmannWolfeMTAlphaE1LineResult {
+	slope, tiny = plassmannWolfeMTAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := plassmannWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type plassmannWolfeMTAlphaE1LineResult struct {
 
 // plassmannWolfeMTAlphaE1SearchEnd tells how a line search ended.
 type plassmannWolfeMTAlphaE1SearchEnd uint8
+
+// plassmannWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannWolfeMTAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannWolfeMTAlphaE1Finite(slope) || !plassmannWolfeMTAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannWolfeMTAlphaE1MaxAbs(d)
+	plassmannWolfeMTAlphaE1ShrinkDirection(d, g)
+	return plassmannWolfeMTAlphaE1Dot(g, d), tiny * (before / plassmannWolfeMTAlphaE1MaxAbs(d))
+}
+
+// plassmannWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannWolfeMTAlphaE1MaxAbs(d); m > 0 {
+		plassmannWolfeMTAlphaE1ScaleBy(d, 1/m)
+	}
+	if !plassmannWolfeMTAlphaE1Finite(plassmannWolfeMTAlphaE1Dot(g, d)) {
+		if m := plassmannWolfeMTAlphaE1MaxAbs(g); m > 1 {
+			plassmannWolfeMTAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannWolfeMTAlphaE1ScaleBy sets x = c·x.
+func plassmannWolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannWolfeMTAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannWolfeMTAlphaEm3Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannWolfeMTAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannWolfeMTAlphaEm3Finite(now) {
+		now = plassmannWolfeMTAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see plassmannWolfeMTAlphaEm3ShortenAlong)
+	}
 	switch found.end {
 	case plassmannWolfeMTAlphaEm3SearchOutOfBudget:
 		r.finish(PlassmannWolfeMTAlphaEm3OutOfEvaluations)
@@ -902,6 +905,7 @@ func plassmannWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) plassmannWolfeMTAlphaEm3LineResult {
+	slope, tiny = plassmannWolfeMTAlphaEm3ShortenAlong(g, d, slope, tiny)
 	low := plassmannWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type plassmannWolfeMTAlphaEm3LineResult struct {
 
 // plassmannWolfeMTAlphaEm3SearchEnd tells how a line search ended.
 type plassmannWolfeMTAlphaEm3SearchEnd uint8
+
+// plassmannWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannWolfeMTAlphaEm3Finite(slope) || !plassmannWolfeMTAlphaEm3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannWolfeMTAlphaEm3MaxAbs(d)
+	plassmannWolfeMTAlphaEm3ShrinkDirection(d, g)
+	return plassmannWolfeMTAlphaEm3Dot(g, d), tiny * (before / plassmannWolfeMTAlphaEm3MaxAbs(d))
+}
+
+// plassmannWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannWolfeMTAlphaEm3MaxAbs(d); m > 0 {
+		plassmannWolfeMTAlphaEm3ScaleBy(d, 1/m)
+	}
+	if !plassmannWolfeMTAlphaEm3Finite(plassmannWolfeMTAlphaEm3Dot(g, d)) {
+		if m := plassmannWolfeMTAlphaEm3MaxAbs(g); m > 1 {
+			plassmannWolfeMTAlphaEm3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannWolfeMTAlphaEm3ScaleBy sets x = c·x.
+func plassmannWolfeMTAlphaEm3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannWolfeMTAlphaEm3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

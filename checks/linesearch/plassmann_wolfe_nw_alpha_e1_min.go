@@ -470,6 +470,9 @@ func (r *plassmannWolfeNWAlphaE1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannWolfeNWAlphaE1Finite(now) {
+		now = plassmannWolfeNWAlphaE1Dot(&r.g, &r.d) // the search shortened d (see plassmannWolfeNWAlphaE1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannWolfeNWAlphaE1SearchOutOfBudget:
 		r.finish(PlassmannWolfeNWAlphaE1OutOfEvaluations)
@@ -902,6 +905,7 @@ func plassmannWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) plassmannWolfeNWAlphaE1LineResult {
+	slope, tiny = plassmannWolfeNWAlphaE1ShortenAlong(g, d, slope, tiny)
 	low := plassmannWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type plassmannWolfeNWAlphaE1LineResult struct {
 
 // plassmannWolfeNWAlphaE1SearchEnd tells how a line search ended.
 type plassmannWolfeNWAlphaE1SearchEnd uint8
+
+// plassmannWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannWolfeNWAlphaE1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannWolfeNWAlphaE1Finite(slope) || !plassmannWolfeNWAlphaE1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannWolfeNWAlphaE1MaxAbs(d)
+	plassmannWolfeNWAlphaE1ShrinkDirection(d, g)
+	return plassmannWolfeNWAlphaE1Dot(g, d), tiny * (before / plassmannWolfeNWAlphaE1MaxAbs(d))
+}
+
+// plassmannWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannWolfeNWAlphaE1MaxAbs(d); m > 0 {
+		plassmannWolfeNWAlphaE1ScaleBy(d, 1/m)
+	}
+	if !plassmannWolfeNWAlphaE1Finite(plassmannWolfeNWAlphaE1Dot(g, d)) {
+		if m := plassmannWolfeNWAlphaE1MaxAbs(g); m > 1 {
+			plassmannWolfeNWAlphaE1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannWolfeNWAlphaE1ScaleBy sets x = c·x.
+func plassmannWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannWolfeNWAlphaE1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannWolfeNWAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannWolfeNWAlphaE3Finite(now) {
+		now = plassmannWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see plassmannWolfeNWAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case plassmannWolfeNWAlphaE3SearchOutOfBudget:
 		r.finish(PlassmannWolfeNWAlphaE3OutOfEvaluations)
@@ -902,6 +905,7 @@ func plassmannWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) plassmannWolfeNWAlphaE3LineResult {
+	slope, tiny = plassmannWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := plassmannWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type plassmannWolfeNWAlphaE3LineResult struct {
 
 // plassmannWolfeNWAlphaE3SearchEnd tells how a line search ended.
 type plassmannWolfeNWAlphaE3SearchEnd uint8
+
+// plassmannWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannWolfeNWAlphaE3Finite(slope) || !plassmannWolfeNWAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannWolfeNWAlphaE3MaxAbs(d)
+	plassmannWolfeNWAlphaE3ShrinkDirection(d, g)
+	return plassmannWolfeNWAlphaE3Dot(g, d), tiny * (before / plassmannWolfeNWAlphaE3MaxAbs(d))
+}
+
+// plassmannWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannWolfeNWAlphaE3MaxAbs(d); m > 0 {
+		plassmannWolfeNWAlphaE3ScaleBy(d, 1/m)
+	}
+	if !plassmannWolfeNWAlphaE3Finite(plassmannWolfeNWAlphaE3Dot(g, d)) {
+		if m := plassmannWolfeNWAlphaE3MaxAbs(g); m > 1 {
+			plassmannWolfeNWAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannWolfeNWAlphaE3ScaleBy sets x = c·x.
+func plassmannWolfeNWAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannWolfeNWAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *plassmannWolfeNWAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := plassmannWolfeNWAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !plassmannWolfeNWAlphaEm1Finite(now) {
+		now = plassmannWolfeNWAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see plassmannWolfeNWAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case plassmannWolfeNWAlphaEm1SearchOutOfBudget:
 		r.finish(PlassmannWolfeNWAlphaEm1OutOfEvaluations)
@@ -902,6 +905,7 @@ func plassmannWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) plassmannWolfeNWAlphaEm1LineResult {
+	slope, tiny = plassmannWolfeNWAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := plassmannWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type plassmannWolfeNWAlphaEm1LineResult struct {
 
 // plassmannWolfeNWAlphaEm1SearchEnd tells how a line search ended.
 type plassmannWolfeNWAlphaEm1SearchEnd uint8
+
+// plassmannWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (plassmannWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func plassmannWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if plassmannWolfeNWAlphaEm1Finite(slope) || !plassmannWolfeNWAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := plassmannWolfeNWAlphaEm1MaxAbs(d)
+	plassmannWolfeNWAlphaEm1ShrinkDirection(d, g)
+	return plassmannWolfeNWAlphaEm1Dot(g, d), tiny * (before / plassmannWolfeNWAlphaEm1MaxAbs(d))
+}
+
+// plassmannWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// plassmannWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func plassmannWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := plassmannWolfeNWAlphaEm1MaxAbs(d); m > 0 {
+		plassmannWolfeNWAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !plassmannWolfeNWAlphaEm1Finite(plassmannWolfeNWAlphaEm1Dot(g, d)) {
+		if m := plassmannWolfeNWAlphaEm1MaxAbs(g); m > 1 {
+			plassmannWolfeNWAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// plassmannWolfeNWAlphaEm1ScaleBy sets x = c·x.
+func plassmannWolfeNWAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // plassmannWolfeNWAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

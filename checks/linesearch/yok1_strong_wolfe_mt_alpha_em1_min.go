@@ -470,6 +470,9 @@ func (r *yok1StrongWolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := yok1StrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !yok1StrongWolfeMTAlphaEm1Finite(now) {
+		now = yok1StrongWolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see yok1StrongWolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case yok1StrongWolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(YOK1StrongWolfeMTAlphaEm1OutOfEvaluations)
@@ -902,6 +905,7 @@ func yok1StrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok1StrongWolfeMTAlphaEm1Differences) yok1StrongWolfeMTAlphaEm1LineResult {
+	slope, tiny = yok1StrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := yok1StrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1StrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type yok1StrongWolfeMTAlphaEm1LineResult struct {
 
 // yok1StrongWolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type yok1StrongWolfeMTAlphaEm1SearchEnd uint8
+
+// yok1StrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (yok1StrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func yok1StrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if yok1StrongWolfeMTAlphaEm1Finite(slope) || !yok1StrongWolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := yok1StrongWolfeMTAlphaEm1MaxAbs(d)
+	yok1StrongWolfeMTAlphaEm1ShrinkDirection(d, g)
+	return yok1StrongWolfeMTAlphaEm1Dot(g, d), tiny * (before / yok1StrongWolfeMTAlphaEm1MaxAbs(d))
+}
+
+// yok1StrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1StrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1StrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// yok1StrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func yok1StrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := yok1StrongWolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		yok1StrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !yok1StrongWolfeMTAlphaEm1Finite(yok1StrongWolfeMTAlphaEm1Dot(g, d)) {
+		if m := yok1StrongWolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			yok1StrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// yok1StrongWolfeMTAlphaEm1ScaleBy sets x = c·x.
+func yok1StrongWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // yok1StrongWolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *yok2StrongWolfeNWAlphaE3Descent) search() {
 	var xt, gt [1]float64
 	found := yok2StrongWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !yok2StrongWolfeNWAlphaE3Finite(now) {
+		now = yok2StrongWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see yok2StrongWolfeNWAlphaE3ShortenAlong)
+	}
 	switch found.end {
 	case yok2StrongWolfeNWAlphaE3SearchOutOfBudget:
 		r.finish(YOK2StrongWolfeNWAlphaE3OutOfEvaluations)
@@ -902,6 +905,7 @@ func yok2StrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2StrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok2StrongWolfeNWAlphaE3Differences) yok2StrongWolfeNWAlphaE3LineResult {
+	slope, tiny = yok2StrongWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
 	low := yok2StrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2StrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type yok2StrongWolfeNWAlphaE3LineResult struct {
 
 // yok2StrongWolfeNWAlphaE3SearchEnd tells how a line search ended.
 type yok2StrongWolfeNWAlphaE3SearchEnd uint8
+
+// yok2StrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (yok2StrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func yok2StrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if yok2StrongWolfeNWAlphaE3Finite(slope) || !yok2StrongWolfeNWAlphaE3FiniteVec(d) {
+		return slope, tiny
+	}
+	before := yok2StrongWolfeNWAlphaE3MaxAbs(d)
+	yok2StrongWolfeNWAlphaE3ShrinkDirection(d, g)
+	return yok2StrongWolfeNWAlphaE3Dot(g, d), tiny * (before / yok2StrongWolfeNWAlphaE3MaxAbs(d))
+}
+
+// yok2StrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2StrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2StrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// yok2StrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func yok2StrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
+	if m := yok2StrongWolfeNWAlphaE3MaxAbs(d); m > 0 {
+		yok2StrongWolfeNWAlphaE3ScaleBy(d, 1/m)
+	}
+	if !yok2StrongWolfeNWAlphaE3Finite(yok2StrongWolfeNWAlphaE3Dot(g, d)) {
+		if m := yok2StrongWolfeNWAlphaE3MaxAbs(g); m > 1 {
+			yok2StrongWolfeNWAlphaE3ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// yok2StrongWolfeNWAlphaE3ScaleBy sets x = c·x.
+func yok2StrongWolfeNWAlphaE3ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // yok2StrongWolfeNWAlphaE3LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

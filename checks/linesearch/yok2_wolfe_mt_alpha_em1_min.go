@@ -470,6 +470,9 @@ func (r *yok2WolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := yok2WolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !yok2WolfeMTAlphaEm1Finite(now) {
+		now = yok2WolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see yok2WolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case yok2WolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(YOK2WolfeMTAlphaEm1OutOfEvaluations)
@@ -902,6 +905,7 @@ func yok2WolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok2WolfeMTAlphaEm1Differences) yok2WolfeMTAlphaEm1LineResult {
+	slope, tiny = yok2WolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := yok2WolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type yok2WolfeMTAlphaEm1LineResult struct {
 
 // yok2WolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type yok2WolfeMTAlphaEm1SearchEnd uint8
+
+// yok2WolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (yok2WolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func yok2WolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if yok2WolfeMTAlphaEm1Finite(slope) || !yok2WolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := yok2WolfeMTAlphaEm1MaxAbs(d)
+	yok2WolfeMTAlphaEm1ShrinkDirection(d, g)
+	return yok2WolfeMTAlphaEm1Dot(g, d), tiny * (before / yok2WolfeMTAlphaEm1MaxAbs(d))
+}
+
+// yok2WolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2WolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2WolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// yok2WolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func yok2WolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := yok2WolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		yok2WolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !yok2WolfeMTAlphaEm1Finite(yok2WolfeMTAlphaEm1Dot(g, d)) {
+		if m := yok2WolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			yok2WolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// yok2WolfeMTAlphaEm1ScaleBy sets x = c·x.
+func yok2WolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // yok2WolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

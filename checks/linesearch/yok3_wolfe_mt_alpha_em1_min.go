@@ -470,6 +470,9 @@ func (r *yok3WolfeMTAlphaEm1Descent) search() {
 	var xt, gt [1]float64
 	found := yok3WolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !yok3WolfeMTAlphaEm1Finite(now) {
+		now = yok3WolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see yok3WolfeMTAlphaEm1ShortenAlong)
+	}
 	switch found.end {
 	case yok3WolfeMTAlphaEm1SearchOutOfBudget:
 		r.finish(YOK3WolfeMTAlphaEm1OutOfEvaluations)
@@ -902,6 +905,7 @@ func yok3WolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3WolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok3WolfeMTAlphaEm1Differences) yok3WolfeMTAlphaEm1LineResult {
+	slope, tiny = yok3WolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
 	low := yok3WolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3WolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -980,6 +984,53 @@ type yok3WolfeMTAlphaEm1LineResult struct {
 
 // yok3WolfeMTAlphaEm1SearchEnd tells how a line search ended.
 type yok3WolfeMTAlphaEm1SearchEnd uint8
+
+// yok3WolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (yok3WolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func yok3WolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if yok3WolfeMTAlphaEm1Finite(slope) || !yok3WolfeMTAlphaEm1FiniteVec(d) {
+		return slope, tiny
+	}
+	before := yok3WolfeMTAlphaEm1MaxAbs(d)
+	yok3WolfeMTAlphaEm1ShrinkDirection(d, g)
+	return yok3WolfeMTAlphaEm1Dot(g, d), tiny * (before / yok3WolfeMTAlphaEm1MaxAbs(d))
+}
+
+// yok3WolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3WolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3WolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// yok3WolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func yok3WolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
+	if m := yok3WolfeMTAlphaEm1MaxAbs(d); m > 0 {
+		yok3WolfeMTAlphaEm1ScaleBy(d, 1/m)
+	}
+	if !yok3WolfeMTAlphaEm1Finite(yok3WolfeMTAlphaEm1Dot(g, d)) {
+		if m := yok3WolfeMTAlphaEm1MaxAbs(g); m > 1 {
+			yok3WolfeMTAlphaEm1ScaleBy(d, 1/m)
+		}
+	}
+}
+
+// yok3WolfeMTAlphaEm1ScaleBy sets x = c·x.
+func yok3WolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // yok3WolfeMTAlphaEm1LinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *bealeBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := bealeBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !bealeBFGSAnalyticFinite(now) {
+		now = bealeBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see bealeBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case bealeBFGSAnalyticSearchOutOfBudget:
 		r.finish(BealeBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSAnalyticDifferences) bealeBFGSAnalyticLineResult {
+	slope, tiny = bealeBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := bealeBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type bealeBFGSAnalyticLineResult struct {
 
 // bealeBFGSAnalyticSearchEnd tells how a line search ended.
 type bealeBFGSAnalyticSearchEnd uint8
+
+// bealeBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (bealeBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func bealeBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if bealeBFGSAnalyticFinite(slope) || !bealeBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := bealeBFGSAnalyticMaxAbs(d)
+	bealeBFGSAnalyticShrinkDirection(d, g)
+	return bealeBFGSAnalyticDot(g, d), tiny * (before / bealeBFGSAnalyticMaxAbs(d))
+}
+
+// bealeBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// bealeBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func bealeBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := bealeBFGSAnalyticMaxAbs(d); m > 0 {
+		bealeBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !bealeBFGSAnalyticFinite(bealeBFGSAnalyticDot(g, d)) {
+		if m := bealeBFGSAnalyticMaxAbs(g); m > 1 {
+			bealeBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// bealeBFGSAnalyticScaleBy sets x = c·x.
+func bealeBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // bealeBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

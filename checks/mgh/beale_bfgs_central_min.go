@@ -470,6 +470,9 @@ func (r *bealeBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := bealeBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !bealeBFGSCentralFinite(now) {
+		now = bealeBFGSCentralDot(&r.g, &r.d) // the search shortened d (see bealeBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case bealeBFGSCentralSearchOutOfBudget:
 		r.finish(BealeBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
+	slope, tiny = bealeBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := bealeBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type bealeBFGSCentralLineResult struct {
 
 // bealeBFGSCentralSearchEnd tells how a line search ended.
 type bealeBFGSCentralSearchEnd uint8
+
+// bealeBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (bealeBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func bealeBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if bealeBFGSCentralFinite(slope) || !bealeBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := bealeBFGSCentralMaxAbs(d)
+	bealeBFGSCentralShrinkDirection(d, g)
+	return bealeBFGSCentralDot(g, d), tiny * (before / bealeBFGSCentralMaxAbs(d))
+}
+
+// bealeBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// bealeBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func bealeBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := bealeBFGSCentralMaxAbs(d); m > 0 {
+		bealeBFGSCentralScaleBy(d, 1/m)
+	}
+	if !bealeBFGSCentralFinite(bealeBFGSCentralDot(g, d)) {
+		if m := bealeBFGSCentralMaxAbs(g); m > 1 {
+			bealeBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// bealeBFGSCentralScaleBy sets x = c·x.
+func bealeBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // bealeBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

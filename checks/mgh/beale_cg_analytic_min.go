@@ -470,6 +470,9 @@ func (r *bealeCGAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := bealeCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !bealeCGAnalyticFinite(now) {
+		now = bealeCGAnalyticDot(&r.g, &r.d) // the search shortened d (see bealeCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case bealeCGAnalyticSearchOutOfBudget:
 		r.finish(BealeCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGAnalyticDifferences) bealeCGAnalyticLineResult {
+	slope, tiny = bealeCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := bealeCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type bealeCGAnalyticLineResult struct {
 
 // bealeCGAnalyticSearchEnd tells how a line search ended.
 type bealeCGAnalyticSearchEnd uint8
+
+// bealeCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (bealeCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func bealeCGAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if bealeCGAnalyticFinite(slope) || !bealeCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := bealeCGAnalyticMaxAbs(d)
+	bealeCGAnalyticShrinkDirection(d, g)
+	return bealeCGAnalyticDot(g, d), tiny * (before / bealeCGAnalyticMaxAbs(d))
+}
+
+// bealeCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// bealeCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func bealeCGAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := bealeCGAnalyticMaxAbs(d); m > 0 {
+		bealeCGAnalyticScaleBy(d, 1/m)
+	}
+	if !bealeCGAnalyticFinite(bealeCGAnalyticDot(g, d)) {
+		if m := bealeCGAnalyticMaxAbs(g); m > 1 {
+			bealeCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// bealeCGAnalyticScaleBy sets x = c·x.
+func bealeCGAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // bealeCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *bealeCGCentralDescent) search() {
 	var xt, gt [2]float64
 	found := bealeCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !bealeCGCentralFinite(now) {
+		now = bealeCGCentralDot(&r.g, &r.d) // the search shortened d (see bealeCGCentralShortenAlong)
+	}
 	switch found.end {
 	case bealeCGCentralSearchOutOfBudget:
 		r.finish(BealeCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
+	slope, tiny = bealeCGCentralShortenAlong(g, d, slope, tiny)
 	low := bealeCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type bealeCGCentralLineResult struct {
 
 // bealeCGCentralSearchEnd tells how a line search ended.
 type bealeCGCentralSearchEnd uint8
+
+// bealeCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (bealeCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func bealeCGCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if bealeCGCentralFinite(slope) || !bealeCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := bealeCGCentralMaxAbs(d)
+	bealeCGCentralShrinkDirection(d, g)
+	return bealeCGCentralDot(g, d), tiny * (before / bealeCGCentralMaxAbs(d))
+}
+
+// bealeCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// bealeCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func bealeCGCentralShrinkDirection(d, g *[2]float64) {
+	if m := bealeCGCentralMaxAbs(d); m > 0 {
+		bealeCGCentralScaleBy(d, 1/m)
+	}
+	if !bealeCGCentralFinite(bealeCGCentralDot(g, d)) {
+		if m := bealeCGCentralMaxAbs(g); m > 1 {
+			bealeCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// bealeCGCentralScaleBy sets x = c·x.
+func bealeCGCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // bealeCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *bealeLBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := bealeLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !bealeLBFGSAnalyticFinite(now) {
+		now = bealeLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see bealeLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case bealeLBFGSAnalyticSearchOutOfBudget:
 		r.finish(BealeLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
+	slope, tiny = bealeLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := bealeLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type bealeLBFGSAnalyticLineResult struct {
 
 // bealeLBFGSAnalyticSearchEnd tells how a line search ended.
 type bealeLBFGSAnalyticSearchEnd uint8
+
+// bealeLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (bealeLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func bealeLBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if bealeLBFGSAnalyticFinite(slope) || !bealeLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := bealeLBFGSAnalyticMaxAbs(d)
+	bealeLBFGSAnalyticShrinkDirection(d, g)
+	return bealeLBFGSAnalyticDot(g, d), tiny * (before / bealeLBFGSAnalyticMaxAbs(d))
+}
+
+// bealeLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// bealeLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func bealeLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := bealeLBFGSAnalyticMaxAbs(d); m > 0 {
+		bealeLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !bealeLBFGSAnalyticFinite(bealeLBFGSAnalyticDot(g, d)) {
+		if m := bealeLBFGSAnalyticMaxAbs(g); m > 1 {
+			bealeLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// bealeLBFGSAnalyticScaleBy sets x = c·x.
+func bealeLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // bealeLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

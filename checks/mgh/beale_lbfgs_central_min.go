@@ -471,6 +471,9 @@ func (r *bealeLBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := bealeLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !bealeLBFGSCentralFinite(now) {
+		now = bealeLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see bealeLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case bealeLBFGSCentralSearchOutOfBudget:
 		r.finish(BealeLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSCentralDifferences) bealeLBFGSCentralLineResult {
+	slope, tiny = bealeLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := bealeLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type bealeLBFGSCentralLineResult struct {
 
 // bealeLBFGSCentralSearchEnd tells how a line search ended.
 type bealeLBFGSCentralSearchEnd uint8
+
+// bealeLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (bealeLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func bealeLBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if bealeLBFGSCentralFinite(slope) || !bealeLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := bealeLBFGSCentralMaxAbs(d)
+	bealeLBFGSCentralShrinkDirection(d, g)
+	return bealeLBFGSCentralDot(g, d), tiny * (before / bealeLBFGSCentralMaxAbs(d))
+}
+
+// bealeLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// bealeLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func bealeLBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := bealeLBFGSCentralMaxAbs(d); m > 0 {
+		bealeLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !bealeLBFGSCentralFinite(bealeLBFGSCentralDot(g, d)) {
+		if m := bealeLBFGSCentralMaxAbs(g); m > 1 {
+			bealeLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// bealeLBFGSCentralScaleBy sets x = c·x.
+func bealeLBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // bealeLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

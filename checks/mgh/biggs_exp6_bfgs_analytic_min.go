@@ -470,6 +470,9 @@ func (r *biggsEXP6BFGSAnalyticDescent) search() {
 	var xt, gt [6]float64
 	found := biggsEXP6BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !biggsEXP6BFGSAnalyticFinite(now) {
+		now = biggsEXP6BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see biggsEXP6BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case biggsEXP6BFGSAnalyticSearchOutOfBudget:
 		r.finish(BiggsEXP6BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) biggsEXP6BFGSAnalyticLineResult {
+	slope, tiny = biggsEXP6BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := biggsEXP6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type biggsEXP6BFGSAnalyticLineResult struct {
 
 // biggsEXP6BFGSAnalyticSearchEnd tells how a line search ended.
 type biggsEXP6BFGSAnalyticSearchEnd uint8
+
+// biggsEXP6BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (biggsEXP6BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func biggsEXP6BFGSAnalyticShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if biggsEXP6BFGSAnalyticFinite(slope) || !biggsEXP6BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := biggsEXP6BFGSAnalyticMaxAbs(d)
+	biggsEXP6BFGSAnalyticShrinkDirection(d, g)
+	return biggsEXP6BFGSAnalyticDot(g, d), tiny * (before / biggsEXP6BFGSAnalyticMaxAbs(d))
+}
+
+// biggsEXP6BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6BFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// biggsEXP6BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func biggsEXP6BFGSAnalyticShrinkDirection(d, g *[6]float64) {
+	if m := biggsEXP6BFGSAnalyticMaxAbs(d); m > 0 {
+		biggsEXP6BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !biggsEXP6BFGSAnalyticFinite(biggsEXP6BFGSAnalyticDot(g, d)) {
+		if m := biggsEXP6BFGSAnalyticMaxAbs(g); m > 1 {
+			biggsEXP6BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// biggsEXP6BFGSAnalyticScaleBy sets x = c·x.
+func biggsEXP6BFGSAnalyticScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // biggsEXP6BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

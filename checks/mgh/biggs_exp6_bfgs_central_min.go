@@ -470,6 +470,9 @@ func (r *biggsEXP6BFGSCentralDescent) search() {
 	var xt, gt [6]float64
 	found := biggsEXP6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !biggsEXP6BFGSCentralFinite(now) {
+		now = biggsEXP6BFGSCentralDot(&r.g, &r.d) // the search shortened d (see biggsEXP6BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case biggsEXP6BFGSCentralSearchOutOfBudget:
 		r.finish(BiggsEXP6BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) biggsEXP6BFGSCentralLineResult {
+	slope, tiny = biggsEXP6BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := biggsEXP6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type biggsEXP6BFGSCentralLineResult struct {
 
 // biggsEXP6BFGSCentralSearchEnd tells how a line search ended.
 type biggsEXP6BFGSCentralSearchEnd uint8
+
+// biggsEXP6BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (biggsEXP6BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func biggsEXP6BFGSCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if biggsEXP6BFGSCentralFinite(slope) || !biggsEXP6BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := biggsEXP6BFGSCentralMaxAbs(d)
+	biggsEXP6BFGSCentralShrinkDirection(d, g)
+	return biggsEXP6BFGSCentralDot(g, d), tiny * (before / biggsEXP6BFGSCentralMaxAbs(d))
+}
+
+// biggsEXP6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6BFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// biggsEXP6BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func biggsEXP6BFGSCentralShrinkDirection(d, g *[6]float64) {
+	if m := biggsEXP6BFGSCentralMaxAbs(d); m > 0 {
+		biggsEXP6BFGSCentralScaleBy(d, 1/m)
+	}
+	if !biggsEXP6BFGSCentralFinite(biggsEXP6BFGSCentralDot(g, d)) {
+		if m := biggsEXP6BFGSCentralMaxAbs(g); m > 1 {
+			biggsEXP6BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// biggsEXP6BFGSCentralScaleBy sets x = c·x.
+func biggsEXP6BFGSCentralScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // biggsEXP6BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *biggsEXP6CGAnalyticDescent) search() {
 	var xt, gt [6]float64
 	found := biggsEXP6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !biggsEXP6CGAnalyticFinite(now) {
+		now = biggsEXP6CGAnalyticDot(&r.g, &r.d) // the search shortened d (see biggsEXP6CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case biggsEXP6CGAnalyticSearchOutOfBudget:
 		r.finish(BiggsEXP6CGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
+	slope, tiny = biggsEXP6CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := biggsEXP6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type biggsEXP6CGAnalyticLineResult struct {
 
 // biggsEXP6CGAnalyticSearchEnd tells how a line search ended.
 type biggsEXP6CGAnalyticSearchEnd uint8
+
+// biggsEXP6CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (biggsEXP6CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func biggsEXP6CGAnalyticShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if biggsEXP6CGAnalyticFinite(slope) || !biggsEXP6CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := biggsEXP6CGAnalyticMaxAbs(d)
+	biggsEXP6CGAnalyticShrinkDirection(d, g)
+	return biggsEXP6CGAnalyticDot(g, d), tiny * (before / biggsEXP6CGAnalyticMaxAbs(d))
+}
+
+// biggsEXP6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6CGAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// biggsEXP6CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func biggsEXP6CGAnalyticShrinkDirection(d, g *[6]float64) {
+	if m := biggsEXP6CGAnalyticMaxAbs(d); m > 0 {
+		biggsEXP6CGAnalyticScaleBy(d, 1/m)
+	}
+	if !biggsEXP6CGAnalyticFinite(biggsEXP6CGAnalyticDot(g, d)) {
+		if m := biggsEXP6CGAnalyticMaxAbs(g); m > 1 {
+			biggsEXP6CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// biggsEXP6CGAnalyticScaleBy sets x = c·x.
+func biggsEXP6CGAnalyticScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // biggsEXP6CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *biggsEXP6CGCentralDescent) search() {
 	var xt, gt [6]float64
 	found := biggsEXP6CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !biggsEXP6CGCentralFinite(now) {
+		now = biggsEXP6CGCentralDot(&r.g, &r.d) // the search shortened d (see biggsEXP6CGCentralShortenAlong)
+	}
 	switch found.end {
 	case biggsEXP6CGCentralSearchOutOfBudget:
 		r.finish(BiggsEXP6CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGCentralDifferences) biggsEXP6CGCentralLineResult {
+	slope, tiny = biggsEXP6CGCentralShortenAlong(g, d, slope, tiny)
 	low := biggsEXP6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type biggsEXP6CGCentralLineResult struct {
 
 // biggsEXP6CGCentralSearchEnd tells how a line search ended.
 type biggsEXP6CGCentralSearchEnd uint8
+
+// biggsEXP6CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (biggsEXP6CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func biggsEXP6CGCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if biggsEXP6CGCentralFinite(slope) || !biggsEXP6CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := biggsEXP6CGCentralMaxAbs(d)
+	biggsEXP6CGCentralShrinkDirection(d, g)
+	return biggsEXP6CGCentralDot(g, d), tiny * (before / biggsEXP6CGCentralMaxAbs(d))
+}
+
+// biggsEXP6CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6CGCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// biggsEXP6CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func biggsEXP6CGCentralShrinkDirection(d, g *[6]float64) {
+	if m := biggsEXP6CGCentralMaxAbs(d); m > 0 {
+		biggsEXP6CGCentralScaleBy(d, 1/m)
+	}
+	if !biggsEXP6CGCentralFinite(biggsEXP6CGCentralDot(g, d)) {
+		if m := biggsEXP6CGCentralMaxAbs(g); m > 1 {
+			biggsEXP6CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// biggsEXP6CGCentralScaleBy sets x = c·x.
+func biggsEXP6CGCentralScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // biggsEXP6CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *biggsEXP6LBFGSCentralDescent) search() {
 	var xt, gt [6]float64
 	found := biggsEXP6LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !biggsEXP6LBFGSCentralFinite(now) {
+		now = biggsEXP6LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see biggsEXP6LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case biggsEXP6LBFGSCentralSearchOutOfBudget:
 		r.finish(BiggsEXP6LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) biggsEXP6LBFGSCentralLineResult {
+	slope, tiny = biggsEXP6LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := biggsEXP6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type biggsEXP6LBFGSCentralLineResult struct {
 
 // biggsEXP6LBFGSCentralSearchEnd tells how a line search ended.
 type biggsEXP6LBFGSCentralSearchEnd uint8
+
+// biggsEXP6LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (biggsEXP6LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func biggsEXP6LBFGSCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if biggsEXP6LBFGSCentralFinite(slope) || !biggsEXP6LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := biggsEXP6LBFGSCentralMaxAbs(d)
+	biggsEXP6LBFGSCentralShrinkDirection(d, g)
+	return biggsEXP6LBFGSCentralDot(g, d), tiny * (before / biggsEXP6LBFGSCentralMaxAbs(d))
+}
+
+// biggsEXP6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6LBFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// biggsEXP6LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func biggsEXP6LBFGSCentralShrinkDirection(d, g *[6]float64) {
+	if m := biggsEXP6LBFGSCentralMaxAbs(d); m > 0 {
+		biggsEXP6LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !biggsEXP6LBFGSCentralFinite(biggsEXP6LBFGSCentralDot(g, d)) {
+		if m := biggsEXP6LBFGSCentralMaxAbs(g); m > 1 {
+			biggsEXP6LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// biggsEXP6LBFGSCentralScaleBy sets x = c·x.
+func biggsEXP6LBFGSCentralScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // biggsEXP6LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

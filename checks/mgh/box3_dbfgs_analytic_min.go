@@ -470,6 +470,9 @@ func (r *box3DBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := box3DBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !box3DBFGSAnalyticFinite(now) {
+		now = box3DBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see box3DBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case box3DBFGSAnalyticSearchOutOfBudget:
 		r.finish(Box3DBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSAnalyticDifferences) box3DBFGSAnalyticLineResult {
+	slope, tiny = box3DBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := box3DBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type box3DBFGSAnalyticLineResult struct {
 
 // box3DBFGSAnalyticSearchEnd tells how a line search ended.
 type box3DBFGSAnalyticSearchEnd uint8
+
+// box3DBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (box3DBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func box3DBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if box3DBFGSAnalyticFinite(slope) || !box3DBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := box3DBFGSAnalyticMaxAbs(d)
+	box3DBFGSAnalyticShrinkDirection(d, g)
+	return box3DBFGSAnalyticDot(g, d), tiny * (before / box3DBFGSAnalyticMaxAbs(d))
+}
+
+// box3DBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// box3DBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func box3DBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := box3DBFGSAnalyticMaxAbs(d); m > 0 {
+		box3DBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !box3DBFGSAnalyticFinite(box3DBFGSAnalyticDot(g, d)) {
+		if m := box3DBFGSAnalyticMaxAbs(g); m > 1 {
+			box3DBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// box3DBFGSAnalyticScaleBy sets x = c·x.
+func box3DBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // box3DBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

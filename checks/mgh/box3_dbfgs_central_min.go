@@ -470,6 +470,9 @@ func (r *box3DBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := box3DBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !box3DBFGSCentralFinite(now) {
+		now = box3DBFGSCentralDot(&r.g, &r.d) // the search shortened d (see box3DBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case box3DBFGSCentralSearchOutOfBudget:
 		r.finish(Box3DBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
+	slope, tiny = box3DBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := box3DBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type box3DBFGSCentralLineResult struct {
 
 // box3DBFGSCentralSearchEnd tells how a line search ended.
 type box3DBFGSCentralSearchEnd uint8
+
+// box3DBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (box3DBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func box3DBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if box3DBFGSCentralFinite(slope) || !box3DBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := box3DBFGSCentralMaxAbs(d)
+	box3DBFGSCentralShrinkDirection(d, g)
+	return box3DBFGSCentralDot(g, d), tiny * (before / box3DBFGSCentralMaxAbs(d))
+}
+
+// box3DBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// box3DBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func box3DBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := box3DBFGSCentralMaxAbs(d); m > 0 {
+		box3DBFGSCentralScaleBy(d, 1/m)
+	}
+	if !box3DBFGSCentralFinite(box3DBFGSCentralDot(g, d)) {
+		if m := box3DBFGSCentralMaxAbs(g); m > 1 {
+			box3DBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// box3DBFGSCentralScaleBy sets x = c·x.
+func box3DBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // box3DBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

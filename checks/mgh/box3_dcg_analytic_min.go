@@ -470,6 +470,9 @@ func (r *box3DCGAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := box3DCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !box3DCGAnalyticFinite(now) {
+		now = box3DCGAnalyticDot(&r.g, &r.d) // the search shortened d (see box3DCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case box3DCGAnalyticSearchOutOfBudget:
 		r.finish(Box3DCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGAnalyticDifferences) box3DCGAnalyticLineResult {
+	slope, tiny = box3DCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := box3DCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type box3DCGAnalyticLineResult struct {
 
 // box3DCGAnalyticSearchEnd tells how a line search ended.
 type box3DCGAnalyticSearchEnd uint8
+
+// box3DCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (box3DCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func box3DCGAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if box3DCGAnalyticFinite(slope) || !box3DCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := box3DCGAnalyticMaxAbs(d)
+	box3DCGAnalyticShrinkDirection(d, g)
+	return box3DCGAnalyticDot(g, d), tiny * (before / box3DCGAnalyticMaxAbs(d))
+}
+
+// box3DCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// box3DCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func box3DCGAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := box3DCGAnalyticMaxAbs(d); m > 0 {
+		box3DCGAnalyticScaleBy(d, 1/m)
+	}
+	if !box3DCGAnalyticFinite(box3DCGAnalyticDot(g, d)) {
+		if m := box3DCGAnalyticMaxAbs(g); m > 1 {
+			box3DCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// box3DCGAnalyticScaleBy sets x = c·x.
+func box3DCGAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // box3DCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

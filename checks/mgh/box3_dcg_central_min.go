@@ -470,6 +470,9 @@ func (r *box3DCGCentralDescent) search() {
 	var xt, gt [3]float64
 	found := box3DCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !box3DCGCentralFinite(now) {
+		now = box3DCGCentralDot(&r.g, &r.d) // the search shortened d (see box3DCGCentralShortenAlong)
+	}
 	switch found.end {
 	case box3DCGCentralSearchOutOfBudget:
 		r.finish(Box3DCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func box3DCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
+	slope, tiny = box3DCGCentralShortenAlong(g, d, slope, tiny)
 	low := box3DCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type box3DCGCentralLineResult struct {
 
 // box3DCGCentralSearchEnd tells how a line search ended.
 type box3DCGCentralSearchEnd uint8
+
+// box3DCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (box3DCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func box3DCGCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if box3DCGCentralFinite(slope) || !box3DCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := box3DCGCentralMaxAbs(d)
+	box3DCGCentralShrinkDirection(d, g)
+	return box3DCGCentralDot(g, d), tiny * (before / box3DCGCentralMaxAbs(d))
+}
+
+// box3DCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// box3DCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func box3DCGCentralShrinkDirection(d, g *[3]float64) {
+	if m := box3DCGCentralMaxAbs(d); m > 0 {
+		box3DCGCentralScaleBy(d, 1/m)
+	}
+	if !box3DCGCentralFinite(box3DCGCentralDot(g, d)) {
+		if m := box3DCGCentralMaxAbs(g); m > 1 {
+			box3DCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// box3DCGCentralScaleBy sets x = c·x.
+func box3DCGCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // box3DCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *box3DLBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := box3DLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !box3DLBFGSAnalyticFinite(now) {
+		now = box3DLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see box3DLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case box3DLBFGSAnalyticSearchOutOfBudget:
 		r.finish(Box3DLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSAnalyticDifferences) box3DLBFGSAnalyticLineResult {
+	slope, tiny = box3DLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := box3DLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type box3DLBFGSAnalyticLineResult struct {
 
 // box3DLBFGSAnalyticSearchEnd tells how a line search ended.
 type box3DLBFGSAnalyticSearchEnd uint8
+
+// box3DLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (box3DLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func box3DLBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if box3DLBFGSAnalyticFinite(slope) || !box3DLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := box3DLBFGSAnalyticMaxAbs(d)
+	box3DLBFGSAnalyticShrinkDirection(d, g)
+	return box3DLBFGSAnalyticDot(g, d), tiny * (before / box3DLBFGSAnalyticMaxAbs(d))
+}
+
+// box3DLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// box3DLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func box3DLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := box3DLBFGSAnalyticMaxAbs(d); m > 0 {
+		box3DLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !box3DLBFGSAnalyticFinite(box3DLBFGSAnalyticDot(g, d)) {
+		if m := box3DLBFGSAnalyticMaxAbs(g); m > 1 {
+			box3DLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// box3DLBFGSAnalyticScaleBy sets x = c·x.
+func box3DLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // box3DLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

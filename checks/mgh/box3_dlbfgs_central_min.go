@@ -471,6 +471,9 @@ func (r *box3DLBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := box3DLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !box3DLBFGSCentralFinite(now) {
+		now = box3DLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see box3DLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case box3DLBFGSCentralSearchOutOfBudget:
 		r.finish(Box3DLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
+	slope, tiny = box3DLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := box3DLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type box3DLBFGSCentralLineResult struct {
 
 // box3DLBFGSCentralSearchEnd tells how a line search ended.
 type box3DLBFGSCentralSearchEnd uint8
+
+// box3DLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (box3DLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func box3DLBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if box3DLBFGSCentralFinite(slope) || !box3DLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := box3DLBFGSCentralMaxAbs(d)
+	box3DLBFGSCentralShrinkDirection(d, g)
+	return box3DLBFGSCentralDot(g, d), tiny * (before / box3DLBFGSCentralMaxAbs(d))
+}
+
+// box3DLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// box3DLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func box3DLBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := box3DLBFGSCentralMaxAbs(d); m > 0 {
+		box3DLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !box3DLBFGSCentralFinite(box3DLBFGSCentralDot(g, d)) {
+		if m := box3DLBFGSCentralMaxAbs(g); m > 1 {
+			box3DLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// box3DLBFGSCentralScaleBy sets x = c·x.
+func box3DLBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // box3DLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

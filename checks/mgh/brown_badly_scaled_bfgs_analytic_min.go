@@ -470,6 +470,9 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := brownBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownBadlyScaledBFGSAnalyticFinite(now) {
+		now = brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case brownBadlyScaledBFGSAnalyticSearchOutOfBudget:
 		r.finish(BrownBadlyScaledBFGSAnalyticOutOfEvaluations)
@@ -934,6 +937,7 @@ func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
+	slope, tiny = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := brownBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1012,6 +1016,53 @@ type brownBadlyScaledBFGSAnalyticLineResult struct {
 
 // brownBadlyScaledBFGSAnalyticSearchEnd tells how a line search ended.
 type brownBadlyScaledBFGSAnalyticSearchEnd uint8
+
+// brownBadlyScaledBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownBadlyScaledBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if brownBadlyScaledBFGSAnalyticFinite(slope) || !brownBadlyScaledBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownBadlyScaledBFGSAnalyticMaxAbs(d)
+	brownBadlyScaledBFGSAnalyticShrinkDirection(d, g)
+	return brownBadlyScaledBFGSAnalyticDot(g, d), tiny * (before / brownBadlyScaledBFGSAnalyticMaxAbs(d))
+}
+
+// brownBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownBadlyScaledBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownBadlyScaledBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := brownBadlyScaledBFGSAnalyticMaxAbs(d); m > 0 {
+		brownBadlyScaledBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !brownBadlyScaledBFGSAnalyticFinite(brownBadlyScaledBFGSAnalyticDot(g, d)) {
+		if m := brownBadlyScaledBFGSAnalyticMaxAbs(g); m > 1 {
+			brownBadlyScaledBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownBadlyScaledBFGSAnalyticScaleBy sets x = c·x.
+func brownBadlyScaledBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownBadlyScaledBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

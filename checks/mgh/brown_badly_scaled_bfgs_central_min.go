@@ -470,6 +470,9 @@ func (r *brownBadlyScaledBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := brownBadlyScaledBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownBadlyScaledBFGSCentralFinite(now) {
+		now = brownBadlyScaledBFGSCentralDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case brownBadlyScaledBFGSCentralSearchOutOfBudget:
 		r.finish(BrownBadlyScaledBFGSCentralOutOfEvaluations)
@@ -1113,6 +1116,7 @@ func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) brownBadlyScaledBFGSCentralLineResult {
+	slope, tiny = brownBadlyScaledBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := brownBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1191,6 +1195,53 @@ type brownBadlyScaledBFGSCentralLineResult struct {
 
 // brownBadlyScaledBFGSCentralSearchEnd tells how a line search ended.
 type brownBadlyScaledBFGSCentralSearchEnd uint8
+
+// brownBadlyScaledBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownBadlyScaledBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownBadlyScaledBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if brownBadlyScaledBFGSCentralFinite(slope) || !brownBadlyScaledBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownBadlyScaledBFGSCentralMaxAbs(d)
+	brownBadlyScaledBFGSCentralShrinkDirection(d, g)
+	return brownBadlyScaledBFGSCentralDot(g, d), tiny * (before / brownBadlyScaledBFGSCentralMaxAbs(d))
+}
+
+// brownBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownBadlyScaledBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownBadlyScaledBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := brownBadlyScaledBFGSCentralMaxAbs(d); m > 0 {
+		brownBadlyScaledBFGSCentralScaleBy(d, 1/m)
+	}
+	if !brownBadlyScaledBFGSCentralFinite(brownBadlyScaledBFGSCentralDot(g, d)) {
+		if m := brownBadlyScaledBFGSCentralMaxAbs(g); m > 1 {
+			brownBadlyScaledBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownBadlyScaledBFGSCentralScaleBy sets x = c·x.
+func brownBadlyScaledBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownBadlyScaledBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

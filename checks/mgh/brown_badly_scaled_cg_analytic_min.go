@@ -470,6 +470,9 @@ func (r *brownBadlyScaledCGAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := brownBadlyScaledCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownBadlyScaledCGAnalyticFinite(now) {
+		now = brownBadlyScaledCGAnalyticDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case brownBadlyScaledCGAnalyticSearchOutOfBudget:
 		r.finish(BrownBadlyScaledCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) brownBadlyScaledCGAnalyticLineResult {
+	slope, tiny = brownBadlyScaledCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := brownBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type brownBadlyScaledCGAnalyticLineResult struct {
 
 // brownBadlyScaledCGAnalyticSearchEnd tells how a line search ended.
 type brownBadlyScaledCGAnalyticSearchEnd uint8
+
+// brownBadlyScaledCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownBadlyScaledCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownBadlyScaledCGAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if brownBadlyScaledCGAnalyticFinite(slope) || !brownBadlyScaledCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownBadlyScaledCGAnalyticMaxAbs(d)
+	brownBadlyScaledCGAnalyticShrinkDirection(d, g)
+	return brownBadlyScaledCGAnalyticDot(g, d), tiny * (before / brownBadlyScaledCGAnalyticMaxAbs(d))
+}
+
+// brownBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownBadlyScaledCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownBadlyScaledCGAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := brownBadlyScaledCGAnalyticMaxAbs(d); m > 0 {
+		brownBadlyScaledCGAnalyticScaleBy(d, 1/m)
+	}
+	if !brownBadlyScaledCGAnalyticFinite(brownBadlyScaledCGAnalyticDot(g, d)) {
+		if m := brownBadlyScaledCGAnalyticMaxAbs(g); m > 1 {
+			brownBadlyScaledCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownBadlyScaledCGAnalyticScaleBy sets x = c·x.
+func brownBadlyScaledCGAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownBadlyScaledCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *brownBadlyScaledCGCentralDescent) search() {
 	var xt, gt [2]float64
 	found := brownBadlyScaledCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownBadlyScaledCGCentralFinite(now) {
+		now = brownBadlyScaledCGCentralDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledCGCentralShortenAlong)
+	}
 	switch found.end {
 	case brownBadlyScaledCGCentralSearchOutOfBudget:
 		r.finish(BrownBadlyScaledCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) brownBadlyScaledCGCentralLineResult {
+	slope, tiny = brownBadlyScaledCGCentralShortenAlong(g, d, slope, tiny)
 	low := brownBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type brownBadlyScaledCGCentralLineResult struct {
 
 // brownBadlyScaledCGCentralSearchEnd tells how a line search ended.
 type brownBadlyScaledCGCentralSearchEnd uint8
+
+// brownBadlyScaledCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownBadlyScaledCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownBadlyScaledCGCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if brownBadlyScaledCGCentralFinite(slope) || !brownBadlyScaledCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownBadlyScaledCGCentralMaxAbs(d)
+	brownBadlyScaledCGCentralShrinkDirection(d, g)
+	return brownBadlyScaledCGCentralDot(g, d), tiny * (before / brownBadlyScaledCGCentralMaxAbs(d))
+}
+
+// brownBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownBadlyScaledCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownBadlyScaledCGCentralShrinkDirection(d, g *[2]float64) {
+	if m := brownBadlyScaledCGCentralMaxAbs(d); m > 0 {
+		brownBadlyScaledCGCentralScaleBy(d, 1/m)
+	}
+	if !brownBadlyScaledCGCentralFinite(brownBadlyScaledCGCentralDot(g, d)) {
+		if m := brownBadlyScaledCGCentralMaxAbs(g); m > 1 {
+			brownBadlyScaledCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownBadlyScaledCGCentralScaleBy sets x = c·x.
+func brownBadlyScaledCGCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownBadlyScaledCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

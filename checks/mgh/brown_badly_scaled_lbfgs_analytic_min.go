@@ -471,6 +471,9 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := brownBadlyScaledLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownBadlyScaledLBFGSAnalyticFinite(now) {
+		now = brownBadlyScaledLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case brownBadlyScaledLBFGSAnalyticSearchOutOfBudget:
 		r.finish(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations)
@@ -960,6 +963,7 @@ func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
+	slope, tiny = brownBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := brownBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1038,6 +1042,53 @@ type brownBadlyScaledLBFGSAnalyticLineResult struct {
 
 // brownBadlyScaledLBFGSAnalyticSearchEnd tells how a line search ended.
 type brownBadlyScaledLBFGSAnalyticSearchEnd uint8
+
+// brownBadlyScaledLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownBadlyScaledLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownBadlyScaledLBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if brownBadlyScaledLBFGSAnalyticFinite(slope) || !brownBadlyScaledLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownBadlyScaledLBFGSAnalyticMaxAbs(d)
+	brownBadlyScaledLBFGSAnalyticShrinkDirection(d, g)
+	return brownBadlyScaledLBFGSAnalyticDot(g, d), tiny * (before / brownBadlyScaledLBFGSAnalyticMaxAbs(d))
+}
+
+// brownBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownBadlyScaledLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownBadlyScaledLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := brownBadlyScaledLBFGSAnalyticMaxAbs(d); m > 0 {
+		brownBadlyScaledLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !brownBadlyScaledLBFGSAnalyticFinite(brownBadlyScaledLBFGSAnalyticDot(g, d)) {
+		if m := brownBadlyScaledLBFGSAnalyticMaxAbs(g); m > 1 {
+			brownBadlyScaledLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownBadlyScaledLBFGSAnalyticScaleBy sets x = c·x.
+func brownBadlyScaledLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownBadlyScaledLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

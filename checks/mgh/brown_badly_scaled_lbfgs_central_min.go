@@ -471,6 +471,9 @@ func (r *brownBadlyScaledLBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := brownBadlyScaledLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownBadlyScaledLBFGSCentralFinite(now) {
+		now = brownBadlyScaledLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case brownBadlyScaledLBFGSCentralSearchOutOfBudget:
 		r.finish(BrownBadlyScaledLBFGSCentralOutOfEvaluations)
@@ -1139,6 +1142,7 @@ func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) brownBadlyScaledLBFGSCentralLineResult {
+	slope, tiny = brownBadlyScaledLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := brownBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1217,6 +1221,53 @@ type brownBadlyScaledLBFGSCentralLineResult struct {
 
 // brownBadlyScaledLBFGSCentralSearchEnd tells how a line search ended.
 type brownBadlyScaledLBFGSCentralSearchEnd uint8
+
+// brownBadlyScaledLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownBadlyScaledLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownBadlyScaledLBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if brownBadlyScaledLBFGSCentralFinite(slope) || !brownBadlyScaledLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownBadlyScaledLBFGSCentralMaxAbs(d)
+	brownBadlyScaledLBFGSCentralShrinkDirection(d, g)
+	return brownBadlyScaledLBFGSCentralDot(g, d), tiny * (before / brownBadlyScaledLBFGSCentralMaxAbs(d))
+}
+
+// brownBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownBadlyScaledLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownBadlyScaledLBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := brownBadlyScaledLBFGSCentralMaxAbs(d); m > 0 {
+		brownBadlyScaledLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !brownBadlyScaledLBFGSCentralFinite(brownBadlyScaledLBFGSCentralDot(g, d)) {
+		if m := brownBadlyScaledLBFGSCentralMaxAbs(g); m > 1 {
+			brownBadlyScaledLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownBadlyScaledLBFGSCentralScaleBy sets x = c·x.
+func brownBadlyScaledLBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownBadlyScaledLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

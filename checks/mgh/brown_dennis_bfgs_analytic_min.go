@@ -470,6 +470,9 @@ func (r *brownDennisBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := brownDennisBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownDennisBFGSAnalyticFinite(now) {
+		now = brownDennisBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see brownDennisBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case brownDennisBFGSAnalyticSearchOutOfBudget:
 		r.finish(BrownDennisBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) brownDennisBFGSAnalyticLineResult {
+	slope, tiny = brownDennisBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := brownDennisBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type brownDennisBFGSAnalyticLineResult struct {
 
 // brownDennisBFGSAnalyticSearchEnd tells how a line search ended.
 type brownDennisBFGSAnalyticSearchEnd uint8
+
+// brownDennisBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownDennisBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownDennisBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if brownDennisBFGSAnalyticFinite(slope) || !brownDennisBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownDennisBFGSAnalyticMaxAbs(d)
+	brownDennisBFGSAnalyticShrinkDirection(d, g)
+	return brownDennisBFGSAnalyticDot(g, d), tiny * (before / brownDennisBFGSAnalyticMaxAbs(d))
+}
+
+// brownDennisBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownDennisBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownDennisBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := brownDennisBFGSAnalyticMaxAbs(d); m > 0 {
+		brownDennisBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !brownDennisBFGSAnalyticFinite(brownDennisBFGSAnalyticDot(g, d)) {
+		if m := brownDennisBFGSAnalyticMaxAbs(g); m > 1 {
+			brownDennisBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownDennisBFGSAnalyticScaleBy sets x = c·x.
+func brownDennisBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownDennisBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

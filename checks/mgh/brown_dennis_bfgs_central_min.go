@@ -470,6 +470,9 @@ func (r *brownDennisBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := brownDennisBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownDennisBFGSCentralFinite(now) {
+		now = brownDennisBFGSCentralDot(&r.g, &r.d) // the search shortened d (see brownDennisBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case brownDennisBFGSCentralSearchOutOfBudget:
 		r.finish(BrownDennisBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSCentralDifferences) brownDennisBFGSCentralLineResult {
+	slope, tiny = brownDennisBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := brownDennisBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type brownDennisBFGSCentralLineResult struct {
 
 // brownDennisBFGSCentralSearchEnd tells how a line search ended.
 type brownDennisBFGSCentralSearchEnd uint8
+
+// brownDennisBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownDennisBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownDennisBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if brownDennisBFGSCentralFinite(slope) || !brownDennisBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownDennisBFGSCentralMaxAbs(d)
+	brownDennisBFGSCentralShrinkDirection(d, g)
+	return brownDennisBFGSCentralDot(g, d), tiny * (before / brownDennisBFGSCentralMaxAbs(d))
+}
+
+// brownDennisBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownDennisBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownDennisBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := brownDennisBFGSCentralMaxAbs(d); m > 0 {
+		brownDennisBFGSCentralScaleBy(d, 1/m)
+	}
+	if !brownDennisBFGSCentralFinite(brownDennisBFGSCentralDot(g, d)) {
+		if m := brownDennisBFGSCentralMaxAbs(g); m > 1 {
+			brownDennisBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownDennisBFGSCentralScaleBy sets x = c·x.
+func brownDennisBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownDennisBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *brownDennisCGAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := brownDennisCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownDennisCGAnalyticFinite(now) {
+		now = brownDennisCGAnalyticDot(&r.g, &r.d) // the search shortened d (see brownDennisCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case brownDennisCGAnalyticSearchOutOfBudget:
 		r.finish(BrownDennisCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisCGAnalyticDifferences) brownDennisCGAnalyticLineResult {
+	slope, tiny = brownDennisCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := brownDennisCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type brownDennisCGAnalyticLineResult struct {
 
 // brownDennisCGAnalyticSearchEnd tells how a line search ended.
 type brownDennisCGAnalyticSearchEnd uint8
+
+// brownDennisCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownDennisCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownDennisCGAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if brownDennisCGAnalyticFinite(slope) || !brownDennisCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownDennisCGAnalyticMaxAbs(d)
+	brownDennisCGAnalyticShrinkDirection(d, g)
+	return brownDennisCGAnalyticDot(g, d), tiny * (before / brownDennisCGAnalyticMaxAbs(d))
+}
+
+// brownDennisCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisCGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownDennisCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownDennisCGAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := brownDennisCGAnalyticMaxAbs(d); m > 0 {
+		brownDennisCGAnalyticScaleBy(d, 1/m)
+	}
+	if !brownDennisCGAnalyticFinite(brownDennisCGAnalyticDot(g, d)) {
+		if m := brownDennisCGAnalyticMaxAbs(g); m > 1 {
+			brownDennisCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownDennisCGAnalyticScaleBy sets x = c·x.
+func brownDennisCGAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownDennisCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

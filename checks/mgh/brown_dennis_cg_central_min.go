@@ -470,6 +470,9 @@ func (r *brownDennisCGCentralDescent) search() {
 	var xt, gt [4]float64
 	found := brownDennisCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownDennisCGCentralFinite(now) {
+		now = brownDennisCGCentralDot(&r.g, &r.d) // the search shortened d (see brownDennisCGCentralShortenAlong)
+	}
 	switch found.end {
 	case brownDennisCGCentralSearchOutOfBudget:
 		r.finish(BrownDennisCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisCGCentralDifferences) brownDennisCGCentralLineResult {
+	slope, tiny = brownDennisCGCentralShortenAlong(g, d, slope, tiny)
 	low := brownDennisCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type brownDennisCGCentralLineResult struct {
 
 // brownDennisCGCentralSearchEnd tells how a line search ended.
 type brownDennisCGCentralSearchEnd uint8
+
+// brownDennisCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownDennisCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownDennisCGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if brownDennisCGCentralFinite(slope) || !brownDennisCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownDennisCGCentralMaxAbs(d)
+	brownDennisCGCentralShrinkDirection(d, g)
+	return brownDennisCGCentralDot(g, d), tiny * (before / brownDennisCGCentralMaxAbs(d))
+}
+
+// brownDennisCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisCGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownDennisCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownDennisCGCentralShrinkDirection(d, g *[4]float64) {
+	if m := brownDennisCGCentralMaxAbs(d); m > 0 {
+		brownDennisCGCentralScaleBy(d, 1/m)
+	}
+	if !brownDennisCGCentralFinite(brownDennisCGCentralDot(g, d)) {
+		if m := brownDennisCGCentralMaxAbs(g); m > 1 {
+			brownDennisCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownDennisCGCentralScaleBy sets x = c·x.
+func brownDennisCGCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownDennisCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *brownDennisLBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := brownDennisLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownDennisLBFGSAnalyticFinite(now) {
+		now = brownDennisLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see brownDennisLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case brownDennisLBFGSAnalyticSearchOutOfBudget:
 		r.finish(BrownDennisLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) brownDennisLBFGSAnalyticLineResult {
+	slope, tiny = brownDennisLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := brownDennisLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type brownDennisLBFGSAnalyticLineResult struct {
 
 // brownDennisLBFGSAnalyticSearchEnd tells how a line search ended.
 type brownDennisLBFGSAnalyticSearchEnd uint8
+
+// brownDennisLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownDennisLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownDennisLBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if brownDennisLBFGSAnalyticFinite(slope) || !brownDennisLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownDennisLBFGSAnalyticMaxAbs(d)
+	brownDennisLBFGSAnalyticShrinkDirection(d, g)
+	return brownDennisLBFGSAnalyticDot(g, d), tiny * (before / brownDennisLBFGSAnalyticMaxAbs(d))
+}
+
+// brownDennisLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownDennisLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownDennisLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := brownDennisLBFGSAnalyticMaxAbs(d); m > 0 {
+		brownDennisLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !brownDennisLBFGSAnalyticFinite(brownDennisLBFGSAnalyticDot(g, d)) {
+		if m := brownDennisLBFGSAnalyticMaxAbs(g); m > 1 {
+			brownDennisLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownDennisLBFGSAnalyticScaleBy sets x = c·x.
+func brownDennisLBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownDennisLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

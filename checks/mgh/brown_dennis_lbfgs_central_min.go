@@ -471,6 +471,9 @@ func (r *brownDennisLBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := brownDennisLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !brownDennisLBFGSCentralFinite(now) {
+		now = brownDennisLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see brownDennisLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case brownDennisLBFGSCentralSearchOutOfBudget:
 		r.finish(BrownDennisLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSCentralDifferences) brownDennisLBFGSCentralLineResult {
+	slope, tiny = brownDennisLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := brownDennisLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type brownDennisLBFGSCentralLineResult struct {
 
 // brownDennisLBFGSCentralSearchEnd tells how a line search ended.
 type brownDennisLBFGSCentralSearchEnd uint8
+
+// brownDennisLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (brownDennisLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func brownDennisLBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if brownDennisLBFGSCentralFinite(slope) || !brownDennisLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := brownDennisLBFGSCentralMaxAbs(d)
+	brownDennisLBFGSCentralShrinkDirection(d, g)
+	return brownDennisLBFGSCentralDot(g, d), tiny * (before / brownDennisLBFGSCentralMaxAbs(d))
+}
+
+// brownDennisLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisLBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// brownDennisLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func brownDennisLBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := brownDennisLBFGSCentralMaxAbs(d); m > 0 {
+		brownDennisLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !brownDennisLBFGSCentralFinite(brownDennisLBFGSCentralDot(g, d)) {
+		if m := brownDennisLBFGSCentralMaxAbs(g); m > 1 {
+			brownDennisLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// brownDennisLBFGSCentralScaleBy sets x = c·x.
+func brownDennisLBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // brownDennisLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

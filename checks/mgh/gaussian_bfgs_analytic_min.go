@@ -470,6 +470,9 @@ func (r *gaussianBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := gaussianBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gaussianBFGSAnalyticFinite(now) {
+		now = gaussianBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see gaussianBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case gaussianBFGSAnalyticSearchOutOfBudget:
 		r.finish(GaussianBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianBFGSAnalyticDifferences) gaussianBFGSAnalyticLineResult {
+	slope, tiny = gaussianBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := gaussianBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type gaussianBFGSAnalyticLineResult struct {
 
 // gaussianBFGSAnalyticSearchEnd tells how a line search ended.
 type gaussianBFGSAnalyticSearchEnd uint8
+
+// gaussianBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gaussianBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gaussianBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gaussianBFGSAnalyticFinite(slope) || !gaussianBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gaussianBFGSAnalyticMaxAbs(d)
+	gaussianBFGSAnalyticShrinkDirection(d, g)
+	return gaussianBFGSAnalyticDot(g, d), tiny * (before / gaussianBFGSAnalyticMaxAbs(d))
+}
+
+// gaussianBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gaussianBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gaussianBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := gaussianBFGSAnalyticMaxAbs(d); m > 0 {
+		gaussianBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !gaussianBFGSAnalyticFinite(gaussianBFGSAnalyticDot(g, d)) {
+		if m := gaussianBFGSAnalyticMaxAbs(g); m > 1 {
+			gaussianBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gaussianBFGSAnalyticScaleBy sets x = c·x.
+func gaussianBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gaussianBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *gaussianBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := gaussianBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gaussianBFGSCentralFinite(now) {
+		now = gaussianBFGSCentralDot(&r.g, &r.d) // the search shortened d (see gaussianBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case gaussianBFGSCentralSearchOutOfBudget:
 		r.finish(GaussianBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianBFGSCentralDifferences) gaussianBFGSCentralLineResult {
+	slope, tiny = gaussianBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := gaussianBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type gaussianBFGSCentralLineResult struct {
 
 // gaussianBFGSCentralSearchEnd tells how a line search ended.
 type gaussianBFGSCentralSearchEnd uint8
+
+// gaussianBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gaussianBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gaussianBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gaussianBFGSCentralFinite(slope) || !gaussianBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gaussianBFGSCentralMaxAbs(d)
+	gaussianBFGSCentralShrinkDirection(d, g)
+	return gaussianBFGSCentralDot(g, d), tiny * (before / gaussianBFGSCentralMaxAbs(d))
+}
+
+// gaussianBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gaussianBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gaussianBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := gaussianBFGSCentralMaxAbs(d); m > 0 {
+		gaussianBFGSCentralScaleBy(d, 1/m)
+	}
+	if !gaussianBFGSCentralFinite(gaussianBFGSCentralDot(g, d)) {
+		if m := gaussianBFGSCentralMaxAbs(g); m > 1 {
+			gaussianBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gaussianBFGSCentralScaleBy sets x = c·x.
+func gaussianBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gaussianBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

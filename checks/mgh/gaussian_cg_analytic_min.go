@@ -470,6 +470,9 @@ func (r *gaussianCGAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := gaussianCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gaussianCGAnalyticFinite(now) {
+		now = gaussianCGAnalyticDot(&r.g, &r.d) // the search shortened d (see gaussianCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case gaussianCGAnalyticSearchOutOfBudget:
 		r.finish(GaussianCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianCGAnalyticDifferences) gaussianCGAnalyticLineResult {
+	slope, tiny = gaussianCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := gaussianCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type gaussianCGAnalyticLineResult struct {
 
 // gaussianCGAnalyticSearchEnd tells how a line search ended.
 type gaussianCGAnalyticSearchEnd uint8
+
+// gaussianCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gaussianCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gaussianCGAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gaussianCGAnalyticFinite(slope) || !gaussianCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gaussianCGAnalyticMaxAbs(d)
+	gaussianCGAnalyticShrinkDirection(d, g)
+	return gaussianCGAnalyticDot(g, d), tiny * (before / gaussianCGAnalyticMaxAbs(d))
+}
+
+// gaussianCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gaussianCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gaussianCGAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := gaussianCGAnalyticMaxAbs(d); m > 0 {
+		gaussianCGAnalyticScaleBy(d, 1/m)
+	}
+	if !gaussianCGAnalyticFinite(gaussianCGAnalyticDot(g, d)) {
+		if m := gaussianCGAnalyticMaxAbs(g); m > 1 {
+			gaussianCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gaussianCGAnalyticScaleBy sets x = c·x.
+func gaussianCGAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gaussianCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *gaussianCGCentralDescent) search() {
 	var xt, gt [3]float64
 	found := gaussianCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gaussianCGCentralFinite(now) {
+		now = gaussianCGCentralDot(&r.g, &r.d) // the search shortened d (see gaussianCGCentralShortenAlong)
+	}
 	switch found.end {
 	case gaussianCGCentralSearchOutOfBudget:
 		r.finish(GaussianCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianCGCentralDifferences) gaussianCGCentralLineResult {
+	slope, tiny = gaussianCGCentralShortenAlong(g, d, slope, tiny)
 	low := gaussianCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type gaussianCGCentralLineResult struct {
 
 // gaussianCGCentralSearchEnd tells how a line search ended.
 type gaussianCGCentralSearchEnd uint8
+
+// gaussianCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gaussianCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gaussianCGCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gaussianCGCentralFinite(slope) || !gaussianCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gaussianCGCentralMaxAbs(d)
+	gaussianCGCentralShrinkDirection(d, g)
+	return gaussianCGCentralDot(g, d), tiny * (before / gaussianCGCentralMaxAbs(d))
+}
+
+// gaussianCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gaussianCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gaussianCGCentralShrinkDirection(d, g *[3]float64) {
+	if m := gaussianCGCentralMaxAbs(d); m > 0 {
+		gaussianCGCentralScaleBy(d, 1/m)
+	}
+	if !gaussianCGCentralFinite(gaussianCGCentralDot(g, d)) {
+		if m := gaussianCGCentralMaxAbs(g); m > 1 {
+			gaussianCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gaussianCGCentralScaleBy sets x = c·x.
+func gaussianCGCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gaussianCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

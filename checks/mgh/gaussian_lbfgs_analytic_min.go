@@ -471,6 +471,9 @@ func (r *gaussianLBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := gaussianLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gaussianLBFGSAnalyticFinite(now) {
+		now = gaussianLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see gaussianLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case gaussianLBFGSAnalyticSearchOutOfBudget:
 		r.finish(GaussianLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) gaussianLBFGSAnalyticLineResult {
+	slope, tiny = gaussianLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := gaussianLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type gaussianLBFGSAnalyticLineResult struct {
 
 // gaussianLBFGSAnalyticSearchEnd tells how a line search ended.
 type gaussianLBFGSAnalyticSearchEnd uint8
+
+// gaussianLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gaussianLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gaussianLBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gaussianLBFGSAnalyticFinite(slope) || !gaussianLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gaussianLBFGSAnalyticMaxAbs(d)
+	gaussianLBFGSAnalyticShrinkDirection(d, g)
+	return gaussianLBFGSAnalyticDot(g, d), tiny * (before / gaussianLBFGSAnalyticMaxAbs(d))
+}
+
+// gaussianLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gaussianLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gaussianLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := gaussianLBFGSAnalyticMaxAbs(d); m > 0 {
+		gaussianLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !gaussianLBFGSAnalyticFinite(gaussianLBFGSAnalyticDot(g, d)) {
+		if m := gaussianLBFGSAnalyticMaxAbs(g); m > 1 {
+			gaussianLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gaussianLBFGSAnalyticScaleBy sets x = c·x.
+func gaussianLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gaussianLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *gaussianLBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := gaussianLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gaussianLBFGSCentralFinite(now) {
+		now = gaussianLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see gaussianLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case gaussianLBFGSCentralSearchOutOfBudget:
 		r.finish(GaussianLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSCentralDifferences) gaussianLBFGSCentralLineResult {
+	slope, tiny = gaussianLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := gaussianLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type gaussianLBFGSCentralLineResult struct {
 
 // gaussianLBFGSCentralSearchEnd tells how a line search ended.
 type gaussianLBFGSCentralSearchEnd uint8
+
+// gaussianLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gaussianLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gaussianLBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gaussianLBFGSCentralFinite(slope) || !gaussianLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gaussianLBFGSCentralMaxAbs(d)
+	gaussianLBFGSCentralShrinkDirection(d, g)
+	return gaussianLBFGSCentralDot(g, d), tiny * (before / gaussianLBFGSCentralMaxAbs(d))
+}
+
+// gaussianLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gaussianLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gaussianLBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := gaussianLBFGSCentralMaxAbs(d); m > 0 {
+		gaussianLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !gaussianLBFGSCentralFinite(gaussianLBFGSCentralDot(g, d)) {
+		if m := gaussianLBFGSCentralMaxAbs(g); m > 1 {
+			gaussianLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gaussianLBFGSCentralScaleBy sets x = c·x.
+func gaussianLBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gaussianLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

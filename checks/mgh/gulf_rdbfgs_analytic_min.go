@@ -470,6 +470,9 @@ func (r *gulfRDBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := gulfRDBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gulfRDBFGSAnalyticFinite(now) {
+		now = gulfRDBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see gulfRDBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case gulfRDBFGSAnalyticSearchOutOfBudget:
 		r.finish(GulfRDBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) gulfRDBFGSAnalyticLineResult {
+	slope, tiny = gulfRDBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := gulfRDBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type gulfRDBFGSAnalyticLineResult struct {
 
 // gulfRDBFGSAnalyticSearchEnd tells how a line search ended.
 type gulfRDBFGSAnalyticSearchEnd uint8
+
+// gulfRDBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gulfRDBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gulfRDBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gulfRDBFGSAnalyticFinite(slope) || !gulfRDBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gulfRDBFGSAnalyticMaxAbs(d)
+	gulfRDBFGSAnalyticShrinkDirection(d, g)
+	return gulfRDBFGSAnalyticDot(g, d), tiny * (before / gulfRDBFGSAnalyticMaxAbs(d))
+}
+
+// gulfRDBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gulfRDBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gulfRDBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := gulfRDBFGSAnalyticMaxAbs(d); m > 0 {
+		gulfRDBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !gulfRDBFGSAnalyticFinite(gulfRDBFGSAnalyticDot(g, d)) {
+		if m := gulfRDBFGSAnalyticMaxAbs(g); m > 1 {
+			gulfRDBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gulfRDBFGSAnalyticScaleBy sets x = c·x.
+func gulfRDBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gulfRDBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

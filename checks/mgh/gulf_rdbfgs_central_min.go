@@ -470,6 +470,9 @@ func (r *gulfRDBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := gulfRDBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gulfRDBFGSCentralFinite(now) {
+		now = gulfRDBFGSCentralDot(&r.g, &r.d) // the search shortened d (see gulfRDBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case gulfRDBFGSCentralSearchOutOfBudget:
 		r.finish(GulfRDBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSCentralDifferences) gulfRDBFGSCentralLineResult {
+	slope, tiny = gulfRDBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := gulfRDBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type gulfRDBFGSCentralLineResult struct {
 
 // gulfRDBFGSCentralSearchEnd tells how a line search ended.
 type gulfRDBFGSCentralSearchEnd uint8
+
+// gulfRDBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gulfRDBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gulfRDBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gulfRDBFGSCentralFinite(slope) || !gulfRDBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gulfRDBFGSCentralMaxAbs(d)
+	gulfRDBFGSCentralShrinkDirection(d, g)
+	return gulfRDBFGSCentralDot(g, d), tiny * (before / gulfRDBFGSCentralMaxAbs(d))
+}
+
+// gulfRDBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gulfRDBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gulfRDBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := gulfRDBFGSCentralMaxAbs(d); m > 0 {
+		gulfRDBFGSCentralScaleBy(d, 1/m)
+	}
+	if !gulfRDBFGSCentralFinite(gulfRDBFGSCentralDot(g, d)) {
+		if m := gulfRDBFGSCentralMaxAbs(g); m > 1 {
+			gulfRDBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gulfRDBFGSCentralScaleBy sets x = c·x.
+func gulfRDBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gulfRDBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *gulfRDCGAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := gulfRDCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gulfRDCGAnalyticFinite(now) {
+		now = gulfRDCGAnalyticDot(&r.g, &r.d) // the search shortened d (see gulfRDCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case gulfRDCGAnalyticSearchOutOfBudget:
 		r.finish(GulfRDCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
+	slope, tiny = gulfRDCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := gulfRDCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type gulfRDCGAnalyticLineResult struct {
 
 // gulfRDCGAnalyticSearchEnd tells how a line search ended.
 type gulfRDCGAnalyticSearchEnd uint8
+
+// gulfRDCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gulfRDCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gulfRDCGAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gulfRDCGAnalyticFinite(slope) || !gulfRDCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gulfRDCGAnalyticMaxAbs(d)
+	gulfRDCGAnalyticShrinkDirection(d, g)
+	return gulfRDCGAnalyticDot(g, d), tiny * (before / gulfRDCGAnalyticMaxAbs(d))
+}
+
+// gulfRDCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gulfRDCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gulfRDCGAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := gulfRDCGAnalyticMaxAbs(d); m > 0 {
+		gulfRDCGAnalyticScaleBy(d, 1/m)
+	}
+	if !gulfRDCGAnalyticFinite(gulfRDCGAnalyticDot(g, d)) {
+		if m := gulfRDCGAnalyticMaxAbs(g); m > 1 {
+			gulfRDCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gulfRDCGAnalyticScaleBy sets x = c·x.
+func gulfRDCGAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gulfRDCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *gulfRDCGCentralDescent) search() {
 	var xt, gt [3]float64
 	found := gulfRDCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gulfRDCGCentralFinite(now) {
+		now = gulfRDCGCentralDot(&r.g, &r.d) // the search shortened d (see gulfRDCGCentralShortenAlong)
+	}
 	switch found.end {
 	case gulfRDCGCentralSearchOutOfBudget:
 		r.finish(GulfRDCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
+	slope, tiny = gulfRDCGCentralShortenAlong(g, d, slope, tiny)
 	low := gulfRDCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type gulfRDCGCentralLineResult struct {
 
 // gulfRDCGCentralSearchEnd tells how a line search ended.
 type gulfRDCGCentralSearchEnd uint8
+
+// gulfRDCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gulfRDCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gulfRDCGCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gulfRDCGCentralFinite(slope) || !gulfRDCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gulfRDCGCentralMaxAbs(d)
+	gulfRDCGCentralShrinkDirection(d, g)
+	return gulfRDCGCentralDot(g, d), tiny * (before / gulfRDCGCentralMaxAbs(d))
+}
+
+// gulfRDCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gulfRDCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gulfRDCGCentralShrinkDirection(d, g *[3]float64) {
+	if m := gulfRDCGCentralMaxAbs(d); m > 0 {
+		gulfRDCGCentralScaleBy(d, 1/m)
+	}
+	if !gulfRDCGCentralFinite(gulfRDCGCentralDot(g, d)) {
+		if m := gulfRDCGCentralMaxAbs(g); m > 1 {
+			gulfRDCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gulfRDCGCentralScaleBy sets x = c·x.
+func gulfRDCGCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gulfRDCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *gulfRDLBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := gulfRDLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gulfRDLBFGSAnalyticFinite(now) {
+		now = gulfRDLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see gulfRDLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case gulfRDLBFGSAnalyticSearchOutOfBudget:
 		r.finish(GulfRDLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) gulfRDLBFGSAnalyticLineResult {
+	slope, tiny = gulfRDLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := gulfRDLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type gulfRDLBFGSAnalyticLineResult struct {
 
 // gulfRDLBFGSAnalyticSearchEnd tells how a line search ended.
 type gulfRDLBFGSAnalyticSearchEnd uint8
+
+// gulfRDLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gulfRDLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gulfRDLBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gulfRDLBFGSAnalyticFinite(slope) || !gulfRDLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gulfRDLBFGSAnalyticMaxAbs(d)
+	gulfRDLBFGSAnalyticShrinkDirection(d, g)
+	return gulfRDLBFGSAnalyticDot(g, d), tiny * (before / gulfRDLBFGSAnalyticMaxAbs(d))
+}
+
+// gulfRDLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gulfRDLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gulfRDLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := gulfRDLBFGSAnalyticMaxAbs(d); m > 0 {
+		gulfRDLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !gulfRDLBFGSAnalyticFinite(gulfRDLBFGSAnalyticDot(g, d)) {
+		if m := gulfRDLBFGSAnalyticMaxAbs(g); m > 1 {
+			gulfRDLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gulfRDLBFGSAnalyticScaleBy sets x = c·x.
+func gulfRDLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gulfRDLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

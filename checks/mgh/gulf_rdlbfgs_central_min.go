@@ -471,6 +471,9 @@ func (r *gulfRDLBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := gulfRDLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !gulfRDLBFGSCentralFinite(now) {
+		now = gulfRDLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see gulfRDLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case gulfRDLBFGSCentralSearchOutOfBudget:
 		r.finish(GulfRDLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSCentralDifferences) gulfRDLBFGSCentralLineResult {
+	slope, tiny = gulfRDLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := gulfRDLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type gulfRDLBFGSCentralLineResult struct {
 
 // gulfRDLBFGSCentralSearchEnd tells how a line search ended.
 type gulfRDLBFGSCentralSearchEnd uint8
+
+// gulfRDLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (gulfRDLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func gulfRDLBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if gulfRDLBFGSCentralFinite(slope) || !gulfRDLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := gulfRDLBFGSCentralMaxAbs(d)
+	gulfRDLBFGSCentralShrinkDirection(d, g)
+	return gulfRDLBFGSCentralDot(g, d), tiny * (before / gulfRDLBFGSCentralMaxAbs(d))
+}
+
+// gulfRDLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// gulfRDLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func gulfRDLBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := gulfRDLBFGSCentralMaxAbs(d); m > 0 {
+		gulfRDLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !gulfRDLBFGSCentralFinite(gulfRDLBFGSCentralDot(g, d)) {
+		if m := gulfRDLBFGSCentralMaxAbs(g); m > 1 {
+			gulfRDLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// gulfRDLBFGSCentralScaleBy sets x = c·x.
+func gulfRDLBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // gulfRDLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *helicalValleyBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := helicalValleyBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !helicalValleyBFGSAnalyticFinite(now) {
+		now = helicalValleyBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see helicalValleyBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case helicalValleyBFGSAnalyticSearchOutOfBudget:
 		r.finish(HelicalValleyBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
+	slope, tiny = helicalValleyBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := helicalValleyBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type helicalValleyBFGSAnalyticLineResult struct {
 
 // helicalValleyBFGSAnalyticSearchEnd tells how a line search ended.
 type helicalValleyBFGSAnalyticSearchEnd uint8
+
+// helicalValleyBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (helicalValleyBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func helicalValleyBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if helicalValleyBFGSAnalyticFinite(slope) || !helicalValleyBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := helicalValleyBFGSAnalyticMaxAbs(d)
+	helicalValleyBFGSAnalyticShrinkDirection(d, g)
+	return helicalValleyBFGSAnalyticDot(g, d), tiny * (before / helicalValleyBFGSAnalyticMaxAbs(d))
+}
+
+// helicalValleyBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// helicalValleyBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func helicalValleyBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := helicalValleyBFGSAnalyticMaxAbs(d); m > 0 {
+		helicalValleyBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !helicalValleyBFGSAnalyticFinite(helicalValleyBFGSAnalyticDot(g, d)) {
+		if m := helicalValleyBFGSAnalyticMaxAbs(g); m > 1 {
+			helicalValleyBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// helicalValleyBFGSAnalyticScaleBy sets x = c·x.
+func helicalValleyBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // helicalValleyBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

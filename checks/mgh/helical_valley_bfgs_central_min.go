@@ -470,6 +470,9 @@ func (r *helicalValleyBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := helicalValleyBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !helicalValleyBFGSCentralFinite(now) {
+		now = helicalValleyBFGSCentralDot(&r.g, &r.d) // the search shortened d (see helicalValleyBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case helicalValleyBFGSCentralSearchOutOfBudget:
 		r.finish(HelicalValleyBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSCentralDifferences) helicalValleyBFGSCentralLineResult {
+	slope, tiny = helicalValleyBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := helicalValleyBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type helicalValleyBFGSCentralLineResult struct {
 
 // helicalValleyBFGSCentralSearchEnd tells how a line search ended.
 type helicalValleyBFGSCentralSearchEnd uint8
+
+// helicalValleyBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (helicalValleyBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func helicalValleyBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if helicalValleyBFGSCentralFinite(slope) || !helicalValleyBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := helicalValleyBFGSCentralMaxAbs(d)
+	helicalValleyBFGSCentralShrinkDirection(d, g)
+	return helicalValleyBFGSCentralDot(g, d), tiny * (before / helicalValleyBFGSCentralMaxAbs(d))
+}
+
+// helicalValleyBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// helicalValleyBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func helicalValleyBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := helicalValleyBFGSCentralMaxAbs(d); m > 0 {
+		helicalValleyBFGSCentralScaleBy(d, 1/m)
+	}
+	if !helicalValleyBFGSCentralFinite(helicalValleyBFGSCentralDot(g, d)) {
+		if m := helicalValleyBFGSCentralMaxAbs(g); m > 1 {
+			helicalValleyBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// helicalValleyBFGSCentralScaleBy sets x = c·x.
+func helicalValleyBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // helicalValleyBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

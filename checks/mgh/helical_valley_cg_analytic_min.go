@@ -470,6 +470,9 @@ func (r *helicalValleyCGAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := helicalValleyCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !helicalValleyCGAnalyticFinite(now) {
+		now = helicalValleyCGAnalyticDot(&r.g, &r.d) // the search shortened d (see helicalValleyCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case helicalValleyCGAnalyticSearchOutOfBudget:
 		r.finish(HelicalValleyCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyCGAnalyticDifferences) helicalValleyCGAnalyticLineResult {
+	slope, tiny = helicalValleyCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := helicalValleyCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type helicalValleyCGAnalyticLineResult struct {
 
 // helicalValleyCGAnalyticSearchEnd tells how a line search ended.
 type helicalValleyCGAnalyticSearchEnd uint8
+
+// helicalValleyCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (helicalValleyCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func helicalValleyCGAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if helicalValleyCGAnalyticFinite(slope) || !helicalValleyCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := helicalValleyCGAnalyticMaxAbs(d)
+	helicalValleyCGAnalyticShrinkDirection(d, g)
+	return helicalValleyCGAnalyticDot(g, d), tiny * (before / helicalValleyCGAnalyticMaxAbs(d))
+}
+
+// helicalValleyCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// helicalValleyCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func helicalValleyCGAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := helicalValleyCGAnalyticMaxAbs(d); m > 0 {
+		helicalValleyCGAnalyticScaleBy(d, 1/m)
+	}
+	if !helicalValleyCGAnalyticFinite(helicalValleyCGAnalyticDot(g, d)) {
+		if m := helicalValleyCGAnalyticMaxAbs(g); m > 1 {
+			helicalValleyCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// helicalValleyCGAnalyticScaleBy sets x = c·x.
+func helicalValleyCGAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // helicalValleyCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

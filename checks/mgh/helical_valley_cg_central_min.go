@@ -470,6 +470,9 @@ func (r *helicalValleyCGCentralDescent) search() {
 	var xt, gt [3]float64
 	found := helicalValleyCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !helicalValleyCGCentralFinite(now) {
+		now = helicalValleyCGCentralDot(&r.g, &r.d) // the search shortened d (see helicalValleyCGCentralShortenAlong)
+	}
 	switch found.end {
 	case helicalValleyCGCentralSearchOutOfBudget:
 		r.finish(HelicalValleyCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyCGCentralDifferences) helicalValleyCGCentralLineResult {
+	slope, tiny = helicalValleyCGCentralShortenAlong(g, d, slope, tiny)
 	low := helicalValleyCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type helicalValleyCGCentralLineResult struct {
 
 // helicalValleyCGCentralSearchEnd tells how a line search ended.
 type helicalValleyCGCentralSearchEnd uint8
+
+// helicalValleyCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (helicalValleyCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func helicalValleyCGCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if helicalValleyCGCentralFinite(slope) || !helicalValleyCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := helicalValleyCGCentralMaxAbs(d)
+	helicalValleyCGCentralShrinkDirection(d, g)
+	return helicalValleyCGCentralDot(g, d), tiny * (before / helicalValleyCGCentralMaxAbs(d))
+}
+
+// helicalValleyCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// helicalValleyCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func helicalValleyCGCentralShrinkDirection(d, g *[3]float64) {
+	if m := helicalValleyCGCentralMaxAbs(d); m > 0 {
+		helicalValleyCGCentralScaleBy(d, 1/m)
+	}
+	if !helicalValleyCGCentralFinite(helicalValleyCGCentralDot(g, d)) {
+		if m := helicalValleyCGCentralMaxAbs(g); m > 1 {
+			helicalValleyCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// helicalValleyCGCentralScaleBy sets x = c·x.
+func helicalValleyCGCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // helicalValleyCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *helicalValleyLBFGSAnalyticDescent) search() {
 	var xt, gt [3]float64
 	found := helicalValleyLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !helicalValleyLBFGSAnalyticFinite(now) {
+		now = helicalValleyLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see helicalValleyLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case helicalValleyLBFGSAnalyticSearchOutOfBudget:
 		r.finish(HelicalValleyLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) helicalValleyLBFGSAnalyticLineResult {
+	slope, tiny = helicalValleyLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := helicalValleyLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type helicalValleyLBFGSAnalyticLineResult struct {
 
 // helicalValleyLBFGSAnalyticSearchEnd tells how a line search ended.
 type helicalValleyLBFGSAnalyticSearchEnd uint8
+
+// helicalValleyLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (helicalValleyLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func helicalValleyLBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if helicalValleyLBFGSAnalyticFinite(slope) || !helicalValleyLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := helicalValleyLBFGSAnalyticMaxAbs(d)
+	helicalValleyLBFGSAnalyticShrinkDirection(d, g)
+	return helicalValleyLBFGSAnalyticDot(g, d), tiny * (before / helicalValleyLBFGSAnalyticMaxAbs(d))
+}
+
+// helicalValleyLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// helicalValleyLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func helicalValleyLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
+	if m := helicalValleyLBFGSAnalyticMaxAbs(d); m > 0 {
+		helicalValleyLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !helicalValleyLBFGSAnalyticFinite(helicalValleyLBFGSAnalyticDot(g, d)) {
+		if m := helicalValleyLBFGSAnalyticMaxAbs(g); m > 1 {
+			helicalValleyLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// helicalValleyLBFGSAnalyticScaleBy sets x = c·x.
+func helicalValleyLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // helicalValleyLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *helicalValleyLBFGSCentralDescent) search() {
 	var xt, gt [3]float64
 	found := helicalValleyLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !helicalValleyLBFGSCentralFinite(now) {
+		now = helicalValleyLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see helicalValleyLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case helicalValleyLBFGSCentralSearchOutOfBudget:
 		r.finish(HelicalValleyLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func helicalValleyLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) helicalValleyLBFGSCentralLineResult {
+	slope, tiny = helicalValleyLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := helicalValleyLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type helicalValleyLBFGSCentralLineResult struct {
 
 // helicalValleyLBFGSCentralSearchEnd tells how a line search ended.
 type helicalValleyLBFGSCentralSearchEnd uint8
+
+// helicalValleyLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (helicalValleyLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func helicalValleyLBFGSCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if helicalValleyLBFGSCentralFinite(slope) || !helicalValleyLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := helicalValleyLBFGSCentralMaxAbs(d)
+	helicalValleyLBFGSCentralShrinkDirection(d, g)
+	return helicalValleyLBFGSCentralDot(g, d), tiny * (before / helicalValleyLBFGSCentralMaxAbs(d))
+}
+
+// helicalValleyLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// helicalValleyLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func helicalValleyLBFGSCentralShrinkDirection(d, g *[3]float64) {
+	if m := helicalValleyLBFGSCentralMaxAbs(d); m > 0 {
+		helicalValleyLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !helicalValleyLBFGSCentralFinite(helicalValleyLBFGSCentralDot(g, d)) {
+		if m := helicalValleyLBFGSCentralMaxAbs(g); m > 1 {
+			helicalValleyLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// helicalValleyLBFGSCentralScaleBy sets x = c·x.
+func helicalValleyLBFGSCentralScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // helicalValleyLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

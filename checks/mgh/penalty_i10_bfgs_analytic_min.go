@@ -470,6 +470,9 @@ func (r *penaltyI10BFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyI10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI10BFGSAnalyticFinite(now) {
+		now = penaltyI10BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyI10BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyI10BFGSAnalyticSearchOutOfBudget:
 		r.finish(PenaltyI10BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) penaltyI10BFGSAnalyticLineResult {
+	slope, tiny = penaltyI10BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyI10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type penaltyI10BFGSAnalyticLineResult struct {
 
 // penaltyI10BFGSAnalyticSearchEnd tells how a line search ended.
 type penaltyI10BFGSAnalyticSearchEnd uint8
+
+// penaltyI10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI10BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI10BFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI10BFGSAnalyticFinite(slope) || !penaltyI10BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI10BFGSAnalyticMaxAbs(d)
+	penaltyI10BFGSAnalyticShrinkDirection(d, g)
+	return penaltyI10BFGSAnalyticDot(g, d), tiny * (before / penaltyI10BFGSAnalyticMaxAbs(d))
+}
+
+// penaltyI10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := penaltyI10BFGSAnalyticMaxAbs(d); m > 0 {
+		penaltyI10BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyI10BFGSAnalyticFinite(penaltyI10BFGSAnalyticDot(g, d)) {
+		if m := penaltyI10BFGSAnalyticMaxAbs(g); m > 1 {
+			penaltyI10BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI10BFGSAnalyticScaleBy sets x = c·x.
+func penaltyI10BFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI10BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

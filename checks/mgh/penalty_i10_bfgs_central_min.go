@@ -470,6 +470,9 @@ func (r *penaltyI10BFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyI10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI10BFGSCentralFinite(now) {
+		now = penaltyI10BFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI10BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyI10BFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyI10BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func penaltyI10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSCentralDifferences) penaltyI10BFGSCentralLineResult {
+	slope, tiny = penaltyI10BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyI10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type penaltyI10BFGSCentralLineResult struct {
 
 // penaltyI10BFGSCentralSearchEnd tells how a line search ended.
 type penaltyI10BFGSCentralSearchEnd uint8
+
+// penaltyI10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI10BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI10BFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI10BFGSCentralFinite(slope) || !penaltyI10BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI10BFGSCentralMaxAbs(d)
+	penaltyI10BFGSCentralShrinkDirection(d, g)
+	return penaltyI10BFGSCentralDot(g, d), tiny * (before / penaltyI10BFGSCentralMaxAbs(d))
+}
+
+// penaltyI10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI10BFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := penaltyI10BFGSCentralMaxAbs(d); m > 0 {
+		penaltyI10BFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyI10BFGSCentralFinite(penaltyI10BFGSCentralDot(g, d)) {
+		if m := penaltyI10BFGSCentralMaxAbs(g); m > 1 {
+			penaltyI10BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI10BFGSCentralScaleBy sets x = c·x.
+func penaltyI10BFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI10BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

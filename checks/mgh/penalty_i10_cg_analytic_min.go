@@ -470,6 +470,9 @@ func (r *penaltyI10CGAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyI10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI10CGAnalyticFinite(now) {
+		now = penaltyI10CGAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyI10CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyI10CGAnalyticSearchOutOfBudget:
 		r.finish(PenaltyI10CGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGAnalyticDifferences) penaltyI10CGAnalyticLineResult {
+	slope, tiny = penaltyI10CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyI10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type penaltyI10CGAnalyticLineResult struct {
 
 // penaltyI10CGAnalyticSearchEnd tells how a line search ended.
 type penaltyI10CGAnalyticSearchEnd uint8
+
+// penaltyI10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI10CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI10CGAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI10CGAnalyticFinite(slope) || !penaltyI10CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI10CGAnalyticMaxAbs(d)
+	penaltyI10CGAnalyticShrinkDirection(d, g)
+	return penaltyI10CGAnalyticDot(g, d), tiny * (before / penaltyI10CGAnalyticMaxAbs(d))
+}
+
+// penaltyI10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI10CGAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := penaltyI10CGAnalyticMaxAbs(d); m > 0 {
+		penaltyI10CGAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyI10CGAnalyticFinite(penaltyI10CGAnalyticDot(g, d)) {
+		if m := penaltyI10CGAnalyticMaxAbs(g); m > 1 {
+			penaltyI10CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI10CGAnalyticScaleBy sets x = c·x.
+func penaltyI10CGAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI10CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *penaltyI10LBFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyI10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI10LBFGSCentralFinite(now) {
+		now = penaltyI10LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI10LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyI10LBFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyI10LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) penaltyI10LBFGSCentralLineResult {
+	slope, tiny = penaltyI10LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyI10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type penaltyI10LBFGSCentralLineResult struct {
 
 // penaltyI10LBFGSCentralSearchEnd tells how a line search ended.
 type penaltyI10LBFGSCentralSearchEnd uint8
+
+// penaltyI10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI10LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI10LBFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI10LBFGSCentralFinite(slope) || !penaltyI10LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI10LBFGSCentralMaxAbs(d)
+	penaltyI10LBFGSCentralShrinkDirection(d, g)
+	return penaltyI10LBFGSCentralDot(g, d), tiny * (before / penaltyI10LBFGSCentralMaxAbs(d))
+}
+
+// penaltyI10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI10LBFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := penaltyI10LBFGSCentralMaxAbs(d); m > 0 {
+		penaltyI10LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyI10LBFGSCentralFinite(penaltyI10LBFGSCentralDot(g, d)) {
+		if m := penaltyI10LBFGSCentralMaxAbs(g); m > 1 {
+			penaltyI10LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI10LBFGSCentralScaleBy sets x = c·x.
+func penaltyI10LBFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI10LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

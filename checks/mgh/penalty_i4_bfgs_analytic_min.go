@@ -470,6 +470,9 @@ func (r *penaltyI4BFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyI4BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI4BFGSAnalyticFinite(now) {
+		now = penaltyI4BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyI4BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyI4BFGSAnalyticSearchOutOfBudget:
 		r.finish(PenaltyI4BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
+	slope, tiny = penaltyI4BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyI4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type penaltyI4BFGSAnalyticLineResult struct {
 
 // penaltyI4BFGSAnalyticSearchEnd tells how a line search ended.
 type penaltyI4BFGSAnalyticSearchEnd uint8
+
+// penaltyI4BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI4BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI4BFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI4BFGSAnalyticFinite(slope) || !penaltyI4BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI4BFGSAnalyticMaxAbs(d)
+	penaltyI4BFGSAnalyticShrinkDirection(d, g)
+	return penaltyI4BFGSAnalyticDot(g, d), tiny * (before / penaltyI4BFGSAnalyticMaxAbs(d))
+}
+
+// penaltyI4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI4BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI4BFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := penaltyI4BFGSAnalyticMaxAbs(d); m > 0 {
+		penaltyI4BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyI4BFGSAnalyticFinite(penaltyI4BFGSAnalyticDot(g, d)) {
+		if m := penaltyI4BFGSAnalyticMaxAbs(g); m > 1 {
+			penaltyI4BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI4BFGSAnalyticScaleBy sets x = c·x.
+func penaltyI4BFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI4BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

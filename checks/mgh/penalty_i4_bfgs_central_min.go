@@ -470,6 +470,9 @@ func (r *penaltyI4BFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyI4BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI4BFGSCentralFinite(now) {
+		now = penaltyI4BFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI4BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyI4BFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyI4BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSCentralDifferences) penaltyI4BFGSCentralLineResult {
+	slope, tiny = penaltyI4BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyI4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type penaltyI4BFGSCentralLineResult struct {
 
 // penaltyI4BFGSCentralSearchEnd tells how a line search ended.
 type penaltyI4BFGSCentralSearchEnd uint8
+
+// penaltyI4BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI4BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI4BFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI4BFGSCentralFinite(slope) || !penaltyI4BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI4BFGSCentralMaxAbs(d)
+	penaltyI4BFGSCentralShrinkDirection(d, g)
+	return penaltyI4BFGSCentralDot(g, d), tiny * (before / penaltyI4BFGSCentralMaxAbs(d))
+}
+
+// penaltyI4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4BFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI4BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI4BFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := penaltyI4BFGSCentralMaxAbs(d); m > 0 {
+		penaltyI4BFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyI4BFGSCentralFinite(penaltyI4BFGSCentralDot(g, d)) {
+		if m := penaltyI4BFGSCentralMaxAbs(g); m > 1 {
+			penaltyI4BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI4BFGSCentralScaleBy sets x = c·x.
+func penaltyI4BFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI4BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

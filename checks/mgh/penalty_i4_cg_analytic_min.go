@@ -470,6 +470,9 @@ func (r *penaltyI4CGAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyI4CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI4CGAnalyticFinite(now) {
+		now = penaltyI4CGAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyI4CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyI4CGAnalyticSearchOutOfBudget:
 		r.finish(PenaltyI4CGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4CGAnalyticDifferences) penaltyI4CGAnalyticLineResult {
+	slope, tiny = penaltyI4CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyI4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type penaltyI4CGAnalyticLineResult struct {
 
 // penaltyI4CGAnalyticSearchEnd tells how a line search ended.
 type penaltyI4CGAnalyticSearchEnd uint8
+
+// penaltyI4CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI4CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI4CGAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI4CGAnalyticFinite(slope) || !penaltyI4CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI4CGAnalyticMaxAbs(d)
+	penaltyI4CGAnalyticShrinkDirection(d, g)
+	return penaltyI4CGAnalyticDot(g, d), tiny * (before / penaltyI4CGAnalyticMaxAbs(d))
+}
+
+// penaltyI4CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4CGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI4CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI4CGAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := penaltyI4CGAnalyticMaxAbs(d); m > 0 {
+		penaltyI4CGAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyI4CGAnalyticFinite(penaltyI4CGAnalyticDot(g, d)) {
+		if m := penaltyI4CGAnalyticMaxAbs(g); m > 1 {
+			penaltyI4CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI4CGAnalyticScaleBy sets x = c·x.
+func penaltyI4CGAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI4CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

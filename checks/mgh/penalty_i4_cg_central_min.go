@@ -470,6 +470,9 @@ func (r *penaltyI4CGCentralDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyI4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI4CGCentralFinite(now) {
+		now = penaltyI4CGCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI4CGCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyI4CGCentralSearchOutOfBudget:
 		r.finish(PenaltyI4CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4CGCentralDifferences) penaltyI4CGCentralLineResult {
+	slope, tiny = penaltyI4CGCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyI4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type penaltyI4CGCentralLineResult struct {
 
 // penaltyI4CGCentralSearchEnd tells how a line search ended.
 type penaltyI4CGCentralSearchEnd uint8
+
+// penaltyI4CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI4CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI4CGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI4CGCentralFinite(slope) || !penaltyI4CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI4CGCentralMaxAbs(d)
+	penaltyI4CGCentralShrinkDirection(d, g)
+	return penaltyI4CGCentralDot(g, d), tiny * (before / penaltyI4CGCentralMaxAbs(d))
+}
+
+// penaltyI4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4CGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI4CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI4CGCentralShrinkDirection(d, g *[4]float64) {
+	if m := penaltyI4CGCentralMaxAbs(d); m > 0 {
+		penaltyI4CGCentralScaleBy(d, 1/m)
+	}
+	if !penaltyI4CGCentralFinite(penaltyI4CGCentralDot(g, d)) {
+		if m := penaltyI4CGCentralMaxAbs(g); m > 1 {
+			penaltyI4CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI4CGCentralScaleBy sets x = c·x.
+func penaltyI4CGCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI4CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

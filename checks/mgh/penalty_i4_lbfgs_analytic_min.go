@@ -471,6 +471,9 @@ func (r *penaltyI4LBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyI4LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI4LBFGSAnalyticFinite(now) {
+		now = penaltyI4LBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyI4LBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyI4LBFGSAnalyticSearchOutOfBudget:
 		r.finish(PenaltyI4LBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
+	slope, tiny = penaltyI4LBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyI4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type penaltyI4LBFGSAnalyticLineResult struct {
 
 // penaltyI4LBFGSAnalyticSearchEnd tells how a line search ended.
 type penaltyI4LBFGSAnalyticSearchEnd uint8
+
+// penaltyI4LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI4LBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI4LBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI4LBFGSAnalyticFinite(slope) || !penaltyI4LBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI4LBFGSAnalyticMaxAbs(d)
+	penaltyI4LBFGSAnalyticShrinkDirection(d, g)
+	return penaltyI4LBFGSAnalyticDot(g, d), tiny * (before / penaltyI4LBFGSAnalyticMaxAbs(d))
+}
+
+// penaltyI4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI4LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI4LBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := penaltyI4LBFGSAnalyticMaxAbs(d); m > 0 {
+		penaltyI4LBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyI4LBFGSAnalyticFinite(penaltyI4LBFGSAnalyticDot(g, d)) {
+		if m := penaltyI4LBFGSAnalyticMaxAbs(g); m > 1 {
+			penaltyI4LBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI4LBFGSAnalyticScaleBy sets x = c·x.
+func penaltyI4LBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI4LBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

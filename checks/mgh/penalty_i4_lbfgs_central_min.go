@@ -471,6 +471,9 @@ func (r *penaltyI4LBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyI4LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyI4LBFGSCentralFinite(now) {
+		now = penaltyI4LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI4LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyI4LBFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyI4LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) penaltyI4LBFGSCentralLineResult {
+	slope, tiny = penaltyI4LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyI4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type penaltyI4LBFGSCentralLineResult struct {
 
 // penaltyI4LBFGSCentralSearchEnd tells how a line search ended.
 type penaltyI4LBFGSCentralSearchEnd uint8
+
+// penaltyI4LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyI4LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyI4LBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyI4LBFGSCentralFinite(slope) || !penaltyI4LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyI4LBFGSCentralMaxAbs(d)
+	penaltyI4LBFGSCentralShrinkDirection(d, g)
+	return penaltyI4LBFGSCentralDot(g, d), tiny * (before / penaltyI4LBFGSCentralMaxAbs(d))
+}
+
+// penaltyI4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4LBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyI4LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyI4LBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := penaltyI4LBFGSCentralMaxAbs(d); m > 0 {
+		penaltyI4LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyI4LBFGSCentralFinite(penaltyI4LBFGSCentralDot(g, d)) {
+		if m := penaltyI4LBFGSCentralMaxAbs(g); m > 1 {
+			penaltyI4LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyI4LBFGSCentralScaleBy sets x = c·x.
+func penaltyI4LBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyI4LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

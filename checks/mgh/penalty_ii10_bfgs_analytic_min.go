@@ -470,6 +470,9 @@ func (r *penaltyII10BFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyII10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII10BFGSAnalyticFinite(now) {
+		now = penaltyII10BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyII10BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyII10BFGSAnalyticSearchOutOfBudget:
 		r.finish(PenaltyII10BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) penaltyII10BFGSAnalyticLineResult {
+	slope, tiny = penaltyII10BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyII10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type penaltyII10BFGSAnalyticLineResult struct {
 
 // penaltyII10BFGSAnalyticSearchEnd tells how a line search ended.
 type penaltyII10BFGSAnalyticSearchEnd uint8
+
+// penaltyII10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII10BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII10BFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII10BFGSAnalyticFinite(slope) || !penaltyII10BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII10BFGSAnalyticMaxAbs(d)
+	penaltyII10BFGSAnalyticShrinkDirection(d, g)
+	return penaltyII10BFGSAnalyticDot(g, d), tiny * (before / penaltyII10BFGSAnalyticMaxAbs(d))
+}
+
+// penaltyII10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := penaltyII10BFGSAnalyticMaxAbs(d); m > 0 {
+		penaltyII10BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyII10BFGSAnalyticFinite(penaltyII10BFGSAnalyticDot(g, d)) {
+		if m := penaltyII10BFGSAnalyticMaxAbs(g); m > 1 {
+			penaltyII10BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII10BFGSAnalyticScaleBy sets x = c·x.
+func penaltyII10BFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII10BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *penaltyII10BFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyII10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII10BFGSCentralFinite(now) {
+		now = penaltyII10BFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyII10BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyII10BFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyII10BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
+	slope, tiny = penaltyII10BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyII10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type penaltyII10BFGSCentralLineResult struct {
 
 // penaltyII10BFGSCentralSearchEnd tells how a line search ended.
 type penaltyII10BFGSCentralSearchEnd uint8
+
+// penaltyII10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII10BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII10BFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII10BFGSCentralFinite(slope) || !penaltyII10BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII10BFGSCentralMaxAbs(d)
+	penaltyII10BFGSCentralShrinkDirection(d, g)
+	return penaltyII10BFGSCentralDot(g, d), tiny * (before / penaltyII10BFGSCentralMaxAbs(d))
+}
+
+// penaltyII10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII10BFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := penaltyII10BFGSCentralMaxAbs(d); m > 0 {
+		penaltyII10BFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyII10BFGSCentralFinite(penaltyII10BFGSCentralDot(g, d)) {
+		if m := penaltyII10BFGSCentralMaxAbs(g); m > 1 {
+			penaltyII10BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII10BFGSCentralScaleBy sets x = c·x.
+func penaltyII10BFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII10BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *penaltyII10CGCentralDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyII10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII10CGCentralFinite(now) {
+		now = penaltyII10CGCentralDot(&r.g, &r.d) // the search shortened d (see penaltyII10CGCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyII10CGCentralSearchOutOfBudget:
 		r.finish(PenaltyII10CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func penaltyII10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10CGCentralDifferences) penaltyII10CGCentralLineResult {
+	slope, tiny = penaltyII10CGCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyII10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type penaltyII10CGCentralLineResult struct {
 
 // penaltyII10CGCentralSearchEnd tells how a line search ended.
 type penaltyII10CGCentralSearchEnd uint8
+
+// penaltyII10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII10CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII10CGCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII10CGCentralFinite(slope) || !penaltyII10CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII10CGCentralMaxAbs(d)
+	penaltyII10CGCentralShrinkDirection(d, g)
+	return penaltyII10CGCentralDot(g, d), tiny * (before / penaltyII10CGCentralMaxAbs(d))
+}
+
+// penaltyII10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII10CGCentralShrinkDirection(d, g *[10]float64) {
+	if m := penaltyII10CGCentralMaxAbs(d); m > 0 {
+		penaltyII10CGCentralScaleBy(d, 1/m)
+	}
+	if !penaltyII10CGCentralFinite(penaltyII10CGCentralDot(g, d)) {
+		if m := penaltyII10CGCentralMaxAbs(g); m > 1 {
+			penaltyII10CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII10CGCentralScaleBy sets x = c·x.
+func penaltyII10CGCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII10CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

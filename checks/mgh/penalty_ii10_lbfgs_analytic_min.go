@@ -471,6 +471,9 @@ func (r *penaltyII10LBFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyII10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII10LBFGSAnalyticFinite(now) {
+		now = penaltyII10LBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyII10LBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyII10LBFGSAnalyticSearchOutOfBudget:
 		r.finish(PenaltyII10LBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) penaltyII10LBFGSAnalyticLineResult {
+	slope, tiny = penaltyII10LBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyII10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type penaltyII10LBFGSAnalyticLineResult struct {
 
 // penaltyII10LBFGSAnalyticSearchEnd tells how a line search ended.
 type penaltyII10LBFGSAnalyticSearchEnd uint8
+
+// penaltyII10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII10LBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII10LBFGSAnalyticFinite(slope) || !penaltyII10LBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII10LBFGSAnalyticMaxAbs(d)
+	penaltyII10LBFGSAnalyticShrinkDirection(d, g)
+	return penaltyII10LBFGSAnalyticDot(g, d), tiny * (before / penaltyII10LBFGSAnalyticMaxAbs(d))
+}
+
+// penaltyII10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := penaltyII10LBFGSAnalyticMaxAbs(d); m > 0 {
+		penaltyII10LBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyII10LBFGSAnalyticFinite(penaltyII10LBFGSAnalyticDot(g, d)) {
+		if m := penaltyII10LBFGSAnalyticMaxAbs(g); m > 1 {
+			penaltyII10LBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII10LBFGSAnalyticScaleBy sets x = c·x.
+func penaltyII10LBFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII10LBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *penaltyII10LBFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := penaltyII10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII10LBFGSCentralFinite(now) {
+		now = penaltyII10LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyII10LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyII10LBFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyII10LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) penaltyII10LBFGSCentralLineResult {
+	slope, tiny = penaltyII10LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyII10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type penaltyII10LBFGSCentralLineResult struct {
 
 // penaltyII10LBFGSCentralSearchEnd tells how a line search ended.
 type penaltyII10LBFGSCentralSearchEnd uint8
+
+// penaltyII10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII10LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII10LBFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII10LBFGSCentralFinite(slope) || !penaltyII10LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII10LBFGSCentralMaxAbs(d)
+	penaltyII10LBFGSCentralShrinkDirection(d, g)
+	return penaltyII10LBFGSCentralDot(g, d), tiny * (before / penaltyII10LBFGSCentralMaxAbs(d))
+}
+
+// penaltyII10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII10LBFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := penaltyII10LBFGSCentralMaxAbs(d); m > 0 {
+		penaltyII10LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyII10LBFGSCentralFinite(penaltyII10LBFGSCentralDot(g, d)) {
+		if m := penaltyII10LBFGSCentralMaxAbs(g); m > 1 {
+			penaltyII10LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII10LBFGSCentralScaleBy sets x = c·x.
+func penaltyII10LBFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII10LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

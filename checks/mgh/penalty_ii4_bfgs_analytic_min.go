@@ -470,6 +470,9 @@ func (r *penaltyII4BFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyII4BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII4BFGSAnalyticFinite(now) {
+		now = penaltyII4BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see penaltyII4BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case penaltyII4BFGSAnalyticSearchOutOfBudget:
 		r.finish(PenaltyII4BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) penaltyII4BFGSAnalyticLineResult {
+	slope, tiny = penaltyII4BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := penaltyII4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type penaltyII4BFGSAnalyticLineResult struct {
 
 // penaltyII4BFGSAnalyticSearchEnd tells how a line search ended.
 type penaltyII4BFGSAnalyticSearchEnd uint8
+
+// penaltyII4BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII4BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII4BFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII4BFGSAnalyticFinite(slope) || !penaltyII4BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII4BFGSAnalyticMaxAbs(d)
+	penaltyII4BFGSAnalyticShrinkDirection(d, g)
+	return penaltyII4BFGSAnalyticDot(g, d), tiny * (before / penaltyII4BFGSAnalyticMaxAbs(d))
+}
+
+// penaltyII4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII4BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII4BFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := penaltyII4BFGSAnalyticMaxAbs(d); m > 0 {
+		penaltyII4BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !penaltyII4BFGSAnalyticFinite(penaltyII4BFGSAnalyticDot(g, d)) {
+		if m := penaltyII4BFGSAnalyticMaxAbs(g); m > 1 {
+			penaltyII4BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII4BFGSAnalyticScaleBy sets x = c·x.
+func penaltyII4BFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII4BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

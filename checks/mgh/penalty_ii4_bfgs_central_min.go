@@ -470,6 +470,9 @@ func (r *penaltyII4BFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyII4BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII4BFGSCentralFinite(now) {
+		now = penaltyII4BFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyII4BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyII4BFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyII4BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSCentralDifferences) penaltyII4BFGSCentralLineResult {
+	slope, tiny = penaltyII4BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyII4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type penaltyII4BFGSCentralLineResult struct {
 
 // penaltyII4BFGSCentralSearchEnd tells how a line search ended.
 type penaltyII4BFGSCentralSearchEnd uint8
+
+// penaltyII4BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII4BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII4BFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII4BFGSCentralFinite(slope) || !penaltyII4BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII4BFGSCentralMaxAbs(d)
+	penaltyII4BFGSCentralShrinkDirection(d, g)
+	return penaltyII4BFGSCentralDot(g, d), tiny * (before / penaltyII4BFGSCentralMaxAbs(d))
+}
+
+// penaltyII4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4BFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII4BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII4BFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := penaltyII4BFGSCentralMaxAbs(d); m > 0 {
+		penaltyII4BFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyII4BFGSCentralFinite(penaltyII4BFGSCentralDot(g, d)) {
+		if m := penaltyII4BFGSCentralMaxAbs(g); m > 1 {
+			penaltyII4BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII4BFGSCentralScaleBy sets x = c·x.
+func penaltyII4BFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII4BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

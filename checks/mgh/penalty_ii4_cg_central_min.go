@@ -470,6 +470,9 @@ func (r *penaltyII4CGCentralDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyII4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII4CGCentralFinite(now) {
+		now = penaltyII4CGCentralDot(&r.g, &r.d) // the search shortened d (see penaltyII4CGCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyII4CGCentralSearchOutOfBudget:
 		r.finish(PenaltyII4CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4CGCentralDifferences) penaltyII4CGCentralLineResult {
+	slope, tiny = penaltyII4CGCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyII4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type penaltyII4CGCentralLineResult struct {
 
 // penaltyII4CGCentralSearchEnd tells how a line search ended.
 type penaltyII4CGCentralSearchEnd uint8
+
+// penaltyII4CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII4CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII4CGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII4CGCentralFinite(slope) || !penaltyII4CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII4CGCentralMaxAbs(d)
+	penaltyII4CGCentralShrinkDirection(d, g)
+	return penaltyII4CGCentralDot(g, d), tiny * (before / penaltyII4CGCentralMaxAbs(d))
+}
+
+// penaltyII4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4CGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII4CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII4CGCentralShrinkDirection(d, g *[4]float64) {
+	if m := penaltyII4CGCentralMaxAbs(d); m > 0 {
+		penaltyII4CGCentralScaleBy(d, 1/m)
+	}
+	if !penaltyII4CGCentralFinite(penaltyII4CGCentralDot(g, d)) {
+		if m := penaltyII4CGCentralMaxAbs(g); m > 1 {
+			penaltyII4CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII4CGCentralScaleBy sets x = c·x.
+func penaltyII4CGCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII4CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *penaltyII4LBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := penaltyII4LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !penaltyII4LBFGSCentralFinite(now) {
+		now = penaltyII4LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see penaltyII4LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case penaltyII4LBFGSCentralSearchOutOfBudget:
 		r.finish(PenaltyII4LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) penaltyII4LBFGSCentralLineResult {
+	slope, tiny = penaltyII4LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := penaltyII4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type penaltyII4LBFGSCentralLineResult struct {
 
 // penaltyII4LBFGSCentralSearchEnd tells how a line search ended.
 type penaltyII4LBFGSCentralSearchEnd uint8
+
+// penaltyII4LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (penaltyII4LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func penaltyII4LBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if penaltyII4LBFGSCentralFinite(slope) || !penaltyII4LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := penaltyII4LBFGSCentralMaxAbs(d)
+	penaltyII4LBFGSCentralShrinkDirection(d, g)
+	return penaltyII4LBFGSCentralDot(g, d), tiny * (before / penaltyII4LBFGSCentralMaxAbs(d))
+}
+
+// penaltyII4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4LBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// penaltyII4LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func penaltyII4LBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := penaltyII4LBFGSCentralMaxAbs(d); m > 0 {
+		penaltyII4LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !penaltyII4LBFGSCentralFinite(penaltyII4LBFGSCentralDot(g, d)) {
+		if m := penaltyII4LBFGSCentralMaxAbs(g); m > 1 {
+			penaltyII4LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// penaltyII4LBFGSCentralScaleBy sets x = c·x.
+func penaltyII4LBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // penaltyII4LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := powellBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellBadlyScaledBFGSAnalyticFinite(now) {
+		now = powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case powellBadlyScaledBFGSAnalyticSearchOutOfBudget:
 		r.finish(PowellBadlyScaledBFGSAnalyticOutOfEvaluations)
@@ -934,6 +937,7 @@ func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
+	slope, tiny = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := powellBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1012,6 +1016,53 @@ type powellBadlyScaledBFGSAnalyticLineResult struct {
 
 // powellBadlyScaledBFGSAnalyticSearchEnd tells how a line search ended.
 type powellBadlyScaledBFGSAnalyticSearchEnd uint8
+
+// powellBadlyScaledBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellBadlyScaledBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if powellBadlyScaledBFGSAnalyticFinite(slope) || !powellBadlyScaledBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellBadlyScaledBFGSAnalyticMaxAbs(d)
+	powellBadlyScaledBFGSAnalyticShrinkDirection(d, g)
+	return powellBadlyScaledBFGSAnalyticDot(g, d), tiny * (before / powellBadlyScaledBFGSAnalyticMaxAbs(d))
+}
+
+// powellBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellBadlyScaledBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellBadlyScaledBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := powellBadlyScaledBFGSAnalyticMaxAbs(d); m > 0 {
+		powellBadlyScaledBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !powellBadlyScaledBFGSAnalyticFinite(powellBadlyScaledBFGSAnalyticDot(g, d)) {
+		if m := powellBadlyScaledBFGSAnalyticMaxAbs(g); m > 1 {
+			powellBadlyScaledBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellBadlyScaledBFGSAnalyticScaleBy sets x = c·x.
+func powellBadlyScaledBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellBadlyScaledBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

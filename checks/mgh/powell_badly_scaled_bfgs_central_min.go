@@ -470,6 +470,9 @@ func (r *powellBadlyScaledBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := powellBadlyScaledBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellBadlyScaledBFGSCentralFinite(now) {
+		now = powellBadlyScaledBFGSCentralDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case powellBadlyScaledBFGSCentralSearchOutOfBudget:
 		r.finish(PowellBadlyScaledBFGSCentralOutOfEvaluations)
@@ -1113,6 +1116,7 @@ func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) powellBadlyScaledBFGSCentralLineResult {
+	slope, tiny = powellBadlyScaledBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := powellBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1191,6 +1195,53 @@ type powellBadlyScaledBFGSCentralLineResult struct {
 
 // powellBadlyScaledBFGSCentralSearchEnd tells how a line search ended.
 type powellBadlyScaledBFGSCentralSearchEnd uint8
+
+// powellBadlyScaledBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellBadlyScaledBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellBadlyScaledBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if powellBadlyScaledBFGSCentralFinite(slope) || !powellBadlyScaledBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellBadlyScaledBFGSCentralMaxAbs(d)
+	powellBadlyScaledBFGSCentralShrinkDirection(d, g)
+	return powellBadlyScaledBFGSCentralDot(g, d), tiny * (before / powellBadlyScaledBFGSCentralMaxAbs(d))
+}
+
+// powellBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellBadlyScaledBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellBadlyScaledBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := powellBadlyScaledBFGSCentralMaxAbs(d); m > 0 {
+		powellBadlyScaledBFGSCentralScaleBy(d, 1/m)
+	}
+	if !powellBadlyScaledBFGSCentralFinite(powellBadlyScaledBFGSCentralDot(g, d)) {
+		if m := powellBadlyScaledBFGSCentralMaxAbs(g); m > 1 {
+			powellBadlyScaledBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellBadlyScaledBFGSCentralScaleBy sets x = c·x.
+func powellBadlyScaledBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellBadlyScaledBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

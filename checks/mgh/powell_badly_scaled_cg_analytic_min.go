@@ -470,6 +470,9 @@ func (r *powellBadlyScaledCGAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := powellBadlyScaledCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellBadlyScaledCGAnalyticFinite(now) {
+		now = powellBadlyScaledCGAnalyticDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case powellBadlyScaledCGAnalyticSearchOutOfBudget:
 		r.finish(PowellBadlyScaledCGAnalyticOutOfEvaluations)
@@ -923,6 +926,7 @@ func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
+	slope, tiny = powellBadlyScaledCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := powellBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1001,6 +1005,53 @@ type powellBadlyScaledCGAnalyticLineResult struct {
 
 // powellBadlyScaledCGAnalyticSearchEnd tells how a line search ended.
 type powellBadlyScaledCGAnalyticSearchEnd uint8
+
+// powellBadlyScaledCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellBadlyScaledCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellBadlyScaledCGAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if powellBadlyScaledCGAnalyticFinite(slope) || !powellBadlyScaledCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellBadlyScaledCGAnalyticMaxAbs(d)
+	powellBadlyScaledCGAnalyticShrinkDirection(d, g)
+	return powellBadlyScaledCGAnalyticDot(g, d), tiny * (before / powellBadlyScaledCGAnalyticMaxAbs(d))
+}
+
+// powellBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellBadlyScaledCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellBadlyScaledCGAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := powellBadlyScaledCGAnalyticMaxAbs(d); m > 0 {
+		powellBadlyScaledCGAnalyticScaleBy(d, 1/m)
+	}
+	if !powellBadlyScaledCGAnalyticFinite(powellBadlyScaledCGAnalyticDot(g, d)) {
+		if m := powellBadlyScaledCGAnalyticMaxAbs(g); m > 1 {
+			powellBadlyScaledCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellBadlyScaledCGAnalyticScaleBy sets x = c·x.
+func powellBadlyScaledCGAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellBadlyScaledCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *powellBadlyScaledCGCentralDescent) search() {
 	var xt, gt [2]float64
 	found := powellBadlyScaledCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellBadlyScaledCGCentralFinite(now) {
+		now = powellBadlyScaledCGCentralDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledCGCentralShortenAlong)
+	}
 	switch found.end {
 	case powellBadlyScaledCGCentralSearchOutOfBudget:
 		r.finish(PowellBadlyScaledCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) powellBadlyScaledCGCentralLineResult {
+	slope, tiny = powellBadlyScaledCGCentralShortenAlong(g, d, slope, tiny)
 	low := powellBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type powellBadlyScaledCGCentralLineResult struct {
 
 // powellBadlyScaledCGCentralSearchEnd tells how a line search ended.
 type powellBadlyScaledCGCentralSearchEnd uint8
+
+// powellBadlyScaledCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellBadlyScaledCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellBadlyScaledCGCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if powellBadlyScaledCGCentralFinite(slope) || !powellBadlyScaledCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellBadlyScaledCGCentralMaxAbs(d)
+	powellBadlyScaledCGCentralShrinkDirection(d, g)
+	return powellBadlyScaledCGCentralDot(g, d), tiny * (before / powellBadlyScaledCGCentralMaxAbs(d))
+}
+
+// powellBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellBadlyScaledCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellBadlyScaledCGCentralShrinkDirection(d, g *[2]float64) {
+	if m := powellBadlyScaledCGCentralMaxAbs(d); m > 0 {
+		powellBadlyScaledCGCentralScaleBy(d, 1/m)
+	}
+	if !powellBadlyScaledCGCentralFinite(powellBadlyScaledCGCentralDot(g, d)) {
+		if m := powellBadlyScaledCGCentralMaxAbs(g); m > 1 {
+			powellBadlyScaledCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellBadlyScaledCGCentralScaleBy sets x = c·x.
+func powellBadlyScaledCGCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellBadlyScaledCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

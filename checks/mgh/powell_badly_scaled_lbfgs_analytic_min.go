@@ -471,6 +471,9 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := powellBadlyScaledLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellBadlyScaledLBFGSAnalyticFinite(now) {
+		now = powellBadlyScaledLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case powellBadlyScaledLBFGSAnalyticSearchOutOfBudget:
 		r.finish(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations)
@@ -960,6 +963,7 @@ func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) powellBadlyScaledLBFGSAnalyticLineResult {
+	slope, tiny = powellBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := powellBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1038,6 +1042,53 @@ type powellBadlyScaledLBFGSAnalyticLineResult struct {
 
 // powellBadlyScaledLBFGSAnalyticSearchEnd tells how a line search ended.
 type powellBadlyScaledLBFGSAnalyticSearchEnd uint8
+
+// powellBadlyScaledLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellBadlyScaledLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellBadlyScaledLBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if powellBadlyScaledLBFGSAnalyticFinite(slope) || !powellBadlyScaledLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellBadlyScaledLBFGSAnalyticMaxAbs(d)
+	powellBadlyScaledLBFGSAnalyticShrinkDirection(d, g)
+	return powellBadlyScaledLBFGSAnalyticDot(g, d), tiny * (before / powellBadlyScaledLBFGSAnalyticMaxAbs(d))
+}
+
+// powellBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellBadlyScaledLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellBadlyScaledLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := powellBadlyScaledLBFGSAnalyticMaxAbs(d); m > 0 {
+		powellBadlyScaledLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !powellBadlyScaledLBFGSAnalyticFinite(powellBadlyScaledLBFGSAnalyticDot(g, d)) {
+		if m := powellBadlyScaledLBFGSAnalyticMaxAbs(g); m > 1 {
+			powellBadlyScaledLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellBadlyScaledLBFGSAnalyticScaleBy sets x = c·x.
+func powellBadlyScaledLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellBadlyScaledLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *powellBadlyScaledLBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := powellBadlyScaledLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellBadlyScaledLBFGSCentralFinite(now) {
+		now = powellBadlyScaledLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case powellBadlyScaledLBFGSCentralSearchOutOfBudget:
 		r.finish(PowellBadlyScaledLBFGSCentralOutOfEvaluations)
@@ -1139,6 +1142,7 @@ func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) powellBadlyScaledLBFGSCentralLineResult {
+	slope, tiny = powellBadlyScaledLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := powellBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1217,6 +1221,53 @@ type powellBadlyScaledLBFGSCentralLineResult struct {
 
 // powellBadlyScaledLBFGSCentralSearchEnd tells how a line search ended.
 type powellBadlyScaledLBFGSCentralSearchEnd uint8
+
+// powellBadlyScaledLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellBadlyScaledLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellBadlyScaledLBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if powellBadlyScaledLBFGSCentralFinite(slope) || !powellBadlyScaledLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellBadlyScaledLBFGSCentralMaxAbs(d)
+	powellBadlyScaledLBFGSCentralShrinkDirection(d, g)
+	return powellBadlyScaledLBFGSCentralDot(g, d), tiny * (before / powellBadlyScaledLBFGSCentralMaxAbs(d))
+}
+
+// powellBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellBadlyScaledLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellBadlyScaledLBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := powellBadlyScaledLBFGSCentralMaxAbs(d); m > 0 {
+		powellBadlyScaledLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !powellBadlyScaledLBFGSCentralFinite(powellBadlyScaledLBFGSCentralDot(g, d)) {
+		if m := powellBadlyScaledLBFGSCentralMaxAbs(g); m > 1 {
+			powellBadlyScaledLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellBadlyScaledLBFGSCentralScaleBy sets x = c·x.
+func powellBadlyScaledLBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellBadlyScaledLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

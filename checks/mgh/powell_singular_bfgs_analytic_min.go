@@ -470,6 +470,9 @@ func (r *powellSingularBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := powellSingularBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellSingularBFGSAnalyticFinite(now) {
+		now = powellSingularBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see powellSingularBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case powellSingularBFGSAnalyticSearchOutOfBudget:
 		r.finish(PowellSingularBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) powellSingularBFGSAnalyticLineResult {
+	slope, tiny = powellSingularBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := powellSingularBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type powellSingularBFGSAnalyticLineResult struct {
 
 // powellSingularBFGSAnalyticSearchEnd tells how a line search ended.
 type powellSingularBFGSAnalyticSearchEnd uint8
+
+// powellSingularBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellSingularBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellSingularBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if powellSingularBFGSAnalyticFinite(slope) || !powellSingularBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellSingularBFGSAnalyticMaxAbs(d)
+	powellSingularBFGSAnalyticShrinkDirection(d, g)
+	return powellSingularBFGSAnalyticDot(g, d), tiny * (before / powellSingularBFGSAnalyticMaxAbs(d))
+}
+
+// powellSingularBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellSingularBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellSingularBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := powellSingularBFGSAnalyticMaxAbs(d); m > 0 {
+		powellSingularBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !powellSingularBFGSAnalyticFinite(powellSingularBFGSAnalyticDot(g, d)) {
+		if m := powellSingularBFGSAnalyticMaxAbs(g); m > 1 {
+			powellSingularBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellSingularBFGSAnalyticScaleBy sets x = c·x.
+func powellSingularBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellSingularBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *powellSingularBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := powellSingularBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellSingularBFGSCentralFinite(now) {
+		now = powellSingularBFGSCentralDot(&r.g, &r.d) // the search shortened d (see powellSingularBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case powellSingularBFGSCentralSearchOutOfBudget:
 		r.finish(PowellSingularBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
+	slope, tiny = powellSingularBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := powellSingularBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type powellSingularBFGSCentralLineResult struct {
 
 // powellSingularBFGSCentralSearchEnd tells how a line search ended.
 type powellSingularBFGSCentralSearchEnd uint8
+
+// powellSingularBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellSingularBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellSingularBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if powellSingularBFGSCentralFinite(slope) || !powellSingularBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellSingularBFGSCentralMaxAbs(d)
+	powellSingularBFGSCentralShrinkDirection(d, g)
+	return powellSingularBFGSCentralDot(g, d), tiny * (before / powellSingularBFGSCentralMaxAbs(d))
+}
+
+// powellSingularBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellSingularBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellSingularBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := powellSingularBFGSCentralMaxAbs(d); m > 0 {
+		powellSingularBFGSCentralScaleBy(d, 1/m)
+	}
+	if !powellSingularBFGSCentralFinite(powellSingularBFGSCentralDot(g, d)) {
+		if m := powellSingularBFGSCentralMaxAbs(g); m > 1 {
+			powellSingularBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellSingularBFGSCentralScaleBy sets x = c·x.
+func powellSingularBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellSingularBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *powellSingularCGAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := powellSingularCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellSingularCGAnalyticFinite(now) {
+		now = powellSingularCGAnalyticDot(&r.g, &r.d) // the search shortened d (see powellSingularCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case powellSingularCGAnalyticSearchOutOfBudget:
 		r.finish(PowellSingularCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
+	slope, tiny = powellSingularCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := powellSingularCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type powellSingularCGAnalyticLineResult struct {
 
 // powellSingularCGAnalyticSearchEnd tells how a line search ended.
 type powellSingularCGAnalyticSearchEnd uint8
+
+// powellSingularCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellSingularCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellSingularCGAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if powellSingularCGAnalyticFinite(slope) || !powellSingularCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellSingularCGAnalyticMaxAbs(d)
+	powellSingularCGAnalyticShrinkDirection(d, g)
+	return powellSingularCGAnalyticDot(g, d), tiny * (before / powellSingularCGAnalyticMaxAbs(d))
+}
+
+// powellSingularCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularCGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellSingularCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellSingularCGAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := powellSingularCGAnalyticMaxAbs(d); m > 0 {
+		powellSingularCGAnalyticScaleBy(d, 1/m)
+	}
+	if !powellSingularCGAnalyticFinite(powellSingularCGAnalyticDot(g, d)) {
+		if m := powellSingularCGAnalyticMaxAbs(g); m > 1 {
+			powellSingularCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellSingularCGAnalyticScaleBy sets x = c·x.
+func powellSingularCGAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellSingularCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *powellSingularCGCentralDescent) search() {
 	var xt, gt [4]float64
 	found := powellSingularCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellSingularCGCentralFinite(now) {
+		now = powellSingularCGCentralDot(&r.g, &r.d) // the search shortened d (see powellSingularCGCentralShortenAlong)
+	}
 	switch found.end {
 	case powellSingularCGCentralSearchOutOfBudget:
 		r.finish(PowellSingularCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGCentralDifferences) powellSingularCGCentralLineResult {
+	slope, tiny = powellSingularCGCentralShortenAlong(g, d, slope, tiny)
 	low := powellSingularCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type powellSingularCGCentralLineResult struct {
 
 // powellSingularCGCentralSearchEnd tells how a line search ended.
 type powellSingularCGCentralSearchEnd uint8
+
+// powellSingularCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellSingularCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellSingularCGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if powellSingularCGCentralFinite(slope) || !powellSingularCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellSingularCGCentralMaxAbs(d)
+	powellSingularCGCentralShrinkDirection(d, g)
+	return powellSingularCGCentralDot(g, d), tiny * (before / powellSingularCGCentralMaxAbs(d))
+}
+
+// powellSingularCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularCGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellSingularCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellSingularCGCentralShrinkDirection(d, g *[4]float64) {
+	if m := powellSingularCGCentralMaxAbs(d); m > 0 {
+		powellSingularCGCentralScaleBy(d, 1/m)
+	}
+	if !powellSingularCGCentralFinite(powellSingularCGCentralDot(g, d)) {
+		if m := powellSingularCGCentralMaxAbs(g); m > 1 {
+			powellSingularCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellSingularCGCentralScaleBy sets x = c·x.
+func powellSingularCGCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellSingularCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *powellSingularLBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := powellSingularLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellSingularLBFGSAnalyticFinite(now) {
+		now = powellSingularLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see powellSingularLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case powellSingularLBFGSAnalyticSearchOutOfBudget:
 		r.finish(PowellSingularLBFGSAnalyticOutOfEvaluations)
@@ -960,6 +963,7 @@ func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
+	slope, tiny = powellSingularLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := powellSingularLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1038,6 +1042,53 @@ type powellSingularLBFGSAnalyticLineResult struct {
 
 // powellSingularLBFGSAnalyticSearchEnd tells how a line search ended.
 type powellSingularLBFGSAnalyticSearchEnd uint8
+
+// powellSingularLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellSingularLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellSingularLBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if powellSingularLBFGSAnalyticFinite(slope) || !powellSingularLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellSingularLBFGSAnalyticMaxAbs(d)
+	powellSingularLBFGSAnalyticShrinkDirection(d, g)
+	return powellSingularLBFGSAnalyticDot(g, d), tiny * (before / powellSingularLBFGSAnalyticMaxAbs(d))
+}
+
+// powellSingularLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellSingularLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellSingularLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := powellSingularLBFGSAnalyticMaxAbs(d); m > 0 {
+		powellSingularLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !powellSingularLBFGSAnalyticFinite(powellSingularLBFGSAnalyticDot(g, d)) {
+		if m := powellSingularLBFGSAnalyticMaxAbs(g); m > 1 {
+			powellSingularLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellSingularLBFGSAnalyticScaleBy sets x = c·x.
+func powellSingularLBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellSingularLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *powellSingularLBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := powellSingularLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !powellSingularLBFGSCentralFinite(now) {
+		now = powellSingularLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see powellSingularLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case powellSingularLBFGSCentralSearchOutOfBudget:
 		r.finish(PowellSingularLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSCentralDifferences) powellSingularLBFGSCentralLineResult {
+	slope, tiny = powellSingularLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := powellSingularLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type powellSingularLBFGSCentralLineResult struct {
 
 // powellSingularLBFGSCentralSearchEnd tells how a line search ended.
 type powellSingularLBFGSCentralSearchEnd uint8
+
+// powellSingularLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (powellSingularLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func powellSingularLBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if powellSingularLBFGSCentralFinite(slope) || !powellSingularLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := powellSingularLBFGSCentralMaxAbs(d)
+	powellSingularLBFGSCentralShrinkDirection(d, g)
+	return powellSingularLBFGSCentralDot(g, d), tiny * (before / powellSingularLBFGSCentralMaxAbs(d))
+}
+
+// powellSingularLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularLBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// powellSingularLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func powellSingularLBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := powellSingularLBFGSCentralMaxAbs(d); m > 0 {
+		powellSingularLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !powellSingularLBFGSCentralFinite(powellSingularLBFGSCentralDot(g, d)) {
+		if m := powellSingularLBFGSCentralMaxAbs(g); m > 1 {
+			powellSingularLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// powellSingularLBFGSCentralScaleBy sets x = c·x.
+func powellSingularLBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // powellSingularLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

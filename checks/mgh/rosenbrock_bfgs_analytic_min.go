@@ -470,6 +470,9 @@ func (r *rosenbrockBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := rosenbrockBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !rosenbrockBFGSAnalyticFinite(now) {
+		now = rosenbrockBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see rosenbrockBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case rosenbrockBFGSAnalyticSearchOutOfBudget:
 		r.finish(RosenbrockBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) rosenbrockBFGSAnalyticLineResult {
+	slope, tiny = rosenbrockBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := rosenbrockBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type rosenbrockBFGSAnalyticLineResult struct {
 
 // rosenbrockBFGSAnalyticSearchEnd tells how a line search ended.
 type rosenbrockBFGSAnalyticSearchEnd uint8
+
+// rosenbrockBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (rosenbrockBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func rosenbrockBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if rosenbrockBFGSAnalyticFinite(slope) || !rosenbrockBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := rosenbrockBFGSAnalyticMaxAbs(d)
+	rosenbrockBFGSAnalyticShrinkDirection(d, g)
+	return rosenbrockBFGSAnalyticDot(g, d), tiny * (before / rosenbrockBFGSAnalyticMaxAbs(d))
+}
+
+// rosenbrockBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// rosenbrockBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func rosenbrockBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := rosenbrockBFGSAnalyticMaxAbs(d); m > 0 {
+		rosenbrockBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !rosenbrockBFGSAnalyticFinite(rosenbrockBFGSAnalyticDot(g, d)) {
+		if m := rosenbrockBFGSAnalyticMaxAbs(g); m > 1 {
+			rosenbrockBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// rosenbrockBFGSAnalyticScaleBy sets x = c·x.
+func rosenbrockBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // rosenbrockBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *rosenbrockBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := rosenbrockBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !rosenbrockBFGSCentralFinite(now) {
+		now = rosenbrockBFGSCentralDot(&r.g, &r.d) // the search shortened d (see rosenbrockBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case rosenbrockBFGSCentralSearchOutOfBudget:
 		r.finish(RosenbrockBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSCentralDifferences) rosenbrockBFGSCentralLineResult {
+	slope, tiny = rosenbrockBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := rosenbrockBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type rosenbrockBFGSCentralLineResult struct {
 
 // rosenbrockBFGSCentralSearchEnd tells how a line search ended.
 type rosenbrockBFGSCentralSearchEnd uint8
+
+// rosenbrockBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (rosenbrockBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func rosenbrockBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if rosenbrockBFGSCentralFinite(slope) || !rosenbrockBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := rosenbrockBFGSCentralMaxAbs(d)
+	rosenbrockBFGSCentralShrinkDirection(d, g)
+	return rosenbrockBFGSCentralDot(g, d), tiny * (before / rosenbrockBFGSCentralMaxAbs(d))
+}
+
+// rosenbrockBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// rosenbrockBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func rosenbrockBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := rosenbrockBFGSCentralMaxAbs(d); m > 0 {
+		rosenbrockBFGSCentralScaleBy(d, 1/m)
+	}
+	if !rosenbrockBFGSCentralFinite(rosenbrockBFGSCentralDot(g, d)) {
+		if m := rosenbrockBFGSCentralMaxAbs(g); m > 1 {
+			rosenbrockBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// rosenbrockBFGSCentralScaleBy sets x = c·x.
+func rosenbrockBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // rosenbrockBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

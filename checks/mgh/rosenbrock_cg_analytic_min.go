@@ -470,6 +470,9 @@ func (r *rosenbrockCGAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := rosenbrockCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !rosenbrockCGAnalyticFinite(now) {
+		now = rosenbrockCGAnalyticDot(&r.g, &r.d) // the search shortened d (see rosenbrockCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case rosenbrockCGAnalyticSearchOutOfBudget:
 		r.finish(RosenbrockCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockCGAnalyticDifferences) rosenbrockCGAnalyticLineResult {
+	slope, tiny = rosenbrockCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := rosenbrockCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type rosenbrockCGAnalyticLineResult struct {
 
 // rosenbrockCGAnalyticSearchEnd tells how a line search ended.
 type rosenbrockCGAnalyticSearchEnd uint8
+
+// rosenbrockCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (rosenbrockCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func rosenbrockCGAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if rosenbrockCGAnalyticFinite(slope) || !rosenbrockCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := rosenbrockCGAnalyticMaxAbs(d)
+	rosenbrockCGAnalyticShrinkDirection(d, g)
+	return rosenbrockCGAnalyticDot(g, d), tiny * (before / rosenbrockCGAnalyticMaxAbs(d))
+}
+
+// rosenbrockCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// rosenbrockCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func rosenbrockCGAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := rosenbrockCGAnalyticMaxAbs(d); m > 0 {
+		rosenbrockCGAnalyticScaleBy(d, 1/m)
+	}
+	if !rosenbrockCGAnalyticFinite(rosenbrockCGAnalyticDot(g, d)) {
+		if m := rosenbrockCGAnalyticMaxAbs(g); m > 1 {
+			rosenbrockCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// rosenbrockCGAnalyticScaleBy sets x = c·x.
+func rosenbrockCGAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // rosenbrockCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

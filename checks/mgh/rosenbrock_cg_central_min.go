@@ -470,6 +470,9 @@ func (r *rosenbrockCGCentralDescent) search() {
 	var xt, gt [2]float64
 	found := rosenbrockCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !rosenbrockCGCentralFinite(now) {
+		now = rosenbrockCGCentralDot(&r.g, &r.d) // the search shortened d (see rosenbrockCGCentralShortenAlong)
+	}
 	switch found.end {
 	case rosenbrockCGCentralSearchOutOfBudget:
 		r.finish(RosenbrockCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockCGCentralDifferences) rosenbrockCGCentralLineResult {
+	slope, tiny = rosenbrockCGCentralShortenAlong(g, d, slope, tiny)
 	low := rosenbrockCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type rosenbrockCGCentralLineResult struct {
 
 // rosenbrockCGCentralSearchEnd tells how a line search ended.
 type rosenbrockCGCentralSearchEnd uint8
+
+// rosenbrockCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (rosenbrockCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func rosenbrockCGCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if rosenbrockCGCentralFinite(slope) || !rosenbrockCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := rosenbrockCGCentralMaxAbs(d)
+	rosenbrockCGCentralShrinkDirection(d, g)
+	return rosenbrockCGCentralDot(g, d), tiny * (before / rosenbrockCGCentralMaxAbs(d))
+}
+
+// rosenbrockCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// rosenbrockCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func rosenbrockCGCentralShrinkDirection(d, g *[2]float64) {
+	if m := rosenbrockCGCentralMaxAbs(d); m > 0 {
+		rosenbrockCGCentralScaleBy(d, 1/m)
+	}
+	if !rosenbrockCGCentralFinite(rosenbrockCGCentralDot(g, d)) {
+		if m := rosenbrockCGCentralMaxAbs(g); m > 1 {
+			rosenbrockCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// rosenbrockCGCentralScaleBy sets x = c·x.
+func rosenbrockCGCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // rosenbrockCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

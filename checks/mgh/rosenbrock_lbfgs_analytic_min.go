@@ -471,6 +471,9 @@ func (r *rosenbrockLBFGSAnalyticDescent) search() {
 	var xt, gt [2]float64
 	found := rosenbrockLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !rosenbrockLBFGSAnalyticFinite(now) {
+		now = rosenbrockLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see rosenbrockLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case rosenbrockLBFGSAnalyticSearchOutOfBudget:
 		r.finish(RosenbrockLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) rosenbrockLBFGSAnalyticLineResult {
+	slope, tiny = rosenbrockLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := rosenbrockLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type rosenbrockLBFGSAnalyticLineResult struct {
 
 // rosenbrockLBFGSAnalyticSearchEnd tells how a line search ended.
 type rosenbrockLBFGSAnalyticSearchEnd uint8
+
+// rosenbrockLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (rosenbrockLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func rosenbrockLBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if rosenbrockLBFGSAnalyticFinite(slope) || !rosenbrockLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := rosenbrockLBFGSAnalyticMaxAbs(d)
+	rosenbrockLBFGSAnalyticShrinkDirection(d, g)
+	return rosenbrockLBFGSAnalyticDot(g, d), tiny * (before / rosenbrockLBFGSAnalyticMaxAbs(d))
+}
+
+// rosenbrockLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// rosenbrockLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func rosenbrockLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
+	if m := rosenbrockLBFGSAnalyticMaxAbs(d); m > 0 {
+		rosenbrockLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !rosenbrockLBFGSAnalyticFinite(rosenbrockLBFGSAnalyticDot(g, d)) {
+		if m := rosenbrockLBFGSAnalyticMaxAbs(g); m > 1 {
+			rosenbrockLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// rosenbrockLBFGSAnalyticScaleBy sets x = c·x.
+func rosenbrockLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // rosenbrockLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *rosenbrockLBFGSCentralDescent) search() {
 	var xt, gt [2]float64
 	found := rosenbrockLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !rosenbrockLBFGSCentralFinite(now) {
+		now = rosenbrockLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see rosenbrockLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case rosenbrockLBFGSCentralSearchOutOfBudget:
 		r.finish(RosenbrockLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) rosenbrockLBFGSCentralLineResult {
+	slope, tiny = rosenbrockLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := rosenbrockLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type rosenbrockLBFGSCentralLineResult struct {
 
 // rosenbrockLBFGSCentralSearchEnd tells how a line search ended.
 type rosenbrockLBFGSCentralSearchEnd uint8
+
+// rosenbrockLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (rosenbrockLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func rosenbrockLBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if rosenbrockLBFGSCentralFinite(slope) || !rosenbrockLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := rosenbrockLBFGSCentralMaxAbs(d)
+	rosenbrockLBFGSCentralShrinkDirection(d, g)
+	return rosenbrockLBFGSCentralDot(g, d), tiny * (before / rosenbrockLBFGSCentralMaxAbs(d))
+}
+
+// rosenbrockLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// rosenbrockLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func rosenbrockLBFGSCentralShrinkDirection(d, g *[2]float64) {
+	if m := rosenbrockLBFGSCentralMaxAbs(d); m > 0 {
+		rosenbrockLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !rosenbrockLBFGSCentralFinite(rosenbrockLBFGSCentralDot(g, d)) {
+		if m := rosenbrockLBFGSCentralMaxAbs(g); m > 1 {
+			rosenbrockLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// rosenbrockLBFGSCentralScaleBy sets x = c·x.
+func rosenbrockLBFGSCentralScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // rosenbrockLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

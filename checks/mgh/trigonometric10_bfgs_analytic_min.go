@@ -470,6 +470,9 @@ func (r *trigonometric10BFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := trigonometric10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !trigonometric10BFGSAnalyticFinite(now) {
+		now = trigonometric10BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see trigonometric10BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case trigonometric10BFGSAnalyticSearchOutOfBudget:
 		r.finish(Trigonometric10BFGSAnalyticOutOfEvaluations)
@@ -934,6 +937,7 @@ func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
+	slope, tiny = trigonometric10BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := trigonometric10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1012,6 +1016,53 @@ type trigonometric10BFGSAnalyticLineResult struct {
 
 // trigonometric10BFGSAnalyticSearchEnd tells how a line search ended.
 type trigonometric10BFGSAnalyticSearchEnd uint8
+
+// trigonometric10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (trigonometric10BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func trigonometric10BFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if trigonometric10BFGSAnalyticFinite(slope) || !trigonometric10BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := trigonometric10BFGSAnalyticMaxAbs(d)
+	trigonometric10BFGSAnalyticShrinkDirection(d, g)
+	return trigonometric10BFGSAnalyticDot(g, d), tiny * (before / trigonometric10BFGSAnalyticMaxAbs(d))
+}
+
+// trigonometric10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// trigonometric10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func trigonometric10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := trigonometric10BFGSAnalyticMaxAbs(d); m > 0 {
+		trigonometric10BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !trigonometric10BFGSAnalyticFinite(trigonometric10BFGSAnalyticDot(g, d)) {
+		if m := trigonometric10BFGSAnalyticMaxAbs(g); m > 1 {
+			trigonometric10BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// trigonometric10BFGSAnalyticScaleBy sets x = c·x.
+func trigonometric10BFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // trigonometric10BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *trigonometric10BFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := trigonometric10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !trigonometric10BFGSCentralFinite(now) {
+		now = trigonometric10BFGSCentralDot(&r.g, &r.d) // the search shortened d (see trigonometric10BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case trigonometric10BFGSCentralSearchOutOfBudget:
 		r.finish(Trigonometric10BFGSCentralOutOfEvaluations)
@@ -1113,6 +1116,7 @@ func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSCentralDifferences) trigonometric10BFGSCentralLineResult {
+	slope, tiny = trigonometric10BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := trigonometric10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1191,6 +1195,53 @@ type trigonometric10BFGSCentralLineResult struct {
 
 // trigonometric10BFGSCentralSearchEnd tells how a line search ended.
 type trigonometric10BFGSCentralSearchEnd uint8
+
+// trigonometric10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (trigonometric10BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func trigonometric10BFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if trigonometric10BFGSCentralFinite(slope) || !trigonometric10BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := trigonometric10BFGSCentralMaxAbs(d)
+	trigonometric10BFGSCentralShrinkDirection(d, g)
+	return trigonometric10BFGSCentralDot(g, d), tiny * (before / trigonometric10BFGSCentralMaxAbs(d))
+}
+
+// trigonometric10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// trigonometric10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func trigonometric10BFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := trigonometric10BFGSCentralMaxAbs(d); m > 0 {
+		trigonometric10BFGSCentralScaleBy(d, 1/m)
+	}
+	if !trigonometric10BFGSCentralFinite(trigonometric10BFGSCentralDot(g, d)) {
+		if m := trigonometric10BFGSCentralMaxAbs(g); m > 1 {
+			trigonometric10BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// trigonometric10BFGSCentralScaleBy sets x = c·x.
+func trigonometric10BFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // trigonometric10BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

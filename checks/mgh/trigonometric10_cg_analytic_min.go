@@ -470,6 +470,9 @@ func (r *trigonometric10CGAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := trigonometric10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !trigonometric10CGAnalyticFinite(now) {
+		now = trigonometric10CGAnalyticDot(&r.g, &r.d) // the search shortened d (see trigonometric10CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case trigonometric10CGAnalyticSearchOutOfBudget:
 		r.finish(Trigonometric10CGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10CGAnalyticDifferences) trigonometric10CGAnalyticLineResult {
+	slope, tiny = trigonometric10CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := trigonometric10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type trigonometric10CGAnalyticLineResult struct {
 
 // trigonometric10CGAnalyticSearchEnd tells how a line search ended.
 type trigonometric10CGAnalyticSearchEnd uint8
+
+// trigonometric10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (trigonometric10CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func trigonometric10CGAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if trigonometric10CGAnalyticFinite(slope) || !trigonometric10CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := trigonometric10CGAnalyticMaxAbs(d)
+	trigonometric10CGAnalyticShrinkDirection(d, g)
+	return trigonometric10CGAnalyticDot(g, d), tiny * (before / trigonometric10CGAnalyticMaxAbs(d))
+}
+
+// trigonometric10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// trigonometric10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func trigonometric10CGAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := trigonometric10CGAnalyticMaxAbs(d); m > 0 {
+		trigonometric10CGAnalyticScaleBy(d, 1/m)
+	}
+	if !trigonometric10CGAnalyticFinite(trigonometric10CGAnalyticDot(g, d)) {
+		if m := trigonometric10CGAnalyticMaxAbs(g); m > 1 {
+			trigonometric10CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// trigonometric10CGAnalyticScaleBy sets x = c·x.
+func trigonometric10CGAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // trigonometric10CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *trigonometric10CGCentralDescent) search() {
 	var xt, gt [10]float64
 	found := trigonometric10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !trigonometric10CGCentralFinite(now) {
+		now = trigonometric10CGCentralDot(&r.g, &r.d) // the search shortened d (see trigonometric10CGCentralShortenAlong)
+	}
 	switch found.end {
 	case trigonometric10CGCentralSearchOutOfBudget:
 		r.finish(Trigonometric10CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func trigonometric10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10CGCentralDifferences) trigonometric10CGCentralLineResult {
+	slope, tiny = trigonometric10CGCentralShortenAlong(g, d, slope, tiny)
 	low := trigonometric10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type trigonometric10CGCentralLineResult struct {
 
 // trigonometric10CGCentralSearchEnd tells how a line search ended.
 type trigonometric10CGCentralSearchEnd uint8
+
+// trigonometric10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (trigonometric10CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func trigonometric10CGCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if trigonometric10CGCentralFinite(slope) || !trigonometric10CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := trigonometric10CGCentralMaxAbs(d)
+	trigonometric10CGCentralShrinkDirection(d, g)
+	return trigonometric10CGCentralDot(g, d), tiny * (before / trigonometric10CGCentralMaxAbs(d))
+}
+
+// trigonometric10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// trigonometric10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func trigonometric10CGCentralShrinkDirection(d, g *[10]float64) {
+	if m := trigonometric10CGCentralMaxAbs(d); m > 0 {
+		trigonometric10CGCentralScaleBy(d, 1/m)
+	}
+	if !trigonometric10CGCentralFinite(trigonometric10CGCentralDot(g, d)) {
+		if m := trigonometric10CGCentralMaxAbs(g); m > 1 {
+			trigonometric10CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// trigonometric10CGCentralScaleBy sets x = c·x.
+func trigonometric10CGCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // trigonometric10CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

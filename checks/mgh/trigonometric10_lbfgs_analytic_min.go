@@ -471,6 +471,9 @@ func (r *trigonometric10LBFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := trigonometric10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !trigonometric10LBFGSAnalyticFinite(now) {
+		now = trigonometric10LBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see trigonometric10LBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case trigonometric10LBFGSAnalyticSearchOutOfBudget:
 		r.finish(Trigonometric10LBFGSAnalyticOutOfEvaluations)
@@ -960,6 +963,7 @@ func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) trigonometric10LBFGSAnalyticLineResult {
+	slope, tiny = trigonometric10LBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := trigonometric10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1038,6 +1042,53 @@ type trigonometric10LBFGSAnalyticLineResult struct {
 
 // trigonometric10LBFGSAnalyticSearchEnd tells how a line search ended.
 type trigonometric10LBFGSAnalyticSearchEnd uint8
+
+// trigonometric10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (trigonometric10LBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func trigonometric10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if trigonometric10LBFGSAnalyticFinite(slope) || !trigonometric10LBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := trigonometric10LBFGSAnalyticMaxAbs(d)
+	trigonometric10LBFGSAnalyticShrinkDirection(d, g)
+	return trigonometric10LBFGSAnalyticDot(g, d), tiny * (before / trigonometric10LBFGSAnalyticMaxAbs(d))
+}
+
+// trigonometric10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// trigonometric10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func trigonometric10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := trigonometric10LBFGSAnalyticMaxAbs(d); m > 0 {
+		trigonometric10LBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !trigonometric10LBFGSAnalyticFinite(trigonometric10LBFGSAnalyticDot(g, d)) {
+		if m := trigonometric10LBFGSAnalyticMaxAbs(g); m > 1 {
+			trigonometric10LBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// trigonometric10LBFGSAnalyticScaleBy sets x = c·x.
+func trigonometric10LBFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // trigonometric10LBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *trigonometric10LBFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := trigonometric10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !trigonometric10LBFGSCentralFinite(now) {
+		now = trigonometric10LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see trigonometric10LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case trigonometric10LBFGSCentralSearchOutOfBudget:
 		r.finish(Trigonometric10LBFGSCentralOutOfEvaluations)
@@ -1139,6 +1142,7 @@ func trigonometric10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) trigonometric10LBFGSCentralLineResult {
+	slope, tiny = trigonometric10LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := trigonometric10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1217,6 +1221,53 @@ type trigonometric10LBFGSCentralLineResult struct {
 
 // trigonometric10LBFGSCentralSearchEnd tells how a line search ended.
 type trigonometric10LBFGSCentralSearchEnd uint8
+
+// trigonometric10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (trigonometric10LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func trigonometric10LBFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if trigonometric10LBFGSCentralFinite(slope) || !trigonometric10LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := trigonometric10LBFGSCentralMaxAbs(d)
+	trigonometric10LBFGSCentralShrinkDirection(d, g)
+	return trigonometric10LBFGSCentralDot(g, d), tiny * (before / trigonometric10LBFGSCentralMaxAbs(d))
+}
+
+// trigonometric10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// trigonometric10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func trigonometric10LBFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := trigonometric10LBFGSCentralMaxAbs(d); m > 0 {
+		trigonometric10LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !trigonometric10LBFGSCentralFinite(trigonometric10LBFGSCentralDot(g, d)) {
+		if m := trigonometric10LBFGSCentralMaxAbs(g); m > 1 {
+			trigonometric10LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// trigonometric10LBFGSCentralScaleBy sets x = c·x.
+func trigonometric10LBFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // trigonometric10LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *variablyDimensioned10BFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := variablyDimensioned10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !variablyDimensioned10BFGSAnalyticFinite(now) {
+		now = variablyDimensioned10BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case variablyDimensioned10BFGSAnalyticSearchOutOfBudget:
 		r.finish(VariablyDimensioned10BFGSAnalyticOutOfEvaluations)
@@ -935,6 +938,7 @@ func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) f
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
+	slope, tiny = variablyDimensioned10BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := variablyDimensioned10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1013,6 +1017,53 @@ type variablyDimensioned10BFGSAnalyticLineResult struct {
 
 // variablyDimensioned10BFGSAnalyticSearchEnd tells how a line search ended.
 type variablyDimensioned10BFGSAnalyticSearchEnd uint8
+
+// variablyDimensioned10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (variablyDimensioned10BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func variablyDimensioned10BFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if variablyDimensioned10BFGSAnalyticFinite(slope) || !variablyDimensioned10BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := variablyDimensioned10BFGSAnalyticMaxAbs(d)
+	variablyDimensioned10BFGSAnalyticShrinkDirection(d, g)
+	return variablyDimensioned10BFGSAnalyticDot(g, d), tiny * (before / variablyDimensioned10BFGSAnalyticMaxAbs(d))
+}
+
+// variablyDimensioned10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// variablyDimensioned10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func variablyDimensioned10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := variablyDimensioned10BFGSAnalyticMaxAbs(d); m > 0 {
+		variablyDimensioned10BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !variablyDimensioned10BFGSAnalyticFinite(variablyDimensioned10BFGSAnalyticDot(g, d)) {
+		if m := variablyDimensioned10BFGSAnalyticMaxAbs(g); m > 1 {
+			variablyDimensioned10BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// variablyDimensioned10BFGSAnalyticScaleBy sets x = c·x.
+func variablyDimensioned10BFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // variablyDimensioned10BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

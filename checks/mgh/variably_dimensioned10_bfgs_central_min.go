@@ -470,6 +470,9 @@ func (r *variablyDimensioned10BFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := variablyDimensioned10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !variablyDimensioned10BFGSCentralFinite(now) {
+		now = variablyDimensioned10BFGSCentralDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case variablyDimensioned10BFGSCentralSearchOutOfBudget:
 		r.finish(VariablyDimensioned10BFGSCentralOutOfEvaluations)
@@ -1114,6 +1117,7 @@ func variablyDimensioned10BFGSCentralTinyStep(x, d *[10]float64, tol float64) fl
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) variablyDimensioned10BFGSCentralLineResult {
+	slope, tiny = variablyDimensioned10BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := variablyDimensioned10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1192,6 +1196,53 @@ type variablyDimensioned10BFGSCentralLineResult struct {
 
 // variablyDimensioned10BFGSCentralSearchEnd tells how a line search ended.
 type variablyDimensioned10BFGSCentralSearchEnd uint8
+
+// variablyDimensioned10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (variablyDimensioned10BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func variablyDimensioned10BFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if variablyDimensioned10BFGSCentralFinite(slope) || !variablyDimensioned10BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := variablyDimensioned10BFGSCentralMaxAbs(d)
+	variablyDimensioned10BFGSCentralShrinkDirection(d, g)
+	return variablyDimensioned10BFGSCentralDot(g, d), tiny * (before / variablyDimensioned10BFGSCentralMaxAbs(d))
+}
+
+// variablyDimensioned10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// variablyDimensioned10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func variablyDimensioned10BFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := variablyDimensioned10BFGSCentralMaxAbs(d); m > 0 {
+		variablyDimensioned10BFGSCentralScaleBy(d, 1/m)
+	}
+	if !variablyDimensioned10BFGSCentralFinite(variablyDimensioned10BFGSCentralDot(g, d)) {
+		if m := variablyDimensioned10BFGSCentralMaxAbs(g); m > 1 {
+			variablyDimensioned10BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// variablyDimensioned10BFGSCentralScaleBy sets x = c·x.
+func variablyDimensioned10BFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // variablyDimensioned10BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

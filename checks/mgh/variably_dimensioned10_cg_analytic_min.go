@@ -470,6 +470,9 @@ func (r *variablyDimensioned10CGAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := variablyDimensioned10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !variablyDimensioned10CGAnalyticFinite(now) {
+		now = variablyDimensioned10CGAnalyticDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case variablyDimensioned10CGAnalyticSearchOutOfBudget:
 		r.finish(VariablyDimensioned10CGAnalyticOutOfEvaluations)
@@ -923,6 +926,7 @@ func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64) flo
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) variablyDimensioned10CGAnalyticLineResult {
+	slope, tiny = variablyDimensioned10CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := variablyDimensioned10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1001,6 +1005,53 @@ type variablyDimensioned10CGAnalyticLineResult struct {
 
 // variablyDimensioned10CGAnalyticSearchEnd tells how a line search ended.
 type variablyDimensioned10CGAnalyticSearchEnd uint8
+
+// variablyDimensioned10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (variablyDimensioned10CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func variablyDimensioned10CGAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if variablyDimensioned10CGAnalyticFinite(slope) || !variablyDimensioned10CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := variablyDimensioned10CGAnalyticMaxAbs(d)
+	variablyDimensioned10CGAnalyticShrinkDirection(d, g)
+	return variablyDimensioned10CGAnalyticDot(g, d), tiny * (before / variablyDimensioned10CGAnalyticMaxAbs(d))
+}
+
+// variablyDimensioned10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// variablyDimensioned10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func variablyDimensioned10CGAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := variablyDimensioned10CGAnalyticMaxAbs(d); m > 0 {
+		variablyDimensioned10CGAnalyticScaleBy(d, 1/m)
+	}
+	if !variablyDimensioned10CGAnalyticFinite(variablyDimensioned10CGAnalyticDot(g, d)) {
+		if m := variablyDimensioned10CGAnalyticMaxAbs(g); m > 1 {
+			variablyDimensioned10CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// variablyDimensioned10CGAnalyticScaleBy sets x = c·x.
+func variablyDimensioned10CGAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // variablyDimensioned10CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *variablyDimensioned10CGCentralDescent) search() {
 	var xt, gt [10]float64
 	found := variablyDimensioned10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !variablyDimensioned10CGCentralFinite(now) {
+		now = variablyDimensioned10CGCentralDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10CGCentralShortenAlong)
+	}
 	switch found.end {
 	case variablyDimensioned10CGCentralSearchOutOfBudget:
 		r.finish(VariablyDimensioned10CGCentralOutOfEvaluations)
@@ -1102,6 +1105,7 @@ func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64) floa
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) variablyDimensioned10CGCentralLineResult {
+	slope, tiny = variablyDimensioned10CGCentralShortenAlong(g, d, slope, tiny)
 	low := variablyDimensioned10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1180,6 +1184,53 @@ type variablyDimensioned10CGCentralLineResult struct {
 
 // variablyDimensioned10CGCentralSearchEnd tells how a line search ended.
 type variablyDimensioned10CGCentralSearchEnd uint8
+
+// variablyDimensioned10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (variablyDimensioned10CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func variablyDimensioned10CGCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if variablyDimensioned10CGCentralFinite(slope) || !variablyDimensioned10CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := variablyDimensioned10CGCentralMaxAbs(d)
+	variablyDimensioned10CGCentralShrinkDirection(d, g)
+	return variablyDimensioned10CGCentralDot(g, d), tiny * (before / variablyDimensioned10CGCentralMaxAbs(d))
+}
+
+// variablyDimensioned10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// variablyDimensioned10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func variablyDimensioned10CGCentralShrinkDirection(d, g *[10]float64) {
+	if m := variablyDimensioned10CGCentralMaxAbs(d); m > 0 {
+		variablyDimensioned10CGCentralScaleBy(d, 1/m)
+	}
+	if !variablyDimensioned10CGCentralFinite(variablyDimensioned10CGCentralDot(g, d)) {
+		if m := variablyDimensioned10CGCentralMaxAbs(g); m > 1 {
+			variablyDimensioned10CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// variablyDimensioned10CGCentralScaleBy sets x = c·x.
+func variablyDimensioned10CGCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // variablyDimensioned10CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

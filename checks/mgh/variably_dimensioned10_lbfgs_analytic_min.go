@@ -471,6 +471,9 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) search() {
 	var xt, gt [10]float64
 	found := variablyDimensioned10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !variablyDimensioned10LBFGSAnalyticFinite(now) {
+		now = variablyDimensioned10LBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10LBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case variablyDimensioned10LBFGSAnalyticSearchOutOfBudget:
 		r.finish(VariablyDimensioned10LBFGSAnalyticOutOfEvaluations)
@@ -961,6 +964,7 @@ func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) variablyDimensioned10LBFGSAnalyticLineResult {
+	slope, tiny = variablyDimensioned10LBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := variablyDimensioned10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1039,6 +1043,53 @@ type variablyDimensioned10LBFGSAnalyticLineResult struct {
 
 // variablyDimensioned10LBFGSAnalyticSearchEnd tells how a line search ended.
 type variablyDimensioned10LBFGSAnalyticSearchEnd uint8
+
+// variablyDimensioned10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (variablyDimensioned10LBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func variablyDimensioned10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if variablyDimensioned10LBFGSAnalyticFinite(slope) || !variablyDimensioned10LBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := variablyDimensioned10LBFGSAnalyticMaxAbs(d)
+	variablyDimensioned10LBFGSAnalyticShrinkDirection(d, g)
+	return variablyDimensioned10LBFGSAnalyticDot(g, d), tiny * (before / variablyDimensioned10LBFGSAnalyticMaxAbs(d))
+}
+
+// variablyDimensioned10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// variablyDimensioned10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func variablyDimensioned10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
+	if m := variablyDimensioned10LBFGSAnalyticMaxAbs(d); m > 0 {
+		variablyDimensioned10LBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !variablyDimensioned10LBFGSAnalyticFinite(variablyDimensioned10LBFGSAnalyticDot(g, d)) {
+		if m := variablyDimensioned10LBFGSAnalyticMaxAbs(g); m > 1 {
+			variablyDimensioned10LBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// variablyDimensioned10LBFGSAnalyticScaleBy sets x = c·x.
+func variablyDimensioned10LBFGSAnalyticScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // variablyDimensioned10LBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

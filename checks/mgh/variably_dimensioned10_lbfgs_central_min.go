@@ -471,6 +471,9 @@ func (r *variablyDimensioned10LBFGSCentralDescent) search() {
 	var xt, gt [10]float64
 	found := variablyDimensioned10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !variablyDimensioned10LBFGSCentralFinite(now) {
+		now = variablyDimensioned10LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case variablyDimensioned10LBFGSCentralSearchOutOfBudget:
 		r.finish(VariablyDimensioned10LBFGSCentralOutOfEvaluations)
@@ -1140,6 +1143,7 @@ func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) f
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
+	slope, tiny = variablyDimensioned10LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := variablyDimensioned10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1218,6 +1222,53 @@ type variablyDimensioned10LBFGSCentralLineResult struct {
 
 // variablyDimensioned10LBFGSCentralSearchEnd tells how a line search ended.
 type variablyDimensioned10LBFGSCentralSearchEnd uint8
+
+// variablyDimensioned10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (variablyDimensioned10LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func variablyDimensioned10LBFGSCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+	if variablyDimensioned10LBFGSCentralFinite(slope) || !variablyDimensioned10LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := variablyDimensioned10LBFGSCentralMaxAbs(d)
+	variablyDimensioned10LBFGSCentralShrinkDirection(d, g)
+	return variablyDimensioned10LBFGSCentralDot(g, d), tiny * (before / variablyDimensioned10LBFGSCentralMaxAbs(d))
+}
+
+// variablyDimensioned10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// variablyDimensioned10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func variablyDimensioned10LBFGSCentralShrinkDirection(d, g *[10]float64) {
+	if m := variablyDimensioned10LBFGSCentralMaxAbs(d); m > 0 {
+		variablyDimensioned10LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !variablyDimensioned10LBFGSCentralFinite(variablyDimensioned10LBFGSCentralDot(g, d)) {
+		if m := variablyDimensioned10LBFGSCentralMaxAbs(g); m > 1 {
+			variablyDimensioned10LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// variablyDimensioned10LBFGSCentralScaleBy sets x = c·x.
+func variablyDimensioned10LBFGSCentralScaleBy(x *[10]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // variablyDimensioned10LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

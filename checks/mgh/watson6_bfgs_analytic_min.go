@@ -470,6 +470,9 @@ func (r *watson6BFGSAnalyticDescent) search() {
 	var xt, gt [6]float64
 	found := watson6BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson6BFGSAnalyticFinite(now) {
+		now = watson6BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see watson6BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case watson6BFGSAnalyticSearchOutOfBudget:
 		r.finish(Watson6BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6BFGSAnalyticDifferences) watson6BFGSAnalyticLineResult {
+	slope, tiny = watson6BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := watson6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type watson6BFGSAnalyticLineResult struct {
 
 // watson6BFGSAnalyticSearchEnd tells how a line search ended.
 type watson6BFGSAnalyticSearchEnd uint8
+
+// watson6BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson6BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson6BFGSAnalyticShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if watson6BFGSAnalyticFinite(slope) || !watson6BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson6BFGSAnalyticMaxAbs(d)
+	watson6BFGSAnalyticShrinkDirection(d, g)
+	return watson6BFGSAnalyticDot(g, d), tiny * (before / watson6BFGSAnalyticMaxAbs(d))
+}
+
+// watson6BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6BFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson6BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson6BFGSAnalyticShrinkDirection(d, g *[6]float64) {
+	if m := watson6BFGSAnalyticMaxAbs(d); m > 0 {
+		watson6BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !watson6BFGSAnalyticFinite(watson6BFGSAnalyticDot(g, d)) {
+		if m := watson6BFGSAnalyticMaxAbs(g); m > 1 {
+			watson6BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson6BFGSAnalyticScaleBy sets x = c·x.
+func watson6BFGSAnalyticScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson6BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *watson6BFGSCentralDescent) search() {
 	var xt, gt [6]float64
 	found := watson6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson6BFGSCentralFinite(now) {
+		now = watson6BFGSCentralDot(&r.g, &r.d) // the search shortened d (see watson6BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case watson6BFGSCentralSearchOutOfBudget:
 		r.finish(Watson6BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6BFGSCentralDifferences) watson6BFGSCentralLineResult {
+	slope, tiny = watson6BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := watson6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type watson6BFGSCentralLineResult struct {
 
 // watson6BFGSCentralSearchEnd tells how a line search ended.
 type watson6BFGSCentralSearchEnd uint8
+
+// watson6BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson6BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson6BFGSCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if watson6BFGSCentralFinite(slope) || !watson6BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson6BFGSCentralMaxAbs(d)
+	watson6BFGSCentralShrinkDirection(d, g)
+	return watson6BFGSCentralDot(g, d), tiny * (before / watson6BFGSCentralMaxAbs(d))
+}
+
+// watson6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6BFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson6BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson6BFGSCentralShrinkDirection(d, g *[6]float64) {
+	if m := watson6BFGSCentralMaxAbs(d); m > 0 {
+		watson6BFGSCentralScaleBy(d, 1/m)
+	}
+	if !watson6BFGSCentralFinite(watson6BFGSCentralDot(g, d)) {
+		if m := watson6BFGSCentralMaxAbs(g); m > 1 {
+			watson6BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson6BFGSCentralScaleBy sets x = c·x.
+func watson6BFGSCentralScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson6BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *watson6CGAnalyticDescent) search() {
 	var xt, gt [6]float64
 	found := watson6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson6CGAnalyticFinite(now) {
+		now = watson6CGAnalyticDot(&r.g, &r.d) // the search shortened d (see watson6CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case watson6CGAnalyticSearchOutOfBudget:
 		r.finish(Watson6CGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6CGAnalyticDifferences) watson6CGAnalyticLineResult {
+	slope, tiny = watson6CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := watson6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type watson6CGAnalyticLineResult struct {
 
 // watson6CGAnalyticSearchEnd tells how a line search ended.
 type watson6CGAnalyticSearchEnd uint8
+
+// watson6CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson6CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson6CGAnalyticShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if watson6CGAnalyticFinite(slope) || !watson6CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson6CGAnalyticMaxAbs(d)
+	watson6CGAnalyticShrinkDirection(d, g)
+	return watson6CGAnalyticDot(g, d), tiny * (before / watson6CGAnalyticMaxAbs(d))
+}
+
+// watson6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6CGAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson6CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson6CGAnalyticShrinkDirection(d, g *[6]float64) {
+	if m := watson6CGAnalyticMaxAbs(d); m > 0 {
+		watson6CGAnalyticScaleBy(d, 1/m)
+	}
+	if !watson6CGAnalyticFinite(watson6CGAnalyticDot(g, d)) {
+		if m := watson6CGAnalyticMaxAbs(g); m > 1 {
+			watson6CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson6CGAnalyticScaleBy sets x = c·x.
+func watson6CGAnalyticScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson6CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *watson6CGCentralDescent) search() {
 	var xt, gt [6]float64
 	found := watson6CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson6CGCentralFinite(now) {
+		now = watson6CGCentralDot(&r.g, &r.d) // the search shortened d (see watson6CGCentralShortenAlong)
+	}
 	switch found.end {
 	case watson6CGCentralSearchOutOfBudget:
 		r.finish(Watson6CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func watson6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6CGCentralDifferences) watson6CGCentralLineResult {
+	slope, tiny = watson6CGCentralShortenAlong(g, d, slope, tiny)
 	low := watson6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type watson6CGCentralLineResult struct {
 
 // watson6CGCentralSearchEnd tells how a line search ended.
 type watson6CGCentralSearchEnd uint8
+
+// watson6CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson6CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson6CGCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if watson6CGCentralFinite(slope) || !watson6CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson6CGCentralMaxAbs(d)
+	watson6CGCentralShrinkDirection(d, g)
+	return watson6CGCentralDot(g, d), tiny * (before / watson6CGCentralMaxAbs(d))
+}
+
+// watson6CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6CGCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson6CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson6CGCentralShrinkDirection(d, g *[6]float64) {
+	if m := watson6CGCentralMaxAbs(d); m > 0 {
+		watson6CGCentralScaleBy(d, 1/m)
+	}
+	if !watson6CGCentralFinite(watson6CGCentralDot(g, d)) {
+		if m := watson6CGCentralMaxAbs(g); m > 1 {
+			watson6CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson6CGCentralScaleBy sets x = c·x.
+func watson6CGCentralScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson6CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *watson6LBFGSAnalyticDescent) search() {
 	var xt, gt [6]float64
 	found := watson6LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson6LBFGSAnalyticFinite(now) {
+		now = watson6LBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see watson6LBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case watson6LBFGSAnalyticSearchOutOfBudget:
 		r.finish(Watson6LBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
+	slope, tiny = watson6LBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := watson6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type watson6LBFGSAnalyticLineResult struct {
 
 // watson6LBFGSAnalyticSearchEnd tells how a line search ended.
 type watson6LBFGSAnalyticSearchEnd uint8
+
+// watson6LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson6LBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson6LBFGSAnalyticShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if watson6LBFGSAnalyticFinite(slope) || !watson6LBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson6LBFGSAnalyticMaxAbs(d)
+	watson6LBFGSAnalyticShrinkDirection(d, g)
+	return watson6LBFGSAnalyticDot(g, d), tiny * (before / watson6LBFGSAnalyticMaxAbs(d))
+}
+
+// watson6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson6LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson6LBFGSAnalyticShrinkDirection(d, g *[6]float64) {
+	if m := watson6LBFGSAnalyticMaxAbs(d); m > 0 {
+		watson6LBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !watson6LBFGSAnalyticFinite(watson6LBFGSAnalyticDot(g, d)) {
+		if m := watson6LBFGSAnalyticMaxAbs(g); m > 1 {
+			watson6LBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson6LBFGSAnalyticScaleBy sets x = c·x.
+func watson6LBFGSAnalyticScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson6LBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

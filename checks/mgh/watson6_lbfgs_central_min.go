@@ -471,6 +471,9 @@ func (r *watson6LBFGSCentralDescent) search() {
 	var xt, gt [6]float64
 	found := watson6LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson6LBFGSCentralFinite(now) {
+		now = watson6LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see watson6LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case watson6LBFGSCentralSearchOutOfBudget:
 		r.finish(Watson6LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
+	slope, tiny = watson6LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := watson6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type watson6LBFGSCentralLineResult struct {
 
 // watson6LBFGSCentralSearchEnd tells how a line search ended.
 type watson6LBFGSCentralSearchEnd uint8
+
+// watson6LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson6LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson6LBFGSCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+	if watson6LBFGSCentralFinite(slope) || !watson6LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson6LBFGSCentralMaxAbs(d)
+	watson6LBFGSCentralShrinkDirection(d, g)
+	return watson6LBFGSCentralDot(g, d), tiny * (before / watson6LBFGSCentralMaxAbs(d))
+}
+
+// watson6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6LBFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson6LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson6LBFGSCentralShrinkDirection(d, g *[6]float64) {
+	if m := watson6LBFGSCentralMaxAbs(d); m > 0 {
+		watson6LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !watson6LBFGSCentralFinite(watson6LBFGSCentralDot(g, d)) {
+		if m := watson6LBFGSCentralMaxAbs(g); m > 1 {
+			watson6LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson6LBFGSCentralScaleBy sets x = c·x.
+func watson6LBFGSCentralScaleBy(x *[6]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson6LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *watson9BFGSAnalyticDescent) search() {
 	var xt, gt [9]float64
 	found := watson9BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson9BFGSAnalyticFinite(now) {
+		now = watson9BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see watson9BFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case watson9BFGSAnalyticSearchOutOfBudget:
 		r.finish(Watson9BFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSAnalyticDifferences) watson9BFGSAnalyticLineResult {
+	slope, tiny = watson9BFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := watson9BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type watson9BFGSAnalyticLineResult struct {
 
 // watson9BFGSAnalyticSearchEnd tells how a line search ended.
 type watson9BFGSAnalyticSearchEnd uint8
+
+// watson9BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson9BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson9BFGSAnalyticShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+	if watson9BFGSAnalyticFinite(slope) || !watson9BFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson9BFGSAnalyticMaxAbs(d)
+	watson9BFGSAnalyticShrinkDirection(d, g)
+	return watson9BFGSAnalyticDot(g, d), tiny * (before / watson9BFGSAnalyticMaxAbs(d))
+}
+
+// watson9BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9BFGSAnalyticMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson9BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson9BFGSAnalyticShrinkDirection(d, g *[9]float64) {
+	if m := watson9BFGSAnalyticMaxAbs(d); m > 0 {
+		watson9BFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !watson9BFGSAnalyticFinite(watson9BFGSAnalyticDot(g, d)) {
+		if m := watson9BFGSAnalyticMaxAbs(g); m > 1 {
+			watson9BFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson9BFGSAnalyticScaleBy sets x = c·x.
+func watson9BFGSAnalyticScaleBy(x *[9]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson9BFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *watson9BFGSCentralDescent) search() {
 	var xt, gt [9]float64
 	found := watson9BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson9BFGSCentralFinite(now) {
+		now = watson9BFGSCentralDot(&r.g, &r.d) // the search shortened d (see watson9BFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case watson9BFGSCentralSearchOutOfBudget:
 		r.finish(Watson9BFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
+	slope, tiny = watson9BFGSCentralShortenAlong(g, d, slope, tiny)
 	low := watson9BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type watson9BFGSCentralLineResult struct {
 
 // watson9BFGSCentralSearchEnd tells how a line search ended.
 type watson9BFGSCentralSearchEnd uint8
+
+// watson9BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson9BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson9BFGSCentralShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+	if watson9BFGSCentralFinite(slope) || !watson9BFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson9BFGSCentralMaxAbs(d)
+	watson9BFGSCentralShrinkDirection(d, g)
+	return watson9BFGSCentralDot(g, d), tiny * (before / watson9BFGSCentralMaxAbs(d))
+}
+
+// watson9BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9BFGSCentralMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson9BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson9BFGSCentralShrinkDirection(d, g *[9]float64) {
+	if m := watson9BFGSCentralMaxAbs(d); m > 0 {
+		watson9BFGSCentralScaleBy(d, 1/m)
+	}
+	if !watson9BFGSCentralFinite(watson9BFGSCentralDot(g, d)) {
+		if m := watson9BFGSCentralMaxAbs(g); m > 1 {
+			watson9BFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson9BFGSCentralScaleBy sets x = c·x.
+func watson9BFGSCentralScaleBy(x *[9]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson9BFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

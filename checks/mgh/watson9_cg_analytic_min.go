@@ -470,6 +470,9 @@ func (r *watson9CGAnalyticDescent) search() {
 	var xt, gt [9]float64
 	found := watson9CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson9CGAnalyticFinite(now) {
+		now = watson9CGAnalyticDot(&r.g, &r.d) // the search shortened d (see watson9CGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case watson9CGAnalyticSearchOutOfBudget:
 		r.finish(Watson9CGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
+	slope, tiny = watson9CGAnalyticShortenAlong(g, d, slope, tiny)
 	low := watson9CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type watson9CGAnalyticLineResult struct {
 
 // watson9CGAnalyticSearchEnd tells how a line search ended.
 type watson9CGAnalyticSearchEnd uint8
+
+// watson9CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson9CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson9CGAnalyticShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+	if watson9CGAnalyticFinite(slope) || !watson9CGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson9CGAnalyticMaxAbs(d)
+	watson9CGAnalyticShrinkDirection(d, g)
+	return watson9CGAnalyticDot(g, d), tiny * (before / watson9CGAnalyticMaxAbs(d))
+}
+
+// watson9CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9CGAnalyticMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson9CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson9CGAnalyticShrinkDirection(d, g *[9]float64) {
+	if m := watson9CGAnalyticMaxAbs(d); m > 0 {
+		watson9CGAnalyticScaleBy(d, 1/m)
+	}
+	if !watson9CGAnalyticFinite(watson9CGAnalyticDot(g, d)) {
+		if m := watson9CGAnalyticMaxAbs(g); m > 1 {
+			watson9CGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson9CGAnalyticScaleBy sets x = c·x.
+func watson9CGAnalyticScaleBy(x *[9]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson9CGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *watson9CGCentralDescent) search() {
 	var xt, gt [9]float64
 	found := watson9CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson9CGCentralFinite(now) {
+		now = watson9CGCentralDot(&r.g, &r.d) // the search shortened d (see watson9CGCentralShortenAlong)
+	}
 	switch found.end {
 	case watson9CGCentralSearchOutOfBudget:
 		r.finish(Watson9CGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func watson9CGCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGCentralDifferences) watson9CGCentralLineResult {
+	slope, tiny = watson9CGCentralShortenAlong(g, d, slope, tiny)
 	low := watson9CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type watson9CGCentralLineResult struct {
 
 // watson9CGCentralSearchEnd tells how a line search ended.
 type watson9CGCentralSearchEnd uint8
+
+// watson9CGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson9CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson9CGCentralShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+	if watson9CGCentralFinite(slope) || !watson9CGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson9CGCentralMaxAbs(d)
+	watson9CGCentralShrinkDirection(d, g)
+	return watson9CGCentralDot(g, d), tiny * (before / watson9CGCentralMaxAbs(d))
+}
+
+// watson9CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9CGCentralMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson9CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson9CGCentralShrinkDirection(d, g *[9]float64) {
+	if m := watson9CGCentralMaxAbs(d); m > 0 {
+		watson9CGCentralScaleBy(d, 1/m)
+	}
+	if !watson9CGCentralFinite(watson9CGCentralDot(g, d)) {
+		if m := watson9CGCentralMaxAbs(g); m > 1 {
+			watson9CGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson9CGCentralScaleBy sets x = c·x.
+func watson9CGCentralScaleBy(x *[9]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson9CGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

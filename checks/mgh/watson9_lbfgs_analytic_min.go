@@ -471,6 +471,9 @@ func (r *watson9LBFGSAnalyticDescent) search() {
 	var xt, gt [9]float64
 	found := watson9LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson9LBFGSAnalyticFinite(now) {
+		now = watson9LBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see watson9LBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case watson9LBFGSAnalyticSearchOutOfBudget:
 		r.finish(Watson9LBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSAnalyticDifferences) watson9LBFGSAnalyticLineResult {
+	slope, tiny = watson9LBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := watson9LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type watson9LBFGSAnalyticLineResult struct {
 
 // watson9LBFGSAnalyticSearchEnd tells how a line search ended.
 type watson9LBFGSAnalyticSearchEnd uint8
+
+// watson9LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson9LBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson9LBFGSAnalyticShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+	if watson9LBFGSAnalyticFinite(slope) || !watson9LBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson9LBFGSAnalyticMaxAbs(d)
+	watson9LBFGSAnalyticShrinkDirection(d, g)
+	return watson9LBFGSAnalyticDot(g, d), tiny * (before / watson9LBFGSAnalyticMaxAbs(d))
+}
+
+// watson9LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9LBFGSAnalyticMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson9LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson9LBFGSAnalyticShrinkDirection(d, g *[9]float64) {
+	if m := watson9LBFGSAnalyticMaxAbs(d); m > 0 {
+		watson9LBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !watson9LBFGSAnalyticFinite(watson9LBFGSAnalyticDot(g, d)) {
+		if m := watson9LBFGSAnalyticMaxAbs(g); m > 1 {
+			watson9LBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson9LBFGSAnalyticScaleBy sets x = c·x.
+func watson9LBFGSAnalyticScaleBy(x *[9]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson9LBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *watson9LBFGSCentralDescent) search() {
 	var xt, gt [9]float64
 	found := watson9LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !watson9LBFGSCentralFinite(now) {
+		now = watson9LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see watson9LBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case watson9LBFGSCentralSearchOutOfBudget:
 		r.finish(Watson9LBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
+	slope, tiny = watson9LBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := watson9LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type watson9LBFGSCentralLineResult struct {
 
 // watson9LBFGSCentralSearchEnd tells how a line search ended.
 type watson9LBFGSCentralSearchEnd uint8
+
+// watson9LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (watson9LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func watson9LBFGSCentralShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+	if watson9LBFGSCentralFinite(slope) || !watson9LBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := watson9LBFGSCentralMaxAbs(d)
+	watson9LBFGSCentralShrinkDirection(d, g)
+	return watson9LBFGSCentralDot(g, d), tiny * (before / watson9LBFGSCentralMaxAbs(d))
+}
+
+// watson9LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9LBFGSCentralMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// watson9LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func watson9LBFGSCentralShrinkDirection(d, g *[9]float64) {
+	if m := watson9LBFGSCentralMaxAbs(d); m > 0 {
+		watson9LBFGSCentralScaleBy(d, 1/m)
+	}
+	if !watson9LBFGSCentralFinite(watson9LBFGSCentralDot(g, d)) {
+		if m := watson9LBFGSCentralMaxAbs(g); m > 1 {
+			watson9LBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// watson9LBFGSCentralScaleBy sets x = c·x.
+func watson9LBFGSCentralScaleBy(x *[9]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // watson9LBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *woodBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := woodBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !woodBFGSAnalyticFinite(now) {
+		now = woodBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see woodBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case woodBFGSAnalyticSearchOutOfBudget:
 		r.finish(WoodBFGSAnalyticOutOfEvaluations)
@@ -933,6 +936,7 @@ func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodBFGSAnalyticDifferences) woodBFGSAnalyticLineResult {
+	slope, tiny = woodBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := woodBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1011,6 +1015,53 @@ type woodBFGSAnalyticLineResult struct {
 
 // woodBFGSAnalyticSearchEnd tells how a line search ended.
 type woodBFGSAnalyticSearchEnd uint8
+
+// woodBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (woodBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func woodBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if woodBFGSAnalyticFinite(slope) || !woodBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := woodBFGSAnalyticMaxAbs(d)
+	woodBFGSAnalyticShrinkDirection(d, g)
+	return woodBFGSAnalyticDot(g, d), tiny * (before / woodBFGSAnalyticMaxAbs(d))
+}
+
+// woodBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func woodBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// woodBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func woodBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := woodBFGSAnalyticMaxAbs(d); m > 0 {
+		woodBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !woodBFGSAnalyticFinite(woodBFGSAnalyticDot(g, d)) {
+		if m := woodBFGSAnalyticMaxAbs(g); m > 1 {
+			woodBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// woodBFGSAnalyticScaleBy sets x = c·x.
+func woodBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // woodBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

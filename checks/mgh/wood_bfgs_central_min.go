@@ -470,6 +470,9 @@ func (r *woodBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := woodBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !woodBFGSCentralFinite(now) {
+		now = woodBFGSCentralDot(&r.g, &r.d) // the search shortened d (see woodBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case woodBFGSCentralSearchOutOfBudget:
 		r.finish(WoodBFGSCentralOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodBFGSCentralDifferences) woodBFGSCentralLineResult {
+	slope, tiny = woodBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := woodBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type woodBFGSCentralLineResult struct {
 
 // woodBFGSCentralSearchEnd tells how a line search ended.
 type woodBFGSCentralSearchEnd uint8
+
+// woodBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (woodBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func woodBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if woodBFGSCentralFinite(slope) || !woodBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := woodBFGSCentralMaxAbs(d)
+	woodBFGSCentralShrinkDirection(d, g)
+	return woodBFGSCentralDot(g, d), tiny * (before / woodBFGSCentralMaxAbs(d))
+}
+
+// woodBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func woodBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// woodBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func woodBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := woodBFGSCentralMaxAbs(d); m > 0 {
+		woodBFGSCentralScaleBy(d, 1/m)
+	}
+	if !woodBFGSCentralFinite(woodBFGSCentralDot(g, d)) {
+		if m := woodBFGSCentralMaxAbs(g); m > 1 {
+			woodBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// woodBFGSCentralScaleBy sets x = c·x.
+func woodBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // woodBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

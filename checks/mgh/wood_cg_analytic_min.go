@@ -470,6 +470,9 @@ func (r *woodCGAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := woodCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !woodCGAnalyticFinite(now) {
+		now = woodCGAnalyticDot(&r.g, &r.d) // the search shortened d (see woodCGAnalyticShortenAlong)
+	}
 	switch found.end {
 	case woodCGAnalyticSearchOutOfBudget:
 		r.finish(WoodCGAnalyticOutOfEvaluations)
@@ -922,6 +925,7 @@ func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGAnalyticDifferences) woodCGAnalyticLineResult {
+	slope, tiny = woodCGAnalyticShortenAlong(g, d, slope, tiny)
 	low := woodCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1000,6 +1004,53 @@ type woodCGAnalyticLineResult struct {
 
 // woodCGAnalyticSearchEnd tells how a line search ended.
 type woodCGAnalyticSearchEnd uint8
+
+// woodCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (woodCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func woodCGAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if woodCGAnalyticFinite(slope) || !woodCGAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := woodCGAnalyticMaxAbs(d)
+	woodCGAnalyticShrinkDirection(d, g)
+	return woodCGAnalyticDot(g, d), tiny * (before / woodCGAnalyticMaxAbs(d))
+}
+
+// woodCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func woodCGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// woodCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func woodCGAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := woodCGAnalyticMaxAbs(d); m > 0 {
+		woodCGAnalyticScaleBy(d, 1/m)
+	}
+	if !woodCGAnalyticFinite(woodCGAnalyticDot(g, d)) {
+		if m := woodCGAnalyticMaxAbs(g); m > 1 {
+			woodCGAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// woodCGAnalyticScaleBy sets x = c·x.
+func woodCGAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // woodCGAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -470,6 +470,9 @@ func (r *woodCGCentralDescent) search() {
 	var xt, gt [4]float64
 	found := woodCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !woodCGCentralFinite(now) {
+		now = woodCGCentralDot(&r.g, &r.d) // the search shortened d (see woodCGCentralShortenAlong)
+	}
 	switch found.end {
 	case woodCGCentralSearchOutOfBudget:
 		r.finish(WoodCGCentralOutOfEvaluations)
@@ -1101,6 +1104,7 @@ func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
+	slope, tiny = woodCGCentralShortenAlong(g, d, slope, tiny)
 	low := woodCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1179,6 +1183,53 @@ type woodCGCentralLineResult struct {
 
 // woodCGCentralSearchEnd tells how a line search ended.
 type woodCGCentralSearchEnd uint8
+
+// woodCGCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (woodCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func woodCGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if woodCGCentralFinite(slope) || !woodCGCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := woodCGCentralMaxAbs(d)
+	woodCGCentralShrinkDirection(d, g)
+	return woodCGCentralDot(g, d), tiny * (before / woodCGCentralMaxAbs(d))
+}
+
+// woodCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func woodCGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// woodCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func woodCGCentralShrinkDirection(d, g *[4]float64) {
+	if m := woodCGCentralMaxAbs(d); m > 0 {
+		woodCGCentralScaleBy(d, 1/m)
+	}
+	if !woodCGCentralFinite(woodCGCentralDot(g, d)) {
+		if m := woodCGCentralMaxAbs(g); m > 1 {
+			woodCGCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// woodCGCentralScaleBy sets x = c·x.
+func woodCGCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // woodCGCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

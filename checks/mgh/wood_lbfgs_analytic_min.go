@@ -471,6 +471,9 @@ func (r *woodLBFGSAnalyticDescent) search() {
 	var xt, gt [4]float64
 	found := woodLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !woodLBFGSAnalyticFinite(now) {
+		now = woodLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see woodLBFGSAnalyticShortenAlong)
+	}
 	switch found.end {
 	case woodLBFGSAnalyticSearchOutOfBudget:
 		r.finish(WoodLBFGSAnalyticOutOfEvaluations)
@@ -959,6 +962,7 @@ func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodLBFGSAnalyticDifferences) woodLBFGSAnalyticLineResult {
+	slope, tiny = woodLBFGSAnalyticShortenAlong(g, d, slope, tiny)
 	low := woodLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type woodLBFGSAnalyticLineResult struct {
 
 // woodLBFGSAnalyticSearchEnd tells how a line search ended.
 type woodLBFGSAnalyticSearchEnd uint8
+
+// woodLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (woodLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func woodLBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if woodLBFGSAnalyticFinite(slope) || !woodLBFGSAnalyticFiniteVec(d) {
+		return slope, tiny
+	}
+	before := woodLBFGSAnalyticMaxAbs(d)
+	woodLBFGSAnalyticShrinkDirection(d, g)
+	return woodLBFGSAnalyticDot(g, d), tiny * (before / woodLBFGSAnalyticMaxAbs(d))
+}
+
+// woodLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func woodLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// woodLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func woodLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
+	if m := woodLBFGSAnalyticMaxAbs(d); m > 0 {
+		woodLBFGSAnalyticScaleBy(d, 1/m)
+	}
+	if !woodLBFGSAnalyticFinite(woodLBFGSAnalyticDot(g, d)) {
+		if m := woodLBFGSAnalyticMaxAbs(g); m > 1 {
+			woodLBFGSAnalyticScaleBy(d, 1/m)
+		}
+	}
+}
+
+// woodLBFGSAnalyticScaleBy sets x = c·x.
+func woodLBFGSAnalyticScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // woodLBFGSAnalyticLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -471,6 +471,9 @@ func (r *woodLBFGSCentralDescent) search() {
 	var xt, gt [4]float64
 	found := woodLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !woodLBFGSCentralFinite(now) {
+		now = woodLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see woodLBFGSCentralShortenAlong)
+	}
 	switch found.end {
 	case woodLBFGSCentralSearchOutOfBudget:
 		r.finish(WoodLBFGSCentralOutOfEvaluations)
@@ -1138,6 +1141,7 @@ func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodLBFGSCentralDifferences) woodLBFGSCentralLineResult {
+	slope, tiny = woodLBFGSCentralShortenAlong(g, d, slope, tiny)
 	low := woodLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1216,6 +1220,53 @@ type woodLBFGSCentralLineResult struct {
 
 // woodLBFGSCentralSearchEnd tells how a line search ended.
 type woodLBFGSCentralSearchEnd uint8
+
+// woodLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (woodLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func woodLBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+	if woodLBFGSCentralFinite(slope) || !woodLBFGSCentralFiniteVec(d) {
+		return slope, tiny
+	}
+	before := woodLBFGSCentralMaxAbs(d)
+	woodLBFGSCentralShrinkDirection(d, g)
+	return woodLBFGSCentralDot(g, d), tiny * (before / woodLBFGSCentralMaxAbs(d))
+}
+
+// woodLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func woodLBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// woodLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func woodLBFGSCentralShrinkDirection(d, g *[4]float64) {
+	if m := woodLBFGSCentralMaxAbs(d); m > 0 {
+		woodLBFGSCentralScaleBy(d, 1/m)
+	}
+	if !woodLBFGSCentralFinite(woodLBFGSCentralDot(g, d)) {
+		if m := woodLBFGSCentralMaxAbs(g); m > 1 {
+			woodLBFGSCentralScaleBy(d, 1/m)
+		}
+	}
+}
+
+// woodLBFGSCentralScaleBy sets x = c·x.
+func woodLBFGSCentralScaleBy(x *[4]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // woodLBFGSCentralLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

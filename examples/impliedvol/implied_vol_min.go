@@ -480,6 +480,9 @@ func (r *impliedVolDescent) search(recv *Trade) {
 	var xt, gt [1]float64
 	found := impliedVolLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !impliedVolFinite(now) {
+		now = impliedVolDot(&r.g, &r.d) // the search shortened d (see impliedVolShortenAlong)
+	}
 	switch found.end {
 	case impliedVolSearchOutOfBudget:
 		r.finish(ImpliedVolOutOfEvaluations)
@@ -1029,6 +1032,7 @@ func impliedVolTinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func impliedVolLineSearch(recv *Trade, x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *impliedVolDifferences) impliedVolLineResult {
+	slope, tiny = impliedVolShortenAlong(g, d, slope, tiny)
 	low := impliedVolLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high impliedVolLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1107,6 +1111,53 @@ type impliedVolLineResult struct {
 
 // impliedVolSearchEnd tells how a line search ended.
 type impliedVolSearchEnd uint8
+
+// impliedVolShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (impliedVolShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func impliedVolShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if impliedVolFinite(slope) || !impliedVolFiniteVec(d) {
+		return slope, tiny
+	}
+	before := impliedVolMaxAbs(d)
+	impliedVolShrinkDirection(d, g)
+	return impliedVolDot(g, d), tiny * (before / impliedVolMaxAbs(d))
+}
+
+// impliedVolMaxAbs returns the largest |x_i|, the infinity norm.
+func impliedVolMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := impliedVolAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// impliedVolShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func impliedVolShrinkDirection(d, g *[1]float64) {
+	if m := impliedVolMaxAbs(d); m > 0 {
+		impliedVolScaleBy(d, 1/m)
+	}
+	if !impliedVolFinite(impliedVolDot(g, d)) {
+		if m := impliedVolMaxAbs(g); m > 1 {
+			impliedVolScaleBy(d, 1/m)
+		}
+	}
+}
+
+// impliedVolScaleBy sets x = c·x.
+func impliedVolScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // impliedVolLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

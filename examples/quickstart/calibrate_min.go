@@ -470,6 +470,9 @@ func (r *calibrateDescent) search() {
 	var xt, gt [2]float64
 	found := calibrateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !calibrateFinite(now) {
+		now = calibrateDot(&r.g, &r.d) // the search shortened d (see calibrateShortenAlong)
+	}
 	switch found.end {
 	case calibrateSearchOutOfBudget:
 		r.finish(CalibrateOutOfEvaluations)
@@ -912,6 +915,7 @@ func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
+	slope, tiny = calibrateShortenAlong(g, d, slope, tiny)
 	t := first
 	var previous, fPrevious float64
 	var trend calibrateRiseTrend
@@ -945,6 +949,53 @@ type calibrateLineResult struct {
 
 // calibrateSearchEnd tells how a line search ended.
 type calibrateSearchEnd uint8
+
+// calibrateShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (calibrateShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func calibrateShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if calibrateFinite(slope) || !calibrateFiniteVec(d) {
+		return slope, tiny
+	}
+	before := calibrateMaxAbs(d)
+	calibrateShrinkDirection(d, g)
+	return calibrateDot(g, d), tiny * (before / calibrateMaxAbs(d))
+}
+
+// calibrateMaxAbs returns the largest |x_i|, the infinity norm.
+func calibrateMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := calibrateAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// calibrateShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func calibrateShrinkDirection(d, g *[2]float64) {
+	if m := calibrateMaxAbs(d); m > 0 {
+		calibrateScaleBy(d, 1/m)
+	}
+	if !calibrateFinite(calibrateDot(g, d)) {
+		if m := calibrateMaxAbs(g); m > 1 {
+			calibrateScaleBy(d, 1/m)
+		}
+	}
+}
+
+// calibrateScaleBy sets x = c·x.
+func calibrateScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // calibrateRiseTrend watches the failed trials of one line search, shortest last,
 // for the mark of a wrong gradient: f rising in proportion to the step,

@@ -470,6 +470,9 @@ func (r *tuneGainDescent) search() {
 	var xt, gt [1]float64
 	found := tuneGainLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !tuneGainFinite(now) {
+		now = tuneGainDot(&r.g, &r.d) // the search shortened d (see tuneGainShortenAlong)
+	}
 	switch found.end {
 	case tuneGainSearchOutOfBudget:
 		r.finish(TuneGainOutOfEvaluations)
@@ -1091,6 +1094,7 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func tuneGainLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
+	slope, tiny = tuneGainShortenAlong(g, d, slope, tiny)
 	t := first
 	var previous, fPrevious float64
 	var trend tuneGainRiseTrend
@@ -1124,6 +1128,53 @@ type tuneGainLineResult struct {
 
 // tuneGainSearchEnd tells how a line search ended.
 type tuneGainSearchEnd uint8
+
+// tuneGainShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (tuneGainShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func tuneGainShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if tuneGainFinite(slope) || !tuneGainFiniteVec(d) {
+		return slope, tiny
+	}
+	before := tuneGainMaxAbs(d)
+	tuneGainShrinkDirection(d, g)
+	return tuneGainDot(g, d), tiny * (before / tuneGainMaxAbs(d))
+}
+
+// tuneGainMaxAbs returns the largest |x_i|, the infinity norm.
+func tuneGainMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := tuneGainAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// tuneGainShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func tuneGainShrinkDirection(d, g *[1]float64) {
+	if m := tuneGainMaxAbs(d); m > 0 {
+		tuneGainScaleBy(d, 1/m)
+	}
+	if !tuneGainFinite(tuneGainDot(g, d)) {
+		if m := tuneGainMaxAbs(g); m > 1 {
+			tuneGainScaleBy(d, 1/m)
+		}
+	}
+}
+
+// tuneGainScaleBy sets x = c·x.
+func tuneGainScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // tuneGainRiseTrend watches the failed trials of one line search, shortest last,
 // for the mark of a wrong gradient: f rising in proportion to the step,

@@ -497,6 +497,9 @@ func (r *fitSteinhartHartDescent) search(recv *Calibration) {
 	var xt, gt [3]float64
 	found := fitSteinhartHartLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !fitSteinhartHartFinite(now) {
+		now = fitSteinhartHartDot(&r.g, &r.d) // the search shortened d (see fitSteinhartHartShortenAlong)
+	}
 	switch found.end {
 	case fitSteinhartHartSearchOutOfBudget:
 		r.finish(FitSteinhartHartOutOfEvaluations)
@@ -1139,6 +1142,7 @@ func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func fitSteinhartHartLineSearch(recv *Calibration, x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *fitSteinhartHartDifferences) fitSteinhartHartLineResult {
+	slope, tiny = fitSteinhartHartShortenAlong(g, d, slope, tiny)
 	low := fitSteinhartHartLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high fitSteinhartHartLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1217,6 +1221,53 @@ type fitSteinhartHartLineResult struct {
 
 // fitSteinhartHartSearchEnd tells how a line search ended.
 type fitSteinhartHartSearchEnd uint8
+
+// fitSteinhartHartShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (fitSteinhartHartShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func fitSteinhartHartShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+	if fitSteinhartHartFinite(slope) || !fitSteinhartHartFiniteVec(d) {
+		return slope, tiny
+	}
+	before := fitSteinhartHartMaxAbs(d)
+	fitSteinhartHartShrinkDirection(d, g)
+	return fitSteinhartHartDot(g, d), tiny * (before / fitSteinhartHartMaxAbs(d))
+}
+
+// fitSteinhartHartMaxAbs returns the largest |x_i|, the infinity norm.
+func fitSteinhartHartMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := fitSteinhartHartAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// fitSteinhartHartShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func fitSteinhartHartShrinkDirection(d, g *[3]float64) {
+	if m := fitSteinhartHartMaxAbs(d); m > 0 {
+		fitSteinhartHartScaleBy(d, 1/m)
+	}
+	if !fitSteinhartHartFinite(fitSteinhartHartDot(g, d)) {
+		if m := fitSteinhartHartMaxAbs(g); m > 1 {
+			fitSteinhartHartScaleBy(d, 1/m)
+		}
+	}
+}
+
+// fitSteinhartHartScaleBy sets x = c·x.
+func fitSteinhartHartScaleBy(x *[3]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // fitSteinhartHartLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -480,6 +480,9 @@ func (r *reachDescent) search(recv *Arm) {
 	var xt, gt [2]float32
 	found := reachLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !reachFinite(now) {
+		now = reachDot(&r.g, &r.d) // the search shortened d (see reachShortenAlong)
+	}
 	switch found.end {
 	case reachSearchOutOfBudget:
 		r.finish(ReachOutOfEvaluations)
@@ -1029,6 +1032,7 @@ func reachTinyStep(x, d *[2]float32, tol float32) float32 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func reachLineSearch(recv *Arm, x *[2]float32, fx float32, g, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *reachDifferences) reachLineResult {
+	slope, tiny = reachShortenAlong(g, d, slope, tiny)
 	low := reachLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high reachLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float32                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1107,6 +1111,53 @@ type reachLineResult struct {
 
 // reachSearchEnd tells how a line search ended.
 type reachSearchEnd uint8
+
+// reachShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (reachShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func reachShortenAlong(g, d *[2]float32, slope, tiny float32) (float32, float32) {
+	if reachFinite(slope) || !reachFiniteVec(d) {
+		return slope, tiny
+	}
+	before := reachMaxAbs(d)
+	reachShrinkDirection(d, g)
+	return reachDot(g, d), tiny * (before / reachMaxAbs(d))
+}
+
+// reachMaxAbs returns the largest |x_i|, the infinity norm.
+func reachMaxAbs(x *[2]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := reachAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// reachShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func reachShrinkDirection(d, g *[2]float32) {
+	if m := reachMaxAbs(d); m > 0 {
+		reachScaleBy(d, 1/m)
+	}
+	if !reachFinite(reachDot(g, d)) {
+		if m := reachMaxAbs(g); m > 1 {
+			reachScaleBy(d, 1/m)
+		}
+	}
+}
+
+// reachScaleBy sets x = c·x.
+func reachScaleBy(x *[2]float32, c float32) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // reachLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

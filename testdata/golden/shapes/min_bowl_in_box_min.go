@@ -480,6 +480,9 @@ func (r *minBowlInBoxDescent) search() {
 	var xt, gt [3]float32
 	found := minBowlInBoxLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minBowlInBoxFinite(now) {
+		now = minBowlInBoxDot(&r.g, &r.d) // the search shortened d (see minBowlInBoxShortenAlong)
+	}
 	switch found.end {
 	case minBowlInBoxSearchOutOfBudget:
 		r.finish(MinBowlInBoxOutOfEvaluations)
@@ -1187,6 +1190,7 @@ func minBowlInBoxTinyStep(x, d *[3]float32, tol float32) float32 {
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minBowlInBoxLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first, tiny float32, budget int, xt, gt *[3]float32, diffs *minBowlInBoxDifferences) minBowlInBoxLineResult {
+	slope, tiny = minBowlInBoxShortenAlong(g, d, slope, tiny)
 	t := first
 	var previous, fPrevious float32
 	var trend minBowlInBoxRiseTrend
@@ -1220,6 +1224,53 @@ type minBowlInBoxLineResult struct {
 
 // minBowlInBoxSearchEnd tells how a line search ended.
 type minBowlInBoxSearchEnd uint8
+
+// minBowlInBoxShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minBowlInBoxShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minBowlInBoxShortenAlong(g, d *[3]float32, slope, tiny float32) (float32, float32) {
+	if minBowlInBoxFinite(slope) || !minBowlInBoxFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minBowlInBoxMaxAbs(d)
+	minBowlInBoxShrinkDirection(d, g)
+	return minBowlInBoxDot(g, d), tiny * (before / minBowlInBoxMaxAbs(d))
+}
+
+// minBowlInBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func minBowlInBoxMaxAbs(x *[3]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := minBowlInBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minBowlInBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minBowlInBoxShrinkDirection(d, g *[3]float32) {
+	if m := minBowlInBoxMaxAbs(d); m > 0 {
+		minBowlInBoxScaleBy(d, 1/m)
+	}
+	if !minBowlInBoxFinite(minBowlInBoxDot(g, d)) {
+		if m := minBowlInBoxMaxAbs(g); m > 1 {
+			minBowlInBoxScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minBowlInBoxScaleBy sets x = c·x.
+func minBowlInBoxScaleBy(x *[3]float32, c float32) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minBowlInBoxRiseTrend watches the failed trials of one line search, shortest last,
 // for the mark of a wrong gradient: f rising in proportion to the step,

@@ -471,6 +471,9 @@ func (r *minBowlDescent) search() {
 	var xt, gt [3]float32
 	found := minBowlLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minBowlFinite(now) {
+		now = minBowlDot(&r.g, &r.d) // the search shortened d (see minBowlShortenAlong)
+	}
 	switch found.end {
 	case minBowlSearchOutOfBudget:
 		r.finish(MinBowlOutOfEvaluations)
@@ -1078,6 +1081,7 @@ func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first, tiny float32, budget int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
+	slope, tiny = minBowlShortenAlong(g, d, slope, tiny)
 	low := minBowlLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1156,6 +1160,53 @@ type minBowlLineResult struct {
 
 // minBowlSearchEnd tells how a line search ended.
 type minBowlSearchEnd uint8
+
+// minBowlShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minBowlShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minBowlShortenAlong(g, d *[3]float32, slope, tiny float32) (float32, float32) {
+	if minBowlFinite(slope) || !minBowlFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minBowlMaxAbs(d)
+	minBowlShrinkDirection(d, g)
+	return minBowlDot(g, d), tiny * (before / minBowlMaxAbs(d))
+}
+
+// minBowlMaxAbs returns the largest |x_i|, the infinity norm.
+func minBowlMaxAbs(x *[3]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := minBowlAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minBowlShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minBowlShrinkDirection(d, g *[3]float32) {
+	if m := minBowlMaxAbs(d); m > 0 {
+		minBowlScaleBy(d, 1/m)
+	}
+	if !minBowlFinite(minBowlDot(g, d)) {
+		if m := minBowlMaxAbs(g); m > 1 {
+			minBowlScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minBowlScaleBy sets x = c·x.
+func minBowlScaleBy(x *[3]float32, c float32) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minBowlLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

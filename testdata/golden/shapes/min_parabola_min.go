@@ -470,6 +470,9 @@ func (r *minParabolaDescent) search() {
 	var xt, gt [1]float64
 	found := minParabolaLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minParabolaFinite(now) {
+		now = minParabolaDot(&r.g, &r.d) // the search shortened d (see minParabolaShortenAlong)
+	}
 	switch found.end {
 	case minParabolaSearchOutOfBudget:
 		r.finish(MinParabolaOutOfEvaluations)
@@ -1112,6 +1115,7 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
+	slope, tiny = minParabolaShortenAlong(g, d, slope, tiny)
 	low := minParabolaLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minParabolaLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1190,6 +1194,53 @@ type minParabolaLineResult struct {
 
 // minParabolaSearchEnd tells how a line search ended.
 type minParabolaSearchEnd uint8
+
+// minParabolaShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minParabolaShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minParabolaShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+	if minParabolaFinite(slope) || !minParabolaFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minParabolaMaxAbs(d)
+	minParabolaShrinkDirection(d, g)
+	return minParabolaDot(g, d), tiny * (before / minParabolaMaxAbs(d))
+}
+
+// minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
+func minParabolaMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minParabolaAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minParabolaShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minParabolaShrinkDirection(d, g *[1]float64) {
+	if m := minParabolaMaxAbs(d); m > 0 {
+		minParabolaScaleBy(d, 1/m)
+	}
+	if !minParabolaFinite(minParabolaDot(g, d)) {
+		if m := minParabolaMaxAbs(g); m > 1 {
+			minParabolaScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minParabolaScaleBy sets x = c·x.
+func minParabolaScaleBy(x *[1]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minParabolaLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -469,6 +469,9 @@ func (r *minPlateDecreaseDescent) search() {
 	var xt, gt [2]float32
 	found := minPlateDecreaseLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minPlateDecreaseFinite(now) {
+		now = minPlateDecreaseDot(&r.g, &r.d) // the search shortened d (see minPlateDecreaseShortenAlong)
+	}
 	switch found.end {
 	case minPlateDecreaseSearchOutOfBudget:
 		r.finish(MinPlateDecreaseOutOfEvaluations)
@@ -1059,6 +1062,7 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
+	slope, tiny = minPlateDecreaseShortenAlong(g, d, slope, tiny)
 	t := first
 	var previous, fPrevious float32
 	var trend minPlateDecreaseRiseTrend
@@ -1092,6 +1096,53 @@ type minPlateDecreaseLineResult struct {
 
 // minPlateDecreaseSearchEnd tells how a line search ended.
 type minPlateDecreaseSearchEnd uint8
+
+// minPlateDecreaseShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minPlateDecreaseShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minPlateDecreaseShortenAlong(g, d *[2]float32, slope, tiny float32) (float32, float32) {
+	if minPlateDecreaseFinite(slope) || !minPlateDecreaseFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minPlateDecreaseMaxAbs(d)
+	minPlateDecreaseShrinkDirection(d, g)
+	return minPlateDecreaseDot(g, d), tiny * (before / minPlateDecreaseMaxAbs(d))
+}
+
+// minPlateDecreaseMaxAbs returns the largest |x_i|, the infinity norm.
+func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := minPlateDecreaseAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minPlateDecreaseShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minPlateDecreaseShrinkDirection(d, g *[2]float32) {
+	if m := minPlateDecreaseMaxAbs(d); m > 0 {
+		minPlateDecreaseScaleBy(d, 1/m)
+	}
+	if !minPlateDecreaseFinite(minPlateDecreaseDot(g, d)) {
+		if m := minPlateDecreaseMaxAbs(g); m > 1 {
+			minPlateDecreaseScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minPlateDecreaseScaleBy sets x = c·x.
+func minPlateDecreaseScaleBy(x *[2]float32, c float32) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minPlateDecreaseRiseTrend watches the failed trials of one line search, shortest last,
 // for the mark of a wrong gradient: f rising in proportion to the step,

@@ -470,6 +470,9 @@ func (r *minValleyCostDescent) search(recv *Valley) {
 	var xt, gt [2]float64
 	found := minValleyCostLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minValleyCostFinite(now) {
+		now = minValleyCostDot(&r.g, &r.d) // the search shortened d (see minValleyCostShortenAlong)
+	}
 	switch found.end {
 	case minValleyCostSearchOutOfBudget:
 		r.finish(MinValleyCostOutOfEvaluations)
@@ -866,6 +869,7 @@ func minValleyCostTinyStep(x, d *[2]float64, tol float64) float64 {
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minValleyCostLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *minValleyCostDifferences) minValleyCostLineResult {
+	slope, tiny = minValleyCostShortenAlong(g, d, slope, tiny)
 	t := first
 	var previous, fPrevious float64
 	var trend minValleyCostRiseTrend
@@ -899,6 +903,53 @@ type minValleyCostLineResult struct {
 
 // minValleyCostSearchEnd tells how a line search ended.
 type minValleyCostSearchEnd uint8
+
+// minValleyCostShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minValleyCostShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minValleyCostShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if minValleyCostFinite(slope) || !minValleyCostFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minValleyCostMaxAbs(d)
+	minValleyCostShrinkDirection(d, g)
+	return minValleyCostDot(g, d), tiny * (before / minValleyCostMaxAbs(d))
+}
+
+// minValleyCostMaxAbs returns the largest |x_i|, the infinity norm.
+func minValleyCostMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minValleyCostAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minValleyCostShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minValleyCostShrinkDirection(d, g *[2]float64) {
+	if m := minValleyCostMaxAbs(d); m > 0 {
+		minValleyCostScaleBy(d, 1/m)
+	}
+	if !minValleyCostFinite(minValleyCostDot(g, d)) {
+		if m := minValleyCostMaxAbs(g); m > 1 {
+			minValleyCostScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minValleyCostScaleBy sets x = c·x.
+func minValleyCostScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minValleyCostRiseTrend watches the failed trials of one line search, shortest last,
 // for the mark of a wrong gradient: f rising in proportion to the step,

@@ -471,6 +471,9 @@ func (r *minValleyDescent) search(recv *Valley) {
 	var xt, gt [2]float64
 	found := minValleyLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minValleyFinite(now) {
+		now = minValleyDot(&r.g, &r.d) // the search shortened d (see minValleyShortenAlong)
+	}
 	switch found.end {
 	case minValleySearchOutOfBudget:
 		r.finish(MinValleyOutOfEvaluations)
@@ -959,6 +962,7 @@ func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
+	slope, tiny = minValleyShortenAlong(g, d, slope, tiny)
 	low := minValleyLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1037,6 +1041,53 @@ type minValleyLineResult struct {
 
 // minValleySearchEnd tells how a line search ended.
 type minValleySearchEnd uint8
+
+// minValleyShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minValleyShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minValleyShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if minValleyFinite(slope) || !minValleyFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minValleyMaxAbs(d)
+	minValleyShrinkDirection(d, g)
+	return minValleyDot(g, d), tiny * (before / minValleyMaxAbs(d))
+}
+
+// minValleyMaxAbs returns the largest |x_i|, the infinity norm.
+func minValleyMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minValleyAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minValleyShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minValleyShrinkDirection(d, g *[2]float64) {
+	if m := minValleyMaxAbs(d); m > 0 {
+		minValleyScaleBy(d, 1/m)
+	}
+	if !minValleyFinite(minValleyDot(g, d)) {
+		if m := minValleyMaxAbs(g); m > 1 {
+			minValleyScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minValleyScaleBy sets x = c·x.
+func minValleyScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minValleyLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

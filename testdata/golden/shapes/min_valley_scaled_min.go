@@ -524,6 +524,9 @@ func (r *minValleyScaledDescent) search(recv *Valley) {
 	var xt, gt [2]float64
 	found := minValleyScaledLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minValleyScaledFinite(now) {
+		now = minValleyScaledDot(&r.g, &r.d) // the search shortened d (see minValleyScaledShortenAlong)
+	}
 	switch found.end {
 	case minValleyScaledSearchOutOfBudget:
 		r.finish(MinValleyScaledOutOfEvaluations)
@@ -1073,6 +1076,7 @@ func minValleyScaledTinyStep(x, d *[2]float64, tol float64) float64 {
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minValleyScaledLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *minValleyScaledDifferences) minValleyScaledLineResult {
+	slope, tiny = minValleyScaledShortenAlong(g, d, slope, tiny)
 	low := minValleyScaledLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyScaledLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1151,6 +1155,53 @@ type minValleyScaledLineResult struct {
 
 // minValleyScaledSearchEnd tells how a line search ended.
 type minValleyScaledSearchEnd uint8
+
+// minValleyScaledShortenAlong is where the searches that test sufficient decrease begin:
+// when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
+// would fail the test against −Inf, so it shortens d in place
+// (minValleyScaledShrinkDirection) and returns the finite slope and the step limit tiny
+// for the shorter d. The fixed step does not call it: its step is t·d by
+// definition.
+func minValleyScaledShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+	if minValleyScaledFinite(slope) || !minValleyScaledFiniteVec(d) {
+		return slope, tiny
+	}
+	before := minValleyScaledMaxAbs(d)
+	minValleyScaledShrinkDirection(d, g)
+	return minValleyScaledDot(g, d), tiny * (before / minValleyScaledMaxAbs(d))
+}
+
+// minValleyScaledMaxAbs returns the largest |x_i|, the infinity norm.
+func minValleyScaledMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minValleyScaledAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// minValleyScaledShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
+// largest component of 1, and when ∇fᵀd still overflows, down by the
+// largest |gᵢ| too, after which |∇fᵀd| ≤ dim.
+func minValleyScaledShrinkDirection(d, g *[2]float64) {
+	if m := minValleyScaledMaxAbs(d); m > 0 {
+		minValleyScaledScaleBy(d, 1/m)
+	}
+	if !minValleyScaledFinite(minValleyScaledDot(g, d)) {
+		if m := minValleyScaledMaxAbs(g); m > 1 {
+			minValleyScaledScaleBy(d, 1/m)
+		}
+	}
+}
+
+// minValleyScaledScaleBy sets x = c·x.
+func minValleyScaledScaleBy(x *[2]float64, c float64) {
+	for i := range x {
+		x[i] *= c
+	}
+}
 
 // minValleyScaledLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
 // and, when known, φ'(step) = ∇f(x+step·d)ᵀd.

@@ -468,6 +468,9 @@ func (r *minPlateDescent) search() {
 	var xt, gt [2]float32
 	found := minPlateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
+	if !minPlateFinite(now) {
+		now = minPlateDot(&r.g, &r.d) // the search shortened d (see shortenAlong)
+	}
 	switch found.end {
 	case minPlateSearchOutOfBudget:
 		r.finish(MinPlateOutOfEvaluations)
