@@ -36,7 +36,7 @@ func TestHostileObjectives(t *testing.T) {
 		t.Fatal(err)
 	}
 	env := append(os.Environ(), "GOWORK=off", "GOFLAGS=-mod=mod")
-	for _, args := range [][]string{{"vet", "."}, {"test", "-count=1", "-run", "^TestHostile$", "."}} {
+	for _, args := range [][]string{{"vet", "."}, {"test", "-count=1", "-run", "^TestHostile$", "."}, {"test", "-race", "-count=1", "-run", "^TestConcurrent$", "."}} {
 		cmd := exec.Command("go", args...)
 		cmd.Dir, cmd.Env = dir, env
 		if out, err := cmd.CombinedOutput(); err != nil {
@@ -191,6 +191,7 @@ const hostileTest = `package hostile
 
 import (
 	"math"
+	"sync"
 	"testing"
 )
 
@@ -278,5 +279,28 @@ func TestHostile(t *testing.T) {
 		MinPanics([2]float64{1, 1})
 		t.Errorf("Panics: the run returned")
 	}()
+}
+
+// TestConcurrent runs minimizers from many goroutines at once (under
+// -race): each run's state lives in its own call, so every result equals
+// the sequential one.
+func TestConcurrent(t *testing.T) {
+	want1, want2 := MinStiff([2]float64{3, 3}), MinNaNNear([2]float64{0, 0})
+	var wg sync.WaitGroup
+	for range 16 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for range 20 {
+				if got := MinStiff([2]float64{3, 3}); got != want1 {
+					t.Errorf("MinStiff concurrently: %+v, alone %+v", got, want1)
+				}
+				if got := MinNaNNear([2]float64{0, 0}); got != want2 {
+					t.Errorf("MinNaNNear concurrently: %+v, alone %+v", got, want2)
+				}
+			}
+		}()
+	}
+	wg.Wait()
 }
 `
