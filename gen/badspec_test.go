@@ -441,3 +441,22 @@ func TestSpecMissingFile(t *testing.T) {
 		t.Errorf("ParseSpec created %s", path)
 	}
 }
+
+// A spec over the size limit is refused at its top before it is decoded
+// (the decoder's duplicate-key check is quadratic: 100 000 keys took
+// two minutes), and a name too long to name a file is refused at the
+// name, not by the file system.
+func TestOversizedSpecs(t *testing.T) {
+	huge := "[[minimizer]]\nname = \"MinX\"\nobjective = \"Bowl\"\n" + strings.Repeat("k = 1 # padding\n", maxSpecBytes/16) + "start = 1.0\n"
+	if _, err := parseSpecData("huge.toml", []byte(huge)); err == nil || err.Error() != fmt.Sprintf("huge.toml:1:1: the spec is %d bytes; thalweg reads specs of at most 262144 bytes (256 KiB)", len(huge)) {
+		t.Errorf("huge spec: %v", err)
+	}
+	long := "[[minimizer]]\nname = \"" + strings.Repeat("A", 101) + "\"\nobjective = \"Bowl\"\nstart = 1.0\n"
+	if _, err := parseSpecData("long.toml", []byte(long)); err == nil || !strings.Contains(err.Error(), "long.toml:2:8: name is 101 bytes long; at most 100") {
+		t.Errorf("long name: %v", err)
+	}
+	longOut := "[[minimizer]]\nname = \"MinX\"\nobjective = \"Bowl\"\noutput = \"" + strings.Repeat("a", 200) + ".go\"\nstart = 1.0\n"
+	if _, err := parseSpecData("out.toml", []byte(longOut)); err == nil || !strings.Contains(err.Error(), "out.toml:4:10: output is 203 bytes long; at most 108") {
+		t.Errorf("long output: %v", err)
+	}
+}

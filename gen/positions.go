@@ -1,6 +1,7 @@
 package gen
 
 import (
+	"sort"
 	"strconv"
 	"strings"
 
@@ -26,9 +27,20 @@ func indexPositions(file string, data []byte) *positions {
 	p.Reset(data)
 	arrayCounts := map[string]int{} // array-table path → elements seen
 	var table []string
+	// Line and column from the node's byte offset, as the parser's Shape
+	// counts them (columns in bytes), by binary search over the line
+	// starts: Shape scans the document from the top at every call, which
+	// made a spec of many keys quadratic (100 000 keys took two minutes).
+	lineStarts := []int{0}
+	for i, b := range data {
+		if b == '\n' {
+			lineStarts = append(lineStarts, i+1)
+		}
+	}
 	pos := func(n *unstable.Node) Pos {
-		s := p.Shape(n.Raw)
-		return Pos{File: file, Line: s.Start.Line, Col: s.Start.Column}
+		offset := int(n.Raw.Offset)
+		line := sort.Search(len(lineStarts), func(i int) bool { return lineStarts[i] > offset })
+		return Pos{File: file, Line: line, Col: offset - lineStarts[line-1] + 1}
 	}
 	// resolve inserts the current element index after every array-table
 	// prefix of a header path: minimizer.step → minimizer.0.step.

@@ -99,7 +99,21 @@ func ParseSpec(path string) (*Spec, error) {
 	return parseSpecData(path, data)
 }
 
+// Sizes past which a spec is refused: the whole file, and a minimizer's
+// name (which also names its files, whose names most file systems limit
+// to 255 bytes).
+const (
+	maxSpecBytes = 256 << 10
+	maxNameBytes = 100
+)
+
 func parseSpecData(path string, data []byte) (*Spec, error) {
+	if len(data) > maxSpecBytes {
+		// The TOML decoder's duplicate-key check is quadratic in the
+		// number of keys; a spec is a few kilobytes (checks/mgh's 120
+		// minimizers take 22 KiB).
+		return nil, Problems{{Pos{path, 1, 1}, fmt.Sprintf("the spec is %d bytes; thalweg reads specs of at most %d bytes (%d KiB)", len(data), maxSpecBytes, maxSpecBytes>>10)}}.Err()
+	}
 	var doc map[string]any
 	if err := toml.Unmarshal(data, &doc); err != nil {
 		var decode *toml.DecodeError
@@ -310,6 +324,9 @@ func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 		r.add(at("name"), "name must not be empty: it is the exported Go name of the minimizer")
 	case !named && table["name"] == nil:
 		r.add(r.ix.key(key), "name is required: the exported Go name of the minimizer")
+	case named && len(name) > maxNameBytes:
+		r.add(at("name"), "name is %d bytes long; at most %d, since it also names the output file and every generated declaration", len(name), maxNameBytes)
+		m.Name = ""
 	case named && (!token.IsIdentifier(name) || !token.IsExported(name)):
 		r.add(at("name"), "name %q is not an exported Go identifier", name)
 		m.Name = ""
@@ -410,6 +427,8 @@ func (r *specReader) output(m *Minimizer, table map[string]any, key string) {
 	m.Output = out
 	at := r.ix.value(key + ".output")
 	switch {
+	case len(out) > maxNameBytes+len("_test.go"):
+		r.add(at, "output is %d bytes long; at most %d", len(out), maxNameBytes+len("_test.go"))
 	case out != filepath.Base(out) || strings.ContainsAny(out, `/\`):
 		r.add(at, "output %q must be a file name in the objective's package directory, without folders", out)
 	case !strings.HasSuffix(out, ".go") || strings.HasSuffix(out, "_test.go"):
