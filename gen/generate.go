@@ -238,6 +238,8 @@ func CheckTargets(outs []Output) error {
 	for _, o := range outs {
 		data, err := os.ReadFile(o.Path)
 		switch {
+		case isSymlink(o.Path):
+			probs.add(Pos{displayPath(o.Path), 1, 1}, "refusing to write through a symbolic link: the output would land wherever it points, possibly outside the package")
 		case os.IsNotExist(err):
 		case isDirectory(o.Path):
 			probs.add(Pos{displayPath(o.Path), 1, 1}, "refusing to write: the output path is a directory")
@@ -250,6 +252,12 @@ func CheckTargets(outs []Output) error {
 		}
 	}
 	return probs.Err()
+}
+
+// isSymlink reports whether path is a symbolic link, dangling or not.
+func isSymlink(path string) bool {
+	info, err := os.Lstat(path)
+	return err == nil && info.Mode()&os.ModeSymlink != 0
 }
 
 // isDirectory reports whether path names a directory.

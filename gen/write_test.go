@@ -202,3 +202,23 @@ func TestWriteChangedConcurrent(t *testing.T) {
 		}
 	}
 }
+
+// An output path that is a symbolic link, even to a file thalweg
+// generated from the same spec, is refused: writing through it could
+// land outside the package.
+func TestWriteChangedThroughSymlink(t *testing.T) {
+	dir, outs, _ := writeFixture(t)
+	outside := filepath.Join(t.TempDir(), "elsewhere_min.go")
+	writeTestFile(t, outside, headerLine("s.toml")+"\n\npackage p\n")
+	if err := os.Symlink(outside, outs[2].Path); err != nil {
+		t.Fatal(err)
+	}
+	before, beforeOutside := listing2(t, dir), listing2(t, filepath.Dir(outside))
+	_, err := WriteChanged(outs)
+	if err == nil || err.Error() != displayPath(outs[2].Path)+":1:1: refusing to write through a symbolic link: the output would land wherever it points, possibly outside the package" {
+		t.Fatalf("error %v", err)
+	}
+	if listing2(t, dir) != before || listing2(t, filepath.Dir(outside)) != beforeOutside {
+		t.Errorf("files changed")
+	}
+}
