@@ -362,6 +362,18 @@ func TestBadSpecSnippets(t *testing.T) {
 			"2:8: name must not be empty: it is the exported Go name of the minimizer",
 			`3:13: objective must not be empty: "Func" or "Type.Method" in the package`,
 		}},
+		{"keyword name", "[[minimizer]]\nname = \"func\"\nobjective = \"Loss\"\nstart = 1.0\n", []string{
+			`2:8: name "func" is not an exported Go identifier`,
+		}},
+		{"output out of the package", head + "output = \"../up_min.go\"\n", []string{
+			`5:10: output "../up_min.go" must be a file name in the objective's package directory, without folders`,
+		}},
+		{"absolute output", head + "output = \"/tmp/abs_min.go\"\n", []string{
+			`5:10: output "/tmp/abs_min.go" must be a file name in the objective's package directory, without folders`,
+		}},
+		{"non-UTF-8", "[[minimizer]]\nname = \"F\xff\"\n", []string{
+			"2:10: invalid UTF-8 character in basic string",
+		}},
 		{"duplicate key", "[[minimizer]]\nname = \"Fit\"\nname = \"Fit2\"\n", []string{
 			"3:1: key name is already defined",
 		}},
