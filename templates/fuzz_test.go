@@ -17,7 +17,7 @@ import (
 // are not fuzzed here: the kernels' box is a constant of the generated
 // code. Findings go to testdata/fuzz/FuzzMinimize.
 func FuzzMinimize(f *testing.F) {
-	f.Add(uint8(0), 2.0, 0.5, 1.0, -1.0, 0.5, 0.0, 0.0, 3.0, -2.0)      // convex quadratic
+	f.Add(uint8(0), 2.0, 0.5, 1.0, -1.0, 0.5, 0.0, 0.0, 3.0, -2.0)     // convex quadratic
 	f.Add(uint8(7), 1.0, 3.0, 1.0, 0.0, 0.0, 0.0, 0.0, 1.0, 1.0)       // saddle: unbounded below
 	f.Add(uint8(13), -1.0, 0.0, 2.0, 1.0, 1.0, 0.1, 0.1, -0.5, 0.25)   // quartic walls around a concave part
 	f.Add(uint8(29), 1e-6, 0.0, 1e3, 0.0, 0.0, 0.0, 1.0, 100.0, 100.0) // badly scaled, quartic in x₂
