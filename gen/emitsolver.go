@@ -106,10 +106,18 @@ func memoryOf(p *Plan) string {
 
 // calibrates says what a new run's start adds for differences.
 func calibrates(p *Plan) string {
-	if p.SettleCalls() == 0 {
+	if !usesIntervals(p) {
 		return ""
 	}
 	return " and chooses the difference intervals again"
+}
+
+// usesIntervals reports whether the minimizer differences the objective
+// with intervals it calibrates. SettleCalls is no test of that: a
+// combined objective settles a stall with curvature probes but has no
+// intervals.
+func usesIntervals(p *Plan) bool {
+	return p.Derivative.CalibrationCalls(p.Dim) > 0 && !p.Shape.Combined
 }
 
 // solverDoc is the doc comment of the solver type: the budget rule, what
@@ -122,7 +130,7 @@ func solverDoc(p *Plan) []string {
 		"",
 		fmt.Sprintf("Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: %s. A budget of at least %sTickMinimum = %d progresses at every Advance; a smaller one may make no call. Advancing until the status is not %sRunning ends exactly as %sWithLimits does with the same limits, with the same calls, whatever the budgets.", stageCosts(p), name, p.TickMinimum(), name, name),
 		"",
-		fmt.Sprintf("Advancing assumes the objective stays the same function throughout a run: f(x), the gradient%s kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.", map[bool]string{true: " and the difference intervals", false: ""}[p.SettleCalls() > 0]),
+		fmt.Sprintf("Advancing assumes the objective stays the same function throughout a run: %s kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.", map[bool]string{true: "f(x), the gradient and the difference intervals", false: "f(x) and the gradient"}[usesIntervals(p)]),
 		"",
 		stackDoc(p),
 		"",
