@@ -2,7 +2,6 @@ package gen
 
 import (
 	"fmt"
-	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
@@ -39,15 +38,7 @@ func TestEveryCombination(t *testing.T) {
 	if count != 1216 {
 		t.Fatalf("%d combinations, want 1216", count)
 	}
-	for rel, text := range files {
-		path := filepath.Join(root, filepath.FromSlash(rel))
-		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	writeTree(t, root, files)
 	outs, err := Generate(specs)
 	if err != nil {
 		t.Fatal(err)

@@ -39,15 +39,7 @@ func TestEndToEnd(t *testing.T) {
 		t.Skip("end-to-end test of generated code (go vet, go test, -gcflags=-m, cross builds); skipped with -short")
 	}
 	root := t.TempDir()
-	for rel, src := range e2eModule() {
-		path := filepath.Join(root, filepath.FromSlash(rel))
-		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	writeTree(t, root, e2eModule())
 	var specs []string
 	for _, rel := range e2eSpecs {
 		specs = append(specs, filepath.Join(root, filepath.FromSlash(rel)))
@@ -126,6 +118,21 @@ func TestEndToEnd(t *testing.T) {
 		// is 32 bits wide.
 		e2eGo(t, root, []string{"GOOS=linux", "GOARCH=arm", "GOARM=7"}, "vet", "./...")
 	})
+}
+
+// writeTree writes files, by slash-separated path below root, making the
+// folders they need.
+func writeTree(t *testing.T, root string, files map[string]string) {
+	t.Helper()
+	for rel, text := range files {
+		path := filepath.Join(root, filepath.FromSlash(rel))
+		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
 }
 
 // e2eGo runs the go command in the module and fails with its combined

@@ -176,7 +176,7 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 	names := map[string]*Plan{} // package dir + name → plan
 	clashed := map[[2]*Plan]bool{}
 	userNames := map[*loadedPackage]map[string]token.Pos{}
-	otherNames := map[*loadedPackage]map[string]token.Pos{}
+	otherNames := map[*loadedPackage]map[string]otherDeclaration{}
 	specs := map[string]bool{} // the specs of this run, by absolute path
 	for _, p := range plans {
 		abs, _ := filepath.Abs(p.Spec.Path)
@@ -191,6 +191,7 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 			owner[abs] = p
 		}
 		declared := slices.Sorted(slices.Values(declaredBy[i]))
+		takenReported := false
 		if userNames[p.pkg] == nil {
 			userNames[p.pkg] = p.pkg.names(false)
 			otherNames[p.pkg] = p.pkg.otherSpecsNames(specs)
@@ -212,14 +213,9 @@ func checkCollisions(plans []*Plan, declaredBy [][]string, probs *Problems) {
 			if pos, ok := userNames[p.pkg][n]; ok {
 				probs.add(p.pkg.position(pos), "%s is already declared in package %s; minimizer %s generates a declaration of that name (rename one of them)", n, p.Shape.Package, p.M.Name)
 			}
-			if pos, ok := otherNames[p.pkg][n]; ok && !clashed[[2]*Plan{p, nil}] {
-				clashed[[2]*Plan{p, nil}] = true
-				at := p.pkg.position(pos)
-				from := "another spec"
-				if data, err := os.ReadFile(at.File); err == nil {
-					from = headerSpec(data)
-				}
-				probs.add(at, "%s (and more) is already declared here, in a file thalweg generated from %s; minimizer %s of %s generates a declaration of that name: rename one of the minimizers, or delete this file if its spec no longer asks for it", n, from, p.M.Name, displayPath(p.Spec.Path))
+			if other, ok := otherNames[p.pkg][n]; ok && !takenReported {
+				takenReported = true // once per minimizer: the other names follow from the first
+				probs.add(p.pkg.position(other.pos), "%s (and more) is already declared here, in a file thalweg generated from %s; minimizer %s of %s generates a declaration of that name: rename one of the minimizers, or delete this file if its spec no longer asks for it", n, other.spec, p.M.Name, displayPath(p.Spec.Path))
 			}
 		}
 	}

@@ -1,8 +1,6 @@
 package gen
 
 import (
-	"os"
-	"os/exec"
 	"path/filepath"
 	"testing"
 )
@@ -17,17 +15,12 @@ func TestHostileObjectives(t *testing.T) {
 		t.Skip("generates and runs a module; skipped with -short")
 	}
 	dir := t.TempDir()
-	files := map[string]string{
+	writeTree(t, dir, map[string]string{
 		"go.mod":          "module hostile\n\ngo 1.24\n",
 		"hostile.go":      hostileGo,
 		"hostile.toml":    hostileSpec,
 		"outcome_test.go": hostileTest,
-	}
-	for name, text := range files {
-		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	})
 	outs, err := Generate([]string{filepath.Join(dir, "hostile.toml")})
 	if err != nil {
 		t.Fatal(err)
@@ -35,14 +28,9 @@ func TestHostileObjectives(t *testing.T) {
 	if err := Write(outs); err != nil {
 		t.Fatal(err)
 	}
-	env := append(os.Environ(), "GOWORK=off", "GOFLAGS=-mod=mod")
-	for _, args := range [][]string{{"vet", "."}, {"test", "-count=1", "-run", "^TestHostile$", "."}, {"test", "-race", "-count=1", "-run", "^TestConcurrent$", "."}} {
-		cmd := exec.Command("go", args...)
-		cmd.Dir, cmd.Env = dir, env
-		if out, err := cmd.CombinedOutput(); err != nil {
-			t.Errorf("go %v: %v\n%s", args, err, out)
-		}
-	}
+	e2eGo(t, dir, nil, "vet", ".")
+	e2eGo(t, dir, nil, "test", "-count=1", "-run", "^TestHostile$", ".")
+	e2eGo(t, dir, nil, "test", "-race", "-count=1", "-run", "^TestConcurrent$", ".")
 }
 
 const hostileGo = `// Package hostile holds objectives that try to break a minimizer.

@@ -67,7 +67,7 @@ func (s Shape) Scalar() bool { return s.Arg == ArgScalar }
 type loadedPackage struct {
 	dir   string
 	pkg   *packages.Package
-	files map[string]bool // files thalweg generated, by absolute path
+	files map[string]string // files thalweg generated, by absolute path, to the spec their header names
 }
 
 // loadPackage type-checks the package in dir. Type errors in files thalweg
@@ -94,15 +94,15 @@ func loadPackage(dir string, probs *Problems, generates ...string) *loadedPackag
 		probs.add(Pos{dir, 1, 1}, "no Go package in %s", dir)
 		return nil
 	}
-	lp := &loadedPackage{dir: abs, pkg: pkgs[0], files: map[string]bool{}}
+	lp := &loadedPackage{dir: abs, pkg: pkgs[0], files: map[string]string{}}
 	for _, f := range lp.pkg.GoFiles {
-		if isGenerated(f) {
-			lp.files[f] = true
+		if spec, ok := fileHeaderSpec(f); ok {
+			lp.files[f] = spec
 		}
 	}
 	for _, e := range lp.pkg.Errors {
 		for _, problem := range splitPackageError(e, dir) {
-			if abs, _ := filepath.Abs(problem.Pos.File); lp.files[abs] {
+			if abs, _ := filepath.Abs(problem.Pos.File); lp.generated(abs) {
 				continue // about to be replaced
 			}
 			if lp.aboutGeneratedFile(problem.Msg) {
@@ -149,7 +149,7 @@ func (lp *loadedPackage) aboutGeneratedFile(msg string) bool {
 func (lp *loadedPackage) names(generated bool) map[string]token.Pos {
 	names := map[string]token.Pos{}
 	for _, f := range lp.pkg.Syntax {
-		if lp.files[lp.pkg.Fset.Position(f.Pos()).Filename] != generated {
+		if lp.generated(lp.pkg.Fset.Position(f.Pos()).Filename) != generated {
 			continue
 		}
 		for name, pos := range fileDeclarations(f) {
@@ -186,28 +186,36 @@ func fileDeclarations(f *ast.File) map[string]token.Pos {
 
 // otherSpecsNames maps each package-level name declared in a file thalweg
 // generated from a spec outside specs (absolute spec paths) to its
-// declaration: that file stays when this run writes its own, so a name
-// it declares is taken, as one of the user's would be.
-func (lp *loadedPackage) otherSpecsNames(specs map[string]bool) map[string]token.Pos {
-	names := map[string]token.Pos{}
+// declaration and that spec's name: that file stays when this run writes
+// its own, so a name it declares is taken, as one of the user's would be.
+func (lp *loadedPackage) otherSpecsNames(specs map[string]bool) map[string]otherDeclaration {
+	names := map[string]otherDeclaration{}
 	for _, f := range lp.pkg.Syntax {
 		file := lp.pkg.Fset.Position(f.Pos()).Filename
-		if !lp.files[file] {
+		spec, generated := lp.files[file]
+		if !generated {
 			continue
 		}
-		data, err := os.ReadFile(file)
-		if err != nil {
-			continue
-		}
-		spec, _ := filepath.Abs(filepath.Join(filepath.Dir(file), filepath.FromSlash(headerSpec(data))))
-		if specs[spec] {
+		if abs, _ := filepath.Abs(filepath.Join(filepath.Dir(file), filepath.FromSlash(spec))); specs[abs] {
 			continue // this run replaces it, or reports it as an orphan
 		}
 		for name, pos := range fileDeclarations(f) {
-			names[name] = pos
+			names[name] = otherDeclaration{pos, spec}
 		}
 	}
 	return names
+}
+
+// otherDeclaration is a name another spec's generated file declares.
+type otherDeclaration struct {
+	pos  token.Pos
+	spec string // as the file's header names it
+}
+
+// generated reports whether thalweg generated the file at the absolute path.
+func (lp *loadedPackage) generated(path string) bool {
+	_, ok := lp.files[path]
+	return ok
 }
 
 // splitPackageError turns one go/packages error into positioned problems.
@@ -248,12 +256,6 @@ func parseErrorPos(s, dir string) Pos {
 		return p
 	}
 	return Pos{File: dir, Line: 1, Col: 1}
-}
-
-// isGenerated reports whether a file starts with thalweg's header.
-func isGenerated(path string) bool {
-	data, err := os.ReadFile(path)
-	return err == nil && hasHeader(data)
 }
 
 // displayPath shortens an absolute path to one relative to the working
@@ -539,7 +541,7 @@ func (lp *loadedPackage) declared(kind func(types.Object) bool) []string {
 	var names []string
 	for _, name := range scope.Names() {
 		obj := scope.Lookup(name)
-		if kind(obj) && !lp.files[lp.pkg.Fset.Position(obj.Pos()).Filename] {
+		if kind(obj) && !lp.generated(lp.pkg.Fset.Position(obj.Pos()).Filename) {
 			names = append(names, name)
 		}
 	}

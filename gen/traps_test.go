@@ -185,11 +185,7 @@ direction = "cg"
 start = [-1.2, 1.0]
 `,
 	}
-	for name, text := range files {
-		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	writeTree(t, dir, files)
 	plans, err := Plans([]string{filepath.Join(dir, "traps.toml")})
 	if err != nil {
 		t.Fatal(err)
