@@ -25,7 +25,7 @@ type TraceRow struct {
 	Trials        int     // trial points this step's line search evaluated (0 at the start)
 	GradientCalls int     // objective calls for finite differences in this step (at the start, the first gradient's)
 	F             float64 // f(x)
-	Gradient      float64 // the gradient test's measure without error bounds (relative or largest |∂f/∂xᵢ|), with bounds of the projected gradient (components pushing against a bound they sit on count as 0)
+	Gradient      float64 // the gradient test's measure as the kernel's stationarity computes it (relative or largest |∂f/∂xᵢ|, projected with bounds), error bounds of differences left out
 	Step          float64 // the accepted step t along d (0 at the start)
 	Slope         float64 // ∇fᵀd where this step's search began (0 at the start)
 	X             []float64
@@ -183,35 +183,22 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 			jen.If(jen.Id("thalwegTraceRows").Op("==").Lit(0).Op("||").Float64().Call(jen.Id("v")).Op(">").Id("thalwegTraceHigh").Index(jen.Id("i"))).Block(jen.Id("thalwegTraceHigh").Index(jen.Id("i")).Op("=").Float64().Call(jen.Id("v"))),
 		)
 	}
-	// With bounds, the projected gradient: a component pushing against a
-	// bound it sits on counts as 0.
-	gradientIndex, projected := jen.Id("_"), []jen.Code(nil)
-	size := jen.Qual("math", "Abs").Call(float(jen.Id("v")))
-	if p.M.Test == rules.Relative {
-		// The relative gradient, as the kernel's stop test measures it
-		// (in the scaled unknowns with a scale).
-		gradientIndex = jen.Id("i")
-		size = size.Op("*").Qual("math", "Max").Call(jen.Qual("math", "Abs").Call(float(jen.Id(point).Index(jen.Id("i")))), jen.Lit(1.0)).Op("/").Qual("math", "Max").Call(jen.Qual("math", "Abs").Call(float(jen.Id("fx"))), jen.Lit(1.0))
-	}
-	if p.Bounded {
-		gradientIndex = jen.Id("i")
-		projected = []jen.Code{
-			jen.Id("b").Op(":=").Add(boxValue(p)),
-			jen.If(jen.Parens(jen.Id("x").Index(jen.Id("i")).Op("<=").Id("b").Dot("lower").Index(jen.Id("i")).Op("&&").Id("v").Op(">").Lit(0)).Op("||").Parens(jen.Id("x").Index(jen.Id("i")).Op(">=").Id("b").Dot("upper").Index(jen.Id("i")).Op("&&").Id("v").Op("<").Lit(0))).Block(jen.Continue()),
-		}
+	// The gradient test's measure as the kernel computes it (its own
+	// stationarity: relative or absolute, projected with bounds, in the
+	// scaled unknowns with a scale), without the differences' error bound.
+	measure := []jen.Code{
+		jen.Var().Id("noError").Index(jen.Lit(s.Dim)).Id(s.Elem),
+		jen.Id("b").Op(":=").Add(kernelBoxValue(p)),
+		jen.List(jen.Id("measure"), jen.Id("_")).Op(":=").Id(p.Prefix+"Stationarity").Call(jen.Id("g"), jen.Op("&").Id("noError"), jen.Id(point), jen.Id("fx"), jen.Op("&").Id("b")),
 	}
 	f.Func().Id(traceHook).Params(
 		jen.List(jen.Id("iteration"), jen.Id("evaluations")).Int(),
 		jen.Id(point).Add(vec.Clone()), jen.Id("fx").Id(s.Elem), jen.Id("g").Add(vec.Clone()),
 		jen.List(jen.Id("step"), jen.Id("slope")).Id(s.Elem),
-	).Block(append(unscale,
-		jen.Id("largest").Op(":=").Lit(0.0),
-		jen.For(jen.List(gradientIndex, jen.Id("v")).Op(":=").Range().Id("g")).Block(append(projected,
-			jen.If(jen.Id("a").Op(":=").Add(size), jen.Id("a").Op(">").Id("largest").Op("||").Id("a").Op("!=").Id("a")).Block(jen.Id("largest").Op("=").Id("a")),
-		)...),
+	).Block(append(append(unscale, measure...),
 		jen.Id("row").Op(":=").Index().Byte().Call(jen.Qual("fmt", "Sprintf").Call(jen.Lit("thalweg-trace\t%d\t%d\t%d"), jen.Id("iteration"), jen.Id("evaluations"), jen.Id("thalwegTraceTrials"))),
 		appendFloat("row", float(jen.Id("fx"))),
-		appendFloat("row", jen.Id("largest")),
+		appendFloat("row", float(jen.Id("measure"))),
 		appendFloat("row", float(jen.Id("step"))),
 		appendFloat("row", float(jen.Id("slope"))),
 		jen.For(jen.List(index, jen.Id("v")).Op(":=").Range().Id("x")).Block(xLoop...),
