@@ -37,10 +37,9 @@ func WriteChanged(outs []Output) (written []string, err error) {
 		return nil, err
 	}
 	type pending struct {
-		out     Output
-		tmp     string
-		former  []byte // the file's bytes before, nil when it did not exist
-		existed bool
+		out    Output
+		tmp    string
+		former []byte // the file's bytes before, nil when it did not exist (CheckTargets refused an unreadable one)
 	}
 	var todo []*pending
 	for _, o := range outs {
@@ -48,7 +47,7 @@ func WriteChanged(outs []Output) (written []string, err error) {
 		if err == nil && bytes.Equal(data, o.Data) {
 			continue
 		}
-		todo = append(todo, &pending{out: o, former: data, existed: err == nil})
+		todo = append(todo, &pending{out: o, former: data})
 	}
 	removeTemporaries := func() {
 		for _, w := range todo {
@@ -70,7 +69,7 @@ func WriteChanged(outs []Output) (written []string, err error) {
 			removeTemporaries()
 			var unrestored []string
 			for _, done := range todo[:i] {
-				if err := restore(done.out.Path, done.former, done.existed); err != nil {
+				if err := restore(done.out.Path, done.former); err != nil {
 					unrestored = append(unrestored, fmt.Sprintf("%s (%v)", displayPath(done.out.Path), err))
 				}
 			}
@@ -117,9 +116,9 @@ func writeAndClose(f *os.File, data []byte) error {
 }
 
 // restore puts a replaced file's former bytes back, or removes a file
-// that did not exist before.
-func restore(path string, former []byte, existed bool) error {
-	if !existed {
+// that did not exist before (former nil).
+func restore(path string, former []byte) error {
+	if former == nil {
 		return plainError(os.Remove(path))
 	}
 	tmp, err := writeTemporary(path, former)
