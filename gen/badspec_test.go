@@ -66,7 +66,7 @@ var badSpecs = []struct {
 	// depend on it.
 	{"cascade_unknown_enum.toml", []string{
 		`4:14: derivative "exact" is not one of "analytic", "central", "forward"`,
-		`6:13: direction "l-bfgs" is not one of "bfgs", "cg", "lbfgs", "steepest"; did you mean "lbfgs"?`,
+		`6:13: direction "l-bfgs" is not one of "bfgs", "cg", "gauss-newton", "lbfgs", "levenberg-marquardt", "steepest"; did you mean "lbfgs"?`,
 	}},
 	// An unknown key inside an inline table keeps the table's name.
 	{"unknown_key_inline.toml", []string{
@@ -129,10 +129,10 @@ var badSpecs = []struct {
 		`4:14: derivative "backward" is not one of "analytic", "central", "forward"`,
 	}},
 	{"unknown_direction.toml", []string{
-		`4:13: direction "newton" is not one of "bfgs", "cg", "lbfgs", "steepest"`,
+		`4:13: direction "newton" is not one of "bfgs", "cg", "gauss-newton", "lbfgs", "levenberg-marquardt", "steepest"`,
 	}},
 	{"unknown_rule.toml", []string{
-		`7:8: step.rule "goldstein" is not one of "armijo", "decrease", "fixed", "strong-wolfe", "wolfe"`,
+		`7:8: step.rule "goldstein" is not one of "armijo", "damping", "decrease", "fixed", "strong-wolfe", "wolfe"`,
 	}},
 
 	// Keys that depend on other keys.

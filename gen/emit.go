@@ -590,7 +590,7 @@ func entryDoc(p *Plan) []string {
 	worst, byIter := p.WorstCase()
 	perGradient := ""
 	if cost := p.GradientCalls(); cost > 0 {
-		perGradient = fmt.Sprintf(", %d of them per gradient and %d per choice of the difference intervals (at the start and before each convergence is confirmed)", cost, p.Derivative.CalibrationCalls(p.Dim))
+		perGradient = fmt.Sprintf(", %d of them per gradient and %d per choice of the difference intervals (at the start and before each convergence is confirmed)", cost, p.CalibrationCalls())
 	}
 	if p.Shape.Combined {
 		perGradient = fmt.Sprintf(", each giving the value and the gradient, %d of them for the curvature probes of a stall", p.Dim)

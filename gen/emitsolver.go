@@ -117,7 +117,7 @@ func calibrates(p *Plan) string {
 // combined objective settles a stall with curvature probes but has no
 // intervals.
 func usesIntervals(p *Plan) bool {
-	return p.Derivative.CalibrationCalls(p.Dim) > 0 && !p.Shape.Combined
+	return p.CalibrationCalls() > 0 && !p.Shape.Combined
 }
 
 // solverDoc is the doc comment of the solver type: the budget rule, what

@@ -50,6 +50,14 @@ type Shape struct {
 	// func(x T, g *T) T, func(x [N]T, g *[N]T) T, func(x *[N]T, g *[N]T) T
 	// or func(x, g []T) T. It then has no separate gradient.
 	Combined bool
+	// Residuals is M for a residual objective, which writes r(x) ∈ ℝᴹ
+	// through its second parameter (f = ½‖r‖²), and 0 otherwise;
+	// ResidualSlice says r is a slice, and Jacobian names the analytic
+	// Jacobian, JacobianColumns that it writes J transposed.
+	Residuals       int
+	ResidualSlice   bool
+	Jacobian        string
+	JacobianColumns bool
 	Instance instance
 }
 

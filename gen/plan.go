@@ -42,6 +42,7 @@ func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 	p.SpecName = filepath.ToSlash(rel)
 	p.Context = resolveContext(m, shape.Elem, shape.Dim)
 	p.Context.Combined = shape.Combined
+	p.Context.Residuals = shape.Residuals
 	// Fix every value now: a plan is read from several goroutines (tune,
 	// concurrent generation), and a first read would write the memo.
 	for _, q := range rules.Params() {
@@ -84,7 +85,7 @@ func (p *Plan) Switch(q *rules.Param) bool { return p.Value(q) != 0 }
 // one call per unknown for the curvature probes (settleCombined).
 func (p *Plan) WorstCase() (calls int, byIterations int) {
 	perIteration := p.Rule.IterationCalls(int(p.Value(rules.Trials)), p.GradientCalls())
-	calibration := p.Derivative.CalibrationCalls(p.Dim)
+	calibration := p.CalibrationCalls()
 	if calibration > 0 {
 		perIteration += calibration + 2*p.GradientCalls()
 	}
@@ -139,6 +140,23 @@ func (p *Plan) kernelChoice() kernelChoice {
 		combined = rules.Combined.On
 	}
 	for dispatcher, alternative := range combined {
+		pick[dispatcher] = alternative
+	}
+	// A residual objective's gradient is Jᵀr: its picks override the
+	// derivative entry's, and the entry's residual picks choose J.
+	residual := rules.Residuals.Off
+	if p.Shape.Residuals > 0 {
+		residual = rules.Residuals.On
+		for dispatcher, alternative := range p.Derivative.ResidualPicks {
+			pick[dispatcher] = alternative
+		}
+		if p.Shape.JacobianColumns && p.Derivative == rules.Analytic {
+			for dispatcher, alternative := range rules.JacobianColumns {
+				pick[dispatcher] = alternative
+			}
+		}
+	}
+	for dispatcher, alternative := range residual {
 		pick[dispatcher] = alternative
 	}
 	provided := map[string]string{

@@ -53,6 +53,9 @@ func TestRegistryMatchesTemplates(t *testing.T) {
 	addPicks := func(owner string, picks rules.Picks) {
 		for d, alt := range picks {
 			alts, ok := dispatchers[d]
+			if !ok && emptiedType(scope, d, alt) {
+				continue // a type whose state the spec does without (residualModel)
+			}
 			if !ok {
 				t.Errorf("%s picks %s for %s, which is no dispatcher of the templates", owner, alt, d)
 				continue
@@ -80,6 +83,12 @@ func TestRegistryMatchesTemplates(t *testing.T) {
 	addPicks("bounds on", rules.Bounds.On)
 	addPicks("combined objective off", rules.Combined.Off)
 	addPicks("combined objective on", rules.Combined.On)
+	addPicks("residual objective off", rules.Residuals.Off)
+	addPicks("residual objective on", rules.Residuals.On)
+	addPicks("residual objective, Jacobian by columns", rules.JacobianColumns)
+	for _, e := range rules.Derivative.Entries {
+		addPicks("derivative "+e.Name+" of residuals", e.ResidualPicks)
+	}
 	for _, q := range rules.Params() {
 		addPicks("switch "+q.Path()+" on", q.On)
 		addPicks("switch "+q.Path()+" off", q.Off)
@@ -227,4 +236,20 @@ func TestCombinedWorstCase(t *testing.T) {
 	if !found {
 		t.Fatal("no golden minimizer has a combined objective")
 	}
+}
+
+// emptiedType reports whether a pick replaces the templates' type name by
+// alt, a struct type without fields: state the spec's shape does without,
+// which no reached code then touches.
+func emptiedType(scope *types.Scope, name, alt string) bool {
+	from, ok := scope.Lookup(name).(*types.TypeName)
+	if !ok {
+		return false
+	}
+	to, ok := scope.Lookup(alt).(*types.TypeName)
+	if !ok || from == to {
+		return false
+	}
+	st, ok := to.Type().Underlying().(*types.Struct)
+	return ok && st.NumFields() == 0
 }

@@ -231,8 +231,8 @@ type kernelChoice struct {
 	provided map[string]string
 	prefix   string // lowerCamel minimizer name
 	// trace keeps the calls of the observe hook, renamed to traceHook;
-	// otherwise they are deleted. It also wraps every objective call of
-	// the chosen line search, each a trial, as traceTrial(xt, f(xt)), so
+	// otherwise they are deleted. It also wraps every value call of the
+	// chosen line search, each a trial, as traceTrial(xt, value(…)), so
 	// that the recorder counts and sees the trials.
 	trace      bool
 	traceHook  string
@@ -256,7 +256,7 @@ type specializedKernels struct {
 // the glue emits them. (Selectors and their values are never reached:
 // every dispatcher that reads them is replaced by its alternative.)
 var standIns = map[string]bool{
-	"elem": true, "dim": true, "vec": true, "receiver": true, "status": true, "limits": true, "box": true,
+	"elem": true, "dim": true, "vec": true, "residuals": true, "rvec": true, "receiver": true, "status": true, "limits": true, "box": true,
 	"statusGradientSmall": true, "Source": true, "observe": true,
 }
 
@@ -509,12 +509,7 @@ func (rw *rewriter) post(n ast.Node) ast.Node {
 		}
 	case *ast.CallExpr:
 		if rw.isRecvCall(n, "objective") || rw.isRecvCall(n, "evaluate") {
-			call := rw.objectiveCall(n)
-			if rw.trials {
-				// traceTrial(xt, f(xt)): the trial point, then its value.
-				call = &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{n.Args[0], call}, Lparen: n.Lparen, Rparen: n.Rparen}
-			}
-			return call
+			return rw.objectiveCall(n)
 		}
 		if s.Elem == "float64" && len(n.Args) == 1 {
 			// elem has already been rewritten to float64 here.
@@ -526,6 +521,15 @@ func (rw *rewriter) post(n ast.Node) ast.Node {
 		}
 		if s.Receiver == "" {
 			n.Args = rw.withoutRecv(n.Args)
+		}
+		if rw.trials && rw.isTemplateCall(n, "value") {
+			// traceTrial(xt, value(…, xt, …)): a trial of the line
+			// search, whose point follows the receiver.
+			point := n.Args[0]
+			if s.Receiver != "" {
+				point = n.Args[1]
+			}
+			return &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{point, n}, Lparen: n.Lparen, Rparen: n.Rparen}
 		}
 	case *ast.FieldList:
 		if s.Receiver == "" {
@@ -558,6 +562,10 @@ func (rw *rewriter) replaceIdent(id *ast.Ident) ast.Node {
 		return &ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Dim, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}}
 	case "dim":
 		return intLit(s.Dim, id.Pos())
+	case "rvec":
+		return &ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Residuals, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}}
+	case "residuals":
+		return intLit(s.Residuals, id.Pos())
 	case "receiver":
 		return &ast.Ident{Name: s.Receiver, NamePos: id.Pos()}
 	}
@@ -584,6 +592,17 @@ func (rw *rewriter) isObserve(call *ast.CallExpr) bool {
 	}
 	o := rw.obj(id)
 	return o != nil && o.Parent() == rw.ks.pkg.Scope() && o.Name() == "observe"
+}
+
+// isTemplateCall reports whether call calls the templates' package-level
+// function name.
+func (rw *rewriter) isTemplateCall(call *ast.CallExpr, name string) bool {
+	id, ok := call.Fun.(*ast.Ident)
+	if !ok {
+		return false
+	}
+	o := rw.obj(id)
+	return o != nil && o.Parent() == rw.ks.pkg.Scope() && o.Name() == name
 }
 
 // isRecvCall reports whether call is recv.<method>(…) on the stand-in.

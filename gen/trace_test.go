@@ -153,8 +153,8 @@ func TestTraceCSV(t *testing.T) {
 }
 
 // The traced copy keeps both observe calls, pointed at the recorder, and
-// wraps every objective call of the line search, and only those, in the
-// trial recorder; the copy gen writes has none of it.
+// wraps every value call of the line search (its trials), and only those,
+// in the trial recorder; the copy gen writes has none of it.
 func TestTracedKernels(t *testing.T) {
 	plans, err := Plans([]string{filepath.Join("..", "testdata", "golden", "shapes", "shapes.toml")})
 	if err != nil {
@@ -174,13 +174,9 @@ func TestTracedKernels(t *testing.T) {
 			t.Errorf("%s: the generated minimizer mentions the trace hooks", p.M.Name)
 		}
 		search := p.Prefix + "LineSearch"
-		objective := p.Shape.Objective
-		if p.Scaled() {
-			objective = p.Prefix + "ValueAt" // the adapter to the user's units
-		}
-		objectiveCalls := callsIn(t, plain.Bytes(), search, objective)
+		objectiveCalls := callsIn(t, plain.Bytes(), search, p.Prefix+"Value")
 		if objectiveCalls == 0 {
-			t.Fatalf("%s: no objective call in %s", p.M.Name, search)
+			t.Fatalf("%s: no value call in %s", p.M.Name, search)
 		}
 		if n := callsIn(t, traced.Bytes(), search, traceTrial); n != objectiveCalls {
 			t.Errorf("%s: %d trials recorded in %s, which calls the objective %d times", p.M.Name, n, search, objectiveCalls)

@@ -20,7 +20,7 @@ var Constants = []*Constant{
 		return strconv.Itoa(c.Derivative.GradientCalls(c.Dim))
 	}},
 	{"calibrationCost", "objective calls of choosing the difference intervals", func(c *Context) string {
-		return strconv.Itoa(c.Derivative.CalibrationCalls(c.Dim))
+		return strconv.Itoa(c.CalibrationCalls())
 	}},
 	{"iterationCalls", "most objective calls of one line search with the gradient at its step", func(c *Context) string {
 		return strconv.Itoa(c.IterationCalls())
@@ -63,7 +63,17 @@ func (c *Context) IterationCalls() int {
 // StartCalls is the most objective calls of a run's start: the first
 // value, the calibration of differences and the first gradient.
 func (c *Context) StartCalls() int {
-	return 1 + c.Derivative.CalibrationCalls(c.Dim) + c.Derivative.GradientCalls(c.Dim)
+	return 1 + c.CalibrationCalls() + c.Derivative.GradientCalls(c.Dim)
+}
+
+// CalibrationCalls is the objective calls of choosing the difference
+// intervals: none for a residual objective, whose Jacobian differences
+// use the standard intervals of Nocedal & Wright 2006, §8.1.
+func (c *Context) CalibrationCalls() int {
+	if c.Residuals > 0 {
+		return 0
+	}
+	return c.Derivative.CalibrationCalls(c.Dim)
 }
 
 // SettleCalls is the most objective calls of confirming a difference
@@ -74,10 +84,10 @@ func (c *Context) SettleCalls() int {
 	if c.Combined {
 		return c.Dim
 	}
-	if c.Derivative.CalibrationCalls(c.Dim) == 0 {
-		return 0
+	if c.CalibrationCalls() == 0 {
+		return 0 // an analytic gradient, or a residual objective (settleResiduals)
 	}
-	return c.Derivative.CalibrationCalls(c.Dim) + 2*c.Derivative.GradientCalls(c.Dim)
+	return c.CalibrationCalls() + 2*c.Derivative.GradientCalls(c.Dim)
 }
 
 // TickMinimum is the smallest call budget with which every advance of a

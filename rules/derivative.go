@@ -14,6 +14,7 @@ var (
 		Math:             "g = gradient(x); the generated test checks it against central differences",
 		References:       []string{NocedalWright + ", §8.1 (gradient checking)"},
 		Picks:            Picks{"derivative": "analyticGradient", "calibrate": "calibrateNothing", "gradientError": "exactGradient", "diagonalCurvature": "probedCurvature"},
+		ResidualPicks:    Picks{"jacobian": "rowsJacobian", "jacobianError": "exactJacobian"},
 		GradientCalls:    func(dim int) int { return 0 },
 		CalibrationCalls: func(dim int) int { return 0 },
 	})
@@ -23,6 +24,7 @@ var (
 		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x))/hᵢ, hᵢ = 2√(ε_A/|f″|) with f″ estimated along eᵢ (2 calls per unknown), error bound 2(hᵢ|f″|/2 + 2ε_A/hᵢ), ε_A = 4u(|f| + Σ|gᵢxᵢ|); one-sided three-point probes at a bound",
 		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.1 and §8.1"},
 		Picks:            Picks{"derivative": "forwardDifference", "calibrate": "calibrateForward", "gradientError": "forwardError", "diagonalCurvature": "calibratedCurvature"},
+		ResidualPicks:    Picks{"jacobian": "forwardJacobian", "jacobianError": "forwardJacobianError"},
 		GradientCalls:    func(dim int) int { return dim },
 		CalibrationCalls: func(dim int) int { return 2 * dim },
 		State:            differenceState,
@@ -33,6 +35,7 @@ var (
 		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x − hᵢeᵢ))/(2hᵢ), hᵢ = ∛(3ε_A/|f‴|) with f‴ estimated along eᵢ (4 calls per unknown), error bound 2(hᵢ²|f‴|/6 + ε_A/hᵢ), ε_A = 4u(|f| + Σ|gᵢxᵢ|); at a bound the one-sided three-point formula, bound 2(hᵢ²|f‴|/3 + 4ε_A/hᵢ)",
 		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.7 and §8.1"},
 		Picks:            Picks{"derivative": "centralDifference", "calibrate": "calibrateCentral", "gradientError": "centralError", "diagonalCurvature": "calibratedCurvature"},
+		ResidualPicks:    Picks{"jacobian": "centralJacobian", "jacobianError": "centralJacobianError"},
 		GradientCalls:    func(dim int) int { return 2 * dim },
 		CalibrationCalls: func(dim int) int { return 4 * dim },
 		State:            differenceState,

@@ -15,7 +15,7 @@ var (
 		References: []string{
 			NocedalWright + ", §3.3 and eq. 3.60",
 		},
-		Picks:       Picks{"direction": "steepestDirection"},
+		Picks:       Picks{"direction": "steepestDirection", "solveDirection": "memoryDirection"},
 		DefaultRule: ArmijoRule,
 	})
 	BFGS = Direction.register(&Entry{
@@ -26,7 +26,7 @@ var (
 			NocedalWright + ", eqs. 6.17 and 6.20",
 			NocedalWright + ", §6.1, condition 6.7 (why pairs with yᵀs ≤ 0 are skipped)",
 		},
-		Picks:       Picks{"direction": "bfgsDirection"},
+		Picks:       Picks{"direction": "bfgsDirection", "solveDirection": "memoryDirection"},
 		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			bytes := dim*dim*elemBytes + 8
@@ -44,7 +44,7 @@ var (
 			LiuNocedal,
 			NocedalWright + ", Algorithm 7.4 and eq. 7.20",
 		},
-		Picks:       Picks{"direction": "lbfgsDirection"},
+		Picks:       Picks{"direction": "lbfgsDirection", "solveDirection": "memoryDirection"},
 		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			memory := int(value(Memory))
@@ -61,7 +61,7 @@ var (
 			PolakRibiere,
 			NocedalWright + ", eqs. 5.44–5.45, §5.2",
 		},
-		Picks:       Picks{"direction": "cgDirection"},
+		Picks:       Picks{"direction": "cgDirection", "solveDirection": "memoryDirection"},
 		DefaultRule: StrongWolfeRule,
 		// c2 = 0.1 for nonlinear conjugate gradients (Nocedal & Wright
 		// 2006, §3.1, the paragraph after eq. 3.7).
@@ -73,5 +73,47 @@ var (
 		Fallback:       Steepest,
 		NeedsCurvature: true,
 		NoBounds:       `its directions stay conjugate, and descend, only along unbroken lines, which projection onto the box breaks; use direction "lbfgs" or "bfgs" with bounds`,
+	})
+)
+
+// The least-squares directions, for residual objectives f = ½‖r‖².
+var (
+	GaussNewton = Direction.register(&Entry{
+		Name:    "gauss-newton",
+		Summary: "Gauss–Newton for residual objectives: solve JᵀJ·d = −Jᵀr, with a line search (damped Gauss–Newton)",
+		Math:    "d = −(JᵀJ)⁻¹Jᵀr by Cholesky; when a pivot falls to rounding, JᵀJ + τI with τ doubling from √u·max(JᵀJ)ᵢᵢ (N&W Algorithm 3.3)",
+		References: []string{
+			NocedalWright + ", §10.3, eq. 10.23",
+			NocedalWright + ", Algorithm 3.3 (Cholesky with added multiple of the identity)",
+			DennisSchnabel + ", §10.2 (damped Gauss–Newton)",
+		},
+		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "gaussNewtonStep"},
+		DefaultRule: ArmijoRule,
+		Residual:    true,
+		Pairs:       []*Entry{Fixed, SimpleDecrease, ArmijoRule},
+		PairsWhy:    "its step needs the Jacobian at the accepted trial, which only the last trial's residuals give; the backtracking rules accept the last trial, a Wolfe search may not",
+		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
+			return dim * dim * elemBytes, fmt.Sprintf("a %d×%d matrix (JᵀJ) of", dim, dim)
+		},
+		SmallerState: `use direction "lbfgs" on the residual objective`,
+	})
+	LevenbergMarquardt = Direction.register(&Entry{
+		Name:    "levenberg-marquardt",
+		Summary: "Levenberg–Marquardt for residual objectives: solve (JᵀJ + λD)·d = −Jᵀr, the damping λ adjusted like a trust region (step rule damping)",
+		Math:    "D = diag of the largest (JᵀJ)ᵢᵢ seen (Moré 1978), λ₀ = 10⁻³; see step rule damping for the update",
+		References: []string{
+			"D. W. Marquardt, An algorithm for least-squares estimation of nonlinear parameters, J. SIAM 11(2):431–441, 1963",
+			MoreLM,
+			NocedalWright + ", §10.3",
+		},
+		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "dampedStep"},
+		DefaultRule: Damping,
+		Residual:    true,
+		Pairs:       []*Entry{Damping},
+		PairsWhy:    "its step length comes from the damping λ, which step rule damping adjusts; a line search along one damped step would fight it",
+		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
+			return dim*dim*elemBytes + dim*elemBytes + 2*elemBytes, fmt.Sprintf("a %d×%d matrix (JᵀJ) and the damping of", dim, dim)
+		},
+		SmallerState: `use direction "lbfgs" on the residual objective`,
 	})
 )

@@ -186,6 +186,31 @@ type Entry struct {
 	// says why the entry cannot take bounds; "" when it can.
 	BoundedPicks Picks
 	NoBounds     string
+
+	// Residual says a direction needs a residual objective (f = ½‖r‖²).
+	// Pairs are the only step rules a direction goes with (nil for
+	// any), and Exclusive says a step rule goes only with the
+	// directions that list it there. PairsWhy says why.
+	Residual  bool
+	Pairs     []*Entry
+	Exclusive bool
+	PairsWhy  string
+	// ResidualPicks override a derivative source's Picks for a residual
+	// objective: its Jacobian instead of the gradient of f.
+	ResidualPicks Picks
+}
+
+// Suits reports whether the direction d goes with the step rule r.
+func Suits(d, r *Entry) bool {
+	if d.Pairs == nil {
+		return !r.Exclusive
+	}
+	for _, p := range d.Pairs {
+		if p == r {
+			return true
+		}
+	}
+	return false
 }
 
 // Reads reports whether the entry reads the parameter.
@@ -259,6 +284,7 @@ type Context struct {
 	Value                             func(*Param) float64
 	Bounded                           bool // whether the spec has [minimizer.bounds]
 	Combined                          bool // whether the objective gives its gradient with its value
+	Residuals                         int  // M for a residual objective (f = ½‖r‖²), else 0
 }
 
 // Entries lists the chosen entries, in the order of Choices.
@@ -323,5 +349,6 @@ const (
 	DennisSchnabel           = "J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained Optimization and Nonlinear Equations, Prentice-Hall, 1983"
 	LiuNocedal               = "D. C. Liu and J. Nocedal, On the limited memory BFGS method for large scale optimization, Math. Programming 45:503–528, 1989"
 	GillMurraySaundersWright = "P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing forward-difference intervals for numerical optimization, SIAM J. Sci. Stat. Comput. 4(2):310–321, 1983"
+	MoreLM                   = "J. J. Moré, The Levenberg–Marquardt algorithm: implementation and theory, in Numerical Analysis, Lecture Notes in Mathematics 630, Springer, 1978, 105–116"
 	PolakRibiere             = "E. Polak and G. Ribière, Note sur la convergence de méthodes de directions conjuguées, Rev. Française Informat. Recherche Opérationnelle 3(16):35–43, 1969"
 )

@@ -82,3 +82,20 @@ var (
 		Tune:           true,
 	})
 )
+
+// Damping is the Levenberg–Marquardt step rule.
+var Damping = StepRule.register(&Entry{
+	Name:    "damping",
+	Summary: "Levenberg–Marquardt damping: try x + d(λ), raise λ until the decrease is at least c1 of the Gauss–Newton model's, lower it after a good step",
+	Math:    "accept s = d(λ) when ρ = (f(x) − f(x + s))/(−gᵀs − ½sᵀJᵀJs) ≥ c1, then λ ← λ·max(1/3, 1 − (2ρ − 1)³), ν ← 2; else λ ← λν, ν ← 2ν and solve again",
+	Params:  []*Param{Decrease, Trials},
+	References: []string{
+		MoreLM,
+		"H. B. Nielsen, Damping parameter in Marquardt's method, IMM-REP-1999-05, Technical University of Denmark, 1999 (from memory)",
+		"K. Madsen, H. B. Nielsen and O. Tingleff, Methods for Non-Linear Least Squares Problems, 2nd ed., IMM, Technical University of Denmark, 2004, §3.2 (from memory)",
+	},
+	Picks:          Picks{"lineSearch": "dampedSearch"},
+	IterationCalls: backtrackingCalls,
+	Exclusive:      true,
+	Tune:           true,
+})

@@ -10,7 +10,7 @@ func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny el
 		return lineResult{end: searchOutOfBudget}
 	}
 	trialPoint(xt, x, stepInitial, d, &diffs.bounds)
-	ft := recv.evaluate(xt, gt)
+	ft := value(recv, xt, gt, diffs)
 	if !finite(ft) {
 		return lineResult{calls: 1, end: searchDiverged}
 	}
@@ -34,7 +34,7 @@ func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, t
 			return lineResult{calls: trial, end: searchOutOfBudget}
 		}
 		trialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.evaluate(xt, gt)
+		ft := value(recv, xt, gt, diffs)
 		if finite(ft) && acceptable(fx, ft, t, slope, x, xt, g) {
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}

@@ -115,17 +115,17 @@ func firstBound(x, d *vec, tiny elem, b *box) elem {
 
 // searchDirection sets d to the search direction at x, where the gradient
 // is g. It stands in for the choice gen makes from the spec's bounds.
-func searchDirection(dir *direction, x, g, d *vec, b *box) {
+func searchDirection(dir *direction, x, g, d *vec, diffs *differences) {
 	if boxed {
-		boundDirection(dir, x, g, d, b)
+		boundDirection(dir, x, g, d, diffs)
 		return
 	}
-	freeDirection(dir, x, g, d, b)
+	freeDirection(dir, x, g, d, diffs)
 }
 
 // freeDirection is the direction's own.
-func freeDirection(dir *direction, x, g, d *vec, b *box) {
-	dir.compute(g, d)
+func freeDirection(dir *direction, x, g, d *vec, diffs *differences) {
+	solveDirection(dir, g, d, diffs)
 }
 
 // boundDirection is the two-metric projection direction of Bertsekas
@@ -153,7 +153,8 @@ func freeDirection(dir *direction, x, g, d *vec, b *box) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func boundDirection(dir *direction, x, g, d *vec, b *box) {
+func boundDirection(dir *direction, x, g, d *vec, diffs *differences) {
+	b := &diffs.bounds
 	var reach elem // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = larger(reach, abs(x[i]-clampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -170,7 +171,7 @@ func boundDirection(dir *direction, x, g, d *vec, b *box) {
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	solveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]

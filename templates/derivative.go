@@ -13,6 +13,7 @@ type differences struct {
 	curvature vec
 	second    vec // |f″| along e_i, for the rounding floor of a stall (see roundingFloor)
 	bounds    box
+	model     residualModel // a residual objective's residuals and Jacobian products (noStructure for any other)
 }
 
 // derivative fills g with the gradient at x, where fx = f(x), and returns
@@ -21,6 +22,8 @@ type differences struct {
 // chose; gen keeps only that one under this name.
 func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	switch {
+	case residualObjective:
+		return residualGradient(recv, x, fx, g, diffs)
 	case combined:
 		return givenGradient(recv, x, fx, g, diffs)
 	case derivativeSource == sourceForward:
@@ -37,10 +40,12 @@ func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int
 // spent and false when the budget ran out first. It stands in for the
 // source the spec chose; gen keeps only that one under this name.
 func calibrate(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
-	switch derivativeSource {
-	case sourceForward:
+	switch {
+	case residualObjective:
+		return calibrateNothing(recv, x, fx, diffs, budget)
+	case derivativeSource == sourceForward:
 		return calibrateForward(recv, x, fx, diffs, budget)
-	case sourceCentral:
+	case derivativeSource == sourceCentral:
 		return calibrateCentral(recv, x, fx, diffs, budget)
 	default:
 		return calibrateNothing(recv, x, fx, diffs, budget)
@@ -51,10 +56,12 @@ func calibrate(recv *receiver, x *vec, fx elem, diffs *differences, budget int) 
 // the gradient g at x, where fx = f(x). It stands in for the source the spec
 // chose; gen keeps only that one under this name.
 func gradientError(x *vec, fx elem, g, e *vec, diffs *differences) {
-	switch derivativeSource {
-	case sourceForward:
+	switch {
+	case residualObjective:
+		residualError(x, fx, g, e, diffs)
+	case derivativeSource == sourceForward:
 		forwardError(x, fx, g, e, diffs)
-	case sourceCentral:
+	case derivativeSource == sourceCentral:
 		centralError(x, fx, g, e, diffs)
 	default:
 		exactGradient(x, fx, g, e, diffs)

@@ -13,6 +13,9 @@ type direction struct {
 	bfgs     bfgsDirection
 	lbfgs    lbfgsDirection
 	cg       cgDirection
+	// gaussNewton serves both least-squares directions, whose step
+	// comes from the residual model (see solveDirection).
+	gaussNewton gaussNewtonDirection
 }
 
 func (s *direction) reset() {
@@ -23,6 +26,8 @@ func (s *direction) reset() {
 		s.lbfgs.reset()
 	case kindCG:
 		s.cg.reset()
+	case kindGaussNewton, kindLevenbergMarquardt:
+		s.gaussNewton.reset()
 	default:
 		s.bfgs.reset()
 	}
@@ -49,6 +54,8 @@ func (s *direction) update(step, change *vec) {
 		s.lbfgs.update(step, change)
 	case kindCG:
 		s.cg.update(step, change)
+	case kindGaussNewton, kindLevenbergMarquardt:
+		s.gaussNewton.update(step, change)
 	default:
 		s.bfgs.update(step, change)
 	}
@@ -62,6 +69,8 @@ func (s *direction) firstTrial(t, slope, now elem) elem {
 		return s.lbfgs.firstTrial(t, slope, now)
 	case kindCG:
 		return s.cg.firstTrial(t, slope, now)
+	case kindGaussNewton, kindLevenbergMarquardt:
+		return s.gaussNewton.firstTrial(t, slope, now)
 	default:
 		return s.bfgs.firstTrial(t, slope, now)
 	}

@@ -100,6 +100,8 @@ func lineSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny e
 		return fixedStep(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
 	case ruleDecrease, ruleArmijo:
 		return backtrackSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
+	case ruleDamping:
+		return dampedSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
 	default:
 		return wolfeSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
 	}

@@ -156,7 +156,7 @@ func (r *descent) begin(recv *receiver) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.evaluate(&r.x, &r.g) // a combined objective writes ∇f(x) into g
+	r.fx = value(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !finite(r.fx) || !finiteVec(&r.x) {
 		r.out.status = statusNonFiniteStart
@@ -258,11 +258,11 @@ func (r *descent) judge(recv *receiver) {
 // the gradient at the new point; it leaves stageJudge next when the run
 // goes on.
 func (r *descent) search(recv *receiver) {
-	searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := dot(&r.g, &r.d)
 	if !(now < 0) || !finiteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = dot(&r.g, &r.d)
 	}
 	first := elem(stepInitial)
@@ -359,6 +359,9 @@ const (
 // objective calls spent and false when budget ran out first. It stands
 // in for the objective's kind; gen keeps only that one under this name.
 func settle(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, stall bool, budget int) (int, bool) {
+	if residualObjective {
+		return settleResiduals(recv, x, fx, g, e, diffs, stall, budget)
+	}
 	if combined {
 		return settleCombined(recv, x, fx, g, e, diffs, stall, budget)
 	}

@@ -24,17 +24,19 @@ const (
 // Selectors used only by this package's tests to pick among the
 // alternatives; gen picks one at generation time instead.
 var (
-	derivativeSource = sourceAnalytic
-	directionKind    = kindBFGS
-	stepRule         = ruleArmijo
-	backtrackKind    = backtrackShrink
-	gradientTest     = testRelative
-	derivativeCost   = 0     // objective calls per gradient, set with derivativeSource
-	calibrationCost  = 0     // objective calls of choosing the difference intervals, set with derivativeSource
-	iterationCalls   = 40    // most objective calls of a line search and the gradient at its step, set with stepRule
-	settleCalls      = 0     // most objective calls of settle: calibrationCost + 2·derivativeCost, or dim for a combined objective
-	boxed            = false // whether the spec has bounds
-	combined         = false // whether the objective gives its gradient with its value
+	derivativeSource  = sourceAnalytic
+	directionKind     = kindBFGS
+	stepRule          = ruleArmijo
+	backtrackKind     = backtrackShrink
+	gradientTest      = testRelative
+	derivativeCost    = 0     // objective calls per gradient, set with derivativeSource
+	calibrationCost   = 0     // objective calls of choosing the difference intervals, set with derivativeSource
+	iterationCalls    = 40    // most objective calls of a line search and the gradient at its step, set with stepRule
+	settleCalls       = 0     // most objective calls of settle: calibrationCost + 2·derivativeCost, or dim for a combined objective
+	boxed             = false // whether the spec has bounds
+	combined          = false // whether the objective gives its gradient with its value
+	residualObjective = false // whether the objective gives residuals, f = ½‖r‖²
+	jacobianColumns   = false // whether the analytic Jacobian is written transposed, J[j][i] = ∂rᵢ/∂xⱼ
 )
 
 // Alternatives for the selectors above.
@@ -49,6 +51,8 @@ const (
 	kindBFGS
 	kindLBFGS
 	kindCG
+	kindGaussNewton
+	kindLevenbergMarquardt
 )
 
 const (
@@ -57,6 +61,7 @@ const (
 	ruleArmijo
 	ruleWolfe
 	ruleStrongWolfe
+	ruleDamping
 )
 
 const (

@@ -12,6 +12,14 @@ const dim = 2
 // Scalar objectives are minimized as vectors of length one.
 type vec = [dim]elem
 
+// residuals stands in for the number of residuals of a residual objective,
+// whose value is f = ½‖r‖².
+const residuals = 3
+
+// rvec stands in for a residual objective's residuals: an array of
+// residuals elements.
+type rvec = [residuals]elem
+
 // receiver stands in for the value the objective is called on. Plain
 // functions have none: gen then drops every recv parameter and argument.
 type receiver struct {
@@ -21,6 +29,12 @@ type receiver struct {
 	// and writes ∇f(x) into g in the same call. The kernels then call
 	// only evaluate on it.
 	combinedFunc func(x, g *vec) elem
+	// residualFunc, when set, is a residual objective: it writes r(x),
+	// and f(x) = ½‖r(x)‖². jacobianFunc writes J(x) by rows,
+	// J[i][j] = ∂rᵢ/∂xⱼ, and columnsFunc by columns, J[j][i].
+	residualFunc func(x *vec, r *rvec)
+	jacobianFunc func(x *vec, j *[residuals]vec)
+	columnsFunc  func(x *vec, j *[dim]rvec)
 	calls        int // objective calls, counted independently of the kernels
 	valueOnly    int // calls of objective, which a combined objective must never see
 	gradients    int // calls of gradient, likewise
@@ -38,6 +52,25 @@ func (r *receiver) objective(x *vec) elem {
 func (r *receiver) gradient(x, g *vec) {
 	r.gradients++
 	r.gradientFunc(x, g)
+}
+
+// residual stands in for the user's residual objective: r = r(x).
+func (r *receiver) residual(x *vec, out *rvec) {
+	r.calls++
+	r.residualFunc(x, out)
+}
+
+// jacobian stands in for the user's analytic Jacobian, by rows.
+func (r *receiver) jacobian(x *vec, j *[residuals]vec) {
+	r.gradients++
+	r.jacobianFunc(x, j)
+}
+
+// jacobianColumns stands in for the user's analytic Jacobian written by
+// columns (transposed).
+func (r *receiver) jacobianColumns(x *vec, j *[dim]rvec) {
+	r.gradients++
+	r.columnsFunc(x, j)
 }
 
 // evaluate stands in for the objective called where the kernel may want

@@ -59,7 +59,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny 
 			return lineResult{calls: calls, end: searchOutOfBudget}
 		}
 		trialPoint(xt, x, t, d, &diffs.bounds)
-		current := linePoint{step: t, value: recv.evaluate(xt, gt)}
+		current := linePoint{step: t, value: value(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !finite(current.value) || current.value > fx+stepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -364,7 +364,7 @@ func (r *minBowlInBoxDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Bowl(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = minBowlInBoxValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minBowlInBoxFinite(r.fx) || !minBowlInBoxFiniteVec(&r.x) {
 		r.out.status = MinBowlInBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *minBowlInBoxDescent) judge() {
 // the gradient at the new point; it leaves minBowlInBoxStageJudge next when the run
 // goes on.
 func (r *minBowlInBoxDescent) search() {
-	minBowlInBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minBowlInBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minBowlInBoxDot(&r.g, &r.d)
 	if !(now < 0) || !minBowlInBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minBowlInBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minBowlInBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minBowlInBoxDot(&r.g, &r.d)
 	}
 	first := float32(minBowlInBoxStepInitial)
@@ -557,7 +557,11 @@ type minBowlInBoxDifferences struct {
 	curvature [3]float32
 	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlInBoxRoundingFloor)
 	bounds    minBowlInBoxBox
+	model     minBowlInBoxResidualModel // a residual objective's residuals and Jacobian products (minBowlInBoxResidualModel for any other)
 }
+
+// minBowlInBoxResidualModel is minBowlInBoxResidualModel for any other objective: nothing.
+type minBowlInBoxResidualModel struct{}
 
 // minBowlInBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	minBowlInBoxVerifyPass    // a difference gradient passed the test
 	minBowlInBoxVerifyStall   // no step makes progress
 )
+
+// minBowlInBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func minBowlInBoxValue(x, g *[3]float32, diffs *minBowlInBoxDifferences) float32 {
+	return Bowl(x[:])
+}
 
 // minBowlInBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1143,7 +1152,8 @@ func minBowlInBoxCurvaturePair(s, y, x *[3]float32, b *minBowlInBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32, b *minBowlInBoxBox) {
+func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32, diffs *minBowlInBoxDifferences) {
+	b := &diffs.bounds
 	var reach float32 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = minBowlInBoxLarger(reach, minBowlInBoxAbs(x[i]-minBowlInBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1160,7 +1170,7 @@ func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	minBowlInBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1169,6 +1179,11 @@ func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32
 			d[i] = 0
 		}
 	}
+}
+
+// minBowlInBoxSolveDirection is the direction's own rule, from its memory.
+func minBowlInBoxSolveDirection(dir *minBowlInBoxDirection, g, d *[3]float32, diffs *minBowlInBoxDifferences) {
+	dir.compute(g, d)
 }
 
 // minBowlInBoxTinyStep returns the longest t for which the step t·d from x passes the
@@ -1202,7 +1217,7 @@ func minBowlInBoxLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, 
 			return minBowlInBoxLineResult{calls: trial, end: minBowlInBoxSearchOutOfBudget}
 		}
 		minBowlInBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := Bowl(xt[:])
+		ft := minBowlInBoxValue(xt, gt, diffs)
 		if minBowlInBoxFinite(ft) && minBowlInBoxAcceptable(fx, ft, t, slope, x, xt, g) {
 			return minBowlInBoxLineResult{step: t, value: ft, calls: trial + 1, end: minBowlInBoxSearchAccepted}
 		}

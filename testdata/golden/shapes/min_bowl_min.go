@@ -355,7 +355,7 @@ func (r *minBowlDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Bowl(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = minBowlValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minBowlFinite(r.fx) || !minBowlFiniteVec(&r.x) {
 		r.out.status = MinBowlNonFiniteStart
@@ -456,11 +456,11 @@ func (r *minBowlDescent) judge() {
 // the gradient at the new point; it leaves minBowlStageJudge next when the run
 // goes on.
 func (r *minBowlDescent) search() {
-	minBowlSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minBowlSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minBowlDot(&r.g, &r.d)
 	if !(now < 0) || !minBowlFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minBowlSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minBowlSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minBowlDot(&r.g, &r.d)
 	}
 	first := float32(minBowlStepInitial)
@@ -548,7 +548,11 @@ type minBowlDifferences struct {
 	curvature [3]float32
 	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlRoundingFloor)
 	bounds    minBowlBox
+	model     minBowlResidualModel // a residual objective's residuals and Jacobian products (minBowlResidualModel for any other)
 }
+
+// minBowlResidualModel is minBowlResidualModel for any other objective: nothing.
+type minBowlResidualModel struct{}
 
 // minBowlDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -677,6 +681,11 @@ const (
 	minBowlVerifyPass    // a difference gradient passed the test
 	minBowlVerifyStall   // no step makes progress
 )
+
+// minBowlValue calls the objective; a combined one also writes ∇f(x) into g.
+func minBowlValue(x, g *[3]float32, diffs *minBowlDifferences) float32 {
+	return Bowl(x[:])
+}
 
 // minBowlFiniteVec reports whether every component of x is finite.
 func minBowlFiniteVec(x *[3]float32) bool {
@@ -1037,7 +1046,12 @@ func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
 func minBowlCurvaturePair(s, y, x *[3]float32, b *minBowlBox) {}
 
 // minBowlSearchDirection is the direction's own.
-func minBowlSearchDirection(dir *minBowlDirection, x, g, d *[3]float32, b *minBowlBox) {
+func minBowlSearchDirection(dir *minBowlDirection, x, g, d *[3]float32, diffs *minBowlDifferences) {
+	minBowlSolveDirection(dir, g, d, diffs)
+}
+
+// minBowlSolveDirection is the direction's own rule, from its memory.
+func minBowlSolveDirection(dir *minBowlDirection, g, d *[3]float32, diffs *minBowlDifferences) {
 	dir.compute(g, d)
 }
 
@@ -1107,7 +1121,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first
 			return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 		}
 		minBowlTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := minBowlLinePoint{step: t, value: Bowl(xt[:])}
+		current := minBowlLinePoint{step: t, value: minBowlValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !minBowlFinite(current.value) || current.value > fx+minBowlStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *minParabolaDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Parabola(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = minParabolaValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minParabolaFinite(r.fx) || !minParabolaFiniteVec(&r.x) {
 		r.out.status = MinParabolaNonFiniteStart
@@ -455,11 +455,11 @@ func (r *minParabolaDescent) judge() {
 // the gradient at the new point; it leaves minParabolaStageJudge next when the run
 // goes on.
 func (r *minParabolaDescent) search() {
-	minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minParabolaDot(&r.g, &r.d)
 	if !(now < 0) || !minParabolaFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minParabolaDot(&r.g, &r.d)
 	}
 	first := float64(minParabolaStepInitial)
@@ -547,7 +547,11 @@ type minParabolaDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see minParabolaRoundingFloor)
 	bounds    minParabolaBox
+	model     minParabolaResidualModel // a residual objective's residuals and Jacobian products (minParabolaResidualModel for any other)
 }
+
+// minParabolaResidualModel is minParabolaResidualModel for any other objective: nothing.
+type minParabolaResidualModel struct{}
 
 // minParabolaDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	minParabolaVerifyPass    // a difference gradient passed the test
 	minParabolaVerifyStall   // no step makes progress
 )
+
+// minParabolaValue calls the objective; a combined one also writes ∇f(x) into g.
+func minParabolaValue(x, g *[1]float64, diffs *minParabolaDifferences) float64 {
+	return Parabola(x[0])
+}
 
 // minParabolaFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1071,7 +1080,12 @@ func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
 func minParabolaCurvaturePair(s, y, x *[1]float64, b *minParabolaBox) {}
 
 // minParabolaSearchDirection is the direction's own.
-func minParabolaSearchDirection(dir *minParabolaDirection, x, g, d *[1]float64, b *minParabolaBox) {
+func minParabolaSearchDirection(dir *minParabolaDirection, x, g, d *[1]float64, diffs *minParabolaDifferences) {
+	minParabolaSolveDirection(dir, g, d, diffs)
+}
+
+// minParabolaSolveDirection is the direction's own rule, from its memory.
+func minParabolaSolveDirection(dir *minParabolaDirection, g, d *[1]float64, diffs *minParabolaDifferences) {
 	dir.compute(g, d)
 }
 
@@ -1141,7 +1155,7 @@ func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, f
 			return minParabolaLineResult{calls: calls, end: minParabolaSearchOutOfBudget}
 		}
 		minParabolaTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := minParabolaLinePoint{step: t, value: Parabola(xt[0])}
+		current := minParabolaLinePoint{step: t, value: minParabolaValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !minParabolaFinite(current.value) || current.value > fx+minParabolaStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -353,7 +353,7 @@ func (r *minPlateDecreaseDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plate(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = minPlateDecreaseValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minPlateDecreaseFinite(r.fx) || !minPlateDecreaseFiniteVec(&r.x) {
 		r.out.status = MinPlateDecreaseNonFiniteStart
@@ -454,11 +454,11 @@ func (r *minPlateDecreaseDescent) judge() {
 // the gradient at the new point; it leaves minPlateDecreaseStageJudge next when the run
 // goes on.
 func (r *minPlateDecreaseDescent) search() {
-	minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minPlateDecreaseDot(&r.g, &r.d)
 	if !(now < 0) || !minPlateDecreaseFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minPlateDecreaseDot(&r.g, &r.d)
 	}
 	first := float32(minPlateDecreaseStepInitial)
@@ -546,7 +546,11 @@ type minPlateDecreaseDifferences struct {
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateDecreaseRoundingFloor)
 	bounds    minPlateDecreaseBox
+	model     minPlateDecreaseResidualModel // a residual objective's residuals and Jacobian products (minPlateDecreaseResidualModel for any other)
 }
+
+// minPlateDecreaseResidualModel is minPlateDecreaseResidualModel for any other objective: nothing.
+type minPlateDecreaseResidualModel struct{}
 
 // minPlateDecreaseDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -628,6 +632,11 @@ const (
 	minPlateDecreaseVerifyPass    // a difference gradient passed the test
 	minPlateDecreaseVerifyStall   // no step makes progress
 )
+
+// minPlateDecreaseValue calls the objective; a combined one also writes ∇f(x) into g.
+func minPlateDecreaseValue(x, g *[2]float32, diffs *minPlateDecreaseDifferences) float32 {
+	return Plate(x)
+}
 
 // minPlateDecreaseFiniteVec reports whether every component of x is finite.
 func minPlateDecreaseFiniteVec(x *[2]float32) bool {
@@ -1030,7 +1039,12 @@ func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
 func minPlateDecreaseCurvaturePair(s, y, x *[2]float32, b *minPlateDecreaseBox) {}
 
 // minPlateDecreaseSearchDirection is the direction's own.
-func minPlateDecreaseSearchDirection(dir *minPlateDecreaseDirection, x, g, d *[2]float32, b *minPlateDecreaseBox) {
+func minPlateDecreaseSearchDirection(dir *minPlateDecreaseDirection, x, g, d *[2]float32, diffs *minPlateDecreaseDifferences) {
+	minPlateDecreaseSolveDirection(dir, g, d, diffs)
+}
+
+// minPlateDecreaseSolveDirection is the direction's own rule, from its memory.
+func minPlateDecreaseSolveDirection(dir *minPlateDecreaseDirection, g, d *[2]float32, diffs *minPlateDecreaseDifferences) {
 	dir.compute(g, d)
 }
 
@@ -1074,7 +1088,7 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slo
 			return minPlateDecreaseLineResult{calls: trial, end: minPlateDecreaseSearchOutOfBudget}
 		}
 		minPlateDecreaseTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := Plate(xt)
+		ft := minPlateDecreaseValue(xt, gt, diffs)
 		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope, x, xt, g) {
 			return minPlateDecreaseLineResult{step: t, value: ft, calls: trial + 1, end: minPlateDecreaseSearchAccepted}
 		}

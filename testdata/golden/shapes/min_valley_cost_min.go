@@ -354,7 +354,7 @@ func (r *minValleyCostDescent) begin(recv *Valley) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(&r.x, &r.g) // a combined objective writes ∇f(x) into g
+	r.fx = minValleyCostValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minValleyCostFinite(r.fx) || !minValleyCostFiniteVec(&r.x) {
 		r.out.status = MinValleyCostNonFiniteStart
@@ -455,11 +455,11 @@ func (r *minValleyCostDescent) judge(recv *Valley) {
 // the gradient at the new point; it leaves minValleyCostStageJudge next when the run
 // goes on.
 func (r *minValleyCostDescent) search(recv *Valley) {
-	minValleyCostSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minValleyCostSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minValleyCostDot(&r.g, &r.d)
 	if !(now < 0) || !minValleyCostFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minValleyCostSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minValleyCostSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minValleyCostDot(&r.g, &r.d)
 	}
 	first := float64(minValleyCostStepInitial)
@@ -547,7 +547,11 @@ type minValleyCostDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see roundingFloor)
 	bounds    minValleyCostBox
+	model     minValleyCostResidualModel // a residual objective's residuals and Jacobian products (minValleyCostResidualModel for any other)
 }
+
+// minValleyCostResidualModel is minValleyCostResidualModel for any other objective: nothing.
+type minValleyCostResidualModel struct{}
 
 // minValleyCostDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	minValleyCostVerifyPass    // a difference gradient passed the test
 	minValleyCostVerifyStall   // no step makes progress
 )
+
+// minValleyCostValue calls the objective; a combined one also writes ∇f(x) into g.
+func minValleyCostValue(recv *Valley, x, g *[2]float64, diffs *minValleyCostDifferences) float64 {
+	return recv.Cost(x, g)
+}
 
 // minValleyCostFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -846,7 +855,12 @@ func minValleyCostStepWithin(s, x *[2]float64, tol float64) bool {
 func minValleyCostCurvaturePair(s, y, x *[2]float64, b *minValleyCostBox) {}
 
 // minValleyCostSearchDirection is the direction's own.
-func minValleyCostSearchDirection(dir *minValleyCostDirection, x, g, d *[2]float64, b *minValleyCostBox) {
+func minValleyCostSearchDirection(dir *minValleyCostDirection, x, g, d *[2]float64, diffs *minValleyCostDifferences) {
+	minValleyCostSolveDirection(dir, g, d, diffs)
+}
+
+// minValleyCostSolveDirection is the direction's own rule, from its memory.
+func minValleyCostSolveDirection(dir *minValleyCostDirection, g, d *[2]float64, diffs *minValleyCostDifferences) {
 	dir.compute(g, d)
 }
 
@@ -881,7 +895,7 @@ func minValleyCostLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]f
 			return minValleyCostLineResult{calls: trial, end: minValleyCostSearchOutOfBudget}
 		}
 		minValleyCostTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt, gt)
+		ft := minValleyCostValue(recv, xt, gt, diffs)
 		if minValleyCostFinite(ft) && minValleyCostAcceptable(fx, ft, t, slope, x, xt, g) {
 			return minValleyCostLineResult{step: t, value: ft, calls: trial + 1, end: minValleyCostSearchAccepted}
 		}

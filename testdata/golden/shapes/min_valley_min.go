@@ -355,7 +355,7 @@ func (r *minValleyDescent) begin(recv *Valley) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Depth(r.x) // a combined objective writes ∇f(x) into g
+	r.fx = minValleyValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minValleyFinite(r.fx) || !minValleyFiniteVec(&r.x) {
 		r.out.status = MinValleyNonFiniteStart
@@ -456,11 +456,11 @@ func (r *minValleyDescent) judge(recv *Valley) {
 // the gradient at the new point; it leaves minValleyStageJudge next when the run
 // goes on.
 func (r *minValleyDescent) search(recv *Valley) {
-	minValleySearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minValleySearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minValleyDot(&r.g, &r.d)
 	if !(now < 0) || !minValleyFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minValleySearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minValleySearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minValleyDot(&r.g, &r.d)
 	}
 	first := float64(minValleyStepInitial)
@@ -548,7 +548,11 @@ type minValleyDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see minValleyRoundingFloor)
 	bounds    minValleyBox
+	model     minValleyResidualModel // a residual objective's residuals and Jacobian products (minValleyResidualModel for any other)
 }
+
+// minValleyResidualModel is minValleyResidualModel for any other objective: nothing.
+type minValleyResidualModel struct{}
 
 // minValleyDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last minValleyLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	minValleyVerifyPass    // a difference gradient passed the test
 	minValleyVerifyStall   // no step makes progress
 )
+
+// minValleyValue calls the objective; a combined one also writes ∇f(x) into g.
+func minValleyValue(recv *Valley, x, g *[2]float64, diffs *minValleyDifferences) float64 {
+	return recv.Depth(*x)
+}
 
 // minValleyFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -918,7 +927,12 @@ func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
 func minValleyCurvaturePair(s, y, x *[2]float64, b *minValleyBox) {}
 
 // minValleySearchDirection is the direction's own.
-func minValleySearchDirection(dir *minValleyDirection, x, g, d *[2]float64, b *minValleyBox) {
+func minValleySearchDirection(dir *minValleyDirection, x, g, d *[2]float64, diffs *minValleyDifferences) {
+	minValleySolveDirection(dir, g, d, diffs)
+}
+
+// minValleySolveDirection is the direction's own rule, from its memory.
+func minValleySolveDirection(dir *minValleyDirection, g, d *[2]float64, diffs *minValleyDifferences) {
 	dir.compute(g, d)
 }
 
@@ -988,7 +1002,7 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float
 			return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 		}
 		minValleyTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := minValleyLinePoint{step: t, value: recv.Depth(*xt)}
+		current := minValleyLinePoint{step: t, value: minValleyValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !minValleyFinite(current.value) || current.value > fx+minValleyStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

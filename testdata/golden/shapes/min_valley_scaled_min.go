@@ -408,7 +408,7 @@ func (r *minValleyScaledDescent) begin(recv *Valley) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = minValleyScaledValueAt(recv, &r.x) // a combined objective writes ∇f(x) into g
+	r.fx = minValleyScaledValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minValleyScaledFinite(r.fx) || !minValleyScaledFiniteVec(&r.x) {
 		r.out.status = MinValleyScaledNonFiniteStart
@@ -509,11 +509,11 @@ func (r *minValleyScaledDescent) judge(recv *Valley) {
 // the gradient at the new point; it leaves minValleyScaledStageJudge next when the run
 // goes on.
 func (r *minValleyScaledDescent) search(recv *Valley) {
-	minValleyScaledSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minValleyScaledSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minValleyScaledDot(&r.g, &r.d)
 	if !(now < 0) || !minValleyScaledFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minValleyScaledSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minValleyScaledSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minValleyScaledDot(&r.g, &r.d)
 	}
 	first := float64(minValleyScaledStepInitial)
@@ -601,7 +601,11 @@ type minValleyScaledDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see minValleyScaledRoundingFloor)
 	bounds    minValleyScaledBox
+	model     minValleyScaledResidualModel // a residual objective's residuals and Jacobian products (minValleyScaledResidualModel for any other)
 }
+
+// minValleyScaledResidualModel is minValleyScaledResidualModel for any other objective: nothing.
+type minValleyScaledResidualModel struct{}
 
 // minValleyScaledDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -731,6 +735,11 @@ const (
 	minValleyScaledVerifyPass    // a difference gradient passed the test
 	minValleyScaledVerifyStall   // no step makes progress
 )
+
+// minValleyScaledValue calls the objective; a combined one also writes ∇f(x) into g.
+func minValleyScaledValue(recv *Valley, x, g *[2]float64, diffs *minValleyScaledDifferences) float64 {
+	return minValleyScaledValueAt(recv, x)
+}
 
 // minValleyScaledFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1008,7 +1017,8 @@ func minValleyScaledCurvaturePair(s, y, x *[2]float64, b *minValleyScaledBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]float64, b *minValleyScaledBox) {
+func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]float64, diffs *minValleyScaledDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = minValleyScaledLarger(reach, minValleyScaledAbs(x[i]-minValleyScaledClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1025,7 +1035,7 @@ func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]f
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	minValleyScaledSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1034,6 +1044,11 @@ func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]f
 			d[i] = 0
 		}
 	}
+}
+
+// minValleyScaledSolveDirection is the direction's own rule, from its memory.
+func minValleyScaledSolveDirection(dir *minValleyScaledDirection, g, d *[2]float64, diffs *minValleyScaledDifferences) {
+	dir.compute(g, d)
 }
 
 // minValleyScaledTinyStep returns the longest t for which the step t·d from x passes the
@@ -1102,7 +1117,7 @@ func minValleyScaledLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2
 			return minValleyScaledLineResult{calls: calls, end: minValleyScaledSearchOutOfBudget}
 		}
 		minValleyScaledTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := minValleyScaledLinePoint{step: t, value: minValleyScaledValueAt(recv, xt)}
+		current := minValleyScaledLinePoint{step: t, value: minValleyScaledValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !minValleyScaledFinite(current.value) || current.value > fx+minValleyScaledStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -352,7 +352,7 @@ func (r *minPlateDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plate(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = minPlateValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !minPlateFinite(r.fx) || !minPlateFiniteVec(&r.x) {
 		r.out.status = MinPlateNonFiniteStart
@@ -453,11 +453,11 @@ func (r *minPlateDescent) judge() {
 // the gradient at the new point; it leaves minPlateStageJudge next when the run
 // goes on.
 func (r *minPlateDescent) search() {
-	minPlateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	minPlateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minPlateDot(&r.g, &r.d)
 	if !(now < 0) || !minPlateFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		minPlateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		minPlateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minPlateDot(&r.g, &r.d)
 	}
 	first := float32(minPlateStepInitial)
@@ -545,7 +545,11 @@ type minPlateDifferences struct {
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateRoundingFloor)
 	bounds    minPlateBox
+	model     minPlateResidualModel // a residual objective's residuals and Jacobian products (minPlateResidualModel for any other)
 }
+
+// minPlateResidualModel is minPlateResidualModel for any other objective: nothing.
+type minPlateResidualModel struct{}
 
 // minPlateDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -627,6 +631,11 @@ const (
 	minPlateVerifyPass    // a difference gradient passed the test
 	minPlateVerifyStall   // no step makes progress
 )
+
+// minPlateValue calls the objective; a combined one also writes ∇f(x) into g.
+func minPlateValue(x, g *[2]float32, diffs *minPlateDifferences) float32 {
+	return Plate(x)
+}
 
 // minPlateFiniteVec reports whether every component of x is finite.
 func minPlateFiniteVec(x *[2]float32) bool {
@@ -850,7 +859,12 @@ func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
 func minPlateCurvaturePair(s, y, x *[2]float32, b *minPlateBox) {}
 
 // minPlateSearchDirection is the direction's own.
-func minPlateSearchDirection(dir *minPlateDirection, x, g, d *[2]float32, b *minPlateBox) {
+func minPlateSearchDirection(dir *minPlateDirection, x, g, d *[2]float32, diffs *minPlateDifferences) {
+	minPlateSolveDirection(dir, g, d, diffs)
+}
+
+// minPlateSolveDirection is the direction's own rule, from its memory.
+func minPlateSolveDirection(dir *minPlateDirection, g, d *[2]float32, diffs *minPlateDifferences) {
 	dir.compute(g, d)
 }
 
@@ -887,7 +901,7 @@ func minPlateLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, firs
 		return minPlateLineResult{end: minPlateSearchOutOfBudget}
 	}
 	minPlateTrialPoint(xt, x, minPlateStepInitial, d, &diffs.bounds)
-	ft := Plate(xt)
+	ft := minPlateValue(xt, gt, diffs)
 	if !minPlateFinite(ft) {
 		return minPlateLineResult{calls: 1, end: minPlateSearchDiverged}
 	}

@@ -1,0 +1,24 @@
+package rules
+
+// Residuals is an objective that writes residuals r(x) ∈ ℝᴹ instead of
+// returning a value: func(x *[N]T, r *[M]T), func(x [N]T, r *[M]T) or
+// func(x, r []T) (with the spec's residuals = M), each also as a method.
+// The function minimized is f = ½‖r‖², its gradient Jᵀr; the Jacobian J
+// comes from the user (derivative = "analytic", spec key jacobian) or
+// from differences of the residuals. Its signature turns the feature on;
+// its On picks override the derivative entry's, and the entry's
+// ResidualPicks choose the Jacobian.
+var Residuals = &Feature{
+	Summary: "the objective writes residuals r(x) ∈ ℝᴹ and f = ½‖r‖² is minimized; the gradient is Jᵀr from the Jacobian J, which the least-squares directions also use (JᵀJ, the Gauss–Newton model of the Hessian)",
+	Math: "f = ½Σrᵢ², g = Jᵀr, one residual call per value; J analytic (by rows, or by columns with jacobian_layout = \"columns\"), or forward (dim calls, hⱼ = √u·max(1,|xⱼ|)) or central (2·dim calls, hⱼ = ∛u·max(1,|xⱼ|)) differences of the residuals; " +
+		"error bound of g from the differences' order (√u or u^(2/3) times |r|·(|J| + |r|/max(1,|x|))); at a stall the rounding floor 4u|xᵢ|(JᵀJ)ᵢᵢ",
+	References: []string{NocedalWright + ", §10.1–10.3 (eqs. 10.3–10.4) and §8.1 (difference intervals)",
+		"G. A. F. Seber and C. J. Wild, Nonlinear Regression, Wiley, 1989, §2.1 and §5.1 (the covariance s²(JᵀJ)⁻¹)"},
+	Off: Picks{"value": "plainValue", "residualModel": "noStructure"},
+	On: Picks{"value": "squaresValue", "derivative": "residualGradient", "calibrate": "calibrateNothing",
+		"gradientError": "residualError", "settle": "settleResiduals"},
+}
+
+// JacobianColumns picks the transposed analytic Jacobian, written by
+// columns (jacobian_layout = "columns"), over the Analytic entry's rows.
+var JacobianColumns = Picks{"jacobian": "columnsJacobian"}
