@@ -136,6 +136,9 @@ func renderGlue(p *Plan, kernels *specializedKernels) ([]byte, error) {
 	emitEntry(f, p, kernels.entryName)
 	emitScaling(f, p)
 	emitSolver(f, p, kernels.stateName)
+	if kernels.uncertaintyName != "" {
+		emitUncertainty(f, p, kernels.uncertaintyName)
+	}
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
 	if err := f.Render(&buf); err != nil {
@@ -591,6 +594,9 @@ func entryDoc(p *Plan) []string {
 	perGradient := ""
 	if cost := p.GradientCalls(); cost > 0 {
 		perGradient = fmt.Sprintf(", %d of them per gradient and %d per choice of the difference intervals (at the start and before each convergence is confirmed)", cost, p.CalibrationCalls())
+		if p.Shape.Residuals > 0 {
+			perGradient = fmt.Sprintf(", %d of them per Jacobian", cost)
+		}
 	}
 	if p.Shape.Combined {
 		perGradient = fmt.Sprintf(", each giving the value and the gradient, %d of them for the curvature probes of a stall", p.Dim)
@@ -610,6 +616,9 @@ func entryDoc(p *Plan) []string {
 func derivativeLine(p *Plan) string {
 	if p.Shape.Combined {
 		return fmt.Sprintf("Derivative %s, from the objective itself: %s.", p.Derivative.Name, rules.Combined.Summary)
+	}
+	if p.Shape.Residuals > 0 {
+		return fmt.Sprintf("Residual objective: %d residuals, f = ½‖r‖², each objective call one call of %s. Derivative %s: %s.", p.Shape.Residuals, p.Shape.Objective, p.Derivative.Name, p.Derivative.ResidualSummary)
 	}
 	return fmt.Sprintf("Derivative %s: %s.", p.Derivative.Name, p.Derivative.Summary)
 }
@@ -638,3 +647,38 @@ func emitTunables(f *jen.File, p *Plan, uses map[string]bool) {
 	f.Commentf("Tunables of %s from %s; the kernels below read them.", p.M.Name, p.SpecName)
 	f.Const().Defs(defs...)
 }
+
+// emitUncertainty writes, for a residual objective, the parameter
+// covariance of a fit and its entry point:
+//
+//	type NAMEUncertainty struct { Covariance [N][N]T; StandardErrors [N]T; … }
+//	func NAMEUncertaintyAt([recv R,] x [N]T) NAMEUncertainty
+func emitUncertainty(f *jen.File, p *Plan, kernel string) {
+	name := p.M.Name
+	s := p.Shape
+	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
+	cost := 1 + p.GradientCalls()
+	f.Commentf("%sUncertainty is the uncertainty of a least-squares fit at X: the parameter covariance estimate s²(JᵀJ)⁻¹, s² = ‖r(X)‖²/(M − N), with M = %d residuals and N = %d unknowns, and the standard errors (Seber & Wild, Nonlinear Regression, 1989, §2.1 and §5.1; the estimate NIST's certified standard deviations use). It assumes the residuals' errors are independent with equal variance, and a model close to linear within a few standard errors of X; it means something only at a minimizer (check Status.Converged() first).", name, s.Residuals, s.Dim)
+	f.Type().Id(name + "Uncertainty").Struct(
+		jen.Id("Covariance").Index(jen.Lit(s.Dim)).Add(vec.Clone()).Comment("s²(JᵀJ)⁻¹"),
+		jen.Id("StandardErrors").Add(vec.Clone()).Comment("√Covarianceᵢᵢ, each unknown's standard error"),
+		jen.Id("ResidualVariance").Id(s.Elem).Comment("s² = ‖r‖²/(M − N)"),
+		jen.Id("DegreesOfFreedom").Int().Comment("M − N"),
+		jen.Id("Evaluations").Int().Comment("objective calls spent: one, plus the Jacobian's differences"),
+		jen.Id("Valid").Bool().Comment("false when M ≤ N, when JᵀJ is singular to working precision, or when a value is not finite"),
+	)
+	params := append(receiverParam(p), jen.Id("x").Add(vec.Clone()))
+	f.Commentf("%sUncertaintyAt computes %sUncertainty at x, usually Result.X of a converged run, with the spec's Jacobian source: %d objective calls at most. It allocates nothing.", name, name, cost)
+	f.Func().Id(name+"UncertaintyAt").Params(params...).Id(name+"Uncertainty").Block(
+		jen.List(jen.Id("cov"), jen.Id("stdErr"), jen.Id("variance"), jen.Id("calls"), jen.Id("ok")).Op(":=").Id(kernel).Call(append(kernelRecv(p), jen.Id("x"), kernelBoxValue(p))...),
+		jen.Return(jen.Id(name+"Uncertainty").Values(jen.Dict{
+			jen.Id("Covariance"):       jen.Id("cov"),
+			jen.Id("StandardErrors"):   jen.Id("stdErr"),
+			jen.Id("ResidualVariance"): jen.Id("variance"),
+			jen.Id("DegreesOfFreedom"): jen.Lit(s.Residuals - s.Dim),
+			jen.Id("Evaluations"):      jen.Id("calls"),
+			jen.Id("Valid"):            jen.Id("ok"),
+		})),
+	)
+}
+

@@ -145,6 +145,9 @@ func EmitTests(w io.Writer, p *Plan) error {
 	if p.Derivative == rules.Analytic {
 		emitGradientCheck(f, p, helper, setup)
 	}
+	if p.Shape.Residuals > 0 {
+		emitUncertaintyTest(f, p, helper, setup, call)
+	}
 
 	emitSolverTests(f, p, helper, setup)
 
@@ -271,6 +274,9 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	}
 	gradientName := s.Gradient
 	switch {
+	case s.Residuals > 0:
+		gradientName = "Jᵀr, the gradient of ½‖r‖² from " + s.Jacobian + " and " + s.Objective + ","
+		gradBody = residualGradientBody(p, recvPrefix)
 	case s.Combined:
 		// A combined objective writes the gradient through g: value
 		// discards it, gradient discards the value.
@@ -297,6 +303,9 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	}
 	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
 	valueBody := []jen.Code{jen.Return(recvPrefix(s.Objective).Call(valueArg...))}
+	if s.Residuals > 0 {
+		valueBody = halfSquaresBody(p, recvPrefix)
+	}
 	if s.Combined {
 		valueBody = []jen.Code{jen.Var().Id("g").Add(vec.Clone()), valueBody[0]}
 	}
@@ -431,3 +440,90 @@ func scaleComparison(p *Plan) jen.Code {
 	}
 	return jen.List(jen.Id("exact"), jen.Id("approx")).Op("=").List(jen.Id("exact").Op("*").Id("sc").Index(jen.Id("i")), jen.Id("approx").Op("*").Id("sc").Index(jen.Id("i")))
 }
+
+// residualArgs are the arguments of a residual objective's call (or its
+// Jacobian's) on the local array x, writing into the local out.
+func residualArgs(s Shape, out string) []jen.Code {
+	switch s.Arg {
+	case ArgArray:
+		return []jen.Code{jen.Id("x"), jen.Op("&").Id(out)}
+	case ArgSlice:
+		return []jen.Code{jen.Id("x").Index(jen.Op(":")), jen.Id(out).Index(jen.Op(":"))}
+	}
+	return []jen.Code{jen.Op("&").Id("x"), jen.Op("&").Id(out)}
+}
+
+// halfSquaresBody is the body of a func(x [N]T) T giving f = ½‖r(x)‖² of
+// a residual objective.
+func halfSquaresBody(p *Plan, callee func(string) *jen.Statement) []jen.Code {
+	s := p.Shape
+	return []jen.Code{
+		jen.Var().Id("r").Index(jen.Lit(s.Residuals)).Id(s.Elem),
+		callee(s.Objective).Call(residualArgs(s, "r")...),
+		jen.Var().Id("sum").Id(s.Elem),
+		jen.For(jen.List(jen.Id("_"), jen.Id("v")).Op(":=").Range().Id("r")).Block(jen.Id("sum").Op("+=").Id("v").Op("*").Id("v")),
+		jen.Return(jen.Id("sum").Op("/").Lit(2)),
+	}
+}
+
+// residualGradientBody is the body of a func(x [N]T) (g [N]T) giving
+// g = Jᵀr from the residual objective and its analytic Jacobian.
+func residualGradientBody(p *Plan, callee func(string) *jen.Statement) []jen.Code {
+	s := p.Shape
+	rows, cols := s.Residuals, s.Dim
+	entry := jen.Id("j").Index(jen.Id("k")).Index(jen.Id("i"))
+	if s.JacobianColumns {
+		rows, cols = s.Dim, s.Residuals
+		entry = jen.Id("j").Index(jen.Id("i")).Index(jen.Id("k"))
+	}
+	return []jen.Code{
+		jen.Var().Id("r").Index(jen.Lit(s.Residuals)).Id(s.Elem),
+		callee(s.Objective).Call(residualArgs(s, "r")...),
+		jen.Var().Id("j").Index(jen.Lit(rows)).Index(jen.Lit(cols)).Id(s.Elem),
+		callee(s.Jacobian).Call(residualArgs(s, "j")...),
+		jen.For(jen.Id("k").Op(":=").Range().Id("r")).Block(
+			jen.For(jen.Id("i").Op(":=").Range().Id("g")).Block(
+				jen.Id("g").Index(jen.Id("i")).Op("+=").Add(entry).Op("*").Id("r").Index(jen.Id("k")),
+			),
+		),
+	}
+}
+
+// emitUncertaintyTest writes, for a residual objective, a test that the
+// covariance at the run's end allocates nothing, stays within its calls,
+// and, with more residuals than unknowns, is valid: a positive variance
+// and positive, finite standard errors (an invalid one means JᵀJ is
+// singular there, the fit not identifiable).
+func emitUncertaintyTest(f *jen.File, p *Plan, helper string, setup func() []jen.Code, call func(bool) *jen.Statement) {
+	name := p.M.Name
+	var recvArg []jen.Code
+	if p.Shape.Receiver != "" {
+		recvArg = []jen.Code{jen.Id("recv")}
+	}
+	checks := []jen.Code{
+		jen.If(jen.Id("allocs").Op("!=").Lit(0)).Block(jen.Id("t").Dot("Errorf").Call(jen.Lit("%v allocations per call, want 0"), jen.Id("allocs"))),
+		jen.If(jen.Id("u").Dot("Evaluations").Op(">").Lit(1 + p.GradientCalls())).Block(jen.Id("t").Dot("Errorf").Call(jen.Lit("%d objective calls, want at most %d"), jen.Id("u").Dot("Evaluations"), jen.Lit(1+p.GradientCalls()))),
+	}
+	doc := ""
+	if p.Shape.Residuals > p.Dim {
+		doc = ", and with more residuals than unknowns that it is valid there, with a positive variance and positive finite standard errors (otherwise JᵀJ is singular at X and the fit does not determine every unknown)"
+		checks = append(checks,
+			jen.If(jen.Op("!").Id("u").Dot("Valid").Op("||").Op("!").Parens(jen.Id("u").Dot("ResidualVariance").Op(">=").Lit(0))).Block(
+				jen.Id("t").Dot("Fatalf").Call(jen.Lit("not valid at x = %v: variance %g, standard errors %v"), jen.Id("r").Dot("X"), jen.Id("u").Dot("ResidualVariance"), jen.Id("u").Dot("StandardErrors")),
+			),
+			jen.For(jen.List(jen.Id("i"), jen.Id("e")).Op(":=").Range().Id("u").Dot("StandardErrors")).Block(
+				jen.If(jen.Op("!").Parens(jen.Id("e").Op(">=").Lit(0)).Op("||").Qual("math", "IsInf").Call(jen.Float64().Call(jen.Id("e")), jen.Lit(0))).Block(
+					jen.Id("t").Dot("Errorf").Call(jen.Lit("standard error %d is %v"), jen.Id("i"), jen.Id("e")),
+				),
+			),
+		)
+	}
+	f.Commentf("Test%sUncertaintyAtTheFit computes %sUncertaintyAt where the run from start ends and checks that it allocates nothing and makes at most its %d objective calls%s.", name, name, 1+p.GradientCalls(), doc)
+	f.Func().Id("Test"+name+"UncertaintyAtTheFit").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+		append([]jen.Code{
+			jen.Id("r").Op(":=").Add(call(false)),
+			jen.Var().Id("u").Id(name + "Uncertainty"),
+			jen.Id("allocs").Op(":=").Qual("testing", "AllocsPerRun").Call(jen.Lit(10), jen.Func().Params().Block(jen.Id("u").Op("=").Id(name+"UncertaintyAt").Call(append(recvArg, jen.Id("r").Dot("X"))...))),
+		}, checks...)...)...)
+}
+

@@ -284,7 +284,7 @@ func (lp *loadedPackage) position(p token.Pos) Pos {
 	return Pos{File: displayPath(position.Filename), Line: position.Line, Col: position.Column}
 }
 
-const acceptedObjectives = `accepted forms, T float32 or float64: func(x T) T, func(x [N]T) T, func(x *[N]T) T, func(x []T) T (with dim), each also as a method; ` + combinedObjectives
+const acceptedObjectives = `accepted forms, T float32 or float64: func(x T) T, func(x [N]T) T, func(x *[N]T) T, func(x []T) T (with dim), each also as a method; ` + combinedObjectives + `; ` + residualObjectives
 
 // combinedObjectives are the forms of an objective that writes its
 // gradient through g while computing its value.
@@ -323,10 +323,13 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 		probs.add(ix.key(m.keyPrefix+".dim"), "dim is only for objectives that take a slice; %s fixes the dimension at %d", m.Objective, shape.Dim)
 	}
 
+	lp.resolveResiduals(m, &shape, sig, recvType, at, ix, probs)
 	if shape.Dim > 0 {
 		checkStackSize(m, shape, ix, probs)
 	}
-	lp.resolveDerivative(m, &shape, sig, recvType, at, ix, probs)
+	if shape.Residuals == 0 && !shape.ResidualSlice {
+		lp.resolveDerivative(m, &shape, sig, recvType, at, ix, probs)
+	}
 	lp.resolveInstance(m, &shape, recvType, at, ix, probs)
 
 	start, scalar, ok := numbers(m.start)
@@ -357,6 +360,9 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 	}
 	if m.bounds != nil && len(*probs) == before {
 		resolveBounds(m, shape, at, probs)
+	}
+	if m.scale != nil && shape.Residuals > 0 {
+		probs.add(at("scale"), "scale is not for residual objectives: the least-squares directions are invariant to the unknowns' scale (Gauss–Newton by construction, Levenberg–Marquardt through its scaling D, Moré 1978), and the relative gradient test already weighs each unknown by max(|xᵢ|, 1)")
 	}
 	if m.scale != nil && len(*probs) == before {
 		resolveScale(m, shape, at, probs)
@@ -629,6 +635,9 @@ func pointerTo(t types.Type) types.Type {
 // slice.
 func (lp *loadedPackage) objectiveShape(sig *types.Signature, shape *Shape) bool {
 	n := sig.Params().Len()
+	if n == 2 && sig.Results().Len() == 0 && !sig.Variadic() && sig.TypeParams().Len() == 0 {
+		return residualShape(sig, shape)
+	}
 	if n < 1 || n > 2 || sig.Results().Len() != 1 || sig.Variadic() || sig.TypeParams().Len() > 0 {
 		return false
 	}
@@ -664,6 +673,145 @@ func (lp *loadedPackage) objectiveShape(sig *types.Signature, shape *Shape) bool
 		p := pointerTo(g)
 		return p != nil && arrayOf(p, elem) == shape.Dim
 	}
+}
+
+// residualShape matches a residual objective, func(x, r) with no result:
+// x *[N]T, [N]T or []T and r *[M]T, or r []T when x is a slice (M from
+// the spec's residuals key). T comes from r.
+func residualShape(sig *types.Signature, shape *Shape) bool {
+	x, r := sig.Params().At(0).Type(), sig.Params().At(1).Type()
+	var elem string
+	if p := pointerTo(r); p != nil {
+		if a, ok := types.Unalias(p).(*types.Array); ok {
+			elem = floatKind(types.Unalias(a.Elem()))
+			shape.Residuals = int(a.Len())
+		}
+	} else if s, ok := types.Unalias(r).(*types.Slice); ok {
+		elem = floatKind(types.Unalias(s.Elem()))
+		shape.ResidualSlice = true
+	}
+	if elem == "" {
+		return false
+	}
+	shape.Elem = elem
+	switch {
+	case arrayOf(x, elem) > 0 && !shape.ResidualSlice:
+		shape.Arg, shape.Dim = ArgArray, arrayOf(x, elem)
+	case pointerTo(x) != nil && arrayOf(pointerTo(x), elem) > 0 && !shape.ResidualSlice:
+		shape.Arg, shape.Dim = ArgPointer, arrayOf(pointerTo(x), elem)
+	case sliceOf(x, elem) && shape.ResidualSlice:
+		shape.Arg = ArgSlice
+	default:
+		return false
+	}
+	return shape.Residuals > 0 || shape.ResidualSlice
+}
+
+// residualObjectives are the forms of a residual objective.
+const residualObjectives = `residual objectives, f = ½‖r‖²: func(x *[N]T, r *[M]T), func(x [N]T, r *[M]T), func(x, r []T) (with dim and residuals)`
+
+// acceptedJacobians are the forms of a residual objective's Jacobian.
+const acceptedJacobians = `accepted Jacobian forms: func(x *[N]T, J *[M][N]T) by rows, J[i][j] = ∂rᵢ/∂xⱼ, or func(x *[N]T, J *[N][M]T) by columns (rows when M = N), x as the objective takes it ([N]T or *[N]T); a method on the objective's receiver type when the objective is a method`
+
+// resolveResiduals checks what depends on the objective being residuals
+// or not: the residuals and jacobian keys, the least-squares directions,
+// and a residual objective's defaults (levenberg-marquardt with its
+// damping rule when the spec names no direction).
+func (lp *loadedPackage) resolveResiduals(m *Minimizer, shape *Shape, sig *types.Signature, recvType *types.Named, at func(string) Pos, ix *positions, probs *Problems) {
+	if shape.Residuals == 0 && !shape.ResidualSlice {
+		if m.Residuals != 0 {
+			probs.add(ix.key(m.keyPrefix+".residuals"), "residuals is only for residual objectives that take slices; %s returns its value", m.Objective)
+		}
+		if m.Jacobian != "" {
+			probs.add(ix.key(m.keyPrefix+".jacobian"), "jacobian is only for residual objectives (%s); %s returns its value, so name its gradient with the gradient key", residualObjectives, m.Objective)
+		}
+		if m.Direction != nil && m.Direction.Residual {
+			probs.add(at("direction"), "direction %q needs a residual objective (%s); %s returns its value: use a residual form, or direction \"bfgs\"", m.Direction.Name, residualObjectives, m.Objective)
+		}
+		return
+	}
+	switch {
+	case shape.ResidualSlice && m.Residuals == 0:
+		probs.add(at("objective"), "objective %s writes its residuals into a slice: set residuals to their number", m.Objective)
+	case shape.ResidualSlice:
+		shape.Residuals = m.Residuals
+	case m.Residuals != 0 && m.Residuals != shape.Residuals:
+		probs.add(at("residuals"), "residuals is %d, but %s writes %d (%s)", m.Residuals, m.Objective, shape.Residuals, signatureText(sig))
+	}
+	if !m.DirectionGiven && !m.RuleGiven {
+		m.Direction, m.Rule = rules.LevenbergMarquardt, rules.LevenbergMarquardt.DefaultRule
+		for q := range m.Given {
+			if c := resolveContext(m, shape.Elem, max(shape.Dim, 1)); !c.Reads(q) {
+				probs.add(ix.key(m.keyPrefix+"."+q.Path()), "%s is not used by the residual objective's default, direction \"levenberg-marquardt\" with step.rule \"damping\"", q.Path())
+			}
+		}
+	}
+	if m.Gradient != "" {
+		probs.add(ix.key(m.keyPrefix+".gradient"), "objective %s writes residuals, whose gradient Jᵀr comes from their Jacobian: name it with the jacobian key instead of gradient", m.Objective)
+	}
+	if m.Derivative == rules.Analytic {
+		if m.Jacobian == "" {
+			probs.add(at("derivative"), "derivative = \"analytic\" needs a jacobian key naming the residuals' Jacobian (%s)", acceptedJacobians)
+			return
+		}
+		lp.resolveJacobian(m, shape, recvType, at("jacobian"), probs)
+	}
+}
+
+// resolveJacobian finds the analytic Jacobian and checks its form
+// against the objective's shape.
+func (lp *loadedPackage) resolveJacobian(m *Minimizer, shape *Shape, recvType *types.Named, pos Pos, probs *Problems) {
+	fn, jacRecv := lp.lookupFunc(m.Jacobian, recvType, pos, "jacobian", probs)
+	if fn == nil {
+		return
+	}
+	if (jacRecv == nil) != (recvType == nil) {
+		if recvType != nil {
+			probs.add(pos, "jacobian %s must be a method of %s, like the objective", m.Jacobian, recvType.Obj().Name())
+		} else {
+			probs.add(pos, "jacobian %s must be a plain function, like the objective", m.Jacobian)
+		}
+		return
+	}
+	sig := fn.Type().(*types.Signature)
+	elem, n, mres := shape.Elem, shape.Dim, shape.Residuals
+	matrix := func(t types.Type, rows, cols int) bool {
+		p := pointerTo(t)
+		if p == nil {
+			return false
+		}
+		a, ok := types.Unalias(p).(*types.Array)
+		return ok && int(a.Len()) == rows && arrayOf(a.Elem(), elem) == cols
+	}
+	ok := !sig.Variadic() && sig.TypeParams().Len() == 0 && sig.Params().Len() == 2 && sig.Results().Len() == 0 && !shape.ResidualSlice
+	if ok {
+		x := sig.Params().At(0).Type()
+		switch shape.Arg {
+		case ArgPointer:
+			ok = pointerTo(x) != nil && arrayOf(pointerTo(x), elem) == n
+		default:
+			ok = arrayOf(x, elem) == n
+		}
+	}
+	if ok {
+		j := sig.Params().At(1).Type()
+		switch {
+		case matrix(j, mres, n):
+		case matrix(j, n, mres):
+			shape.JacobianColumns = true
+		default:
+			ok = false
+		}
+	}
+	if !ok {
+		if shape.ResidualSlice {
+			probs.add(pos, "jacobian %s: an objective that writes its residuals into a slice takes no analytic Jacobian here; use derivative = \"central\" or \"forward\", or array forms (%s)", m.Jacobian, residualObjectives)
+			return
+		}
+		probs.add(lp.position(fn.Pos()), "jacobian %s has signature %s, which does not fit %d residuals of %d unknowns of %s; %s", m.Jacobian, signatureText(sig), mres, n, elem, acceptedJacobians)
+		return
+	}
+	shape.Jacobian = fn.Name()
 }
 
 // resolveDerivative checks the derivative source against the objective:
@@ -805,6 +953,10 @@ func checkStackSize(m *Minimizer, shape Shape, ix *positions, probs *Problems) {
 	vector := shape.Dim*size + 64
 	if vector > maxStackVariable {
 		probs.add(ix.value(m.keyPrefix+".objective"), "%d unknowns of %s (%d bytes a vector) exceed the %d bytes Go keeps on the stack: the minimizer would allocate", shape.Dim, shape.Elem, vector, maxStackVariable)
+		return
+	}
+	if jac := shape.Residuals * vector; jac > maxStackVariable {
+		probs.add(ix.value(m.keyPrefix+".objective"), "%d residuals of %d unknowns of %s (%d bytes the Jacobian) exceed the %d bytes Go keeps on the stack: the minimizer would allocate", shape.Residuals, shape.Dim, shape.Elem, jac, maxStackVariable)
 		return
 	}
 	for _, e := range ctx.Entries() {

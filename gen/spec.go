@@ -35,12 +35,17 @@ type Minimizer struct {
 	Name      string
 	Objective string
 	Gradient  string
+	Jacobian  string // the analytic Jacobian of a residual objective
 	Instance  string
 	Output    string // file name beside the objective
 	Dim       int    // 0 when the spec leaves it out
+	Residuals int    // M of a residual objective that takes a slice; 0 when the spec leaves it out
 
 	// The chosen entries; nil when the spec names an unknown one.
 	Derivative, Direction, Rule, Test *rules.Entry
+	// DirectionGiven and RuleGiven say the spec names them: a residual
+	// objective's defaults differ (see resolveResiduals).
+	DirectionGiven, RuleGiven bool
 	// Given holds the parameter values the spec sets.
 	Given map[*rules.Param]float64
 
@@ -76,7 +81,7 @@ type Expect struct {
 // structuralKeys are the keys of a [[minimizer]] table that the registry
 // does not describe: they name things in the user's package and shape the
 // generated code, and spec.go validates each itself.
-var structuralKeys = []string{"name", "objective", "gradient", "start", "scale", "dim", "instance", "output"}
+var structuralKeys = []string{"name", "objective", "gradient", "jacobian", "start", "scale", "dim", "residuals", "instance", "output"}
 
 // subtables are the tables a [[minimizer]] may hold, with their fixed
 // keys; the registry adds the choices and parameters of "step" and "stop".
@@ -362,13 +367,53 @@ func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 		} else if _, present := tables[c.Table][c.Key]; present {
 			e = nil // of the wrong type, already reported
 		}
+		if _, present := tables[c.Table][c.Key]; present {
+			m.DirectionGiven = m.DirectionGiven || c == rules.Direction
+			m.RuleGiven = m.RuleGiven || c == rules.StepRule
+		}
 		chosen[c] = e
 	}
 	m.Derivative, m.Direction, m.Rule, m.Test = chosen[rules.Derivative], chosen[rules.Direction], chosen[rules.StepRule], chosen[rules.GradientTest]
+	if m.Rule != nil && m.Rule.Exclusive && !m.DirectionGiven {
+		m.Direction = pairedWith(m.Rule)[0] // the direction the rule goes with (damping: levenberg-marquardt)
+	}
 	if m.Direction != nil && m.Rule != nil && m.Direction.NeedsCurvature && !m.Rule.Curvature {
 		r.add(r.ix.value(key+".step.rule"), "direction %q needs a step rule with a curvature condition: with %q its directions need not descend (Nocedal & Wright 2006, §5.2); use step.rule = %q", m.Direction.Name, m.Rule.Name, m.Direction.DefaultRule.Name)
 	}
+	if d, rule := m.Direction, m.Rule; d != nil && rule != nil && !rules.Suits(d, rule) {
+		where := r.ix.value(key + ".step.rule")
+		if !m.RuleGiven {
+			where = r.ix.value(key + ".direction")
+		}
+		switch {
+		case d.Pairs != nil:
+			r.add(where, "direction %q goes only with step.rule %s: %s", d.Name, quoteJoin(entryNames(d.Pairs), " or "), d.PairsWhy)
+		default:
+			owners := pairedWith(rule)
+			r.add(where, "step.rule %q goes only with direction %s: %s", rule.Name, quoteJoin(entryNames(owners), " or "), owners[0].PairsWhy)
+		}
+	}
 	r.params(m, tables, key)
+
+	jacobian, hasJacobian := r.text(table, key, "jacobian")
+	m.Jacobian = jacobian
+	switch {
+	case m.Derivative == nil:
+	case m.Derivative != rules.Analytic && table["jacobian"] != nil:
+		r.add(r.ix.key(key+".jacobian"), "jacobian is only used with derivative = \"analytic\" (derivative is %q)", m.Derivative.Name)
+	case hasJacobian && !validReference(jacobian):
+		r.add(at("jacobian"), "jacobian %q is not \"Func\" or \"Type.Method\"", jacobian)
+	}
+	if v, ok := table["residuals"]; ok {
+		switch n, isInt := v.(int64); {
+		case !isInt:
+			r.wrongType(key+".residuals", "a whole number", v)
+		case n < 1 || n > 1<<16:
+			r.add(at("residuals"), "residuals must be between 1 and 65536, got %d", n)
+		default:
+			m.Residuals = int(n)
+		}
+	}
 
 	gradient, hasGradient := r.text(table, key, "gradient")
 	m.Gradient = gradient
@@ -703,3 +748,27 @@ func setOf(words string) map[string]bool {
 	}
 	return m
 }
+
+// entryNames lists the entries' names.
+func entryNames(entries []*rules.Entry) []string {
+	names := make([]string, len(entries))
+	for i, e := range entries {
+		names[i] = e.Name
+	}
+	return names
+}
+
+// pairedWith lists the directions that list the step rule among their
+// pairs.
+func pairedWith(rule *rules.Entry) []*rules.Entry {
+	var owners []*rules.Entry
+	for _, d := range rules.Direction.Entries {
+		for _, p := range d.Pairs {
+			if p == rule {
+				owners = append(owners, d)
+			}
+		}
+	}
+	return owners
+}
+

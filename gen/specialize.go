@@ -250,6 +250,9 @@ type specializedKernels struct {
 	usesMath  bool
 	entryName string // the generated name of minimize
 	stateName string // the generated name of descent, the resumable run
+	// uncertaintyName is the generated name of uncertainty, for a
+	// residual objective; "" otherwise.
+	uncertaintyName string
 }
 
 // Stand-ins of the templates that gen never copies: gen replaces them or
@@ -319,6 +322,13 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	out.entryName = newName[root]
 	visit(ks.units["minimize"])
 	out.stateName = newName[ks.pkg.Scope().Lookup("descent")]
+	if c.shape.Residuals > 0 {
+		// A residual objective's fit also reports its uncertainty.
+		root := ks.pkg.Scope().Lookup("uncertainty")
+		newName[root] = c.prefix + "Uncertainty"
+		out.uncertaintyName = newName[root]
+		visit(ks.units["uncertainty"])
+	}
 	if len(unpicked) > 0 {
 		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
 	}
@@ -500,6 +510,9 @@ func (rw *rewriter) post(n ast.Node) ast.Node {
 	case *ast.ExprStmt:
 		if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
 			return rw.gradientCall(call)
+		}
+		if call, ok := n.X.(*ast.CallExpr); ok && (rw.isRecvCall(call, "residual") || rw.isRecvCall(call, "jacobian") || rw.isRecvCall(call, "jacobianColumns")) {
+			return rw.residualCall(call)
 		}
 		if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
 			if !rw.c.trace {
@@ -727,6 +740,25 @@ func (rw *rewriter) gradientCall(call *ast.CallExpr) ast.Stmt {
 	default:
 		return &ast.ExprStmt{X: mk(p, g)}
 	}
+}
+
+// residualCall rewrites the statements recv.residual(p, r),
+// recv.jacobian(p, j) and recv.jacobianColumns(p, j) to the user's form:
+// f(p, r) for x *[N]T, f(*p, r) for x [N]T, f(p[:], r[:]) for slices.
+func (rw *rewriter) residualCall(call *ast.CallExpr) ast.Stmt {
+	s := rw.c.shape
+	name := s.Objective
+	if sel := call.Fun.(*ast.SelectorExpr); sel.Sel.Name != "residual" {
+		name = s.Jacobian
+	}
+	p, out := call.Args[0], call.Args[1]
+	switch s.Arg {
+	case ArgArray:
+		p = deref(p)
+	case ArgSlice:
+		p, out = fullSlice(p), fullSlice(out)
+	}
+	return &ast.ExprStmt{X: &ast.CallExpr{Fun: rw.callee(name), Args: []ast.Expr{p, out}, Lparen: call.Lparen, Rparen: call.Rparen}}
 }
 
 // adapterArgs are the arguments of a call of the glue's adapters: the

@@ -15,6 +15,7 @@ var (
 		References:       []string{NocedalWright + ", §8.1 (gradient checking)"},
 		Picks:            Picks{"derivative": "analyticGradient", "calibrate": "calibrateNothing", "gradientError": "exactGradient", "diagonalCurvature": "probedCurvature"},
 		ResidualPicks:    Picks{"jacobian": "rowsJacobian", "jacobianError": "exactJacobian"},
+		ResidualSummary:  "the user's own Jacobian of the residuals (spec key `jacobian`), g = Jᵀr; costs no residual calls",
 		GradientCalls:    func(dim int) int { return 0 },
 		CalibrationCalls: func(dim int) int { return 0 },
 	})
@@ -25,6 +26,7 @@ var (
 		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.1 and §8.1"},
 		Picks:            Picks{"derivative": "forwardDifference", "calibrate": "calibrateForward", "gradientError": "forwardError", "diagonalCurvature": "calibratedCurvature"},
 		ResidualPicks:    Picks{"jacobian": "forwardJacobian", "jacobianError": "forwardJacobianError"},
+		ResidualSummary:  "the Jacobian by forward differences of the residuals, hⱼ = √u·max(1, |xⱼ|): dim residual calls per Jacobian, error O(√u); g = Jᵀr",
 		GradientCalls:    func(dim int) int { return dim },
 		CalibrationCalls: func(dim int) int { return 2 * dim },
 		State:            differenceState,
@@ -36,6 +38,7 @@ var (
 		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.7 and §8.1"},
 		Picks:            Picks{"derivative": "centralDifference", "calibrate": "calibrateCentral", "gradientError": "centralError", "diagonalCurvature": "calibratedCurvature"},
 		ResidualPicks:    Picks{"jacobian": "centralJacobian", "jacobianError": "centralJacobianError"},
+		ResidualSummary:  "the Jacobian by central differences of the residuals, hⱼ = ∛u·max(1, |xⱼ|): 2·dim residual calls per Jacobian, error O(u^(2/3)); g = Jᵀr",
 		GradientCalls:    func(dim int) int { return 2 * dim },
 		CalibrationCalls: func(dim int) int { return 4 * dim },
 		State:            differenceState,

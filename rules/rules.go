@@ -196,8 +196,10 @@ type Entry struct {
 	Exclusive bool
 	PairsWhy  string
 	// ResidualPicks override a derivative source's Picks for a residual
-	// objective: its Jacobian instead of the gradient of f.
-	ResidualPicks Picks
+	// objective: its Jacobian instead of the gradient of f;
+	// ResidualSummary says what it does there.
+	ResidualPicks   Picks
+	ResidualSummary string
 }
 
 // Suits reports whether the direction d goes with the step rule r.
