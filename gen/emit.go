@@ -295,7 +295,11 @@ func emitTypes(f *jen.File, p *Plan) {
 		if q.Kind == rules.Whole {
 			t, v = jen.Int(), jen.Lit(int(p.Value(q)))
 		}
-		fields = append(fields, jen.Id(q.Limit).Add(t).Comment(q.LimitDoc))
+		doc := q.LimitDoc
+		if q == rules.StopStep && p.Shape.Residuals > 0 {
+			doc = rules.ResidualStepDoc
+		}
+		fields = append(fields, jen.Id(q.Limit).Add(t).Comment(doc))
 		defaults[jen.Id(q.Limit)] = v
 	}
 	f.Type().Id(name + "Limits").Struct(fields...)
@@ -585,7 +589,11 @@ func entryDoc(p *Plan) []string {
 	}
 	for _, q := range rules.Params() {
 		if q.Limit != "" {
-			stop = append(stop, q.Show(p.Value(q)))
+			shown := q.Show(p.Value(q))
+			if q == rules.StopStep && p.Shape.Residuals > 0 {
+				shown = "every |Δxᵢ| ≤ " + rules.FormatFloat(p.Value(q)) + "·|xᵢ|"
+			}
+			stop = append(stop, shown)
 		}
 	}
 	lines = append(lines, "Constants: "+strings.Join(constants, ", ")+".")

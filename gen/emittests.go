@@ -142,7 +142,10 @@ func EmitTests(w io.Writer, p *Plan) error {
 		),
 	)...)
 
-	if p.Derivative == rules.Analytic {
+	switch {
+	case p.Derivative == rules.Analytic && p.Shape.Residuals > 0:
+		emitJacobianCheck(f, p, helper, setup)
+	case p.Derivative == rules.Analytic:
 		emitGradientCheck(f, p, helper, setup)
 	}
 	if p.Shape.Residuals > 0 {
@@ -525,5 +528,109 @@ func emitUncertaintyTest(f *jen.File, p *Plan, helper string, setup func() []jen
 			jen.Var().Id("u").Id(name + "Uncertainty"),
 			jen.Id("allocs").Op(":=").Qual("testing", "AllocsPerRun").Call(jen.Lit(10), jen.Func().Params().Block(jen.Id("u").Op("=").Id(name+"UncertaintyAt").Call(append(recvArg, jen.Id("r").Dot("X"))...))),
 		}, checks...)...)...)
+}
+
+// emitJacobianCheck writes, for a residual objective with an analytic
+// Jacobian, a test comparing every entry Jᵢⱼ with central differences of
+// the residuals at the start, two nearby points and where the run from
+// start ends. Entries, unlike the gradient Jᵀr, do not vanish at the fit,
+// so a Jacobian wrong only there is caught too.
+func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.Code) {
+	s := p.Shape
+	name := p.M.Name
+	callee := func(fn string) *jen.Statement {
+		if s.Receiver == "" {
+			return jen.Id(fn)
+		}
+		return jen.Id("recv").Dot(fn)
+	}
+	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
+	rvec := jen.Index(jen.Lit(s.Residuals)).Id(s.Elem)
+	jac := jen.Index(jen.Lit(s.Residuals)).Add(vec.Clone())
+	jacBody := []jen.Code{callee(s.Jacobian).Call(residualArgs(s, "j")...)}
+	if s.JacobianColumns {
+		jacBody = []jen.Code{
+			jen.Var().Id("c").Index(jen.Lit(s.Dim)).Add(rvec.Clone()),
+			callee(s.Jacobian).Call(residualArgs(s, "c")...),
+			jen.For(jen.Id("col").Op(":=").Range().Id("c")).Block(
+				jen.For(jen.Id("i").Op(":=").Range().Id("c").Index(jen.Id("col"))).Block(
+					jen.Id("j").Index(jen.Id("i")).Index(jen.Id("col")).Op("=").Id("c").Index(jen.Id("col")).Index(jen.Id("i")),
+				),
+			),
+		}
+	}
+	var recvArg []jen.Code
+	if s.Receiver != "" {
+		recvArg = []jen.Code{jen.Id("recv")}
+	}
+	tol := "1e-6"
+	if s.Elem == "float32" {
+		tol = "2e-2"
+	}
+	inside := func(x jen.Code) jen.Code { return x }
+	var boxed []jen.Code
+	boxDoc := ""
+	if p.Bounded {
+		inside = func(x jen.Code) jen.Code { return jen.Id("inside").Call(x) }
+		boxed = []jen.Code{
+			jen.Id("b").Op(":=").Add(boxValue(p)),
+			jen.Id("inside").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
+				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+					jen.Id("x").Index(jen.Id("i")).Op("=").Qual("math", "Max").Call(jen.Id("b").Dot("lower").Index(jen.Id("i")), jen.Qual("math", "Min").Call(jen.Id("x").Index(jen.Id("i")), jen.Id("b").Dot("upper").Index(jen.Id("i")))),
+				),
+				jen.Return(jen.Id("x")),
+			),
+		}
+		boxDoc = " With bounds every point is projected into the box, and a column whose ±h leaves the box is not checked there."
+	}
+	skip := jen.Null()
+	if p.Bounded {
+		skip = jen.If(jen.Id("up").Index(jen.Id("col")).Op(">").Id("b").Dot("upper").Index(jen.Id("col")).Op("||").Id("down").Index(jen.Id("col")).Op("<").Id("b").Dot("lower").Index(jen.Id("col"))).Block(jen.Continue().Comment("the box leaves no room for ±h"))
+	}
+	runArgs := append(append([]jen.Code(nil), recvArg...), jen.Id(helper+"Start").Call())
+	f.Commentf("Test%sJacobianMatchesDifferences compares %s, entry by entry, with central differences of the residuals %s, h = ∛u·|xⱼ| (∛u at 0, relative as for fitted parameters far below 1), at the start, two nearby points and where the run from start ends. It allows %s relative to max(1, |Jᵢⱼ|) (common practice), 100 times the rounding bound u·|rᵢ|/h (Nocedal & Wright 2006, §8.1), and the change the difference shows between h and 2h, which bounds its truncation error (Richardson's comparison: it is about three times that error). Entries, unlike the gradient Jᵀr, do not vanish at the fit, so a Jacobian wrong only there is caught too.%s", name, s.Jacobian, s.Objective, tol, boxDoc)
+	f.Func().Id("Test" + name + "JacobianMatchesDifferences").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(append(setup(), boxed...),
+		jen.Id("residuals").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Params(jen.Id("r").Add(rvec.Clone())).Block(
+			callee(s.Objective).Call(residualArgs(s, "r")...),
+			jen.Return(),
+		),
+		jen.Id("jacobian").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Params(jen.Id("j").Add(jac.Clone())).Block(append(jacBody, jen.Return())...),
+		jen.Id("start").Op(":=").Add(inside(jen.Id(helper+"Start").Call())),
+		jen.Id("points").Op(":=").Index().Add(vec.Clone()).Values(jen.Id("start")),
+		jen.For(jen.Id("k").Op(":=").Lit(1), jen.Id("k").Op("<").Lit(3), jen.Id("k").Op("++")).Block(
+			jen.Id("x").Op(":=").Id("start"),
+			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+				jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Id(s.Elem).Call(jen.Id("i").Op("+").Lit(1)),
+			),
+			jen.Id("points").Op("=").Append(jen.Id("points"), inside(jen.Id("x"))),
+		),
+		jen.Id("points").Op("=").Append(jen.Id("points"), jen.Id(name).Call(runArgs...).Dot("X")),
+		jen.For(jen.List(jen.Id("_"), jen.Id("x")).Op(":=").Range().Id("points")).Block(
+			jen.Id("j").Op(":=").Id("jacobian").Call(jen.Id("x")),
+			jen.For(jen.Id("col").Op(":=").Range().Id("x")).Block(
+				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(formatFloat(math.Cbrt(rules.Roundoff(s.Elem)))).Op("*").Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("col"))))),
+				jen.If(jen.Id("h").Op("==").Lit(0)).Block(jen.Id("h").Op("=").Op(formatFloat(math.Cbrt(rules.Roundoff(s.Elem))))),
+				jen.List(jen.Id("up"), jen.Id("down")).Op(":=").List(jen.Id("x"), jen.Id("x")),
+				jen.Id("up").Index(jen.Id("col")).Op("+=").Id("h"),
+				jen.Id("down").Index(jen.Id("col")).Op("-=").Id("h"),
+				skip,
+				jen.List(jen.Id("farUp"), jen.Id("farDown")).Op(":=").List(jen.Id("up"), jen.Id("down")),
+				jen.Id("farUp").Index(jen.Id("col")).Op("+=").Id("h"),
+				jen.Id("farDown").Index(jen.Id("col")).Op("-=").Id("h"),
+				jen.List(jen.Id("ru"), jen.Id("rd")).Op(":=").List(jen.Id("residuals").Call(jen.Id("up")), jen.Id("residuals").Call(jen.Id("down"))),
+				jen.List(jen.Id("ru2"), jen.Id("rd2")).Op(":=").List(jen.Id("residuals").Call(jen.Id("farUp")), jen.Id("residuals").Call(jen.Id("farDown"))),
+				jen.For(jen.Id("i").Op(":=").Range().Id("ru")).Block(
+					jen.Id("approx").Op(":=").Float64().Call(jen.Id("ru").Index(jen.Id("i")).Op("-").Id("rd").Index(jen.Id("i"))).Op("/").Float64().Call(jen.Id("up").Index(jen.Id("col")).Op("-").Id("down").Index(jen.Id("col"))),
+					jen.Id("wide").Op(":=").Float64().Call(jen.Id("ru2").Index(jen.Id("i")).Op("-").Id("rd2").Index(jen.Id("i"))).Op("/").Float64().Call(jen.Id("farUp").Index(jen.Id("col")).Op("-").Id("farDown").Index(jen.Id("col"))),
+					jen.Id("exact").Op(":=").Float64().Call(jen.Id("j").Index(jen.Id("i")).Index(jen.Id("col"))),
+					jen.Id("size").Op(":=").Qual("math", "Max").Call(jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("ru").Index(jen.Id("i")))), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("rd").Index(jen.Id("i"))))),
+					jen.Id("allowed").Op(":=").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Id("exact"))).Op("+").Lit(100).Op("*").Op(formatFloat(rules.Roundoff(s.Elem))).Op("*").Id("size").Op("/").Float64().Call(jen.Id("h")).Op("+").Qual("math", "Abs").Call(jen.Id("wide").Op("-").Id("approx")),
+					jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("approx").Op("-").Id("exact")).Op("<=").Id("allowed"))).Block(
+						jen.Id("t").Dot("Errorf").Call(jen.Lit("at %v: J[%d][%d] = ∂r%d/∂x%d is %g, central differences give %g"), jen.Id("x"), jen.Id("i"), jen.Id("col"), jen.Id("i"), jen.Id("col"), jen.Id("exact"), jen.Id("approx")),
+					),
+				),
+			),
+		),
+	)...)
 }
 

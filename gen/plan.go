@@ -80,14 +80,15 @@ func (p *Plan) Switch(q *rules.Param) bool { return p.Value(q) != 0 }
 // cap, or the iteration bound when that is smaller.
 // With differences, the start adds a calibration and every iteration may
 // add one confirmation of the gradient test (a calibration and two
-// gradients). A combined objective's gradient costs nothing beyond the
+// gradients; for a residual objective a Jacobian with twice the
+// intervals). A combined objective's gradient costs nothing beyond the
 // call that gives its value, but its run may settle once at a stall, with
 // one call per unknown for the curvature probes (settleCombined).
 func (p *Plan) WorstCase() (calls int, byIterations int) {
 	perIteration := p.Rule.IterationCalls(int(p.Value(rules.Trials)), p.GradientCalls())
 	calibration := p.CalibrationCalls()
-	if calibration > 0 {
-		perIteration += calibration + 2*p.GradientCalls()
+	if !p.Shape.Combined {
+		perIteration += p.SettleCalls() // a confirmation of differences at every iteration at most
 	}
 	bound := float64(1+calibration+p.GradientCalls()) + (p.Value(rules.StopIterations)+1)*float64(perIteration)
 	if p.Shape.Combined {

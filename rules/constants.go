@@ -84,6 +84,9 @@ func (c *Context) SettleCalls() int {
 	if c.Combined {
 		return c.Dim
 	}
+	if c.Residuals > 0 && c.Derivative.GradientCalls(c.Dim) > 0 {
+		return 1 + c.Derivative.GradientCalls(c.Dim) // settleResiduals: a Jacobian with twice the intervals, and r should it be missing
+	}
 	if c.CalibrationCalls() == 0 {
 		return 0 // an analytic gradient, or a residual objective (settleResiduals)
 	}

@@ -22,6 +22,8 @@ type residualModel struct {
 	scale   vec      // D: each (JᵀJ)ᵢᵢ's largest value this run (Moré 1978, §6)
 	damping elem     // λ; 0 until the first damped solve
 	growth  elem     // ν, the factor of λ's next rise
+	wide    bool     // whether difference Jacobians take twice their intervals (settleResiduals)
+	noise   elem     // the rounding noise of f at the current point (residualGradient)
 }
 
 // noStructure is residualModel for any other objective: nothing.
@@ -90,6 +92,22 @@ func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *difference
 		}
 		m.scale[i] = larger(m.scale[i], m.normal[i][i])
 	}
+	// f's rounding noise: each rᵢ = model − yᵢ carries rounding of the
+	// model's size, |rᵢ| + Σⱼ|Jᵢⱼxⱼ| (the sum is the model itself for
+	// models linear or homogeneous in x, Euler's theorem), which ½Σrᵢ²
+	// feels as |rᵢ| times that: 4u·Σᵢ|rᵢ|(|rᵢ| + Σⱼ|Jᵢⱼxⱼ|), added to
+	// ε_A of f (noiseLevel). A fit with small residuals to large data
+	// has far more noise than u·|f| (common practice for the model; the
+	// idea of ε_A is Gill, Murray, Saunders & Wright 1983).
+	m.noise = 0
+	for k := range jac {
+		size := abs(m.r[k])
+		for j := range x {
+			size += abs(jac[k][j] * x[j])
+		}
+		m.noise += abs(m.r[k]) * size
+	}
+	m.noise = 4*unitRoundoff*m.noise + noiseLevel(x, fx, g)
 	jacobianError(x, &jac, &m.r, &m.err, diffs)
 	return calls
 }
@@ -131,7 +149,8 @@ func columnsJacobian(recv *receiver, x *vec, r *rvec, jac *[residuals]vec, diffs
 }
 
 // forwardJacobian approximates each column of J by forward differences of
-// the residuals, (r(x + hⱼeⱼ) − r(x))/hⱼ with hⱼ = √u·max(1, |xⱼ|)
+// the residuals, (r(x + hⱼeⱼ) − r(x))/hⱼ with hⱼ = √u·|xⱼ| (√u at 0,
+// ownScale)
 // (Nocedal & Wright 2006, eq. 8.1 and §8.1; §10.3 for residuals): dim
 // residual calls. At an upper bound the difference is taken backwards; a
 // variable fixed by equal bounds gets a zero column.
@@ -142,7 +161,7 @@ func forwardJacobian(recv *receiver, x *vec, r *rvec, jac *[residuals]vec, diffs
 	for j := range probe {
 		xj := probe[j]
 		lower, upper := coordinateRange(j, diffs)
-		up, h := probeStep(xj, oneSide(xj, squareRoot(unitRoundoff)*larger(1, abs(xj)), 1, lower, upper), lower, upper)
+		up, h := probeStep(xj, oneSide(xj, intervalScale(diffs)*squareRoot(unitRoundoff)*ownScale(xj), 1, lower, upper), lower, upper)
 		if h == 0 {
 			for i := range jac {
 				jac[i][j] = 0 // fixed by equal bounds
@@ -161,8 +180,8 @@ func forwardJacobian(recv *receiver, x *vec, r *rvec, jac *[residuals]vec, diffs
 }
 
 // centralJacobian approximates each column of J by central differences of
-// the residuals, (r(x + hⱼeⱼ) − r(x − hⱼeⱼ))/(2hⱼ) with hⱼ = ∛u·max(1,
-// |xⱼ|) (Nocedal & Wright 2006, eq. 8.7 and §8.1): 2·dim residual calls.
+// the residuals, (r(x + hⱼeⱼ) − r(x − hⱼeⱼ))/(2hⱼ) with hⱼ = ∛u·|xⱼ| (∛u
+// at 0, ownScale) (Nocedal & Wright 2006, eq. 8.7 and §8.1): 2·dim residual calls.
 // Where a bound leaves no room on one side, the three-point endpoint
 // formula on the other side takes its place at the same cost (parabola);
 // a variable fixed by equal bounds gets a zero column.
@@ -173,7 +192,7 @@ func centralJacobian(recv *receiver, x *vec, r *rvec, jac *[residuals]vec, diffs
 	for j := range probe {
 		xj := probe[j]
 		lower, upper := coordinateRange(j, diffs)
-		h := centralScale * larger(1, abs(xj))
+		h := intervalScale(diffs) * centralScale * ownScale(xj)
 		if xj+h <= upper && xj-h >= lower {
 			up, _ := probeStep(xj, h, lower, upper)
 			down, _ := probeStep(xj, -h, lower, upper)
@@ -211,6 +230,30 @@ func centralJacobian(recv *receiver, x *vec, r *rvec, jac *[residuals]vec, diffs
 	return calls
 }
 
+// ownScale is the scale of xⱼ for a residual objective: |xⱼ|, or 1 at
+// xⱼ = 0, for the difference intervals of its Jacobian and for the step
+// test. Relative intervals and a relative step test are MINPACK's choices
+// for fitting (J. J. Moré, B. S. Garbow and K. E. Hillstrom, User Guide
+// for MINPACK-1, Argonne ANL-80-74, 1980, fdjac2 and the test on xtol;
+// from memory): fitted parameters are often far below 1 (a rate of
+// 1e-6), where an absolute interval would swamp them and an absolute
+// step test would stop the run with digits still to find.
+func ownScale(xj elem) elem {
+	if xj == 0 {
+		return 1
+	}
+	return abs(xj)
+}
+
+// intervalScale is 2 while settleResiduals takes the Jacobian with twice
+// the intervals, else 1.
+func intervalScale(diffs *differences) elem {
+	if diffs.model.wide {
+		return 2
+	}
+	return 1
+}
+
 // jacobianError bounds the error of each component of g = Jᵀr that the
 // Jacobian's source leaves. It stands in for the source the spec chose;
 // gen keeps only that one under this name.
@@ -232,7 +275,7 @@ func exactJacobian(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differen
 }
 
 // forwardJacobianError bounds each |∂rᵢ/∂xⱼ| of forward differences by
-// √u·(|Jᵢⱼ|/2 + 2|rᵢ|/sⱼ), sⱼ = max(1, |xⱼ|): the truncation hⱼ|r″|/2,
+// √u·(|Jᵢⱼ|/2 + 2|rᵢ|/sⱼ), sⱼ = ownScale(xⱼ): the truncation hⱼ|r″|/2,
 // with the curvature of rᵢ over sⱼ taken as that of its slope, and the
 // rounding 2u|rᵢ|/hⱼ at hⱼ = √u·sⱼ (Nocedal & Wright 2006, §8.1; the
 // curvature model is common practice), so that g's error is at most
@@ -240,7 +283,7 @@ func exactJacobian(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differen
 func forwardJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differences) {
 	sqrtU := squareRoot(unitRoundoff)
 	for j := range e {
-		s := larger(1, abs(x[j]))
+		s := ownScale(x[j])
 		var sum elem
 		for i := range jac {
 			sum += abs(r[i]) * sqrtU * (abs(jac[i][j])/2 + 2*abs(r[i])/s)
@@ -250,7 +293,7 @@ func forwardJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *d
 }
 
 // centralJacobianError bounds each |∂rᵢ/∂xⱼ| of central differences by
-// u^(2/3)·(|Jᵢⱼ|/3 + 4|rᵢ|/sⱼ), sⱼ = max(1, |xⱼ|): the truncation
+// u^(2/3)·(|Jᵢⱼ|/3 + 4|rᵢ|/sⱼ), sⱼ = ownScale(xⱼ): the truncation
 // hⱼ²|r‴|/6 (h²|r‴|/3 for the endpoint formula), with the third
 // derivative of rᵢ over sⱼ² taken as its slope, and the rounding u|rᵢ|/hⱼ
 // (4u|rᵢ|/hⱼ for the endpoint formula) at hⱼ = ∛u·sⱼ (Nocedal & Wright
@@ -258,7 +301,7 @@ func forwardJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *d
 func centralJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differences) {
 	twoThirds := centralScale * centralScale
 	for j := range e {
-		s := larger(1, abs(x[j]))
+		s := ownScale(x[j])
 		var sum elem
 		for i := range jac {
 			sum += abs(r[i]) * twoThirds * (abs(jac[i][j])/3 + 4*abs(r[i])/s)
@@ -273,20 +316,55 @@ func residualError(x *vec, fx elem, g, e *vec, diffs *differences) {
 	*e = diffs.model.err
 }
 
-// settleResiduals prepares a verdict at x for a residual objective, whose
-// Jacobian needs no confirmation (its error bound comes with it): at a
-// stall (stall true) it adds to each error bound eᵢ the rounding floor
-// 4u·|xᵢ|·(JᵀJ)ᵢᵢ, the change that moving xᵢ by a few of its rounding
-// units makes in gᵢ, with the Gauss–Newton (JᵀJ)ᵢᵢ for ∂²f/∂xᵢ² (as
-// roundingFloor does with a probed curvature; common practice). It makes
-// no call.
+// settleResiduals prepares a verdict at x for a residual objective. With
+// a difference Jacobian it confirms the gradient first, as confirmGradient
+// does for differences of f: it takes the Jacobian again with twice the
+// intervals and adds to each error bound eᵢ three times the change that
+// made in gᵢ = (Jᵀr)ᵢ, which measures the truncation the error model
+// cannot see (a third derivative far above the slope's, as in rational
+// models) and rounding above it (Richardson's comparison of two
+// intervals; the factor three is common practice); derivativeCost
+// residual calls, one more should the residuals at x not be at hand. At
+// a stall (stall true) it adds the rounding floor 4u·|xᵢ|·(JᵀJ)ᵢᵢ, the
+// change that moving xᵢ by a few of its rounding units makes in gᵢ, with
+// the Gauss–Newton (JᵀJ)ᵢᵢ for ∂²f/∂xᵢ² (as roundingFloor does with a
+// probed curvature; common practice). It returns the calls spent and
+// false when budget ran out first.
 func settleResiduals(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, stall bool, budget int) (int, bool) {
-	if stall {
+	m := &diffs.model
+	calls := 0
+	if derivativeCost > 0 {
+		if !m.known || m.at != *x {
+			if budget < 1 {
+				return 0, false
+			}
+			recv.residual(x, &m.r)
+			m.at, m.known = *x, true
+			calls++
+		}
+		if calls+derivativeCost > budget {
+			return calls, false
+		}
+		var jac [residuals]vec
+		m.wide = true
+		calls += jacobian(recv, x, &m.r, &jac, diffs)
+		m.wide = false
+		var wide vec
+		for k := range jac {
+			for i := range wide {
+				wide[i] += jac[k][i] * m.r[k]
+			}
+		}
 		for i := range e {
-			e[i] += 4 * unitRoundoff * abs(x[i]) * diffs.model.normal[i][i]
+			e[i] += 3 * abs(wide[i]-g[i]) // Richardson: the change with twice the intervals
 		}
 	}
-	return 0, true
+	if stall {
+		for i := range e {
+			e[i] += 4 * unitRoundoff * abs(x[i]) * m.normal[i][i]
+		}
+	}
+	return calls, true
 }
 
 // gaussNewtonDirection is the memory of the least-squares directions:
@@ -462,6 +540,13 @@ func choleskySolve(l *[dim]vec, g, d *vec) {
 // then lowers λ by max(1/3, 1 − (2ρ − 1)³) and resets ν = 2; otherwise it
 // raises λ by ν, doubles ν, solves again and tries the shorter step
 // (Nielsen's update, Madsen, Nielsen & Tingleff 2004, §3.2, from memory).
+// Near a minimizer the predicted decrease falls below the rounding noise
+// of f (residualGradient's estimate, ε_A of noiseLevel plus the rounding
+// of each residual), where f's change says nothing: a step predicted to decrease f by at most ε_A is accepted when
+// f rose by at most ε_A, and λ lowered as for ρ = 1, so that the run
+// goes on to the Gauss–Newton point the gradient test looks for instead
+// of stalling where f can no longer tell (our safeguard, in the spirit
+// of the relative-reduction tests of Moré 1978, §8).
 // Each trial is one residual call, at most stepTrials. The search ends
 // tiny when every component of the step is at most tiny times the first
 // step's (the step test holds there), and exhausted when the trials run
@@ -470,6 +555,7 @@ func choleskySolve(l *[dim]vec, g, d *vec) {
 func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	m := &diffs.model
 	firstStep := *d
+	noise := m.noise
 	var dir direction // the least-squares directions keep no memory
 	for trial := 0; trial < stepTrials; trial++ {
 		if trial > 0 {
@@ -484,8 +570,11 @@ func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny
 		trialPoint(xt, x, 1, d, &diffs.bounds)
 		ft := value(recv, xt, gt, diffs)
 		predicted := modelDecrease(x, xt, g, &m.normal)
-		if finite(ft) && predicted > 0 && fx-ft >= stepDecrease*predicted { // Moré 1978: ρ ≥ c1
-			rho := (fx - ft) / predicted
+		if finite(ft) && predicted > 0 && (fx-ft >= stepDecrease*predicted || predicted <= noise && ft <= fx+noise) { // Moré 1978: ρ ≥ c1
+			rho := elem(1) // a step below f's resolution: the model is all there is to judge it by
+			if predicted > noise {
+				rho = (fx - ft) / predicted
+			}
 			cube := 2*rho - 1
 			m.damping *= larger(1.0/3, 1-cube*cube*cube) // Nielsen: λ ← λ·max(1/3, 1 − (2ρ − 1)³)
 			m.growth = 2

@@ -80,6 +80,9 @@ func (p leastSquares) use(t *testing.T) {
 	derivativeSource, directionKind, stepRule = p.source, p.kind, p.rule
 	residualObjective, jacobianColumns = true, p.columns
 	derivativeCost, calibrationCost, settleCalls = source.GradientCalls(dim), 0, 0
+	if derivativeCost > 0 {
+		settleCalls = 1 + derivativeCost // as rules.Context.SettleCalls
+	}
 	iterationCalls = rule.IterationCalls(stepTrials, derivativeCost)
 	t.Cleanup(func() {
 		derivativeSource, directionKind, stepRule, derivativeCost, calibrationCost, iterationCalls, settleCalls = saved[0], saved[1], saved[2], saved[3], saved[4], saved[5], saved[6]

@@ -88,12 +88,13 @@ func squareRoot(v elem) elem {
 	return elem(math.Sqrt(float64(v)))
 }
 
-// stepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// stepWithin is the step test: every |s_i| ≤ tol·stepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func stepWithin(s, x *vec, tol elem) bool {
 	for i := range s {
-		if !(abs(s[i]) <= tol*(abs(x[i])+1)) {
+		if !(abs(s[i]) <= tol*stepScale(x[i])) {
 			return false
 		}
 	}
@@ -101,12 +102,12 @@ func stepWithin(s, x *vec, tol elem) bool {
 }
 
 // tinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·stepScale(x_i)/|d_i|, or −1 when d is zero.
 func tinyStep(x, d *vec, tol elem) elem {
 	tiny := elem(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (abs(x[i]) + 1) / abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * stepScale(x[i]) / abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -148,4 +149,19 @@ func scaleBy(x *vec, c elem) {
 	for i := range x {
 		x[i] *= c
 	}
+}
+
+// stepScale is the scale the step test measures a change of x_i against.
+// It stands in for the objective's kind; gen keeps only that one under
+// this name.
+func stepScale(xi elem) elem {
+	if residualObjective {
+		return ownScale(xi)
+	}
+	return offsetScale(xi)
+}
+
+// offsetScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func offsetScale(xi elem) elem {
+	return abs(xi) + 1
 }
