@@ -34,6 +34,7 @@ import (
 	"encoding/hex"
 	"flag"
 	"fmt"
+	"go/format"
 	"math"
 	"os"
 	"os/exec"
@@ -107,13 +108,11 @@ const gradientLimit = "1e-15"
 // extended precision (testdata/NIST-README.md: at the certified 11-digit
 // parameters it evaluates to ~4.0E-21). In float64 each residual, about
 // 7.7E-14 at the solution (√(RSS/24)), carries rounding of u·|y| ≈ 3E-16
-// (y ≤ 2.5), a relative 4E-3, so the RSS can agree to about 2 digits and
-// the standard deviations, which scale with √RSS, to about 2 as well:
-// Lanczos1 is held to these instead (and the table says so).
-const (
-	lanczos1RSSDigits = 2
-	lanczos1StdDigits = 2
-)
+// (y ≤ 2.5), a relative 4E-3, so the RSS can agree to about 2 digits:
+// Lanczos1's RSS is held to 2 (the table says so; measured 3.0–3.8).
+// Its standard deviations, which scale with √RSS, are held to the 3
+// digits of every other dataset (measured 3.3–4.1).
+const lanczos1RSSDigits = 2
 
 func TestMain(m *testing.M) {
 	flag.Parse()
@@ -261,7 +260,11 @@ func dataFile() []byte {
 		fmt.Fprintf(&b, "// %sJacobian writes the Jacobian of %s's residuals by rows.\n", d.name, d.name)
 		fmt.Fprintf(&b, "func %sJacobian(b *[%d]float64, j *[%d][%d]float64) {\n\tfor i := range %s {\n\t\t%s(b, %s[i][1:], &j[i])\n\t}\n}\n\n", d.name, n, m, n, data, d.model, data)
 	}
-	return bytes.TrimRight(b.Bytes(), "\n")
+	src, err := format.Source(bytes.TrimRight(b.Bytes(), "\n"))
+	if err != nil {
+		panic(err) // a bug in the renderer above
+	}
+	return src
 }
 
 func anyLog() bool {
@@ -382,7 +385,7 @@ func TestCertifiedValues(t *testing.T) {
 		}
 		wantRSS, wantStd := float64(rssDigits), float64(stdDigits)
 		if d.name == "Lanczos1" {
-			wantRSS, wantStd = lanczos1RSSDigits, lanczos1StdDigits
+			wantRSS = lanczos1RSSDigits
 		}
 		if r.rssLRE < wantRSS {
 			t.Errorf("%s: RSS %.10e agrees with %.10e to %.1f digits, want %g", what, r.rss, d.rss, r.rssLRE, wantRSS)
@@ -488,11 +491,10 @@ func table(runs []*run, byName map[string]*dataset) []byte {
 		sd := fmt.Sprintf("%.1f", r.sdL)
 		if d.name == "Lanczos1" {
 			rssDigits += " (2 required)"
-			sd += " (2 required)"
 		}
 		fmt.Fprintf(&b, "| %s | %s | %d | %s | %s | %d | %d | %.1f | %s | %s |\n", r.dataset, d.difficulty, r.start, r.source, r.status, r.iterations, r.calls, r.paramLRE, rssDigits, sd)
 	}
-	b.WriteString("\nLanczos1: its certified RSS (1.43e-25) is reproduced only in extended precision (testdata/NIST-README.md). In float64 each residual, about 7.7e-14 at the solution, carries rounding of u·|y| ≈ 3e-16, a relative 4e-3, so the RSS and the standard deviations (which scale with √RSS) are held to 2 digits there.\n\nEvery fit uses stop.gradient = 1e-15 (see gradientLimit in nist_test.go): at the default 1e-8 the sums of exponentials (Lanczos1–3) and MGH09 stop converged at 4.6–5.3 digits; at 1e-15 each run goes on until its gradient is as small as rounding lets it show.\n")
+	b.WriteString("\nLanczos1: its certified RSS (1.43e-25) is reproduced only in extended precision (testdata/NIST-README.md). In float64 each residual, about 7.7e-14 at the solution, carries rounding of u·|y| ≈ 3e-16, a relative 4e-3, so its RSS is held to 2 digits; its standard deviations, which scale with √RSS, reach the 3 of every other dataset.\n\nEvery fit uses stop.gradient = 1e-15 (see gradientLimit in nist_test.go): at the default 1e-8 the sums of exponentials (Lanczos1–3) and MGH09 stop converged at 4.6–5.3 digits; at 1e-15 each run goes on until its gradient is as small as rounding lets it show.\n")
 	return b.Bytes()
 }
 
