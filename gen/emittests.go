@@ -576,7 +576,8 @@ func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			jen.Id("b").Op(":=").Add(boxValue(p)),
 			jen.Id("inside").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
 				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-					jen.Id("x").Index(jen.Id("i")).Op("=").Qual("math", "Max").Call(jen.Id("b").Dot("lower").Index(jen.Id("i")), jen.Qual("math", "Min").Call(jen.Id("x").Index(jen.Id("i")), jen.Id("b").Dot("upper").Index(jen.Id("i")))),
+					jen.If(jen.Id("x").Index(jen.Id("i")).Op("<").Id("b").Dot("lower").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("lower").Index(jen.Id("i"))),
+					jen.If(jen.Id("x").Index(jen.Id("i")).Op(">").Id("b").Dot("upper").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("upper").Index(jen.Id("i"))),
 				),
 				jen.Return(jen.Id("x")),
 			),

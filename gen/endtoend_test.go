@@ -83,7 +83,10 @@ func TestEndToEnd(t *testing.T) {
 		for _, p := range plans {
 			want["Test"] += 5 // converges, allocates nothing, cap, solver ticks, solver allocates nothing
 			if p.Derivative == rules.Analytic {
-				want["Test"]++
+				want["Test"]++ // the gradient check, or the Jacobian check of a residual objective
+			}
+			if p.Shape.Residuals > 0 {
+				want["Test"]++ // the uncertainty at the fit
 			}
 		}
 		want["Test"] += strings.Count(strings.Join(e2eModuleTests(), ""), "func Test")
@@ -222,8 +225,14 @@ func e2eCheckFiles(t *testing.T, root string, plans []*Plan, outs []Output) {
 			if p.M.Expect != nil {
 				want = append(want, "want := ")
 			}
-			if p.Derivative == rules.Analytic {
+			switch {
+			case p.Derivative == rules.Analytic && p.Shape.Residuals > 0:
+				want = append(want, "func Test"+p.M.Name+"JacobianMatchesDifferences(t *testing.T)")
+			case p.Derivative == rules.Analytic:
 				want = append(want, "func Test"+p.M.Name+"GradientMatchesDifferences(t *testing.T)")
+			}
+			if p.Shape.Residuals > 0 {
+				want = append(want, "func Test"+p.M.Name+"UncertaintyAtTheFit(t *testing.T)")
 			}
 			if p.M.Instance != "" {
 				want = append(want, "instance "+p.M.Instance)
@@ -235,6 +244,8 @@ func e2eCheckFiles(t *testing.T, root string, plans []*Plan, outs []Output) {
 			}
 		} else if !strings.Contains(text, "func "+p.M.Name+"(") || !strings.Contains(text, "func "+p.M.Name+"WithLimits(") {
 			t.Errorf("%s lacks the entry points %s and %sWithLimits", o.Path, p.M.Name, p.M.Name)
+		} else if p.Shape.Residuals > 0 && !strings.Contains(text, "func "+p.M.Name+"UncertaintyAt(") {
+			t.Errorf("%s lacks %sUncertaintyAt", o.Path, p.M.Name)
 		}
 	}
 	gofmt := "gofmt"
@@ -340,6 +351,19 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			grad = gradNames[s.Grad]
 			have["gradient "+grad+" "+s.Elem+" "+map[bool]string{false: "func", true: "method"}[s.Receiver != ""]] = true
 		}
+		if s.Residuals > 0 {
+			grad = "residuals"
+			have["residual "+argNames[s.Arg]+" "+s.Elem+" "+kind] = true
+			have["residual derivative "+p.Derivative.Name] = true
+			have["residual direction "+p.Direction.Name] = true
+			have["residual rule "+p.Rule.Name] = true
+			if p.Derivative == rules.Analytic {
+				have["jacobian "+map[bool]string{false: "rows", true: "columns"}[s.JacobianColumns]+" "+s.Elem] = true
+			}
+			if p.Bounded {
+				have["residual bounds "+s.Elem] = true
+			}
+		}
 		inst := "-"
 		if s.Receiver != "" {
 			inst = "zero"
@@ -441,7 +465,9 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 	// form, bounds and a method.
 	for _, d := range rules.Direction.Entries {
 		for _, src := range rules.Derivative.Entries {
-			want = append(want, "scale "+d.Name+" "+src.Name)
+			if !d.Residual { // scale is refused for residual objectives
+				want = append(want, "scale "+d.Name+" "+src.Name)
+			}
 		}
 	}
 	want = append(want, "scale float64 scalar", "scale float32 scalar", "scale float64 array", "scale float32 pointer", "scale float64 pointer", "scale float64 slice", "scale bounds", "scale method", "scale combined scalar", "scale combined pointer")
@@ -455,10 +481,38 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 	}
 	want = append(want, "combined func", "combined value", "combined pointer", "combined bounds float32", "combined bounds float64")
 	for _, e := range rules.Direction.Entries {
-		want = append(want, "combined direction "+e.Name)
+		if !e.Residual {
+			want = append(want, "combined direction "+e.Name)
+		}
 	}
 	for _, e := range rules.StepRule.Entries {
-		want = append(want, "combined rule "+e.Name)
+		if !e.Exclusive {
+			want = append(want, "combined rule "+e.Name)
+		}
+	}
+	// Residual objectives in their forms and float types, as functions
+	// and methods, with Jacobians by rows and columns, every source, the
+	// least-squares directions and every rule they take, bfgs, and boxes.
+	for _, form := range []string{"array", "pointer"} {
+		for _, kind := range []string{"func", "value", "pointer"} {
+			if form == "array" || kind != "pointer" {
+				want = append(want, "residual "+form+" float64 "+kind)
+			}
+		}
+	}
+	want = append(want, "residual pointer float32 func", "residual slice float64 func", "jacobian rows float64", "jacobian columns float64", "jacobian columns float32",
+		"residual bounds float64", "residual bounds float32", "residual direction bfgs")
+	for _, src := range rules.Derivative.Entries {
+		want = append(want, "residual derivative "+src.Name)
+	}
+	for _, d := range rules.Direction.Entries {
+		if !d.Residual {
+			continue
+		}
+		want = append(want, "residual direction "+d.Name)
+		for _, r := range d.Pairs {
+			want = append(want, "residual rule "+r.Name)
+		}
 	}
 	var missing []string
 	for _, w := range want {
@@ -477,10 +531,10 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml", "ticks/ticks.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml", "ticks/ticks.toml", "residual/residual.toml"}
 
 // e2ePackages are the module's packages whose tests must pass.
-var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined", "e2e/ticks"}
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined", "e2e/ticks", "e2e/residual"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
@@ -502,6 +556,9 @@ func e2eModule() map[string]string {
 		"ticks/ticks.go":            e2eTicksGo,
 		"ticks/ticks.toml":          e2eTicksSpec(),
 		"ticks/ticks_test.go":       e2eTicksTest(),
+		"residual/residual.go":      e2eResidualGo,
+		"residual/residual.toml":    e2eResidualSpec,
+		"residual/residual_test.go": e2eResidualTest,
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)

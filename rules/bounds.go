@@ -24,10 +24,10 @@ var Bounds = &Feature{
 	References: []string{Bertsekas1976, Bertsekas1982, Kelley1999 + ", §5.5.3 (the reduced quasi-Newton update)"},
 	Off: Picks{"enterBox": "openStart", "trialPoint": "straightTrial", "stepCap": "noCap",
 		"searchDirection": "freeDirection", "stationarity": "unboundedMeasure", "coordinateRange": "wholeLine",
-		"curvaturePair": "fullPair"},
+		"curvaturePair": "fullPair", "pinned": "neverPinned"},
 	On: Picks{"enterBox": "projectStart", "trialPoint": "projectedTrial", "stepCap": "firstBound",
 		"searchDirection": "boundDirection", "stationarity": "projectedMeasure", "coordinateRange": "boxRange",
-		"curvaturePair": "freePair"},
+		"curvaturePair": "freePair", "pinned": "equalBounds"},
 }
 
 // Citations of the bounds.

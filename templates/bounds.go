@@ -302,3 +302,18 @@ func oneSide(xi, h, reach, lower, upper elem) elem {
 func pushedAgainst(xi, gi, lower, upper elem) bool {
 	return (xi <= lower && gi > 0) || (xi >= upper && gi < 0)
 }
+
+// pinned reports whether equal bounds fix coordinate i. It stands in for
+// the choice gen makes from the spec's bounds.
+func pinned(i int, b *box) bool {
+	if boxed {
+		return equalBounds(i, b)
+	}
+	return neverPinned(i, b)
+}
+
+// neverPinned: without bounds nothing is fixed.
+func neverPinned(i int, b *box) bool { return false }
+
+// equalBounds is lowerᵢ = upperᵢ.
+func equalBounds(i int, b *box) bool { return b.lower[i] == b.upper[i] }

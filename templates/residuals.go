@@ -299,7 +299,7 @@ func forwardJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *d
 // (4u|rᵢ|/hⱼ for the endpoint formula) at hⱼ = ∛u·sⱼ (Nocedal & Wright
 // 2006, §8.1; the curvature model is common practice).
 func centralJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differences) {
-	twoThirds := centralScale * centralScale
+	twoThirds := elem(centralScale * centralScale)
 	for j := range e {
 		s := ownScale(x[j])
 		var sum elem
@@ -620,8 +620,9 @@ func modelDecrease(x, xt, g *vec, a *[dim]vec) elem {
 // estimate NIST certifies its standard deviations with). It assumes
 // independent errors of equal variance and a model that is close to
 // linear within a few standard errors of x, and it means something only
-// at a minimizer. It costs one residual call and a Jacobian, and reports
-// ok false when M ≤ N, when JᵀJ is singular to working precision or a
+// at a minimizer. An unknown fixed by equal bounds is held constant: its
+// row and column of C are 0. It costs one residual call and a Jacobian,
+// and reports ok false when M ≤ N, when JᵀJ is singular to working precision or a
 // value is not finite.
 func uncertainty(recv *receiver, x vec, bounds box) (cov [dim]vec, stdErr vec, variance elem, calls int, ok bool) {
 	diffs := differences{bounds: bounds}
@@ -632,9 +633,21 @@ func uncertainty(recv *receiver, x vec, bounds box) (cov [dim]vec, stdErr vec, v
 		return cov, stdErr, variance, calls, false
 	}
 	variance = 2 * fx / elem(residuals-dim) // Seber & Wild §2.1: s² = RSS/(M − N)
+	// An unknown fixed by equal bounds is no parameter of the fit: its
+	// row and column of JᵀJ give way to the identity, and its variance
+	// and covariances are 0.
+	normal := diffs.model.normal
+	for i := range normal {
+		if pinned(i, &bounds) {
+			for j := range normal {
+				normal[i][j], normal[j][i] = 0, 0
+			}
+			normal[i][i] = 1
+		}
+	}
 	var l [dim]vec
 	var zero vec
-	if !cholesky(&diffs.model.normal, &zero, 0, 0, &l) {
+	if !cholesky(&normal, &zero, 0, 0, &l) {
 		return cov, stdErr, variance, calls, false
 	}
 	for j := range cov {
@@ -642,7 +655,9 @@ func uncertainty(recv *receiver, x vec, bounds box) (cov [dim]vec, stdErr vec, v
 		unit[j] = -1 // choleskySolve solves for −g
 		choleskySolve(&l, &unit, &column)
 		for i := range column {
-			cov[i][j] = variance * column[i]
+			if !pinned(i, &bounds) && !pinned(j, &bounds) {
+				cov[i][j] = variance * column[i]
+			}
 		}
 	}
 	for i := range stdErr {

@@ -364,7 +364,7 @@ func (r *poly1BFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1BFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1BFGSBoxFinite(r.fx) || !poly1BFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly1BFGSBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly1BFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1BFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly1BFGSBoxDescent) search(recv *Poly) {
-	poly1BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1BFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly1BFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1BFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly1BFGSBoxStepInitial)
@@ -557,7 +557,11 @@ type poly1BFGSBoxDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1BFGSBoxRoundingFloor)
 	bounds    poly1BFGSBoxBox
+	model     poly1BFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly1BFGSBoxResidualModel for any other)
 }
+
+// poly1BFGSBoxResidualModel is poly1BFGSBoxResidualModel for any other objective: nothing.
+type poly1BFGSBoxResidualModel struct{}
 
 // poly1BFGSBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	poly1BFGSBoxVerifyPass    // a difference gradient passed the test
 	poly1BFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly1BFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1BFGSBoxValue(recv *Poly, x, g *[1]float64, diffs *poly1BFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1BFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func poly1BFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floo
 	return measure, floor
 }
 
-// poly1BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly1BFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1BFGSBoxStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1BFGSBoxAbs(s[i]) <= tol*(poly1BFGSBoxAbs(x[i])+1)) {
+		if !(poly1BFGSBoxAbs(s[i]) <= tol*poly1BFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly1BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1BFGSBoxStepScale(xi float64) float64 {
+	return poly1BFGSBoxAbs(xi) + 1
 }
 
 // poly1BFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func poly1BFGSBoxCurvaturePair(s, y, x *[1]float64, b *poly1BFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly1BFGSBoxSearchDirection(dir *poly1BFGSBoxDirection, x, g, d *[1]float64, b *poly1BFGSBoxBox) {
+func poly1BFGSBoxSearchDirection(dir *poly1BFGSBoxDirection, x, g, d *[1]float64, diffs *poly1BFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly1BFGSBoxLarger(reach, poly1BFGSBoxAbs(x[i]-poly1BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func poly1BFGSBoxSearchDirection(dir *poly1BFGSBoxDirection, x, g, d *[1]float64
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly1BFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func poly1BFGSBoxSearchDirection(dir *poly1BFGSBoxDirection, x, g, d *[1]float64
 	}
 }
 
+// poly1BFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly1BFGSBoxSolveDirection(dir *poly1BFGSBoxDirection, g, d *[1]float64, diffs *poly1BFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly1BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1BFGSBoxTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1BFGSBoxAbs(x[i]) + 1) / poly1BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1BFGSBoxStepScale(x[i]) / poly1BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func poly1BFGSBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]floa
 			return poly1BFGSBoxLineResult{calls: calls, end: poly1BFGSBoxSearchOutOfBudget}
 		}
 		poly1BFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly1BFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly1BFGSBoxLinePoint{step: t, value: poly1BFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly1BFGSBoxFinite(current.value) || current.value > fx+poly1BFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *poly1BFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1BFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1BFGSFreeFinite(r.fx) || !poly1BFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly1BFGSFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly1BFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1BFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly1BFGSFreeDescent) search(recv *Poly) {
-	poly1BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1BFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly1BFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1BFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly1BFGSFreeStepInitial)
@@ -547,7 +547,11 @@ type poly1BFGSFreeDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1BFGSFreeRoundingFloor)
 	bounds    poly1BFGSFreeBox
+	model     poly1BFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly1BFGSFreeResidualModel for any other)
 }
+
+// poly1BFGSFreeResidualModel is poly1BFGSFreeResidualModel for any other objective: nothing.
+type poly1BFGSFreeResidualModel struct{}
 
 // poly1BFGSFreeDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	poly1BFGSFreeVerifyPass    // a difference gradient passed the test
 	poly1BFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly1BFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1BFGSFreeValue(recv *Poly, x, g *[1]float64, diffs *poly1BFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1BFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func poly1BFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly1BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly1BFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1BFGSFreeStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1BFGSFreeAbs(s[i]) <= tol*(poly1BFGSFreeAbs(x[i])+1)) {
+		if !(poly1BFGSFreeAbs(s[i]) <= tol*poly1BFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly1BFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1BFGSFreeStepScale(xi float64) float64 {
+	return poly1BFGSFreeAbs(xi) + 1
+}
+
 // poly1BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1BFGSFreeCurvaturePair(s, y, x *[1]float64, b *poly1BFGSFreeBox) {}
 
 // poly1BFGSFreeSearchDirection is the direction's own.
-func poly1BFGSFreeSearchDirection(dir *poly1BFGSFreeDirection, x, g, d *[1]float64, b *poly1BFGSFreeBox) {
+func poly1BFGSFreeSearchDirection(dir *poly1BFGSFreeDirection, x, g, d *[1]float64, diffs *poly1BFGSFreeDifferences) {
+	poly1BFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly1BFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly1BFGSFreeSolveDirection(dir *poly1BFGSFreeDirection, g, d *[1]float64, diffs *poly1BFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly1BFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1BFGSFreeTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1BFGSFreeAbs(x[i]) + 1) / poly1BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1BFGSFreeStepScale(x[i]) / poly1BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func poly1BFGSFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]flo
 			return poly1BFGSFreeLineResult{calls: calls, end: poly1BFGSFreeSearchOutOfBudget}
 		}
 		poly1BFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly1BFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly1BFGSFreeLinePoint{step: t, value: poly1BFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly1BFGSFreeFinite(current.value) || current.value > fx+poly1BFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *poly1CGFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1CGFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1CGFreeFinite(r.fx) || !poly1CGFreeFiniteVec(&r.x) {
 		r.out.status = Poly1CGFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly1CGFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1CGFreeStageJudge next when the run
 // goes on.
 func (r *poly1CGFreeDescent) search(recv *Poly) {
-	poly1CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1CGFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly1CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1CGFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly1CGFreeStepInitial)
@@ -547,7 +547,11 @@ type poly1CGFreeDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1CGFreeRoundingFloor)
 	bounds    poly1CGFreeBox
+	model     poly1CGFreeResidualModel // a residual objective's residuals and Jacobian products (poly1CGFreeResidualModel for any other)
 }
+
+// poly1CGFreeResidualModel is poly1CGFreeResidualModel for any other objective: nothing.
+type poly1CGFreeResidualModel struct{}
 
 // poly1CGFreeDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	poly1CGFreeVerifyPass    // a difference gradient passed the test
 	poly1CGFreeVerifyStall   // no step makes progress
 )
+
+// poly1CGFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1CGFreeValue(recv *Poly, x, g *[1]float64, diffs *poly1CGFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1CGFreeFiniteVec reports whether every component of x is finite.
 func poly1CGFreeFiniteVec(x *[1]float64) bool {
@@ -865,33 +874,44 @@ func poly1CGFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor
 	return measure, floor
 }
 
-// poly1CGFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly1CGFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1CGFreeStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1CGFreeAbs(s[i]) <= tol*(poly1CGFreeAbs(x[i])+1)) {
+		if !(poly1CGFreeAbs(s[i]) <= tol*poly1CGFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly1CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1CGFreeStepScale(xi float64) float64 {
+	return poly1CGFreeAbs(xi) + 1
+}
+
 // poly1CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1CGFreeCurvaturePair(s, y, x *[1]float64, b *poly1CGFreeBox) {}
 
 // poly1CGFreeSearchDirection is the direction's own.
-func poly1CGFreeSearchDirection(dir *poly1CGFreeDirection, x, g, d *[1]float64, b *poly1CGFreeBox) {
+func poly1CGFreeSearchDirection(dir *poly1CGFreeDirection, x, g, d *[1]float64, diffs *poly1CGFreeDifferences) {
+	poly1CGFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly1CGFreeSolveDirection is the direction's own rule, from its memory.
+func poly1CGFreeSolveDirection(dir *poly1CGFreeDirection, g, d *[1]float64, diffs *poly1CGFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly1CGFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1CGFreeTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1CGFreeAbs(x[i]) + 1) / poly1CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1CGFreeStepScale(x[i]) / poly1CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float
 			return poly1CGFreeLineResult{calls: calls, end: poly1CGFreeSearchOutOfBudget}
 		}
 		poly1CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly1CGFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly1CGFreeLinePoint{step: t, value: poly1CGFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly1CGFreeFinite(current.value) || current.value > fx+poly1CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

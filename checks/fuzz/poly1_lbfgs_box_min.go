@@ -365,7 +365,7 @@ func (r *poly1LBFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1LBFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1LBFGSBoxFinite(r.fx) || !poly1LBFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly1LBFGSBoxNonFiniteStart
@@ -466,11 +466,11 @@ func (r *poly1LBFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1LBFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly1LBFGSBoxDescent) search(recv *Poly) {
-	poly1LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1LBFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly1LBFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1LBFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly1LBFGSBoxStepInitial)
@@ -558,7 +558,11 @@ type poly1LBFGSBoxDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1LBFGSBoxRoundingFloor)
 	bounds    poly1LBFGSBoxBox
+	model     poly1LBFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly1LBFGSBoxResidualModel for any other)
 }
+
+// poly1LBFGSBoxResidualModel is poly1LBFGSBoxResidualModel for any other objective: nothing.
+type poly1LBFGSBoxResidualModel struct{}
 
 // poly1LBFGSBoxDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly1LBFGSBoxLbfgsMemory pairs (s, y), kept
@@ -713,6 +717,11 @@ const (
 	poly1LBFGSBoxVerifyPass    // a difference gradient passed the test
 	poly1LBFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly1LBFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1LBFGSBoxValue(recv *Poly, x, g *[1]float64, diffs *poly1LBFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1LBFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1114,16 +1123,22 @@ func poly1LBFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly1LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly1LBFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1LBFGSBoxStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1LBFGSBoxAbs(s[i]) <= tol*(poly1LBFGSBoxAbs(x[i])+1)) {
+		if !(poly1LBFGSBoxAbs(s[i]) <= tol*poly1LBFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly1LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1LBFGSBoxStepScale(xi float64) float64 {
+	return poly1LBFGSBoxAbs(xi) + 1
 }
 
 // poly1LBFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1169,7 +1184,8 @@ func poly1LBFGSBoxCurvaturePair(s, y, x *[1]float64, b *poly1LBFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly1LBFGSBoxSearchDirection(dir *poly1LBFGSBoxDirection, x, g, d *[1]float64, b *poly1LBFGSBoxBox) {
+func poly1LBFGSBoxSearchDirection(dir *poly1LBFGSBoxDirection, x, g, d *[1]float64, diffs *poly1LBFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly1LBFGSBoxLarger(reach, poly1LBFGSBoxAbs(x[i]-poly1LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1186,7 +1202,7 @@ func poly1LBFGSBoxSearchDirection(dir *poly1LBFGSBoxDirection, x, g, d *[1]float
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly1LBFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1197,13 +1213,18 @@ func poly1LBFGSBoxSearchDirection(dir *poly1LBFGSBoxDirection, x, g, d *[1]float
 	}
 }
 
+// poly1LBFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly1LBFGSBoxSolveDirection(dir *poly1LBFGSBoxDirection, g, d *[1]float64, diffs *poly1LBFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly1LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1LBFGSBoxTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1LBFGSBoxAbs(x[i]) + 1) / poly1LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1LBFGSBoxStepScale(x[i]) / poly1LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1263,7 +1284,7 @@ func poly1LBFGSBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]flo
 			return poly1LBFGSBoxLineResult{calls: calls, end: poly1LBFGSBoxSearchOutOfBudget}
 		}
 		poly1LBFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly1LBFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly1LBFGSBoxLinePoint{step: t, value: poly1LBFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly1LBFGSBoxFinite(current.value) || current.value > fx+poly1LBFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *poly1LBFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1LBFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1LBFGSFreeFinite(r.fx) || !poly1LBFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly1LBFGSFreeNonFiniteStart
@@ -456,11 +456,11 @@ func (r *poly1LBFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1LBFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly1LBFGSFreeDescent) search(recv *Poly) {
-	poly1LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1LBFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly1LBFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1LBFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly1LBFGSFreeStepInitial)
@@ -548,7 +548,11 @@ type poly1LBFGSFreeDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1LBFGSFreeRoundingFloor)
 	bounds    poly1LBFGSFreeBox
+	model     poly1LBFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly1LBFGSFreeResidualModel for any other)
 }
+
+// poly1LBFGSFreeResidualModel is poly1LBFGSFreeResidualModel for any other objective: nothing.
+type poly1LBFGSFreeResidualModel struct{}
 
 // poly1LBFGSFreeDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly1LBFGSFreeLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	poly1LBFGSFreeVerifyPass    // a difference gradient passed the test
 	poly1LBFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly1LBFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1LBFGSFreeValue(recv *Poly, x, g *[1]float64, diffs *poly1LBFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1LBFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func poly1LBFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// poly1LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly1LBFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1LBFGSFreeStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1LBFGSFreeAbs(s[i]) <= tol*(poly1LBFGSFreeAbs(x[i])+1)) {
+		if !(poly1LBFGSFreeAbs(s[i]) <= tol*poly1LBFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly1LBFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1LBFGSFreeStepScale(xi float64) float64 {
+	return poly1LBFGSFreeAbs(xi) + 1
+}
+
 // poly1LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1LBFGSFreeCurvaturePair(s, y, x *[1]float64, b *poly1LBFGSFreeBox) {}
 
 // poly1LBFGSFreeSearchDirection is the direction's own.
-func poly1LBFGSFreeSearchDirection(dir *poly1LBFGSFreeDirection, x, g, d *[1]float64, b *poly1LBFGSFreeBox) {
+func poly1LBFGSFreeSearchDirection(dir *poly1LBFGSFreeDirection, x, g, d *[1]float64, diffs *poly1LBFGSFreeDifferences) {
+	poly1LBFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly1LBFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly1LBFGSFreeSolveDirection(dir *poly1LBFGSFreeDirection, g, d *[1]float64, diffs *poly1LBFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly1LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1LBFGSFreeTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1LBFGSFreeAbs(x[i]) + 1) / poly1LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1LBFGSFreeStepScale(x[i]) / poly1LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func poly1LBFGSFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]fl
 			return poly1LBFGSFreeLineResult{calls: calls, end: poly1LBFGSFreeSearchOutOfBudget}
 		}
 		poly1LBFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly1LBFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly1LBFGSFreeLinePoint{step: t, value: poly1LBFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly1LBFGSFreeFinite(current.value) || current.value > fx+poly1LBFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

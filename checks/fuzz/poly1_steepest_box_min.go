@@ -364,7 +364,7 @@ func (r *poly1SteepestBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1SteepestBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1SteepestBoxFinite(r.fx) || !poly1SteepestBoxFiniteVec(&r.x) {
 		r.out.status = Poly1SteepestBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly1SteepestBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1SteepestBoxStageJudge next when the run
 // goes on.
 func (r *poly1SteepestBoxDescent) search(recv *Poly) {
-	poly1SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1SteepestBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly1SteepestBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1SteepestBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly1SteepestBoxStepInitial)
@@ -557,7 +557,11 @@ type poly1SteepestBoxDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1SteepestBoxRoundingFloor)
 	bounds    poly1SteepestBoxBox
+	model     poly1SteepestBoxResidualModel // a residual objective's residuals and Jacobian products (poly1SteepestBoxResidualModel for any other)
 }
+
+// poly1SteepestBoxResidualModel is poly1SteepestBoxResidualModel for any other objective: nothing.
+type poly1SteepestBoxResidualModel struct{}
 
 // poly1SteepestBoxDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -659,6 +663,11 @@ const (
 	poly1SteepestBoxVerifyPass    // a difference gradient passed the test
 	poly1SteepestBoxVerifyStall   // no step makes progress
 )
+
+// poly1SteepestBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1SteepestBoxValue(recv *Poly, x, g *[1]float64, diffs *poly1SteepestBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly1SteepestBoxFiniteVec(x *[1]float64) bool {
@@ -869,16 +878,22 @@ func poly1SteepestBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// poly1SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·poly1SteepestBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1SteepestBoxStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1SteepestBoxAbs(s[i]) <= tol*(poly1SteepestBoxAbs(x[i])+1)) {
+		if !(poly1SteepestBoxAbs(s[i]) <= tol*poly1SteepestBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly1SteepestBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1SteepestBoxStepScale(xi float64) float64 {
+	return poly1SteepestBoxAbs(xi) + 1
 }
 
 // poly1SteepestBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -924,7 +939,8 @@ func poly1SteepestBoxCurvaturePair(s, y, x *[1]float64, b *poly1SteepestBoxBox) 
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly1SteepestBoxSearchDirection(dir *poly1SteepestBoxDirection, x, g, d *[1]float64, b *poly1SteepestBoxBox) {
+func poly1SteepestBoxSearchDirection(dir *poly1SteepestBoxDirection, x, g, d *[1]float64, diffs *poly1SteepestBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly1SteepestBoxLarger(reach, poly1SteepestBoxAbs(x[i]-poly1SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -941,7 +957,7 @@ func poly1SteepestBoxSearchDirection(dir *poly1SteepestBoxDirection, x, g, d *[1
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly1SteepestBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -950,6 +966,11 @@ func poly1SteepestBoxSearchDirection(dir *poly1SteepestBoxDirection, x, g, d *[1
 			d[i] = 0
 		}
 	}
+}
+
+// poly1SteepestBoxSolveDirection is the direction's own rule, from its memory.
+func poly1SteepestBoxSolveDirection(dir *poly1SteepestBoxDirection, g, d *[1]float64, diffs *poly1SteepestBoxDifferences) {
+	dir.compute(g, d)
 }
 
 // poly1SteepestBoxDot returns aᵀb.
@@ -962,12 +983,12 @@ func poly1SteepestBoxDot(a, b *[1]float64) float64 {
 }
 
 // poly1SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1SteepestBoxTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1SteepestBoxAbs(x[i]) + 1) / poly1SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1SteepestBoxStepScale(x[i]) / poly1SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -992,7 +1013,7 @@ func poly1SteepestBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]
 			return poly1SteepestBoxLineResult{calls: trial, end: poly1SteepestBoxSearchOutOfBudget}
 		}
 		poly1SteepestBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly1SteepestBoxValue(recv, xt, gt, diffs)
 		if poly1SteepestBoxFinite(ft) && poly1SteepestBoxAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly1SteepestBoxLineResult{step: t, value: ft, calls: trial + 1, end: poly1SteepestBoxSearchAccepted}
 		}

@@ -354,7 +354,7 @@ func (r *poly1SteepestFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly1SteepestFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly1SteepestFreeFinite(r.fx) || !poly1SteepestFreeFiniteVec(&r.x) {
 		r.out.status = Poly1SteepestFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly1SteepestFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly1SteepestFreeStageJudge next when the run
 // goes on.
 func (r *poly1SteepestFreeDescent) search(recv *Poly) {
-	poly1SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly1SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1SteepestFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly1SteepestFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly1SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly1SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1SteepestFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly1SteepestFreeStepInitial)
@@ -547,7 +547,11 @@ type poly1SteepestFreeDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see poly1SteepestFreeRoundingFloor)
 	bounds    poly1SteepestFreeBox
+	model     poly1SteepestFreeResidualModel // a residual objective's residuals and Jacobian products (poly1SteepestFreeResidualModel for any other)
 }
+
+// poly1SteepestFreeResidualModel is poly1SteepestFreeResidualModel for any other objective: nothing.
+type poly1SteepestFreeResidualModel struct{}
 
 // poly1SteepestFreeDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	poly1SteepestFreeVerifyPass    // a difference gradient passed the test
 	poly1SteepestFreeVerifyStall   // no step makes progress
 )
+
+// poly1SteepestFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly1SteepestFreeValue(recv *Poly, x, g *[1]float64, diffs *poly1SteepestFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly1SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly1SteepestFreeFiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func poly1SteepestFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// poly1SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly1SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly1SteepestFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly1SteepestFreeStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(poly1SteepestFreeAbs(s[i]) <= tol*(poly1SteepestFreeAbs(x[i])+1)) {
+		if !(poly1SteepestFreeAbs(s[i]) <= tol*poly1SteepestFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly1SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly1SteepestFreeStepScale(xi float64) float64 {
+	return poly1SteepestFreeAbs(xi) + 1
+}
+
 // poly1SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1SteepestFreeCurvaturePair(s, y, x *[1]float64, b *poly1SteepestFreeBox) {}
 
 // poly1SteepestFreeSearchDirection is the direction's own.
-func poly1SteepestFreeSearchDirection(dir *poly1SteepestFreeDirection, x, g, d *[1]float64, b *poly1SteepestFreeBox) {
+func poly1SteepestFreeSearchDirection(dir *poly1SteepestFreeDirection, x, g, d *[1]float64, diffs *poly1SteepestFreeDifferences) {
+	poly1SteepestFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly1SteepestFreeSolveDirection is the direction's own rule, from its memory.
+func poly1SteepestFreeSolveDirection(dir *poly1SteepestFreeDirection, g, d *[1]float64, diffs *poly1SteepestFreeDifferences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func poly1SteepestFreeDot(a, b *[1]float64) float64 {
 }
 
 // poly1SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly1SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1SteepestFreeTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly1SteepestFreeAbs(x[i]) + 1) / poly1SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1SteepestFreeStepScale(x[i]) / poly1SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -896,7 +916,7 @@ func poly1SteepestFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1
 			return poly1SteepestFreeLineResult{calls: trial, end: poly1SteepestFreeSearchOutOfBudget}
 		}
 		poly1SteepestFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly1SteepestFreeValue(recv, xt, gt, diffs)
 		if poly1SteepestFreeFinite(ft) && poly1SteepestFreeAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly1SteepestFreeLineResult{step: t, value: ft, calls: trial + 1, end: poly1SteepestFreeSearchAccepted}
 		}

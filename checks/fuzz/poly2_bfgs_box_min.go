@@ -364,7 +364,7 @@ func (r *poly2BFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2BFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2BFGSBoxFinite(r.fx) || !poly2BFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly2BFGSBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly2BFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2BFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly2BFGSBoxDescent) search(recv *Poly) {
-	poly2BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2BFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly2BFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2BFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly2BFGSBoxStepInitial)
@@ -557,7 +557,11 @@ type poly2BFGSBoxDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2BFGSBoxRoundingFloor)
 	bounds    poly2BFGSBoxBox
+	model     poly2BFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly2BFGSBoxResidualModel for any other)
 }
+
+// poly2BFGSBoxResidualModel is poly2BFGSBoxResidualModel for any other objective: nothing.
+type poly2BFGSBoxResidualModel struct{}
 
 // poly2BFGSBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	poly2BFGSBoxVerifyPass    // a difference gradient passed the test
 	poly2BFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly2BFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2BFGSBoxValue(recv *Poly, x, g *[2]float64, diffs *poly2BFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2BFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func poly2BFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floo
 	return measure, floor
 }
 
-// poly2BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly2BFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2BFGSBoxStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2BFGSBoxAbs(s[i]) <= tol*(poly2BFGSBoxAbs(x[i])+1)) {
+		if !(poly2BFGSBoxAbs(s[i]) <= tol*poly2BFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly2BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2BFGSBoxStepScale(xi float64) float64 {
+	return poly2BFGSBoxAbs(xi) + 1
 }
 
 // poly2BFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func poly2BFGSBoxCurvaturePair(s, y, x *[2]float64, b *poly2BFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly2BFGSBoxSearchDirection(dir *poly2BFGSBoxDirection, x, g, d *[2]float64, b *poly2BFGSBoxBox) {
+func poly2BFGSBoxSearchDirection(dir *poly2BFGSBoxDirection, x, g, d *[2]float64, diffs *poly2BFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly2BFGSBoxLarger(reach, poly2BFGSBoxAbs(x[i]-poly2BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func poly2BFGSBoxSearchDirection(dir *poly2BFGSBoxDirection, x, g, d *[2]float64
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly2BFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func poly2BFGSBoxSearchDirection(dir *poly2BFGSBoxDirection, x, g, d *[2]float64
 	}
 }
 
+// poly2BFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly2BFGSBoxSolveDirection(dir *poly2BFGSBoxDirection, g, d *[2]float64, diffs *poly2BFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly2BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2BFGSBoxTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2BFGSBoxAbs(x[i]) + 1) / poly2BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2BFGSBoxStepScale(x[i]) / poly2BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func poly2BFGSBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]floa
 			return poly2BFGSBoxLineResult{calls: calls, end: poly2BFGSBoxSearchOutOfBudget}
 		}
 		poly2BFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly2BFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly2BFGSBoxLinePoint{step: t, value: poly2BFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly2BFGSBoxFinite(current.value) || current.value > fx+poly2BFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

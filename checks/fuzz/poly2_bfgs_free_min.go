@@ -354,7 +354,7 @@ func (r *poly2BFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2BFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2BFGSFreeFinite(r.fx) || !poly2BFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly2BFGSFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly2BFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2BFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly2BFGSFreeDescent) search(recv *Poly) {
-	poly2BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2BFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly2BFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2BFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly2BFGSFreeStepInitial)
@@ -547,7 +547,11 @@ type poly2BFGSFreeDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2BFGSFreeRoundingFloor)
 	bounds    poly2BFGSFreeBox
+	model     poly2BFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly2BFGSFreeResidualModel for any other)
 }
+
+// poly2BFGSFreeResidualModel is poly2BFGSFreeResidualModel for any other objective: nothing.
+type poly2BFGSFreeResidualModel struct{}
 
 // poly2BFGSFreeDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	poly2BFGSFreeVerifyPass    // a difference gradient passed the test
 	poly2BFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly2BFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2BFGSFreeValue(recv *Poly, x, g *[2]float64, diffs *poly2BFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2BFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func poly2BFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly2BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly2BFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2BFGSFreeStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2BFGSFreeAbs(s[i]) <= tol*(poly2BFGSFreeAbs(x[i])+1)) {
+		if !(poly2BFGSFreeAbs(s[i]) <= tol*poly2BFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly2BFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2BFGSFreeStepScale(xi float64) float64 {
+	return poly2BFGSFreeAbs(xi) + 1
+}
+
 // poly2BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2BFGSFreeCurvaturePair(s, y, x *[2]float64, b *poly2BFGSFreeBox) {}
 
 // poly2BFGSFreeSearchDirection is the direction's own.
-func poly2BFGSFreeSearchDirection(dir *poly2BFGSFreeDirection, x, g, d *[2]float64, b *poly2BFGSFreeBox) {
+func poly2BFGSFreeSearchDirection(dir *poly2BFGSFreeDirection, x, g, d *[2]float64, diffs *poly2BFGSFreeDifferences) {
+	poly2BFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly2BFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly2BFGSFreeSolveDirection(dir *poly2BFGSFreeDirection, g, d *[2]float64, diffs *poly2BFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly2BFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2BFGSFreeTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2BFGSFreeAbs(x[i]) + 1) / poly2BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2BFGSFreeStepScale(x[i]) / poly2BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func poly2BFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]flo
 			return poly2BFGSFreeLineResult{calls: calls, end: poly2BFGSFreeSearchOutOfBudget}
 		}
 		poly2BFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly2BFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly2BFGSFreeLinePoint{step: t, value: poly2BFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly2BFGSFreeFinite(current.value) || current.value > fx+poly2BFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *poly2CGFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2CGFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2CGFreeFinite(r.fx) || !poly2CGFreeFiniteVec(&r.x) {
 		r.out.status = Poly2CGFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly2CGFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2CGFreeStageJudge next when the run
 // goes on.
 func (r *poly2CGFreeDescent) search(recv *Poly) {
-	poly2CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2CGFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly2CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2CGFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly2CGFreeStepInitial)
@@ -547,7 +547,11 @@ type poly2CGFreeDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2CGFreeRoundingFloor)
 	bounds    poly2CGFreeBox
+	model     poly2CGFreeResidualModel // a residual objective's residuals and Jacobian products (poly2CGFreeResidualModel for any other)
 }
+
+// poly2CGFreeResidualModel is poly2CGFreeResidualModel for any other objective: nothing.
+type poly2CGFreeResidualModel struct{}
 
 // poly2CGFreeDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	poly2CGFreeVerifyPass    // a difference gradient passed the test
 	poly2CGFreeVerifyStall   // no step makes progress
 )
+
+// poly2CGFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2CGFreeValue(recv *Poly, x, g *[2]float64, diffs *poly2CGFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2CGFreeFiniteVec reports whether every component of x is finite.
 func poly2CGFreeFiniteVec(x *[2]float64) bool {
@@ -865,33 +874,44 @@ func poly2CGFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor
 	return measure, floor
 }
 
-// poly2CGFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly2CGFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2CGFreeStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2CGFreeAbs(s[i]) <= tol*(poly2CGFreeAbs(x[i])+1)) {
+		if !(poly2CGFreeAbs(s[i]) <= tol*poly2CGFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly2CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2CGFreeStepScale(xi float64) float64 {
+	return poly2CGFreeAbs(xi) + 1
+}
+
 // poly2CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2CGFreeCurvaturePair(s, y, x *[2]float64, b *poly2CGFreeBox) {}
 
 // poly2CGFreeSearchDirection is the direction's own.
-func poly2CGFreeSearchDirection(dir *poly2CGFreeDirection, x, g, d *[2]float64, b *poly2CGFreeBox) {
+func poly2CGFreeSearchDirection(dir *poly2CGFreeDirection, x, g, d *[2]float64, diffs *poly2CGFreeDifferences) {
+	poly2CGFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly2CGFreeSolveDirection is the direction's own rule, from its memory.
+func poly2CGFreeSolveDirection(dir *poly2CGFreeDirection, g, d *[2]float64, diffs *poly2CGFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly2CGFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2CGFreeTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2CGFreeAbs(x[i]) + 1) / poly2CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2CGFreeStepScale(x[i]) / poly2CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float
 			return poly2CGFreeLineResult{calls: calls, end: poly2CGFreeSearchOutOfBudget}
 		}
 		poly2CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly2CGFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly2CGFreeLinePoint{step: t, value: poly2CGFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly2CGFreeFinite(current.value) || current.value > fx+poly2CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

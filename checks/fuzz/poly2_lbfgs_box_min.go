@@ -365,7 +365,7 @@ func (r *poly2LBFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2LBFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2LBFGSBoxFinite(r.fx) || !poly2LBFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly2LBFGSBoxNonFiniteStart
@@ -466,11 +466,11 @@ func (r *poly2LBFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2LBFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly2LBFGSBoxDescent) search(recv *Poly) {
-	poly2LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2LBFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly2LBFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2LBFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly2LBFGSBoxStepInitial)
@@ -558,7 +558,11 @@ type poly2LBFGSBoxDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2LBFGSBoxRoundingFloor)
 	bounds    poly2LBFGSBoxBox
+	model     poly2LBFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly2LBFGSBoxResidualModel for any other)
 }
+
+// poly2LBFGSBoxResidualModel is poly2LBFGSBoxResidualModel for any other objective: nothing.
+type poly2LBFGSBoxResidualModel struct{}
 
 // poly2LBFGSBoxDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly2LBFGSBoxLbfgsMemory pairs (s, y), kept
@@ -713,6 +717,11 @@ const (
 	poly2LBFGSBoxVerifyPass    // a difference gradient passed the test
 	poly2LBFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly2LBFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2LBFGSBoxValue(recv *Poly, x, g *[2]float64, diffs *poly2LBFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2LBFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1114,16 +1123,22 @@ func poly2LBFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly2LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly2LBFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2LBFGSBoxStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2LBFGSBoxAbs(s[i]) <= tol*(poly2LBFGSBoxAbs(x[i])+1)) {
+		if !(poly2LBFGSBoxAbs(s[i]) <= tol*poly2LBFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly2LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2LBFGSBoxStepScale(xi float64) float64 {
+	return poly2LBFGSBoxAbs(xi) + 1
 }
 
 // poly2LBFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1169,7 +1184,8 @@ func poly2LBFGSBoxCurvaturePair(s, y, x *[2]float64, b *poly2LBFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly2LBFGSBoxSearchDirection(dir *poly2LBFGSBoxDirection, x, g, d *[2]float64, b *poly2LBFGSBoxBox) {
+func poly2LBFGSBoxSearchDirection(dir *poly2LBFGSBoxDirection, x, g, d *[2]float64, diffs *poly2LBFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly2LBFGSBoxLarger(reach, poly2LBFGSBoxAbs(x[i]-poly2LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1186,7 +1202,7 @@ func poly2LBFGSBoxSearchDirection(dir *poly2LBFGSBoxDirection, x, g, d *[2]float
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly2LBFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1197,13 +1213,18 @@ func poly2LBFGSBoxSearchDirection(dir *poly2LBFGSBoxDirection, x, g, d *[2]float
 	}
 }
 
+// poly2LBFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly2LBFGSBoxSolveDirection(dir *poly2LBFGSBoxDirection, g, d *[2]float64, diffs *poly2LBFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly2LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2LBFGSBoxTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2LBFGSBoxAbs(x[i]) + 1) / poly2LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2LBFGSBoxStepScale(x[i]) / poly2LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1263,7 +1284,7 @@ func poly2LBFGSBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]flo
 			return poly2LBFGSBoxLineResult{calls: calls, end: poly2LBFGSBoxSearchOutOfBudget}
 		}
 		poly2LBFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly2LBFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly2LBFGSBoxLinePoint{step: t, value: poly2LBFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly2LBFGSBoxFinite(current.value) || current.value > fx+poly2LBFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

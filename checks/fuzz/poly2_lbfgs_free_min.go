@@ -355,7 +355,7 @@ func (r *poly2LBFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2LBFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2LBFGSFreeFinite(r.fx) || !poly2LBFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly2LBFGSFreeNonFiniteStart
@@ -456,11 +456,11 @@ func (r *poly2LBFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2LBFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly2LBFGSFreeDescent) search(recv *Poly) {
-	poly2LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2LBFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly2LBFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2LBFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly2LBFGSFreeStepInitial)
@@ -548,7 +548,11 @@ type poly2LBFGSFreeDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2LBFGSFreeRoundingFloor)
 	bounds    poly2LBFGSFreeBox
+	model     poly2LBFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly2LBFGSFreeResidualModel for any other)
 }
+
+// poly2LBFGSFreeResidualModel is poly2LBFGSFreeResidualModel for any other objective: nothing.
+type poly2LBFGSFreeResidualModel struct{}
 
 // poly2LBFGSFreeDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly2LBFGSFreeLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	poly2LBFGSFreeVerifyPass    // a difference gradient passed the test
 	poly2LBFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly2LBFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2LBFGSFreeValue(recv *Poly, x, g *[2]float64, diffs *poly2LBFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2LBFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func poly2LBFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// poly2LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly2LBFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2LBFGSFreeStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2LBFGSFreeAbs(s[i]) <= tol*(poly2LBFGSFreeAbs(x[i])+1)) {
+		if !(poly2LBFGSFreeAbs(s[i]) <= tol*poly2LBFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly2LBFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2LBFGSFreeStepScale(xi float64) float64 {
+	return poly2LBFGSFreeAbs(xi) + 1
+}
+
 // poly2LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2LBFGSFreeCurvaturePair(s, y, x *[2]float64, b *poly2LBFGSFreeBox) {}
 
 // poly2LBFGSFreeSearchDirection is the direction's own.
-func poly2LBFGSFreeSearchDirection(dir *poly2LBFGSFreeDirection, x, g, d *[2]float64, b *poly2LBFGSFreeBox) {
+func poly2LBFGSFreeSearchDirection(dir *poly2LBFGSFreeDirection, x, g, d *[2]float64, diffs *poly2LBFGSFreeDifferences) {
+	poly2LBFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly2LBFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly2LBFGSFreeSolveDirection(dir *poly2LBFGSFreeDirection, g, d *[2]float64, diffs *poly2LBFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly2LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2LBFGSFreeTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2LBFGSFreeAbs(x[i]) + 1) / poly2LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2LBFGSFreeStepScale(x[i]) / poly2LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func poly2LBFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]fl
 			return poly2LBFGSFreeLineResult{calls: calls, end: poly2LBFGSFreeSearchOutOfBudget}
 		}
 		poly2LBFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly2LBFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly2LBFGSFreeLinePoint{step: t, value: poly2LBFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly2LBFGSFreeFinite(current.value) || current.value > fx+poly2LBFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -364,7 +364,7 @@ func (r *poly2SteepestBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2SteepestBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2SteepestBoxFinite(r.fx) || !poly2SteepestBoxFiniteVec(&r.x) {
 		r.out.status = Poly2SteepestBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly2SteepestBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2SteepestBoxStageJudge next when the run
 // goes on.
 func (r *poly2SteepestBoxDescent) search(recv *Poly) {
-	poly2SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2SteepestBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly2SteepestBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2SteepestBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly2SteepestBoxStepInitial)
@@ -557,7 +557,11 @@ type poly2SteepestBoxDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2SteepestBoxRoundingFloor)
 	bounds    poly2SteepestBoxBox
+	model     poly2SteepestBoxResidualModel // a residual objective's residuals and Jacobian products (poly2SteepestBoxResidualModel for any other)
 }
+
+// poly2SteepestBoxResidualModel is poly2SteepestBoxResidualModel for any other objective: nothing.
+type poly2SteepestBoxResidualModel struct{}
 
 // poly2SteepestBoxDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -659,6 +663,11 @@ const (
 	poly2SteepestBoxVerifyPass    // a difference gradient passed the test
 	poly2SteepestBoxVerifyStall   // no step makes progress
 )
+
+// poly2SteepestBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2SteepestBoxValue(recv *Poly, x, g *[2]float64, diffs *poly2SteepestBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly2SteepestBoxFiniteVec(x *[2]float64) bool {
@@ -869,16 +878,22 @@ func poly2SteepestBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// poly2SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·poly2SteepestBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2SteepestBoxStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2SteepestBoxAbs(s[i]) <= tol*(poly2SteepestBoxAbs(x[i])+1)) {
+		if !(poly2SteepestBoxAbs(s[i]) <= tol*poly2SteepestBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly2SteepestBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2SteepestBoxStepScale(xi float64) float64 {
+	return poly2SteepestBoxAbs(xi) + 1
 }
 
 // poly2SteepestBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -924,7 +939,8 @@ func poly2SteepestBoxCurvaturePair(s, y, x *[2]float64, b *poly2SteepestBoxBox) 
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly2SteepestBoxSearchDirection(dir *poly2SteepestBoxDirection, x, g, d *[2]float64, b *poly2SteepestBoxBox) {
+func poly2SteepestBoxSearchDirection(dir *poly2SteepestBoxDirection, x, g, d *[2]float64, diffs *poly2SteepestBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly2SteepestBoxLarger(reach, poly2SteepestBoxAbs(x[i]-poly2SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -941,7 +957,7 @@ func poly2SteepestBoxSearchDirection(dir *poly2SteepestBoxDirection, x, g, d *[2
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly2SteepestBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -950,6 +966,11 @@ func poly2SteepestBoxSearchDirection(dir *poly2SteepestBoxDirection, x, g, d *[2
 			d[i] = 0
 		}
 	}
+}
+
+// poly2SteepestBoxSolveDirection is the direction's own rule, from its memory.
+func poly2SteepestBoxSolveDirection(dir *poly2SteepestBoxDirection, g, d *[2]float64, diffs *poly2SteepestBoxDifferences) {
+	dir.compute(g, d)
 }
 
 // poly2SteepestBoxDot returns aᵀb.
@@ -962,12 +983,12 @@ func poly2SteepestBoxDot(a, b *[2]float64) float64 {
 }
 
 // poly2SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2SteepestBoxTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2SteepestBoxAbs(x[i]) + 1) / poly2SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2SteepestBoxStepScale(x[i]) / poly2SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -992,7 +1013,7 @@ func poly2SteepestBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]
 			return poly2SteepestBoxLineResult{calls: trial, end: poly2SteepestBoxSearchOutOfBudget}
 		}
 		poly2SteepestBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly2SteepestBoxValue(recv, xt, gt, diffs)
 		if poly2SteepestBoxFinite(ft) && poly2SteepestBoxAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly2SteepestBoxLineResult{step: t, value: ft, calls: trial + 1, end: poly2SteepestBoxSearchAccepted}
 		}

@@ -354,7 +354,7 @@ func (r *poly2SteepestFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly2SteepestFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly2SteepestFreeFinite(r.fx) || !poly2SteepestFreeFiniteVec(&r.x) {
 		r.out.status = Poly2SteepestFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly2SteepestFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly2SteepestFreeStageJudge next when the run
 // goes on.
 func (r *poly2SteepestFreeDescent) search(recv *Poly) {
-	poly2SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly2SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2SteepestFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly2SteepestFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly2SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly2SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2SteepestFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly2SteepestFreeStepInitial)
@@ -547,7 +547,11 @@ type poly2SteepestFreeDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see poly2SteepestFreeRoundingFloor)
 	bounds    poly2SteepestFreeBox
+	model     poly2SteepestFreeResidualModel // a residual objective's residuals and Jacobian products (poly2SteepestFreeResidualModel for any other)
 }
+
+// poly2SteepestFreeResidualModel is poly2SteepestFreeResidualModel for any other objective: nothing.
+type poly2SteepestFreeResidualModel struct{}
 
 // poly2SteepestFreeDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	poly2SteepestFreeVerifyPass    // a difference gradient passed the test
 	poly2SteepestFreeVerifyStall   // no step makes progress
 )
+
+// poly2SteepestFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly2SteepestFreeValue(recv *Poly, x, g *[2]float64, diffs *poly2SteepestFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly2SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly2SteepestFreeFiniteVec(x *[2]float64) bool {
@@ -836,23 +845,34 @@ func poly2SteepestFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// poly2SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly2SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly2SteepestFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly2SteepestFreeStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(poly2SteepestFreeAbs(s[i]) <= tol*(poly2SteepestFreeAbs(x[i])+1)) {
+		if !(poly2SteepestFreeAbs(s[i]) <= tol*poly2SteepestFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly2SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly2SteepestFreeStepScale(xi float64) float64 {
+	return poly2SteepestFreeAbs(xi) + 1
+}
+
 // poly2SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2SteepestFreeCurvaturePair(s, y, x *[2]float64, b *poly2SteepestFreeBox) {}
 
 // poly2SteepestFreeSearchDirection is the direction's own.
-func poly2SteepestFreeSearchDirection(dir *poly2SteepestFreeDirection, x, g, d *[2]float64, b *poly2SteepestFreeBox) {
+func poly2SteepestFreeSearchDirection(dir *poly2SteepestFreeDirection, x, g, d *[2]float64, diffs *poly2SteepestFreeDifferences) {
+	poly2SteepestFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly2SteepestFreeSolveDirection is the direction's own rule, from its memory.
+func poly2SteepestFreeSolveDirection(dir *poly2SteepestFreeDirection, g, d *[2]float64, diffs *poly2SteepestFreeDifferences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func poly2SteepestFreeDot(a, b *[2]float64) float64 {
 }
 
 // poly2SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly2SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2SteepestFreeTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly2SteepestFreeAbs(x[i]) + 1) / poly2SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2SteepestFreeStepScale(x[i]) / poly2SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -896,7 +916,7 @@ func poly2SteepestFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2
 			return poly2SteepestFreeLineResult{calls: trial, end: poly2SteepestFreeSearchOutOfBudget}
 		}
 		poly2SteepestFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly2SteepestFreeValue(recv, xt, gt, diffs)
 		if poly2SteepestFreeFinite(ft) && poly2SteepestFreeAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly2SteepestFreeLineResult{step: t, value: ft, calls: trial + 1, end: poly2SteepestFreeSearchAccepted}
 		}

@@ -364,7 +364,7 @@ func (r *poly3BFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3BFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3BFGSBoxFinite(r.fx) || !poly3BFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly3BFGSBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly3BFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3BFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly3BFGSBoxDescent) search(recv *Poly) {
-	poly3BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3BFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly3BFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3BFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly3BFGSBoxStepInitial)
@@ -557,7 +557,11 @@ type poly3BFGSBoxDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3BFGSBoxRoundingFloor)
 	bounds    poly3BFGSBoxBox
+	model     poly3BFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly3BFGSBoxResidualModel for any other)
 }
+
+// poly3BFGSBoxResidualModel is poly3BFGSBoxResidualModel for any other objective: nothing.
+type poly3BFGSBoxResidualModel struct{}
 
 // poly3BFGSBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	poly3BFGSBoxVerifyPass    // a difference gradient passed the test
 	poly3BFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly3BFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3BFGSBoxValue(recv *Poly, x, g *[3]float64, diffs *poly3BFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3BFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func poly3BFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floo
 	return measure, floor
 }
 
-// poly3BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly3BFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3BFGSBoxStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3BFGSBoxAbs(s[i]) <= tol*(poly3BFGSBoxAbs(x[i])+1)) {
+		if !(poly3BFGSBoxAbs(s[i]) <= tol*poly3BFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly3BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3BFGSBoxStepScale(xi float64) float64 {
+	return poly3BFGSBoxAbs(xi) + 1
 }
 
 // poly3BFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func poly3BFGSBoxCurvaturePair(s, y, x *[3]float64, b *poly3BFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly3BFGSBoxSearchDirection(dir *poly3BFGSBoxDirection, x, g, d *[3]float64, b *poly3BFGSBoxBox) {
+func poly3BFGSBoxSearchDirection(dir *poly3BFGSBoxDirection, x, g, d *[3]float64, diffs *poly3BFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly3BFGSBoxLarger(reach, poly3BFGSBoxAbs(x[i]-poly3BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func poly3BFGSBoxSearchDirection(dir *poly3BFGSBoxDirection, x, g, d *[3]float64
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly3BFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func poly3BFGSBoxSearchDirection(dir *poly3BFGSBoxDirection, x, g, d *[3]float64
 	}
 }
 
+// poly3BFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly3BFGSBoxSolveDirection(dir *poly3BFGSBoxDirection, g, d *[3]float64, diffs *poly3BFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly3BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3BFGSBoxTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3BFGSBoxAbs(x[i]) + 1) / poly3BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3BFGSBoxStepScale(x[i]) / poly3BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func poly3BFGSBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]floa
 			return poly3BFGSBoxLineResult{calls: calls, end: poly3BFGSBoxSearchOutOfBudget}
 		}
 		poly3BFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly3BFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly3BFGSBoxLinePoint{step: t, value: poly3BFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly3BFGSBoxFinite(current.value) || current.value > fx+poly3BFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

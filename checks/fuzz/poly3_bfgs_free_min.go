@@ -354,7 +354,7 @@ func (r *poly3BFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3BFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3BFGSFreeFinite(r.fx) || !poly3BFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly3BFGSFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly3BFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3BFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly3BFGSFreeDescent) search(recv *Poly) {
-	poly3BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3BFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly3BFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3BFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly3BFGSFreeStepInitial)
@@ -547,7 +547,11 @@ type poly3BFGSFreeDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3BFGSFreeRoundingFloor)
 	bounds    poly3BFGSFreeBox
+	model     poly3BFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly3BFGSFreeResidualModel for any other)
 }
+
+// poly3BFGSFreeResidualModel is poly3BFGSFreeResidualModel for any other objective: nothing.
+type poly3BFGSFreeResidualModel struct{}
 
 // poly3BFGSFreeDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	poly3BFGSFreeVerifyPass    // a difference gradient passed the test
 	poly3BFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly3BFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3BFGSFreeValue(recv *Poly, x, g *[3]float64, diffs *poly3BFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3BFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func poly3BFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly3BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly3BFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3BFGSFreeStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3BFGSFreeAbs(s[i]) <= tol*(poly3BFGSFreeAbs(x[i])+1)) {
+		if !(poly3BFGSFreeAbs(s[i]) <= tol*poly3BFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly3BFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3BFGSFreeStepScale(xi float64) float64 {
+	return poly3BFGSFreeAbs(xi) + 1
+}
+
 // poly3BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3BFGSFreeCurvaturePair(s, y, x *[3]float64, b *poly3BFGSFreeBox) {}
 
 // poly3BFGSFreeSearchDirection is the direction's own.
-func poly3BFGSFreeSearchDirection(dir *poly3BFGSFreeDirection, x, g, d *[3]float64, b *poly3BFGSFreeBox) {
+func poly3BFGSFreeSearchDirection(dir *poly3BFGSFreeDirection, x, g, d *[3]float64, diffs *poly3BFGSFreeDifferences) {
+	poly3BFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly3BFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly3BFGSFreeSolveDirection(dir *poly3BFGSFreeDirection, g, d *[3]float64, diffs *poly3BFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly3BFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3BFGSFreeTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3BFGSFreeAbs(x[i]) + 1) / poly3BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3BFGSFreeStepScale(x[i]) / poly3BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func poly3BFGSFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]flo
 			return poly3BFGSFreeLineResult{calls: calls, end: poly3BFGSFreeSearchOutOfBudget}
 		}
 		poly3BFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly3BFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly3BFGSFreeLinePoint{step: t, value: poly3BFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly3BFGSFreeFinite(current.value) || current.value > fx+poly3BFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

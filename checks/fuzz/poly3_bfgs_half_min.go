@@ -364,7 +364,7 @@ func (r *poly3BFGSHalfDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3BFGSHalfValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3BFGSHalfFinite(r.fx) || !poly3BFGSHalfFiniteVec(&r.x) {
 		r.out.status = Poly3BFGSHalfNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly3BFGSHalfDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3BFGSHalfStageJudge next when the run
 // goes on.
 func (r *poly3BFGSHalfDescent) search(recv *Poly) {
-	poly3BFGSHalfSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3BFGSHalfSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3BFGSHalfDot(&r.g, &r.d)
 	if !(now < 0) || !poly3BFGSHalfFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3BFGSHalfSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3BFGSHalfSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3BFGSHalfDot(&r.g, &r.d)
 	}
 	first := float64(poly3BFGSHalfStepInitial)
@@ -557,7 +557,11 @@ type poly3BFGSHalfDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3BFGSHalfRoundingFloor)
 	bounds    poly3BFGSHalfBox
+	model     poly3BFGSHalfResidualModel // a residual objective's residuals and Jacobian products (poly3BFGSHalfResidualModel for any other)
 }
+
+// poly3BFGSHalfResidualModel is poly3BFGSHalfResidualModel for any other objective: nothing.
+type poly3BFGSHalfResidualModel struct{}
 
 // poly3BFGSHalfDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	poly3BFGSHalfVerifyPass    // a difference gradient passed the test
 	poly3BFGSHalfVerifyStall   // no step makes progress
 )
+
+// poly3BFGSHalfValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3BFGSHalfValue(recv *Poly, x, g *[3]float64, diffs *poly3BFGSHalfDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3BFGSHalfFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func poly3BFGSHalfGradientMeasure(g, e, x *[3]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly3BFGSHalfStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3BFGSHalfStepWithin is the step test: every |s_i| ≤ tol·poly3BFGSHalfStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3BFGSHalfStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3BFGSHalfAbs(s[i]) <= tol*(poly3BFGSHalfAbs(x[i])+1)) {
+		if !(poly3BFGSHalfAbs(s[i]) <= tol*poly3BFGSHalfStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly3BFGSHalfStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3BFGSHalfStepScale(xi float64) float64 {
+	return poly3BFGSHalfAbs(xi) + 1
 }
 
 // poly3BFGSHalfCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func poly3BFGSHalfCurvaturePair(s, y, x *[3]float64, b *poly3BFGSHalfBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly3BFGSHalfSearchDirection(dir *poly3BFGSHalfDirection, x, g, d *[3]float64, b *poly3BFGSHalfBox) {
+func poly3BFGSHalfSearchDirection(dir *poly3BFGSHalfDirection, x, g, d *[3]float64, diffs *poly3BFGSHalfDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly3BFGSHalfLarger(reach, poly3BFGSHalfAbs(x[i]-poly3BFGSHalfClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func poly3BFGSHalfSearchDirection(dir *poly3BFGSHalfDirection, x, g, d *[3]float
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly3BFGSHalfSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func poly3BFGSHalfSearchDirection(dir *poly3BFGSHalfDirection, x, g, d *[3]float
 	}
 }
 
+// poly3BFGSHalfSolveDirection is the direction's own rule, from its memory.
+func poly3BFGSHalfSolveDirection(dir *poly3BFGSHalfDirection, g, d *[3]float64, diffs *poly3BFGSHalfDifferences) {
+	dir.compute(g, d)
+}
+
 // poly3BFGSHalfTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3BFGSHalfStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3BFGSHalfTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3BFGSHalfAbs(x[i]) + 1) / poly3BFGSHalfAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3BFGSHalfStepScale(x[i]) / poly3BFGSHalfAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func poly3BFGSHalfLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]flo
 			return poly3BFGSHalfLineResult{calls: calls, end: poly3BFGSHalfSearchOutOfBudget}
 		}
 		poly3BFGSHalfTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly3BFGSHalfLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly3BFGSHalfLinePoint{step: t, value: poly3BFGSHalfValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly3BFGSHalfFinite(current.value) || current.value > fx+poly3BFGSHalfStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *poly3CGFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3CGFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3CGFreeFinite(r.fx) || !poly3CGFreeFiniteVec(&r.x) {
 		r.out.status = Poly3CGFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly3CGFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3CGFreeStageJudge next when the run
 // goes on.
 func (r *poly3CGFreeDescent) search(recv *Poly) {
-	poly3CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3CGFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly3CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3CGFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly3CGFreeStepInitial)
@@ -547,7 +547,11 @@ type poly3CGFreeDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3CGFreeRoundingFloor)
 	bounds    poly3CGFreeBox
+	model     poly3CGFreeResidualModel // a residual objective's residuals and Jacobian products (poly3CGFreeResidualModel for any other)
 }
+
+// poly3CGFreeResidualModel is poly3CGFreeResidualModel for any other objective: nothing.
+type poly3CGFreeResidualModel struct{}
 
 // poly3CGFreeDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	poly3CGFreeVerifyPass    // a difference gradient passed the test
 	poly3CGFreeVerifyStall   // no step makes progress
 )
+
+// poly3CGFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3CGFreeValue(recv *Poly, x, g *[3]float64, diffs *poly3CGFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3CGFreeFiniteVec reports whether every component of x is finite.
 func poly3CGFreeFiniteVec(x *[3]float64) bool {
@@ -865,33 +874,44 @@ func poly3CGFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor
 	return measure, floor
 }
 
-// poly3CGFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly3CGFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3CGFreeStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3CGFreeAbs(s[i]) <= tol*(poly3CGFreeAbs(x[i])+1)) {
+		if !(poly3CGFreeAbs(s[i]) <= tol*poly3CGFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly3CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3CGFreeStepScale(xi float64) float64 {
+	return poly3CGFreeAbs(xi) + 1
+}
+
 // poly3CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3CGFreeCurvaturePair(s, y, x *[3]float64, b *poly3CGFreeBox) {}
 
 // poly3CGFreeSearchDirection is the direction's own.
-func poly3CGFreeSearchDirection(dir *poly3CGFreeDirection, x, g, d *[3]float64, b *poly3CGFreeBox) {
+func poly3CGFreeSearchDirection(dir *poly3CGFreeDirection, x, g, d *[3]float64, diffs *poly3CGFreeDifferences) {
+	poly3CGFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly3CGFreeSolveDirection is the direction's own rule, from its memory.
+func poly3CGFreeSolveDirection(dir *poly3CGFreeDirection, g, d *[3]float64, diffs *poly3CGFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly3CGFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3CGFreeTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3CGFreeAbs(x[i]) + 1) / poly3CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3CGFreeStepScale(x[i]) / poly3CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float
 			return poly3CGFreeLineResult{calls: calls, end: poly3CGFreeSearchOutOfBudget}
 		}
 		poly3CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly3CGFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly3CGFreeLinePoint{step: t, value: poly3CGFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly3CGFreeFinite(current.value) || current.value > fx+poly3CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -365,7 +365,7 @@ func (r *poly3LBFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3LBFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3LBFGSBoxFinite(r.fx) || !poly3LBFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly3LBFGSBoxNonFiniteStart
@@ -466,11 +466,11 @@ func (r *poly3LBFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3LBFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly3LBFGSBoxDescent) search(recv *Poly) {
-	poly3LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3LBFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly3LBFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3LBFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly3LBFGSBoxStepInitial)
@@ -558,7 +558,11 @@ type poly3LBFGSBoxDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3LBFGSBoxRoundingFloor)
 	bounds    poly3LBFGSBoxBox
+	model     poly3LBFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly3LBFGSBoxResidualModel for any other)
 }
+
+// poly3LBFGSBoxResidualModel is poly3LBFGSBoxResidualModel for any other objective: nothing.
+type poly3LBFGSBoxResidualModel struct{}
 
 // poly3LBFGSBoxDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly3LBFGSBoxLbfgsMemory pairs (s, y), kept
@@ -713,6 +717,11 @@ const (
 	poly3LBFGSBoxVerifyPass    // a difference gradient passed the test
 	poly3LBFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly3LBFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3LBFGSBoxValue(recv *Poly, x, g *[3]float64, diffs *poly3LBFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3LBFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1114,16 +1123,22 @@ func poly3LBFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly3LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly3LBFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3LBFGSBoxStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3LBFGSBoxAbs(s[i]) <= tol*(poly3LBFGSBoxAbs(x[i])+1)) {
+		if !(poly3LBFGSBoxAbs(s[i]) <= tol*poly3LBFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly3LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3LBFGSBoxStepScale(xi float64) float64 {
+	return poly3LBFGSBoxAbs(xi) + 1
 }
 
 // poly3LBFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1169,7 +1184,8 @@ func poly3LBFGSBoxCurvaturePair(s, y, x *[3]float64, b *poly3LBFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly3LBFGSBoxSearchDirection(dir *poly3LBFGSBoxDirection, x, g, d *[3]float64, b *poly3LBFGSBoxBox) {
+func poly3LBFGSBoxSearchDirection(dir *poly3LBFGSBoxDirection, x, g, d *[3]float64, diffs *poly3LBFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly3LBFGSBoxLarger(reach, poly3LBFGSBoxAbs(x[i]-poly3LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1186,7 +1202,7 @@ func poly3LBFGSBoxSearchDirection(dir *poly3LBFGSBoxDirection, x, g, d *[3]float
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly3LBFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1197,13 +1213,18 @@ func poly3LBFGSBoxSearchDirection(dir *poly3LBFGSBoxDirection, x, g, d *[3]float
 	}
 }
 
+// poly3LBFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly3LBFGSBoxSolveDirection(dir *poly3LBFGSBoxDirection, g, d *[3]float64, diffs *poly3LBFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly3LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3LBFGSBoxTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3LBFGSBoxAbs(x[i]) + 1) / poly3LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3LBFGSBoxStepScale(x[i]) / poly3LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1263,7 +1284,7 @@ func poly3LBFGSBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]flo
 			return poly3LBFGSBoxLineResult{calls: calls, end: poly3LBFGSBoxSearchOutOfBudget}
 		}
 		poly3LBFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly3LBFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly3LBFGSBoxLinePoint{step: t, value: poly3LBFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly3LBFGSBoxFinite(current.value) || current.value > fx+poly3LBFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

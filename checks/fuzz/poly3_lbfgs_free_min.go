@@ -355,7 +355,7 @@ func (r *poly3LBFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3LBFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3LBFGSFreeFinite(r.fx) || !poly3LBFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly3LBFGSFreeNonFiniteStart
@@ -456,11 +456,11 @@ func (r *poly3LBFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3LBFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly3LBFGSFreeDescent) search(recv *Poly) {
-	poly3LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3LBFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly3LBFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3LBFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly3LBFGSFreeStepInitial)
@@ -548,7 +548,11 @@ type poly3LBFGSFreeDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3LBFGSFreeRoundingFloor)
 	bounds    poly3LBFGSFreeBox
+	model     poly3LBFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly3LBFGSFreeResidualModel for any other)
 }
+
+// poly3LBFGSFreeResidualModel is poly3LBFGSFreeResidualModel for any other objective: nothing.
+type poly3LBFGSFreeResidualModel struct{}
 
 // poly3LBFGSFreeDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly3LBFGSFreeLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	poly3LBFGSFreeVerifyPass    // a difference gradient passed the test
 	poly3LBFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly3LBFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3LBFGSFreeValue(recv *Poly, x, g *[3]float64, diffs *poly3LBFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3LBFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func poly3LBFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// poly3LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly3LBFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3LBFGSFreeStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3LBFGSFreeAbs(s[i]) <= tol*(poly3LBFGSFreeAbs(x[i])+1)) {
+		if !(poly3LBFGSFreeAbs(s[i]) <= tol*poly3LBFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly3LBFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3LBFGSFreeStepScale(xi float64) float64 {
+	return poly3LBFGSFreeAbs(xi) + 1
+}
+
 // poly3LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3LBFGSFreeCurvaturePair(s, y, x *[3]float64, b *poly3LBFGSFreeBox) {}
 
 // poly3LBFGSFreeSearchDirection is the direction's own.
-func poly3LBFGSFreeSearchDirection(dir *poly3LBFGSFreeDirection, x, g, d *[3]float64, b *poly3LBFGSFreeBox) {
+func poly3LBFGSFreeSearchDirection(dir *poly3LBFGSFreeDirection, x, g, d *[3]float64, diffs *poly3LBFGSFreeDifferences) {
+	poly3LBFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly3LBFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly3LBFGSFreeSolveDirection(dir *poly3LBFGSFreeDirection, g, d *[3]float64, diffs *poly3LBFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly3LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3LBFGSFreeTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3LBFGSFreeAbs(x[i]) + 1) / poly3LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3LBFGSFreeStepScale(x[i]) / poly3LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func poly3LBFGSFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]fl
 			return poly3LBFGSFreeLineResult{calls: calls, end: poly3LBFGSFreeSearchOutOfBudget}
 		}
 		poly3LBFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly3LBFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly3LBFGSFreeLinePoint{step: t, value: poly3LBFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly3LBFGSFreeFinite(current.value) || current.value > fx+poly3LBFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -364,7 +364,7 @@ func (r *poly3SteepestBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3SteepestBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3SteepestBoxFinite(r.fx) || !poly3SteepestBoxFiniteVec(&r.x) {
 		r.out.status = Poly3SteepestBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly3SteepestBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3SteepestBoxStageJudge next when the run
 // goes on.
 func (r *poly3SteepestBoxDescent) search(recv *Poly) {
-	poly3SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3SteepestBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly3SteepestBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3SteepestBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly3SteepestBoxStepInitial)
@@ -557,7 +557,11 @@ type poly3SteepestBoxDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3SteepestBoxRoundingFloor)
 	bounds    poly3SteepestBoxBox
+	model     poly3SteepestBoxResidualModel // a residual objective's residuals and Jacobian products (poly3SteepestBoxResidualModel for any other)
 }
+
+// poly3SteepestBoxResidualModel is poly3SteepestBoxResidualModel for any other objective: nothing.
+type poly3SteepestBoxResidualModel struct{}
 
 // poly3SteepestBoxDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -659,6 +663,11 @@ const (
 	poly3SteepestBoxVerifyPass    // a difference gradient passed the test
 	poly3SteepestBoxVerifyStall   // no step makes progress
 )
+
+// poly3SteepestBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3SteepestBoxValue(recv *Poly, x, g *[3]float64, diffs *poly3SteepestBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly3SteepestBoxFiniteVec(x *[3]float64) bool {
@@ -869,16 +878,22 @@ func poly3SteepestBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// poly3SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·poly3SteepestBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3SteepestBoxStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3SteepestBoxAbs(s[i]) <= tol*(poly3SteepestBoxAbs(x[i])+1)) {
+		if !(poly3SteepestBoxAbs(s[i]) <= tol*poly3SteepestBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly3SteepestBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3SteepestBoxStepScale(xi float64) float64 {
+	return poly3SteepestBoxAbs(xi) + 1
 }
 
 // poly3SteepestBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -924,7 +939,8 @@ func poly3SteepestBoxCurvaturePair(s, y, x *[3]float64, b *poly3SteepestBoxBox) 
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly3SteepestBoxSearchDirection(dir *poly3SteepestBoxDirection, x, g, d *[3]float64, b *poly3SteepestBoxBox) {
+func poly3SteepestBoxSearchDirection(dir *poly3SteepestBoxDirection, x, g, d *[3]float64, diffs *poly3SteepestBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly3SteepestBoxLarger(reach, poly3SteepestBoxAbs(x[i]-poly3SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -941,7 +957,7 @@ func poly3SteepestBoxSearchDirection(dir *poly3SteepestBoxDirection, x, g, d *[3
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly3SteepestBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -950,6 +966,11 @@ func poly3SteepestBoxSearchDirection(dir *poly3SteepestBoxDirection, x, g, d *[3
 			d[i] = 0
 		}
 	}
+}
+
+// poly3SteepestBoxSolveDirection is the direction's own rule, from its memory.
+func poly3SteepestBoxSolveDirection(dir *poly3SteepestBoxDirection, g, d *[3]float64, diffs *poly3SteepestBoxDifferences) {
+	dir.compute(g, d)
 }
 
 // poly3SteepestBoxDot returns aᵀb.
@@ -962,12 +983,12 @@ func poly3SteepestBoxDot(a, b *[3]float64) float64 {
 }
 
 // poly3SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestBoxTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3SteepestBoxAbs(x[i]) + 1) / poly3SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3SteepestBoxStepScale(x[i]) / poly3SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -992,7 +1013,7 @@ func poly3SteepestBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]
 			return poly3SteepestBoxLineResult{calls: trial, end: poly3SteepestBoxSearchOutOfBudget}
 		}
 		poly3SteepestBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly3SteepestBoxValue(recv, xt, gt, diffs)
 		if poly3SteepestBoxFinite(ft) && poly3SteepestBoxAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly3SteepestBoxLineResult{step: t, value: ft, calls: trial + 1, end: poly3SteepestBoxSearchAccepted}
 		}

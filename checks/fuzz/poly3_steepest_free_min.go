@@ -354,7 +354,7 @@ func (r *poly3SteepestFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3SteepestFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3SteepestFreeFinite(r.fx) || !poly3SteepestFreeFiniteVec(&r.x) {
 		r.out.status = Poly3SteepestFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly3SteepestFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3SteepestFreeStageJudge next when the run
 // goes on.
 func (r *poly3SteepestFreeDescent) search(recv *Poly) {
-	poly3SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3SteepestFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly3SteepestFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3SteepestFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly3SteepestFreeStepInitial)
@@ -547,7 +547,11 @@ type poly3SteepestFreeDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3SteepestFreeRoundingFloor)
 	bounds    poly3SteepestFreeBox
+	model     poly3SteepestFreeResidualModel // a residual objective's residuals and Jacobian products (poly3SteepestFreeResidualModel for any other)
 }
+
+// poly3SteepestFreeResidualModel is poly3SteepestFreeResidualModel for any other objective: nothing.
+type poly3SteepestFreeResidualModel struct{}
 
 // poly3SteepestFreeDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	poly3SteepestFreeVerifyPass    // a difference gradient passed the test
 	poly3SteepestFreeVerifyStall   // no step makes progress
 )
+
+// poly3SteepestFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3SteepestFreeValue(recv *Poly, x, g *[3]float64, diffs *poly3SteepestFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly3SteepestFreeFiniteVec(x *[3]float64) bool {
@@ -836,23 +845,34 @@ func poly3SteepestFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// poly3SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly3SteepestFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3SteepestFreeStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3SteepestFreeAbs(s[i]) <= tol*(poly3SteepestFreeAbs(x[i])+1)) {
+		if !(poly3SteepestFreeAbs(s[i]) <= tol*poly3SteepestFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly3SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3SteepestFreeStepScale(xi float64) float64 {
+	return poly3SteepestFreeAbs(xi) + 1
+}
+
 // poly3SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3SteepestFreeCurvaturePair(s, y, x *[3]float64, b *poly3SteepestFreeBox) {}
 
 // poly3SteepestFreeSearchDirection is the direction's own.
-func poly3SteepestFreeSearchDirection(dir *poly3SteepestFreeDirection, x, g, d *[3]float64, b *poly3SteepestFreeBox) {
+func poly3SteepestFreeSearchDirection(dir *poly3SteepestFreeDirection, x, g, d *[3]float64, diffs *poly3SteepestFreeDifferences) {
+	poly3SteepestFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly3SteepestFreeSolveDirection is the direction's own rule, from its memory.
+func poly3SteepestFreeSolveDirection(dir *poly3SteepestFreeDirection, g, d *[3]float64, diffs *poly3SteepestFreeDifferences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func poly3SteepestFreeDot(a, b *[3]float64) float64 {
 }
 
 // poly3SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestFreeTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3SteepestFreeAbs(x[i]) + 1) / poly3SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3SteepestFreeStepScale(x[i]) / poly3SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -896,7 +916,7 @@ func poly3SteepestFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3
 			return poly3SteepestFreeLineResult{calls: trial, end: poly3SteepestFreeSearchOutOfBudget}
 		}
 		poly3SteepestFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly3SteepestFreeValue(recv, xt, gt, diffs)
 		if poly3SteepestFreeFinite(ft) && poly3SteepestFreeAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly3SteepestFreeLineResult{step: t, value: ft, calls: trial + 1, end: poly3SteepestFreeSearchAccepted}
 		}

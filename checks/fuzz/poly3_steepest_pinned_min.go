@@ -364,7 +364,7 @@ func (r *poly3SteepestPinnedDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly3SteepestPinnedValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly3SteepestPinnedFinite(r.fx) || !poly3SteepestPinnedFiniteVec(&r.x) {
 		r.out.status = Poly3SteepestPinnedNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly3SteepestPinnedDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly3SteepestPinnedStageJudge next when the run
 // goes on.
 func (r *poly3SteepestPinnedDescent) search(recv *Poly) {
-	poly3SteepestPinnedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly3SteepestPinnedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3SteepestPinnedDot(&r.g, &r.d)
 	if !(now < 0) || !poly3SteepestPinnedFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly3SteepestPinnedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly3SteepestPinnedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3SteepestPinnedDot(&r.g, &r.d)
 	}
 	first := float64(poly3SteepestPinnedStepInitial)
@@ -557,7 +557,11 @@ type poly3SteepestPinnedDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see poly3SteepestPinnedRoundingFloor)
 	bounds    poly3SteepestPinnedBox
+	model     poly3SteepestPinnedResidualModel // a residual objective's residuals and Jacobian products (poly3SteepestPinnedResidualModel for any other)
 }
+
+// poly3SteepestPinnedResidualModel is poly3SteepestPinnedResidualModel for any other objective: nothing.
+type poly3SteepestPinnedResidualModel struct{}
 
 // poly3SteepestPinnedDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -659,6 +663,11 @@ const (
 	poly3SteepestPinnedVerifyPass    // a difference gradient passed the test
 	poly3SteepestPinnedVerifyStall   // no step makes progress
 )
+
+// poly3SteepestPinnedValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly3SteepestPinnedValue(recv *Poly, x, g *[3]float64, diffs *poly3SteepestPinnedDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly3SteepestPinnedFiniteVec reports whether every component of x is finite.
 func poly3SteepestPinnedFiniteVec(x *[3]float64) bool {
@@ -869,16 +878,22 @@ func poly3SteepestPinnedGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 	return measure, floor
 }
 
-// poly3SteepestPinnedStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly3SteepestPinnedStepWithin is the step test: every |s_i| ≤ tol·poly3SteepestPinnedStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly3SteepestPinnedStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(poly3SteepestPinnedAbs(s[i]) <= tol*(poly3SteepestPinnedAbs(x[i])+1)) {
+		if !(poly3SteepestPinnedAbs(s[i]) <= tol*poly3SteepestPinnedStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly3SteepestPinnedStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly3SteepestPinnedStepScale(xi float64) float64 {
+	return poly3SteepestPinnedAbs(xi) + 1
 }
 
 // poly3SteepestPinnedCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -924,7 +939,8 @@ func poly3SteepestPinnedCurvaturePair(s, y, x *[3]float64, b *poly3SteepestPinne
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly3SteepestPinnedSearchDirection(dir *poly3SteepestPinnedDirection, x, g, d *[3]float64, b *poly3SteepestPinnedBox) {
+func poly3SteepestPinnedSearchDirection(dir *poly3SteepestPinnedDirection, x, g, d *[3]float64, diffs *poly3SteepestPinnedDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly3SteepestPinnedLarger(reach, poly3SteepestPinnedAbs(x[i]-poly3SteepestPinnedClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -941,7 +957,7 @@ func poly3SteepestPinnedSearchDirection(dir *poly3SteepestPinnedDirection, x, g,
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly3SteepestPinnedSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -950,6 +966,11 @@ func poly3SteepestPinnedSearchDirection(dir *poly3SteepestPinnedDirection, x, g,
 			d[i] = 0
 		}
 	}
+}
+
+// poly3SteepestPinnedSolveDirection is the direction's own rule, from its memory.
+func poly3SteepestPinnedSolveDirection(dir *poly3SteepestPinnedDirection, g, d *[3]float64, diffs *poly3SteepestPinnedDifferences) {
+	dir.compute(g, d)
 }
 
 // poly3SteepestPinnedDot returns aᵀb.
@@ -962,12 +983,12 @@ func poly3SteepestPinnedDot(a, b *[3]float64) float64 {
 }
 
 // poly3SteepestPinnedTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly3SteepestPinnedStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestPinnedTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly3SteepestPinnedAbs(x[i]) + 1) / poly3SteepestPinnedAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3SteepestPinnedStepScale(x[i]) / poly3SteepestPinnedAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -992,7 +1013,7 @@ func poly3SteepestPinnedLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *
 			return poly3SteepestPinnedLineResult{calls: trial, end: poly3SteepestPinnedSearchOutOfBudget}
 		}
 		poly3SteepestPinnedTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly3SteepestPinnedValue(recv, xt, gt, diffs)
 		if poly3SteepestPinnedFinite(ft) && poly3SteepestPinnedAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly3SteepestPinnedLineResult{step: t, value: ft, calls: trial + 1, end: poly3SteepestPinnedSearchAccepted}
 		}

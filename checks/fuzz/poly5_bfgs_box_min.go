@@ -364,7 +364,7 @@ func (r *poly5BFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5BFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5BFGSBoxFinite(r.fx) || !poly5BFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly5BFGSBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly5BFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5BFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly5BFGSBoxDescent) search(recv *Poly) {
-	poly5BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5BFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly5BFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5BFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly5BFGSBoxStepInitial)
@@ -557,7 +557,11 @@ type poly5BFGSBoxDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5BFGSBoxRoundingFloor)
 	bounds    poly5BFGSBoxBox
+	model     poly5BFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly5BFGSBoxResidualModel for any other)
 }
+
+// poly5BFGSBoxResidualModel is poly5BFGSBoxResidualModel for any other objective: nothing.
+type poly5BFGSBoxResidualModel struct{}
 
 // poly5BFGSBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	poly5BFGSBoxVerifyPass    // a difference gradient passed the test
 	poly5BFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly5BFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5BFGSBoxValue(recv *Poly, x, g *[5]float64, diffs *poly5BFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5BFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func poly5BFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floo
 	return measure, floor
 }
 
-// poly5BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly5BFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5BFGSBoxStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5BFGSBoxAbs(s[i]) <= tol*(poly5BFGSBoxAbs(x[i])+1)) {
+		if !(poly5BFGSBoxAbs(s[i]) <= tol*poly5BFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly5BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5BFGSBoxStepScale(xi float64) float64 {
+	return poly5BFGSBoxAbs(xi) + 1
 }
 
 // poly5BFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func poly5BFGSBoxCurvaturePair(s, y, x *[5]float64, b *poly5BFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly5BFGSBoxSearchDirection(dir *poly5BFGSBoxDirection, x, g, d *[5]float64, b *poly5BFGSBoxBox) {
+func poly5BFGSBoxSearchDirection(dir *poly5BFGSBoxDirection, x, g, d *[5]float64, diffs *poly5BFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[i]-poly5BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func poly5BFGSBoxSearchDirection(dir *poly5BFGSBoxDirection, x, g, d *[5]float64
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly5BFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func poly5BFGSBoxSearchDirection(dir *poly5BFGSBoxDirection, x, g, d *[5]float64
 	}
 }
 
+// poly5BFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly5BFGSBoxSolveDirection(dir *poly5BFGSBoxDirection, g, d *[5]float64, diffs *poly5BFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly5BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5BFGSBoxTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5BFGSBoxAbs(x[i]) + 1) / poly5BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5BFGSBoxStepScale(x[i]) / poly5BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func poly5BFGSBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]floa
 			return poly5BFGSBoxLineResult{calls: calls, end: poly5BFGSBoxSearchOutOfBudget}
 		}
 		poly5BFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly5BFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly5BFGSBoxLinePoint{step: t, value: poly5BFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly5BFGSBoxFinite(current.value) || current.value > fx+poly5BFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

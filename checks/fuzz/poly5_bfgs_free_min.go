@@ -354,7 +354,7 @@ func (r *poly5BFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5BFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5BFGSFreeFinite(r.fx) || !poly5BFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly5BFGSFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly5BFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5BFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly5BFGSFreeDescent) search(recv *Poly) {
-	poly5BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5BFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly5BFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5BFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly5BFGSFreeStepInitial)
@@ -547,7 +547,11 @@ type poly5BFGSFreeDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5BFGSFreeRoundingFloor)
 	bounds    poly5BFGSFreeBox
+	model     poly5BFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly5BFGSFreeResidualModel for any other)
 }
+
+// poly5BFGSFreeResidualModel is poly5BFGSFreeResidualModel for any other objective: nothing.
+type poly5BFGSFreeResidualModel struct{}
 
 // poly5BFGSFreeDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	poly5BFGSFreeVerifyPass    // a difference gradient passed the test
 	poly5BFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly5BFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5BFGSFreeValue(recv *Poly, x, g *[5]float64, diffs *poly5BFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5BFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func poly5BFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly5BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly5BFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5BFGSFreeStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5BFGSFreeAbs(s[i]) <= tol*(poly5BFGSFreeAbs(x[i])+1)) {
+		if !(poly5BFGSFreeAbs(s[i]) <= tol*poly5BFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly5BFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5BFGSFreeStepScale(xi float64) float64 {
+	return poly5BFGSFreeAbs(xi) + 1
+}
+
 // poly5BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5BFGSFreeCurvaturePair(s, y, x *[5]float64, b *poly5BFGSFreeBox) {}
 
 // poly5BFGSFreeSearchDirection is the direction's own.
-func poly5BFGSFreeSearchDirection(dir *poly5BFGSFreeDirection, x, g, d *[5]float64, b *poly5BFGSFreeBox) {
+func poly5BFGSFreeSearchDirection(dir *poly5BFGSFreeDirection, x, g, d *[5]float64, diffs *poly5BFGSFreeDifferences) {
+	poly5BFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly5BFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly5BFGSFreeSolveDirection(dir *poly5BFGSFreeDirection, g, d *[5]float64, diffs *poly5BFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly5BFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5BFGSFreeTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5BFGSFreeAbs(x[i]) + 1) / poly5BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5BFGSFreeStepScale(x[i]) / poly5BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func poly5BFGSFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]flo
 			return poly5BFGSFreeLineResult{calls: calls, end: poly5BFGSFreeSearchOutOfBudget}
 		}
 		poly5BFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly5BFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly5BFGSFreeLinePoint{step: t, value: poly5BFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly5BFGSFreeFinite(current.value) || current.value > fx+poly5BFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

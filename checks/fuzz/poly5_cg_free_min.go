@@ -354,7 +354,7 @@ func (r *poly5CGFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5CGFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5CGFreeFinite(r.fx) || !poly5CGFreeFiniteVec(&r.x) {
 		r.out.status = Poly5CGFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly5CGFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5CGFreeStageJudge next when the run
 // goes on.
 func (r *poly5CGFreeDescent) search(recv *Poly) {
-	poly5CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5CGFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly5CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5CGFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly5CGFreeStepInitial)
@@ -547,7 +547,11 @@ type poly5CGFreeDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5CGFreeRoundingFloor)
 	bounds    poly5CGFreeBox
+	model     poly5CGFreeResidualModel // a residual objective's residuals and Jacobian products (poly5CGFreeResidualModel for any other)
 }
+
+// poly5CGFreeResidualModel is poly5CGFreeResidualModel for any other objective: nothing.
+type poly5CGFreeResidualModel struct{}
 
 // poly5CGFreeDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	poly5CGFreeVerifyPass    // a difference gradient passed the test
 	poly5CGFreeVerifyStall   // no step makes progress
 )
+
+// poly5CGFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5CGFreeValue(recv *Poly, x, g *[5]float64, diffs *poly5CGFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5CGFreeFiniteVec reports whether every component of x is finite.
 func poly5CGFreeFiniteVec(x *[5]float64) bool {
@@ -865,33 +874,44 @@ func poly5CGFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor
 	return measure, floor
 }
 
-// poly5CGFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly5CGFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5CGFreeStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5CGFreeAbs(s[i]) <= tol*(poly5CGFreeAbs(x[i])+1)) {
+		if !(poly5CGFreeAbs(s[i]) <= tol*poly5CGFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly5CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5CGFreeStepScale(xi float64) float64 {
+	return poly5CGFreeAbs(xi) + 1
+}
+
 // poly5CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5CGFreeCurvaturePair(s, y, x *[5]float64, b *poly5CGFreeBox) {}
 
 // poly5CGFreeSearchDirection is the direction's own.
-func poly5CGFreeSearchDirection(dir *poly5CGFreeDirection, x, g, d *[5]float64, b *poly5CGFreeBox) {
+func poly5CGFreeSearchDirection(dir *poly5CGFreeDirection, x, g, d *[5]float64, diffs *poly5CGFreeDifferences) {
+	poly5CGFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly5CGFreeSolveDirection is the direction's own rule, from its memory.
+func poly5CGFreeSolveDirection(dir *poly5CGFreeDirection, g, d *[5]float64, diffs *poly5CGFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly5CGFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5CGFreeTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5CGFreeAbs(x[i]) + 1) / poly5CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5CGFreeStepScale(x[i]) / poly5CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func poly5CGFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float
 			return poly5CGFreeLineResult{calls: calls, end: poly5CGFreeSearchOutOfBudget}
 		}
 		poly5CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly5CGFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly5CGFreeLinePoint{step: t, value: poly5CGFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly5CGFreeFinite(current.value) || current.value > fx+poly5CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

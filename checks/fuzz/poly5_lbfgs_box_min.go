@@ -365,7 +365,7 @@ func (r *poly5LBFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5LBFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5LBFGSBoxFinite(r.fx) || !poly5LBFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly5LBFGSBoxNonFiniteStart
@@ -466,11 +466,11 @@ func (r *poly5LBFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5LBFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly5LBFGSBoxDescent) search(recv *Poly) {
-	poly5LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5LBFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly5LBFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5LBFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly5LBFGSBoxStepInitial)
@@ -558,7 +558,11 @@ type poly5LBFGSBoxDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5LBFGSBoxRoundingFloor)
 	bounds    poly5LBFGSBoxBox
+	model     poly5LBFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly5LBFGSBoxResidualModel for any other)
 }
+
+// poly5LBFGSBoxResidualModel is poly5LBFGSBoxResidualModel for any other objective: nothing.
+type poly5LBFGSBoxResidualModel struct{}
 
 // poly5LBFGSBoxDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly5LBFGSBoxLbfgsMemory pairs (s, y), kept
@@ -713,6 +717,11 @@ const (
 	poly5LBFGSBoxVerifyPass    // a difference gradient passed the test
 	poly5LBFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly5LBFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5LBFGSBoxValue(recv *Poly, x, g *[5]float64, diffs *poly5LBFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5LBFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1114,16 +1123,22 @@ func poly5LBFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly5LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly5LBFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5LBFGSBoxStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5LBFGSBoxAbs(s[i]) <= tol*(poly5LBFGSBoxAbs(x[i])+1)) {
+		if !(poly5LBFGSBoxAbs(s[i]) <= tol*poly5LBFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly5LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5LBFGSBoxStepScale(xi float64) float64 {
+	return poly5LBFGSBoxAbs(xi) + 1
 }
 
 // poly5LBFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1169,7 +1184,8 @@ func poly5LBFGSBoxCurvaturePair(s, y, x *[5]float64, b *poly5LBFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly5LBFGSBoxSearchDirection(dir *poly5LBFGSBoxDirection, x, g, d *[5]float64, b *poly5LBFGSBoxBox) {
+func poly5LBFGSBoxSearchDirection(dir *poly5LBFGSBoxDirection, x, g, d *[5]float64, diffs *poly5LBFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[i]-poly5LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1186,7 +1202,7 @@ func poly5LBFGSBoxSearchDirection(dir *poly5LBFGSBoxDirection, x, g, d *[5]float
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly5LBFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1197,13 +1213,18 @@ func poly5LBFGSBoxSearchDirection(dir *poly5LBFGSBoxDirection, x, g, d *[5]float
 	}
 }
 
+// poly5LBFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly5LBFGSBoxSolveDirection(dir *poly5LBFGSBoxDirection, g, d *[5]float64, diffs *poly5LBFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly5LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5LBFGSBoxTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5LBFGSBoxAbs(x[i]) + 1) / poly5LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5LBFGSBoxStepScale(x[i]) / poly5LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1263,7 +1284,7 @@ func poly5LBFGSBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]flo
 			return poly5LBFGSBoxLineResult{calls: calls, end: poly5LBFGSBoxSearchOutOfBudget}
 		}
 		poly5LBFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly5LBFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly5LBFGSBoxLinePoint{step: t, value: poly5LBFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly5LBFGSBoxFinite(current.value) || current.value > fx+poly5LBFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

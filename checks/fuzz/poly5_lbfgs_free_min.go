@@ -355,7 +355,7 @@ func (r *poly5LBFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5LBFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5LBFGSFreeFinite(r.fx) || !poly5LBFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly5LBFGSFreeNonFiniteStart
@@ -456,11 +456,11 @@ func (r *poly5LBFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5LBFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly5LBFGSFreeDescent) search(recv *Poly) {
-	poly5LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5LBFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly5LBFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5LBFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly5LBFGSFreeStepInitial)
@@ -548,7 +548,11 @@ type poly5LBFGSFreeDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5LBFGSFreeRoundingFloor)
 	bounds    poly5LBFGSFreeBox
+	model     poly5LBFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly5LBFGSFreeResidualModel for any other)
 }
+
+// poly5LBFGSFreeResidualModel is poly5LBFGSFreeResidualModel for any other objective: nothing.
+type poly5LBFGSFreeResidualModel struct{}
 
 // poly5LBFGSFreeDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly5LBFGSFreeLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	poly5LBFGSFreeVerifyPass    // a difference gradient passed the test
 	poly5LBFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly5LBFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5LBFGSFreeValue(recv *Poly, x, g *[5]float64, diffs *poly5LBFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5LBFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func poly5LBFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// poly5LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly5LBFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5LBFGSFreeStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5LBFGSFreeAbs(s[i]) <= tol*(poly5LBFGSFreeAbs(x[i])+1)) {
+		if !(poly5LBFGSFreeAbs(s[i]) <= tol*poly5LBFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly5LBFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5LBFGSFreeStepScale(xi float64) float64 {
+	return poly5LBFGSFreeAbs(xi) + 1
+}
+
 // poly5LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5LBFGSFreeCurvaturePair(s, y, x *[5]float64, b *poly5LBFGSFreeBox) {}
 
 // poly5LBFGSFreeSearchDirection is the direction's own.
-func poly5LBFGSFreeSearchDirection(dir *poly5LBFGSFreeDirection, x, g, d *[5]float64, b *poly5LBFGSFreeBox) {
+func poly5LBFGSFreeSearchDirection(dir *poly5LBFGSFreeDirection, x, g, d *[5]float64, diffs *poly5LBFGSFreeDifferences) {
+	poly5LBFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly5LBFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly5LBFGSFreeSolveDirection(dir *poly5LBFGSFreeDirection, g, d *[5]float64, diffs *poly5LBFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly5LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5LBFGSFreeTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5LBFGSFreeAbs(x[i]) + 1) / poly5LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5LBFGSFreeStepScale(x[i]) / poly5LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func poly5LBFGSFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]fl
 			return poly5LBFGSFreeLineResult{calls: calls, end: poly5LBFGSFreeSearchOutOfBudget}
 		}
 		poly5LBFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly5LBFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly5LBFGSFreeLinePoint{step: t, value: poly5LBFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly5LBFGSFreeFinite(current.value) || current.value > fx+poly5LBFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -364,7 +364,7 @@ func (r *poly5SteepestBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5SteepestBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5SteepestBoxFinite(r.fx) || !poly5SteepestBoxFiniteVec(&r.x) {
 		r.out.status = Poly5SteepestBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly5SteepestBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5SteepestBoxStageJudge next when the run
 // goes on.
 func (r *poly5SteepestBoxDescent) search(recv *Poly) {
-	poly5SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5SteepestBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly5SteepestBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5SteepestBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly5SteepestBoxStepInitial)
@@ -557,7 +557,11 @@ type poly5SteepestBoxDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5SteepestBoxRoundingFloor)
 	bounds    poly5SteepestBoxBox
+	model     poly5SteepestBoxResidualModel // a residual objective's residuals and Jacobian products (poly5SteepestBoxResidualModel for any other)
 }
+
+// poly5SteepestBoxResidualModel is poly5SteepestBoxResidualModel for any other objective: nothing.
+type poly5SteepestBoxResidualModel struct{}
 
 // poly5SteepestBoxDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -659,6 +663,11 @@ const (
 	poly5SteepestBoxVerifyPass    // a difference gradient passed the test
 	poly5SteepestBoxVerifyStall   // no step makes progress
 )
+
+// poly5SteepestBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5SteepestBoxValue(recv *Poly, x, g *[5]float64, diffs *poly5SteepestBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly5SteepestBoxFiniteVec(x *[5]float64) bool {
@@ -869,16 +878,22 @@ func poly5SteepestBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// poly5SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·poly5SteepestBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5SteepestBoxStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5SteepestBoxAbs(s[i]) <= tol*(poly5SteepestBoxAbs(x[i])+1)) {
+		if !(poly5SteepestBoxAbs(s[i]) <= tol*poly5SteepestBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly5SteepestBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5SteepestBoxStepScale(xi float64) float64 {
+	return poly5SteepestBoxAbs(xi) + 1
 }
 
 // poly5SteepestBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -924,7 +939,8 @@ func poly5SteepestBoxCurvaturePair(s, y, x *[5]float64, b *poly5SteepestBoxBox) 
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5]float64, b *poly5SteepestBoxBox) {
+func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5]float64, diffs *poly5SteepestBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[i]-poly5SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -941,7 +957,7 @@ func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly5SteepestBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -950,6 +966,11 @@ func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5
 			d[i] = 0
 		}
 	}
+}
+
+// poly5SteepestBoxSolveDirection is the direction's own rule, from its memory.
+func poly5SteepestBoxSolveDirection(dir *poly5SteepestBoxDirection, g, d *[5]float64, diffs *poly5SteepestBoxDifferences) {
+	dir.compute(g, d)
 }
 
 // poly5SteepestBoxDot returns aᵀb.
@@ -962,12 +983,12 @@ func poly5SteepestBoxDot(a, b *[5]float64) float64 {
 }
 
 // poly5SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5SteepestBoxTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5SteepestBoxAbs(x[i]) + 1) / poly5SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5SteepestBoxStepScale(x[i]) / poly5SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -992,7 +1013,7 @@ func poly5SteepestBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]
 			return poly5SteepestBoxLineResult{calls: trial, end: poly5SteepestBoxSearchOutOfBudget}
 		}
 		poly5SteepestBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly5SteepestBoxValue(recv, xt, gt, diffs)
 		if poly5SteepestBoxFinite(ft) && poly5SteepestBoxAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly5SteepestBoxLineResult{step: t, value: ft, calls: trial + 1, end: poly5SteepestBoxSearchAccepted}
 		}

@@ -354,7 +354,7 @@ func (r *poly5SteepestFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly5SteepestFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly5SteepestFreeFinite(r.fx) || !poly5SteepestFreeFiniteVec(&r.x) {
 		r.out.status = Poly5SteepestFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly5SteepestFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly5SteepestFreeStageJudge next when the run
 // goes on.
 func (r *poly5SteepestFreeDescent) search(recv *Poly) {
-	poly5SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly5SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly5SteepestFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly5SteepestFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly5SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly5SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly5SteepestFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly5SteepestFreeStepInitial)
@@ -547,7 +547,11 @@ type poly5SteepestFreeDifferences struct {
 	curvature [5]float64
 	second    [5]float64 // |f″| along e_i, for the rounding floor of a stall (see poly5SteepestFreeRoundingFloor)
 	bounds    poly5SteepestFreeBox
+	model     poly5SteepestFreeResidualModel // a residual objective's residuals and Jacobian products (poly5SteepestFreeResidualModel for any other)
 }
+
+// poly5SteepestFreeResidualModel is poly5SteepestFreeResidualModel for any other objective: nothing.
+type poly5SteepestFreeResidualModel struct{}
 
 // poly5SteepestFreeDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	poly5SteepestFreeVerifyPass    // a difference gradient passed the test
 	poly5SteepestFreeVerifyStall   // no step makes progress
 )
+
+// poly5SteepestFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly5SteepestFreeValue(recv *Poly, x, g *[5]float64, diffs *poly5SteepestFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly5SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly5SteepestFreeFiniteVec(x *[5]float64) bool {
@@ -836,23 +845,34 @@ func poly5SteepestFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// poly5SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly5SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly5SteepestFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly5SteepestFreeStepWithin(s, x *[5]float64, tol float64) bool {
 	for i := range s {
-		if !(poly5SteepestFreeAbs(s[i]) <= tol*(poly5SteepestFreeAbs(x[i])+1)) {
+		if !(poly5SteepestFreeAbs(s[i]) <= tol*poly5SteepestFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly5SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly5SteepestFreeStepScale(xi float64) float64 {
+	return poly5SteepestFreeAbs(xi) + 1
+}
+
 // poly5SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5SteepestFreeCurvaturePair(s, y, x *[5]float64, b *poly5SteepestFreeBox) {}
 
 // poly5SteepestFreeSearchDirection is the direction's own.
-func poly5SteepestFreeSearchDirection(dir *poly5SteepestFreeDirection, x, g, d *[5]float64, b *poly5SteepestFreeBox) {
+func poly5SteepestFreeSearchDirection(dir *poly5SteepestFreeDirection, x, g, d *[5]float64, diffs *poly5SteepestFreeDifferences) {
+	poly5SteepestFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly5SteepestFreeSolveDirection is the direction's own rule, from its memory.
+func poly5SteepestFreeSolveDirection(dir *poly5SteepestFreeDirection, g, d *[5]float64, diffs *poly5SteepestFreeDifferences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func poly5SteepestFreeDot(a, b *[5]float64) float64 {
 }
 
 // poly5SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly5SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5SteepestFreeTinyStep(x, d *[5]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly5SteepestFreeAbs(x[i]) + 1) / poly5SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5SteepestFreeStepScale(x[i]) / poly5SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -896,7 +916,7 @@ func poly5SteepestFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5
 			return poly5SteepestFreeLineResult{calls: trial, end: poly5SteepestFreeSearchOutOfBudget}
 		}
 		poly5SteepestFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly5SteepestFreeValue(recv, xt, gt, diffs)
 		if poly5SteepestFreeFinite(ft) && poly5SteepestFreeAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly5SteepestFreeLineResult{step: t, value: ft, calls: trial + 1, end: poly5SteepestFreeSearchAccepted}
 		}

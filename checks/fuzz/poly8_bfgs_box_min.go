@@ -364,7 +364,7 @@ func (r *poly8BFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8BFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8BFGSBoxFinite(r.fx) || !poly8BFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly8BFGSBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly8BFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8BFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly8BFGSBoxDescent) search(recv *Poly) {
-	poly8BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8BFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly8BFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8BFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly8BFGSBoxStepInitial)
@@ -557,7 +557,11 @@ type poly8BFGSBoxDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8BFGSBoxRoundingFloor)
 	bounds    poly8BFGSBoxBox
+	model     poly8BFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly8BFGSBoxResidualModel for any other)
 }
+
+// poly8BFGSBoxResidualModel is poly8BFGSBoxResidualModel for any other objective: nothing.
+type poly8BFGSBoxResidualModel struct{}
 
 // poly8BFGSBoxDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	poly8BFGSBoxVerifyPass    // a difference gradient passed the test
 	poly8BFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly8BFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8BFGSBoxValue(recv *Poly, x, g *[8]float64, diffs *poly8BFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8BFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func poly8BFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floo
 	return measure, floor
 }
 
-// poly8BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly8BFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8BFGSBoxStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8BFGSBoxAbs(s[i]) <= tol*(poly8BFGSBoxAbs(x[i])+1)) {
+		if !(poly8BFGSBoxAbs(s[i]) <= tol*poly8BFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly8BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8BFGSBoxStepScale(xi float64) float64 {
+	return poly8BFGSBoxAbs(xi) + 1
 }
 
 // poly8BFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func poly8BFGSBoxCurvaturePair(s, y, x *[8]float64, b *poly8BFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64, b *poly8BFGSBoxBox) {
+func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64, diffs *poly8BFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly8BFGSBoxLarger(reach, poly8BFGSBoxAbs(x[i]-poly8BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly8BFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64
 	}
 }
 
+// poly8BFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly8BFGSBoxSolveDirection(dir *poly8BFGSBoxDirection, g, d *[8]float64, diffs *poly8BFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly8BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8BFGSBoxAbs(x[i]) + 1) / poly8BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8BFGSBoxStepScale(x[i]) / poly8BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func poly8BFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]floa
 			return poly8BFGSBoxLineResult{calls: calls, end: poly8BFGSBoxSearchOutOfBudget}
 		}
 		poly8BFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly8BFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly8BFGSBoxLinePoint{step: t, value: poly8BFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly8BFGSBoxFinite(current.value) || current.value > fx+poly8BFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *poly8BFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8BFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8BFGSFreeFinite(r.fx) || !poly8BFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly8BFGSFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly8BFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8BFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly8BFGSFreeDescent) search(recv *Poly) {
-	poly8BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8BFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly8BFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8BFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8BFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly8BFGSFreeStepInitial)
@@ -547,7 +547,11 @@ type poly8BFGSFreeDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8BFGSFreeRoundingFloor)
 	bounds    poly8BFGSFreeBox
+	model     poly8BFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly8BFGSFreeResidualModel for any other)
 }
+
+// poly8BFGSFreeResidualModel is poly8BFGSFreeResidualModel for any other objective: nothing.
+type poly8BFGSFreeResidualModel struct{}
 
 // poly8BFGSFreeDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	poly8BFGSFreeVerifyPass    // a difference gradient passed the test
 	poly8BFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly8BFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8BFGSFreeValue(recv *Poly, x, g *[8]float64, diffs *poly8BFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8BFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func poly8BFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly8BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly8BFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8BFGSFreeStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8BFGSFreeAbs(s[i]) <= tol*(poly8BFGSFreeAbs(x[i])+1)) {
+		if !(poly8BFGSFreeAbs(s[i]) <= tol*poly8BFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly8BFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8BFGSFreeStepScale(xi float64) float64 {
+	return poly8BFGSFreeAbs(xi) + 1
+}
+
 // poly8BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8BFGSFreeCurvaturePair(s, y, x *[8]float64, b *poly8BFGSFreeBox) {}
 
 // poly8BFGSFreeSearchDirection is the direction's own.
-func poly8BFGSFreeSearchDirection(dir *poly8BFGSFreeDirection, x, g, d *[8]float64, b *poly8BFGSFreeBox) {
+func poly8BFGSFreeSearchDirection(dir *poly8BFGSFreeDirection, x, g, d *[8]float64, diffs *poly8BFGSFreeDifferences) {
+	poly8BFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly8BFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly8BFGSFreeSolveDirection(dir *poly8BFGSFreeDirection, g, d *[8]float64, diffs *poly8BFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly8BFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8BFGSFreeTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8BFGSFreeAbs(x[i]) + 1) / poly8BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8BFGSFreeStepScale(x[i]) / poly8BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func poly8BFGSFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]flo
 			return poly8BFGSFreeLineResult{calls: calls, end: poly8BFGSFreeSearchOutOfBudget}
 		}
 		poly8BFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly8BFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly8BFGSFreeLinePoint{step: t, value: poly8BFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly8BFGSFreeFinite(current.value) || current.value > fx+poly8BFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

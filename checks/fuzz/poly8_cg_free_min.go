@@ -354,7 +354,7 @@ func (r *poly8CGFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8CGFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8CGFreeFinite(r.fx) || !poly8CGFreeFiniteVec(&r.x) {
 		r.out.status = Poly8CGFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly8CGFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8CGFreeStageJudge next when the run
 // goes on.
 func (r *poly8CGFreeDescent) search(recv *Poly) {
-	poly8CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8CGFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly8CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8CGFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly8CGFreeStepInitial)
@@ -547,7 +547,11 @@ type poly8CGFreeDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8CGFreeRoundingFloor)
 	bounds    poly8CGFreeBox
+	model     poly8CGFreeResidualModel // a residual objective's residuals and Jacobian products (poly8CGFreeResidualModel for any other)
 }
+
+// poly8CGFreeResidualModel is poly8CGFreeResidualModel for any other objective: nothing.
+type poly8CGFreeResidualModel struct{}
 
 // poly8CGFreeDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	poly8CGFreeVerifyPass    // a difference gradient passed the test
 	poly8CGFreeVerifyStall   // no step makes progress
 )
+
+// poly8CGFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8CGFreeValue(recv *Poly, x, g *[8]float64, diffs *poly8CGFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8CGFreeFiniteVec reports whether every component of x is finite.
 func poly8CGFreeFiniteVec(x *[8]float64) bool {
@@ -865,33 +874,44 @@ func poly8CGFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor
 	return measure, floor
 }
 
-// poly8CGFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly8CGFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8CGFreeStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8CGFreeAbs(s[i]) <= tol*(poly8CGFreeAbs(x[i])+1)) {
+		if !(poly8CGFreeAbs(s[i]) <= tol*poly8CGFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly8CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8CGFreeStepScale(xi float64) float64 {
+	return poly8CGFreeAbs(xi) + 1
+}
+
 // poly8CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8CGFreeCurvaturePair(s, y, x *[8]float64, b *poly8CGFreeBox) {}
 
 // poly8CGFreeSearchDirection is the direction's own.
-func poly8CGFreeSearchDirection(dir *poly8CGFreeDirection, x, g, d *[8]float64, b *poly8CGFreeBox) {
+func poly8CGFreeSearchDirection(dir *poly8CGFreeDirection, x, g, d *[8]float64, diffs *poly8CGFreeDifferences) {
+	poly8CGFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly8CGFreeSolveDirection is the direction's own rule, from its memory.
+func poly8CGFreeSolveDirection(dir *poly8CGFreeDirection, g, d *[8]float64, diffs *poly8CGFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly8CGFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8CGFreeTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8CGFreeAbs(x[i]) + 1) / poly8CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8CGFreeStepScale(x[i]) / poly8CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func poly8CGFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float
 			return poly8CGFreeLineResult{calls: calls, end: poly8CGFreeSearchOutOfBudget}
 		}
 		poly8CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly8CGFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly8CGFreeLinePoint{step: t, value: poly8CGFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly8CGFreeFinite(current.value) || current.value > fx+poly8CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -365,7 +365,7 @@ func (r *poly8LBFGSBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8LBFGSBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8LBFGSBoxFinite(r.fx) || !poly8LBFGSBoxFiniteVec(&r.x) {
 		r.out.status = Poly8LBFGSBoxNonFiniteStart
@@ -466,11 +466,11 @@ func (r *poly8LBFGSBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8LBFGSBoxStageJudge next when the run
 // goes on.
 func (r *poly8LBFGSBoxDescent) search(recv *Poly) {
-	poly8LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8LBFGSBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly8LBFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8LBFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8LBFGSBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly8LBFGSBoxStepInitial)
@@ -558,7 +558,11 @@ type poly8LBFGSBoxDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8LBFGSBoxRoundingFloor)
 	bounds    poly8LBFGSBoxBox
+	model     poly8LBFGSBoxResidualModel // a residual objective's residuals and Jacobian products (poly8LBFGSBoxResidualModel for any other)
 }
+
+// poly8LBFGSBoxResidualModel is poly8LBFGSBoxResidualModel for any other objective: nothing.
+type poly8LBFGSBoxResidualModel struct{}
 
 // poly8LBFGSBoxDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly8LBFGSBoxLbfgsMemory pairs (s, y), kept
@@ -713,6 +717,11 @@ const (
 	poly8LBFGSBoxVerifyPass    // a difference gradient passed the test
 	poly8LBFGSBoxVerifyStall   // no step makes progress
 )
+
+// poly8LBFGSBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8LBFGSBoxValue(recv *Poly, x, g *[8]float64, diffs *poly8LBFGSBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8LBFGSBoxFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1114,16 +1123,22 @@ func poly8LBFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// poly8LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly8LBFGSBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8LBFGSBoxStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8LBFGSBoxAbs(s[i]) <= tol*(poly8LBFGSBoxAbs(x[i])+1)) {
+		if !(poly8LBFGSBoxAbs(s[i]) <= tol*poly8LBFGSBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly8LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8LBFGSBoxStepScale(xi float64) float64 {
+	return poly8LBFGSBoxAbs(xi) + 1
 }
 
 // poly8LBFGSBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1169,7 +1184,8 @@ func poly8LBFGSBoxCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSBoxBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly8LBFGSBoxSearchDirection(dir *poly8LBFGSBoxDirection, x, g, d *[8]float64, b *poly8LBFGSBoxBox) {
+func poly8LBFGSBoxSearchDirection(dir *poly8LBFGSBoxDirection, x, g, d *[8]float64, diffs *poly8LBFGSBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly8LBFGSBoxLarger(reach, poly8LBFGSBoxAbs(x[i]-poly8LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1186,7 +1202,7 @@ func poly8LBFGSBoxSearchDirection(dir *poly8LBFGSBoxDirection, x, g, d *[8]float
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly8LBFGSBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1197,13 +1213,18 @@ func poly8LBFGSBoxSearchDirection(dir *poly8LBFGSBoxDirection, x, g, d *[8]float
 	}
 }
 
+// poly8LBFGSBoxSolveDirection is the direction's own rule, from its memory.
+func poly8LBFGSBoxSolveDirection(dir *poly8LBFGSBoxDirection, g, d *[8]float64, diffs *poly8LBFGSBoxDifferences) {
+	dir.compute(g, d)
+}
+
 // poly8LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8LBFGSBoxTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8LBFGSBoxAbs(x[i]) + 1) / poly8LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8LBFGSBoxStepScale(x[i]) / poly8LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1263,7 +1284,7 @@ func poly8LBFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]flo
 			return poly8LBFGSBoxLineResult{calls: calls, end: poly8LBFGSBoxSearchOutOfBudget}
 		}
 		poly8LBFGSBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly8LBFGSBoxLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly8LBFGSBoxLinePoint{step: t, value: poly8LBFGSBoxValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly8LBFGSBoxFinite(current.value) || current.value > fx+poly8LBFGSBoxStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

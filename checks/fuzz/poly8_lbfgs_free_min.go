@@ -355,7 +355,7 @@ func (r *poly8LBFGSFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8LBFGSFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8LBFGSFreeFinite(r.fx) || !poly8LBFGSFreeFiniteVec(&r.x) {
 		r.out.status = Poly8LBFGSFreeNonFiniteStart
@@ -456,11 +456,11 @@ func (r *poly8LBFGSFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8LBFGSFreeStageJudge next when the run
 // goes on.
 func (r *poly8LBFGSFreeDescent) search(recv *Poly) {
-	poly8LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8LBFGSFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly8LBFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8LBFGSFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly8LBFGSFreeStepInitial)
@@ -548,7 +548,11 @@ type poly8LBFGSFreeDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8LBFGSFreeRoundingFloor)
 	bounds    poly8LBFGSFreeBox
+	model     poly8LBFGSFreeResidualModel // a residual objective's residuals and Jacobian products (poly8LBFGSFreeResidualModel for any other)
 }
+
+// poly8LBFGSFreeResidualModel is poly8LBFGSFreeResidualModel for any other objective: nothing.
+type poly8LBFGSFreeResidualModel struct{}
 
 // poly8LBFGSFreeDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly8LBFGSFreeLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	poly8LBFGSFreeVerifyPass    // a difference gradient passed the test
 	poly8LBFGSFreeVerifyStall   // no step makes progress
 )
+
+// poly8LBFGSFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8LBFGSFreeValue(recv *Poly, x, g *[8]float64, diffs *poly8LBFGSFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8LBFGSFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func poly8LBFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// poly8LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly8LBFGSFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8LBFGSFreeStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8LBFGSFreeAbs(s[i]) <= tol*(poly8LBFGSFreeAbs(x[i])+1)) {
+		if !(poly8LBFGSFreeAbs(s[i]) <= tol*poly8LBFGSFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly8LBFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8LBFGSFreeStepScale(xi float64) float64 {
+	return poly8LBFGSFreeAbs(xi) + 1
+}
+
 // poly8LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8LBFGSFreeCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSFreeBox) {}
 
 // poly8LBFGSFreeSearchDirection is the direction's own.
-func poly8LBFGSFreeSearchDirection(dir *poly8LBFGSFreeDirection, x, g, d *[8]float64, b *poly8LBFGSFreeBox) {
+func poly8LBFGSFreeSearchDirection(dir *poly8LBFGSFreeDirection, x, g, d *[8]float64, diffs *poly8LBFGSFreeDifferences) {
+	poly8LBFGSFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly8LBFGSFreeSolveDirection is the direction's own rule, from its memory.
+func poly8LBFGSFreeSolveDirection(dir *poly8LBFGSFreeDirection, g, d *[8]float64, diffs *poly8LBFGSFreeDifferences) {
 	dir.compute(g, d)
 }
 
 // poly8LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8LBFGSFreeTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8LBFGSFreeAbs(x[i]) + 1) / poly8LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8LBFGSFreeStepScale(x[i]) / poly8LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func poly8LBFGSFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]fl
 			return poly8LBFGSFreeLineResult{calls: calls, end: poly8LBFGSFreeSearchOutOfBudget}
 		}
 		poly8LBFGSFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly8LBFGSFreeLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly8LBFGSFreeLinePoint{step: t, value: poly8LBFGSFreeValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly8LBFGSFreeFinite(current.value) || current.value > fx+poly8LBFGSFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -365,7 +365,7 @@ func (r *poly8LBFGSMixedDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8LBFGSMixedValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8LBFGSMixedFinite(r.fx) || !poly8LBFGSMixedFiniteVec(&r.x) {
 		r.out.status = Poly8LBFGSMixedNonFiniteStart
@@ -466,11 +466,11 @@ func (r *poly8LBFGSMixedDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8LBFGSMixedStageJudge next when the run
 // goes on.
 func (r *poly8LBFGSMixedDescent) search(recv *Poly) {
-	poly8LBFGSMixedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8LBFGSMixedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8LBFGSMixedDot(&r.g, &r.d)
 	if !(now < 0) || !poly8LBFGSMixedFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8LBFGSMixedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8LBFGSMixedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8LBFGSMixedDot(&r.g, &r.d)
 	}
 	first := float64(poly8LBFGSMixedStepInitial)
@@ -558,7 +558,11 @@ type poly8LBFGSMixedDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8LBFGSMixedRoundingFloor)
 	bounds    poly8LBFGSMixedBox
+	model     poly8LBFGSMixedResidualModel // a residual objective's residuals and Jacobian products (poly8LBFGSMixedResidualModel for any other)
 }
+
+// poly8LBFGSMixedResidualModel is poly8LBFGSMixedResidualModel for any other objective: nothing.
+type poly8LBFGSMixedResidualModel struct{}
 
 // poly8LBFGSMixedDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last poly8LBFGSMixedLbfgsMemory pairs (s, y), kept
@@ -713,6 +717,11 @@ const (
 	poly8LBFGSMixedVerifyPass    // a difference gradient passed the test
 	poly8LBFGSMixedVerifyStall   // no step makes progress
 )
+
+// poly8LBFGSMixedValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8LBFGSMixedValue(recv *Poly, x, g *[8]float64, diffs *poly8LBFGSMixedDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8LBFGSMixedFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1114,16 +1123,22 @@ func poly8LBFGSMixedGradientMeasure(g, e, x *[8]float64, fx float64) (measure, f
 	return measure, floor
 }
 
-// poly8LBFGSMixedStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8LBFGSMixedStepWithin is the step test: every |s_i| ≤ tol·poly8LBFGSMixedStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8LBFGSMixedStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8LBFGSMixedAbs(s[i]) <= tol*(poly8LBFGSMixedAbs(x[i])+1)) {
+		if !(poly8LBFGSMixedAbs(s[i]) <= tol*poly8LBFGSMixedStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly8LBFGSMixedStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8LBFGSMixedStepScale(xi float64) float64 {
+	return poly8LBFGSMixedAbs(xi) + 1
 }
 
 // poly8LBFGSMixedCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1169,7 +1184,8 @@ func poly8LBFGSMixedCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSMixedBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly8LBFGSMixedSearchDirection(dir *poly8LBFGSMixedDirection, x, g, d *[8]float64, b *poly8LBFGSMixedBox) {
+func poly8LBFGSMixedSearchDirection(dir *poly8LBFGSMixedDirection, x, g, d *[8]float64, diffs *poly8LBFGSMixedDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly8LBFGSMixedLarger(reach, poly8LBFGSMixedAbs(x[i]-poly8LBFGSMixedClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -1186,7 +1202,7 @@ func poly8LBFGSMixedSearchDirection(dir *poly8LBFGSMixedDirection, x, g, d *[8]f
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly8LBFGSMixedSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -1197,13 +1213,18 @@ func poly8LBFGSMixedSearchDirection(dir *poly8LBFGSMixedDirection, x, g, d *[8]f
 	}
 }
 
+// poly8LBFGSMixedSolveDirection is the direction's own rule, from its memory.
+func poly8LBFGSMixedSolveDirection(dir *poly8LBFGSMixedDirection, g, d *[8]float64, diffs *poly8LBFGSMixedDifferences) {
+	dir.compute(g, d)
+}
+
 // poly8LBFGSMixedTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8LBFGSMixedStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8LBFGSMixedTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8LBFGSMixedAbs(x[i]) + 1) / poly8LBFGSMixedAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8LBFGSMixedStepScale(x[i]) / poly8LBFGSMixedAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1263,7 +1284,7 @@ func poly8LBFGSMixedLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]f
 			return poly8LBFGSMixedLineResult{calls: calls, end: poly8LBFGSMixedSearchOutOfBudget}
 		}
 		poly8LBFGSMixedTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := poly8LBFGSMixedLinePoint{step: t, value: recv.Cost(xt[:])}
+		current := poly8LBFGSMixedLinePoint{step: t, value: poly8LBFGSMixedValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !poly8LBFGSMixedFinite(current.value) || current.value > fx+poly8LBFGSMixedStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

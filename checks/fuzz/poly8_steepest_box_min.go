@@ -364,7 +364,7 @@ func (r *poly8SteepestBoxDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8SteepestBoxValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8SteepestBoxFinite(r.fx) || !poly8SteepestBoxFiniteVec(&r.x) {
 		r.out.status = Poly8SteepestBoxNonFiniteStart
@@ -465,11 +465,11 @@ func (r *poly8SteepestBoxDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8SteepestBoxStageJudge next when the run
 // goes on.
 func (r *poly8SteepestBoxDescent) search(recv *Poly) {
-	poly8SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8SteepestBoxDot(&r.g, &r.d)
 	if !(now < 0) || !poly8SteepestBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8SteepestBoxDot(&r.g, &r.d)
 	}
 	first := float64(poly8SteepestBoxStepInitial)
@@ -557,7 +557,11 @@ type poly8SteepestBoxDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8SteepestBoxRoundingFloor)
 	bounds    poly8SteepestBoxBox
+	model     poly8SteepestBoxResidualModel // a residual objective's residuals and Jacobian products (poly8SteepestBoxResidualModel for any other)
 }
+
+// poly8SteepestBoxResidualModel is poly8SteepestBoxResidualModel for any other objective: nothing.
+type poly8SteepestBoxResidualModel struct{}
 
 // poly8SteepestBoxDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -659,6 +663,11 @@ const (
 	poly8SteepestBoxVerifyPass    // a difference gradient passed the test
 	poly8SteepestBoxVerifyStall   // no step makes progress
 )
+
+// poly8SteepestBoxValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8SteepestBoxValue(recv *Poly, x, g *[8]float64, diffs *poly8SteepestBoxDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly8SteepestBoxFiniteVec(x *[8]float64) bool {
@@ -869,16 +878,22 @@ func poly8SteepestBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// poly8SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·poly8SteepestBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8SteepestBoxStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8SteepestBoxAbs(s[i]) <= tol*(poly8SteepestBoxAbs(x[i])+1)) {
+		if !(poly8SteepestBoxAbs(s[i]) <= tol*poly8SteepestBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// poly8SteepestBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8SteepestBoxStepScale(xi float64) float64 {
+	return poly8SteepestBoxAbs(xi) + 1
 }
 
 // poly8SteepestBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -924,7 +939,8 @@ func poly8SteepestBoxCurvaturePair(s, y, x *[8]float64, b *poly8SteepestBoxBox) 
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8]float64, b *poly8SteepestBoxBox) {
+func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8]float64, diffs *poly8SteepestBoxDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = poly8SteepestBoxLarger(reach, poly8SteepestBoxAbs(x[i]-poly8SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -941,7 +957,7 @@ func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	poly8SteepestBoxSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -950,6 +966,11 @@ func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8
 			d[i] = 0
 		}
 	}
+}
+
+// poly8SteepestBoxSolveDirection is the direction's own rule, from its memory.
+func poly8SteepestBoxSolveDirection(dir *poly8SteepestBoxDirection, g, d *[8]float64, diffs *poly8SteepestBoxDifferences) {
+	dir.compute(g, d)
 }
 
 // poly8SteepestBoxDot returns aᵀb.
@@ -962,12 +983,12 @@ func poly8SteepestBoxDot(a, b *[8]float64) float64 {
 }
 
 // poly8SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8SteepestBoxTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8SteepestBoxAbs(x[i]) + 1) / poly8SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8SteepestBoxStepScale(x[i]) / poly8SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -992,7 +1013,7 @@ func poly8SteepestBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]
 			return poly8SteepestBoxLineResult{calls: trial, end: poly8SteepestBoxSearchOutOfBudget}
 		}
 		poly8SteepestBoxTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly8SteepestBoxValue(recv, xt, gt, diffs)
 		if poly8SteepestBoxFinite(ft) && poly8SteepestBoxAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly8SteepestBoxLineResult{step: t, value: ft, calls: trial + 1, end: poly8SteepestBoxSearchAccepted}
 		}

@@ -354,7 +354,7 @@ func (r *poly8SteepestFreeDescent) begin(recv *Poly) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Cost(r.x[:]) // a combined objective writes ∇f(x) into g
+	r.fx = poly8SteepestFreeValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !poly8SteepestFreeFinite(r.fx) || !poly8SteepestFreeFiniteVec(&r.x) {
 		r.out.status = Poly8SteepestFreeNonFiniteStart
@@ -455,11 +455,11 @@ func (r *poly8SteepestFreeDescent) judge(recv *Poly) {
 // the gradient at the new point; it leaves poly8SteepestFreeStageJudge next when the run
 // goes on.
 func (r *poly8SteepestFreeDescent) search(recv *Poly) {
-	poly8SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	poly8SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8SteepestFreeDot(&r.g, &r.d)
 	if !(now < 0) || !poly8SteepestFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		poly8SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		poly8SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8SteepestFreeDot(&r.g, &r.d)
 	}
 	first := float64(poly8SteepestFreeStepInitial)
@@ -547,7 +547,11 @@ type poly8SteepestFreeDifferences struct {
 	curvature [8]float64
 	second    [8]float64 // |f″| along e_i, for the rounding floor of a stall (see poly8SteepestFreeRoundingFloor)
 	bounds    poly8SteepestFreeBox
+	model     poly8SteepestFreeResidualModel // a residual objective's residuals and Jacobian products (poly8SteepestFreeResidualModel for any other)
 }
+
+// poly8SteepestFreeResidualModel is poly8SteepestFreeResidualModel for any other objective: nothing.
+type poly8SteepestFreeResidualModel struct{}
 
 // poly8SteepestFreeDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	poly8SteepestFreeVerifyPass    // a difference gradient passed the test
 	poly8SteepestFreeVerifyStall   // no step makes progress
 )
+
+// poly8SteepestFreeValue calls the objective; a combined one also writes ∇f(x) into g.
+func poly8SteepestFreeValue(recv *Poly, x, g *[8]float64, diffs *poly8SteepestFreeDifferences) float64 {
+	return recv.Cost(x[:])
+}
 
 // poly8SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly8SteepestFreeFiniteVec(x *[8]float64) bool {
@@ -836,23 +845,34 @@ func poly8SteepestFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// poly8SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// poly8SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly8SteepestFreeStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func poly8SteepestFreeStepWithin(s, x *[8]float64, tol float64) bool {
 	for i := range s {
-		if !(poly8SteepestFreeAbs(s[i]) <= tol*(poly8SteepestFreeAbs(x[i])+1)) {
+		if !(poly8SteepestFreeAbs(s[i]) <= tol*poly8SteepestFreeStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// poly8SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func poly8SteepestFreeStepScale(xi float64) float64 {
+	return poly8SteepestFreeAbs(xi) + 1
+}
+
 // poly8SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8SteepestFreeCurvaturePair(s, y, x *[8]float64, b *poly8SteepestFreeBox) {}
 
 // poly8SteepestFreeSearchDirection is the direction's own.
-func poly8SteepestFreeSearchDirection(dir *poly8SteepestFreeDirection, x, g, d *[8]float64, b *poly8SteepestFreeBox) {
+func poly8SteepestFreeSearchDirection(dir *poly8SteepestFreeDirection, x, g, d *[8]float64, diffs *poly8SteepestFreeDifferences) {
+	poly8SteepestFreeSolveDirection(dir, g, d, diffs)
+}
+
+// poly8SteepestFreeSolveDirection is the direction's own rule, from its memory.
+func poly8SteepestFreeSolveDirection(dir *poly8SteepestFreeDirection, g, d *[8]float64, diffs *poly8SteepestFreeDifferences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func poly8SteepestFreeDot(a, b *[8]float64) float64 {
 }
 
 // poly8SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·poly8SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (poly8SteepestFreeAbs(x[i]) + 1) / poly8SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8SteepestFreeStepScale(x[i]) / poly8SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -896,7 +916,7 @@ func poly8SteepestFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8
 			return poly8SteepestFreeLineResult{calls: trial, end: poly8SteepestFreeSearchOutOfBudget}
 		}
 		poly8SteepestFreeTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := recv.Cost(xt[:])
+		ft := poly8SteepestFreeValue(recv, xt, gt, diffs)
 		if poly8SteepestFreeFinite(ft) && poly8SteepestFreeAcceptable(fx, ft, t, slope, x, xt, g) {
 			return poly8SteepestFreeLineResult{step: t, value: ft, calls: trial + 1, end: poly8SteepestFreeSearchAccepted}
 		}

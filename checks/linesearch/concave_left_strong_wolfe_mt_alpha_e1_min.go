@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeMTAlphaE1Finite(r.fx) || !concaveLeftStrongWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeMTAlphaE1Descent) search() {
-	concaveLeftStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaE1RoundingFloor)
 	bounds    concaveLeftStrongWolfeMTAlphaE1Box
+	model     concaveLeftStrongWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeMTAlphaE1ResidualModel is concaveLeftStrongWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeMTAlphaE1ResidualModel struct{}
 
 // concaveLeftStrongWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftStrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeMTAlphaE1Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveLeftStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx floa
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeMTAlphaE1Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeMTAlphaE1Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveLeftStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concav
 }
 
 // concaveLeftStrongWolfeMTAlphaE1SearchDirection is the direction's own.
-func concaveLeftStrongWolfeMTAlphaE1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaE1Box) {
+func concaveLeftStrongWolfeMTAlphaE1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) {
+	concaveLeftStrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeMTAlphaE1SolveDirection(dir *concaveLeftStrongWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveLeftStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeMTAlphaE1Abs(x[i]) + 1) / concaveLeftStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeMTAlphaE1StepScale(x[i]) / concaveLeftStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *
 			return concaveLeftStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeMTAlphaE1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeMTAlphaE1LinePoint{step: t, value: concaveLeftStrongWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveLeftStrongWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeMTAlphaE3Finite(r.fx) || !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeMTAlphaE3Descent) search() {
-	concaveLeftStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaE3RoundingFloor)
 	bounds    concaveLeftStrongWolfeMTAlphaE3Box
+	model     concaveLeftStrongWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeMTAlphaE3ResidualModel is concaveLeftStrongWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeMTAlphaE3ResidualModel struct{}
 
 // concaveLeftStrongWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftStrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeMTAlphaE3Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveLeftStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx floa
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeMTAlphaE3Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeMTAlphaE3Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveLeftStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concav
 }
 
 // concaveLeftStrongWolfeMTAlphaE3SearchDirection is the direction's own.
-func concaveLeftStrongWolfeMTAlphaE3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaE3Box) {
+func concaveLeftStrongWolfeMTAlphaE3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
+	concaveLeftStrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeMTAlphaE3SolveDirection(dir *concaveLeftStrongWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveLeftStrongWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeMTAlphaE3Abs(x[i]) + 1) / concaveLeftStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeMTAlphaE3StepScale(x[i]) / concaveLeftStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *
 			return concaveLeftStrongWolfeMTAlphaE3LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeMTAlphaE3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeMTAlphaE3LinePoint{step: t, value: concaveLeftStrongWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeMTAlphaE3Finite(current.value) || current.value > fx+concaveLeftStrongWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeMTAlphaEm1Finite(r.fx) || !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) search() {
-	concaveLeftStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaEm1RoundingFloor)
 	bounds    concaveLeftStrongWolfeMTAlphaEm1Box
+	model     concaveLeftStrongWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeMTAlphaEm1ResidualModel is concaveLeftStrongWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeMTAlphaEm1ResidualModel struct{}
 
 // concaveLeftStrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveLeftStrongWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeMTAlphaEm1Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveLeftStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
-func concaveLeftStrongWolfeMTAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) {
+func concaveLeftStrongWolfeMTAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
+	concaveLeftStrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeMTAlphaEm1SolveDirection(dir *concaveLeftStrongWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveLeftStrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeMTAlphaEm1Abs(x[i]) + 1) / concaveLeftStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeMTAlphaEm1StepScale(x[i]) / concaveLeftStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveLeftStrongWolfeMTAlphaEm1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeMTAlphaEm1LinePoint{step: t, value: concaveLeftStrongWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeMTAlphaEm1Finite(current.value) || current.value > fx+concaveLeftStrongWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeMTAlphaEm3Finite(r.fx) || !concaveLeftStrongWolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeMTAlphaEm3Descent) search() {
-	concaveLeftStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaEm3RoundingFloor)
 	bounds    concaveLeftStrongWolfeMTAlphaEm3Box
+	model     concaveLeftStrongWolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeMTAlphaEm3ResidualModel is concaveLeftStrongWolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeMTAlphaEm3ResidualModel struct{}
 
 // concaveLeftStrongWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveLeftStrongWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeMTAlphaEm3Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveLeftStrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeMTAlphaEm3Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveLeftStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveLeftStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
-func concaveLeftStrongWolfeMTAlphaEm3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm3Box) {
+func concaveLeftStrongWolfeMTAlphaEm3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) {
+	concaveLeftStrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeMTAlphaEm3SolveDirection(dir *concaveLeftStrongWolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveLeftStrongWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeMTAlphaEm3Abs(x[i]) + 1) / concaveLeftStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeMTAlphaEm3StepScale(x[i]) / concaveLeftStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveLeftStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveLeftStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeMTAlphaEm3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeMTAlphaEm3LinePoint{step: t, value: concaveLeftStrongWolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveLeftStrongWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

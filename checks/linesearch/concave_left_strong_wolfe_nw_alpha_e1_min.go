@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeNWAlphaE1Finite(r.fx) || !concaveLeftStrongWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeNWAlphaE1Descent) search() {
-	concaveLeftStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeNWAlphaE1RoundingFloor)
 	bounds    concaveLeftStrongWolfeNWAlphaE1Box
+	model     concaveLeftStrongWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeNWAlphaE1ResidualModel is concaveLeftStrongWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeNWAlphaE1ResidualModel struct{}
 
 // concaveLeftStrongWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftStrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeNWAlphaE1Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveLeftStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx floa
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(concaveLeftStrongWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeNWAlphaE1Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeNWAlphaE1Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveLeftStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concav
 }
 
 // concaveLeftStrongWolfeNWAlphaE1SearchDirection is the direction's own.
-func concaveLeftStrongWolfeNWAlphaE1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeNWAlphaE1Box) {
+func concaveLeftStrongWolfeNWAlphaE1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) {
+	concaveLeftStrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeNWAlphaE1SolveDirection(dir *concaveLeftStrongWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveLeftStrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeNWAlphaE1Abs(x[i]) + 1) / concaveLeftStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeNWAlphaE1StepScale(x[i]) / concaveLeftStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveLeftStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *
 			return concaveLeftStrongWolfeNWAlphaE1LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeNWAlphaE1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeNWAlphaE1LinePoint{step: t, value: concaveLeftStrongWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeNWAlphaE1Finite(current.value) || current.value > fx+concaveLeftStrongWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeNWAlphaE3Finite(r.fx) || !concaveLeftStrongWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeNWAlphaE3Descent) search() {
-	concaveLeftStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeNWAlphaE3RoundingFloor)
 	bounds    concaveLeftStrongWolfeNWAlphaE3Box
+	model     concaveLeftStrongWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeNWAlphaE3ResidualModel is concaveLeftStrongWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeNWAlphaE3ResidualModel struct{}
 
 // concaveLeftStrongWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftStrongWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeNWAlphaE3Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveLeftStrongWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx floa
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaE3Abs(s[i]) <= tol*(concaveLeftStrongWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeNWAlphaE3Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeNWAlphaE3Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveLeftStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concav
 }
 
 // concaveLeftStrongWolfeNWAlphaE3SearchDirection is the direction's own.
-func concaveLeftStrongWolfeNWAlphaE3SearchDirection(dir *concaveLeftStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeNWAlphaE3Box) {
+func concaveLeftStrongWolfeNWAlphaE3SearchDirection(dir *concaveLeftStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) {
+	concaveLeftStrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeNWAlphaE3SolveDirection(dir *concaveLeftStrongWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveLeftStrongWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeNWAlphaE3Abs(x[i]) + 1) / concaveLeftStrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeNWAlphaE3StepScale(x[i]) / concaveLeftStrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveLeftStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *
 			return concaveLeftStrongWolfeNWAlphaE3LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeNWAlphaE3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeNWAlphaE3LinePoint{step: t, value: concaveLeftStrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+concaveLeftStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeNWAlphaEm1Finite(r.fx) || !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeNWAlphaEm1Descent) search() {
-	concaveLeftStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeNWAlphaEm1RoundingFloor)
 	bounds    concaveLeftStrongWolfeNWAlphaEm1Box
+	model     concaveLeftStrongWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeNWAlphaEm1ResidualModel is concaveLeftStrongWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeNWAlphaEm1ResidualModel struct{}
 
 // concaveLeftStrongWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveLeftStrongWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveLeftStrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*(concaveLeftStrongWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeNWAlphaEm1Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveLeftStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
-func concaveLeftStrongWolfeNWAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) {
+func concaveLeftStrongWolfeNWAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
+	concaveLeftStrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeNWAlphaEm1SolveDirection(dir *concaveLeftStrongWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveLeftStrongWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeNWAlphaEm1Abs(x[i]) + 1) / concaveLeftStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeNWAlphaEm1StepScale(x[i]) / concaveLeftStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveLeftStrongWolfeNWAlphaEm1LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeNWAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeNWAlphaEm1LinePoint{step: t, value: concaveLeftStrongWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeNWAlphaEm1Finite(current.value) || current.value > fx+concaveLeftStrongWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftStrongWolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftStrongWolfeNWAlphaEm3Finite(r.fx) || !concaveLeftStrongWolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftStrongWolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftStrongWolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) search() {
-	concaveLeftStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftStrongWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftStrongWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftStrongWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftStrongWolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftStrongWolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeNWAlphaEm3RoundingFloor)
 	bounds    concaveLeftStrongWolfeNWAlphaEm3Box
+	model     concaveLeftStrongWolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftStrongWolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// concaveLeftStrongWolfeNWAlphaEm3ResidualModel is concaveLeftStrongWolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type concaveLeftStrongWolfeNWAlphaEm3ResidualModel struct{}
 
 // concaveLeftStrongWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveLeftStrongWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveLeftStrongWolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveLeftStrongWolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftStrongWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftStrongWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveLeftStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveLeftStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(concaveLeftStrongWolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(concaveLeftStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftStrongWolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return concaveLeftStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveLeftStrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3SearchDirection is the direction's own.
-func concaveLeftStrongWolfeNWAlphaEm3SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm3Box) {
+func concaveLeftStrongWolfeNWAlphaEm3SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) {
+	concaveLeftStrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftStrongWolfeNWAlphaEm3SolveDirection(dir *concaveLeftStrongWolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveLeftStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]) + 1) / concaveLeftStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i]) / concaveLeftStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveLeftStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveLeftStrongWolfeNWAlphaEm3LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		concaveLeftStrongWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftStrongWolfeNWAlphaEm3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftStrongWolfeNWAlphaEm3LinePoint{step: t, value: concaveLeftStrongWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftStrongWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveLeftStrongWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

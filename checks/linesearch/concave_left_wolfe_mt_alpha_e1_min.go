@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeMTAlphaE1Finite(r.fx) || !concaveLeftWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeMTAlphaE1Descent) search() {
-	concaveLeftWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeMTAlphaE1RoundingFloor)
 	bounds    concaveLeftWolfeMTAlphaE1Box
+	model     concaveLeftWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// concaveLeftWolfeMTAlphaE1ResidualModel is concaveLeftWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type concaveLeftWolfeMTAlphaE1ResidualModel struct{}
 
 // concaveLeftWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeMTAlphaE1Value(x, g *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (
 	return measure, floor
 }
 
-// concaveLeftWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveLeftWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(concaveLeftWolfeMTAlphaE1Abs(s[i]) <= tol*concaveLeftWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return concaveLeftWolfeMTAlphaE1Abs(xi) + 1
+}
+
 // concaveLeftWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaE1Box) {}
 
 // concaveLeftWolfeMTAlphaE1SearchDirection is the direction's own.
-func concaveLeftWolfeMTAlphaE1SearchDirection(dir *concaveLeftWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *concaveLeftWolfeMTAlphaE1Box) {
+func concaveLeftWolfeMTAlphaE1SearchDirection(dir *concaveLeftWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) {
+	concaveLeftWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeMTAlphaE1SolveDirection(dir *concaveLeftWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeMTAlphaE1Abs(x[i]) + 1) / concaveLeftWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeMTAlphaE1StepScale(x[i]) / concaveLeftWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 			return concaveLeftWolfeMTAlphaE1LineResult{calls: calls, end: concaveLeftWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		concaveLeftWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeMTAlphaE1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeMTAlphaE1LinePoint{step: t, value: concaveLeftWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeMTAlphaE3Finite(r.fx) || !concaveLeftWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeMTAlphaE3Descent) search() {
-	concaveLeftWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeMTAlphaE3RoundingFloor)
 	bounds    concaveLeftWolfeMTAlphaE3Box
+	model     concaveLeftWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// concaveLeftWolfeMTAlphaE3ResidualModel is concaveLeftWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type concaveLeftWolfeMTAlphaE3ResidualModel struct{}
 
 // concaveLeftWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeMTAlphaE3Value(x, g *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (
 	return measure, floor
 }
 
-// concaveLeftWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveLeftWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(concaveLeftWolfeMTAlphaE3Abs(s[i]) <= tol*concaveLeftWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return concaveLeftWolfeMTAlphaE3Abs(xi) + 1
+}
+
 // concaveLeftWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaE3Box) {}
 
 // concaveLeftWolfeMTAlphaE3SearchDirection is the direction's own.
-func concaveLeftWolfeMTAlphaE3SearchDirection(dir *concaveLeftWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *concaveLeftWolfeMTAlphaE3Box) {
+func concaveLeftWolfeMTAlphaE3SearchDirection(dir *concaveLeftWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) {
+	concaveLeftWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeMTAlphaE3SolveDirection(dir *concaveLeftWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeMTAlphaE3Abs(x[i]) + 1) / concaveLeftWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeMTAlphaE3StepScale(x[i]) / concaveLeftWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 			return concaveLeftWolfeMTAlphaE3LineResult{calls: calls, end: concaveLeftWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		concaveLeftWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeMTAlphaE3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeMTAlphaE3LinePoint{step: t, value: concaveLeftWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeMTAlphaE3Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeMTAlphaEm1Finite(r.fx) || !concaveLeftWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeMTAlphaEm1Descent) search() {
-	concaveLeftWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeMTAlphaEm1RoundingFloor)
 	bounds    concaveLeftWolfeMTAlphaEm1Box
+	model     concaveLeftWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// concaveLeftWolfeMTAlphaEm1ResidualModel is concaveLeftWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type concaveLeftWolfeMTAlphaEm1ResidualModel struct{}
 
 // concaveLeftWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveLeftWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeMTAlphaEm1Abs(s[i]) <= tol*(concaveLeftWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(concaveLeftWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveLeftWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return concaveLeftWolfeMTAlphaEm1Abs(xi) + 1
+}
+
 // concaveLeftWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {}
 
 // concaveLeftWolfeMTAlphaEm1SearchDirection is the direction's own.
-func concaveLeftWolfeMTAlphaEm1SearchDirection(dir *concaveLeftWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {
+func concaveLeftWolfeMTAlphaEm1SearchDirection(dir *concaveLeftWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) {
+	concaveLeftWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeMTAlphaEm1SolveDirection(dir *concaveLeftWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeMTAlphaEm1Abs(x[i]) + 1) / concaveLeftWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeMTAlphaEm1StepScale(x[i]) / concaveLeftWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveLeftWolfeMTAlphaEm1LineResult{calls: calls, end: concaveLeftWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		concaveLeftWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeMTAlphaEm1LinePoint{step: t, value: concaveLeftWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeMTAlphaEm1Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

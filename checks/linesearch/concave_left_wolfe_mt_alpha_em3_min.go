@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeMTAlphaEm3Finite(r.fx) || !concaveLeftWolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeMTAlphaEm3Descent) search() {
-	concaveLeftWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeMTAlphaEm3RoundingFloor)
 	bounds    concaveLeftWolfeMTAlphaEm3Box
+	model     concaveLeftWolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// concaveLeftWolfeMTAlphaEm3ResidualModel is concaveLeftWolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type concaveLeftWolfeMTAlphaEm3ResidualModel struct{}
 
 // concaveLeftWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeMTAlphaEm3Value(x, g *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveLeftWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeMTAlphaEm3Abs(s[i]) <= tol*(concaveLeftWolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(concaveLeftWolfeMTAlphaEm3Abs(s[i]) <= tol*concaveLeftWolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return concaveLeftWolfeMTAlphaEm3Abs(xi) + 1
+}
+
 // concaveLeftWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaEm3Box) {}
 
 // concaveLeftWolfeMTAlphaEm3SearchDirection is the direction's own.
-func concaveLeftWolfeMTAlphaEm3SearchDirection(dir *concaveLeftWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *concaveLeftWolfeMTAlphaEm3Box) {
+func concaveLeftWolfeMTAlphaEm3SearchDirection(dir *concaveLeftWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) {
+	concaveLeftWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeMTAlphaEm3SolveDirection(dir *concaveLeftWolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeMTAlphaEm3Abs(x[i]) + 1) / concaveLeftWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeMTAlphaEm3StepScale(x[i]) / concaveLeftWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveLeftWolfeMTAlphaEm3LineResult{calls: calls, end: concaveLeftWolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		concaveLeftWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeMTAlphaEm3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeMTAlphaEm3LinePoint{step: t, value: concaveLeftWolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeNWAlphaE1Finite(r.fx) || !concaveLeftWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeNWAlphaE1Descent) search() {
-	concaveLeftWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeNWAlphaE1RoundingFloor)
 	bounds    concaveLeftWolfeNWAlphaE1Box
+	model     concaveLeftWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// concaveLeftWolfeNWAlphaE1ResidualModel is concaveLeftWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type concaveLeftWolfeNWAlphaE1ResidualModel struct{}
 
 // concaveLeftWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeNWAlphaE1Value(x, g *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (
 	return measure, floor
 }
 
-// concaveLeftWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeNWAlphaE1Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(concaveLeftWolfeNWAlphaE1Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return concaveLeftWolfeNWAlphaE1Abs(xi) + 1
+}
+
 // concaveLeftWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaE1Box) {}
 
 // concaveLeftWolfeNWAlphaE1SearchDirection is the direction's own.
-func concaveLeftWolfeNWAlphaE1SearchDirection(dir *concaveLeftWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *concaveLeftWolfeNWAlphaE1Box) {
+func concaveLeftWolfeNWAlphaE1SearchDirection(dir *concaveLeftWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
+	concaveLeftWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeNWAlphaE1SolveDirection(dir *concaveLeftWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeNWAlphaE1Abs(x[i]) + 1) / concaveLeftWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeNWAlphaE1StepScale(x[i]) / concaveLeftWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 			return concaveLeftWolfeNWAlphaE1LineResult{calls: calls, end: concaveLeftWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		concaveLeftWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeNWAlphaE1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeNWAlphaE1LinePoint{step: t, value: concaveLeftWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeNWAlphaE1Finite(current.value) || current.value > fx+concaveLeftWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

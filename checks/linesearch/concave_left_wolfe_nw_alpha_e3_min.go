@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeNWAlphaE3Finite(r.fx) || !concaveLeftWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeNWAlphaE3Descent) search() {
-	concaveLeftWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeNWAlphaE3RoundingFloor)
 	bounds    concaveLeftWolfeNWAlphaE3Box
+	model     concaveLeftWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// concaveLeftWolfeNWAlphaE3ResidualModel is concaveLeftWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type concaveLeftWolfeNWAlphaE3ResidualModel struct{}
 
 // concaveLeftWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeNWAlphaE3Value(x, g *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (
 	return measure, floor
 }
 
-// concaveLeftWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeNWAlphaE3Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(concaveLeftWolfeNWAlphaE3Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return concaveLeftWolfeNWAlphaE3Abs(xi) + 1
+}
+
 // concaveLeftWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaE3Box) {}
 
 // concaveLeftWolfeNWAlphaE3SearchDirection is the direction's own.
-func concaveLeftWolfeNWAlphaE3SearchDirection(dir *concaveLeftWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *concaveLeftWolfeNWAlphaE3Box) {
+func concaveLeftWolfeNWAlphaE3SearchDirection(dir *concaveLeftWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) {
+	concaveLeftWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeNWAlphaE3SolveDirection(dir *concaveLeftWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeNWAlphaE3Abs(x[i]) + 1) / concaveLeftWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeNWAlphaE3StepScale(x[i]) / concaveLeftWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 			return concaveLeftWolfeNWAlphaE3LineResult{calls: calls, end: concaveLeftWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		concaveLeftWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeNWAlphaE3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeNWAlphaE3LinePoint{step: t, value: concaveLeftWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeNWAlphaE3Finite(current.value) || current.value > fx+concaveLeftWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

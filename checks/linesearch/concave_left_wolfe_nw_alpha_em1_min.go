@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeNWAlphaEm1Finite(r.fx) || !concaveLeftWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeNWAlphaEm1Descent) search() {
-	concaveLeftWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeNWAlphaEm1RoundingFloor)
 	bounds    concaveLeftWolfeNWAlphaEm1Box
+	model     concaveLeftWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// concaveLeftWolfeNWAlphaEm1ResidualModel is concaveLeftWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type concaveLeftWolfeNWAlphaEm1ResidualModel struct{}
 
 // concaveLeftWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveLeftWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeNWAlphaEm1Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(concaveLeftWolfeNWAlphaEm1Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return concaveLeftWolfeNWAlphaEm1Abs(xi) + 1
+}
+
 // concaveLeftWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaEm1Box) {}
 
 // concaveLeftWolfeNWAlphaEm1SearchDirection is the direction's own.
-func concaveLeftWolfeNWAlphaEm1SearchDirection(dir *concaveLeftWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftWolfeNWAlphaEm1Box) {
+func concaveLeftWolfeNWAlphaEm1SearchDirection(dir *concaveLeftWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
+	concaveLeftWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeNWAlphaEm1SolveDirection(dir *concaveLeftWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeNWAlphaEm1Abs(x[i]) + 1) / concaveLeftWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeNWAlphaEm1StepScale(x[i]) / concaveLeftWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveLeftWolfeNWAlphaEm1LineResult{calls: calls, end: concaveLeftWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		concaveLeftWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeNWAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeNWAlphaEm1LinePoint{step: t, value: concaveLeftWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeNWAlphaEm1Finite(current.value) || current.value > fx+concaveLeftWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveLeftWolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveLeft(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveLeftWolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveLeftWolfeNWAlphaEm3Finite(r.fx) || !concaveLeftWolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveLeftWolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveLeftWolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveLeftWolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveLeftWolfeNWAlphaEm3Descent) search() {
-	concaveLeftWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveLeftWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveLeftWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveLeftWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveLeftWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveLeftWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveLeftWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveLeftWolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveLeftWolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeNWAlphaEm3RoundingFloor)
 	bounds    concaveLeftWolfeNWAlphaEm3Box
+	model     concaveLeftWolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveLeftWolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// concaveLeftWolfeNWAlphaEm3ResidualModel is concaveLeftWolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type concaveLeftWolfeNWAlphaEm3ResidualModel struct{}
 
 // concaveLeftWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveLeftWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveLeftWolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveLeftWolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveLeftWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveLeftWolfeNWAlphaEm3Differences) float64 {
+	return ConcaveLeft(x[0])
+}
 
 // concaveLeftWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveLeftWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveLeftWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveLeftWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveLeftWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveLeftWolfeNWAlphaEm3Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(concaveLeftWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveLeftWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveLeftWolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return concaveLeftWolfeNWAlphaEm3Abs(xi) + 1
+}
+
 // concaveLeftWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaEm3Box) {}
 
 // concaveLeftWolfeNWAlphaEm3SearchDirection is the direction's own.
-func concaveLeftWolfeNWAlphaEm3SearchDirection(dir *concaveLeftWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *concaveLeftWolfeNWAlphaEm3Box) {
+func concaveLeftWolfeNWAlphaEm3SearchDirection(dir *concaveLeftWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaEm3Differences) {
+	concaveLeftWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveLeftWolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveLeftWolfeNWAlphaEm3SolveDirection(dir *concaveLeftWolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveLeftWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveLeftWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveLeftWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveLeftWolfeNWAlphaEm3Abs(x[i]) + 1) / concaveLeftWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeNWAlphaEm3StepScale(x[i]) / concaveLeftWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveLeftWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveLeftWolfeNWAlphaEm3LineResult{calls: calls, end: concaveLeftWolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		concaveLeftWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveLeftWolfeNWAlphaEm3LinePoint{step: t, value: ConcaveLeft(xt[0])}
+		current := concaveLeftWolfeNWAlphaEm3LinePoint{step: t, value: concaveLeftWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveLeftWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveLeftWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

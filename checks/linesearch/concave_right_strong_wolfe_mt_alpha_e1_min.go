@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeMTAlphaE1Finite(r.fx) || !concaveRightStrongWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeMTAlphaE1Descent) search() {
-	concaveRightStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeMTAlphaE1RoundingFloor)
 	bounds    concaveRightStrongWolfeMTAlphaE1Box
+	model     concaveRightStrongWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeMTAlphaE1ResidualModel is concaveRightStrongWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeMTAlphaE1ResidualModel struct{}
 
 // concaveRightStrongWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeMTAlphaE1Value(x, g *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveRightStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeMTAlphaE1Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveRightStrongWolfeMTAlphaE1SearchDirection is the direction's own.
-func concaveRightStrongWolfeMTAlphaE1SearchDirection(dir *concaveRightStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeMTAlphaE1Box) {
+func concaveRightStrongWolfeMTAlphaE1SearchDirection(dir *concaveRightStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
+	concaveRightStrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeMTAlphaE1SolveDirection(dir *concaveRightStrongWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeMTAlphaE1Abs(x[i]) + 1) / concaveRightStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeMTAlphaE1StepScale(x[i]) / concaveRightStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeMTAlphaE1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeMTAlphaE1LinePoint{step: t, value: concaveRightStrongWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveRightStrongWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

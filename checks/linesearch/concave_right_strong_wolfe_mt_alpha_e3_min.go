@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeMTAlphaE3Finite(r.fx) || !concaveRightStrongWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeMTAlphaE3Descent) search() {
-	concaveRightStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeMTAlphaE3RoundingFloor)
 	bounds    concaveRightStrongWolfeMTAlphaE3Box
+	model     concaveRightStrongWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeMTAlphaE3ResidualModel is concaveRightStrongWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeMTAlphaE3ResidualModel struct{}
 
 // concaveRightStrongWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeMTAlphaE3Value(x, g *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveRightStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeMTAlphaE3Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeMTAlphaE3Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveRightStrongWolfeMTAlphaE3SearchDirection is the direction's own.
-func concaveRightStrongWolfeMTAlphaE3SearchDirection(dir *concaveRightStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeMTAlphaE3Box) {
+func concaveRightStrongWolfeMTAlphaE3SearchDirection(dir *concaveRightStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) {
+	concaveRightStrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeMTAlphaE3SolveDirection(dir *concaveRightStrongWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeMTAlphaE3Abs(x[i]) + 1) / concaveRightStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeMTAlphaE3StepScale(x[i]) / concaveRightStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveRightStrongWolfeMTAlphaE3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeMTAlphaE3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeMTAlphaE3LinePoint{step: t, value: concaveRightStrongWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeMTAlphaE3Finite(current.value) || current.value > fx+concaveRightStrongWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeMTAlphaEm1Finite(r.fx) || !concaveRightStrongWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeMTAlphaEm1Descent) search() {
-	concaveRightStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeMTAlphaEm1RoundingFloor)
 	bounds    concaveRightStrongWolfeMTAlphaEm1Box
+	model     concaveRightStrongWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeMTAlphaEm1ResidualModel is concaveRightStrongWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeMTAlphaEm1ResidualModel struct{}
 
 // concaveRightStrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx fl
 	return measure, floor
 }
 
-// concaveRightStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeMTAlphaEm1Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *conc
 }
 
 // concaveRightStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
-func concaveRightStrongWolfeMTAlphaEm1SearchDirection(dir *concaveRightStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeMTAlphaEm1Box) {
+func concaveRightStrongWolfeMTAlphaEm1SearchDirection(dir *concaveRightStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) {
+	concaveRightStrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeMTAlphaEm1SolveDirection(dir *concaveRightStrongWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeMTAlphaEm1Abs(x[i]) + 1) / concaveRightStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeMTAlphaEm1StepScale(x[i]) / concaveRightStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d
 			return concaveRightStrongWolfeMTAlphaEm1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeMTAlphaEm1LinePoint{step: t, value: concaveRightStrongWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeMTAlphaEm1Finite(current.value) || current.value > fx+concaveRightStrongWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

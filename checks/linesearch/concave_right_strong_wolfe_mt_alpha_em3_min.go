@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeMTAlphaEm3Finite(r.fx) || !concaveRightStrongWolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeMTAlphaEm3Descent) search() {
-	concaveRightStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeMTAlphaEm3RoundingFloor)
 	bounds    concaveRightStrongWolfeMTAlphaEm3Box
+	model     concaveRightStrongWolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeMTAlphaEm3ResidualModel is concaveRightStrongWolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeMTAlphaEm3ResidualModel struct{}
 
 // concaveRightStrongWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeMTAlphaEm3Value(x, g *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx fl
 	return measure, floor
 }
 
-// concaveRightStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeMTAlphaEm3Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *conc
 }
 
 // concaveRightStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
-func concaveRightStrongWolfeMTAlphaEm3SearchDirection(dir *concaveRightStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeMTAlphaEm3Box) {
+func concaveRightStrongWolfeMTAlphaEm3SearchDirection(dir *concaveRightStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) {
+	concaveRightStrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeMTAlphaEm3SolveDirection(dir *concaveRightStrongWolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeMTAlphaEm3Abs(x[i]) + 1) / concaveRightStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeMTAlphaEm3StepScale(x[i]) / concaveRightStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d
 			return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeMTAlphaEm3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeMTAlphaEm3LinePoint{step: t, value: concaveRightStrongWolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveRightStrongWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeNWAlphaE1Finite(r.fx) || !concaveRightStrongWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeNWAlphaE1Descent) search() {
-	concaveRightStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaE1RoundingFloor)
 	bounds    concaveRightStrongWolfeNWAlphaE1Box
+	model     concaveRightStrongWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeNWAlphaE1ResidualModel is concaveRightStrongWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeNWAlphaE1ResidualModel struct{}
 
 // concaveRightStrongWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeNWAlphaE1Value(x, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveRightStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeNWAlphaE1Abs(s[i]) <= tol*concaveRightStrongWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeNWAlphaE1Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveRightStrongWolfeNWAlphaE1SearchDirection is the direction's own.
-func concaveRightStrongWolfeNWAlphaE1SearchDirection(dir *concaveRightStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeNWAlphaE1Box) {
+func concaveRightStrongWolfeNWAlphaE1SearchDirection(dir *concaveRightStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
+	concaveRightStrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeNWAlphaE1SolveDirection(dir *concaveRightStrongWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeNWAlphaE1Abs(x[i]) + 1) / concaveRightStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeNWAlphaE1StepScale(x[i]) / concaveRightStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveRightStrongWolfeNWAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeNWAlphaE1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeNWAlphaE1LinePoint{step: t, value: concaveRightStrongWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeNWAlphaE1Finite(current.value) || current.value > fx+concaveRightStrongWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeNWAlphaE3Finite(r.fx) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeNWAlphaE3Descent) search() {
-	concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaE3RoundingFloor)
 	bounds    concaveRightStrongWolfeNWAlphaE3Box
+	model     concaveRightStrongWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeNWAlphaE3ResidualModel is concaveRightStrongWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeNWAlphaE3ResidualModel struct{}
 
 // concaveRightStrongWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeNWAlphaE3Value(x, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx flo
 	return measure, floor
 }
 
-// concaveRightStrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaE3Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeNWAlphaE3Abs(s[i]) <= tol*concaveRightStrongWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeNWAlphaE3Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *conca
 }
 
 // concaveRightStrongWolfeNWAlphaE3SearchDirection is the direction's own.
-func concaveRightStrongWolfeNWAlphaE3SearchDirection(dir *concaveRightStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+func concaveRightStrongWolfeNWAlphaE3SearchDirection(dir *concaveRightStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) {
+	concaveRightStrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeNWAlphaE3SolveDirection(dir *concaveRightStrongWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeNWAlphaE3Abs(x[i]) + 1) / concaveRightStrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeNWAlphaE3StepScale(x[i]) / concaveRightStrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d 
 			return concaveRightStrongWolfeNWAlphaE3LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeNWAlphaE3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeNWAlphaE3LinePoint{step: t, value: concaveRightStrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+concaveRightStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeNWAlphaEm1Finite(r.fx) || !concaveRightStrongWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeNWAlphaEm1Descent) search() {
-	concaveRightStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaEm1RoundingFloor)
 	bounds    concaveRightStrongWolfeNWAlphaEm1Box
+	model     concaveRightStrongWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeNWAlphaEm1ResidualModel is concaveRightStrongWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeNWAlphaEm1ResidualModel struct{}
 
 // concaveRightStrongWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx fl
 	return measure, floor
 }
 
-// concaveRightStrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*concaveRightStrongWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeNWAlphaEm1Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *conc
 }
 
 // concaveRightStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
-func concaveRightStrongWolfeNWAlphaEm1SearchDirection(dir *concaveRightStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeNWAlphaEm1Box) {
+func concaveRightStrongWolfeNWAlphaEm1SearchDirection(dir *concaveRightStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) {
+	concaveRightStrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeNWAlphaEm1SolveDirection(dir *concaveRightStrongWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeNWAlphaEm1Abs(x[i]) + 1) / concaveRightStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeNWAlphaEm1StepScale(x[i]) / concaveRightStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d
 			return concaveRightStrongWolfeNWAlphaEm1LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeNWAlphaEm1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeNWAlphaEm1LinePoint{step: t, value: concaveRightStrongWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeNWAlphaEm1Finite(current.value) || current.value > fx+concaveRightStrongWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightStrongWolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightStrongWolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightStrongWolfeNWAlphaEm3Finite(r.fx) || !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightStrongWolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightStrongWolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightStrongWolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveRightStrongWolfeNWAlphaEm3Descent) search() {
-	concaveRightStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightStrongWolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightStrongWolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaEm3RoundingFloor)
 	bounds    concaveRightStrongWolfeNWAlphaEm3Box
+	model     concaveRightStrongWolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightStrongWolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// concaveRightStrongWolfeNWAlphaEm3ResidualModel is concaveRightStrongWolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type concaveRightStrongWolfeNWAlphaEm3ResidualModel struct{}
 
 // concaveRightStrongWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -630,6 +634,11 @@ const (
 	concaveRightStrongWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveRightStrongWolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveRightStrongWolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightStrongWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightStrongWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -837,16 +846,22 @@ func concaveRightStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx fl
 	return measure, floor
 }
 
-// concaveRightStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(concaveRightStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveRightStrongWolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightStrongWolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return concaveRightStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 
 // concaveRightStrongWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -854,7 +869,12 @@ func concaveRightStrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *conc
 }
 
 // concaveRightStrongWolfeNWAlphaEm3SearchDirection is the direction's own.
-func concaveRightStrongWolfeNWAlphaEm3SearchDirection(dir *concaveRightStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeNWAlphaEm3Box) {
+func concaveRightStrongWolfeNWAlphaEm3SearchDirection(dir *concaveRightStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
+	concaveRightStrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightStrongWolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveRightStrongWolfeNWAlphaEm3SolveDirection(dir *concaveRightStrongWolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -868,12 +888,12 @@ func concaveRightStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightStrongWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightStrongWolfeNWAlphaEm3Abs(x[i]) + 1) / concaveRightStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeNWAlphaEm3StepScale(x[i]) / concaveRightStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -933,7 +953,7 @@ func concaveRightStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d
 			return concaveRightStrongWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		concaveRightStrongWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightStrongWolfeNWAlphaEm3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightStrongWolfeNWAlphaEm3LinePoint{step: t, value: concaveRightStrongWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightStrongWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveRightStrongWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

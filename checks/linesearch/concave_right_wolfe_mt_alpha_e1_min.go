@@ -354,7 +354,7 @@ func (r *concaveRightWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeMTAlphaE1Finite(r.fx) || !concaveRightWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeMTAlphaE1Descent) search() {
-	concaveRightWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaE1RoundingFloor)
 	bounds    concaveRightWolfeMTAlphaE1Box
+	model     concaveRightWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// concaveRightWolfeMTAlphaE1ResidualModel is concaveRightWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type concaveRightWolfeMTAlphaE1ResidualModel struct{}
 
 // concaveRightWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeMTAlphaE1Value(x, g *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveRightWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveRightWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveRightWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(concaveRightWolfeMTAlphaE1Abs(s[i]) <= tol*concaveRightWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveRightWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return concaveRightWolfeMTAlphaE1Abs(xi) + 1
+}
+
 // concaveRightWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaE1Box) {}
 
 // concaveRightWolfeMTAlphaE1SearchDirection is the direction's own.
-func concaveRightWolfeMTAlphaE1SearchDirection(dir *concaveRightWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *concaveRightWolfeMTAlphaE1Box) {
+func concaveRightWolfeMTAlphaE1SearchDirection(dir *concaveRightWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) {
+	concaveRightWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeMTAlphaE1SolveDirection(dir *concaveRightWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveRightWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeMTAlphaE1Abs(x[i]) + 1) / concaveRightWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeMTAlphaE1StepScale(x[i]) / concaveRightWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveRightWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveRightWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		concaveRightWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeMTAlphaE1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeMTAlphaE1LinePoint{step: t, value: concaveRightWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveRightWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

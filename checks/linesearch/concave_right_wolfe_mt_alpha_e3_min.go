@@ -354,7 +354,7 @@ func (r *concaveRightWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeMTAlphaE3Finite(r.fx) || !concaveRightWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeMTAlphaE3Descent) search() {
-	concaveRightWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaE3RoundingFloor)
 	bounds    concaveRightWolfeMTAlphaE3Box
+	model     concaveRightWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// concaveRightWolfeMTAlphaE3ResidualModel is concaveRightWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type concaveRightWolfeMTAlphaE3ResidualModel struct{}
 
 // concaveRightWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeMTAlphaE3Value(x, g *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveRightWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveRightWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveRightWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(concaveRightWolfeMTAlphaE3Abs(s[i]) <= tol*concaveRightWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveRightWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return concaveRightWolfeMTAlphaE3Abs(xi) + 1
+}
+
 // concaveRightWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaE3Box) {}
 
 // concaveRightWolfeMTAlphaE3SearchDirection is the direction's own.
-func concaveRightWolfeMTAlphaE3SearchDirection(dir *concaveRightWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *concaveRightWolfeMTAlphaE3Box) {
+func concaveRightWolfeMTAlphaE3SearchDirection(dir *concaveRightWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) {
+	concaveRightWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeMTAlphaE3SolveDirection(dir *concaveRightWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveRightWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeMTAlphaE3Abs(x[i]) + 1) / concaveRightWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeMTAlphaE3StepScale(x[i]) / concaveRightWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveRightWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveRightWolfeMTAlphaE3LineResult{calls: calls, end: concaveRightWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		concaveRightWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeMTAlphaE3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeMTAlphaE3LinePoint{step: t, value: concaveRightWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeMTAlphaE3Finite(current.value) || current.value > fx+concaveRightWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeMTAlphaEm1Finite(r.fx) || !concaveRightWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeMTAlphaEm1Descent) search() {
-	concaveRightWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaEm1RoundingFloor)
 	bounds    concaveRightWolfeMTAlphaEm1Box
+	model     concaveRightWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// concaveRightWolfeMTAlphaEm1ResidualModel is concaveRightWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type concaveRightWolfeMTAlphaEm1ResidualModel struct{}
 
 // concaveRightWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveRightWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64)
 	return measure, floor
 }
 
-// concaveRightWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeMTAlphaEm1Abs(s[i]) <= tol*(concaveRightWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(concaveRightWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveRightWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return concaveRightWolfeMTAlphaEm1Abs(xi) + 1
 }
 
 // concaveRightWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveRightWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRig
 }
 
 // concaveRightWolfeMTAlphaEm1SearchDirection is the direction's own.
-func concaveRightWolfeMTAlphaEm1SearchDirection(dir *concaveRightWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveRightWolfeMTAlphaEm1Box) {
+func concaveRightWolfeMTAlphaEm1SearchDirection(dir *concaveRightWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
+	concaveRightWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeMTAlphaEm1SolveDirection(dir *concaveRightWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveRightWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeMTAlphaEm1Abs(x[i]) + 1) / concaveRightWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeMTAlphaEm1StepScale(x[i]) / concaveRightWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]f
 			return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		concaveRightWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeMTAlphaEm1LinePoint{step: t, value: concaveRightWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeMTAlphaEm1Finite(current.value) || current.value > fx+concaveRightWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightWolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeMTAlphaEm3Finite(r.fx) || !concaveRightWolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeMTAlphaEm3Descent) search() {
-	concaveRightWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaEm3RoundingFloor)
 	bounds    concaveRightWolfeMTAlphaEm3Box
+	model     concaveRightWolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// concaveRightWolfeMTAlphaEm3ResidualModel is concaveRightWolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type concaveRightWolfeMTAlphaEm3ResidualModel struct{}
 
 // concaveRightWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeMTAlphaEm3Value(x, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveRightWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64)
 	return measure, floor
 }
 
-// concaveRightWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeMTAlphaEm3Abs(s[i]) <= tol*(concaveRightWolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(concaveRightWolfeMTAlphaEm3Abs(s[i]) <= tol*concaveRightWolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return concaveRightWolfeMTAlphaEm3Abs(xi) + 1
 }
 
 // concaveRightWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveRightWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRig
 }
 
 // concaveRightWolfeMTAlphaEm3SearchDirection is the direction's own.
-func concaveRightWolfeMTAlphaEm3SearchDirection(dir *concaveRightWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *concaveRightWolfeMTAlphaEm3Box) {
+func concaveRightWolfeMTAlphaEm3SearchDirection(dir *concaveRightWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) {
+	concaveRightWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeMTAlphaEm3SolveDirection(dir *concaveRightWolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveRightWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeMTAlphaEm3Abs(x[i]) + 1) / concaveRightWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeMTAlphaEm3StepScale(x[i]) / concaveRightWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]f
 			return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		concaveRightWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeMTAlphaEm3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeMTAlphaEm3LinePoint{step: t, value: concaveRightWolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveRightWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

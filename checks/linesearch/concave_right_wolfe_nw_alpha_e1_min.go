@@ -354,7 +354,7 @@ func (r *concaveRightWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeNWAlphaE1Finite(r.fx) || !concaveRightWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeNWAlphaE1Descent) search() {
-	concaveRightWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaE1RoundingFloor)
 	bounds    concaveRightWolfeNWAlphaE1Box
+	model     concaveRightWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// concaveRightWolfeNWAlphaE1ResidualModel is concaveRightWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type concaveRightWolfeNWAlphaE1ResidualModel struct{}
 
 // concaveRightWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeNWAlphaE1Value(x, g *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveRightWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveRightWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeNWAlphaE1Abs(s[i]) <= tol*(concaveRightWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(concaveRightWolfeNWAlphaE1Abs(s[i]) <= tol*concaveRightWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveRightWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return concaveRightWolfeNWAlphaE1Abs(xi) + 1
+}
+
 // concaveRightWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {}
 
 // concaveRightWolfeNWAlphaE1SearchDirection is the direction's own.
-func concaveRightWolfeNWAlphaE1SearchDirection(dir *concaveRightWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {
+func concaveRightWolfeNWAlphaE1SearchDirection(dir *concaveRightWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) {
+	concaveRightWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeNWAlphaE1SolveDirection(dir *concaveRightWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveRightWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeNWAlphaE1Abs(x[i]) + 1) / concaveRightWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeNWAlphaE1StepScale(x[i]) / concaveRightWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveRightWolfeNWAlphaE1LineResult{calls: calls, end: concaveRightWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		concaveRightWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeNWAlphaE1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeNWAlphaE1LinePoint{step: t, value: concaveRightWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeNWAlphaE1Finite(current.value) || current.value > fx+concaveRightWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeNWAlphaE3Finite(r.fx) || !concaveRightWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeNWAlphaE3Descent) search() {
-	concaveRightWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaE3RoundingFloor)
 	bounds    concaveRightWolfeNWAlphaE3Box
+	model     concaveRightWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// concaveRightWolfeNWAlphaE3ResidualModel is concaveRightWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type concaveRightWolfeNWAlphaE3ResidualModel struct{}
 
 // concaveRightWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeNWAlphaE3Value(x, g *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func concaveRightWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) 
 	return measure, floor
 }
 
-// concaveRightWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeNWAlphaE3Abs(s[i]) <= tol*(concaveRightWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(concaveRightWolfeNWAlphaE3Abs(s[i]) <= tol*concaveRightWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// concaveRightWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return concaveRightWolfeNWAlphaE3Abs(xi) + 1
+}
+
 // concaveRightWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {}
 
 // concaveRightWolfeNWAlphaE3SearchDirection is the direction's own.
-func concaveRightWolfeNWAlphaE3SearchDirection(dir *concaveRightWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {
+func concaveRightWolfeNWAlphaE3SearchDirection(dir *concaveRightWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) {
+	concaveRightWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeNWAlphaE3SolveDirection(dir *concaveRightWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func concaveRightWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeNWAlphaE3Abs(x[i]) + 1) / concaveRightWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeNWAlphaE3StepScale(x[i]) / concaveRightWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 			return concaveRightWolfeNWAlphaE3LineResult{calls: calls, end: concaveRightWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		concaveRightWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeNWAlphaE3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeNWAlphaE3LinePoint{step: t, value: concaveRightWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeNWAlphaE3Finite(current.value) || current.value > fx+concaveRightWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *concaveRightWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeNWAlphaEm1Finite(r.fx) || !concaveRightWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeNWAlphaEm1Descent) search() {
-	concaveRightWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaEm1RoundingFloor)
 	bounds    concaveRightWolfeNWAlphaEm1Box
+	model     concaveRightWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// concaveRightWolfeNWAlphaEm1ResidualModel is concaveRightWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type concaveRightWolfeNWAlphaEm1ResidualModel struct{}
 
 // concaveRightWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveRightWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64)
 	return measure, floor
 }
 
-// concaveRightWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeNWAlphaEm1Abs(s[i]) <= tol*(concaveRightWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(concaveRightWolfeNWAlphaEm1Abs(s[i]) <= tol*concaveRightWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return concaveRightWolfeNWAlphaEm1Abs(xi) + 1
 }
 
 // concaveRightWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveRightWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRig
 }
 
 // concaveRightWolfeNWAlphaEm1SearchDirection is the direction's own.
-func concaveRightWolfeNWAlphaEm1SearchDirection(dir *concaveRightWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaEm1Box) {
+func concaveRightWolfeNWAlphaEm1SearchDirection(dir *concaveRightWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) {
+	concaveRightWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeNWAlphaEm1SolveDirection(dir *concaveRightWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveRightWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeNWAlphaEm1Abs(x[i]) + 1) / concaveRightWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeNWAlphaEm1StepScale(x[i]) / concaveRightWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveRightWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]f
 			return concaveRightWolfeNWAlphaEm1LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		concaveRightWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeNWAlphaEm1LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeNWAlphaEm1LinePoint{step: t, value: concaveRightWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeNWAlphaEm1Finite(current.value) || current.value > fx+concaveRightWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

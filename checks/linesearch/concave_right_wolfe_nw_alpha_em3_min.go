@@ -354,7 +354,7 @@ func (r *concaveRightWolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = ConcaveRight(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = concaveRightWolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !concaveRightWolfeNWAlphaEm3Finite(r.fx) || !concaveRightWolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = ConcaveRightWolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *concaveRightWolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves concaveRightWolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *concaveRightWolfeNWAlphaEm3Descent) search() {
-	concaveRightWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	concaveRightWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !concaveRightWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		concaveRightWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		concaveRightWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(concaveRightWolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type concaveRightWolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaEm3RoundingFloor)
 	bounds    concaveRightWolfeNWAlphaEm3Box
+	model     concaveRightWolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (concaveRightWolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// concaveRightWolfeNWAlphaEm3ResidualModel is concaveRightWolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type concaveRightWolfeNWAlphaEm3ResidualModel struct{}
 
 // concaveRightWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	concaveRightWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	concaveRightWolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// concaveRightWolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func concaveRightWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) float64 {
+	return ConcaveRight(x[0])
+}
 
 // concaveRightWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func concaveRightWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64)
 	return measure, floor
 }
 
-// concaveRightWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// concaveRightWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func concaveRightWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(concaveRightWolfeNWAlphaEm3Abs(s[i]) <= tol*(concaveRightWolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(concaveRightWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveRightWolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func concaveRightWolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return concaveRightWolfeNWAlphaEm3Abs(xi) + 1
 }
 
 // concaveRightWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func concaveRightWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRig
 }
 
 // concaveRightWolfeNWAlphaEm3SearchDirection is the direction's own.
-func concaveRightWolfeNWAlphaEm3SearchDirection(dir *concaveRightWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaEm3Box) {
+func concaveRightWolfeNWAlphaEm3SearchDirection(dir *concaveRightWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
+	concaveRightWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// concaveRightWolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func concaveRightWolfeNWAlphaEm3SolveDirection(dir *concaveRightWolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func concaveRightWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // concaveRightWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·concaveRightWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (concaveRightWolfeNWAlphaEm3Abs(x[i]) + 1) / concaveRightWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeNWAlphaEm3StepScale(x[i]) / concaveRightWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]f
 			return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		concaveRightWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := concaveRightWolfeNWAlphaEm3LinePoint{step: t, value: ConcaveRight(xt[0])}
+		current := concaveRightWolfeNWAlphaEm3LinePoint{step: t, value: concaveRightWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !concaveRightWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveRightWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

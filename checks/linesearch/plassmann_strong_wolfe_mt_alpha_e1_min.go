@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeMTAlphaE1Finite(r.fx) || !plassmannStrongWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeMTAlphaE1Descent) search() {
-	plassmannStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaE1RoundingFloor)
 	bounds    plassmannStrongWolfeMTAlphaE1Box
+	model     plassmannStrongWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// plassmannStrongWolfeMTAlphaE1ResidualModel is plassmannStrongWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeMTAlphaE1ResidualModel struct{}
 
 // plassmannStrongWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeMTAlphaE1Value(x, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float6
 	return measure, floor
 }
 
-// plassmannStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeMTAlphaE1Abs(s[i]) <= tol*plassmannStrongWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return plassmannStrongWolfeMTAlphaE1Abs(xi) + 1
 }
 
 // plassmannStrongWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassman
 }
 
 // plassmannStrongWolfeMTAlphaE1SearchDirection is the direction's own.
-func plassmannStrongWolfeMTAlphaE1SearchDirection(dir *plassmannStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaE1Box) {
+func plassmannStrongWolfeMTAlphaE1SearchDirection(dir *plassmannStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
+	plassmannStrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeMTAlphaE1SolveDirection(dir *plassmannStrongWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeMTAlphaE1Abs(x[i]) + 1) / plassmannStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeMTAlphaE1StepScale(x[i]) / plassmannStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1
 			return plassmannStrongWolfeMTAlphaE1LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		plassmannStrongWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeMTAlphaE1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeMTAlphaE1LinePoint{step: t, value: plassmannStrongWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeMTAlphaE1Finite(current.value) || current.value > fx+plassmannStrongWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

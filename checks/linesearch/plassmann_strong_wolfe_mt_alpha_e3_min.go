@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeMTAlphaE3Finite(r.fx) || !plassmannStrongWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeMTAlphaE3Descent) search() {
-	plassmannStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaE3RoundingFloor)
 	bounds    plassmannStrongWolfeMTAlphaE3Box
+	model     plassmannStrongWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// plassmannStrongWolfeMTAlphaE3ResidualModel is plassmannStrongWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeMTAlphaE3ResidualModel struct{}
 
 // plassmannStrongWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeMTAlphaE3Value(x, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float6
 	return measure, floor
 }
 
-// plassmannStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeMTAlphaE3Abs(s[i]) <= tol*plassmannStrongWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return plassmannStrongWolfeMTAlphaE3Abs(xi) + 1
 }
 
 // plassmannStrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassman
 }
 
 // plassmannStrongWolfeMTAlphaE3SearchDirection is the direction's own.
-func plassmannStrongWolfeMTAlphaE3SearchDirection(dir *plassmannStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaE3Box) {
+func plassmannStrongWolfeMTAlphaE3SearchDirection(dir *plassmannStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) {
+	plassmannStrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeMTAlphaE3SolveDirection(dir *plassmannStrongWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeMTAlphaE3Abs(x[i]) + 1) / plassmannStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeMTAlphaE3StepScale(x[i]) / plassmannStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1
 			return plassmannStrongWolfeMTAlphaE3LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		plassmannStrongWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeMTAlphaE3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeMTAlphaE3LinePoint{step: t, value: plassmannStrongWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeMTAlphaE3Finite(current.value) || current.value > fx+plassmannStrongWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

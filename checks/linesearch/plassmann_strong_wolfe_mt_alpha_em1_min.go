@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeMTAlphaEm1Finite(r.fx) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeMTAlphaEm1Descent) search() {
-	plassmannStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaEm1RoundingFloor)
 	bounds    plassmannStrongWolfeMTAlphaEm1Box
+	model     plassmannStrongWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// plassmannStrongWolfeMTAlphaEm1ResidualModel is plassmannStrongWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeMTAlphaEm1ResidualModel struct{}
 
 // plassmannStrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float
 	return measure, floor
 }
 
-// plassmannStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*plassmannStrongWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return plassmannStrongWolfeMTAlphaEm1Abs(xi) + 1
 }
 
 // plassmannStrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassma
 }
 
 // plassmannStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
-func plassmannStrongWolfeMTAlphaEm1SearchDirection(dir *plassmannStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaEm1Box) {
+func plassmannStrongWolfeMTAlphaEm1SearchDirection(dir *plassmannStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
+	plassmannStrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeMTAlphaEm1SolveDirection(dir *plassmannStrongWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeMTAlphaEm1Abs(x[i]) + 1) / plassmannStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeMTAlphaEm1StepScale(x[i]) / plassmannStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[
 			return plassmannStrongWolfeMTAlphaEm1LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		plassmannStrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeMTAlphaEm1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeMTAlphaEm1LinePoint{step: t, value: plassmannStrongWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeMTAlphaEm1Finite(current.value) || current.value > fx+plassmannStrongWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

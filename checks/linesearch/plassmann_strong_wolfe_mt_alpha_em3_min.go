@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeMTAlphaEm3Finite(r.fx) || !plassmannStrongWolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeMTAlphaEm3Descent) search() {
-	plassmannStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaEm3RoundingFloor)
 	bounds    plassmannStrongWolfeMTAlphaEm3Box
+	model     plassmannStrongWolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// plassmannStrongWolfeMTAlphaEm3ResidualModel is plassmannStrongWolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeMTAlphaEm3ResidualModel struct{}
 
 // plassmannStrongWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeMTAlphaEm3Value(x, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float
 	return measure, floor
 }
 
-// plassmannStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*plassmannStrongWolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return plassmannStrongWolfeMTAlphaEm3Abs(xi) + 1
 }
 
 // plassmannStrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassma
 }
 
 // plassmannStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
-func plassmannStrongWolfeMTAlphaEm3SearchDirection(dir *plassmannStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaEm3Box) {
+func plassmannStrongWolfeMTAlphaEm3SearchDirection(dir *plassmannStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) {
+	plassmannStrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeMTAlphaEm3SolveDirection(dir *plassmannStrongWolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeMTAlphaEm3Abs(x[i]) + 1) / plassmannStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeMTAlphaEm3StepScale(x[i]) / plassmannStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[
 			return plassmannStrongWolfeMTAlphaEm3LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		plassmannStrongWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeMTAlphaEm3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeMTAlphaEm3LinePoint{step: t, value: plassmannStrongWolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeMTAlphaEm3Finite(current.value) || current.value > fx+plassmannStrongWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeNWAlphaE1Finite(r.fx) || !plassmannStrongWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeNWAlphaE1Descent) search() {
-	plassmannStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeNWAlphaE1RoundingFloor)
 	bounds    plassmannStrongWolfeNWAlphaE1Box
+	model     plassmannStrongWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// plassmannStrongWolfeNWAlphaE1ResidualModel is plassmannStrongWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeNWAlphaE1ResidualModel struct{}
 
 // plassmannStrongWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeNWAlphaE1Value(x, g *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float6
 	return measure, floor
 }
 
-// plassmannStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(plassmannStrongWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeNWAlphaE1Abs(s[i]) <= tol*plassmannStrongWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return plassmannStrongWolfeNWAlphaE1Abs(xi) + 1
 }
 
 // plassmannStrongWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassman
 }
 
 // plassmannStrongWolfeNWAlphaE1SearchDirection is the direction's own.
-func plassmannStrongWolfeNWAlphaE1SearchDirection(dir *plassmannStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *plassmannStrongWolfeNWAlphaE1Box) {
+func plassmannStrongWolfeNWAlphaE1SearchDirection(dir *plassmannStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) {
+	plassmannStrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeNWAlphaE1SolveDirection(dir *plassmannStrongWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeNWAlphaE1Abs(x[i]) + 1) / plassmannStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeNWAlphaE1StepScale(x[i]) / plassmannStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1
 			return plassmannStrongWolfeNWAlphaE1LineResult{calls: calls, end: plassmannStrongWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		plassmannStrongWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeNWAlphaE1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeNWAlphaE1LinePoint{step: t, value: plassmannStrongWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeNWAlphaE1Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeNWAlphaE3Finite(r.fx) || !plassmannStrongWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeNWAlphaE3Descent) search() {
-	plassmannStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeNWAlphaE3RoundingFloor)
 	bounds    plassmannStrongWolfeNWAlphaE3Box
+	model     plassmannStrongWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// plassmannStrongWolfeNWAlphaE3ResidualModel is plassmannStrongWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeNWAlphaE3ResidualModel struct{}
 
 // plassmannStrongWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeNWAlphaE3Value(x, g *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float6
 	return measure, floor
 }
 
-// plassmannStrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeNWAlphaE3Abs(s[i]) <= tol*(plassmannStrongWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeNWAlphaE3Abs(s[i]) <= tol*plassmannStrongWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return plassmannStrongWolfeNWAlphaE3Abs(xi) + 1
 }
 
 // plassmannStrongWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassman
 }
 
 // plassmannStrongWolfeNWAlphaE3SearchDirection is the direction's own.
-func plassmannStrongWolfeNWAlphaE3SearchDirection(dir *plassmannStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *plassmannStrongWolfeNWAlphaE3Box) {
+func plassmannStrongWolfeNWAlphaE3SearchDirection(dir *plassmannStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) {
+	plassmannStrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeNWAlphaE3SolveDirection(dir *plassmannStrongWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeNWAlphaE3Abs(x[i]) + 1) / plassmannStrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeNWAlphaE3StepScale(x[i]) / plassmannStrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1
 			return plassmannStrongWolfeNWAlphaE3LineResult{calls: calls, end: plassmannStrongWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		plassmannStrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeNWAlphaE3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeNWAlphaE3LinePoint{step: t, value: plassmannStrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeNWAlphaEm1Finite(r.fx) || !plassmannStrongWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeNWAlphaEm1Descent) search() {
-	plassmannStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeNWAlphaEm1RoundingFloor)
 	bounds    plassmannStrongWolfeNWAlphaEm1Box
+	model     plassmannStrongWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// plassmannStrongWolfeNWAlphaEm1ResidualModel is plassmannStrongWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeNWAlphaEm1ResidualModel struct{}
 
 // plassmannStrongWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float
 	return measure, floor
 }
 
-// plassmannStrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*(plassmannStrongWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*plassmannStrongWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return plassmannStrongWolfeNWAlphaEm1Abs(xi) + 1
 }
 
 // plassmannStrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassma
 }
 
 // plassmannStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
-func plassmannStrongWolfeNWAlphaEm1SearchDirection(dir *plassmannStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *plassmannStrongWolfeNWAlphaEm1Box) {
+func plassmannStrongWolfeNWAlphaEm1SearchDirection(dir *plassmannStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) {
+	plassmannStrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeNWAlphaEm1SolveDirection(dir *plassmannStrongWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeNWAlphaEm1Abs(x[i]) + 1) / plassmannStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeNWAlphaEm1StepScale(x[i]) / plassmannStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[
 			return plassmannStrongWolfeNWAlphaEm1LineResult{calls: calls, end: plassmannStrongWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		plassmannStrongWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeNWAlphaEm1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeNWAlphaEm1LinePoint{step: t, value: plassmannStrongWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeNWAlphaEm1Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannStrongWolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannStrongWolfeNWAlphaEm3Finite(r.fx) || !plassmannStrongWolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = PlassmannStrongWolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves plassmannStrongWolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *plassmannStrongWolfeNWAlphaEm3Descent) search() {
-	plassmannStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannStrongWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannStrongWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannStrongWolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type plassmannStrongWolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeNWAlphaEm3RoundingFloor)
 	bounds    plassmannStrongWolfeNWAlphaEm3Box
+	model     plassmannStrongWolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (plassmannStrongWolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// plassmannStrongWolfeNWAlphaEm3ResidualModel is plassmannStrongWolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type plassmannStrongWolfeNWAlphaEm3ResidualModel struct{}
 
 // plassmannStrongWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannStrongWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	plassmannStrongWolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// plassmannStrongWolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannStrongWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannStrongWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func plassmannStrongWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,16 +845,22 @@ func plassmannStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float
 	return measure, floor
 }
 
-// plassmannStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(plassmannStrongWolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(plassmannStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*plassmannStrongWolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannStrongWolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return plassmannStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 
 // plassmannStrongWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
@@ -853,7 +868,12 @@ func plassmannStrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassma
 }
 
 // plassmannStrongWolfeNWAlphaEm3SearchDirection is the direction's own.
-func plassmannStrongWolfeNWAlphaEm3SearchDirection(dir *plassmannStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *plassmannStrongWolfeNWAlphaEm3Box) {
+func plassmannStrongWolfeNWAlphaEm3SearchDirection(dir *plassmannStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) {
+	plassmannStrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannStrongWolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func plassmannStrongWolfeNWAlphaEm3SolveDirection(dir *plassmannStrongWolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -867,12 +887,12 @@ func plassmannStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannStrongWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannStrongWolfeNWAlphaEm3Abs(x[i]) + 1) / plassmannStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeNWAlphaEm3StepScale(x[i]) / plassmannStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -932,7 +952,7 @@ func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[
 			return plassmannStrongWolfeNWAlphaEm3LineResult{calls: calls, end: plassmannStrongWolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		plassmannStrongWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannStrongWolfeNWAlphaEm3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannStrongWolfeNWAlphaEm3LinePoint{step: t, value: plassmannStrongWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannStrongWolfeNWAlphaEm3Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

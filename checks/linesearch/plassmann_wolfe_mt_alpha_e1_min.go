@@ -354,7 +354,7 @@ func (r *plassmannWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeMTAlphaE1Finite(r.fx) || !plassmannWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeMTAlphaE1Descent) search() {
-	plassmannWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeMTAlphaE1RoundingFloor)
 	bounds    plassmannWolfeMTAlphaE1Box
+	model     plassmannWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// plassmannWolfeMTAlphaE1ResidualModel is plassmannWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type plassmannWolfeMTAlphaE1ResidualModel struct{}
 
 // plassmannWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	plassmannWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeMTAlphaE1Value(x, g *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func plassmannWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (me
 	return measure, floor
 }
 
-// plassmannWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeMTAlphaE1Abs(s[i]) <= tol*(plassmannWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(plassmannWolfeMTAlphaE1Abs(s[i]) <= tol*plassmannWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return plassmannWolfeMTAlphaE1Abs(xi) + 1
+}
+
 // plassmannWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaE1Box) {}
 
 // plassmannWolfeMTAlphaE1SearchDirection is the direction's own.
-func plassmannWolfeMTAlphaE1SearchDirection(dir *plassmannWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *plassmannWolfeMTAlphaE1Box) {
+func plassmannWolfeMTAlphaE1SearchDirection(dir *plassmannWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) {
+	plassmannWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeMTAlphaE1SolveDirection(dir *plassmannWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeMTAlphaE1Abs(x[i]) + 1) / plassmannWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeMTAlphaE1StepScale(x[i]) / plassmannWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float
 			return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		plassmannWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeMTAlphaE1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeMTAlphaE1LinePoint{step: t, value: plassmannWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeMTAlphaE1Finite(current.value) || current.value > fx+plassmannWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeMTAlphaE3Finite(r.fx) || !plassmannWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeMTAlphaE3Descent) search() {
-	plassmannWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeMTAlphaE3RoundingFloor)
 	bounds    plassmannWolfeMTAlphaE3Box
+	model     plassmannWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// plassmannWolfeMTAlphaE3ResidualModel is plassmannWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type plassmannWolfeMTAlphaE3ResidualModel struct{}
 
 // plassmannWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	plassmannWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeMTAlphaE3Value(x, g *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func plassmannWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (me
 	return measure, floor
 }
 
-// plassmannWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeMTAlphaE3Abs(s[i]) <= tol*(plassmannWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(plassmannWolfeMTAlphaE3Abs(s[i]) <= tol*plassmannWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return plassmannWolfeMTAlphaE3Abs(xi) + 1
+}
+
 // plassmannWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaE3Box) {}
 
 // plassmannWolfeMTAlphaE3SearchDirection is the direction's own.
-func plassmannWolfeMTAlphaE3SearchDirection(dir *plassmannWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *plassmannWolfeMTAlphaE3Box) {
+func plassmannWolfeMTAlphaE3SearchDirection(dir *plassmannWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
+	plassmannWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeMTAlphaE3SolveDirection(dir *plassmannWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeMTAlphaE3Abs(x[i]) + 1) / plassmannWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeMTAlphaE3StepScale(x[i]) / plassmannWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float
 			return plassmannWolfeMTAlphaE3LineResult{calls: calls, end: plassmannWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		plassmannWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeMTAlphaE3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeMTAlphaE3LinePoint{step: t, value: plassmannWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeMTAlphaE3Finite(current.value) || current.value > fx+plassmannWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeMTAlphaEm1Finite(r.fx) || !plassmannWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeMTAlphaEm1Descent) search() {
-	plassmannWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeMTAlphaEm1RoundingFloor)
 	bounds    plassmannWolfeMTAlphaEm1Box
+	model     plassmannWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// plassmannWolfeMTAlphaEm1ResidualModel is plassmannWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type plassmannWolfeMTAlphaEm1ResidualModel struct{}
 
 // plassmannWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	plassmannWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func plassmannWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// plassmannWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeMTAlphaEm1Abs(s[i]) <= tol*(plassmannWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(plassmannWolfeMTAlphaEm1Abs(s[i]) <= tol*plassmannWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return plassmannWolfeMTAlphaEm1Abs(xi) + 1
+}
+
 // plassmannWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaEm1Box) {}
 
 // plassmannWolfeMTAlphaEm1SearchDirection is the direction's own.
-func plassmannWolfeMTAlphaEm1SearchDirection(dir *plassmannWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *plassmannWolfeMTAlphaEm1Box) {
+func plassmannWolfeMTAlphaEm1SearchDirection(dir *plassmannWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) {
+	plassmannWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeMTAlphaEm1SolveDirection(dir *plassmannWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeMTAlphaEm1Abs(x[i]) + 1) / plassmannWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeMTAlphaEm1StepScale(x[i]) / plassmannWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return plassmannWolfeMTAlphaEm1LineResult{calls: calls, end: plassmannWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		plassmannWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeMTAlphaEm1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeMTAlphaEm1LinePoint{step: t, value: plassmannWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeMTAlphaEm1Finite(current.value) || current.value > fx+plassmannWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

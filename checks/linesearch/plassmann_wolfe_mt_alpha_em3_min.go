@@ -354,7 +354,7 @@ func (r *plassmannWolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeMTAlphaEm3Finite(r.fx) || !plassmannWolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeMTAlphaEm3Descent) search() {
-	plassmannWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeMTAlphaEm3RoundingFloor)
 	bounds    plassmannWolfeMTAlphaEm3Box
+	model     plassmannWolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// plassmannWolfeMTAlphaEm3ResidualModel is plassmannWolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type plassmannWolfeMTAlphaEm3ResidualModel struct{}
 
 // plassmannWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	plassmannWolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeMTAlphaEm3Value(x, g *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func plassmannWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// plassmannWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeMTAlphaEm3Abs(s[i]) <= tol*(plassmannWolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(plassmannWolfeMTAlphaEm3Abs(s[i]) <= tol*plassmannWolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return plassmannWolfeMTAlphaEm3Abs(xi) + 1
+}
+
 // plassmannWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaEm3Box) {}
 
 // plassmannWolfeMTAlphaEm3SearchDirection is the direction's own.
-func plassmannWolfeMTAlphaEm3SearchDirection(dir *plassmannWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *plassmannWolfeMTAlphaEm3Box) {
+func plassmannWolfeMTAlphaEm3SearchDirection(dir *plassmannWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) {
+	plassmannWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeMTAlphaEm3SolveDirection(dir *plassmannWolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeMTAlphaEm3Abs(x[i]) + 1) / plassmannWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeMTAlphaEm3StepScale(x[i]) / plassmannWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return plassmannWolfeMTAlphaEm3LineResult{calls: calls, end: plassmannWolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		plassmannWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeMTAlphaEm3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeMTAlphaEm3LinePoint{step: t, value: plassmannWolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeMTAlphaEm3Finite(current.value) || current.value > fx+plassmannWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeNWAlphaE1Finite(r.fx) || !plassmannWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeNWAlphaE1Descent) search() {
-	plassmannWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaE1RoundingFloor)
 	bounds    plassmannWolfeNWAlphaE1Box
+	model     plassmannWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// plassmannWolfeNWAlphaE1ResidualModel is plassmannWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type plassmannWolfeNWAlphaE1ResidualModel struct{}
 
 // plassmannWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	plassmannWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeNWAlphaE1Value(x, g *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func plassmannWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (me
 	return measure, floor
 }
 
-// plassmannWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeNWAlphaE1Abs(s[i]) <= tol*(plassmannWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(plassmannWolfeNWAlphaE1Abs(s[i]) <= tol*plassmannWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return plassmannWolfeNWAlphaE1Abs(xi) + 1
+}
+
 // plassmannWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaE1Box) {}
 
 // plassmannWolfeNWAlphaE1SearchDirection is the direction's own.
-func plassmannWolfeNWAlphaE1SearchDirection(dir *plassmannWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *plassmannWolfeNWAlphaE1Box) {
+func plassmannWolfeNWAlphaE1SearchDirection(dir *plassmannWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) {
+	plassmannWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeNWAlphaE1SolveDirection(dir *plassmannWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeNWAlphaE1Abs(x[i]) + 1) / plassmannWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeNWAlphaE1StepScale(x[i]) / plassmannWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float
 			return plassmannWolfeNWAlphaE1LineResult{calls: calls, end: plassmannWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		plassmannWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeNWAlphaE1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeNWAlphaE1LinePoint{step: t, value: plassmannWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeNWAlphaE1Finite(current.value) || current.value > fx+plassmannWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

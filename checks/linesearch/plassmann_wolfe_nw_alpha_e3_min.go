@@ -354,7 +354,7 @@ func (r *plassmannWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeNWAlphaE3Finite(r.fx) || !plassmannWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeNWAlphaE3Descent) search() {
-	plassmannWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaE3RoundingFloor)
 	bounds    plassmannWolfeNWAlphaE3Box
+	model     plassmannWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// plassmannWolfeNWAlphaE3ResidualModel is plassmannWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type plassmannWolfeNWAlphaE3ResidualModel struct{}
 
 // plassmannWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	plassmannWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeNWAlphaE3Value(x, g *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func plassmannWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (me
 	return measure, floor
 }
 
-// plassmannWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeNWAlphaE3Abs(s[i]) <= tol*(plassmannWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(plassmannWolfeNWAlphaE3Abs(s[i]) <= tol*plassmannWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return plassmannWolfeNWAlphaE3Abs(xi) + 1
+}
+
 // plassmannWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaE3Box) {}
 
 // plassmannWolfeNWAlphaE3SearchDirection is the direction's own.
-func plassmannWolfeNWAlphaE3SearchDirection(dir *plassmannWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *plassmannWolfeNWAlphaE3Box) {
+func plassmannWolfeNWAlphaE3SearchDirection(dir *plassmannWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
+	plassmannWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeNWAlphaE3SolveDirection(dir *plassmannWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeNWAlphaE3Abs(x[i]) + 1) / plassmannWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeNWAlphaE3StepScale(x[i]) / plassmannWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float
 			return plassmannWolfeNWAlphaE3LineResult{calls: calls, end: plassmannWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		plassmannWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeNWAlphaE3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeNWAlphaE3LinePoint{step: t, value: plassmannWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeNWAlphaE3Finite(current.value) || current.value > fx+plassmannWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *plassmannWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeNWAlphaEm1Finite(r.fx) || !plassmannWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeNWAlphaEm1Descent) search() {
-	plassmannWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaEm1RoundingFloor)
 	bounds    plassmannWolfeNWAlphaEm1Box
+	model     plassmannWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// plassmannWolfeNWAlphaEm1ResidualModel is plassmannWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type plassmannWolfeNWAlphaEm1ResidualModel struct{}
 
 // plassmannWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	plassmannWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func plassmannWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// plassmannWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeNWAlphaEm1Abs(s[i]) <= tol*(plassmannWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(plassmannWolfeNWAlphaEm1Abs(s[i]) <= tol*plassmannWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return plassmannWolfeNWAlphaEm1Abs(xi) + 1
+}
+
 // plassmannWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaEm1Box) {}
 
 // plassmannWolfeNWAlphaEm1SearchDirection is the direction's own.
-func plassmannWolfeNWAlphaEm1SearchDirection(dir *plassmannWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *plassmannWolfeNWAlphaEm1Box) {
+func plassmannWolfeNWAlphaEm1SearchDirection(dir *plassmannWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) {
+	plassmannWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeNWAlphaEm1SolveDirection(dir *plassmannWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeNWAlphaEm1Abs(x[i]) + 1) / plassmannWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeNWAlphaEm1StepScale(x[i]) / plassmannWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return plassmannWolfeNWAlphaEm1LineResult{calls: calls, end: plassmannWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		plassmannWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeNWAlphaEm1LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeNWAlphaEm1LinePoint{step: t, value: plassmannWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeNWAlphaEm1Finite(current.value) || current.value > fx+plassmannWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

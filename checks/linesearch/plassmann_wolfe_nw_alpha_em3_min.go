@@ -354,7 +354,7 @@ func (r *plassmannWolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Plassmann(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = plassmannWolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !plassmannWolfeNWAlphaEm3Finite(r.fx) || !plassmannWolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = PlassmannWolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *plassmannWolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves plassmannWolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *plassmannWolfeNWAlphaEm3Descent) search() {
-	plassmannWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	plassmannWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !plassmannWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		plassmannWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		plassmannWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(plassmannWolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type plassmannWolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaEm3RoundingFloor)
 	bounds    plassmannWolfeNWAlphaEm3Box
+	model     plassmannWolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (plassmannWolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// plassmannWolfeNWAlphaEm3ResidualModel is plassmannWolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type plassmannWolfeNWAlphaEm3ResidualModel struct{}
 
 // plassmannWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	plassmannWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	plassmannWolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// plassmannWolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func plassmannWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) float64 {
+	return Plassmann(x[0])
+}
 
 // plassmannWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func plassmannWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func plassmannWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// plassmannWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// plassmannWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·plassmannWolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func plassmannWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(plassmannWolfeNWAlphaEm3Abs(s[i]) <= tol*(plassmannWolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(plassmannWolfeNWAlphaEm3Abs(s[i]) <= tol*plassmannWolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// plassmannWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func plassmannWolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return plassmannWolfeNWAlphaEm3Abs(xi) + 1
+}
+
 // plassmannWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {}
 
 // plassmannWolfeNWAlphaEm3SearchDirection is the direction's own.
-func plassmannWolfeNWAlphaEm3SearchDirection(dir *plassmannWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {
+func plassmannWolfeNWAlphaEm3SearchDirection(dir *plassmannWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
+	plassmannWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// plassmannWolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func plassmannWolfeNWAlphaEm3SolveDirection(dir *plassmannWolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func plassmannWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // plassmannWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·plassmannWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (plassmannWolfeNWAlphaEm3Abs(x[i]) + 1) / plassmannWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannWolfeNWAlphaEm3StepScale(x[i]) / plassmannWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return plassmannWolfeNWAlphaEm3LineResult{calls: calls, end: plassmannWolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		plassmannWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := plassmannWolfeNWAlphaEm3LinePoint{step: t, value: Plassmann(xt[0])}
+		current := plassmannWolfeNWAlphaEm3LinePoint{step: t, value: plassmannWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !plassmannWolfeNWAlphaEm3Finite(current.value) || current.value > fx+plassmannWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok1StrongWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1StrongWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1StrongWolfeMTAlphaE3Finite(r.fx) || !yok1StrongWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = YOK1StrongWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1StrongWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves yok1StrongWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *yok1StrongWolfeMTAlphaE3Descent) search() {
-	yok1StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1StrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1StrongWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1StrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(yok1StrongWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type yok1StrongWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1StrongWolfeMTAlphaE3RoundingFloor)
 	bounds    yok1StrongWolfeMTAlphaE3Box
+	model     yok1StrongWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (yok1StrongWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// yok1StrongWolfeMTAlphaE3ResidualModel is yok1StrongWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type yok1StrongWolfeMTAlphaE3ResidualModel struct{}
 
 // yok1StrongWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1StrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	yok1StrongWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok1StrongWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1StrongWolfeMTAlphaE3Value(x, g *[1]float64, diffs *yok1StrongWolfeMTAlphaE3Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1StrongWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func yok1StrongWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1StrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// yok1StrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1StrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·yok1StrongWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1StrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1StrongWolfeMTAlphaE3Abs(s[i]) <= tol*(yok1StrongWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(yok1StrongWolfeMTAlphaE3Abs(s[i]) <= tol*yok1StrongWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1StrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1StrongWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return yok1StrongWolfeMTAlphaE3Abs(xi) + 1
+}
+
 // yok1StrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeMTAlphaE3Box) {}
 
 // yok1StrongWolfeMTAlphaE3SearchDirection is the direction's own.
-func yok1StrongWolfeMTAlphaE3SearchDirection(dir *yok1StrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *yok1StrongWolfeMTAlphaE3Box) {
+func yok1StrongWolfeMTAlphaE3SearchDirection(dir *yok1StrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeMTAlphaE3Differences) {
+	yok1StrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// yok1StrongWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func yok1StrongWolfeMTAlphaE3SolveDirection(dir *yok1StrongWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *yok1StrongWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1StrongWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // yok1StrongWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1StrongWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1StrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1StrongWolfeMTAlphaE3Abs(x[i]) + 1) / yok1StrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1StrongWolfeMTAlphaE3StepScale(x[i]) / yok1StrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1StrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return yok1StrongWolfeMTAlphaE3LineResult{calls: calls, end: yok1StrongWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		yok1StrongWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1StrongWolfeMTAlphaE3LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1StrongWolfeMTAlphaE3LinePoint{step: t, value: yok1StrongWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1StrongWolfeMTAlphaE3Finite(current.value) || current.value > fx+yok1StrongWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok1StrongWolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1StrongWolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1StrongWolfeMTAlphaEm1Finite(r.fx) || !yok1StrongWolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = YOK1StrongWolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1StrongWolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves yok1StrongWolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *yok1StrongWolfeMTAlphaEm1Descent) search() {
-	yok1StrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1StrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1StrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1StrongWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1StrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1StrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1StrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(yok1StrongWolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type yok1StrongWolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1StrongWolfeMTAlphaEm1RoundingFloor)
 	bounds    yok1StrongWolfeMTAlphaEm1Box
+	model     yok1StrongWolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (yok1StrongWolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// yok1StrongWolfeMTAlphaEm1ResidualModel is yok1StrongWolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type yok1StrongWolfeMTAlphaEm1ResidualModel struct{}
 
 // yok1StrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1StrongWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	yok1StrongWolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// yok1StrongWolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1StrongWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *yok1StrongWolfeMTAlphaEm1Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1StrongWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func yok1StrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1StrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (
 	return measure, floor
 }
 
-// yok1StrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1StrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·yok1StrongWolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1StrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1StrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(yok1StrongWolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(yok1StrongWolfeMTAlphaEm1Abs(s[i]) <= tol*yok1StrongWolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1StrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1StrongWolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return yok1StrongWolfeMTAlphaEm1Abs(xi) + 1
+}
+
 // yok1StrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeMTAlphaEm1Box) {}
 
 // yok1StrongWolfeMTAlphaEm1SearchDirection is the direction's own.
-func yok1StrongWolfeMTAlphaEm1SearchDirection(dir *yok1StrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *yok1StrongWolfeMTAlphaEm1Box) {
+func yok1StrongWolfeMTAlphaEm1SearchDirection(dir *yok1StrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeMTAlphaEm1Differences) {
+	yok1StrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// yok1StrongWolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func yok1StrongWolfeMTAlphaEm1SolveDirection(dir *yok1StrongWolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *yok1StrongWolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1StrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // yok1StrongWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1StrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1StrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1StrongWolfeMTAlphaEm1Abs(x[i]) + 1) / yok1StrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1StrongWolfeMTAlphaEm1StepScale(x[i]) / yok1StrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 			return yok1StrongWolfeMTAlphaEm1LineResult{calls: calls, end: yok1StrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		yok1StrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1StrongWolfeMTAlphaEm1LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1StrongWolfeMTAlphaEm1LinePoint{step: t, value: yok1StrongWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1StrongWolfeMTAlphaEm1Finite(current.value) || current.value > fx+yok1StrongWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok1StrongWolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1StrongWolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1StrongWolfeNWAlphaE3Finite(r.fx) || !yok1StrongWolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = YOK1StrongWolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1StrongWolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves yok1StrongWolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *yok1StrongWolfeNWAlphaE3Descent) search() {
-	yok1StrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1StrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1StrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1StrongWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1StrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1StrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1StrongWolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(yok1StrongWolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type yok1StrongWolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1StrongWolfeNWAlphaE3RoundingFloor)
 	bounds    yok1StrongWolfeNWAlphaE3Box
+	model     yok1StrongWolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (yok1StrongWolfeNWAlphaE3ResidualModel for any other)
 }
+
+// yok1StrongWolfeNWAlphaE3ResidualModel is yok1StrongWolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type yok1StrongWolfeNWAlphaE3ResidualModel struct{}
 
 // yok1StrongWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1StrongWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	yok1StrongWolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok1StrongWolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1StrongWolfeNWAlphaE3Value(x, g *[1]float64, diffs *yok1StrongWolfeNWAlphaE3Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1StrongWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func yok1StrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1StrongWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// yok1StrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1StrongWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·yok1StrongWolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1StrongWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1StrongWolfeNWAlphaE3Abs(s[i]) <= tol*(yok1StrongWolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(yok1StrongWolfeNWAlphaE3Abs(s[i]) <= tol*yok1StrongWolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1StrongWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1StrongWolfeNWAlphaE3StepScale(xi float64) float64 {
+	return yok1StrongWolfeNWAlphaE3Abs(xi) + 1
+}
+
 // yok1StrongWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeNWAlphaE3Box) {}
 
 // yok1StrongWolfeNWAlphaE3SearchDirection is the direction's own.
-func yok1StrongWolfeNWAlphaE3SearchDirection(dir *yok1StrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *yok1StrongWolfeNWAlphaE3Box) {
+func yok1StrongWolfeNWAlphaE3SearchDirection(dir *yok1StrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaE3Differences) {
+	yok1StrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// yok1StrongWolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func yok1StrongWolfeNWAlphaE3SolveDirection(dir *yok1StrongWolfeNWAlphaE3Direction, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1StrongWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // yok1StrongWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1StrongWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1StrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1StrongWolfeNWAlphaE3Abs(x[i]) + 1) / yok1StrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1StrongWolfeNWAlphaE3StepScale(x[i]) / yok1StrongWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1StrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return yok1StrongWolfeNWAlphaE3LineResult{calls: calls, end: yok1StrongWolfeNWAlphaE3SearchOutOfBudget}
 		}
 		yok1StrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1StrongWolfeNWAlphaE3LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1StrongWolfeNWAlphaE3LinePoint{step: t, value: yok1StrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1StrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+yok1StrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok1StrongWolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1StrongWolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1StrongWolfeNWAlphaEm1Finite(r.fx) || !yok1StrongWolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = YOK1StrongWolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1StrongWolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves yok1StrongWolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *yok1StrongWolfeNWAlphaEm1Descent) search() {
-	yok1StrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1StrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1StrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1StrongWolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1StrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1StrongWolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1StrongWolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(yok1StrongWolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type yok1StrongWolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1StrongWolfeNWAlphaEm1RoundingFloor)
 	bounds    yok1StrongWolfeNWAlphaEm1Box
+	model     yok1StrongWolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (yok1StrongWolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// yok1StrongWolfeNWAlphaEm1ResidualModel is yok1StrongWolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type yok1StrongWolfeNWAlphaEm1ResidualModel struct{}
 
 // yok1StrongWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1StrongWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	yok1StrongWolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// yok1StrongWolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1StrongWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *yok1StrongWolfeNWAlphaEm1Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1StrongWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func yok1StrongWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1StrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (
 	return measure, floor
 }
 
-// yok1StrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1StrongWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·yok1StrongWolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1StrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1StrongWolfeNWAlphaEm1Abs(s[i]) <= tol*(yok1StrongWolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(yok1StrongWolfeNWAlphaEm1Abs(s[i]) <= tol*yok1StrongWolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1StrongWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1StrongWolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return yok1StrongWolfeNWAlphaEm1Abs(xi) + 1
+}
+
 // yok1StrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeNWAlphaEm1Box) {}
 
 // yok1StrongWolfeNWAlphaEm1SearchDirection is the direction's own.
-func yok1StrongWolfeNWAlphaEm1SearchDirection(dir *yok1StrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *yok1StrongWolfeNWAlphaEm1Box) {
+func yok1StrongWolfeNWAlphaEm1SearchDirection(dir *yok1StrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaEm1Differences) {
+	yok1StrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// yok1StrongWolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func yok1StrongWolfeNWAlphaEm1SolveDirection(dir *yok1StrongWolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1StrongWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // yok1StrongWolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1StrongWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1StrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1StrongWolfeNWAlphaEm1Abs(x[i]) + 1) / yok1StrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1StrongWolfeNWAlphaEm1StepScale(x[i]) / yok1StrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1StrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 			return yok1StrongWolfeNWAlphaEm1LineResult{calls: calls, end: yok1StrongWolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		yok1StrongWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1StrongWolfeNWAlphaEm1LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1StrongWolfeNWAlphaEm1LinePoint{step: t, value: yok1StrongWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1StrongWolfeNWAlphaEm1Finite(current.value) || current.value > fx+yok1StrongWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

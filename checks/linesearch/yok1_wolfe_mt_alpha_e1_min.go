@@ -354,7 +354,7 @@ func (r *yok1WolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1WolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1WolfeMTAlphaE1Finite(r.fx) || !yok1WolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = YOK1WolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1WolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves yok1WolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *yok1WolfeMTAlphaE1Descent) search() {
-	yok1WolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1WolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1WolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1WolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1WolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1WolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1WolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(yok1WolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type yok1WolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1WolfeMTAlphaE1RoundingFloor)
 	bounds    yok1WolfeMTAlphaE1Box
+	model     yok1WolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (yok1WolfeMTAlphaE1ResidualModel for any other)
 }
+
+// yok1WolfeMTAlphaE1ResidualModel is yok1WolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type yok1WolfeMTAlphaE1ResidualModel struct{}
 
 // yok1WolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1WolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	yok1WolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// yok1WolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1WolfeMTAlphaE1Value(x, g *[1]float64, diffs *yok1WolfeMTAlphaE1Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1WolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func yok1WolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1WolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 	return measure, floor
 }
 
-// yok1WolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1WolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·yok1WolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1WolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1WolfeMTAlphaE1Abs(s[i]) <= tol*(yok1WolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(yok1WolfeMTAlphaE1Abs(s[i]) <= tol*yok1WolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1WolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1WolfeMTAlphaE1StepScale(xi float64) float64 {
+	return yok1WolfeMTAlphaE1Abs(xi) + 1
+}
+
 // yok1WolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok1WolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok1WolfeMTAlphaE1Box) {}
 
 // yok1WolfeMTAlphaE1SearchDirection is the direction's own.
-func yok1WolfeMTAlphaE1SearchDirection(dir *yok1WolfeMTAlphaE1Direction, x, g, d *[1]float64, b *yok1WolfeMTAlphaE1Box) {
+func yok1WolfeMTAlphaE1SearchDirection(dir *yok1WolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *yok1WolfeMTAlphaE1Differences) {
+	yok1WolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// yok1WolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func yok1WolfeMTAlphaE1SolveDirection(dir *yok1WolfeMTAlphaE1Direction, g, d *[1]float64, diffs *yok1WolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1WolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // yok1WolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1WolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1WolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1WolfeMTAlphaE1Abs(x[i]) + 1) / yok1WolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1WolfeMTAlphaE1StepScale(x[i]) / yok1WolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1WolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 			return yok1WolfeMTAlphaE1LineResult{calls: calls, end: yok1WolfeMTAlphaE1SearchOutOfBudget}
 		}
 		yok1WolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1WolfeMTAlphaE1LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1WolfeMTAlphaE1LinePoint{step: t, value: yok1WolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1WolfeMTAlphaE1Finite(current.value) || current.value > fx+yok1WolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

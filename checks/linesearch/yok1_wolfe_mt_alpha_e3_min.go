@@ -354,7 +354,7 @@ func (r *yok1WolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1WolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1WolfeMTAlphaE3Finite(r.fx) || !yok1WolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = YOK1WolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1WolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves yok1WolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *yok1WolfeMTAlphaE3Descent) search() {
-	yok1WolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1WolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1WolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1WolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1WolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1WolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1WolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(yok1WolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type yok1WolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1WolfeMTAlphaE3RoundingFloor)
 	bounds    yok1WolfeMTAlphaE3Box
+	model     yok1WolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (yok1WolfeMTAlphaE3ResidualModel for any other)
 }
+
+// yok1WolfeMTAlphaE3ResidualModel is yok1WolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type yok1WolfeMTAlphaE3ResidualModel struct{}
 
 // yok1WolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1WolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	yok1WolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok1WolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1WolfeMTAlphaE3Value(x, g *[1]float64, diffs *yok1WolfeMTAlphaE3Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1WolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func yok1WolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1WolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 	return measure, floor
 }
 
-// yok1WolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1WolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·yok1WolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1WolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1WolfeMTAlphaE3Abs(s[i]) <= tol*(yok1WolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(yok1WolfeMTAlphaE3Abs(s[i]) <= tol*yok1WolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1WolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1WolfeMTAlphaE3StepScale(xi float64) float64 {
+	return yok1WolfeMTAlphaE3Abs(xi) + 1
+}
+
 // yok1WolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok1WolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok1WolfeMTAlphaE3Box) {}
 
 // yok1WolfeMTAlphaE3SearchDirection is the direction's own.
-func yok1WolfeMTAlphaE3SearchDirection(dir *yok1WolfeMTAlphaE3Direction, x, g, d *[1]float64, b *yok1WolfeMTAlphaE3Box) {
+func yok1WolfeMTAlphaE3SearchDirection(dir *yok1WolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *yok1WolfeMTAlphaE3Differences) {
+	yok1WolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// yok1WolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func yok1WolfeMTAlphaE3SolveDirection(dir *yok1WolfeMTAlphaE3Direction, g, d *[1]float64, diffs *yok1WolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1WolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // yok1WolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1WolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1WolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1WolfeMTAlphaE3Abs(x[i]) + 1) / yok1WolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1WolfeMTAlphaE3StepScale(x[i]) / yok1WolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1WolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 			return yok1WolfeMTAlphaE3LineResult{calls: calls, end: yok1WolfeMTAlphaE3SearchOutOfBudget}
 		}
 		yok1WolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1WolfeMTAlphaE3LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1WolfeMTAlphaE3LinePoint{step: t, value: yok1WolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1WolfeMTAlphaE3Finite(current.value) || current.value > fx+yok1WolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

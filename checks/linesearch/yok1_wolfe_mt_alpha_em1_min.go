@@ -354,7 +354,7 @@ func (r *yok1WolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1WolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1WolfeMTAlphaEm1Finite(r.fx) || !yok1WolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = YOK1WolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1WolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves yok1WolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *yok1WolfeMTAlphaEm1Descent) search() {
-	yok1WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1WolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1WolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1WolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(yok1WolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type yok1WolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1WolfeMTAlphaEm1RoundingFloor)
 	bounds    yok1WolfeMTAlphaEm1Box
+	model     yok1WolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (yok1WolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// yok1WolfeMTAlphaEm1ResidualModel is yok1WolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type yok1WolfeMTAlphaEm1ResidualModel struct{}
 
 // yok1WolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1WolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	yok1WolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// yok1WolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1WolfeMTAlphaEm1Value(x, g *[1]float64, diffs *yok1WolfeMTAlphaEm1Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1WolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func yok1WolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1WolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measur
 	return measure, floor
 }
 
-// yok1WolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1WolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·yok1WolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1WolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1WolfeMTAlphaEm1Abs(s[i]) <= tol*(yok1WolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(yok1WolfeMTAlphaEm1Abs(s[i]) <= tol*yok1WolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1WolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1WolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return yok1WolfeMTAlphaEm1Abs(xi) + 1
+}
+
 // yok1WolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok1WolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1WolfeMTAlphaEm1Box) {}
 
 // yok1WolfeMTAlphaEm1SearchDirection is the direction's own.
-func yok1WolfeMTAlphaEm1SearchDirection(dir *yok1WolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *yok1WolfeMTAlphaEm1Box) {
+func yok1WolfeMTAlphaEm1SearchDirection(dir *yok1WolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *yok1WolfeMTAlphaEm1Differences) {
+	yok1WolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// yok1WolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func yok1WolfeMTAlphaEm1SolveDirection(dir *yok1WolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *yok1WolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1WolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // yok1WolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1WolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1WolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1WolfeMTAlphaEm1Abs(x[i]) + 1) / yok1WolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1WolfeMTAlphaEm1StepScale(x[i]) / yok1WolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1WolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, 
 			return yok1WolfeMTAlphaEm1LineResult{calls: calls, end: yok1WolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		yok1WolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1WolfeMTAlphaEm1LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1WolfeMTAlphaEm1LinePoint{step: t, value: yok1WolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1WolfeMTAlphaEm1Finite(current.value) || current.value > fx+yok1WolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

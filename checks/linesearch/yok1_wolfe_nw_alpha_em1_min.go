@@ -354,7 +354,7 @@ func (r *yok1WolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK1(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok1WolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok1WolfeNWAlphaEm1Finite(r.fx) || !yok1WolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = YOK1WolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok1WolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves yok1WolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *yok1WolfeNWAlphaEm1Descent) search() {
-	yok1WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok1WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok1WolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok1WolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok1WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok1WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok1WolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(yok1WolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type yok1WolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1WolfeNWAlphaEm1RoundingFloor)
 	bounds    yok1WolfeNWAlphaEm1Box
+	model     yok1WolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (yok1WolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// yok1WolfeNWAlphaEm1ResidualModel is yok1WolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type yok1WolfeNWAlphaEm1ResidualModel struct{}
 
 // yok1WolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok1WolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	yok1WolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// yok1WolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok1WolfeNWAlphaEm1Value(x, g *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) float64 {
+	return YOK1(x[0])
+}
 
 // yok1WolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func yok1WolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok1WolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measur
 	return measure, floor
 }
 
-// yok1WolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok1WolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·yok1WolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok1WolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok1WolfeNWAlphaEm1Abs(s[i]) <= tol*(yok1WolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(yok1WolfeNWAlphaEm1Abs(s[i]) <= tol*yok1WolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok1WolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok1WolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return yok1WolfeNWAlphaEm1Abs(xi) + 1
+}
+
 // yok1WolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok1WolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1WolfeNWAlphaEm1Box) {}
 
 // yok1WolfeNWAlphaEm1SearchDirection is the direction's own.
-func yok1WolfeNWAlphaEm1SearchDirection(dir *yok1WolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *yok1WolfeNWAlphaEm1Box) {
+func yok1WolfeNWAlphaEm1SearchDirection(dir *yok1WolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) {
+	yok1WolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// yok1WolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func yok1WolfeNWAlphaEm1SolveDirection(dir *yok1WolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok1WolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // yok1WolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok1WolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1WolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok1WolfeNWAlphaEm1Abs(x[i]) + 1) / yok1WolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok1WolfeNWAlphaEm1StepScale(x[i]) / yok1WolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, 
 			return yok1WolfeNWAlphaEm1LineResult{calls: calls, end: yok1WolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		yok1WolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok1WolfeNWAlphaEm1LinePoint{step: t, value: YOK1(xt[0])}
+		current := yok1WolfeNWAlphaEm1LinePoint{step: t, value: yok1WolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok1WolfeNWAlphaEm1Finite(current.value) || current.value > fx+yok1WolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok2StrongWolfeMTAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK2(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok2StrongWolfeMTAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok2StrongWolfeMTAlphaE1Finite(r.fx) || !yok2StrongWolfeMTAlphaE1FiniteVec(&r.x) {
 		r.out.status = YOK2StrongWolfeMTAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok2StrongWolfeMTAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves yok2StrongWolfeMTAlphaE1StageJudge next when the run
 // goes on.
 func (r *yok2StrongWolfeMTAlphaE1Descent) search() {
-	yok2StrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok2StrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok2StrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok2StrongWolfeMTAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok2StrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok2StrongWolfeMTAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok2StrongWolfeMTAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(yok2StrongWolfeMTAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type yok2StrongWolfeMTAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok2StrongWolfeMTAlphaE1RoundingFloor)
 	bounds    yok2StrongWolfeMTAlphaE1Box
+	model     yok2StrongWolfeMTAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (yok2StrongWolfeMTAlphaE1ResidualModel for any other)
 }
+
+// yok2StrongWolfeMTAlphaE1ResidualModel is yok2StrongWolfeMTAlphaE1ResidualModel for any other objective: nothing.
+type yok2StrongWolfeMTAlphaE1ResidualModel struct{}
 
 // yok2StrongWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok2StrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
 	yok2StrongWolfeMTAlphaE1VerifyStall   // no step makes progress
 )
+
+// yok2StrongWolfeMTAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok2StrongWolfeMTAlphaE1Value(x, g *[1]float64, diffs *yok2StrongWolfeMTAlphaE1Differences) float64 {
+	return YOK2(x[0])
+}
 
 // yok2StrongWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func yok2StrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok2StrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// yok2StrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok2StrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·yok2StrongWolfeMTAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok2StrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok2StrongWolfeMTAlphaE1Abs(s[i]) <= tol*(yok2StrongWolfeMTAlphaE1Abs(x[i])+1)) {
+		if !(yok2StrongWolfeMTAlphaE1Abs(s[i]) <= tol*yok2StrongWolfeMTAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok2StrongWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok2StrongWolfeMTAlphaE1StepScale(xi float64) float64 {
+	return yok2StrongWolfeMTAlphaE1Abs(xi) + 1
+}
+
 // yok2StrongWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok2StrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok2StrongWolfeMTAlphaE1Box) {}
 
 // yok2StrongWolfeMTAlphaE1SearchDirection is the direction's own.
-func yok2StrongWolfeMTAlphaE1SearchDirection(dir *yok2StrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *yok2StrongWolfeMTAlphaE1Box) {
+func yok2StrongWolfeMTAlphaE1SearchDirection(dir *yok2StrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *yok2StrongWolfeMTAlphaE1Differences) {
+	yok2StrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// yok2StrongWolfeMTAlphaE1SolveDirection is the direction's own rule, from its memory.
+func yok2StrongWolfeMTAlphaE1SolveDirection(dir *yok2StrongWolfeMTAlphaE1Direction, g, d *[1]float64, diffs *yok2StrongWolfeMTAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok2StrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // yok2StrongWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok2StrongWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok2StrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok2StrongWolfeMTAlphaE1Abs(x[i]) + 1) / yok2StrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok2StrongWolfeMTAlphaE1StepScale(x[i]) / yok2StrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok2StrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return yok2StrongWolfeMTAlphaE1LineResult{calls: calls, end: yok2StrongWolfeMTAlphaE1SearchOutOfBudget}
 		}
 		yok2StrongWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok2StrongWolfeMTAlphaE1LinePoint{step: t, value: YOK2(xt[0])}
+		current := yok2StrongWolfeMTAlphaE1LinePoint{step: t, value: yok2StrongWolfeMTAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok2StrongWolfeMTAlphaE1Finite(current.value) || current.value > fx+yok2StrongWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok2WolfeMTAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK2(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok2WolfeMTAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok2WolfeMTAlphaEm1Finite(r.fx) || !yok2WolfeMTAlphaEm1FiniteVec(&r.x) {
 		r.out.status = YOK2WolfeMTAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok2WolfeMTAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves yok2WolfeMTAlphaEm1StageJudge next when the run
 // goes on.
 func (r *yok2WolfeMTAlphaEm1Descent) search() {
-	yok2WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok2WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok2WolfeMTAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok2WolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok2WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok2WolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok2WolfeMTAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(yok2WolfeMTAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type yok2WolfeMTAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok2WolfeMTAlphaEm1RoundingFloor)
 	bounds    yok2WolfeMTAlphaEm1Box
+	model     yok2WolfeMTAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (yok2WolfeMTAlphaEm1ResidualModel for any other)
 }
+
+// yok2WolfeMTAlphaEm1ResidualModel is yok2WolfeMTAlphaEm1ResidualModel for any other objective: nothing.
+type yok2WolfeMTAlphaEm1ResidualModel struct{}
 
 // yok2WolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok2WolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
 	yok2WolfeMTAlphaEm1VerifyStall   // no step makes progress
 )
+
+// yok2WolfeMTAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok2WolfeMTAlphaEm1Value(x, g *[1]float64, diffs *yok2WolfeMTAlphaEm1Differences) float64 {
+	return YOK2(x[0])
+}
 
 // yok2WolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func yok2WolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok2WolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measur
 	return measure, floor
 }
 
-// yok2WolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok2WolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·yok2WolfeMTAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok2WolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok2WolfeMTAlphaEm1Abs(s[i]) <= tol*(yok2WolfeMTAlphaEm1Abs(x[i])+1)) {
+		if !(yok2WolfeMTAlphaEm1Abs(s[i]) <= tol*yok2WolfeMTAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok2WolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok2WolfeMTAlphaEm1StepScale(xi float64) float64 {
+	return yok2WolfeMTAlphaEm1Abs(xi) + 1
+}
+
 // yok2WolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok2WolfeMTAlphaEm1Box) {}
 
 // yok2WolfeMTAlphaEm1SearchDirection is the direction's own.
-func yok2WolfeMTAlphaEm1SearchDirection(dir *yok2WolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *yok2WolfeMTAlphaEm1Box) {
+func yok2WolfeMTAlphaEm1SearchDirection(dir *yok2WolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *yok2WolfeMTAlphaEm1Differences) {
+	yok2WolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// yok2WolfeMTAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func yok2WolfeMTAlphaEm1SolveDirection(dir *yok2WolfeMTAlphaEm1Direction, g, d *[1]float64, diffs *yok2WolfeMTAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok2WolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // yok2WolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok2WolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok2WolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok2WolfeMTAlphaEm1Abs(x[i]) + 1) / yok2WolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok2WolfeMTAlphaEm1StepScale(x[i]) / yok2WolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok2WolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, 
 			return yok2WolfeMTAlphaEm1LineResult{calls: calls, end: yok2WolfeMTAlphaEm1SearchOutOfBudget}
 		}
 		yok2WolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok2WolfeMTAlphaEm1LinePoint{step: t, value: YOK2(xt[0])}
+		current := yok2WolfeMTAlphaEm1LinePoint{step: t, value: yok2WolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok2WolfeMTAlphaEm1Finite(current.value) || current.value > fx+yok2WolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok2WolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK2(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok2WolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok2WolfeNWAlphaE3Finite(r.fx) || !yok2WolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = YOK2WolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok2WolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves yok2WolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *yok2WolfeNWAlphaE3Descent) search() {
-	yok2WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok2WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok2WolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok2WolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok2WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok2WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok2WolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(yok2WolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type yok2WolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok2WolfeNWAlphaE3RoundingFloor)
 	bounds    yok2WolfeNWAlphaE3Box
+	model     yok2WolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (yok2WolfeNWAlphaE3ResidualModel for any other)
 }
+
+// yok2WolfeNWAlphaE3ResidualModel is yok2WolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type yok2WolfeNWAlphaE3ResidualModel struct{}
 
 // yok2WolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok2WolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	yok2WolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok2WolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok2WolfeNWAlphaE3Value(x, g *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) float64 {
+	return YOK2(x[0])
+}
 
 // yok2WolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func yok2WolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok2WolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 	return measure, floor
 }
 
-// yok2WolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok2WolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·yok2WolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok2WolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok2WolfeNWAlphaE3Abs(s[i]) <= tol*(yok2WolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(yok2WolfeNWAlphaE3Abs(s[i]) <= tol*yok2WolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok2WolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok2WolfeNWAlphaE3StepScale(xi float64) float64 {
+	return yok2WolfeNWAlphaE3Abs(xi) + 1
+}
+
 // yok2WolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok2WolfeNWAlphaE3Box) {}
 
 // yok2WolfeNWAlphaE3SearchDirection is the direction's own.
-func yok2WolfeNWAlphaE3SearchDirection(dir *yok2WolfeNWAlphaE3Direction, x, g, d *[1]float64, b *yok2WolfeNWAlphaE3Box) {
+func yok2WolfeNWAlphaE3SearchDirection(dir *yok2WolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) {
+	yok2WolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// yok2WolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func yok2WolfeNWAlphaE3SolveDirection(dir *yok2WolfeNWAlphaE3Direction, g, d *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok2WolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // yok2WolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok2WolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok2WolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok2WolfeNWAlphaE3Abs(x[i]) + 1) / yok2WolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok2WolfeNWAlphaE3StepScale(x[i]) / yok2WolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok2WolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 			return yok2WolfeNWAlphaE3LineResult{calls: calls, end: yok2WolfeNWAlphaE3SearchOutOfBudget}
 		}
 		yok2WolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok2WolfeNWAlphaE3LinePoint{step: t, value: YOK2(xt[0])}
+		current := yok2WolfeNWAlphaE3LinePoint{step: t, value: yok2WolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok2WolfeNWAlphaE3Finite(current.value) || current.value > fx+yok2WolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

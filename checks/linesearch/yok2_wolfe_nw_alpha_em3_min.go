@@ -354,7 +354,7 @@ func (r *yok2WolfeNWAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK2(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok2WolfeNWAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok2WolfeNWAlphaEm3Finite(r.fx) || !yok2WolfeNWAlphaEm3FiniteVec(&r.x) {
 		r.out.status = YOK2WolfeNWAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok2WolfeNWAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves yok2WolfeNWAlphaEm3StageJudge next when the run
 // goes on.
 func (r *yok2WolfeNWAlphaEm3Descent) search() {
-	yok2WolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok2WolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok2WolfeNWAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok2WolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok2WolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok2WolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok2WolfeNWAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(yok2WolfeNWAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type yok2WolfeNWAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok2WolfeNWAlphaEm3RoundingFloor)
 	bounds    yok2WolfeNWAlphaEm3Box
+	model     yok2WolfeNWAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (yok2WolfeNWAlphaEm3ResidualModel for any other)
 }
+
+// yok2WolfeNWAlphaEm3ResidualModel is yok2WolfeNWAlphaEm3ResidualModel for any other objective: nothing.
+type yok2WolfeNWAlphaEm3ResidualModel struct{}
 
 // yok2WolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok2WolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
 	yok2WolfeNWAlphaEm3VerifyStall   // no step makes progress
 )
+
+// yok2WolfeNWAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok2WolfeNWAlphaEm3Value(x, g *[1]float64, diffs *yok2WolfeNWAlphaEm3Differences) float64 {
+	return YOK2(x[0])
+}
 
 // yok2WolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func yok2WolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok2WolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measur
 	return measure, floor
 }
 
-// yok2WolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok2WolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·yok2WolfeNWAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok2WolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok2WolfeNWAlphaEm3Abs(s[i]) <= tol*(yok2WolfeNWAlphaEm3Abs(x[i])+1)) {
+		if !(yok2WolfeNWAlphaEm3Abs(s[i]) <= tol*yok2WolfeNWAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok2WolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok2WolfeNWAlphaEm3StepScale(xi float64) float64 {
+	return yok2WolfeNWAlphaEm3Abs(xi) + 1
+}
+
 // yok2WolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok2WolfeNWAlphaEm3Box) {}
 
 // yok2WolfeNWAlphaEm3SearchDirection is the direction's own.
-func yok2WolfeNWAlphaEm3SearchDirection(dir *yok2WolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *yok2WolfeNWAlphaEm3Box) {
+func yok2WolfeNWAlphaEm3SearchDirection(dir *yok2WolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *yok2WolfeNWAlphaEm3Differences) {
+	yok2WolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// yok2WolfeNWAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func yok2WolfeNWAlphaEm3SolveDirection(dir *yok2WolfeNWAlphaEm3Direction, g, d *[1]float64, diffs *yok2WolfeNWAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok2WolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // yok2WolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok2WolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok2WolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok2WolfeNWAlphaEm3Abs(x[i]) + 1) / yok2WolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok2WolfeNWAlphaEm3StepScale(x[i]) / yok2WolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok2WolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, 
 			return yok2WolfeNWAlphaEm3LineResult{calls: calls, end: yok2WolfeNWAlphaEm3SearchOutOfBudget}
 		}
 		yok2WolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok2WolfeNWAlphaEm3LinePoint{step: t, value: YOK2(xt[0])}
+		current := yok2WolfeNWAlphaEm3LinePoint{step: t, value: yok2WolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok2WolfeNWAlphaEm3Finite(current.value) || current.value > fx+yok2WolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok3StrongWolfeMTAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK3(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok3StrongWolfeMTAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok3StrongWolfeMTAlphaE3Finite(r.fx) || !yok3StrongWolfeMTAlphaE3FiniteVec(&r.x) {
 		r.out.status = YOK3StrongWolfeMTAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok3StrongWolfeMTAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves yok3StrongWolfeMTAlphaE3StageJudge next when the run
 // goes on.
 func (r *yok3StrongWolfeMTAlphaE3Descent) search() {
-	yok3StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok3StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok3StrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok3StrongWolfeMTAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok3StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok3StrongWolfeMTAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok3StrongWolfeMTAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(yok3StrongWolfeMTAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type yok3StrongWolfeMTAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok3StrongWolfeMTAlphaE3RoundingFloor)
 	bounds    yok3StrongWolfeMTAlphaE3Box
+	model     yok3StrongWolfeMTAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (yok3StrongWolfeMTAlphaE3ResidualModel for any other)
 }
+
+// yok3StrongWolfeMTAlphaE3ResidualModel is yok3StrongWolfeMTAlphaE3ResidualModel for any other objective: nothing.
+type yok3StrongWolfeMTAlphaE3ResidualModel struct{}
 
 // yok3StrongWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok3StrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
 	yok3StrongWolfeMTAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok3StrongWolfeMTAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok3StrongWolfeMTAlphaE3Value(x, g *[1]float64, diffs *yok3StrongWolfeMTAlphaE3Differences) float64 {
+	return YOK3(x[0])
+}
 
 // yok3StrongWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func yok3StrongWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok3StrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// yok3StrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok3StrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·yok3StrongWolfeMTAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok3StrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok3StrongWolfeMTAlphaE3Abs(s[i]) <= tol*(yok3StrongWolfeMTAlphaE3Abs(x[i])+1)) {
+		if !(yok3StrongWolfeMTAlphaE3Abs(s[i]) <= tol*yok3StrongWolfeMTAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok3StrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok3StrongWolfeMTAlphaE3StepScale(xi float64) float64 {
+	return yok3StrongWolfeMTAlphaE3Abs(xi) + 1
+}
+
 // yok3StrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok3StrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok3StrongWolfeMTAlphaE3Box) {}
 
 // yok3StrongWolfeMTAlphaE3SearchDirection is the direction's own.
-func yok3StrongWolfeMTAlphaE3SearchDirection(dir *yok3StrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *yok3StrongWolfeMTAlphaE3Box) {
+func yok3StrongWolfeMTAlphaE3SearchDirection(dir *yok3StrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *yok3StrongWolfeMTAlphaE3Differences) {
+	yok3StrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// yok3StrongWolfeMTAlphaE3SolveDirection is the direction's own rule, from its memory.
+func yok3StrongWolfeMTAlphaE3SolveDirection(dir *yok3StrongWolfeMTAlphaE3Direction, g, d *[1]float64, diffs *yok3StrongWolfeMTAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok3StrongWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // yok3StrongWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok3StrongWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3StrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok3StrongWolfeMTAlphaE3Abs(x[i]) + 1) / yok3StrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok3StrongWolfeMTAlphaE3StepScale(x[i]) / yok3StrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok3StrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return yok3StrongWolfeMTAlphaE3LineResult{calls: calls, end: yok3StrongWolfeMTAlphaE3SearchOutOfBudget}
 		}
 		yok3StrongWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok3StrongWolfeMTAlphaE3LinePoint{step: t, value: YOK3(xt[0])}
+		current := yok3StrongWolfeMTAlphaE3LinePoint{step: t, value: yok3StrongWolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok3StrongWolfeMTAlphaE3Finite(current.value) || current.value > fx+yok3StrongWolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

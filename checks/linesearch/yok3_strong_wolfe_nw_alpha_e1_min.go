@@ -354,7 +354,7 @@ func (r *yok3StrongWolfeNWAlphaE1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK3(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok3StrongWolfeNWAlphaE1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok3StrongWolfeNWAlphaE1Finite(r.fx) || !yok3StrongWolfeNWAlphaE1FiniteVec(&r.x) {
 		r.out.status = YOK3StrongWolfeNWAlphaE1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok3StrongWolfeNWAlphaE1Descent) judge() {
 // the gradient at the new point; it leaves yok3StrongWolfeNWAlphaE1StageJudge next when the run
 // goes on.
 func (r *yok3StrongWolfeNWAlphaE1Descent) search() {
-	yok3StrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok3StrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok3StrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok3StrongWolfeNWAlphaE1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok3StrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok3StrongWolfeNWAlphaE1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok3StrongWolfeNWAlphaE1Dot(&r.g, &r.d)
 	}
 	first := float64(yok3StrongWolfeNWAlphaE1StepInitial)
@@ -547,7 +547,11 @@ type yok3StrongWolfeNWAlphaE1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok3StrongWolfeNWAlphaE1RoundingFloor)
 	bounds    yok3StrongWolfeNWAlphaE1Box
+	model     yok3StrongWolfeNWAlphaE1ResidualModel // a residual objective's residuals and Jacobian products (yok3StrongWolfeNWAlphaE1ResidualModel for any other)
 }
+
+// yok3StrongWolfeNWAlphaE1ResidualModel is yok3StrongWolfeNWAlphaE1ResidualModel for any other objective: nothing.
+type yok3StrongWolfeNWAlphaE1ResidualModel struct{}
 
 // yok3StrongWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok3StrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
 	yok3StrongWolfeNWAlphaE1VerifyStall   // no step makes progress
 )
+
+// yok3StrongWolfeNWAlphaE1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok3StrongWolfeNWAlphaE1Value(x, g *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences) float64 {
+	return YOK3(x[0])
+}
 
 // yok3StrongWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func yok3StrongWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok3StrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (m
 	return measure, floor
 }
 
-// yok3StrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok3StrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·yok3StrongWolfeNWAlphaE1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok3StrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok3StrongWolfeNWAlphaE1Abs(s[i]) <= tol*(yok3StrongWolfeNWAlphaE1Abs(x[i])+1)) {
+		if !(yok3StrongWolfeNWAlphaE1Abs(s[i]) <= tol*yok3StrongWolfeNWAlphaE1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok3StrongWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok3StrongWolfeNWAlphaE1StepScale(xi float64) float64 {
+	return yok3StrongWolfeNWAlphaE1Abs(xi) + 1
+}
+
 // yok3StrongWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok3StrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok3StrongWolfeNWAlphaE1Box) {}
 
 // yok3StrongWolfeNWAlphaE1SearchDirection is the direction's own.
-func yok3StrongWolfeNWAlphaE1SearchDirection(dir *yok3StrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *yok3StrongWolfeNWAlphaE1Box) {
+func yok3StrongWolfeNWAlphaE1SearchDirection(dir *yok3StrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences) {
+	yok3StrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
+}
+
+// yok3StrongWolfeNWAlphaE1SolveDirection is the direction's own rule, from its memory.
+func yok3StrongWolfeNWAlphaE1SolveDirection(dir *yok3StrongWolfeNWAlphaE1Direction, g, d *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok3StrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 }
 
 // yok3StrongWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok3StrongWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3StrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok3StrongWolfeNWAlphaE1Abs(x[i]) + 1) / yok3StrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok3StrongWolfeNWAlphaE1StepScale(x[i]) / yok3StrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok3StrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 			return yok3StrongWolfeNWAlphaE1LineResult{calls: calls, end: yok3StrongWolfeNWAlphaE1SearchOutOfBudget}
 		}
 		yok3StrongWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok3StrongWolfeNWAlphaE1LinePoint{step: t, value: YOK3(xt[0])}
+		current := yok3StrongWolfeNWAlphaE1LinePoint{step: t, value: yok3StrongWolfeNWAlphaE1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok3StrongWolfeNWAlphaE1Finite(current.value) || current.value > fx+yok3StrongWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok3WolfeMTAlphaEm3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK3(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok3WolfeMTAlphaEm3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok3WolfeMTAlphaEm3Finite(r.fx) || !yok3WolfeMTAlphaEm3FiniteVec(&r.x) {
 		r.out.status = YOK3WolfeMTAlphaEm3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok3WolfeMTAlphaEm3Descent) judge() {
 // the gradient at the new point; it leaves yok3WolfeMTAlphaEm3StageJudge next when the run
 // goes on.
 func (r *yok3WolfeMTAlphaEm3Descent) search() {
-	yok3WolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok3WolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok3WolfeMTAlphaEm3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok3WolfeMTAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok3WolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok3WolfeMTAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok3WolfeMTAlphaEm3Dot(&r.g, &r.d)
 	}
 	first := float64(yok3WolfeMTAlphaEm3StepInitial)
@@ -547,7 +547,11 @@ type yok3WolfeMTAlphaEm3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok3WolfeMTAlphaEm3RoundingFloor)
 	bounds    yok3WolfeMTAlphaEm3Box
+	model     yok3WolfeMTAlphaEm3ResidualModel // a residual objective's residuals and Jacobian products (yok3WolfeMTAlphaEm3ResidualModel for any other)
 }
+
+// yok3WolfeMTAlphaEm3ResidualModel is yok3WolfeMTAlphaEm3ResidualModel for any other objective: nothing.
+type yok3WolfeMTAlphaEm3ResidualModel struct{}
 
 // yok3WolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok3WolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
 	yok3WolfeMTAlphaEm3VerifyStall   // no step makes progress
 )
+
+// yok3WolfeMTAlphaEm3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok3WolfeMTAlphaEm3Value(x, g *[1]float64, diffs *yok3WolfeMTAlphaEm3Differences) float64 {
+	return YOK3(x[0])
+}
 
 // yok3WolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.
 func yok3WolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok3WolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measur
 	return measure, floor
 }
 
-// yok3WolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok3WolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·yok3WolfeMTAlphaEm3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok3WolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok3WolfeMTAlphaEm3Abs(s[i]) <= tol*(yok3WolfeMTAlphaEm3Abs(x[i])+1)) {
+		if !(yok3WolfeMTAlphaEm3Abs(s[i]) <= tol*yok3WolfeMTAlphaEm3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok3WolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok3WolfeMTAlphaEm3StepScale(xi float64) float64 {
+	return yok3WolfeMTAlphaEm3Abs(xi) + 1
+}
+
 // yok3WolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok3WolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok3WolfeMTAlphaEm3Box) {}
 
 // yok3WolfeMTAlphaEm3SearchDirection is the direction's own.
-func yok3WolfeMTAlphaEm3SearchDirection(dir *yok3WolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *yok3WolfeMTAlphaEm3Box) {
+func yok3WolfeMTAlphaEm3SearchDirection(dir *yok3WolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *yok3WolfeMTAlphaEm3Differences) {
+	yok3WolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
+}
+
+// yok3WolfeMTAlphaEm3SolveDirection is the direction's own rule, from its memory.
+func yok3WolfeMTAlphaEm3SolveDirection(dir *yok3WolfeMTAlphaEm3Direction, g, d *[1]float64, diffs *yok3WolfeMTAlphaEm3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok3WolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 }
 
 // yok3WolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok3WolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3WolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok3WolfeMTAlphaEm3Abs(x[i]) + 1) / yok3WolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok3WolfeMTAlphaEm3StepScale(x[i]) / yok3WolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok3WolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, 
 			return yok3WolfeMTAlphaEm3LineResult{calls: calls, end: yok3WolfeMTAlphaEm3SearchOutOfBudget}
 		}
 		yok3WolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok3WolfeMTAlphaEm3LinePoint{step: t, value: YOK3(xt[0])}
+		current := yok3WolfeMTAlphaEm3LinePoint{step: t, value: yok3WolfeMTAlphaEm3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok3WolfeMTAlphaEm3Finite(current.value) || current.value > fx+yok3WolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok3WolfeNWAlphaE3Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK3(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok3WolfeNWAlphaE3Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok3WolfeNWAlphaE3Finite(r.fx) || !yok3WolfeNWAlphaE3FiniteVec(&r.x) {
 		r.out.status = YOK3WolfeNWAlphaE3NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok3WolfeNWAlphaE3Descent) judge() {
 // the gradient at the new point; it leaves yok3WolfeNWAlphaE3StageJudge next when the run
 // goes on.
 func (r *yok3WolfeNWAlphaE3Descent) search() {
-	yok3WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok3WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok3WolfeNWAlphaE3Dot(&r.g, &r.d)
 	if !(now < 0) || !yok3WolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok3WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok3WolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok3WolfeNWAlphaE3Dot(&r.g, &r.d)
 	}
 	first := float64(yok3WolfeNWAlphaE3StepInitial)
@@ -547,7 +547,11 @@ type yok3WolfeNWAlphaE3Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok3WolfeNWAlphaE3RoundingFloor)
 	bounds    yok3WolfeNWAlphaE3Box
+	model     yok3WolfeNWAlphaE3ResidualModel // a residual objective's residuals and Jacobian products (yok3WolfeNWAlphaE3ResidualModel for any other)
 }
+
+// yok3WolfeNWAlphaE3ResidualModel is yok3WolfeNWAlphaE3ResidualModel for any other objective: nothing.
+type yok3WolfeNWAlphaE3ResidualModel struct{}
 
 // yok3WolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok3WolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
 	yok3WolfeNWAlphaE3VerifyStall   // no step makes progress
 )
+
+// yok3WolfeNWAlphaE3Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok3WolfeNWAlphaE3Value(x, g *[1]float64, diffs *yok3WolfeNWAlphaE3Differences) float64 {
+	return YOK3(x[0])
+}
 
 // yok3WolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func yok3WolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok3WolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 	return measure, floor
 }
 
-// yok3WolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok3WolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·yok3WolfeNWAlphaE3StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok3WolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok3WolfeNWAlphaE3Abs(s[i]) <= tol*(yok3WolfeNWAlphaE3Abs(x[i])+1)) {
+		if !(yok3WolfeNWAlphaE3Abs(s[i]) <= tol*yok3WolfeNWAlphaE3StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok3WolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok3WolfeNWAlphaE3StepScale(xi float64) float64 {
+	return yok3WolfeNWAlphaE3Abs(xi) + 1
+}
+
 // yok3WolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok3WolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok3WolfeNWAlphaE3Box) {}
 
 // yok3WolfeNWAlphaE3SearchDirection is the direction's own.
-func yok3WolfeNWAlphaE3SearchDirection(dir *yok3WolfeNWAlphaE3Direction, x, g, d *[1]float64, b *yok3WolfeNWAlphaE3Box) {
+func yok3WolfeNWAlphaE3SearchDirection(dir *yok3WolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *yok3WolfeNWAlphaE3Differences) {
+	yok3WolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
+}
+
+// yok3WolfeNWAlphaE3SolveDirection is the direction's own rule, from its memory.
+func yok3WolfeNWAlphaE3SolveDirection(dir *yok3WolfeNWAlphaE3Direction, g, d *[1]float64, diffs *yok3WolfeNWAlphaE3Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok3WolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 }
 
 // yok3WolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok3WolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3WolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok3WolfeNWAlphaE3Abs(x[i]) + 1) / yok3WolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok3WolfeNWAlphaE3StepScale(x[i]) / yok3WolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok3WolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 			return yok3WolfeNWAlphaE3LineResult{calls: calls, end: yok3WolfeNWAlphaE3SearchOutOfBudget}
 		}
 		yok3WolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok3WolfeNWAlphaE3LinePoint{step: t, value: YOK3(xt[0])}
+		current := yok3WolfeNWAlphaE3LinePoint{step: t, value: yok3WolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok3WolfeNWAlphaE3Finite(current.value) || current.value > fx+yok3WolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *yok3WolfeNWAlphaEm1Descent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = YOK3(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = yok3WolfeNWAlphaEm1Value(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !yok3WolfeNWAlphaEm1Finite(r.fx) || !yok3WolfeNWAlphaEm1FiniteVec(&r.x) {
 		r.out.status = YOK3WolfeNWAlphaEm1NonFiniteStart
@@ -455,11 +455,11 @@ func (r *yok3WolfeNWAlphaEm1Descent) judge() {
 // the gradient at the new point; it leaves yok3WolfeNWAlphaEm1StageJudge next when the run
 // goes on.
 func (r *yok3WolfeNWAlphaEm1Descent) search() {
-	yok3WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	yok3WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := yok3WolfeNWAlphaEm1Dot(&r.g, &r.d)
 	if !(now < 0) || !yok3WolfeNWAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		yok3WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		yok3WolfeNWAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = yok3WolfeNWAlphaEm1Dot(&r.g, &r.d)
 	}
 	first := float64(yok3WolfeNWAlphaEm1StepInitial)
@@ -547,7 +547,11 @@ type yok3WolfeNWAlphaEm1Differences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok3WolfeNWAlphaEm1RoundingFloor)
 	bounds    yok3WolfeNWAlphaEm1Box
+	model     yok3WolfeNWAlphaEm1ResidualModel // a residual objective's residuals and Jacobian products (yok3WolfeNWAlphaEm1ResidualModel for any other)
 }
+
+// yok3WolfeNWAlphaEm1ResidualModel is yok3WolfeNWAlphaEm1ResidualModel for any other objective: nothing.
+type yok3WolfeNWAlphaEm1ResidualModel struct{}
 
 // yok3WolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
@@ -629,6 +633,11 @@ const (
 	yok3WolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
 	yok3WolfeNWAlphaEm1VerifyStall   // no step makes progress
 )
+
+// yok3WolfeNWAlphaEm1Value calls the objective; a combined one also writes ∇f(x) into g.
+func yok3WolfeNWAlphaEm1Value(x, g *[1]float64, diffs *yok3WolfeNWAlphaEm1Differences) float64 {
+	return YOK3(x[0])
+}
 
 // yok3WolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func yok3WolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
@@ -836,23 +845,34 @@ func yok3WolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measur
 	return measure, floor
 }
 
-// yok3WolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// yok3WolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·yok3WolfeNWAlphaEm1StepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func yok3WolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(yok3WolfeNWAlphaEm1Abs(s[i]) <= tol*(yok3WolfeNWAlphaEm1Abs(x[i])+1)) {
+		if !(yok3WolfeNWAlphaEm1Abs(s[i]) <= tol*yok3WolfeNWAlphaEm1StepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// yok3WolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func yok3WolfeNWAlphaEm1StepScale(xi float64) float64 {
+	return yok3WolfeNWAlphaEm1Abs(xi) + 1
+}
+
 // yok3WolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok3WolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok3WolfeNWAlphaEm1Box) {}
 
 // yok3WolfeNWAlphaEm1SearchDirection is the direction's own.
-func yok3WolfeNWAlphaEm1SearchDirection(dir *yok3WolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *yok3WolfeNWAlphaEm1Box) {
+func yok3WolfeNWAlphaEm1SearchDirection(dir *yok3WolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok3WolfeNWAlphaEm1Differences) {
+	yok3WolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
+}
+
+// yok3WolfeNWAlphaEm1SolveDirection is the direction's own rule, from its memory.
+func yok3WolfeNWAlphaEm1SolveDirection(dir *yok3WolfeNWAlphaEm1Direction, g, d *[1]float64, diffs *yok3WolfeNWAlphaEm1Differences) {
 	dir.compute(g, d)
 }
 
@@ -866,12 +886,12 @@ func yok3WolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 }
 
 // yok3WolfeNWAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·yok3WolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3WolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (yok3WolfeNWAlphaEm1Abs(x[i]) + 1) / yok3WolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok3WolfeNWAlphaEm1StepScale(x[i]) / yok3WolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -931,7 +951,7 @@ func yok3WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, 
 			return yok3WolfeNWAlphaEm1LineResult{calls: calls, end: yok3WolfeNWAlphaEm1SearchOutOfBudget}
 		}
 		yok3WolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
-		current := yok3WolfeNWAlphaEm1LinePoint{step: t, value: YOK3(xt[0])}
+		current := yok3WolfeNWAlphaEm1LinePoint{step: t, value: yok3WolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !yok3WolfeNWAlphaEm1Finite(current.value) || current.value > fx+yok3WolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

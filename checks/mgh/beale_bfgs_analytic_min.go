@@ -354,7 +354,7 @@ func (r *bealeBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = bealeBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !bealeBFGSAnalyticFinite(r.fx) || !bealeBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BealeBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *bealeBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves bealeBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *bealeBFGSAnalyticDescent) search() {
-	bealeBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	bealeBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !bealeBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		bealeBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		bealeBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(bealeBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type bealeBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeBFGSAnalyticRoundingFloor)
 	bounds    bealeBFGSAnalyticBox
+	model     bealeBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (bealeBFGSAnalyticResidualModel for any other)
 }
+
+// bealeBFGSAnalyticResidualModel is bealeBFGSAnalyticResidualModel for any other objective: nothing.
+type bealeBFGSAnalyticResidualModel struct{}
 
 // bealeBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	bealeBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	bealeBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// bealeBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func bealeBFGSAnalyticValue(x, g *[2]float64, diffs *bealeBFGSAnalyticDifferences) float64 {
+	return Beale(x)
+}
 
 // bealeBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// bealeBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// bealeBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·bealeBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*(bealeBFGSAnalyticAbs(x[i])+1)) {
+		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*bealeBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// bealeBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func bealeBFGSAnalyticStepScale(xi float64) float64 {
+	return bealeBFGSAnalyticAbs(xi) + 1
+}
+
 // bealeBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func bealeBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeBFGSAnalyticBox) {}
 
 // bealeBFGSAnalyticSearchDirection is the direction's own.
-func bealeBFGSAnalyticSearchDirection(dir *bealeBFGSAnalyticDirection, x, g, d *[2]float64, b *bealeBFGSAnalyticBox) {
+func bealeBFGSAnalyticSearchDirection(dir *bealeBFGSAnalyticDirection, x, g, d *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
+	bealeBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// bealeBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func bealeBFGSAnalyticSolveDirection(dir *bealeBFGSAnalyticDirection, g, d *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // bealeBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·bealeBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (bealeBFGSAnalyticAbs(x[i]) + 1) / bealeBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeBFGSAnalyticStepScale(x[i]) / bealeBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, sl
 			return bealeBFGSAnalyticLineResult{calls: calls, end: bealeBFGSAnalyticSearchOutOfBudget}
 		}
 		bealeBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := bealeBFGSAnalyticLinePoint{step: t, value: Beale(xt)}
+		current := bealeBFGSAnalyticLinePoint{step: t, value: bealeBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !bealeBFGSAnalyticFinite(current.value) || current.value > fx+bealeBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

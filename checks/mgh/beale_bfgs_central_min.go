@@ -354,7 +354,7 @@ func (r *bealeBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = bealeBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !bealeBFGSCentralFinite(r.fx) || !bealeBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BealeBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *bealeBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves bealeBFGSCentralStageJudge next when the run
 // goes on.
 func (r *bealeBFGSCentralDescent) search() {
-	bealeBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	bealeBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !bealeBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		bealeBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		bealeBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(bealeBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type bealeBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeBFGSCentralRoundingFloor)
 	bounds    bealeBFGSCentralBox
+	model     bealeBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (bealeBFGSCentralResidualModel for any other)
 }
+
+// bealeBFGSCentralResidualModel is bealeBFGSCentralResidualModel for any other objective: nothing.
+type bealeBFGSCentralResidualModel struct{}
 
 // bealeBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	bealeBFGSCentralVerifyPass    // a difference gradient passed the test
 	bealeBFGSCentralVerifyStall   // no step makes progress
 )
+
+// bealeBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func bealeBFGSCentralValue(x, g *[2]float64, diffs *bealeBFGSCentralDifferences) float64 {
+	return Beale(x)
+}
 
 // bealeBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// bealeBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// bealeBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·bealeBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(bealeBFGSCentralAbs(s[i]) <= tol*(bealeBFGSCentralAbs(x[i])+1)) {
+		if !(bealeBFGSCentralAbs(s[i]) <= tol*bealeBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// bealeBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func bealeBFGSCentralStepScale(xi float64) float64 {
+	return bealeBFGSCentralAbs(xi) + 1
+}
+
 // bealeBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func bealeBFGSCentralCurvaturePair(s, y, x *[2]float64, b *bealeBFGSCentralBox) {}
 
 // bealeBFGSCentralSearchDirection is the direction's own.
-func bealeBFGSCentralSearchDirection(dir *bealeBFGSCentralDirection, x, g, d *[2]float64, b *bealeBFGSCentralBox) {
+func bealeBFGSCentralSearchDirection(dir *bealeBFGSCentralDirection, x, g, d *[2]float64, diffs *bealeBFGSCentralDifferences) {
+	bealeBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// bealeBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func bealeBFGSCentralSolveDirection(dir *bealeBFGSCentralDirection, g, d *[2]float64, diffs *bealeBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // bealeBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·bealeBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (bealeBFGSCentralAbs(x[i]) + 1) / bealeBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeBFGSCentralStepScale(x[i]) / bealeBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slo
 			return bealeBFGSCentralLineResult{calls: calls, end: bealeBFGSCentralSearchOutOfBudget}
 		}
 		bealeBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := bealeBFGSCentralLinePoint{step: t, value: Beale(xt)}
+		current := bealeBFGSCentralLinePoint{step: t, value: bealeBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !bealeBFGSCentralFinite(current.value) || current.value > fx+bealeBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *bealeCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = bealeCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !bealeCGAnalyticFinite(r.fx) || !bealeCGAnalyticFiniteVec(&r.x) {
 		r.out.status = BealeCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *bealeCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves bealeCGAnalyticStageJudge next when the run
 // goes on.
 func (r *bealeCGAnalyticDescent) search() {
-	bealeCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	bealeCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !bealeCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		bealeCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		bealeCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(bealeCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type bealeCGAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeCGAnalyticRoundingFloor)
 	bounds    bealeCGAnalyticBox
+	model     bealeCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (bealeCGAnalyticResidualModel for any other)
 }
+
+// bealeCGAnalyticResidualModel is bealeCGAnalyticResidualModel for any other objective: nothing.
+type bealeCGAnalyticResidualModel struct{}
 
 // bealeCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	bealeCGAnalyticVerifyPass    // a difference gradient passed the test
 	bealeCGAnalyticVerifyStall   // no step makes progress
 )
+
+// bealeCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func bealeCGAnalyticValue(x, g *[2]float64, diffs *bealeCGAnalyticDifferences) float64 {
+	return Beale(x)
+}
 
 // bealeCGAnalyticFiniteVec reports whether every component of x is finite.
 func bealeCGAnalyticFiniteVec(x *[2]float64) bool {
@@ -865,33 +874,44 @@ func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, f
 	return measure, floor
 }
 
-// bealeCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// bealeCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·bealeCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(bealeCGAnalyticAbs(s[i]) <= tol*(bealeCGAnalyticAbs(x[i])+1)) {
+		if !(bealeCGAnalyticAbs(s[i]) <= tol*bealeCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// bealeCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func bealeCGAnalyticStepScale(xi float64) float64 {
+	return bealeCGAnalyticAbs(xi) + 1
+}
+
 // bealeCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func bealeCGAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeCGAnalyticBox) {}
 
 // bealeCGAnalyticSearchDirection is the direction's own.
-func bealeCGAnalyticSearchDirection(dir *bealeCGAnalyticDirection, x, g, d *[2]float64, b *bealeCGAnalyticBox) {
+func bealeCGAnalyticSearchDirection(dir *bealeCGAnalyticDirection, x, g, d *[2]float64, diffs *bealeCGAnalyticDifferences) {
+	bealeCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// bealeCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func bealeCGAnalyticSolveDirection(dir *bealeCGAnalyticDirection, g, d *[2]float64, diffs *bealeCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // bealeCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·bealeCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (bealeCGAnalyticAbs(x[i]) + 1) / bealeCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeCGAnalyticStepScale(x[i]) / bealeCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slop
 			return bealeCGAnalyticLineResult{calls: calls, end: bealeCGAnalyticSearchOutOfBudget}
 		}
 		bealeCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := bealeCGAnalyticLinePoint{step: t, value: Beale(xt)}
+		current := bealeCGAnalyticLinePoint{step: t, value: bealeCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !bealeCGAnalyticFinite(current.value) || current.value > fx+bealeCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *bealeCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = bealeCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !bealeCGCentralFinite(r.fx) || !bealeCGCentralFiniteVec(&r.x) {
 		r.out.status = BealeCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *bealeCGCentralDescent) judge() {
 // the gradient at the new point; it leaves bealeCGCentralStageJudge next when the run
 // goes on.
 func (r *bealeCGCentralDescent) search() {
-	bealeCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	bealeCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !bealeCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		bealeCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		bealeCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(bealeCGCentralStepInitial)
@@ -547,7 +547,11 @@ type bealeCGCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeCGCentralRoundingFloor)
 	bounds    bealeCGCentralBox
+	model     bealeCGCentralResidualModel // a residual objective's residuals and Jacobian products (bealeCGCentralResidualModel for any other)
 }
+
+// bealeCGCentralResidualModel is bealeCGCentralResidualModel for any other objective: nothing.
+type bealeCGCentralResidualModel struct{}
 
 // bealeCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	bealeCGCentralVerifyPass    // a difference gradient passed the test
 	bealeCGCentralVerifyStall   // no step makes progress
 )
+
+// bealeCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func bealeCGCentralValue(x, g *[2]float64, diffs *bealeCGCentralDifferences) float64 {
+	return Beale(x)
+}
 
 // bealeCGCentralFiniteVec reports whether every component of x is finite.
 func bealeCGCentralFiniteVec(x *[2]float64) bool {
@@ -1044,33 +1053,44 @@ func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// bealeCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// bealeCGCentralStepWithin is the step test: every |s_i| ≤ tol·bealeCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(bealeCGCentralAbs(s[i]) <= tol*(bealeCGCentralAbs(x[i])+1)) {
+		if !(bealeCGCentralAbs(s[i]) <= tol*bealeCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// bealeCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func bealeCGCentralStepScale(xi float64) float64 {
+	return bealeCGCentralAbs(xi) + 1
+}
+
 // bealeCGCentralCurvaturePair: without bounds the pair is used as it is.
 func bealeCGCentralCurvaturePair(s, y, x *[2]float64, b *bealeCGCentralBox) {}
 
 // bealeCGCentralSearchDirection is the direction's own.
-func bealeCGCentralSearchDirection(dir *bealeCGCentralDirection, x, g, d *[2]float64, b *bealeCGCentralBox) {
+func bealeCGCentralSearchDirection(dir *bealeCGCentralDirection, x, g, d *[2]float64, diffs *bealeCGCentralDifferences) {
+	bealeCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// bealeCGCentralSolveDirection is the direction's own rule, from its memory.
+func bealeCGCentralSolveDirection(dir *bealeCGCentralDirection, g, d *[2]float64, diffs *bealeCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // bealeCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·bealeCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (bealeCGCentralAbs(x[i]) + 1) / bealeCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeCGCentralStepScale(x[i]) / bealeCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope
 			return bealeCGCentralLineResult{calls: calls, end: bealeCGCentralSearchOutOfBudget}
 		}
 		bealeCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := bealeCGCentralLinePoint{step: t, value: Beale(xt)}
+		current := bealeCGCentralLinePoint{step: t, value: bealeCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !bealeCGCentralFinite(current.value) || current.value > fx+bealeCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *bealeLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = bealeLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !bealeLBFGSAnalyticFinite(r.fx) || !bealeLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BealeLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *bealeLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves bealeLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *bealeLBFGSAnalyticDescent) search() {
-	bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !bealeLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(bealeLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type bealeLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeLBFGSAnalyticRoundingFloor)
 	bounds    bealeLBFGSAnalyticBox
+	model     bealeLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (bealeLBFGSAnalyticResidualModel for any other)
 }
+
+// bealeLBFGSAnalyticResidualModel is bealeLBFGSAnalyticResidualModel for any other objective: nothing.
+type bealeLBFGSAnalyticResidualModel struct{}
 
 // bealeLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last bealeLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	bealeLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	bealeLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// bealeLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func bealeLBFGSAnalyticValue(x, g *[2]float64, diffs *bealeLBFGSAnalyticDifferences) float64 {
+	return Beale(x)
+}
 
 // bealeLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure
 	return measure, floor
 }
 
-// bealeLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// bealeLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·bealeLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*(bealeLBFGSAnalyticAbs(x[i])+1)) {
+		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*bealeLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// bealeLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func bealeLBFGSAnalyticStepScale(xi float64) float64 {
+	return bealeLBFGSAnalyticAbs(xi) + 1
+}
+
 // bealeLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func bealeLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeLBFGSAnalyticBox) {}
 
 // bealeLBFGSAnalyticSearchDirection is the direction's own.
-func bealeLBFGSAnalyticSearchDirection(dir *bealeLBFGSAnalyticDirection, x, g, d *[2]float64, b *bealeLBFGSAnalyticBox) {
+func bealeLBFGSAnalyticSearchDirection(dir *bealeLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
+	bealeLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// bealeLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func bealeLBFGSAnalyticSolveDirection(dir *bealeLBFGSAnalyticDirection, g, d *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // bealeLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·bealeLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (bealeLBFGSAnalyticAbs(x[i]) + 1) / bealeLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeLBFGSAnalyticStepScale(x[i]) / bealeLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, s
 			return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchOutOfBudget}
 		}
 		bealeLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := bealeLBFGSAnalyticLinePoint{step: t, value: Beale(xt)}
+		current := bealeLBFGSAnalyticLinePoint{step: t, value: bealeLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !bealeLBFGSAnalyticFinite(current.value) || current.value > fx+bealeLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

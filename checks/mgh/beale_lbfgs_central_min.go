@@ -355,7 +355,7 @@ func (r *bealeLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Beale(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = bealeLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !bealeLBFGSCentralFinite(r.fx) || !bealeLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BealeLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *bealeLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves bealeLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *bealeLBFGSCentralDescent) search() {
-	bealeLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	bealeLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !bealeLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		bealeLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		bealeLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(bealeLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type bealeLBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeLBFGSCentralRoundingFloor)
 	bounds    bealeLBFGSCentralBox
+	model     bealeLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (bealeLBFGSCentralResidualModel for any other)
 }
+
+// bealeLBFGSCentralResidualModel is bealeLBFGSCentralResidualModel for any other objective: nothing.
+type bealeLBFGSCentralResidualModel struct{}
 
 // bealeLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last bealeLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	bealeLBFGSCentralVerifyPass    // a difference gradient passed the test
 	bealeLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// bealeLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func bealeLBFGSCentralValue(x, g *[2]float64, diffs *bealeLBFGSCentralDifferences) float64 {
+	return Beale(x)
+}
 
 // bealeLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// bealeLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// bealeLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·bealeLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(bealeLBFGSCentralAbs(s[i]) <= tol*(bealeLBFGSCentralAbs(x[i])+1)) {
+		if !(bealeLBFGSCentralAbs(s[i]) <= tol*bealeLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// bealeLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func bealeLBFGSCentralStepScale(xi float64) float64 {
+	return bealeLBFGSCentralAbs(xi) + 1
+}
+
 // bealeLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func bealeLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *bealeLBFGSCentralBox) {}
 
 // bealeLBFGSCentralSearchDirection is the direction's own.
-func bealeLBFGSCentralSearchDirection(dir *bealeLBFGSCentralDirection, x, g, d *[2]float64, b *bealeLBFGSCentralBox) {
+func bealeLBFGSCentralSearchDirection(dir *bealeLBFGSCentralDirection, x, g, d *[2]float64, diffs *bealeLBFGSCentralDifferences) {
+	bealeLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// bealeLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func bealeLBFGSCentralSolveDirection(dir *bealeLBFGSCentralDirection, g, d *[2]float64, diffs *bealeLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // bealeLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·bealeLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (bealeLBFGSCentralAbs(x[i]) + 1) / bealeLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeLBFGSCentralStepScale(x[i]) / bealeLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, sl
 			return bealeLBFGSCentralLineResult{calls: calls, end: bealeLBFGSCentralSearchOutOfBudget}
 		}
 		bealeLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := bealeLBFGSCentralLinePoint{step: t, value: Beale(xt)}
+		current := bealeLBFGSCentralLinePoint{step: t, value: bealeLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !bealeLBFGSCentralFinite(current.value) || current.value > fx+bealeLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *biggsEXP6BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = biggsEXP6BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !biggsEXP6BFGSAnalyticFinite(r.fx) || !biggsEXP6BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BiggsEXP6BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *biggsEXP6BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves biggsEXP6BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *biggsEXP6BFGSAnalyticDescent) search() {
-	biggsEXP6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	biggsEXP6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !biggsEXP6BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		biggsEXP6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		biggsEXP6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(biggsEXP6BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type biggsEXP6BFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6BFGSAnalyticRoundingFloor)
 	bounds    biggsEXP6BFGSAnalyticBox
+	model     biggsEXP6BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (biggsEXP6BFGSAnalyticResidualModel for any other)
 }
+
+// biggsEXP6BFGSAnalyticResidualModel is biggsEXP6BFGSAnalyticResidualModel for any other objective: nothing.
+type biggsEXP6BFGSAnalyticResidualModel struct{}
 
 // biggsEXP6BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	biggsEXP6BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	biggsEXP6BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// biggsEXP6BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func biggsEXP6BFGSAnalyticValue(x, g *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) float64 {
+	return BiggsEXP6(x)
+}
 
 // biggsEXP6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func biggsEXP6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (meas
 	return measure, floor
 }
 
-// biggsEXP6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// biggsEXP6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(biggsEXP6BFGSAnalyticAbs(s[i]) <= tol*(biggsEXP6BFGSAnalyticAbs(x[i])+1)) {
+		if !(biggsEXP6BFGSAnalyticAbs(s[i]) <= tol*biggsEXP6BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// biggsEXP6BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func biggsEXP6BFGSAnalyticStepScale(xi float64) float64 {
+	return biggsEXP6BFGSAnalyticAbs(xi) + 1
+}
+
 // biggsEXP6BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6BFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6BFGSAnalyticBox) {}
 
 // biggsEXP6BFGSAnalyticSearchDirection is the direction's own.
-func biggsEXP6BFGSAnalyticSearchDirection(dir *biggsEXP6BFGSAnalyticDirection, x, g, d *[6]float64, b *biggsEXP6BFGSAnalyticBox) {
+func biggsEXP6BFGSAnalyticSearchDirection(dir *biggsEXP6BFGSAnalyticDirection, x, g, d *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {
+	biggsEXP6BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// biggsEXP6BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func biggsEXP6BFGSAnalyticSolveDirection(dir *biggsEXP6BFGSAnalyticDirection, g, d *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // biggsEXP6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·biggsEXP6BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (biggsEXP6BFGSAnalyticAbs(x[i]) + 1) / biggsEXP6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6BFGSAnalyticStepScale(x[i]) / biggsEXP6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64
 			return biggsEXP6BFGSAnalyticLineResult{calls: calls, end: biggsEXP6BFGSAnalyticSearchOutOfBudget}
 		}
 		biggsEXP6BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := biggsEXP6BFGSAnalyticLinePoint{step: t, value: BiggsEXP6(xt)}
+		current := biggsEXP6BFGSAnalyticLinePoint{step: t, value: biggsEXP6BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !biggsEXP6BFGSAnalyticFinite(current.value) || current.value > fx+biggsEXP6BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

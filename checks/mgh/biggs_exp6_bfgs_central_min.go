@@ -354,7 +354,7 @@ func (r *biggsEXP6BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = biggsEXP6BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !biggsEXP6BFGSCentralFinite(r.fx) || !biggsEXP6BFGSCentralFiniteVec(&r.x) {
 		r.out.status = BiggsEXP6BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *biggsEXP6BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves biggsEXP6BFGSCentralStageJudge next when the run
 // goes on.
 func (r *biggsEXP6BFGSCentralDescent) search() {
-	biggsEXP6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	biggsEXP6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !biggsEXP6BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		biggsEXP6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		biggsEXP6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(biggsEXP6BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type biggsEXP6BFGSCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6BFGSCentralRoundingFloor)
 	bounds    biggsEXP6BFGSCentralBox
+	model     biggsEXP6BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (biggsEXP6BFGSCentralResidualModel for any other)
 }
+
+// biggsEXP6BFGSCentralResidualModel is biggsEXP6BFGSCentralResidualModel for any other objective: nothing.
+type biggsEXP6BFGSCentralResidualModel struct{}
 
 // biggsEXP6BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	biggsEXP6BFGSCentralVerifyPass    // a difference gradient passed the test
 	biggsEXP6BFGSCentralVerifyStall   // no step makes progress
 )
+
+// biggsEXP6BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func biggsEXP6BFGSCentralValue(x, g *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) float64 {
+	return BiggsEXP6(x)
+}
 
 // biggsEXP6BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func biggsEXP6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measu
 	return measure, floor
 }
 
-// biggsEXP6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// biggsEXP6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*(biggsEXP6BFGSCentralAbs(x[i])+1)) {
+		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*biggsEXP6BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// biggsEXP6BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func biggsEXP6BFGSCentralStepScale(xi float64) float64 {
+	return biggsEXP6BFGSCentralAbs(xi) + 1
+}
+
 // biggsEXP6BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6BFGSCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6BFGSCentralBox) {}
 
 // biggsEXP6BFGSCentralSearchDirection is the direction's own.
-func biggsEXP6BFGSCentralSearchDirection(dir *biggsEXP6BFGSCentralDirection, x, g, d *[6]float64, b *biggsEXP6BFGSCentralBox) {
+func biggsEXP6BFGSCentralSearchDirection(dir *biggsEXP6BFGSCentralDirection, x, g, d *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
+	biggsEXP6BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// biggsEXP6BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func biggsEXP6BFGSCentralSolveDirection(dir *biggsEXP6BFGSCentralDirection, g, d *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // biggsEXP6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·biggsEXP6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (biggsEXP6BFGSCentralAbs(x[i]) + 1) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6BFGSCentralStepScale(x[i]) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64,
 			return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchOutOfBudget}
 		}
 		biggsEXP6BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := biggsEXP6BFGSCentralLinePoint{step: t, value: BiggsEXP6(xt)}
+		current := biggsEXP6BFGSCentralLinePoint{step: t, value: biggsEXP6BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !biggsEXP6BFGSCentralFinite(current.value) || current.value > fx+biggsEXP6BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *biggsEXP6CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = biggsEXP6CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !biggsEXP6CGAnalyticFinite(r.fx) || !biggsEXP6CGAnalyticFiniteVec(&r.x) {
 		r.out.status = BiggsEXP6CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *biggsEXP6CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves biggsEXP6CGAnalyticStageJudge next when the run
 // goes on.
 func (r *biggsEXP6CGAnalyticDescent) search() {
-	biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !biggsEXP6CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(biggsEXP6CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type biggsEXP6CGAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6CGAnalyticRoundingFloor)
 	bounds    biggsEXP6CGAnalyticBox
+	model     biggsEXP6CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (biggsEXP6CGAnalyticResidualModel for any other)
 }
+
+// biggsEXP6CGAnalyticResidualModel is biggsEXP6CGAnalyticResidualModel for any other objective: nothing.
+type biggsEXP6CGAnalyticResidualModel struct{}
 
 // biggsEXP6CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	biggsEXP6CGAnalyticVerifyPass    // a difference gradient passed the test
 	biggsEXP6CGAnalyticVerifyStall   // no step makes progress
 )
+
+// biggsEXP6CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func biggsEXP6CGAnalyticValue(x, g *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) float64 {
+	return BiggsEXP6(x)
+}
 
 // biggsEXP6CGAnalyticFiniteVec reports whether every component of x is finite.
 func biggsEXP6CGAnalyticFiniteVec(x *[6]float64) bool {
@@ -865,33 +874,44 @@ func biggsEXP6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measur
 	return measure, floor
 }
 
-// biggsEXP6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// biggsEXP6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*(biggsEXP6CGAnalyticAbs(x[i])+1)) {
+		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*biggsEXP6CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// biggsEXP6CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func biggsEXP6CGAnalyticStepScale(xi float64) float64 {
+	return biggsEXP6CGAnalyticAbs(xi) + 1
+}
+
 // biggsEXP6CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6CGAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6CGAnalyticBox) {}
 
 // biggsEXP6CGAnalyticSearchDirection is the direction's own.
-func biggsEXP6CGAnalyticSearchDirection(dir *biggsEXP6CGAnalyticDirection, x, g, d *[6]float64, b *biggsEXP6CGAnalyticBox) {
+func biggsEXP6CGAnalyticSearchDirection(dir *biggsEXP6CGAnalyticDirection, x, g, d *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
+	biggsEXP6CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// biggsEXP6CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func biggsEXP6CGAnalyticSolveDirection(dir *biggsEXP6CGAnalyticDirection, g, d *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // biggsEXP6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·biggsEXP6CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (biggsEXP6CGAnalyticAbs(x[i]) + 1) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6CGAnalyticStepScale(x[i]) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 			return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchOutOfBudget}
 		}
 		biggsEXP6CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := biggsEXP6CGAnalyticLinePoint{step: t, value: BiggsEXP6(xt)}
+		current := biggsEXP6CGAnalyticLinePoint{step: t, value: biggsEXP6CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !biggsEXP6CGAnalyticFinite(current.value) || current.value > fx+biggsEXP6CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

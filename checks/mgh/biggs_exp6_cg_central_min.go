@@ -354,7 +354,7 @@ func (r *biggsEXP6CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = biggsEXP6CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !biggsEXP6CGCentralFinite(r.fx) || !biggsEXP6CGCentralFiniteVec(&r.x) {
 		r.out.status = BiggsEXP6CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *biggsEXP6CGCentralDescent) judge() {
 // the gradient at the new point; it leaves biggsEXP6CGCentralStageJudge next when the run
 // goes on.
 func (r *biggsEXP6CGCentralDescent) search() {
-	biggsEXP6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	biggsEXP6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !biggsEXP6CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		biggsEXP6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		biggsEXP6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(biggsEXP6CGCentralStepInitial)
@@ -547,7 +547,11 @@ type biggsEXP6CGCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6CGCentralRoundingFloor)
 	bounds    biggsEXP6CGCentralBox
+	model     biggsEXP6CGCentralResidualModel // a residual objective's residuals and Jacobian products (biggsEXP6CGCentralResidualModel for any other)
 }
+
+// biggsEXP6CGCentralResidualModel is biggsEXP6CGCentralResidualModel for any other objective: nothing.
+type biggsEXP6CGCentralResidualModel struct{}
 
 // biggsEXP6CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	biggsEXP6CGCentralVerifyPass    // a difference gradient passed the test
 	biggsEXP6CGCentralVerifyStall   // no step makes progress
 )
+
+// biggsEXP6CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func biggsEXP6CGCentralValue(x, g *[6]float64, diffs *biggsEXP6CGCentralDifferences) float64 {
+	return BiggsEXP6(x)
+}
 
 // biggsEXP6CGCentralFiniteVec reports whether every component of x is finite.
 func biggsEXP6CGCentralFiniteVec(x *[6]float64) bool {
@@ -1044,33 +1053,44 @@ func biggsEXP6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure
 	return measure, floor
 }
 
-// biggsEXP6CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// biggsEXP6CGCentralStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(biggsEXP6CGCentralAbs(s[i]) <= tol*(biggsEXP6CGCentralAbs(x[i])+1)) {
+		if !(biggsEXP6CGCentralAbs(s[i]) <= tol*biggsEXP6CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// biggsEXP6CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func biggsEXP6CGCentralStepScale(xi float64) float64 {
+	return biggsEXP6CGCentralAbs(xi) + 1
+}
+
 // biggsEXP6CGCentralCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6CGCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6CGCentralBox) {}
 
 // biggsEXP6CGCentralSearchDirection is the direction's own.
-func biggsEXP6CGCentralSearchDirection(dir *biggsEXP6CGCentralDirection, x, g, d *[6]float64, b *biggsEXP6CGCentralBox) {
+func biggsEXP6CGCentralSearchDirection(dir *biggsEXP6CGCentralDirection, x, g, d *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
+	biggsEXP6CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// biggsEXP6CGCentralSolveDirection is the direction's own rule, from its memory.
+func biggsEXP6CGCentralSolveDirection(dir *biggsEXP6CGCentralDirection, g, d *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // biggsEXP6CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·biggsEXP6CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (biggsEXP6CGCentralAbs(x[i]) + 1) / biggsEXP6CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6CGCentralStepScale(x[i]) / biggsEXP6CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, s
 			return biggsEXP6CGCentralLineResult{calls: calls, end: biggsEXP6CGCentralSearchOutOfBudget}
 		}
 		biggsEXP6CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := biggsEXP6CGCentralLinePoint{step: t, value: BiggsEXP6(xt)}
+		current := biggsEXP6CGCentralLinePoint{step: t, value: biggsEXP6CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !biggsEXP6CGCentralFinite(current.value) || current.value > fx+biggsEXP6CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *biggsEXP6LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = biggsEXP6LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !biggsEXP6LBFGSAnalyticFinite(r.fx) || !biggsEXP6LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BiggsEXP6LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *biggsEXP6LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves biggsEXP6LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *biggsEXP6LBFGSAnalyticDescent) search() {
-	biggsEXP6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	biggsEXP6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !biggsEXP6LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		biggsEXP6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		biggsEXP6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(biggsEXP6LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type biggsEXP6LBFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSAnalyticRoundingFloor)
 	bounds    biggsEXP6LBFGSAnalyticBox
+	model     biggsEXP6LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (biggsEXP6LBFGSAnalyticResidualModel for any other)
 }
+
+// biggsEXP6LBFGSAnalyticResidualModel is biggsEXP6LBFGSAnalyticResidualModel for any other objective: nothing.
+type biggsEXP6LBFGSAnalyticResidualModel struct{}
 
 // biggsEXP6LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last biggsEXP6LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	biggsEXP6LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	biggsEXP6LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// biggsEXP6LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func biggsEXP6LBFGSAnalyticValue(x, g *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) float64 {
+	return BiggsEXP6(x)
+}
 
 // biggsEXP6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (mea
 	return measure, floor
 }
 
-// biggsEXP6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// biggsEXP6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*(biggsEXP6LBFGSAnalyticAbs(x[i])+1)) {
+		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// biggsEXP6LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func biggsEXP6LBFGSAnalyticStepScale(xi float64) float64 {
+	return biggsEXP6LBFGSAnalyticAbs(xi) + 1
+}
+
 // biggsEXP6LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6LBFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {}
 
 // biggsEXP6LBFGSAnalyticSearchDirection is the direction's own.
-func biggsEXP6LBFGSAnalyticSearchDirection(dir *biggsEXP6LBFGSAnalyticDirection, x, g, d *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {
+func biggsEXP6LBFGSAnalyticSearchDirection(dir *biggsEXP6LBFGSAnalyticDirection, x, g, d *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
+	biggsEXP6LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// biggsEXP6LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func biggsEXP6LBFGSAnalyticSolveDirection(dir *biggsEXP6LBFGSAnalyticDirection, g, d *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // biggsEXP6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·biggsEXP6LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (biggsEXP6LBFGSAnalyticAbs(x[i]) + 1) / biggsEXP6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i]) / biggsEXP6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float6
 			return biggsEXP6LBFGSAnalyticLineResult{calls: calls, end: biggsEXP6LBFGSAnalyticSearchOutOfBudget}
 		}
 		biggsEXP6LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := biggsEXP6LBFGSAnalyticLinePoint{step: t, value: BiggsEXP6(xt)}
+		current := biggsEXP6LBFGSAnalyticLinePoint{step: t, value: biggsEXP6LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !biggsEXP6LBFGSAnalyticFinite(current.value) || current.value > fx+biggsEXP6LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *biggsEXP6LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BiggsEXP6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = biggsEXP6LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !biggsEXP6LBFGSCentralFinite(r.fx) || !biggsEXP6LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BiggsEXP6LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *biggsEXP6LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves biggsEXP6LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *biggsEXP6LBFGSCentralDescent) search() {
-	biggsEXP6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	biggsEXP6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !biggsEXP6LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		biggsEXP6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		biggsEXP6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(biggsEXP6LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type biggsEXP6LBFGSCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSCentralRoundingFloor)
 	bounds    biggsEXP6LBFGSCentralBox
+	model     biggsEXP6LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (biggsEXP6LBFGSCentralResidualModel for any other)
 }
+
+// biggsEXP6LBFGSCentralResidualModel is biggsEXP6LBFGSCentralResidualModel for any other objective: nothing.
+type biggsEXP6LBFGSCentralResidualModel struct{}
 
 // biggsEXP6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last biggsEXP6LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	biggsEXP6LBFGSCentralVerifyPass    // a difference gradient passed the test
 	biggsEXP6LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// biggsEXP6LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func biggsEXP6LBFGSCentralValue(x, g *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) float64 {
+	return BiggsEXP6(x)
+}
 
 // biggsEXP6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func biggsEXP6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (meas
 	return measure, floor
 }
 
-// biggsEXP6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// biggsEXP6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*(biggsEXP6LBFGSCentralAbs(x[i])+1)) {
+		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// biggsEXP6LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func biggsEXP6LBFGSCentralStepScale(xi float64) float64 {
+	return biggsEXP6LBFGSCentralAbs(xi) + 1
+}
+
 // biggsEXP6LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6LBFGSCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6LBFGSCentralBox) {}
 
 // biggsEXP6LBFGSCentralSearchDirection is the direction's own.
-func biggsEXP6LBFGSCentralSearchDirection(dir *biggsEXP6LBFGSCentralDirection, x, g, d *[6]float64, b *biggsEXP6LBFGSCentralBox) {
+func biggsEXP6LBFGSCentralSearchDirection(dir *biggsEXP6LBFGSCentralDirection, x, g, d *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
+	biggsEXP6LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// biggsEXP6LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func biggsEXP6LBFGSCentralSolveDirection(dir *biggsEXP6LBFGSCentralDirection, g, d *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // biggsEXP6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·biggsEXP6LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (biggsEXP6LBFGSCentralAbs(x[i]) + 1) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6LBFGSCentralStepScale(x[i]) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64
 			return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchOutOfBudget}
 		}
 		biggsEXP6LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := biggsEXP6LBFGSCentralLinePoint{step: t, value: BiggsEXP6(xt)}
+		current := biggsEXP6LBFGSCentralLinePoint{step: t, value: biggsEXP6LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !biggsEXP6LBFGSCentralFinite(current.value) || current.value > fx+biggsEXP6LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

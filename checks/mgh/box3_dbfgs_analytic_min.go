@@ -354,7 +354,7 @@ func (r *box3DBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = box3DBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !box3DBFGSAnalyticFinite(r.fx) || !box3DBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Box3DBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *box3DBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves box3DBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *box3DBFGSAnalyticDescent) search() {
-	box3DBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	box3DBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !box3DBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		box3DBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		box3DBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(box3DBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type box3DBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DBFGSAnalyticRoundingFloor)
 	bounds    box3DBFGSAnalyticBox
+	model     box3DBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (box3DBFGSAnalyticResidualModel for any other)
 }
+
+// box3DBFGSAnalyticResidualModel is box3DBFGSAnalyticResidualModel for any other objective: nothing.
+type box3DBFGSAnalyticResidualModel struct{}
 
 // box3DBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	box3DBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	box3DBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// box3DBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func box3DBFGSAnalyticValue(x, g *[3]float64, diffs *box3DBFGSAnalyticDifferences) float64 {
+	return Box3D(x)
+}
 
 // box3DBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func box3DBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// box3DBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// box3DBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·box3DBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(box3DBFGSAnalyticAbs(s[i]) <= tol*(box3DBFGSAnalyticAbs(x[i])+1)) {
+		if !(box3DBFGSAnalyticAbs(s[i]) <= tol*box3DBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// box3DBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func box3DBFGSAnalyticStepScale(xi float64) float64 {
+	return box3DBFGSAnalyticAbs(xi) + 1
+}
+
 // box3DBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func box3DBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DBFGSAnalyticBox) {}
 
 // box3DBFGSAnalyticSearchDirection is the direction's own.
-func box3DBFGSAnalyticSearchDirection(dir *box3DBFGSAnalyticDirection, x, g, d *[3]float64, b *box3DBFGSAnalyticBox) {
+func box3DBFGSAnalyticSearchDirection(dir *box3DBFGSAnalyticDirection, x, g, d *[3]float64, diffs *box3DBFGSAnalyticDifferences) {
+	box3DBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// box3DBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func box3DBFGSAnalyticSolveDirection(dir *box3DBFGSAnalyticDirection, g, d *[3]float64, diffs *box3DBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // box3DBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·box3DBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (box3DBFGSAnalyticAbs(x[i]) + 1) / box3DBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DBFGSAnalyticStepScale(x[i]) / box3DBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 			return box3DBFGSAnalyticLineResult{calls: calls, end: box3DBFGSAnalyticSearchOutOfBudget}
 		}
 		box3DBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := box3DBFGSAnalyticLinePoint{step: t, value: Box3D(xt)}
+		current := box3DBFGSAnalyticLinePoint{step: t, value: box3DBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !box3DBFGSAnalyticFinite(current.value) || current.value > fx+box3DBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *box3DBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = box3DBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !box3DBFGSCentralFinite(r.fx) || !box3DBFGSCentralFiniteVec(&r.x) {
 		r.out.status = Box3DBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *box3DBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves box3DBFGSCentralStageJudge next when the run
 // goes on.
 func (r *box3DBFGSCentralDescent) search() {
-	box3DBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	box3DBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !box3DBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		box3DBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		box3DBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(box3DBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type box3DBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DBFGSCentralRoundingFloor)
 	bounds    box3DBFGSCentralBox
+	model     box3DBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (box3DBFGSCentralResidualModel for any other)
 }
+
+// box3DBFGSCentralResidualModel is box3DBFGSCentralResidualModel for any other objective: nothing.
+type box3DBFGSCentralResidualModel struct{}
 
 // box3DBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	box3DBFGSCentralVerifyPass    // a difference gradient passed the test
 	box3DBFGSCentralVerifyStall   // no step makes progress
 )
+
+// box3DBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func box3DBFGSCentralValue(x, g *[3]float64, diffs *box3DBFGSCentralDifferences) float64 {
+	return Box3D(x)
+}
 
 // box3DBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func box3DBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·box3DBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(box3DBFGSCentralAbs(s[i]) <= tol*(box3DBFGSCentralAbs(x[i])+1)) {
+		if !(box3DBFGSCentralAbs(s[i]) <= tol*box3DBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// box3DBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func box3DBFGSCentralStepScale(xi float64) float64 {
+	return box3DBFGSCentralAbs(xi) + 1
+}
+
 // box3DBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func box3DBFGSCentralCurvaturePair(s, y, x *[3]float64, b *box3DBFGSCentralBox) {}
 
 // box3DBFGSCentralSearchDirection is the direction's own.
-func box3DBFGSCentralSearchDirection(dir *box3DBFGSCentralDirection, x, g, d *[3]float64, b *box3DBFGSCentralBox) {
+func box3DBFGSCentralSearchDirection(dir *box3DBFGSCentralDirection, x, g, d *[3]float64, diffs *box3DBFGSCentralDifferences) {
+	box3DBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// box3DBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func box3DBFGSCentralSolveDirection(dir *box3DBFGSCentralDirection, g, d *[3]float64, diffs *box3DBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // box3DBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·box3DBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (box3DBFGSCentralAbs(x[i]) + 1) / box3DBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DBFGSCentralStepScale(x[i]) / box3DBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slo
 			return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
 		}
 		box3DBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := box3DBFGSCentralLinePoint{step: t, value: Box3D(xt)}
+		current := box3DBFGSCentralLinePoint{step: t, value: box3DBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !box3DBFGSCentralFinite(current.value) || current.value > fx+box3DBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

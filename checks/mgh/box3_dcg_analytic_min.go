@@ -354,7 +354,7 @@ func (r *box3DCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = box3DCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !box3DCGAnalyticFinite(r.fx) || !box3DCGAnalyticFiniteVec(&r.x) {
 		r.out.status = Box3DCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *box3DCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves box3DCGAnalyticStageJudge next when the run
 // goes on.
 func (r *box3DCGAnalyticDescent) search() {
-	box3DCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	box3DCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !box3DCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		box3DCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		box3DCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(box3DCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type box3DCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DCGAnalyticRoundingFloor)
 	bounds    box3DCGAnalyticBox
+	model     box3DCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (box3DCGAnalyticResidualModel for any other)
 }
+
+// box3DCGAnalyticResidualModel is box3DCGAnalyticResidualModel for any other objective: nothing.
+type box3DCGAnalyticResidualModel struct{}
 
 // box3DCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	box3DCGAnalyticVerifyPass    // a difference gradient passed the test
 	box3DCGAnalyticVerifyStall   // no step makes progress
 )
+
+// box3DCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func box3DCGAnalyticValue(x, g *[3]float64, diffs *box3DCGAnalyticDifferences) float64 {
+	return Box3D(x)
+}
 
 // box3DCGAnalyticFiniteVec reports whether every component of x is finite.
 func box3DCGAnalyticFiniteVec(x *[3]float64) bool {
@@ -865,33 +874,44 @@ func box3DCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, f
 	return measure, floor
 }
 
-// box3DCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// box3DCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·box3DCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(box3DCGAnalyticAbs(s[i]) <= tol*(box3DCGAnalyticAbs(x[i])+1)) {
+		if !(box3DCGAnalyticAbs(s[i]) <= tol*box3DCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// box3DCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func box3DCGAnalyticStepScale(xi float64) float64 {
+	return box3DCGAnalyticAbs(xi) + 1
+}
+
 // box3DCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func box3DCGAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DCGAnalyticBox) {}
 
 // box3DCGAnalyticSearchDirection is the direction's own.
-func box3DCGAnalyticSearchDirection(dir *box3DCGAnalyticDirection, x, g, d *[3]float64, b *box3DCGAnalyticBox) {
+func box3DCGAnalyticSearchDirection(dir *box3DCGAnalyticDirection, x, g, d *[3]float64, diffs *box3DCGAnalyticDifferences) {
+	box3DCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// box3DCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func box3DCGAnalyticSolveDirection(dir *box3DCGAnalyticDirection, g, d *[3]float64, diffs *box3DCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // box3DCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·box3DCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (box3DCGAnalyticAbs(x[i]) + 1) / box3DCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DCGAnalyticStepScale(x[i]) / box3DCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slop
 			return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchOutOfBudget}
 		}
 		box3DCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := box3DCGAnalyticLinePoint{step: t, value: Box3D(xt)}
+		current := box3DCGAnalyticLinePoint{step: t, value: box3DCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !box3DCGAnalyticFinite(current.value) || current.value > fx+box3DCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

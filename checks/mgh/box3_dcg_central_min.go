@@ -354,7 +354,7 @@ func (r *box3DCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = box3DCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !box3DCGCentralFinite(r.fx) || !box3DCGCentralFiniteVec(&r.x) {
 		r.out.status = Box3DCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *box3DCGCentralDescent) judge() {
 // the gradient at the new point; it leaves box3DCGCentralStageJudge next when the run
 // goes on.
 func (r *box3DCGCentralDescent) search() {
-	box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !box3DCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(box3DCGCentralStepInitial)
@@ -547,7 +547,11 @@ type box3DCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DCGCentralRoundingFloor)
 	bounds    box3DCGCentralBox
+	model     box3DCGCentralResidualModel // a residual objective's residuals and Jacobian products (box3DCGCentralResidualModel for any other)
 }
+
+// box3DCGCentralResidualModel is box3DCGCentralResidualModel for any other objective: nothing.
+type box3DCGCentralResidualModel struct{}
 
 // box3DCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	box3DCGCentralVerifyPass    // a difference gradient passed the test
 	box3DCGCentralVerifyStall   // no step makes progress
 )
+
+// box3DCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func box3DCGCentralValue(x, g *[3]float64, diffs *box3DCGCentralDifferences) float64 {
+	return Box3D(x)
+}
 
 // box3DCGCentralFiniteVec reports whether every component of x is finite.
 func box3DCGCentralFiniteVec(x *[3]float64) bool {
@@ -1044,33 +1053,44 @@ func box3DCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// box3DCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// box3DCGCentralStepWithin is the step test: every |s_i| ≤ tol·box3DCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func box3DCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(box3DCGCentralAbs(s[i]) <= tol*(box3DCGCentralAbs(x[i])+1)) {
+		if !(box3DCGCentralAbs(s[i]) <= tol*box3DCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// box3DCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func box3DCGCentralStepScale(xi float64) float64 {
+	return box3DCGCentralAbs(xi) + 1
+}
+
 // box3DCGCentralCurvaturePair: without bounds the pair is used as it is.
 func box3DCGCentralCurvaturePair(s, y, x *[3]float64, b *box3DCGCentralBox) {}
 
 // box3DCGCentralSearchDirection is the direction's own.
-func box3DCGCentralSearchDirection(dir *box3DCGCentralDirection, x, g, d *[3]float64, b *box3DCGCentralBox) {
+func box3DCGCentralSearchDirection(dir *box3DCGCentralDirection, x, g, d *[3]float64, diffs *box3DCGCentralDifferences) {
+	box3DCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// box3DCGCentralSolveDirection is the direction's own rule, from its memory.
+func box3DCGCentralSolveDirection(dir *box3DCGCentralDirection, g, d *[3]float64, diffs *box3DCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // box3DCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·box3DCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (box3DCGCentralAbs(x[i]) + 1) / box3DCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DCGCentralStepScale(x[i]) / box3DCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope
 			return box3DCGCentralLineResult{calls: calls, end: box3DCGCentralSearchOutOfBudget}
 		}
 		box3DCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := box3DCGCentralLinePoint{step: t, value: Box3D(xt)}
+		current := box3DCGCentralLinePoint{step: t, value: box3DCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !box3DCGCentralFinite(current.value) || current.value > fx+box3DCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *box3DLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = box3DLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !box3DLBFGSAnalyticFinite(r.fx) || !box3DLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Box3DLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *box3DLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves box3DLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *box3DLBFGSAnalyticDescent) search() {
-	box3DLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	box3DLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !box3DLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		box3DLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		box3DLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(box3DLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type box3DLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSAnalyticRoundingFloor)
 	bounds    box3DLBFGSAnalyticBox
+	model     box3DLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (box3DLBFGSAnalyticResidualModel for any other)
 }
+
+// box3DLBFGSAnalyticResidualModel is box3DLBFGSAnalyticResidualModel for any other objective: nothing.
+type box3DLBFGSAnalyticResidualModel struct{}
 
 // box3DLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last box3DLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	box3DLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	box3DLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// box3DLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func box3DLBFGSAnalyticValue(x, g *[3]float64, diffs *box3DLBFGSAnalyticDifferences) float64 {
+	return Box3D(x)
+}
 
 // box3DLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 	return measure, floor
 }
 
-// box3DLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// box3DLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·box3DLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*(box3DLBFGSAnalyticAbs(x[i])+1)) {
+		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*box3DLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// box3DLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func box3DLBFGSAnalyticStepScale(xi float64) float64 {
+	return box3DLBFGSAnalyticAbs(xi) + 1
+}
+
 // box3DLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func box3DLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DLBFGSAnalyticBox) {}
 
 // box3DLBFGSAnalyticSearchDirection is the direction's own.
-func box3DLBFGSAnalyticSearchDirection(dir *box3DLBFGSAnalyticDirection, x, g, d *[3]float64, b *box3DLBFGSAnalyticBox) {
+func box3DLBFGSAnalyticSearchDirection(dir *box3DLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
+	box3DLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// box3DLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func box3DLBFGSAnalyticSolveDirection(dir *box3DLBFGSAnalyticDirection, g, d *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // box3DLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·box3DLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (box3DLBFGSAnalyticAbs(x[i]) + 1) / box3DLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DLBFGSAnalyticStepScale(x[i]) / box3DLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, s
 			return box3DLBFGSAnalyticLineResult{calls: calls, end: box3DLBFGSAnalyticSearchOutOfBudget}
 		}
 		box3DLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := box3DLBFGSAnalyticLinePoint{step: t, value: Box3D(xt)}
+		current := box3DLBFGSAnalyticLinePoint{step: t, value: box3DLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !box3DLBFGSAnalyticFinite(current.value) || current.value > fx+box3DLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *box3DLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Box3D(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = box3DLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !box3DLBFGSCentralFinite(r.fx) || !box3DLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = Box3DLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *box3DLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves box3DLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *box3DLBFGSCentralDescent) search() {
-	box3DLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	box3DLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !box3DLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		box3DLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		box3DLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(box3DLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type box3DLBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSCentralRoundingFloor)
 	bounds    box3DLBFGSCentralBox
+	model     box3DLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (box3DLBFGSCentralResidualModel for any other)
 }
+
+// box3DLBFGSCentralResidualModel is box3DLBFGSCentralResidualModel for any other objective: nothing.
+type box3DLBFGSCentralResidualModel struct{}
 
 // box3DLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last box3DLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	box3DLBFGSCentralVerifyPass    // a difference gradient passed the test
 	box3DLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// box3DLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func box3DLBFGSCentralValue(x, g *[3]float64, diffs *box3DLBFGSCentralDifferences) float64 {
+	return Box3D(x)
+}
 
 // box3DLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// box3DLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// box3DLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·box3DLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func box3DLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(box3DLBFGSCentralAbs(s[i]) <= tol*(box3DLBFGSCentralAbs(x[i])+1)) {
+		if !(box3DLBFGSCentralAbs(s[i]) <= tol*box3DLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// box3DLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func box3DLBFGSCentralStepScale(xi float64) float64 {
+	return box3DLBFGSCentralAbs(xi) + 1
+}
+
 // box3DLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func box3DLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *box3DLBFGSCentralBox) {}
 
 // box3DLBFGSCentralSearchDirection is the direction's own.
-func box3DLBFGSCentralSearchDirection(dir *box3DLBFGSCentralDirection, x, g, d *[3]float64, b *box3DLBFGSCentralBox) {
+func box3DLBFGSCentralSearchDirection(dir *box3DLBFGSCentralDirection, x, g, d *[3]float64, diffs *box3DLBFGSCentralDifferences) {
+	box3DLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// box3DLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func box3DLBFGSCentralSolveDirection(dir *box3DLBFGSCentralDirection, g, d *[3]float64, diffs *box3DLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // box3DLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·box3DLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (box3DLBFGSCentralAbs(x[i]) + 1) / box3DLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DLBFGSCentralStepScale(x[i]) / box3DLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 			return box3DLBFGSCentralLineResult{calls: calls, end: box3DLBFGSCentralSearchOutOfBudget}
 		}
 		box3DLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := box3DLBFGSCentralLinePoint{step: t, value: Box3D(xt)}
+		current := box3DLBFGSCentralLinePoint{step: t, value: box3DLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !box3DLBFGSCentralFinite(current.value) || current.value > fx+box3DLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownBadlyScaledBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownBadlyScaledBFGSAnalyticFinite(r.fx) || !brownBadlyScaledBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BrownBadlyScaledBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves brownBadlyScaledBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
-	brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !brownBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(brownBadlyScaledBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type brownBadlyScaledBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSAnalyticRoundingFloor)
 	bounds    brownBadlyScaledBFGSAnalyticBox
+	model     brownBadlyScaledBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (brownBadlyScaledBFGSAnalyticResidualModel for any other)
 }
+
+// brownBadlyScaledBFGSAnalyticResidualModel is brownBadlyScaledBFGSAnalyticResidualModel for any other objective: nothing.
+type brownBadlyScaledBFGSAnalyticResidualModel struct{}
 
 // brownBadlyScaledBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	brownBadlyScaledBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownBadlyScaledBFGSAnalyticValue(x, g *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
+	return BrownBadlyScaled(x)
+}
 
 // brownBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,16 +885,22 @@ func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64
 	return measure, floor
 }
 
-// brownBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*(brownBadlyScaledBFGSAnalyticAbs(x[i])+1)) {
+		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// brownBadlyScaledBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownBadlyScaledBFGSAnalyticStepScale(xi float64) float64 {
+	return brownBadlyScaledBFGSAnalyticAbs(xi) + 1
 }
 
 // brownBadlyScaledBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -893,17 +908,22 @@ func brownBadlyScaledBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadl
 }
 
 // brownBadlyScaledBFGSAnalyticSearchDirection is the direction's own.
-func brownBadlyScaledBFGSAnalyticSearchDirection(dir *brownBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {
+func brownBadlyScaledBFGSAnalyticSearchDirection(dir *brownBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
+	brownBadlyScaledBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// brownBadlyScaledBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func brownBadlyScaledBFGSAnalyticSolveDirection(dir *brownBadlyScaledBFGSAnalyticDirection, g, d *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // brownBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownBadlyScaledBFGSAnalyticAbs(x[i]) + 1) / brownBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledBFGSAnalyticStepScale(x[i]) / brownBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -963,7 +983,7 @@ func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]
 			return brownBadlyScaledBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledBFGSAnalyticSearchOutOfBudget}
 		}
 		brownBadlyScaledBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownBadlyScaledBFGSAnalyticLinePoint{step: t, value: BrownBadlyScaled(xt)}
+		current := brownBadlyScaledBFGSAnalyticLinePoint{step: t, value: brownBadlyScaledBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownBadlyScaledBFGSAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

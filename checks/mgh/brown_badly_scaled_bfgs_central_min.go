@@ -354,7 +354,7 @@ func (r *brownBadlyScaledBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownBadlyScaledBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownBadlyScaledBFGSCentralFinite(r.fx) || !brownBadlyScaledBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BrownBadlyScaledBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownBadlyScaledBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves brownBadlyScaledBFGSCentralStageJudge next when the run
 // goes on.
 func (r *brownBadlyScaledBFGSCentralDescent) search() {
-	brownBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !brownBadlyScaledBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(brownBadlyScaledBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type brownBadlyScaledBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSCentralRoundingFloor)
 	bounds    brownBadlyScaledBFGSCentralBox
+	model     brownBadlyScaledBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (brownBadlyScaledBFGSCentralResidualModel for any other)
 }
+
+// brownBadlyScaledBFGSCentralResidualModel is brownBadlyScaledBFGSCentralResidualModel for any other objective: nothing.
+type brownBadlyScaledBFGSCentralResidualModel struct{}
 
 // brownBadlyScaledBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	brownBadlyScaledBFGSCentralVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledBFGSCentralVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownBadlyScaledBFGSCentralValue(x, g *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) float64 {
+	return BrownBadlyScaled(x)
+}
 
 // brownBadlyScaledBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,16 +1064,22 @@ func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64)
 	return measure, floor
 }
 
-// brownBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledBFGSCentralAbs(x[i])+1)) {
+		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// brownBadlyScaledBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownBadlyScaledBFGSCentralStepScale(xi float64) float64 {
+	return brownBadlyScaledBFGSCentralAbs(xi) + 1
 }
 
 // brownBadlyScaledBFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1072,17 +1087,22 @@ func brownBadlyScaledBFGSCentralCurvaturePair(s, y, x *[2]float64, b *brownBadly
 }
 
 // brownBadlyScaledBFGSCentralSearchDirection is the direction's own.
-func brownBadlyScaledBFGSCentralSearchDirection(dir *brownBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, b *brownBadlyScaledBFGSCentralBox) {
+func brownBadlyScaledBFGSCentralSearchDirection(dir *brownBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
+	brownBadlyScaledBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// brownBadlyScaledBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func brownBadlyScaledBFGSCentralSolveDirection(dir *brownBadlyScaledBFGSCentralDirection, g, d *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // brownBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownBadlyScaledBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownBadlyScaledBFGSCentralAbs(x[i]) + 1) / brownBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledBFGSCentralStepScale(x[i]) / brownBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1142,7 +1162,7 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]f
 			return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchOutOfBudget}
 		}
 		brownBadlyScaledBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownBadlyScaledBFGSCentralLinePoint{step: t, value: BrownBadlyScaled(xt)}
+		current := brownBadlyScaledBFGSCentralLinePoint{step: t, value: brownBadlyScaledBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownBadlyScaledBFGSCentralFinite(current.value) || current.value > fx+brownBadlyScaledBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *brownBadlyScaledCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownBadlyScaledCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownBadlyScaledCGAnalyticFinite(r.fx) || !brownBadlyScaledCGAnalyticFiniteVec(&r.x) {
 		r.out.status = BrownBadlyScaledCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownBadlyScaledCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves brownBadlyScaledCGAnalyticStageJudge next when the run
 // goes on.
 func (r *brownBadlyScaledCGAnalyticDescent) search() {
-	brownBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !brownBadlyScaledCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(brownBadlyScaledCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type brownBadlyScaledCGAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledCGAnalyticRoundingFloor)
 	bounds    brownBadlyScaledCGAnalyticBox
+	model     brownBadlyScaledCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (brownBadlyScaledCGAnalyticResidualModel for any other)
 }
+
+// brownBadlyScaledCGAnalyticResidualModel is brownBadlyScaledCGAnalyticResidualModel for any other objective: nothing.
+type brownBadlyScaledCGAnalyticResidualModel struct{}
 
 // brownBadlyScaledCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	brownBadlyScaledCGAnalyticVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledCGAnalyticVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownBadlyScaledCGAnalyticValue(x, g *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) float64 {
+	return BrownBadlyScaled(x)
+}
 
 // brownBadlyScaledCGAnalyticFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
@@ -865,33 +874,44 @@ func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) 
 	return measure, floor
 }
 
-// brownBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*(brownBadlyScaledCGAnalyticAbs(x[i])+1)) {
+		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*brownBadlyScaledCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownBadlyScaledCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownBadlyScaledCGAnalyticStepScale(xi float64) float64 {
+	return brownBadlyScaledCGAnalyticAbs(xi) + 1
+}
+
 // brownBadlyScaledCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownBadlyScaledCGAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledCGAnalyticBox) {}
 
 // brownBadlyScaledCGAnalyticSearchDirection is the direction's own.
-func brownBadlyScaledCGAnalyticSearchDirection(dir *brownBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, b *brownBadlyScaledCGAnalyticBox) {
+func brownBadlyScaledCGAnalyticSearchDirection(dir *brownBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
+	brownBadlyScaledCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// brownBadlyScaledCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func brownBadlyScaledCGAnalyticSolveDirection(dir *brownBadlyScaledCGAnalyticDirection, g, d *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // brownBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownBadlyScaledCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownBadlyScaledCGAnalyticAbs(x[i]) + 1) / brownBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledCGAnalyticStepScale(x[i]) / brownBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]fl
 			return brownBadlyScaledCGAnalyticLineResult{calls: calls, end: brownBadlyScaledCGAnalyticSearchOutOfBudget}
 		}
 		brownBadlyScaledCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownBadlyScaledCGAnalyticLinePoint{step: t, value: BrownBadlyScaled(xt)}
+		current := brownBadlyScaledCGAnalyticLinePoint{step: t, value: brownBadlyScaledCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownBadlyScaledCGAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

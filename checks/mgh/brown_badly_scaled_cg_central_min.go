@@ -354,7 +354,7 @@ func (r *brownBadlyScaledCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownBadlyScaledCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownBadlyScaledCGCentralFinite(r.fx) || !brownBadlyScaledCGCentralFiniteVec(&r.x) {
 		r.out.status = BrownBadlyScaledCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownBadlyScaledCGCentralDescent) judge() {
 // the gradient at the new point; it leaves brownBadlyScaledCGCentralStageJudge next when the run
 // goes on.
 func (r *brownBadlyScaledCGCentralDescent) search() {
-	brownBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !brownBadlyScaledCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(brownBadlyScaledCGCentralStepInitial)
@@ -547,7 +547,11 @@ type brownBadlyScaledCGCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledCGCentralRoundingFloor)
 	bounds    brownBadlyScaledCGCentralBox
+	model     brownBadlyScaledCGCentralResidualModel // a residual objective's residuals and Jacobian products (brownBadlyScaledCGCentralResidualModel for any other)
 }
+
+// brownBadlyScaledCGCentralResidualModel is brownBadlyScaledCGCentralResidualModel for any other objective: nothing.
+type brownBadlyScaledCGCentralResidualModel struct{}
 
 // brownBadlyScaledCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	brownBadlyScaledCGCentralVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledCGCentralVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownBadlyScaledCGCentralValue(x, g *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) float64 {
+	return BrownBadlyScaled(x)
+}
 
 // brownBadlyScaledCGCentralFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledCGCentralFiniteVec(x *[2]float64) bool {
@@ -1044,33 +1053,44 @@ func brownBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (
 	return measure, floor
 }
 
-// brownBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(brownBadlyScaledCGCentralAbs(s[i]) <= tol*(brownBadlyScaledCGCentralAbs(x[i])+1)) {
+		if !(brownBadlyScaledCGCentralAbs(s[i]) <= tol*brownBadlyScaledCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownBadlyScaledCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownBadlyScaledCGCentralStepScale(xi float64) float64 {
+	return brownBadlyScaledCGCentralAbs(xi) + 1
+}
+
 // brownBadlyScaledCGCentralCurvaturePair: without bounds the pair is used as it is.
 func brownBadlyScaledCGCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledCGCentralBox) {}
 
 // brownBadlyScaledCGCentralSearchDirection is the direction's own.
-func brownBadlyScaledCGCentralSearchDirection(dir *brownBadlyScaledCGCentralDirection, x, g, d *[2]float64, b *brownBadlyScaledCGCentralBox) {
+func brownBadlyScaledCGCentralSearchDirection(dir *brownBadlyScaledCGCentralDirection, x, g, d *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
+	brownBadlyScaledCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// brownBadlyScaledCGCentralSolveDirection is the direction's own rule, from its memory.
+func brownBadlyScaledCGCentralSolveDirection(dir *brownBadlyScaledCGCentralDirection, g, d *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // brownBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownBadlyScaledCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownBadlyScaledCGCentralAbs(x[i]) + 1) / brownBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledCGCentralStepScale(x[i]) / brownBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]flo
 			return brownBadlyScaledCGCentralLineResult{calls: calls, end: brownBadlyScaledCGCentralSearchOutOfBudget}
 		}
 		brownBadlyScaledCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownBadlyScaledCGCentralLinePoint{step: t, value: BrownBadlyScaled(xt)}
+		current := brownBadlyScaledCGCentralLinePoint{step: t, value: brownBadlyScaledCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownBadlyScaledCGCentralFinite(current.value) || current.value > fx+brownBadlyScaledCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownBadlyScaledLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownBadlyScaledLBFGSAnalyticFinite(r.fx) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves brownBadlyScaledLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *brownBadlyScaledLBFGSAnalyticDescent) search() {
-	brownBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(brownBadlyScaledLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type brownBadlyScaledLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledLBFGSAnalyticRoundingFloor)
 	bounds    brownBadlyScaledLBFGSAnalyticBox
+	model     brownBadlyScaledLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (brownBadlyScaledLBFGSAnalyticResidualModel for any other)
 }
+
+// brownBadlyScaledLBFGSAnalyticResidualModel is brownBadlyScaledLBFGSAnalyticResidualModel for any other objective: nothing.
+type brownBadlyScaledLBFGSAnalyticResidualModel struct{}
 
 // brownBadlyScaledLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last brownBadlyScaledLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	brownBadlyScaledLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownBadlyScaledLBFGSAnalyticValue(x, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) float64 {
+	return BrownBadlyScaled(x)
+}
 
 // brownBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,16 +911,22 @@ func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float6
 	return measure, floor
 }
 
-// brownBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*(brownBadlyScaledLBFGSAnalyticAbs(x[i])+1)) {
+		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// brownBadlyScaledLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownBadlyScaledLBFGSAnalyticStepScale(xi float64) float64 {
+	return brownBadlyScaledLBFGSAnalyticAbs(xi) + 1
 }
 
 // brownBadlyScaledLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -919,17 +934,22 @@ func brownBadlyScaledLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBad
 }
 
 // brownBadlyScaledLBFGSAnalyticSearchDirection is the direction's own.
-func brownBadlyScaledLBFGSAnalyticSearchDirection(dir *brownBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {
+func brownBadlyScaledLBFGSAnalyticSearchDirection(dir *brownBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
+	brownBadlyScaledLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// brownBadlyScaledLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func brownBadlyScaledLBFGSAnalyticSolveDirection(dir *brownBadlyScaledLBFGSAnalyticDirection, g, d *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // brownBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownBadlyScaledLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownBadlyScaledLBFGSAnalyticAbs(x[i]) + 1) / brownBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledLBFGSAnalyticStepScale(x[i]) / brownBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -989,7 +1009,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2
 			return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 		}
 		brownBadlyScaledLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownBadlyScaledLBFGSAnalyticLinePoint{step: t, value: BrownBadlyScaled(xt)}
+		current := brownBadlyScaledLBFGSAnalyticLinePoint{step: t, value: brownBadlyScaledLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

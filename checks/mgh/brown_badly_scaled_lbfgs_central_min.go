@@ -355,7 +355,7 @@ func (r *brownBadlyScaledLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownBadlyScaledLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownBadlyScaledLBFGSCentralFinite(r.fx) || !brownBadlyScaledLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BrownBadlyScaledLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *brownBadlyScaledLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves brownBadlyScaledLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *brownBadlyScaledLBFGSCentralDescent) search() {
-	brownBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !brownBadlyScaledLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(brownBadlyScaledLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type brownBadlyScaledLBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledLBFGSCentralRoundingFloor)
 	bounds    brownBadlyScaledLBFGSCentralBox
+	model     brownBadlyScaledLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (brownBadlyScaledLBFGSCentralResidualModel for any other)
 }
+
+// brownBadlyScaledLBFGSCentralResidualModel is brownBadlyScaledLBFGSCentralResidualModel for any other objective: nothing.
+type brownBadlyScaledLBFGSCentralResidualModel struct{}
 
 // brownBadlyScaledLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last brownBadlyScaledLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	brownBadlyScaledLBFGSCentralVerifyPass    // a difference gradient passed the test
 	brownBadlyScaledLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// brownBadlyScaledLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownBadlyScaledLBFGSCentralValue(x, g *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) float64 {
+	return BrownBadlyScaled(x)
+}
 
 // brownBadlyScaledLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,16 +1090,22 @@ func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64
 	return measure, floor
 }
 
-// brownBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledLBFGSCentralAbs(x[i])+1)) {
+		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// brownBadlyScaledLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownBadlyScaledLBFGSCentralStepScale(xi float64) float64 {
+	return brownBadlyScaledLBFGSCentralAbs(xi) + 1
 }
 
 // brownBadlyScaledLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1098,17 +1113,22 @@ func brownBadlyScaledLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *brownBadl
 }
 
 // brownBadlyScaledLBFGSCentralSearchDirection is the direction's own.
-func brownBadlyScaledLBFGSCentralSearchDirection(dir *brownBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, b *brownBadlyScaledLBFGSCentralBox) {
+func brownBadlyScaledLBFGSCentralSearchDirection(dir *brownBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
+	brownBadlyScaledLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// brownBadlyScaledLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func brownBadlyScaledLBFGSCentralSolveDirection(dir *brownBadlyScaledLBFGSCentralDirection, g, d *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // brownBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownBadlyScaledLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownBadlyScaledLBFGSCentralAbs(x[i]) + 1) / brownBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledLBFGSCentralStepScale(x[i]) / brownBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1168,7 +1188,7 @@ func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]
 			return brownBadlyScaledLBFGSCentralLineResult{calls: calls, end: brownBadlyScaledLBFGSCentralSearchOutOfBudget}
 		}
 		brownBadlyScaledLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownBadlyScaledLBFGSCentralLinePoint{step: t, value: BrownBadlyScaled(xt)}
+		current := brownBadlyScaledLBFGSCentralLinePoint{step: t, value: brownBadlyScaledLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownBadlyScaledLBFGSCentralFinite(current.value) || current.value > fx+brownBadlyScaledLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

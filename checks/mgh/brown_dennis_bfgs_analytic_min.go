@@ -354,7 +354,7 @@ func (r *brownDennisBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownDennisBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownDennisBFGSAnalyticFinite(r.fx) || !brownDennisBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BrownDennisBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownDennisBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves brownDennisBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *brownDennisBFGSAnalyticDescent) search() {
-	brownDennisBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownDennisBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownDennisBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !brownDennisBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownDennisBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownDennisBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownDennisBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(brownDennisBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type brownDennisBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisBFGSAnalyticRoundingFloor)
 	bounds    brownDennisBFGSAnalyticBox
+	model     brownDennisBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (brownDennisBFGSAnalyticResidualModel for any other)
 }
+
+// brownDennisBFGSAnalyticResidualModel is brownDennisBFGSAnalyticResidualModel for any other objective: nothing.
+type brownDennisBFGSAnalyticResidualModel struct{}
 
 // brownDennisBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	brownDennisBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownDennisBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownDennisBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownDennisBFGSAnalyticValue(x, g *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) float64 {
+	return BrownDennis(x)
+}
 
 // brownDennisBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (me
 	return measure, floor
 }
 
-// brownDennisBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownDennisBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownDennisBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*(brownDennisBFGSAnalyticAbs(x[i])+1)) {
+		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*brownDennisBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownDennisBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownDennisBFGSAnalyticStepScale(xi float64) float64 {
+	return brownDennisBFGSAnalyticAbs(xi) + 1
+}
+
 // brownDennisBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownDennisBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisBFGSAnalyticBox) {}
 
 // brownDennisBFGSAnalyticSearchDirection is the direction's own.
-func brownDennisBFGSAnalyticSearchDirection(dir *brownDennisBFGSAnalyticDirection, x, g, d *[4]float64, b *brownDennisBFGSAnalyticBox) {
+func brownDennisBFGSAnalyticSearchDirection(dir *brownDennisBFGSAnalyticDirection, x, g, d *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
+	brownDennisBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// brownDennisBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func brownDennisBFGSAnalyticSolveDirection(dir *brownDennisBFGSAnalyticDirection, g, d *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // brownDennisBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownDennisBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownDennisBFGSAnalyticAbs(x[i]) + 1) / brownDennisBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisBFGSAnalyticStepScale(x[i]) / brownDennisBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float
 			return brownDennisBFGSAnalyticLineResult{calls: calls, end: brownDennisBFGSAnalyticSearchOutOfBudget}
 		}
 		brownDennisBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownDennisBFGSAnalyticLinePoint{step: t, value: BrownDennis(xt)}
+		current := brownDennisBFGSAnalyticLinePoint{step: t, value: brownDennisBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownDennisBFGSAnalyticFinite(current.value) || current.value > fx+brownDennisBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

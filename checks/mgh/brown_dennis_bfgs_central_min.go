@@ -354,7 +354,7 @@ func (r *brownDennisBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownDennisBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownDennisBFGSCentralFinite(r.fx) || !brownDennisBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BrownDennisBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownDennisBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves brownDennisBFGSCentralStageJudge next when the run
 // goes on.
 func (r *brownDennisBFGSCentralDescent) search() {
-	brownDennisBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownDennisBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownDennisBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !brownDennisBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownDennisBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownDennisBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownDennisBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(brownDennisBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type brownDennisBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisBFGSCentralRoundingFloor)
 	bounds    brownDennisBFGSCentralBox
+	model     brownDennisBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (brownDennisBFGSCentralResidualModel for any other)
 }
+
+// brownDennisBFGSCentralResidualModel is brownDennisBFGSCentralResidualModel for any other objective: nothing.
+type brownDennisBFGSCentralResidualModel struct{}
 
 // brownDennisBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	brownDennisBFGSCentralVerifyPass    // a difference gradient passed the test
 	brownDennisBFGSCentralVerifyStall   // no step makes progress
 )
+
+// brownDennisBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownDennisBFGSCentralValue(x, g *[4]float64, diffs *brownDennisBFGSCentralDifferences) float64 {
+	return BrownDennis(x)
+}
 
 // brownDennisBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 	return measure, floor
 }
 
-// brownDennisBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownDennisBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownDennisBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*(brownDennisBFGSCentralAbs(x[i])+1)) {
+		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*brownDennisBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownDennisBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownDennisBFGSCentralStepScale(xi float64) float64 {
+	return brownDennisBFGSCentralAbs(xi) + 1
+}
+
 // brownDennisBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func brownDennisBFGSCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisBFGSCentralBox) {}
 
 // brownDennisBFGSCentralSearchDirection is the direction's own.
-func brownDennisBFGSCentralSearchDirection(dir *brownDennisBFGSCentralDirection, x, g, d *[4]float64, b *brownDennisBFGSCentralBox) {
+func brownDennisBFGSCentralSearchDirection(dir *brownDennisBFGSCentralDirection, x, g, d *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
+	brownDennisBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// brownDennisBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func brownDennisBFGSCentralSolveDirection(dir *brownDennisBFGSCentralDirection, g, d *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // brownDennisBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownDennisBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownDennisBFGSCentralAbs(x[i]) + 1) / brownDennisBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisBFGSCentralStepScale(x[i]) / brownDennisBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float6
 			return brownDennisBFGSCentralLineResult{calls: calls, end: brownDennisBFGSCentralSearchOutOfBudget}
 		}
 		brownDennisBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownDennisBFGSCentralLinePoint{step: t, value: BrownDennis(xt)}
+		current := brownDennisBFGSCentralLinePoint{step: t, value: brownDennisBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownDennisBFGSCentralFinite(current.value) || current.value > fx+brownDennisBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

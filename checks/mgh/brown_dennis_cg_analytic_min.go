@@ -354,7 +354,7 @@ func (r *brownDennisCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownDennisCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownDennisCGAnalyticFinite(r.fx) || !brownDennisCGAnalyticFiniteVec(&r.x) {
 		r.out.status = BrownDennisCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownDennisCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves brownDennisCGAnalyticStageJudge next when the run
 // goes on.
 func (r *brownDennisCGAnalyticDescent) search() {
-	brownDennisCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownDennisCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownDennisCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !brownDennisCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownDennisCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownDennisCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownDennisCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(brownDennisCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type brownDennisCGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisCGAnalyticRoundingFloor)
 	bounds    brownDennisCGAnalyticBox
+	model     brownDennisCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (brownDennisCGAnalyticResidualModel for any other)
 }
+
+// brownDennisCGAnalyticResidualModel is brownDennisCGAnalyticResidualModel for any other objective: nothing.
+type brownDennisCGAnalyticResidualModel struct{}
 
 // brownDennisCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	brownDennisCGAnalyticVerifyPass    // a difference gradient passed the test
 	brownDennisCGAnalyticVerifyStall   // no step makes progress
 )
+
+// brownDennisCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownDennisCGAnalyticValue(x, g *[4]float64, diffs *brownDennisCGAnalyticDifferences) float64 {
+	return BrownDennis(x)
+}
 
 // brownDennisCGAnalyticFiniteVec reports whether every component of x is finite.
 func brownDennisCGAnalyticFiniteVec(x *[4]float64) bool {
@@ -865,33 +874,44 @@ func brownDennisCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 	return measure, floor
 }
 
-// brownDennisCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownDennisCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownDennisCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownDennisCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(brownDennisCGAnalyticAbs(s[i]) <= tol*(brownDennisCGAnalyticAbs(x[i])+1)) {
+		if !(brownDennisCGAnalyticAbs(s[i]) <= tol*brownDennisCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownDennisCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownDennisCGAnalyticStepScale(xi float64) float64 {
+	return brownDennisCGAnalyticAbs(xi) + 1
+}
+
 // brownDennisCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownDennisCGAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisCGAnalyticBox) {}
 
 // brownDennisCGAnalyticSearchDirection is the direction's own.
-func brownDennisCGAnalyticSearchDirection(dir *brownDennisCGAnalyticDirection, x, g, d *[4]float64, b *brownDennisCGAnalyticBox) {
+func brownDennisCGAnalyticSearchDirection(dir *brownDennisCGAnalyticDirection, x, g, d *[4]float64, diffs *brownDennisCGAnalyticDifferences) {
+	brownDennisCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// brownDennisCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func brownDennisCGAnalyticSolveDirection(dir *brownDennisCGAnalyticDirection, g, d *[4]float64, diffs *brownDennisCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // brownDennisCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownDennisCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownDennisCGAnalyticAbs(x[i]) + 1) / brownDennisCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisCGAnalyticStepScale(x[i]) / brownDennisCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64
 			return brownDennisCGAnalyticLineResult{calls: calls, end: brownDennisCGAnalyticSearchOutOfBudget}
 		}
 		brownDennisCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownDennisCGAnalyticLinePoint{step: t, value: BrownDennis(xt)}
+		current := brownDennisCGAnalyticLinePoint{step: t, value: brownDennisCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownDennisCGAnalyticFinite(current.value) || current.value > fx+brownDennisCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *brownDennisCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownDennisCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownDennisCGCentralFinite(r.fx) || !brownDennisCGCentralFiniteVec(&r.x) {
 		r.out.status = BrownDennisCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *brownDennisCGCentralDescent) judge() {
 // the gradient at the new point; it leaves brownDennisCGCentralStageJudge next when the run
 // goes on.
 func (r *brownDennisCGCentralDescent) search() {
-	brownDennisCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownDennisCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownDennisCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !brownDennisCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownDennisCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownDennisCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownDennisCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(brownDennisCGCentralStepInitial)
@@ -547,7 +547,11 @@ type brownDennisCGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisCGCentralRoundingFloor)
 	bounds    brownDennisCGCentralBox
+	model     brownDennisCGCentralResidualModel // a residual objective's residuals and Jacobian products (brownDennisCGCentralResidualModel for any other)
 }
+
+// brownDennisCGCentralResidualModel is brownDennisCGCentralResidualModel for any other objective: nothing.
+type brownDennisCGCentralResidualModel struct{}
 
 // brownDennisCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	brownDennisCGCentralVerifyPass    // a difference gradient passed the test
 	brownDennisCGCentralVerifyStall   // no step makes progress
 )
+
+// brownDennisCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownDennisCGCentralValue(x, g *[4]float64, diffs *brownDennisCGCentralDifferences) float64 {
+	return BrownDennis(x)
+}
 
 // brownDennisCGCentralFiniteVec reports whether every component of x is finite.
 func brownDennisCGCentralFiniteVec(x *[4]float64) bool {
@@ -1044,33 +1053,44 @@ func brownDennisCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measu
 	return measure, floor
 }
 
-// brownDennisCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownDennisCGCentralStepWithin is the step test: every |s_i| ≤ tol·brownDennisCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(brownDennisCGCentralAbs(s[i]) <= tol*(brownDennisCGCentralAbs(x[i])+1)) {
+		if !(brownDennisCGCentralAbs(s[i]) <= tol*brownDennisCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownDennisCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownDennisCGCentralStepScale(xi float64) float64 {
+	return brownDennisCGCentralAbs(xi) + 1
+}
+
 // brownDennisCGCentralCurvaturePair: without bounds the pair is used as it is.
 func brownDennisCGCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisCGCentralBox) {}
 
 // brownDennisCGCentralSearchDirection is the direction's own.
-func brownDennisCGCentralSearchDirection(dir *brownDennisCGCentralDirection, x, g, d *[4]float64, b *brownDennisCGCentralBox) {
+func brownDennisCGCentralSearchDirection(dir *brownDennisCGCentralDirection, x, g, d *[4]float64, diffs *brownDennisCGCentralDifferences) {
+	brownDennisCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// brownDennisCGCentralSolveDirection is the direction's own rule, from its memory.
+func brownDennisCGCentralSolveDirection(dir *brownDennisCGCentralDirection, g, d *[4]float64, diffs *brownDennisCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // brownDennisCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownDennisCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownDennisCGCentralAbs(x[i]) + 1) / brownDennisCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisCGCentralStepScale(x[i]) / brownDennisCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 			return brownDennisCGCentralLineResult{calls: calls, end: brownDennisCGCentralSearchOutOfBudget}
 		}
 		brownDennisCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownDennisCGCentralLinePoint{step: t, value: BrownDennis(xt)}
+		current := brownDennisCGCentralLinePoint{step: t, value: brownDennisCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownDennisCGCentralFinite(current.value) || current.value > fx+brownDennisCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

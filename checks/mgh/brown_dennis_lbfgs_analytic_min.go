@@ -355,7 +355,7 @@ func (r *brownDennisLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownDennisLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownDennisLBFGSAnalyticFinite(r.fx) || !brownDennisLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = BrownDennisLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *brownDennisLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves brownDennisLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *brownDennisLBFGSAnalyticDescent) search() {
-	brownDennisLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownDennisLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownDennisLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !brownDennisLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownDennisLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownDennisLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownDennisLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(brownDennisLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type brownDennisLBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisLBFGSAnalyticRoundingFloor)
 	bounds    brownDennisLBFGSAnalyticBox
+	model     brownDennisLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (brownDennisLBFGSAnalyticResidualModel for any other)
 }
+
+// brownDennisLBFGSAnalyticResidualModel is brownDennisLBFGSAnalyticResidualModel for any other objective: nothing.
+type brownDennisLBFGSAnalyticResidualModel struct{}
 
 // brownDennisLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last brownDennisLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	brownDennisLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	brownDennisLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// brownDennisLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownDennisLBFGSAnalyticValue(x, g *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) float64 {
+	return BrownDennis(x)
+}
 
 // brownDennisLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func brownDennisLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (m
 	return measure, floor
 }
 
-// brownDennisLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownDennisLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownDennisLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(brownDennisLBFGSAnalyticAbs(s[i]) <= tol*(brownDennisLBFGSAnalyticAbs(x[i])+1)) {
+		if !(brownDennisLBFGSAnalyticAbs(s[i]) <= tol*brownDennisLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownDennisLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownDennisLBFGSAnalyticStepScale(xi float64) float64 {
+	return brownDennisLBFGSAnalyticAbs(xi) + 1
+}
+
 // brownDennisLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownDennisLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisLBFGSAnalyticBox) {}
 
 // brownDennisLBFGSAnalyticSearchDirection is the direction's own.
-func brownDennisLBFGSAnalyticSearchDirection(dir *brownDennisLBFGSAnalyticDirection, x, g, d *[4]float64, b *brownDennisLBFGSAnalyticBox) {
+func brownDennisLBFGSAnalyticSearchDirection(dir *brownDennisLBFGSAnalyticDirection, x, g, d *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
+	brownDennisLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// brownDennisLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func brownDennisLBFGSAnalyticSolveDirection(dir *brownDennisLBFGSAnalyticDirection, g, d *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // brownDennisLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownDennisLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownDennisLBFGSAnalyticAbs(x[i]) + 1) / brownDennisLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisLBFGSAnalyticStepScale(x[i]) / brownDennisLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]floa
 			return brownDennisLBFGSAnalyticLineResult{calls: calls, end: brownDennisLBFGSAnalyticSearchOutOfBudget}
 		}
 		brownDennisLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownDennisLBFGSAnalyticLinePoint{step: t, value: BrownDennis(xt)}
+		current := brownDennisLBFGSAnalyticLinePoint{step: t, value: brownDennisLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownDennisLBFGSAnalyticFinite(current.value) || current.value > fx+brownDennisLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *brownDennisLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = BrownDennis(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = brownDennisLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !brownDennisLBFGSCentralFinite(r.fx) || !brownDennisLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = BrownDennisLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *brownDennisLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves brownDennisLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *brownDennisLBFGSCentralDescent) search() {
-	brownDennisLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	brownDennisLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownDennisLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !brownDennisLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		brownDennisLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		brownDennisLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownDennisLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(brownDennisLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type brownDennisLBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisLBFGSCentralRoundingFloor)
 	bounds    brownDennisLBFGSCentralBox
+	model     brownDennisLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (brownDennisLBFGSCentralResidualModel for any other)
 }
+
+// brownDennisLBFGSCentralResidualModel is brownDennisLBFGSCentralResidualModel for any other objective: nothing.
+type brownDennisLBFGSCentralResidualModel struct{}
 
 // brownDennisLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last brownDennisLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	brownDennisLBFGSCentralVerifyPass    // a difference gradient passed the test
 	brownDennisLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// brownDennisLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func brownDennisLBFGSCentralValue(x, g *[4]float64, diffs *brownDennisLBFGSCentralDifferences) float64 {
+	return BrownDennis(x)
+}
 
 // brownDennisLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (me
 	return measure, floor
 }
 
-// brownDennisLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// brownDennisLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownDennisLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*(brownDennisLBFGSCentralAbs(x[i])+1)) {
+		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*brownDennisLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// brownDennisLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func brownDennisLBFGSCentralStepScale(xi float64) float64 {
+	return brownDennisLBFGSCentralAbs(xi) + 1
+}
+
 // brownDennisLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func brownDennisLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisLBFGSCentralBox) {}
 
 // brownDennisLBFGSCentralSearchDirection is the direction's own.
-func brownDennisLBFGSCentralSearchDirection(dir *brownDennisLBFGSCentralDirection, x, g, d *[4]float64, b *brownDennisLBFGSCentralBox) {
+func brownDennisLBFGSCentralSearchDirection(dir *brownDennisLBFGSCentralDirection, x, g, d *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
+	brownDennisLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// brownDennisLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func brownDennisLBFGSCentralSolveDirection(dir *brownDennisLBFGSCentralDirection, g, d *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // brownDennisLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·brownDennisLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (brownDennisLBFGSCentralAbs(x[i]) + 1) / brownDennisLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisLBFGSCentralStepScale(x[i]) / brownDennisLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float
 			return brownDennisLBFGSCentralLineResult{calls: calls, end: brownDennisLBFGSCentralSearchOutOfBudget}
 		}
 		brownDennisLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := brownDennisLBFGSCentralLinePoint{step: t, value: BrownDennis(xt)}
+		current := brownDennisLBFGSCentralLinePoint{step: t, value: brownDennisLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !brownDennisLBFGSCentralFinite(current.value) || current.value > fx+brownDennisLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *gaussianBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gaussianBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gaussianBFGSAnalyticFinite(r.fx) || !gaussianBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = GaussianBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gaussianBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves gaussianBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *gaussianBFGSAnalyticDescent) search() {
-	gaussianBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gaussianBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gaussianBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !gaussianBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gaussianBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gaussianBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gaussianBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(gaussianBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type gaussianBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSAnalyticRoundingFloor)
 	bounds    gaussianBFGSAnalyticBox
+	model     gaussianBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (gaussianBFGSAnalyticResidualModel for any other)
 }
+
+// gaussianBFGSAnalyticResidualModel is gaussianBFGSAnalyticResidualModel for any other objective: nothing.
+type gaussianBFGSAnalyticResidualModel struct{}
 
 // gaussianBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	gaussianBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gaussianBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gaussianBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func gaussianBFGSAnalyticValue(x, g *[3]float64, diffs *gaussianBFGSAnalyticDifferences) float64 {
+	return Gaussian(x)
+}
 
 // gaussianBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measu
 	return measure, floor
 }
 
-// gaussianBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gaussianBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gaussianBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*(gaussianBFGSAnalyticAbs(x[i])+1)) {
+		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*gaussianBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gaussianBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gaussianBFGSAnalyticStepScale(xi float64) float64 {
+	return gaussianBFGSAnalyticAbs(xi) + 1
+}
+
 // gaussianBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gaussianBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianBFGSAnalyticBox) {}
 
 // gaussianBFGSAnalyticSearchDirection is the direction's own.
-func gaussianBFGSAnalyticSearchDirection(dir *gaussianBFGSAnalyticDirection, x, g, d *[3]float64, b *gaussianBFGSAnalyticBox) {
+func gaussianBFGSAnalyticSearchDirection(dir *gaussianBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
+	gaussianBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// gaussianBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func gaussianBFGSAnalyticSolveDirection(dir *gaussianBFGSAnalyticDirection, g, d *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // gaussianBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gaussianBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gaussianBFGSAnalyticAbs(x[i]) + 1) / gaussianBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianBFGSAnalyticStepScale(x[i]) / gaussianBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64,
 			return gaussianBFGSAnalyticLineResult{calls: calls, end: gaussianBFGSAnalyticSearchOutOfBudget}
 		}
 		gaussianBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gaussianBFGSAnalyticLinePoint{step: t, value: Gaussian(xt)}
+		current := gaussianBFGSAnalyticLinePoint{step: t, value: gaussianBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gaussianBFGSAnalyticFinite(current.value) || current.value > fx+gaussianBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *gaussianBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gaussianBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gaussianBFGSCentralFinite(r.fx) || !gaussianBFGSCentralFiniteVec(&r.x) {
 		r.out.status = GaussianBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gaussianBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves gaussianBFGSCentralStageJudge next when the run
 // goes on.
 func (r *gaussianBFGSCentralDescent) search() {
-	gaussianBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gaussianBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gaussianBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !gaussianBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gaussianBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gaussianBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gaussianBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(gaussianBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type gaussianBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSCentralRoundingFloor)
 	bounds    gaussianBFGSCentralBox
+	model     gaussianBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (gaussianBFGSCentralResidualModel for any other)
 }
+
+// gaussianBFGSCentralResidualModel is gaussianBFGSCentralResidualModel for any other objective: nothing.
+type gaussianBFGSCentralResidualModel struct{}
 
 // gaussianBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	gaussianBFGSCentralVerifyPass    // a difference gradient passed the test
 	gaussianBFGSCentralVerifyStall   // no step makes progress
 )
+
+// gaussianBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func gaussianBFGSCentralValue(x, g *[3]float64, diffs *gaussianBFGSCentralDifferences) float64 {
+	return Gaussian(x)
+}
 
 // gaussianBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 	return measure, floor
 }
 
-// gaussianBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gaussianBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gaussianBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gaussianBFGSCentralAbs(s[i]) <= tol*(gaussianBFGSCentralAbs(x[i])+1)) {
+		if !(gaussianBFGSCentralAbs(s[i]) <= tol*gaussianBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gaussianBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gaussianBFGSCentralStepScale(xi float64) float64 {
+	return gaussianBFGSCentralAbs(xi) + 1
+}
+
 // gaussianBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gaussianBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gaussianBFGSCentralBox) {}
 
 // gaussianBFGSCentralSearchDirection is the direction's own.
-func gaussianBFGSCentralSearchDirection(dir *gaussianBFGSCentralDirection, x, g, d *[3]float64, b *gaussianBFGSCentralBox) {
+func gaussianBFGSCentralSearchDirection(dir *gaussianBFGSCentralDirection, x, g, d *[3]float64, diffs *gaussianBFGSCentralDifferences) {
+	gaussianBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// gaussianBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func gaussianBFGSCentralSolveDirection(dir *gaussianBFGSCentralDirection, g, d *[3]float64, diffs *gaussianBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // gaussianBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gaussianBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gaussianBFGSCentralAbs(x[i]) + 1) / gaussianBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianBFGSCentralStepScale(x[i]) / gaussianBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, 
 			return gaussianBFGSCentralLineResult{calls: calls, end: gaussianBFGSCentralSearchOutOfBudget}
 		}
 		gaussianBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gaussianBFGSCentralLinePoint{step: t, value: Gaussian(xt)}
+		current := gaussianBFGSCentralLinePoint{step: t, value: gaussianBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gaussianBFGSCentralFinite(current.value) || current.value > fx+gaussianBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

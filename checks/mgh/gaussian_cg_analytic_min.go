@@ -354,7 +354,7 @@ func (r *gaussianCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gaussianCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gaussianCGAnalyticFinite(r.fx) || !gaussianCGAnalyticFiniteVec(&r.x) {
 		r.out.status = GaussianCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gaussianCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves gaussianCGAnalyticStageJudge next when the run
 // goes on.
 func (r *gaussianCGAnalyticDescent) search() {
-	gaussianCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gaussianCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gaussianCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !gaussianCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gaussianCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gaussianCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gaussianCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(gaussianCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type gaussianCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianCGAnalyticRoundingFloor)
 	bounds    gaussianCGAnalyticBox
+	model     gaussianCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (gaussianCGAnalyticResidualModel for any other)
 }
+
+// gaussianCGAnalyticResidualModel is gaussianCGAnalyticResidualModel for any other objective: nothing.
+type gaussianCGAnalyticResidualModel struct{}
 
 // gaussianCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	gaussianCGAnalyticVerifyPass    // a difference gradient passed the test
 	gaussianCGAnalyticVerifyStall   // no step makes progress
 )
+
+// gaussianCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func gaussianCGAnalyticValue(x, g *[3]float64, diffs *gaussianCGAnalyticDifferences) float64 {
+	return Gaussian(x)
+}
 
 // gaussianCGAnalyticFiniteVec reports whether every component of x is finite.
 func gaussianCGAnalyticFiniteVec(x *[3]float64) bool {
@@ -865,33 +874,44 @@ func gaussianCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 	return measure, floor
 }
 
-// gaussianCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gaussianCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·gaussianCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gaussianCGAnalyticAbs(s[i]) <= tol*(gaussianCGAnalyticAbs(x[i])+1)) {
+		if !(gaussianCGAnalyticAbs(s[i]) <= tol*gaussianCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gaussianCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gaussianCGAnalyticStepScale(xi float64) float64 {
+	return gaussianCGAnalyticAbs(xi) + 1
+}
+
 // gaussianCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gaussianCGAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianCGAnalyticBox) {}
 
 // gaussianCGAnalyticSearchDirection is the direction's own.
-func gaussianCGAnalyticSearchDirection(dir *gaussianCGAnalyticDirection, x, g, d *[3]float64, b *gaussianCGAnalyticBox) {
+func gaussianCGAnalyticSearchDirection(dir *gaussianCGAnalyticDirection, x, g, d *[3]float64, diffs *gaussianCGAnalyticDifferences) {
+	gaussianCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// gaussianCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func gaussianCGAnalyticSolveDirection(dir *gaussianCGAnalyticDirection, g, d *[3]float64, diffs *gaussianCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // gaussianCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gaussianCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gaussianCGAnalyticAbs(x[i]) + 1) / gaussianCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianCGAnalyticStepScale(x[i]) / gaussianCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, s
 			return gaussianCGAnalyticLineResult{calls: calls, end: gaussianCGAnalyticSearchOutOfBudget}
 		}
 		gaussianCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gaussianCGAnalyticLinePoint{step: t, value: Gaussian(xt)}
+		current := gaussianCGAnalyticLinePoint{step: t, value: gaussianCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gaussianCGAnalyticFinite(current.value) || current.value > fx+gaussianCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

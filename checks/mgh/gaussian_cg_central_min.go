@@ -354,7 +354,7 @@ func (r *gaussianCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gaussianCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gaussianCGCentralFinite(r.fx) || !gaussianCGCentralFiniteVec(&r.x) {
 		r.out.status = GaussianCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gaussianCGCentralDescent) judge() {
 // the gradient at the new point; it leaves gaussianCGCentralStageJudge next when the run
 // goes on.
 func (r *gaussianCGCentralDescent) search() {
-	gaussianCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gaussianCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gaussianCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !gaussianCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gaussianCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gaussianCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gaussianCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(gaussianCGCentralStepInitial)
@@ -547,7 +547,11 @@ type gaussianCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianCGCentralRoundingFloor)
 	bounds    gaussianCGCentralBox
+	model     gaussianCGCentralResidualModel // a residual objective's residuals and Jacobian products (gaussianCGCentralResidualModel for any other)
 }
+
+// gaussianCGCentralResidualModel is gaussianCGCentralResidualModel for any other objective: nothing.
+type gaussianCGCentralResidualModel struct{}
 
 // gaussianCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	gaussianCGCentralVerifyPass    // a difference gradient passed the test
 	gaussianCGCentralVerifyStall   // no step makes progress
 )
+
+// gaussianCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func gaussianCGCentralValue(x, g *[3]float64, diffs *gaussianCGCentralDifferences) float64 {
+	return Gaussian(x)
+}
 
 // gaussianCGCentralFiniteVec reports whether every component of x is finite.
 func gaussianCGCentralFiniteVec(x *[3]float64) bool {
@@ -1044,33 +1053,44 @@ func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// gaussianCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gaussianCGCentralStepWithin is the step test: every |s_i| ≤ tol·gaussianCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gaussianCGCentralAbs(s[i]) <= tol*(gaussianCGCentralAbs(x[i])+1)) {
+		if !(gaussianCGCentralAbs(s[i]) <= tol*gaussianCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gaussianCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gaussianCGCentralStepScale(xi float64) float64 {
+	return gaussianCGCentralAbs(xi) + 1
+}
+
 // gaussianCGCentralCurvaturePair: without bounds the pair is used as it is.
 func gaussianCGCentralCurvaturePair(s, y, x *[3]float64, b *gaussianCGCentralBox) {}
 
 // gaussianCGCentralSearchDirection is the direction's own.
-func gaussianCGCentralSearchDirection(dir *gaussianCGCentralDirection, x, g, d *[3]float64, b *gaussianCGCentralBox) {
+func gaussianCGCentralSearchDirection(dir *gaussianCGCentralDirection, x, g, d *[3]float64, diffs *gaussianCGCentralDifferences) {
+	gaussianCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// gaussianCGCentralSolveDirection is the direction's own rule, from its memory.
+func gaussianCGCentralSolveDirection(dir *gaussianCGCentralDirection, g, d *[3]float64, diffs *gaussianCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // gaussianCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gaussianCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gaussianCGCentralAbs(x[i]) + 1) / gaussianCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianCGCentralStepScale(x[i]) / gaussianCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func gaussianCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 			return gaussianCGCentralLineResult{calls: calls, end: gaussianCGCentralSearchOutOfBudget}
 		}
 		gaussianCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gaussianCGCentralLinePoint{step: t, value: Gaussian(xt)}
+		current := gaussianCGCentralLinePoint{step: t, value: gaussianCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gaussianCGCentralFinite(current.value) || current.value > fx+gaussianCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *gaussianLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gaussianLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gaussianLBFGSAnalyticFinite(r.fx) || !gaussianLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = GaussianLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *gaussianLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves gaussianLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *gaussianLBFGSAnalyticDescent) search() {
-	gaussianLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gaussianLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gaussianLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !gaussianLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gaussianLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gaussianLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gaussianLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(gaussianLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type gaussianLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianLBFGSAnalyticRoundingFloor)
 	bounds    gaussianLBFGSAnalyticBox
+	model     gaussianLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (gaussianLBFGSAnalyticResidualModel for any other)
 }
+
+// gaussianLBFGSAnalyticResidualModel is gaussianLBFGSAnalyticResidualModel for any other objective: nothing.
+type gaussianLBFGSAnalyticResidualModel struct{}
 
 // gaussianLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last gaussianLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	gaussianLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gaussianLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gaussianLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func gaussianLBFGSAnalyticValue(x, g *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) float64 {
+	return Gaussian(x)
+}
 
 // gaussianLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (meas
 	return measure, floor
 }
 
-// gaussianLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gaussianLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gaussianLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*(gaussianLBFGSAnalyticAbs(x[i])+1)) {
+		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*gaussianLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gaussianLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gaussianLBFGSAnalyticStepScale(xi float64) float64 {
+	return gaussianLBFGSAnalyticAbs(xi) + 1
+}
+
 // gaussianLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gaussianLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianLBFGSAnalyticBox) {}
 
 // gaussianLBFGSAnalyticSearchDirection is the direction's own.
-func gaussianLBFGSAnalyticSearchDirection(dir *gaussianLBFGSAnalyticDirection, x, g, d *[3]float64, b *gaussianLBFGSAnalyticBox) {
+func gaussianLBFGSAnalyticSearchDirection(dir *gaussianLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
+	gaussianLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// gaussianLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func gaussianLBFGSAnalyticSolveDirection(dir *gaussianLBFGSAnalyticDirection, g, d *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // gaussianLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gaussianLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gaussianLBFGSAnalyticAbs(x[i]) + 1) / gaussianLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianLBFGSAnalyticStepScale(x[i]) / gaussianLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64
 			return gaussianLBFGSAnalyticLineResult{calls: calls, end: gaussianLBFGSAnalyticSearchOutOfBudget}
 		}
 		gaussianLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gaussianLBFGSAnalyticLinePoint{step: t, value: Gaussian(xt)}
+		current := gaussianLBFGSAnalyticLinePoint{step: t, value: gaussianLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gaussianLBFGSAnalyticFinite(current.value) || current.value > fx+gaussianLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

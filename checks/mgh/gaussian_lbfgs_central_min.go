@@ -355,7 +355,7 @@ func (r *gaussianLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Gaussian(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gaussianLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gaussianLBFGSCentralFinite(r.fx) || !gaussianLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = GaussianLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *gaussianLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves gaussianLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *gaussianLBFGSCentralDescent) search() {
-	gaussianLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gaussianLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gaussianLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !gaussianLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gaussianLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gaussianLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gaussianLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(gaussianLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type gaussianLBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianLBFGSCentralRoundingFloor)
 	bounds    gaussianLBFGSCentralBox
+	model     gaussianLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (gaussianLBFGSCentralResidualModel for any other)
 }
+
+// gaussianLBFGSCentralResidualModel is gaussianLBFGSCentralResidualModel for any other objective: nothing.
+type gaussianLBFGSCentralResidualModel struct{}
 
 // gaussianLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last gaussianLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	gaussianLBFGSCentralVerifyPass    // a difference gradient passed the test
 	gaussianLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// gaussianLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func gaussianLBFGSCentralValue(x, g *[3]float64, diffs *gaussianLBFGSCentralDifferences) float64 {
+	return Gaussian(x)
+}
 
 // gaussianLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measu
 	return measure, floor
 }
 
-// gaussianLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gaussianLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gaussianLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*(gaussianLBFGSCentralAbs(x[i])+1)) {
+		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*gaussianLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gaussianLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gaussianLBFGSCentralStepScale(xi float64) float64 {
+	return gaussianLBFGSCentralAbs(xi) + 1
+}
+
 // gaussianLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gaussianLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gaussianLBFGSCentralBox) {}
 
 // gaussianLBFGSCentralSearchDirection is the direction's own.
-func gaussianLBFGSCentralSearchDirection(dir *gaussianLBFGSCentralDirection, x, g, d *[3]float64, b *gaussianLBFGSCentralBox) {
+func gaussianLBFGSCentralSearchDirection(dir *gaussianLBFGSCentralDirection, x, g, d *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
+	gaussianLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// gaussianLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func gaussianLBFGSCentralSolveDirection(dir *gaussianLBFGSCentralDirection, g, d *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // gaussianLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gaussianLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gaussianLBFGSCentralAbs(x[i]) + 1) / gaussianLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianLBFGSCentralStepScale(x[i]) / gaussianLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func gaussianLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64,
 			return gaussianLBFGSCentralLineResult{calls: calls, end: gaussianLBFGSCentralSearchOutOfBudget}
 		}
 		gaussianLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gaussianLBFGSCentralLinePoint{step: t, value: Gaussian(xt)}
+		current := gaussianLBFGSCentralLinePoint{step: t, value: gaussianLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gaussianLBFGSCentralFinite(current.value) || current.value > fx+gaussianLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

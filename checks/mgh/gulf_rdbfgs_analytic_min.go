@@ -354,7 +354,7 @@ func (r *gulfRDBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gulfRDBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gulfRDBFGSAnalyticFinite(r.fx) || !gulfRDBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = GulfRDBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gulfRDBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves gulfRDBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *gulfRDBFGSAnalyticDescent) search() {
-	gulfRDBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gulfRDBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !gulfRDBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gulfRDBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gulfRDBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(gulfRDBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type gulfRDBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSAnalyticRoundingFloor)
 	bounds    gulfRDBFGSAnalyticBox
+	model     gulfRDBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (gulfRDBFGSAnalyticResidualModel for any other)
 }
+
+// gulfRDBFGSAnalyticResidualModel is gulfRDBFGSAnalyticResidualModel for any other objective: nothing.
+type gulfRDBFGSAnalyticResidualModel struct{}
 
 // gulfRDBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	gulfRDBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gulfRDBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gulfRDBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func gulfRDBFGSAnalyticValue(x, g *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) float64 {
+	return GulfRD(x)
+}
 
 // gulfRDBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 	return measure, floor
 }
 
-// gulfRDBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gulfRDBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gulfRDBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*(gulfRDBFGSAnalyticAbs(x[i])+1)) {
+		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*gulfRDBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gulfRDBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gulfRDBFGSAnalyticStepScale(xi float64) float64 {
+	return gulfRDBFGSAnalyticAbs(xi) + 1
+}
+
 // gulfRDBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gulfRDBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDBFGSAnalyticBox) {}
 
 // gulfRDBFGSAnalyticSearchDirection is the direction's own.
-func gulfRDBFGSAnalyticSearchDirection(dir *gulfRDBFGSAnalyticDirection, x, g, d *[3]float64, b *gulfRDBFGSAnalyticBox) {
+func gulfRDBFGSAnalyticSearchDirection(dir *gulfRDBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
+	gulfRDBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// gulfRDBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func gulfRDBFGSAnalyticSolveDirection(dir *gulfRDBFGSAnalyticDirection, g, d *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // gulfRDBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gulfRDBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gulfRDBFGSAnalyticAbs(x[i]) + 1) / gulfRDBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDBFGSAnalyticStepScale(x[i]) / gulfRDBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, s
 			return gulfRDBFGSAnalyticLineResult{calls: calls, end: gulfRDBFGSAnalyticSearchOutOfBudget}
 		}
 		gulfRDBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gulfRDBFGSAnalyticLinePoint{step: t, value: GulfRD(xt)}
+		current := gulfRDBFGSAnalyticLinePoint{step: t, value: gulfRDBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gulfRDBFGSAnalyticFinite(current.value) || current.value > fx+gulfRDBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

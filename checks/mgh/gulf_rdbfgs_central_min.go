@@ -354,7 +354,7 @@ func (r *gulfRDBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gulfRDBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gulfRDBFGSCentralFinite(r.fx) || !gulfRDBFGSCentralFiniteVec(&r.x) {
 		r.out.status = GulfRDBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gulfRDBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves gulfRDBFGSCentralStageJudge next when the run
 // goes on.
 func (r *gulfRDBFGSCentralDescent) search() {
-	gulfRDBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gulfRDBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !gulfRDBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gulfRDBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gulfRDBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(gulfRDBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type gulfRDBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSCentralRoundingFloor)
 	bounds    gulfRDBFGSCentralBox
+	model     gulfRDBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (gulfRDBFGSCentralResidualModel for any other)
 }
+
+// gulfRDBFGSCentralResidualModel is gulfRDBFGSCentralResidualModel for any other objective: nothing.
+type gulfRDBFGSCentralResidualModel struct{}
 
 // gulfRDBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	gulfRDBFGSCentralVerifyPass    // a difference gradient passed the test
 	gulfRDBFGSCentralVerifyStall   // no step makes progress
 )
+
+// gulfRDBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func gulfRDBFGSCentralValue(x, g *[3]float64, diffs *gulfRDBFGSCentralDifferences) float64 {
+	return GulfRD(x)
+}
 
 // gulfRDBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// gulfRDBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gulfRDBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gulfRDBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*(gulfRDBFGSCentralAbs(x[i])+1)) {
+		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*gulfRDBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gulfRDBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gulfRDBFGSCentralStepScale(xi float64) float64 {
+	return gulfRDBFGSCentralAbs(xi) + 1
+}
+
 // gulfRDBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gulfRDBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDBFGSCentralBox) {}
 
 // gulfRDBFGSCentralSearchDirection is the direction's own.
-func gulfRDBFGSCentralSearchDirection(dir *gulfRDBFGSCentralDirection, x, g, d *[3]float64, b *gulfRDBFGSCentralBox) {
+func gulfRDBFGSCentralSearchDirection(dir *gulfRDBFGSCentralDirection, x, g, d *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
+	gulfRDBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// gulfRDBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func gulfRDBFGSCentralSolveDirection(dir *gulfRDBFGSCentralDirection, g, d *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // gulfRDBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gulfRDBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gulfRDBFGSCentralAbs(x[i]) + 1) / gulfRDBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDBFGSCentralStepScale(x[i]) / gulfRDBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 			return gulfRDBFGSCentralLineResult{calls: calls, end: gulfRDBFGSCentralSearchOutOfBudget}
 		}
 		gulfRDBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gulfRDBFGSCentralLinePoint{step: t, value: GulfRD(xt)}
+		current := gulfRDBFGSCentralLinePoint{step: t, value: gulfRDBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gulfRDBFGSCentralFinite(current.value) || current.value > fx+gulfRDBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *gulfRDCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gulfRDCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gulfRDCGAnalyticFinite(r.fx) || !gulfRDCGAnalyticFiniteVec(&r.x) {
 		r.out.status = GulfRDCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gulfRDCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves gulfRDCGAnalyticStageJudge next when the run
 // goes on.
 func (r *gulfRDCGAnalyticDescent) search() {
-	gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !gulfRDCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(gulfRDCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type gulfRDCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDCGAnalyticRoundingFloor)
 	bounds    gulfRDCGAnalyticBox
+	model     gulfRDCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (gulfRDCGAnalyticResidualModel for any other)
 }
+
+// gulfRDCGAnalyticResidualModel is gulfRDCGAnalyticResidualModel for any other objective: nothing.
+type gulfRDCGAnalyticResidualModel struct{}
 
 // gulfRDCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	gulfRDCGAnalyticVerifyPass    // a difference gradient passed the test
 	gulfRDCGAnalyticVerifyStall   // no step makes progress
 )
+
+// gulfRDCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func gulfRDCGAnalyticValue(x, g *[3]float64, diffs *gulfRDCGAnalyticDifferences) float64 {
+	return GulfRD(x)
+}
 
 // gulfRDCGAnalyticFiniteVec reports whether every component of x is finite.
 func gulfRDCGAnalyticFiniteVec(x *[3]float64) bool {
@@ -865,33 +874,44 @@ func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// gulfRDCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gulfRDCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·gulfRDCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*(gulfRDCGAnalyticAbs(x[i])+1)) {
+		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*gulfRDCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gulfRDCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gulfRDCGAnalyticStepScale(xi float64) float64 {
+	return gulfRDCGAnalyticAbs(xi) + 1
+}
+
 // gulfRDCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gulfRDCGAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDCGAnalyticBox) {}
 
 // gulfRDCGAnalyticSearchDirection is the direction's own.
-func gulfRDCGAnalyticSearchDirection(dir *gulfRDCGAnalyticDirection, x, g, d *[3]float64, b *gulfRDCGAnalyticBox) {
+func gulfRDCGAnalyticSearchDirection(dir *gulfRDCGAnalyticDirection, x, g, d *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
+	gulfRDCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// gulfRDCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func gulfRDCGAnalyticSolveDirection(dir *gulfRDCGAnalyticDirection, g, d *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // gulfRDCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gulfRDCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gulfRDCGAnalyticAbs(x[i]) + 1) / gulfRDCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDCGAnalyticStepScale(x[i]) / gulfRDCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slo
 			return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchOutOfBudget}
 		}
 		gulfRDCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gulfRDCGAnalyticLinePoint{step: t, value: GulfRD(xt)}
+		current := gulfRDCGAnalyticLinePoint{step: t, value: gulfRDCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gulfRDCGAnalyticFinite(current.value) || current.value > fx+gulfRDCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *gulfRDCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gulfRDCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gulfRDCGCentralFinite(r.fx) || !gulfRDCGCentralFiniteVec(&r.x) {
 		r.out.status = GulfRDCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *gulfRDCGCentralDescent) judge() {
 // the gradient at the new point; it leaves gulfRDCGCentralStageJudge next when the run
 // goes on.
 func (r *gulfRDCGCentralDescent) search() {
-	gulfRDCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gulfRDCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !gulfRDCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gulfRDCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gulfRDCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(gulfRDCGCentralStepInitial)
@@ -547,7 +547,11 @@ type gulfRDCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDCGCentralRoundingFloor)
 	bounds    gulfRDCGCentralBox
+	model     gulfRDCGCentralResidualModel // a residual objective's residuals and Jacobian products (gulfRDCGCentralResidualModel for any other)
 }
+
+// gulfRDCGCentralResidualModel is gulfRDCGCentralResidualModel for any other objective: nothing.
+type gulfRDCGCentralResidualModel struct{}
 
 // gulfRDCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	gulfRDCGCentralVerifyPass    // a difference gradient passed the test
 	gulfRDCGCentralVerifyStall   // no step makes progress
 )
+
+// gulfRDCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func gulfRDCGCentralValue(x, g *[3]float64, diffs *gulfRDCGCentralDifferences) float64 {
+	return GulfRD(x)
+}
 
 // gulfRDCGCentralFiniteVec reports whether every component of x is finite.
 func gulfRDCGCentralFiniteVec(x *[3]float64) bool {
@@ -1044,33 +1053,44 @@ func gulfRDCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, f
 	return measure, floor
 }
 
-// gulfRDCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gulfRDCGCentralStepWithin is the step test: every |s_i| ≤ tol·gulfRDCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gulfRDCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gulfRDCGCentralAbs(s[i]) <= tol*(gulfRDCGCentralAbs(x[i])+1)) {
+		if !(gulfRDCGCentralAbs(s[i]) <= tol*gulfRDCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gulfRDCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gulfRDCGCentralStepScale(xi float64) float64 {
+	return gulfRDCGCentralAbs(xi) + 1
+}
+
 // gulfRDCGCentralCurvaturePair: without bounds the pair is used as it is.
 func gulfRDCGCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDCGCentralBox) {}
 
 // gulfRDCGCentralSearchDirection is the direction's own.
-func gulfRDCGCentralSearchDirection(dir *gulfRDCGCentralDirection, x, g, d *[3]float64, b *gulfRDCGCentralBox) {
+func gulfRDCGCentralSearchDirection(dir *gulfRDCGCentralDirection, x, g, d *[3]float64, diffs *gulfRDCGCentralDifferences) {
+	gulfRDCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// gulfRDCGCentralSolveDirection is the direction's own rule, from its memory.
+func gulfRDCGCentralSolveDirection(dir *gulfRDCGCentralDirection, g, d *[3]float64, diffs *gulfRDCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // gulfRDCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gulfRDCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gulfRDCGCentralAbs(x[i]) + 1) / gulfRDCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDCGCentralStepScale(x[i]) / gulfRDCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slop
 			return gulfRDCGCentralLineResult{calls: calls, end: gulfRDCGCentralSearchOutOfBudget}
 		}
 		gulfRDCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gulfRDCGCentralLinePoint{step: t, value: GulfRD(xt)}
+		current := gulfRDCGCentralLinePoint{step: t, value: gulfRDCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gulfRDCGCentralFinite(current.value) || current.value > fx+gulfRDCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

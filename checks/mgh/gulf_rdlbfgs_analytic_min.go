@@ -355,7 +355,7 @@ func (r *gulfRDLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gulfRDLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gulfRDLBFGSAnalyticFinite(r.fx) || !gulfRDLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = GulfRDLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *gulfRDLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves gulfRDLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *gulfRDLBFGSAnalyticDescent) search() {
-	gulfRDLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gulfRDLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !gulfRDLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gulfRDLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gulfRDLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(gulfRDLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type gulfRDLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDLBFGSAnalyticRoundingFloor)
 	bounds    gulfRDLBFGSAnalyticBox
+	model     gulfRDLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (gulfRDLBFGSAnalyticResidualModel for any other)
 }
+
+// gulfRDLBFGSAnalyticResidualModel is gulfRDLBFGSAnalyticResidualModel for any other objective: nothing.
+type gulfRDLBFGSAnalyticResidualModel struct{}
 
 // gulfRDLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last gulfRDLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	gulfRDLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	gulfRDLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// gulfRDLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func gulfRDLBFGSAnalyticValue(x, g *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) float64 {
+	return GulfRD(x)
+}
 
 // gulfRDLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func gulfRDLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 	return measure, floor
 }
 
-// gulfRDLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gulfRDLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gulfRDLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gulfRDLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gulfRDLBFGSAnalyticAbs(s[i]) <= tol*(gulfRDLBFGSAnalyticAbs(x[i])+1)) {
+		if !(gulfRDLBFGSAnalyticAbs(s[i]) <= tol*gulfRDLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gulfRDLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gulfRDLBFGSAnalyticStepScale(xi float64) float64 {
+	return gulfRDLBFGSAnalyticAbs(xi) + 1
+}
+
 // gulfRDLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gulfRDLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDLBFGSAnalyticBox) {}
 
 // gulfRDLBFGSAnalyticSearchDirection is the direction's own.
-func gulfRDLBFGSAnalyticSearchDirection(dir *gulfRDLBFGSAnalyticDirection, x, g, d *[3]float64, b *gulfRDLBFGSAnalyticBox) {
+func gulfRDLBFGSAnalyticSearchDirection(dir *gulfRDLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
+	gulfRDLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// gulfRDLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func gulfRDLBFGSAnalyticSolveDirection(dir *gulfRDLBFGSAnalyticDirection, g, d *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // gulfRDLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gulfRDLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gulfRDLBFGSAnalyticAbs(x[i]) + 1) / gulfRDLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDLBFGSAnalyticStepScale(x[i]) / gulfRDLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, 
 			return gulfRDLBFGSAnalyticLineResult{calls: calls, end: gulfRDLBFGSAnalyticSearchOutOfBudget}
 		}
 		gulfRDLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gulfRDLBFGSAnalyticLinePoint{step: t, value: GulfRD(xt)}
+		current := gulfRDLBFGSAnalyticLinePoint{step: t, value: gulfRDLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gulfRDLBFGSAnalyticFinite(current.value) || current.value > fx+gulfRDLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

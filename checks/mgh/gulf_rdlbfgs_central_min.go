@@ -355,7 +355,7 @@ func (r *gulfRDLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GulfRD(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = gulfRDLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !gulfRDLBFGSCentralFinite(r.fx) || !gulfRDLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = GulfRDLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *gulfRDLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves gulfRDLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *gulfRDLBFGSCentralDescent) search() {
-	gulfRDLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	gulfRDLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !gulfRDLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		gulfRDLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		gulfRDLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(gulfRDLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type gulfRDLBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDLBFGSCentralRoundingFloor)
 	bounds    gulfRDLBFGSCentralBox
+	model     gulfRDLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (gulfRDLBFGSCentralResidualModel for any other)
 }
+
+// gulfRDLBFGSCentralResidualModel is gulfRDLBFGSCentralResidualModel for any other objective: nothing.
+type gulfRDLBFGSCentralResidualModel struct{}
 
 // gulfRDLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last gulfRDLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	gulfRDLBFGSCentralVerifyPass    // a difference gradient passed the test
 	gulfRDLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// gulfRDLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func gulfRDLBFGSCentralValue(x, g *[3]float64, diffs *gulfRDLBFGSCentralDifferences) float64 {
+	return GulfRD(x)
+}
 
 // gulfRDLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 	return measure, floor
 }
 
-// gulfRDLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// gulfRDLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gulfRDLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*(gulfRDLBFGSCentralAbs(x[i])+1)) {
+		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*gulfRDLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// gulfRDLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func gulfRDLBFGSCentralStepScale(xi float64) float64 {
+	return gulfRDLBFGSCentralAbs(xi) + 1
+}
+
 // gulfRDLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gulfRDLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDLBFGSCentralBox) {}
 
 // gulfRDLBFGSCentralSearchDirection is the direction's own.
-func gulfRDLBFGSCentralSearchDirection(dir *gulfRDLBFGSCentralDirection, x, g, d *[3]float64, b *gulfRDLBFGSCentralBox) {
+func gulfRDLBFGSCentralSearchDirection(dir *gulfRDLBFGSCentralDirection, x, g, d *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
+	gulfRDLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// gulfRDLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func gulfRDLBFGSCentralSolveDirection(dir *gulfRDLBFGSCentralDirection, g, d *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // gulfRDLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·gulfRDLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (gulfRDLBFGSCentralAbs(x[i]) + 1) / gulfRDLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDLBFGSCentralStepScale(x[i]) / gulfRDLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, s
 			return gulfRDLBFGSCentralLineResult{calls: calls, end: gulfRDLBFGSCentralSearchOutOfBudget}
 		}
 		gulfRDLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := gulfRDLBFGSCentralLinePoint{step: t, value: GulfRD(xt)}
+		current := gulfRDLBFGSCentralLinePoint{step: t, value: gulfRDLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !gulfRDLBFGSCentralFinite(current.value) || current.value > fx+gulfRDLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

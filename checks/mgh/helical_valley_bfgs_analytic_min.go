@@ -354,7 +354,7 @@ func (r *helicalValleyBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = helicalValleyBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !helicalValleyBFGSAnalyticFinite(r.fx) || !helicalValleyBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = HelicalValleyBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *helicalValleyBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves helicalValleyBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *helicalValleyBFGSAnalyticDescent) search() {
-	helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !helicalValleyBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(helicalValleyBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type helicalValleyBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyBFGSAnalyticRoundingFloor)
 	bounds    helicalValleyBFGSAnalyticBox
+	model     helicalValleyBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (helicalValleyBFGSAnalyticResidualModel for any other)
 }
+
+// helicalValleyBFGSAnalyticResidualModel is helicalValleyBFGSAnalyticResidualModel for any other objective: nothing.
+type helicalValleyBFGSAnalyticResidualModel struct{}
 
 // helicalValleyBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	helicalValleyBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	helicalValleyBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// helicalValleyBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func helicalValleyBFGSAnalyticValue(x, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
+	return HelicalValley(x)
+}
 
 // helicalValleyBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (
 	return measure, floor
 }
 
-// helicalValleyBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// helicalValleyBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·helicalValleyBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*(helicalValleyBFGSAnalyticAbs(x[i])+1)) {
+		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*helicalValleyBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// helicalValleyBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func helicalValleyBFGSAnalyticStepScale(xi float64) float64 {
+	return helicalValleyBFGSAnalyticAbs(xi) + 1
+}
+
 // helicalValleyBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyBFGSAnalyticBox) {}
 
 // helicalValleyBFGSAnalyticSearchDirection is the direction's own.
-func helicalValleyBFGSAnalyticSearchDirection(dir *helicalValleyBFGSAnalyticDirection, x, g, d *[3]float64, b *helicalValleyBFGSAnalyticBox) {
+func helicalValleyBFGSAnalyticSearchDirection(dir *helicalValleyBFGSAnalyticDirection, x, g, d *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
+	helicalValleyBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// helicalValleyBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func helicalValleyBFGSAnalyticSolveDirection(dir *helicalValleyBFGSAnalyticDirection, g, d *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // helicalValleyBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·helicalValleyBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (helicalValleyBFGSAnalyticAbs(x[i]) + 1) / helicalValleyBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyBFGSAnalyticStepScale(x[i]) / helicalValleyBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]flo
 			return helicalValleyBFGSAnalyticLineResult{calls: calls, end: helicalValleyBFGSAnalyticSearchOutOfBudget}
 		}
 		helicalValleyBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := helicalValleyBFGSAnalyticLinePoint{step: t, value: HelicalValley(xt)}
+		current := helicalValleyBFGSAnalyticLinePoint{step: t, value: helicalValleyBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !helicalValleyBFGSAnalyticFinite(current.value) || current.value > fx+helicalValleyBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

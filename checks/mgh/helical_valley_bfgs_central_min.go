@@ -354,7 +354,7 @@ func (r *helicalValleyBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = helicalValleyBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !helicalValleyBFGSCentralFinite(r.fx) || !helicalValleyBFGSCentralFiniteVec(&r.x) {
 		r.out.status = HelicalValleyBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *helicalValleyBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves helicalValleyBFGSCentralStageJudge next when the run
 // goes on.
 func (r *helicalValleyBFGSCentralDescent) search() {
-	helicalValleyBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	helicalValleyBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !helicalValleyBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		helicalValleyBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		helicalValleyBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(helicalValleyBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type helicalValleyBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyBFGSCentralRoundingFloor)
 	bounds    helicalValleyBFGSCentralBox
+	model     helicalValleyBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (helicalValleyBFGSCentralResidualModel for any other)
 }
+
+// helicalValleyBFGSCentralResidualModel is helicalValleyBFGSCentralResidualModel for any other objective: nothing.
+type helicalValleyBFGSCentralResidualModel struct{}
 
 // helicalValleyBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	helicalValleyBFGSCentralVerifyPass    // a difference gradient passed the test
 	helicalValleyBFGSCentralVerifyStall   // no step makes progress
 )
+
+// helicalValleyBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func helicalValleyBFGSCentralValue(x, g *[3]float64, diffs *helicalValleyBFGSCentralDifferences) float64 {
+	return HelicalValley(x)
+}
 
 // helicalValleyBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func helicalValleyBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (m
 	return measure, floor
 }
 
-// helicalValleyBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// helicalValleyBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·helicalValleyBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func helicalValleyBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(helicalValleyBFGSCentralAbs(s[i]) <= tol*(helicalValleyBFGSCentralAbs(x[i])+1)) {
+		if !(helicalValleyBFGSCentralAbs(s[i]) <= tol*helicalValleyBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// helicalValleyBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func helicalValleyBFGSCentralStepScale(xi float64) float64 {
+	return helicalValleyBFGSCentralAbs(xi) + 1
+}
+
 // helicalValleyBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyBFGSCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyBFGSCentralBox) {}
 
 // helicalValleyBFGSCentralSearchDirection is the direction's own.
-func helicalValleyBFGSCentralSearchDirection(dir *helicalValleyBFGSCentralDirection, x, g, d *[3]float64, b *helicalValleyBFGSCentralBox) {
+func helicalValleyBFGSCentralSearchDirection(dir *helicalValleyBFGSCentralDirection, x, g, d *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
+	helicalValleyBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// helicalValleyBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func helicalValleyBFGSCentralSolveDirection(dir *helicalValleyBFGSCentralDirection, g, d *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // helicalValleyBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·helicalValleyBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (helicalValleyBFGSCentralAbs(x[i]) + 1) / helicalValleyBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyBFGSCentralStepScale(x[i]) / helicalValleyBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]floa
 			return helicalValleyBFGSCentralLineResult{calls: calls, end: helicalValleyBFGSCentralSearchOutOfBudget}
 		}
 		helicalValleyBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := helicalValleyBFGSCentralLinePoint{step: t, value: HelicalValley(xt)}
+		current := helicalValleyBFGSCentralLinePoint{step: t, value: helicalValleyBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !helicalValleyBFGSCentralFinite(current.value) || current.value > fx+helicalValleyBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

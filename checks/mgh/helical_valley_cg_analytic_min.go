@@ -354,7 +354,7 @@ func (r *helicalValleyCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = helicalValleyCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !helicalValleyCGAnalyticFinite(r.fx) || !helicalValleyCGAnalyticFiniteVec(&r.x) {
 		r.out.status = HelicalValleyCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *helicalValleyCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves helicalValleyCGAnalyticStageJudge next when the run
 // goes on.
 func (r *helicalValleyCGAnalyticDescent) search() {
-	helicalValleyCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	helicalValleyCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !helicalValleyCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		helicalValleyCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		helicalValleyCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(helicalValleyCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type helicalValleyCGAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyCGAnalyticRoundingFloor)
 	bounds    helicalValleyCGAnalyticBox
+	model     helicalValleyCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (helicalValleyCGAnalyticResidualModel for any other)
 }
+
+// helicalValleyCGAnalyticResidualModel is helicalValleyCGAnalyticResidualModel for any other objective: nothing.
+type helicalValleyCGAnalyticResidualModel struct{}
 
 // helicalValleyCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	helicalValleyCGAnalyticVerifyPass    // a difference gradient passed the test
 	helicalValleyCGAnalyticVerifyStall   // no step makes progress
 )
+
+// helicalValleyCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func helicalValleyCGAnalyticValue(x, g *[3]float64, diffs *helicalValleyCGAnalyticDifferences) float64 {
+	return HelicalValley(x)
+}
 
 // helicalValleyCGAnalyticFiniteVec reports whether every component of x is finite.
 func helicalValleyCGAnalyticFiniteVec(x *[3]float64) bool {
@@ -865,33 +874,44 @@ func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (me
 	return measure, floor
 }
 
-// helicalValleyCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// helicalValleyCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·helicalValleyCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*(helicalValleyCGAnalyticAbs(x[i])+1)) {
+		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*helicalValleyCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// helicalValleyCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func helicalValleyCGAnalyticStepScale(xi float64) float64 {
+	return helicalValleyCGAnalyticAbs(xi) + 1
+}
+
 // helicalValleyCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyCGAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyCGAnalyticBox) {}
 
 // helicalValleyCGAnalyticSearchDirection is the direction's own.
-func helicalValleyCGAnalyticSearchDirection(dir *helicalValleyCGAnalyticDirection, x, g, d *[3]float64, b *helicalValleyCGAnalyticBox) {
+func helicalValleyCGAnalyticSearchDirection(dir *helicalValleyCGAnalyticDirection, x, g, d *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
+	helicalValleyCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// helicalValleyCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func helicalValleyCGAnalyticSolveDirection(dir *helicalValleyCGAnalyticDirection, g, d *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // helicalValleyCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·helicalValleyCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (helicalValleyCGAnalyticAbs(x[i]) + 1) / helicalValleyCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyCGAnalyticStepScale(x[i]) / helicalValleyCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float
 			return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchOutOfBudget}
 		}
 		helicalValleyCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := helicalValleyCGAnalyticLinePoint{step: t, value: HelicalValley(xt)}
+		current := helicalValleyCGAnalyticLinePoint{step: t, value: helicalValleyCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !helicalValleyCGAnalyticFinite(current.value) || current.value > fx+helicalValleyCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *helicalValleyCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = helicalValleyCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !helicalValleyCGCentralFinite(r.fx) || !helicalValleyCGCentralFiniteVec(&r.x) {
 		r.out.status = HelicalValleyCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *helicalValleyCGCentralDescent) judge() {
 // the gradient at the new point; it leaves helicalValleyCGCentralStageJudge next when the run
 // goes on.
 func (r *helicalValleyCGCentralDescent) search() {
-	helicalValleyCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	helicalValleyCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !helicalValleyCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		helicalValleyCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		helicalValleyCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(helicalValleyCGCentralStepInitial)
@@ -547,7 +547,11 @@ type helicalValleyCGCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyCGCentralRoundingFloor)
 	bounds    helicalValleyCGCentralBox
+	model     helicalValleyCGCentralResidualModel // a residual objective's residuals and Jacobian products (helicalValleyCGCentralResidualModel for any other)
 }
+
+// helicalValleyCGCentralResidualModel is helicalValleyCGCentralResidualModel for any other objective: nothing.
+type helicalValleyCGCentralResidualModel struct{}
 
 // helicalValleyCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	helicalValleyCGCentralVerifyPass    // a difference gradient passed the test
 	helicalValleyCGCentralVerifyStall   // no step makes progress
 )
+
+// helicalValleyCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func helicalValleyCGCentralValue(x, g *[3]float64, diffs *helicalValleyCGCentralDifferences) float64 {
+	return HelicalValley(x)
+}
 
 // helicalValleyCGCentralFiniteVec reports whether every component of x is finite.
 func helicalValleyCGCentralFiniteVec(x *[3]float64) bool {
@@ -1044,33 +1053,44 @@ func helicalValleyCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (mea
 	return measure, floor
 }
 
-// helicalValleyCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// helicalValleyCGCentralStepWithin is the step test: every |s_i| ≤ tol·helicalValleyCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(helicalValleyCGCentralAbs(s[i]) <= tol*(helicalValleyCGCentralAbs(x[i])+1)) {
+		if !(helicalValleyCGCentralAbs(s[i]) <= tol*helicalValleyCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// helicalValleyCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func helicalValleyCGCentralStepScale(xi float64) float64 {
+	return helicalValleyCGCentralAbs(xi) + 1
+}
+
 // helicalValleyCGCentralCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyCGCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyCGCentralBox) {}
 
 // helicalValleyCGCentralSearchDirection is the direction's own.
-func helicalValleyCGCentralSearchDirection(dir *helicalValleyCGCentralDirection, x, g, d *[3]float64, b *helicalValleyCGCentralBox) {
+func helicalValleyCGCentralSearchDirection(dir *helicalValleyCGCentralDirection, x, g, d *[3]float64, diffs *helicalValleyCGCentralDifferences) {
+	helicalValleyCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// helicalValleyCGCentralSolveDirection is the direction's own rule, from its memory.
+func helicalValleyCGCentralSolveDirection(dir *helicalValleyCGCentralDirection, g, d *[3]float64, diffs *helicalValleyCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // helicalValleyCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·helicalValleyCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (helicalValleyCGCentralAbs(x[i]) + 1) / helicalValleyCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyCGCentralStepScale(x[i]) / helicalValleyCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float6
 			return helicalValleyCGCentralLineResult{calls: calls, end: helicalValleyCGCentralSearchOutOfBudget}
 		}
 		helicalValleyCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := helicalValleyCGCentralLinePoint{step: t, value: HelicalValley(xt)}
+		current := helicalValleyCGCentralLinePoint{step: t, value: helicalValleyCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !helicalValleyCGCentralFinite(current.value) || current.value > fx+helicalValleyCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *helicalValleyLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = helicalValleyLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !helicalValleyLBFGSAnalyticFinite(r.fx) || !helicalValleyLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = HelicalValleyLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *helicalValleyLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves helicalValleyLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *helicalValleyLBFGSAnalyticDescent) search() {
-	helicalValleyLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	helicalValleyLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !helicalValleyLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		helicalValleyLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		helicalValleyLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(helicalValleyLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type helicalValleyLBFGSAnalyticDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyLBFGSAnalyticRoundingFloor)
 	bounds    helicalValleyLBFGSAnalyticBox
+	model     helicalValleyLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (helicalValleyLBFGSAnalyticResidualModel for any other)
 }
+
+// helicalValleyLBFGSAnalyticResidualModel is helicalValleyLBFGSAnalyticResidualModel for any other objective: nothing.
+type helicalValleyLBFGSAnalyticResidualModel struct{}
 
 // helicalValleyLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last helicalValleyLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	helicalValleyLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	helicalValleyLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// helicalValleyLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func helicalValleyLBFGSAnalyticValue(x, g *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) float64 {
+	return HelicalValley(x)
+}
 
 // helicalValleyLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func helicalValleyLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) 
 	return measure, floor
 }
 
-// helicalValleyLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// helicalValleyLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·helicalValleyLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func helicalValleyLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(helicalValleyLBFGSAnalyticAbs(s[i]) <= tol*(helicalValleyLBFGSAnalyticAbs(x[i])+1)) {
+		if !(helicalValleyLBFGSAnalyticAbs(s[i]) <= tol*helicalValleyLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// helicalValleyLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func helicalValleyLBFGSAnalyticStepScale(xi float64) float64 {
+	return helicalValleyLBFGSAnalyticAbs(xi) + 1
+}
+
 // helicalValleyLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyLBFGSAnalyticBox) {}
 
 // helicalValleyLBFGSAnalyticSearchDirection is the direction's own.
-func helicalValleyLBFGSAnalyticSearchDirection(dir *helicalValleyLBFGSAnalyticDirection, x, g, d *[3]float64, b *helicalValleyLBFGSAnalyticBox) {
+func helicalValleyLBFGSAnalyticSearchDirection(dir *helicalValleyLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
+	helicalValleyLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// helicalValleyLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func helicalValleyLBFGSAnalyticSolveDirection(dir *helicalValleyLBFGSAnalyticDirection, g, d *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // helicalValleyLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·helicalValleyLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (helicalValleyLBFGSAnalyticAbs(x[i]) + 1) / helicalValleyLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyLBFGSAnalyticStepScale(x[i]) / helicalValleyLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]fl
 			return helicalValleyLBFGSAnalyticLineResult{calls: calls, end: helicalValleyLBFGSAnalyticSearchOutOfBudget}
 		}
 		helicalValleyLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := helicalValleyLBFGSAnalyticLinePoint{step: t, value: HelicalValley(xt)}
+		current := helicalValleyLBFGSAnalyticLinePoint{step: t, value: helicalValleyLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !helicalValleyLBFGSAnalyticFinite(current.value) || current.value > fx+helicalValleyLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

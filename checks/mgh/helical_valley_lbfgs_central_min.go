@@ -355,7 +355,7 @@ func (r *helicalValleyLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = HelicalValley(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = helicalValleyLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !helicalValleyLBFGSCentralFinite(r.fx) || !helicalValleyLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = HelicalValleyLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *helicalValleyLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves helicalValleyLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *helicalValleyLBFGSCentralDescent) search() {
-	helicalValleyLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	helicalValleyLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !helicalValleyLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		helicalValleyLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		helicalValleyLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(helicalValleyLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type helicalValleyLBFGSCentralDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyLBFGSCentralRoundingFloor)
 	bounds    helicalValleyLBFGSCentralBox
+	model     helicalValleyLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (helicalValleyLBFGSCentralResidualModel for any other)
 }
+
+// helicalValleyLBFGSCentralResidualModel is helicalValleyLBFGSCentralResidualModel for any other objective: nothing.
+type helicalValleyLBFGSCentralResidualModel struct{}
 
 // helicalValleyLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last helicalValleyLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	helicalValleyLBFGSCentralVerifyPass    // a difference gradient passed the test
 	helicalValleyLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// helicalValleyLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func helicalValleyLBFGSCentralValue(x, g *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) float64 {
+	return HelicalValley(x)
+}
 
 // helicalValleyLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func helicalValleyLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (
 	return measure, floor
 }
 
-// helicalValleyLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// helicalValleyLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·helicalValleyLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func helicalValleyLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(helicalValleyLBFGSCentralAbs(s[i]) <= tol*(helicalValleyLBFGSCentralAbs(x[i])+1)) {
+		if !(helicalValleyLBFGSCentralAbs(s[i]) <= tol*helicalValleyLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// helicalValleyLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func helicalValleyLBFGSCentralStepScale(xi float64) float64 {
+	return helicalValleyLBFGSCentralAbs(xi) + 1
+}
+
 // helicalValleyLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyLBFGSCentralBox) {}
 
 // helicalValleyLBFGSCentralSearchDirection is the direction's own.
-func helicalValleyLBFGSCentralSearchDirection(dir *helicalValleyLBFGSCentralDirection, x, g, d *[3]float64, b *helicalValleyLBFGSCentralBox) {
+func helicalValleyLBFGSCentralSearchDirection(dir *helicalValleyLBFGSCentralDirection, x, g, d *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
+	helicalValleyLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// helicalValleyLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func helicalValleyLBFGSCentralSolveDirection(dir *helicalValleyLBFGSCentralDirection, g, d *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // helicalValleyLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·helicalValleyLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (helicalValleyLBFGSCentralAbs(x[i]) + 1) / helicalValleyLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyLBFGSCentralStepScale(x[i]) / helicalValleyLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func helicalValleyLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]flo
 			return helicalValleyLBFGSCentralLineResult{calls: calls, end: helicalValleyLBFGSCentralSearchOutOfBudget}
 		}
 		helicalValleyLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := helicalValleyLBFGSCentralLinePoint{step: t, value: HelicalValley(xt)}
+		current := helicalValleyLBFGSCentralLinePoint{step: t, value: helicalValleyLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !helicalValleyLBFGSCentralFinite(current.value) || current.value > fx+helicalValleyLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

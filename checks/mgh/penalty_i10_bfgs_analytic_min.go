@@ -354,7 +354,7 @@ func (r *penaltyI10BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI10BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI10BFGSAnalyticFinite(r.fx) || !penaltyI10BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyI10BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI10BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyI10BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyI10BFGSAnalyticDescent) search() {
-	penaltyI10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI10BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI10BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyI10BFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10BFGSAnalyticRoundingFloor)
 	bounds    penaltyI10BFGSAnalyticBox
+	model     penaltyI10BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyI10BFGSAnalyticResidualModel for any other)
 }
+
+// penaltyI10BFGSAnalyticResidualModel is penaltyI10BFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyI10BFGSAnalyticResidualModel struct{}
 
 // penaltyI10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyI10BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI10BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI10BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI10BFGSAnalyticValue(x, g *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) float64 {
+	return PenaltyI10(x)
+}
 
 // penaltyI10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func penaltyI10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (me
 	return measure, floor
 }
 
-// penaltyI10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI10BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI10BFGSAnalyticAbs(s[i]) <= tol*(penaltyI10BFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyI10BFGSAnalyticAbs(s[i]) <= tol*penaltyI10BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI10BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI10BFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyI10BFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyI10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10BFGSAnalyticBox) {}
 
 // penaltyI10BFGSAnalyticSearchDirection is the direction's own.
-func penaltyI10BFGSAnalyticSearchDirection(dir *penaltyI10BFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyI10BFGSAnalyticBox) {
+func penaltyI10BFGSAnalyticSearchDirection(dir *penaltyI10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
+	penaltyI10BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI10BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyI10BFGSAnalyticSolveDirection(dir *penaltyI10BFGSAnalyticDirection, g, d *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI10BFGSAnalyticAbs(x[i]) + 1) / penaltyI10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10BFGSAnalyticStepScale(x[i]) / penaltyI10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]floa
 			return penaltyI10BFGSAnalyticLineResult{calls: calls, end: penaltyI10BFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyI10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI10BFGSAnalyticLinePoint{step: t, value: PenaltyI10(xt)}
+		current := penaltyI10BFGSAnalyticLinePoint{step: t, value: penaltyI10BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI10BFGSAnalyticFinite(current.value) || current.value > fx+penaltyI10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

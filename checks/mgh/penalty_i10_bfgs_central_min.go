@@ -354,7 +354,7 @@ func (r *penaltyI10BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI10BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI10BFGSCentralFinite(r.fx) || !penaltyI10BFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyI10BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI10BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyI10BFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyI10BFGSCentralDescent) search() {
-	penaltyI10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI10BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI10BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyI10BFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10BFGSCentralRoundingFloor)
 	bounds    penaltyI10BFGSCentralBox
+	model     penaltyI10BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyI10BFGSCentralResidualModel for any other)
 }
+
+// penaltyI10BFGSCentralResidualModel is penaltyI10BFGSCentralResidualModel for any other objective: nothing.
+type penaltyI10BFGSCentralResidualModel struct{}
 
 // penaltyI10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyI10BFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyI10BFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyI10BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI10BFGSCentralValue(x, g *[10]float64, diffs *penaltyI10BFGSCentralDifferences) float64 {
+	return PenaltyI10(x)
+}
 
 // penaltyI10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func penaltyI10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (mea
 	return measure, floor
 }
 
-// penaltyI10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI10BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI10BFGSCentralAbs(s[i]) <= tol*(penaltyI10BFGSCentralAbs(x[i])+1)) {
+		if !(penaltyI10BFGSCentralAbs(s[i]) <= tol*penaltyI10BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI10BFGSCentralStepScale(xi float64) float64 {
+	return penaltyI10BFGSCentralAbs(xi) + 1
+}
+
 // penaltyI10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10BFGSCentralBox) {}
 
 // penaltyI10BFGSCentralSearchDirection is the direction's own.
-func penaltyI10BFGSCentralSearchDirection(dir *penaltyI10BFGSCentralDirection, x, g, d *[10]float64, b *penaltyI10BFGSCentralBox) {
+func penaltyI10BFGSCentralSearchDirection(dir *penaltyI10BFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyI10BFGSCentralDifferences) {
+	penaltyI10BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI10BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyI10BFGSCentralSolveDirection(dir *penaltyI10BFGSCentralDirection, g, d *[10]float64, diffs *penaltyI10BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI10BFGSCentralAbs(x[i]) + 1) / penaltyI10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10BFGSCentralStepScale(x[i]) / penaltyI10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func penaltyI10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float
 			return penaltyI10BFGSCentralLineResult{calls: calls, end: penaltyI10BFGSCentralSearchOutOfBudget}
 		}
 		penaltyI10BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI10BFGSCentralLinePoint{step: t, value: PenaltyI10(xt)}
+		current := penaltyI10BFGSCentralLinePoint{step: t, value: penaltyI10BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI10BFGSCentralFinite(current.value) || current.value > fx+penaltyI10BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyI10CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI10CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI10CGAnalyticFinite(r.fx) || !penaltyI10CGAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyI10CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI10CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyI10CGAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyI10CGAnalyticDescent) search() {
-	penaltyI10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI10CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI10CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyI10CGAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10CGAnalyticRoundingFloor)
 	bounds    penaltyI10CGAnalyticBox
+	model     penaltyI10CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyI10CGAnalyticResidualModel for any other)
 }
+
+// penaltyI10CGAnalyticResidualModel is penaltyI10CGAnalyticResidualModel for any other objective: nothing.
+type penaltyI10CGAnalyticResidualModel struct{}
 
 // penaltyI10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyI10CGAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI10CGAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI10CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI10CGAnalyticValue(x, g *[10]float64, diffs *penaltyI10CGAnalyticDifferences) float64 {
+	return PenaltyI10(x)
+}
 
 // penaltyI10CGAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyI10CGAnalyticFiniteVec(x *[10]float64) bool {
@@ -865,33 +874,44 @@ func penaltyI10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (meas
 	return measure, floor
 }
 
-// penaltyI10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI10CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI10CGAnalyticAbs(s[i]) <= tol*(penaltyI10CGAnalyticAbs(x[i])+1)) {
+		if !(penaltyI10CGAnalyticAbs(s[i]) <= tol*penaltyI10CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI10CGAnalyticStepScale(xi float64) float64 {
+	return penaltyI10CGAnalyticAbs(xi) + 1
+}
+
 // penaltyI10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10CGAnalyticBox) {}
 
 // penaltyI10CGAnalyticSearchDirection is the direction's own.
-func penaltyI10CGAnalyticSearchDirection(dir *penaltyI10CGAnalyticDirection, x, g, d *[10]float64, b *penaltyI10CGAnalyticBox) {
+func penaltyI10CGAnalyticSearchDirection(dir *penaltyI10CGAnalyticDirection, x, g, d *[10]float64, diffs *penaltyI10CGAnalyticDifferences) {
+	penaltyI10CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI10CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyI10CGAnalyticSolveDirection(dir *penaltyI10CGAnalyticDirection, g, d *[10]float64, diffs *penaltyI10CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI10CGAnalyticAbs(x[i]) + 1) / penaltyI10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10CGAnalyticStepScale(x[i]) / penaltyI10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 			return penaltyI10CGAnalyticLineResult{calls: calls, end: penaltyI10CGAnalyticSearchOutOfBudget}
 		}
 		penaltyI10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI10CGAnalyticLinePoint{step: t, value: PenaltyI10(xt)}
+		current := penaltyI10CGAnalyticLinePoint{step: t, value: penaltyI10CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI10CGAnalyticFinite(current.value) || current.value > fx+penaltyI10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyI10CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI10CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI10CGCentralFinite(r.fx) || !penaltyI10CGCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyI10CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI10CGCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyI10CGCentralStageJudge next when the run
 // goes on.
 func (r *penaltyI10CGCentralDescent) search() {
-	penaltyI10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI10CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI10CGCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyI10CGCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10CGCentralRoundingFloor)
 	bounds    penaltyI10CGCentralBox
+	model     penaltyI10CGCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyI10CGCentralResidualModel for any other)
 }
+
+// penaltyI10CGCentralResidualModel is penaltyI10CGCentralResidualModel for any other objective: nothing.
+type penaltyI10CGCentralResidualModel struct{}
 
 // penaltyI10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyI10CGCentralVerifyPass    // a difference gradient passed the test
 	penaltyI10CGCentralVerifyStall   // no step makes progress
 )
+
+// penaltyI10CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI10CGCentralValue(x, g *[10]float64, diffs *penaltyI10CGCentralDifferences) float64 {
+	return PenaltyI10(x)
+}
 
 // penaltyI10CGCentralFiniteVec reports whether every component of x is finite.
 func penaltyI10CGCentralFiniteVec(x *[10]float64) bool {
@@ -1044,33 +1053,44 @@ func penaltyI10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measu
 	return measure, floor
 }
 
-// penaltyI10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI10CGCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI10CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI10CGCentralAbs(s[i]) <= tol*(penaltyI10CGCentralAbs(x[i])+1)) {
+		if !(penaltyI10CGCentralAbs(s[i]) <= tol*penaltyI10CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI10CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI10CGCentralStepScale(xi float64) float64 {
+	return penaltyI10CGCentralAbs(xi) + 1
+}
+
 // penaltyI10CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10CGCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10CGCentralBox) {}
 
 // penaltyI10CGCentralSearchDirection is the direction's own.
-func penaltyI10CGCentralSearchDirection(dir *penaltyI10CGCentralDirection, x, g, d *[10]float64, b *penaltyI10CGCentralBox) {
+func penaltyI10CGCentralSearchDirection(dir *penaltyI10CGCentralDirection, x, g, d *[10]float64, diffs *penaltyI10CGCentralDifferences) {
+	penaltyI10CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI10CGCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyI10CGCentralSolveDirection(dir *penaltyI10CGCentralDirection, g, d *[10]float64, diffs *penaltyI10CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI10CGCentralAbs(x[i]) + 1) / penaltyI10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10CGCentralStepScale(x[i]) / penaltyI10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64
 			return penaltyI10CGCentralLineResult{calls: calls, end: penaltyI10CGCentralSearchOutOfBudget}
 		}
 		penaltyI10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI10CGCentralLinePoint{step: t, value: PenaltyI10(xt)}
+		current := penaltyI10CGCentralLinePoint{step: t, value: penaltyI10CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI10CGCentralFinite(current.value) || current.value > fx+penaltyI10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *penaltyI10LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI10LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI10LBFGSAnalyticFinite(r.fx) || !penaltyI10LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyI10LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyI10LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyI10LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyI10LBFGSAnalyticDescent) search() {
-	penaltyI10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI10LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI10LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type penaltyI10LBFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10LBFGSAnalyticRoundingFloor)
 	bounds    penaltyI10LBFGSAnalyticBox
+	model     penaltyI10LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyI10LBFGSAnalyticResidualModel for any other)
 }
+
+// penaltyI10LBFGSAnalyticResidualModel is penaltyI10LBFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyI10LBFGSAnalyticResidualModel struct{}
 
 // penaltyI10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyI10LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyI10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI10LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI10LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI10LBFGSAnalyticValue(x, g *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) float64 {
+	return PenaltyI10(x)
+}
 
 // penaltyI10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func penaltyI10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (m
 	return measure, floor
 }
 
-// penaltyI10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI10LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI10LBFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyI10LBFGSAnalyticAbs(s[i]) <= tol*penaltyI10LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI10LBFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyI10LBFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyI10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10LBFGSAnalyticBox) {}
 
 // penaltyI10LBFGSAnalyticSearchDirection is the direction's own.
-func penaltyI10LBFGSAnalyticSearchDirection(dir *penaltyI10LBFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyI10LBFGSAnalyticBox) {
+func penaltyI10LBFGSAnalyticSearchDirection(dir *penaltyI10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
+	penaltyI10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI10LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyI10LBFGSAnalyticSolveDirection(dir *penaltyI10LBFGSAnalyticDirection, g, d *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI10LBFGSAnalyticAbs(x[i]) + 1) / penaltyI10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10LBFGSAnalyticStepScale(x[i]) / penaltyI10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]flo
 			return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyI10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI10LBFGSAnalyticLinePoint{step: t, value: PenaltyI10(xt)}
+		current := penaltyI10LBFGSAnalyticLinePoint{step: t, value: penaltyI10LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI10LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyI10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *penaltyI10LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI10LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI10LBFGSCentralFinite(r.fx) || !penaltyI10LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyI10LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyI10LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyI10LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyI10LBFGSCentralDescent) search() {
-	penaltyI10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI10LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI10LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type penaltyI10LBFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10LBFGSCentralRoundingFloor)
 	bounds    penaltyI10LBFGSCentralBox
+	model     penaltyI10LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyI10LBFGSCentralResidualModel for any other)
 }
+
+// penaltyI10LBFGSCentralResidualModel is penaltyI10LBFGSCentralResidualModel for any other objective: nothing.
+type penaltyI10LBFGSCentralResidualModel struct{}
 
 // penaltyI10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyI10LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyI10LBFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyI10LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyI10LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI10LBFGSCentralValue(x, g *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) float64 {
+	return PenaltyI10(x)
+}
 
 // penaltyI10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func penaltyI10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (me
 	return measure, floor
 }
 
-// penaltyI10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI10LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*(penaltyI10LBFGSCentralAbs(x[i])+1)) {
+		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*penaltyI10LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI10LBFGSCentralStepScale(xi float64) float64 {
+	return penaltyI10LBFGSCentralAbs(xi) + 1
+}
+
 // penaltyI10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10LBFGSCentralBox) {}
 
 // penaltyI10LBFGSCentralSearchDirection is the direction's own.
-func penaltyI10LBFGSCentralSearchDirection(dir *penaltyI10LBFGSCentralDirection, x, g, d *[10]float64, b *penaltyI10LBFGSCentralBox) {
+func penaltyI10LBFGSCentralSearchDirection(dir *penaltyI10LBFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) {
+	penaltyI10LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI10LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyI10LBFGSCentralSolveDirection(dir *penaltyI10LBFGSCentralDirection, g, d *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI10LBFGSCentralAbs(x[i]) + 1) / penaltyI10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10LBFGSCentralStepScale(x[i]) / penaltyI10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]floa
 			return penaltyI10LBFGSCentralLineResult{calls: calls, end: penaltyI10LBFGSCentralSearchOutOfBudget}
 		}
 		penaltyI10LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI10LBFGSCentralLinePoint{step: t, value: PenaltyI10(xt)}
+		current := penaltyI10LBFGSCentralLinePoint{step: t, value: penaltyI10LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI10LBFGSCentralFinite(current.value) || current.value > fx+penaltyI10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyI4BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI4BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI4BFGSAnalyticFinite(r.fx) || !penaltyI4BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyI4BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI4BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyI4BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyI4BFGSAnalyticDescent) search() {
-	penaltyI4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI4BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI4BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyI4BFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSAnalyticRoundingFloor)
 	bounds    penaltyI4BFGSAnalyticBox
+	model     penaltyI4BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyI4BFGSAnalyticResidualModel for any other)
 }
+
+// penaltyI4BFGSAnalyticResidualModel is penaltyI4BFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyI4BFGSAnalyticResidualModel struct{}
 
 // penaltyI4BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyI4BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI4BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI4BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI4BFGSAnalyticValue(x, g *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) float64 {
+	return PenaltyI4(x)
+}
 
 // penaltyI4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 	return measure, floor
 }
 
-// penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI4BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*(penaltyI4BFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*penaltyI4BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI4BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI4BFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyI4BFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyI4BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4BFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4BFGSAnalyticBox) {}
 
 // penaltyI4BFGSAnalyticSearchDirection is the direction's own.
-func penaltyI4BFGSAnalyticSearchDirection(dir *penaltyI4BFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyI4BFGSAnalyticBox) {
+func penaltyI4BFGSAnalyticSearchDirection(dir *penaltyI4BFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
+	penaltyI4BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI4BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyI4BFGSAnalyticSolveDirection(dir *penaltyI4BFGSAnalyticDirection, g, d *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI4BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI4BFGSAnalyticAbs(x[i]) + 1) / penaltyI4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4BFGSAnalyticStepScale(x[i]) / penaltyI4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64
 			return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyI4BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI4BFGSAnalyticLinePoint{step: t, value: PenaltyI4(xt)}
+		current := penaltyI4BFGSAnalyticLinePoint{step: t, value: penaltyI4BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI4BFGSAnalyticFinite(current.value) || current.value > fx+penaltyI4BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

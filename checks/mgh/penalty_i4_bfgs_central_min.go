@@ -354,7 +354,7 @@ func (r *penaltyI4BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI4BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI4BFGSCentralFinite(r.fx) || !penaltyI4BFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyI4BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI4BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyI4BFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyI4BFGSCentralDescent) search() {
-	penaltyI4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI4BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI4BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyI4BFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSCentralRoundingFloor)
 	bounds    penaltyI4BFGSCentralBox
+	model     penaltyI4BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyI4BFGSCentralResidualModel for any other)
 }
+
+// penaltyI4BFGSCentralResidualModel is penaltyI4BFGSCentralResidualModel for any other objective: nothing.
+type penaltyI4BFGSCentralResidualModel struct{}
 
 // penaltyI4BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyI4BFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyI4BFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyI4BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI4BFGSCentralValue(x, g *[4]float64, diffs *penaltyI4BFGSCentralDifferences) float64 {
+	return PenaltyI4(x)
+}
 
 // penaltyI4BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measu
 	return measure, floor
 }
 
-// penaltyI4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI4BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*(penaltyI4BFGSCentralAbs(x[i])+1)) {
+		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*penaltyI4BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI4BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI4BFGSCentralStepScale(xi float64) float64 {
+	return penaltyI4BFGSCentralAbs(xi) + 1
+}
+
 // penaltyI4BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4BFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4BFGSCentralBox) {}
 
 // penaltyI4BFGSCentralSearchDirection is the direction's own.
-func penaltyI4BFGSCentralSearchDirection(dir *penaltyI4BFGSCentralDirection, x, g, d *[4]float64, b *penaltyI4BFGSCentralBox) {
+func penaltyI4BFGSCentralSearchDirection(dir *penaltyI4BFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
+	penaltyI4BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI4BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyI4BFGSCentralSolveDirection(dir *penaltyI4BFGSCentralDirection, g, d *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI4BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI4BFGSCentralAbs(x[i]) + 1) / penaltyI4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4BFGSCentralStepScale(x[i]) / penaltyI4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 			return penaltyI4BFGSCentralLineResult{calls: calls, end: penaltyI4BFGSCentralSearchOutOfBudget}
 		}
 		penaltyI4BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI4BFGSCentralLinePoint{step: t, value: PenaltyI4(xt)}
+		current := penaltyI4BFGSCentralLinePoint{step: t, value: penaltyI4BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI4BFGSCentralFinite(current.value) || current.value > fx+penaltyI4BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyI4CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI4CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI4CGAnalyticFinite(r.fx) || !penaltyI4CGAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyI4CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI4CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyI4CGAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyI4CGAnalyticDescent) search() {
-	penaltyI4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI4CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI4CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyI4CGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4CGAnalyticRoundingFloor)
 	bounds    penaltyI4CGAnalyticBox
+	model     penaltyI4CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyI4CGAnalyticResidualModel for any other)
 }
+
+// penaltyI4CGAnalyticResidualModel is penaltyI4CGAnalyticResidualModel for any other objective: nothing.
+type penaltyI4CGAnalyticResidualModel struct{}
 
 // penaltyI4CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyI4CGAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI4CGAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI4CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI4CGAnalyticValue(x, g *[4]float64, diffs *penaltyI4CGAnalyticDifferences) float64 {
+	return PenaltyI4(x)
+}
 
 // penaltyI4CGAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyI4CGAnalyticFiniteVec(x *[4]float64) bool {
@@ -865,33 +874,44 @@ func penaltyI4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measur
 	return measure, floor
 }
 
-// penaltyI4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI4CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*(penaltyI4CGAnalyticAbs(x[i])+1)) {
+		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*penaltyI4CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI4CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI4CGAnalyticStepScale(xi float64) float64 {
+	return penaltyI4CGAnalyticAbs(xi) + 1
+}
+
 // penaltyI4CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4CGAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4CGAnalyticBox) {}
 
 // penaltyI4CGAnalyticSearchDirection is the direction's own.
-func penaltyI4CGAnalyticSearchDirection(dir *penaltyI4CGAnalyticDirection, x, g, d *[4]float64, b *penaltyI4CGAnalyticBox) {
+func penaltyI4CGAnalyticSearchDirection(dir *penaltyI4CGAnalyticDirection, x, g, d *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
+	penaltyI4CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI4CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyI4CGAnalyticSolveDirection(dir *penaltyI4CGAnalyticDirection, g, d *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI4CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI4CGAnalyticAbs(x[i]) + 1) / penaltyI4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4CGAnalyticStepScale(x[i]) / penaltyI4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, 
 			return penaltyI4CGAnalyticLineResult{calls: calls, end: penaltyI4CGAnalyticSearchOutOfBudget}
 		}
 		penaltyI4CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI4CGAnalyticLinePoint{step: t, value: PenaltyI4(xt)}
+		current := penaltyI4CGAnalyticLinePoint{step: t, value: penaltyI4CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI4CGAnalyticFinite(current.value) || current.value > fx+penaltyI4CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyI4CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI4CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI4CGCentralFinite(r.fx) || !penaltyI4CGCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyI4CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyI4CGCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyI4CGCentralStageJudge next when the run
 // goes on.
 func (r *penaltyI4CGCentralDescent) search() {
-	penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI4CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI4CGCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyI4CGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4CGCentralRoundingFloor)
 	bounds    penaltyI4CGCentralBox
+	model     penaltyI4CGCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyI4CGCentralResidualModel for any other)
 }
+
+// penaltyI4CGCentralResidualModel is penaltyI4CGCentralResidualModel for any other objective: nothing.
+type penaltyI4CGCentralResidualModel struct{}
 
 // penaltyI4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyI4CGCentralVerifyPass    // a difference gradient passed the test
 	penaltyI4CGCentralVerifyStall   // no step makes progress
 )
+
+// penaltyI4CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI4CGCentralValue(x, g *[4]float64, diffs *penaltyI4CGCentralDifferences) float64 {
+	return PenaltyI4(x)
+}
 
 // penaltyI4CGCentralFiniteVec reports whether every component of x is finite.
 func penaltyI4CGCentralFiniteVec(x *[4]float64) bool {
@@ -1044,33 +1053,44 @@ func penaltyI4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure
 	return measure, floor
 }
 
-// penaltyI4CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI4CGCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI4CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI4CGCentralAbs(s[i]) <= tol*(penaltyI4CGCentralAbs(x[i])+1)) {
+		if !(penaltyI4CGCentralAbs(s[i]) <= tol*penaltyI4CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI4CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI4CGCentralStepScale(xi float64) float64 {
+	return penaltyI4CGCentralAbs(xi) + 1
+}
+
 // penaltyI4CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4CGCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4CGCentralBox) {}
 
 // penaltyI4CGCentralSearchDirection is the direction's own.
-func penaltyI4CGCentralSearchDirection(dir *penaltyI4CGCentralDirection, x, g, d *[4]float64, b *penaltyI4CGCentralBox) {
+func penaltyI4CGCentralSearchDirection(dir *penaltyI4CGCentralDirection, x, g, d *[4]float64, diffs *penaltyI4CGCentralDifferences) {
+	penaltyI4CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI4CGCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyI4CGCentralSolveDirection(dir *penaltyI4CGCentralDirection, g, d *[4]float64, diffs *penaltyI4CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI4CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI4CGCentralAbs(x[i]) + 1) / penaltyI4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4CGCentralStepScale(x[i]) / penaltyI4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, s
 			return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralSearchOutOfBudget}
 		}
 		penaltyI4CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI4CGCentralLinePoint{step: t, value: PenaltyI4(xt)}
+		current := penaltyI4CGCentralLinePoint{step: t, value: penaltyI4CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI4CGCentralFinite(current.value) || current.value > fx+penaltyI4CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

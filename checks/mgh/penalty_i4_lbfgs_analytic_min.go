@@ -355,7 +355,7 @@ func (r *penaltyI4LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI4LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI4LBFGSAnalyticFinite(r.fx) || !penaltyI4LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyI4LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyI4LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyI4LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyI4LBFGSAnalyticDescent) search() {
-	penaltyI4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI4LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI4LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type penaltyI4LBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSAnalyticRoundingFloor)
 	bounds    penaltyI4LBFGSAnalyticBox
+	model     penaltyI4LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyI4LBFGSAnalyticResidualModel for any other)
 }
+
+// penaltyI4LBFGSAnalyticResidualModel is penaltyI4LBFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyI4LBFGSAnalyticResidualModel struct{}
 
 // penaltyI4LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyI4LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyI4LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyI4LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyI4LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI4LBFGSAnalyticValue(x, g *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) float64 {
+	return PenaltyI4(x)
+}
 
 // penaltyI4LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 	return measure, floor
 }
 
-// penaltyI4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI4LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI4LBFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI4LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI4LBFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyI4LBFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyI4LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4LBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4LBFGSAnalyticBox) {}
 
 // penaltyI4LBFGSAnalyticSearchDirection is the direction's own.
-func penaltyI4LBFGSAnalyticSearchDirection(dir *penaltyI4LBFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyI4LBFGSAnalyticBox) {
+func penaltyI4LBFGSAnalyticSearchDirection(dir *penaltyI4LBFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
+	penaltyI4LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI4LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyI4LBFGSAnalyticSolveDirection(dir *penaltyI4LBFGSAnalyticDirection, g, d *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI4LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI4LBFGSAnalyticAbs(x[i]) + 1) / penaltyI4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[i]) / penaltyI4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float6
 			return penaltyI4LBFGSAnalyticLineResult{calls: calls, end: penaltyI4LBFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyI4LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI4LBFGSAnalyticLinePoint{step: t, value: PenaltyI4(xt)}
+		current := penaltyI4LBFGSAnalyticLinePoint{step: t, value: penaltyI4LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI4LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyI4LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

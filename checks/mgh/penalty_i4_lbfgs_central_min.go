@@ -355,7 +355,7 @@ func (r *penaltyI4LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyI4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyI4LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyI4LBFGSCentralFinite(r.fx) || !penaltyI4LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyI4LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyI4LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyI4LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyI4LBFGSCentralDescent) search() {
-	penaltyI4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyI4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyI4LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyI4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyI4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyI4LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type penaltyI4LBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSCentralRoundingFloor)
 	bounds    penaltyI4LBFGSCentralBox
+	model     penaltyI4LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyI4LBFGSCentralResidualModel for any other)
 }
+
+// penaltyI4LBFGSCentralResidualModel is penaltyI4LBFGSCentralResidualModel for any other objective: nothing.
+type penaltyI4LBFGSCentralResidualModel struct{}
 
 // penaltyI4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyI4LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyI4LBFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyI4LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyI4LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyI4LBFGSCentralValue(x, g *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) float64 {
+	return PenaltyI4(x)
+}
 
 // penaltyI4LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func penaltyI4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 	return measure, floor
 }
 
-// penaltyI4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyI4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI4LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyI4LBFGSCentralAbs(s[i]) <= tol*(penaltyI4LBFGSCentralAbs(x[i])+1)) {
+		if !(penaltyI4LBFGSCentralAbs(s[i]) <= tol*penaltyI4LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyI4LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyI4LBFGSCentralStepScale(xi float64) float64 {
+	return penaltyI4LBFGSCentralAbs(xi) + 1
+}
+
 // penaltyI4LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4LBFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4LBFGSCentralBox) {}
 
 // penaltyI4LBFGSCentralSearchDirection is the direction's own.
-func penaltyI4LBFGSCentralSearchDirection(dir *penaltyI4LBFGSCentralDirection, x, g, d *[4]float64, b *penaltyI4LBFGSCentralBox) {
+func penaltyI4LBFGSCentralSearchDirection(dir *penaltyI4LBFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
+	penaltyI4LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyI4LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyI4LBFGSCentralSolveDirection(dir *penaltyI4LBFGSCentralDirection, g, d *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyI4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyI4LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyI4LBFGSCentralAbs(x[i]) + 1) / penaltyI4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4LBFGSCentralStepScale(x[i]) / penaltyI4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64
 			return penaltyI4LBFGSCentralLineResult{calls: calls, end: penaltyI4LBFGSCentralSearchOutOfBudget}
 		}
 		penaltyI4LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyI4LBFGSCentralLinePoint{step: t, value: PenaltyI4(xt)}
+		current := penaltyI4LBFGSCentralLinePoint{step: t, value: penaltyI4LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyI4LBFGSCentralFinite(current.value) || current.value > fx+penaltyI4LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyII10BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII10BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII10BFGSAnalyticFinite(r.fx) || !penaltyII10BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyII10BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII10BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyII10BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyII10BFGSAnalyticDescent) search() {
-	penaltyII10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII10BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII10BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII10BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII10BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyII10BFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10BFGSAnalyticRoundingFloor)
 	bounds    penaltyII10BFGSAnalyticBox
+	model     penaltyII10BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyII10BFGSAnalyticResidualModel for any other)
 }
+
+// penaltyII10BFGSAnalyticResidualModel is penaltyII10BFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyII10BFGSAnalyticResidualModel struct{}
 
 // penaltyII10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyII10BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII10BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII10BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII10BFGSAnalyticValue(x, g *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) float64 {
+	return PenaltyII10(x)
+}
 
 // penaltyII10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func penaltyII10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (m
 	return measure, floor
 }
 
-// penaltyII10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII10BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII10BFGSAnalyticAbs(s[i]) <= tol*(penaltyII10BFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyII10BFGSAnalyticAbs(s[i]) <= tol*penaltyII10BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII10BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII10BFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyII10BFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyII10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10BFGSAnalyticBox) {}
 
 // penaltyII10BFGSAnalyticSearchDirection is the direction's own.
-func penaltyII10BFGSAnalyticSearchDirection(dir *penaltyII10BFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyII10BFGSAnalyticBox) {
+func penaltyII10BFGSAnalyticSearchDirection(dir *penaltyII10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
+	penaltyII10BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII10BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyII10BFGSAnalyticSolveDirection(dir *penaltyII10BFGSAnalyticDirection, g, d *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII10BFGSAnalyticAbs(x[i]) + 1) / penaltyII10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10BFGSAnalyticStepScale(x[i]) / penaltyII10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]flo
 			return penaltyII10BFGSAnalyticLineResult{calls: calls, end: penaltyII10BFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyII10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII10BFGSAnalyticLinePoint{step: t, value: PenaltyII10(xt)}
+		current := penaltyII10BFGSAnalyticLinePoint{step: t, value: penaltyII10BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII10BFGSAnalyticFinite(current.value) || current.value > fx+penaltyII10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

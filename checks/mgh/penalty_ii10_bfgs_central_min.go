@@ -354,7 +354,7 @@ func (r *penaltyII10BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII10BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII10BFGSCentralFinite(r.fx) || !penaltyII10BFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyII10BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII10BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyII10BFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyII10BFGSCentralDescent) search() {
-	penaltyII10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII10BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII10BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII10BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII10BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyII10BFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10BFGSCentralRoundingFloor)
 	bounds    penaltyII10BFGSCentralBox
+	model     penaltyII10BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyII10BFGSCentralResidualModel for any other)
 }
+
+// penaltyII10BFGSCentralResidualModel is penaltyII10BFGSCentralResidualModel for any other objective: nothing.
+type penaltyII10BFGSCentralResidualModel struct{}
 
 // penaltyII10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyII10BFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyII10BFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyII10BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII10BFGSCentralValue(x, g *[10]float64, diffs *penaltyII10BFGSCentralDifferences) float64 {
+	return PenaltyII10(x)
+}
 
 // penaltyII10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func penaltyII10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (me
 	return measure, floor
 }
 
-// penaltyII10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII10BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII10BFGSCentralAbs(s[i]) <= tol*(penaltyII10BFGSCentralAbs(x[i])+1)) {
+		if !(penaltyII10BFGSCentralAbs(s[i]) <= tol*penaltyII10BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII10BFGSCentralStepScale(xi float64) float64 {
+	return penaltyII10BFGSCentralAbs(xi) + 1
+}
+
 // penaltyII10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10BFGSCentralBox) {}
 
 // penaltyII10BFGSCentralSearchDirection is the direction's own.
-func penaltyII10BFGSCentralSearchDirection(dir *penaltyII10BFGSCentralDirection, x, g, d *[10]float64, b *penaltyII10BFGSCentralBox) {
+func penaltyII10BFGSCentralSearchDirection(dir *penaltyII10BFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
+	penaltyII10BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII10BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyII10BFGSCentralSolveDirection(dir *penaltyII10BFGSCentralDirection, g, d *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII10BFGSCentralAbs(x[i]) + 1) / penaltyII10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10BFGSCentralStepScale(x[i]) / penaltyII10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]floa
 			return penaltyII10BFGSCentralLineResult{calls: calls, end: penaltyII10BFGSCentralSearchOutOfBudget}
 		}
 		penaltyII10BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII10BFGSCentralLinePoint{step: t, value: PenaltyII10(xt)}
+		current := penaltyII10BFGSCentralLinePoint{step: t, value: penaltyII10BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII10BFGSCentralFinite(current.value) || current.value > fx+penaltyII10BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

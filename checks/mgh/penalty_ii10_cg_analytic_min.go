@@ -354,7 +354,7 @@ func (r *penaltyII10CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII10CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII10CGAnalyticFinite(r.fx) || !penaltyII10CGAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyII10CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII10CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyII10CGAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyII10CGAnalyticDescent) search() {
-	penaltyII10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII10CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII10CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII10CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII10CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyII10CGAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10CGAnalyticRoundingFloor)
 	bounds    penaltyII10CGAnalyticBox
+	model     penaltyII10CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyII10CGAnalyticResidualModel for any other)
 }
+
+// penaltyII10CGAnalyticResidualModel is penaltyII10CGAnalyticResidualModel for any other objective: nothing.
+type penaltyII10CGAnalyticResidualModel struct{}
 
 // penaltyII10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyII10CGAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII10CGAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII10CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII10CGAnalyticValue(x, g *[10]float64, diffs *penaltyII10CGAnalyticDifferences) float64 {
+	return PenaltyII10(x)
+}
 
 // penaltyII10CGAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyII10CGAnalyticFiniteVec(x *[10]float64) bool {
@@ -865,33 +874,44 @@ func penaltyII10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (mea
 	return measure, floor
 }
 
-// penaltyII10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII10CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII10CGAnalyticAbs(s[i]) <= tol*(penaltyII10CGAnalyticAbs(x[i])+1)) {
+		if !(penaltyII10CGAnalyticAbs(s[i]) <= tol*penaltyII10CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII10CGAnalyticStepScale(xi float64) float64 {
+	return penaltyII10CGAnalyticAbs(xi) + 1
+}
+
 // penaltyII10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10CGAnalyticBox) {}
 
 // penaltyII10CGAnalyticSearchDirection is the direction's own.
-func penaltyII10CGAnalyticSearchDirection(dir *penaltyII10CGAnalyticDirection, x, g, d *[10]float64, b *penaltyII10CGAnalyticBox) {
+func penaltyII10CGAnalyticSearchDirection(dir *penaltyII10CGAnalyticDirection, x, g, d *[10]float64, diffs *penaltyII10CGAnalyticDifferences) {
+	penaltyII10CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII10CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyII10CGAnalyticSolveDirection(dir *penaltyII10CGAnalyticDirection, g, d *[10]float64, diffs *penaltyII10CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII10CGAnalyticAbs(x[i]) + 1) / penaltyII10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10CGAnalyticStepScale(x[i]) / penaltyII10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float
 			return penaltyII10CGAnalyticLineResult{calls: calls, end: penaltyII10CGAnalyticSearchOutOfBudget}
 		}
 		penaltyII10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII10CGAnalyticLinePoint{step: t, value: PenaltyII10(xt)}
+		current := penaltyII10CGAnalyticLinePoint{step: t, value: penaltyII10CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII10CGAnalyticFinite(current.value) || current.value > fx+penaltyII10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

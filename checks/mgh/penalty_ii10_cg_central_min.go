@@ -354,7 +354,7 @@ func (r *penaltyII10CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII10CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII10CGCentralFinite(r.fx) || !penaltyII10CGCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyII10CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII10CGCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyII10CGCentralStageJudge next when the run
 // goes on.
 func (r *penaltyII10CGCentralDescent) search() {
-	penaltyII10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII10CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII10CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII10CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII10CGCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyII10CGCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10CGCentralRoundingFloor)
 	bounds    penaltyII10CGCentralBox
+	model     penaltyII10CGCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyII10CGCentralResidualModel for any other)
 }
+
+// penaltyII10CGCentralResidualModel is penaltyII10CGCentralResidualModel for any other objective: nothing.
+type penaltyII10CGCentralResidualModel struct{}
 
 // penaltyII10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyII10CGCentralVerifyPass    // a difference gradient passed the test
 	penaltyII10CGCentralVerifyStall   // no step makes progress
 )
+
+// penaltyII10CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII10CGCentralValue(x, g *[10]float64, diffs *penaltyII10CGCentralDifferences) float64 {
+	return PenaltyII10(x)
+}
 
 // penaltyII10CGCentralFiniteVec reports whether every component of x is finite.
 func penaltyII10CGCentralFiniteVec(x *[10]float64) bool {
@@ -1044,33 +1053,44 @@ func penaltyII10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (meas
 	return measure, floor
 }
 
-// penaltyII10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII10CGCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII10CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII10CGCentralAbs(s[i]) <= tol*(penaltyII10CGCentralAbs(x[i])+1)) {
+		if !(penaltyII10CGCentralAbs(s[i]) <= tol*penaltyII10CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII10CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII10CGCentralStepScale(xi float64) float64 {
+	return penaltyII10CGCentralAbs(xi) + 1
+}
+
 // penaltyII10CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10CGCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10CGCentralBox) {}
 
 // penaltyII10CGCentralSearchDirection is the direction's own.
-func penaltyII10CGCentralSearchDirection(dir *penaltyII10CGCentralDirection, x, g, d *[10]float64, b *penaltyII10CGCentralBox) {
+func penaltyII10CGCentralSearchDirection(dir *penaltyII10CGCentralDirection, x, g, d *[10]float64, diffs *penaltyII10CGCentralDifferences) {
+	penaltyII10CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII10CGCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyII10CGCentralSolveDirection(dir *penaltyII10CGCentralDirection, g, d *[10]float64, diffs *penaltyII10CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII10CGCentralAbs(x[i]) + 1) / penaltyII10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10CGCentralStepScale(x[i]) / penaltyII10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 			return penaltyII10CGCentralLineResult{calls: calls, end: penaltyII10CGCentralSearchOutOfBudget}
 		}
 		penaltyII10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII10CGCentralLinePoint{step: t, value: PenaltyII10(xt)}
+		current := penaltyII10CGCentralLinePoint{step: t, value: penaltyII10CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII10CGCentralFinite(current.value) || current.value > fx+penaltyII10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

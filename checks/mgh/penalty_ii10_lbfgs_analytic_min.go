@@ -355,7 +355,7 @@ func (r *penaltyII10LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII10LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII10LBFGSAnalyticFinite(r.fx) || !penaltyII10LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyII10LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyII10LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyII10LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyII10LBFGSAnalyticDescent) search() {
-	penaltyII10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII10LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII10LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII10LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII10LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type penaltyII10LBFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10LBFGSAnalyticRoundingFloor)
 	bounds    penaltyII10LBFGSAnalyticBox
+	model     penaltyII10LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyII10LBFGSAnalyticResidualModel for any other)
 }
+
+// penaltyII10LBFGSAnalyticResidualModel is penaltyII10LBFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyII10LBFGSAnalyticResidualModel struct{}
 
 // penaltyII10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyII10LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyII10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII10LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII10LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII10LBFGSAnalyticValue(x, g *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) float64 {
+	return PenaltyII10(x)
+}
 
 // penaltyII10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func penaltyII10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (
 	return measure, floor
 }
 
-// penaltyII10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII10LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII10LBFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII10LBFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyII10LBFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyII10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10LBFGSAnalyticBox) {}
 
 // penaltyII10LBFGSAnalyticSearchDirection is the direction's own.
-func penaltyII10LBFGSAnalyticSearchDirection(dir *penaltyII10LBFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyII10LBFGSAnalyticBox) {
+func penaltyII10LBFGSAnalyticSearchDirection(dir *penaltyII10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
+	penaltyII10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII10LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyII10LBFGSAnalyticSolveDirection(dir *penaltyII10LBFGSAnalyticDirection, g, d *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII10LBFGSAnalyticAbs(x[i]) + 1) / penaltyII10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i]) / penaltyII10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]fl
 			return penaltyII10LBFGSAnalyticLineResult{calls: calls, end: penaltyII10LBFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyII10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII10LBFGSAnalyticLinePoint{step: t, value: PenaltyII10(xt)}
+		current := penaltyII10LBFGSAnalyticLinePoint{step: t, value: penaltyII10LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII10LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyII10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

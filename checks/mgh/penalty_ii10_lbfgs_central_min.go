@@ -355,7 +355,7 @@ func (r *penaltyII10LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII10LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII10LBFGSCentralFinite(r.fx) || !penaltyII10LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyII10LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyII10LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyII10LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyII10LBFGSCentralDescent) search() {
-	penaltyII10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII10LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII10LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII10LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII10LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type penaltyII10LBFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10LBFGSCentralRoundingFloor)
 	bounds    penaltyII10LBFGSCentralBox
+	model     penaltyII10LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyII10LBFGSCentralResidualModel for any other)
 }
+
+// penaltyII10LBFGSCentralResidualModel is penaltyII10LBFGSCentralResidualModel for any other objective: nothing.
+type penaltyII10LBFGSCentralResidualModel struct{}
 
 // penaltyII10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyII10LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyII10LBFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyII10LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyII10LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII10LBFGSCentralValue(x, g *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) float64 {
+	return PenaltyII10(x)
+}
 
 // penaltyII10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func penaltyII10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (m
 	return measure, floor
 }
 
-// penaltyII10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII10LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII10LBFGSCentralAbs(s[i]) <= tol*(penaltyII10LBFGSCentralAbs(x[i])+1)) {
+		if !(penaltyII10LBFGSCentralAbs(s[i]) <= tol*penaltyII10LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII10LBFGSCentralStepScale(xi float64) float64 {
+	return penaltyII10LBFGSCentralAbs(xi) + 1
+}
+
 // penaltyII10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10LBFGSCentralBox) {}
 
 // penaltyII10LBFGSCentralSearchDirection is the direction's own.
-func penaltyII10LBFGSCentralSearchDirection(dir *penaltyII10LBFGSCentralDirection, x, g, d *[10]float64, b *penaltyII10LBFGSCentralBox) {
+func penaltyII10LBFGSCentralSearchDirection(dir *penaltyII10LBFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
+	penaltyII10LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII10LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyII10LBFGSCentralSolveDirection(dir *penaltyII10LBFGSCentralDirection, g, d *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII10LBFGSCentralAbs(x[i]) + 1) / penaltyII10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10LBFGSCentralStepScale(x[i]) / penaltyII10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]flo
 			return penaltyII10LBFGSCentralLineResult{calls: calls, end: penaltyII10LBFGSCentralSearchOutOfBudget}
 		}
 		penaltyII10LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII10LBFGSCentralLinePoint{step: t, value: PenaltyII10(xt)}
+		current := penaltyII10LBFGSCentralLinePoint{step: t, value: penaltyII10LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII10LBFGSCentralFinite(current.value) || current.value > fx+penaltyII10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

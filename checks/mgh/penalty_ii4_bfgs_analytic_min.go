@@ -354,7 +354,7 @@ func (r *penaltyII4BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII4BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII4BFGSAnalyticFinite(r.fx) || !penaltyII4BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyII4BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII4BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyII4BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyII4BFGSAnalyticDescent) search() {
-	penaltyII4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII4BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII4BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII4BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII4BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII4BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyII4BFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4BFGSAnalyticRoundingFloor)
 	bounds    penaltyII4BFGSAnalyticBox
+	model     penaltyII4BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyII4BFGSAnalyticResidualModel for any other)
 }
+
+// penaltyII4BFGSAnalyticResidualModel is penaltyII4BFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyII4BFGSAnalyticResidualModel struct{}
 
 // penaltyII4BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyII4BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII4BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII4BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII4BFGSAnalyticValue(x, g *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) float64 {
+	return PenaltyII4(x)
+}
 
 // penaltyII4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func penaltyII4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 	return measure, floor
 }
 
-// penaltyII4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII4BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII4BFGSAnalyticAbs(s[i]) <= tol*(penaltyII4BFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyII4BFGSAnalyticAbs(s[i]) <= tol*penaltyII4BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII4BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII4BFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyII4BFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyII4BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4BFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4BFGSAnalyticBox) {}
 
 // penaltyII4BFGSAnalyticSearchDirection is the direction's own.
-func penaltyII4BFGSAnalyticSearchDirection(dir *penaltyII4BFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyII4BFGSAnalyticBox) {
+func penaltyII4BFGSAnalyticSearchDirection(dir *penaltyII4BFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
+	penaltyII4BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII4BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyII4BFGSAnalyticSolveDirection(dir *penaltyII4BFGSAnalyticDirection, g, d *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII4BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII4BFGSAnalyticAbs(x[i]) + 1) / penaltyII4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4BFGSAnalyticStepScale(x[i]) / penaltyII4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float6
 			return penaltyII4BFGSAnalyticLineResult{calls: calls, end: penaltyII4BFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyII4BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII4BFGSAnalyticLinePoint{step: t, value: PenaltyII4(xt)}
+		current := penaltyII4BFGSAnalyticLinePoint{step: t, value: penaltyII4BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII4BFGSAnalyticFinite(current.value) || current.value > fx+penaltyII4BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

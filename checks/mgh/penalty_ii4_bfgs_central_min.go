@@ -354,7 +354,7 @@ func (r *penaltyII4BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII4BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII4BFGSCentralFinite(r.fx) || !penaltyII4BFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyII4BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII4BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyII4BFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyII4BFGSCentralDescent) search() {
-	penaltyII4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII4BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII4BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII4BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII4BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII4BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyII4BFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4BFGSCentralRoundingFloor)
 	bounds    penaltyII4BFGSCentralBox
+	model     penaltyII4BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyII4BFGSCentralResidualModel for any other)
 }
+
+// penaltyII4BFGSCentralResidualModel is penaltyII4BFGSCentralResidualModel for any other objective: nothing.
+type penaltyII4BFGSCentralResidualModel struct{}
 
 // penaltyII4BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	penaltyII4BFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyII4BFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyII4BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII4BFGSCentralValue(x, g *[4]float64, diffs *penaltyII4BFGSCentralDifferences) float64 {
+	return PenaltyII4(x)
+}
 
 // penaltyII4BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func penaltyII4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 	return measure, floor
 }
 
-// penaltyII4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII4BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII4BFGSCentralAbs(s[i]) <= tol*(penaltyII4BFGSCentralAbs(x[i])+1)) {
+		if !(penaltyII4BFGSCentralAbs(s[i]) <= tol*penaltyII4BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII4BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII4BFGSCentralStepScale(xi float64) float64 {
+	return penaltyII4BFGSCentralAbs(xi) + 1
+}
+
 // penaltyII4BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4BFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4BFGSCentralBox) {}
 
 // penaltyII4BFGSCentralSearchDirection is the direction's own.
-func penaltyII4BFGSCentralSearchDirection(dir *penaltyII4BFGSCentralDirection, x, g, d *[4]float64, b *penaltyII4BFGSCentralBox) {
+func penaltyII4BFGSCentralSearchDirection(dir *penaltyII4BFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
+	penaltyII4BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII4BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyII4BFGSCentralSolveDirection(dir *penaltyII4BFGSCentralDirection, g, d *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII4BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII4BFGSCentralAbs(x[i]) + 1) / penaltyII4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4BFGSCentralStepScale(x[i]) / penaltyII4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64
 			return penaltyII4BFGSCentralLineResult{calls: calls, end: penaltyII4BFGSCentralSearchOutOfBudget}
 		}
 		penaltyII4BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII4BFGSCentralLinePoint{step: t, value: PenaltyII4(xt)}
+		current := penaltyII4BFGSCentralLinePoint{step: t, value: penaltyII4BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII4BFGSCentralFinite(current.value) || current.value > fx+penaltyII4BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyII4CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII4CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII4CGAnalyticFinite(r.fx) || !penaltyII4CGAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyII4CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII4CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyII4CGAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyII4CGAnalyticDescent) search() {
-	penaltyII4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII4CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII4CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII4CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII4CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII4CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type penaltyII4CGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4CGAnalyticRoundingFloor)
 	bounds    penaltyII4CGAnalyticBox
+	model     penaltyII4CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyII4CGAnalyticResidualModel for any other)
 }
+
+// penaltyII4CGAnalyticResidualModel is penaltyII4CGAnalyticResidualModel for any other objective: nothing.
+type penaltyII4CGAnalyticResidualModel struct{}
 
 // penaltyII4CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyII4CGAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII4CGAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII4CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII4CGAnalyticValue(x, g *[4]float64, diffs *penaltyII4CGAnalyticDifferences) float64 {
+	return PenaltyII4(x)
+}
 
 // penaltyII4CGAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyII4CGAnalyticFiniteVec(x *[4]float64) bool {
@@ -865,33 +874,44 @@ func penaltyII4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measu
 	return measure, floor
 }
 
-// penaltyII4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII4CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII4CGAnalyticAbs(s[i]) <= tol*(penaltyII4CGAnalyticAbs(x[i])+1)) {
+		if !(penaltyII4CGAnalyticAbs(s[i]) <= tol*penaltyII4CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII4CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII4CGAnalyticStepScale(xi float64) float64 {
+	return penaltyII4CGAnalyticAbs(xi) + 1
+}
+
 // penaltyII4CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4CGAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4CGAnalyticBox) {}
 
 // penaltyII4CGAnalyticSearchDirection is the direction's own.
-func penaltyII4CGAnalyticSearchDirection(dir *penaltyII4CGAnalyticDirection, x, g, d *[4]float64, b *penaltyII4CGAnalyticBox) {
+func penaltyII4CGAnalyticSearchDirection(dir *penaltyII4CGAnalyticDirection, x, g, d *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {
+	penaltyII4CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII4CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyII4CGAnalyticSolveDirection(dir *penaltyII4CGAnalyticDirection, g, d *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII4CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII4CGAnalyticAbs(x[i]) + 1) / penaltyII4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4CGAnalyticStepScale(x[i]) / penaltyII4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 			return penaltyII4CGAnalyticLineResult{calls: calls, end: penaltyII4CGAnalyticSearchOutOfBudget}
 		}
 		penaltyII4CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII4CGAnalyticLinePoint{step: t, value: PenaltyII4(xt)}
+		current := penaltyII4CGAnalyticLinePoint{step: t, value: penaltyII4CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII4CGAnalyticFinite(current.value) || current.value > fx+penaltyII4CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *penaltyII4CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII4CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII4CGCentralFinite(r.fx) || !penaltyII4CGCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyII4CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *penaltyII4CGCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyII4CGCentralStageJudge next when the run
 // goes on.
 func (r *penaltyII4CGCentralDescent) search() {
-	penaltyII4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII4CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII4CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII4CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII4CGCentralStepInitial)
@@ -547,7 +547,11 @@ type penaltyII4CGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4CGCentralRoundingFloor)
 	bounds    penaltyII4CGCentralBox
+	model     penaltyII4CGCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyII4CGCentralResidualModel for any other)
 }
+
+// penaltyII4CGCentralResidualModel is penaltyII4CGCentralResidualModel for any other objective: nothing.
+type penaltyII4CGCentralResidualModel struct{}
 
 // penaltyII4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	penaltyII4CGCentralVerifyPass    // a difference gradient passed the test
 	penaltyII4CGCentralVerifyStall   // no step makes progress
 )
+
+// penaltyII4CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII4CGCentralValue(x, g *[4]float64, diffs *penaltyII4CGCentralDifferences) float64 {
+	return PenaltyII4(x)
+}
 
 // penaltyII4CGCentralFiniteVec reports whether every component of x is finite.
 func penaltyII4CGCentralFiniteVec(x *[4]float64) bool {
@@ -1044,33 +1053,44 @@ func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measur
 	return measure, floor
 }
 
-// penaltyII4CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII4CGCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII4CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII4CGCentralAbs(s[i]) <= tol*(penaltyII4CGCentralAbs(x[i])+1)) {
+		if !(penaltyII4CGCentralAbs(s[i]) <= tol*penaltyII4CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII4CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII4CGCentralStepScale(xi float64) float64 {
+	return penaltyII4CGCentralAbs(xi) + 1
+}
+
 // penaltyII4CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4CGCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4CGCentralBox) {}
 
 // penaltyII4CGCentralSearchDirection is the direction's own.
-func penaltyII4CGCentralSearchDirection(dir *penaltyII4CGCentralDirection, x, g, d *[4]float64, b *penaltyII4CGCentralBox) {
+func penaltyII4CGCentralSearchDirection(dir *penaltyII4CGCentralDirection, x, g, d *[4]float64, diffs *penaltyII4CGCentralDifferences) {
+	penaltyII4CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII4CGCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyII4CGCentralSolveDirection(dir *penaltyII4CGCentralDirection, g, d *[4]float64, diffs *penaltyII4CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII4CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII4CGCentralAbs(x[i]) + 1) / penaltyII4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4CGCentralStepScale(x[i]) / penaltyII4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, 
 			return penaltyII4CGCentralLineResult{calls: calls, end: penaltyII4CGCentralSearchOutOfBudget}
 		}
 		penaltyII4CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII4CGCentralLinePoint{step: t, value: PenaltyII4(xt)}
+		current := penaltyII4CGCentralLinePoint{step: t, value: penaltyII4CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII4CGCentralFinite(current.value) || current.value > fx+penaltyII4CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

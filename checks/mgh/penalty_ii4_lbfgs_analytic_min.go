@@ -355,7 +355,7 @@ func (r *penaltyII4LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII4LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII4LBFGSAnalyticFinite(r.fx) || !penaltyII4LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PenaltyII4LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyII4LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves penaltyII4LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *penaltyII4LBFGSAnalyticDescent) search() {
-	penaltyII4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII4LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII4LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII4LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII4LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII4LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type penaltyII4LBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSAnalyticRoundingFloor)
 	bounds    penaltyII4LBFGSAnalyticBox
+	model     penaltyII4LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (penaltyII4LBFGSAnalyticResidualModel for any other)
 }
+
+// penaltyII4LBFGSAnalyticResidualModel is penaltyII4LBFGSAnalyticResidualModel for any other objective: nothing.
+type penaltyII4LBFGSAnalyticResidualModel struct{}
 
 // penaltyII4LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyII4LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyII4LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	penaltyII4LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// penaltyII4LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII4LBFGSAnalyticValue(x, g *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) float64 {
+	return PenaltyII4(x)
+}
 
 // penaltyII4LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func penaltyII4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (me
 	return measure, floor
 }
 
-// penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII4LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII4LBFGSAnalyticAbs(x[i])+1)) {
+		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*penaltyII4LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII4LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII4LBFGSAnalyticStepScale(xi float64) float64 {
+	return penaltyII4LBFGSAnalyticAbs(xi) + 1
+}
+
 // penaltyII4LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4LBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4LBFGSAnalyticBox) {}
 
 // penaltyII4LBFGSAnalyticSearchDirection is the direction's own.
-func penaltyII4LBFGSAnalyticSearchDirection(dir *penaltyII4LBFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyII4LBFGSAnalyticBox) {
+func penaltyII4LBFGSAnalyticSearchDirection(dir *penaltyII4LBFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
+	penaltyII4LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII4LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func penaltyII4LBFGSAnalyticSolveDirection(dir *penaltyII4LBFGSAnalyticDirection, g, d *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII4LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII4LBFGSAnalyticAbs(x[i]) + 1) / penaltyII4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4LBFGSAnalyticStepScale(x[i]) / penaltyII4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float
 			return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchOutOfBudget}
 		}
 		penaltyII4LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII4LBFGSAnalyticLinePoint{step: t, value: PenaltyII4(xt)}
+		current := penaltyII4LBFGSAnalyticLinePoint{step: t, value: penaltyII4LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII4LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyII4LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

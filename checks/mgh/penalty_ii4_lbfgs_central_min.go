@@ -355,7 +355,7 @@ func (r *penaltyII4LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PenaltyII4(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = penaltyII4LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !penaltyII4LBFGSCentralFinite(r.fx) || !penaltyII4LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PenaltyII4LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *penaltyII4LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves penaltyII4LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *penaltyII4LBFGSCentralDescent) search() {
-	penaltyII4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	penaltyII4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyII4LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !penaltyII4LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		penaltyII4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		penaltyII4LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyII4LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(penaltyII4LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type penaltyII4LBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSCentralRoundingFloor)
 	bounds    penaltyII4LBFGSCentralBox
+	model     penaltyII4LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (penaltyII4LBFGSCentralResidualModel for any other)
 }
+
+// penaltyII4LBFGSCentralResidualModel is penaltyII4LBFGSCentralResidualModel for any other objective: nothing.
+type penaltyII4LBFGSCentralResidualModel struct{}
 
 // penaltyII4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last penaltyII4LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	penaltyII4LBFGSCentralVerifyPass    // a difference gradient passed the test
 	penaltyII4LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// penaltyII4LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func penaltyII4LBFGSCentralValue(x, g *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) float64 {
+	return PenaltyII4(x)
+}
 
 // penaltyII4LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 	return measure, floor
 }
 
-// penaltyII4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// penaltyII4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII4LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*(penaltyII4LBFGSCentralAbs(x[i])+1)) {
+		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*penaltyII4LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// penaltyII4LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func penaltyII4LBFGSCentralStepScale(xi float64) float64 {
+	return penaltyII4LBFGSCentralAbs(xi) + 1
+}
+
 // penaltyII4LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4LBFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4LBFGSCentralBox) {}
 
 // penaltyII4LBFGSCentralSearchDirection is the direction's own.
-func penaltyII4LBFGSCentralSearchDirection(dir *penaltyII4LBFGSCentralDirection, x, g, d *[4]float64, b *penaltyII4LBFGSCentralBox) {
+func penaltyII4LBFGSCentralSearchDirection(dir *penaltyII4LBFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
+	penaltyII4LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// penaltyII4LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func penaltyII4LBFGSCentralSolveDirection(dir *penaltyII4LBFGSCentralDirection, g, d *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // penaltyII4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·penaltyII4LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (penaltyII4LBFGSCentralAbs(x[i]) + 1) / penaltyII4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4LBFGSCentralStepScale(x[i]) / penaltyII4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float6
 			return penaltyII4LBFGSCentralLineResult{calls: calls, end: penaltyII4LBFGSCentralSearchOutOfBudget}
 		}
 		penaltyII4LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := penaltyII4LBFGSCentralLinePoint{step: t, value: PenaltyII4(xt)}
+		current := penaltyII4LBFGSCentralLinePoint{step: t, value: penaltyII4LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !penaltyII4LBFGSCentralFinite(current.value) || current.value > fx+penaltyII4LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellBadlyScaledBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellBadlyScaledBFGSAnalyticFinite(r.fx) || !powellBadlyScaledBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PowellBadlyScaledBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves powellBadlyScaledBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
-	powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !powellBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(powellBadlyScaledBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type powellBadlyScaledBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledBFGSAnalyticRoundingFloor)
 	bounds    powellBadlyScaledBFGSAnalyticBox
+	model     powellBadlyScaledBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (powellBadlyScaledBFGSAnalyticResidualModel for any other)
 }
+
+// powellBadlyScaledBFGSAnalyticResidualModel is powellBadlyScaledBFGSAnalyticResidualModel for any other objective: nothing.
+type powellBadlyScaledBFGSAnalyticResidualModel struct{}
 
 // powellBadlyScaledBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	powellBadlyScaledBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellBadlyScaledBFGSAnalyticValue(x, g *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
+	return PowellBadlyScaled(x)
+}
 
 // powellBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,16 +885,22 @@ func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float6
 	return measure, floor
 }
 
-// powellBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*(powellBadlyScaledBFGSAnalyticAbs(x[i])+1)) {
+		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// powellBadlyScaledBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellBadlyScaledBFGSAnalyticStepScale(xi float64) float64 {
+	return powellBadlyScaledBFGSAnalyticAbs(xi) + 1
 }
 
 // powellBadlyScaledBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -893,17 +908,22 @@ func powellBadlyScaledBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBa
 }
 
 // powellBadlyScaledBFGSAnalyticSearchDirection is the direction's own.
-func powellBadlyScaledBFGSAnalyticSearchDirection(dir *powellBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {
+func powellBadlyScaledBFGSAnalyticSearchDirection(dir *powellBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
+	powellBadlyScaledBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// powellBadlyScaledBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func powellBadlyScaledBFGSAnalyticSolveDirection(dir *powellBadlyScaledBFGSAnalyticDirection, g, d *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // powellBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellBadlyScaledBFGSAnalyticAbs(x[i]) + 1) / powellBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledBFGSAnalyticStepScale(x[i]) / powellBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -963,7 +983,7 @@ func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2
 			return powellBadlyScaledBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledBFGSAnalyticSearchOutOfBudget}
 		}
 		powellBadlyScaledBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellBadlyScaledBFGSAnalyticLinePoint{step: t, value: PowellBadlyScaled(xt)}
+		current := powellBadlyScaledBFGSAnalyticLinePoint{step: t, value: powellBadlyScaledBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellBadlyScaledBFGSAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

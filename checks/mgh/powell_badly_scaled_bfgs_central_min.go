@@ -354,7 +354,7 @@ func (r *powellBadlyScaledBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellBadlyScaledBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellBadlyScaledBFGSCentralFinite(r.fx) || !powellBadlyScaledBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PowellBadlyScaledBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellBadlyScaledBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves powellBadlyScaledBFGSCentralStageJudge next when the run
 // goes on.
 func (r *powellBadlyScaledBFGSCentralDescent) search() {
-	powellBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !powellBadlyScaledBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellBadlyScaledBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(powellBadlyScaledBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type powellBadlyScaledBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledBFGSCentralRoundingFloor)
 	bounds    powellBadlyScaledBFGSCentralBox
+	model     powellBadlyScaledBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (powellBadlyScaledBFGSCentralResidualModel for any other)
 }
+
+// powellBadlyScaledBFGSCentralResidualModel is powellBadlyScaledBFGSCentralResidualModel for any other objective: nothing.
+type powellBadlyScaledBFGSCentralResidualModel struct{}
 
 // powellBadlyScaledBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	powellBadlyScaledBFGSCentralVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledBFGSCentralVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellBadlyScaledBFGSCentralValue(x, g *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) float64 {
+	return PowellBadlyScaled(x)
+}
 
 // powellBadlyScaledBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,16 +1064,22 @@ func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64
 	return measure, floor
 }
 
-// powellBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*(powellBadlyScaledBFGSCentralAbs(x[i])+1)) {
+		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*powellBadlyScaledBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// powellBadlyScaledBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellBadlyScaledBFGSCentralStepScale(xi float64) float64 {
+	return powellBadlyScaledBFGSCentralAbs(xi) + 1
 }
 
 // powellBadlyScaledBFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1072,17 +1087,22 @@ func powellBadlyScaledBFGSCentralCurvaturePair(s, y, x *[2]float64, b *powellBad
 }
 
 // powellBadlyScaledBFGSCentralSearchDirection is the direction's own.
-func powellBadlyScaledBFGSCentralSearchDirection(dir *powellBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, b *powellBadlyScaledBFGSCentralBox) {
+func powellBadlyScaledBFGSCentralSearchDirection(dir *powellBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
+	powellBadlyScaledBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// powellBadlyScaledBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func powellBadlyScaledBFGSCentralSolveDirection(dir *powellBadlyScaledBFGSCentralDirection, g, d *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // powellBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellBadlyScaledBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellBadlyScaledBFGSCentralAbs(x[i]) + 1) / powellBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledBFGSCentralStepScale(x[i]) / powellBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1142,7 +1162,7 @@ func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]
 			return powellBadlyScaledBFGSCentralLineResult{calls: calls, end: powellBadlyScaledBFGSCentralSearchOutOfBudget}
 		}
 		powellBadlyScaledBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellBadlyScaledBFGSCentralLinePoint{step: t, value: PowellBadlyScaled(xt)}
+		current := powellBadlyScaledBFGSCentralLinePoint{step: t, value: powellBadlyScaledBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellBadlyScaledBFGSCentralFinite(current.value) || current.value > fx+powellBadlyScaledBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

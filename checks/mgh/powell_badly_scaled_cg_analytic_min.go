@@ -354,7 +354,7 @@ func (r *powellBadlyScaledCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellBadlyScaledCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellBadlyScaledCGAnalyticFinite(r.fx) || !powellBadlyScaledCGAnalyticFiniteVec(&r.x) {
 		r.out.status = PowellBadlyScaledCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellBadlyScaledCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves powellBadlyScaledCGAnalyticStageJudge next when the run
 // goes on.
 func (r *powellBadlyScaledCGAnalyticDescent) search() {
-	powellBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !powellBadlyScaledCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellBadlyScaledCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(powellBadlyScaledCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type powellBadlyScaledCGAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledCGAnalyticRoundingFloor)
 	bounds    powellBadlyScaledCGAnalyticBox
+	model     powellBadlyScaledCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (powellBadlyScaledCGAnalyticResidualModel for any other)
 }
+
+// powellBadlyScaledCGAnalyticResidualModel is powellBadlyScaledCGAnalyticResidualModel for any other objective: nothing.
+type powellBadlyScaledCGAnalyticResidualModel struct{}
 
 // powellBadlyScaledCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	powellBadlyScaledCGAnalyticVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledCGAnalyticVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellBadlyScaledCGAnalyticValue(x, g *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) float64 {
+	return PowellBadlyScaled(x)
+}
 
 // powellBadlyScaledCGAnalyticFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
@@ -865,16 +874,22 @@ func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64)
 	return measure, floor
 }
 
-// powellBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*(powellBadlyScaledCGAnalyticAbs(x[i])+1)) {
+		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*powellBadlyScaledCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// powellBadlyScaledCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellBadlyScaledCGAnalyticStepScale(xi float64) float64 {
+	return powellBadlyScaledCGAnalyticAbs(xi) + 1
 }
 
 // powellBadlyScaledCGAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -882,17 +897,22 @@ func powellBadlyScaledCGAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadl
 }
 
 // powellBadlyScaledCGAnalyticSearchDirection is the direction's own.
-func powellBadlyScaledCGAnalyticSearchDirection(dir *powellBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, b *powellBadlyScaledCGAnalyticBox) {
+func powellBadlyScaledCGAnalyticSearchDirection(dir *powellBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
+	powellBadlyScaledCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// powellBadlyScaledCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func powellBadlyScaledCGAnalyticSolveDirection(dir *powellBadlyScaledCGAnalyticDirection, g, d *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // powellBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellBadlyScaledCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellBadlyScaledCGAnalyticAbs(x[i]) + 1) / powellBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledCGAnalyticStepScale(x[i]) / powellBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -952,7 +972,7 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]f
 			return powellBadlyScaledCGAnalyticLineResult{calls: calls, end: powellBadlyScaledCGAnalyticSearchOutOfBudget}
 		}
 		powellBadlyScaledCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellBadlyScaledCGAnalyticLinePoint{step: t, value: PowellBadlyScaled(xt)}
+		current := powellBadlyScaledCGAnalyticLinePoint{step: t, value: powellBadlyScaledCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellBadlyScaledCGAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *powellBadlyScaledCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellBadlyScaledCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellBadlyScaledCGCentralFinite(r.fx) || !powellBadlyScaledCGCentralFiniteVec(&r.x) {
 		r.out.status = PowellBadlyScaledCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellBadlyScaledCGCentralDescent) judge() {
 // the gradient at the new point; it leaves powellBadlyScaledCGCentralStageJudge next when the run
 // goes on.
 func (r *powellBadlyScaledCGCentralDescent) search() {
-	powellBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !powellBadlyScaledCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellBadlyScaledCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(powellBadlyScaledCGCentralStepInitial)
@@ -547,7 +547,11 @@ type powellBadlyScaledCGCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledCGCentralRoundingFloor)
 	bounds    powellBadlyScaledCGCentralBox
+	model     powellBadlyScaledCGCentralResidualModel // a residual objective's residuals and Jacobian products (powellBadlyScaledCGCentralResidualModel for any other)
 }
+
+// powellBadlyScaledCGCentralResidualModel is powellBadlyScaledCGCentralResidualModel for any other objective: nothing.
+type powellBadlyScaledCGCentralResidualModel struct{}
 
 // powellBadlyScaledCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	powellBadlyScaledCGCentralVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledCGCentralVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellBadlyScaledCGCentralValue(x, g *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) float64 {
+	return PowellBadlyScaled(x)
+}
 
 // powellBadlyScaledCGCentralFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledCGCentralFiniteVec(x *[2]float64) bool {
@@ -1044,33 +1053,44 @@ func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) 
 	return measure, floor
 }
 
-// powellBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*(powellBadlyScaledCGCentralAbs(x[i])+1)) {
+		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*powellBadlyScaledCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// powellBadlyScaledCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellBadlyScaledCGCentralStepScale(xi float64) float64 {
+	return powellBadlyScaledCGCentralAbs(xi) + 1
+}
+
 // powellBadlyScaledCGCentralCurvaturePair: without bounds the pair is used as it is.
 func powellBadlyScaledCGCentralCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledCGCentralBox) {}
 
 // powellBadlyScaledCGCentralSearchDirection is the direction's own.
-func powellBadlyScaledCGCentralSearchDirection(dir *powellBadlyScaledCGCentralDirection, x, g, d *[2]float64, b *powellBadlyScaledCGCentralBox) {
+func powellBadlyScaledCGCentralSearchDirection(dir *powellBadlyScaledCGCentralDirection, x, g, d *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
+	powellBadlyScaledCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// powellBadlyScaledCGCentralSolveDirection is the direction's own rule, from its memory.
+func powellBadlyScaledCGCentralSolveDirection(dir *powellBadlyScaledCGCentralDirection, g, d *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // powellBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellBadlyScaledCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellBadlyScaledCGCentralAbs(x[i]) + 1) / powellBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledCGCentralStepScale(x[i]) / powellBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func powellBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]fl
 			return powellBadlyScaledCGCentralLineResult{calls: calls, end: powellBadlyScaledCGCentralSearchOutOfBudget}
 		}
 		powellBadlyScaledCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellBadlyScaledCGCentralLinePoint{step: t, value: PowellBadlyScaled(xt)}
+		current := powellBadlyScaledCGCentralLinePoint{step: t, value: powellBadlyScaledCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellBadlyScaledCGCentralFinite(current.value) || current.value > fx+powellBadlyScaledCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellBadlyScaledLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellBadlyScaledLBFGSAnalyticFinite(r.fx) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves powellBadlyScaledLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *powellBadlyScaledLBFGSAnalyticDescent) search() {
-	powellBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellBadlyScaledLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(powellBadlyScaledLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type powellBadlyScaledLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledLBFGSAnalyticRoundingFloor)
 	bounds    powellBadlyScaledLBFGSAnalyticBox
+	model     powellBadlyScaledLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (powellBadlyScaledLBFGSAnalyticResidualModel for any other)
 }
+
+// powellBadlyScaledLBFGSAnalyticResidualModel is powellBadlyScaledLBFGSAnalyticResidualModel for any other objective: nothing.
+type powellBadlyScaledLBFGSAnalyticResidualModel struct{}
 
 // powellBadlyScaledLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last powellBadlyScaledLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	powellBadlyScaledLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellBadlyScaledLBFGSAnalyticValue(x, g *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) float64 {
+	return PowellBadlyScaled(x)
+}
 
 // powellBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,16 +911,22 @@ func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float
 	return measure, floor
 }
 
-// powellBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*(powellBadlyScaledLBFGSAnalyticAbs(x[i])+1)) {
+		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// powellBadlyScaledLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellBadlyScaledLBFGSAnalyticStepScale(xi float64) float64 {
+	return powellBadlyScaledLBFGSAnalyticAbs(xi) + 1
 }
 
 // powellBadlyScaledLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -919,17 +934,22 @@ func powellBadlyScaledLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *powellB
 }
 
 // powellBadlyScaledLBFGSAnalyticSearchDirection is the direction's own.
-func powellBadlyScaledLBFGSAnalyticSearchDirection(dir *powellBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {
+func powellBadlyScaledLBFGSAnalyticSearchDirection(dir *powellBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
+	powellBadlyScaledLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// powellBadlyScaledLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func powellBadlyScaledLBFGSAnalyticSolveDirection(dir *powellBadlyScaledLBFGSAnalyticDirection, g, d *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // powellBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellBadlyScaledLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellBadlyScaledLBFGSAnalyticAbs(x[i]) + 1) / powellBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledLBFGSAnalyticStepScale(x[i]) / powellBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -989,7 +1009,7 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[
 			return powellBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 		}
 		powellBadlyScaledLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellBadlyScaledLBFGSAnalyticLinePoint{step: t, value: PowellBadlyScaled(xt)}
+		current := powellBadlyScaledLBFGSAnalyticLinePoint{step: t, value: powellBadlyScaledLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

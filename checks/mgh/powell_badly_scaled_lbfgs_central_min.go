@@ -355,7 +355,7 @@ func (r *powellBadlyScaledLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellBadlyScaled(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellBadlyScaledLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellBadlyScaledLBFGSCentralFinite(r.fx) || !powellBadlyScaledLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PowellBadlyScaledLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *powellBadlyScaledLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves powellBadlyScaledLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *powellBadlyScaledLBFGSCentralDescent) search() {
-	powellBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !powellBadlyScaledLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellBadlyScaledLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(powellBadlyScaledLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type powellBadlyScaledLBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledLBFGSCentralRoundingFloor)
 	bounds    powellBadlyScaledLBFGSCentralBox
+	model     powellBadlyScaledLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (powellBadlyScaledLBFGSCentralResidualModel for any other)
 }
+
+// powellBadlyScaledLBFGSCentralResidualModel is powellBadlyScaledLBFGSCentralResidualModel for any other objective: nothing.
+type powellBadlyScaledLBFGSCentralResidualModel struct{}
 
 // powellBadlyScaledLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last powellBadlyScaledLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	powellBadlyScaledLBFGSCentralVerifyPass    // a difference gradient passed the test
 	powellBadlyScaledLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// powellBadlyScaledLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellBadlyScaledLBFGSCentralValue(x, g *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) float64 {
+	return PowellBadlyScaled(x)
+}
 
 // powellBadlyScaledLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,16 +1090,22 @@ func powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float6
 	return measure, floor
 }
 
-// powellBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(powellBadlyScaledLBFGSCentralAbs(s[i]) <= tol*(powellBadlyScaledLBFGSCentralAbs(x[i])+1)) {
+		if !(powellBadlyScaledLBFGSCentralAbs(s[i]) <= tol*powellBadlyScaledLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// powellBadlyScaledLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellBadlyScaledLBFGSCentralStepScale(xi float64) float64 {
+	return powellBadlyScaledLBFGSCentralAbs(xi) + 1
 }
 
 // powellBadlyScaledLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1098,17 +1113,22 @@ func powellBadlyScaledLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *powellBa
 }
 
 // powellBadlyScaledLBFGSCentralSearchDirection is the direction's own.
-func powellBadlyScaledLBFGSCentralSearchDirection(dir *powellBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, b *powellBadlyScaledLBFGSCentralBox) {
+func powellBadlyScaledLBFGSCentralSearchDirection(dir *powellBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
+	powellBadlyScaledLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// powellBadlyScaledLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func powellBadlyScaledLBFGSCentralSolveDirection(dir *powellBadlyScaledLBFGSCentralDirection, g, d *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // powellBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellBadlyScaledLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellBadlyScaledLBFGSCentralAbs(x[i]) + 1) / powellBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledLBFGSCentralStepScale(x[i]) / powellBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1168,7 +1188,7 @@ func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2
 			return powellBadlyScaledLBFGSCentralLineResult{calls: calls, end: powellBadlyScaledLBFGSCentralSearchOutOfBudget}
 		}
 		powellBadlyScaledLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellBadlyScaledLBFGSCentralLinePoint{step: t, value: PowellBadlyScaled(xt)}
+		current := powellBadlyScaledLBFGSCentralLinePoint{step: t, value: powellBadlyScaledLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellBadlyScaledLBFGSCentralFinite(current.value) || current.value > fx+powellBadlyScaledLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *powellSingularBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellSingularBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellSingularBFGSAnalyticFinite(r.fx) || !powellSingularBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PowellSingularBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellSingularBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves powellSingularBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *powellSingularBFGSAnalyticDescent) search() {
-	powellSingularBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellSingularBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !powellSingularBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellSingularBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellSingularBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(powellSingularBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type powellSingularBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularBFGSAnalyticRoundingFloor)
 	bounds    powellSingularBFGSAnalyticBox
+	model     powellSingularBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (powellSingularBFGSAnalyticResidualModel for any other)
 }
+
+// powellSingularBFGSAnalyticResidualModel is powellSingularBFGSAnalyticResidualModel for any other objective: nothing.
+type powellSingularBFGSAnalyticResidualModel struct{}
 
 // powellSingularBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	powellSingularBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellSingularBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellSingularBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellSingularBFGSAnalyticValue(x, g *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) float64 {
+	return PowellSingular(x)
+}
 
 // powellSingularBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func powellSingularBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) 
 	return measure, floor
 }
 
-// powellSingularBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellSingularBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellSingularBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(powellSingularBFGSAnalyticAbs(s[i]) <= tol*(powellSingularBFGSAnalyticAbs(x[i])+1)) {
+		if !(powellSingularBFGSAnalyticAbs(s[i]) <= tol*powellSingularBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// powellSingularBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellSingularBFGSAnalyticStepScale(xi float64) float64 {
+	return powellSingularBFGSAnalyticAbs(xi) + 1
+}
+
 // powellSingularBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func powellSingularBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularBFGSAnalyticBox) {}
 
 // powellSingularBFGSAnalyticSearchDirection is the direction's own.
-func powellSingularBFGSAnalyticSearchDirection(dir *powellSingularBFGSAnalyticDirection, x, g, d *[4]float64, b *powellSingularBFGSAnalyticBox) {
+func powellSingularBFGSAnalyticSearchDirection(dir *powellSingularBFGSAnalyticDirection, x, g, d *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
+	powellSingularBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// powellSingularBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func powellSingularBFGSAnalyticSolveDirection(dir *powellSingularBFGSAnalyticDirection, g, d *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // powellSingularBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellSingularBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellSingularBFGSAnalyticAbs(x[i]) + 1) / powellSingularBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularBFGSAnalyticStepScale(x[i]) / powellSingularBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]fl
 			return powellSingularBFGSAnalyticLineResult{calls: calls, end: powellSingularBFGSAnalyticSearchOutOfBudget}
 		}
 		powellSingularBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellSingularBFGSAnalyticLinePoint{step: t, value: PowellSingular(xt)}
+		current := powellSingularBFGSAnalyticLinePoint{step: t, value: powellSingularBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellSingularBFGSAnalyticFinite(current.value) || current.value > fx+powellSingularBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *powellSingularBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellSingularBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellSingularBFGSCentralFinite(r.fx) || !powellSingularBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PowellSingularBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellSingularBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves powellSingularBFGSCentralStageJudge next when the run
 // goes on.
 func (r *powellSingularBFGSCentralDescent) search() {
-	powellSingularBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellSingularBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !powellSingularBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellSingularBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellSingularBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(powellSingularBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type powellSingularBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularBFGSCentralRoundingFloor)
 	bounds    powellSingularBFGSCentralBox
+	model     powellSingularBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (powellSingularBFGSCentralResidualModel for any other)
 }
+
+// powellSingularBFGSCentralResidualModel is powellSingularBFGSCentralResidualModel for any other objective: nothing.
+type powellSingularBFGSCentralResidualModel struct{}
 
 // powellSingularBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	powellSingularBFGSCentralVerifyPass    // a difference gradient passed the test
 	powellSingularBFGSCentralVerifyStall   // no step makes progress
 )
+
+// powellSingularBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellSingularBFGSCentralValue(x, g *[4]float64, diffs *powellSingularBFGSCentralDifferences) float64 {
+	return PowellSingular(x)
+}
 
 // powellSingularBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (
 	return measure, floor
 }
 
-// powellSingularBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellSingularBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·powellSingularBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*(powellSingularBFGSCentralAbs(x[i])+1)) {
+		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*powellSingularBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// powellSingularBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellSingularBFGSCentralStepScale(xi float64) float64 {
+	return powellSingularBFGSCentralAbs(xi) + 1
+}
+
 // powellSingularBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func powellSingularBFGSCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularBFGSCentralBox) {}
 
 // powellSingularBFGSCentralSearchDirection is the direction's own.
-func powellSingularBFGSCentralSearchDirection(dir *powellSingularBFGSCentralDirection, x, g, d *[4]float64, b *powellSingularBFGSCentralBox) {
+func powellSingularBFGSCentralSearchDirection(dir *powellSingularBFGSCentralDirection, x, g, d *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
+	powellSingularBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// powellSingularBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func powellSingularBFGSCentralSolveDirection(dir *powellSingularBFGSCentralDirection, g, d *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // powellSingularBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellSingularBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellSingularBFGSCentralAbs(x[i]) + 1) / powellSingularBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularBFGSCentralStepScale(x[i]) / powellSingularBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]flo
 			return powellSingularBFGSCentralLineResult{calls: calls, end: powellSingularBFGSCentralSearchOutOfBudget}
 		}
 		powellSingularBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellSingularBFGSCentralLinePoint{step: t, value: PowellSingular(xt)}
+		current := powellSingularBFGSCentralLinePoint{step: t, value: powellSingularBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellSingularBFGSCentralFinite(current.value) || current.value > fx+powellSingularBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *powellSingularCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellSingularCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellSingularCGAnalyticFinite(r.fx) || !powellSingularCGAnalyticFiniteVec(&r.x) {
 		r.out.status = PowellSingularCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellSingularCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves powellSingularCGAnalyticStageJudge next when the run
 // goes on.
 func (r *powellSingularCGAnalyticDescent) search() {
-	powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !powellSingularCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(powellSingularCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type powellSingularCGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularCGAnalyticRoundingFloor)
 	bounds    powellSingularCGAnalyticBox
+	model     powellSingularCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (powellSingularCGAnalyticResidualModel for any other)
 }
+
+// powellSingularCGAnalyticResidualModel is powellSingularCGAnalyticResidualModel for any other objective: nothing.
+type powellSingularCGAnalyticResidualModel struct{}
 
 // powellSingularCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	powellSingularCGAnalyticVerifyPass    // a difference gradient passed the test
 	powellSingularCGAnalyticVerifyStall   // no step makes progress
 )
+
+// powellSingularCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellSingularCGAnalyticValue(x, g *[4]float64, diffs *powellSingularCGAnalyticDifferences) float64 {
+	return PowellSingular(x)
+}
 
 // powellSingularCGAnalyticFiniteVec reports whether every component of x is finite.
 func powellSingularCGAnalyticFiniteVec(x *[4]float64) bool {
@@ -865,33 +874,44 @@ func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (m
 	return measure, floor
 }
 
-// powellSingularCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellSingularCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellSingularCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*(powellSingularCGAnalyticAbs(x[i])+1)) {
+		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*powellSingularCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// powellSingularCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellSingularCGAnalyticStepScale(xi float64) float64 {
+	return powellSingularCGAnalyticAbs(xi) + 1
+}
+
 // powellSingularCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func powellSingularCGAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularCGAnalyticBox) {}
 
 // powellSingularCGAnalyticSearchDirection is the direction's own.
-func powellSingularCGAnalyticSearchDirection(dir *powellSingularCGAnalyticDirection, x, g, d *[4]float64, b *powellSingularCGAnalyticBox) {
+func powellSingularCGAnalyticSearchDirection(dir *powellSingularCGAnalyticDirection, x, g, d *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
+	powellSingularCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// powellSingularCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func powellSingularCGAnalyticSolveDirection(dir *powellSingularCGAnalyticDirection, g, d *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // powellSingularCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellSingularCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellSingularCGAnalyticAbs(x[i]) + 1) / powellSingularCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularCGAnalyticStepScale(x[i]) / powellSingularCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]floa
 			return powellSingularCGAnalyticLineResult{calls: calls, end: powellSingularCGAnalyticSearchOutOfBudget}
 		}
 		powellSingularCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellSingularCGAnalyticLinePoint{step: t, value: PowellSingular(xt)}
+		current := powellSingularCGAnalyticLinePoint{step: t, value: powellSingularCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellSingularCGAnalyticFinite(current.value) || current.value > fx+powellSingularCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *powellSingularCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellSingularCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellSingularCGCentralFinite(r.fx) || !powellSingularCGCentralFiniteVec(&r.x) {
 		r.out.status = PowellSingularCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *powellSingularCGCentralDescent) judge() {
 // the gradient at the new point; it leaves powellSingularCGCentralStageJudge next when the run
 // goes on.
 func (r *powellSingularCGCentralDescent) search() {
-	powellSingularCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellSingularCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !powellSingularCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellSingularCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellSingularCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(powellSingularCGCentralStepInitial)
@@ -547,7 +547,11 @@ type powellSingularCGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularCGCentralRoundingFloor)
 	bounds    powellSingularCGCentralBox
+	model     powellSingularCGCentralResidualModel // a residual objective's residuals and Jacobian products (powellSingularCGCentralResidualModel for any other)
 }
+
+// powellSingularCGCentralResidualModel is powellSingularCGCentralResidualModel for any other objective: nothing.
+type powellSingularCGCentralResidualModel struct{}
 
 // powellSingularCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	powellSingularCGCentralVerifyPass    // a difference gradient passed the test
 	powellSingularCGCentralVerifyStall   // no step makes progress
 )
+
+// powellSingularCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellSingularCGCentralValue(x, g *[4]float64, diffs *powellSingularCGCentralDifferences) float64 {
+	return PowellSingular(x)
+}
 
 // powellSingularCGCentralFiniteVec reports whether every component of x is finite.
 func powellSingularCGCentralFiniteVec(x *[4]float64) bool {
@@ -1044,33 +1053,44 @@ func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (me
 	return measure, floor
 }
 
-// powellSingularCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellSingularCGCentralStepWithin is the step test: every |s_i| ≤ tol·powellSingularCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(powellSingularCGCentralAbs(s[i]) <= tol*(powellSingularCGCentralAbs(x[i])+1)) {
+		if !(powellSingularCGCentralAbs(s[i]) <= tol*powellSingularCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// powellSingularCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellSingularCGCentralStepScale(xi float64) float64 {
+	return powellSingularCGCentralAbs(xi) + 1
+}
+
 // powellSingularCGCentralCurvaturePair: without bounds the pair is used as it is.
 func powellSingularCGCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularCGCentralBox) {}
 
 // powellSingularCGCentralSearchDirection is the direction's own.
-func powellSingularCGCentralSearchDirection(dir *powellSingularCGCentralDirection, x, g, d *[4]float64, b *powellSingularCGCentralBox) {
+func powellSingularCGCentralSearchDirection(dir *powellSingularCGCentralDirection, x, g, d *[4]float64, diffs *powellSingularCGCentralDifferences) {
+	powellSingularCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// powellSingularCGCentralSolveDirection is the direction's own rule, from its memory.
+func powellSingularCGCentralSolveDirection(dir *powellSingularCGCentralDirection, g, d *[4]float64, diffs *powellSingularCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // powellSingularCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellSingularCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellSingularCGCentralAbs(x[i]) + 1) / powellSingularCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularCGCentralStepScale(x[i]) / powellSingularCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float
 			return powellSingularCGCentralLineResult{calls: calls, end: powellSingularCGCentralSearchOutOfBudget}
 		}
 		powellSingularCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellSingularCGCentralLinePoint{step: t, value: PowellSingular(xt)}
+		current := powellSingularCGCentralLinePoint{step: t, value: powellSingularCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellSingularCGCentralFinite(current.value) || current.value > fx+powellSingularCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *powellSingularLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellSingularLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellSingularLBFGSAnalyticFinite(r.fx) || !powellSingularLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = PowellSingularLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *powellSingularLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves powellSingularLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *powellSingularLBFGSAnalyticDescent) search() {
-	powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !powellSingularLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(powellSingularLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type powellSingularLBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularLBFGSAnalyticRoundingFloor)
 	bounds    powellSingularLBFGSAnalyticBox
+	model     powellSingularLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (powellSingularLBFGSAnalyticResidualModel for any other)
 }
+
+// powellSingularLBFGSAnalyticResidualModel is powellSingularLBFGSAnalyticResidualModel for any other objective: nothing.
+type powellSingularLBFGSAnalyticResidualModel struct{}
 
 // powellSingularLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last powellSingularLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	powellSingularLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	powellSingularLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// powellSingularLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellSingularLBFGSAnalyticValue(x, g *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
+	return PowellSingular(x)
+}
 
 // powellSingularLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,16 +911,22 @@ func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64)
 	return measure, floor
 }
 
-// powellSingularLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellSingularLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellSingularLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*(powellSingularLBFGSAnalyticAbs(x[i])+1)) {
+		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*powellSingularLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// powellSingularLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellSingularLBFGSAnalyticStepScale(xi float64) float64 {
+	return powellSingularLBFGSAnalyticAbs(xi) + 1
 }
 
 // powellSingularLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -919,17 +934,22 @@ func powellSingularLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSing
 }
 
 // powellSingularLBFGSAnalyticSearchDirection is the direction's own.
-func powellSingularLBFGSAnalyticSearchDirection(dir *powellSingularLBFGSAnalyticDirection, x, g, d *[4]float64, b *powellSingularLBFGSAnalyticBox) {
+func powellSingularLBFGSAnalyticSearchDirection(dir *powellSingularLBFGSAnalyticDirection, x, g, d *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
+	powellSingularLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// powellSingularLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func powellSingularLBFGSAnalyticSolveDirection(dir *powellSingularLBFGSAnalyticDirection, g, d *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // powellSingularLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellSingularLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellSingularLBFGSAnalyticAbs(x[i]) + 1) / powellSingularLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularLBFGSAnalyticStepScale(x[i]) / powellSingularLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -989,7 +1009,7 @@ func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]f
 			return powellSingularLBFGSAnalyticLineResult{calls: calls, end: powellSingularLBFGSAnalyticSearchOutOfBudget}
 		}
 		powellSingularLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellSingularLBFGSAnalyticLinePoint{step: t, value: PowellSingular(xt)}
+		current := powellSingularLBFGSAnalyticLinePoint{step: t, value: powellSingularLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellSingularLBFGSAnalyticFinite(current.value) || current.value > fx+powellSingularLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *powellSingularLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = PowellSingular(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = powellSingularLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !powellSingularLBFGSCentralFinite(r.fx) || !powellSingularLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = PowellSingularLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *powellSingularLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves powellSingularLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *powellSingularLBFGSCentralDescent) search() {
-	powellSingularLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	powellSingularLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !powellSingularLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		powellSingularLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		powellSingularLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(powellSingularLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type powellSingularLBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularLBFGSCentralRoundingFloor)
 	bounds    powellSingularLBFGSCentralBox
+	model     powellSingularLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (powellSingularLBFGSCentralResidualModel for any other)
 }
+
+// powellSingularLBFGSCentralResidualModel is powellSingularLBFGSCentralResidualModel for any other objective: nothing.
+type powellSingularLBFGSCentralResidualModel struct{}
 
 // powellSingularLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last powellSingularLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	powellSingularLBFGSCentralVerifyPass    // a difference gradient passed the test
 	powellSingularLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// powellSingularLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func powellSingularLBFGSCentralValue(x, g *[4]float64, diffs *powellSingularLBFGSCentralDifferences) float64 {
+	return PowellSingular(x)
+}
 
 // powellSingularLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func powellSingularLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) 
 	return measure, floor
 }
 
-// powellSingularLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// powellSingularLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·powellSingularLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func powellSingularLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(powellSingularLBFGSCentralAbs(s[i]) <= tol*(powellSingularLBFGSCentralAbs(x[i])+1)) {
+		if !(powellSingularLBFGSCentralAbs(s[i]) <= tol*powellSingularLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// powellSingularLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func powellSingularLBFGSCentralStepScale(xi float64) float64 {
+	return powellSingularLBFGSCentralAbs(xi) + 1
+}
+
 // powellSingularLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func powellSingularLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularLBFGSCentralBox) {}
 
 // powellSingularLBFGSCentralSearchDirection is the direction's own.
-func powellSingularLBFGSCentralSearchDirection(dir *powellSingularLBFGSCentralDirection, x, g, d *[4]float64, b *powellSingularLBFGSCentralBox) {
+func powellSingularLBFGSCentralSearchDirection(dir *powellSingularLBFGSCentralDirection, x, g, d *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
+	powellSingularLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// powellSingularLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func powellSingularLBFGSCentralSolveDirection(dir *powellSingularLBFGSCentralDirection, g, d *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // powellSingularLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·powellSingularLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (powellSingularLBFGSCentralAbs(x[i]) + 1) / powellSingularLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularLBFGSCentralStepScale(x[i]) / powellSingularLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]fl
 			return powellSingularLBFGSCentralLineResult{calls: calls, end: powellSingularLBFGSCentralSearchOutOfBudget}
 		}
 		powellSingularLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := powellSingularLBFGSCentralLinePoint{step: t, value: PowellSingular(xt)}
+		current := powellSingularLBFGSCentralLinePoint{step: t, value: powellSingularLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !powellSingularLBFGSCentralFinite(current.value) || current.value > fx+powellSingularLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *rosenbrockBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = rosenbrockBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !rosenbrockBFGSAnalyticFinite(r.fx) || !rosenbrockBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = RosenbrockBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *rosenbrockBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves rosenbrockBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *rosenbrockBFGSAnalyticDescent) search() {
-	rosenbrockBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	rosenbrockBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := rosenbrockBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !rosenbrockBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		rosenbrockBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		rosenbrockBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = rosenbrockBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(rosenbrockBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type rosenbrockBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockBFGSAnalyticRoundingFloor)
 	bounds    rosenbrockBFGSAnalyticBox
+	model     rosenbrockBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (rosenbrockBFGSAnalyticResidualModel for any other)
 }
+
+// rosenbrockBFGSAnalyticResidualModel is rosenbrockBFGSAnalyticResidualModel for any other objective: nothing.
+type rosenbrockBFGSAnalyticResidualModel struct{}
 
 // rosenbrockBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	rosenbrockBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	rosenbrockBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// rosenbrockBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func rosenbrockBFGSAnalyticValue(x, g *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) float64 {
+	return Rosenbrock(x)
+}
 
 // rosenbrockBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (mea
 	return measure, floor
 }
 
-// rosenbrockBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// rosenbrockBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·rosenbrockBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockBFGSAnalyticAbs(x[i])+1)) {
+		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*rosenbrockBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// rosenbrockBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func rosenbrockBFGSAnalyticStepScale(xi float64) float64 {
+	return rosenbrockBFGSAnalyticAbs(xi) + 1
+}
+
 // rosenbrockBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockBFGSAnalyticBox) {}
 
 // rosenbrockBFGSAnalyticSearchDirection is the direction's own.
-func rosenbrockBFGSAnalyticSearchDirection(dir *rosenbrockBFGSAnalyticDirection, x, g, d *[2]float64, b *rosenbrockBFGSAnalyticBox) {
+func rosenbrockBFGSAnalyticSearchDirection(dir *rosenbrockBFGSAnalyticDirection, x, g, d *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
+	rosenbrockBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// rosenbrockBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func rosenbrockBFGSAnalyticSolveDirection(dir *rosenbrockBFGSAnalyticDirection, g, d *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // rosenbrockBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·rosenbrockBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (rosenbrockBFGSAnalyticAbs(x[i]) + 1) / rosenbrockBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockBFGSAnalyticStepScale(x[i]) / rosenbrockBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float6
 			return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchOutOfBudget}
 		}
 		rosenbrockBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := rosenbrockBFGSAnalyticLinePoint{step: t, value: Rosenbrock(xt)}
+		current := rosenbrockBFGSAnalyticLinePoint{step: t, value: rosenbrockBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !rosenbrockBFGSAnalyticFinite(current.value) || current.value > fx+rosenbrockBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

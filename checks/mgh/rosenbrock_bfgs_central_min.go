@@ -354,7 +354,7 @@ func (r *rosenbrockBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = rosenbrockBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !rosenbrockBFGSCentralFinite(r.fx) || !rosenbrockBFGSCentralFiniteVec(&r.x) {
 		r.out.status = RosenbrockBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *rosenbrockBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves rosenbrockBFGSCentralStageJudge next when the run
 // goes on.
 func (r *rosenbrockBFGSCentralDescent) search() {
-	rosenbrockBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	rosenbrockBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := rosenbrockBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !rosenbrockBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		rosenbrockBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		rosenbrockBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = rosenbrockBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(rosenbrockBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type rosenbrockBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockBFGSCentralRoundingFloor)
 	bounds    rosenbrockBFGSCentralBox
+	model     rosenbrockBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (rosenbrockBFGSCentralResidualModel for any other)
 }
+
+// rosenbrockBFGSCentralResidualModel is rosenbrockBFGSCentralResidualModel for any other objective: nothing.
+type rosenbrockBFGSCentralResidualModel struct{}
 
 // rosenbrockBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	rosenbrockBFGSCentralVerifyPass    // a difference gradient passed the test
 	rosenbrockBFGSCentralVerifyStall   // no step makes progress
 )
+
+// rosenbrockBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func rosenbrockBFGSCentralValue(x, g *[2]float64, diffs *rosenbrockBFGSCentralDifferences) float64 {
+	return Rosenbrock(x)
+}
 
 // rosenbrockBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (meas
 	return measure, floor
 }
 
-// rosenbrockBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// rosenbrockBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·rosenbrockBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*(rosenbrockBFGSCentralAbs(x[i])+1)) {
+		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*rosenbrockBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// rosenbrockBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func rosenbrockBFGSCentralStepScale(xi float64) float64 {
+	return rosenbrockBFGSCentralAbs(xi) + 1
+}
+
 // rosenbrockBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockBFGSCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockBFGSCentralBox) {}
 
 // rosenbrockBFGSCentralSearchDirection is the direction's own.
-func rosenbrockBFGSCentralSearchDirection(dir *rosenbrockBFGSCentralDirection, x, g, d *[2]float64, b *rosenbrockBFGSCentralBox) {
+func rosenbrockBFGSCentralSearchDirection(dir *rosenbrockBFGSCentralDirection, x, g, d *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
+	rosenbrockBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// rosenbrockBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func rosenbrockBFGSCentralSolveDirection(dir *rosenbrockBFGSCentralDirection, g, d *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // rosenbrockBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·rosenbrockBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (rosenbrockBFGSCentralAbs(x[i]) + 1) / rosenbrockBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockBFGSCentralStepScale(x[i]) / rosenbrockBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64
 			return rosenbrockBFGSCentralLineResult{calls: calls, end: rosenbrockBFGSCentralSearchOutOfBudget}
 		}
 		rosenbrockBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := rosenbrockBFGSCentralLinePoint{step: t, value: Rosenbrock(xt)}
+		current := rosenbrockBFGSCentralLinePoint{step: t, value: rosenbrockBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !rosenbrockBFGSCentralFinite(current.value) || current.value > fx+rosenbrockBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *rosenbrockCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = rosenbrockCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !rosenbrockCGAnalyticFinite(r.fx) || !rosenbrockCGAnalyticFiniteVec(&r.x) {
 		r.out.status = RosenbrockCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *rosenbrockCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves rosenbrockCGAnalyticStageJudge next when the run
 // goes on.
 func (r *rosenbrockCGAnalyticDescent) search() {
-	rosenbrockCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	rosenbrockCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := rosenbrockCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !rosenbrockCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		rosenbrockCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		rosenbrockCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = rosenbrockCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(rosenbrockCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type rosenbrockCGAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockCGAnalyticRoundingFloor)
 	bounds    rosenbrockCGAnalyticBox
+	model     rosenbrockCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (rosenbrockCGAnalyticResidualModel for any other)
 }
+
+// rosenbrockCGAnalyticResidualModel is rosenbrockCGAnalyticResidualModel for any other objective: nothing.
+type rosenbrockCGAnalyticResidualModel struct{}
 
 // rosenbrockCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	rosenbrockCGAnalyticVerifyPass    // a difference gradient passed the test
 	rosenbrockCGAnalyticVerifyStall   // no step makes progress
 )
+
+// rosenbrockCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func rosenbrockCGAnalyticValue(x, g *[2]float64, diffs *rosenbrockCGAnalyticDifferences) float64 {
+	return Rosenbrock(x)
+}
 
 // rosenbrockCGAnalyticFiniteVec reports whether every component of x is finite.
 func rosenbrockCGAnalyticFiniteVec(x *[2]float64) bool {
@@ -865,33 +874,44 @@ func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measu
 	return measure, floor
 }
 
-// rosenbrockCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// rosenbrockCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·rosenbrockCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*(rosenbrockCGAnalyticAbs(x[i])+1)) {
+		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*rosenbrockCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// rosenbrockCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func rosenbrockCGAnalyticStepScale(xi float64) float64 {
+	return rosenbrockCGAnalyticAbs(xi) + 1
+}
+
 // rosenbrockCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockCGAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockCGAnalyticBox) {}
 
 // rosenbrockCGAnalyticSearchDirection is the direction's own.
-func rosenbrockCGAnalyticSearchDirection(dir *rosenbrockCGAnalyticDirection, x, g, d *[2]float64, b *rosenbrockCGAnalyticBox) {
+func rosenbrockCGAnalyticSearchDirection(dir *rosenbrockCGAnalyticDirection, x, g, d *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
+	rosenbrockCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// rosenbrockCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func rosenbrockCGAnalyticSolveDirection(dir *rosenbrockCGAnalyticDirection, g, d *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // rosenbrockCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·rosenbrockCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (rosenbrockCGAnalyticAbs(x[i]) + 1) / rosenbrockCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockCGAnalyticStepScale(x[i]) / rosenbrockCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64,
 			return rosenbrockCGAnalyticLineResult{calls: calls, end: rosenbrockCGAnalyticSearchOutOfBudget}
 		}
 		rosenbrockCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := rosenbrockCGAnalyticLinePoint{step: t, value: Rosenbrock(xt)}
+		current := rosenbrockCGAnalyticLinePoint{step: t, value: rosenbrockCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !rosenbrockCGAnalyticFinite(current.value) || current.value > fx+rosenbrockCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

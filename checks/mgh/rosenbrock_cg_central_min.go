@@ -354,7 +354,7 @@ func (r *rosenbrockCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = rosenbrockCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !rosenbrockCGCentralFinite(r.fx) || !rosenbrockCGCentralFiniteVec(&r.x) {
 		r.out.status = RosenbrockCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *rosenbrockCGCentralDescent) judge() {
 // the gradient at the new point; it leaves rosenbrockCGCentralStageJudge next when the run
 // goes on.
 func (r *rosenbrockCGCentralDescent) search() {
-	rosenbrockCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	rosenbrockCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := rosenbrockCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !rosenbrockCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		rosenbrockCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		rosenbrockCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = rosenbrockCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(rosenbrockCGCentralStepInitial)
@@ -547,7 +547,11 @@ type rosenbrockCGCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockCGCentralRoundingFloor)
 	bounds    rosenbrockCGCentralBox
+	model     rosenbrockCGCentralResidualModel // a residual objective's residuals and Jacobian products (rosenbrockCGCentralResidualModel for any other)
 }
+
+// rosenbrockCGCentralResidualModel is rosenbrockCGCentralResidualModel for any other objective: nothing.
+type rosenbrockCGCentralResidualModel struct{}
 
 // rosenbrockCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	rosenbrockCGCentralVerifyPass    // a difference gradient passed the test
 	rosenbrockCGCentralVerifyStall   // no step makes progress
 )
+
+// rosenbrockCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func rosenbrockCGCentralValue(x, g *[2]float64, diffs *rosenbrockCGCentralDifferences) float64 {
+	return Rosenbrock(x)
+}
 
 // rosenbrockCGCentralFiniteVec reports whether every component of x is finite.
 func rosenbrockCGCentralFiniteVec(x *[2]float64) bool {
@@ -1044,33 +1053,44 @@ func rosenbrockCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measur
 	return measure, floor
 }
 
-// rosenbrockCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// rosenbrockCGCentralStepWithin is the step test: every |s_i| ≤ tol·rosenbrockCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(rosenbrockCGCentralAbs(s[i]) <= tol*(rosenbrockCGCentralAbs(x[i])+1)) {
+		if !(rosenbrockCGCentralAbs(s[i]) <= tol*rosenbrockCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// rosenbrockCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func rosenbrockCGCentralStepScale(xi float64) float64 {
+	return rosenbrockCGCentralAbs(xi) + 1
+}
+
 // rosenbrockCGCentralCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockCGCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockCGCentralBox) {}
 
 // rosenbrockCGCentralSearchDirection is the direction's own.
-func rosenbrockCGCentralSearchDirection(dir *rosenbrockCGCentralDirection, x, g, d *[2]float64, b *rosenbrockCGCentralBox) {
+func rosenbrockCGCentralSearchDirection(dir *rosenbrockCGCentralDirection, x, g, d *[2]float64, diffs *rosenbrockCGCentralDifferences) {
+	rosenbrockCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// rosenbrockCGCentralSolveDirection is the direction's own rule, from its memory.
+func rosenbrockCGCentralSolveDirection(dir *rosenbrockCGCentralDirection, g, d *[2]float64, diffs *rosenbrockCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // rosenbrockCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·rosenbrockCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (rosenbrockCGCentralAbs(x[i]) + 1) / rosenbrockCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockCGCentralStepScale(x[i]) / rosenbrockCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, 
 			return rosenbrockCGCentralLineResult{calls: calls, end: rosenbrockCGCentralSearchOutOfBudget}
 		}
 		rosenbrockCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := rosenbrockCGCentralLinePoint{step: t, value: Rosenbrock(xt)}
+		current := rosenbrockCGCentralLinePoint{step: t, value: rosenbrockCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !rosenbrockCGCentralFinite(current.value) || current.value > fx+rosenbrockCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

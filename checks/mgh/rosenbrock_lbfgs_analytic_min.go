@@ -355,7 +355,7 @@ func (r *rosenbrockLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = rosenbrockLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !rosenbrockLBFGSAnalyticFinite(r.fx) || !rosenbrockLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = RosenbrockLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *rosenbrockLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves rosenbrockLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *rosenbrockLBFGSAnalyticDescent) search() {
-	rosenbrockLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	rosenbrockLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := rosenbrockLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !rosenbrockLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		rosenbrockLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		rosenbrockLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = rosenbrockLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(rosenbrockLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type rosenbrockLBFGSAnalyticDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockLBFGSAnalyticRoundingFloor)
 	bounds    rosenbrockLBFGSAnalyticBox
+	model     rosenbrockLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (rosenbrockLBFGSAnalyticResidualModel for any other)
 }
+
+// rosenbrockLBFGSAnalyticResidualModel is rosenbrockLBFGSAnalyticResidualModel for any other objective: nothing.
+type rosenbrockLBFGSAnalyticResidualModel struct{}
 
 // rosenbrockLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last rosenbrockLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	rosenbrockLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	rosenbrockLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// rosenbrockLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func rosenbrockLBFGSAnalyticValue(x, g *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) float64 {
+	return Rosenbrock(x)
+}
 
 // rosenbrockLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (me
 	return measure, floor
 }
 
-// rosenbrockLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// rosenbrockLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·rosenbrockLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockLBFGSAnalyticAbs(x[i])+1)) {
+		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*rosenbrockLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// rosenbrockLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func rosenbrockLBFGSAnalyticStepScale(xi float64) float64 {
+	return rosenbrockLBFGSAnalyticAbs(xi) + 1
+}
+
 // rosenbrockLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockLBFGSAnalyticBox) {}
 
 // rosenbrockLBFGSAnalyticSearchDirection is the direction's own.
-func rosenbrockLBFGSAnalyticSearchDirection(dir *rosenbrockLBFGSAnalyticDirection, x, g, d *[2]float64, b *rosenbrockLBFGSAnalyticBox) {
+func rosenbrockLBFGSAnalyticSearchDirection(dir *rosenbrockLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
+	rosenbrockLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// rosenbrockLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func rosenbrockLBFGSAnalyticSolveDirection(dir *rosenbrockLBFGSAnalyticDirection, g, d *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // rosenbrockLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·rosenbrockLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (rosenbrockLBFGSAnalyticAbs(x[i]) + 1) / rosenbrockLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockLBFGSAnalyticStepScale(x[i]) / rosenbrockLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float
 			return rosenbrockLBFGSAnalyticLineResult{calls: calls, end: rosenbrockLBFGSAnalyticSearchOutOfBudget}
 		}
 		rosenbrockLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := rosenbrockLBFGSAnalyticLinePoint{step: t, value: Rosenbrock(xt)}
+		current := rosenbrockLBFGSAnalyticLinePoint{step: t, value: rosenbrockLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !rosenbrockLBFGSAnalyticFinite(current.value) || current.value > fx+rosenbrockLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *rosenbrockLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Rosenbrock(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = rosenbrockLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !rosenbrockLBFGSCentralFinite(r.fx) || !rosenbrockLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = RosenbrockLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *rosenbrockLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves rosenbrockLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *rosenbrockLBFGSCentralDescent) search() {
-	rosenbrockLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	rosenbrockLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := rosenbrockLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !rosenbrockLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		rosenbrockLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		rosenbrockLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = rosenbrockLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(rosenbrockLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type rosenbrockLBFGSCentralDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockLBFGSCentralRoundingFloor)
 	bounds    rosenbrockLBFGSCentralBox
+	model     rosenbrockLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (rosenbrockLBFGSCentralResidualModel for any other)
 }
+
+// rosenbrockLBFGSCentralResidualModel is rosenbrockLBFGSCentralResidualModel for any other objective: nothing.
+type rosenbrockLBFGSCentralResidualModel struct{}
 
 // rosenbrockLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last rosenbrockLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	rosenbrockLBFGSCentralVerifyPass    // a difference gradient passed the test
 	rosenbrockLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// rosenbrockLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func rosenbrockLBFGSCentralValue(x, g *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) float64 {
+	return Rosenbrock(x)
+}
 
 // rosenbrockLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (mea
 	return measure, floor
 }
 
-// rosenbrockLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// rosenbrockLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·rosenbrockLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*(rosenbrockLBFGSCentralAbs(x[i])+1)) {
+		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*rosenbrockLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// rosenbrockLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func rosenbrockLBFGSCentralStepScale(xi float64) float64 {
+	return rosenbrockLBFGSCentralAbs(xi) + 1
+}
+
 // rosenbrockLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockLBFGSCentralBox) {}
 
 // rosenbrockLBFGSCentralSearchDirection is the direction's own.
-func rosenbrockLBFGSCentralSearchDirection(dir *rosenbrockLBFGSCentralDirection, x, g, d *[2]float64, b *rosenbrockLBFGSCentralBox) {
+func rosenbrockLBFGSCentralSearchDirection(dir *rosenbrockLBFGSCentralDirection, x, g, d *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
+	rosenbrockLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// rosenbrockLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func rosenbrockLBFGSCentralSolveDirection(dir *rosenbrockLBFGSCentralDirection, g, d *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // rosenbrockLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·rosenbrockLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (rosenbrockLBFGSCentralAbs(x[i]) + 1) / rosenbrockLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockLBFGSCentralStepScale(x[i]) / rosenbrockLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float6
 			return rosenbrockLBFGSCentralLineResult{calls: calls, end: rosenbrockLBFGSCentralSearchOutOfBudget}
 		}
 		rosenbrockLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := rosenbrockLBFGSCentralLinePoint{step: t, value: Rosenbrock(xt)}
+		current := rosenbrockLBFGSCentralLinePoint{step: t, value: rosenbrockLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !rosenbrockLBFGSCentralFinite(current.value) || current.value > fx+rosenbrockLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

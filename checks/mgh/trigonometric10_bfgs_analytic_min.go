@@ -354,7 +354,7 @@ func (r *trigonometric10BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = trigonometric10BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !trigonometric10BFGSAnalyticFinite(r.fx) || !trigonometric10BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Trigonometric10BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *trigonometric10BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves trigonometric10BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *trigonometric10BFGSAnalyticDescent) search() {
-	trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !trigonometric10BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(trigonometric10BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type trigonometric10BFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10BFGSAnalyticRoundingFloor)
 	bounds    trigonometric10BFGSAnalyticBox
+	model     trigonometric10BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (trigonometric10BFGSAnalyticResidualModel for any other)
 }
+
+// trigonometric10BFGSAnalyticResidualModel is trigonometric10BFGSAnalyticResidualModel for any other objective: nothing.
+type trigonometric10BFGSAnalyticResidualModel struct{}
 
 // trigonometric10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	trigonometric10BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	trigonometric10BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// trigonometric10BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func trigonometric10BFGSAnalyticValue(x, g *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) float64 {
+	return Trigonometric10(x)
+}
 
 // trigonometric10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,16 +885,22 @@ func trigonometric10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64
 	return measure, floor
 }
 
-// trigonometric10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// trigonometric10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·trigonometric10BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func trigonometric10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(trigonometric10BFGSAnalyticAbs(s[i]) <= tol*(trigonometric10BFGSAnalyticAbs(x[i])+1)) {
+		if !(trigonometric10BFGSAnalyticAbs(s[i]) <= tol*trigonometric10BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// trigonometric10BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func trigonometric10BFGSAnalyticStepScale(xi float64) float64 {
+	return trigonometric10BFGSAnalyticAbs(xi) + 1
 }
 
 // trigonometric10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -893,17 +908,22 @@ func trigonometric10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonome
 }
 
 // trigonometric10BFGSAnalyticSearchDirection is the direction's own.
-func trigonometric10BFGSAnalyticSearchDirection(dir *trigonometric10BFGSAnalyticDirection, x, g, d *[10]float64, b *trigonometric10BFGSAnalyticBox) {
+func trigonometric10BFGSAnalyticSearchDirection(dir *trigonometric10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
+	trigonometric10BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// trigonometric10BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func trigonometric10BFGSAnalyticSolveDirection(dir *trigonometric10BFGSAnalyticDirection, g, d *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // trigonometric10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·trigonometric10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (trigonometric10BFGSAnalyticAbs(x[i]) + 1) / trigonometric10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10BFGSAnalyticStepScale(x[i]) / trigonometric10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -963,7 +983,7 @@ func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10
 			return trigonometric10BFGSAnalyticLineResult{calls: calls, end: trigonometric10BFGSAnalyticSearchOutOfBudget}
 		}
 		trigonometric10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := trigonometric10BFGSAnalyticLinePoint{step: t, value: Trigonometric10(xt)}
+		current := trigonometric10BFGSAnalyticLinePoint{step: t, value: trigonometric10BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !trigonometric10BFGSAnalyticFinite(current.value) || current.value > fx+trigonometric10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *trigonometric10BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = trigonometric10BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !trigonometric10BFGSCentralFinite(r.fx) || !trigonometric10BFGSCentralFiniteVec(&r.x) {
 		r.out.status = Trigonometric10BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *trigonometric10BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves trigonometric10BFGSCentralStageJudge next when the run
 // goes on.
 func (r *trigonometric10BFGSCentralDescent) search() {
-	trigonometric10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	trigonometric10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !trigonometric10BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		trigonometric10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		trigonometric10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(trigonometric10BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type trigonometric10BFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10BFGSCentralRoundingFloor)
 	bounds    trigonometric10BFGSCentralBox
+	model     trigonometric10BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (trigonometric10BFGSCentralResidualModel for any other)
 }
+
+// trigonometric10BFGSCentralResidualModel is trigonometric10BFGSCentralResidualModel for any other objective: nothing.
+type trigonometric10BFGSCentralResidualModel struct{}
 
 // trigonometric10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	trigonometric10BFGSCentralVerifyPass    // a difference gradient passed the test
 	trigonometric10BFGSCentralVerifyStall   // no step makes progress
 )
+
+// trigonometric10BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func trigonometric10BFGSCentralValue(x, g *[10]float64, diffs *trigonometric10BFGSCentralDifferences) float64 {
+	return Trigonometric10(x)
+}
 
 // trigonometric10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,16 +1064,22 @@ func trigonometric10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64)
 	return measure, floor
 }
 
-// trigonometric10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// trigonometric10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·trigonometric10BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func trigonometric10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(trigonometric10BFGSCentralAbs(s[i]) <= tol*(trigonometric10BFGSCentralAbs(x[i])+1)) {
+		if !(trigonometric10BFGSCentralAbs(s[i]) <= tol*trigonometric10BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// trigonometric10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func trigonometric10BFGSCentralStepScale(xi float64) float64 {
+	return trigonometric10BFGSCentralAbs(xi) + 1
 }
 
 // trigonometric10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1072,17 +1087,22 @@ func trigonometric10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *trigonomet
 }
 
 // trigonometric10BFGSCentralSearchDirection is the direction's own.
-func trigonometric10BFGSCentralSearchDirection(dir *trigonometric10BFGSCentralDirection, x, g, d *[10]float64, b *trigonometric10BFGSCentralBox) {
+func trigonometric10BFGSCentralSearchDirection(dir *trigonometric10BFGSCentralDirection, x, g, d *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
+	trigonometric10BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// trigonometric10BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func trigonometric10BFGSCentralSolveDirection(dir *trigonometric10BFGSCentralDirection, g, d *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // trigonometric10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·trigonometric10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (trigonometric10BFGSCentralAbs(x[i]) + 1) / trigonometric10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10BFGSCentralStepScale(x[i]) / trigonometric10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1142,7 +1162,7 @@ func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]
 			return trigonometric10BFGSCentralLineResult{calls: calls, end: trigonometric10BFGSCentralSearchOutOfBudget}
 		}
 		trigonometric10BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := trigonometric10BFGSCentralLinePoint{step: t, value: Trigonometric10(xt)}
+		current := trigonometric10BFGSCentralLinePoint{step: t, value: trigonometric10BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !trigonometric10BFGSCentralFinite(current.value) || current.value > fx+trigonometric10BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *trigonometric10CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = trigonometric10CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !trigonometric10CGAnalyticFinite(r.fx) || !trigonometric10CGAnalyticFiniteVec(&r.x) {
 		r.out.status = Trigonometric10CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *trigonometric10CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves trigonometric10CGAnalyticStageJudge next when the run
 // goes on.
 func (r *trigonometric10CGAnalyticDescent) search() {
-	trigonometric10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	trigonometric10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !trigonometric10CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		trigonometric10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		trigonometric10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(trigonometric10CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type trigonometric10CGAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10CGAnalyticRoundingFloor)
 	bounds    trigonometric10CGAnalyticBox
+	model     trigonometric10CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (trigonometric10CGAnalyticResidualModel for any other)
 }
+
+// trigonometric10CGAnalyticResidualModel is trigonometric10CGAnalyticResidualModel for any other objective: nothing.
+type trigonometric10CGAnalyticResidualModel struct{}
 
 // trigonometric10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	trigonometric10CGAnalyticVerifyPass    // a difference gradient passed the test
 	trigonometric10CGAnalyticVerifyStall   // no step makes progress
 )
+
+// trigonometric10CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func trigonometric10CGAnalyticValue(x, g *[10]float64, diffs *trigonometric10CGAnalyticDifferences) float64 {
+	return Trigonometric10(x)
+}
 
 // trigonometric10CGAnalyticFiniteVec reports whether every component of x is finite.
 func trigonometric10CGAnalyticFiniteVec(x *[10]float64) bool {
@@ -865,33 +874,44 @@ func trigonometric10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) 
 	return measure, floor
 }
 
-// trigonometric10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// trigonometric10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·trigonometric10CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*(trigonometric10CGAnalyticAbs(x[i])+1)) {
+		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*trigonometric10CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// trigonometric10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func trigonometric10CGAnalyticStepScale(xi float64) float64 {
+	return trigonometric10CGAnalyticAbs(xi) + 1
+}
+
 // trigonometric10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func trigonometric10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10CGAnalyticBox) {}
 
 // trigonometric10CGAnalyticSearchDirection is the direction's own.
-func trigonometric10CGAnalyticSearchDirection(dir *trigonometric10CGAnalyticDirection, x, g, d *[10]float64, b *trigonometric10CGAnalyticBox) {
+func trigonometric10CGAnalyticSearchDirection(dir *trigonometric10CGAnalyticDirection, x, g, d *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
+	trigonometric10CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// trigonometric10CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func trigonometric10CGAnalyticSolveDirection(dir *trigonometric10CGAnalyticDirection, g, d *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // trigonometric10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·trigonometric10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (trigonometric10CGAnalyticAbs(x[i]) + 1) / trigonometric10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10CGAnalyticStepScale(x[i]) / trigonometric10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]f
 			return trigonometric10CGAnalyticLineResult{calls: calls, end: trigonometric10CGAnalyticSearchOutOfBudget}
 		}
 		trigonometric10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := trigonometric10CGAnalyticLinePoint{step: t, value: Trigonometric10(xt)}
+		current := trigonometric10CGAnalyticLinePoint{step: t, value: trigonometric10CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !trigonometric10CGAnalyticFinite(current.value) || current.value > fx+trigonometric10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

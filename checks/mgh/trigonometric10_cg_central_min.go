@@ -354,7 +354,7 @@ func (r *trigonometric10CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = trigonometric10CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !trigonometric10CGCentralFinite(r.fx) || !trigonometric10CGCentralFiniteVec(&r.x) {
 		r.out.status = Trigonometric10CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *trigonometric10CGCentralDescent) judge() {
 // the gradient at the new point; it leaves trigonometric10CGCentralStageJudge next when the run
 // goes on.
 func (r *trigonometric10CGCentralDescent) search() {
-	trigonometric10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	trigonometric10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !trigonometric10CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		trigonometric10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		trigonometric10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(trigonometric10CGCentralStepInitial)
@@ -547,7 +547,11 @@ type trigonometric10CGCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10CGCentralRoundingFloor)
 	bounds    trigonometric10CGCentralBox
+	model     trigonometric10CGCentralResidualModel // a residual objective's residuals and Jacobian products (trigonometric10CGCentralResidualModel for any other)
 }
+
+// trigonometric10CGCentralResidualModel is trigonometric10CGCentralResidualModel for any other objective: nothing.
+type trigonometric10CGCentralResidualModel struct{}
 
 // trigonometric10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	trigonometric10CGCentralVerifyPass    // a difference gradient passed the test
 	trigonometric10CGCentralVerifyStall   // no step makes progress
 )
+
+// trigonometric10CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func trigonometric10CGCentralValue(x, g *[10]float64, diffs *trigonometric10CGCentralDifferences) float64 {
+	return Trigonometric10(x)
+}
 
 // trigonometric10CGCentralFiniteVec reports whether every component of x is finite.
 func trigonometric10CGCentralFiniteVec(x *[10]float64) bool {
@@ -1044,33 +1053,44 @@ func trigonometric10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (
 	return measure, floor
 }
 
-// trigonometric10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// trigonometric10CGCentralStepWithin is the step test: every |s_i| ≤ tol·trigonometric10CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func trigonometric10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(trigonometric10CGCentralAbs(s[i]) <= tol*(trigonometric10CGCentralAbs(x[i])+1)) {
+		if !(trigonometric10CGCentralAbs(s[i]) <= tol*trigonometric10CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// trigonometric10CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func trigonometric10CGCentralStepScale(xi float64) float64 {
+	return trigonometric10CGCentralAbs(xi) + 1
+}
+
 // trigonometric10CGCentralCurvaturePair: without bounds the pair is used as it is.
 func trigonometric10CGCentralCurvaturePair(s, y, x *[10]float64, b *trigonometric10CGCentralBox) {}
 
 // trigonometric10CGCentralSearchDirection is the direction's own.
-func trigonometric10CGCentralSearchDirection(dir *trigonometric10CGCentralDirection, x, g, d *[10]float64, b *trigonometric10CGCentralBox) {
+func trigonometric10CGCentralSearchDirection(dir *trigonometric10CGCentralDirection, x, g, d *[10]float64, diffs *trigonometric10CGCentralDifferences) {
+	trigonometric10CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// trigonometric10CGCentralSolveDirection is the direction's own rule, from its memory.
+func trigonometric10CGCentralSolveDirection(dir *trigonometric10CGCentralDirection, g, d *[10]float64, diffs *trigonometric10CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // trigonometric10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·trigonometric10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (trigonometric10CGCentralAbs(x[i]) + 1) / trigonometric10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10CGCentralStepScale(x[i]) / trigonometric10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]fl
 			return trigonometric10CGCentralLineResult{calls: calls, end: trigonometric10CGCentralSearchOutOfBudget}
 		}
 		trigonometric10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := trigonometric10CGCentralLinePoint{step: t, value: Trigonometric10(xt)}
+		current := trigonometric10CGCentralLinePoint{step: t, value: trigonometric10CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !trigonometric10CGCentralFinite(current.value) || current.value > fx+trigonometric10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

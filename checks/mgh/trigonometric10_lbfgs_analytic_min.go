@@ -355,7 +355,7 @@ func (r *trigonometric10LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = trigonometric10LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !trigonometric10LBFGSAnalyticFinite(r.fx) || !trigonometric10LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Trigonometric10LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *trigonometric10LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves trigonometric10LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *trigonometric10LBFGSAnalyticDescent) search() {
-	trigonometric10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	trigonometric10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !trigonometric10LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		trigonometric10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		trigonometric10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(trigonometric10LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type trigonometric10LBFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSAnalyticRoundingFloor)
 	bounds    trigonometric10LBFGSAnalyticBox
+	model     trigonometric10LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (trigonometric10LBFGSAnalyticResidualModel for any other)
 }
+
+// trigonometric10LBFGSAnalyticResidualModel is trigonometric10LBFGSAnalyticResidualModel for any other objective: nothing.
+type trigonometric10LBFGSAnalyticResidualModel struct{}
 
 // trigonometric10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last trigonometric10LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	trigonometric10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	trigonometric10LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// trigonometric10LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func trigonometric10LBFGSAnalyticValue(x, g *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) float64 {
+	return Trigonometric10(x)
+}
 
 // trigonometric10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,16 +911,22 @@ func trigonometric10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float6
 	return measure, floor
 }
 
-// trigonometric10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// trigonometric10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·trigonometric10LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(trigonometric10LBFGSAnalyticAbs(s[i]) <= tol*(trigonometric10LBFGSAnalyticAbs(x[i])+1)) {
+		if !(trigonometric10LBFGSAnalyticAbs(s[i]) <= tol*trigonometric10LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// trigonometric10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func trigonometric10LBFGSAnalyticStepScale(xi float64) float64 {
+	return trigonometric10LBFGSAnalyticAbs(xi) + 1
 }
 
 // trigonometric10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -919,17 +934,22 @@ func trigonometric10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonom
 }
 
 // trigonometric10LBFGSAnalyticSearchDirection is the direction's own.
-func trigonometric10LBFGSAnalyticSearchDirection(dir *trigonometric10LBFGSAnalyticDirection, x, g, d *[10]float64, b *trigonometric10LBFGSAnalyticBox) {
+func trigonometric10LBFGSAnalyticSearchDirection(dir *trigonometric10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
+	trigonometric10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// trigonometric10LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func trigonometric10LBFGSAnalyticSolveDirection(dir *trigonometric10LBFGSAnalyticDirection, g, d *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // trigonometric10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·trigonometric10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (trigonometric10LBFGSAnalyticAbs(x[i]) + 1) / trigonometric10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10LBFGSAnalyticStepScale(x[i]) / trigonometric10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -989,7 +1009,7 @@ func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[1
 			return trigonometric10LBFGSAnalyticLineResult{calls: calls, end: trigonometric10LBFGSAnalyticSearchOutOfBudget}
 		}
 		trigonometric10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := trigonometric10LBFGSAnalyticLinePoint{step: t, value: Trigonometric10(xt)}
+		current := trigonometric10LBFGSAnalyticLinePoint{step: t, value: trigonometric10LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !trigonometric10LBFGSAnalyticFinite(current.value) || current.value > fx+trigonometric10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

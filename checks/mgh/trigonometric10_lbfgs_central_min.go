@@ -355,7 +355,7 @@ func (r *trigonometric10LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Trigonometric10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = trigonometric10LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !trigonometric10LBFGSCentralFinite(r.fx) || !trigonometric10LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = Trigonometric10LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *trigonometric10LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves trigonometric10LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *trigonometric10LBFGSCentralDescent) search() {
-	trigonometric10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	trigonometric10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !trigonometric10LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		trigonometric10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		trigonometric10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(trigonometric10LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type trigonometric10LBFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSCentralRoundingFloor)
 	bounds    trigonometric10LBFGSCentralBox
+	model     trigonometric10LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (trigonometric10LBFGSCentralResidualModel for any other)
 }
+
+// trigonometric10LBFGSCentralResidualModel is trigonometric10LBFGSCentralResidualModel for any other objective: nothing.
+type trigonometric10LBFGSCentralResidualModel struct{}
 
 // trigonometric10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last trigonometric10LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	trigonometric10LBFGSCentralVerifyPass    // a difference gradient passed the test
 	trigonometric10LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// trigonometric10LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func trigonometric10LBFGSCentralValue(x, g *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) float64 {
+	return Trigonometric10(x)
+}
 
 // trigonometric10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,16 +1090,22 @@ func trigonometric10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64
 	return measure, floor
 }
 
-// trigonometric10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// trigonometric10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·trigonometric10LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func trigonometric10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(trigonometric10LBFGSCentralAbs(s[i]) <= tol*(trigonometric10LBFGSCentralAbs(x[i])+1)) {
+		if !(trigonometric10LBFGSCentralAbs(s[i]) <= tol*trigonometric10LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// trigonometric10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func trigonometric10LBFGSCentralStepScale(xi float64) float64 {
+	return trigonometric10LBFGSCentralAbs(xi) + 1
 }
 
 // trigonometric10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1098,17 +1113,22 @@ func trigonometric10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *trigonome
 }
 
 // trigonometric10LBFGSCentralSearchDirection is the direction's own.
-func trigonometric10LBFGSCentralSearchDirection(dir *trigonometric10LBFGSCentralDirection, x, g, d *[10]float64, b *trigonometric10LBFGSCentralBox) {
+func trigonometric10LBFGSCentralSearchDirection(dir *trigonometric10LBFGSCentralDirection, x, g, d *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
+	trigonometric10LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// trigonometric10LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func trigonometric10LBFGSCentralSolveDirection(dir *trigonometric10LBFGSCentralDirection, g, d *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // trigonometric10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·trigonometric10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (trigonometric10LBFGSCentralAbs(x[i]) + 1) / trigonometric10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10LBFGSCentralStepScale(x[i]) / trigonometric10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1168,7 +1188,7 @@ func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10
 			return trigonometric10LBFGSCentralLineResult{calls: calls, end: trigonometric10LBFGSCentralSearchOutOfBudget}
 		}
 		trigonometric10LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := trigonometric10LBFGSCentralLinePoint{step: t, value: Trigonometric10(xt)}
+		current := trigonometric10LBFGSCentralLinePoint{step: t, value: trigonometric10LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !trigonometric10LBFGSCentralFinite(current.value) || current.value > fx+trigonometric10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

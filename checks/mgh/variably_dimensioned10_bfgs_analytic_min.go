@@ -354,7 +354,7 @@ func (r *variablyDimensioned10BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = variablyDimensioned10BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !variablyDimensioned10BFGSAnalyticFinite(r.fx) || !variablyDimensioned10BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = VariablyDimensioned10BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *variablyDimensioned10BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves variablyDimensioned10BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *variablyDimensioned10BFGSAnalyticDescent) search() {
-	variablyDimensioned10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	variablyDimensioned10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !variablyDimensioned10BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		variablyDimensioned10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		variablyDimensioned10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(variablyDimensioned10BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type variablyDimensioned10BFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10BFGSAnalyticRoundingFloor)
 	bounds    variablyDimensioned10BFGSAnalyticBox
+	model     variablyDimensioned10BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (variablyDimensioned10BFGSAnalyticResidualModel for any other)
 }
+
+// variablyDimensioned10BFGSAnalyticResidualModel is variablyDimensioned10BFGSAnalyticResidualModel for any other objective: nothing.
+type variablyDimensioned10BFGSAnalyticResidualModel struct{}
 
 // variablyDimensioned10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -658,6 +662,11 @@ const (
 	variablyDimensioned10BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func variablyDimensioned10BFGSAnalyticValue(x, g *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) float64 {
+	return VariablyDimensioned10(x)
+}
 
 // variablyDimensioned10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -877,16 +886,22 @@ func variablyDimensioned10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx f
 	return measure, floor
 }
 
-// variablyDimensioned10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// variablyDimensioned10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func variablyDimensioned10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(variablyDimensioned10BFGSAnalyticAbs(s[i]) <= tol*(variablyDimensioned10BFGSAnalyticAbs(x[i])+1)) {
+		if !(variablyDimensioned10BFGSAnalyticAbs(s[i]) <= tol*variablyDimensioned10BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func variablyDimensioned10BFGSAnalyticStepScale(xi float64) float64 {
+	return variablyDimensioned10BFGSAnalyticAbs(xi) + 1
 }
 
 // variablyDimensioned10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -894,17 +909,22 @@ func variablyDimensioned10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *var
 }
 
 // variablyDimensioned10BFGSAnalyticSearchDirection is the direction's own.
-func variablyDimensioned10BFGSAnalyticSearchDirection(dir *variablyDimensioned10BFGSAnalyticDirection, x, g, d *[10]float64, b *variablyDimensioned10BFGSAnalyticBox) {
+func variablyDimensioned10BFGSAnalyticSearchDirection(dir *variablyDimensioned10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
+	variablyDimensioned10BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// variablyDimensioned10BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func variablyDimensioned10BFGSAnalyticSolveDirection(dir *variablyDimensioned10BFGSAnalyticDirection, g, d *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // variablyDimensioned10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·variablyDimensioned10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (variablyDimensioned10BFGSAnalyticAbs(x[i]) + 1) / variablyDimensioned10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10BFGSAnalyticStepScale(x[i]) / variablyDimensioned10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -964,7 +984,7 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, 
 			return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10BFGSAnalyticSearchOutOfBudget}
 		}
 		variablyDimensioned10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := variablyDimensioned10BFGSAnalyticLinePoint{step: t, value: VariablyDimensioned10(xt)}
+		current := variablyDimensioned10BFGSAnalyticLinePoint{step: t, value: variablyDimensioned10BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !variablyDimensioned10BFGSAnalyticFinite(current.value) || current.value > fx+variablyDimensioned10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

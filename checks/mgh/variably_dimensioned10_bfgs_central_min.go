@@ -354,7 +354,7 @@ func (r *variablyDimensioned10BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = variablyDimensioned10BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !variablyDimensioned10BFGSCentralFinite(r.fx) || !variablyDimensioned10BFGSCentralFiniteVec(&r.x) {
 		r.out.status = VariablyDimensioned10BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *variablyDimensioned10BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves variablyDimensioned10BFGSCentralStageJudge next when the run
 // goes on.
 func (r *variablyDimensioned10BFGSCentralDescent) search() {
-	variablyDimensioned10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	variablyDimensioned10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !variablyDimensioned10BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		variablyDimensioned10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		variablyDimensioned10BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(variablyDimensioned10BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type variablyDimensioned10BFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10BFGSCentralRoundingFloor)
 	bounds    variablyDimensioned10BFGSCentralBox
+	model     variablyDimensioned10BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (variablyDimensioned10BFGSCentralResidualModel for any other)
 }
+
+// variablyDimensioned10BFGSCentralResidualModel is variablyDimensioned10BFGSCentralResidualModel for any other objective: nothing.
+type variablyDimensioned10BFGSCentralResidualModel struct{}
 
 // variablyDimensioned10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -658,6 +662,11 @@ const (
 	variablyDimensioned10BFGSCentralVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10BFGSCentralVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func variablyDimensioned10BFGSCentralValue(x, g *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) float64 {
+	return VariablyDimensioned10(x)
+}
 
 // variablyDimensioned10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1056,16 +1065,22 @@ func variablyDimensioned10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx fl
 	return measure, floor
 }
 
-// variablyDimensioned10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// variablyDimensioned10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(variablyDimensioned10BFGSCentralAbs(s[i]) <= tol*(variablyDimensioned10BFGSCentralAbs(x[i])+1)) {
+		if !(variablyDimensioned10BFGSCentralAbs(s[i]) <= tol*variablyDimensioned10BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func variablyDimensioned10BFGSCentralStepScale(xi float64) float64 {
+	return variablyDimensioned10BFGSCentralAbs(xi) + 1
 }
 
 // variablyDimensioned10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1073,17 +1088,22 @@ func variablyDimensioned10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *vari
 }
 
 // variablyDimensioned10BFGSCentralSearchDirection is the direction's own.
-func variablyDimensioned10BFGSCentralSearchDirection(dir *variablyDimensioned10BFGSCentralDirection, x, g, d *[10]float64, b *variablyDimensioned10BFGSCentralBox) {
+func variablyDimensioned10BFGSCentralSearchDirection(dir *variablyDimensioned10BFGSCentralDirection, x, g, d *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) {
+	variablyDimensioned10BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// variablyDimensioned10BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func variablyDimensioned10BFGSCentralSolveDirection(dir *variablyDimensioned10BFGSCentralDirection, g, d *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // variablyDimensioned10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·variablyDimensioned10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (variablyDimensioned10BFGSCentralAbs(x[i]) + 1) / variablyDimensioned10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10BFGSCentralStepScale(x[i]) / variablyDimensioned10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1143,7 +1163,7 @@ func variablyDimensioned10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d
 			return variablyDimensioned10BFGSCentralLineResult{calls: calls, end: variablyDimensioned10BFGSCentralSearchOutOfBudget}
 		}
 		variablyDimensioned10BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := variablyDimensioned10BFGSCentralLinePoint{step: t, value: VariablyDimensioned10(xt)}
+		current := variablyDimensioned10BFGSCentralLinePoint{step: t, value: variablyDimensioned10BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !variablyDimensioned10BFGSCentralFinite(current.value) || current.value > fx+variablyDimensioned10BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

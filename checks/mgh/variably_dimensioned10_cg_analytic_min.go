@@ -354,7 +354,7 @@ func (r *variablyDimensioned10CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = variablyDimensioned10CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !variablyDimensioned10CGAnalyticFinite(r.fx) || !variablyDimensioned10CGAnalyticFiniteVec(&r.x) {
 		r.out.status = VariablyDimensioned10CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *variablyDimensioned10CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves variablyDimensioned10CGAnalyticStageJudge next when the run
 // goes on.
 func (r *variablyDimensioned10CGAnalyticDescent) search() {
-	variablyDimensioned10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	variablyDimensioned10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !variablyDimensioned10CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		variablyDimensioned10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		variablyDimensioned10CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(variablyDimensioned10CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type variablyDimensioned10CGAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10CGAnalyticRoundingFloor)
 	bounds    variablyDimensioned10CGAnalyticBox
+	model     variablyDimensioned10CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (variablyDimensioned10CGAnalyticResidualModel for any other)
 }
+
+// variablyDimensioned10CGAnalyticResidualModel is variablyDimensioned10CGAnalyticResidualModel for any other objective: nothing.
+type variablyDimensioned10CGAnalyticResidualModel struct{}
 
 // variablyDimensioned10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	variablyDimensioned10CGAnalyticVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10CGAnalyticVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func variablyDimensioned10CGAnalyticValue(x, g *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) float64 {
+	return VariablyDimensioned10(x)
+}
 
 // variablyDimensioned10CGAnalyticFiniteVec reports whether every component of x is finite.
 func variablyDimensioned10CGAnalyticFiniteVec(x *[10]float64) bool {
@@ -865,16 +874,22 @@ func variablyDimensioned10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx flo
 	return measure, floor
 }
 
-// variablyDimensioned10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// variablyDimensioned10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*(variablyDimensioned10CGAnalyticAbs(x[i])+1)) {
+		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func variablyDimensioned10CGAnalyticStepScale(xi float64) float64 {
+	return variablyDimensioned10CGAnalyticAbs(xi) + 1
 }
 
 // variablyDimensioned10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -882,17 +897,22 @@ func variablyDimensioned10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *varia
 }
 
 // variablyDimensioned10CGAnalyticSearchDirection is the direction's own.
-func variablyDimensioned10CGAnalyticSearchDirection(dir *variablyDimensioned10CGAnalyticDirection, x, g, d *[10]float64, b *variablyDimensioned10CGAnalyticBox) {
+func variablyDimensioned10CGAnalyticSearchDirection(dir *variablyDimensioned10CGAnalyticDirection, x, g, d *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
+	variablyDimensioned10CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// variablyDimensioned10CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func variablyDimensioned10CGAnalyticSolveDirection(dir *variablyDimensioned10CGAnalyticDirection, g, d *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // variablyDimensioned10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·variablyDimensioned10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (variablyDimensioned10CGAnalyticAbs(x[i]) + 1) / variablyDimensioned10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i]) / variablyDimensioned10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -952,7 +972,7 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d 
 			return variablyDimensioned10CGAnalyticLineResult{calls: calls, end: variablyDimensioned10CGAnalyticSearchOutOfBudget}
 		}
 		variablyDimensioned10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := variablyDimensioned10CGAnalyticLinePoint{step: t, value: VariablyDimensioned10(xt)}
+		current := variablyDimensioned10CGAnalyticLinePoint{step: t, value: variablyDimensioned10CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !variablyDimensioned10CGAnalyticFinite(current.value) || current.value > fx+variablyDimensioned10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

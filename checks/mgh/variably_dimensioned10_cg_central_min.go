@@ -354,7 +354,7 @@ func (r *variablyDimensioned10CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = variablyDimensioned10CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !variablyDimensioned10CGCentralFinite(r.fx) || !variablyDimensioned10CGCentralFiniteVec(&r.x) {
 		r.out.status = VariablyDimensioned10CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *variablyDimensioned10CGCentralDescent) judge() {
 // the gradient at the new point; it leaves variablyDimensioned10CGCentralStageJudge next when the run
 // goes on.
 func (r *variablyDimensioned10CGCentralDescent) search() {
-	variablyDimensioned10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	variablyDimensioned10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !variablyDimensioned10CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		variablyDimensioned10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		variablyDimensioned10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(variablyDimensioned10CGCentralStepInitial)
@@ -547,7 +547,11 @@ type variablyDimensioned10CGCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10CGCentralRoundingFloor)
 	bounds    variablyDimensioned10CGCentralBox
+	model     variablyDimensioned10CGCentralResidualModel // a residual objective's residuals and Jacobian products (variablyDimensioned10CGCentralResidualModel for any other)
 }
+
+// variablyDimensioned10CGCentralResidualModel is variablyDimensioned10CGCentralResidualModel for any other objective: nothing.
+type variablyDimensioned10CGCentralResidualModel struct{}
 
 // variablyDimensioned10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	variablyDimensioned10CGCentralVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10CGCentralVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func variablyDimensioned10CGCentralValue(x, g *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) float64 {
+	return VariablyDimensioned10(x)
+}
 
 // variablyDimensioned10CGCentralFiniteVec reports whether every component of x is finite.
 func variablyDimensioned10CGCentralFiniteVec(x *[10]float64) bool {
@@ -1044,16 +1053,22 @@ func variablyDimensioned10CGCentralGradientMeasure(g, e, x *[10]float64, fx floa
 	return measure, floor
 }
 
-// variablyDimensioned10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// variablyDimensioned10CGCentralStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func variablyDimensioned10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(variablyDimensioned10CGCentralAbs(s[i]) <= tol*(variablyDimensioned10CGCentralAbs(x[i])+1)) {
+		if !(variablyDimensioned10CGCentralAbs(s[i]) <= tol*variablyDimensioned10CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func variablyDimensioned10CGCentralStepScale(xi float64) float64 {
+	return variablyDimensioned10CGCentralAbs(xi) + 1
 }
 
 // variablyDimensioned10CGCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1061,17 +1076,22 @@ func variablyDimensioned10CGCentralCurvaturePair(s, y, x *[10]float64, b *variab
 }
 
 // variablyDimensioned10CGCentralSearchDirection is the direction's own.
-func variablyDimensioned10CGCentralSearchDirection(dir *variablyDimensioned10CGCentralDirection, x, g, d *[10]float64, b *variablyDimensioned10CGCentralBox) {
+func variablyDimensioned10CGCentralSearchDirection(dir *variablyDimensioned10CGCentralDirection, x, g, d *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) {
+	variablyDimensioned10CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// variablyDimensioned10CGCentralSolveDirection is the direction's own rule, from its memory.
+func variablyDimensioned10CGCentralSolveDirection(dir *variablyDimensioned10CGCentralDirection, g, d *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // variablyDimensioned10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·variablyDimensioned10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (variablyDimensioned10CGCentralAbs(x[i]) + 1) / variablyDimensioned10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10CGCentralStepScale(x[i]) / variablyDimensioned10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1131,7 +1151,7 @@ func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *
 			return variablyDimensioned10CGCentralLineResult{calls: calls, end: variablyDimensioned10CGCentralSearchOutOfBudget}
 		}
 		variablyDimensioned10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := variablyDimensioned10CGCentralLinePoint{step: t, value: VariablyDimensioned10(xt)}
+		current := variablyDimensioned10CGCentralLinePoint{step: t, value: variablyDimensioned10CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !variablyDimensioned10CGCentralFinite(current.value) || current.value > fx+variablyDimensioned10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

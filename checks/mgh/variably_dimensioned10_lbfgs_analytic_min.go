@@ -355,7 +355,7 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = variablyDimensioned10LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !variablyDimensioned10LBFGSAnalyticFinite(r.fx) || !variablyDimensioned10LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = VariablyDimensioned10LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves variablyDimensioned10LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *variablyDimensioned10LBFGSAnalyticDescent) search() {
-	variablyDimensioned10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	variablyDimensioned10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !variablyDimensioned10LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		variablyDimensioned10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		variablyDimensioned10LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(variablyDimensioned10LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type variablyDimensioned10LBFGSAnalyticDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10LBFGSAnalyticRoundingFloor)
 	bounds    variablyDimensioned10LBFGSAnalyticBox
+	model     variablyDimensioned10LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (variablyDimensioned10LBFGSAnalyticResidualModel for any other)
 }
+
+// variablyDimensioned10LBFGSAnalyticResidualModel is variablyDimensioned10LBFGSAnalyticResidualModel for any other objective: nothing.
+type variablyDimensioned10LBFGSAnalyticResidualModel struct{}
 
 // variablyDimensioned10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last variablyDimensioned10LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -684,6 +688,11 @@ const (
 	variablyDimensioned10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func variablyDimensioned10LBFGSAnalyticValue(x, g *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) float64 {
+	return VariablyDimensioned10(x)
+}
 
 // variablyDimensioned10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -903,16 +912,22 @@ func variablyDimensioned10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx 
 	return measure, floor
 }
 
-// variablyDimensioned10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// variablyDimensioned10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(variablyDimensioned10LBFGSAnalyticAbs(s[i]) <= tol*(variablyDimensioned10LBFGSAnalyticAbs(x[i])+1)) {
+		if !(variablyDimensioned10LBFGSAnalyticAbs(s[i]) <= tol*variablyDimensioned10LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func variablyDimensioned10LBFGSAnalyticStepScale(xi float64) float64 {
+	return variablyDimensioned10LBFGSAnalyticAbs(xi) + 1
 }
 
 // variablyDimensioned10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
@@ -920,17 +935,22 @@ func variablyDimensioned10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *va
 }
 
 // variablyDimensioned10LBFGSAnalyticSearchDirection is the direction's own.
-func variablyDimensioned10LBFGSAnalyticSearchDirection(dir *variablyDimensioned10LBFGSAnalyticDirection, x, g, d *[10]float64, b *variablyDimensioned10LBFGSAnalyticBox) {
+func variablyDimensioned10LBFGSAnalyticSearchDirection(dir *variablyDimensioned10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
+	variablyDimensioned10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// variablyDimensioned10LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func variablyDimensioned10LBFGSAnalyticSolveDirection(dir *variablyDimensioned10LBFGSAnalyticDirection, g, d *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // variablyDimensioned10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·variablyDimensioned10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (variablyDimensioned10LBFGSAnalyticAbs(x[i]) + 1) / variablyDimensioned10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10LBFGSAnalyticStepScale(x[i]) / variablyDimensioned10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -990,7 +1010,7 @@ func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g,
 			return variablyDimensioned10LBFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10LBFGSAnalyticSearchOutOfBudget}
 		}
 		variablyDimensioned10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := variablyDimensioned10LBFGSAnalyticLinePoint{step: t, value: VariablyDimensioned10(xt)}
+		current := variablyDimensioned10LBFGSAnalyticLinePoint{step: t, value: variablyDimensioned10LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !variablyDimensioned10LBFGSAnalyticFinite(current.value) || current.value > fx+variablyDimensioned10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

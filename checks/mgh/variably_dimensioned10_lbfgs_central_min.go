@@ -355,7 +355,7 @@ func (r *variablyDimensioned10LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = VariablyDimensioned10(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = variablyDimensioned10LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !variablyDimensioned10LBFGSCentralFinite(r.fx) || !variablyDimensioned10LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = VariablyDimensioned10LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *variablyDimensioned10LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves variablyDimensioned10LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *variablyDimensioned10LBFGSCentralDescent) search() {
-	variablyDimensioned10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	variablyDimensioned10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !variablyDimensioned10LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		variablyDimensioned10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		variablyDimensioned10LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(variablyDimensioned10LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type variablyDimensioned10LBFGSCentralDifferences struct {
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10LBFGSCentralRoundingFloor)
 	bounds    variablyDimensioned10LBFGSCentralBox
+	model     variablyDimensioned10LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (variablyDimensioned10LBFGSCentralResidualModel for any other)
 }
+
+// variablyDimensioned10LBFGSCentralResidualModel is variablyDimensioned10LBFGSCentralResidualModel for any other objective: nothing.
+type variablyDimensioned10LBFGSCentralResidualModel struct{}
 
 // variablyDimensioned10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last variablyDimensioned10LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -684,6 +688,11 @@ const (
 	variablyDimensioned10LBFGSCentralVerifyPass    // a difference gradient passed the test
 	variablyDimensioned10LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// variablyDimensioned10LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func variablyDimensioned10LBFGSCentralValue(x, g *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) float64 {
+	return VariablyDimensioned10(x)
+}
 
 // variablyDimensioned10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1082,16 +1091,22 @@ func variablyDimensioned10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx f
 	return measure, floor
 }
 
-// variablyDimensioned10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// variablyDimensioned10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	for i := range s {
-		if !(variablyDimensioned10LBFGSCentralAbs(s[i]) <= tol*(variablyDimensioned10LBFGSCentralAbs(x[i])+1)) {
+		if !(variablyDimensioned10LBFGSCentralAbs(s[i]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func variablyDimensioned10LBFGSCentralStepScale(xi float64) float64 {
+	return variablyDimensioned10LBFGSCentralAbs(xi) + 1
 }
 
 // variablyDimensioned10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
@@ -1099,17 +1114,22 @@ func variablyDimensioned10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *var
 }
 
 // variablyDimensioned10LBFGSCentralSearchDirection is the direction's own.
-func variablyDimensioned10LBFGSCentralSearchDirection(dir *variablyDimensioned10LBFGSCentralDirection, x, g, d *[10]float64, b *variablyDimensioned10LBFGSCentralBox) {
+func variablyDimensioned10LBFGSCentralSearchDirection(dir *variablyDimensioned10LBFGSCentralDirection, x, g, d *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
+	variablyDimensioned10LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// variablyDimensioned10LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func variablyDimensioned10LBFGSCentralSolveDirection(dir *variablyDimensioned10LBFGSCentralDirection, g, d *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // variablyDimensioned10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·variablyDimensioned10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (variablyDimensioned10LBFGSCentralAbs(x[i]) + 1) / variablyDimensioned10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i]) / variablyDimensioned10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1169,7 +1189,7 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, 
 			return variablyDimensioned10LBFGSCentralLineResult{calls: calls, end: variablyDimensioned10LBFGSCentralSearchOutOfBudget}
 		}
 		variablyDimensioned10LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := variablyDimensioned10LBFGSCentralLinePoint{step: t, value: VariablyDimensioned10(xt)}
+		current := variablyDimensioned10LBFGSCentralLinePoint{step: t, value: variablyDimensioned10LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !variablyDimensioned10LBFGSCentralFinite(current.value) || current.value > fx+variablyDimensioned10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

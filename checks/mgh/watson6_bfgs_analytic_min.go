@@ -354,7 +354,7 @@ func (r *watson6BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson6BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson6BFGSAnalyticFinite(r.fx) || !watson6BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Watson6BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson6BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves watson6BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *watson6BFGSAnalyticDescent) search() {
-	watson6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !watson6BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson6BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(watson6BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type watson6BFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6BFGSAnalyticRoundingFloor)
 	bounds    watson6BFGSAnalyticBox
+	model     watson6BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (watson6BFGSAnalyticResidualModel for any other)
 }
+
+// watson6BFGSAnalyticResidualModel is watson6BFGSAnalyticResidualModel for any other objective: nothing.
+type watson6BFGSAnalyticResidualModel struct{}
 
 // watson6BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	watson6BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson6BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson6BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson6BFGSAnalyticValue(x, g *[6]float64, diffs *watson6BFGSAnalyticDifferences) float64 {
+	return Watson6(x)
+}
 
 // watson6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func watson6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measur
 	return measure, floor
 }
 
-// watson6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson6BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(watson6BFGSAnalyticAbs(s[i]) <= tol*(watson6BFGSAnalyticAbs(x[i])+1)) {
+		if !(watson6BFGSAnalyticAbs(s[i]) <= tol*watson6BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson6BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson6BFGSAnalyticStepScale(xi float64) float64 {
+	return watson6BFGSAnalyticAbs(xi) + 1
+}
+
 // watson6BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson6BFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6BFGSAnalyticBox) {}
 
 // watson6BFGSAnalyticSearchDirection is the direction's own.
-func watson6BFGSAnalyticSearchDirection(dir *watson6BFGSAnalyticDirection, x, g, d *[6]float64, b *watson6BFGSAnalyticBox) {
+func watson6BFGSAnalyticSearchDirection(dir *watson6BFGSAnalyticDirection, x, g, d *[6]float64, diffs *watson6BFGSAnalyticDifferences) {
+	watson6BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// watson6BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func watson6BFGSAnalyticSolveDirection(dir *watson6BFGSAnalyticDirection, g, d *[6]float64, diffs *watson6BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // watson6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson6BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson6BFGSAnalyticAbs(x[i]) + 1) / watson6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6BFGSAnalyticStepScale(x[i]) / watson6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 			return watson6BFGSAnalyticLineResult{calls: calls, end: watson6BFGSAnalyticSearchOutOfBudget}
 		}
 		watson6BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson6BFGSAnalyticLinePoint{step: t, value: Watson6(xt)}
+		current := watson6BFGSAnalyticLinePoint{step: t, value: watson6BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson6BFGSAnalyticFinite(current.value) || current.value > fx+watson6BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *watson6BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson6BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson6BFGSCentralFinite(r.fx) || !watson6BFGSCentralFiniteVec(&r.x) {
 		r.out.status = Watson6BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson6BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves watson6BFGSCentralStageJudge next when the run
 // goes on.
 func (r *watson6BFGSCentralDescent) search() {
-	watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !watson6BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(watson6BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type watson6BFGSCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6BFGSCentralRoundingFloor)
 	bounds    watson6BFGSCentralBox
+	model     watson6BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (watson6BFGSCentralResidualModel for any other)
 }
+
+// watson6BFGSCentralResidualModel is watson6BFGSCentralResidualModel for any other objective: nothing.
+type watson6BFGSCentralResidualModel struct{}
 
 // watson6BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	watson6BFGSCentralVerifyPass    // a difference gradient passed the test
 	watson6BFGSCentralVerifyStall   // no step makes progress
 )
+
+// watson6BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson6BFGSCentralValue(x, g *[6]float64, diffs *watson6BFGSCentralDifferences) float64 {
+	return Watson6(x)
+}
 
 // watson6BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure
 	return measure, floor
 }
 
-// watson6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·watson6BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(watson6BFGSCentralAbs(s[i]) <= tol*(watson6BFGSCentralAbs(x[i])+1)) {
+		if !(watson6BFGSCentralAbs(s[i]) <= tol*watson6BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson6BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson6BFGSCentralStepScale(xi float64) float64 {
+	return watson6BFGSCentralAbs(xi) + 1
+}
+
 // watson6BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson6BFGSCentralCurvaturePair(s, y, x *[6]float64, b *watson6BFGSCentralBox) {}
 
 // watson6BFGSCentralSearchDirection is the direction's own.
-func watson6BFGSCentralSearchDirection(dir *watson6BFGSCentralDirection, x, g, d *[6]float64, b *watson6BFGSCentralBox) {
+func watson6BFGSCentralSearchDirection(dir *watson6BFGSCentralDirection, x, g, d *[6]float64, diffs *watson6BFGSCentralDifferences) {
+	watson6BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// watson6BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func watson6BFGSCentralSolveDirection(dir *watson6BFGSCentralDirection, g, d *[6]float64, diffs *watson6BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // watson6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson6BFGSCentralAbs(x[i]) + 1) / watson6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6BFGSCentralStepScale(x[i]) / watson6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func watson6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, s
 			return watson6BFGSCentralLineResult{calls: calls, end: watson6BFGSCentralSearchOutOfBudget}
 		}
 		watson6BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson6BFGSCentralLinePoint{step: t, value: Watson6(xt)}
+		current := watson6BFGSCentralLinePoint{step: t, value: watson6BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson6BFGSCentralFinite(current.value) || current.value > fx+watson6BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *watson6CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson6CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson6CGAnalyticFinite(r.fx) || !watson6CGAnalyticFiniteVec(&r.x) {
 		r.out.status = Watson6CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson6CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves watson6CGAnalyticStageJudge next when the run
 // goes on.
 func (r *watson6CGAnalyticDescent) search() {
-	watson6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !watson6CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(watson6CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type watson6CGAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6CGAnalyticRoundingFloor)
 	bounds    watson6CGAnalyticBox
+	model     watson6CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (watson6CGAnalyticResidualModel for any other)
 }
+
+// watson6CGAnalyticResidualModel is watson6CGAnalyticResidualModel for any other objective: nothing.
+type watson6CGAnalyticResidualModel struct{}
 
 // watson6CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	watson6CGAnalyticVerifyPass    // a difference gradient passed the test
 	watson6CGAnalyticVerifyStall   // no step makes progress
 )
+
+// watson6CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson6CGAnalyticValue(x, g *[6]float64, diffs *watson6CGAnalyticDifferences) float64 {
+	return Watson6(x)
+}
 
 // watson6CGAnalyticFiniteVec reports whether every component of x is finite.
 func watson6CGAnalyticFiniteVec(x *[6]float64) bool {
@@ -865,33 +874,44 @@ func watson6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// watson6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson6CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(watson6CGAnalyticAbs(s[i]) <= tol*(watson6CGAnalyticAbs(x[i])+1)) {
+		if !(watson6CGAnalyticAbs(s[i]) <= tol*watson6CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson6CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson6CGAnalyticStepScale(xi float64) float64 {
+	return watson6CGAnalyticAbs(xi) + 1
+}
+
 // watson6CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson6CGAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6CGAnalyticBox) {}
 
 // watson6CGAnalyticSearchDirection is the direction's own.
-func watson6CGAnalyticSearchDirection(dir *watson6CGAnalyticDirection, x, g, d *[6]float64, b *watson6CGAnalyticBox) {
+func watson6CGAnalyticSearchDirection(dir *watson6CGAnalyticDirection, x, g, d *[6]float64, diffs *watson6CGAnalyticDifferences) {
+	watson6CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// watson6CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func watson6CGAnalyticSolveDirection(dir *watson6CGAnalyticDirection, g, d *[6]float64, diffs *watson6CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // watson6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson6CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson6CGAnalyticAbs(x[i]) + 1) / watson6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6CGAnalyticStepScale(x[i]) / watson6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, sl
 			return watson6CGAnalyticLineResult{calls: calls, end: watson6CGAnalyticSearchOutOfBudget}
 		}
 		watson6CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson6CGAnalyticLinePoint{step: t, value: Watson6(xt)}
+		current := watson6CGAnalyticLinePoint{step: t, value: watson6CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson6CGAnalyticFinite(current.value) || current.value > fx+watson6CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *watson6CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson6CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson6CGCentralFinite(r.fx) || !watson6CGCentralFiniteVec(&r.x) {
 		r.out.status = Watson6CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson6CGCentralDescent) judge() {
 // the gradient at the new point; it leaves watson6CGCentralStageJudge next when the run
 // goes on.
 func (r *watson6CGCentralDescent) search() {
-	watson6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !watson6CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson6CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(watson6CGCentralStepInitial)
@@ -547,7 +547,11 @@ type watson6CGCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6CGCentralRoundingFloor)
 	bounds    watson6CGCentralBox
+	model     watson6CGCentralResidualModel // a residual objective's residuals and Jacobian products (watson6CGCentralResidualModel for any other)
 }
+
+// watson6CGCentralResidualModel is watson6CGCentralResidualModel for any other objective: nothing.
+type watson6CGCentralResidualModel struct{}
 
 // watson6CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	watson6CGCentralVerifyPass    // a difference gradient passed the test
 	watson6CGCentralVerifyStall   // no step makes progress
 )
+
+// watson6CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson6CGCentralValue(x, g *[6]float64, diffs *watson6CGCentralDifferences) float64 {
+	return Watson6(x)
+}
 
 // watson6CGCentralFiniteVec reports whether every component of x is finite.
 func watson6CGCentralFiniteVec(x *[6]float64) bool {
@@ -1044,33 +1053,44 @@ func watson6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// watson6CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson6CGCentralStepWithin is the step test: every |s_i| ≤ tol·watson6CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(watson6CGCentralAbs(s[i]) <= tol*(watson6CGCentralAbs(x[i])+1)) {
+		if !(watson6CGCentralAbs(s[i]) <= tol*watson6CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson6CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson6CGCentralStepScale(xi float64) float64 {
+	return watson6CGCentralAbs(xi) + 1
+}
+
 // watson6CGCentralCurvaturePair: without bounds the pair is used as it is.
 func watson6CGCentralCurvaturePair(s, y, x *[6]float64, b *watson6CGCentralBox) {}
 
 // watson6CGCentralSearchDirection is the direction's own.
-func watson6CGCentralSearchDirection(dir *watson6CGCentralDirection, x, g, d *[6]float64, b *watson6CGCentralBox) {
+func watson6CGCentralSearchDirection(dir *watson6CGCentralDirection, x, g, d *[6]float64, diffs *watson6CGCentralDifferences) {
+	watson6CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// watson6CGCentralSolveDirection is the direction's own rule, from its memory.
+func watson6CGCentralSolveDirection(dir *watson6CGCentralDirection, g, d *[6]float64, diffs *watson6CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // watson6CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson6CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson6CGCentralAbs(x[i]) + 1) / watson6CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6CGCentralStepScale(x[i]) / watson6CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slo
 			return watson6CGCentralLineResult{calls: calls, end: watson6CGCentralSearchOutOfBudget}
 		}
 		watson6CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson6CGCentralLinePoint{step: t, value: Watson6(xt)}
+		current := watson6CGCentralLinePoint{step: t, value: watson6CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson6CGCentralFinite(current.value) || current.value > fx+watson6CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *watson6LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson6LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson6LBFGSAnalyticFinite(r.fx) || !watson6LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Watson6LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *watson6LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves watson6LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *watson6LBFGSAnalyticDescent) search() {
-	watson6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !watson6LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson6LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(watson6LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type watson6LBFGSAnalyticDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSAnalyticRoundingFloor)
 	bounds    watson6LBFGSAnalyticBox
+	model     watson6LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (watson6LBFGSAnalyticResidualModel for any other)
 }
+
+// watson6LBFGSAnalyticResidualModel is watson6LBFGSAnalyticResidualModel for any other objective: nothing.
+type watson6LBFGSAnalyticResidualModel struct{}
 
 // watson6LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last watson6LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	watson6LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson6LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson6LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson6LBFGSAnalyticValue(x, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences) float64 {
+	return Watson6(x)
+}
 
 // watson6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measu
 	return measure, floor
 }
 
-// watson6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson6LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*(watson6LBFGSAnalyticAbs(x[i])+1)) {
+		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*watson6LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson6LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson6LBFGSAnalyticStepScale(xi float64) float64 {
+	return watson6LBFGSAnalyticAbs(xi) + 1
+}
+
 // watson6LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson6LBFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6LBFGSAnalyticBox) {}
 
 // watson6LBFGSAnalyticSearchDirection is the direction's own.
-func watson6LBFGSAnalyticSearchDirection(dir *watson6LBFGSAnalyticDirection, x, g, d *[6]float64, b *watson6LBFGSAnalyticBox) {
+func watson6LBFGSAnalyticSearchDirection(dir *watson6LBFGSAnalyticDirection, x, g, d *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
+	watson6LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// watson6LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func watson6LBFGSAnalyticSolveDirection(dir *watson6LBFGSAnalyticDirection, g, d *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // watson6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson6LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson6LBFGSAnalyticAbs(x[i]) + 1) / watson6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6LBFGSAnalyticStepScale(x[i]) / watson6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64,
 			return watson6LBFGSAnalyticLineResult{calls: calls, end: watson6LBFGSAnalyticSearchOutOfBudget}
 		}
 		watson6LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson6LBFGSAnalyticLinePoint{step: t, value: Watson6(xt)}
+		current := watson6LBFGSAnalyticLinePoint{step: t, value: watson6LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson6LBFGSAnalyticFinite(current.value) || current.value > fx+watson6LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *watson6LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson6(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson6LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson6LBFGSCentralFinite(r.fx) || !watson6LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = Watson6LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *watson6LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves watson6LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *watson6LBFGSCentralDescent) search() {
-	watson6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !watson6LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson6LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(watson6LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type watson6LBFGSCentralDifferences struct {
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSCentralRoundingFloor)
 	bounds    watson6LBFGSCentralBox
+	model     watson6LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (watson6LBFGSCentralResidualModel for any other)
 }
+
+// watson6LBFGSCentralResidualModel is watson6LBFGSCentralResidualModel for any other objective: nothing.
+type watson6LBFGSCentralResidualModel struct{}
 
 // watson6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last watson6LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	watson6LBFGSCentralVerifyPass    // a difference gradient passed the test
 	watson6LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// watson6LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson6LBFGSCentralValue(x, g *[6]float64, diffs *watson6LBFGSCentralDifferences) float64 {
+	return Watson6(x)
+}
 
 // watson6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func watson6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measur
 	return measure, floor
 }
 
-// watson6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·watson6LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	for i := range s {
-		if !(watson6LBFGSCentralAbs(s[i]) <= tol*(watson6LBFGSCentralAbs(x[i])+1)) {
+		if !(watson6LBFGSCentralAbs(s[i]) <= tol*watson6LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson6LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson6LBFGSCentralStepScale(xi float64) float64 {
+	return watson6LBFGSCentralAbs(xi) + 1
+}
+
 // watson6LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson6LBFGSCentralCurvaturePair(s, y, x *[6]float64, b *watson6LBFGSCentralBox) {}
 
 // watson6LBFGSCentralSearchDirection is the direction's own.
-func watson6LBFGSCentralSearchDirection(dir *watson6LBFGSCentralDirection, x, g, d *[6]float64, b *watson6LBFGSCentralBox) {
+func watson6LBFGSCentralSearchDirection(dir *watson6LBFGSCentralDirection, x, g, d *[6]float64, diffs *watson6LBFGSCentralDifferences) {
+	watson6LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// watson6LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func watson6LBFGSCentralSolveDirection(dir *watson6LBFGSCentralDirection, g, d *[6]float64, diffs *watson6LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // watson6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson6LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson6LBFGSCentralAbs(x[i]) + 1) / watson6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6LBFGSCentralStepScale(x[i]) / watson6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 			return watson6LBFGSCentralLineResult{calls: calls, end: watson6LBFGSCentralSearchOutOfBudget}
 		}
 		watson6LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson6LBFGSCentralLinePoint{step: t, value: Watson6(xt)}
+		current := watson6LBFGSCentralLinePoint{step: t, value: watson6LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson6LBFGSCentralFinite(current.value) || current.value > fx+watson6LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *watson9BFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson9BFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson9BFGSAnalyticFinite(r.fx) || !watson9BFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Watson9BFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson9BFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves watson9BFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *watson9BFGSAnalyticDescent) search() {
-	watson9BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson9BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9BFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !watson9BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson9BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson9BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9BFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(watson9BFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type watson9BFGSAnalyticDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSAnalyticRoundingFloor)
 	bounds    watson9BFGSAnalyticBox
+	model     watson9BFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (watson9BFGSAnalyticResidualModel for any other)
 }
+
+// watson9BFGSAnalyticResidualModel is watson9BFGSAnalyticResidualModel for any other objective: nothing.
+type watson9BFGSAnalyticResidualModel struct{}
 
 // watson9BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	watson9BFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson9BFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson9BFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson9BFGSAnalyticValue(x, g *[9]float64, diffs *watson9BFGSAnalyticDifferences) float64 {
+	return Watson9(x)
+}
 
 // watson9BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func watson9BFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measur
 	return measure, floor
 }
 
-// watson9BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson9BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson9BFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 	for i := range s {
-		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*(watson9BFGSAnalyticAbs(x[i])+1)) {
+		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*watson9BFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson9BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson9BFGSAnalyticStepScale(xi float64) float64 {
+	return watson9BFGSAnalyticAbs(xi) + 1
+}
+
 // watson9BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson9BFGSAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9BFGSAnalyticBox) {}
 
 // watson9BFGSAnalyticSearchDirection is the direction's own.
-func watson9BFGSAnalyticSearchDirection(dir *watson9BFGSAnalyticDirection, x, g, d *[9]float64, b *watson9BFGSAnalyticBox) {
+func watson9BFGSAnalyticSearchDirection(dir *watson9BFGSAnalyticDirection, x, g, d *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
+	watson9BFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// watson9BFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func watson9BFGSAnalyticSolveDirection(dir *watson9BFGSAnalyticDirection, g, d *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // watson9BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson9BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson9BFGSAnalyticAbs(x[i]) + 1) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9BFGSAnalyticStepScale(x[i]) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 			return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchOutOfBudget}
 		}
 		watson9BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson9BFGSAnalyticLinePoint{step: t, value: Watson9(xt)}
+		current := watson9BFGSAnalyticLinePoint{step: t, value: watson9BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson9BFGSAnalyticFinite(current.value) || current.value > fx+watson9BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *watson9BFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson9BFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson9BFGSCentralFinite(r.fx) || !watson9BFGSCentralFiniteVec(&r.x) {
 		r.out.status = Watson9BFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson9BFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves watson9BFGSCentralStageJudge next when the run
 // goes on.
 func (r *watson9BFGSCentralDescent) search() {
-	watson9BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson9BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9BFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !watson9BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson9BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson9BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9BFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(watson9BFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type watson9BFGSCentralDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSCentralRoundingFloor)
 	bounds    watson9BFGSCentralBox
+	model     watson9BFGSCentralResidualModel // a residual objective's residuals and Jacobian products (watson9BFGSCentralResidualModel for any other)
 }
+
+// watson9BFGSCentralResidualModel is watson9BFGSCentralResidualModel for any other objective: nothing.
+type watson9BFGSCentralResidualModel struct{}
 
 // watson9BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	watson9BFGSCentralVerifyPass    // a difference gradient passed the test
 	watson9BFGSCentralVerifyStall   // no step makes progress
 )
+
+// watson9BFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson9BFGSCentralValue(x, g *[9]float64, diffs *watson9BFGSCentralDifferences) float64 {
+	return Watson9(x)
+}
 
 // watson9BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure
 	return measure, floor
 }
 
-// watson9BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson9BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·watson9BFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson9BFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
 	for i := range s {
-		if !(watson9BFGSCentralAbs(s[i]) <= tol*(watson9BFGSCentralAbs(x[i])+1)) {
+		if !(watson9BFGSCentralAbs(s[i]) <= tol*watson9BFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson9BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson9BFGSCentralStepScale(xi float64) float64 {
+	return watson9BFGSCentralAbs(xi) + 1
+}
+
 // watson9BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson9BFGSCentralCurvaturePair(s, y, x *[9]float64, b *watson9BFGSCentralBox) {}
 
 // watson9BFGSCentralSearchDirection is the direction's own.
-func watson9BFGSCentralSearchDirection(dir *watson9BFGSCentralDirection, x, g, d *[9]float64, b *watson9BFGSCentralBox) {
+func watson9BFGSCentralSearchDirection(dir *watson9BFGSCentralDirection, x, g, d *[9]float64, diffs *watson9BFGSCentralDifferences) {
+	watson9BFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// watson9BFGSCentralSolveDirection is the direction's own rule, from its memory.
+func watson9BFGSCentralSolveDirection(dir *watson9BFGSCentralDirection, g, d *[9]float64, diffs *watson9BFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // watson9BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson9BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson9BFGSCentralAbs(x[i]) + 1) / watson9BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9BFGSCentralStepScale(x[i]) / watson9BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, s
 			return watson9BFGSCentralLineResult{calls: calls, end: watson9BFGSCentralSearchOutOfBudget}
 		}
 		watson9BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson9BFGSCentralLinePoint{step: t, value: Watson9(xt)}
+		current := watson9BFGSCentralLinePoint{step: t, value: watson9BFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson9BFGSCentralFinite(current.value) || current.value > fx+watson9BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

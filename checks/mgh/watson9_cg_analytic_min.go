@@ -354,7 +354,7 @@ func (r *watson9CGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson9CGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson9CGAnalyticFinite(r.fx) || !watson9CGAnalyticFiniteVec(&r.x) {
 		r.out.status = Watson9CGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson9CGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves watson9CGAnalyticStageJudge next when the run
 // goes on.
 func (r *watson9CGAnalyticDescent) search() {
-	watson9CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson9CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9CGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !watson9CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson9CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson9CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9CGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(watson9CGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type watson9CGAnalyticDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9CGAnalyticRoundingFloor)
 	bounds    watson9CGAnalyticBox
+	model     watson9CGAnalyticResidualModel // a residual objective's residuals and Jacobian products (watson9CGAnalyticResidualModel for any other)
 }
+
+// watson9CGAnalyticResidualModel is watson9CGAnalyticResidualModel for any other objective: nothing.
+type watson9CGAnalyticResidualModel struct{}
 
 // watson9CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	watson9CGAnalyticVerifyPass    // a difference gradient passed the test
 	watson9CGAnalyticVerifyStall   // no step makes progress
 )
+
+// watson9CGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson9CGAnalyticValue(x, g *[9]float64, diffs *watson9CGAnalyticDifferences) float64 {
+	return Watson9(x)
+}
 
 // watson9CGAnalyticFiniteVec reports whether every component of x is finite.
 func watson9CGAnalyticFiniteVec(x *[9]float64) bool {
@@ -865,33 +874,44 @@ func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson9CGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 	for i := range s {
-		if !(watson9CGAnalyticAbs(s[i]) <= tol*(watson9CGAnalyticAbs(x[i])+1)) {
+		if !(watson9CGAnalyticAbs(s[i]) <= tol*watson9CGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson9CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson9CGAnalyticStepScale(xi float64) float64 {
+	return watson9CGAnalyticAbs(xi) + 1
+}
+
 // watson9CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson9CGAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9CGAnalyticBox) {}
 
 // watson9CGAnalyticSearchDirection is the direction's own.
-func watson9CGAnalyticSearchDirection(dir *watson9CGAnalyticDirection, x, g, d *[9]float64, b *watson9CGAnalyticBox) {
+func watson9CGAnalyticSearchDirection(dir *watson9CGAnalyticDirection, x, g, d *[9]float64, diffs *watson9CGAnalyticDifferences) {
+	watson9CGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// watson9CGAnalyticSolveDirection is the direction's own rule, from its memory.
+func watson9CGAnalyticSolveDirection(dir *watson9CGAnalyticDirection, g, d *[9]float64, diffs *watson9CGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // watson9CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson9CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson9CGAnalyticAbs(x[i]) + 1) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9CGAnalyticStepScale(x[i]) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, sl
 			return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchOutOfBudget}
 		}
 		watson9CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson9CGAnalyticLinePoint{step: t, value: Watson9(xt)}
+		current := watson9CGAnalyticLinePoint{step: t, value: watson9CGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson9CGAnalyticFinite(current.value) || current.value > fx+watson9CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *watson9CGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson9CGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson9CGCentralFinite(r.fx) || !watson9CGCentralFiniteVec(&r.x) {
 		r.out.status = Watson9CGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *watson9CGCentralDescent) judge() {
 // the gradient at the new point; it leaves watson9CGCentralStageJudge next when the run
 // goes on.
 func (r *watson9CGCentralDescent) search() {
-	watson9CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson9CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9CGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !watson9CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson9CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson9CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9CGCentralDot(&r.g, &r.d)
 	}
 	first := float64(watson9CGCentralStepInitial)
@@ -547,7 +547,11 @@ type watson9CGCentralDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9CGCentralRoundingFloor)
 	bounds    watson9CGCentralBox
+	model     watson9CGCentralResidualModel // a residual objective's residuals and Jacobian products (watson9CGCentralResidualModel for any other)
 }
+
+// watson9CGCentralResidualModel is watson9CGCentralResidualModel for any other objective: nothing.
+type watson9CGCentralResidualModel struct{}
 
 // watson9CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	watson9CGCentralVerifyPass    // a difference gradient passed the test
 	watson9CGCentralVerifyStall   // no step makes progress
 )
+
+// watson9CGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson9CGCentralValue(x, g *[9]float64, diffs *watson9CGCentralDifferences) float64 {
+	return Watson9(x)
+}
 
 // watson9CGCentralFiniteVec reports whether every component of x is finite.
 func watson9CGCentralFiniteVec(x *[9]float64) bool {
@@ -1044,33 +1053,44 @@ func watson9CGCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// watson9CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson9CGCentralStepWithin is the step test: every |s_i| ≤ tol·watson9CGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson9CGCentralStepWithin(s, x *[9]float64, tol float64) bool {
 	for i := range s {
-		if !(watson9CGCentralAbs(s[i]) <= tol*(watson9CGCentralAbs(x[i])+1)) {
+		if !(watson9CGCentralAbs(s[i]) <= tol*watson9CGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson9CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson9CGCentralStepScale(xi float64) float64 {
+	return watson9CGCentralAbs(xi) + 1
+}
+
 // watson9CGCentralCurvaturePair: without bounds the pair is used as it is.
 func watson9CGCentralCurvaturePair(s, y, x *[9]float64, b *watson9CGCentralBox) {}
 
 // watson9CGCentralSearchDirection is the direction's own.
-func watson9CGCentralSearchDirection(dir *watson9CGCentralDirection, x, g, d *[9]float64, b *watson9CGCentralBox) {
+func watson9CGCentralSearchDirection(dir *watson9CGCentralDirection, x, g, d *[9]float64, diffs *watson9CGCentralDifferences) {
+	watson9CGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// watson9CGCentralSolveDirection is the direction's own rule, from its memory.
+func watson9CGCentralSolveDirection(dir *watson9CGCentralDirection, g, d *[9]float64, diffs *watson9CGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // watson9CGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson9CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9CGCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson9CGCentralAbs(x[i]) + 1) / watson9CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9CGCentralStepScale(x[i]) / watson9CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slo
 			return watson9CGCentralLineResult{calls: calls, end: watson9CGCentralSearchOutOfBudget}
 		}
 		watson9CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson9CGCentralLinePoint{step: t, value: Watson9(xt)}
+		current := watson9CGCentralLinePoint{step: t, value: watson9CGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson9CGCentralFinite(current.value) || current.value > fx+watson9CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *watson9LBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson9LBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson9LBFGSAnalyticFinite(r.fx) || !watson9LBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = Watson9LBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *watson9LBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves watson9LBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *watson9LBFGSAnalyticDescent) search() {
-	watson9LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson9LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9LBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !watson9LBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson9LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson9LBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9LBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(watson9LBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type watson9LBFGSAnalyticDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSAnalyticRoundingFloor)
 	bounds    watson9LBFGSAnalyticBox
+	model     watson9LBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (watson9LBFGSAnalyticResidualModel for any other)
 }
+
+// watson9LBFGSAnalyticResidualModel is watson9LBFGSAnalyticResidualModel for any other objective: nothing.
+type watson9LBFGSAnalyticResidualModel struct{}
 
 // watson9LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last watson9LBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	watson9LBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	watson9LBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// watson9LBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson9LBFGSAnalyticValue(x, g *[9]float64, diffs *watson9LBFGSAnalyticDifferences) float64 {
+	return Watson9(x)
+}
 
 // watson9LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func watson9LBFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measu
 	return measure, floor
 }
 
-// watson9LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson9LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson9LBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson9LBFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 	for i := range s {
-		if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*(watson9LBFGSAnalyticAbs(x[i])+1)) {
+		if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*watson9LBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson9LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson9LBFGSAnalyticStepScale(xi float64) float64 {
+	return watson9LBFGSAnalyticAbs(xi) + 1
+}
+
 // watson9LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson9LBFGSAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9LBFGSAnalyticBox) {}
 
 // watson9LBFGSAnalyticSearchDirection is the direction's own.
-func watson9LBFGSAnalyticSearchDirection(dir *watson9LBFGSAnalyticDirection, x, g, d *[9]float64, b *watson9LBFGSAnalyticBox) {
+func watson9LBFGSAnalyticSearchDirection(dir *watson9LBFGSAnalyticDirection, x, g, d *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
+	watson9LBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// watson9LBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func watson9LBFGSAnalyticSolveDirection(dir *watson9LBFGSAnalyticDirection, g, d *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // watson9LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson9LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson9LBFGSAnalyticAbs(x[i]) + 1) / watson9LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9LBFGSAnalyticStepScale(x[i]) / watson9LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64,
 			return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchOutOfBudget}
 		}
 		watson9LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson9LBFGSAnalyticLinePoint{step: t, value: Watson9(xt)}
+		current := watson9LBFGSAnalyticLinePoint{step: t, value: watson9LBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson9LBFGSAnalyticFinite(current.value) || current.value > fx+watson9LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *watson9LBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Watson9(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = watson9LBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !watson9LBFGSCentralFinite(r.fx) || !watson9LBFGSCentralFiniteVec(&r.x) {
 		r.out.status = Watson9LBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *watson9LBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves watson9LBFGSCentralStageJudge next when the run
 // goes on.
 func (r *watson9LBFGSCentralDescent) search() {
-	watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9LBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !watson9LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9LBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(watson9LBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type watson9LBFGSCentralDifferences struct {
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSCentralRoundingFloor)
 	bounds    watson9LBFGSCentralBox
+	model     watson9LBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (watson9LBFGSCentralResidualModel for any other)
 }
+
+// watson9LBFGSCentralResidualModel is watson9LBFGSCentralResidualModel for any other objective: nothing.
+type watson9LBFGSCentralResidualModel struct{}
 
 // watson9LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last watson9LBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	watson9LBFGSCentralVerifyPass    // a difference gradient passed the test
 	watson9LBFGSCentralVerifyStall   // no step makes progress
 )
+
+// watson9LBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func watson9LBFGSCentralValue(x, g *[9]float64, diffs *watson9LBFGSCentralDifferences) float64 {
+	return Watson9(x)
+}
 
 // watson9LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func watson9LBFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measur
 	return measure, floor
 }
 
-// watson9LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// watson9LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·watson9LBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
 	for i := range s {
-		if !(watson9LBFGSCentralAbs(s[i]) <= tol*(watson9LBFGSCentralAbs(x[i])+1)) {
+		if !(watson9LBFGSCentralAbs(s[i]) <= tol*watson9LBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// watson9LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func watson9LBFGSCentralStepScale(xi float64) float64 {
+	return watson9LBFGSCentralAbs(xi) + 1
+}
+
 // watson9LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson9LBFGSCentralCurvaturePair(s, y, x *[9]float64, b *watson9LBFGSCentralBox) {}
 
 // watson9LBFGSCentralSearchDirection is the direction's own.
-func watson9LBFGSCentralSearchDirection(dir *watson9LBFGSCentralDirection, x, g, d *[9]float64, b *watson9LBFGSCentralBox) {
+func watson9LBFGSCentralSearchDirection(dir *watson9LBFGSCentralDirection, x, g, d *[9]float64, diffs *watson9LBFGSCentralDifferences) {
+	watson9LBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// watson9LBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func watson9LBFGSCentralSolveDirection(dir *watson9LBFGSCentralDirection, g, d *[9]float64, diffs *watson9LBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // watson9LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·watson9LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (watson9LBFGSCentralAbs(x[i]) + 1) / watson9LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9LBFGSCentralStepScale(x[i]) / watson9LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 			return watson9LBFGSCentralLineResult{calls: calls, end: watson9LBFGSCentralSearchOutOfBudget}
 		}
 		watson9LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := watson9LBFGSCentralLinePoint{step: t, value: Watson9(xt)}
+		current := watson9LBFGSCentralLinePoint{step: t, value: watson9LBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !watson9LBFGSCentralFinite(current.value) || current.value > fx+watson9LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *woodBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = woodBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !woodBFGSAnalyticFinite(r.fx) || !woodBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = WoodBFGSAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *woodBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves woodBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *woodBFGSAnalyticDescent) search() {
-	woodBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	woodBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !woodBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		woodBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		woodBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(woodBFGSAnalyticStepInitial)
@@ -547,7 +547,11 @@ type woodBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodBFGSAnalyticRoundingFloor)
 	bounds    woodBFGSAnalyticBox
+	model     woodBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (woodBFGSAnalyticResidualModel for any other)
 }
+
+// woodBFGSAnalyticResidualModel is woodBFGSAnalyticResidualModel for any other objective: nothing.
+type woodBFGSAnalyticResidualModel struct{}
 
 // woodBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	woodBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	woodBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// woodBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func woodBFGSAnalyticValue(x, g *[4]float64, diffs *woodBFGSAnalyticDifferences) float64 {
+	return Wood(x)
+}
 
 // woodBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// woodBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// woodBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·woodBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(woodBFGSAnalyticAbs(s[i]) <= tol*(woodBFGSAnalyticAbs(x[i])+1)) {
+		if !(woodBFGSAnalyticAbs(s[i]) <= tol*woodBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// woodBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func woodBFGSAnalyticStepScale(xi float64) float64 {
+	return woodBFGSAnalyticAbs(xi) + 1
+}
+
 // woodBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func woodBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *woodBFGSAnalyticBox) {}
 
 // woodBFGSAnalyticSearchDirection is the direction's own.
-func woodBFGSAnalyticSearchDirection(dir *woodBFGSAnalyticDirection, x, g, d *[4]float64, b *woodBFGSAnalyticBox) {
+func woodBFGSAnalyticSearchDirection(dir *woodBFGSAnalyticDirection, x, g, d *[4]float64, diffs *woodBFGSAnalyticDifferences) {
+	woodBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// woodBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func woodBFGSAnalyticSolveDirection(dir *woodBFGSAnalyticDirection, g, d *[4]float64, diffs *woodBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // woodBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·woodBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (woodBFGSAnalyticAbs(x[i]) + 1) / woodBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodBFGSAnalyticStepScale(x[i]) / woodBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -962,7 +982,7 @@ func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slo
 			return woodBFGSAnalyticLineResult{calls: calls, end: woodBFGSAnalyticSearchOutOfBudget}
 		}
 		woodBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := woodBFGSAnalyticLinePoint{step: t, value: Wood(xt)}
+		current := woodBFGSAnalyticLinePoint{step: t, value: woodBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !woodBFGSAnalyticFinite(current.value) || current.value > fx+woodBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

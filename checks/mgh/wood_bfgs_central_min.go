@@ -354,7 +354,7 @@ func (r *woodBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = woodBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !woodBFGSCentralFinite(r.fx) || !woodBFGSCentralFiniteVec(&r.x) {
 		r.out.status = WoodBFGSCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *woodBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves woodBFGSCentralStageJudge next when the run
 // goes on.
 func (r *woodBFGSCentralDescent) search() {
-	woodBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	woodBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !woodBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		woodBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		woodBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(woodBFGSCentralStepInitial)
@@ -547,7 +547,11 @@ type woodBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodBFGSCentralRoundingFloor)
 	bounds    woodBFGSCentralBox
+	model     woodBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (woodBFGSCentralResidualModel for any other)
 }
+
+// woodBFGSCentralResidualModel is woodBFGSCentralResidualModel for any other objective: nothing.
+type woodBFGSCentralResidualModel struct{}
 
 // woodBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	woodBFGSCentralVerifyPass    // a difference gradient passed the test
 	woodBFGSCentralVerifyStall   // no step makes progress
 )
+
+// woodBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func woodBFGSCentralValue(x, g *[4]float64, diffs *woodBFGSCentralDifferences) float64 {
+	return Wood(x)
+}
 
 // woodBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, f
 	return measure, floor
 }
 
-// woodBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// woodBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·woodBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(woodBFGSCentralAbs(s[i]) <= tol*(woodBFGSCentralAbs(x[i])+1)) {
+		if !(woodBFGSCentralAbs(s[i]) <= tol*woodBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// woodBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func woodBFGSCentralStepScale(xi float64) float64 {
+	return woodBFGSCentralAbs(xi) + 1
+}
+
 // woodBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func woodBFGSCentralCurvaturePair(s, y, x *[4]float64, b *woodBFGSCentralBox) {}
 
 // woodBFGSCentralSearchDirection is the direction's own.
-func woodBFGSCentralSearchDirection(dir *woodBFGSCentralDirection, x, g, d *[4]float64, b *woodBFGSCentralBox) {
+func woodBFGSCentralSearchDirection(dir *woodBFGSCentralDirection, x, g, d *[4]float64, diffs *woodBFGSCentralDifferences) {
+	woodBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// woodBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func woodBFGSCentralSolveDirection(dir *woodBFGSCentralDirection, g, d *[4]float64, diffs *woodBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // woodBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·woodBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (woodBFGSCentralAbs(x[i]) + 1) / woodBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodBFGSCentralStepScale(x[i]) / woodBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1141,7 +1161,7 @@ func woodBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slop
 			return woodBFGSCentralLineResult{calls: calls, end: woodBFGSCentralSearchOutOfBudget}
 		}
 		woodBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := woodBFGSCentralLinePoint{step: t, value: Wood(xt)}
+		current := woodBFGSCentralLinePoint{step: t, value: woodBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !woodBFGSCentralFinite(current.value) || current.value > fx+woodBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *woodCGAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = woodCGAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !woodCGAnalyticFinite(r.fx) || !woodCGAnalyticFiniteVec(&r.x) {
 		r.out.status = WoodCGAnalyticNonFiniteStart
@@ -455,11 +455,11 @@ func (r *woodCGAnalyticDescent) judge() {
 // the gradient at the new point; it leaves woodCGAnalyticStageJudge next when the run
 // goes on.
 func (r *woodCGAnalyticDescent) search() {
-	woodCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	woodCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodCGAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !woodCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		woodCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		woodCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodCGAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(woodCGAnalyticStepInitial)
@@ -547,7 +547,11 @@ type woodCGAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodCGAnalyticRoundingFloor)
 	bounds    woodCGAnalyticBox
+	model     woodCGAnalyticResidualModel // a residual objective's residuals and Jacobian products (woodCGAnalyticResidualModel for any other)
 }
+
+// woodCGAnalyticResidualModel is woodCGAnalyticResidualModel for any other objective: nothing.
+type woodCGAnalyticResidualModel struct{}
 
 // woodCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	woodCGAnalyticVerifyPass    // a difference gradient passed the test
 	woodCGAnalyticVerifyStall   // no step makes progress
 )
+
+// woodCGAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func woodCGAnalyticValue(x, g *[4]float64, diffs *woodCGAnalyticDifferences) float64 {
+	return Wood(x)
+}
 
 // woodCGAnalyticFiniteVec reports whether every component of x is finite.
 func woodCGAnalyticFiniteVec(x *[4]float64) bool {
@@ -865,33 +874,44 @@ func woodCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, fl
 	return measure, floor
 }
 
-// woodCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// woodCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·woodCGAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(woodCGAnalyticAbs(s[i]) <= tol*(woodCGAnalyticAbs(x[i])+1)) {
+		if !(woodCGAnalyticAbs(s[i]) <= tol*woodCGAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// woodCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func woodCGAnalyticStepScale(xi float64) float64 {
+	return woodCGAnalyticAbs(xi) + 1
+}
+
 // woodCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func woodCGAnalyticCurvaturePair(s, y, x *[4]float64, b *woodCGAnalyticBox) {}
 
 // woodCGAnalyticSearchDirection is the direction's own.
-func woodCGAnalyticSearchDirection(dir *woodCGAnalyticDirection, x, g, d *[4]float64, b *woodCGAnalyticBox) {
+func woodCGAnalyticSearchDirection(dir *woodCGAnalyticDirection, x, g, d *[4]float64, diffs *woodCGAnalyticDifferences) {
+	woodCGAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// woodCGAnalyticSolveDirection is the direction's own rule, from its memory.
+func woodCGAnalyticSolveDirection(dir *woodCGAnalyticDirection, g, d *[4]float64, diffs *woodCGAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // woodCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·woodCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (woodCGAnalyticAbs(x[i]) + 1) / woodCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodCGAnalyticStepScale(x[i]) / woodCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -951,7 +971,7 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope
 			return woodCGAnalyticLineResult{calls: calls, end: woodCGAnalyticSearchOutOfBudget}
 		}
 		woodCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := woodCGAnalyticLinePoint{step: t, value: Wood(xt)}
+		current := woodCGAnalyticLinePoint{step: t, value: woodCGAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !woodCGAnalyticFinite(current.value) || current.value > fx+woodCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *woodCGCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = woodCGCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !woodCGCentralFinite(r.fx) || !woodCGCentralFiniteVec(&r.x) {
 		r.out.status = WoodCGCentralNonFiniteStart
@@ -455,11 +455,11 @@ func (r *woodCGCentralDescent) judge() {
 // the gradient at the new point; it leaves woodCGCentralStageJudge next when the run
 // goes on.
 func (r *woodCGCentralDescent) search() {
-	woodCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	woodCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodCGCentralDot(&r.g, &r.d)
 	if !(now < 0) || !woodCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		woodCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		woodCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodCGCentralDot(&r.g, &r.d)
 	}
 	first := float64(woodCGCentralStepInitial)
@@ -547,7 +547,11 @@ type woodCGCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodCGCentralRoundingFloor)
 	bounds    woodCGCentralBox
+	model     woodCGCentralResidualModel // a residual objective's residuals and Jacobian products (woodCGCentralResidualModel for any other)
 }
+
+// woodCGCentralResidualModel is woodCGCentralResidualModel for any other objective: nothing.
+type woodCGCentralResidualModel struct{}
 
 // woodCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
 // choice, clipped at zero (PR+):
@@ -676,6 +680,11 @@ const (
 	woodCGCentralVerifyPass    // a difference gradient passed the test
 	woodCGCentralVerifyStall   // no step makes progress
 )
+
+// woodCGCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func woodCGCentralValue(x, g *[4]float64, diffs *woodCGCentralDifferences) float64 {
+	return Wood(x)
+}
 
 // woodCGCentralFiniteVec reports whether every component of x is finite.
 func woodCGCentralFiniteVec(x *[4]float64) bool {
@@ -1044,33 +1053,44 @@ func woodCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// woodCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// woodCGCentralStepWithin is the step test: every |s_i| ≤ tol·woodCGCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(woodCGCentralAbs(s[i]) <= tol*(woodCGCentralAbs(x[i])+1)) {
+		if !(woodCGCentralAbs(s[i]) <= tol*woodCGCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// woodCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func woodCGCentralStepScale(xi float64) float64 {
+	return woodCGCentralAbs(xi) + 1
+}
+
 // woodCGCentralCurvaturePair: without bounds the pair is used as it is.
 func woodCGCentralCurvaturePair(s, y, x *[4]float64, b *woodCGCentralBox) {}
 
 // woodCGCentralSearchDirection is the direction's own.
-func woodCGCentralSearchDirection(dir *woodCGCentralDirection, x, g, d *[4]float64, b *woodCGCentralBox) {
+func woodCGCentralSearchDirection(dir *woodCGCentralDirection, x, g, d *[4]float64, diffs *woodCGCentralDifferences) {
+	woodCGCentralSolveDirection(dir, g, d, diffs)
+}
+
+// woodCGCentralSolveDirection is the direction's own rule, from its memory.
+func woodCGCentralSolveDirection(dir *woodCGCentralDirection, g, d *[4]float64, diffs *woodCGCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // woodCGCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·woodCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (woodCGCentralAbs(x[i]) + 1) / woodCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodCGCentralStepScale(x[i]) / woodCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,7 +1150,7 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope,
 			return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchOutOfBudget}
 		}
 		woodCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := woodCGCentralLinePoint{step: t, value: Wood(xt)}
+		current := woodCGCentralLinePoint{step: t, value: woodCGCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !woodCGCentralFinite(current.value) || current.value > fx+woodCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *woodLBFGSAnalyticDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = woodLBFGSAnalyticValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !woodLBFGSAnalyticFinite(r.fx) || !woodLBFGSAnalyticFiniteVec(&r.x) {
 		r.out.status = WoodLBFGSAnalyticNonFiniteStart
@@ -456,11 +456,11 @@ func (r *woodLBFGSAnalyticDescent) judge() {
 // the gradient at the new point; it leaves woodLBFGSAnalyticStageJudge next when the run
 // goes on.
 func (r *woodLBFGSAnalyticDescent) search() {
-	woodLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	woodLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodLBFGSAnalyticDot(&r.g, &r.d)
 	if !(now < 0) || !woodLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		woodLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		woodLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodLBFGSAnalyticDot(&r.g, &r.d)
 	}
 	first := float64(woodLBFGSAnalyticStepInitial)
@@ -548,7 +548,11 @@ type woodLBFGSAnalyticDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSAnalyticRoundingFloor)
 	bounds    woodLBFGSAnalyticBox
+	model     woodLBFGSAnalyticResidualModel // a residual objective's residuals and Jacobian products (woodLBFGSAnalyticResidualModel for any other)
 }
+
+// woodLBFGSAnalyticResidualModel is woodLBFGSAnalyticResidualModel for any other objective: nothing.
+type woodLBFGSAnalyticResidualModel struct{}
 
 // woodLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last woodLBFGSAnalyticLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	woodLBFGSAnalyticVerifyPass    // a difference gradient passed the test
 	woodLBFGSAnalyticVerifyStall   // no step makes progress
 )
+
+// woodLBFGSAnalyticValue calls the objective; a combined one also writes ∇f(x) into g.
+func woodLBFGSAnalyticValue(x, g *[4]float64, diffs *woodLBFGSAnalyticDifferences) float64 {
+	return Wood(x)
+}
 
 // woodLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -902,33 +911,44 @@ func woodLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure,
 	return measure, floor
 }
 
-// woodLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// woodLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·woodLBFGSAnalyticStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func woodLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(woodLBFGSAnalyticAbs(s[i]) <= tol*(woodLBFGSAnalyticAbs(x[i])+1)) {
+		if !(woodLBFGSAnalyticAbs(s[i]) <= tol*woodLBFGSAnalyticStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// woodLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func woodLBFGSAnalyticStepScale(xi float64) float64 {
+	return woodLBFGSAnalyticAbs(xi) + 1
+}
+
 // woodLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func woodLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *woodLBFGSAnalyticBox) {}
 
 // woodLBFGSAnalyticSearchDirection is the direction's own.
-func woodLBFGSAnalyticSearchDirection(dir *woodLBFGSAnalyticDirection, x, g, d *[4]float64, b *woodLBFGSAnalyticBox) {
+func woodLBFGSAnalyticSearchDirection(dir *woodLBFGSAnalyticDirection, x, g, d *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
+	woodLBFGSAnalyticSolveDirection(dir, g, d, diffs)
+}
+
+// woodLBFGSAnalyticSolveDirection is the direction's own rule, from its memory.
+func woodLBFGSAnalyticSolveDirection(dir *woodLBFGSAnalyticDirection, g, d *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
 	dir.compute(g, d)
 }
 
 // woodLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·woodLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (woodLBFGSAnalyticAbs(x[i]) + 1) / woodLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodLBFGSAnalyticStepScale(x[i]) / woodLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -988,7 +1008,7 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, sl
 			return woodLBFGSAnalyticLineResult{calls: calls, end: woodLBFGSAnalyticSearchOutOfBudget}
 		}
 		woodLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := woodLBFGSAnalyticLinePoint{step: t, value: Wood(xt)}
+		current := woodLBFGSAnalyticLinePoint{step: t, value: woodLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !woodLBFGSAnalyticFinite(current.value) || current.value > fx+woodLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -355,7 +355,7 @@ func (r *woodLBFGSCentralDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = Wood(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = woodLBFGSCentralValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !woodLBFGSCentralFinite(r.fx) || !woodLBFGSCentralFiniteVec(&r.x) {
 		r.out.status = WoodLBFGSCentralNonFiniteStart
@@ -456,11 +456,11 @@ func (r *woodLBFGSCentralDescent) judge() {
 // the gradient at the new point; it leaves woodLBFGSCentralStageJudge next when the run
 // goes on.
 func (r *woodLBFGSCentralDescent) search() {
-	woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodLBFGSCentralDot(&r.g, &r.d)
 	if !(now < 0) || !woodLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodLBFGSCentralDot(&r.g, &r.d)
 	}
 	first := float64(woodLBFGSCentralStepInitial)
@@ -548,7 +548,11 @@ type woodLBFGSCentralDifferences struct {
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSCentralRoundingFloor)
 	bounds    woodLBFGSCentralBox
+	model     woodLBFGSCentralResidualModel // a residual objective's residuals and Jacobian products (woodLBFGSCentralResidualModel for any other)
 }
+
+// woodLBFGSCentralResidualModel is woodLBFGSCentralResidualModel for any other objective: nothing.
+type woodLBFGSCentralResidualModel struct{}
 
 // woodLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
 // inverse Hessian built from only the last woodLBFGSCentralLbfgsMemory pairs (s, y), kept
@@ -683,6 +687,11 @@ const (
 	woodLBFGSCentralVerifyPass    // a difference gradient passed the test
 	woodLBFGSCentralVerifyStall   // no step makes progress
 )
+
+// woodLBFGSCentralValue calls the objective; a combined one also writes ∇f(x) into g.
+func woodLBFGSCentralValue(x, g *[4]float64, diffs *woodLBFGSCentralDifferences) float64 {
+	return Wood(x)
+}
 
 // woodLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1081,33 +1090,44 @@ func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// woodLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// woodLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·woodLBFGSCentralStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	for i := range s {
-		if !(woodLBFGSCentralAbs(s[i]) <= tol*(woodLBFGSCentralAbs(x[i])+1)) {
+		if !(woodLBFGSCentralAbs(s[i]) <= tol*woodLBFGSCentralStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// woodLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func woodLBFGSCentralStepScale(xi float64) float64 {
+	return woodLBFGSCentralAbs(xi) + 1
+}
+
 // woodLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func woodLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *woodLBFGSCentralBox) {}
 
 // woodLBFGSCentralSearchDirection is the direction's own.
-func woodLBFGSCentralSearchDirection(dir *woodLBFGSCentralDirection, x, g, d *[4]float64, b *woodLBFGSCentralBox) {
+func woodLBFGSCentralSearchDirection(dir *woodLBFGSCentralDirection, x, g, d *[4]float64, diffs *woodLBFGSCentralDifferences) {
+	woodLBFGSCentralSolveDirection(dir, g, d, diffs)
+}
+
+// woodLBFGSCentralSolveDirection is the direction's own rule, from its memory.
+func woodLBFGSCentralSolveDirection(dir *woodLBFGSCentralDirection, g, d *[4]float64, diffs *woodLBFGSCentralDifferences) {
 	dir.compute(g, d)
 }
 
 // woodLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·woodLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (woodLBFGSCentralAbs(x[i]) + 1) / woodLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodLBFGSCentralStepScale(x[i]) / woodLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1167,7 +1187,7 @@ func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slo
 			return woodLBFGSCentralLineResult{calls: calls, end: woodLBFGSCentralSearchOutOfBudget}
 		}
 		woodLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := woodLBFGSCentralLinePoint{step: t, value: Wood(xt)}
+		current := woodLBFGSCentralLinePoint{step: t, value: woodLBFGSCentralValue(xt, gt, diffs)}
 		calls++
 		previous := low
 		if !woodLBFGSCentralFinite(current.value) || current.value > fx+woodLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

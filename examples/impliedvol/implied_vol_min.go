@@ -364,7 +364,7 @@ func (r *impliedVolDescent) begin(recv *Trade) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.PricingError(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = impliedVolValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !impliedVolFinite(r.fx) || !impliedVolFiniteVec(&r.x) {
 		r.out.status = ImpliedVolNonFiniteStart
@@ -465,11 +465,11 @@ func (r *impliedVolDescent) judge(recv *Trade) {
 // the gradient at the new point; it leaves impliedVolStageJudge next when the run
 // goes on.
 func (r *impliedVolDescent) search(recv *Trade) {
-	impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := impliedVolDot(&r.g, &r.d)
 	if !(now < 0) || !impliedVolFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = impliedVolDot(&r.g, &r.d)
 	}
 	first := float64(impliedVolStepInitial)
@@ -557,7 +557,11 @@ type impliedVolDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see impliedVolRoundingFloor)
 	bounds    impliedVolBox
+	model     impliedVolResidualModel // a residual objective's residuals and Jacobian products (impliedVolResidualModel for any other)
 }
+
+// impliedVolResidualModel is impliedVolResidualModel for any other objective: nothing.
+type impliedVolResidualModel struct{}
 
 // impliedVolDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	impliedVolVerifyPass    // a difference gradient passed the test
 	impliedVolVerifyStall   // no step makes progress
 )
+
+// impliedVolValue calls the objective; a combined one also writes ∇f(x) into g.
+func impliedVolValue(recv *Trade, x, g *[1]float64, diffs *impliedVolDifferences) float64 {
+	return recv.PricingError(x[0])
+}
 
 // impliedVolFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func impliedVolGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor 
 	return measure, floor
 }
 
-// impliedVolStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// impliedVolStepWithin is the step test: every |s_i| ≤ tol·impliedVolStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func impliedVolStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(impliedVolAbs(s[i]) <= tol*(impliedVolAbs(x[i])+1)) {
+		if !(impliedVolAbs(s[i]) <= tol*impliedVolStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// impliedVolStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func impliedVolStepScale(xi float64) float64 {
+	return impliedVolAbs(xi) + 1
 }
 
 // impliedVolCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func impliedVolCurvaturePair(s, y, x *[1]float64, b *impliedVolBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, b *impliedVolBox) {
+func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, diffs *impliedVolDifferences) {
+	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = impliedVolLarger(reach, impliedVolAbs(x[i]-impliedVolClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, b 
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	impliedVolSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, b 
 	}
 }
 
+// impliedVolSolveDirection is the direction's own rule, from its memory.
+func impliedVolSolveDirection(dir *impliedVolDirection, g, d *[1]float64, diffs *impliedVolDifferences) {
+	dir.compute(g, d)
+}
+
 // impliedVolTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·impliedVolStepScale(x_i)/|d_i|, or −1 when d is zero.
 func impliedVolTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (impliedVolAbs(x[i]) + 1) / impliedVolAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * impliedVolStepScale(x[i]) / impliedVolAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func impliedVolLineSearch(recv *Trade, x *[1]float64, fx float64, g, d *[1]float
 			return impliedVolLineResult{calls: calls, end: impliedVolSearchOutOfBudget}
 		}
 		impliedVolTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := impliedVolLinePoint{step: t, value: recv.PricingError(xt[0])}
+		current := impliedVolLinePoint{step: t, value: impliedVolValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !impliedVolFinite(current.value) || current.value > fx+impliedVolStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -354,7 +354,7 @@ func (r *calibrateDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = CalibrationError(&r.x) // a combined objective writes ∇f(x) into g
+	r.fx = calibrateValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !calibrateFinite(r.fx) || !calibrateFiniteVec(&r.x) {
 		r.out.status = CalibrateNonFiniteStart
@@ -455,11 +455,11 @@ func (r *calibrateDescent) judge() {
 // the gradient at the new point; it leaves calibrateStageJudge next when the run
 // goes on.
 func (r *calibrateDescent) search() {
-	calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := calibrateDot(&r.g, &r.d)
 	if !(now < 0) || !calibrateFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = calibrateDot(&r.g, &r.d)
 	}
 	first := float64(calibrateStepInitial)
@@ -547,7 +547,11 @@ type calibrateDifferences struct {
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see calibrateRoundingFloor)
 	bounds    calibrateBox
+	model     calibrateResidualModel // a residual objective's residuals and Jacobian products (calibrateResidualModel for any other)
 }
+
+// calibrateResidualModel is calibrateResidualModel for any other objective: nothing.
+type calibrateResidualModel struct{}
 
 // calibrateDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	calibrateVerifyPass    // a difference gradient passed the test
 	calibrateVerifyStall   // no step makes progress
 )
+
+// calibrateValue calls the objective; a combined one also writes ∇f(x) into g.
+func calibrateValue(x, g *[2]float64, diffs *calibrateDifferences) float64 {
+	return CalibrationError(x)
+}
 
 // calibrateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -876,33 +885,44 @@ func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor f
 	return measure, floor
 }
 
-// calibrateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// calibrateStepWithin is the step test: every |s_i| ≤ tol·calibrateStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(calibrateAbs(s[i]) <= tol*(calibrateAbs(x[i])+1)) {
+		if !(calibrateAbs(s[i]) <= tol*calibrateStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// calibrateStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func calibrateStepScale(xi float64) float64 {
+	return calibrateAbs(xi) + 1
+}
+
 // calibrateCurvaturePair: without bounds the pair is used as it is.
 func calibrateCurvaturePair(s, y, x *[2]float64, b *calibrateBox) {}
 
 // calibrateSearchDirection is the direction's own.
-func calibrateSearchDirection(dir *calibrateDirection, x, g, d *[2]float64, b *calibrateBox) {
+func calibrateSearchDirection(dir *calibrateDirection, x, g, d *[2]float64, diffs *calibrateDifferences) {
+	calibrateSolveDirection(dir, g, d, diffs)
+}
+
+// calibrateSolveDirection is the direction's own rule, from its memory.
+func calibrateSolveDirection(dir *calibrateDirection, g, d *[2]float64, diffs *calibrateDifferences) {
 	dir.compute(g, d)
 }
 
 // calibrateTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·calibrateStepScale(x_i)/|d_i|, or −1 when d is zero.
 func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (calibrateAbs(x[i]) + 1) / calibrateAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * calibrateStepScale(x[i]) / calibrateAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -927,7 +947,7 @@ func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, fir
 			return calibrateLineResult{calls: trial, end: calibrateSearchOutOfBudget}
 		}
 		calibrateTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := CalibrationError(xt)
+		ft := calibrateValue(xt, gt, diffs)
 		if calibrateFinite(ft) && calibrateAcceptable(fx, ft, t, slope, x, xt, g) {
 			return calibrateLineResult{step: t, value: ft, calls: trial + 1, end: calibrateSearchAccepted}
 		}

@@ -354,7 +354,7 @@ func (r *tuneGainDescent) begin() {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = GainCost(r.x[0]) // a combined objective writes ∇f(x) into g
+	r.fx = tuneGainValue(&r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !tuneGainFinite(r.fx) || !tuneGainFiniteVec(&r.x) {
 		r.out.status = TuneGainNonFiniteStart
@@ -455,11 +455,11 @@ func (r *tuneGainDescent) judge() {
 // the gradient at the new point; it leaves tuneGainStageJudge next when the run
 // goes on.
 func (r *tuneGainDescent) search() {
-	tuneGainSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	tuneGainSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := tuneGainDot(&r.g, &r.d)
 	if !(now < 0) || !tuneGainFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		tuneGainSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		tuneGainSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = tuneGainDot(&r.g, &r.d)
 	}
 	first := float64(tuneGainStepInitial)
@@ -547,7 +547,11 @@ type tuneGainDifferences struct {
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see tuneGainRoundingFloor)
 	bounds    tuneGainBox
+	model     tuneGainResidualModel // a residual objective's residuals and Jacobian products (tuneGainResidualModel for any other)
 }
+
+// tuneGainResidualModel is tuneGainResidualModel for any other objective: nothing.
+type tuneGainResidualModel struct{}
 
 // tuneGainDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -657,6 +661,11 @@ const (
 	tuneGainVerifyPass    // a difference gradient passed the test
 	tuneGainVerifyStall   // no step makes progress
 )
+
+// tuneGainValue calls the objective; a combined one also writes ∇f(x) into g.
+func tuneGainValue(x, g *[1]float64, diffs *tuneGainDifferences) float64 {
+	return GainCost(x[0])
+}
 
 // tuneGainFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1055,33 +1064,44 @@ func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor fl
 	return measure, floor
 }
 
-// tuneGainStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// tuneGainStepWithin is the step test: every |s_i| ≤ tol·tuneGainStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(tuneGainAbs(s[i]) <= tol*(tuneGainAbs(x[i])+1)) {
+		if !(tuneGainAbs(s[i]) <= tol*tuneGainStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// tuneGainStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func tuneGainStepScale(xi float64) float64 {
+	return tuneGainAbs(xi) + 1
+}
+
 // tuneGainCurvaturePair: without bounds the pair is used as it is.
 func tuneGainCurvaturePair(s, y, x *[1]float64, b *tuneGainBox) {}
 
 // tuneGainSearchDirection is the direction's own.
-func tuneGainSearchDirection(dir *tuneGainDirection, x, g, d *[1]float64, b *tuneGainBox) {
+func tuneGainSearchDirection(dir *tuneGainDirection, x, g, d *[1]float64, diffs *tuneGainDifferences) {
+	tuneGainSolveDirection(dir, g, d, diffs)
+}
+
+// tuneGainSolveDirection is the direction's own rule, from its memory.
+func tuneGainSolveDirection(dir *tuneGainDirection, g, d *[1]float64, diffs *tuneGainDifferences) {
 	dir.compute(g, d)
 }
 
 // tuneGainTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·tuneGainStepScale(x_i)/|d_i|, or −1 when d is zero.
 func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (tuneGainAbs(x[i]) + 1) / tuneGainAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * tuneGainStepScale(x[i]) / tuneGainAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1106,7 +1126,7 @@ func tuneGainLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, firs
 			return tuneGainLineResult{calls: trial, end: tuneGainSearchOutOfBudget}
 		}
 		tuneGainTrialPoint(xt, x, t, d, &diffs.bounds)
-		ft := GainCost(xt[0])
+		ft := tuneGainValue(xt, gt, diffs)
 		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope, x, xt, g) {
 			return tuneGainLineResult{step: t, value: ft, calls: trial + 1, end: tuneGainSearchAccepted}
 		}

@@ -381,7 +381,7 @@ func (r *fitSteinhartHartDescent) begin(recv *Calibration) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = fitSteinhartHartValueAt(recv, &r.x) // a combined objective writes ∇f(x) into g
+	r.fx = fitSteinhartHartValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !fitSteinhartHartFinite(r.fx) || !fitSteinhartHartFiniteVec(&r.x) {
 		r.out.status = FitSteinhartHartNonFiniteStart
@@ -482,11 +482,11 @@ func (r *fitSteinhartHartDescent) judge(recv *Calibration) {
 // the gradient at the new point; it leaves fitSteinhartHartStageJudge next when the run
 // goes on.
 func (r *fitSteinhartHartDescent) search(recv *Calibration) {
-	fitSteinhartHartSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	fitSteinhartHartSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := fitSteinhartHartDot(&r.g, &r.d)
 	if !(now < 0) || !fitSteinhartHartFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		fitSteinhartHartSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		fitSteinhartHartSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = fitSteinhartHartDot(&r.g, &r.d)
 	}
 	first := float64(fitSteinhartHartStepInitial)
@@ -574,7 +574,11 @@ type fitSteinhartHartDifferences struct {
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see fitSteinhartHartRoundingFloor)
 	bounds    fitSteinhartHartBox
+	model     fitSteinhartHartResidualModel // a residual objective's residuals and Jacobian products (fitSteinhartHartResidualModel for any other)
 }
+
+// fitSteinhartHartResidualModel is fitSteinhartHartResidualModel for any other objective: nothing.
+type fitSteinhartHartResidualModel struct{}
 
 // fitSteinhartHartDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -684,6 +688,11 @@ const (
 	fitSteinhartHartVerifyPass    // a difference gradient passed the test
 	fitSteinhartHartVerifyStall   // no step makes progress
 )
+
+// fitSteinhartHartValue calls the objective; a combined one also writes ∇f(x) into g.
+func fitSteinhartHartValue(recv *Calibration, x, g *[3]float64, diffs *fitSteinhartHartDifferences) float64 {
+	return fitSteinhartHartValueAt(recv, x)
+}
 
 // fitSteinhartHartFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -1082,33 +1091,44 @@ func fitSteinhartHartGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 	return measure, floor
 }
 
-// fitSteinhartHartStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// fitSteinhartHartStepWithin is the step test: every |s_i| ≤ tol·fitSteinhartHartStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func fitSteinhartHartStepWithin(s, x *[3]float64, tol float64) bool {
 	for i := range s {
-		if !(fitSteinhartHartAbs(s[i]) <= tol*(fitSteinhartHartAbs(x[i])+1)) {
+		if !(fitSteinhartHartAbs(s[i]) <= tol*fitSteinhartHartStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
 }
 
+// fitSteinhartHartStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func fitSteinhartHartStepScale(xi float64) float64 {
+	return fitSteinhartHartAbs(xi) + 1
+}
+
 // fitSteinhartHartCurvaturePair: without bounds the pair is used as it is.
 func fitSteinhartHartCurvaturePair(s, y, x *[3]float64, b *fitSteinhartHartBox) {}
 
 // fitSteinhartHartSearchDirection is the direction's own.
-func fitSteinhartHartSearchDirection(dir *fitSteinhartHartDirection, x, g, d *[3]float64, b *fitSteinhartHartBox) {
+func fitSteinhartHartSearchDirection(dir *fitSteinhartHartDirection, x, g, d *[3]float64, diffs *fitSteinhartHartDifferences) {
+	fitSteinhartHartSolveDirection(dir, g, d, diffs)
+}
+
+// fitSteinhartHartSolveDirection is the direction's own rule, from its memory.
+func fitSteinhartHartSolveDirection(dir *fitSteinhartHartDirection, g, d *[3]float64, diffs *fitSteinhartHartDifferences) {
 	dir.compute(g, d)
 }
 
 // fitSteinhartHartTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·fitSteinhartHartStepScale(x_i)/|d_i|, or −1 when d is zero.
 func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (fitSteinhartHartAbs(x[i]) + 1) / fitSteinhartHartAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * fitSteinhartHartStepScale(x[i]) / fitSteinhartHartAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1168,7 +1188,7 @@ func fitSteinhartHartLineSearch(recv *Calibration, x *[3]float64, fx float64, g,
 			return fitSteinhartHartLineResult{calls: calls, end: fitSteinhartHartSearchOutOfBudget}
 		}
 		fitSteinhartHartTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := fitSteinhartHartLinePoint{step: t, value: fitSteinhartHartValueAt(recv, xt)}
+		current := fitSteinhartHartLinePoint{step: t, value: fitSteinhartHartValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !fitSteinhartHartFinite(current.value) || current.value > fx+fitSteinhartHartStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -364,7 +364,7 @@ func (r *reachDescent) begin(recv *Arm) {
 	if r.lim.Evaluations < 1 {
 		return
 	}
-	r.fx = recv.Miss(r.x) // a combined objective writes ∇f(x) into g
+	r.fx = reachValue(recv, &r.x, &r.g, &r.diffs) // a combined objective writes ∇f(x) into g
 	r.out.f, r.out.evaluations = r.fx, 1
 	if !reachFinite(r.fx) || !reachFiniteVec(&r.x) {
 		r.out.status = ReachNonFiniteStart
@@ -465,11 +465,11 @@ func (r *reachDescent) judge(recv *Arm) {
 // the gradient at the new point; it leaves reachStageJudge next when the run
 // goes on.
 func (r *reachDescent) search(recv *Arm) {
-	reachSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	reachSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := reachDot(&r.g, &r.d)
 	if !(now < 0) || !reachFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
-		reachSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		reachSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = reachDot(&r.g, &r.d)
 	}
 	first := float32(reachStepInitial)
@@ -557,7 +557,11 @@ type reachDifferences struct {
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see reachRoundingFloor)
 	bounds    reachBox
+	model     reachResidualModel // a residual objective's residuals and Jacobian products (reachResidualModel for any other)
 }
+
+// reachResidualModel is reachResidualModel for any other objective: nothing.
+type reachResidualModel struct{}
 
 // reachDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
 // approximates the inverse Hessian in a fixed dim×dim array and is updated
@@ -687,6 +691,11 @@ const (
 	reachVerifyPass    // a difference gradient passed the test
 	reachVerifyStall   // no step makes progress
 )
+
+// reachValue calls the objective; a combined one also writes ∇f(x) into g.
+func reachValue(recv *Arm, x, g *[2]float32, diffs *reachDifferences) float32 {
+	return recv.Miss(*x)
+}
 
 // reachFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
@@ -909,16 +918,22 @@ func reachGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float
 	return measure, floor
 }
 
-// reachStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// reachStepWithin is the step test: every |s_i| ≤ tol·reachStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func reachStepWithin(s, x *[2]float32, tol float32) bool {
 	for i := range s {
-		if !(reachAbs(s[i]) <= tol*(reachAbs(x[i])+1)) {
+		if !(reachAbs(s[i]) <= tol*reachStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// reachStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func reachStepScale(xi float32) float32 {
+	return reachAbs(xi) + 1
 }
 
 // reachCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -964,7 +979,8 @@ func reachCurvaturePair(s, y, x *[2]float32, b *reachBox) {
 //     with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982.
 //   - D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection
 //     method, IEEE Trans. Automatic Control 21(2):174–184, 1976.
-func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, b *reachBox) {
+func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, diffs *reachDifferences) {
+	b := &diffs.bounds
 	var reach float32 // ‖x − P(x − g)‖∞
 	for i := range x {
 		reach = reachLarger(reach, reachAbs(x[i]-reachClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
@@ -981,7 +997,7 @@ func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, b *reachBox)
 			free[i] = g[i]
 		}
 	}
-	dir.compute(&free, d)
+	reachSolveDirection(dir, &free, d, diffs)
 	for i := range x {
 		if active[i] {
 			d[i] = -g[i]
@@ -992,13 +1008,18 @@ func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, b *reachBox)
 	}
 }
 
+// reachSolveDirection is the direction's own rule, from its memory.
+func reachSolveDirection(dir *reachDirection, g, d *[2]float32, diffs *reachDifferences) {
+	dir.compute(g, d)
+}
+
 // reachTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·reachStepScale(x_i)/|d_i|, or −1 when d is zero.
 func reachTinyStep(x, d *[2]float32, tol float32) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (reachAbs(x[i]) + 1) / reachAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * reachStepScale(x[i]) / reachAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1058,7 +1079,7 @@ func reachLineSearch(recv *Arm, x *[2]float32, fx float32, g, d *[2]float32, slo
 			return reachLineResult{calls: calls, end: reachSearchOutOfBudget}
 		}
 		reachTrialPoint(xt, x, t, d, &diffs.bounds)
-		current := reachLinePoint{step: t, value: recv.Miss(*xt)}
+		current := reachLinePoint{step: t, value: reachValue(recv, xt, gt, diffs)}
 		calls++
 		previous := low
 		if !reachFinite(current.value) || current.value > fx+reachStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test

@@ -1097,16 +1097,22 @@ func minBowlInBoxGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floo
 	return measure, floor
 }
 
-// minBowlInBoxStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minBowlInBoxStepWithin is the step test: every |s_i| ≤ tol·minBowlInBoxStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minBowlInBoxStepWithin(s, x *[3]float32, tol float32) bool {
 	for i := range s {
-		if !(minBowlInBoxAbs(s[i]) <= tol*(minBowlInBoxAbs(x[i])+1)) {
+		if !(minBowlInBoxAbs(s[i]) <= tol*minBowlInBoxStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minBowlInBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minBowlInBoxStepScale(xi float32) float32 {
+	return minBowlInBoxAbs(xi) + 1
 }
 
 // minBowlInBoxCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1187,12 +1193,12 @@ func minBowlInBoxSolveDirection(dir *minBowlInBoxDirection, g, d *[3]float32, di
 }
 
 // minBowlInBoxTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minBowlInBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minBowlInBoxTinyStep(x, d *[3]float32, tol float32) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minBowlInBoxAbs(x[i]) + 1) / minBowlInBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minBowlInBoxStepScale(x[i]) / minBowlInBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

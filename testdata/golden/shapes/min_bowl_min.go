@@ -1030,16 +1030,22 @@ func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor flo
 	return measure, floor
 }
 
-// minBowlStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minBowlStepWithin is the step test: every |s_i| ≤ tol·minBowlStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
 	for i := range s {
-		if !(minBowlAbs(s[i]) <= tol*(minBowlAbs(x[i])+1)) {
+		if !(minBowlAbs(s[i]) <= tol*minBowlStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minBowlStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minBowlStepScale(xi float32) float32 {
+	return minBowlAbs(xi) + 1
 }
 
 // minBowlCurvaturePair: without bounds the pair is used as it is.
@@ -1056,12 +1062,12 @@ func minBowlSolveDirection(dir *minBowlDirection, g, d *[3]float32, diffs *minBo
 }
 
 // minBowlTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minBowlStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minBowlAbs(x[i]) + 1) / minBowlAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minBowlStepScale(x[i]) / minBowlAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

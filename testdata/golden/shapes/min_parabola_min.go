@@ -1064,16 +1064,22 @@ func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor
 	return measure, floor
 }
 
-// minParabolaStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minParabolaStepWithin is the step test: every |s_i| ≤ tol·minParabolaStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
 	for i := range s {
-		if !(minParabolaAbs(s[i]) <= tol*(minParabolaAbs(x[i])+1)) {
+		if !(minParabolaAbs(s[i]) <= tol*minParabolaStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minParabolaStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minParabolaStepScale(xi float64) float64 {
+	return minParabolaAbs(xi) + 1
 }
 
 // minParabolaCurvaturePair: without bounds the pair is used as it is.
@@ -1090,12 +1096,12 @@ func minParabolaSolveDirection(dir *minParabolaDirection, g, d *[1]float64, diff
 }
 
 // minParabolaTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minParabolaStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minParabolaAbs(x[i]) + 1) / minParabolaAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minParabolaStepScale(x[i]) / minParabolaAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

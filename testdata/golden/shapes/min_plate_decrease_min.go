@@ -1023,16 +1023,22 @@ func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, 
 	return measure, floor
 }
 
-// minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·minPlateDecreaseStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
 	for i := range s {
-		if !(minPlateDecreaseAbs(s[i]) <= tol*(minPlateDecreaseAbs(x[i])+1)) {
+		if !(minPlateDecreaseAbs(s[i]) <= tol*minPlateDecreaseStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minPlateDecreaseStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minPlateDecreaseStepScale(xi float32) float32 {
+	return minPlateDecreaseAbs(xi) + 1
 }
 
 // minPlateDecreaseCurvaturePair: without bounds the pair is used as it is.
@@ -1058,12 +1064,12 @@ func minPlateDecreaseDot(a, b *[2]float32) float32 {
 }
 
 // minPlateDecreaseTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minPlateDecreaseStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minPlateDecreaseAbs(x[i]) + 1) / minPlateDecreaseAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minPlateDecreaseStepScale(x[i]) / minPlateDecreaseAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

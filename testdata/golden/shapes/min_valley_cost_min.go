@@ -839,16 +839,22 @@ func minValleyCostGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 	return measure, floor
 }
 
-// minValleyCostStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minValleyCostStepWithin is the step test: every |s_i| ≤ tol·minValleyCostStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minValleyCostStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(minValleyCostAbs(s[i]) <= tol*(minValleyCostAbs(x[i])+1)) {
+		if !(minValleyCostAbs(s[i]) <= tol*minValleyCostStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minValleyCostStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minValleyCostStepScale(xi float64) float64 {
+	return minValleyCostAbs(xi) + 1
 }
 
 // minValleyCostCurvaturePair: without bounds the pair is used as it is.
@@ -865,12 +871,12 @@ func minValleyCostSolveDirection(dir *minValleyCostDirection, g, d *[2]float64, 
 }
 
 // minValleyCostTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minValleyCostStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minValleyCostTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minValleyCostAbs(x[i]) + 1) / minValleyCostAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minValleyCostStepScale(x[i]) / minValleyCostAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -911,16 +911,22 @@ func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor f
 	return measure, floor
 }
 
-// minValleyStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minValleyStepWithin is the step test: every |s_i| ≤ tol·minValleyStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(minValleyAbs(s[i]) <= tol*(minValleyAbs(x[i])+1)) {
+		if !(minValleyAbs(s[i]) <= tol*minValleyStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minValleyStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minValleyStepScale(xi float64) float64 {
+	return minValleyAbs(xi) + 1
 }
 
 // minValleyCurvaturePair: without bounds the pair is used as it is.
@@ -937,12 +943,12 @@ func minValleySolveDirection(dir *minValleyDirection, g, d *[2]float64, diffs *m
 }
 
 // minValleyTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minValleyStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minValleyAbs(x[i]) + 1) / minValleyAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minValleyStepScale(x[i]) / minValleyAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -962,16 +962,22 @@ func minValleyScaledGradientMeasure(g, e, x *[2]float64, fx float64) (measure, f
 	return measure, floor
 }
 
-// minValleyScaledStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minValleyScaledStepWithin is the step test: every |s_i| ≤ tol·minValleyScaledStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minValleyScaledStepWithin(s, x *[2]float64, tol float64) bool {
 	for i := range s {
-		if !(minValleyScaledAbs(s[i]) <= tol*(minValleyScaledAbs(x[i])+1)) {
+		if !(minValleyScaledAbs(s[i]) <= tol*minValleyScaledStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minValleyScaledStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minValleyScaledStepScale(xi float64) float64 {
+	return minValleyScaledAbs(xi) + 1
 }
 
 // minValleyScaledCurvaturePair zeroes yᵢ for each variable the step left on a bound it sat on
@@ -1052,12 +1058,12 @@ func minValleyScaledSolveDirection(dir *minValleyScaledDirection, g, d *[2]float
 }
 
 // minValleyScaledTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minValleyScaledStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minValleyScaledTinyStep(x, d *[2]float64, tol float64) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minValleyScaledAbs(x[i]) + 1) / minValleyScaledAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minValleyScaledStepScale(x[i]) / minValleyScaledAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -843,16 +843,22 @@ func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor fl
 	return measure, floor
 }
 
-// minPlateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
+// minPlateStepWithin is the step test: every |s_i| ≤ tol·minPlateStepScale(x_i),
+// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// component on its own scale, so a small component still moving is not
+// hidden by a large one.
 func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
 	for i := range s {
-		if !(minPlateAbs(s[i]) <= tol*(minPlateAbs(x[i])+1)) {
+		if !(minPlateAbs(s[i]) <= tol*minPlateStepScale(x[i])) {
 			return false
 		}
 	}
 	return true
+}
+
+// minPlateStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
+func minPlateStepScale(xi float32) float32 {
+	return minPlateAbs(xi) + 1
 }
 
 // minPlateCurvaturePair: without bounds the pair is used as it is.
@@ -878,12 +884,12 @@ func minPlateDot(a, b *[2]float32) float32 {
 }
 
 // minPlateTinyStep returns the longest t for which the step t·d from x passes the
-// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+// step test, min over i of tol·minPlateStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minPlateTinyStep(x, d *[2]float32, tol float32) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * (minPlateAbs(x[i]) + 1) / minPlateAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minPlateStepScale(x[i]) / minPlateAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
