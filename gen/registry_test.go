@@ -188,7 +188,7 @@ func identsIn(n ast.Node) []*ast.Ident {
 // With bounds, tune tries only directions that take them, and still every
 // rule it tries without bounds.
 func TestTunePoliciesWithBounds(t *testing.T) {
-	open, bounded := TunePolicies(false), TunePolicies(true)
+	open, bounded := TunePolicies(false, false), TunePolicies(true, false)
 	rulesTried := map[*rules.Entry]bool{}
 	for _, pol := range bounded {
 		if pol.Direction.NoBounds != "" {

@@ -98,8 +98,12 @@ func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
 		fmt.Fprintf(w, "in the scaled unknowns zᵢ = xᵢ/sᵢ, s = %s: stops when %s ≤ %s or every |Δzᵢ| ≤ %s·(|zᵢ| + 1), after at most %d moves and %d objective calls\n\n",
 			formatNumbers(res.Scale), res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
 	} else {
-		fmt.Fprintf(w, "stops when %s ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
-			res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+		scale := "(|xᵢ| + 1)"
+		if res.OwnScale {
+			scale = "|xᵢ|"
+		}
+		fmt.Fprintf(w, "stops when %s ≤ %s or every |Δxᵢ| ≤ %s·%s, after at most %d moves and %d objective calls\n\n",
+			res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), scale, l.Iterations, l.Evaluations)
 	}
 	differences := p.Derivative != rules.Analytic
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)

@@ -16,8 +16,9 @@ import (
 // default and a one-line comment, ready for `thalweg gen`. A gradient named
 // like the objective plus "Grad" or "Gradient" that fits is proposed as
 // the analytic one (a combined objective, which writes its own, gets
-// derivative = "analytic" without one), and a New<Type> function as the
-// instance. A start, when given, is written as the spec's start, and scale
+// derivative = "analytic" without one; a residual objective gets
+// levenberg-marquardt, and a Jacobian named like it plus "Jacobian" or
+// "Jac"), and a New<Type> function as the instance. A start, when given, is written as the spec's start, and scale
 // is proposed from it: |startᵢ| where that is nonzero, else 1.
 func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	var probs Problems
@@ -59,9 +60,18 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 			return Problems{{at, "--start must be finite: a typical starting point"}}
 		}
 	}
-	// The default direction, or the first that fits on the stack.
+	residual := shape.Residuals > 0 || shape.ResidualSlice
+	if shape.ResidualSlice {
+		shape.Residuals = 1 // a stand-in for the stack check; the spec must say
+	}
+	// The default direction, or the first that fits on the stack; for a
+	// residual objective levenberg-marquardt, its default.
 	var direction *rules.Entry
-	for d := rules.Direction.DefaultEntry(); d != nil; d = d.Fallback {
+	first := rules.Direction.DefaultEntry()
+	if residual {
+		first = rules.LevenbergMarquardt
+	}
+	for d := first; d != nil; d = d.Fallback {
 		var scratch Problems
 		sized := shape
 		sized.Dim = dim
@@ -81,7 +91,7 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	m := &Minimizer{Derivative: rules.Analytic}
 	gradient := ""
 	for _, suffix := range []string{"Grad", "Gradient"} {
-		if shape.Combined {
+		if shape.Combined || residual {
 			break
 		}
 		m.Gradient = fn.Name() + suffix
@@ -94,6 +104,25 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 		lp.resolveGradient(m, &trial, recvType, at, &scratch)
 		if len(scratch) == 0 && trial.Gradient != "" {
 			gradient = m.Gradient
+			break
+		}
+	}
+	// A residual objective's Jacobian named like it plus "Jacobian" or
+	// "Jac", when one fits.
+	jacobian := ""
+	for _, suffix := range []string{"Jacobian", "Jac"} {
+		if !residual || shape.ResidualSlice {
+			break
+		}
+		m.Jacobian = fn.Name() + suffix
+		if recvType != nil {
+			m.Jacobian = recvType.Obj().Name() + "." + m.Jacobian
+		}
+		var scratch Problems
+		trial := shape
+		lp.resolveJacobian(m, &trial, recvType, at, &scratch)
+		if len(scratch) == 0 && trial.Jacobian != "" {
+			jacobian = m.Jacobian
 			break
 		}
 	}
@@ -128,7 +157,7 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
 	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
 	chosen := &Minimizer{Derivative: rules.Derivative.DefaultEntry(), Direction: direction, Rule: direction.DefaultRule, Test: rules.GradientTest.DefaultEntry()}
-	if gradient != "" || shape.Combined {
+	if gradient != "" || jacobian != "" || shape.Combined {
 		chosen.Derivative = rules.Analytic
 	}
 	ctx := resolveContext(chosen, shape.Elem, dim)
@@ -159,11 +188,21 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	case gradient != "":
 		choiceLine(rules.Derivative, rules.Analytic, "")
 		kv("gradient", fmt.Sprintf("%q", gradient), "found beside the objective; the generated test checks it")
+	case jacobian != "":
+		choiceLine(rules.Derivative, rules.Analytic, "")
+		kv("jacobian", fmt.Sprintf("%q", jacobian), "found beside the objective; the generated test checks it entry by entry")
+	case residual:
+		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a jacobian key`)
 	default:
 		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a gradient key`)
 	}
 	note := ""
-	if direction != rules.Direction.DefaultEntry() {
+	switch {
+	case residual && direction == rules.LevenbergMarquardt:
+		note = "a residual objective's default; gauss-newton, or any other, also works on ½‖r‖²"
+	case residual:
+		note = "levenberg-marquardt would not fit on the stack"
+	case direction != rules.Direction.DefaultEntry():
 		note = rules.Direction.Default + " would not fit on the stack"
 	}
 	choiceLine(rules.Direction, direction, note)
@@ -191,7 +230,11 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 			nans[i] = math.NaN()
 		}
 		kv("start", list(nans), "REQUIRED: replace nan with a typical starting point")
-		kv("# scale", list(ones), "typical magnitude of each unknown, when they differ by orders (init --start proposes |start|)")
+		if !residual {
+			kv("# scale", list(ones), "typical magnitude of each unknown, when they differ by orders (init --start proposes |start|)")
+		}
+	} else if residual {
+		kv("start", list(start), "a typical starting point, from init --start (no scale: the least-squares directions do not need one)")
 	} else {
 		kv("start", list(start), "a typical starting point, from init --start")
 		scale, unit := make([]float64, dim), true
@@ -210,6 +253,9 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	}
 	if shape.Arg == ArgSlice {
 		kv("dim", fmt.Sprint(dim), "the objective takes a slice: the number of unknowns")
+	}
+	if shape.ResidualSlice {
+		kv("residuals", "0", "REQUIRED: the number of residuals the objective writes")
 	}
 	switch {
 	case instance != "":

@@ -84,6 +84,9 @@ type TraceResult struct {
 	// Relative reports that Gradient is the relative gradient (the spec's
 	// stop.gradient_test), not the largest |∂f/∂xᵢ|.
 	Relative bool
+	// OwnScale reports a residual objective's step test, which measures
+	// |Δxᵢ| against |xᵢ| (1 at 0) instead of |xᵢ| + 1.
+	OwnScale bool
 }
 
 // Names of the hooks in the instrumented copy and of the harness's helpers.
@@ -120,6 +123,7 @@ func Trace(p *Plan) (*TraceResult, error) {
 		return nil, err
 	}
 	res.Relative = p.M.Test == rules.Relative
+	res.OwnScale = p.Shape.Residuals > 0
 	if p.Scaled() {
 		res.Scale = p.M.Scale
 		res.derive()
@@ -269,6 +273,18 @@ func emitTraceGrid(f *jen.File, p *Plan, recvParam []jen.Code) {
 	if s.Receiver != "" {
 		objective = jen.Id("recv").Dot(s.Objective)
 	}
+	if s.Residuals > 0 {
+		// A residual objective's value is ½‖r‖², computed by a closure
+		// on the grid point.
+		callee := func(fn string) *jen.Statement {
+			if s.Receiver == "" {
+				return jen.Id(fn)
+			}
+			return jen.Id("recv").Dot(fn)
+		}
+		scratch = []jen.Code{jen.Id("half").Op(":=").Func().Params(jen.Id("x").Index(jen.Lit(2)).Id(s.Elem)).Id(s.Elem).Block(halfSquaresBody(p, callee)...)}
+		objective, args = jen.Id("half"), []jen.Code{jen.Id("x")}
+	}
 	low := func(i jen.Code) *jen.Statement { return jen.Id("thalwegTraceLow").Index(i) }
 	high := func(i jen.Code) *jen.Statement { return jen.Id("thalwegTraceHigh").Index(i) }
 	f.Func().Id(traceGridFunc).Params(recvParam...).Block(
@@ -397,17 +413,25 @@ func (res *TraceResult) derive() {
 		r.GradientCalls = r.Evaluations - prev.Evaluations - r.Trials
 		r.Decrease = prev.F - r.F
 		r.Predicted = -r.Step * r.Slope
-		r.StepMeasure = stepMeasure(scaled(prev.X, res.Scale), scaled(r.X, res.Scale))
+		r.StepMeasure = stepMeasure(scaled(prev.X, res.Scale), scaled(r.X, res.Scale), res.OwnScale)
 	}
 }
 
 // stepMeasure is what the step test compares with its limit: the largest
-// |xᵢ − previousᵢ|/(|xᵢ| + 1), x being the new point.
-func stepMeasure(previous, x []float64) float64 {
+// |xᵢ − previousᵢ|/(|xᵢ| + 1), x being the new point, or with own (a
+// residual objective) |xᵢ − previousᵢ|/|xᵢ|, over 1 where xᵢ = 0.
+func stepMeasure(previous, x []float64, own bool) float64 {
 	largest := 0.0
 	for i := range x {
 		if i < len(previous) {
-			largest = math.Max(largest, math.Abs(x[i]-previous[i])/(math.Abs(x[i])+1))
+			scale := math.Abs(x[i]) + 1
+			if own {
+				scale = math.Abs(x[i])
+				if scale == 0 {
+					scale = 1
+				}
+			}
+			largest = math.Max(largest, math.Abs(x[i]-previous[i])/scale)
 		}
 	}
 	return largest

@@ -23,15 +23,17 @@ import (
 // both ways. Fixed steps need a hand-picked step and simple decrease
 // guarantees nothing (§3.1), so the registry leaves them out; they are
 // tried only when the spec itself uses them. With bounds, directions
-// that cannot take them are left out.
-func TunePolicies(bounded bool) []Policy {
+// that cannot take them are left out. For a residual objective the
+// least-squares directions join, each with the rules it goes with; for
+// any other objective they, and the rules only they take, are left out.
+func TunePolicies(bounded, residual bool) []Policy {
 	var out []Policy
 	for _, d := range rules.Direction.Entries {
-		if bounded && d.NoBounds != "" {
+		if bounded && d.NoBounds != "" || d.Residual && !residual {
 			continue
 		}
 		for _, r := range rules.StepRule.Entries {
-			if !r.Tune || d.NeedsCurvature && !r.Curvature {
+			if !r.Tune || d.NeedsCurvature && !r.Curvature || !rules.Suits(d, r) {
 				continue
 			}
 			out = append(out, Policy{Direction: d, Rule: r})
@@ -85,7 +87,7 @@ func Tune(p *Plan) ([]TuneRow, error) {
 		}
 	}
 	policies := []Policy{own}
-	for _, pol := range TunePolicies(p.Bounded) {
+	for _, pol := range TunePolicies(p.Bounded, p.Shape.Residuals > 0) {
 		if pol != own {
 			policies = append(policies, pol)
 		}

@@ -799,7 +799,7 @@ func TestTune(t *testing.T) {
 		}
 	}
 	// Every sensible policy once; the spec's bfgs + armijo is one of them.
-	if want := len(gen.TunePolicies(false)); want < 11 || len(rows) != want {
+	if want := len(gen.TunePolicies(false, false)); want < 11 || len(rows) != want {
 		t.Fatalf("tune printed %d policy rows, want %d (at least 11):\n%s", len(rows), want, stdout)
 	}
 	if !strings.Contains(rows[0], "← recommended") || !strings.Contains(rows[0], "gradient small") {
@@ -866,8 +866,8 @@ func CalibrationBoth(p, g *[2]float64) float64 {
 			rows = append(rows, line)
 		}
 	}
-	if len(rows) != len(gen.TunePolicies(false)) || !strings.Contains(rows[0], "← recommended") || !strings.Contains(stdout, "Each objective call gives the value and the gradient together") {
-		t.Errorf("tune printed %d rows for %d policies, or no recommendation, or not the note on combined calls:\n%s", len(rows), len(gen.TunePolicies(false)), stdout)
+	if len(rows) != len(gen.TunePolicies(false, false)) || !strings.Contains(rows[0], "← recommended") || !strings.Contains(stdout, "Each objective call gives the value and the gradient together") {
+		t.Errorf("tune printed %d rows for %d policies, or no recommendation, or not the note on combined calls:\n%s", len(rows), len(gen.TunePolicies(false, false)), stdout)
 	}
 }
 
