@@ -667,7 +667,7 @@ func emitUncertainty(f *jen.File, p *Plan, kernel string) {
 	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
 	cost := 1 + p.GradientCalls()
 	f.Commentf("%sUncertainty is the uncertainty of a least-squares fit at X: the parameter covariance estimate s²(JᵀJ)⁻¹, s² = ‖r(X)‖²/(M − N), with M = %d residuals and N = %d unknowns, and the standard errors (Seber & Wild, Nonlinear Regression, 1989, §2.1 and §5.1; the estimate NIST's certified standard deviations use). It assumes the residuals' errors are independent with equal variance, and a model close to linear within a few standard errors of X; it means something only at a minimizer (check Status.Converged() first).", name, s.Residuals, s.Dim)
-	f.Type().Id(name + "Uncertainty").Struct(
+	f.Type().Id(name+"Uncertainty").Struct(
 		jen.Id("Covariance").Index(jen.Lit(s.Dim)).Add(vec.Clone()).Comment("s²(JᵀJ)⁻¹"),
 		jen.Id("StandardErrors").Add(vec.Clone()).Comment("√Covarianceᵢᵢ, each unknown's standard error"),
 		jen.Id("ResidualVariance").Id(s.Elem).Comment("s² = ‖r‖²/(M − N)"),
@@ -689,4 +689,3 @@ func emitUncertainty(f *jen.File, p *Plan, kernel string) {
 		})),
 	)
 }
-

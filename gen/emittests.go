@@ -522,7 +522,7 @@ func emitUncertaintyTest(f *jen.File, p *Plan, helper string, setup func() []jen
 		)
 	}
 	f.Commentf("Test%sUncertaintyAtTheFit computes %sUncertaintyAt where the run from start ends and checks that it allocates nothing and makes at most its %d objective calls%s.", name, name, 1+p.GradientCalls(), doc)
-	f.Func().Id("Test"+name+"UncertaintyAtTheFit").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+	f.Func().Id("Test" + name + "UncertaintyAtTheFit").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
 		append([]jen.Code{
 			jen.Id("r").Op(":=").Add(call(false)),
 			jen.Var().Id("u").Id(name + "Uncertainty"),
@@ -634,4 +634,3 @@ func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 		),
 	)...)
 }
-

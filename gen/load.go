@@ -58,7 +58,7 @@ type Shape struct {
 	ResidualSlice   bool
 	Jacobian        string
 	JacobianColumns bool
-	Instance instance
+	Instance        instance
 }
 
 // instance says how the generated tests obtain a receiver.

@@ -771,4 +771,3 @@ func pairedWith(rule *rules.Entry) []*rules.Entry {
 	}
 	return owners
 }
-

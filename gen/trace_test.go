@@ -255,6 +255,9 @@ func TestTraceShapes(t *testing.T) {
 			// a calibration at a bound fewer calls, so only the totals are
 			// held to the counts.
 			cost, confirmation := p.GradientCalls(), p.Derivative.CalibrationCalls(p.Dim)+2*p.GradientCalls()
+			if p.Shape.Residuals > 0 {
+				confirmation = p.GradientCalls() // a Jacobian with twice the intervals (settleResiduals), the residuals at hand
+			}
 			calls := 1 + res.LastTrials
 			for _, r := range res.Rows {
 				calls += r.Trials + r.GradientCalls

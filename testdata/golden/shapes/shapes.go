@@ -3,6 +3,8 @@
 // generated text, not the numbers.
 package shapes
 
+import "math"
+
 // Parabola is (k − 3)², minimum at k = 3.
 func Parabola(k float64) float64 { return (k - 3) * (k - 3) }
 
@@ -45,4 +47,21 @@ func (v *Valley) Cost(x, g *[2]float64) float64 {
 	a, b := x[0]-v.Shift[0], x[1]-v.Shift[1]
 	g[0], g[1] = 2*a, 8*b
 	return a*a + 4*b*b
+}
+
+// Cooling writes the residuals of Newton's law of cooling,
+// a·exp(−k·t) + c, against five readings a minute apart (invented data),
+// for the least-squares golden files.
+func Cooling(p *[3]float64, r *[5]float64) {
+	for i, y := range [5]float64{80.2, 56.1, 42.3, 33.2, 28.3} {
+		r[i] = p[0]*math.Exp(-p[1]*float64(i)) + p[2] - y
+	}
+}
+
+// CoolingJacobian writes Cooling's Jacobian by rows.
+func CoolingJacobian(p *[3]float64, j *[5][3]float64) {
+	for i := range j {
+		e := math.Exp(-p[1] * float64(i))
+		j[i] = [3]float64{e, -p[0] * float64(i) * e, 1}
+	}
 }
