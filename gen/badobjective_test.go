@@ -71,6 +71,16 @@ func BothScalarWrongElem(x float64, g *float32) float64 { return 0 }
 func BothSliceArray(x []float64, g *[2]float64) float64 { return 0 }
 
 func (m Model) Both(x [2]float64, g *[2]float64) float64 { return 0 }
+
+func Res(x *[2]float64, r *[3]float64) {}
+
+func ResJac(x *[2]float64, j *[3][2]float64) {}
+
+func ResJacWrong(x *[2]float64, j *[2][2]float64) {}
+
+func ResSlice(x, r []float64) {}
+
+func ResBig(x *[64]float64, r *[300]float64) {}
 `
 
 // misfitWant is one expected problem: in the spec at a line of the case's body
@@ -383,6 +393,66 @@ derivative = "analytic"
 dim = 2
 start = [1.0, 2.0]`, []misfitWant{
 		misfitInGo(57, 6, "objective BothSliceArray has signature func(x []float64, g *[2]float64) float64", combinedObjectiveForms),
+	}},
+	{"residuals for an objective of its value", `objective = "ArrayObj"
+residuals = 3
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 1, "residuals is only for residual objectives that take slices; ArrayObj returns its value"),
+	}},
+	{"jacobian for an objective of its value", `objective = "PtrObj"
+derivative = "analytic"
+gradient = "PlainGrad"
+jacobian = "ResJac"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(4, 1, "jacobian is only for residual objectives", "PtrObj returns its value, so name its gradient with the gradient key"),
+	}},
+	{"least-squares direction for an objective of its value", `objective = "ArrayObj"
+direction = "gauss-newton"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 13, `direction "gauss-newton" needs a residual objective`, "ArrayObj returns its value"),
+	}},
+	{"slice residuals without residuals", `objective = "ResSlice"
+dim = 2
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(1, 13, "objective ResSlice writes its residuals into a slice: set residuals to their number"),
+	}},
+	{"residuals that disagree with the type", `objective = "Res"
+residuals = 4
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 13, "residuals is 4, but Res writes 3"),
+	}},
+	{"gradient key for residuals", `objective = "Res"
+derivative = "analytic"
+gradient = "PlainGrad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 1, "objective Res writes residuals, whose gradient Jᵀr comes from their Jacobian: name it with the jacobian key instead of gradient"),
+		misfitInSpec(2, 14, `derivative = "analytic" needs a jacobian key naming the residuals' Jacobian`),
+	}},
+	{"analytic residuals without a jacobian", `objective = "Res"
+derivative = "analytic"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 14, `derivative = "analytic" needs a jacobian key naming the residuals' Jacobian`, "func(x *[N]T, J *[M][N]T) by rows"),
+	}},
+	{"jacobian of the wrong shape", `objective = "Res"
+derivative = "analytic"
+jacobian = "ResJacWrong"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInGo(65, 6, "jacobian ResJacWrong has signature func(x *[2]float64, j *[2][2]float64), which does not fit 3 residuals of 2 unknowns of float64"),
+	}},
+	{"scale for residuals", `objective = "Res"
+scale = [1.0, 1.0]
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 10, "scale is not for residual objectives"),
+	}},
+	{"a rule's parameter the residual default does not read", `objective = "Res"
+start = [1.0, 2.0]
+[minimizer.step]
+curvature = 0.5`, []misfitWant{
+		misfitInSpec(4, 1, `step.curvature is not used by the residual objective's default, direction "levenberg-marquardt" with step.rule "damping"`),
+	}},
+	{"a Jacobian too large for the stack", `objective = "ResBig"
+start = [` + strings.Repeat("0.5, ", 63) + `0.5]`, []misfitWant{
+		misfitInSpec(1, 13, "300 residuals of 64 unknowns of float64", "exceed the 131072 bytes Go keeps on the stack"),
 	}},
 	{"instance for a plain function", `objective = "ScalarObj"
 instance = "DefaultModel"

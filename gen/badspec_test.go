@@ -143,6 +143,18 @@ var badSpecs = []struct {
 	{"gradient_malformed.toml", []string{
 		`5:12: gradient "Loss.Grad.X" is not "Func" or "Type.Method"`,
 	}},
+	{"rule_not_for_direction.toml", []string{
+		`7:8: direction "gauss-newton" goes only with step.rule "fixed" or "decrease" or "armijo": its step needs the Jacobian at the accepted trial, which only the last trial's residuals give; the backtracking rules accept the last trial, a Wolfe search may not`,
+		`15:8: step.rule "damping" goes only with direction "levenberg-marquardt": its step length comes from the damping λ, which step rule damping adjusts; a line search along one damped step would fight it`,
+		`23:8: direction "levenberg-marquardt" goes only with step.rule "damping": its step length comes from the damping λ, which step rule damping adjusts; a line search along one damped step would fight it`,
+	}},
+	{"jacobian_not_analytic.toml", []string{
+		`5:1: jacobian is only used with derivative = "analytic" (derivative is "central")`,
+		`12:12: jacobian "Residuals.Jacobian.X" is not "Func" or "Type.Method"`,
+	}},
+	{"residuals_range.toml", []string{
+		"6:13: residuals must be between 1 and 65536, got 0",
+	}},
 	{"memory_without_lbfgs.toml", []string{
 		`5:1: memory is only used with direction = "lbfgs" (direction is "bfgs")`,
 	}},
