@@ -67,6 +67,16 @@ func WriteRules(w io.Writer) {
 		fmt.Fprintf(w, "      ref: %s\n", r)
 	}
 	fmt.Fprintln(w)
+	res := rules.Residuals
+	fmt.Fprintln(w, "residual objective: one that writes residuals r(x) instead of returning a value (f = ½‖r‖²); keys residuals (M, for slices) and jacobian (with derivative = \"analytic\")")
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "  %s\n", res.Summary)
+	fmt.Fprintf(w, "      %s\n", res.Math)
+	fmt.Fprintln(w, "      default: direction levenberg-marquardt with step.rule damping; no scale; the step test is every |Δxᵢ| ≤ stop.step·|xᵢ|")
+	for _, r := range res.References {
+		fmt.Fprintf(w, "      ref: %s\n", r)
+	}
+	fmt.Fprintln(w)
 	fmt.Fprintln(w, "stop: limits every minimizer reads ([minimizer.stop])")
 	fmt.Fprintln(w)
 	for _, p := range rules.Params() {
