@@ -236,3 +236,78 @@ func TestResidualGradientRetakesResiduals(t *testing.T) {
 		t.Errorf("g = %v, want (−3.1, −5.3)", g)
 	}
 }
+
+// FuzzResiduals runs every least-squares policy (everyLeastSquares) on
+// random residual objectives in two unknowns, three residuals each a
+// quadratic polynomial rᵢ = aᵢ + bᵢx₁ + cᵢx₂ + dᵢx₁x₂ + eᵢx₁², from
+// random starts: zero, small and large residuals, rank-deficient and
+// indefinite models. Whatever the objective, a run never panics, never
+// calls the residuals more often than its cap nor reports other than the
+// calls it made, returns a finite X from a finite start, and reports
+// convergence only where the true relative gradient of ½‖r‖² at X is
+// within ten times the limit it claims (the MGH check's margin).
+func FuzzResiduals(f *testing.F) {
+	f.Add(uint8(0), 1.0, 1.0, 0.0, 0.0, 0.0, -1.0, 0.0, 1.0, 0.0, 0.0, 0.5, 2.0, 3.0)
+	f.Add(uint8(5), 0.0, 1.0, 1.0, 0.0, 0.0, 0.0, 2.0, 2.0, 0.0, 0.0, 1.0, -1.0, 1.0) // rank-deficient: x₁ + x₂ only
+	f.Add(uint8(9), 3.0, 0.0, 0.0, 1.0, 1.0, -2.0, 1.0, 0.0, 0.0, -1.0, 0.0, 0.5, -0.5)
+	policies := everyLeastSquares()
+	f.Fuzz(func(t *testing.T, which uint8, a, b, c, d, e, a2, b2, c2, d2, e2, shift, x1, x2 float64) {
+		coefficients := []*float64{&a, &b, &c, &d, &e, &a2, &b2, &c2, &d2, &e2, &shift, &x1, &x2}
+		for _, v := range coefficients {
+			if math.IsNaN(*v) || math.IsInf(*v, 0) {
+				t.Skip("coefficients and start are finite")
+			}
+			*v = math.Max(-1e3, math.Min(1e3, *v))
+		}
+		p := policies[int(which)%len(policies)]
+		p.use(t)
+		rows := [3][5]float64{{a, b, c, d, e}, {a2, b2, c2, d2, e2}, {shift, b + c2, c - b2, e, d}}
+		residualsAt := func(x *vec, r *rvec) {
+			for i, w := range rows {
+				r[i] = w[0] + w[1]*x[0] + w[2]*x[1] + w[3]*x[0]*x[1] + w[4]*x[0]*x[0]
+			}
+		}
+		jacobianAt := func(x *vec, j *[residuals]vec) {
+			for i, w := range rows {
+				j[i] = vec{w[1] + w[3]*x[1] + 2*w[4]*x[0], w[2] + w[3]*x[0]}
+			}
+		}
+		recv := &receiver{residualFunc: residualsAt, jacobianFunc: jacobianAt,
+			columnsFunc: func(x *vec, j *[dim]rvec) {
+				var rows [residuals]vec
+				jacobianAt(x, &rows)
+				for i := range rows {
+					j[0][i], j[1][i] = rows[i][0], rows[i][1]
+				}
+			}}
+		lim := limits{Gradient: 1e-8, Step: 1e-14, Iterations: 300, Evaluations: 2000}
+		out := minimize(recv, vec{x1, x2}, lim, box{})
+		if recv.calls > lim.Evaluations || out.evaluations != recv.calls {
+			t.Fatalf("%v: %d residual calls, %d reported, cap %d", p, recv.calls, out.evaluations, lim.Evaluations)
+		}
+		if !finiteVec(&out.x) {
+			t.Fatalf("%v: X = %v from the finite start (%g, %g), status %d", p, out.x, x1, x2, out.status)
+		}
+		if out.status == statusGradientSmall {
+			var r rvec
+			var j [residuals]vec
+			residualsAt(&out.x, &r)
+			jacobianAt(&out.x, &j)
+			var f float64
+			var g vec
+			for k := range r {
+				f += r[k] * r[k] / 2
+				for i := range g {
+					g[i] += j[k][i] * r[k]
+				}
+			}
+			var measure float64
+			for i := range g {
+				measure = math.Max(measure, math.Abs(g[i])*math.Max(math.Abs(out.x[i]), 1)/math.Max(math.Abs(f), 1))
+			}
+			if !(measure <= 10*out.gradientLimit) {
+				t.Fatalf("%v: converged at X = %v with true relative gradient %g over ten times the limit %g it claims", p, out.x, measure, out.gradientLimit)
+			}
+		}
+	})
+}
