@@ -591,7 +591,7 @@ func entryDoc(p *Plan) []string {
 		if q.Limit != "" {
 			shown := q.Show(p.Value(q))
 			if q == rules.StopStep && p.Shape.Residuals > 0 {
-				shown = "every |Δxᵢ| ≤ " + rules.FormatFloat(p.Value(q)) + "·|xᵢ|"
+				shown = "every |Δxᵢ| ≤ " + rules.FormatFloat(p.Value(q)) + "·max(|xᵢ|, |x0ᵢ|)"
 			}
 			stop = append(stop, shown)
 		}

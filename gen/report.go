@@ -100,7 +100,7 @@ func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
 	} else {
 		scale := "(|xᵢ| + 1)"
 		if res.OwnScale {
-			scale = "|xᵢ|"
+			scale = "max(|xᵢ|, |x0ᵢ|)"
 		}
 		fmt.Fprintf(w, "stops when %s ≤ %s or every |Δxᵢ| ≤ %s·%s, after at most %d moves and %d objective calls\n\n",
 			res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), scale, l.Iterations, l.Evaluations)

@@ -72,7 +72,7 @@ func WriteRules(w io.Writer) {
 	fmt.Fprintln(w)
 	fmt.Fprintf(w, "  %s\n", res.Summary)
 	fmt.Fprintf(w, "      %s\n", res.Math)
-	fmt.Fprintln(w, "      default: direction levenberg-marquardt with step.rule damping; no scale; the step test is every |Δxᵢ| ≤ stop.step·|xᵢ|")
+	fmt.Fprintln(w, "      default: direction levenberg-marquardt with step.rule damping; no scale; the step test is every |Δxᵢ| ≤ stop.step·max(|xᵢ|, |x0ᵢ|)")
 	for _, r := range res.References {
 		fmt.Fprintf(w, "      ref: %s\n", r)
 	}

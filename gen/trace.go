@@ -413,28 +413,43 @@ func (res *TraceResult) derive() {
 		r.GradientCalls = r.Evaluations - prev.Evaluations - r.Trials
 		r.Decrease = prev.F - r.F
 		r.Predicted = -r.Step * r.Slope
-		r.StepMeasure = stepMeasure(scaled(prev.X, res.Scale), scaled(r.X, res.Scale), res.OwnScale)
+		r.StepMeasure = stepMeasure(scaled(prev.X, res.Scale), scaled(r.X, res.Scale), res.OwnScale, res.typical())
 	}
 }
 
 // stepMeasure is what the step test compares with its limit: the largest
 // |xᵢ − previousᵢ|/(|xᵢ| + 1), x being the new point, or with own (a
-// residual objective) |xᵢ − previousᵢ|/|xᵢ|, over 1 where xᵢ = 0.
-func stepMeasure(previous, x []float64, own bool) float64 {
+// residual objective) |xᵢ − previousᵢ|/max(|xᵢ|, typicalᵢ), typical the
+// start's sizes (1 where 0).
+func stepMeasure(previous, x []float64, own bool, typical []float64) float64 {
 	largest := 0.0
 	for i := range x {
 		if i < len(previous) {
 			scale := math.Abs(x[i]) + 1
 			if own {
-				scale = math.Abs(x[i])
-				if scale == 0 {
-					scale = 1
-				}
+				scale = math.Max(math.Abs(x[i]), typical[i])
 			}
 			largest = math.Max(largest, math.Abs(x[i]-previous[i])/scale)
 		}
 	}
 	return largest
+}
+
+// typical is each unknown's size at the start, 1 where it is 0: the scale
+// a residual objective's step test measures against (templates'
+// typicalScale).
+func (res *TraceResult) typical() []float64 {
+	if len(res.Rows) == 0 {
+		return nil
+	}
+	out := make([]float64, len(res.Rows[0].X))
+	for i, v := range res.Rows[0].X {
+		out[i] = math.Abs(v)
+		if v == 0 {
+			out[i] = 1
+		}
+	}
+	return out
 }
 
 // scaled is x divided by scale, or x without a scale.

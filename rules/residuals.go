@@ -15,7 +15,7 @@ var Residuals = &Feature{
 	References: []string{NocedalWright + ", §10.1–10.3 (eqs. 10.3–10.4) and §8.1 (difference intervals)",
 		"G. A. F. Seber and C. J. Wild, Nonlinear Regression, Wiley, 1989, §2.1 and §5.1 (the covariance s²(JᵀJ)⁻¹)"},
 	Off: Picks{"value": "plainValue", "residualModel": "noStructure", "stepScale": "offsetScale"},
-	On: Picks{"value": "squaresValue", "stepScale": "ownScale", "derivative": "residualGradient", "calibrate": "calibrateNothing",
+	On: Picks{"value": "squaresValue", "stepScale": "typicalScale", "derivative": "residualGradient", "calibrate": "calibrateResiduals",
 		"gradientError": "residualError", "settle": "settleResiduals"},
 }
 
@@ -25,5 +25,5 @@ var Residuals = &Feature{
 var JacobianColumns = Picks{"jacobian": "columnsJacobian"}
 
 // ResidualStepDoc is the step limit's doc for a residual objective, whose
-// step test is relative to each unknown (templates' ownScale).
-const ResidualStepDoc = "stop when every |Δxᵢ| is at most this·|xᵢ| (this·1 where xᵢ = 0): relative, as fitted parameters are often far below 1"
+// step test is relative to each unknown (templates' typicalScale).
+const ResidualStepDoc = "stop when every |Δxᵢ| is at most this·max(|xᵢ|, |x0ᵢ|) (|x0ᵢ| read as 1 where the start's x0ᵢ is 0): relative, as fitted parameters are often far below 1"

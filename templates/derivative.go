@@ -42,7 +42,7 @@ func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int
 func calibrate(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
 	switch {
 	case residualObjective:
-		return calibrateNothing(recv, x, fx, diffs, budget)
+		return calibrateResiduals(recv, x, fx, diffs, budget)
 	case derivativeSource == sourceForward:
 		return calibrateForward(recv, x, fx, diffs, budget)
 	case derivativeSource == sourceCentral:

@@ -394,24 +394,24 @@ func TestNoisyMinimumStallsWithoutBlamingTheGradient(t *testing.T) {
 // 1983, §7.2, scale each component, recalled from memory).
 func TestStepTestIsPerComponent(t *testing.T) {
 	x := vec{1e6, 1e-5}
-	if stepWithin(&vec{1e-9, 1e-9}, &x, 1e-14) {
+	if stepWithin(&vec{1e-9, 1e-9}, &x, 1e-14, &differences{}) {
 		t.Errorf("a step of 1e-9 in a component of size 1e-5 passed the step test at 1e-14")
 	}
-	if !stepWithin(&vec{1e-9, 1e-15}, &x, 1e-14) {
+	if !stepWithin(&vec{1e-9, 1e-15}, &x, 1e-14, &differences{}) {
 		t.Errorf("a step within tol·(|xᵢ|+1) in every component failed the step test")
 	}
 	d := vec{1, 1e3}
-	tiny := tinyStep(&x, &d, 1e-14)
+	tiny := tinyStep(&x, &d, 1e-14, &differences{})
 	var s vec
 	moveTo(&s, &vec{}, tiny, &d)
-	if !stepWithin(&s, &x, 1e-14) {
+	if !stepWithin(&s, &x, 1e-14, &differences{}) {
 		t.Errorf("tinyStep %g gives a step %v that fails the step test", tiny, s)
 	}
 	moveTo(&s, &vec{}, 1.01*tiny, &d)
-	if stepWithin(&s, &x, 1e-14) {
+	if stepWithin(&s, &x, 1e-14, &differences{}) {
 		t.Errorf("a step 1%% longer than tinyStep %g still passes the step test", tiny)
 	}
-	if got := tinyStep(&x, &vec{}, 1e-14); got != -1 {
+	if got := tinyStep(&x, &vec{}, 1e-14, &differences{}); got != -1 {
 		t.Errorf("tinyStep along a zero direction = %g, want -1", got)
 	}
 }

@@ -89,12 +89,12 @@ func squareRoot(v elem) elem {
 }
 
 // stepWithin is the step test: every |s_i| ≤ tol·stepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func stepWithin(s, x *vec, tol elem) bool {
+func stepWithin(s, x *vec, tol elem, diffs *differences) bool {
 	for i := range s {
-		if !(abs(s[i]) <= tol*stepScale(x[i])) {
+		if !(abs(s[i]) <= tol*stepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -103,11 +103,11 @@ func stepWithin(s, x *vec, tol elem) bool {
 
 // tinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·stepScale(x_i)/|d_i|, or −1 when d is zero.
-func tinyStep(x, d *vec, tol elem) elem {
+func tinyStep(x, d *vec, tol elem, diffs *differences) elem {
 	tiny := elem(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * stepScale(x[i]) / abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * stepScale(x[i], i, diffs) / abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -154,14 +154,14 @@ func scaleBy(x *vec, c elem) {
 // stepScale is the scale the step test measures a change of x_i against.
 // It stands in for the objective's kind; gen keeps only that one under
 // this name.
-func stepScale(xi elem) elem {
+func stepScale(xi elem, i int, diffs *differences) elem {
 	if residualObjective {
-		return ownScale(xi)
+		return typicalScale(xi, i, diffs)
 	}
-	return offsetScale(xi)
+	return offsetScale(xi, i, diffs)
 }
 
 // offsetScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func offsetScale(xi elem) elem {
+func offsetScale(xi elem, i int, diffs *differences) elem {
 	return abs(xi) + 1
 }

@@ -443,7 +443,7 @@ func (r *poly1SteepestBoxDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly1SteepestBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly1SteepestBoxStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly1SteepestBoxVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *poly1SteepestBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly1SteepestBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly1SteepestBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := poly1SteepestBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -879,12 +879,12 @@ func poly1SteepestBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, 
 }
 
 // poly1SteepestBoxStepWithin is the step test: every |s_i| ≤ tol·poly1SteepestBoxStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly1SteepestBoxStepWithin(s, x *[1]float64, tol float64) bool {
+func poly1SteepestBoxStepWithin(s, x *[1]float64, tol float64, diffs *poly1SteepestBoxDifferences) bool {
 	for i := range s {
-		if !(poly1SteepestBoxAbs(s[i]) <= tol*poly1SteepestBoxStepScale(x[i])) {
+		if !(poly1SteepestBoxAbs(s[i]) <= tol*poly1SteepestBoxStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -892,7 +892,7 @@ func poly1SteepestBoxStepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // poly1SteepestBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly1SteepestBoxStepScale(xi float64) float64 {
+func poly1SteepestBoxStepScale(xi float64, i int, diffs *poly1SteepestBoxDifferences) float64 {
 	return poly1SteepestBoxAbs(xi) + 1
 }
 
@@ -984,11 +984,11 @@ func poly1SteepestBoxDot(a, b *[1]float64) float64 {
 
 // poly1SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly1SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly1SteepestBoxTinyStep(x, d *[1]float64, tol float64) float64 {
+func poly1SteepestBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1SteepestBoxDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly1SteepestBoxStepScale(x[i]) / poly1SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1SteepestBoxStepScale(x[i], i, diffs) / poly1SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *poly1SteepestFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly1SteepestFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly1SteepestFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly1SteepestFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly1SteepestFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly1SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly1SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := poly1SteepestFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func poly1SteepestFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure,
 }
 
 // poly1SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly1SteepestFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly1SteepestFreeStepWithin(s, x *[1]float64, tol float64) bool {
+func poly1SteepestFreeStepWithin(s, x *[1]float64, tol float64, diffs *poly1SteepestFreeDifferences) bool {
 	for i := range s {
-		if !(poly1SteepestFreeAbs(s[i]) <= tol*poly1SteepestFreeStepScale(x[i])) {
+		if !(poly1SteepestFreeAbs(s[i]) <= tol*poly1SteepestFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func poly1SteepestFreeStepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // poly1SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly1SteepestFreeStepScale(xi float64) float64 {
+func poly1SteepestFreeStepScale(xi float64, i int, diffs *poly1SteepestFreeDifferences) float64 {
 	return poly1SteepestFreeAbs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func poly1SteepestFreeDot(a, b *[1]float64) float64 {
 
 // poly1SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly1SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly1SteepestFreeTinyStep(x, d *[1]float64, tol float64) float64 {
+func poly1SteepestFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly1SteepestFreeStepScale(x[i]) / poly1SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly1SteepestFreeStepScale(x[i], i, diffs) / poly1SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

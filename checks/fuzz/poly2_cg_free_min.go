@@ -433,7 +433,7 @@ func (r *poly2CGFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly2CGFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly2CGFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly2CGFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly2CGFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly2CGFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly2CGFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := poly2CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func poly2CGFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor
 }
 
 // poly2CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly2CGFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly2CGFreeStepWithin(s, x *[2]float64, tol float64) bool {
+func poly2CGFreeStepWithin(s, x *[2]float64, tol float64, diffs *poly2CGFreeDifferences) bool {
 	for i := range s {
-		if !(poly2CGFreeAbs(s[i]) <= tol*poly2CGFreeStepScale(x[i])) {
+		if !(poly2CGFreeAbs(s[i]) <= tol*poly2CGFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func poly2CGFreeStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // poly2CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly2CGFreeStepScale(xi float64) float64 {
+func poly2CGFreeStepScale(xi float64, i int, diffs *poly2CGFreeDifferences) float64 {
 	return poly2CGFreeAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func poly2CGFreeSolveDirection(dir *poly2CGFreeDirection, g, d *[2]float64, diff
 
 // poly2CGFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly2CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly2CGFreeTinyStep(x, d *[2]float64, tol float64) float64 {
+func poly2CGFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2CGFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly2CGFreeStepScale(x[i]) / poly2CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2CGFreeStepScale(x[i], i, diffs) / poly2CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *poly2SteepestFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly2SteepestFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly2SteepestFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly2SteepestFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly2SteepestFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly2SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly2SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := poly2SteepestFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func poly2SteepestFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 }
 
 // poly2SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly2SteepestFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly2SteepestFreeStepWithin(s, x *[2]float64, tol float64) bool {
+func poly2SteepestFreeStepWithin(s, x *[2]float64, tol float64, diffs *poly2SteepestFreeDifferences) bool {
 	for i := range s {
-		if !(poly2SteepestFreeAbs(s[i]) <= tol*poly2SteepestFreeStepScale(x[i])) {
+		if !(poly2SteepestFreeAbs(s[i]) <= tol*poly2SteepestFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func poly2SteepestFreeStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // poly2SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly2SteepestFreeStepScale(xi float64) float64 {
+func poly2SteepestFreeStepScale(xi float64, i int, diffs *poly2SteepestFreeDifferences) float64 {
 	return poly2SteepestFreeAbs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func poly2SteepestFreeDot(a, b *[2]float64) float64 {
 
 // poly2SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly2SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly2SteepestFreeTinyStep(x, d *[2]float64, tol float64) float64 {
+func poly2SteepestFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly2SteepestFreeStepScale(x[i]) / poly2SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly2SteepestFreeStepScale(x[i], i, diffs) / poly2SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -443,7 +443,7 @@ func (r *poly3BFGSHalfDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly3BFGSHalfStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly3BFGSHalfStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly3BFGSHalfVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *poly3BFGSHalfDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly3BFGSHalfTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly3BFGSHalfTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := poly3BFGSHalfLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -919,12 +919,12 @@ func poly3BFGSHalfGradientMeasure(g, e, x *[3]float64, fx float64) (measure, flo
 }
 
 // poly3BFGSHalfStepWithin is the step test: every |s_i| ≤ tol·poly3BFGSHalfStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly3BFGSHalfStepWithin(s, x *[3]float64, tol float64) bool {
+func poly3BFGSHalfStepWithin(s, x *[3]float64, tol float64, diffs *poly3BFGSHalfDifferences) bool {
 	for i := range s {
-		if !(poly3BFGSHalfAbs(s[i]) <= tol*poly3BFGSHalfStepScale(x[i])) {
+		if !(poly3BFGSHalfAbs(s[i]) <= tol*poly3BFGSHalfStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -932,7 +932,7 @@ func poly3BFGSHalfStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // poly3BFGSHalfStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly3BFGSHalfStepScale(xi float64) float64 {
+func poly3BFGSHalfStepScale(xi float64, i int, diffs *poly3BFGSHalfDifferences) float64 {
 	return poly3BFGSHalfAbs(xi) + 1
 }
 
@@ -1015,11 +1015,11 @@ func poly3BFGSHalfSolveDirection(dir *poly3BFGSHalfDirection, g, d *[3]float64, 
 
 // poly3BFGSHalfTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly3BFGSHalfStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly3BFGSHalfTinyStep(x, d *[3]float64, tol float64) float64 {
+func poly3BFGSHalfTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSHalfDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly3BFGSHalfStepScale(x[i]) / poly3BFGSHalfAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3BFGSHalfStepScale(x[i], i, diffs) / poly3BFGSHalfAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -443,7 +443,7 @@ func (r *poly3SteepestPinnedDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly3SteepestPinnedStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly3SteepestPinnedStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly3SteepestPinnedVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *poly3SteepestPinnedDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly3SteepestPinnedTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly3SteepestPinnedTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := poly3SteepestPinnedLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -879,12 +879,12 @@ func poly3SteepestPinnedGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 }
 
 // poly3SteepestPinnedStepWithin is the step test: every |s_i| ≤ tol·poly3SteepestPinnedStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly3SteepestPinnedStepWithin(s, x *[3]float64, tol float64) bool {
+func poly3SteepestPinnedStepWithin(s, x *[3]float64, tol float64, diffs *poly3SteepestPinnedDifferences) bool {
 	for i := range s {
-		if !(poly3SteepestPinnedAbs(s[i]) <= tol*poly3SteepestPinnedStepScale(x[i])) {
+		if !(poly3SteepestPinnedAbs(s[i]) <= tol*poly3SteepestPinnedStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -892,7 +892,7 @@ func poly3SteepestPinnedStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // poly3SteepestPinnedStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly3SteepestPinnedStepScale(xi float64) float64 {
+func poly3SteepestPinnedStepScale(xi float64, i int, diffs *poly3SteepestPinnedDifferences) float64 {
 	return poly3SteepestPinnedAbs(xi) + 1
 }
 
@@ -984,11 +984,11 @@ func poly3SteepestPinnedDot(a, b *[3]float64) float64 {
 
 // poly3SteepestPinnedTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly3SteepestPinnedStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly3SteepestPinnedTinyStep(x, d *[3]float64, tol float64) float64 {
+func poly3SteepestPinnedTinyStep(x, d *[3]float64, tol float64, diffs *poly3SteepestPinnedDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly3SteepestPinnedStepScale(x[i]) / poly3SteepestPinnedAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly3SteepestPinnedStepScale(x[i], i, diffs) / poly3SteepestPinnedAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

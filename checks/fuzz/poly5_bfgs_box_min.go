@@ -443,7 +443,7 @@ func (r *poly5BFGSBoxDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly5BFGSBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly5BFGSBoxStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly5BFGSBoxVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *poly5BFGSBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly5BFGSBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly5BFGSBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [5]float64
 	found := poly5BFGSBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -919,12 +919,12 @@ func poly5BFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floo
 }
 
 // poly5BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly5BFGSBoxStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly5BFGSBoxStepWithin(s, x *[5]float64, tol float64) bool {
+func poly5BFGSBoxStepWithin(s, x *[5]float64, tol float64, diffs *poly5BFGSBoxDifferences) bool {
 	for i := range s {
-		if !(poly5BFGSBoxAbs(s[i]) <= tol*poly5BFGSBoxStepScale(x[i])) {
+		if !(poly5BFGSBoxAbs(s[i]) <= tol*poly5BFGSBoxStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -932,7 +932,7 @@ func poly5BFGSBoxStepWithin(s, x *[5]float64, tol float64) bool {
 }
 
 // poly5BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly5BFGSBoxStepScale(xi float64) float64 {
+func poly5BFGSBoxStepScale(xi float64, i int, diffs *poly5BFGSBoxDifferences) float64 {
 	return poly5BFGSBoxAbs(xi) + 1
 }
 
@@ -1015,11 +1015,11 @@ func poly5BFGSBoxSolveDirection(dir *poly5BFGSBoxDirection, g, d *[5]float64, di
 
 // poly5BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly5BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly5BFGSBoxTinyStep(x, d *[5]float64, tol float64) float64 {
+func poly5BFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly5BFGSBoxStepScale(x[i]) / poly5BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5BFGSBoxStepScale(x[i], i, diffs) / poly5BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

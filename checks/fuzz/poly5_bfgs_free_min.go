@@ -433,7 +433,7 @@ func (r *poly5BFGSFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly5BFGSFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly5BFGSFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly5BFGSFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly5BFGSFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly5BFGSFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly5BFGSFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [5]float64
 	found := poly5BFGSFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func poly5BFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, flo
 }
 
 // poly5BFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly5BFGSFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly5BFGSFreeStepWithin(s, x *[5]float64, tol float64) bool {
+func poly5BFGSFreeStepWithin(s, x *[5]float64, tol float64, diffs *poly5BFGSFreeDifferences) bool {
 	for i := range s {
-		if !(poly5BFGSFreeAbs(s[i]) <= tol*poly5BFGSFreeStepScale(x[i])) {
+		if !(poly5BFGSFreeAbs(s[i]) <= tol*poly5BFGSFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func poly5BFGSFreeStepWithin(s, x *[5]float64, tol float64) bool {
 }
 
 // poly5BFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly5BFGSFreeStepScale(xi float64) float64 {
+func poly5BFGSFreeStepScale(xi float64, i int, diffs *poly5BFGSFreeDifferences) float64 {
 	return poly5BFGSFreeAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func poly5BFGSFreeSolveDirection(dir *poly5BFGSFreeDirection, g, d *[5]float64, 
 
 // poly5BFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly5BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly5BFGSFreeTinyStep(x, d *[5]float64, tol float64) float64 {
+func poly5BFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly5BFGSFreeStepScale(x[i]) / poly5BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5BFGSFreeStepScale(x[i], i, diffs) / poly5BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

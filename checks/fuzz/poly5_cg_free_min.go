@@ -433,7 +433,7 @@ func (r *poly5CGFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly5CGFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly5CGFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly5CGFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly5CGFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly5CGFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly5CGFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [5]float64
 	found := poly5CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func poly5CGFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor
 }
 
 // poly5CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly5CGFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly5CGFreeStepWithin(s, x *[5]float64, tol float64) bool {
+func poly5CGFreeStepWithin(s, x *[5]float64, tol float64, diffs *poly5CGFreeDifferences) bool {
 	for i := range s {
-		if !(poly5CGFreeAbs(s[i]) <= tol*poly5CGFreeStepScale(x[i])) {
+		if !(poly5CGFreeAbs(s[i]) <= tol*poly5CGFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func poly5CGFreeStepWithin(s, x *[5]float64, tol float64) bool {
 }
 
 // poly5CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly5CGFreeStepScale(xi float64) float64 {
+func poly5CGFreeStepScale(xi float64, i int, diffs *poly5CGFreeDifferences) float64 {
 	return poly5CGFreeAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func poly5CGFreeSolveDirection(dir *poly5CGFreeDirection, g, d *[5]float64, diff
 
 // poly5CGFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly5CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly5CGFreeTinyStep(x, d *[5]float64, tol float64) float64 {
+func poly5CGFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5CGFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly5CGFreeStepScale(x[i]) / poly5CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5CGFreeStepScale(x[i], i, diffs) / poly5CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -444,7 +444,7 @@ func (r *poly5LBFGSBoxDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly5LBFGSBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly5LBFGSBoxStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly5LBFGSBoxVerifyStall, true
 			return
 		}
@@ -477,7 +477,7 @@ func (r *poly5LBFGSBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly5LBFGSBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly5LBFGSBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [5]float64
 	found := poly5LBFGSBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1124,12 +1124,12 @@ func poly5LBFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, flo
 }
 
 // poly5LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly5LBFGSBoxStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly5LBFGSBoxStepWithin(s, x *[5]float64, tol float64) bool {
+func poly5LBFGSBoxStepWithin(s, x *[5]float64, tol float64, diffs *poly5LBFGSBoxDifferences) bool {
 	for i := range s {
-		if !(poly5LBFGSBoxAbs(s[i]) <= tol*poly5LBFGSBoxStepScale(x[i])) {
+		if !(poly5LBFGSBoxAbs(s[i]) <= tol*poly5LBFGSBoxStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1137,7 +1137,7 @@ func poly5LBFGSBoxStepWithin(s, x *[5]float64, tol float64) bool {
 }
 
 // poly5LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly5LBFGSBoxStepScale(xi float64) float64 {
+func poly5LBFGSBoxStepScale(xi float64, i int, diffs *poly5LBFGSBoxDifferences) float64 {
 	return poly5LBFGSBoxAbs(xi) + 1
 }
 
@@ -1220,11 +1220,11 @@ func poly5LBFGSBoxSolveDirection(dir *poly5LBFGSBoxDirection, g, d *[5]float64, 
 
 // poly5LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly5LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly5LBFGSBoxTinyStep(x, d *[5]float64, tol float64) float64 {
+func poly5LBFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly5LBFGSBoxStepScale(x[i]) / poly5LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly5LBFGSBoxStepScale(x[i], i, diffs) / poly5LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -443,7 +443,7 @@ func (r *poly8BFGSBoxDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly8BFGSBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly8BFGSBoxStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly8BFGSBoxVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *poly8BFGSBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8BFGSBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly8BFGSBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [8]float64
 	found := poly8BFGSBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -919,12 +919,12 @@ func poly8BFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floo
 }
 
 // poly8BFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly8BFGSBoxStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly8BFGSBoxStepWithin(s, x *[8]float64, tol float64) bool {
+func poly8BFGSBoxStepWithin(s, x *[8]float64, tol float64, diffs *poly8BFGSBoxDifferences) bool {
 	for i := range s {
-		if !(poly8BFGSBoxAbs(s[i]) <= tol*poly8BFGSBoxStepScale(x[i])) {
+		if !(poly8BFGSBoxAbs(s[i]) <= tol*poly8BFGSBoxStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -932,7 +932,7 @@ func poly8BFGSBoxStepWithin(s, x *[8]float64, tol float64) bool {
 }
 
 // poly8BFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly8BFGSBoxStepScale(xi float64) float64 {
+func poly8BFGSBoxStepScale(xi float64, i int, diffs *poly8BFGSBoxDifferences) float64 {
 	return poly8BFGSBoxAbs(xi) + 1
 }
 
@@ -1015,11 +1015,11 @@ func poly8BFGSBoxSolveDirection(dir *poly8BFGSBoxDirection, g, d *[8]float64, di
 
 // poly8BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64) float64 {
+func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly8BFGSBoxStepScale(x[i]) / poly8BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8BFGSBoxStepScale(x[i], i, diffs) / poly8BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *poly8CGFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly8CGFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly8CGFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly8CGFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly8CGFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8CGFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly8CGFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [8]float64
 	found := poly8CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func poly8CGFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor
 }
 
 // poly8CGFreeStepWithin is the step test: every |s_i| ≤ tol·poly8CGFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly8CGFreeStepWithin(s, x *[8]float64, tol float64) bool {
+func poly8CGFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8CGFreeDifferences) bool {
 	for i := range s {
-		if !(poly8CGFreeAbs(s[i]) <= tol*poly8CGFreeStepScale(x[i])) {
+		if !(poly8CGFreeAbs(s[i]) <= tol*poly8CGFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func poly8CGFreeStepWithin(s, x *[8]float64, tol float64) bool {
 }
 
 // poly8CGFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly8CGFreeStepScale(xi float64) float64 {
+func poly8CGFreeStepScale(xi float64, i int, diffs *poly8CGFreeDifferences) float64 {
 	return poly8CGFreeAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func poly8CGFreeSolveDirection(dir *poly8CGFreeDirection, g, d *[8]float64, diff
 
 // poly8CGFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly8CGFreeTinyStep(x, d *[8]float64, tol float64) float64 {
+func poly8CGFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8CGFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly8CGFreeStepScale(x[i]) / poly8CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8CGFreeStepScale(x[i], i, diffs) / poly8CGFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -444,7 +444,7 @@ func (r *poly8LBFGSBoxDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly8LBFGSBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly8LBFGSBoxStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly8LBFGSBoxVerifyStall, true
 			return
 		}
@@ -477,7 +477,7 @@ func (r *poly8LBFGSBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8LBFGSBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly8LBFGSBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [8]float64
 	found := poly8LBFGSBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1124,12 +1124,12 @@ func poly8LBFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, flo
 }
 
 // poly8LBFGSBoxStepWithin is the step test: every |s_i| ≤ tol·poly8LBFGSBoxStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly8LBFGSBoxStepWithin(s, x *[8]float64, tol float64) bool {
+func poly8LBFGSBoxStepWithin(s, x *[8]float64, tol float64, diffs *poly8LBFGSBoxDifferences) bool {
 	for i := range s {
-		if !(poly8LBFGSBoxAbs(s[i]) <= tol*poly8LBFGSBoxStepScale(x[i])) {
+		if !(poly8LBFGSBoxAbs(s[i]) <= tol*poly8LBFGSBoxStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1137,7 +1137,7 @@ func poly8LBFGSBoxStepWithin(s, x *[8]float64, tol float64) bool {
 }
 
 // poly8LBFGSBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly8LBFGSBoxStepScale(xi float64) float64 {
+func poly8LBFGSBoxStepScale(xi float64, i int, diffs *poly8LBFGSBoxDifferences) float64 {
 	return poly8LBFGSBoxAbs(xi) + 1
 }
 
@@ -1220,11 +1220,11 @@ func poly8LBFGSBoxSolveDirection(dir *poly8LBFGSBoxDirection, g, d *[8]float64, 
 
 // poly8LBFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly8LBFGSBoxTinyStep(x, d *[8]float64, tol float64) float64 {
+func poly8LBFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly8LBFGSBoxStepScale(x[i]) / poly8LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8LBFGSBoxStepScale(x[i], i, diffs) / poly8LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *poly8LBFGSFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly8LBFGSFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly8LBFGSFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly8LBFGSFreeVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *poly8LBFGSFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8LBFGSFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly8LBFGSFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [8]float64
 	found := poly8LBFGSFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func poly8LBFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, fl
 }
 
 // poly8LBFGSFreeStepWithin is the step test: every |s_i| ≤ tol·poly8LBFGSFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly8LBFGSFreeStepWithin(s, x *[8]float64, tol float64) bool {
+func poly8LBFGSFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8LBFGSFreeDifferences) bool {
 	for i := range s {
-		if !(poly8LBFGSFreeAbs(s[i]) <= tol*poly8LBFGSFreeStepScale(x[i])) {
+		if !(poly8LBFGSFreeAbs(s[i]) <= tol*poly8LBFGSFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func poly8LBFGSFreeStepWithin(s, x *[8]float64, tol float64) bool {
 }
 
 // poly8LBFGSFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly8LBFGSFreeStepScale(xi float64) float64 {
+func poly8LBFGSFreeStepScale(xi float64, i int, diffs *poly8LBFGSFreeDifferences) float64 {
 	return poly8LBFGSFreeAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func poly8LBFGSFreeSolveDirection(dir *poly8LBFGSFreeDirection, g, d *[8]float64
 
 // poly8LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly8LBFGSFreeTinyStep(x, d *[8]float64, tol float64) float64 {
+func poly8LBFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly8LBFGSFreeStepScale(x[i]) / poly8LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8LBFGSFreeStepScale(x[i], i, diffs) / poly8LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

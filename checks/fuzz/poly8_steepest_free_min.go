@@ -433,7 +433,7 @@ func (r *poly8SteepestFreeDescent) judge(recv *Poly) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if poly8SteepestFreeStepWithin(&r.s, &r.x, r.lim.Step) {
+		if poly8SteepestFreeStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = poly8SteepestFreeVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *poly8SteepestFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := poly8SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [8]float64
 	found := poly8SteepestFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func poly8SteepestFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure,
 }
 
 // poly8SteepestFreeStepWithin is the step test: every |s_i| ≤ tol·poly8SteepestFreeStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func poly8SteepestFreeStepWithin(s, x *[8]float64, tol float64) bool {
+func poly8SteepestFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8SteepestFreeDifferences) bool {
 	for i := range s {
-		if !(poly8SteepestFreeAbs(s[i]) <= tol*poly8SteepestFreeStepScale(x[i])) {
+		if !(poly8SteepestFreeAbs(s[i]) <= tol*poly8SteepestFreeStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func poly8SteepestFreeStepWithin(s, x *[8]float64, tol float64) bool {
 }
 
 // poly8SteepestFreeStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func poly8SteepestFreeStepScale(xi float64) float64 {
+func poly8SteepestFreeStepScale(xi float64, i int, diffs *poly8SteepestFreeDifferences) float64 {
 	return poly8SteepestFreeAbs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func poly8SteepestFreeDot(a, b *[8]float64) float64 {
 
 // poly8SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
-func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64) float64 {
+func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * poly8SteepestFreeStepScale(x[i]) / poly8SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * poly8SteepestFreeStepScale(x[i], i, diffs) / poly8SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE3Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveLeftStrongWolfeMTAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveLeftStrongWolfeMTAlphaE3StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveLeftStrongWolfeMTAlphaE3VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveLeftStrongWolfeMTAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveLeftStrongWolfeMTAlphaE3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeMTAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func concaveLeftStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx floa
 }
 
 // concaveLeftStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeMTAlphaE3StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaE3Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaE3StepScale(x[i])) {
+		if !(concaveLeftStrongWolfeMTAlphaE3Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaE3StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bo
 }
 
 // concaveLeftStrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeMTAlphaE3StepScale(xi float64) float64 {
+func concaveLeftStrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) float64 {
 	return concaveLeftStrongWolfeMTAlphaE3Abs(xi) + 1
 }
 
@@ -888,11 +888,11 @@ func concaveLeftStrongWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 
 // concaveLeftStrongWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveLeftStrongWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveLeftStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveLeftStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveLeftStrongWolfeMTAlphaE3StepScale(x[i]) / concaveLeftStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeMTAlphaE3StepScale(x[i], i, diffs) / concaveLeftStrongWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

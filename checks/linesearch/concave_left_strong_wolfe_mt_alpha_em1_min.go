@@ -433,7 +433,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveLeftStrongWolfeMTAlphaEm1StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveLeftStrongWolfeMTAlphaEm1StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveLeftStrongWolfeMTAlphaEm1VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveLeftStrongWolfeMTAlphaEm1TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveLeftStrongWolfeMTAlphaEm1TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -847,12 +847,12 @@ func concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx flo
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeMTAlphaEm1StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaEm1StepScale(x[i])) {
+		if !(concaveLeftStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveLeftStrongWolfeMTAlphaEm1StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -860,7 +860,7 @@ func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) b
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeMTAlphaEm1StepScale(xi float64) float64 {
+func concaveLeftStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences,) float64 {
 	return concaveLeftStrongWolfeMTAlphaEm1Abs(xi) + 1
 }
 
@@ -889,11 +889,11 @@ func concaveLeftStrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 
 // concaveLeftStrongWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveLeftStrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveLeftStrongWolfeMTAlphaEm1StepScale(x[i]) / concaveLeftStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeMTAlphaEm1StepScale(x[i], i, diffs) / concaveLeftStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveLeftStrongWolfeNWAlphaEm3StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveLeftStrongWolfeNWAlphaEm3StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveLeftStrongWolfeNWAlphaEm3VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveLeftStrongWolfeNWAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveLeftStrongWolfeNWAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveLeftStrongWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -847,12 +847,12 @@ func concaveLeftStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx flo
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftStrongWolfeNWAlphaEm3StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveLeftStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveLeftStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) bool {
 	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i])) {
+		if !(concaveLeftStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -860,7 +860,7 @@ func concaveLeftStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) b
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeNWAlphaEm3StepScale(xi float64) float64 {
+func concaveLeftStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences,) float64 {
 	return concaveLeftStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 
@@ -889,11 +889,11 @@ func concaveLeftStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 
 // concaveLeftStrongWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveLeftStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i]) / concaveLeftStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs) / concaveLeftStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *concaveLeftWolfeMTAlphaE3Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveLeftWolfeMTAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveLeftWolfeMTAlphaE3StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveLeftWolfeMTAlphaE3VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveLeftWolfeMTAlphaE3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveLeftWolfeMTAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveLeftWolfeMTAlphaE3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveLeftWolfeMTAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func concaveLeftWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (
 }
 
 // concaveLeftWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeMTAlphaE3StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveLeftWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveLeftWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftWolfeMTAlphaE3Differences) bool {
 	for i := range s {
-		if !(concaveLeftWolfeMTAlphaE3Abs(s[i]) <= tol*concaveLeftWolfeMTAlphaE3StepScale(x[i])) {
+		if !(concaveLeftWolfeMTAlphaE3Abs(s[i]) <= tol*concaveLeftWolfeMTAlphaE3StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func concaveLeftWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // concaveLeftWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftWolfeMTAlphaE3StepScale(xi float64) float64 {
+func concaveLeftWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveLeftWolfeMTAlphaE3Differences) float64 {
 	return concaveLeftWolfeMTAlphaE3Abs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func concaveLeftWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 
 // concaveLeftWolfeMTAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveLeftWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveLeftWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveLeftWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftWolfeMTAlphaE3Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveLeftWolfeMTAlphaE3StepScale(x[i]) / concaveLeftWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeMTAlphaE3StepScale(x[i], i, diffs) / concaveLeftWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

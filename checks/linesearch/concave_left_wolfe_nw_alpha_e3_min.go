@@ -433,7 +433,7 @@ func (r *concaveLeftWolfeNWAlphaE3Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveLeftWolfeNWAlphaE3StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveLeftWolfeNWAlphaE3StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveLeftWolfeNWAlphaE3VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveLeftWolfeNWAlphaE3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveLeftWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveLeftWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveLeftWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func concaveLeftWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (
 }
 
 // concaveLeftWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·concaveLeftWolfeNWAlphaE3StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveLeftWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveLeftWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftWolfeNWAlphaE3Differences) bool {
 	for i := range s {
-		if !(concaveLeftWolfeNWAlphaE3Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaE3StepScale(x[i])) {
+		if !(concaveLeftWolfeNWAlphaE3Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaE3StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func concaveLeftWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // concaveLeftWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftWolfeNWAlphaE3StepScale(xi float64) float64 {
+func concaveLeftWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concaveLeftWolfeNWAlphaE3Differences) float64 {
 	return concaveLeftWolfeNWAlphaE3Abs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func concaveLeftWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 
 // concaveLeftWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveLeftWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveLeftWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveLeftWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftWolfeNWAlphaE3Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveLeftWolfeNWAlphaE3StepScale(x[i]) / concaveLeftWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveLeftWolfeNWAlphaE3StepScale(x[i], i, diffs) / concaveLeftWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

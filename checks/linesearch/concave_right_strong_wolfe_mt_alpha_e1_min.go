@@ -433,7 +433,7 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveRightStrongWolfeMTAlphaE1StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveRightStrongWolfeMTAlphaE1StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveRightStrongWolfeMTAlphaE1VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveRightStrongWolfeMTAlphaE1TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveRightStrongWolfeMTAlphaE1TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveRightStrongWolfeMTAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -847,12 +847,12 @@ func concaveRightStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx flo
 }
 
 // concaveRightStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveRightStrongWolfeMTAlphaE1StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) bool {
 	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaE1StepScale(x[i])) {
+		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaE1StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -860,7 +860,7 @@ func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) b
 }
 
 // concaveRightStrongWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeMTAlphaE1StepScale(xi float64) float64 {
+func concaveRightStrongWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaE1Differences,) float64 {
 	return concaveRightStrongWolfeMTAlphaE1Abs(xi) + 1
 }
 
@@ -889,11 +889,11 @@ func concaveRightStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 
 // concaveRightStrongWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveRightStrongWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveRightStrongWolfeMTAlphaE1StepScale(x[i]) / concaveRightStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightStrongWolfeMTAlphaE1StepScale(x[i], i, diffs) / concaveRightStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *concaveRightWolfeNWAlphaE1Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if concaveRightWolfeNWAlphaE1StepWithin(&r.s, &r.x, r.lim.Step) {
+		if concaveRightWolfeNWAlphaE1StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = concaveRightWolfeNWAlphaE1VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *concaveRightWolfeNWAlphaE1Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveRightWolfeNWAlphaE1TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := concaveRightWolfeNWAlphaE1TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := concaveRightWolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func concaveRightWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) 
 }
 
 // concaveRightWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·concaveRightWolfeNWAlphaE1StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func concaveRightWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+func concaveRightWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightWolfeNWAlphaE1Differences) bool {
 	for i := range s {
-		if !(concaveRightWolfeNWAlphaE1Abs(s[i]) <= tol*concaveRightWolfeNWAlphaE1StepScale(x[i])) {
+		if !(concaveRightWolfeNWAlphaE1Abs(s[i]) <= tol*concaveRightWolfeNWAlphaE1StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func concaveRightWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // concaveRightWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightWolfeNWAlphaE1StepScale(xi float64) float64 {
+func concaveRightWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concaveRightWolfeNWAlphaE1Differences) float64 {
 	return concaveRightWolfeNWAlphaE1Abs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func concaveRightWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 
 // concaveRightWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveRightWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
-func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
+func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightWolfeNWAlphaE1Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * concaveRightWolfeNWAlphaE1StepScale(x[i]) / concaveRightWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * concaveRightWolfeNWAlphaE1StepScale(x[i], i, diffs) / concaveRightWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

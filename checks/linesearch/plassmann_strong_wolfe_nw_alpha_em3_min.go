@@ -433,7 +433,7 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if plassmannStrongWolfeNWAlphaEm3StepWithin(&r.s, &r.x, r.lim.Step) {
+		if plassmannStrongWolfeNWAlphaEm3StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = plassmannStrongWolfeNWAlphaEm3VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := plassmannStrongWolfeNWAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := plassmannStrongWolfeNWAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := plassmannStrongWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func plassmannStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float
 }
 
 // plassmannStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·plassmannStrongWolfeNWAlphaEm3StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func plassmannStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+func plassmannStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) bool {
 	for i := range s {
-		if !(plassmannStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*plassmannStrongWolfeNWAlphaEm3StepScale(x[i])) {
+		if !(plassmannStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*plassmannStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func plassmannStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) boo
 }
 
 // plassmannStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func plassmannStrongWolfeNWAlphaEm3StepScale(xi float64) float64 {
+func plassmannStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *plassmannStrongWolfeNWAlphaEm3Differences) float64 {
 	return plassmannStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 
@@ -888,11 +888,11 @@ func plassmannStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 
 // plassmannStrongWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·plassmannStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
-func plassmannStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
+func plassmannStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * plassmannStrongWolfeNWAlphaEm3StepScale(x[i]) / plassmannStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * plassmannStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs) / plassmannStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

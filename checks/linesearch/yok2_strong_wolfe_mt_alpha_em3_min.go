@@ -433,7 +433,7 @@ func (r *yok2StrongWolfeMTAlphaEm3Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if yok2StrongWolfeMTAlphaEm3StepWithin(&r.s, &r.x, r.lim.Step) {
+		if yok2StrongWolfeMTAlphaEm3StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = yok2StrongWolfeMTAlphaEm3VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *yok2StrongWolfeMTAlphaEm3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := yok2StrongWolfeMTAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := yok2StrongWolfeMTAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := yok2StrongWolfeMTAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func yok2StrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (
 }
 
 // yok2StrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·yok2StrongWolfeMTAlphaEm3StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func yok2StrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+func yok2StrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *yok2StrongWolfeMTAlphaEm3Differences) bool {
 	for i := range s {
-		if !(yok2StrongWolfeMTAlphaEm3Abs(s[i]) <= tol*yok2StrongWolfeMTAlphaEm3StepScale(x[i])) {
+		if !(yok2StrongWolfeMTAlphaEm3Abs(s[i]) <= tol*yok2StrongWolfeMTAlphaEm3StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func yok2StrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // yok2StrongWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func yok2StrongWolfeMTAlphaEm3StepScale(xi float64) float64 {
+func yok2StrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *yok2StrongWolfeMTAlphaEm3Differences) float64 {
 	return yok2StrongWolfeMTAlphaEm3Abs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func yok2StrongWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 
 // yok2StrongWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·yok2StrongWolfeMTAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
-func yok2StrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
+func yok2StrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok2StrongWolfeMTAlphaEm3Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * yok2StrongWolfeMTAlphaEm3StepScale(x[i]) / yok2StrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok2StrongWolfeMTAlphaEm3StepScale(x[i], i, diffs) / yok2StrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *yok2WolfeNWAlphaE1Descent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if yok2WolfeNWAlphaE1StepWithin(&r.s, &r.x, r.lim.Step) {
+		if yok2WolfeNWAlphaE1StepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = yok2WolfeNWAlphaE1VerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *yok2WolfeNWAlphaE1Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := yok2WolfeNWAlphaE1TinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := yok2WolfeNWAlphaE1TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := yok2WolfeNWAlphaE1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -846,12 +846,12 @@ func yok2WolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 }
 
 // yok2WolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·yok2WolfeNWAlphaE1StepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func yok2WolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+func yok2WolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64, diffs *yok2WolfeNWAlphaE1Differences) bool {
 	for i := range s {
-		if !(yok2WolfeNWAlphaE1Abs(s[i]) <= tol*yok2WolfeNWAlphaE1StepScale(x[i])) {
+		if !(yok2WolfeNWAlphaE1Abs(s[i]) <= tol*yok2WolfeNWAlphaE1StepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -859,7 +859,7 @@ func yok2WolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // yok2WolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func yok2WolfeNWAlphaE1StepScale(xi float64) float64 {
+func yok2WolfeNWAlphaE1StepScale(xi float64, i int, diffs *yok2WolfeNWAlphaE1Differences) float64 {
 	return yok2WolfeNWAlphaE1Abs(xi) + 1
 }
 
@@ -887,11 +887,11 @@ func yok2WolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 
 // yok2WolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·yok2WolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
-func yok2WolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
+func yok2WolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok2WolfeNWAlphaE1Differences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * yok2WolfeNWAlphaE1StepScale(x[i]) / yok2WolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * yok2WolfeNWAlphaE1StepScale(x[i], i, diffs) / yok2WolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

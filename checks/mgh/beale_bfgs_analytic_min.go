@@ -433,7 +433,7 @@ func (r *bealeBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if bealeBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if bealeBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = bealeBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *bealeBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := bealeBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := bealeBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 }
 
 // bealeBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·bealeBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *bealeBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*bealeBFGSAnalyticStepScale(x[i])) {
+		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*bealeBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // bealeBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func bealeBFGSAnalyticStepScale(xi float64) float64 {
+func bealeBFGSAnalyticStepScale(xi float64, i int, diffs *bealeBFGSAnalyticDifferences) float64 {
 	return bealeBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func bealeBFGSAnalyticSolveDirection(dir *bealeBFGSAnalyticDirection, g, d *[2]f
 
 // bealeBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * bealeBFGSAnalyticStepScale(x[i]) / bealeBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeBFGSAnalyticStepScale(x[i], i, diffs) / bealeBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

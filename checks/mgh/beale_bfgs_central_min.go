@@ -433,7 +433,7 @@ func (r *bealeBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if bealeBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if bealeBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = bealeBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *bealeBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := bealeBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := bealeBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, 
 }
 
 // bealeBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·bealeBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *bealeBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(bealeBFGSCentralAbs(s[i]) <= tol*bealeBFGSCentralStepScale(x[i])) {
+		if !(bealeBFGSCentralAbs(s[i]) <= tol*bealeBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // bealeBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func bealeBFGSCentralStepScale(xi float64) float64 {
+func bealeBFGSCentralStepScale(xi float64, i int, diffs *bealeBFGSCentralDifferences) float64 {
 	return bealeBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func bealeBFGSCentralSolveDirection(dir *bealeBFGSCentralDirection, g, d *[2]flo
 
 // bealeBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * bealeBFGSCentralStepScale(x[i]) / bealeBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeBFGSCentralStepScale(x[i], i, diffs) / bealeBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *bealeCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if bealeCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if bealeCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = bealeCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *bealeCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := bealeCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := bealeCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, f
 }
 
 // bealeCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·bealeCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *bealeCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(bealeCGAnalyticAbs(s[i]) <= tol*bealeCGAnalyticStepScale(x[i])) {
+		if !(bealeCGAnalyticAbs(s[i]) <= tol*bealeCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // bealeCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func bealeCGAnalyticStepScale(xi float64) float64 {
+func bealeCGAnalyticStepScale(xi float64, i int, diffs *bealeCGAnalyticDifferences) float64 {
 	return bealeCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func bealeCGAnalyticSolveDirection(dir *bealeCGAnalyticDirection, g, d *[2]float
 
 // bealeCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * bealeCGAnalyticStepScale(x[i]) / bealeCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeCGAnalyticStepScale(x[i], i, diffs) / bealeCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *bealeCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if bealeCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if bealeCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = bealeCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *bealeCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := bealeCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := bealeCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, fl
 }
 
 // bealeCGCentralStepWithin is the step test: every |s_i| ≤ tol·bealeCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func bealeCGCentralStepWithin(s, x *[2]float64, tol float64, diffs *bealeCGCentralDifferences) bool {
 	for i := range s {
-		if !(bealeCGCentralAbs(s[i]) <= tol*bealeCGCentralStepScale(x[i])) {
+		if !(bealeCGCentralAbs(s[i]) <= tol*bealeCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // bealeCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func bealeCGCentralStepScale(xi float64) float64 {
+func bealeCGCentralStepScale(xi float64, i int, diffs *bealeCGCentralDifferences) float64 {
 	return bealeCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func bealeCGCentralSolveDirection(dir *bealeCGCentralDirection, g, d *[2]float64
 
 // bealeCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func bealeCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * bealeCGCentralStepScale(x[i]) / bealeCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeCGCentralStepScale(x[i], i, diffs) / bealeCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *bealeLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if bealeLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if bealeLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = bealeLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *bealeLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := bealeLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := bealeLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure
 }
 
 // bealeLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·bealeLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *bealeLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*bealeLBFGSAnalyticStepScale(x[i])) {
+		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*bealeLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // bealeLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func bealeLBFGSAnalyticStepScale(xi float64) float64 {
+func bealeLBFGSAnalyticStepScale(xi float64, i int, diffs *bealeLBFGSAnalyticDifferences) float64 {
 	return bealeLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func bealeLBFGSAnalyticSolveDirection(dir *bealeLBFGSAnalyticDirection, g, d *[2
 
 // bealeLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * bealeLBFGSAnalyticStepScale(x[i]) / bealeLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeLBFGSAnalyticStepScale(x[i], i, diffs) / bealeLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

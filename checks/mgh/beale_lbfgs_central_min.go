@@ -434,7 +434,7 @@ func (r *bealeLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if bealeLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if bealeLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = bealeLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *bealeLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := bealeLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := bealeLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 }
 
 // bealeLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·bealeLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *bealeLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(bealeLBFGSCentralAbs(s[i]) <= tol*bealeLBFGSCentralStepScale(x[i])) {
+		if !(bealeLBFGSCentralAbs(s[i]) <= tol*bealeLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // bealeLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func bealeLBFGSCentralStepScale(xi float64) float64 {
+func bealeLBFGSCentralStepScale(xi float64, i int, diffs *bealeLBFGSCentralDifferences) float64 {
 	return bealeLBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func bealeLBFGSCentralSolveDirection(dir *bealeLBFGSCentralDirection, g, d *[2]f
 
 // bealeLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * bealeLBFGSCentralStepScale(x[i]) / bealeLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * bealeLBFGSCentralStepScale(x[i], i, diffs) / bealeLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *biggsEXP6BFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if biggsEXP6BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if biggsEXP6BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = biggsEXP6BFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *biggsEXP6BFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := biggsEXP6BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := biggsEXP6BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func biggsEXP6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (meas
 }
 
 // biggsEXP6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6BFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6BFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(biggsEXP6BFGSAnalyticAbs(s[i]) <= tol*biggsEXP6BFGSAnalyticStepScale(x[i])) {
+		if !(biggsEXP6BFGSAnalyticAbs(s[i]) <= tol*biggsEXP6BFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // biggsEXP6BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func biggsEXP6BFGSAnalyticStepScale(xi float64) float64 {
+func biggsEXP6BFGSAnalyticStepScale(xi float64, i int, diffs *biggsEXP6BFGSAnalyticDifferences) float64 {
 	return biggsEXP6BFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func biggsEXP6BFGSAnalyticSolveDirection(dir *biggsEXP6BFGSAnalyticDirection, g,
 
 // biggsEXP6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * biggsEXP6BFGSAnalyticStepScale(x[i]) / biggsEXP6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6BFGSAnalyticStepScale(x[i], i, diffs) / biggsEXP6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

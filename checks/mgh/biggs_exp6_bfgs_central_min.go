@@ -433,7 +433,7 @@ func (r *biggsEXP6BFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if biggsEXP6BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if biggsEXP6BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = biggsEXP6BFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *biggsEXP6BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := biggsEXP6BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := biggsEXP6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func biggsEXP6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measu
 }
 
 // biggsEXP6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6BFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6BFGSCentralDifferences) bool {
 	for i := range s {
-		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*biggsEXP6BFGSCentralStepScale(x[i])) {
+		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*biggsEXP6BFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // biggsEXP6BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func biggsEXP6BFGSCentralStepScale(xi float64) float64 {
+func biggsEXP6BFGSCentralStepScale(xi float64, i int, diffs *biggsEXP6BFGSCentralDifferences) float64 {
 	return biggsEXP6BFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func biggsEXP6BFGSCentralSolveDirection(dir *biggsEXP6BFGSCentralDirection, g, d
 
 // biggsEXP6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
+func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * biggsEXP6BFGSCentralStepScale(x[i]) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6BFGSCentralStepScale(x[i], i, diffs) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

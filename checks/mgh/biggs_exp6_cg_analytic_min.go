@@ -433,7 +433,7 @@ func (r *biggsEXP6CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if biggsEXP6CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if biggsEXP6CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = biggsEXP6CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *biggsEXP6CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := biggsEXP6CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := biggsEXP6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func biggsEXP6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measur
 }
 
 // biggsEXP6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*biggsEXP6CGAnalyticStepScale(x[i])) {
+		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*biggsEXP6CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // biggsEXP6CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func biggsEXP6CGAnalyticStepScale(xi float64) float64 {
+func biggsEXP6CGAnalyticStepScale(xi float64, i int, diffs *biggsEXP6CGAnalyticDifferences) float64 {
 	return biggsEXP6CGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func biggsEXP6CGAnalyticSolveDirection(dir *biggsEXP6CGAnalyticDirection, g, d *
 
 // biggsEXP6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * biggsEXP6CGAnalyticStepScale(x[i]) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6CGAnalyticStepScale(x[i], i, diffs) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *biggsEXP6CGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if biggsEXP6CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if biggsEXP6CGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = biggsEXP6CGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *biggsEXP6CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := biggsEXP6CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := biggsEXP6CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func biggsEXP6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure
 }
 
 // biggsEXP6CGCentralStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6CGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
+func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6CGCentralDifferences) bool {
 	for i := range s {
-		if !(biggsEXP6CGCentralAbs(s[i]) <= tol*biggsEXP6CGCentralStepScale(x[i])) {
+		if !(biggsEXP6CGCentralAbs(s[i]) <= tol*biggsEXP6CGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // biggsEXP6CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func biggsEXP6CGCentralStepScale(xi float64) float64 {
+func biggsEXP6CGCentralStepScale(xi float64, i int, diffs *biggsEXP6CGCentralDifferences) float64 {
 	return biggsEXP6CGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func biggsEXP6CGCentralSolveDirection(dir *biggsEXP6CGCentralDirection, g, d *[6
 
 // biggsEXP6CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
+func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6CGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * biggsEXP6CGCentralStepScale(x[i]) / biggsEXP6CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6CGCentralStepScale(x[i], i, diffs) / biggsEXP6CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *biggsEXP6LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if biggsEXP6LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if biggsEXP6LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = biggsEXP6LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *biggsEXP6LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := biggsEXP6LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := biggsEXP6LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (mea
 }
 
 // biggsEXP6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i])) {
+		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // biggsEXP6LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func biggsEXP6LBFGSAnalyticStepScale(xi float64) float64 {
+func biggsEXP6LBFGSAnalyticStepScale(xi float64, i int, diffs *biggsEXP6LBFGSAnalyticDifferences) float64 {
 	return biggsEXP6LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func biggsEXP6LBFGSAnalyticSolveDirection(dir *biggsEXP6LBFGSAnalyticDirection, 
 
 // biggsEXP6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i]) / biggsEXP6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i], i, diffs) / biggsEXP6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *biggsEXP6LBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if biggsEXP6LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if biggsEXP6LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = biggsEXP6LBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *biggsEXP6LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := biggsEXP6LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := biggsEXP6LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func biggsEXP6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (meas
 }
 
 // biggsEXP6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·biggsEXP6LBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6LBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i])) {
+		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // biggsEXP6LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func biggsEXP6LBFGSCentralStepScale(xi float64) float64 {
+func biggsEXP6LBFGSCentralStepScale(xi float64, i int, diffs *biggsEXP6LBFGSCentralDifferences) float64 {
 	return biggsEXP6LBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func biggsEXP6LBFGSCentralSolveDirection(dir *biggsEXP6LBFGSCentralDirection, g,
 
 // biggsEXP6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
+func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * biggsEXP6LBFGSCentralStepScale(x[i]) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * biggsEXP6LBFGSCentralStepScale(x[i], i, diffs) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

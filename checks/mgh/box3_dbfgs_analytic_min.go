@@ -433,7 +433,7 @@ func (r *box3DBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if box3DBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if box3DBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = box3DBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *box3DBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := box3DBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := box3DBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := box3DBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func box3DBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 }
 
 // box3DBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·box3DBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *box3DBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(box3DBFGSAnalyticAbs(s[i]) <= tol*box3DBFGSAnalyticStepScale(x[i])) {
+		if !(box3DBFGSAnalyticAbs(s[i]) <= tol*box3DBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // box3DBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func box3DBFGSAnalyticStepScale(xi float64) float64 {
+func box3DBFGSAnalyticStepScale(xi float64, i int, diffs *box3DBFGSAnalyticDifferences) float64 {
 	return box3DBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func box3DBFGSAnalyticSolveDirection(dir *box3DBFGSAnalyticDirection, g, d *[3]f
 
 // box3DBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·box3DBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * box3DBFGSAnalyticStepScale(x[i]) / box3DBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DBFGSAnalyticStepScale(x[i], i, diffs) / box3DBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *box3DBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if box3DBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if box3DBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = box3DBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *box3DBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := box3DBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := box3DBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := box3DBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func box3DBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 }
 
 // box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·box3DBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *box3DBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(box3DBFGSCentralAbs(s[i]) <= tol*box3DBFGSCentralStepScale(x[i])) {
+		if !(box3DBFGSCentralAbs(s[i]) <= tol*box3DBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // box3DBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func box3DBFGSCentralStepScale(xi float64) float64 {
+func box3DBFGSCentralStepScale(xi float64, i int, diffs *box3DBFGSCentralDifferences) float64 {
 	return box3DBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func box3DBFGSCentralSolveDirection(dir *box3DBFGSCentralDirection, g, d *[3]flo
 
 // box3DBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·box3DBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * box3DBFGSCentralStepScale(x[i]) / box3DBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DBFGSCentralStepScale(x[i], i, diffs) / box3DBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

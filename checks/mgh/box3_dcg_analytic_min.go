@@ -433,7 +433,7 @@ func (r *box3DCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if box3DCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if box3DCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = box3DCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *box3DCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := box3DCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := box3DCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := box3DCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func box3DCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, f
 }
 
 // box3DCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·box3DCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *box3DCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(box3DCGAnalyticAbs(s[i]) <= tol*box3DCGAnalyticStepScale(x[i])) {
+		if !(box3DCGAnalyticAbs(s[i]) <= tol*box3DCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // box3DCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func box3DCGAnalyticStepScale(xi float64) float64 {
+func box3DCGAnalyticStepScale(xi float64, i int, diffs *box3DCGAnalyticDifferences) float64 {
 	return box3DCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func box3DCGAnalyticSolveDirection(dir *box3DCGAnalyticDirection, g, d *[3]float
 
 // box3DCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·box3DCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * box3DCGAnalyticStepScale(x[i]) / box3DCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DCGAnalyticStepScale(x[i], i, diffs) / box3DCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

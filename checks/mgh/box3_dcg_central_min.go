@@ -433,7 +433,7 @@ func (r *box3DCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if box3DCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if box3DCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = box3DCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *box3DCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := box3DCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := box3DCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := box3DCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func box3DCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, fl
 }
 
 // box3DCGCentralStepWithin is the step test: every |s_i| ≤ tol·box3DCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func box3DCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func box3DCGCentralStepWithin(s, x *[3]float64, tol float64, diffs *box3DCGCentralDifferences) bool {
 	for i := range s {
-		if !(box3DCGCentralAbs(s[i]) <= tol*box3DCGCentralStepScale(x[i])) {
+		if !(box3DCGCentralAbs(s[i]) <= tol*box3DCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func box3DCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // box3DCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func box3DCGCentralStepScale(xi float64) float64 {
+func box3DCGCentralStepScale(xi float64, i int, diffs *box3DCGCentralDifferences) float64 {
 	return box3DCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func box3DCGCentralSolveDirection(dir *box3DCGCentralDirection, g, d *[3]float64
 
 // box3DCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·box3DCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func box3DCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func box3DCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * box3DCGCentralStepScale(x[i]) / box3DCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DCGCentralStepScale(x[i], i, diffs) / box3DCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *box3DLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if box3DLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if box3DLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = box3DLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *box3DLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := box3DLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := box3DLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := box3DLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 }
 
 // box3DLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·box3DLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *box3DLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*box3DLBFGSAnalyticStepScale(x[i])) {
+		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*box3DLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // box3DLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func box3DLBFGSAnalyticStepScale(xi float64) float64 {
+func box3DLBFGSAnalyticStepScale(xi float64, i int, diffs *box3DLBFGSAnalyticDifferences) float64 {
 	return box3DLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func box3DLBFGSAnalyticSolveDirection(dir *box3DLBFGSAnalyticDirection, g, d *[3
 
 // box3DLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·box3DLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * box3DLBFGSAnalyticStepScale(x[i]) / box3DLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * box3DLBFGSAnalyticStepScale(x[i], i, diffs) / box3DLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownBadlyScaledBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownBadlyScaledBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownBadlyScaledBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := brownBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64
 }
 
 // brownBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledBFGSAnalyticStepScale(x[i])) {
+		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool 
 }
 
 // brownBadlyScaledBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownBadlyScaledBFGSAnalyticStepScale(xi float64) float64 {
+func brownBadlyScaledBFGSAnalyticStepScale(xi float64, i int, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
 	return brownBadlyScaledBFGSAnalyticAbs(xi) + 1
 }
 
@@ -919,11 +919,11 @@ func brownBadlyScaledBFGSAnalyticSolveDirection(dir *brownBadlyScaledBFGSAnalyti
 
 // brownBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownBadlyScaledBFGSAnalyticStepScale(x[i]) / brownBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs) / brownBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

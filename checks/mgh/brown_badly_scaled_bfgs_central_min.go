@@ -433,7 +433,7 @@ func (r *brownBadlyScaledBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownBadlyScaledBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownBadlyScaledBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownBadlyScaledBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownBadlyScaledBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownBadlyScaledBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := brownBadlyScaledBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64)
 }
 
 // brownBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledBFGSCentralStepScale(x[i])) {
+		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // brownBadlyScaledBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownBadlyScaledBFGSCentralStepScale(xi float64) float64 {
+func brownBadlyScaledBFGSCentralStepScale(xi float64, i int, diffs *brownBadlyScaledBFGSCentralDifferences) float64 {
 	return brownBadlyScaledBFGSCentralAbs(xi) + 1
 }
 
@@ -1098,11 +1098,11 @@ func brownBadlyScaledBFGSCentralSolveDirection(dir *brownBadlyScaledBFGSCentralD
 
 // brownBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownBadlyScaledBFGSCentralStepScale(x[i]) / brownBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledBFGSCentralStepScale(x[i], i, diffs) / brownBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *brownBadlyScaledCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownBadlyScaledCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownBadlyScaledCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownBadlyScaledCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownBadlyScaledCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownBadlyScaledCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := brownBadlyScaledCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) 
 }
 
 // brownBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*brownBadlyScaledCGAnalyticStepScale(x[i])) {
+		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*brownBadlyScaledCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // brownBadlyScaledCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownBadlyScaledCGAnalyticStepScale(xi float64) float64 {
+func brownBadlyScaledCGAnalyticStepScale(xi float64, i int, diffs *brownBadlyScaledCGAnalyticDifferences) float64 {
 	return brownBadlyScaledCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func brownBadlyScaledCGAnalyticSolveDirection(dir *brownBadlyScaledCGAnalyticDir
 
 // brownBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownBadlyScaledCGAnalyticStepScale(x[i]) / brownBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledCGAnalyticStepScale(x[i], i, diffs) / brownBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *brownBadlyScaledCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownBadlyScaledCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownBadlyScaledCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownBadlyScaledCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownBadlyScaledCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownBadlyScaledCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := brownBadlyScaledCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func brownBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (
 }
 
 // brownBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledCGCentralDifferences) bool {
 	for i := range s {
-		if !(brownBadlyScaledCGCentralAbs(s[i]) <= tol*brownBadlyScaledCGCentralStepScale(x[i])) {
+		if !(brownBadlyScaledCGCentralAbs(s[i]) <= tol*brownBadlyScaledCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // brownBadlyScaledCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownBadlyScaledCGCentralStepScale(xi float64) float64 {
+func brownBadlyScaledCGCentralStepScale(xi float64, i int, diffs *brownBadlyScaledCGCentralDifferences) float64 {
 	return brownBadlyScaledCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func brownBadlyScaledCGCentralSolveDirection(dir *brownBadlyScaledCGCentralDirec
 
 // brownBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownBadlyScaledCGCentralStepScale(x[i]) / brownBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledCGCentralStepScale(x[i], i, diffs) / brownBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownBadlyScaledLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownBadlyScaledLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownBadlyScaledLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownBadlyScaledLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := brownBadlyScaledLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float6
 }
 
 // brownBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledLBFGSAnalyticStepScale(x[i])) {
+		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool
 }
 
 // brownBadlyScaledLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownBadlyScaledLBFGSAnalyticStepScale(xi float64) float64 {
+func brownBadlyScaledLBFGSAnalyticStepScale(xi float64, i int, diffs *brownBadlyScaledLBFGSAnalyticDifferences) float64 {
 	return brownBadlyScaledLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -945,11 +945,11 @@ func brownBadlyScaledLBFGSAnalyticSolveDirection(dir *brownBadlyScaledLBFGSAnaly
 
 // brownBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownBadlyScaledLBFGSAnalyticStepScale(x[i]) / brownBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs) / brownBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *brownBadlyScaledLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownBadlyScaledLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownBadlyScaledLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownBadlyScaledLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *brownBadlyScaledLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownBadlyScaledLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := brownBadlyScaledLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64
 }
 
 // brownBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownBadlyScaledLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledLBFGSCentralStepScale(x[i])) {
+		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool 
 }
 
 // brownBadlyScaledLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownBadlyScaledLBFGSCentralStepScale(xi float64) float64 {
+func brownBadlyScaledLBFGSCentralStepScale(xi float64, i int, diffs *brownBadlyScaledLBFGSCentralDifferences) float64 {
 	return brownBadlyScaledLBFGSCentralAbs(xi) + 1
 }
 
@@ -1124,11 +1124,11 @@ func brownBadlyScaledLBFGSCentralSolveDirection(dir *brownBadlyScaledLBFGSCentra
 
 // brownBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownBadlyScaledLBFGSCentralStepScale(x[i]) / brownBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownBadlyScaledLBFGSCentralStepScale(x[i], i, diffs) / brownBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *brownDennisBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownDennisBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownDennisBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownDennisBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownDennisBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownDennisBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownDennisBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := brownDennisBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (me
 }
 
 // brownDennisBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownDennisBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*brownDennisBFGSAnalyticStepScale(x[i])) {
+		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*brownDennisBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // brownDennisBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownDennisBFGSAnalyticStepScale(xi float64) float64 {
+func brownDennisBFGSAnalyticStepScale(xi float64, i int, diffs *brownDennisBFGSAnalyticDifferences) float64 {
 	return brownDennisBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func brownDennisBFGSAnalyticSolveDirection(dir *brownDennisBFGSAnalyticDirection
 
 // brownDennisBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownDennisBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownDennisBFGSAnalyticStepScale(x[i]) / brownDennisBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisBFGSAnalyticStepScale(x[i], i, diffs) / brownDennisBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

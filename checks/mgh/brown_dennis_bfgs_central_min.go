@@ -433,7 +433,7 @@ func (r *brownDennisBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownDennisBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownDennisBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownDennisBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownDennisBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownDennisBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownDennisBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := brownDennisBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 }
 
 // brownDennisBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownDennisBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*brownDennisBFGSCentralStepScale(x[i])) {
+		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*brownDennisBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // brownDennisBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownDennisBFGSCentralStepScale(xi float64) float64 {
+func brownDennisBFGSCentralStepScale(xi float64, i int, diffs *brownDennisBFGSCentralDifferences) float64 {
 	return brownDennisBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func brownDennisBFGSCentralSolveDirection(dir *brownDennisBFGSCentralDirection, 
 
 // brownDennisBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownDennisBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownDennisBFGSCentralStepScale(x[i]) / brownDennisBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisBFGSCentralStepScale(x[i], i, diffs) / brownDennisBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *brownDennisCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownDennisCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownDennisCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownDennisCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *brownDennisCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownDennisCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownDennisCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := brownDennisCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func brownDennisCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measu
 }
 
 // brownDennisCGCentralStepWithin is the step test: every |s_i| ≤ tol·brownDennisCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisCGCentralDifferences) bool {
 	for i := range s {
-		if !(brownDennisCGCentralAbs(s[i]) <= tol*brownDennisCGCentralStepScale(x[i])) {
+		if !(brownDennisCGCentralAbs(s[i]) <= tol*brownDennisCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // brownDennisCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownDennisCGCentralStepScale(xi float64) float64 {
+func brownDennisCGCentralStepScale(xi float64, i int, diffs *brownDennisCGCentralDifferences) float64 {
 	return brownDennisCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func brownDennisCGCentralSolveDirection(dir *brownDennisCGCentralDirection, g, d
 
 // brownDennisCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownDennisCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownDennisCGCentralStepScale(x[i]) / brownDennisCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisCGCentralStepScale(x[i], i, diffs) / brownDennisCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

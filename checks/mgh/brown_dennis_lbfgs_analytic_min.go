@@ -434,7 +434,7 @@ func (r *brownDennisLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownDennisLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownDennisLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownDennisLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *brownDennisLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownDennisLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownDennisLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := brownDennisLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func brownDennisLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (m
 }
 
 // brownDennisLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·brownDennisLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(brownDennisLBFGSAnalyticAbs(s[i]) <= tol*brownDennisLBFGSAnalyticStepScale(x[i])) {
+		if !(brownDennisLBFGSAnalyticAbs(s[i]) <= tol*brownDennisLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // brownDennisLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownDennisLBFGSAnalyticStepScale(xi float64) float64 {
+func brownDennisLBFGSAnalyticStepScale(xi float64, i int, diffs *brownDennisLBFGSAnalyticDifferences) float64 {
 	return brownDennisLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func brownDennisLBFGSAnalyticSolveDirection(dir *brownDennisLBFGSAnalyticDirecti
 
 // brownDennisLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownDennisLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownDennisLBFGSAnalyticStepScale(x[i]) / brownDennisLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisLBFGSAnalyticStepScale(x[i], i, diffs) / brownDennisLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *brownDennisLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if brownDennisLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if brownDennisLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = brownDennisLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *brownDennisLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownDennisLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := brownDennisLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := brownDennisLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (me
 }
 
 // brownDennisLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·brownDennisLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*brownDennisLBFGSCentralStepScale(x[i])) {
+		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*brownDennisLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // brownDennisLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func brownDennisLBFGSCentralStepScale(xi float64) float64 {
+func brownDennisLBFGSCentralStepScale(xi float64, i int, diffs *brownDennisLBFGSCentralDifferences) float64 {
 	return brownDennisLBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func brownDennisLBFGSCentralSolveDirection(dir *brownDennisLBFGSCentralDirection
 
 // brownDennisLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownDennisLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * brownDennisLBFGSCentralStepScale(x[i]) / brownDennisLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * brownDennisLBFGSCentralStepScale(x[i], i, diffs) / brownDennisLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *gaussianBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gaussianBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gaussianBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gaussianBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gaussianBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gaussianBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gaussianBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gaussianBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measu
 }
 
 // gaussianBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gaussianBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gaussianBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*gaussianBFGSAnalyticStepScale(x[i])) {
+		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*gaussianBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gaussianBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gaussianBFGSAnalyticStepScale(xi float64) float64 {
+func gaussianBFGSAnalyticStepScale(xi float64, i int, diffs *gaussianBFGSAnalyticDifferences) float64 {
 	return gaussianBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func gaussianBFGSAnalyticSolveDirection(dir *gaussianBFGSAnalyticDirection, g, d
 
 // gaussianBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gaussianBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gaussianBFGSAnalyticStepScale(x[i]) / gaussianBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianBFGSAnalyticStepScale(x[i], i, diffs) / gaussianBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *gaussianBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gaussianBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gaussianBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gaussianBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gaussianBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gaussianBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gaussianBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gaussianBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 }
 
 // gaussianBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gaussianBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gaussianBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(gaussianBFGSCentralAbs(s[i]) <= tol*gaussianBFGSCentralStepScale(x[i])) {
+		if !(gaussianBFGSCentralAbs(s[i]) <= tol*gaussianBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gaussianBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gaussianBFGSCentralStepScale(xi float64) float64 {
+func gaussianBFGSCentralStepScale(xi float64, i int, diffs *gaussianBFGSCentralDifferences) float64 {
 	return gaussianBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func gaussianBFGSCentralSolveDirection(dir *gaussianBFGSCentralDirection, g, d *
 
 // gaussianBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gaussianBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gaussianBFGSCentralStepScale(x[i]) / gaussianBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianBFGSCentralStepScale(x[i], i, diffs) / gaussianBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

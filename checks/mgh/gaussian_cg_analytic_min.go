@@ -433,7 +433,7 @@ func (r *gaussianCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gaussianCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gaussianCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gaussianCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gaussianCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gaussianCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gaussianCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gaussianCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func gaussianCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 }
 
 // gaussianCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·gaussianCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gaussianCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(gaussianCGAnalyticAbs(s[i]) <= tol*gaussianCGAnalyticStepScale(x[i])) {
+		if !(gaussianCGAnalyticAbs(s[i]) <= tol*gaussianCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gaussianCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gaussianCGAnalyticStepScale(xi float64) float64 {
+func gaussianCGAnalyticStepScale(xi float64, i int, diffs *gaussianCGAnalyticDifferences) float64 {
 	return gaussianCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func gaussianCGAnalyticSolveDirection(dir *gaussianCGAnalyticDirection, g, d *[3
 
 // gaussianCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gaussianCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gaussianCGAnalyticStepScale(x[i]) / gaussianCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianCGAnalyticStepScale(x[i], i, diffs) / gaussianCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *gaussianCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gaussianCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gaussianCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gaussianCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gaussianCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gaussianCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gaussianCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gaussianCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 }
 
 // gaussianCGCentralStepWithin is the step test: every |s_i| ≤ tol·gaussianCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64, diffs *gaussianCGCentralDifferences) bool {
 	for i := range s {
-		if !(gaussianCGCentralAbs(s[i]) <= tol*gaussianCGCentralStepScale(x[i])) {
+		if !(gaussianCGCentralAbs(s[i]) <= tol*gaussianCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gaussianCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gaussianCGCentralStepScale(xi float64) float64 {
+func gaussianCGCentralStepScale(xi float64, i int, diffs *gaussianCGCentralDifferences) float64 {
 	return gaussianCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func gaussianCGCentralSolveDirection(dir *gaussianCGCentralDirection, g, d *[3]f
 
 // gaussianCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gaussianCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gaussianCGCentralStepScale(x[i]) / gaussianCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianCGCentralStepScale(x[i], i, diffs) / gaussianCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

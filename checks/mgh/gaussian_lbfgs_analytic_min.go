@@ -434,7 +434,7 @@ func (r *gaussianLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gaussianLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gaussianLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gaussianLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *gaussianLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gaussianLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gaussianLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gaussianLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (meas
 }
 
 // gaussianLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gaussianLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gaussianLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*gaussianLBFGSAnalyticStepScale(x[i])) {
+		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*gaussianLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gaussianLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gaussianLBFGSAnalyticStepScale(xi float64) float64 {
+func gaussianLBFGSAnalyticStepScale(xi float64, i int, diffs *gaussianLBFGSAnalyticDifferences) float64 {
 	return gaussianLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func gaussianLBFGSAnalyticSolveDirection(dir *gaussianLBFGSAnalyticDirection, g,
 
 // gaussianLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gaussianLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gaussianLBFGSAnalyticStepScale(x[i]) / gaussianLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianLBFGSAnalyticStepScale(x[i], i, diffs) / gaussianLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

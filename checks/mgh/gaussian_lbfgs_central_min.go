@@ -434,7 +434,7 @@ func (r *gaussianLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gaussianLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gaussianLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gaussianLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *gaussianLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gaussianLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gaussianLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gaussianLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measu
 }
 
 // gaussianLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gaussianLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gaussianLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*gaussianLBFGSCentralStepScale(x[i])) {
+		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*gaussianLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gaussianLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gaussianLBFGSCentralStepScale(xi float64) float64 {
+func gaussianLBFGSCentralStepScale(xi float64, i int, diffs *gaussianLBFGSCentralDifferences) float64 {
 	return gaussianLBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func gaussianLBFGSCentralSolveDirection(dir *gaussianLBFGSCentralDirection, g, d
 
 // gaussianLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gaussianLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gaussianLBFGSCentralStepScale(x[i]) / gaussianLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gaussianLBFGSCentralStepScale(x[i], i, diffs) / gaussianLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

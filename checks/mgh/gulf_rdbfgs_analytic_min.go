@@ -433,7 +433,7 @@ func (r *gulfRDBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gulfRDBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gulfRDBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gulfRDBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gulfRDBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gulfRDBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gulfRDBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gulfRDBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 }
 
 // gulfRDBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·gulfRDBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*gulfRDBFGSAnalyticStepScale(x[i])) {
+		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*gulfRDBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gulfRDBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gulfRDBFGSAnalyticStepScale(xi float64) float64 {
+func gulfRDBFGSAnalyticStepScale(xi float64, i int, diffs *gulfRDBFGSAnalyticDifferences) float64 {
 	return gulfRDBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func gulfRDBFGSAnalyticSolveDirection(dir *gulfRDBFGSAnalyticDirection, g, d *[3
 
 // gulfRDBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gulfRDBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gulfRDBFGSAnalyticStepScale(x[i]) / gulfRDBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDBFGSAnalyticStepScale(x[i], i, diffs) / gulfRDBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

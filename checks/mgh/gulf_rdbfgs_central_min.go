@@ -433,7 +433,7 @@ func (r *gulfRDBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gulfRDBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gulfRDBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gulfRDBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gulfRDBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gulfRDBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gulfRDBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gulfRDBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 }
 
 // gulfRDBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gulfRDBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*gulfRDBFGSCentralStepScale(x[i])) {
+		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*gulfRDBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gulfRDBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gulfRDBFGSCentralStepScale(xi float64) float64 {
+func gulfRDBFGSCentralStepScale(xi float64, i int, diffs *gulfRDBFGSCentralDifferences) float64 {
 	return gulfRDBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func gulfRDBFGSCentralSolveDirection(dir *gulfRDBFGSCentralDirection, g, d *[3]f
 
 // gulfRDBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gulfRDBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gulfRDBFGSCentralStepScale(x[i]) / gulfRDBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDBFGSCentralStepScale(x[i], i, diffs) / gulfRDBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *gulfRDCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gulfRDCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gulfRDCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gulfRDCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *gulfRDCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gulfRDCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gulfRDCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gulfRDCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 }
 
 // gulfRDCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·gulfRDCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*gulfRDCGAnalyticStepScale(x[i])) {
+		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*gulfRDCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gulfRDCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gulfRDCGAnalyticStepScale(xi float64) float64 {
+func gulfRDCGAnalyticStepScale(xi float64, i int, diffs *gulfRDCGAnalyticDifferences) float64 {
 	return gulfRDCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func gulfRDCGAnalyticSolveDirection(dir *gulfRDCGAnalyticDirection, g, d *[3]flo
 
 // gulfRDCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gulfRDCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gulfRDCGAnalyticStepScale(x[i]) / gulfRDCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDCGAnalyticStepScale(x[i], i, diffs) / gulfRDCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

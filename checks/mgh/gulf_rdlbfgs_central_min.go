@@ -434,7 +434,7 @@ func (r *gulfRDLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if gulfRDLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if gulfRDLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = gulfRDLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *gulfRDLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gulfRDLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := gulfRDLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := gulfRDLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 }
 
 // gulfRDLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·gulfRDLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*gulfRDLBFGSCentralStepScale(x[i])) {
+		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*gulfRDLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // gulfRDLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func gulfRDLBFGSCentralStepScale(xi float64) float64 {
+func gulfRDLBFGSCentralStepScale(xi float64, i int, diffs *gulfRDLBFGSCentralDifferences) float64 {
 	return gulfRDLBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func gulfRDLBFGSCentralSolveDirection(dir *gulfRDLBFGSCentralDirection, g, d *[3
 
 // gulfRDLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gulfRDLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * gulfRDLBFGSCentralStepScale(x[i]) / gulfRDLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * gulfRDLBFGSCentralStepScale(x[i], i, diffs) / gulfRDLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *helicalValleyBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if helicalValleyBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if helicalValleyBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = helicalValleyBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *helicalValleyBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := helicalValleyBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := helicalValleyBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := helicalValleyBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (
 }
 
 // helicalValleyBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·helicalValleyBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*helicalValleyBFGSAnalyticStepScale(x[i])) {
+		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*helicalValleyBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // helicalValleyBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func helicalValleyBFGSAnalyticStepScale(xi float64) float64 {
+func helicalValleyBFGSAnalyticStepScale(xi float64, i int, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
 	return helicalValleyBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func helicalValleyBFGSAnalyticSolveDirection(dir *helicalValleyBFGSAnalyticDirec
 
 // helicalValleyBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·helicalValleyBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * helicalValleyBFGSAnalyticStepScale(x[i]) / helicalValleyBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyBFGSAnalyticStepScale(x[i], i, diffs) / helicalValleyBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

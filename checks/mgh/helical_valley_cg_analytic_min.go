@@ -433,7 +433,7 @@ func (r *helicalValleyCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if helicalValleyCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if helicalValleyCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = helicalValleyCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *helicalValleyCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := helicalValleyCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := helicalValleyCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := helicalValleyCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (me
 }
 
 // helicalValleyCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·helicalValleyCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*helicalValleyCGAnalyticStepScale(x[i])) {
+		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*helicalValleyCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // helicalValleyCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func helicalValleyCGAnalyticStepScale(xi float64) float64 {
+func helicalValleyCGAnalyticStepScale(xi float64, i int, diffs *helicalValleyCGAnalyticDifferences) float64 {
 	return helicalValleyCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func helicalValleyCGAnalyticSolveDirection(dir *helicalValleyCGAnalyticDirection
 
 // helicalValleyCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·helicalValleyCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * helicalValleyCGAnalyticStepScale(x[i]) / helicalValleyCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyCGAnalyticStepScale(x[i], i, diffs) / helicalValleyCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *helicalValleyCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if helicalValleyCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if helicalValleyCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = helicalValleyCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *helicalValleyCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := helicalValleyCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := helicalValleyCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := helicalValleyCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func helicalValleyCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (mea
 }
 
 // helicalValleyCGCentralStepWithin is the step test: every |s_i| ≤ tol·helicalValleyCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyCGCentralDifferences) bool {
 	for i := range s {
-		if !(helicalValleyCGCentralAbs(s[i]) <= tol*helicalValleyCGCentralStepScale(x[i])) {
+		if !(helicalValleyCGCentralAbs(s[i]) <= tol*helicalValleyCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // helicalValleyCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func helicalValleyCGCentralStepScale(xi float64) float64 {
+func helicalValleyCGCentralStepScale(xi float64, i int, diffs *helicalValleyCGCentralDifferences) float64 {
 	return helicalValleyCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func helicalValleyCGCentralSolveDirection(dir *helicalValleyCGCentralDirection, 
 
 // helicalValleyCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·helicalValleyCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * helicalValleyCGCentralStepScale(x[i]) / helicalValleyCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * helicalValleyCGCentralStepScale(x[i], i, diffs) / helicalValleyCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *penaltyI10BFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI10BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI10BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI10BFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyI10BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI10BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI10BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := penaltyI10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func penaltyI10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (mea
 }
 
 // penaltyI10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI10BFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+func penaltyI10BFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *penaltyI10BFGSCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyI10BFGSCentralAbs(s[i]) <= tol*penaltyI10BFGSCentralStepScale(x[i])) {
+		if !(penaltyI10BFGSCentralAbs(s[i]) <= tol*penaltyI10BFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func penaltyI10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 }
 
 // penaltyI10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI10BFGSCentralStepScale(xi float64) float64 {
+func penaltyI10BFGSCentralStepScale(xi float64, i int, diffs *penaltyI10BFGSCentralDifferences) float64 {
 	return penaltyI10BFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func penaltyI10BFGSCentralSolveDirection(dir *penaltyI10BFGSCentralDirection, g,
 
 // penaltyI10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+func penaltyI10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI10BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI10BFGSCentralStepScale(x[i]) / penaltyI10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10BFGSCentralStepScale(x[i], i, diffs) / penaltyI10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

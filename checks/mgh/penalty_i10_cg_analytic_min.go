@@ -433,7 +433,7 @@ func (r *penaltyI10CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI10CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyI10CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := penaltyI10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func penaltyI10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (meas
 }
 
 // penaltyI10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI10CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func penaltyI10CGAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *penaltyI10CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyI10CGAnalyticAbs(s[i]) <= tol*penaltyI10CGAnalyticStepScale(x[i])) {
+		if !(penaltyI10CGAnalyticAbs(s[i]) <= tol*penaltyI10CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func penaltyI10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 }
 
 // penaltyI10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI10CGAnalyticStepScale(xi float64) float64 {
+func penaltyI10CGAnalyticStepScale(xi float64, i int, diffs *penaltyI10CGAnalyticDifferences) float64 {
 	return penaltyI10CGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func penaltyI10CGAnalyticSolveDirection(dir *penaltyI10CGAnalyticDirection, g, d
 
 // penaltyI10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI10CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI10CGAnalyticStepScale(x[i]) / penaltyI10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10CGAnalyticStepScale(x[i], i, diffs) / penaltyI10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *penaltyI10LBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI10LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI10LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI10LBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *penaltyI10LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI10LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI10LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := penaltyI10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func penaltyI10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (me
 }
 
 // penaltyI10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI10LBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *penaltyI10LBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*penaltyI10LBFGSCentralStepScale(x[i])) {
+		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*penaltyI10LBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 }
 
 // penaltyI10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI10LBFGSCentralStepScale(xi float64) float64 {
+func penaltyI10LBFGSCentralStepScale(xi float64, i int, diffs *penaltyI10LBFGSCentralDifferences) float64 {
 	return penaltyI10LBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func penaltyI10LBFGSCentralSolveDirection(dir *penaltyI10LBFGSCentralDirection, 
 
 // penaltyI10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI10LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI10LBFGSCentralStepScale(x[i]) / penaltyI10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI10LBFGSCentralStepScale(x[i], i, diffs) / penaltyI10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *penaltyI4BFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI4BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI4BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI4BFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyI4BFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI4BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyI4BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 }
 
 // penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI4BFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4BFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*penaltyI4BFGSAnalyticStepScale(x[i])) {
+		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*penaltyI4BFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyI4BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI4BFGSAnalyticStepScale(xi float64) float64 {
+func penaltyI4BFGSAnalyticStepScale(xi float64, i int, diffs *penaltyI4BFGSAnalyticDifferences) float64 {
 	return penaltyI4BFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func penaltyI4BFGSAnalyticSolveDirection(dir *penaltyI4BFGSAnalyticDirection, g,
 
 // penaltyI4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI4BFGSAnalyticStepScale(x[i]) / penaltyI4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4BFGSAnalyticStepScale(x[i], i, diffs) / penaltyI4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

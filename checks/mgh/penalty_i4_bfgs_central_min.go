@@ -433,7 +433,7 @@ func (r *penaltyI4BFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI4BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI4BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI4BFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyI4BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI4BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyI4BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measu
 }
 
 // penaltyI4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI4BFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4BFGSCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*penaltyI4BFGSCentralStepScale(x[i])) {
+		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*penaltyI4BFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyI4BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI4BFGSCentralStepScale(xi float64) float64 {
+func penaltyI4BFGSCentralStepScale(xi float64, i int, diffs *penaltyI4BFGSCentralDifferences) float64 {
 	return penaltyI4BFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func penaltyI4BFGSCentralSolveDirection(dir *penaltyI4BFGSCentralDirection, g, d
 
 // penaltyI4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI4BFGSCentralStepScale(x[i]) / penaltyI4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4BFGSCentralStepScale(x[i], i, diffs) / penaltyI4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *penaltyI4CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI4CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI4CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI4CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyI4CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI4CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyI4CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func penaltyI4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measur
 }
 
 // penaltyI4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI4CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*penaltyI4CGAnalyticStepScale(x[i])) {
+		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*penaltyI4CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyI4CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI4CGAnalyticStepScale(xi float64) float64 {
+func penaltyI4CGAnalyticStepScale(xi float64, i int, diffs *penaltyI4CGAnalyticDifferences) float64 {
 	return penaltyI4CGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func penaltyI4CGAnalyticSolveDirection(dir *penaltyI4CGAnalyticDirection, g, d *
 
 // penaltyI4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI4CGAnalyticStepScale(x[i]) / penaltyI4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4CGAnalyticStepScale(x[i], i, diffs) / penaltyI4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *penaltyI4CGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI4CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI4CGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI4CGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyI4CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI4CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyI4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func penaltyI4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure
 }
 
 // penaltyI4CGCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI4CGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyI4CGCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4CGCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyI4CGCentralAbs(s[i]) <= tol*penaltyI4CGCentralStepScale(x[i])) {
+		if !(penaltyI4CGCentralAbs(s[i]) <= tol*penaltyI4CGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func penaltyI4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyI4CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI4CGCentralStepScale(xi float64) float64 {
+func penaltyI4CGCentralStepScale(xi float64, i int, diffs *penaltyI4CGCentralDifferences) float64 {
 	return penaltyI4CGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func penaltyI4CGCentralSolveDirection(dir *penaltyI4CGCentralDirection, g, d *[4
 
 // penaltyI4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4CGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI4CGCentralStepScale(x[i]) / penaltyI4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4CGCentralStepScale(x[i], i, diffs) / penaltyI4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *penaltyI4LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI4LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI4LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI4LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *penaltyI4LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI4LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyI4LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 }
 
 // penaltyI4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyI4LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[i])) {
+		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyI4LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI4LBFGSAnalyticStepScale(xi float64) float64 {
+func penaltyI4LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyI4LBFGSAnalyticDifferences) float64 {
 	return penaltyI4LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func penaltyI4LBFGSAnalyticSolveDirection(dir *penaltyI4LBFGSAnalyticDirection, 
 
 // penaltyI4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[i]) / penaltyI4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[i], i, diffs) / penaltyI4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *penaltyI4LBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyI4LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyI4LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyI4LBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *penaltyI4LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyI4LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyI4LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func penaltyI4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 }
 
 // penaltyI4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyI4LBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4LBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyI4LBFGSCentralAbs(s[i]) <= tol*penaltyI4LBFGSCentralStepScale(x[i])) {
+		if !(penaltyI4LBFGSCentralAbs(s[i]) <= tol*penaltyI4LBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyI4LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyI4LBFGSCentralStepScale(xi float64) float64 {
+func penaltyI4LBFGSCentralStepScale(xi float64, i int, diffs *penaltyI4LBFGSCentralDifferences) float64 {
 	return penaltyI4LBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func penaltyI4LBFGSCentralSolveDirection(dir *penaltyI4LBFGSCentralDirection, g,
 
 // penaltyI4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyI4LBFGSCentralStepScale(x[i]) / penaltyI4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyI4LBFGSCentralStepScale(x[i], i, diffs) / penaltyI4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *penaltyII10BFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyII10BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyII10BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyII10BFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyII10BFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyII10BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyII10BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := penaltyII10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func penaltyII10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (m
 }
 
 // penaltyII10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII10BFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *penaltyII10BFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyII10BFGSAnalyticAbs(s[i]) <= tol*penaltyII10BFGSAnalyticStepScale(x[i])) {
+		if !(penaltyII10BFGSAnalyticAbs(s[i]) <= tol*penaltyII10BFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 }
 
 // penaltyII10BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyII10BFGSAnalyticStepScale(xi float64) float64 {
+func penaltyII10BFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII10BFGSAnalyticDifferences) float64 {
 	return penaltyII10BFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func penaltyII10BFGSAnalyticSolveDirection(dir *penaltyII10BFGSAnalyticDirection
 
 // penaltyII10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyII10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penaltyII10BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyII10BFGSAnalyticStepScale(x[i]) / penaltyII10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10BFGSAnalyticStepScale(x[i], i, diffs) / penaltyII10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

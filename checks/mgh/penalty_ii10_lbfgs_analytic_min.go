@@ -434,7 +434,7 @@ func (r *penaltyII10LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyII10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyII10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyII10LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *penaltyII10LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyII10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyII10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := penaltyII10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func penaltyII10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (
 }
 
 // penaltyII10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII10LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *penaltyII10LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i])) {
+		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 }
 
 // penaltyII10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyII10LBFGSAnalyticStepScale(xi float64) float64 {
+func penaltyII10LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII10LBFGSAnalyticDifferences) float64 {
 	return penaltyII10LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func penaltyII10LBFGSAnalyticSolveDirection(dir *penaltyII10LBFGSAnalyticDirecti
 
 // penaltyII10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyII10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penaltyII10LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i]) / penaltyII10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i], i, diffs) / penaltyII10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *penaltyII4BFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyII4BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyII4BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyII4BFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyII4BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyII4BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyII4BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyII4BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func penaltyII4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 }
 
 // penaltyII4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII4BFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyII4BFGSCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyII4BFGSCentralAbs(s[i]) <= tol*penaltyII4BFGSCentralStepScale(x[i])) {
+		if !(penaltyII4BFGSCentralAbs(s[i]) <= tol*penaltyII4BFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyII4BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyII4BFGSCentralStepScale(xi float64) float64 {
+func penaltyII4BFGSCentralStepScale(xi float64, i int, diffs *penaltyII4BFGSCentralDifferences) float64 {
 	return penaltyII4BFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func penaltyII4BFGSCentralSolveDirection(dir *penaltyII4BFGSCentralDirection, g,
 
 // penaltyII4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyII4BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII4BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyII4BFGSCentralStepScale(x[i]) / penaltyII4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4BFGSCentralStepScale(x[i], i, diffs) / penaltyII4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

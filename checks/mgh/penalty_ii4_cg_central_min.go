@@ -433,7 +433,7 @@ func (r *penaltyII4CGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyII4CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyII4CGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyII4CGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *penaltyII4CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyII4CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyII4CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyII4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measur
 }
 
 // penaltyII4CGCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII4CGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyII4CGCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyII4CGCentralAbs(s[i]) <= tol*penaltyII4CGCentralStepScale(x[i])) {
+		if !(penaltyII4CGCentralAbs(s[i]) <= tol*penaltyII4CGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyII4CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyII4CGCentralStepScale(xi float64) float64 {
+func penaltyII4CGCentralStepScale(xi float64, i int, diffs *penaltyII4CGCentralDifferences) float64 {
 	return penaltyII4CGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func penaltyII4CGCentralSolveDirection(dir *penaltyII4CGCentralDirection, g, d *
 
 // penaltyII4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyII4CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII4CGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyII4CGCentralStepScale(x[i]) / penaltyII4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4CGCentralStepScale(x[i], i, diffs) / penaltyII4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

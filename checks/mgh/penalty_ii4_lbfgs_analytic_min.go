@@ -434,7 +434,7 @@ func (r *penaltyII4LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyII4LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyII4LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyII4LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *penaltyII4LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyII4LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyII4LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyII4LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func penaltyII4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (me
 }
 
 // penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·penaltyII4LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyII4LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*penaltyII4LBFGSAnalyticStepScale(x[i])) {
+		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*penaltyII4LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyII4LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyII4LBFGSAnalyticStepScale(xi float64) float64 {
+func penaltyII4LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII4LBFGSAnalyticDifferences) float64 {
 	return penaltyII4LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func penaltyII4LBFGSAnalyticSolveDirection(dir *penaltyII4LBFGSAnalyticDirection
 
 // penaltyII4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyII4LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII4LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyII4LBFGSAnalyticStepScale(x[i]) / penaltyII4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4LBFGSAnalyticStepScale(x[i], i, diffs) / penaltyII4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *penaltyII4LBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if penaltyII4LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if penaltyII4LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = penaltyII4LBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *penaltyII4LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyII4LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := penaltyII4LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := penaltyII4LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 }
 
 // penaltyII4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·penaltyII4LBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyII4LBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*penaltyII4LBFGSCentralStepScale(x[i])) {
+		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*penaltyII4LBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // penaltyII4LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func penaltyII4LBFGSCentralStepScale(xi float64) float64 {
+func penaltyII4LBFGSCentralStepScale(xi float64, i int, diffs *penaltyII4LBFGSCentralDifferences) float64 {
 	return penaltyII4LBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func penaltyII4LBFGSCentralSolveDirection(dir *penaltyII4LBFGSCentralDirection, 
 
 // penaltyII4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyII4LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII4LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * penaltyII4LBFGSCentralStepScale(x[i]) / penaltyII4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * penaltyII4LBFGSCentralStepScale(x[i], i, diffs) / penaltyII4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellBadlyScaledBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellBadlyScaledBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellBadlyScaledBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := powellBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float6
 }
 
 // powellBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledBFGSAnalyticStepScale(x[i])) {
+		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool
 }
 
 // powellBadlyScaledBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellBadlyScaledBFGSAnalyticStepScale(xi float64) float64 {
+func powellBadlyScaledBFGSAnalyticStepScale(xi float64, i int, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
 	return powellBadlyScaledBFGSAnalyticAbs(xi) + 1
 }
 
@@ -919,11 +919,11 @@ func powellBadlyScaledBFGSAnalyticSolveDirection(dir *powellBadlyScaledBFGSAnaly
 
 // powellBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellBadlyScaledBFGSAnalyticStepScale(x[i]) / powellBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs) / powellBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

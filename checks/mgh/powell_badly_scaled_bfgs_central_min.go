@@ -433,7 +433,7 @@ func (r *powellBadlyScaledBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellBadlyScaledBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellBadlyScaledBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellBadlyScaledBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellBadlyScaledBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellBadlyScaledBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellBadlyScaledBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := powellBadlyScaledBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64
 }
 
 // powellBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*powellBadlyScaledBFGSCentralStepScale(x[i])) {
+		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*powellBadlyScaledBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool 
 }
 
 // powellBadlyScaledBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellBadlyScaledBFGSCentralStepScale(xi float64) float64 {
+func powellBadlyScaledBFGSCentralStepScale(xi float64, i int, diffs *powellBadlyScaledBFGSCentralDifferences) float64 {
 	return powellBadlyScaledBFGSCentralAbs(xi) + 1
 }
 
@@ -1098,11 +1098,11 @@ func powellBadlyScaledBFGSCentralSolveDirection(dir *powellBadlyScaledBFGSCentra
 
 // powellBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellBadlyScaledBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellBadlyScaledBFGSCentralStepScale(x[i]) / powellBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledBFGSCentralStepScale(x[i], i, diffs) / powellBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *powellBadlyScaledCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellBadlyScaledCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellBadlyScaledCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellBadlyScaledCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellBadlyScaledCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellBadlyScaledCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellBadlyScaledCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := powellBadlyScaledCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64)
 }
 
 // powellBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*powellBadlyScaledCGAnalyticStepScale(x[i])) {
+		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*powellBadlyScaledCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // powellBadlyScaledCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellBadlyScaledCGAnalyticStepScale(xi float64) float64 {
+func powellBadlyScaledCGAnalyticStepScale(xi float64, i int, diffs *powellBadlyScaledCGAnalyticDifferences) float64 {
 	return powellBadlyScaledCGAnalyticAbs(xi) + 1
 }
 
@@ -908,11 +908,11 @@ func powellBadlyScaledCGAnalyticSolveDirection(dir *powellBadlyScaledCGAnalyticD
 
 // powellBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellBadlyScaledCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellBadlyScaledCGAnalyticStepScale(x[i]) / powellBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledCGAnalyticStepScale(x[i], i, diffs) / powellBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *powellBadlyScaledCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellBadlyScaledCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellBadlyScaledCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellBadlyScaledCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellBadlyScaledCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellBadlyScaledCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellBadlyScaledCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := powellBadlyScaledCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) 
 }
 
 // powellBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledCGCentralDifferences) bool {
 	for i := range s {
-		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*powellBadlyScaledCGCentralStepScale(x[i])) {
+		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*powellBadlyScaledCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // powellBadlyScaledCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellBadlyScaledCGCentralStepScale(xi float64) float64 {
+func powellBadlyScaledCGCentralStepScale(xi float64, i int, diffs *powellBadlyScaledCGCentralDifferences) float64 {
 	return powellBadlyScaledCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func powellBadlyScaledCGCentralSolveDirection(dir *powellBadlyScaledCGCentralDir
 
 // powellBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellBadlyScaledCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellBadlyScaledCGCentralStepScale(x[i]) / powellBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledCGCentralStepScale(x[i], i, diffs) / powellBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellBadlyScaledLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellBadlyScaledLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellBadlyScaledLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellBadlyScaledLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellBadlyScaledLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := powellBadlyScaledLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float
 }
 
 // powellBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellBadlyScaledLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledLBFGSAnalyticStepScale(x[i])) {
+		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) boo
 }
 
 // powellBadlyScaledLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellBadlyScaledLBFGSAnalyticStepScale(xi float64) float64 {
+func powellBadlyScaledLBFGSAnalyticStepScale(xi float64, i int, diffs *powellBadlyScaledLBFGSAnalyticDifferences) float64 {
 	return powellBadlyScaledLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -945,11 +945,11 @@ func powellBadlyScaledLBFGSAnalyticSolveDirection(dir *powellBadlyScaledLBFGSAna
 
 // powellBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellBadlyScaledLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellBadlyScaledLBFGSAnalyticStepScale(x[i]) / powellBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs) / powellBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *powellSingularBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellSingularBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellSingularBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellSingularBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellSingularBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellSingularBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := powellSingularBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func powellSingularBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) 
 }
 
 // powellSingularBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellSingularBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(powellSingularBFGSAnalyticAbs(s[i]) <= tol*powellSingularBFGSAnalyticStepScale(x[i])) {
+		if !(powellSingularBFGSAnalyticAbs(s[i]) <= tol*powellSingularBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // powellSingularBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellSingularBFGSAnalyticStepScale(xi float64) float64 {
+func powellSingularBFGSAnalyticStepScale(xi float64, i int, diffs *powellSingularBFGSAnalyticDifferences) float64 {
 	return powellSingularBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func powellSingularBFGSAnalyticSolveDirection(dir *powellSingularBFGSAnalyticDir
 
 // powellSingularBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellSingularBFGSAnalyticStepScale(x[i]) / powellSingularBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularBFGSAnalyticStepScale(x[i], i, diffs) / powellSingularBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

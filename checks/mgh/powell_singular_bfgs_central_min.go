@@ -433,7 +433,7 @@ func (r *powellSingularBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellSingularBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellSingularBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellSingularBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellSingularBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellSingularBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := powellSingularBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (
 }
 
 // powellSingularBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·powellSingularBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*powellSingularBFGSCentralStepScale(x[i])) {
+		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*powellSingularBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // powellSingularBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellSingularBFGSCentralStepScale(xi float64) float64 {
+func powellSingularBFGSCentralStepScale(xi float64, i int, diffs *powellSingularBFGSCentralDifferences) float64 {
 	return powellSingularBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func powellSingularBFGSCentralSolveDirection(dir *powellSingularBFGSCentralDirec
 
 // powellSingularBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellSingularBFGSCentralStepScale(x[i]) / powellSingularBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularBFGSCentralStepScale(x[i], i, diffs) / powellSingularBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

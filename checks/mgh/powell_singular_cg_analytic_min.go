@@ -433,7 +433,7 @@ func (r *powellSingularCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellSingularCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellSingularCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellSingularCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellSingularCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellSingularCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := powellSingularCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (m
 }
 
 // powellSingularCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellSingularCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*powellSingularCGAnalyticStepScale(x[i])) {
+		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*powellSingularCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // powellSingularCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellSingularCGAnalyticStepScale(xi float64) float64 {
+func powellSingularCGAnalyticStepScale(xi float64, i int, diffs *powellSingularCGAnalyticDifferences) float64 {
 	return powellSingularCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func powellSingularCGAnalyticSolveDirection(dir *powellSingularCGAnalyticDirecti
 
 // powellSingularCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellSingularCGAnalyticStepScale(x[i]) / powellSingularCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularCGAnalyticStepScale(x[i], i, diffs) / powellSingularCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *powellSingularCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellSingularCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellSingularCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellSingularCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *powellSingularCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellSingularCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := powellSingularCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (me
 }
 
 // powellSingularCGCentralStepWithin is the step test: every |s_i| ≤ tol·powellSingularCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularCGCentralDifferences) bool {
 	for i := range s {
-		if !(powellSingularCGCentralAbs(s[i]) <= tol*powellSingularCGCentralStepScale(x[i])) {
+		if !(powellSingularCGCentralAbs(s[i]) <= tol*powellSingularCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // powellSingularCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellSingularCGCentralStepScale(xi float64) float64 {
+func powellSingularCGCentralStepScale(xi float64, i int, diffs *powellSingularCGCentralDifferences) float64 {
 	return powellSingularCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func powellSingularCGCentralSolveDirection(dir *powellSingularCGCentralDirection
 
 // powellSingularCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellSingularCGCentralStepScale(x[i]) / powellSingularCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularCGCentralStepScale(x[i], i, diffs) / powellSingularCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

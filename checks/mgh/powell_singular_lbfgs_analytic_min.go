@@ -434,7 +434,7 @@ func (r *powellSingularLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if powellSingularLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if powellSingularLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = powellSingularLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *powellSingularLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := powellSingularLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := powellSingularLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64)
 }
 
 // powellSingularLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·powellSingularLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*powellSingularLBFGSAnalyticStepScale(x[i])) {
+		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*powellSingularLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // powellSingularLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func powellSingularLBFGSAnalyticStepScale(xi float64) float64 {
+func powellSingularLBFGSAnalyticStepScale(xi float64, i int, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
 	return powellSingularLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -945,11 +945,11 @@ func powellSingularLBFGSAnalyticSolveDirection(dir *powellSingularLBFGSAnalyticD
 
 // powellSingularLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * powellSingularLBFGSAnalyticStepScale(x[i]) / powellSingularLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * powellSingularLBFGSAnalyticStepScale(x[i], i, diffs) / powellSingularLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

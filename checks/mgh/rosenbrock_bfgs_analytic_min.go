@@ -433,7 +433,7 @@ func (r *rosenbrockBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if rosenbrockBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if rosenbrockBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = rosenbrockBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *rosenbrockBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := rosenbrockBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := rosenbrockBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := rosenbrockBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (mea
 }
 
 // rosenbrockBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·rosenbrockBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*rosenbrockBFGSAnalyticStepScale(x[i])) {
+		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*rosenbrockBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // rosenbrockBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func rosenbrockBFGSAnalyticStepScale(xi float64) float64 {
+func rosenbrockBFGSAnalyticStepScale(xi float64, i int, diffs *rosenbrockBFGSAnalyticDifferences) float64 {
 	return rosenbrockBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func rosenbrockBFGSAnalyticSolveDirection(dir *rosenbrockBFGSAnalyticDirection, 
 
 // rosenbrockBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·rosenbrockBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * rosenbrockBFGSAnalyticStepScale(x[i]) / rosenbrockBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockBFGSAnalyticStepScale(x[i], i, diffs) / rosenbrockBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

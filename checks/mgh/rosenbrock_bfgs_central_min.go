@@ -433,7 +433,7 @@ func (r *rosenbrockBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if rosenbrockBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if rosenbrockBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = rosenbrockBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *rosenbrockBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := rosenbrockBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := rosenbrockBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := rosenbrockBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (meas
 }
 
 // rosenbrockBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·rosenbrockBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*rosenbrockBFGSCentralStepScale(x[i])) {
+		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*rosenbrockBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // rosenbrockBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func rosenbrockBFGSCentralStepScale(xi float64) float64 {
+func rosenbrockBFGSCentralStepScale(xi float64, i int, diffs *rosenbrockBFGSCentralDifferences) float64 {
 	return rosenbrockBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func rosenbrockBFGSCentralSolveDirection(dir *rosenbrockBFGSCentralDirection, g,
 
 // rosenbrockBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·rosenbrockBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * rosenbrockBFGSCentralStepScale(x[i]) / rosenbrockBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockBFGSCentralStepScale(x[i], i, diffs) / rosenbrockBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

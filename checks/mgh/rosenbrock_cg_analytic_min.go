@@ -433,7 +433,7 @@ func (r *rosenbrockCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if rosenbrockCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if rosenbrockCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = rosenbrockCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *rosenbrockCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := rosenbrockCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := rosenbrockCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := rosenbrockCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measu
 }
 
 // rosenbrockCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·rosenbrockCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*rosenbrockCGAnalyticStepScale(x[i])) {
+		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*rosenbrockCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // rosenbrockCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func rosenbrockCGAnalyticStepScale(xi float64) float64 {
+func rosenbrockCGAnalyticStepScale(xi float64, i int, diffs *rosenbrockCGAnalyticDifferences) float64 {
 	return rosenbrockCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func rosenbrockCGAnalyticSolveDirection(dir *rosenbrockCGAnalyticDirection, g, d
 
 // rosenbrockCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·rosenbrockCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * rosenbrockCGAnalyticStepScale(x[i]) / rosenbrockCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockCGAnalyticStepScale(x[i], i, diffs) / rosenbrockCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

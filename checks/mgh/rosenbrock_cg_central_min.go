@@ -433,7 +433,7 @@ func (r *rosenbrockCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if rosenbrockCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if rosenbrockCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = rosenbrockCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *rosenbrockCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := rosenbrockCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := rosenbrockCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := rosenbrockCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func rosenbrockCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measur
 }
 
 // rosenbrockCGCentralStepWithin is the step test: every |s_i| ≤ tol·rosenbrockCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockCGCentralDifferences) bool {
 	for i := range s {
-		if !(rosenbrockCGCentralAbs(s[i]) <= tol*rosenbrockCGCentralStepScale(x[i])) {
+		if !(rosenbrockCGCentralAbs(s[i]) <= tol*rosenbrockCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // rosenbrockCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func rosenbrockCGCentralStepScale(xi float64) float64 {
+func rosenbrockCGCentralStepScale(xi float64, i int, diffs *rosenbrockCGCentralDifferences) float64 {
 	return rosenbrockCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func rosenbrockCGCentralSolveDirection(dir *rosenbrockCGCentralDirection, g, d *
 
 // rosenbrockCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·rosenbrockCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * rosenbrockCGCentralStepScale(x[i]) / rosenbrockCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockCGCentralStepScale(x[i], i, diffs) / rosenbrockCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

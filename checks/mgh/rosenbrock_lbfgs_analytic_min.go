@@ -434,7 +434,7 @@ func (r *rosenbrockLBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if rosenbrockLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if rosenbrockLBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = rosenbrockLBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *rosenbrockLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := rosenbrockLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := rosenbrockLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := rosenbrockLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (me
 }
 
 // rosenbrockLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·rosenbrockLBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockLBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*rosenbrockLBFGSAnalyticStepScale(x[i])) {
+		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*rosenbrockLBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // rosenbrockLBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func rosenbrockLBFGSAnalyticStepScale(xi float64) float64 {
+func rosenbrockLBFGSAnalyticStepScale(xi float64, i int, diffs *rosenbrockLBFGSAnalyticDifferences) float64 {
 	return rosenbrockLBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func rosenbrockLBFGSAnalyticSolveDirection(dir *rosenbrockLBFGSAnalyticDirection
 
 // rosenbrockLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·rosenbrockLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * rosenbrockLBFGSAnalyticStepScale(x[i]) / rosenbrockLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockLBFGSAnalyticStepScale(x[i], i, diffs) / rosenbrockLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *rosenbrockLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if rosenbrockLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if rosenbrockLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = rosenbrockLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *rosenbrockLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := rosenbrockLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := rosenbrockLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := rosenbrockLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (mea
 }
 
 // rosenbrockLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·rosenbrockLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*rosenbrockLBFGSCentralStepScale(x[i])) {
+		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*rosenbrockLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // rosenbrockLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func rosenbrockLBFGSCentralStepScale(xi float64) float64 {
+func rosenbrockLBFGSCentralStepScale(xi float64, i int, diffs *rosenbrockLBFGSCentralDifferences) float64 {
 	return rosenbrockLBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func rosenbrockLBFGSCentralSolveDirection(dir *rosenbrockLBFGSCentralDirection, 
 
 // rosenbrockLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·rosenbrockLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * rosenbrockLBFGSCentralStepScale(x[i]) / rosenbrockLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * rosenbrockLBFGSCentralStepScale(x[i], i, diffs) / rosenbrockLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

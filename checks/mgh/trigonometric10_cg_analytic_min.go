@@ -433,7 +433,7 @@ func (r *trigonometric10CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if trigonometric10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if trigonometric10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = trigonometric10CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *trigonometric10CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := trigonometric10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := trigonometric10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := trigonometric10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func trigonometric10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) 
 }
 
 // trigonometric10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·trigonometric10CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *trigonometric10CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*trigonometric10CGAnalyticStepScale(x[i])) {
+		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*trigonometric10CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 }
 
 // trigonometric10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func trigonometric10CGAnalyticStepScale(xi float64) float64 {
+func trigonometric10CGAnalyticStepScale(xi float64, i int, diffs *trigonometric10CGAnalyticDifferences) float64 {
 	return trigonometric10CGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func trigonometric10CGAnalyticSolveDirection(dir *trigonometric10CGAnalyticDirec
 
 // trigonometric10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·trigonometric10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * trigonometric10CGAnalyticStepScale(x[i]) / trigonometric10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10CGAnalyticStepScale(x[i], i, diffs) / trigonometric10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *trigonometric10LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if trigonometric10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if trigonometric10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = trigonometric10LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *trigonometric10LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := trigonometric10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := trigonometric10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := trigonometric10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func trigonometric10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float6
 }
 
 // trigonometric10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·trigonometric10LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *trigonometric10LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(trigonometric10LBFGSAnalyticAbs(s[i]) <= tol*trigonometric10LBFGSAnalyticStepScale(x[i])) {
+		if !(trigonometric10LBFGSAnalyticAbs(s[i]) <= tol*trigonometric10LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool
 }
 
 // trigonometric10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func trigonometric10LBFGSAnalyticStepScale(xi float64) float64 {
+func trigonometric10LBFGSAnalyticStepScale(xi float64, i int, diffs *trigonometric10LBFGSAnalyticDifferences) float64 {
 	return trigonometric10LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -945,11 +945,11 @@ func trigonometric10LBFGSAnalyticSolveDirection(dir *trigonometric10LBFGSAnalyti
 
 // trigonometric10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·trigonometric10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * trigonometric10LBFGSAnalyticStepScale(x[i]) / trigonometric10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * trigonometric10LBFGSAnalyticStepScale(x[i], i, diffs) / trigonometric10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *variablyDimensioned10BFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if variablyDimensioned10BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if variablyDimensioned10BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = variablyDimensioned10BFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *variablyDimensioned10BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := variablyDimensioned10BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := variablyDimensioned10BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := variablyDimensioned10BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1066,12 +1066,12 @@ func variablyDimensioned10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx fl
 }
 
 // variablyDimensioned10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10BFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10BFGSCentralDifferences) bool {
 	for i := range s {
-		if !(variablyDimensioned10BFGSCentralAbs(s[i]) <= tol*variablyDimensioned10BFGSCentralStepScale(x[i])) {
+		if !(variablyDimensioned10BFGSCentralAbs(s[i]) <= tol*variablyDimensioned10BFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1079,7 +1079,7 @@ func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64) 
 }
 
 // variablyDimensioned10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10BFGSCentralStepScale(xi float64) float64 {
+func variablyDimensioned10BFGSCentralStepScale(xi float64, i int, diffs *variablyDimensioned10BFGSCentralDifferences,) float64 {
 	return variablyDimensioned10BFGSCentralAbs(xi) + 1
 }
 
@@ -1099,11 +1099,11 @@ func variablyDimensioned10BFGSCentralSolveDirection(dir *variablyDimensioned10BF
 
 // variablyDimensioned10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·variablyDimensioned10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func variablyDimensioned10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+func variablyDimensioned10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * variablyDimensioned10BFGSCentralStepScale(x[i]) / variablyDimensioned10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10BFGSCentralStepScale(x[i], i, diffs) / variablyDimensioned10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

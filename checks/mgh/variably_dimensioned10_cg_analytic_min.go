@@ -433,7 +433,7 @@ func (r *variablyDimensioned10CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if variablyDimensioned10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if variablyDimensioned10CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = variablyDimensioned10CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *variablyDimensioned10CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := variablyDimensioned10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := variablyDimensioned10CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := variablyDimensioned10CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func variablyDimensioned10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx flo
 }
 
 // variablyDimensioned10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i])) {
+		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64) b
 }
 
 // variablyDimensioned10CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10CGAnalyticStepScale(xi float64) float64 {
+func variablyDimensioned10CGAnalyticStepScale(xi float64, i int, diffs *variablyDimensioned10CGAnalyticDifferences) float64 {
 	return variablyDimensioned10CGAnalyticAbs(xi) + 1
 }
 
@@ -908,11 +908,11 @@ func variablyDimensioned10CGAnalyticSolveDirection(dir *variablyDimensioned10CGA
 
 // variablyDimensioned10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·variablyDimensioned10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i]) / variablyDimensioned10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i], i, diffs) / variablyDimensioned10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

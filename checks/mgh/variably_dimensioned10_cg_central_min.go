@@ -433,7 +433,7 @@ func (r *variablyDimensioned10CGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if variablyDimensioned10CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if variablyDimensioned10CGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = variablyDimensioned10CGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *variablyDimensioned10CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := variablyDimensioned10CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := variablyDimensioned10CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := variablyDimensioned10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func variablyDimensioned10CGCentralGradientMeasure(g, e, x *[10]float64, fx floa
 }
 
 // variablyDimensioned10CGCentralStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10CGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func variablyDimensioned10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
+func variablyDimensioned10CGCentralStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10CGCentralDifferences) bool {
 	for i := range s {
-		if !(variablyDimensioned10CGCentralAbs(s[i]) <= tol*variablyDimensioned10CGCentralStepScale(x[i])) {
+		if !(variablyDimensioned10CGCentralAbs(s[i]) <= tol*variablyDimensioned10CGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func variablyDimensioned10CGCentralStepWithin(s, x *[10]float64, tol float64) bo
 }
 
 // variablyDimensioned10CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10CGCentralStepScale(xi float64) float64 {
+func variablyDimensioned10CGCentralStepScale(xi float64, i int, diffs *variablyDimensioned10CGCentralDifferences) float64 {
 	return variablyDimensioned10CGCentralAbs(xi) + 1
 }
 
@@ -1087,11 +1087,11 @@ func variablyDimensioned10CGCentralSolveDirection(dir *variablyDimensioned10CGCe
 
 // variablyDimensioned10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·variablyDimensioned10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10CGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * variablyDimensioned10CGCentralStepScale(x[i]) / variablyDimensioned10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10CGCentralStepScale(x[i], i, diffs) / variablyDimensioned10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

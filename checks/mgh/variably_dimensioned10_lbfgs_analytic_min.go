@@ -434,7 +434,7 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if variablyDimensioned10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if variablyDimensioned10LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = variablyDimensioned10LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := variablyDimensioned10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := variablyDimensioned10LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := variablyDimensioned10LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -913,12 +913,12 @@ func variablyDimensioned10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx 
 }
 
 // variablyDimensioned10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(variablyDimensioned10LBFGSAnalyticAbs(s[i]) <= tol*variablyDimensioned10LBFGSAnalyticStepScale(x[i])) {
+		if !(variablyDimensioned10LBFGSAnalyticAbs(s[i]) <= tol*variablyDimensioned10LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -926,7 +926,7 @@ func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64
 }
 
 // variablyDimensioned10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10LBFGSAnalyticStepScale(xi float64) float64 {
+func variablyDimensioned10LBFGSAnalyticStepScale(xi float64, i int, diffs *variablyDimensioned10LBFGSAnalyticDifferences,) float64 {
 	return variablyDimensioned10LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -946,11 +946,11 @@ func variablyDimensioned10LBFGSAnalyticSolveDirection(dir *variablyDimensioned10
 
 // variablyDimensioned10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·variablyDimensioned10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * variablyDimensioned10LBFGSAnalyticStepScale(x[i]) / variablyDimensioned10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10LBFGSAnalyticStepScale(x[i], i, diffs) / variablyDimensioned10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *variablyDimensioned10LBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if variablyDimensioned10LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if variablyDimensioned10LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = variablyDimensioned10LBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *variablyDimensioned10LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := variablyDimensioned10LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := variablyDimensioned10LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [10]float64
 	found := variablyDimensioned10LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1092,12 +1092,12 @@ func variablyDimensioned10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx f
 }
 
 // variablyDimensioned10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·variablyDimensioned10LBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10LBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(variablyDimensioned10LBFGSCentralAbs(s[i]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i])) {
+		if !(variablyDimensioned10LBFGSCentralAbs(s[i]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1105,7 +1105,7 @@ func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64)
 }
 
 // variablyDimensioned10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10LBFGSCentralStepScale(xi float64) float64 {
+func variablyDimensioned10LBFGSCentralStepScale(xi float64, i int, diffs *variablyDimensioned10LBFGSCentralDifferences,) float64 {
 	return variablyDimensioned10LBFGSCentralAbs(xi) + 1
 }
 
@@ -1125,11 +1125,11 @@ func variablyDimensioned10LBFGSCentralSolveDirection(dir *variablyDimensioned10L
 
 // variablyDimensioned10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·variablyDimensioned10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i]) / variablyDimensioned10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i], i, diffs) / variablyDimensioned10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

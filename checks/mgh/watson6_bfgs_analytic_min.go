@@ -433,7 +433,7 @@ func (r *watson6BFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson6BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson6BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson6BFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *watson6BFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson6BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson6BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := watson6BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func watson6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measur
 }
 
 // watson6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson6BFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *watson6BFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(watson6BFGSAnalyticAbs(s[i]) <= tol*watson6BFGSAnalyticStepScale(x[i])) {
+		if !(watson6BFGSAnalyticAbs(s[i]) <= tol*watson6BFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // watson6BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson6BFGSAnalyticStepScale(xi float64) float64 {
+func watson6BFGSAnalyticStepScale(xi float64, i int, diffs *watson6BFGSAnalyticDifferences) float64 {
 	return watson6BFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func watson6BFGSAnalyticSolveDirection(dir *watson6BFGSAnalyticDirection, g, d *
 
 // watson6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson6BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson6BFGSAnalyticStepScale(x[i]) / watson6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6BFGSAnalyticStepScale(x[i], i, diffs) / watson6BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *watson6BFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson6BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson6BFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson6BFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *watson6BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson6BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson6BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := watson6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure
 }
 
 // watson6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·watson6BFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64, diffs *watson6BFGSCentralDifferences) bool {
 	for i := range s {
-		if !(watson6BFGSCentralAbs(s[i]) <= tol*watson6BFGSCentralStepScale(x[i])) {
+		if !(watson6BFGSCentralAbs(s[i]) <= tol*watson6BFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // watson6BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson6BFGSCentralStepScale(xi float64) float64 {
+func watson6BFGSCentralStepScale(xi float64, i int, diffs *watson6BFGSCentralDifferences) float64 {
 	return watson6BFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func watson6BFGSCentralSolveDirection(dir *watson6BFGSCentralDirection, g, d *[6
 
 // watson6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
+func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson6BFGSCentralStepScale(x[i]) / watson6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6BFGSCentralStepScale(x[i], i, diffs) / watson6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *watson6CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson6CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson6CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson6CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *watson6CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson6CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson6CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := watson6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func watson6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure,
 }
 
 // watson6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson6CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+func watson6CGAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *watson6CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(watson6CGAnalyticAbs(s[i]) <= tol*watson6CGAnalyticStepScale(x[i])) {
+		if !(watson6CGAnalyticAbs(s[i]) <= tol*watson6CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func watson6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // watson6CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson6CGAnalyticStepScale(xi float64) float64 {
+func watson6CGAnalyticStepScale(xi float64, i int, diffs *watson6CGAnalyticDifferences) float64 {
 	return watson6CGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func watson6CGAnalyticSolveDirection(dir *watson6CGAnalyticDirection, g, d *[6]f
 
 // watson6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson6CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson6CGAnalyticStepScale(x[i]) / watson6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6CGAnalyticStepScale(x[i], i, diffs) / watson6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *watson6LBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson6LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson6LBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson6LBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *watson6LBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson6LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson6LBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [6]float64
 	found := watson6LBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measu
 }
 
 // watson6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson6LBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *watson6LBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*watson6LBFGSAnalyticStepScale(x[i])) {
+		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*watson6LBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 }
 
 // watson6LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson6LBFGSAnalyticStepScale(xi float64) float64 {
+func watson6LBFGSAnalyticStepScale(xi float64, i int, diffs *watson6LBFGSAnalyticDifferences) float64 {
 	return watson6LBFGSAnalyticAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func watson6LBFGSAnalyticSolveDirection(dir *watson6LBFGSAnalyticDirection, g, d
 
 // watson6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson6LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson6LBFGSAnalyticStepScale(x[i]) / watson6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson6LBFGSAnalyticStepScale(x[i], i, diffs) / watson6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

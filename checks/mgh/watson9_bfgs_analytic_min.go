@@ -433,7 +433,7 @@ func (r *watson9BFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson9BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson9BFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson9BFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *watson9BFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson9BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson9BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [9]float64
 	found := watson9BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func watson9BFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measur
 }
 
 // watson9BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson9BFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64, diffs *watson9BFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*watson9BFGSAnalyticStepScale(x[i])) {
+		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*watson9BFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 }
 
 // watson9BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson9BFGSAnalyticStepScale(xi float64) float64 {
+func watson9BFGSAnalyticStepScale(xi float64, i int, diffs *watson9BFGSAnalyticDifferences) float64 {
 	return watson9BFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func watson9BFGSAnalyticSolveDirection(dir *watson9BFGSAnalyticDirection, g, d *
 
 // watson9BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson9BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
+func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson9BFGSAnalyticStepScale(x[i]) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9BFGSAnalyticStepScale(x[i], i, diffs) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *watson9CGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson9CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson9CGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson9CGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *watson9CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson9CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson9CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [9]float64
 	found := watson9CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure,
 }
 
 // watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·watson9CGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64, diffs *watson9CGAnalyticDifferences) bool {
 	for i := range s {
-		if !(watson9CGAnalyticAbs(s[i]) <= tol*watson9CGAnalyticStepScale(x[i])) {
+		if !(watson9CGAnalyticAbs(s[i]) <= tol*watson9CGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 }
 
 // watson9CGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson9CGAnalyticStepScale(xi float64) float64 {
+func watson9CGAnalyticStepScale(xi float64, i int, diffs *watson9CGAnalyticDifferences) float64 {
 	return watson9CGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func watson9CGAnalyticSolveDirection(dir *watson9CGAnalyticDirection, g, d *[9]f
 
 // watson9CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson9CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
+func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson9CGAnalyticStepScale(x[i]) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9CGAnalyticStepScale(x[i], i, diffs) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *watson9CGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson9CGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson9CGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson9CGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *watson9CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson9CGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson9CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [9]float64
 	found := watson9CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func watson9CGCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, 
 }
 
 // watson9CGCentralStepWithin is the step test: every |s_i| ≤ tol·watson9CGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson9CGCentralStepWithin(s, x *[9]float64, tol float64) bool {
+func watson9CGCentralStepWithin(s, x *[9]float64, tol float64, diffs *watson9CGCentralDifferences) bool {
 	for i := range s {
-		if !(watson9CGCentralAbs(s[i]) <= tol*watson9CGCentralStepScale(x[i])) {
+		if !(watson9CGCentralAbs(s[i]) <= tol*watson9CGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func watson9CGCentralStepWithin(s, x *[9]float64, tol float64) bool {
 }
 
 // watson9CGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson9CGCentralStepScale(xi float64) float64 {
+func watson9CGCentralStepScale(xi float64, i int, diffs *watson9CGCentralDifferences) float64 {
 	return watson9CGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func watson9CGCentralSolveDirection(dir *watson9CGCentralDirection, g, d *[9]flo
 
 // watson9CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson9CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson9CGCentralTinyStep(x, d *[9]float64, tol float64) float64 {
+func watson9CGCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson9CGCentralStepScale(x[i]) / watson9CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9CGCentralStepScale(x[i], i, diffs) / watson9CGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *watson9LBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if watson9LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if watson9LBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = watson9LBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *watson9LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson9LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := watson9LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [9]float64
 	found := watson9LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func watson9LBFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measur
 }
 
 // watson9LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·watson9LBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
+func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64, diffs *watson9LBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(watson9LBFGSCentralAbs(s[i]) <= tol*watson9LBFGSCentralStepScale(x[i])) {
+		if !(watson9LBFGSCentralAbs(s[i]) <= tol*watson9LBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
 }
 
 // watson9LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func watson9LBFGSCentralStepScale(xi float64) float64 {
+func watson9LBFGSCentralStepScale(xi float64, i int, diffs *watson9LBFGSCentralDifferences) float64 {
 	return watson9LBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func watson9LBFGSCentralSolveDirection(dir *watson9LBFGSCentralDirection, g, d *
 
 // watson9LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson9LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
+func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * watson9LBFGSCentralStepScale(x[i]) / watson9LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * watson9LBFGSCentralStepScale(x[i], i, diffs) / watson9LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

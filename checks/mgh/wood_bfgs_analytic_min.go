@@ -433,7 +433,7 @@ func (r *woodBFGSAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if woodBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if woodBFGSAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = woodBFGSAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *woodBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := woodBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := woodBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, 
 }
 
 // woodBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·woodBFGSAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *woodBFGSAnalyticDifferences) bool {
 	for i := range s {
-		if !(woodBFGSAnalyticAbs(s[i]) <= tol*woodBFGSAnalyticStepScale(x[i])) {
+		if !(woodBFGSAnalyticAbs(s[i]) <= tol*woodBFGSAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // woodBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func woodBFGSAnalyticStepScale(xi float64) float64 {
+func woodBFGSAnalyticStepScale(xi float64, i int, diffs *woodBFGSAnalyticDifferences) float64 {
 	return woodBFGSAnalyticAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func woodBFGSAnalyticSolveDirection(dir *woodBFGSAnalyticDirection, g, d *[4]flo
 
 // woodBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * woodBFGSAnalyticStepScale(x[i]) / woodBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodBFGSAnalyticStepScale(x[i], i, diffs) / woodBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

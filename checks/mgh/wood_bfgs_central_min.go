@@ -433,7 +433,7 @@ func (r *woodBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if woodBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if woodBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = woodBFGSCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *woodBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := woodBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := woodBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, f
 }
 
 // woodBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·woodBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *woodBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(woodBFGSCentralAbs(s[i]) <= tol*woodBFGSCentralStepScale(x[i])) {
+		if !(woodBFGSCentralAbs(s[i]) <= tol*woodBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // woodBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func woodBFGSCentralStepScale(xi float64) float64 {
+func woodBFGSCentralStepScale(xi float64, i int, diffs *woodBFGSCentralDifferences) float64 {
 	return woodBFGSCentralAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func woodBFGSCentralSolveDirection(dir *woodBFGSCentralDirection, g, d *[4]float
 
 // woodBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * woodBFGSCentralStepScale(x[i]) / woodBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodBFGSCentralStepScale(x[i], i, diffs) / woodBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

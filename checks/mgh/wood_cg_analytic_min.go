@@ -433,7 +433,7 @@ func (r *woodCGAnalyticDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if woodCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step) {
+		if woodCGAnalyticStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = woodCGAnalyticVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *woodCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := woodCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := woodCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -875,12 +875,12 @@ func woodCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, fl
 }
 
 // woodCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·woodCGAnalyticStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *woodCGAnalyticDifferences) bool {
 	for i := range s {
-		if !(woodCGAnalyticAbs(s[i]) <= tol*woodCGAnalyticStepScale(x[i])) {
+		if !(woodCGAnalyticAbs(s[i]) <= tol*woodCGAnalyticStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -888,7 +888,7 @@ func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // woodCGAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func woodCGAnalyticStepScale(xi float64) float64 {
+func woodCGAnalyticStepScale(xi float64, i int, diffs *woodCGAnalyticDifferences) float64 {
 	return woodCGAnalyticAbs(xi) + 1
 }
 
@@ -907,11 +907,11 @@ func woodCGAnalyticSolveDirection(dir *woodCGAnalyticDirection, g, d *[4]float64
 
 // woodCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
-func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * woodCGAnalyticStepScale(x[i]) / woodCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodCGAnalyticStepScale(x[i], i, diffs) / woodCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

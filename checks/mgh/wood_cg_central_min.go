@@ -433,7 +433,7 @@ func (r *woodCGCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if woodCGCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if woodCGCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = woodCGCentralVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *woodCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodCGCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := woodCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := woodCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1054,12 +1054,12 @@ func woodCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, flo
 }
 
 // woodCGCentralStepWithin is the step test: every |s_i| ≤ tol·woodCGCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func woodCGCentralStepWithin(s, x *[4]float64, tol float64, diffs *woodCGCentralDifferences) bool {
 	for i := range s {
-		if !(woodCGCentralAbs(s[i]) <= tol*woodCGCentralStepScale(x[i])) {
+		if !(woodCGCentralAbs(s[i]) <= tol*woodCGCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1067,7 +1067,7 @@ func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // woodCGCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func woodCGCentralStepScale(xi float64) float64 {
+func woodCGCentralStepScale(xi float64, i int, diffs *woodCGCentralDifferences) float64 {
 	return woodCGCentralAbs(xi) + 1
 }
 
@@ -1086,11 +1086,11 @@ func woodCGCentralSolveDirection(dir *woodCGCentralDirection, g, d *[4]float64, 
 
 // woodCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func woodCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodCGCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * woodCGCentralStepScale(x[i]) / woodCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodCGCentralStepScale(x[i], i, diffs) / woodCGCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *woodLBFGSCentralDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if woodLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step) {
+		if woodLBFGSCentralStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = woodLBFGSCentralVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *woodLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := woodLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [4]float64
 	found := woodLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1091,12 +1091,12 @@ func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, 
 }
 
 // woodLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·woodLBFGSCentralStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *woodLBFGSCentralDifferences) bool {
 	for i := range s {
-		if !(woodLBFGSCentralAbs(s[i]) <= tol*woodLBFGSCentralStepScale(x[i])) {
+		if !(woodLBFGSCentralAbs(s[i]) <= tol*woodLBFGSCentralStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1104,7 +1104,7 @@ func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 }
 
 // woodLBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func woodLBFGSCentralStepScale(xi float64) float64 {
+func woodLBFGSCentralStepScale(xi float64, i int, diffs *woodLBFGSCentralDifferences) float64 {
 	return woodLBFGSCentralAbs(xi) + 1
 }
 
@@ -1123,11 +1123,11 @@ func woodLBFGSCentralSolveDirection(dir *woodLBFGSCentralDirection, g, d *[4]flo
 
 // woodLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
-func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * woodLBFGSCentralStepScale(x[i]) / woodLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * woodLBFGSCentralStepScale(x[i], i, diffs) / woodLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -109,9 +109,9 @@ const gradientLimit = "1e-15"
 // parameters it evaluates to ~4.0E-21). In float64 each residual, about
 // 7.7E-14 at the solution (√(RSS/24)), carries rounding of u·|y| ≈ 3E-16
 // (y ≤ 2.5), a relative 4E-3, so the RSS can agree to about 2 digits:
-// Lanczos1's RSS is held to 2 (the table says so; measured 3.0–3.8).
+// Lanczos1's RSS is held to 2 (the table says so; measured 2.7–3.8).
 // Its standard deviations, which scale with √RSS, are held to the 3
-// digits of every other dataset (measured 3.3–4.1).
+// digits of every other dataset (measured 3.0–4.1).
 const lanczos1RSSDigits = 2
 
 func TestMain(m *testing.M) {

@@ -443,7 +443,7 @@ func (r *impliedVolDescent) judge(recv *Trade) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if impliedVolStepWithin(&r.s, &r.x, r.lim.Step) {
+		if impliedVolStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = impliedVolVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *impliedVolDescent) search(recv *Trade) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := impliedVolTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := impliedVolTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := impliedVolLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -919,12 +919,12 @@ func impliedVolGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor 
 }
 
 // impliedVolStepWithin is the step test: every |s_i| ≤ tol·impliedVolStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func impliedVolStepWithin(s, x *[1]float64, tol float64) bool {
+func impliedVolStepWithin(s, x *[1]float64, tol float64, diffs *impliedVolDifferences) bool {
 	for i := range s {
-		if !(impliedVolAbs(s[i]) <= tol*impliedVolStepScale(x[i])) {
+		if !(impliedVolAbs(s[i]) <= tol*impliedVolStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -932,7 +932,7 @@ func impliedVolStepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // impliedVolStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func impliedVolStepScale(xi float64) float64 {
+func impliedVolStepScale(xi float64, i int, diffs *impliedVolDifferences) float64 {
 	return impliedVolAbs(xi) + 1
 }
 
@@ -1015,11 +1015,11 @@ func impliedVolSolveDirection(dir *impliedVolDirection, g, d *[1]float64, diffs 
 
 // impliedVolTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·impliedVolStepScale(x_i)/|d_i|, or −1 when d is zero.
-func impliedVolTinyStep(x, d *[1]float64, tol float64) float64 {
+func impliedVolTinyStep(x, d *[1]float64, tol float64, diffs *impliedVolDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * impliedVolStepScale(x[i]) / impliedVolAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * impliedVolStepScale(x[i], i, diffs) / impliedVolAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *calibrateDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if calibrateStepWithin(&r.s, &r.x, r.lim.Step) {
+		if calibrateStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = calibrateVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *calibrateDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := calibrateTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := calibrateTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := calibrateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -886,12 +886,12 @@ func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor f
 }
 
 // calibrateStepWithin is the step test: every |s_i| ≤ tol·calibrateStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
+func calibrateStepWithin(s, x *[2]float64, tol float64, diffs *calibrateDifferences) bool {
 	for i := range s {
-		if !(calibrateAbs(s[i]) <= tol*calibrateStepScale(x[i])) {
+		if !(calibrateAbs(s[i]) <= tol*calibrateStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -899,7 +899,7 @@ func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // calibrateStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func calibrateStepScale(xi float64) float64 {
+func calibrateStepScale(xi float64, i int, diffs *calibrateDifferences) float64 {
 	return calibrateAbs(xi) + 1
 }
 
@@ -918,11 +918,11 @@ func calibrateSolveDirection(dir *calibrateDirection, g, d *[2]float64, diffs *c
 
 // calibrateTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·calibrateStepScale(x_i)/|d_i|, or −1 when d is zero.
-func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
+func calibrateTinyStep(x, d *[2]float64, tol float64, diffs *calibrateDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * calibrateStepScale(x[i]) / calibrateAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * calibrateStepScale(x[i], i, diffs) / calibrateAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

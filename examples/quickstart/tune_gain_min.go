@@ -433,7 +433,7 @@ func (r *tuneGainDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if tuneGainStepWithin(&r.s, &r.x, r.lim.Step) {
+		if tuneGainStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = tuneGainVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *tuneGainDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := tuneGainTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := tuneGainTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := tuneGainLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor fl
 }
 
 // tuneGainStepWithin is the step test: every |s_i| ≤ tol·tuneGainStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
+func tuneGainStepWithin(s, x *[1]float64, tol float64, diffs *tuneGainDifferences) bool {
 	for i := range s {
-		if !(tuneGainAbs(s[i]) <= tol*tuneGainStepScale(x[i])) {
+		if !(tuneGainAbs(s[i]) <= tol*tuneGainStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // tuneGainStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func tuneGainStepScale(xi float64) float64 {
+func tuneGainStepScale(xi float64, i int, diffs *tuneGainDifferences) float64 {
 	return tuneGainAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func tuneGainSolveDirection(dir *tuneGainDirection, g, d *[1]float64, diffs *tun
 
 // tuneGainTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·tuneGainStepScale(x_i)/|d_i|, or −1 when d is zero.
-func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
+func tuneGainTinyStep(x, d *[1]float64, tol float64, diffs *tuneGainDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * tuneGainStepScale(x[i]) / tuneGainAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * tuneGainStepScale(x[i], i, diffs) / tuneGainAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

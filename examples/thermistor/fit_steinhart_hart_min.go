@@ -460,7 +460,7 @@ func (r *fitSteinhartHartDescent) judge(recv *Calibration) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if fitSteinhartHartStepWithin(&r.s, &r.x, r.lim.Step) {
+		if fitSteinhartHartStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = fitSteinhartHartVerifyStall, true
 			return
 		}
@@ -493,7 +493,7 @@ func (r *fitSteinhartHartDescent) search(recv *Calibration) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := fitSteinhartHartTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := fitSteinhartHartTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := fitSteinhartHartLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1092,12 +1092,12 @@ func fitSteinhartHartGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 }
 
 // fitSteinhartHartStepWithin is the step test: every |s_i| ≤ tol·fitSteinhartHartStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func fitSteinhartHartStepWithin(s, x *[3]float64, tol float64) bool {
+func fitSteinhartHartStepWithin(s, x *[3]float64, tol float64, diffs *fitSteinhartHartDifferences) bool {
 	for i := range s {
-		if !(fitSteinhartHartAbs(s[i]) <= tol*fitSteinhartHartStepScale(x[i])) {
+		if !(fitSteinhartHartAbs(s[i]) <= tol*fitSteinhartHartStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1105,7 +1105,7 @@ func fitSteinhartHartStepWithin(s, x *[3]float64, tol float64) bool {
 }
 
 // fitSteinhartHartStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func fitSteinhartHartStepScale(xi float64) float64 {
+func fitSteinhartHartStepScale(xi float64, i int, diffs *fitSteinhartHartDifferences) float64 {
 	return fitSteinhartHartAbs(xi) + 1
 }
 
@@ -1124,11 +1124,11 @@ func fitSteinhartHartSolveDirection(dir *fitSteinhartHartDirection, g, d *[3]flo
 
 // fitSteinhartHartTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·fitSteinhartHartStepScale(x_i)/|d_i|, or −1 when d is zero.
-func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64) float64 {
+func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64, diffs *fitSteinhartHartDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * fitSteinhartHartStepScale(x[i]) / fitSteinhartHartAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * fitSteinhartHartStepScale(x[i], i, diffs) / fitSteinhartHartAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -443,7 +443,7 @@ func (r *reachDescent) judge(recv *Arm) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if reachStepWithin(&r.s, &r.x, r.lim.Step) {
+		if reachStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = reachVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *reachDescent) search(recv *Arm) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := reachTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := reachTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float32
 	found := reachLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -919,12 +919,12 @@ func reachGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float
 }
 
 // reachStepWithin is the step test: every |s_i| ≤ tol·reachStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func reachStepWithin(s, x *[2]float32, tol float32) bool {
+func reachStepWithin(s, x *[2]float32, tol float32, diffs *reachDifferences) bool {
 	for i := range s {
-		if !(reachAbs(s[i]) <= tol*reachStepScale(x[i])) {
+		if !(reachAbs(s[i]) <= tol*reachStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -932,7 +932,7 @@ func reachStepWithin(s, x *[2]float32, tol float32) bool {
 }
 
 // reachStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func reachStepScale(xi float32) float32 {
+func reachStepScale(xi float32, i int, diffs *reachDifferences) float32 {
 	return reachAbs(xi) + 1
 }
 
@@ -1015,11 +1015,11 @@ func reachSolveDirection(dir *reachDirection, g, d *[2]float32, diffs *reachDiff
 
 // reachTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·reachStepScale(x_i)/|d_i|, or −1 when d is zero.
-func reachTinyStep(x, d *[2]float32, tol float32) float32 {
+func reachTinyStep(x, d *[2]float32, tol float32, diffs *reachDifferences) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * reachStepScale(x[i]) / reachAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * reachStepScale(x[i], i, diffs) / reachAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -77,7 +77,7 @@ type FitCoolingResult struct {
 // FitCoolingLimits are the stop limits of one run. Pass them to FitCoolingWithLimits to change them at run time; FitCoolingDefaultLimits returns the spec's.
 type FitCoolingLimits struct {
 	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most three times the measure of their error bound where that is larger); the result reports the limit used
-	Step        float64 // stop when every |Δxᵢ| is at most this·|xᵢ| (this·1 where xᵢ = 0): relative, as fitted parameters are often far below 1
+	Step        float64 // stop when every |Δxᵢ| is at most this·max(|xᵢ|, |x0ᵢ|) (|x0ᵢ| read as 1 where the start's x0ᵢ is 0): relative, as fitted parameters are often far below 1
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -102,7 +102,7 @@ type fitCoolingBox struct{}
 // Residual objective: 5 residuals, f = ½‖r‖², each objective call one call of Cooling. Derivative analytic: the user's own Jacobian of the residuals (spec key `jacobian`), g = Jᵀr; costs no residual calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: c1 0.0001, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·|xᵢ|, 20000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·max(|xᵢ|, |x0ᵢ|), 20000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 960049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -455,7 +455,7 @@ func (r *fitCoolingDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if fitCoolingStepWithin(&r.s, &r.x, r.lim.Step) {
+		if fitCoolingStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = fitCoolingVerifyStall, true
 			return
 		}
@@ -488,7 +488,7 @@ func (r *fitCoolingDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := fitCoolingTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := fitCoolingTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float64
 	found := fitCoolingLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -590,6 +590,7 @@ type fitCoolingResidualModel struct {
 	growth  float64       // ν, the factor of λ's next rise
 	wide    bool          // whether difference Jacobians take twice their intervals (fitCoolingSettle)
 	noise   float64       // the rounding noise of f at the current point (fitCoolingDerivative)
+	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingCalibrate)
 }
 
 // fitCoolingDirection is the memory of the least-squares directions:
@@ -663,9 +664,24 @@ func fitCoolingFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// fitCoolingCalibrate: an analytic gradient needs no intervals.
+// fitCoolingCalibrate records each unknown's typical size at the start:
+// |x₀ᵢ|, or 1 where x₀ᵢ = 0. It makes no call.
 func fitCoolingCalibrate(x *[3]float64, fx float64, diffs *fitCoolingDifferences, budget int) (int, bool) {
+	for i, xi := range x {
+		diffs.model.typical[i] = fitCoolingAbs(xi)
+		if xi == 0 {
+			diffs.model.typical[i] = 1
+		}
+	}
 	return 0, true
+}
+
+// fitCoolingAbs returns |v|.
+func fitCoolingAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
 }
 
 // fitCoolingDerivative is the gradient of f = ½‖r‖², g = Jᵀr (Nocedal &
@@ -738,14 +754,6 @@ func fitCoolingLarger(a, b float64) float64 {
 	return b
 }
 
-// fitCoolingAbs returns |v|.
-func fitCoolingAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
 // fitCoolingNoiseLevel is the absolute error assumed in a computed value fx of the
 // objective at x, where its gradient is about g:
 //
@@ -778,7 +786,12 @@ func fitCoolingJacobianError(x *[3]float64, jac *[5][3]float64, r *[5]float64, e
 // made in gᵢ = (Jᵀr)ᵢ, which measures the truncation the error model
 // cannot see (a third derivative far above the slope's, as in rational
 // models) and rounding above it (Richardson's comparison of two
-// intervals; the factor three is common practice); fitCoolingDerivativeCost
+// intervals; the factor three is common practice). A change above
+// 10⁻³ of Σₖ|Jₖᵢrₖ| is no error of the difference but residuals that
+// are not smooth within the intervals (a kink or a jump): it is not
+// added, so that it cannot raise the limit into a false convergence
+// (the 10⁻³ is ours: for smooth residuals the change is O(h²), far
+// below it). It costs fitCoolingDerivativeCost
 // residual calls, one more should the residuals at x not be at hand. At
 // a stall (stall true) it adds the rounding floor 4u·|xᵢ|·(JᵀJ)ᵢᵢ, the
 // change that moving xᵢ by a few of its rounding units makes in gᵢ, with
@@ -804,14 +817,24 @@ func fitCoolingSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitCoo
 		m.wide = true
 		calls += fitCoolingJacobian(x, &m.r, &jac, diffs)
 		m.wide = false
-		var wide [3]float64
+		var wide, size [3]float64
 		for k := range jac {
 			for i := range wide {
 				wide[i] += jac[k][i] * m.r[k]
+				size[i] += fitCoolingAbs(jac[k][i] * m.r[k])
 			}
 		}
 		for i := range e {
-			e[i] += 3 * fitCoolingAbs(wide[i]-g[i]) // Richardson: the change with twice the intervals
+			change := fitCoolingAbs(wide[i] - g[i])
+			if change > 1e-3*size[i] {
+				// The two Jacobians disagree beyond what smooth residuals
+				// allow at these intervals (a kink or a jump within h):
+				// J means nothing here, and no limit raised from it
+				// would be an honest convergence. The test judges g
+				// with the model's bound alone.
+				continue
+			}
+			e[i] += 3 * change // Richardson: the change with twice the intervals
 		}
 	}
 	if stall {
@@ -855,31 +878,32 @@ func fitCoolingGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor 
 }
 
 // fitCoolingStepWithin is the step test: every |s_i| ≤ tol·fitCoolingStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func fitCoolingStepWithin(s, x *[3]float64, tol float64) bool {
+func fitCoolingStepWithin(s, x *[3]float64, tol float64, diffs *fitCoolingDifferences) bool {
 	for i := range s {
-		if !(fitCoolingAbs(s[i]) <= tol*fitCoolingStepScale(x[i])) {
+		if !(fitCoolingAbs(s[i]) <= tol*fitCoolingStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
 	return true
 }
 
-// fitCoolingStepScale is the scale of xⱼ for a residual objective: |xⱼ|, or 1 at
-// xⱼ = 0, for the difference intervals of its Jacobian and for the step
-// test. Relative intervals and a relative step test are MINPACK's choices
-// for fitting (J. J. Moré, B. S. Garbow and K. E. Hillstrom, User Guide
-// for MINPACK-1, Argonne ANL-80-74, 1980, fdjac2 and the test on xtol;
-// from memory): fitted parameters are often far below 1 (a rate of
-// 1e-6), where an absolute interval would swamp them and an absolute
-// step test would stop the run with digits still to find.
-func fitCoolingStepScale(xj float64) float64 {
-	if xj == 0 {
-		return 1
-	}
-	return fitCoolingAbs(xj)
+// fitCoolingStepScale is the scale of xⱼ for a residual objective, for the
+// difference intervals of its Jacobian and for the step test:
+// max(|xⱼ|, typicalⱼ), typicalⱼ the size of the start's xⱼ (1 where it
+// is 0), the typical magnitude of Dennis & Schnabel 1983, §7.1, taken
+// from the start. Relative intervals and a relative step test are
+// MINPACK's choices for fitting (J. J. Moré, B. S. Garbow and
+// K. E. Hillstrom, User Guide for MINPACK-1, Argonne ANL-80-74, 1980,
+// fdjac2 and the test on xtol; from memory): fitted parameters are
+// often far below 1 (a rate of 1e-6), where an absolute interval would
+// swamp them and an absolute step test would stop the run with digits
+// still to find; the typical size keeps them from collapsing where an
+// unknown of size 1 passes near 0.
+func fitCoolingStepScale(xj float64, j int, diffs *fitCoolingDifferences) float64 {
+	return fitCoolingLarger(fitCoolingAbs(xj), diffs.model.typical[j])
 }
 
 // fitCoolingCurvaturePair: without bounds the pair is used as it is.
@@ -1022,11 +1046,11 @@ func fitCoolingDot(a, b *[3]float64) float64 {
 
 // fitCoolingTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·fitCoolingStepScale(x_i)/|d_i|, or −1 when d is zero.
-func fitCoolingTinyStep(x, d *[3]float64, tol float64) float64 {
+func fitCoolingTinyStep(x, d *[3]float64, tol float64, diffs *fitCoolingDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * fitCoolingStepScale(x[i]) / fitCoolingAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * fitCoolingStepScale(x[i], i, diffs) / fitCoolingAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1174,6 +1198,7 @@ const fitCoolingUnlimited = int(^uint(0) >> 1)
 // value is not finite.
 func fitCoolingUncertainty(x [3]float64, bounds fitCoolingBox) (cov [3][3]float64, stdErr [3]float64, variance float64, calls int, ok bool) {
 	diffs := fitCoolingDifferences{bounds: bounds}
+	fitCoolingCalibrate(&x, 0, &diffs, 0) // the fit's own sizes for the intervals
 	var g [3]float64
 	fx := fitCoolingValue(&x, &g, &diffs)
 	calls = 1 + fitCoolingDerivative(&x, fx, &g, &diffs)

@@ -443,7 +443,7 @@ func (r *minBowlInBoxDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minBowlInBoxStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minBowlInBoxStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minBowlInBoxVerifyStall, true
 			return
 		}
@@ -476,7 +476,7 @@ func (r *minBowlInBoxDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minBowlInBoxTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minBowlInBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float32
 	found := minBowlInBoxLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1098,12 +1098,12 @@ func minBowlInBoxGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floo
 }
 
 // minBowlInBoxStepWithin is the step test: every |s_i| ≤ tol·minBowlInBoxStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minBowlInBoxStepWithin(s, x *[3]float32, tol float32) bool {
+func minBowlInBoxStepWithin(s, x *[3]float32, tol float32, diffs *minBowlInBoxDifferences) bool {
 	for i := range s {
-		if !(minBowlInBoxAbs(s[i]) <= tol*minBowlInBoxStepScale(x[i])) {
+		if !(minBowlInBoxAbs(s[i]) <= tol*minBowlInBoxStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1111,7 +1111,7 @@ func minBowlInBoxStepWithin(s, x *[3]float32, tol float32) bool {
 }
 
 // minBowlInBoxStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minBowlInBoxStepScale(xi float32) float32 {
+func minBowlInBoxStepScale(xi float32, i int, diffs *minBowlInBoxDifferences) float32 {
 	return minBowlInBoxAbs(xi) + 1
 }
 
@@ -1194,11 +1194,11 @@ func minBowlInBoxSolveDirection(dir *minBowlInBoxDirection, g, d *[3]float32, di
 
 // minBowlInBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minBowlInBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minBowlInBoxTinyStep(x, d *[3]float32, tol float32) float32 {
+func minBowlInBoxTinyStep(x, d *[3]float32, tol float32, diffs *minBowlInBoxDifferences) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minBowlInBoxStepScale(x[i]) / minBowlInBoxAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minBowlInBoxStepScale(x[i], i, diffs) / minBowlInBoxAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

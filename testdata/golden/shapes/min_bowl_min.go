@@ -434,7 +434,7 @@ func (r *minBowlDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minBowlStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minBowlStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minBowlVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *minBowlDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minBowlTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minBowlTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [3]float32
 	found := minBowlLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1031,12 +1031,12 @@ func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor flo
 }
 
 // minBowlStepWithin is the step test: every |s_i| ≤ tol·minBowlStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
+func minBowlStepWithin(s, x *[3]float32, tol float32, diffs *minBowlDifferences) bool {
 	for i := range s {
-		if !(minBowlAbs(s[i]) <= tol*minBowlStepScale(x[i])) {
+		if !(minBowlAbs(s[i]) <= tol*minBowlStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1044,7 +1044,7 @@ func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
 }
 
 // minBowlStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minBowlStepScale(xi float32) float32 {
+func minBowlStepScale(xi float32, i int, diffs *minBowlDifferences) float32 {
 	return minBowlAbs(xi) + 1
 }
 
@@ -1063,11 +1063,11 @@ func minBowlSolveDirection(dir *minBowlDirection, g, d *[3]float32, diffs *minBo
 
 // minBowlTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minBowlStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
+func minBowlTinyStep(x, d *[3]float32, tol float32, diffs *minBowlDifferences) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minBowlStepScale(x[i]) / minBowlAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minBowlStepScale(x[i], i, diffs) / minBowlAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -433,7 +433,7 @@ func (r *minParabolaDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minParabolaStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minParabolaStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minParabolaVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *minParabolaDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minParabolaTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minParabolaTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [1]float64
 	found := minParabolaLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1065,12 +1065,12 @@ func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor
 }
 
 // minParabolaStepWithin is the step test: every |s_i| ≤ tol·minParabolaStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
+func minParabolaStepWithin(s, x *[1]float64, tol float64, diffs *minParabolaDifferences) bool {
 	for i := range s {
-		if !(minParabolaAbs(s[i]) <= tol*minParabolaStepScale(x[i])) {
+		if !(minParabolaAbs(s[i]) <= tol*minParabolaStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1078,7 +1078,7 @@ func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
 }
 
 // minParabolaStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minParabolaStepScale(xi float64) float64 {
+func minParabolaStepScale(xi float64, i int, diffs *minParabolaDifferences) float64 {
 	return minParabolaAbs(xi) + 1
 }
 
@@ -1097,11 +1097,11 @@ func minParabolaSolveDirection(dir *minParabolaDirection, g, d *[1]float64, diff
 
 // minParabolaTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minParabolaStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
+func minParabolaTinyStep(x, d *[1]float64, tol float64, diffs *minParabolaDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minParabolaStepScale(x[i]) / minParabolaAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minParabolaStepScale(x[i], i, diffs) / minParabolaAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

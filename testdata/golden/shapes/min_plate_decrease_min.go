@@ -432,7 +432,7 @@ func (r *minPlateDecreaseDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minPlateDecreaseStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minPlateDecreaseStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minPlateDecreaseVerifyStall, true
 			return
 		}
@@ -465,7 +465,7 @@ func (r *minPlateDecreaseDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minPlateDecreaseTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minPlateDecreaseTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float32
 	found := minPlateDecreaseLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -1024,12 +1024,12 @@ func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, 
 }
 
 // minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·minPlateDecreaseStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
+func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32, diffs *minPlateDecreaseDifferences) bool {
 	for i := range s {
-		if !(minPlateDecreaseAbs(s[i]) <= tol*minPlateDecreaseStepScale(x[i])) {
+		if !(minPlateDecreaseAbs(s[i]) <= tol*minPlateDecreaseStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -1037,7 +1037,7 @@ func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
 }
 
 // minPlateDecreaseStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minPlateDecreaseStepScale(xi float32) float32 {
+func minPlateDecreaseStepScale(xi float32, i int, diffs *minPlateDecreaseDifferences) float32 {
 	return minPlateDecreaseAbs(xi) + 1
 }
 
@@ -1065,11 +1065,11 @@ func minPlateDecreaseDot(a, b *[2]float32) float32 {
 
 // minPlateDecreaseTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minPlateDecreaseStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
+func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDecreaseDifferences) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minPlateDecreaseStepScale(x[i]) / minPlateDecreaseAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minPlateDecreaseStepScale(x[i], i, diffs) / minPlateDecreaseAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

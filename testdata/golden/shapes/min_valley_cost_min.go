@@ -433,7 +433,7 @@ func (r *minValleyCostDescent) judge(recv *Valley) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minValleyCostStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minValleyCostStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minValleyCostVerifyStall, true
 			return
 		}
@@ -466,7 +466,7 @@ func (r *minValleyCostDescent) search(recv *Valley) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minValleyCostTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minValleyCostTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := minValleyCostLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -840,12 +840,12 @@ func minValleyCostGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 }
 
 // minValleyCostStepWithin is the step test: every |s_i| ≤ tol·minValleyCostStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minValleyCostStepWithin(s, x *[2]float64, tol float64) bool {
+func minValleyCostStepWithin(s, x *[2]float64, tol float64, diffs *minValleyCostDifferences) bool {
 	for i := range s {
-		if !(minValleyCostAbs(s[i]) <= tol*minValleyCostStepScale(x[i])) {
+		if !(minValleyCostAbs(s[i]) <= tol*minValleyCostStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -853,7 +853,7 @@ func minValleyCostStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // minValleyCostStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minValleyCostStepScale(xi float64) float64 {
+func minValleyCostStepScale(xi float64, i int, diffs *minValleyCostDifferences) float64 {
 	return minValleyCostAbs(xi) + 1
 }
 
@@ -872,11 +872,11 @@ func minValleyCostSolveDirection(dir *minValleyCostDirection, g, d *[2]float64, 
 
 // minValleyCostTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minValleyCostStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minValleyCostTinyStep(x, d *[2]float64, tol float64) float64 {
+func minValleyCostTinyStep(x, d *[2]float64, tol float64, diffs *minValleyCostDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minValleyCostStepScale(x[i]) / minValleyCostAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minValleyCostStepScale(x[i], i, diffs) / minValleyCostAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -434,7 +434,7 @@ func (r *minValleyDescent) judge(recv *Valley) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minValleyStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minValleyStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minValleyVerifyStall, true
 			return
 		}
@@ -467,7 +467,7 @@ func (r *minValleyDescent) search(recv *Valley) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minValleyTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minValleyTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := minValleyLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -912,12 +912,12 @@ func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor f
 }
 
 // minValleyStepWithin is the step test: every |s_i| ≤ tol·minValleyStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
+func minValleyStepWithin(s, x *[2]float64, tol float64, diffs *minValleyDifferences) bool {
 	for i := range s {
-		if !(minValleyAbs(s[i]) <= tol*minValleyStepScale(x[i])) {
+		if !(minValleyAbs(s[i]) <= tol*minValleyStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -925,7 +925,7 @@ func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // minValleyStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minValleyStepScale(xi float64) float64 {
+func minValleyStepScale(xi float64, i int, diffs *minValleyDifferences) float64 {
 	return minValleyAbs(xi) + 1
 }
 
@@ -944,11 +944,11 @@ func minValleySolveDirection(dir *minValleyDirection, g, d *[2]float64, diffs *m
 
 // minValleyTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minValleyStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
+func minValleyTinyStep(x, d *[2]float64, tol float64, diffs *minValleyDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minValleyStepScale(x[i]) / minValleyAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minValleyStepScale(x[i], i, diffs) / minValleyAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -487,7 +487,7 @@ func (r *minValleyScaledDescent) judge(recv *Valley) {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minValleyScaledStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minValleyScaledStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minValleyScaledVerifyStall, true
 			return
 		}
@@ -520,7 +520,7 @@ func (r *minValleyScaledDescent) search(recv *Valley) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minValleyScaledTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minValleyScaledTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float64
 	found := minValleyScaledLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -963,12 +963,12 @@ func minValleyScaledGradientMeasure(g, e, x *[2]float64, fx float64) (measure, f
 }
 
 // minValleyScaledStepWithin is the step test: every |s_i| ≤ tol·minValleyScaledStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minValleyScaledStepWithin(s, x *[2]float64, tol float64) bool {
+func minValleyScaledStepWithin(s, x *[2]float64, tol float64, diffs *minValleyScaledDifferences) bool {
 	for i := range s {
-		if !(minValleyScaledAbs(s[i]) <= tol*minValleyScaledStepScale(x[i])) {
+		if !(minValleyScaledAbs(s[i]) <= tol*minValleyScaledStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -976,7 +976,7 @@ func minValleyScaledStepWithin(s, x *[2]float64, tol float64) bool {
 }
 
 // minValleyScaledStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minValleyScaledStepScale(xi float64) float64 {
+func minValleyScaledStepScale(xi float64, i int, diffs *minValleyScaledDifferences) float64 {
 	return minValleyScaledAbs(xi) + 1
 }
 
@@ -1059,11 +1059,11 @@ func minValleyScaledSolveDirection(dir *minValleyScaledDirection, g, d *[2]float
 
 // minValleyScaledTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minValleyScaledStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minValleyScaledTinyStep(x, d *[2]float64, tol float64) float64 {
+func minValleyScaledTinyStep(x, d *[2]float64, tol float64, diffs *minValleyScaledDifferences) float64 {
 	tiny := float64(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minValleyScaledStepScale(x[i]) / minValleyScaledAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minValleyScaledStepScale(x[i], i, diffs) / minValleyScaledAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}

@@ -431,7 +431,7 @@ func (r *minPlateDescent) judge() {
 	// is zero to the rounding of x (and, with differences, to their
 	// accuracy, confirmed); see settle.
 	if r.out.iterations > 0 && r.retried != r.out.iterations {
-		if minPlateStepWithin(&r.s, &r.x, r.lim.Step) {
+		if minPlateStepWithin(&r.s, &r.x, r.lim.Step, &r.diffs) {
 			r.verify, r.stalled = minPlateVerifyStall, true
 			return
 		}
@@ -464,7 +464,7 @@ func (r *minPlateDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minPlateTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	tiny := minPlateTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
 	var xt, gt [2]float32
 	found := minPlateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
@@ -844,12 +844,12 @@ func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor fl
 }
 
 // minPlateStepWithin is the step test: every |s_i| ≤ tol·minPlateStepScale(x_i),
-// (|x_i| + 1), or |x_i| for a residual objective. It judges each
+// (|x_i| + 1), or max(|x_i|, typical_i) for a residual objective. It judges each
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
-func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
+func minPlateStepWithin(s, x *[2]float32, tol float32, diffs *minPlateDifferences) bool {
 	for i := range s {
-		if !(minPlateAbs(s[i]) <= tol*minPlateStepScale(x[i])) {
+		if !(minPlateAbs(s[i]) <= tol*minPlateStepScale(x[i], i, diffs)) {
 			return false
 		}
 	}
@@ -857,7 +857,7 @@ func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
 }
 
 // minPlateStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func minPlateStepScale(xi float32) float32 {
+func minPlateStepScale(xi float32, i int, diffs *minPlateDifferences) float32 {
 	return minPlateAbs(xi) + 1
 }
 
@@ -885,11 +885,11 @@ func minPlateDot(a, b *[2]float32) float32 {
 
 // minPlateTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minPlateStepScale(x_i)/|d_i|, or −1 when d is zero.
-func minPlateTinyStep(x, d *[2]float32, tol float32) float32 {
+func minPlateTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDifferences) float32 {
 	tiny := float32(-1)
 	for i := range x {
 		if d[i] != 0 {
-			if t := tol * minPlateStepScale(x[i]) / minPlateAbs(d[i]); tiny < 0 || t < tiny {
+			if t := tol * minPlateStepScale(x[i], i, diffs) / minPlateAbs(d[i]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
