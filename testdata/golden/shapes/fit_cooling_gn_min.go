@@ -927,13 +927,8 @@ func fitCoolingGNJacobianError(x *[3]float64, jac *[5][3]float64, r *[5]float64,
 // made in gᵢ = (Jᵀr)ᵢ, which measures the truncation the error model
 // cannot see (a third derivative far above the slope's, as in rational
 // models) and rounding above it (Richardson's comparison of two
-// intervals; the factor three is common practice). A change above
-// 10⁻³ of Σₖ|Jₖᵢrₖ| is no error of the difference but residuals that
-// are not smooth within the intervals (a kink or a jump): it is not
-// added, so that it cannot raise the limit into a false convergence
-// (the 10⁻³ is ours: for smooth residuals the change is O(h²), far
-// below it). It costs fitCoolingGNDerivativeCost
-// residual calls, one more should the residuals at x not be at hand. At
+// intervals; the factor three is common practice). It costs
+// fitCoolingGNDerivativeCost residual calls, one more should the residuals at x not be at hand. At
 // a stall (stall true) it adds the rounding floor 4u·|xᵢ|·(JᵀJ)ᵢᵢ, the
 // change that moving xᵢ by a few of its rounding units makes in gᵢ, with
 // the Gauss–Newton (JᵀJ)ᵢᵢ for ∂²f/∂xᵢ² (as roundingFloor does with a
@@ -958,23 +953,14 @@ func fitCoolingGNSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitC
 		m.wide = true
 		calls += fitCoolingGNJacobian(x, &m.r, &jac, diffs)
 		m.wide = false
-		var wide, size [3]float64
+		var wide [3]float64
 		for k := range jac {
 			for i := range wide {
 				wide[i] += jac[k][i] * m.r[k]
-				size[i] += fitCoolingGNAbs(jac[k][i] * m.r[k])
 			}
 		}
 		for i := range e {
 			change := fitCoolingGNAbs(wide[i] - g[i])
-			if change > 1e-3*size[i] {
-				// The two Jacobians disagree beyond what smooth residuals
-				// allow at these intervals (a kink or a jump within h):
-				// J means nothing here, and no limit raised from it
-				// would be an honest convergence. The test judges g
-				// with the model's bound alone.
-				continue
-			}
 			e[i] += 3 * change // Richardson: the change with twice the intervals
 		}
 	}
