@@ -81,6 +81,10 @@ func loadKernels() (*kernelSource, error) {
 	return kernelCache()
 }
 
+// fileRoom pads each template file past any renamed identifier's end
+// (see parseKernels): blank lines, longer than any generated name.
+var fileRoom = bytes.Repeat([]byte("\n"), 1024)
+
 // embedFile is the templates' file that embeds their source. It imports
 // embed, whose dependencies go/types would have to load from source, so it
 // is not part of the kernels; it declares only Source, a stand-in.
@@ -102,6 +106,13 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 		if err != nil {
 			return nil, err
 		}
+		// Room after the file's end: a renamed identifier ends at its
+		// position plus its new, longer name, and go/printer reads the
+		// line of that end; without the room, an identifier near the
+		// end of one file would end in the next file's lines, and the
+		// printer would take a one-line parameter list for a broken one
+		// (a trailing comma gofmt removes).
+		data = append(data[:len(data):len(data)], fileRoom...)
 		f, err := parser.ParseFile(ks.fset, name, data, parser.ParseComments)
 		if err != nil {
 			return nil, err

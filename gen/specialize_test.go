@@ -2,11 +2,13 @@ package gen
 
 import (
 	"bytes"
+	"fmt"
 	"go/ast"
 	"go/format"
 	"go/parser"
 	"go/printer"
 	"go/token"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -134,7 +136,7 @@ func TestAssembleIsFormatted(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	specs = append(append(specs, examples...), many)
+	specs = append(append(specs, examples...), many, longNamesModule(t))
 	compared := 0
 	for _, spec := range specs {
 		plans, err := Plans([]string{spec})
@@ -239,4 +241,40 @@ func TestKernelDocCommentsAreFormatted(t *testing.T) {
 	if docs < 20 {
 		t.Errorf("%d doc comments in the templates; want at least 20", docs)
 	}
+}
+
+// longNamesModule writes a module whose minimizers have 70-byte names,
+// without and with bounds and with a residual objective, and returns its
+// spec: long renamed identifiers must not change how the kernels print
+// (a declaration near the end of a template file once did).
+func longNamesModule(t *testing.T) string {
+	t.Helper()
+	dir := t.TempDir()
+	long := func(tag string) string { return "Long" + tag + strings.Repeat("x", 66-len(tag)) }
+	src := "package long\n\nfunc Bowl(x *[2]float64) float64 { return x[0]*x[0] + x[1]*x[1] }\n\nfunc Res(x *[2]float64, r *[3]float64) {\n\tr[0], r[1], r[2] = x[0]-1, x[1]-2, x[0]*x[1]\n}\n"
+	spec := fmt.Sprintf(`[[minimizer]]
+name = %q
+objective = "Bowl"
+start = [1.0, 1.0]
+
+[[minimizer]]
+name = %q
+objective = "Bowl"
+start = [1.0, 1.0]
+[minimizer.bounds]
+lower = [0.5, -1.0]
+
+[[minimizer]]
+name = %q
+objective = "Res"
+start = [1.0, 1.0]
+[minimizer.bounds]
+upper = [5.0, 5.0]
+`, long("Free"), long("Box"), long("Res"))
+	for name, data := range map[string]string{"go.mod": "module long\n\ngo 1.24\n", "long.go": src, "long.toml": spec} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(data), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return filepath.Join(dir, "long.toml")
 }

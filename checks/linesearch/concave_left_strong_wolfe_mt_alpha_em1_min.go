@@ -860,7 +860,7 @@ func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences,) float64 {
+func concaveLeftStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) float64 {
 	return concaveLeftStrongWolfeMTAlphaEm1Abs(xi) + 1
 }
 

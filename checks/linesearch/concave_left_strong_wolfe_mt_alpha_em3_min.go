@@ -860,7 +860,7 @@ func concaveLeftStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveLeftStrongWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences,) float64 {
+func concaveLeftStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) float64 {
 	return concaveLeftStrongWolfeMTAlphaEm3Abs(xi) + 1
 }
 

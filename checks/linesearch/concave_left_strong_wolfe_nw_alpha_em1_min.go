@@ -860,7 +860,7 @@ func concaveLeftStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences,) float64 {
+func concaveLeftStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) float64 {
 	return concaveLeftStrongWolfeNWAlphaEm1Abs(xi) + 1
 }
 

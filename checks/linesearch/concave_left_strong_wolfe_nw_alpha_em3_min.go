@@ -860,7 +860,7 @@ func concaveLeftStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveLeftStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences,) float64 {
+func concaveLeftStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) float64 {
 	return concaveLeftStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 

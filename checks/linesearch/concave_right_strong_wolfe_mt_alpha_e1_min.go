@@ -860,7 +860,7 @@ func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveRightStrongWolfeMTAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaE1Differences,) float64 {
+func concaveRightStrongWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaE1Differences) float64 {
 	return concaveRightStrongWolfeMTAlphaE1Abs(xi) + 1
 }
 

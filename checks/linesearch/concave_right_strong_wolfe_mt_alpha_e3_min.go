@@ -860,7 +860,7 @@ func concaveRightStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveRightStrongWolfeMTAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaE3Differences,) float64 {
+func concaveRightStrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaE3Differences) float64 {
 	return concaveRightStrongWolfeMTAlphaE3Abs(xi) + 1
 }
 

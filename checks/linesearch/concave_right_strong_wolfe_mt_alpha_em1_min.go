@@ -860,7 +860,7 @@ func concaveRightStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64, 
 }
 
 // concaveRightStrongWolfeMTAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaEm1Differences,) float64 {
+func concaveRightStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) float64 {
 	return concaveRightStrongWolfeMTAlphaEm1Abs(xi) + 1
 }
 

@@ -860,7 +860,7 @@ func concaveRightStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64, 
 }
 
 // concaveRightStrongWolfeMTAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaEm3Differences,) float64 {
+func concaveRightStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) float64 {
 	return concaveRightStrongWolfeMTAlphaEm3Abs(xi) + 1
 }
 

@@ -860,7 +860,7 @@ func concaveRightStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveRightStrongWolfeNWAlphaE1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaE1Differences,) float64 {
+func concaveRightStrongWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaE1Differences) float64 {
 	return concaveRightStrongWolfeNWAlphaE1Abs(xi) + 1
 }
 

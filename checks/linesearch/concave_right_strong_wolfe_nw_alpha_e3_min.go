@@ -860,7 +860,7 @@ func concaveRightStrongWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64, d
 }
 
 // concaveRightStrongWolfeNWAlphaE3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaE3Differences,) float64 {
+func concaveRightStrongWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaE3Differences) float64 {
 	return concaveRightStrongWolfeNWAlphaE3Abs(xi) + 1
 }
 

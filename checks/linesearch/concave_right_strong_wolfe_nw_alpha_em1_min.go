@@ -860,7 +860,7 @@ func concaveRightStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64, 
 }
 
 // concaveRightStrongWolfeNWAlphaEm1StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaEm1Differences,) float64 {
+func concaveRightStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) float64 {
 	return concaveRightStrongWolfeNWAlphaEm1Abs(xi) + 1
 }
 

@@ -860,7 +860,7 @@ func concaveRightStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, 
 }
 
 // concaveRightStrongWolfeNWAlphaEm3StepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func concaveRightStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaEm3Differences,) float64 {
+func concaveRightStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) float64 {
 	return concaveRightStrongWolfeNWAlphaEm3Abs(xi) + 1
 }
 

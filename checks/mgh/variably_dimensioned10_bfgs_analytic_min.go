@@ -900,7 +900,7 @@ func variablyDimensioned10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64,
 }
 
 // variablyDimensioned10BFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10BFGSAnalyticStepScale(xi float64, i int, diffs *variablyDimensioned10BFGSAnalyticDifferences,) float64 {
+func variablyDimensioned10BFGSAnalyticStepScale(xi float64, i int, diffs *variablyDimensioned10BFGSAnalyticDifferences) float64 {
 	return variablyDimensioned10BFGSAnalyticAbs(xi) + 1
 }
 

@@ -1079,7 +1079,7 @@ func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64, 
 }
 
 // variablyDimensioned10BFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10BFGSCentralStepScale(xi float64, i int, diffs *variablyDimensioned10BFGSCentralDifferences,) float64 {
+func variablyDimensioned10BFGSCentralStepScale(xi float64, i int, diffs *variablyDimensioned10BFGSCentralDifferences) float64 {
 	return variablyDimensioned10BFGSCentralAbs(xi) + 1
 }
 

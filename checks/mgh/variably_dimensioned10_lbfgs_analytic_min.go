@@ -926,7 +926,7 @@ func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64
 }
 
 // variablyDimensioned10LBFGSAnalyticStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10LBFGSAnalyticStepScale(xi float64, i int, diffs *variablyDimensioned10LBFGSAnalyticDifferences,) float64 {
+func variablyDimensioned10LBFGSAnalyticStepScale(xi float64, i int, diffs *variablyDimensioned10LBFGSAnalyticDifferences) float64 {
 	return variablyDimensioned10LBFGSAnalyticAbs(xi) + 1
 }
 

@@ -1105,7 +1105,7 @@ func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64,
 }
 
 // variablyDimensioned10LBFGSCentralStepScale is |x_i| + 1: relative for large x_i, absolute near 0.
-func variablyDimensioned10LBFGSCentralStepScale(xi float64, i int, diffs *variablyDimensioned10LBFGSCentralDifferences,) float64 {
+func variablyDimensioned10LBFGSCentralStepScale(xi float64, i int, diffs *variablyDimensioned10LBFGSCentralDifferences) float64 {
 	return variablyDimensioned10LBFGSCentralAbs(xi) + 1
 }
 
