@@ -257,12 +257,7 @@ func differenceAt(p *Plan, recvArg []jen.Code) jen.Code {
 func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.Code) {
 	s := p.Shape
 	name := p.M.Name
-	recvPrefix := func(fn string) *jen.Statement {
-		if s.Receiver == "" {
-			return jen.Id(fn)
-		}
-		return jen.Id("recv").Dot(fn)
-	}
+	recvPrefix := userCall(s)
 	// value(x [N]T) T and gradient(x [N]T) [N]T in the user's forms.
 	var valueArg, gradBody []jen.Code
 	switch s.Arg {
@@ -337,21 +332,9 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	}
 	// With bounds every point is projected into the box, and the
 	// differences turn one-sided where the box leaves no room.
-	inside := func(x jen.Code) jen.Code { return x }
-	var boxed []jen.Code
+	inside, boxed := projectionInto(p, vec)
 	boxDoc := ""
 	if p.Bounded {
-		inside = func(x jen.Code) jen.Code { return jen.Id("inside").Call(x) }
-		boxed = []jen.Code{
-			jen.Id("b").Op(":=").Add(boxValue(p)),
-			jen.Id("inside").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
-				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-					jen.If(jen.Id("x").Index(jen.Id("i")).Op("<").Id("b").Dot("lower").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("lower").Index(jen.Id("i"))),
-					jen.If(jen.Id("x").Index(jen.Id("i")).Op(">").Id("b").Dot("upper").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("upper").Index(jen.Id("i"))),
-				),
-				jen.Return(jen.Id("x")),
-			),
-		}
 		boxDoc = " With bounds every point is projected into the box and the objective is never evaluated outside it: where the box leaves no room for ±h the three-point endpoint formula on the side with room takes over (Burden & Faires, Numerical Analysis, §4.1), and a component whose box is narrower than 2h is not checked."
 	}
 	// With scale, every length is in units of sᵢ: h = ∛u·max(sᵢ, |xᵢ|),
@@ -538,12 +521,7 @@ func emitUncertaintyTest(f *jen.File, p *Plan, helper string, setup func() []jen
 func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.Code) {
 	s := p.Shape
 	name := p.M.Name
-	callee := func(fn string) *jen.Statement {
-		if s.Receiver == "" {
-			return jen.Id(fn)
-		}
-		return jen.Id("recv").Dot(fn)
-	}
+	callee := userCall(s)
 	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
 	rvec := jen.Index(jen.Lit(s.Residuals)).Id(s.Elem)
 	jac := jen.Index(jen.Lit(s.Residuals)).Add(vec.Clone())
@@ -567,21 +545,9 @@ func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	if s.Elem == "float32" {
 		tol = "2e-2"
 	}
-	inside := func(x jen.Code) jen.Code { return x }
-	var boxed []jen.Code
+	inside, boxed := projectionInto(p, vec)
 	boxDoc := ""
 	if p.Bounded {
-		inside = func(x jen.Code) jen.Code { return jen.Id("inside").Call(x) }
-		boxed = []jen.Code{
-			jen.Id("b").Op(":=").Add(boxValue(p)),
-			jen.Id("inside").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
-				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-					jen.If(jen.Id("x").Index(jen.Id("i")).Op("<").Id("b").Dot("lower").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("lower").Index(jen.Id("i"))),
-					jen.If(jen.Id("x").Index(jen.Id("i")).Op(">").Id("b").Dot("upper").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("upper").Index(jen.Id("i"))),
-				),
-				jen.Return(jen.Id("x")),
-			),
-		}
 		boxDoc = " With bounds every point is projected into the box, and a column whose ±h leaves the box is not checked there."
 	}
 	skip := jen.Null()
@@ -633,4 +599,36 @@ func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			),
 		),
 	)...)
+}
+
+// userCall names the user's function fn as the generated tests call it:
+// fn, or recv.fn for a method.
+func userCall(s Shape) func(fn string) *jen.Statement {
+	return func(fn string) *jen.Statement {
+		if s.Receiver == "" {
+			return jen.Id(fn)
+		}
+		return jen.Id("recv").Dot(fn)
+	}
+}
+
+// projectionInto is, with bounds, the declarations of the box b and of
+// inside(x), x projected into it, and a wrapper calling inside; without,
+// the identity and nothing.
+func projectionInto(p *Plan, vec *jen.Statement) (func(jen.Code) jen.Code, []jen.Code) {
+	if !p.Bounded {
+		return func(x jen.Code) jen.Code { return x }, nil
+	}
+	at := func(side string) *jen.Statement { return jen.Id("b").Dot(side).Index(jen.Id("i")) }
+	xi := func() *jen.Statement { return jen.Id("x").Index(jen.Id("i")) }
+	return func(x jen.Code) jen.Code { return jen.Id("inside").Call(x) }, []jen.Code{
+		jen.Id("b").Op(":=").Add(boxValue(p)),
+		jen.Id("inside").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
+			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+				jen.If(xi().Op("<").Add(at("lower"))).Block(xi().Op("=").Add(at("lower"))),
+				jen.If(xi().Op(">").Add(at("upper"))).Block(xi().Op("=").Add(at("upper"))),
+			),
+			jen.Return(jen.Id("x")),
+		),
+	}
 }

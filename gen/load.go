@@ -761,16 +761,8 @@ func (lp *loadedPackage) resolveResiduals(m *Minimizer, shape *Shape, sig *types
 // resolveJacobian finds the analytic Jacobian and checks its form
 // against the objective's shape.
 func (lp *loadedPackage) resolveJacobian(m *Minimizer, shape *Shape, recvType *types.Named, pos Pos, probs *Problems) {
-	fn, jacRecv := lp.lookupFunc(m.Jacobian, recvType, pos, "jacobian", probs)
+	fn := lp.companion(m.Jacobian, recvType, pos, "jacobian", probs)
 	if fn == nil {
-		return
-	}
-	if (jacRecv == nil) != (recvType == nil) {
-		if recvType != nil {
-			probs.add(pos, "jacobian %s must be a method of %s, like the objective", m.Jacobian, recvType.Obj().Name())
-		} else {
-			probs.add(pos, "jacobian %s must be a plain function, like the objective", m.Jacobian)
-		}
 		return
 	}
 	sig := fn.Type().(*types.Signature)
@@ -837,19 +829,31 @@ func (lp *loadedPackage) resolveDerivative(m *Minimizer, shape *Shape, sig *type
 	}
 }
 
+// companion finds a function that goes with the objective (its gradient
+// or Jacobian, what names it): a method of the objective's receiver type
+// when the objective is one, a plain function otherwise; nil, reported,
+// when it is neither.
+func (lp *loadedPackage) companion(ref string, recvType *types.Named, pos Pos, what string, probs *Problems) *types.Func {
+	fn, owner := lp.lookupFunc(ref, recvType, pos, what, probs)
+	if fn == nil {
+		return nil
+	}
+	if (owner == nil) != (recvType == nil) {
+		if recvType != nil {
+			probs.add(pos, "%s %s must be a method of %s, like the objective", what, ref, recvType.Obj().Name())
+		} else {
+			probs.add(pos, "%s %s must be a plain function, like the objective", what, ref)
+		}
+		return nil
+	}
+	return fn
+}
+
 // resolveGradient finds the analytic gradient and checks its form against
 // the objective's shape.
 func (lp *loadedPackage) resolveGradient(m *Minimizer, shape *Shape, recvType *types.Named, pos Pos, probs *Problems) {
-	fn, gradRecv := lp.lookupFunc(m.Gradient, recvType, pos, "gradient", probs)
+	fn := lp.companion(m.Gradient, recvType, pos, "gradient", probs)
 	if fn == nil {
-		return
-	}
-	if (gradRecv == nil) != (recvType == nil) {
-		if recvType != nil {
-			probs.add(pos, "gradient %s must be a method of %s, like the objective", m.Gradient, recvType.Obj().Name())
-		} else {
-			probs.add(pos, "gradient %s must be a plain function, like the objective", m.Gradient)
-		}
 		return
 	}
 	sig := fn.Type().(*types.Signature)

@@ -276,13 +276,7 @@ func emitTraceGrid(f *jen.File, p *Plan, recvParam []jen.Code) {
 	if s.Residuals > 0 {
 		// A residual objective's value is ½‖r‖², computed by a closure
 		// on the grid point.
-		callee := func(fn string) *jen.Statement {
-			if s.Receiver == "" {
-				return jen.Id(fn)
-			}
-			return jen.Id("recv").Dot(fn)
-		}
-		scratch = []jen.Code{jen.Id("half").Op(":=").Func().Params(jen.Id("x").Index(jen.Lit(2)).Id(s.Elem)).Id(s.Elem).Block(halfSquaresBody(p, callee)...)}
+		scratch = []jen.Code{jen.Id("half").Op(":=").Func().Params(jen.Id("x").Index(jen.Lit(2)).Id(s.Elem)).Id(s.Elem).Block(halfSquaresBody(p, userCall(s))...)}
 		objective, args = jen.Id("half"), []jen.Code{jen.Id("x")}
 	}
 	low := func(i jen.Code) *jen.Statement { return jen.Id("thalwegTraceLow").Index(i) }

@@ -68,20 +68,14 @@ func squaresValue(recv *receiver, x, g *vec, diffs *differences) elem {
 // It returns the residual calls made.
 func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	m := &diffs.model
-	calls := 0
-	if !m.known || m.at != *x {
-		recv.residual(x, &m.r)
-		m.at, m.known = *x, true
-		calls++
-	}
+	calls := m.residualsAt(recv, x)
 	var jac [residuals]vec
 	calls += jacobian(recv, x, &m.r, &jac, diffs)
-	*g = vec{}
+	transposeTimes(&jac, &m.r, g) // N&W eq. 10.3: ∇f = Jᵀr
 	m.normal = [dim]vec{}
 	for k := range jac {
-		row, rk := &jac[k], m.r[k]
+		row := &jac[k]
 		for i := range row {
-			g[i] += row[i] * rk // N&W eq. 10.3: ∇f = Jᵀr
 			for j := 0; j <= i; j++ {
 				m.normal[i][j] += row[i] * row[j] // N&W eq. 10.4: JᵀJ
 			}
@@ -111,6 +105,27 @@ func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *difference
 	m.noise = 4*unitRoundoff*m.noise + noiseLevel(x, fx, g)
 	jacobianError(x, &jac, &m.r, &m.err, diffs)
 	return calls
+}
+
+// residualsAt makes the kept residuals those at x, taking them again
+// only when the last value call was elsewhere; it returns the calls made.
+func (m *residualModel) residualsAt(recv *receiver, x *vec) int {
+	if m.known && m.at == *x {
+		return 0
+	}
+	recv.residual(x, &m.r)
+	m.at, m.known = *x, true
+	return 1
+}
+
+// transposeTimes sets g = Jᵀr.
+func transposeTimes(jac *[residuals]vec, r *rvec, g *vec) {
+	*g = vec{}
+	for k := range jac {
+		for i := range g {
+			g[i] += jac[k][i] * r[k]
+		}
+	}
 }
 
 // jacobian fills jac with J(x), J[i][j] = ∂rᵢ/∂xⱼ, where the residuals are
@@ -295,15 +310,7 @@ func exactJacobian(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differen
 // curvature model is common practice), so that g's error is at most
 // Σᵢ |rᵢ|·that.
 func forwardJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differences) {
-	sqrtU := squareRoot(unitRoundoff)
-	for j := range e {
-		s := typicalScale(x[j], j, diffs)
-		var sum elem
-		for i := range jac {
-			sum += abs(r[i]) * sqrtU * (abs(jac[i][j])/2 + 2*abs(r[i])/s)
-		}
-		e[j] = sum
-	}
+	differenceError(x, jac, r, e, diffs, squareRoot(unitRoundoff), 1.0/2, 2)
 }
 
 // centralJacobianError bounds each |∂rᵢ/∂xⱼ| of central differences by
@@ -313,12 +320,18 @@ func forwardJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *d
 // (4u|rᵢ|/hⱼ for the endpoint formula) at hⱼ = ∛u·sⱼ (Nocedal & Wright
 // 2006, §8.1; the curvature model is common practice).
 func centralJacobianError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differences) {
-	twoThirds := elem(centralScale * centralScale)
+	differenceError(x, jac, r, e, diffs, elem(centralScale*centralScale), 1.0/3, 4)
+}
+
+// differenceError sets eⱼ = Σᵢ |rᵢ|·order·(truncation·|Jᵢⱼ| +
+// rounding·|rᵢ|/sⱼ), the bound on the error of gⱼ = (Jᵀr)ⱼ that a
+// difference Jacobian of that order leaves.
+func differenceError(x *vec, jac *[residuals]vec, r *rvec, e *vec, diffs *differences, order, truncation, rounding elem) {
 	for j := range e {
 		s := typicalScale(x[j], j, diffs)
 		var sum elem
 		for i := range jac {
-			sum += abs(r[i]) * twoThirds * (abs(jac[i][j])/3 + 4*abs(r[i])/s)
+			sum += abs(r[i]) * order * (truncation*abs(jac[i][j]) + rounding*abs(r[i])/s)
 		}
 		e[j] = sum
 	}
@@ -348,27 +361,20 @@ func settleResiduals(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differen
 	m := &diffs.model
 	calls := 0
 	if derivativeCost > 0 {
-		if !m.known || m.at != *x {
-			if budget < 1 {
-				return 0, false
-			}
-			recv.residual(x, &m.r)
-			m.at, m.known = *x, true
-			calls++
+		need := derivativeCost
+		if !(m.known && m.at == *x) {
+			need++ // the residuals at x, should they not be at hand
 		}
-		if calls+derivativeCost > budget {
-			return calls, false
+		if budget < need {
+			return 0, false
 		}
+		calls = m.residualsAt(recv, x)
 		var jac [residuals]vec
 		m.wide = true
 		calls += jacobian(recv, x, &m.r, &jac, diffs)
 		m.wide = false
 		var wide vec
-		for k := range jac {
-			for i := range wide {
-				wide[i] += jac[k][i] * m.r[k]
-			}
-		}
+		transposeTimes(&jac, &m.r, &wide)
 		for i := range e {
 			change := abs(wide[i] - g[i])
 			e[i] += 3 * change // Richardson: the change with twice the intervals
@@ -427,12 +433,7 @@ func memoryDirection(dir *direction, g, d *vec, diffs *differences) {
 // step towards steepest descent along the directions J cannot see. d is a
 // descent direction whenever g ≠ 0, since −gᵀd = gᵀ(JᵀJ + τI)⁻¹g > 0.
 func gaussNewtonStep(dir *direction, g, d *vec, diffs *differences) {
-	m := &diffs.model
-	var ones vec
-	for i := range ones {
-		ones[i] = 1
-	}
-	shiftedSolve(&m.normal, &ones, 0, g, d)
+	shiftedSolve(&diffs.model.normal, &vec{}, 0, g, d) // no damping: the weights are never read
 }
 
 // dampedStep solves the Levenberg–Marquardt equations

@@ -17,7 +17,6 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strconv"
@@ -27,8 +26,8 @@ import (
 	"gonum.org/v1/gonum/optimize/functions"
 
 	"github.com/thalweg-go/thalweg/checks/internal/results"
+	"github.com/thalweg-go/thalweg/checks/internal/tempmodule"
 	"github.com/thalweg-go/thalweg/checks/leastsquares/problems"
-	"github.com/thalweg-go/thalweg/gen"
 )
 
 var update = flag.Bool("update", false, "rewrite testdata/results.md")
@@ -190,37 +189,16 @@ func TestPublishedMinima(t *testing.T) {
 	if testing.Short() {
 		t.Skip("generates and runs 36 minimizers")
 	}
-	dir := t.TempDir()
 	src, err := os.ReadFile(filepath.Join("problems", "problems.go"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	for name, data := range map[string][]byte{
+	out := tempmodule.GenerateAndTest(t, map[string][]byte{
 		"go.mod":        []byte("module example.com/lsq\n\ngo 1.26\n"),
 		"problems.go":   src,
 		"lsq.toml":      specText(),
 		"drive_test.go": driverText(),
-	} {
-		if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	outs, err := gen.Generate([]string{filepath.Join(dir, "lsq.toml")})
-	if err != nil {
-		t.Fatalf("thalweg's gen.Generate: %v", err)
-	}
-	for _, o := range outs {
-		if err := os.WriteFile(o.Path, o.Data, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	cmd := exec.Command("go", "test", "-count=1", "-v", "-run", "TestDrive", ".")
-	cmd.Dir = dir
-	cmd.Env = append(os.Environ(), "GOFLAGS=-mod=mod", "GOWORK=off")
-	out, err := cmd.CombinedOutput()
-	if err != nil {
-		t.Fatalf("the driver failed: %v\n%s", err, out)
-	}
+	}, "lsq.toml", "-run", "TestDrive")
 	runs := map[string]run{}
 	sc := bufio.NewScanner(bytes.NewReader(out))
 	for sc.Scan() {

@@ -37,7 +37,6 @@ import (
 	"go/format"
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"regexp"
 	"sort"
@@ -46,7 +45,7 @@ import (
 	"testing"
 
 	"github.com/thalweg-go/thalweg/checks/internal/results"
-	"github.com/thalweg-go/thalweg/gen"
+	"github.com/thalweg-go/thalweg/checks/internal/tempmodule"
 )
 
 var update = flag.Bool("update", false, "rewrite models/data.go, models/nist.toml and testdata/results.md")
@@ -328,7 +327,6 @@ func TestCertifiedValues(t *testing.T) {
 	if testing.Short() {
 		t.Skip("generates and runs 42 minimizers")
 	}
-	dir := t.TempDir()
 	files := map[string][]byte{
 		"go.mod":        []byte("module example.com/nist\n\ngo 1.26\n"),
 		"data.go":       dataFile(),
@@ -340,27 +338,7 @@ func TestCertifiedValues(t *testing.T) {
 		t.Fatal(err)
 	}
 	files["models.go"] = models
-	for name, data := range files {
-		if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	outs, err := gen.Generate([]string{filepath.Join(dir, "nist.toml")})
-	if err != nil {
-		t.Fatalf("thalweg's gen.Generate: %v", err)
-	}
-	for _, o := range outs {
-		if err := os.WriteFile(o.Path, o.Data, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	cmd := exec.Command("go", "test", "-count=1", "-v", ".")
-	cmd.Dir = dir
-	cmd.Env = append(os.Environ(), "GOFLAGS=-mod=mod", "GOWORK=off")
-	out, err := cmd.CombinedOutput()
-	if err != nil {
-		t.Fatalf("the generated minimizers' tests or the driver failed: %v\n%s", err, failures(out))
-	}
+	out := tempmodule.GenerateAndTest(t, files, "nist.toml")
 	runs := parseRuns(t, out)
 	if len(runs) != 4*len(datasets) {
 		t.Fatalf("the driver reported %d fits, want %d", len(runs), 4*len(datasets))
@@ -496,15 +474,4 @@ func table(runs []*run, byName map[string]*dataset) []byte {
 	}
 	b.WriteString("\nLanczos1: its certified RSS (1.43e-25) is reproduced only in extended precision (testdata/NIST-README.md). In float64 each residual, about 7.7e-14 at the solution, carries rounding of u·|y| ≈ 3e-16, a relative 4e-3, so its RSS is held to 2 digits; its standard deviations, which scale with √RSS, reach the 3 of every other dataset.\n\nEvery fit uses stop.gradient = 1e-15 (see gradientLimit in nist_test.go): at the default 1e-8 the sums of exponentials (Lanczos1–3) and MGH09 stop converged at 4.6–5.3 digits; at 1e-15 each run goes on until its gradient is as small as rounding lets it show.\n")
 	return b.Bytes()
-}
-
-// failures keeps the lines of go test's output that say what failed.
-func failures(out []byte) string {
-	var kept []string
-	for _, line := range strings.Split(string(out), "\n") {
-		if strings.Contains(line, "--- FAIL") || strings.Contains(line, "_test.go:") || strings.Contains(line, "panic") || strings.HasPrefix(line, "#") || strings.Contains(line, ".go:") {
-			kept = append(kept, line)
-		}
-	}
-	return strings.Join(kept, "\n")
 }

@@ -595,6 +595,17 @@ type fitCoolingGNResidualModel struct {
 	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingGNCalibrate)
 }
 
+// residualsAt makes the kept residuals those at x, taking them again
+// only when the last value call was elsewhere; it returns the calls made.
+func (m *fitCoolingGNResidualModel) residualsAt(x *[3]float64) int {
+	if m.known && m.at == *x {
+		return 0
+	}
+	Cooling(x, &m.r)
+	m.at, m.known = *x, true
+	return 1
+}
+
 // fitCoolingGNDirection is the memory of the least-squares directions:
 // none, since their step solves with the Jacobian at x (fitCoolingGNSolveDirection).
 // The first trial of a line search is the whole Gauss–Newton step.
@@ -695,20 +706,14 @@ func fitCoolingGNAbs(v float64) float64 {
 // It returns the residual calls made.
 func fitCoolingGNDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCoolingGNDifferences) int {
 	m := &diffs.model
-	calls := 0
-	if !m.known || m.at != *x {
-		Cooling(x, &m.r)
-		m.at, m.known = *x, true
-		calls++
-	}
+	calls := m.residualsAt(x)
 	var jac [5][3]float64
 	calls += fitCoolingGNJacobian(x, &m.r, &jac, diffs)
-	*g = [3]float64{}
+	fitCoolingGNTransposeTimes(&jac, &m.r, g) // N&W eq. 10.3: ∇f = Jᵀr
 	m.normal = [3][3]float64{}
 	for k := range jac {
-		row, rk := &jac[k], m.r[k]
+		row := &jac[k]
 		for i := range row {
-			g[i] += row[i] * rk // N&W eq. 10.3: ∇f = Jᵀr
 			for j := 0; j <= i; j++ {
 				m.normal[i][j] += row[i] * row[j] // N&W eq. 10.4: JᵀJ
 			}
@@ -883,6 +888,16 @@ func fitCoolingGNParabola(f0, a, fa, b, fb float64) (slope, second float64) {
 	return slope, second
 }
 
+// fitCoolingGNTransposeTimes sets g = Jᵀr.
+func fitCoolingGNTransposeTimes(jac *[5][3]float64, r *[5]float64, g *[3]float64) {
+	*g = [3]float64{}
+	for k := range jac {
+		for i := range g {
+			g[i] += jac[k][i] * r[k]
+		}
+	}
+}
+
 // fitCoolingGNNoiseLevel is the absolute error assumed in a computed value fx of the
 // objective at x, where its gradient is about g:
 //
@@ -909,12 +924,18 @@ func fitCoolingGNNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 // (4u|rᵢ|/hⱼ for the endpoint formula) at hⱼ = ∛u·sⱼ (Nocedal & Wright
 // 2006, §8.1; the curvature model is common practice).
 func fitCoolingGNJacobianError(x *[3]float64, jac *[5][3]float64, r *[5]float64, e *[3]float64, diffs *fitCoolingGNDifferences) {
-	twoThirds := float64(fitCoolingGNCentralScale * fitCoolingGNCentralScale)
+	fitCoolingGNDifferenceError(x, jac, r, e, diffs, float64(fitCoolingGNCentralScale*fitCoolingGNCentralScale), 1.0/3, 4)
+}
+
+// fitCoolingGNDifferenceError sets eⱼ = Σᵢ |rᵢ|·order·(truncation·|Jᵢⱼ| +
+// rounding·|rᵢ|/sⱼ), the bound on the error of gⱼ = (Jᵀr)ⱼ that a
+// difference Jacobian of that order leaves.
+func fitCoolingGNDifferenceError(x *[3]float64, jac *[5][3]float64, r *[5]float64, e *[3]float64, diffs *fitCoolingGNDifferences, order, truncation, rounding float64) {
 	for j := range e {
 		s := fitCoolingGNStepScale(x[j], j, diffs)
 		var sum float64
 		for i := range jac {
-			sum += fitCoolingGNAbs(r[i]) * twoThirds * (fitCoolingGNAbs(jac[i][j])/3 + 4*fitCoolingGNAbs(r[i])/s)
+			sum += fitCoolingGNAbs(r[i]) * order * (truncation*fitCoolingGNAbs(jac[i][j]) + rounding*fitCoolingGNAbs(r[i])/s)
 		}
 		e[j] = sum
 	}
@@ -938,27 +959,20 @@ func fitCoolingGNSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitC
 	m := &diffs.model
 	calls := 0
 	if fitCoolingGNDerivativeCost > 0 {
-		if !m.known || m.at != *x {
-			if budget < 1 {
-				return 0, false
-			}
-			Cooling(x, &m.r)
-			m.at, m.known = *x, true
-			calls++
+		need := fitCoolingGNDerivativeCost
+		if !(m.known && m.at == *x) {
+			need++ // the residuals at x, should they not be at hand
 		}
-		if calls+fitCoolingGNDerivativeCost > budget {
-			return calls, false
+		if budget < need {
+			return 0, false
 		}
+		calls = m.residualsAt(x)
 		var jac [5][3]float64
 		m.wide = true
 		calls += fitCoolingGNJacobian(x, &m.r, &jac, diffs)
 		m.wide = false
 		var wide [3]float64
-		for k := range jac {
-			for i := range wide {
-				wide[i] += jac[k][i] * m.r[k]
-			}
-		}
+		fitCoolingGNTransposeTimes(&jac, &m.r, &wide)
 		for i := range e {
 			change := fitCoolingGNAbs(wide[i] - g[i])
 			e[i] += 3 * change // Richardson: the change with twice the intervals
@@ -1034,12 +1048,7 @@ func fitCoolingGNSearchDirection(dir *fitCoolingGNDirection, x, g, d *[3]float64
 // step towards steepest descent along the directions J cannot see. d is a
 // descent direction whenever g ≠ 0, since −gᵀd = gᵀ(JᵀJ + τI)⁻¹g > 0.
 func fitCoolingGNSolveDirection(dir *fitCoolingGNDirection, g, d *[3]float64, diffs *fitCoolingGNDifferences) {
-	m := &diffs.model
-	var ones [3]float64
-	for i := range ones {
-		ones[i] = 1
-	}
-	fitCoolingGNShiftedSolve(&m.normal, &ones, 0, g, d)
+	fitCoolingGNShiftedSolve(&diffs.model.normal, &[3]float64{}, 0, g, d) // no damping: the weights are never read
 }
 
 // fitCoolingGNShiftedSolve sets d to the solution of (a + λ·diag(w))·d = −g by

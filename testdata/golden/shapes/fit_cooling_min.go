@@ -593,6 +593,17 @@ type fitCoolingResidualModel struct {
 	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingCalibrate)
 }
 
+// residualsAt makes the kept residuals those at x, taking them again
+// only when the last value call was elsewhere; it returns the calls made.
+func (m *fitCoolingResidualModel) residualsAt(x *[3]float64) int {
+	if m.known && m.at == *x {
+		return 0
+	}
+	Cooling(x, &m.r)
+	m.at, m.known = *x, true
+	return 1
+}
+
 // fitCoolingDirection is the memory of the least-squares directions:
 // none, since their step solves with the Jacobian at x (fitCoolingSolveDirection).
 // The first trial of a line search is the whole Gauss–Newton step.
@@ -693,20 +704,14 @@ func fitCoolingAbs(v float64) float64 {
 // It returns the residual calls made.
 func fitCoolingDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCoolingDifferences) int {
 	m := &diffs.model
-	calls := 0
-	if !m.known || m.at != *x {
-		Cooling(x, &m.r)
-		m.at, m.known = *x, true
-		calls++
-	}
+	calls := m.residualsAt(x)
 	var jac [5][3]float64
 	calls += fitCoolingJacobian(x, &m.r, &jac, diffs)
-	*g = [3]float64{}
+	fitCoolingTransposeTimes(&jac, &m.r, g) // N&W eq. 10.3: ∇f = Jᵀr
 	m.normal = [3][3]float64{}
 	for k := range jac {
-		row, rk := &jac[k], m.r[k]
+		row := &jac[k]
 		for i := range row {
-			g[i] += row[i] * rk // N&W eq. 10.3: ∇f = Jᵀr
 			for j := 0; j <= i; j++ {
 				m.normal[i][j] += row[i] * row[j] // N&W eq. 10.4: JᵀJ
 			}
@@ -742,6 +747,16 @@ func fitCoolingDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCo
 func fitCoolingJacobian(x *[3]float64, r *[5]float64, jac *[5][3]float64, diffs *fitCoolingDifferences) int {
 	CoolingJacobian(x, jac)
 	return 0
+}
+
+// fitCoolingTransposeTimes sets g = Jᵀr.
+func fitCoolingTransposeTimes(jac *[5][3]float64, r *[5]float64, g *[3]float64) {
+	*g = [3]float64{}
+	for k := range jac {
+		for i := range g {
+			g[i] += jac[k][i] * r[k]
+		}
+	}
 }
 
 // fitCoolingLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -797,27 +812,20 @@ func fitCoolingSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitCoo
 	m := &diffs.model
 	calls := 0
 	if fitCoolingDerivativeCost > 0 {
-		if !m.known || m.at != *x {
-			if budget < 1 {
-				return 0, false
-			}
-			Cooling(x, &m.r)
-			m.at, m.known = *x, true
-			calls++
+		need := fitCoolingDerivativeCost
+		if !(m.known && m.at == *x) {
+			need++ // the residuals at x, should they not be at hand
 		}
-		if calls+fitCoolingDerivativeCost > budget {
-			return calls, false
+		if budget < need {
+			return 0, false
 		}
+		calls = m.residualsAt(x)
 		var jac [5][3]float64
 		m.wide = true
 		calls += fitCoolingJacobian(x, &m.r, &jac, diffs)
 		m.wide = false
 		var wide [3]float64
-		for k := range jac {
-			for i := range wide {
-				wide[i] += jac[k][i] * m.r[k]
-			}
-		}
+		fitCoolingTransposeTimes(&jac, &m.r, &wide)
 		for i := range e {
 			change := fitCoolingAbs(wide[i] - g[i])
 			e[i] += 3 * change // Richardson: the change with twice the intervals
