@@ -37,9 +37,14 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) ([]string, error) 
 	if err != nil {
 		return nil, err
 	}
-	src, ok := assemble(glue, kernels.source, kernels.usesMath)
+	source, usesMath := kernels.source, kernels.usesMath
+	if d := p.Shape.Derived; d != nil {
+		source = append(append(append([]byte{}, source...), '\n'), d.Source...)
+		usesMath = usesMath || d.UsesMath
+	}
+	src, ok := assemble(glue, source, usesMath)
 	if !ok {
-		if src, err = formatWhole(append(glue, kernels.source...), kernels.usesMath); err != nil {
+		if src, err = formatWhole(append(glue, source...), usesMath); err != nil {
 			return nil, err
 		}
 	}

@@ -59,6 +59,10 @@ type Shape struct {
 	Jacobian        string
 	JacobianColumns bool
 	Instance        instance
+	// Derived is the gradient (or Jacobian) thalweg wrote from the
+	// objective's source for derivative = "automatic"; Gradient or
+	// Jacobian then names it.
+	Derived *derivedCode
 }
 
 // instance says how the generated tests obtain a receiver.
@@ -749,6 +753,10 @@ func (lp *loadedPackage) resolveResiduals(m *Minimizer, shape *Shape, sig *types
 	if m.Gradient != "" {
 		probs.add(ix.key(m.keyPrefix+".gradient"), "objective %s writes residuals, whose gradient Jᵀr comes from their Jacobian: name it with the jacobian key instead of gradient", m.Objective)
 	}
+	if m.Derivative.Derived {
+		lp.derive(m, shape, at("derivative"), probs)
+		return
+	}
 	if m.Derivative == rules.Analytic {
 		if m.Jacobian == "" {
 			probs.add(at("derivative"), "derivative = \"analytic\" needs a jacobian key naming the residuals' Jacobian (%s)", acceptedJacobians)
@@ -818,6 +826,8 @@ func (lp *loadedPackage) resolveDerivative(m *Minimizer, shape *Shape, sig *type
 	switch {
 	case shape.Combined && m.Gradient != "":
 		probs.add(ix.key(m.keyPrefix+".gradient"), "objective %s writes its gradient through g (%s): remove the gradient key, derivative = \"analytic\" uses that gradient", m.Objective, signatureText(sig))
+	case shape.Combined && m.Derivative.Derived:
+		probs.add(derivative, "objective %s writes its gradient through g (%s): set derivative = \"analytic\" to use it; automatic differentiation is for objectives that return their value alone", m.Objective, signatureText(sig))
 	case shape.Combined && m.Derivative != rules.Analytic:
 		probs.add(derivative, "objective %s writes its gradient through g (%s): set derivative = \"analytic\", without a gradient key (derivative is %q, which would ignore it)", m.Objective, signatureText(sig), m.Derivative.Name)
 	case shape.Combined:
@@ -826,7 +836,29 @@ func (lp *loadedPackage) resolveDerivative(m *Minimizer, shape *Shape, sig *type
 		probs.add(derivative, "derivative = \"analytic\" needs a gradient key naming the gradient function, or an objective that writes its gradient (%s)", combinedObjectives)
 	case m.Derivative == rules.Analytic:
 		lp.resolveGradient(m, shape, recvType, at("gradient"), probs)
+	case m.Derivative.Derived:
+		lp.derive(m, shape, derivative, probs)
 	}
+}
+
+// derive differentiates the objective for derivative = "automatic": its
+// gradient (or Jacobian) becomes a function of the generated file, a
+// method of the objective's receiver type when the objective is one.
+func (lp *loadedPackage) derive(m *Minimizer, shape *Shape, pos Pos, probs *Problems) {
+	fn, _ := lp.lookupFunc(m.Objective, nil, pos, "objective", probs)
+	if fn == nil {
+		return
+	}
+	code := lp.differentiate(m, shape, fn, probs)
+	if code == nil {
+		return
+	}
+	shape.Derived = code
+	if shape.Residuals > 0 {
+		shape.Jacobian, shape.JacobianColumns = code.Jacobian, false
+		return
+	}
+	shape.Gradient, shape.Grad = code.Gradient, GradPointer
 }
 
 // companion finds a function that goes with the objective (its gradient

@@ -105,7 +105,7 @@ func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
 		fmt.Fprintf(w, "stops when %s ≤ %s or every |Δxᵢ| ≤ %s·%s, after at most %d moves and %d objective calls\n\n",
 			res.measureWords(), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), scale, l.Iterations, l.Evaluations)
 	}
-	differences := p.Derivative != rules.Analytic
+	differences := !p.Derivative.Exact
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	var header []string
 	for i, c := range traceColumns {

@@ -283,7 +283,7 @@ func WriteTuneTable(w io.Writer, p *Plan, rows []TuneRow) error {
 	switch {
 	case p.Shape.Combined:
 		note = " Each objective call gives the value and the gradient together, so the counts compare the policies fully."
-	case p.Derivative == rules.Analytic:
+	case p.Derivative.Exact:
 		note = " Objective calls leave out gradient calls, which the Wolfe rules make at more trials than backtracking does; the time includes both."
 	}
 	_, err := fmt.Fprintln(w, "\nRanked by convergence (the gradient test first), then objective calls, then time; times are for this machine, so validate on the target."+note)

@@ -18,6 +18,20 @@ var (
 		ResidualSummary:  "the user's own Jacobian of the residuals (spec key `jacobian`), g = Jᵀr; costs no residual calls",
 		GradientCalls:    func(dim int) int { return 0 },
 		CalibrationCalls: func(dim int) int { return 0 },
+		Exact:            true,
+	})
+	Automatic = Derivative.register(&Entry{
+		Name:             "automatic",
+		Summary:          "thalweg differentiates the objective's own Go source (forward mode) and writes the gradient beside the minimizer; costs no objective calls",
+		Math:             "each float v that depends on x carries its tangent ∂v ∈ ℝᴺ; a statement v = φ(u₁…uₘ) becomes ∂v = Σⱼ (∂φ/∂uⱼ)·∂uⱼ, the partials from a reverse sweep over the statement's expression, one loop over the N components; a read of xᵢ has the tangent eᵢ; exact to rounding",
+		References:       []string{GriewankWalther + ", §3.1 and §10.2", BischofADIFOR},
+		Picks:            Picks{"derivative": "analyticGradient", "calibrate": "calibrateNothing", "gradientError": "exactGradient", "diagonalCurvature": "probedCurvature"},
+		ResidualPicks:    Picks{"jacobian": "rowsJacobian", "jacobianError": "exactJacobian"},
+		ResidualSummary:  "thalweg differentiates the residuals' own Go source (forward mode) into their Jacobian by rows, g = Jᵀr; costs no residual calls",
+		GradientCalls:    func(dim int) int { return 0 },
+		CalibrationCalls: func(dim int) int { return 0 },
+		Exact:            true,
+		Derived:          true,
 	})
 	Forward = Derivative.register(&Entry{
 		Name:             "forward",

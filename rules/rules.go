@@ -156,6 +156,10 @@ type Entry struct {
 	// gradients, to confirm each convergence).
 	GradientCalls    func(dim int) int
 	CalibrationCalls func(dim int) int
+	// Exact says a derivative source's gradient has no truncation error
+	// (the user's own, or thalweg's automatic one), and Derived that
+	// thalweg writes it from the objective's source.
+	Exact, Derived bool
 
 	// IterationCalls is a step rule's most objective calls in one
 	// iteration: its line search and the gradient at the accepted point.
@@ -351,6 +355,8 @@ const (
 	DennisSchnabel           = "J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained Optimization and Nonlinear Equations, Prentice-Hall, 1983"
 	LiuNocedal               = "D. C. Liu and J. Nocedal, On the limited memory BFGS method for large scale optimization, Math. Programming 45:503–528, 1989"
 	GillMurraySaundersWright = "P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing forward-difference intervals for numerical optimization, SIAM J. Sci. Stat. Comput. 4(2):310–321, 1983"
+	GriewankWalther          = "A. Griewank and A. Walther, Evaluating Derivatives: Principles and Techniques of Algorithmic Differentiation, 2nd ed., SIAM, 2008"
+	BischofADIFOR            = "C. Bischof, A. Carle, G. Corliss, A. Griewank and P. Hovland, ADIFOR: generating derivative codes from Fortran programs, Scientific Programming 1(1):11–29, 1992"
 	MoreLM                   = "J. J. Moré, The Levenberg–Marquardt algorithm: implementation and theory, in Numerical Analysis, Lecture Notes in Mathematics 630, Springer, 1978, 105–116"
 	PolakRibiere             = "E. Polak and G. Ribière, Note sur la convergence de méthodes de directions conjuguées, Rev. Française Informat. Recherche Opérationnelle 3(16):35–43, 1969"
 )
