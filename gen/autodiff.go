@@ -59,7 +59,8 @@ type derivedCode struct {
 // any, holds the unknowns themselves (seeded with the identity).
 type adVariant struct {
 	fn       *types.Func
-	unknowns int // parameter index, -1 for none
+	unknowns int    // parameter index, -1 for none
+	passive  string // for each parameter, 'p' where the call passes a float that does not depend on x
 }
 
 // differentiator differentiates one objective and the package functions
@@ -133,7 +134,8 @@ func (lp *loadedPackage) differentiate(m *Minimizer, shape *Shape, fn *types.Fun
 // nor generated before.
 func (d *differentiator) unique(name string) string {
 	for i := 2; ; i++ {
-		if !d.taken[name] && d.lp.pkg.Types.Scope().Lookup(name) == nil {
+		obj := d.lp.pkg.Types.Scope().Lookup(name)
+		if !d.taken[name] && (obj == nil || d.lp.generated(d.lp.pkg.Fset.Position(obj.Pos()).Filename)) {
 			d.taken[name] = true
 			return name
 		}
@@ -224,6 +226,10 @@ func mul(a, b ex) ex {
 		return b
 	case b.isOne():
 		return a
+	case b.s == "-1":
+		return neg(a)
+	case a.s == "-1":
+		return neg(b)
 	}
 	return ex{s: a.paren() + " * " + b.paren(), konst: a.konst && b.konst}
 }
@@ -279,6 +285,8 @@ type adFunc struct {
 	result    string // where a return's tangent goes ("" when nothing is returned)
 	value     bool   // a return keeps its value (helpers) or not (the objective)
 	k         string // the tangent loop's index
+	fresh0    string // a tangent just declared, so already zero
+	byValue   bool   // the unknowns are an array value, not a pointer
 	zeroRow   string
 }
 
@@ -503,7 +511,11 @@ func (d *differentiator) top(decl *ast.FuncDecl, code *derivedCode) {
 		f.unknowns = xObj
 		fmt.Fprintf(&head, "// %s writes the Jacobian of %s's residuals by rows, %s[i][j] = ∂rᵢ/∂xⱼ:\n", code.Jacobian, decl.Name.Name, jac)
 		fmt.Fprintf(&head, "// %s (%s) differentiated in forward mode by thalweg derivative = \"automatic\".\n", decl.Name.Name, d.where(decl))
-		fmt.Fprintf(&head, "func %s%s(%s *%s, %s *[%d]%s) {\n", recv, code.Jacobian, xName, vec, jac, s.Residuals, vec)
+		star := "*" // x as the objective takes it: the kernels call the Jacobian so
+		if s.Arg == ArgArray {
+			star, f.byValue = "", true
+		}
+		fmt.Fprintf(&head, "func %s%s(%s %s%s, %s *[%d]%s) {\n", recv, code.Jacobian, xName, star, vec, jac, s.Residuals, vec)
 		f.line("*%s = [%d]%s{}", jac, s.Residuals, vec)
 		f.line("var %s [%d]%s", rName, s.Residuals, d.elem)
 	} else {
@@ -598,6 +610,8 @@ func (d *differentiator) helper(v adVariant) {
 		case i == v.unknowns:
 			f.unknowns = p
 			list = append(list, fmt.Sprintf("%s *%s", name, vec))
+		case isFloat(typ) && v.passive[i] == 'p':
+			list = append(list, fmt.Sprintf("%s %s", name, d.typeText(typ)))
 		case isFloat(typ):
 			list = append(list, fmt.Sprintf("%s %s", name, d.typeText(typ)))
 			if p == nil {
@@ -721,8 +735,8 @@ func (f *adFunc) stmt(s ast.Stmt) {
 			f.check(a)
 			init, s = d.text(a), &ast.ForStmt{For: s.For, Cond: s.Cond, Post: s.Post, Body: s.Body}
 		}
-		f.line("{")
 		if s.Init != nil {
+			f.line("{")
 			f.simple(s.Init)
 		}
 		cond := "true"
@@ -742,12 +756,14 @@ func (f *adFunc) stmt(s ast.Stmt) {
 		f.line("for %s; %s; %s {", init, cond, post)
 		f.block(s.Body.List)
 		f.line("}")
-		f.line("}")
+		if s.Init != nil {
+			f.line("}")
+		}
 	case *ast.RangeStmt:
 		f.rangeStmt(s)
 	case *ast.SwitchStmt:
-		f.line("{")
 		if s.Init != nil {
+			f.line("{")
 			f.simple(s.Init)
 		}
 		tag := ""
@@ -771,7 +787,9 @@ func (f *adFunc) stmt(s ast.Stmt) {
 			f.block(cc.Body)
 		}
 		f.line("}")
-		f.line("}")
+		if s.Init != nil {
+			f.line("}")
+		}
 	case *ast.BranchStmt:
 		if s.Tok == token.GOTO || s.Tok == token.FALLTHROUGH {
 			d.refuse(s, "%s", s.Tok)
@@ -1096,6 +1114,7 @@ func (f *adFunc) declStmt(s *ast.DeclStmt) {
 			f.line("%s%s", unreadMarker, f.tangentName(obj))
 			if len(vs.Values) > 0 {
 				f.comment(vs)
+				f.fresh0 = f.tangentName(obj)
 				f.store(name.Name, f.tangentName(obj), false, f.lin(vs.Values[i]))
 			}
 		}
@@ -1107,6 +1126,7 @@ func (f *adFunc) define(obj types.Object, name string, n *lnode) {
 	t := f.tangentName(obj)
 	f.line("var %s %s", t, f.tangentType())
 	f.line("%s%s", unreadMarker, t)
+	f.fresh0 = t
 	f.tangentInto(t, false, n)
 	f.line("%s := %s", name, n.val.s)
 }
@@ -1183,6 +1203,7 @@ func (f *adFunc) assign(s *ast.AssignStmt) {
 			if n.active {
 				t = f.temp("dv")
 				f.line("var %s %s", t, f.tangentType())
+				f.fresh0 = t
 				f.tangentInto(t, false, n)
 			}
 			ps = append(ps, pending{l, v, t})
@@ -1201,9 +1222,10 @@ func (f *adFunc) assign(s *ast.AssignStmt) {
 			d.refuse(s, "the operator %s on a value that depends on x", s.Tok)
 			return
 		}
-		rhs = &ast.BinaryExpr{X: lhs, Op: op, Y: &ast.ParenExpr{X: rhs, Lparen: rhs.Pos(), Rparen: rhs.End()}, OpPos: s.TokPos}
+		// lin parenthesizes by its own operands' shapes, so rhs needs no
+		// ParenExpr; the synthetic node only needs its type recorded.
+		rhs = &ast.BinaryExpr{X: lhs, Op: op, Y: rhs, OpPos: s.TokPos}
 		d.info.Types[rhs] = types.TypeAndValue{Type: d.info.TypeOf(lhs)}
-		d.info.Types[rhs.(*ast.BinaryExpr).Y] = types.TypeAndValue{Type: d.info.TypeOf(s.Rhs[0])}
 	}
 	f.storeExpr(lhs, s.Tok, f.lin(rhs))
 }
@@ -1287,7 +1309,10 @@ func (f *adFunc) tangentInto(dst string, ptr bool, n *lnode) {
 		}
 	}
 	k := f.k
+	zeroed := f.fresh0 == dst
+	f.fresh0 = ""
 	switch {
+	case len(rows) == 0 && zeroed:
 	case len(rows) == 0:
 		if ptr {
 			f.line("*%s = %s{}", dst, f.tangentType())
@@ -1353,7 +1378,7 @@ func (f *adFunc) collect(n *lnode) []term {
 			return
 		}
 		if n.row != "" || n.seed != "" {
-			if isFloat(n.typ) && !types.Identical(n.typ, types.Typ[f.d.kind()]) {
+			if isFloat(n.typ) && !types.Identical(n.typ, types.Typ[f.d.kind()]) && !adj.isOne() {
 				adj = ex{s: f.d.elem + "(" + adj.s + ")", atomic: true, konst: adj.konst}
 			}
 			key := "row " + n.row
@@ -1387,7 +1412,7 @@ func (f *adFunc) collect(n *lnode) []term {
 				continue
 			}
 			a := mul(adj, n.parts[i])
-			if isFloat(k.typ) && isFloat(n.typ) && !types.Identical(k.typ, n.typ) {
+			if isFloat(k.typ) && isFloat(n.typ) && !types.Identical(k.typ, n.typ) && !a.isOne() {
 				a = ex{s: f.d.typeText(k.typ) + "(" + a.s + ")", atomic: true, konst: a.konst}
 			}
 			walk(k, a)
@@ -1769,15 +1794,24 @@ func (f *adFunc) packageCall(c *ast.CallExpr, fn *types.Func, typ types.Type) *l
 	}
 	unknowns := -1
 	var args []string
+	passive := []byte(strings.Repeat("a", len(c.Args)))
 	for i, a := range c.Args {
 		pt := sig.Params().At(i).Type()
 		if f.isUnknowns(a) {
+			if !holdsUnknowns(pt, d.elem, d.n) {
+				d.refuse(a, "the unknowns passed to %s as %s: pass them as [%d]%s, *[%d]%s or []%s", fn.Name(), d.typeText(pt), d.n, d.elem, d.n, d.elem, d.elem)
+				return &lnode{}
+			}
 			if unknowns >= 0 {
 				d.refuse(a, "the unknowns passed twice to %s", fn.Name())
 				return &lnode{}
 			}
 			unknowns = i
-			args = append(args, f.unknowns.Name())
+			if f.byValue {
+				args = append(args, "&"+f.unknowns.Name())
+			} else {
+				args = append(args, f.unknowns.Name())
+			}
 			continue
 		}
 		if !isFloat(pt) {
@@ -1791,9 +1825,8 @@ func (f *adFunc) packageCall(c *ast.CallExpr, fn *types.Func, typ types.Type) *l
 		}
 		k := f.lin(a)
 		if !k.active {
-			z := f.temp("dz")
-			f.line("var %s %s", z, f.tangentType())
-			args = append(args, k.val.s, "&"+z)
+			passive[i] = 'p'
+			args = append(args, k.val.s)
 			continue
 		}
 		val := f.bind(k)
@@ -1808,13 +1841,14 @@ func (f *adFunc) packageCall(c *ast.CallExpr, fn *types.Func, typ types.Type) *l
 		}
 		t := f.temp("dt")
 		f.line("var %s %s", t, f.tangentType())
+		f.fresh0 = t
 		f.tangentInto(t, false, k)
 		args = append(args, val.s, "&"+t)
 	}
 	if d.failed {
 		return &lnode{}
 	}
-	name := d.variant(adVariant{fn, unknowns})
+	name := d.variant(adVariant{fn, unknowns, string(passive)})
 	fun := name
 	if sel, ok := ast.Unparen(c.Fun).(*ast.SelectorExpr); ok && sig.Recv() != nil {
 		if f.reads(sel.X) {
@@ -1914,4 +1948,13 @@ func (f *adFunc) readsAny(es []ast.Expr) bool {
 		}
 	}
 	return false
+}
+
+// holdsUnknowns reports whether a parameter of type t can take the
+// unknowns whole: [n]elem, *[n]elem or []elem.
+func holdsUnknowns(t types.Type, elem string, n int) bool {
+	if p := pointerTo(t); p != nil {
+		t = p
+	}
+	return arrayOf(t, elem) == n || sliceOf(t, elem)
 }

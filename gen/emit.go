@@ -39,7 +39,7 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) ([]string, error) 
 	}
 	source, usesMath := kernels.source, kernels.usesMath
 	if d := p.Shape.Derived; d != nil {
-		source = append(append(append([]byte{}, source...), '\n'), d.Source...)
+		source = append(append(append([]byte{}, bytes.TrimRight(source, "\n")...), "\n\n"...), d.Source...)
 		usesMath = usesMath || d.UsesMath
 	}
 	src, ok := assemble(glue, source, usesMath)

@@ -464,6 +464,16 @@ func residualArgs(s Shape, out string) []jen.Code {
 	return []jen.Code{jen.Op("&").Id("x"), jen.Op("&").Id(out)}
 }
 
+// jacobianArgs are the arguments of a call of the Jacobian: the
+// objective's, except that the Jacobian thalweg derives for a residual
+// objective on slices takes arrays (x *[N]T, J *[M][N]T).
+func jacobianArgs(s Shape, out string) []jen.Code {
+	if s.Derived != nil && s.Arg == ArgSlice {
+		return []jen.Code{jen.Op("&").Id("x"), jen.Op("&").Id(out)}
+	}
+	return residualArgs(s, out)
+}
+
 // halfSquaresBody is the body of a func(x [N]T) T giving f = ½‖r(x)‖² of
 // a residual objective.
 func halfSquaresBody(p *Plan, callee func(string) *jen.Statement) []jen.Code {
@@ -491,7 +501,7 @@ func residualGradientBody(p *Plan, callee func(string) *jen.Statement) []jen.Cod
 		jen.Var().Id("r").Index(jen.Lit(s.Residuals)).Id(s.Elem),
 		callee(s.Objective).Call(residualArgs(s, "r")...),
 		jen.Var().Id("j").Index(jen.Lit(rows)).Index(jen.Lit(cols)).Id(s.Elem),
-		callee(s.Jacobian).Call(residualArgs(s, "j")...),
+		callee(s.Jacobian).Call(jacobianArgs(s, "j")...),
 		jen.For(jen.Id("k").Op(":=").Range().Id("r")).Block(
 			jen.For(jen.Id("i").Op(":=").Range().Id("g")).Block(
 				jen.Id("g").Index(jen.Id("i")).Op("+=").Add(entry).Op("*").Id("r").Index(jen.Id("k")),
@@ -550,11 +560,11 @@ func emitJacobianCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
 	rvec := jen.Index(jen.Lit(s.Residuals)).Id(s.Elem)
 	jac := jen.Index(jen.Lit(s.Residuals)).Add(vec.Clone())
-	jacBody := []jen.Code{callee(s.Jacobian).Call(residualArgs(s, "j")...)}
+	jacBody := []jen.Code{callee(s.Jacobian).Call(jacobianArgs(s, "j")...)}
 	if s.JacobianColumns {
 		jacBody = []jen.Code{
 			jen.Var().Id("c").Index(jen.Lit(s.Dim)).Add(rvec.Clone()),
-			callee(s.Jacobian).Call(residualArgs(s, "c")...),
+			callee(s.Jacobian).Call(jacobianArgs(s, "c")...),
 			jen.For(jen.Id("col").Op(":=").Range().Id("c")).Block(
 				jen.For(jen.Id("i").Op(":=").Range().Id("c").Index(jen.Id("col"))).Block(
 					jen.Id("j").Index(jen.Id("i")).Index(jen.Id("col")).Op("=").Id("c").Index(jen.Id("col")).Index(jen.Id("i")),

@@ -763,10 +763,10 @@ func (rw *rewriter) residualCall(call *ast.CallExpr) ast.Stmt {
 		name = s.Jacobian
 	}
 	p, out := call.Args[0], call.Args[1]
-	switch s.Arg {
-	case ArgArray:
+	switch {
+	case s.Arg == ArgArray:
 		p = deref(p)
-	case ArgSlice:
+	case s.Arg == ArgSlice && (name == s.Objective || s.Derived == nil):
 		p, out = fullSlice(p), fullSlice(out)
 	}
 	return &ast.ExprStmt{X: &ast.CallExpr{Fun: rw.callee(name), Args: []ast.Expr{p, out}, Lparen: call.Lparen, Rparen: call.Rparen}}
