@@ -82,7 +82,7 @@ func TestEndToEnd(t *testing.T) {
 		want := map[string]int{"Benchmark": len(plans)}
 		for _, p := range plans {
 			want["Test"] += 5 // converges, allocates nothing, cap, solver ticks, solver allocates nothing
-			if p.Derivative == rules.Analytic {
+			if p.Derivative.Exact {
 				want["Test"]++ // the gradient check, or the Jacobian check of a residual objective
 			}
 			if p.Shape.Residuals > 0 {
@@ -373,6 +373,14 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			have["instance "+kind+" "+inst] = true
 		}
 		have["derivative "+p.Derivative.Name] = true
+		if p.Derivative.Derived {
+			form := argNames[s.Arg]
+			if s.Residuals > 0 {
+				form = "residual " + form
+			}
+			have["automatic "+form+" "+s.Elem+" "+kind] = true
+			have["automatic "+form+" "+s.Elem] = true
+		}
 		have["direction "+p.Direction.Name] = true
 		rule := p.Rule.Name
 		for _, q := range p.Rule.Params {
@@ -514,6 +522,19 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			want = append(want, "residual rule "+r.Name)
 		}
 	}
+	// derivative = "automatic" on every objective form in both float
+	// types, on value and pointer receivers in both, and on the residual
+	// forms.
+	for _, form := range []string{"scalar", "array", "pointer", "slice"} {
+		for _, elem := range []string{"float32", "float64"} {
+			want = append(want, "automatic "+form+" "+elem)
+		}
+	}
+	for _, elem := range []string{"float32", "float64"} {
+		want = append(want, "automatic pointer "+elem+" func")
+	}
+	want = append(want, "automatic pointer float64 value", "automatic array float64 pointer", "automatic slice float32 value", "automatic scalar float32 pointer",
+		"automatic residual pointer float64", "automatic residual pointer float32", "automatic residual array float64 value", "automatic residual slice float64")
 	var missing []string
 	for _, w := range want {
 		if !have[w] {
@@ -531,10 +552,10 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml", "ticks/ticks.toml", "residual/residual.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml", "ticks/ticks.toml", "residual/residual.toml", "auto/auto.toml"}
 
 // e2ePackages are the module's packages whose tests must pass.
-var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined", "e2e/ticks", "e2e/residual"}
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined", "e2e/ticks", "e2e/residual", "e2e/auto"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
@@ -559,6 +580,8 @@ func e2eModule() map[string]string {
 		"residual/residual.go":      e2eResidualGo,
 		"residual/residual.toml":    e2eResidualSpec,
 		"residual/residual_test.go": e2eResidualTest,
+		"auto/auto.go":              e2eAutoGo,
+		"auto/auto.toml":            e2eAutoSpec,
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)
