@@ -145,6 +145,9 @@ func (d *differentiator) unique(name string) string {
 
 // refuse reports a construct automatic differentiation does not take.
 func (d *differentiator) refuse(n ast.Node, format string, args ...any) {
+	if d.failed {
+		return // one problem per objective: what follows a refusal may only echo it
+	}
 	d.failed = true
 	d.probs.add(d.lp.position(n.Pos()), "derivative = \"automatic\" cannot differentiate "+format+"; use derivative = \"central\", or \"analytic\" with a gradient of your own", args...)
 }
@@ -376,11 +379,10 @@ func (f *adFunc) analyze() {
 	ast.Inspect(f.decl.Body, func(n ast.Node) bool {
 		switch s := n.(type) {
 		case *ast.AssignStmt:
-			if len(s.Lhs) == len(s.Rhs) {
-				for i, l := range s.Lhs {
-					if o := local(l); o != nil {
-						flows = append(flows, flow{o, s.Rhs[i]})
-					}
+			for i, l := range s.Lhs {
+				if o := local(l); o != nil {
+					// a, b := f(x) takes each from the one call
+					flows = append(flows, flow{o, s.Rhs[min(i, len(s.Rhs)-1)]})
 				}
 			}
 		case *ast.ValueSpec:
@@ -1164,7 +1166,7 @@ func (f *adFunc) assign(s *ast.AssignStmt) {
 	}
 	if len(s.Lhs) != len(s.Rhs) {
 		for _, l := range s.Lhs {
-			if f.anyActive(l) {
+			if f.anyActive(l) || f.readsAny(s.Rhs) {
 				d.refuse(s, "an assignment from a call with several results")
 				return
 			}
@@ -1642,6 +1644,12 @@ func (f *adFunc) call(c *ast.CallExpr, typ types.Type) *lnode {
 				return f.pick(c, b.Name(), typ, id.Name)
 			}
 			d.refuse(c, "the builtin %s on values that depend on x", b.Name())
+			return &lnode{}
+		}
+	}
+	if sel, ok := ast.Unparen(c.Fun).(*ast.SelectorExpr); ok {
+		if s := d.info.Selections[sel]; s != nil && types.IsInterface(s.Recv()) {
+			d.refuse(c, "%s: a method call through an interface", d.text(c.Fun))
 			return &lnode{}
 		}
 	}
