@@ -30,6 +30,15 @@ func Misra1a(b *[2]float64, r *[14]float64) {
 	}
 }
 
+// Misra1aPlain writes Misra1a's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Misra1aPlain(b *[2]float64, r *[14]float64) {
+	for i := range misra1aData {
+		row := &misra1aData[i]
+		r[i] = misra1aValue(b, row[1:]) - row[0]
+	}
+}
+
 // Misra1aJacobian writes the Jacobian of Misra1a's residuals by rows.
 func Misra1aJacobian(b *[2]float64, j *[14][2]float64) {
 	for i := range misra1aData {
@@ -100,6 +109,15 @@ func Chwirut2(b *[3]float64, r *[54]float64) {
 	for i := range chwirut2Data {
 		row := &chwirut2Data[i]
 		r[i] = chwirut(b, row[1:], nil) - row[0]
+	}
+}
+
+// Chwirut2Plain writes Chwirut2's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Chwirut2Plain(b *[3]float64, r *[54]float64) {
+	for i := range chwirut2Data {
+		row := &chwirut2Data[i]
+		r[i] = chwirutValue(b, row[1:]) - row[0]
 	}
 }
 
@@ -336,6 +354,15 @@ func Chwirut1(b *[3]float64, r *[214]float64) {
 	}
 }
 
+// Chwirut1Plain writes Chwirut1's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Chwirut1Plain(b *[3]float64, r *[214]float64) {
+	for i := range chwirut1Data {
+		row := &chwirut1Data[i]
+		r[i] = chwirutValue(b, row[1:]) - row[0]
+	}
+}
+
 // Chwirut1Jacobian writes the Jacobian of Chwirut1's residuals by rows.
 func Chwirut1Jacobian(b *[3]float64, j *[214][3]float64) {
 	for i := range chwirut1Data {
@@ -376,6 +403,15 @@ func Lanczos3(b *[6]float64, r *[24]float64) {
 	for i := range lanczos3Data {
 		row := &lanczos3Data[i]
 		r[i] = lanczos(b, row[1:], nil) - row[0]
+	}
+}
+
+// Lanczos3Plain writes Lanczos3's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Lanczos3Plain(b *[6]float64, r *[24]float64) {
+	for i := range lanczos3Data {
+		row := &lanczos3Data[i]
+		r[i] = lanczosValue(b, row[1:]) - row[0]
 	}
 }
 
@@ -648,6 +684,15 @@ func Gauss1(b *[8]float64, r *[250]float64) {
 	}
 }
 
+// Gauss1Plain writes Gauss1's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Gauss1Plain(b *[8]float64, r *[250]float64) {
+	for i := range gauss1Data {
+		row := &gauss1Data[i]
+		r[i] = gaussValue(b, row[1:]) - row[0]
+	}
+}
+
 // Gauss1Jacobian writes the Jacobian of Gauss1's residuals by rows.
 func Gauss1Jacobian(b *[8]float64, j *[250][8]float64) {
 	for i := range gauss1Data {
@@ -670,6 +715,15 @@ func DanWood(b *[2]float64, r *[6]float64) {
 	for i := range danWoodData {
 		row := &danWoodData[i]
 		r[i] = danWood(b, row[1:], nil) - row[0]
+	}
+}
+
+// DanWoodPlain writes DanWood's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func DanWoodPlain(b *[2]float64, r *[6]float64) {
+	for i := range danWoodData {
+		row := &danWoodData[i]
+		r[i] = danWoodValue(b, row[1:]) - row[0]
 	}
 }
 
@@ -703,6 +757,15 @@ func Misra1b(b *[2]float64, r *[14]float64) {
 	for i := range misra1bData {
 		row := &misra1bData[i]
 		r[i] = misra1b(b, row[1:], nil) - row[0]
+	}
+}
+
+// Misra1bPlain writes Misra1b's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Misra1bPlain(b *[2]float64, r *[14]float64) {
+	for i := range misra1bData {
+		row := &misra1bData[i]
+		r[i] = misra1bValue(b, row[1:]) - row[0]
 	}
 }
 
@@ -873,6 +936,15 @@ func Kirby2(b *[5]float64, r *[151]float64) {
 	for i := range kirby2Data {
 		row := &kirby2Data[i]
 		r[i] = kirby2(b, row[1:], nil) - row[0]
+	}
+}
+
+// Kirby2Plain writes Kirby2's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Kirby2Plain(b *[5]float64, r *[151]float64) {
+	for i := range kirby2Data {
+		row := &kirby2Data[i]
+		r[i] = kirby2Value(b, row[1:]) - row[0]
 	}
 }
 
@@ -1131,6 +1203,15 @@ func Hahn1(b *[7]float64, r *[236]float64) {
 	}
 }
 
+// Hahn1Plain writes Hahn1's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Hahn1Plain(b *[7]float64, r *[236]float64) {
+	for i := range hahn1Data {
+		row := &hahn1Data[i]
+		r[i] = cubicRatioValue(b, row[1:]) - row[0]
+	}
+}
+
 // Hahn1Jacobian writes the Jacobian of Hahn1's residuals by rows.
 func Hahn1Jacobian(b *[7]float64, j *[236][7]float64) {
 	for i := range hahn1Data {
@@ -1278,6 +1359,15 @@ func Nelson(b *[3]float64, r *[128]float64) {
 	}
 }
 
+// NelsonPlain writes Nelson's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func NelsonPlain(b *[3]float64, r *[128]float64) {
+	for i := range nelsonData {
+		row := &nelsonData[i]
+		r[i] = nelsonValue(b, row[1:]) - math.Log(row[0])
+	}
+}
+
 // NelsonJacobian writes the Jacobian of Nelson's residuals by rows.
 func NelsonJacobian(b *[3]float64, j *[128][3]float64) {
 	for i := range nelsonData {
@@ -1330,6 +1420,15 @@ func MGH17(b *[5]float64, r *[33]float64) {
 	}
 }
 
+// MGH17Plain writes MGH17's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func MGH17Plain(b *[5]float64, r *[33]float64) {
+	for i := range mGH17Data {
+		row := &mGH17Data[i]
+		r[i] = mgh17Value(b, row[1:]) - row[0]
+	}
+}
+
 // MGH17Jacobian writes the Jacobian of MGH17's residuals by rows.
 func MGH17Jacobian(b *[5]float64, j *[33][5]float64) {
 	for i := range mGH17Data {
@@ -1373,6 +1472,15 @@ func Lanczos1(b *[6]float64, r *[24]float64) {
 	}
 }
 
+// Lanczos1Plain writes Lanczos1's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Lanczos1Plain(b *[6]float64, r *[24]float64) {
+	for i := range lanczos1Data {
+		row := &lanczos1Data[i]
+		r[i] = lanczosValue(b, row[1:]) - row[0]
+	}
+}
+
 // Lanczos1Jacobian writes the Jacobian of Lanczos1's residuals by rows.
 func Lanczos1Jacobian(b *[6]float64, j *[24][6]float64) {
 	for i := range lanczos1Data {
@@ -1413,6 +1521,15 @@ func Lanczos2(b *[6]float64, r *[24]float64) {
 	for i := range lanczos2Data {
 		row := &lanczos2Data[i]
 		r[i] = lanczos(b, row[1:], nil) - row[0]
+	}
+}
+
+// Lanczos2Plain writes Lanczos2's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Lanczos2Plain(b *[6]float64, r *[24]float64) {
+	for i := range lanczos2Data {
+		row := &lanczos2Data[i]
+		r[i] = lanczosValue(b, row[1:]) - row[0]
 	}
 }
 
@@ -1685,6 +1802,15 @@ func Gauss3(b *[8]float64, r *[250]float64) {
 	}
 }
 
+// Gauss3Plain writes Gauss3's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Gauss3Plain(b *[8]float64, r *[250]float64) {
+	for i := range gauss3Data {
+		row := &gauss3Data[i]
+		r[i] = gaussValue(b, row[1:]) - row[0]
+	}
+}
+
 // Gauss3Jacobian writes the Jacobian of Gauss3's residuals by rows.
 func Gauss3Jacobian(b *[8]float64, j *[250][8]float64) {
 	for i := range gauss3Data {
@@ -1715,6 +1841,15 @@ func Misra1d(b *[2]float64, r *[14]float64) {
 	for i := range misra1dData {
 		row := &misra1dData[i]
 		r[i] = misra1d(b, row[1:], nil) - row[0]
+	}
+}
+
+// Misra1dPlain writes Misra1d's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Misra1dPlain(b *[2]float64, r *[14]float64) {
+	for i := range misra1dData {
+		row := &misra1dData[i]
+		r[i] = misra1dValue(b, row[1:]) - row[0]
 	}
 }
 
@@ -1759,6 +1894,15 @@ func Roszman1(b *[4]float64, r *[25]float64) {
 	for i := range roszman1Data {
 		row := &roszman1Data[i]
 		r[i] = roszman1(b, row[1:], nil) - row[0]
+	}
+}
+
+// Roszman1Plain writes Roszman1's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Roszman1Plain(b *[4]float64, r *[25]float64) {
+	for i := range roszman1Data {
+		row := &roszman1Data[i]
+		r[i] = roszman1Value(b, row[1:]) - row[0]
 	}
 }
 
@@ -1949,6 +2093,15 @@ func ENSO(b *[9]float64, r *[168]float64) {
 	}
 }
 
+// ENSOPlain writes ENSO's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func ENSOPlain(b *[9]float64, r *[168]float64) {
+	for i := range eNSOData {
+		row := &eNSOData[i]
+		r[i] = ensoValue(b, row[1:]) - row[0]
+	}
+}
+
 // ENSOJacobian writes the Jacobian of ENSO's residuals by rows.
 func ENSOJacobian(b *[9]float64, j *[168][9]float64) {
 	for i := range eNSOData {
@@ -1976,6 +2129,15 @@ func MGH09(b *[4]float64, r *[11]float64) {
 	for i := range mGH09Data {
 		row := &mGH09Data[i]
 		r[i] = mgh09(b, row[1:], nil) - row[0]
+	}
+}
+
+// MGH09Plain writes MGH09's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func MGH09Plain(b *[4]float64, r *[11]float64) {
+	for i := range mGH09Data {
+		row := &mGH09Data[i]
+		r[i] = mgh09Value(b, row[1:]) - row[0]
 	}
 }
 
@@ -2035,6 +2197,15 @@ func Thurber(b *[7]float64, r *[37]float64) {
 	}
 }
 
+// ThurberPlain writes Thurber's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func ThurberPlain(b *[7]float64, r *[37]float64) {
+	for i := range thurberData {
+		row := &thurberData[i]
+		r[i] = cubicRatioValue(b, row[1:]) - row[0]
+	}
+}
+
 // ThurberJacobian writes the Jacobian of Thurber's residuals by rows.
 func ThurberJacobian(b *[7]float64, j *[37][7]float64) {
 	for i := range thurberData {
@@ -2060,6 +2231,15 @@ func Rat42(b *[3]float64, r *[9]float64) {
 	for i := range rat42Data {
 		row := &rat42Data[i]
 		r[i] = rat42(b, row[1:], nil) - row[0]
+	}
+}
+
+// Rat42Plain writes Rat42's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Rat42Plain(b *[3]float64, r *[9]float64) {
+	for i := range rat42Data {
+		row := &rat42Data[i]
+		r[i] = rat42Value(b, row[1:]) - row[0]
 	}
 }
 
@@ -2233,6 +2413,15 @@ func Bennett5(b *[3]float64, r *[154]float64) {
 	for i := range bennett5Data {
 		row := &bennett5Data[i]
 		r[i] = bennett5(b, row[1:], nil) - row[0]
+	}
+}
+
+// Bennett5Plain writes Bennett5's residuals from the model's value alone (values.go), as a user
+// writes them for derivative = "automatic".
+func Bennett5Plain(b *[3]float64, r *[154]float64) {
+	for i := range bennett5Data {
+		row := &bennett5Data[i]
+		r[i] = bennett5Value(b, row[1:]) - row[0]
 	}
 }
 
