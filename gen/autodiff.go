@@ -263,6 +263,7 @@ type lnode struct {
 	parts  []ex // ∂val/∂kids[i], in val's type
 	row    string
 	seed   string
+	sparse []term // a sparse variable's unit vectors
 }
 
 // term is one leaf's share of a statement's tangent.
@@ -283,6 +284,13 @@ type adFunc struct {
 	tangent   map[types.Object]string
 	pointer   map[types.Object]bool // tangent held through a pointer parameter
 	read      map[string]bool       // tangents some statement reads
+	assigned  map[types.Object]int  // assignments to each variable
+	// sparse holds the tangents kept as a few unit vectors: a variable
+	// assigned once from reads of the unknowns alone, dv = Σ cⱼ·e_{iⱼ}
+	// (a − x[i] has one, x[i+1] − x[i]² two), whose reads then add to a
+	// few components instead of a loop over all N (compile-time sparsity,
+	// Griewank & Walther 2008, ch. 7).
+	sparse map[types.Object][]term
 	used      map[string]bool
 	body      *bytes.Buffer
 	result    string // where a return's tangent goes ("" when nothing is returned)
@@ -295,7 +303,7 @@ type adFunc struct {
 
 func (d *differentiator) newFunc(decl *ast.FuncDecl) *adFunc {
 	f := &adFunc{d: d, decl: decl, active: map[types.Object]bool{}, tangent: map[types.Object]string{},
-		pointer: map[types.Object]bool{}, read: map[string]bool{}, used: map[string]bool{}, body: &bytes.Buffer{}}
+		pointer: map[types.Object]bool{}, read: map[string]bool{}, assigned: map[types.Object]int{}, sparse: map[types.Object][]term{}, used: map[string]bool{}, body: &bytes.Buffer{}}
 	ast.Inspect(decl, func(n ast.Node) bool {
 		if id, ok := n.(*ast.Ident); ok {
 			f.used[id.Name] = true
@@ -400,6 +408,9 @@ func (f *adFunc) analyze() {
 		}
 		return true
 	})
+	for _, fl := range flows {
+		f.assigned[fl.to]++
+	}
 	for changed := true; changed; {
 		changed = false
 		for _, fl := range flows {
@@ -1125,12 +1136,50 @@ func (f *adFunc) declStmt(s *ast.DeclStmt) {
 
 // define declares an active variable from a lowered expression.
 func (f *adFunc) define(obj types.Object, name string, n *lnode) {
+	if f.assigned[obj] == 1 && isFloat(obj.Type()) && f.defineSparse(obj, name, n) {
+		return
+	}
 	t := f.tangentName(obj)
 	f.line("var %s %s", t, f.tangentType())
 	f.line("%s%s", unreadMarker, t)
 	f.fresh0 = t
 	f.tangentInto(t, false, n)
 	f.line("%s := %s", name, n.val.s)
+}
+
+// maxSparse is the most unit vectors a sparse tangent keeps.
+const maxSparse = 4
+
+// defineSparse defines a variable assigned once whose tangent is a few
+// unit vectors: each coefficient stays a scalar and each index an int
+// held at the definition (the index's variables may change or be
+// shadowed before a read). It reports false, writing nothing, when the
+// tangent is not of that kind.
+func (f *adFunc) defineSparse(obj types.Object, name string, n *lnode) bool {
+	mark := f.body.Len()
+	terms := f.collect(n)
+	ok := len(terms) <= maxSparse
+	for _, t := range terms {
+		ok = ok && t.row == ""
+	}
+	if !ok {
+		f.body.Truncate(mark) // the coefficients collect wrote go again with the loop
+		return false
+	}
+	kept := make([]term, len(terms))
+	for j, t := range terms {
+		idx := t.seed
+		if _, err := strconv.Atoi(idx); err != nil {
+			iv := f.fresh("i" + strings.ToUpper(name[:1]) + name[1:])
+			f.line("%s := %s", iv, idx)
+			f.line("%s%s", unreadMarker, iv)
+			idx = iv
+		}
+		kept[j] = term{coef: t.coef, seed: idx}
+	}
+	f.sparse[obj] = kept
+	f.line("%s := %s", name, n.val.s)
+	return true
 }
 
 // unreadMarker marks a tangent's declaration; finish turns it into _ = dV
@@ -1339,9 +1388,13 @@ func (f *adFunc) tangentInto(dst string, ptr bool, n *lnode) {
 				accumulate = true
 				continue
 			}
-			sum = append(sum, t.coef.paren()+"*"+t.row+"["+k+"]")
-			if t.coef.isOne() {
-				sum[len(sum)-1] = t.row + "[" + k + "]"
+			switch t.coef.s {
+			case "1":
+				sum = append(sum, t.row+"["+k+"]")
+			case "-1", "(-1)":
+				sum = append(sum, "-"+t.row+"["+k+"]")
+			default:
+				sum = append(sum, t.coef.paren()+"*"+t.row+"["+k+"]")
 			}
 		}
 		op := "="
@@ -1379,9 +1432,24 @@ func (f *adFunc) collect(n *lnode) []term {
 		if !n.active {
 			return
 		}
-		if n.row != "" || n.seed != "" {
+		if n.row != "" || n.seed != "" || n.sparse != nil {
 			if isFloat(n.typ) && !types.Identical(n.typ, types.Typ[f.d.kind()]) && !adj.isOne() {
 				adj = ex{s: f.d.elem + "(" + adj.s + ")", atomic: true, konst: adj.konst}
+			}
+			if n.sparse != nil {
+				if len(n.sparse) > 1 && !adj.free && !adj.konst {
+					a := f.temp("a")
+					f.line("%s := %s", a, adj.s)
+					adj = ex{s: a, atomic: true, free: true}
+				}
+				for _, t := range n.sparse {
+					f.read[t.seed] = true
+					if t.coef.free && !t.coef.konst {
+						f.read[t.coef.s] = true
+					}
+					walk(&lnode{active: true, seed: t.seed}, mul(adj, t.coef))
+				}
+				return
 			}
 			key := "row " + n.row
 			if n.seed != "" {
@@ -1496,6 +1564,9 @@ func (f *adFunc) lin(e ast.Expr) *lnode {
 			d.refuse(v, "%s used whole: the unknowns may only be indexed, ranged over, measured with len or passed on to a function of the package", v.Name)
 		case floatArray(obj.Type()):
 			d.refuse(v, "%s: an array that depends on x used whole; use its elements", v.Name)
+		}
+		if sp, ok := f.sparse[obj]; ok {
+			return &lnode{val: ex{s: v.Name, atomic: true, free: true}, typ: typ, active: true, sparse: sp}
 		}
 		row := f.tangentName(obj)
 		return &lnode{val: ex{s: v.Name, atomic: true, free: true}, typ: typ, active: true, row: row}
