@@ -65,7 +65,7 @@ var badSpecs = []struct {
 	// An unknown choice does not cascade into errors about keys that
 	// depend on it.
 	{"cascade_unknown_enum.toml", []string{
-		`4:14: derivative "exact" is not one of "analytic", "central", "forward"`,
+		`4:14: derivative "exact" is not one of "analytic", "automatic", "central", "forward"`,
 		`6:13: direction "l-bfgs" is not one of "bfgs", "cg", "gauss-newton", "lbfgs", "levenberg-marquardt", "steepest"; did you mean "lbfgs"?`,
 	}},
 	// An unknown key inside an inline table keeps the table's name.
@@ -126,7 +126,7 @@ var badSpecs = []struct {
 
 	// Enumerated keys list the accepted values.
 	{"unknown_derivative.toml", []string{
-		`4:14: derivative "backward" is not one of "analytic", "central", "forward"`,
+		`4:14: derivative "backward" is not one of "analytic", "automatic", "central", "forward"`,
 	}},
 	{"unknown_direction.toml", []string{
 		`4:13: direction "newton" is not one of "bfgs", "cg", "gauss-newton", "lbfgs", "levenberg-marquardt", "steepest"`,

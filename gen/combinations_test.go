@@ -72,7 +72,7 @@ func combinationPackage(form string) (src, spec string, n int) {
 		bits := elem[len(elem)-2:]
 		s.WriteString(strings.NewReplacer("$T", elem, "$B", bits).Replace(combinationSources[form]))
 		objective, gradient, instance := combinationNames(form, bits)
-		sources := []string{"analytic", "forward", "central"}
+		sources := []string{"analytic", "automatic", "forward", "central"}
 		if form == "combined" {
 			sources = []string{"analytic"}
 		}

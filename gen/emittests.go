@@ -428,19 +428,18 @@ func wideDifference(p *Plan, recvArg []jen.Code) jen.Code {
 	raw := func(x string) *jen.Statement {
 		return jen.Id("value").Call(append(append([]jen.Code(nil), recvArg...), jen.Id(x))...)
 	}
-	room := jen.True()
+	measure := jen.If(jen.Id("w").Op(":=").Float64().Call(raw("farUp").Op("-").Add(raw("farDown"))).Op("/").Float64().Call(jen.Id("farUp").Index(jen.Id("i")).Op("-").Id("farDown").Index(jen.Id("i"))), jen.Op("!").Qual("math", "IsNaN").Call(jen.Id("w")).Op("&&").Op("!").Qual("math", "IsInf").Call(jen.Id("w"), jen.Lit(0))).Block(
+		jen.Id("wide").Op("=").Id("w"),
+	)
 	if p.Bounded {
-		room = jen.Id("farUp").Index(jen.Id("i")).Op("<=").Id("b").Dot("upper").Index(jen.Id("i")).Op("&&").Id("farDown").Index(jen.Id("i")).Op(">=").Id("b").Dot("lower").Index(jen.Id("i"))
+		// the objective is never evaluated outside the box
+		measure = jen.If(jen.Id("farUp").Index(jen.Id("i")).Op("<=").Id("b").Dot("upper").Index(jen.Id("i")).Op("&&").Id("farDown").Index(jen.Id("i")).Op(">=").Id("b").Dot("lower").Index(jen.Id("i"))).Block(measure)
 	}
 	return jen.List(jen.Id("farUp"), jen.Id("farDown")).Op(":=").List(jen.Id("x"), jen.Id("x")).Line().
 		Id("farUp").Index(jen.Id("i")).Op("+=").Lit(2).Op("*").Id("h").Line().
 		Id("farDown").Index(jen.Id("i")).Op("-=").Lit(2).Op("*").Id("h").Line().
 		Id("wide").Op(":=").Id("approx").Line().
-		If(room).Block(
-		jen.If(jen.Id("w").Op(":=").Float64().Call(raw("farUp").Op("-").Add(raw("farDown"))).Op("/").Float64().Call(jen.Id("farUp").Index(jen.Id("i")).Op("-").Id("farDown").Index(jen.Id("i"))), jen.Op("!").Qual("math", "IsNaN").Call(jen.Id("w")).Op("&&").Op("!").Qual("math", "IsInf").Call(jen.Id("w"), jen.Lit(0))).Block(
-			jen.Id("wide").Op("=").Id("w"),
-		),
-	)
+		Add(measure)
 }
 
 // scaleComparison, with scale, turns the exact and approximate components
