@@ -9,7 +9,6 @@ import (
 	"go/types"
 	"os"
 	"path/filepath"
-	"sort"
 	"strconv"
 	"strings"
 )
@@ -77,6 +76,7 @@ type differentiator struct {
 	names    map[adVariant]string
 	queue    []adVariant
 	taken    map[string]bool // generated package-level names
+	methods  map[string]bool // the package's own method names
 	out      bytes.Buffer
 	usesMath bool
 	probs    *Problems
@@ -133,9 +133,24 @@ func (lp *loadedPackage) differentiate(m *Minimizer, shape *Shape, fn *types.Fun
 // unique returns name, or name with a number, not declared in the package
 // nor generated before.
 func (d *differentiator) unique(name string) string {
+	if d.methods == nil {
+		// the generated functions of a method objective are methods, so
+		// the package's method names are taken too
+		d.methods = map[string]bool{}
+		scope := d.lp.pkg.Types.Scope()
+		for _, n := range scope.Names() {
+			if named, ok := scope.Lookup(n).Type().(*types.Named); ok && scope.Lookup(n).Pkg() == d.lp.pkg.Types {
+				for m := range named.Methods() {
+					if !d.lp.generated(d.lp.pkg.Fset.Position(m.Pos()).Filename) {
+						d.methods[m.Name()] = true
+					}
+				}
+			}
+		}
+	}
 	for i := 2; ; i++ {
 		obj := d.lp.pkg.Types.Scope().Lookup(name)
-		if !d.taken[name] && (obj == nil || d.lp.generated(d.lp.pkg.Fset.Position(obj.Pos()).Filename)) {
+		if !d.taken[name] && !d.methods[name] && (obj == nil || d.lp.generated(d.lp.pkg.Fset.Position(obj.Pos()).Filename)) {
 			d.taken[name] = true
 			return name
 		}
@@ -290,15 +305,14 @@ type adFunc struct {
 	// (a − x[i] has one, x[i+1] − x[i]² two), whose reads then add to a
 	// few components instead of a loop over all N (compile-time sparsity,
 	// Griewank & Walther 2008, ch. 7).
-	sparse map[types.Object][]term
-	used      map[string]bool
-	body      *bytes.Buffer
-	result    string // where a return's tangent goes ("" when nothing is returned)
-	value     bool   // a return keeps its value (helpers) or not (the objective)
-	k         string // the tangent loop's index
-	fresh0    string // a tangent just declared, so already zero
-	byValue   bool   // the unknowns are an array value, not a pointer
-	zeroRow   string
+	sparse  map[types.Object][]term
+	used    map[string]bool
+	body    *bytes.Buffer
+	result  string // where a return's tangent goes ("" when nothing is returned)
+	value   bool   // a return keeps its value (helpers) or not (the objective)
+	k       string // the tangent loop's index
+	fresh0  string // a tangent just declared, so already zero
+	byValue bool   // the unknowns are an array value, not a pointer
 }
 
 func (d *differentiator) newFunc(decl *ast.FuncDecl) *adFunc {
@@ -552,7 +566,6 @@ func (d *differentiator) top(decl *ast.FuncDecl, code *derivedCode) {
 		}
 	}
 	f.analyze()
-	f.zeroRow = ""
 	f.block(decl.Body.List)
 	d.out.WriteString(head.String())
 	d.out.Write(f.finish())
@@ -741,7 +754,7 @@ func (f *adFunc) stmt(s ast.Stmt) {
 	case *ast.ReturnStmt:
 		f.ret(s)
 	case *ast.IfStmt:
-		f.ifStmt(s, false)
+		f.ifStmt(s)
 	case *ast.ForStmt:
 		init := ""
 		if a, ok := s.Init.(*ast.AssignStmt); ok && !f.anyActive(a) && !f.readsAny(a.Rhs) {
@@ -831,7 +844,7 @@ func (f *adFunc) simple(s ast.Stmt) {
 	f.stmt(s)
 }
 
-func (f *adFunc) ifStmt(s *ast.IfStmt, chained bool) {
+func (f *adFunc) ifStmt(s *ast.IfStmt) {
 	d := f.d
 	if s.Init != nil {
 		f.line("{")
@@ -849,7 +862,7 @@ func (f *adFunc) ifStmt(s *ast.IfStmt, chained bool) {
 		f.line("}")
 	case *ast.IfStmt:
 		f.line("} else {")
-		f.ifStmt(e, true)
+		f.ifStmt(e)
 		f.line("}")
 	}
 	if s.Init != nil {
@@ -1999,16 +2012,6 @@ func (f *adFunc) ret(s *ast.ReturnStmt) {
 		f.line("_ = %s // the value itself is not needed", n.val.s)
 		f.line("return")
 	}
-}
-
-// sortedKeys is for deterministic iteration in tests.
-func sortedKeys(m map[string]bool) []string {
-	var out []string
-	for k := range m {
-		out = append(out, k)
-	}
-	sort.Strings(out)
-	return out
 }
 
 // rowBase is the variable a tangent row belongs to: dV for dV and dV[i].

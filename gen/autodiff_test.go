@@ -118,6 +118,26 @@ func Pointer(x *[2]float64) float64 {
 	return ptr(&v)
 }
 
+func Goto(x *[2]float64) float64 {
+	v := x[0]
+	goto done
+done:
+	return v * v
+}
+
+func Composite(x *[2]float64) float64 {
+	pair := [2]float64{x[0], x[1]}
+	return pair[0] * pair[1]
+}
+
+func first(v []float64) float64 { return v[0] * v[0] }
+
+func Slice(x *[2]float64) float64 { return first(x[1:]) }
+
+func total(v ...float64) float64 { return v[0] }
+
+func Variadic(x *[2]float64) float64 { return total(x[0], x[1]) }
+
 func Active(x *[2]float64, r *[2]float64) {
 	var a, b [2]float64
 	a[0], a[1] = x[0], x[1]
@@ -149,6 +169,10 @@ var refusals = []struct {
 	{"Fill", "fill(x, &o)", []string{"a call whose result is not used"}},
 	{"TwoResults", "a, b := split(x[0])", []string{"an assignment from a call with several results"}},
 	{"Pointer", "&v", []string{"&v: an argument that depends on x and is not a float"}},
+	{"Goto", "goto done", []string{"cannot differentiate goto"}},
+	{"Composite", "pair := [2]float64", []string{"an assignment of a whole array that depends on x"}},
+	{"Slice", "x[1:]", []string{"x[1:]: an argument that depends on x and is not a float"}},
+	{"Variadic", "total(x[0], x[1])", []string{"total: a variadic call"}},
 	{"Active", "b = a", []string{"an assignment of a whole array that depends on x; set its elements"}},
 }
 

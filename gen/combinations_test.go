@@ -13,7 +13,7 @@ import (
 // receiver, method on a pointer receiver, combined value and gradient) ×
 // float type × derivative source × direction × step rule × bounds on or
 // off that gen accepts (cg takes neither a backtracking rule nor bounds;
-// a combined objective brings its own gradient), 1 216 in all, into one
+// a combined objective brings its own gradient), 1 600 in all, into one
 // temporary module, then vets it and runs every generated test in one go
 // test run. Each objective is the quadratic (x₁ − 1.5)² + 3(x₂ + 0.5)²
 // (for the scalar form (x − 1.5)²), minimum at (1.5, −0.5); with bounds
@@ -22,7 +22,7 @@ import (
 // 1/3 (L = 6, the largest curvature).
 func TestEveryCombination(t *testing.T) {
 	if testing.Short() {
-		t.Skip("generates, vets and tests 1 216 minimizers; skipped with -short")
+		t.Skip("generates, vets and tests 1 600 minimizers; skipped with -short")
 	}
 	root := t.TempDir()
 	files := map[string]string{"go.mod": "module every\n\ngo 1.24\n"}
@@ -35,8 +35,8 @@ func TestEveryCombination(t *testing.T) {
 		specs = append(specs, filepath.Join(root, form, form+".toml"))
 		count += n
 	}
-	if count != 1216 {
-		t.Fatalf("%d combinations, want 1216", count)
+	if count != 1600 {
+		t.Fatalf("%d combinations, want 1600", count)
 	}
 	writeTree(t, root, files)
 	outs, err := Generate(specs)

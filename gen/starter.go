@@ -126,6 +126,24 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 			break
 		}
 	}
+	// Without a gradient, the one thalweg can derive from the source, when
+	// the objective keeps to what automatic differentiation takes; why not
+	// otherwise, for the comment.
+	automatic, whyNot := false, ""
+	if gradient == "" && jacobian == "" && !shape.Combined && !shape.ResidualSlice {
+		var scratch Problems
+		trial := shape
+		trial.Dim = dim
+		if lp.differentiate(&Minimizer{Name: "Starter"}, &trial, fn, &scratch) != nil && len(scratch) == 0 {
+			automatic = true
+		} else if len(scratch) > 0 {
+			msg := strings.TrimPrefix(scratch[0].Msg, "derivative = \"automatic\" cannot differentiate ")
+			if i := strings.Index(msg, "; use derivative"); i > 0 {
+				msg = msg[:i]
+			}
+			whyNot = fmt.Sprintf("%s:%d has %s", filepath.Base(scratch[0].Pos.File), scratch[0].Pos.Line, msg)
+		}
+	}
 	instance := ""
 	if recvType != nil {
 		name := "New" + recvType.Obj().Name()
@@ -160,6 +178,9 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	if gradient != "" || jacobian != "" || shape.Combined {
 		chosen.Derivative = rules.Analytic
 	}
+	if automatic {
+		chosen.Derivative = rules.Automatic
+	}
 	ctx := resolveContext(chosen, shape.Elem, dim)
 	choiceLine := func(c *rules.Choice, e *rules.Entry, note string) {
 		comment := quoteJoin(c.Names(), " | ")
@@ -191,10 +212,14 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	case jacobian != "":
 		choiceLine(rules.Derivative, rules.Analytic, "")
 		kv("jacobian", fmt.Sprintf("%q", jacobian), "found beside the objective; the generated test checks it entry by entry")
+	case automatic && residual:
+		choiceLine(rules.Derivative, chosen.Derivative, "thalweg derives the Jacobian from the residuals' source; \"analytic\" needs a jacobian key")
+	case automatic:
+		choiceLine(rules.Derivative, chosen.Derivative, "thalweg derives the gradient from the objective's source; \"analytic\" needs a gradient key")
 	case residual:
-		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a jacobian key`)
+		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a jacobian key`+automaticNote(whyNot))
 	default:
-		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a gradient key`)
+		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a gradient key`+automaticNote(whyNot))
 	}
 	note := ""
 	switch {
@@ -316,4 +341,12 @@ func finiteAll(vals []float64) bool {
 		}
 	}
 	return true
+}
+
+// automaticNote says why init does not propose derivative = "automatic".
+func automaticNote(whyNot string) string {
+	if whyNot == "" {
+		return ""
+	}
+	return "; not \"automatic\": " + whyNot
 }

@@ -629,6 +629,19 @@ func (r Rig) Cost(x float64) float64 { return (x - r.Offset) * (x - r.Offset) }
 	if got, _ := os.ReadFile("gain.toml"); code != 2 || string(got) != "# mine\n" || !strings.Contains(stderr, "gain.toml:1:1: refusing to overwrite") {
 		t.Errorf("init over an existing file exited %d and left %q:\n%s", code, got, stderr)
 	}
+	// Without a gradient: derivative = "automatic" when thalweg can
+	// differentiate the source (Rig.Cost above), "central" with the reason
+	// when it cannot.
+	if !strings.Contains(string(rig), `derivative = "automatic"`) {
+		t.Errorf("init without a gradient does not propose automatic for a differentiable objective:\n%s", rig)
+	}
+	writeFile(t, "gamma.go", "package quickstart\n\nimport \"math\"\n\nfunc Spread(x float64) float64 { return math.Gamma(x) }\n")
+	if code, _, stderr := thalweg("init", "Spread"); code != 0 {
+		t.Fatalf("init Spread exited %d:\n%s", code, stderr)
+	}
+	if data, _ := os.ReadFile("spread.toml"); !strings.Contains(string(data), `derivative = "central"`) || !strings.Contains(string(data), `not "automatic": gamma.go:5 has math.Gamma: no derivative rule`) {
+		t.Errorf("init for an objective automatic refuses does not say why it proposes central:\n%s", data)
+	}
 	// Too many unknowns for bfgs's matrix on the stack: init proposes
 	// lbfgs, and refuses when not even a vector fits.
 	writeFile(t, "big.go", "package quickstart\n\nfunc Wide(x *[200]float64) float64 { return x[0] * x[0] }\n\nfunc Huge(x *[20000]float64) float64 { return x[0] * x[0] }\n")
