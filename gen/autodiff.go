@@ -9,6 +9,7 @@ import (
 	"go/types"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 )
@@ -52,6 +53,23 @@ type derivedCode struct {
 	UsesMath bool
 	Gradient string // name of the generated gradient (a method when the objective is one)
 	Jacobian string // name of the generated Jacobian, for a residual objective
+	Prefix   string // the minimizer prefix every generated name starts with
+}
+
+// renamed is the code with the generated names moved to another
+// minimizer prefix, for the variants thalweg tune builds beside the
+// spec's own file (which declares the original names).
+func (c *derivedCode) renamed(prefix string) *derivedCode {
+	if prefix == c.Prefix {
+		return c
+	}
+	names := regexp.MustCompile(`\b` + regexp.QuoteMeta(c.Prefix) + `(Auto(Gradient|Jacobian)|Tangent)`)
+	out := *c
+	out.Source = names.ReplaceAll(c.Source, []byte(prefix+"$1"))
+	out.Gradient = names.ReplaceAllString(c.Gradient, prefix+"$1")
+	out.Jacobian = names.ReplaceAllString(c.Jacobian, prefix+"$1")
+	out.Prefix = prefix
+	return &out
 }
 
 // adVariant is one function to differentiate: which of its parameters, if
@@ -105,7 +123,7 @@ func (lp *loadedPackage) differentiate(m *Minimizer, shape *Shape, fn *types.Fun
 		probs.add(lp.position(fn.Pos()), "derivative = \"automatic\" needs the source of %s, which thalweg cannot find; use derivative = \"central\"", fn.Name())
 		return nil
 	}
-	code := &derivedCode{}
+	code := &derivedCode{Prefix: d.prefix}
 	if shape.Residuals > 0 {
 		code.Jacobian = d.unique(d.prefix + "AutoJacobian")
 	} else {

@@ -174,6 +174,17 @@ func (p *Plan) variant(pol Policy, name string) *Plan {
 	v := *p
 	v.M = &m
 	v.Prefix = lowerFirst(name)
+	if d := p.Shape.Derived; d != nil {
+		// the spec's own file declares the derived code's names: the
+		// variant's copy takes its own
+		v.Shape.Derived = d.renamed(v.Prefix)
+		if v.Shape.Gradient != "" {
+			v.Shape.Gradient = v.Shape.Derived.Gradient
+		}
+		if v.Shape.Jacobian != "" {
+			v.Shape.Jacobian = v.Shape.Derived.Jacobian
+		}
+	}
 	v.Context = resolveContext(&m, p.Shape.Elem, p.Shape.Dim)
 	for _, q := range rules.Params() {
 		if q.Exceeds != nil && v.Reads(q) && v.Reads(q.Exceeds) && !(v.Value(q) > v.Value(q.Exceeds)) {

@@ -828,6 +828,54 @@ func TestTune(t *testing.T) {
 	}
 }
 
+// An objective without a gradient goes through every command with
+// derivative = "automatic": init proposes it, gen writes the derived
+// gradient beside the minimizer, trace accounts for every call with no
+// column for differences, and tune builds its variants (each with its own
+// copy of the derived code) beside the spec's own file and ranks them.
+func TestAutomaticObjective(t *testing.T) {
+	quickstartModule(t)
+	writeFile(t, "plain.go", `package quickstart
+
+// CalibrationPlain is the calibration's sum of squares, value alone.
+func CalibrationPlain(p *[2]float64) float64 {
+	var sum float64
+	for i, raw := range rawReadings {
+		r := p[0]*raw + p[1] - refSpeeds[i]
+		sum += r * r
+	}
+	return sum
+}
+`)
+	if code, _, stderr := thalweg("init", "CalibrationPlain"); code != 0 {
+		t.Fatalf("init exited %d:\n%s", code, stderr)
+	}
+	data, err := os.ReadFile("calibration_plain.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := string(data)
+	if !strings.Contains(spec, `derivative = "automatic"`) {
+		t.Fatalf("init does not propose derivative = \"automatic\":\n%s", spec)
+	}
+	writeFile(t, "calibration_plain.toml", strings.Replace(spec, "[nan, nan]", "[1.0, 0.0]", 1))
+	if code, _, stderr := thalweg("gen", "calibration_plain.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	out, err := os.ReadFile("minimize_calibration_plain_min.go")
+	if err != nil || !strings.Contains(string(out), "func minimizeCalibrationPlainAutoGradient(p *[2]float64, grad *[2]float64) {") {
+		t.Fatalf("the generated file lacks the derived gradient (%v)", err)
+	}
+	code, stdout, stderr := thalweg("trace", "calibration_plain.toml")
+	if code != 0 || !strings.Contains(stdout, "gradient small (converged) after") || strings.Contains(stdout, "difference calls") {
+		t.Fatalf("trace exited %d, or did not converge, or shows difference calls:\n%s%s", code, stdout, stderr)
+	}
+	code, stdout, stderr = thalweg("tune", "calibration_plain.toml")
+	if code != 0 || !strings.Contains(stdout, "← recommended") {
+		t.Fatalf("tune exited %d:\n%s%s", code, stdout, stderr)
+	}
+}
+
 // A combined objective, which returns its value and writes its gradient
 // through g, goes through every command: init proposes derivative =
 // "analytic" without a gradient key, gen writes a minimizer whose tests
