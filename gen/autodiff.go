@@ -326,11 +326,12 @@ type adFunc struct {
 	sparse  map[types.Object][]term
 	used    map[string]bool
 	body    *bytes.Buffer
-	result  string // where a return's tangent goes ("" when nothing is returned)
-	value   bool   // a return keeps its value (helpers) or not (the objective)
-	k       string // the tangent loop's index
-	fresh0  string // a tangent just declared, so already zero
-	byValue bool   // the unknowns are an array value, not a pointer
+	result  string       // where a return's tangent goes ("" when nothing is returned)
+	value   bool         // a return keeps its value (helpers) or not (the objective)
+	k       string       // the tangent loop's index
+	fresh0  string       // a tangent just declared, so already zero
+	byValue bool         // the unknowns are an array value, not a pointer
+	named   types.Object // a named result, declared as a local
 }
 
 func (d *differentiator) newFunc(decl *ast.FuncDecl) *adFunc {
@@ -584,6 +585,7 @@ func (d *differentiator) top(decl *ast.FuncDecl, code *derivedCode) {
 		}
 	}
 	f.analyze()
+	f.namedResult()
 	f.block(decl.Body.List)
 	d.out.WriteString(head.String())
 	d.out.Write(f.finish())
@@ -699,6 +701,7 @@ func (d *differentiator) helper(v adVariant) {
 		f.line("%s", c)
 	}
 	f.analyze()
+	f.namedResult()
 	f.block(decl.Body.List)
 	d.out.Write(f.finish())
 	d.out.WriteString("}\n\n")
@@ -1211,6 +1214,26 @@ func (f *adFunc) defineSparse(obj types.Object, name string, n *lnode) bool {
 	f.sparse[obj] = kept
 	f.line("%s := %s", name, n.val.s)
 	return true
+}
+
+// namedResult declares a named float result as the local it is, with
+// its tangent when it depends on x; a bare return returns it.
+func (f *adFunc) namedResult() {
+	results := f.decl.Type.Results
+	if results == nil || len(results.List) != 1 || len(results.List[0].Names) != 1 {
+		return
+	}
+	obj := f.d.objOf(results.List[0].Names[0])
+	if obj == nil || obj.Name() == "_" {
+		return
+	}
+	f.named = obj
+	f.line("var %s %s", obj.Name(), f.d.typeText(obj.Type()))
+	if f.active[obj] {
+		t := f.tangentName(obj)
+		f.line("var %s %s", t, f.tangentType())
+		f.line("%s%s", unreadMarker, t)
+	}
 }
 
 // unreadMarker marks a tangent's declaration; finish turns it into _ = dV
@@ -2010,12 +2033,22 @@ func (f *adFunc) ret(s *ast.ReturnStmt) {
 		f.line("return")
 		return
 	}
-	if len(s.Results) != 1 {
+	if len(s.Results) != 1 && !(len(s.Results) == 0 && f.named != nil) {
 		d.refuse(s, "a return of other than one value")
 		return
 	}
 	f.comment(s)
-	n := f.lin(s.Results[0])
+	var n *lnode
+	if len(s.Results) == 0 {
+		// a bare return of the named result
+		n = &lnode{val: ex{s: f.named.Name(), atomic: true, free: true}, typ: f.named.Type(), active: f.active[f.named]}
+		if n.active {
+			n.row = f.tangentName(f.named)
+			f.read[n.row] = true
+		}
+	} else {
+		n = f.lin(s.Results[0])
+	}
 	if d.failed {
 		return
 	}

@@ -22,8 +22,12 @@ func square(t float64) float64 { return t * t }
 
 func square32(t float32) float32 { return t * t }
 
-// hump is log(1 + t²): 0 with zero slope at 0, rising on both sides.
-func hump(t float64) float64 { return math.Log1p(t * t) }
+// hump is log(1 + t²): 0 with zero slope at 0, rising on both sides;
+// a named result returned bare.
+func hump(t float64) (h float64) {
+	h = math.Log1p(t * t)
+	return
+}
 
 // Scalar64 is d² + log(1 + d²), d = x − 1.5, written twice across a
 // branch: minimum 0 at 1.5.
