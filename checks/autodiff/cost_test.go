@@ -18,7 +18,7 @@ import (
 
 var (
 	cost      = flag.Bool("cost", false, "run the gradient cost benchmarks (TestGradientCost) and print their table")
-	benchtime = flag.String("benchtime", "1s", "-benchtime of the gradient cost benchmarks")
+	benchtime = flag.String("costtime", "1s", "the gradient cost benchmarks' -benchtime (-benchtime itself goes to this go test)")
 )
 
 // costSizes are the dimensions of the cost benchmark.
@@ -39,7 +39,7 @@ var costObjectives = []struct{ name, what string }{{"Rosen", "chained Rosenbrock
 // what derivative = "central" pays per gradient), and by a hand-written
 // gradient, at N = 2, 4, 10, 50. It runs only with -cost (benchmarks, not
 // a timed test: nothing is asserted of the times) and prints the table
-// the README quotes; CI runs it with a short -benchtime as a smoke test.
+// the README quotes; CI runs it with -costtime 200x as a smoke test.
 func TestGradientCost(t *testing.T) {
 	if !*cost {
 		t.Skip("the gradient cost benchmarks run with -cost")
