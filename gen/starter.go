@@ -77,7 +77,7 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 		sized.Dim = dim
 		checkStackSize(&Minimizer{Direction: d, Derivative: rules.Derivative.DefaultEntry(), Rule: d.DefaultRule, Test: rules.GradientTest.DefaultEntry()},
 			sized, &positions{keys: map[string]Pos{}, values: map[string]Pos{}}, &scratch)
-		if len(scratch) == 0 {
+		if len(scratch) == 0 && !(d.FallbackFrom > 0 && dim >= d.FallbackFrom && d.Fallback != nil) {
 			direction = d
 			break
 		}

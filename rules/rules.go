@@ -179,6 +179,10 @@ type Entry struct {
 	// stack, and Fallback is the direction `thalweg init` proposes then.
 	SmallerState string
 	Fallback     *Entry
+	// FallbackFrom is the number of unknowns from which `thalweg init`
+	// proposes Fallback even where the entry fits: the size at which the
+	// fallback solves faster (0 for never).
+	FallbackFrom int
 	// NeedsCurvature says a direction needs a step rule that enforces a
 	// curvature condition to produce descent directions, and DefaultRule
 	// is the step rule it gets when the spec names none.

@@ -651,6 +651,17 @@ func (r Rig) Cost(x float64) float64 { return (x - r.Offset) * (x - r.Offset) }
 	if data, _ := os.ReadFile("wide.toml"); !strings.Contains(string(data), `direction = "lbfgs"`) {
 		t.Errorf("init for 200 unknowns does not propose lbfgs:\n%s", data)
 	}
+	// From 20 unknowns lbfgs solves faster than bfgs (README, Performance):
+	// init proposes it there, and bfgs below.
+	writeFile(t, "mid.go", "package quickstart\n\nfunc Mid(x *[20]float64) float64 { return x[0] * x[0] }\n\nfunc Few(x *[19]float64) float64 { return x[0] * x[0] }\n")
+	for name, want := range map[string]string{"Mid": "lbfgs", "Few": "bfgs"} {
+		if code, _, stderr := thalweg("init", name); code != 0 {
+			t.Fatalf("init %s exited %d:\n%s", name, code, stderr)
+		}
+		if data, _ := os.ReadFile(strings.ToLower(name) + ".toml"); !strings.Contains(string(data), `direction = "`+want+`"`) {
+			t.Errorf("init for %s does not propose %s:\n%s", name, want, data)
+		}
+	}
 	if code, _, stderr := thalweg("init", "Huge"); code != 2 || !strings.Contains(stderr, "big.go:5:6: objective Huge has 20000 unknowns") {
 		t.Errorf("init for 20000 unknowns exited %d:\n%s", code, stderr)
 	}
