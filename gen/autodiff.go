@@ -532,15 +532,7 @@ func (d *differentiator) top(decl *ast.FuncDecl, code *derivedCode) {
 	if xName == "" || xName == "_" {
 		xName = f.fresh("x")
 	}
-	recv := ""
-	if decl.Recv != nil && len(decl.Recv.List) > 0 {
-		r := decl.Recv.List[0]
-		name := "_"
-		if len(r.Names) > 0 {
-			name = r.Names[0].Name
-		}
-		recv = fmt.Sprintf("(%s %s) ", name, d.text(r.Type))
-	}
+	recv := d.receiverText(decl)
 	vec := f.tangentType()
 	var head strings.Builder
 	if s.Residuals > 0 {
@@ -590,6 +582,21 @@ func (d *differentiator) top(decl *ast.FuncDecl, code *derivedCode) {
 	d.out.WriteString(head.String())
 	d.out.Write(f.finish())
 	d.out.WriteString("}\n\n")
+}
+
+// receiverText is "(name Type) " of a method, as the user wrote it, so
+// that a generated function of a method is a method of the same receiver;
+// "" for a plain function.
+func (d *differentiator) receiverText(decl *ast.FuncDecl) string {
+	if decl.Recv == nil || len(decl.Recv.List) == 0 {
+		return ""
+	}
+	r := decl.Recv.List[0]
+	name := "_"
+	if len(r.Names) > 0 {
+		name = r.Names[0].Name
+	}
+	return fmt.Sprintf("(%s %s) ", name, d.text(r.Type))
 }
 
 // paramObjects are a function's parameters, nil where unnamed.
@@ -686,15 +693,7 @@ func (d *differentiator) helper(v adVariant) {
 	res := f.fresh("dres")
 	list = append(list, fmt.Sprintf("%s *%s", res, vec))
 	f.result, f.value = res, true
-	recv := ""
-	if decl.Recv != nil && len(decl.Recv.List) > 0 {
-		r := decl.Recv.List[0]
-		name := "_"
-		if len(r.Names) > 0 {
-			name = r.Names[0].Name
-		}
-		recv = fmt.Sprintf("(%s %s) ", name, d.text(r.Type))
-	}
+	recv := d.receiverText(decl)
 	fmt.Fprintf(&d.out, "// %s is %s (%s) with the derivative of each float with respect to the\n// unknowns carried along (derivative = \"automatic\").\n", d.names[v], decl.Name.Name, d.where(decl))
 	fmt.Fprintf(&d.out, "func %s%s(%s) %s {\n", recv, d.names[v], strings.Join(list, ", "), d.typeText(sig.Results().At(0).Type()))
 	for _, c := range copies {

@@ -856,6 +856,12 @@ func upperFirst(s string) string {
 	return strings.ToUpper(s[:1]) + s[1:]
 }
 
+// MinimizerPrefix is the prefix of every unexported name generated for the
+// minimizer named name (its kernels, and its derived gradient
+// <prefix>AutoGradient): name with a leading initialism lowered. Outside
+// checks that call a derived gradient by name use it.
+func MinimizerPrefix(name string) string { return lowerFirst(name) }
+
 // lowerFirst lowers a leading initialism: FitCurve → fitCurve, URLFit → urlFit.
 func lowerFirst(s string) string {
 	r := []rune(s)

@@ -38,6 +38,7 @@ import (
 	"github.com/thalweg-go/thalweg/checks/internal/results"
 	"github.com/thalweg-go/thalweg/checks/internal/tempmodule"
 	"github.com/thalweg-go/thalweg/checks/mgh"
+	"github.com/thalweg-go/thalweg/gen"
 )
 
 var update = flag.Bool("update", false, "rewrite testdata/results.md")
@@ -305,7 +306,7 @@ func widen(v []float32) []float64 {
 func TestDrive(t *testing.T) {
 `)
 	for _, p := range mgh.Problems {
-		auto := prefix(p.Name+"Automatic") + "AutoGradient"
+		auto := gen.MinimizerPrefix(p.Name+"Automatic") + "AutoGradient"
 		fmt.Fprintf(&b, "\t{\n\t\tstart := [%d]float64{%s}\n\t\tpoints := [][%d]float64{start}\n\t\tstate := uint64(%d)\n", p.N, floats(p.Start, false), p.N, p.MGH)
 		b.WriteString("\t\tfor k := 0; k < 10; k++ {\n\t\t\tp := start\n\t\t\tfor i := range p {\n\t\t\t\tp[i] += (lcg(&state) - 0.5) * math.Max(1, math.Abs(start[i]))\n\t\t\t}\n\t\t\tpoints = append(points, p)\n\t\t}\n")
 		fmt.Fprintf(&b, "\t\tw, at := 0.0, \"\"\n\t\tfor _, p := range points {\n\t\t\tvar recorded, derived [%d]float64\n\t\t\t%sGrad(&p, &recorded)\n\t\t\t%s(&p, &derived)\n", p.N, p.Name, auto)
@@ -322,7 +323,7 @@ func TestDrive(t *testing.T) {
 		fmt.Fprintf(&b, "\t{\n\t\tstart := [%d]float32{%s}\n\t\tpoints := [][%d]float32{start}\n\t\tstate := uint64(%d)\n", n, floats(s.start, false), n, len(s.name))
 		b.WriteString("\t\tfor k := 0; k < 10; k++ {\n\t\t\tp := start\n\t\t\tfor i := range p {\n\t\t\t\tp[i] += float32((lcg(&state) - 0.5) * math.Max(1, math.Abs(float64(start[i]))))\n\t\t\t}\n\t\t\tpoints = append(points, p)\n\t\t}\n")
 		fmt.Fprintf(&b, "\t\thand, derived := 0.0, 0.0\n\t\tfor _, p := range points {\n\t\t\tvar x, exact [%d]float64\n\t\t\tfor i := range p {\n\t\t\t\tx[i] = float64(p[i])\n\t\t\t}\n\t\t\tfunctions.%s{}.Grad(exact[:], x[:])\n", n, s.gonum)
-		fmt.Fprintf(&b, "\t\t\tvar gh, gd [%d]float32\n\t\t\t%sGrad(&p, &gh)\n\t\t\t%s(&p, &gd)\n", n, s.name, prefix(s.name+"Automatic")+"AutoGradient")
+		fmt.Fprintf(&b, "\t\t\tvar gh, gd [%d]float32\n\t\t\t%sGrad(&p, &gh)\n\t\t\t%s(&p, &gd)\n", n, s.name, gen.MinimizerPrefix(s.name+"Automatic")+"AutoGradient")
 		b.WriteString("\t\t\thand = math.Max(hand, worst(widen(gh[:]), exact[:]))\n\t\t\tderived = math.Max(derived, worst(widen(gd[:]), exact[:]))\n\t\t}\n")
 		fmt.Fprintf(&b, "\t\tfmt.Printf(\"acc32\\t%%s\\t%%.3g\\t%%.3g\\n\", %q, hand, derived)\n\t}\n", s.name)
 		for _, source := range []string{"analytic", "automatic", "central"} {
@@ -332,21 +333,4 @@ func TestDrive(t *testing.T) {
 	}
 	b.WriteString("}\n")
 	return []byte(b.String())
-}
-
-// prefix is the prefix of a minimizer's unexported names, as thalweg forms
-// it (the leading capital lowered; a run of capitals lowered but for the
-// one that starts the next word).
-func prefix(s string) string {
-	r := []rune(s)
-	for i := range r {
-		if r[i] < 'A' || r[i] > 'Z' {
-			break
-		}
-		if i > 0 && i+1 < len(r) && r[i+1] >= 'a' && r[i+1] <= 'z' {
-			break
-		}
-		r[i] += 'a' - 'A'
-	}
-	return string(r)
 }

@@ -46,6 +46,7 @@ import (
 
 	"github.com/thalweg-go/thalweg/checks/internal/results"
 	"github.com/thalweg-go/thalweg/checks/internal/tempmodule"
+	"github.com/thalweg-go/thalweg/gen"
 )
 
 var update = flag.Bool("update", false, "rewrite models/data.go, models/nist.toml and testdata/results.md")
@@ -507,7 +508,7 @@ func TestJacobians(t *testing.T) {
 `)
 	for _, d := range datasets {
 		n, m := len(d.certified), len(d.data)
-		auto := generatedPrefix(minimizerName(d, "automatic")) + "AutoJacobian"
+		auto := gen.MinimizerPrefix(minimizerName(d, "automatic")) + "AutoJacobian"
 		fmt.Fprintf(&b, "\t{\n\t\tpoints := [][%d]float64{", n)
 		for _, start := range d.starts {
 			fmt.Fprintf(&b, "{%s}, ", floatList(start))
@@ -523,24 +524,6 @@ func TestJacobians(t *testing.T) {
 	}
 	b.WriteString("}\n")
 	return b.String()
-}
-
-// generatedPrefix is the prefix of a minimizer's unexported names, as
-// thalweg forms it: the leading capitals lowered, but for the one that
-// starts the next word (MGH17Automatic → mgh17Automatic, ENSOAutomatic →
-// ensoAutomatic).
-func generatedPrefix(s string) string {
-	r := []rune(s)
-	for i := range r {
-		if r[i] < 'A' || r[i] > 'Z' {
-			break
-		}
-		if i > 0 && i+1 < len(r) && r[i+1] >= 'a' && r[i+1] <= 'z' {
-			break
-		}
-		r[i] += 'a' - 'A'
-	}
-	return string(r)
 }
 
 func floatList(v []float64) string {
