@@ -1747,6 +1747,8 @@ var mathRules = map[string]func(u, t ex) ex{
 	"Sinh":  func(u, t ex) ex { return ex{s: "math.Cosh(" + u.s + ")", atomic: true} },
 	"Cosh":  func(u, t ex) ex { return ex{s: "math.Sinh(" + u.s + ")", atomic: true} },
 	"Tanh":  func(u, t ex) ex { return ex{s: "1 - " + t.paren() + "*" + t.paren()} },
+	"Erf":   func(u, t ex) ex { return ex{s: "2 / math.SqrtPi * math.Exp(-" + u.paren() + "*" + u.paren() + ")"} },
+	"Erfc":  func(u, t ex) ex { return ex{s: "-2 / math.SqrtPi * math.Exp(-" + u.paren() + "*" + u.paren() + ")"} },
 }
 
 // call lowers a call that depends on x: a conversion, a math function, a
@@ -1866,7 +1868,7 @@ func (f *adFunc) mathCall(c *ast.CallExpr, name string, typ types.Type) *lnode {
 		}
 		return n
 	}
-	d.refuse(c, "math.%s: no derivative rule for it (supported: Exp, Expm1, Log, Log1p, Log2, Log10, Sqrt, Cbrt, Pow, Abs, Sin, Cos, Tan, Asin, Acos, Atan, Atan2, Sinh, Cosh, Tanh, Hypot, Max, Min)", name)
+	d.refuse(c, "math.%s: no derivative rule for it (supported: Exp, Expm1, Log, Log1p, Log2, Log10, Sqrt, Cbrt, Pow, Abs, Sin, Cos, Tan, Asin, Acos, Atan, Atan2, Sinh, Cosh, Tanh, Erf, Erfc, Hypot, Max, Min)", name)
 	return &lnode{}
 }
 

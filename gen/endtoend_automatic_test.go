@@ -46,14 +46,17 @@ func Scalar32(x float32) float32 {
 	return y * y * (2 + float32(math.Cos(float64(y))))
 }
 
-// Array64 is Σ (i+1)·dᵢ² + 0.1·d₀⁴, dᵢ = xᵢ − centersᵢ: minimum at centers.
+// Array64 is Σ (i+1)·dᵢ² + 0.1·d₀⁴ + 0.05·erf(d₂)·d₂, dᵢ = xᵢ − centersᵢ
+// (erf(d)·d ≥ 0, 0 with zero slope at 0; written with Erfc): minimum at
+// centers.
 func Array64(x [3]float64) float64 {
 	sum := 0.0
 	for i, xi := range x {
 		d := xi - centers[i]
 		sum += float64(i+1) * d * d
 	}
-	return sum + 0.1*math.Pow(x[0]-centers[0], 4)
+	d2 := x[2] - centers[2]
+	return sum + 0.1*math.Pow(x[0]-centers[0], 4) + 0.05*(1-math.Erfc(d2))*d2
 }
 
 // Array32 is a² + atan(x₁ − 2)² + cosh(a) − 1, a = x₀ − 1: each term is
