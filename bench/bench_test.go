@@ -39,6 +39,7 @@ import (
 var (
 	table     = flag.Bool("table", false, "run the benchmarks and print the table (TestTable)")
 	benchtime = flag.String("solvetime", "1s", "the benchmarks' -benchtime (-benchtime itself goes to this go test)")
+	counts    = flag.String("instructions", "", "comma-separated benchmarks (e.g. Rosen2/bfgs/analytic) whose instructions per solve callgrind counts, thalweg against floor")
 	only      = flag.String("only", "", "a regular expression for the problems to run, e.g. Well1|Rosen2 (CI's smoke run)")
 )
 
@@ -175,8 +176,55 @@ func TestTable(t *testing.T) {
 			}
 		}
 	}
+	if *counts != "" {
+		b.WriteString(instructionTable(t, dir, strings.Split(*counts, ",")))
+	}
 	t.Log("\n" + b.String())
 	fmt.Print(b.String())
+}
+
+// instructionTable counts, with valgrind's callgrind, the instructions of
+// one solve (thalweg) and of its floor for each key: each benchmark runs
+// at -benchtime 1x and 41x, and the difference over 40 is per solve, free
+// of the process's setup and of timing noise.
+func instructionTable(t *testing.T, dir string, keys []string) string {
+	bin := filepath.Join(dir, "bench.test")
+	build := exec.Command("go", "test", "-c", "-o", bin, ".")
+	build.Dir = dir
+	build.Env = append(os.Environ(), "GOFLAGS=-mod=mod", "GOWORK=off")
+	if out, err := build.CombinedOutput(); err != nil {
+		t.Fatalf("go test -c: %v\n%s", err, out)
+	}
+	count := func(bench string, times int) float64 {
+		file := filepath.Join(dir, "callgrind.out")
+		cmd := exec.Command("valgrind", "--tool=callgrind", "--callgrind-out-file="+file, bin,
+			"-test.run=^$", "-test.bench=^BenchmarkSolve$/^"+regexp.QuoteMeta(bench)+"$", "-test.benchtime="+strconv.Itoa(times)+"x")
+		// Go's preemption signals trip callgrind's signal bookkeeping
+		cmd.Env = append(os.Environ(), "GODEBUG=asyncpreemptoff=1", "GOMAXPROCS=1")
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("callgrind on %s: %v\n%s", bench, err, out)
+		}
+		data, err := os.ReadFile(file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, line := range strings.Split(string(data), "\n") {
+			if v, ok := strings.CutPrefix(line, "summary: "); ok {
+				n, _ := strconv.ParseFloat(strings.Fields(v)[0], 64)
+				return n
+			}
+		}
+		t.Fatalf("callgrind on %s: no summary", bench)
+		return 0
+	}
+	perSolve := func(bench string) float64 { return (count(bench, 41) - count(bench, 1)) / 40 }
+	var b strings.Builder
+	b.WriteString("\nInstructions per solve (valgrind --tool=callgrind, the difference between 41 and 1 solves over 40):\n\n| benchmark | thalweg | floor | thalweg / floor |\n|---|---:|---:|---:|\n")
+	for _, key := range keys {
+		g, f := perSolve(key+"/thalweg"), perSolve(key+"/floor")
+		fmt.Fprintf(&b, "| %s | %.0f | %.0f | %.2f |\n", key, g, f, g/f)
+	}
+	return b.String()
 }
 
 func sources(p problem) []string {
