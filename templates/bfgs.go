@@ -37,10 +37,10 @@ func (s *bfgsDirection) compute(g, d *vec) {
 }
 
 func (s *bfgsDirection) update(step, change *vec) {
-	if !curvatureSafe(step, change) {
+	sy := dot(step, change)
+	if !curvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := dot(step, change)
 	if !s.scaled {
 		gamma := sy / dot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -57,8 +57,12 @@ func (s *bfgsDirection) update(step, change *vec) {
 	}
 	outer := (rho*rho*dot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }

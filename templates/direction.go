@@ -84,7 +84,12 @@ func (s *direction) firstTrial(t, slope, now elem) elem {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func curvatureSafe(s, y *vec) bool {
-	sy := dot(s, y)
+	return curvatureSafeWith(dot(s, y), s, y)
+}
+
+// curvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func curvatureSafeWith(sy elem, s, y *vec) bool {
 	return sy > 0 && (sy/dot(s, s))*(sy/dot(y, y)) > unitRoundoff
 }
 

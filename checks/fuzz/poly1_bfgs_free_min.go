@@ -590,10 +590,10 @@ func (s *poly1BFGSFreeDirection) compute(g, d *[1]float64) {
 }
 
 func (s *poly1BFGSFreeDirection) update(step, change *[1]float64) {
-	if !poly1BFGSFreeCurvatureSafe(step, change) {
+	sy := poly1BFGSFreeDot(step, change)
+	if !poly1BFGSFreeCurvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := poly1BFGSFreeDot(step, change)
 	if !s.scaled {
 		gamma := sy / poly1BFGSFreeDot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -610,8 +610,12 @@ func (s *poly1BFGSFreeDirection) update(step, change *[1]float64) {
 	}
 	outer := (rho*rho*poly1BFGSFreeDot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }
@@ -631,15 +635,9 @@ func poly1BFGSFreeDot(a, b *[1]float64) float64 {
 	return s
 }
 
-// poly1BFGSFreeCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly1BFGSFreeCurvatureSafe(s, y *[1]float64) bool {
-	sy := poly1BFGSFreeDot(s, y)
+// poly1BFGSFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly1BFGSFreeCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
 	return sy > 0 && (sy/poly1BFGSFreeDot(s, s))*(sy/poly1BFGSFreeDot(y, y)) > poly1BFGSFreeUnitRoundoff
 }
 

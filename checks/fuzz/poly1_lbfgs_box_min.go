@@ -675,7 +675,12 @@ func poly1LBFGSBoxNegate(out, x *[1]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly1LBFGSBoxCurvatureSafe(s, y *[1]float64) bool {
-	sy := poly1LBFGSBoxDot(s, y)
+	return poly1LBFGSBoxCurvatureSafeWith(poly1LBFGSBoxDot(s, y), s, y)
+}
+
+// poly1LBFGSBoxCurvatureSafeWith is poly1LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly1LBFGSBoxCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
 	return sy > 0 && (sy/poly1LBFGSBoxDot(s, s))*(sy/poly1LBFGSBoxDot(y, y)) > poly1LBFGSBoxUnitRoundoff
 }
 

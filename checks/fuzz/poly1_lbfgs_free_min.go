@@ -665,7 +665,12 @@ func poly1LBFGSFreeNegate(out, x *[1]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly1LBFGSFreeCurvatureSafe(s, y *[1]float64) bool {
-	sy := poly1LBFGSFreeDot(s, y)
+	return poly1LBFGSFreeCurvatureSafeWith(poly1LBFGSFreeDot(s, y), s, y)
+}
+
+// poly1LBFGSFreeCurvatureSafeWith is poly1LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly1LBFGSFreeCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
 	return sy > 0 && (sy/poly1LBFGSFreeDot(s, s))*(sy/poly1LBFGSFreeDot(y, y)) > poly1LBFGSFreeUnitRoundoff
 }
 

@@ -675,7 +675,12 @@ func poly2LBFGSBoxNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly2LBFGSBoxCurvatureSafe(s, y *[2]float64) bool {
-	sy := poly2LBFGSBoxDot(s, y)
+	return poly2LBFGSBoxCurvatureSafeWith(poly2LBFGSBoxDot(s, y), s, y)
+}
+
+// poly2LBFGSBoxCurvatureSafeWith is poly2LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly2LBFGSBoxCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/poly2LBFGSBoxDot(s, s))*(sy/poly2LBFGSBoxDot(y, y)) > poly2LBFGSBoxUnitRoundoff
 }
 

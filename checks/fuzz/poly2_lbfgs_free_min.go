@@ -665,7 +665,12 @@ func poly2LBFGSFreeNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly2LBFGSFreeCurvatureSafe(s, y *[2]float64) bool {
-	sy := poly2LBFGSFreeDot(s, y)
+	return poly2LBFGSFreeCurvatureSafeWith(poly2LBFGSFreeDot(s, y), s, y)
+}
+
+// poly2LBFGSFreeCurvatureSafeWith is poly2LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly2LBFGSFreeCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/poly2LBFGSFreeDot(s, s))*(sy/poly2LBFGSFreeDot(y, y)) > poly2LBFGSFreeUnitRoundoff
 }
 

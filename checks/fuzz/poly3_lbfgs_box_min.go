@@ -675,7 +675,12 @@ func poly3LBFGSBoxNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly3LBFGSBoxCurvatureSafe(s, y *[3]float64) bool {
-	sy := poly3LBFGSBoxDot(s, y)
+	return poly3LBFGSBoxCurvatureSafeWith(poly3LBFGSBoxDot(s, y), s, y)
+}
+
+// poly3LBFGSBoxCurvatureSafeWith is poly3LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly3LBFGSBoxCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/poly3LBFGSBoxDot(s, s))*(sy/poly3LBFGSBoxDot(y, y)) > poly3LBFGSBoxUnitRoundoff
 }
 

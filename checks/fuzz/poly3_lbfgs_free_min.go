@@ -665,7 +665,12 @@ func poly3LBFGSFreeNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly3LBFGSFreeCurvatureSafe(s, y *[3]float64) bool {
-	sy := poly3LBFGSFreeDot(s, y)
+	return poly3LBFGSFreeCurvatureSafeWith(poly3LBFGSFreeDot(s, y), s, y)
+}
+
+// poly3LBFGSFreeCurvatureSafeWith is poly3LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly3LBFGSFreeCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/poly3LBFGSFreeDot(s, s))*(sy/poly3LBFGSFreeDot(y, y)) > poly3LBFGSFreeUnitRoundoff
 }
 

@@ -600,10 +600,10 @@ func (s *poly5BFGSBoxDirection) compute(g, d *[5]float64) {
 }
 
 func (s *poly5BFGSBoxDirection) update(step, change *[5]float64) {
-	if !poly5BFGSBoxCurvatureSafe(step, change) {
+	sy := poly5BFGSBoxDot(step, change)
+	if !poly5BFGSBoxCurvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := poly5BFGSBoxDot(step, change)
 	if !s.scaled {
 		gamma := sy / poly5BFGSBoxDot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -620,8 +620,12 @@ func (s *poly5BFGSBoxDirection) update(step, change *[5]float64) {
 	}
 	outer := (rho*rho*poly5BFGSBoxDot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }
@@ -641,15 +645,9 @@ func poly5BFGSBoxDot(a, b *[5]float64) float64 {
 	return s
 }
 
-// poly5BFGSBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly5BFGSBoxCurvatureSafe(s, y *[5]float64) bool {
-	sy := poly5BFGSBoxDot(s, y)
+// poly5BFGSBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly5BFGSBoxCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
 	return sy > 0 && (sy/poly5BFGSBoxDot(s, s))*(sy/poly5BFGSBoxDot(y, y)) > poly5BFGSBoxUnitRoundoff
 }
 

@@ -675,7 +675,12 @@ func poly5LBFGSBoxNegate(out, x *[5]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly5LBFGSBoxCurvatureSafe(s, y *[5]float64) bool {
-	sy := poly5LBFGSBoxDot(s, y)
+	return poly5LBFGSBoxCurvatureSafeWith(poly5LBFGSBoxDot(s, y), s, y)
+}
+
+// poly5LBFGSBoxCurvatureSafeWith is poly5LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly5LBFGSBoxCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
 	return sy > 0 && (sy/poly5LBFGSBoxDot(s, s))*(sy/poly5LBFGSBoxDot(y, y)) > poly5LBFGSBoxUnitRoundoff
 }
 

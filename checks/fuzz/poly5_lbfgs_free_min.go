@@ -665,7 +665,12 @@ func poly5LBFGSFreeNegate(out, x *[5]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly5LBFGSFreeCurvatureSafe(s, y *[5]float64) bool {
-	sy := poly5LBFGSFreeDot(s, y)
+	return poly5LBFGSFreeCurvatureSafeWith(poly5LBFGSFreeDot(s, y), s, y)
+}
+
+// poly5LBFGSFreeCurvatureSafeWith is poly5LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly5LBFGSFreeCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
 	return sy > 0 && (sy/poly5LBFGSFreeDot(s, s))*(sy/poly5LBFGSFreeDot(y, y)) > poly5LBFGSFreeUnitRoundoff
 }
 

@@ -675,7 +675,12 @@ func poly8LBFGSBoxNegate(out, x *[8]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly8LBFGSBoxCurvatureSafe(s, y *[8]float64) bool {
-	sy := poly8LBFGSBoxDot(s, y)
+	return poly8LBFGSBoxCurvatureSafeWith(poly8LBFGSBoxDot(s, y), s, y)
+}
+
+// poly8LBFGSBoxCurvatureSafeWith is poly8LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly8LBFGSBoxCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
 	return sy > 0 && (sy/poly8LBFGSBoxDot(s, s))*(sy/poly8LBFGSBoxDot(y, y)) > poly8LBFGSBoxUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func poly8LBFGSFreeNegate(out, x *[8]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly8LBFGSFreeCurvatureSafe(s, y *[8]float64) bool {
-	sy := poly8LBFGSFreeDot(s, y)
+	return poly8LBFGSFreeCurvatureSafeWith(poly8LBFGSFreeDot(s, y), s, y)
+}
+
+// poly8LBFGSFreeCurvatureSafeWith is poly8LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly8LBFGSFreeCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
 	return sy > 0 && (sy/poly8LBFGSFreeDot(s, s))*(sy/poly8LBFGSFreeDot(y, y)) > poly8LBFGSFreeUnitRoundoff
 }
 

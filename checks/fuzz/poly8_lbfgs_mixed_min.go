@@ -675,7 +675,12 @@ func poly8LBFGSMixedNegate(out, x *[8]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func poly8LBFGSMixedCurvatureSafe(s, y *[8]float64) bool {
-	sy := poly8LBFGSMixedDot(s, y)
+	return poly8LBFGSMixedCurvatureSafeWith(poly8LBFGSMixedDot(s, y), s, y)
+}
+
+// poly8LBFGSMixedCurvatureSafeWith is poly8LBFGSMixedCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func poly8LBFGSMixedCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
 	return sy > 0 && (sy/poly8LBFGSMixedDot(s, s))*(sy/poly8LBFGSMixedDot(y, y)) > poly8LBFGSMixedUnitRoundoff
 }
 

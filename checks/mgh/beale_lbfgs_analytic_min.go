@@ -665,7 +665,12 @@ func bealeLBFGSAnalyticNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func bealeLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
-	sy := bealeLBFGSAnalyticDot(s, y)
+	return bealeLBFGSAnalyticCurvatureSafeWith(bealeLBFGSAnalyticDot(s, y), s, y)
+}
+
+// bealeLBFGSAnalyticCurvatureSafeWith is bealeLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func bealeLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeLBFGSAnalyticDot(s, s))*(sy/bealeLBFGSAnalyticDot(y, y)) > bealeLBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func bealeLBFGSCentralNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func bealeLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
-	sy := bealeLBFGSCentralDot(s, y)
+	return bealeLBFGSCentralCurvatureSafeWith(bealeLBFGSCentralDot(s, y), s, y)
+}
+
+// bealeLBFGSCentralCurvatureSafeWith is bealeLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func bealeLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeLBFGSCentralDot(s, s))*(sy/bealeLBFGSCentralDot(y, y)) > bealeLBFGSCentralUnitRoundoff
 }
 

@@ -590,10 +590,10 @@ func (s *biggsEXP6BFGSAnalyticDirection) compute(g, d *[6]float64) {
 }
 
 func (s *biggsEXP6BFGSAnalyticDirection) update(step, change *[6]float64) {
-	if !biggsEXP6BFGSAnalyticCurvatureSafe(step, change) {
+	sy := biggsEXP6BFGSAnalyticDot(step, change)
+	if !biggsEXP6BFGSAnalyticCurvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := biggsEXP6BFGSAnalyticDot(step, change)
 	if !s.scaled {
 		gamma := sy / biggsEXP6BFGSAnalyticDot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -610,8 +610,12 @@ func (s *biggsEXP6BFGSAnalyticDirection) update(step, change *[6]float64) {
 	}
 	outer := (rho*rho*biggsEXP6BFGSAnalyticDot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }
@@ -631,15 +635,9 @@ func biggsEXP6BFGSAnalyticDot(a, b *[6]float64) float64 {
 	return s
 }
 
-// biggsEXP6BFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func biggsEXP6BFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
-	sy := biggsEXP6BFGSAnalyticDot(s, y)
+// biggsEXP6BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func biggsEXP6BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6BFGSAnalyticDot(s, s))*(sy/biggsEXP6BFGSAnalyticDot(y, y)) > biggsEXP6BFGSAnalyticUnitRoundoff
 }
 

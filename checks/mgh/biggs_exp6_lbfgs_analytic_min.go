@@ -665,7 +665,12 @@ func biggsEXP6LBFGSAnalyticNegate(out, x *[6]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func biggsEXP6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
-	sy := biggsEXP6LBFGSAnalyticDot(s, y)
+	return biggsEXP6LBFGSAnalyticCurvatureSafeWith(biggsEXP6LBFGSAnalyticDot(s, y), s, y)
+}
+
+// biggsEXP6LBFGSAnalyticCurvatureSafeWith is biggsEXP6LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func biggsEXP6LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6LBFGSAnalyticDot(s, s))*(sy/biggsEXP6LBFGSAnalyticDot(y, y)) > biggsEXP6LBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func biggsEXP6LBFGSCentralNegate(out, x *[6]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func biggsEXP6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
-	sy := biggsEXP6LBFGSCentralDot(s, y)
+	return biggsEXP6LBFGSCentralCurvatureSafeWith(biggsEXP6LBFGSCentralDot(s, y), s, y)
+}
+
+// biggsEXP6LBFGSCentralCurvatureSafeWith is biggsEXP6LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func biggsEXP6LBFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6LBFGSCentralDot(s, s))*(sy/biggsEXP6LBFGSCentralDot(y, y)) > biggsEXP6LBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func box3DLBFGSAnalyticNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func box3DLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
-	sy := box3DLBFGSAnalyticDot(s, y)
+	return box3DLBFGSAnalyticCurvatureSafeWith(box3DLBFGSAnalyticDot(s, y), s, y)
+}
+
+// box3DLBFGSAnalyticCurvatureSafeWith is box3DLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func box3DLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DLBFGSAnalyticDot(s, s))*(sy/box3DLBFGSAnalyticDot(y, y)) > box3DLBFGSAnalyticUnitRoundoff
 }
 

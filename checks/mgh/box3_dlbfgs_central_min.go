@@ -665,7 +665,12 @@ func box3DLBFGSCentralNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := box3DLBFGSCentralDot(s, y)
+	return box3DLBFGSCentralCurvatureSafeWith(box3DLBFGSCentralDot(s, y), s, y)
+}
+
+// box3DLBFGSCentralCurvatureSafeWith is box3DLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func box3DLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func brownBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func brownBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
-	sy := brownBadlyScaledLBFGSAnalyticDot(s, y)
+	return brownBadlyScaledLBFGSAnalyticCurvatureSafeWith(brownBadlyScaledLBFGSAnalyticDot(s, y), s, y)
+}
+
+// brownBadlyScaledLBFGSAnalyticCurvatureSafeWith is brownBadlyScaledLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func brownBadlyScaledLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledLBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledLBFGSAnalyticDot(y, y)) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 

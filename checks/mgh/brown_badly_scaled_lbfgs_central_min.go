@@ -665,7 +665,12 @@ func brownBadlyScaledLBFGSCentralNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func brownBadlyScaledLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
-	sy := brownBadlyScaledLBFGSCentralDot(s, y)
+	return brownBadlyScaledLBFGSCentralCurvatureSafeWith(brownBadlyScaledLBFGSCentralDot(s, y), s, y)
+}
+
+// brownBadlyScaledLBFGSCentralCurvatureSafeWith is brownBadlyScaledLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func brownBadlyScaledLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledLBFGSCentralDot(s, s))*(sy/brownBadlyScaledLBFGSCentralDot(y, y)) > brownBadlyScaledLBFGSCentralUnitRoundoff
 }
 

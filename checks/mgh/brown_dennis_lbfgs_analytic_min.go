@@ -665,7 +665,12 @@ func brownDennisLBFGSAnalyticNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func brownDennisLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
-	sy := brownDennisLBFGSAnalyticDot(s, y)
+	return brownDennisLBFGSAnalyticCurvatureSafeWith(brownDennisLBFGSAnalyticDot(s, y), s, y)
+}
+
+// brownDennisLBFGSAnalyticCurvatureSafeWith is brownDennisLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func brownDennisLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisLBFGSAnalyticDot(s, s))*(sy/brownDennisLBFGSAnalyticDot(y, y)) > brownDennisLBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func brownDennisLBFGSCentralNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func brownDennisLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := brownDennisLBFGSCentralDot(s, y)
+	return brownDennisLBFGSCentralCurvatureSafeWith(brownDennisLBFGSCentralDot(s, y), s, y)
+}
+
+// brownDennisLBFGSCentralCurvatureSafeWith is brownDennisLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func brownDennisLBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisLBFGSCentralDot(s, s))*(sy/brownDennisLBFGSCentralDot(y, y)) > brownDennisLBFGSCentralUnitRoundoff
 }
 

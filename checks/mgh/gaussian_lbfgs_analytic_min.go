@@ -665,7 +665,12 @@ func gaussianLBFGSAnalyticNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func gaussianLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
-	sy := gaussianLBFGSAnalyticDot(s, y)
+	return gaussianLBFGSAnalyticCurvatureSafeWith(gaussianLBFGSAnalyticDot(s, y), s, y)
+}
+
+// gaussianLBFGSAnalyticCurvatureSafeWith is gaussianLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func gaussianLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianLBFGSAnalyticDot(s, s))*(sy/gaussianLBFGSAnalyticDot(y, y)) > gaussianLBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func gaussianLBFGSCentralNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func gaussianLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := gaussianLBFGSCentralDot(s, y)
+	return gaussianLBFGSCentralCurvatureSafeWith(gaussianLBFGSCentralDot(s, y), s, y)
+}
+
+// gaussianLBFGSCentralCurvatureSafeWith is gaussianLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func gaussianLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianLBFGSCentralDot(s, s))*(sy/gaussianLBFGSCentralDot(y, y)) > gaussianLBFGSCentralUnitRoundoff
 }
 

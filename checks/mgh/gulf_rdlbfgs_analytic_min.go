@@ -665,7 +665,12 @@ func gulfRDLBFGSAnalyticNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func gulfRDLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
-	sy := gulfRDLBFGSAnalyticDot(s, y)
+	return gulfRDLBFGSAnalyticCurvatureSafeWith(gulfRDLBFGSAnalyticDot(s, y), s, y)
+}
+
+// gulfRDLBFGSAnalyticCurvatureSafeWith is gulfRDLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func gulfRDLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDLBFGSAnalyticDot(s, s))*(sy/gulfRDLBFGSAnalyticDot(y, y)) > gulfRDLBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func gulfRDLBFGSCentralNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func gulfRDLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := gulfRDLBFGSCentralDot(s, y)
+	return gulfRDLBFGSCentralCurvatureSafeWith(gulfRDLBFGSCentralDot(s, y), s, y)
+}
+
+// gulfRDLBFGSCentralCurvatureSafeWith is gulfRDLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func gulfRDLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDLBFGSCentralDot(s, s))*(sy/gulfRDLBFGSCentralDot(y, y)) > gulfRDLBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func helicalValleyLBFGSAnalyticNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func helicalValleyLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
-	sy := helicalValleyLBFGSAnalyticDot(s, y)
+	return helicalValleyLBFGSAnalyticCurvatureSafeWith(helicalValleyLBFGSAnalyticDot(s, y), s, y)
+}
+
+// helicalValleyLBFGSAnalyticCurvatureSafeWith is helicalValleyLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func helicalValleyLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyLBFGSAnalyticDot(s, s))*(sy/helicalValleyLBFGSAnalyticDot(y, y)) > helicalValleyLBFGSAnalyticUnitRoundoff
 }
 

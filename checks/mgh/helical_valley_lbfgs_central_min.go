@@ -665,7 +665,12 @@ func helicalValleyLBFGSCentralNegate(out, x *[3]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func helicalValleyLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
-	sy := helicalValleyLBFGSCentralDot(s, y)
+	return helicalValleyLBFGSCentralCurvatureSafeWith(helicalValleyLBFGSCentralDot(s, y), s, y)
+}
+
+// helicalValleyLBFGSCentralCurvatureSafeWith is helicalValleyLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func helicalValleyLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyLBFGSCentralDot(s, s))*(sy/helicalValleyLBFGSCentralDot(y, y)) > helicalValleyLBFGSCentralUnitRoundoff
 }
 

@@ -172,10 +172,6 @@ type exclusion struct {
 }
 
 var exclusions = map[string]exclusion{
-	"PowellBadlyScaledBFGSCentral": {
-		"stalled at f = 1.3e-24, at x* within the x tolerance, with the gradient measure 2.1e-7 just above the stall limit 2.0e-7 (ten times the measure of the central differences' error bound): the differences cannot show a smaller gradient there",
-		"MGH (3) is badly scaled by design; ∇²f(x*) has λ from 2.4e-8 to 1.7e10 (computed here); central differences' error grows with that curvature (Nocedal & Wright 2006, §8.1)",
-	},
 	"PowellBadlyScaledCGAnalytic": {
 		"PR+ CG zigzags down the curved valley and stalls at f ≈ 1.2e-8 with a gradient far above its limit: reported as stalled, not converged",
 		"MGH (3) is badly scaled by design; ∇²f(x*) has λ from 2.4e-8 to 1.7e10 (computed here); functions.go: \"very flat near the minimum\"",

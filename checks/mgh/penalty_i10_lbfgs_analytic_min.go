@@ -665,7 +665,12 @@ func penaltyI10LBFGSAnalyticNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyI10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
-	sy := penaltyI10LBFGSAnalyticDot(s, y)
+	return penaltyI10LBFGSAnalyticCurvatureSafeWith(penaltyI10LBFGSAnalyticDot(s, y), s, y)
+}
+
+// penaltyI10LBFGSAnalyticCurvatureSafeWith is penaltyI10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyI10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10LBFGSAnalyticDot(s, s))*(sy/penaltyI10LBFGSAnalyticDot(y, y)) > penaltyI10LBFGSAnalyticUnitRoundoff
 }
 

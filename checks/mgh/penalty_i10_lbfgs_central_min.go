@@ -665,7 +665,12 @@ func penaltyI10LBFGSCentralNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyI10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := penaltyI10LBFGSCentralDot(s, y)
+	return penaltyI10LBFGSCentralCurvatureSafeWith(penaltyI10LBFGSCentralDot(s, y), s, y)
+}
+
+// penaltyI10LBFGSCentralCurvatureSafeWith is penaltyI10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyI10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10LBFGSCentralDot(s, s))*(sy/penaltyI10LBFGSCentralDot(y, y)) > penaltyI10LBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func penaltyI4LBFGSAnalyticNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyI4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyI4LBFGSAnalyticDot(s, y)
+	return penaltyI4LBFGSAnalyticCurvatureSafeWith(penaltyI4LBFGSAnalyticDot(s, y), s, y)
+}
+
+// penaltyI4LBFGSAnalyticCurvatureSafeWith is penaltyI4LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyI4LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4LBFGSAnalyticDot(s, s))*(sy/penaltyI4LBFGSAnalyticDot(y, y)) > penaltyI4LBFGSAnalyticUnitRoundoff
 }
 

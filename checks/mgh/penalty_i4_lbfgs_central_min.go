@@ -665,7 +665,12 @@ func penaltyI4LBFGSCentralNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyI4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyI4LBFGSCentralDot(s, y)
+	return penaltyI4LBFGSCentralCurvatureSafeWith(penaltyI4LBFGSCentralDot(s, y), s, y)
+}
+
+// penaltyI4LBFGSCentralCurvatureSafeWith is penaltyI4LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyI4LBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4LBFGSCentralDot(s, s))*(sy/penaltyI4LBFGSCentralDot(y, y)) > penaltyI4LBFGSCentralUnitRoundoff
 }
 

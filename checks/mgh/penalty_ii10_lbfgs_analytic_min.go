@@ -665,7 +665,12 @@ func penaltyII10LBFGSAnalyticNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyII10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
-	sy := penaltyII10LBFGSAnalyticDot(s, y)
+	return penaltyII10LBFGSAnalyticCurvatureSafeWith(penaltyII10LBFGSAnalyticDot(s, y), s, y)
+}
+
+// penaltyII10LBFGSAnalyticCurvatureSafeWith is penaltyII10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyII10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10LBFGSAnalyticDot(s, s))*(sy/penaltyII10LBFGSAnalyticDot(y, y)) > penaltyII10LBFGSAnalyticUnitRoundoff
 }
 

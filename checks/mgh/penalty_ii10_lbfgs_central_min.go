@@ -665,7 +665,12 @@ func penaltyII10LBFGSCentralNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyII10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := penaltyII10LBFGSCentralDot(s, y)
+	return penaltyII10LBFGSCentralCurvatureSafeWith(penaltyII10LBFGSCentralDot(s, y), s, y)
+}
+
+// penaltyII10LBFGSCentralCurvatureSafeWith is penaltyII10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyII10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10LBFGSCentralDot(s, s))*(sy/penaltyII10LBFGSCentralDot(y, y)) > penaltyII10LBFGSCentralUnitRoundoff
 }
 

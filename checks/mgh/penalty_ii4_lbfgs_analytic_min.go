@@ -665,7 +665,12 @@ func penaltyII4LBFGSAnalyticNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyII4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyII4LBFGSAnalyticDot(s, y)
+	return penaltyII4LBFGSAnalyticCurvatureSafeWith(penaltyII4LBFGSAnalyticDot(s, y), s, y)
+}
+
+// penaltyII4LBFGSAnalyticCurvatureSafeWith is penaltyII4LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyII4LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4LBFGSAnalyticDot(s, s))*(sy/penaltyII4LBFGSAnalyticDot(y, y)) > penaltyII4LBFGSAnalyticUnitRoundoff
 }
 

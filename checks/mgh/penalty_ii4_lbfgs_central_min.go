@@ -665,7 +665,12 @@ func penaltyII4LBFGSCentralNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func penaltyII4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := penaltyII4LBFGSCentralDot(s, y)
+	return penaltyII4LBFGSCentralCurvatureSafeWith(penaltyII4LBFGSCentralDot(s, y), s, y)
+}
+
+// penaltyII4LBFGSCentralCurvatureSafeWith is penaltyII4LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func penaltyII4LBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4LBFGSCentralDot(s, s))*(sy/penaltyII4LBFGSCentralDot(y, y)) > penaltyII4LBFGSCentralUnitRoundoff
 }
 

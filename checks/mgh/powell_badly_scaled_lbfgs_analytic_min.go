@@ -665,7 +665,12 @@ func powellBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func powellBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
-	sy := powellBadlyScaledLBFGSAnalyticDot(s, y)
+	return powellBadlyScaledLBFGSAnalyticCurvatureSafeWith(powellBadlyScaledLBFGSAnalyticDot(s, y), s, y)
+}
+
+// powellBadlyScaledLBFGSAnalyticCurvatureSafeWith is powellBadlyScaledLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func powellBadlyScaledLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledLBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledLBFGSAnalyticDot(y, y)) > powellBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func powellBadlyScaledLBFGSCentralNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func powellBadlyScaledLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
-	sy := powellBadlyScaledLBFGSCentralDot(s, y)
+	return powellBadlyScaledLBFGSCentralCurvatureSafeWith(powellBadlyScaledLBFGSCentralDot(s, y), s, y)
+}
+
+// powellBadlyScaledLBFGSCentralCurvatureSafeWith is powellBadlyScaledLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func powellBadlyScaledLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledLBFGSCentralDot(s, s))*(sy/powellBadlyScaledLBFGSCentralDot(y, y)) > powellBadlyScaledLBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func powellSingularLBFGSAnalyticNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func powellSingularLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
-	sy := powellSingularLBFGSAnalyticDot(s, y)
+	return powellSingularLBFGSAnalyticCurvatureSafeWith(powellSingularLBFGSAnalyticDot(s, y), s, y)
+}
+
+// powellSingularLBFGSAnalyticCurvatureSafeWith is powellSingularLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func powellSingularLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularLBFGSAnalyticDot(s, s))*(sy/powellSingularLBFGSAnalyticDot(y, y)) > powellSingularLBFGSAnalyticUnitRoundoff
 }
 

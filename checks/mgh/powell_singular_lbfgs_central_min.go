@@ -665,7 +665,12 @@ func powellSingularLBFGSCentralNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func powellSingularLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := powellSingularLBFGSCentralDot(s, y)
+	return powellSingularLBFGSCentralCurvatureSafeWith(powellSingularLBFGSCentralDot(s, y), s, y)
+}
+
+// powellSingularLBFGSCentralCurvatureSafeWith is powellSingularLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func powellSingularLBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularLBFGSCentralDot(s, s))*(sy/powellSingularLBFGSCentralDot(y, y)) > powellSingularLBFGSCentralUnitRoundoff
 }
 

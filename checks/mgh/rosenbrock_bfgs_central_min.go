@@ -590,10 +590,10 @@ func (s *rosenbrockBFGSCentralDirection) compute(g, d *[2]float64) {
 }
 
 func (s *rosenbrockBFGSCentralDirection) update(step, change *[2]float64) {
-	if !rosenbrockBFGSCentralCurvatureSafe(step, change) {
+	sy := rosenbrockBFGSCentralDot(step, change)
+	if !rosenbrockBFGSCentralCurvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := rosenbrockBFGSCentralDot(step, change)
 	if !s.scaled {
 		gamma := sy / rosenbrockBFGSCentralDot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -610,8 +610,12 @@ func (s *rosenbrockBFGSCentralDirection) update(step, change *[2]float64) {
 	}
 	outer := (rho*rho*rosenbrockBFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }
@@ -631,15 +635,9 @@ func rosenbrockBFGSCentralDot(a, b *[2]float64) float64 {
 	return s
 }
 
-// rosenbrockBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func rosenbrockBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
-	sy := rosenbrockBFGSCentralDot(s, y)
+// rosenbrockBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func rosenbrockBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockBFGSCentralDot(s, s))*(sy/rosenbrockBFGSCentralDot(y, y)) > rosenbrockBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func rosenbrockLBFGSAnalyticNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func rosenbrockLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
-	sy := rosenbrockLBFGSAnalyticDot(s, y)
+	return rosenbrockLBFGSAnalyticCurvatureSafeWith(rosenbrockLBFGSAnalyticDot(s, y), s, y)
+}
+
+// rosenbrockLBFGSAnalyticCurvatureSafeWith is rosenbrockLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func rosenbrockLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockLBFGSAnalyticDot(s, s))*(sy/rosenbrockLBFGSAnalyticDot(y, y)) > rosenbrockLBFGSAnalyticUnitRoundoff
 }
 

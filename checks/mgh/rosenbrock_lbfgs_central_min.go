@@ -665,7 +665,12 @@ func rosenbrockLBFGSCentralNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func rosenbrockLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
-	sy := rosenbrockLBFGSCentralDot(s, y)
+	return rosenbrockLBFGSCentralCurvatureSafeWith(rosenbrockLBFGSCentralDot(s, y), s, y)
+}
+
+// rosenbrockLBFGSCentralCurvatureSafeWith is rosenbrockLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func rosenbrockLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockLBFGSCentralDot(s, s))*(sy/rosenbrockLBFGSCentralDot(y, y)) > rosenbrockLBFGSCentralUnitRoundoff
 }
 

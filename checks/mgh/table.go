@@ -51,7 +51,6 @@ var (
 // does not converge: the spec names the status each ends with, so that
 // its generated test asserts that end instead of convergence.
 var ExpectedEnds = map[string]string{
-	"PowellBadlyScaledBFGSCentral": "stalled",
 	"PowellBadlyScaledCGAnalytic":  "stalled",
 	"PowellBadlyScaledCGCentral":   "stalled",
 	"Watson9CGCentral":             "out of evaluations",

@@ -665,7 +665,12 @@ func trigonometric10LBFGSAnalyticNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func trigonometric10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
-	sy := trigonometric10LBFGSAnalyticDot(s, y)
+	return trigonometric10LBFGSAnalyticCurvatureSafeWith(trigonometric10LBFGSAnalyticDot(s, y), s, y)
+}
+
+// trigonometric10LBFGSAnalyticCurvatureSafeWith is trigonometric10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func trigonometric10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10LBFGSAnalyticDot(s, s))*(sy/trigonometric10LBFGSAnalyticDot(y, y)) > trigonometric10LBFGSAnalyticUnitRoundoff
 }
 

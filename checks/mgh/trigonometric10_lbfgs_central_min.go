@@ -665,7 +665,12 @@ func trigonometric10LBFGSCentralNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := trigonometric10LBFGSCentralDot(s, y)
+	return trigonometric10LBFGSCentralCurvatureSafeWith(trigonometric10LBFGSCentralDot(s, y), s, y)
+}
+
+// trigonometric10LBFGSCentralCurvatureSafeWith is trigonometric10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func trigonometric10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10LBFGSCentralDot(s, s))*(sy/trigonometric10LBFGSCentralDot(y, y)) > trigonometric10LBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func variablyDimensioned10LBFGSAnalyticNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func variablyDimensioned10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
-	sy := variablyDimensioned10LBFGSAnalyticDot(s, y)
+	return variablyDimensioned10LBFGSAnalyticCurvatureSafeWith(variablyDimensioned10LBFGSAnalyticDot(s, y), s, y)
+}
+
+// variablyDimensioned10LBFGSAnalyticCurvatureSafeWith is variablyDimensioned10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func variablyDimensioned10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10LBFGSAnalyticDot(s, s))*(sy/variablyDimensioned10LBFGSAnalyticDot(y, y)) > variablyDimensioned10LBFGSAnalyticUnitRoundoff
 }
 

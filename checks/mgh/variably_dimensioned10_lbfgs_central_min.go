@@ -665,7 +665,12 @@ func variablyDimensioned10LBFGSCentralNegate(out, x *[10]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func variablyDimensioned10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	sy := variablyDimensioned10LBFGSCentralDot(s, y)
+	return variablyDimensioned10LBFGSCentralCurvatureSafeWith(variablyDimensioned10LBFGSCentralDot(s, y), s, y)
+}
+
+// variablyDimensioned10LBFGSCentralCurvatureSafeWith is variablyDimensioned10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func variablyDimensioned10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10LBFGSCentralDot(s, s))*(sy/variablyDimensioned10LBFGSCentralDot(y, y)) > variablyDimensioned10LBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func watson6LBFGSAnalyticNegate(out, x *[6]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func watson6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
-	sy := watson6LBFGSAnalyticDot(s, y)
+	return watson6LBFGSAnalyticCurvatureSafeWith(watson6LBFGSAnalyticDot(s, y), s, y)
+}
+
+// watson6LBFGSAnalyticCurvatureSafeWith is watson6LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func watson6LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSAnalyticDot(s, s))*(sy/watson6LBFGSAnalyticDot(y, y)) > watson6LBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func watson6LBFGSCentralNegate(out, x *[6]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
-	sy := watson6LBFGSCentralDot(s, y)
+	return watson6LBFGSCentralCurvatureSafeWith(watson6LBFGSCentralDot(s, y), s, y)
+}
+
+// watson6LBFGSCentralCurvatureSafeWith is watson6LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func watson6LBFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSCentralDot(s, s))*(sy/watson6LBFGSCentralDot(y, y)) > watson6LBFGSCentralUnitRoundoff
 }
 

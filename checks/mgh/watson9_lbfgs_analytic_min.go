@@ -665,7 +665,12 @@ func watson9LBFGSAnalyticNegate(out, x *[9]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func watson9LBFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
-	sy := watson9LBFGSAnalyticDot(s, y)
+	return watson9LBFGSAnalyticCurvatureSafeWith(watson9LBFGSAnalyticDot(s, y), s, y)
+}
+
+// watson9LBFGSAnalyticCurvatureSafeWith is watson9LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func watson9LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9LBFGSAnalyticDot(s, s))*(sy/watson9LBFGSAnalyticDot(y, y)) > watson9LBFGSAnalyticUnitRoundoff
 }
 

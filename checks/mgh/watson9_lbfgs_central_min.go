@@ -665,7 +665,12 @@ func watson9LBFGSCentralNegate(out, x *[9]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func watson9LBFGSCentralCurvatureSafe(s, y *[9]float64) bool {
-	sy := watson9LBFGSCentralDot(s, y)
+	return watson9LBFGSCentralCurvatureSafeWith(watson9LBFGSCentralDot(s, y), s, y)
+}
+
+// watson9LBFGSCentralCurvatureSafeWith is watson9LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func watson9LBFGSCentralCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9LBFGSCentralDot(s, s))*(sy/watson9LBFGSCentralDot(y, y)) > watson9LBFGSCentralUnitRoundoff
 }
 

@@ -590,10 +590,10 @@ func (s *woodBFGSCentralDirection) compute(g, d *[4]float64) {
 }
 
 func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
-	if !woodBFGSCentralCurvatureSafe(step, change) {
+	sy := woodBFGSCentralDot(step, change)
+	if !woodBFGSCentralCurvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := woodBFGSCentralDot(step, change)
 	if !s.scaled {
 		gamma := sy / woodBFGSCentralDot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -610,8 +610,12 @@ func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
 	}
 	outer := (rho*rho*woodBFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }
@@ -631,15 +635,9 @@ func woodBFGSCentralDot(a, b *[4]float64) float64 {
 	return s
 }
 
-// woodBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func woodBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := woodBFGSCentralDot(s, y)
+// woodBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func woodBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodBFGSCentralDot(s, s))*(sy/woodBFGSCentralDot(y, y)) > woodBFGSCentralUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func woodLBFGSAnalyticNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func woodLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
-	sy := woodLBFGSAnalyticDot(s, y)
+	return woodLBFGSAnalyticCurvatureSafeWith(woodLBFGSAnalyticDot(s, y), s, y)
+}
+
+// woodLBFGSAnalyticCurvatureSafeWith is woodLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func woodLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodLBFGSAnalyticDot(s, s))*(sy/woodLBFGSAnalyticDot(y, y)) > woodLBFGSAnalyticUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func woodLBFGSCentralNegate(out, x *[4]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func woodLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
-	sy := woodLBFGSCentralDot(s, y)
+	return woodLBFGSCentralCurvatureSafeWith(woodLBFGSCentralDot(s, y), s, y)
+}
+
+// woodLBFGSCentralCurvatureSafeWith is woodLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func woodLBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodLBFGSCentralDot(s, s))*(sy/woodLBFGSCentralDot(y, y)) > woodLBFGSCentralUnitRoundoff
 }
 

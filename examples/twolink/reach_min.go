@@ -600,10 +600,10 @@ func (s *reachDirection) compute(g, d *[2]float32) {
 }
 
 func (s *reachDirection) update(step, change *[2]float32) {
-	if !reachCurvatureSafe(step, change) {
+	sy := reachDot(step, change)
+	if !reachCurvatureSafeWith(sy, step, change) {
 		return
 	}
-	sy := reachDot(step, change)
 	if !s.scaled {
 		gamma := sy / reachDot(change, change) // N&W eq. 6.20
 		for i := range s.h {
@@ -620,8 +620,12 @@ func (s *reachDirection) update(step, change *[2]float32) {
 	}
 	outer := (rho*rho*reachDot(change, &hy) + rho)
 	for i := range s.h {
+		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+		// two multiply-adds per element instead of six multiplies and
+		// three adds
+		a, b := outer*step[i]-rho*hy[i], rho*step[i]
 		for j := range s.h[i] {
-			s.h[i][j] += outer*step[i]*step[j] - rho*(hy[i]*step[j]+step[i]*hy[j]) // N&W eq. 6.17
+			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
 		}
 	}
 }
@@ -641,15 +645,9 @@ func reachDot(a, b *[2]float32) float32 {
 	return s
 }
 
-// reachCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func reachCurvatureSafe(s, y *[2]float32) bool {
-	sy := reachDot(s, y)
+// reachCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func reachCurvatureSafeWith(sy float32, s, y *[2]float32) bool {
 	return sy > 0 && (sy/reachDot(s, s))*(sy/reachDot(y, y)) > reachUnitRoundoff
 }
 

@@ -665,7 +665,12 @@ func minValleyNegate(out, x *[2]float64) {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func minValleyCurvatureSafe(s, y *[2]float64) bool {
-	sy := minValleyDot(s, y)
+	return minValleyCurvatureSafeWith(minValleyDot(s, y), s, y)
+}
+
+// minValleyCurvatureSafeWith is minValleyCurvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func minValleyCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
 	return sy > 0 && (sy/minValleyDot(s, s))*(sy/minValleyDot(y, y)) > minValleyUnitRoundoff
 }
 
