@@ -51,9 +51,9 @@ var (
 // does not converge: the spec names the status each ends with, so that
 // its generated test asserts that end instead of convergence.
 var ExpectedEnds = map[string]string{
-	"PowellBadlyScaledCGAnalytic":  "stalled",
-	"PowellBadlyScaledCGCentral":   "stalled",
-	"Watson9CGCentral":             "out of evaluations",
+	"PowellBadlyScaledCGAnalytic": "stalled",
+	"PowellBadlyScaledCGCentral":  "stalled",
+	"Watson9CGCentral":            "out of evaluations",
 }
 
 // MinimizerName is the generated minimizer's name for one combination, e.g.
