@@ -245,7 +245,10 @@ type ex struct {
 	free   bool // costs nothing to repeat: a name, a literal, an element
 }
 
-var one = ex{s: "1", atomic: true, konst: true, free: true}
+var (
+	one      = ex{s: "1", atomic: true, konst: true, free: true}
+	minusOne = ex{s: "-1", atomic: true, konst: true, free: true}
+)
 
 func (e ex) isOne() bool { return e.s == "1" }
 
@@ -783,7 +786,7 @@ func (f *adFunc) stmt(s ast.Stmt) {
 		}
 		if s.Init != nil {
 			f.line("{")
-			f.simple(s.Init)
+			f.stmt(s.Init)
 		}
 		cond := "true"
 		if s.Cond != nil {
@@ -810,7 +813,7 @@ func (f *adFunc) stmt(s ast.Stmt) {
 	case *ast.SwitchStmt:
 		if s.Init != nil {
 			f.line("{")
-			f.simple(s.Init)
+			f.stmt(s.Init)
 		}
 		tag := ""
 		if s.Tag != nil {
@@ -859,16 +862,11 @@ func (f *adFunc) stmt(s ast.Stmt) {
 	}
 }
 
-// simple is a loop's or an if's init statement.
-func (f *adFunc) simple(s ast.Stmt) {
-	f.stmt(s)
-}
-
 func (f *adFunc) ifStmt(s *ast.IfStmt) {
 	d := f.d
 	if s.Init != nil {
 		f.line("{")
-		f.simple(s.Init)
+		f.stmt(s.Init)
 	}
 	f.check(s.Cond)
 	f.line("if %s {", d.text(s.Cond))
@@ -902,9 +900,6 @@ func (f *adFunc) rangeStmt(s *ast.RangeStmt) {
 	}
 	valueActive := s.Value != nil && overObj != nil && (overObj == f.unknowns || f.active[overObj] || overObj == f.output)
 	if !valueActive {
-		if overObj != nil && overObj == f.unknowns && s.Value == nil {
-			// for i := range x: the keys only
-		}
 		if f.anyActive(s.Key) || (s.Value != nil && f.anyActive(s.Value)) {
 			d.refuse(s, "a range loop assigning to variables that depend on x")
 			return
@@ -1651,7 +1646,7 @@ func (f *adFunc) lin(e ast.Expr) *lnode {
 		switch v.Op {
 		case token.SUB:
 			k := f.lin(v.X)
-			return &lnode{val: ex{s: "-" + k.val.paren(), atomic: true}, typ: typ, active: true, kids: []*lnode{k}, parts: []ex{{s: "-1", atomic: true, konst: true}}}
+			return &lnode{val: ex{s: "-" + k.val.paren(), atomic: true}, typ: typ, active: true, kids: []*lnode{k}, parts: []ex{minusOne}}
 		case token.ADD:
 			return f.lin(v.X)
 		}
@@ -1666,16 +1661,11 @@ func (f *adFunc) lin(e ast.Expr) *lnode {
 		n := &lnode{typ: typ, active: true, kids: []*lnode{a, b}}
 		switch v.Op {
 		case token.ADD:
-			n.val = ex{s: a.val.s + " + " + b.val.s}
+			n.val = ex{s: a.val.s + " + " + b.val.paren()}
 			n.parts = []ex{one, one}
-			if b.val.atomic && !strings.HasPrefix(b.val.s, "-") {
-				// fine
-			} else if !b.val.atomic {
-				n.val = ex{s: a.val.s + " + " + b.val.paren()}
-			}
 		case token.SUB:
 			n.val = ex{s: a.val.s + " - " + b.val.paren()}
-			n.parts = []ex{one, {s: "-1", atomic: true, konst: true}}
+			n.parts = []ex{one, minusOne}
 		case token.MUL:
 			av, bv := a.val, b.val
 			if b.active {
@@ -1700,11 +1690,6 @@ func (f *adFunc) lin(e ast.Expr) *lnode {
 		default:
 			d.refuse(v, "the operator %s on values that depend on x", v.Op)
 			return &lnode{}
-		}
-		for i := range n.parts {
-			if n.parts[i].s == "-1" {
-				n.parts[i] = ex{s: "-1", atomic: true, konst: true, free: true}
-			}
 		}
 		return n
 	case *ast.CallExpr:

@@ -467,7 +467,7 @@ func residualArgs(s Shape, out string) []jen.Code {
 // objective's, except that the Jacobian thalweg derives for a residual
 // objective on slices takes arrays (x *[N]T, J *[M][N]T).
 func jacobianArgs(s Shape, out string) []jen.Code {
-	if s.Derived != nil && s.Arg == ArgSlice {
+	if s.jacobianOnArrays() {
 		return []jen.Code{jen.Op("&").Id("x"), jen.Op("&").Id(out)}
 	}
 	return residualArgs(s, out)

@@ -75,6 +75,11 @@ type instance struct {
 // Scalar reports whether the objective takes a single number.
 func (s Shape) Scalar() bool { return s.Arg == ArgScalar }
 
+// jacobianOnArrays reports whether the Jacobian takes x *[N]T and
+// J *[M][N]T although the objective takes slices: the one thalweg
+// derives for a slice objective (a user's Jacobian of one is refused).
+func (s Shape) jacobianOnArrays() bool { return s.Derived != nil && s.Arg == ArgSlice }
+
 // loadedPackage is one type-checked user package.
 type loadedPackage struct {
 	dir   string

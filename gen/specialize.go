@@ -766,7 +766,7 @@ func (rw *rewriter) residualCall(call *ast.CallExpr) ast.Stmt {
 	switch {
 	case s.Arg == ArgArray:
 		p = deref(p)
-	case s.Arg == ArgSlice && (name == s.Objective || s.Derived == nil):
+	case s.Arg == ArgSlice && (name == s.Objective || !s.jacobianOnArrays()):
 		p, out = fullSlice(p), fullSlice(out)
 	}
 	return &ast.ExprStmt{X: &ast.CallExpr{Fun: rw.callee(name), Args: []ast.Expr{p, out}, Lparen: call.Lparen, Rparen: call.Rparen}}

@@ -10,8 +10,10 @@
 // (objectives_test.go checks them against gonum). The code keeps to the
 // subset of Go the differentiator accepts: float64 arithmetic, if/else,
 // three-clause for loops, local scalars, read-only package tables, x indexed
-// element by element and calls into package math only. Gonum's dimension
-// checks (panics) are dropped: the array types fix the dimension.
+// element by element or passed whole as a slice (watson, penaltyI and
+// penaltyII serve both sizes of their problem), and calls into package math
+// only. Gonum's dimension checks (panics) are dropped: the array types fix
+// the dimension.
 package objectives
 
 import "math"
@@ -188,51 +190,30 @@ func BiggsEXP6(x *[6]float64) float64 {
 // Watson6 is MGH problem (20), Watson, n = 6, m = 31: gonum's Watson at
 // n = 6.
 // Transcribed from gonum.org/v1/gonum/optimize/functions v0.17.0 functions.go.
-func Watson6(x *[6]float64) float64 {
-	sum := 0.0
-	for i := 1; i <= 29; i++ {
-		d1 := float64(i) / 29
-
-		d2 := 1.0
-		s1 := 0.0
-		for j := 1; j < 6; j++ {
-			s1 += float64(j) * d2 * x[j]
-			d2 *= d1
-		}
-
-		d2 = 1.0
-		s2 := 0.0
-		for j := 0; j < 6; j++ {
-			s2 += d2 * x[j]
-			d2 *= d1
-		}
-
-		t := s1 - s2*s2 - 1
-		sum += t * t
-	}
-	t := x[1] - x[0]*x[0] - 1
-	sum += x[0]*x[0] + t*t
-	return sum
-}
+func Watson6(x *[6]float64) float64 { return watson(x[:]) }
 
 // Watson9 is MGH problem (20), Watson, n = 9, m = 31: gonum's Watson at
 // n = 9.
 // Transcribed from gonum.org/v1/gonum/optimize/functions v0.17.0 functions.go.
-func Watson9(x *[9]float64) float64 {
+func Watson9(x *[9]float64) float64 { return watson(x[:]) }
+
+// watson is Watson at len(x) unknowns, for Watson6 and Watson9; the
+// unknowns pass to it whole, as a slice.
+func watson(x []float64) float64 {
 	sum := 0.0
 	for i := 1; i <= 29; i++ {
 		d1 := float64(i) / 29
 
 		d2 := 1.0
 		s1 := 0.0
-		for j := 1; j < 9; j++ {
+		for j := 1; j < len(x); j++ {
 			s1 += float64(j) * d2 * x[j]
 			d2 *= d1
 		}
 
 		d2 = 1.0
 		s2 := 0.0
-		for j := 0; j < 9; j++ {
+		for j := 0; j < len(x); j++ {
 			s2 += d2 * x[j]
 			d2 *= d1
 		}
@@ -248,33 +229,24 @@ func Watson9(x *[9]float64) float64 {
 // PenaltyI4 is MGH problem (23), penalty function I, n = 4, m = 5: gonum's
 // PenaltyI at n = 4.
 // Transcribed from gonum.org/v1/gonum/optimize/functions v0.17.0 functions.go.
-func PenaltyI4(x *[4]float64) float64 {
-	sum := 0.0
-	for i := 0; i < 4; i++ {
-		sum += (x[i] - 1) * (x[i] - 1)
-	}
-	sum *= 1e-5
-
-	s := 0.0
-	for i := 0; i < 4; i++ {
-		s += x[i] * x[i]
-	}
-	sum += (s - 0.25) * (s - 0.25)
-	return sum
-}
+func PenaltyI4(x *[4]float64) float64 { return penaltyI(x[:]) }
 
 // PenaltyI10 is MGH problem (23), penalty function I, n = 10, m = 11:
 // gonum's PenaltyI at n = 10.
 // Transcribed from gonum.org/v1/gonum/optimize/functions v0.17.0 functions.go.
-func PenaltyI10(x *[10]float64) float64 {
+func PenaltyI10(x *[10]float64) float64 { return penaltyI(x[:]) }
+
+// penaltyI is penalty function I at len(x) unknowns, for PenaltyI4 and
+// PenaltyI10.
+func penaltyI(x []float64) float64 {
 	sum := 0.0
-	for i := 0; i < 10; i++ {
+	for i := 0; i < len(x); i++ {
 		sum += (x[i] - 1) * (x[i] - 1)
 	}
 	sum *= 1e-5
 
 	s := 0.0
-	for i := 0; i < 10; i++ {
+	for i := 0; i < len(x); i++ {
 		s += x[i] * x[i]
 	}
 	sum += (s - 0.25) * (s - 0.25)
@@ -284,42 +256,27 @@ func PenaltyI10(x *[10]float64) float64 {
 // PenaltyII4 is MGH problem (24), penalty function II, n = 4, m = 8:
 // gonum's PenaltyII at n = 4.
 // Transcribed from gonum.org/v1/gonum/optimize/functions v0.17.0 functions.go.
-func PenaltyII4(x *[4]float64) float64 {
-	sum := 0.0
-	s := -1.0
-	for i := 0; i < 4; i++ {
-		s += float64(4-i) * x[i] * x[i]
-	}
-	for i := 1; i < 4; i++ {
-		yi := math.Exp(float64(i+1)/10) + math.Exp(float64(i)/10)
-		f := math.Exp(x[i]/10) + math.Exp(x[i-1]/10) - yi
-		sum += f * f
-	}
-	for i := 1; i < 4; i++ {
-		f := math.Exp(x[i]/10) - math.Exp(-1.0/10)
-		sum += f * f
-	}
-	sum *= 1e-5
-	sum += (x[0] - 0.2) * (x[0] - 0.2)
-	sum += s * s
-	return sum
-}
+func PenaltyII4(x *[4]float64) float64 { return penaltyII(x[:]) }
 
 // PenaltyII10 is MGH problem (24), penalty function II, n = 10, m = 20:
 // gonum's PenaltyII at n = 10.
 // Transcribed from gonum.org/v1/gonum/optimize/functions v0.17.0 functions.go.
-func PenaltyII10(x *[10]float64) float64 {
+func PenaltyII10(x *[10]float64) float64 { return penaltyII(x[:]) }
+
+// penaltyII is penalty function II at len(x) unknowns, for PenaltyII4
+// and PenaltyII10.
+func penaltyII(x []float64) float64 {
 	sum := 0.0
 	s := -1.0
-	for i := 0; i < 10; i++ {
-		s += float64(10-i) * x[i] * x[i]
+	for i := 0; i < len(x); i++ {
+		s += float64(len(x)-i) * x[i] * x[i]
 	}
-	for i := 1; i < 10; i++ {
+	for i := 1; i < len(x); i++ {
 		yi := math.Exp(float64(i+1)/10) + math.Exp(float64(i)/10)
 		f := math.Exp(x[i]/10) + math.Exp(x[i-1]/10) - yi
 		sum += f * f
 	}
-	for i := 1; i < 10; i++ {
+	for i := 1; i < len(x); i++ {
 		f := math.Exp(x[i]/10) - math.Exp(-1.0/10)
 		sum += f * f
 	}
