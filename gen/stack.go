@@ -21,7 +21,7 @@ type stackFigures struct{ run, advance, start int }
 //   - advance: 1024 + 16v, 8v more with bounds;
 //   - start: 128 + 6v, 9v more with bounds;
 //   - a residual objective of M residuals adds 2M·v + 2M·e to run,
-//     1.5M·v + M·e to advance and, with bounds, (M + N² + 4N + 12)·e to
+//     1.5M·v + M·e to advance and, with bounds, (M + 2N² + 6N + 24)·e to
 //     start, e the size of one number (fitted to 2 and 8 unknowns, 5 and
 //     60 residuals).
 //
@@ -44,12 +44,12 @@ func (p *Plan) stack() stackFigures {
 	if m := p.Shape.Residuals; m > 0 {
 		// A residual objective: the Jacobian (M·N numbers) and the
 		// residual vectors of its differences in the frames, the
-		// residual model (M + N² + 4N + 4 numbers) in the run's state.
+		// residual model (M + 2N² + 9N + 8 numbers) in the run's state.
 		e := p.ElemBytes()
 		f.run += 2*m*v + 2*m*e
 		f.advance += 3*m*v/2 + m*e
 		if p.Bounded {
-			f.start += (m + p.Dim*p.Dim + 4*p.Dim + 12) * e
+			f.start += (m + 2*p.Dim*p.Dim + 6*p.Dim + 24) * e
 		}
 	}
 	return f

@@ -103,11 +103,13 @@ var (
 	})
 	LevenbergMarquardt = Direction.register(&Entry{
 		Name:    "levenberg-marquardt",
-		Summary: "Levenberg–Marquardt for residual objectives: solve (JᵀJ + λD)·d = −Jᵀr, the damping λ adjusted like a trust region (step rule damping)",
-		Math:    "D = diag of the largest (JᵀJ)ᵢᵢ seen (Moré 1978), λ₀ = 10⁻³; see step rule damping for the update",
+		Summary: "Levenberg–Marquardt for residual objectives: solve (B + λD)·d = −Jᵀr, B = JᵀJ or JᵀJ + S with S a secant estimate of Σrᵢ∇²rᵢ for large residuals, the damping λ adjusted like a trust region (step rule damping)",
+		Math:    "D = diag of the largest (JᵀJ)ᵢᵢ seen (Moré 1978), λ₀ = 10⁻³; S₊ = τS + (wyᵀ + ywᵀ)/yᵀs − (wᵀs)yyᵀ/(yᵀs)², w = y − JᵀJs − τSs, τ = min(1, |sᵀ(y − JᵀJs)|/|sᵀSs|) (Dennis, Gay & Welsch 1981); B = JᵀJ + S when it predicted the last decrease better than JᵀJ; see step rule damping for the update of λ",
 		References: []string{
 			"D. W. Marquardt, An algorithm for least-squares estimation of nonlinear parameters, J. SIAM 11(2):431–441, 1963",
 			MoreLM,
+			"J. E. Dennis, D. M. Gay and R. E. Welsch, An adaptive nonlinear least-squares algorithm, ACM TOMS 7(3):348–368, 1981 (the structured secant model; from memory)",
+			DennisSchnabel + ", §10.3 (large-residual problems)",
 			NocedalWright + ", §10.3",
 		},
 		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "dampedStep"},
@@ -116,7 +118,7 @@ var (
 		Pairs:       []*Entry{Damping},
 		PairsWhy:    "its step length comes from the damping λ, which step rule damping adjusts; a line search along one damped step would fight it",
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
-			return dim*dim*elemBytes + dim*elemBytes + 2*elemBytes, fmt.Sprintf("a %d×%d matrix (JᵀJ) and the damping of", dim, dim)
+			return 2*dim*dim*elemBytes + 5*dim*elemBytes + 4*elemBytes, fmt.Sprintf("two %d×%d matrices (JᵀJ and S), the damping and the secant pair of", dim, dim)
 		},
 		SmallerState: `use direction "lbfgs" on the residual objective`,
 	})

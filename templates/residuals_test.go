@@ -311,3 +311,86 @@ func FuzzResiduals(f *testing.F) {
 		}
 	})
 }
+
+// After a step, the augmented model JᵀJ + S meets the secant equation
+// (JᵀJ + S₊)s = y, and S stays symmetric (Dennis, Gay & Welsch 1981).
+func TestStructuredModelMeetsTheSecantEquation(t *testing.T) {
+	leastSquares{source: sourceAnalytic, kind: kindLevenbergMarquardt, rule: ruleDamping}.use(t)
+	var diffs differences
+	m := &diffs.model
+	m.normal = [dim]vec{{4, 1}, {1, 3}}
+	x0, g0 := vec{1, 2}, vec{0.5, -1}
+	structuredModel(&x0, 10, &g0, &diffs)
+	m.normal = [dim]vec{{5, 1.5}, {1.5, 2}} // JᵀJ at the new point
+	m.stepNormal = 1
+	x1, g1 := vec{1.5, 2.25}, vec{4, 1}
+	structuredModel(&x1, 9, &g1, &diffs)
+	s, y := vec{0.5, 0.25}, vec{3.5, 2}
+	for i := range s {
+		bs := dot(&m.normal[i], &s) + dot(&m.second[i], &s)
+		if math.Abs(bs-y[i]) > 1e-12 {
+			t.Errorf("(JᵀJ + S)s = %g in row %d, want y = %g", bs, i, y[i])
+		}
+	}
+	if m.second[0][1] != m.second[1][0] {
+		t.Errorf("S is not symmetric: %v", m.second)
+	}
+}
+
+// On a linear fit the residuals have no curvature: y = JᵀJ·s, so S stays
+// at the rounding level.
+func TestStructuredModelStaysZeroOnALinearFit(t *testing.T) {
+	leastSquares{source: sourceAnalytic, kind: kindLevenbergMarquardt, rule: ruleDamping}.use(t)
+	recv := straightLine()
+	var r descent
+	r.prepare(vec{10, -10}, defaultLimits(), box{lower: vec{math.Inf(-1), math.Inf(-1)}, upper: vec{math.Inf(1), math.Inf(1)}})
+	r.forget()
+	out := r.advance(recv, unlimited)
+	if out.status != statusGradientSmall || out.iterations < 2 {
+		t.Fatalf("status %d after %d iterations; want converged after a few", out.status, out.iterations)
+	}
+	// Only rounding is left in y − JᵀJ·s: S is at its level.
+	m := &r.diffs.model
+	var largest, normal float64
+	for i := range m.second {
+		for j := range m.second[i] {
+			largest = math.Max(largest, math.Abs(m.second[i][j]))
+			normal = math.Max(normal, math.Abs(m.normal[i][j]))
+		}
+	}
+	if largest > 1e-10*normal {
+		t.Errorf("S = %v against JᵀJ = %v; want S at the rounding level", m.second, m.normal)
+	}
+}
+
+// The next step solves with the model that predicted the last step's
+// decrease better: JᵀJ + S when f fell by what the augmented model
+// said, JᵀJ when f fell by what JᵀJ alone said.
+func TestStructuredModelChoosesTheBetterPrediction(t *testing.T) {
+	leastSquares{source: sourceAnalytic, kind: kindLevenbergMarquardt, rule: ruleDamping}.use(t)
+	for _, c := range []struct {
+		name      string
+		fall      float64
+		augmented bool
+	}{
+		// From g₋₁ = (−2, 0) along s = (1, 0): −gᵀs = 2, sᵀJᵀJs = 1, sᵀSs = −2,
+		// so JᵀJ predicts 1.5 and JᵀJ + S predicts 2.5.
+		{"as JᵀJ + S predicted", 2.5, true},
+		{"as JᵀJ predicted", 1.5, false},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			var diffs differences
+			m := &diffs.model
+			m.normal = [dim]vec{{1, 0}, {0, 1}}
+			x0, g0 := vec{0, 0}, vec{-2, 0}
+			structuredModel(&x0, 10, &g0, &diffs)
+			m.second = [dim]vec{{-2, 0}, {0, 0}}
+			m.stepNormal = 1
+			x1, g1 := vec{1, 0}, vec{-1, 0}
+			structuredModel(&x1, 10-c.fall, &g1, &diffs)
+			if m.augmented != c.augmented {
+				t.Errorf("augmented %v, want %v", m.augmented, c.augmented)
+			}
+		})
+	}
+}

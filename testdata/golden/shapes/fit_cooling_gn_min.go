@@ -593,6 +593,20 @@ type fitCoolingGNResidualModel struct {
 	wide    bool          // whether difference Jacobians take twice their intervals (fitCoolingGNSettle)
 	noise   float64       // the rounding noise of f at the current point (fitCoolingGNDerivative)
 	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingGNCalibrate)
+	// levenberg-marquardt's structured model (structuredModel): the
+	// point of the latest gradient with its value and gradient; the secant
+	// estimate S of Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out, and
+	// whether the step solves with JᵀJ + S (augmented) or JᵀJ; the point S
+	// was last brought up to date at, with its value and gradient; and
+	// sᵀJᵀJs of the step accepted from there (dampedSearch).
+	point, pointGradient [3]float64
+	pointValue           float64
+	second               [3][3]float64
+	augmented            bool
+	last, lastGradient   [3]float64
+	lastValue            float64
+	hasLast              bool
+	stepNormal           float64
 }
 
 // residualsAt makes the kept residuals those at x, taking them again
@@ -742,6 +756,7 @@ func fitCoolingGNDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fit
 	}
 	m.noise = 4*fitCoolingGNUnitRoundoff*m.noise + fitCoolingGNNoiseLevel(x, fx, g)
 	fitCoolingGNJacobianError(x, &jac, &m.r, &m.err, diffs)
+	m.point, m.pointValue, m.pointGradient = *x, fx, *g // for levenberg-marquardt's model (structuredModel)
 	return calls
 }
 

@@ -97,7 +97,7 @@ type fitCoolingBox struct{}
 
 // FitCooling minimizes Cooling from x0, as shapes.toml specifies.
 //
-// Direction levenberg-marquardt: Levenberg–Marquardt for residual objectives: solve (JᵀJ + λD)·d = −Jᵀr, the damping λ adjusted like a trust region (step rule damping).
+// Direction levenberg-marquardt: Levenberg–Marquardt for residual objectives: solve (B + λD)·d = −Jᵀr, B = JᵀJ or JᵀJ + S with S a secant estimate of Σrᵢ∇²rᵢ for large residuals, the damping λ adjusted like a trust region (step rule damping).
 // Step rule damping: Levenberg–Marquardt damping: try x + d(λ), raise λ until the decrease is at least c1 of the Gauss–Newton model's, lower it after a good step.
 // Residual objective: 5 residuals, f = ½‖r‖², each objective call one call of Cooling. Derivative analytic: the user's own Jacobian of the residuals (spec key `jacobian`), g = Jᵀr; costs no residual calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
@@ -133,7 +133,7 @@ const FitCoolingTickMinimum = 48
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x) and the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): FitCooling and FitCoolingWithLimits use at most 2928 bytes, the run's state included; Advance at most 1628 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): FitCooling and FitCoolingWithLimits use at most 3112 bytes, the run's state included; Advance at most 1628 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
 //
 // While Status is FitCoolingRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type FitCoolingSolver struct {
@@ -591,6 +591,20 @@ type fitCoolingResidualModel struct {
 	wide    bool          // whether difference Jacobians take twice their intervals (fitCoolingSettle)
 	noise   float64       // the rounding noise of f at the current point (fitCoolingDerivative)
 	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingCalibrate)
+	// levenberg-marquardt's structured model (fitCoolingStructuredModel): the
+	// point of the latest gradient with its value and gradient; the secant
+	// estimate S of Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out, and
+	// whether the step solves with JᵀJ + S (augmented) or JᵀJ; the point S
+	// was last brought up to date at, with its value and gradient; and
+	// sᵀJᵀJs of the step accepted from there (fitCoolingLineSearch).
+	point, pointGradient [3]float64
+	pointValue           float64
+	second               [3][3]float64
+	augmented            bool
+	last, lastGradient   [3]float64
+	lastValue            float64
+	hasLast              bool
+	stepNormal           float64
 }
 
 // residualsAt makes the kept residuals those at x, taking them again
@@ -740,6 +754,7 @@ func fitCoolingDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCo
 	}
 	m.noise = 4*fitCoolingUnitRoundoff*m.noise + fitCoolingNoiseLevel(x, fx, g)
 	fitCoolingJacobianError(x, &jac, &m.r, &m.err, diffs)
+	m.point, m.pointValue, m.pointGradient = *x, fx, *g // for levenberg-marquardt's model (fitCoolingStructuredModel)
 	return calls
 }
 
@@ -931,6 +946,7 @@ func fitCoolingSearchDirection(dir *fitCoolingDirection, x, g, d *[3]float64, di
 //     Denmark, 2004 (from memory).
 func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs *fitCoolingDifferences) {
 	m := &diffs.model
+	fitCoolingStructuredModel(&m.point, m.pointValue, &m.pointGradient, diffs)
 	if m.damping == 0 {
 		m.damping, m.growth = 1e-3, 2 // Nielsen's τ = 10⁻³, ν = 2
 	}
@@ -945,7 +961,114 @@ func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs 
 			weight[i] = 1
 		}
 	}
-	fitCoolingShiftedSolve(&m.normal, &weight, m.damping, g, d)
+	model := m.normal
+	if m.augmented {
+		for i := range model {
+			for j := range model[i] {
+				model[i][j] += m.second[i][j]
+			}
+		}
+	}
+	fitCoolingShiftedSolve(&model, &weight, m.damping, g, d)
+}
+
+// fitCoolingStructuredModel brings levenberg-marquardt's Hessian model up to date
+// with the latest gradient, taken at x with value fx and gradient g. The
+// Hessian of f = ½‖r‖² is JᵀJ + Σrᵢ∇²rᵢ; Gauss–Newton keeps JᵀJ only,
+// which is poor where the residuals stay large (Brown–Dennis) and makes
+// the damped step converge linearly there. A structured secant method
+// keeps an estimate S of the second term instead, from the step
+// s = x − x₋₁ and the gradient change y = g − g₋₁, so that the augmented
+// model JᵀJ + S satisfies the secant equation (JᵀJ + S₊)s = y:
+//
+//	y♯ = y − JᵀJ·s,  w = y♯ − S·s,
+//	S₊ = S + (w yᵀ + y wᵀ)/(yᵀs) − (wᵀs)·y yᵀ/(yᵀs)²,
+//
+// the symmetric rank-two update of Dennis, Gay and Welsch, with S first
+// scaled down by τ = min(1, |sᵀy♯|/|sᵀSs|) so that S shrinks with the
+// residuals. (They take y♯ = (J − J₋₁)ᵀr, which needs the previous
+// Jacobian kept; the two agree to first order.) A pair with yᵀs not safely
+// positive leaves S as it was (curvatureSafe). The next step solves with
+// the augmented model when it predicted the last step's decrease of f
+// better than JᵀJ did, as NL2SOL switches between its two models, so that
+// zero-residual fits keep Gauss–Newton's fast convergence and
+// large-residual ones gain a secant method's. At the same point nothing
+// changes; at the start S = 0 and the model is JᵀJ.
+//
+// References:
+//   - J. E. Dennis, D. M. Gay and R. E. Welsch, An adaptive nonlinear
+//     least-squares algorithm, ACM TOMS 7(3):348–368, 1981 (the update,
+//     the sizing and the choice of model; from memory).
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §10.3.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §10.3 (methods for large-residual problems).
+func fitCoolingStructuredModel(x *[3]float64, fx float64, g *[3]float64, diffs *fitCoolingDifferences) {
+	m := &diffs.model
+	if m.hasLast && m.last == *x {
+		return
+	}
+	if m.hasLast {
+		var step, change, ss, sharp [3]float64
+		fitCoolingDifference(&step, x, &m.last)
+		fitCoolingDifference(&change, g, &m.lastGradient)
+		fitCoolingCurvaturePair(&step, &change, x, &diffs.bounds)
+		for i := range m.second {
+			ss[i] = fitCoolingDot(&m.second[i], &step)
+			sharp[i] = change[i] - fitCoolingDot(&m.normal[i], &step) // y♯ = y − JᵀJ·s
+		}
+		sss := fitCoolingDot(&step, &ss)
+		// Which model predicted f's fall along s better: JᵀJ, or JᵀJ + S?
+		actual := m.lastValue - fx
+		normalModel := -fitCoolingDot(&m.lastGradient, &step) - m.stepNormal/2
+		m.augmented = fitCoolingAbs(normalModel-sss/2-actual) < fitCoolingAbs(normalModel-actual)
+		if sss != 0 {
+			tau := fitCoolingAbs(fitCoolingDot(&step, &sharp) / sss) // DGW's sizing
+			if tau < 1 {
+				for i := range m.second {
+					for j := range m.second[i] {
+						m.second[i][j] *= tau
+					}
+					ss[i] *= tau
+				}
+			}
+		}
+		if sy := fitCoolingDot(&step, &change); fitCoolingCurvatureSafeWith(sy, &step, &change) {
+			var w [3]float64
+			fitCoolingDifference(&w, &sharp, &ss)
+			ws := fitCoolingDot(&w, &step) / (sy * sy)
+			for i := range m.second {
+				a, b := w[i]/sy, change[i]/sy
+				for j := 0; j <= i; j++ {
+					m.second[i][j] += a*change[j] + b*w[j] - ws*change[i]*change[j] // DGW's update
+					m.second[j][i] = m.second[i][j]                                 // symmetric by construction, whatever the compiler fuses
+				}
+			}
+		}
+	}
+	m.last, m.lastGradient, m.lastValue, m.hasLast = *x, *g, fx, true
+}
+
+// fitCoolingDifference sets out = a − b.
+func fitCoolingDifference(out, a, b *[3]float64) {
+	for i := range a {
+		out[i] = a[i] - b[i]
+	}
+}
+
+// fitCoolingDot returns aᵀb.
+func fitCoolingDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// fitCoolingCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func fitCoolingCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
+	return sy > 0 && (sy/fitCoolingDot(s, s))*(sy/fitCoolingDot(y, y)) > fitCoolingUnitRoundoff
 }
 
 // fitCoolingShiftedSolve sets d to the solution of (a + λ·diag(w))·d = −g by
@@ -1029,15 +1152,6 @@ func fitCoolingNegate(out, x *[3]float64) {
 	}
 }
 
-// fitCoolingDot returns aᵀb.
-func fitCoolingDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
 // fitCoolingTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·fitCoolingStepScale(x_i)/|d_i|, or −1 when d is zero.
 func fitCoolingTinyStep(x, d *[3]float64, tol float64, diffs *fitCoolingDifferences) float64 {
@@ -1092,7 +1206,7 @@ func fitCoolingLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, fi
 		}
 		fitCoolingTrialPoint(xt, x, 1, d, &diffs.bounds)
 		ft := fitCoolingValue(xt, gt, diffs)
-		predicted := fitCoolingModelDecrease(x, xt, g, &m.normal)
+		predicted, normalTerm := fitCoolingModelDecrease(x, xt, g, m)
 		if fitCoolingFinite(ft) && predicted > 0 && (fx-ft >= fitCoolingStepDecrease*predicted || predicted <= noise && ft <= fx+noise) { // Moré 1978: ρ ≥ c1
 			rho := float64(1) // a step below f's resolution: the model is all there is to judge it by
 			if predicted > noise {
@@ -1101,6 +1215,7 @@ func fitCoolingLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, fi
 			cube := 2*rho - 1
 			m.damping *= fitCoolingLarger(1.0/3, 1-cube*cube*cube) // Nielsen: λ ← λ·max(1/3, 1 − (2ρ − 1)³)
 			m.growth = 2
+			m.stepNormal = normalTerm
 			return fitCoolingLineResult{step: 1, value: ft, calls: trial + 1, end: fitCoolingSearchAccepted}
 		}
 		m.damping *= m.growth // Nielsen: λ ← λ·ν, ν ← 2ν
@@ -1153,24 +1268,23 @@ func fitCoolingMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	}
 }
 
-// fitCoolingModelDecrease is the decrease −gᵀs − ½sᵀAs that the Gauss–Newton model
-// f(x) + gᵀs + ½sᵀJᵀJs predicts for the step s = xt − x (Nocedal &
-// Wright 2006, eq. 10.19 with the model of eq. 10.4).
-func fitCoolingModelDecrease(x, xt, g *[3]float64, a *[3][3]float64) float64 {
+// fitCoolingModelDecrease is the decrease −gᵀs − ½sᵀBs that the model
+// f(x) + gᵀs + ½sᵀBs predicts for the step s = xt − x, B the Gauss–Newton
+// matrix JᵀJ or the augmented JᵀJ + S (Nocedal & Wright 2006, eq. 10.19
+// with the model of eq. 10.4; fitCoolingStructuredModel); it also returns sᵀJᵀJs,
+// which fitCoolingStructuredModel judges the models by.
+func fitCoolingModelDecrease(x, xt, g *[3]float64, m *fitCoolingResidualModel) (predicted, normalTerm float64) {
 	var s [3]float64
 	fitCoolingDifference(&s, xt, x)
-	var as [3]float64
-	for i := range a {
-		as[i] = fitCoolingDot(&a[i], &s)
+	var quadratic float64
+	for i := range s {
+		normalTerm += s[i] * fitCoolingDot(&m.normal[i], &s)
+		if m.augmented {
+			quadratic += s[i] * fitCoolingDot(&m.second[i], &s)
+		}
 	}
-	return -fitCoolingDot(g, &s) - fitCoolingDot(&s, &as)/2
-}
-
-// fitCoolingDifference sets out = a − b.
-func fitCoolingDifference(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
-	}
+	quadratic += normalTerm
+	return -fitCoolingDot(g, &s) - quadratic/2, normalTerm
 }
 
 // fitCoolingUnlimited is a tick budget that never pauses a run.
