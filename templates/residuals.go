@@ -172,6 +172,9 @@ func structuredModel(x *vec, fx elem, g *vec, diffs *differences) {
 		actual := m.lastValue - fx
 		normalModel := -dot(&m.lastGradient, &step) - m.stepNormal/2
 		m.augmented = abs(normalModel-sss/2-actual) < abs(normalModel-actual)
+		if abs(actual) <= m.noise && abs(normalModel) <= m.noise {
+			m.augmented = false // f's change is rounding noise and tells the models apart no more: Gauss–Newton's
+		}
 		if sss != 0 {
 			tau := abs(dot(&step, &sharp) / sss) // DGW's sizing
 			if tau < 1 {
