@@ -1022,6 +1022,9 @@ func fitCoolingStructuredModel(x *[3]float64, fx float64, g *[3]float64, diffs *
 		actual := m.lastValue - fx
 		normalModel := -fitCoolingDot(&m.lastGradient, &step) - m.stepNormal/2
 		m.augmented = fitCoolingAbs(normalModel-sss/2-actual) < fitCoolingAbs(normalModel-actual)
+		if fitCoolingAbs(actual) <= m.noise && fitCoolingAbs(normalModel) <= m.noise {
+			m.augmented = false // f's change is rounding noise and tells the models apart no more: Gauss–Newton's
+		}
 		if sss != 0 {
 			tau := fitCoolingAbs(fitCoolingDot(&step, &sharp) / sss) // DGW's sizing
 			if tau < 1 {
