@@ -5,7 +5,7 @@ package templates
 // loop with a hand-picked step. On a quadratic with Hessian A, steepest
 // descent with step t maps the error e to (I − tA)e, so it converges only
 // when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
-func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
 	if budget < 1 {
 		return lineResult{end: searchOutOfBudget}
 	}
@@ -21,13 +21,13 @@ func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny el
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
-	slope, tiny = shortenAlong(g, d, slope, tiny)
+func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
+	slope = shortenAlong(g, d, slope, floor)
 	t := first
 	var previous, fPrevious elem
 	var trend riseTrend
 	for trial := 0; trial < stepTrials; trial++ {
-		if trial > 0 && t <= tiny {
+		if trial > 0 && t <= floor.at(x, d, diffs) {
 			return lineResult{calls: trial, rising: trend.contradicts(), end: tinyOrExhausted(finite(fPrevious))}
 		}
 		if trial >= budget {

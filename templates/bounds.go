@@ -74,17 +74,17 @@ func projectedTrial(out, x *vec, t elem, d *vec, b *box) {
 }
 
 // stepCap is the longest step a Wolfe search may take along d from x,
-// where steps t ≤ tiny are below the step limit. It stands in for the
+// where steps t ≤ floor are below the step limit. It stands in for the
 // choice gen makes from the spec's bounds.
-func stepCap(x, d *vec, tiny elem, b *box) elem {
+func stepCap(x, d *vec, floor *stepFloor, diffs *differences) elem {
 	if boxed {
-		return firstBound(x, d, tiny, b)
+		return firstBound(x, d, floor.at(x, d, diffs), &diffs.bounds)
 	}
-	return noCap(x, d, tiny, b)
+	return noCap(x, d, floor, diffs)
 }
 
 // noCap: without bounds a step may be as long as the search wants.
-func noCap(x, d *vec, tiny elem, b *box) elem {
+func noCap(x, d *vec, floor *stepFloor, diffs *differences) elem {
 	return elem(math.Inf(1))
 }
 

@@ -108,3 +108,8 @@ func calibrated(recv *receiver, x *vec) *differences {
 	recv.calls = calls
 	return &diffs
 }
+
+// knownFloor is a line search's step limit fixed at t, as a test sets it.
+func knownFloor(t elem) *stepFloor {
+	return &stepFloor{value: t, known: true}
+}

@@ -85,7 +85,7 @@ func faithfulStep(x, xt, d *vec, t elem) bool {
 
 // lineSearch looks along d from x, where f(x) = fx, ∇f(x) = g and the
 // slope ∇f(x)ᵀd < 0, starting with the trial step first and spending at most
-// budget objective calls. Steps t ≤ tiny are below the step limit: after
+// budget objective calls. Steps t ≤ floor are below the step limit: after
 // at least one failed trial, a search that would have to try such a step
 // ends with searchTiny instead, since every step longer than the step
 // limit failed to decrease f. The kernel calls that convergence unless
@@ -94,15 +94,15 @@ func faithfulStep(x, xt, d *vec, t elem) bool {
 // x + t·d, projected onto the box when the spec has bounds (see
 // trialPoint), and gt its gradient when the result says so. It stands in for
 // the rule the spec chose; gen keeps only that one under this name.
-func lineSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func lineSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
 	switch stepRule {
 	case ruleFixed:
-		return fixedStep(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
+		return fixedStep(recv, x, fx, g, d, slope, first, floor, budget, xt, gt, diffs)
 	case ruleDecrease, ruleArmijo:
-		return backtrackSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
+		return backtrackSearch(recv, x, fx, g, d, slope, first, floor, budget, xt, gt, diffs)
 	case ruleDamping:
-		return dampedSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
+		return dampedSearch(recv, x, fx, g, d, slope, first, floor, budget, xt, gt, diffs)
 	default:
-		return wolfeSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
+		return wolfeSearch(recv, x, fx, g, d, slope, first, floor, budget, xt, gt, diffs)
 	}
 }

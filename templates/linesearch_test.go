@@ -195,7 +195,7 @@ func TestArmijoSearch(t *testing.T) {
 						t.Fatalf("test data: slope %g is not negative", slope)
 					}
 					var xt, gt vec
-					res := backtrackSearch(recv, &x, fx, nil, &d, slope, first, 0, 1000, &xt, &gt, calibrated(recv, &x))
+					res := backtrackSearch(recv, &x, fx, nil, &d, slope, first, knownFloor(0), 1000, &xt, &gt, calibrated(recv, &x))
 					if res.end != searchAccepted {
 						t.Fatalf("end %d after %d calls", res.end, res.calls)
 					}
@@ -272,7 +272,7 @@ func TestArmijoSearchLimits(t *testing.T) {
 		}
 		x, d := vec{0, 0}, vec{1, 0}
 		var xt, gt vec
-		res := backtrackSearch(wall, &x, 0, nil, &d, -1, 1, 0, 1000, &xt, &gt, calibrated(wall, &x))
+		res := backtrackSearch(wall, &x, 0, nil, &d, -1, 1, knownFloor(0), 1000, &xt, &gt, calibrated(wall, &x))
 		if res.end != searchExhausted || res.calls != stepTrials || wall.calls != stepTrials {
 			t.Errorf("all +Inf: end %d after %d calls (objective saw %d), want exhausted after %d", res.end, res.calls, wall.calls, stepTrials)
 		}
@@ -284,13 +284,13 @@ func TestArmijoSearchLimits(t *testing.T) {
 			var g vec
 			prob.make().gradient(&x, &g)
 			slope := dot(&g, &d)
-			full := backtrackSearch(prob.make(), &x, fx, nil, &d, slope, 1e6, 0, 1000, &xt, &gt, calibrated(prob.make(), &x))
+			full := backtrackSearch(prob.make(), &x, fx, nil, &d, slope, 1e6, knownFloor(0), 1000, &xt, &gt, calibrated(prob.make(), &x))
 			if full.end != searchAccepted {
 				t.Fatalf("%s: end %d", prob.name, full.end)
 			}
 			for budget := 0; budget <= full.calls; budget++ {
 				recv := prob.make()
-				res := backtrackSearch(recv, &x, fx, nil, &d, slope, 1e6, 0, budget, &xt, &gt, calibrated(recv, &x))
+				res := backtrackSearch(recv, &x, fx, nil, &d, slope, 1e6, knownFloor(0), budget, &xt, &gt, calibrated(recv, &x))
 				if recv.calls > budget || res.calls != recv.calls {
 					t.Errorf("%s, budget %d: %d calls, %d reported", prob.name, budget, recv.calls, res.calls)
 				}
@@ -440,7 +440,7 @@ func checkWolfeSearch(t *testing.T, fn lineFunction, first float64, rule int) li
 		t.Fatalf("test data: φ'(0) = %g is not negative", slope)
 	}
 	var xt, gt vec
-	res := wolfeSearch(recv, &x, fx, nil, &d, slope, first, 0, 1000, &xt, &gt, calibrated(recv, &x))
+	res := wolfeSearch(recv, &x, fx, nil, &d, slope, first, knownFloor(0), 1000, &xt, &gt, calibrated(recv, &x))
 	if res.end != searchAccepted {
 		t.Fatalf("end %d after %d calls", res.end, res.calls)
 	}
@@ -495,7 +495,7 @@ func TestWolfeCallsWithDifferences(t *testing.T) {
 					recv := fn.alongFirstAxis()
 					x, d := vec{0, 0}, vec{1, 0}
 					var xt, gt vec
-					res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e-1, 0, 1000, &xt, &gt, calibrated(recv, &x))
+					res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e-1, knownFloor(0), 1000, &xt, &gt, calibrated(recv, &x))
 					if res.end != searchAccepted {
 						t.Fatalf("end %d after %d calls", res.end, res.calls)
 					}
@@ -528,13 +528,13 @@ func TestWolfeBudget(t *testing.T) {
 			policy{source, kindBFGS, rule, backtrackShrink}.use(t)
 			x, d := vec{0, 0}, vec{1, 0}
 			var xt, gt vec
-			full := wolfeSearch(fn.alongFirstAxis(), &x, fn.phi(0), nil, &d, fn.slope(0), 1e-3, 0, 1000, &xt, &gt, calibrated(fn.alongFirstAxis(), &x))
+			full := wolfeSearch(fn.alongFirstAxis(), &x, fn.phi(0), nil, &d, fn.slope(0), 1e-3, knownFloor(0), 1000, &xt, &gt, calibrated(fn.alongFirstAxis(), &x))
 			if full.end != searchAccepted {
 				t.Fatalf("%s/%s: end %d", sourceNames[source], ruleNames[rule], full.end)
 			}
 			for budget := 0; budget < full.calls; budget++ {
 				recv := fn.alongFirstAxis()
-				res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e-3, 0, budget, &xt, &gt, calibrated(recv, &x))
+				res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e-3, knownFloor(0), budget, &xt, &gt, calibrated(recv, &x))
 				if recv.calls > budget || res.calls != recv.calls {
 					t.Errorf("%s/%s budget %d of %d: %d calls, %d reported", sourceNames[source], ruleNames[rule], budget, full.calls, recv.calls, res.calls)
 				}
@@ -552,7 +552,7 @@ func TestWolfeBudget(t *testing.T) {
 				}
 			}
 			recv := fn.alongFirstAxis()
-			res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e-3, 0, full.calls, &xt, &gt, calibrated(recv, &x))
+			res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e-3, knownFloor(0), full.calls, &xt, &gt, calibrated(recv, &x))
 			if res != full {
 				t.Errorf("%s/%s: exact budget gave %+v, want %+v", sourceNames[source], ruleNames[rule], res, full)
 			}
@@ -609,7 +609,7 @@ func TestWolfeNonFiniteTrials(t *testing.T) {
 				recv := fn.alongFirstAxis()
 				x, d := vec{0, 0}, vec{1, 0}
 				var xt, gt vec
-				res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e300, 0, 1000, &xt, &gt, calibrated(recv, &x))
+				res := wolfeSearch(recv, &x, fn.phi(0), nil, &d, fn.slope(0), 1e300, knownFloor(0), 1000, &xt, &gt, calibrated(recv, &x))
 				if res.calls != recv.calls || res.calls > stepTrials {
 					t.Errorf("reported %d calls, objective saw %d (limit %d)", res.calls, recv.calls, stepTrials)
 				}
@@ -649,7 +649,7 @@ func TestWolfeNonFiniteTrials(t *testing.T) {
 				recv := fn.alongFirstAxis()
 				x, d := vec{0, 0}, vec{1, 0}
 				var xt, gt vec
-				res := wolfeSearch(recv, &x, 0, nil, &d, -1, first, 0, 1000, &xt, &gt, calibrated(recv, &x))
+				res := wolfeSearch(recv, &x, 0, nil, &d, -1, first, knownFloor(0), 1000, &xt, &gt, calibrated(recv, &x))
 				want := searchExhausted
 				if fn.name == "−α then +Inf" {
 					want = searchAccepted

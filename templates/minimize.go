@@ -260,7 +260,10 @@ func (r *descent) judge(recv *receiver) {
 func (r *descent) search(recv *receiver) {
 	searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := dot(&r.g, &r.d)
-	if !(now < 0) || !finiteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see shortenAlong).
+	if !(now < 0) || !finite(now) && !finiteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		searchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = dot(&r.g, &r.d)
@@ -269,9 +272,9 @@ func (r *descent) search(recv *receiver) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := tinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := stepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt vec
-	found := lineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := lineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !finite(now) {
 		now = dot(&r.g, &r.d) // the search shortened d (see shortenAlong)

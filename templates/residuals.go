@@ -672,7 +672,7 @@ func choleskySolve(l *[dim]vec, g, d *vec) {
 // step's (the step test holds there), and exhausted when the trials run
 // out. With bounds each trial is projected onto the box, s the projected
 // step.
-func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
 	m := &diffs.model
 	firstStep := *d
 	noise := m.noise
@@ -680,7 +680,7 @@ func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny
 	for trial := 0; trial < stepTrials; trial++ {
 		if trial > 0 {
 			searchDirection(&dir, x, g, d, diffs) // the step for the raised λ
-			if within(d, &firstStep, tiny) {
+			if within(d, &firstStep, floor.at(x, &firstStep, diffs)) {
 				return lineResult{calls: trial, end: searchTiny}
 			}
 		}

@@ -202,7 +202,7 @@ func TestDampingFollowsTheRatio(t *testing.T) {
 	var dir direction
 	searchDirection(&dir, &x, &g, &d, &diffs)
 	before := diffs.model.damping
-	found := dampedSearch(recv, &x, fx, &g, &d, dot(&g, &d), 1, 1e-14, 100, &xt, &gt, &diffs)
+	found := dampedSearch(recv, &x, fx, &g, &d, dot(&g, &d), 1, knownFloor(1e-14), 100, &xt, &gt, &diffs)
 	if found.end != searchAccepted || !(diffs.model.damping < before) {
 		t.Fatalf("a linear model's step: end %d, λ %g → %g; want accepted and λ lowered", found.end, before, diffs.model.damping)
 	}
@@ -210,7 +210,7 @@ func TestDampingFollowsTheRatio(t *testing.T) {
 	diffs.model.normal = [dim]vec{{1e-6, 0}, {0, 1e-6}}
 	diffs.model.damping = 1e-3
 	searchDirection(&dir, &x, &g, &d, &diffs)
-	found = dampedSearch(recv, &x, fx, &g, &d, dot(&g, &d), 1, 1e-14, 1, &xt, &gt, &diffs)
+	found = dampedSearch(recv, &x, fx, &g, &d, dot(&g, &d), 1, knownFloor(1e-14), 1, &xt, &gt, &diffs)
 	if found.end != searchOutOfBudget || !(diffs.model.damping > 1e-3) {
 		t.Fatalf("end %d, λ %g; want the budget's end after a rejected trial and λ raised", found.end, diffs.model.damping)
 	}

@@ -101,6 +101,26 @@ func stepWithin(s, x *vec, tol elem, diffs *differences) bool {
 	return true
 }
 
+// stepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (tinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type stepFloor struct {
+	tol   elem // the step test's tolerance, lim.Step
+	value elem // tinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *stepFloor) at(x, d *vec, diffs *differences) elem {
+	if !f.known {
+		f.value, f.known = tinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // tinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·stepScale(x_i)/|d_i|, or −1 when d is zero.
 func tinyStep(x, d *vec, tol elem, diffs *differences) elem {
@@ -118,16 +138,19 @@ func tinyStep(x, d *vec, tol elem, diffs *differences) elem {
 // shortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (shrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (shrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func shortenAlong(g, d *vec, slope, tiny elem) (elem, elem) {
+func shortenAlong(g, d *vec, slope elem, floor *stepFloor) elem {
 	if finite(slope) || !finiteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := maxAbs(d)
 	shrinkDirection(d, g)
-	return dot(g, d), tiny * (before / maxAbs(d))
+	if floor.known {
+		floor.value *= before / maxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return dot(g, d)
 }
 
 // shrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a

@@ -32,21 +32,21 @@ type linePoint struct {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
-	slope, tiny = shortenAlong(g, d, slope, tiny)
+func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
+	slope = shortenAlong(g, d, slope, floor)
 	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
 	var trend riseTrend                         // of the trials failing sufficient decrease
-	limit := stepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	limit := stepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < stepTrials; trial++ {
-		if bracketed && abs(high.step-low.step) <= tiny {
+		if bracketed && abs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.

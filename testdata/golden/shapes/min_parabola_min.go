@@ -457,7 +457,10 @@ func (r *minParabolaDescent) judge() {
 func (r *minParabolaDescent) search() {
 	minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minParabolaDot(&r.g, &r.d)
-	if !(now < 0) || !minParabolaFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see minParabolaShortenAlong).
+	if !(now < 0) || !minParabolaFinite(now) && !minParabolaFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		minParabolaSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minParabolaDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *minParabolaDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minParabolaTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := minParabolaStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := minParabolaLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := minParabolaLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !minParabolaFinite(now) {
 		now = minParabolaDot(&r.g, &r.d) // the search shortened d (see minParabolaShortenAlong)
@@ -1093,6 +1096,26 @@ func minParabolaSolveDirection(dir *minParabolaDirection, g, d *[1]float64, diff
 	dir.compute(g, d)
 }
 
+// minParabolaStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (minParabolaTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type minParabolaStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // minParabolaTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *minParabolaStepFloor) at(x, d *[1]float64, diffs *minParabolaDifferences) float64 {
+	if !f.known {
+		f.value, f.known = minParabolaTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // minParabolaTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minParabolaStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minParabolaTinyStep(x, d *[1]float64, tol float64, diffs *minParabolaDifferences) float64 {
@@ -1132,21 +1155,21 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64, diffs *minParabolaDiffer
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
-	slope, tiny = minParabolaShortenAlong(g, d, slope, tiny)
+func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *minParabolaStepFloor, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
+	slope = minParabolaShortenAlong(g, d, slope, floor)
 	low := minParabolaLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minParabolaLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend minParabolaRiseTrend                         // of the trials failing sufficient decrease
-	limit := minParabolaStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend minParabolaRiseTrend                  // of the trials failing sufficient decrease
+	limit := minParabolaStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < minParabolaStepTrials; trial++ {
-		if bracketed && minParabolaAbs(high.step-low.step) <= tiny {
+		if bracketed && minParabolaAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1216,16 +1239,19 @@ type minParabolaSearchEnd uint8
 // minParabolaShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minParabolaShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (minParabolaShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func minParabolaShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func minParabolaShortenAlong(g, d *[1]float64, slope float64, floor *minParabolaStepFloor) float64 {
 	if minParabolaFinite(slope) || !minParabolaFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := minParabolaMaxAbs(d)
 	minParabolaShrinkDirection(d, g)
-	return minParabolaDot(g, d), tiny * (before / minParabolaMaxAbs(d))
+	if floor.known {
+		floor.value *= before / minParabolaMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return minParabolaDot(g, d)
 }
 
 // minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1330,7 +1356,7 @@ func minParabolaFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 }
 
 // minParabolaStepCap: without bounds a step may be as long as the search wants.
-func minParabolaStepCap(x, d *[1]float64, tiny float64, b *minParabolaBox) float64 {
+func minParabolaStepCap(x, d *[1]float64, floor *minParabolaStepFloor, diffs *minParabolaDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -456,7 +456,10 @@ func (r *minPlateDecreaseDescent) judge() {
 func (r *minPlateDecreaseDescent) search() {
 	minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := minPlateDecreaseDot(&r.g, &r.d)
-	if !(now < 0) || !minPlateDecreaseFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see minPlateDecreaseShortenAlong).
+	if !(now < 0) || !minPlateDecreaseFinite(now) && !minPlateDecreaseFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		minPlateDecreaseSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = minPlateDecreaseDot(&r.g, &r.d)
@@ -465,9 +468,9 @@ func (r *minPlateDecreaseDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := minPlateDecreaseTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := minPlateDecreaseStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float32
-	found := minPlateDecreaseLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := minPlateDecreaseLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !minPlateDecreaseFinite(now) {
 		now = minPlateDecreaseDot(&r.g, &r.d) // the search shortened d (see minPlateDecreaseShortenAlong)
@@ -1063,6 +1066,26 @@ func minPlateDecreaseDot(a, b *[2]float32) float32 {
 	return s
 }
 
+// minPlateDecreaseStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (minPlateDecreaseTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type minPlateDecreaseStepFloor struct {
+	tol   float32 // the step test's tolerance, lim.Step
+	value float32 // minPlateDecreaseTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *minPlateDecreaseStepFloor) at(x, d *[2]float32, diffs *minPlateDecreaseDifferences) float32 {
+	if !f.known {
+		f.value, f.known = minPlateDecreaseTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // minPlateDecreaseTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·minPlateDecreaseStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDecreaseDifferences) float32 {
@@ -1081,13 +1104,13 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDecr
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
-	slope, tiny = minPlateDecreaseShortenAlong(g, d, slope, tiny)
+func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first float32, floor *minPlateDecreaseStepFloor, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
+	slope = minPlateDecreaseShortenAlong(g, d, slope, floor)
 	t := first
 	var previous, fPrevious float32
 	var trend minPlateDecreaseRiseTrend
 	for trial := 0; trial < minPlateDecreaseStepTrials; trial++ {
-		if trial > 0 && t <= tiny {
+		if trial > 0 && t <= floor.at(x, d, diffs) {
 			return minPlateDecreaseLineResult{calls: trial, rising: trend.contradicts(), end: minPlateDecreaseTinyOrExhausted(minPlateDecreaseFinite(fPrevious))}
 		}
 		if trial >= budget {
@@ -1120,16 +1143,19 @@ type minPlateDecreaseSearchEnd uint8
 // minPlateDecreaseShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minPlateDecreaseShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (minPlateDecreaseShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func minPlateDecreaseShortenAlong(g, d *[2]float32, slope, tiny float32) (float32, float32) {
+func minPlateDecreaseShortenAlong(g, d *[2]float32, slope float32, floor *minPlateDecreaseStepFloor) float32 {
 	if minPlateDecreaseFinite(slope) || !minPlateDecreaseFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := minPlateDecreaseMaxAbs(d)
 	minPlateDecreaseShrinkDirection(d, g)
-	return minPlateDecreaseDot(g, d), tiny * (before / minPlateDecreaseMaxAbs(d))
+	if floor.known {
+		floor.value *= before / minPlateDecreaseMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return minPlateDecreaseDot(g, d)
 }
 
 // minPlateDecreaseMaxAbs returns the largest |x_i|, the infinity norm.
