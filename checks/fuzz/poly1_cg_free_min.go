@@ -457,7 +457,10 @@ func (r *poly1CGFreeDescent) judge(recv *Poly) {
 func (r *poly1CGFreeDescent) search(recv *Poly) {
 	poly1CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly1CGFreeDot(&r.g, &r.d)
-	if !(now < 0) || !poly1CGFreeFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly1CGFreeShortenAlong).
+	if !(now < 0) || !poly1CGFreeFinite(now) && !poly1CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly1CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly1CGFreeDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *poly1CGFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly1CGFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly1CGFreeStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := poly1CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly1CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly1CGFreeFinite(now) {
 		now = poly1CGFreeDot(&r.g, &r.d) // the search shortened d (see poly1CGFreeShortenAlong)
@@ -905,6 +908,26 @@ func poly1CGFreeSolveDirection(dir *poly1CGFreeDirection, g, d *[1]float64, diff
 	dir.compute(g, d)
 }
 
+// poly1CGFreeStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly1CGFreeTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly1CGFreeStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly1CGFreeTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly1CGFreeStepFloor) at(x, d *[1]float64, diffs *poly1CGFreeDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly1CGFreeTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly1CGFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly1CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1CGFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1CGFreeDifferences) float64 {
@@ -944,21 +967,21 @@ func poly1CGFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1CGFreeDiffer
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *poly1CGFreeDifferences) poly1CGFreeLineResult {
-	slope, tiny = poly1CGFreeShortenAlong(g, d, slope, tiny)
+func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1CGFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1CGFreeDifferences) poly1CGFreeLineResult {
+	slope = poly1CGFreeShortenAlong(g, d, slope, floor)
 	low := poly1CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend poly1CGFreeRiseTrend                         // of the trials failing sufficient decrease
-	limit := poly1CGFreeStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend poly1CGFreeRiseTrend                  // of the trials failing sufficient decrease
+	limit := poly1CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < poly1CGFreeStepTrials; trial++ {
-		if bracketed && poly1CGFreeAbs(high.step-low.step) <= tiny {
+		if bracketed && poly1CGFreeAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1028,16 +1051,19 @@ type poly1CGFreeSearchEnd uint8
 // poly1CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1CGFreeShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly1CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1CGFreeShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func poly1CGFreeShortenAlong(g, d *[1]float64, slope float64, floor *poly1CGFreeStepFloor) float64 {
 	if poly1CGFreeFinite(slope) || !poly1CGFreeFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly1CGFreeMaxAbs(d)
 	poly1CGFreeShrinkDirection(d, g)
-	return poly1CGFreeDot(g, d), tiny * (before / poly1CGFreeMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly1CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly1CGFreeDot(g, d)
 }
 
 // poly1CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1142,7 +1168,7 @@ func poly1CGFreeFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 }
 
 // poly1CGFreeStepCap: without bounds a step may be as long as the search wants.
-func poly1CGFreeStepCap(x, d *[1]float64, tiny float64, b *poly1CGFreeBox) float64 {
+func poly1CGFreeStepCap(x, d *[1]float64, floor *poly1CGFreeStepFloor, diffs *poly1CGFreeDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *poly2CGFreeDescent) judge(recv *Poly) {
 func (r *poly2CGFreeDescent) search(recv *Poly) {
 	poly2CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2CGFreeDot(&r.g, &r.d)
-	if !(now < 0) || !poly2CGFreeFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly2CGFreeShortenAlong).
+	if !(now < 0) || !poly2CGFreeFinite(now) && !poly2CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly2CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2CGFreeDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *poly2CGFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly2CGFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly2CGFreeStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := poly2CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly2CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly2CGFreeFinite(now) {
 		now = poly2CGFreeDot(&r.g, &r.d) // the search shortened d (see poly2CGFreeShortenAlong)
@@ -905,6 +908,26 @@ func poly2CGFreeSolveDirection(dir *poly2CGFreeDirection, g, d *[2]float64, diff
 	dir.compute(g, d)
 }
 
+// poly2CGFreeStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly2CGFreeTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly2CGFreeStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly2CGFreeTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly2CGFreeStepFloor) at(x, d *[2]float64, diffs *poly2CGFreeDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly2CGFreeTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly2CGFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly2CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2CGFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2CGFreeDifferences) float64 {
@@ -944,21 +967,21 @@ func poly2CGFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2CGFreeDiffer
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *poly2CGFreeDifferences) poly2CGFreeLineResult {
-	slope, tiny = poly2CGFreeShortenAlong(g, d, slope, tiny)
+func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2CGFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2CGFreeDifferences) poly2CGFreeLineResult {
+	slope = poly2CGFreeShortenAlong(g, d, slope, floor)
 	low := poly2CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend poly2CGFreeRiseTrend                         // of the trials failing sufficient decrease
-	limit := poly2CGFreeStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend poly2CGFreeRiseTrend                  // of the trials failing sufficient decrease
+	limit := poly2CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < poly2CGFreeStepTrials; trial++ {
-		if bracketed && poly2CGFreeAbs(high.step-low.step) <= tiny {
+		if bracketed && poly2CGFreeAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1028,16 +1051,19 @@ type poly2CGFreeSearchEnd uint8
 // poly2CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2CGFreeShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly2CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2CGFreeShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func poly2CGFreeShortenAlong(g, d *[2]float64, slope float64, floor *poly2CGFreeStepFloor) float64 {
 	if poly2CGFreeFinite(slope) || !poly2CGFreeFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly2CGFreeMaxAbs(d)
 	poly2CGFreeShrinkDirection(d, g)
-	return poly2CGFreeDot(g, d), tiny * (before / poly2CGFreeMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly2CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly2CGFreeDot(g, d)
 }
 
 // poly2CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1142,7 +1168,7 @@ func poly2CGFreeFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 }
 
 // poly2CGFreeStepCap: without bounds a step may be as long as the search wants.
-func poly2CGFreeStepCap(x, d *[2]float64, tiny float64, b *poly2CGFreeBox) float64 {
+func poly2CGFreeStepCap(x, d *[2]float64, floor *poly2CGFreeStepFloor, diffs *poly2CGFreeDifferences) float64 {
 	return math.Inf(1)
 }
 

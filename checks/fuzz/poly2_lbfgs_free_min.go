@@ -458,7 +458,10 @@ func (r *poly2LBFGSFreeDescent) judge(recv *Poly) {
 func (r *poly2LBFGSFreeDescent) search(recv *Poly) {
 	poly2LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly2LBFGSFreeDot(&r.g, &r.d)
-	if !(now < 0) || !poly2LBFGSFreeFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly2LBFGSFreeShortenAlong).
+	if !(now < 0) || !poly2LBFGSFreeFinite(now) && !poly2LBFGSFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly2LBFGSFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly2LBFGSFreeDot(&r.g, &r.d)
@@ -467,9 +470,9 @@ func (r *poly2LBFGSFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly2LBFGSFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly2LBFGSFreeStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := poly2LBFGSFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly2LBFGSFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly2LBFGSFreeFinite(now) {
 		now = poly2LBFGSFreeDot(&r.g, &r.d) // the search shortened d (see poly2LBFGSFreeShortenAlong)
@@ -1126,6 +1129,26 @@ func poly2LBFGSFreeSolveDirection(dir *poly2LBFGSFreeDirection, g, d *[2]float64
 	dir.compute(g, d)
 }
 
+// poly2LBFGSFreeStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly2LBFGSFreeTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly2LBFGSFreeStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly2LBFGSFreeTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly2LBFGSFreeStepFloor) at(x, d *[2]float64, diffs *poly2LBFGSFreeDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly2LBFGSFreeTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly2LBFGSFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly2LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2LBFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSFreeDifferences) float64 {
@@ -1165,21 +1188,21 @@ func poly2LBFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSFree
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func poly2LBFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *poly2LBFGSFreeDifferences) poly2LBFGSFreeLineResult {
-	slope, tiny = poly2LBFGSFreeShortenAlong(g, d, slope, tiny)
+func poly2LBFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2LBFGSFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2LBFGSFreeDifferences) poly2LBFGSFreeLineResult {
+	slope = poly2LBFGSFreeShortenAlong(g, d, slope, floor)
 	low := poly2LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend poly2LBFGSFreeRiseTrend                         // of the trials failing sufficient decrease
-	limit := poly2LBFGSFreeStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend poly2LBFGSFreeRiseTrend                  // of the trials failing sufficient decrease
+	limit := poly2LBFGSFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < poly2LBFGSFreeStepTrials; trial++ {
-		if bracketed && poly2LBFGSFreeAbs(high.step-low.step) <= tiny {
+		if bracketed && poly2LBFGSFreeAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1249,16 +1272,19 @@ type poly2LBFGSFreeSearchEnd uint8
 // poly2LBFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2LBFGSFreeShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly2LBFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2LBFGSFreeShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func poly2LBFGSFreeShortenAlong(g, d *[2]float64, slope float64, floor *poly2LBFGSFreeStepFloor) float64 {
 	if poly2LBFGSFreeFinite(slope) || !poly2LBFGSFreeFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly2LBFGSFreeMaxAbs(d)
 	poly2LBFGSFreeShrinkDirection(d, g)
-	return poly2LBFGSFreeDot(g, d), tiny * (before / poly2LBFGSFreeMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly2LBFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly2LBFGSFreeDot(g, d)
 }
 
 // poly2LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1363,7 +1389,7 @@ func poly2LBFGSFreeFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 }
 
 // poly2LBFGSFreeStepCap: without bounds a step may be as long as the search wants.
-func poly2LBFGSFreeStepCap(x, d *[2]float64, tiny float64, b *poly2LBFGSFreeBox) float64 {
+func poly2LBFGSFreeStepCap(x, d *[2]float64, floor *poly2LBFGSFreeStepFloor, diffs *poly2LBFGSFreeDifferences) float64 {
 	return math.Inf(1)
 }
 

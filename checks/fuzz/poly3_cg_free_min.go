@@ -457,7 +457,10 @@ func (r *poly3CGFreeDescent) judge(recv *Poly) {
 func (r *poly3CGFreeDescent) search(recv *Poly) {
 	poly3CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3CGFreeDot(&r.g, &r.d)
-	if !(now < 0) || !poly3CGFreeFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly3CGFreeShortenAlong).
+	if !(now < 0) || !poly3CGFreeFinite(now) && !poly3CGFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly3CGFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3CGFreeDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *poly3CGFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly3CGFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly3CGFreeStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [3]float64
-	found := poly3CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly3CGFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly3CGFreeFinite(now) {
 		now = poly3CGFreeDot(&r.g, &r.d) // the search shortened d (see poly3CGFreeShortenAlong)
@@ -905,6 +908,26 @@ func poly3CGFreeSolveDirection(dir *poly3CGFreeDirection, g, d *[3]float64, diff
 	dir.compute(g, d)
 }
 
+// poly3CGFreeStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly3CGFreeTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly3CGFreeStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly3CGFreeTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly3CGFreeStepFloor) at(x, d *[3]float64, diffs *poly3CGFreeDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly3CGFreeTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly3CGFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly3CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3CGFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3CGFreeDifferences) float64 {
@@ -944,21 +967,21 @@ func poly3CGFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3CGFreeDiffer
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *poly3CGFreeDifferences) poly3CGFreeLineResult {
-	slope, tiny = poly3CGFreeShortenAlong(g, d, slope, tiny)
+func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3CGFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3CGFreeDifferences) poly3CGFreeLineResult {
+	slope = poly3CGFreeShortenAlong(g, d, slope, floor)
 	low := poly3CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend poly3CGFreeRiseTrend                         // of the trials failing sufficient decrease
-	limit := poly3CGFreeStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend poly3CGFreeRiseTrend                  // of the trials failing sufficient decrease
+	limit := poly3CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < poly3CGFreeStepTrials; trial++ {
-		if bracketed && poly3CGFreeAbs(high.step-low.step) <= tiny {
+		if bracketed && poly3CGFreeAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1028,16 +1051,19 @@ type poly3CGFreeSearchEnd uint8
 // poly3CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3CGFreeShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly3CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3CGFreeShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+func poly3CGFreeShortenAlong(g, d *[3]float64, slope float64, floor *poly3CGFreeStepFloor) float64 {
 	if poly3CGFreeFinite(slope) || !poly3CGFreeFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly3CGFreeMaxAbs(d)
 	poly3CGFreeShrinkDirection(d, g)
-	return poly3CGFreeDot(g, d), tiny * (before / poly3CGFreeMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly3CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly3CGFreeDot(g, d)
 }
 
 // poly3CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1142,7 +1168,7 @@ func poly3CGFreeFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 }
 
 // poly3CGFreeStepCap: without bounds a step may be as long as the search wants.
-func poly3CGFreeStepCap(x, d *[3]float64, tiny float64, b *poly3CGFreeBox) float64 {
+func poly3CGFreeStepCap(x, d *[3]float64, floor *poly3CGFreeStepFloor, diffs *poly3CGFreeDifferences) float64 {
 	return math.Inf(1)
 }
 

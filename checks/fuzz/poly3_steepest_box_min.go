@@ -467,7 +467,10 @@ func (r *poly3SteepestBoxDescent) judge(recv *Poly) {
 func (r *poly3SteepestBoxDescent) search(recv *Poly) {
 	poly3SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly3SteepestBoxDot(&r.g, &r.d)
-	if !(now < 0) || !poly3SteepestBoxFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly3SteepestBoxShortenAlong).
+	if !(now < 0) || !poly3SteepestBoxFinite(now) && !poly3SteepestBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly3SteepestBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly3SteepestBoxDot(&r.g, &r.d)
@@ -476,9 +479,9 @@ func (r *poly3SteepestBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly3SteepestBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly3SteepestBoxStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [3]float64
-	found := poly3SteepestBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly3SteepestBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly3SteepestBoxFinite(now) {
 		now = poly3SteepestBoxDot(&r.g, &r.d) // the search shortened d (see poly3SteepestBoxShortenAlong)
@@ -982,6 +985,26 @@ func poly3SteepestBoxDot(a, b *[3]float64) float64 {
 	return s
 }
 
+// poly3SteepestBoxStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly3SteepestBoxTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly3SteepestBoxStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly3SteepestBoxTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly3SteepestBoxStepFloor) at(x, d *[3]float64, diffs *poly3SteepestBoxDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly3SteepestBoxTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly3SteepestBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly3SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3SteepestBoxDifferences) float64 {
@@ -1000,13 +1023,13 @@ func poly3SteepestBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3Steepes
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func poly3SteepestBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *poly3SteepestBoxDifferences) poly3SteepestBoxLineResult {
-	slope, tiny = poly3SteepestBoxShortenAlong(g, d, slope, tiny)
+func poly3SteepestBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestBoxDifferences) poly3SteepestBoxLineResult {
+	slope = poly3SteepestBoxShortenAlong(g, d, slope, floor)
 	t := first
 	var previous, fPrevious float64
 	var trend poly3SteepestBoxRiseTrend
 	for trial := 0; trial < poly3SteepestBoxStepTrials; trial++ {
-		if trial > 0 && t <= tiny {
+		if trial > 0 && t <= floor.at(x, d, diffs) {
 			return poly3SteepestBoxLineResult{calls: trial, rising: trend.contradicts(), end: poly3SteepestBoxTinyOrExhausted(poly3SteepestBoxFinite(fPrevious))}
 		}
 		if trial >= budget {
@@ -1039,16 +1062,19 @@ type poly3SteepestBoxSearchEnd uint8
 // poly3SteepestBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3SteepestBoxShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly3SteepestBoxShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3SteepestBoxShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+func poly3SteepestBoxShortenAlong(g, d *[3]float64, slope float64, floor *poly3SteepestBoxStepFloor) float64 {
 	if poly3SteepestBoxFinite(slope) || !poly3SteepestBoxFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly3SteepestBoxMaxAbs(d)
 	poly3SteepestBoxShrinkDirection(d, g)
-	return poly3SteepestBoxDot(g, d), tiny * (before / poly3SteepestBoxMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly3SteepestBoxMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly3SteepestBoxDot(g, d)
 }
 
 // poly3SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.

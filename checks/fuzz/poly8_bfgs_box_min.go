@@ -467,7 +467,10 @@ func (r *poly8BFGSBoxDescent) judge(recv *Poly) {
 func (r *poly8BFGSBoxDescent) search(recv *Poly) {
 	poly8BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8BFGSBoxDot(&r.g, &r.d)
-	if !(now < 0) || !poly8BFGSBoxFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly8BFGSBoxShortenAlong).
+	if !(now < 0) || !poly8BFGSBoxFinite(now) && !poly8BFGSBoxFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly8BFGSBoxSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8BFGSBoxDot(&r.g, &r.d)
@@ -476,9 +479,9 @@ func (r *poly8BFGSBoxDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8BFGSBoxTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly8BFGSBoxStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [8]float64
-	found := poly8BFGSBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly8BFGSBoxLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly8BFGSBoxFinite(now) {
 		now = poly8BFGSBoxDot(&r.g, &r.d) // the search shortened d (see poly8BFGSBoxShortenAlong)
@@ -1011,6 +1014,26 @@ func poly8BFGSBoxSolveDirection(dir *poly8BFGSBoxDirection, g, d *[8]float64, di
 	dir.compute(g, d)
 }
 
+// poly8BFGSBoxStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly8BFGSBoxTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly8BFGSBoxStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly8BFGSBoxTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly8BFGSBoxStepFloor) at(x, d *[8]float64, diffs *poly8BFGSBoxDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly8BFGSBoxTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly8BFGSBoxTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSBoxDifferences) float64 {
@@ -1050,21 +1073,21 @@ func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSBoxDiff
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func poly8BFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first, tiny float64, budget int, xt, gt *[8]float64, diffs *poly8BFGSBoxDifferences) poly8BFGSBoxLineResult {
-	slope, tiny = poly8BFGSBoxShortenAlong(g, d, slope, tiny)
+func poly8BFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8BFGSBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8BFGSBoxDifferences) poly8BFGSBoxLineResult {
+	slope = poly8BFGSBoxShortenAlong(g, d, slope, floor)
 	low := poly8BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                            // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend poly8BFGSBoxRiseTrend                         // of the trials failing sufficient decrease
-	limit := poly8BFGSBoxStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend poly8BFGSBoxRiseTrend                  // of the trials failing sufficient decrease
+	limit := poly8BFGSBoxStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < poly8BFGSBoxStepTrials; trial++ {
-		if bracketed && poly8BFGSBoxAbs(high.step-low.step) <= tiny {
+		if bracketed && poly8BFGSBoxAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1134,16 +1157,19 @@ type poly8BFGSBoxSearchEnd uint8
 // poly8BFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8BFGSBoxShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly8BFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8BFGSBoxShortenAlong(g, d *[8]float64, slope, tiny float64) (float64, float64) {
+func poly8BFGSBoxShortenAlong(g, d *[8]float64, slope float64, floor *poly8BFGSBoxStepFloor) float64 {
 	if poly8BFGSBoxFinite(slope) || !poly8BFGSBoxFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly8BFGSBoxMaxAbs(d)
 	poly8BFGSBoxShrinkDirection(d, g)
-	return poly8BFGSBoxDot(g, d), tiny * (before / poly8BFGSBoxMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly8BFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly8BFGSBoxDot(g, d)
 }
 
 // poly8BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.

@@ -468,7 +468,10 @@ func (r *poly8LBFGSMixedDescent) judge(recv *Poly) {
 func (r *poly8LBFGSMixedDescent) search(recv *Poly) {
 	poly8LBFGSMixedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8LBFGSMixedDot(&r.g, &r.d)
-	if !(now < 0) || !poly8LBFGSMixedFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly8LBFGSMixedShortenAlong).
+	if !(now < 0) || !poly8LBFGSMixedFinite(now) && !poly8LBFGSMixedFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly8LBFGSMixedSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8LBFGSMixedDot(&r.g, &r.d)
@@ -477,9 +480,9 @@ func (r *poly8LBFGSMixedDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8LBFGSMixedTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly8LBFGSMixedStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [8]float64
-	found := poly8LBFGSMixedLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly8LBFGSMixedLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly8LBFGSMixedFinite(now) {
 		now = poly8LBFGSMixedDot(&r.g, &r.d) // the search shortened d (see poly8LBFGSMixedShortenAlong)
@@ -1223,6 +1226,26 @@ func poly8LBFGSMixedSolveDirection(dir *poly8LBFGSMixedDirection, g, d *[8]float
 	dir.compute(g, d)
 }
 
+// poly8LBFGSMixedStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly8LBFGSMixedTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly8LBFGSMixedStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly8LBFGSMixedTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly8LBFGSMixedStepFloor) at(x, d *[8]float64, diffs *poly8LBFGSMixedDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly8LBFGSMixedTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly8LBFGSMixedTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8LBFGSMixedStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8LBFGSMixedTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSMixedDifferences) float64 {
@@ -1262,21 +1285,21 @@ func poly8LBFGSMixedTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSMix
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func poly8LBFGSMixedLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first, tiny float64, budget int, xt, gt *[8]float64, diffs *poly8LBFGSMixedDifferences) poly8LBFGSMixedLineResult {
-	slope, tiny = poly8LBFGSMixedShortenAlong(g, d, slope, tiny)
+func poly8LBFGSMixedLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSMixedStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSMixedDifferences) poly8LBFGSMixedLineResult {
+	slope = poly8LBFGSMixedShortenAlong(g, d, slope, floor)
 	low := poly8LBFGSMixedLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSMixedLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend poly8LBFGSMixedRiseTrend                         // of the trials failing sufficient decrease
-	limit := poly8LBFGSMixedStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend poly8LBFGSMixedRiseTrend                  // of the trials failing sufficient decrease
+	limit := poly8LBFGSMixedStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < poly8LBFGSMixedStepTrials; trial++ {
-		if bracketed && poly8LBFGSMixedAbs(high.step-low.step) <= tiny {
+		if bracketed && poly8LBFGSMixedAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1346,16 +1369,19 @@ type poly8LBFGSMixedSearchEnd uint8
 // poly8LBFGSMixedShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8LBFGSMixedShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly8LBFGSMixedShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8LBFGSMixedShortenAlong(g, d *[8]float64, slope, tiny float64) (float64, float64) {
+func poly8LBFGSMixedShortenAlong(g, d *[8]float64, slope float64, floor *poly8LBFGSMixedStepFloor) float64 {
 	if poly8LBFGSMixedFinite(slope) || !poly8LBFGSMixedFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly8LBFGSMixedMaxAbs(d)
 	poly8LBFGSMixedShrinkDirection(d, g)
-	return poly8LBFGSMixedDot(g, d), tiny * (before / poly8LBFGSMixedMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly8LBFGSMixedMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly8LBFGSMixedDot(g, d)
 }
 
 // poly8LBFGSMixedMaxAbs returns the largest |x_i|, the infinity norm.

@@ -457,7 +457,10 @@ func (r *poly8SteepestFreeDescent) judge(recv *Poly) {
 func (r *poly8SteepestFreeDescent) search(recv *Poly) {
 	poly8SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := poly8SteepestFreeDot(&r.g, &r.d)
-	if !(now < 0) || !poly8SteepestFreeFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see poly8SteepestFreeShortenAlong).
+	if !(now < 0) || !poly8SteepestFreeFinite(now) && !poly8SteepestFreeFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		poly8SteepestFreeSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = poly8SteepestFreeDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *poly8SteepestFreeDescent) search(recv *Poly) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := poly8SteepestFreeTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := poly8SteepestFreeStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [8]float64
-	found := poly8SteepestFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := poly8SteepestFreeLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !poly8SteepestFreeFinite(now) {
 		now = poly8SteepestFreeDot(&r.g, &r.d) // the search shortened d (see poly8SteepestFreeShortenAlong)
@@ -885,6 +888,26 @@ func poly8SteepestFreeDot(a, b *[8]float64) float64 {
 	return s
 }
 
+// poly8SteepestFreeStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (poly8SteepestFreeTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type poly8SteepestFreeStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // poly8SteepestFreeTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *poly8SteepestFreeStepFloor) at(x, d *[8]float64, diffs *poly8SteepestFreeDifferences) float64 {
+	if !f.known {
+		f.value, f.known = poly8SteepestFreeTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // poly8SteepestFreeTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·poly8SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8SteepestFreeDifferences) float64 {
@@ -903,13 +926,13 @@ func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8Steepe
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func poly8SteepestFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first, tiny float64, budget int, xt, gt *[8]float64, diffs *poly8SteepestFreeDifferences) poly8SteepestFreeLineResult {
-	slope, tiny = poly8SteepestFreeShortenAlong(g, d, slope, tiny)
+func poly8SteepestFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8SteepestFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8SteepestFreeDifferences) poly8SteepestFreeLineResult {
+	slope = poly8SteepestFreeShortenAlong(g, d, slope, floor)
 	t := first
 	var previous, fPrevious float64
 	var trend poly8SteepestFreeRiseTrend
 	for trial := 0; trial < poly8SteepestFreeStepTrials; trial++ {
-		if trial > 0 && t <= tiny {
+		if trial > 0 && t <= floor.at(x, d, diffs) {
 			return poly8SteepestFreeLineResult{calls: trial, rising: trend.contradicts(), end: poly8SteepestFreeTinyOrExhausted(poly8SteepestFreeFinite(fPrevious))}
 		}
 		if trial >= budget {
@@ -942,16 +965,19 @@ type poly8SteepestFreeSearchEnd uint8
 // poly8SteepestFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8SteepestFreeShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (poly8SteepestFreeShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8SteepestFreeShortenAlong(g, d *[8]float64, slope, tiny float64) (float64, float64) {
+func poly8SteepestFreeShortenAlong(g, d *[8]float64, slope float64, floor *poly8SteepestFreeStepFloor) float64 {
 	if poly8SteepestFreeFinite(slope) || !poly8SteepestFreeFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := poly8SteepestFreeMaxAbs(d)
 	poly8SteepestFreeShrinkDirection(d, g)
-	return poly8SteepestFreeDot(g, d), tiny * (before / poly8SteepestFreeMaxAbs(d))
+	if floor.known {
+		floor.value *= before / poly8SteepestFreeMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return poly8SteepestFreeDot(g, d)
 }
 
 // poly8SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.

@@ -457,7 +457,10 @@ func (r *concaveRightStrongWolfeNWAlphaE3Descent) judge() {
 func (r *concaveRightStrongWolfeNWAlphaE3Descent) search() {
 	concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
-	if !(now < 0) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see concaveRightStrongWolfeNWAlphaE3ShortenAlong).
+	if !(now < 0) || !concaveRightStrongWolfeNWAlphaE3Finite(now) && !concaveRightStrongWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		concaveRightStrongWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *concaveRightStrongWolfeNWAlphaE3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveRightStrongWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := concaveRightStrongWolfeNWAlphaE3StepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := concaveRightStrongWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := concaveRightStrongWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !concaveRightStrongWolfeNWAlphaE3Finite(now) {
 		now = concaveRightStrongWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see concaveRightStrongWolfeNWAlphaE3ShortenAlong)
@@ -887,6 +890,26 @@ func concaveRightStrongWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 	return s
 }
 
+// concaveRightStrongWolfeNWAlphaE3StepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (concaveRightStrongWolfeNWAlphaE3TinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type concaveRightStrongWolfeNWAlphaE3StepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // concaveRightStrongWolfeNWAlphaE3TinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *concaveRightStrongWolfeNWAlphaE3StepFloor) at(x, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) float64 {
+	if !f.known {
+		f.value, f.known = concaveRightStrongWolfeNWAlphaE3TinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // concaveRightStrongWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveRightStrongWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) float64 {
@@ -926,21 +949,21 @@ func concaveRightStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, dif
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) concaveRightStrongWolfeNWAlphaE3LineResult {
-	slope, tiny = concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
+func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) concaveRightStrongWolfeNWAlphaE3LineResult {
+	slope = concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
 	low := concaveRightStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightStrongWolfeNWAlphaE3RiseTrend                         // of the trials failing sufficient decrease
-	limit := concaveRightStrongWolfeNWAlphaE3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend concaveRightStrongWolfeNWAlphaE3RiseTrend                  // of the trials failing sufficient decrease
+	limit := concaveRightStrongWolfeNWAlphaE3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < concaveRightStrongWolfeNWAlphaE3StepTrials; trial++ {
-		if bracketed && concaveRightStrongWolfeNWAlphaE3Abs(high.step-low.step) <= tiny {
+		if bracketed && concaveRightStrongWolfeNWAlphaE3Abs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1010,16 +1033,19 @@ type concaveRightStrongWolfeNWAlphaE3SearchEnd uint8
 // concaveRightStrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeNWAlphaE3StepFloor) float64 {
 	if concaveRightStrongWolfeNWAlphaE3Finite(slope) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := concaveRightStrongWolfeNWAlphaE3MaxAbs(d)
 	concaveRightStrongWolfeNWAlphaE3ShrinkDirection(d, g)
-	return concaveRightStrongWolfeNWAlphaE3Dot(g, d), tiny * (before / concaveRightStrongWolfeNWAlphaE3MaxAbs(d))
+	if floor.known {
+		floor.value *= before / concaveRightStrongWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return concaveRightStrongWolfeNWAlphaE3Dot(g, d)
 }
 
 // concaveRightStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
@@ -1124,7 +1150,7 @@ func concaveRightStrongWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float6
 }
 
 // concaveRightStrongWolfeNWAlphaE3StepCap: without bounds a step may be as long as the search wants.
-func concaveRightStrongWolfeNWAlphaE3StepCap(x, d *[1]float64, tiny float64, b *concaveRightStrongWolfeNWAlphaE3Box) float64 {
+func concaveRightStrongWolfeNWAlphaE3StepCap(x, d *[1]float64, floor *concaveRightStrongWolfeNWAlphaE3StepFloor, diffs *concaveRightStrongWolfeNWAlphaE3Differences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *concaveRightWolfeNWAlphaE3Descent) judge() {
 func (r *concaveRightWolfeNWAlphaE3Descent) search() {
 	concaveRightWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := concaveRightWolfeNWAlphaE3Dot(&r.g, &r.d)
-	if !(now < 0) || !concaveRightWolfeNWAlphaE3FiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see concaveRightWolfeNWAlphaE3ShortenAlong).
+	if !(now < 0) || !concaveRightWolfeNWAlphaE3Finite(now) && !concaveRightWolfeNWAlphaE3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		concaveRightWolfeNWAlphaE3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = concaveRightWolfeNWAlphaE3Dot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *concaveRightWolfeNWAlphaE3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := concaveRightWolfeNWAlphaE3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := concaveRightWolfeNWAlphaE3StepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := concaveRightWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := concaveRightWolfeNWAlphaE3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !concaveRightWolfeNWAlphaE3Finite(now) {
 		now = concaveRightWolfeNWAlphaE3Dot(&r.g, &r.d) // the search shortened d (see concaveRightWolfeNWAlphaE3ShortenAlong)
@@ -885,6 +888,26 @@ func concaveRightWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 	return s
 }
 
+// concaveRightWolfeNWAlphaE3StepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (concaveRightWolfeNWAlphaE3TinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type concaveRightWolfeNWAlphaE3StepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // concaveRightWolfeNWAlphaE3TinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *concaveRightWolfeNWAlphaE3StepFloor) at(x, d *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) float64 {
+	if !f.known {
+		f.value, f.known = concaveRightWolfeNWAlphaE3TinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // concaveRightWolfeNWAlphaE3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·concaveRightWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightWolfeNWAlphaE3Differences) float64 {
@@ -924,21 +947,21 @@ func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
-	slope, tiny = concaveRightWolfeNWAlphaE3ShortenAlong(g, d, slope, tiny)
+func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
+	slope = concaveRightWolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
 	low := concaveRightWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightWolfeNWAlphaE3RiseTrend                         // of the trials failing sufficient decrease
-	limit := concaveRightWolfeNWAlphaE3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend concaveRightWolfeNWAlphaE3RiseTrend                  // of the trials failing sufficient decrease
+	limit := concaveRightWolfeNWAlphaE3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeNWAlphaE3StepTrials; trial++ {
-		if bracketed && concaveRightWolfeNWAlphaE3Abs(high.step-low.step) <= tiny {
+		if bracketed && concaveRightWolfeNWAlphaE3Abs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1008,16 +1031,19 @@ type concaveRightWolfeNWAlphaE3SearchEnd uint8
 // concaveRightWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeNWAlphaE3ShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func concaveRightWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeNWAlphaE3StepFloor) float64 {
 	if concaveRightWolfeNWAlphaE3Finite(slope) || !concaveRightWolfeNWAlphaE3FiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := concaveRightWolfeNWAlphaE3MaxAbs(d)
 	concaveRightWolfeNWAlphaE3ShrinkDirection(d, g)
-	return concaveRightWolfeNWAlphaE3Dot(g, d), tiny * (before / concaveRightWolfeNWAlphaE3MaxAbs(d))
+	if floor.known {
+		floor.value *= before / concaveRightWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return concaveRightWolfeNWAlphaE3Dot(g, d)
 }
 
 // concaveRightWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
@@ -1122,7 +1148,7 @@ func concaveRightWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) boo
 }
 
 // concaveRightWolfeNWAlphaE3StepCap: without bounds a step may be as long as the search wants.
-func concaveRightWolfeNWAlphaE3StepCap(x, d *[1]float64, tiny float64, b *concaveRightWolfeNWAlphaE3Box) float64 {
+func concaveRightWolfeNWAlphaE3StepCap(x, d *[1]float64, floor *concaveRightWolfeNWAlphaE3StepFloor, diffs *concaveRightWolfeNWAlphaE3Differences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) judge() {
 func (r *plassmannStrongWolfeMTAlphaEm1Descent) search() {
 	plassmannStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
-	if !(now < 0) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see plassmannStrongWolfeMTAlphaEm1ShortenAlong).
+	if !(now < 0) || !plassmannStrongWolfeMTAlphaEm1Finite(now) && !plassmannStrongWolfeMTAlphaEm1FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		plassmannStrongWolfeMTAlphaEm1SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannStrongWolfeMTAlphaEm1Dot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := plassmannStrongWolfeMTAlphaEm1TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := plassmannStrongWolfeMTAlphaEm1StepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := plassmannStrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := plassmannStrongWolfeMTAlphaEm1LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !plassmannStrongWolfeMTAlphaEm1Finite(now) {
 		now = plassmannStrongWolfeMTAlphaEm1Dot(&r.g, &r.d) // the search shortened d (see plassmannStrongWolfeMTAlphaEm1ShortenAlong)
@@ -886,6 +889,26 @@ func plassmannStrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 	return s
 }
 
+// plassmannStrongWolfeMTAlphaEm1StepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (plassmannStrongWolfeMTAlphaEm1TinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type plassmannStrongWolfeMTAlphaEm1StepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // plassmannStrongWolfeMTAlphaEm1TinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *plassmannStrongWolfeMTAlphaEm1StepFloor) at(x, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) float64 {
+	if !f.known {
+		f.value, f.known = plassmannStrongWolfeMTAlphaEm1TinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // plassmannStrongWolfeMTAlphaEm1TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·plassmannStrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) float64 {
@@ -925,21 +948,21 @@ func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
-	slope, tiny = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, tiny)
+func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
+	slope = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
 	low := plassmannStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannStrongWolfeMTAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
-	limit := plassmannStrongWolfeMTAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend plassmannStrongWolfeMTAlphaEm1RiseTrend                  // of the trials failing sufficient decrease
+	limit := plassmannStrongWolfeMTAlphaEm1StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < plassmannStrongWolfeMTAlphaEm1StepTrials; trial++ {
-		if bracketed && plassmannStrongWolfeMTAlphaEm1Abs(high.step-low.step) <= tiny {
+		if bracketed && plassmannStrongWolfeMTAlphaEm1Abs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1009,16 +1032,19 @@ type plassmannStrongWolfeMTAlphaEm1SearchEnd uint8
 // plassmannStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeMTAlphaEm1StepFloor) float64 {
 	if plassmannStrongWolfeMTAlphaEm1Finite(slope) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := plassmannStrongWolfeMTAlphaEm1MaxAbs(d)
 	plassmannStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
-	return plassmannStrongWolfeMTAlphaEm1Dot(g, d), tiny * (before / plassmannStrongWolfeMTAlphaEm1MaxAbs(d))
+	if floor.known {
+		floor.value *= before / plassmannStrongWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return plassmannStrongWolfeMTAlphaEm1Dot(g, d)
 }
 
 // plassmannStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
@@ -1123,7 +1149,7 @@ func plassmannStrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64)
 }
 
 // plassmannStrongWolfeMTAlphaEm1StepCap: without bounds a step may be as long as the search wants.
-func plassmannStrongWolfeMTAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *plassmannStrongWolfeMTAlphaEm1Box) float64 {
+func plassmannStrongWolfeMTAlphaEm1StepCap(x, d *[1]float64, floor *plassmannStrongWolfeMTAlphaEm1StepFloor, diffs *plassmannStrongWolfeMTAlphaEm1Differences) float64 {
 	return math.Inf(1)
 }
 

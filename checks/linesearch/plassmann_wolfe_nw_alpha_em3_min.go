@@ -457,7 +457,10 @@ func (r *plassmannWolfeNWAlphaEm3Descent) judge() {
 func (r *plassmannWolfeNWAlphaEm3Descent) search() {
 	plassmannWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := plassmannWolfeNWAlphaEm3Dot(&r.g, &r.d)
-	if !(now < 0) || !plassmannWolfeNWAlphaEm3FiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see plassmannWolfeNWAlphaEm3ShortenAlong).
+	if !(now < 0) || !plassmannWolfeNWAlphaEm3Finite(now) && !plassmannWolfeNWAlphaEm3FiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		plassmannWolfeNWAlphaEm3SearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = plassmannWolfeNWAlphaEm3Dot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *plassmannWolfeNWAlphaEm3Descent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := plassmannWolfeNWAlphaEm3TinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := plassmannWolfeNWAlphaEm3StepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := plassmannWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := plassmannWolfeNWAlphaEm3LineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !plassmannWolfeNWAlphaEm3Finite(now) {
 		now = plassmannWolfeNWAlphaEm3Dot(&r.g, &r.d) // the search shortened d (see plassmannWolfeNWAlphaEm3ShortenAlong)
@@ -885,6 +888,26 @@ func plassmannWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 	return s
 }
 
+// plassmannWolfeNWAlphaEm3StepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (plassmannWolfeNWAlphaEm3TinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type plassmannWolfeNWAlphaEm3StepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // plassmannWolfeNWAlphaEm3TinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *plassmannWolfeNWAlphaEm3StepFloor) at(x, d *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) float64 {
+	if !f.known {
+		f.value, f.known = plassmannWolfeNWAlphaEm3TinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // plassmannWolfeNWAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·plassmannWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plassmannWolfeNWAlphaEm3Differences) float64 {
@@ -924,21 +947,21 @@ func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
-	slope, tiny = plassmannWolfeNWAlphaEm3ShortenAlong(g, d, slope, tiny)
+func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
+	slope = plassmannWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor)
 	low := plassmannWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannWolfeNWAlphaEm3RiseTrend                         // of the trials failing sufficient decrease
-	limit := plassmannWolfeNWAlphaEm3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend plassmannWolfeNWAlphaEm3RiseTrend                  // of the trials failing sufficient decrease
+	limit := plassmannWolfeNWAlphaEm3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < plassmannWolfeNWAlphaEm3StepTrials; trial++ {
-		if bracketed && plassmannWolfeNWAlphaEm3Abs(high.step-low.step) <= tiny {
+		if bracketed && plassmannWolfeNWAlphaEm3Abs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1008,16 +1031,19 @@ type plassmannWolfeNWAlphaEm3SearchEnd uint8
 // plassmannWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func plassmannWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeNWAlphaEm3StepFloor) float64 {
 	if plassmannWolfeNWAlphaEm3Finite(slope) || !plassmannWolfeNWAlphaEm3FiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := plassmannWolfeNWAlphaEm3MaxAbs(d)
 	plassmannWolfeNWAlphaEm3ShrinkDirection(d, g)
-	return plassmannWolfeNWAlphaEm3Dot(g, d), tiny * (before / plassmannWolfeNWAlphaEm3MaxAbs(d))
+	if floor.known {
+		floor.value *= before / plassmannWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return plassmannWolfeNWAlphaEm3Dot(g, d)
 }
 
 // plassmannWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
@@ -1122,7 +1148,7 @@ func plassmannWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool 
 }
 
 // plassmannWolfeNWAlphaEm3StepCap: without bounds a step may be as long as the search wants.
-func plassmannWolfeNWAlphaEm3StepCap(x, d *[1]float64, tiny float64, b *plassmannWolfeNWAlphaEm3Box) float64 {
+func plassmannWolfeNWAlphaEm3StepCap(x, d *[1]float64, floor *plassmannWolfeNWAlphaEm3StepFloor, diffs *plassmannWolfeNWAlphaEm3Differences) float64 {
 	return math.Inf(1)
 }
 

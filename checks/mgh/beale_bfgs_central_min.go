@@ -457,7 +457,10 @@ func (r *bealeBFGSCentralDescent) judge() {
 func (r *bealeBFGSCentralDescent) search() {
 	bealeBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeBFGSCentralDot(&r.g, &r.d)
-	if !(now < 0) || !bealeBFGSCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see bealeBFGSCentralShortenAlong).
+	if !(now < 0) || !bealeBFGSCentralFinite(now) && !bealeBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		bealeBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeBFGSCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *bealeBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := bealeBFGSCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := bealeBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := bealeBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !bealeBFGSCentralFinite(now) {
 		now = bealeBFGSCentralDot(&r.g, &r.d) // the search shortened d (see bealeBFGSCentralShortenAlong)
@@ -1093,6 +1096,26 @@ func bealeBFGSCentralSolveDirection(dir *bealeBFGSCentralDirection, g, d *[2]flo
 	dir.compute(g, d)
 }
 
+// bealeBFGSCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (bealeBFGSCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type bealeBFGSCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // bealeBFGSCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *bealeBFGSCentralStepFloor) at(x, d *[2]float64, diffs *bealeBFGSCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = bealeBFGSCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // bealeBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSCentralDifferences) float64 {
@@ -1132,21 +1155,21 @@ func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSCen
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
-	slope, tiny = bealeBFGSCentralShortenAlong(g, d, slope, tiny)
+func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
+	slope = bealeBFGSCentralShortenAlong(g, d, slope, floor)
 	low := bealeBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := bealeBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend bealeBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := bealeBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < bealeBFGSCentralStepTrials; trial++ {
-		if bracketed && bealeBFGSCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && bealeBFGSCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1216,16 +1239,19 @@ type bealeBFGSCentralSearchEnd uint8
 // bealeBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (bealeBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeBFGSCentralShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func bealeBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *bealeBFGSCentralStepFloor) float64 {
 	if bealeBFGSCentralFinite(slope) || !bealeBFGSCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := bealeBFGSCentralMaxAbs(d)
 	bealeBFGSCentralShrinkDirection(d, g)
-	return bealeBFGSCentralDot(g, d), tiny * (before / bealeBFGSCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / bealeBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return bealeBFGSCentralDot(g, d)
 }
 
 // bealeBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1330,7 +1356,7 @@ func bealeBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 }
 
 // bealeBFGSCentralStepCap: without bounds a step may be as long as the search wants.
-func bealeBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *bealeBFGSCentralBox) float64 {
+func bealeBFGSCentralStepCap(x, d *[2]float64, floor *bealeBFGSCentralStepFloor, diffs *bealeBFGSCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

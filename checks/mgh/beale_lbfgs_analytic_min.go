@@ -458,7 +458,10 @@ func (r *bealeLBFGSAnalyticDescent) judge() {
 func (r *bealeLBFGSAnalyticDescent) search() {
 	bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := bealeLBFGSAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !bealeLBFGSAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see bealeLBFGSAnalyticShortenAlong).
+	if !(now < 0) || !bealeLBFGSAnalyticFinite(now) && !bealeLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		bealeLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = bealeLBFGSAnalyticDot(&r.g, &r.d)
@@ -467,9 +470,9 @@ func (r *bealeLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := bealeLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := bealeLBFGSAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := bealeLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := bealeLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !bealeLBFGSAnalyticFinite(now) {
 		now = bealeLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see bealeLBFGSAnalyticShortenAlong)
@@ -947,6 +950,26 @@ func bealeLBFGSAnalyticSolveDirection(dir *bealeLBFGSAnalyticDirection, g, d *[2
 	dir.compute(g, d)
 }
 
+// bealeLBFGSAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (bealeLBFGSAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type bealeLBFGSAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // bealeLBFGSAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *bealeLBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *bealeLBFGSAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = bealeLBFGSAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // bealeLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·bealeLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSAnalyticDifferences) float64 {
@@ -986,21 +1009,21 @@ func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGS
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
-	slope, tiny = bealeLBFGSAnalyticShortenAlong(g, d, slope, tiny)
+func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
+	slope = bealeLBFGSAnalyticShortenAlong(g, d, slope, floor)
 	low := bealeLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := bealeLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend bealeLBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := bealeLBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < bealeLBFGSAnalyticStepTrials; trial++ {
-		if bracketed && bealeLBFGSAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && bealeLBFGSAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1070,16 +1093,19 @@ type bealeLBFGSAnalyticSearchEnd uint8
 // bealeLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (bealeLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeLBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func bealeLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *bealeLBFGSAnalyticStepFloor) float64 {
 	if bealeLBFGSAnalyticFinite(slope) || !bealeLBFGSAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := bealeLBFGSAnalyticMaxAbs(d)
 	bealeLBFGSAnalyticShrinkDirection(d, g)
-	return bealeLBFGSAnalyticDot(g, d), tiny * (before / bealeLBFGSAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / bealeLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return bealeLBFGSAnalyticDot(g, d)
 }
 
 // bealeLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1184,7 +1210,7 @@ func bealeLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 }
 
 // bealeLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
-func bealeLBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *bealeLBFGSAnalyticBox) float64 {
+func bealeLBFGSAnalyticStepCap(x, d *[2]float64, floor *bealeLBFGSAnalyticStepFloor, diffs *bealeLBFGSAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

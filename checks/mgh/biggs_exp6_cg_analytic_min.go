@@ -457,7 +457,10 @@ func (r *biggsEXP6CGAnalyticDescent) judge() {
 func (r *biggsEXP6CGAnalyticDescent) search() {
 	biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := biggsEXP6CGAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !biggsEXP6CGAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see biggsEXP6CGAnalyticShortenAlong).
+	if !(now < 0) || !biggsEXP6CGAnalyticFinite(now) && !biggsEXP6CGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		biggsEXP6CGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = biggsEXP6CGAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *biggsEXP6CGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := biggsEXP6CGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := biggsEXP6CGAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [6]float64
-	found := biggsEXP6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := biggsEXP6CGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !biggsEXP6CGAnalyticFinite(now) {
 		now = biggsEXP6CGAnalyticDot(&r.g, &r.d) // the search shortened d (see biggsEXP6CGAnalyticShortenAlong)
@@ -905,6 +908,26 @@ func biggsEXP6CGAnalyticSolveDirection(dir *biggsEXP6CGAnalyticDirection, g, d *
 	dir.compute(g, d)
 }
 
+// biggsEXP6CGAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (biggsEXP6CGAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type biggsEXP6CGAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // biggsEXP6CGAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *biggsEXP6CGAnalyticStepFloor) at(x, d *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = biggsEXP6CGAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // biggsEXP6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·biggsEXP6CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6CGAnalyticDifferences) float64 {
@@ -944,21 +967,21 @@ func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
-	slope, tiny = biggsEXP6CGAnalyticShortenAlong(g, d, slope, tiny)
+func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6CGAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
+	slope = biggsEXP6CGAnalyticShortenAlong(g, d, slope, floor)
 	low := biggsEXP6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := biggsEXP6CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend biggsEXP6CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := biggsEXP6CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6CGAnalyticStepTrials; trial++ {
-		if bracketed && biggsEXP6CGAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && biggsEXP6CGAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1028,16 +1051,19 @@ type biggsEXP6CGAnalyticSearchEnd uint8
 // biggsEXP6CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6CGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (biggsEXP6CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6CGAnalyticShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+func biggsEXP6CGAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6CGAnalyticStepFloor) float64 {
 	if biggsEXP6CGAnalyticFinite(slope) || !biggsEXP6CGAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := biggsEXP6CGAnalyticMaxAbs(d)
 	biggsEXP6CGAnalyticShrinkDirection(d, g)
-	return biggsEXP6CGAnalyticDot(g, d), tiny * (before / biggsEXP6CGAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / biggsEXP6CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return biggsEXP6CGAnalyticDot(g, d)
 }
 
 // biggsEXP6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1142,7 +1168,7 @@ func biggsEXP6CGAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 }
 
 // biggsEXP6CGAnalyticStepCap: without bounds a step may be as long as the search wants.
-func biggsEXP6CGAnalyticStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6CGAnalyticBox) float64 {
+func biggsEXP6CGAnalyticStepCap(x, d *[6]float64, floor *biggsEXP6CGAnalyticStepFloor, diffs *biggsEXP6CGAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *box3DCGCentralDescent) judge() {
 func (r *box3DCGCentralDescent) search() {
 	box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := box3DCGCentralDot(&r.g, &r.d)
-	if !(now < 0) || !box3DCGCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see box3DCGCentralShortenAlong).
+	if !(now < 0) || !box3DCGCentralFinite(now) && !box3DCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		box3DCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = box3DCGCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *box3DCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := box3DCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := box3DCGCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [3]float64
-	found := box3DCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := box3DCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !box3DCGCentralFinite(now) {
 		now = box3DCGCentralDot(&r.g, &r.d) // the search shortened d (see box3DCGCentralShortenAlong)
@@ -1084,6 +1087,26 @@ func box3DCGCentralSolveDirection(dir *box3DCGCentralDirection, g, d *[3]float64
 	dir.compute(g, d)
 }
 
+// box3DCGCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (box3DCGCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type box3DCGCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // box3DCGCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *box3DCGCentralStepFloor) at(x, d *[3]float64, diffs *box3DCGCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = box3DCGCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // box3DCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·box3DCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGCentralDifferences) float64 {
@@ -1123,21 +1146,21 @@ func box3DCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGCentral
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
-	slope, tiny = box3DCGCentralShortenAlong(g, d, slope, tiny)
+func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
+	slope = box3DCGCentralShortenAlong(g, d, slope, floor)
 	low := box3DCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DCGCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := box3DCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend box3DCGCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := box3DCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < box3DCGCentralStepTrials; trial++ {
-		if bracketed && box3DCGCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && box3DCGCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1207,16 +1230,19 @@ type box3DCGCentralSearchEnd uint8
 // box3DCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (box3DCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DCGCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+func box3DCGCentralShortenAlong(g, d *[3]float64, slope float64, floor *box3DCGCentralStepFloor) float64 {
 	if box3DCGCentralFinite(slope) || !box3DCGCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := box3DCGCentralMaxAbs(d)
 	box3DCGCentralShrinkDirection(d, g)
-	return box3DCGCentralDot(g, d), tiny * (before / box3DCGCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / box3DCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return box3DCGCentralDot(g, d)
 }
 
 // box3DCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1321,7 +1347,7 @@ func box3DCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 }
 
 // box3DCGCentralStepCap: without bounds a step may be as long as the search wants.
-func box3DCGCentralStepCap(x, d *[3]float64, tiny float64, b *box3DCGCentralBox) float64 {
+func box3DCGCentralStepCap(x, d *[3]float64, floor *box3DCGCentralStepFloor, diffs *box3DCGCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

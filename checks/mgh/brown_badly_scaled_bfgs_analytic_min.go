@@ -457,7 +457,10 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) judge() {
 func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
 	brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !brownBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see brownBadlyScaledBFGSAnalyticShortenAlong).
+	if !(now < 0) || !brownBadlyScaledBFGSAnalyticFinite(now) && !brownBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		brownBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := brownBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := brownBadlyScaledBFGSAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := brownBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := brownBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !brownBadlyScaledBFGSAnalyticFinite(now) {
 		now = brownBadlyScaledBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see brownBadlyScaledBFGSAnalyticShortenAlong)
@@ -915,6 +918,26 @@ func brownBadlyScaledBFGSAnalyticSolveDirection(dir *brownBadlyScaledBFGSAnalyti
 	dir.compute(g, d)
 }
 
+// brownBadlyScaledBFGSAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (brownBadlyScaledBFGSAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type brownBadlyScaledBFGSAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // brownBadlyScaledBFGSAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *brownBadlyScaledBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = brownBadlyScaledBFGSAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // brownBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·brownBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
@@ -954,21 +977,21 @@ func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
-	slope, tiny = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, tiny)
+func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
+	slope = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor)
 	low := brownBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := brownBadlyScaledBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend brownBadlyScaledBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := brownBadlyScaledBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledBFGSAnalyticStepTrials; trial++ {
-		if bracketed && brownBadlyScaledBFGSAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && brownBadlyScaledBFGSAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1038,16 +1061,19 @@ type brownBadlyScaledBFGSAnalyticSearchEnd uint8
 // brownBadlyScaledBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func brownBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledBFGSAnalyticStepFloor) float64 {
 	if brownBadlyScaledBFGSAnalyticFinite(slope) || !brownBadlyScaledBFGSAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := brownBadlyScaledBFGSAnalyticMaxAbs(d)
 	brownBadlyScaledBFGSAnalyticShrinkDirection(d, g)
-	return brownBadlyScaledBFGSAnalyticDot(g, d), tiny * (before / brownBadlyScaledBFGSAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / brownBadlyScaledBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return brownBadlyScaledBFGSAnalyticDot(g, d)
 }
 
 // brownBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1152,7 +1178,7 @@ func brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) b
 }
 
 // brownBadlyScaledBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
-func brownBadlyScaledBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledBFGSAnalyticBox) float64 {
+func brownBadlyScaledBFGSAnalyticStepCap(x, d *[2]float64, floor *brownBadlyScaledBFGSAnalyticStepFloor, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

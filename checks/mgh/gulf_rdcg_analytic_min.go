@@ -457,7 +457,10 @@ func (r *gulfRDCGAnalyticDescent) judge() {
 func (r *gulfRDCGAnalyticDescent) search() {
 	gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDCGAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !gulfRDCGAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see gulfRDCGAnalyticShortenAlong).
+	if !(now < 0) || !gulfRDCGAnalyticFinite(now) && !gulfRDCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		gulfRDCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDCGAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *gulfRDCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gulfRDCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := gulfRDCGAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [3]float64
-	found := gulfRDCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := gulfRDCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !gulfRDCGAnalyticFinite(now) {
 		now = gulfRDCGAnalyticDot(&r.g, &r.d) // the search shortened d (see gulfRDCGAnalyticShortenAlong)
@@ -905,6 +908,26 @@ func gulfRDCGAnalyticSolveDirection(dir *gulfRDCGAnalyticDirection, g, d *[3]flo
 	dir.compute(g, d)
 }
 
+// gulfRDCGAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (gulfRDCGAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type gulfRDCGAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // gulfRDCGAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *gulfRDCGAnalyticStepFloor) at(x, d *[3]float64, diffs *gulfRDCGAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = gulfRDCGAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // gulfRDCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gulfRDCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGAnalyticDifferences) float64 {
@@ -944,21 +967,21 @@ func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGAnal
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
-	slope, tiny = gulfRDCGAnalyticShortenAlong(g, d, slope, tiny)
+func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
+	slope = gulfRDCGAnalyticShortenAlong(g, d, slope, floor)
 	low := gulfRDCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := gulfRDCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend gulfRDCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := gulfRDCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < gulfRDCGAnalyticStepTrials; trial++ {
-		if bracketed && gulfRDCGAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && gulfRDCGAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1028,16 +1051,19 @@ type gulfRDCGAnalyticSearchEnd uint8
 // gulfRDCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (gulfRDCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDCGAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+func gulfRDCGAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDCGAnalyticStepFloor) float64 {
 	if gulfRDCGAnalyticFinite(slope) || !gulfRDCGAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := gulfRDCGAnalyticMaxAbs(d)
 	gulfRDCGAnalyticShrinkDirection(d, g)
-	return gulfRDCGAnalyticDot(g, d), tiny * (before / gulfRDCGAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / gulfRDCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return gulfRDCGAnalyticDot(g, d)
 }
 
 // gulfRDCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1142,7 +1168,7 @@ func gulfRDCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 }
 
 // gulfRDCGAnalyticStepCap: without bounds a step may be as long as the search wants.
-func gulfRDCGAnalyticStepCap(x, d *[3]float64, tiny float64, b *gulfRDCGAnalyticBox) float64 {
+func gulfRDCGAnalyticStepCap(x, d *[3]float64, floor *gulfRDCGAnalyticStepFloor, diffs *gulfRDCGAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

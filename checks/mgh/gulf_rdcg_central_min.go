@@ -457,7 +457,10 @@ func (r *gulfRDCGCentralDescent) judge() {
 func (r *gulfRDCGCentralDescent) search() {
 	gulfRDCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := gulfRDCGCentralDot(&r.g, &r.d)
-	if !(now < 0) || !gulfRDCGCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see gulfRDCGCentralShortenAlong).
+	if !(now < 0) || !gulfRDCGCentralFinite(now) && !gulfRDCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		gulfRDCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = gulfRDCGCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *gulfRDCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := gulfRDCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := gulfRDCGCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [3]float64
-	found := gulfRDCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := gulfRDCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !gulfRDCGCentralFinite(now) {
 		now = gulfRDCGCentralDot(&r.g, &r.d) // the search shortened d (see gulfRDCGCentralShortenAlong)
@@ -1084,6 +1087,26 @@ func gulfRDCGCentralSolveDirection(dir *gulfRDCGCentralDirection, g, d *[3]float
 	dir.compute(g, d)
 }
 
+// gulfRDCGCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (gulfRDCGCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type gulfRDCGCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // gulfRDCGCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *gulfRDCGCentralStepFloor) at(x, d *[3]float64, diffs *gulfRDCGCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = gulfRDCGCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // gulfRDCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·gulfRDCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGCentralDifferences) float64 {
@@ -1123,21 +1146,21 @@ func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGCentr
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
-	slope, tiny = gulfRDCGCentralShortenAlong(g, d, slope, tiny)
+func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
+	slope = gulfRDCGCentralShortenAlong(g, d, slope, floor)
 	low := gulfRDCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDCGCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := gulfRDCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend gulfRDCGCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := gulfRDCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < gulfRDCGCentralStepTrials; trial++ {
-		if bracketed && gulfRDCGCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && gulfRDCGCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1207,16 +1230,19 @@ type gulfRDCGCentralSearchEnd uint8
 // gulfRDCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (gulfRDCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDCGCentralShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+func gulfRDCGCentralShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDCGCentralStepFloor) float64 {
 	if gulfRDCGCentralFinite(slope) || !gulfRDCGCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := gulfRDCGCentralMaxAbs(d)
 	gulfRDCGCentralShrinkDirection(d, g)
-	return gulfRDCGCentralDot(g, d), tiny * (before / gulfRDCGCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / gulfRDCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return gulfRDCGCentralDot(g, d)
 }
 
 // gulfRDCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1321,7 +1347,7 @@ func gulfRDCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 }
 
 // gulfRDCGCentralStepCap: without bounds a step may be as long as the search wants.
-func gulfRDCGCentralStepCap(x, d *[3]float64, tiny float64, b *gulfRDCGCentralBox) float64 {
+func gulfRDCGCentralStepCap(x, d *[3]float64, floor *gulfRDCGCentralStepFloor, diffs *gulfRDCGCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *helicalValleyBFGSAnalyticDescent) judge() {
 func (r *helicalValleyBFGSAnalyticDescent) search() {
 	helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := helicalValleyBFGSAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !helicalValleyBFGSAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see helicalValleyBFGSAnalyticShortenAlong).
+	if !(now < 0) || !helicalValleyBFGSAnalyticFinite(now) && !helicalValleyBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		helicalValleyBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = helicalValleyBFGSAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *helicalValleyBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := helicalValleyBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := helicalValleyBFGSAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [3]float64
-	found := helicalValleyBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := helicalValleyBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !helicalValleyBFGSAnalyticFinite(now) {
 		now = helicalValleyBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see helicalValleyBFGSAnalyticShortenAlong)
@@ -914,6 +917,26 @@ func helicalValleyBFGSAnalyticSolveDirection(dir *helicalValleyBFGSAnalyticDirec
 	dir.compute(g, d)
 }
 
+// helicalValleyBFGSAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (helicalValleyBFGSAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type helicalValleyBFGSAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // helicalValleyBFGSAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *helicalValleyBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = helicalValleyBFGSAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // helicalValleyBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·helicalValleyBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
@@ -953,21 +976,21 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *hel
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
-	slope, tiny = helicalValleyBFGSAnalyticShortenAlong(g, d, slope, tiny)
+func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
+	slope = helicalValleyBFGSAnalyticShortenAlong(g, d, slope, floor)
 	low := helicalValleyBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend helicalValleyBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := helicalValleyBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend helicalValleyBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := helicalValleyBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < helicalValleyBFGSAnalyticStepTrials; trial++ {
-		if bracketed && helicalValleyBFGSAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && helicalValleyBFGSAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1037,16 +1060,19 @@ type helicalValleyBFGSAnalyticSearchEnd uint8
 // helicalValleyBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (helicalValleyBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyBFGSAnalyticShortenAlong(g, d *[3]float64, slope, tiny float64) (float64, float64) {
+func helicalValleyBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyBFGSAnalyticStepFloor) float64 {
 	if helicalValleyBFGSAnalyticFinite(slope) || !helicalValleyBFGSAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := helicalValleyBFGSAnalyticMaxAbs(d)
 	helicalValleyBFGSAnalyticShrinkDirection(d, g)
-	return helicalValleyBFGSAnalyticDot(g, d), tiny * (before / helicalValleyBFGSAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / helicalValleyBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return helicalValleyBFGSAnalyticDot(g, d)
 }
 
 // helicalValleyBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1151,7 +1177,7 @@ func helicalValleyBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool
 }
 
 // helicalValleyBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
-func helicalValleyBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *helicalValleyBFGSAnalyticBox) float64 {
+func helicalValleyBFGSAnalyticStepCap(x, d *[3]float64, floor *helicalValleyBFGSAnalyticStepFloor, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *penaltyI10CGCentralDescent) judge() {
 func (r *penaltyI10CGCentralDescent) search() {
 	penaltyI10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI10CGCentralDot(&r.g, &r.d)
-	if !(now < 0) || !penaltyI10CGCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see penaltyI10CGCentralShortenAlong).
+	if !(now < 0) || !penaltyI10CGCentralFinite(now) && !penaltyI10CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		penaltyI10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI10CGCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *penaltyI10CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI10CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := penaltyI10CGCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [10]float64
-	found := penaltyI10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := penaltyI10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !penaltyI10CGCentralFinite(now) {
 		now = penaltyI10CGCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI10CGCentralShortenAlong)
@@ -1084,6 +1087,26 @@ func penaltyI10CGCentralSolveDirection(dir *penaltyI10CGCentralDirection, g, d *
 	dir.compute(g, d)
 }
 
+// penaltyI10CGCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (penaltyI10CGCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type penaltyI10CGCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // penaltyI10CGCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *penaltyI10CGCentralStepFloor) at(x, d *[10]float64, diffs *penaltyI10CGCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = penaltyI10CGCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // penaltyI10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI10CGCentralDifferences) float64 {
@@ -1123,21 +1146,21 @@ func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
-	slope, tiny = penaltyI10CGCentralShortenAlong(g, d, slope, tiny)
+func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
+	slope = penaltyI10CGCentralShortenAlong(g, d, slope, floor)
 	low := penaltyI10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI10CGCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := penaltyI10CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend penaltyI10CGCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := penaltyI10CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < penaltyI10CGCentralStepTrials; trial++ {
-		if bracketed && penaltyI10CGCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && penaltyI10CGCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1207,16 +1230,19 @@ type penaltyI10CGCentralSearchEnd uint8
 // penaltyI10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (penaltyI10CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10CGCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+func penaltyI10CGCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10CGCentralStepFloor) float64 {
 	if penaltyI10CGCentralFinite(slope) || !penaltyI10CGCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := penaltyI10CGCentralMaxAbs(d)
 	penaltyI10CGCentralShrinkDirection(d, g)
-	return penaltyI10CGCentralDot(g, d), tiny * (before / penaltyI10CGCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / penaltyI10CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return penaltyI10CGCentralDot(g, d)
 }
 
 // penaltyI10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1321,7 +1347,7 @@ func penaltyI10CGCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
 }
 
 // penaltyI10CGCentralStepCap: without bounds a step may be as long as the search wants.
-func penaltyI10CGCentralStepCap(x, d *[10]float64, tiny float64, b *penaltyI10CGCentralBox) float64 {
+func penaltyI10CGCentralStepCap(x, d *[10]float64, floor *penaltyI10CGCentralStepFloor, diffs *penaltyI10CGCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *penaltyI4CGCentralDescent) judge() {
 func (r *penaltyI4CGCentralDescent) search() {
 	penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := penaltyI4CGCentralDot(&r.g, &r.d)
-	if !(now < 0) || !penaltyI4CGCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see penaltyI4CGCentralShortenAlong).
+	if !(now < 0) || !penaltyI4CGCentralFinite(now) && !penaltyI4CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		penaltyI4CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = penaltyI4CGCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *penaltyI4CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := penaltyI4CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := penaltyI4CGCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [4]float64
-	found := penaltyI4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := penaltyI4CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !penaltyI4CGCentralFinite(now) {
 		now = penaltyI4CGCentralDot(&r.g, &r.d) // the search shortened d (see penaltyI4CGCentralShortenAlong)
@@ -1084,6 +1087,26 @@ func penaltyI4CGCentralSolveDirection(dir *penaltyI4CGCentralDirection, g, d *[4
 	dir.compute(g, d)
 }
 
+// penaltyI4CGCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (penaltyI4CGCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type penaltyI4CGCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // penaltyI4CGCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *penaltyI4CGCentralStepFloor) at(x, d *[4]float64, diffs *penaltyI4CGCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = penaltyI4CGCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // penaltyI4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·penaltyI4CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4CGCentralDifferences) float64 {
@@ -1123,21 +1146,21 @@ func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4C
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4CGCentralDifferences) penaltyI4CGCentralLineResult {
-	slope, tiny = penaltyI4CGCentralShortenAlong(g, d, slope, tiny)
+func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4CGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4CGCentralDifferences) penaltyI4CGCentralLineResult {
+	slope = penaltyI4CGCentralShortenAlong(g, d, slope, floor)
 	low := penaltyI4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI4CGCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := penaltyI4CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend penaltyI4CGCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := penaltyI4CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < penaltyI4CGCentralStepTrials; trial++ {
-		if bracketed && penaltyI4CGCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && penaltyI4CGCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1207,16 +1230,19 @@ type penaltyI4CGCentralSearchEnd uint8
 // penaltyI4CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (penaltyI4CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4CGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+func penaltyI4CGCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4CGCentralStepFloor) float64 {
 	if penaltyI4CGCentralFinite(slope) || !penaltyI4CGCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := penaltyI4CGCentralMaxAbs(d)
 	penaltyI4CGCentralShrinkDirection(d, g)
-	return penaltyI4CGCentralDot(g, d), tiny * (before / penaltyI4CGCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / penaltyI4CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return penaltyI4CGCentralDot(g, d)
 }
 
 // penaltyI4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1321,7 +1347,7 @@ func penaltyI4CGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 }
 
 // penaltyI4CGCentralStepCap: without bounds a step may be as long as the search wants.
-func penaltyI4CGCentralStepCap(x, d *[4]float64, tiny float64, b *penaltyI4CGCentralBox) float64 {
+func penaltyI4CGCentralStepCap(x, d *[4]float64, floor *penaltyI4CGCentralStepFloor, diffs *penaltyI4CGCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) judge() {
 func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
 	powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !powellBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see powellBadlyScaledBFGSAnalyticShortenAlong).
+	if !(now < 0) || !powellBadlyScaledBFGSAnalyticFinite(now) && !powellBadlyScaledBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		powellBadlyScaledBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellBadlyScaledBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := powellBadlyScaledBFGSAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := powellBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := powellBadlyScaledBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !powellBadlyScaledBFGSAnalyticFinite(now) {
 		now = powellBadlyScaledBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see powellBadlyScaledBFGSAnalyticShortenAlong)
@@ -915,6 +918,26 @@ func powellBadlyScaledBFGSAnalyticSolveDirection(dir *powellBadlyScaledBFGSAnaly
 	dir.compute(g, d)
 }
 
+// powellBadlyScaledBFGSAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (powellBadlyScaledBFGSAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type powellBadlyScaledBFGSAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // powellBadlyScaledBFGSAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *powellBadlyScaledBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = powellBadlyScaledBFGSAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // powellBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
@@ -954,21 +977,21 @@ func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
-	slope, tiny = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, tiny)
+func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
+	slope = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor)
 	low := powellBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellBadlyScaledBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := powellBadlyScaledBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend powellBadlyScaledBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := powellBadlyScaledBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < powellBadlyScaledBFGSAnalyticStepTrials; trial++ {
-		if bracketed && powellBadlyScaledBFGSAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && powellBadlyScaledBFGSAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1038,16 +1061,19 @@ type powellBadlyScaledBFGSAnalyticSearchEnd uint8
 // powellBadlyScaledBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func powellBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledBFGSAnalyticStepFloor) float64 {
 	if powellBadlyScaledBFGSAnalyticFinite(slope) || !powellBadlyScaledBFGSAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := powellBadlyScaledBFGSAnalyticMaxAbs(d)
 	powellBadlyScaledBFGSAnalyticShrinkDirection(d, g)
-	return powellBadlyScaledBFGSAnalyticDot(g, d), tiny * (before / powellBadlyScaledBFGSAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / powellBadlyScaledBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return powellBadlyScaledBFGSAnalyticDot(g, d)
 }
 
 // powellBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1152,7 +1178,7 @@ func powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) 
 }
 
 // powellBadlyScaledBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
-func powellBadlyScaledBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *powellBadlyScaledBFGSAnalyticBox) float64 {
+func powellBadlyScaledBFGSAnalyticStepCap(x, d *[2]float64, floor *powellBadlyScaledBFGSAnalyticStepFloor, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *powellSingularBFGSCentralDescent) judge() {
 func (r *powellSingularBFGSCentralDescent) search() {
 	powellSingularBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularBFGSCentralDot(&r.g, &r.d)
-	if !(now < 0) || !powellSingularBFGSCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see powellSingularBFGSCentralShortenAlong).
+	if !(now < 0) || !powellSingularBFGSCentralFinite(now) && !powellSingularBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		powellSingularBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularBFGSCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *powellSingularBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := powellSingularBFGSCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [4]float64
-	found := powellSingularBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := powellSingularBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !powellSingularBFGSCentralFinite(now) {
 		now = powellSingularBFGSCentralDot(&r.g, &r.d) // the search shortened d (see powellSingularBFGSCentralShortenAlong)
@@ -1093,6 +1096,26 @@ func powellSingularBFGSCentralSolveDirection(dir *powellSingularBFGSCentralDirec
 	dir.compute(g, d)
 }
 
+// powellSingularBFGSCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (powellSingularBFGSCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type powellSingularBFGSCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // powellSingularBFGSCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *powellSingularBFGSCentralStepFloor) at(x, d *[4]float64, diffs *powellSingularBFGSCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = powellSingularBFGSCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // powellSingularBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularBFGSCentralDifferences) float64 {
@@ -1132,21 +1155,21 @@ func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *pow
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
-	slope, tiny = powellSingularBFGSCentralShortenAlong(g, d, slope, tiny)
+func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
+	slope = powellSingularBFGSCentralShortenAlong(g, d, slope, floor)
 	low := powellSingularBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := powellSingularBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend powellSingularBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := powellSingularBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < powellSingularBFGSCentralStepTrials; trial++ {
-		if bracketed && powellSingularBFGSCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && powellSingularBFGSCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1216,16 +1239,19 @@ type powellSingularBFGSCentralSearchEnd uint8
 // powellSingularBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (powellSingularBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+func powellSingularBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularBFGSCentralStepFloor) float64 {
 	if powellSingularBFGSCentralFinite(slope) || !powellSingularBFGSCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := powellSingularBFGSCentralMaxAbs(d)
 	powellSingularBFGSCentralShrinkDirection(d, g)
-	return powellSingularBFGSCentralDot(g, d), tiny * (before / powellSingularBFGSCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / powellSingularBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return powellSingularBFGSCentralDot(g, d)
 }
 
 // powellSingularBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1330,7 +1356,7 @@ func powellSingularBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool
 }
 
 // powellSingularBFGSCentralStepCap: without bounds a step may be as long as the search wants.
-func powellSingularBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *powellSingularBFGSCentralBox) float64 {
+func powellSingularBFGSCentralStepCap(x, d *[4]float64, floor *powellSingularBFGSCentralStepFloor, diffs *powellSingularBFGSCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

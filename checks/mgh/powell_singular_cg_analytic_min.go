@@ -457,7 +457,10 @@ func (r *powellSingularCGAnalyticDescent) judge() {
 func (r *powellSingularCGAnalyticDescent) search() {
 	powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularCGAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !powellSingularCGAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see powellSingularCGAnalyticShortenAlong).
+	if !(now < 0) || !powellSingularCGAnalyticFinite(now) && !powellSingularCGAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		powellSingularCGAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularCGAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *powellSingularCGAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularCGAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := powellSingularCGAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [4]float64
-	found := powellSingularCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := powellSingularCGAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !powellSingularCGAnalyticFinite(now) {
 		now = powellSingularCGAnalyticDot(&r.g, &r.d) // the search shortened d (see powellSingularCGAnalyticShortenAlong)
@@ -905,6 +908,26 @@ func powellSingularCGAnalyticSolveDirection(dir *powellSingularCGAnalyticDirecti
 	dir.compute(g, d)
 }
 
+// powellSingularCGAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (powellSingularCGAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type powellSingularCGAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // powellSingularCGAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *powellSingularCGAnalyticStepFloor) at(x, d *[4]float64, diffs *powellSingularCGAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = powellSingularCGAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // powellSingularCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularCGAnalyticDifferences) float64 {
@@ -944,21 +967,21 @@ func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powe
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
-	slope, tiny = powellSingularCGAnalyticShortenAlong(g, d, slope, tiny)
+func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
+	slope = powellSingularCGAnalyticShortenAlong(g, d, slope, floor)
 	low := powellSingularCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := powellSingularCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend powellSingularCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := powellSingularCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < powellSingularCGAnalyticStepTrials; trial++ {
-		if bracketed && powellSingularCGAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && powellSingularCGAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1028,16 +1051,19 @@ type powellSingularCGAnalyticSearchEnd uint8
 // powellSingularCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularCGAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (powellSingularCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularCGAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+func powellSingularCGAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularCGAnalyticStepFloor) float64 {
 	if powellSingularCGAnalyticFinite(slope) || !powellSingularCGAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := powellSingularCGAnalyticMaxAbs(d)
 	powellSingularCGAnalyticShrinkDirection(d, g)
-	return powellSingularCGAnalyticDot(g, d), tiny * (before / powellSingularCGAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / powellSingularCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return powellSingularCGAnalyticDot(g, d)
 }
 
 // powellSingularCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1142,7 +1168,7 @@ func powellSingularCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool 
 }
 
 // powellSingularCGAnalyticStepCap: without bounds a step may be as long as the search wants.
-func powellSingularCGAnalyticStepCap(x, d *[4]float64, tiny float64, b *powellSingularCGAnalyticBox) float64 {
+func powellSingularCGAnalyticStepCap(x, d *[4]float64, floor *powellSingularCGAnalyticStepFloor, diffs *powellSingularCGAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -458,7 +458,10 @@ func (r *powellSingularLBFGSAnalyticDescent) judge() {
 func (r *powellSingularLBFGSAnalyticDescent) search() {
 	powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := powellSingularLBFGSAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !powellSingularLBFGSAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see powellSingularLBFGSAnalyticShortenAlong).
+	if !(now < 0) || !powellSingularLBFGSAnalyticFinite(now) && !powellSingularLBFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		powellSingularLBFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = powellSingularLBFGSAnalyticDot(&r.g, &r.d)
@@ -467,9 +470,9 @@ func (r *powellSingularLBFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := powellSingularLBFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := powellSingularLBFGSAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [4]float64
-	found := powellSingularLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := powellSingularLBFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !powellSingularLBFGSAnalyticFinite(now) {
 		now = powellSingularLBFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see powellSingularLBFGSAnalyticShortenAlong)
@@ -948,6 +951,26 @@ func powellSingularLBFGSAnalyticSolveDirection(dir *powellSingularLBFGSAnalyticD
 	dir.compute(g, d)
 }
 
+// powellSingularLBFGSAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (powellSingularLBFGSAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type powellSingularLBFGSAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // powellSingularLBFGSAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *powellSingularLBFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = powellSingularLBFGSAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // powellSingularLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·powellSingularLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
@@ -987,21 +1010,21 @@ func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *p
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
-	slope, tiny = powellSingularLBFGSAnalyticShortenAlong(g, d, slope, tiny)
+func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
+	slope = powellSingularLBFGSAnalyticShortenAlong(g, d, slope, floor)
 	low := powellSingularLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := powellSingularLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend powellSingularLBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := powellSingularLBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < powellSingularLBFGSAnalyticStepTrials; trial++ {
-		if bracketed && powellSingularLBFGSAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && powellSingularLBFGSAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1071,16 +1094,19 @@ type powellSingularLBFGSAnalyticSearchEnd uint8
 // powellSingularLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularLBFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (powellSingularLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularLBFGSAnalyticShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+func powellSingularLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularLBFGSAnalyticStepFloor) float64 {
 	if powellSingularLBFGSAnalyticFinite(slope) || !powellSingularLBFGSAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := powellSingularLBFGSAnalyticMaxAbs(d)
 	powellSingularLBFGSAnalyticShrinkDirection(d, g)
-	return powellSingularLBFGSAnalyticDot(g, d), tiny * (before / powellSingularLBFGSAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / powellSingularLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return powellSingularLBFGSAnalyticDot(g, d)
 }
 
 // powellSingularLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1185,7 +1211,7 @@ func powellSingularLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bo
 }
 
 // powellSingularLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
-func powellSingularLBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *powellSingularLBFGSAnalyticBox) float64 {
+func powellSingularLBFGSAnalyticStepCap(x, d *[4]float64, floor *powellSingularLBFGSAnalyticStepFloor, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

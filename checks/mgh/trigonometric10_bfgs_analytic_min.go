@@ -457,7 +457,10 @@ func (r *trigonometric10BFGSAnalyticDescent) judge() {
 func (r *trigonometric10BFGSAnalyticDescent) search() {
 	trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := trigonometric10BFGSAnalyticDot(&r.g, &r.d)
-	if !(now < 0) || !trigonometric10BFGSAnalyticFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see trigonometric10BFGSAnalyticShortenAlong).
+	if !(now < 0) || !trigonometric10BFGSAnalyticFinite(now) && !trigonometric10BFGSAnalyticFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		trigonometric10BFGSAnalyticSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = trigonometric10BFGSAnalyticDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *trigonometric10BFGSAnalyticDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := trigonometric10BFGSAnalyticTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := trigonometric10BFGSAnalyticStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [10]float64
-	found := trigonometric10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := trigonometric10BFGSAnalyticLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !trigonometric10BFGSAnalyticFinite(now) {
 		now = trigonometric10BFGSAnalyticDot(&r.g, &r.d) // the search shortened d (see trigonometric10BFGSAnalyticShortenAlong)
@@ -915,6 +918,26 @@ func trigonometric10BFGSAnalyticSolveDirection(dir *trigonometric10BFGSAnalyticD
 	dir.compute(g, d)
 }
 
+// trigonometric10BFGSAnalyticStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (trigonometric10BFGSAnalyticTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type trigonometric10BFGSAnalyticStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // trigonometric10BFGSAnalyticTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *trigonometric10BFGSAnalyticStepFloor) at(x, d *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) float64 {
+	if !f.known {
+		f.value, f.known = trigonometric10BFGSAnalyticTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // trigonometric10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·trigonometric10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10BFGSAnalyticDifferences) float64 {
@@ -954,21 +977,21 @@ func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
-	slope, tiny = trigonometric10BFGSAnalyticShortenAlong(g, d, slope, tiny)
+func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
+	slope = trigonometric10BFGSAnalyticShortenAlong(g, d, slope, floor)
 	low := trigonometric10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend trigonometric10BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
-	limit := trigonometric10BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend trigonometric10BFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
+	limit := trigonometric10BFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < trigonometric10BFGSAnalyticStepTrials; trial++ {
-		if bracketed && trigonometric10BFGSAnalyticAbs(high.step-low.step) <= tiny {
+		if bracketed && trigonometric10BFGSAnalyticAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1038,16 +1061,19 @@ type trigonometric10BFGSAnalyticSearchEnd uint8
 // trigonometric10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10BFGSAnalyticShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (trigonometric10BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10BFGSAnalyticShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+func trigonometric10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10BFGSAnalyticStepFloor) float64 {
 	if trigonometric10BFGSAnalyticFinite(slope) || !trigonometric10BFGSAnalyticFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := trigonometric10BFGSAnalyticMaxAbs(d)
 	trigonometric10BFGSAnalyticShrinkDirection(d, g)
-	return trigonometric10BFGSAnalyticDot(g, d), tiny * (before / trigonometric10BFGSAnalyticMaxAbs(d))
+	if floor.known {
+		floor.value *= before / trigonometric10BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return trigonometric10BFGSAnalyticDot(g, d)
 }
 
 // trigonometric10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1152,7 +1178,7 @@ func trigonometric10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) b
 }
 
 // trigonometric10BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
-func trigonometric10BFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *trigonometric10BFGSAnalyticBox) float64 {
+func trigonometric10BFGSAnalyticStepCap(x, d *[10]float64, floor *trigonometric10BFGSAnalyticStepFloor, diffs *trigonometric10BFGSAnalyticDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *variablyDimensioned10CGCentralDescent) judge() {
 func (r *variablyDimensioned10CGCentralDescent) search() {
 	variablyDimensioned10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := variablyDimensioned10CGCentralDot(&r.g, &r.d)
-	if !(now < 0) || !variablyDimensioned10CGCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see variablyDimensioned10CGCentralShortenAlong).
+	if !(now < 0) || !variablyDimensioned10CGCentralFinite(now) && !variablyDimensioned10CGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		variablyDimensioned10CGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = variablyDimensioned10CGCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *variablyDimensioned10CGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := variablyDimensioned10CGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := variablyDimensioned10CGCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [10]float64
-	found := variablyDimensioned10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := variablyDimensioned10CGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !variablyDimensioned10CGCentralFinite(now) {
 		now = variablyDimensioned10CGCentralDot(&r.g, &r.d) // the search shortened d (see variablyDimensioned10CGCentralShortenAlong)
@@ -1085,6 +1088,26 @@ func variablyDimensioned10CGCentralSolveDirection(dir *variablyDimensioned10CGCe
 	dir.compute(g, d)
 }
 
+// variablyDimensioned10CGCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (variablyDimensioned10CGCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type variablyDimensioned10CGCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // variablyDimensioned10CGCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *variablyDimensioned10CGCentralStepFloor) at(x, d *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = variablyDimensioned10CGCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // variablyDimensioned10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·variablyDimensioned10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10CGCentralDifferences) float64 {
@@ -1124,21 +1147,21 @@ func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64, diff
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) variablyDimensioned10CGCentralLineResult {
-	slope, tiny = variablyDimensioned10CGCentralShortenAlong(g, d, slope, tiny)
+func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) variablyDimensioned10CGCentralLineResult {
+	slope = variablyDimensioned10CGCentralShortenAlong(g, d, slope, floor)
 	low := variablyDimensioned10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend variablyDimensioned10CGCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := variablyDimensioned10CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend variablyDimensioned10CGCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := variablyDimensioned10CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < variablyDimensioned10CGCentralStepTrials; trial++ {
-		if bracketed && variablyDimensioned10CGCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && variablyDimensioned10CGCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1208,16 +1231,19 @@ type variablyDimensioned10CGCentralSearchEnd uint8
 // variablyDimensioned10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10CGCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10CGCentralShortenAlong(g, d *[10]float64, slope, tiny float64) (float64, float64) {
+func variablyDimensioned10CGCentralShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10CGCentralStepFloor) float64 {
 	if variablyDimensioned10CGCentralFinite(slope) || !variablyDimensioned10CGCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := variablyDimensioned10CGCentralMaxAbs(d)
 	variablyDimensioned10CGCentralShrinkDirection(d, g)
-	return variablyDimensioned10CGCentralDot(g, d), tiny * (before / variablyDimensioned10CGCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / variablyDimensioned10CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return variablyDimensioned10CGCentralDot(g, d)
 }
 
 // variablyDimensioned10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1322,7 +1348,7 @@ func variablyDimensioned10CGCentralFaithfulStep(x, xt, d *[10]float64, t float64
 }
 
 // variablyDimensioned10CGCentralStepCap: without bounds a step may be as long as the search wants.
-func variablyDimensioned10CGCentralStepCap(x, d *[10]float64, tiny float64, b *variablyDimensioned10CGCentralBox) float64 {
+func variablyDimensioned10CGCentralStepCap(x, d *[10]float64, floor *variablyDimensioned10CGCentralStepFloor, diffs *variablyDimensioned10CGCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *watson6BFGSCentralDescent) judge() {
 func (r *watson6BFGSCentralDescent) search() {
 	watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson6BFGSCentralDot(&r.g, &r.d)
-	if !(now < 0) || !watson6BFGSCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see watson6BFGSCentralShortenAlong).
+	if !(now < 0) || !watson6BFGSCentralFinite(now) && !watson6BFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		watson6BFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson6BFGSCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *watson6BFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson6BFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := watson6BFGSCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [6]float64
-	found := watson6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := watson6BFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !watson6BFGSCentralFinite(now) {
 		now = watson6BFGSCentralDot(&r.g, &r.d) // the search shortened d (see watson6BFGSCentralShortenAlong)
@@ -1093,6 +1096,26 @@ func watson6BFGSCentralSolveDirection(dir *watson6BFGSCentralDirection, g, d *[6
 	dir.compute(g, d)
 }
 
+// watson6BFGSCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (watson6BFGSCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type watson6BFGSCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // watson6BFGSCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *watson6BFGSCentralStepFloor) at(x, d *[6]float64, diffs *watson6BFGSCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = watson6BFGSCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // watson6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFGSCentralDifferences) float64 {
@@ -1132,21 +1155,21 @@ func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFG
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6BFGSCentralDifferences) watson6BFGSCentralLineResult {
-	slope, tiny = watson6BFGSCentralShortenAlong(g, d, slope, tiny)
+func watson6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6BFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6BFGSCentralDifferences) watson6BFGSCentralLineResult {
+	slope = watson6BFGSCentralShortenAlong(g, d, slope, floor)
 	low := watson6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson6BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := watson6BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend watson6BFGSCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := watson6BFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < watson6BFGSCentralStepTrials; trial++ {
-		if bracketed && watson6BFGSCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && watson6BFGSCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1216,16 +1239,19 @@ type watson6BFGSCentralSearchEnd uint8
 // watson6BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6BFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (watson6BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6BFGSCentralShortenAlong(g, d *[6]float64, slope, tiny float64) (float64, float64) {
+func watson6BFGSCentralShortenAlong(g, d *[6]float64, slope float64, floor *watson6BFGSCentralStepFloor) float64 {
 	if watson6BFGSCentralFinite(slope) || !watson6BFGSCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := watson6BFGSCentralMaxAbs(d)
 	watson6BFGSCentralShrinkDirection(d, g)
-	return watson6BFGSCentralDot(g, d), tiny * (before / watson6BFGSCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / watson6BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return watson6BFGSCentralDot(g, d)
 }
 
 // watson6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1330,7 +1356,7 @@ func watson6BFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 }
 
 // watson6BFGSCentralStepCap: without bounds a step may be as long as the search wants.
-func watson6BFGSCentralStepCap(x, d *[6]float64, tiny float64, b *watson6BFGSCentralBox) float64 {
+func watson6BFGSCentralStepCap(x, d *[6]float64, floor *watson6BFGSCentralStepFloor, diffs *watson6BFGSCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -458,7 +458,10 @@ func (r *watson9LBFGSCentralDescent) judge() {
 func (r *watson9LBFGSCentralDescent) search() {
 	watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := watson9LBFGSCentralDot(&r.g, &r.d)
-	if !(now < 0) || !watson9LBFGSCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see watson9LBFGSCentralShortenAlong).
+	if !(now < 0) || !watson9LBFGSCentralFinite(now) && !watson9LBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		watson9LBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = watson9LBFGSCentralDot(&r.g, &r.d)
@@ -467,9 +470,9 @@ func (r *watson9LBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := watson9LBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := watson9LBFGSCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [9]float64
-	found := watson9LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := watson9LBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !watson9LBFGSCentralFinite(now) {
 		now = watson9LBFGSCentralDot(&r.g, &r.d) // the search shortened d (see watson9LBFGSCentralShortenAlong)
@@ -1126,6 +1129,26 @@ func watson9LBFGSCentralSolveDirection(dir *watson9LBFGSCentralDirection, g, d *
 	dir.compute(g, d)
 }
 
+// watson9LBFGSCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (watson9LBFGSCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type watson9LBFGSCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // watson9LBFGSCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *watson9LBFGSCentralStepFloor) at(x, d *[9]float64, diffs *watson9LBFGSCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = watson9LBFGSCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // watson9LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·watson9LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9LBFGSCentralDifferences) float64 {
@@ -1165,21 +1188,21 @@ func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9LB
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
-	slope, tiny = watson9LBFGSCentralShortenAlong(g, d, slope, tiny)
+func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9LBFGSCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
+	slope = watson9LBFGSCentralShortenAlong(g, d, slope, floor)
 	low := watson9LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := watson9LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend watson9LBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := watson9LBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < watson9LBFGSCentralStepTrials; trial++ {
-		if bracketed && watson9LBFGSCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && watson9LBFGSCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1249,16 +1272,19 @@ type watson9LBFGSCentralSearchEnd uint8
 // watson9LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9LBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (watson9LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9LBFGSCentralShortenAlong(g, d *[9]float64, slope, tiny float64) (float64, float64) {
+func watson9LBFGSCentralShortenAlong(g, d *[9]float64, slope float64, floor *watson9LBFGSCentralStepFloor) float64 {
 	if watson9LBFGSCentralFinite(slope) || !watson9LBFGSCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := watson9LBFGSCentralMaxAbs(d)
 	watson9LBFGSCentralShrinkDirection(d, g)
-	return watson9LBFGSCentralDot(g, d), tiny * (before / watson9LBFGSCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / watson9LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return watson9LBFGSCentralDot(g, d)
 }
 
 // watson9LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1363,7 +1389,7 @@ func watson9LBFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 }
 
 // watson9LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
-func watson9LBFGSCentralStepCap(x, d *[9]float64, tiny float64, b *watson9LBFGSCentralBox) float64 {
+func watson9LBFGSCentralStepCap(x, d *[9]float64, floor *watson9LBFGSCentralStepFloor, diffs *watson9LBFGSCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -457,7 +457,10 @@ func (r *woodCGCentralDescent) judge() {
 func (r *woodCGCentralDescent) search() {
 	woodCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodCGCentralDot(&r.g, &r.d)
-	if !(now < 0) || !woodCGCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see woodCGCentralShortenAlong).
+	if !(now < 0) || !woodCGCentralFinite(now) && !woodCGCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		woodCGCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodCGCentralDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *woodCGCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodCGCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := woodCGCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [4]float64
-	found := woodCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := woodCGCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !woodCGCentralFinite(now) {
 		now = woodCGCentralDot(&r.g, &r.d) // the search shortened d (see woodCGCentralShortenAlong)
@@ -1084,6 +1087,26 @@ func woodCGCentralSolveDirection(dir *woodCGCentralDirection, g, d *[4]float64, 
 	dir.compute(g, d)
 }
 
+// woodCGCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (woodCGCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type woodCGCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // woodCGCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *woodCGCentralStepFloor) at(x, d *[4]float64, diffs *woodCGCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = woodCGCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // woodCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodCGCentralDifferences) float64 {
@@ -1123,21 +1146,21 @@ func woodCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodCGCentralDi
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
-	slope, tiny = woodCGCentralShortenAlong(g, d, slope, tiny)
+func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
+	slope = woodCGCentralShortenAlong(g, d, slope, floor)
 	low := woodCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodCGCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := woodCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend woodCGCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := woodCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < woodCGCentralStepTrials; trial++ {
-		if bracketed && woodCGCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && woodCGCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1207,16 +1230,19 @@ type woodCGCentralSearchEnd uint8
 // woodCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodCGCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (woodCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func woodCGCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+func woodCGCentralShortenAlong(g, d *[4]float64, slope float64, floor *woodCGCentralStepFloor) float64 {
 	if woodCGCentralFinite(slope) || !woodCGCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := woodCGCentralMaxAbs(d)
 	woodCGCentralShrinkDirection(d, g)
-	return woodCGCentralDot(g, d), tiny * (before / woodCGCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / woodCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return woodCGCentralDot(g, d)
 }
 
 // woodCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1321,7 +1347,7 @@ func woodCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 }
 
 // woodCGCentralStepCap: without bounds a step may be as long as the search wants.
-func woodCGCentralStepCap(x, d *[4]float64, tiny float64, b *woodCGCentralBox) float64 {
+func woodCGCentralStepCap(x, d *[4]float64, floor *woodCGCentralStepFloor, diffs *woodCGCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

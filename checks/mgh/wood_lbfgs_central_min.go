@@ -458,7 +458,10 @@ func (r *woodLBFGSCentralDescent) judge() {
 func (r *woodLBFGSCentralDescent) search() {
 	woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := woodLBFGSCentralDot(&r.g, &r.d)
-	if !(now < 0) || !woodLBFGSCentralFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see woodLBFGSCentralShortenAlong).
+	if !(now < 0) || !woodLBFGSCentralFinite(now) && !woodLBFGSCentralFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		woodLBFGSCentralSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = woodLBFGSCentralDot(&r.g, &r.d)
@@ -467,9 +470,9 @@ func (r *woodLBFGSCentralDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := woodLBFGSCentralTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := woodLBFGSCentralStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [4]float64
-	found := woodLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := woodLBFGSCentralLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !woodLBFGSCentralFinite(now) {
 		now = woodLBFGSCentralDot(&r.g, &r.d) // the search shortened d (see woodLBFGSCentralShortenAlong)
@@ -1126,6 +1129,26 @@ func woodLBFGSCentralSolveDirection(dir *woodLBFGSCentralDirection, g, d *[4]flo
 	dir.compute(g, d)
 }
 
+// woodLBFGSCentralStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (woodLBFGSCentralTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type woodLBFGSCentralStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // woodLBFGSCentralTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *woodLBFGSCentralStepFloor) at(x, d *[4]float64, diffs *woodLBFGSCentralDifferences) float64 {
+	if !f.known {
+		f.value, f.known = woodLBFGSCentralTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // woodLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·woodLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSCentralDifferences) float64 {
@@ -1165,21 +1188,21 @@ func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSCen
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodLBFGSCentralDifferences) woodLBFGSCentralLineResult {
-	slope, tiny = woodLBFGSCentralShortenAlong(g, d, slope, tiny)
+func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodLBFGSCentralDifferences) woodLBFGSCentralLineResult {
+	slope = woodLBFGSCentralShortenAlong(g, d, slope, floor)
 	low := woodLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
-	limit := woodLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend woodLBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
+	limit := woodLBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < woodLBFGSCentralStepTrials; trial++ {
-		if bracketed && woodLBFGSCentralAbs(high.step-low.step) <= tiny {
+		if bracketed && woodLBFGSCentralAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1249,16 +1272,19 @@ type woodLBFGSCentralSearchEnd uint8
 // woodLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodLBFGSCentralShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (woodLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func woodLBFGSCentralShortenAlong(g, d *[4]float64, slope, tiny float64) (float64, float64) {
+func woodLBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *woodLBFGSCentralStepFloor) float64 {
 	if woodLBFGSCentralFinite(slope) || !woodLBFGSCentralFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := woodLBFGSCentralMaxAbs(d)
 	woodLBFGSCentralShrinkDirection(d, g)
-	return woodLBFGSCentralDot(g, d), tiny * (before / woodLBFGSCentralMaxAbs(d))
+	if floor.known {
+		floor.value *= before / woodLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return woodLBFGSCentralDot(g, d)
 }
 
 // woodLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -1363,7 +1389,7 @@ func woodLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 }
 
 // woodLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
-func woodLBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *woodLBFGSCentralBox) float64 {
+func woodLBFGSCentralStepCap(x, d *[4]float64, floor *woodLBFGSCentralStepFloor, diffs *woodLBFGSCentralDifferences) float64 {
 	return math.Inf(1)
 }
 

@@ -467,7 +467,10 @@ func (r *impliedVolDescent) judge(recv *Trade) {
 func (r *impliedVolDescent) search(recv *Trade) {
 	impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := impliedVolDot(&r.g, &r.d)
-	if !(now < 0) || !impliedVolFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see impliedVolShortenAlong).
+	if !(now < 0) || !impliedVolFinite(now) && !impliedVolFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		impliedVolSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = impliedVolDot(&r.g, &r.d)
@@ -476,9 +479,9 @@ func (r *impliedVolDescent) search(recv *Trade) {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := impliedVolTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := impliedVolStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [1]float64
-	found := impliedVolLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := impliedVolLineSearch(recv, &r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !impliedVolFinite(now) {
 		now = impliedVolDot(&r.g, &r.d) // the search shortened d (see impliedVolShortenAlong)
@@ -1011,6 +1014,26 @@ func impliedVolSolveDirection(dir *impliedVolDirection, g, d *[1]float64, diffs 
 	dir.compute(g, d)
 }
 
+// impliedVolStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (impliedVolTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type impliedVolStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // impliedVolTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *impliedVolStepFloor) at(x, d *[1]float64, diffs *impliedVolDifferences) float64 {
+	if !f.known {
+		f.value, f.known = impliedVolTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // impliedVolTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·impliedVolStepScale(x_i)/|d_i|, or −1 when d is zero.
 func impliedVolTinyStep(x, d *[1]float64, tol float64, diffs *impliedVolDifferences) float64 {
@@ -1050,21 +1073,21 @@ func impliedVolTinyStep(x, d *[1]float64, tol float64, diffs *impliedVolDifferen
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func impliedVolLineSearch(recv *Trade, x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *impliedVolDifferences) impliedVolLineResult {
-	slope, tiny = impliedVolShortenAlong(g, d, slope, tiny)
+func impliedVolLineSearch(recv *Trade, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *impliedVolStepFloor, budget int, xt, gt *[1]float64, diffs *impliedVolDifferences) impliedVolLineResult {
+	slope = impliedVolShortenAlong(g, d, slope, floor)
 	low := impliedVolLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high impliedVolLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend impliedVolRiseTrend                         // of the trials failing sufficient decrease
-	limit := impliedVolStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
+	var trend impliedVolRiseTrend                  // of the trials failing sufficient decrease
+	limit := impliedVolStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {
 		t = limit
 	}
 	calls := 0
 	for trial := 0; trial < impliedVolStepTrials; trial++ {
-		if bracketed && impliedVolAbs(high.step-low.step) <= tiny {
+		if bracketed && impliedVolAbs(high.step-low.step) <= floor.at(x, d, diffs) {
 			// The bracket is below the step limit: take low when it
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
@@ -1134,16 +1157,19 @@ type impliedVolSearchEnd uint8
 // impliedVolShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (impliedVolShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (impliedVolShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func impliedVolShortenAlong(g, d *[1]float64, slope, tiny float64) (float64, float64) {
+func impliedVolShortenAlong(g, d *[1]float64, slope float64, floor *impliedVolStepFloor) float64 {
 	if impliedVolFinite(slope) || !impliedVolFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := impliedVolMaxAbs(d)
 	impliedVolShrinkDirection(d, g)
-	return impliedVolDot(g, d), tiny * (before / impliedVolMaxAbs(d))
+	if floor.known {
+		floor.value *= before / impliedVolMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return impliedVolDot(g, d)
 }
 
 // impliedVolMaxAbs returns the largest |x_i|, the infinity norm.

@@ -457,7 +457,10 @@ func (r *calibrateDescent) judge() {
 func (r *calibrateDescent) search() {
 	calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 	now := calibrateDot(&r.g, &r.d)
-	if !(now < 0) || !calibrateFiniteVec(&r.d) {
+	// g is finite here, so a non-finite dᵢ makes ∇fᵀd non-finite: d is
+	// scanned only then (a finite d whose slope overflowed is kept; the
+	// search shortens it, see calibrateShortenAlong).
+	if !(now < 0) || !calibrateFinite(now) && !calibrateFiniteVec(&r.d) {
 		r.dir.reset() // not a descent direction: start again from steepest descent
 		calibrateSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs)
 		now = calibrateDot(&r.g, &r.d)
@@ -466,9 +469,9 @@ func (r *calibrateDescent) search() {
 	if r.out.iterations > 0 {
 		first = r.dir.firstTrial(r.t, r.slope, now)
 	}
-	tiny := calibrateTinyStep(&r.x, &r.d, r.lim.Step, &r.diffs) // steps t ≤ tiny pass the step test
+	floor := calibrateStepFloor{tol: r.lim.Step} // steps t ≤ floor pass the step test
 	var xt, gt [2]float64
-	found := calibrateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	found := calibrateLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, &floor, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
 	r.out.evaluations += found.calls
 	if !calibrateFinite(now) {
 		now = calibrateDot(&r.g, &r.d) // the search shortened d (see calibrateShortenAlong)
@@ -914,6 +917,26 @@ func calibrateSolveDirection(dir *calibrateDirection, g, d *[2]float64, diffs *c
 	dir.compute(g, d)
 }
 
+// calibrateStepFloor is the step limit along one search direction: the longest
+// step t whose move t·d passes the step test (calibrateTinyStep), computed on first
+// use. A line search needs it only after a trial fails, and the first
+// trial is accepted in most iterations (99.5 % of them on extended
+// Rosenbrock with steepest descent, bench/), which then skip its N
+// divisions.
+type calibrateStepFloor struct {
+	tol   float64 // the step test's tolerance, lim.Step
+	value float64 // calibrateTinyStep along d, once known
+	known bool
+}
+
+// at is the floor along d from x, computed the first time it is asked for.
+func (f *calibrateStepFloor) at(x, d *[2]float64, diffs *calibrateDifferences) float64 {
+	if !f.known {
+		f.value, f.known = calibrateTinyStep(x, d, f.tol, diffs), true
+	}
+	return f.value
+}
+
 // calibrateTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·calibrateStepScale(x_i)/|d_i|, or −1 when d is zero.
 func calibrateTinyStep(x, d *[2]float64, tol float64, diffs *calibrateDifferences) float64 {
@@ -932,13 +955,13 @@ func calibrateTinyStep(x, d *[2]float64, tol float64, diffs *calibrateDifference
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
-	slope, tiny = calibrateShortenAlong(g, d, slope, tiny)
+func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *calibrateStepFloor, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
+	slope = calibrateShortenAlong(g, d, slope, floor)
 	t := first
 	var previous, fPrevious float64
 	var trend calibrateRiseTrend
 	for trial := 0; trial < calibrateStepTrials; trial++ {
-		if trial > 0 && t <= tiny {
+		if trial > 0 && t <= floor.at(x, d, diffs) {
 			return calibrateLineResult{calls: trial, rising: trend.contradicts(), end: calibrateTinyOrExhausted(calibrateFinite(fPrevious))}
 		}
 		if trial >= budget {
@@ -971,16 +994,19 @@ type calibrateSearchEnd uint8
 // calibrateShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (calibrateShrinkDirection) and returns the finite slope and the step limit tiny
-// for the shorter d. The fixed step does not call it: its step is t·d by
+// (calibrateShrinkDirection), rescales the step limit floor to the shorter d when
+// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
 // definition.
-func calibrateShortenAlong(g, d *[2]float64, slope, tiny float64) (float64, float64) {
+func calibrateShortenAlong(g, d *[2]float64, slope float64, floor *calibrateStepFloor) float64 {
 	if calibrateFinite(slope) || !calibrateFiniteVec(d) {
-		return slope, tiny
+		return slope
 	}
 	before := calibrateMaxAbs(d)
 	calibrateShrinkDirection(d, g)
-	return calibrateDot(g, d), tiny * (before / calibrateMaxAbs(d))
+	if floor.known {
+		floor.value *= before / calibrateMaxAbs(d) // otherwise it is computed along the shorter d
+	}
+	return calibrateDot(g, d)
 }
 
 // calibrateMaxAbs returns the largest |x_i|, the infinity norm.
