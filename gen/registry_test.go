@@ -22,6 +22,7 @@ import (
 //     dispatchers) is a parameter's constant, a derived constant, a status
 //     stand-in or a shape stand-in, and each of those the registry names
 //     exists in the templates;
+//   - every function alternative has its dispatcher's signature;
 //   - the fields of the limits stand-in are the parameters' limit fields.
 func TestRegistryMatchesTemplates(t *testing.T) {
 	ks, err := loadKernels()
@@ -100,6 +101,19 @@ func TestRegistryMatchesTemplates(t *testing.T) {
 		for _, alt := range alts {
 			if !picked[d][alt] {
 				t.Errorf("no registry entry picks %s for the dispatcher %s", alt, d)
+			}
+		}
+	}
+	// gen puts the picked function in the dispatcher's place, under its
+	// name, so every call of the dispatcher must fit every alternative.
+	for d, alts := range dispatchers {
+		fn, ok := scope.Lookup(d).(*types.Func)
+		if !ok {
+			continue
+		}
+		for _, alt := range alts {
+			if other, ok := scope.Lookup(alt).(*types.Func); ok && !types.Identical(fn.Type(), other.Type()) {
+				t.Errorf("the dispatcher %s is %s but its alternative %s is %s", d, fn.Type(), alt, other.Type())
 			}
 		}
 	}

@@ -78,7 +78,7 @@ func projectedTrial(out, x *vec, t elem, d *vec, b *box) {
 // choice gen makes from the spec's bounds.
 func stepCap(x, d *vec, floor *stepFloor, diffs *differences) elem {
 	if boxed {
-		return firstBound(x, d, floor.at(x, d, diffs), &diffs.bounds)
+		return firstBound(x, d, floor, diffs)
 	}
 	return noCap(x, d, floor, diffs)
 }
@@ -89,14 +89,16 @@ func noCap(x, d *vec, floor *stepFloor, diffs *differences) elem {
 }
 
 // firstBound is the step at which x + t·d first reaches a bound, over the
-// components that reach theirs beyond tiny, or +Inf when none does. The
-// Wolfe conditions hold along the straight segment up to it; a search
+// components that reach theirs beyond the step limit tiny (floor), or +Inf
+// when none does. The Wolfe conditions hold along the straight segment up
+// to it; a search
 // that would go further takes the capped step, where a bound becomes
 // active (a curvature condition cannot be asked for there). Components
 // that reach their bound within tiny, a move the step test cannot see,
 // are left to the projection of projectedTrial, so that a variable a
 // rounding error away from its bound does not cap every step at nothing.
-func firstBound(x, d *vec, tiny elem, b *box) elem {
+func firstBound(x, d *vec, floor *stepFloor, diffs *differences) elem {
+	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := elem(math.Inf(1))
 	for i := range x {
 		hit := elem(math.Inf(1))

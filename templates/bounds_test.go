@@ -93,7 +93,7 @@ func TestBoundedPoliciesReachTheBoundary(t *testing.T) {
 func TestCappedStepLandsOnTheBound(t *testing.T) {
 	b := box{vec{0.1, -1}, vec{0.7, 1}}
 	x, d := vec{0.3, 0}, vec{0.1, 0.1}
-	cap := firstBound(&x, &d, 0, &b)
+	cap := firstBound(&x, &d, knownFloor(0), &differences{bounds: b})
 	if want := (b.upper[0] - x[0]) / d[0]; cap != want {
 		t.Fatalf("cap %v, want %v", cap, want)
 	}
@@ -108,7 +108,7 @@ func TestCappedStepLandsOnTheBound(t *testing.T) {
 	// A bound reached within tiny is left to the projection and does not
 	// cap the step.
 	x = vec{0.7 - 1e-17, 0}
-	if got := firstBound(&x, &d, 1e-10, &b); !(got > 1) {
+	if got := firstBound(&x, &d, knownFloor(1e-10), &differences{bounds: b}); !(got > 1) {
 		t.Errorf("cap %v with a bound 1e-17 away and tiny 1e-10, want the next bound's, (1 − 0)/0.1", got)
 	}
 }

@@ -189,7 +189,7 @@ func structuredModel(x *vec, fx elem, g *vec, diffs *differences) {
 		if sy := dot(&step, &change); curvatureSafeWith(sy, &step, &change) {
 			var w vec
 			difference(&w, &sharp, &ss)
-			ws := dot(&w, &step) / (sy * sy)
+			ws := dot(&w, &step) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
 			for i := range m.second {
 				a, b := w[i]/sy, change[i]/sy
 				for j := 0; j <= i; j++ {

@@ -38,7 +38,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, 
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend riseTrend                         // of the trials failing sufficient decrease
+	var trend riseTrend                  // of the trials failing sufficient decrease
 	limit := stepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
 	if t > limit {

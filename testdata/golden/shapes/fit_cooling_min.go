@@ -1042,7 +1042,7 @@ func fitCoolingStructuredModel(x *[3]float64, fx float64, g *[3]float64, diffs *
 		if sy := fitCoolingDot(&step, &change); fitCoolingCurvatureSafeWith(sy, &step, &change) {
 			var w [3]float64
 			fitCoolingDifference(&w, &sharp, &ss)
-			ws := fitCoolingDot(&w, &step) / (sy * sy)
+			ws := fitCoolingDot(&w, &step) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
 			for i := range m.second {
 				a, b := w[i]/sy, change[i]/sy
 				for j := 0; j <= i; j++ {
