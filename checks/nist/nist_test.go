@@ -112,9 +112,9 @@ const gradientLimit = "1e-20"
 // parameters it evaluates to ~4.0E-21). In float64 each residual, about
 // 7.7E-14 at the solution (√(RSS/24)), carries rounding of u·|y| ≈ 3E-16
 // (y ≤ 2.5), a relative 4E-3, so the RSS can agree to about 2 digits:
-// Lanczos1's RSS is held to 2 (the table says so; measured 2.7–3.2).
+// Lanczos1's RSS is held to 2 (the table says so; measured 2.8–3.3).
 // Its standard deviations, which scale with √RSS, are held to the 3
-// digits of every other dataset (measured 3.0–3.5).
+// digits of every other dataset (measured 3.1–3.6).
 const lanczos1RSSDigits = 2
 
 func TestMain(m *testing.M) {

@@ -1274,14 +1274,16 @@ func impliedVolFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 }
 
 // impliedVolStepCap is the step at which x + t·d first reaches a bound, over the
-// components that reach theirs beyond tiny, or +Inf when none does. The
-// Wolfe conditions hold along the straight segment up to it; a search
+// components that reach theirs beyond the step limit tiny (floor), or +Inf
+// when none does. The Wolfe conditions hold along the straight segment up
+// to it; a search
 // that would go further takes the capped step, where a bound becomes
 // active (a curvature condition cannot be asked for there). Components
 // that reach their bound within tiny, a move the step test cannot see,
 // are left to the projection of impliedVolTrialPoint, so that a variable a
 // rounding error away from its bound does not cap every step at nothing.
-func impliedVolStepCap(x, d *[1]float64, tiny float64, b *impliedVolBox) float64 {
+func impliedVolStepCap(x, d *[1]float64, floor *impliedVolStepFloor, diffs *impliedVolDifferences) float64 {
+	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
 	for i := range x {
 		hit := math.Inf(1)

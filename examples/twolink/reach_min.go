@@ -1274,14 +1274,16 @@ func reachFaithfulStep(x, xt, d *[2]float32, t float32) bool {
 }
 
 // reachStepCap is the step at which x + t·d first reaches a bound, over the
-// components that reach theirs beyond tiny, or +Inf when none does. The
-// Wolfe conditions hold along the straight segment up to it; a search
+// components that reach theirs beyond the step limit tiny (floor), or +Inf
+// when none does. The Wolfe conditions hold along the straight segment up
+// to it; a search
 // that would go further takes the capped step, where a bound becomes
 // active (a curvature condition cannot be asked for there). Components
 // that reach their bound within tiny, a move the step test cannot see,
 // are left to the projection of reachTrialPoint, so that a variable a
 // rounding error away from its bound does not cap every step at nothing.
-func reachStepCap(x, d *[2]float32, tiny float32, b *reachBox) float32 {
+func reachStepCap(x, d *[2]float32, floor *reachStepFloor, diffs *reachDifferences) float32 {
+	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := float32(math.Inf(1))
 	for i := range x {
 		hit := float32(math.Inf(1))
