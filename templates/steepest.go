@@ -1,7 +1,5 @@
 package templates
 
-import "math"
-
 // steepestDirection is steepest descent, d = −∇f(x): the direction of
 // fastest first-order decrease. It needs no memory and converges linearly,
 // slowly on ill-conditioned problems (Nocedal & Wright 2006, §3.3).
@@ -27,8 +25,13 @@ func (s *steepestDirection) update(step, change *vec) {}
 // zooms instead).
 func (s *steepestDirection) firstTrial(t, slope, now elem) elem {
 	next := scaledTrial(t, slope, now)
-	if reach := t * elem(math.Ldexp(1, stepTrials/2)); next > reach {
+	if reach := elem(float64(t) * trialGrowth); next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before
 		return reach
 	}
 	return next
 }
+
+// trialGrowth is 2^(stepTrials/2), the most steepestDirection.firstTrial
+// grows a step by: a constant, so that no iteration pays for math.Ldexp
+// (6 % of a steepest solve's instructions on Rosenbrock 2-D).
+const trialGrowth float64 = 1 << (stepTrials / 2)
