@@ -22,7 +22,9 @@ func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, fl
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
-	slope = shortenAlong(g, d, slope, floor)
+	if !finite(slope) {
+		slope = shortenAlong(g, d, slope, floor) // the call only where it acts: shortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious elem
 	var trend riseTrend

@@ -1198,7 +1198,9 @@ func fitCoolingGNTinyStep(x, d *[3]float64, tol float64, diffs *fitCoolingGNDiff
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func fitCoolingGNLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *fitCoolingGNStepFloor, budget int, xt, gt *[3]float64, diffs *fitCoolingGNDifferences) fitCoolingGNLineResult {
-	slope = fitCoolingGNShortenAlong(g, d, slope, floor)
+	if !fitCoolingGNFinite(slope) {
+		slope = fitCoolingGNShortenAlong(g, d, slope, floor) // the call only where it acts: fitCoolingGNShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend fitCoolingGNRiseTrend

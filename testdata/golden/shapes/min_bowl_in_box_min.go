@@ -1232,7 +1232,9 @@ func minBowlInBoxTinyStep(x, d *[3]float32, tol float32, diffs *minBowlInBoxDiff
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minBowlInBoxLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first float32, floor *minBowlInBoxStepFloor, budget int, xt, gt *[3]float32, diffs *minBowlInBoxDifferences) minBowlInBoxLineResult {
-	slope = minBowlInBoxShortenAlong(g, d, slope, floor)
+	if !minBowlInBoxFinite(slope) {
+		slope = minBowlInBoxShortenAlong(g, d, slope, floor) // the call only where it acts: minBowlInBoxShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float32
 	var trend minBowlInBoxRiseTrend

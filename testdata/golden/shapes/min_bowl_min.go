@@ -1124,7 +1124,9 @@ func minBowlTinyStep(x, d *[3]float32, tol float32, diffs *minBowlDifferences) f
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first float32, floor *minBowlStepFloor, budget int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
-	slope = minBowlShortenAlong(g, d, slope, floor)
+	if !minBowlFinite(slope) {
+		slope = minBowlShortenAlong(g, d, slope, floor) // the call only where it acts: minBowlShortenAlong is not inlined
+	}
 	low := minBowlLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket

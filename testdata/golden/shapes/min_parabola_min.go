@@ -1156,7 +1156,9 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64, diffs *minParabolaDiffer
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *minParabolaStepFloor, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
-	slope = minParabolaShortenAlong(g, d, slope, floor)
+	if !minParabolaFinite(slope) {
+		slope = minParabolaShortenAlong(g, d, slope, floor) // the call only where it acts: minParabolaShortenAlong is not inlined
+	}
 	low := minParabolaLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minParabolaLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket

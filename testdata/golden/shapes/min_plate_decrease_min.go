@@ -1110,7 +1110,9 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDecr
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first float32, floor *minPlateDecreaseStepFloor, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
-	slope = minPlateDecreaseShortenAlong(g, d, slope, floor)
+	if !minPlateDecreaseFinite(slope) {
+		slope = minPlateDecreaseShortenAlong(g, d, slope, floor) // the call only where it acts: minPlateDecreaseShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float32
 	var trend minPlateDecreaseRiseTrend

@@ -910,7 +910,9 @@ func minValleyCostTinyStep(x, d *[2]float64, tol float64, diffs *minValleyCostDi
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minValleyCostLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *minValleyCostStepFloor, budget int, xt, gt *[2]float64, diffs *minValleyCostDifferences) minValleyCostLineResult {
-	slope = minValleyCostShortenAlong(g, d, slope, floor)
+	if !minValleyCostFinite(slope) {
+		slope = minValleyCostShortenAlong(g, d, slope, floor) // the call only where it acts: minValleyCostShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend minValleyCostRiseTrend

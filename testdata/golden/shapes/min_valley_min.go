@@ -1010,7 +1010,9 @@ func minValleyTinyStep(x, d *[2]float64, tol float64, diffs *minValleyDifference
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *minValleyStepFloor, budget int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
-	slope = minValleyShortenAlong(g, d, slope, floor)
+	if !minValleyFinite(slope) {
+		slope = minValleyShortenAlong(g, d, slope, floor) // the call only where it acts: minValleyShortenAlong is not inlined
+	}
 	low := minValleyLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                         // ∇f at low, kept for accepting low from a collapsed bracket

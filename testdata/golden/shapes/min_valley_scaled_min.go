@@ -1118,7 +1118,9 @@ func minValleyScaledTinyStep(x, d *[2]float64, tol float64, diffs *minValleyScal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minValleyScaledLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *minValleyScaledStepFloor, budget int, xt, gt *[2]float64, diffs *minValleyScaledDifferences) minValleyScaledLineResult {
-	slope = minValleyScaledShortenAlong(g, d, slope, floor)
+	if !minValleyScaledFinite(slope) {
+		slope = minValleyScaledShortenAlong(g, d, slope, floor) // the call only where it acts: minValleyScaledShortenAlong is not inlined
+	}
 	low := minValleyScaledLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyScaledLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
