@@ -104,3 +104,19 @@ func scaledTrial(t, slope, now elem) elem {
 	}
 	return next
 }
+
+// gradientChange sets y = g₊ − g, the gradient change of the step just
+// taken, for the directions that learn from it (bfgs, lbfgs, cg); the
+// others never read y and skip the N subtractions. It stands in for the
+// direction the spec chose; gen keeps only that one under this name.
+func gradientChange(y, next, now *vec) {
+	switch directionKind {
+	case kindSteepest, kindGaussNewton, kindLevenbergMarquardt:
+		noChange(y, next, now)
+	default:
+		difference(y, next, now)
+	}
+}
+
+// noChange: a direction without memory never reads y.
+func noChange(y, next, now *vec) {}

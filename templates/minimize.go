@@ -322,7 +322,7 @@ func (r *descent) search(recv *receiver) {
 	}
 	r.out.iterations++
 	difference(&r.s, &xt, &r.x)
-	difference(&r.y, &gt, &r.g)
+	gradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {

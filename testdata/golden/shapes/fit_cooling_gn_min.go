@@ -543,7 +543,7 @@ func (r *fitCoolingGNDescent) search() {
 	}
 	r.out.iterations++
 	fitCoolingGNDifference(&r.s, &xt, &r.x)
-	fitCoolingGNDifference(&r.y, &gt, &r.g)
+	fitCoolingGNGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1404,6 +1404,9 @@ func fitCoolingGNDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// fitCoolingGNGradientChange: a direction without memory never reads y.
+func fitCoolingGNGradientChange(y, next, now *[3]float64) {}
 
 // fitCoolingGNUnlimited is a tick budget that never pauses a run.
 const fitCoolingGNUnlimited = int(^uint(0) >> 1)

@@ -541,7 +541,7 @@ func (r *fitCoolingDescent) search() {
 	}
 	r.out.iterations++
 	fitCoolingDifference(&r.s, &xt, &r.x)
-	fitCoolingDifference(&r.y, &gt, &r.g)
+	fitCoolingGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1312,6 +1312,9 @@ func fitCoolingModelDecrease(x, xt, g *[3]float64, m *fitCoolingResidualModel) (
 	quadratic += normalTerm
 	return -fitCoolingDot(g, &s) - quadratic/2, normalTerm
 }
+
+// fitCoolingGradientChange: a direction without memory never reads y.
+func fitCoolingGradientChange(y, next, now *[3]float64) {}
 
 // fitCoolingUnlimited is a tick budget that never pauses a run.
 const fitCoolingUnlimited = int(^uint(0) >> 1)

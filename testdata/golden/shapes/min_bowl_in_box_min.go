@@ -528,8 +528,8 @@ func (r *minBowlInBoxDescent) search() {
 		r.out.evaluations += minBowlInBoxDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	minBowlInBoxDifference(&r.s, &xt, &r.x)
-	minBowlInBoxDifference(&r.y, &gt, &r.g)
+	minBowlInBoxGradientChange(&r.s, &xt, &r.x)
+	minBowlInBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1445,8 +1445,8 @@ func minBowlInBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float32) f
 	return t * minBowlInBoxStepShrink
 }
 
-// minBowlInBoxDifference sets out = a − b.
-func minBowlInBoxDifference(out, a, b *[3]float32) {
+// minBowlInBoxGradientChange sets out = a − b.
+func minBowlInBoxGradientChange(out, a, b *[3]float32) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *minBowlDescent) search() {
 		r.out.evaluations += minBowlDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	minBowlDifference(&r.s, &xt, &r.x)
-	minBowlDifference(&r.y, &gt, &r.g)
+	minBowlGradientChange(&r.s, &xt, &r.x)
+	minBowlGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1432,8 +1432,8 @@ func minBowlExpandTrial(previous, current *minBowlLinePoint) float32 {
 	return minBowlClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// minBowlDifference sets out = a − b.
-func minBowlDifference(out, a, b *[3]float32) {
+// minBowlGradientChange sets out = a − b.
+func minBowlGradientChange(out, a, b *[3]float32) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *minParabolaDescent) search() {
 		r.out.evaluations += minParabolaDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	minParabolaDifference(&r.s, &xt, &r.x)
-	minParabolaDifference(&r.y, &gt, &r.g)
+	minParabolaGradientChange(&r.s, &xt, &r.x)
+	minParabolaGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1464,8 +1464,8 @@ func minParabolaExpandTrial(previous, current *minParabolaLinePoint) float64 {
 	return minParabolaClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// minParabolaDifference sets out = a − b.
-func minParabolaDifference(out, a, b *[1]float64) {
+// minParabolaGradientChange sets out = a − b.
+func minParabolaGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,7 +518,7 @@ func (r *minPlateDecreaseDescent) search() {
 	}
 	r.out.iterations++
 	minPlateDecreaseDifference(&r.s, &xt, &r.x)
-	minPlateDecreaseDifference(&r.y, &gt, &r.g)
+	minPlateDecreaseGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1353,6 +1353,9 @@ func minPlateDecreaseDifference(out, a, b *[2]float32) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// minPlateDecreaseGradientChange: a direction without memory never reads y.
+func minPlateDecreaseGradientChange(y, next, now *[2]float32) {}
 
 // minPlateDecreaseUnlimited is a tick budget that never pauses a run.
 const minPlateDecreaseUnlimited = int(^uint(0) >> 1)

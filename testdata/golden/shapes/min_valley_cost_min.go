@@ -518,8 +518,8 @@ func (r *minValleyCostDescent) search(recv *Valley) {
 		r.out.evaluations += minValleyCostDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	minValleyCostDifference(&r.s, &xt, &r.x)
-	minValleyCostDifference(&r.y, &gt, &r.g)
+	minValleyCostGradientChange(&r.s, &xt, &r.x)
+	minValleyCostGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1110,8 +1110,8 @@ func minValleyCostBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) 
 	return t * minValleyCostStepShrink
 }
 
-// minValleyCostDifference sets out = a − b.
-func minValleyCostDifference(out, a, b *[2]float64) {
+// minValleyCostGradientChange sets out = a − b.
+func minValleyCostGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *minValleyDescent) search(recv *Valley) {
 		r.out.evaluations += minValleyDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	minValleyDifference(&r.s, &xt, &r.x)
-	minValleyDifference(&r.y, &gt, &r.g)
+	minValleyGradientChange(&r.s, &xt, &r.x)
+	minValleyGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1318,8 +1318,8 @@ func minValleyExpandTrial(previous, current *minValleyLinePoint) float64 {
 	return minValleyClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// minValleyDifference sets out = a − b.
-func minValleyDifference(out, a, b *[2]float64) {
+// minValleyGradientChange sets out = a − b.
+func minValleyGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

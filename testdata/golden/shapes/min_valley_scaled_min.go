@@ -572,8 +572,8 @@ func (r *minValleyScaledDescent) search(recv *Valley) {
 		r.out.evaluations += minValleyScaledDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	minValleyScaledDifference(&r.s, &xt, &r.x)
-	minValleyScaledDifference(&r.y, &gt, &r.g)
+	minValleyScaledGradientChange(&r.s, &xt, &r.x)
+	minValleyScaledGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1461,8 +1461,8 @@ func minValleyScaledExpandTrial(previous, current *minValleyScaledLinePoint) flo
 	return minValleyScaledClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// minValleyScaledDifference sets out = a − b.
-func minValleyScaledDifference(out, a, b *[2]float64) {
+// minValleyScaledGradientChange sets out = a − b.
+func minValleyScaledGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}
