@@ -528,8 +528,8 @@ func (r *poly1BFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly1BFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly1BFGSBoxDifference(&r.s, &xt, &r.x)
-	poly1BFGSBoxDifference(&r.y, &gt, &r.g)
+	poly1BFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly1BFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func poly1BFGSBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1BFGSBoxDiff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1BFGSBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1BFGSBoxStepFloor, budget int, xt, gt *[1]float64, diffs *poly1BFGSBoxDifferences) poly1BFGSBoxLineResult {
-	slope = poly1BFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly1BFGSBoxFinite(slope) {
+		slope = poly1BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly1BFGSBoxShortenAlong is not inlined
+	}
 	low := poly1BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func poly1BFGSBoxExpandTrial(previous, current *poly1BFGSBoxLinePoint) float64 {
 	return poly1BFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly1BFGSBoxDifference sets out = a − b.
-func poly1BFGSBoxDifference(out, a, b *[1]float64) {
+// poly1BFGSBoxGradientChange sets out = a − b.
+func poly1BFGSBoxGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

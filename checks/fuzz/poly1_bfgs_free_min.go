@@ -518,8 +518,8 @@ func (r *poly1BFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly1BFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly1BFGSFreeDifference(&r.s, &xt, &r.x)
-	poly1BFGSFreeDifference(&r.y, &gt, &r.g)
+	poly1BFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly1BFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func poly1BFGSFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1BFGSFreeDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1BFGSFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1BFGSFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1BFGSFreeDifferences) poly1BFGSFreeLineResult {
-	slope = poly1BFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly1BFGSFreeFinite(slope) {
+		slope = poly1BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1BFGSFreeShortenAlong is not inlined
+	}
 	low := poly1BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func poly1BFGSFreeExpandTrial(previous, current *poly1BFGSFreeLinePoint) float64
 	return poly1BFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly1BFGSFreeDifference sets out = a − b.
-func poly1BFGSFreeDifference(out, a, b *[1]float64) {
+// poly1BFGSFreeGradientChange sets out = a − b.
+func poly1BFGSFreeGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *poly1CGFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly1CGFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly1CGFreeDifference(&r.s, &xt, &r.x)
-	poly1CGFreeDifference(&r.y, &gt, &r.g)
+	poly1CGFreeGradientChange(&r.s, &xt, &r.x)
+	poly1CGFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func poly1CGFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1CGFreeDiffer
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1CGFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1CGFreeDifferences) poly1CGFreeLineResult {
-	slope = poly1CGFreeShortenAlong(g, d, slope, floor)
+	if !poly1CGFreeFinite(slope) {
+		slope = poly1CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1CGFreeShortenAlong is not inlined
+	}
 	low := poly1CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func poly1CGFreeExpandTrial(previous, current *poly1CGFreeLinePoint) float64 {
 	return poly1CGFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly1CGFreeDifference sets out = a − b.
-func poly1CGFreeDifference(out, a, b *[1]float64) {
+// poly1CGFreeGradientChange sets out = a − b.
+func poly1CGFreeGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

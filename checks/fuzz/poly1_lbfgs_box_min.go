@@ -529,8 +529,8 @@ func (r *poly1LBFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly1LBFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly1LBFGSBoxDifference(&r.s, &xt, &r.x)
-	poly1LBFGSBoxDifference(&r.y, &gt, &r.g)
+	poly1LBFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly1LBFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1286,7 +1286,9 @@ func poly1LBFGSBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1LBFGSBoxDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1LBFGSBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1LBFGSBoxStepFloor, budget int, xt, gt *[1]float64, diffs *poly1LBFGSBoxDifferences) poly1LBFGSBoxLineResult {
-	slope = poly1LBFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly1LBFGSBoxFinite(slope) {
+		slope = poly1LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly1LBFGSBoxShortenAlong is not inlined
+	}
 	low := poly1LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1627,8 +1629,8 @@ func poly1LBFGSBoxExpandTrial(previous, current *poly1LBFGSBoxLinePoint) float64
 	return poly1LBFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly1LBFGSBoxDifference sets out = a − b.
-func poly1LBFGSBoxDifference(out, a, b *[1]float64) {
+// poly1LBFGSBoxGradientChange sets out = a − b.
+func poly1LBFGSBoxGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *poly1LBFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly1LBFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly1LBFGSFreeDifference(&r.s, &xt, &r.x)
-	poly1LBFGSFreeDifference(&r.y, &gt, &r.g)
+	poly1LBFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly1LBFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func poly1LBFGSFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1LBFGSFree
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1LBFGSFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1LBFGSFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1LBFGSFreeDifferences) poly1LBFGSFreeLineResult {
-	slope = poly1LBFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly1LBFGSFreeFinite(slope) {
+		slope = poly1LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1LBFGSFreeShortenAlong is not inlined
+	}
 	low := poly1LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func poly1LBFGSFreeExpandTrial(previous, current *poly1LBFGSFreeLinePoint) float
 	return poly1LBFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly1LBFGSFreeDifference sets out = a − b.
-func poly1LBFGSFreeDifference(out, a, b *[1]float64) {
+// poly1LBFGSFreeGradientChange sets out = a − b.
+func poly1LBFGSFreeGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

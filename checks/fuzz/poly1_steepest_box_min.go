@@ -529,7 +529,7 @@ func (r *poly1SteepestBoxDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly1SteepestBoxDifference(&r.s, &xt, &r.x)
-	poly1SteepestBoxDifference(&r.y, &gt, &r.g)
+	poly1SteepestBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1029,7 +1029,9 @@ func poly1SteepestBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1Steepes
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly1SteepestBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1SteepestBoxStepFloor, budget int, xt, gt *[1]float64, diffs *poly1SteepestBoxDifferences) poly1SteepestBoxLineResult {
-	slope = poly1SteepestBoxShortenAlong(g, d, slope, floor)
+	if !poly1SteepestBoxFinite(slope) {
+		slope = poly1SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly1SteepestBoxShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly1SteepestBoxRiseTrend
@@ -1246,6 +1248,9 @@ func poly1SteepestBoxDifference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly1SteepestBoxGradientChange: a direction without memory never reads y.
+func poly1SteepestBoxGradientChange(y, next, now *[1]float64) {}
 
 // poly1SteepestBoxUnlimited is a tick budget that never pauses a run.
 const poly1SteepestBoxUnlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *poly1SteepestFreeDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly1SteepestFreeDifference(&r.s, &xt, &r.x)
-	poly1SteepestFreeDifference(&r.y, &gt, &r.g)
+	poly1SteepestFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -932,7 +932,9 @@ func poly1SteepestFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1Steepe
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly1SteepestFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1SteepestFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1SteepestFreeDifferences) poly1SteepestFreeLineResult {
-	slope = poly1SteepestFreeShortenAlong(g, d, slope, floor)
+	if !poly1SteepestFreeFinite(slope) {
+		slope = poly1SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1SteepestFreeShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly1SteepestFreeRiseTrend
@@ -1136,6 +1138,9 @@ func poly1SteepestFreeDifference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly1SteepestFreeGradientChange: a direction without memory never reads y.
+func poly1SteepestFreeGradientChange(y, next, now *[1]float64) {}
 
 // poly1SteepestFreeUnlimited is a tick budget that never pauses a run.
 const poly1SteepestFreeUnlimited = int(^uint(0) >> 1)

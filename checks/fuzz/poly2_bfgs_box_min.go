@@ -528,8 +528,8 @@ func (r *poly2BFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly2BFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly2BFGSBoxDifference(&r.s, &xt, &r.x)
-	poly2BFGSBoxDifference(&r.y, &gt, &r.g)
+	poly2BFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly2BFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func poly2BFGSBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2BFGSBoxDiff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2BFGSBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2BFGSBoxStepFloor, budget int, xt, gt *[2]float64, diffs *poly2BFGSBoxDifferences) poly2BFGSBoxLineResult {
-	slope = poly2BFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly2BFGSBoxFinite(slope) {
+		slope = poly2BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly2BFGSBoxShortenAlong is not inlined
+	}
 	low := poly2BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func poly2BFGSBoxExpandTrial(previous, current *poly2BFGSBoxLinePoint) float64 {
 	return poly2BFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly2BFGSBoxDifference sets out = a − b.
-func poly2BFGSBoxDifference(out, a, b *[2]float64) {
+// poly2BFGSBoxGradientChange sets out = a − b.
+func poly2BFGSBoxGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

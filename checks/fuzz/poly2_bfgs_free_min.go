@@ -518,8 +518,8 @@ func (r *poly2BFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly2BFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly2BFGSFreeDifference(&r.s, &xt, &r.x)
-	poly2BFGSFreeDifference(&r.y, &gt, &r.g)
+	poly2BFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly2BFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func poly2BFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2BFGSFreeDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2BFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2BFGSFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2BFGSFreeDifferences) poly2BFGSFreeLineResult {
-	slope = poly2BFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly2BFGSFreeFinite(slope) {
+		slope = poly2BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2BFGSFreeShortenAlong is not inlined
+	}
 	low := poly2BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func poly2BFGSFreeExpandTrial(previous, current *poly2BFGSFreeLinePoint) float64
 	return poly2BFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly2BFGSFreeDifference sets out = a − b.
-func poly2BFGSFreeDifference(out, a, b *[2]float64) {
+// poly2BFGSFreeGradientChange sets out = a − b.
+func poly2BFGSFreeGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

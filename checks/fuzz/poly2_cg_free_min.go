@@ -518,8 +518,8 @@ func (r *poly2CGFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly2CGFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly2CGFreeDifference(&r.s, &xt, &r.x)
-	poly2CGFreeDifference(&r.y, &gt, &r.g)
+	poly2CGFreeGradientChange(&r.s, &xt, &r.x)
+	poly2CGFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func poly2CGFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2CGFreeDiffer
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2CGFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2CGFreeDifferences) poly2CGFreeLineResult {
-	slope = poly2CGFreeShortenAlong(g, d, slope, floor)
+	if !poly2CGFreeFinite(slope) {
+		slope = poly2CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2CGFreeShortenAlong is not inlined
+	}
 	low := poly2CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func poly2CGFreeExpandTrial(previous, current *poly2CGFreeLinePoint) float64 {
 	return poly2CGFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly2CGFreeDifference sets out = a − b.
-func poly2CGFreeDifference(out, a, b *[2]float64) {
+// poly2CGFreeGradientChange sets out = a − b.
+func poly2CGFreeGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -529,8 +529,8 @@ func (r *poly2LBFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly2LBFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly2LBFGSBoxDifference(&r.s, &xt, &r.x)
-	poly2LBFGSBoxDifference(&r.y, &gt, &r.g)
+	poly2LBFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly2LBFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1286,7 +1286,9 @@ func poly2LBFGSBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSBoxDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2LBFGSBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2LBFGSBoxStepFloor, budget int, xt, gt *[2]float64, diffs *poly2LBFGSBoxDifferences) poly2LBFGSBoxLineResult {
-	slope = poly2LBFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly2LBFGSBoxFinite(slope) {
+		slope = poly2LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly2LBFGSBoxShortenAlong is not inlined
+	}
 	low := poly2LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1627,8 +1629,8 @@ func poly2LBFGSBoxExpandTrial(previous, current *poly2LBFGSBoxLinePoint) float64
 	return poly2LBFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly2LBFGSBoxDifference sets out = a − b.
-func poly2LBFGSBoxDifference(out, a, b *[2]float64) {
+// poly2LBFGSBoxGradientChange sets out = a − b.
+func poly2LBFGSBoxGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

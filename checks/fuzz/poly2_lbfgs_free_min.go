@@ -519,8 +519,8 @@ func (r *poly2LBFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly2LBFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly2LBFGSFreeDifference(&r.s, &xt, &r.x)
-	poly2LBFGSFreeDifference(&r.y, &gt, &r.g)
+	poly2LBFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly2LBFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func poly2LBFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSFree
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2LBFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2LBFGSFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2LBFGSFreeDifferences) poly2LBFGSFreeLineResult {
-	slope = poly2LBFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly2LBFGSFreeFinite(slope) {
+		slope = poly2LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2LBFGSFreeShortenAlong is not inlined
+	}
 	low := poly2LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func poly2LBFGSFreeExpandTrial(previous, current *poly2LBFGSFreeLinePoint) float
 	return poly2LBFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly2LBFGSFreeDifference sets out = a − b.
-func poly2LBFGSFreeDifference(out, a, b *[2]float64) {
+// poly2LBFGSFreeGradientChange sets out = a − b.
+func poly2LBFGSFreeGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

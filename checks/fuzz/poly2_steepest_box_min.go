@@ -529,7 +529,7 @@ func (r *poly2SteepestBoxDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly2SteepestBoxDifference(&r.s, &xt, &r.x)
-	poly2SteepestBoxDifference(&r.y, &gt, &r.g)
+	poly2SteepestBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1029,7 +1029,9 @@ func poly2SteepestBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2Steepes
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly2SteepestBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2SteepestBoxStepFloor, budget int, xt, gt *[2]float64, diffs *poly2SteepestBoxDifferences) poly2SteepestBoxLineResult {
-	slope = poly2SteepestBoxShortenAlong(g, d, slope, floor)
+	if !poly2SteepestBoxFinite(slope) {
+		slope = poly2SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly2SteepestBoxShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly2SteepestBoxRiseTrend
@@ -1246,6 +1248,9 @@ func poly2SteepestBoxDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly2SteepestBoxGradientChange: a direction without memory never reads y.
+func poly2SteepestBoxGradientChange(y, next, now *[2]float64) {}
 
 // poly2SteepestBoxUnlimited is a tick budget that never pauses a run.
 const poly2SteepestBoxUnlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *poly2SteepestFreeDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly2SteepestFreeDifference(&r.s, &xt, &r.x)
-	poly2SteepestFreeDifference(&r.y, &gt, &r.g)
+	poly2SteepestFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -932,7 +932,9 @@ func poly2SteepestFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2Steepe
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly2SteepestFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2SteepestFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2SteepestFreeDifferences) poly2SteepestFreeLineResult {
-	slope = poly2SteepestFreeShortenAlong(g, d, slope, floor)
+	if !poly2SteepestFreeFinite(slope) {
+		slope = poly2SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2SteepestFreeShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly2SteepestFreeRiseTrend
@@ -1136,6 +1138,9 @@ func poly2SteepestFreeDifference(out, a, b *[2]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly2SteepestFreeGradientChange: a direction without memory never reads y.
+func poly2SteepestFreeGradientChange(y, next, now *[2]float64) {}
 
 // poly2SteepestFreeUnlimited is a tick budget that never pauses a run.
 const poly2SteepestFreeUnlimited = int(^uint(0) >> 1)

@@ -528,8 +528,8 @@ func (r *poly3BFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly3BFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly3BFGSBoxDifference(&r.s, &xt, &r.x)
-	poly3BFGSBoxDifference(&r.y, &gt, &r.g)
+	poly3BFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly3BFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func poly3BFGSBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSBoxDiff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3BFGSBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3BFGSBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3BFGSBoxDifferences) poly3BFGSBoxLineResult {
-	slope = poly3BFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly3BFGSBoxFinite(slope) {
+		slope = poly3BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly3BFGSBoxShortenAlong is not inlined
+	}
 	low := poly3BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func poly3BFGSBoxExpandTrial(previous, current *poly3BFGSBoxLinePoint) float64 {
 	return poly3BFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly3BFGSBoxDifference sets out = a − b.
-func poly3BFGSBoxDifference(out, a, b *[3]float64) {
+// poly3BFGSBoxGradientChange sets out = a − b.
+func poly3BFGSBoxGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *poly3BFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly3BFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly3BFGSFreeDifference(&r.s, &xt, &r.x)
-	poly3BFGSFreeDifference(&r.y, &gt, &r.g)
+	poly3BFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly3BFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func poly3BFGSFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSFreeDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3BFGSFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3BFGSFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3BFGSFreeDifferences) poly3BFGSFreeLineResult {
-	slope = poly3BFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly3BFGSFreeFinite(slope) {
+		slope = poly3BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3BFGSFreeShortenAlong is not inlined
+	}
 	low := poly3BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func poly3BFGSFreeExpandTrial(previous, current *poly3BFGSFreeLinePoint) float64
 	return poly3BFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly3BFGSFreeDifference sets out = a − b.
-func poly3BFGSFreeDifference(out, a, b *[3]float64) {
+// poly3BFGSFreeGradientChange sets out = a − b.
+func poly3BFGSFreeGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -528,8 +528,8 @@ func (r *poly3BFGSHalfDescent) search(recv *Poly) {
 		r.out.evaluations += poly3BFGSHalfDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly3BFGSHalfDifference(&r.s, &xt, &r.x)
-	poly3BFGSHalfDifference(&r.y, &gt, &r.g)
+	poly3BFGSHalfGradientChange(&r.s, &xt, &r.x)
+	poly3BFGSHalfGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func poly3BFGSHalfTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSHalfDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3BFGSHalfLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3BFGSHalfStepFloor, budget int, xt, gt *[3]float64, diffs *poly3BFGSHalfDifferences) poly3BFGSHalfLineResult {
-	slope = poly3BFGSHalfShortenAlong(g, d, slope, floor)
+	if !poly3BFGSHalfFinite(slope) {
+		slope = poly3BFGSHalfShortenAlong(g, d, slope, floor) // the call only where it acts: poly3BFGSHalfShortenAlong is not inlined
+	}
 	low := poly3BFGSHalfLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3BFGSHalfLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func poly3BFGSHalfExpandTrial(previous, current *poly3BFGSHalfLinePoint) float64
 	return poly3BFGSHalfClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly3BFGSHalfDifference sets out = a − b.
-func poly3BFGSHalfDifference(out, a, b *[3]float64) {
+// poly3BFGSHalfGradientChange sets out = a − b.
+func poly3BFGSHalfGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

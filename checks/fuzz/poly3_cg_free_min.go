@@ -518,8 +518,8 @@ func (r *poly3CGFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly3CGFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly3CGFreeDifference(&r.s, &xt, &r.x)
-	poly3CGFreeDifference(&r.y, &gt, &r.g)
+	poly3CGFreeGradientChange(&r.s, &xt, &r.x)
+	poly3CGFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func poly3CGFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3CGFreeDiffer
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3CGFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3CGFreeDifferences) poly3CGFreeLineResult {
-	slope = poly3CGFreeShortenAlong(g, d, slope, floor)
+	if !poly3CGFreeFinite(slope) {
+		slope = poly3CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3CGFreeShortenAlong is not inlined
+	}
 	low := poly3CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func poly3CGFreeExpandTrial(previous, current *poly3CGFreeLinePoint) float64 {
 	return poly3CGFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly3CGFreeDifference sets out = a − b.
-func poly3CGFreeDifference(out, a, b *[3]float64) {
+// poly3CGFreeGradientChange sets out = a − b.
+func poly3CGFreeGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -529,8 +529,8 @@ func (r *poly3LBFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly3LBFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly3LBFGSBoxDifference(&r.s, &xt, &r.x)
-	poly3LBFGSBoxDifference(&r.y, &gt, &r.g)
+	poly3LBFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly3LBFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1286,7 +1286,9 @@ func poly3LBFGSBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3LBFGSBoxDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3LBFGSBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3LBFGSBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3LBFGSBoxDifferences) poly3LBFGSBoxLineResult {
-	slope = poly3LBFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly3LBFGSBoxFinite(slope) {
+		slope = poly3LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly3LBFGSBoxShortenAlong is not inlined
+	}
 	low := poly3LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1627,8 +1629,8 @@ func poly3LBFGSBoxExpandTrial(previous, current *poly3LBFGSBoxLinePoint) float64
 	return poly3LBFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly3LBFGSBoxDifference sets out = a − b.
-func poly3LBFGSBoxDifference(out, a, b *[3]float64) {
+// poly3LBFGSBoxGradientChange sets out = a − b.
+func poly3LBFGSBoxGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *poly3LBFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly3LBFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly3LBFGSFreeDifference(&r.s, &xt, &r.x)
-	poly3LBFGSFreeDifference(&r.y, &gt, &r.g)
+	poly3LBFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly3LBFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func poly3LBFGSFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3LBFGSFree
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3LBFGSFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3LBFGSFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3LBFGSFreeDifferences) poly3LBFGSFreeLineResult {
-	slope = poly3LBFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly3LBFGSFreeFinite(slope) {
+		slope = poly3LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3LBFGSFreeShortenAlong is not inlined
+	}
 	low := poly3LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func poly3LBFGSFreeExpandTrial(previous, current *poly3LBFGSFreeLinePoint) float
 	return poly3LBFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly3LBFGSFreeDifference sets out = a − b.
-func poly3LBFGSFreeDifference(out, a, b *[3]float64) {
+// poly3LBFGSFreeGradientChange sets out = a − b.
+func poly3LBFGSFreeGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

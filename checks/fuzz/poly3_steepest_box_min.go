@@ -529,7 +529,7 @@ func (r *poly3SteepestBoxDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly3SteepestBoxDifference(&r.s, &xt, &r.x)
-	poly3SteepestBoxDifference(&r.y, &gt, &r.g)
+	poly3SteepestBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1029,7 +1029,9 @@ func poly3SteepestBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3Steepes
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly3SteepestBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestBoxDifferences) poly3SteepestBoxLineResult {
-	slope = poly3SteepestBoxShortenAlong(g, d, slope, floor)
+	if !poly3SteepestBoxFinite(slope) {
+		slope = poly3SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly3SteepestBoxShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly3SteepestBoxRiseTrend
@@ -1246,6 +1248,9 @@ func poly3SteepestBoxDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly3SteepestBoxGradientChange: a direction without memory never reads y.
+func poly3SteepestBoxGradientChange(y, next, now *[3]float64) {}
 
 // poly3SteepestBoxUnlimited is a tick budget that never pauses a run.
 const poly3SteepestBoxUnlimited = int(^uint(0) >> 1)

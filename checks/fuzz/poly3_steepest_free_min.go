@@ -519,7 +519,7 @@ func (r *poly3SteepestFreeDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly3SteepestFreeDifference(&r.s, &xt, &r.x)
-	poly3SteepestFreeDifference(&r.y, &gt, &r.g)
+	poly3SteepestFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -932,7 +932,9 @@ func poly3SteepestFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3Steepe
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly3SteepestFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestFreeDifferences) poly3SteepestFreeLineResult {
-	slope = poly3SteepestFreeShortenAlong(g, d, slope, floor)
+	if !poly3SteepestFreeFinite(slope) {
+		slope = poly3SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3SteepestFreeShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly3SteepestFreeRiseTrend
@@ -1136,6 +1138,9 @@ func poly3SteepestFreeDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly3SteepestFreeGradientChange: a direction without memory never reads y.
+func poly3SteepestFreeGradientChange(y, next, now *[3]float64) {}
 
 // poly3SteepestFreeUnlimited is a tick budget that never pauses a run.
 const poly3SteepestFreeUnlimited = int(^uint(0) >> 1)

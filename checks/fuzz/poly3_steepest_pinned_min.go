@@ -529,7 +529,7 @@ func (r *poly3SteepestPinnedDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly3SteepestPinnedDifference(&r.s, &xt, &r.x)
-	poly3SteepestPinnedDifference(&r.y, &gt, &r.g)
+	poly3SteepestPinnedGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1029,7 +1029,9 @@ func poly3SteepestPinnedTinyStep(x, d *[3]float64, tol float64, diffs *poly3Stee
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly3SteepestPinnedLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestPinnedStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestPinnedDifferences) poly3SteepestPinnedLineResult {
-	slope = poly3SteepestPinnedShortenAlong(g, d, slope, floor)
+	if !poly3SteepestPinnedFinite(slope) {
+		slope = poly3SteepestPinnedShortenAlong(g, d, slope, floor) // the call only where it acts: poly3SteepestPinnedShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly3SteepestPinnedRiseTrend
@@ -1246,6 +1248,9 @@ func poly3SteepestPinnedDifference(out, a, b *[3]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly3SteepestPinnedGradientChange: a direction without memory never reads y.
+func poly3SteepestPinnedGradientChange(y, next, now *[3]float64) {}
 
 // poly3SteepestPinnedUnlimited is a tick budget that never pauses a run.
 const poly3SteepestPinnedUnlimited = int(^uint(0) >> 1)

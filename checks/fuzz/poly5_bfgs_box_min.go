@@ -528,8 +528,8 @@ func (r *poly5BFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly5BFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly5BFGSBoxDifference(&r.s, &xt, &r.x)
-	poly5BFGSBoxDifference(&r.y, &gt, &r.g)
+	poly5BFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly5BFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func poly5BFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSBoxDiff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5BFGSBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5BFGSBoxStepFloor, budget int, xt, gt *[5]float64, diffs *poly5BFGSBoxDifferences) poly5BFGSBoxLineResult {
-	slope = poly5BFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly5BFGSBoxFinite(slope) {
+		slope = poly5BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly5BFGSBoxShortenAlong is not inlined
+	}
 	low := poly5BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [5]float64                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func poly5BFGSBoxExpandTrial(previous, current *poly5BFGSBoxLinePoint) float64 {
 	return poly5BFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly5BFGSBoxDifference sets out = a − b.
-func poly5BFGSBoxDifference(out, a, b *[5]float64) {
+// poly5BFGSBoxGradientChange sets out = a − b.
+func poly5BFGSBoxGradientChange(out, a, b *[5]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *poly5BFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly5BFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly5BFGSFreeDifference(&r.s, &xt, &r.x)
-	poly5BFGSFreeDifference(&r.y, &gt, &r.g)
+	poly5BFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly5BFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func poly5BFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSFreeDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5BFGSFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5BFGSFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5BFGSFreeDifferences) poly5BFGSFreeLineResult {
-	slope = poly5BFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly5BFGSFreeFinite(slope) {
+		slope = poly5BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5BFGSFreeShortenAlong is not inlined
+	}
 	low := poly5BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [5]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func poly5BFGSFreeExpandTrial(previous, current *poly5BFGSFreeLinePoint) float64
 	return poly5BFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly5BFGSFreeDifference sets out = a − b.
-func poly5BFGSFreeDifference(out, a, b *[5]float64) {
+// poly5BFGSFreeGradientChange sets out = a − b.
+func poly5BFGSFreeGradientChange(out, a, b *[5]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *poly5CGFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly5CGFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly5CGFreeDifference(&r.s, &xt, &r.x)
-	poly5CGFreeDifference(&r.y, &gt, &r.g)
+	poly5CGFreeGradientChange(&r.s, &xt, &r.x)
+	poly5CGFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func poly5CGFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5CGFreeDiffer
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5CGFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5CGFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5CGFreeDifferences) poly5CGFreeLineResult {
-	slope = poly5CGFreeShortenAlong(g, d, slope, floor)
+	if !poly5CGFreeFinite(slope) {
+		slope = poly5CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5CGFreeShortenAlong is not inlined
+	}
 	low := poly5CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [5]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func poly5CGFreeExpandTrial(previous, current *poly5CGFreeLinePoint) float64 {
 	return poly5CGFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly5CGFreeDifference sets out = a − b.
-func poly5CGFreeDifference(out, a, b *[5]float64) {
+// poly5CGFreeGradientChange sets out = a − b.
+func poly5CGFreeGradientChange(out, a, b *[5]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

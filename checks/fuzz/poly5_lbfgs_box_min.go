@@ -529,8 +529,8 @@ func (r *poly5LBFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly5LBFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly5LBFGSBoxDifference(&r.s, &xt, &r.x)
-	poly5LBFGSBoxDifference(&r.y, &gt, &r.g)
+	poly5LBFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly5LBFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1286,7 +1286,9 @@ func poly5LBFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSBoxDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5LBFGSBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5LBFGSBoxStepFloor, budget int, xt, gt *[5]float64, diffs *poly5LBFGSBoxDifferences) poly5LBFGSBoxLineResult {
-	slope = poly5LBFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly5LBFGSBoxFinite(slope) {
+		slope = poly5LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly5LBFGSBoxShortenAlong is not inlined
+	}
 	low := poly5LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [5]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1627,8 +1629,8 @@ func poly5LBFGSBoxExpandTrial(previous, current *poly5LBFGSBoxLinePoint) float64
 	return poly5LBFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly5LBFGSBoxDifference sets out = a − b.
-func poly5LBFGSBoxDifference(out, a, b *[5]float64) {
+// poly5LBFGSBoxGradientChange sets out = a − b.
+func poly5LBFGSBoxGradientChange(out, a, b *[5]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *poly5LBFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly5LBFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly5LBFGSFreeDifference(&r.s, &xt, &r.x)
-	poly5LBFGSFreeDifference(&r.y, &gt, &r.g)
+	poly5LBFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly5LBFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func poly5LBFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSFree
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5LBFGSFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5LBFGSFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5LBFGSFreeDifferences) poly5LBFGSFreeLineResult {
-	slope = poly5LBFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly5LBFGSFreeFinite(slope) {
+		slope = poly5LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5LBFGSFreeShortenAlong is not inlined
+	}
 	low := poly5LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [5]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func poly5LBFGSFreeExpandTrial(previous, current *poly5LBFGSFreeLinePoint) float
 	return poly5LBFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly5LBFGSFreeDifference sets out = a − b.
-func poly5LBFGSFreeDifference(out, a, b *[5]float64) {
+// poly5LBFGSFreeGradientChange sets out = a − b.
+func poly5LBFGSFreeGradientChange(out, a, b *[5]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -529,7 +529,7 @@ func (r *poly5SteepestBoxDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly5SteepestBoxDifference(&r.s, &xt, &r.x)
-	poly5SteepestBoxDifference(&r.y, &gt, &r.g)
+	poly5SteepestBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1029,7 +1029,9 @@ func poly5SteepestBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5Steepes
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly5SteepestBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5SteepestBoxStepFloor, budget int, xt, gt *[5]float64, diffs *poly5SteepestBoxDifferences) poly5SteepestBoxLineResult {
-	slope = poly5SteepestBoxShortenAlong(g, d, slope, floor)
+	if !poly5SteepestBoxFinite(slope) {
+		slope = poly5SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly5SteepestBoxShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly5SteepestBoxRiseTrend
@@ -1246,6 +1248,9 @@ func poly5SteepestBoxDifference(out, a, b *[5]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly5SteepestBoxGradientChange: a direction without memory never reads y.
+func poly5SteepestBoxGradientChange(y, next, now *[5]float64) {}
 
 // poly5SteepestBoxUnlimited is a tick budget that never pauses a run.
 const poly5SteepestBoxUnlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *poly5SteepestFreeDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly5SteepestFreeDifference(&r.s, &xt, &r.x)
-	poly5SteepestFreeDifference(&r.y, &gt, &r.g)
+	poly5SteepestFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -932,7 +932,9 @@ func poly5SteepestFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5Steepe
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly5SteepestFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5SteepestFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5SteepestFreeDifferences) poly5SteepestFreeLineResult {
-	slope = poly5SteepestFreeShortenAlong(g, d, slope, floor)
+	if !poly5SteepestFreeFinite(slope) {
+		slope = poly5SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5SteepestFreeShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly5SteepestFreeRiseTrend
@@ -1136,6 +1138,9 @@ func poly5SteepestFreeDifference(out, a, b *[5]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly5SteepestFreeGradientChange: a direction without memory never reads y.
+func poly5SteepestFreeGradientChange(y, next, now *[5]float64) {}
 
 // poly5SteepestFreeUnlimited is a tick budget that never pauses a run.
 const poly5SteepestFreeUnlimited = int(^uint(0) >> 1)

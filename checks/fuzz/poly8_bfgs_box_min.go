@@ -528,8 +528,8 @@ func (r *poly8BFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly8BFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly8BFGSBoxDifference(&r.s, &xt, &r.x)
-	poly8BFGSBoxDifference(&r.y, &gt, &r.g)
+	poly8BFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly8BFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSBoxDiff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8BFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8BFGSBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8BFGSBoxDifferences) poly8BFGSBoxLineResult {
-	slope = poly8BFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly8BFGSBoxFinite(slope) {
+		slope = poly8BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly8BFGSBoxShortenAlong is not inlined
+	}
 	low := poly8BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func poly8BFGSBoxExpandTrial(previous, current *poly8BFGSBoxLinePoint) float64 {
 	return poly8BFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly8BFGSBoxDifference sets out = a − b.
-func poly8BFGSBoxDifference(out, a, b *[8]float64) {
+// poly8BFGSBoxGradientChange sets out = a − b.
+func poly8BFGSBoxGradientChange(out, a, b *[8]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *poly8BFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly8BFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly8BFGSFreeDifference(&r.s, &xt, &r.x)
-	poly8BFGSFreeDifference(&r.y, &gt, &r.g)
+	poly8BFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly8BFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func poly8BFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSFreeDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8BFGSFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8BFGSFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8BFGSFreeDifferences) poly8BFGSFreeLineResult {
-	slope = poly8BFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly8BFGSFreeFinite(slope) {
+		slope = poly8BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8BFGSFreeShortenAlong is not inlined
+	}
 	low := poly8BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func poly8BFGSFreeExpandTrial(previous, current *poly8BFGSFreeLinePoint) float64
 	return poly8BFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly8BFGSFreeDifference sets out = a − b.
-func poly8BFGSFreeDifference(out, a, b *[8]float64) {
+// poly8BFGSFreeGradientChange sets out = a − b.
+func poly8BFGSFreeGradientChange(out, a, b *[8]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *poly8CGFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly8CGFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly8CGFreeDifference(&r.s, &xt, &r.x)
-	poly8CGFreeDifference(&r.y, &gt, &r.g)
+	poly8CGFreeGradientChange(&r.s, &xt, &r.x)
+	poly8CGFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func poly8CGFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8CGFreeDiffer
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8CGFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8CGFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8CGFreeDifferences) poly8CGFreeLineResult {
-	slope = poly8CGFreeShortenAlong(g, d, slope, floor)
+	if !poly8CGFreeFinite(slope) {
+		slope = poly8CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8CGFreeShortenAlong is not inlined
+	}
 	low := poly8CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func poly8CGFreeExpandTrial(previous, current *poly8CGFreeLinePoint) float64 {
 	return poly8CGFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly8CGFreeDifference sets out = a − b.
-func poly8CGFreeDifference(out, a, b *[8]float64) {
+// poly8CGFreeGradientChange sets out = a − b.
+func poly8CGFreeGradientChange(out, a, b *[8]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -529,8 +529,8 @@ func (r *poly8LBFGSBoxDescent) search(recv *Poly) {
 		r.out.evaluations += poly8LBFGSBoxDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly8LBFGSBoxDifference(&r.s, &xt, &r.x)
-	poly8LBFGSBoxDifference(&r.y, &gt, &r.g)
+	poly8LBFGSBoxGradientChange(&r.s, &xt, &r.x)
+	poly8LBFGSBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1286,7 +1286,9 @@ func poly8LBFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSBoxDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8LBFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSBoxDifferences) poly8LBFGSBoxLineResult {
-	slope = poly8LBFGSBoxShortenAlong(g, d, slope, floor)
+	if !poly8LBFGSBoxFinite(slope) {
+		slope = poly8LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly8LBFGSBoxShortenAlong is not inlined
+	}
 	low := poly8LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1627,8 +1629,8 @@ func poly8LBFGSBoxExpandTrial(previous, current *poly8LBFGSBoxLinePoint) float64
 	return poly8LBFGSBoxClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly8LBFGSBoxDifference sets out = a − b.
-func poly8LBFGSBoxDifference(out, a, b *[8]float64) {
+// poly8LBFGSBoxGradientChange sets out = a − b.
+func poly8LBFGSBoxGradientChange(out, a, b *[8]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

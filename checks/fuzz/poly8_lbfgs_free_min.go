@@ -519,8 +519,8 @@ func (r *poly8LBFGSFreeDescent) search(recv *Poly) {
 		r.out.evaluations += poly8LBFGSFreeDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly8LBFGSFreeDifference(&r.s, &xt, &r.x)
-	poly8LBFGSFreeDifference(&r.y, &gt, &r.g)
+	poly8LBFGSFreeGradientChange(&r.s, &xt, &r.x)
+	poly8LBFGSFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func poly8LBFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSFree
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8LBFGSFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSFreeDifferences) poly8LBFGSFreeLineResult {
-	slope = poly8LBFGSFreeShortenAlong(g, d, slope, floor)
+	if !poly8LBFGSFreeFinite(slope) {
+		slope = poly8LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8LBFGSFreeShortenAlong is not inlined
+	}
 	low := poly8LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func poly8LBFGSFreeExpandTrial(previous, current *poly8LBFGSFreeLinePoint) float
 	return poly8LBFGSFreeClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly8LBFGSFreeDifference sets out = a − b.
-func poly8LBFGSFreeDifference(out, a, b *[8]float64) {
+// poly8LBFGSFreeGradientChange sets out = a − b.
+func poly8LBFGSFreeGradientChange(out, a, b *[8]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

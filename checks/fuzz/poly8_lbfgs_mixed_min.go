@@ -529,8 +529,8 @@ func (r *poly8LBFGSMixedDescent) search(recv *Poly) {
 		r.out.evaluations += poly8LBFGSMixedDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	poly8LBFGSMixedDifference(&r.s, &xt, &r.x)
-	poly8LBFGSMixedDifference(&r.y, &gt, &r.g)
+	poly8LBFGSMixedGradientChange(&r.s, &xt, &r.x)
+	poly8LBFGSMixedGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1286,7 +1286,9 @@ func poly8LBFGSMixedTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSMix
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8LBFGSMixedLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSMixedStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSMixedDifferences) poly8LBFGSMixedLineResult {
-	slope = poly8LBFGSMixedShortenAlong(g, d, slope, floor)
+	if !poly8LBFGSMixedFinite(slope) {
+		slope = poly8LBFGSMixedShortenAlong(g, d, slope, floor) // the call only where it acts: poly8LBFGSMixedShortenAlong is not inlined
+	}
 	low := poly8LBFGSMixedLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSMixedLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1627,8 +1629,8 @@ func poly8LBFGSMixedExpandTrial(previous, current *poly8LBFGSMixedLinePoint) flo
 	return poly8LBFGSMixedClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// poly8LBFGSMixedDifference sets out = a − b.
-func poly8LBFGSMixedDifference(out, a, b *[8]float64) {
+// poly8LBFGSMixedGradientChange sets out = a − b.
+func poly8LBFGSMixedGradientChange(out, a, b *[8]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -529,7 +529,7 @@ func (r *poly8SteepestBoxDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly8SteepestBoxDifference(&r.s, &xt, &r.x)
-	poly8SteepestBoxDifference(&r.y, &gt, &r.g)
+	poly8SteepestBoxGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1029,7 +1029,9 @@ func poly8SteepestBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8Steepes
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly8SteepestBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8SteepestBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8SteepestBoxDifferences) poly8SteepestBoxLineResult {
-	slope = poly8SteepestBoxShortenAlong(g, d, slope, floor)
+	if !poly8SteepestBoxFinite(slope) {
+		slope = poly8SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly8SteepestBoxShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly8SteepestBoxRiseTrend
@@ -1246,6 +1248,9 @@ func poly8SteepestBoxDifference(out, a, b *[8]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly8SteepestBoxGradientChange: a direction without memory never reads y.
+func poly8SteepestBoxGradientChange(y, next, now *[8]float64) {}
 
 // poly8SteepestBoxUnlimited is a tick budget that never pauses a run.
 const poly8SteepestBoxUnlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *poly8SteepestFreeDescent) search(recv *Poly) {
 	}
 	r.out.iterations++
 	poly8SteepestFreeDifference(&r.s, &xt, &r.x)
-	poly8SteepestFreeDifference(&r.y, &gt, &r.g)
+	poly8SteepestFreeGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -932,7 +932,9 @@ func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8Steepe
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly8SteepestFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8SteepestFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8SteepestFreeDifferences) poly8SteepestFreeLineResult {
-	slope = poly8SteepestFreeShortenAlong(g, d, slope, floor)
+	if !poly8SteepestFreeFinite(slope) {
+		slope = poly8SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8SteepestFreeShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend poly8SteepestFreeRiseTrend
@@ -1136,6 +1138,9 @@ func poly8SteepestFreeDifference(out, a, b *[8]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// poly8SteepestFreeGradientChange: a direction without memory never reads y.
+func poly8SteepestFreeGradientChange(y, next, now *[8]float64) {}
 
 // poly8SteepestFreeUnlimited is a tick budget that never pauses a run.
 const poly8SteepestFreeUnlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeMTAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeMTAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeMTAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func concaveLeftStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) concaveLeftStrongWolfeMTAlphaE1LineResult {
-	slope = concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeMTAlphaE1Finite(slope) {
+		slope = concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func concaveLeftStrongWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeMTAlphaE1GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeMTAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeMTAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeMTAlphaE1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) concaveLeftStrongWolfeMTAlphaEm1LineResult {
-	slope = concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeMTAlphaEm1Finite(slope) {
+		slope = concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveLeftStrongWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeMTAlphaEm3Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeMTAlphaEm3Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeMTAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveLeftStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) concaveLeftStrongWolfeMTAlphaEm3LineResult {
-	slope = concaveLeftStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeMTAlphaEm3Finite(slope) {
+		slope = concaveLeftStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaEm3ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveLeftStrongWolfeMTAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeMTAlphaEm3GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeMTAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeMTAlphaEm3Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeMTAlphaEm3Unlimited = int(^uint(0) >> 1)

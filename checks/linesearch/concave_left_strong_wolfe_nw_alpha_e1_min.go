@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func concaveLeftStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) concaveLeftStrongWolfeNWAlphaE1LineResult {
-	slope = concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeNWAlphaE1Finite(slope) {
+		slope = concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func concaveLeftStrongWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

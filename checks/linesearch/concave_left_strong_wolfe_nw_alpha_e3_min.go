@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeNWAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeNWAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func concaveLeftStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) concaveLeftStrongWolfeNWAlphaE3LineResult {
-	slope = concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeNWAlphaE3Finite(slope) {
+		slope = concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaE3ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func concaveLeftStrongWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeNWAlphaE3GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeNWAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeNWAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeNWAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeNWAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveLeftStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) concaveLeftStrongWolfeNWAlphaEm1LineResult {
-	slope = concaveLeftStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeNWAlphaEm1Finite(slope) {
+		slope = concaveLeftStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveLeftStrongWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeNWAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeNWAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeNWAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeNWAlphaEm1Unlimited = int(^uint(0) >> 1)

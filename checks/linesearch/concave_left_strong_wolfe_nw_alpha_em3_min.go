@@ -519,7 +519,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftStrongWolfeNWAlphaEm3Difference(&r.s, &xt, &r.x)
-	concaveLeftStrongWolfeNWAlphaEm3Difference(&r.y, &gt, &r.g)
+	concaveLeftStrongWolfeNWAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) concaveLeftStrongWolfeNWAlphaEm3LineResult {
-	slope = concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !concaveLeftStrongWolfeNWAlphaEm3Finite(slope) {
+		slope = concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaEm3ShortenAlong is not inlined
+	}
 	low := concaveLeftStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveLeftStrongWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftStrongWolfeNWAlphaEm3GradientChange: a direction without memory never reads y.
+func concaveLeftStrongWolfeNWAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftStrongWolfeNWAlphaEm3Unlimited is a tick budget that never pauses a run.
 const concaveLeftStrongWolfeNWAlphaEm3Unlimited = int(^uint(0) >> 1)

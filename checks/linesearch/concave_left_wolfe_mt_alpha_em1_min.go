@@ -519,7 +519,7 @@ func (r *concaveLeftWolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftWolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveLeftWolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveLeftWolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func concaveLeftWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) concaveLeftWolfeMTAlphaEm1LineResult {
-	slope = concaveLeftWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveLeftWolfeMTAlphaEm1Finite(slope) {
+		slope = concaveLeftWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveLeftWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func concaveLeftWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftWolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveLeftWolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftWolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveLeftWolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveLeftWolfeMTAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftWolfeMTAlphaEm3Difference(&r.s, &xt, &r.x)
-	concaveLeftWolfeMTAlphaEm3Difference(&r.y, &gt, &r.g)
+	concaveLeftWolfeMTAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func concaveLeftWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *co
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) concaveLeftWolfeMTAlphaEm3LineResult {
-	slope = concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !concaveLeftWolfeMTAlphaEm3Finite(slope) {
+		slope = concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeMTAlphaEm3ShortenAlong is not inlined
+	}
 	low := concaveLeftWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func concaveLeftWolfeMTAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftWolfeMTAlphaEm3GradientChange: a direction without memory never reads y.
+func concaveLeftWolfeMTAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftWolfeMTAlphaEm3Unlimited is a tick budget that never pauses a run.
 const concaveLeftWolfeMTAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveLeftWolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftWolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveLeftWolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveLeftWolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func concaveLeftWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *con
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) concaveLeftWolfeNWAlphaE1LineResult {
-	slope = concaveLeftWolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveLeftWolfeNWAlphaE1Finite(slope) {
+		slope = concaveLeftWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveLeftWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func concaveLeftWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftWolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func concaveLeftWolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftWolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveLeftWolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

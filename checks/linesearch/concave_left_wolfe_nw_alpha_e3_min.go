@@ -519,7 +519,7 @@ func (r *concaveLeftWolfeNWAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	concaveLeftWolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
-	concaveLeftWolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	concaveLeftWolfeNWAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func concaveLeftWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *con
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) concaveLeftWolfeNWAlphaE3LineResult {
-	slope = concaveLeftWolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
+	if !concaveLeftWolfeNWAlphaE3Finite(slope) {
+		slope = concaveLeftWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeNWAlphaE3ShortenAlong is not inlined
+	}
 	low := concaveLeftWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func concaveLeftWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveLeftWolfeNWAlphaE3GradientChange: a direction without memory never reads y.
+func concaveLeftWolfeNWAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // concaveLeftWolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
 const concaveLeftWolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightStrongWolfeMTAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveRightStrongWolfeMTAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveRightStrongWolfeMTAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) concaveRightStrongWolfeMTAlphaE1LineResult {
-	slope = concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveRightStrongWolfeMTAlphaE1Finite(slope) {
+		slope = concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveRightStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveRightStrongWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeMTAlphaE1GradientChange: a direction without memory never reads y.
+func concaveRightStrongWolfeMTAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightStrongWolfeMTAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveRightStrongWolfeMTAlphaE1Unlimited = int(^uint(0) >> 1)

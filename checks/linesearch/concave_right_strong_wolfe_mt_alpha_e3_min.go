@@ -519,7 +519,7 @@ func (r *concaveRightStrongWolfeMTAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightStrongWolfeMTAlphaE3Difference(&r.s, &xt, &r.x)
-	concaveRightStrongWolfeMTAlphaE3Difference(&r.y, &gt, &r.g)
+	concaveRightStrongWolfeMTAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveRightStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) concaveRightStrongWolfeMTAlphaE3LineResult {
-	slope = concaveRightStrongWolfeMTAlphaE3ShortenAlong(g, d, slope, floor)
+	if !concaveRightStrongWolfeMTAlphaE3Finite(slope) {
+		slope = concaveRightStrongWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaE3ShortenAlong is not inlined
+	}
 	low := concaveRightStrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveRightStrongWolfeMTAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeMTAlphaE3GradientChange: a direction without memory never reads y.
+func concaveRightStrongWolfeMTAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightStrongWolfeMTAlphaE3Unlimited is a tick budget that never pauses a run.
 const concaveRightStrongWolfeMTAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveRightStrongWolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightStrongWolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveRightStrongWolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveRightStrongWolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveRightStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, di
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) concaveRightStrongWolfeMTAlphaEm1LineResult {
-	slope = concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveRightStrongWolfeMTAlphaEm1Finite(slope) {
+		slope = concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveRightStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveRightStrongWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveRightStrongWolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightStrongWolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveRightStrongWolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

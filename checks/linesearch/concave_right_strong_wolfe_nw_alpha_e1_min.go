@@ -519,7 +519,7 @@ func (r *concaveRightStrongWolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightStrongWolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveRightStrongWolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveRightStrongWolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveRightStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) concaveRightStrongWolfeNWAlphaE1LineResult {
-	slope = concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveRightStrongWolfeNWAlphaE1Finite(slope) {
+		slope = concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveRightStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveRightStrongWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func concaveRightStrongWolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightStrongWolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveRightStrongWolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

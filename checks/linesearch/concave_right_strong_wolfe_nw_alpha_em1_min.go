@@ -519,7 +519,7 @@ func (r *concaveRightStrongWolfeNWAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightStrongWolfeNWAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveRightStrongWolfeNWAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveRightStrongWolfeNWAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveRightStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, di
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) concaveRightStrongWolfeNWAlphaEm1LineResult {
-	slope = concaveRightStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveRightStrongWolfeNWAlphaEm1Finite(slope) {
+		slope = concaveRightStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveRightStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveRightStrongWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeNWAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveRightStrongWolfeNWAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightStrongWolfeNWAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveRightStrongWolfeNWAlphaEm1Unlimited = int(^uint(0) >> 1)

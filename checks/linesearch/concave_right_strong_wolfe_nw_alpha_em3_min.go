@@ -519,7 +519,7 @@ func (r *concaveRightStrongWolfeNWAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightStrongWolfeNWAlphaEm3Difference(&r.s, &xt, &r.x)
-	concaveRightStrongWolfeNWAlphaEm3Difference(&r.y, &gt, &r.g)
+	concaveRightStrongWolfeNWAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -955,7 +955,9 @@ func concaveRightStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, di
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) concaveRightStrongWolfeNWAlphaEm3LineResult {
-	slope = concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !concaveRightStrongWolfeNWAlphaEm3Finite(slope) {
+		slope = concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaEm3ShortenAlong is not inlined
+	}
 	low := concaveRightStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1267,6 +1269,9 @@ func concaveRightStrongWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightStrongWolfeNWAlphaEm3GradientChange: a direction without memory never reads y.
+func concaveRightStrongWolfeNWAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightStrongWolfeNWAlphaEm3Unlimited is a tick budget that never pauses a run.
 const concaveRightStrongWolfeNWAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveRightWolfeMTAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightWolfeMTAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveRightWolfeMTAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveRightWolfeMTAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func concaveRightWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) concaveRightWolfeMTAlphaE1LineResult {
-	slope = concaveRightWolfeMTAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveRightWolfeMTAlphaE1Finite(slope) {
+		slope = concaveRightWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveRightWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func concaveRightWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightWolfeMTAlphaE1GradientChange: a direction without memory never reads y.
+func concaveRightWolfeMTAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightWolfeMTAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveRightWolfeMTAlphaE1Unlimited = int(^uint(0) >> 1)

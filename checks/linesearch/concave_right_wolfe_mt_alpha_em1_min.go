@@ -519,7 +519,7 @@ func (r *concaveRightWolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightWolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveRightWolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveRightWolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *c
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
-	slope = concaveRightWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveRightWolfeMTAlphaEm1Finite(slope) {
+		slope = concaveRightWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveRightWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func concaveRightWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightWolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveRightWolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightWolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveRightWolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

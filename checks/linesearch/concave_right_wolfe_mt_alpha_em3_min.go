@@ -519,7 +519,7 @@ func (r *concaveRightWolfeMTAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightWolfeMTAlphaEm3Difference(&r.s, &xt, &r.x)
-	concaveRightWolfeMTAlphaEm3Difference(&r.y, &gt, &r.g)
+	concaveRightWolfeMTAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func concaveRightWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *c
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) concaveRightWolfeMTAlphaEm3LineResult {
-	slope = concaveRightWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !concaveRightWolfeMTAlphaEm3Finite(slope) {
+		slope = concaveRightWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaEm3ShortenAlong is not inlined
+	}
 	low := concaveRightWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func concaveRightWolfeMTAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightWolfeMTAlphaEm3GradientChange: a direction without memory never reads y.
+func concaveRightWolfeMTAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightWolfeMTAlphaEm3Unlimited is a tick budget that never pauses a run.
 const concaveRightWolfeMTAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *concaveRightWolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightWolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	concaveRightWolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	concaveRightWolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) concaveRightWolfeNWAlphaE1LineResult {
-	slope = concaveRightWolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !concaveRightWolfeNWAlphaE1Finite(slope) {
+		slope = concaveRightWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := concaveRightWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func concaveRightWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightWolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func concaveRightWolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightWolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const concaveRightWolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

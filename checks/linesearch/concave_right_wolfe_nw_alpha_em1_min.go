@@ -519,7 +519,7 @@ func (r *concaveRightWolfeNWAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	concaveRightWolfeNWAlphaEm1Difference(&r.s, &xt, &r.x)
-	concaveRightWolfeNWAlphaEm1Difference(&r.y, &gt, &r.g)
+	concaveRightWolfeNWAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func concaveRightWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *c
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) concaveRightWolfeNWAlphaEm1LineResult {
-	slope = concaveRightWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !concaveRightWolfeNWAlphaEm1Finite(slope) {
+		slope = concaveRightWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeNWAlphaEm1ShortenAlong is not inlined
+	}
 	low := concaveRightWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func concaveRightWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// concaveRightWolfeNWAlphaEm1GradientChange: a direction without memory never reads y.
+func concaveRightWolfeNWAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // concaveRightWolfeNWAlphaEm1Unlimited is a tick budget that never pauses a run.
 const concaveRightWolfeNWAlphaEm1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannStrongWolfeMTAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannStrongWolfeMTAlphaE1Difference(&r.s, &xt, &r.x)
-	plassmannStrongWolfeMTAlphaE1Difference(&r.y, &gt, &r.g)
+	plassmannStrongWolfeMTAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func plassmannStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) plassmannStrongWolfeMTAlphaE1LineResult {
-	slope = plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor)
+	if !plassmannStrongWolfeMTAlphaE1Finite(slope) {
+		slope = plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaE1ShortenAlong is not inlined
+	}
 	low := plassmannStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func plassmannStrongWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannStrongWolfeMTAlphaE1GradientChange: a direction without memory never reads y.
+func plassmannStrongWolfeMTAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannStrongWolfeMTAlphaE1Unlimited is a tick budget that never pauses a run.
 const plassmannStrongWolfeMTAlphaE1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannStrongWolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	plassmannStrongWolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	plassmannStrongWolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
-	slope = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !plassmannStrongWolfeMTAlphaEm1Finite(slope) {
+		slope = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := plassmannStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func plassmannStrongWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannStrongWolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func plassmannStrongWolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannStrongWolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const plassmannStrongWolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

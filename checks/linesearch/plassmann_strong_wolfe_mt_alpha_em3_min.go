@@ -519,7 +519,7 @@ func (r *plassmannStrongWolfeMTAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	plassmannStrongWolfeMTAlphaEm3Difference(&r.s, &xt, &r.x)
-	plassmannStrongWolfeMTAlphaEm3Difference(&r.y, &gt, &r.g)
+	plassmannStrongWolfeMTAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func plassmannStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) plassmannStrongWolfeMTAlphaEm3LineResult {
-	slope = plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !plassmannStrongWolfeMTAlphaEm3Finite(slope) {
+		slope = plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaEm3ShortenAlong is not inlined
+	}
 	low := plassmannStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func plassmannStrongWolfeMTAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannStrongWolfeMTAlphaEm3GradientChange: a direction without memory never reads y.
+func plassmannStrongWolfeMTAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // plassmannStrongWolfeMTAlphaEm3Unlimited is a tick budget that never pauses a run.
 const plassmannStrongWolfeMTAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannStrongWolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannStrongWolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	plassmannStrongWolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	plassmannStrongWolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func plassmannStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) plassmannStrongWolfeNWAlphaE1LineResult {
-	slope = plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !plassmannStrongWolfeNWAlphaE1Finite(slope) {
+		slope = plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := plassmannStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func plassmannStrongWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannStrongWolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func plassmannStrongWolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannStrongWolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const plassmannStrongWolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

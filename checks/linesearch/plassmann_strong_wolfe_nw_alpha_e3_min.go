@@ -519,7 +519,7 @@ func (r *plassmannStrongWolfeNWAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	plassmannStrongWolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
-	plassmannStrongWolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	plassmannStrongWolfeNWAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func plassmannStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) plassmannStrongWolfeNWAlphaE3LineResult {
-	slope = plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
+	if !plassmannStrongWolfeNWAlphaE3Finite(slope) {
+		slope = plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaE3ShortenAlong is not inlined
+	}
 	low := plassmannStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func plassmannStrongWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannStrongWolfeNWAlphaE3GradientChange: a direction without memory never reads y.
+func plassmannStrongWolfeNWAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // plassmannStrongWolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
 const plassmannStrongWolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	plassmannStrongWolfeNWAlphaEm3Difference(&r.s, &xt, &r.x)
-	plassmannStrongWolfeNWAlphaEm3Difference(&r.y, &gt, &r.g)
+	plassmannStrongWolfeNWAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -954,7 +954,9 @@ func plassmannStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) plassmannStrongWolfeNWAlphaEm3LineResult {
-	slope = plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !plassmannStrongWolfeNWAlphaEm3Finite(slope) {
+		slope = plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaEm3ShortenAlong is not inlined
+	}
 	low := plassmannStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1266,6 +1268,9 @@ func plassmannStrongWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannStrongWolfeNWAlphaEm3GradientChange: a direction without memory never reads y.
+func plassmannStrongWolfeNWAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // plassmannStrongWolfeNWAlphaEm3Unlimited is a tick budget that never pauses a run.
 const plassmannStrongWolfeNWAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannWolfeMTAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeMTAlphaE1Difference(&r.s, &xt, &r.x)
-	plassmannWolfeMTAlphaE1Difference(&r.y, &gt, &r.g)
+	plassmannWolfeMTAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) plassmannWolfeMTAlphaE1LineResult {
-	slope = plassmannWolfeMTAlphaE1ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeMTAlphaE1Finite(slope) {
+		slope = plassmannWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaE1ShortenAlong is not inlined
+	}
 	low := plassmannWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeMTAlphaE1GradientChange: a direction without memory never reads y.
+func plassmannWolfeMTAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeMTAlphaE1Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeMTAlphaE1Unlimited = int(^uint(0) >> 1)

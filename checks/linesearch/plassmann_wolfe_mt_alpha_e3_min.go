@@ -519,7 +519,7 @@ func (r *plassmannWolfeMTAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeMTAlphaE3Difference(&r.s, &xt, &r.x)
-	plassmannWolfeMTAlphaE3Difference(&r.y, &gt, &r.g)
+	plassmannWolfeMTAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) plassmannWolfeMTAlphaE3LineResult {
-	slope = plassmannWolfeMTAlphaE3ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeMTAlphaE3Finite(slope) {
+		slope = plassmannWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaE3ShortenAlong is not inlined
+	}
 	low := plassmannWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeMTAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeMTAlphaE3GradientChange: a direction without memory never reads y.
+func plassmannWolfeMTAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeMTAlphaE3Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeMTAlphaE3Unlimited = int(^uint(0) >> 1)

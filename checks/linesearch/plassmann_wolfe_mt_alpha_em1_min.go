@@ -519,7 +519,7 @@ func (r *plassmannWolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	plassmannWolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	plassmannWolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) plassmannWolfeMTAlphaEm1LineResult {
-	slope = plassmannWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeMTAlphaEm1Finite(slope) {
+		slope = plassmannWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := plassmannWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func plassmannWolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

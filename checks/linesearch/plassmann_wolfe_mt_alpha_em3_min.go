@@ -519,7 +519,7 @@ func (r *plassmannWolfeMTAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeMTAlphaEm3Difference(&r.s, &xt, &r.x)
-	plassmannWolfeMTAlphaEm3Difference(&r.y, &gt, &r.g)
+	plassmannWolfeMTAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) plassmannWolfeMTAlphaEm3LineResult {
-	slope = plassmannWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeMTAlphaEm3Finite(slope) {
+		slope = plassmannWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaEm3ShortenAlong is not inlined
+	}
 	low := plassmannWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeMTAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeMTAlphaEm3GradientChange: a direction without memory never reads y.
+func plassmannWolfeMTAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeMTAlphaEm3Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeMTAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannWolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	plassmannWolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	plassmannWolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) plassmannWolfeNWAlphaE1LineResult {
-	slope = plassmannWolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeNWAlphaE1Finite(slope) {
+		slope = plassmannWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := plassmannWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func plassmannWolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

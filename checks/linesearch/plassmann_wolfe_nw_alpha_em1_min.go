@@ -519,7 +519,7 @@ func (r *plassmannWolfeNWAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeNWAlphaEm1Difference(&r.s, &xt, &r.x)
-	plassmannWolfeNWAlphaEm1Difference(&r.y, &gt, &r.g)
+	plassmannWolfeNWAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) plassmannWolfeNWAlphaEm1LineResult {
-	slope = plassmannWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeNWAlphaEm1Finite(slope) {
+		slope = plassmannWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaEm1ShortenAlong is not inlined
+	}
 	low := plassmannWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeNWAlphaEm1GradientChange: a direction without memory never reads y.
+func plassmannWolfeNWAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeNWAlphaEm1Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeNWAlphaEm1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *plassmannWolfeNWAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	plassmannWolfeNWAlphaEm3Difference(&r.s, &xt, &r.x)
-	plassmannWolfeNWAlphaEm3Difference(&r.y, &gt, &r.g)
+	plassmannWolfeNWAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
-	slope = plassmannWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !plassmannWolfeNWAlphaEm3Finite(slope) {
+		slope = plassmannWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaEm3ShortenAlong is not inlined
+	}
 	low := plassmannWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func plassmannWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// plassmannWolfeNWAlphaEm3GradientChange: a direction without memory never reads y.
+func plassmannWolfeNWAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // plassmannWolfeNWAlphaEm3Unlimited is a tick budget that never pauses a run.
 const plassmannWolfeNWAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *yok1WolfeNWAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	yok1WolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
-	yok1WolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	yok1WolfeNWAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func yok1WolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok1WolfeN
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1WolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1WolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaE3Differences) yok1WolfeNWAlphaE3LineResult {
-	slope = yok1WolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
+	if !yok1WolfeNWAlphaE3Finite(slope) {
+		slope = yok1WolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1WolfeNWAlphaE3ShortenAlong is not inlined
+	}
 	low := yok1WolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1WolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func yok1WolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// yok1WolfeNWAlphaE3GradientChange: a direction without memory never reads y.
+func yok1WolfeNWAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // yok1WolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
 const yok1WolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

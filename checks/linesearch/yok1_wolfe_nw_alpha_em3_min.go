@@ -519,7 +519,7 @@ func (r *yok1WolfeNWAlphaEm3Descent) search() {
 	}
 	r.out.iterations++
 	yok1WolfeNWAlphaEm3Difference(&r.s, &xt, &r.x)
-	yok1WolfeNWAlphaEm3Difference(&r.y, &gt, &r.g)
+	yok1WolfeNWAlphaEm3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func yok1WolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok1Wolfe
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1WolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1WolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaEm3Differences) yok1WolfeNWAlphaEm3LineResult {
-	slope = yok1WolfeNWAlphaEm3ShortenAlong(g, d, slope, floor)
+	if !yok1WolfeNWAlphaEm3Finite(slope) {
+		slope = yok1WolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1WolfeNWAlphaEm3ShortenAlong is not inlined
+	}
 	low := yok1WolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1WolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func yok1WolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// yok1WolfeNWAlphaEm3GradientChange: a direction without memory never reads y.
+func yok1WolfeNWAlphaEm3GradientChange(y, next, now *[1]float64) {}
 
 // yok1WolfeNWAlphaEm3Unlimited is a tick budget that never pauses a run.
 const yok1WolfeNWAlphaEm3Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *yok2WolfeMTAlphaEm1Descent) search() {
 	}
 	r.out.iterations++
 	yok2WolfeMTAlphaEm1Difference(&r.s, &xt, &r.x)
-	yok2WolfeMTAlphaEm1Difference(&r.y, &gt, &r.g)
+	yok2WolfeMTAlphaEm1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func yok2WolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *yok2Wolfe
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2WolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *yok2WolfeMTAlphaEm1Differences) yok2WolfeMTAlphaEm1LineResult {
-	slope = yok2WolfeMTAlphaEm1ShortenAlong(g, d, slope, floor)
+	if !yok2WolfeMTAlphaEm1Finite(slope) {
+		slope = yok2WolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2WolfeMTAlphaEm1ShortenAlong is not inlined
+	}
 	low := yok2WolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func yok2WolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// yok2WolfeMTAlphaEm1GradientChange: a direction without memory never reads y.
+func yok2WolfeMTAlphaEm1GradientChange(y, next, now *[1]float64) {}
 
 // yok2WolfeMTAlphaEm1Unlimited is a tick budget that never pauses a run.
 const yok2WolfeMTAlphaEm1Unlimited = int(^uint(0) >> 1)

@@ -519,7 +519,7 @@ func (r *yok2WolfeNWAlphaE3Descent) search() {
 	}
 	r.out.iterations++
 	yok2WolfeNWAlphaE3Difference(&r.s, &xt, &r.x)
-	yok2WolfeNWAlphaE3Difference(&r.y, &gt, &r.g)
+	yok2WolfeNWAlphaE3GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func yok2WolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok2WolfeN
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2WolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) yok2WolfeNWAlphaE3LineResult {
-	slope = yok2WolfeNWAlphaE3ShortenAlong(g, d, slope, floor)
+	if !yok2WolfeNWAlphaE3Finite(slope) {
+		slope = yok2WolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2WolfeNWAlphaE3ShortenAlong is not inlined
+	}
 	low := yok2WolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func yok2WolfeNWAlphaE3Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// yok2WolfeNWAlphaE3GradientChange: a direction without memory never reads y.
+func yok2WolfeNWAlphaE3GradientChange(y, next, now *[1]float64) {}
 
 // yok2WolfeNWAlphaE3Unlimited is a tick budget that never pauses a run.
 const yok2WolfeNWAlphaE3Unlimited = int(^uint(0) >> 1)

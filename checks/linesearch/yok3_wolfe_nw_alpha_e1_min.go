@@ -519,7 +519,7 @@ func (r *yok3WolfeNWAlphaE1Descent) search() {
 	}
 	r.out.iterations++
 	yok3WolfeNWAlphaE1Difference(&r.s, &xt, &r.x)
-	yok3WolfeNWAlphaE1Difference(&r.y, &gt, &r.g)
+	yok3WolfeNWAlphaE1GradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -953,7 +953,9 @@ func yok3WolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok3WolfeN
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3WolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3WolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *yok3WolfeNWAlphaE1Differences) yok3WolfeNWAlphaE1LineResult {
-	slope = yok3WolfeNWAlphaE1ShortenAlong(g, d, slope, floor)
+	if !yok3WolfeNWAlphaE1Finite(slope) {
+		slope = yok3WolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3WolfeNWAlphaE1ShortenAlong is not inlined
+	}
 	low := yok3WolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3WolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1265,6 +1267,9 @@ func yok3WolfeNWAlphaE1Difference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// yok3WolfeNWAlphaE1GradientChange: a direction without memory never reads y.
+func yok3WolfeNWAlphaE1GradientChange(y, next, now *[1]float64) {}
 
 // yok3WolfeNWAlphaE1Unlimited is a tick budget that never pauses a run.
 const yok3WolfeNWAlphaE1Unlimited = int(^uint(0) >> 1)

@@ -518,8 +518,8 @@ func (r *bealeBFGSAnalyticDescent) search() {
 		r.out.evaluations += bealeBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	bealeBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	bealeBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	bealeBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	bealeBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSAn
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeBFGSAnalyticDifferences) bealeBFGSAnalyticLineResult {
-	slope = bealeBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !bealeBFGSAnalyticFinite(slope) {
+		slope = bealeBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: bealeBFGSAnalyticShortenAlong is not inlined
+	}
 	low := bealeBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func bealeBFGSAnalyticExpandTrial(previous, current *bealeBFGSAnalyticLinePoint)
 	return bealeBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// bealeBFGSAnalyticDifference sets out = a − b.
-func bealeBFGSAnalyticDifference(out, a, b *[2]float64) {
+// bealeBFGSAnalyticGradientChange sets out = a − b.
+func bealeBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

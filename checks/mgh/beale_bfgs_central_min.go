@@ -518,8 +518,8 @@ func (r *bealeBFGSCentralDescent) search() {
 		r.out.evaluations += bealeBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	bealeBFGSCentralDifference(&r.s, &xt, &r.x)
-	bealeBFGSCentralDifference(&r.y, &gt, &r.g)
+	bealeBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	bealeBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSCen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
-	slope = bealeBFGSCentralShortenAlong(g, d, slope, floor)
+	if !bealeBFGSCentralFinite(slope) {
+		slope = bealeBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: bealeBFGSCentralShortenAlong is not inlined
+	}
 	low := bealeBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func bealeBFGSCentralExpandTrial(previous, current *bealeBFGSCentralLinePoint) f
 	return bealeBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// bealeBFGSCentralDifference sets out = a − b.
-func bealeBFGSCentralDifference(out, a, b *[2]float64) {
+// bealeBFGSCentralGradientChange sets out = a − b.
+func bealeBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *bealeCGAnalyticDescent) search() {
 		r.out.evaluations += bealeCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	bealeCGAnalyticDifference(&r.s, &xt, &r.x)
-	bealeCGAnalyticDifference(&r.y, &gt, &r.g)
+	bealeCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	bealeCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGAnalyt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeCGAnalyticDifferences) bealeCGAnalyticLineResult {
-	slope = bealeCGAnalyticShortenAlong(g, d, slope, floor)
+	if !bealeCGAnalyticFinite(slope) {
+		slope = bealeCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: bealeCGAnalyticShortenAlong is not inlined
+	}
 	low := bealeCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func bealeCGAnalyticExpandTrial(previous, current *bealeCGAnalyticLinePoint) flo
 	return bealeCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// bealeCGAnalyticDifference sets out = a − b.
-func bealeCGAnalyticDifference(out, a, b *[2]float64) {
+// bealeCGAnalyticGradientChange sets out = a − b.
+func bealeCGAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *bealeCGCentralDescent) search() {
 		r.out.evaluations += bealeCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	bealeCGCentralDifference(&r.s, &xt, &r.x)
-	bealeCGCentralDifference(&r.y, &gt, &r.g)
+	bealeCGCentralGradientChange(&r.s, &xt, &r.x)
+	bealeCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func bealeCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGCentral
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
-	slope = bealeCGCentralShortenAlong(g, d, slope, floor)
+	if !bealeCGCentralFinite(slope) {
+		slope = bealeCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: bealeCGCentralShortenAlong is not inlined
+	}
 	low := bealeCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func bealeCGCentralExpandTrial(previous, current *bealeCGCentralLinePoint) float
 	return bealeCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// bealeCGCentralDifference sets out = a − b.
-func bealeCGCentralDifference(out, a, b *[2]float64) {
+// bealeCGCentralGradientChange sets out = a − b.
+func bealeCGCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

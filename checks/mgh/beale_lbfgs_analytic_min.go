@@ -519,8 +519,8 @@ func (r *bealeLBFGSAnalyticDescent) search() {
 		r.out.evaluations += bealeLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	bealeLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	bealeLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	bealeLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	bealeLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGS
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
-	slope = bealeLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !bealeLBFGSAnalyticFinite(slope) {
+		slope = bealeLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: bealeLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := bealeLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func bealeLBFGSAnalyticExpandTrial(previous, current *bealeLBFGSAnalyticLinePoin
 	return bealeLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// bealeLBFGSAnalyticDifference sets out = a − b.
-func bealeLBFGSAnalyticDifference(out, a, b *[2]float64) {
+// bealeLBFGSAnalyticGradientChange sets out = a − b.
+func bealeLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *bealeLBFGSCentralDescent) search() {
 		r.out.evaluations += bealeLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	bealeLBFGSCentralDifference(&r.s, &xt, &r.x)
-	bealeLBFGSCentralDifference(&r.y, &gt, &r.g)
+	bealeLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	bealeLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSC
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeLBFGSCentralDifferences) bealeLBFGSCentralLineResult {
-	slope = bealeLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !bealeLBFGSCentralFinite(slope) {
+		slope = bealeLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: bealeLBFGSCentralShortenAlong is not inlined
+	}
 	low := bealeLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func bealeLBFGSCentralExpandTrial(previous, current *bealeLBFGSCentralLinePoint)
 	return bealeLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// bealeLBFGSCentralDifference sets out = a − b.
-func bealeLBFGSCentralDifference(out, a, b *[2]float64) {
+// bealeLBFGSCentralGradientChange sets out = a − b.
+func bealeLBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *biggsEXP6BFGSAnalyticDescent) search() {
 		r.out.evaluations += biggsEXP6BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	biggsEXP6BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	biggsEXP6BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	biggsEXP6BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	biggsEXP6BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEX
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6BFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) biggsEXP6BFGSAnalyticLineResult {
-	slope = biggsEXP6BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !biggsEXP6BFGSAnalyticFinite(slope) {
+		slope = biggsEXP6BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6BFGSAnalyticShortenAlong is not inlined
+	}
 	low := biggsEXP6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func biggsEXP6BFGSAnalyticExpandTrial(previous, current *biggsEXP6BFGSAnalyticLi
 	return biggsEXP6BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// biggsEXP6BFGSAnalyticDifference sets out = a − b.
-func biggsEXP6BFGSAnalyticDifference(out, a, b *[6]float64) {
+// biggsEXP6BFGSAnalyticGradientChange sets out = a − b.
+func biggsEXP6BFGSAnalyticGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *biggsEXP6BFGSCentralDescent) search() {
 		r.out.evaluations += biggsEXP6BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	biggsEXP6BFGSCentralDifference(&r.s, &xt, &r.x)
-	biggsEXP6BFGSCentralDifference(&r.y, &gt, &r.g)
+	biggsEXP6BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	biggsEXP6BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6BFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) biggsEXP6BFGSCentralLineResult {
-	slope = biggsEXP6BFGSCentralShortenAlong(g, d, slope, floor)
+	if !biggsEXP6BFGSCentralFinite(slope) {
+		slope = biggsEXP6BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6BFGSCentralShortenAlong is not inlined
+	}
 	low := biggsEXP6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func biggsEXP6BFGSCentralExpandTrial(previous, current *biggsEXP6BFGSCentralLine
 	return biggsEXP6BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// biggsEXP6BFGSCentralDifference sets out = a − b.
-func biggsEXP6BFGSCentralDifference(out, a, b *[6]float64) {
+// biggsEXP6BFGSCentralGradientChange sets out = a − b.
+func biggsEXP6BFGSCentralGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *biggsEXP6CGAnalyticDescent) search() {
 		r.out.evaluations += biggsEXP6CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	biggsEXP6CGAnalyticDifference(&r.s, &xt, &r.x)
-	biggsEXP6CGAnalyticDifference(&r.y, &gt, &r.g)
+	biggsEXP6CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	biggsEXP6CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6CGAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
-	slope = biggsEXP6CGAnalyticShortenAlong(g, d, slope, floor)
+	if !biggsEXP6CGAnalyticFinite(slope) {
+		slope = biggsEXP6CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6CGAnalyticShortenAlong is not inlined
+	}
 	low := biggsEXP6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func biggsEXP6CGAnalyticExpandTrial(previous, current *biggsEXP6CGAnalyticLinePo
 	return biggsEXP6CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// biggsEXP6CGAnalyticDifference sets out = a − b.
-func biggsEXP6CGAnalyticDifference(out, a, b *[6]float64) {
+// biggsEXP6CGAnalyticGradientChange sets out = a − b.
+func biggsEXP6CGAnalyticGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

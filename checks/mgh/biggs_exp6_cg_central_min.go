@@ -518,8 +518,8 @@ func (r *biggsEXP6CGCentralDescent) search() {
 		r.out.evaluations += biggsEXP6CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	biggsEXP6CGCentralDifference(&r.s, &xt, &r.x)
-	biggsEXP6CGCentralDifference(&r.y, &gt, &r.g)
+	biggsEXP6CGCentralGradientChange(&r.s, &xt, &r.x)
+	biggsEXP6CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6C
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6CGCentralStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGCentralDifferences) biggsEXP6CGCentralLineResult {
-	slope = biggsEXP6CGCentralShortenAlong(g, d, slope, floor)
+	if !biggsEXP6CGCentralFinite(slope) {
+		slope = biggsEXP6CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6CGCentralShortenAlong is not inlined
+	}
 	low := biggsEXP6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func biggsEXP6CGCentralExpandTrial(previous, current *biggsEXP6CGCentralLinePoin
 	return biggsEXP6CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// biggsEXP6CGCentralDifference sets out = a − b.
-func biggsEXP6CGCentralDifference(out, a, b *[6]float64) {
+// biggsEXP6CGCentralGradientChange sets out = a − b.
+func biggsEXP6CGCentralGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *biggsEXP6LBFGSAnalyticDescent) search() {
 		r.out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	biggsEXP6LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	biggsEXP6LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	biggsEXP6LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	biggsEXP6LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsE
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6LBFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) biggsEXP6LBFGSAnalyticLineResult {
-	slope = biggsEXP6LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !biggsEXP6LBFGSAnalyticFinite(slope) {
+		slope = biggsEXP6LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := biggsEXP6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func biggsEXP6LBFGSAnalyticExpandTrial(previous, current *biggsEXP6LBFGSAnalytic
 	return biggsEXP6LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// biggsEXP6LBFGSAnalyticDifference sets out = a − b.
-func biggsEXP6LBFGSAnalyticDifference(out, a, b *[6]float64) {
+// biggsEXP6LBFGSAnalyticGradientChange sets out = a − b.
+func biggsEXP6LBFGSAnalyticGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *biggsEXP6LBFGSCentralDescent) search() {
 		r.out.evaluations += biggsEXP6LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	biggsEXP6LBFGSCentralDifference(&r.s, &xt, &r.x)
-	biggsEXP6LBFGSCentralDifference(&r.y, &gt, &r.g)
+	biggsEXP6LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	biggsEXP6LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEX
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6LBFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) biggsEXP6LBFGSCentralLineResult {
-	slope = biggsEXP6LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !biggsEXP6LBFGSCentralFinite(slope) {
+		slope = biggsEXP6LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6LBFGSCentralShortenAlong is not inlined
+	}
 	low := biggsEXP6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func biggsEXP6LBFGSCentralExpandTrial(previous, current *biggsEXP6LBFGSCentralLi
 	return biggsEXP6LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// biggsEXP6LBFGSCentralDifference sets out = a − b.
-func biggsEXP6LBFGSCentralDifference(out, a, b *[6]float64) {
+// biggsEXP6LBFGSCentralGradientChange sets out = a − b.
+func biggsEXP6LBFGSCentralGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *box3DBFGSAnalyticDescent) search() {
 		r.out.evaluations += box3DBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	box3DBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	box3DBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	box3DBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	box3DBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DBFGSAn
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *box3DBFGSAnalyticDifferences) box3DBFGSAnalyticLineResult {
-	slope = box3DBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !box3DBFGSAnalyticFinite(slope) {
+		slope = box3DBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: box3DBFGSAnalyticShortenAlong is not inlined
+	}
 	low := box3DBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func box3DBFGSAnalyticExpandTrial(previous, current *box3DBFGSAnalyticLinePoint)
 	return box3DBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// box3DBFGSAnalyticDifference sets out = a − b.
-func box3DBFGSAnalyticDifference(out, a, b *[3]float64) {
+// box3DBFGSAnalyticGradientChange sets out = a − b.
+func box3DBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

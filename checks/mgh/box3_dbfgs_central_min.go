@@ -518,8 +518,8 @@ func (r *box3DBFGSCentralDescent) search() {
 		r.out.evaluations += box3DBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	box3DBFGSCentralDifference(&r.s, &xt, &r.x)
-	box3DBFGSCentralDifference(&r.y, &gt, &r.g)
+	box3DBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	box3DBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DBFGSCen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
-	slope = box3DBFGSCentralShortenAlong(g, d, slope, floor)
+	if !box3DBFGSCentralFinite(slope) {
+		slope = box3DBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: box3DBFGSCentralShortenAlong is not inlined
+	}
 	low := box3DBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func box3DBFGSCentralExpandTrial(previous, current *box3DBFGSCentralLinePoint) f
 	return box3DBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// box3DBFGSCentralDifference sets out = a − b.
-func box3DBFGSCentralDifference(out, a, b *[3]float64) {
+// box3DBFGSCentralGradientChange sets out = a − b.
+func box3DBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *box3DCGAnalyticDescent) search() {
 		r.out.evaluations += box3DCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	box3DCGAnalyticDifference(&r.s, &xt, &r.x)
-	box3DCGAnalyticDifference(&r.y, &gt, &r.g)
+	box3DCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	box3DCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGAnalyt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *box3DCGAnalyticDifferences) box3DCGAnalyticLineResult {
-	slope = box3DCGAnalyticShortenAlong(g, d, slope, floor)
+	if !box3DCGAnalyticFinite(slope) {
+		slope = box3DCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: box3DCGAnalyticShortenAlong is not inlined
+	}
 	low := box3DCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func box3DCGAnalyticExpandTrial(previous, current *box3DCGAnalyticLinePoint) flo
 	return box3DCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// box3DCGAnalyticDifference sets out = a − b.
-func box3DCGAnalyticDifference(out, a, b *[3]float64) {
+// box3DCGAnalyticGradientChange sets out = a − b.
+func box3DCGAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

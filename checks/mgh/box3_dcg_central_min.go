@@ -518,8 +518,8 @@ func (r *box3DCGCentralDescent) search() {
 		r.out.evaluations += box3DCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	box3DCGCentralDifference(&r.s, &xt, &r.x)
-	box3DCGCentralDifference(&r.y, &gt, &r.g)
+	box3DCGCentralGradientChange(&r.s, &xt, &r.x)
+	box3DCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func box3DCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGCentral
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
-	slope = box3DCGCentralShortenAlong(g, d, slope, floor)
+	if !box3DCGCentralFinite(slope) {
+		slope = box3DCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: box3DCGCentralShortenAlong is not inlined
+	}
 	low := box3DCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func box3DCGCentralExpandTrial(previous, current *box3DCGCentralLinePoint) float
 	return box3DCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// box3DCGCentralDifference sets out = a − b.
-func box3DCGCentralDifference(out, a, b *[3]float64) {
+// box3DCGCentralGradientChange sets out = a − b.
+func box3DCGCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *box3DLBFGSAnalyticDescent) search() {
 		r.out.evaluations += box3DLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	box3DLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	box3DLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	box3DLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	box3DLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGS
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *box3DLBFGSAnalyticDifferences) box3DLBFGSAnalyticLineResult {
-	slope = box3DLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !box3DLBFGSAnalyticFinite(slope) {
+		slope = box3DLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: box3DLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := box3DLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func box3DLBFGSAnalyticExpandTrial(previous, current *box3DLBFGSAnalyticLinePoin
 	return box3DLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// box3DLBFGSAnalyticDifference sets out = a − b.
-func box3DLBFGSAnalyticDifference(out, a, b *[3]float64) {
+// box3DLBFGSAnalyticGradientChange sets out = a − b.
+func box3DLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

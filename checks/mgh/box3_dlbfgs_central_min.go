@@ -519,8 +519,8 @@ func (r *box3DLBFGSCentralDescent) search() {
 		r.out.evaluations += box3DLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	box3DLBFGSCentralDifference(&r.s, &xt, &r.x)
-	box3DLBFGSCentralDifference(&r.y, &gt, &r.g)
+	box3DLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	box3DLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGSC
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
-	slope = box3DLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !box3DLBFGSCentralFinite(slope) {
+		slope = box3DLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: box3DLBFGSCentralShortenAlong is not inlined
+	}
 	low := box3DLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func box3DLBFGSCentralExpandTrial(previous, current *box3DLBFGSCentralLinePoint)
 	return box3DLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// box3DLBFGSCentralDifference sets out = a − b.
-func box3DLBFGSCentralDifference(out, a, b *[3]float64) {
+// box3DLBFGSCentralGradientChange sets out = a − b.
+func box3DLBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

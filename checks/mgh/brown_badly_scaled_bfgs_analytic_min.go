@@ -518,8 +518,8 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) search() {
 		r.out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownBadlyScaledBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	brownBadlyScaledBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	brownBadlyScaledBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	brownBadlyScaledBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -978,7 +978,9 @@ func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
-	slope = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !brownBadlyScaledBFGSAnalyticFinite(slope) {
+		slope = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledBFGSAnalyticShortenAlong is not inlined
+	}
 	low := brownBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1284,8 +1286,8 @@ func brownBadlyScaledBFGSAnalyticExpandTrial(previous, current *brownBadlyScaled
 	return brownBadlyScaledBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownBadlyScaledBFGSAnalyticDifference sets out = a − b.
-func brownBadlyScaledBFGSAnalyticDifference(out, a, b *[2]float64) {
+// brownBadlyScaledBFGSAnalyticGradientChange sets out = a − b.
+func brownBadlyScaledBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

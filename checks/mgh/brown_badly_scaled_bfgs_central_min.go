@@ -518,8 +518,8 @@ func (r *brownBadlyScaledBFGSCentralDescent) search() {
 		r.out.evaluations += brownBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownBadlyScaledBFGSCentralDifference(&r.s, &xt, &r.x)
-	brownBadlyScaledBFGSCentralDifference(&r.y, &gt, &r.g)
+	brownBadlyScaledBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	brownBadlyScaledBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1157,7 +1157,9 @@ func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *b
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) brownBadlyScaledBFGSCentralLineResult {
-	slope = brownBadlyScaledBFGSCentralShortenAlong(g, d, slope, floor)
+	if !brownBadlyScaledBFGSCentralFinite(slope) {
+		slope = brownBadlyScaledBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledBFGSCentralShortenAlong is not inlined
+	}
 	low := brownBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1463,8 +1465,8 @@ func brownBadlyScaledBFGSCentralExpandTrial(previous, current *brownBadlyScaledB
 	return brownBadlyScaledBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownBadlyScaledBFGSCentralDifference sets out = a − b.
-func brownBadlyScaledBFGSCentralDifference(out, a, b *[2]float64) {
+// brownBadlyScaledBFGSCentralGradientChange sets out = a − b.
+func brownBadlyScaledBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *brownBadlyScaledCGAnalyticDescent) search() {
 		r.out.evaluations += brownBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownBadlyScaledCGAnalyticDifference(&r.s, &xt, &r.x)
-	brownBadlyScaledCGAnalyticDifference(&r.y, &gt, &r.g)
+	brownBadlyScaledCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	brownBadlyScaledCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *br
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) brownBadlyScaledCGAnalyticLineResult {
-	slope = brownBadlyScaledCGAnalyticShortenAlong(g, d, slope, floor)
+	if !brownBadlyScaledCGAnalyticFinite(slope) {
+		slope = brownBadlyScaledCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledCGAnalyticShortenAlong is not inlined
+	}
 	low := brownBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func brownBadlyScaledCGAnalyticExpandTrial(previous, current *brownBadlyScaledCG
 	return brownBadlyScaledCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownBadlyScaledCGAnalyticDifference sets out = a − b.
-func brownBadlyScaledCGAnalyticDifference(out, a, b *[2]float64) {
+// brownBadlyScaledCGAnalyticGradientChange sets out = a − b.
+func brownBadlyScaledCGAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

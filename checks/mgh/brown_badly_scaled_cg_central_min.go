@@ -518,8 +518,8 @@ func (r *brownBadlyScaledCGCentralDescent) search() {
 		r.out.evaluations += brownBadlyScaledCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownBadlyScaledCGCentralDifference(&r.s, &xt, &r.x)
-	brownBadlyScaledCGCentralDifference(&r.y, &gt, &r.g)
+	brownBadlyScaledCGCentralGradientChange(&r.s, &xt, &r.x)
+	brownBadlyScaledCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *bro
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) brownBadlyScaledCGCentralLineResult {
-	slope = brownBadlyScaledCGCentralShortenAlong(g, d, slope, floor)
+	if !brownBadlyScaledCGCentralFinite(slope) {
+		slope = brownBadlyScaledCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledCGCentralShortenAlong is not inlined
+	}
 	low := brownBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func brownBadlyScaledCGCentralExpandTrial(previous, current *brownBadlyScaledCGC
 	return brownBadlyScaledCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownBadlyScaledCGCentralDifference sets out = a − b.
-func brownBadlyScaledCGCentralDifference(out, a, b *[2]float64) {
+// brownBadlyScaledCGCentralGradientChange sets out = a − b.
+func brownBadlyScaledCGCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

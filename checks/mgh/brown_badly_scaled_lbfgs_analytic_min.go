@@ -519,8 +519,8 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) search() {
 		r.out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownBadlyScaledLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	brownBadlyScaledLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	brownBadlyScaledLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	brownBadlyScaledLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1011,7 +1011,9 @@ func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
-	slope = brownBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !brownBadlyScaledLBFGSAnalyticFinite(slope) {
+		slope = brownBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := brownBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1317,8 +1319,8 @@ func brownBadlyScaledLBFGSAnalyticExpandTrial(previous, current *brownBadlyScale
 	return brownBadlyScaledLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownBadlyScaledLBFGSAnalyticDifference sets out = a − b.
-func brownBadlyScaledLBFGSAnalyticDifference(out, a, b *[2]float64) {
+// brownBadlyScaledLBFGSAnalyticGradientChange sets out = a − b.
+func brownBadlyScaledLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *brownBadlyScaledLBFGSCentralDescent) search() {
 		r.out.evaluations += brownBadlyScaledLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownBadlyScaledLBFGSCentralDifference(&r.s, &xt, &r.x)
-	brownBadlyScaledLBFGSCentralDifference(&r.y, &gt, &r.g)
+	brownBadlyScaledLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	brownBadlyScaledLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1190,7 +1190,9 @@ func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) brownBadlyScaledLBFGSCentralLineResult {
-	slope = brownBadlyScaledLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !brownBadlyScaledLBFGSCentralFinite(slope) {
+		slope = brownBadlyScaledLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledLBFGSCentralShortenAlong is not inlined
+	}
 	low := brownBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1496,8 +1498,8 @@ func brownBadlyScaledLBFGSCentralExpandTrial(previous, current *brownBadlyScaled
 	return brownBadlyScaledLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownBadlyScaledLBFGSCentralDifference sets out = a − b.
-func brownBadlyScaledLBFGSCentralDifference(out, a, b *[2]float64) {
+// brownBadlyScaledLBFGSCentralGradientChange sets out = a − b.
+func brownBadlyScaledLBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

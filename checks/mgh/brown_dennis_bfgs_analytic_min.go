@@ -518,8 +518,8 @@ func (r *brownDennisBFGSAnalyticDescent) search() {
 		r.out.evaluations += brownDennisBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownDennisBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	brownDennisBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	brownDennisBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	brownDennisBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brown
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) brownDennisBFGSAnalyticLineResult {
-	slope = brownDennisBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !brownDennisBFGSAnalyticFinite(slope) {
+		slope = brownDennisBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisBFGSAnalyticShortenAlong is not inlined
+	}
 	low := brownDennisBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func brownDennisBFGSAnalyticExpandTrial(previous, current *brownDennisBFGSAnalyt
 	return brownDennisBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownDennisBFGSAnalyticDifference sets out = a − b.
-func brownDennisBFGSAnalyticDifference(out, a, b *[4]float64) {
+// brownDennisBFGSAnalyticGradientChange sets out = a − b.
+func brownDennisBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

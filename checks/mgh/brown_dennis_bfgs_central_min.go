@@ -518,8 +518,8 @@ func (r *brownDennisBFGSCentralDescent) search() {
 		r.out.evaluations += brownDennisBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownDennisBFGSCentralDifference(&r.s, &xt, &r.x)
-	brownDennisBFGSCentralDifference(&r.y, &gt, &r.g)
+	brownDennisBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	brownDennisBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownD
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSCentralDifferences) brownDennisBFGSCentralLineResult {
-	slope = brownDennisBFGSCentralShortenAlong(g, d, slope, floor)
+	if !brownDennisBFGSCentralFinite(slope) {
+		slope = brownDennisBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisBFGSCentralShortenAlong is not inlined
+	}
 	low := brownDennisBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func brownDennisBFGSCentralExpandTrial(previous, current *brownDennisBFGSCentral
 	return brownDennisBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownDennisBFGSCentralDifference sets out = a − b.
-func brownDennisBFGSCentralDifference(out, a, b *[4]float64) {
+// brownDennisBFGSCentralGradientChange sets out = a − b.
+func brownDennisBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

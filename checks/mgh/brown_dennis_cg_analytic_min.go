@@ -518,8 +518,8 @@ func (r *brownDennisCGAnalyticDescent) search() {
 		r.out.evaluations += brownDennisCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownDennisCGAnalyticDifference(&r.s, &xt, &r.x)
-	brownDennisCGAnalyticDifference(&r.y, &gt, &r.g)
+	brownDennisCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	brownDennisCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brownDe
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisCGAnalyticDifferences) brownDennisCGAnalyticLineResult {
-	slope = brownDennisCGAnalyticShortenAlong(g, d, slope, floor)
+	if !brownDennisCGAnalyticFinite(slope) {
+		slope = brownDennisCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisCGAnalyticShortenAlong is not inlined
+	}
 	low := brownDennisCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func brownDennisCGAnalyticExpandTrial(previous, current *brownDennisCGAnalyticLi
 	return brownDennisCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownDennisCGAnalyticDifference sets out = a − b.
-func brownDennisCGAnalyticDifference(out, a, b *[4]float64) {
+// brownDennisCGAnalyticGradientChange sets out = a − b.
+func brownDennisCGAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *brownDennisCGCentralDescent) search() {
 		r.out.evaluations += brownDennisCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownDennisCGCentralDifference(&r.s, &xt, &r.x)
-	brownDennisCGCentralDifference(&r.y, &gt, &r.g)
+	brownDennisCGCentralGradientChange(&r.s, &xt, &r.x)
+	brownDennisCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisCGCentralDifferences) brownDennisCGCentralLineResult {
-	slope = brownDennisCGCentralShortenAlong(g, d, slope, floor)
+	if !brownDennisCGCentralFinite(slope) {
+		slope = brownDennisCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisCGCentralShortenAlong is not inlined
+	}
 	low := brownDennisCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func brownDennisCGCentralExpandTrial(previous, current *brownDennisCGCentralLine
 	return brownDennisCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownDennisCGCentralDifference sets out = a − b.
-func brownDennisCGCentralDifference(out, a, b *[4]float64) {
+// brownDennisCGCentralGradientChange sets out = a − b.
+func brownDennisCGCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *brownDennisLBFGSAnalyticDescent) search() {
 		r.out.evaluations += brownDennisLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownDennisLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	brownDennisLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	brownDennisLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	brownDennisLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brow
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) brownDennisLBFGSAnalyticLineResult {
-	slope = brownDennisLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !brownDennisLBFGSAnalyticFinite(slope) {
+		slope = brownDennisLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := brownDennisLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func brownDennisLBFGSAnalyticExpandTrial(previous, current *brownDennisLBFGSAnal
 	return brownDennisLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownDennisLBFGSAnalyticDifference sets out = a − b.
-func brownDennisLBFGSAnalyticDifference(out, a, b *[4]float64) {
+// brownDennisLBFGSAnalyticGradientChange sets out = a − b.
+func brownDennisLBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

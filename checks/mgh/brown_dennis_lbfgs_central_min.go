@@ -519,8 +519,8 @@ func (r *brownDennisLBFGSCentralDescent) search() {
 		r.out.evaluations += brownDennisLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	brownDennisLBFGSCentralDifference(&r.s, &xt, &r.x)
-	brownDennisLBFGSCentralDifference(&r.y, &gt, &r.g)
+	brownDennisLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	brownDennisLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brown
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSCentralDifferences) brownDennisLBFGSCentralLineResult {
-	slope = brownDennisLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !brownDennisLBFGSCentralFinite(slope) {
+		slope = brownDennisLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisLBFGSCentralShortenAlong is not inlined
+	}
 	low := brownDennisLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func brownDennisLBFGSCentralExpandTrial(previous, current *brownDennisLBFGSCentr
 	return brownDennisLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// brownDennisLBFGSCentralDifference sets out = a − b.
-func brownDennisLBFGSCentralDifference(out, a, b *[4]float64) {
+// brownDennisLBFGSCentralGradientChange sets out = a − b.
+func brownDennisLBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *gaussianBFGSAnalyticDescent) search() {
 		r.out.evaluations += gaussianBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gaussianBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	gaussianBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	gaussianBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	gaussianBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussian
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianBFGSAnalyticDifferences) gaussianBFGSAnalyticLineResult {
-	slope = gaussianBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !gaussianBFGSAnalyticFinite(slope) {
+		slope = gaussianBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianBFGSAnalyticShortenAlong is not inlined
+	}
 	low := gaussianBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func gaussianBFGSAnalyticExpandTrial(previous, current *gaussianBFGSAnalyticLine
 	return gaussianBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gaussianBFGSAnalyticDifference sets out = a − b.
-func gaussianBFGSAnalyticDifference(out, a, b *[3]float64) {
+// gaussianBFGSAnalyticGradientChange sets out = a − b.
+func gaussianBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *gaussianBFGSCentralDescent) search() {
 		r.out.evaluations += gaussianBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gaussianBFGSCentralDifference(&r.s, &xt, &r.x)
-	gaussianBFGSCentralDifference(&r.y, &gt, &r.g)
+	gaussianBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	gaussianBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianB
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianBFGSCentralDifferences) gaussianBFGSCentralLineResult {
-	slope = gaussianBFGSCentralShortenAlong(g, d, slope, floor)
+	if !gaussianBFGSCentralFinite(slope) {
+		slope = gaussianBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianBFGSCentralShortenAlong is not inlined
+	}
 	low := gaussianBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func gaussianBFGSCentralExpandTrial(previous, current *gaussianBFGSCentralLinePo
 	return gaussianBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gaussianBFGSCentralDifference sets out = a − b.
-func gaussianBFGSCentralDifference(out, a, b *[3]float64) {
+// gaussianBFGSCentralGradientChange sets out = a − b.
+func gaussianBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *gaussianCGAnalyticDescent) search() {
 		r.out.evaluations += gaussianCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gaussianCGAnalyticDifference(&r.s, &xt, &r.x)
-	gaussianCGAnalyticDifference(&r.y, &gt, &r.g)
+	gaussianCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	gaussianCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCG
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianCGAnalyticDifferences) gaussianCGAnalyticLineResult {
-	slope = gaussianCGAnalyticShortenAlong(g, d, slope, floor)
+	if !gaussianCGAnalyticFinite(slope) {
+		slope = gaussianCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianCGAnalyticShortenAlong is not inlined
+	}
 	low := gaussianCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func gaussianCGAnalyticExpandTrial(previous, current *gaussianCGAnalyticLinePoin
 	return gaussianCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gaussianCGAnalyticDifference sets out = a − b.
-func gaussianCGAnalyticDifference(out, a, b *[3]float64) {
+// gaussianCGAnalyticGradientChange sets out = a − b.
+func gaussianCGAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *gaussianCGCentralDescent) search() {
 		r.out.evaluations += gaussianCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gaussianCGCentralDifference(&r.s, &xt, &r.x)
-	gaussianCGCentralDifference(&r.y, &gt, &r.g)
+	gaussianCGCentralGradientChange(&r.s, &xt, &r.x)
+	gaussianCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCGC
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianCGCentralDifferences) gaussianCGCentralLineResult {
-	slope = gaussianCGCentralShortenAlong(g, d, slope, floor)
+	if !gaussianCGCentralFinite(slope) {
+		slope = gaussianCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianCGCentralShortenAlong is not inlined
+	}
 	low := gaussianCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func gaussianCGCentralExpandTrial(previous, current *gaussianCGCentralLinePoint)
 	return gaussianCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gaussianCGCentralDifference sets out = a − b.
-func gaussianCGCentralDifference(out, a, b *[3]float64) {
+// gaussianCGCentralGradientChange sets out = a − b.
+func gaussianCGCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

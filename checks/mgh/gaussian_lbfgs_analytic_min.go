@@ -519,8 +519,8 @@ func (r *gaussianLBFGSAnalyticDescent) search() {
 		r.out.evaluations += gaussianLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gaussianLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	gaussianLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	gaussianLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	gaussianLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussia
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) gaussianLBFGSAnalyticLineResult {
-	slope = gaussianLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !gaussianLBFGSAnalyticFinite(slope) {
+		slope = gaussianLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := gaussianLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func gaussianLBFGSAnalyticExpandTrial(previous, current *gaussianLBFGSAnalyticLi
 	return gaussianLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gaussianLBFGSAnalyticDifference sets out = a − b.
-func gaussianLBFGSAnalyticDifference(out, a, b *[3]float64) {
+// gaussianLBFGSAnalyticGradientChange sets out = a − b.
+func gaussianLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *gaussianLBFGSCentralDescent) search() {
 		r.out.evaluations += gaussianLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gaussianLBFGSCentralDifference(&r.s, &xt, &r.x)
-	gaussianLBFGSCentralDifference(&r.y, &gt, &r.g)
+	gaussianLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	gaussianLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussian
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSCentralDifferences) gaussianLBFGSCentralLineResult {
-	slope = gaussianLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !gaussianLBFGSCentralFinite(slope) {
+		slope = gaussianLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianLBFGSCentralShortenAlong is not inlined
+	}
 	low := gaussianLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func gaussianLBFGSCentralExpandTrial(previous, current *gaussianLBFGSCentralLine
 	return gaussianLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gaussianLBFGSCentralDifference sets out = a − b.
-func gaussianLBFGSCentralDifference(out, a, b *[3]float64) {
+// gaussianLBFGSCentralGradientChange sets out = a − b.
+func gaussianLBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

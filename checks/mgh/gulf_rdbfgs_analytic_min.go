@@ -518,8 +518,8 @@ func (r *gulfRDBFGSAnalyticDescent) search() {
 		r.out.evaluations += gulfRDBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gulfRDBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	gulfRDBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	gulfRDBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	gulfRDBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGS
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) gulfRDBFGSAnalyticLineResult {
-	slope = gulfRDBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !gulfRDBFGSAnalyticFinite(slope) {
+		slope = gulfRDBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDBFGSAnalyticShortenAlong is not inlined
+	}
 	low := gulfRDBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func gulfRDBFGSAnalyticExpandTrial(previous, current *gulfRDBFGSAnalyticLinePoin
 	return gulfRDBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gulfRDBFGSAnalyticDifference sets out = a − b.
-func gulfRDBFGSAnalyticDifference(out, a, b *[3]float64) {
+// gulfRDBFGSAnalyticGradientChange sets out = a − b.
+func gulfRDBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

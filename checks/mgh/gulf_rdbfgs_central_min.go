@@ -518,8 +518,8 @@ func (r *gulfRDBFGSCentralDescent) search() {
 		r.out.evaluations += gulfRDBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gulfRDBFGSCentralDifference(&r.s, &xt, &r.x)
-	gulfRDBFGSCentralDifference(&r.y, &gt, &r.g)
+	gulfRDBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	gulfRDBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGSC
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSCentralDifferences) gulfRDBFGSCentralLineResult {
-	slope = gulfRDBFGSCentralShortenAlong(g, d, slope, floor)
+	if !gulfRDBFGSCentralFinite(slope) {
+		slope = gulfRDBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDBFGSCentralShortenAlong is not inlined
+	}
 	low := gulfRDBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func gulfRDBFGSCentralExpandTrial(previous, current *gulfRDBFGSCentralLinePoint)
 	return gulfRDBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gulfRDBFGSCentralDifference sets out = a − b.
-func gulfRDBFGSCentralDifference(out, a, b *[3]float64) {
+// gulfRDBFGSCentralGradientChange sets out = a − b.
+func gulfRDBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *gulfRDCGAnalyticDescent) search() {
 		r.out.evaluations += gulfRDCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gulfRDCGAnalyticDifference(&r.s, &xt, &r.x)
-	gulfRDCGAnalyticDifference(&r.y, &gt, &r.g)
+	gulfRDCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	gulfRDCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGAnal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
-	slope = gulfRDCGAnalyticShortenAlong(g, d, slope, floor)
+	if !gulfRDCGAnalyticFinite(slope) {
+		slope = gulfRDCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDCGAnalyticShortenAlong is not inlined
+	}
 	low := gulfRDCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func gulfRDCGAnalyticExpandTrial(previous, current *gulfRDCGAnalyticLinePoint) f
 	return gulfRDCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gulfRDCGAnalyticDifference sets out = a − b.
-func gulfRDCGAnalyticDifference(out, a, b *[3]float64) {
+// gulfRDCGAnalyticGradientChange sets out = a − b.
+func gulfRDCGAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

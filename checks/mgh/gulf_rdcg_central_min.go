@@ -518,8 +518,8 @@ func (r *gulfRDCGCentralDescent) search() {
 		r.out.evaluations += gulfRDCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gulfRDCGCentralDifference(&r.s, &xt, &r.x)
-	gulfRDCGCentralDifference(&r.y, &gt, &r.g)
+	gulfRDCGCentralGradientChange(&r.s, &xt, &r.x)
+	gulfRDCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGCentr
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
-	slope = gulfRDCGCentralShortenAlong(g, d, slope, floor)
+	if !gulfRDCGCentralFinite(slope) {
+		slope = gulfRDCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDCGCentralShortenAlong is not inlined
+	}
 	low := gulfRDCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func gulfRDCGCentralExpandTrial(previous, current *gulfRDCGCentralLinePoint) flo
 	return gulfRDCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gulfRDCGCentralDifference sets out = a − b.
-func gulfRDCGCentralDifference(out, a, b *[3]float64) {
+// gulfRDCGCentralGradientChange sets out = a − b.
+func gulfRDCGCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

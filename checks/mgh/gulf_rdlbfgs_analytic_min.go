@@ -519,8 +519,8 @@ func (r *gulfRDLBFGSAnalyticDescent) search() {
 		r.out.evaluations += gulfRDLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gulfRDLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	gulfRDLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	gulfRDLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	gulfRDLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBF
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) gulfRDLBFGSAnalyticLineResult {
-	slope = gulfRDLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !gulfRDLBFGSAnalyticFinite(slope) {
+		slope = gulfRDLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := gulfRDLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func gulfRDLBFGSAnalyticExpandTrial(previous, current *gulfRDLBFGSAnalyticLinePo
 	return gulfRDLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gulfRDLBFGSAnalyticDifference sets out = a − b.
-func gulfRDLBFGSAnalyticDifference(out, a, b *[3]float64) {
+// gulfRDLBFGSAnalyticGradientChange sets out = a − b.
+func gulfRDLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *gulfRDLBFGSCentralDescent) search() {
 		r.out.evaluations += gulfRDLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	gulfRDLBFGSCentralDifference(&r.s, &xt, &r.x)
-	gulfRDLBFGSCentralDifference(&r.y, &gt, &r.g)
+	gulfRDLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	gulfRDLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBFG
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSCentralDifferences) gulfRDLBFGSCentralLineResult {
-	slope = gulfRDLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !gulfRDLBFGSCentralFinite(slope) {
+		slope = gulfRDLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDLBFGSCentralShortenAlong is not inlined
+	}
 	low := gulfRDLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func gulfRDLBFGSCentralExpandTrial(previous, current *gulfRDLBFGSCentralLinePoin
 	return gulfRDLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// gulfRDLBFGSCentralDifference sets out = a − b.
-func gulfRDLBFGSCentralDifference(out, a, b *[3]float64) {
+// gulfRDLBFGSCentralGradientChange sets out = a − b.
+func gulfRDLBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *helicalValleyBFGSAnalyticDescent) search() {
 		r.out.evaluations += helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	helicalValleyBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	helicalValleyBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	helicalValleyBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	helicalValleyBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *hel
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
-	slope = helicalValleyBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !helicalValleyBFGSAnalyticFinite(slope) {
+		slope = helicalValleyBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyBFGSAnalyticShortenAlong is not inlined
+	}
 	low := helicalValleyBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func helicalValleyBFGSAnalyticExpandTrial(previous, current *helicalValleyBFGSAn
 	return helicalValleyBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// helicalValleyBFGSAnalyticDifference sets out = a − b.
-func helicalValleyBFGSAnalyticDifference(out, a, b *[3]float64) {
+// helicalValleyBFGSAnalyticGradientChange sets out = a − b.
+func helicalValleyBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

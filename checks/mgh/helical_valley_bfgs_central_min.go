@@ -518,8 +518,8 @@ func (r *helicalValleyBFGSCentralDescent) search() {
 		r.out.evaluations += helicalValleyBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	helicalValleyBFGSCentralDifference(&r.s, &xt, &r.x)
-	helicalValleyBFGSCentralDifference(&r.y, &gt, &r.g)
+	helicalValleyBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	helicalValleyBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *heli
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSCentralDifferences) helicalValleyBFGSCentralLineResult {
-	slope = helicalValleyBFGSCentralShortenAlong(g, d, slope, floor)
+	if !helicalValleyBFGSCentralFinite(slope) {
+		slope = helicalValleyBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyBFGSCentralShortenAlong is not inlined
+	}
 	low := helicalValleyBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func helicalValleyBFGSCentralExpandTrial(previous, current *helicalValleyBFGSCen
 	return helicalValleyBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// helicalValleyBFGSCentralDifference sets out = a − b.
-func helicalValleyBFGSCentralDifference(out, a, b *[3]float64) {
+// helicalValleyBFGSCentralGradientChange sets out = a − b.
+func helicalValleyBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *helicalValleyCGAnalyticDescent) search() {
 		r.out.evaluations += helicalValleyCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	helicalValleyCGAnalyticDifference(&r.s, &xt, &r.x)
-	helicalValleyCGAnalyticDifference(&r.y, &gt, &r.g)
+	helicalValleyCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	helicalValleyCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helic
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyCGAnalyticDifferences) helicalValleyCGAnalyticLineResult {
-	slope = helicalValleyCGAnalyticShortenAlong(g, d, slope, floor)
+	if !helicalValleyCGAnalyticFinite(slope) {
+		slope = helicalValleyCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyCGAnalyticShortenAlong is not inlined
+	}
 	low := helicalValleyCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func helicalValleyCGAnalyticExpandTrial(previous, current *helicalValleyCGAnalyt
 	return helicalValleyCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// helicalValleyCGAnalyticDifference sets out = a − b.
-func helicalValleyCGAnalyticDifference(out, a, b *[3]float64) {
+// helicalValleyCGAnalyticGradientChange sets out = a − b.
+func helicalValleyCGAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *helicalValleyCGCentralDescent) search() {
 		r.out.evaluations += helicalValleyCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	helicalValleyCGCentralDifference(&r.s, &xt, &r.x)
-	helicalValleyCGCentralDifference(&r.y, &gt, &r.g)
+	helicalValleyCGCentralGradientChange(&r.s, &xt, &r.x)
+	helicalValleyCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *helica
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyCGCentralDifferences) helicalValleyCGCentralLineResult {
-	slope = helicalValleyCGCentralShortenAlong(g, d, slope, floor)
+	if !helicalValleyCGCentralFinite(slope) {
+		slope = helicalValleyCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyCGCentralShortenAlong is not inlined
+	}
 	low := helicalValleyCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func helicalValleyCGCentralExpandTrial(previous, current *helicalValleyCGCentral
 	return helicalValleyCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// helicalValleyCGCentralDifference sets out = a − b.
-func helicalValleyCGCentralDifference(out, a, b *[3]float64) {
+// helicalValleyCGCentralGradientChange sets out = a − b.
+func helicalValleyCGCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

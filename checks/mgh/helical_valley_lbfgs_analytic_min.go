@@ -519,8 +519,8 @@ func (r *helicalValleyLBFGSAnalyticDescent) search() {
 		r.out.evaluations += helicalValleyLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	helicalValleyLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	helicalValleyLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	helicalValleyLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	helicalValleyLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *he
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) helicalValleyLBFGSAnalyticLineResult {
-	slope = helicalValleyLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !helicalValleyLBFGSAnalyticFinite(slope) {
+		slope = helicalValleyLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := helicalValleyLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func helicalValleyLBFGSAnalyticExpandTrial(previous, current *helicalValleyLBFGS
 	return helicalValleyLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// helicalValleyLBFGSAnalyticDifference sets out = a − b.
-func helicalValleyLBFGSAnalyticDifference(out, a, b *[3]float64) {
+// helicalValleyLBFGSAnalyticGradientChange sets out = a − b.
+func helicalValleyLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *helicalValleyLBFGSCentralDescent) search() {
 		r.out.evaluations += helicalValleyLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	helicalValleyLBFGSCentralDifference(&r.s, &xt, &r.x)
-	helicalValleyLBFGSCentralDifference(&r.y, &gt, &r.g)
+	helicalValleyLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	helicalValleyLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func helicalValleyLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *hel
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) helicalValleyLBFGSCentralLineResult {
-	slope = helicalValleyLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !helicalValleyLBFGSCentralFinite(slope) {
+		slope = helicalValleyLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyLBFGSCentralShortenAlong is not inlined
+	}
 	low := helicalValleyLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func helicalValleyLBFGSCentralExpandTrial(previous, current *helicalValleyLBFGSC
 	return helicalValleyLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// helicalValleyLBFGSCentralDifference sets out = a − b.
-func helicalValleyLBFGSCentralDifference(out, a, b *[3]float64) {
+// helicalValleyLBFGSCentralGradientChange sets out = a − b.
+func helicalValleyLBFGSCentralGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

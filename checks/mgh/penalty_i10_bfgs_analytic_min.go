@@ -518,8 +518,8 @@ func (r *penaltyI10BFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyI10BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI10BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyI10BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyI10BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyI10BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) penaltyI10BFGSAnalyticLineResult {
-	slope = penaltyI10BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyI10BFGSAnalyticFinite(slope) {
+		slope = penaltyI10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10BFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyI10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func penaltyI10BFGSAnalyticExpandTrial(previous, current *penaltyI10BFGSAnalytic
 	return penaltyI10BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI10BFGSAnalyticDifference sets out = a − b.
-func penaltyI10BFGSAnalyticDifference(out, a, b *[10]float64) {
+// penaltyI10BFGSAnalyticGradientChange sets out = a − b.
+func penaltyI10BFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

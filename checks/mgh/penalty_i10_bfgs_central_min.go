@@ -518,8 +518,8 @@ func (r *penaltyI10BFGSCentralDescent) search() {
 		r.out.evaluations += penaltyI10BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI10BFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyI10BFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyI10BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyI10BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func penaltyI10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penalt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSCentralDifferences) penaltyI10BFGSCentralLineResult {
-	slope = penaltyI10BFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyI10BFGSCentralFinite(slope) {
+		slope = penaltyI10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10BFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyI10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func penaltyI10BFGSCentralExpandTrial(previous, current *penaltyI10BFGSCentralLi
 	return penaltyI10BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI10BFGSCentralDifference sets out = a − b.
-func penaltyI10BFGSCentralDifference(out, a, b *[10]float64) {
+// penaltyI10BFGSCentralGradientChange sets out = a − b.
+func penaltyI10BFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

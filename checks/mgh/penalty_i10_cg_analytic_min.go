@@ -518,8 +518,8 @@ func (r *penaltyI10CGAnalyticDescent) search() {
 		r.out.evaluations += penaltyI10CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI10CGAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyI10CGAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyI10CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyI10CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penalty
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10CGAnalyticDifferences) penaltyI10CGAnalyticLineResult {
-	slope = penaltyI10CGAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyI10CGAnalyticFinite(slope) {
+		slope = penaltyI10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10CGAnalyticShortenAlong is not inlined
+	}
 	low := penaltyI10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func penaltyI10CGAnalyticExpandTrial(previous, current *penaltyI10CGAnalyticLine
 	return penaltyI10CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI10CGAnalyticDifference sets out = a − b.
-func penaltyI10CGAnalyticDifference(out, a, b *[10]float64) {
+// penaltyI10CGAnalyticGradientChange sets out = a − b.
+func penaltyI10CGAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyI10CGCentralDescent) search() {
 		r.out.evaluations += penaltyI10CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI10CGCentralDifference(&r.s, &xt, &r.x)
-	penaltyI10CGCentralDifference(&r.y, &gt, &r.g)
+	penaltyI10CGCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyI10CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
-	slope = penaltyI10CGCentralShortenAlong(g, d, slope, floor)
+	if !penaltyI10CGCentralFinite(slope) {
+		slope = penaltyI10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10CGCentralShortenAlong is not inlined
+	}
 	low := penaltyI10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func penaltyI10CGCentralExpandTrial(previous, current *penaltyI10CGCentralLinePo
 	return penaltyI10CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI10CGCentralDifference sets out = a − b.
-func penaltyI10CGCentralDifference(out, a, b *[10]float64) {
+// penaltyI10CGCentralGradientChange sets out = a − b.
+func penaltyI10CGCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyI10LBFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyI10LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI10LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyI10LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyI10LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyI10LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *pena
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) penaltyI10LBFGSAnalyticLineResult {
-	slope = penaltyI10LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyI10LBFGSAnalyticFinite(slope) {
+		slope = penaltyI10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyI10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func penaltyI10LBFGSAnalyticExpandTrial(previous, current *penaltyI10LBFGSAnalyt
 	return penaltyI10LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI10LBFGSAnalyticDifference sets out = a − b.
-func penaltyI10LBFGSAnalyticDifference(out, a, b *[10]float64) {
+// penaltyI10LBFGSAnalyticGradientChange sets out = a − b.
+func penaltyI10LBFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyI10LBFGSCentralDescent) search() {
 		r.out.evaluations += penaltyI10LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI10LBFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyI10LBFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyI10LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyI10LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) penaltyI10LBFGSCentralLineResult {
-	slope = penaltyI10LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyI10LBFGSCentralFinite(slope) {
+		slope = penaltyI10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10LBFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyI10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func penaltyI10LBFGSCentralExpandTrial(previous, current *penaltyI10LBFGSCentral
 	return penaltyI10LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI10LBFGSCentralDifference sets out = a − b.
-func penaltyI10LBFGSCentralDifference(out, a, b *[10]float64) {
+// penaltyI10LBFGSCentralGradientChange sets out = a − b.
+func penaltyI10LBFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyI4BFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyI4BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI4BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyI4BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyI4BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyI4BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penalty
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4BFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
-	slope = penaltyI4BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyI4BFGSAnalyticFinite(slope) {
+		slope = penaltyI4BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4BFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyI4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func penaltyI4BFGSAnalyticExpandTrial(previous, current *penaltyI4BFGSAnalyticLi
 	return penaltyI4BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI4BFGSAnalyticDifference sets out = a − b.
-func penaltyI4BFGSAnalyticDifference(out, a, b *[4]float64) {
+// penaltyI4BFGSAnalyticGradientChange sets out = a − b.
+func penaltyI4BFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyI4BFGSCentralDescent) search() {
 		r.out.evaluations += penaltyI4BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI4BFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyI4BFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyI4BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyI4BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4BFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSCentralDifferences) penaltyI4BFGSCentralLineResult {
-	slope = penaltyI4BFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyI4BFGSCentralFinite(slope) {
+		slope = penaltyI4BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4BFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyI4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func penaltyI4BFGSCentralExpandTrial(previous, current *penaltyI4BFGSCentralLine
 	return penaltyI4BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI4BFGSCentralDifference sets out = a − b.
-func penaltyI4BFGSCentralDifference(out, a, b *[4]float64) {
+// penaltyI4BFGSCentralGradientChange sets out = a − b.
+func penaltyI4BFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

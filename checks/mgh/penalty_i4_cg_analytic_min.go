@@ -518,8 +518,8 @@ func (r *penaltyI4CGAnalyticDescent) search() {
 		r.out.evaluations += penaltyI4CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI4CGAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyI4CGAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyI4CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyI4CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4CGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4CGAnalyticDifferences) penaltyI4CGAnalyticLineResult {
-	slope = penaltyI4CGAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyI4CGAnalyticFinite(slope) {
+		slope = penaltyI4CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4CGAnalyticShortenAlong is not inlined
+	}
 	low := penaltyI4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func penaltyI4CGAnalyticExpandTrial(previous, current *penaltyI4CGAnalyticLinePo
 	return penaltyI4CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI4CGAnalyticDifference sets out = a − b.
-func penaltyI4CGAnalyticDifference(out, a, b *[4]float64) {
+// penaltyI4CGAnalyticGradientChange sets out = a − b.
+func penaltyI4CGAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

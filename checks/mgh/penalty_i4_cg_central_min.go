@@ -518,8 +518,8 @@ func (r *penaltyI4CGCentralDescent) search() {
 		r.out.evaluations += penaltyI4CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI4CGCentralDifference(&r.s, &xt, &r.x)
-	penaltyI4CGCentralDifference(&r.y, &gt, &r.g)
+	penaltyI4CGCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyI4CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4C
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4CGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4CGCentralDifferences) penaltyI4CGCentralLineResult {
-	slope = penaltyI4CGCentralShortenAlong(g, d, slope, floor)
+	if !penaltyI4CGCentralFinite(slope) {
+		slope = penaltyI4CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4CGCentralShortenAlong is not inlined
+	}
 	low := penaltyI4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func penaltyI4CGCentralExpandTrial(previous, current *penaltyI4CGCentralLinePoin
 	return penaltyI4CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI4CGCentralDifference sets out = a − b.
-func penaltyI4CGCentralDifference(out, a, b *[4]float64) {
+// penaltyI4CGCentralGradientChange sets out = a − b.
+func penaltyI4CGCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyI4LBFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyI4LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI4LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyI4LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyI4LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyI4LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penalt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4LBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
-	slope = penaltyI4LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyI4LBFGSAnalyticFinite(slope) {
+		slope = penaltyI4LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyI4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func penaltyI4LBFGSAnalyticExpandTrial(previous, current *penaltyI4LBFGSAnalytic
 	return penaltyI4LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI4LBFGSAnalyticDifference sets out = a − b.
-func penaltyI4LBFGSAnalyticDifference(out, a, b *[4]float64) {
+// penaltyI4LBFGSAnalyticGradientChange sets out = a − b.
+func penaltyI4LBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyI4LBFGSCentralDescent) search() {
 		r.out.evaluations += penaltyI4LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyI4LBFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyI4LBFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyI4LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyI4LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penalty
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4LBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) penaltyI4LBFGSCentralLineResult {
-	slope = penaltyI4LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyI4LBFGSCentralFinite(slope) {
+		slope = penaltyI4LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4LBFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyI4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func penaltyI4LBFGSCentralExpandTrial(previous, current *penaltyI4LBFGSCentralLi
 	return penaltyI4LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyI4LBFGSCentralDifference sets out = a − b.
-func penaltyI4LBFGSCentralDifference(out, a, b *[4]float64) {
+// penaltyI4LBFGSCentralGradientChange sets out = a − b.
+func penaltyI4LBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyII10BFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyII10BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII10BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyII10BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyII10BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyII10BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *pena
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) penaltyII10BFGSAnalyticLineResult {
-	slope = penaltyII10BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyII10BFGSAnalyticFinite(slope) {
+		slope = penaltyII10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10BFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyII10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func penaltyII10BFGSAnalyticExpandTrial(previous, current *penaltyII10BFGSAnalyt
 	return penaltyII10BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII10BFGSAnalyticDifference sets out = a − b.
-func penaltyII10BFGSAnalyticDifference(out, a, b *[10]float64) {
+// penaltyII10BFGSAnalyticGradientChange sets out = a − b.
+func penaltyII10BFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyII10BFGSCentralDescent) search() {
 		r.out.evaluations += penaltyII10BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII10BFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyII10BFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyII10BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyII10BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
-	slope = penaltyII10BFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyII10BFGSCentralFinite(slope) {
+		slope = penaltyII10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10BFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyII10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func penaltyII10BFGSCentralExpandTrial(previous, current *penaltyII10BFGSCentral
 	return penaltyII10BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII10BFGSCentralDifference sets out = a − b.
-func penaltyII10BFGSCentralDifference(out, a, b *[10]float64) {
+// penaltyII10BFGSCentralGradientChange sets out = a − b.
+func penaltyII10BFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyII10CGAnalyticDescent) search() {
 		r.out.evaluations += penaltyII10CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII10CGAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyII10CGAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyII10CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyII10CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func penaltyII10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penalt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10CGAnalyticDifferences) penaltyII10CGAnalyticLineResult {
-	slope = penaltyII10CGAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyII10CGAnalyticFinite(slope) {
+		slope = penaltyII10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10CGAnalyticShortenAlong is not inlined
+	}
 	low := penaltyII10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func penaltyII10CGAnalyticExpandTrial(previous, current *penaltyII10CGAnalyticLi
 	return penaltyII10CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII10CGAnalyticDifference sets out = a − b.
-func penaltyII10CGAnalyticDifference(out, a, b *[10]float64) {
+// penaltyII10CGAnalyticGradientChange sets out = a − b.
+func penaltyII10CGAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

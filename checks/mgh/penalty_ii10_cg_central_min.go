@@ -518,8 +518,8 @@ func (r *penaltyII10CGCentralDescent) search() {
 		r.out.evaluations += penaltyII10CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII10CGCentralDifference(&r.s, &xt, &r.x)
-	penaltyII10CGCentralDifference(&r.y, &gt, &r.g)
+	penaltyII10CGCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyII10CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func penaltyII10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *penalty
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10CGCentralDifferences) penaltyII10CGCentralLineResult {
-	slope = penaltyII10CGCentralShortenAlong(g, d, slope, floor)
+	if !penaltyII10CGCentralFinite(slope) {
+		slope = penaltyII10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10CGCentralShortenAlong is not inlined
+	}
 	low := penaltyII10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func penaltyII10CGCentralExpandTrial(previous, current *penaltyII10CGCentralLine
 	return penaltyII10CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII10CGCentralDifference sets out = a − b.
-func penaltyII10CGCentralDifference(out, a, b *[10]float64) {
+// penaltyII10CGCentralGradientChange sets out = a − b.
+func penaltyII10CGCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

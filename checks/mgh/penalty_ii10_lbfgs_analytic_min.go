@@ -519,8 +519,8 @@ func (r *penaltyII10LBFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyII10LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII10LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyII10LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyII10LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyII10LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *pen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) penaltyII10LBFGSAnalyticLineResult {
-	slope = penaltyII10LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyII10LBFGSAnalyticFinite(slope) {
+		slope = penaltyII10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyII10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func penaltyII10LBFGSAnalyticExpandTrial(previous, current *penaltyII10LBFGSAnal
 	return penaltyII10LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII10LBFGSAnalyticDifference sets out = a − b.
-func penaltyII10LBFGSAnalyticDifference(out, a, b *[10]float64) {
+// penaltyII10LBFGSAnalyticGradientChange sets out = a − b.
+func penaltyII10LBFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyII10LBFGSCentralDescent) search() {
 		r.out.evaluations += penaltyII10LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII10LBFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyII10LBFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyII10LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyII10LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *pena
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) penaltyII10LBFGSCentralLineResult {
-	slope = penaltyII10LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyII10LBFGSCentralFinite(slope) {
+		slope = penaltyII10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10LBFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyII10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func penaltyII10LBFGSCentralExpandTrial(previous, current *penaltyII10LBFGSCentr
 	return penaltyII10LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII10LBFGSCentralDifference sets out = a − b.
-func penaltyII10LBFGSCentralDifference(out, a, b *[10]float64) {
+// penaltyII10LBFGSCentralGradientChange sets out = a − b.
+func penaltyII10LBFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

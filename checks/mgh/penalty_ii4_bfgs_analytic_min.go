@@ -518,8 +518,8 @@ func (r *penaltyII4BFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyII4BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII4BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyII4BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyII4BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyII4BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penalt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4BFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) penaltyII4BFGSAnalyticLineResult {
-	slope = penaltyII4BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyII4BFGSAnalyticFinite(slope) {
+		slope = penaltyII4BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4BFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyII4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func penaltyII4BFGSAnalyticExpandTrial(previous, current *penaltyII4BFGSAnalytic
 	return penaltyII4BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII4BFGSAnalyticDifference sets out = a − b.
-func penaltyII4BFGSAnalyticDifference(out, a, b *[4]float64) {
+// penaltyII4BFGSAnalyticGradientChange sets out = a − b.
+func penaltyII4BFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

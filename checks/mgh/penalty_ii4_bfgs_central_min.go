@@ -518,8 +518,8 @@ func (r *penaltyII4BFGSCentralDescent) search() {
 		r.out.evaluations += penaltyII4BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII4BFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyII4BFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyII4BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyII4BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penalty
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4BFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSCentralDifferences) penaltyII4BFGSCentralLineResult {
-	slope = penaltyII4BFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyII4BFGSCentralFinite(slope) {
+		slope = penaltyII4BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4BFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyII4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func penaltyII4BFGSCentralExpandTrial(previous, current *penaltyII4BFGSCentralLi
 	return penaltyII4BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII4BFGSCentralDifference sets out = a − b.
-func penaltyII4BFGSCentralDifference(out, a, b *[4]float64) {
+// penaltyII4BFGSCentralGradientChange sets out = a − b.
+func penaltyII4BFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *penaltyII4CGAnalyticDescent) search() {
 		r.out.evaluations += penaltyII4CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII4CGAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyII4CGAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyII4CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyII4CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func penaltyII4CGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4CGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4CGAnalyticDifferences) penaltyII4CGAnalyticLineResult {
-	slope = penaltyII4CGAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyII4CGAnalyticFinite(slope) {
+		slope = penaltyII4CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4CGAnalyticShortenAlong is not inlined
+	}
 	low := penaltyII4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func penaltyII4CGAnalyticExpandTrial(previous, current *penaltyII4CGAnalyticLine
 	return penaltyII4CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII4CGAnalyticDifference sets out = a − b.
-func penaltyII4CGAnalyticDifference(out, a, b *[4]float64) {
+// penaltyII4CGAnalyticGradientChange sets out = a − b.
+func penaltyII4CGAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

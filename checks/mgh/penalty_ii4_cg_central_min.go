@@ -518,8 +518,8 @@ func (r *penaltyII4CGCentralDescent) search() {
 		r.out.evaluations += penaltyII4CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII4CGCentralDifference(&r.s, &xt, &r.x)
-	penaltyII4CGCentralDifference(&r.y, &gt, &r.g)
+	penaltyII4CGCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyII4CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4CGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4CGCentralDifferences) penaltyII4CGCentralLineResult {
-	slope = penaltyII4CGCentralShortenAlong(g, d, slope, floor)
+	if !penaltyII4CGCentralFinite(slope) {
+		slope = penaltyII4CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4CGCentralShortenAlong is not inlined
+	}
 	low := penaltyII4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func penaltyII4CGCentralExpandTrial(previous, current *penaltyII4CGCentralLinePo
 	return penaltyII4CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII4CGCentralDifference sets out = a − b.
-func penaltyII4CGCentralDifference(out, a, b *[4]float64) {
+// penaltyII4CGCentralGradientChange sets out = a − b.
+func penaltyII4CGCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyII4LBFGSAnalyticDescent) search() {
 		r.out.evaluations += penaltyII4LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII4LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	penaltyII4LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	penaltyII4LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	penaltyII4LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4LBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) penaltyII4LBFGSAnalyticLineResult {
-	slope = penaltyII4LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !penaltyII4LBFGSAnalyticFinite(slope) {
+		slope = penaltyII4LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := penaltyII4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func penaltyII4LBFGSAnalyticExpandTrial(previous, current *penaltyII4LBFGSAnalyt
 	return penaltyII4LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII4LBFGSAnalyticDifference sets out = a − b.
-func penaltyII4LBFGSAnalyticDifference(out, a, b *[4]float64) {
+// penaltyII4LBFGSAnalyticGradientChange sets out = a − b.
+func penaltyII4LBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *penaltyII4LBFGSCentralDescent) search() {
 		r.out.evaluations += penaltyII4LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	penaltyII4LBFGSCentralDifference(&r.s, &xt, &r.x)
-	penaltyII4LBFGSCentralDifference(&r.y, &gt, &r.g)
+	penaltyII4LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	penaltyII4LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penalt
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4LBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) penaltyII4LBFGSCentralLineResult {
-	slope = penaltyII4LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !penaltyII4LBFGSCentralFinite(slope) {
+		slope = penaltyII4LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4LBFGSCentralShortenAlong is not inlined
+	}
 	low := penaltyII4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func penaltyII4LBFGSCentralExpandTrial(previous, current *penaltyII4LBFGSCentral
 	return penaltyII4LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// penaltyII4LBFGSCentralDifference sets out = a − b.
-func penaltyII4LBFGSCentralDifference(out, a, b *[4]float64) {
+// penaltyII4LBFGSCentralGradientChange sets out = a − b.
+func penaltyII4LBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) search() {
 		r.out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellBadlyScaledBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	powellBadlyScaledBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	powellBadlyScaledBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	powellBadlyScaledBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -978,7 +978,9 @@ func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
-	slope = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !powellBadlyScaledBFGSAnalyticFinite(slope) {
+		slope = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledBFGSAnalyticShortenAlong is not inlined
+	}
 	low := powellBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1284,8 +1286,8 @@ func powellBadlyScaledBFGSAnalyticExpandTrial(previous, current *powellBadlyScal
 	return powellBadlyScaledBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellBadlyScaledBFGSAnalyticDifference sets out = a − b.
-func powellBadlyScaledBFGSAnalyticDifference(out, a, b *[2]float64) {
+// powellBadlyScaledBFGSAnalyticGradientChange sets out = a − b.
+func powellBadlyScaledBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *powellBadlyScaledBFGSCentralDescent) search() {
 		r.out.evaluations += powellBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellBadlyScaledBFGSCentralDifference(&r.s, &xt, &r.x)
-	powellBadlyScaledBFGSCentralDifference(&r.y, &gt, &r.g)
+	powellBadlyScaledBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	powellBadlyScaledBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1157,7 +1157,9 @@ func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) powellBadlyScaledBFGSCentralLineResult {
-	slope = powellBadlyScaledBFGSCentralShortenAlong(g, d, slope, floor)
+	if !powellBadlyScaledBFGSCentralFinite(slope) {
+		slope = powellBadlyScaledBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledBFGSCentralShortenAlong is not inlined
+	}
 	low := powellBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1463,8 +1465,8 @@ func powellBadlyScaledBFGSCentralExpandTrial(previous, current *powellBadlyScale
 	return powellBadlyScaledBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellBadlyScaledBFGSCentralDifference sets out = a − b.
-func powellBadlyScaledBFGSCentralDifference(out, a, b *[2]float64) {
+// powellBadlyScaledBFGSCentralGradientChange sets out = a − b.
+func powellBadlyScaledBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

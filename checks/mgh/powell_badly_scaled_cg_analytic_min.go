@@ -518,8 +518,8 @@ func (r *powellBadlyScaledCGAnalyticDescent) search() {
 		r.out.evaluations += powellBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellBadlyScaledCGAnalyticDifference(&r.s, &xt, &r.x)
-	powellBadlyScaledCGAnalyticDifference(&r.y, &gt, &r.g)
+	powellBadlyScaledCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	powellBadlyScaledCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -969,7 +969,9 @@ func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *p
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
-	slope = powellBadlyScaledCGAnalyticShortenAlong(g, d, slope, floor)
+	if !powellBadlyScaledCGAnalyticFinite(slope) {
+		slope = powellBadlyScaledCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledCGAnalyticShortenAlong is not inlined
+	}
 	low := powellBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1275,8 +1277,8 @@ func powellBadlyScaledCGAnalyticExpandTrial(previous, current *powellBadlyScaled
 	return powellBadlyScaledCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellBadlyScaledCGAnalyticDifference sets out = a − b.
-func powellBadlyScaledCGAnalyticDifference(out, a, b *[2]float64) {
+// powellBadlyScaledCGAnalyticGradientChange sets out = a − b.
+func powellBadlyScaledCGAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *powellBadlyScaledCGCentralDescent) search() {
 		r.out.evaluations += powellBadlyScaledCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellBadlyScaledCGCentralDifference(&r.s, &xt, &r.x)
-	powellBadlyScaledCGCentralDifference(&r.y, &gt, &r.g)
+	powellBadlyScaledCGCentralGradientChange(&r.s, &xt, &r.x)
+	powellBadlyScaledCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *po
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) powellBadlyScaledCGCentralLineResult {
-	slope = powellBadlyScaledCGCentralShortenAlong(g, d, slope, floor)
+	if !powellBadlyScaledCGCentralFinite(slope) {
+		slope = powellBadlyScaledCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledCGCentralShortenAlong is not inlined
+	}
 	low := powellBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func powellBadlyScaledCGCentralExpandTrial(previous, current *powellBadlyScaledC
 	return powellBadlyScaledCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellBadlyScaledCGCentralDifference sets out = a − b.
-func powellBadlyScaledCGCentralDifference(out, a, b *[2]float64) {
+// powellBadlyScaledCGCentralGradientChange sets out = a − b.
+func powellBadlyScaledCGCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) search() {
 		r.out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellBadlyScaledLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	powellBadlyScaledLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	powellBadlyScaledLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	powellBadlyScaledLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1011,7 +1011,9 @@ func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) powellBadlyScaledLBFGSAnalyticLineResult {
-	slope = powellBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !powellBadlyScaledLBFGSAnalyticFinite(slope) {
+		slope = powellBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := powellBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1317,8 +1319,8 @@ func powellBadlyScaledLBFGSAnalyticExpandTrial(previous, current *powellBadlySca
 	return powellBadlyScaledLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellBadlyScaledLBFGSAnalyticDifference sets out = a − b.
-func powellBadlyScaledLBFGSAnalyticDifference(out, a, b *[2]float64) {
+// powellBadlyScaledLBFGSAnalyticGradientChange sets out = a − b.
+func powellBadlyScaledLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

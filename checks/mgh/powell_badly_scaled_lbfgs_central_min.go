@@ -519,8 +519,8 @@ func (r *powellBadlyScaledLBFGSCentralDescent) search() {
 		r.out.evaluations += powellBadlyScaledLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellBadlyScaledLBFGSCentralDifference(&r.s, &xt, &r.x)
-	powellBadlyScaledLBFGSCentralDifference(&r.y, &gt, &r.g)
+	powellBadlyScaledLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	powellBadlyScaledLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1190,7 +1190,9 @@ func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) powellBadlyScaledLBFGSCentralLineResult {
-	slope = powellBadlyScaledLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !powellBadlyScaledLBFGSCentralFinite(slope) {
+		slope = powellBadlyScaledLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledLBFGSCentralShortenAlong is not inlined
+	}
 	low := powellBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1496,8 +1498,8 @@ func powellBadlyScaledLBFGSCentralExpandTrial(previous, current *powellBadlyScal
 	return powellBadlyScaledLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellBadlyScaledLBFGSCentralDifference sets out = a − b.
-func powellBadlyScaledLBFGSCentralDifference(out, a, b *[2]float64) {
+// powellBadlyScaledLBFGSCentralGradientChange sets out = a − b.
+func powellBadlyScaledLBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

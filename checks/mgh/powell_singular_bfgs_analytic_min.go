@@ -518,8 +518,8 @@ func (r *powellSingularBFGSAnalyticDescent) search() {
 		r.out.evaluations += powellSingularBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellSingularBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	powellSingularBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	powellSingularBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	powellSingularBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *po
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) powellSingularBFGSAnalyticLineResult {
-	slope = powellSingularBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !powellSingularBFGSAnalyticFinite(slope) {
+		slope = powellSingularBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularBFGSAnalyticShortenAlong is not inlined
+	}
 	low := powellSingularBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func powellSingularBFGSAnalyticExpandTrial(previous, current *powellSingularBFGS
 	return powellSingularBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellSingularBFGSAnalyticDifference sets out = a − b.
-func powellSingularBFGSAnalyticDifference(out, a, b *[4]float64) {
+// powellSingularBFGSAnalyticGradientChange sets out = a − b.
+func powellSingularBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

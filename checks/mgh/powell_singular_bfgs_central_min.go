@@ -518,8 +518,8 @@ func (r *powellSingularBFGSCentralDescent) search() {
 		r.out.evaluations += powellSingularBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellSingularBFGSCentralDifference(&r.s, &xt, &r.x)
-	powellSingularBFGSCentralDifference(&r.y, &gt, &r.g)
+	powellSingularBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	powellSingularBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *pow
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
-	slope = powellSingularBFGSCentralShortenAlong(g, d, slope, floor)
+	if !powellSingularBFGSCentralFinite(slope) {
+		slope = powellSingularBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularBFGSCentralShortenAlong is not inlined
+	}
 	low := powellSingularBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func powellSingularBFGSCentralExpandTrial(previous, current *powellSingularBFGSC
 	return powellSingularBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellSingularBFGSCentralDifference sets out = a − b.
-func powellSingularBFGSCentralDifference(out, a, b *[4]float64) {
+// powellSingularBFGSCentralGradientChange sets out = a − b.
+func powellSingularBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *powellSingularCGAnalyticDescent) search() {
 		r.out.evaluations += powellSingularCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellSingularCGAnalyticDifference(&r.s, &xt, &r.x)
-	powellSingularCGAnalyticDifference(&r.y, &gt, &r.g)
+	powellSingularCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	powellSingularCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powe
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
-	slope = powellSingularCGAnalyticShortenAlong(g, d, slope, floor)
+	if !powellSingularCGAnalyticFinite(slope) {
+		slope = powellSingularCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularCGAnalyticShortenAlong is not inlined
+	}
 	low := powellSingularCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func powellSingularCGAnalyticExpandTrial(previous, current *powellSingularCGAnal
 	return powellSingularCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellSingularCGAnalyticDifference sets out = a − b.
-func powellSingularCGAnalyticDifference(out, a, b *[4]float64) {
+// powellSingularCGAnalyticGradientChange sets out = a − b.
+func powellSingularCGAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

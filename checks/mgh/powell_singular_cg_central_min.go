@@ -518,8 +518,8 @@ func (r *powellSingularCGCentralDescent) search() {
 		r.out.evaluations += powellSingularCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellSingularCGCentralDifference(&r.s, &xt, &r.x)
-	powellSingularCGCentralDifference(&r.y, &gt, &r.g)
+	powellSingularCGCentralGradientChange(&r.s, &xt, &r.x)
+	powellSingularCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *powel
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularCGCentralDifferences) powellSingularCGCentralLineResult {
-	slope = powellSingularCGCentralShortenAlong(g, d, slope, floor)
+	if !powellSingularCGCentralFinite(slope) {
+		slope = powellSingularCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularCGCentralShortenAlong is not inlined
+	}
 	low := powellSingularCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func powellSingularCGCentralExpandTrial(previous, current *powellSingularCGCentr
 	return powellSingularCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellSingularCGCentralDifference sets out = a − b.
-func powellSingularCGCentralDifference(out, a, b *[4]float64) {
+// powellSingularCGCentralGradientChange sets out = a − b.
+func powellSingularCGCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *powellSingularLBFGSAnalyticDescent) search() {
 		r.out.evaluations += powellSingularLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellSingularLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	powellSingularLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	powellSingularLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	powellSingularLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1011,7 +1011,9 @@ func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *p
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
-	slope = powellSingularLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !powellSingularLBFGSAnalyticFinite(slope) {
+		slope = powellSingularLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := powellSingularLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1317,8 +1319,8 @@ func powellSingularLBFGSAnalyticExpandTrial(previous, current *powellSingularLBF
 	return powellSingularLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellSingularLBFGSAnalyticDifference sets out = a − b.
-func powellSingularLBFGSAnalyticDifference(out, a, b *[4]float64) {
+// powellSingularLBFGSAnalyticGradientChange sets out = a − b.
+func powellSingularLBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

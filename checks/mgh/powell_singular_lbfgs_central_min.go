@@ -519,8 +519,8 @@ func (r *powellSingularLBFGSCentralDescent) search() {
 		r.out.evaluations += powellSingularLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	powellSingularLBFGSCentralDifference(&r.s, &xt, &r.x)
-	powellSingularLBFGSCentralDifference(&r.y, &gt, &r.g)
+	powellSingularLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	powellSingularLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *po
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSCentralDifferences) powellSingularLBFGSCentralLineResult {
-	slope = powellSingularLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !powellSingularLBFGSCentralFinite(slope) {
+		slope = powellSingularLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularLBFGSCentralShortenAlong is not inlined
+	}
 	low := powellSingularLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func powellSingularLBFGSCentralExpandTrial(previous, current *powellSingularLBFG
 	return powellSingularLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// powellSingularLBFGSCentralDifference sets out = a − b.
-func powellSingularLBFGSCentralDifference(out, a, b *[4]float64) {
+// powellSingularLBFGSCentralGradientChange sets out = a − b.
+func powellSingularLBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

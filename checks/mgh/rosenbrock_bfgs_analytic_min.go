@@ -518,8 +518,8 @@ func (r *rosenbrockBFGSAnalyticDescent) search() {
 		r.out.evaluations += rosenbrockBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	rosenbrockBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	rosenbrockBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	rosenbrockBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	rosenbrockBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenb
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) rosenbrockBFGSAnalyticLineResult {
-	slope = rosenbrockBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !rosenbrockBFGSAnalyticFinite(slope) {
+		slope = rosenbrockBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockBFGSAnalyticShortenAlong is not inlined
+	}
 	low := rosenbrockBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func rosenbrockBFGSAnalyticExpandTrial(previous, current *rosenbrockBFGSAnalytic
 	return rosenbrockBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// rosenbrockBFGSAnalyticDifference sets out = a − b.
-func rosenbrockBFGSAnalyticDifference(out, a, b *[2]float64) {
+// rosenbrockBFGSAnalyticGradientChange sets out = a − b.
+func rosenbrockBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *rosenbrockBFGSCentralDescent) search() {
 		r.out.evaluations += rosenbrockBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	rosenbrockBFGSCentralDifference(&r.s, &xt, &r.x)
-	rosenbrockBFGSCentralDifference(&r.y, &gt, &r.g)
+	rosenbrockBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	rosenbrockBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbr
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSCentralDifferences) rosenbrockBFGSCentralLineResult {
-	slope = rosenbrockBFGSCentralShortenAlong(g, d, slope, floor)
+	if !rosenbrockBFGSCentralFinite(slope) {
+		slope = rosenbrockBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockBFGSCentralShortenAlong is not inlined
+	}
 	low := rosenbrockBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func rosenbrockBFGSCentralExpandTrial(previous, current *rosenbrockBFGSCentralLi
 	return rosenbrockBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// rosenbrockBFGSCentralDifference sets out = a − b.
-func rosenbrockBFGSCentralDifference(out, a, b *[2]float64) {
+// rosenbrockBFGSCentralGradientChange sets out = a − b.
+func rosenbrockBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

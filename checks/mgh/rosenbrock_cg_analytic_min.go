@@ -518,8 +518,8 @@ func (r *rosenbrockCGAnalyticDescent) search() {
 		r.out.evaluations += rosenbrockCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	rosenbrockCGAnalyticDifference(&r.s, &xt, &r.x)
-	rosenbrockCGAnalyticDifference(&r.y, &gt, &r.g)
+	rosenbrockCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	rosenbrockCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbro
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockCGAnalyticDifferences) rosenbrockCGAnalyticLineResult {
-	slope = rosenbrockCGAnalyticShortenAlong(g, d, slope, floor)
+	if !rosenbrockCGAnalyticFinite(slope) {
+		slope = rosenbrockCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockCGAnalyticShortenAlong is not inlined
+	}
 	low := rosenbrockCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func rosenbrockCGAnalyticExpandTrial(previous, current *rosenbrockCGAnalyticLine
 	return rosenbrockCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// rosenbrockCGAnalyticDifference sets out = a − b.
-func rosenbrockCGAnalyticDifference(out, a, b *[2]float64) {
+// rosenbrockCGAnalyticGradientChange sets out = a − b.
+func rosenbrockCGAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

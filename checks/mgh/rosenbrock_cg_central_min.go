@@ -518,8 +518,8 @@ func (r *rosenbrockCGCentralDescent) search() {
 		r.out.evaluations += rosenbrockCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	rosenbrockCGCentralDifference(&r.s, &xt, &r.x)
-	rosenbrockCGCentralDifference(&r.y, &gt, &r.g)
+	rosenbrockCGCentralGradientChange(&r.s, &xt, &r.x)
+	rosenbrockCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbroc
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockCGCentralDifferences) rosenbrockCGCentralLineResult {
-	slope = rosenbrockCGCentralShortenAlong(g, d, slope, floor)
+	if !rosenbrockCGCentralFinite(slope) {
+		slope = rosenbrockCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockCGCentralShortenAlong is not inlined
+	}
 	low := rosenbrockCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func rosenbrockCGCentralExpandTrial(previous, current *rosenbrockCGCentralLinePo
 	return rosenbrockCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// rosenbrockCGCentralDifference sets out = a − b.
-func rosenbrockCGCentralDifference(out, a, b *[2]float64) {
+// rosenbrockCGCentralGradientChange sets out = a − b.
+func rosenbrockCGCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

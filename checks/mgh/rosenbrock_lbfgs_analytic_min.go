@@ -519,8 +519,8 @@ func (r *rosenbrockLBFGSAnalyticDescent) search() {
 		r.out.evaluations += rosenbrockLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	rosenbrockLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	rosenbrockLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	rosenbrockLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	rosenbrockLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) rosenbrockLBFGSAnalyticLineResult {
-	slope = rosenbrockLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !rosenbrockLBFGSAnalyticFinite(slope) {
+		slope = rosenbrockLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := rosenbrockLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func rosenbrockLBFGSAnalyticExpandTrial(previous, current *rosenbrockLBFGSAnalyt
 	return rosenbrockLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// rosenbrockLBFGSAnalyticDifference sets out = a − b.
-func rosenbrockLBFGSAnalyticDifference(out, a, b *[2]float64) {
+// rosenbrockLBFGSAnalyticGradientChange sets out = a − b.
+func rosenbrockLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

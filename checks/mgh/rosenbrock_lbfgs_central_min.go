@@ -519,8 +519,8 @@ func (r *rosenbrockLBFGSCentralDescent) search() {
 		r.out.evaluations += rosenbrockLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	rosenbrockLBFGSCentralDifference(&r.s, &xt, &r.x)
-	rosenbrockLBFGSCentralDifference(&r.y, &gt, &r.g)
+	rosenbrockLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	rosenbrockLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenb
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) rosenbrockLBFGSCentralLineResult {
-	slope = rosenbrockLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !rosenbrockLBFGSCentralFinite(slope) {
+		slope = rosenbrockLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockLBFGSCentralShortenAlong is not inlined
+	}
 	low := rosenbrockLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func rosenbrockLBFGSCentralExpandTrial(previous, current *rosenbrockLBFGSCentral
 	return rosenbrockLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// rosenbrockLBFGSCentralDifference sets out = a − b.
-func rosenbrockLBFGSCentralDifference(out, a, b *[2]float64) {
+// rosenbrockLBFGSCentralGradientChange sets out = a − b.
+func rosenbrockLBFGSCentralGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

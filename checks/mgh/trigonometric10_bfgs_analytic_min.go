@@ -518,8 +518,8 @@ func (r *trigonometric10BFGSAnalyticDescent) search() {
 		r.out.evaluations += trigonometric10BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	trigonometric10BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	trigonometric10BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	trigonometric10BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	trigonometric10BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -978,7 +978,9 @@ func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
-	slope = trigonometric10BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !trigonometric10BFGSAnalyticFinite(slope) {
+		slope = trigonometric10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10BFGSAnalyticShortenAlong is not inlined
+	}
 	low := trigonometric10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1284,8 +1286,8 @@ func trigonometric10BFGSAnalyticExpandTrial(previous, current *trigonometric10BF
 	return trigonometric10BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// trigonometric10BFGSAnalyticDifference sets out = a − b.
-func trigonometric10BFGSAnalyticDifference(out, a, b *[10]float64) {
+// trigonometric10BFGSAnalyticGradientChange sets out = a − b.
+func trigonometric10BFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *trigonometric10BFGSCentralDescent) search() {
 		r.out.evaluations += trigonometric10BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	trigonometric10BFGSCentralDifference(&r.s, &xt, &r.x)
-	trigonometric10BFGSCentralDifference(&r.y, &gt, &r.g)
+	trigonometric10BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	trigonometric10BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1157,7 +1157,9 @@ func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *t
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSCentralDifferences) trigonometric10BFGSCentralLineResult {
-	slope = trigonometric10BFGSCentralShortenAlong(g, d, slope, floor)
+	if !trigonometric10BFGSCentralFinite(slope) {
+		slope = trigonometric10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10BFGSCentralShortenAlong is not inlined
+	}
 	low := trigonometric10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1463,8 +1465,8 @@ func trigonometric10BFGSCentralExpandTrial(previous, current *trigonometric10BFG
 	return trigonometric10BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// trigonometric10BFGSCentralDifference sets out = a − b.
-func trigonometric10BFGSCentralDifference(out, a, b *[10]float64) {
+// trigonometric10BFGSCentralGradientChange sets out = a − b.
+func trigonometric10BFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

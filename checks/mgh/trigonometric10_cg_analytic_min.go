@@ -518,8 +518,8 @@ func (r *trigonometric10CGAnalyticDescent) search() {
 		r.out.evaluations += trigonometric10CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	trigonometric10CGAnalyticDifference(&r.s, &xt, &r.x)
-	trigonometric10CGAnalyticDifference(&r.y, &gt, &r.g)
+	trigonometric10CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	trigonometric10CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *tr
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10CGAnalyticDifferences) trigonometric10CGAnalyticLineResult {
-	slope = trigonometric10CGAnalyticShortenAlong(g, d, slope, floor)
+	if !trigonometric10CGAnalyticFinite(slope) {
+		slope = trigonometric10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10CGAnalyticShortenAlong is not inlined
+	}
 	low := trigonometric10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func trigonometric10CGAnalyticExpandTrial(previous, current *trigonometric10CGAn
 	return trigonometric10CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// trigonometric10CGAnalyticDifference sets out = a − b.
-func trigonometric10CGAnalyticDifference(out, a, b *[10]float64) {
+// trigonometric10CGAnalyticGradientChange sets out = a − b.
+func trigonometric10CGAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

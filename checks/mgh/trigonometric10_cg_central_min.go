@@ -518,8 +518,8 @@ func (r *trigonometric10CGCentralDescent) search() {
 		r.out.evaluations += trigonometric10CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	trigonometric10CGCentralDifference(&r.s, &xt, &r.x)
-	trigonometric10CGCentralDifference(&r.y, &gt, &r.g)
+	trigonometric10CGCentralGradientChange(&r.s, &xt, &r.x)
+	trigonometric10CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func trigonometric10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *tri
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10CGCentralDifferences) trigonometric10CGCentralLineResult {
-	slope = trigonometric10CGCentralShortenAlong(g, d, slope, floor)
+	if !trigonometric10CGCentralFinite(slope) {
+		slope = trigonometric10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10CGCentralShortenAlong is not inlined
+	}
 	low := trigonometric10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func trigonometric10CGCentralExpandTrial(previous, current *trigonometric10CGCen
 	return trigonometric10CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// trigonometric10CGCentralDifference sets out = a − b.
-func trigonometric10CGCentralDifference(out, a, b *[10]float64) {
+// trigonometric10CGCentralGradientChange sets out = a − b.
+func trigonometric10CGCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *trigonometric10LBFGSAnalyticDescent) search() {
 		r.out.evaluations += trigonometric10LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	trigonometric10LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	trigonometric10LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	trigonometric10LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	trigonometric10LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1011,7 +1011,9 @@ func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) trigonometric10LBFGSAnalyticLineResult {
-	slope = trigonometric10LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !trigonometric10LBFGSAnalyticFinite(slope) {
+		slope = trigonometric10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := trigonometric10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1317,8 +1319,8 @@ func trigonometric10LBFGSAnalyticExpandTrial(previous, current *trigonometric10L
 	return trigonometric10LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// trigonometric10LBFGSAnalyticDifference sets out = a − b.
-func trigonometric10LBFGSAnalyticDifference(out, a, b *[10]float64) {
+// trigonometric10LBFGSAnalyticGradientChange sets out = a − b.
+func trigonometric10LBFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *trigonometric10LBFGSCentralDescent) search() {
 		r.out.evaluations += trigonometric10LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	trigonometric10LBFGSCentralDifference(&r.s, &xt, &r.x)
-	trigonometric10LBFGSCentralDifference(&r.y, &gt, &r.g)
+	trigonometric10LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	trigonometric10LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1190,7 +1190,9 @@ func trigonometric10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) trigonometric10LBFGSCentralLineResult {
-	slope = trigonometric10LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !trigonometric10LBFGSCentralFinite(slope) {
+		slope = trigonometric10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10LBFGSCentralShortenAlong is not inlined
+	}
 	low := trigonometric10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1496,8 +1498,8 @@ func trigonometric10LBFGSCentralExpandTrial(previous, current *trigonometric10LB
 	return trigonometric10LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// trigonometric10LBFGSCentralDifference sets out = a − b.
-func trigonometric10LBFGSCentralDifference(out, a, b *[10]float64) {
+// trigonometric10LBFGSCentralGradientChange sets out = a − b.
+func trigonometric10LBFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

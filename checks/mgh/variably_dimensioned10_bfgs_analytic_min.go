@@ -518,8 +518,8 @@ func (r *variablyDimensioned10BFGSAnalyticDescent) search() {
 		r.out.evaluations += variablyDimensioned10BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	variablyDimensioned10BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	variablyDimensioned10BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	variablyDimensioned10BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	variablyDimensioned10BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -979,7 +979,9 @@ func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, d
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
-	slope = variablyDimensioned10BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !variablyDimensioned10BFGSAnalyticFinite(slope) {
+		slope = variablyDimensioned10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10BFGSAnalyticShortenAlong is not inlined
+	}
 	low := variablyDimensioned10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1285,8 +1287,8 @@ func variablyDimensioned10BFGSAnalyticExpandTrial(previous, current *variablyDim
 	return variablyDimensioned10BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// variablyDimensioned10BFGSAnalyticDifference sets out = a − b.
-func variablyDimensioned10BFGSAnalyticDifference(out, a, b *[10]float64) {
+// variablyDimensioned10BFGSAnalyticGradientChange sets out = a − b.
+func variablyDimensioned10BFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *variablyDimensioned10BFGSCentralDescent) search() {
 		r.out.evaluations += variablyDimensioned10BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	variablyDimensioned10BFGSCentralDifference(&r.s, &xt, &r.x)
-	variablyDimensioned10BFGSCentralDifference(&r.y, &gt, &r.g)
+	variablyDimensioned10BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	variablyDimensioned10BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1158,7 +1158,9 @@ func variablyDimensioned10BFGSCentralTinyStep(x, d *[10]float64, tol float64, di
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) variablyDimensioned10BFGSCentralLineResult {
-	slope = variablyDimensioned10BFGSCentralShortenAlong(g, d, slope, floor)
+	if !variablyDimensioned10BFGSCentralFinite(slope) {
+		slope = variablyDimensioned10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10BFGSCentralShortenAlong is not inlined
+	}
 	low := variablyDimensioned10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1464,8 +1466,8 @@ func variablyDimensioned10BFGSCentralExpandTrial(previous, current *variablyDime
 	return variablyDimensioned10BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// variablyDimensioned10BFGSCentralDifference sets out = a − b.
-func variablyDimensioned10BFGSCentralDifference(out, a, b *[10]float64) {
+// variablyDimensioned10BFGSCentralGradientChange sets out = a − b.
+func variablyDimensioned10BFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *variablyDimensioned10CGAnalyticDescent) search() {
 		r.out.evaluations += variablyDimensioned10CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	variablyDimensioned10CGAnalyticDifference(&r.s, &xt, &r.x)
-	variablyDimensioned10CGAnalyticDifference(&r.y, &gt, &r.g)
+	variablyDimensioned10CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	variablyDimensioned10CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -969,7 +969,9 @@ func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64, dif
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) variablyDimensioned10CGAnalyticLineResult {
-	slope = variablyDimensioned10CGAnalyticShortenAlong(g, d, slope, floor)
+	if !variablyDimensioned10CGAnalyticFinite(slope) {
+		slope = variablyDimensioned10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10CGAnalyticShortenAlong is not inlined
+	}
 	low := variablyDimensioned10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1275,8 +1277,8 @@ func variablyDimensioned10CGAnalyticExpandTrial(previous, current *variablyDimen
 	return variablyDimensioned10CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// variablyDimensioned10CGAnalyticDifference sets out = a − b.
-func variablyDimensioned10CGAnalyticDifference(out, a, b *[10]float64) {
+// variablyDimensioned10CGAnalyticGradientChange sets out = a − b.
+func variablyDimensioned10CGAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *variablyDimensioned10CGCentralDescent) search() {
 		r.out.evaluations += variablyDimensioned10CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	variablyDimensioned10CGCentralDifference(&r.s, &xt, &r.x)
-	variablyDimensioned10CGCentralDifference(&r.y, &gt, &r.g)
+	variablyDimensioned10CGCentralGradientChange(&r.s, &xt, &r.x)
+	variablyDimensioned10CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1148,7 +1148,9 @@ func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64, diff
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) variablyDimensioned10CGCentralLineResult {
-	slope = variablyDimensioned10CGCentralShortenAlong(g, d, slope, floor)
+	if !variablyDimensioned10CGCentralFinite(slope) {
+		slope = variablyDimensioned10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10CGCentralShortenAlong is not inlined
+	}
 	low := variablyDimensioned10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1454,8 +1456,8 @@ func variablyDimensioned10CGCentralExpandTrial(previous, current *variablyDimens
 	return variablyDimensioned10CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// variablyDimensioned10CGCentralDifference sets out = a − b.
-func variablyDimensioned10CGCentralDifference(out, a, b *[10]float64) {
+// variablyDimensioned10CGCentralGradientChange sets out = a − b.
+func variablyDimensioned10CGCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

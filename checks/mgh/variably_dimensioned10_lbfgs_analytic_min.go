@@ -519,8 +519,8 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) search() {
 		r.out.evaluations += variablyDimensioned10LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	variablyDimensioned10LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	variablyDimensioned10LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	variablyDimensioned10LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	variablyDimensioned10LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1012,7 +1012,9 @@ func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, 
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) variablyDimensioned10LBFGSAnalyticLineResult {
-	slope = variablyDimensioned10LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !variablyDimensioned10LBFGSAnalyticFinite(slope) {
+		slope = variablyDimensioned10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := variablyDimensioned10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1318,8 +1320,8 @@ func variablyDimensioned10LBFGSAnalyticExpandTrial(previous, current *variablyDi
 	return variablyDimensioned10LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// variablyDimensioned10LBFGSAnalyticDifference sets out = a − b.
-func variablyDimensioned10LBFGSAnalyticDifference(out, a, b *[10]float64) {
+// variablyDimensioned10LBFGSAnalyticGradientChange sets out = a − b.
+func variablyDimensioned10LBFGSAnalyticGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *variablyDimensioned10LBFGSCentralDescent) search() {
 		r.out.evaluations += variablyDimensioned10LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	variablyDimensioned10LBFGSCentralDifference(&r.s, &xt, &r.x)
-	variablyDimensioned10LBFGSCentralDifference(&r.y, &gt, &r.g)
+	variablyDimensioned10LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	variablyDimensioned10LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1191,7 +1191,9 @@ func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, d
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
-	slope = variablyDimensioned10LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !variablyDimensioned10LBFGSCentralFinite(slope) {
+		slope = variablyDimensioned10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10LBFGSCentralShortenAlong is not inlined
+	}
 	low := variablyDimensioned10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1497,8 +1499,8 @@ func variablyDimensioned10LBFGSCentralExpandTrial(previous, current *variablyDim
 	return variablyDimensioned10LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// variablyDimensioned10LBFGSCentralDifference sets out = a − b.
-func variablyDimensioned10LBFGSCentralDifference(out, a, b *[10]float64) {
+// variablyDimensioned10LBFGSCentralGradientChange sets out = a − b.
+func variablyDimensioned10LBFGSCentralGradientChange(out, a, b *[10]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

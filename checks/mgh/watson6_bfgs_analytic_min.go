@@ -518,8 +518,8 @@ func (r *watson6BFGSAnalyticDescent) search() {
 		r.out.evaluations += watson6BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson6BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	watson6BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	watson6BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	watson6BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6BF
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6BFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *watson6BFGSAnalyticDifferences) watson6BFGSAnalyticLineResult {
-	slope = watson6BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !watson6BFGSAnalyticFinite(slope) {
+		slope = watson6BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson6BFGSAnalyticShortenAlong is not inlined
+	}
 	low := watson6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func watson6BFGSAnalyticExpandTrial(previous, current *watson6BFGSAnalyticLinePo
 	return watson6BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson6BFGSAnalyticDifference sets out = a − b.
-func watson6BFGSAnalyticDifference(out, a, b *[6]float64) {
+// watson6BFGSAnalyticGradientChange sets out = a − b.
+func watson6BFGSAnalyticGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *watson6BFGSCentralDescent) search() {
 		r.out.evaluations += watson6BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson6BFGSCentralDifference(&r.s, &xt, &r.x)
-	watson6BFGSCentralDifference(&r.y, &gt, &r.g)
+	watson6BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	watson6BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFG
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6BFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6BFGSCentralDifferences) watson6BFGSCentralLineResult {
-	slope = watson6BFGSCentralShortenAlong(g, d, slope, floor)
+	if !watson6BFGSCentralFinite(slope) {
+		slope = watson6BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson6BFGSCentralShortenAlong is not inlined
+	}
 	low := watson6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func watson6BFGSCentralExpandTrial(previous, current *watson6BFGSCentralLinePoin
 	return watson6BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson6BFGSCentralDifference sets out = a − b.
-func watson6BFGSCentralDifference(out, a, b *[6]float64) {
+// watson6BFGSCentralGradientChange sets out = a − b.
+func watson6BFGSCentralGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *watson6CGAnalyticDescent) search() {
 		r.out.evaluations += watson6CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson6CGAnalyticDifference(&r.s, &xt, &r.x)
-	watson6CGAnalyticDifference(&r.y, &gt, &r.g)
+	watson6CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	watson6CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6CGAn
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6CGAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *watson6CGAnalyticDifferences) watson6CGAnalyticLineResult {
-	slope = watson6CGAnalyticShortenAlong(g, d, slope, floor)
+	if !watson6CGAnalyticFinite(slope) {
+		slope = watson6CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson6CGAnalyticShortenAlong is not inlined
+	}
 	low := watson6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func watson6CGAnalyticExpandTrial(previous, current *watson6CGAnalyticLinePoint)
 	return watson6CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson6CGAnalyticDifference sets out = a − b.
-func watson6CGAnalyticDifference(out, a, b *[6]float64) {
+// watson6CGAnalyticGradientChange sets out = a − b.
+func watson6CGAnalyticGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

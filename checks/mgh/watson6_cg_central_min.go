@@ -518,8 +518,8 @@ func (r *watson6CGCentralDescent) search() {
 		r.out.evaluations += watson6CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson6CGCentralDifference(&r.s, &xt, &r.x)
-	watson6CGCentralDifference(&r.y, &gt, &r.g)
+	watson6CGCentralGradientChange(&r.s, &xt, &r.x)
+	watson6CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func watson6CGCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6CGCen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6CGCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6CGCentralDifferences) watson6CGCentralLineResult {
-	slope = watson6CGCentralShortenAlong(g, d, slope, floor)
+	if !watson6CGCentralFinite(slope) {
+		slope = watson6CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson6CGCentralShortenAlong is not inlined
+	}
 	low := watson6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func watson6CGCentralExpandTrial(previous, current *watson6CGCentralLinePoint) f
 	return watson6CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson6CGCentralDifference sets out = a − b.
-func watson6CGCentralDifference(out, a, b *[6]float64) {
+// watson6CGCentralGradientChange sets out = a − b.
+func watson6CGCentralGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *watson6LBFGSAnalyticDescent) search() {
 		r.out.evaluations += watson6LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson6LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	watson6LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	watson6LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	watson6LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6L
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6LBFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
-	slope = watson6LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !watson6LBFGSAnalyticFinite(slope) {
+		slope = watson6LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson6LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := watson6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func watson6LBFGSAnalyticExpandTrial(previous, current *watson6LBFGSAnalyticLine
 	return watson6LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson6LBFGSAnalyticDifference sets out = a − b.
-func watson6LBFGSAnalyticDifference(out, a, b *[6]float64) {
+// watson6LBFGSAnalyticGradientChange sets out = a − b.
+func watson6LBFGSAnalyticGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *watson6LBFGSCentralDescent) search() {
 		r.out.evaluations += watson6LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson6LBFGSCentralDifference(&r.s, &xt, &r.x)
-	watson6LBFGSCentralDifference(&r.y, &gt, &r.g)
+	watson6LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	watson6LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6LB
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6LBFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
-	slope = watson6LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !watson6LBFGSCentralFinite(slope) {
+		slope = watson6LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson6LBFGSCentralShortenAlong is not inlined
+	}
 	low := watson6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func watson6LBFGSCentralExpandTrial(previous, current *watson6LBFGSCentralLinePo
 	return watson6LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson6LBFGSCentralDifference sets out = a − b.
-func watson6LBFGSCentralDifference(out, a, b *[6]float64) {
+// watson6LBFGSCentralGradientChange sets out = a − b.
+func watson6LBFGSCentralGradientChange(out, a, b *[6]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *watson9BFGSAnalyticDescent) search() {
 		r.out.evaluations += watson9BFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson9BFGSAnalyticDifference(&r.s, &xt, &r.x)
-	watson9BFGSAnalyticDifference(&r.y, &gt, &r.g)
+	watson9BFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	watson9BFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9BF
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9BFGSAnalyticStepFloor, budget int, xt, gt *[9]float64, diffs *watson9BFGSAnalyticDifferences) watson9BFGSAnalyticLineResult {
-	slope = watson9BFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !watson9BFGSAnalyticFinite(slope) {
+		slope = watson9BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson9BFGSAnalyticShortenAlong is not inlined
+	}
 	low := watson9BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func watson9BFGSAnalyticExpandTrial(previous, current *watson9BFGSAnalyticLinePo
 	return watson9BFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson9BFGSAnalyticDifference sets out = a − b.
-func watson9BFGSAnalyticDifference(out, a, b *[9]float64) {
+// watson9BFGSAnalyticGradientChange sets out = a − b.
+func watson9BFGSAnalyticGradientChange(out, a, b *[9]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *watson9BFGSCentralDescent) search() {
 		r.out.evaluations += watson9BFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson9BFGSCentralDifference(&r.s, &xt, &r.x)
-	watson9BFGSCentralDifference(&r.y, &gt, &r.g)
+	watson9BFGSCentralGradientChange(&r.s, &xt, &r.x)
+	watson9BFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9BFG
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9BFGSCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
-	slope = watson9BFGSCentralShortenAlong(g, d, slope, floor)
+	if !watson9BFGSCentralFinite(slope) {
+		slope = watson9BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson9BFGSCentralShortenAlong is not inlined
+	}
 	low := watson9BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func watson9BFGSCentralExpandTrial(previous, current *watson9BFGSCentralLinePoin
 	return watson9BFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson9BFGSCentralDifference sets out = a − b.
-func watson9BFGSCentralDifference(out, a, b *[9]float64) {
+// watson9BFGSCentralGradientChange sets out = a − b.
+func watson9BFGSCentralGradientChange(out, a, b *[9]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

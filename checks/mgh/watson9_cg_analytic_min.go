@@ -518,8 +518,8 @@ func (r *watson9CGAnalyticDescent) search() {
 		r.out.evaluations += watson9CGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson9CGAnalyticDifference(&r.s, &xt, &r.x)
-	watson9CGAnalyticDifference(&r.y, &gt, &r.g)
+	watson9CGAnalyticGradientChange(&r.s, &xt, &r.x)
+	watson9CGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGAn
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9CGAnalyticStepFloor, budget int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
-	slope = watson9CGAnalyticShortenAlong(g, d, slope, floor)
+	if !watson9CGAnalyticFinite(slope) {
+		slope = watson9CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson9CGAnalyticShortenAlong is not inlined
+	}
 	low := watson9CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func watson9CGAnalyticExpandTrial(previous, current *watson9CGAnalyticLinePoint)
 	return watson9CGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson9CGAnalyticDifference sets out = a − b.
-func watson9CGAnalyticDifference(out, a, b *[9]float64) {
+// watson9CGAnalyticGradientChange sets out = a − b.
+func watson9CGAnalyticGradientChange(out, a, b *[9]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *watson9CGCentralDescent) search() {
 		r.out.evaluations += watson9CGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson9CGCentralDifference(&r.s, &xt, &r.x)
-	watson9CGCentralDifference(&r.y, &gt, &r.g)
+	watson9CGCentralGradientChange(&r.s, &xt, &r.x)
+	watson9CGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func watson9CGCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGCen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9CGCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9CGCentralDifferences) watson9CGCentralLineResult {
-	slope = watson9CGCentralShortenAlong(g, d, slope, floor)
+	if !watson9CGCentralFinite(slope) {
+		slope = watson9CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson9CGCentralShortenAlong is not inlined
+	}
 	low := watson9CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func watson9CGCentralExpandTrial(previous, current *watson9CGCentralLinePoint) f
 	return watson9CGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson9CGCentralDifference sets out = a − b.
-func watson9CGCentralDifference(out, a, b *[9]float64) {
+// watson9CGCentralGradientChange sets out = a − b.
+func watson9CGCentralGradientChange(out, a, b *[9]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *watson9LBFGSAnalyticDescent) search() {
 		r.out.evaluations += watson9LBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson9LBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	watson9LBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	watson9LBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	watson9LBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9L
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9LBFGSAnalyticStepFloor, budget int, xt, gt *[9]float64, diffs *watson9LBFGSAnalyticDifferences) watson9LBFGSAnalyticLineResult {
-	slope = watson9LBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !watson9LBFGSAnalyticFinite(slope) {
+		slope = watson9LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson9LBFGSAnalyticShortenAlong is not inlined
+	}
 	low := watson9LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func watson9LBFGSAnalyticExpandTrial(previous, current *watson9LBFGSAnalyticLine
 	return watson9LBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson9LBFGSAnalyticDifference sets out = a − b.
-func watson9LBFGSAnalyticDifference(out, a, b *[9]float64) {
+// watson9LBFGSAnalyticGradientChange sets out = a − b.
+func watson9LBFGSAnalyticGradientChange(out, a, b *[9]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *watson9LBFGSCentralDescent) search() {
 		r.out.evaluations += watson9LBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	watson9LBFGSCentralDifference(&r.s, &xt, &r.x)
-	watson9LBFGSCentralDifference(&r.y, &gt, &r.g)
+	watson9LBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	watson9LBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9LB
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9LBFGSCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
-	slope = watson9LBFGSCentralShortenAlong(g, d, slope, floor)
+	if !watson9LBFGSCentralFinite(slope) {
+		slope = watson9LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson9LBFGSCentralShortenAlong is not inlined
+	}
 	low := watson9LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func watson9LBFGSCentralExpandTrial(previous, current *watson9LBFGSCentralLinePo
 	return watson9LBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// watson9LBFGSCentralDifference sets out = a − b.
-func watson9LBFGSCentralDifference(out, a, b *[9]float64) {
+// watson9LBFGSCentralGradientChange sets out = a − b.
+func watson9LBFGSCentralGradientChange(out, a, b *[9]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *woodBFGSAnalyticDescent) search() {
 		r.out.evaluations += woodBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	woodBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	woodBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	woodBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	woodBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -977,7 +977,9 @@ func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSAnal
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *woodBFGSAnalyticDifferences) woodBFGSAnalyticLineResult {
-	slope = woodBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !woodBFGSAnalyticFinite(slope) {
+		slope = woodBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: woodBFGSAnalyticShortenAlong is not inlined
+	}
 	low := woodBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1283,8 +1285,8 @@ func woodBFGSAnalyticExpandTrial(previous, current *woodBFGSAnalyticLinePoint) f
 	return woodBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// woodBFGSAnalyticDifference sets out = a − b.
-func woodBFGSAnalyticDifference(out, a, b *[4]float64) {
+// woodBFGSAnalyticGradientChange sets out = a − b.
+func woodBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *woodBFGSCentralDescent) search() {
 		r.out.evaluations += woodBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	woodBFGSCentralDifference(&r.s, &xt, &r.x)
-	woodBFGSCentralDifference(&r.y, &gt, &r.g)
+	woodBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	woodBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1156,7 +1156,9 @@ func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSCentr
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodBFGSCentralDifferences) woodBFGSCentralLineResult {
-	slope = woodBFGSCentralShortenAlong(g, d, slope, floor)
+	if !woodBFGSCentralFinite(slope) {
+		slope = woodBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: woodBFGSCentralShortenAlong is not inlined
+	}
 	low := woodBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1462,8 +1464,8 @@ func woodBFGSCentralExpandTrial(previous, current *woodBFGSCentralLinePoint) flo
 	return woodBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// woodBFGSCentralDifference sets out = a − b.
-func woodBFGSCentralDifference(out, a, b *[4]float64) {
+// woodBFGSCentralGradientChange sets out = a − b.
+func woodBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *woodCGAnalyticDescent) search() {
 		r.out.evaluations += woodCGAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	woodCGAnalyticDifference(&r.s, &xt, &r.x)
-	woodCGAnalyticDifference(&r.y, &gt, &r.g)
+	woodCGAnalyticGradientChange(&r.s, &xt, &r.x)
+	woodCGAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -968,7 +968,9 @@ func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodCGAnalytic
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *woodCGAnalyticDifferences) woodCGAnalyticLineResult {
-	slope = woodCGAnalyticShortenAlong(g, d, slope, floor)
+	if !woodCGAnalyticFinite(slope) {
+		slope = woodCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: woodCGAnalyticShortenAlong is not inlined
+	}
 	low := woodCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1274,8 +1276,8 @@ func woodCGAnalyticExpandTrial(previous, current *woodCGAnalyticLinePoint) float
 	return woodCGAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// woodCGAnalyticDifference sets out = a − b.
-func woodCGAnalyticDifference(out, a, b *[4]float64) {
+// woodCGAnalyticGradientChange sets out = a − b.
+func woodCGAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *woodCGCentralDescent) search() {
 		r.out.evaluations += woodCGCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	woodCGCentralDifference(&r.s, &xt, &r.x)
-	woodCGCentralDifference(&r.y, &gt, &r.g)
+	woodCGCentralGradientChange(&r.s, &xt, &r.x)
+	woodCGCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1147,7 +1147,9 @@ func woodCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodCGCentralDi
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
-	slope = woodCGCentralShortenAlong(g, d, slope, floor)
+	if !woodCGCentralFinite(slope) {
+		slope = woodCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: woodCGCentralShortenAlong is not inlined
+	}
 	low := woodCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1453,8 +1455,8 @@ func woodCGCentralExpandTrial(previous, current *woodCGCentralLinePoint) float64
 	return woodCGCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// woodCGCentralDifference sets out = a − b.
-func woodCGCentralDifference(out, a, b *[4]float64) {
+// woodCGCentralGradientChange sets out = a − b.
+func woodCGCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *woodLBFGSAnalyticDescent) search() {
 		r.out.evaluations += woodLBFGSAnalyticDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	woodLBFGSAnalyticDifference(&r.s, &xt, &r.x)
-	woodLBFGSAnalyticDifference(&r.y, &gt, &r.g)
+	woodLBFGSAnalyticGradientChange(&r.s, &xt, &r.x)
+	woodLBFGSAnalyticGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1010,7 +1010,9 @@ func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSAn
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *woodLBFGSAnalyticDifferences) woodLBFGSAnalyticLineResult {
-	slope = woodLBFGSAnalyticShortenAlong(g, d, slope, floor)
+	if !woodLBFGSAnalyticFinite(slope) {
+		slope = woodLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: woodLBFGSAnalyticShortenAlong is not inlined
+	}
 	low := woodLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1316,8 +1318,8 @@ func woodLBFGSAnalyticExpandTrial(previous, current *woodLBFGSAnalyticLinePoint)
 	return woodLBFGSAnalyticClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// woodLBFGSAnalyticDifference sets out = a − b.
-func woodLBFGSAnalyticDifference(out, a, b *[4]float64) {
+// woodLBFGSAnalyticGradientChange sets out = a − b.
+func woodLBFGSAnalyticGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -519,8 +519,8 @@ func (r *woodLBFGSCentralDescent) search() {
 		r.out.evaluations += woodLBFGSCentralDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	woodLBFGSCentralDifference(&r.s, &xt, &r.x)
-	woodLBFGSCentralDifference(&r.y, &gt, &r.g)
+	woodLBFGSCentralGradientChange(&r.s, &xt, &r.x)
+	woodLBFGSCentralGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1189,7 +1189,9 @@ func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSCen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodLBFGSCentralDifferences) woodLBFGSCentralLineResult {
-	slope = woodLBFGSCentralShortenAlong(g, d, slope, floor)
+	if !woodLBFGSCentralFinite(slope) {
+		slope = woodLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: woodLBFGSCentralShortenAlong is not inlined
+	}
 	low := woodLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1495,8 +1497,8 @@ func woodLBFGSCentralExpandTrial(previous, current *woodLBFGSCentralLinePoint) f
 	return woodLBFGSCentralClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// woodLBFGSCentralDifference sets out = a − b.
-func woodLBFGSCentralDifference(out, a, b *[4]float64) {
+// woodLBFGSCentralGradientChange sets out = a − b.
+func woodLBFGSCentralGradientChange(out, a, b *[4]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

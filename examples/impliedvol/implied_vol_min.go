@@ -528,8 +528,8 @@ func (r *impliedVolDescent) search(recv *Trade) {
 		r.out.evaluations += impliedVolDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	impliedVolDifference(&r.s, &xt, &r.x)
-	impliedVolDifference(&r.y, &gt, &r.g)
+	impliedVolGradientChange(&r.s, &xt, &r.x)
+	impliedVolGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func impliedVolTinyStep(x, d *[1]float64, tol float64, diffs *impliedVolDifferen
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func impliedVolLineSearch(recv *Trade, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *impliedVolStepFloor, budget int, xt, gt *[1]float64, diffs *impliedVolDifferences) impliedVolLineResult {
-	slope = impliedVolShortenAlong(g, d, slope, floor)
+	if !impliedVolFinite(slope) {
+		slope = impliedVolShortenAlong(g, d, slope, floor) // the call only where it acts: impliedVolShortenAlong is not inlined
+	}
 	low := impliedVolLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high impliedVolLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func impliedVolExpandTrial(previous, current *impliedVolLinePoint) float64 {
 	return impliedVolClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// impliedVolDifference sets out = a − b.
-func impliedVolDifference(out, a, b *[1]float64) {
+// impliedVolGradientChange sets out = a − b.
+func impliedVolGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *calibrateDescent) search() {
 		r.out.evaluations += calibrateDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	calibrateDifference(&r.s, &xt, &r.x)
-	calibrateDifference(&r.y, &gt, &r.g)
+	calibrateGradientChange(&r.s, &xt, &r.x)
+	calibrateGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -956,7 +956,9 @@ func calibrateTinyStep(x, d *[2]float64, tol float64, diffs *calibrateDifference
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *calibrateStepFloor, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
-	slope = calibrateShortenAlong(g, d, slope, floor)
+	if !calibrateFinite(slope) {
+		slope = calibrateShortenAlong(g, d, slope, floor) // the call only where it acts: calibrateShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend calibrateRiseTrend
@@ -1154,8 +1156,8 @@ func calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) floa
 	return t * calibrateStepShrink
 }
 
-// calibrateDifference sets out = a − b.
-func calibrateDifference(out, a, b *[2]float64) {
+// calibrateGradientChange sets out = a − b.
+func calibrateGradientChange(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -518,8 +518,8 @@ func (r *tuneGainDescent) search() {
 		r.out.evaluations += tuneGainDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	tuneGainDifference(&r.s, &xt, &r.x)
-	tuneGainDifference(&r.y, &gt, &r.g)
+	tuneGainGradientChange(&r.s, &xt, &r.x)
+	tuneGainGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1135,7 +1135,9 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64, diffs *tuneGainDifferences)
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func tuneGainLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *tuneGainStepFloor, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
-	slope = tuneGainShortenAlong(g, d, slope, floor)
+	if !tuneGainFinite(slope) {
+		slope = tuneGainShortenAlong(g, d, slope, floor) // the call only where it acts: tuneGainShortenAlong is not inlined
+	}
 	t := first
 	var previous, fPrevious float64
 	var trend tuneGainRiseTrend
@@ -1333,8 +1335,8 @@ func tuneGainBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) float
 	return t * tuneGainStepShrink
 }
 
-// tuneGainDifference sets out = a − b.
-func tuneGainDifference(out, a, b *[1]float64) {
+// tuneGainGradientChange sets out = a − b.
+func tuneGainGradientChange(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

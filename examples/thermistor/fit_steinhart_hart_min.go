@@ -545,8 +545,8 @@ func (r *fitSteinhartHartDescent) search(recv *Calibration) {
 		r.out.evaluations += fitSteinhartHartDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	fitSteinhartHartDifference(&r.s, &xt, &r.x)
-	fitSteinhartHartDifference(&r.y, &gt, &r.g)
+	fitSteinhartHartGradientChange(&r.s, &xt, &r.x)
+	fitSteinhartHartGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1183,7 +1183,9 @@ func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64, diffs *fitSteinhart
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func fitSteinhartHartLineSearch(recv *Calibration, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *fitSteinhartHartStepFloor, budget int, xt, gt *[3]float64, diffs *fitSteinhartHartDifferences) fitSteinhartHartLineResult {
-	slope = fitSteinhartHartShortenAlong(g, d, slope, floor)
+	if !fitSteinhartHartFinite(slope) {
+		slope = fitSteinhartHartShortenAlong(g, d, slope, floor) // the call only where it acts: fitSteinhartHartShortenAlong is not inlined
+	}
 	low := fitSteinhartHartLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high fitSteinhartHartLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1489,8 +1491,8 @@ func fitSteinhartHartExpandTrial(previous, current *fitSteinhartHartLinePoint) f
 	return fitSteinhartHartClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// fitSteinhartHartDifference sets out = a − b.
-func fitSteinhartHartDifference(out, a, b *[3]float64) {
+// fitSteinhartHartGradientChange sets out = a − b.
+func fitSteinhartHartGradientChange(out, a, b *[3]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}

@@ -528,8 +528,8 @@ func (r *reachDescent) search(recv *Arm) {
 		r.out.evaluations += reachDerivative(recv, &xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	reachDifference(&r.s, &xt, &r.x)
-	reachDifference(&r.y, &gt, &r.g)
+	reachGradientChange(&r.s, &xt, &r.x)
+	reachGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
 	} else {
@@ -1074,7 +1074,9 @@ func reachTinyStep(x, d *[2]float32, tol float32, diffs *reachDifferences) float
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func reachLineSearch(recv *Arm, x *[2]float32, fx float32, g, d *[2]float32, slope, first float32, floor *reachStepFloor, budget int, xt, gt *[2]float32, diffs *reachDifferences) reachLineResult {
-	slope = reachShortenAlong(g, d, slope, floor)
+	if !reachFinite(slope) {
+		slope = reachShortenAlong(g, d, slope, floor) // the call only where it acts: reachShortenAlong is not inlined
+	}
 	low := reachLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high reachLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float32                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -1415,8 +1417,8 @@ func reachExpandTrial(previous, current *reachLinePoint) float32 {
 	return reachClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// reachDifference sets out = a − b.
-func reachDifference(out, a, b *[2]float32) {
+// reachGradientChange sets out = a − b.
+func reachGradientChange(out, a, b *[2]float32) {
 	for i := range a {
 		out[i] = a[i] - b[i]
 	}
