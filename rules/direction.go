@@ -35,7 +35,7 @@ var (
 		SmallerState: `use direction "lbfgs" or "cg"`,
 		Fallback:     LBFGS,
 		// bench (README, Performance): lbfgs solves variably dimensioned
-		// (MGH 25) 1.8× faster than bfgs at N = 20 and 7.5× at 100, where
+		// (MGH 25) 1.7× faster than bfgs at N = 20 and 7× at 100, where
 		// bfgs's N² update dominates; below 10 bfgs is as fast or faster.
 		FallbackFrom: 20,
 	})
