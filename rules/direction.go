@@ -15,7 +15,7 @@ var (
 		References: []string{
 			NocedalWright + ", §3.3 and eq. 3.60",
 		},
-		Picks:       Picks{"direction": "steepestDirection", "solveDirection": "memoryDirection", "gradientChange": "noChange"},
+		Picks:       Picks{"direction": "steepestDirection", "solveDirection": "memoryDirection", "gradientChange": "noChange", "learnCurvature": "learnNothing"},
 		DefaultRule: ArmijoRule,
 	})
 	BFGS = Direction.register(&Entry{
@@ -26,7 +26,7 @@ var (
 			NocedalWright + ", eqs. 6.17 and 6.20",
 			NocedalWright + ", §6.1, condition 6.7 (why pairs with yᵀs ≤ 0 are skipped)",
 		},
-		Picks:       Picks{"direction": "bfgsDirection", "solveDirection": "memoryDirection", "gradientChange": "difference"},
+		Picks:       Picks{"direction": "bfgsDirection", "solveDirection": "memoryDirection", "gradientChange": "difference", "learnCurvature": "learnNothing"},
 		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			bytes := dim*dim*elemBytes + 8
@@ -48,7 +48,7 @@ var (
 			LiuNocedal,
 			NocedalWright + ", Algorithm 7.4 and eq. 7.20",
 		},
-		Picks:       Picks{"direction": "lbfgsDirection", "solveDirection": "memoryDirection", "gradientChange": "difference"},
+		Picks:       Picks{"direction": "lbfgsDirection", "solveDirection": "memoryDirection", "gradientChange": "difference", "learnCurvature": "learnNothing"},
 		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			memory := int(value(Memory))
@@ -65,7 +65,7 @@ var (
 			PolakRibiere,
 			NocedalWright + ", eqs. 5.44–5.45, §5.2",
 		},
-		Picks:       Picks{"direction": "cgDirection", "solveDirection": "memoryDirection", "gradientChange": "difference"},
+		Picks:       Picks{"direction": "cgDirection", "solveDirection": "memoryDirection", "gradientChange": "difference", "learnCurvature": "learnNothing"},
 		DefaultRule: StrongWolfeRule,
 		// c2 = 0.1 for nonlinear conjugate gradients (Nocedal & Wright
 		// 2006, §3.1, the paragraph after eq. 3.7).
@@ -91,7 +91,7 @@ var (
 			NocedalWright + ", Algorithm 3.3 (Cholesky with added multiple of the identity)",
 			DennisSchnabel + ", §10.2 (damped Gauss–Newton)",
 		},
-		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "gaussNewtonStep", "gradientChange": "noChange"},
+		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "gaussNewtonStep", "gradientChange": "noChange", "learnCurvature": "learnNothing"},
 		DefaultRule: ArmijoRule,
 		Residual:    true,
 		Pairs:       []*Entry{Fixed, SimpleDecrease, ArmijoRule},
@@ -112,7 +112,7 @@ var (
 			DennisSchnabel + ", §10.3 (large-residual problems)",
 			NocedalWright + ", §10.3",
 		},
-		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "dampedStep", "gradientChange": "noChange"},
+		Picks:       Picks{"direction": "gaussNewtonDirection", "solveDirection": "dampedStep", "gradientChange": "difference", "learnCurvature": "secantUpdate"},
 		DefaultRule: Damping,
 		Residual:    true,
 		Pairs:       []*Entry{Damping},

@@ -23,7 +23,7 @@ func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, fl
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
 	if !finite(slope) {
-		slope = shortenAlong(g, d, slope, floor) // the call only where it acts: shortenAlong is not inlined
+		slope = shortenAlong(g, d, slope) // the call only where it acts: shortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious elem

@@ -120,3 +120,19 @@ func gradientChange(y, next, now *vec) {
 
 // noChange: a direction without memory never reads y.
 func noChange(y, next, now *vec) {}
+
+// learnCurvature lets a model kept beside the direction learn from the
+// step s and gradient change y (after curvaturePair): levenberg-marquardt's
+// secant estimate of the residuals' curvature (secantUpdate); no other
+// direction keeps one. It stands in for the direction the spec chose;
+// gen keeps only that one under this name.
+func learnCurvature(s, y *vec, diffs *differences) {
+	if directionKind == kindLevenbergMarquardt {
+		secantUpdate(s, y, diffs)
+		return
+	}
+	learnNothing(s, y, diffs)
+}
+
+// learnNothing: the direction keeps no model beside its memory.
+func learnNothing(s, y *vec, diffs *differences) {}

@@ -246,6 +246,7 @@ func (r *descent) judge(recv *receiver) {
 		}
 		curvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		learnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(statusOutOfIterations)

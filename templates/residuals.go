@@ -25,20 +25,11 @@ type residualModel struct {
 	wide    bool     // whether difference Jacobians take twice their intervals (settleResiduals)
 	noise   elem     // the rounding noise of f at the current point (residualGradient)
 	typical vec      // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (calibrateResiduals)
-	// levenberg-marquardt's structured model (structuredModel): the
-	// point of the latest gradient with its value and gradient; the secant
-	// estimate S of Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out, and
-	// whether the step solves with JᵀJ + S (augmented) or JᵀJ; the point S
-	// was last brought up to date at, with its value and gradient; and
-	// sᵀJᵀJs of the step accepted from there (dampedSearch).
-	point, pointGradient vec
-	pointValue           elem
-	second               [dim]vec
-	augmented            bool
-	last, lastGradient   vec
-	lastValue            elem
-	hasLast              bool
-	stepNormal           elem
+	// levenberg-marquardt's structured model: the secant estimate S of
+	// Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out (secantUpdate), and
+	// whether the step solves with JᵀJ + S or JᵀJ (chooseModel).
+	second    [dim]vec
+	augmented bool
 }
 
 // noStructure is residualModel for any other objective: nothing.
@@ -118,17 +109,15 @@ func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *difference
 	}
 	m.noise = 4*unitRoundoff*m.noise + noiseLevel(x, fx, g)
 	jacobianError(x, &jac, &m.r, &m.err, diffs)
-	m.point, m.pointValue, m.pointGradient = *x, fx, *g // for levenberg-marquardt's model (structuredModel)
 	return calls
 }
 
-// structuredModel brings levenberg-marquardt's Hessian model up to date
-// with the latest gradient, taken at x with value fx and gradient g. The
+// secantUpdate lets levenberg-marquardt's model learn from the step s and
+// the gradient change y, after the gradient and JᵀJ at the new point. The
 // Hessian of f = ½‖r‖² is JᵀJ + Σrᵢ∇²rᵢ; Gauss–Newton keeps JᵀJ only,
 // which is poor where the residuals stay large (Brown–Dennis) and makes
 // the damped step converge linearly there. A structured secant method
-// keeps an estimate S of the second term instead, from the step
-// s = x − x₋₁ and the gradient change y = g − g₋₁, so that the augmented
+// keeps an estimate S of the second term instead, so that the augmented
 // model JᵀJ + S satisfies the secant equation (JᵀJ + S₊)s = y:
 //
 //	y♯ = y − JᵀJ·s,  w = y♯ − S·s,
@@ -138,12 +127,8 @@ func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *difference
 // scaled down by τ = min(1, |sᵀy♯|/|sᵀSs|) so that S shrinks with the
 // residuals. (They take y♯ = (J − J₋₁)ᵀr, which needs the previous
 // Jacobian kept; the two agree to first order.) A pair with yᵀs not safely
-// positive leaves S as it was (curvatureSafe). The next step solves with
-// the augmented model when it predicted the last step's decrease of f
-// better than JᵀJ did, as NL2SOL switches between its two models, so that
-// zero-residual fits keep Gauss–Newton's fast convergence and
-// large-residual ones gain a secant method's. At the same point nothing
-// changes; at the start S = 0 and the model is JᵀJ.
+// positive leaves S as it was (curvatureSafe). At the start S = 0; which
+// model the next step solves with, chooseModel decides.
 //
 // References:
 //   - J. E. Dennis, D. M. Gay and R. E. Welsch, An adaptive nonlinear
@@ -153,53 +138,51 @@ func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *difference
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §10.3.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §10.3 (methods for large-residual problems).
-func structuredModel(x *vec, fx elem, g *vec, diffs *differences) {
+func secantUpdate(s, y *vec, diffs *differences) {
 	m := &diffs.model
-	if m.hasLast && m.last == *x {
+	var ss, sharp vec
+	for i := range m.second {
+		ss[i] = dot(&m.second[i], s)
+		sharp[i] = y[i] - dot(&m.normal[i], s) // y♯ = y − JᵀJ·s
+	}
+	if sss := dot(s, &ss); sss != 0 {
+		if tau := abs(dot(s, &sharp) / sss); tau < 1 { // DGW's sizing
+			for i := range m.second {
+				for j := range m.second[i] {
+					m.second[i][j] *= tau
+				}
+				ss[i] *= tau
+			}
+		}
+	}
+	sy := dot(s, y)
+	if !curvatureSafeWith(sy, s, y) {
 		return
 	}
-	if m.hasLast {
-		var step, change, ss, sharp vec
-		difference(&step, x, &m.last)
-		difference(&change, g, &m.lastGradient)
-		curvaturePair(&step, &change, x, &diffs.bounds)
-		for i := range m.second {
-			ss[i] = dot(&m.second[i], &step)
-			sharp[i] = change[i] - dot(&m.normal[i], &step) // y♯ = y − JᵀJ·s
-		}
-		sss := dot(&step, &ss)
-		// Which model predicted f's fall along s better: JᵀJ, or JᵀJ + S?
-		actual := m.lastValue - fx
-		normalModel := -dot(&m.lastGradient, &step) - m.stepNormal/2
-		m.augmented = abs(normalModel-sss/2-actual) < abs(normalModel-actual)
-		if abs(actual) <= m.noise && abs(normalModel) <= m.noise {
-			m.augmented = false // f's change is rounding noise and tells the models apart no more: Gauss–Newton's
-		}
-		if sss != 0 {
-			tau := abs(dot(&step, &sharp) / sss) // DGW's sizing
-			if tau < 1 {
-				for i := range m.second {
-					for j := range m.second[i] {
-						m.second[i][j] *= tau
-					}
-					ss[i] *= tau
-				}
-			}
-		}
-		if sy := dot(&step, &change); curvatureSafeWith(sy, &step, &change) {
-			var w vec
-			difference(&w, &sharp, &ss)
-			ws := dot(&w, &step) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
-			for i := range m.second {
-				a, b := w[i]/sy, change[i]/sy
-				for j := 0; j <= i; j++ {
-					m.second[i][j] += a*change[j] + b*w[j] - ws*change[i]*change[j] // DGW's update
-					m.second[j][i] = m.second[i][j]                                 // symmetric by construction, whatever the compiler fuses
-				}
-			}
+	var w vec
+	difference(&w, &sharp, &ss)
+	ws := dot(&w, s) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
+	for i := range m.second {
+		a, b := w[i]/sy, y[i]/sy
+		for j := 0; j <= i; j++ {
+			m.second[i][j] += a*y[j] + b*w[j] - ws*y[i]*y[j] // DGW's update
+			m.second[j][i] = m.second[i][j]                   // symmetric by construction, whatever the compiler fuses
 		}
 	}
-	m.last, m.lastGradient, m.lastValue, m.hasLast = *x, *g, fx, true
+}
+
+// chooseModel decides, when a step is accepted, which model the next step
+// solves with: JᵀJ + S when it predicted the decrease f just made (fall)
+// better than JᵀJ did, as NL2SOL switches between its two models (Dennis,
+// Gay & Welsch 1981), so that zero-residual fits keep Gauss–Newton's fast
+// convergence and large-residual ones gain a secant method's. linear is
+// −gᵀs and normalTerm, secondTerm are sᵀJᵀJs and sᵀSs. Where f's change
+// and the prediction are within f's rounding noise, they tell the models
+// apart no more, and the step is Gauss–Newton's.
+func chooseModel(m *residualModel, fall, linear, normalTerm, secondTerm, noise elem) {
+	normalModel := linear - normalTerm/2
+	m.augmented = abs(normalModel-secondTerm/2-fall) < abs(normalModel-fall) &&
+		!(abs(fall) <= noise && abs(normalModel) <= noise)
 }
 
 // residualsAt makes the kept residuals those at x, taking them again
@@ -554,7 +537,6 @@ func gaussNewtonStep(dir *direction, g, d *vec, diffs *differences) {
 //     Denmark, 2004 (from memory).
 func dampedStep(dir *direction, g, d *vec, diffs *differences) {
 	m := &diffs.model
-	structuredModel(&m.point, m.pointValue, &m.pointGradient, diffs)
 	if m.damping == 0 {
 		m.damping, m.growth = 1e-3, 2 // Nielsen's τ = 10⁻³, ν = 2
 	}
@@ -569,12 +551,14 @@ func dampedStep(dir *direction, g, d *vec, diffs *differences) {
 			weight[i] = 1
 		}
 	}
+	if !m.augmented {
+		shiftedSolve(&m.normal, &weight, m.damping, g, d)
+		return
+	}
 	model := m.normal
-	if m.augmented {
-		for i := range model {
-			for j := range model[i] {
-				model[i][j] += m.second[i][j]
-			}
+	for i := range model {
+		for j := range model[i] {
+			model[i][j] += m.second[i][j]
 		}
 	}
 	shiftedSolve(&model, &weight, m.damping, g, d)
@@ -689,7 +673,11 @@ func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem,
 		}
 		trialPoint(xt, x, 1, d, &diffs.bounds)
 		ft := value(recv, xt, gt, diffs)
-		predicted, normalTerm := modelDecrease(x, xt, g, m)
+		linear, normalTerm, secondTerm := modelTerms(x, xt, g, m)
+		predicted := linear - normalTerm/2
+		if m.augmented {
+			predicted = linear - (normalTerm+secondTerm)/2
+		}
 		if finite(ft) && predicted > 0 && (fx-ft >= stepDecrease*predicted || predicted <= noise && ft <= fx+noise) { // Moré 1978: ρ ≥ c1
 			rho := elem(1) // a step below f's resolution: the model is all there is to judge it by
 			if predicted > noise {
@@ -698,7 +686,7 @@ func dampedSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem,
 			cube := 2*rho - 1
 			m.damping *= larger(1.0/3, 1-cube*cube*cube) // Nielsen: λ ← λ·max(1/3, 1 − (2ρ − 1)³)
 			m.growth = 2
-			m.stepNormal = normalTerm
+			chooseModel(m, fx-ft, linear, normalTerm, secondTerm, noise)
 			return lineResult{step: 1, value: ft, calls: trial + 1, end: searchAccepted}
 		}
 		m.damping *= m.growth // Nielsen: λ ← λ·ν, ν ← 2ν
@@ -718,23 +706,18 @@ func within(d, first *vec, tiny elem) bool {
 	return true
 }
 
-// modelDecrease is the decrease −gᵀs − ½sᵀBs that the model
+// modelTerms are the terms of the decrease −gᵀs − ½sᵀBs that the model
 // f(x) + gᵀs + ½sᵀBs predicts for the step s = xt − x, B the Gauss–Newton
 // matrix JᵀJ or the augmented JᵀJ + S (Nocedal & Wright 2006, eq. 10.19
-// with the model of eq. 10.4; structuredModel); it also returns sᵀJᵀJs,
-// which structuredModel judges the models by.
-func modelDecrease(x, xt, g *vec, m *residualModel) (predicted, normalTerm elem) {
+// with the model of eq. 10.4): −gᵀs, sᵀJᵀJs and sᵀSs.
+func modelTerms(x, xt, g *vec, m *residualModel) (linear, normalTerm, secondTerm elem) {
 	var s vec
 	difference(&s, xt, x)
-	var quadratic elem
 	for i := range s {
 		normalTerm += s[i] * dot(&m.normal[i], &s)
-		if m.augmented {
-			quadratic += s[i] * dot(&m.second[i], &s)
-		}
+		secondTerm += s[i] * dot(&m.second[i], &s)
 	}
-	quadratic += normalTerm
-	return -dot(g, &s) - quadratic/2, normalTerm
+	return -dot(g, &s), normalTerm, secondTerm
 }
 
 // uncertainty is the parameter covariance estimate of a least-squares

@@ -138,18 +138,15 @@ func tinyStep(x, d *vec, tol elem, diffs *differences) elem {
 // shortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (shrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (shrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (stepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func shortenAlong(g, d *vec, slope elem, floor *stepFloor) elem {
+func shortenAlong(g, d *vec, slope elem) elem {
 	if finite(slope) || !finiteVec(d) {
 		return slope
 	}
-	before := maxAbs(d)
 	shrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / maxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return dot(g, d)
 }
 

@@ -34,7 +34,7 @@ type linePoint struct {
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, floor *stepFloor, budget int, xt, gt *vec, diffs *differences) lineResult {
 	if !finite(slope) {
-		slope = shortenAlong(g, d, slope, floor) // the call only where it acts: shortenAlong is not inlined
+		slope = shortenAlong(g, d, slope) // the call only where it acts: shortenAlong is not inlined
 	}
 	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high linePoint                                        // the other end of the bracket, once bracketed

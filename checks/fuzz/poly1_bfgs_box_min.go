@@ -453,6 +453,7 @@ func (r *poly1BFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly1BFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1BFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1BFGSBoxOutOfIterations)
@@ -955,6 +956,9 @@ func poly1BFGSBoxCurvaturePair(s, y, x *[1]float64, b *poly1BFGSBoxBox) {
 	}
 }
 
+// poly1BFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly1BFGSBoxLearnCurvature(s, y *[1]float64, diffs *poly1BFGSBoxDifferences) {}
+
 // poly1BFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func poly1BFGSBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1BFGSBoxDiff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1BFGSBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1BFGSBoxStepFloor, budget int, xt, gt *[1]float64, diffs *poly1BFGSBoxDifferences) poly1BFGSBoxLineResult {
 	if !poly1BFGSBoxFinite(slope) {
-		slope = poly1BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly1BFGSBoxShortenAlong is not inlined
+		slope = poly1BFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly1BFGSBoxShortenAlong is not inlined
 	}
 	low := poly1BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type poly1BFGSBoxSearchEnd uint8
 // poly1BFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1BFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1BFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1BFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1BFGSBoxShortenAlong(g, d *[1]float64, slope float64, floor *poly1BFGSBoxStepFloor) float64 {
+func poly1BFGSBoxShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1BFGSBoxFinite(slope) || !poly1BFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly1BFGSBoxMaxAbs(d)
 	poly1BFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1BFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1BFGSBoxDot(g, d)
-}
-
-// poly1BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1BFGSBoxMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1BFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1BFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func poly1BFGSBoxShrinkDirection(d, g *[1]float64) {
 			poly1BFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1BFGSBoxMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1BFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1BFGSBoxScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly1BFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly1BFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1BFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1BFGSFreeOutOfIterations)
@@ -907,6 +908,9 @@ func poly1BFGSFreeStepScale(xi float64, i int, diffs *poly1BFGSFreeDifferences) 
 // poly1BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1BFGSFreeCurvaturePair(s, y, x *[1]float64, b *poly1BFGSFreeBox) {}
 
+// poly1BFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly1BFGSFreeLearnCurvature(s, y *[1]float64, diffs *poly1BFGSFreeDifferences) {}
+
 // poly1BFGSFreeSearchDirection is the direction's own.
 func poly1BFGSFreeSearchDirection(dir *poly1BFGSFreeDirection, x, g, d *[1]float64, diffs *poly1BFGSFreeDifferences) {
 	poly1BFGSFreeSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func poly1BFGSFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1BFGSFreeDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1BFGSFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1BFGSFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1BFGSFreeDifferences) poly1BFGSFreeLineResult {
 	if !poly1BFGSFreeFinite(slope) {
-		slope = poly1BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1BFGSFreeShortenAlong is not inlined
+		slope = poly1BFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly1BFGSFreeShortenAlong is not inlined
 	}
 	low := poly1BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type poly1BFGSFreeSearchEnd uint8
 // poly1BFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1BFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1BFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1BFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1BFGSFreeShortenAlong(g, d *[1]float64, slope float64, floor *poly1BFGSFreeStepFloor) float64 {
+func poly1BFGSFreeShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1BFGSFreeFinite(slope) || !poly1BFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly1BFGSFreeMaxAbs(d)
 	poly1BFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1BFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1BFGSFreeDot(g, d)
-}
-
-// poly1BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1BFGSFreeMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1BFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1BFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func poly1BFGSFreeShrinkDirection(d, g *[1]float64) {
 			poly1BFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1BFGSFreeMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1BFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1BFGSFreeScaleBy sets x = c·x.

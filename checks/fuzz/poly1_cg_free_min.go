@@ -443,6 +443,7 @@ func (r *poly1CGFreeDescent) judge(recv *Poly) {
 		}
 		poly1CGFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1CGFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1CGFreeOutOfIterations)
@@ -898,6 +899,9 @@ func poly1CGFreeStepScale(xi float64, i int, diffs *poly1CGFreeDifferences) floa
 // poly1CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1CGFreeCurvaturePair(s, y, x *[1]float64, b *poly1CGFreeBox) {}
 
+// poly1CGFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly1CGFreeLearnCurvature(s, y *[1]float64, diffs *poly1CGFreeDifferences) {}
+
 // poly1CGFreeSearchDirection is the direction's own.
 func poly1CGFreeSearchDirection(dir *poly1CGFreeDirection, x, g, d *[1]float64, diffs *poly1CGFreeDifferences) {
 	poly1CGFreeSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func poly1CGFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1CGFreeDiffer
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1CGFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1CGFreeDifferences) poly1CGFreeLineResult {
 	if !poly1CGFreeFinite(slope) {
-		slope = poly1CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1CGFreeShortenAlong is not inlined
+		slope = poly1CGFreeShortenAlong(g, d, slope) // the call only where it acts: poly1CGFreeShortenAlong is not inlined
 	}
 	low := poly1CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1CGFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type poly1CGFreeSearchEnd uint8
 // poly1CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1CGFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1CGFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1CGFreeShortenAlong(g, d *[1]float64, slope float64, floor *poly1CGFreeStepFloor) float64 {
+func poly1CGFreeShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1CGFreeFinite(slope) || !poly1CGFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly1CGFreeMaxAbs(d)
 	poly1CGFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1CGFreeDot(g, d)
-}
-
-// poly1CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1CGFreeMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1CGFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1CGFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func poly1CGFreeShrinkDirection(d, g *[1]float64) {
 			poly1CGFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1CGFreeMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1CGFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1CGFreeScaleBy sets x = c·x.

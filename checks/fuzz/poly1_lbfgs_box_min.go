@@ -454,6 +454,7 @@ func (r *poly1LBFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly1LBFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1LBFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1LBFGSBoxOutOfIterations)
@@ -1167,6 +1168,9 @@ func poly1LBFGSBoxCurvaturePair(s, y, x *[1]float64, b *poly1LBFGSBoxBox) {
 	}
 }
 
+// poly1LBFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly1LBFGSBoxLearnCurvature(s, y *[1]float64, diffs *poly1LBFGSBoxDifferences) {}
+
 // poly1LBFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1287,7 +1291,7 @@ func poly1LBFGSBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1LBFGSBoxDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1LBFGSBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1LBFGSBoxStepFloor, budget int, xt, gt *[1]float64, diffs *poly1LBFGSBoxDifferences) poly1LBFGSBoxLineResult {
 	if !poly1LBFGSBoxFinite(slope) {
-		slope = poly1LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly1LBFGSBoxShortenAlong is not inlined
+		slope = poly1LBFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly1LBFGSBoxShortenAlong is not inlined
 	}
 	low := poly1LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1371,30 +1375,16 @@ type poly1LBFGSBoxSearchEnd uint8
 // poly1LBFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1LBFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1LBFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1LBFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1LBFGSBoxShortenAlong(g, d *[1]float64, slope float64, floor *poly1LBFGSBoxStepFloor) float64 {
+func poly1LBFGSBoxShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1LBFGSBoxFinite(slope) || !poly1LBFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly1LBFGSBoxMaxAbs(d)
 	poly1LBFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1LBFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1LBFGSBoxDot(g, d)
-}
-
-// poly1LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1LBFGSBoxMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1LBFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1LBFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1409,6 +1399,17 @@ func poly1LBFGSBoxShrinkDirection(d, g *[1]float64) {
 			poly1LBFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1LBFGSBoxMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1LBFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1LBFGSBoxScaleBy sets x = c·x.

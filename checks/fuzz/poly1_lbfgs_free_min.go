@@ -444,6 +444,7 @@ func (r *poly1LBFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly1LBFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1LBFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1LBFGSFreeOutOfIterations)
@@ -1119,6 +1120,9 @@ func poly1LBFGSFreeStepScale(xi float64, i int, diffs *poly1LBFGSFreeDifferences
 // poly1LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1LBFGSFreeCurvaturePair(s, y, x *[1]float64, b *poly1LBFGSFreeBox) {}
 
+// poly1LBFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly1LBFGSFreeLearnCurvature(s, y *[1]float64, diffs *poly1LBFGSFreeDifferences) {}
+
 // poly1LBFGSFreeSearchDirection is the direction's own.
 func poly1LBFGSFreeSearchDirection(dir *poly1LBFGSFreeDirection, x, g, d *[1]float64, diffs *poly1LBFGSFreeDifferences) {
 	poly1LBFGSFreeSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func poly1LBFGSFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1LBFGSFree
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly1LBFGSFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1LBFGSFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1LBFGSFreeDifferences) poly1LBFGSFreeLineResult {
 	if !poly1LBFGSFreeFinite(slope) {
-		slope = poly1LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1LBFGSFreeShortenAlong is not inlined
+		slope = poly1LBFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly1LBFGSFreeShortenAlong is not inlined
 	}
 	low := poly1LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly1LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type poly1LBFGSFreeSearchEnd uint8
 // poly1LBFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1LBFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1LBFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1LBFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1LBFGSFreeShortenAlong(g, d *[1]float64, slope float64, floor *poly1LBFGSFreeStepFloor) float64 {
+func poly1LBFGSFreeShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1LBFGSFreeFinite(slope) || !poly1LBFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly1LBFGSFreeMaxAbs(d)
 	poly1LBFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1LBFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1LBFGSFreeDot(g, d)
-}
-
-// poly1LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1LBFGSFreeMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1LBFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1LBFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func poly1LBFGSFreeShrinkDirection(d, g *[1]float64) {
 			poly1LBFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1LBFGSFreeMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1LBFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1LBFGSFreeScaleBy sets x = c·x.

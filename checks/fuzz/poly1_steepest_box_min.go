@@ -453,6 +453,7 @@ func (r *poly1SteepestBoxDescent) judge(recv *Poly) {
 		}
 		poly1SteepestBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1SteepestBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1SteepestBoxOutOfIterations)
@@ -922,6 +923,9 @@ func poly1SteepestBoxCurvaturePair(s, y, x *[1]float64, b *poly1SteepestBoxBox) 
 	}
 }
 
+// poly1SteepestBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly1SteepestBoxLearnCurvature(s, y *[1]float64, diffs *poly1SteepestBoxDifferences) {}
+
 // poly1SteepestBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1030,7 +1034,7 @@ func poly1SteepestBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1Steepes
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly1SteepestBoxLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1SteepestBoxStepFloor, budget int, xt, gt *[1]float64, diffs *poly1SteepestBoxDifferences) poly1SteepestBoxLineResult {
 	if !poly1SteepestBoxFinite(slope) {
-		slope = poly1SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly1SteepestBoxShortenAlong is not inlined
+		slope = poly1SteepestBoxShortenAlong(g, d, slope) // the call only where it acts: poly1SteepestBoxShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1069,30 +1073,16 @@ type poly1SteepestBoxSearchEnd uint8
 // poly1SteepestBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1SteepestBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1SteepestBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1SteepestBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1SteepestBoxShortenAlong(g, d *[1]float64, slope float64, floor *poly1SteepestBoxStepFloor) float64 {
+func poly1SteepestBoxShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1SteepestBoxFinite(slope) || !poly1SteepestBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly1SteepestBoxMaxAbs(d)
 	poly1SteepestBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1SteepestBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1SteepestBoxDot(g, d)
-}
-
-// poly1SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1SteepestBoxMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1SteepestBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1SteepestBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1107,6 +1097,17 @@ func poly1SteepestBoxShrinkDirection(d, g *[1]float64) {
 			poly1SteepestBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1SteepestBoxMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1SteepestBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1SteepestBoxScaleBy sets x = c·x.

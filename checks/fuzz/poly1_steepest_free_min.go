@@ -443,6 +443,7 @@ func (r *poly1SteepestFreeDescent) judge(recv *Poly) {
 		}
 		poly1SteepestFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly1SteepestFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly1SteepestFreeOutOfIterations)
@@ -874,6 +875,9 @@ func poly1SteepestFreeStepScale(xi float64, i int, diffs *poly1SteepestFreeDiffe
 // poly1SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly1SteepestFreeCurvaturePair(s, y, x *[1]float64, b *poly1SteepestFreeBox) {}
 
+// poly1SteepestFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly1SteepestFreeLearnCurvature(s, y *[1]float64, diffs *poly1SteepestFreeDifferences) {}
+
 // poly1SteepestFreeSearchDirection is the direction's own.
 func poly1SteepestFreeSearchDirection(dir *poly1SteepestFreeDirection, x, g, d *[1]float64, diffs *poly1SteepestFreeDifferences) {
 	poly1SteepestFreeSolveDirection(dir, g, d, diffs)
@@ -933,7 +937,7 @@ func poly1SteepestFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1Steepe
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly1SteepestFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *poly1SteepestFreeStepFloor, budget int, xt, gt *[1]float64, diffs *poly1SteepestFreeDifferences) poly1SteepestFreeLineResult {
 	if !poly1SteepestFreeFinite(slope) {
-		slope = poly1SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly1SteepestFreeShortenAlong is not inlined
+		slope = poly1SteepestFreeShortenAlong(g, d, slope) // the call only where it acts: poly1SteepestFreeShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -972,30 +976,16 @@ type poly1SteepestFreeSearchEnd uint8
 // poly1SteepestFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly1SteepestFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly1SteepestFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly1SteepestFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly1SteepestFreeShortenAlong(g, d *[1]float64, slope float64, floor *poly1SteepestFreeStepFloor) float64 {
+func poly1SteepestFreeShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if poly1SteepestFreeFinite(slope) || !poly1SteepestFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly1SteepestFreeMaxAbs(d)
 	poly1SteepestFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly1SteepestFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly1SteepestFreeDot(g, d)
-}
-
-// poly1SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly1SteepestFreeMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly1SteepestFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly1SteepestFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1010,6 +1000,17 @@ func poly1SteepestFreeShrinkDirection(d, g *[1]float64) {
 			poly1SteepestFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly1SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly1SteepestFreeMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly1SteepestFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly1SteepestFreeScaleBy sets x = c·x.

@@ -453,6 +453,7 @@ func (r *poly2BFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly2BFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2BFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2BFGSBoxOutOfIterations)
@@ -955,6 +956,9 @@ func poly2BFGSBoxCurvaturePair(s, y, x *[2]float64, b *poly2BFGSBoxBox) {
 	}
 }
 
+// poly2BFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly2BFGSBoxLearnCurvature(s, y *[2]float64, diffs *poly2BFGSBoxDifferences) {}
+
 // poly2BFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func poly2BFGSBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2BFGSBoxDiff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2BFGSBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2BFGSBoxStepFloor, budget int, xt, gt *[2]float64, diffs *poly2BFGSBoxDifferences) poly2BFGSBoxLineResult {
 	if !poly2BFGSBoxFinite(slope) {
-		slope = poly2BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly2BFGSBoxShortenAlong is not inlined
+		slope = poly2BFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly2BFGSBoxShortenAlong is not inlined
 	}
 	low := poly2BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type poly2BFGSBoxSearchEnd uint8
 // poly2BFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2BFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2BFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2BFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2BFGSBoxShortenAlong(g, d *[2]float64, slope float64, floor *poly2BFGSBoxStepFloor) float64 {
+func poly2BFGSBoxShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2BFGSBoxFinite(slope) || !poly2BFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly2BFGSBoxMaxAbs(d)
 	poly2BFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2BFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2BFGSBoxDot(g, d)
-}
-
-// poly2BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2BFGSBoxMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2BFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2BFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func poly2BFGSBoxShrinkDirection(d, g *[2]float64) {
 			poly2BFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2BFGSBoxMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2BFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2BFGSBoxScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly2BFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly2BFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2BFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2BFGSFreeOutOfIterations)
@@ -907,6 +908,9 @@ func poly2BFGSFreeStepScale(xi float64, i int, diffs *poly2BFGSFreeDifferences) 
 // poly2BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2BFGSFreeCurvaturePair(s, y, x *[2]float64, b *poly2BFGSFreeBox) {}
 
+// poly2BFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly2BFGSFreeLearnCurvature(s, y *[2]float64, diffs *poly2BFGSFreeDifferences) {}
+
 // poly2BFGSFreeSearchDirection is the direction's own.
 func poly2BFGSFreeSearchDirection(dir *poly2BFGSFreeDirection, x, g, d *[2]float64, diffs *poly2BFGSFreeDifferences) {
 	poly2BFGSFreeSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func poly2BFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2BFGSFreeDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2BFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2BFGSFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2BFGSFreeDifferences) poly2BFGSFreeLineResult {
 	if !poly2BFGSFreeFinite(slope) {
-		slope = poly2BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2BFGSFreeShortenAlong is not inlined
+		slope = poly2BFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly2BFGSFreeShortenAlong is not inlined
 	}
 	low := poly2BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type poly2BFGSFreeSearchEnd uint8
 // poly2BFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2BFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2BFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2BFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2BFGSFreeShortenAlong(g, d *[2]float64, slope float64, floor *poly2BFGSFreeStepFloor) float64 {
+func poly2BFGSFreeShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2BFGSFreeFinite(slope) || !poly2BFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly2BFGSFreeMaxAbs(d)
 	poly2BFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2BFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2BFGSFreeDot(g, d)
-}
-
-// poly2BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2BFGSFreeMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2BFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2BFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func poly2BFGSFreeShrinkDirection(d, g *[2]float64) {
 			poly2BFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2BFGSFreeMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2BFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2BFGSFreeScaleBy sets x = c·x.

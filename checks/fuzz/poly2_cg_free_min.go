@@ -443,6 +443,7 @@ func (r *poly2CGFreeDescent) judge(recv *Poly) {
 		}
 		poly2CGFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2CGFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2CGFreeOutOfIterations)
@@ -898,6 +899,9 @@ func poly2CGFreeStepScale(xi float64, i int, diffs *poly2CGFreeDifferences) floa
 // poly2CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2CGFreeCurvaturePair(s, y, x *[2]float64, b *poly2CGFreeBox) {}
 
+// poly2CGFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly2CGFreeLearnCurvature(s, y *[2]float64, diffs *poly2CGFreeDifferences) {}
+
 // poly2CGFreeSearchDirection is the direction's own.
 func poly2CGFreeSearchDirection(dir *poly2CGFreeDirection, x, g, d *[2]float64, diffs *poly2CGFreeDifferences) {
 	poly2CGFreeSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func poly2CGFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2CGFreeDiffer
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2CGFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2CGFreeDifferences) poly2CGFreeLineResult {
 	if !poly2CGFreeFinite(slope) {
-		slope = poly2CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2CGFreeShortenAlong is not inlined
+		slope = poly2CGFreeShortenAlong(g, d, slope) // the call only where it acts: poly2CGFreeShortenAlong is not inlined
 	}
 	low := poly2CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2CGFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type poly2CGFreeSearchEnd uint8
 // poly2CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2CGFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2CGFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2CGFreeShortenAlong(g, d *[2]float64, slope float64, floor *poly2CGFreeStepFloor) float64 {
+func poly2CGFreeShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2CGFreeFinite(slope) || !poly2CGFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly2CGFreeMaxAbs(d)
 	poly2CGFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2CGFreeDot(g, d)
-}
-
-// poly2CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2CGFreeMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2CGFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2CGFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func poly2CGFreeShrinkDirection(d, g *[2]float64) {
 			poly2CGFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2CGFreeMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2CGFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2CGFreeScaleBy sets x = c·x.

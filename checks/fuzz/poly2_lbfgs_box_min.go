@@ -454,6 +454,7 @@ func (r *poly2LBFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly2LBFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2LBFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2LBFGSBoxOutOfIterations)
@@ -1167,6 +1168,9 @@ func poly2LBFGSBoxCurvaturePair(s, y, x *[2]float64, b *poly2LBFGSBoxBox) {
 	}
 }
 
+// poly2LBFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly2LBFGSBoxLearnCurvature(s, y *[2]float64, diffs *poly2LBFGSBoxDifferences) {}
+
 // poly2LBFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1287,7 +1291,7 @@ func poly2LBFGSBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSBoxDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2LBFGSBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2LBFGSBoxStepFloor, budget int, xt, gt *[2]float64, diffs *poly2LBFGSBoxDifferences) poly2LBFGSBoxLineResult {
 	if !poly2LBFGSBoxFinite(slope) {
-		slope = poly2LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly2LBFGSBoxShortenAlong is not inlined
+		slope = poly2LBFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly2LBFGSBoxShortenAlong is not inlined
 	}
 	low := poly2LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1371,30 +1375,16 @@ type poly2LBFGSBoxSearchEnd uint8
 // poly2LBFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2LBFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2LBFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2LBFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2LBFGSBoxShortenAlong(g, d *[2]float64, slope float64, floor *poly2LBFGSBoxStepFloor) float64 {
+func poly2LBFGSBoxShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2LBFGSBoxFinite(slope) || !poly2LBFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly2LBFGSBoxMaxAbs(d)
 	poly2LBFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2LBFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2LBFGSBoxDot(g, d)
-}
-
-// poly2LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2LBFGSBoxMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2LBFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2LBFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1409,6 +1399,17 @@ func poly2LBFGSBoxShrinkDirection(d, g *[2]float64) {
 			poly2LBFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2LBFGSBoxMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2LBFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2LBFGSBoxScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *poly2LBFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly2LBFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2LBFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2LBFGSFreeOutOfIterations)
@@ -1119,6 +1120,9 @@ func poly2LBFGSFreeStepScale(xi float64, i int, diffs *poly2LBFGSFreeDifferences
 // poly2LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2LBFGSFreeCurvaturePair(s, y, x *[2]float64, b *poly2LBFGSFreeBox) {}
 
+// poly2LBFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly2LBFGSFreeLearnCurvature(s, y *[2]float64, diffs *poly2LBFGSFreeDifferences) {}
+
 // poly2LBFGSFreeSearchDirection is the direction's own.
 func poly2LBFGSFreeSearchDirection(dir *poly2LBFGSFreeDirection, x, g, d *[2]float64, diffs *poly2LBFGSFreeDifferences) {
 	poly2LBFGSFreeSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func poly2LBFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSFree
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly2LBFGSFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2LBFGSFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2LBFGSFreeDifferences) poly2LBFGSFreeLineResult {
 	if !poly2LBFGSFreeFinite(slope) {
-		slope = poly2LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2LBFGSFreeShortenAlong is not inlined
+		slope = poly2LBFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly2LBFGSFreeShortenAlong is not inlined
 	}
 	low := poly2LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly2LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type poly2LBFGSFreeSearchEnd uint8
 // poly2LBFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2LBFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2LBFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2LBFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2LBFGSFreeShortenAlong(g, d *[2]float64, slope float64, floor *poly2LBFGSFreeStepFloor) float64 {
+func poly2LBFGSFreeShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2LBFGSFreeFinite(slope) || !poly2LBFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly2LBFGSFreeMaxAbs(d)
 	poly2LBFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2LBFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2LBFGSFreeDot(g, d)
-}
-
-// poly2LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2LBFGSFreeMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2LBFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2LBFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func poly2LBFGSFreeShrinkDirection(d, g *[2]float64) {
 			poly2LBFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2LBFGSFreeMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2LBFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2LBFGSFreeScaleBy sets x = c·x.

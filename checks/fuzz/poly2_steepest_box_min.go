@@ -453,6 +453,7 @@ func (r *poly2SteepestBoxDescent) judge(recv *Poly) {
 		}
 		poly2SteepestBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2SteepestBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2SteepestBoxOutOfIterations)
@@ -922,6 +923,9 @@ func poly2SteepestBoxCurvaturePair(s, y, x *[2]float64, b *poly2SteepestBoxBox) 
 	}
 }
 
+// poly2SteepestBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly2SteepestBoxLearnCurvature(s, y *[2]float64, diffs *poly2SteepestBoxDifferences) {}
+
 // poly2SteepestBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1030,7 +1034,7 @@ func poly2SteepestBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2Steepes
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly2SteepestBoxLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2SteepestBoxStepFloor, budget int, xt, gt *[2]float64, diffs *poly2SteepestBoxDifferences) poly2SteepestBoxLineResult {
 	if !poly2SteepestBoxFinite(slope) {
-		slope = poly2SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly2SteepestBoxShortenAlong is not inlined
+		slope = poly2SteepestBoxShortenAlong(g, d, slope) // the call only where it acts: poly2SteepestBoxShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1069,30 +1073,16 @@ type poly2SteepestBoxSearchEnd uint8
 // poly2SteepestBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2SteepestBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2SteepestBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2SteepestBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2SteepestBoxShortenAlong(g, d *[2]float64, slope float64, floor *poly2SteepestBoxStepFloor) float64 {
+func poly2SteepestBoxShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2SteepestBoxFinite(slope) || !poly2SteepestBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly2SteepestBoxMaxAbs(d)
 	poly2SteepestBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2SteepestBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2SteepestBoxDot(g, d)
-}
-
-// poly2SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2SteepestBoxMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2SteepestBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2SteepestBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1107,6 +1097,17 @@ func poly2SteepestBoxShrinkDirection(d, g *[2]float64) {
 			poly2SteepestBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2SteepestBoxMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2SteepestBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2SteepestBoxScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly2SteepestFreeDescent) judge(recv *Poly) {
 		}
 		poly2SteepestFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly2SteepestFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly2SteepestFreeOutOfIterations)
@@ -874,6 +875,9 @@ func poly2SteepestFreeStepScale(xi float64, i int, diffs *poly2SteepestFreeDiffe
 // poly2SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly2SteepestFreeCurvaturePair(s, y, x *[2]float64, b *poly2SteepestFreeBox) {}
 
+// poly2SteepestFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly2SteepestFreeLearnCurvature(s, y *[2]float64, diffs *poly2SteepestFreeDifferences) {}
+
 // poly2SteepestFreeSearchDirection is the direction's own.
 func poly2SteepestFreeSearchDirection(dir *poly2SteepestFreeDirection, x, g, d *[2]float64, diffs *poly2SteepestFreeDifferences) {
 	poly2SteepestFreeSolveDirection(dir, g, d, diffs)
@@ -933,7 +937,7 @@ func poly2SteepestFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2Steepe
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly2SteepestFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *poly2SteepestFreeStepFloor, budget int, xt, gt *[2]float64, diffs *poly2SteepestFreeDifferences) poly2SteepestFreeLineResult {
 	if !poly2SteepestFreeFinite(slope) {
-		slope = poly2SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly2SteepestFreeShortenAlong is not inlined
+		slope = poly2SteepestFreeShortenAlong(g, d, slope) // the call only where it acts: poly2SteepestFreeShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -972,30 +976,16 @@ type poly2SteepestFreeSearchEnd uint8
 // poly2SteepestFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly2SteepestFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly2SteepestFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly2SteepestFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly2SteepestFreeShortenAlong(g, d *[2]float64, slope float64, floor *poly2SteepestFreeStepFloor) float64 {
+func poly2SteepestFreeShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if poly2SteepestFreeFinite(slope) || !poly2SteepestFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly2SteepestFreeMaxAbs(d)
 	poly2SteepestFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly2SteepestFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly2SteepestFreeDot(g, d)
-}
-
-// poly2SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly2SteepestFreeMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly2SteepestFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly2SteepestFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1010,6 +1000,17 @@ func poly2SteepestFreeShrinkDirection(d, g *[2]float64) {
 			poly2SteepestFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly2SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly2SteepestFreeMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly2SteepestFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly2SteepestFreeScaleBy sets x = c·x.

@@ -453,6 +453,7 @@ func (r *poly3BFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly3BFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3BFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3BFGSBoxOutOfIterations)
@@ -955,6 +956,9 @@ func poly3BFGSBoxCurvaturePair(s, y, x *[3]float64, b *poly3BFGSBoxBox) {
 	}
 }
 
+// poly3BFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly3BFGSBoxLearnCurvature(s, y *[3]float64, diffs *poly3BFGSBoxDifferences) {}
+
 // poly3BFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func poly3BFGSBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSBoxDiff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3BFGSBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3BFGSBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3BFGSBoxDifferences) poly3BFGSBoxLineResult {
 	if !poly3BFGSBoxFinite(slope) {
-		slope = poly3BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly3BFGSBoxShortenAlong is not inlined
+		slope = poly3BFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly3BFGSBoxShortenAlong is not inlined
 	}
 	low := poly3BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type poly3BFGSBoxSearchEnd uint8
 // poly3BFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3BFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3BFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3BFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3BFGSBoxShortenAlong(g, d *[3]float64, slope float64, floor *poly3BFGSBoxStepFloor) float64 {
+func poly3BFGSBoxShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3BFGSBoxFinite(slope) || !poly3BFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly3BFGSBoxMaxAbs(d)
 	poly3BFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3BFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3BFGSBoxDot(g, d)
-}
-
-// poly3BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3BFGSBoxMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3BFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3BFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func poly3BFGSBoxShrinkDirection(d, g *[3]float64) {
 			poly3BFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3BFGSBoxMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3BFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3BFGSBoxScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly3BFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly3BFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3BFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3BFGSFreeOutOfIterations)
@@ -907,6 +908,9 @@ func poly3BFGSFreeStepScale(xi float64, i int, diffs *poly3BFGSFreeDifferences) 
 // poly3BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3BFGSFreeCurvaturePair(s, y, x *[3]float64, b *poly3BFGSFreeBox) {}
 
+// poly3BFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly3BFGSFreeLearnCurvature(s, y *[3]float64, diffs *poly3BFGSFreeDifferences) {}
+
 // poly3BFGSFreeSearchDirection is the direction's own.
 func poly3BFGSFreeSearchDirection(dir *poly3BFGSFreeDirection, x, g, d *[3]float64, diffs *poly3BFGSFreeDifferences) {
 	poly3BFGSFreeSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func poly3BFGSFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSFreeDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3BFGSFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3BFGSFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3BFGSFreeDifferences) poly3BFGSFreeLineResult {
 	if !poly3BFGSFreeFinite(slope) {
-		slope = poly3BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3BFGSFreeShortenAlong is not inlined
+		slope = poly3BFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly3BFGSFreeShortenAlong is not inlined
 	}
 	low := poly3BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type poly3BFGSFreeSearchEnd uint8
 // poly3BFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3BFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3BFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3BFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3BFGSFreeShortenAlong(g, d *[3]float64, slope float64, floor *poly3BFGSFreeStepFloor) float64 {
+func poly3BFGSFreeShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3BFGSFreeFinite(slope) || !poly3BFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly3BFGSFreeMaxAbs(d)
 	poly3BFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3BFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3BFGSFreeDot(g, d)
-}
-
-// poly3BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3BFGSFreeMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3BFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3BFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func poly3BFGSFreeShrinkDirection(d, g *[3]float64) {
 			poly3BFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3BFGSFreeMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3BFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3BFGSFreeScaleBy sets x = c·x.

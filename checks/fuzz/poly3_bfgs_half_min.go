@@ -453,6 +453,7 @@ func (r *poly3BFGSHalfDescent) judge(recv *Poly) {
 		}
 		poly3BFGSHalfCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3BFGSHalfLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3BFGSHalfOutOfIterations)
@@ -955,6 +956,9 @@ func poly3BFGSHalfCurvaturePair(s, y, x *[3]float64, b *poly3BFGSHalfBox) {
 	}
 }
 
+// poly3BFGSHalfLearnCurvature: the direction keeps no model beside its memory.
+func poly3BFGSHalfLearnCurvature(s, y *[3]float64, diffs *poly3BFGSHalfDifferences) {}
+
 // poly3BFGSHalfSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func poly3BFGSHalfTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSHalfDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3BFGSHalfLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3BFGSHalfStepFloor, budget int, xt, gt *[3]float64, diffs *poly3BFGSHalfDifferences) poly3BFGSHalfLineResult {
 	if !poly3BFGSHalfFinite(slope) {
-		slope = poly3BFGSHalfShortenAlong(g, d, slope, floor) // the call only where it acts: poly3BFGSHalfShortenAlong is not inlined
+		slope = poly3BFGSHalfShortenAlong(g, d, slope) // the call only where it acts: poly3BFGSHalfShortenAlong is not inlined
 	}
 	low := poly3BFGSHalfLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3BFGSHalfLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type poly3BFGSHalfSearchEnd uint8
 // poly3BFGSHalfShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3BFGSHalfShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3BFGSHalfShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3BFGSHalfStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3BFGSHalfShortenAlong(g, d *[3]float64, slope float64, floor *poly3BFGSHalfStepFloor) float64 {
+func poly3BFGSHalfShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3BFGSHalfFinite(slope) || !poly3BFGSHalfFiniteVec(d) {
 		return slope
 	}
-	before := poly3BFGSHalfMaxAbs(d)
 	poly3BFGSHalfShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3BFGSHalfMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3BFGSHalfDot(g, d)
-}
-
-// poly3BFGSHalfMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3BFGSHalfMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3BFGSHalfAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3BFGSHalfShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func poly3BFGSHalfShrinkDirection(d, g *[3]float64) {
 			poly3BFGSHalfScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3BFGSHalfMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3BFGSHalfMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3BFGSHalfAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3BFGSHalfScaleBy sets x = c·x.

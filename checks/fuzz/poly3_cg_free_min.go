@@ -443,6 +443,7 @@ func (r *poly3CGFreeDescent) judge(recv *Poly) {
 		}
 		poly3CGFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3CGFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3CGFreeOutOfIterations)
@@ -898,6 +899,9 @@ func poly3CGFreeStepScale(xi float64, i int, diffs *poly3CGFreeDifferences) floa
 // poly3CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3CGFreeCurvaturePair(s, y, x *[3]float64, b *poly3CGFreeBox) {}
 
+// poly3CGFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly3CGFreeLearnCurvature(s, y *[3]float64, diffs *poly3CGFreeDifferences) {}
+
 // poly3CGFreeSearchDirection is the direction's own.
 func poly3CGFreeSearchDirection(dir *poly3CGFreeDirection, x, g, d *[3]float64, diffs *poly3CGFreeDifferences) {
 	poly3CGFreeSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func poly3CGFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3CGFreeDiffer
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3CGFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3CGFreeDifferences) poly3CGFreeLineResult {
 	if !poly3CGFreeFinite(slope) {
-		slope = poly3CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3CGFreeShortenAlong is not inlined
+		slope = poly3CGFreeShortenAlong(g, d, slope) // the call only where it acts: poly3CGFreeShortenAlong is not inlined
 	}
 	low := poly3CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3CGFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type poly3CGFreeSearchEnd uint8
 // poly3CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3CGFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3CGFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3CGFreeShortenAlong(g, d *[3]float64, slope float64, floor *poly3CGFreeStepFloor) float64 {
+func poly3CGFreeShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3CGFreeFinite(slope) || !poly3CGFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly3CGFreeMaxAbs(d)
 	poly3CGFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3CGFreeDot(g, d)
-}
-
-// poly3CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3CGFreeMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3CGFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3CGFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func poly3CGFreeShrinkDirection(d, g *[3]float64) {
 			poly3CGFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3CGFreeMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3CGFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3CGFreeScaleBy sets x = c·x.

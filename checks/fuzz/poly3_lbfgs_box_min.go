@@ -454,6 +454,7 @@ func (r *poly3LBFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly3LBFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3LBFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3LBFGSBoxOutOfIterations)
@@ -1167,6 +1168,9 @@ func poly3LBFGSBoxCurvaturePair(s, y, x *[3]float64, b *poly3LBFGSBoxBox) {
 	}
 }
 
+// poly3LBFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly3LBFGSBoxLearnCurvature(s, y *[3]float64, diffs *poly3LBFGSBoxDifferences) {}
+
 // poly3LBFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1287,7 +1291,7 @@ func poly3LBFGSBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3LBFGSBoxDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3LBFGSBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3LBFGSBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3LBFGSBoxDifferences) poly3LBFGSBoxLineResult {
 	if !poly3LBFGSBoxFinite(slope) {
-		slope = poly3LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly3LBFGSBoxShortenAlong is not inlined
+		slope = poly3LBFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly3LBFGSBoxShortenAlong is not inlined
 	}
 	low := poly3LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1371,30 +1375,16 @@ type poly3LBFGSBoxSearchEnd uint8
 // poly3LBFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3LBFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3LBFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3LBFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3LBFGSBoxShortenAlong(g, d *[3]float64, slope float64, floor *poly3LBFGSBoxStepFloor) float64 {
+func poly3LBFGSBoxShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3LBFGSBoxFinite(slope) || !poly3LBFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly3LBFGSBoxMaxAbs(d)
 	poly3LBFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3LBFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3LBFGSBoxDot(g, d)
-}
-
-// poly3LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3LBFGSBoxMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3LBFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3LBFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1409,6 +1399,17 @@ func poly3LBFGSBoxShrinkDirection(d, g *[3]float64) {
 			poly3LBFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3LBFGSBoxMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3LBFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3LBFGSBoxScaleBy sets x = c·x.

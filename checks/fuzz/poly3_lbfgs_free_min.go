@@ -444,6 +444,7 @@ func (r *poly3LBFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly3LBFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3LBFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3LBFGSFreeOutOfIterations)
@@ -1119,6 +1120,9 @@ func poly3LBFGSFreeStepScale(xi float64, i int, diffs *poly3LBFGSFreeDifferences
 // poly3LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3LBFGSFreeCurvaturePair(s, y, x *[3]float64, b *poly3LBFGSFreeBox) {}
 
+// poly3LBFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly3LBFGSFreeLearnCurvature(s, y *[3]float64, diffs *poly3LBFGSFreeDifferences) {}
+
 // poly3LBFGSFreeSearchDirection is the direction's own.
 func poly3LBFGSFreeSearchDirection(dir *poly3LBFGSFreeDirection, x, g, d *[3]float64, diffs *poly3LBFGSFreeDifferences) {
 	poly3LBFGSFreeSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func poly3LBFGSFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3LBFGSFree
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly3LBFGSFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3LBFGSFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3LBFGSFreeDifferences) poly3LBFGSFreeLineResult {
 	if !poly3LBFGSFreeFinite(slope) {
-		slope = poly3LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3LBFGSFreeShortenAlong is not inlined
+		slope = poly3LBFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly3LBFGSFreeShortenAlong is not inlined
 	}
 	low := poly3LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly3LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type poly3LBFGSFreeSearchEnd uint8
 // poly3LBFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3LBFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3LBFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3LBFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3LBFGSFreeShortenAlong(g, d *[3]float64, slope float64, floor *poly3LBFGSFreeStepFloor) float64 {
+func poly3LBFGSFreeShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3LBFGSFreeFinite(slope) || !poly3LBFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly3LBFGSFreeMaxAbs(d)
 	poly3LBFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3LBFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3LBFGSFreeDot(g, d)
-}
-
-// poly3LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3LBFGSFreeMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3LBFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3LBFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func poly3LBFGSFreeShrinkDirection(d, g *[3]float64) {
 			poly3LBFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3LBFGSFreeMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3LBFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3LBFGSFreeScaleBy sets x = c·x.

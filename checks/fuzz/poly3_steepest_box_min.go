@@ -453,6 +453,7 @@ func (r *poly3SteepestBoxDescent) judge(recv *Poly) {
 		}
 		poly3SteepestBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3SteepestBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3SteepestBoxOutOfIterations)
@@ -922,6 +923,9 @@ func poly3SteepestBoxCurvaturePair(s, y, x *[3]float64, b *poly3SteepestBoxBox) 
 	}
 }
 
+// poly3SteepestBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly3SteepestBoxLearnCurvature(s, y *[3]float64, diffs *poly3SteepestBoxDifferences) {}
+
 // poly3SteepestBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1030,7 +1034,7 @@ func poly3SteepestBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3Steepes
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly3SteepestBoxLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestBoxStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestBoxDifferences) poly3SteepestBoxLineResult {
 	if !poly3SteepestBoxFinite(slope) {
-		slope = poly3SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly3SteepestBoxShortenAlong is not inlined
+		slope = poly3SteepestBoxShortenAlong(g, d, slope) // the call only where it acts: poly3SteepestBoxShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1069,30 +1073,16 @@ type poly3SteepestBoxSearchEnd uint8
 // poly3SteepestBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3SteepestBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3SteepestBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3SteepestBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3SteepestBoxShortenAlong(g, d *[3]float64, slope float64, floor *poly3SteepestBoxStepFloor) float64 {
+func poly3SteepestBoxShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3SteepestBoxFinite(slope) || !poly3SteepestBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly3SteepestBoxMaxAbs(d)
 	poly3SteepestBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3SteepestBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3SteepestBoxDot(g, d)
-}
-
-// poly3SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3SteepestBoxMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3SteepestBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3SteepestBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1107,6 +1097,17 @@ func poly3SteepestBoxShrinkDirection(d, g *[3]float64) {
 			poly3SteepestBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3SteepestBoxMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3SteepestBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3SteepestBoxScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly3SteepestFreeDescent) judge(recv *Poly) {
 		}
 		poly3SteepestFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3SteepestFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3SteepestFreeOutOfIterations)
@@ -874,6 +875,9 @@ func poly3SteepestFreeStepScale(xi float64, i int, diffs *poly3SteepestFreeDiffe
 // poly3SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly3SteepestFreeCurvaturePair(s, y, x *[3]float64, b *poly3SteepestFreeBox) {}
 
+// poly3SteepestFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly3SteepestFreeLearnCurvature(s, y *[3]float64, diffs *poly3SteepestFreeDifferences) {}
+
 // poly3SteepestFreeSearchDirection is the direction's own.
 func poly3SteepestFreeSearchDirection(dir *poly3SteepestFreeDirection, x, g, d *[3]float64, diffs *poly3SteepestFreeDifferences) {
 	poly3SteepestFreeSolveDirection(dir, g, d, diffs)
@@ -933,7 +937,7 @@ func poly3SteepestFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3Steepe
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly3SteepestFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestFreeStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestFreeDifferences) poly3SteepestFreeLineResult {
 	if !poly3SteepestFreeFinite(slope) {
-		slope = poly3SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly3SteepestFreeShortenAlong is not inlined
+		slope = poly3SteepestFreeShortenAlong(g, d, slope) // the call only where it acts: poly3SteepestFreeShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -972,30 +976,16 @@ type poly3SteepestFreeSearchEnd uint8
 // poly3SteepestFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3SteepestFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3SteepestFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3SteepestFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3SteepestFreeShortenAlong(g, d *[3]float64, slope float64, floor *poly3SteepestFreeStepFloor) float64 {
+func poly3SteepestFreeShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3SteepestFreeFinite(slope) || !poly3SteepestFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly3SteepestFreeMaxAbs(d)
 	poly3SteepestFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3SteepestFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3SteepestFreeDot(g, d)
-}
-
-// poly3SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3SteepestFreeMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3SteepestFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3SteepestFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1010,6 +1000,17 @@ func poly3SteepestFreeShrinkDirection(d, g *[3]float64) {
 			poly3SteepestFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3SteepestFreeMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3SteepestFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3SteepestFreeScaleBy sets x = c·x.

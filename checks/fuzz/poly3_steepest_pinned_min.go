@@ -453,6 +453,7 @@ func (r *poly3SteepestPinnedDescent) judge(recv *Poly) {
 		}
 		poly3SteepestPinnedCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly3SteepestPinnedLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly3SteepestPinnedOutOfIterations)
@@ -922,6 +923,9 @@ func poly3SteepestPinnedCurvaturePair(s, y, x *[3]float64, b *poly3SteepestPinne
 	}
 }
 
+// poly3SteepestPinnedLearnCurvature: the direction keeps no model beside its memory.
+func poly3SteepestPinnedLearnCurvature(s, y *[3]float64, diffs *poly3SteepestPinnedDifferences) {}
+
 // poly3SteepestPinnedSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1030,7 +1034,7 @@ func poly3SteepestPinnedTinyStep(x, d *[3]float64, tol float64, diffs *poly3Stee
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly3SteepestPinnedLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *poly3SteepestPinnedStepFloor, budget int, xt, gt *[3]float64, diffs *poly3SteepestPinnedDifferences) poly3SteepestPinnedLineResult {
 	if !poly3SteepestPinnedFinite(slope) {
-		slope = poly3SteepestPinnedShortenAlong(g, d, slope, floor) // the call only where it acts: poly3SteepestPinnedShortenAlong is not inlined
+		slope = poly3SteepestPinnedShortenAlong(g, d, slope) // the call only where it acts: poly3SteepestPinnedShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1069,30 +1073,16 @@ type poly3SteepestPinnedSearchEnd uint8
 // poly3SteepestPinnedShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly3SteepestPinnedShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly3SteepestPinnedShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly3SteepestPinnedStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly3SteepestPinnedShortenAlong(g, d *[3]float64, slope float64, floor *poly3SteepestPinnedStepFloor) float64 {
+func poly3SteepestPinnedShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if poly3SteepestPinnedFinite(slope) || !poly3SteepestPinnedFiniteVec(d) {
 		return slope
 	}
-	before := poly3SteepestPinnedMaxAbs(d)
 	poly3SteepestPinnedShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly3SteepestPinnedMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly3SteepestPinnedDot(g, d)
-}
-
-// poly3SteepestPinnedMaxAbs returns the largest |x_i|, the infinity norm.
-func poly3SteepestPinnedMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly3SteepestPinnedAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly3SteepestPinnedShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1107,6 +1097,17 @@ func poly3SteepestPinnedShrinkDirection(d, g *[3]float64) {
 			poly3SteepestPinnedScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly3SteepestPinnedMaxAbs returns the largest |x_i|, the infinity norm.
+func poly3SteepestPinnedMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly3SteepestPinnedAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly3SteepestPinnedScaleBy sets x = c·x.

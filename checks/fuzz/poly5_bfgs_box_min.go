@@ -453,6 +453,7 @@ func (r *poly5BFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly5BFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5BFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5BFGSBoxOutOfIterations)
@@ -955,6 +956,9 @@ func poly5BFGSBoxCurvaturePair(s, y, x *[5]float64, b *poly5BFGSBoxBox) {
 	}
 }
 
+// poly5BFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly5BFGSBoxLearnCurvature(s, y *[5]float64, diffs *poly5BFGSBoxDifferences) {}
+
 // poly5BFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func poly5BFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSBoxDiff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5BFGSBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5BFGSBoxStepFloor, budget int, xt, gt *[5]float64, diffs *poly5BFGSBoxDifferences) poly5BFGSBoxLineResult {
 	if !poly5BFGSBoxFinite(slope) {
-		slope = poly5BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly5BFGSBoxShortenAlong is not inlined
+		slope = poly5BFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly5BFGSBoxShortenAlong is not inlined
 	}
 	low := poly5BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type poly5BFGSBoxSearchEnd uint8
 // poly5BFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5BFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5BFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5BFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5BFGSBoxShortenAlong(g, d *[5]float64, slope float64, floor *poly5BFGSBoxStepFloor) float64 {
+func poly5BFGSBoxShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5BFGSBoxFinite(slope) || !poly5BFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly5BFGSBoxMaxAbs(d)
 	poly5BFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5BFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5BFGSBoxDot(g, d)
-}
-
-// poly5BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5BFGSBoxMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5BFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5BFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func poly5BFGSBoxShrinkDirection(d, g *[5]float64) {
 			poly5BFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5BFGSBoxMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5BFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5BFGSBoxScaleBy sets x = c·x.

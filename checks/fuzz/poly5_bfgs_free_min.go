@@ -443,6 +443,7 @@ func (r *poly5BFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly5BFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5BFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5BFGSFreeOutOfIterations)
@@ -907,6 +908,9 @@ func poly5BFGSFreeStepScale(xi float64, i int, diffs *poly5BFGSFreeDifferences) 
 // poly5BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5BFGSFreeCurvaturePair(s, y, x *[5]float64, b *poly5BFGSFreeBox) {}
 
+// poly5BFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly5BFGSFreeLearnCurvature(s, y *[5]float64, diffs *poly5BFGSFreeDifferences) {}
+
 // poly5BFGSFreeSearchDirection is the direction's own.
 func poly5BFGSFreeSearchDirection(dir *poly5BFGSFreeDirection, x, g, d *[5]float64, diffs *poly5BFGSFreeDifferences) {
 	poly5BFGSFreeSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func poly5BFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSFreeDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5BFGSFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5BFGSFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5BFGSFreeDifferences) poly5BFGSFreeLineResult {
 	if !poly5BFGSFreeFinite(slope) {
-		slope = poly5BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5BFGSFreeShortenAlong is not inlined
+		slope = poly5BFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly5BFGSFreeShortenAlong is not inlined
 	}
 	low := poly5BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type poly5BFGSFreeSearchEnd uint8
 // poly5BFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5BFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5BFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5BFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5BFGSFreeShortenAlong(g, d *[5]float64, slope float64, floor *poly5BFGSFreeStepFloor) float64 {
+func poly5BFGSFreeShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5BFGSFreeFinite(slope) || !poly5BFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly5BFGSFreeMaxAbs(d)
 	poly5BFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5BFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5BFGSFreeDot(g, d)
-}
-
-// poly5BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5BFGSFreeMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5BFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5BFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func poly5BFGSFreeShrinkDirection(d, g *[5]float64) {
 			poly5BFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5BFGSFreeMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5BFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5BFGSFreeScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly5CGFreeDescent) judge(recv *Poly) {
 		}
 		poly5CGFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5CGFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5CGFreeOutOfIterations)
@@ -898,6 +899,9 @@ func poly5CGFreeStepScale(xi float64, i int, diffs *poly5CGFreeDifferences) floa
 // poly5CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5CGFreeCurvaturePair(s, y, x *[5]float64, b *poly5CGFreeBox) {}
 
+// poly5CGFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly5CGFreeLearnCurvature(s, y *[5]float64, diffs *poly5CGFreeDifferences) {}
+
 // poly5CGFreeSearchDirection is the direction's own.
 func poly5CGFreeSearchDirection(dir *poly5CGFreeDirection, x, g, d *[5]float64, diffs *poly5CGFreeDifferences) {
 	poly5CGFreeSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func poly5CGFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5CGFreeDiffer
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5CGFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5CGFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5CGFreeDifferences) poly5CGFreeLineResult {
 	if !poly5CGFreeFinite(slope) {
-		slope = poly5CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5CGFreeShortenAlong is not inlined
+		slope = poly5CGFreeShortenAlong(g, d, slope) // the call only where it acts: poly5CGFreeShortenAlong is not inlined
 	}
 	low := poly5CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5CGFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type poly5CGFreeSearchEnd uint8
 // poly5CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5CGFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5CGFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5CGFreeShortenAlong(g, d *[5]float64, slope float64, floor *poly5CGFreeStepFloor) float64 {
+func poly5CGFreeShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5CGFreeFinite(slope) || !poly5CGFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly5CGFreeMaxAbs(d)
 	poly5CGFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5CGFreeDot(g, d)
-}
-
-// poly5CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5CGFreeMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5CGFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5CGFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func poly5CGFreeShrinkDirection(d, g *[5]float64) {
 			poly5CGFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5CGFreeMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5CGFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5CGFreeScaleBy sets x = c·x.

@@ -454,6 +454,7 @@ func (r *poly5LBFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly5LBFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5LBFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5LBFGSBoxOutOfIterations)
@@ -1167,6 +1168,9 @@ func poly5LBFGSBoxCurvaturePair(s, y, x *[5]float64, b *poly5LBFGSBoxBox) {
 	}
 }
 
+// poly5LBFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly5LBFGSBoxLearnCurvature(s, y *[5]float64, diffs *poly5LBFGSBoxDifferences) {}
+
 // poly5LBFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1287,7 +1291,7 @@ func poly5LBFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSBoxDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5LBFGSBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5LBFGSBoxStepFloor, budget int, xt, gt *[5]float64, diffs *poly5LBFGSBoxDifferences) poly5LBFGSBoxLineResult {
 	if !poly5LBFGSBoxFinite(slope) {
-		slope = poly5LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly5LBFGSBoxShortenAlong is not inlined
+		slope = poly5LBFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly5LBFGSBoxShortenAlong is not inlined
 	}
 	low := poly5LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1371,30 +1375,16 @@ type poly5LBFGSBoxSearchEnd uint8
 // poly5LBFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5LBFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5LBFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5LBFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5LBFGSBoxShortenAlong(g, d *[5]float64, slope float64, floor *poly5LBFGSBoxStepFloor) float64 {
+func poly5LBFGSBoxShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5LBFGSBoxFinite(slope) || !poly5LBFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly5LBFGSBoxMaxAbs(d)
 	poly5LBFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5LBFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5LBFGSBoxDot(g, d)
-}
-
-// poly5LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5LBFGSBoxMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5LBFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5LBFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1409,6 +1399,17 @@ func poly5LBFGSBoxShrinkDirection(d, g *[5]float64) {
 			poly5LBFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5LBFGSBoxMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5LBFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5LBFGSBoxScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *poly5LBFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly5LBFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5LBFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5LBFGSFreeOutOfIterations)
@@ -1119,6 +1120,9 @@ func poly5LBFGSFreeStepScale(xi float64, i int, diffs *poly5LBFGSFreeDifferences
 // poly5LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5LBFGSFreeCurvaturePair(s, y, x *[5]float64, b *poly5LBFGSFreeBox) {}
 
+// poly5LBFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly5LBFGSFreeLearnCurvature(s, y *[5]float64, diffs *poly5LBFGSFreeDifferences) {}
+
 // poly5LBFGSFreeSearchDirection is the direction's own.
 func poly5LBFGSFreeSearchDirection(dir *poly5LBFGSFreeDirection, x, g, d *[5]float64, diffs *poly5LBFGSFreeDifferences) {
 	poly5LBFGSFreeSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func poly5LBFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSFree
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly5LBFGSFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5LBFGSFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5LBFGSFreeDifferences) poly5LBFGSFreeLineResult {
 	if !poly5LBFGSFreeFinite(slope) {
-		slope = poly5LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5LBFGSFreeShortenAlong is not inlined
+		slope = poly5LBFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly5LBFGSFreeShortenAlong is not inlined
 	}
 	low := poly5LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly5LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type poly5LBFGSFreeSearchEnd uint8
 // poly5LBFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5LBFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5LBFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5LBFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5LBFGSFreeShortenAlong(g, d *[5]float64, slope float64, floor *poly5LBFGSFreeStepFloor) float64 {
+func poly5LBFGSFreeShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5LBFGSFreeFinite(slope) || !poly5LBFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly5LBFGSFreeMaxAbs(d)
 	poly5LBFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5LBFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5LBFGSFreeDot(g, d)
-}
-
-// poly5LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5LBFGSFreeMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5LBFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5LBFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func poly5LBFGSFreeShrinkDirection(d, g *[5]float64) {
 			poly5LBFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5LBFGSFreeMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5LBFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5LBFGSFreeScaleBy sets x = c·x.

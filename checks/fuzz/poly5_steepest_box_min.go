@@ -453,6 +453,7 @@ func (r *poly5SteepestBoxDescent) judge(recv *Poly) {
 		}
 		poly5SteepestBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5SteepestBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5SteepestBoxOutOfIterations)
@@ -922,6 +923,9 @@ func poly5SteepestBoxCurvaturePair(s, y, x *[5]float64, b *poly5SteepestBoxBox) 
 	}
 }
 
+// poly5SteepestBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly5SteepestBoxLearnCurvature(s, y *[5]float64, diffs *poly5SteepestBoxDifferences) {}
+
 // poly5SteepestBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1030,7 +1034,7 @@ func poly5SteepestBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5Steepes
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly5SteepestBoxLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5SteepestBoxStepFloor, budget int, xt, gt *[5]float64, diffs *poly5SteepestBoxDifferences) poly5SteepestBoxLineResult {
 	if !poly5SteepestBoxFinite(slope) {
-		slope = poly5SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly5SteepestBoxShortenAlong is not inlined
+		slope = poly5SteepestBoxShortenAlong(g, d, slope) // the call only where it acts: poly5SteepestBoxShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1069,30 +1073,16 @@ type poly5SteepestBoxSearchEnd uint8
 // poly5SteepestBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5SteepestBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5SteepestBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5SteepestBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5SteepestBoxShortenAlong(g, d *[5]float64, slope float64, floor *poly5SteepestBoxStepFloor) float64 {
+func poly5SteepestBoxShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5SteepestBoxFinite(slope) || !poly5SteepestBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly5SteepestBoxMaxAbs(d)
 	poly5SteepestBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5SteepestBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5SteepestBoxDot(g, d)
-}
-
-// poly5SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5SteepestBoxMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5SteepestBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5SteepestBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1107,6 +1097,17 @@ func poly5SteepestBoxShrinkDirection(d, g *[5]float64) {
 			poly5SteepestBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5SteepestBoxMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5SteepestBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5SteepestBoxScaleBy sets x = c·x.

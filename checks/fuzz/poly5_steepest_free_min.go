@@ -443,6 +443,7 @@ func (r *poly5SteepestFreeDescent) judge(recv *Poly) {
 		}
 		poly5SteepestFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly5SteepestFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly5SteepestFreeOutOfIterations)
@@ -874,6 +875,9 @@ func poly5SteepestFreeStepScale(xi float64, i int, diffs *poly5SteepestFreeDiffe
 // poly5SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly5SteepestFreeCurvaturePair(s, y, x *[5]float64, b *poly5SteepestFreeBox) {}
 
+// poly5SteepestFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly5SteepestFreeLearnCurvature(s, y *[5]float64, diffs *poly5SteepestFreeDifferences) {}
+
 // poly5SteepestFreeSearchDirection is the direction's own.
 func poly5SteepestFreeSearchDirection(dir *poly5SteepestFreeDirection, x, g, d *[5]float64, diffs *poly5SteepestFreeDifferences) {
 	poly5SteepestFreeSolveDirection(dir, g, d, diffs)
@@ -933,7 +937,7 @@ func poly5SteepestFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5Steepe
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly5SteepestFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float64, slope, first float64, floor *poly5SteepestFreeStepFloor, budget int, xt, gt *[5]float64, diffs *poly5SteepestFreeDifferences) poly5SteepestFreeLineResult {
 	if !poly5SteepestFreeFinite(slope) {
-		slope = poly5SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly5SteepestFreeShortenAlong is not inlined
+		slope = poly5SteepestFreeShortenAlong(g, d, slope) // the call only where it acts: poly5SteepestFreeShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -972,30 +976,16 @@ type poly5SteepestFreeSearchEnd uint8
 // poly5SteepestFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly5SteepestFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly5SteepestFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly5SteepestFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly5SteepestFreeShortenAlong(g, d *[5]float64, slope float64, floor *poly5SteepestFreeStepFloor) float64 {
+func poly5SteepestFreeShortenAlong(g, d *[5]float64, slope float64) float64 {
 	if poly5SteepestFreeFinite(slope) || !poly5SteepestFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly5SteepestFreeMaxAbs(d)
 	poly5SteepestFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly5SteepestFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly5SteepestFreeDot(g, d)
-}
-
-// poly5SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly5SteepestFreeMaxAbs(x *[5]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly5SteepestFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly5SteepestFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1010,6 +1000,17 @@ func poly5SteepestFreeShrinkDirection(d, g *[5]float64) {
 			poly5SteepestFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly5SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly5SteepestFreeMaxAbs(x *[5]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly5SteepestFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly5SteepestFreeScaleBy sets x = c·x.

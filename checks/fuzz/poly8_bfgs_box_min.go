@@ -453,6 +453,7 @@ func (r *poly8BFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly8BFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8BFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8BFGSBoxOutOfIterations)
@@ -955,6 +956,9 @@ func poly8BFGSBoxCurvaturePair(s, y, x *[8]float64, b *poly8BFGSBoxBox) {
 	}
 }
 
+// poly8BFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly8BFGSBoxLearnCurvature(s, y *[8]float64, diffs *poly8BFGSBoxDifferences) {}
+
 // poly8BFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSBoxDiff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8BFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8BFGSBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8BFGSBoxDifferences) poly8BFGSBoxLineResult {
 	if !poly8BFGSBoxFinite(slope) {
-		slope = poly8BFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly8BFGSBoxShortenAlong is not inlined
+		slope = poly8BFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly8BFGSBoxShortenAlong is not inlined
 	}
 	low := poly8BFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8BFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type poly8BFGSBoxSearchEnd uint8
 // poly8BFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8BFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8BFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8BFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8BFGSBoxShortenAlong(g, d *[8]float64, slope float64, floor *poly8BFGSBoxStepFloor) float64 {
+func poly8BFGSBoxShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8BFGSBoxFinite(slope) || !poly8BFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly8BFGSBoxMaxAbs(d)
 	poly8BFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8BFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8BFGSBoxDot(g, d)
-}
-
-// poly8BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8BFGSBoxMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8BFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8BFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func poly8BFGSBoxShrinkDirection(d, g *[8]float64) {
 			poly8BFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8BFGSBoxMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8BFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8BFGSBoxScaleBy sets x = c·x.

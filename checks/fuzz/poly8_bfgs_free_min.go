@@ -443,6 +443,7 @@ func (r *poly8BFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly8BFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8BFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8BFGSFreeOutOfIterations)
@@ -907,6 +908,9 @@ func poly8BFGSFreeStepScale(xi float64, i int, diffs *poly8BFGSFreeDifferences) 
 // poly8BFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8BFGSFreeCurvaturePair(s, y, x *[8]float64, b *poly8BFGSFreeBox) {}
 
+// poly8BFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly8BFGSFreeLearnCurvature(s, y *[8]float64, diffs *poly8BFGSFreeDifferences) {}
+
 // poly8BFGSFreeSearchDirection is the direction's own.
 func poly8BFGSFreeSearchDirection(dir *poly8BFGSFreeDirection, x, g, d *[8]float64, diffs *poly8BFGSFreeDifferences) {
 	poly8BFGSFreeSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func poly8BFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSFreeDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8BFGSFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8BFGSFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8BFGSFreeDifferences) poly8BFGSFreeLineResult {
 	if !poly8BFGSFreeFinite(slope) {
-		slope = poly8BFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8BFGSFreeShortenAlong is not inlined
+		slope = poly8BFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly8BFGSFreeShortenAlong is not inlined
 	}
 	low := poly8BFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8BFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type poly8BFGSFreeSearchEnd uint8
 // poly8BFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8BFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8BFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8BFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8BFGSFreeShortenAlong(g, d *[8]float64, slope float64, floor *poly8BFGSFreeStepFloor) float64 {
+func poly8BFGSFreeShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8BFGSFreeFinite(slope) || !poly8BFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly8BFGSFreeMaxAbs(d)
 	poly8BFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8BFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8BFGSFreeDot(g, d)
-}
-
-// poly8BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8BFGSFreeMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8BFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8BFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func poly8BFGSFreeShrinkDirection(d, g *[8]float64) {
 			poly8BFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8BFGSFreeMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8BFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8BFGSFreeScaleBy sets x = c·x.

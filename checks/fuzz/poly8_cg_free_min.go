@@ -443,6 +443,7 @@ func (r *poly8CGFreeDescent) judge(recv *Poly) {
 		}
 		poly8CGFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8CGFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8CGFreeOutOfIterations)
@@ -898,6 +899,9 @@ func poly8CGFreeStepScale(xi float64, i int, diffs *poly8CGFreeDifferences) floa
 // poly8CGFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8CGFreeCurvaturePair(s, y, x *[8]float64, b *poly8CGFreeBox) {}
 
+// poly8CGFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly8CGFreeLearnCurvature(s, y *[8]float64, diffs *poly8CGFreeDifferences) {}
+
 // poly8CGFreeSearchDirection is the direction's own.
 func poly8CGFreeSearchDirection(dir *poly8CGFreeDirection, x, g, d *[8]float64, diffs *poly8CGFreeDifferences) {
 	poly8CGFreeSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func poly8CGFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8CGFreeDiffer
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8CGFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8CGFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8CGFreeDifferences) poly8CGFreeLineResult {
 	if !poly8CGFreeFinite(slope) {
-		slope = poly8CGFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8CGFreeShortenAlong is not inlined
+		slope = poly8CGFreeShortenAlong(g, d, slope) // the call only where it acts: poly8CGFreeShortenAlong is not inlined
 	}
 	low := poly8CGFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8CGFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type poly8CGFreeSearchEnd uint8
 // poly8CGFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8CGFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8CGFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8CGFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8CGFreeShortenAlong(g, d *[8]float64, slope float64, floor *poly8CGFreeStepFloor) float64 {
+func poly8CGFreeShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8CGFreeFinite(slope) || !poly8CGFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly8CGFreeMaxAbs(d)
 	poly8CGFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8CGFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8CGFreeDot(g, d)
-}
-
-// poly8CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8CGFreeMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8CGFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8CGFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func poly8CGFreeShrinkDirection(d, g *[8]float64) {
 			poly8CGFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8CGFreeMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8CGFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8CGFreeScaleBy sets x = c·x.

@@ -454,6 +454,7 @@ func (r *poly8LBFGSBoxDescent) judge(recv *Poly) {
 		}
 		poly8LBFGSBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8LBFGSBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8LBFGSBoxOutOfIterations)
@@ -1167,6 +1168,9 @@ func poly8LBFGSBoxCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSBoxBox) {
 	}
 }
 
+// poly8LBFGSBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly8LBFGSBoxLearnCurvature(s, y *[8]float64, diffs *poly8LBFGSBoxDifferences) {}
+
 // poly8LBFGSBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1287,7 +1291,7 @@ func poly8LBFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSBoxDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8LBFGSBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSBoxDifferences) poly8LBFGSBoxLineResult {
 	if !poly8LBFGSBoxFinite(slope) {
-		slope = poly8LBFGSBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly8LBFGSBoxShortenAlong is not inlined
+		slope = poly8LBFGSBoxShortenAlong(g, d, slope) // the call only where it acts: poly8LBFGSBoxShortenAlong is not inlined
 	}
 	low := poly8LBFGSBoxLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSBoxLinePoint                                        // the other end of the bracket, once bracketed
@@ -1371,30 +1375,16 @@ type poly8LBFGSBoxSearchEnd uint8
 // poly8LBFGSBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8LBFGSBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8LBFGSBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8LBFGSBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8LBFGSBoxShortenAlong(g, d *[8]float64, slope float64, floor *poly8LBFGSBoxStepFloor) float64 {
+func poly8LBFGSBoxShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8LBFGSBoxFinite(slope) || !poly8LBFGSBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly8LBFGSBoxMaxAbs(d)
 	poly8LBFGSBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8LBFGSBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8LBFGSBoxDot(g, d)
-}
-
-// poly8LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8LBFGSBoxMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8LBFGSBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8LBFGSBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1409,6 +1399,17 @@ func poly8LBFGSBoxShrinkDirection(d, g *[8]float64) {
 			poly8LBFGSBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8LBFGSBoxMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8LBFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8LBFGSBoxScaleBy sets x = c·x.

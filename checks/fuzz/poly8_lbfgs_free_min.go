@@ -444,6 +444,7 @@ func (r *poly8LBFGSFreeDescent) judge(recv *Poly) {
 		}
 		poly8LBFGSFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8LBFGSFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8LBFGSFreeOutOfIterations)
@@ -1119,6 +1120,9 @@ func poly8LBFGSFreeStepScale(xi float64, i int, diffs *poly8LBFGSFreeDifferences
 // poly8LBFGSFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8LBFGSFreeCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSFreeBox) {}
 
+// poly8LBFGSFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly8LBFGSFreeLearnCurvature(s, y *[8]float64, diffs *poly8LBFGSFreeDifferences) {}
+
 // poly8LBFGSFreeSearchDirection is the direction's own.
 func poly8LBFGSFreeSearchDirection(dir *poly8LBFGSFreeDirection, x, g, d *[8]float64, diffs *poly8LBFGSFreeDifferences) {
 	poly8LBFGSFreeSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func poly8LBFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSFree
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8LBFGSFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSFreeDifferences) poly8LBFGSFreeLineResult {
 	if !poly8LBFGSFreeFinite(slope) {
-		slope = poly8LBFGSFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8LBFGSFreeShortenAlong is not inlined
+		slope = poly8LBFGSFreeShortenAlong(g, d, slope) // the call only where it acts: poly8LBFGSFreeShortenAlong is not inlined
 	}
 	low := poly8LBFGSFreeLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSFreeLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type poly8LBFGSFreeSearchEnd uint8
 // poly8LBFGSFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8LBFGSFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8LBFGSFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8LBFGSFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8LBFGSFreeShortenAlong(g, d *[8]float64, slope float64, floor *poly8LBFGSFreeStepFloor) float64 {
+func poly8LBFGSFreeShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8LBFGSFreeFinite(slope) || !poly8LBFGSFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly8LBFGSFreeMaxAbs(d)
 	poly8LBFGSFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8LBFGSFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8LBFGSFreeDot(g, d)
-}
-
-// poly8LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8LBFGSFreeMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8LBFGSFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8LBFGSFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func poly8LBFGSFreeShrinkDirection(d, g *[8]float64) {
 			poly8LBFGSFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8LBFGSFreeMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8LBFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8LBFGSFreeScaleBy sets x = c·x.

@@ -454,6 +454,7 @@ func (r *poly8LBFGSMixedDescent) judge(recv *Poly) {
 		}
 		poly8LBFGSMixedCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8LBFGSMixedLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8LBFGSMixedOutOfIterations)
@@ -1167,6 +1168,9 @@ func poly8LBFGSMixedCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSMixedBox) {
 	}
 }
 
+// poly8LBFGSMixedLearnCurvature: the direction keeps no model beside its memory.
+func poly8LBFGSMixedLearnCurvature(s, y *[8]float64, diffs *poly8LBFGSMixedDifferences) {}
+
 // poly8LBFGSMixedSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1287,7 +1291,7 @@ func poly8LBFGSMixedTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSMix
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func poly8LBFGSMixedLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8LBFGSMixedStepFloor, budget int, xt, gt *[8]float64, diffs *poly8LBFGSMixedDifferences) poly8LBFGSMixedLineResult {
 	if !poly8LBFGSMixedFinite(slope) {
-		slope = poly8LBFGSMixedShortenAlong(g, d, slope, floor) // the call only where it acts: poly8LBFGSMixedShortenAlong is not inlined
+		slope = poly8LBFGSMixedShortenAlong(g, d, slope) // the call only where it acts: poly8LBFGSMixedShortenAlong is not inlined
 	}
 	low := poly8LBFGSMixedLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high poly8LBFGSMixedLinePoint                                        // the other end of the bracket, once bracketed
@@ -1371,30 +1375,16 @@ type poly8LBFGSMixedSearchEnd uint8
 // poly8LBFGSMixedShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8LBFGSMixedShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8LBFGSMixedShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8LBFGSMixedStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8LBFGSMixedShortenAlong(g, d *[8]float64, slope float64, floor *poly8LBFGSMixedStepFloor) float64 {
+func poly8LBFGSMixedShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8LBFGSMixedFinite(slope) || !poly8LBFGSMixedFiniteVec(d) {
 		return slope
 	}
-	before := poly8LBFGSMixedMaxAbs(d)
 	poly8LBFGSMixedShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8LBFGSMixedMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8LBFGSMixedDot(g, d)
-}
-
-// poly8LBFGSMixedMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8LBFGSMixedMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8LBFGSMixedAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8LBFGSMixedShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1409,6 +1399,17 @@ func poly8LBFGSMixedShrinkDirection(d, g *[8]float64) {
 			poly8LBFGSMixedScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8LBFGSMixedMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8LBFGSMixedMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8LBFGSMixedAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8LBFGSMixedScaleBy sets x = c·x.

@@ -453,6 +453,7 @@ func (r *poly8SteepestBoxDescent) judge(recv *Poly) {
 		}
 		poly8SteepestBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8SteepestBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8SteepestBoxOutOfIterations)
@@ -922,6 +923,9 @@ func poly8SteepestBoxCurvaturePair(s, y, x *[8]float64, b *poly8SteepestBoxBox) 
 	}
 }
 
+// poly8SteepestBoxLearnCurvature: the direction keeps no model beside its memory.
+func poly8SteepestBoxLearnCurvature(s, y *[8]float64, diffs *poly8SteepestBoxDifferences) {}
+
 // poly8SteepestBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1030,7 +1034,7 @@ func poly8SteepestBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8Steepes
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly8SteepestBoxLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8SteepestBoxStepFloor, budget int, xt, gt *[8]float64, diffs *poly8SteepestBoxDifferences) poly8SteepestBoxLineResult {
 	if !poly8SteepestBoxFinite(slope) {
-		slope = poly8SteepestBoxShortenAlong(g, d, slope, floor) // the call only where it acts: poly8SteepestBoxShortenAlong is not inlined
+		slope = poly8SteepestBoxShortenAlong(g, d, slope) // the call only where it acts: poly8SteepestBoxShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1069,30 +1073,16 @@ type poly8SteepestBoxSearchEnd uint8
 // poly8SteepestBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8SteepestBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8SteepestBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8SteepestBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8SteepestBoxShortenAlong(g, d *[8]float64, slope float64, floor *poly8SteepestBoxStepFloor) float64 {
+func poly8SteepestBoxShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8SteepestBoxFinite(slope) || !poly8SteepestBoxFiniteVec(d) {
 		return slope
 	}
-	before := poly8SteepestBoxMaxAbs(d)
 	poly8SteepestBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8SteepestBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8SteepestBoxDot(g, d)
-}
-
-// poly8SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8SteepestBoxMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8SteepestBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8SteepestBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1107,6 +1097,17 @@ func poly8SteepestBoxShrinkDirection(d, g *[8]float64) {
 			poly8SteepestBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8SteepestBoxMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8SteepestBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8SteepestBoxScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *poly8SteepestFreeDescent) judge(recv *Poly) {
 		}
 		poly8SteepestFreeCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		poly8SteepestFreeLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Poly8SteepestFreeOutOfIterations)
@@ -874,6 +875,9 @@ func poly8SteepestFreeStepScale(xi float64, i int, diffs *poly8SteepestFreeDiffe
 // poly8SteepestFreeCurvaturePair: without bounds the pair is used as it is.
 func poly8SteepestFreeCurvaturePair(s, y, x *[8]float64, b *poly8SteepestFreeBox) {}
 
+// poly8SteepestFreeLearnCurvature: the direction keeps no model beside its memory.
+func poly8SteepestFreeLearnCurvature(s, y *[8]float64, diffs *poly8SteepestFreeDifferences) {}
+
 // poly8SteepestFreeSearchDirection is the direction's own.
 func poly8SteepestFreeSearchDirection(dir *poly8SteepestFreeDirection, x, g, d *[8]float64, diffs *poly8SteepestFreeDifferences) {
 	poly8SteepestFreeSolveDirection(dir, g, d, diffs)
@@ -933,7 +937,7 @@ func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8Steepe
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func poly8SteepestFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float64, slope, first float64, floor *poly8SteepestFreeStepFloor, budget int, xt, gt *[8]float64, diffs *poly8SteepestFreeDifferences) poly8SteepestFreeLineResult {
 	if !poly8SteepestFreeFinite(slope) {
-		slope = poly8SteepestFreeShortenAlong(g, d, slope, floor) // the call only where it acts: poly8SteepestFreeShortenAlong is not inlined
+		slope = poly8SteepestFreeShortenAlong(g, d, slope) // the call only where it acts: poly8SteepestFreeShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -972,30 +976,16 @@ type poly8SteepestFreeSearchEnd uint8
 // poly8SteepestFreeShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (poly8SteepestFreeShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (poly8SteepestFreeShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (poly8SteepestFreeStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func poly8SteepestFreeShortenAlong(g, d *[8]float64, slope float64, floor *poly8SteepestFreeStepFloor) float64 {
+func poly8SteepestFreeShortenAlong(g, d *[8]float64, slope float64) float64 {
 	if poly8SteepestFreeFinite(slope) || !poly8SteepestFreeFiniteVec(d) {
 		return slope
 	}
-	before := poly8SteepestFreeMaxAbs(d)
 	poly8SteepestFreeShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / poly8SteepestFreeMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return poly8SteepestFreeDot(g, d)
-}
-
-// poly8SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
-func poly8SteepestFreeMaxAbs(x *[8]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := poly8SteepestFreeAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // poly8SteepestFreeShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1010,6 +1000,17 @@ func poly8SteepestFreeShrinkDirection(d, g *[8]float64) {
 			poly8SteepestFreeScaleBy(d, 1/m)
 		}
 	}
+}
+
+// poly8SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
+func poly8SteepestFreeMaxAbs(x *[8]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := poly8SteepestFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // poly8SteepestFreeScaleBy sets x = c·x.

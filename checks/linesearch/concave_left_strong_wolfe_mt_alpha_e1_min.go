@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE1Descent) judge() {
 		}
 		concaveLeftStrongWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeMTAlphaE1OutOfIterations)
@@ -875,6 +876,10 @@ func concaveLeftStrongWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concaveL
 func concaveLeftStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaE1Box) {
 }
 
+// concaveLeftStrongWolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) {
+}
+
 // concaveLeftStrongWolfeMTAlphaE1SearchDirection is the direction's own.
 func concaveLeftStrongWolfeMTAlphaE1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) {
 	concaveLeftStrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveLeftStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) concaveLeftStrongWolfeMTAlphaE1LineResult {
 	if !concaveLeftStrongWolfeMTAlphaE1Finite(slope) {
-		slope = concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaE1ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveLeftStrongWolfeMTAlphaE1SearchEnd uint8
 // concaveLeftStrongWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeMTAlphaE1StepFloor) float64 {
+func concaveLeftStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeMTAlphaE1Finite(slope) || !concaveLeftStrongWolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeMTAlphaE1MaxAbs(d)
 	concaveLeftStrongWolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeMTAlphaE1Dot(g, d)
-}
-
-// concaveLeftStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveLeftStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaE1ScaleBy sets x = c·x.

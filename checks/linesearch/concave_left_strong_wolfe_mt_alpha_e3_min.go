@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeMTAlphaE3Descent) judge() {
 		}
 		concaveLeftStrongWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeMTAlphaE3OutOfIterations)
@@ -875,6 +876,10 @@ func concaveLeftStrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveL
 func concaveLeftStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaE3Box) {
 }
 
+// concaveLeftStrongWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
+}
+
 // concaveLeftStrongWolfeMTAlphaE3SearchDirection is the direction's own.
 func concaveLeftStrongWolfeMTAlphaE3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
 	concaveLeftStrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveLeftStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) concaveLeftStrongWolfeMTAlphaE3LineResult {
 	if !concaveLeftStrongWolfeMTAlphaE3Finite(slope) {
-		slope = concaveLeftStrongWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveLeftStrongWolfeMTAlphaE3SearchEnd uint8
 // concaveLeftStrongWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeMTAlphaE3StepFloor) float64 {
+func concaveLeftStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeMTAlphaE3Finite(slope) || !concaveLeftStrongWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeMTAlphaE3MaxAbs(d)
 	concaveLeftStrongWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeMTAlphaE3Dot(g, d)
-}
-
-// concaveLeftStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveLeftStrongWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaE3ScaleBy sets x = c·x.

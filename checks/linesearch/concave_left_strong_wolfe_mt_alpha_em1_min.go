@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm1Descent) judge() {
 		}
 		concaveLeftStrongWolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeMTAlphaEm1OutOfIterations)
@@ -876,6 +877,10 @@ func concaveLeftStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concave
 func concaveLeftStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) {
 }
 
+// concaveLeftStrongWolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
+}
+
 // concaveLeftStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
 func concaveLeftStrongWolfeMTAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
 	concaveLeftStrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) concaveLeftStrongWolfeMTAlphaEm1LineResult {
 	if !concaveLeftStrongWolfeMTAlphaEm1Finite(slope) {
-		slope = concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveLeftStrongWolfeMTAlphaEm1SearchEnd uint8
 // concaveLeftStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeMTAlphaEm1StepFloor) float64 {
+func concaveLeftStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeMTAlphaEm1Finite(slope) || !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeMTAlphaEm1MaxAbs(d)
 	concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeMTAlphaEm1Dot(g, d)
-}
-
-// concaveLeftStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveLeftStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeMTAlphaEm3Descent) judge() {
 		}
 		concaveLeftStrongWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeMTAlphaEm3OutOfIterations)
@@ -876,6 +877,10 @@ func concaveLeftStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concave
 func concaveLeftStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm3Box) {
 }
 
+// concaveLeftStrongWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) {
+}
+
 // concaveLeftStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
 func concaveLeftStrongWolfeMTAlphaEm3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) {
 	concaveLeftStrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveLeftStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm3Differences) concaveLeftStrongWolfeMTAlphaEm3LineResult {
 	if !concaveLeftStrongWolfeMTAlphaEm3Finite(slope) {
-		slope = concaveLeftStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveLeftStrongWolfeMTAlphaEm3SearchEnd uint8
 // concaveLeftStrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeMTAlphaEm3StepFloor) float64 {
+func concaveLeftStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeMTAlphaEm3Finite(slope) || !concaveLeftStrongWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeMTAlphaEm3MaxAbs(d)
 	concaveLeftStrongWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeMTAlphaEm3Dot(g, d)
-}
-
-// concaveLeftStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveLeftStrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeMTAlphaEm3ScaleBy sets x = c·x.

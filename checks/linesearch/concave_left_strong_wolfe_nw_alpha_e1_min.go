@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeNWAlphaE1Descent) judge() {
 		}
 		concaveLeftStrongWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeNWAlphaE1OutOfIterations)
@@ -875,6 +876,10 @@ func concaveLeftStrongWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concaveL
 func concaveLeftStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeNWAlphaE1Box) {
 }
 
+// concaveLeftStrongWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) {
+}
+
 // concaveLeftStrongWolfeNWAlphaE1SearchDirection is the direction's own.
 func concaveLeftStrongWolfeNWAlphaE1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) {
 	concaveLeftStrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveLeftStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) concaveLeftStrongWolfeNWAlphaE1LineResult {
 	if !concaveLeftStrongWolfeNWAlphaE1Finite(slope) {
-		slope = concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveLeftStrongWolfeNWAlphaE1SearchEnd uint8
 // concaveLeftStrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeNWAlphaE1StepFloor) float64 {
+func concaveLeftStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeNWAlphaE1Finite(slope) || !concaveLeftStrongWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeNWAlphaE1MaxAbs(d)
 	concaveLeftStrongWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeNWAlphaE1Dot(g, d)
-}
-
-// concaveLeftStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveLeftStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaE1ScaleBy sets x = c·x.

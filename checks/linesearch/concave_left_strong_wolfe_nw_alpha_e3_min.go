@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeNWAlphaE3Descent) judge() {
 		}
 		concaveLeftStrongWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeNWAlphaE3OutOfIterations)
@@ -875,6 +876,10 @@ func concaveLeftStrongWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concaveL
 func concaveLeftStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeNWAlphaE3Box) {
 }
 
+// concaveLeftStrongWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) {
+}
+
 // concaveLeftStrongWolfeNWAlphaE3SearchDirection is the direction's own.
 func concaveLeftStrongWolfeNWAlphaE3SearchDirection(dir *concaveLeftStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) {
 	concaveLeftStrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveLeftStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE3Differences) concaveLeftStrongWolfeNWAlphaE3LineResult {
 	if !concaveLeftStrongWolfeNWAlphaE3Finite(slope) {
-		slope = concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveLeftStrongWolfeNWAlphaE3SearchEnd uint8
 // concaveLeftStrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeNWAlphaE3StepFloor) float64 {
+func concaveLeftStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeNWAlphaE3Finite(slope) || !concaveLeftStrongWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeNWAlphaE3MaxAbs(d)
 	concaveLeftStrongWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeNWAlphaE3Dot(g, d)
-}
-
-// concaveLeftStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveLeftStrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaE3ScaleBy sets x = c·x.

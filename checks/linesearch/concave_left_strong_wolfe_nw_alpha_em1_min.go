@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm1Descent) judge() {
 		}
 		concaveLeftStrongWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeNWAlphaEm1OutOfIterations)
@@ -876,6 +877,10 @@ func concaveLeftStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concave
 func concaveLeftStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) {
 }
 
+// concaveLeftStrongWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
+}
+
 // concaveLeftStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
 func concaveLeftStrongWolfeNWAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
 	concaveLeftStrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveLeftStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) concaveLeftStrongWolfeNWAlphaEm1LineResult {
 	if !concaveLeftStrongWolfeNWAlphaEm1Finite(slope) {
-		slope = concaveLeftStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveLeftStrongWolfeNWAlphaEm1SearchEnd uint8
 // concaveLeftStrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeNWAlphaEm1StepFloor) float64 {
+func concaveLeftStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeNWAlphaEm1Finite(slope) || !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeNWAlphaEm1MaxAbs(d)
 	concaveLeftStrongWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeNWAlphaEm1Dot(g, d)
-}
-
-// concaveLeftStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveLeftStrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1ScaleBy sets x = c·x.

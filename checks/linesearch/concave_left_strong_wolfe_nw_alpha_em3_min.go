@@ -443,6 +443,7 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3Descent) judge() {
 		}
 		concaveLeftStrongWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftStrongWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftStrongWolfeNWAlphaEm3OutOfIterations)
@@ -876,6 +877,10 @@ func concaveLeftStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concave
 func concaveLeftStrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm3Box) {
 }
 
+// concaveLeftStrongWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftStrongWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) {
+}
+
 // concaveLeftStrongWolfeNWAlphaEm3SearchDirection is the direction's own.
 func concaveLeftStrongWolfeNWAlphaEm3SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) {
 	concaveLeftStrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftStrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) concaveLeftStrongWolfeNWAlphaEm3LineResult {
 	if !concaveLeftStrongWolfeNWAlphaEm3Finite(slope) {
-		slope = concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftStrongWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftStrongWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveLeftStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveLeftStrongWolfeNWAlphaEm3SearchEnd uint8
 // concaveLeftStrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftStrongWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftStrongWolfeNWAlphaEm3StepFloor) float64 {
+func concaveLeftStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftStrongWolfeNWAlphaEm3Finite(slope) || !concaveLeftStrongWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftStrongWolfeNWAlphaEm3MaxAbs(d)
 	concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftStrongWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftStrongWolfeNWAlphaEm3Dot(g, d)
-}
-
-// concaveLeftStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.

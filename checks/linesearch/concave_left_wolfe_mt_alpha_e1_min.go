@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeMTAlphaE1Descent) judge() {
 		}
 		concaveLeftWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeMTAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concaveLeftWol
 // concaveLeftWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaE1Box) {}
 
+// concaveLeftWolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) {
+}
+
 // concaveLeftWolfeMTAlphaE1SearchDirection is the direction's own.
 func concaveLeftWolfeMTAlphaE1SearchDirection(dir *concaveLeftWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) {
 	concaveLeftWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *con
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaE1Differences) concaveLeftWolfeMTAlphaE1LineResult {
 	if !concaveLeftWolfeMTAlphaE1Finite(slope) {
-		slope = concaveLeftWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeMTAlphaE1ShortenAlong is not inlined
+		slope = concaveLeftWolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeMTAlphaE1SearchEnd uint8
 // concaveLeftWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeMTAlphaE1StepFloor) float64 {
+func concaveLeftWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeMTAlphaE1Finite(slope) || !concaveLeftWolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeMTAlphaE1MaxAbs(d)
 	concaveLeftWolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeMTAlphaE1Dot(g, d)
-}
-
-// concaveLeftWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeMTAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeMTAlphaE3Descent) judge() {
 		}
 		concaveLeftWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeMTAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveLeftWol
 // concaveLeftWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaE3Box) {}
 
+// concaveLeftWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) {
+}
+
 // concaveLeftWolfeMTAlphaE3SearchDirection is the direction's own.
 func concaveLeftWolfeMTAlphaE3SearchDirection(dir *concaveLeftWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) {
 	concaveLeftWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *con
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) concaveLeftWolfeMTAlphaE3LineResult {
 	if !concaveLeftWolfeMTAlphaE3Finite(slope) {
-		slope = concaveLeftWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = concaveLeftWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeMTAlphaE3SearchEnd uint8
 // concaveLeftWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeMTAlphaE3StepFloor) float64 {
+func concaveLeftWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeMTAlphaE3Finite(slope) || !concaveLeftWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeMTAlphaE3MaxAbs(d)
 	concaveLeftWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeMTAlphaE3Dot(g, d)
-}
-
-// concaveLeftWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeMTAlphaE3ScaleBy sets x = c·x.

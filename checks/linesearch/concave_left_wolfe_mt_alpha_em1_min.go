@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeMTAlphaEm1Descent) judge() {
 		}
 		concaveLeftWolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeMTAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftWo
 // concaveLeftWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {}
 
+// concaveLeftWolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) {
+}
+
 // concaveLeftWolfeMTAlphaEm1SearchDirection is the direction's own.
 func concaveLeftWolfeMTAlphaEm1SearchDirection(dir *concaveLeftWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) {
 	concaveLeftWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) concaveLeftWolfeMTAlphaEm1LineResult {
 	if !concaveLeftWolfeMTAlphaEm1Finite(slope) {
-		slope = concaveLeftWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = concaveLeftWolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeMTAlphaEm1SearchEnd uint8
 // concaveLeftWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeMTAlphaEm1StepFloor) float64 {
+func concaveLeftWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeMTAlphaEm1Finite(slope) || !concaveLeftWolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeMTAlphaEm1MaxAbs(d)
 	concaveLeftWolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeMTAlphaEm1Dot(g, d)
-}
-
-// concaveLeftWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeMTAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeMTAlphaEm3Descent) judge() {
 		}
 		concaveLeftWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeMTAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftWo
 // concaveLeftWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaEm3Box) {}
 
+// concaveLeftWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) {
+}
+
 // concaveLeftWolfeMTAlphaEm3SearchDirection is the direction's own.
 func concaveLeftWolfeMTAlphaEm3SearchDirection(dir *concaveLeftWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) {
 	concaveLeftWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm3Differences) concaveLeftWolfeMTAlphaEm3LineResult {
 	if !concaveLeftWolfeMTAlphaEm3Finite(slope) {
-		slope = concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeMTAlphaEm3SearchEnd uint8
 // concaveLeftWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeMTAlphaEm3StepFloor) float64 {
+func concaveLeftWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeMTAlphaEm3Finite(slope) || !concaveLeftWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeMTAlphaEm3MaxAbs(d)
 	concaveLeftWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeMTAlphaEm3Dot(g, d)
-}
-
-// concaveLeftWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeMTAlphaEm3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeNWAlphaE1Descent) judge() {
 		}
 		concaveLeftWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeNWAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concaveLeftWol
 // concaveLeftWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaE1Box) {}
 
+// concaveLeftWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
+}
+
 // concaveLeftWolfeNWAlphaE1SearchDirection is the direction's own.
 func concaveLeftWolfeNWAlphaE1SearchDirection(dir *concaveLeftWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
 	concaveLeftWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *con
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) concaveLeftWolfeNWAlphaE1LineResult {
 	if !concaveLeftWolfeNWAlphaE1Finite(slope) {
-		slope = concaveLeftWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = concaveLeftWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeNWAlphaE1SearchEnd uint8
 // concaveLeftWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeNWAlphaE1StepFloor) float64 {
+func concaveLeftWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeNWAlphaE1Finite(slope) || !concaveLeftWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeNWAlphaE1MaxAbs(d)
 	concaveLeftWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeNWAlphaE1Dot(g, d)
-}
-
-// concaveLeftWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeNWAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeNWAlphaE3Descent) judge() {
 		}
 		concaveLeftWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeNWAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concaveLeftWol
 // concaveLeftWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaE3Box) {}
 
+// concaveLeftWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) {
+}
+
 // concaveLeftWolfeNWAlphaE3SearchDirection is the direction's own.
 func concaveLeftWolfeNWAlphaE3SearchDirection(dir *concaveLeftWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) {
 	concaveLeftWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *con
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) concaveLeftWolfeNWAlphaE3LineResult {
 	if !concaveLeftWolfeNWAlphaE3Finite(slope) {
-		slope = concaveLeftWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = concaveLeftWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeNWAlphaE3SearchEnd uint8
 // concaveLeftWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeNWAlphaE3StepFloor) float64 {
+func concaveLeftWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeNWAlphaE3Finite(slope) || !concaveLeftWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeNWAlphaE3MaxAbs(d)
 	concaveLeftWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeNWAlphaE3Dot(g, d)
-}
-
-// concaveLeftWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeNWAlphaE3ScaleBy sets x = c·x.

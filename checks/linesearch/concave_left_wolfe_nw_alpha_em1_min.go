@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeNWAlphaEm1Descent) judge() {
 		}
 		concaveLeftWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeNWAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concaveLeftWo
 // concaveLeftWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaEm1Box) {}
 
+// concaveLeftWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
+}
+
 // concaveLeftWolfeNWAlphaEm1SearchDirection is the direction's own.
 func concaveLeftWolfeNWAlphaEm1SearchDirection(dir *concaveLeftWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
 	concaveLeftWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) concaveLeftWolfeNWAlphaEm1LineResult {
 	if !concaveLeftWolfeNWAlphaEm1Finite(slope) {
-		slope = concaveLeftWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = concaveLeftWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeNWAlphaEm1SearchEnd uint8
 // concaveLeftWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeNWAlphaEm1StepFloor) float64 {
+func concaveLeftWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeNWAlphaEm1Finite(slope) || !concaveLeftWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeNWAlphaEm1MaxAbs(d)
 	concaveLeftWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeNWAlphaEm1Dot(g, d)
-}
-
-// concaveLeftWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeNWAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveLeftWolfeNWAlphaEm3Descent) judge() {
 		}
 		concaveLeftWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveLeftWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveLeftWolfeNWAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func concaveLeftWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveLeftWo
 // concaveLeftWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func concaveLeftWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeNWAlphaEm3Box) {}
 
+// concaveLeftWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveLeftWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveLeftWolfeNWAlphaEm3Differences) {
+}
+
 // concaveLeftWolfeNWAlphaEm3SearchDirection is the direction's own.
 func concaveLeftWolfeNWAlphaEm3SearchDirection(dir *concaveLeftWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveLeftWolfeNWAlphaEm3Differences) {
 	concaveLeftWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveLeftWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveLeftWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveLeftWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaEm3Differences) concaveLeftWolfeNWAlphaEm3LineResult {
 	if !concaveLeftWolfeNWAlphaEm3Finite(slope) {
-		slope = concaveLeftWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveLeftWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = concaveLeftWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveLeftWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveLeftWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveLeftWolfeNWAlphaEm3SearchEnd uint8
 // concaveLeftWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveLeftWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveLeftWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveLeftWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveLeftWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveLeftWolfeNWAlphaEm3StepFloor) float64 {
+func concaveLeftWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveLeftWolfeNWAlphaEm3Finite(slope) || !concaveLeftWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveLeftWolfeNWAlphaEm3MaxAbs(d)
 	concaveLeftWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveLeftWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveLeftWolfeNWAlphaEm3Dot(g, d)
-}
-
-// concaveLeftWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveLeftWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveLeftWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveLeftWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveLeftWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveLeftWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveLeftWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveLeftWolfeNWAlphaEm3ScaleBy sets x = c·x.

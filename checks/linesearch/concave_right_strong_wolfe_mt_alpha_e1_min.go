@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeMTAlphaE1Descent) judge() {
 		}
 		concaveRightStrongWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeMTAlphaE1OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concave
 func concaveRightStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeMTAlphaE1Box) {
 }
 
+// concaveRightStrongWolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
+}
+
 // concaveRightStrongWolfeMTAlphaE1SearchDirection is the direction's own.
 func concaveRightStrongWolfeMTAlphaE1SearchDirection(dir *concaveRightStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
 	concaveRightStrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) concaveRightStrongWolfeMTAlphaE1LineResult {
 	if !concaveRightStrongWolfeMTAlphaE1Finite(slope) {
-		slope = concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaE1ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeMTAlphaE1SearchEnd uint8
 // concaveRightStrongWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeMTAlphaE1StepFloor) float64 {
+func concaveRightStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeMTAlphaE1Finite(slope) || !concaveRightStrongWolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeMTAlphaE1MaxAbs(d)
 	concaveRightStrongWolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeMTAlphaE1Dot(g, d)
-}
-
-// concaveRightStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeMTAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeMTAlphaE3Descent) judge() {
 		}
 		concaveRightStrongWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeMTAlphaE3OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concave
 func concaveRightStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeMTAlphaE3Box) {
 }
 
+// concaveRightStrongWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) {
+}
+
 // concaveRightStrongWolfeMTAlphaE3SearchDirection is the direction's own.
 func concaveRightStrongWolfeMTAlphaE3SearchDirection(dir *concaveRightStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) {
 	concaveRightStrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) concaveRightStrongWolfeMTAlphaE3LineResult {
 	if !concaveRightStrongWolfeMTAlphaE3Finite(slope) {
-		slope = concaveRightStrongWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeMTAlphaE3SearchEnd uint8
 // concaveRightStrongWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeMTAlphaE3StepFloor) float64 {
+func concaveRightStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeMTAlphaE3Finite(slope) || !concaveRightStrongWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeMTAlphaE3MaxAbs(d)
 	concaveRightStrongWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeMTAlphaE3Dot(g, d)
-}
-
-// concaveRightStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeMTAlphaE3ScaleBy sets x = c·x.

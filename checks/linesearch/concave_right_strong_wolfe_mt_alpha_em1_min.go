@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeMTAlphaEm1Descent) judge() {
 		}
 		concaveRightStrongWolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeMTAlphaEm1OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concav
 func concaveRightStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeMTAlphaEm1Box) {
 }
 
+// concaveRightStrongWolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) {
+}
+
 // concaveRightStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
 func concaveRightStrongWolfeMTAlphaEm1SearchDirection(dir *concaveRightStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) {
 	concaveRightStrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, di
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) concaveRightStrongWolfeMTAlphaEm1LineResult {
 	if !concaveRightStrongWolfeMTAlphaEm1Finite(slope) {
-		slope = concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeMTAlphaEm1SearchEnd uint8
 // concaveRightStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeMTAlphaEm1StepFloor) float64 {
+func concaveRightStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeMTAlphaEm1Finite(slope) || !concaveRightStrongWolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeMTAlphaEm1MaxAbs(d)
 	concaveRightStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeMTAlphaEm1Dot(g, d)
-}
-
-// concaveRightStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeMTAlphaEm3Descent) judge() {
 		}
 		concaveRightStrongWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeMTAlphaEm3OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concav
 func concaveRightStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeMTAlphaEm3Box) {
 }
 
+// concaveRightStrongWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) {
+}
+
 // concaveRightStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
 func concaveRightStrongWolfeMTAlphaEm3SearchDirection(dir *concaveRightStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) {
 	concaveRightStrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, di
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm3Differences) concaveRightStrongWolfeMTAlphaEm3LineResult {
 	if !concaveRightStrongWolfeMTAlphaEm3Finite(slope) {
-		slope = concaveRightStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeMTAlphaEm3SearchEnd uint8
 // concaveRightStrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeMTAlphaEm3StepFloor) float64 {
+func concaveRightStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeMTAlphaEm3Finite(slope) || !concaveRightStrongWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeMTAlphaEm3MaxAbs(d)
 	concaveRightStrongWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeMTAlphaEm3Dot(g, d)
-}
-
-// concaveRightStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeMTAlphaEm3ScaleBy sets x = c·x.

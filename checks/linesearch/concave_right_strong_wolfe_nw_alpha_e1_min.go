@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeNWAlphaE1Descent) judge() {
 		}
 		concaveRightStrongWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeNWAlphaE1OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concave
 func concaveRightStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeNWAlphaE1Box) {
 }
 
+// concaveRightStrongWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
+}
+
 // concaveRightStrongWolfeNWAlphaE1SearchDirection is the direction's own.
 func concaveRightStrongWolfeNWAlphaE1SearchDirection(dir *concaveRightStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
 	concaveRightStrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) concaveRightStrongWolfeNWAlphaE1LineResult {
 	if !concaveRightStrongWolfeNWAlphaE1Finite(slope) {
-		slope = concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeNWAlphaE1SearchEnd uint8
 // concaveRightStrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeNWAlphaE1StepFloor) float64 {
+func concaveRightStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeNWAlphaE1Finite(slope) || !concaveRightStrongWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeNWAlphaE1MaxAbs(d)
 	concaveRightStrongWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeNWAlphaE1Dot(g, d)
-}
-
-// concaveRightStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeNWAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeNWAlphaE3Descent) judge() {
 		}
 		concaveRightStrongWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeNWAlphaE3OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concave
 func concaveRightStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
 }
 
+// concaveRightStrongWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) {
+}
+
 // concaveRightStrongWolfeNWAlphaE3SearchDirection is the direction's own.
 func concaveRightStrongWolfeNWAlphaE3SearchDirection(dir *concaveRightStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) {
 	concaveRightStrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) concaveRightStrongWolfeNWAlphaE3LineResult {
 	if !concaveRightStrongWolfeNWAlphaE3Finite(slope) {
-		slope = concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeNWAlphaE3SearchEnd uint8
 // concaveRightStrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeNWAlphaE3StepFloor) float64 {
+func concaveRightStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeNWAlphaE3Finite(slope) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeNWAlphaE3MaxAbs(d)
 	concaveRightStrongWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeNWAlphaE3Dot(g, d)
-}
-
-// concaveRightStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeNWAlphaE3ScaleBy sets x = c·x.

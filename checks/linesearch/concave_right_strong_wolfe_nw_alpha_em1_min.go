@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeNWAlphaEm1Descent) judge() {
 		}
 		concaveRightStrongWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeNWAlphaEm1OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concav
 func concaveRightStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeNWAlphaEm1Box) {
 }
 
+// concaveRightStrongWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) {
+}
+
 // concaveRightStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
 func concaveRightStrongWolfeNWAlphaEm1SearchDirection(dir *concaveRightStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) {
 	concaveRightStrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, di
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm1Differences) concaveRightStrongWolfeNWAlphaEm1LineResult {
 	if !concaveRightStrongWolfeNWAlphaEm1Finite(slope) {
-		slope = concaveRightStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeNWAlphaEm1SearchEnd uint8
 // concaveRightStrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeNWAlphaEm1StepFloor) float64 {
+func concaveRightStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeNWAlphaEm1Finite(slope) || !concaveRightStrongWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeNWAlphaEm1MaxAbs(d)
 	concaveRightStrongWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeNWAlphaEm1Dot(g, d)
-}
-
-// concaveRightStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeNWAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightStrongWolfeNWAlphaEm3Descent) judge() {
 		}
 		concaveRightStrongWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightStrongWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightStrongWolfeNWAlphaEm3OutOfIterations)
@@ -876,6 +877,10 @@ func concaveRightStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concav
 func concaveRightStrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeNWAlphaEm3Box) {
 }
 
+// concaveRightStrongWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightStrongWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
+}
+
 // concaveRightStrongWolfeNWAlphaEm3SearchDirection is the direction's own.
 func concaveRightStrongWolfeNWAlphaEm3SearchDirection(dir *concaveRightStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
 	concaveRightStrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -956,7 +961,7 @@ func concaveRightStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, di
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightStrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) concaveRightStrongWolfeNWAlphaEm3LineResult {
 	if !concaveRightStrongWolfeNWAlphaEm3Finite(slope) {
-		slope = concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightStrongWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightStrongWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveRightStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1040,30 +1045,16 @@ type concaveRightStrongWolfeNWAlphaEm3SearchEnd uint8
 // concaveRightStrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightStrongWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightStrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightStrongWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightStrongWolfeNWAlphaEm3StepFloor) float64 {
+func concaveRightStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightStrongWolfeNWAlphaEm3Finite(slope) || !concaveRightStrongWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightStrongWolfeNWAlphaEm3MaxAbs(d)
 	concaveRightStrongWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightStrongWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightStrongWolfeNWAlphaEm3Dot(g, d)
-}
-
-// concaveRightStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightStrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1078,6 +1069,17 @@ func concaveRightStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveRightStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.

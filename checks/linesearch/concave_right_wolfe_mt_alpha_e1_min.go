@@ -443,6 +443,7 @@ func (r *concaveRightWolfeMTAlphaE1Descent) judge() {
 		}
 		concaveRightWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeMTAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func concaveRightWolfeMTAlphaE1StepScale(xi float64, i int, diffs *concaveRightW
 // concaveRightWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaE1Box) {}
 
+// concaveRightWolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) {
+}
+
 // concaveRightWolfeMTAlphaE1SearchDirection is the direction's own.
 func concaveRightWolfeMTAlphaE1SearchDirection(dir *concaveRightWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) {
 	concaveRightWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveRightWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaE1Differences) concaveRightWolfeMTAlphaE1LineResult {
 	if !concaveRightWolfeMTAlphaE1Finite(slope) {
-		slope = concaveRightWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaE1ShortenAlong is not inlined
+		slope = concaveRightWolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveRightWolfeMTAlphaE1SearchEnd uint8
 // concaveRightWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeMTAlphaE1StepFloor) float64 {
+func concaveRightWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeMTAlphaE1Finite(slope) || !concaveRightWolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeMTAlphaE1MaxAbs(d)
 	concaveRightWolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeMTAlphaE1Dot(g, d)
-}
-
-// concaveRightWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveRightWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeMTAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightWolfeMTAlphaE3Descent) judge() {
 		}
 		concaveRightWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeMTAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func concaveRightWolfeMTAlphaE3StepScale(xi float64, i int, diffs *concaveRightW
 // concaveRightWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaE3Box) {}
 
+// concaveRightWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) {
+}
+
 // concaveRightWolfeMTAlphaE3SearchDirection is the direction's own.
 func concaveRightWolfeMTAlphaE3SearchDirection(dir *concaveRightWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) {
 	concaveRightWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveRightWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaE3Differences) concaveRightWolfeMTAlphaE3LineResult {
 	if !concaveRightWolfeMTAlphaE3Finite(slope) {
-		slope = concaveRightWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = concaveRightWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveRightWolfeMTAlphaE3SearchEnd uint8
 // concaveRightWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeMTAlphaE3StepFloor) float64 {
+func concaveRightWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeMTAlphaE3Finite(slope) || !concaveRightWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeMTAlphaE3MaxAbs(d)
 	concaveRightWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeMTAlphaE3Dot(g, d)
-}
-
-// concaveRightWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveRightWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeMTAlphaE3ScaleBy sets x = c·x.

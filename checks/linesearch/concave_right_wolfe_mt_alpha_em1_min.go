@@ -443,6 +443,7 @@ func (r *concaveRightWolfeMTAlphaEm1Descent) judge() {
 		}
 		concaveRightWolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeMTAlphaEm1OutOfIterations)
@@ -875,6 +876,10 @@ func concaveRightWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *concaveRight
 func concaveRightWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaEm1Box) {
 }
 
+// concaveRightWolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
+}
+
 // concaveRightWolfeMTAlphaEm1SearchDirection is the direction's own.
 func concaveRightWolfeMTAlphaEm1SearchDirection(dir *concaveRightWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
 	concaveRightWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *c
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
 	if !concaveRightWolfeMTAlphaEm1Finite(slope) {
-		slope = concaveRightWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = concaveRightWolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveRightWolfeMTAlphaEm1SearchEnd uint8
 // concaveRightWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeMTAlphaEm1StepFloor) float64 {
+func concaveRightWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeMTAlphaEm1Finite(slope) || !concaveRightWolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeMTAlphaEm1MaxAbs(d)
 	concaveRightWolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeMTAlphaEm1Dot(g, d)
-}
-
-// concaveRightWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveRightWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeMTAlphaEm1ScaleBy sets x = c·x.

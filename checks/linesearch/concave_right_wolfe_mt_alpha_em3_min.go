@@ -443,6 +443,7 @@ func (r *concaveRightWolfeMTAlphaEm3Descent) judge() {
 		}
 		concaveRightWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeMTAlphaEm3OutOfIterations)
@@ -875,6 +876,10 @@ func concaveRightWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *concaveRight
 func concaveRightWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaEm3Box) {
 }
 
+// concaveRightWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) {
+}
+
 // concaveRightWolfeMTAlphaEm3SearchDirection is the direction's own.
 func concaveRightWolfeMTAlphaEm3SearchDirection(dir *concaveRightWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) {
 	concaveRightWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveRightWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *c
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) concaveRightWolfeMTAlphaEm3LineResult {
 	if !concaveRightWolfeMTAlphaEm3Finite(slope) {
-		slope = concaveRightWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = concaveRightWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveRightWolfeMTAlphaEm3SearchEnd uint8
 // concaveRightWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeMTAlphaEm3StepFloor) float64 {
+func concaveRightWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeMTAlphaEm3Finite(slope) || !concaveRightWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeMTAlphaEm3MaxAbs(d)
 	concaveRightWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeMTAlphaEm3Dot(g, d)
-}
-
-// concaveRightWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveRightWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeMTAlphaEm3ScaleBy sets x = c·x.

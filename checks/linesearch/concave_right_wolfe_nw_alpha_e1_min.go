@@ -443,6 +443,7 @@ func (r *concaveRightWolfeNWAlphaE1Descent) judge() {
 		}
 		concaveRightWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeNWAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func concaveRightWolfeNWAlphaE1StepScale(xi float64, i int, diffs *concaveRightW
 // concaveRightWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {}
 
+// concaveRightWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) {
+}
+
 // concaveRightWolfeNWAlphaE1SearchDirection is the direction's own.
 func concaveRightWolfeNWAlphaE1SearchDirection(dir *concaveRightWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) {
 	concaveRightWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) concaveRightWolfeNWAlphaE1LineResult {
 	if !concaveRightWolfeNWAlphaE1Finite(slope) {
-		slope = concaveRightWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = concaveRightWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveRightWolfeNWAlphaE1SearchEnd uint8
 // concaveRightWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeNWAlphaE1StepFloor) float64 {
+func concaveRightWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeNWAlphaE1Finite(slope) || !concaveRightWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeNWAlphaE1MaxAbs(d)
 	concaveRightWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeNWAlphaE1Dot(g, d)
-}
-
-// concaveRightWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveRightWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeNWAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightWolfeNWAlphaE3Descent) judge() {
 		}
 		concaveRightWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeNWAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func concaveRightWolfeNWAlphaE3StepScale(xi float64, i int, diffs *concaveRightW
 // concaveRightWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func concaveRightWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {}
 
+// concaveRightWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) {
+}
+
 // concaveRightWolfeNWAlphaE3SearchDirection is the direction's own.
 func concaveRightWolfeNWAlphaE3SearchDirection(dir *concaveRightWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) {
 	concaveRightWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *co
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
 	if !concaveRightWolfeNWAlphaE3Finite(slope) {
-		slope = concaveRightWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = concaveRightWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type concaveRightWolfeNWAlphaE3SearchEnd uint8
 // concaveRightWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeNWAlphaE3StepFloor) float64 {
+func concaveRightWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeNWAlphaE3Finite(slope) || !concaveRightWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeNWAlphaE3MaxAbs(d)
 	concaveRightWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeNWAlphaE3Dot(g, d)
-}
-
-// concaveRightWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func concaveRightWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeNWAlphaE3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightWolfeNWAlphaEm1Descent) judge() {
 		}
 		concaveRightWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeNWAlphaEm1OutOfIterations)
@@ -875,6 +876,10 @@ func concaveRightWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *concaveRight
 func concaveRightWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaEm1Box) {
 }
 
+// concaveRightWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) {
+}
+
 // concaveRightWolfeNWAlphaEm1SearchDirection is the direction's own.
 func concaveRightWolfeNWAlphaEm1SearchDirection(dir *concaveRightWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) {
 	concaveRightWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveRightWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *c
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm1Differences) concaveRightWolfeNWAlphaEm1LineResult {
 	if !concaveRightWolfeNWAlphaEm1Finite(slope) {
-		slope = concaveRightWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = concaveRightWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveRightWolfeNWAlphaEm1SearchEnd uint8
 // concaveRightWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeNWAlphaEm1StepFloor) float64 {
+func concaveRightWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeNWAlphaEm1Finite(slope) || !concaveRightWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeNWAlphaEm1MaxAbs(d)
 	concaveRightWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeNWAlphaEm1Dot(g, d)
-}
-
-// concaveRightWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveRightWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeNWAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *concaveRightWolfeNWAlphaEm3Descent) judge() {
 		}
 		concaveRightWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		concaveRightWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ConcaveRightWolfeNWAlphaEm3OutOfIterations)
@@ -875,6 +876,10 @@ func concaveRightWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *concaveRight
 func concaveRightWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaEm3Box) {
 }
 
+// concaveRightWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func concaveRightWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
+}
+
 // concaveRightWolfeNWAlphaEm3SearchDirection is the direction's own.
 func concaveRightWolfeNWAlphaEm3SearchDirection(dir *concaveRightWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
 	concaveRightWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *c
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *concaveRightWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) concaveRightWolfeNWAlphaEm3LineResult {
 	if !concaveRightWolfeNWAlphaEm3Finite(slope) {
-		slope = concaveRightWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: concaveRightWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = concaveRightWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: concaveRightWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := concaveRightWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type concaveRightWolfeNWAlphaEm3SearchEnd uint8
 // concaveRightWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (concaveRightWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (concaveRightWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (concaveRightWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func concaveRightWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *concaveRightWolfeNWAlphaEm3StepFloor) float64 {
+func concaveRightWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if concaveRightWolfeNWAlphaEm3Finite(slope) || !concaveRightWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := concaveRightWolfeNWAlphaEm3MaxAbs(d)
 	concaveRightWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / concaveRightWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return concaveRightWolfeNWAlphaEm3Dot(g, d)
-}
-
-// concaveRightWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // concaveRightWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func concaveRightWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			concaveRightWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// concaveRightWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func concaveRightWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := concaveRightWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // concaveRightWolfeNWAlphaEm3ScaleBy sets x = c·x.

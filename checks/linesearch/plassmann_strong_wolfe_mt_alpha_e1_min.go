@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeMTAlphaE1Descent) judge() {
 		}
 		plassmannStrongWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeMTAlphaE1OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeMTAlphaE1StepScale(xi float64, i int, diffs *plassmannS
 func plassmannStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaE1Box) {
 }
 
+// plassmannStrongWolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
+}
+
 // plassmannStrongWolfeMTAlphaE1SearchDirection is the direction's own.
 func plassmannStrongWolfeMTAlphaE1SearchDirection(dir *plassmannStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
 	plassmannStrongWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) plassmannStrongWolfeMTAlphaE1LineResult {
 	if !plassmannStrongWolfeMTAlphaE1Finite(slope) {
-		slope = plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaE1ShortenAlong is not inlined
+		slope = plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeMTAlphaE1SearchEnd uint8
 // plassmannStrongWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeMTAlphaE1StepFloor) float64 {
+func plassmannStrongWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeMTAlphaE1Finite(slope) || !plassmannStrongWolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeMTAlphaE1MaxAbs(d)
 	plassmannStrongWolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeMTAlphaE1Dot(g, d)
-}
-
-// plassmannStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeMTAlphaE1ScaleBy sets x = c·x.

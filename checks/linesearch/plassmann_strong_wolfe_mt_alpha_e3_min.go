@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeMTAlphaE3Descent) judge() {
 		}
 		plassmannStrongWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeMTAlphaE3OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *plassmannS
 func plassmannStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaE3Box) {
 }
 
+// plassmannStrongWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) {
+}
+
 // plassmannStrongWolfeMTAlphaE3SearchDirection is the direction's own.
 func plassmannStrongWolfeMTAlphaE3SearchDirection(dir *plassmannStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) {
 	plassmannStrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE3Differences) plassmannStrongWolfeMTAlphaE3LineResult {
 	if !plassmannStrongWolfeMTAlphaE3Finite(slope) {
-		slope = plassmannStrongWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = plassmannStrongWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeMTAlphaE3SearchEnd uint8
 // plassmannStrongWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeMTAlphaE3StepFloor) float64 {
+func plassmannStrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeMTAlphaE3Finite(slope) || !plassmannStrongWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeMTAlphaE3MaxAbs(d)
 	plassmannStrongWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeMTAlphaE3Dot(g, d)
-}
-
-// plassmannStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeMTAlphaE3ScaleBy sets x = c·x.

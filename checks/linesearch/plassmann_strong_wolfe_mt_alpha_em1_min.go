@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeMTAlphaEm1Descent) judge() {
 		}
 		plassmannStrongWolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeMTAlphaEm1OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *plassmann
 func plassmannStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaEm1Box) {
 }
 
+// plassmannStrongWolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
+}
+
 // plassmannStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
 func plassmannStrongWolfeMTAlphaEm1SearchDirection(dir *plassmannStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
 	plassmannStrongWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
 	if !plassmannStrongWolfeMTAlphaEm1Finite(slope) {
-		slope = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeMTAlphaEm1SearchEnd uint8
 // plassmannStrongWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeMTAlphaEm1StepFloor) float64 {
+func plassmannStrongWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeMTAlphaEm1Finite(slope) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeMTAlphaEm1MaxAbs(d)
 	plassmannStrongWolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeMTAlphaEm1Dot(g, d)
-}
-
-// plassmannStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.

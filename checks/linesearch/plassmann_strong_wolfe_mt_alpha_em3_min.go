@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeMTAlphaEm3Descent) judge() {
 		}
 		plassmannStrongWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeMTAlphaEm3OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *plassmann
 func plassmannStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaEm3Box) {
 }
 
+// plassmannStrongWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) {
+}
+
 // plassmannStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
 func plassmannStrongWolfeMTAlphaEm3SearchDirection(dir *plassmannStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) {
 	plassmannStrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) plassmannStrongWolfeMTAlphaEm3LineResult {
 	if !plassmannStrongWolfeMTAlphaEm3Finite(slope) {
-		slope = plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeMTAlphaEm3SearchEnd uint8
 // plassmannStrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeMTAlphaEm3StepFloor) float64 {
+func plassmannStrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeMTAlphaEm3Finite(slope) || !plassmannStrongWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeMTAlphaEm3MaxAbs(d)
 	plassmannStrongWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeMTAlphaEm3Dot(g, d)
-}
-
-// plassmannStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeMTAlphaEm3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeNWAlphaE1Descent) judge() {
 		}
 		plassmannStrongWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeNWAlphaE1OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeNWAlphaE1StepScale(xi float64, i int, diffs *plassmannS
 func plassmannStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeNWAlphaE1Box) {
 }
 
+// plassmannStrongWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) {
+}
+
 // plassmannStrongWolfeNWAlphaE1SearchDirection is the direction's own.
 func plassmannStrongWolfeNWAlphaE1SearchDirection(dir *plassmannStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) {
 	plassmannStrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) plassmannStrongWolfeNWAlphaE1LineResult {
 	if !plassmannStrongWolfeNWAlphaE1Finite(slope) {
-		slope = plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeNWAlphaE1SearchEnd uint8
 // plassmannStrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeNWAlphaE1StepFloor) float64 {
+func plassmannStrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeNWAlphaE1Finite(slope) || !plassmannStrongWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeNWAlphaE1MaxAbs(d)
 	plassmannStrongWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeNWAlphaE1Dot(g, d)
-}
-
-// plassmannStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeNWAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeNWAlphaE3Descent) judge() {
 		}
 		plassmannStrongWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeNWAlphaE3OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeNWAlphaE3StepScale(xi float64, i int, diffs *plassmannS
 func plassmannStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeNWAlphaE3Box) {
 }
 
+// plassmannStrongWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) {
+}
+
 // plassmannStrongWolfeNWAlphaE3SearchDirection is the direction's own.
 func plassmannStrongWolfeNWAlphaE3SearchDirection(dir *plassmannStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) {
 	plassmannStrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaE3Differences) plassmannStrongWolfeNWAlphaE3LineResult {
 	if !plassmannStrongWolfeNWAlphaE3Finite(slope) {
-		slope = plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeNWAlphaE3SearchEnd uint8
 // plassmannStrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeNWAlphaE3StepFloor) float64 {
+func plassmannStrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeNWAlphaE3Finite(slope) || !plassmannStrongWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeNWAlphaE3MaxAbs(d)
 	plassmannStrongWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeNWAlphaE3Dot(g, d)
-}
-
-// plassmannStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeNWAlphaE3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeNWAlphaEm1Descent) judge() {
 		}
 		plassmannStrongWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeNWAlphaEm1OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *plassmann
 func plassmannStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeNWAlphaEm1Box) {
 }
 
+// plassmannStrongWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) {
+}
+
 // plassmannStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
 func plassmannStrongWolfeNWAlphaEm1SearchDirection(dir *plassmannStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) {
 	plassmannStrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm1Differences) plassmannStrongWolfeNWAlphaEm1LineResult {
 	if !plassmannStrongWolfeNWAlphaEm1Finite(slope) {
-		slope = plassmannStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = plassmannStrongWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeNWAlphaEm1SearchEnd uint8
 // plassmannStrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeNWAlphaEm1StepFloor) float64 {
+func plassmannStrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeNWAlphaEm1Finite(slope) || !plassmannStrongWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeNWAlphaEm1MaxAbs(d)
 	plassmannStrongWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeNWAlphaEm1Dot(g, d)
-}
-
-// plassmannStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeNWAlphaEm1ScaleBy sets x = c·x.

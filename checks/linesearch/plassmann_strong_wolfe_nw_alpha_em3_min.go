@@ -443,6 +443,7 @@ func (r *plassmannStrongWolfeNWAlphaEm3Descent) judge() {
 		}
 		plassmannStrongWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannStrongWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannStrongWolfeNWAlphaEm3OutOfIterations)
@@ -875,6 +876,10 @@ func plassmannStrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *plassmann
 func plassmannStrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeNWAlphaEm3Box) {
 }
 
+// plassmannStrongWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannStrongWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) {
+}
+
 // plassmannStrongWolfeNWAlphaEm3SearchDirection is the direction's own.
 func plassmannStrongWolfeNWAlphaEm3SearchDirection(dir *plassmannStrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) {
 	plassmannStrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -955,7 +960,7 @@ func plassmannStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannStrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeNWAlphaEm3Differences) plassmannStrongWolfeNWAlphaEm3LineResult {
 	if !plassmannStrongWolfeNWAlphaEm3Finite(slope) {
-		slope = plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannStrongWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: plassmannStrongWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := plassmannStrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1039,30 +1044,16 @@ type plassmannStrongWolfeNWAlphaEm3SearchEnd uint8
 // plassmannStrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannStrongWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannStrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannStrongWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannStrongWolfeNWAlphaEm3StepFloor) float64 {
+func plassmannStrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannStrongWolfeNWAlphaEm3Finite(slope) || !plassmannStrongWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannStrongWolfeNWAlphaEm3MaxAbs(d)
 	plassmannStrongWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannStrongWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannStrongWolfeNWAlphaEm3Dot(g, d)
-}
-
-// plassmannStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannStrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1077,6 +1068,17 @@ func plassmannStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			plassmannStrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.

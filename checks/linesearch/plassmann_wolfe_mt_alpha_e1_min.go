@@ -443,6 +443,7 @@ func (r *plassmannWolfeMTAlphaE1Descent) judge() {
 		}
 		plassmannWolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeMTAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeMTAlphaE1StepScale(xi float64, i int, diffs *plassmannWolfeMT
 // plassmannWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaE1Box) {}
 
+// plassmannWolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) {
+}
+
 // plassmannWolfeMTAlphaE1SearchDirection is the direction's own.
 func plassmannWolfeMTAlphaE1SearchDirection(dir *plassmannWolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) {
 	plassmannWolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) plassmannWolfeMTAlphaE1LineResult {
 	if !plassmannWolfeMTAlphaE1Finite(slope) {
-		slope = plassmannWolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaE1ShortenAlong is not inlined
+		slope = plassmannWolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := plassmannWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeMTAlphaE1SearchEnd uint8
 // plassmannWolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeMTAlphaE1StepFloor) float64 {
+func plassmannWolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeMTAlphaE1Finite(slope) || !plassmannWolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeMTAlphaE1MaxAbs(d)
 	plassmannWolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeMTAlphaE1Dot(g, d)
-}
-
-// plassmannWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeMTAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *plassmannWolfeMTAlphaE3Descent) judge() {
 		}
 		plassmannWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeMTAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeMTAlphaE3StepScale(xi float64, i int, diffs *plassmannWolfeMT
 // plassmannWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaE3Box) {}
 
+// plassmannWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
+}
+
 // plassmannWolfeMTAlphaE3SearchDirection is the direction's own.
 func plassmannWolfeMTAlphaE3SearchDirection(dir *plassmannWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
 	plassmannWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) plassmannWolfeMTAlphaE3LineResult {
 	if !plassmannWolfeMTAlphaE3Finite(slope) {
-		slope = plassmannWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = plassmannWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := plassmannWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeMTAlphaE3SearchEnd uint8
 // plassmannWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeMTAlphaE3StepFloor) float64 {
+func plassmannWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeMTAlphaE3Finite(slope) || !plassmannWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeMTAlphaE3MaxAbs(d)
 	plassmannWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeMTAlphaE3Dot(g, d)
-}
-
-// plassmannWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeMTAlphaE3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *plassmannWolfeMTAlphaEm1Descent) judge() {
 		}
 		plassmannWolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeMTAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeMTAlphaEm1StepScale(xi float64, i int, diffs *plassmannWolfeM
 // plassmannWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaEm1Box) {}
 
+// plassmannWolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) {
+}
+
 // plassmannWolfeMTAlphaEm1SearchDirection is the direction's own.
 func plassmannWolfeMTAlphaEm1SearchDirection(dir *plassmannWolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) {
 	plassmannWolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) plassmannWolfeMTAlphaEm1LineResult {
 	if !plassmannWolfeMTAlphaEm1Finite(slope) {
-		slope = plassmannWolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = plassmannWolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := plassmannWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeMTAlphaEm1SearchEnd uint8
 // plassmannWolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeMTAlphaEm1StepFloor) float64 {
+func plassmannWolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeMTAlphaEm1Finite(slope) || !plassmannWolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeMTAlphaEm1MaxAbs(d)
 	plassmannWolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeMTAlphaEm1Dot(g, d)
-}
-
-// plassmannWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeMTAlphaEm1ScaleBy sets x = c·x.

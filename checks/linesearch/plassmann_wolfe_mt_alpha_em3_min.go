@@ -443,6 +443,7 @@ func (r *plassmannWolfeMTAlphaEm3Descent) judge() {
 		}
 		plassmannWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeMTAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *plassmannWolfeM
 // plassmannWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaEm3Box) {}
 
+// plassmannWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) {
+}
+
 // plassmannWolfeMTAlphaEm3SearchDirection is the direction's own.
 func plassmannWolfeMTAlphaEm3SearchDirection(dir *plassmannWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) {
 	plassmannWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) plassmannWolfeMTAlphaEm3LineResult {
 	if !plassmannWolfeMTAlphaEm3Finite(slope) {
-		slope = plassmannWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = plassmannWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := plassmannWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeMTAlphaEm3SearchEnd uint8
 // plassmannWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeMTAlphaEm3StepFloor) float64 {
+func plassmannWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeMTAlphaEm3Finite(slope) || !plassmannWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeMTAlphaEm3MaxAbs(d)
 	plassmannWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeMTAlphaEm3Dot(g, d)
-}
-
-// plassmannWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeMTAlphaEm3ScaleBy sets x = c·x.

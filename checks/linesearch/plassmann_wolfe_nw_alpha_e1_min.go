@@ -443,6 +443,7 @@ func (r *plassmannWolfeNWAlphaE1Descent) judge() {
 		}
 		plassmannWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeNWAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeNWAlphaE1StepScale(xi float64, i int, diffs *plassmannWolfeNW
 // plassmannWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaE1Box) {}
 
+// plassmannWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) {
+}
+
 // plassmannWolfeNWAlphaE1SearchDirection is the direction's own.
 func plassmannWolfeNWAlphaE1SearchDirection(dir *plassmannWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) {
 	plassmannWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaE1Differences) plassmannWolfeNWAlphaE1LineResult {
 	if !plassmannWolfeNWAlphaE1Finite(slope) {
-		slope = plassmannWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = plassmannWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := plassmannWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeNWAlphaE1SearchEnd uint8
 // plassmannWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeNWAlphaE1StepFloor) float64 {
+func plassmannWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeNWAlphaE1Finite(slope) || !plassmannWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeNWAlphaE1MaxAbs(d)
 	plassmannWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeNWAlphaE1Dot(g, d)
-}
-
-// plassmannWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeNWAlphaE1ScaleBy sets x = c·x.

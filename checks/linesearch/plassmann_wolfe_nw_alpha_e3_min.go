@@ -443,6 +443,7 @@ func (r *plassmannWolfeNWAlphaE3Descent) judge() {
 		}
 		plassmannWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeNWAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeNWAlphaE3StepScale(xi float64, i int, diffs *plassmannWolfeNW
 // plassmannWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaE3Box) {}
 
+// plassmannWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
+}
+
 // plassmannWolfeNWAlphaE3SearchDirection is the direction's own.
 func plassmannWolfeNWAlphaE3SearchDirection(dir *plassmannWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
 	plassmannWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *plass
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) plassmannWolfeNWAlphaE3LineResult {
 	if !plassmannWolfeNWAlphaE3Finite(slope) {
-		slope = plassmannWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = plassmannWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := plassmannWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeNWAlphaE3SearchEnd uint8
 // plassmannWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeNWAlphaE3StepFloor) float64 {
+func plassmannWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeNWAlphaE3Finite(slope) || !plassmannWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeNWAlphaE3MaxAbs(d)
 	plassmannWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeNWAlphaE3Dot(g, d)
-}
-
-// plassmannWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeNWAlphaE3ScaleBy sets x = c·x.

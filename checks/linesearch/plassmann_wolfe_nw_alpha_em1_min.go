@@ -443,6 +443,7 @@ func (r *plassmannWolfeNWAlphaEm1Descent) judge() {
 		}
 		plassmannWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeNWAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *plassmannWolfeN
 // plassmannWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaEm1Box) {}
 
+// plassmannWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) {
+}
+
 // plassmannWolfeNWAlphaEm1SearchDirection is the direction's own.
 func plassmannWolfeNWAlphaEm1SearchDirection(dir *plassmannWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) {
 	plassmannWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) plassmannWolfeNWAlphaEm1LineResult {
 	if !plassmannWolfeNWAlphaEm1Finite(slope) {
-		slope = plassmannWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = plassmannWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := plassmannWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeNWAlphaEm1SearchEnd uint8
 // plassmannWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeNWAlphaEm1StepFloor) float64 {
+func plassmannWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeNWAlphaEm1Finite(slope) || !plassmannWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeNWAlphaEm1MaxAbs(d)
 	plassmannWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeNWAlphaEm1Dot(g, d)
-}
-
-// plassmannWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeNWAlphaEm1ScaleBy sets x = c·x.

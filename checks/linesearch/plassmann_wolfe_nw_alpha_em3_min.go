@@ -443,6 +443,7 @@ func (r *plassmannWolfeNWAlphaEm3Descent) judge() {
 		}
 		plassmannWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		plassmannWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PlassmannWolfeNWAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func plassmannWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *plassmannWolfeN
 // plassmannWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func plassmannWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {}
 
+// plassmannWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func plassmannWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
+}
+
 // plassmannWolfeNWAlphaEm3SearchDirection is the direction's own.
 func plassmannWolfeNWAlphaEm3SearchDirection(dir *plassmannWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
 	plassmannWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *plas
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *plassmannWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
 	if !plassmannWolfeNWAlphaEm3Finite(slope) {
-		slope = plassmannWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: plassmannWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = plassmannWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: plassmannWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := plassmannWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type plassmannWolfeNWAlphaEm3SearchEnd uint8
 // plassmannWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (plassmannWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (plassmannWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (plassmannWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func plassmannWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *plassmannWolfeNWAlphaEm3StepFloor) float64 {
+func plassmannWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if plassmannWolfeNWAlphaEm3Finite(slope) || !plassmannWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := plassmannWolfeNWAlphaEm3MaxAbs(d)
 	plassmannWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / plassmannWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return plassmannWolfeNWAlphaEm3Dot(g, d)
-}
-
-// plassmannWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func plassmannWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := plassmannWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // plassmannWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func plassmannWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			plassmannWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// plassmannWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func plassmannWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := plassmannWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // plassmannWolfeNWAlphaEm3ScaleBy sets x = c·x.

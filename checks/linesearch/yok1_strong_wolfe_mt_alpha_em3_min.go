@@ -443,6 +443,7 @@ func (r *yok1StrongWolfeMTAlphaEm3Descent) judge() {
 		}
 		yok1StrongWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1StrongWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1StrongWolfeMTAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func yok1StrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *yok1StrongWolf
 // yok1StrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeMTAlphaEm3Box) {}
 
+// yok1StrongWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func yok1StrongWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *yok1StrongWolfeMTAlphaEm3Differences) {
+}
+
 // yok1StrongWolfeMTAlphaEm3SearchDirection is the direction's own.
 func yok1StrongWolfeMTAlphaEm3SearchDirection(dir *yok1StrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeMTAlphaEm3Differences) {
 	yok1StrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok1StrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1StrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1StrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok1StrongWolfeMTAlphaEm3Differences) yok1StrongWolfeMTAlphaEm3LineResult {
 	if !yok1StrongWolfeMTAlphaEm3Finite(slope) {
-		slope = yok1StrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1StrongWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = yok1StrongWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: yok1StrongWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := yok1StrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1StrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok1StrongWolfeMTAlphaEm3SearchEnd uint8
 // yok1StrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1StrongWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1StrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1StrongWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1StrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *yok1StrongWolfeMTAlphaEm3StepFloor) float64 {
+func yok1StrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1StrongWolfeMTAlphaEm3Finite(slope) || !yok1StrongWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := yok1StrongWolfeMTAlphaEm3MaxAbs(d)
 	yok1StrongWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1StrongWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1StrongWolfeMTAlphaEm3Dot(g, d)
-}
-
-// yok1StrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1StrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1StrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1StrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok1StrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			yok1StrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1StrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1StrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1StrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1StrongWolfeMTAlphaEm3ScaleBy sets x = c·x.

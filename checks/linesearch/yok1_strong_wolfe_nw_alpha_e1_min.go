@@ -443,6 +443,7 @@ func (r *yok1StrongWolfeNWAlphaE1Descent) judge() {
 		}
 		yok1StrongWolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1StrongWolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1StrongWolfeNWAlphaE1OutOfIterations)
@@ -874,6 +875,10 @@ func yok1StrongWolfeNWAlphaE1StepScale(xi float64, i int, diffs *yok1StrongWolfe
 // yok1StrongWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeNWAlphaE1Box) {}
 
+// yok1StrongWolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func yok1StrongWolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *yok1StrongWolfeNWAlphaE1Differences) {
+}
+
 // yok1StrongWolfeNWAlphaE1SearchDirection is the direction's own.
 func yok1StrongWolfeNWAlphaE1SearchDirection(dir *yok1StrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaE1Differences) {
 	yok1StrongWolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok1StrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok1
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1StrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1StrongWolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *yok1StrongWolfeNWAlphaE1Differences) yok1StrongWolfeNWAlphaE1LineResult {
 	if !yok1StrongWolfeNWAlphaE1Finite(slope) {
-		slope = yok1StrongWolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1StrongWolfeNWAlphaE1ShortenAlong is not inlined
+		slope = yok1StrongWolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: yok1StrongWolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := yok1StrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1StrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok1StrongWolfeNWAlphaE1SearchEnd uint8
 // yok1StrongWolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1StrongWolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1StrongWolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1StrongWolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1StrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *yok1StrongWolfeNWAlphaE1StepFloor) float64 {
+func yok1StrongWolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1StrongWolfeNWAlphaE1Finite(slope) || !yok1StrongWolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := yok1StrongWolfeNWAlphaE1MaxAbs(d)
 	yok1StrongWolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1StrongWolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1StrongWolfeNWAlphaE1Dot(g, d)
-}
-
-// yok1StrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1StrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1StrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1StrongWolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok1StrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			yok1StrongWolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1StrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1StrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1StrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1StrongWolfeNWAlphaE1ScaleBy sets x = c·x.

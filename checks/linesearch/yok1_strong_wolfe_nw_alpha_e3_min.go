@@ -443,6 +443,7 @@ func (r *yok1StrongWolfeNWAlphaE3Descent) judge() {
 		}
 		yok1StrongWolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1StrongWolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1StrongWolfeNWAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func yok1StrongWolfeNWAlphaE3StepScale(xi float64, i int, diffs *yok1StrongWolfe
 // yok1StrongWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeNWAlphaE3Box) {}
 
+// yok1StrongWolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func yok1StrongWolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *yok1StrongWolfeNWAlphaE3Differences) {
+}
+
 // yok1StrongWolfeNWAlphaE3SearchDirection is the direction's own.
 func yok1StrongWolfeNWAlphaE3SearchDirection(dir *yok1StrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaE3Differences) {
 	yok1StrongWolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok1StrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok1
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1StrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1StrongWolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok1StrongWolfeNWAlphaE3Differences) yok1StrongWolfeNWAlphaE3LineResult {
 	if !yok1StrongWolfeNWAlphaE3Finite(slope) {
-		slope = yok1StrongWolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1StrongWolfeNWAlphaE3ShortenAlong is not inlined
+		slope = yok1StrongWolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: yok1StrongWolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := yok1StrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1StrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok1StrongWolfeNWAlphaE3SearchEnd uint8
 // yok1StrongWolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1StrongWolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1StrongWolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1StrongWolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1StrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *yok1StrongWolfeNWAlphaE3StepFloor) float64 {
+func yok1StrongWolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1StrongWolfeNWAlphaE3Finite(slope) || !yok1StrongWolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := yok1StrongWolfeNWAlphaE3MaxAbs(d)
 	yok1StrongWolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1StrongWolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1StrongWolfeNWAlphaE3Dot(g, d)
-}
-
-// yok1StrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1StrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1StrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1StrongWolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok1StrongWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			yok1StrongWolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1StrongWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1StrongWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1StrongWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1StrongWolfeNWAlphaE3ScaleBy sets x = c·x.

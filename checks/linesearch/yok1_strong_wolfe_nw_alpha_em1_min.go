@@ -443,6 +443,7 @@ func (r *yok1StrongWolfeNWAlphaEm1Descent) judge() {
 		}
 		yok1StrongWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1StrongWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1StrongWolfeNWAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func yok1StrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *yok1StrongWolf
 // yok1StrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeNWAlphaEm1Box) {}
 
+// yok1StrongWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func yok1StrongWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *yok1StrongWolfeNWAlphaEm1Differences) {
+}
+
 // yok1StrongWolfeNWAlphaEm1SearchDirection is the direction's own.
 func yok1StrongWolfeNWAlphaEm1SearchDirection(dir *yok1StrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaEm1Differences) {
 	yok1StrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok1StrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1StrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1StrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *yok1StrongWolfeNWAlphaEm1Differences) yok1StrongWolfeNWAlphaEm1LineResult {
 	if !yok1StrongWolfeNWAlphaEm1Finite(slope) {
-		slope = yok1StrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1StrongWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = yok1StrongWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: yok1StrongWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := yok1StrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1StrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok1StrongWolfeNWAlphaEm1SearchEnd uint8
 // yok1StrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1StrongWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1StrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1StrongWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1StrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *yok1StrongWolfeNWAlphaEm1StepFloor) float64 {
+func yok1StrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1StrongWolfeNWAlphaEm1Finite(slope) || !yok1StrongWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := yok1StrongWolfeNWAlphaEm1MaxAbs(d)
 	yok1StrongWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1StrongWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1StrongWolfeNWAlphaEm1Dot(g, d)
-}
-
-// yok1StrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1StrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1StrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1StrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok1StrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			yok1StrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1StrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1StrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1StrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1StrongWolfeNWAlphaEm1ScaleBy sets x = c·x.

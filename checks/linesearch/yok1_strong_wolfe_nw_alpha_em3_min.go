@@ -443,6 +443,7 @@ func (r *yok1StrongWolfeNWAlphaEm3Descent) judge() {
 		}
 		yok1StrongWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1StrongWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1StrongWolfeNWAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func yok1StrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *yok1StrongWolf
 // yok1StrongWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok1StrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok1StrongWolfeNWAlphaEm3Box) {}
 
+// yok1StrongWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func yok1StrongWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences) {
+}
+
 // yok1StrongWolfeNWAlphaEm3SearchDirection is the direction's own.
 func yok1StrongWolfeNWAlphaEm3SearchDirection(dir *yok1StrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences) {
 	yok1StrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok1StrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1StrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1StrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences) yok1StrongWolfeNWAlphaEm3LineResult {
 	if !yok1StrongWolfeNWAlphaEm3Finite(slope) {
-		slope = yok1StrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1StrongWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = yok1StrongWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: yok1StrongWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := yok1StrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1StrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok1StrongWolfeNWAlphaEm3SearchEnd uint8
 // yok1StrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1StrongWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1StrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1StrongWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1StrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *yok1StrongWolfeNWAlphaEm3StepFloor) float64 {
+func yok1StrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1StrongWolfeNWAlphaEm3Finite(slope) || !yok1StrongWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := yok1StrongWolfeNWAlphaEm3MaxAbs(d)
 	yok1StrongWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1StrongWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1StrongWolfeNWAlphaEm3Dot(g, d)
-}
-
-// yok1StrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1StrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1StrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1StrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok1StrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			yok1StrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1StrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1StrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1StrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1StrongWolfeNWAlphaEm3ScaleBy sets x = c·x.

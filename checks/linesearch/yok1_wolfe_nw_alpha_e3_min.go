@@ -443,6 +443,7 @@ func (r *yok1WolfeNWAlphaE3Descent) judge() {
 		}
 		yok1WolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1WolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1WolfeNWAlphaE3OutOfIterations)
@@ -874,6 +875,9 @@ func yok1WolfeNWAlphaE3StepScale(xi float64, i int, diffs *yok1WolfeNWAlphaE3Dif
 // yok1WolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok1WolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok1WolfeNWAlphaE3Box) {}
 
+// yok1WolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func yok1WolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *yok1WolfeNWAlphaE3Differences) {}
+
 // yok1WolfeNWAlphaE3SearchDirection is the direction's own.
 func yok1WolfeNWAlphaE3SearchDirection(dir *yok1WolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *yok1WolfeNWAlphaE3Differences) {
 	yok1WolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok1WolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok1WolfeN
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1WolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1WolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaE3Differences) yok1WolfeNWAlphaE3LineResult {
 	if !yok1WolfeNWAlphaE3Finite(slope) {
-		slope = yok1WolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1WolfeNWAlphaE3ShortenAlong is not inlined
+		slope = yok1WolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: yok1WolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := yok1WolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1WolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok1WolfeNWAlphaE3SearchEnd uint8
 // yok1WolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1WolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1WolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1WolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1WolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *yok1WolfeNWAlphaE3StepFloor) float64 {
+func yok1WolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1WolfeNWAlphaE3Finite(slope) || !yok1WolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := yok1WolfeNWAlphaE3MaxAbs(d)
 	yok1WolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1WolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1WolfeNWAlphaE3Dot(g, d)
-}
-
-// yok1WolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1WolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1WolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1WolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok1WolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			yok1WolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1WolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1WolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1WolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1WolfeNWAlphaE3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *yok1WolfeNWAlphaEm1Descent) judge() {
 		}
 		yok1WolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok1WolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK1WolfeNWAlphaEm1OutOfIterations)
@@ -874,6 +875,9 @@ func yok1WolfeNWAlphaEm1StepScale(xi float64, i int, diffs *yok1WolfeNWAlphaEm1D
 // yok1WolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok1WolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1WolfeNWAlphaEm1Box) {}
 
+// yok1WolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func yok1WolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) {}
+
 // yok1WolfeNWAlphaEm1SearchDirection is the direction's own.
 func yok1WolfeNWAlphaEm1SearchDirection(dir *yok1WolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) {
 	yok1WolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok1WolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *yok1Wolfe
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok1WolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) yok1WolfeNWAlphaEm1LineResult {
 	if !yok1WolfeNWAlphaEm1Finite(slope) {
-		slope = yok1WolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok1WolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = yok1WolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: yok1WolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := yok1WolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1WolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok1WolfeNWAlphaEm1SearchEnd uint8
 // yok1WolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok1WolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok1WolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok1WolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok1WolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *yok1WolfeNWAlphaEm1StepFloor) float64 {
+func yok1WolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok1WolfeNWAlphaEm1Finite(slope) || !yok1WolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := yok1WolfeNWAlphaEm1MaxAbs(d)
 	yok1WolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok1WolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok1WolfeNWAlphaEm1Dot(g, d)
-}
-
-// yok1WolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok1WolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok1WolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok1WolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok1WolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			yok1WolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok1WolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok1WolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok1WolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok1WolfeNWAlphaEm1ScaleBy sets x = c·x.

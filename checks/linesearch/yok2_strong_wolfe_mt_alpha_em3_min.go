@@ -443,6 +443,7 @@ func (r *yok2StrongWolfeMTAlphaEm3Descent) judge() {
 		}
 		yok2StrongWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2StrongWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2StrongWolfeMTAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func yok2StrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *yok2StrongWolf
 // yok2StrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok2StrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok2StrongWolfeMTAlphaEm3Box) {}
 
+// yok2StrongWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func yok2StrongWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *yok2StrongWolfeMTAlphaEm3Differences) {
+}
+
 // yok2StrongWolfeMTAlphaEm3SearchDirection is the direction's own.
 func yok2StrongWolfeMTAlphaEm3SearchDirection(dir *yok2StrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *yok2StrongWolfeMTAlphaEm3Differences) {
 	yok2StrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok2StrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2StrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2StrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok2StrongWolfeMTAlphaEm3Differences) yok2StrongWolfeMTAlphaEm3LineResult {
 	if !yok2StrongWolfeMTAlphaEm3Finite(slope) {
-		slope = yok2StrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2StrongWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = yok2StrongWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: yok2StrongWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := yok2StrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2StrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok2StrongWolfeMTAlphaEm3SearchEnd uint8
 // yok2StrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2StrongWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2StrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2StrongWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2StrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *yok2StrongWolfeMTAlphaEm3StepFloor) float64 {
+func yok2StrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2StrongWolfeMTAlphaEm3Finite(slope) || !yok2StrongWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := yok2StrongWolfeMTAlphaEm3MaxAbs(d)
 	yok2StrongWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2StrongWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2StrongWolfeMTAlphaEm3Dot(g, d)
-}
-
-// yok2StrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2StrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2StrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2StrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok2StrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			yok2StrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2StrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2StrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2StrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2StrongWolfeMTAlphaEm3ScaleBy sets x = c·x.

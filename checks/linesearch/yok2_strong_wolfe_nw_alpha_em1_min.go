@@ -443,6 +443,7 @@ func (r *yok2StrongWolfeNWAlphaEm1Descent) judge() {
 		}
 		yok2StrongWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2StrongWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2StrongWolfeNWAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func yok2StrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *yok2StrongWolf
 // yok2StrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok2StrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok2StrongWolfeNWAlphaEm1Box) {}
 
+// yok2StrongWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func yok2StrongWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *yok2StrongWolfeNWAlphaEm1Differences) {
+}
+
 // yok2StrongWolfeNWAlphaEm1SearchDirection is the direction's own.
 func yok2StrongWolfeNWAlphaEm1SearchDirection(dir *yok2StrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok2StrongWolfeNWAlphaEm1Differences) {
 	yok2StrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok2StrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2StrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2StrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *yok2StrongWolfeNWAlphaEm1Differences) yok2StrongWolfeNWAlphaEm1LineResult {
 	if !yok2StrongWolfeNWAlphaEm1Finite(slope) {
-		slope = yok2StrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2StrongWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = yok2StrongWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: yok2StrongWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := yok2StrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2StrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok2StrongWolfeNWAlphaEm1SearchEnd uint8
 // yok2StrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2StrongWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2StrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2StrongWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2StrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *yok2StrongWolfeNWAlphaEm1StepFloor) float64 {
+func yok2StrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2StrongWolfeNWAlphaEm1Finite(slope) || !yok2StrongWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := yok2StrongWolfeNWAlphaEm1MaxAbs(d)
 	yok2StrongWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2StrongWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2StrongWolfeNWAlphaEm1Dot(g, d)
-}
-
-// yok2StrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2StrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2StrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2StrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok2StrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			yok2StrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2StrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2StrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2StrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2StrongWolfeNWAlphaEm1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *yok2StrongWolfeNWAlphaEm3Descent) judge() {
 		}
 		yok2StrongWolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2StrongWolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2StrongWolfeNWAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func yok2StrongWolfeNWAlphaEm3StepScale(xi float64, i int, diffs *yok2StrongWolf
 // yok2StrongWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok2StrongWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok2StrongWolfeNWAlphaEm3Box) {}
 
+// yok2StrongWolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func yok2StrongWolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *yok2StrongWolfeNWAlphaEm3Differences) {
+}
+
 // yok2StrongWolfeNWAlphaEm3SearchDirection is the direction's own.
 func yok2StrongWolfeNWAlphaEm3SearchDirection(dir *yok2StrongWolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *yok2StrongWolfeNWAlphaEm3Differences) {
 	yok2StrongWolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok2StrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2StrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2StrongWolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok2StrongWolfeNWAlphaEm3Differences) yok2StrongWolfeNWAlphaEm3LineResult {
 	if !yok2StrongWolfeNWAlphaEm3Finite(slope) {
-		slope = yok2StrongWolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2StrongWolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = yok2StrongWolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: yok2StrongWolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := yok2StrongWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2StrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok2StrongWolfeNWAlphaEm3SearchEnd uint8
 // yok2StrongWolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2StrongWolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2StrongWolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2StrongWolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2StrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *yok2StrongWolfeNWAlphaEm3StepFloor) float64 {
+func yok2StrongWolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2StrongWolfeNWAlphaEm3Finite(slope) || !yok2StrongWolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := yok2StrongWolfeNWAlphaEm3MaxAbs(d)
 	yok2StrongWolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2StrongWolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2StrongWolfeNWAlphaEm3Dot(g, d)
-}
-
-// yok2StrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2StrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2StrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2StrongWolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok2StrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			yok2StrongWolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2StrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2StrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2StrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2StrongWolfeNWAlphaEm3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *yok2WolfeMTAlphaE3Descent) judge() {
 		}
 		yok2WolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2WolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2WolfeMTAlphaE3OutOfIterations)
@@ -874,6 +875,9 @@ func yok2WolfeMTAlphaE3StepScale(xi float64, i int, diffs *yok2WolfeMTAlphaE3Dif
 // yok2WolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok2WolfeMTAlphaE3Box) {}
 
+// yok2WolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func yok2WolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *yok2WolfeMTAlphaE3Differences) {}
+
 // yok2WolfeMTAlphaE3SearchDirection is the direction's own.
 func yok2WolfeMTAlphaE3SearchDirection(dir *yok2WolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *yok2WolfeMTAlphaE3Differences) {
 	yok2WolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok2WolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok2WolfeM
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2WolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok2WolfeMTAlphaE3Differences) yok2WolfeMTAlphaE3LineResult {
 	if !yok2WolfeMTAlphaE3Finite(slope) {
-		slope = yok2WolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2WolfeMTAlphaE3ShortenAlong is not inlined
+		slope = yok2WolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: yok2WolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := yok2WolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok2WolfeMTAlphaE3SearchEnd uint8
 // yok2WolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2WolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2WolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2WolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2WolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *yok2WolfeMTAlphaE3StepFloor) float64 {
+func yok2WolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2WolfeMTAlphaE3Finite(slope) || !yok2WolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := yok2WolfeMTAlphaE3MaxAbs(d)
 	yok2WolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2WolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2WolfeMTAlphaE3Dot(g, d)
-}
-
-// yok2WolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2WolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2WolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2WolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok2WolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			yok2WolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2WolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2WolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2WolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2WolfeMTAlphaE3ScaleBy sets x = c·x.

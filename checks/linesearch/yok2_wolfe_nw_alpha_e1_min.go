@@ -443,6 +443,7 @@ func (r *yok2WolfeNWAlphaE1Descent) judge() {
 		}
 		yok2WolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2WolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2WolfeNWAlphaE1OutOfIterations)
@@ -874,6 +875,9 @@ func yok2WolfeNWAlphaE1StepScale(xi float64, i int, diffs *yok2WolfeNWAlphaE1Dif
 // yok2WolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok2WolfeNWAlphaE1Box) {}
 
+// yok2WolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func yok2WolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *yok2WolfeNWAlphaE1Differences) {}
+
 // yok2WolfeNWAlphaE1SearchDirection is the direction's own.
 func yok2WolfeNWAlphaE1SearchDirection(dir *yok2WolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *yok2WolfeNWAlphaE1Differences) {
 	yok2WolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok2WolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok2WolfeN
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2WolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *yok2WolfeNWAlphaE1Differences) yok2WolfeNWAlphaE1LineResult {
 	if !yok2WolfeNWAlphaE1Finite(slope) {
-		slope = yok2WolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2WolfeNWAlphaE1ShortenAlong is not inlined
+		slope = yok2WolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: yok2WolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := yok2WolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok2WolfeNWAlphaE1SearchEnd uint8
 // yok2WolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2WolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2WolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2WolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2WolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *yok2WolfeNWAlphaE1StepFloor) float64 {
+func yok2WolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2WolfeNWAlphaE1Finite(slope) || !yok2WolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := yok2WolfeNWAlphaE1MaxAbs(d)
 	yok2WolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2WolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2WolfeNWAlphaE1Dot(g, d)
-}
-
-// yok2WolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2WolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2WolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2WolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok2WolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			yok2WolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2WolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2WolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2WolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2WolfeNWAlphaE1ScaleBy sets x = c·x.

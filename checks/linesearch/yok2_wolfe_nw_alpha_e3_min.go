@@ -443,6 +443,7 @@ func (r *yok2WolfeNWAlphaE3Descent) judge() {
 		}
 		yok2WolfeNWAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2WolfeNWAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2WolfeNWAlphaE3OutOfIterations)
@@ -874,6 +875,9 @@ func yok2WolfeNWAlphaE3StepScale(xi float64, i int, diffs *yok2WolfeNWAlphaE3Dif
 // yok2WolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok2WolfeNWAlphaE3Box) {}
 
+// yok2WolfeNWAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func yok2WolfeNWAlphaE3LearnCurvature(s, y *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) {}
+
 // yok2WolfeNWAlphaE3SearchDirection is the direction's own.
 func yok2WolfeNWAlphaE3SearchDirection(dir *yok2WolfeNWAlphaE3Direction, x, g, d *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) {
 	yok2WolfeNWAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok2WolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok2WolfeN
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2WolfeNWAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok2WolfeNWAlphaE3Differences) yok2WolfeNWAlphaE3LineResult {
 	if !yok2WolfeNWAlphaE3Finite(slope) {
-		slope = yok2WolfeNWAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2WolfeNWAlphaE3ShortenAlong is not inlined
+		slope = yok2WolfeNWAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: yok2WolfeNWAlphaE3ShortenAlong is not inlined
 	}
 	low := yok2WolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok2WolfeNWAlphaE3SearchEnd uint8
 // yok2WolfeNWAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2WolfeNWAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2WolfeNWAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2WolfeNWAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2WolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *yok2WolfeNWAlphaE3StepFloor) float64 {
+func yok2WolfeNWAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2WolfeNWAlphaE3Finite(slope) || !yok2WolfeNWAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := yok2WolfeNWAlphaE3MaxAbs(d)
 	yok2WolfeNWAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2WolfeNWAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2WolfeNWAlphaE3Dot(g, d)
-}
-
-// yok2WolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2WolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2WolfeNWAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2WolfeNWAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok2WolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 			yok2WolfeNWAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2WolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2WolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2WolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2WolfeNWAlphaE3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *yok2WolfeNWAlphaEm3Descent) judge() {
 		}
 		yok2WolfeNWAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok2WolfeNWAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK2WolfeNWAlphaEm3OutOfIterations)
@@ -874,6 +875,9 @@ func yok2WolfeNWAlphaEm3StepScale(xi float64, i int, diffs *yok2WolfeNWAlphaEm3D
 // yok2WolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok2WolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok2WolfeNWAlphaEm3Box) {}
 
+// yok2WolfeNWAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func yok2WolfeNWAlphaEm3LearnCurvature(s, y *[1]float64, diffs *yok2WolfeNWAlphaEm3Differences) {}
+
 // yok2WolfeNWAlphaEm3SearchDirection is the direction's own.
 func yok2WolfeNWAlphaEm3SearchDirection(dir *yok2WolfeNWAlphaEm3Direction, x, g, d *[1]float64, diffs *yok2WolfeNWAlphaEm3Differences) {
 	yok2WolfeNWAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok2WolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok2Wolfe
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok2WolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok2WolfeNWAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok2WolfeNWAlphaEm3Differences) yok2WolfeNWAlphaEm3LineResult {
 	if !yok2WolfeNWAlphaEm3Finite(slope) {
-		slope = yok2WolfeNWAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok2WolfeNWAlphaEm3ShortenAlong is not inlined
+		slope = yok2WolfeNWAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: yok2WolfeNWAlphaEm3ShortenAlong is not inlined
 	}
 	low := yok2WolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2WolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok2WolfeNWAlphaEm3SearchEnd uint8
 // yok2WolfeNWAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok2WolfeNWAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok2WolfeNWAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok2WolfeNWAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok2WolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *yok2WolfeNWAlphaEm3StepFloor) float64 {
+func yok2WolfeNWAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok2WolfeNWAlphaEm3Finite(slope) || !yok2WolfeNWAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := yok2WolfeNWAlphaEm3MaxAbs(d)
 	yok2WolfeNWAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok2WolfeNWAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok2WolfeNWAlphaEm3Dot(g, d)
-}
-
-// yok2WolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok2WolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok2WolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok2WolfeNWAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok2WolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			yok2WolfeNWAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok2WolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok2WolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok2WolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok2WolfeNWAlphaEm3ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *yok3StrongWolfeMTAlphaE3Descent) judge() {
 		}
 		yok3StrongWolfeMTAlphaE3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok3StrongWolfeMTAlphaE3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK3StrongWolfeMTAlphaE3OutOfIterations)
@@ -874,6 +875,10 @@ func yok3StrongWolfeMTAlphaE3StepScale(xi float64, i int, diffs *yok3StrongWolfe
 // yok3StrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
 func yok3StrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *yok3StrongWolfeMTAlphaE3Box) {}
 
+// yok3StrongWolfeMTAlphaE3LearnCurvature: the direction keeps no model beside its memory.
+func yok3StrongWolfeMTAlphaE3LearnCurvature(s, y *[1]float64, diffs *yok3StrongWolfeMTAlphaE3Differences) {
+}
+
 // yok3StrongWolfeMTAlphaE3SearchDirection is the direction's own.
 func yok3StrongWolfeMTAlphaE3SearchDirection(dir *yok3StrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, diffs *yok3StrongWolfeMTAlphaE3Differences) {
 	yok3StrongWolfeMTAlphaE3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok3StrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok3
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3StrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3StrongWolfeMTAlphaE3StepFloor, budget int, xt, gt *[1]float64, diffs *yok3StrongWolfeMTAlphaE3Differences) yok3StrongWolfeMTAlphaE3LineResult {
 	if !yok3StrongWolfeMTAlphaE3Finite(slope) {
-		slope = yok3StrongWolfeMTAlphaE3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3StrongWolfeMTAlphaE3ShortenAlong is not inlined
+		slope = yok3StrongWolfeMTAlphaE3ShortenAlong(g, d, slope) // the call only where it acts: yok3StrongWolfeMTAlphaE3ShortenAlong is not inlined
 	}
 	low := yok3StrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3StrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok3StrongWolfeMTAlphaE3SearchEnd uint8
 // yok3StrongWolfeMTAlphaE3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok3StrongWolfeMTAlphaE3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok3StrongWolfeMTAlphaE3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok3StrongWolfeMTAlphaE3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok3StrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64, floor *yok3StrongWolfeMTAlphaE3StepFloor) float64 {
+func yok3StrongWolfeMTAlphaE3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok3StrongWolfeMTAlphaE3Finite(slope) || !yok3StrongWolfeMTAlphaE3FiniteVec(d) {
 		return slope
 	}
-	before := yok3StrongWolfeMTAlphaE3MaxAbs(d)
 	yok3StrongWolfeMTAlphaE3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok3StrongWolfeMTAlphaE3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok3StrongWolfeMTAlphaE3Dot(g, d)
-}
-
-// yok3StrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok3StrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok3StrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok3StrongWolfeMTAlphaE3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok3StrongWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 			yok3StrongWolfeMTAlphaE3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok3StrongWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3StrongWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3StrongWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok3StrongWolfeMTAlphaE3ScaleBy sets x = c·x.

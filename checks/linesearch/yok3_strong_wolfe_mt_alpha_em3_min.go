@@ -443,6 +443,7 @@ func (r *yok3StrongWolfeMTAlphaEm3Descent) judge() {
 		}
 		yok3StrongWolfeMTAlphaEm3CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok3StrongWolfeMTAlphaEm3LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK3StrongWolfeMTAlphaEm3OutOfIterations)
@@ -874,6 +875,10 @@ func yok3StrongWolfeMTAlphaEm3StepScale(xi float64, i int, diffs *yok3StrongWolf
 // yok3StrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
 func yok3StrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *yok3StrongWolfeMTAlphaEm3Box) {}
 
+// yok3StrongWolfeMTAlphaEm3LearnCurvature: the direction keeps no model beside its memory.
+func yok3StrongWolfeMTAlphaEm3LearnCurvature(s, y *[1]float64, diffs *yok3StrongWolfeMTAlphaEm3Differences) {
+}
+
 // yok3StrongWolfeMTAlphaEm3SearchDirection is the direction's own.
 func yok3StrongWolfeMTAlphaEm3SearchDirection(dir *yok3StrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, diffs *yok3StrongWolfeMTAlphaEm3Differences) {
 	yok3StrongWolfeMTAlphaEm3SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok3StrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3StrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3StrongWolfeMTAlphaEm3StepFloor, budget int, xt, gt *[1]float64, diffs *yok3StrongWolfeMTAlphaEm3Differences) yok3StrongWolfeMTAlphaEm3LineResult {
 	if !yok3StrongWolfeMTAlphaEm3Finite(slope) {
-		slope = yok3StrongWolfeMTAlphaEm3ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3StrongWolfeMTAlphaEm3ShortenAlong is not inlined
+		slope = yok3StrongWolfeMTAlphaEm3ShortenAlong(g, d, slope) // the call only where it acts: yok3StrongWolfeMTAlphaEm3ShortenAlong is not inlined
 	}
 	low := yok3StrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3StrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok3StrongWolfeMTAlphaEm3SearchEnd uint8
 // yok3StrongWolfeMTAlphaEm3ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok3StrongWolfeMTAlphaEm3ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok3StrongWolfeMTAlphaEm3ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok3StrongWolfeMTAlphaEm3StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok3StrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64, floor *yok3StrongWolfeMTAlphaEm3StepFloor) float64 {
+func yok3StrongWolfeMTAlphaEm3ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok3StrongWolfeMTAlphaEm3Finite(slope) || !yok3StrongWolfeMTAlphaEm3FiniteVec(d) {
 		return slope
 	}
-	before := yok3StrongWolfeMTAlphaEm3MaxAbs(d)
 	yok3StrongWolfeMTAlphaEm3ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok3StrongWolfeMTAlphaEm3MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok3StrongWolfeMTAlphaEm3Dot(g, d)
-}
-
-// yok3StrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func yok3StrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok3StrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok3StrongWolfeMTAlphaEm3ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok3StrongWolfeMTAlphaEm3ShrinkDirection(d, g *[1]float64) {
 			yok3StrongWolfeMTAlphaEm3ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok3StrongWolfeMTAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3StrongWolfeMTAlphaEm3MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3StrongWolfeMTAlphaEm3Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok3StrongWolfeMTAlphaEm3ScaleBy sets x = c·x.

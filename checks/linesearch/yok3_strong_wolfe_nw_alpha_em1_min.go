@@ -443,6 +443,7 @@ func (r *yok3StrongWolfeNWAlphaEm1Descent) judge() {
 		}
 		yok3StrongWolfeNWAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok3StrongWolfeNWAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK3StrongWolfeNWAlphaEm1OutOfIterations)
@@ -874,6 +875,10 @@ func yok3StrongWolfeNWAlphaEm1StepScale(xi float64, i int, diffs *yok3StrongWolf
 // yok3StrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok3StrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok3StrongWolfeNWAlphaEm1Box) {}
 
+// yok3StrongWolfeNWAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func yok3StrongWolfeNWAlphaEm1LearnCurvature(s, y *[1]float64, diffs *yok3StrongWolfeNWAlphaEm1Differences) {
+}
+
 // yok3StrongWolfeNWAlphaEm1SearchDirection is the direction's own.
 func yok3StrongWolfeNWAlphaEm1SearchDirection(dir *yok3StrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, diffs *yok3StrongWolfeNWAlphaEm1Differences) {
 	yok3StrongWolfeNWAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +959,7 @@ func yok3StrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *yok
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3StrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3StrongWolfeNWAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *yok3StrongWolfeNWAlphaEm1Differences) yok3StrongWolfeNWAlphaEm1LineResult {
 	if !yok3StrongWolfeNWAlphaEm1Finite(slope) {
-		slope = yok3StrongWolfeNWAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3StrongWolfeNWAlphaEm1ShortenAlong is not inlined
+		slope = yok3StrongWolfeNWAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: yok3StrongWolfeNWAlphaEm1ShortenAlong is not inlined
 	}
 	low := yok3StrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3StrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1043,16 @@ type yok3StrongWolfeNWAlphaEm1SearchEnd uint8
 // yok3StrongWolfeNWAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok3StrongWolfeNWAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok3StrongWolfeNWAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok3StrongWolfeNWAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok3StrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *yok3StrongWolfeNWAlphaEm1StepFloor) float64 {
+func yok3StrongWolfeNWAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok3StrongWolfeNWAlphaEm1Finite(slope) || !yok3StrongWolfeNWAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := yok3StrongWolfeNWAlphaEm1MaxAbs(d)
 	yok3StrongWolfeNWAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok3StrongWolfeNWAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok3StrongWolfeNWAlphaEm1Dot(g, d)
-}
-
-// yok3StrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok3StrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok3StrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok3StrongWolfeNWAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1067,17 @@ func yok3StrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			yok3StrongWolfeNWAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok3StrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3StrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3StrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok3StrongWolfeNWAlphaEm1ScaleBy sets x = c·x.

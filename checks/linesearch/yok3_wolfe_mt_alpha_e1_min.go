@@ -443,6 +443,7 @@ func (r *yok3WolfeMTAlphaE1Descent) judge() {
 		}
 		yok3WolfeMTAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok3WolfeMTAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK3WolfeMTAlphaE1OutOfIterations)
@@ -874,6 +875,9 @@ func yok3WolfeMTAlphaE1StepScale(xi float64, i int, diffs *yok3WolfeMTAlphaE1Dif
 // yok3WolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok3WolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok3WolfeMTAlphaE1Box) {}
 
+// yok3WolfeMTAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func yok3WolfeMTAlphaE1LearnCurvature(s, y *[1]float64, diffs *yok3WolfeMTAlphaE1Differences) {}
+
 // yok3WolfeMTAlphaE1SearchDirection is the direction's own.
 func yok3WolfeMTAlphaE1SearchDirection(dir *yok3WolfeMTAlphaE1Direction, x, g, d *[1]float64, diffs *yok3WolfeMTAlphaE1Differences) {
 	yok3WolfeMTAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok3WolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok3WolfeM
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3WolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3WolfeMTAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *yok3WolfeMTAlphaE1Differences) yok3WolfeMTAlphaE1LineResult {
 	if !yok3WolfeMTAlphaE1Finite(slope) {
-		slope = yok3WolfeMTAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3WolfeMTAlphaE1ShortenAlong is not inlined
+		slope = yok3WolfeMTAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: yok3WolfeMTAlphaE1ShortenAlong is not inlined
 	}
 	low := yok3WolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3WolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok3WolfeMTAlphaE1SearchEnd uint8
 // yok3WolfeMTAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok3WolfeMTAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok3WolfeMTAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok3WolfeMTAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok3WolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *yok3WolfeMTAlphaE1StepFloor) float64 {
+func yok3WolfeMTAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok3WolfeMTAlphaE1Finite(slope) || !yok3WolfeMTAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := yok3WolfeMTAlphaE1MaxAbs(d)
 	yok3WolfeMTAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok3WolfeMTAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok3WolfeMTAlphaE1Dot(g, d)
-}
-
-// yok3WolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok3WolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok3WolfeMTAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok3WolfeMTAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok3WolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 			yok3WolfeMTAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok3WolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3WolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3WolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok3WolfeMTAlphaE1ScaleBy sets x = c·x.

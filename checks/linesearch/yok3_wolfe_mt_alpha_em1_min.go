@@ -443,6 +443,7 @@ func (r *yok3WolfeMTAlphaEm1Descent) judge() {
 		}
 		yok3WolfeMTAlphaEm1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok3WolfeMTAlphaEm1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK3WolfeMTAlphaEm1OutOfIterations)
@@ -874,6 +875,9 @@ func yok3WolfeMTAlphaEm1StepScale(xi float64, i int, diffs *yok3WolfeMTAlphaEm1D
 // yok3WolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
 func yok3WolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok3WolfeMTAlphaEm1Box) {}
 
+// yok3WolfeMTAlphaEm1LearnCurvature: the direction keeps no model beside its memory.
+func yok3WolfeMTAlphaEm1LearnCurvature(s, y *[1]float64, diffs *yok3WolfeMTAlphaEm1Differences) {}
+
 // yok3WolfeMTAlphaEm1SearchDirection is the direction's own.
 func yok3WolfeMTAlphaEm1SearchDirection(dir *yok3WolfeMTAlphaEm1Direction, x, g, d *[1]float64, diffs *yok3WolfeMTAlphaEm1Differences) {
 	yok3WolfeMTAlphaEm1SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok3WolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *yok3Wolfe
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3WolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3WolfeMTAlphaEm1StepFloor, budget int, xt, gt *[1]float64, diffs *yok3WolfeMTAlphaEm1Differences) yok3WolfeMTAlphaEm1LineResult {
 	if !yok3WolfeMTAlphaEm1Finite(slope) {
-		slope = yok3WolfeMTAlphaEm1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3WolfeMTAlphaEm1ShortenAlong is not inlined
+		slope = yok3WolfeMTAlphaEm1ShortenAlong(g, d, slope) // the call only where it acts: yok3WolfeMTAlphaEm1ShortenAlong is not inlined
 	}
 	low := yok3WolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3WolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok3WolfeMTAlphaEm1SearchEnd uint8
 // yok3WolfeMTAlphaEm1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok3WolfeMTAlphaEm1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok3WolfeMTAlphaEm1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok3WolfeMTAlphaEm1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok3WolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64, floor *yok3WolfeMTAlphaEm1StepFloor) float64 {
+func yok3WolfeMTAlphaEm1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok3WolfeMTAlphaEm1Finite(slope) || !yok3WolfeMTAlphaEm1FiniteVec(d) {
 		return slope
 	}
-	before := yok3WolfeMTAlphaEm1MaxAbs(d)
 	yok3WolfeMTAlphaEm1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok3WolfeMTAlphaEm1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok3WolfeMTAlphaEm1Dot(g, d)
-}
-
-// yok3WolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok3WolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok3WolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok3WolfeMTAlphaEm1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok3WolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 			yok3WolfeMTAlphaEm1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok3WolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3WolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3WolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok3WolfeMTAlphaEm1ScaleBy sets x = c·x.

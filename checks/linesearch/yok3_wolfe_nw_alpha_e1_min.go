@@ -443,6 +443,7 @@ func (r *yok3WolfeNWAlphaE1Descent) judge() {
 		}
 		yok3WolfeNWAlphaE1CurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		yok3WolfeNWAlphaE1LearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(YOK3WolfeNWAlphaE1OutOfIterations)
@@ -874,6 +875,9 @@ func yok3WolfeNWAlphaE1StepScale(xi float64, i int, diffs *yok3WolfeNWAlphaE1Dif
 // yok3WolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
 func yok3WolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *yok3WolfeNWAlphaE1Box) {}
 
+// yok3WolfeNWAlphaE1LearnCurvature: the direction keeps no model beside its memory.
+func yok3WolfeNWAlphaE1LearnCurvature(s, y *[1]float64, diffs *yok3WolfeNWAlphaE1Differences) {}
+
 // yok3WolfeNWAlphaE1SearchDirection is the direction's own.
 func yok3WolfeNWAlphaE1SearchDirection(dir *yok3WolfeNWAlphaE1Direction, x, g, d *[1]float64, diffs *yok3WolfeNWAlphaE1Differences) {
 	yok3WolfeNWAlphaE1SolveDirection(dir, g, d, diffs)
@@ -954,7 +958,7 @@ func yok3WolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok3WolfeN
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func yok3WolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *yok3WolfeNWAlphaE1StepFloor, budget int, xt, gt *[1]float64, diffs *yok3WolfeNWAlphaE1Differences) yok3WolfeNWAlphaE1LineResult {
 	if !yok3WolfeNWAlphaE1Finite(slope) {
-		slope = yok3WolfeNWAlphaE1ShortenAlong(g, d, slope, floor) // the call only where it acts: yok3WolfeNWAlphaE1ShortenAlong is not inlined
+		slope = yok3WolfeNWAlphaE1ShortenAlong(g, d, slope) // the call only where it acts: yok3WolfeNWAlphaE1ShortenAlong is not inlined
 	}
 	low := yok3WolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok3WolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
@@ -1038,30 +1042,16 @@ type yok3WolfeNWAlphaE1SearchEnd uint8
 // yok3WolfeNWAlphaE1ShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (yok3WolfeNWAlphaE1ShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (yok3WolfeNWAlphaE1ShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (yok3WolfeNWAlphaE1StepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func yok3WolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64, floor *yok3WolfeNWAlphaE1StepFloor) float64 {
+func yok3WolfeNWAlphaE1ShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if yok3WolfeNWAlphaE1Finite(slope) || !yok3WolfeNWAlphaE1FiniteVec(d) {
 		return slope
 	}
-	before := yok3WolfeNWAlphaE1MaxAbs(d)
 	yok3WolfeNWAlphaE1ShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / yok3WolfeNWAlphaE1MaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return yok3WolfeNWAlphaE1Dot(g, d)
-}
-
-// yok3WolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func yok3WolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := yok3WolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // yok3WolfeNWAlphaE1ShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1076,6 +1066,17 @@ func yok3WolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 			yok3WolfeNWAlphaE1ScaleBy(d, 1/m)
 		}
 	}
+}
+
+// yok3WolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
+func yok3WolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := yok3WolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // yok3WolfeNWAlphaE1ScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *bealeBFGSAnalyticDescent) judge() {
 		}
 		bealeBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		bealeBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BealeBFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func bealeBFGSAnalyticStepScale(xi float64, i int, diffs *bealeBFGSAnalyticDiffe
 // bealeBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func bealeBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeBFGSAnalyticBox) {}
 
+// bealeBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func bealeBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *bealeBFGSAnalyticDifferences) {}
+
 // bealeBFGSAnalyticSearchDirection is the direction's own.
 func bealeBFGSAnalyticSearchDirection(dir *bealeBFGSAnalyticDirection, x, g, d *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
 	bealeBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSAn
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeBFGSAnalyticDifferences) bealeBFGSAnalyticLineResult {
 	if !bealeBFGSAnalyticFinite(slope) {
-		slope = bealeBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: bealeBFGSAnalyticShortenAlong is not inlined
+		slope = bealeBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: bealeBFGSAnalyticShortenAlong is not inlined
 	}
 	low := bealeBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type bealeBFGSAnalyticSearchEnd uint8
 // bealeBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (bealeBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (bealeBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *bealeBFGSAnalyticStepFloor) float64 {
+func bealeBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if bealeBFGSAnalyticFinite(slope) || !bealeBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := bealeBFGSAnalyticMaxAbs(d)
 	bealeBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / bealeBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return bealeBFGSAnalyticDot(g, d)
-}
-
-// bealeBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // bealeBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func bealeBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			bealeBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// bealeBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // bealeBFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *bealeBFGSCentralDescent) judge() {
 		}
 		bealeBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		bealeBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BealeBFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func bealeBFGSCentralStepScale(xi float64, i int, diffs *bealeBFGSCentralDiffere
 // bealeBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func bealeBFGSCentralCurvaturePair(s, y, x *[2]float64, b *bealeBFGSCentralBox) {}
 
+// bealeBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func bealeBFGSCentralLearnCurvature(s, y *[2]float64, diffs *bealeBFGSCentralDifferences) {}
+
 // bealeBFGSCentralSearchDirection is the direction's own.
 func bealeBFGSCentralSearchDirection(dir *bealeBFGSCentralDirection, x, g, d *[2]float64, diffs *bealeBFGSCentralDifferences) {
 	bealeBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSCen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
 	if !bealeBFGSCentralFinite(slope) {
-		slope = bealeBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: bealeBFGSCentralShortenAlong is not inlined
+		slope = bealeBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: bealeBFGSCentralShortenAlong is not inlined
 	}
 	low := bealeBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type bealeBFGSCentralSearchEnd uint8
 // bealeBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (bealeBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (bealeBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *bealeBFGSCentralStepFloor) float64 {
+func bealeBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if bealeBFGSCentralFinite(slope) || !bealeBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := bealeBFGSCentralMaxAbs(d)
 	bealeBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / bealeBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return bealeBFGSCentralDot(g, d)
-}
-
-// bealeBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // bealeBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func bealeBFGSCentralShrinkDirection(d, g *[2]float64) {
 			bealeBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// bealeBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // bealeBFGSCentralScaleBy sets x = c·x.

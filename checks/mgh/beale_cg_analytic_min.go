@@ -443,6 +443,7 @@ func (r *bealeCGAnalyticDescent) judge() {
 		}
 		bealeCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		bealeCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BealeCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func bealeCGAnalyticStepScale(xi float64, i int, diffs *bealeCGAnalyticDifferenc
 // bealeCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func bealeCGAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeCGAnalyticBox) {}
 
+// bealeCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func bealeCGAnalyticLearnCurvature(s, y *[2]float64, diffs *bealeCGAnalyticDifferences) {}
+
 // bealeCGAnalyticSearchDirection is the direction's own.
 func bealeCGAnalyticSearchDirection(dir *bealeCGAnalyticDirection, x, g, d *[2]float64, diffs *bealeCGAnalyticDifferences) {
 	bealeCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGAnalyt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeCGAnalyticDifferences) bealeCGAnalyticLineResult {
 	if !bealeCGAnalyticFinite(slope) {
-		slope = bealeCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: bealeCGAnalyticShortenAlong is not inlined
+		slope = bealeCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: bealeCGAnalyticShortenAlong is not inlined
 	}
 	low := bealeCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type bealeCGAnalyticSearchEnd uint8
 // bealeCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (bealeCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (bealeCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeCGAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *bealeCGAnalyticStepFloor) float64 {
+func bealeCGAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if bealeCGAnalyticFinite(slope) || !bealeCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := bealeCGAnalyticMaxAbs(d)
 	bealeCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / bealeCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return bealeCGAnalyticDot(g, d)
-}
-
-// bealeCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeCGAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // bealeCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func bealeCGAnalyticShrinkDirection(d, g *[2]float64) {
 			bealeCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// bealeCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // bealeCGAnalyticScaleBy sets x = c·x.

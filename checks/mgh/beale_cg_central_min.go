@@ -443,6 +443,7 @@ func (r *bealeCGCentralDescent) judge() {
 		}
 		bealeCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		bealeCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BealeCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func bealeCGCentralStepScale(xi float64, i int, diffs *bealeCGCentralDifferences
 // bealeCGCentralCurvaturePair: without bounds the pair is used as it is.
 func bealeCGCentralCurvaturePair(s, y, x *[2]float64, b *bealeCGCentralBox) {}
 
+// bealeCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func bealeCGCentralLearnCurvature(s, y *[2]float64, diffs *bealeCGCentralDifferences) {}
+
 // bealeCGCentralSearchDirection is the direction's own.
 func bealeCGCentralSearchDirection(dir *bealeCGCentralDirection, x, g, d *[2]float64, diffs *bealeCGCentralDifferences) {
 	bealeCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func bealeCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGCentral
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
 	if !bealeCGCentralFinite(slope) {
-		slope = bealeCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: bealeCGCentralShortenAlong is not inlined
+		slope = bealeCGCentralShortenAlong(g, d, slope) // the call only where it acts: bealeCGCentralShortenAlong is not inlined
 	}
 	low := bealeCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type bealeCGCentralSearchEnd uint8
 // bealeCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (bealeCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (bealeCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeCGCentralShortenAlong(g, d *[2]float64, slope float64, floor *bealeCGCentralStepFloor) float64 {
+func bealeCGCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if bealeCGCentralFinite(slope) || !bealeCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := bealeCGCentralMaxAbs(d)
 	bealeCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / bealeCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return bealeCGCentralDot(g, d)
-}
-
-// bealeCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeCGCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // bealeCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func bealeCGCentralShrinkDirection(d, g *[2]float64) {
 			bealeCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// bealeCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // bealeCGCentralScaleBy sets x = c·x.

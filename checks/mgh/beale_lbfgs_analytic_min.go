@@ -444,6 +444,7 @@ func (r *bealeLBFGSAnalyticDescent) judge() {
 		}
 		bealeLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		bealeLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BealeLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func bealeLBFGSAnalyticStepScale(xi float64, i int, diffs *bealeLBFGSAnalyticDif
 // bealeLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func bealeLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeLBFGSAnalyticBox) {}
 
+// bealeLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func bealeLBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {}
+
 // bealeLBFGSAnalyticSearchDirection is the direction's own.
 func bealeLBFGSAnalyticSearchDirection(dir *bealeLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
 	bealeLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGS
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
 	if !bealeLBFGSAnalyticFinite(slope) {
-		slope = bealeLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: bealeLBFGSAnalyticShortenAlong is not inlined
+		slope = bealeLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: bealeLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := bealeLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type bealeLBFGSAnalyticSearchEnd uint8
 // bealeLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (bealeLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (bealeLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *bealeLBFGSAnalyticStepFloor) float64 {
+func bealeLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if bealeLBFGSAnalyticFinite(slope) || !bealeLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := bealeLBFGSAnalyticMaxAbs(d)
 	bealeLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / bealeLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return bealeLBFGSAnalyticDot(g, d)
-}
-
-// bealeLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // bealeLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func bealeLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			bealeLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// bealeLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // bealeLBFGSAnalyticScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *bealeLBFGSCentralDescent) judge() {
 		}
 		bealeLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		bealeLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BealeLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func bealeLBFGSCentralStepScale(xi float64, i int, diffs *bealeLBFGSCentralDiffe
 // bealeLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func bealeLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *bealeLBFGSCentralBox) {}
 
+// bealeLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func bealeLBFGSCentralLearnCurvature(s, y *[2]float64, diffs *bealeLBFGSCentralDifferences) {}
+
 // bealeLBFGSCentralSearchDirection is the direction's own.
 func bealeLBFGSCentralSearchDirection(dir *bealeLBFGSCentralDirection, x, g, d *[2]float64, diffs *bealeLBFGSCentralDifferences) {
 	bealeLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSC
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *bealeLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *bealeLBFGSCentralDifferences) bealeLBFGSCentralLineResult {
 	if !bealeLBFGSCentralFinite(slope) {
-		slope = bealeLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: bealeLBFGSCentralShortenAlong is not inlined
+		slope = bealeLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: bealeLBFGSCentralShortenAlong is not inlined
 	}
 	low := bealeLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type bealeLBFGSCentralSearchEnd uint8
 // bealeLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (bealeLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (bealeLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (bealeLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func bealeLBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *bealeLBFGSCentralStepFloor) float64 {
+func bealeLBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if bealeLBFGSCentralFinite(slope) || !bealeLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := bealeLBFGSCentralMaxAbs(d)
 	bealeLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / bealeLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return bealeLBFGSCentralDot(g, d)
-}
-
-// bealeLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeLBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // bealeLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func bealeLBFGSCentralShrinkDirection(d, g *[2]float64) {
 			bealeLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// bealeLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func bealeLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := bealeLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // bealeLBFGSCentralScaleBy sets x = c·x.

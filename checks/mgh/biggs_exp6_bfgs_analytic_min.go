@@ -443,6 +443,7 @@ func (r *biggsEXP6BFGSAnalyticDescent) judge() {
 		}
 		biggsEXP6BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		biggsEXP6BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BiggsEXP6BFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func biggsEXP6BFGSAnalyticStepScale(xi float64, i int, diffs *biggsEXP6BFGSAnaly
 // biggsEXP6BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6BFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6BFGSAnalyticBox) {}
 
+// biggsEXP6BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func biggsEXP6BFGSAnalyticLearnCurvature(s, y *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {}
+
 // biggsEXP6BFGSAnalyticSearchDirection is the direction's own.
 func biggsEXP6BFGSAnalyticSearchDirection(dir *biggsEXP6BFGSAnalyticDirection, x, g, d *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {
 	biggsEXP6BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEX
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6BFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) biggsEXP6BFGSAnalyticLineResult {
 	if !biggsEXP6BFGSAnalyticFinite(slope) {
-		slope = biggsEXP6BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6BFGSAnalyticShortenAlong is not inlined
+		slope = biggsEXP6BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: biggsEXP6BFGSAnalyticShortenAlong is not inlined
 	}
 	low := biggsEXP6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type biggsEXP6BFGSAnalyticSearchEnd uint8
 // biggsEXP6BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (biggsEXP6BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (biggsEXP6BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6BFGSAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6BFGSAnalyticStepFloor) float64 {
+func biggsEXP6BFGSAnalyticShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if biggsEXP6BFGSAnalyticFinite(slope) || !biggsEXP6BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := biggsEXP6BFGSAnalyticMaxAbs(d)
 	biggsEXP6BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / biggsEXP6BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return biggsEXP6BFGSAnalyticDot(g, d)
-}
-
-// biggsEXP6BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func biggsEXP6BFGSAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := biggsEXP6BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // biggsEXP6BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func biggsEXP6BFGSAnalyticShrinkDirection(d, g *[6]float64) {
 			biggsEXP6BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// biggsEXP6BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6BFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // biggsEXP6BFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *biggsEXP6BFGSCentralDescent) judge() {
 		}
 		biggsEXP6BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		biggsEXP6BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BiggsEXP6BFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func biggsEXP6BFGSCentralStepScale(xi float64, i int, diffs *biggsEXP6BFGSCentra
 // biggsEXP6BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6BFGSCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6BFGSCentralBox) {}
 
+// biggsEXP6BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func biggsEXP6BFGSCentralLearnCurvature(s, y *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {}
+
 // biggsEXP6BFGSCentralSearchDirection is the direction's own.
 func biggsEXP6BFGSCentralSearchDirection(dir *biggsEXP6BFGSCentralDirection, x, g, d *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
 	biggsEXP6BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6BFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) biggsEXP6BFGSCentralLineResult {
 	if !biggsEXP6BFGSCentralFinite(slope) {
-		slope = biggsEXP6BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6BFGSCentralShortenAlong is not inlined
+		slope = biggsEXP6BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: biggsEXP6BFGSCentralShortenAlong is not inlined
 	}
 	low := biggsEXP6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type biggsEXP6BFGSCentralSearchEnd uint8
 // biggsEXP6BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (biggsEXP6BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (biggsEXP6BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6BFGSCentralShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6BFGSCentralStepFloor) float64 {
+func biggsEXP6BFGSCentralShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if biggsEXP6BFGSCentralFinite(slope) || !biggsEXP6BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := biggsEXP6BFGSCentralMaxAbs(d)
 	biggsEXP6BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / biggsEXP6BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return biggsEXP6BFGSCentralDot(g, d)
-}
-
-// biggsEXP6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func biggsEXP6BFGSCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := biggsEXP6BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // biggsEXP6BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func biggsEXP6BFGSCentralShrinkDirection(d, g *[6]float64) {
 			biggsEXP6BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// biggsEXP6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6BFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // biggsEXP6BFGSCentralScaleBy sets x = c·x.

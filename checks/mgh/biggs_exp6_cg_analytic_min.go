@@ -443,6 +443,7 @@ func (r *biggsEXP6CGAnalyticDescent) judge() {
 		}
 		biggsEXP6CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		biggsEXP6CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BiggsEXP6CGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func biggsEXP6CGAnalyticStepScale(xi float64, i int, diffs *biggsEXP6CGAnalyticD
 // biggsEXP6CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6CGAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6CGAnalyticBox) {}
 
+// biggsEXP6CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func biggsEXP6CGAnalyticLearnCurvature(s, y *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {}
+
 // biggsEXP6CGAnalyticSearchDirection is the direction's own.
 func biggsEXP6CGAnalyticSearchDirection(dir *biggsEXP6CGAnalyticDirection, x, g, d *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
 	biggsEXP6CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6CGAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
 	if !biggsEXP6CGAnalyticFinite(slope) {
-		slope = biggsEXP6CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6CGAnalyticShortenAlong is not inlined
+		slope = biggsEXP6CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: biggsEXP6CGAnalyticShortenAlong is not inlined
 	}
 	low := biggsEXP6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type biggsEXP6CGAnalyticSearchEnd uint8
 // biggsEXP6CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (biggsEXP6CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (biggsEXP6CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6CGAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6CGAnalyticStepFloor) float64 {
+func biggsEXP6CGAnalyticShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if biggsEXP6CGAnalyticFinite(slope) || !biggsEXP6CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := biggsEXP6CGAnalyticMaxAbs(d)
 	biggsEXP6CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / biggsEXP6CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return biggsEXP6CGAnalyticDot(g, d)
-}
-
-// biggsEXP6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func biggsEXP6CGAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := biggsEXP6CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // biggsEXP6CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func biggsEXP6CGAnalyticShrinkDirection(d, g *[6]float64) {
 			biggsEXP6CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// biggsEXP6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6CGAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // biggsEXP6CGAnalyticScaleBy sets x = c·x.

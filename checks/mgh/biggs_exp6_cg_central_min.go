@@ -443,6 +443,7 @@ func (r *biggsEXP6CGCentralDescent) judge() {
 		}
 		biggsEXP6CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		biggsEXP6CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BiggsEXP6CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func biggsEXP6CGCentralStepScale(xi float64, i int, diffs *biggsEXP6CGCentralDif
 // biggsEXP6CGCentralCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6CGCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6CGCentralBox) {}
 
+// biggsEXP6CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func biggsEXP6CGCentralLearnCurvature(s, y *[6]float64, diffs *biggsEXP6CGCentralDifferences) {}
+
 // biggsEXP6CGCentralSearchDirection is the direction's own.
 func biggsEXP6CGCentralSearchDirection(dir *biggsEXP6CGCentralDirection, x, g, d *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
 	biggsEXP6CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6C
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6CGCentralStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGCentralDifferences) biggsEXP6CGCentralLineResult {
 	if !biggsEXP6CGCentralFinite(slope) {
-		slope = biggsEXP6CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6CGCentralShortenAlong is not inlined
+		slope = biggsEXP6CGCentralShortenAlong(g, d, slope) // the call only where it acts: biggsEXP6CGCentralShortenAlong is not inlined
 	}
 	low := biggsEXP6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type biggsEXP6CGCentralSearchEnd uint8
 // biggsEXP6CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (biggsEXP6CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (biggsEXP6CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6CGCentralShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6CGCentralStepFloor) float64 {
+func biggsEXP6CGCentralShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if biggsEXP6CGCentralFinite(slope) || !biggsEXP6CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := biggsEXP6CGCentralMaxAbs(d)
 	biggsEXP6CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / biggsEXP6CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return biggsEXP6CGCentralDot(g, d)
-}
-
-// biggsEXP6CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func biggsEXP6CGCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := biggsEXP6CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // biggsEXP6CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func biggsEXP6CGCentralShrinkDirection(d, g *[6]float64) {
 			biggsEXP6CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// biggsEXP6CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6CGCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // biggsEXP6CGCentralScaleBy sets x = c·x.

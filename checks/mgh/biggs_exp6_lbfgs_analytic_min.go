@@ -444,6 +444,7 @@ func (r *biggsEXP6LBFGSAnalyticDescent) judge() {
 		}
 		biggsEXP6LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		biggsEXP6LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BiggsEXP6LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func biggsEXP6LBFGSAnalyticStepScale(xi float64, i int, diffs *biggsEXP6LBFGSAna
 // biggsEXP6LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6LBFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {}
 
+// biggsEXP6LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func biggsEXP6LBFGSAnalyticLearnCurvature(s, y *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
+}
+
 // biggsEXP6LBFGSAnalyticSearchDirection is the direction's own.
 func biggsEXP6LBFGSAnalyticSearchDirection(dir *biggsEXP6LBFGSAnalyticDirection, x, g, d *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
 	biggsEXP6LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsE
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6LBFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) biggsEXP6LBFGSAnalyticLineResult {
 	if !biggsEXP6LBFGSAnalyticFinite(slope) {
-		slope = biggsEXP6LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6LBFGSAnalyticShortenAlong is not inlined
+		slope = biggsEXP6LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: biggsEXP6LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := biggsEXP6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type biggsEXP6LBFGSAnalyticSearchEnd uint8
 // biggsEXP6LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (biggsEXP6LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (biggsEXP6LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6LBFGSAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6LBFGSAnalyticStepFloor) float64 {
+func biggsEXP6LBFGSAnalyticShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if biggsEXP6LBFGSAnalyticFinite(slope) || !biggsEXP6LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := biggsEXP6LBFGSAnalyticMaxAbs(d)
 	biggsEXP6LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / biggsEXP6LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return biggsEXP6LBFGSAnalyticDot(g, d)
-}
-
-// biggsEXP6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func biggsEXP6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := biggsEXP6LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // biggsEXP6LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func biggsEXP6LBFGSAnalyticShrinkDirection(d, g *[6]float64) {
 			biggsEXP6LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// biggsEXP6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // biggsEXP6LBFGSAnalyticScaleBy sets x = c·x.

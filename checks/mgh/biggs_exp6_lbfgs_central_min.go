@@ -444,6 +444,7 @@ func (r *biggsEXP6LBFGSCentralDescent) judge() {
 		}
 		biggsEXP6LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		biggsEXP6LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BiggsEXP6LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func biggsEXP6LBFGSCentralStepScale(xi float64, i int, diffs *biggsEXP6LBFGSCent
 // biggsEXP6LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func biggsEXP6LBFGSCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6LBFGSCentralBox) {}
 
+// biggsEXP6LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func biggsEXP6LBFGSCentralLearnCurvature(s, y *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {}
+
 // biggsEXP6LBFGSCentralSearchDirection is the direction's own.
 func biggsEXP6LBFGSCentralSearchDirection(dir *biggsEXP6LBFGSCentralDirection, x, g, d *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
 	biggsEXP6LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEX
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *biggsEXP6LBFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) biggsEXP6LBFGSCentralLineResult {
 	if !biggsEXP6LBFGSCentralFinite(slope) {
-		slope = biggsEXP6LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: biggsEXP6LBFGSCentralShortenAlong is not inlined
+		slope = biggsEXP6LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: biggsEXP6LBFGSCentralShortenAlong is not inlined
 	}
 	low := biggsEXP6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type biggsEXP6LBFGSCentralSearchEnd uint8
 // biggsEXP6LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (biggsEXP6LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (biggsEXP6LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (biggsEXP6LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func biggsEXP6LBFGSCentralShortenAlong(g, d *[6]float64, slope float64, floor *biggsEXP6LBFGSCentralStepFloor) float64 {
+func biggsEXP6LBFGSCentralShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if biggsEXP6LBFGSCentralFinite(slope) || !biggsEXP6LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := biggsEXP6LBFGSCentralMaxAbs(d)
 	biggsEXP6LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / biggsEXP6LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return biggsEXP6LBFGSCentralDot(g, d)
-}
-
-// biggsEXP6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func biggsEXP6LBFGSCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := biggsEXP6LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // biggsEXP6LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func biggsEXP6LBFGSCentralShrinkDirection(d, g *[6]float64) {
 			biggsEXP6LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// biggsEXP6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func biggsEXP6LBFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := biggsEXP6LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // biggsEXP6LBFGSCentralScaleBy sets x = c·x.

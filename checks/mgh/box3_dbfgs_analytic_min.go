@@ -443,6 +443,7 @@ func (r *box3DBFGSAnalyticDescent) judge() {
 		}
 		box3DBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		box3DBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Box3DBFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func box3DBFGSAnalyticStepScale(xi float64, i int, diffs *box3DBFGSAnalyticDiffe
 // box3DBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func box3DBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DBFGSAnalyticBox) {}
 
+// box3DBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func box3DBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *box3DBFGSAnalyticDifferences) {}
+
 // box3DBFGSAnalyticSearchDirection is the direction's own.
 func box3DBFGSAnalyticSearchDirection(dir *box3DBFGSAnalyticDirection, x, g, d *[3]float64, diffs *box3DBFGSAnalyticDifferences) {
 	box3DBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DBFGSAn
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *box3DBFGSAnalyticDifferences) box3DBFGSAnalyticLineResult {
 	if !box3DBFGSAnalyticFinite(slope) {
-		slope = box3DBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: box3DBFGSAnalyticShortenAlong is not inlined
+		slope = box3DBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: box3DBFGSAnalyticShortenAlong is not inlined
 	}
 	low := box3DBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type box3DBFGSAnalyticSearchEnd uint8
 // box3DBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (box3DBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (box3DBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *box3DBFGSAnalyticStepFloor) float64 {
+func box3DBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if box3DBFGSAnalyticFinite(slope) || !box3DBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := box3DBFGSAnalyticMaxAbs(d)
 	box3DBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / box3DBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return box3DBFGSAnalyticDot(g, d)
-}
-
-// box3DBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // box3DBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func box3DBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			box3DBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// box3DBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // box3DBFGSAnalyticScaleBy sets x = c·x.

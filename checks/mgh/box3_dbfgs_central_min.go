@@ -443,6 +443,7 @@ func (r *box3DBFGSCentralDescent) judge() {
 		}
 		box3DBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		box3DBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Box3DBFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func box3DBFGSCentralStepScale(xi float64, i int, diffs *box3DBFGSCentralDiffere
 // box3DBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func box3DBFGSCentralCurvaturePair(s, y, x *[3]float64, b *box3DBFGSCentralBox) {}
 
+// box3DBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func box3DBFGSCentralLearnCurvature(s, y *[3]float64, diffs *box3DBFGSCentralDifferences) {}
+
 // box3DBFGSCentralSearchDirection is the direction's own.
 func box3DBFGSCentralSearchDirection(dir *box3DBFGSCentralDirection, x, g, d *[3]float64, diffs *box3DBFGSCentralDifferences) {
 	box3DBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DBFGSCen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
 	if !box3DBFGSCentralFinite(slope) {
-		slope = box3DBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: box3DBFGSCentralShortenAlong is not inlined
+		slope = box3DBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: box3DBFGSCentralShortenAlong is not inlined
 	}
 	low := box3DBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type box3DBFGSCentralSearchEnd uint8
 // box3DBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (box3DBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (box3DBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *box3DBFGSCentralStepFloor) float64 {
+func box3DBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if box3DBFGSCentralFinite(slope) || !box3DBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := box3DBFGSCentralMaxAbs(d)
 	box3DBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / box3DBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return box3DBFGSCentralDot(g, d)
-}
-
-// box3DBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // box3DBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func box3DBFGSCentralShrinkDirection(d, g *[3]float64) {
 			box3DBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// box3DBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // box3DBFGSCentralScaleBy sets x = c·x.

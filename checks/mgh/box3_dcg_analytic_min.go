@@ -443,6 +443,7 @@ func (r *box3DCGAnalyticDescent) judge() {
 		}
 		box3DCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		box3DCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Box3DCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func box3DCGAnalyticStepScale(xi float64, i int, diffs *box3DCGAnalyticDifferenc
 // box3DCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func box3DCGAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DCGAnalyticBox) {}
 
+// box3DCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func box3DCGAnalyticLearnCurvature(s, y *[3]float64, diffs *box3DCGAnalyticDifferences) {}
+
 // box3DCGAnalyticSearchDirection is the direction's own.
 func box3DCGAnalyticSearchDirection(dir *box3DCGAnalyticDirection, x, g, d *[3]float64, diffs *box3DCGAnalyticDifferences) {
 	box3DCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGAnalyt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *box3DCGAnalyticDifferences) box3DCGAnalyticLineResult {
 	if !box3DCGAnalyticFinite(slope) {
-		slope = box3DCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: box3DCGAnalyticShortenAlong is not inlined
+		slope = box3DCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: box3DCGAnalyticShortenAlong is not inlined
 	}
 	low := box3DCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type box3DCGAnalyticSearchEnd uint8
 // box3DCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (box3DCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (box3DCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DCGAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *box3DCGAnalyticStepFloor) float64 {
+func box3DCGAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if box3DCGAnalyticFinite(slope) || !box3DCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := box3DCGAnalyticMaxAbs(d)
 	box3DCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / box3DCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return box3DCGAnalyticDot(g, d)
-}
-
-// box3DCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DCGAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // box3DCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func box3DCGAnalyticShrinkDirection(d, g *[3]float64) {
 			box3DCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// box3DCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // box3DCGAnalyticScaleBy sets x = c·x.

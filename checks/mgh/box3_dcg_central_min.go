@@ -443,6 +443,7 @@ func (r *box3DCGCentralDescent) judge() {
 		}
 		box3DCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		box3DCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Box3DCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func box3DCGCentralStepScale(xi float64, i int, diffs *box3DCGCentralDifferences
 // box3DCGCentralCurvaturePair: without bounds the pair is used as it is.
 func box3DCGCentralCurvaturePair(s, y, x *[3]float64, b *box3DCGCentralBox) {}
 
+// box3DCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func box3DCGCentralLearnCurvature(s, y *[3]float64, diffs *box3DCGCentralDifferences) {}
+
 // box3DCGCentralSearchDirection is the direction's own.
 func box3DCGCentralSearchDirection(dir *box3DCGCentralDirection, x, g, d *[3]float64, diffs *box3DCGCentralDifferences) {
 	box3DCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func box3DCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DCGCentral
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
 	if !box3DCGCentralFinite(slope) {
-		slope = box3DCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: box3DCGCentralShortenAlong is not inlined
+		slope = box3DCGCentralShortenAlong(g, d, slope) // the call only where it acts: box3DCGCentralShortenAlong is not inlined
 	}
 	low := box3DCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type box3DCGCentralSearchEnd uint8
 // box3DCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (box3DCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (box3DCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DCGCentralShortenAlong(g, d *[3]float64, slope float64, floor *box3DCGCentralStepFloor) float64 {
+func box3DCGCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if box3DCGCentralFinite(slope) || !box3DCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := box3DCGCentralMaxAbs(d)
 	box3DCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / box3DCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return box3DCGCentralDot(g, d)
-}
-
-// box3DCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DCGCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // box3DCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func box3DCGCentralShrinkDirection(d, g *[3]float64) {
 			box3DCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// box3DCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // box3DCGCentralScaleBy sets x = c·x.

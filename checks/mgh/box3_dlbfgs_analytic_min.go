@@ -444,6 +444,7 @@ func (r *box3DLBFGSAnalyticDescent) judge() {
 		}
 		box3DLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		box3DLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Box3DLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func box3DLBFGSAnalyticStepScale(xi float64, i int, diffs *box3DLBFGSAnalyticDif
 // box3DLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func box3DLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DLBFGSAnalyticBox) {}
 
+// box3DLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func box3DLBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {}
+
 // box3DLBFGSAnalyticSearchDirection is the direction's own.
 func box3DLBFGSAnalyticSearchDirection(dir *box3DLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
 	box3DLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGS
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *box3DLBFGSAnalyticDifferences) box3DLBFGSAnalyticLineResult {
 	if !box3DLBFGSAnalyticFinite(slope) {
-		slope = box3DLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: box3DLBFGSAnalyticShortenAlong is not inlined
+		slope = box3DLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: box3DLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := box3DLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type box3DLBFGSAnalyticSearchEnd uint8
 // box3DLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (box3DLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (box3DLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *box3DLBFGSAnalyticStepFloor) float64 {
+func box3DLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if box3DLBFGSAnalyticFinite(slope) || !box3DLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := box3DLBFGSAnalyticMaxAbs(d)
 	box3DLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / box3DLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return box3DLBFGSAnalyticDot(g, d)
-}
-
-// box3DLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // box3DLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func box3DLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			box3DLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// box3DLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // box3DLBFGSAnalyticScaleBy sets x = c·x.

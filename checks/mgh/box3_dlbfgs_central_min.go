@@ -444,6 +444,7 @@ func (r *box3DLBFGSCentralDescent) judge() {
 		}
 		box3DLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		box3DLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Box3DLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func box3DLBFGSCentralStepScale(xi float64, i int, diffs *box3DLBFGSCentralDiffe
 // box3DLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func box3DLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *box3DLBFGSCentralBox) {}
 
+// box3DLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func box3DLBFGSCentralLearnCurvature(s, y *[3]float64, diffs *box3DLBFGSCentralDifferences) {}
+
 // box3DLBFGSCentralSearchDirection is the direction's own.
 func box3DLBFGSCentralSearchDirection(dir *box3DLBFGSCentralDirection, x, g, d *[3]float64, diffs *box3DLBFGSCentralDifferences) {
 	box3DLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGSC
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *box3DLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
 	if !box3DLBFGSCentralFinite(slope) {
-		slope = box3DLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: box3DLBFGSCentralShortenAlong is not inlined
+		slope = box3DLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: box3DLBFGSCentralShortenAlong is not inlined
 	}
 	low := box3DLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type box3DLBFGSCentralSearchEnd uint8
 // box3DLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (box3DLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (box3DLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (box3DLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func box3DLBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *box3DLBFGSCentralStepFloor) float64 {
+func box3DLBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if box3DLBFGSCentralFinite(slope) || !box3DLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := box3DLBFGSCentralMaxAbs(d)
 	box3DLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / box3DLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return box3DLBFGSCentralDot(g, d)
-}
-
-// box3DLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DLBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // box3DLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func box3DLBFGSCentralShrinkDirection(d, g *[3]float64) {
 			box3DLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// box3DLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func box3DLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := box3DLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // box3DLBFGSCentralScaleBy sets x = c·x.

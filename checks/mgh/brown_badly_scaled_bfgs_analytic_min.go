@@ -443,6 +443,7 @@ func (r *brownBadlyScaledBFGSAnalyticDescent) judge() {
 		}
 		brownBadlyScaledBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownBadlyScaledBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownBadlyScaledBFGSAnalyticOutOfIterations)
@@ -908,6 +909,10 @@ func brownBadlyScaledBFGSAnalyticStepScale(xi float64, i int, diffs *brownBadlyS
 func brownBadlyScaledBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {
 }
 
+// brownBadlyScaledBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func brownBadlyScaledBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
+}
+
 // brownBadlyScaledBFGSAnalyticSearchDirection is the direction's own.
 func brownBadlyScaledBFGSAnalyticSearchDirection(dir *brownBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
 	brownBadlyScaledBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -979,7 +984,7 @@ func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
 	if !brownBadlyScaledBFGSAnalyticFinite(slope) {
-		slope = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledBFGSAnalyticShortenAlong is not inlined
+		slope = brownBadlyScaledBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: brownBadlyScaledBFGSAnalyticShortenAlong is not inlined
 	}
 	low := brownBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1063,30 +1068,16 @@ type brownBadlyScaledBFGSAnalyticSearchEnd uint8
 // brownBadlyScaledBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownBadlyScaledBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledBFGSAnalyticStepFloor) float64 {
+func brownBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if brownBadlyScaledBFGSAnalyticFinite(slope) || !brownBadlyScaledBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := brownBadlyScaledBFGSAnalyticMaxAbs(d)
 	brownBadlyScaledBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownBadlyScaledBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownBadlyScaledBFGSAnalyticDot(g, d)
-}
-
-// brownBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownBadlyScaledBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1101,6 +1092,17 @@ func brownBadlyScaledBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			brownBadlyScaledBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownBadlyScaledBFGSAnalyticScaleBy sets x = c·x.

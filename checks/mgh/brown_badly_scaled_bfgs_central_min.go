@@ -443,6 +443,7 @@ func (r *brownBadlyScaledBFGSCentralDescent) judge() {
 		}
 		brownBadlyScaledBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownBadlyScaledBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownBadlyScaledBFGSCentralOutOfIterations)
@@ -1087,6 +1088,10 @@ func brownBadlyScaledBFGSCentralStepScale(xi float64, i int, diffs *brownBadlySc
 func brownBadlyScaledBFGSCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledBFGSCentralBox) {
 }
 
+// brownBadlyScaledBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func brownBadlyScaledBFGSCentralLearnCurvature(s, y *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
+}
+
 // brownBadlyScaledBFGSCentralSearchDirection is the direction's own.
 func brownBadlyScaledBFGSCentralSearchDirection(dir *brownBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
 	brownBadlyScaledBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1158,7 +1163,7 @@ func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *b
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) brownBadlyScaledBFGSCentralLineResult {
 	if !brownBadlyScaledBFGSCentralFinite(slope) {
-		slope = brownBadlyScaledBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledBFGSCentralShortenAlong is not inlined
+		slope = brownBadlyScaledBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: brownBadlyScaledBFGSCentralShortenAlong is not inlined
 	}
 	low := brownBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1242,30 +1247,16 @@ type brownBadlyScaledBFGSCentralSearchEnd uint8
 // brownBadlyScaledBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownBadlyScaledBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledBFGSCentralStepFloor) float64 {
+func brownBadlyScaledBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if brownBadlyScaledBFGSCentralFinite(slope) || !brownBadlyScaledBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := brownBadlyScaledBFGSCentralMaxAbs(d)
 	brownBadlyScaledBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownBadlyScaledBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownBadlyScaledBFGSCentralDot(g, d)
-}
-
-// brownBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownBadlyScaledBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1280,6 +1271,17 @@ func brownBadlyScaledBFGSCentralShrinkDirection(d, g *[2]float64) {
 			brownBadlyScaledBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownBadlyScaledBFGSCentralScaleBy sets x = c·x.

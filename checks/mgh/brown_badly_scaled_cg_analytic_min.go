@@ -443,6 +443,7 @@ func (r *brownBadlyScaledCGAnalyticDescent) judge() {
 		}
 		brownBadlyScaledCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownBadlyScaledCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownBadlyScaledCGAnalyticOutOfIterations)
@@ -898,6 +899,10 @@ func brownBadlyScaledCGAnalyticStepScale(xi float64, i int, diffs *brownBadlySca
 // brownBadlyScaledCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownBadlyScaledCGAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledCGAnalyticBox) {}
 
+// brownBadlyScaledCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func brownBadlyScaledCGAnalyticLearnCurvature(s, y *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
+}
+
 // brownBadlyScaledCGAnalyticSearchDirection is the direction's own.
 func brownBadlyScaledCGAnalyticSearchDirection(dir *brownBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
 	brownBadlyScaledCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +974,7 @@ func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *br
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) brownBadlyScaledCGAnalyticLineResult {
 	if !brownBadlyScaledCGAnalyticFinite(slope) {
-		slope = brownBadlyScaledCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledCGAnalyticShortenAlong is not inlined
+		slope = brownBadlyScaledCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: brownBadlyScaledCGAnalyticShortenAlong is not inlined
 	}
 	low := brownBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1058,16 @@ type brownBadlyScaledCGAnalyticSearchEnd uint8
 // brownBadlyScaledCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownBadlyScaledCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledCGAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledCGAnalyticStepFloor) float64 {
+func brownBadlyScaledCGAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if brownBadlyScaledCGAnalyticFinite(slope) || !brownBadlyScaledCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := brownBadlyScaledCGAnalyticMaxAbs(d)
 	brownBadlyScaledCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownBadlyScaledCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownBadlyScaledCGAnalyticDot(g, d)
-}
-
-// brownBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownBadlyScaledCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1082,17 @@ func brownBadlyScaledCGAnalyticShrinkDirection(d, g *[2]float64) {
 			brownBadlyScaledCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownBadlyScaledCGAnalyticScaleBy sets x = c·x.

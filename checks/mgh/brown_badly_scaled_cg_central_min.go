@@ -443,6 +443,7 @@ func (r *brownBadlyScaledCGCentralDescent) judge() {
 		}
 		brownBadlyScaledCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownBadlyScaledCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownBadlyScaledCGCentralOutOfIterations)
@@ -1077,6 +1078,10 @@ func brownBadlyScaledCGCentralStepScale(xi float64, i int, diffs *brownBadlyScal
 // brownBadlyScaledCGCentralCurvaturePair: without bounds the pair is used as it is.
 func brownBadlyScaledCGCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledCGCentralBox) {}
 
+// brownBadlyScaledCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func brownBadlyScaledCGCentralLearnCurvature(s, y *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
+}
+
 // brownBadlyScaledCGCentralSearchDirection is the direction's own.
 func brownBadlyScaledCGCentralSearchDirection(dir *brownBadlyScaledCGCentralDirection, x, g, d *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
 	brownBadlyScaledCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1153,7 @@ func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *bro
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) brownBadlyScaledCGCentralLineResult {
 	if !brownBadlyScaledCGCentralFinite(slope) {
-		slope = brownBadlyScaledCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledCGCentralShortenAlong is not inlined
+		slope = brownBadlyScaledCGCentralShortenAlong(g, d, slope) // the call only where it acts: brownBadlyScaledCGCentralShortenAlong is not inlined
 	}
 	low := brownBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1237,16 @@ type brownBadlyScaledCGCentralSearchEnd uint8
 // brownBadlyScaledCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownBadlyScaledCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledCGCentralShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledCGCentralStepFloor) float64 {
+func brownBadlyScaledCGCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if brownBadlyScaledCGCentralFinite(slope) || !brownBadlyScaledCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := brownBadlyScaledCGCentralMaxAbs(d)
 	brownBadlyScaledCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownBadlyScaledCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownBadlyScaledCGCentralDot(g, d)
-}
-
-// brownBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownBadlyScaledCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1261,17 @@ func brownBadlyScaledCGCentralShrinkDirection(d, g *[2]float64) {
 			brownBadlyScaledCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownBadlyScaledCGCentralScaleBy sets x = c·x.

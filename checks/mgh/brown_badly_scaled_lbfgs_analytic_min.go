@@ -444,6 +444,7 @@ func (r *brownBadlyScaledLBFGSAnalyticDescent) judge() {
 		}
 		brownBadlyScaledLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownBadlyScaledLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownBadlyScaledLBFGSAnalyticOutOfIterations)
@@ -941,6 +942,10 @@ func brownBadlyScaledLBFGSAnalyticStepScale(xi float64, i int, diffs *brownBadly
 func brownBadlyScaledLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {
 }
 
+// brownBadlyScaledLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func brownBadlyScaledLBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
+}
+
 // brownBadlyScaledLBFGSAnalyticSearchDirection is the direction's own.
 func brownBadlyScaledLBFGSAnalyticSearchDirection(dir *brownBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
 	brownBadlyScaledLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1012,7 +1017,7 @@ func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
 	if !brownBadlyScaledLBFGSAnalyticFinite(slope) {
-		slope = brownBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledLBFGSAnalyticShortenAlong is not inlined
+		slope = brownBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: brownBadlyScaledLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := brownBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1096,30 +1101,16 @@ type brownBadlyScaledLBFGSAnalyticSearchEnd uint8
 // brownBadlyScaledLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownBadlyScaledLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledLBFGSAnalyticStepFloor) float64 {
+func brownBadlyScaledLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if brownBadlyScaledLBFGSAnalyticFinite(slope) || !brownBadlyScaledLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := brownBadlyScaledLBFGSAnalyticMaxAbs(d)
 	brownBadlyScaledLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownBadlyScaledLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownBadlyScaledLBFGSAnalyticDot(g, d)
-}
-
-// brownBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownBadlyScaledLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1134,6 +1125,17 @@ func brownBadlyScaledLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			brownBadlyScaledLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownBadlyScaledLBFGSAnalyticScaleBy sets x = c·x.

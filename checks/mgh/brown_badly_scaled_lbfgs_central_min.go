@@ -444,6 +444,7 @@ func (r *brownBadlyScaledLBFGSCentralDescent) judge() {
 		}
 		brownBadlyScaledLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownBadlyScaledLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownBadlyScaledLBFGSCentralOutOfIterations)
@@ -1120,6 +1121,10 @@ func brownBadlyScaledLBFGSCentralStepScale(xi float64, i int, diffs *brownBadlyS
 func brownBadlyScaledLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledLBFGSCentralBox) {
 }
 
+// brownBadlyScaledLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func brownBadlyScaledLBFGSCentralLearnCurvature(s, y *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
+}
+
 // brownBadlyScaledLBFGSCentralSearchDirection is the direction's own.
 func brownBadlyScaledLBFGSCentralSearchDirection(dir *brownBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
 	brownBadlyScaledLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1191,7 +1196,7 @@ func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *brownBadlyScaledLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) brownBadlyScaledLBFGSCentralLineResult {
 	if !brownBadlyScaledLBFGSCentralFinite(slope) {
-		slope = brownBadlyScaledLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownBadlyScaledLBFGSCentralShortenAlong is not inlined
+		slope = brownBadlyScaledLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: brownBadlyScaledLBFGSCentralShortenAlong is not inlined
 	}
 	low := brownBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1275,30 +1280,16 @@ type brownBadlyScaledLBFGSCentralSearchEnd uint8
 // brownBadlyScaledLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownBadlyScaledLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownBadlyScaledLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownBadlyScaledLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownBadlyScaledLBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *brownBadlyScaledLBFGSCentralStepFloor) float64 {
+func brownBadlyScaledLBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if brownBadlyScaledLBFGSCentralFinite(slope) || !brownBadlyScaledLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := brownBadlyScaledLBFGSCentralMaxAbs(d)
 	brownBadlyScaledLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownBadlyScaledLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownBadlyScaledLBFGSCentralDot(g, d)
-}
-
-// brownBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownBadlyScaledLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1313,6 +1304,17 @@ func brownBadlyScaledLBFGSCentralShrinkDirection(d, g *[2]float64) {
 			brownBadlyScaledLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownBadlyScaledLBFGSCentralScaleBy sets x = c·x.

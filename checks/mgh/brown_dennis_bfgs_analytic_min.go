@@ -443,6 +443,7 @@ func (r *brownDennisBFGSAnalyticDescent) judge() {
 		}
 		brownDennisBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownDennisBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownDennisBFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func brownDennisBFGSAnalyticStepScale(xi float64, i int, diffs *brownDennisBFGSA
 // brownDennisBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownDennisBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisBFGSAnalyticBox) {}
 
+// brownDennisBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func brownDennisBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
+}
+
 // brownDennisBFGSAnalyticSearchDirection is the direction's own.
 func brownDennisBFGSAnalyticSearchDirection(dir *brownDennisBFGSAnalyticDirection, x, g, d *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
 	brownDennisBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brown
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) brownDennisBFGSAnalyticLineResult {
 	if !brownDennisBFGSAnalyticFinite(slope) {
-		slope = brownDennisBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisBFGSAnalyticShortenAlong is not inlined
+		slope = brownDennisBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: brownDennisBFGSAnalyticShortenAlong is not inlined
 	}
 	low := brownDennisBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type brownDennisBFGSAnalyticSearchEnd uint8
 // brownDennisBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownDennisBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownDennisBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownDennisBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownDennisBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *brownDennisBFGSAnalyticStepFloor) float64 {
+func brownDennisBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if brownDennisBFGSAnalyticFinite(slope) || !brownDennisBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := brownDennisBFGSAnalyticMaxAbs(d)
 	brownDennisBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownDennisBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownDennisBFGSAnalyticDot(g, d)
-}
-
-// brownDennisBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownDennisBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownDennisBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownDennisBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func brownDennisBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			brownDennisBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownDennisBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownDennisBFGSAnalyticScaleBy sets x = c·x.

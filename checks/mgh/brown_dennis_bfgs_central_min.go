@@ -443,6 +443,7 @@ func (r *brownDennisBFGSCentralDescent) judge() {
 		}
 		brownDennisBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownDennisBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownDennisBFGSCentralOutOfIterations)
@@ -1086,6 +1087,10 @@ func brownDennisBFGSCentralStepScale(xi float64, i int, diffs *brownDennisBFGSCe
 // brownDennisBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func brownDennisBFGSCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisBFGSCentralBox) {}
 
+// brownDennisBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func brownDennisBFGSCentralLearnCurvature(s, y *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
+}
+
 // brownDennisBFGSCentralSearchDirection is the direction's own.
 func brownDennisBFGSCentralSearchDirection(dir *brownDennisBFGSCentralDirection, x, g, d *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
 	brownDennisBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1162,7 @@ func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownD
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSCentralDifferences) brownDennisBFGSCentralLineResult {
 	if !brownDennisBFGSCentralFinite(slope) {
-		slope = brownDennisBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisBFGSCentralShortenAlong is not inlined
+		slope = brownDennisBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: brownDennisBFGSCentralShortenAlong is not inlined
 	}
 	low := brownDennisBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1246,16 @@ type brownDennisBFGSCentralSearchEnd uint8
 // brownDennisBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownDennisBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownDennisBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownDennisBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownDennisBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *brownDennisBFGSCentralStepFloor) float64 {
+func brownDennisBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if brownDennisBFGSCentralFinite(slope) || !brownDennisBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := brownDennisBFGSCentralMaxAbs(d)
 	brownDennisBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownDennisBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownDennisBFGSCentralDot(g, d)
-}
-
-// brownDennisBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func brownDennisBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownDennisBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownDennisBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1270,17 @@ func brownDennisBFGSCentralShrinkDirection(d, g *[4]float64) {
 			brownDennisBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownDennisBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownDennisBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *brownDennisCGAnalyticDescent) judge() {
 		}
 		brownDennisCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownDennisCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownDennisCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func brownDennisCGAnalyticStepScale(xi float64, i int, diffs *brownDennisCGAnaly
 // brownDennisCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownDennisCGAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisCGAnalyticBox) {}
 
+// brownDennisCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func brownDennisCGAnalyticLearnCurvature(s, y *[4]float64, diffs *brownDennisCGAnalyticDifferences) {}
+
 // brownDennisCGAnalyticSearchDirection is the direction's own.
 func brownDennisCGAnalyticSearchDirection(dir *brownDennisCGAnalyticDirection, x, g, d *[4]float64, diffs *brownDennisCGAnalyticDifferences) {
 	brownDennisCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brownDe
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisCGAnalyticDifferences) brownDennisCGAnalyticLineResult {
 	if !brownDennisCGAnalyticFinite(slope) {
-		slope = brownDennisCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisCGAnalyticShortenAlong is not inlined
+		slope = brownDennisCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: brownDennisCGAnalyticShortenAlong is not inlined
 	}
 	low := brownDennisCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type brownDennisCGAnalyticSearchEnd uint8
 // brownDennisCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownDennisCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownDennisCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownDennisCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownDennisCGAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *brownDennisCGAnalyticStepFloor) float64 {
+func brownDennisCGAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if brownDennisCGAnalyticFinite(slope) || !brownDennisCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := brownDennisCGAnalyticMaxAbs(d)
 	brownDennisCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownDennisCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownDennisCGAnalyticDot(g, d)
-}
-
-// brownDennisCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownDennisCGAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownDennisCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownDennisCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func brownDennisCGAnalyticShrinkDirection(d, g *[4]float64) {
 			brownDennisCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownDennisCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisCGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownDennisCGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *brownDennisCGCentralDescent) judge() {
 		}
 		brownDennisCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownDennisCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownDennisCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func brownDennisCGCentralStepScale(xi float64, i int, diffs *brownDennisCGCentra
 // brownDennisCGCentralCurvaturePair: without bounds the pair is used as it is.
 func brownDennisCGCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisCGCentralBox) {}
 
+// brownDennisCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func brownDennisCGCentralLearnCurvature(s, y *[4]float64, diffs *brownDennisCGCentralDifferences) {}
+
 // brownDennisCGCentralSearchDirection is the direction's own.
 func brownDennisCGCentralSearchDirection(dir *brownDennisCGCentralDirection, x, g, d *[4]float64, diffs *brownDennisCGCentralDifferences) {
 	brownDennisCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisCGCentralDifferences) brownDennisCGCentralLineResult {
 	if !brownDennisCGCentralFinite(slope) {
-		slope = brownDennisCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisCGCentralShortenAlong is not inlined
+		slope = brownDennisCGCentralShortenAlong(g, d, slope) // the call only where it acts: brownDennisCGCentralShortenAlong is not inlined
 	}
 	low := brownDennisCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type brownDennisCGCentralSearchEnd uint8
 // brownDennisCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownDennisCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownDennisCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownDennisCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownDennisCGCentralShortenAlong(g, d *[4]float64, slope float64, floor *brownDennisCGCentralStepFloor) float64 {
+func brownDennisCGCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if brownDennisCGCentralFinite(slope) || !brownDennisCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := brownDennisCGCentralMaxAbs(d)
 	brownDennisCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownDennisCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownDennisCGCentralDot(g, d)
-}
-
-// brownDennisCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func brownDennisCGCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownDennisCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownDennisCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func brownDennisCGCentralShrinkDirection(d, g *[4]float64) {
 			brownDennisCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownDennisCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisCGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownDennisCGCentralScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *brownDennisLBFGSAnalyticDescent) judge() {
 		}
 		brownDennisLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownDennisLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownDennisLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func brownDennisLBFGSAnalyticStepScale(xi float64, i int, diffs *brownDennisLBFG
 // brownDennisLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func brownDennisLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisLBFGSAnalyticBox) {}
 
+// brownDennisLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func brownDennisLBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
+}
+
 // brownDennisLBFGSAnalyticSearchDirection is the direction's own.
 func brownDennisLBFGSAnalyticSearchDirection(dir *brownDennisLBFGSAnalyticDirection, x, g, d *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
 	brownDennisLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brow
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) brownDennisLBFGSAnalyticLineResult {
 	if !brownDennisLBFGSAnalyticFinite(slope) {
-		slope = brownDennisLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisLBFGSAnalyticShortenAlong is not inlined
+		slope = brownDennisLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: brownDennisLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := brownDennisLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type brownDennisLBFGSAnalyticSearchEnd uint8
 // brownDennisLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownDennisLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownDennisLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownDennisLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownDennisLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *brownDennisLBFGSAnalyticStepFloor) float64 {
+func brownDennisLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if brownDennisLBFGSAnalyticFinite(slope) || !brownDennisLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := brownDennisLBFGSAnalyticMaxAbs(d)
 	brownDennisLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownDennisLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownDennisLBFGSAnalyticDot(g, d)
-}
-
-// brownDennisLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownDennisLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownDennisLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownDennisLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func brownDennisLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			brownDennisLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownDennisLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownDennisLBFGSAnalyticScaleBy sets x = c·x.

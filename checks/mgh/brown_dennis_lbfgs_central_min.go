@@ -444,6 +444,7 @@ func (r *brownDennisLBFGSCentralDescent) judge() {
 		}
 		brownDennisLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		brownDennisLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(BrownDennisLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func brownDennisLBFGSCentralStepScale(xi float64, i int, diffs *brownDennisLBFGS
 // brownDennisLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func brownDennisLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisLBFGSCentralBox) {}
 
+// brownDennisLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func brownDennisLBFGSCentralLearnCurvature(s, y *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
+}
+
 // brownDennisLBFGSCentralSearchDirection is the direction's own.
 func brownDennisLBFGSCentralSearchDirection(dir *brownDennisLBFGSCentralDirection, x, g, d *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
 	brownDennisLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brown
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *brownDennisLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSCentralDifferences) brownDennisLBFGSCentralLineResult {
 	if !brownDennisLBFGSCentralFinite(slope) {
-		slope = brownDennisLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: brownDennisLBFGSCentralShortenAlong is not inlined
+		slope = brownDennisLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: brownDennisLBFGSCentralShortenAlong is not inlined
 	}
 	low := brownDennisLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type brownDennisLBFGSCentralSearchEnd uint8
 // brownDennisLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (brownDennisLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (brownDennisLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (brownDennisLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func brownDennisLBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *brownDennisLBFGSCentralStepFloor) float64 {
+func brownDennisLBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if brownDennisLBFGSCentralFinite(slope) || !brownDennisLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := brownDennisLBFGSCentralMaxAbs(d)
 	brownDennisLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / brownDennisLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return brownDennisLBFGSCentralDot(g, d)
-}
-
-// brownDennisLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func brownDennisLBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownDennisLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // brownDennisLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func brownDennisLBFGSCentralShrinkDirection(d, g *[4]float64) {
 			brownDennisLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// brownDennisLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func brownDennisLBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := brownDennisLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // brownDennisLBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *gaussianBFGSAnalyticDescent) judge() {
 		}
 		gaussianBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gaussianBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GaussianBFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func gaussianBFGSAnalyticStepScale(xi float64, i int, diffs *gaussianBFGSAnalyti
 // gaussianBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gaussianBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianBFGSAnalyticBox) {}
 
+// gaussianBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func gaussianBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {}
+
 // gaussianBFGSAnalyticSearchDirection is the direction's own.
 func gaussianBFGSAnalyticSearchDirection(dir *gaussianBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
 	gaussianBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussian
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianBFGSAnalyticDifferences) gaussianBFGSAnalyticLineResult {
 	if !gaussianBFGSAnalyticFinite(slope) {
-		slope = gaussianBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianBFGSAnalyticShortenAlong is not inlined
+		slope = gaussianBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: gaussianBFGSAnalyticShortenAlong is not inlined
 	}
 	low := gaussianBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type gaussianBFGSAnalyticSearchEnd uint8
 // gaussianBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gaussianBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gaussianBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gaussianBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gaussianBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gaussianBFGSAnalyticStepFloor) float64 {
+func gaussianBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gaussianBFGSAnalyticFinite(slope) || !gaussianBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := gaussianBFGSAnalyticMaxAbs(d)
 	gaussianBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gaussianBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gaussianBFGSAnalyticDot(g, d)
-}
-
-// gaussianBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gaussianBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func gaussianBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			gaussianBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gaussianBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gaussianBFGSAnalyticScaleBy sets x = c·x.

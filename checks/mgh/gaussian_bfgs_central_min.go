@@ -443,6 +443,7 @@ func (r *gaussianBFGSCentralDescent) judge() {
 		}
 		gaussianBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gaussianBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GaussianBFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func gaussianBFGSCentralStepScale(xi float64, i int, diffs *gaussianBFGSCentralD
 // gaussianBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gaussianBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gaussianBFGSCentralBox) {}
 
+// gaussianBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func gaussianBFGSCentralLearnCurvature(s, y *[3]float64, diffs *gaussianBFGSCentralDifferences) {}
+
 // gaussianBFGSCentralSearchDirection is the direction's own.
 func gaussianBFGSCentralSearchDirection(dir *gaussianBFGSCentralDirection, x, g, d *[3]float64, diffs *gaussianBFGSCentralDifferences) {
 	gaussianBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianB
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianBFGSCentralDifferences) gaussianBFGSCentralLineResult {
 	if !gaussianBFGSCentralFinite(slope) {
-		slope = gaussianBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianBFGSCentralShortenAlong is not inlined
+		slope = gaussianBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: gaussianBFGSCentralShortenAlong is not inlined
 	}
 	low := gaussianBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type gaussianBFGSCentralSearchEnd uint8
 // gaussianBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gaussianBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gaussianBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gaussianBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gaussianBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *gaussianBFGSCentralStepFloor) float64 {
+func gaussianBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gaussianBFGSCentralFinite(slope) || !gaussianBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := gaussianBFGSCentralMaxAbs(d)
 	gaussianBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gaussianBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gaussianBFGSCentralDot(g, d)
-}
-
-// gaussianBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gaussianBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func gaussianBFGSCentralShrinkDirection(d, g *[3]float64) {
 			gaussianBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gaussianBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gaussianBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *gaussianCGAnalyticDescent) judge() {
 		}
 		gaussianCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gaussianCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GaussianCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func gaussianCGAnalyticStepScale(xi float64, i int, diffs *gaussianCGAnalyticDif
 // gaussianCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gaussianCGAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianCGAnalyticBox) {}
 
+// gaussianCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func gaussianCGAnalyticLearnCurvature(s, y *[3]float64, diffs *gaussianCGAnalyticDifferences) {}
+
 // gaussianCGAnalyticSearchDirection is the direction's own.
 func gaussianCGAnalyticSearchDirection(dir *gaussianCGAnalyticDirection, x, g, d *[3]float64, diffs *gaussianCGAnalyticDifferences) {
 	gaussianCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCG
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianCGAnalyticDifferences) gaussianCGAnalyticLineResult {
 	if !gaussianCGAnalyticFinite(slope) {
-		slope = gaussianCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianCGAnalyticShortenAlong is not inlined
+		slope = gaussianCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: gaussianCGAnalyticShortenAlong is not inlined
 	}
 	low := gaussianCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type gaussianCGAnalyticSearchEnd uint8
 // gaussianCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gaussianCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gaussianCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gaussianCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gaussianCGAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gaussianCGAnalyticStepFloor) float64 {
+func gaussianCGAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gaussianCGAnalyticFinite(slope) || !gaussianCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := gaussianCGAnalyticMaxAbs(d)
 	gaussianCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gaussianCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gaussianCGAnalyticDot(g, d)
-}
-
-// gaussianCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianCGAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gaussianCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func gaussianCGAnalyticShrinkDirection(d, g *[3]float64) {
 			gaussianCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gaussianCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gaussianCGAnalyticScaleBy sets x = c·x.

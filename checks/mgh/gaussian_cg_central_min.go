@@ -443,6 +443,7 @@ func (r *gaussianCGCentralDescent) judge() {
 		}
 		gaussianCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gaussianCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GaussianCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func gaussianCGCentralStepScale(xi float64, i int, diffs *gaussianCGCentralDiffe
 // gaussianCGCentralCurvaturePair: without bounds the pair is used as it is.
 func gaussianCGCentralCurvaturePair(s, y, x *[3]float64, b *gaussianCGCentralBox) {}
 
+// gaussianCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func gaussianCGCentralLearnCurvature(s, y *[3]float64, diffs *gaussianCGCentralDifferences) {}
+
 // gaussianCGCentralSearchDirection is the direction's own.
 func gaussianCGCentralSearchDirection(dir *gaussianCGCentralDirection, x, g, d *[3]float64, diffs *gaussianCGCentralDifferences) {
 	gaussianCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCGC
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianCGCentralDifferences) gaussianCGCentralLineResult {
 	if !gaussianCGCentralFinite(slope) {
-		slope = gaussianCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianCGCentralShortenAlong is not inlined
+		slope = gaussianCGCentralShortenAlong(g, d, slope) // the call only where it acts: gaussianCGCentralShortenAlong is not inlined
 	}
 	low := gaussianCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type gaussianCGCentralSearchEnd uint8
 // gaussianCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gaussianCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gaussianCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gaussianCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gaussianCGCentralShortenAlong(g, d *[3]float64, slope float64, floor *gaussianCGCentralStepFloor) float64 {
+func gaussianCGCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gaussianCGCentralFinite(slope) || !gaussianCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := gaussianCGCentralMaxAbs(d)
 	gaussianCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gaussianCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gaussianCGCentralDot(g, d)
-}
-
-// gaussianCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianCGCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gaussianCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func gaussianCGCentralShrinkDirection(d, g *[3]float64) {
 			gaussianCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gaussianCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gaussianCGCentralScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *gaussianLBFGSAnalyticDescent) judge() {
 		}
 		gaussianLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gaussianLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GaussianLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func gaussianLBFGSAnalyticStepScale(xi float64, i int, diffs *gaussianLBFGSAnaly
 // gaussianLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gaussianLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianLBFGSAnalyticBox) {}
 
+// gaussianLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func gaussianLBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {}
+
 // gaussianLBFGSAnalyticSearchDirection is the direction's own.
 func gaussianLBFGSAnalyticSearchDirection(dir *gaussianLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
 	gaussianLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussia
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) gaussianLBFGSAnalyticLineResult {
 	if !gaussianLBFGSAnalyticFinite(slope) {
-		slope = gaussianLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianLBFGSAnalyticShortenAlong is not inlined
+		slope = gaussianLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: gaussianLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := gaussianLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type gaussianLBFGSAnalyticSearchEnd uint8
 // gaussianLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gaussianLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gaussianLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gaussianLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gaussianLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gaussianLBFGSAnalyticStepFloor) float64 {
+func gaussianLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gaussianLBFGSAnalyticFinite(slope) || !gaussianLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := gaussianLBFGSAnalyticMaxAbs(d)
 	gaussianLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gaussianLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gaussianLBFGSAnalyticDot(g, d)
-}
-
-// gaussianLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gaussianLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func gaussianLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			gaussianLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gaussianLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gaussianLBFGSAnalyticScaleBy sets x = c·x.

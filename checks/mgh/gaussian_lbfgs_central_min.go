@@ -444,6 +444,7 @@ func (r *gaussianLBFGSCentralDescent) judge() {
 		}
 		gaussianLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gaussianLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GaussianLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func gaussianLBFGSCentralStepScale(xi float64, i int, diffs *gaussianLBFGSCentra
 // gaussianLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gaussianLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gaussianLBFGSCentralBox) {}
 
+// gaussianLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func gaussianLBFGSCentralLearnCurvature(s, y *[3]float64, diffs *gaussianLBFGSCentralDifferences) {}
+
 // gaussianLBFGSCentralSearchDirection is the direction's own.
 func gaussianLBFGSCentralSearchDirection(dir *gaussianLBFGSCentralDirection, x, g, d *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
 	gaussianLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussian
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gaussianLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gaussianLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSCentralDifferences) gaussianLBFGSCentralLineResult {
 	if !gaussianLBFGSCentralFinite(slope) {
-		slope = gaussianLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gaussianLBFGSCentralShortenAlong is not inlined
+		slope = gaussianLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: gaussianLBFGSCentralShortenAlong is not inlined
 	}
 	low := gaussianLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type gaussianLBFGSCentralSearchEnd uint8
 // gaussianLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gaussianLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gaussianLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gaussianLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gaussianLBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *gaussianLBFGSCentralStepFloor) float64 {
+func gaussianLBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gaussianLBFGSCentralFinite(slope) || !gaussianLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := gaussianLBFGSCentralMaxAbs(d)
 	gaussianLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gaussianLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gaussianLBFGSCentralDot(g, d)
-}
-
-// gaussianLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianLBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gaussianLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func gaussianLBFGSCentralShrinkDirection(d, g *[3]float64) {
 			gaussianLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gaussianLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gaussianLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gaussianLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gaussianLBFGSCentralScaleBy sets x = c·x.

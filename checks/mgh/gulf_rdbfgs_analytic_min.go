@@ -443,6 +443,7 @@ func (r *gulfRDBFGSAnalyticDescent) judge() {
 		}
 		gulfRDBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gulfRDBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GulfRDBFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func gulfRDBFGSAnalyticStepScale(xi float64, i int, diffs *gulfRDBFGSAnalyticDif
 // gulfRDBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gulfRDBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDBFGSAnalyticBox) {}
 
+// gulfRDBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func gulfRDBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {}
+
 // gulfRDBFGSAnalyticSearchDirection is the direction's own.
 func gulfRDBFGSAnalyticSearchDirection(dir *gulfRDBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
 	gulfRDBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGS
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) gulfRDBFGSAnalyticLineResult {
 	if !gulfRDBFGSAnalyticFinite(slope) {
-		slope = gulfRDBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDBFGSAnalyticShortenAlong is not inlined
+		slope = gulfRDBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: gulfRDBFGSAnalyticShortenAlong is not inlined
 	}
 	low := gulfRDBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type gulfRDBFGSAnalyticSearchEnd uint8
 // gulfRDBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gulfRDBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gulfRDBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDBFGSAnalyticStepFloor) float64 {
+func gulfRDBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gulfRDBFGSAnalyticFinite(slope) || !gulfRDBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := gulfRDBFGSAnalyticMaxAbs(d)
 	gulfRDBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gulfRDBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gulfRDBFGSAnalyticDot(g, d)
-}
-
-// gulfRDBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func gulfRDBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gulfRDBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gulfRDBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func gulfRDBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			gulfRDBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gulfRDBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gulfRDBFGSAnalyticScaleBy sets x = c·x.

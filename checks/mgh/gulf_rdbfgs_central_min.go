@@ -443,6 +443,7 @@ func (r *gulfRDBFGSCentralDescent) judge() {
 		}
 		gulfRDBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gulfRDBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GulfRDBFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func gulfRDBFGSCentralStepScale(xi float64, i int, diffs *gulfRDBFGSCentralDiffe
 // gulfRDBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gulfRDBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDBFGSCentralBox) {}
 
+// gulfRDBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func gulfRDBFGSCentralLearnCurvature(s, y *[3]float64, diffs *gulfRDBFGSCentralDifferences) {}
+
 // gulfRDBFGSCentralSearchDirection is the direction's own.
 func gulfRDBFGSCentralSearchDirection(dir *gulfRDBFGSCentralDirection, x, g, d *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
 	gulfRDBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGSC
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSCentralDifferences) gulfRDBFGSCentralLineResult {
 	if !gulfRDBFGSCentralFinite(slope) {
-		slope = gulfRDBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDBFGSCentralShortenAlong is not inlined
+		slope = gulfRDBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: gulfRDBFGSCentralShortenAlong is not inlined
 	}
 	low := gulfRDBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type gulfRDBFGSCentralSearchEnd uint8
 // gulfRDBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gulfRDBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gulfRDBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDBFGSCentralStepFloor) float64 {
+func gulfRDBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gulfRDBFGSCentralFinite(slope) || !gulfRDBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := gulfRDBFGSCentralMaxAbs(d)
 	gulfRDBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gulfRDBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gulfRDBFGSCentralDot(g, d)
-}
-
-// gulfRDBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gulfRDBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gulfRDBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gulfRDBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func gulfRDBFGSCentralShrinkDirection(d, g *[3]float64) {
 			gulfRDBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gulfRDBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gulfRDBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *gulfRDCGAnalyticDescent) judge() {
 		}
 		gulfRDCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gulfRDCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GulfRDCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func gulfRDCGAnalyticStepScale(xi float64, i int, diffs *gulfRDCGAnalyticDiffere
 // gulfRDCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gulfRDCGAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDCGAnalyticBox) {}
 
+// gulfRDCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func gulfRDCGAnalyticLearnCurvature(s, y *[3]float64, diffs *gulfRDCGAnalyticDifferences) {}
+
 // gulfRDCGAnalyticSearchDirection is the direction's own.
 func gulfRDCGAnalyticSearchDirection(dir *gulfRDCGAnalyticDirection, x, g, d *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
 	gulfRDCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGAnal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
 	if !gulfRDCGAnalyticFinite(slope) {
-		slope = gulfRDCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDCGAnalyticShortenAlong is not inlined
+		slope = gulfRDCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: gulfRDCGAnalyticShortenAlong is not inlined
 	}
 	low := gulfRDCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type gulfRDCGAnalyticSearchEnd uint8
 // gulfRDCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gulfRDCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gulfRDCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDCGAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDCGAnalyticStepFloor) float64 {
+func gulfRDCGAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gulfRDCGAnalyticFinite(slope) || !gulfRDCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := gulfRDCGAnalyticMaxAbs(d)
 	gulfRDCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gulfRDCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gulfRDCGAnalyticDot(g, d)
-}
-
-// gulfRDCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func gulfRDCGAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gulfRDCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gulfRDCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func gulfRDCGAnalyticShrinkDirection(d, g *[3]float64) {
 			gulfRDCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gulfRDCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gulfRDCGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *gulfRDCGCentralDescent) judge() {
 		}
 		gulfRDCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gulfRDCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GulfRDCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func gulfRDCGCentralStepScale(xi float64, i int, diffs *gulfRDCGCentralDifferenc
 // gulfRDCGCentralCurvaturePair: without bounds the pair is used as it is.
 func gulfRDCGCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDCGCentralBox) {}
 
+// gulfRDCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func gulfRDCGCentralLearnCurvature(s, y *[3]float64, diffs *gulfRDCGCentralDifferences) {}
+
 // gulfRDCGCentralSearchDirection is the direction's own.
 func gulfRDCGCentralSearchDirection(dir *gulfRDCGCentralDirection, x, g, d *[3]float64, diffs *gulfRDCGCentralDifferences) {
 	gulfRDCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGCentr
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
 	if !gulfRDCGCentralFinite(slope) {
-		slope = gulfRDCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDCGCentralShortenAlong is not inlined
+		slope = gulfRDCGCentralShortenAlong(g, d, slope) // the call only where it acts: gulfRDCGCentralShortenAlong is not inlined
 	}
 	low := gulfRDCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type gulfRDCGCentralSearchEnd uint8
 // gulfRDCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gulfRDCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gulfRDCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDCGCentralShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDCGCentralStepFloor) float64 {
+func gulfRDCGCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gulfRDCGCentralFinite(slope) || !gulfRDCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := gulfRDCGCentralMaxAbs(d)
 	gulfRDCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gulfRDCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gulfRDCGCentralDot(g, d)
-}
-
-// gulfRDCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gulfRDCGCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gulfRDCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gulfRDCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func gulfRDCGCentralShrinkDirection(d, g *[3]float64) {
 			gulfRDCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gulfRDCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gulfRDCGCentralScaleBy sets x = c·x.

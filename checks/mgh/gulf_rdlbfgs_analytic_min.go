@@ -444,6 +444,7 @@ func (r *gulfRDLBFGSAnalyticDescent) judge() {
 		}
 		gulfRDLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gulfRDLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GulfRDLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func gulfRDLBFGSAnalyticStepScale(xi float64, i int, diffs *gulfRDLBFGSAnalyticD
 // gulfRDLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func gulfRDLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDLBFGSAnalyticBox) {}
 
+// gulfRDLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func gulfRDLBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {}
+
 // gulfRDLBFGSAnalyticSearchDirection is the direction's own.
 func gulfRDLBFGSAnalyticSearchDirection(dir *gulfRDLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
 	gulfRDLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBF
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) gulfRDLBFGSAnalyticLineResult {
 	if !gulfRDLBFGSAnalyticFinite(slope) {
-		slope = gulfRDLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDLBFGSAnalyticShortenAlong is not inlined
+		slope = gulfRDLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: gulfRDLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := gulfRDLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type gulfRDLBFGSAnalyticSearchEnd uint8
 // gulfRDLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gulfRDLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gulfRDLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDLBFGSAnalyticStepFloor) float64 {
+func gulfRDLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gulfRDLBFGSAnalyticFinite(slope) || !gulfRDLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := gulfRDLBFGSAnalyticMaxAbs(d)
 	gulfRDLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gulfRDLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gulfRDLBFGSAnalyticDot(g, d)
-}
-
-// gulfRDLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func gulfRDLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gulfRDLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gulfRDLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func gulfRDLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			gulfRDLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gulfRDLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gulfRDLBFGSAnalyticScaleBy sets x = c·x.

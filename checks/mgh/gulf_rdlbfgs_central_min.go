@@ -444,6 +444,7 @@ func (r *gulfRDLBFGSCentralDescent) judge() {
 		}
 		gulfRDLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		gulfRDLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(GulfRDLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func gulfRDLBFGSCentralStepScale(xi float64, i int, diffs *gulfRDLBFGSCentralDif
 // gulfRDLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func gulfRDLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDLBFGSCentralBox) {}
 
+// gulfRDLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func gulfRDLBFGSCentralLearnCurvature(s, y *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {}
+
 // gulfRDLBFGSCentralSearchDirection is the direction's own.
 func gulfRDLBFGSCentralSearchDirection(dir *gulfRDLBFGSCentralDirection, x, g, d *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
 	gulfRDLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBFG
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *gulfRDLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSCentralDifferences) gulfRDLBFGSCentralLineResult {
 	if !gulfRDLBFGSCentralFinite(slope) {
-		slope = gulfRDLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: gulfRDLBFGSCentralShortenAlong is not inlined
+		slope = gulfRDLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: gulfRDLBFGSCentralShortenAlong is not inlined
 	}
 	low := gulfRDLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type gulfRDLBFGSCentralSearchEnd uint8
 // gulfRDLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (gulfRDLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (gulfRDLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (gulfRDLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func gulfRDLBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *gulfRDLBFGSCentralStepFloor) float64 {
+func gulfRDLBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if gulfRDLBFGSCentralFinite(slope) || !gulfRDLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := gulfRDLBFGSCentralMaxAbs(d)
 	gulfRDLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / gulfRDLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return gulfRDLBFGSCentralDot(g, d)
-}
-
-// gulfRDLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gulfRDLBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gulfRDLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // gulfRDLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func gulfRDLBFGSCentralShrinkDirection(d, g *[3]float64) {
 			gulfRDLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// gulfRDLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func gulfRDLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := gulfRDLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // gulfRDLBFGSCentralScaleBy sets x = c·x.

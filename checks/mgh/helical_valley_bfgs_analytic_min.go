@@ -443,6 +443,7 @@ func (r *helicalValleyBFGSAnalyticDescent) judge() {
 		}
 		helicalValleyBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		helicalValleyBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(HelicalValleyBFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func helicalValleyBFGSAnalyticStepScale(xi float64, i int, diffs *helicalValleyB
 // helicalValleyBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyBFGSAnalyticBox) {}
 
+// helicalValleyBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func helicalValleyBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
+}
+
 // helicalValleyBFGSAnalyticSearchDirection is the direction's own.
 func helicalValleyBFGSAnalyticSearchDirection(dir *helicalValleyBFGSAnalyticDirection, x, g, d *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
 	helicalValleyBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *hel
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
 	if !helicalValleyBFGSAnalyticFinite(slope) {
-		slope = helicalValleyBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyBFGSAnalyticShortenAlong is not inlined
+		slope = helicalValleyBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: helicalValleyBFGSAnalyticShortenAlong is not inlined
 	}
 	low := helicalValleyBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type helicalValleyBFGSAnalyticSearchEnd uint8
 // helicalValleyBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (helicalValleyBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (helicalValleyBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyBFGSAnalyticStepFloor) float64 {
+func helicalValleyBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if helicalValleyBFGSAnalyticFinite(slope) || !helicalValleyBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := helicalValleyBFGSAnalyticMaxAbs(d)
 	helicalValleyBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / helicalValleyBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return helicalValleyBFGSAnalyticDot(g, d)
-}
-
-// helicalValleyBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // helicalValleyBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func helicalValleyBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			helicalValleyBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// helicalValleyBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // helicalValleyBFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *helicalValleyBFGSCentralDescent) judge() {
 		}
 		helicalValleyBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		helicalValleyBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(HelicalValleyBFGSCentralOutOfIterations)
@@ -1086,6 +1087,10 @@ func helicalValleyBFGSCentralStepScale(xi float64, i int, diffs *helicalValleyBF
 // helicalValleyBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyBFGSCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyBFGSCentralBox) {}
 
+// helicalValleyBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func helicalValleyBFGSCentralLearnCurvature(s, y *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
+}
+
 // helicalValleyBFGSCentralSearchDirection is the direction's own.
 func helicalValleyBFGSCentralSearchDirection(dir *helicalValleyBFGSCentralDirection, x, g, d *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
 	helicalValleyBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1162,7 @@ func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *heli
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSCentralDifferences) helicalValleyBFGSCentralLineResult {
 	if !helicalValleyBFGSCentralFinite(slope) {
-		slope = helicalValleyBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyBFGSCentralShortenAlong is not inlined
+		slope = helicalValleyBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: helicalValleyBFGSCentralShortenAlong is not inlined
 	}
 	low := helicalValleyBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1246,16 @@ type helicalValleyBFGSCentralSearchEnd uint8
 // helicalValleyBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (helicalValleyBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (helicalValleyBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyBFGSCentralStepFloor) float64 {
+func helicalValleyBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if helicalValleyBFGSCentralFinite(slope) || !helicalValleyBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := helicalValleyBFGSCentralMaxAbs(d)
 	helicalValleyBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / helicalValleyBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return helicalValleyBFGSCentralDot(g, d)
-}
-
-// helicalValleyBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // helicalValleyBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1270,17 @@ func helicalValleyBFGSCentralShrinkDirection(d, g *[3]float64) {
 			helicalValleyBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// helicalValleyBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // helicalValleyBFGSCentralScaleBy sets x = c·x.

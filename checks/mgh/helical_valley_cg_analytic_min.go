@@ -443,6 +443,7 @@ func (r *helicalValleyCGAnalyticDescent) judge() {
 		}
 		helicalValleyCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		helicalValleyCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(HelicalValleyCGAnalyticOutOfIterations)
@@ -898,6 +899,10 @@ func helicalValleyCGAnalyticStepScale(xi float64, i int, diffs *helicalValleyCGA
 // helicalValleyCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyCGAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyCGAnalyticBox) {}
 
+// helicalValleyCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func helicalValleyCGAnalyticLearnCurvature(s, y *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
+}
+
 // helicalValleyCGAnalyticSearchDirection is the direction's own.
 func helicalValleyCGAnalyticSearchDirection(dir *helicalValleyCGAnalyticDirection, x, g, d *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
 	helicalValleyCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +974,7 @@ func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helic
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyCGAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyCGAnalyticDifferences) helicalValleyCGAnalyticLineResult {
 	if !helicalValleyCGAnalyticFinite(slope) {
-		slope = helicalValleyCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyCGAnalyticShortenAlong is not inlined
+		slope = helicalValleyCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: helicalValleyCGAnalyticShortenAlong is not inlined
 	}
 	low := helicalValleyCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1058,16 @@ type helicalValleyCGAnalyticSearchEnd uint8
 // helicalValleyCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (helicalValleyCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (helicalValleyCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyCGAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyCGAnalyticStepFloor) float64 {
+func helicalValleyCGAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if helicalValleyCGAnalyticFinite(slope) || !helicalValleyCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := helicalValleyCGAnalyticMaxAbs(d)
 	helicalValleyCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / helicalValleyCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return helicalValleyCGAnalyticDot(g, d)
-}
-
-// helicalValleyCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyCGAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // helicalValleyCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1082,17 @@ func helicalValleyCGAnalyticShrinkDirection(d, g *[3]float64) {
 			helicalValleyCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// helicalValleyCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyCGAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // helicalValleyCGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *helicalValleyCGCentralDescent) judge() {
 		}
 		helicalValleyCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		helicalValleyCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(HelicalValleyCGCentralOutOfIterations)
@@ -1077,6 +1078,10 @@ func helicalValleyCGCentralStepScale(xi float64, i int, diffs *helicalValleyCGCe
 // helicalValleyCGCentralCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyCGCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyCGCentralBox) {}
 
+// helicalValleyCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func helicalValleyCGCentralLearnCurvature(s, y *[3]float64, diffs *helicalValleyCGCentralDifferences) {
+}
+
 // helicalValleyCGCentralSearchDirection is the direction's own.
 func helicalValleyCGCentralSearchDirection(dir *helicalValleyCGCentralDirection, x, g, d *[3]float64, diffs *helicalValleyCGCentralDifferences) {
 	helicalValleyCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1153,7 @@ func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *helica
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyCGCentralStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyCGCentralDifferences) helicalValleyCGCentralLineResult {
 	if !helicalValleyCGCentralFinite(slope) {
-		slope = helicalValleyCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyCGCentralShortenAlong is not inlined
+		slope = helicalValleyCGCentralShortenAlong(g, d, slope) // the call only where it acts: helicalValleyCGCentralShortenAlong is not inlined
 	}
 	low := helicalValleyCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1237,16 @@ type helicalValleyCGCentralSearchEnd uint8
 // helicalValleyCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (helicalValleyCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (helicalValleyCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyCGCentralShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyCGCentralStepFloor) float64 {
+func helicalValleyCGCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if helicalValleyCGCentralFinite(slope) || !helicalValleyCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := helicalValleyCGCentralMaxAbs(d)
 	helicalValleyCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / helicalValleyCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return helicalValleyCGCentralDot(g, d)
-}
-
-// helicalValleyCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyCGCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // helicalValleyCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1261,17 @@ func helicalValleyCGCentralShrinkDirection(d, g *[3]float64) {
 			helicalValleyCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// helicalValleyCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyCGCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // helicalValleyCGCentralScaleBy sets x = c·x.

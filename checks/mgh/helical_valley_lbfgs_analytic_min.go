@@ -444,6 +444,7 @@ func (r *helicalValleyLBFGSAnalyticDescent) judge() {
 		}
 		helicalValleyLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		helicalValleyLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(HelicalValleyLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func helicalValleyLBFGSAnalyticStepScale(xi float64, i int, diffs *helicalValley
 // helicalValleyLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyLBFGSAnalyticBox) {}
 
+// helicalValleyLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func helicalValleyLBFGSAnalyticLearnCurvature(s, y *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
+}
+
 // helicalValleyLBFGSAnalyticSearchDirection is the direction's own.
 func helicalValleyLBFGSAnalyticSearchDirection(dir *helicalValleyLBFGSAnalyticDirection, x, g, d *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
 	helicalValleyLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *he
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyLBFGSAnalyticStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) helicalValleyLBFGSAnalyticLineResult {
 	if !helicalValleyLBFGSAnalyticFinite(slope) {
-		slope = helicalValleyLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyLBFGSAnalyticShortenAlong is not inlined
+		slope = helicalValleyLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: helicalValleyLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := helicalValleyLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type helicalValleyLBFGSAnalyticSearchEnd uint8
 // helicalValleyLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (helicalValleyLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (helicalValleyLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyLBFGSAnalyticStepFloor) float64 {
+func helicalValleyLBFGSAnalyticShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if helicalValleyLBFGSAnalyticFinite(slope) || !helicalValleyLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := helicalValleyLBFGSAnalyticMaxAbs(d)
 	helicalValleyLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / helicalValleyLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return helicalValleyLBFGSAnalyticDot(g, d)
-}
-
-// helicalValleyLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // helicalValleyLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func helicalValleyLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 			helicalValleyLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// helicalValleyLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // helicalValleyLBFGSAnalyticScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *helicalValleyLBFGSCentralDescent) judge() {
 		}
 		helicalValleyLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		helicalValleyLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(HelicalValleyLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func helicalValleyLBFGSCentralStepScale(xi float64, i int, diffs *helicalValleyL
 // helicalValleyLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func helicalValleyLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyLBFGSCentralBox) {}
 
+// helicalValleyLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func helicalValleyLBFGSCentralLearnCurvature(s, y *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
+}
+
 // helicalValleyLBFGSCentralSearchDirection is the direction's own.
 func helicalValleyLBFGSCentralSearchDirection(dir *helicalValleyLBFGSCentralDirection, x, g, d *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
 	helicalValleyLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func helicalValleyLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *hel
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func helicalValleyLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *helicalValleyLBFGSCentralStepFloor, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) helicalValleyLBFGSCentralLineResult {
 	if !helicalValleyLBFGSCentralFinite(slope) {
-		slope = helicalValleyLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: helicalValleyLBFGSCentralShortenAlong is not inlined
+		slope = helicalValleyLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: helicalValleyLBFGSCentralShortenAlong is not inlined
 	}
 	low := helicalValleyLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type helicalValleyLBFGSCentralSearchEnd uint8
 // helicalValleyLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (helicalValleyLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (helicalValleyLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (helicalValleyLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func helicalValleyLBFGSCentralShortenAlong(g, d *[3]float64, slope float64, floor *helicalValleyLBFGSCentralStepFloor) float64 {
+func helicalValleyLBFGSCentralShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if helicalValleyLBFGSCentralFinite(slope) || !helicalValleyLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := helicalValleyLBFGSCentralMaxAbs(d)
 	helicalValleyLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / helicalValleyLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return helicalValleyLBFGSCentralDot(g, d)
-}
-
-// helicalValleyLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyLBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // helicalValleyLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func helicalValleyLBFGSCentralShrinkDirection(d, g *[3]float64) {
 			helicalValleyLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// helicalValleyLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func helicalValleyLBFGSCentralMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := helicalValleyLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // helicalValleyLBFGSCentralScaleBy sets x = c·x.

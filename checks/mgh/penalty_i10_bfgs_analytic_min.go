@@ -443,6 +443,7 @@ func (r *penaltyI10BFGSAnalyticDescent) judge() {
 		}
 		penaltyI10BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI10BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI10BFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func penaltyI10BFGSAnalyticStepScale(xi float64, i int, diffs *penaltyI10BFGSAna
 // penaltyI10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10BFGSAnalyticBox) {}
 
+// penaltyI10BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI10BFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
+}
+
 // penaltyI10BFGSAnalyticSearchDirection is the direction's own.
 func penaltyI10BFGSAnalyticSearchDirection(dir *penaltyI10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
 	penaltyI10BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) penaltyI10BFGSAnalyticLineResult {
 	if !penaltyI10BFGSAnalyticFinite(slope) {
-		slope = penaltyI10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10BFGSAnalyticShortenAlong is not inlined
+		slope = penaltyI10BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyI10BFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyI10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type penaltyI10BFGSAnalyticSearchEnd uint8
 // penaltyI10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI10BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI10BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10BFGSAnalyticStepFloor) float64 {
+func penaltyI10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyI10BFGSAnalyticFinite(slope) || !penaltyI10BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI10BFGSAnalyticMaxAbs(d)
 	penaltyI10BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI10BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI10BFGSAnalyticDot(g, d)
-}
-
-// penaltyI10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func penaltyI10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			penaltyI10BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI10BFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyI10BFGSCentralDescent) judge() {
 		}
 		penaltyI10BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI10BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI10BFGSCentralOutOfIterations)
@@ -1086,6 +1087,10 @@ func penaltyI10BFGSCentralStepScale(xi float64, i int, diffs *penaltyI10BFGSCent
 // penaltyI10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10BFGSCentralBox) {}
 
+// penaltyI10BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI10BFGSCentralLearnCurvature(s, y *[10]float64, diffs *penaltyI10BFGSCentralDifferences) {
+}
+
 // penaltyI10BFGSCentralSearchDirection is the direction's own.
 func penaltyI10BFGSCentralSearchDirection(dir *penaltyI10BFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyI10BFGSCentralDifferences) {
 	penaltyI10BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1162,7 @@ func penaltyI10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penalt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSCentralDifferences) penaltyI10BFGSCentralLineResult {
 	if !penaltyI10BFGSCentralFinite(slope) {
-		slope = penaltyI10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10BFGSCentralShortenAlong is not inlined
+		slope = penaltyI10BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyI10BFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyI10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1246,16 @@ type penaltyI10BFGSCentralSearchEnd uint8
 // penaltyI10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI10BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI10BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10BFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10BFGSCentralStepFloor) float64 {
+func penaltyI10BFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyI10BFGSCentralFinite(slope) || !penaltyI10BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI10BFGSCentralMaxAbs(d)
 	penaltyI10BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI10BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI10BFGSCentralDot(g, d)
-}
-
-// penaltyI10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10BFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1270,17 @@ func penaltyI10BFGSCentralShrinkDirection(d, g *[10]float64) {
 			penaltyI10BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI10BFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyI10CGAnalyticDescent) judge() {
 		}
 		penaltyI10CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI10CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI10CGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func penaltyI10CGAnalyticStepScale(xi float64, i int, diffs *penaltyI10CGAnalyti
 // penaltyI10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10CGAnalyticBox) {}
 
+// penaltyI10CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI10CGAnalyticLearnCurvature(s, y *[10]float64, diffs *penaltyI10CGAnalyticDifferences) {}
+
 // penaltyI10CGAnalyticSearchDirection is the direction's own.
 func penaltyI10CGAnalyticSearchDirection(dir *penaltyI10CGAnalyticDirection, x, g, d *[10]float64, diffs *penaltyI10CGAnalyticDifferences) {
 	penaltyI10CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penalty
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10CGAnalyticDifferences) penaltyI10CGAnalyticLineResult {
 	if !penaltyI10CGAnalyticFinite(slope) {
-		slope = penaltyI10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10CGAnalyticShortenAlong is not inlined
+		slope = penaltyI10CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyI10CGAnalyticShortenAlong is not inlined
 	}
 	low := penaltyI10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type penaltyI10CGAnalyticSearchEnd uint8
 // penaltyI10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI10CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI10CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10CGAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10CGAnalyticStepFloor) float64 {
+func penaltyI10CGAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyI10CGAnalyticFinite(slope) || !penaltyI10CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI10CGAnalyticMaxAbs(d)
 	penaltyI10CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI10CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI10CGAnalyticDot(g, d)
-}
-
-// penaltyI10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10CGAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func penaltyI10CGAnalyticShrinkDirection(d, g *[10]float64) {
 			penaltyI10CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI10CGAnalyticScaleBy sets x = c·x.

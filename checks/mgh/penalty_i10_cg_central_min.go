@@ -443,6 +443,7 @@ func (r *penaltyI10CGCentralDescent) judge() {
 		}
 		penaltyI10CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI10CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI10CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func penaltyI10CGCentralStepScale(xi float64, i int, diffs *penaltyI10CGCentralD
 // penaltyI10CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10CGCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10CGCentralBox) {}
 
+// penaltyI10CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI10CGCentralLearnCurvature(s, y *[10]float64, diffs *penaltyI10CGCentralDifferences) {}
+
 // penaltyI10CGCentralSearchDirection is the direction's own.
 func penaltyI10CGCentralSearchDirection(dir *penaltyI10CGCentralDirection, x, g, d *[10]float64, diffs *penaltyI10CGCentralDifferences) {
 	penaltyI10CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyI
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
 	if !penaltyI10CGCentralFinite(slope) {
-		slope = penaltyI10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10CGCentralShortenAlong is not inlined
+		slope = penaltyI10CGCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyI10CGCentralShortenAlong is not inlined
 	}
 	low := penaltyI10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type penaltyI10CGCentralSearchEnd uint8
 // penaltyI10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI10CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI10CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10CGCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10CGCentralStepFloor) float64 {
+func penaltyI10CGCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyI10CGCentralFinite(slope) || !penaltyI10CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI10CGCentralMaxAbs(d)
 	penaltyI10CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI10CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI10CGCentralDot(g, d)
-}
-
-// penaltyI10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10CGCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func penaltyI10CGCentralShrinkDirection(d, g *[10]float64) {
 			penaltyI10CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI10CGCentralScaleBy sets x = c·x.

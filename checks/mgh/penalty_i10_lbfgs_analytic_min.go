@@ -444,6 +444,7 @@ func (r *penaltyI10LBFGSAnalyticDescent) judge() {
 		}
 		penaltyI10LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI10LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI10LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func penaltyI10LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyI10LBFGSA
 // penaltyI10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10LBFGSAnalyticBox) {}
 
+// penaltyI10LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI10LBFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
+}
+
 // penaltyI10LBFGSAnalyticSearchDirection is the direction's own.
 func penaltyI10LBFGSAnalyticSearchDirection(dir *penaltyI10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
 	penaltyI10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *pena
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) penaltyI10LBFGSAnalyticLineResult {
 	if !penaltyI10LBFGSAnalyticFinite(slope) {
-		slope = penaltyI10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10LBFGSAnalyticShortenAlong is not inlined
+		slope = penaltyI10LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyI10LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyI10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type penaltyI10LBFGSAnalyticSearchEnd uint8
 // penaltyI10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI10LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI10LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10LBFGSAnalyticStepFloor) float64 {
+func penaltyI10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyI10LBFGSAnalyticFinite(slope) || !penaltyI10LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI10LBFGSAnalyticMaxAbs(d)
 	penaltyI10LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI10LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI10LBFGSAnalyticDot(g, d)
-}
-
-// penaltyI10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func penaltyI10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			penaltyI10LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI10LBFGSAnalyticScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *penaltyI10LBFGSCentralDescent) judge() {
 		}
 		penaltyI10LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI10LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI10LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func penaltyI10LBFGSCentralStepScale(xi float64, i int, diffs *penaltyI10LBFGSCe
 // penaltyI10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10LBFGSCentralBox) {}
 
+// penaltyI10LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI10LBFGSCentralLearnCurvature(s, y *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) {
+}
+
 // penaltyI10LBFGSCentralSearchDirection is the direction's own.
 func penaltyI10LBFGSCentralSearchDirection(dir *penaltyI10LBFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) {
 	penaltyI10LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyI10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) penaltyI10LBFGSCentralLineResult {
 	if !penaltyI10LBFGSCentralFinite(slope) {
-		slope = penaltyI10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI10LBFGSCentralShortenAlong is not inlined
+		slope = penaltyI10LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyI10LBFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyI10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type penaltyI10LBFGSCentralSearchEnd uint8
 // penaltyI10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI10LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI10LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI10LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyI10LBFGSCentralStepFloor) float64 {
+func penaltyI10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyI10LBFGSCentralFinite(slope) || !penaltyI10LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI10LBFGSCentralMaxAbs(d)
 	penaltyI10LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI10LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI10LBFGSCentralDot(g, d)
-}
-
-// penaltyI10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10LBFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func penaltyI10LBFGSCentralShrinkDirection(d, g *[10]float64) {
 			penaltyI10LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI10LBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyI4BFGSAnalyticDescent) judge() {
 		}
 		penaltyI4BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI4BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI4BFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func penaltyI4BFGSAnalyticStepScale(xi float64, i int, diffs *penaltyI4BFGSAnaly
 // penaltyI4BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4BFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4BFGSAnalyticBox) {}
 
+// penaltyI4BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI4BFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {}
+
 // penaltyI4BFGSAnalyticSearchDirection is the direction's own.
 func penaltyI4BFGSAnalyticSearchDirection(dir *penaltyI4BFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
 	penaltyI4BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penalty
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4BFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
 	if !penaltyI4BFGSAnalyticFinite(slope) {
-		slope = penaltyI4BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4BFGSAnalyticShortenAlong is not inlined
+		slope = penaltyI4BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyI4BFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyI4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type penaltyI4BFGSAnalyticSearchEnd uint8
 // penaltyI4BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI4BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI4BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4BFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4BFGSAnalyticStepFloor) float64 {
+func penaltyI4BFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyI4BFGSAnalyticFinite(slope) || !penaltyI4BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI4BFGSAnalyticMaxAbs(d)
 	penaltyI4BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI4BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI4BFGSAnalyticDot(g, d)
-}
-
-// penaltyI4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI4BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func penaltyI4BFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			penaltyI4BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI4BFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyI4BFGSCentralDescent) judge() {
 		}
 		penaltyI4BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI4BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI4BFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func penaltyI4BFGSCentralStepScale(xi float64, i int, diffs *penaltyI4BFGSCentra
 // penaltyI4BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4BFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4BFGSCentralBox) {}
 
+// penaltyI4BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI4BFGSCentralLearnCurvature(s, y *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {}
+
 // penaltyI4BFGSCentralSearchDirection is the direction's own.
 func penaltyI4BFGSCentralSearchDirection(dir *penaltyI4BFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
 	penaltyI4BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4BFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSCentralDifferences) penaltyI4BFGSCentralLineResult {
 	if !penaltyI4BFGSCentralFinite(slope) {
-		slope = penaltyI4BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4BFGSCentralShortenAlong is not inlined
+		slope = penaltyI4BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyI4BFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyI4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type penaltyI4BFGSCentralSearchEnd uint8
 // penaltyI4BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI4BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI4BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4BFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4BFGSCentralStepFloor) float64 {
+func penaltyI4BFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyI4BFGSCentralFinite(slope) || !penaltyI4BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI4BFGSCentralMaxAbs(d)
 	penaltyI4BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI4BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI4BFGSCentralDot(g, d)
-}
-
-// penaltyI4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4BFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI4BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func penaltyI4BFGSCentralShrinkDirection(d, g *[4]float64) {
 			penaltyI4BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4BFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI4BFGSCentralScaleBy sets x = c·x.

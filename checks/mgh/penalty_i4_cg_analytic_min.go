@@ -443,6 +443,7 @@ func (r *penaltyI4CGAnalyticDescent) judge() {
 		}
 		penaltyI4CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI4CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI4CGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func penaltyI4CGAnalyticStepScale(xi float64, i int, diffs *penaltyI4CGAnalyticD
 // penaltyI4CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4CGAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4CGAnalyticBox) {}
 
+// penaltyI4CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI4CGAnalyticLearnCurvature(s, y *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {}
+
 // penaltyI4CGAnalyticSearchDirection is the direction's own.
 func penaltyI4CGAnalyticSearchDirection(dir *penaltyI4CGAnalyticDirection, x, g, d *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
 	penaltyI4CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4CGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4CGAnalyticDifferences) penaltyI4CGAnalyticLineResult {
 	if !penaltyI4CGAnalyticFinite(slope) {
-		slope = penaltyI4CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4CGAnalyticShortenAlong is not inlined
+		slope = penaltyI4CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyI4CGAnalyticShortenAlong is not inlined
 	}
 	low := penaltyI4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type penaltyI4CGAnalyticSearchEnd uint8
 // penaltyI4CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI4CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI4CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4CGAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4CGAnalyticStepFloor) float64 {
+func penaltyI4CGAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyI4CGAnalyticFinite(slope) || !penaltyI4CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI4CGAnalyticMaxAbs(d)
 	penaltyI4CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI4CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI4CGAnalyticDot(g, d)
-}
-
-// penaltyI4CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4CGAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI4CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func penaltyI4CGAnalyticShrinkDirection(d, g *[4]float64) {
 			penaltyI4CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI4CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4CGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI4CGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyI4CGCentralDescent) judge() {
 		}
 		penaltyI4CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI4CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI4CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func penaltyI4CGCentralStepScale(xi float64, i int, diffs *penaltyI4CGCentralDif
 // penaltyI4CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4CGCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4CGCentralBox) {}
 
+// penaltyI4CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI4CGCentralLearnCurvature(s, y *[4]float64, diffs *penaltyI4CGCentralDifferences) {}
+
 // penaltyI4CGCentralSearchDirection is the direction's own.
 func penaltyI4CGCentralSearchDirection(dir *penaltyI4CGCentralDirection, x, g, d *[4]float64, diffs *penaltyI4CGCentralDifferences) {
 	penaltyI4CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4C
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4CGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4CGCentralDifferences) penaltyI4CGCentralLineResult {
 	if !penaltyI4CGCentralFinite(slope) {
-		slope = penaltyI4CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4CGCentralShortenAlong is not inlined
+		slope = penaltyI4CGCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyI4CGCentralShortenAlong is not inlined
 	}
 	low := penaltyI4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type penaltyI4CGCentralSearchEnd uint8
 // penaltyI4CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI4CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI4CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4CGCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4CGCentralStepFloor) float64 {
+func penaltyI4CGCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyI4CGCentralFinite(slope) || !penaltyI4CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI4CGCentralMaxAbs(d)
 	penaltyI4CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI4CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI4CGCentralDot(g, d)
-}
-
-// penaltyI4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4CGCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI4CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func penaltyI4CGCentralShrinkDirection(d, g *[4]float64) {
 			penaltyI4CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4CGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI4CGCentralScaleBy sets x = c·x.

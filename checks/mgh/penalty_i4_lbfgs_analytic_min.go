@@ -444,6 +444,7 @@ func (r *penaltyI4LBFGSAnalyticDescent) judge() {
 		}
 		penaltyI4LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI4LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI4LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func penaltyI4LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyI4LBFGSAna
 // penaltyI4LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4LBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4LBFGSAnalyticBox) {}
 
+// penaltyI4LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI4LBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
+}
+
 // penaltyI4LBFGSAnalyticSearchDirection is the direction's own.
 func penaltyI4LBFGSAnalyticSearchDirection(dir *penaltyI4LBFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
 	penaltyI4LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penalt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4LBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
 	if !penaltyI4LBFGSAnalyticFinite(slope) {
-		slope = penaltyI4LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4LBFGSAnalyticShortenAlong is not inlined
+		slope = penaltyI4LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyI4LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyI4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type penaltyI4LBFGSAnalyticSearchEnd uint8
 // penaltyI4LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI4LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI4LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4LBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4LBFGSAnalyticStepFloor) float64 {
+func penaltyI4LBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyI4LBFGSAnalyticFinite(slope) || !penaltyI4LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI4LBFGSAnalyticMaxAbs(d)
 	penaltyI4LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI4LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI4LBFGSAnalyticDot(g, d)
-}
-
-// penaltyI4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI4LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func penaltyI4LBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			penaltyI4LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI4LBFGSAnalyticScaleBy sets x = c·x.

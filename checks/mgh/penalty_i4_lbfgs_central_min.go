@@ -444,6 +444,7 @@ func (r *penaltyI4LBFGSCentralDescent) judge() {
 		}
 		penaltyI4LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyI4LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyI4LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func penaltyI4LBFGSCentralStepScale(xi float64, i int, diffs *penaltyI4LBFGSCent
 // penaltyI4LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyI4LBFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4LBFGSCentralBox) {}
 
+// penaltyI4LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyI4LBFGSCentralLearnCurvature(s, y *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {}
+
 // penaltyI4LBFGSCentralSearchDirection is the direction's own.
 func penaltyI4LBFGSCentralSearchDirection(dir *penaltyI4LBFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
 	penaltyI4LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penalty
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyI4LBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) penaltyI4LBFGSCentralLineResult {
 	if !penaltyI4LBFGSCentralFinite(slope) {
-		slope = penaltyI4LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyI4LBFGSCentralShortenAlong is not inlined
+		slope = penaltyI4LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyI4LBFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyI4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type penaltyI4LBFGSCentralSearchEnd uint8
 // penaltyI4LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyI4LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyI4LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyI4LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyI4LBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyI4LBFGSCentralStepFloor) float64 {
+func penaltyI4LBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyI4LBFGSCentralFinite(slope) || !penaltyI4LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyI4LBFGSCentralMaxAbs(d)
 	penaltyI4LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyI4LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyI4LBFGSCentralDot(g, d)
-}
-
-// penaltyI4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4LBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyI4LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func penaltyI4LBFGSCentralShrinkDirection(d, g *[4]float64) {
 			penaltyI4LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyI4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyI4LBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyI4LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyI4LBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyII10BFGSAnalyticDescent) judge() {
 		}
 		penaltyII10BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII10BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII10BFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func penaltyII10BFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII10BFGSA
 // penaltyII10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10BFGSAnalyticBox) {}
 
+// penaltyII10BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII10BFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
+}
+
 // penaltyII10BFGSAnalyticSearchDirection is the direction's own.
 func penaltyII10BFGSAnalyticSearchDirection(dir *penaltyII10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
 	penaltyII10BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *pena
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) penaltyII10BFGSAnalyticLineResult {
 	if !penaltyII10BFGSAnalyticFinite(slope) {
-		slope = penaltyII10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10BFGSAnalyticShortenAlong is not inlined
+		slope = penaltyII10BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyII10BFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyII10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type penaltyII10BFGSAnalyticSearchEnd uint8
 // penaltyII10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII10BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII10BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII10BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *penaltyII10BFGSAnalyticStepFloor) float64 {
+func penaltyII10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyII10BFGSAnalyticFinite(slope) || !penaltyII10BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII10BFGSAnalyticMaxAbs(d)
 	penaltyII10BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII10BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII10BFGSAnalyticDot(g, d)
-}
-
-// penaltyII10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func penaltyII10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			penaltyII10BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII10BFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *penaltyII10BFGSCentralDescent) judge() {
 		}
 		penaltyII10BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII10BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII10BFGSCentralOutOfIterations)
@@ -1086,6 +1087,10 @@ func penaltyII10BFGSCentralStepScale(xi float64, i int, diffs *penaltyII10BFGSCe
 // penaltyII10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10BFGSCentralBox) {}
 
+// penaltyII10BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII10BFGSCentralLearnCurvature(s, y *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
+}
+
 // penaltyII10BFGSCentralSearchDirection is the direction's own.
 func penaltyII10BFGSCentralSearchDirection(dir *penaltyII10BFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
 	penaltyII10BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1162,7 @@ func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
 	if !penaltyII10BFGSCentralFinite(slope) {
-		slope = penaltyII10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10BFGSCentralShortenAlong is not inlined
+		slope = penaltyII10BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyII10BFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyII10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1246,16 @@ type penaltyII10BFGSCentralSearchEnd uint8
 // penaltyII10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII10BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII10BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII10BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII10BFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyII10BFGSCentralStepFloor) float64 {
+func penaltyII10BFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyII10BFGSCentralFinite(slope) || !penaltyII10BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII10BFGSCentralMaxAbs(d)
 	penaltyII10BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII10BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII10BFGSCentralDot(g, d)
-}
-
-// penaltyII10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10BFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1270,17 @@ func penaltyII10BFGSCentralShrinkDirection(d, g *[10]float64) {
 			penaltyII10BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII10BFGSCentralScaleBy sets x = c·x.

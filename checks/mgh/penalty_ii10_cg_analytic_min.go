@@ -443,6 +443,7 @@ func (r *penaltyII10CGAnalyticDescent) judge() {
 		}
 		penaltyII10CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII10CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII10CGAnalyticOutOfIterations)
@@ -898,6 +899,10 @@ func penaltyII10CGAnalyticStepScale(xi float64, i int, diffs *penaltyII10CGAnaly
 // penaltyII10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10CGAnalyticBox) {}
 
+// penaltyII10CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII10CGAnalyticLearnCurvature(s, y *[10]float64, diffs *penaltyII10CGAnalyticDifferences) {
+}
+
 // penaltyII10CGAnalyticSearchDirection is the direction's own.
 func penaltyII10CGAnalyticSearchDirection(dir *penaltyII10CGAnalyticDirection, x, g, d *[10]float64, diffs *penaltyII10CGAnalyticDifferences) {
 	penaltyII10CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +974,7 @@ func penaltyII10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penalt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10CGAnalyticDifferences) penaltyII10CGAnalyticLineResult {
 	if !penaltyII10CGAnalyticFinite(slope) {
-		slope = penaltyII10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10CGAnalyticShortenAlong is not inlined
+		slope = penaltyII10CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyII10CGAnalyticShortenAlong is not inlined
 	}
 	low := penaltyII10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1058,16 @@ type penaltyII10CGAnalyticSearchEnd uint8
 // penaltyII10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII10CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII10CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII10CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII10CGAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *penaltyII10CGAnalyticStepFloor) float64 {
+func penaltyII10CGAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyII10CGAnalyticFinite(slope) || !penaltyII10CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII10CGAnalyticMaxAbs(d)
 	penaltyII10CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII10CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII10CGAnalyticDot(g, d)
-}
-
-// penaltyII10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10CGAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1082,17 @@ func penaltyII10CGAnalyticShrinkDirection(d, g *[10]float64) {
 			penaltyII10CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII10CGAnalyticScaleBy sets x = c·x.

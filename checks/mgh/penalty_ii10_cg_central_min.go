@@ -443,6 +443,7 @@ func (r *penaltyII10CGCentralDescent) judge() {
 		}
 		penaltyII10CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII10CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII10CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func penaltyII10CGCentralStepScale(xi float64, i int, diffs *penaltyII10CGCentra
 // penaltyII10CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10CGCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10CGCentralBox) {}
 
+// penaltyII10CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII10CGCentralLearnCurvature(s, y *[10]float64, diffs *penaltyII10CGCentralDifferences) {}
+
 // penaltyII10CGCentralSearchDirection is the direction's own.
 func penaltyII10CGCentralSearchDirection(dir *penaltyII10CGCentralDirection, x, g, d *[10]float64, diffs *penaltyII10CGCentralDifferences) {
 	penaltyII10CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func penaltyII10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *penalty
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10CGCentralDifferences) penaltyII10CGCentralLineResult {
 	if !penaltyII10CGCentralFinite(slope) {
-		slope = penaltyII10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10CGCentralShortenAlong is not inlined
+		slope = penaltyII10CGCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyII10CGCentralShortenAlong is not inlined
 	}
 	low := penaltyII10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type penaltyII10CGCentralSearchEnd uint8
 // penaltyII10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII10CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII10CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII10CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII10CGCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyII10CGCentralStepFloor) float64 {
+func penaltyII10CGCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyII10CGCentralFinite(slope) || !penaltyII10CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII10CGCentralMaxAbs(d)
 	penaltyII10CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII10CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII10CGCentralDot(g, d)
-}
-
-// penaltyII10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10CGCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func penaltyII10CGCentralShrinkDirection(d, g *[10]float64) {
 			penaltyII10CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII10CGCentralScaleBy sets x = c·x.

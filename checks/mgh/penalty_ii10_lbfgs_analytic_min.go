@@ -444,6 +444,7 @@ func (r *penaltyII10LBFGSAnalyticDescent) judge() {
 		}
 		penaltyII10LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII10LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII10LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func penaltyII10LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII10LBFG
 // penaltyII10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10LBFGSAnalyticBox) {}
 
+// penaltyII10LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII10LBFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
+}
+
 // penaltyII10LBFGSAnalyticSearchDirection is the direction's own.
 func penaltyII10LBFGSAnalyticSearchDirection(dir *penaltyII10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
 	penaltyII10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *pen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) penaltyII10LBFGSAnalyticLineResult {
 	if !penaltyII10LBFGSAnalyticFinite(slope) {
-		slope = penaltyII10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10LBFGSAnalyticShortenAlong is not inlined
+		slope = penaltyII10LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyII10LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyII10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type penaltyII10LBFGSAnalyticSearchEnd uint8
 // penaltyII10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII10LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII10LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII10LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *penaltyII10LBFGSAnalyticStepFloor) float64 {
+func penaltyII10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyII10LBFGSAnalyticFinite(slope) || !penaltyII10LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII10LBFGSAnalyticMaxAbs(d)
 	penaltyII10LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII10LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII10LBFGSAnalyticDot(g, d)
-}
-
-// penaltyII10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func penaltyII10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			penaltyII10LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII10LBFGSAnalyticScaleBy sets x = c·x.

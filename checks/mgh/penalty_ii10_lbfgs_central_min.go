@@ -444,6 +444,7 @@ func (r *penaltyII10LBFGSCentralDescent) judge() {
 		}
 		penaltyII10LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII10LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII10LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func penaltyII10LBFGSCentralStepScale(xi float64, i int, diffs *penaltyII10LBFGS
 // penaltyII10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10LBFGSCentralBox) {}
 
+// penaltyII10LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII10LBFGSCentralLearnCurvature(s, y *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
+}
+
 // penaltyII10LBFGSCentralSearchDirection is the direction's own.
 func penaltyII10LBFGSCentralSearchDirection(dir *penaltyII10LBFGSCentralDirection, x, g, d *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
 	penaltyII10LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *pena
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *penaltyII10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) penaltyII10LBFGSCentralLineResult {
 	if !penaltyII10LBFGSCentralFinite(slope) {
-		slope = penaltyII10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII10LBFGSCentralShortenAlong is not inlined
+		slope = penaltyII10LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyII10LBFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyII10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type penaltyII10LBFGSCentralSearchEnd uint8
 // penaltyII10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII10LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII10LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII10LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *penaltyII10LBFGSCentralStepFloor) float64 {
+func penaltyII10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if penaltyII10LBFGSCentralFinite(slope) || !penaltyII10LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII10LBFGSCentralMaxAbs(d)
 	penaltyII10LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII10LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII10LBFGSCentralDot(g, d)
-}
-
-// penaltyII10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10LBFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func penaltyII10LBFGSCentralShrinkDirection(d, g *[10]float64) {
 			penaltyII10LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII10LBFGSCentralScaleBy sets x = c·x.

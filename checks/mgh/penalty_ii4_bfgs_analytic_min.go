@@ -443,6 +443,7 @@ func (r *penaltyII4BFGSAnalyticDescent) judge() {
 		}
 		penaltyII4BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII4BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII4BFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func penaltyII4BFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII4BFGSAna
 // penaltyII4BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4BFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4BFGSAnalyticBox) {}
 
+// penaltyII4BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII4BFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
+}
+
 // penaltyII4BFGSAnalyticSearchDirection is the direction's own.
 func penaltyII4BFGSAnalyticSearchDirection(dir *penaltyII4BFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
 	penaltyII4BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penalt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4BFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) penaltyII4BFGSAnalyticLineResult {
 	if !penaltyII4BFGSAnalyticFinite(slope) {
-		slope = penaltyII4BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4BFGSAnalyticShortenAlong is not inlined
+		slope = penaltyII4BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyII4BFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyII4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type penaltyII4BFGSAnalyticSearchEnd uint8
 // penaltyII4BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII4BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII4BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII4BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII4BFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *penaltyII4BFGSAnalyticStepFloor) float64 {
+func penaltyII4BFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyII4BFGSAnalyticFinite(slope) || !penaltyII4BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII4BFGSAnalyticMaxAbs(d)
 	penaltyII4BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII4BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII4BFGSAnalyticDot(g, d)
-}
-
-// penaltyII4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII4BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func penaltyII4BFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			penaltyII4BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII4BFGSAnalyticScaleBy sets x = c·x.

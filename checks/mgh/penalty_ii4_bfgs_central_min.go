@@ -443,6 +443,7 @@ func (r *penaltyII4BFGSCentralDescent) judge() {
 		}
 		penaltyII4BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII4BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII4BFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func penaltyII4BFGSCentralStepScale(xi float64, i int, diffs *penaltyII4BFGSCent
 // penaltyII4BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4BFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4BFGSCentralBox) {}
 
+// penaltyII4BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII4BFGSCentralLearnCurvature(s, y *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {}
+
 // penaltyII4BFGSCentralSearchDirection is the direction's own.
 func penaltyII4BFGSCentralSearchDirection(dir *penaltyII4BFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
 	penaltyII4BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penalty
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4BFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSCentralDifferences) penaltyII4BFGSCentralLineResult {
 	if !penaltyII4BFGSCentralFinite(slope) {
-		slope = penaltyII4BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4BFGSCentralShortenAlong is not inlined
+		slope = penaltyII4BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyII4BFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyII4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type penaltyII4BFGSCentralSearchEnd uint8
 // penaltyII4BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII4BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII4BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII4BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII4BFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyII4BFGSCentralStepFloor) float64 {
+func penaltyII4BFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyII4BFGSCentralFinite(slope) || !penaltyII4BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII4BFGSCentralMaxAbs(d)
 	penaltyII4BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII4BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII4BFGSCentralDot(g, d)
-}
-
-// penaltyII4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4BFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII4BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func penaltyII4BFGSCentralShrinkDirection(d, g *[4]float64) {
 			penaltyII4BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4BFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII4BFGSCentralScaleBy sets x = c·x.

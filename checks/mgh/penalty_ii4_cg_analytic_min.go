@@ -443,6 +443,7 @@ func (r *penaltyII4CGAnalyticDescent) judge() {
 		}
 		penaltyII4CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII4CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII4CGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func penaltyII4CGAnalyticStepScale(xi float64, i int, diffs *penaltyII4CGAnalyti
 // penaltyII4CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4CGAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4CGAnalyticBox) {}
 
+// penaltyII4CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII4CGAnalyticLearnCurvature(s, y *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {}
+
 // penaltyII4CGAnalyticSearchDirection is the direction's own.
 func penaltyII4CGAnalyticSearchDirection(dir *penaltyII4CGAnalyticDirection, x, g, d *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {
 	penaltyII4CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func penaltyII4CGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4CGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4CGAnalyticDifferences) penaltyII4CGAnalyticLineResult {
 	if !penaltyII4CGAnalyticFinite(slope) {
-		slope = penaltyII4CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4CGAnalyticShortenAlong is not inlined
+		slope = penaltyII4CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyII4CGAnalyticShortenAlong is not inlined
 	}
 	low := penaltyII4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type penaltyII4CGAnalyticSearchEnd uint8
 // penaltyII4CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII4CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII4CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII4CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII4CGAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *penaltyII4CGAnalyticStepFloor) float64 {
+func penaltyII4CGAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyII4CGAnalyticFinite(slope) || !penaltyII4CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII4CGAnalyticMaxAbs(d)
 	penaltyII4CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII4CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII4CGAnalyticDot(g, d)
-}
-
-// penaltyII4CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4CGAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII4CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func penaltyII4CGAnalyticShrinkDirection(d, g *[4]float64) {
 			penaltyII4CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII4CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4CGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII4CGAnalyticScaleBy sets x = c·x.

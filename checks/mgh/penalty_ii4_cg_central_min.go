@@ -443,6 +443,7 @@ func (r *penaltyII4CGCentralDescent) judge() {
 		}
 		penaltyII4CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII4CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII4CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func penaltyII4CGCentralStepScale(xi float64, i int, diffs *penaltyII4CGCentralD
 // penaltyII4CGCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4CGCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4CGCentralBox) {}
 
+// penaltyII4CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII4CGCentralLearnCurvature(s, y *[4]float64, diffs *penaltyII4CGCentralDifferences) {}
+
 // penaltyII4CGCentralSearchDirection is the direction's own.
 func penaltyII4CGCentralSearchDirection(dir *penaltyII4CGCentralDirection, x, g, d *[4]float64, diffs *penaltyII4CGCentralDifferences) {
 	penaltyII4CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4CGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4CGCentralDifferences) penaltyII4CGCentralLineResult {
 	if !penaltyII4CGCentralFinite(slope) {
-		slope = penaltyII4CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4CGCentralShortenAlong is not inlined
+		slope = penaltyII4CGCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyII4CGCentralShortenAlong is not inlined
 	}
 	low := penaltyII4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type penaltyII4CGCentralSearchEnd uint8
 // penaltyII4CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII4CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII4CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII4CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII4CGCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyII4CGCentralStepFloor) float64 {
+func penaltyII4CGCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyII4CGCentralFinite(slope) || !penaltyII4CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII4CGCentralMaxAbs(d)
 	penaltyII4CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII4CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII4CGCentralDot(g, d)
-}
-
-// penaltyII4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4CGCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII4CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func penaltyII4CGCentralShrinkDirection(d, g *[4]float64) {
 			penaltyII4CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4CGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII4CGCentralScaleBy sets x = c·x.

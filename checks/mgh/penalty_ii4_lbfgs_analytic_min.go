@@ -444,6 +444,7 @@ func (r *penaltyII4LBFGSAnalyticDescent) judge() {
 		}
 		penaltyII4LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII4LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII4LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func penaltyII4LBFGSAnalyticStepScale(xi float64, i int, diffs *penaltyII4LBFGSA
 // penaltyII4LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4LBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4LBFGSAnalyticBox) {}
 
+// penaltyII4LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII4LBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
+}
+
 // penaltyII4LBFGSAnalyticSearchDirection is the direction's own.
 func penaltyII4LBFGSAnalyticSearchDirection(dir *penaltyII4LBFGSAnalyticDirection, x, g, d *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
 	penaltyII4LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4LBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) penaltyII4LBFGSAnalyticLineResult {
 	if !penaltyII4LBFGSAnalyticFinite(slope) {
-		slope = penaltyII4LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4LBFGSAnalyticShortenAlong is not inlined
+		slope = penaltyII4LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: penaltyII4LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := penaltyII4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type penaltyII4LBFGSAnalyticSearchEnd uint8
 // penaltyII4LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII4LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII4LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII4LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII4LBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *penaltyII4LBFGSAnalyticStepFloor) float64 {
+func penaltyII4LBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyII4LBFGSAnalyticFinite(slope) || !penaltyII4LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII4LBFGSAnalyticMaxAbs(d)
 	penaltyII4LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII4LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII4LBFGSAnalyticDot(g, d)
-}
-
-// penaltyII4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII4LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func penaltyII4LBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			penaltyII4LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII4LBFGSAnalyticScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *penaltyII4LBFGSCentralDescent) judge() {
 		}
 		penaltyII4LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		penaltyII4LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PenaltyII4LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func penaltyII4LBFGSCentralStepScale(xi float64, i int, diffs *penaltyII4LBFGSCe
 // penaltyII4LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func penaltyII4LBFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4LBFGSCentralBox) {}
 
+// penaltyII4LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func penaltyII4LBFGSCentralLearnCurvature(s, y *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
+}
+
 // penaltyII4LBFGSCentralSearchDirection is the direction's own.
 func penaltyII4LBFGSCentralSearchDirection(dir *penaltyII4LBFGSCentralDirection, x, g, d *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
 	penaltyII4LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penalt
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *penaltyII4LBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) penaltyII4LBFGSCentralLineResult {
 	if !penaltyII4LBFGSCentralFinite(slope) {
-		slope = penaltyII4LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: penaltyII4LBFGSCentralShortenAlong is not inlined
+		slope = penaltyII4LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: penaltyII4LBFGSCentralShortenAlong is not inlined
 	}
 	low := penaltyII4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type penaltyII4LBFGSCentralSearchEnd uint8
 // penaltyII4LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (penaltyII4LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (penaltyII4LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (penaltyII4LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func penaltyII4LBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *penaltyII4LBFGSCentralStepFloor) float64 {
+func penaltyII4LBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if penaltyII4LBFGSCentralFinite(slope) || !penaltyII4LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := penaltyII4LBFGSCentralMaxAbs(d)
 	penaltyII4LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / penaltyII4LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return penaltyII4LBFGSCentralDot(g, d)
-}
-
-// penaltyII4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4LBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // penaltyII4LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func penaltyII4LBFGSCentralShrinkDirection(d, g *[4]float64) {
 			penaltyII4LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// penaltyII4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func penaltyII4LBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := penaltyII4LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // penaltyII4LBFGSCentralScaleBy sets x = c·x.

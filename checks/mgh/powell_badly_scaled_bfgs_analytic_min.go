@@ -443,6 +443,7 @@ func (r *powellBadlyScaledBFGSAnalyticDescent) judge() {
 		}
 		powellBadlyScaledBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellBadlyScaledBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellBadlyScaledBFGSAnalyticOutOfIterations)
@@ -908,6 +909,10 @@ func powellBadlyScaledBFGSAnalyticStepScale(xi float64, i int, diffs *powellBadl
 func powellBadlyScaledBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {
 }
 
+// powellBadlyScaledBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func powellBadlyScaledBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
+}
+
 // powellBadlyScaledBFGSAnalyticSearchDirection is the direction's own.
 func powellBadlyScaledBFGSAnalyticSearchDirection(dir *powellBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
 	powellBadlyScaledBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -979,7 +984,7 @@ func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
 	if !powellBadlyScaledBFGSAnalyticFinite(slope) {
-		slope = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledBFGSAnalyticShortenAlong is not inlined
+		slope = powellBadlyScaledBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: powellBadlyScaledBFGSAnalyticShortenAlong is not inlined
 	}
 	low := powellBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1063,30 +1068,16 @@ type powellBadlyScaledBFGSAnalyticSearchEnd uint8
 // powellBadlyScaledBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellBadlyScaledBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledBFGSAnalyticStepFloor) float64 {
+func powellBadlyScaledBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if powellBadlyScaledBFGSAnalyticFinite(slope) || !powellBadlyScaledBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := powellBadlyScaledBFGSAnalyticMaxAbs(d)
 	powellBadlyScaledBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellBadlyScaledBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellBadlyScaledBFGSAnalyticDot(g, d)
-}
-
-// powellBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellBadlyScaledBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1101,6 +1092,17 @@ func powellBadlyScaledBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			powellBadlyScaledBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellBadlyScaledBFGSAnalyticScaleBy sets x = c·x.

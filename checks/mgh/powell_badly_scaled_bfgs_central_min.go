@@ -443,6 +443,7 @@ func (r *powellBadlyScaledBFGSCentralDescent) judge() {
 		}
 		powellBadlyScaledBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellBadlyScaledBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellBadlyScaledBFGSCentralOutOfIterations)
@@ -1087,6 +1088,10 @@ func powellBadlyScaledBFGSCentralStepScale(xi float64, i int, diffs *powellBadly
 func powellBadlyScaledBFGSCentralCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledBFGSCentralBox) {
 }
 
+// powellBadlyScaledBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func powellBadlyScaledBFGSCentralLearnCurvature(s, y *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
+}
+
 // powellBadlyScaledBFGSCentralSearchDirection is the direction's own.
 func powellBadlyScaledBFGSCentralSearchDirection(dir *powellBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
 	powellBadlyScaledBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1158,7 +1163,7 @@ func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) powellBadlyScaledBFGSCentralLineResult {
 	if !powellBadlyScaledBFGSCentralFinite(slope) {
-		slope = powellBadlyScaledBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledBFGSCentralShortenAlong is not inlined
+		slope = powellBadlyScaledBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: powellBadlyScaledBFGSCentralShortenAlong is not inlined
 	}
 	low := powellBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1242,30 +1247,16 @@ type powellBadlyScaledBFGSCentralSearchEnd uint8
 // powellBadlyScaledBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellBadlyScaledBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledBFGSCentralStepFloor) float64 {
+func powellBadlyScaledBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if powellBadlyScaledBFGSCentralFinite(slope) || !powellBadlyScaledBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := powellBadlyScaledBFGSCentralMaxAbs(d)
 	powellBadlyScaledBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellBadlyScaledBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellBadlyScaledBFGSCentralDot(g, d)
-}
-
-// powellBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellBadlyScaledBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1280,6 +1271,17 @@ func powellBadlyScaledBFGSCentralShrinkDirection(d, g *[2]float64) {
 			powellBadlyScaledBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellBadlyScaledBFGSCentralScaleBy sets x = c·x.

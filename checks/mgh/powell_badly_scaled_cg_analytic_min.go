@@ -443,6 +443,7 @@ func (r *powellBadlyScaledCGAnalyticDescent) judge() {
 		}
 		powellBadlyScaledCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellBadlyScaledCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellBadlyScaledCGAnalyticOutOfIterations)
@@ -899,6 +900,10 @@ func powellBadlyScaledCGAnalyticStepScale(xi float64, i int, diffs *powellBadlyS
 func powellBadlyScaledCGAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledCGAnalyticBox) {
 }
 
+// powellBadlyScaledCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func powellBadlyScaledCGAnalyticLearnCurvature(s, y *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
+}
+
 // powellBadlyScaledCGAnalyticSearchDirection is the direction's own.
 func powellBadlyScaledCGAnalyticSearchDirection(dir *powellBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
 	powellBadlyScaledCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -970,7 +975,7 @@ func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *p
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
 	if !powellBadlyScaledCGAnalyticFinite(slope) {
-		slope = powellBadlyScaledCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledCGAnalyticShortenAlong is not inlined
+		slope = powellBadlyScaledCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: powellBadlyScaledCGAnalyticShortenAlong is not inlined
 	}
 	low := powellBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1054,30 +1059,16 @@ type powellBadlyScaledCGAnalyticSearchEnd uint8
 // powellBadlyScaledCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellBadlyScaledCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledCGAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledCGAnalyticStepFloor) float64 {
+func powellBadlyScaledCGAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if powellBadlyScaledCGAnalyticFinite(slope) || !powellBadlyScaledCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := powellBadlyScaledCGAnalyticMaxAbs(d)
 	powellBadlyScaledCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellBadlyScaledCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellBadlyScaledCGAnalyticDot(g, d)
-}
-
-// powellBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellBadlyScaledCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1092,6 +1083,17 @@ func powellBadlyScaledCGAnalyticShrinkDirection(d, g *[2]float64) {
 			powellBadlyScaledCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellBadlyScaledCGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *powellBadlyScaledCGCentralDescent) judge() {
 		}
 		powellBadlyScaledCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellBadlyScaledCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellBadlyScaledCGCentralOutOfIterations)
@@ -1077,6 +1078,10 @@ func powellBadlyScaledCGCentralStepScale(xi float64, i int, diffs *powellBadlySc
 // powellBadlyScaledCGCentralCurvaturePair: without bounds the pair is used as it is.
 func powellBadlyScaledCGCentralCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledCGCentralBox) {}
 
+// powellBadlyScaledCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func powellBadlyScaledCGCentralLearnCurvature(s, y *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
+}
+
 // powellBadlyScaledCGCentralSearchDirection is the direction's own.
 func powellBadlyScaledCGCentralSearchDirection(dir *powellBadlyScaledCGCentralDirection, x, g, d *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
 	powellBadlyScaledCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1153,7 @@ func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *po
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) powellBadlyScaledCGCentralLineResult {
 	if !powellBadlyScaledCGCentralFinite(slope) {
-		slope = powellBadlyScaledCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledCGCentralShortenAlong is not inlined
+		slope = powellBadlyScaledCGCentralShortenAlong(g, d, slope) // the call only where it acts: powellBadlyScaledCGCentralShortenAlong is not inlined
 	}
 	low := powellBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1237,16 @@ type powellBadlyScaledCGCentralSearchEnd uint8
 // powellBadlyScaledCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellBadlyScaledCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledCGCentralShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledCGCentralStepFloor) float64 {
+func powellBadlyScaledCGCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if powellBadlyScaledCGCentralFinite(slope) || !powellBadlyScaledCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := powellBadlyScaledCGCentralMaxAbs(d)
 	powellBadlyScaledCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellBadlyScaledCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellBadlyScaledCGCentralDot(g, d)
-}
-
-// powellBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellBadlyScaledCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1261,17 @@ func powellBadlyScaledCGCentralShrinkDirection(d, g *[2]float64) {
 			powellBadlyScaledCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellBadlyScaledCGCentralScaleBy sets x = c·x.

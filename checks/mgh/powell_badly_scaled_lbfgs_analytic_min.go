@@ -444,6 +444,7 @@ func (r *powellBadlyScaledLBFGSAnalyticDescent) judge() {
 		}
 		powellBadlyScaledLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellBadlyScaledLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellBadlyScaledLBFGSAnalyticOutOfIterations)
@@ -941,6 +942,10 @@ func powellBadlyScaledLBFGSAnalyticStepScale(xi float64, i int, diffs *powellBad
 func powellBadlyScaledLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {
 }
 
+// powellBadlyScaledLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func powellBadlyScaledLBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
+}
+
 // powellBadlyScaledLBFGSAnalyticSearchDirection is the direction's own.
 func powellBadlyScaledLBFGSAnalyticSearchDirection(dir *powellBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
 	powellBadlyScaledLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1012,7 +1017,7 @@ func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) powellBadlyScaledLBFGSAnalyticLineResult {
 	if !powellBadlyScaledLBFGSAnalyticFinite(slope) {
-		slope = powellBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledLBFGSAnalyticShortenAlong is not inlined
+		slope = powellBadlyScaledLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: powellBadlyScaledLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := powellBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1096,30 +1101,16 @@ type powellBadlyScaledLBFGSAnalyticSearchEnd uint8
 // powellBadlyScaledLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellBadlyScaledLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledLBFGSAnalyticStepFloor) float64 {
+func powellBadlyScaledLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if powellBadlyScaledLBFGSAnalyticFinite(slope) || !powellBadlyScaledLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := powellBadlyScaledLBFGSAnalyticMaxAbs(d)
 	powellBadlyScaledLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellBadlyScaledLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellBadlyScaledLBFGSAnalyticDot(g, d)
-}
-
-// powellBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellBadlyScaledLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1134,6 +1125,17 @@ func powellBadlyScaledLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			powellBadlyScaledLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellBadlyScaledLBFGSAnalyticScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *powellBadlyScaledLBFGSCentralDescent) judge() {
 		}
 		powellBadlyScaledLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellBadlyScaledLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellBadlyScaledLBFGSCentralOutOfIterations)
@@ -1120,6 +1121,10 @@ func powellBadlyScaledLBFGSCentralStepScale(xi float64, i int, diffs *powellBadl
 func powellBadlyScaledLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledLBFGSCentralBox) {
 }
 
+// powellBadlyScaledLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func powellBadlyScaledLBFGSCentralLearnCurvature(s, y *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
+}
+
 // powellBadlyScaledLBFGSCentralSearchDirection is the direction's own.
 func powellBadlyScaledLBFGSCentralSearchDirection(dir *powellBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
 	powellBadlyScaledLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1191,7 +1196,7 @@ func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *powellBadlyScaledLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) powellBadlyScaledLBFGSCentralLineResult {
 	if !powellBadlyScaledLBFGSCentralFinite(slope) {
-		slope = powellBadlyScaledLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellBadlyScaledLBFGSCentralShortenAlong is not inlined
+		slope = powellBadlyScaledLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: powellBadlyScaledLBFGSCentralShortenAlong is not inlined
 	}
 	low := powellBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1275,30 +1280,16 @@ type powellBadlyScaledLBFGSCentralSearchEnd uint8
 // powellBadlyScaledLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellBadlyScaledLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellBadlyScaledLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellBadlyScaledLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellBadlyScaledLBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *powellBadlyScaledLBFGSCentralStepFloor) float64 {
+func powellBadlyScaledLBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if powellBadlyScaledLBFGSCentralFinite(slope) || !powellBadlyScaledLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := powellBadlyScaledLBFGSCentralMaxAbs(d)
 	powellBadlyScaledLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellBadlyScaledLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellBadlyScaledLBFGSCentralDot(g, d)
-}
-
-// powellBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellBadlyScaledLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1313,6 +1304,17 @@ func powellBadlyScaledLBFGSCentralShrinkDirection(d, g *[2]float64) {
 			powellBadlyScaledLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellBadlyScaledLBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *powellSingularBFGSAnalyticDescent) judge() {
 		}
 		powellSingularBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellSingularBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellSingularBFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func powellSingularBFGSAnalyticStepScale(xi float64, i int, diffs *powellSingula
 // powellSingularBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func powellSingularBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularBFGSAnalyticBox) {}
 
+// powellSingularBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func powellSingularBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
+}
+
 // powellSingularBFGSAnalyticSearchDirection is the direction's own.
 func powellSingularBFGSAnalyticSearchDirection(dir *powellSingularBFGSAnalyticDirection, x, g, d *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
 	powellSingularBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *po
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) powellSingularBFGSAnalyticLineResult {
 	if !powellSingularBFGSAnalyticFinite(slope) {
-		slope = powellSingularBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularBFGSAnalyticShortenAlong is not inlined
+		slope = powellSingularBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: powellSingularBFGSAnalyticShortenAlong is not inlined
 	}
 	low := powellSingularBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type powellSingularBFGSAnalyticSearchEnd uint8
 // powellSingularBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellSingularBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellSingularBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularBFGSAnalyticStepFloor) float64 {
+func powellSingularBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if powellSingularBFGSAnalyticFinite(slope) || !powellSingularBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := powellSingularBFGSAnalyticMaxAbs(d)
 	powellSingularBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellSingularBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellSingularBFGSAnalyticDot(g, d)
-}
-
-// powellSingularBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellSingularBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellSingularBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellSingularBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func powellSingularBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			powellSingularBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellSingularBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellSingularBFGSAnalyticScaleBy sets x = c·x.

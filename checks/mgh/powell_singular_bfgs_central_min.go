@@ -443,6 +443,7 @@ func (r *powellSingularBFGSCentralDescent) judge() {
 		}
 		powellSingularBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellSingularBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellSingularBFGSCentralOutOfIterations)
@@ -1086,6 +1087,10 @@ func powellSingularBFGSCentralStepScale(xi float64, i int, diffs *powellSingular
 // powellSingularBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func powellSingularBFGSCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularBFGSCentralBox) {}
 
+// powellSingularBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func powellSingularBFGSCentralLearnCurvature(s, y *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
+}
+
 // powellSingularBFGSCentralSearchDirection is the direction's own.
 func powellSingularBFGSCentralSearchDirection(dir *powellSingularBFGSCentralDirection, x, g, d *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
 	powellSingularBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1162,7 @@ func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *pow
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
 	if !powellSingularBFGSCentralFinite(slope) {
-		slope = powellSingularBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularBFGSCentralShortenAlong is not inlined
+		slope = powellSingularBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: powellSingularBFGSCentralShortenAlong is not inlined
 	}
 	low := powellSingularBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1246,16 @@ type powellSingularBFGSCentralSearchEnd uint8
 // powellSingularBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellSingularBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellSingularBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularBFGSCentralStepFloor) float64 {
+func powellSingularBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if powellSingularBFGSCentralFinite(slope) || !powellSingularBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := powellSingularBFGSCentralMaxAbs(d)
 	powellSingularBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellSingularBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellSingularBFGSCentralDot(g, d)
-}
-
-// powellSingularBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func powellSingularBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellSingularBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellSingularBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1270,17 @@ func powellSingularBFGSCentralShrinkDirection(d, g *[4]float64) {
 			powellSingularBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellSingularBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellSingularBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *powellSingularCGAnalyticDescent) judge() {
 		}
 		powellSingularCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellSingularCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellSingularCGAnalyticOutOfIterations)
@@ -898,6 +899,10 @@ func powellSingularCGAnalyticStepScale(xi float64, i int, diffs *powellSingularC
 // powellSingularCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func powellSingularCGAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularCGAnalyticBox) {}
 
+// powellSingularCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func powellSingularCGAnalyticLearnCurvature(s, y *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
+}
+
 // powellSingularCGAnalyticSearchDirection is the direction's own.
 func powellSingularCGAnalyticSearchDirection(dir *powellSingularCGAnalyticDirection, x, g, d *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
 	powellSingularCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +974,7 @@ func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powe
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
 	if !powellSingularCGAnalyticFinite(slope) {
-		slope = powellSingularCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularCGAnalyticShortenAlong is not inlined
+		slope = powellSingularCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: powellSingularCGAnalyticShortenAlong is not inlined
 	}
 	low := powellSingularCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1058,16 @@ type powellSingularCGAnalyticSearchEnd uint8
 // powellSingularCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellSingularCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellSingularCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularCGAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularCGAnalyticStepFloor) float64 {
+func powellSingularCGAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if powellSingularCGAnalyticFinite(slope) || !powellSingularCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := powellSingularCGAnalyticMaxAbs(d)
 	powellSingularCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellSingularCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellSingularCGAnalyticDot(g, d)
-}
-
-// powellSingularCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellSingularCGAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellSingularCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellSingularCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1082,17 @@ func powellSingularCGAnalyticShrinkDirection(d, g *[4]float64) {
 			powellSingularCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellSingularCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularCGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellSingularCGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *powellSingularCGCentralDescent) judge() {
 		}
 		powellSingularCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellSingularCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellSingularCGCentralOutOfIterations)
@@ -1077,6 +1078,10 @@ func powellSingularCGCentralStepScale(xi float64, i int, diffs *powellSingularCG
 // powellSingularCGCentralCurvaturePair: without bounds the pair is used as it is.
 func powellSingularCGCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularCGCentralBox) {}
 
+// powellSingularCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func powellSingularCGCentralLearnCurvature(s, y *[4]float64, diffs *powellSingularCGCentralDifferences) {
+}
+
 // powellSingularCGCentralSearchDirection is the direction's own.
 func powellSingularCGCentralSearchDirection(dir *powellSingularCGCentralDirection, x, g, d *[4]float64, diffs *powellSingularCGCentralDifferences) {
 	powellSingularCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1153,7 @@ func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *powel
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularCGCentralDifferences) powellSingularCGCentralLineResult {
 	if !powellSingularCGCentralFinite(slope) {
-		slope = powellSingularCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularCGCentralShortenAlong is not inlined
+		slope = powellSingularCGCentralShortenAlong(g, d, slope) // the call only where it acts: powellSingularCGCentralShortenAlong is not inlined
 	}
 	low := powellSingularCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1237,16 @@ type powellSingularCGCentralSearchEnd uint8
 // powellSingularCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellSingularCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellSingularCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularCGCentralShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularCGCentralStepFloor) float64 {
+func powellSingularCGCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if powellSingularCGCentralFinite(slope) || !powellSingularCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := powellSingularCGCentralMaxAbs(d)
 	powellSingularCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellSingularCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellSingularCGCentralDot(g, d)
-}
-
-// powellSingularCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func powellSingularCGCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellSingularCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellSingularCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1261,17 @@ func powellSingularCGCentralShrinkDirection(d, g *[4]float64) {
 			powellSingularCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellSingularCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularCGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellSingularCGCentralScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *powellSingularLBFGSAnalyticDescent) judge() {
 		}
 		powellSingularLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellSingularLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellSingularLBFGSAnalyticOutOfIterations)
@@ -941,6 +942,10 @@ func powellSingularLBFGSAnalyticStepScale(xi float64, i int, diffs *powellSingul
 func powellSingularLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularLBFGSAnalyticBox) {
 }
 
+// powellSingularLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func powellSingularLBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
+}
+
 // powellSingularLBFGSAnalyticSearchDirection is the direction's own.
 func powellSingularLBFGSAnalyticSearchDirection(dir *powellSingularLBFGSAnalyticDirection, x, g, d *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
 	powellSingularLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1012,7 +1017,7 @@ func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *p
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
 	if !powellSingularLBFGSAnalyticFinite(slope) {
-		slope = powellSingularLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularLBFGSAnalyticShortenAlong is not inlined
+		slope = powellSingularLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: powellSingularLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := powellSingularLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1096,30 +1101,16 @@ type powellSingularLBFGSAnalyticSearchEnd uint8
 // powellSingularLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellSingularLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellSingularLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularLBFGSAnalyticStepFloor) float64 {
+func powellSingularLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if powellSingularLBFGSAnalyticFinite(slope) || !powellSingularLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := powellSingularLBFGSAnalyticMaxAbs(d)
 	powellSingularLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellSingularLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellSingularLBFGSAnalyticDot(g, d)
-}
-
-// powellSingularLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellSingularLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellSingularLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellSingularLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1134,6 +1125,17 @@ func powellSingularLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			powellSingularLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellSingularLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellSingularLBFGSAnalyticScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *powellSingularLBFGSCentralDescent) judge() {
 		}
 		powellSingularLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		powellSingularLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(PowellSingularLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func powellSingularLBFGSCentralStepScale(xi float64, i int, diffs *powellSingula
 // powellSingularLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func powellSingularLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularLBFGSCentralBox) {}
 
+// powellSingularLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func powellSingularLBFGSCentralLearnCurvature(s, y *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
+}
+
 // powellSingularLBFGSCentralSearchDirection is the direction's own.
 func powellSingularLBFGSCentralSearchDirection(dir *powellSingularLBFGSCentralDirection, x, g, d *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
 	powellSingularLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *po
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *powellSingularLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSCentralDifferences) powellSingularLBFGSCentralLineResult {
 	if !powellSingularLBFGSCentralFinite(slope) {
-		slope = powellSingularLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: powellSingularLBFGSCentralShortenAlong is not inlined
+		slope = powellSingularLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: powellSingularLBFGSCentralShortenAlong is not inlined
 	}
 	low := powellSingularLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type powellSingularLBFGSCentralSearchEnd uint8
 // powellSingularLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (powellSingularLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (powellSingularLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (powellSingularLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func powellSingularLBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *powellSingularLBFGSCentralStepFloor) float64 {
+func powellSingularLBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if powellSingularLBFGSCentralFinite(slope) || !powellSingularLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := powellSingularLBFGSCentralMaxAbs(d)
 	powellSingularLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / powellSingularLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return powellSingularLBFGSCentralDot(g, d)
-}
-
-// powellSingularLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func powellSingularLBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellSingularLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // powellSingularLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func powellSingularLBFGSCentralShrinkDirection(d, g *[4]float64) {
 			powellSingularLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// powellSingularLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func powellSingularLBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := powellSingularLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // powellSingularLBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *rosenbrockBFGSAnalyticDescent) judge() {
 		}
 		rosenbrockBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		rosenbrockBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(RosenbrockBFGSAnalyticOutOfIterations)
@@ -907,6 +908,10 @@ func rosenbrockBFGSAnalyticStepScale(xi float64, i int, diffs *rosenbrockBFGSAna
 // rosenbrockBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockBFGSAnalyticBox) {}
 
+// rosenbrockBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func rosenbrockBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
+}
+
 // rosenbrockBFGSAnalyticSearchDirection is the direction's own.
 func rosenbrockBFGSAnalyticSearchDirection(dir *rosenbrockBFGSAnalyticDirection, x, g, d *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
 	rosenbrockBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +983,7 @@ func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenb
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) rosenbrockBFGSAnalyticLineResult {
 	if !rosenbrockBFGSAnalyticFinite(slope) {
-		slope = rosenbrockBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockBFGSAnalyticShortenAlong is not inlined
+		slope = rosenbrockBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: rosenbrockBFGSAnalyticShortenAlong is not inlined
 	}
 	low := rosenbrockBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1067,16 @@ type rosenbrockBFGSAnalyticSearchEnd uint8
 // rosenbrockBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (rosenbrockBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (rosenbrockBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (rosenbrockBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func rosenbrockBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *rosenbrockBFGSAnalyticStepFloor) float64 {
+func rosenbrockBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if rosenbrockBFGSAnalyticFinite(slope) || !rosenbrockBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := rosenbrockBFGSAnalyticMaxAbs(d)
 	rosenbrockBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / rosenbrockBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return rosenbrockBFGSAnalyticDot(g, d)
-}
-
-// rosenbrockBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func rosenbrockBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := rosenbrockBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // rosenbrockBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1091,17 @@ func rosenbrockBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			rosenbrockBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// rosenbrockBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // rosenbrockBFGSAnalyticScaleBy sets x = c·x.

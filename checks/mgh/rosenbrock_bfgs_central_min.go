@@ -443,6 +443,7 @@ func (r *rosenbrockBFGSCentralDescent) judge() {
 		}
 		rosenbrockBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		rosenbrockBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(RosenbrockBFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func rosenbrockBFGSCentralStepScale(xi float64, i int, diffs *rosenbrockBFGSCent
 // rosenbrockBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockBFGSCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockBFGSCentralBox) {}
 
+// rosenbrockBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func rosenbrockBFGSCentralLearnCurvature(s, y *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {}
+
 // rosenbrockBFGSCentralSearchDirection is the direction's own.
 func rosenbrockBFGSCentralSearchDirection(dir *rosenbrockBFGSCentralDirection, x, g, d *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
 	rosenbrockBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbr
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSCentralDifferences) rosenbrockBFGSCentralLineResult {
 	if !rosenbrockBFGSCentralFinite(slope) {
-		slope = rosenbrockBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockBFGSCentralShortenAlong is not inlined
+		slope = rosenbrockBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: rosenbrockBFGSCentralShortenAlong is not inlined
 	}
 	low := rosenbrockBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type rosenbrockBFGSCentralSearchEnd uint8
 // rosenbrockBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (rosenbrockBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (rosenbrockBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (rosenbrockBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func rosenbrockBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *rosenbrockBFGSCentralStepFloor) float64 {
+func rosenbrockBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if rosenbrockBFGSCentralFinite(slope) || !rosenbrockBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := rosenbrockBFGSCentralMaxAbs(d)
 	rosenbrockBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / rosenbrockBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return rosenbrockBFGSCentralDot(g, d)
-}
-
-// rosenbrockBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func rosenbrockBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := rosenbrockBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // rosenbrockBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func rosenbrockBFGSCentralShrinkDirection(d, g *[2]float64) {
 			rosenbrockBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// rosenbrockBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // rosenbrockBFGSCentralScaleBy sets x = c·x.

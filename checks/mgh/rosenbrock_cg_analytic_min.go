@@ -443,6 +443,7 @@ func (r *rosenbrockCGAnalyticDescent) judge() {
 		}
 		rosenbrockCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		rosenbrockCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(RosenbrockCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func rosenbrockCGAnalyticStepScale(xi float64, i int, diffs *rosenbrockCGAnalyti
 // rosenbrockCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockCGAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockCGAnalyticBox) {}
 
+// rosenbrockCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func rosenbrockCGAnalyticLearnCurvature(s, y *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {}
+
 // rosenbrockCGAnalyticSearchDirection is the direction's own.
 func rosenbrockCGAnalyticSearchDirection(dir *rosenbrockCGAnalyticDirection, x, g, d *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
 	rosenbrockCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbro
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockCGAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockCGAnalyticDifferences) rosenbrockCGAnalyticLineResult {
 	if !rosenbrockCGAnalyticFinite(slope) {
-		slope = rosenbrockCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockCGAnalyticShortenAlong is not inlined
+		slope = rosenbrockCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: rosenbrockCGAnalyticShortenAlong is not inlined
 	}
 	low := rosenbrockCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type rosenbrockCGAnalyticSearchEnd uint8
 // rosenbrockCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (rosenbrockCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (rosenbrockCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (rosenbrockCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func rosenbrockCGAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *rosenbrockCGAnalyticStepFloor) float64 {
+func rosenbrockCGAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if rosenbrockCGAnalyticFinite(slope) || !rosenbrockCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := rosenbrockCGAnalyticMaxAbs(d)
 	rosenbrockCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / rosenbrockCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return rosenbrockCGAnalyticDot(g, d)
-}
-
-// rosenbrockCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func rosenbrockCGAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := rosenbrockCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // rosenbrockCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func rosenbrockCGAnalyticShrinkDirection(d, g *[2]float64) {
 			rosenbrockCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// rosenbrockCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockCGAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // rosenbrockCGAnalyticScaleBy sets x = c·x.

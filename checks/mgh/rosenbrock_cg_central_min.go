@@ -443,6 +443,7 @@ func (r *rosenbrockCGCentralDescent) judge() {
 		}
 		rosenbrockCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		rosenbrockCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(RosenbrockCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func rosenbrockCGCentralStepScale(xi float64, i int, diffs *rosenbrockCGCentralD
 // rosenbrockCGCentralCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockCGCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockCGCentralBox) {}
 
+// rosenbrockCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func rosenbrockCGCentralLearnCurvature(s, y *[2]float64, diffs *rosenbrockCGCentralDifferences) {}
+
 // rosenbrockCGCentralSearchDirection is the direction's own.
 func rosenbrockCGCentralSearchDirection(dir *rosenbrockCGCentralDirection, x, g, d *[2]float64, diffs *rosenbrockCGCentralDifferences) {
 	rosenbrockCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbroc
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockCGCentralStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockCGCentralDifferences) rosenbrockCGCentralLineResult {
 	if !rosenbrockCGCentralFinite(slope) {
-		slope = rosenbrockCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockCGCentralShortenAlong is not inlined
+		slope = rosenbrockCGCentralShortenAlong(g, d, slope) // the call only where it acts: rosenbrockCGCentralShortenAlong is not inlined
 	}
 	low := rosenbrockCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type rosenbrockCGCentralSearchEnd uint8
 // rosenbrockCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (rosenbrockCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (rosenbrockCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (rosenbrockCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func rosenbrockCGCentralShortenAlong(g, d *[2]float64, slope float64, floor *rosenbrockCGCentralStepFloor) float64 {
+func rosenbrockCGCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if rosenbrockCGCentralFinite(slope) || !rosenbrockCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := rosenbrockCGCentralMaxAbs(d)
 	rosenbrockCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / rosenbrockCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return rosenbrockCGCentralDot(g, d)
-}
-
-// rosenbrockCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func rosenbrockCGCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := rosenbrockCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // rosenbrockCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func rosenbrockCGCentralShrinkDirection(d, g *[2]float64) {
 			rosenbrockCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// rosenbrockCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockCGCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // rosenbrockCGCentralScaleBy sets x = c·x.

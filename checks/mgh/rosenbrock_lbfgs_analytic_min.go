@@ -444,6 +444,7 @@ func (r *rosenbrockLBFGSAnalyticDescent) judge() {
 		}
 		rosenbrockLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		rosenbrockLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(RosenbrockLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,10 @@ func rosenbrockLBFGSAnalyticStepScale(xi float64, i int, diffs *rosenbrockLBFGSA
 // rosenbrockLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockLBFGSAnalyticBox) {}
 
+// rosenbrockLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func rosenbrockLBFGSAnalyticLearnCurvature(s, y *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
+}
+
 // rosenbrockLBFGSAnalyticSearchDirection is the direction's own.
 func rosenbrockLBFGSAnalyticSearchDirection(dir *rosenbrockLBFGSAnalyticDirection, x, g, d *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
 	rosenbrockLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1016,7 @@ func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockLBFGSAnalyticStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) rosenbrockLBFGSAnalyticLineResult {
 	if !rosenbrockLBFGSAnalyticFinite(slope) {
-		slope = rosenbrockLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockLBFGSAnalyticShortenAlong is not inlined
+		slope = rosenbrockLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: rosenbrockLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := rosenbrockLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1100,16 @@ type rosenbrockLBFGSAnalyticSearchEnd uint8
 // rosenbrockLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (rosenbrockLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (rosenbrockLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (rosenbrockLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func rosenbrockLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64, floor *rosenbrockLBFGSAnalyticStepFloor) float64 {
+func rosenbrockLBFGSAnalyticShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if rosenbrockLBFGSAnalyticFinite(slope) || !rosenbrockLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := rosenbrockLBFGSAnalyticMaxAbs(d)
 	rosenbrockLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / rosenbrockLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return rosenbrockLBFGSAnalyticDot(g, d)
-}
-
-// rosenbrockLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func rosenbrockLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := rosenbrockLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // rosenbrockLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1124,17 @@ func rosenbrockLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 			rosenbrockLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// rosenbrockLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // rosenbrockLBFGSAnalyticScaleBy sets x = c·x.

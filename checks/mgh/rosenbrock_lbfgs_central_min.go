@@ -444,6 +444,7 @@ func (r *rosenbrockLBFGSCentralDescent) judge() {
 		}
 		rosenbrockLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		rosenbrockLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(RosenbrockLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,10 @@ func rosenbrockLBFGSCentralStepScale(xi float64, i int, diffs *rosenbrockLBFGSCe
 // rosenbrockLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func rosenbrockLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockLBFGSCentralBox) {}
 
+// rosenbrockLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func rosenbrockLBFGSCentralLearnCurvature(s, y *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
+}
+
 // rosenbrockLBFGSCentralSearchDirection is the direction's own.
 func rosenbrockLBFGSCentralSearchDirection(dir *rosenbrockLBFGSCentralDirection, x, g, d *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
 	rosenbrockLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1195,7 @@ func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenb
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *rosenbrockLBFGSCentralStepFloor, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) rosenbrockLBFGSCentralLineResult {
 	if !rosenbrockLBFGSCentralFinite(slope) {
-		slope = rosenbrockLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: rosenbrockLBFGSCentralShortenAlong is not inlined
+		slope = rosenbrockLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: rosenbrockLBFGSCentralShortenAlong is not inlined
 	}
 	low := rosenbrockLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1279,16 @@ type rosenbrockLBFGSCentralSearchEnd uint8
 // rosenbrockLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (rosenbrockLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (rosenbrockLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (rosenbrockLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func rosenbrockLBFGSCentralShortenAlong(g, d *[2]float64, slope float64, floor *rosenbrockLBFGSCentralStepFloor) float64 {
+func rosenbrockLBFGSCentralShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if rosenbrockLBFGSCentralFinite(slope) || !rosenbrockLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := rosenbrockLBFGSCentralMaxAbs(d)
 	rosenbrockLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / rosenbrockLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return rosenbrockLBFGSCentralDot(g, d)
-}
-
-// rosenbrockLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func rosenbrockLBFGSCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := rosenbrockLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // rosenbrockLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1303,17 @@ func rosenbrockLBFGSCentralShrinkDirection(d, g *[2]float64) {
 			rosenbrockLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// rosenbrockLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func rosenbrockLBFGSCentralMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := rosenbrockLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // rosenbrockLBFGSCentralScaleBy sets x = c·x.

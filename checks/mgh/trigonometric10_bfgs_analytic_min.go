@@ -443,6 +443,7 @@ func (r *trigonometric10BFGSAnalyticDescent) judge() {
 		}
 		trigonometric10BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		trigonometric10BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Trigonometric10BFGSAnalyticOutOfIterations)
@@ -908,6 +909,10 @@ func trigonometric10BFGSAnalyticStepScale(xi float64, i int, diffs *trigonometri
 func trigonometric10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10BFGSAnalyticBox) {
 }
 
+// trigonometric10BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func trigonometric10BFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
+}
+
 // trigonometric10BFGSAnalyticSearchDirection is the direction's own.
 func trigonometric10BFGSAnalyticSearchDirection(dir *trigonometric10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
 	trigonometric10BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -979,7 +984,7 @@ func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
 	if !trigonometric10BFGSAnalyticFinite(slope) {
-		slope = trigonometric10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10BFGSAnalyticShortenAlong is not inlined
+		slope = trigonometric10BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: trigonometric10BFGSAnalyticShortenAlong is not inlined
 	}
 	low := trigonometric10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1063,30 +1068,16 @@ type trigonometric10BFGSAnalyticSearchEnd uint8
 // trigonometric10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (trigonometric10BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (trigonometric10BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10BFGSAnalyticStepFloor) float64 {
+func trigonometric10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if trigonometric10BFGSAnalyticFinite(slope) || !trigonometric10BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := trigonometric10BFGSAnalyticMaxAbs(d)
 	trigonometric10BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / trigonometric10BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return trigonometric10BFGSAnalyticDot(g, d)
-}
-
-// trigonometric10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // trigonometric10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1101,6 +1092,17 @@ func trigonometric10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			trigonometric10BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// trigonometric10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // trigonometric10BFGSAnalyticScaleBy sets x = c·x.

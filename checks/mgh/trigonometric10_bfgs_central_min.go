@@ -443,6 +443,7 @@ func (r *trigonometric10BFGSCentralDescent) judge() {
 		}
 		trigonometric10BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		trigonometric10BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Trigonometric10BFGSCentralOutOfIterations)
@@ -1087,6 +1088,10 @@ func trigonometric10BFGSCentralStepScale(xi float64, i int, diffs *trigonometric
 func trigonometric10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *trigonometric10BFGSCentralBox) {
 }
 
+// trigonometric10BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func trigonometric10BFGSCentralLearnCurvature(s, y *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
+}
+
 // trigonometric10BFGSCentralSearchDirection is the direction's own.
 func trigonometric10BFGSCentralSearchDirection(dir *trigonometric10BFGSCentralDirection, x, g, d *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
 	trigonometric10BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1158,7 +1163,7 @@ func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *t
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSCentralDifferences) trigonometric10BFGSCentralLineResult {
 	if !trigonometric10BFGSCentralFinite(slope) {
-		slope = trigonometric10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10BFGSCentralShortenAlong is not inlined
+		slope = trigonometric10BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: trigonometric10BFGSCentralShortenAlong is not inlined
 	}
 	low := trigonometric10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1242,30 +1247,16 @@ type trigonometric10BFGSCentralSearchEnd uint8
 // trigonometric10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (trigonometric10BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (trigonometric10BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10BFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10BFGSCentralStepFloor) float64 {
+func trigonometric10BFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if trigonometric10BFGSCentralFinite(slope) || !trigonometric10BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := trigonometric10BFGSCentralMaxAbs(d)
 	trigonometric10BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / trigonometric10BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return trigonometric10BFGSCentralDot(g, d)
-}
-
-// trigonometric10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10BFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // trigonometric10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1280,6 +1271,17 @@ func trigonometric10BFGSCentralShrinkDirection(d, g *[10]float64) {
 			trigonometric10BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// trigonometric10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // trigonometric10BFGSCentralScaleBy sets x = c·x.

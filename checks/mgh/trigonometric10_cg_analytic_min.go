@@ -443,6 +443,7 @@ func (r *trigonometric10CGAnalyticDescent) judge() {
 		}
 		trigonometric10CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		trigonometric10CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Trigonometric10CGAnalyticOutOfIterations)
@@ -898,6 +899,10 @@ func trigonometric10CGAnalyticStepScale(xi float64, i int, diffs *trigonometric1
 // trigonometric10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func trigonometric10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10CGAnalyticBox) {}
 
+// trigonometric10CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func trigonometric10CGAnalyticLearnCurvature(s, y *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
+}
+
 // trigonometric10CGAnalyticSearchDirection is the direction's own.
 func trigonometric10CGAnalyticSearchDirection(dir *trigonometric10CGAnalyticDirection, x, g, d *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
 	trigonometric10CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +974,7 @@ func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *tr
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10CGAnalyticDifferences) trigonometric10CGAnalyticLineResult {
 	if !trigonometric10CGAnalyticFinite(slope) {
-		slope = trigonometric10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10CGAnalyticShortenAlong is not inlined
+		slope = trigonometric10CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: trigonometric10CGAnalyticShortenAlong is not inlined
 	}
 	low := trigonometric10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1058,16 @@ type trigonometric10CGAnalyticSearchEnd uint8
 // trigonometric10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (trigonometric10CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (trigonometric10CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10CGAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10CGAnalyticStepFloor) float64 {
+func trigonometric10CGAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if trigonometric10CGAnalyticFinite(slope) || !trigonometric10CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := trigonometric10CGAnalyticMaxAbs(d)
 	trigonometric10CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / trigonometric10CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return trigonometric10CGAnalyticDot(g, d)
-}
-
-// trigonometric10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10CGAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // trigonometric10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1082,17 @@ func trigonometric10CGAnalyticShrinkDirection(d, g *[10]float64) {
 			trigonometric10CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// trigonometric10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // trigonometric10CGAnalyticScaleBy sets x = c·x.

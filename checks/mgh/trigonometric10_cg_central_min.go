@@ -443,6 +443,7 @@ func (r *trigonometric10CGCentralDescent) judge() {
 		}
 		trigonometric10CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		trigonometric10CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Trigonometric10CGCentralOutOfIterations)
@@ -1077,6 +1078,10 @@ func trigonometric10CGCentralStepScale(xi float64, i int, diffs *trigonometric10
 // trigonometric10CGCentralCurvaturePair: without bounds the pair is used as it is.
 func trigonometric10CGCentralCurvaturePair(s, y, x *[10]float64, b *trigonometric10CGCentralBox) {}
 
+// trigonometric10CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func trigonometric10CGCentralLearnCurvature(s, y *[10]float64, diffs *trigonometric10CGCentralDifferences) {
+}
+
 // trigonometric10CGCentralSearchDirection is the direction's own.
 func trigonometric10CGCentralSearchDirection(dir *trigonometric10CGCentralDirection, x, g, d *[10]float64, diffs *trigonometric10CGCentralDifferences) {
 	trigonometric10CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1153,7 @@ func trigonometric10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *tri
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10CGCentralDifferences) trigonometric10CGCentralLineResult {
 	if !trigonometric10CGCentralFinite(slope) {
-		slope = trigonometric10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10CGCentralShortenAlong is not inlined
+		slope = trigonometric10CGCentralShortenAlong(g, d, slope) // the call only where it acts: trigonometric10CGCentralShortenAlong is not inlined
 	}
 	low := trigonometric10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1237,16 @@ type trigonometric10CGCentralSearchEnd uint8
 // trigonometric10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (trigonometric10CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (trigonometric10CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10CGCentralShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10CGCentralStepFloor) float64 {
+func trigonometric10CGCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if trigonometric10CGCentralFinite(slope) || !trigonometric10CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := trigonometric10CGCentralMaxAbs(d)
 	trigonometric10CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / trigonometric10CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return trigonometric10CGCentralDot(g, d)
-}
-
-// trigonometric10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10CGCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // trigonometric10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1261,17 @@ func trigonometric10CGCentralShrinkDirection(d, g *[10]float64) {
 			trigonometric10CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// trigonometric10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // trigonometric10CGCentralScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *trigonometric10LBFGSAnalyticDescent) judge() {
 		}
 		trigonometric10LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		trigonometric10LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Trigonometric10LBFGSAnalyticOutOfIterations)
@@ -941,6 +942,10 @@ func trigonometric10LBFGSAnalyticStepScale(xi float64, i int, diffs *trigonometr
 func trigonometric10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10LBFGSAnalyticBox) {
 }
 
+// trigonometric10LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func trigonometric10LBFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
+}
+
 // trigonometric10LBFGSAnalyticSearchDirection is the direction's own.
 func trigonometric10LBFGSAnalyticSearchDirection(dir *trigonometric10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
 	trigonometric10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1012,7 +1017,7 @@ func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) trigonometric10LBFGSAnalyticLineResult {
 	if !trigonometric10LBFGSAnalyticFinite(slope) {
-		slope = trigonometric10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10LBFGSAnalyticShortenAlong is not inlined
+		slope = trigonometric10LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: trigonometric10LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := trigonometric10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1096,30 +1101,16 @@ type trigonometric10LBFGSAnalyticSearchEnd uint8
 // trigonometric10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (trigonometric10LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (trigonometric10LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10LBFGSAnalyticStepFloor) float64 {
+func trigonometric10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if trigonometric10LBFGSAnalyticFinite(slope) || !trigonometric10LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := trigonometric10LBFGSAnalyticMaxAbs(d)
 	trigonometric10LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / trigonometric10LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return trigonometric10LBFGSAnalyticDot(g, d)
-}
-
-// trigonometric10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // trigonometric10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1134,6 +1125,17 @@ func trigonometric10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			trigonometric10LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// trigonometric10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // trigonometric10LBFGSAnalyticScaleBy sets x = c·x.

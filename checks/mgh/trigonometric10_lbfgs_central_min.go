@@ -444,6 +444,7 @@ func (r *trigonometric10LBFGSCentralDescent) judge() {
 		}
 		trigonometric10LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		trigonometric10LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Trigonometric10LBFGSCentralOutOfIterations)
@@ -1120,6 +1121,10 @@ func trigonometric10LBFGSCentralStepScale(xi float64, i int, diffs *trigonometri
 func trigonometric10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *trigonometric10LBFGSCentralBox) {
 }
 
+// trigonometric10LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func trigonometric10LBFGSCentralLearnCurvature(s, y *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
+}
+
 // trigonometric10LBFGSCentralSearchDirection is the direction's own.
 func trigonometric10LBFGSCentralSearchDirection(dir *trigonometric10LBFGSCentralDirection, x, g, d *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
 	trigonometric10LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1191,7 +1196,7 @@ func trigonometric10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *trigonometric10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) trigonometric10LBFGSCentralLineResult {
 	if !trigonometric10LBFGSCentralFinite(slope) {
-		slope = trigonometric10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: trigonometric10LBFGSCentralShortenAlong is not inlined
+		slope = trigonometric10LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: trigonometric10LBFGSCentralShortenAlong is not inlined
 	}
 	low := trigonometric10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1275,30 +1280,16 @@ type trigonometric10LBFGSCentralSearchEnd uint8
 // trigonometric10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (trigonometric10LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (trigonometric10LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (trigonometric10LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func trigonometric10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *trigonometric10LBFGSCentralStepFloor) float64 {
+func trigonometric10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if trigonometric10LBFGSCentralFinite(slope) || !trigonometric10LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := trigonometric10LBFGSCentralMaxAbs(d)
 	trigonometric10LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / trigonometric10LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return trigonometric10LBFGSCentralDot(g, d)
-}
-
-// trigonometric10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10LBFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // trigonometric10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1313,6 +1304,17 @@ func trigonometric10LBFGSCentralShrinkDirection(d, g *[10]float64) {
 			trigonometric10LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// trigonometric10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func trigonometric10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := trigonometric10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // trigonometric10LBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *variablyDimensioned10BFGSAnalyticDescent) judge() {
 		}
 		variablyDimensioned10BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		variablyDimensioned10BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(VariablyDimensioned10BFGSAnalyticOutOfIterations)
@@ -909,6 +910,10 @@ func variablyDimensioned10BFGSAnalyticStepScale(xi float64, i int, diffs *variab
 func variablyDimensioned10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10BFGSAnalyticBox) {
 }
 
+// variablyDimensioned10BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func variablyDimensioned10BFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
+}
+
 // variablyDimensioned10BFGSAnalyticSearchDirection is the direction's own.
 func variablyDimensioned10BFGSAnalyticSearchDirection(dir *variablyDimensioned10BFGSAnalyticDirection, x, g, d *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
 	variablyDimensioned10BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -980,7 +985,7 @@ func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, d
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10BFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
 	if !variablyDimensioned10BFGSAnalyticFinite(slope) {
-		slope = variablyDimensioned10BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10BFGSAnalyticShortenAlong is not inlined
+		slope = variablyDimensioned10BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: variablyDimensioned10BFGSAnalyticShortenAlong is not inlined
 	}
 	low := variablyDimensioned10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1064,30 +1069,16 @@ type variablyDimensioned10BFGSAnalyticSearchEnd uint8
 // variablyDimensioned10BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (variablyDimensioned10BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10BFGSAnalyticStepFloor) float64 {
+func variablyDimensioned10BFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if variablyDimensioned10BFGSAnalyticFinite(slope) || !variablyDimensioned10BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := variablyDimensioned10BFGSAnalyticMaxAbs(d)
 	variablyDimensioned10BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / variablyDimensioned10BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return variablyDimensioned10BFGSAnalyticDot(g, d)
-}
-
-// variablyDimensioned10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // variablyDimensioned10BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1102,6 +1093,17 @@ func variablyDimensioned10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			variablyDimensioned10BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// variablyDimensioned10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // variablyDimensioned10BFGSAnalyticScaleBy sets x = c·x.

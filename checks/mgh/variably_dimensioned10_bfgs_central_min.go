@@ -443,6 +443,7 @@ func (r *variablyDimensioned10BFGSCentralDescent) judge() {
 		}
 		variablyDimensioned10BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		variablyDimensioned10BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(VariablyDimensioned10BFGSCentralOutOfIterations)
@@ -1088,6 +1089,10 @@ func variablyDimensioned10BFGSCentralStepScale(xi float64, i int, diffs *variabl
 func variablyDimensioned10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10BFGSCentralBox) {
 }
 
+// variablyDimensioned10BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func variablyDimensioned10BFGSCentralLearnCurvature(s, y *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) {
+}
+
 // variablyDimensioned10BFGSCentralSearchDirection is the direction's own.
 func variablyDimensioned10BFGSCentralSearchDirection(dir *variablyDimensioned10BFGSCentralDirection, x, g, d *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) {
 	variablyDimensioned10BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1159,7 +1164,7 @@ func variablyDimensioned10BFGSCentralTinyStep(x, d *[10]float64, tol float64, di
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10BFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) variablyDimensioned10BFGSCentralLineResult {
 	if !variablyDimensioned10BFGSCentralFinite(slope) {
-		slope = variablyDimensioned10BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10BFGSCentralShortenAlong is not inlined
+		slope = variablyDimensioned10BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: variablyDimensioned10BFGSCentralShortenAlong is not inlined
 	}
 	low := variablyDimensioned10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1243,30 +1248,16 @@ type variablyDimensioned10BFGSCentralSearchEnd uint8
 // variablyDimensioned10BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (variablyDimensioned10BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10BFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10BFGSCentralStepFloor) float64 {
+func variablyDimensioned10BFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if variablyDimensioned10BFGSCentralFinite(slope) || !variablyDimensioned10BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := variablyDimensioned10BFGSCentralMaxAbs(d)
 	variablyDimensioned10BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / variablyDimensioned10BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return variablyDimensioned10BFGSCentralDot(g, d)
-}
-
-// variablyDimensioned10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10BFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // variablyDimensioned10BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1281,6 +1272,17 @@ func variablyDimensioned10BFGSCentralShrinkDirection(d, g *[10]float64) {
 			variablyDimensioned10BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// variablyDimensioned10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10BFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // variablyDimensioned10BFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *variablyDimensioned10CGAnalyticDescent) judge() {
 		}
 		variablyDimensioned10CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		variablyDimensioned10CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(VariablyDimensioned10CGAnalyticOutOfIterations)
@@ -899,6 +900,10 @@ func variablyDimensioned10CGAnalyticStepScale(xi float64, i int, diffs *variably
 func variablyDimensioned10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10CGAnalyticBox) {
 }
 
+// variablyDimensioned10CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func variablyDimensioned10CGAnalyticLearnCurvature(s, y *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
+}
+
 // variablyDimensioned10CGAnalyticSearchDirection is the direction's own.
 func variablyDimensioned10CGAnalyticSearchDirection(dir *variablyDimensioned10CGAnalyticDirection, x, g, d *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
 	variablyDimensioned10CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -970,7 +975,7 @@ func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64, dif
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10CGAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) variablyDimensioned10CGAnalyticLineResult {
 	if !variablyDimensioned10CGAnalyticFinite(slope) {
-		slope = variablyDimensioned10CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10CGAnalyticShortenAlong is not inlined
+		slope = variablyDimensioned10CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: variablyDimensioned10CGAnalyticShortenAlong is not inlined
 	}
 	low := variablyDimensioned10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1054,30 +1059,16 @@ type variablyDimensioned10CGAnalyticSearchEnd uint8
 // variablyDimensioned10CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (variablyDimensioned10CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10CGAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10CGAnalyticStepFloor) float64 {
+func variablyDimensioned10CGAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if variablyDimensioned10CGAnalyticFinite(slope) || !variablyDimensioned10CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := variablyDimensioned10CGAnalyticMaxAbs(d)
 	variablyDimensioned10CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / variablyDimensioned10CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return variablyDimensioned10CGAnalyticDot(g, d)
-}
-
-// variablyDimensioned10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10CGAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // variablyDimensioned10CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1092,6 +1083,17 @@ func variablyDimensioned10CGAnalyticShrinkDirection(d, g *[10]float64) {
 			variablyDimensioned10CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// variablyDimensioned10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10CGAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // variablyDimensioned10CGAnalyticScaleBy sets x = c·x.

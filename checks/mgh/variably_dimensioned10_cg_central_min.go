@@ -443,6 +443,7 @@ func (r *variablyDimensioned10CGCentralDescent) judge() {
 		}
 		variablyDimensioned10CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		variablyDimensioned10CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(VariablyDimensioned10CGCentralOutOfIterations)
@@ -1078,6 +1079,10 @@ func variablyDimensioned10CGCentralStepScale(xi float64, i int, diffs *variablyD
 func variablyDimensioned10CGCentralCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10CGCentralBox) {
 }
 
+// variablyDimensioned10CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func variablyDimensioned10CGCentralLearnCurvature(s, y *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) {
+}
+
 // variablyDimensioned10CGCentralSearchDirection is the direction's own.
 func variablyDimensioned10CGCentralSearchDirection(dir *variablyDimensioned10CGCentralDirection, x, g, d *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) {
 	variablyDimensioned10CGCentralSolveDirection(dir, g, d, diffs)
@@ -1149,7 +1154,7 @@ func variablyDimensioned10CGCentralTinyStep(x, d *[10]float64, tol float64, diff
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10CGCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) variablyDimensioned10CGCentralLineResult {
 	if !variablyDimensioned10CGCentralFinite(slope) {
-		slope = variablyDimensioned10CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10CGCentralShortenAlong is not inlined
+		slope = variablyDimensioned10CGCentralShortenAlong(g, d, slope) // the call only where it acts: variablyDimensioned10CGCentralShortenAlong is not inlined
 	}
 	low := variablyDimensioned10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1233,30 +1238,16 @@ type variablyDimensioned10CGCentralSearchEnd uint8
 // variablyDimensioned10CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (variablyDimensioned10CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10CGCentralShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10CGCentralStepFloor) float64 {
+func variablyDimensioned10CGCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if variablyDimensioned10CGCentralFinite(slope) || !variablyDimensioned10CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := variablyDimensioned10CGCentralMaxAbs(d)
 	variablyDimensioned10CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / variablyDimensioned10CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return variablyDimensioned10CGCentralDot(g, d)
-}
-
-// variablyDimensioned10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10CGCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // variablyDimensioned10CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1271,6 +1262,17 @@ func variablyDimensioned10CGCentralShrinkDirection(d, g *[10]float64) {
 			variablyDimensioned10CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// variablyDimensioned10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10CGCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // variablyDimensioned10CGCentralScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *variablyDimensioned10LBFGSAnalyticDescent) judge() {
 		}
 		variablyDimensioned10LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		variablyDimensioned10LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(VariablyDimensioned10LBFGSAnalyticOutOfIterations)
@@ -942,6 +943,10 @@ func variablyDimensioned10LBFGSAnalyticStepScale(xi float64, i int, diffs *varia
 func variablyDimensioned10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10LBFGSAnalyticBox) {
 }
 
+// variablyDimensioned10LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func variablyDimensioned10LBFGSAnalyticLearnCurvature(s, y *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
+}
+
 // variablyDimensioned10LBFGSAnalyticSearchDirection is the direction's own.
 func variablyDimensioned10LBFGSAnalyticSearchDirection(dir *variablyDimensioned10LBFGSAnalyticDirection, x, g, d *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
 	variablyDimensioned10LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1013,7 +1018,7 @@ func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, 
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10LBFGSAnalyticStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) variablyDimensioned10LBFGSAnalyticLineResult {
 	if !variablyDimensioned10LBFGSAnalyticFinite(slope) {
-		slope = variablyDimensioned10LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10LBFGSAnalyticShortenAlong is not inlined
+		slope = variablyDimensioned10LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: variablyDimensioned10LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := variablyDimensioned10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1097,30 +1102,16 @@ type variablyDimensioned10LBFGSAnalyticSearchEnd uint8
 // variablyDimensioned10LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (variablyDimensioned10LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10LBFGSAnalyticStepFloor) float64 {
+func variablyDimensioned10LBFGSAnalyticShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if variablyDimensioned10LBFGSAnalyticFinite(slope) || !variablyDimensioned10LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := variablyDimensioned10LBFGSAnalyticMaxAbs(d)
 	variablyDimensioned10LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / variablyDimensioned10LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return variablyDimensioned10LBFGSAnalyticDot(g, d)
-}
-
-// variablyDimensioned10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // variablyDimensioned10LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1135,6 +1126,17 @@ func variablyDimensioned10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
 			variablyDimensioned10LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// variablyDimensioned10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // variablyDimensioned10LBFGSAnalyticScaleBy sets x = c·x.

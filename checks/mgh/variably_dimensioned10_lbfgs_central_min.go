@@ -444,6 +444,7 @@ func (r *variablyDimensioned10LBFGSCentralDescent) judge() {
 		}
 		variablyDimensioned10LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		variablyDimensioned10LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(VariablyDimensioned10LBFGSCentralOutOfIterations)
@@ -1121,6 +1122,10 @@ func variablyDimensioned10LBFGSCentralStepScale(xi float64, i int, diffs *variab
 func variablyDimensioned10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10LBFGSCentralBox) {
 }
 
+// variablyDimensioned10LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func variablyDimensioned10LBFGSCentralLearnCurvature(s, y *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
+}
+
 // variablyDimensioned10LBFGSCentralSearchDirection is the direction's own.
 func variablyDimensioned10LBFGSCentralSearchDirection(dir *variablyDimensioned10LBFGSCentralDirection, x, g, d *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
 	variablyDimensioned10LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1192,7 +1197,7 @@ func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, d
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first float64, floor *variablyDimensioned10LBFGSCentralStepFloor, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
 	if !variablyDimensioned10LBFGSCentralFinite(slope) {
-		slope = variablyDimensioned10LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: variablyDimensioned10LBFGSCentralShortenAlong is not inlined
+		slope = variablyDimensioned10LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: variablyDimensioned10LBFGSCentralShortenAlong is not inlined
 	}
 	low := variablyDimensioned10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1276,30 +1281,16 @@ type variablyDimensioned10LBFGSCentralSearchEnd uint8
 // variablyDimensioned10LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (variablyDimensioned10LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (variablyDimensioned10LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (variablyDimensioned10LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func variablyDimensioned10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64, floor *variablyDimensioned10LBFGSCentralStepFloor) float64 {
+func variablyDimensioned10LBFGSCentralShortenAlong(g, d *[10]float64, slope float64) float64 {
 	if variablyDimensioned10LBFGSCentralFinite(slope) || !variablyDimensioned10LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := variablyDimensioned10LBFGSCentralMaxAbs(d)
 	variablyDimensioned10LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / variablyDimensioned10LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return variablyDimensioned10LBFGSCentralDot(g, d)
-}
-
-// variablyDimensioned10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10LBFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // variablyDimensioned10LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1314,6 +1305,17 @@ func variablyDimensioned10LBFGSCentralShrinkDirection(d, g *[10]float64) {
 			variablyDimensioned10LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// variablyDimensioned10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func variablyDimensioned10LBFGSCentralMaxAbs(x *[10]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := variablyDimensioned10LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // variablyDimensioned10LBFGSCentralScaleBy sets x = c·x.

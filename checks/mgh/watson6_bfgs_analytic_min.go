@@ -443,6 +443,7 @@ func (r *watson6BFGSAnalyticDescent) judge() {
 		}
 		watson6BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson6BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson6BFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func watson6BFGSAnalyticStepScale(xi float64, i int, diffs *watson6BFGSAnalyticD
 // watson6BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson6BFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6BFGSAnalyticBox) {}
 
+// watson6BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func watson6BFGSAnalyticLearnCurvature(s, y *[6]float64, diffs *watson6BFGSAnalyticDifferences) {}
+
 // watson6BFGSAnalyticSearchDirection is the direction's own.
 func watson6BFGSAnalyticSearchDirection(dir *watson6BFGSAnalyticDirection, x, g, d *[6]float64, diffs *watson6BFGSAnalyticDifferences) {
 	watson6BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6BF
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6BFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *watson6BFGSAnalyticDifferences) watson6BFGSAnalyticLineResult {
 	if !watson6BFGSAnalyticFinite(slope) {
-		slope = watson6BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson6BFGSAnalyticShortenAlong is not inlined
+		slope = watson6BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: watson6BFGSAnalyticShortenAlong is not inlined
 	}
 	low := watson6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type watson6BFGSAnalyticSearchEnd uint8
 // watson6BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson6BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson6BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6BFGSAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *watson6BFGSAnalyticStepFloor) float64 {
+func watson6BFGSAnalyticShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if watson6BFGSAnalyticFinite(slope) || !watson6BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := watson6BFGSAnalyticMaxAbs(d)
 	watson6BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson6BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson6BFGSAnalyticDot(g, d)
-}
-
-// watson6BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6BFGSAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson6BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func watson6BFGSAnalyticShrinkDirection(d, g *[6]float64) {
 			watson6BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson6BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6BFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson6BFGSAnalyticScaleBy sets x = c·x.

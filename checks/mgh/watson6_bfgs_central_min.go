@@ -443,6 +443,7 @@ func (r *watson6BFGSCentralDescent) judge() {
 		}
 		watson6BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson6BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson6BFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func watson6BFGSCentralStepScale(xi float64, i int, diffs *watson6BFGSCentralDif
 // watson6BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson6BFGSCentralCurvaturePair(s, y, x *[6]float64, b *watson6BFGSCentralBox) {}
 
+// watson6BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func watson6BFGSCentralLearnCurvature(s, y *[6]float64, diffs *watson6BFGSCentralDifferences) {}
+
 // watson6BFGSCentralSearchDirection is the direction's own.
 func watson6BFGSCentralSearchDirection(dir *watson6BFGSCentralDirection, x, g, d *[6]float64, diffs *watson6BFGSCentralDifferences) {
 	watson6BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFG
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6BFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6BFGSCentralDifferences) watson6BFGSCentralLineResult {
 	if !watson6BFGSCentralFinite(slope) {
-		slope = watson6BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson6BFGSCentralShortenAlong is not inlined
+		slope = watson6BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: watson6BFGSCentralShortenAlong is not inlined
 	}
 	low := watson6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type watson6BFGSCentralSearchEnd uint8
 // watson6BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson6BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson6BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6BFGSCentralShortenAlong(g, d *[6]float64, slope float64, floor *watson6BFGSCentralStepFloor) float64 {
+func watson6BFGSCentralShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if watson6BFGSCentralFinite(slope) || !watson6BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := watson6BFGSCentralMaxAbs(d)
 	watson6BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson6BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson6BFGSCentralDot(g, d)
-}
-
-// watson6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6BFGSCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson6BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func watson6BFGSCentralShrinkDirection(d, g *[6]float64) {
 			watson6BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6BFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson6BFGSCentralScaleBy sets x = c·x.

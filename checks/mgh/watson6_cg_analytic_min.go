@@ -443,6 +443,7 @@ func (r *watson6CGAnalyticDescent) judge() {
 		}
 		watson6CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson6CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson6CGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func watson6CGAnalyticStepScale(xi float64, i int, diffs *watson6CGAnalyticDiffe
 // watson6CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson6CGAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6CGAnalyticBox) {}
 
+// watson6CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func watson6CGAnalyticLearnCurvature(s, y *[6]float64, diffs *watson6CGAnalyticDifferences) {}
+
 // watson6CGAnalyticSearchDirection is the direction's own.
 func watson6CGAnalyticSearchDirection(dir *watson6CGAnalyticDirection, x, g, d *[6]float64, diffs *watson6CGAnalyticDifferences) {
 	watson6CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6CGAn
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6CGAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *watson6CGAnalyticDifferences) watson6CGAnalyticLineResult {
 	if !watson6CGAnalyticFinite(slope) {
-		slope = watson6CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson6CGAnalyticShortenAlong is not inlined
+		slope = watson6CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: watson6CGAnalyticShortenAlong is not inlined
 	}
 	low := watson6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type watson6CGAnalyticSearchEnd uint8
 // watson6CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson6CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson6CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6CGAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *watson6CGAnalyticStepFloor) float64 {
+func watson6CGAnalyticShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if watson6CGAnalyticFinite(slope) || !watson6CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := watson6CGAnalyticMaxAbs(d)
 	watson6CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson6CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson6CGAnalyticDot(g, d)
-}
-
-// watson6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6CGAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson6CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func watson6CGAnalyticShrinkDirection(d, g *[6]float64) {
 			watson6CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6CGAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson6CGAnalyticScaleBy sets x = c·x.

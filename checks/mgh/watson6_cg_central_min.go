@@ -443,6 +443,7 @@ func (r *watson6CGCentralDescent) judge() {
 		}
 		watson6CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson6CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson6CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func watson6CGCentralStepScale(xi float64, i int, diffs *watson6CGCentralDiffere
 // watson6CGCentralCurvaturePair: without bounds the pair is used as it is.
 func watson6CGCentralCurvaturePair(s, y, x *[6]float64, b *watson6CGCentralBox) {}
 
+// watson6CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func watson6CGCentralLearnCurvature(s, y *[6]float64, diffs *watson6CGCentralDifferences) {}
+
 // watson6CGCentralSearchDirection is the direction's own.
 func watson6CGCentralSearchDirection(dir *watson6CGCentralDirection, x, g, d *[6]float64, diffs *watson6CGCentralDifferences) {
 	watson6CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func watson6CGCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6CGCen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6CGCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6CGCentralDifferences) watson6CGCentralLineResult {
 	if !watson6CGCentralFinite(slope) {
-		slope = watson6CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson6CGCentralShortenAlong is not inlined
+		slope = watson6CGCentralShortenAlong(g, d, slope) // the call only where it acts: watson6CGCentralShortenAlong is not inlined
 	}
 	low := watson6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type watson6CGCentralSearchEnd uint8
 // watson6CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson6CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson6CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6CGCentralShortenAlong(g, d *[6]float64, slope float64, floor *watson6CGCentralStepFloor) float64 {
+func watson6CGCentralShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if watson6CGCentralFinite(slope) || !watson6CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := watson6CGCentralMaxAbs(d)
 	watson6CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson6CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson6CGCentralDot(g, d)
-}
-
-// watson6CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6CGCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson6CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func watson6CGCentralShrinkDirection(d, g *[6]float64) {
 			watson6CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson6CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6CGCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson6CGCentralScaleBy sets x = c·x.

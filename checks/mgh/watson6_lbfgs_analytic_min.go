@@ -444,6 +444,7 @@ func (r *watson6LBFGSAnalyticDescent) judge() {
 		}
 		watson6LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson6LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson6LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func watson6LBFGSAnalyticStepScale(xi float64, i int, diffs *watson6LBFGSAnalyti
 // watson6LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson6LBFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6LBFGSAnalyticBox) {}
 
+// watson6LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func watson6LBFGSAnalyticLearnCurvature(s, y *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {}
+
 // watson6LBFGSAnalyticSearchDirection is the direction's own.
 func watson6LBFGSAnalyticSearchDirection(dir *watson6LBFGSAnalyticDirection, x, g, d *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
 	watson6LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6L
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6LBFGSAnalyticStepFloor, budget int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
 	if !watson6LBFGSAnalyticFinite(slope) {
-		slope = watson6LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson6LBFGSAnalyticShortenAlong is not inlined
+		slope = watson6LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: watson6LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := watson6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type watson6LBFGSAnalyticSearchEnd uint8
 // watson6LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson6LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson6LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6LBFGSAnalyticShortenAlong(g, d *[6]float64, slope float64, floor *watson6LBFGSAnalyticStepFloor) float64 {
+func watson6LBFGSAnalyticShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if watson6LBFGSAnalyticFinite(slope) || !watson6LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := watson6LBFGSAnalyticMaxAbs(d)
 	watson6LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson6LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson6LBFGSAnalyticDot(g, d)
-}
-
-// watson6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson6LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func watson6LBFGSAnalyticShrinkDirection(d, g *[6]float64) {
 			watson6LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson6LBFGSAnalyticScaleBy sets x = c·x.

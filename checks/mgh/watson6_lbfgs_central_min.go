@@ -444,6 +444,7 @@ func (r *watson6LBFGSCentralDescent) judge() {
 		}
 		watson6LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson6LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson6LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func watson6LBFGSCentralStepScale(xi float64, i int, diffs *watson6LBFGSCentralD
 // watson6LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson6LBFGSCentralCurvaturePair(s, y, x *[6]float64, b *watson6LBFGSCentralBox) {}
 
+// watson6LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func watson6LBFGSCentralLearnCurvature(s, y *[6]float64, diffs *watson6LBFGSCentralDifferences) {}
+
 // watson6LBFGSCentralSearchDirection is the direction's own.
 func watson6LBFGSCentralSearchDirection(dir *watson6LBFGSCentralDirection, x, g, d *[6]float64, diffs *watson6LBFGSCentralDifferences) {
 	watson6LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6LB
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first float64, floor *watson6LBFGSCentralStepFloor, budget int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
 	if !watson6LBFGSCentralFinite(slope) {
-		slope = watson6LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson6LBFGSCentralShortenAlong is not inlined
+		slope = watson6LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: watson6LBFGSCentralShortenAlong is not inlined
 	}
 	low := watson6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type watson6LBFGSCentralSearchEnd uint8
 // watson6LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson6LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson6LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson6LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson6LBFGSCentralShortenAlong(g, d *[6]float64, slope float64, floor *watson6LBFGSCentralStepFloor) float64 {
+func watson6LBFGSCentralShortenAlong(g, d *[6]float64, slope float64) float64 {
 	if watson6LBFGSCentralFinite(slope) || !watson6LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := watson6LBFGSCentralMaxAbs(d)
 	watson6LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson6LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson6LBFGSCentralDot(g, d)
-}
-
-// watson6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6LBFGSCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson6LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func watson6LBFGSCentralShrinkDirection(d, g *[6]float64) {
 			watson6LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson6LBFGSCentralMaxAbs(x *[6]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson6LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson6LBFGSCentralScaleBy sets x = c·x.

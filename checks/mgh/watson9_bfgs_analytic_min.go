@@ -443,6 +443,7 @@ func (r *watson9BFGSAnalyticDescent) judge() {
 		}
 		watson9BFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson9BFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson9BFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func watson9BFGSAnalyticStepScale(xi float64, i int, diffs *watson9BFGSAnalyticD
 // watson9BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson9BFGSAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9BFGSAnalyticBox) {}
 
+// watson9BFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func watson9BFGSAnalyticLearnCurvature(s, y *[9]float64, diffs *watson9BFGSAnalyticDifferences) {}
+
 // watson9BFGSAnalyticSearchDirection is the direction's own.
 func watson9BFGSAnalyticSearchDirection(dir *watson9BFGSAnalyticDirection, x, g, d *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
 	watson9BFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9BF
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9BFGSAnalyticStepFloor, budget int, xt, gt *[9]float64, diffs *watson9BFGSAnalyticDifferences) watson9BFGSAnalyticLineResult {
 	if !watson9BFGSAnalyticFinite(slope) {
-		slope = watson9BFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson9BFGSAnalyticShortenAlong is not inlined
+		slope = watson9BFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: watson9BFGSAnalyticShortenAlong is not inlined
 	}
 	low := watson9BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type watson9BFGSAnalyticSearchEnd uint8
 // watson9BFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9BFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson9BFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson9BFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9BFGSAnalyticShortenAlong(g, d *[9]float64, slope float64, floor *watson9BFGSAnalyticStepFloor) float64 {
+func watson9BFGSAnalyticShortenAlong(g, d *[9]float64, slope float64) float64 {
 	if watson9BFGSAnalyticFinite(slope) || !watson9BFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := watson9BFGSAnalyticMaxAbs(d)
 	watson9BFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson9BFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson9BFGSAnalyticDot(g, d)
-}
-
-// watson9BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9BFGSAnalyticMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson9BFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func watson9BFGSAnalyticShrinkDirection(d, g *[9]float64) {
 			watson9BFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson9BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9BFGSAnalyticMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9BFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson9BFGSAnalyticScaleBy sets x = c·x.

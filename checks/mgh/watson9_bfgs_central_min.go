@@ -443,6 +443,7 @@ func (r *watson9BFGSCentralDescent) judge() {
 		}
 		watson9BFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson9BFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson9BFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func watson9BFGSCentralStepScale(xi float64, i int, diffs *watson9BFGSCentralDif
 // watson9BFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson9BFGSCentralCurvaturePair(s, y, x *[9]float64, b *watson9BFGSCentralBox) {}
 
+// watson9BFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func watson9BFGSCentralLearnCurvature(s, y *[9]float64, diffs *watson9BFGSCentralDifferences) {}
+
 // watson9BFGSCentralSearchDirection is the direction's own.
 func watson9BFGSCentralSearchDirection(dir *watson9BFGSCentralDirection, x, g, d *[9]float64, diffs *watson9BFGSCentralDifferences) {
 	watson9BFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9BFG
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9BFGSCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
 	if !watson9BFGSCentralFinite(slope) {
-		slope = watson9BFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson9BFGSCentralShortenAlong is not inlined
+		slope = watson9BFGSCentralShortenAlong(g, d, slope) // the call only where it acts: watson9BFGSCentralShortenAlong is not inlined
 	}
 	low := watson9BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type watson9BFGSCentralSearchEnd uint8
 // watson9BFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9BFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson9BFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson9BFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9BFGSCentralShortenAlong(g, d *[9]float64, slope float64, floor *watson9BFGSCentralStepFloor) float64 {
+func watson9BFGSCentralShortenAlong(g, d *[9]float64, slope float64) float64 {
 	if watson9BFGSCentralFinite(slope) || !watson9BFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := watson9BFGSCentralMaxAbs(d)
 	watson9BFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson9BFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson9BFGSCentralDot(g, d)
-}
-
-// watson9BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9BFGSCentralMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson9BFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func watson9BFGSCentralShrinkDirection(d, g *[9]float64) {
 			watson9BFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson9BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9BFGSCentralMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9BFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson9BFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *watson9CGAnalyticDescent) judge() {
 		}
 		watson9CGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson9CGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson9CGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func watson9CGAnalyticStepScale(xi float64, i int, diffs *watson9CGAnalyticDiffe
 // watson9CGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson9CGAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9CGAnalyticBox) {}
 
+// watson9CGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func watson9CGAnalyticLearnCurvature(s, y *[9]float64, diffs *watson9CGAnalyticDifferences) {}
+
 // watson9CGAnalyticSearchDirection is the direction's own.
 func watson9CGAnalyticSearchDirection(dir *watson9CGAnalyticDirection, x, g, d *[9]float64, diffs *watson9CGAnalyticDifferences) {
 	watson9CGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGAn
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9CGAnalyticStepFloor, budget int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
 	if !watson9CGAnalyticFinite(slope) {
-		slope = watson9CGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson9CGAnalyticShortenAlong is not inlined
+		slope = watson9CGAnalyticShortenAlong(g, d, slope) // the call only where it acts: watson9CGAnalyticShortenAlong is not inlined
 	}
 	low := watson9CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type watson9CGAnalyticSearchEnd uint8
 // watson9CGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9CGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson9CGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson9CGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9CGAnalyticShortenAlong(g, d *[9]float64, slope float64, floor *watson9CGAnalyticStepFloor) float64 {
+func watson9CGAnalyticShortenAlong(g, d *[9]float64, slope float64) float64 {
 	if watson9CGAnalyticFinite(slope) || !watson9CGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := watson9CGAnalyticMaxAbs(d)
 	watson9CGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson9CGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson9CGAnalyticDot(g, d)
-}
-
-// watson9CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9CGAnalyticMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson9CGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func watson9CGAnalyticShrinkDirection(d, g *[9]float64) {
 			watson9CGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson9CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9CGAnalyticMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9CGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson9CGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *watson9CGCentralDescent) judge() {
 		}
 		watson9CGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson9CGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson9CGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func watson9CGCentralStepScale(xi float64, i int, diffs *watson9CGCentralDiffere
 // watson9CGCentralCurvaturePair: without bounds the pair is used as it is.
 func watson9CGCentralCurvaturePair(s, y, x *[9]float64, b *watson9CGCentralBox) {}
 
+// watson9CGCentralLearnCurvature: the direction keeps no model beside its memory.
+func watson9CGCentralLearnCurvature(s, y *[9]float64, diffs *watson9CGCentralDifferences) {}
+
 // watson9CGCentralSearchDirection is the direction's own.
 func watson9CGCentralSearchDirection(dir *watson9CGCentralDirection, x, g, d *[9]float64, diffs *watson9CGCentralDifferences) {
 	watson9CGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func watson9CGCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGCen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9CGCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9CGCentralDifferences) watson9CGCentralLineResult {
 	if !watson9CGCentralFinite(slope) {
-		slope = watson9CGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson9CGCentralShortenAlong is not inlined
+		slope = watson9CGCentralShortenAlong(g, d, slope) // the call only where it acts: watson9CGCentralShortenAlong is not inlined
 	}
 	low := watson9CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type watson9CGCentralSearchEnd uint8
 // watson9CGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9CGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson9CGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson9CGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9CGCentralShortenAlong(g, d *[9]float64, slope float64, floor *watson9CGCentralStepFloor) float64 {
+func watson9CGCentralShortenAlong(g, d *[9]float64, slope float64) float64 {
 	if watson9CGCentralFinite(slope) || !watson9CGCentralFiniteVec(d) {
 		return slope
 	}
-	before := watson9CGCentralMaxAbs(d)
 	watson9CGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson9CGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson9CGCentralDot(g, d)
-}
-
-// watson9CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9CGCentralMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson9CGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func watson9CGCentralShrinkDirection(d, g *[9]float64) {
 			watson9CGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson9CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9CGCentralMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9CGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson9CGCentralScaleBy sets x = c·x.

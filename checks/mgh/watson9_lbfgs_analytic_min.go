@@ -444,6 +444,7 @@ func (r *watson9LBFGSAnalyticDescent) judge() {
 		}
 		watson9LBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson9LBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson9LBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func watson9LBFGSAnalyticStepScale(xi float64, i int, diffs *watson9LBFGSAnalyti
 // watson9LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func watson9LBFGSAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9LBFGSAnalyticBox) {}
 
+// watson9LBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func watson9LBFGSAnalyticLearnCurvature(s, y *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {}
+
 // watson9LBFGSAnalyticSearchDirection is the direction's own.
 func watson9LBFGSAnalyticSearchDirection(dir *watson9LBFGSAnalyticDirection, x, g, d *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
 	watson9LBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9L
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9LBFGSAnalyticStepFloor, budget int, xt, gt *[9]float64, diffs *watson9LBFGSAnalyticDifferences) watson9LBFGSAnalyticLineResult {
 	if !watson9LBFGSAnalyticFinite(slope) {
-		slope = watson9LBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: watson9LBFGSAnalyticShortenAlong is not inlined
+		slope = watson9LBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: watson9LBFGSAnalyticShortenAlong is not inlined
 	}
 	low := watson9LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type watson9LBFGSAnalyticSearchEnd uint8
 // watson9LBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9LBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson9LBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson9LBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9LBFGSAnalyticShortenAlong(g, d *[9]float64, slope float64, floor *watson9LBFGSAnalyticStepFloor) float64 {
+func watson9LBFGSAnalyticShortenAlong(g, d *[9]float64, slope float64) float64 {
 	if watson9LBFGSAnalyticFinite(slope) || !watson9LBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := watson9LBFGSAnalyticMaxAbs(d)
 	watson9LBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson9LBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson9LBFGSAnalyticDot(g, d)
-}
-
-// watson9LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9LBFGSAnalyticMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson9LBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func watson9LBFGSAnalyticShrinkDirection(d, g *[9]float64) {
 			watson9LBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson9LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9LBFGSAnalyticMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9LBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson9LBFGSAnalyticScaleBy sets x = c·x.

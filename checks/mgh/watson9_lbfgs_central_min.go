@@ -444,6 +444,7 @@ func (r *watson9LBFGSCentralDescent) judge() {
 		}
 		watson9LBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		watson9LBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(Watson9LBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func watson9LBFGSCentralStepScale(xi float64, i int, diffs *watson9LBFGSCentralD
 // watson9LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func watson9LBFGSCentralCurvaturePair(s, y, x *[9]float64, b *watson9LBFGSCentralBox) {}
 
+// watson9LBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func watson9LBFGSCentralLearnCurvature(s, y *[9]float64, diffs *watson9LBFGSCentralDifferences) {}
+
 // watson9LBFGSCentralSearchDirection is the direction's own.
 func watson9LBFGSCentralSearchDirection(dir *watson9LBFGSCentralDirection, x, g, d *[9]float64, diffs *watson9LBFGSCentralDifferences) {
 	watson9LBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9LB
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first float64, floor *watson9LBFGSCentralStepFloor, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
 	if !watson9LBFGSCentralFinite(slope) {
-		slope = watson9LBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: watson9LBFGSCentralShortenAlong is not inlined
+		slope = watson9LBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: watson9LBFGSCentralShortenAlong is not inlined
 	}
 	low := watson9LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type watson9LBFGSCentralSearchEnd uint8
 // watson9LBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (watson9LBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (watson9LBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (watson9LBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func watson9LBFGSCentralShortenAlong(g, d *[9]float64, slope float64, floor *watson9LBFGSCentralStepFloor) float64 {
+func watson9LBFGSCentralShortenAlong(g, d *[9]float64, slope float64) float64 {
 	if watson9LBFGSCentralFinite(slope) || !watson9LBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := watson9LBFGSCentralMaxAbs(d)
 	watson9LBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / watson9LBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return watson9LBFGSCentralDot(g, d)
-}
-
-// watson9LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9LBFGSCentralMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // watson9LBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func watson9LBFGSCentralShrinkDirection(d, g *[9]float64) {
 			watson9LBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// watson9LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func watson9LBFGSCentralMaxAbs(x *[9]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := watson9LBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // watson9LBFGSCentralScaleBy sets x = c·x.

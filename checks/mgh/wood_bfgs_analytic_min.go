@@ -443,6 +443,7 @@ func (r *woodBFGSAnalyticDescent) judge() {
 		}
 		woodBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		woodBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(WoodBFGSAnalyticOutOfIterations)
@@ -907,6 +908,9 @@ func woodBFGSAnalyticStepScale(xi float64, i int, diffs *woodBFGSAnalyticDiffere
 // woodBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func woodBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *woodBFGSAnalyticBox) {}
 
+// woodBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func woodBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *woodBFGSAnalyticDifferences) {}
+
 // woodBFGSAnalyticSearchDirection is the direction's own.
 func woodBFGSAnalyticSearchDirection(dir *woodBFGSAnalyticDirection, x, g, d *[4]float64, diffs *woodBFGSAnalyticDifferences) {
 	woodBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -978,7 +982,7 @@ func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSAnal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *woodBFGSAnalyticDifferences) woodBFGSAnalyticLineResult {
 	if !woodBFGSAnalyticFinite(slope) {
-		slope = woodBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: woodBFGSAnalyticShortenAlong is not inlined
+		slope = woodBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: woodBFGSAnalyticShortenAlong is not inlined
 	}
 	low := woodBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1062,30 +1066,16 @@ type woodBFGSAnalyticSearchEnd uint8
 // woodBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (woodBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (woodBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func woodBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *woodBFGSAnalyticStepFloor) float64 {
+func woodBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if woodBFGSAnalyticFinite(slope) || !woodBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := woodBFGSAnalyticMaxAbs(d)
 	woodBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / woodBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return woodBFGSAnalyticDot(g, d)
-}
-
-// woodBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func woodBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // woodBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1100,6 +1090,17 @@ func woodBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			woodBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// woodBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func woodBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // woodBFGSAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *woodBFGSCentralDescent) judge() {
 		}
 		woodBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		woodBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(WoodBFGSCentralOutOfIterations)
@@ -1086,6 +1087,9 @@ func woodBFGSCentralStepScale(xi float64, i int, diffs *woodBFGSCentralDifferenc
 // woodBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func woodBFGSCentralCurvaturePair(s, y, x *[4]float64, b *woodBFGSCentralBox) {}
 
+// woodBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func woodBFGSCentralLearnCurvature(s, y *[4]float64, diffs *woodBFGSCentralDifferences) {}
+
 // woodBFGSCentralSearchDirection is the direction's own.
 func woodBFGSCentralSearchDirection(dir *woodBFGSCentralDirection, x, g, d *[4]float64, diffs *woodBFGSCentralDifferences) {
 	woodBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSCentr
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodBFGSCentralDifferences) woodBFGSCentralLineResult {
 	if !woodBFGSCentralFinite(slope) {
-		slope = woodBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: woodBFGSCentralShortenAlong is not inlined
+		slope = woodBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: woodBFGSCentralShortenAlong is not inlined
 	}
 	low := woodBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type woodBFGSCentralSearchEnd uint8
 // woodBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (woodBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (woodBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func woodBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *woodBFGSCentralStepFloor) float64 {
+func woodBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if woodBFGSCentralFinite(slope) || !woodBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := woodBFGSCentralMaxAbs(d)
 	woodBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / woodBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return woodBFGSCentralDot(g, d)
-}
-
-// woodBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func woodBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // woodBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func woodBFGSCentralShrinkDirection(d, g *[4]float64) {
 			woodBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// woodBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func woodBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // woodBFGSCentralScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *woodCGAnalyticDescent) judge() {
 		}
 		woodCGAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		woodCGAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(WoodCGAnalyticOutOfIterations)
@@ -898,6 +899,9 @@ func woodCGAnalyticStepScale(xi float64, i int, diffs *woodCGAnalyticDifferences
 // woodCGAnalyticCurvaturePair: without bounds the pair is used as it is.
 func woodCGAnalyticCurvaturePair(s, y, x *[4]float64, b *woodCGAnalyticBox) {}
 
+// woodCGAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func woodCGAnalyticLearnCurvature(s, y *[4]float64, diffs *woodCGAnalyticDifferences) {}
+
 // woodCGAnalyticSearchDirection is the direction's own.
 func woodCGAnalyticSearchDirection(dir *woodCGAnalyticDirection, x, g, d *[4]float64, diffs *woodCGAnalyticDifferences) {
 	woodCGAnalyticSolveDirection(dir, g, d, diffs)
@@ -969,7 +973,7 @@ func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodCGAnalytic
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodCGAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *woodCGAnalyticDifferences) woodCGAnalyticLineResult {
 	if !woodCGAnalyticFinite(slope) {
-		slope = woodCGAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: woodCGAnalyticShortenAlong is not inlined
+		slope = woodCGAnalyticShortenAlong(g, d, slope) // the call only where it acts: woodCGAnalyticShortenAlong is not inlined
 	}
 	low := woodCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1053,30 +1057,16 @@ type woodCGAnalyticSearchEnd uint8
 // woodCGAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodCGAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (woodCGAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (woodCGAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func woodCGAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *woodCGAnalyticStepFloor) float64 {
+func woodCGAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if woodCGAnalyticFinite(slope) || !woodCGAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := woodCGAnalyticMaxAbs(d)
 	woodCGAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / woodCGAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return woodCGAnalyticDot(g, d)
-}
-
-// woodCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func woodCGAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // woodCGAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1091,6 +1081,17 @@ func woodCGAnalyticShrinkDirection(d, g *[4]float64) {
 			woodCGAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// woodCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func woodCGAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodCGAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // woodCGAnalyticScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *woodCGCentralDescent) judge() {
 		}
 		woodCGCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		woodCGCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(WoodCGCentralOutOfIterations)
@@ -1077,6 +1078,9 @@ func woodCGCentralStepScale(xi float64, i int, diffs *woodCGCentralDifferences) 
 // woodCGCentralCurvaturePair: without bounds the pair is used as it is.
 func woodCGCentralCurvaturePair(s, y, x *[4]float64, b *woodCGCentralBox) {}
 
+// woodCGCentralLearnCurvature: the direction keeps no model beside its memory.
+func woodCGCentralLearnCurvature(s, y *[4]float64, diffs *woodCGCentralDifferences) {}
+
 // woodCGCentralSearchDirection is the direction's own.
 func woodCGCentralSearchDirection(dir *woodCGCentralDirection, x, g, d *[4]float64, diffs *woodCGCentralDifferences) {
 	woodCGCentralSolveDirection(dir, g, d, diffs)
@@ -1148,7 +1152,7 @@ func woodCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodCGCentralDi
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodCGCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
 	if !woodCGCentralFinite(slope) {
-		slope = woodCGCentralShortenAlong(g, d, slope, floor) // the call only where it acts: woodCGCentralShortenAlong is not inlined
+		slope = woodCGCentralShortenAlong(g, d, slope) // the call only where it acts: woodCGCentralShortenAlong is not inlined
 	}
 	low := woodCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1232,30 +1236,16 @@ type woodCGCentralSearchEnd uint8
 // woodCGCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodCGCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (woodCGCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (woodCGCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func woodCGCentralShortenAlong(g, d *[4]float64, slope float64, floor *woodCGCentralStepFloor) float64 {
+func woodCGCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if woodCGCentralFinite(slope) || !woodCGCentralFiniteVec(d) {
 		return slope
 	}
-	before := woodCGCentralMaxAbs(d)
 	woodCGCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / woodCGCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return woodCGCentralDot(g, d)
-}
-
-// woodCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func woodCGCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // woodCGCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1270,6 +1260,17 @@ func woodCGCentralShrinkDirection(d, g *[4]float64) {
 			woodCGCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// woodCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func woodCGCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodCGCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // woodCGCentralScaleBy sets x = c·x.

@@ -444,6 +444,7 @@ func (r *woodLBFGSAnalyticDescent) judge() {
 		}
 		woodLBFGSAnalyticCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		woodLBFGSAnalyticLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(WoodLBFGSAnalyticOutOfIterations)
@@ -940,6 +941,9 @@ func woodLBFGSAnalyticStepScale(xi float64, i int, diffs *woodLBFGSAnalyticDiffe
 // woodLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
 func woodLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *woodLBFGSAnalyticBox) {}
 
+// woodLBFGSAnalyticLearnCurvature: the direction keeps no model beside its memory.
+func woodLBFGSAnalyticLearnCurvature(s, y *[4]float64, diffs *woodLBFGSAnalyticDifferences) {}
+
 // woodLBFGSAnalyticSearchDirection is the direction's own.
 func woodLBFGSAnalyticSearchDirection(dir *woodLBFGSAnalyticDirection, x, g, d *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
 	woodLBFGSAnalyticSolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSAn
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodLBFGSAnalyticStepFloor, budget int, xt, gt *[4]float64, diffs *woodLBFGSAnalyticDifferences) woodLBFGSAnalyticLineResult {
 	if !woodLBFGSAnalyticFinite(slope) {
-		slope = woodLBFGSAnalyticShortenAlong(g, d, slope, floor) // the call only where it acts: woodLBFGSAnalyticShortenAlong is not inlined
+		slope = woodLBFGSAnalyticShortenAlong(g, d, slope) // the call only where it acts: woodLBFGSAnalyticShortenAlong is not inlined
 	}
 	low := woodLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type woodLBFGSAnalyticSearchEnd uint8
 // woodLBFGSAnalyticShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodLBFGSAnalyticShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (woodLBFGSAnalyticShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (woodLBFGSAnalyticStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func woodLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64, floor *woodLBFGSAnalyticStepFloor) float64 {
+func woodLBFGSAnalyticShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if woodLBFGSAnalyticFinite(slope) || !woodLBFGSAnalyticFiniteVec(d) {
 		return slope
 	}
-	before := woodLBFGSAnalyticMaxAbs(d)
 	woodLBFGSAnalyticShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / woodLBFGSAnalyticMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return woodLBFGSAnalyticDot(g, d)
-}
-
-// woodLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func woodLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // woodLBFGSAnalyticShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func woodLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 			woodLBFGSAnalyticScaleBy(d, 1/m)
 		}
 	}
+}
+
+// woodLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
+func woodLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodLBFGSAnalyticAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // woodLBFGSAnalyticScaleBy sets x = c·x.

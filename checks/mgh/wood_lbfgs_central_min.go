@@ -444,6 +444,7 @@ func (r *woodLBFGSCentralDescent) judge() {
 		}
 		woodLBFGSCentralCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		woodLBFGSCentralLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(WoodLBFGSCentralOutOfIterations)
@@ -1119,6 +1120,9 @@ func woodLBFGSCentralStepScale(xi float64, i int, diffs *woodLBFGSCentralDiffere
 // woodLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
 func woodLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *woodLBFGSCentralBox) {}
 
+// woodLBFGSCentralLearnCurvature: the direction keeps no model beside its memory.
+func woodLBFGSCentralLearnCurvature(s, y *[4]float64, diffs *woodLBFGSCentralDifferences) {}
+
 // woodLBFGSCentralSearchDirection is the direction's own.
 func woodLBFGSCentralSearchDirection(dir *woodLBFGSCentralDirection, x, g, d *[4]float64, diffs *woodLBFGSCentralDifferences) {
 	woodLBFGSCentralSolveDirection(dir, g, d, diffs)
@@ -1190,7 +1194,7 @@ func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSCen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first float64, floor *woodLBFGSCentralStepFloor, budget int, xt, gt *[4]float64, diffs *woodLBFGSCentralDifferences) woodLBFGSCentralLineResult {
 	if !woodLBFGSCentralFinite(slope) {
-		slope = woodLBFGSCentralShortenAlong(g, d, slope, floor) // the call only where it acts: woodLBFGSCentralShortenAlong is not inlined
+		slope = woodLBFGSCentralShortenAlong(g, d, slope) // the call only where it acts: woodLBFGSCentralShortenAlong is not inlined
 	}
 	low := woodLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
@@ -1274,30 +1278,16 @@ type woodLBFGSCentralSearchEnd uint8
 // woodLBFGSCentralShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (woodLBFGSCentralShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (woodLBFGSCentralShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (woodLBFGSCentralStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func woodLBFGSCentralShortenAlong(g, d *[4]float64, slope float64, floor *woodLBFGSCentralStepFloor) float64 {
+func woodLBFGSCentralShortenAlong(g, d *[4]float64, slope float64) float64 {
 	if woodLBFGSCentralFinite(slope) || !woodLBFGSCentralFiniteVec(d) {
 		return slope
 	}
-	before := woodLBFGSCentralMaxAbs(d)
 	woodLBFGSCentralShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / woodLBFGSCentralMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return woodLBFGSCentralDot(g, d)
-}
-
-// woodLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func woodLBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // woodLBFGSCentralShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1312,6 +1302,17 @@ func woodLBFGSCentralShrinkDirection(d, g *[4]float64) {
 			woodLBFGSCentralScaleBy(d, 1/m)
 		}
 	}
+}
+
+// woodLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
+func woodLBFGSCentralMaxAbs(x *[4]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := woodLBFGSCentralAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // woodLBFGSCentralScaleBy sets x = c·x.

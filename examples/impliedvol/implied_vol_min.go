@@ -453,6 +453,7 @@ func (r *impliedVolDescent) judge(recv *Trade) {
 		}
 		impliedVolCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		impliedVolLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ImpliedVolOutOfIterations)
@@ -955,6 +956,9 @@ func impliedVolCurvaturePair(s, y, x *[1]float64, b *impliedVolBox) {
 	}
 }
 
+// impliedVolLearnCurvature: the direction keeps no model beside its memory.
+func impliedVolLearnCurvature(s, y *[1]float64, diffs *impliedVolDifferences) {}
+
 // impliedVolSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func impliedVolTinyStep(x, d *[1]float64, tol float64, diffs *impliedVolDifferen
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func impliedVolLineSearch(recv *Trade, x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *impliedVolStepFloor, budget int, xt, gt *[1]float64, diffs *impliedVolDifferences) impliedVolLineResult {
 	if !impliedVolFinite(slope) {
-		slope = impliedVolShortenAlong(g, d, slope, floor) // the call only where it acts: impliedVolShortenAlong is not inlined
+		slope = impliedVolShortenAlong(g, d, slope) // the call only where it acts: impliedVolShortenAlong is not inlined
 	}
 	low := impliedVolLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high impliedVolLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type impliedVolSearchEnd uint8
 // impliedVolShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (impliedVolShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (impliedVolShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (impliedVolStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func impliedVolShortenAlong(g, d *[1]float64, slope float64, floor *impliedVolStepFloor) float64 {
+func impliedVolShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if impliedVolFinite(slope) || !impliedVolFiniteVec(d) {
 		return slope
 	}
-	before := impliedVolMaxAbs(d)
 	impliedVolShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / impliedVolMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return impliedVolDot(g, d)
-}
-
-// impliedVolMaxAbs returns the largest |x_i|, the infinity norm.
-func impliedVolMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := impliedVolAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // impliedVolShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func impliedVolShrinkDirection(d, g *[1]float64) {
 			impliedVolScaleBy(d, 1/m)
 		}
 	}
+}
+
+// impliedVolMaxAbs returns the largest |x_i|, the infinity norm.
+func impliedVolMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := impliedVolAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // impliedVolScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *calibrateDescent) judge() {
 		}
 		calibrateCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		calibrateLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(CalibrateOutOfIterations)
@@ -907,6 +908,9 @@ func calibrateStepScale(xi float64, i int, diffs *calibrateDifferences) float64 
 // calibrateCurvaturePair: without bounds the pair is used as it is.
 func calibrateCurvaturePair(s, y, x *[2]float64, b *calibrateBox) {}
 
+// calibrateLearnCurvature: the direction keeps no model beside its memory.
+func calibrateLearnCurvature(s, y *[2]float64, diffs *calibrateDifferences) {}
+
 // calibrateSearchDirection is the direction's own.
 func calibrateSearchDirection(dir *calibrateDirection, x, g, d *[2]float64, diffs *calibrateDifferences) {
 	calibrateSolveDirection(dir, g, d, diffs)
@@ -957,7 +961,7 @@ func calibrateTinyStep(x, d *[2]float64, tol float64, diffs *calibrateDifference
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *calibrateStepFloor, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
 	if !calibrateFinite(slope) {
-		slope = calibrateShortenAlong(g, d, slope, floor) // the call only where it acts: calibrateShortenAlong is not inlined
+		slope = calibrateShortenAlong(g, d, slope) // the call only where it acts: calibrateShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -996,30 +1000,16 @@ type calibrateSearchEnd uint8
 // calibrateShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (calibrateShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (calibrateShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (calibrateStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func calibrateShortenAlong(g, d *[2]float64, slope float64, floor *calibrateStepFloor) float64 {
+func calibrateShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if calibrateFinite(slope) || !calibrateFiniteVec(d) {
 		return slope
 	}
-	before := calibrateMaxAbs(d)
 	calibrateShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / calibrateMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return calibrateDot(g, d)
-}
-
-// calibrateMaxAbs returns the largest |x_i|, the infinity norm.
-func calibrateMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := calibrateAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // calibrateShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1034,6 +1024,17 @@ func calibrateShrinkDirection(d, g *[2]float64) {
 			calibrateScaleBy(d, 1/m)
 		}
 	}
+}
+
+// calibrateMaxAbs returns the largest |x_i|, the infinity norm.
+func calibrateMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := calibrateAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // calibrateScaleBy sets x = c·x.

@@ -443,6 +443,7 @@ func (r *tuneGainDescent) judge() {
 		}
 		tuneGainCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		tuneGainLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(TuneGainOutOfIterations)
@@ -1086,6 +1087,9 @@ func tuneGainStepScale(xi float64, i int, diffs *tuneGainDifferences) float64 {
 // tuneGainCurvaturePair: without bounds the pair is used as it is.
 func tuneGainCurvaturePair(s, y, x *[1]float64, b *tuneGainBox) {}
 
+// tuneGainLearnCurvature: the direction keeps no model beside its memory.
+func tuneGainLearnCurvature(s, y *[1]float64, diffs *tuneGainDifferences) {}
+
 // tuneGainSearchDirection is the direction's own.
 func tuneGainSearchDirection(dir *tuneGainDirection, x, g, d *[1]float64, diffs *tuneGainDifferences) {
 	tuneGainSolveDirection(dir, g, d, diffs)
@@ -1136,7 +1140,7 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64, diffs *tuneGainDifferences)
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func tuneGainLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *tuneGainStepFloor, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
 	if !tuneGainFinite(slope) {
-		slope = tuneGainShortenAlong(g, d, slope, floor) // the call only where it acts: tuneGainShortenAlong is not inlined
+		slope = tuneGainShortenAlong(g, d, slope) // the call only where it acts: tuneGainShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1175,30 +1179,16 @@ type tuneGainSearchEnd uint8
 // tuneGainShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (tuneGainShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (tuneGainShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (tuneGainStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func tuneGainShortenAlong(g, d *[1]float64, slope float64, floor *tuneGainStepFloor) float64 {
+func tuneGainShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if tuneGainFinite(slope) || !tuneGainFiniteVec(d) {
 		return slope
 	}
-	before := tuneGainMaxAbs(d)
 	tuneGainShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / tuneGainMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return tuneGainDot(g, d)
-}
-
-// tuneGainMaxAbs returns the largest |x_i|, the infinity norm.
-func tuneGainMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := tuneGainAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // tuneGainShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1213,6 +1203,17 @@ func tuneGainShrinkDirection(d, g *[1]float64) {
 			tuneGainScaleBy(d, 1/m)
 		}
 	}
+}
+
+// tuneGainMaxAbs returns the largest |x_i|, the infinity norm.
+func tuneGainMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := tuneGainAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // tuneGainScaleBy sets x = c·x.

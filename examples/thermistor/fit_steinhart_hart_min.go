@@ -470,6 +470,7 @@ func (r *fitSteinhartHartDescent) judge(recv *Calibration) {
 		}
 		fitSteinhartHartCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		fitSteinhartHartLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(FitSteinhartHartOutOfIterations)
@@ -1113,6 +1114,9 @@ func fitSteinhartHartStepScale(xi float64, i int, diffs *fitSteinhartHartDiffere
 // fitSteinhartHartCurvaturePair: without bounds the pair is used as it is.
 func fitSteinhartHartCurvaturePair(s, y, x *[3]float64, b *fitSteinhartHartBox) {}
 
+// fitSteinhartHartLearnCurvature: the direction keeps no model beside its memory.
+func fitSteinhartHartLearnCurvature(s, y *[3]float64, diffs *fitSteinhartHartDifferences) {}
+
 // fitSteinhartHartSearchDirection is the direction's own.
 func fitSteinhartHartSearchDirection(dir *fitSteinhartHartDirection, x, g, d *[3]float64, diffs *fitSteinhartHartDifferences) {
 	fitSteinhartHartSolveDirection(dir, g, d, diffs)
@@ -1184,7 +1188,7 @@ func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64, diffs *fitSteinhart
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func fitSteinhartHartLineSearch(recv *Calibration, x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *fitSteinhartHartStepFloor, budget int, xt, gt *[3]float64, diffs *fitSteinhartHartDifferences) fitSteinhartHartLineResult {
 	if !fitSteinhartHartFinite(slope) {
-		slope = fitSteinhartHartShortenAlong(g, d, slope, floor) // the call only where it acts: fitSteinhartHartShortenAlong is not inlined
+		slope = fitSteinhartHartShortenAlong(g, d, slope) // the call only where it acts: fitSteinhartHartShortenAlong is not inlined
 	}
 	low := fitSteinhartHartLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high fitSteinhartHartLinePoint                                        // the other end of the bracket, once bracketed
@@ -1268,30 +1272,16 @@ type fitSteinhartHartSearchEnd uint8
 // fitSteinhartHartShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (fitSteinhartHartShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (fitSteinhartHartShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (fitSteinhartHartStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func fitSteinhartHartShortenAlong(g, d *[3]float64, slope float64, floor *fitSteinhartHartStepFloor) float64 {
+func fitSteinhartHartShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if fitSteinhartHartFinite(slope) || !fitSteinhartHartFiniteVec(d) {
 		return slope
 	}
-	before := fitSteinhartHartMaxAbs(d)
 	fitSteinhartHartShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / fitSteinhartHartMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return fitSteinhartHartDot(g, d)
-}
-
-// fitSteinhartHartMaxAbs returns the largest |x_i|, the infinity norm.
-func fitSteinhartHartMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := fitSteinhartHartAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // fitSteinhartHartShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1306,6 +1296,17 @@ func fitSteinhartHartShrinkDirection(d, g *[3]float64) {
 			fitSteinhartHartScaleBy(d, 1/m)
 		}
 	}
+}
+
+// fitSteinhartHartMaxAbs returns the largest |x_i|, the infinity norm.
+func fitSteinhartHartMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := fitSteinhartHartAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // fitSteinhartHartScaleBy sets x = c·x.

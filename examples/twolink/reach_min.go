@@ -453,6 +453,7 @@ func (r *reachDescent) judge(recv *Arm) {
 		}
 		reachCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		reachLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(ReachOutOfIterations)
@@ -955,6 +956,9 @@ func reachCurvaturePair(s, y, x *[2]float32, b *reachBox) {
 	}
 }
 
+// reachLearnCurvature: the direction keeps no model beside its memory.
+func reachLearnCurvature(s, y *[2]float32, diffs *reachDifferences) {}
+
 // reachSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1075,7 +1079,7 @@ func reachTinyStep(x, d *[2]float32, tol float32, diffs *reachDifferences) float
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func reachLineSearch(recv *Arm, x *[2]float32, fx float32, g, d *[2]float32, slope, first float32, floor *reachStepFloor, budget int, xt, gt *[2]float32, diffs *reachDifferences) reachLineResult {
 	if !reachFinite(slope) {
-		slope = reachShortenAlong(g, d, slope, floor) // the call only where it acts: reachShortenAlong is not inlined
+		slope = reachShortenAlong(g, d, slope) // the call only where it acts: reachShortenAlong is not inlined
 	}
 	low := reachLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high reachLinePoint                                        // the other end of the bracket, once bracketed
@@ -1159,30 +1163,16 @@ type reachSearchEnd uint8
 // reachShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (reachShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (reachShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (reachStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func reachShortenAlong(g, d *[2]float32, slope float32, floor *reachStepFloor) float32 {
+func reachShortenAlong(g, d *[2]float32, slope float32) float32 {
 	if reachFinite(slope) || !reachFiniteVec(d) {
 		return slope
 	}
-	before := reachMaxAbs(d)
 	reachShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / reachMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return reachDot(g, d)
-}
-
-// reachMaxAbs returns the largest |x_i|, the infinity norm.
-func reachMaxAbs(x *[2]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := reachAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // reachShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1197,6 +1187,17 @@ func reachShrinkDirection(d, g *[2]float32) {
 			reachScaleBy(d, 1/m)
 		}
 	}
+}
+
+// reachMaxAbs returns the largest |x_i|, the infinity norm.
+func reachMaxAbs(x *[2]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := reachAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // reachScaleBy sets x = c·x.

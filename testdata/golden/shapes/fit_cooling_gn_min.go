@@ -467,6 +467,7 @@ func (r *fitCoolingGNDescent) judge() {
 		}
 		fitCoolingGNCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		fitCoolingGNLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(FitCoolingGNOutOfIterations)
@@ -596,20 +597,11 @@ type fitCoolingGNResidualModel struct {
 	wide    bool          // whether difference Jacobians take twice their intervals (fitCoolingGNSettle)
 	noise   float64       // the rounding noise of f at the current point (fitCoolingGNDerivative)
 	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingGNCalibrate)
-	// levenberg-marquardt's structured model (structuredModel): the
-	// point of the latest gradient with its value and gradient; the secant
-	// estimate S of Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out, and
-	// whether the step solves with JᵀJ + S (augmented) or JᵀJ; the point S
-	// was last brought up to date at, with its value and gradient; and
-	// sᵀJᵀJs of the step accepted from there (dampedSearch).
-	point, pointGradient [3]float64
-	pointValue           float64
-	second               [3][3]float64
-	augmented            bool
-	last, lastGradient   [3]float64
-	lastValue            float64
-	hasLast              bool
-	stepNormal           float64
+	// levenberg-marquardt's structured model: the secant estimate S of
+	// Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out (secantUpdate), and
+	// whether the step solves with JᵀJ + S or JᵀJ (chooseModel).
+	second    [3][3]float64
+	augmented bool
 }
 
 // residualsAt makes the kept residuals those at x, taking them again
@@ -759,7 +751,6 @@ func fitCoolingGNDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fit
 	}
 	m.noise = 4*fitCoolingGNUnitRoundoff*m.noise + fitCoolingGNNoiseLevel(x, fx, g)
 	fitCoolingGNJacobianError(x, &jac, &m.r, &m.err, diffs)
-	m.point, m.pointValue, m.pointGradient = *x, fx, *g // for levenberg-marquardt's model (structuredModel)
 	return calls
 }
 
@@ -1052,6 +1043,9 @@ func fitCoolingGNStepWithin(s, x *[3]float64, tol float64, diffs *fitCoolingGNDi
 // fitCoolingGNCurvaturePair: without bounds the pair is used as it is.
 func fitCoolingGNCurvaturePair(s, y, x *[3]float64, b *fitCoolingGNBox) {}
 
+// fitCoolingGNLearnCurvature: the direction keeps no model beside its memory.
+func fitCoolingGNLearnCurvature(s, y *[3]float64, diffs *fitCoolingGNDifferences) {}
+
 // fitCoolingGNSearchDirection is the direction's own.
 func fitCoolingGNSearchDirection(dir *fitCoolingGNDirection, x, g, d *[3]float64, diffs *fitCoolingGNDifferences) {
 	fitCoolingGNSolveDirection(dir, g, d, diffs)
@@ -1199,7 +1193,7 @@ func fitCoolingGNTinyStep(x, d *[3]float64, tol float64, diffs *fitCoolingGNDiff
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func fitCoolingGNLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first float64, floor *fitCoolingGNStepFloor, budget int, xt, gt *[3]float64, diffs *fitCoolingGNDifferences) fitCoolingGNLineResult {
 	if !fitCoolingGNFinite(slope) {
-		slope = fitCoolingGNShortenAlong(g, d, slope, floor) // the call only where it acts: fitCoolingGNShortenAlong is not inlined
+		slope = fitCoolingGNShortenAlong(g, d, slope) // the call only where it acts: fitCoolingGNShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -1238,30 +1232,16 @@ type fitCoolingGNSearchEnd uint8
 // fitCoolingGNShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (fitCoolingGNShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (fitCoolingGNShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (fitCoolingGNStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func fitCoolingGNShortenAlong(g, d *[3]float64, slope float64, floor *fitCoolingGNStepFloor) float64 {
+func fitCoolingGNShortenAlong(g, d *[3]float64, slope float64) float64 {
 	if fitCoolingGNFinite(slope) || !fitCoolingGNFiniteVec(d) {
 		return slope
 	}
-	before := fitCoolingGNMaxAbs(d)
 	fitCoolingGNShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / fitCoolingGNMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return fitCoolingGNDot(g, d)
-}
-
-// fitCoolingGNMaxAbs returns the largest |x_i|, the infinity norm.
-func fitCoolingGNMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := fitCoolingGNAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // fitCoolingGNShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1276,6 +1256,17 @@ func fitCoolingGNShrinkDirection(d, g *[3]float64) {
 			fitCoolingGNScaleBy(d, 1/m)
 		}
 	}
+}
+
+// fitCoolingGNMaxAbs returns the largest |x_i|, the infinity norm.
+func fitCoolingGNMaxAbs(x *[3]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := fitCoolingGNAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // fitCoolingGNScaleBy sets x = c·x.

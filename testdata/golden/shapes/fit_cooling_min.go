@@ -465,6 +465,7 @@ func (r *fitCoolingDescent) judge() {
 		}
 		fitCoolingCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		fitCoolingLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(FitCoolingOutOfIterations)
@@ -540,7 +541,7 @@ func (r *fitCoolingDescent) search() {
 		r.out.evaluations += fitCoolingDerivative(&xt, found.value, &gt, &r.diffs)
 	}
 	r.out.iterations++
-	fitCoolingDifference(&r.s, &xt, &r.x)
+	fitCoolingGradientChange(&r.s, &xt, &r.x)
 	fitCoolingGradientChange(&r.y, &gt, &r.g)
 	if found.value > r.fx && found.value > r.start {
 		r.rises++
@@ -594,20 +595,11 @@ type fitCoolingResidualModel struct {
 	wide    bool          // whether difference Jacobians take twice their intervals (fitCoolingSettle)
 	noise   float64       // the rounding noise of f at the current point (fitCoolingDerivative)
 	typical [3]float64    // each unknown's typical size: |x₀ᵢ|, or 1 where x₀ᵢ = 0 (fitCoolingCalibrate)
-	// levenberg-marquardt's structured model (fitCoolingStructuredModel): the
-	// point of the latest gradient with its value and gradient; the secant
-	// estimate S of Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out, and
-	// whether the step solves with JᵀJ + S (augmented) or JᵀJ; the point S
-	// was last brought up to date at, with its value and gradient; and
-	// sᵀJᵀJs of the step accepted from there (fitCoolingLineSearch).
-	point, pointGradient [3]float64
-	pointValue           float64
-	second               [3][3]float64
-	augmented            bool
-	last, lastGradient   [3]float64
-	lastValue            float64
-	hasLast              bool
-	stepNormal           float64
+	// levenberg-marquardt's structured model: the secant estimate S of
+	// Σrᵢ∇²rᵢ, the part of the Hessian JᵀJ leaves out (fitCoolingLearnCurvature), and
+	// whether the step solves with JᵀJ + S or JᵀJ (fitCoolingChooseModel).
+	second    [3][3]float64
+	augmented bool
 }
 
 // residualsAt makes the kept residuals those at x, taking them again
@@ -757,7 +749,6 @@ func fitCoolingDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCo
 	}
 	m.noise = 4*fitCoolingUnitRoundoff*m.noise + fitCoolingNoiseLevel(x, fx, g)
 	fitCoolingJacobianError(x, &jac, &m.r, &m.err, diffs)
-	m.point, m.pointValue, m.pointGradient = *x, fx, *g // for levenberg-marquardt's model (fitCoolingStructuredModel)
 	return calls
 }
 
@@ -921,6 +912,87 @@ func fitCoolingStepScale(xj float64, j int, diffs *fitCoolingDifferences) float6
 // fitCoolingCurvaturePair: without bounds the pair is used as it is.
 func fitCoolingCurvaturePair(s, y, x *[3]float64, b *fitCoolingBox) {}
 
+// fitCoolingLearnCurvature lets levenberg-marquardt's model learn from the step s and
+// the gradient change y, after the gradient and JᵀJ at the new point. The
+// Hessian of f = ½‖r‖² is JᵀJ + Σrᵢ∇²rᵢ; Gauss–Newton keeps JᵀJ only,
+// which is poor where the residuals stay large (Brown–Dennis) and makes
+// the damped step converge linearly there. A structured secant method
+// keeps an estimate S of the second term instead, so that the augmented
+// model JᵀJ + S satisfies the secant equation (JᵀJ + S₊)s = y:
+//
+//	y♯ = y − JᵀJ·s,  w = y♯ − S·s,
+//	S₊ = S + (w yᵀ + y wᵀ)/(yᵀs) − (wᵀs)·y yᵀ/(yᵀs)²,
+//
+// the symmetric rank-two update of Dennis, Gay and Welsch, with S first
+// scaled down by τ = min(1, |sᵀy♯|/|sᵀSs|) so that S shrinks with the
+// residuals. (They take y♯ = (J − J₋₁)ᵀr, which needs the previous
+// Jacobian kept; the two agree to first order.) A pair with yᵀs not safely
+// positive leaves S as it was (curvatureSafe). At the start S = 0; which
+// model the next step solves with, fitCoolingChooseModel decides.
+//
+// References:
+//   - J. E. Dennis, D. M. Gay and R. E. Welsch, An adaptive nonlinear
+//     least-squares algorithm, ACM TOMS 7(3):348–368, 1981 (the update,
+//     the sizing and the choice of model; from memory).
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §10.3.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §10.3 (methods for large-residual problems).
+func fitCoolingLearnCurvature(s, y *[3]float64, diffs *fitCoolingDifferences) {
+	m := &diffs.model
+	var ss, sharp [3]float64
+	for i := range m.second {
+		ss[i] = fitCoolingDot(&m.second[i], s)
+		sharp[i] = y[i] - fitCoolingDot(&m.normal[i], s) // y♯ = y − JᵀJ·s
+	}
+	if sss := fitCoolingDot(s, &ss); sss != 0 {
+		if tau := fitCoolingAbs(fitCoolingDot(s, &sharp) / sss); tau < 1 { // DGW's sizing
+			for i := range m.second {
+				for j := range m.second[i] {
+					m.second[i][j] *= tau
+				}
+				ss[i] *= tau
+			}
+		}
+	}
+	sy := fitCoolingDot(s, y)
+	if !fitCoolingCurvatureSafeWith(sy, s, y) {
+		return
+	}
+	var w [3]float64
+	fitCoolingGradientChange(&w, &sharp, &ss)
+	ws := fitCoolingDot(&w, s) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
+	for i := range m.second {
+		a, b := w[i]/sy, y[i]/sy
+		for j := 0; j <= i; j++ {
+			m.second[i][j] += a*y[j] + b*w[j] - ws*y[i]*y[j] // DGW's update
+			m.second[j][i] = m.second[i][j]                  // symmetric by construction, whatever the compiler fuses
+		}
+	}
+}
+
+// fitCoolingDot returns aᵀb.
+func fitCoolingDot(a, b *[3]float64) float64 {
+	var s float64
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// fitCoolingCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func fitCoolingCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
+	return sy > 0 && (sy/fitCoolingDot(s, s))*(sy/fitCoolingDot(y, y)) > fitCoolingUnitRoundoff
+}
+
+// fitCoolingGradientChange sets out = a − b.
+func fitCoolingGradientChange(out, a, b *[3]float64) {
+	for i := range a {
+		out[i] = a[i] - b[i]
+	}
+}
+
 // fitCoolingSearchDirection is the direction's own.
 func fitCoolingSearchDirection(dir *fitCoolingDirection, x, g, d *[3]float64, diffs *fitCoolingDifferences) {
 	fitCoolingSolveDirection(dir, g, d, diffs)
@@ -949,7 +1021,6 @@ func fitCoolingSearchDirection(dir *fitCoolingDirection, x, g, d *[3]float64, di
 //     Denmark, 2004 (from memory).
 func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs *fitCoolingDifferences) {
 	m := &diffs.model
-	fitCoolingStructuredModel(&m.point, m.pointValue, &m.pointGradient, diffs)
 	if m.damping == 0 {
 		m.damping, m.growth = 1e-3, 2 // Nielsen's τ = 10⁻³, ν = 2
 	}
@@ -964,117 +1035,17 @@ func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs 
 			weight[i] = 1
 		}
 	}
+	if !m.augmented {
+		fitCoolingShiftedSolve(&m.normal, &weight, m.damping, g, d)
+		return
+	}
 	model := m.normal
-	if m.augmented {
-		for i := range model {
-			for j := range model[i] {
-				model[i][j] += m.second[i][j]
-			}
+	for i := range model {
+		for j := range model[i] {
+			model[i][j] += m.second[i][j]
 		}
 	}
 	fitCoolingShiftedSolve(&model, &weight, m.damping, g, d)
-}
-
-// fitCoolingStructuredModel brings levenberg-marquardt's Hessian model up to date
-// with the latest gradient, taken at x with value fx and gradient g. The
-// Hessian of f = ½‖r‖² is JᵀJ + Σrᵢ∇²rᵢ; Gauss–Newton keeps JᵀJ only,
-// which is poor where the residuals stay large (Brown–Dennis) and makes
-// the damped step converge linearly there. A structured secant method
-// keeps an estimate S of the second term instead, from the step
-// s = x − x₋₁ and the gradient change y = g − g₋₁, so that the augmented
-// model JᵀJ + S satisfies the secant equation (JᵀJ + S₊)s = y:
-//
-//	y♯ = y − JᵀJ·s,  w = y♯ − S·s,
-//	S₊ = S + (w yᵀ + y wᵀ)/(yᵀs) − (wᵀs)·y yᵀ/(yᵀs)²,
-//
-// the symmetric rank-two update of Dennis, Gay and Welsch, with S first
-// scaled down by τ = min(1, |sᵀy♯|/|sᵀSs|) so that S shrinks with the
-// residuals. (They take y♯ = (J − J₋₁)ᵀr, which needs the previous
-// Jacobian kept; the two agree to first order.) A pair with yᵀs not safely
-// positive leaves S as it was (curvatureSafe). The next step solves with
-// the augmented model when it predicted the last step's decrease of f
-// better than JᵀJ did, as NL2SOL switches between its two models, so that
-// zero-residual fits keep Gauss–Newton's fast convergence and
-// large-residual ones gain a secant method's. At the same point nothing
-// changes; at the start S = 0 and the model is JᵀJ.
-//
-// References:
-//   - J. E. Dennis, D. M. Gay and R. E. Welsch, An adaptive nonlinear
-//     least-squares algorithm, ACM TOMS 7(3):348–368, 1981 (the update,
-//     the sizing and the choice of model; from memory).
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §10.3.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §10.3 (methods for large-residual problems).
-func fitCoolingStructuredModel(x *[3]float64, fx float64, g *[3]float64, diffs *fitCoolingDifferences) {
-	m := &diffs.model
-	if m.hasLast && m.last == *x {
-		return
-	}
-	if m.hasLast {
-		var step, change, ss, sharp [3]float64
-		fitCoolingDifference(&step, x, &m.last)
-		fitCoolingDifference(&change, g, &m.lastGradient)
-		fitCoolingCurvaturePair(&step, &change, x, &diffs.bounds)
-		for i := range m.second {
-			ss[i] = fitCoolingDot(&m.second[i], &step)
-			sharp[i] = change[i] - fitCoolingDot(&m.normal[i], &step) // y♯ = y − JᵀJ·s
-		}
-		sss := fitCoolingDot(&step, &ss)
-		// Which model predicted f's fall along s better: JᵀJ, or JᵀJ + S?
-		actual := m.lastValue - fx
-		normalModel := -fitCoolingDot(&m.lastGradient, &step) - m.stepNormal/2
-		m.augmented = fitCoolingAbs(normalModel-sss/2-actual) < fitCoolingAbs(normalModel-actual)
-		if fitCoolingAbs(actual) <= m.noise && fitCoolingAbs(normalModel) <= m.noise {
-			m.augmented = false // f's change is rounding noise and tells the models apart no more: Gauss–Newton's
-		}
-		if sss != 0 {
-			tau := fitCoolingAbs(fitCoolingDot(&step, &sharp) / sss) // DGW's sizing
-			if tau < 1 {
-				for i := range m.second {
-					for j := range m.second[i] {
-						m.second[i][j] *= tau
-					}
-					ss[i] *= tau
-				}
-			}
-		}
-		if sy := fitCoolingDot(&step, &change); fitCoolingCurvatureSafeWith(sy, &step, &change) {
-			var w [3]float64
-			fitCoolingDifference(&w, &sharp, &ss)
-			ws := fitCoolingDot(&w, &step) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
-			for i := range m.second {
-				a, b := w[i]/sy, change[i]/sy
-				for j := 0; j <= i; j++ {
-					m.second[i][j] += a*change[j] + b*w[j] - ws*change[i]*change[j] // DGW's update
-					m.second[j][i] = m.second[i][j]                                 // symmetric by construction, whatever the compiler fuses
-				}
-			}
-		}
-	}
-	m.last, m.lastGradient, m.lastValue, m.hasLast = *x, *g, fx, true
-}
-
-// fitCoolingDifference sets out = a − b.
-func fitCoolingDifference(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
-	}
-}
-
-// fitCoolingDot returns aᵀb.
-func fitCoolingDot(a, b *[3]float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// fitCoolingCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func fitCoolingCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/fitCoolingDot(s, s))*(sy/fitCoolingDot(y, y)) > fitCoolingUnitRoundoff
 }
 
 // fitCoolingShiftedSolve sets d to the solution of (a + λ·diag(w))·d = −g by
@@ -1232,7 +1203,11 @@ func fitCoolingLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, fi
 		}
 		fitCoolingTrialPoint(xt, x, 1, d, &diffs.bounds)
 		ft := fitCoolingValue(xt, gt, diffs)
-		predicted, normalTerm := fitCoolingModelDecrease(x, xt, g, m)
+		linear, normalTerm, secondTerm := fitCoolingModelTerms(x, xt, g, m)
+		predicted := linear - normalTerm/2
+		if m.augmented {
+			predicted = linear - (normalTerm+secondTerm)/2
+		}
 		if fitCoolingFinite(ft) && predicted > 0 && (fx-ft >= fitCoolingStepDecrease*predicted || predicted <= noise && ft <= fx+noise) { // Moré 1978: ρ ≥ c1
 			rho := float64(1) // a step below f's resolution: the model is all there is to judge it by
 			if predicted > noise {
@@ -1241,7 +1216,7 @@ func fitCoolingLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, fi
 			cube := 2*rho - 1
 			m.damping *= fitCoolingLarger(1.0/3, 1-cube*cube*cube) // Nielsen: λ ← λ·max(1/3, 1 − (2ρ − 1)³)
 			m.growth = 2
-			m.stepNormal = normalTerm
+			fitCoolingChooseModel(m, fx-ft, linear, normalTerm, secondTerm, noise)
 			return fitCoolingLineResult{step: 1, value: ft, calls: trial + 1, end: fitCoolingSearchAccepted}
 		}
 		m.damping *= m.growth // Nielsen: λ ← λ·ν, ν ← 2ν
@@ -1294,27 +1269,33 @@ func fitCoolingMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	}
 }
 
-// fitCoolingModelDecrease is the decrease −gᵀs − ½sᵀBs that the model
+// fitCoolingModelTerms are the terms of the decrease −gᵀs − ½sᵀBs that the model
 // f(x) + gᵀs + ½sᵀBs predicts for the step s = xt − x, B the Gauss–Newton
 // matrix JᵀJ or the augmented JᵀJ + S (Nocedal & Wright 2006, eq. 10.19
-// with the model of eq. 10.4; fitCoolingStructuredModel); it also returns sᵀJᵀJs,
-// which fitCoolingStructuredModel judges the models by.
-func fitCoolingModelDecrease(x, xt, g *[3]float64, m *fitCoolingResidualModel) (predicted, normalTerm float64) {
+// with the model of eq. 10.4): −gᵀs, sᵀJᵀJs and sᵀSs.
+func fitCoolingModelTerms(x, xt, g *[3]float64, m *fitCoolingResidualModel) (linear, normalTerm, secondTerm float64) {
 	var s [3]float64
-	fitCoolingDifference(&s, xt, x)
-	var quadratic float64
+	fitCoolingGradientChange(&s, xt, x)
 	for i := range s {
 		normalTerm += s[i] * fitCoolingDot(&m.normal[i], &s)
-		if m.augmented {
-			quadratic += s[i] * fitCoolingDot(&m.second[i], &s)
-		}
+		secondTerm += s[i] * fitCoolingDot(&m.second[i], &s)
 	}
-	quadratic += normalTerm
-	return -fitCoolingDot(g, &s) - quadratic/2, normalTerm
+	return -fitCoolingDot(g, &s), normalTerm, secondTerm
 }
 
-// fitCoolingGradientChange: a direction without memory never reads y.
-func fitCoolingGradientChange(y, next, now *[3]float64) {}
+// fitCoolingChooseModel decides, when a step is accepted, which model the next step
+// solves with: JᵀJ + S when it predicted the decrease f just made (fall)
+// better than JᵀJ did, as NL2SOL switches between its two models (Dennis,
+// Gay & Welsch 1981), so that zero-residual fits keep Gauss–Newton's fast
+// convergence and large-residual ones gain a secant method's. linear is
+// −gᵀs and normalTerm, secondTerm are sᵀJᵀJs and sᵀSs. Where f's change
+// and the prediction are within f's rounding noise, they tell the models
+// apart no more, and the step is Gauss–Newton's.
+func fitCoolingChooseModel(m *fitCoolingResidualModel, fall, linear, normalTerm, secondTerm, noise float64) {
+	normalModel := linear - normalTerm/2
+	m.augmented = fitCoolingAbs(normalModel-secondTerm/2-fall) < fitCoolingAbs(normalModel-fall) &&
+		!(fitCoolingAbs(fall) <= noise && fitCoolingAbs(normalModel) <= noise)
+}
 
 // fitCoolingUnlimited is a tick budget that never pauses a run.
 const fitCoolingUnlimited = int(^uint(0) >> 1)

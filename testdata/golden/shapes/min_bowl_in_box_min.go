@@ -453,6 +453,7 @@ func (r *minBowlInBoxDescent) judge() {
 		}
 		minBowlInBoxCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minBowlInBoxLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinBowlInBoxOutOfIterations)
@@ -1134,6 +1135,9 @@ func minBowlInBoxCurvaturePair(s, y, x *[3]float32, b *minBowlInBoxBox) {
 	}
 }
 
+// minBowlInBoxLearnCurvature: the direction keeps no model beside its memory.
+func minBowlInBoxLearnCurvature(s, y *[3]float32, diffs *minBowlInBoxDifferences) {}
+
 // minBowlInBoxSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1233,7 +1237,7 @@ func minBowlInBoxTinyStep(x, d *[3]float32, tol float32, diffs *minBowlInBoxDiff
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minBowlInBoxLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first float32, floor *minBowlInBoxStepFloor, budget int, xt, gt *[3]float32, diffs *minBowlInBoxDifferences) minBowlInBoxLineResult {
 	if !minBowlInBoxFinite(slope) {
-		slope = minBowlInBoxShortenAlong(g, d, slope, floor) // the call only where it acts: minBowlInBoxShortenAlong is not inlined
+		slope = minBowlInBoxShortenAlong(g, d, slope) // the call only where it acts: minBowlInBoxShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float32
@@ -1272,30 +1276,16 @@ type minBowlInBoxSearchEnd uint8
 // minBowlInBoxShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minBowlInBoxShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minBowlInBoxShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minBowlInBoxStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minBowlInBoxShortenAlong(g, d *[3]float32, slope float32, floor *minBowlInBoxStepFloor) float32 {
+func minBowlInBoxShortenAlong(g, d *[3]float32, slope float32) float32 {
 	if minBowlInBoxFinite(slope) || !minBowlInBoxFiniteVec(d) {
 		return slope
 	}
-	before := minBowlInBoxMaxAbs(d)
 	minBowlInBoxShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minBowlInBoxMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minBowlInBoxDot(g, d)
-}
-
-// minBowlInBoxMaxAbs returns the largest |x_i|, the infinity norm.
-func minBowlInBoxMaxAbs(x *[3]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := minBowlInBoxAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minBowlInBoxShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1310,6 +1300,17 @@ func minBowlInBoxShrinkDirection(d, g *[3]float32) {
 			minBowlInBoxScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minBowlInBoxMaxAbs returns the largest |x_i|, the infinity norm.
+func minBowlInBoxMaxAbs(x *[3]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := minBowlInBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minBowlInBoxScaleBy sets x = c·x.

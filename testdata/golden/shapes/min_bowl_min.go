@@ -444,6 +444,7 @@ func (r *minBowlDescent) judge() {
 		}
 		minBowlCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minBowlLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinBowlOutOfIterations)
@@ -1054,6 +1055,9 @@ func minBowlStepScale(xi float32, i int, diffs *minBowlDifferences) float32 {
 // minBowlCurvaturePair: without bounds the pair is used as it is.
 func minBowlCurvaturePair(s, y, x *[3]float32, b *minBowlBox) {}
 
+// minBowlLearnCurvature: the direction keeps no model beside its memory.
+func minBowlLearnCurvature(s, y *[3]float32, diffs *minBowlDifferences) {}
+
 // minBowlSearchDirection is the direction's own.
 func minBowlSearchDirection(dir *minBowlDirection, x, g, d *[3]float32, diffs *minBowlDifferences) {
 	minBowlSolveDirection(dir, g, d, diffs)
@@ -1125,7 +1129,7 @@ func minBowlTinyStep(x, d *[3]float32, tol float32, diffs *minBowlDifferences) f
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first float32, floor *minBowlStepFloor, budget int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
 	if !minBowlFinite(slope) {
-		slope = minBowlShortenAlong(g, d, slope, floor) // the call only where it acts: minBowlShortenAlong is not inlined
+		slope = minBowlShortenAlong(g, d, slope) // the call only where it acts: minBowlShortenAlong is not inlined
 	}
 	low := minBowlLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
@@ -1209,30 +1213,16 @@ type minBowlSearchEnd uint8
 // minBowlShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minBowlShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minBowlShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minBowlStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minBowlShortenAlong(g, d *[3]float32, slope float32, floor *minBowlStepFloor) float32 {
+func minBowlShortenAlong(g, d *[3]float32, slope float32) float32 {
 	if minBowlFinite(slope) || !minBowlFiniteVec(d) {
 		return slope
 	}
-	before := minBowlMaxAbs(d)
 	minBowlShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minBowlMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minBowlDot(g, d)
-}
-
-// minBowlMaxAbs returns the largest |x_i|, the infinity norm.
-func minBowlMaxAbs(x *[3]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := minBowlAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minBowlShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1247,6 +1237,17 @@ func minBowlShrinkDirection(d, g *[3]float32) {
 			minBowlScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minBowlMaxAbs returns the largest |x_i|, the infinity norm.
+func minBowlMaxAbs(x *[3]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := minBowlAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minBowlScaleBy sets x = c·x.

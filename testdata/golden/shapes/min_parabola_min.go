@@ -443,6 +443,7 @@ func (r *minParabolaDescent) judge() {
 		}
 		minParabolaCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minParabolaLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinParabolaOutOfIterations)
@@ -1086,6 +1087,9 @@ func minParabolaStepScale(xi float64, i int, diffs *minParabolaDifferences) floa
 // minParabolaCurvaturePair: without bounds the pair is used as it is.
 func minParabolaCurvaturePair(s, y, x *[1]float64, b *minParabolaBox) {}
 
+// minParabolaLearnCurvature: the direction keeps no model beside its memory.
+func minParabolaLearnCurvature(s, y *[1]float64, diffs *minParabolaDifferences) {}
+
 // minParabolaSearchDirection is the direction's own.
 func minParabolaSearchDirection(dir *minParabolaDirection, x, g, d *[1]float64, diffs *minParabolaDifferences) {
 	minParabolaSolveDirection(dir, g, d, diffs)
@@ -1157,7 +1161,7 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64, diffs *minParabolaDiffer
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first float64, floor *minParabolaStepFloor, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
 	if !minParabolaFinite(slope) {
-		slope = minParabolaShortenAlong(g, d, slope, floor) // the call only where it acts: minParabolaShortenAlong is not inlined
+		slope = minParabolaShortenAlong(g, d, slope) // the call only where it acts: minParabolaShortenAlong is not inlined
 	}
 	low := minParabolaLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minParabolaLinePoint                                        // the other end of the bracket, once bracketed
@@ -1241,30 +1245,16 @@ type minParabolaSearchEnd uint8
 // minParabolaShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minParabolaShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minParabolaShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minParabolaStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minParabolaShortenAlong(g, d *[1]float64, slope float64, floor *minParabolaStepFloor) float64 {
+func minParabolaShortenAlong(g, d *[1]float64, slope float64) float64 {
 	if minParabolaFinite(slope) || !minParabolaFiniteVec(d) {
 		return slope
 	}
-	before := minParabolaMaxAbs(d)
 	minParabolaShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minParabolaMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minParabolaDot(g, d)
-}
-
-// minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
-func minParabolaMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := minParabolaAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minParabolaShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1279,6 +1269,17 @@ func minParabolaShrinkDirection(d, g *[1]float64) {
 			minParabolaScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
+func minParabolaMaxAbs(x *[1]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minParabolaAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minParabolaScaleBy sets x = c·x.

@@ -442,6 +442,7 @@ func (r *minPlateDecreaseDescent) judge() {
 		}
 		minPlateDecreaseCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minPlateDecreaseLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinPlateDecreaseOutOfIterations)
@@ -1052,6 +1053,9 @@ func minPlateDecreaseStepScale(xi float32, i int, diffs *minPlateDecreaseDiffere
 // minPlateDecreaseCurvaturePair: without bounds the pair is used as it is.
 func minPlateDecreaseCurvaturePair(s, y, x *[2]float32, b *minPlateDecreaseBox) {}
 
+// minPlateDecreaseLearnCurvature: the direction keeps no model beside its memory.
+func minPlateDecreaseLearnCurvature(s, y *[2]float32, diffs *minPlateDecreaseDifferences) {}
+
 // minPlateDecreaseSearchDirection is the direction's own.
 func minPlateDecreaseSearchDirection(dir *minPlateDecreaseDirection, x, g, d *[2]float32, diffs *minPlateDecreaseDifferences) {
 	minPlateDecreaseSolveDirection(dir, g, d, diffs)
@@ -1111,7 +1115,7 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDecr
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first float32, floor *minPlateDecreaseStepFloor, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
 	if !minPlateDecreaseFinite(slope) {
-		slope = minPlateDecreaseShortenAlong(g, d, slope, floor) // the call only where it acts: minPlateDecreaseShortenAlong is not inlined
+		slope = minPlateDecreaseShortenAlong(g, d, slope) // the call only where it acts: minPlateDecreaseShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float32
@@ -1150,30 +1154,16 @@ type minPlateDecreaseSearchEnd uint8
 // minPlateDecreaseShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minPlateDecreaseShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minPlateDecreaseShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minPlateDecreaseStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minPlateDecreaseShortenAlong(g, d *[2]float32, slope float32, floor *minPlateDecreaseStepFloor) float32 {
+func minPlateDecreaseShortenAlong(g, d *[2]float32, slope float32) float32 {
 	if minPlateDecreaseFinite(slope) || !minPlateDecreaseFiniteVec(d) {
 		return slope
 	}
-	before := minPlateDecreaseMaxAbs(d)
 	minPlateDecreaseShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minPlateDecreaseMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minPlateDecreaseDot(g, d)
-}
-
-// minPlateDecreaseMaxAbs returns the largest |x_i|, the infinity norm.
-func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := minPlateDecreaseAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minPlateDecreaseShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1188,6 +1178,17 @@ func minPlateDecreaseShrinkDirection(d, g *[2]float32) {
 			minPlateDecreaseScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minPlateDecreaseMaxAbs returns the largest |x_i|, the infinity norm.
+func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
+	var m float32
+	for i := range x {
+		if a := minPlateDecreaseAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minPlateDecreaseScaleBy sets x = c·x.

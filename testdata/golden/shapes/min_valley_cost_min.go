@@ -443,6 +443,7 @@ func (r *minValleyCostDescent) judge(recv *Valley) {
 		}
 		minValleyCostCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minValleyCostLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinValleyCostOutOfIterations)
@@ -861,6 +862,9 @@ func minValleyCostStepScale(xi float64, i int, diffs *minValleyCostDifferences) 
 // minValleyCostCurvaturePair: without bounds the pair is used as it is.
 func minValleyCostCurvaturePair(s, y, x *[2]float64, b *minValleyCostBox) {}
 
+// minValleyCostLearnCurvature: the direction keeps no model beside its memory.
+func minValleyCostLearnCurvature(s, y *[2]float64, diffs *minValleyCostDifferences) {}
+
 // minValleyCostSearchDirection is the direction's own.
 func minValleyCostSearchDirection(dir *minValleyCostDirection, x, g, d *[2]float64, diffs *minValleyCostDifferences) {
 	minValleyCostSolveDirection(dir, g, d, diffs)
@@ -911,7 +915,7 @@ func minValleyCostTinyStep(x, d *[2]float64, tol float64, diffs *minValleyCostDi
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minValleyCostLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *minValleyCostStepFloor, budget int, xt, gt *[2]float64, diffs *minValleyCostDifferences) minValleyCostLineResult {
 	if !minValleyCostFinite(slope) {
-		slope = minValleyCostShortenAlong(g, d, slope, floor) // the call only where it acts: minValleyCostShortenAlong is not inlined
+		slope = minValleyCostShortenAlong(g, d, slope) // the call only where it acts: minValleyCostShortenAlong is not inlined
 	}
 	t := first
 	var previous, fPrevious float64
@@ -950,30 +954,16 @@ type minValleyCostSearchEnd uint8
 // minValleyCostShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minValleyCostShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minValleyCostShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minValleyCostStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minValleyCostShortenAlong(g, d *[2]float64, slope float64, floor *minValleyCostStepFloor) float64 {
+func minValleyCostShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if minValleyCostFinite(slope) || !minValleyCostFiniteVec(d) {
 		return slope
 	}
-	before := minValleyCostMaxAbs(d)
 	minValleyCostShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minValleyCostMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minValleyCostDot(g, d)
-}
-
-// minValleyCostMaxAbs returns the largest |x_i|, the infinity norm.
-func minValleyCostMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := minValleyCostAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minValleyCostShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -988,6 +978,17 @@ func minValleyCostShrinkDirection(d, g *[2]float64) {
 			minValleyCostScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minValleyCostMaxAbs returns the largest |x_i|, the infinity norm.
+func minValleyCostMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minValleyCostAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minValleyCostScaleBy sets x = c·x.

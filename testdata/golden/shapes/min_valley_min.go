@@ -444,6 +444,7 @@ func (r *minValleyDescent) judge(recv *Valley) {
 		}
 		minValleyCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minValleyLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinValleyOutOfIterations)
@@ -940,6 +941,9 @@ func minValleyStepScale(xi float64, i int, diffs *minValleyDifferences) float64 
 // minValleyCurvaturePair: without bounds the pair is used as it is.
 func minValleyCurvaturePair(s, y, x *[2]float64, b *minValleyBox) {}
 
+// minValleyLearnCurvature: the direction keeps no model beside its memory.
+func minValleyLearnCurvature(s, y *[2]float64, diffs *minValleyDifferences) {}
+
 // minValleySearchDirection is the direction's own.
 func minValleySearchDirection(dir *minValleyDirection, x, g, d *[2]float64, diffs *minValleyDifferences) {
 	minValleySolveDirection(dir, g, d, diffs)
@@ -1011,7 +1015,7 @@ func minValleyTinyStep(x, d *[2]float64, tol float64, diffs *minValleyDifference
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *minValleyStepFloor, budget int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
 	if !minValleyFinite(slope) {
-		slope = minValleyShortenAlong(g, d, slope, floor) // the call only where it acts: minValleyShortenAlong is not inlined
+		slope = minValleyShortenAlong(g, d, slope) // the call only where it acts: minValleyShortenAlong is not inlined
 	}
 	low := minValleyLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
@@ -1095,30 +1099,16 @@ type minValleySearchEnd uint8
 // minValleyShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minValleyShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minValleyShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minValleyStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minValleyShortenAlong(g, d *[2]float64, slope float64, floor *minValleyStepFloor) float64 {
+func minValleyShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if minValleyFinite(slope) || !minValleyFiniteVec(d) {
 		return slope
 	}
-	before := minValleyMaxAbs(d)
 	minValleyShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minValleyMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minValleyDot(g, d)
-}
-
-// minValleyMaxAbs returns the largest |x_i|, the infinity norm.
-func minValleyMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := minValleyAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minValleyShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1133,6 +1123,17 @@ func minValleyShrinkDirection(d, g *[2]float64) {
 			minValleyScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minValleyMaxAbs returns the largest |x_i|, the infinity norm.
+func minValleyMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minValleyAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minValleyScaleBy sets x = c·x.

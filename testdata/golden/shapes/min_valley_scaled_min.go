@@ -497,6 +497,7 @@ func (r *minValleyScaledDescent) judge(recv *Valley) {
 		}
 		minValleyScaledCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minValleyScaledLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinValleyScaledOutOfIterations)
@@ -999,6 +1000,9 @@ func minValleyScaledCurvaturePair(s, y, x *[2]float64, b *minValleyScaledBox) {
 	}
 }
 
+// minValleyScaledLearnCurvature: the direction keeps no model beside its memory.
+func minValleyScaledLearnCurvature(s, y *[2]float64, diffs *minValleyScaledDifferences) {}
+
 // minValleyScaledSearchDirection is the two-metric projection direction of Bertsekas
 // (1982). The ε-active set A holds the variables within εᵢ of a bound that
 // the gradient pushes against,
@@ -1119,7 +1123,7 @@ func minValleyScaledTinyStep(x, d *[2]float64, tol float64, diffs *minValleyScal
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
 func minValleyScaledLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first float64, floor *minValleyScaledStepFloor, budget int, xt, gt *[2]float64, diffs *minValleyScaledDifferences) minValleyScaledLineResult {
 	if !minValleyScaledFinite(slope) {
-		slope = minValleyScaledShortenAlong(g, d, slope, floor) // the call only where it acts: minValleyScaledShortenAlong is not inlined
+		slope = minValleyScaledShortenAlong(g, d, slope) // the call only where it acts: minValleyScaledShortenAlong is not inlined
 	}
 	low := minValleyScaledLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyScaledLinePoint                                        // the other end of the bracket, once bracketed
@@ -1203,30 +1207,16 @@ type minValleyScaledSearchEnd uint8
 // minValleyScaledShortenAlong is where the searches that test sufficient decrease begin:
 // when ∇fᵀd, the slope, overflowed (gradients near 1e200), every trial
 // would fail the test against −Inf, so it shortens d in place
-// (minValleyScaledShrinkDirection), rescales the step limit floor to the shorter d when
-// it is already known, and returns the finite slope. The fixed step does not call it: its step is t·d by
+// (minValleyScaledShrinkDirection) and returns the finite slope. The searches ask for
+// their step limit (minValleyScaledStepFloor) only afterwards, so it is computed along
+// the shorter d. The fixed step does not call it: its step is t·d by
 // definition.
-func minValleyScaledShortenAlong(g, d *[2]float64, slope float64, floor *minValleyScaledStepFloor) float64 {
+func minValleyScaledShortenAlong(g, d *[2]float64, slope float64) float64 {
 	if minValleyScaledFinite(slope) || !minValleyScaledFiniteVec(d) {
 		return slope
 	}
-	before := minValleyScaledMaxAbs(d)
 	minValleyScaledShrinkDirection(d, g)
-	if floor.known {
-		floor.value *= before / minValleyScaledMaxAbs(d) // otherwise it is computed along the shorter d
-	}
 	return minValleyScaledDot(g, d)
-}
-
-// minValleyScaledMaxAbs returns the largest |x_i|, the infinity norm.
-func minValleyScaledMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := minValleyScaledAbs(x[i]); a > m || a != a {
-			m = a
-		}
-	}
-	return m
 }
 
 // minValleyScaledShrinkDirection scales d so that ∇fᵀd, with ∇f = g, is finite: to a
@@ -1241,6 +1231,17 @@ func minValleyScaledShrinkDirection(d, g *[2]float64) {
 			minValleyScaledScaleBy(d, 1/m)
 		}
 	}
+}
+
+// minValleyScaledMaxAbs returns the largest |x_i|, the infinity norm.
+func minValleyScaledMaxAbs(x *[2]float64) float64 {
+	var m float64
+	for i := range x {
+		if a := minValleyScaledAbs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
 }
 
 // minValleyScaledScaleBy sets x = c·x.

@@ -441,6 +441,7 @@ func (r *minPlateDescent) judge() {
 		}
 		minPlateCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
 		r.dir.update(&r.s, &r.y)
+		minPlateLearnCurvature(&r.s, &r.y, &r.diffs)
 	}
 	if r.out.iterations >= r.lim.Iterations {
 		r.finish(MinPlateOutOfIterations)
@@ -871,6 +872,9 @@ func minPlateStepScale(xi float32, i int, diffs *minPlateDifferences) float32 {
 
 // minPlateCurvaturePair: without bounds the pair is used as it is.
 func minPlateCurvaturePair(s, y, x *[2]float32, b *minPlateBox) {}
+
+// minPlateLearnCurvature: the direction keeps no model beside its memory.
+func minPlateLearnCurvature(s, y *[2]float32, diffs *minPlateDifferences) {}
 
 // minPlateSearchDirection is the direction's own.
 func minPlateSearchDirection(dir *minPlateDirection, x, g, d *[2]float32, diffs *minPlateDifferences) {
