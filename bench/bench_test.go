@@ -23,7 +23,6 @@ import (
 	"bytes"
 	"flag"
 	"fmt"
-	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -513,7 +512,6 @@ func BenchmarkSolve(b *testing.B) {
 				call := m + "(x0)"
 				if p.n == 1 {
 					x0 = start[0]
-					call = m + "(x0)"
 				}
 				fmt.Fprintf(&b, "\t{\n\t\tx0 := %s\n", x0)
 				// one counted run for the floor and the metrics
@@ -636,6 +634,5 @@ func handSteepest%[2]s(x [%[1]d]float64) ([%[1]d]float64, int) {
 }
 `, p.n, p.name, grad)
 	}
-	_ = math.Abs
 	return b.String()
 }

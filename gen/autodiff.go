@@ -328,6 +328,7 @@ type adFunc struct {
 	// Griewank & Walther 2008, ch. 7).
 	sparse  map[types.Object][]term
 	used    map[string]bool
+	once    map[string]bool // the locals the derivative code assigns once (temp, hold): never stale
 	body    *bytes.Buffer
 	result  string       // where a return's tangent goes ("" when nothing is returned)
 	value   bool         // a return keeps its value (helpers) or not (the objective)
@@ -339,7 +340,7 @@ type adFunc struct {
 
 func (d *differentiator) newFunc(decl *ast.FuncDecl) *adFunc {
 	f := &adFunc{d: d, decl: decl, active: map[types.Object]bool{}, tangent: map[types.Object]string{},
-		pointer: map[types.Object]bool{}, read: map[string]bool{}, assigned: map[types.Object]int{}, sparse: map[types.Object][]term{}, used: map[string]bool{}, body: &bytes.Buffer{}}
+		pointer: map[types.Object]bool{}, read: map[string]bool{}, assigned: map[types.Object]int{}, sparse: map[types.Object][]term{}, used: map[string]bool{}, once: map[string]bool{}, body: &bytes.Buffer{}}
 	ast.Inspect(decl, func(n ast.Node) bool {
 		if id, ok := n.(*ast.Ident); ok {
 			f.used[id.Name] = true
@@ -365,7 +366,7 @@ func (f *adFunc) temp(base string) string {
 	for i := 1; ; i++ {
 		name := base + strconv.Itoa(i)
 		if !f.used[name] {
-			f.used[name] = true
+			f.used[name], f.once[name] = true, true
 			return name
 		}
 	}
@@ -1194,20 +1195,33 @@ func (f *adFunc) defineSparse(obj types.Object, name string, n *lnode) bool {
 		f.body.Truncate(mark) // the coefficients collect wrote go again with the loop
 		return false
 	}
+	// The tangent is read later, after the names in its indices and
+	// coefficients may have been assigned again (b := 2; v := b*x[0];
+	// b = 3): each is held in a local of its own, as of now.
 	kept := make([]term, len(terms))
 	for j, t := range terms {
-		idx := t.seed
+		idx, coef := t.seed, t.coef
 		if _, err := strconv.Atoi(idx); err != nil {
-			iv := f.fresh("i" + strings.ToUpper(name[:1]) + name[1:])
-			f.line("%s := %s", iv, idx)
-			f.line("%s%s", unreadMarker, iv)
-			idx = iv
+			idx = f.hold("i"+strings.ToUpper(name[:1])+name[1:], idx)
 		}
-		kept[j] = term{coef: t.coef, seed: idx}
+		if !coef.konst && !f.once[coef.s] {
+			coef = ex{s: f.hold("k"+strings.ToUpper(name[:1])+name[1:], coef.s), atomic: true, free: true}
+		}
+		kept[j] = term{coef: coef, seed: idx}
 	}
 	f.sparse[obj] = kept
 	f.line("%s := %s", name, n.val.s)
 	return true
+}
+
+// hold assigns value to a fresh local named after base, read or not,
+// and returns its name.
+func (f *adFunc) hold(base, value string) string {
+	v := f.fresh(base)
+	f.once[v] = true
+	f.line("%s := %s", v, value)
+	f.line("%s%s", unreadMarker, v)
+	return v
 }
 
 // namedResult declares a named float result as the local it is, with
@@ -1439,7 +1453,7 @@ func (f *adFunc) tangentInto(dst string, ptr bool, n *lnode) {
 			switch t.coef.s {
 			case "1":
 				sum = append(sum, t.row+"["+k+"]")
-			case "-1", "(-1)":
+			case minusOne.s:
 				sum = append(sum, "-"+t.row+"["+k+"]")
 			default:
 				sum = append(sum, t.coef.paren()+"*"+t.row+"["+k+"]")
@@ -1475,6 +1489,12 @@ func (f *adFunc) isPointerRow(row string) bool {
 func (f *adFunc) collect(n *lnode) []term {
 	var out []term
 	index := map[string]int{}
+	type sparseRead struct {
+		terms []term
+		adj   ex
+	}
+	var sparseAdj []sparseRead // each sparse variable read, with its adjoint summed over its reads
+	sparseIndex := map[*term]int{}
 	var walk func(n *lnode, adj ex)
 	walk = func(n *lnode, adj ex) {
 		if !n.active {
@@ -1485,18 +1505,15 @@ func (f *adFunc) collect(n *lnode) []term {
 				adj = ex{s: f.d.elem + "(" + adj.s + ")", atomic: true, konst: adj.konst}
 			}
 			if n.sparse != nil {
-				if len(n.sparse) > 1 && !adj.free && !adj.konst {
-					a := f.temp("a")
-					f.line("%s := %s", a, adj.s)
-					adj = ex{s: a, atomic: true, free: true}
+				// Add up the variable's adjoint over all its reads first,
+				// and multiply by its coefficients once, below.
+				key := &n.sparse[0]
+				if i, ok := sparseIndex[key]; ok {
+					sparseAdj[i].adj = add(sparseAdj[i].adj, adj)
+					return
 				}
-				for _, t := range n.sparse {
-					f.read[t.seed] = true
-					if t.coef.free && !t.coef.konst {
-						f.read[t.coef.s] = true
-					}
-					walk(&lnode{active: true, seed: t.seed}, mul(adj, t.coef))
-				}
+				sparseIndex[key] = len(sparseAdj)
+				sparseAdj = append(sparseAdj, sparseRead{n.sparse, adj})
 				return
 			}
 			key := "row " + n.row
@@ -1537,13 +1554,28 @@ func (f *adFunc) collect(n *lnode) []term {
 		}
 	}
 	walk(n, one)
+	for _, r := range sparseAdj {
+		adj := r.adj
+		if len(r.terms) > 1 && !adj.free && !adj.konst {
+			a := f.temp("a")
+			f.line("%s := %s", a, adj.s)
+			adj = ex{s: a, atomic: true, free: true}
+		}
+		for _, t := range r.terms {
+			f.read[t.seed] = true
+			if t.coef.free && !t.coef.konst {
+				f.read[t.coef.s] = true
+			}
+			walk(&lnode{active: true, seed: t.seed}, mul(adj, t.coef))
+		}
+	}
 	for i := range out {
 		if c := out[i].coef; !c.free && !c.konst {
 			t := f.temp("c")
 			f.line("%s := %s", t, c.s)
 			out[i].coef = ex{s: t, atomic: true, free: true}
 		} else if c.konst && !c.isOne() {
-			out[i].coef = ex{s: "(" + c.s + ")", atomic: true, konst: true}
+			out[i].coef = ex{s: c.paren(), atomic: true, konst: true}
 		}
 	}
 	return out

@@ -74,6 +74,17 @@ func Pointer64(x *[2]float64) float64 {
 	return a*a + 100*b*b
 }
 
+// Rebound is (v − 2)² + (x₁ + 1)², v = b·x₀ with b = 2, b assigned
+// again after v is formed from it: minimum at (1, −1). (The derived
+// gradient once read b's later value in v's tangent.)
+func Rebound(x *[2]float64) float64 {
+	b := 2.0
+	v := b * x[0]
+	b = 3.0
+	w := v - b + 1
+	return w*w + (x[1]+1)*(x[1]+1)
+}
+
 // Pointer32 is u² + 3w² + √(1 + u²) − 1, u = x₀ − 2, w = x₁ + 1: minimum
 // at (2, −1). The − 1 is taken in float64, before the conversion: in
 // float32, 1 + u² would round to 1 and hide u² near the minimum.
@@ -228,6 +239,14 @@ lower = 0.0
 upper = 10.0
 [minimizer.expect]
 x = 1.5
+
+[[minimizer]]
+name = "AutoRebound"
+objective = "Rebound"
+derivative = "automatic"
+start = [3.0, 2.0]
+[minimizer.expect]
+x = [1.0, -1.0]
 
 [[minimizer]]
 name = "AutoScalar32"

@@ -72,12 +72,15 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 		first = rules.LevenbergMarquardt
 	}
 	for d := first; d != nil; d = d.Fallback {
+		if d.FallbackFrom > 0 && dim >= d.FallbackFrom {
+			continue // a later direction is the better default at this size
+		}
 		var scratch Problems
 		sized := shape
 		sized.Dim = dim
 		checkStackSize(&Minimizer{Direction: d, Derivative: rules.Derivative.DefaultEntry(), Rule: d.DefaultRule, Test: rules.GradientTest.DefaultEntry()},
 			sized, &positions{keys: map[string]Pos{}, values: map[string]Pos{}}, &scratch)
-		if len(scratch) == 0 && !(d.FallbackFrom > 0 && dim >= d.FallbackFrom && d.Fallback != nil) {
+		if len(scratch) == 0 {
 			direction = d
 			break
 		}

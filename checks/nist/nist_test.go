@@ -282,7 +282,8 @@ func anyLog() bool {
 }
 
 // specFile renders models/nist.toml: per dataset one minimizer with the
-// analytic Jacobian and one with central differences, from Start 1,
+// analytic Jacobian, one with central differences and one with the
+// automatic Jacobian of the value-only model, from Start 1,
 // every other key at a residual objective's defaults.
 func specFile() []byte {
 	var b bytes.Buffer
@@ -598,7 +599,7 @@ func parseRuns(t *testing.T, out []byte) []*run {
 func table(runs []*run, byName map[string]*dataset, jac map[string]agreement) []byte {
 	var b bytes.Buffer
 	b.WriteString("# NIST StRD nonlinear regression: certified digits reached\n\n")
-	b.WriteString("Written by `go test ./nist -update` (checks module). Each dataset of testdata/ fitted by the generated levenberg-marquardt minimizer (a residual objective's defaults), from NIST's two starts, with the analytic Jacobian and with central differences. The digit columns are the log relative error −log₁₀(|estimate − certified|/|certified|) (McCullough 1998), the smallest over the parameters (and over their standard deviations), capped at 15. Required: parameters 6, RSS 6, standard deviations 3.\n\n")
+	b.WriteString("Written by `go test ./nist -update` (checks module). Each dataset of testdata/ fitted by the generated levenberg-marquardt minimizer (a residual objective's defaults), from NIST's two starts, with the analytic Jacobian, with central differences and with the automatic Jacobian (derived from the value-only models of models/values.go). The digit columns are the log relative error −log₁₀(|estimate − certified|/|certified|) (McCullough 1998), the smallest over the parameters (and over their standard deviations), capped at 15. Required: parameters 6, RSS 6, standard deviations 3.\n\n")
 	fmt.Fprintf(&b, "Recorded on %s.\n\n", results.Recorded)
 	b.WriteString("| dataset | difficulty | start | Jacobian | status | iterations | residual calls | digits of b | digits of RSS | digits of sd(b) |\n")
 	b.WriteString("|---|---|---|---|---|---:|---:|---:|---:|---:|\n")
@@ -611,7 +612,7 @@ func table(runs []*run, byName map[string]*dataset, jac map[string]agreement) []
 		}
 		fmt.Fprintf(&b, "| %s | %s | %d | %s | %s | %d | %d | %.1f | %s | %s |\n", r.dataset, d.difficulty, r.start, r.source, r.status, r.iterations, r.calls, r.paramLRE, rssDigits, sd)
 	}
-	b.WriteString("\nLanczos1: its certified RSS (1.43e-25) is reproduced only in extended precision (testdata/NIST-README.md). In float64 each residual, about 7.7e-14 at the solution, carries rounding of u·|y| ≈ 3e-16, a relative 4e-3, so its RSS is held to 2 digits; its standard deviations, which scale with √RSS, reach the 3 of every other dataset.\n\nEvery fit uses stop.gradient = 1e-20 (see gradientLimit in nist_test.go): at the default 1e-8 the sums of exponentials (Lanczos1–3) and MGH09 stop converged at 4.6–5.3 digits; at 1e-20 each run goes on until its gradient is as small as rounding lets it show.\n")
+	b.WriteString("\nLanczos1: its certified RSS (1.43e-25) is reproduced only in extended precision (testdata/NIST-README.md). In float64 each residual, about 7.7e-14 at the solution, carries rounding of u·|y| ≈ 3e-16, a relative 4e-3, so its RSS is held to 2 digits; its standard deviations, which scale with √RSS, reach the 3 of every other dataset.\n\nEvery fit uses stop.gradient = " + gradientLimit + " (see gradientLimit in nist_test.go): at the default 1e-8 the sums of exponentials (Lanczos1–3) and MGH09 stop converged at 4.6–5.3 digits; at " + gradientLimit + " each run goes on until its gradient is as small as rounding lets it show.\n")
 	same, pairs := 0, 0
 	for _, r := range runs {
 		if r.source != "automatic" {
@@ -626,7 +627,7 @@ func table(runs []*run, byName map[string]*dataset, jac map[string]agreement) []
 			}
 		}
 	}
-	fmt.Fprintf(&b, "\nThe automatic Jacobian meets the required digits in every fit, held to the same assertions as the analytic one; its iterations and calls equal the analytic Jacobian's in %d of %d fits. Where they differ, the two Jacobians, each correct to rounding, differ in their last bits (another order of operations), and with stop.gradient = 1e-20 the last iterations act on differences of that size.\n", same, pairs)
+	fmt.Fprintf(&b, "\nThe automatic Jacobian meets the required digits in every fit, held to the same assertions as the analytic one; its iterations and calls equal the analytic Jacobian's in %d of %d fits. Where they differ, the two Jacobians, each correct to rounding, differ in their last bits (another order of operations), and with stop.gradient = %s the last iterations act on differences of that size.\n", same, pairs, gradientLimit)
 	b.WriteString("\n## The Jacobian derived by derivative = \"automatic\"\n\nFor each dataset, the Jacobian thalweg derives from the value-only model (models/values.go) against the hand-derived one (models/models.go), at NIST's two starts and 10 pseudo-random points within ±10% of the certified values: the largest difference of a row relative to the row's size, ‖Jᵢ − J̃ᵢ‖∞/‖J̃ᵢ‖∞ (normwise; see jacobianDriver). Required: at most 1e-13.\n\n| dataset | points | largest relative difference |\n|---|---:|---:|\n")
 	for _, d := range datasets {
 		a := jac[d.name]
