@@ -166,7 +166,7 @@ func secantUpdate(s, y *vec, diffs *differences) {
 		a, b := w[i]/sy, y[i]/sy
 		for j := 0; j <= i; j++ {
 			m.second[i][j] += a*y[j] + b*w[j] - ws*y[i]*y[j] // DGW's update
-			m.second[j][i] = m.second[i][j]                   // symmetric by construction, whatever the compiler fuses
+			m.second[j][i] = m.second[i][j]                  // symmetric by construction, whatever the compiler fuses
 		}
 	}
 }
