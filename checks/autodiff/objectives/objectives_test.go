@@ -64,8 +64,8 @@ var instances = []instance{
 }
 
 const (
-	relTol  = 1e-13
-	nPoints = 10 // pseudo-random points near each start
+	relTol  = 1e-13 // the transcription against gonum's Func: equal to rounding (common practice)
+	nPoints = 10    // pseudo-random points near each start
 )
 
 // TestAgainstGonum checks each objective against gonum's Func at the
