@@ -60,10 +60,11 @@ var (
 	CG = Direction.register(&Entry{
 		Name:    "cg",
 		Summary: "nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted when successive gradients are far from orthogonal (Powell)",
-		Math:    "d = −g + βd₋₁, β = max(gᵀ(g − g₋₁)/‖g₋₁‖², 0); d = −g when |gᵀg₋₁| ≥ 0.1‖g‖² (N&W eq. 5.52); pair with strong-wolfe, c2 = 0.1",
+		Math:    "d = −g + βd₋₁, β = max(gᵀ(g − g₋₁)/‖g₋₁‖², 0); d = −g when |gᵀg₋₁| ≥ 0.1‖g‖² (N&W eq. 5.52); pair with strong-wolfe, c2 = 0.1. After a stall, preconditioned by diag(1/b), b learnt from every pair by bᵢ₊ = bᵢ − (bᵢsᵢ)²/sᵀBs + yᵢ²/yᵀs: g becomes z = g/b in d and β, β = max(zᵀ(g − g₋₁)/z₋₁ᵀg₋₁, 0)",
 		References: []string{
 			PolakRibiere,
 			NocedalWright + ", eqs. 5.44–5.45, §5.2",
+			GilbertLemarechal + " (the diagonal update)",
 		},
 		Picks:       Picks{"direction": "cgDirection", "solveDirection": "memoryDirection", "gradientChange": "difference", "learnCurvature": "learnNothing"},
 		DefaultRule: StrongWolfeRule,
@@ -71,7 +72,7 @@ var (
 		// 2006, §3.1, the paragraph after eq. 3.7).
 		Defaults: map[*Param]float64{Curvature: 0.1},
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
-			return 2*dim*elemBytes + 16, fmt.Sprintf("2 vectors of %d", dim)
+			return 3*dim*elemBytes + 16, fmt.Sprintf("3 vectors of %d", dim)
 		},
 		SmallerState:   `use direction "steepest"`,
 		Fallback:       Steepest,

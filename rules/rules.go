@@ -362,5 +362,6 @@ const (
 	GriewankWalther          = "A. Griewank and A. Walther, Evaluating Derivatives: Principles and Techniques of Algorithmic Differentiation, 2nd ed., SIAM, 2008"
 	BischofADIFOR            = "C. Bischof, A. Carle, G. Corliss, A. Griewank and P. Hovland, ADIFOR: generating derivative codes from Fortran programs, Scientific Programming 1(1):11–29, 1992"
 	MoreLM                   = "J. J. Moré, The Levenberg–Marquardt algorithm: implementation and theory, in Numerical Analysis, Lecture Notes in Mathematics 630, Springer, 1978, 105–116"
+	GilbertLemarechal        = "J. C. Gilbert and C. Lemaréchal, Some numerical experiments with variable-storage quasi-Newton algorithms, Math. Programming 45:407–435, 1989"
 	PolakRibiere             = "E. Polak and G. Ribière, Note sur la convergence de méthodes de directions conjuguées, Rev. Française Informat. Recherche Opérationnelle 3(16):35–43, 1969"
 )

@@ -69,6 +69,9 @@ func (s *bfgsDirection) update(step, change *vec) {
 
 // firstTrial is 1, the quasi-Newton step, which the line search should try
 // first (Nocedal & Wright 2006, §3.5).
+// stalled: nothing in reserve.
+func (s *bfgsDirection) stalled() bool { return false }
+
 func (s *bfgsDirection) firstTrial(t, slope, now elem) elem {
 	return 1
 }

@@ -8,6 +8,8 @@ package templates
 //	update(s, y *vec)               learn from the step s = x₊ − x and gradient change y = g₊ − g
 //	firstTrial(t, slope, now elem)  the first trial step of a line search, given the previous
 //	                                accepted step t, the previous slope gᵀd and the current one
+//	stalled() bool                  at a stall: switch to a reserve and report true (cg's
+//	                                preconditioner, once), or report false and let the run end
 type direction struct {
 	steepest steepestDirection
 	bfgs     bfgsDirection
@@ -58,6 +60,21 @@ func (s *direction) update(step, change *vec) {
 		s.gaussNewton.update(step, change)
 	default:
 		s.bfgs.update(step, change)
+	}
+}
+
+func (s *direction) stalled() bool {
+	switch directionKind {
+	case kindSteepest:
+		return s.steepest.stalled()
+	case kindLBFGS:
+		return s.lbfgs.stalled()
+	case kindCG:
+		return s.cg.stalled()
+	case kindGaussNewton, kindLevenbergMarquardt:
+		return s.gaussNewton.stalled()
+	default:
+		return s.bfgs.stalled()
 	}
 }
 

@@ -484,6 +484,120 @@ func TestCGResetGivesSteepestDescent(t *testing.T) {
 	}
 }
 
+// cg learns the diagonal b from every pair by the diagonal of the BFGS
+// update (Gilbert & Lemaréchal 1989): on a diagonal quadratic, a step
+// along one axis gives that axis's curvature exactly (bₖ = yₖ²/sᵀy = hₖ
+// with y = Hs) and leaves the others as they were, after the first pair
+// scaled every bᵢ to yᵀy/sᵀy. Until a stall, b does not change d.
+func TestCGLearnsTheDiagonalCurvature(t *testing.T) {
+	h := vec{1e6, 0.25} // ∇²f of f = ½Σhᵢxᵢ², scales far apart
+	var dir cgDirection
+	dir.reset()
+	for k := 0; k < dim; k++ {
+		var s, y vec
+		s[k] = 0.5 - 0.2*float64(k)
+		y[k] = h[k] * s[k]
+		dir.update(&s, &y)
+		if got := dir.curvature[k]; math.Abs(got-h[k]) > 1e-15*h[k] {
+			t.Errorf("after a step along axis %d, b = %v, want b[%d] = %g", k, dir.curvature, k, h[k])
+		}
+	}
+	if dir.curvature != h {
+		t.Errorf("after a step along each axis b = %v, want ∇²f's diagonal %v", dir.curvature, h)
+	}
+	g := vec{3, -4}
+	var d vec
+	dir.fresh = true
+	dir.compute(&g, &d)
+	if d != (vec{-3, 4}) {
+		t.Errorf("before a stall d = %v, want −g: the preconditioner stays off", d)
+	}
+}
+
+// At a stall cg switches the preconditioner on once, and only after a pair
+// taught b: the next direction is then −g/b, for a diagonal quadratic
+// with b its curvature the Newton step; it goes on conjugate in b's
+// metric, β = zᵀy/z₋₁ᵀg₋₁ (Nocedal & Wright 2006, §5.2). Asked again, it
+// has nothing left and reports false; reset switches it off.
+func TestCGSwitchesThePreconditionerOnAtAStall(t *testing.T) {
+	var dir cgDirection
+	dir.reset()
+	if dir.stalled() {
+		t.Fatal("stalled reported a reserve before any pair taught b")
+	}
+	h := vec{1e6, 0.25}
+	for k := 0; k < dim; k++ {
+		var s, y vec
+		s[k] = 1
+		y[k] = h[k]
+		dir.update(&s, &y)
+	}
+	if !dir.stalled() {
+		t.Fatal("stalled reported no reserve after b was learnt")
+	}
+	g0 := vec{2e6, -0.5} // at x = (2, −2) on f = ½Σhᵢxᵢ²
+	var d0 vec
+	dir.compute(&g0, &d0)
+	if want := (vec{-2, 2}); vectorGap(d0, want) > 1e-15 {
+		t.Errorf("first preconditioned d = %v, want −g/b = %v (the Newton step)", d0, want)
+	}
+	g1 := vec{1e3, 1e3}
+	var y, d1 vec
+	difference(&y, &g1, &g0)
+	dir.update(&d0, &y)
+	dir.compute(&g1, &d1)
+	z := vec{g1[0] / dir.curvature[0], g1[1] / dir.curvature[1]}
+	z0 := vec{g0[0] / h[0], g0[1] / h[1]}
+	if math.Abs(dot(&z, &g0)) >= 0.1*dot(&z, &g1) {
+		t.Fatalf("test data: Powell's test restarts here")
+	}
+	beta := dot(&z, &y) / dot(&z0, &g0)
+	want := vec{-z[0] + beta*d0[0], -z[1] + beta*d0[1]}
+	if vectorGap(d1, want) > 1e-15 {
+		t.Errorf("second preconditioned d = %v, want −z + βd₋₁ = %v", d1, want)
+	}
+	if dir.stalled() {
+		t.Error("stalled reported a reserve a second time")
+	}
+	dir.reset()
+	dir.compute(&g0, &d0)
+	if d0 != (vec{-2e6, 0.5}) {
+		t.Errorf("after reset d = %v, want −g: the preconditioner is off again", d0)
+	}
+}
+
+// The diagonal update keeps b positive and finite for any pair whose
+// curvature passes curvatureSafe, whatever its shape.
+func TestCGDiagonalStaysPositive(t *testing.T) {
+	var dir cgDirection
+	dir.reset()
+	state := uint64(7)
+	random := func() float64 {
+		state = state*6364136223846793005 + 1442695040888963407 // Knuth's MMIX LCG (common practice)
+		return float64(int64(state>>11))/float64(1<<52) - 1
+	}
+	for k := 0; k < 2000; k++ {
+		var s, y vec
+		for i := range s {
+			s[i] = random() * math.Pow(10, 8*random())
+			y[i] = random() * math.Pow(10, 8*random())
+		}
+		before := dir.curvature
+		dir.update(&s, &y)
+		for _, b := range dir.curvature {
+			if !(b > 0) || math.IsInf(b, 0) {
+				t.Fatalf("pair %d (s = %v, y = %v): b = %v from %v", k, s, y, dir.curvature, before)
+			}
+		}
+		if !curvatureSafe(&s, &y) && dir.curvature != before {
+			t.Fatalf("pair %d (s = %v, y = %v) fails curvatureSafe but changed b from %v to %v", k, s, y, before, dir.curvature)
+		}
+	}
+	if !dir.scaled {
+		t.Fatal("test data: no pair passed curvatureSafe")
+	}
+}
+
 // curvatureSafe accepts a pair only when sᵀy > 0 and (sᵀy)² > u·(sᵀs)(yᵀy)
 // (Nocedal & Wright 2006, condition 6.7; the relative threshold is Dennis
 // & Schnabel 1983, Algorithm A9.4.1, recalled from memory in direction.go).

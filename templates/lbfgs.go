@@ -83,6 +83,9 @@ func (s *lbfgsDirection) update(step, change *vec) {
 }
 
 // firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+// stalled: nothing in reserve.
+func (s *lbfgsDirection) stalled() bool { return false }
+
 func (s *lbfgsDirection) firstTrial(t, slope, now elem) elem {
 	return 1
 }

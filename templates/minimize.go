@@ -34,7 +34,10 @@ type outcome struct {
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -74,7 +77,7 @@ type descent struct {
 	rises     int         // consecutive accepted steps that raised f above f(x0)
 	confirmed bool        // whether g and e at x come from confirmGradient or settle
 	stalled   bool        // whether the run can make no more progress at x
-	retried   int         // the iteration whose stall was retried with recalibrated differences
+	retried   int         // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int         // what to check at x before judging it again
 }
 
@@ -225,8 +228,10 @@ func (r *descent) judge(recv *receiver) {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if derivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if derivativeCost == 0 && !r.dir.stalled() {
 			r.finish(statusStalled)
 			return
 		}
@@ -300,6 +305,8 @@ func (r *descent) search(recv *receiver) {
 		case found.end == searchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = verifyStall, true, stageJudge
 			return
+		case found.end == searchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == searchTiny:
 			end = statusStalled
 		}

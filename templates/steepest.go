@@ -23,6 +23,9 @@ func (s *steepestDirection) update(step, change *vec) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
+// stalled: nothing in reserve.
+func (s *steepestDirection) stalled() bool { return false }
+
 func (s *steepestDirection) firstTrial(t, slope, now elem) elem {
 	next := scaledTrial(t, slope, now)
 	if reach := elem(float64(t) * trialGrowth); next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

@@ -236,7 +236,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -291,7 +294,7 @@ type poly2SteepestBoxDescent struct {
 	rises     int                         // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                        // whether g and e at x come from poly2SteepestBoxConfirmGradient or settle
 	stalled   bool                        // whether the run can make no more progress at x
-	retried   int                         // the iteration whose stall was retried with recalibrated differences
+	retried   int                         // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                         // what to check at x before judging it again
 }
 
@@ -432,8 +435,10 @@ func (r *poly2SteepestBoxDescent) judge(recv *Poly) {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if poly2SteepestBoxDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if poly2SteepestBoxDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(Poly2SteepestBoxStalled)
 			return
 		}
@@ -507,6 +512,8 @@ func (r *poly2SteepestBoxDescent) search(recv *Poly) {
 		case found.end == poly2SteepestBoxSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = poly2SteepestBoxVerifyStall, true, poly2SteepestBoxStageJudge
 			return
+		case found.end == poly2SteepestBoxSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == poly2SteepestBoxSearchTiny:
 			end = Poly2SteepestBoxStalled
 		}
@@ -590,6 +597,9 @@ func (s *poly2SteepestBoxDirection) update(step, change *[2]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
+// stalled: nothing in reserve.
+func (s *poly2SteepestBoxDirection) stalled() bool { return false }
+
 func (s *poly2SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 	next := poly2SteepestBoxScaledTrial(t, slope, now)
 	if reach := t * poly2SteepestBoxTrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

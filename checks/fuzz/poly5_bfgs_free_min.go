@@ -226,7 +226,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -281,7 +284,7 @@ type poly5BFGSFreeDescent struct {
 	rises     int                      // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                     // whether g and e at x come from poly5BFGSFreeConfirmGradient or settle
 	stalled   bool                     // whether the run can make no more progress at x
-	retried   int                      // the iteration whose stall was retried with recalibrated differences
+	retried   int                      // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                      // what to check at x before judging it again
 }
 
@@ -422,8 +425,10 @@ func (r *poly5BFGSFreeDescent) judge(recv *Poly) {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if poly5BFGSFreeDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if poly5BFGSFreeDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(Poly5BFGSFreeStalled)
 			return
 		}
@@ -497,6 +502,8 @@ func (r *poly5BFGSFreeDescent) search(recv *Poly) {
 		case found.end == poly5BFGSFreeSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = poly5BFGSFreeVerifyStall, true, poly5BFGSFreeStageJudge
 			return
+		case found.end == poly5BFGSFreeSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == poly5BFGSFreeSearchTiny:
 			end = Poly5BFGSFreeStalled
 		}
@@ -626,6 +633,9 @@ func (s *poly5BFGSFreeDirection) update(step, change *[5]float64) {
 
 // firstTrial is 1, the quasi-Newton step, which the line search should try
 // first (Nocedal & Wright 2006, §3.5).
+// stalled: nothing in reserve.
+func (s *poly5BFGSFreeDirection) stalled() bool { return false }
+
 func (s *poly5BFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

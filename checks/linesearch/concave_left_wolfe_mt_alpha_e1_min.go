@@ -226,7 +226,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -281,7 +284,7 @@ type concaveLeftWolfeMTAlphaE1Descent struct {
 	rises     int                                  // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                                 // whether g and e at x come from concaveLeftWolfeMTAlphaE1ConfirmGradient or settle
 	stalled   bool                                 // whether the run can make no more progress at x
-	retried   int                                  // the iteration whose stall was retried with recalibrated differences
+	retried   int                                  // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                                  // what to check at x before judging it again
 }
 
@@ -422,8 +425,10 @@ func (r *concaveLeftWolfeMTAlphaE1Descent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if concaveLeftWolfeMTAlphaE1DerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if concaveLeftWolfeMTAlphaE1DerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(ConcaveLeftWolfeMTAlphaE1Stalled)
 			return
 		}
@@ -497,6 +502,8 @@ func (r *concaveLeftWolfeMTAlphaE1Descent) search() {
 		case found.end == concaveLeftWolfeMTAlphaE1SearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = concaveLeftWolfeMTAlphaE1VerifyStall, true, concaveLeftWolfeMTAlphaE1StageJudge
 			return
+		case found.end == concaveLeftWolfeMTAlphaE1SearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == concaveLeftWolfeMTAlphaE1SearchTiny:
 			end = ConcaveLeftWolfeMTAlphaE1Stalled
 		}
@@ -580,6 +587,9 @@ func (s *concaveLeftWolfeMTAlphaE1Direction) update(step, change *[1]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
+// stalled: nothing in reserve.
+func (s *concaveLeftWolfeMTAlphaE1Direction) stalled() bool { return false }
+
 func (s *concaveLeftWolfeMTAlphaE1Direction) firstTrial(t, slope, now float64) float64 {
 	next := concaveLeftWolfeMTAlphaE1ScaledTrial(t, slope, now)
 	if reach := t * concaveLeftWolfeMTAlphaE1TrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

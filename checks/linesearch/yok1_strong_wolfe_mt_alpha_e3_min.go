@@ -226,7 +226,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -281,7 +284,7 @@ type yok1StrongWolfeMTAlphaE3Descent struct {
 	rises     int                                 // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                                // whether g and e at x come from yok1StrongWolfeMTAlphaE3ConfirmGradient or settle
 	stalled   bool                                // whether the run can make no more progress at x
-	retried   int                                 // the iteration whose stall was retried with recalibrated differences
+	retried   int                                 // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                                 // what to check at x before judging it again
 }
 
@@ -422,8 +425,10 @@ func (r *yok1StrongWolfeMTAlphaE3Descent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if yok1StrongWolfeMTAlphaE3DerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if yok1StrongWolfeMTAlphaE3DerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(YOK1StrongWolfeMTAlphaE3Stalled)
 			return
 		}
@@ -497,6 +502,8 @@ func (r *yok1StrongWolfeMTAlphaE3Descent) search() {
 		case found.end == yok1StrongWolfeMTAlphaE3SearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = yok1StrongWolfeMTAlphaE3VerifyStall, true, yok1StrongWolfeMTAlphaE3StageJudge
 			return
+		case found.end == yok1StrongWolfeMTAlphaE3SearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == yok1StrongWolfeMTAlphaE3SearchTiny:
 			end = YOK1StrongWolfeMTAlphaE3Stalled
 		}
@@ -580,6 +587,9 @@ func (s *yok1StrongWolfeMTAlphaE3Direction) update(step, change *[1]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
+// stalled: nothing in reserve.
+func (s *yok1StrongWolfeMTAlphaE3Direction) stalled() bool { return false }
+
 func (s *yok1StrongWolfeMTAlphaE3Direction) firstTrial(t, slope, now float64) float64 {
 	next := yok1StrongWolfeMTAlphaE3ScaledTrial(t, slope, now)
 	if reach := t * yok1StrongWolfeMTAlphaE3TrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

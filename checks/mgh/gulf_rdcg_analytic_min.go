@@ -133,7 +133,7 @@ const GulfRDCGAnalyticTickMinimum = 48
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x) and the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GulfRDCGAnalytic and GulfRDCGAnalyticWithLimits use at most 2560 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): GulfRDCGAnalytic and GulfRDCGAnalyticWithLimits use at most 2584 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
 //
 // While Status is GulfRDCGAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type GulfRDCGAnalyticSolver struct {
@@ -226,7 +226,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -281,7 +284,7 @@ type gulfRDCGAnalyticDescent struct {
 	rises     int                         // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                        // whether g and e at x come from gulfRDCGAnalyticConfirmGradient or settle
 	stalled   bool                        // whether the run can make no more progress at x
-	retried   int                         // the iteration whose stall was retried with recalibrated differences
+	retried   int                         // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                         // what to check at x before judging it again
 }
 
@@ -422,8 +425,10 @@ func (r *gulfRDCGAnalyticDescent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if gulfRDCGAnalyticDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if gulfRDCGAnalyticDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(GulfRDCGAnalyticStalled)
 			return
 		}
@@ -497,6 +502,8 @@ func (r *gulfRDCGAnalyticDescent) search() {
 		case found.end == gulfRDCGAnalyticSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = gulfRDCGAnalyticVerifyStall, true, gulfRDCGAnalyticStageJudge
 			return
+		case found.end == gulfRDCGAnalyticSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == gulfRDCGAnalyticSearchTiny:
 			end = GulfRDCGAnalyticStalled
 		}
@@ -576,39 +583,112 @@ type gulfRDCGAnalyticResidualModel struct{}
 // restart left stalled, and cuts the calls on Gulf R&D, Biggs EXP6 and
 // Penalty II by a factor of 2 to 3.
 //
+// A stall (no step above the step limit decreases f, even after the
+// kernel's retry) switches on a diagonal preconditioner P = diag(1/b):
+// z = Pg replaces g above, β = max(zᵀ(g − g₋₁)/z₋₁ᵀg₋₁, 0) and Powell's
+// test reads |zᵀg₋₁| ≥ ν zᵀg (preconditioned nonlinear CG, §5.2). b is
+// learnt from every pair by the diagonal of the BFGS update (see update),
+// so it holds the scale of each coordinate when the stall comes. Powell
+// badly scaled (MGH 3) with central differences, where ∇²f spans
+// 2.4e-8 to 1.7e10, stalled in its curved valley without it and converges
+// with it. It stays off until then: on the rest of the MGH set
+// preconditioning from the start cost up to 50 times the iterations
+// (variably dimensioned, whose Hessian I + rank one suits plain CG) and
+// stalled on Watson 6.
+//
 // References:
 //   - E. Polak and G. Ribière, Note sur la convergence de méthodes de
 //     directions conjuguées, Rev. Française Informat. Recherche
 //     Opérationnelle 3(16):35–43, 1969.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §5.2.
+//   - J. C. Gilbert and C. Lemaréchal, Some numerical experiments with
+//     variable-storage quasi-Newton algorithms, Math. Programming
+//     45:407–435, 1989 (the diagonal update).
 type gulfRDCGAnalyticDirection struct {
-	previous [3]float64 // d₋₁
-	change   [3]float64 // y = g − g₋₁, set by update
-	squared  float64    // ‖g₋₁‖²
-	fresh    bool       // no previous direction to build on: the next compute restarts
+	previous  [3]float64 // d₋₁
+	change    [3]float64 // y = g − g₋₁, set by update
+	curvature [3]float64 // b, the diagonal Hessian estimate whose inverse preconditions g
+	squared   float64    // g₋₁ᵀz₋₁, z₋₁ = g₋₁/b
+	fresh     bool       // no previous direction to build on: the next compute restarts
+	scaled    bool       // whether b has been learnt since reset; before, b = 1
+	rescaled  bool       // whether a stall switched the preconditioner on
 }
 
 func (s *gulfRDCGAnalyticDirection) reset() {
 	s.fresh = true
+	s.scaled, s.rescaled = false, false
+	for i := range s.curvature {
+		s.curvature[i] = 1
+	}
 }
 
 func (s *gulfRDCGAnalyticDirection) compute(g, d *[3]float64) {
 	var beta float64
-	gg, gy := gulfRDCGAnalyticDot(g, g), gulfRDCGAnalyticDot(g, &s.change)
-	if !s.fresh && s.squared > 0 && gulfRDCGAnalyticAbs(gg-gy) < 0.1*gg { // N&W eq. 5.52: |gᵀg₋₁| < ν‖g‖², gᵀg₋₁ = gᵀg − gᵀy
-		beta = gulfRDCGAnalyticLarger(gy/s.squared, 0) // N&W eq. 5.45 (PR+)
+	z := *g
+	if s.rescaled {
+		for i := range z {
+			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		}
+	}
+	gz, zy := gulfRDCGAnalyticDot(g, &z), gulfRDCGAnalyticDot(&z, &s.change)
+	if !s.fresh && s.squared > 0 && gulfRDCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
+		beta = gulfRDCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
 	for i := range d {
-		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
+		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
-	s.squared = gg
+	s.squared = gz
 }
 
+// update keeps y for β and learns b from the pair (s, y) by the diagonal
+// of the BFGS update of diag(b) (Gilbert & Lemaréchal 1989):
+//
+//	bᵢ₊ = bᵢ − (bᵢsᵢ)²/sᵀBs + yᵢ²/yᵀs,
+//
+// which stays positive whenever yᵀs is, after scaling b to yᵀy/yᵀs on the
+// first safe pair (the inverse of N&W eq. 6.20). A pair whose curvature is
+// not safely positive, or an entry that would not stay a positive finite
+// number, leaves b as it was.
 func (s *gulfRDCGAnalyticDirection) update(step, change *[3]float64) {
 	s.change = *change
+	sy := gulfRDCGAnalyticDot(step, change)
+	if !gulfRDCGAnalyticCurvatureSafeWith(sy, step, change) {
+		return
+	}
+	if !s.scaled {
+		gamma := gulfRDCGAnalyticDot(change, change) / sy // inverse of N&W eq. 6.20
+		for i := range s.curvature {
+			s.curvature[i] = gamma
+		}
+		s.scaled = true
+	}
+	var sbs float64
+	for i := range step {
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	for i := range s.curvature {
+		bs := s.curvature[i] * step[i]
+		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+		if next > 0 && gulfRDCGAnalyticFinite(next) {
+			s.curvature[i] = next
+		}
+	}
+}
+
+// stalled is asked when the line search can make no progress along d
+// even after a retry: once a curvature pair has taught b, it switches the
+// preconditioner on and restarts, and reports true, so the run searches
+// again from x; otherwise, or the second time, it reports false and the
+// run ends stalled.
+func (s *gulfRDCGAnalyticDirection) stalled() bool {
+	if s.rescaled || !s.scaled {
+		return false
+	}
+	s.rescaled, s.fresh = true, true
+	return true
 }
 
 func (s *gulfRDCGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
@@ -642,16 +722,10 @@ func gulfRDCGAnalyticLarger(a, b float64) float64 {
 	return b
 }
 
-// gulfRDCGAnalyticScaledTrial is the first trial of steepest descent and conjugate
-// gradients: it assumes the first-order change will match the previous
-// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
-// A ratio that is not a positive finite number falls back to gulfRDCGAnalyticStepInitial.
-func gulfRDCGAnalyticScaledTrial(t, slope, now float64) float64 {
-	next := t * (slope / now) // N&W eq. 3.60
-	if !(next > 0) || !gulfRDCGAnalyticFinite(next) {
-		return gulfRDCGAnalyticStepInitial
-	}
-	return next
+// gulfRDCGAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
+// update needs it again).
+func gulfRDCGAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
+	return sy > 0 && (sy/gulfRDCGAnalyticDot(s, s))*(sy/gulfRDCGAnalyticDot(y, y)) > gulfRDCGAnalyticUnitRoundoff
 }
 
 // gulfRDCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -664,6 +738,18 @@ func gulfRDCGAnalyticScaledTrial(t, slope, now float64) float64 {
 // are never fused).
 func gulfRDCGAnalyticFinite(v float64) bool {
 	return v >= -gulfRDCGAnalyticLargestFinite && v <= gulfRDCGAnalyticLargestFinite
+}
+
+// gulfRDCGAnalyticScaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to gulfRDCGAnalyticStepInitial.
+func gulfRDCGAnalyticScaledTrial(t, slope, now float64) float64 {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !gulfRDCGAnalyticFinite(next) {
+		return gulfRDCGAnalyticStepInitial
+	}
+	return next
 }
 
 // The stages of a run: advance starts each only when the calls left in

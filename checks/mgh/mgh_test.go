@@ -173,17 +173,33 @@ type exclusion struct {
 
 var exclusions = map[string]exclusion{
 	"PowellBadlyScaledCGAnalytic": {
-		"PR+ CG zigzags down the curved valley and stalls at f ≈ 1.2e-8 with a gradient far above its limit: reported as stalled, not converged",
+		"PR+ CG zigzags down the curved valley and stalls at f ≈ 1.2e-8 with a gradient far above its limit: reported as stalled, not converged. At the stall cg has no learnt diagonal to switch to: the search just before it restarted cg (d was not a descent direction), which drops b; kept, b would not rescue it either (b₂ ≈ 1.4e10 where ∂²f/∂x₂² ≈ 0.03 from 2JᵀJ, by hand; measured with a patched copy). With central differences the preconditioner rescues the run",
 		"MGH (3) is badly scaled by design; ∇²f(x*) has λ from 2.4e-8 to 1.7e10 (computed here); functions.go: \"very flat near the minimum\"",
-	},
-	"PowellBadlyScaledCGCentral": {
-		"as PowellBadlyScaledCGAnalytic, PR+ CG stalls in the valley, at f ≈ 1.5e-7: stalled, not converged",
-		"MGH (3) is badly scaled by design; functions.go: \"very flat near the minimum\"",
 	},
 	"Watson9CGCentral": {
 		"out of evaluations at the default 200 000 (f = 6.9e-6, 4375 iterations); with the analytic gradient PR+ CG needs 7932 iterations here, and the differences' error slows it further (at 5 million calls it stalls at f = 1.40141e-6, the minimum being 1.39976e-6)",
 		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"",
 	},
+}
+
+// With every key at its default, each direction reaches a recorded
+// minimum on at least 19 of the 20 instances, with the analytic gradient
+// and with central differences (the criterion of issue 8): at most one
+// exclusion per direction and derivative.
+func TestAtMostOneExclusionPerDirectionAndDerivative(t *testing.T) {
+	for _, dir := range Directions {
+		for _, der := range Derivatives {
+			var excluded []string
+			for _, p := range Problems {
+				if name := MinimizerName(p, dir, der); exclusions[name].why != "" {
+					excluded = append(excluded, name)
+				}
+			}
+			if len(excluded) > 1 {
+				t.Errorf("%s with %s derivatives fails %d of the %d instances: %v", dir, der, len(excluded), len(Problems), excluded)
+			}
+		}
+	}
 }
 
 // TestExpectedEndsAreExclusions keeps table.go's ExpectedEnds, which the

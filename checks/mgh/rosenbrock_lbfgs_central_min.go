@@ -227,7 +227,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -282,7 +285,7 @@ type rosenbrockLBFGSCentralDescent struct {
 	rises     int                               // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                              // whether g and e at x come from rosenbrockLBFGSCentralConfirmGradient or settle
 	stalled   bool                              // whether the run can make no more progress at x
-	retried   int                               // the iteration whose stall was retried with recalibrated differences
+	retried   int                               // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                               // what to check at x before judging it again
 }
 
@@ -423,8 +426,10 @@ func (r *rosenbrockLBFGSCentralDescent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if rosenbrockLBFGSCentralDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if rosenbrockLBFGSCentralDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(RosenbrockLBFGSCentralStalled)
 			return
 		}
@@ -498,6 +503,8 @@ func (r *rosenbrockLBFGSCentralDescent) search() {
 		case found.end == rosenbrockLBFGSCentralSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = rosenbrockLBFGSCentralVerifyStall, true, rosenbrockLBFGSCentralStageJudge
 			return
+		case found.end == rosenbrockLBFGSCentralSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == rosenbrockLBFGSCentralSearchTiny:
 			end = RosenbrockLBFGSCentralStalled
 		}
@@ -641,6 +648,9 @@ func (s *rosenbrockLBFGSCentralDirection) update(step, change *[2]float64) {
 }
 
 // firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
+// stalled: nothing in reserve.
+func (s *rosenbrockLBFGSCentralDirection) stalled() bool { return false }
+
 func (s *rosenbrockLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -52,7 +52,6 @@ var (
 // its generated test asserts that end instead of convergence.
 var ExpectedEnds = map[string]string{
 	"PowellBadlyScaledCGAnalytic": "stalled",
-	"PowellBadlyScaledCGCentral":  "stalled",
 	"Watson9CGCentral":            "out of evaluations",
 }
 

@@ -250,7 +250,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -305,7 +308,7 @@ type fitCoolingGNDescent struct {
 	rises     int                     // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                    // whether g and e at x come from confirmGradient or settle
 	stalled   bool                    // whether the run can make no more progress at x
-	retried   int                     // the iteration whose stall was retried with recalibrated differences
+	retried   int                     // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                     // what to check at x before judging it again
 }
 
@@ -446,8 +449,10 @@ func (r *fitCoolingGNDescent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if fitCoolingGNDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if fitCoolingGNDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(FitCoolingGNStalled)
 			return
 		}
@@ -521,6 +526,8 @@ func (r *fitCoolingGNDescent) search() {
 		case found.end == fitCoolingGNSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = fitCoolingGNVerifyStall, true, fitCoolingGNStageJudge
 			return
+		case found.end == fitCoolingGNSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == fitCoolingGNSearchTiny:
 			end = FitCoolingGNStalled
 		}
@@ -627,6 +634,9 @@ func (s *fitCoolingGNDirection) update(step, change *[3]float64) {}
 // firstTrial is fitCoolingGNStepInitial, 1 by default: the Gauss–Newton step is the
 // minimizer of the linearized model, which the search should try first
 // (Nocedal & Wright 2006, §10.3).
+// stalled: nothing in reserve.
+func (s *fitCoolingGNDirection) stalled() bool { return false }
+
 func (s *fitCoolingGNDirection) firstTrial(t, slope, now float64) float64 {
 	return fitCoolingGNStepInitial
 }

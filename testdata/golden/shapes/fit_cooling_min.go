@@ -248,7 +248,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -303,7 +306,7 @@ type fitCoolingDescent struct {
 	rises     int                   // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                  // whether g and e at x come from confirmGradient or settle
 	stalled   bool                  // whether the run can make no more progress at x
-	retried   int                   // the iteration whose stall was retried with recalibrated differences
+	retried   int                   // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                   // what to check at x before judging it again
 }
 
@@ -444,8 +447,10 @@ func (r *fitCoolingDescent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if fitCoolingDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if fitCoolingDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(FitCoolingStalled)
 			return
 		}
@@ -519,6 +524,8 @@ func (r *fitCoolingDescent) search() {
 		case found.end == fitCoolingSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = fitCoolingVerifyStall, true, fitCoolingStageJudge
 			return
+		case found.end == fitCoolingSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == fitCoolingSearchTiny:
 			end = FitCoolingStalled
 		}
@@ -625,6 +632,9 @@ func (s *fitCoolingDirection) update(step, change *[3]float64) {}
 // firstTrial is fitCoolingStepInitial, 1 by default: the Gauss–Newton step is the
 // minimizer of the linearized model, which the search should try first
 // (Nocedal & Wright 2006, §10.3).
+// stalled: nothing in reserve.
+func (s *fitCoolingDirection) stalled() bool { return false }
+
 func (s *fitCoolingDirection) firstTrial(t, slope, now float64) float64 {
 	return fitCoolingStepInitial
 }

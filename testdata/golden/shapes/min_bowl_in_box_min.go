@@ -236,7 +236,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -291,7 +294,7 @@ type minBowlInBoxDescent struct {
 	rises     int                     // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                    // whether g and e at x come from minBowlInBoxConfirmGradient or settle
 	stalled   bool                    // whether the run can make no more progress at x
-	retried   int                     // the iteration whose stall was retried with recalibrated differences
+	retried   int                     // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                     // what to check at x before judging it again
 }
 
@@ -432,8 +435,10 @@ func (r *minBowlInBoxDescent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if minBowlInBoxDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if minBowlInBoxDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(MinBowlInBoxStalled)
 			return
 		}
@@ -507,6 +512,8 @@ func (r *minBowlInBoxDescent) search() {
 		case found.end == minBowlInBoxSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = minBowlInBoxVerifyStall, true, minBowlInBoxStageJudge
 			return
+		case found.end == minBowlInBoxSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == minBowlInBoxSearchTiny:
 			end = MinBowlInBoxStalled
 		}
@@ -636,6 +643,9 @@ func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
 
 // firstTrial is 1, the quasi-Newton step, which the line search should try
 // first (Nocedal & Wright 2006, §3.5).
+// stalled: nothing in reserve.
+func (s *minBowlInBoxDirection) stalled() bool { return false }
+
 func (s *minBowlInBoxDirection) firstTrial(t, slope, now float32) float32 {
 	return 1
 }

@@ -224,7 +224,10 @@ const (
 //     differences confirmed, and the limit rises to ten times the larger
 //     of lim.Gradient and the bound's measure; a gradient within that is
 //     as small as this point can show, and the run is converged with that
-//     limit, which it reports.
+//     limit, which it reports. Before a stall ends the run, differences
+//     retry once with the intervals chosen there, and a direction with
+//     something in reserve (dir.stalled: cg's preconditioner) searches
+//     again from x.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -279,7 +282,7 @@ type minPlateDescent struct {
 	rises     int                 // consecutive accepted steps that raised f above f(x0)
 	confirmed bool                // whether g and e at x come from minPlateConfirmGradient or settle
 	stalled   bool                // whether the run can make no more progress at x
-	retried   int                 // the iteration whose stall was retried with recalibrated differences
+	retried   int                 // the iteration whose stall was retried, with recalibrated differences or the direction's reserve
 	verify    int                 // what to check at x before judging it again
 }
 
@@ -420,8 +423,10 @@ func (r *minPlateDescent) judge() {
 	if r.stalled {
 		// Settled and still above the limit: stalled, unless
 		// differences, whose intervals were just chosen here, can
-		// search once more with the better gradient.
-		if minPlateDerivativeCost == 0 {
+		// search once more with the better gradient, or the direction
+		// has a reserve (with differences it is asked when the retry
+		// stalls too, in search).
+		if minPlateDerivativeCost == 0 && !r.dir.stalled() {
 			r.finish(MinPlateStalled)
 			return
 		}
@@ -495,6 +500,8 @@ func (r *minPlateDescent) search() {
 		case found.end == minPlateSearchTiny && r.retried != r.out.iterations:
 			r.verify, r.stalled, r.stage = minPlateVerifyStall, true, minPlateStageJudge
 			return
+		case found.end == minPlateSearchTiny && r.dir.stalled():
+			return // search again with the direction's reserve (cg's preconditioner)
 		case found.end == minPlateSearchTiny:
 			end = MinPlateStalled
 		}
@@ -578,6 +585,9 @@ func (s *minPlateDirection) update(step, change *[2]float32) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
+// stalled: nothing in reserve.
+func (s *minPlateDirection) stalled() bool { return false }
+
 func (s *minPlateDirection) firstTrial(t, slope, now float32) float32 {
 	next := minPlateScaledTrial(t, slope, now)
 	if reach := float32(float64(t) * minPlateTrialGrowth); next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before
