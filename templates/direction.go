@@ -107,7 +107,13 @@ func curvatureSafe(s, y *vec) bool {
 // curvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func curvatureSafeWith(sy elem, s, y *vec) bool {
-	return sy > 0 && (sy/dot(s, s))*(sy/dot(y, y)) > unitRoundoff
+	return curvatureSafeFrom(sy, dot(s, s), dot(y, y))
+}
+
+// curvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func curvatureSafeFrom(sy, ss, yy elem) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > unitRoundoff
 }
 
 // scaledTrial is the first trial of steepest descent and conjugate

@@ -662,7 +662,13 @@ func poly1BFGSBoxDot(a, b *[1]float64) float64 {
 // poly1BFGSBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly1BFGSBoxCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/poly1BFGSBoxDot(s, s))*(sy/poly1BFGSBoxDot(y, y)) > poly1BFGSBoxUnitRoundoff
+	return poly1BFGSBoxCurvatureSafeFrom(sy, poly1BFGSBoxDot(s, s), poly1BFGSBoxDot(y, y))
+}
+
+// poly1BFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly1BFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly1BFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func poly1BFGSFreeDot(a, b *[1]float64) float64 {
 // poly1BFGSFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly1BFGSFreeCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/poly1BFGSFreeDot(s, s))*(sy/poly1BFGSFreeDot(y, y)) > poly1BFGSFreeUnitRoundoff
+	return poly1BFGSFreeCurvatureSafeFrom(sy, poly1BFGSFreeDot(s, s), poly1BFGSFreeDot(y, y))
+}
+
+// poly1BFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly1BFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly1BFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *poly1CGFreeDirection) compute(g, d *[1]float64) {
 // number, leaves b as it was.
 func (s *poly1CGFreeDirection) update(step, change *[1]float64) {
 	s.change = *change
-	sy := poly1CGFreeDot(step, change)
-	if !poly1CGFreeCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !poly1CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := poly1CGFreeDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func poly1CGFreeLarger(a, b float64) float64 {
 	return b
 }
 
-// poly1CGFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly1CGFreeCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/poly1CGFreeDot(s, s))*(sy/poly1CGFreeDot(y, y)) > poly1CGFreeUnitRoundoff
+// poly1CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly1CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly1CGFreeUnitRoundoff
 }
 
 // poly1CGFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with

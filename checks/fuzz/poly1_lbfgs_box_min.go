@@ -695,7 +695,13 @@ func poly1LBFGSBoxCurvatureSafe(s, y *[1]float64) bool {
 // poly1LBFGSBoxCurvatureSafeWith is poly1LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly1LBFGSBoxCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/poly1LBFGSBoxDot(s, s))*(sy/poly1LBFGSBoxDot(y, y)) > poly1LBFGSBoxUnitRoundoff
+	return poly1LBFGSBoxCurvatureSafeFrom(sy, poly1LBFGSBoxDot(s, s), poly1LBFGSBoxDot(y, y))
+}
+
+// poly1LBFGSBoxCurvatureSafeFrom is poly1LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly1LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly1LBFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func poly1LBFGSFreeCurvatureSafe(s, y *[1]float64) bool {
 // poly1LBFGSFreeCurvatureSafeWith is poly1LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly1LBFGSFreeCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/poly1LBFGSFreeDot(s, s))*(sy/poly1LBFGSFreeDot(y, y)) > poly1LBFGSFreeUnitRoundoff
+	return poly1LBFGSFreeCurvatureSafeFrom(sy, poly1LBFGSFreeDot(s, s), poly1LBFGSFreeDot(y, y))
+}
+
+// poly1LBFGSFreeCurvatureSafeFrom is poly1LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly1LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly1LBFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

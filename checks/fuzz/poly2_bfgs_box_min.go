@@ -662,7 +662,13 @@ func poly2BFGSBoxDot(a, b *[2]float64) float64 {
 // poly2BFGSBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly2BFGSBoxCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/poly2BFGSBoxDot(s, s))*(sy/poly2BFGSBoxDot(y, y)) > poly2BFGSBoxUnitRoundoff
+	return poly2BFGSBoxCurvatureSafeFrom(sy, poly2BFGSBoxDot(s, s), poly2BFGSBoxDot(y, y))
+}
+
+// poly2BFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly2BFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly2BFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

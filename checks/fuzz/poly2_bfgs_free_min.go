@@ -652,7 +652,13 @@ func poly2BFGSFreeDot(a, b *[2]float64) float64 {
 // poly2BFGSFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly2BFGSFreeCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/poly2BFGSFreeDot(s, s))*(sy/poly2BFGSFreeDot(y, y)) > poly2BFGSFreeUnitRoundoff
+	return poly2BFGSFreeCurvatureSafeFrom(sy, poly2BFGSFreeDot(s, s), poly2BFGSFreeDot(y, y))
+}
+
+// poly2BFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly2BFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly2BFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *poly2CGFreeDirection) compute(g, d *[2]float64) {
 // number, leaves b as it was.
 func (s *poly2CGFreeDirection) update(step, change *[2]float64) {
 	s.change = *change
-	sy := poly2CGFreeDot(step, change)
-	if !poly2CGFreeCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !poly2CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := poly2CGFreeDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func poly2CGFreeLarger(a, b float64) float64 {
 	return b
 }
 
-// poly2CGFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly2CGFreeCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/poly2CGFreeDot(s, s))*(sy/poly2CGFreeDot(y, y)) > poly2CGFreeUnitRoundoff
+// poly2CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly2CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly2CGFreeUnitRoundoff
 }
 
 // poly2CGFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -695,7 +695,13 @@ func poly2LBFGSBoxCurvatureSafe(s, y *[2]float64) bool {
 // poly2LBFGSBoxCurvatureSafeWith is poly2LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly2LBFGSBoxCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/poly2LBFGSBoxDot(s, s))*(sy/poly2LBFGSBoxDot(y, y)) > poly2LBFGSBoxUnitRoundoff
+	return poly2LBFGSBoxCurvatureSafeFrom(sy, poly2LBFGSBoxDot(s, s), poly2LBFGSBoxDot(y, y))
+}
+
+// poly2LBFGSBoxCurvatureSafeFrom is poly2LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly2LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly2LBFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func poly2LBFGSFreeCurvatureSafe(s, y *[2]float64) bool {
 // poly2LBFGSFreeCurvatureSafeWith is poly2LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly2LBFGSFreeCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/poly2LBFGSFreeDot(s, s))*(sy/poly2LBFGSFreeDot(y, y)) > poly2LBFGSFreeUnitRoundoff
+	return poly2LBFGSFreeCurvatureSafeFrom(sy, poly2LBFGSFreeDot(s, s), poly2LBFGSFreeDot(y, y))
+}
+
+// poly2LBFGSFreeCurvatureSafeFrom is poly2LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly2LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly2LBFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -662,7 +662,13 @@ func poly3BFGSBoxDot(a, b *[3]float64) float64 {
 // poly3BFGSBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly3BFGSBoxCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/poly3BFGSBoxDot(s, s))*(sy/poly3BFGSBoxDot(y, y)) > poly3BFGSBoxUnitRoundoff
+	return poly3BFGSBoxCurvatureSafeFrom(sy, poly3BFGSBoxDot(s, s), poly3BFGSBoxDot(y, y))
+}
+
+// poly3BFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly3BFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly3BFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func poly3BFGSFreeDot(a, b *[3]float64) float64 {
 // poly3BFGSFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly3BFGSFreeCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/poly3BFGSFreeDot(s, s))*(sy/poly3BFGSFreeDot(y, y)) > poly3BFGSFreeUnitRoundoff
+	return poly3BFGSFreeCurvatureSafeFrom(sy, poly3BFGSFreeDot(s, s), poly3BFGSFreeDot(y, y))
+}
+
+// poly3BFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly3BFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly3BFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

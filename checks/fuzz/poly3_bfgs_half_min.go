@@ -662,7 +662,13 @@ func poly3BFGSHalfDot(a, b *[3]float64) float64 {
 // poly3BFGSHalfCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly3BFGSHalfCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/poly3BFGSHalfDot(s, s))*(sy/poly3BFGSHalfDot(y, y)) > poly3BFGSHalfUnitRoundoff
+	return poly3BFGSHalfCurvatureSafeFrom(sy, poly3BFGSHalfDot(s, s), poly3BFGSHalfDot(y, y))
+}
+
+// poly3BFGSHalfCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly3BFGSHalfCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly3BFGSHalfUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -695,7 +695,13 @@ func poly3LBFGSBoxCurvatureSafe(s, y *[3]float64) bool {
 // poly3LBFGSBoxCurvatureSafeWith is poly3LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly3LBFGSBoxCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/poly3LBFGSBoxDot(s, s))*(sy/poly3LBFGSBoxDot(y, y)) > poly3LBFGSBoxUnitRoundoff
+	return poly3LBFGSBoxCurvatureSafeFrom(sy, poly3LBFGSBoxDot(s, s), poly3LBFGSBoxDot(y, y))
+}
+
+// poly3LBFGSBoxCurvatureSafeFrom is poly3LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly3LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly3LBFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func poly3LBFGSFreeCurvatureSafe(s, y *[3]float64) bool {
 // poly3LBFGSFreeCurvatureSafeWith is poly3LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly3LBFGSFreeCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/poly3LBFGSFreeDot(s, s))*(sy/poly3LBFGSFreeDot(y, y)) > poly3LBFGSFreeUnitRoundoff
+	return poly3LBFGSFreeCurvatureSafeFrom(sy, poly3LBFGSFreeDot(s, s), poly3LBFGSFreeDot(y, y))
+}
+
+// poly3LBFGSFreeCurvatureSafeFrom is poly3LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly3LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly3LBFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

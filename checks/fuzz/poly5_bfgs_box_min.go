@@ -662,7 +662,13 @@ func poly5BFGSBoxDot(a, b *[5]float64) float64 {
 // poly5BFGSBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly5BFGSBoxCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return sy > 0 && (sy/poly5BFGSBoxDot(s, s))*(sy/poly5BFGSBoxDot(y, y)) > poly5BFGSBoxUnitRoundoff
+	return poly5BFGSBoxCurvatureSafeFrom(sy, poly5BFGSBoxDot(s, s), poly5BFGSBoxDot(y, y))
+}
+
+// poly5BFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly5BFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly5BFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func poly5BFGSFreeDot(a, b *[5]float64) float64 {
 // poly5BFGSFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly5BFGSFreeCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return sy > 0 && (sy/poly5BFGSFreeDot(s, s))*(sy/poly5BFGSFreeDot(y, y)) > poly5BFGSFreeUnitRoundoff
+	return poly5BFGSFreeCurvatureSafeFrom(sy, poly5BFGSFreeDot(s, s), poly5BFGSFreeDot(y, y))
+}
+
+// poly5BFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly5BFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly5BFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *poly5CGFreeDirection) compute(g, d *[5]float64) {
 // number, leaves b as it was.
 func (s *poly5CGFreeDirection) update(step, change *[5]float64) {
 	s.change = *change
-	sy := poly5CGFreeDot(step, change)
-	if !poly5CGFreeCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !poly5CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := poly5CGFreeDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func poly5CGFreeLarger(a, b float64) float64 {
 	return b
 }
 
-// poly5CGFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly5CGFreeCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return sy > 0 && (sy/poly5CGFreeDot(s, s))*(sy/poly5CGFreeDot(y, y)) > poly5CGFreeUnitRoundoff
+// poly5CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly5CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly5CGFreeUnitRoundoff
 }
 
 // poly5CGFreeFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -695,7 +695,13 @@ func poly5LBFGSBoxCurvatureSafe(s, y *[5]float64) bool {
 // poly5LBFGSBoxCurvatureSafeWith is poly5LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly5LBFGSBoxCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return sy > 0 && (sy/poly5LBFGSBoxDot(s, s))*(sy/poly5LBFGSBoxDot(y, y)) > poly5LBFGSBoxUnitRoundoff
+	return poly5LBFGSBoxCurvatureSafeFrom(sy, poly5LBFGSBoxDot(s, s), poly5LBFGSBoxDot(y, y))
+}
+
+// poly5LBFGSBoxCurvatureSafeFrom is poly5LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly5LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly5LBFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

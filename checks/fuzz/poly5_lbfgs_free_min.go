@@ -685,7 +685,13 @@ func poly5LBFGSFreeCurvatureSafe(s, y *[5]float64) bool {
 // poly5LBFGSFreeCurvatureSafeWith is poly5LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly5LBFGSFreeCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return sy > 0 && (sy/poly5LBFGSFreeDot(s, s))*(sy/poly5LBFGSFreeDot(y, y)) > poly5LBFGSFreeUnitRoundoff
+	return poly5LBFGSFreeCurvatureSafeFrom(sy, poly5LBFGSFreeDot(s, s), poly5LBFGSFreeDot(y, y))
+}
+
+// poly5LBFGSFreeCurvatureSafeFrom is poly5LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly5LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly5LBFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

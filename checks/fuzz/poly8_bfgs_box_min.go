@@ -662,7 +662,13 @@ func poly8BFGSBoxDot(a, b *[8]float64) float64 {
 // poly8BFGSBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly8BFGSBoxCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
-	return sy > 0 && (sy/poly8BFGSBoxDot(s, s))*(sy/poly8BFGSBoxDot(y, y)) > poly8BFGSBoxUnitRoundoff
+	return poly8BFGSBoxCurvatureSafeFrom(sy, poly8BFGSBoxDot(s, s), poly8BFGSBoxDot(y, y))
+}
+
+// poly8BFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly8BFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly8BFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func poly8BFGSFreeDot(a, b *[8]float64) float64 {
 // poly8BFGSFreeCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly8BFGSFreeCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
-	return sy > 0 && (sy/poly8BFGSFreeDot(s, s))*(sy/poly8BFGSFreeDot(y, y)) > poly8BFGSFreeUnitRoundoff
+	return poly8BFGSFreeCurvatureSafeFrom(sy, poly8BFGSFreeDot(s, s), poly8BFGSFreeDot(y, y))
+}
+
+// poly8BFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly8BFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly8BFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

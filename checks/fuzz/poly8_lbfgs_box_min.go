@@ -695,7 +695,13 @@ func poly8LBFGSBoxCurvatureSafe(s, y *[8]float64) bool {
 // poly8LBFGSBoxCurvatureSafeWith is poly8LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly8LBFGSBoxCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
-	return sy > 0 && (sy/poly8LBFGSBoxDot(s, s))*(sy/poly8LBFGSBoxDot(y, y)) > poly8LBFGSBoxUnitRoundoff
+	return poly8LBFGSBoxCurvatureSafeFrom(sy, poly8LBFGSBoxDot(s, s), poly8LBFGSBoxDot(y, y))
+}
+
+// poly8LBFGSBoxCurvatureSafeFrom is poly8LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly8LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly8LBFGSBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

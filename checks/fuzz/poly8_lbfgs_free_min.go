@@ -685,7 +685,13 @@ func poly8LBFGSFreeCurvatureSafe(s, y *[8]float64) bool {
 // poly8LBFGSFreeCurvatureSafeWith is poly8LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly8LBFGSFreeCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
-	return sy > 0 && (sy/poly8LBFGSFreeDot(s, s))*(sy/poly8LBFGSFreeDot(y, y)) > poly8LBFGSFreeUnitRoundoff
+	return poly8LBFGSFreeCurvatureSafeFrom(sy, poly8LBFGSFreeDot(s, s), poly8LBFGSFreeDot(y, y))
+}
+
+// poly8LBFGSFreeCurvatureSafeFrom is poly8LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly8LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly8LBFGSFreeUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -695,7 +695,13 @@ func poly8LBFGSMixedCurvatureSafe(s, y *[8]float64) bool {
 // poly8LBFGSMixedCurvatureSafeWith is poly8LBFGSMixedCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func poly8LBFGSMixedCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
-	return sy > 0 && (sy/poly8LBFGSMixedDot(s, s))*(sy/poly8LBFGSMixedDot(y, y)) > poly8LBFGSMixedUnitRoundoff
+	return poly8LBFGSMixedCurvatureSafeFrom(sy, poly8LBFGSMixedDot(s, s), poly8LBFGSMixedDot(y, y))
+}
+
+// poly8LBFGSMixedCurvatureSafeFrom is poly8LBFGSMixedCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func poly8LBFGSMixedCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > poly8LBFGSMixedUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func bealeBFGSAnalyticDot(a, b *[2]float64) float64 {
 // bealeBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func bealeBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/bealeBFGSAnalyticDot(s, s))*(sy/bealeBFGSAnalyticDot(y, y)) > bealeBFGSAnalyticUnitRoundoff
+	return bealeBFGSAnalyticCurvatureSafeFrom(sy, bealeBFGSAnalyticDot(s, s), bealeBFGSAnalyticDot(y, y))
+}
+
+// bealeBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func bealeBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > bealeBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

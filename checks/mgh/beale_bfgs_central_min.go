@@ -652,7 +652,13 @@ func bealeBFGSCentralDot(a, b *[2]float64) float64 {
 // bealeBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func bealeBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/bealeBFGSCentralDot(s, s))*(sy/bealeBFGSCentralDot(y, y)) > bealeBFGSCentralUnitRoundoff
+	return bealeBFGSCentralCurvatureSafeFrom(sy, bealeBFGSCentralDot(s, s), bealeBFGSCentralDot(y, y))
+}
+
+// bealeBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func bealeBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > bealeBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func bealeLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 // bealeLBFGSAnalyticCurvatureSafeWith is bealeLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func bealeLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/bealeLBFGSAnalyticDot(s, s))*(sy/bealeLBFGSAnalyticDot(y, y)) > bealeLBFGSAnalyticUnitRoundoff
+	return bealeLBFGSAnalyticCurvatureSafeFrom(sy, bealeLBFGSAnalyticDot(s, s), bealeLBFGSAnalyticDot(y, y))
+}
+
+// bealeLBFGSAnalyticCurvatureSafeFrom is bealeLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func bealeLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > bealeLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func bealeLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 // bealeLBFGSCentralCurvatureSafeWith is bealeLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func bealeLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/bealeLBFGSCentralDot(s, s))*(sy/bealeLBFGSCentralDot(y, y)) > bealeLBFGSCentralUnitRoundoff
+	return bealeLBFGSCentralCurvatureSafeFrom(sy, bealeLBFGSCentralDot(s, s), bealeLBFGSCentralDot(y, y))
+}
+
+// bealeLBFGSCentralCurvatureSafeFrom is bealeLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func bealeLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > bealeLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func biggsEXP6BFGSAnalyticDot(a, b *[6]float64) float64 {
 // biggsEXP6BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func biggsEXP6BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/biggsEXP6BFGSAnalyticDot(s, s))*(sy/biggsEXP6BFGSAnalyticDot(y, y)) > biggsEXP6BFGSAnalyticUnitRoundoff
+	return biggsEXP6BFGSAnalyticCurvatureSafeFrom(sy, biggsEXP6BFGSAnalyticDot(s, s), biggsEXP6BFGSAnalyticDot(y, y))
+}
+
+// biggsEXP6BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func biggsEXP6BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func biggsEXP6BFGSCentralDot(a, b *[6]float64) float64 {
 // biggsEXP6BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func biggsEXP6BFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/biggsEXP6BFGSCentralDot(s, s))*(sy/biggsEXP6BFGSCentralDot(y, y)) > biggsEXP6BFGSCentralUnitRoundoff
+	return biggsEXP6BFGSCentralCurvatureSafeFrom(sy, biggsEXP6BFGSCentralDot(s, s), biggsEXP6BFGSCentralDot(y, y))
+}
+
+// biggsEXP6BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func biggsEXP6BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *biggsEXP6CGAnalyticDirection) compute(g, d *[6]float64) {
 // number, leaves b as it was.
 func (s *biggsEXP6CGAnalyticDirection) update(step, change *[6]float64) {
 	s.change = *change
-	sy := biggsEXP6CGAnalyticDot(step, change)
-	if !biggsEXP6CGAnalyticCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !biggsEXP6CGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := biggsEXP6CGAnalyticDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func biggsEXP6CGAnalyticLarger(a, b float64) float64 {
 	return b
 }
 
-// biggsEXP6CGAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func biggsEXP6CGAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/biggsEXP6CGAnalyticDot(s, s))*(sy/biggsEXP6CGAnalyticDot(y, y)) > biggsEXP6CGAnalyticUnitRoundoff
+// biggsEXP6CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func biggsEXP6CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6CGAnalyticUnitRoundoff
 }
 
 // biggsEXP6CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -654,20 +654,23 @@ func (s *biggsEXP6CGCentralDirection) compute(g, d *[6]float64) {
 // number, leaves b as it was.
 func (s *biggsEXP6CGCentralDirection) update(step, change *[6]float64) {
 	s.change = *change
-	sy := biggsEXP6CGCentralDot(step, change)
-	if !biggsEXP6CGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !biggsEXP6CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := biggsEXP6CGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func biggsEXP6CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// biggsEXP6CGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func biggsEXP6CGCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/biggsEXP6CGCentralDot(s, s))*(sy/biggsEXP6CGCentralDot(y, y)) > biggsEXP6CGCentralUnitRoundoff
+// biggsEXP6CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func biggsEXP6CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6CGCentralUnitRoundoff
 }
 
 // biggsEXP6CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -685,7 +685,13 @@ func biggsEXP6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 // biggsEXP6LBFGSAnalyticCurvatureSafeWith is biggsEXP6LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func biggsEXP6LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/biggsEXP6LBFGSAnalyticDot(s, s))*(sy/biggsEXP6LBFGSAnalyticDot(y, y)) > biggsEXP6LBFGSAnalyticUnitRoundoff
+	return biggsEXP6LBFGSAnalyticCurvatureSafeFrom(sy, biggsEXP6LBFGSAnalyticDot(s, s), biggsEXP6LBFGSAnalyticDot(y, y))
+}
+
+// biggsEXP6LBFGSAnalyticCurvatureSafeFrom is biggsEXP6LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func biggsEXP6LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func biggsEXP6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 // biggsEXP6LBFGSCentralCurvatureSafeWith is biggsEXP6LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func biggsEXP6LBFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/biggsEXP6LBFGSCentralDot(s, s))*(sy/biggsEXP6LBFGSCentralDot(y, y)) > biggsEXP6LBFGSCentralUnitRoundoff
+	return biggsEXP6LBFGSCentralCurvatureSafeFrom(sy, biggsEXP6LBFGSCentralDot(s, s), biggsEXP6LBFGSCentralDot(y, y))
+}
+
+// biggsEXP6LBFGSCentralCurvatureSafeFrom is biggsEXP6LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func biggsEXP6LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func box3DBFGSAnalyticDot(a, b *[3]float64) float64 {
 // box3DBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func box3DBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/box3DBFGSAnalyticDot(s, s))*(sy/box3DBFGSAnalyticDot(y, y)) > box3DBFGSAnalyticUnitRoundoff
+	return box3DBFGSAnalyticCurvatureSafeFrom(sy, box3DBFGSAnalyticDot(s, s), box3DBFGSAnalyticDot(y, y))
+}
+
+// box3DBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func box3DBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > box3DBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

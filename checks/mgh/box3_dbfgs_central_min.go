@@ -652,7 +652,13 @@ func box3DBFGSCentralDot(a, b *[3]float64) float64 {
 // box3DBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func box3DBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/box3DBFGSCentralDot(s, s))*(sy/box3DBFGSCentralDot(y, y)) > box3DBFGSCentralUnitRoundoff
+	return box3DBFGSCentralCurvatureSafeFrom(sy, box3DBFGSCentralDot(s, s), box3DBFGSCentralDot(y, y))
+}
+
+// box3DBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func box3DBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > box3DBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *box3DCGCentralDirection) compute(g, d *[3]float64) {
 // number, leaves b as it was.
 func (s *box3DCGCentralDirection) update(step, change *[3]float64) {
 	s.change = *change
-	sy := box3DCGCentralDot(step, change)
-	if !box3DCGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !box3DCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := box3DCGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func box3DCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// box3DCGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func box3DCGCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/box3DCGCentralDot(s, s))*(sy/box3DCGCentralDot(y, y)) > box3DCGCentralUnitRoundoff
+// box3DCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func box3DCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > box3DCGCentralUnitRoundoff
 }
 
 // box3DCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -685,7 +685,13 @@ func box3DLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 // box3DLBFGSAnalyticCurvatureSafeWith is box3DLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func box3DLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/box3DLBFGSAnalyticDot(s, s))*(sy/box3DLBFGSAnalyticDot(y, y)) > box3DLBFGSAnalyticUnitRoundoff
+	return box3DLBFGSAnalyticCurvatureSafeFrom(sy, box3DLBFGSAnalyticDot(s, s), box3DLBFGSAnalyticDot(y, y))
+}
+
+// box3DLBFGSAnalyticCurvatureSafeFrom is box3DLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func box3DLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > box3DLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 // box3DLBFGSCentralCurvatureSafeWith is box3DLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func box3DLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff
+	return box3DLBFGSCentralCurvatureSafeFrom(sy, box3DLBFGSCentralDot(s, s), box3DLBFGSCentralDot(y, y))
+}
+
+// box3DLBFGSCentralCurvatureSafeFrom is box3DLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func box3DLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > box3DLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

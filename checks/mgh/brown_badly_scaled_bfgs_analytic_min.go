@@ -652,7 +652,13 @@ func brownBadlyScaledBFGSAnalyticDot(a, b *[2]float64) float64 {
 // brownBadlyScaledBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownBadlyScaledBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/brownBadlyScaledBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledBFGSAnalyticDot(y, y)) > brownBadlyScaledBFGSAnalyticUnitRoundoff
+	return brownBadlyScaledBFGSAnalyticCurvatureSafeFrom(sy, brownBadlyScaledBFGSAnalyticDot(s, s), brownBadlyScaledBFGSAnalyticDot(y, y))
+}
+
+// brownBadlyScaledBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownBadlyScaledBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

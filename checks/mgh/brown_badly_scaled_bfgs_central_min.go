@@ -652,7 +652,13 @@ func brownBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
 // brownBadlyScaledBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownBadlyScaledBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/brownBadlyScaledBFGSCentralDot(s, s))*(sy/brownBadlyScaledBFGSCentralDot(y, y)) > brownBadlyScaledBFGSCentralUnitRoundoff
+	return brownBadlyScaledBFGSCentralCurvatureSafeFrom(sy, brownBadlyScaledBFGSCentralDot(s, s), brownBadlyScaledBFGSCentralDot(y, y))
+}
+
+// brownBadlyScaledBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownBadlyScaledBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *brownBadlyScaledCGCentralDirection) compute(g, d *[2]float64) {
 // number, leaves b as it was.
 func (s *brownBadlyScaledCGCentralDirection) update(step, change *[2]float64) {
 	s.change = *change
-	sy := brownBadlyScaledCGCentralDot(step, change)
-	if !brownBadlyScaledCGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !brownBadlyScaledCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := brownBadlyScaledCGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func brownBadlyScaledCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// brownBadlyScaledCGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func brownBadlyScaledCGCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/brownBadlyScaledCGCentralDot(s, s))*(sy/brownBadlyScaledCGCentralDot(y, y)) > brownBadlyScaledCGCentralUnitRoundoff
+// brownBadlyScaledCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownBadlyScaledCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledCGCentralUnitRoundoff
 }
 
 // brownBadlyScaledCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -685,7 +685,13 @@ func brownBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 // brownBadlyScaledLBFGSAnalyticCurvatureSafeWith is brownBadlyScaledLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownBadlyScaledLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/brownBadlyScaledLBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledLBFGSAnalyticDot(y, y)) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
+	return brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, brownBadlyScaledLBFGSAnalyticDot(s, s), brownBadlyScaledLBFGSAnalyticDot(y, y))
+}
+
+// brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom is brownBadlyScaledLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func brownBadlyScaledLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 // brownBadlyScaledLBFGSCentralCurvatureSafeWith is brownBadlyScaledLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownBadlyScaledLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/brownBadlyScaledLBFGSCentralDot(s, s))*(sy/brownBadlyScaledLBFGSCentralDot(y, y)) > brownBadlyScaledLBFGSCentralUnitRoundoff
+	return brownBadlyScaledLBFGSCentralCurvatureSafeFrom(sy, brownBadlyScaledLBFGSCentralDot(s, s), brownBadlyScaledLBFGSCentralDot(y, y))
+}
+
+// brownBadlyScaledLBFGSCentralCurvatureSafeFrom is brownBadlyScaledLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownBadlyScaledLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

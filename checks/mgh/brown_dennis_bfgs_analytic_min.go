@@ -652,7 +652,13 @@ func brownDennisBFGSAnalyticDot(a, b *[4]float64) float64 {
 // brownDennisBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownDennisBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/brownDennisBFGSAnalyticDot(s, s))*(sy/brownDennisBFGSAnalyticDot(y, y)) > brownDennisBFGSAnalyticUnitRoundoff
+	return brownDennisBFGSAnalyticCurvatureSafeFrom(sy, brownDennisBFGSAnalyticDot(s, s), brownDennisBFGSAnalyticDot(y, y))
+}
+
+// brownDennisBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownDennisBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownDennisBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

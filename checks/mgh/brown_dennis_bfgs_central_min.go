@@ -652,7 +652,13 @@ func brownDennisBFGSCentralDot(a, b *[4]float64) float64 {
 // brownDennisBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownDennisBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/brownDennisBFGSCentralDot(s, s))*(sy/brownDennisBFGSCentralDot(y, y)) > brownDennisBFGSCentralUnitRoundoff
+	return brownDennisBFGSCentralCurvatureSafeFrom(sy, brownDennisBFGSCentralDot(s, s), brownDennisBFGSCentralDot(y, y))
+}
+
+// brownDennisBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownDennisBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownDennisBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

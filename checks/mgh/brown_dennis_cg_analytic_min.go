@@ -654,20 +654,23 @@ func (s *brownDennisCGAnalyticDirection) compute(g, d *[4]float64) {
 // number, leaves b as it was.
 func (s *brownDennisCGAnalyticDirection) update(step, change *[4]float64) {
 	s.change = *change
-	sy := brownDennisCGAnalyticDot(step, change)
-	if !brownDennisCGAnalyticCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !brownDennisCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := brownDennisCGAnalyticDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func brownDennisCGAnalyticLarger(a, b float64) float64 {
 	return b
 }
 
-// brownDennisCGAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func brownDennisCGAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/brownDennisCGAnalyticDot(s, s))*(sy/brownDennisCGAnalyticDot(y, y)) > brownDennisCGAnalyticUnitRoundoff
+// brownDennisCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownDennisCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownDennisCGAnalyticUnitRoundoff
 }
 
 // brownDennisCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with

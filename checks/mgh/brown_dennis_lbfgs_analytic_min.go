@@ -685,7 +685,13 @@ func brownDennisLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 // brownDennisLBFGSAnalyticCurvatureSafeWith is brownDennisLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownDennisLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/brownDennisLBFGSAnalyticDot(s, s))*(sy/brownDennisLBFGSAnalyticDot(y, y)) > brownDennisLBFGSAnalyticUnitRoundoff
+	return brownDennisLBFGSAnalyticCurvatureSafeFrom(sy, brownDennisLBFGSAnalyticDot(s, s), brownDennisLBFGSAnalyticDot(y, y))
+}
+
+// brownDennisLBFGSAnalyticCurvatureSafeFrom is brownDennisLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownDennisLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownDennisLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func brownDennisLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 // brownDennisLBFGSCentralCurvatureSafeWith is brownDennisLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func brownDennisLBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/brownDennisLBFGSCentralDot(s, s))*(sy/brownDennisLBFGSCentralDot(y, y)) > brownDennisLBFGSCentralUnitRoundoff
+	return brownDennisLBFGSCentralCurvatureSafeFrom(sy, brownDennisLBFGSCentralDot(s, s), brownDennisLBFGSCentralDot(y, y))
+}
+
+// brownDennisLBFGSCentralCurvatureSafeFrom is brownDennisLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func brownDennisLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > brownDennisLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

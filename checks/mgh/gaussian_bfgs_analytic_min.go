@@ -652,7 +652,13 @@ func gaussianBFGSAnalyticDot(a, b *[3]float64) float64 {
 // gaussianBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gaussianBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gaussianBFGSAnalyticDot(s, s))*(sy/gaussianBFGSAnalyticDot(y, y)) > gaussianBFGSAnalyticUnitRoundoff
+	return gaussianBFGSAnalyticCurvatureSafeFrom(sy, gaussianBFGSAnalyticDot(s, s), gaussianBFGSAnalyticDot(y, y))
+}
+
+// gaussianBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gaussianBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gaussianBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

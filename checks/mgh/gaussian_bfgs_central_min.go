@@ -652,7 +652,13 @@ func gaussianBFGSCentralDot(a, b *[3]float64) float64 {
 // gaussianBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gaussianBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gaussianBFGSCentralDot(s, s))*(sy/gaussianBFGSCentralDot(y, y)) > gaussianBFGSCentralUnitRoundoff
+	return gaussianBFGSCentralCurvatureSafeFrom(sy, gaussianBFGSCentralDot(s, s), gaussianBFGSCentralDot(y, y))
+}
+
+// gaussianBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gaussianBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gaussianBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

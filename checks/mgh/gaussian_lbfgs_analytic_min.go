@@ -685,7 +685,13 @@ func gaussianLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 // gaussianLBFGSAnalyticCurvatureSafeWith is gaussianLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gaussianLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gaussianLBFGSAnalyticDot(s, s))*(sy/gaussianLBFGSAnalyticDot(y, y)) > gaussianLBFGSAnalyticUnitRoundoff
+	return gaussianLBFGSAnalyticCurvatureSafeFrom(sy, gaussianLBFGSAnalyticDot(s, s), gaussianLBFGSAnalyticDot(y, y))
+}
+
+// gaussianLBFGSAnalyticCurvatureSafeFrom is gaussianLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gaussianLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gaussianLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func gaussianLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 // gaussianLBFGSCentralCurvatureSafeWith is gaussianLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gaussianLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gaussianLBFGSCentralDot(s, s))*(sy/gaussianLBFGSCentralDot(y, y)) > gaussianLBFGSCentralUnitRoundoff
+	return gaussianLBFGSCentralCurvatureSafeFrom(sy, gaussianLBFGSCentralDot(s, s), gaussianLBFGSCentralDot(y, y))
+}
+
+// gaussianLBFGSCentralCurvatureSafeFrom is gaussianLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gaussianLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gaussianLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

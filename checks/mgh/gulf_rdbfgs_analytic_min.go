@@ -652,7 +652,13 @@ func gulfRDBFGSAnalyticDot(a, b *[3]float64) float64 {
 // gulfRDBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gulfRDBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gulfRDBFGSAnalyticDot(s, s))*(sy/gulfRDBFGSAnalyticDot(y, y)) > gulfRDBFGSAnalyticUnitRoundoff
+	return gulfRDBFGSAnalyticCurvatureSafeFrom(sy, gulfRDBFGSAnalyticDot(s, s), gulfRDBFGSAnalyticDot(y, y))
+}
+
+// gulfRDBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gulfRDBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gulfRDBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func gulfRDBFGSCentralDot(a, b *[3]float64) float64 {
 // gulfRDBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gulfRDBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gulfRDBFGSCentralDot(s, s))*(sy/gulfRDBFGSCentralDot(y, y)) > gulfRDBFGSCentralUnitRoundoff
+	return gulfRDBFGSCentralCurvatureSafeFrom(sy, gulfRDBFGSCentralDot(s, s), gulfRDBFGSCentralDot(y, y))
+}
+
+// gulfRDBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gulfRDBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gulfRDBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func gulfRDLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 // gulfRDLBFGSAnalyticCurvatureSafeWith is gulfRDLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gulfRDLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gulfRDLBFGSAnalyticDot(s, s))*(sy/gulfRDLBFGSAnalyticDot(y, y)) > gulfRDLBFGSAnalyticUnitRoundoff
+	return gulfRDLBFGSAnalyticCurvatureSafeFrom(sy, gulfRDLBFGSAnalyticDot(s, s), gulfRDLBFGSAnalyticDot(y, y))
+}
+
+// gulfRDLBFGSAnalyticCurvatureSafeFrom is gulfRDLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gulfRDLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gulfRDLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

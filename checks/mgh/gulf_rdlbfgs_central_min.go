@@ -685,7 +685,13 @@ func gulfRDLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 // gulfRDLBFGSCentralCurvatureSafeWith is gulfRDLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func gulfRDLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/gulfRDLBFGSCentralDot(s, s))*(sy/gulfRDLBFGSCentralDot(y, y)) > gulfRDLBFGSCentralUnitRoundoff
+	return gulfRDLBFGSCentralCurvatureSafeFrom(sy, gulfRDLBFGSCentralDot(s, s), gulfRDLBFGSCentralDot(y, y))
+}
+
+// gulfRDLBFGSCentralCurvatureSafeFrom is gulfRDLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func gulfRDLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > gulfRDLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

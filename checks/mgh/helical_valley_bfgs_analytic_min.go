@@ -652,7 +652,13 @@ func helicalValleyBFGSAnalyticDot(a, b *[3]float64) float64 {
 // helicalValleyBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func helicalValleyBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/helicalValleyBFGSAnalyticDot(s, s))*(sy/helicalValleyBFGSAnalyticDot(y, y)) > helicalValleyBFGSAnalyticUnitRoundoff
+	return helicalValleyBFGSAnalyticCurvatureSafeFrom(sy, helicalValleyBFGSAnalyticDot(s, s), helicalValleyBFGSAnalyticDot(y, y))
+}
+
+// helicalValleyBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func helicalValleyBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > helicalValleyBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

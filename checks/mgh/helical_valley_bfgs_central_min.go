@@ -652,7 +652,13 @@ func helicalValleyBFGSCentralDot(a, b *[3]float64) float64 {
 // helicalValleyBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func helicalValleyBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/helicalValleyBFGSCentralDot(s, s))*(sy/helicalValleyBFGSCentralDot(y, y)) > helicalValleyBFGSCentralUnitRoundoff
+	return helicalValleyBFGSCentralCurvatureSafeFrom(sy, helicalValleyBFGSCentralDot(s, s), helicalValleyBFGSCentralDot(y, y))
+}
+
+// helicalValleyBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func helicalValleyBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > helicalValleyBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func helicalValleyLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 // helicalValleyLBFGSAnalyticCurvatureSafeWith is helicalValleyLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func helicalValleyLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/helicalValleyLBFGSAnalyticDot(s, s))*(sy/helicalValleyLBFGSAnalyticDot(y, y)) > helicalValleyLBFGSAnalyticUnitRoundoff
+	return helicalValleyLBFGSAnalyticCurvatureSafeFrom(sy, helicalValleyLBFGSAnalyticDot(s, s), helicalValleyLBFGSAnalyticDot(y, y))
+}
+
+// helicalValleyLBFGSAnalyticCurvatureSafeFrom is helicalValleyLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func helicalValleyLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > helicalValleyLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

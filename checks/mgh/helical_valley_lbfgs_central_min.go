@@ -685,7 +685,13 @@ func helicalValleyLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 // helicalValleyLBFGSCentralCurvatureSafeWith is helicalValleyLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func helicalValleyLBFGSCentralCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/helicalValleyLBFGSCentralDot(s, s))*(sy/helicalValleyLBFGSCentralDot(y, y)) > helicalValleyLBFGSCentralUnitRoundoff
+	return helicalValleyLBFGSCentralCurvatureSafeFrom(sy, helicalValleyLBFGSCentralDot(s, s), helicalValleyLBFGSCentralDot(y, y))
+}
+
+// helicalValleyLBFGSCentralCurvatureSafeFrom is helicalValleyLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func helicalValleyLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > helicalValleyLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func penaltyI10BFGSAnalyticDot(a, b *[10]float64) float64 {
 // penaltyI10BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI10BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyI10BFGSAnalyticDot(s, s))*(sy/penaltyI10BFGSAnalyticDot(y, y)) > penaltyI10BFGSAnalyticUnitRoundoff
+	return penaltyI10BFGSAnalyticCurvatureSafeFrom(sy, penaltyI10BFGSAnalyticDot(s, s), penaltyI10BFGSAnalyticDot(y, y))
+}
+
+// penaltyI10BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI10BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI10BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func penaltyI10BFGSCentralDot(a, b *[10]float64) float64 {
 // penaltyI10BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI10BFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyI10BFGSCentralDot(s, s))*(sy/penaltyI10BFGSCentralDot(y, y)) > penaltyI10BFGSCentralUnitRoundoff
+	return penaltyI10BFGSCentralCurvatureSafeFrom(sy, penaltyI10BFGSCentralDot(s, s), penaltyI10BFGSCentralDot(y, y))
+}
+
+// penaltyI10BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI10BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI10BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

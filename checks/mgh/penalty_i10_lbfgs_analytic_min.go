@@ -685,7 +685,13 @@ func penaltyI10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 // penaltyI10LBFGSAnalyticCurvatureSafeWith is penaltyI10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyI10LBFGSAnalyticDot(s, s))*(sy/penaltyI10LBFGSAnalyticDot(y, y)) > penaltyI10LBFGSAnalyticUnitRoundoff
+	return penaltyI10LBFGSAnalyticCurvatureSafeFrom(sy, penaltyI10LBFGSAnalyticDot(s, s), penaltyI10LBFGSAnalyticDot(y, y))
+}
+
+// penaltyI10LBFGSAnalyticCurvatureSafeFrom is penaltyI10LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI10LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI10LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

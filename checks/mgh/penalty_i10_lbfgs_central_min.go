@@ -685,7 +685,13 @@ func penaltyI10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 // penaltyI10LBFGSCentralCurvatureSafeWith is penaltyI10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyI10LBFGSCentralDot(s, s))*(sy/penaltyI10LBFGSCentralDot(y, y)) > penaltyI10LBFGSCentralUnitRoundoff
+	return penaltyI10LBFGSCentralCurvatureSafeFrom(sy, penaltyI10LBFGSCentralDot(s, s), penaltyI10LBFGSCentralDot(y, y))
+}
+
+// penaltyI10LBFGSCentralCurvatureSafeFrom is penaltyI10LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI10LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI10LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

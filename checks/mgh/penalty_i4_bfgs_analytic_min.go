@@ -652,7 +652,13 @@ func penaltyI4BFGSAnalyticDot(a, b *[4]float64) float64 {
 // penaltyI4BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI4BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyI4BFGSAnalyticDot(s, s))*(sy/penaltyI4BFGSAnalyticDot(y, y)) > penaltyI4BFGSAnalyticUnitRoundoff
+	return penaltyI4BFGSAnalyticCurvatureSafeFrom(sy, penaltyI4BFGSAnalyticDot(s, s), penaltyI4BFGSAnalyticDot(y, y))
+}
+
+// penaltyI4BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI4BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

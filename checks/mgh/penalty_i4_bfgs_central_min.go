@@ -652,7 +652,13 @@ func penaltyI4BFGSCentralDot(a, b *[4]float64) float64 {
 // penaltyI4BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI4BFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyI4BFGSCentralDot(s, s))*(sy/penaltyI4BFGSCentralDot(y, y)) > penaltyI4BFGSCentralUnitRoundoff
+	return penaltyI4BFGSCentralCurvatureSafeFrom(sy, penaltyI4BFGSCentralDot(s, s), penaltyI4BFGSCentralDot(y, y))
+}
+
+// penaltyI4BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI4BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *penaltyI4CGCentralDirection) compute(g, d *[4]float64) {
 // number, leaves b as it was.
 func (s *penaltyI4CGCentralDirection) update(step, change *[4]float64) {
 	s.change = *change
-	sy := penaltyI4CGCentralDot(step, change)
-	if !penaltyI4CGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !penaltyI4CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := penaltyI4CGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func penaltyI4CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyI4CGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func penaltyI4CGCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyI4CGCentralDot(s, s))*(sy/penaltyI4CGCentralDot(y, y)) > penaltyI4CGCentralUnitRoundoff
+// penaltyI4CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI4CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4CGCentralUnitRoundoff
 }
 
 // penaltyI4CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -685,7 +685,13 @@ func penaltyI4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 // penaltyI4LBFGSAnalyticCurvatureSafeWith is penaltyI4LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI4LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyI4LBFGSAnalyticDot(s, s))*(sy/penaltyI4LBFGSAnalyticDot(y, y)) > penaltyI4LBFGSAnalyticUnitRoundoff
+	return penaltyI4LBFGSAnalyticCurvatureSafeFrom(sy, penaltyI4LBFGSAnalyticDot(s, s), penaltyI4LBFGSAnalyticDot(y, y))
+}
+
+// penaltyI4LBFGSAnalyticCurvatureSafeFrom is penaltyI4LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI4LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func penaltyI4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 // penaltyI4LBFGSCentralCurvatureSafeWith is penaltyI4LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyI4LBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyI4LBFGSCentralDot(s, s))*(sy/penaltyI4LBFGSCentralDot(y, y)) > penaltyI4LBFGSCentralUnitRoundoff
+	return penaltyI4LBFGSCentralCurvatureSafeFrom(sy, penaltyI4LBFGSCentralDot(s, s), penaltyI4LBFGSCentralDot(y, y))
+}
+
+// penaltyI4LBFGSCentralCurvatureSafeFrom is penaltyI4LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyI4LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

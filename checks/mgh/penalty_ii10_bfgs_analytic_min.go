@@ -652,7 +652,13 @@ func penaltyII10BFGSAnalyticDot(a, b *[10]float64) float64 {
 // penaltyII10BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII10BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyII10BFGSAnalyticDot(s, s))*(sy/penaltyII10BFGSAnalyticDot(y, y)) > penaltyII10BFGSAnalyticUnitRoundoff
+	return penaltyII10BFGSAnalyticCurvatureSafeFrom(sy, penaltyII10BFGSAnalyticDot(s, s), penaltyII10BFGSAnalyticDot(y, y))
+}
+
+// penaltyII10BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII10BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

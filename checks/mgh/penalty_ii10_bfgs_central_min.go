@@ -652,7 +652,13 @@ func penaltyII10BFGSCentralDot(a, b *[10]float64) float64 {
 // penaltyII10BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII10BFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyII10BFGSCentralDot(s, s))*(sy/penaltyII10BFGSCentralDot(y, y)) > penaltyII10BFGSCentralUnitRoundoff
+	return penaltyII10BFGSCentralCurvatureSafeFrom(sy, penaltyII10BFGSCentralDot(s, s), penaltyII10BFGSCentralDot(y, y))
+}
+
+// penaltyII10BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII10BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

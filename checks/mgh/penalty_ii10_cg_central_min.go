@@ -654,20 +654,23 @@ func (s *penaltyII10CGCentralDirection) compute(g, d *[10]float64) {
 // number, leaves b as it was.
 func (s *penaltyII10CGCentralDirection) update(step, change *[10]float64) {
 	s.change = *change
-	sy := penaltyII10CGCentralDot(step, change)
-	if !penaltyII10CGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !penaltyII10CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := penaltyII10CGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func penaltyII10CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII10CGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func penaltyII10CGCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyII10CGCentralDot(s, s))*(sy/penaltyII10CGCentralDot(y, y)) > penaltyII10CGCentralUnitRoundoff
+// penaltyII10CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII10CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10CGCentralUnitRoundoff
 }
 
 // penaltyII10CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

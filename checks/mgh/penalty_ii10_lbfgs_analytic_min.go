@@ -685,7 +685,13 @@ func penaltyII10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 // penaltyII10LBFGSAnalyticCurvatureSafeWith is penaltyII10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyII10LBFGSAnalyticDot(s, s))*(sy/penaltyII10LBFGSAnalyticDot(y, y)) > penaltyII10LBFGSAnalyticUnitRoundoff
+	return penaltyII10LBFGSAnalyticCurvatureSafeFrom(sy, penaltyII10LBFGSAnalyticDot(s, s), penaltyII10LBFGSAnalyticDot(y, y))
+}
+
+// penaltyII10LBFGSAnalyticCurvatureSafeFrom is penaltyII10LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII10LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

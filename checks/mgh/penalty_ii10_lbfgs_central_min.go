@@ -685,7 +685,13 @@ func penaltyII10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 // penaltyII10LBFGSCentralCurvatureSafeWith is penaltyII10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/penaltyII10LBFGSCentralDot(s, s))*(sy/penaltyII10LBFGSCentralDot(y, y)) > penaltyII10LBFGSCentralUnitRoundoff
+	return penaltyII10LBFGSCentralCurvatureSafeFrom(sy, penaltyII10LBFGSCentralDot(s, s), penaltyII10LBFGSCentralDot(y, y))
+}
+
+// penaltyII10LBFGSCentralCurvatureSafeFrom is penaltyII10LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII10LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func penaltyII4BFGSAnalyticDot(a, b *[4]float64) float64 {
 // penaltyII4BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII4BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyII4BFGSAnalyticDot(s, s))*(sy/penaltyII4BFGSAnalyticDot(y, y)) > penaltyII4BFGSAnalyticUnitRoundoff
+	return penaltyII4BFGSAnalyticCurvatureSafeFrom(sy, penaltyII4BFGSAnalyticDot(s, s), penaltyII4BFGSAnalyticDot(y, y))
+}
+
+// penaltyII4BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII4BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII4BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func penaltyII4BFGSCentralDot(a, b *[4]float64) float64 {
 // penaltyII4BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII4BFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyII4BFGSCentralDot(s, s))*(sy/penaltyII4BFGSCentralDot(y, y)) > penaltyII4BFGSCentralUnitRoundoff
+	return penaltyII4BFGSCentralCurvatureSafeFrom(sy, penaltyII4BFGSCentralDot(s, s), penaltyII4BFGSCentralDot(y, y))
+}
+
+// penaltyII4BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII4BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII4BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

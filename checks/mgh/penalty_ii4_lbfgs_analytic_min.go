@@ -685,7 +685,13 @@ func penaltyII4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 // penaltyII4LBFGSAnalyticCurvatureSafeWith is penaltyII4LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII4LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyII4LBFGSAnalyticDot(s, s))*(sy/penaltyII4LBFGSAnalyticDot(y, y)) > penaltyII4LBFGSAnalyticUnitRoundoff
+	return penaltyII4LBFGSAnalyticCurvatureSafeFrom(sy, penaltyII4LBFGSAnalyticDot(s, s), penaltyII4LBFGSAnalyticDot(y, y))
+}
+
+// penaltyII4LBFGSAnalyticCurvatureSafeFrom is penaltyII4LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII4LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII4LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func penaltyII4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 // penaltyII4LBFGSCentralCurvatureSafeWith is penaltyII4LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func penaltyII4LBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/penaltyII4LBFGSCentralDot(s, s))*(sy/penaltyII4LBFGSCentralDot(y, y)) > penaltyII4LBFGSCentralUnitRoundoff
+	return penaltyII4LBFGSCentralCurvatureSafeFrom(sy, penaltyII4LBFGSCentralDot(s, s), penaltyII4LBFGSCentralDot(y, y))
+}
+
+// penaltyII4LBFGSCentralCurvatureSafeFrom is penaltyII4LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func penaltyII4LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII4LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func powellBadlyScaledBFGSAnalyticDot(a, b *[2]float64) float64 {
 // powellBadlyScaledBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellBadlyScaledBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/powellBadlyScaledBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledBFGSAnalyticDot(y, y)) > powellBadlyScaledBFGSAnalyticUnitRoundoff
+	return powellBadlyScaledBFGSAnalyticCurvatureSafeFrom(sy, powellBadlyScaledBFGSAnalyticDot(s, s), powellBadlyScaledBFGSAnalyticDot(y, y))
+}
+
+// powellBadlyScaledBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellBadlyScaledBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellBadlyScaledBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

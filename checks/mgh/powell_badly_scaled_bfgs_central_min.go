@@ -652,7 +652,13 @@ func powellBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
 // powellBadlyScaledBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellBadlyScaledBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/powellBadlyScaledBFGSCentralDot(s, s))*(sy/powellBadlyScaledBFGSCentralDot(y, y)) > powellBadlyScaledBFGSCentralUnitRoundoff
+	return powellBadlyScaledBFGSCentralCurvatureSafeFrom(sy, powellBadlyScaledBFGSCentralDot(s, s), powellBadlyScaledBFGSCentralDot(y, y))
+}
+
+// powellBadlyScaledBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellBadlyScaledBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellBadlyScaledBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

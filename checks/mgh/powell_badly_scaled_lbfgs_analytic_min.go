@@ -685,7 +685,13 @@ func powellBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 // powellBadlyScaledLBFGSAnalyticCurvatureSafeWith is powellBadlyScaledLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellBadlyScaledLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/powellBadlyScaledLBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledLBFGSAnalyticDot(y, y)) > powellBadlyScaledLBFGSAnalyticUnitRoundoff
+	return powellBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, powellBadlyScaledLBFGSAnalyticDot(s, s), powellBadlyScaledLBFGSAnalyticDot(y, y))
+}
+
+// powellBadlyScaledLBFGSAnalyticCurvatureSafeFrom is powellBadlyScaledLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func powellBadlyScaledLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 // powellBadlyScaledLBFGSCentralCurvatureSafeWith is powellBadlyScaledLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellBadlyScaledLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/powellBadlyScaledLBFGSCentralDot(s, s))*(sy/powellBadlyScaledLBFGSCentralDot(y, y)) > powellBadlyScaledLBFGSCentralUnitRoundoff
+	return powellBadlyScaledLBFGSCentralCurvatureSafeFrom(sy, powellBadlyScaledLBFGSCentralDot(s, s), powellBadlyScaledLBFGSCentralDot(y, y))
+}
+
+// powellBadlyScaledLBFGSCentralCurvatureSafeFrom is powellBadlyScaledLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellBadlyScaledLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellBadlyScaledLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func powellSingularBFGSAnalyticDot(a, b *[4]float64) float64 {
 // powellSingularBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellSingularBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/powellSingularBFGSAnalyticDot(s, s))*(sy/powellSingularBFGSAnalyticDot(y, y)) > powellSingularBFGSAnalyticUnitRoundoff
+	return powellSingularBFGSAnalyticCurvatureSafeFrom(sy, powellSingularBFGSAnalyticDot(s, s), powellSingularBFGSAnalyticDot(y, y))
+}
+
+// powellSingularBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellSingularBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellSingularBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

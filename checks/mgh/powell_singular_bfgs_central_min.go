@@ -652,7 +652,13 @@ func powellSingularBFGSCentralDot(a, b *[4]float64) float64 {
 // powellSingularBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellSingularBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/powellSingularBFGSCentralDot(s, s))*(sy/powellSingularBFGSCentralDot(y, y)) > powellSingularBFGSCentralUnitRoundoff
+	return powellSingularBFGSCentralCurvatureSafeFrom(sy, powellSingularBFGSCentralDot(s, s), powellSingularBFGSCentralDot(y, y))
+}
+
+// powellSingularBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellSingularBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellSingularBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

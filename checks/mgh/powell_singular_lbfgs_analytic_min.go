@@ -685,7 +685,13 @@ func powellSingularLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 // powellSingularLBFGSAnalyticCurvatureSafeWith is powellSingularLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellSingularLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/powellSingularLBFGSAnalyticDot(s, s))*(sy/powellSingularLBFGSAnalyticDot(y, y)) > powellSingularLBFGSAnalyticUnitRoundoff
+	return powellSingularLBFGSAnalyticCurvatureSafeFrom(sy, powellSingularLBFGSAnalyticDot(s, s), powellSingularLBFGSAnalyticDot(y, y))
+}
+
+// powellSingularLBFGSAnalyticCurvatureSafeFrom is powellSingularLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellSingularLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellSingularLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func powellSingularLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 // powellSingularLBFGSCentralCurvatureSafeWith is powellSingularLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func powellSingularLBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/powellSingularLBFGSCentralDot(s, s))*(sy/powellSingularLBFGSCentralDot(y, y)) > powellSingularLBFGSCentralUnitRoundoff
+	return powellSingularLBFGSCentralCurvatureSafeFrom(sy, powellSingularLBFGSCentralDot(s, s), powellSingularLBFGSCentralDot(y, y))
+}
+
+// powellSingularLBFGSCentralCurvatureSafeFrom is powellSingularLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func powellSingularLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > powellSingularLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func rosenbrockBFGSAnalyticDot(a, b *[2]float64) float64 {
 // rosenbrockBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func rosenbrockBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/rosenbrockBFGSAnalyticDot(s, s))*(sy/rosenbrockBFGSAnalyticDot(y, y)) > rosenbrockBFGSAnalyticUnitRoundoff
+	return rosenbrockBFGSAnalyticCurvatureSafeFrom(sy, rosenbrockBFGSAnalyticDot(s, s), rosenbrockBFGSAnalyticDot(y, y))
+}
+
+// rosenbrockBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func rosenbrockBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > rosenbrockBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func rosenbrockBFGSCentralDot(a, b *[2]float64) float64 {
 // rosenbrockBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func rosenbrockBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/rosenbrockBFGSCentralDot(s, s))*(sy/rosenbrockBFGSCentralDot(y, y)) > rosenbrockBFGSCentralUnitRoundoff
+	return rosenbrockBFGSCentralCurvatureSafeFrom(sy, rosenbrockBFGSCentralDot(s, s), rosenbrockBFGSCentralDot(y, y))
+}
+
+// rosenbrockBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func rosenbrockBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > rosenbrockBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func rosenbrockLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 // rosenbrockLBFGSAnalyticCurvatureSafeWith is rosenbrockLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func rosenbrockLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/rosenbrockLBFGSAnalyticDot(s, s))*(sy/rosenbrockLBFGSAnalyticDot(y, y)) > rosenbrockLBFGSAnalyticUnitRoundoff
+	return rosenbrockLBFGSAnalyticCurvatureSafeFrom(sy, rosenbrockLBFGSAnalyticDot(s, s), rosenbrockLBFGSAnalyticDot(y, y))
+}
+
+// rosenbrockLBFGSAnalyticCurvatureSafeFrom is rosenbrockLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func rosenbrockLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > rosenbrockLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

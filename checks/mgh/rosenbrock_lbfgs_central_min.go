@@ -685,7 +685,13 @@ func rosenbrockLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 // rosenbrockLBFGSCentralCurvatureSafeWith is rosenbrockLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func rosenbrockLBFGSCentralCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/rosenbrockLBFGSCentralDot(s, s))*(sy/rosenbrockLBFGSCentralDot(y, y)) > rosenbrockLBFGSCentralUnitRoundoff
+	return rosenbrockLBFGSCentralCurvatureSafeFrom(sy, rosenbrockLBFGSCentralDot(s, s), rosenbrockLBFGSCentralDot(y, y))
+}
+
+// rosenbrockLBFGSCentralCurvatureSafeFrom is rosenbrockLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func rosenbrockLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > rosenbrockLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func trigonometric10BFGSAnalyticDot(a, b *[10]float64) float64 {
 // trigonometric10BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func trigonometric10BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/trigonometric10BFGSAnalyticDot(s, s))*(sy/trigonometric10BFGSAnalyticDot(y, y)) > trigonometric10BFGSAnalyticUnitRoundoff
+	return trigonometric10BFGSAnalyticCurvatureSafeFrom(sy, trigonometric10BFGSAnalyticDot(s, s), trigonometric10BFGSAnalyticDot(y, y))
+}
+
+// trigonometric10BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func trigonometric10BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

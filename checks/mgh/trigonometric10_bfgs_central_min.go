@@ -652,7 +652,13 @@ func trigonometric10BFGSCentralDot(a, b *[10]float64) float64 {
 // trigonometric10BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func trigonometric10BFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/trigonometric10BFGSCentralDot(s, s))*(sy/trigonometric10BFGSCentralDot(y, y)) > trigonometric10BFGSCentralUnitRoundoff
+	return trigonometric10BFGSCentralCurvatureSafeFrom(sy, trigonometric10BFGSCentralDot(s, s), trigonometric10BFGSCentralDot(y, y))
+}
+
+// trigonometric10BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func trigonometric10BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -654,20 +654,23 @@ func (s *trigonometric10CGAnalyticDirection) compute(g, d *[10]float64) {
 // number, leaves b as it was.
 func (s *trigonometric10CGAnalyticDirection) update(step, change *[10]float64) {
 	s.change = *change
-	sy := trigonometric10CGAnalyticDot(step, change)
-	if !trigonometric10CGAnalyticCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !trigonometric10CGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := trigonometric10CGAnalyticDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func trigonometric10CGAnalyticLarger(a, b float64) float64 {
 	return b
 }
 
-// trigonometric10CGAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func trigonometric10CGAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/trigonometric10CGAnalyticDot(s, s))*(sy/trigonometric10CGAnalyticDot(y, y)) > trigonometric10CGAnalyticUnitRoundoff
+// trigonometric10CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func trigonometric10CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10CGAnalyticUnitRoundoff
 }
 
 // trigonometric10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -654,20 +654,23 @@ func (s *trigonometric10CGCentralDirection) compute(g, d *[10]float64) {
 // number, leaves b as it was.
 func (s *trigonometric10CGCentralDirection) update(step, change *[10]float64) {
 	s.change = *change
-	sy := trigonometric10CGCentralDot(step, change)
-	if !trigonometric10CGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !trigonometric10CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := trigonometric10CGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func trigonometric10CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// trigonometric10CGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func trigonometric10CGCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/trigonometric10CGCentralDot(s, s))*(sy/trigonometric10CGCentralDot(y, y)) > trigonometric10CGCentralUnitRoundoff
+// trigonometric10CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func trigonometric10CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10CGCentralUnitRoundoff
 }
 
 // trigonometric10CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

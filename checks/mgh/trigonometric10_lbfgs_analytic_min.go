@@ -685,7 +685,13 @@ func trigonometric10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 // trigonometric10LBFGSAnalyticCurvatureSafeWith is trigonometric10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func trigonometric10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/trigonometric10LBFGSAnalyticDot(s, s))*(sy/trigonometric10LBFGSAnalyticDot(y, y)) > trigonometric10LBFGSAnalyticUnitRoundoff
+	return trigonometric10LBFGSAnalyticCurvatureSafeFrom(sy, trigonometric10LBFGSAnalyticDot(s, s), trigonometric10LBFGSAnalyticDot(y, y))
+}
+
+// trigonometric10LBFGSAnalyticCurvatureSafeFrom is trigonometric10LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func trigonometric10LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 // trigonometric10LBFGSCentralCurvatureSafeWith is trigonometric10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func trigonometric10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/trigonometric10LBFGSCentralDot(s, s))*(sy/trigonometric10LBFGSCentralDot(y, y)) > trigonometric10LBFGSCentralUnitRoundoff
+	return trigonometric10LBFGSCentralCurvatureSafeFrom(sy, trigonometric10LBFGSCentralDot(s, s), trigonometric10LBFGSCentralDot(y, y))
+}
+
+// trigonometric10LBFGSCentralCurvatureSafeFrom is trigonometric10LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func trigonometric10LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func variablyDimensioned10BFGSAnalyticDot(a, b *[10]float64) float64 {
 // variablyDimensioned10BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func variablyDimensioned10BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/variablyDimensioned10BFGSAnalyticDot(s, s))*(sy/variablyDimensioned10BFGSAnalyticDot(y, y)) > variablyDimensioned10BFGSAnalyticUnitRoundoff
+	return variablyDimensioned10BFGSAnalyticCurvatureSafeFrom(sy, variablyDimensioned10BFGSAnalyticDot(s, s), variablyDimensioned10BFGSAnalyticDot(y, y))
+}
+
+// variablyDimensioned10BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func variablyDimensioned10BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > variablyDimensioned10BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

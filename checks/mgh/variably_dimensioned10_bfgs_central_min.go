@@ -652,7 +652,13 @@ func variablyDimensioned10BFGSCentralDot(a, b *[10]float64) float64 {
 // variablyDimensioned10BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func variablyDimensioned10BFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/variablyDimensioned10BFGSCentralDot(s, s))*(sy/variablyDimensioned10BFGSCentralDot(y, y)) > variablyDimensioned10BFGSCentralUnitRoundoff
+	return variablyDimensioned10BFGSCentralCurvatureSafeFrom(sy, variablyDimensioned10BFGSCentralDot(s, s), variablyDimensioned10BFGSCentralDot(y, y))
+}
+
+// variablyDimensioned10BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func variablyDimensioned10BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > variablyDimensioned10BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

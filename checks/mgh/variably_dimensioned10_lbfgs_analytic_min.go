@@ -685,7 +685,13 @@ func variablyDimensioned10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 // variablyDimensioned10LBFGSAnalyticCurvatureSafeWith is variablyDimensioned10LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func variablyDimensioned10LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/variablyDimensioned10LBFGSAnalyticDot(s, s))*(sy/variablyDimensioned10LBFGSAnalyticDot(y, y)) > variablyDimensioned10LBFGSAnalyticUnitRoundoff
+	return variablyDimensioned10LBFGSAnalyticCurvatureSafeFrom(sy, variablyDimensioned10LBFGSAnalyticDot(s, s), variablyDimensioned10LBFGSAnalyticDot(y, y))
+}
+
+// variablyDimensioned10LBFGSAnalyticCurvatureSafeFrom is variablyDimensioned10LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func variablyDimensioned10LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > variablyDimensioned10LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

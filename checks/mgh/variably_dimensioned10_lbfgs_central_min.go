@@ -685,7 +685,13 @@ func variablyDimensioned10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 // variablyDimensioned10LBFGSCentralCurvatureSafeWith is variablyDimensioned10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func variablyDimensioned10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return sy > 0 && (sy/variablyDimensioned10LBFGSCentralDot(s, s))*(sy/variablyDimensioned10LBFGSCentralDot(y, y)) > variablyDimensioned10LBFGSCentralUnitRoundoff
+	return variablyDimensioned10LBFGSCentralCurvatureSafeFrom(sy, variablyDimensioned10LBFGSCentralDot(s, s), variablyDimensioned10LBFGSCentralDot(y, y))
+}
+
+// variablyDimensioned10LBFGSCentralCurvatureSafeFrom is variablyDimensioned10LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func variablyDimensioned10LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > variablyDimensioned10LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

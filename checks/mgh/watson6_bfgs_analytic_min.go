@@ -652,7 +652,13 @@ func watson6BFGSAnalyticDot(a, b *[6]float64) float64 {
 // watson6BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson6BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/watson6BFGSAnalyticDot(s, s))*(sy/watson6BFGSAnalyticDot(y, y)) > watson6BFGSAnalyticUnitRoundoff
+	return watson6BFGSAnalyticCurvatureSafeFrom(sy, watson6BFGSAnalyticDot(s, s), watson6BFGSAnalyticDot(y, y))
+}
+
+// watson6BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson6BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson6BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

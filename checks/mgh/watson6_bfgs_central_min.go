@@ -652,7 +652,13 @@ func watson6BFGSCentralDot(a, b *[6]float64) float64 {
 // watson6BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson6BFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/watson6BFGSCentralDot(s, s))*(sy/watson6BFGSCentralDot(y, y)) > watson6BFGSCentralUnitRoundoff
+	return watson6BFGSCentralCurvatureSafeFrom(sy, watson6BFGSCentralDot(s, s), watson6BFGSCentralDot(y, y))
+}
+
+// watson6BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson6BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson6BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

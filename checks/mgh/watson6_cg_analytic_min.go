@@ -654,20 +654,23 @@ func (s *watson6CGAnalyticDirection) compute(g, d *[6]float64) {
 // number, leaves b as it was.
 func (s *watson6CGAnalyticDirection) update(step, change *[6]float64) {
 	s.change = *change
-	sy := watson6CGAnalyticDot(step, change)
-	if !watson6CGAnalyticCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !watson6CGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := watson6CGAnalyticDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func watson6CGAnalyticLarger(a, b float64) float64 {
 	return b
 }
 
-// watson6CGAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func watson6CGAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/watson6CGAnalyticDot(s, s))*(sy/watson6CGAnalyticDot(y, y)) > watson6CGAnalyticUnitRoundoff
+// watson6CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson6CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson6CGAnalyticUnitRoundoff
 }
 
 // watson6CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with

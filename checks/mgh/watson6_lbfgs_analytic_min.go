@@ -685,7 +685,13 @@ func watson6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 // watson6LBFGSAnalyticCurvatureSafeWith is watson6LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson6LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/watson6LBFGSAnalyticDot(s, s))*(sy/watson6LBFGSAnalyticDot(y, y)) > watson6LBFGSAnalyticUnitRoundoff
+	return watson6LBFGSAnalyticCurvatureSafeFrom(sy, watson6LBFGSAnalyticDot(s, s), watson6LBFGSAnalyticDot(y, y))
+}
+
+// watson6LBFGSAnalyticCurvatureSafeFrom is watson6LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson6LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson6LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 // watson6LBFGSCentralCurvatureSafeWith is watson6LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson6LBFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return sy > 0 && (sy/watson6LBFGSCentralDot(s, s))*(sy/watson6LBFGSCentralDot(y, y)) > watson6LBFGSCentralUnitRoundoff
+	return watson6LBFGSCentralCurvatureSafeFrom(sy, watson6LBFGSCentralDot(s, s), watson6LBFGSCentralDot(y, y))
+}
+
+// watson6LBFGSCentralCurvatureSafeFrom is watson6LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson6LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson6LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

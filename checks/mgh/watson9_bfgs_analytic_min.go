@@ -652,7 +652,13 @@ func watson9BFGSAnalyticDot(a, b *[9]float64) float64 {
 // watson9BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson9BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return sy > 0 && (sy/watson9BFGSAnalyticDot(s, s))*(sy/watson9BFGSAnalyticDot(y, y)) > watson9BFGSAnalyticUnitRoundoff
+	return watson9BFGSAnalyticCurvatureSafeFrom(sy, watson9BFGSAnalyticDot(s, s), watson9BFGSAnalyticDot(y, y))
+}
+
+// watson9BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson9BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson9BFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func watson9BFGSCentralDot(a, b *[9]float64) float64 {
 // watson9BFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson9BFGSCentralCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return sy > 0 && (sy/watson9BFGSCentralDot(s, s))*(sy/watson9BFGSCentralDot(y, y)) > watson9BFGSCentralUnitRoundoff
+	return watson9BFGSCentralCurvatureSafeFrom(sy, watson9BFGSCentralDot(s, s), watson9BFGSCentralDot(y, y))
+}
+
+// watson9BFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson9BFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson9BFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

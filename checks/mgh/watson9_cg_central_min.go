@@ -654,20 +654,23 @@ func (s *watson9CGCentralDirection) compute(g, d *[9]float64) {
 // number, leaves b as it was.
 func (s *watson9CGCentralDirection) update(step, change *[9]float64) {
 	s.change = *change
-	sy := watson9CGCentralDot(step, change)
-	if !watson9CGCentralCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !watson9CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := watson9CGCentralDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float64
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -722,10 +725,10 @@ func watson9CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson9CGCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func watson9CGCentralCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return sy > 0 && (sy/watson9CGCentralDot(s, s))*(sy/watson9CGCentralDot(y, y)) > watson9CGCentralUnitRoundoff
+// watson9CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson9CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson9CGCentralUnitRoundoff
 }
 
 // watson9CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -685,7 +685,13 @@ func watson9LBFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 // watson9LBFGSAnalyticCurvatureSafeWith is watson9LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson9LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return sy > 0 && (sy/watson9LBFGSAnalyticDot(s, s))*(sy/watson9LBFGSAnalyticDot(y, y)) > watson9LBFGSAnalyticUnitRoundoff
+	return watson9LBFGSAnalyticCurvatureSafeFrom(sy, watson9LBFGSAnalyticDot(s, s), watson9LBFGSAnalyticDot(y, y))
+}
+
+// watson9LBFGSAnalyticCurvatureSafeFrom is watson9LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson9LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson9LBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func watson9LBFGSCentralCurvatureSafe(s, y *[9]float64) bool {
 // watson9LBFGSCentralCurvatureSafeWith is watson9LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func watson9LBFGSCentralCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return sy > 0 && (sy/watson9LBFGSCentralDot(s, s))*(sy/watson9LBFGSCentralDot(y, y)) > watson9LBFGSCentralUnitRoundoff
+	return watson9LBFGSCentralCurvatureSafeFrom(sy, watson9LBFGSCentralDot(s, s), watson9LBFGSCentralDot(y, y))
+}
+
+// watson9LBFGSCentralCurvatureSafeFrom is watson9LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func watson9LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > watson9LBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func woodBFGSAnalyticDot(a, b *[4]float64) float64 {
 // woodBFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func woodBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/woodBFGSAnalyticDot(s, s))*(sy/woodBFGSAnalyticDot(y, y)) > woodBFGSAnalyticUnitRoundoff
+	return woodBFGSAnalyticCurvatureSafeFrom(sy, woodBFGSAnalyticDot(s, s), woodBFGSAnalyticDot(y, y))
+}
+
+// woodBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func woodBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > woodBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func woodBFGSCentralDot(a, b *[4]float64) float64 {
 // woodBFGSCentralCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func woodBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/woodBFGSCentralDot(s, s))*(sy/woodBFGSCentralDot(y, y)) > woodBFGSCentralUnitRoundoff
+	return woodBFGSCentralCurvatureSafeFrom(sy, woodBFGSCentralDot(s, s), woodBFGSCentralDot(y, y))
+}
+
+// woodBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func woodBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > woodBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

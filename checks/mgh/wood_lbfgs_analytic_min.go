@@ -685,7 +685,13 @@ func woodLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 // woodLBFGSAnalyticCurvatureSafeWith is woodLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func woodLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/woodLBFGSAnalyticDot(s, s))*(sy/woodLBFGSAnalyticDot(y, y)) > woodLBFGSAnalyticUnitRoundoff
+	return woodLBFGSAnalyticCurvatureSafeFrom(sy, woodLBFGSAnalyticDot(s, s), woodLBFGSAnalyticDot(y, y))
+}
+
+// woodLBFGSAnalyticCurvatureSafeFrom is woodLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func woodLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > woodLBFGSAnalyticUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -685,7 +685,13 @@ func woodLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 // woodLBFGSCentralCurvatureSafeWith is woodLBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func woodLBFGSCentralCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return sy > 0 && (sy/woodLBFGSCentralDot(s, s))*(sy/woodLBFGSCentralDot(y, y)) > woodLBFGSCentralUnitRoundoff
+	return woodLBFGSCentralCurvatureSafeFrom(sy, woodLBFGSCentralDot(s, s), woodLBFGSCentralDot(y, y))
+}
+
+// woodLBFGSCentralCurvatureSafeFrom is woodLBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func woodLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > woodLBFGSCentralUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

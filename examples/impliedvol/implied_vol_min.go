@@ -662,7 +662,13 @@ func impliedVolDot(a, b *[1]float64) float64 {
 // impliedVolCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func impliedVolCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/impliedVolDot(s, s))*(sy/impliedVolDot(y, y)) > impliedVolUnitRoundoff
+	return impliedVolCurvatureSafeFrom(sy, impliedVolDot(s, s), impliedVolDot(y, y))
+}
+
+// impliedVolCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func impliedVolCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > impliedVolUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func calibrateDot(a, b *[2]float64) float64 {
 // calibrateCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func calibrateCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/calibrateDot(s, s))*(sy/calibrateDot(y, y)) > calibrateUnitRoundoff
+	return calibrateCurvatureSafeFrom(sy, calibrateDot(s, s), calibrateDot(y, y))
+}
+
+// calibrateCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func calibrateCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > calibrateUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func tuneGainDot(a, b *[1]float64) float64 {
 // tuneGainCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func tuneGainCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/tuneGainDot(s, s))*(sy/tuneGainDot(y, y)) > tuneGainUnitRoundoff
+	return tuneGainCurvatureSafeFrom(sy, tuneGainDot(s, s), tuneGainDot(y, y))
+}
+
+// tuneGainCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func tuneGainCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > tuneGainUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

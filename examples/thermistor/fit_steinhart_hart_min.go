@@ -679,7 +679,13 @@ func fitSteinhartHartDot(a, b *[3]float64) float64 {
 // fitSteinhartHartCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func fitSteinhartHartCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/fitSteinhartHartDot(s, s))*(sy/fitSteinhartHartDot(y, y)) > fitSteinhartHartUnitRoundoff
+	return fitSteinhartHartCurvatureSafeFrom(sy, fitSteinhartHartDot(s, s), fitSteinhartHartDot(y, y))
+}
+
+// fitSteinhartHartCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func fitSteinhartHartCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > fitSteinhartHartUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -662,7 +662,13 @@ func reachDot(a, b *[2]float32) float32 {
 // reachCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func reachCurvatureSafeWith(sy float32, s, y *[2]float32) bool {
-	return sy > 0 && (sy/reachDot(s, s))*(sy/reachDot(y, y)) > reachUnitRoundoff
+	return reachCurvatureSafeFrom(sy, reachDot(s, s), reachDot(y, y))
+}
+
+// reachCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func reachCurvatureSafeFrom(sy, ss, yy float32) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > reachUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

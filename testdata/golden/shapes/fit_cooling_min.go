@@ -993,7 +993,13 @@ func fitCoolingDot(a, b *[3]float64) float64 {
 // fitCoolingCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func fitCoolingCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return sy > 0 && (sy/fitCoolingDot(s, s))*(sy/fitCoolingDot(y, y)) > fitCoolingUnitRoundoff
+	return fitCoolingCurvatureSafeFrom(sy, fitCoolingDot(s, s), fitCoolingDot(y, y))
+}
+
+// fitCoolingCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func fitCoolingCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > fitCoolingUnitRoundoff
 }
 
 // fitCoolingGradientChange sets out = a − b.

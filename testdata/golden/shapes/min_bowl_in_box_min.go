@@ -662,7 +662,13 @@ func minBowlInBoxDot(a, b *[3]float32) float32 {
 // minBowlInBoxCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func minBowlInBoxCurvatureSafeWith(sy float32, s, y *[3]float32) bool {
-	return sy > 0 && (sy/minBowlInBoxDot(s, s))*(sy/minBowlInBoxDot(y, y)) > minBowlInBoxUnitRoundoff
+	return minBowlInBoxCurvatureSafeFrom(sy, minBowlInBoxDot(s, s), minBowlInBoxDot(y, y))
+}
+
+// minBowlInBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func minBowlInBoxCurvatureSafeFrom(sy, ss, yy float32) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > minBowlInBoxUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -655,20 +655,23 @@ func (s *minBowlDirection) compute(g, d *[3]float32) {
 // number, leaves b as it was.
 func (s *minBowlDirection) update(step, change *[3]float32) {
 	s.change = *change
-	sy := minBowlDot(step, change)
-	if !minBowlCurvatureSafeWith(sy, step, change) {
+	var sy, ss, yy, sbs float32 // one pass over the pair for all four products
+	for i := range step {
+		sy += step[i] * change[i]
+		ss += step[i] * step[i]
+		yy += change[i] * change[i]
+		sbs += s.curvature[i] * step[i] * step[i]
+	}
+	if !minBowlCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := minBowlDot(change, change) / sy // inverse of N&W eq. 6.20
+		gamma := yy / sy // inverse of N&W eq. 6.20
 		for i := range s.curvature {
 			s.curvature[i] = gamma
 		}
+		sbs = gamma * ss
 		s.scaled = true
-	}
-	var sbs float32
-	for i := range step {
-		sbs += s.curvature[i] * step[i] * step[i]
 	}
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
@@ -723,10 +726,10 @@ func minBowlLarger(a, b float32) float32 {
 	return b
 }
 
-// minBowlCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func minBowlCurvatureSafeWith(sy float32, s, y *[3]float32) bool {
-	return sy > 0 && (sy/minBowlDot(s, s))*(sy/minBowlDot(y, y)) > minBowlUnitRoundoff
+// minBowlCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func minBowlCurvatureSafeFrom(sy, ss, yy float32) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > minBowlUnitRoundoff
 }
 
 // minBowlFinite reports whether v is neither NaN nor ±Inf, by comparing it with

@@ -652,7 +652,13 @@ func minParabolaDot(a, b *[1]float64) float64 {
 // minParabolaCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func minParabolaCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return sy > 0 && (sy/minParabolaDot(s, s))*(sy/minParabolaDot(y, y)) > minParabolaUnitRoundoff
+	return minParabolaCurvatureSafeFrom(sy, minParabolaDot(s, s), minParabolaDot(y, y))
+}
+
+// minParabolaCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func minParabolaCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > minParabolaUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

@@ -652,7 +652,13 @@ func minValleyCostDot(a, b *[2]float64) float64 {
 // minValleyCostCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func minValleyCostCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/minValleyCostDot(s, s))*(sy/minValleyCostDot(y, y)) > minValleyCostUnitRoundoff
+	return minValleyCostCurvatureSafeFrom(sy, minValleyCostDot(s, s), minValleyCostDot(y, y))
+}
+
+// minValleyCostCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func minValleyCostCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > minValleyCostUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

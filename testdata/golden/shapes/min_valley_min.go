@@ -685,7 +685,13 @@ func minValleyCurvatureSafe(s, y *[2]float64) bool {
 // minValleyCurvatureSafeWith is minValleyCurvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func minValleyCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/minValleyDot(s, s))*(sy/minValleyDot(y, y)) > minValleyUnitRoundoff
+	return minValleyCurvatureSafeFrom(sy, minValleyDot(s, s), minValleyDot(y, y))
+}
+
+// minValleyCurvatureSafeFrom is minValleyCurvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func minValleyCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > minValleyUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in

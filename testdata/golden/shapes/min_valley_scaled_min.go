@@ -706,7 +706,13 @@ func minValleyScaledDot(a, b *[2]float64) float64 {
 // minValleyScaledCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
 // update needs it again).
 func minValleyScaledCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return sy > 0 && (sy/minValleyScaledDot(s, s))*(sy/minValleyScaledDot(y, y)) > minValleyScaledUnitRoundoff
+	return minValleyScaledCurvatureSafeFrom(sy, minValleyScaledDot(s, s), minValleyScaledDot(y, y))
+}
+
+// minValleyScaledCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
+// and yᵀy (cg sums them in one pass).
+func minValleyScaledCurvatureSafeFrom(sy, ss, yy float64) bool {
+	return sy > 0 && (sy/ss)*(sy/yy) > minValleyScaledUnitRoundoff
 }
 
 // The stages of a run: advance starts each only when the calls left in
