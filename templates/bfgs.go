@@ -67,11 +67,11 @@ func (s *bfgsDirection) update(step, change *vec) {
 	}
 }
 
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: bfgs keeps nothing in reserve for a stall.
 func (s *bfgsDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
 func (s *bfgsDirection) firstTrial(t, slope, now elem) elem {
 	return 1
 }

@@ -82,10 +82,10 @@ func (s *lbfgsDirection) update(step, change *vec) {
 	s.rho[s.newest] = 1 / dot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *lbfgsDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *lbfgsDirection) firstTrial(t, slope, now elem) elem {
 	return 1
 }

@@ -475,12 +475,12 @@ func (s *gaussNewtonDirection) reset() {}
 
 func (s *gaussNewtonDirection) update(step, change *vec) {}
 
+// stalled: Gauss–Newton keeps nothing in reserve for a stall.
+func (s *gaussNewtonDirection) stalled() bool { return false }
+
 // firstTrial is stepInitial, 1 by default: the Gauss–Newton step is the
 // minimizer of the linearized model, which the search should try first
 // (Nocedal & Wright 2006, §10.3).
-// stalled: nothing in reserve.
-func (s *gaussNewtonDirection) stalled() bool { return false }
-
 func (s *gaussNewtonDirection) firstTrial(t, slope, now elem) elem {
 	return stepInitial
 }

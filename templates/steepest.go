@@ -13,6 +13,9 @@ func (s *steepestDirection) compute(g, d *vec) {
 
 func (s *steepestDirection) update(step, change *vec) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *steepestDirection) stalled() bool { return false }
+
 // firstTrial is the scaled trial (scaledTrial), grown at most by
 // 2^(stepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -23,9 +26,6 @@ func (s *steepestDirection) update(step, change *vec) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *steepestDirection) stalled() bool { return false }
-
 func (s *steepestDirection) firstTrial(t, slope, now elem) elem {
 	next := scaledTrial(t, slope, now)
 	if reach := elem(float64(t) * trialGrowth); next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

@@ -587,6 +587,9 @@ func (s *poly2SteepestBoxDirection) compute(g, d *[2]float64) {
 
 func (s *poly2SteepestBoxDirection) update(step, change *[2]float64) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *poly2SteepestBoxDirection) stalled() bool { return false }
+
 // firstTrial is the scaled trial (poly2SteepestBoxScaledTrial), grown at most by
 // 2^(poly2SteepestBoxStepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -597,9 +600,6 @@ func (s *poly2SteepestBoxDirection) update(step, change *[2]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *poly2SteepestBoxDirection) stalled() bool { return false }
-
 func (s *poly2SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 	next := poly2SteepestBoxScaledTrial(t, slope, now)
 	if reach := t * poly2SteepestBoxTrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

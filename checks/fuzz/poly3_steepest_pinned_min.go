@@ -587,6 +587,9 @@ func (s *poly3SteepestPinnedDirection) compute(g, d *[3]float64) {
 
 func (s *poly3SteepestPinnedDirection) update(step, change *[3]float64) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *poly3SteepestPinnedDirection) stalled() bool { return false }
+
 // firstTrial is the scaled trial (poly3SteepestPinnedScaledTrial), grown at most by
 // 2^(poly3SteepestPinnedStepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -597,9 +600,6 @@ func (s *poly3SteepestPinnedDirection) update(step, change *[3]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *poly3SteepestPinnedDirection) stalled() bool { return false }
-
 func (s *poly3SteepestPinnedDirection) firstTrial(t, slope, now float64) float64 {
 	next := poly3SteepestPinnedScaledTrial(t, slope, now)
 	if reach := t * poly3SteepestPinnedTrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

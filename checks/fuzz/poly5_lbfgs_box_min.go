@@ -657,10 +657,10 @@ func (s *poly5LBFGSBoxDirection) update(step, change *[5]float64) {
 	s.rho[s.newest] = 1 / poly5LBFGSBoxDot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *poly5LBFGSBoxDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *poly5LBFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -577,6 +577,9 @@ func (s *poly8SteepestFreeDirection) compute(g, d *[8]float64) {
 
 func (s *poly8SteepestFreeDirection) update(step, change *[8]float64) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *poly8SteepestFreeDirection) stalled() bool { return false }
+
 // firstTrial is the scaled trial (poly8SteepestFreeScaledTrial), grown at most by
 // 2^(poly8SteepestFreeStepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -587,9 +590,6 @@ func (s *poly8SteepestFreeDirection) update(step, change *[8]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *poly8SteepestFreeDirection) stalled() bool { return false }
-
 func (s *poly8SteepestFreeDirection) firstTrial(t, slope, now float64) float64 {
 	next := poly8SteepestFreeScaledTrial(t, slope, now)
 	if reach := t * poly8SteepestFreeTrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

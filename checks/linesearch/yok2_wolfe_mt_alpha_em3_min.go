@@ -577,6 +577,9 @@ func (s *yok2WolfeMTAlphaEm3Direction) compute(g, d *[1]float64) {
 
 func (s *yok2WolfeMTAlphaEm3Direction) update(step, change *[1]float64) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *yok2WolfeMTAlphaEm3Direction) stalled() bool { return false }
+
 // firstTrial is the scaled trial (yok2WolfeMTAlphaEm3ScaledTrial), grown at most by
 // 2^(yok2WolfeMTAlphaEm3StepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -587,9 +590,6 @@ func (s *yok2WolfeMTAlphaEm3Direction) update(step, change *[1]float64) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *yok2WolfeMTAlphaEm3Direction) stalled() bool { return false }
-
 func (s *yok2WolfeMTAlphaEm3Direction) firstTrial(t, slope, now float64) float64 {
 	next := yok2WolfeMTAlphaEm3ScaledTrial(t, slope, now)
 	if reach := t * yok2WolfeMTAlphaEm3TrialGrowth; next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

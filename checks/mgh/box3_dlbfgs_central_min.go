@@ -647,10 +647,10 @@ func (s *box3DLBFGSCentralDirection) update(step, change *[3]float64) {
 	s.rho[s.newest] = 1 / box3DLBFGSCentralDot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *box3DLBFGSCentralDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *box3DLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

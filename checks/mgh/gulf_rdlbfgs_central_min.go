@@ -647,10 +647,10 @@ func (s *gulfRDLBFGSCentralDirection) update(step, change *[3]float64) {
 	s.rho[s.newest] = 1 / gulfRDLBFGSCentralDot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *gulfRDLBFGSCentralDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *gulfRDLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -631,11 +631,11 @@ func (s *penaltyII4BFGSCentralDirection) update(step, change *[4]float64) {
 	}
 }
 
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: bfgs keeps nothing in reserve for a stall.
 func (s *penaltyII4BFGSCentralDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
 func (s *penaltyII4BFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

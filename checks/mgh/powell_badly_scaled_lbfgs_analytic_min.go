@@ -647,10 +647,10 @@ func (s *powellBadlyScaledLBFGSAnalyticDirection) update(step, change *[2]float6
 	s.rho[s.newest] = 1 / powellBadlyScaledLBFGSAnalyticDot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *powellBadlyScaledLBFGSAnalyticDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *powellBadlyScaledLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -647,10 +647,10 @@ func (s *powellSingularLBFGSAnalyticDirection) update(step, change *[4]float64) 
 	s.rho[s.newest] = 1 / powellSingularLBFGSAnalyticDot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *powellSingularLBFGSAnalyticDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *powellSingularLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -647,10 +647,10 @@ func (s *trigonometric10LBFGSCentralDirection) update(step, change *[10]float64)
 	s.rho[s.newest] = 1 / trigonometric10LBFGSCentralDot(step, change)
 }
 
-// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: lbfgs keeps nothing in reserve for a stall.
 func (s *trigonometric10LBFGSCentralDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step (Nocedal & Wright 2006, §3.5).
 func (s *trigonometric10LBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -631,11 +631,11 @@ func (s *variablyDimensioned10BFGSAnalyticDirection) update(step, change *[10]fl
 	}
 }
 
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: bfgs keeps nothing in reserve for a stall.
 func (s *variablyDimensioned10BFGSAnalyticDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
 func (s *variablyDimensioned10BFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

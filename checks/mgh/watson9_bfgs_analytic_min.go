@@ -631,11 +631,11 @@ func (s *watson9BFGSAnalyticDirection) update(step, change *[9]float64) {
 	}
 }
 
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: bfgs keeps nothing in reserve for a stall.
 func (s *watson9BFGSAnalyticDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
 func (s *watson9BFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }

@@ -631,12 +631,12 @@ func (s *fitCoolingGNDirection) reset() {}
 
 func (s *fitCoolingGNDirection) update(step, change *[3]float64) {}
 
+// stalled: Gauss–Newton keeps nothing in reserve for a stall.
+func (s *fitCoolingGNDirection) stalled() bool { return false }
+
 // firstTrial is fitCoolingGNStepInitial, 1 by default: the Gauss–Newton step is the
 // minimizer of the linearized model, which the search should try first
 // (Nocedal & Wright 2006, §10.3).
-// stalled: nothing in reserve.
-func (s *fitCoolingGNDirection) stalled() bool { return false }
-
 func (s *fitCoolingGNDirection) firstTrial(t, slope, now float64) float64 {
 	return fitCoolingGNStepInitial
 }

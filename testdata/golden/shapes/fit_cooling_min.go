@@ -629,12 +629,12 @@ func (s *fitCoolingDirection) reset() {}
 
 func (s *fitCoolingDirection) update(step, change *[3]float64) {}
 
+// stalled: Gauss–Newton keeps nothing in reserve for a stall.
+func (s *fitCoolingDirection) stalled() bool { return false }
+
 // firstTrial is fitCoolingStepInitial, 1 by default: the Gauss–Newton step is the
 // minimizer of the linearized model, which the search should try first
 // (Nocedal & Wright 2006, §10.3).
-// stalled: nothing in reserve.
-func (s *fitCoolingDirection) stalled() bool { return false }
-
 func (s *fitCoolingDirection) firstTrial(t, slope, now float64) float64 {
 	return fitCoolingStepInitial
 }

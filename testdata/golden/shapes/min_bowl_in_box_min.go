@@ -641,11 +641,11 @@ func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
 	}
 }
 
-// firstTrial is 1, the quasi-Newton step, which the line search should try
-// first (Nocedal & Wright 2006, §3.5).
-// stalled: nothing in reserve.
+// stalled: bfgs keeps nothing in reserve for a stall.
 func (s *minBowlInBoxDirection) stalled() bool { return false }
 
+// firstTrial is 1, the quasi-Newton step, which the line search should try
+// first (Nocedal & Wright 2006, §3.5).
 func (s *minBowlInBoxDirection) firstTrial(t, slope, now float32) float32 {
 	return 1
 }

@@ -576,6 +576,9 @@ func (s *minPlateDecreaseDirection) compute(g, d *[2]float32) {
 
 func (s *minPlateDecreaseDirection) update(step, change *[2]float32) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *minPlateDecreaseDirection) stalled() bool { return false }
+
 // firstTrial is the scaled trial (minPlateDecreaseScaledTrial), grown at most by
 // 2^(minPlateDecreaseStepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -586,9 +589,6 @@ func (s *minPlateDecreaseDirection) update(step, change *[2]float32) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *minPlateDecreaseDirection) stalled() bool { return false }
-
 func (s *minPlateDecreaseDirection) firstTrial(t, slope, now float32) float32 {
 	next := minPlateDecreaseScaledTrial(t, slope, now)
 	if reach := float32(float64(t) * minPlateDecreaseTrialGrowth); next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before

@@ -575,6 +575,9 @@ func (s *minPlateDirection) compute(g, d *[2]float32) {
 
 func (s *minPlateDirection) update(step, change *[2]float32) {}
 
+// stalled: steepest keeps nothing in reserve for a stall.
+func (s *minPlateDirection) stalled() bool { return false }
+
 // firstTrial is the scaled trial (minPlateScaledTrial), grown at most by
 // 2^(minPlateStepTrials/2) over the previous step t. Steepest descent is the one
 // direction paired with backtracking that scales its first trial, and
@@ -585,9 +588,6 @@ func (s *minPlateDirection) update(step, change *[2]float32) {}
 // of our own; cg, whose ratios can legitimately be that large on badly
 // scaled problems, always pairs with a Wolfe search, which expands and
 // zooms instead).
-// stalled: nothing in reserve.
-func (s *minPlateDirection) stalled() bool { return false }
-
 func (s *minPlateDirection) firstTrial(t, slope, now float32) float32 {
 	next := minPlateScaledTrial(t, slope, now)
 	if reach := float32(float64(t) * minPlateTrialGrowth); next > reach { // in float64: in float32 a cap past 2^127 is +Inf, which caps nothing, as before
