@@ -30,6 +30,9 @@ type kernelCopier struct {
 	// selector's Sel, after its children: it returns the node, its
 	// replacement, or nil to delete a statement from its list.
 	post func(ast.Node) ast.Node
+	// dimRanges marks the copies of range loops over the unknowns (see
+	// isDimRange), which the passes may unroll.
+	dimRanges map[*ast.RangeStmt]bool
 }
 
 // newKernelCopier returns a copier whose info has room for about exprs
@@ -42,7 +45,8 @@ func newKernelCopier(src *types.Info, exprs int) *kernelCopier {
 			Defs:  make(map[*ast.Ident]types.Object, exprs/8),
 			Uses:  make(map[*ast.Ident]types.Object, exprs/2),
 		},
-		groups: map[*ast.CommentGroup]*ast.CommentGroup{},
+		groups:    map[*ast.CommentGroup]*ast.CommentGroup{},
+		dimRanges: map[*ast.RangeStmt]bool{},
 	}
 }
 
@@ -296,6 +300,9 @@ func (c *kernelCopier) node(n ast.Node) ast.Node {
 		cp.Value = c.expr(n.Value)
 		cp.X = c.expr(n.X)
 		cp.Body = c.block(n.Body)
+		if tv, ok := c.src.Types[n.X]; ok && isDimRange(tv.Type) {
+			c.dimRanges[&cp] = true
+		}
 		out = &cp
 
 	// Declarations and their parts.

@@ -477,6 +477,8 @@ type rewriter struct {
 	// notes are comments the passes add to the declaration being
 	// rewritten, each at the end of the line it explains.
 	notes []*ast.CommentGroup
+	// cp is the copier of the declaration being rewritten (see unroll).
+	cp *kernelCopier
 }
 
 func (rw *rewriter) obj(id *ast.Ident) types.Object {
@@ -508,8 +510,8 @@ func (rw *rewriter) rewrite(cp *kernelCopier, d ast.Decl) ast.Decl {
 	// itself is still a copy of the one the type checker saw; replaced
 	// children are new nodes without it.
 	rw.trials = rw.c.trace && declName(d) == rw.c.pick["lineSearch"]
-	cp.post = rw.post
-	defer func() { cp.post = nil }()
+	cp.post, rw.cp = rw.post, cp
+	defer func() { cp.post, rw.cp = nil, nil }()
 	return cp.decl(d)
 }
 
@@ -555,6 +557,8 @@ func (rw *rewriter) post(n ast.Node) ast.Node {
 			}
 			return &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{point, n}, Lparen: n.Lparen, Rparen: n.Rparen}
 		}
+	case *ast.RangeStmt:
+		return rw.unroll(rw.cp, n)
 	case *ast.FieldList:
 		if s.Receiver == "" {
 			n.List = rw.withoutRecvFields(n.List)

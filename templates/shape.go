@@ -10,7 +10,7 @@ const dim = 2
 
 // vec stands in for the objective's argument: an array of dim elements.
 // Scalar objectives are minimized as vectors of length one.
-type vec = [dim]elem
+type vec [dim]elem
 
 // residuals stands in for the number of residuals of a residual objective,
 // whose value is f = ½‖r‖².

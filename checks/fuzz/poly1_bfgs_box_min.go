@@ -595,18 +595,18 @@ type poly1BFGSBoxDirection struct {
 }
 
 func (s *poly1BFGSBoxDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
 	}
 	s.scaled = false
 }
 
 func (s *poly1BFGSBoxDirection) compute(g, d *[1]float64) {
-	for i := range s.h {
-		d[i] = -poly1BFGSBoxDot(&s.h[i], g)
+	{
+		d[0] = -poly1BFGSBoxDot(&s.h[0], g)
 	}
 }
 
@@ -617,8 +617,8 @@ func (s *poly1BFGSBoxDirection) update(step, change *[1]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly1BFGSBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,17 +626,19 @@ func (s *poly1BFGSBoxDirection) update(step, change *[1]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [1]float64
-	for i := range s.h {
-		hy[i] = poly1BFGSBoxDot(&s.h[i], change)
+	{
+		hy[0] = poly1BFGSBoxDot(&s.h[0], change)
 	}
 	outer := (rho*rho*poly1BFGSBoxDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0] // N&W eq. 6.17
+			}
 		}
 	}
 }
@@ -653,8 +655,8 @@ func (s *poly1BFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly1BFGSBoxDot returns aᵀb.
 func poly1BFGSBoxDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -683,8 +685,8 @@ const (
 // poly1BFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly1BFGSBoxEnterBox(x *[1]float64, b *poly1BFGSBoxBox) {
-	for i := range x {
-		x[i] = poly1BFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly1BFGSBoxClampBetween(x[0], b.lower[0], b.upper[0])
 	}
 }
 
@@ -729,8 +731,8 @@ func poly1BFGSBoxFinite(v float64) bool {
 
 // poly1BFGSBoxFiniteVec reports whether every component of x is finite.
 func poly1BFGSBoxFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1BFGSBoxFinite(x[i]) {
+	{
+		if !poly1BFGSBoxFinite(x[0]) {
 			return false
 		}
 	}
@@ -784,15 +786,15 @@ func poly1BFGSBoxConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[1
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1BFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly1BFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly1BFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1BFGSBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1BFGSBoxAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -800,8 +802,8 @@ func poly1BFGSBoxConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[1
 // poly1BFGSBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly1BFGSBoxGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1BFGSBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -822,8 +824,8 @@ func poly1BFGSBoxAbs(v float64) float64 {
 func poly1BFGSBoxRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1BFGSBoxDifferences) {
 	var h [1]float64
 	poly1BFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1BFGSBoxUnitRoundoff * poly1BFGSBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1BFGSBoxUnitRoundoff * poly1BFGSBoxAbs(x[0]) * h[0]
 	}
 }
 
@@ -900,9 +902,9 @@ func poly1BFGSBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly1BFGSBoxStationarity(g, e, x *[1]float64, fx float64, b *poly1BFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly1BFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly1BFGSBoxLarger(0, e[i]-poly1BFGSBoxAbs(g[i]))
+	{
+		if poly1BFGSBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly1BFGSBoxLarger(0, e[0]-poly1BFGSBoxAbs(g[0]))
 		}
 	}
 	return poly1BFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -928,10 +930,12 @@ func poly1BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1BFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1BFGSBoxLarger(poly1BFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly1BFGSBoxLarger(poly1BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1BFGSBoxLarger(measure, (poly1BFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly1BFGSBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1BFGSBoxLarger(poly1BFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1BFGSBoxLarger(measure, (poly1BFGSBoxAbs(g[0])+e[0])*w)
+			floor = poly1BFGSBoxLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +945,8 @@ func poly1BFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1BFGSBoxStepWithin(s, x *[1]float64, tol float64, diffs *poly1BFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly1BFGSBoxAbs(s[i]) <= tol*poly1BFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1BFGSBoxAbs(s[0]) <= tol*poly1BFGSBoxStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +969,9 @@ func poly1BFGSBoxStepScale(xi float64, i int, diffs *poly1BFGSBoxDifferences) fl
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly1BFGSBoxCurvaturePair(s, y, x *[1]float64, b *poly1BFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
 		}
 	}
 }
@@ -1003,28 +1007,30 @@ func poly1BFGSBoxLearnCurvature(s, y *[1]float64, diffs *poly1BFGSBoxDifferences
 func poly1BFGSBoxSearchDirection(dir *poly1BFGSBoxDirection, x, g, d *[1]float64, diffs *poly1BFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly1BFGSBoxLarger(reach, poly1BFGSBoxAbs(x[i]-poly1BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly1BFGSBoxLarger(reach, poly1BFGSBoxAbs(x[0]-poly1BFGSBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
 	}
 	var free [1]float64
 	var active [1]bool
-	for i := range x {
-		margin := poly1BFGSBoxActiveMargin * poly1BFGSBoxLarger(1, poly1BFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
-		}
-		active[i] = poly1BFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+	{
+		{
+			margin := poly1BFGSBoxActiveMargin * poly1BFGSBoxLarger(1, poly1BFGSBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly1BFGSBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
 	}
 	poly1BFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly1BFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly1BFGSBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
 		}
 	}
 }
@@ -1058,9 +1064,9 @@ func (f *poly1BFGSBoxStepFloor) at(x, d *[1]float64, diffs *poly1BFGSBoxDifferen
 // step test, min over i of tol·poly1BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1BFGSBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1BFGSBoxStepScale(x[i], i, diffs) / poly1BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1BFGSBoxStepScale(x[0], 0, diffs) / poly1BFGSBoxAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1214,8 @@ func poly1BFGSBoxShrinkDirection(d, g *[1]float64) {
 // poly1BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1BFGSBoxMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1BFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1BFGSBoxAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1224,8 @@ func poly1BFGSBoxMaxAbs(x *[1]float64) float64 {
 
 // poly1BFGSBoxScaleBy sets x = c·x.
 func poly1BFGSBoxScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1284,8 +1290,8 @@ func (r *poly1BFGSBoxRiseTrend) contradicts() bool {
 // poly1BFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1BFGSBoxFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1BFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly1BFGSBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1BFGSBoxAbs(xt[0]-x[0]-want) <= 0.01*poly1BFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1304,16 +1310,18 @@ func poly1BFGSBoxFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 func poly1BFGSBoxStepCap(x, d *[1]float64, floor *poly1BFGSBoxStepFloor, diffs *poly1BFGSBoxDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
-		}
-		if hit > tiny && hit < limit {
-			limit = hit
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1436,8 +1444,8 @@ func poly1BFGSBoxExpandTrial(previous, current *poly1BFGSBoxLinePoint) float64 {
 
 // poly1BFGSBoxGradientChange sets out = a − b.
 func poly1BFGSBoxGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -585,18 +585,18 @@ type poly1BFGSFreeDirection struct {
 }
 
 func (s *poly1BFGSFreeDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
 	}
 	s.scaled = false
 }
 
 func (s *poly1BFGSFreeDirection) compute(g, d *[1]float64) {
-	for i := range s.h {
-		d[i] = -poly1BFGSFreeDot(&s.h[i], g)
+	{
+		d[0] = -poly1BFGSFreeDot(&s.h[0], g)
 	}
 }
 
@@ -607,8 +607,8 @@ func (s *poly1BFGSFreeDirection) update(step, change *[1]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly1BFGSFreeDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +616,19 @@ func (s *poly1BFGSFreeDirection) update(step, change *[1]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [1]float64
-	for i := range s.h {
-		hy[i] = poly1BFGSFreeDot(&s.h[i], change)
+	{
+		hy[0] = poly1BFGSFreeDot(&s.h[0], change)
 	}
 	outer := (rho*rho*poly1BFGSFreeDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0] // N&W eq. 6.17
+			}
 		}
 	}
 }
@@ -643,8 +645,8 @@ func (s *poly1BFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly1BFGSFreeDot returns aᵀb.
 func poly1BFGSFreeDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -699,8 +701,8 @@ func poly1BFGSFreeFinite(v float64) bool {
 
 // poly1BFGSFreeFiniteVec reports whether every component of x is finite.
 func poly1BFGSFreeFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1BFGSFreeFinite(x[i]) {
+	{
+		if !poly1BFGSFreeFinite(x[0]) {
 			return false
 		}
 	}
@@ -754,15 +756,15 @@ func poly1BFGSFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1BFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly1BFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly1BFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1BFGSFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1BFGSFreeAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -770,8 +772,8 @@ func poly1BFGSFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[
 // poly1BFGSFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly1BFGSFreeGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1BFGSFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -792,8 +794,8 @@ func poly1BFGSFreeAbs(v float64) float64 {
 func poly1BFGSFreeRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1BFGSFreeDifferences) {
 	var h [1]float64
 	poly1BFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1BFGSFreeUnitRoundoff * poly1BFGSFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1BFGSFreeUnitRoundoff * poly1BFGSFreeAbs(x[0]) * h[0]
 	}
 }
 
@@ -895,10 +897,12 @@ func poly1BFGSFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1BFGSFree
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1BFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1BFGSFreeLarger(poly1BFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly1BFGSFreeLarger(poly1BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1BFGSFreeLarger(measure, (poly1BFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly1BFGSFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1BFGSFreeLarger(poly1BFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1BFGSFreeLarger(measure, (poly1BFGSFreeAbs(g[0])+e[0])*w)
+			floor = poly1BFGSFreeLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +912,8 @@ func poly1BFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1BFGSFreeStepWithin(s, x *[1]float64, tol float64, diffs *poly1BFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly1BFGSFreeAbs(s[i]) <= tol*poly1BFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1BFGSFreeAbs(s[0]) <= tol*poly1BFGSFreeStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +965,9 @@ func (f *poly1BFGSFreeStepFloor) at(x, d *[1]float64, diffs *poly1BFGSFreeDiffer
 // step test, min over i of tol·poly1BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1BFGSFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1BFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1BFGSFreeStepScale(x[i], i, diffs) / poly1BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1BFGSFreeStepScale(x[0], 0, diffs) / poly1BFGSFreeAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1115,8 @@ func poly1BFGSFreeShrinkDirection(d, g *[1]float64) {
 // poly1BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1BFGSFreeMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1BFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1BFGSFreeAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1125,8 @@ func poly1BFGSFreeMaxAbs(x *[1]float64) float64 {
 
 // poly1BFGSFreeScaleBy sets x = c·x.
 func poly1BFGSFreeScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1187,8 +1191,8 @@ func (r *poly1BFGSFreeRiseTrend) contradicts() bool {
 // poly1BFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1BFGSFreeFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1BFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly1BFGSFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1BFGSFreeAbs(xt[0]-x[0]-want) <= 0.01*poly1BFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1241,8 @@ func poly1BFGSFreeTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *po
 
 // poly1BFGSFreeMoveTo sets out = x + t·d.
 func poly1BFGSFreeMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1304,8 +1308,8 @@ func poly1BFGSFreeExpandTrial(previous, current *poly1BFGSFreeLinePoint) float64
 
 // poly1BFGSFreeGradientChange sets out = a − b.
 func poly1BFGSFreeGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -618,8 +618,8 @@ type poly1CGFreeDirection struct {
 func (s *poly1CGFreeDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
 	}
 }
 
@@ -627,16 +627,16 @@ func (s *poly1CGFreeDirection) compute(g, d *[1]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := poly1CGFreeDot(g, &z), poly1CGFreeDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && poly1CGFreeAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = poly1CGFreeLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +655,30 @@ func (s *poly1CGFreeDirection) compute(g, d *[1]float64) {
 func (s *poly1CGFreeDirection) update(step, change *[1]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
 	}
 	if !poly1CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && poly1CGFreeFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && poly1CGFreeFinite(next) {
+				s.curvature[0] = next
+			}
 		}
 	}
 }
@@ -701,8 +703,8 @@ func (s *poly1CGFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly1CGFreeDot returns aᵀb.
 func poly1CGFreeDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -781,8 +783,8 @@ func poly1CGFreeValue(recv *Poly, x, g *[1]float64, diffs *poly1CGFreeDifference
 
 // poly1CGFreeFiniteVec reports whether every component of x is finite.
 func poly1CGFreeFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1CGFreeFinite(x[i]) {
+	{
+		if !poly1CGFreeFinite(x[0]) {
 			return false
 		}
 	}
@@ -836,15 +838,15 @@ func poly1CGFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[1]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1CGFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly1CGFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly1CGFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1CGFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1CGFreeAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -852,8 +854,8 @@ func poly1CGFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[1]
 // poly1CGFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly1CGFreeGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1CGFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -866,8 +868,8 @@ func poly1CGFreeGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs
 func poly1CGFreeRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1CGFreeDifferences) {
 	var h [1]float64
 	poly1CGFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1CGFreeUnitRoundoff * poly1CGFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1CGFreeUnitRoundoff * poly1CGFreeAbs(x[0]) * h[0]
 	}
 }
 
@@ -959,10 +961,12 @@ func poly1CGFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1CGFreeBox)
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1CGFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1CGFreeLarger(poly1CGFreeAbs(fx), 1)
-	for i := range g {
-		w := poly1CGFreeLarger(poly1CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1CGFreeLarger(measure, (poly1CGFreeAbs(g[i])+e[i])*w)
-		floor = poly1CGFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1CGFreeLarger(poly1CGFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1CGFreeLarger(measure, (poly1CGFreeAbs(g[0])+e[0])*w)
+			floor = poly1CGFreeLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +976,8 @@ func poly1CGFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1CGFreeStepWithin(s, x *[1]float64, tol float64, diffs *poly1CGFreeDifferences) bool {
-	for i := range s {
-		if !(poly1CGFreeAbs(s[i]) <= tol*poly1CGFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1CGFreeAbs(s[0]) <= tol*poly1CGFreeStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -1025,9 +1029,9 @@ func (f *poly1CGFreeStepFloor) at(x, d *[1]float64, diffs *poly1CGFreeDifference
 // step test, min over i of tol·poly1CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1CGFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1CGFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1CGFreeStepScale(x[i], i, diffs) / poly1CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1CGFreeStepScale(x[0], 0, diffs) / poly1CGFreeAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1175,8 +1179,8 @@ func poly1CGFreeShrinkDirection(d, g *[1]float64) {
 // poly1CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1CGFreeMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1CGFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1CGFreeAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1185,8 +1189,8 @@ func poly1CGFreeMaxAbs(x *[1]float64) float64 {
 
 // poly1CGFreeScaleBy sets x = c·x.
 func poly1CGFreeScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1251,8 +1255,8 @@ func (r *poly1CGFreeRiseTrend) contradicts() bool {
 // poly1CGFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1CGFreeFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1CGFreeAbs(xt[i]-x[i]-want) <= 0.01*poly1CGFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1CGFreeAbs(xt[0]-x[0]-want) <= 0.01*poly1CGFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1301,8 +1305,8 @@ func poly1CGFreeTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *poly
 
 // poly1CGFreeMoveTo sets out = x + t·d.
 func poly1CGFreeMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1368,8 +1372,8 @@ func poly1CGFreeExpandTrial(previous, current *poly1CGFreeLinePoint) float64 {
 
 // poly1CGFreeGradientChange sets out = a − b.
 func poly1CGFreeGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -610,8 +610,8 @@ func (s *poly1LBFGSBoxDirection) compute(g, d *[1]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * poly1LBFGSBoxDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
 		}
 		k--
 		if k < 0 {
@@ -621,8 +621,8 @@ func (s *poly1LBFGSBoxDirection) compute(g, d *[1]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := poly1LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly1LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -632,8 +632,8 @@ func (s *poly1LBFGSBoxDirection) compute(g, d *[1]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly1LBFGSBoxDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
 		}
 	}
 	poly1LBFGSBoxNegate(d, &q)
@@ -668,16 +668,16 @@ func (s *poly1LBFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly1LBFGSBoxDot returns aᵀb.
 func poly1LBFGSBoxDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
 
 // poly1LBFGSBoxNegate sets out = −x.
 func poly1LBFGSBoxNegate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -716,8 +716,8 @@ const (
 // poly1LBFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly1LBFGSBoxEnterBox(x *[1]float64, b *poly1LBFGSBoxBox) {
-	for i := range x {
-		x[i] = poly1LBFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly1LBFGSBoxClampBetween(x[0], b.lower[0], b.upper[0])
 	}
 }
 
@@ -762,8 +762,8 @@ func poly1LBFGSBoxFinite(v float64) bool {
 
 // poly1LBFGSBoxFiniteVec reports whether every component of x is finite.
 func poly1LBFGSBoxFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1LBFGSBoxFinite(x[i]) {
+	{
+		if !poly1LBFGSBoxFinite(x[0]) {
 			return false
 		}
 	}
@@ -835,16 +835,18 @@ func poly1LBFGSBoxCalibrate(recv *Poly, x *[1]float64, fx float64, diffs *poly1L
 		}
 	}
 	noise := poly1LBFGSBoxNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := poly1LBFGSBoxLarger(1, poly1LBFGSBoxAbs(probe[i]))
-		bar := quarter * s
-		third := poly1LBFGSBoxLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = poly1LBFGSBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := poly1LBFGSBoxLarger(1, poly1LBFGSBoxAbs(probe[0]))
+			bar := quarter * s
+			third := poly1LBFGSBoxLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly1LBFGSBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = poly1LBFGSBoxClampBetween(h, 64*poly1LBFGSBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = poly1LBFGSBoxClampBetween(h, 64*poly1LBFGSBoxUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
 	}
 	return calls, true
 }
@@ -923,8 +925,8 @@ func poly1LBFGSBoxMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly1LBFGSBoxNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
 	sum := poly1LBFGSBoxAbs(fx)
-	for i := range x {
-		sum += poly1LBFGSBoxAbs(g[i] * x[i])
+	{
+		sum += poly1LBFGSBoxAbs(g[0] * x[0])
 	}
 	return 4 * poly1LBFGSBoxUnitRoundoff * sum
 }
@@ -1051,15 +1053,15 @@ func poly1LBFGSBoxConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1LBFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly1LBFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly1LBFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1LBFGSBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1LBFGSBoxAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -1070,16 +1072,18 @@ func poly1LBFGSBoxConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *[
 // in forwardError).
 func poly1LBFGSBoxGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1LBFGSBoxDifferences) {
 	noise := poly1LBFGSBoxNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := poly1LBFGSBoxCentralInterval(x, i, diffs)
-		h = poly1LBFGSBoxAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := poly1LBFGSBoxCentralInterval(x, 0, diffs)
+			h = poly1LBFGSBoxAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1093,8 +1097,8 @@ func poly1LBFGSBoxGradientError(x *[1]float64, fx float64, g, e *[1]float64, dif
 func poly1LBFGSBoxRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1LBFGSBoxDifferences) {
 	var h [1]float64
 	poly1LBFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1LBFGSBoxUnitRoundoff * poly1LBFGSBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1LBFGSBoxUnitRoundoff * poly1LBFGSBoxAbs(x[0]) * h[0]
 	}
 }
 
@@ -1112,9 +1116,9 @@ func poly1LBFGSBoxDiagonalCurvature(recv *Poly, x, g *[1]float64, diffs *poly1LB
 // eᵢ − |gᵢ|, which is what is counted.
 func poly1LBFGSBoxStationarity(g, e, x *[1]float64, fx float64, b *poly1LBFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly1LBFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly1LBFGSBoxLarger(0, e[i]-poly1LBFGSBoxAbs(g[i]))
+	{
+		if poly1LBFGSBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly1LBFGSBoxLarger(0, e[0]-poly1LBFGSBoxAbs(g[0]))
 		}
 	}
 	return poly1LBFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -1140,10 +1144,12 @@ func poly1LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1LBFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1LBFGSBoxLarger(poly1LBFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly1LBFGSBoxLarger(poly1LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1LBFGSBoxLarger(measure, (poly1LBFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly1LBFGSBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1LBFGSBoxLarger(poly1LBFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1LBFGSBoxLarger(measure, (poly1LBFGSBoxAbs(g[0])+e[0])*w)
+			floor = poly1LBFGSBoxLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1153,8 +1159,8 @@ func poly1LBFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1LBFGSBoxStepWithin(s, x *[1]float64, tol float64, diffs *poly1LBFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly1LBFGSBoxAbs(s[i]) <= tol*poly1LBFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1LBFGSBoxAbs(s[0]) <= tol*poly1LBFGSBoxStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -1177,9 +1183,9 @@ func poly1LBFGSBoxStepScale(xi float64, i int, diffs *poly1LBFGSBoxDifferences) 
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly1LBFGSBoxCurvaturePair(s, y, x *[1]float64, b *poly1LBFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
 		}
 	}
 }
@@ -1215,28 +1221,30 @@ func poly1LBFGSBoxLearnCurvature(s, y *[1]float64, diffs *poly1LBFGSBoxDifferenc
 func poly1LBFGSBoxSearchDirection(dir *poly1LBFGSBoxDirection, x, g, d *[1]float64, diffs *poly1LBFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly1LBFGSBoxLarger(reach, poly1LBFGSBoxAbs(x[i]-poly1LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly1LBFGSBoxLarger(reach, poly1LBFGSBoxAbs(x[0]-poly1LBFGSBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
 	}
 	var free [1]float64
 	var active [1]bool
-	for i := range x {
-		margin := poly1LBFGSBoxActiveMargin * poly1LBFGSBoxLarger(1, poly1LBFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
-		}
-		active[i] = poly1LBFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+	{
+		{
+			margin := poly1LBFGSBoxActiveMargin * poly1LBFGSBoxLarger(1, poly1LBFGSBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly1LBFGSBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
 	}
 	poly1LBFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly1LBFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly1LBFGSBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
 		}
 	}
 }
@@ -1270,9 +1278,9 @@ func (f *poly1LBFGSBoxStepFloor) at(x, d *[1]float64, diffs *poly1LBFGSBoxDiffer
 // step test, min over i of tol·poly1LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1LBFGSBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1LBFGSBoxStepScale(x[i], i, diffs) / poly1LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1LBFGSBoxStepScale(x[0], 0, diffs) / poly1LBFGSBoxAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1420,8 +1428,8 @@ func poly1LBFGSBoxShrinkDirection(d, g *[1]float64) {
 // poly1LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1LBFGSBoxMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1LBFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1LBFGSBoxAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1430,8 +1438,8 @@ func poly1LBFGSBoxMaxAbs(x *[1]float64) float64 {
 
 // poly1LBFGSBoxScaleBy sets x = c·x.
 func poly1LBFGSBoxScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1496,8 +1504,8 @@ func (r *poly1LBFGSBoxRiseTrend) contradicts() bool {
 // poly1LBFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1LBFGSBoxFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1LBFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly1LBFGSBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1LBFGSBoxAbs(xt[0]-x[0]-want) <= 0.01*poly1LBFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1516,16 +1524,18 @@ func poly1LBFGSBoxFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 func poly1LBFGSBoxStepCap(x, d *[1]float64, floor *poly1LBFGSBoxStepFloor, diffs *poly1LBFGSBoxDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
-		}
-		if hit > tiny && hit < limit {
-			limit = hit
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1648,8 +1658,8 @@ func poly1LBFGSBoxExpandTrial(previous, current *poly1LBFGSBoxLinePoint) float64
 
 // poly1LBFGSBoxGradientChange sets out = a − b.
 func poly1LBFGSBoxGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -600,8 +600,8 @@ func (s *poly1LBFGSFreeDirection) compute(g, d *[1]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * poly1LBFGSFreeDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +611,8 @@ func (s *poly1LBFGSFreeDirection) compute(g, d *[1]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := poly1LBFGSFreeDot(&s.s[newest], &s.y[newest]) / poly1LBFGSFreeDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +622,8 @@ func (s *poly1LBFGSFreeDirection) compute(g, d *[1]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly1LBFGSFreeDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
 		}
 	}
 	poly1LBFGSFreeNegate(d, &q)
@@ -658,16 +658,16 @@ func (s *poly1LBFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly1LBFGSFreeDot returns aᵀb.
 func poly1LBFGSFreeDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
 
 // poly1LBFGSFreeNegate sets out = −x.
 func poly1LBFGSFreeNegate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -732,8 +732,8 @@ func poly1LBFGSFreeFinite(v float64) bool {
 
 // poly1LBFGSFreeFiniteVec reports whether every component of x is finite.
 func poly1LBFGSFreeFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1LBFGSFreeFinite(x[i]) {
+	{
+		if !poly1LBFGSFreeFinite(x[0]) {
 			return false
 		}
 	}
@@ -805,16 +805,18 @@ func poly1LBFGSFreeCalibrate(recv *Poly, x *[1]float64, fx float64, diffs *poly1
 		}
 	}
 	noise := poly1LBFGSFreeNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := poly1LBFGSFreeLarger(1, poly1LBFGSFreeAbs(probe[i]))
-		bar := quarter * s
-		third := poly1LBFGSFreeLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = poly1LBFGSFreeCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := poly1LBFGSFreeLarger(1, poly1LBFGSFreeAbs(probe[0]))
+			bar := quarter * s
+			third := poly1LBFGSFreeLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly1LBFGSFreeCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = poly1LBFGSFreeClampBetween(h, 64*poly1LBFGSFreeUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = poly1LBFGSFreeClampBetween(h, 64*poly1LBFGSFreeUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
 	}
 	return calls, true
 }
@@ -908,8 +910,8 @@ func poly1LBFGSFreeMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly1LBFGSFreeNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
 	sum := poly1LBFGSFreeAbs(fx)
-	for i := range x {
-		sum += poly1LBFGSFreeAbs(g[i] * x[i])
+	{
+		sum += poly1LBFGSFreeAbs(g[0] * x[0])
 	}
 	return 4 * poly1LBFGSFreeUnitRoundoff * sum
 }
@@ -1036,15 +1038,15 @@ func poly1LBFGSFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1LBFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly1LBFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly1LBFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1LBFGSFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1LBFGSFreeAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -1055,16 +1057,18 @@ func poly1LBFGSFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e *
 // in forwardError).
 func poly1LBFGSFreeGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1LBFGSFreeDifferences) {
 	noise := poly1LBFGSFreeNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := poly1LBFGSFreeCentralInterval(x, i, diffs)
-		h = poly1LBFGSFreeAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := poly1LBFGSFreeCentralInterval(x, 0, diffs)
+			h = poly1LBFGSFreeAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1082,8 @@ func poly1LBFGSFreeGradientError(x *[1]float64, fx float64, g, e *[1]float64, di
 func poly1LBFGSFreeRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1LBFGSFreeDifferences) {
 	var h [1]float64
 	poly1LBFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1LBFGSFreeUnitRoundoff * poly1LBFGSFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1LBFGSFreeUnitRoundoff * poly1LBFGSFreeAbs(x[0]) * h[0]
 	}
 }
 
@@ -1107,10 +1111,12 @@ func poly1LBFGSFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1LBFGSFr
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1LBFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1LBFGSFreeLarger(poly1LBFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly1LBFGSFreeLarger(poly1LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1LBFGSFreeLarger(measure, (poly1LBFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly1LBFGSFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1LBFGSFreeLarger(poly1LBFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1LBFGSFreeLarger(measure, (poly1LBFGSFreeAbs(g[0])+e[0])*w)
+			floor = poly1LBFGSFreeLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1126,8 @@ func poly1LBFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1LBFGSFreeStepWithin(s, x *[1]float64, tol float64, diffs *poly1LBFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly1LBFGSFreeAbs(s[i]) <= tol*poly1LBFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1LBFGSFreeAbs(s[0]) <= tol*poly1LBFGSFreeStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1179,9 @@ func (f *poly1LBFGSFreeStepFloor) at(x, d *[1]float64, diffs *poly1LBFGSFreeDiff
 // step test, min over i of tol·poly1LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1LBFGSFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1LBFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1LBFGSFreeStepScale(x[i], i, diffs) / poly1LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1LBFGSFreeStepScale(x[0], 0, diffs) / poly1LBFGSFreeAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1329,8 @@ func poly1LBFGSFreeShrinkDirection(d, g *[1]float64) {
 // poly1LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1LBFGSFreeMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1LBFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1LBFGSFreeAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1339,8 @@ func poly1LBFGSFreeMaxAbs(x *[1]float64) float64 {
 
 // poly1LBFGSFreeScaleBy sets x = c·x.
 func poly1LBFGSFreeScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1399,8 +1405,8 @@ func (r *poly1LBFGSFreeRiseTrend) contradicts() bool {
 // poly1LBFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1LBFGSFreeFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1LBFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly1LBFGSFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1LBFGSFreeAbs(xt[0]-x[0]-want) <= 0.01*poly1LBFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1455,8 @@ func poly1LBFGSFreeTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *p
 
 // poly1LBFGSFreeMoveTo sets out = x + t·d.
 func poly1LBFGSFreeMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1516,8 +1522,8 @@ func poly1LBFGSFreeExpandTrial(previous, current *poly1LBFGSFreeLinePoint) float
 
 // poly1LBFGSFreeGradientChange sets out = a − b.
 func poly1LBFGSFreeGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -610,8 +610,8 @@ func (s *poly1SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly1SteepestBoxNegate sets out = −x.
 func poly1SteepestBoxNegate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -656,8 +656,8 @@ const (
 // poly1SteepestBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly1SteepestBoxEnterBox(x *[1]float64, b *poly1SteepestBoxBox) {
-	for i := range x {
-		x[i] = poly1SteepestBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly1SteepestBoxClampBetween(x[0], b.lower[0], b.upper[0])
 	}
 }
 
@@ -690,8 +690,8 @@ func poly1SteepestBoxValue(recv *Poly, x, g *[1]float64, diffs *poly1SteepestBox
 
 // poly1SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly1SteepestBoxFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1SteepestBoxFinite(x[i]) {
+	{
+		if !poly1SteepestBoxFinite(x[0]) {
 			return false
 		}
 	}
@@ -745,15 +745,15 @@ func poly1SteepestBoxConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1SteepestBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly1SteepestBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly1SteepestBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1SteepestBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1SteepestBoxAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -761,8 +761,8 @@ func poly1SteepestBoxConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, e
 // poly1SteepestBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly1SteepestBoxGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1SteepestBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -783,8 +783,8 @@ func poly1SteepestBoxAbs(v float64) float64 {
 func poly1SteepestBoxRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1SteepestBoxDifferences) {
 	var h [1]float64
 	poly1SteepestBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1SteepestBoxUnitRoundoff * poly1SteepestBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1SteepestBoxUnitRoundoff * poly1SteepestBoxAbs(x[0]) * h[0]
 	}
 }
 
@@ -861,9 +861,9 @@ func poly1SteepestBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly1SteepestBoxStationarity(g, e, x *[1]float64, fx float64, b *poly1SteepestBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly1SteepestBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly1SteepestBoxLarger(0, e[i]-poly1SteepestBoxAbs(g[i]))
+	{
+		if poly1SteepestBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly1SteepestBoxLarger(0, e[0]-poly1SteepestBoxAbs(g[0]))
 		}
 	}
 	return poly1SteepestBoxGradientMeasure(&pg, &pe, x, fx)
@@ -889,10 +889,12 @@ func poly1SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1SteepestBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1SteepestBoxLarger(poly1SteepestBoxAbs(fx), 1)
-	for i := range g {
-		w := poly1SteepestBoxLarger(poly1SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1SteepestBoxLarger(measure, (poly1SteepestBoxAbs(g[i])+e[i])*w)
-		floor = poly1SteepestBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1SteepestBoxLarger(poly1SteepestBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1SteepestBoxLarger(measure, (poly1SteepestBoxAbs(g[0])+e[0])*w)
+			floor = poly1SteepestBoxLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -902,8 +904,8 @@ func poly1SteepestBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1SteepestBoxStepWithin(s, x *[1]float64, tol float64, diffs *poly1SteepestBoxDifferences) bool {
-	for i := range s {
-		if !(poly1SteepestBoxAbs(s[i]) <= tol*poly1SteepestBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1SteepestBoxAbs(s[0]) <= tol*poly1SteepestBoxStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -926,9 +928,9 @@ func poly1SteepestBoxStepScale(xi float64, i int, diffs *poly1SteepestBoxDiffere
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly1SteepestBoxCurvaturePair(s, y, x *[1]float64, b *poly1SteepestBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
 		}
 	}
 }
@@ -964,28 +966,30 @@ func poly1SteepestBoxLearnCurvature(s, y *[1]float64, diffs *poly1SteepestBoxDif
 func poly1SteepestBoxSearchDirection(dir *poly1SteepestBoxDirection, x, g, d *[1]float64, diffs *poly1SteepestBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly1SteepestBoxLarger(reach, poly1SteepestBoxAbs(x[i]-poly1SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly1SteepestBoxLarger(reach, poly1SteepestBoxAbs(x[0]-poly1SteepestBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
 	}
 	var free [1]float64
 	var active [1]bool
-	for i := range x {
-		margin := poly1SteepestBoxActiveMargin * poly1SteepestBoxLarger(1, poly1SteepestBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
-		}
-		active[i] = poly1SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+	{
+		{
+			margin := poly1SteepestBoxActiveMargin * poly1SteepestBoxLarger(1, poly1SteepestBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly1SteepestBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
 	}
 	poly1SteepestBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly1SteepestBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly1SteepestBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
 		}
 	}
 }
@@ -998,8 +1002,8 @@ func poly1SteepestBoxSolveDirection(dir *poly1SteepestBoxDirection, g, d *[1]flo
 // poly1SteepestBoxDot returns aᵀb.
 func poly1SteepestBoxDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -1028,9 +1032,9 @@ func (f *poly1SteepestBoxStepFloor) at(x, d *[1]float64, diffs *poly1SteepestBox
 // step test, min over i of tol·poly1SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1SteepestBoxTinyStep(x, d *[1]float64, tol float64, diffs *poly1SteepestBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1SteepestBoxStepScale(x[i], i, diffs) / poly1SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1SteepestBoxStepScale(x[0], 0, diffs) / poly1SteepestBoxAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1116,8 @@ func poly1SteepestBoxShrinkDirection(d, g *[1]float64) {
 // poly1SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1SteepestBoxMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1SteepestBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1SteepestBoxAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1126,8 @@ func poly1SteepestBoxMaxAbs(x *[1]float64) float64 {
 
 // poly1SteepestBoxScaleBy sets x = c·x.
 func poly1SteepestBoxScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1181,8 +1185,8 @@ func (r *poly1SteepestBoxRiseTrend) contradicts() bool {
 // poly1SteepestBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1SteepestBoxFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1SteepestBoxAbs(xt[i]-x[i]-want) <= 0.01*poly1SteepestBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1SteepestBoxAbs(xt[0]-x[0]-want) <= 0.01*poly1SteepestBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1242,8 +1246,8 @@ func poly1SteepestBoxTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b 
 // stands in for armijoDecrease when the spec has bounds.
 func poly1SteepestBoxAcceptable(fx, ft, t, slope float64, x, xt, g *[1]float64) bool {
 	var change float64
-	for i := range x {
-		change += g[i] * (xt[i] - x[i])
+	{
+		change += g[0] * (xt[0] - x[0])
 	}
 	return change < 0 && ft <= fx+poly1SteepestBoxStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1255,8 +1259,8 @@ func poly1SteepestBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float6
 
 // poly1SteepestBoxDifference sets out = a − b.
 func poly1SteepestBoxDifference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

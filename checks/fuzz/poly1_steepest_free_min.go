@@ -600,8 +600,8 @@ func (s *poly1SteepestFreeDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly1SteepestFreeNegate sets out = −x.
 func poly1SteepestFreeNegate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func poly1SteepestFreeValue(recv *Poly, x, g *[1]float64, diffs *poly1SteepestFr
 
 // poly1SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly1SteepestFreeFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !poly1SteepestFreeFinite(x[i]) {
+	{
+		if !poly1SteepestFreeFinite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func poly1SteepestFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += poly1SteepestFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly1SteepestFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly1SteepestFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly1SteepestFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly1SteepestFreeAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func poly1SteepestFreeConfirmGradient(recv *Poly, x *[1]float64, fx float64, g, 
 // poly1SteepestFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly1SteepestFreeGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *poly1SteepestFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func poly1SteepestFreeAbs(v float64) float64 {
 func poly1SteepestFreeRoundingFloor(recv *Poly, x, g, e *[1]float64, diffs *poly1SteepestFreeDifferences) {
 	var h [1]float64
 	poly1SteepestFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly1SteepestFreeUnitRoundoff * poly1SteepestFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly1SteepestFreeUnitRoundoff * poly1SteepestFreeAbs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func poly1SteepestFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1Stee
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1SteepestFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := poly1SteepestFreeLarger(poly1SteepestFreeAbs(fx), 1)
-	for i := range g {
-		w := poly1SteepestFreeLarger(poly1SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly1SteepestFreeLarger(measure, (poly1SteepestFreeAbs(g[i])+e[i])*w)
-		floor = poly1SteepestFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly1SteepestFreeLarger(poly1SteepestFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly1SteepestFreeLarger(measure, (poly1SteepestFreeAbs(g[0])+e[0])*w)
+			floor = poly1SteepestFreeLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func poly1SteepestFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly1SteepestFreeStepWithin(s, x *[1]float64, tol float64, diffs *poly1SteepestFreeDifferences) bool {
-	for i := range s {
-		if !(poly1SteepestFreeAbs(s[i]) <= tol*poly1SteepestFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly1SteepestFreeAbs(s[0]) <= tol*poly1SteepestFreeStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +903,8 @@ func poly1SteepestFreeSolveDirection(dir *poly1SteepestFreeDirection, g, d *[1]f
 // poly1SteepestFreeDot returns aᵀb.
 func poly1SteepestFreeDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -931,9 +933,9 @@ func (f *poly1SteepestFreeStepFloor) at(x, d *[1]float64, diffs *poly1SteepestFr
 // step test, min over i of tol·poly1SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly1SteepestFreeTinyStep(x, d *[1]float64, tol float64, diffs *poly1SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly1SteepestFreeStepScale(x[i], i, diffs) / poly1SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly1SteepestFreeStepScale(x[0], 0, diffs) / poly1SteepestFreeAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1015,8 +1017,8 @@ func poly1SteepestFreeShrinkDirection(d, g *[1]float64) {
 // poly1SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly1SteepestFreeMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly1SteepestFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly1SteepestFreeAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1025,8 +1027,8 @@ func poly1SteepestFreeMaxAbs(x *[1]float64) float64 {
 
 // poly1SteepestFreeScaleBy sets x = c·x.
 func poly1SteepestFreeScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1084,8 +1086,8 @@ func (r *poly1SteepestFreeRiseTrend) contradicts() bool {
 // poly1SteepestFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly1SteepestFreeFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly1SteepestFreeAbs(xt[i]-x[i]-want) <= 0.01*poly1SteepestFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly1SteepestFreeAbs(xt[0]-x[0]-want) <= 0.01*poly1SteepestFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1118,8 +1120,8 @@ func poly1SteepestFreeTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b
 
 // poly1SteepestFreeMoveTo sets out = x + t·d.
 func poly1SteepestFreeMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1145,8 +1147,8 @@ func poly1SteepestFreeBacktrackTrial(fx, slope, t, ft, previous, fPrevious float
 
 // poly1SteepestFreeDifference sets out = a − b.
 func poly1SteepestFreeDifference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -595,18 +595,25 @@ type poly2BFGSBoxDirection struct {
 }
 
 func (s *poly2BFGSBoxDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *poly2BFGSBoxDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -poly2BFGSBoxDot(&s.h[i], g)
+	{
+		d[0] = -poly2BFGSBoxDot(&s.h[0], g)
+		d[1] = -poly2BFGSBoxDot(&s.h[1], g)
 	}
 }
 
@@ -617,8 +624,9 @@ func (s *poly2BFGSBoxDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly2BFGSBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,17 +634,29 @@ func (s *poly2BFGSBoxDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = poly2BFGSBoxDot(&s.h[i], change)
+	{
+		hy[0] = poly2BFGSBoxDot(&s.h[0], change)
+		hy[1] = poly2BFGSBoxDot(&s.h[1], change)
 	}
 	outer := (rho*rho*poly2BFGSBoxDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -653,8 +673,9 @@ func (s *poly2BFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly2BFGSBoxDot returns aᵀb.
 func poly2BFGSBoxDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -683,8 +704,9 @@ const (
 // poly2BFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly2BFGSBoxEnterBox(x *[2]float64, b *poly2BFGSBoxBox) {
-	for i := range x {
-		x[i] = poly2BFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly2BFGSBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly2BFGSBoxClampBetween(x[1], b.lower[1], b.upper[1])
 	}
 }
 
@@ -729,8 +751,11 @@ func poly2BFGSBoxFinite(v float64) bool {
 
 // poly2BFGSBoxFiniteVec reports whether every component of x is finite.
 func poly2BFGSBoxFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !poly2BFGSBoxFinite(x[i]) {
+	{
+		if !poly2BFGSBoxFinite(x[0]) {
+			return false
+		}
+		if !poly2BFGSBoxFinite(x[1]) {
 			return false
 		}
 	}
@@ -784,15 +809,17 @@ func poly2BFGSBoxConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *[2
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += poly2BFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly2BFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly2BFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly2BFGSBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly2BFGSBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * poly2BFGSBoxAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -800,8 +827,9 @@ func poly2BFGSBoxConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *[2
 // poly2BFGSBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly2BFGSBoxGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *poly2BFGSBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -822,8 +850,9 @@ func poly2BFGSBoxAbs(v float64) float64 {
 func poly2BFGSBoxRoundingFloor(recv *Poly, x, g, e *[2]float64, diffs *poly2BFGSBoxDifferences) {
 	var h [2]float64
 	poly2BFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly2BFGSBoxUnitRoundoff * poly2BFGSBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly2BFGSBoxUnitRoundoff * poly2BFGSBoxAbs(x[0]) * h[0]
+		e[1] += 4 * poly2BFGSBoxUnitRoundoff * poly2BFGSBoxAbs(x[1]) * h[1]
 	}
 }
 
@@ -900,9 +929,12 @@ func poly2BFGSBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly2BFGSBoxStationarity(g, e, x *[2]float64, fx float64, b *poly2BFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly2BFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly2BFGSBoxLarger(0, e[i]-poly2BFGSBoxAbs(g[i]))
+	{
+		if poly2BFGSBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly2BFGSBoxLarger(0, e[0]-poly2BFGSBoxAbs(g[0]))
+		}
+		if poly2BFGSBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly2BFGSBoxLarger(0, e[1]-poly2BFGSBoxAbs(g[1]))
 		}
 	}
 	return poly2BFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -928,10 +960,17 @@ func poly2BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2BFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := poly2BFGSBoxLarger(poly2BFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly2BFGSBoxLarger(poly2BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly2BFGSBoxLarger(measure, (poly2BFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly2BFGSBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly2BFGSBoxLarger(poly2BFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly2BFGSBoxLarger(measure, (poly2BFGSBoxAbs(g[0])+e[0])*w)
+			floor = poly2BFGSBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := poly2BFGSBoxLarger(poly2BFGSBoxAbs(x[1]), 1) / scale
+			measure = poly2BFGSBoxLarger(measure, (poly2BFGSBoxAbs(g[1])+e[1])*w)
+			floor = poly2BFGSBoxLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +980,11 @@ func poly2BFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly2BFGSBoxStepWithin(s, x *[2]float64, tol float64, diffs *poly2BFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly2BFGSBoxAbs(s[i]) <= tol*poly2BFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly2BFGSBoxAbs(s[0]) <= tol*poly2BFGSBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly2BFGSBoxAbs(s[1]) <= tol*poly2BFGSBoxStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +1007,12 @@ func poly2BFGSBoxStepScale(xi float64, i int, diffs *poly2BFGSBoxDifferences) fl
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly2BFGSBoxCurvaturePair(s, y, x *[2]float64, b *poly2BFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
 		}
 	}
 }
@@ -1003,28 +1048,47 @@ func poly2BFGSBoxLearnCurvature(s, y *[2]float64, diffs *poly2BFGSBoxDifferences
 func poly2BFGSBoxSearchDirection(dir *poly2BFGSBoxDirection, x, g, d *[2]float64, diffs *poly2BFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly2BFGSBoxLarger(reach, poly2BFGSBoxAbs(x[i]-poly2BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly2BFGSBoxLarger(reach, poly2BFGSBoxAbs(x[0]-poly2BFGSBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly2BFGSBoxLarger(reach, poly2BFGSBoxAbs(x[1]-poly2BFGSBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
 	}
 	var free [2]float64
 	var active [2]bool
-	for i := range x {
-		margin := poly2BFGSBoxActiveMargin * poly2BFGSBoxLarger(1, poly2BFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly2BFGSBoxActiveMargin * poly2BFGSBoxLarger(1, poly2BFGSBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly2BFGSBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly2BFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly2BFGSBoxActiveMargin * poly2BFGSBoxLarger(1, poly2BFGSBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly2BFGSBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
 		}
 	}
 	poly2BFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly2BFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly2BFGSBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly2BFGSBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
 		}
 	}
 }
@@ -1058,9 +1122,14 @@ func (f *poly2BFGSBoxStepFloor) at(x, d *[2]float64, diffs *poly2BFGSBoxDifferen
 // step test, min over i of tol·poly2BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2BFGSBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly2BFGSBoxStepScale(x[i], i, diffs) / poly2BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly2BFGSBoxStepScale(x[0], 0, diffs) / poly2BFGSBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly2BFGSBoxStepScale(x[1], 1, diffs) / poly2BFGSBoxAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1277,11 @@ func poly2BFGSBoxShrinkDirection(d, g *[2]float64) {
 // poly2BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly2BFGSBoxMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly2BFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly2BFGSBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly2BFGSBoxAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1290,9 @@ func poly2BFGSBoxMaxAbs(x *[2]float64) float64 {
 
 // poly2BFGSBoxScaleBy sets x = c·x.
 func poly2BFGSBoxScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1284,8 +1357,11 @@ func (r *poly2BFGSBoxRiseTrend) contradicts() bool {
 // poly2BFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly2BFGSBoxFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly2BFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly2BFGSBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly2BFGSBoxAbs(xt[0]-x[0]-want) <= 0.01*poly2BFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly2BFGSBoxAbs(xt[1]-x[1]-want) <= 0.01*poly2BFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1304,16 +1380,30 @@ func poly2BFGSBoxFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 func poly2BFGSBoxStepCap(x, d *[2]float64, floor *poly2BFGSBoxStepFloor, diffs *poly2BFGSBoxDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
-		if hit > tiny && hit < limit {
-			limit = hit
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[1] > 0:
+				hit = (b.upper[1] - x[1]) / d[1]
+			case d[1] < 0:
+				hit = (b.lower[1] - x[1]) / d[1]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1436,8 +1526,9 @@ func poly2BFGSBoxExpandTrial(previous, current *poly2BFGSBoxLinePoint) float64 {
 
 // poly2BFGSBoxGradientChange sets out = a − b.
 func poly2BFGSBoxGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

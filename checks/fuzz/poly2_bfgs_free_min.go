@@ -585,18 +585,25 @@ type poly2BFGSFreeDirection struct {
 }
 
 func (s *poly2BFGSFreeDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *poly2BFGSFreeDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -poly2BFGSFreeDot(&s.h[i], g)
+	{
+		d[0] = -poly2BFGSFreeDot(&s.h[0], g)
+		d[1] = -poly2BFGSFreeDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *poly2BFGSFreeDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly2BFGSFreeDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *poly2BFGSFreeDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = poly2BFGSFreeDot(&s.h[i], change)
+	{
+		hy[0] = poly2BFGSFreeDot(&s.h[0], change)
+		hy[1] = poly2BFGSFreeDot(&s.h[1], change)
 	}
 	outer := (rho*rho*poly2BFGSFreeDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *poly2BFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly2BFGSFreeDot returns aᵀb.
 func poly2BFGSFreeDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func poly2BFGSFreeFinite(v float64) bool {
 
 // poly2BFGSFreeFiniteVec reports whether every component of x is finite.
 func poly2BFGSFreeFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !poly2BFGSFreeFinite(x[i]) {
+	{
+		if !poly2BFGSFreeFinite(x[0]) {
+			return false
+		}
+		if !poly2BFGSFreeFinite(x[1]) {
 			return false
 		}
 	}
@@ -754,15 +778,17 @@ func poly2BFGSFreeConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += poly2BFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly2BFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly2BFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly2BFGSFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly2BFGSFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly2BFGSFreeAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -770,8 +796,9 @@ func poly2BFGSFreeConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *[
 // poly2BFGSFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly2BFGSFreeGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *poly2BFGSFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -792,8 +819,9 @@ func poly2BFGSFreeAbs(v float64) float64 {
 func poly2BFGSFreeRoundingFloor(recv *Poly, x, g, e *[2]float64, diffs *poly2BFGSFreeDifferences) {
 	var h [2]float64
 	poly2BFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly2BFGSFreeUnitRoundoff * poly2BFGSFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly2BFGSFreeUnitRoundoff * poly2BFGSFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly2BFGSFreeUnitRoundoff * poly2BFGSFreeAbs(x[1]) * h[1]
 	}
 }
 
@@ -895,10 +923,17 @@ func poly2BFGSFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2BFGSFree
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2BFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := poly2BFGSFreeLarger(poly2BFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly2BFGSFreeLarger(poly2BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly2BFGSFreeLarger(measure, (poly2BFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly2BFGSFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly2BFGSFreeLarger(poly2BFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly2BFGSFreeLarger(measure, (poly2BFGSFreeAbs(g[0])+e[0])*w)
+			floor = poly2BFGSFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly2BFGSFreeLarger(poly2BFGSFreeAbs(x[1]), 1) / scale
+			measure = poly2BFGSFreeLarger(measure, (poly2BFGSFreeAbs(g[1])+e[1])*w)
+			floor = poly2BFGSFreeLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +943,11 @@ func poly2BFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly2BFGSFreeStepWithin(s, x *[2]float64, tol float64, diffs *poly2BFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly2BFGSFreeAbs(s[i]) <= tol*poly2BFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly2BFGSFreeAbs(s[0]) <= tol*poly2BFGSFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly2BFGSFreeAbs(s[1]) <= tol*poly2BFGSFreeStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +999,14 @@ func (f *poly2BFGSFreeStepFloor) at(x, d *[2]float64, diffs *poly2BFGSFreeDiffer
 // step test, min over i of tol·poly2BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2BFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2BFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly2BFGSFreeStepScale(x[i], i, diffs) / poly2BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly2BFGSFreeStepScale(x[0], 0, diffs) / poly2BFGSFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly2BFGSFreeStepScale(x[1], 1, diffs) / poly2BFGSFreeAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1154,11 @@ func poly2BFGSFreeShrinkDirection(d, g *[2]float64) {
 // poly2BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly2BFGSFreeMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly2BFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly2BFGSFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly2BFGSFreeAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1167,9 @@ func poly2BFGSFreeMaxAbs(x *[2]float64) float64 {
 
 // poly2BFGSFreeScaleBy sets x = c·x.
 func poly2BFGSFreeScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1187,8 +1234,11 @@ func (r *poly2BFGSFreeRiseTrend) contradicts() bool {
 // poly2BFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly2BFGSFreeFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly2BFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly2BFGSFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly2BFGSFreeAbs(xt[0]-x[0]-want) <= 0.01*poly2BFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly2BFGSFreeAbs(xt[1]-x[1]-want) <= 0.01*poly2BFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1287,9 @@ func poly2BFGSFreeTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *po
 
 // poly2BFGSFreeMoveTo sets out = x + t·d.
 func poly2BFGSFreeMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1304,8 +1355,9 @@ func poly2BFGSFreeExpandTrial(previous, current *poly2BFGSFreeLinePoint) float64
 
 // poly2BFGSFreeGradientChange sets out = a − b.
 func poly2BFGSFreeGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -610,8 +610,9 @@ func (s *poly2LBFGSBoxDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * poly2LBFGSBoxDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -621,8 +622,9 @@ func (s *poly2LBFGSBoxDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := poly2LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly2LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -632,8 +634,9 @@ func (s *poly2LBFGSBoxDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly2LBFGSBoxDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	poly2LBFGSBoxNegate(d, &q)
@@ -668,16 +671,18 @@ func (s *poly2LBFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly2LBFGSBoxDot returns aᵀb.
 func poly2LBFGSBoxDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // poly2LBFGSBoxNegate sets out = −x.
 func poly2LBFGSBoxNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -716,8 +721,9 @@ const (
 // poly2LBFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly2LBFGSBoxEnterBox(x *[2]float64, b *poly2LBFGSBoxBox) {
-	for i := range x {
-		x[i] = poly2LBFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly2LBFGSBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly2LBFGSBoxClampBetween(x[1], b.lower[1], b.upper[1])
 	}
 }
 
@@ -762,8 +768,11 @@ func poly2LBFGSBoxFinite(v float64) bool {
 
 // poly2LBFGSBoxFiniteVec reports whether every component of x is finite.
 func poly2LBFGSBoxFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !poly2LBFGSBoxFinite(x[i]) {
+	{
+		if !poly2LBFGSBoxFinite(x[0]) {
+			return false
+		}
+		if !poly2LBFGSBoxFinite(x[1]) {
 			return false
 		}
 	}
@@ -835,16 +844,29 @@ func poly2LBFGSBoxCalibrate(recv *Poly, x *[2]float64, fx float64, diffs *poly2L
 		}
 	}
 	noise := poly2LBFGSBoxNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := poly2LBFGSBoxLarger(1, poly2LBFGSBoxAbs(probe[i]))
-		bar := quarter * s
-		third := poly2LBFGSBoxLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = poly2LBFGSBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := poly2LBFGSBoxLarger(1, poly2LBFGSBoxAbs(probe[0]))
+			bar := quarter * s
+			third := poly2LBFGSBoxLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly2LBFGSBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = poly2LBFGSBoxClampBetween(h, 64*poly2LBFGSBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = poly2LBFGSBoxClampBetween(h, 64*poly2LBFGSBoxUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := poly2LBFGSBoxLarger(1, poly2LBFGSBoxAbs(probe[1]))
+			bar := quarter * s
+			third := poly2LBFGSBoxLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly2LBFGSBoxCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = poly2LBFGSBoxClampBetween(h, 64*poly2LBFGSBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -923,8 +945,9 @@ func poly2LBFGSBoxMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly2LBFGSBoxNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := poly2LBFGSBoxAbs(fx)
-	for i := range x {
-		sum += poly2LBFGSBoxAbs(g[i] * x[i])
+	{
+		sum += poly2LBFGSBoxAbs(g[0] * x[0])
+		sum += poly2LBFGSBoxAbs(g[1] * x[1])
 	}
 	return 4 * poly2LBFGSBoxUnitRoundoff * sum
 }
@@ -1051,15 +1074,17 @@ func poly2LBFGSBoxConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += poly2LBFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly2LBFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly2LBFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly2LBFGSBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly2LBFGSBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * poly2LBFGSBoxAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1070,16 +1095,30 @@ func poly2LBFGSBoxConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *[
 // in forwardError).
 func poly2LBFGSBoxGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *poly2LBFGSBoxDifferences) {
 	noise := poly2LBFGSBoxNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := poly2LBFGSBoxCentralInterval(x, i, diffs)
-		h = poly2LBFGSBoxAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := poly2LBFGSBoxCentralInterval(x, 0, diffs)
+			h = poly2LBFGSBoxAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := poly2LBFGSBoxCentralInterval(x, 1, diffs)
+			h = poly2LBFGSBoxAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1093,8 +1132,9 @@ func poly2LBFGSBoxGradientError(x *[2]float64, fx float64, g, e *[2]float64, dif
 func poly2LBFGSBoxRoundingFloor(recv *Poly, x, g, e *[2]float64, diffs *poly2LBFGSBoxDifferences) {
 	var h [2]float64
 	poly2LBFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly2LBFGSBoxUnitRoundoff * poly2LBFGSBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly2LBFGSBoxUnitRoundoff * poly2LBFGSBoxAbs(x[0]) * h[0]
+		e[1] += 4 * poly2LBFGSBoxUnitRoundoff * poly2LBFGSBoxAbs(x[1]) * h[1]
 	}
 }
 
@@ -1112,9 +1152,12 @@ func poly2LBFGSBoxDiagonalCurvature(recv *Poly, x, g *[2]float64, diffs *poly2LB
 // eᵢ − |gᵢ|, which is what is counted.
 func poly2LBFGSBoxStationarity(g, e, x *[2]float64, fx float64, b *poly2LBFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly2LBFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly2LBFGSBoxLarger(0, e[i]-poly2LBFGSBoxAbs(g[i]))
+	{
+		if poly2LBFGSBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly2LBFGSBoxLarger(0, e[0]-poly2LBFGSBoxAbs(g[0]))
+		}
+		if poly2LBFGSBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly2LBFGSBoxLarger(0, e[1]-poly2LBFGSBoxAbs(g[1]))
 		}
 	}
 	return poly2LBFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -1140,10 +1183,17 @@ func poly2LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2LBFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly2LBFGSBoxLarger(measure, (poly2LBFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly2LBFGSBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly2LBFGSBoxLarger(measure, (poly2LBFGSBoxAbs(g[0])+e[0])*w)
+			floor = poly2LBFGSBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(x[1]), 1) / scale
+			measure = poly2LBFGSBoxLarger(measure, (poly2LBFGSBoxAbs(g[1])+e[1])*w)
+			floor = poly2LBFGSBoxLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1153,8 +1203,11 @@ func poly2LBFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly2LBFGSBoxStepWithin(s, x *[2]float64, tol float64, diffs *poly2LBFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly2LBFGSBoxAbs(s[i]) <= tol*poly2LBFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly2LBFGSBoxAbs(s[0]) <= tol*poly2LBFGSBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly2LBFGSBoxAbs(s[1]) <= tol*poly2LBFGSBoxStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1177,9 +1230,12 @@ func poly2LBFGSBoxStepScale(xi float64, i int, diffs *poly2LBFGSBoxDifferences) 
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly2LBFGSBoxCurvaturePair(s, y, x *[2]float64, b *poly2LBFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
 		}
 	}
 }
@@ -1215,28 +1271,47 @@ func poly2LBFGSBoxLearnCurvature(s, y *[2]float64, diffs *poly2LBFGSBoxDifferenc
 func poly2LBFGSBoxSearchDirection(dir *poly2LBFGSBoxDirection, x, g, d *[2]float64, diffs *poly2LBFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly2LBFGSBoxLarger(reach, poly2LBFGSBoxAbs(x[i]-poly2LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly2LBFGSBoxLarger(reach, poly2LBFGSBoxAbs(x[0]-poly2LBFGSBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly2LBFGSBoxLarger(reach, poly2LBFGSBoxAbs(x[1]-poly2LBFGSBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
 	}
 	var free [2]float64
 	var active [2]bool
-	for i := range x {
-		margin := poly2LBFGSBoxActiveMargin * poly2LBFGSBoxLarger(1, poly2LBFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly2LBFGSBoxActiveMargin * poly2LBFGSBoxLarger(1, poly2LBFGSBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly2LBFGSBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly2LBFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly2LBFGSBoxActiveMargin * poly2LBFGSBoxLarger(1, poly2LBFGSBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly2LBFGSBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
 		}
 	}
 	poly2LBFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly2LBFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly2LBFGSBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly2LBFGSBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
 		}
 	}
 }
@@ -1270,9 +1345,14 @@ func (f *poly2LBFGSBoxStepFloor) at(x, d *[2]float64, diffs *poly2LBFGSBoxDiffer
 // step test, min over i of tol·poly2LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2LBFGSBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly2LBFGSBoxStepScale(x[i], i, diffs) / poly2LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly2LBFGSBoxStepScale(x[0], 0, diffs) / poly2LBFGSBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly2LBFGSBoxStepScale(x[1], 1, diffs) / poly2LBFGSBoxAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1420,8 +1500,11 @@ func poly2LBFGSBoxShrinkDirection(d, g *[2]float64) {
 // poly2LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly2LBFGSBoxMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly2LBFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly2LBFGSBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly2LBFGSBoxAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1430,8 +1513,9 @@ func poly2LBFGSBoxMaxAbs(x *[2]float64) float64 {
 
 // poly2LBFGSBoxScaleBy sets x = c·x.
 func poly2LBFGSBoxScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1496,8 +1580,11 @@ func (r *poly2LBFGSBoxRiseTrend) contradicts() bool {
 // poly2LBFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly2LBFGSBoxFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly2LBFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly2LBFGSBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly2LBFGSBoxAbs(xt[0]-x[0]-want) <= 0.01*poly2LBFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly2LBFGSBoxAbs(xt[1]-x[1]-want) <= 0.01*poly2LBFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1516,16 +1603,30 @@ func poly2LBFGSBoxFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 func poly2LBFGSBoxStepCap(x, d *[2]float64, floor *poly2LBFGSBoxStepFloor, diffs *poly2LBFGSBoxDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
-		if hit > tiny && hit < limit {
-			limit = hit
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[1] > 0:
+				hit = (b.upper[1] - x[1]) / d[1]
+			case d[1] < 0:
+				hit = (b.lower[1] - x[1]) / d[1]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1648,8 +1749,9 @@ func poly2LBFGSBoxExpandTrial(previous, current *poly2LBFGSBoxLinePoint) float64
 
 // poly2LBFGSBoxGradientChange sets out = a − b.
 func poly2LBFGSBoxGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -600,8 +600,9 @@ func (s *poly2LBFGSFreeDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * poly2LBFGSFreeDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *poly2LBFGSFreeDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := poly2LBFGSFreeDot(&s.s[newest], &s.y[newest]) / poly2LBFGSFreeDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *poly2LBFGSFreeDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly2LBFGSFreeDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	poly2LBFGSFreeNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *poly2LBFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly2LBFGSFreeDot returns aᵀb.
 func poly2LBFGSFreeDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // poly2LBFGSFreeNegate sets out = −x.
 func poly2LBFGSFreeNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func poly2LBFGSFreeFinite(v float64) bool {
 
 // poly2LBFGSFreeFiniteVec reports whether every component of x is finite.
 func poly2LBFGSFreeFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !poly2LBFGSFreeFinite(x[i]) {
+	{
+		if !poly2LBFGSFreeFinite(x[0]) {
+			return false
+		}
+		if !poly2LBFGSFreeFinite(x[1]) {
 			return false
 		}
 	}
@@ -805,16 +813,29 @@ func poly2LBFGSFreeCalibrate(recv *Poly, x *[2]float64, fx float64, diffs *poly2
 		}
 	}
 	noise := poly2LBFGSFreeNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := poly2LBFGSFreeLarger(1, poly2LBFGSFreeAbs(probe[i]))
-		bar := quarter * s
-		third := poly2LBFGSFreeLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = poly2LBFGSFreeCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := poly2LBFGSFreeLarger(1, poly2LBFGSFreeAbs(probe[0]))
+			bar := quarter * s
+			third := poly2LBFGSFreeLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly2LBFGSFreeCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = poly2LBFGSFreeClampBetween(h, 64*poly2LBFGSFreeUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = poly2LBFGSFreeClampBetween(h, 64*poly2LBFGSFreeUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := poly2LBFGSFreeLarger(1, poly2LBFGSFreeAbs(probe[1]))
+			bar := quarter * s
+			third := poly2LBFGSFreeLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly2LBFGSFreeCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = poly2LBFGSFreeClampBetween(h, 64*poly2LBFGSFreeUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +929,9 @@ func poly2LBFGSFreeMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly2LBFGSFreeNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := poly2LBFGSFreeAbs(fx)
-	for i := range x {
-		sum += poly2LBFGSFreeAbs(g[i] * x[i])
+	{
+		sum += poly2LBFGSFreeAbs(g[0] * x[0])
+		sum += poly2LBFGSFreeAbs(g[1] * x[1])
 	}
 	return 4 * poly2LBFGSFreeUnitRoundoff * sum
 }
@@ -1036,15 +1058,17 @@ func poly2LBFGSFreeConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += poly2LBFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly2LBFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly2LBFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly2LBFGSFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly2LBFGSFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly2LBFGSFreeAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1055,16 +1079,30 @@ func poly2LBFGSFreeConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e *
 // in forwardError).
 func poly2LBFGSFreeGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *poly2LBFGSFreeDifferences) {
 	noise := poly2LBFGSFreeNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := poly2LBFGSFreeCentralInterval(x, i, diffs)
-		h = poly2LBFGSFreeAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := poly2LBFGSFreeCentralInterval(x, 0, diffs)
+			h = poly2LBFGSFreeAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := poly2LBFGSFreeCentralInterval(x, 1, diffs)
+			h = poly2LBFGSFreeAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1116,9 @@ func poly2LBFGSFreeGradientError(x *[2]float64, fx float64, g, e *[2]float64, di
 func poly2LBFGSFreeRoundingFloor(recv *Poly, x, g, e *[2]float64, diffs *poly2LBFGSFreeDifferences) {
 	var h [2]float64
 	poly2LBFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly2LBFGSFreeUnitRoundoff * poly2LBFGSFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly2LBFGSFreeUnitRoundoff * poly2LBFGSFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly2LBFGSFreeUnitRoundoff * poly2LBFGSFreeAbs(x[1]) * h[1]
 	}
 }
 
@@ -1107,10 +1146,17 @@ func poly2LBFGSFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2LBFGSFr
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2LBFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly2LBFGSFreeLarger(measure, (poly2LBFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly2LBFGSFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly2LBFGSFreeLarger(measure, (poly2LBFGSFreeAbs(g[0])+e[0])*w)
+			floor = poly2LBFGSFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(x[1]), 1) / scale
+			measure = poly2LBFGSFreeLarger(measure, (poly2LBFGSFreeAbs(g[1])+e[1])*w)
+			floor = poly2LBFGSFreeLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1166,11 @@ func poly2LBFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly2LBFGSFreeStepWithin(s, x *[2]float64, tol float64, diffs *poly2LBFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly2LBFGSFreeAbs(s[i]) <= tol*poly2LBFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly2LBFGSFreeAbs(s[0]) <= tol*poly2LBFGSFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly2LBFGSFreeAbs(s[1]) <= tol*poly2LBFGSFreeStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1222,14 @@ func (f *poly2LBFGSFreeStepFloor) at(x, d *[2]float64, diffs *poly2LBFGSFreeDiff
 // step test, min over i of tol·poly2LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2LBFGSFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2LBFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly2LBFGSFreeStepScale(x[i], i, diffs) / poly2LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly2LBFGSFreeStepScale(x[0], 0, diffs) / poly2LBFGSFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly2LBFGSFreeStepScale(x[1], 1, diffs) / poly2LBFGSFreeAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1377,11 @@ func poly2LBFGSFreeShrinkDirection(d, g *[2]float64) {
 // poly2LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly2LBFGSFreeMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly2LBFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly2LBFGSFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly2LBFGSFreeAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1390,9 @@ func poly2LBFGSFreeMaxAbs(x *[2]float64) float64 {
 
 // poly2LBFGSFreeScaleBy sets x = c·x.
 func poly2LBFGSFreeScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1399,8 +1457,11 @@ func (r *poly2LBFGSFreeRiseTrend) contradicts() bool {
 // poly2LBFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly2LBFGSFreeFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly2LBFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly2LBFGSFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly2LBFGSFreeAbs(xt[0]-x[0]-want) <= 0.01*poly2LBFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly2LBFGSFreeAbs(xt[1]-x[1]-want) <= 0.01*poly2LBFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1510,9 @@ func poly2LBFGSFreeTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *p
 
 // poly2LBFGSFreeMoveTo sets out = x + t·d.
 func poly2LBFGSFreeMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1516,8 +1578,9 @@ func poly2LBFGSFreeExpandTrial(previous, current *poly2LBFGSFreeLinePoint) float
 
 // poly2LBFGSFreeGradientChange sets out = a − b.
 func poly2LBFGSFreeGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

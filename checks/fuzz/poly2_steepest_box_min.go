@@ -610,8 +610,9 @@ func (s *poly2SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly2SteepestBoxNegate sets out = −x.
 func poly2SteepestBoxNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -656,8 +657,9 @@ const (
 // poly2SteepestBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly2SteepestBoxEnterBox(x *[2]float64, b *poly2SteepestBoxBox) {
-	for i := range x {
-		x[i] = poly2SteepestBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly2SteepestBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly2SteepestBoxClampBetween(x[1], b.lower[1], b.upper[1])
 	}
 }
 
@@ -690,8 +692,11 @@ func poly2SteepestBoxValue(recv *Poly, x, g *[2]float64, diffs *poly2SteepestBox
 
 // poly2SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly2SteepestBoxFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !poly2SteepestBoxFinite(x[i]) {
+	{
+		if !poly2SteepestBoxFinite(x[0]) {
+			return false
+		}
+		if !poly2SteepestBoxFinite(x[1]) {
 			return false
 		}
 	}
@@ -745,15 +750,17 @@ func poly2SteepestBoxConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += poly2SteepestBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly2SteepestBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly2SteepestBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly2SteepestBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly2SteepestBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * poly2SteepestBoxAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -761,8 +768,9 @@ func poly2SteepestBoxConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, e
 // poly2SteepestBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly2SteepestBoxGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *poly2SteepestBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -783,8 +791,9 @@ func poly2SteepestBoxAbs(v float64) float64 {
 func poly2SteepestBoxRoundingFloor(recv *Poly, x, g, e *[2]float64, diffs *poly2SteepestBoxDifferences) {
 	var h [2]float64
 	poly2SteepestBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly2SteepestBoxUnitRoundoff * poly2SteepestBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly2SteepestBoxUnitRoundoff * poly2SteepestBoxAbs(x[0]) * h[0]
+		e[1] += 4 * poly2SteepestBoxUnitRoundoff * poly2SteepestBoxAbs(x[1]) * h[1]
 	}
 }
 
@@ -861,9 +870,12 @@ func poly2SteepestBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly2SteepestBoxStationarity(g, e, x *[2]float64, fx float64, b *poly2SteepestBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly2SteepestBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly2SteepestBoxLarger(0, e[i]-poly2SteepestBoxAbs(g[i]))
+	{
+		if poly2SteepestBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly2SteepestBoxLarger(0, e[0]-poly2SteepestBoxAbs(g[0]))
+		}
+		if poly2SteepestBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly2SteepestBoxLarger(0, e[1]-poly2SteepestBoxAbs(g[1]))
 		}
 	}
 	return poly2SteepestBoxGradientMeasure(&pg, &pe, x, fx)
@@ -889,10 +901,17 @@ func poly2SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2SteepestBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := poly2SteepestBoxLarger(poly2SteepestBoxAbs(fx), 1)
-	for i := range g {
-		w := poly2SteepestBoxLarger(poly2SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly2SteepestBoxLarger(measure, (poly2SteepestBoxAbs(g[i])+e[i])*w)
-		floor = poly2SteepestBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly2SteepestBoxLarger(poly2SteepestBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly2SteepestBoxLarger(measure, (poly2SteepestBoxAbs(g[0])+e[0])*w)
+			floor = poly2SteepestBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := poly2SteepestBoxLarger(poly2SteepestBoxAbs(x[1]), 1) / scale
+			measure = poly2SteepestBoxLarger(measure, (poly2SteepestBoxAbs(g[1])+e[1])*w)
+			floor = poly2SteepestBoxLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -902,8 +921,11 @@ func poly2SteepestBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly2SteepestBoxStepWithin(s, x *[2]float64, tol float64, diffs *poly2SteepestBoxDifferences) bool {
-	for i := range s {
-		if !(poly2SteepestBoxAbs(s[i]) <= tol*poly2SteepestBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly2SteepestBoxAbs(s[0]) <= tol*poly2SteepestBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly2SteepestBoxAbs(s[1]) <= tol*poly2SteepestBoxStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -926,9 +948,12 @@ func poly2SteepestBoxStepScale(xi float64, i int, diffs *poly2SteepestBoxDiffere
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly2SteepestBoxCurvaturePair(s, y, x *[2]float64, b *poly2SteepestBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
 		}
 	}
 }
@@ -964,28 +989,47 @@ func poly2SteepestBoxLearnCurvature(s, y *[2]float64, diffs *poly2SteepestBoxDif
 func poly2SteepestBoxSearchDirection(dir *poly2SteepestBoxDirection, x, g, d *[2]float64, diffs *poly2SteepestBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly2SteepestBoxLarger(reach, poly2SteepestBoxAbs(x[i]-poly2SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly2SteepestBoxLarger(reach, poly2SteepestBoxAbs(x[0]-poly2SteepestBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly2SteepestBoxLarger(reach, poly2SteepestBoxAbs(x[1]-poly2SteepestBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
 	}
 	var free [2]float64
 	var active [2]bool
-	for i := range x {
-		margin := poly2SteepestBoxActiveMargin * poly2SteepestBoxLarger(1, poly2SteepestBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly2SteepestBoxActiveMargin * poly2SteepestBoxLarger(1, poly2SteepestBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly2SteepestBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly2SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly2SteepestBoxActiveMargin * poly2SteepestBoxLarger(1, poly2SteepestBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly2SteepestBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
 		}
 	}
 	poly2SteepestBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly2SteepestBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly2SteepestBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly2SteepestBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
 		}
 	}
 }
@@ -998,8 +1042,9 @@ func poly2SteepestBoxSolveDirection(dir *poly2SteepestBoxDirection, g, d *[2]flo
 // poly2SteepestBoxDot returns aᵀb.
 func poly2SteepestBoxDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -1028,9 +1073,14 @@ func (f *poly2SteepestBoxStepFloor) at(x, d *[2]float64, diffs *poly2SteepestBox
 // step test, min over i of tol·poly2SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2SteepestBoxTinyStep(x, d *[2]float64, tol float64, diffs *poly2SteepestBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly2SteepestBoxStepScale(x[i], i, diffs) / poly2SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly2SteepestBoxStepScale(x[0], 0, diffs) / poly2SteepestBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly2SteepestBoxStepScale(x[1], 1, diffs) / poly2SteepestBoxAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1162,11 @@ func poly2SteepestBoxShrinkDirection(d, g *[2]float64) {
 // poly2SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly2SteepestBoxMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly2SteepestBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly2SteepestBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly2SteepestBoxAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1175,9 @@ func poly2SteepestBoxMaxAbs(x *[2]float64) float64 {
 
 // poly2SteepestBoxScaleBy sets x = c·x.
 func poly2SteepestBoxScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1181,8 +1235,11 @@ func (r *poly2SteepestBoxRiseTrend) contradicts() bool {
 // poly2SteepestBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly2SteepestBoxFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly2SteepestBoxAbs(xt[i]-x[i]-want) <= 0.01*poly2SteepestBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly2SteepestBoxAbs(xt[0]-x[0]-want) <= 0.01*poly2SteepestBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly2SteepestBoxAbs(xt[1]-x[1]-want) <= 0.01*poly2SteepestBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1242,8 +1299,9 @@ func poly2SteepestBoxTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b 
 // stands in for armijoDecrease when the spec has bounds.
 func poly2SteepestBoxAcceptable(fx, ft, t, slope float64, x, xt, g *[2]float64) bool {
 	var change float64
-	for i := range x {
-		change += g[i] * (xt[i] - x[i])
+	{
+		change += g[0] * (xt[0] - x[0])
+		change += g[1] * (xt[1] - x[1])
 	}
 	return change < 0 && ft <= fx+poly2SteepestBoxStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1255,8 +1313,9 @@ func poly2SteepestBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float6
 
 // poly2SteepestBoxDifference sets out = a − b.
 func poly2SteepestBoxDifference(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -600,8 +600,9 @@ func (s *poly2SteepestFreeDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly2SteepestFreeNegate sets out = −x.
 func poly2SteepestFreeNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -660,8 +661,11 @@ func poly2SteepestFreeValue(recv *Poly, x, g *[2]float64, diffs *poly2SteepestFr
 
 // poly2SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly2SteepestFreeFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !poly2SteepestFreeFinite(x[i]) {
+	{
+		if !poly2SteepestFreeFinite(x[0]) {
+			return false
+		}
+		if !poly2SteepestFreeFinite(x[1]) {
 			return false
 		}
 	}
@@ -715,15 +719,17 @@ func poly2SteepestFreeConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += poly2SteepestFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly2SteepestFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly2SteepestFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly2SteepestFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly2SteepestFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly2SteepestFreeAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -731,8 +737,9 @@ func poly2SteepestFreeConfirmGradient(recv *Poly, x *[2]float64, fx float64, g, 
 // poly2SteepestFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly2SteepestFreeGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *poly2SteepestFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -753,8 +760,9 @@ func poly2SteepestFreeAbs(v float64) float64 {
 func poly2SteepestFreeRoundingFloor(recv *Poly, x, g, e *[2]float64, diffs *poly2SteepestFreeDifferences) {
 	var h [2]float64
 	poly2SteepestFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly2SteepestFreeUnitRoundoff * poly2SteepestFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly2SteepestFreeUnitRoundoff * poly2SteepestFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly2SteepestFreeUnitRoundoff * poly2SteepestFreeAbs(x[1]) * h[1]
 	}
 }
 
@@ -856,10 +864,17 @@ func poly2SteepestFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2Stee
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2SteepestFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := poly2SteepestFreeLarger(poly2SteepestFreeAbs(fx), 1)
-	for i := range g {
-		w := poly2SteepestFreeLarger(poly2SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly2SteepestFreeLarger(measure, (poly2SteepestFreeAbs(g[i])+e[i])*w)
-		floor = poly2SteepestFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly2SteepestFreeLarger(poly2SteepestFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly2SteepestFreeLarger(measure, (poly2SteepestFreeAbs(g[0])+e[0])*w)
+			floor = poly2SteepestFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly2SteepestFreeLarger(poly2SteepestFreeAbs(x[1]), 1) / scale
+			measure = poly2SteepestFreeLarger(measure, (poly2SteepestFreeAbs(g[1])+e[1])*w)
+			floor = poly2SteepestFreeLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +884,11 @@ func poly2SteepestFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly2SteepestFreeStepWithin(s, x *[2]float64, tol float64, diffs *poly2SteepestFreeDifferences) bool {
-	for i := range s {
-		if !(poly2SteepestFreeAbs(s[i]) <= tol*poly2SteepestFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly2SteepestFreeAbs(s[0]) <= tol*poly2SteepestFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly2SteepestFreeAbs(s[1]) <= tol*poly2SteepestFreeStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +919,9 @@ func poly2SteepestFreeSolveDirection(dir *poly2SteepestFreeDirection, g, d *[2]f
 // poly2SteepestFreeDot returns aᵀb.
 func poly2SteepestFreeDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -931,9 +950,14 @@ func (f *poly2SteepestFreeStepFloor) at(x, d *[2]float64, diffs *poly2SteepestFr
 // step test, min over i of tol·poly2SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly2SteepestFreeTinyStep(x, d *[2]float64, tol float64, diffs *poly2SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly2SteepestFreeStepScale(x[i], i, diffs) / poly2SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly2SteepestFreeStepScale(x[0], 0, diffs) / poly2SteepestFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly2SteepestFreeStepScale(x[1], 1, diffs) / poly2SteepestFreeAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1015,8 +1039,11 @@ func poly2SteepestFreeShrinkDirection(d, g *[2]float64) {
 // poly2SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly2SteepestFreeMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly2SteepestFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly2SteepestFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly2SteepestFreeAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1025,8 +1052,9 @@ func poly2SteepestFreeMaxAbs(x *[2]float64) float64 {
 
 // poly2SteepestFreeScaleBy sets x = c·x.
 func poly2SteepestFreeScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1084,8 +1112,11 @@ func (r *poly2SteepestFreeRiseTrend) contradicts() bool {
 // poly2SteepestFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly2SteepestFreeFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly2SteepestFreeAbs(xt[i]-x[i]-want) <= 0.01*poly2SteepestFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly2SteepestFreeAbs(xt[0]-x[0]-want) <= 0.01*poly2SteepestFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly2SteepestFreeAbs(xt[1]-x[1]-want) <= 0.01*poly2SteepestFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1118,8 +1149,9 @@ func poly2SteepestFreeTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b
 
 // poly2SteepestFreeMoveTo sets out = x + t·d.
 func poly2SteepestFreeMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1145,8 +1177,9 @@ func poly2SteepestFreeBacktrackTrial(fx, slope, t, ft, previous, fPrevious float
 
 // poly2SteepestFreeDifference sets out = a − b.
 func poly2SteepestFreeDifference(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -595,18 +595,34 @@ type poly3BFGSBoxDirection struct {
 }
 
 func (s *poly3BFGSBoxDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *poly3BFGSBoxDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -poly3BFGSBoxDot(&s.h[i], g)
+	{
+		d[0] = -poly3BFGSBoxDot(&s.h[0], g)
+		d[1] = -poly3BFGSBoxDot(&s.h[1], g)
+		d[2] = -poly3BFGSBoxDot(&s.h[2], g)
 	}
 }
 
@@ -617,8 +633,10 @@ func (s *poly3BFGSBoxDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly3BFGSBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,17 +644,41 @@ func (s *poly3BFGSBoxDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = poly3BFGSBoxDot(&s.h[i], change)
+	{
+		hy[0] = poly3BFGSBoxDot(&s.h[0], change)
+		hy[1] = poly3BFGSBoxDot(&s.h[1], change)
+		hy[2] = poly3BFGSBoxDot(&s.h[2], change)
 	}
 	outer := (rho*rho*poly3BFGSBoxDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -653,8 +695,10 @@ func (s *poly3BFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly3BFGSBoxDot returns aᵀb.
 func poly3BFGSBoxDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -683,8 +727,10 @@ const (
 // poly3BFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly3BFGSBoxEnterBox(x *[3]float64, b *poly3BFGSBoxBox) {
-	for i := range x {
-		x[i] = poly3BFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly3BFGSBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly3BFGSBoxClampBetween(x[1], b.lower[1], b.upper[1])
+		x[2] = poly3BFGSBoxClampBetween(x[2], b.lower[2], b.upper[2])
 	}
 }
 
@@ -729,8 +775,14 @@ func poly3BFGSBoxFinite(v float64) bool {
 
 // poly3BFGSBoxFiniteVec reports whether every component of x is finite.
 func poly3BFGSBoxFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3BFGSBoxFinite(x[i]) {
+	{
+		if !poly3BFGSBoxFinite(x[0]) {
+			return false
+		}
+		if !poly3BFGSBoxFinite(x[1]) {
+			return false
+		}
+		if !poly3BFGSBoxFinite(x[2]) {
 			return false
 		}
 	}
@@ -784,15 +836,19 @@ func poly3BFGSBoxConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[3
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3BFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly3BFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly3BFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3BFGSBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3BFGSBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3BFGSBoxAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3BFGSBoxAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -800,8 +856,10 @@ func poly3BFGSBoxConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[3
 // poly3BFGSBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly3BFGSBoxGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3BFGSBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -822,8 +880,10 @@ func poly3BFGSBoxAbs(v float64) float64 {
 func poly3BFGSBoxRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3BFGSBoxDifferences) {
 	var h [3]float64
 	poly3BFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3BFGSBoxUnitRoundoff * poly3BFGSBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3BFGSBoxUnitRoundoff * poly3BFGSBoxAbs(x[0]) * h[0]
+		e[1] += 4 * poly3BFGSBoxUnitRoundoff * poly3BFGSBoxAbs(x[1]) * h[1]
+		e[2] += 4 * poly3BFGSBoxUnitRoundoff * poly3BFGSBoxAbs(x[2]) * h[2]
 	}
 }
 
@@ -900,9 +960,15 @@ func poly3BFGSBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly3BFGSBoxStationarity(g, e, x *[3]float64, fx float64, b *poly3BFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly3BFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly3BFGSBoxLarger(0, e[i]-poly3BFGSBoxAbs(g[i]))
+	{
+		if poly3BFGSBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly3BFGSBoxLarger(0, e[0]-poly3BFGSBoxAbs(g[0]))
+		}
+		if poly3BFGSBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly3BFGSBoxLarger(0, e[1]-poly3BFGSBoxAbs(g[1]))
+		}
+		if poly3BFGSBoxPushedAgainst(x[2], g[2], b.lower[2], b.upper[2]) {
+			pg[2], pe[2] = 0, poly3BFGSBoxLarger(0, e[2]-poly3BFGSBoxAbs(g[2]))
 		}
 	}
 	return poly3BFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -928,10 +994,22 @@ func poly3BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3BFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3BFGSBoxLarger(poly3BFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly3BFGSBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[0])+e[0])*w)
+			floor = poly3BFGSBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[1]), 1) / scale
+			measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[1])+e[1])*w)
+			floor = poly3BFGSBoxLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[2]), 1) / scale
+			measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[2])+e[2])*w)
+			floor = poly3BFGSBoxLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +1019,14 @@ func poly3BFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3BFGSBoxStepWithin(s, x *[3]float64, tol float64, diffs *poly3BFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly3BFGSBoxAbs(s[i]) <= tol*poly3BFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3BFGSBoxAbs(s[0]) <= tol*poly3BFGSBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3BFGSBoxAbs(s[1]) <= tol*poly3BFGSBoxStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3BFGSBoxAbs(s[2]) <= tol*poly3BFGSBoxStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +1049,15 @@ func poly3BFGSBoxStepScale(xi float64, i int, diffs *poly3BFGSBoxDifferences) fl
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly3BFGSBoxCurvaturePair(s, y, x *[3]float64, b *poly3BFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
+		}
+		if s[2] == 0 && (x[2] <= b.lower[2] || x[2] >= b.upper[2]) {
+			y[2] = 0
 		}
 	}
 }
@@ -1003,28 +1093,64 @@ func poly3BFGSBoxLearnCurvature(s, y *[3]float64, diffs *poly3BFGSBoxDifferences
 func poly3BFGSBoxSearchDirection(dir *poly3BFGSBoxDirection, x, g, d *[3]float64, diffs *poly3BFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly3BFGSBoxLarger(reach, poly3BFGSBoxAbs(x[i]-poly3BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly3BFGSBoxLarger(reach, poly3BFGSBoxAbs(x[0]-poly3BFGSBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly3BFGSBoxLarger(reach, poly3BFGSBoxAbs(x[1]-poly3BFGSBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
+		reach = poly3BFGSBoxLarger(reach, poly3BFGSBoxAbs(x[2]-poly3BFGSBoxClampBetween(x[2]-g[2], b.lower[2], b.upper[2])))
 	}
 	var free [3]float64
 	var active [3]bool
-	for i := range x {
-		margin := poly3BFGSBoxActiveMargin * poly3BFGSBoxLarger(1, poly3BFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly3BFGSBoxActiveMargin * poly3BFGSBoxLarger(1, poly3BFGSBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly3BFGSBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly3BFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly3BFGSBoxActiveMargin * poly3BFGSBoxLarger(1, poly3BFGSBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly3BFGSBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
+		}
+		{
+			margin := poly3BFGSBoxActiveMargin * poly3BFGSBoxLarger(1, poly3BFGSBoxAbs(x[2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[2] = poly3BFGSBoxPushedAgainst(x[2], g[2], b.lower[2]+margin, b.upper[2]-margin)
+			if !active[2] {
+				free[2] = g[2]
+			}
 		}
 	}
 	poly3BFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly3BFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly3BFGSBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly3BFGSBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
+		}
+		if active[2] {
+			d[2] = -g[2]
+		}
+		if poly3BFGSBoxPushedAgainst(x[2], -d[2], b.lower[2], b.upper[2]) {
+			d[2] = 0
 		}
 	}
 }
@@ -1058,9 +1184,19 @@ func (f *poly3BFGSBoxStepFloor) at(x, d *[3]float64, diffs *poly3BFGSBoxDifferen
 // step test, min over i of tol·poly3BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3BFGSBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3BFGSBoxStepScale(x[i], i, diffs) / poly3BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3BFGSBoxStepScale(x[0], 0, diffs) / poly3BFGSBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3BFGSBoxStepScale(x[1], 1, diffs) / poly3BFGSBoxAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3BFGSBoxStepScale(x[2], 2, diffs) / poly3BFGSBoxAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1344,14 @@ func poly3BFGSBoxShrinkDirection(d, g *[3]float64) {
 // poly3BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3BFGSBoxMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3BFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3BFGSBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3BFGSBoxAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3BFGSBoxAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1360,10 @@ func poly3BFGSBoxMaxAbs(x *[3]float64) float64 {
 
 // poly3BFGSBoxScaleBy sets x = c·x.
 func poly3BFGSBoxScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1284,8 +1428,14 @@ func (r *poly3BFGSBoxRiseTrend) contradicts() bool {
 // poly3BFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3BFGSBoxFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3BFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly3BFGSBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3BFGSBoxAbs(xt[0]-x[0]-want) <= 0.01*poly3BFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3BFGSBoxAbs(xt[1]-x[1]-want) <= 0.01*poly3BFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3BFGSBoxAbs(xt[2]-x[2]-want) <= 0.01*poly3BFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1304,16 +1454,42 @@ func poly3BFGSBoxFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 func poly3BFGSBoxStepCap(x, d *[3]float64, floor *poly3BFGSBoxStepFloor, diffs *poly3BFGSBoxDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
-		if hit > tiny && hit < limit {
-			limit = hit
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[1] > 0:
+				hit = (b.upper[1] - x[1]) / d[1]
+			case d[1] < 0:
+				hit = (b.lower[1] - x[1]) / d[1]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
+		}
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[2] > 0:
+				hit = (b.upper[2] - x[2]) / d[2]
+			case d[2] < 0:
+				hit = (b.lower[2] - x[2]) / d[2]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1436,8 +1612,10 @@ func poly3BFGSBoxExpandTrial(previous, current *poly3BFGSBoxLinePoint) float64 {
 
 // poly3BFGSBoxGradientChange sets out = a − b.
 func poly3BFGSBoxGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

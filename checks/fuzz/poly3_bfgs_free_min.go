@@ -585,18 +585,34 @@ type poly3BFGSFreeDirection struct {
 }
 
 func (s *poly3BFGSFreeDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *poly3BFGSFreeDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -poly3BFGSFreeDot(&s.h[i], g)
+	{
+		d[0] = -poly3BFGSFreeDot(&s.h[0], g)
+		d[1] = -poly3BFGSFreeDot(&s.h[1], g)
+		d[2] = -poly3BFGSFreeDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *poly3BFGSFreeDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly3BFGSFreeDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *poly3BFGSFreeDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = poly3BFGSFreeDot(&s.h[i], change)
+	{
+		hy[0] = poly3BFGSFreeDot(&s.h[0], change)
+		hy[1] = poly3BFGSFreeDot(&s.h[1], change)
+		hy[2] = poly3BFGSFreeDot(&s.h[2], change)
 	}
 	outer := (rho*rho*poly3BFGSFreeDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *poly3BFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly3BFGSFreeDot returns aᵀb.
 func poly3BFGSFreeDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func poly3BFGSFreeFinite(v float64) bool {
 
 // poly3BFGSFreeFiniteVec reports whether every component of x is finite.
 func poly3BFGSFreeFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3BFGSFreeFinite(x[i]) {
+	{
+		if !poly3BFGSFreeFinite(x[0]) {
+			return false
+		}
+		if !poly3BFGSFreeFinite(x[1]) {
+			return false
+		}
+		if !poly3BFGSFreeFinite(x[2]) {
 			return false
 		}
 	}
@@ -754,15 +804,19 @@ func poly3BFGSFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3BFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly3BFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly3BFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3BFGSFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3BFGSFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3BFGSFreeAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3BFGSFreeAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -770,8 +824,10 @@ func poly3BFGSFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[
 // poly3BFGSFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly3BFGSFreeGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3BFGSFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -792,8 +848,10 @@ func poly3BFGSFreeAbs(v float64) float64 {
 func poly3BFGSFreeRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3BFGSFreeDifferences) {
 	var h [3]float64
 	poly3BFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3BFGSFreeUnitRoundoff * poly3BFGSFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3BFGSFreeUnitRoundoff * poly3BFGSFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly3BFGSFreeUnitRoundoff * poly3BFGSFreeAbs(x[1]) * h[1]
+		e[2] += 4 * poly3BFGSFreeUnitRoundoff * poly3BFGSFreeAbs(x[2]) * h[2]
 	}
 }
 
@@ -895,10 +953,22 @@ func poly3BFGSFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3BFGSFree
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3BFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3BFGSFreeLarger(poly3BFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly3BFGSFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[0])+e[0])*w)
+			floor = poly3BFGSFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[1]), 1) / scale
+			measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[1])+e[1])*w)
+			floor = poly3BFGSFreeLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[2]), 1) / scale
+			measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[2])+e[2])*w)
+			floor = poly3BFGSFreeLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +978,14 @@ func poly3BFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3BFGSFreeStepWithin(s, x *[3]float64, tol float64, diffs *poly3BFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly3BFGSFreeAbs(s[i]) <= tol*poly3BFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3BFGSFreeAbs(s[0]) <= tol*poly3BFGSFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3BFGSFreeAbs(s[1]) <= tol*poly3BFGSFreeStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3BFGSFreeAbs(s[2]) <= tol*poly3BFGSFreeStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1037,19 @@ func (f *poly3BFGSFreeStepFloor) at(x, d *[3]float64, diffs *poly3BFGSFreeDiffer
 // step test, min over i of tol·poly3BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3BFGSFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3BFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3BFGSFreeStepScale(x[i], i, diffs) / poly3BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3BFGSFreeStepScale(x[0], 0, diffs) / poly3BFGSFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3BFGSFreeStepScale(x[1], 1, diffs) / poly3BFGSFreeAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3BFGSFreeStepScale(x[2], 2, diffs) / poly3BFGSFreeAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1197,14 @@ func poly3BFGSFreeShrinkDirection(d, g *[3]float64) {
 // poly3BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3BFGSFreeMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3BFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3BFGSFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3BFGSFreeAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3BFGSFreeAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1213,10 @@ func poly3BFGSFreeMaxAbs(x *[3]float64) float64 {
 
 // poly3BFGSFreeScaleBy sets x = c·x.
 func poly3BFGSFreeScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1187,8 +1281,14 @@ func (r *poly3BFGSFreeRiseTrend) contradicts() bool {
 // poly3BFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3BFGSFreeFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3BFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly3BFGSFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3BFGSFreeAbs(xt[0]-x[0]-want) <= 0.01*poly3BFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3BFGSFreeAbs(xt[1]-x[1]-want) <= 0.01*poly3BFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3BFGSFreeAbs(xt[2]-x[2]-want) <= 0.01*poly3BFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1337,10 @@ func poly3BFGSFreeTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *po
 
 // poly3BFGSFreeMoveTo sets out = x + t·d.
 func poly3BFGSFreeMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1304,8 +1406,10 @@ func poly3BFGSFreeExpandTrial(previous, current *poly3BFGSFreeLinePoint) float64
 
 // poly3BFGSFreeGradientChange sets out = a − b.
 func poly3BFGSFreeGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -618,8 +618,10 @@ type poly3CGFreeDirection struct {
 func (s *poly3CGFreeDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
 	}
 }
 
@@ -627,16 +629,20 @@ func (s *poly3CGFreeDirection) compute(g, d *[3]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := poly3CGFreeDot(g, &z), poly3CGFreeDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && poly3CGFreeAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = poly3CGFreeLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +661,54 @@ func (s *poly3CGFreeDirection) compute(g, d *[3]float64) {
 func (s *poly3CGFreeDirection) update(step, change *[3]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
 	}
 	if !poly3CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && poly3CGFreeFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && poly3CGFreeFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && poly3CGFreeFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && poly3CGFreeFinite(next) {
+				s.curvature[2] = next
+			}
 		}
 	}
 }
@@ -701,8 +733,10 @@ func (s *poly3CGFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly3CGFreeDot returns aᵀb.
 func poly3CGFreeDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -781,8 +815,14 @@ func poly3CGFreeValue(recv *Poly, x, g *[3]float64, diffs *poly3CGFreeDifference
 
 // poly3CGFreeFiniteVec reports whether every component of x is finite.
 func poly3CGFreeFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3CGFreeFinite(x[i]) {
+	{
+		if !poly3CGFreeFinite(x[0]) {
+			return false
+		}
+		if !poly3CGFreeFinite(x[1]) {
+			return false
+		}
+		if !poly3CGFreeFinite(x[2]) {
 			return false
 		}
 	}
@@ -836,15 +876,19 @@ func poly3CGFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[3]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3CGFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly3CGFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly3CGFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3CGFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3CGFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3CGFreeAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3CGFreeAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -852,8 +896,10 @@ func poly3CGFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[3]
 // poly3CGFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly3CGFreeGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3CGFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -866,8 +912,10 @@ func poly3CGFreeGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs
 func poly3CGFreeRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3CGFreeDifferences) {
 	var h [3]float64
 	poly3CGFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3CGFreeUnitRoundoff * poly3CGFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3CGFreeUnitRoundoff * poly3CGFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly3CGFreeUnitRoundoff * poly3CGFreeAbs(x[1]) * h[1]
+		e[2] += 4 * poly3CGFreeUnitRoundoff * poly3CGFreeAbs(x[2]) * h[2]
 	}
 }
 
@@ -959,10 +1007,22 @@ func poly3CGFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3CGFreeBox)
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3CGFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3CGFreeLarger(poly3CGFreeAbs(fx), 1)
-	for i := range g {
-		w := poly3CGFreeLarger(poly3CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[i])+e[i])*w)
-		floor = poly3CGFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3CGFreeLarger(poly3CGFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[0])+e[0])*w)
+			floor = poly3CGFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3CGFreeLarger(poly3CGFreeAbs(x[1]), 1) / scale
+			measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[1])+e[1])*w)
+			floor = poly3CGFreeLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3CGFreeLarger(poly3CGFreeAbs(x[2]), 1) / scale
+			measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[2])+e[2])*w)
+			floor = poly3CGFreeLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1032,14 @@ func poly3CGFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3CGFreeStepWithin(s, x *[3]float64, tol float64, diffs *poly3CGFreeDifferences) bool {
-	for i := range s {
-		if !(poly3CGFreeAbs(s[i]) <= tol*poly3CGFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3CGFreeAbs(s[0]) <= tol*poly3CGFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3CGFreeAbs(s[1]) <= tol*poly3CGFreeStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3CGFreeAbs(s[2]) <= tol*poly3CGFreeStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1025,9 +1091,19 @@ func (f *poly3CGFreeStepFloor) at(x, d *[3]float64, diffs *poly3CGFreeDifference
 // step test, min over i of tol·poly3CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3CGFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3CGFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3CGFreeStepScale(x[i], i, diffs) / poly3CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3CGFreeStepScale(x[0], 0, diffs) / poly3CGFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3CGFreeStepScale(x[1], 1, diffs) / poly3CGFreeAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3CGFreeStepScale(x[2], 2, diffs) / poly3CGFreeAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1175,8 +1251,14 @@ func poly3CGFreeShrinkDirection(d, g *[3]float64) {
 // poly3CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3CGFreeMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3CGFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3CGFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3CGFreeAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3CGFreeAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1185,8 +1267,10 @@ func poly3CGFreeMaxAbs(x *[3]float64) float64 {
 
 // poly3CGFreeScaleBy sets x = c·x.
 func poly3CGFreeScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1251,8 +1335,14 @@ func (r *poly3CGFreeRiseTrend) contradicts() bool {
 // poly3CGFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3CGFreeFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3CGFreeAbs(xt[i]-x[i]-want) <= 0.01*poly3CGFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3CGFreeAbs(xt[0]-x[0]-want) <= 0.01*poly3CGFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3CGFreeAbs(xt[1]-x[1]-want) <= 0.01*poly3CGFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3CGFreeAbs(xt[2]-x[2]-want) <= 0.01*poly3CGFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1301,8 +1391,10 @@ func poly3CGFreeTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *poly
 
 // poly3CGFreeMoveTo sets out = x + t·d.
 func poly3CGFreeMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1368,8 +1460,10 @@ func poly3CGFreeExpandTrial(previous, current *poly3CGFreeLinePoint) float64 {
 
 // poly3CGFreeGradientChange sets out = a − b.
 func poly3CGFreeGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

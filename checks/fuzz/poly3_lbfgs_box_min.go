@@ -610,8 +610,10 @@ func (s *poly3LBFGSBoxDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * poly3LBFGSBoxDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -621,8 +623,10 @@ func (s *poly3LBFGSBoxDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := poly3LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly3LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -632,8 +636,10 @@ func (s *poly3LBFGSBoxDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly3LBFGSBoxDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	poly3LBFGSBoxNegate(d, &q)
@@ -668,16 +674,20 @@ func (s *poly3LBFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly3LBFGSBoxDot returns aᵀb.
 func poly3LBFGSBoxDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // poly3LBFGSBoxNegate sets out = −x.
 func poly3LBFGSBoxNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -716,8 +726,10 @@ const (
 // poly3LBFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly3LBFGSBoxEnterBox(x *[3]float64, b *poly3LBFGSBoxBox) {
-	for i := range x {
-		x[i] = poly3LBFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly3LBFGSBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly3LBFGSBoxClampBetween(x[1], b.lower[1], b.upper[1])
+		x[2] = poly3LBFGSBoxClampBetween(x[2], b.lower[2], b.upper[2])
 	}
 }
 
@@ -762,8 +774,14 @@ func poly3LBFGSBoxFinite(v float64) bool {
 
 // poly3LBFGSBoxFiniteVec reports whether every component of x is finite.
 func poly3LBFGSBoxFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3LBFGSBoxFinite(x[i]) {
+	{
+		if !poly3LBFGSBoxFinite(x[0]) {
+			return false
+		}
+		if !poly3LBFGSBoxFinite(x[1]) {
+			return false
+		}
+		if !poly3LBFGSBoxFinite(x[2]) {
 			return false
 		}
 	}
@@ -835,16 +853,40 @@ func poly3LBFGSBoxCalibrate(recv *Poly, x *[3]float64, fx float64, diffs *poly3L
 		}
 	}
 	noise := poly3LBFGSBoxNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(probe[i]))
-		bar := quarter * s
-		third := poly3LBFGSBoxLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = poly3LBFGSBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(probe[0]))
+			bar := quarter * s
+			third := poly3LBFGSBoxLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly3LBFGSBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = poly3LBFGSBoxClampBetween(h, 64*poly3LBFGSBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = poly3LBFGSBoxClampBetween(h, 64*poly3LBFGSBoxUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(probe[1]))
+			bar := quarter * s
+			third := poly3LBFGSBoxLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly3LBFGSBoxCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = poly3LBFGSBoxClampBetween(h, 64*poly3LBFGSBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(probe[2]))
+			bar := quarter * s
+			third := poly3LBFGSBoxLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly3LBFGSBoxCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = poly3LBFGSBoxClampBetween(h, 64*poly3LBFGSBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -923,8 +965,10 @@ func poly3LBFGSBoxMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly3LBFGSBoxNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := poly3LBFGSBoxAbs(fx)
-	for i := range x {
-		sum += poly3LBFGSBoxAbs(g[i] * x[i])
+	{
+		sum += poly3LBFGSBoxAbs(g[0] * x[0])
+		sum += poly3LBFGSBoxAbs(g[1] * x[1])
+		sum += poly3LBFGSBoxAbs(g[2] * x[2])
 	}
 	return 4 * poly3LBFGSBoxUnitRoundoff * sum
 }
@@ -1051,15 +1095,19 @@ func poly3LBFGSBoxConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3LBFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly3LBFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly3LBFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3LBFGSBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3LBFGSBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3LBFGSBoxAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3LBFGSBoxAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1070,16 +1118,42 @@ func poly3LBFGSBoxConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *[
 // in forwardError).
 func poly3LBFGSBoxGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3LBFGSBoxDifferences) {
 	noise := poly3LBFGSBoxNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := poly3LBFGSBoxCentralInterval(x, i, diffs)
-		h = poly3LBFGSBoxAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := poly3LBFGSBoxCentralInterval(x, 0, diffs)
+			h = poly3LBFGSBoxAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := poly3LBFGSBoxCentralInterval(x, 1, diffs)
+			h = poly3LBFGSBoxAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := poly3LBFGSBoxCentralInterval(x, 2, diffs)
+			h = poly3LBFGSBoxAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1093,8 +1167,10 @@ func poly3LBFGSBoxGradientError(x *[3]float64, fx float64, g, e *[3]float64, dif
 func poly3LBFGSBoxRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3LBFGSBoxDifferences) {
 	var h [3]float64
 	poly3LBFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3LBFGSBoxUnitRoundoff * poly3LBFGSBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3LBFGSBoxUnitRoundoff * poly3LBFGSBoxAbs(x[0]) * h[0]
+		e[1] += 4 * poly3LBFGSBoxUnitRoundoff * poly3LBFGSBoxAbs(x[1]) * h[1]
+		e[2] += 4 * poly3LBFGSBoxUnitRoundoff * poly3LBFGSBoxAbs(x[2]) * h[2]
 	}
 }
 
@@ -1112,9 +1188,15 @@ func poly3LBFGSBoxDiagonalCurvature(recv *Poly, x, g *[3]float64, diffs *poly3LB
 // eᵢ − |gᵢ|, which is what is counted.
 func poly3LBFGSBoxStationarity(g, e, x *[3]float64, fx float64, b *poly3LBFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly3LBFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly3LBFGSBoxLarger(0, e[i]-poly3LBFGSBoxAbs(g[i]))
+	{
+		if poly3LBFGSBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly3LBFGSBoxLarger(0, e[0]-poly3LBFGSBoxAbs(g[0]))
+		}
+		if poly3LBFGSBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly3LBFGSBoxLarger(0, e[1]-poly3LBFGSBoxAbs(g[1]))
+		}
+		if poly3LBFGSBoxPushedAgainst(x[2], g[2], b.lower[2], b.upper[2]) {
+			pg[2], pe[2] = 0, poly3LBFGSBoxLarger(0, e[2]-poly3LBFGSBoxAbs(g[2]))
 		}
 	}
 	return poly3LBFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -1140,10 +1222,22 @@ func poly3LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3LBFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly3LBFGSBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[0])+e[0])*w)
+			floor = poly3LBFGSBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[1]), 1) / scale
+			measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[1])+e[1])*w)
+			floor = poly3LBFGSBoxLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[2]), 1) / scale
+			measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[2])+e[2])*w)
+			floor = poly3LBFGSBoxLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1153,8 +1247,14 @@ func poly3LBFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3LBFGSBoxStepWithin(s, x *[3]float64, tol float64, diffs *poly3LBFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly3LBFGSBoxAbs(s[i]) <= tol*poly3LBFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3LBFGSBoxAbs(s[0]) <= tol*poly3LBFGSBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3LBFGSBoxAbs(s[1]) <= tol*poly3LBFGSBoxStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3LBFGSBoxAbs(s[2]) <= tol*poly3LBFGSBoxStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1177,9 +1277,15 @@ func poly3LBFGSBoxStepScale(xi float64, i int, diffs *poly3LBFGSBoxDifferences) 
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly3LBFGSBoxCurvaturePair(s, y, x *[3]float64, b *poly3LBFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
+		}
+		if s[2] == 0 && (x[2] <= b.lower[2] || x[2] >= b.upper[2]) {
+			y[2] = 0
 		}
 	}
 }
@@ -1215,28 +1321,64 @@ func poly3LBFGSBoxLearnCurvature(s, y *[3]float64, diffs *poly3LBFGSBoxDifferenc
 func poly3LBFGSBoxSearchDirection(dir *poly3LBFGSBoxDirection, x, g, d *[3]float64, diffs *poly3LBFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly3LBFGSBoxLarger(reach, poly3LBFGSBoxAbs(x[i]-poly3LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly3LBFGSBoxLarger(reach, poly3LBFGSBoxAbs(x[0]-poly3LBFGSBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly3LBFGSBoxLarger(reach, poly3LBFGSBoxAbs(x[1]-poly3LBFGSBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
+		reach = poly3LBFGSBoxLarger(reach, poly3LBFGSBoxAbs(x[2]-poly3LBFGSBoxClampBetween(x[2]-g[2], b.lower[2], b.upper[2])))
 	}
 	var free [3]float64
 	var active [3]bool
-	for i := range x {
-		margin := poly3LBFGSBoxActiveMargin * poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly3LBFGSBoxActiveMargin * poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly3LBFGSBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly3LBFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly3LBFGSBoxActiveMargin * poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly3LBFGSBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
+		}
+		{
+			margin := poly3LBFGSBoxActiveMargin * poly3LBFGSBoxLarger(1, poly3LBFGSBoxAbs(x[2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[2] = poly3LBFGSBoxPushedAgainst(x[2], g[2], b.lower[2]+margin, b.upper[2]-margin)
+			if !active[2] {
+				free[2] = g[2]
+			}
 		}
 	}
 	poly3LBFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly3LBFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly3LBFGSBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly3LBFGSBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
+		}
+		if active[2] {
+			d[2] = -g[2]
+		}
+		if poly3LBFGSBoxPushedAgainst(x[2], -d[2], b.lower[2], b.upper[2]) {
+			d[2] = 0
 		}
 	}
 }
@@ -1270,9 +1412,19 @@ func (f *poly3LBFGSBoxStepFloor) at(x, d *[3]float64, diffs *poly3LBFGSBoxDiffer
 // step test, min over i of tol·poly3LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3LBFGSBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3LBFGSBoxStepScale(x[i], i, diffs) / poly3LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3LBFGSBoxStepScale(x[0], 0, diffs) / poly3LBFGSBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3LBFGSBoxStepScale(x[1], 1, diffs) / poly3LBFGSBoxAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3LBFGSBoxStepScale(x[2], 2, diffs) / poly3LBFGSBoxAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1420,8 +1572,14 @@ func poly3LBFGSBoxShrinkDirection(d, g *[3]float64) {
 // poly3LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3LBFGSBoxMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3LBFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3LBFGSBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3LBFGSBoxAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3LBFGSBoxAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1430,8 +1588,10 @@ func poly3LBFGSBoxMaxAbs(x *[3]float64) float64 {
 
 // poly3LBFGSBoxScaleBy sets x = c·x.
 func poly3LBFGSBoxScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1496,8 +1656,14 @@ func (r *poly3LBFGSBoxRiseTrend) contradicts() bool {
 // poly3LBFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3LBFGSBoxFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3LBFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly3LBFGSBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3LBFGSBoxAbs(xt[0]-x[0]-want) <= 0.01*poly3LBFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3LBFGSBoxAbs(xt[1]-x[1]-want) <= 0.01*poly3LBFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3LBFGSBoxAbs(xt[2]-x[2]-want) <= 0.01*poly3LBFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1516,16 +1682,42 @@ func poly3LBFGSBoxFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 func poly3LBFGSBoxStepCap(x, d *[3]float64, floor *poly3LBFGSBoxStepFloor, diffs *poly3LBFGSBoxDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
-		if hit > tiny && hit < limit {
-			limit = hit
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[1] > 0:
+				hit = (b.upper[1] - x[1]) / d[1]
+			case d[1] < 0:
+				hit = (b.lower[1] - x[1]) / d[1]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
+		}
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[2] > 0:
+				hit = (b.upper[2] - x[2]) / d[2]
+			case d[2] < 0:
+				hit = (b.lower[2] - x[2]) / d[2]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1648,8 +1840,10 @@ func poly3LBFGSBoxExpandTrial(previous, current *poly3LBFGSBoxLinePoint) float64
 
 // poly3LBFGSBoxGradientChange sets out = a − b.
 func poly3LBFGSBoxGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

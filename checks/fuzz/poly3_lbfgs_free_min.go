@@ -600,8 +600,10 @@ func (s *poly3LBFGSFreeDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * poly3LBFGSFreeDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *poly3LBFGSFreeDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := poly3LBFGSFreeDot(&s.s[newest], &s.y[newest]) / poly3LBFGSFreeDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *poly3LBFGSFreeDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly3LBFGSFreeDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	poly3LBFGSFreeNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *poly3LBFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly3LBFGSFreeDot returns aᵀb.
 func poly3LBFGSFreeDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // poly3LBFGSFreeNegate sets out = −x.
 func poly3LBFGSFreeNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func poly3LBFGSFreeFinite(v float64) bool {
 
 // poly3LBFGSFreeFiniteVec reports whether every component of x is finite.
 func poly3LBFGSFreeFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3LBFGSFreeFinite(x[i]) {
+	{
+		if !poly3LBFGSFreeFinite(x[0]) {
+			return false
+		}
+		if !poly3LBFGSFreeFinite(x[1]) {
+			return false
+		}
+		if !poly3LBFGSFreeFinite(x[2]) {
 			return false
 		}
 	}
@@ -805,16 +821,40 @@ func poly3LBFGSFreeCalibrate(recv *Poly, x *[3]float64, fx float64, diffs *poly3
 		}
 	}
 	noise := poly3LBFGSFreeNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := poly3LBFGSFreeLarger(1, poly3LBFGSFreeAbs(probe[i]))
-		bar := quarter * s
-		third := poly3LBFGSFreeLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = poly3LBFGSFreeCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := poly3LBFGSFreeLarger(1, poly3LBFGSFreeAbs(probe[0]))
+			bar := quarter * s
+			third := poly3LBFGSFreeLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly3LBFGSFreeCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = poly3LBFGSFreeClampBetween(h, 64*poly3LBFGSFreeUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = poly3LBFGSFreeClampBetween(h, 64*poly3LBFGSFreeUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := poly3LBFGSFreeLarger(1, poly3LBFGSFreeAbs(probe[1]))
+			bar := quarter * s
+			third := poly3LBFGSFreeLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly3LBFGSFreeCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = poly3LBFGSFreeClampBetween(h, 64*poly3LBFGSFreeUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := poly3LBFGSFreeLarger(1, poly3LBFGSFreeAbs(probe[2]))
+			bar := quarter * s
+			third := poly3LBFGSFreeLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = poly3LBFGSFreeCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = poly3LBFGSFreeClampBetween(h, 64*poly3LBFGSFreeUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +948,10 @@ func poly3LBFGSFreeMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly3LBFGSFreeNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := poly3LBFGSFreeAbs(fx)
-	for i := range x {
-		sum += poly3LBFGSFreeAbs(g[i] * x[i])
+	{
+		sum += poly3LBFGSFreeAbs(g[0] * x[0])
+		sum += poly3LBFGSFreeAbs(g[1] * x[1])
+		sum += poly3LBFGSFreeAbs(g[2] * x[2])
 	}
 	return 4 * poly3LBFGSFreeUnitRoundoff * sum
 }
@@ -1036,15 +1078,19 @@ func poly3LBFGSFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3LBFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly3LBFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly3LBFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3LBFGSFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3LBFGSFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3LBFGSFreeAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3LBFGSFreeAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1055,16 +1101,42 @@ func poly3LBFGSFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e *
 // in forwardError).
 func poly3LBFGSFreeGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3LBFGSFreeDifferences) {
 	noise := poly3LBFGSFreeNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := poly3LBFGSFreeCentralInterval(x, i, diffs)
-		h = poly3LBFGSFreeAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := poly3LBFGSFreeCentralInterval(x, 0, diffs)
+			h = poly3LBFGSFreeAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := poly3LBFGSFreeCentralInterval(x, 1, diffs)
+			h = poly3LBFGSFreeAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := poly3LBFGSFreeCentralInterval(x, 2, diffs)
+			h = poly3LBFGSFreeAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1150,10 @@ func poly3LBFGSFreeGradientError(x *[3]float64, fx float64, g, e *[3]float64, di
 func poly3LBFGSFreeRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3LBFGSFreeDifferences) {
 	var h [3]float64
 	poly3LBFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3LBFGSFreeUnitRoundoff * poly3LBFGSFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3LBFGSFreeUnitRoundoff * poly3LBFGSFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly3LBFGSFreeUnitRoundoff * poly3LBFGSFreeAbs(x[1]) * h[1]
+		e[2] += 4 * poly3LBFGSFreeUnitRoundoff * poly3LBFGSFreeAbs(x[2]) * h[2]
 	}
 }
 
@@ -1107,10 +1181,22 @@ func poly3LBFGSFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3LBFGSFr
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3LBFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly3LBFGSFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[0])+e[0])*w)
+			floor = poly3LBFGSFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[1]), 1) / scale
+			measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[1])+e[1])*w)
+			floor = poly3LBFGSFreeLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[2]), 1) / scale
+			measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[2])+e[2])*w)
+			floor = poly3LBFGSFreeLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1206,14 @@ func poly3LBFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3LBFGSFreeStepWithin(s, x *[3]float64, tol float64, diffs *poly3LBFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly3LBFGSFreeAbs(s[i]) <= tol*poly3LBFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3LBFGSFreeAbs(s[0]) <= tol*poly3LBFGSFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3LBFGSFreeAbs(s[1]) <= tol*poly3LBFGSFreeStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3LBFGSFreeAbs(s[2]) <= tol*poly3LBFGSFreeStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1265,19 @@ func (f *poly3LBFGSFreeStepFloor) at(x, d *[3]float64, diffs *poly3LBFGSFreeDiff
 // step test, min over i of tol·poly3LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3LBFGSFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3LBFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3LBFGSFreeStepScale(x[i], i, diffs) / poly3LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3LBFGSFreeStepScale(x[0], 0, diffs) / poly3LBFGSFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3LBFGSFreeStepScale(x[1], 1, diffs) / poly3LBFGSFreeAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3LBFGSFreeStepScale(x[2], 2, diffs) / poly3LBFGSFreeAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1425,14 @@ func poly3LBFGSFreeShrinkDirection(d, g *[3]float64) {
 // poly3LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3LBFGSFreeMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3LBFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3LBFGSFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3LBFGSFreeAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3LBFGSFreeAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1441,10 @@ func poly3LBFGSFreeMaxAbs(x *[3]float64) float64 {
 
 // poly3LBFGSFreeScaleBy sets x = c·x.
 func poly3LBFGSFreeScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1399,8 +1509,14 @@ func (r *poly3LBFGSFreeRiseTrend) contradicts() bool {
 // poly3LBFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3LBFGSFreeFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3LBFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly3LBFGSFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3LBFGSFreeAbs(xt[0]-x[0]-want) <= 0.01*poly3LBFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3LBFGSFreeAbs(xt[1]-x[1]-want) <= 0.01*poly3LBFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3LBFGSFreeAbs(xt[2]-x[2]-want) <= 0.01*poly3LBFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1565,10 @@ func poly3LBFGSFreeTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *p
 
 // poly3LBFGSFreeMoveTo sets out = x + t·d.
 func poly3LBFGSFreeMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1516,8 +1634,10 @@ func poly3LBFGSFreeExpandTrial(previous, current *poly3LBFGSFreeLinePoint) float
 
 // poly3LBFGSFreeGradientChange sets out = a − b.
 func poly3LBFGSFreeGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -610,8 +610,10 @@ func (s *poly3SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly3SteepestBoxNegate sets out = −x.
 func poly3SteepestBoxNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -656,8 +658,10 @@ const (
 // poly3SteepestBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly3SteepestBoxEnterBox(x *[3]float64, b *poly3SteepestBoxBox) {
-	for i := range x {
-		x[i] = poly3SteepestBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly3SteepestBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly3SteepestBoxClampBetween(x[1], b.lower[1], b.upper[1])
+		x[2] = poly3SteepestBoxClampBetween(x[2], b.lower[2], b.upper[2])
 	}
 }
 
@@ -690,8 +694,14 @@ func poly3SteepestBoxValue(recv *Poly, x, g *[3]float64, diffs *poly3SteepestBox
 
 // poly3SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly3SteepestBoxFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3SteepestBoxFinite(x[i]) {
+	{
+		if !poly3SteepestBoxFinite(x[0]) {
+			return false
+		}
+		if !poly3SteepestBoxFinite(x[1]) {
+			return false
+		}
+		if !poly3SteepestBoxFinite(x[2]) {
 			return false
 		}
 	}
@@ -745,15 +755,19 @@ func poly3SteepestBoxConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3SteepestBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly3SteepestBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly3SteepestBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3SteepestBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3SteepestBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3SteepestBoxAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3SteepestBoxAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -761,8 +775,10 @@ func poly3SteepestBoxConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, e
 // poly3SteepestBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly3SteepestBoxGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3SteepestBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -783,8 +799,10 @@ func poly3SteepestBoxAbs(v float64) float64 {
 func poly3SteepestBoxRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3SteepestBoxDifferences) {
 	var h [3]float64
 	poly3SteepestBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3SteepestBoxUnitRoundoff * poly3SteepestBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3SteepestBoxUnitRoundoff * poly3SteepestBoxAbs(x[0]) * h[0]
+		e[1] += 4 * poly3SteepestBoxUnitRoundoff * poly3SteepestBoxAbs(x[1]) * h[1]
+		e[2] += 4 * poly3SteepestBoxUnitRoundoff * poly3SteepestBoxAbs(x[2]) * h[2]
 	}
 }
 
@@ -861,9 +879,15 @@ func poly3SteepestBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly3SteepestBoxStationarity(g, e, x *[3]float64, fx float64, b *poly3SteepestBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly3SteepestBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly3SteepestBoxLarger(0, e[i]-poly3SteepestBoxAbs(g[i]))
+	{
+		if poly3SteepestBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly3SteepestBoxLarger(0, e[0]-poly3SteepestBoxAbs(g[0]))
+		}
+		if poly3SteepestBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly3SteepestBoxLarger(0, e[1]-poly3SteepestBoxAbs(g[1]))
+		}
+		if poly3SteepestBoxPushedAgainst(x[2], g[2], b.lower[2], b.upper[2]) {
+			pg[2], pe[2] = 0, poly3SteepestBoxLarger(0, e[2]-poly3SteepestBoxAbs(g[2]))
 		}
 	}
 	return poly3SteepestBoxGradientMeasure(&pg, &pe, x, fx)
@@ -889,10 +913,22 @@ func poly3SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3SteepestBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3SteepestBoxLarger(poly3SteepestBoxAbs(fx), 1)
-	for i := range g {
-		w := poly3SteepestBoxLarger(poly3SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3SteepestBoxLarger(measure, (poly3SteepestBoxAbs(g[i])+e[i])*w)
-		floor = poly3SteepestBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3SteepestBoxLarger(poly3SteepestBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3SteepestBoxLarger(measure, (poly3SteepestBoxAbs(g[0])+e[0])*w)
+			floor = poly3SteepestBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3SteepestBoxLarger(poly3SteepestBoxAbs(x[1]), 1) / scale
+			measure = poly3SteepestBoxLarger(measure, (poly3SteepestBoxAbs(g[1])+e[1])*w)
+			floor = poly3SteepestBoxLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3SteepestBoxLarger(poly3SteepestBoxAbs(x[2]), 1) / scale
+			measure = poly3SteepestBoxLarger(measure, (poly3SteepestBoxAbs(g[2])+e[2])*w)
+			floor = poly3SteepestBoxLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -902,8 +938,14 @@ func poly3SteepestBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3SteepestBoxStepWithin(s, x *[3]float64, tol float64, diffs *poly3SteepestBoxDifferences) bool {
-	for i := range s {
-		if !(poly3SteepestBoxAbs(s[i]) <= tol*poly3SteepestBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3SteepestBoxAbs(s[0]) <= tol*poly3SteepestBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3SteepestBoxAbs(s[1]) <= tol*poly3SteepestBoxStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3SteepestBoxAbs(s[2]) <= tol*poly3SteepestBoxStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -926,9 +968,15 @@ func poly3SteepestBoxStepScale(xi float64, i int, diffs *poly3SteepestBoxDiffere
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly3SteepestBoxCurvaturePair(s, y, x *[3]float64, b *poly3SteepestBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
+		}
+		if s[2] == 0 && (x[2] <= b.lower[2] || x[2] >= b.upper[2]) {
+			y[2] = 0
 		}
 	}
 }
@@ -964,28 +1012,64 @@ func poly3SteepestBoxLearnCurvature(s, y *[3]float64, diffs *poly3SteepestBoxDif
 func poly3SteepestBoxSearchDirection(dir *poly3SteepestBoxDirection, x, g, d *[3]float64, diffs *poly3SteepestBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly3SteepestBoxLarger(reach, poly3SteepestBoxAbs(x[i]-poly3SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly3SteepestBoxLarger(reach, poly3SteepestBoxAbs(x[0]-poly3SteepestBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly3SteepestBoxLarger(reach, poly3SteepestBoxAbs(x[1]-poly3SteepestBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
+		reach = poly3SteepestBoxLarger(reach, poly3SteepestBoxAbs(x[2]-poly3SteepestBoxClampBetween(x[2]-g[2], b.lower[2], b.upper[2])))
 	}
 	var free [3]float64
 	var active [3]bool
-	for i := range x {
-		margin := poly3SteepestBoxActiveMargin * poly3SteepestBoxLarger(1, poly3SteepestBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly3SteepestBoxActiveMargin * poly3SteepestBoxLarger(1, poly3SteepestBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly3SteepestBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly3SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly3SteepestBoxActiveMargin * poly3SteepestBoxLarger(1, poly3SteepestBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly3SteepestBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
+		}
+		{
+			margin := poly3SteepestBoxActiveMargin * poly3SteepestBoxLarger(1, poly3SteepestBoxAbs(x[2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[2] = poly3SteepestBoxPushedAgainst(x[2], g[2], b.lower[2]+margin, b.upper[2]-margin)
+			if !active[2] {
+				free[2] = g[2]
+			}
 		}
 	}
 	poly3SteepestBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly3SteepestBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly3SteepestBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly3SteepestBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
+		}
+		if active[2] {
+			d[2] = -g[2]
+		}
+		if poly3SteepestBoxPushedAgainst(x[2], -d[2], b.lower[2], b.upper[2]) {
+			d[2] = 0
 		}
 	}
 }
@@ -998,8 +1082,10 @@ func poly3SteepestBoxSolveDirection(dir *poly3SteepestBoxDirection, g, d *[3]flo
 // poly3SteepestBoxDot returns aᵀb.
 func poly3SteepestBoxDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -1028,9 +1114,19 @@ func (f *poly3SteepestBoxStepFloor) at(x, d *[3]float64, diffs *poly3SteepestBox
 // step test, min over i of tol·poly3SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestBoxTinyStep(x, d *[3]float64, tol float64, diffs *poly3SteepestBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3SteepestBoxStepScale(x[i], i, diffs) / poly3SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3SteepestBoxStepScale(x[0], 0, diffs) / poly3SteepestBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3SteepestBoxStepScale(x[1], 1, diffs) / poly3SteepestBoxAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3SteepestBoxStepScale(x[2], 2, diffs) / poly3SteepestBoxAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1208,14 @@ func poly3SteepestBoxShrinkDirection(d, g *[3]float64) {
 // poly3SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3SteepestBoxMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3SteepestBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3SteepestBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3SteepestBoxAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3SteepestBoxAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1224,10 @@ func poly3SteepestBoxMaxAbs(x *[3]float64) float64 {
 
 // poly3SteepestBoxScaleBy sets x = c·x.
 func poly3SteepestBoxScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1181,8 +1285,14 @@ func (r *poly3SteepestBoxRiseTrend) contradicts() bool {
 // poly3SteepestBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3SteepestBoxFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3SteepestBoxAbs(xt[i]-x[i]-want) <= 0.01*poly3SteepestBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3SteepestBoxAbs(xt[0]-x[0]-want) <= 0.01*poly3SteepestBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3SteepestBoxAbs(xt[1]-x[1]-want) <= 0.01*poly3SteepestBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3SteepestBoxAbs(xt[2]-x[2]-want) <= 0.01*poly3SteepestBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1242,8 +1352,10 @@ func poly3SteepestBoxTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b 
 // stands in for armijoDecrease when the spec has bounds.
 func poly3SteepestBoxAcceptable(fx, ft, t, slope float64, x, xt, g *[3]float64) bool {
 	var change float64
-	for i := range x {
-		change += g[i] * (xt[i] - x[i])
+	{
+		change += g[0] * (xt[0] - x[0])
+		change += g[1] * (xt[1] - x[1])
+		change += g[2] * (xt[2] - x[2])
 	}
 	return change < 0 && ft <= fx+poly3SteepestBoxStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1255,8 +1367,10 @@ func poly3SteepestBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float6
 
 // poly3SteepestBoxDifference sets out = a − b.
 func poly3SteepestBoxDifference(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -600,8 +600,10 @@ func (s *poly3SteepestFreeDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly3SteepestFreeNegate sets out = −x.
 func poly3SteepestFreeNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -660,8 +662,14 @@ func poly3SteepestFreeValue(recv *Poly, x, g *[3]float64, diffs *poly3SteepestFr
 
 // poly3SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly3SteepestFreeFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3SteepestFreeFinite(x[i]) {
+	{
+		if !poly3SteepestFreeFinite(x[0]) {
+			return false
+		}
+		if !poly3SteepestFreeFinite(x[1]) {
+			return false
+		}
+		if !poly3SteepestFreeFinite(x[2]) {
 			return false
 		}
 	}
@@ -715,15 +723,19 @@ func poly3SteepestFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3SteepestFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly3SteepestFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly3SteepestFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3SteepestFreeAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3SteepestFreeAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3SteepestFreeAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3SteepestFreeAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -731,8 +743,10 @@ func poly3SteepestFreeConfirmGradient(recv *Poly, x *[3]float64, fx float64, g, 
 // poly3SteepestFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly3SteepestFreeGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3SteepestFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -753,8 +767,10 @@ func poly3SteepestFreeAbs(v float64) float64 {
 func poly3SteepestFreeRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3SteepestFreeDifferences) {
 	var h [3]float64
 	poly3SteepestFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3SteepestFreeUnitRoundoff * poly3SteepestFreeAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3SteepestFreeUnitRoundoff * poly3SteepestFreeAbs(x[0]) * h[0]
+		e[1] += 4 * poly3SteepestFreeUnitRoundoff * poly3SteepestFreeAbs(x[1]) * h[1]
+		e[2] += 4 * poly3SteepestFreeUnitRoundoff * poly3SteepestFreeAbs(x[2]) * h[2]
 	}
 }
 
@@ -856,10 +872,22 @@ func poly3SteepestFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3Stee
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3SteepestFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3SteepestFreeLarger(poly3SteepestFreeAbs(fx), 1)
-	for i := range g {
-		w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[i])+e[i])*w)
-		floor = poly3SteepestFreeLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[0])+e[0])*w)
+			floor = poly3SteepestFreeLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[1]), 1) / scale
+			measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[1])+e[1])*w)
+			floor = poly3SteepestFreeLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[2]), 1) / scale
+			measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[2])+e[2])*w)
+			floor = poly3SteepestFreeLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +897,14 @@ func poly3SteepestFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3SteepestFreeStepWithin(s, x *[3]float64, tol float64, diffs *poly3SteepestFreeDifferences) bool {
-	for i := range s {
-		if !(poly3SteepestFreeAbs(s[i]) <= tol*poly3SteepestFreeStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3SteepestFreeAbs(s[0]) <= tol*poly3SteepestFreeStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3SteepestFreeAbs(s[1]) <= tol*poly3SteepestFreeStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3SteepestFreeAbs(s[2]) <= tol*poly3SteepestFreeStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +935,10 @@ func poly3SteepestFreeSolveDirection(dir *poly3SteepestFreeDirection, g, d *[3]f
 // poly3SteepestFreeDot returns aᵀb.
 func poly3SteepestFreeDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -931,9 +967,19 @@ func (f *poly3SteepestFreeStepFloor) at(x, d *[3]float64, diffs *poly3SteepestFr
 // step test, min over i of tol·poly3SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestFreeTinyStep(x, d *[3]float64, tol float64, diffs *poly3SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3SteepestFreeStepScale(x[i], i, diffs) / poly3SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3SteepestFreeStepScale(x[0], 0, diffs) / poly3SteepestFreeAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3SteepestFreeStepScale(x[1], 1, diffs) / poly3SteepestFreeAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3SteepestFreeStepScale(x[2], 2, diffs) / poly3SteepestFreeAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1015,8 +1061,14 @@ func poly3SteepestFreeShrinkDirection(d, g *[3]float64) {
 // poly3SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3SteepestFreeMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3SteepestFreeAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3SteepestFreeAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3SteepestFreeAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3SteepestFreeAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1025,8 +1077,10 @@ func poly3SteepestFreeMaxAbs(x *[3]float64) float64 {
 
 // poly3SteepestFreeScaleBy sets x = c·x.
 func poly3SteepestFreeScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1084,8 +1138,14 @@ func (r *poly3SteepestFreeRiseTrend) contradicts() bool {
 // poly3SteepestFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3SteepestFreeFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3SteepestFreeAbs(xt[i]-x[i]-want) <= 0.01*poly3SteepestFreeAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3SteepestFreeAbs(xt[0]-x[0]-want) <= 0.01*poly3SteepestFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3SteepestFreeAbs(xt[1]-x[1]-want) <= 0.01*poly3SteepestFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3SteepestFreeAbs(xt[2]-x[2]-want) <= 0.01*poly3SteepestFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1118,8 +1178,10 @@ func poly3SteepestFreeTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b
 
 // poly3SteepestFreeMoveTo sets out = x + t·d.
 func poly3SteepestFreeMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1145,8 +1207,10 @@ func poly3SteepestFreeBacktrackTrial(fx, slope, t, ft, previous, fPrevious float
 
 // poly3SteepestFreeDifference sets out = a − b.
 func poly3SteepestFreeDifference(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

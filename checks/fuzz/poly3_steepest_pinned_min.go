@@ -610,8 +610,10 @@ func (s *poly3SteepestPinnedDirection) firstTrial(t, slope, now float64) float64
 
 // poly3SteepestPinnedNegate sets out = −x.
 func poly3SteepestPinnedNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -656,8 +658,10 @@ const (
 // poly3SteepestPinnedEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly3SteepestPinnedEnterBox(x *[3]float64, b *poly3SteepestPinnedBox) {
-	for i := range x {
-		x[i] = poly3SteepestPinnedClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = poly3SteepestPinnedClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = poly3SteepestPinnedClampBetween(x[1], b.lower[1], b.upper[1])
+		x[2] = poly3SteepestPinnedClampBetween(x[2], b.lower[2], b.upper[2])
 	}
 }
 
@@ -690,8 +694,14 @@ func poly3SteepestPinnedValue(recv *Poly, x, g *[3]float64, diffs *poly3Steepest
 
 // poly3SteepestPinnedFiniteVec reports whether every component of x is finite.
 func poly3SteepestPinnedFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !poly3SteepestPinnedFinite(x[i]) {
+	{
+		if !poly3SteepestPinnedFinite(x[0]) {
+			return false
+		}
+		if !poly3SteepestPinnedFinite(x[1]) {
+			return false
+		}
+		if !poly3SteepestPinnedFinite(x[2]) {
 			return false
 		}
 	}
@@ -745,15 +755,19 @@ func poly3SteepestPinnedConfirmGradient(recv *Poly, x *[3]float64, fx float64, g
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += poly3SteepestPinnedDerivative(recv, x, fx, g, diffs)
 	calls += poly3SteepestPinnedDerivative(recv, x, fx, &doubled, &wide)
 	poly3SteepestPinnedGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly3SteepestPinnedAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * poly3SteepestPinnedAbs(g[0]-doubled[0])
+		e[1] += 3 * poly3SteepestPinnedAbs(g[1]-doubled[1])
+		e[2] += 3 * poly3SteepestPinnedAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -761,8 +775,10 @@ func poly3SteepestPinnedConfirmGradient(recv *Poly, x *[3]float64, fx float64, g
 // poly3SteepestPinnedGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly3SteepestPinnedGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *poly3SteepestPinnedDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -783,8 +799,10 @@ func poly3SteepestPinnedAbs(v float64) float64 {
 func poly3SteepestPinnedRoundingFloor(recv *Poly, x, g, e *[3]float64, diffs *poly3SteepestPinnedDifferences) {
 	var h [3]float64
 	poly3SteepestPinnedDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly3SteepestPinnedUnitRoundoff * poly3SteepestPinnedAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * poly3SteepestPinnedUnitRoundoff * poly3SteepestPinnedAbs(x[0]) * h[0]
+		e[1] += 4 * poly3SteepestPinnedUnitRoundoff * poly3SteepestPinnedAbs(x[1]) * h[1]
+		e[2] += 4 * poly3SteepestPinnedUnitRoundoff * poly3SteepestPinnedAbs(x[2]) * h[2]
 	}
 }
 
@@ -861,9 +879,15 @@ func poly3SteepestPinnedLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly3SteepestPinnedStationarity(g, e, x *[3]float64, fx float64, b *poly3SteepestPinnedBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly3SteepestPinnedPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly3SteepestPinnedLarger(0, e[i]-poly3SteepestPinnedAbs(g[i]))
+	{
+		if poly3SteepestPinnedPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, poly3SteepestPinnedLarger(0, e[0]-poly3SteepestPinnedAbs(g[0]))
+		}
+		if poly3SteepestPinnedPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, poly3SteepestPinnedLarger(0, e[1]-poly3SteepestPinnedAbs(g[1]))
+		}
+		if poly3SteepestPinnedPushedAgainst(x[2], g[2], b.lower[2], b.upper[2]) {
+			pg[2], pe[2] = 0, poly3SteepestPinnedLarger(0, e[2]-poly3SteepestPinnedAbs(g[2]))
 		}
 	}
 	return poly3SteepestPinnedGradientMeasure(&pg, &pe, x, fx)
@@ -889,10 +913,22 @@ func poly3SteepestPinnedPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3SteepestPinnedGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(fx), 1)
-	for i := range g {
-		w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[i])+e[i])*w)
-		floor = poly3SteepestPinnedLarger(floor, e[i]*w)
+	{
+		{
+			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[0])+e[0])*w)
+			floor = poly3SteepestPinnedLarger(floor, e[0]*w)
+		}
+		{
+			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[1]), 1) / scale
+			measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[1])+e[1])*w)
+			floor = poly3SteepestPinnedLarger(floor, e[1]*w)
+		}
+		{
+			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[2]), 1) / scale
+			measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[2])+e[2])*w)
+			floor = poly3SteepestPinnedLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -902,8 +938,14 @@ func poly3SteepestPinnedGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly3SteepestPinnedStepWithin(s, x *[3]float64, tol float64, diffs *poly3SteepestPinnedDifferences) bool {
-	for i := range s {
-		if !(poly3SteepestPinnedAbs(s[i]) <= tol*poly3SteepestPinnedStepScale(x[i], i, diffs)) {
+	{
+		if !(poly3SteepestPinnedAbs(s[0]) <= tol*poly3SteepestPinnedStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(poly3SteepestPinnedAbs(s[1]) <= tol*poly3SteepestPinnedStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(poly3SteepestPinnedAbs(s[2]) <= tol*poly3SteepestPinnedStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -926,9 +968,15 @@ func poly3SteepestPinnedStepScale(xi float64, i int, diffs *poly3SteepestPinnedD
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly3SteepestPinnedCurvaturePair(s, y, x *[3]float64, b *poly3SteepestPinnedBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
+		}
+		if s[2] == 0 && (x[2] <= b.lower[2] || x[2] >= b.upper[2]) {
+			y[2] = 0
 		}
 	}
 }
@@ -964,28 +1012,64 @@ func poly3SteepestPinnedLearnCurvature(s, y *[3]float64, diffs *poly3SteepestPin
 func poly3SteepestPinnedSearchDirection(dir *poly3SteepestPinnedDirection, x, g, d *[3]float64, diffs *poly3SteepestPinnedDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly3SteepestPinnedLarger(reach, poly3SteepestPinnedAbs(x[i]-poly3SteepestPinnedClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = poly3SteepestPinnedLarger(reach, poly3SteepestPinnedAbs(x[0]-poly3SteepestPinnedClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = poly3SteepestPinnedLarger(reach, poly3SteepestPinnedAbs(x[1]-poly3SteepestPinnedClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
+		reach = poly3SteepestPinnedLarger(reach, poly3SteepestPinnedAbs(x[2]-poly3SteepestPinnedClampBetween(x[2]-g[2], b.lower[2], b.upper[2])))
 	}
 	var free [3]float64
 	var active [3]bool
-	for i := range x {
-		margin := poly3SteepestPinnedActiveMargin * poly3SteepestPinnedLarger(1, poly3SteepestPinnedAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := poly3SteepestPinnedActiveMargin * poly3SteepestPinnedLarger(1, poly3SteepestPinnedAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = poly3SteepestPinnedPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = poly3SteepestPinnedPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly3SteepestPinnedActiveMargin * poly3SteepestPinnedLarger(1, poly3SteepestPinnedAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = poly3SteepestPinnedPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
+		}
+		{
+			margin := poly3SteepestPinnedActiveMargin * poly3SteepestPinnedLarger(1, poly3SteepestPinnedAbs(x[2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[2] = poly3SteepestPinnedPushedAgainst(x[2], g[2], b.lower[2]+margin, b.upper[2]-margin)
+			if !active[2] {
+				free[2] = g[2]
+			}
 		}
 	}
 	poly3SteepestPinnedSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if poly3SteepestPinnedPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if poly3SteepestPinnedPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if poly3SteepestPinnedPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
+		}
+		if active[2] {
+			d[2] = -g[2]
+		}
+		if poly3SteepestPinnedPushedAgainst(x[2], -d[2], b.lower[2], b.upper[2]) {
+			d[2] = 0
 		}
 	}
 }
@@ -998,8 +1082,10 @@ func poly3SteepestPinnedSolveDirection(dir *poly3SteepestPinnedDirection, g, d *
 // poly3SteepestPinnedDot returns aᵀb.
 func poly3SteepestPinnedDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -1028,9 +1114,19 @@ func (f *poly3SteepestPinnedStepFloor) at(x, d *[3]float64, diffs *poly3Steepest
 // step test, min over i of tol·poly3SteepestPinnedStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly3SteepestPinnedTinyStep(x, d *[3]float64, tol float64, diffs *poly3SteepestPinnedDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly3SteepestPinnedStepScale(x[i], i, diffs) / poly3SteepestPinnedAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * poly3SteepestPinnedStepScale(x[0], 0, diffs) / poly3SteepestPinnedAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * poly3SteepestPinnedStepScale(x[1], 1, diffs) / poly3SteepestPinnedAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * poly3SteepestPinnedStepScale(x[2], 2, diffs) / poly3SteepestPinnedAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1208,14 @@ func poly3SteepestPinnedShrinkDirection(d, g *[3]float64) {
 // poly3SteepestPinnedMaxAbs returns the largest |x_i|, the infinity norm.
 func poly3SteepestPinnedMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly3SteepestPinnedAbs(x[i]); a > m || a != a {
+	{
+		if a := poly3SteepestPinnedAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := poly3SteepestPinnedAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := poly3SteepestPinnedAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1224,10 @@ func poly3SteepestPinnedMaxAbs(x *[3]float64) float64 {
 
 // poly3SteepestPinnedScaleBy sets x = c·x.
 func poly3SteepestPinnedScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1181,8 +1285,14 @@ func (r *poly3SteepestPinnedRiseTrend) contradicts() bool {
 // poly3SteepestPinnedFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly3SteepestPinnedFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly3SteepestPinnedAbs(xt[i]-x[i]-want) <= 0.01*poly3SteepestPinnedAbs(want)) {
+	{
+		if want := t * d[0]; !(poly3SteepestPinnedAbs(xt[0]-x[0]-want) <= 0.01*poly3SteepestPinnedAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(poly3SteepestPinnedAbs(xt[1]-x[1]-want) <= 0.01*poly3SteepestPinnedAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(poly3SteepestPinnedAbs(xt[2]-x[2]-want) <= 0.01*poly3SteepestPinnedAbs(want)) {
 			return false
 		}
 	}
@@ -1242,8 +1352,10 @@ func poly3SteepestPinnedTrialPoint(out, x *[3]float64, t float64, d *[3]float64,
 // stands in for armijoDecrease when the spec has bounds.
 func poly3SteepestPinnedAcceptable(fx, ft, t, slope float64, x, xt, g *[3]float64) bool {
 	var change float64
-	for i := range x {
-		change += g[i] * (xt[i] - x[i])
+	{
+		change += g[0] * (xt[0] - x[0])
+		change += g[1] * (xt[1] - x[1])
+		change += g[2] * (xt[2] - x[2])
 	}
 	return change < 0 && ft <= fx+poly3SteepestPinnedStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1255,8 +1367,10 @@ func poly3SteepestPinnedBacktrackTrial(fx, slope, t, ft, previous, fPrevious flo
 
 // poly3SteepestPinnedDifference sets out = a − b.
 func poly3SteepestPinnedDifference(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

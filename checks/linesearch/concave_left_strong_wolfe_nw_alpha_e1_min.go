@@ -600,8 +600,8 @@ func (s *concaveLeftStrongWolfeNWAlphaE1Direction) firstTrial(t, slope, now floa
 
 // concaveLeftStrongWolfeNWAlphaE1Negate sets out = −x.
 func concaveLeftStrongWolfeNWAlphaE1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func concaveLeftStrongWolfeNWAlphaE1Value(x, g *[1]float64, diffs *concaveLeftSt
 
 // concaveLeftStrongWolfeNWAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveLeftStrongWolfeNWAlphaE1Finite(x[i]) {
+	{
+		if !concaveLeftStrongWolfeNWAlphaE1Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func concaveLeftStrongWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveLeftStrongWolfeNWAlphaE1Derivative(x, fx, g, diffs)
 	calls += concaveLeftStrongWolfeNWAlphaE1Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeNWAlphaE1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveLeftStrongWolfeNWAlphaE1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveLeftStrongWolfeNWAlphaE1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func concaveLeftStrongWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g
 // concaveLeftStrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveLeftStrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func concaveLeftStrongWolfeNWAlphaE1Abs(v float64) float64 {
 func concaveLeftStrongWolfeNWAlphaE1RoundingFloor(x, g, e *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) {
 	var h [1]float64
 	concaveLeftStrongWolfeNWAlphaE1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveLeftStrongWolfeNWAlphaE1UnitRoundoff * concaveLeftStrongWolfeNWAlphaE1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveLeftStrongWolfeNWAlphaE1UnitRoundoff * concaveLeftStrongWolfeNWAlphaE1Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func concaveLeftStrongWolfeNWAlphaE1Stationarity(g, e, x *[1]float64, fx float64
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveLeftStrongWolfeNWAlphaE1Larger(concaveLeftStrongWolfeNWAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftStrongWolfeNWAlphaE1Larger(concaveLeftStrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftStrongWolfeNWAlphaE1Larger(measure, (concaveLeftStrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
-		floor = concaveLeftStrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveLeftStrongWolfeNWAlphaE1Larger(concaveLeftStrongWolfeNWAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveLeftStrongWolfeNWAlphaE1Larger(measure, (concaveLeftStrongWolfeNWAlphaE1Abs(g[0])+e[0])*w)
+			floor = concaveLeftStrongWolfeNWAlphaE1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func concaveLeftStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx floa
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) bool {
-	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaE1Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaE1StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveLeftStrongWolfeNWAlphaE1Abs(s[0]) <= tol*concaveLeftStrongWolfeNWAlphaE1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -903,8 +905,8 @@ func concaveLeftStrongWolfeNWAlphaE1SolveDirection(dir *concaveLeftStrongWolfeNW
 // concaveLeftStrongWolfeNWAlphaE1Dot returns aᵀb.
 func concaveLeftStrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -933,9 +935,9 @@ func (f *concaveLeftStrongWolfeNWAlphaE1StepFloor) at(x, d *[1]float64, diffs *c
 // step test, min over i of tol·concaveLeftStrongWolfeNWAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaE1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveLeftStrongWolfeNWAlphaE1StepScale(x[i], i, diffs) / concaveLeftStrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveLeftStrongWolfeNWAlphaE1StepScale(x[0], 0, diffs) / concaveLeftStrongWolfeNWAlphaE1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1083,8 +1085,8 @@ func concaveLeftStrongWolfeNWAlphaE1ShrinkDirection(d, g *[1]float64) {
 // concaveLeftStrongWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveLeftStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveLeftStrongWolfeNWAlphaE1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1093,8 +1095,8 @@ func concaveLeftStrongWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
 
 // concaveLeftStrongWolfeNWAlphaE1ScaleBy sets x = c·x.
 func concaveLeftStrongWolfeNWAlphaE1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1159,8 +1161,8 @@ func (r *concaveLeftStrongWolfeNWAlphaE1RiseTrend) contradicts() bool {
 // concaveLeftStrongWolfeNWAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveLeftStrongWolfeNWAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaE1Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveLeftStrongWolfeNWAlphaE1Abs(xt[0]-x[0]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaE1Abs(want)) {
 			return false
 		}
 	}
@@ -1209,8 +1211,8 @@ func concaveLeftStrongWolfeNWAlphaE1TrialPoint(out, x *[1]float64, t float64, d 
 
 // concaveLeftStrongWolfeNWAlphaE1MoveTo sets out = x + t·d.
 func concaveLeftStrongWolfeNWAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1276,8 +1278,8 @@ func concaveLeftStrongWolfeNWAlphaE1ExpandTrial(previous, current *concaveLeftSt
 
 // concaveLeftStrongWolfeNWAlphaE1Difference sets out = a − b.
 func concaveLeftStrongWolfeNWAlphaE1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

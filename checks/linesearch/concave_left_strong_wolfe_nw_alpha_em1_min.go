@@ -600,8 +600,8 @@ func (s *concaveLeftStrongWolfeNWAlphaEm1Direction) firstTrial(t, slope, now flo
 
 // concaveLeftStrongWolfeNWAlphaEm1Negate sets out = −x.
 func concaveLeftStrongWolfeNWAlphaEm1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -661,8 +661,8 @@ func concaveLeftStrongWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *concaveLeftS
 
 // concaveLeftStrongWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveLeftStrongWolfeNWAlphaEm1Finite(x[i]) {
+	{
+		if !concaveLeftStrongWolfeNWAlphaEm1Finite(x[0]) {
 			return false
 		}
 	}
@@ -716,15 +716,15 @@ func concaveLeftStrongWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveLeftStrongWolfeNWAlphaEm1Derivative(x, fx, g, diffs)
 	calls += concaveLeftStrongWolfeNWAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeNWAlphaEm1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveLeftStrongWolfeNWAlphaEm1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveLeftStrongWolfeNWAlphaEm1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -732,8 +732,8 @@ func concaveLeftStrongWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, 
 // concaveLeftStrongWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveLeftStrongWolfeNWAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -754,8 +754,8 @@ func concaveLeftStrongWolfeNWAlphaEm1Abs(v float64) float64 {
 func concaveLeftStrongWolfeNWAlphaEm1RoundingFloor(x, g, e *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
 	var h [1]float64
 	concaveLeftStrongWolfeNWAlphaEm1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveLeftStrongWolfeNWAlphaEm1UnitRoundoff * concaveLeftStrongWolfeNWAlphaEm1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveLeftStrongWolfeNWAlphaEm1UnitRoundoff * concaveLeftStrongWolfeNWAlphaEm1Abs(x[0]) * h[0]
 	}
 }
 
@@ -857,10 +857,12 @@ func concaveLeftStrongWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float6
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveLeftStrongWolfeNWAlphaEm1Larger(concaveLeftStrongWolfeNWAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftStrongWolfeNWAlphaEm1Larger(concaveLeftStrongWolfeNWAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftStrongWolfeNWAlphaEm1Larger(measure, (concaveLeftStrongWolfeNWAlphaEm1Abs(g[i])+e[i])*w)
-		floor = concaveLeftStrongWolfeNWAlphaEm1Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveLeftStrongWolfeNWAlphaEm1Larger(concaveLeftStrongWolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveLeftStrongWolfeNWAlphaEm1Larger(measure, (concaveLeftStrongWolfeNWAlphaEm1Abs(g[0])+e[0])*w)
+			floor = concaveLeftStrongWolfeNWAlphaEm1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -870,8 +872,8 @@ func concaveLeftStrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) bool {
-	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaEm1Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaEm1StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveLeftStrongWolfeNWAlphaEm1Abs(s[0]) <= tol*concaveLeftStrongWolfeNWAlphaEm1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -904,8 +906,8 @@ func concaveLeftStrongWolfeNWAlphaEm1SolveDirection(dir *concaveLeftStrongWolfeN
 // concaveLeftStrongWolfeNWAlphaEm1Dot returns aᵀb.
 func concaveLeftStrongWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -934,9 +936,9 @@ func (f *concaveLeftStrongWolfeNWAlphaEm1StepFloor) at(x, d *[1]float64, diffs *
 // step test, min over i of tol·concaveLeftStrongWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveLeftStrongWolfeNWAlphaEm1StepScale(x[i], i, diffs) / concaveLeftStrongWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveLeftStrongWolfeNWAlphaEm1StepScale(x[0], 0, diffs) / concaveLeftStrongWolfeNWAlphaEm1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1084,8 +1086,8 @@ func concaveLeftStrongWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 // concaveLeftStrongWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveLeftStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveLeftStrongWolfeNWAlphaEm1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1094,8 +1096,8 @@ func concaveLeftStrongWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
 
 // concaveLeftStrongWolfeNWAlphaEm1ScaleBy sets x = c·x.
 func concaveLeftStrongWolfeNWAlphaEm1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1160,8 +1162,8 @@ func (r *concaveLeftStrongWolfeNWAlphaEm1RiseTrend) contradicts() bool {
 // concaveLeftStrongWolfeNWAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveLeftStrongWolfeNWAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaEm1Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveLeftStrongWolfeNWAlphaEm1Abs(xt[0]-x[0]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaEm1Abs(want)) {
 			return false
 		}
 	}
@@ -1210,8 +1212,8 @@ func concaveLeftStrongWolfeNWAlphaEm1TrialPoint(out, x *[1]float64, t float64, d
 
 // concaveLeftStrongWolfeNWAlphaEm1MoveTo sets out = x + t·d.
 func concaveLeftStrongWolfeNWAlphaEm1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1277,8 +1279,8 @@ func concaveLeftStrongWolfeNWAlphaEm1ExpandTrial(previous, current *concaveLeftS
 
 // concaveLeftStrongWolfeNWAlphaEm1Difference sets out = a − b.
 func concaveLeftStrongWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

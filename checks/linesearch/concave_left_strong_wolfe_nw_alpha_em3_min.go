@@ -600,8 +600,8 @@ func (s *concaveLeftStrongWolfeNWAlphaEm3Direction) firstTrial(t, slope, now flo
 
 // concaveLeftStrongWolfeNWAlphaEm3Negate sets out = −x.
 func concaveLeftStrongWolfeNWAlphaEm3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -661,8 +661,8 @@ func concaveLeftStrongWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveLeftS
 
 // concaveLeftStrongWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveLeftStrongWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveLeftStrongWolfeNWAlphaEm3Finite(x[i]) {
+	{
+		if !concaveLeftStrongWolfeNWAlphaEm3Finite(x[0]) {
 			return false
 		}
 	}
@@ -716,15 +716,15 @@ func concaveLeftStrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveLeftStrongWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
 	calls += concaveLeftStrongWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveLeftStrongWolfeNWAlphaEm3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveLeftStrongWolfeNWAlphaEm3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -732,8 +732,8 @@ func concaveLeftStrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, 
 // concaveLeftStrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveLeftStrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -754,8 +754,8 @@ func concaveLeftStrongWolfeNWAlphaEm3Abs(v float64) float64 {
 func concaveLeftStrongWolfeNWAlphaEm3RoundingFloor(x, g, e *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) {
 	var h [1]float64
 	concaveLeftStrongWolfeNWAlphaEm3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveLeftStrongWolfeNWAlphaEm3UnitRoundoff * concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveLeftStrongWolfeNWAlphaEm3UnitRoundoff * concaveLeftStrongWolfeNWAlphaEm3Abs(x[0]) * h[0]
 	}
 }
 
@@ -857,10 +857,12 @@ func concaveLeftStrongWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float6
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveLeftStrongWolfeNWAlphaEm3Larger(concaveLeftStrongWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftStrongWolfeNWAlphaEm3Larger(concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftStrongWolfeNWAlphaEm3Larger(measure, (concaveLeftStrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = concaveLeftStrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveLeftStrongWolfeNWAlphaEm3Larger(concaveLeftStrongWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveLeftStrongWolfeNWAlphaEm3Larger(measure, (concaveLeftStrongWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
+			floor = concaveLeftStrongWolfeNWAlphaEm3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -870,8 +872,8 @@ func concaveLeftStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveLeftStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) bool {
-	for i := range s {
-		if !(concaveLeftStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveLeftStrongWolfeNWAlphaEm3Abs(s[0]) <= tol*concaveLeftStrongWolfeNWAlphaEm3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -904,8 +906,8 @@ func concaveLeftStrongWolfeNWAlphaEm3SolveDirection(dir *concaveLeftStrongWolfeN
 // concaveLeftStrongWolfeNWAlphaEm3Dot returns aᵀb.
 func concaveLeftStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -934,9 +936,9 @@ func (f *concaveLeftStrongWolfeNWAlphaEm3StepFloor) at(x, d *[1]float64, diffs *
 // step test, min over i of tol·concaveLeftStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftStrongWolfeNWAlphaEm3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveLeftStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs) / concaveLeftStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveLeftStrongWolfeNWAlphaEm3StepScale(x[0], 0, diffs) / concaveLeftStrongWolfeNWAlphaEm3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1084,8 +1086,8 @@ func concaveLeftStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 // concaveLeftStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveLeftStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveLeftStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveLeftStrongWolfeNWAlphaEm3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1094,8 +1096,8 @@ func concaveLeftStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 
 // concaveLeftStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.
 func concaveLeftStrongWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1160,8 +1162,8 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 // concaveLeftStrongWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveLeftStrongWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaEm3Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveLeftStrongWolfeNWAlphaEm3Abs(xt[0]-x[0]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaEm3Abs(want)) {
 			return false
 		}
 	}
@@ -1210,8 +1212,8 @@ func concaveLeftStrongWolfeNWAlphaEm3TrialPoint(out, x *[1]float64, t float64, d
 
 // concaveLeftStrongWolfeNWAlphaEm3MoveTo sets out = x + t·d.
 func concaveLeftStrongWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1277,8 +1279,8 @@ func concaveLeftStrongWolfeNWAlphaEm3ExpandTrial(previous, current *concaveLeftS
 
 // concaveLeftStrongWolfeNWAlphaEm3Difference sets out = a − b.
 func concaveLeftStrongWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -600,8 +600,8 @@ func (s *concaveLeftWolfeNWAlphaEm1Direction) firstTrial(t, slope, now float64) 
 
 // concaveLeftWolfeNWAlphaEm1Negate sets out = −x.
 func concaveLeftWolfeNWAlphaEm1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func concaveLeftWolfeNWAlphaEm1Value(x, g *[1]float64, diffs *concaveLeftWolfeNW
 
 // concaveLeftWolfeNWAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveLeftWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveLeftWolfeNWAlphaEm1Finite(x[i]) {
+	{
+		if !concaveLeftWolfeNWAlphaEm1Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func concaveLeftWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveLeftWolfeNWAlphaEm1Derivative(x, fx, g, diffs)
 	calls += concaveLeftWolfeNWAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveLeftWolfeNWAlphaEm1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveLeftWolfeNWAlphaEm1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveLeftWolfeNWAlphaEm1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func concaveLeftWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *
 // concaveLeftWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveLeftWolfeNWAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func concaveLeftWolfeNWAlphaEm1Abs(v float64) float64 {
 func concaveLeftWolfeNWAlphaEm1RoundingFloor(x, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
 	var h [1]float64
 	concaveLeftWolfeNWAlphaEm1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveLeftWolfeNWAlphaEm1UnitRoundoff * concaveLeftWolfeNWAlphaEm1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveLeftWolfeNWAlphaEm1UnitRoundoff * concaveLeftWolfeNWAlphaEm1Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func concaveLeftWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftWolfeNWAlphaEm1Larger(measure, (concaveLeftWolfeNWAlphaEm1Abs(g[i])+e[i])*w)
-		floor = concaveLeftWolfeNWAlphaEm1Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveLeftWolfeNWAlphaEm1Larger(measure, (concaveLeftWolfeNWAlphaEm1Abs(g[0])+e[0])*w)
+			floor = concaveLeftWolfeNWAlphaEm1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func concaveLeftWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveLeftWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) bool {
-	for i := range s {
-		if !(concaveLeftWolfeNWAlphaEm1Abs(s[i]) <= tol*concaveLeftWolfeNWAlphaEm1StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveLeftWolfeNWAlphaEm1Abs(s[0]) <= tol*concaveLeftWolfeNWAlphaEm1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -902,8 +904,8 @@ func concaveLeftWolfeNWAlphaEm1SolveDirection(dir *concaveLeftWolfeNWAlphaEm1Dir
 // concaveLeftWolfeNWAlphaEm1Dot returns aᵀb.
 func concaveLeftWolfeNWAlphaEm1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -932,9 +934,9 @@ func (f *concaveLeftWolfeNWAlphaEm1StepFloor) at(x, d *[1]float64, diffs *concav
 // step test, min over i of tol·concaveLeftWolfeNWAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveLeftWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveLeftWolfeNWAlphaEm1StepScale(x[i], i, diffs) / concaveLeftWolfeNWAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveLeftWolfeNWAlphaEm1StepScale(x[0], 0, diffs) / concaveLeftWolfeNWAlphaEm1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1082,8 +1084,8 @@ func concaveLeftWolfeNWAlphaEm1ShrinkDirection(d, g *[1]float64) {
 // concaveLeftWolfeNWAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveLeftWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeNWAlphaEm1Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveLeftWolfeNWAlphaEm1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1092,8 +1094,8 @@ func concaveLeftWolfeNWAlphaEm1MaxAbs(x *[1]float64) float64 {
 
 // concaveLeftWolfeNWAlphaEm1ScaleBy sets x = c·x.
 func concaveLeftWolfeNWAlphaEm1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1158,8 +1160,8 @@ func (r *concaveLeftWolfeNWAlphaEm1RiseTrend) contradicts() bool {
 // concaveLeftWolfeNWAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveLeftWolfeNWAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftWolfeNWAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftWolfeNWAlphaEm1Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveLeftWolfeNWAlphaEm1Abs(xt[0]-x[0]-want) <= 0.01*concaveLeftWolfeNWAlphaEm1Abs(want)) {
 			return false
 		}
 	}
@@ -1208,8 +1210,8 @@ func concaveLeftWolfeNWAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]f
 
 // concaveLeftWolfeNWAlphaEm1MoveTo sets out = x + t·d.
 func concaveLeftWolfeNWAlphaEm1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1275,8 +1277,8 @@ func concaveLeftWolfeNWAlphaEm1ExpandTrial(previous, current *concaveLeftWolfeNW
 
 // concaveLeftWolfeNWAlphaEm1Difference sets out = a − b.
 func concaveLeftWolfeNWAlphaEm1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

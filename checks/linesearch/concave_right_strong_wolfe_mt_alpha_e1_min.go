@@ -600,8 +600,8 @@ func (s *concaveRightStrongWolfeMTAlphaE1Direction) firstTrial(t, slope, now flo
 
 // concaveRightStrongWolfeMTAlphaE1Negate sets out = −x.
 func concaveRightStrongWolfeMTAlphaE1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -661,8 +661,8 @@ func concaveRightStrongWolfeMTAlphaE1Value(x, g *[1]float64, diffs *concaveRight
 
 // concaveRightStrongWolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveRightStrongWolfeMTAlphaE1Finite(x[i]) {
+	{
+		if !concaveRightStrongWolfeMTAlphaE1Finite(x[0]) {
 			return false
 		}
 	}
@@ -716,15 +716,15 @@ func concaveRightStrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveRightStrongWolfeMTAlphaE1Derivative(x, fx, g, diffs)
 	calls += concaveRightStrongWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
 	concaveRightStrongWolfeMTAlphaE1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveRightStrongWolfeMTAlphaE1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveRightStrongWolfeMTAlphaE1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -732,8 +732,8 @@ func concaveRightStrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, 
 // concaveRightStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveRightStrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -754,8 +754,8 @@ func concaveRightStrongWolfeMTAlphaE1Abs(v float64) float64 {
 func concaveRightStrongWolfeMTAlphaE1RoundingFloor(x, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
 	var h [1]float64
 	concaveRightStrongWolfeMTAlphaE1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveRightStrongWolfeMTAlphaE1UnitRoundoff * concaveRightStrongWolfeMTAlphaE1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveRightStrongWolfeMTAlphaE1UnitRoundoff * concaveRightStrongWolfeMTAlphaE1Abs(x[0]) * h[0]
 	}
 }
 
@@ -857,10 +857,12 @@ func concaveRightStrongWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float6
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeMTAlphaE1Larger(measure, (concaveRightStrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveRightStrongWolfeMTAlphaE1Larger(measure, (concaveRightStrongWolfeMTAlphaE1Abs(g[0])+e[0])*w)
+			floor = concaveRightStrongWolfeMTAlphaE1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -870,8 +872,8 @@ func concaveRightStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaE1StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[0]) <= tol*concaveRightStrongWolfeMTAlphaE1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -904,8 +906,8 @@ func concaveRightStrongWolfeMTAlphaE1SolveDirection(dir *concaveRightStrongWolfe
 // concaveRightStrongWolfeMTAlphaE1Dot returns aᵀb.
 func concaveRightStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -934,9 +936,9 @@ func (f *concaveRightStrongWolfeMTAlphaE1StepFloor) at(x, d *[1]float64, diffs *
 // step test, min over i of tol·concaveRightStrongWolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveRightStrongWolfeMTAlphaE1StepScale(x[i], i, diffs) / concaveRightStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveRightStrongWolfeMTAlphaE1StepScale(x[0], 0, diffs) / concaveRightStrongWolfeMTAlphaE1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1084,8 +1086,8 @@ func concaveRightStrongWolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 // concaveRightStrongWolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveRightStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveRightStrongWolfeMTAlphaE1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1094,8 +1096,8 @@ func concaveRightStrongWolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
 
 // concaveRightStrongWolfeMTAlphaE1ScaleBy sets x = c·x.
 func concaveRightStrongWolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1160,8 +1162,8 @@ func (r *concaveRightStrongWolfeMTAlphaE1RiseTrend) contradicts() bool {
 // concaveRightStrongWolfeMTAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveRightStrongWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveRightStrongWolfeMTAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*concaveRightStrongWolfeMTAlphaE1Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveRightStrongWolfeMTAlphaE1Abs(xt[0]-x[0]-want) <= 0.01*concaveRightStrongWolfeMTAlphaE1Abs(want)) {
 			return false
 		}
 	}
@@ -1210,8 +1212,8 @@ func concaveRightStrongWolfeMTAlphaE1TrialPoint(out, x *[1]float64, t float64, d
 
 // concaveRightStrongWolfeMTAlphaE1MoveTo sets out = x + t·d.
 func concaveRightStrongWolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1277,8 +1279,8 @@ func concaveRightStrongWolfeMTAlphaE1ExpandTrial(previous, current *concaveRight
 
 // concaveRightStrongWolfeMTAlphaE1Difference sets out = a − b.
 func concaveRightStrongWolfeMTAlphaE1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -600,8 +600,8 @@ func (s *concaveRightStrongWolfeMTAlphaEm1Direction) firstTrial(t, slope, now fl
 
 // concaveRightStrongWolfeMTAlphaEm1Negate sets out = −x.
 func concaveRightStrongWolfeMTAlphaEm1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -661,8 +661,8 @@ func concaveRightStrongWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *concaveRigh
 
 // concaveRightStrongWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveRightStrongWolfeMTAlphaEm1Finite(x[i]) {
+	{
+		if !concaveRightStrongWolfeMTAlphaEm1Finite(x[0]) {
 			return false
 		}
 	}
@@ -716,15 +716,15 @@ func concaveRightStrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64,
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveRightStrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
 	calls += concaveRightStrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveRightStrongWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveRightStrongWolfeMTAlphaEm1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveRightStrongWolfeMTAlphaEm1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -732,8 +732,8 @@ func concaveRightStrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64,
 // concaveRightStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveRightStrongWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -754,8 +754,8 @@ func concaveRightStrongWolfeMTAlphaEm1Abs(v float64) float64 {
 func concaveRightStrongWolfeMTAlphaEm1RoundingFloor(x, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) {
 	var h [1]float64
 	concaveRightStrongWolfeMTAlphaEm1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveRightStrongWolfeMTAlphaEm1UnitRoundoff * concaveRightStrongWolfeMTAlphaEm1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveRightStrongWolfeMTAlphaEm1UnitRoundoff * concaveRightStrongWolfeMTAlphaEm1Abs(x[0]) * h[0]
 	}
 }
 
@@ -857,10 +857,12 @@ func concaveRightStrongWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveRightStrongWolfeMTAlphaEm1Larger(concaveRightStrongWolfeMTAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeMTAlphaEm1Larger(concaveRightStrongWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeMTAlphaEm1Larger(measure, (concaveRightStrongWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeMTAlphaEm1Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveRightStrongWolfeMTAlphaEm1Larger(concaveRightStrongWolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveRightStrongWolfeMTAlphaEm1Larger(measure, (concaveRightStrongWolfeMTAlphaEm1Abs(g[0])+e[0])*w)
+			floor = concaveRightStrongWolfeMTAlphaEm1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -870,8 +872,8 @@ func concaveRightStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveRightStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveRightStrongWolfeMTAlphaEm1StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveRightStrongWolfeMTAlphaEm1Abs(s[0]) <= tol*concaveRightStrongWolfeMTAlphaEm1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -904,8 +906,8 @@ func concaveRightStrongWolfeMTAlphaEm1SolveDirection(dir *concaveRightStrongWolf
 // concaveRightStrongWolfeMTAlphaEm1Dot returns aᵀb.
 func concaveRightStrongWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -934,9 +936,9 @@ func (f *concaveRightStrongWolfeMTAlphaEm1StepFloor) at(x, d *[1]float64, diffs 
 // step test, min over i of tol·concaveRightStrongWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightStrongWolfeMTAlphaEm1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveRightStrongWolfeMTAlphaEm1StepScale(x[i], i, diffs) / concaveRightStrongWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveRightStrongWolfeMTAlphaEm1StepScale(x[0], 0, diffs) / concaveRightStrongWolfeMTAlphaEm1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1084,8 +1086,8 @@ func concaveRightStrongWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 // concaveRightStrongWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveRightStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveRightStrongWolfeMTAlphaEm1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1094,8 +1096,8 @@ func concaveRightStrongWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
 
 // concaveRightStrongWolfeMTAlphaEm1ScaleBy sets x = c·x.
 func concaveRightStrongWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1160,8 +1162,8 @@ func (r *concaveRightStrongWolfeMTAlphaEm1RiseTrend) contradicts() bool {
 // concaveRightStrongWolfeMTAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveRightStrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveRightStrongWolfeMTAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*concaveRightStrongWolfeMTAlphaEm1Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveRightStrongWolfeMTAlphaEm1Abs(xt[0]-x[0]-want) <= 0.01*concaveRightStrongWolfeMTAlphaEm1Abs(want)) {
 			return false
 		}
 	}
@@ -1210,8 +1212,8 @@ func concaveRightStrongWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, 
 
 // concaveRightStrongWolfeMTAlphaEm1MoveTo sets out = x + t·d.
 func concaveRightStrongWolfeMTAlphaEm1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1277,8 +1279,8 @@ func concaveRightStrongWolfeMTAlphaEm1ExpandTrial(previous, current *concaveRigh
 
 // concaveRightStrongWolfeMTAlphaEm1Difference sets out = a − b.
 func concaveRightStrongWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -600,8 +600,8 @@ func (s *concaveRightStrongWolfeNWAlphaEm3Direction) firstTrial(t, slope, now fl
 
 // concaveRightStrongWolfeNWAlphaEm3Negate sets out = −x.
 func concaveRightStrongWolfeNWAlphaEm3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -661,8 +661,8 @@ func concaveRightStrongWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveRigh
 
 // concaveRightStrongWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveRightStrongWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveRightStrongWolfeNWAlphaEm3Finite(x[i]) {
+	{
+		if !concaveRightStrongWolfeNWAlphaEm3Finite(x[0]) {
 			return false
 		}
 	}
@@ -716,15 +716,15 @@ func concaveRightStrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64,
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveRightStrongWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
 	calls += concaveRightStrongWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
 	concaveRightStrongWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveRightStrongWolfeNWAlphaEm3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveRightStrongWolfeNWAlphaEm3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -732,8 +732,8 @@ func concaveRightStrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64,
 // concaveRightStrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveRightStrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -754,8 +754,8 @@ func concaveRightStrongWolfeNWAlphaEm3Abs(v float64) float64 {
 func concaveRightStrongWolfeNWAlphaEm3RoundingFloor(x, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
 	var h [1]float64
 	concaveRightStrongWolfeNWAlphaEm3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveRightStrongWolfeNWAlphaEm3UnitRoundoff * concaveRightStrongWolfeNWAlphaEm3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveRightStrongWolfeNWAlphaEm3UnitRoundoff * concaveRightStrongWolfeNWAlphaEm3Abs(x[0]) * h[0]
 	}
 }
 
@@ -857,10 +857,12 @@ func concaveRightStrongWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeNWAlphaEm3Larger(measure, (concaveRightStrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveRightStrongWolfeNWAlphaEm3Larger(measure, (concaveRightStrongWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
+			floor = concaveRightStrongWolfeNWAlphaEm3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -870,8 +872,8 @@ func concaveRightStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveRightStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveRightStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveRightStrongWolfeNWAlphaEm3Abs(s[0]) <= tol*concaveRightStrongWolfeNWAlphaEm3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -904,8 +906,8 @@ func concaveRightStrongWolfeNWAlphaEm3SolveDirection(dir *concaveRightStrongWolf
 // concaveRightStrongWolfeNWAlphaEm3Dot returns aᵀb.
 func concaveRightStrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -934,9 +936,9 @@ func (f *concaveRightStrongWolfeNWAlphaEm3StepFloor) at(x, d *[1]float64, diffs 
 // step test, min over i of tol·concaveRightStrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightStrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveRightStrongWolfeNWAlphaEm3StepScale(x[i], i, diffs) / concaveRightStrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveRightStrongWolfeNWAlphaEm3StepScale(x[0], 0, diffs) / concaveRightStrongWolfeNWAlphaEm3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1084,8 +1086,8 @@ func concaveRightStrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 // concaveRightStrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveRightStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveRightStrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveRightStrongWolfeNWAlphaEm3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1094,8 +1096,8 @@ func concaveRightStrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 
 // concaveRightStrongWolfeNWAlphaEm3ScaleBy sets x = c·x.
 func concaveRightStrongWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1160,8 +1162,8 @@ func (r *concaveRightStrongWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 // concaveRightStrongWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveRightStrongWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveRightStrongWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveRightStrongWolfeNWAlphaEm3Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveRightStrongWolfeNWAlphaEm3Abs(xt[0]-x[0]-want) <= 0.01*concaveRightStrongWolfeNWAlphaEm3Abs(want)) {
 			return false
 		}
 	}
@@ -1210,8 +1212,8 @@ func concaveRightStrongWolfeNWAlphaEm3TrialPoint(out, x *[1]float64, t float64, 
 
 // concaveRightStrongWolfeNWAlphaEm3MoveTo sets out = x + t·d.
 func concaveRightStrongWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1277,8 +1279,8 @@ func concaveRightStrongWolfeNWAlphaEm3ExpandTrial(previous, current *concaveRigh
 
 // concaveRightStrongWolfeNWAlphaEm3Difference sets out = a − b.
 func concaveRightStrongWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

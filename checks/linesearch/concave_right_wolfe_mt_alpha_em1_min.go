@@ -600,8 +600,8 @@ func (s *concaveRightWolfeMTAlphaEm1Direction) firstTrial(t, slope, now float64)
 
 // concaveRightWolfeMTAlphaEm1Negate sets out = −x.
 func concaveRightWolfeMTAlphaEm1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func concaveRightWolfeMTAlphaEm1Value(x, g *[1]float64, diffs *concaveRightWolfe
 
 // concaveRightWolfeMTAlphaEm1FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveRightWolfeMTAlphaEm1Finite(x[i]) {
+	{
+		if !concaveRightWolfeMTAlphaEm1Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func concaveRightWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveRightWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
 	calls += concaveRightWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveRightWolfeMTAlphaEm1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveRightWolfeMTAlphaEm1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func concaveRightWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e 
 // concaveRightWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveRightWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func concaveRightWolfeMTAlphaEm1Abs(v float64) float64 {
 func concaveRightWolfeMTAlphaEm1RoundingFloor(x, g, e *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
 	var h [1]float64
 	concaveRightWolfeMTAlphaEm1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveRightWolfeMTAlphaEm1UnitRoundoff * concaveRightWolfeMTAlphaEm1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveRightWolfeMTAlphaEm1UnitRoundoff * concaveRightWolfeMTAlphaEm1Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func concaveRightWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveRightWolfeMTAlphaEm1Larger(concaveRightWolfeMTAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := concaveRightWolfeMTAlphaEm1Larger(concaveRightWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightWolfeMTAlphaEm1Larger(measure, (concaveRightWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
-		floor = concaveRightWolfeMTAlphaEm1Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveRightWolfeMTAlphaEm1Larger(concaveRightWolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveRightWolfeMTAlphaEm1Larger(measure, (concaveRightWolfeMTAlphaEm1Abs(g[0])+e[0])*w)
+			floor = concaveRightWolfeMTAlphaEm1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func concaveRightWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64)
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveRightWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightWolfeMTAlphaEm1Differences) bool {
-	for i := range s {
-		if !(concaveRightWolfeMTAlphaEm1Abs(s[i]) <= tol*concaveRightWolfeMTAlphaEm1StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveRightWolfeMTAlphaEm1Abs(s[0]) <= tol*concaveRightWolfeMTAlphaEm1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -903,8 +905,8 @@ func concaveRightWolfeMTAlphaEm1SolveDirection(dir *concaveRightWolfeMTAlphaEm1D
 // concaveRightWolfeMTAlphaEm1Dot returns aᵀb.
 func concaveRightWolfeMTAlphaEm1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -933,9 +935,9 @@ func (f *concaveRightWolfeMTAlphaEm1StepFloor) at(x, d *[1]float64, diffs *conca
 // step test, min over i of tol·concaveRightWolfeMTAlphaEm1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightWolfeMTAlphaEm1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveRightWolfeMTAlphaEm1StepScale(x[i], i, diffs) / concaveRightWolfeMTAlphaEm1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveRightWolfeMTAlphaEm1StepScale(x[0], 0, diffs) / concaveRightWolfeMTAlphaEm1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1083,8 +1085,8 @@ func concaveRightWolfeMTAlphaEm1ShrinkDirection(d, g *[1]float64) {
 // concaveRightWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveRightWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveRightWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveRightWolfeMTAlphaEm1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1093,8 +1095,8 @@ func concaveRightWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
 
 // concaveRightWolfeMTAlphaEm1ScaleBy sets x = c·x.
 func concaveRightWolfeMTAlphaEm1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1159,8 +1161,8 @@ func (r *concaveRightWolfeMTAlphaEm1RiseTrend) contradicts() bool {
 // concaveRightWolfeMTAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveRightWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveRightWolfeMTAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*concaveRightWolfeMTAlphaEm1Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveRightWolfeMTAlphaEm1Abs(xt[0]-x[0]-want) <= 0.01*concaveRightWolfeMTAlphaEm1Abs(want)) {
 			return false
 		}
 	}
@@ -1209,8 +1211,8 @@ func concaveRightWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]
 
 // concaveRightWolfeMTAlphaEm1MoveTo sets out = x + t·d.
 func concaveRightWolfeMTAlphaEm1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1276,8 +1278,8 @@ func concaveRightWolfeMTAlphaEm1ExpandTrial(previous, current *concaveRightWolfe
 
 // concaveRightWolfeMTAlphaEm1Difference sets out = a − b.
 func concaveRightWolfeMTAlphaEm1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

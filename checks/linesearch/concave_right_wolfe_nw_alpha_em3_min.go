@@ -600,8 +600,8 @@ func (s *concaveRightWolfeNWAlphaEm3Direction) firstTrial(t, slope, now float64)
 
 // concaveRightWolfeNWAlphaEm3Negate sets out = −x.
 func concaveRightWolfeNWAlphaEm3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func concaveRightWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *concaveRightWolfe
 
 // concaveRightWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func concaveRightWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !concaveRightWolfeNWAlphaEm3Finite(x[i]) {
+	{
+		if !concaveRightWolfeNWAlphaEm3Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func concaveRightWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += concaveRightWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
 	calls += concaveRightWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * concaveRightWolfeNWAlphaEm3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * concaveRightWolfeNWAlphaEm3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func concaveRightWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e 
 // concaveRightWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func concaveRightWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func concaveRightWolfeNWAlphaEm3Abs(v float64) float64 {
 func concaveRightWolfeNWAlphaEm3RoundingFloor(x, g, e *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
 	var h [1]float64
 	concaveRightWolfeNWAlphaEm3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * concaveRightWolfeNWAlphaEm3UnitRoundoff * concaveRightWolfeNWAlphaEm3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * concaveRightWolfeNWAlphaEm3UnitRoundoff * concaveRightWolfeNWAlphaEm3Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func concaveRightWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightWolfeNWAlphaEm3Larger(measure, (concaveRightWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = concaveRightWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	{
+		{
+			w := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = concaveRightWolfeNWAlphaEm3Larger(measure, (concaveRightWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
+			floor = concaveRightWolfeNWAlphaEm3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func concaveRightWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64)
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func concaveRightWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *concaveRightWolfeNWAlphaEm3Differences) bool {
-	for i := range s {
-		if !(concaveRightWolfeNWAlphaEm3Abs(s[i]) <= tol*concaveRightWolfeNWAlphaEm3StepScale(x[i], i, diffs)) {
+	{
+		if !(concaveRightWolfeNWAlphaEm3Abs(s[0]) <= tol*concaveRightWolfeNWAlphaEm3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -903,8 +905,8 @@ func concaveRightWolfeNWAlphaEm3SolveDirection(dir *concaveRightWolfeNWAlphaEm3D
 // concaveRightWolfeNWAlphaEm3Dot returns aᵀb.
 func concaveRightWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -933,9 +935,9 @@ func (f *concaveRightWolfeNWAlphaEm3StepFloor) at(x, d *[1]float64, diffs *conca
 // step test, min over i of tol·concaveRightWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *concaveRightWolfeNWAlphaEm3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * concaveRightWolfeNWAlphaEm3StepScale(x[i], i, diffs) / concaveRightWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * concaveRightWolfeNWAlphaEm3StepScale(x[0], 0, diffs) / concaveRightWolfeNWAlphaEm3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1083,8 +1085,8 @@ func concaveRightWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 // concaveRightWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
 func concaveRightWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := concaveRightWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+	{
+		if a := concaveRightWolfeNWAlphaEm3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1093,8 +1095,8 @@ func concaveRightWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 
 // concaveRightWolfeNWAlphaEm3ScaleBy sets x = c·x.
 func concaveRightWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1159,8 +1161,8 @@ func (r *concaveRightWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 // concaveRightWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func concaveRightWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveRightWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveRightWolfeNWAlphaEm3Abs(want)) {
+	{
+		if want := t * d[0]; !(concaveRightWolfeNWAlphaEm3Abs(xt[0]-x[0]-want) <= 0.01*concaveRightWolfeNWAlphaEm3Abs(want)) {
 			return false
 		}
 	}
@@ -1209,8 +1211,8 @@ func concaveRightWolfeNWAlphaEm3TrialPoint(out, x *[1]float64, t float64, d *[1]
 
 // concaveRightWolfeNWAlphaEm3MoveTo sets out = x + t·d.
 func concaveRightWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1276,8 +1278,8 @@ func concaveRightWolfeNWAlphaEm3ExpandTrial(previous, current *concaveRightWolfe
 
 // concaveRightWolfeNWAlphaEm3Difference sets out = a − b.
 func concaveRightWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

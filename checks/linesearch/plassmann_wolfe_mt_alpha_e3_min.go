@@ -600,8 +600,8 @@ func (s *plassmannWolfeMTAlphaE3Direction) firstTrial(t, slope, now float64) flo
 
 // plassmannWolfeMTAlphaE3Negate sets out = −x.
 func plassmannWolfeMTAlphaE3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func plassmannWolfeMTAlphaE3Value(x, g *[1]float64, diffs *plassmannWolfeMTAlpha
 
 // plassmannWolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func plassmannWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !plassmannWolfeMTAlphaE3Finite(x[i]) {
+	{
+		if !plassmannWolfeMTAlphaE3Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func plassmannWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += plassmannWolfeMTAlphaE3Derivative(x, fx, g, diffs)
 	calls += plassmannWolfeMTAlphaE3Derivative(x, fx, &doubled, &wide)
 	plassmannWolfeMTAlphaE3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * plassmannWolfeMTAlphaE3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * plassmannWolfeMTAlphaE3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func plassmannWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 // plassmannWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func plassmannWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func plassmannWolfeMTAlphaE3Abs(v float64) float64 {
 func plassmannWolfeMTAlphaE3RoundingFloor(x, g, e *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
 	var h [1]float64
 	plassmannWolfeMTAlphaE3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * plassmannWolfeMTAlphaE3UnitRoundoff * plassmannWolfeMTAlphaE3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * plassmannWolfeMTAlphaE3UnitRoundoff * plassmannWolfeMTAlphaE3Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func plassmannWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *pla
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeMTAlphaE3Larger(measure, (plassmannWolfeMTAlphaE3Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeMTAlphaE3Larger(floor, e[i]*w)
+	{
+		{
+			w := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = plassmannWolfeMTAlphaE3Larger(measure, (plassmannWolfeMTAlphaE3Abs(g[0])+e[0])*w)
+			floor = plassmannWolfeMTAlphaE3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func plassmannWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func plassmannWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64, diffs *plassmannWolfeMTAlphaE3Differences) bool {
-	for i := range s {
-		if !(plassmannWolfeMTAlphaE3Abs(s[i]) <= tol*plassmannWolfeMTAlphaE3StepScale(x[i], i, diffs)) {
+	{
+		if !(plassmannWolfeMTAlphaE3Abs(s[0]) <= tol*plassmannWolfeMTAlphaE3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -902,8 +904,8 @@ func plassmannWolfeMTAlphaE3SolveDirection(dir *plassmannWolfeMTAlphaE3Direction
 // plassmannWolfeMTAlphaE3Dot returns aᵀb.
 func plassmannWolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -932,9 +934,9 @@ func (f *plassmannWolfeMTAlphaE3StepFloor) at(x, d *[1]float64, diffs *plassmann
 // step test, min over i of tol·plassmannWolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *plassmannWolfeMTAlphaE3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * plassmannWolfeMTAlphaE3StepScale(x[i], i, diffs) / plassmannWolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * plassmannWolfeMTAlphaE3StepScale(x[0], 0, diffs) / plassmannWolfeMTAlphaE3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1082,8 +1084,8 @@ func plassmannWolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 // plassmannWolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
 func plassmannWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := plassmannWolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+	{
+		if a := plassmannWolfeMTAlphaE3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1092,8 +1094,8 @@ func plassmannWolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
 
 // plassmannWolfeMTAlphaE3ScaleBy sets x = c·x.
 func plassmannWolfeMTAlphaE3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1158,8 +1160,8 @@ func (r *plassmannWolfeMTAlphaE3RiseTrend) contradicts() bool {
 // plassmannWolfeMTAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func plassmannWolfeMTAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(plassmannWolfeMTAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*plassmannWolfeMTAlphaE3Abs(want)) {
+	{
+		if want := t * d[0]; !(plassmannWolfeMTAlphaE3Abs(xt[0]-x[0]-want) <= 0.01*plassmannWolfeMTAlphaE3Abs(want)) {
 			return false
 		}
 	}
@@ -1208,8 +1210,8 @@ func plassmannWolfeMTAlphaE3TrialPoint(out, x *[1]float64, t float64, d *[1]floa
 
 // plassmannWolfeMTAlphaE3MoveTo sets out = x + t·d.
 func plassmannWolfeMTAlphaE3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1275,8 +1277,8 @@ func plassmannWolfeMTAlphaE3ExpandTrial(previous, current *plassmannWolfeMTAlpha
 
 // plassmannWolfeMTAlphaE3Difference sets out = a − b.
 func plassmannWolfeMTAlphaE3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -600,8 +600,8 @@ func (s *plassmannWolfeNWAlphaE3Direction) firstTrial(t, slope, now float64) flo
 
 // plassmannWolfeNWAlphaE3Negate sets out = −x.
 func plassmannWolfeNWAlphaE3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func plassmannWolfeNWAlphaE3Value(x, g *[1]float64, diffs *plassmannWolfeNWAlpha
 
 // plassmannWolfeNWAlphaE3FiniteVec reports whether every component of x is finite.
 func plassmannWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !plassmannWolfeNWAlphaE3Finite(x[i]) {
+	{
+		if !plassmannWolfeNWAlphaE3Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func plassmannWolfeNWAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += plassmannWolfeNWAlphaE3Derivative(x, fx, g, diffs)
 	calls += plassmannWolfeNWAlphaE3Derivative(x, fx, &doubled, &wide)
 	plassmannWolfeNWAlphaE3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * plassmannWolfeNWAlphaE3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * plassmannWolfeNWAlphaE3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func plassmannWolfeNWAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 // plassmannWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func plassmannWolfeNWAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func plassmannWolfeNWAlphaE3Abs(v float64) float64 {
 func plassmannWolfeNWAlphaE3RoundingFloor(x, g, e *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
 	var h [1]float64
 	plassmannWolfeNWAlphaE3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * plassmannWolfeNWAlphaE3UnitRoundoff * plassmannWolfeNWAlphaE3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * plassmannWolfeNWAlphaE3UnitRoundoff * plassmannWolfeNWAlphaE3Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func plassmannWolfeNWAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *pla
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeNWAlphaE3Larger(measure, (plassmannWolfeNWAlphaE3Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeNWAlphaE3Larger(floor, e[i]*w)
+	{
+		{
+			w := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = plassmannWolfeNWAlphaE3Larger(measure, (plassmannWolfeNWAlphaE3Abs(g[0])+e[0])*w)
+			floor = plassmannWolfeNWAlphaE3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func plassmannWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func plassmannWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64, diffs *plassmannWolfeNWAlphaE3Differences) bool {
-	for i := range s {
-		if !(plassmannWolfeNWAlphaE3Abs(s[i]) <= tol*plassmannWolfeNWAlphaE3StepScale(x[i], i, diffs)) {
+	{
+		if !(plassmannWolfeNWAlphaE3Abs(s[0]) <= tol*plassmannWolfeNWAlphaE3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -902,8 +904,8 @@ func plassmannWolfeNWAlphaE3SolveDirection(dir *plassmannWolfeNWAlphaE3Direction
 // plassmannWolfeNWAlphaE3Dot returns aᵀb.
 func plassmannWolfeNWAlphaE3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -932,9 +934,9 @@ func (f *plassmannWolfeNWAlphaE3StepFloor) at(x, d *[1]float64, diffs *plassmann
 // step test, min over i of tol·plassmannWolfeNWAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func plassmannWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *plassmannWolfeNWAlphaE3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * plassmannWolfeNWAlphaE3StepScale(x[i], i, diffs) / plassmannWolfeNWAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * plassmannWolfeNWAlphaE3StepScale(x[0], 0, diffs) / plassmannWolfeNWAlphaE3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1082,8 +1084,8 @@ func plassmannWolfeNWAlphaE3ShrinkDirection(d, g *[1]float64) {
 // plassmannWolfeNWAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
 func plassmannWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := plassmannWolfeNWAlphaE3Abs(x[i]); a > m || a != a {
+	{
+		if a := plassmannWolfeNWAlphaE3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1092,8 +1094,8 @@ func plassmannWolfeNWAlphaE3MaxAbs(x *[1]float64) float64 {
 
 // plassmannWolfeNWAlphaE3ScaleBy sets x = c·x.
 func plassmannWolfeNWAlphaE3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1158,8 +1160,8 @@ func (r *plassmannWolfeNWAlphaE3RiseTrend) contradicts() bool {
 // plassmannWolfeNWAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func plassmannWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(plassmannWolfeNWAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*plassmannWolfeNWAlphaE3Abs(want)) {
+	{
+		if want := t * d[0]; !(plassmannWolfeNWAlphaE3Abs(xt[0]-x[0]-want) <= 0.01*plassmannWolfeNWAlphaE3Abs(want)) {
 			return false
 		}
 	}
@@ -1208,8 +1210,8 @@ func plassmannWolfeNWAlphaE3TrialPoint(out, x *[1]float64, t float64, d *[1]floa
 
 // plassmannWolfeNWAlphaE3MoveTo sets out = x + t·d.
 func plassmannWolfeNWAlphaE3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1275,8 +1277,8 @@ func plassmannWolfeNWAlphaE3ExpandTrial(previous, current *plassmannWolfeNWAlpha
 
 // plassmannWolfeNWAlphaE3Difference sets out = a − b.
 func plassmannWolfeNWAlphaE3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

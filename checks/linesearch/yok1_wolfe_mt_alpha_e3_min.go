@@ -600,8 +600,8 @@ func (s *yok1WolfeMTAlphaE3Direction) firstTrial(t, slope, now float64) float64 
 
 // yok1WolfeMTAlphaE3Negate sets out = −x.
 func yok1WolfeMTAlphaE3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func yok1WolfeMTAlphaE3Value(x, g *[1]float64, diffs *yok1WolfeMTAlphaE3Differen
 
 // yok1WolfeMTAlphaE3FiniteVec reports whether every component of x is finite.
 func yok1WolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !yok1WolfeMTAlphaE3Finite(x[i]) {
+	{
+		if !yok1WolfeMTAlphaE3Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func yok1WolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += yok1WolfeMTAlphaE3Derivative(x, fx, g, diffs)
 	calls += yok1WolfeMTAlphaE3Derivative(x, fx, &doubled, &wide)
 	yok1WolfeMTAlphaE3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * yok1WolfeMTAlphaE3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * yok1WolfeMTAlphaE3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func yok1WolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float
 // yok1WolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func yok1WolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1WolfeMTAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func yok1WolfeMTAlphaE3Abs(v float64) float64 {
 func yok1WolfeMTAlphaE3RoundingFloor(x, g, e *[1]float64, diffs *yok1WolfeMTAlphaE3Differences) {
 	var h [1]float64
 	yok1WolfeMTAlphaE3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * yok1WolfeMTAlphaE3UnitRoundoff * yok1WolfeMTAlphaE3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * yok1WolfeMTAlphaE3UnitRoundoff * yok1WolfeMTAlphaE3Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func yok1WolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *yok1Wolf
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok1WolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := yok1WolfeMTAlphaE3Larger(yok1WolfeMTAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := yok1WolfeMTAlphaE3Larger(yok1WolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok1WolfeMTAlphaE3Larger(measure, (yok1WolfeMTAlphaE3Abs(g[i])+e[i])*w)
-		floor = yok1WolfeMTAlphaE3Larger(floor, e[i]*w)
+	{
+		{
+			w := yok1WolfeMTAlphaE3Larger(yok1WolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = yok1WolfeMTAlphaE3Larger(measure, (yok1WolfeMTAlphaE3Abs(g[0])+e[0])*w)
+			floor = yok1WolfeMTAlphaE3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func yok1WolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func yok1WolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64, diffs *yok1WolfeMTAlphaE3Differences) bool {
-	for i := range s {
-		if !(yok1WolfeMTAlphaE3Abs(s[i]) <= tol*yok1WolfeMTAlphaE3StepScale(x[i], i, diffs)) {
+	{
+		if !(yok1WolfeMTAlphaE3Abs(s[0]) <= tol*yok1WolfeMTAlphaE3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +903,8 @@ func yok1WolfeMTAlphaE3SolveDirection(dir *yok1WolfeMTAlphaE3Direction, g, d *[1
 // yok1WolfeMTAlphaE3Dot returns aᵀb.
 func yok1WolfeMTAlphaE3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -931,9 +933,9 @@ func (f *yok1WolfeMTAlphaE3StepFloor) at(x, d *[1]float64, diffs *yok1WolfeMTAlp
 // step test, min over i of tol·yok1WolfeMTAlphaE3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok1WolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64, diffs *yok1WolfeMTAlphaE3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * yok1WolfeMTAlphaE3StepScale(x[i], i, diffs) / yok1WolfeMTAlphaE3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * yok1WolfeMTAlphaE3StepScale(x[0], 0, diffs) / yok1WolfeMTAlphaE3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1081,8 +1083,8 @@ func yok1WolfeMTAlphaE3ShrinkDirection(d, g *[1]float64) {
 // yok1WolfeMTAlphaE3MaxAbs returns the largest |x_i|, the infinity norm.
 func yok1WolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := yok1WolfeMTAlphaE3Abs(x[i]); a > m || a != a {
+	{
+		if a := yok1WolfeMTAlphaE3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1091,8 +1093,8 @@ func yok1WolfeMTAlphaE3MaxAbs(x *[1]float64) float64 {
 
 // yok1WolfeMTAlphaE3ScaleBy sets x = c·x.
 func yok1WolfeMTAlphaE3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1157,8 +1159,8 @@ func (r *yok1WolfeMTAlphaE3RiseTrend) contradicts() bool {
 // yok1WolfeMTAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func yok1WolfeMTAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(yok1WolfeMTAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*yok1WolfeMTAlphaE3Abs(want)) {
+	{
+		if want := t * d[0]; !(yok1WolfeMTAlphaE3Abs(xt[0]-x[0]-want) <= 0.01*yok1WolfeMTAlphaE3Abs(want)) {
 			return false
 		}
 	}
@@ -1207,8 +1209,8 @@ func yok1WolfeMTAlphaE3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, 
 
 // yok1WolfeMTAlphaE3MoveTo sets out = x + t·d.
 func yok1WolfeMTAlphaE3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1274,8 +1276,8 @@ func yok1WolfeMTAlphaE3ExpandTrial(previous, current *yok1WolfeMTAlphaE3LinePoin
 
 // yok1WolfeMTAlphaE3Difference sets out = a − b.
 func yok1WolfeMTAlphaE3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -600,8 +600,8 @@ func (s *yok3StrongWolfeNWAlphaEm3Direction) firstTrial(t, slope, now float64) f
 
 // yok3StrongWolfeNWAlphaEm3Negate sets out = −x.
 func yok3StrongWolfeNWAlphaEm3Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func yok3StrongWolfeNWAlphaEm3Value(x, g *[1]float64, diffs *yok3StrongWolfeNWAl
 
 // yok3StrongWolfeNWAlphaEm3FiniteVec reports whether every component of x is finite.
 func yok3StrongWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !yok3StrongWolfeNWAlphaEm3Finite(x[i]) {
+	{
+		if !yok3StrongWolfeNWAlphaEm3Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func yok3StrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += yok3StrongWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
 	calls += yok3StrongWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
 	yok3StrongWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * yok3StrongWolfeNWAlphaEm3Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * yok3StrongWolfeNWAlphaEm3Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func yok3StrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[
 // yok3StrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func yok3StrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok3StrongWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func yok3StrongWolfeNWAlphaEm3Abs(v float64) float64 {
 func yok3StrongWolfeNWAlphaEm3RoundingFloor(x, g, e *[1]float64, diffs *yok3StrongWolfeNWAlphaEm3Differences) {
 	var h [1]float64
 	yok3StrongWolfeNWAlphaEm3DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * yok3StrongWolfeNWAlphaEm3UnitRoundoff * yok3StrongWolfeNWAlphaEm3Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * yok3StrongWolfeNWAlphaEm3UnitRoundoff * yok3StrongWolfeNWAlphaEm3Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func yok3StrongWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *y
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok3StrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := yok3StrongWolfeNWAlphaEm3Larger(yok3StrongWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := yok3StrongWolfeNWAlphaEm3Larger(yok3StrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok3StrongWolfeNWAlphaEm3Larger(measure, (yok3StrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = yok3StrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	{
+		{
+			w := yok3StrongWolfeNWAlphaEm3Larger(yok3StrongWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = yok3StrongWolfeNWAlphaEm3Larger(measure, (yok3StrongWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
+			floor = yok3StrongWolfeNWAlphaEm3Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func yok3StrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func yok3StrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64, diffs *yok3StrongWolfeNWAlphaEm3Differences) bool {
-	for i := range s {
-		if !(yok3StrongWolfeNWAlphaEm3Abs(s[i]) <= tol*yok3StrongWolfeNWAlphaEm3StepScale(x[i], i, diffs)) {
+	{
+		if !(yok3StrongWolfeNWAlphaEm3Abs(s[0]) <= tol*yok3StrongWolfeNWAlphaEm3StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -902,8 +904,8 @@ func yok3StrongWolfeNWAlphaEm3SolveDirection(dir *yok3StrongWolfeNWAlphaEm3Direc
 // yok3StrongWolfeNWAlphaEm3Dot returns aᵀb.
 func yok3StrongWolfeNWAlphaEm3Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -932,9 +934,9 @@ func (f *yok3StrongWolfeNWAlphaEm3StepFloor) at(x, d *[1]float64, diffs *yok3Str
 // step test, min over i of tol·yok3StrongWolfeNWAlphaEm3StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3StrongWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64, diffs *yok3StrongWolfeNWAlphaEm3Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * yok3StrongWolfeNWAlphaEm3StepScale(x[i], i, diffs) / yok3StrongWolfeNWAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * yok3StrongWolfeNWAlphaEm3StepScale(x[0], 0, diffs) / yok3StrongWolfeNWAlphaEm3Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1082,8 +1084,8 @@ func yok3StrongWolfeNWAlphaEm3ShrinkDirection(d, g *[1]float64) {
 // yok3StrongWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
 func yok3StrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := yok3StrongWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
+	{
+		if a := yok3StrongWolfeNWAlphaEm3Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1092,8 +1094,8 @@ func yok3StrongWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
 
 // yok3StrongWolfeNWAlphaEm3ScaleBy sets x = c·x.
 func yok3StrongWolfeNWAlphaEm3ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1158,8 +1160,8 @@ func (r *yok3StrongWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 // yok3StrongWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func yok3StrongWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(yok3StrongWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*yok3StrongWolfeNWAlphaEm3Abs(want)) {
+	{
+		if want := t * d[0]; !(yok3StrongWolfeNWAlphaEm3Abs(xt[0]-x[0]-want) <= 0.01*yok3StrongWolfeNWAlphaEm3Abs(want)) {
 			return false
 		}
 	}
@@ -1208,8 +1210,8 @@ func yok3StrongWolfeNWAlphaEm3TrialPoint(out, x *[1]float64, t float64, d *[1]fl
 
 // yok3StrongWolfeNWAlphaEm3MoveTo sets out = x + t·d.
 func yok3StrongWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1275,8 +1277,8 @@ func yok3StrongWolfeNWAlphaEm3ExpandTrial(previous, current *yok3StrongWolfeNWAl
 
 // yok3StrongWolfeNWAlphaEm3Difference sets out = a − b.
 func yok3StrongWolfeNWAlphaEm3Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

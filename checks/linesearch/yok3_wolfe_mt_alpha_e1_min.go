@@ -600,8 +600,8 @@ func (s *yok3WolfeMTAlphaE1Direction) firstTrial(t, slope, now float64) float64 
 
 // yok3WolfeMTAlphaE1Negate sets out = −x.
 func yok3WolfeMTAlphaE1Negate(out, x *[1]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
 	}
 }
 
@@ -660,8 +660,8 @@ func yok3WolfeMTAlphaE1Value(x, g *[1]float64, diffs *yok3WolfeMTAlphaE1Differen
 
 // yok3WolfeMTAlphaE1FiniteVec reports whether every component of x is finite.
 func yok3WolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !yok3WolfeMTAlphaE1Finite(x[i]) {
+	{
+		if !yok3WolfeMTAlphaE1Finite(x[0]) {
 			return false
 		}
 	}
@@ -715,15 +715,15 @@ func yok3WolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += yok3WolfeMTAlphaE1Derivative(x, fx, g, diffs)
 	calls += yok3WolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
 	yok3WolfeMTAlphaE1GradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * yok3WolfeMTAlphaE1Abs(g[i]-doubled[i])
+	{
+		e[0] += 3 * yok3WolfeMTAlphaE1Abs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -731,8 +731,8 @@ func yok3WolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float
 // yok3WolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func yok3WolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok3WolfeMTAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -753,8 +753,8 @@ func yok3WolfeMTAlphaE1Abs(v float64) float64 {
 func yok3WolfeMTAlphaE1RoundingFloor(x, g, e *[1]float64, diffs *yok3WolfeMTAlphaE1Differences) {
 	var h [1]float64
 	yok3WolfeMTAlphaE1DiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * yok3WolfeMTAlphaE1UnitRoundoff * yok3WolfeMTAlphaE1Abs(x[i]) * h[i]
+	{
+		e[0] += 4 * yok3WolfeMTAlphaE1UnitRoundoff * yok3WolfeMTAlphaE1Abs(x[0]) * h[0]
 	}
 }
 
@@ -856,10 +856,12 @@ func yok3WolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *yok3Wolf
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok3WolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := yok3WolfeMTAlphaE1Larger(yok3WolfeMTAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := yok3WolfeMTAlphaE1Larger(yok3WolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok3WolfeMTAlphaE1Larger(measure, (yok3WolfeMTAlphaE1Abs(g[i])+e[i])*w)
-		floor = yok3WolfeMTAlphaE1Larger(floor, e[i]*w)
+	{
+		{
+			w := yok3WolfeMTAlphaE1Larger(yok3WolfeMTAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = yok3WolfeMTAlphaE1Larger(measure, (yok3WolfeMTAlphaE1Abs(g[0])+e[0])*w)
+			floor = yok3WolfeMTAlphaE1Larger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +871,8 @@ func yok3WolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func yok3WolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64, diffs *yok3WolfeMTAlphaE1Differences) bool {
-	for i := range s {
-		if !(yok3WolfeMTAlphaE1Abs(s[i]) <= tol*yok3WolfeMTAlphaE1StepScale(x[i], i, diffs)) {
+	{
+		if !(yok3WolfeMTAlphaE1Abs(s[0]) <= tol*yok3WolfeMTAlphaE1StepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +903,8 @@ func yok3WolfeMTAlphaE1SolveDirection(dir *yok3WolfeMTAlphaE1Direction, g, d *[1
 // yok3WolfeMTAlphaE1Dot returns aᵀb.
 func yok3WolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -931,9 +933,9 @@ func (f *yok3WolfeMTAlphaE1StepFloor) at(x, d *[1]float64, diffs *yok3WolfeMTAlp
 // step test, min over i of tol·yok3WolfeMTAlphaE1StepScale(x_i)/|d_i|, or −1 when d is zero.
 func yok3WolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64, diffs *yok3WolfeMTAlphaE1Differences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * yok3WolfeMTAlphaE1StepScale(x[i], i, diffs) / yok3WolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * yok3WolfeMTAlphaE1StepScale(x[0], 0, diffs) / yok3WolfeMTAlphaE1Abs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1081,8 +1083,8 @@ func yok3WolfeMTAlphaE1ShrinkDirection(d, g *[1]float64) {
 // yok3WolfeMTAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
 func yok3WolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := yok3WolfeMTAlphaE1Abs(x[i]); a > m || a != a {
+	{
+		if a := yok3WolfeMTAlphaE1Abs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1091,8 +1093,8 @@ func yok3WolfeMTAlphaE1MaxAbs(x *[1]float64) float64 {
 
 // yok3WolfeMTAlphaE1ScaleBy sets x = c·x.
 func yok3WolfeMTAlphaE1ScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1157,8 +1159,8 @@ func (r *yok3WolfeMTAlphaE1RiseTrend) contradicts() bool {
 // yok3WolfeMTAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func yok3WolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(yok3WolfeMTAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*yok3WolfeMTAlphaE1Abs(want)) {
+	{
+		if want := t * d[0]; !(yok3WolfeMTAlphaE1Abs(xt[0]-x[0]-want) <= 0.01*yok3WolfeMTAlphaE1Abs(want)) {
 			return false
 		}
 	}
@@ -1207,8 +1209,8 @@ func yok3WolfeMTAlphaE1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, 
 
 // yok3WolfeMTAlphaE1MoveTo sets out = x + t·d.
 func yok3WolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1274,8 +1276,8 @@ func yok3WolfeMTAlphaE1ExpandTrial(previous, current *yok3WolfeMTAlphaE1LinePoin
 
 // yok3WolfeMTAlphaE1Difference sets out = a − b.
 func yok3WolfeMTAlphaE1Difference(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -585,18 +585,25 @@ type bealeBFGSAnalyticDirection struct {
 }
 
 func (s *bealeBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *bealeBFGSAnalyticDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -bealeBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -bealeBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -bealeBFGSAnalyticDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *bealeBFGSAnalyticDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / bealeBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *bealeBFGSAnalyticDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = bealeBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = bealeBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = bealeBFGSAnalyticDot(&s.h[1], change)
 	}
 	outer := (rho*rho*bealeBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *bealeBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 // bealeBFGSAnalyticDot returns aᵀb.
 func bealeBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func bealeBFGSAnalyticFinite(v float64) bool {
 
 // bealeBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func bealeBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeBFGSAnalyticFinite(x[i]) {
+	{
+		if !bealeBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !bealeBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -754,15 +778,17 @@ func bealeBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += bealeBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += bealeBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	bealeBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * bealeBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * bealeBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * bealeBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -770,8 +796,9 @@ func bealeBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 // bealeBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func bealeBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -792,8 +819,9 @@ func bealeBFGSAnalyticAbs(v float64) float64 {
 func bealeBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
 	var h [2]float64
 	bealeBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * bealeBFGSAnalyticUnitRoundoff * bealeBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * bealeBFGSAnalyticUnitRoundoff * bealeBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * bealeBFGSAnalyticUnitRoundoff * bealeBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -895,10 +923,17 @@ func bealeBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeBFGS
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = bealeBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = bealeBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = bealeBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +943,11 @@ func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *bealeBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*bealeBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(bealeBFGSAnalyticAbs(s[0]) <= tol*bealeBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(bealeBFGSAnalyticAbs(s[1]) <= tol*bealeBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +999,14 @@ func (f *bealeBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *bealeBFGSAnalyt
 // step test, min over i of tol·bealeBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * bealeBFGSAnalyticStepScale(x[i], i, diffs) / bealeBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * bealeBFGSAnalyticStepScale(x[0], 0, diffs) / bealeBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * bealeBFGSAnalyticStepScale(x[1], 1, diffs) / bealeBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1154,11 @@ func bealeBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // bealeBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func bealeBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := bealeBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := bealeBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := bealeBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1167,9 @@ func bealeBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // bealeBFGSAnalyticScaleBy sets x = c·x.
 func bealeBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1187,8 +1234,11 @@ func (r *bealeBFGSAnalyticRiseTrend) contradicts() bool {
 // bealeBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func bealeBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(bealeBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*bealeBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(bealeBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*bealeBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1287,9 @@ func bealeBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b
 
 // bealeBFGSAnalyticMoveTo sets out = x + t·d.
 func bealeBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1304,8 +1355,9 @@ func bealeBFGSAnalyticExpandTrial(previous, current *bealeBFGSAnalyticLinePoint)
 
 // bealeBFGSAnalyticGradientChange sets out = a − b.
 func bealeBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

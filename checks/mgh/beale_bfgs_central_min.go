@@ -585,18 +585,25 @@ type bealeBFGSCentralDirection struct {
 }
 
 func (s *bealeBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *bealeBFGSCentralDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -bealeBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -bealeBFGSCentralDot(&s.h[0], g)
+		d[1] = -bealeBFGSCentralDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *bealeBFGSCentralDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / bealeBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *bealeBFGSCentralDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = bealeBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = bealeBFGSCentralDot(&s.h[0], change)
+		hy[1] = bealeBFGSCentralDot(&s.h[1], change)
 	}
 	outer := (rho*rho*bealeBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *bealeBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 // bealeBFGSCentralDot returns aᵀb.
 func bealeBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func bealeBFGSCentralFinite(v float64) bool {
 
 // bealeBFGSCentralFiniteVec reports whether every component of x is finite.
 func bealeBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeBFGSCentralFinite(x[i]) {
+	{
+		if !bealeBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !bealeBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -772,16 +796,29 @@ func bealeBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bealeBFGSCentra
 		}
 	}
 	noise := bealeBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := bealeBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = bealeBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := bealeBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = bealeBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = bealeBFGSCentralClampBetween(h, 64*bealeBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = bealeBFGSCentralClampBetween(h, 64*bealeBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := bealeBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = bealeBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = bealeBFGSCentralClampBetween(h, 64*bealeBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +912,9 @@ func bealeBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func bealeBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := bealeBFGSCentralAbs(fx)
-	for i := range x {
-		sum += bealeBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += bealeBFGSCentralAbs(g[0] * x[0])
+		sum += bealeBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * bealeBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1041,17 @@ func bealeBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += bealeBFGSCentralDerivative(x, fx, g, diffs)
 	calls += bealeBFGSCentralDerivative(x, fx, &doubled, &wide)
 	bealeBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * bealeBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * bealeBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * bealeBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1022,16 +1062,30 @@ func bealeBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64
 // in forwardError).
 func bealeBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSCentralDifferences) {
 	noise := bealeBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := bealeBFGSCentralCentralInterval(x, i, diffs)
-		h = bealeBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := bealeBFGSCentralCentralInterval(x, 0, diffs)
+			h = bealeBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := bealeBFGSCentralCentralInterval(x, 1, diffs)
+			h = bealeBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1099,9 @@ func bealeBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, 
 func bealeBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeBFGSCentralDifferences) {
 	var h [2]float64
 	bealeBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * bealeBFGSCentralUnitRoundoff * bealeBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * bealeBFGSCentralUnitRoundoff * bealeBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * bealeBFGSCentralUnitRoundoff * bealeBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1074,10 +1129,17 @@ func bealeBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeBFGSC
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := bealeBFGSCentralLarger(bealeBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[i])+e[i])*w)
-		floor = bealeBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[0])+e[0])*w)
+			floor = bealeBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[1]), 1) / scale
+			measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[1])+e[1])*w)
+			floor = bealeBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1149,11 @@ func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *bealeBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(bealeBFGSCentralAbs(s[i]) <= tol*bealeBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(bealeBFGSCentralAbs(s[0]) <= tol*bealeBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(bealeBFGSCentralAbs(s[1]) <= tol*bealeBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1205,14 @@ func (f *bealeBFGSCentralStepFloor) at(x, d *[2]float64, diffs *bealeBFGSCentral
 // step test, min over i of tol·bealeBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * bealeBFGSCentralStepScale(x[i], i, diffs) / bealeBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * bealeBFGSCentralStepScale(x[0], 0, diffs) / bealeBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * bealeBFGSCentralStepScale(x[1], 1, diffs) / bealeBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1360,11 @@ func bealeBFGSCentralShrinkDirection(d, g *[2]float64) {
 // bealeBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func bealeBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := bealeBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := bealeBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := bealeBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1373,9 @@ func bealeBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // bealeBFGSCentralScaleBy sets x = c·x.
 func bealeBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1366,8 +1440,11 @@ func (r *bealeBFGSCentralRiseTrend) contradicts() bool {
 // bealeBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func bealeBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*bealeBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(bealeBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*bealeBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(bealeBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*bealeBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1493,9 @@ func bealeBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b 
 
 // bealeBFGSCentralMoveTo sets out = x + t·d.
 func bealeBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1483,8 +1561,9 @@ func bealeBFGSCentralExpandTrial(previous, current *bealeBFGSCentralLinePoint) f
 
 // bealeBFGSCentralGradientChange sets out = a − b.
 func bealeBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -618,8 +618,9 @@ type bealeCGAnalyticDirection struct {
 func (s *bealeCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
 	}
 }
 
@@ -627,16 +628,18 @@ func (s *bealeCGAnalyticDirection) compute(g, d *[2]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := bealeCGAnalyticDot(g, &z), bealeCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && bealeCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = bealeCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +658,42 @@ func (s *bealeCGAnalyticDirection) compute(g, d *[2]float64) {
 func (s *bealeCGAnalyticDirection) update(step, change *[2]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
 	}
 	if !bealeCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && bealeCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && bealeCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && bealeCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
 		}
 	}
 }
@@ -701,8 +718,9 @@ func (s *bealeCGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 // bealeCGAnalyticDot returns aᵀb.
 func bealeCGAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -781,8 +799,11 @@ func bealeCGAnalyticValue(x, g *[2]float64, diffs *bealeCGAnalyticDifferences) f
 
 // bealeCGAnalyticFiniteVec reports whether every component of x is finite.
 func bealeCGAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeCGAnalyticFinite(x[i]) {
+	{
+		if !bealeCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !bealeCGAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -836,15 +857,17 @@ func bealeCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64,
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += bealeCGAnalyticDerivative(x, fx, g, diffs)
 	calls += bealeCGAnalyticDerivative(x, fx, &doubled, &wide)
 	bealeCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * bealeCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * bealeCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * bealeCGAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -852,8 +875,9 @@ func bealeCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64,
 // bealeCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func bealeCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -866,8 +890,9 @@ func bealeCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, d
 func bealeCGAnalyticRoundingFloor(x, g, e *[2]float64, diffs *bealeCGAnalyticDifferences) {
 	var h [2]float64
 	bealeCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * bealeCGAnalyticUnitRoundoff * bealeCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * bealeCGAnalyticUnitRoundoff * bealeCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * bealeCGAnalyticUnitRoundoff * bealeCGAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -959,10 +984,17 @@ func bealeCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeCGAnal
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := bealeCGAnalyticLarger(bealeCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[i])+e[i])*w)
-		floor = bealeCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[0])+e[0])*w)
+			floor = bealeCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[1]), 1) / scale
+			measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[1])+e[1])*w)
+			floor = bealeCGAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1004,11 @@ func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *bealeCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(bealeCGAnalyticAbs(s[i]) <= tol*bealeCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(bealeCGAnalyticAbs(s[0]) <= tol*bealeCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(bealeCGAnalyticAbs(s[1]) <= tol*bealeCGAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1025,9 +1060,14 @@ func (f *bealeCGAnalyticStepFloor) at(x, d *[2]float64, diffs *bealeCGAnalyticDi
 // step test, min over i of tol·bealeCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * bealeCGAnalyticStepScale(x[i], i, diffs) / bealeCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * bealeCGAnalyticStepScale(x[0], 0, diffs) / bealeCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * bealeCGAnalyticStepScale(x[1], 1, diffs) / bealeCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1175,8 +1215,11 @@ func bealeCGAnalyticShrinkDirection(d, g *[2]float64) {
 // bealeCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func bealeCGAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := bealeCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := bealeCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := bealeCGAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1185,8 +1228,9 @@ func bealeCGAnalyticMaxAbs(x *[2]float64) float64 {
 
 // bealeCGAnalyticScaleBy sets x = c·x.
 func bealeCGAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1251,8 +1295,11 @@ func (r *bealeCGAnalyticRiseTrend) contradicts() bool {
 // bealeCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func bealeCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(bealeCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*bealeCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(bealeCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*bealeCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1301,8 +1348,9 @@ func bealeCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *
 
 // bealeCGAnalyticMoveTo sets out = x + t·d.
 func bealeCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1368,8 +1416,9 @@ func bealeCGAnalyticExpandTrial(previous, current *bealeCGAnalyticLinePoint) flo
 
 // bealeCGAnalyticGradientChange sets out = a − b.
 func bealeCGAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -618,8 +618,9 @@ type bealeCGCentralDirection struct {
 func (s *bealeCGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
 	}
 }
 
@@ -627,16 +628,18 @@ func (s *bealeCGCentralDirection) compute(g, d *[2]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := bealeCGCentralDot(g, &z), bealeCGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && bealeCGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = bealeCGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +658,42 @@ func (s *bealeCGCentralDirection) compute(g, d *[2]float64) {
 func (s *bealeCGCentralDirection) update(step, change *[2]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
 	}
 	if !bealeCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && bealeCGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && bealeCGCentralFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && bealeCGCentralFinite(next) {
+				s.curvature[1] = next
+			}
 		}
 	}
 }
@@ -701,8 +718,9 @@ func (s *bealeCGCentralDirection) firstTrial(t, slope, now float64) float64 {
 // bealeCGCentralDot returns aᵀb.
 func bealeCGCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -781,8 +799,11 @@ func bealeCGCentralValue(x, g *[2]float64, diffs *bealeCGCentralDifferences) flo
 
 // bealeCGCentralFiniteVec reports whether every component of x is finite.
 func bealeCGCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeCGCentralFinite(x[i]) {
+	{
+		if !bealeCGCentralFinite(x[0]) {
+			return false
+		}
+		if !bealeCGCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -854,16 +875,29 @@ func bealeCGCentralCalibrate(x *[2]float64, fx float64, diffs *bealeCGCentralDif
 		}
 	}
 	noise := bealeCGCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := bealeCGCentralLarger(1, bealeCGCentralAbs(probe[i]))
-		bar := quarter * s
-		third := bealeCGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = bealeCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := bealeCGCentralLarger(1, bealeCGCentralAbs(probe[0]))
+			bar := quarter * s
+			third := bealeCGCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = bealeCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = bealeCGCentralClampBetween(h, 64*bealeCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = bealeCGCentralClampBetween(h, 64*bealeCGCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := bealeCGCentralLarger(1, bealeCGCentralAbs(probe[1]))
+			bar := quarter * s
+			third := bealeCGCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = bealeCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = bealeCGCentralClampBetween(h, 64*bealeCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -939,8 +973,9 @@ func bealeCGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func bealeCGCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := bealeCGCentralAbs(fx)
-	for i := range x {
-		sum += bealeCGCentralAbs(g[i] * x[i])
+	{
+		sum += bealeCGCentralAbs(g[0] * x[0])
+		sum += bealeCGCentralAbs(g[1] * x[1])
 	}
 	return 4 * bealeCGCentralUnitRoundoff * sum
 }
@@ -1067,15 +1102,17 @@ func bealeCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += bealeCGCentralDerivative(x, fx, g, diffs)
 	calls += bealeCGCentralDerivative(x, fx, &doubled, &wide)
 	bealeCGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * bealeCGCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * bealeCGCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * bealeCGCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1086,16 +1123,30 @@ func bealeCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, 
 // in forwardError).
 func bealeCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
 	noise := bealeCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := bealeCGCentralCentralInterval(x, i, diffs)
-		h = bealeCGCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := bealeCGCentralCentralInterval(x, 0, diffs)
+			h = bealeCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := bealeCGCentralCentralInterval(x, 1, diffs)
+			h = bealeCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1109,8 +1160,9 @@ func bealeCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, di
 func bealeCGCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
 	var h [2]float64
 	bealeCGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * bealeCGCentralUnitRoundoff * bealeCGCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * bealeCGCentralUnitRoundoff * bealeCGCentralAbs(x[0]) * h[0]
+		e[1] += 4 * bealeCGCentralUnitRoundoff * bealeCGCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1138,10 +1190,17 @@ func bealeCGCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeCGCentr
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := bealeCGCentralLarger(bealeCGCentralAbs(fx), 1)
-	for i := range g {
-		w := bealeCGCentralLarger(bealeCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[i])+e[i])*w)
-		floor = bealeCGCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := bealeCGCentralLarger(bealeCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[0])+e[0])*w)
+			floor = bealeCGCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := bealeCGCentralLarger(bealeCGCentralAbs(x[1]), 1) / scale
+			measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[1])+e[1])*w)
+			floor = bealeCGCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1151,8 +1210,11 @@ func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func bealeCGCentralStepWithin(s, x *[2]float64, tol float64, diffs *bealeCGCentralDifferences) bool {
-	for i := range s {
-		if !(bealeCGCentralAbs(s[i]) <= tol*bealeCGCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(bealeCGCentralAbs(s[0]) <= tol*bealeCGCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(bealeCGCentralAbs(s[1]) <= tol*bealeCGCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1204,9 +1266,14 @@ func (f *bealeCGCentralStepFloor) at(x, d *[2]float64, diffs *bealeCGCentralDiff
 // step test, min over i of tol·bealeCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeCGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * bealeCGCentralStepScale(x[i], i, diffs) / bealeCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * bealeCGCentralStepScale(x[0], 0, diffs) / bealeCGCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * bealeCGCentralStepScale(x[1], 1, diffs) / bealeCGCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1354,8 +1421,11 @@ func bealeCGCentralShrinkDirection(d, g *[2]float64) {
 // bealeCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func bealeCGCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := bealeCGCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := bealeCGCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := bealeCGCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1364,8 +1434,9 @@ func bealeCGCentralMaxAbs(x *[2]float64) float64 {
 
 // bealeCGCentralScaleBy sets x = c·x.
 func bealeCGCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1430,8 +1501,11 @@ func (r *bealeCGCentralRiseTrend) contradicts() bool {
 // bealeCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func bealeCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeCGCentralAbs(xt[i]-x[i]-want) <= 0.01*bealeCGCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(bealeCGCentralAbs(xt[0]-x[0]-want) <= 0.01*bealeCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(bealeCGCentralAbs(xt[1]-x[1]-want) <= 0.01*bealeCGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1480,8 +1554,9 @@ func bealeCGCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *b
 
 // bealeCGCentralMoveTo sets out = x + t·d.
 func bealeCGCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1547,8 +1622,9 @@ func bealeCGCentralExpandTrial(previous, current *bealeCGCentralLinePoint) float
 
 // bealeCGCentralGradientChange sets out = a − b.
 func bealeCGCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

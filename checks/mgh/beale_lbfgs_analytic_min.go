@@ -600,8 +600,9 @@ func (s *bealeLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * bealeLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *bealeLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := bealeLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / bealeLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *bealeLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * bealeLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	bealeLBFGSAnalyticNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *bealeLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 
 // bealeLBFGSAnalyticDot returns aᵀb.
 func bealeLBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // bealeLBFGSAnalyticNegate sets out = −x.
 func bealeLBFGSAnalyticNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func bealeLBFGSAnalyticFinite(v float64) bool {
 
 // bealeLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func bealeLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeLBFGSAnalyticFinite(x[i]) {
+	{
+		if !bealeLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !bealeLBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -787,15 +795,17 @@ func bealeLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += bealeLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += bealeLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	bealeLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * bealeLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * bealeLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * bealeLBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -803,8 +813,9 @@ func bealeLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float
 // bealeLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func bealeLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -825,8 +836,9 @@ func bealeLBFGSAnalyticAbs(v float64) float64 {
 func bealeLBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
 	var h [2]float64
 	bealeLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * bealeLBFGSAnalyticUnitRoundoff * bealeLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * bealeLBFGSAnalyticUnitRoundoff * bealeLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * bealeLBFGSAnalyticUnitRoundoff * bealeLBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -928,10 +940,17 @@ func bealeLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeLBF
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = bealeLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = bealeLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = bealeLBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +960,11 @@ func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *bealeLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*bealeLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(bealeLBFGSAnalyticAbs(s[0]) <= tol*bealeLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(bealeLBFGSAnalyticAbs(s[1]) <= tol*bealeLBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -994,9 +1016,14 @@ func (f *bealeLBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *bealeLBFGSAnal
 // step test, min over i of tol·bealeLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * bealeLBFGSAnalyticStepScale(x[i], i, diffs) / bealeLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * bealeLBFGSAnalyticStepScale(x[0], 0, diffs) / bealeLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * bealeLBFGSAnalyticStepScale(x[1], 1, diffs) / bealeLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1144,8 +1171,11 @@ func bealeLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // bealeLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func bealeLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := bealeLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := bealeLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := bealeLBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1154,8 +1184,9 @@ func bealeLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // bealeLBFGSAnalyticScaleBy sets x = c·x.
 func bealeLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1220,8 +1251,11 @@ func (r *bealeLBFGSAnalyticRiseTrend) contradicts() bool {
 // bealeLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func bealeLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(bealeLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*bealeLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(bealeLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*bealeLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1270,8 +1304,9 @@ func bealeLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, 
 
 // bealeLBFGSAnalyticMoveTo sets out = x + t·d.
 func bealeLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1337,8 +1372,9 @@ func bealeLBFGSAnalyticExpandTrial(previous, current *bealeLBFGSAnalyticLinePoin
 
 // bealeLBFGSAnalyticGradientChange sets out = a − b.
 func bealeLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -600,8 +600,9 @@ func (s *bealeLBFGSCentralDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * bealeLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *bealeLBFGSCentralDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := bealeLBFGSCentralDot(&s.s[newest], &s.y[newest]) / bealeLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *bealeLBFGSCentralDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * bealeLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	bealeLBFGSCentralNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *bealeLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 // bealeLBFGSCentralDot returns aᵀb.
 func bealeLBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // bealeLBFGSCentralNegate sets out = −x.
 func bealeLBFGSCentralNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func bealeLBFGSCentralFinite(v float64) bool {
 
 // bealeLBFGSCentralFiniteVec reports whether every component of x is finite.
 func bealeLBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !bealeLBFGSCentralFinite(x[i]) {
+	{
+		if !bealeLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !bealeLBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -805,16 +813,29 @@ func bealeLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bealeLBFGSCent
 		}
 	}
 	noise := bealeLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := bealeLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = bealeLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := bealeLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = bealeLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = bealeLBFGSCentralClampBetween(h, 64*bealeLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = bealeLBFGSCentralClampBetween(h, 64*bealeLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := bealeLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = bealeLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = bealeLBFGSCentralClampBetween(h, 64*bealeLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +929,9 @@ func bealeLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func bealeLBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := bealeLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += bealeLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += bealeLBFGSCentralAbs(g[0] * x[0])
+		sum += bealeLBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * bealeLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1058,17 @@ func bealeLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += bealeLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += bealeLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	bealeLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * bealeLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * bealeLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * bealeLBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1055,16 +1079,30 @@ func bealeLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 // in forwardError).
 func bealeLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences) {
 	noise := bealeLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := bealeLBFGSCentralCentralInterval(x, i, diffs)
-		h = bealeLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := bealeLBFGSCentralCentralInterval(x, 0, diffs)
+			h = bealeLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := bealeLBFGSCentralCentralInterval(x, 1, diffs)
+			h = bealeLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1116,9 @@ func bealeLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64,
 func bealeLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences) {
 	var h [2]float64
 	bealeLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * bealeLBFGSCentralUnitRoundoff * bealeLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * bealeLBFGSCentralUnitRoundoff * bealeLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * bealeLBFGSCentralUnitRoundoff * bealeLBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1107,10 +1146,17 @@ func bealeLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeLBFG
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = bealeLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = bealeLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[1]), 1) / scale
+			measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = bealeLBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1166,11 @@ func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *bealeLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(bealeLBFGSCentralAbs(s[i]) <= tol*bealeLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(bealeLBFGSCentralAbs(s[0]) <= tol*bealeLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(bealeLBFGSCentralAbs(s[1]) <= tol*bealeLBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1222,14 @@ func (f *bealeLBFGSCentralStepFloor) at(x, d *[2]float64, diffs *bealeLBFGSCentr
 // step test, min over i of tol·bealeLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *bealeLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * bealeLBFGSCentralStepScale(x[i], i, diffs) / bealeLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * bealeLBFGSCentralStepScale(x[0], 0, diffs) / bealeLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * bealeLBFGSCentralStepScale(x[1], 1, diffs) / bealeLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1377,11 @@ func bealeLBFGSCentralShrinkDirection(d, g *[2]float64) {
 // bealeLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func bealeLBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := bealeLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := bealeLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := bealeLBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1390,9 @@ func bealeLBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // bealeLBFGSCentralScaleBy sets x = c·x.
 func bealeLBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1399,8 +1457,11 @@ func (r *bealeLBFGSCentralRiseTrend) contradicts() bool {
 // bealeLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func bealeLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*bealeLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(bealeLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*bealeLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(bealeLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*bealeLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1510,9 @@ func bealeLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b
 
 // bealeLBFGSCentralMoveTo sets out = x + t·d.
 func bealeLBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1516,8 +1578,9 @@ func bealeLBFGSCentralExpandTrial(previous, current *bealeLBFGSCentralLinePoint)
 
 // bealeLBFGSCentralGradientChange sets out = a − b.
 func bealeLBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

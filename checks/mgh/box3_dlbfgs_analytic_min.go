@@ -600,8 +600,10 @@ func (s *box3DLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * box3DLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *box3DLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := box3DLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / box3DLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *box3DLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * box3DLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	box3DLBFGSAnalyticNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *box3DLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 
 // box3DLBFGSAnalyticDot returns aᵀb.
 func box3DLBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // box3DLBFGSAnalyticNegate sets out = −x.
 func box3DLBFGSAnalyticNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func box3DLBFGSAnalyticFinite(v float64) bool {
 
 // box3DLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func box3DLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !box3DLBFGSAnalyticFinite(x[i]) {
+	{
+		if !box3DLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !box3DLBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !box3DLBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -787,15 +803,19 @@ func box3DLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += box3DLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += box3DLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	box3DLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * box3DLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * box3DLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * box3DLBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * box3DLBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -803,8 +823,10 @@ func box3DLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 // box3DLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func box3DLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -825,8 +847,10 @@ func box3DLBFGSAnalyticAbs(v float64) float64 {
 func box3DLBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
 	var h [3]float64
 	box3DLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * box3DLBFGSAnalyticUnitRoundoff * box3DLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * box3DLBFGSAnalyticUnitRoundoff * box3DLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * box3DLBFGSAnalyticUnitRoundoff * box3DLBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * box3DLBFGSAnalyticUnitRoundoff * box3DLBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -928,10 +952,22 @@ func box3DLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DLBF
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = box3DLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = box3DLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = box3DLBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = box3DLBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +977,14 @@ func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *box3DLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*box3DLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(box3DLBFGSAnalyticAbs(s[0]) <= tol*box3DLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(box3DLBFGSAnalyticAbs(s[1]) <= tol*box3DLBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(box3DLBFGSAnalyticAbs(s[2]) <= tol*box3DLBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -994,9 +1036,19 @@ func (f *box3DLBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *box3DLBFGSAnal
 // step test, min over i of tol·box3DLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * box3DLBFGSAnalyticStepScale(x[i], i, diffs) / box3DLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * box3DLBFGSAnalyticStepScale(x[0], 0, diffs) / box3DLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * box3DLBFGSAnalyticStepScale(x[1], 1, diffs) / box3DLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * box3DLBFGSAnalyticStepScale(x[2], 2, diffs) / box3DLBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1144,8 +1196,14 @@ func box3DLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // box3DLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func box3DLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := box3DLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := box3DLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := box3DLBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := box3DLBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1154,8 +1212,10 @@ func box3DLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // box3DLBFGSAnalyticScaleBy sets x = c·x.
 func box3DLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1220,8 +1280,14 @@ func (r *box3DLBFGSAnalyticRiseTrend) contradicts() bool {
 // box3DLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func box3DLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(box3DLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*box3DLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(box3DLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*box3DLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(box3DLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*box3DLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(box3DLBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*box3DLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1270,8 +1336,10 @@ func box3DLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, 
 
 // box3DLBFGSAnalyticMoveTo sets out = x + t·d.
 func box3DLBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1337,8 +1405,10 @@ func box3DLBFGSAnalyticExpandTrial(previous, current *box3DLBFGSAnalyticLinePoin
 
 // box3DLBFGSAnalyticGradientChange sets out = a − b.
 func box3DLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -600,8 +600,10 @@ func (s *box3DLBFGSCentralDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * box3DLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *box3DLBFGSCentralDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := box3DLBFGSCentralDot(&s.s[newest], &s.y[newest]) / box3DLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *box3DLBFGSCentralDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * box3DLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	box3DLBFGSCentralNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *box3DLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 // box3DLBFGSCentralDot returns aᵀb.
 func box3DLBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // box3DLBFGSCentralNegate sets out = −x.
 func box3DLBFGSCentralNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func box3DLBFGSCentralFinite(v float64) bool {
 
 // box3DLBFGSCentralFiniteVec reports whether every component of x is finite.
 func box3DLBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !box3DLBFGSCentralFinite(x[i]) {
+	{
+		if !box3DLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !box3DLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !box3DLBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -805,16 +821,40 @@ func box3DLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSCent
 		}
 	}
 	noise := box3DLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := box3DLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = box3DLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := box3DLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = box3DLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = box3DLBFGSCentralClampBetween(h, 64*box3DLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = box3DLBFGSCentralClampBetween(h, 64*box3DLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := box3DLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = box3DLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = box3DLBFGSCentralClampBetween(h, 64*box3DLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := box3DLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = box3DLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = box3DLBFGSCentralClampBetween(h, 64*box3DLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +948,10 @@ func box3DLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func box3DLBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := box3DLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += box3DLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += box3DLBFGSCentralAbs(g[0] * x[0])
+		sum += box3DLBFGSCentralAbs(g[1] * x[1])
+		sum += box3DLBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * box3DLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1078,19 @@ func box3DLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += box3DLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += box3DLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	box3DLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * box3DLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * box3DLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * box3DLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * box3DLBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1055,16 +1101,42 @@ func box3DLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 // in forwardError).
 func box3DLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
 	noise := box3DLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := box3DLBFGSCentralCentralInterval(x, i, diffs)
-		h = box3DLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := box3DLBFGSCentralCentralInterval(x, 0, diffs)
+			h = box3DLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := box3DLBFGSCentralCentralInterval(x, 1, diffs)
+			h = box3DLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := box3DLBFGSCentralCentralInterval(x, 2, diffs)
+			h = box3DLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1150,10 @@ func box3DLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64,
 func box3DLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
 	var h [3]float64
 	box3DLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * box3DLBFGSCentralUnitRoundoff * box3DLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * box3DLBFGSCentralUnitRoundoff * box3DLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * box3DLBFGSCentralUnitRoundoff * box3DLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * box3DLBFGSCentralUnitRoundoff * box3DLBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1107,10 +1181,22 @@ func box3DLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DLBFG
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = box3DLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = box3DLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[1]), 1) / scale
+			measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = box3DLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[2]), 1) / scale
+			measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = box3DLBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1206,14 @@ func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func box3DLBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *box3DLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(box3DLBFGSCentralAbs(s[i]) <= tol*box3DLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(box3DLBFGSCentralAbs(s[0]) <= tol*box3DLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(box3DLBFGSCentralAbs(s[1]) <= tol*box3DLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(box3DLBFGSCentralAbs(s[2]) <= tol*box3DLBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1265,19 @@ func (f *box3DLBFGSCentralStepFloor) at(x, d *[3]float64, diffs *box3DLBFGSCentr
 // step test, min over i of tol·box3DLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *box3DLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * box3DLBFGSCentralStepScale(x[i], i, diffs) / box3DLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * box3DLBFGSCentralStepScale(x[0], 0, diffs) / box3DLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * box3DLBFGSCentralStepScale(x[1], 1, diffs) / box3DLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * box3DLBFGSCentralStepScale(x[2], 2, diffs) / box3DLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1425,14 @@ func box3DLBFGSCentralShrinkDirection(d, g *[3]float64) {
 // box3DLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func box3DLBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := box3DLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := box3DLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := box3DLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := box3DLBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1441,10 @@ func box3DLBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // box3DLBFGSCentralScaleBy sets x = c·x.
 func box3DLBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1399,8 +1509,14 @@ func (r *box3DLBFGSCentralRiseTrend) contradicts() bool {
 // box3DLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func box3DLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(box3DLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*box3DLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(box3DLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*box3DLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(box3DLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*box3DLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(box3DLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*box3DLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1565,10 @@ func box3DLBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b
 
 // box3DLBFGSCentralMoveTo sets out = x + t·d.
 func box3DLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1516,8 +1634,10 @@ func box3DLBFGSCentralExpandTrial(previous, current *box3DLBFGSCentralLinePoint)
 
 // box3DLBFGSCentralGradientChange sets out = a − b.
 func box3DLBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -585,18 +585,25 @@ type brownBadlyScaledBFGSAnalyticDirection struct {
 }
 
 func (s *brownBadlyScaledBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *brownBadlyScaledBFGSAnalyticDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -brownBadlyScaledBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -brownBadlyScaledBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -brownBadlyScaledBFGSAnalyticDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *brownBadlyScaledBFGSAnalyticDirection) update(step, change *[2]float64)
 	}
 	if !s.scaled {
 		gamma := sy / brownBadlyScaledBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *brownBadlyScaledBFGSAnalyticDirection) update(step, change *[2]float64)
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = brownBadlyScaledBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = brownBadlyScaledBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = brownBadlyScaledBFGSAnalyticDot(&s.h[1], change)
 	}
 	outer := (rho*rho*brownBadlyScaledBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *brownBadlyScaledBFGSAnalyticDirection) firstTrial(t, slope, now float64
 // brownBadlyScaledBFGSAnalyticDot returns aᵀb.
 func brownBadlyScaledBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func brownBadlyScaledBFGSAnalyticFinite(v float64) bool {
 
 // brownBadlyScaledBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledBFGSAnalyticFinite(x[i]) {
+	{
+		if !brownBadlyScaledBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !brownBadlyScaledBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -754,15 +778,17 @@ func brownBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += brownBadlyScaledBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += brownBadlyScaledBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownBadlyScaledBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownBadlyScaledBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * brownBadlyScaledBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -770,8 +796,9 @@ func brownBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e
 // brownBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func brownBadlyScaledBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -792,8 +819,9 @@ func brownBadlyScaledBFGSAnalyticAbs(v float64) float64 {
 func brownBadlyScaledBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
 	var h [2]float64
 	brownBadlyScaledBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownBadlyScaledBFGSAnalyticUnitRoundoff * brownBadlyScaledBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownBadlyScaledBFGSAnalyticUnitRoundoff * brownBadlyScaledBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * brownBadlyScaledBFGSAnalyticUnitRoundoff * brownBadlyScaledBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -895,10 +923,17 @@ func brownBadlyScaledBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +943,11 @@ func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(brownBadlyScaledBFGSAnalyticAbs(s[0]) <= tol*brownBadlyScaledBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownBadlyScaledBFGSAnalyticAbs(s[1]) <= tol*brownBadlyScaledBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -963,9 +1001,14 @@ func (f *brownBadlyScaledBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *brow
 // step test, min over i of tol·brownBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs) / brownBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownBadlyScaledBFGSAnalyticStepScale(x[0], 0, diffs) / brownBadlyScaledBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownBadlyScaledBFGSAnalyticStepScale(x[1], 1, diffs) / brownBadlyScaledBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1113,8 +1156,11 @@ func brownBadlyScaledBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // brownBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func brownBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := brownBadlyScaledBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownBadlyScaledBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1123,8 +1169,9 @@ func brownBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // brownBadlyScaledBFGSAnalyticScaleBy sets x = c·x.
 func brownBadlyScaledBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1189,8 +1236,11 @@ func (r *brownBadlyScaledBFGSAnalyticRiseTrend) contradicts() bool {
 // brownBadlyScaledBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(brownBadlyScaledBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*brownBadlyScaledBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownBadlyScaledBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*brownBadlyScaledBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1239,8 +1289,9 @@ func brownBadlyScaledBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2
 
 // brownBadlyScaledBFGSAnalyticMoveTo sets out = x + t·d.
 func brownBadlyScaledBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1306,8 +1357,9 @@ func brownBadlyScaledBFGSAnalyticExpandTrial(previous, current *brownBadlyScaled
 
 // brownBadlyScaledBFGSAnalyticGradientChange sets out = a − b.
 func brownBadlyScaledBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -585,18 +585,25 @@ type brownBadlyScaledBFGSCentralDirection struct {
 }
 
 func (s *brownBadlyScaledBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *brownBadlyScaledBFGSCentralDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -brownBadlyScaledBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -brownBadlyScaledBFGSCentralDot(&s.h[0], g)
+		d[1] = -brownBadlyScaledBFGSCentralDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *brownBadlyScaledBFGSCentralDirection) update(step, change *[2]float64) 
 	}
 	if !s.scaled {
 		gamma := sy / brownBadlyScaledBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *brownBadlyScaledBFGSCentralDirection) update(step, change *[2]float64) 
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = brownBadlyScaledBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = brownBadlyScaledBFGSCentralDot(&s.h[0], change)
+		hy[1] = brownBadlyScaledBFGSCentralDot(&s.h[1], change)
 	}
 	outer := (rho*rho*brownBadlyScaledBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *brownBadlyScaledBFGSCentralDirection) firstTrial(t, slope, now float64)
 // brownBadlyScaledBFGSCentralDot returns aᵀb.
 func brownBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func brownBadlyScaledBFGSCentralFinite(v float64) bool {
 
 // brownBadlyScaledBFGSCentralFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledBFGSCentralFinite(x[i]) {
+	{
+		if !brownBadlyScaledBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !brownBadlyScaledBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -772,16 +796,29 @@ func brownBadlyScaledBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *brow
 		}
 	}
 	noise := brownBadlyScaledBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := brownBadlyScaledBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = brownBadlyScaledBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := brownBadlyScaledBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownBadlyScaledBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = brownBadlyScaledBFGSCentralClampBetween(h, 64*brownBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = brownBadlyScaledBFGSCentralClampBetween(h, 64*brownBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := brownBadlyScaledBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownBadlyScaledBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = brownBadlyScaledBFGSCentralClampBetween(h, 64*brownBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +912,9 @@ func brownBadlyScaledBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func brownBadlyScaledBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := brownBadlyScaledBFGSCentralAbs(fx)
-	for i := range x {
-		sum += brownBadlyScaledBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += brownBadlyScaledBFGSCentralAbs(g[0] * x[0])
+		sum += brownBadlyScaledBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * brownBadlyScaledBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1041,17 @@ func brownBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += brownBadlyScaledBFGSCentralDerivative(x, fx, g, diffs)
 	calls += brownBadlyScaledBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownBadlyScaledBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownBadlyScaledBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * brownBadlyScaledBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1022,16 +1062,30 @@ func brownBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e 
 // in forwardError).
 func brownBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
 	noise := brownBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := brownBadlyScaledBFGSCentralCentralInterval(x, i, diffs)
-		h = brownBadlyScaledBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := brownBadlyScaledBFGSCentralCentralInterval(x, 0, diffs)
+			h = brownBadlyScaledBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownBadlyScaledBFGSCentralCentralInterval(x, 1, diffs)
+			h = brownBadlyScaledBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1099,9 @@ func brownBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[
 func brownBadlyScaledBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
 	var h [2]float64
 	brownBadlyScaledBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownBadlyScaledBFGSCentralUnitRoundoff * brownBadlyScaledBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownBadlyScaledBFGSCentralUnitRoundoff * brownBadlyScaledBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * brownBadlyScaledBFGSCentralUnitRoundoff * brownBadlyScaledBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1074,10 +1129,17 @@ func brownBadlyScaledBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[0])+e[0])*w)
+			floor = brownBadlyScaledBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[1]), 1) / scale
+			measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[1])+e[1])*w)
+			floor = brownBadlyScaledBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1149,11 @@ func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64)
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(brownBadlyScaledBFGSCentralAbs(s[0]) <= tol*brownBadlyScaledBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownBadlyScaledBFGSCentralAbs(s[1]) <= tol*brownBadlyScaledBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1142,9 +1207,14 @@ func (f *brownBadlyScaledBFGSCentralStepFloor) at(x, d *[2]float64, diffs *brown
 // step test, min over i of tol·brownBadlyScaledBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownBadlyScaledBFGSCentralStepScale(x[i], i, diffs) / brownBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownBadlyScaledBFGSCentralStepScale(x[0], 0, diffs) / brownBadlyScaledBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownBadlyScaledBFGSCentralStepScale(x[1], 1, diffs) / brownBadlyScaledBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1292,8 +1362,11 @@ func brownBadlyScaledBFGSCentralShrinkDirection(d, g *[2]float64) {
 // brownBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func brownBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := brownBadlyScaledBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownBadlyScaledBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1302,8 +1375,9 @@ func brownBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // brownBadlyScaledBFGSCentralScaleBy sets x = c·x.
 func brownBadlyScaledBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1368,8 +1442,11 @@ func (r *brownBadlyScaledBFGSCentralRiseTrend) contradicts() bool {
 // brownBadlyScaledBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(brownBadlyScaledBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*brownBadlyScaledBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownBadlyScaledBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*brownBadlyScaledBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1418,8 +1495,9 @@ func brownBadlyScaledBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]
 
 // brownBadlyScaledBFGSCentralMoveTo sets out = x + t·d.
 func brownBadlyScaledBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1485,8 +1563,9 @@ func brownBadlyScaledBFGSCentralExpandTrial(previous, current *brownBadlyScaledB
 
 // brownBadlyScaledBFGSCentralGradientChange sets out = a − b.
 func brownBadlyScaledBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -618,8 +618,9 @@ type brownBadlyScaledCGAnalyticDirection struct {
 func (s *brownBadlyScaledCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
 	}
 }
 
@@ -627,16 +628,18 @@ func (s *brownBadlyScaledCGAnalyticDirection) compute(g, d *[2]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := brownBadlyScaledCGAnalyticDot(g, &z), brownBadlyScaledCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && brownBadlyScaledCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = brownBadlyScaledCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +658,42 @@ func (s *brownBadlyScaledCGAnalyticDirection) compute(g, d *[2]float64) {
 func (s *brownBadlyScaledCGAnalyticDirection) update(step, change *[2]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
 	}
 	if !brownBadlyScaledCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && brownBadlyScaledCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && brownBadlyScaledCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && brownBadlyScaledCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
 		}
 	}
 }
@@ -701,8 +718,9 @@ func (s *brownBadlyScaledCGAnalyticDirection) firstTrial(t, slope, now float64) 
 // brownBadlyScaledCGAnalyticDot returns aᵀb.
 func brownBadlyScaledCGAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -781,8 +799,11 @@ func brownBadlyScaledCGAnalyticValue(x, g *[2]float64, diffs *brownBadlyScaledCG
 
 // brownBadlyScaledCGAnalyticFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledCGAnalyticFinite(x[i]) {
+	{
+		if !brownBadlyScaledCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !brownBadlyScaledCGAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -836,15 +857,17 @@ func brownBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += brownBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
 	calls += brownBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownBadlyScaledCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownBadlyScaledCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * brownBadlyScaledCGAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -852,8 +875,9 @@ func brownBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *
 // brownBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func brownBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -866,8 +890,9 @@ func brownBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2
 func brownBadlyScaledCGAnalyticRoundingFloor(x, g, e *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
 	var h [2]float64
 	brownBadlyScaledCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownBadlyScaledCGAnalyticUnitRoundoff * brownBadlyScaledCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownBadlyScaledCGAnalyticUnitRoundoff * brownBadlyScaledCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * brownBadlyScaledCGAnalyticUnitRoundoff * brownBadlyScaledCGAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -959,10 +984,17 @@ func brownBadlyScaledCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[0])+e[0])*w)
+			floor = brownBadlyScaledCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[1]), 1) / scale
+			measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[1])+e[1])*w)
+			floor = brownBadlyScaledCGAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1004,11 @@ func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*brownBadlyScaledCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(brownBadlyScaledCGAnalyticAbs(s[0]) <= tol*brownBadlyScaledCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownBadlyScaledCGAnalyticAbs(s[1]) <= tol*brownBadlyScaledCGAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1061,14 @@ func (f *brownBadlyScaledCGAnalyticStepFloor) at(x, d *[2]float64, diffs *brownB
 // step test, min over i of tol·brownBadlyScaledCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownBadlyScaledCGAnalyticStepScale(x[i], i, diffs) / brownBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownBadlyScaledCGAnalyticStepScale(x[0], 0, diffs) / brownBadlyScaledCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownBadlyScaledCGAnalyticStepScale(x[1], 1, diffs) / brownBadlyScaledCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1216,11 @@ func brownBadlyScaledCGAnalyticShrinkDirection(d, g *[2]float64) {
 // brownBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func brownBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := brownBadlyScaledCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownBadlyScaledCGAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1229,9 @@ func brownBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
 
 // brownBadlyScaledCGAnalyticScaleBy sets x = c·x.
 func brownBadlyScaledCGAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1252,8 +1296,11 @@ func (r *brownBadlyScaledCGAnalyticRiseTrend) contradicts() bool {
 // brownBadlyScaledCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownBadlyScaledCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(brownBadlyScaledCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*brownBadlyScaledCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownBadlyScaledCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*brownBadlyScaledCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1349,9 @@ func brownBadlyScaledCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]f
 
 // brownBadlyScaledCGAnalyticMoveTo sets out = x + t·d.
 func brownBadlyScaledCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1369,8 +1417,9 @@ func brownBadlyScaledCGAnalyticExpandTrial(previous, current *brownBadlyScaledCG
 
 // brownBadlyScaledCGAnalyticGradientChange sets out = a − b.
 func brownBadlyScaledCGAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

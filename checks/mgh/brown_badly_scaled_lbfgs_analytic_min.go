@@ -600,8 +600,9 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * brownBadlyScaledLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := brownBadlyScaledLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / brownBadlyScaledLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * brownBadlyScaledLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	brownBadlyScaledLBFGSAnalyticNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) firstTrial(t, slope, now float6
 // brownBadlyScaledLBFGSAnalyticDot returns aᵀb.
 func brownBadlyScaledLBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // brownBadlyScaledLBFGSAnalyticNegate sets out = −x.
 func brownBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func brownBadlyScaledLBFGSAnalyticFinite(v float64) bool {
 
 // brownBadlyScaledLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledLBFGSAnalyticFinite(x[i]) {
+	{
+		if !brownBadlyScaledLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !brownBadlyScaledLBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -787,15 +795,17 @@ func brownBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += brownBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += brownBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownBadlyScaledLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownBadlyScaledLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * brownBadlyScaledLBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -803,8 +813,9 @@ func brownBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 // brownBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func brownBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -825,8 +836,9 @@ func brownBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
 func brownBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
 	var h [2]float64
 	brownBadlyScaledLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownBadlyScaledLBFGSAnalyticUnitRoundoff * brownBadlyScaledLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownBadlyScaledLBFGSAnalyticUnitRoundoff * brownBadlyScaledLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * brownBadlyScaledLBFGSAnalyticUnitRoundoff * brownBadlyScaledLBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -928,10 +940,17 @@ func brownBadlyScaledLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledLBFGSAnalyticLarger(measure, (brownBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownBadlyScaledLBFGSAnalyticLarger(measure, (brownBadlyScaledLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = brownBadlyScaledLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = brownBadlyScaledLBFGSAnalyticLarger(measure, (brownBadlyScaledLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = brownBadlyScaledLBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +960,11 @@ func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float6
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*brownBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(brownBadlyScaledLBFGSAnalyticAbs(s[0]) <= tol*brownBadlyScaledLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownBadlyScaledLBFGSAnalyticAbs(s[1]) <= tol*brownBadlyScaledLBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -996,9 +1018,14 @@ func (f *brownBadlyScaledLBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *bro
 // step test, min over i of tol·brownBadlyScaledLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs) / brownBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownBadlyScaledLBFGSAnalyticStepScale(x[0], 0, diffs) / brownBadlyScaledLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownBadlyScaledLBFGSAnalyticStepScale(x[1], 1, diffs) / brownBadlyScaledLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1146,8 +1173,11 @@ func brownBadlyScaledLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // brownBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func brownBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := brownBadlyScaledLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownBadlyScaledLBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1156,8 +1186,9 @@ func brownBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // brownBadlyScaledLBFGSAnalyticScaleBy sets x = c·x.
 func brownBadlyScaledLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1222,8 +1253,11 @@ func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) contradicts() bool {
 // brownBadlyScaledLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(brownBadlyScaledLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*brownBadlyScaledLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownBadlyScaledLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*brownBadlyScaledLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1272,8 +1306,9 @@ func brownBadlyScaledLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[
 
 // brownBadlyScaledLBFGSAnalyticMoveTo sets out = x + t·d.
 func brownBadlyScaledLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1339,8 +1374,9 @@ func brownBadlyScaledLBFGSAnalyticExpandTrial(previous, current *brownBadlyScale
 
 // brownBadlyScaledLBFGSAnalyticGradientChange sets out = a − b.
 func brownBadlyScaledLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -600,8 +600,9 @@ func (s *brownBadlyScaledLBFGSCentralDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * brownBadlyScaledLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *brownBadlyScaledLBFGSCentralDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := brownBadlyScaledLBFGSCentralDot(&s.s[newest], &s.y[newest]) / brownBadlyScaledLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *brownBadlyScaledLBFGSCentralDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * brownBadlyScaledLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	brownBadlyScaledLBFGSCentralNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *brownBadlyScaledLBFGSCentralDirection) firstTrial(t, slope, now float64
 // brownBadlyScaledLBFGSCentralDot returns aᵀb.
 func brownBadlyScaledLBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // brownBadlyScaledLBFGSCentralNegate sets out = −x.
 func brownBadlyScaledLBFGSCentralNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func brownBadlyScaledLBFGSCentralFinite(v float64) bool {
 
 // brownBadlyScaledLBFGSCentralFiniteVec reports whether every component of x is finite.
 func brownBadlyScaledLBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !brownBadlyScaledLBFGSCentralFinite(x[i]) {
+	{
+		if !brownBadlyScaledLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !brownBadlyScaledLBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -805,16 +813,29 @@ func brownBadlyScaledLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bro
 		}
 	}
 	noise := brownBadlyScaledLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := brownBadlyScaledLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = brownBadlyScaledLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := brownBadlyScaledLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownBadlyScaledLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = brownBadlyScaledLBFGSCentralClampBetween(h, 64*brownBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = brownBadlyScaledLBFGSCentralClampBetween(h, 64*brownBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := brownBadlyScaledLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownBadlyScaledLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = brownBadlyScaledLBFGSCentralClampBetween(h, 64*brownBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +929,9 @@ func brownBadlyScaledLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func brownBadlyScaledLBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := brownBadlyScaledLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += brownBadlyScaledLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += brownBadlyScaledLBFGSCentralAbs(g[0] * x[0])
+		sum += brownBadlyScaledLBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * brownBadlyScaledLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1058,17 @@ func brownBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += brownBadlyScaledLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += brownBadlyScaledLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownBadlyScaledLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownBadlyScaledLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * brownBadlyScaledLBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1055,16 +1079,30 @@ func brownBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 // in forwardError).
 func brownBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
 	noise := brownBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := brownBadlyScaledLBFGSCentralCentralInterval(x, i, diffs)
-		h = brownBadlyScaledLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := brownBadlyScaledLBFGSCentralCentralInterval(x, 0, diffs)
+			h = brownBadlyScaledLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownBadlyScaledLBFGSCentralCentralInterval(x, 1, diffs)
+			h = brownBadlyScaledLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1116,9 @@ func brownBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *
 func brownBadlyScaledLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
 	var h [2]float64
 	brownBadlyScaledLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownBadlyScaledLBFGSCentralUnitRoundoff * brownBadlyScaledLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownBadlyScaledLBFGSCentralUnitRoundoff * brownBadlyScaledLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * brownBadlyScaledLBFGSCentralUnitRoundoff * brownBadlyScaledLBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1107,10 +1146,17 @@ func brownBadlyScaledLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = brownBadlyScaledLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[1]), 1) / scale
+			measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = brownBadlyScaledLBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1166,11 @@ func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*brownBadlyScaledLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(brownBadlyScaledLBFGSCentralAbs(s[0]) <= tol*brownBadlyScaledLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownBadlyScaledLBFGSCentralAbs(s[1]) <= tol*brownBadlyScaledLBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1175,9 +1224,14 @@ func (f *brownBadlyScaledLBFGSCentralStepFloor) at(x, d *[2]float64, diffs *brow
 // step test, min over i of tol·brownBadlyScaledLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *brownBadlyScaledLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownBadlyScaledLBFGSCentralStepScale(x[i], i, diffs) / brownBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownBadlyScaledLBFGSCentralStepScale(x[0], 0, diffs) / brownBadlyScaledLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownBadlyScaledLBFGSCentralStepScale(x[1], 1, diffs) / brownBadlyScaledLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1325,8 +1379,11 @@ func brownBadlyScaledLBFGSCentralShrinkDirection(d, g *[2]float64) {
 // brownBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func brownBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := brownBadlyScaledLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownBadlyScaledLBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1335,8 +1392,9 @@ func brownBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // brownBadlyScaledLBFGSCentralScaleBy sets x = c·x.
 func brownBadlyScaledLBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1401,8 +1459,11 @@ func (r *brownBadlyScaledLBFGSCentralRiseTrend) contradicts() bool {
 // brownBadlyScaledLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(brownBadlyScaledLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*brownBadlyScaledLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownBadlyScaledLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*brownBadlyScaledLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1451,8 +1512,9 @@ func brownBadlyScaledLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2
 
 // brownBadlyScaledLBFGSCentralMoveTo sets out = x + t·d.
 func brownBadlyScaledLBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1518,8 +1580,9 @@ func brownBadlyScaledLBFGSCentralExpandTrial(previous, current *brownBadlyScaled
 
 // brownBadlyScaledLBFGSCentralGradientChange sets out = a − b.
 func brownBadlyScaledLBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -585,18 +585,45 @@ type brownDennisBFGSAnalyticDirection struct {
 }
 
 func (s *brownDennisBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *brownDennisBFGSAnalyticDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -brownDennisBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -brownDennisBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -brownDennisBFGSAnalyticDot(&s.h[1], g)
+		d[2] = -brownDennisBFGSAnalyticDot(&s.h[2], g)
+		d[3] = -brownDennisBFGSAnalyticDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *brownDennisBFGSAnalyticDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / brownDennisBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *brownDennisBFGSAnalyticDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = brownDennisBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = brownDennisBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = brownDennisBFGSAnalyticDot(&s.h[1], change)
+		hy[2] = brownDennisBFGSAnalyticDot(&s.h[2], change)
+		hy[3] = brownDennisBFGSAnalyticDot(&s.h[3], change)
 	}
 	outer := (rho*rho*brownDennisBFGSAnalyticDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *brownDennisBFGSAnalyticDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *brownDennisBFGSAnalyticDirection) firstTrial(t, slope, now float64) flo
 // brownDennisBFGSAnalyticDot returns aᵀb.
 func brownDennisBFGSAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func brownDennisBFGSAnalyticFinite(v float64) bool {
 
 // brownDennisBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func brownDennisBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisBFGSAnalyticFinite(x[i]) {
+	{
+		if !brownDennisBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !brownDennisBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !brownDennisBFGSAnalyticFinite(x[2]) {
+			return false
+		}
+		if !brownDennisBFGSAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -754,15 +802,21 @@ func brownDennisBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += brownDennisBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += brownDennisBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownDennisBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownDennisBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownDennisBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * brownDennisBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * brownDennisBFGSAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * brownDennisBFGSAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -770,8 +824,11 @@ func brownDennisBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 // brownDennisBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func brownDennisBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -792,8 +849,11 @@ func brownDennisBFGSAnalyticAbs(v float64) float64 {
 func brownDennisBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
 	var h [4]float64
 	brownDennisBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownDennisBFGSAnalyticUnitRoundoff * brownDennisBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownDennisBFGSAnalyticUnitRoundoff * brownDennisBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * brownDennisBFGSAnalyticUnitRoundoff * brownDennisBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * brownDennisBFGSAnalyticUnitRoundoff * brownDennisBFGSAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * brownDennisBFGSAnalyticUnitRoundoff * brownDennisBFGSAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -895,10 +955,27 @@ func brownDennisBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *bro
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownDennisBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = brownDennisBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = brownDennisBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = brownDennisBFGSAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[3]), 1) / scale
+			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[3])+e[3])*w)
+			floor = brownDennisBFGSAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +985,17 @@ func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*brownDennisBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(brownDennisBFGSAnalyticAbs(s[0]) <= tol*brownDennisBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownDennisBFGSAnalyticAbs(s[1]) <= tol*brownDennisBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(brownDennisBFGSAnalyticAbs(s[2]) <= tol*brownDennisBFGSAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(brownDennisBFGSAnalyticAbs(s[3]) <= tol*brownDennisBFGSAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -962,9 +1048,24 @@ func (f *brownDennisBFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *brownDenn
 // step test, min over i of tol·brownDennisBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownDennisBFGSAnalyticStepScale(x[i], i, diffs) / brownDennisBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownDennisBFGSAnalyticStepScale(x[0], 0, diffs) / brownDennisBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownDennisBFGSAnalyticStepScale(x[1], 1, diffs) / brownDennisBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * brownDennisBFGSAnalyticStepScale(x[2], 2, diffs) / brownDennisBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * brownDennisBFGSAnalyticStepScale(x[3], 3, diffs) / brownDennisBFGSAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1213,17 @@ func brownDennisBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 // brownDennisBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func brownDennisBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownDennisBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := brownDennisBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisBFGSAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisBFGSAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1232,11 @@ func brownDennisBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 
 // brownDennisBFGSAnalyticScaleBy sets x = c·x.
 func brownDennisBFGSAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1188,8 +1301,17 @@ func (r *brownDennisBFGSAnalyticRiseTrend) contradicts() bool {
 // brownDennisBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownDennisBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(brownDennisBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownDennisBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(brownDennisBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(brownDennisBFGSAnalyticAbs(xt[3]-x[3]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1238,8 +1360,11 @@ func brownDennisBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]floa
 
 // brownDennisBFGSAnalyticMoveTo sets out = x + t·d.
 func brownDennisBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1305,8 +1430,11 @@ func brownDennisBFGSAnalyticExpandTrial(previous, current *brownDennisBFGSAnalyt
 
 // brownDennisBFGSAnalyticGradientChange sets out = a − b.
 func brownDennisBFGSAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

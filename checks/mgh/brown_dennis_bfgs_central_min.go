@@ -585,18 +585,45 @@ type brownDennisBFGSCentralDirection struct {
 }
 
 func (s *brownDennisBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *brownDennisBFGSCentralDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -brownDennisBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -brownDennisBFGSCentralDot(&s.h[0], g)
+		d[1] = -brownDennisBFGSCentralDot(&s.h[1], g)
+		d[2] = -brownDennisBFGSCentralDot(&s.h[2], g)
+		d[3] = -brownDennisBFGSCentralDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *brownDennisBFGSCentralDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / brownDennisBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *brownDennisBFGSCentralDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = brownDennisBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = brownDennisBFGSCentralDot(&s.h[0], change)
+		hy[1] = brownDennisBFGSCentralDot(&s.h[1], change)
+		hy[2] = brownDennisBFGSCentralDot(&s.h[2], change)
+		hy[3] = brownDennisBFGSCentralDot(&s.h[3], change)
 	}
 	outer := (rho*rho*brownDennisBFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *brownDennisBFGSCentralDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *brownDennisBFGSCentralDirection) firstTrial(t, slope, now float64) floa
 // brownDennisBFGSCentralDot returns aᵀb.
 func brownDennisBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func brownDennisBFGSCentralFinite(v float64) bool {
 
 // brownDennisBFGSCentralFiniteVec reports whether every component of x is finite.
 func brownDennisBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisBFGSCentralFinite(x[i]) {
+	{
+		if !brownDennisBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !brownDennisBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !brownDennisBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !brownDennisBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -772,16 +820,51 @@ func brownDennisBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *brownDenn
 		}
 	}
 	noise := brownDennisBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := brownDennisBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = brownDennisBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := brownDennisBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = brownDennisBFGSCentralClampBetween(h, 64*brownDennisBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = brownDennisBFGSCentralClampBetween(h, 64*brownDennisBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := brownDennisBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = brownDennisBFGSCentralClampBetween(h, 64*brownDennisBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := brownDennisBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = brownDennisBFGSCentralClampBetween(h, 64*brownDennisBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := brownDennisBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = brownDennisBFGSCentralClampBetween(h, 64*brownDennisBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +958,11 @@ func brownDennisBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func brownDennisBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := brownDennisBFGSCentralAbs(fx)
-	for i := range x {
-		sum += brownDennisBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += brownDennisBFGSCentralAbs(g[0] * x[0])
+		sum += brownDennisBFGSCentralAbs(g[1] * x[1])
+		sum += brownDennisBFGSCentralAbs(g[2] * x[2])
+		sum += brownDennisBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * brownDennisBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1089,21 @@ func brownDennisBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += brownDennisBFGSCentralDerivative(x, fx, g, diffs)
 	calls += brownDennisBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownDennisBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownDennisBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownDennisBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * brownDennisBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * brownDennisBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * brownDennisBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1022,16 +1114,54 @@ func brownDennisBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 // in forwardError).
 func brownDennisBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
 	noise := brownDennisBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := brownDennisBFGSCentralCentralInterval(x, i, diffs)
-		h = brownDennisBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := brownDennisBFGSCentralCentralInterval(x, 0, diffs)
+			h = brownDennisBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownDennisBFGSCentralCentralInterval(x, 1, diffs)
+			h = brownDennisBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownDennisBFGSCentralCentralInterval(x, 2, diffs)
+			h = brownDennisBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownDennisBFGSCentralCentralInterval(x, 3, diffs)
+			h = brownDennisBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1175,11 @@ func brownDennisBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]flo
 func brownDennisBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
 	var h [4]float64
 	brownDennisBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownDennisBFGSCentralUnitRoundoff * brownDennisBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownDennisBFGSCentralUnitRoundoff * brownDennisBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * brownDennisBFGSCentralUnitRoundoff * brownDennisBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * brownDennisBFGSCentralUnitRoundoff * brownDennisBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * brownDennisBFGSCentralUnitRoundoff * brownDennisBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1074,10 +1207,27 @@ func brownDennisBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *brow
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownDennisBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[0])+e[0])*w)
+			floor = brownDennisBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[1]), 1) / scale
+			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[1])+e[1])*w)
+			floor = brownDennisBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[2]), 1) / scale
+			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[2])+e[2])*w)
+			floor = brownDennisBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[3]), 1) / scale
+			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[3])+e[3])*w)
+			floor = brownDennisBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1237,17 @@ func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*brownDennisBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(brownDennisBFGSCentralAbs(s[0]) <= tol*brownDennisBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownDennisBFGSCentralAbs(s[1]) <= tol*brownDennisBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(brownDennisBFGSCentralAbs(s[2]) <= tol*brownDennisBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(brownDennisBFGSCentralAbs(s[3]) <= tol*brownDennisBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1141,9 +1300,24 @@ func (f *brownDennisBFGSCentralStepFloor) at(x, d *[4]float64, diffs *brownDenni
 // step test, min over i of tol·brownDennisBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownDennisBFGSCentralStepScale(x[i], i, diffs) / brownDennisBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownDennisBFGSCentralStepScale(x[0], 0, diffs) / brownDennisBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownDennisBFGSCentralStepScale(x[1], 1, diffs) / brownDennisBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * brownDennisBFGSCentralStepScale(x[2], 2, diffs) / brownDennisBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * brownDennisBFGSCentralStepScale(x[3], 3, diffs) / brownDennisBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1291,8 +1465,17 @@ func brownDennisBFGSCentralShrinkDirection(d, g *[4]float64) {
 // brownDennisBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func brownDennisBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownDennisBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := brownDennisBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1301,8 +1484,11 @@ func brownDennisBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // brownDennisBFGSCentralScaleBy sets x = c·x.
 func brownDennisBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1367,8 +1553,17 @@ func (r *brownDennisBFGSCentralRiseTrend) contradicts() bool {
 // brownDennisBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownDennisBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownDennisBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(brownDennisBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*brownDennisBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownDennisBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*brownDennisBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(brownDennisBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*brownDennisBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(brownDennisBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*brownDennisBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1417,8 +1612,11 @@ func brownDennisBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float
 
 // brownDennisBFGSCentralMoveTo sets out = x + t·d.
 func brownDennisBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1484,8 +1682,11 @@ func brownDennisBFGSCentralExpandTrial(previous, current *brownDennisBFGSCentral
 
 // brownDennisBFGSCentralGradientChange sets out = a − b.
 func brownDennisBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

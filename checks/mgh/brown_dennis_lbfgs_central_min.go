@@ -600,8 +600,11 @@ func (s *brownDennisLBFGSCentralDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * brownDennisLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *brownDennisLBFGSCentralDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := brownDennisLBFGSCentralDot(&s.s[newest], &s.y[newest]) / brownDennisLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *brownDennisLBFGSCentralDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * brownDennisLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	brownDennisLBFGSCentralNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *brownDennisLBFGSCentralDirection) firstTrial(t, slope, now float64) flo
 // brownDennisLBFGSCentralDot returns aᵀb.
 func brownDennisLBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // brownDennisLBFGSCentralNegate sets out = −x.
 func brownDennisLBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func brownDennisLBFGSCentralFinite(v float64) bool {
 
 // brownDennisLBFGSCentralFiniteVec reports whether every component of x is finite.
 func brownDennisLBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !brownDennisLBFGSCentralFinite(x[i]) {
+	{
+		if !brownDennisLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !brownDennisLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !brownDennisLBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !brownDennisLBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -805,16 +829,51 @@ func brownDennisLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *brownDen
 		}
 	}
 	noise := brownDennisLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := brownDennisLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = brownDennisLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := brownDennisLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = brownDennisLBFGSCentralClampBetween(h, 64*brownDennisLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = brownDennisLBFGSCentralClampBetween(h, 64*brownDennisLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := brownDennisLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = brownDennisLBFGSCentralClampBetween(h, 64*brownDennisLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := brownDennisLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = brownDennisLBFGSCentralClampBetween(h, 64*brownDennisLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := brownDennisLBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = brownDennisLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = brownDennisLBFGSCentralClampBetween(h, 64*brownDennisLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +967,11 @@ func brownDennisLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func brownDennisLBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := brownDennisLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += brownDennisLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += brownDennisLBFGSCentralAbs(g[0] * x[0])
+		sum += brownDennisLBFGSCentralAbs(g[1] * x[1])
+		sum += brownDennisLBFGSCentralAbs(g[2] * x[2])
+		sum += brownDennisLBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * brownDennisLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1098,21 @@ func brownDennisLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += brownDennisLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += brownDennisLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownDennisLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * brownDennisLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * brownDennisLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * brownDennisLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * brownDennisLBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * brownDennisLBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1055,16 +1123,54 @@ func brownDennisLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 // in forwardError).
 func brownDennisLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
 	noise := brownDennisLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := brownDennisLBFGSCentralCentralInterval(x, i, diffs)
-		h = brownDennisLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := brownDennisLBFGSCentralCentralInterval(x, 0, diffs)
+			h = brownDennisLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownDennisLBFGSCentralCentralInterval(x, 1, diffs)
+			h = brownDennisLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownDennisLBFGSCentralCentralInterval(x, 2, diffs)
+			h = brownDennisLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := brownDennisLBFGSCentralCentralInterval(x, 3, diffs)
+			h = brownDennisLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1184,11 @@ func brownDennisLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]fl
 func brownDennisLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
 	var h [4]float64
 	brownDennisLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * brownDennisLBFGSCentralUnitRoundoff * brownDennisLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * brownDennisLBFGSCentralUnitRoundoff * brownDennisLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * brownDennisLBFGSCentralUnitRoundoff * brownDennisLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * brownDennisLBFGSCentralUnitRoundoff * brownDennisLBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * brownDennisLBFGSCentralUnitRoundoff * brownDennisLBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1107,10 +1216,27 @@ func brownDennisLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *bro
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownDennisLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = brownDennisLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[1]), 1) / scale
+			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = brownDennisLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[2]), 1) / scale
+			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = brownDennisLBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[3]), 1) / scale
+			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[3])+e[3])*w)
+			floor = brownDennisLBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1246,17 @@ func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *brownDennisLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*brownDennisLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(brownDennisLBFGSCentralAbs(s[0]) <= tol*brownDennisLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(brownDennisLBFGSCentralAbs(s[1]) <= tol*brownDennisLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(brownDennisLBFGSCentralAbs(s[2]) <= tol*brownDennisLBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(brownDennisLBFGSCentralAbs(s[3]) <= tol*brownDennisLBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1174,9 +1309,24 @@ func (f *brownDennisLBFGSCentralStepFloor) at(x, d *[4]float64, diffs *brownDenn
 // step test, min over i of tol·brownDennisLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *brownDennisLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * brownDennisLBFGSCentralStepScale(x[i], i, diffs) / brownDennisLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * brownDennisLBFGSCentralStepScale(x[0], 0, diffs) / brownDennisLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * brownDennisLBFGSCentralStepScale(x[1], 1, diffs) / brownDennisLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * brownDennisLBFGSCentralStepScale(x[2], 2, diffs) / brownDennisLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * brownDennisLBFGSCentralStepScale(x[3], 3, diffs) / brownDennisLBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1324,8 +1474,17 @@ func brownDennisLBFGSCentralShrinkDirection(d, g *[4]float64) {
 // brownDennisLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func brownDennisLBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := brownDennisLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := brownDennisLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisLBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := brownDennisLBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1334,8 +1493,11 @@ func brownDennisLBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // brownDennisLBFGSCentralScaleBy sets x = c·x.
 func brownDennisLBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1400,8 +1562,17 @@ func (r *brownDennisLBFGSCentralRiseTrend) contradicts() bool {
 // brownDennisLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func brownDennisLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(brownDennisLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(brownDennisLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(brownDennisLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(brownDennisLBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1450,8 +1621,11 @@ func brownDennisLBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]floa
 
 // brownDennisLBFGSCentralMoveTo sets out = x + t·d.
 func brownDennisLBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1517,8 +1691,11 @@ func brownDennisLBFGSCentralExpandTrial(previous, current *brownDennisLBFGSCentr
 
 // brownDennisLBFGSCentralGradientChange sets out = a − b.
 func brownDennisLBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -585,18 +585,34 @@ type gaussianBFGSAnalyticDirection struct {
 }
 
 func (s *gaussianBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *gaussianBFGSAnalyticDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -gaussianBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -gaussianBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -gaussianBFGSAnalyticDot(&s.h[1], g)
+		d[2] = -gaussianBFGSAnalyticDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *gaussianBFGSAnalyticDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / gaussianBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *gaussianBFGSAnalyticDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = gaussianBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = gaussianBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = gaussianBFGSAnalyticDot(&s.h[1], change)
+		hy[2] = gaussianBFGSAnalyticDot(&s.h[2], change)
 	}
 	outer := (rho*rho*gaussianBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *gaussianBFGSAnalyticDirection) firstTrial(t, slope, now float64) float6
 // gaussianBFGSAnalyticDot returns aᵀb.
 func gaussianBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func gaussianBFGSAnalyticFinite(v float64) bool {
 
 // gaussianBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func gaussianBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianBFGSAnalyticFinite(x[i]) {
+	{
+		if !gaussianBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !gaussianBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !gaussianBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -754,15 +804,19 @@ func gaussianBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gaussianBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += gaussianBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gaussianBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gaussianBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gaussianBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * gaussianBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * gaussianBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -770,8 +824,10 @@ func gaussianBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 // gaussianBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func gaussianBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -792,8 +848,10 @@ func gaussianBFGSAnalyticAbs(v float64) float64 {
 func gaussianBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
 	var h [3]float64
 	gaussianBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gaussianBFGSAnalyticUnitRoundoff * gaussianBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gaussianBFGSAnalyticUnitRoundoff * gaussianBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * gaussianBFGSAnalyticUnitRoundoff * gaussianBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * gaussianBFGSAnalyticUnitRoundoff * gaussianBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -895,10 +953,22 @@ func gaussianBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gaussi
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gaussianBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = gaussianBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = gaussianBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = gaussianBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +978,14 @@ func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gaussianBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*gaussianBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(gaussianBFGSAnalyticAbs(s[0]) <= tol*gaussianBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gaussianBFGSAnalyticAbs(s[1]) <= tol*gaussianBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gaussianBFGSAnalyticAbs(s[2]) <= tol*gaussianBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1037,19 @@ func (f *gaussianBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *gaussianBFGS
 // step test, min over i of tol·gaussianBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gaussianBFGSAnalyticStepScale(x[i], i, diffs) / gaussianBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gaussianBFGSAnalyticStepScale(x[0], 0, diffs) / gaussianBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gaussianBFGSAnalyticStepScale(x[1], 1, diffs) / gaussianBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gaussianBFGSAnalyticStepScale(x[2], 2, diffs) / gaussianBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1197,14 @@ func gaussianBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // gaussianBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func gaussianBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gaussianBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := gaussianBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1213,10 @@ func gaussianBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // gaussianBFGSAnalyticScaleBy sets x = c·x.
 func gaussianBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1187,8 +1281,14 @@ func (r *gaussianBFGSAnalyticRiseTrend) contradicts() bool {
 // gaussianBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gaussianBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gaussianBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(gaussianBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*gaussianBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gaussianBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*gaussianBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gaussianBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*gaussianBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1337,10 @@ func gaussianBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64
 
 // gaussianBFGSAnalyticMoveTo sets out = x + t·d.
 func gaussianBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1304,8 +1406,10 @@ func gaussianBFGSAnalyticExpandTrial(previous, current *gaussianBFGSAnalyticLine
 
 // gaussianBFGSAnalyticGradientChange sets out = a − b.
 func gaussianBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

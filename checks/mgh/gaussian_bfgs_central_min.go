@@ -585,18 +585,34 @@ type gaussianBFGSCentralDirection struct {
 }
 
 func (s *gaussianBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *gaussianBFGSCentralDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -gaussianBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -gaussianBFGSCentralDot(&s.h[0], g)
+		d[1] = -gaussianBFGSCentralDot(&s.h[1], g)
+		d[2] = -gaussianBFGSCentralDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *gaussianBFGSCentralDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / gaussianBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *gaussianBFGSCentralDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = gaussianBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = gaussianBFGSCentralDot(&s.h[0], change)
+		hy[1] = gaussianBFGSCentralDot(&s.h[1], change)
+		hy[2] = gaussianBFGSCentralDot(&s.h[2], change)
 	}
 	outer := (rho*rho*gaussianBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *gaussianBFGSCentralDirection) firstTrial(t, slope, now float64) float64
 // gaussianBFGSCentralDot returns aᵀb.
 func gaussianBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func gaussianBFGSCentralFinite(v float64) bool {
 
 // gaussianBFGSCentralFiniteVec reports whether every component of x is finite.
 func gaussianBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianBFGSCentralFinite(x[i]) {
+	{
+		if !gaussianBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !gaussianBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !gaussianBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -772,16 +822,40 @@ func gaussianBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gaussianBFGS
 		}
 	}
 	noise := gaussianBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := gaussianBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = gaussianBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := gaussianBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = gaussianBFGSCentralClampBetween(h, 64*gaussianBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = gaussianBFGSCentralClampBetween(h, 64*gaussianBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := gaussianBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = gaussianBFGSCentralClampBetween(h, 64*gaussianBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := gaussianBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = gaussianBFGSCentralClampBetween(h, 64*gaussianBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +949,10 @@ func gaussianBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func gaussianBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := gaussianBFGSCentralAbs(fx)
-	for i := range x {
-		sum += gaussianBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += gaussianBFGSCentralAbs(g[0] * x[0])
+		sum += gaussianBFGSCentralAbs(g[1] * x[1])
+		sum += gaussianBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * gaussianBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1079,19 @@ func gaussianBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gaussianBFGSCentralDerivative(x, fx, g, diffs)
 	calls += gaussianBFGSCentralDerivative(x, fx, &doubled, &wide)
 	gaussianBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gaussianBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gaussianBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * gaussianBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * gaussianBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1022,16 +1102,42 @@ func gaussianBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 // in forwardError).
 func gaussianBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences) {
 	noise := gaussianBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := gaussianBFGSCentralCentralInterval(x, i, diffs)
-		h = gaussianBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := gaussianBFGSCentralCentralInterval(x, 0, diffs)
+			h = gaussianBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gaussianBFGSCentralCentralInterval(x, 1, diffs)
+			h = gaussianBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gaussianBFGSCentralCentralInterval(x, 2, diffs)
+			h = gaussianBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1151,10 @@ func gaussianBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float6
 func gaussianBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences) {
 	var h [3]float64
 	gaussianBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gaussianBFGSCentralUnitRoundoff * gaussianBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gaussianBFGSCentralUnitRoundoff * gaussianBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * gaussianBFGSCentralUnitRoundoff * gaussianBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * gaussianBFGSCentralUnitRoundoff * gaussianBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1074,10 +1182,22 @@ func gaussianBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussia
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gaussianBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[0])+e[0])*w)
+			floor = gaussianBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[1]), 1) / scale
+			measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[1])+e[1])*w)
+			floor = gaussianBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[2]), 1) / scale
+			measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[2])+e[2])*w)
+			floor = gaussianBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1207,14 @@ func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gaussianBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(gaussianBFGSCentralAbs(s[i]) <= tol*gaussianBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(gaussianBFGSCentralAbs(s[0]) <= tol*gaussianBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gaussianBFGSCentralAbs(s[1]) <= tol*gaussianBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gaussianBFGSCentralAbs(s[2]) <= tol*gaussianBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1266,19 @@ func (f *gaussianBFGSCentralStepFloor) at(x, d *[3]float64, diffs *gaussianBFGSC
 // step test, min over i of tol·gaussianBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gaussianBFGSCentralStepScale(x[i], i, diffs) / gaussianBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gaussianBFGSCentralStepScale(x[0], 0, diffs) / gaussianBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gaussianBFGSCentralStepScale(x[1], 1, diffs) / gaussianBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gaussianBFGSCentralStepScale(x[2], 2, diffs) / gaussianBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1426,14 @@ func gaussianBFGSCentralShrinkDirection(d, g *[3]float64) {
 // gaussianBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func gaussianBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gaussianBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := gaussianBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1442,10 @@ func gaussianBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // gaussianBFGSCentralScaleBy sets x = c·x.
 func gaussianBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1366,8 +1510,14 @@ func (r *gaussianBFGSCentralRiseTrend) contradicts() bool {
 // gaussianBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gaussianBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(gaussianBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*gaussianBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gaussianBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*gaussianBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gaussianBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*gaussianBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1566,10 @@ func gaussianBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64,
 
 // gaussianBFGSCentralMoveTo sets out = x + t·d.
 func gaussianBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1483,8 +1635,10 @@ func gaussianBFGSCentralExpandTrial(previous, current *gaussianBFGSCentralLinePo
 
 // gaussianBFGSCentralGradientChange sets out = a − b.
 func gaussianBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -618,8 +618,10 @@ type gaussianCGCentralDirection struct {
 func (s *gaussianCGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
 	}
 }
 
@@ -627,16 +629,20 @@ func (s *gaussianCGCentralDirection) compute(g, d *[3]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := gaussianCGCentralDot(g, &z), gaussianCGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && gaussianCGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = gaussianCGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +661,54 @@ func (s *gaussianCGCentralDirection) compute(g, d *[3]float64) {
 func (s *gaussianCGCentralDirection) update(step, change *[3]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
 	}
 	if !gaussianCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && gaussianCGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && gaussianCGCentralFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && gaussianCGCentralFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && gaussianCGCentralFinite(next) {
+				s.curvature[2] = next
+			}
 		}
 	}
 }
@@ -701,8 +733,10 @@ func (s *gaussianCGCentralDirection) firstTrial(t, slope, now float64) float64 {
 // gaussianCGCentralDot returns aᵀb.
 func gaussianCGCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -781,8 +815,14 @@ func gaussianCGCentralValue(x, g *[3]float64, diffs *gaussianCGCentralDifference
 
 // gaussianCGCentralFiniteVec reports whether every component of x is finite.
 func gaussianCGCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianCGCentralFinite(x[i]) {
+	{
+		if !gaussianCGCentralFinite(x[0]) {
+			return false
+		}
+		if !gaussianCGCentralFinite(x[1]) {
+			return false
+		}
+		if !gaussianCGCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -854,16 +894,40 @@ func gaussianCGCentralCalibrate(x *[3]float64, fx float64, diffs *gaussianCGCent
 		}
 	}
 	noise := gaussianCGCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := gaussianCGCentralLarger(1, gaussianCGCentralAbs(probe[i]))
-		bar := quarter * s
-		third := gaussianCGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = gaussianCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := gaussianCGCentralLarger(1, gaussianCGCentralAbs(probe[0]))
+			bar := quarter * s
+			third := gaussianCGCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = gaussianCGCentralClampBetween(h, 64*gaussianCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = gaussianCGCentralClampBetween(h, 64*gaussianCGCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := gaussianCGCentralLarger(1, gaussianCGCentralAbs(probe[1]))
+			bar := quarter * s
+			third := gaussianCGCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = gaussianCGCentralClampBetween(h, 64*gaussianCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := gaussianCGCentralLarger(1, gaussianCGCentralAbs(probe[2]))
+			bar := quarter * s
+			third := gaussianCGCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = gaussianCGCentralClampBetween(h, 64*gaussianCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -939,8 +1003,10 @@ func gaussianCGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func gaussianCGCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := gaussianCGCentralAbs(fx)
-	for i := range x {
-		sum += gaussianCGCentralAbs(g[i] * x[i])
+	{
+		sum += gaussianCGCentralAbs(g[0] * x[0])
+		sum += gaussianCGCentralAbs(g[1] * x[1])
+		sum += gaussianCGCentralAbs(g[2] * x[2])
 	}
 	return 4 * gaussianCGCentralUnitRoundoff * sum
 }
@@ -1067,15 +1133,19 @@ func gaussianCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gaussianCGCentralDerivative(x, fx, g, diffs)
 	calls += gaussianCGCentralDerivative(x, fx, &doubled, &wide)
 	gaussianCGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gaussianCGCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gaussianCGCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * gaussianCGCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * gaussianCGCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1086,16 +1156,42 @@ func gaussianCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 // in forwardError).
 func gaussianCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGCentralDifferences) {
 	noise := gaussianCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := gaussianCGCentralCentralInterval(x, i, diffs)
-		h = gaussianCGCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := gaussianCGCentralCentralInterval(x, 0, diffs)
+			h = gaussianCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gaussianCGCentralCentralInterval(x, 1, diffs)
+			h = gaussianCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gaussianCGCentralCentralInterval(x, 2, diffs)
+			h = gaussianCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1109,8 +1205,10 @@ func gaussianCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64,
 func gaussianCGCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianCGCentralDifferences) {
 	var h [3]float64
 	gaussianCGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gaussianCGCentralUnitRoundoff * gaussianCGCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gaussianCGCentralUnitRoundoff * gaussianCGCentralAbs(x[0]) * h[0]
+		e[1] += 4 * gaussianCGCentralUnitRoundoff * gaussianCGCentralAbs(x[1]) * h[1]
+		e[2] += 4 * gaussianCGCentralUnitRoundoff * gaussianCGCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1138,10 +1236,22 @@ func gaussianCGCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussianC
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gaussianCGCentralLarger(gaussianCGCentralAbs(fx), 1)
-	for i := range g {
-		w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[i])+e[i])*w)
-		floor = gaussianCGCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[0])+e[0])*w)
+			floor = gaussianCGCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[1]), 1) / scale
+			measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[1])+e[1])*w)
+			floor = gaussianCGCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[2]), 1) / scale
+			measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[2])+e[2])*w)
+			floor = gaussianCGCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1151,8 +1261,14 @@ func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64, diffs *gaussianCGCentralDifferences) bool {
-	for i := range s {
-		if !(gaussianCGCentralAbs(s[i]) <= tol*gaussianCGCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(gaussianCGCentralAbs(s[0]) <= tol*gaussianCGCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gaussianCGCentralAbs(s[1]) <= tol*gaussianCGCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gaussianCGCentralAbs(s[2]) <= tol*gaussianCGCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1204,9 +1320,19 @@ func (f *gaussianCGCentralStepFloor) at(x, d *[3]float64, diffs *gaussianCGCentr
 // step test, min over i of tol·gaussianCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianCGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gaussianCGCentralStepScale(x[i], i, diffs) / gaussianCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gaussianCGCentralStepScale(x[0], 0, diffs) / gaussianCGCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gaussianCGCentralStepScale(x[1], 1, diffs) / gaussianCGCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gaussianCGCentralStepScale(x[2], 2, diffs) / gaussianCGCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1354,8 +1480,14 @@ func gaussianCGCentralShrinkDirection(d, g *[3]float64) {
 // gaussianCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func gaussianCGCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gaussianCGCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := gaussianCGCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianCGCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianCGCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1364,8 +1496,10 @@ func gaussianCGCentralMaxAbs(x *[3]float64) float64 {
 
 // gaussianCGCentralScaleBy sets x = c·x.
 func gaussianCGCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1430,8 +1564,14 @@ func (r *gaussianCGCentralRiseTrend) contradicts() bool {
 // gaussianCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gaussianCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianCGCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianCGCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(gaussianCGCentralAbs(xt[0]-x[0]-want) <= 0.01*gaussianCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gaussianCGCentralAbs(xt[1]-x[1]-want) <= 0.01*gaussianCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gaussianCGCentralAbs(xt[2]-x[2]-want) <= 0.01*gaussianCGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1480,8 +1620,10 @@ func gaussianCGCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b
 
 // gaussianCGCentralMoveTo sets out = x + t·d.
 func gaussianCGCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1547,8 +1689,10 @@ func gaussianCGCentralExpandTrial(previous, current *gaussianCGCentralLinePoint)
 
 // gaussianCGCentralGradientChange sets out = a − b.
 func gaussianCGCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

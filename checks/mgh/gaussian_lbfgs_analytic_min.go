@@ -600,8 +600,10 @@ func (s *gaussianLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * gaussianLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *gaussianLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := gaussianLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / gaussianLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *gaussianLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * gaussianLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	gaussianLBFGSAnalyticNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *gaussianLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float
 // gaussianLBFGSAnalyticDot returns aᵀb.
 func gaussianLBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // gaussianLBFGSAnalyticNegate sets out = −x.
 func gaussianLBFGSAnalyticNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func gaussianLBFGSAnalyticFinite(v float64) bool {
 
 // gaussianLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func gaussianLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianLBFGSAnalyticFinite(x[i]) {
+	{
+		if !gaussianLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !gaussianLBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !gaussianLBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -787,15 +803,19 @@ func gaussianLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]fl
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gaussianLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += gaussianLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gaussianLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gaussianLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gaussianLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * gaussianLBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * gaussianLBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -803,8 +823,10 @@ func gaussianLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]fl
 // gaussianLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func gaussianLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -825,8 +847,10 @@ func gaussianLBFGSAnalyticAbs(v float64) float64 {
 func gaussianLBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
 	var h [3]float64
 	gaussianLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gaussianLBFGSAnalyticUnitRoundoff * gaussianLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gaussianLBFGSAnalyticUnitRoundoff * gaussianLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * gaussianLBFGSAnalyticUnitRoundoff * gaussianLBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * gaussianLBFGSAnalyticUnitRoundoff * gaussianLBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -928,10 +952,22 @@ func gaussianLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gauss
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gaussianLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = gaussianLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = gaussianLBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = gaussianLBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +977,14 @@ func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (meas
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gaussianLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*gaussianLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(gaussianLBFGSAnalyticAbs(s[0]) <= tol*gaussianLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gaussianLBFGSAnalyticAbs(s[1]) <= tol*gaussianLBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gaussianLBFGSAnalyticAbs(s[2]) <= tol*gaussianLBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -994,9 +1036,19 @@ func (f *gaussianLBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *gaussianLBF
 // step test, min over i of tol·gaussianLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gaussianLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gaussianLBFGSAnalyticStepScale(x[i], i, diffs) / gaussianLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gaussianLBFGSAnalyticStepScale(x[0], 0, diffs) / gaussianLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gaussianLBFGSAnalyticStepScale(x[1], 1, diffs) / gaussianLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gaussianLBFGSAnalyticStepScale(x[2], 2, diffs) / gaussianLBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1144,8 +1196,14 @@ func gaussianLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // gaussianLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func gaussianLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gaussianLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := gaussianLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianLBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianLBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1154,8 +1212,10 @@ func gaussianLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // gaussianLBFGSAnalyticScaleBy sets x = c·x.
 func gaussianLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1220,8 +1280,14 @@ func (r *gaussianLBFGSAnalyticRiseTrend) contradicts() bool {
 // gaussianLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gaussianLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gaussianLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(gaussianLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*gaussianLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gaussianLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*gaussianLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gaussianLBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*gaussianLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1270,8 +1336,10 @@ func gaussianLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float6
 
 // gaussianLBFGSAnalyticMoveTo sets out = x + t·d.
 func gaussianLBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1337,8 +1405,10 @@ func gaussianLBFGSAnalyticExpandTrial(previous, current *gaussianLBFGSAnalyticLi
 
 // gaussianLBFGSAnalyticGradientChange sets out = a − b.
 func gaussianLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

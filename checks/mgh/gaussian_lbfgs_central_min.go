@@ -600,8 +600,10 @@ func (s *gaussianLBFGSCentralDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * gaussianLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *gaussianLBFGSCentralDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := gaussianLBFGSCentralDot(&s.s[newest], &s.y[newest]) / gaussianLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *gaussianLBFGSCentralDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * gaussianLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	gaussianLBFGSCentralNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *gaussianLBFGSCentralDirection) firstTrial(t, slope, now float64) float6
 // gaussianLBFGSCentralDot returns aᵀb.
 func gaussianLBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // gaussianLBFGSCentralNegate sets out = −x.
 func gaussianLBFGSCentralNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func gaussianLBFGSCentralFinite(v float64) bool {
 
 // gaussianLBFGSCentralFiniteVec reports whether every component of x is finite.
 func gaussianLBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gaussianLBFGSCentralFinite(x[i]) {
+	{
+		if !gaussianLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !gaussianLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !gaussianLBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -805,16 +821,40 @@ func gaussianLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gaussianLBF
 		}
 	}
 	noise := gaussianLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := gaussianLBFGSCentralLarger(1, gaussianLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := gaussianLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = gaussianLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := gaussianLBFGSCentralLarger(1, gaussianLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := gaussianLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = gaussianLBFGSCentralClampBetween(h, 64*gaussianLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = gaussianLBFGSCentralClampBetween(h, 64*gaussianLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := gaussianLBFGSCentralLarger(1, gaussianLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := gaussianLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = gaussianLBFGSCentralClampBetween(h, 64*gaussianLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := gaussianLBFGSCentralLarger(1, gaussianLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := gaussianLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gaussianLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = gaussianLBFGSCentralClampBetween(h, 64*gaussianLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +948,10 @@ func gaussianLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func gaussianLBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := gaussianLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += gaussianLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += gaussianLBFGSCentralAbs(g[0] * x[0])
+		sum += gaussianLBFGSCentralAbs(g[1] * x[1])
+		sum += gaussianLBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * gaussianLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1078,19 @@ func gaussianLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gaussianLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += gaussianLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	gaussianLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gaussianLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gaussianLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * gaussianLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * gaussianLBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1055,16 +1101,42 @@ func gaussianLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 // in forwardError).
 func gaussianLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
 	noise := gaussianLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := gaussianLBFGSCentralCentralInterval(x, i, diffs)
-		h = gaussianLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := gaussianLBFGSCentralCentralInterval(x, 0, diffs)
+			h = gaussianLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gaussianLBFGSCentralCentralInterval(x, 1, diffs)
+			h = gaussianLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gaussianLBFGSCentralCentralInterval(x, 2, diffs)
+			h = gaussianLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1150,10 @@ func gaussianLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float
 func gaussianLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
 	var h [3]float64
 	gaussianLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gaussianLBFGSCentralUnitRoundoff * gaussianLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gaussianLBFGSCentralUnitRoundoff * gaussianLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * gaussianLBFGSCentralUnitRoundoff * gaussianLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * gaussianLBFGSCentralUnitRoundoff * gaussianLBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1107,10 +1181,22 @@ func gaussianLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussi
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gaussianLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = gaussianLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[1]), 1) / scale
+			measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = gaussianLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[2]), 1) / scale
+			measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = gaussianLBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1206,14 @@ func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gaussianLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*gaussianLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(gaussianLBFGSCentralAbs(s[0]) <= tol*gaussianLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gaussianLBFGSCentralAbs(s[1]) <= tol*gaussianLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gaussianLBFGSCentralAbs(s[2]) <= tol*gaussianLBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1265,19 @@ func (f *gaussianLBFGSCentralStepFloor) at(x, d *[3]float64, diffs *gaussianLBFG
 // step test, min over i of tol·gaussianLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gaussianLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gaussianLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gaussianLBFGSCentralStepScale(x[i], i, diffs) / gaussianLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gaussianLBFGSCentralStepScale(x[0], 0, diffs) / gaussianLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gaussianLBFGSCentralStepScale(x[1], 1, diffs) / gaussianLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gaussianLBFGSCentralStepScale(x[2], 2, diffs) / gaussianLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1425,14 @@ func gaussianLBFGSCentralShrinkDirection(d, g *[3]float64) {
 // gaussianLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func gaussianLBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gaussianLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := gaussianLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gaussianLBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1441,10 @@ func gaussianLBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // gaussianLBFGSCentralScaleBy sets x = c·x.
 func gaussianLBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1399,8 +1509,14 @@ func (r *gaussianLBFGSCentralRiseTrend) contradicts() bool {
 // gaussianLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gaussianLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(gaussianLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*gaussianLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gaussianLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*gaussianLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gaussianLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*gaussianLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1565,10 @@ func gaussianLBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64
 
 // gaussianLBFGSCentralMoveTo sets out = x + t·d.
 func gaussianLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1516,8 +1634,10 @@ func gaussianLBFGSCentralExpandTrial(previous, current *gaussianLBFGSCentralLine
 
 // gaussianLBFGSCentralGradientChange sets out = a − b.
 func gaussianLBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

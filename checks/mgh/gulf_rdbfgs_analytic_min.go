@@ -585,18 +585,34 @@ type gulfRDBFGSAnalyticDirection struct {
 }
 
 func (s *gulfRDBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *gulfRDBFGSAnalyticDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -gulfRDBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -gulfRDBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -gulfRDBFGSAnalyticDot(&s.h[1], g)
+		d[2] = -gulfRDBFGSAnalyticDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *gulfRDBFGSAnalyticDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / gulfRDBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *gulfRDBFGSAnalyticDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = gulfRDBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = gulfRDBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = gulfRDBFGSAnalyticDot(&s.h[1], change)
+		hy[2] = gulfRDBFGSAnalyticDot(&s.h[2], change)
 	}
 	outer := (rho*rho*gulfRDBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *gulfRDBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 
 // gulfRDBFGSAnalyticDot returns aᵀb.
 func gulfRDBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func gulfRDBFGSAnalyticFinite(v float64) bool {
 
 // gulfRDBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func gulfRDBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDBFGSAnalyticFinite(x[i]) {
+	{
+		if !gulfRDBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !gulfRDBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !gulfRDBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -754,15 +804,19 @@ func gulfRDBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gulfRDBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += gulfRDBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gulfRDBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gulfRDBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gulfRDBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * gulfRDBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * gulfRDBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -770,8 +824,10 @@ func gulfRDBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 // gulfRDBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func gulfRDBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -792,8 +848,10 @@ func gulfRDBFGSAnalyticAbs(v float64) float64 {
 func gulfRDBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
 	var h [3]float64
 	gulfRDBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gulfRDBFGSAnalyticUnitRoundoff * gulfRDBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gulfRDBFGSAnalyticUnitRoundoff * gulfRDBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * gulfRDBFGSAnalyticUnitRoundoff * gulfRDBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * gulfRDBFGSAnalyticUnitRoundoff * gulfRDBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -895,10 +953,22 @@ func gulfRDBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDBF
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gulfRDBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = gulfRDBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = gulfRDBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = gulfRDBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +978,14 @@ func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*gulfRDBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(gulfRDBFGSAnalyticAbs(s[0]) <= tol*gulfRDBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gulfRDBFGSAnalyticAbs(s[1]) <= tol*gulfRDBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gulfRDBFGSAnalyticAbs(s[2]) <= tol*gulfRDBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1037,19 @@ func (f *gulfRDBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *gulfRDBFGSAnal
 // step test, min over i of tol·gulfRDBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gulfRDBFGSAnalyticStepScale(x[i], i, diffs) / gulfRDBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gulfRDBFGSAnalyticStepScale(x[0], 0, diffs) / gulfRDBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gulfRDBFGSAnalyticStepScale(x[1], 1, diffs) / gulfRDBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gulfRDBFGSAnalyticStepScale(x[2], 2, diffs) / gulfRDBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1197,14 @@ func gulfRDBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // gulfRDBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func gulfRDBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gulfRDBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := gulfRDBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1213,10 @@ func gulfRDBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // gulfRDBFGSAnalyticScaleBy sets x = c·x.
 func gulfRDBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1187,8 +1281,14 @@ func (r *gulfRDBFGSAnalyticRiseTrend) contradicts() bool {
 // gulfRDBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gulfRDBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(gulfRDBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*gulfRDBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gulfRDBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*gulfRDBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gulfRDBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*gulfRDBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1337,10 @@ func gulfRDBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, 
 
 // gulfRDBFGSAnalyticMoveTo sets out = x + t·d.
 func gulfRDBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1304,8 +1406,10 @@ func gulfRDBFGSAnalyticExpandTrial(previous, current *gulfRDBFGSAnalyticLinePoin
 
 // gulfRDBFGSAnalyticGradientChange sets out = a − b.
 func gulfRDBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -585,18 +585,34 @@ type gulfRDBFGSCentralDirection struct {
 }
 
 func (s *gulfRDBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *gulfRDBFGSCentralDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -gulfRDBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -gulfRDBFGSCentralDot(&s.h[0], g)
+		d[1] = -gulfRDBFGSCentralDot(&s.h[1], g)
+		d[2] = -gulfRDBFGSCentralDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *gulfRDBFGSCentralDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / gulfRDBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *gulfRDBFGSCentralDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = gulfRDBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = gulfRDBFGSCentralDot(&s.h[0], change)
+		hy[1] = gulfRDBFGSCentralDot(&s.h[1], change)
+		hy[2] = gulfRDBFGSCentralDot(&s.h[2], change)
 	}
 	outer := (rho*rho*gulfRDBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *gulfRDBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 // gulfRDBFGSCentralDot returns aᵀb.
 func gulfRDBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func gulfRDBFGSCentralFinite(v float64) bool {
 
 // gulfRDBFGSCentralFiniteVec reports whether every component of x is finite.
 func gulfRDBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDBFGSCentralFinite(x[i]) {
+	{
+		if !gulfRDBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !gulfRDBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !gulfRDBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -772,16 +822,40 @@ func gulfRDBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDBFGSCent
 		}
 	}
 	noise := gulfRDBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := gulfRDBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = gulfRDBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := gulfRDBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = gulfRDBFGSCentralClampBetween(h, 64*gulfRDBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = gulfRDBFGSCentralClampBetween(h, 64*gulfRDBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := gulfRDBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = gulfRDBFGSCentralClampBetween(h, 64*gulfRDBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := gulfRDBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = gulfRDBFGSCentralClampBetween(h, 64*gulfRDBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +949,10 @@ func gulfRDBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func gulfRDBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := gulfRDBFGSCentralAbs(fx)
-	for i := range x {
-		sum += gulfRDBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += gulfRDBFGSCentralAbs(g[0] * x[0])
+		sum += gulfRDBFGSCentralAbs(g[1] * x[1])
+		sum += gulfRDBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * gulfRDBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1079,19 @@ func gulfRDBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gulfRDBFGSCentralDerivative(x, fx, g, diffs)
 	calls += gulfRDBFGSCentralDerivative(x, fx, &doubled, &wide)
 	gulfRDBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gulfRDBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gulfRDBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * gulfRDBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * gulfRDBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1022,16 +1102,42 @@ func gulfRDBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 // in forwardError).
 func gulfRDBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
 	noise := gulfRDBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := gulfRDBFGSCentralCentralInterval(x, i, diffs)
-		h = gulfRDBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := gulfRDBFGSCentralCentralInterval(x, 0, diffs)
+			h = gulfRDBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gulfRDBFGSCentralCentralInterval(x, 1, diffs)
+			h = gulfRDBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gulfRDBFGSCentralCentralInterval(x, 2, diffs)
+			h = gulfRDBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1151,10 @@ func gulfRDBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64,
 func gulfRDBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
 	var h [3]float64
 	gulfRDBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gulfRDBFGSCentralUnitRoundoff * gulfRDBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gulfRDBFGSCentralUnitRoundoff * gulfRDBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * gulfRDBFGSCentralUnitRoundoff * gulfRDBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * gulfRDBFGSCentralUnitRoundoff * gulfRDBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1074,10 +1182,22 @@ func gulfRDBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDBFG
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gulfRDBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[0])+e[0])*w)
+			floor = gulfRDBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[1]), 1) / scale
+			measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[1])+e[1])*w)
+			floor = gulfRDBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[2]), 1) / scale
+			measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[2])+e[2])*w)
+			floor = gulfRDBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1207,14 @@ func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*gulfRDBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(gulfRDBFGSCentralAbs(s[0]) <= tol*gulfRDBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gulfRDBFGSCentralAbs(s[1]) <= tol*gulfRDBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gulfRDBFGSCentralAbs(s[2]) <= tol*gulfRDBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1266,19 @@ func (f *gulfRDBFGSCentralStepFloor) at(x, d *[3]float64, diffs *gulfRDBFGSCentr
 // step test, min over i of tol·gulfRDBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gulfRDBFGSCentralStepScale(x[i], i, diffs) / gulfRDBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gulfRDBFGSCentralStepScale(x[0], 0, diffs) / gulfRDBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gulfRDBFGSCentralStepScale(x[1], 1, diffs) / gulfRDBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gulfRDBFGSCentralStepScale(x[2], 2, diffs) / gulfRDBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1426,14 @@ func gulfRDBFGSCentralShrinkDirection(d, g *[3]float64) {
 // gulfRDBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func gulfRDBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gulfRDBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := gulfRDBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1442,10 @@ func gulfRDBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // gulfRDBFGSCentralScaleBy sets x = c·x.
 func gulfRDBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1366,8 +1510,14 @@ func (r *gulfRDBFGSCentralRiseTrend) contradicts() bool {
 // gulfRDBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gulfRDBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(gulfRDBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*gulfRDBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gulfRDBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*gulfRDBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gulfRDBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*gulfRDBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1566,10 @@ func gulfRDBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b
 
 // gulfRDBFGSCentralMoveTo sets out = x + t·d.
 func gulfRDBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1483,8 +1635,10 @@ func gulfRDBFGSCentralExpandTrial(previous, current *gulfRDBFGSCentralLinePoint)
 
 // gulfRDBFGSCentralGradientChange sets out = a − b.
 func gulfRDBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -618,8 +618,10 @@ type gulfRDCGAnalyticDirection struct {
 func (s *gulfRDCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
 	}
 }
 
@@ -627,16 +629,20 @@ func (s *gulfRDCGAnalyticDirection) compute(g, d *[3]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := gulfRDCGAnalyticDot(g, &z), gulfRDCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && gulfRDCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = gulfRDCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +661,54 @@ func (s *gulfRDCGAnalyticDirection) compute(g, d *[3]float64) {
 func (s *gulfRDCGAnalyticDirection) update(step, change *[3]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
 	}
 	if !gulfRDCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && gulfRDCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && gulfRDCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && gulfRDCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && gulfRDCGAnalyticFinite(next) {
+				s.curvature[2] = next
+			}
 		}
 	}
 }
@@ -701,8 +733,10 @@ func (s *gulfRDCGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 // gulfRDCGAnalyticDot returns aᵀb.
 func gulfRDCGAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -781,8 +815,14 @@ func gulfRDCGAnalyticValue(x, g *[3]float64, diffs *gulfRDCGAnalyticDifferences)
 
 // gulfRDCGAnalyticFiniteVec reports whether every component of x is finite.
 func gulfRDCGAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDCGAnalyticFinite(x[i]) {
+	{
+		if !gulfRDCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !gulfRDCGAnalyticFinite(x[1]) {
+			return false
+		}
+		if !gulfRDCGAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -836,15 +876,19 @@ func gulfRDCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gulfRDCGAnalyticDerivative(x, fx, g, diffs)
 	calls += gulfRDCGAnalyticDerivative(x, fx, &doubled, &wide)
 	gulfRDCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gulfRDCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gulfRDCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * gulfRDCGAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * gulfRDCGAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -852,8 +896,10 @@ func gulfRDCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 // gulfRDCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func gulfRDCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -866,8 +912,10 @@ func gulfRDCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, 
 func gulfRDCGAnalyticRoundingFloor(x, g, e *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
 	var h [3]float64
 	gulfRDCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gulfRDCGAnalyticUnitRoundoff * gulfRDCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gulfRDCGAnalyticUnitRoundoff * gulfRDCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * gulfRDCGAnalyticUnitRoundoff * gulfRDCGAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * gulfRDCGAnalyticUnitRoundoff * gulfRDCGAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -959,10 +1007,22 @@ func gulfRDCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDCGAn
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[i])+e[i])*w)
-		floor = gulfRDCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[0])+e[0])*w)
+			floor = gulfRDCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[1]), 1) / scale
+			measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[1])+e[1])*w)
+			floor = gulfRDCGAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[2]), 1) / scale
+			measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[2])+e[2])*w)
+			floor = gulfRDCGAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1032,14 @@ func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*gulfRDCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(gulfRDCGAnalyticAbs(s[0]) <= tol*gulfRDCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gulfRDCGAnalyticAbs(s[1]) <= tol*gulfRDCGAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gulfRDCGAnalyticAbs(s[2]) <= tol*gulfRDCGAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1025,9 +1091,19 @@ func (f *gulfRDCGAnalyticStepFloor) at(x, d *[3]float64, diffs *gulfRDCGAnalytic
 // step test, min over i of tol·gulfRDCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gulfRDCGAnalyticStepScale(x[i], i, diffs) / gulfRDCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gulfRDCGAnalyticStepScale(x[0], 0, diffs) / gulfRDCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gulfRDCGAnalyticStepScale(x[1], 1, diffs) / gulfRDCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gulfRDCGAnalyticStepScale(x[2], 2, diffs) / gulfRDCGAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1175,8 +1251,14 @@ func gulfRDCGAnalyticShrinkDirection(d, g *[3]float64) {
 // gulfRDCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func gulfRDCGAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gulfRDCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := gulfRDCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDCGAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDCGAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1185,8 +1267,10 @@ func gulfRDCGAnalyticMaxAbs(x *[3]float64) float64 {
 
 // gulfRDCGAnalyticScaleBy sets x = c·x.
 func gulfRDCGAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1251,8 +1335,14 @@ func (r *gulfRDCGAnalyticRiseTrend) contradicts() bool {
 // gulfRDCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gulfRDCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(gulfRDCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*gulfRDCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gulfRDCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*gulfRDCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gulfRDCGAnalyticAbs(xt[2]-x[2]-want) <= 0.01*gulfRDCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1301,8 +1391,10 @@ func gulfRDCGAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b 
 
 // gulfRDCGAnalyticMoveTo sets out = x + t·d.
 func gulfRDCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1368,8 +1460,10 @@ func gulfRDCGAnalyticExpandTrial(previous, current *gulfRDCGAnalyticLinePoint) f
 
 // gulfRDCGAnalyticGradientChange sets out = a − b.
 func gulfRDCGAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -618,8 +618,10 @@ type gulfRDCGCentralDirection struct {
 func (s *gulfRDCGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
 	}
 }
 
@@ -627,16 +629,20 @@ func (s *gulfRDCGCentralDirection) compute(g, d *[3]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := gulfRDCGCentralDot(g, &z), gulfRDCGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && gulfRDCGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = gulfRDCGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +661,54 @@ func (s *gulfRDCGCentralDirection) compute(g, d *[3]float64) {
 func (s *gulfRDCGCentralDirection) update(step, change *[3]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
 	}
 	if !gulfRDCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && gulfRDCGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && gulfRDCGCentralFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && gulfRDCGCentralFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && gulfRDCGCentralFinite(next) {
+				s.curvature[2] = next
+			}
 		}
 	}
 }
@@ -701,8 +733,10 @@ func (s *gulfRDCGCentralDirection) firstTrial(t, slope, now float64) float64 {
 // gulfRDCGCentralDot returns aᵀb.
 func gulfRDCGCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -781,8 +815,14 @@ func gulfRDCGCentralValue(x, g *[3]float64, diffs *gulfRDCGCentralDifferences) f
 
 // gulfRDCGCentralFiniteVec reports whether every component of x is finite.
 func gulfRDCGCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDCGCentralFinite(x[i]) {
+	{
+		if !gulfRDCGCentralFinite(x[0]) {
+			return false
+		}
+		if !gulfRDCGCentralFinite(x[1]) {
+			return false
+		}
+		if !gulfRDCGCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -854,16 +894,40 @@ func gulfRDCGCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDCGCentralD
 		}
 	}
 	noise := gulfRDCGCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(probe[i]))
-		bar := quarter * s
-		third := gulfRDCGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = gulfRDCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(probe[0]))
+			bar := quarter * s
+			third := gulfRDCGCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = gulfRDCGCentralClampBetween(h, 64*gulfRDCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = gulfRDCGCentralClampBetween(h, 64*gulfRDCGCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(probe[1]))
+			bar := quarter * s
+			third := gulfRDCGCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = gulfRDCGCentralClampBetween(h, 64*gulfRDCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(probe[2]))
+			bar := quarter * s
+			third := gulfRDCGCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = gulfRDCGCentralClampBetween(h, 64*gulfRDCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -939,8 +1003,10 @@ func gulfRDCGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func gulfRDCGCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := gulfRDCGCentralAbs(fx)
-	for i := range x {
-		sum += gulfRDCGCentralAbs(g[i] * x[i])
+	{
+		sum += gulfRDCGCentralAbs(g[0] * x[0])
+		sum += gulfRDCGCentralAbs(g[1] * x[1])
+		sum += gulfRDCGCentralAbs(g[2] * x[2])
 	}
 	return 4 * gulfRDCGCentralUnitRoundoff * sum
 }
@@ -1067,15 +1133,19 @@ func gulfRDCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gulfRDCGCentralDerivative(x, fx, g, diffs)
 	calls += gulfRDCGCentralDerivative(x, fx, &doubled, &wide)
 	gulfRDCGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gulfRDCGCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gulfRDCGCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * gulfRDCGCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * gulfRDCGCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1086,16 +1156,42 @@ func gulfRDCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 // in forwardError).
 func gulfRDCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGCentralDifferences) {
 	noise := gulfRDCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := gulfRDCGCentralCentralInterval(x, i, diffs)
-		h = gulfRDCGCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := gulfRDCGCentralCentralInterval(x, 0, diffs)
+			h = gulfRDCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gulfRDCGCentralCentralInterval(x, 1, diffs)
+			h = gulfRDCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gulfRDCGCentralCentralInterval(x, 2, diffs)
+			h = gulfRDCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1109,8 +1205,10 @@ func gulfRDCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, d
 func gulfRDCGCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDCGCentralDifferences) {
 	var h [3]float64
 	gulfRDCGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gulfRDCGCentralUnitRoundoff * gulfRDCGCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gulfRDCGCentralUnitRoundoff * gulfRDCGCentralAbs(x[0]) * h[0]
+		e[1] += 4 * gulfRDCGCentralUnitRoundoff * gulfRDCGCentralAbs(x[1]) * h[1]
+		e[2] += 4 * gulfRDCGCentralUnitRoundoff * gulfRDCGCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1138,10 +1236,22 @@ func gulfRDCGCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDCGCen
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gulfRDCGCentralLarger(gulfRDCGCentralAbs(fx), 1)
-	for i := range g {
-		w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[i])+e[i])*w)
-		floor = gulfRDCGCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[0])+e[0])*w)
+			floor = gulfRDCGCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[1]), 1) / scale
+			measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[1])+e[1])*w)
+			floor = gulfRDCGCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[2]), 1) / scale
+			measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[2])+e[2])*w)
+			floor = gulfRDCGCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1151,8 +1261,14 @@ func gulfRDCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gulfRDCGCentralStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDCGCentralDifferences) bool {
-	for i := range s {
-		if !(gulfRDCGCentralAbs(s[i]) <= tol*gulfRDCGCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(gulfRDCGCentralAbs(s[0]) <= tol*gulfRDCGCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gulfRDCGCentralAbs(s[1]) <= tol*gulfRDCGCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gulfRDCGCentralAbs(s[2]) <= tol*gulfRDCGCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1204,9 +1320,19 @@ func (f *gulfRDCGCentralStepFloor) at(x, d *[3]float64, diffs *gulfRDCGCentralDi
 // step test, min over i of tol·gulfRDCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDCGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gulfRDCGCentralStepScale(x[i], i, diffs) / gulfRDCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gulfRDCGCentralStepScale(x[0], 0, diffs) / gulfRDCGCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gulfRDCGCentralStepScale(x[1], 1, diffs) / gulfRDCGCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gulfRDCGCentralStepScale(x[2], 2, diffs) / gulfRDCGCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1354,8 +1480,14 @@ func gulfRDCGCentralShrinkDirection(d, g *[3]float64) {
 // gulfRDCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func gulfRDCGCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gulfRDCGCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := gulfRDCGCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDCGCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDCGCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1364,8 +1496,10 @@ func gulfRDCGCentralMaxAbs(x *[3]float64) float64 {
 
 // gulfRDCGCentralScaleBy sets x = c·x.
 func gulfRDCGCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1430,8 +1564,14 @@ func (r *gulfRDCGCentralRiseTrend) contradicts() bool {
 // gulfRDCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gulfRDCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDCGCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDCGCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(gulfRDCGCentralAbs(xt[0]-x[0]-want) <= 0.01*gulfRDCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gulfRDCGCentralAbs(xt[1]-x[1]-want) <= 0.01*gulfRDCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gulfRDCGCentralAbs(xt[2]-x[2]-want) <= 0.01*gulfRDCGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1480,8 +1620,10 @@ func gulfRDCGCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *
 
 // gulfRDCGCentralMoveTo sets out = x + t·d.
 func gulfRDCGCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1547,8 +1689,10 @@ func gulfRDCGCentralExpandTrial(previous, current *gulfRDCGCentralLinePoint) flo
 
 // gulfRDCGCentralGradientChange sets out = a − b.
 func gulfRDCGCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -600,8 +600,10 @@ func (s *gulfRDLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * gulfRDLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *gulfRDLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := gulfRDLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / gulfRDLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *gulfRDLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * gulfRDLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	gulfRDLBFGSAnalyticNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *gulfRDLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64
 // gulfRDLBFGSAnalyticDot returns aᵀb.
 func gulfRDLBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // gulfRDLBFGSAnalyticNegate sets out = −x.
 func gulfRDLBFGSAnalyticNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func gulfRDLBFGSAnalyticFinite(v float64) bool {
 
 // gulfRDLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func gulfRDLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDLBFGSAnalyticFinite(x[i]) {
+	{
+		if !gulfRDLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !gulfRDLBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !gulfRDLBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -787,15 +803,19 @@ func gulfRDLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gulfRDLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += gulfRDLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gulfRDLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gulfRDLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gulfRDLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * gulfRDLBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * gulfRDLBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -803,8 +823,10 @@ func gulfRDLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 // gulfRDLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func gulfRDLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -825,8 +847,10 @@ func gulfRDLBFGSAnalyticAbs(v float64) float64 {
 func gulfRDLBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
 	var h [3]float64
 	gulfRDLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gulfRDLBFGSAnalyticUnitRoundoff * gulfRDLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gulfRDLBFGSAnalyticUnitRoundoff * gulfRDLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * gulfRDLBFGSAnalyticUnitRoundoff * gulfRDLBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * gulfRDLBFGSAnalyticUnitRoundoff * gulfRDLBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -928,10 +952,22 @@ func gulfRDLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDL
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gulfRDLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = gulfRDLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = gulfRDLBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = gulfRDLBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +977,14 @@ func gulfRDLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gulfRDLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(gulfRDLBFGSAnalyticAbs(s[i]) <= tol*gulfRDLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(gulfRDLBFGSAnalyticAbs(s[0]) <= tol*gulfRDLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gulfRDLBFGSAnalyticAbs(s[1]) <= tol*gulfRDLBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gulfRDLBFGSAnalyticAbs(s[2]) <= tol*gulfRDLBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -994,9 +1036,19 @@ func (f *gulfRDLBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *gulfRDLBFGSAn
 // step test, min over i of tol·gulfRDLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gulfRDLBFGSAnalyticStepScale(x[i], i, diffs) / gulfRDLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gulfRDLBFGSAnalyticStepScale(x[0], 0, diffs) / gulfRDLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gulfRDLBFGSAnalyticStepScale(x[1], 1, diffs) / gulfRDLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gulfRDLBFGSAnalyticStepScale(x[2], 2, diffs) / gulfRDLBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1144,8 +1196,14 @@ func gulfRDLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // gulfRDLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func gulfRDLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gulfRDLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := gulfRDLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDLBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDLBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1154,8 +1212,10 @@ func gulfRDLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // gulfRDLBFGSAnalyticScaleBy sets x = c·x.
 func gulfRDLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1220,8 +1280,14 @@ func (r *gulfRDLBFGSAnalyticRiseTrend) contradicts() bool {
 // gulfRDLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gulfRDLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(gulfRDLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*gulfRDLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gulfRDLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*gulfRDLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gulfRDLBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*gulfRDLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1270,8 +1336,10 @@ func gulfRDLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64,
 
 // gulfRDLBFGSAnalyticMoveTo sets out = x + t·d.
 func gulfRDLBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1337,8 +1405,10 @@ func gulfRDLBFGSAnalyticExpandTrial(previous, current *gulfRDLBFGSAnalyticLinePo
 
 // gulfRDLBFGSAnalyticGradientChange sets out = a − b.
 func gulfRDLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

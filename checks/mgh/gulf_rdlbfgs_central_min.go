@@ -600,8 +600,10 @@ func (s *gulfRDLBFGSCentralDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * gulfRDLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *gulfRDLBFGSCentralDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := gulfRDLBFGSCentralDot(&s.s[newest], &s.y[newest]) / gulfRDLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *gulfRDLBFGSCentralDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * gulfRDLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	gulfRDLBFGSCentralNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *gulfRDLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 
 // gulfRDLBFGSCentralDot returns aᵀb.
 func gulfRDLBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // gulfRDLBFGSCentralNegate sets out = −x.
 func gulfRDLBFGSCentralNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func gulfRDLBFGSCentralFinite(v float64) bool {
 
 // gulfRDLBFGSCentralFiniteVec reports whether every component of x is finite.
 func gulfRDLBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !gulfRDLBFGSCentralFinite(x[i]) {
+	{
+		if !gulfRDLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !gulfRDLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !gulfRDLBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -805,16 +821,40 @@ func gulfRDLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDLBFGSCe
 		}
 	}
 	noise := gulfRDLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := gulfRDLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = gulfRDLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := gulfRDLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = gulfRDLBFGSCentralClampBetween(h, 64*gulfRDLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = gulfRDLBFGSCentralClampBetween(h, 64*gulfRDLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := gulfRDLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = gulfRDLBFGSCentralClampBetween(h, 64*gulfRDLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := gulfRDLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = gulfRDLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = gulfRDLBFGSCentralClampBetween(h, 64*gulfRDLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +948,10 @@ func gulfRDLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func gulfRDLBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := gulfRDLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += gulfRDLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += gulfRDLBFGSCentralAbs(g[0] * x[0])
+		sum += gulfRDLBFGSCentralAbs(g[1] * x[1])
+		sum += gulfRDLBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * gulfRDLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1078,19 @@ func gulfRDLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += gulfRDLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += gulfRDLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	gulfRDLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * gulfRDLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * gulfRDLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * gulfRDLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * gulfRDLBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1055,16 +1101,42 @@ func gulfRDLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 // in forwardError).
 func gulfRDLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
 	noise := gulfRDLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := gulfRDLBFGSCentralCentralInterval(x, i, diffs)
-		h = gulfRDLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := gulfRDLBFGSCentralCentralInterval(x, 0, diffs)
+			h = gulfRDLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gulfRDLBFGSCentralCentralInterval(x, 1, diffs)
+			h = gulfRDLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := gulfRDLBFGSCentralCentralInterval(x, 2, diffs)
+			h = gulfRDLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1150,10 @@ func gulfRDLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64
 func gulfRDLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
 	var h [3]float64
 	gulfRDLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * gulfRDLBFGSCentralUnitRoundoff * gulfRDLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * gulfRDLBFGSCentralUnitRoundoff * gulfRDLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * gulfRDLBFGSCentralUnitRoundoff * gulfRDLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * gulfRDLBFGSCentralUnitRoundoff * gulfRDLBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1107,10 +1181,22 @@ func gulfRDLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDLB
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gulfRDLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = gulfRDLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[1]), 1) / scale
+			measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = gulfRDLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[2]), 1) / scale
+			measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = gulfRDLBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1206,14 @@ func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *gulfRDLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*gulfRDLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(gulfRDLBFGSCentralAbs(s[0]) <= tol*gulfRDLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(gulfRDLBFGSCentralAbs(s[1]) <= tol*gulfRDLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(gulfRDLBFGSCentralAbs(s[2]) <= tol*gulfRDLBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1265,19 @@ func (f *gulfRDLBFGSCentralStepFloor) at(x, d *[3]float64, diffs *gulfRDLBFGSCen
 // step test, min over i of tol·gulfRDLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *gulfRDLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * gulfRDLBFGSCentralStepScale(x[i], i, diffs) / gulfRDLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * gulfRDLBFGSCentralStepScale(x[0], 0, diffs) / gulfRDLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * gulfRDLBFGSCentralStepScale(x[1], 1, diffs) / gulfRDLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * gulfRDLBFGSCentralStepScale(x[2], 2, diffs) / gulfRDLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1425,14 @@ func gulfRDLBFGSCentralShrinkDirection(d, g *[3]float64) {
 // gulfRDLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func gulfRDLBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := gulfRDLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := gulfRDLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := gulfRDLBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1441,10 @@ func gulfRDLBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // gulfRDLBFGSCentralScaleBy sets x = c·x.
 func gulfRDLBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1399,8 +1509,14 @@ func (r *gulfRDLBFGSCentralRiseTrend) contradicts() bool {
 // gulfRDLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func gulfRDLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(gulfRDLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*gulfRDLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(gulfRDLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*gulfRDLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(gulfRDLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*gulfRDLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1565,10 @@ func gulfRDLBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, 
 
 // gulfRDLBFGSCentralMoveTo sets out = x + t·d.
 func gulfRDLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1516,8 +1634,10 @@ func gulfRDLBFGSCentralExpandTrial(previous, current *gulfRDLBFGSCentralLinePoin
 
 // gulfRDLBFGSCentralGradientChange sets out = a − b.
 func gulfRDLBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

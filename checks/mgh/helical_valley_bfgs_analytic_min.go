@@ -585,18 +585,34 @@ type helicalValleyBFGSAnalyticDirection struct {
 }
 
 func (s *helicalValleyBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *helicalValleyBFGSAnalyticDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -helicalValleyBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -helicalValleyBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -helicalValleyBFGSAnalyticDot(&s.h[1], g)
+		d[2] = -helicalValleyBFGSAnalyticDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *helicalValleyBFGSAnalyticDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / helicalValleyBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *helicalValleyBFGSAnalyticDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = helicalValleyBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = helicalValleyBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = helicalValleyBFGSAnalyticDot(&s.h[1], change)
+		hy[2] = helicalValleyBFGSAnalyticDot(&s.h[2], change)
 	}
 	outer := (rho*rho*helicalValleyBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *helicalValleyBFGSAnalyticDirection) firstTrial(t, slope, now float64) f
 // helicalValleyBFGSAnalyticDot returns aᵀb.
 func helicalValleyBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func helicalValleyBFGSAnalyticFinite(v float64) bool {
 
 // helicalValleyBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func helicalValleyBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyBFGSAnalyticFinite(x[i]) {
+	{
+		if !helicalValleyBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !helicalValleyBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !helicalValleyBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -754,15 +804,19 @@ func helicalValleyBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += helicalValleyBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += helicalValleyBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	helicalValleyBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * helicalValleyBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * helicalValleyBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * helicalValleyBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * helicalValleyBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -770,8 +824,10 @@ func helicalValleyBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[
 // helicalValleyBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func helicalValleyBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -792,8 +848,10 @@ func helicalValleyBFGSAnalyticAbs(v float64) float64 {
 func helicalValleyBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
 	var h [3]float64
 	helicalValleyBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * helicalValleyBFGSAnalyticUnitRoundoff * helicalValleyBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * helicalValleyBFGSAnalyticUnitRoundoff * helicalValleyBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * helicalValleyBFGSAnalyticUnitRoundoff * helicalValleyBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * helicalValleyBFGSAnalyticUnitRoundoff * helicalValleyBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -895,10 +953,22 @@ func helicalValleyBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *h
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = helicalValleyBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = helicalValleyBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = helicalValleyBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = helicalValleyBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +978,14 @@ func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*helicalValleyBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(helicalValleyBFGSAnalyticAbs(s[0]) <= tol*helicalValleyBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(helicalValleyBFGSAnalyticAbs(s[1]) <= tol*helicalValleyBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(helicalValleyBFGSAnalyticAbs(s[2]) <= tol*helicalValleyBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -962,9 +1038,19 @@ func (f *helicalValleyBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *helical
 // step test, min over i of tol·helicalValleyBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * helicalValleyBFGSAnalyticStepScale(x[i], i, diffs) / helicalValleyBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * helicalValleyBFGSAnalyticStepScale(x[0], 0, diffs) / helicalValleyBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * helicalValleyBFGSAnalyticStepScale(x[1], 1, diffs) / helicalValleyBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * helicalValleyBFGSAnalyticStepScale(x[2], 2, diffs) / helicalValleyBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1198,14 @@ func helicalValleyBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // helicalValleyBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func helicalValleyBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := helicalValleyBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := helicalValleyBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1214,10 @@ func helicalValleyBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // helicalValleyBFGSAnalyticScaleBy sets x = c·x.
 func helicalValleyBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1188,8 +1282,14 @@ func (r *helicalValleyBFGSAnalyticRiseTrend) contradicts() bool {
 // helicalValleyBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func helicalValleyBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(helicalValleyBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*helicalValleyBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(helicalValleyBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*helicalValleyBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(helicalValleyBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*helicalValleyBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1238,8 +1338,10 @@ func helicalValleyBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]fl
 
 // helicalValleyBFGSAnalyticMoveTo sets out = x + t·d.
 func helicalValleyBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1305,8 +1407,10 @@ func helicalValleyBFGSAnalyticExpandTrial(previous, current *helicalValleyBFGSAn
 
 // helicalValleyBFGSAnalyticGradientChange sets out = a − b.
 func helicalValleyBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

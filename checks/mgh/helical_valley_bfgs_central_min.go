@@ -585,18 +585,34 @@ type helicalValleyBFGSCentralDirection struct {
 }
 
 func (s *helicalValleyBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *helicalValleyBFGSCentralDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -helicalValleyBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -helicalValleyBFGSCentralDot(&s.h[0], g)
+		d[1] = -helicalValleyBFGSCentralDot(&s.h[1], g)
+		d[2] = -helicalValleyBFGSCentralDot(&s.h[2], g)
 	}
 }
 
@@ -607,8 +623,10 @@ func (s *helicalValleyBFGSCentralDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / helicalValleyBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +634,41 @@ func (s *helicalValleyBFGSCentralDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = helicalValleyBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = helicalValleyBFGSCentralDot(&s.h[0], change)
+		hy[1] = helicalValleyBFGSCentralDot(&s.h[1], change)
+		hy[2] = helicalValleyBFGSCentralDot(&s.h[2], change)
 	}
 	outer := (rho*rho*helicalValleyBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -643,8 +685,10 @@ func (s *helicalValleyBFGSCentralDirection) firstTrial(t, slope, now float64) fl
 // helicalValleyBFGSCentralDot returns aᵀb.
 func helicalValleyBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -699,8 +743,14 @@ func helicalValleyBFGSCentralFinite(v float64) bool {
 
 // helicalValleyBFGSCentralFiniteVec reports whether every component of x is finite.
 func helicalValleyBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyBFGSCentralFinite(x[i]) {
+	{
+		if !helicalValleyBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !helicalValleyBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !helicalValleyBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -772,16 +822,40 @@ func helicalValleyBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *helical
 		}
 	}
 	noise := helicalValleyBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := helicalValleyBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = helicalValleyBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := helicalValleyBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = helicalValleyBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = helicalValleyBFGSCentralClampBetween(h, 64*helicalValleyBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = helicalValleyBFGSCentralClampBetween(h, 64*helicalValleyBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := helicalValleyBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = helicalValleyBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = helicalValleyBFGSCentralClampBetween(h, 64*helicalValleyBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := helicalValleyBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = helicalValleyBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = helicalValleyBFGSCentralClampBetween(h, 64*helicalValleyBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +949,10 @@ func helicalValleyBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func helicalValleyBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := helicalValleyBFGSCentralAbs(fx)
-	for i := range x {
-		sum += helicalValleyBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += helicalValleyBFGSCentralAbs(g[0] * x[0])
+		sum += helicalValleyBFGSCentralAbs(g[1] * x[1])
+		sum += helicalValleyBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * helicalValleyBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1079,19 @@ func helicalValleyBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += helicalValleyBFGSCentralDerivative(x, fx, g, diffs)
 	calls += helicalValleyBFGSCentralDerivative(x, fx, &doubled, &wide)
 	helicalValleyBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * helicalValleyBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * helicalValleyBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * helicalValleyBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * helicalValleyBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1022,16 +1102,42 @@ func helicalValleyBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3
 // in forwardError).
 func helicalValleyBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
 	noise := helicalValleyBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := helicalValleyBFGSCentralCentralInterval(x, i, diffs)
-		h = helicalValleyBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := helicalValleyBFGSCentralCentralInterval(x, 0, diffs)
+			h = helicalValleyBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := helicalValleyBFGSCentralCentralInterval(x, 1, diffs)
+			h = helicalValleyBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := helicalValleyBFGSCentralCentralInterval(x, 2, diffs)
+			h = helicalValleyBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1151,10 @@ func helicalValleyBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]f
 func helicalValleyBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
 	var h [3]float64
 	helicalValleyBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * helicalValleyBFGSCentralUnitRoundoff * helicalValleyBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * helicalValleyBFGSCentralUnitRoundoff * helicalValleyBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * helicalValleyBFGSCentralUnitRoundoff * helicalValleyBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * helicalValleyBFGSCentralUnitRoundoff * helicalValleyBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1074,10 +1182,22 @@ func helicalValleyBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *he
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[i])+e[i])*w)
-		floor = helicalValleyBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[0])+e[0])*w)
+			floor = helicalValleyBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[1]), 1) / scale
+			measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[1])+e[1])*w)
+			floor = helicalValleyBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[2]), 1) / scale
+			measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[2])+e[2])*w)
+			floor = helicalValleyBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1207,14 @@ func helicalValleyBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (m
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func helicalValleyBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(helicalValleyBFGSCentralAbs(s[i]) <= tol*helicalValleyBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(helicalValleyBFGSCentralAbs(s[0]) <= tol*helicalValleyBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(helicalValleyBFGSCentralAbs(s[1]) <= tol*helicalValleyBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(helicalValleyBFGSCentralAbs(s[2]) <= tol*helicalValleyBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1141,9 +1267,19 @@ func (f *helicalValleyBFGSCentralStepFloor) at(x, d *[3]float64, diffs *helicalV
 // step test, min over i of tol·helicalValleyBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * helicalValleyBFGSCentralStepScale(x[i], i, diffs) / helicalValleyBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * helicalValleyBFGSCentralStepScale(x[0], 0, diffs) / helicalValleyBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * helicalValleyBFGSCentralStepScale(x[1], 1, diffs) / helicalValleyBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * helicalValleyBFGSCentralStepScale(x[2], 2, diffs) / helicalValleyBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1291,8 +1427,14 @@ func helicalValleyBFGSCentralShrinkDirection(d, g *[3]float64) {
 // helicalValleyBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func helicalValleyBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := helicalValleyBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := helicalValleyBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1301,8 +1443,10 @@ func helicalValleyBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // helicalValleyBFGSCentralScaleBy sets x = c·x.
 func helicalValleyBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1367,8 +1511,14 @@ func (r *helicalValleyBFGSCentralRiseTrend) contradicts() bool {
 // helicalValleyBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func helicalValleyBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(helicalValleyBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*helicalValleyBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(helicalValleyBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*helicalValleyBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(helicalValleyBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*helicalValleyBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1417,8 +1567,10 @@ func helicalValleyBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]flo
 
 // helicalValleyBFGSCentralMoveTo sets out = x + t·d.
 func helicalValleyBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1484,8 +1636,10 @@ func helicalValleyBFGSCentralExpandTrial(previous, current *helicalValleyBFGSCen
 
 // helicalValleyBFGSCentralGradientChange sets out = a − b.
 func helicalValleyBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -618,8 +618,10 @@ type helicalValleyCGAnalyticDirection struct {
 func (s *helicalValleyCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
 	}
 }
 
@@ -627,16 +629,20 @@ func (s *helicalValleyCGAnalyticDirection) compute(g, d *[3]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := helicalValleyCGAnalyticDot(g, &z), helicalValleyCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && helicalValleyCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = helicalValleyCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +661,54 @@ func (s *helicalValleyCGAnalyticDirection) compute(g, d *[3]float64) {
 func (s *helicalValleyCGAnalyticDirection) update(step, change *[3]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
 	}
 	if !helicalValleyCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && helicalValleyCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && helicalValleyCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && helicalValleyCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && helicalValleyCGAnalyticFinite(next) {
+				s.curvature[2] = next
+			}
 		}
 	}
 }
@@ -701,8 +733,10 @@ func (s *helicalValleyCGAnalyticDirection) firstTrial(t, slope, now float64) flo
 // helicalValleyCGAnalyticDot returns aᵀb.
 func helicalValleyCGAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -781,8 +815,14 @@ func helicalValleyCGAnalyticValue(x, g *[3]float64, diffs *helicalValleyCGAnalyt
 
 // helicalValleyCGAnalyticFiniteVec reports whether every component of x is finite.
 func helicalValleyCGAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyCGAnalyticFinite(x[i]) {
+	{
+		if !helicalValleyCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !helicalValleyCGAnalyticFinite(x[1]) {
+			return false
+		}
+		if !helicalValleyCGAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -836,15 +876,19 @@ func helicalValleyCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += helicalValleyCGAnalyticDerivative(x, fx, g, diffs)
 	calls += helicalValleyCGAnalyticDerivative(x, fx, &doubled, &wide)
 	helicalValleyCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * helicalValleyCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * helicalValleyCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * helicalValleyCGAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * helicalValleyCGAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -852,8 +896,10 @@ func helicalValleyCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]
 // helicalValleyCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func helicalValleyCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -866,8 +912,10 @@ func helicalValleyCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]fl
 func helicalValleyCGAnalyticRoundingFloor(x, g, e *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
 	var h [3]float64
 	helicalValleyCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * helicalValleyCGAnalyticUnitRoundoff * helicalValleyCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * helicalValleyCGAnalyticUnitRoundoff * helicalValleyCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * helicalValleyCGAnalyticUnitRoundoff * helicalValleyCGAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * helicalValleyCGAnalyticUnitRoundoff * helicalValleyCGAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -959,10 +1007,22 @@ func helicalValleyCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *hel
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[i])+e[i])*w)
-		floor = helicalValleyCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[0])+e[0])*w)
+			floor = helicalValleyCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[1]), 1) / scale
+			measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[1])+e[1])*w)
+			floor = helicalValleyCGAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[2]), 1) / scale
+			measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[2])+e[2])*w)
+			floor = helicalValleyCGAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1032,14 @@ func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*helicalValleyCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(helicalValleyCGAnalyticAbs(s[0]) <= tol*helicalValleyCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(helicalValleyCGAnalyticAbs(s[1]) <= tol*helicalValleyCGAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(helicalValleyCGAnalyticAbs(s[2]) <= tol*helicalValleyCGAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1092,19 @@ func (f *helicalValleyCGAnalyticStepFloor) at(x, d *[3]float64, diffs *helicalVa
 // step test, min over i of tol·helicalValleyCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * helicalValleyCGAnalyticStepScale(x[i], i, diffs) / helicalValleyCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * helicalValleyCGAnalyticStepScale(x[0], 0, diffs) / helicalValleyCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * helicalValleyCGAnalyticStepScale(x[1], 1, diffs) / helicalValleyCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * helicalValleyCGAnalyticStepScale(x[2], 2, diffs) / helicalValleyCGAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1252,14 @@ func helicalValleyCGAnalyticShrinkDirection(d, g *[3]float64) {
 // helicalValleyCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func helicalValleyCGAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := helicalValleyCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := helicalValleyCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyCGAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyCGAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1268,10 @@ func helicalValleyCGAnalyticMaxAbs(x *[3]float64) float64 {
 
 // helicalValleyCGAnalyticScaleBy sets x = c·x.
 func helicalValleyCGAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1252,8 +1336,14 @@ func (r *helicalValleyCGAnalyticRiseTrend) contradicts() bool {
 // helicalValleyCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func helicalValleyCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(helicalValleyCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*helicalValleyCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(helicalValleyCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*helicalValleyCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(helicalValleyCGAnalyticAbs(xt[2]-x[2]-want) <= 0.01*helicalValleyCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1392,10 @@ func helicalValleyCGAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]floa
 
 // helicalValleyCGAnalyticMoveTo sets out = x + t·d.
 func helicalValleyCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1369,8 +1461,10 @@ func helicalValleyCGAnalyticExpandTrial(previous, current *helicalValleyCGAnalyt
 
 // helicalValleyCGAnalyticGradientChange sets out = a − b.
 func helicalValleyCGAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

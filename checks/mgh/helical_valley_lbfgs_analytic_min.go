@@ -600,8 +600,10 @@ func (s *helicalValleyLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * helicalValleyLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *helicalValleyLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := helicalValleyLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / helicalValleyLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *helicalValleyLBFGSAnalyticDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * helicalValleyLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	helicalValleyLBFGSAnalyticNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *helicalValleyLBFGSAnalyticDirection) firstTrial(t, slope, now float64) 
 // helicalValleyLBFGSAnalyticDot returns aᵀb.
 func helicalValleyLBFGSAnalyticDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // helicalValleyLBFGSAnalyticNegate sets out = −x.
 func helicalValleyLBFGSAnalyticNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func helicalValleyLBFGSAnalyticFinite(v float64) bool {
 
 // helicalValleyLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func helicalValleyLBFGSAnalyticFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyLBFGSAnalyticFinite(x[i]) {
+	{
+		if !helicalValleyLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !helicalValleyLBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !helicalValleyLBFGSAnalyticFinite(x[2]) {
 			return false
 		}
 	}
@@ -787,15 +803,19 @@ func helicalValleyLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += helicalValleyLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += helicalValleyLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	helicalValleyLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * helicalValleyLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * helicalValleyLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * helicalValleyLBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * helicalValleyLBFGSAnalyticAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -803,8 +823,10 @@ func helicalValleyLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *
 // helicalValleyLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func helicalValleyLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
 	}
 }
 
@@ -825,8 +847,10 @@ func helicalValleyLBFGSAnalyticAbs(v float64) float64 {
 func helicalValleyLBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
 	var h [3]float64
 	helicalValleyLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * helicalValleyLBFGSAnalyticUnitRoundoff * helicalValleyLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * helicalValleyLBFGSAnalyticUnitRoundoff * helicalValleyLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * helicalValleyLBFGSAnalyticUnitRoundoff * helicalValleyLBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * helicalValleyLBFGSAnalyticUnitRoundoff * helicalValleyLBFGSAnalyticAbs(x[2]) * h[2]
 	}
 }
 
@@ -928,10 +952,22 @@ func helicalValleyLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = helicalValleyLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = helicalValleyLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = helicalValleyLBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = helicalValleyLBFGSAnalyticLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +977,14 @@ func helicalValleyLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func helicalValleyLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(helicalValleyLBFGSAnalyticAbs(s[i]) <= tol*helicalValleyLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(helicalValleyLBFGSAnalyticAbs(s[0]) <= tol*helicalValleyLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(helicalValleyLBFGSAnalyticAbs(s[1]) <= tol*helicalValleyLBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(helicalValleyLBFGSAnalyticAbs(s[2]) <= tol*helicalValleyLBFGSAnalyticStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -995,9 +1037,19 @@ func (f *helicalValleyLBFGSAnalyticStepFloor) at(x, d *[3]float64, diffs *helica
 // step test, min over i of tol·helicalValleyLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * helicalValleyLBFGSAnalyticStepScale(x[i], i, diffs) / helicalValleyLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * helicalValleyLBFGSAnalyticStepScale(x[0], 0, diffs) / helicalValleyLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * helicalValleyLBFGSAnalyticStepScale(x[1], 1, diffs) / helicalValleyLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * helicalValleyLBFGSAnalyticStepScale(x[2], 2, diffs) / helicalValleyLBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1145,8 +1197,14 @@ func helicalValleyLBFGSAnalyticShrinkDirection(d, g *[3]float64) {
 // helicalValleyLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func helicalValleyLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := helicalValleyLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := helicalValleyLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyLBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyLBFGSAnalyticAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1155,8 +1213,10 @@ func helicalValleyLBFGSAnalyticMaxAbs(x *[3]float64) float64 {
 
 // helicalValleyLBFGSAnalyticScaleBy sets x = c·x.
 func helicalValleyLBFGSAnalyticScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1221,8 +1281,14 @@ func (r *helicalValleyLBFGSAnalyticRiseTrend) contradicts() bool {
 // helicalValleyLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func helicalValleyLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(helicalValleyLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*helicalValleyLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(helicalValleyLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*helicalValleyLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(helicalValleyLBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*helicalValleyLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1271,8 +1337,10 @@ func helicalValleyLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]f
 
 // helicalValleyLBFGSAnalyticMoveTo sets out = x + t·d.
 func helicalValleyLBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1338,8 +1406,10 @@ func helicalValleyLBFGSAnalyticExpandTrial(previous, current *helicalValleyLBFGS
 
 // helicalValleyLBFGSAnalyticGradientChange sets out = a − b.
 func helicalValleyLBFGSAnalyticGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

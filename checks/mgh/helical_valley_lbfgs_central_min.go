@@ -600,8 +600,10 @@ func (s *helicalValleyLBFGSCentralDirection) compute(g, d *[3]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * helicalValleyLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +613,10 @@ func (s *helicalValleyLBFGSCentralDirection) compute(g, d *[3]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := helicalValleyLBFGSCentralDot(&s.s[newest], &s.y[newest]) / helicalValleyLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +626,10 @@ func (s *helicalValleyLBFGSCentralDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * helicalValleyLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
 		}
 	}
 	helicalValleyLBFGSCentralNegate(d, &q)
@@ -658,16 +664,20 @@ func (s *helicalValleyLBFGSCentralDirection) firstTrial(t, slope, now float64) f
 // helicalValleyLBFGSCentralDot returns aᵀb.
 func helicalValleyLBFGSCentralDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
 
 // helicalValleyLBFGSCentralNegate sets out = −x.
 func helicalValleyLBFGSCentralNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -732,8 +742,14 @@ func helicalValleyLBFGSCentralFinite(v float64) bool {
 
 // helicalValleyLBFGSCentralFiniteVec reports whether every component of x is finite.
 func helicalValleyLBFGSCentralFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !helicalValleyLBFGSCentralFinite(x[i]) {
+	{
+		if !helicalValleyLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !helicalValleyLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !helicalValleyLBFGSCentralFinite(x[2]) {
 			return false
 		}
 	}
@@ -805,16 +821,40 @@ func helicalValleyLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *helica
 		}
 	}
 	noise := helicalValleyLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := helicalValleyLBFGSCentralLarger(1, helicalValleyLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := helicalValleyLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = helicalValleyLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := helicalValleyLBFGSCentralLarger(1, helicalValleyLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := helicalValleyLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = helicalValleyLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = helicalValleyLBFGSCentralClampBetween(h, 64*helicalValleyLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = helicalValleyLBFGSCentralClampBetween(h, 64*helicalValleyLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := helicalValleyLBFGSCentralLarger(1, helicalValleyLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := helicalValleyLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = helicalValleyLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = helicalValleyLBFGSCentralClampBetween(h, 64*helicalValleyLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := helicalValleyLBFGSCentralLarger(1, helicalValleyLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := helicalValleyLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = helicalValleyLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = helicalValleyLBFGSCentralClampBetween(h, 64*helicalValleyLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +948,10 @@ func helicalValleyLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func helicalValleyLBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := helicalValleyLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += helicalValleyLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += helicalValleyLBFGSCentralAbs(g[0] * x[0])
+		sum += helicalValleyLBFGSCentralAbs(g[1] * x[1])
+		sum += helicalValleyLBFGSCentralAbs(g[2] * x[2])
 	}
 	return 4 * helicalValleyLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1078,19 @@ func helicalValleyLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += helicalValleyLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += helicalValleyLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	helicalValleyLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * helicalValleyLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * helicalValleyLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * helicalValleyLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * helicalValleyLBFGSCentralAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1055,16 +1101,42 @@ func helicalValleyLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[
 // in forwardError).
 func helicalValleyLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
 	noise := helicalValleyLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := helicalValleyLBFGSCentralCentralInterval(x, i, diffs)
-		h = helicalValleyLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := helicalValleyLBFGSCentralCentralInterval(x, 0, diffs)
+			h = helicalValleyLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := helicalValleyLBFGSCentralCentralInterval(x, 1, diffs)
+			h = helicalValleyLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := helicalValleyLBFGSCentralCentralInterval(x, 2, diffs)
+			h = helicalValleyLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1150,10 @@ func helicalValleyLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]
 func helicalValleyLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
 	var h [3]float64
 	helicalValleyLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * helicalValleyLBFGSCentralUnitRoundoff * helicalValleyLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * helicalValleyLBFGSCentralUnitRoundoff * helicalValleyLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * helicalValleyLBFGSCentralUnitRoundoff * helicalValleyLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * helicalValleyLBFGSCentralUnitRoundoff * helicalValleyLBFGSCentralAbs(x[2]) * h[2]
 	}
 }
 
@@ -1107,10 +1181,22 @@ func helicalValleyLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *h
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = helicalValleyLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = helicalValleyLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[1]), 1) / scale
+			measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = helicalValleyLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[2]), 1) / scale
+			measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = helicalValleyLBFGSCentralLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1206,14 @@ func helicalValleyLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func helicalValleyLBFGSCentralStepWithin(s, x *[3]float64, tol float64, diffs *helicalValleyLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(helicalValleyLBFGSCentralAbs(s[i]) <= tol*helicalValleyLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(helicalValleyLBFGSCentralAbs(s[0]) <= tol*helicalValleyLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(helicalValleyLBFGSCentralAbs(s[1]) <= tol*helicalValleyLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(helicalValleyLBFGSCentralAbs(s[2]) <= tol*helicalValleyLBFGSCentralStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1174,9 +1266,19 @@ func (f *helicalValleyLBFGSCentralStepFloor) at(x, d *[3]float64, diffs *helical
 // step test, min over i of tol·helicalValleyLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func helicalValleyLBFGSCentralTinyStep(x, d *[3]float64, tol float64, diffs *helicalValleyLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * helicalValleyLBFGSCentralStepScale(x[i], i, diffs) / helicalValleyLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * helicalValleyLBFGSCentralStepScale(x[0], 0, diffs) / helicalValleyLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * helicalValleyLBFGSCentralStepScale(x[1], 1, diffs) / helicalValleyLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * helicalValleyLBFGSCentralStepScale(x[2], 2, diffs) / helicalValleyLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1324,8 +1426,14 @@ func helicalValleyLBFGSCentralShrinkDirection(d, g *[3]float64) {
 // helicalValleyLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func helicalValleyLBFGSCentralMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := helicalValleyLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := helicalValleyLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := helicalValleyLBFGSCentralAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1334,8 +1442,10 @@ func helicalValleyLBFGSCentralMaxAbs(x *[3]float64) float64 {
 
 // helicalValleyLBFGSCentralScaleBy sets x = c·x.
 func helicalValleyLBFGSCentralScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1400,8 +1510,14 @@ func (r *helicalValleyLBFGSCentralRiseTrend) contradicts() bool {
 // helicalValleyLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func helicalValleyLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(helicalValleyLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*helicalValleyLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(helicalValleyLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*helicalValleyLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(helicalValleyLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*helicalValleyLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1450,8 +1566,10 @@ func helicalValleyLBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]fl
 
 // helicalValleyLBFGSCentralMoveTo sets out = x + t·d.
 func helicalValleyLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1517,8 +1635,10 @@ func helicalValleyLBFGSCentralExpandTrial(previous, current *helicalValleyLBFGSC
 
 // helicalValleyLBFGSCentralGradientChange sets out = a − b.
 func helicalValleyLBFGSCentralGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

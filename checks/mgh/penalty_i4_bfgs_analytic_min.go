@@ -585,18 +585,45 @@ type penaltyI4BFGSAnalyticDirection struct {
 }
 
 func (s *penaltyI4BFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *penaltyI4BFGSAnalyticDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -penaltyI4BFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -penaltyI4BFGSAnalyticDot(&s.h[0], g)
+		d[1] = -penaltyI4BFGSAnalyticDot(&s.h[1], g)
+		d[2] = -penaltyI4BFGSAnalyticDot(&s.h[2], g)
+		d[3] = -penaltyI4BFGSAnalyticDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *penaltyI4BFGSAnalyticDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / penaltyI4BFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *penaltyI4BFGSAnalyticDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = penaltyI4BFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = penaltyI4BFGSAnalyticDot(&s.h[0], change)
+		hy[1] = penaltyI4BFGSAnalyticDot(&s.h[1], change)
+		hy[2] = penaltyI4BFGSAnalyticDot(&s.h[2], change)
+		hy[3] = penaltyI4BFGSAnalyticDot(&s.h[3], change)
 	}
 	outer := (rho*rho*penaltyI4BFGSAnalyticDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *penaltyI4BFGSAnalyticDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *penaltyI4BFGSAnalyticDirection) firstTrial(t, slope, now float64) float
 // penaltyI4BFGSAnalyticDot returns aᵀb.
 func penaltyI4BFGSAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func penaltyI4BFGSAnalyticFinite(v float64) bool {
 
 // penaltyI4BFGSAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyI4BFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyI4BFGSAnalyticFinite(x[i]) {
+	{
+		if !penaltyI4BFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !penaltyI4BFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !penaltyI4BFGSAnalyticFinite(x[2]) {
+			return false
+		}
+		if !penaltyI4BFGSAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -754,15 +802,21 @@ func penaltyI4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += penaltyI4BFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += penaltyI4BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI4BFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyI4BFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * penaltyI4BFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * penaltyI4BFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * penaltyI4BFGSAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * penaltyI4BFGSAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -770,8 +824,11 @@ func penaltyI4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 // penaltyI4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func penaltyI4BFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -792,8 +849,11 @@ func penaltyI4BFGSAnalyticAbs(v float64) float64 {
 func penaltyI4BFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
 	var h [4]float64
 	penaltyI4BFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyI4BFGSAnalyticUnitRoundoff * penaltyI4BFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * penaltyI4BFGSAnalyticUnitRoundoff * penaltyI4BFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * penaltyI4BFGSAnalyticUnitRoundoff * penaltyI4BFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * penaltyI4BFGSAnalyticUnitRoundoff * penaltyI4BFGSAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * penaltyI4BFGSAnalyticUnitRoundoff * penaltyI4BFGSAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -895,10 +955,27 @@ func penaltyI4BFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penal
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI4BFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = penaltyI4BFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[1]), 1) / scale
+			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = penaltyI4BFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[2]), 1) / scale
+			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = penaltyI4BFGSAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[3]), 1) / scale
+			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[3])+e[3])*w)
+			floor = penaltyI4BFGSAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +985,17 @@ func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (meas
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4BFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*penaltyI4BFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(penaltyI4BFGSAnalyticAbs(s[0]) <= tol*penaltyI4BFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(penaltyI4BFGSAnalyticAbs(s[1]) <= tol*penaltyI4BFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(penaltyI4BFGSAnalyticAbs(s[2]) <= tol*penaltyI4BFGSAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(penaltyI4BFGSAnalyticAbs(s[3]) <= tol*penaltyI4BFGSAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1047,24 @@ func (f *penaltyI4BFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *penaltyI4BF
 // step test, min over i of tol·penaltyI4BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyI4BFGSAnalyticStepScale(x[i], i, diffs) / penaltyI4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * penaltyI4BFGSAnalyticStepScale(x[0], 0, diffs) / penaltyI4BFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * penaltyI4BFGSAnalyticStepScale(x[1], 1, diffs) / penaltyI4BFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * penaltyI4BFGSAnalyticStepScale(x[2], 2, diffs) / penaltyI4BFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * penaltyI4BFGSAnalyticStepScale(x[3], 3, diffs) / penaltyI4BFGSAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1212,17 @@ func penaltyI4BFGSAnalyticShrinkDirection(d, g *[4]float64) {
 // penaltyI4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyI4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyI4BFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := penaltyI4BFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4BFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4BFGSAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4BFGSAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1231,11 @@ func penaltyI4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
 
 // penaltyI4BFGSAnalyticScaleBy sets x = c·x.
 func penaltyI4BFGSAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1187,8 +1300,17 @@ func (r *penaltyI4BFGSAnalyticRiseTrend) contradicts() bool {
 // penaltyI4BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyI4BFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4BFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(penaltyI4BFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*penaltyI4BFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(penaltyI4BFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*penaltyI4BFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(penaltyI4BFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*penaltyI4BFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(penaltyI4BFGSAnalyticAbs(xt[3]-x[3]-want) <= 0.01*penaltyI4BFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1359,11 @@ func penaltyI4BFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float6
 
 // penaltyI4BFGSAnalyticMoveTo sets out = x + t·d.
 func penaltyI4BFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1304,8 +1429,11 @@ func penaltyI4BFGSAnalyticExpandTrial(previous, current *penaltyI4BFGSAnalyticLi
 
 // penaltyI4BFGSAnalyticGradientChange sets out = a − b.
 func penaltyI4BFGSAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -585,18 +585,45 @@ type penaltyI4BFGSCentralDirection struct {
 }
 
 func (s *penaltyI4BFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *penaltyI4BFGSCentralDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -penaltyI4BFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -penaltyI4BFGSCentralDot(&s.h[0], g)
+		d[1] = -penaltyI4BFGSCentralDot(&s.h[1], g)
+		d[2] = -penaltyI4BFGSCentralDot(&s.h[2], g)
+		d[3] = -penaltyI4BFGSCentralDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *penaltyI4BFGSCentralDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / penaltyI4BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *penaltyI4BFGSCentralDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = penaltyI4BFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = penaltyI4BFGSCentralDot(&s.h[0], change)
+		hy[1] = penaltyI4BFGSCentralDot(&s.h[1], change)
+		hy[2] = penaltyI4BFGSCentralDot(&s.h[2], change)
+		hy[3] = penaltyI4BFGSCentralDot(&s.h[3], change)
 	}
 	outer := (rho*rho*penaltyI4BFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *penaltyI4BFGSCentralDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *penaltyI4BFGSCentralDirection) firstTrial(t, slope, now float64) float6
 // penaltyI4BFGSCentralDot returns aᵀb.
 func penaltyI4BFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func penaltyI4BFGSCentralFinite(v float64) bool {
 
 // penaltyI4BFGSCentralFiniteVec reports whether every component of x is finite.
 func penaltyI4BFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyI4BFGSCentralFinite(x[i]) {
+	{
+		if !penaltyI4BFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !penaltyI4BFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !penaltyI4BFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !penaltyI4BFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -772,16 +820,51 @@ func penaltyI4BFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyI4BF
 		}
 	}
 	noise := penaltyI4BFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := penaltyI4BFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = penaltyI4BFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := penaltyI4BFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyI4BFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = penaltyI4BFGSCentralClampBetween(h, 64*penaltyI4BFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = penaltyI4BFGSCentralClampBetween(h, 64*penaltyI4BFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := penaltyI4BFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyI4BFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = penaltyI4BFGSCentralClampBetween(h, 64*penaltyI4BFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := penaltyI4BFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyI4BFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = penaltyI4BFGSCentralClampBetween(h, 64*penaltyI4BFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := penaltyI4BFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyI4BFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = penaltyI4BFGSCentralClampBetween(h, 64*penaltyI4BFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +958,11 @@ func penaltyI4BFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func penaltyI4BFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := penaltyI4BFGSCentralAbs(fx)
-	for i := range x {
-		sum += penaltyI4BFGSCentralAbs(g[i] * x[i])
+	{
+		sum += penaltyI4BFGSCentralAbs(g[0] * x[0])
+		sum += penaltyI4BFGSCentralAbs(g[1] * x[1])
+		sum += penaltyI4BFGSCentralAbs(g[2] * x[2])
+		sum += penaltyI4BFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * penaltyI4BFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1089,21 @@ func penaltyI4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += penaltyI4BFGSCentralDerivative(x, fx, g, diffs)
 	calls += penaltyI4BFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyI4BFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyI4BFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * penaltyI4BFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * penaltyI4BFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * penaltyI4BFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * penaltyI4BFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1022,16 +1114,54 @@ func penaltyI4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 // in forwardError).
 func penaltyI4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
 	noise := penaltyI4BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := penaltyI4BFGSCentralCentralInterval(x, i, diffs)
-		h = penaltyI4BFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := penaltyI4BFGSCentralCentralInterval(x, 0, diffs)
+			h = penaltyI4BFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyI4BFGSCentralCentralInterval(x, 1, diffs)
+			h = penaltyI4BFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyI4BFGSCentralCentralInterval(x, 2, diffs)
+			h = penaltyI4BFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyI4BFGSCentralCentralInterval(x, 3, diffs)
+			h = penaltyI4BFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1175,11 @@ func penaltyI4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float
 func penaltyI4BFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
 	var h [4]float64
 	penaltyI4BFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyI4BFGSCentralUnitRoundoff * penaltyI4BFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * penaltyI4BFGSCentralUnitRoundoff * penaltyI4BFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * penaltyI4BFGSCentralUnitRoundoff * penaltyI4BFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * penaltyI4BFGSCentralUnitRoundoff * penaltyI4BFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * penaltyI4BFGSCentralUnitRoundoff * penaltyI4BFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1074,10 +1207,27 @@ func penaltyI4BFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *penalt
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyI4BFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[0])+e[0])*w)
+			floor = penaltyI4BFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[1]), 1) / scale
+			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[1])+e[1])*w)
+			floor = penaltyI4BFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[2]), 1) / scale
+			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[2])+e[2])*w)
+			floor = penaltyI4BFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[3]), 1) / scale
+			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[3])+e[3])*w)
+			floor = penaltyI4BFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1237,17 @@ func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4BFGSCentralDifferences) bool {
-	for i := range s {
-		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*penaltyI4BFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(penaltyI4BFGSCentralAbs(s[0]) <= tol*penaltyI4BFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(penaltyI4BFGSCentralAbs(s[1]) <= tol*penaltyI4BFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(penaltyI4BFGSCentralAbs(s[2]) <= tol*penaltyI4BFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(penaltyI4BFGSCentralAbs(s[3]) <= tol*penaltyI4BFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1299,24 @@ func (f *penaltyI4BFGSCentralStepFloor) at(x, d *[4]float64, diffs *penaltyI4BFG
 // step test, min over i of tol·penaltyI4BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyI4BFGSCentralStepScale(x[i], i, diffs) / penaltyI4BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * penaltyI4BFGSCentralStepScale(x[0], 0, diffs) / penaltyI4BFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * penaltyI4BFGSCentralStepScale(x[1], 1, diffs) / penaltyI4BFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * penaltyI4BFGSCentralStepScale(x[2], 2, diffs) / penaltyI4BFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * penaltyI4BFGSCentralStepScale(x[3], 3, diffs) / penaltyI4BFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1464,17 @@ func penaltyI4BFGSCentralShrinkDirection(d, g *[4]float64) {
 // penaltyI4BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyI4BFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyI4BFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := penaltyI4BFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4BFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4BFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4BFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1483,11 @@ func penaltyI4BFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // penaltyI4BFGSCentralScaleBy sets x = c·x.
 func penaltyI4BFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1366,8 +1552,17 @@ func (r *penaltyI4BFGSCentralRiseTrend) contradicts() bool {
 // penaltyI4BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyI4BFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4BFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(penaltyI4BFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*penaltyI4BFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(penaltyI4BFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*penaltyI4BFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(penaltyI4BFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*penaltyI4BFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(penaltyI4BFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*penaltyI4BFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1611,11 @@ func penaltyI4BFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64
 
 // penaltyI4BFGSCentralMoveTo sets out = x + t·d.
 func penaltyI4BFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1483,8 +1681,11 @@ func penaltyI4BFGSCentralExpandTrial(previous, current *penaltyI4BFGSCentralLine
 
 // penaltyI4BFGSCentralGradientChange sets out = a − b.
 func penaltyI4BFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

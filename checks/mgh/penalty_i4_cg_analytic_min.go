@@ -618,8 +618,11 @@ type penaltyI4CGAnalyticDirection struct {
 func (s *penaltyI4CGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
+		s.curvature[3] = 1
 	}
 }
 
@@ -627,16 +630,22 @@ func (s *penaltyI4CGAnalyticDirection) compute(g, d *[4]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2]
+			z[3] /= s.curvature[3] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := penaltyI4CGAnalyticDot(g, &z), penaltyI4CGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && penaltyI4CGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = penaltyI4CGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2]
+		d[3] = -z[3] + beta*s.previous[3] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +664,66 @@ func (s *penaltyI4CGAnalyticDirection) compute(g, d *[4]float64) {
 func (s *penaltyI4CGAnalyticDirection) update(step, change *[4]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
+		sy += step[3] * change[3]
+		ss += step[3] * step[3]
+		yy += change[3] * change[3]
+		sbs += s.curvature[3] * step[3] * step[3]
 	}
 	if !penaltyI4CGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
+			s.curvature[3] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && penaltyI4CGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && penaltyI4CGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && penaltyI4CGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && penaltyI4CGAnalyticFinite(next) {
+				s.curvature[2] = next
+			}
+		}
+		{
+			bs := s.curvature[3] * step[3]
+			next := s.curvature[3] - bs*(bs/sbs) + change[3]*(change[3]/sy)
+			if next > 0 && penaltyI4CGAnalyticFinite(next) {
+				s.curvature[3] = next
+			}
 		}
 	}
 }
@@ -701,8 +748,11 @@ func (s *penaltyI4CGAnalyticDirection) firstTrial(t, slope, now float64) float64
 // penaltyI4CGAnalyticDot returns aᵀb.
 func penaltyI4CGAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -781,8 +831,17 @@ func penaltyI4CGAnalyticValue(x, g *[4]float64, diffs *penaltyI4CGAnalyticDiffer
 
 // penaltyI4CGAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyI4CGAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyI4CGAnalyticFinite(x[i]) {
+	{
+		if !penaltyI4CGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !penaltyI4CGAnalyticFinite(x[1]) {
+			return false
+		}
+		if !penaltyI4CGAnalyticFinite(x[2]) {
+			return false
+		}
+		if !penaltyI4CGAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -836,15 +895,21 @@ func penaltyI4CGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += penaltyI4CGAnalyticDerivative(x, fx, g, diffs)
 	calls += penaltyI4CGAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI4CGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyI4CGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * penaltyI4CGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * penaltyI4CGAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * penaltyI4CGAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * penaltyI4CGAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -852,8 +917,11 @@ func penaltyI4CGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 // penaltyI4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func penaltyI4CGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -866,8 +934,11 @@ func penaltyI4CGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float6
 func penaltyI4CGAnalyticRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
 	var h [4]float64
 	penaltyI4CGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyI4CGAnalyticUnitRoundoff * penaltyI4CGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * penaltyI4CGAnalyticUnitRoundoff * penaltyI4CGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * penaltyI4CGAnalyticUnitRoundoff * penaltyI4CGAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * penaltyI4CGAnalyticUnitRoundoff * penaltyI4CGAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * penaltyI4CGAnalyticUnitRoundoff * penaltyI4CGAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -959,10 +1030,27 @@ func penaltyI4CGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penalty
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI4CGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[0])+e[0])*w)
+			floor = penaltyI4CGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[1]), 1) / scale
+			measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[1])+e[1])*w)
+			floor = penaltyI4CGAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[2]), 1) / scale
+			measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[2])+e[2])*w)
+			floor = penaltyI4CGAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[3]), 1) / scale
+			measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[3])+e[3])*w)
+			floor = penaltyI4CGAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1060,17 @@ func penaltyI4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4CGAnalyticDifferences) bool {
-	for i := range s {
-		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*penaltyI4CGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(penaltyI4CGAnalyticAbs(s[0]) <= tol*penaltyI4CGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(penaltyI4CGAnalyticAbs(s[1]) <= tol*penaltyI4CGAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(penaltyI4CGAnalyticAbs(s[2]) <= tol*penaltyI4CGAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(penaltyI4CGAnalyticAbs(s[3]) <= tol*penaltyI4CGAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1025,9 +1122,24 @@ func (f *penaltyI4CGAnalyticStepFloor) at(x, d *[4]float64, diffs *penaltyI4CGAn
 // step test, min over i of tol·penaltyI4CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyI4CGAnalyticStepScale(x[i], i, diffs) / penaltyI4CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * penaltyI4CGAnalyticStepScale(x[0], 0, diffs) / penaltyI4CGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * penaltyI4CGAnalyticStepScale(x[1], 1, diffs) / penaltyI4CGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * penaltyI4CGAnalyticStepScale(x[2], 2, diffs) / penaltyI4CGAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * penaltyI4CGAnalyticStepScale(x[3], 3, diffs) / penaltyI4CGAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1175,8 +1287,17 @@ func penaltyI4CGAnalyticShrinkDirection(d, g *[4]float64) {
 // penaltyI4CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyI4CGAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyI4CGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := penaltyI4CGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4CGAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4CGAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4CGAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1185,8 +1306,11 @@ func penaltyI4CGAnalyticMaxAbs(x *[4]float64) float64 {
 
 // penaltyI4CGAnalyticScaleBy sets x = c·x.
 func penaltyI4CGAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1251,8 +1375,17 @@ func (r *penaltyI4CGAnalyticRiseTrend) contradicts() bool {
 // penaltyI4CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyI4CGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(penaltyI4CGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(penaltyI4CGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(penaltyI4CGAnalyticAbs(xt[2]-x[2]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(penaltyI4CGAnalyticAbs(xt[3]-x[3]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1301,8 +1434,11 @@ func penaltyI4CGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64,
 
 // penaltyI4CGAnalyticMoveTo sets out = x + t·d.
 func penaltyI4CGAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1368,8 +1504,11 @@ func penaltyI4CGAnalyticExpandTrial(previous, current *penaltyI4CGAnalyticLinePo
 
 // penaltyI4CGAnalyticGradientChange sets out = a − b.
 func penaltyI4CGAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

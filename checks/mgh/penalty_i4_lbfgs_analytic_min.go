@@ -600,8 +600,11 @@ func (s *penaltyI4LBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * penaltyI4LBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *penaltyI4LBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := penaltyI4LBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / penaltyI4LBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *penaltyI4LBFGSAnalyticDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * penaltyI4LBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	penaltyI4LBFGSAnalyticNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *penaltyI4LBFGSAnalyticDirection) firstTrial(t, slope, now float64) floa
 // penaltyI4LBFGSAnalyticDot returns aᵀb.
 func penaltyI4LBFGSAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // penaltyI4LBFGSAnalyticNegate sets out = −x.
 func penaltyI4LBFGSAnalyticNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func penaltyI4LBFGSAnalyticFinite(v float64) bool {
 
 // penaltyI4LBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyI4LBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyI4LBFGSAnalyticFinite(x[i]) {
+	{
+		if !penaltyI4LBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !penaltyI4LBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !penaltyI4LBFGSAnalyticFinite(x[2]) {
+			return false
+		}
+		if !penaltyI4LBFGSAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -787,15 +811,21 @@ func penaltyI4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += penaltyI4LBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += penaltyI4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI4LBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyI4LBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * penaltyI4LBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * penaltyI4LBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * penaltyI4LBFGSAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * penaltyI4LBFGSAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -803,8 +833,11 @@ func penaltyI4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 // penaltyI4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func penaltyI4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -825,8 +858,11 @@ func penaltyI4LBFGSAnalyticAbs(v float64) float64 {
 func penaltyI4LBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
 	var h [4]float64
 	penaltyI4LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyI4LBFGSAnalyticUnitRoundoff * penaltyI4LBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * penaltyI4LBFGSAnalyticUnitRoundoff * penaltyI4LBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * penaltyI4LBFGSAnalyticUnitRoundoff * penaltyI4LBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * penaltyI4LBFGSAnalyticUnitRoundoff * penaltyI4LBFGSAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * penaltyI4LBFGSAnalyticUnitRoundoff * penaltyI4LBFGSAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -928,10 +964,27 @@ func penaltyI4LBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *pena
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI4LBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = penaltyI4LBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = penaltyI4LBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = penaltyI4LBFGSAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[3]), 1) / scale
+			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[3])+e[3])*w)
+			floor = penaltyI4LBFGSAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +994,17 @@ func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *penaltyI4LBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(penaltyI4LBFGSAnalyticAbs(s[0]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(penaltyI4LBFGSAnalyticAbs(s[1]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(penaltyI4LBFGSAnalyticAbs(s[2]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(penaltyI4LBFGSAnalyticAbs(s[3]) <= tol*penaltyI4LBFGSAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -995,9 +1057,24 @@ func (f *penaltyI4LBFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *penaltyI4L
 // step test, min over i of tol·penaltyI4LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *penaltyI4LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[i], i, diffs) / penaltyI4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[0], 0, diffs) / penaltyI4LBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[1], 1, diffs) / penaltyI4LBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[2], 2, diffs) / penaltyI4LBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * penaltyI4LBFGSAnalyticStepScale(x[3], 3, diffs) / penaltyI4LBFGSAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1145,8 +1222,17 @@ func penaltyI4LBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 // penaltyI4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyI4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyI4LBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := penaltyI4LBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4LBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4LBFGSAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyI4LBFGSAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1155,8 +1241,11 @@ func penaltyI4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 
 // penaltyI4LBFGSAnalyticScaleBy sets x = c·x.
 func penaltyI4LBFGSAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1221,8 +1310,17 @@ func (r *penaltyI4LBFGSAnalyticRiseTrend) contradicts() bool {
 // penaltyI4LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyI4LBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4LBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(penaltyI4LBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*penaltyI4LBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(penaltyI4LBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*penaltyI4LBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(penaltyI4LBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*penaltyI4LBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(penaltyI4LBFGSAnalyticAbs(xt[3]-x[3]-want) <= 0.01*penaltyI4LBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1271,8 +1369,11 @@ func penaltyI4LBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float
 
 // penaltyI4LBFGSAnalyticMoveTo sets out = x + t·d.
 func penaltyI4LBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1338,8 +1439,11 @@ func penaltyI4LBFGSAnalyticExpandTrial(previous, current *penaltyI4LBFGSAnalytic
 
 // penaltyI4LBFGSAnalyticGradientChange sets out = a − b.
 func penaltyI4LBFGSAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

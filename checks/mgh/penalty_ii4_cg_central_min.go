@@ -618,8 +618,11 @@ type penaltyII4CGCentralDirection struct {
 func (s *penaltyII4CGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
+		s.curvature[3] = 1
 	}
 }
 
@@ -627,16 +630,22 @@ func (s *penaltyII4CGCentralDirection) compute(g, d *[4]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2]
+			z[3] /= s.curvature[3] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := penaltyII4CGCentralDot(g, &z), penaltyII4CGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && penaltyII4CGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = penaltyII4CGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2]
+		d[3] = -z[3] + beta*s.previous[3] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +664,66 @@ func (s *penaltyII4CGCentralDirection) compute(g, d *[4]float64) {
 func (s *penaltyII4CGCentralDirection) update(step, change *[4]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
+		sy += step[3] * change[3]
+		ss += step[3] * step[3]
+		yy += change[3] * change[3]
+		sbs += s.curvature[3] * step[3] * step[3]
 	}
 	if !penaltyII4CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
+			s.curvature[3] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && penaltyII4CGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && penaltyII4CGCentralFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && penaltyII4CGCentralFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && penaltyII4CGCentralFinite(next) {
+				s.curvature[2] = next
+			}
+		}
+		{
+			bs := s.curvature[3] * step[3]
+			next := s.curvature[3] - bs*(bs/sbs) + change[3]*(change[3]/sy)
+			if next > 0 && penaltyII4CGCentralFinite(next) {
+				s.curvature[3] = next
+			}
 		}
 	}
 }
@@ -701,8 +748,11 @@ func (s *penaltyII4CGCentralDirection) firstTrial(t, slope, now float64) float64
 // penaltyII4CGCentralDot returns aᵀb.
 func penaltyII4CGCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -781,8 +831,17 @@ func penaltyII4CGCentralValue(x, g *[4]float64, diffs *penaltyII4CGCentralDiffer
 
 // penaltyII4CGCentralFiniteVec reports whether every component of x is finite.
 func penaltyII4CGCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyII4CGCentralFinite(x[i]) {
+	{
+		if !penaltyII4CGCentralFinite(x[0]) {
+			return false
+		}
+		if !penaltyII4CGCentralFinite(x[1]) {
+			return false
+		}
+		if !penaltyII4CGCentralFinite(x[2]) {
+			return false
+		}
+		if !penaltyII4CGCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -854,16 +913,51 @@ func penaltyII4CGCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII4CG
 		}
 	}
 	noise := penaltyII4CGCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(probe[i]))
-		bar := quarter * s
-		third := penaltyII4CGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = penaltyII4CGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(probe[0]))
+			bar := quarter * s
+			third := penaltyII4CGCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4CGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = penaltyII4CGCentralClampBetween(h, 64*penaltyII4CGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = penaltyII4CGCentralClampBetween(h, 64*penaltyII4CGCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(probe[1]))
+			bar := quarter * s
+			third := penaltyII4CGCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4CGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = penaltyII4CGCentralClampBetween(h, 64*penaltyII4CGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(probe[2]))
+			bar := quarter * s
+			third := penaltyII4CGCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4CGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = penaltyII4CGCentralClampBetween(h, 64*penaltyII4CGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(probe[3]))
+			bar := quarter * s
+			third := penaltyII4CGCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4CGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = penaltyII4CGCentralClampBetween(h, 64*penaltyII4CGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -939,8 +1033,11 @@ func penaltyII4CGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func penaltyII4CGCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := penaltyII4CGCentralAbs(fx)
-	for i := range x {
-		sum += penaltyII4CGCentralAbs(g[i] * x[i])
+	{
+		sum += penaltyII4CGCentralAbs(g[0] * x[0])
+		sum += penaltyII4CGCentralAbs(g[1] * x[1])
+		sum += penaltyII4CGCentralAbs(g[2] * x[2])
+		sum += penaltyII4CGCentralAbs(g[3] * x[3])
 	}
 	return 4 * penaltyII4CGCentralUnitRoundoff * sum
 }
@@ -1067,15 +1164,21 @@ func penaltyII4CGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += penaltyII4CGCentralDerivative(x, fx, g, diffs)
 	calls += penaltyII4CGCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII4CGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyII4CGCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * penaltyII4CGCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * penaltyII4CGCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * penaltyII4CGCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * penaltyII4CGCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1086,16 +1189,54 @@ func penaltyII4CGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 // in forwardError).
 func penaltyII4CGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences) {
 	noise := penaltyII4CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := penaltyII4CGCentralCentralInterval(x, i, diffs)
-		h = penaltyII4CGCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := penaltyII4CGCentralCentralInterval(x, 0, diffs)
+			h = penaltyII4CGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyII4CGCentralCentralInterval(x, 1, diffs)
+			h = penaltyII4CGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyII4CGCentralCentralInterval(x, 2, diffs)
+			h = penaltyII4CGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyII4CGCentralCentralInterval(x, 3, diffs)
+			h = penaltyII4CGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1109,8 +1250,11 @@ func penaltyII4CGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float6
 func penaltyII4CGCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences) {
 	var h [4]float64
 	penaltyII4CGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyII4CGCentralUnitRoundoff * penaltyII4CGCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * penaltyII4CGCentralUnitRoundoff * penaltyII4CGCentralAbs(x[0]) * h[0]
+		e[1] += 4 * penaltyII4CGCentralUnitRoundoff * penaltyII4CGCentralAbs(x[1]) * h[1]
+		e[2] += 4 * penaltyII4CGCentralUnitRoundoff * penaltyII4CGCentralAbs(x[2]) * h[2]
+		e[3] += 4 * penaltyII4CGCentralUnitRoundoff * penaltyII4CGCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1138,10 +1282,27 @@ func penaltyII4CGCentralStationarity(g, e, x *[4]float64, fx float64, b *penalty
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII4CGCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[0])+e[0])*w)
+			floor = penaltyII4CGCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[1]), 1) / scale
+			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[1])+e[1])*w)
+			floor = penaltyII4CGCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[2]), 1) / scale
+			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[2])+e[2])*w)
+			floor = penaltyII4CGCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[3]), 1) / scale
+			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[3])+e[3])*w)
+			floor = penaltyII4CGCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1151,8 +1312,17 @@ func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyII4CGCentralDifferences) bool {
-	for i := range s {
-		if !(penaltyII4CGCentralAbs(s[i]) <= tol*penaltyII4CGCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(penaltyII4CGCentralAbs(s[0]) <= tol*penaltyII4CGCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(penaltyII4CGCentralAbs(s[1]) <= tol*penaltyII4CGCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(penaltyII4CGCentralAbs(s[2]) <= tol*penaltyII4CGCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(penaltyII4CGCentralAbs(s[3]) <= tol*penaltyII4CGCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1204,9 +1374,24 @@ func (f *penaltyII4CGCentralStepFloor) at(x, d *[4]float64, diffs *penaltyII4CGC
 // step test, min over i of tol·penaltyII4CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII4CGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyII4CGCentralStepScale(x[i], i, diffs) / penaltyII4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * penaltyII4CGCentralStepScale(x[0], 0, diffs) / penaltyII4CGCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * penaltyII4CGCentralStepScale(x[1], 1, diffs) / penaltyII4CGCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * penaltyII4CGCentralStepScale(x[2], 2, diffs) / penaltyII4CGCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * penaltyII4CGCentralStepScale(x[3], 3, diffs) / penaltyII4CGCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1354,8 +1539,17 @@ func penaltyII4CGCentralShrinkDirection(d, g *[4]float64) {
 // penaltyII4CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyII4CGCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyII4CGCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := penaltyII4CGCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII4CGCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII4CGCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII4CGCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1364,8 +1558,11 @@ func penaltyII4CGCentralMaxAbs(x *[4]float64) float64 {
 
 // penaltyII4CGCentralScaleBy sets x = c·x.
 func penaltyII4CGCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1430,8 +1627,17 @@ func (r *penaltyII4CGCentralRiseTrend) contradicts() bool {
 // penaltyII4CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyII4CGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII4CGCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyII4CGCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(penaltyII4CGCentralAbs(xt[0]-x[0]-want) <= 0.01*penaltyII4CGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(penaltyII4CGCentralAbs(xt[1]-x[1]-want) <= 0.01*penaltyII4CGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(penaltyII4CGCentralAbs(xt[2]-x[2]-want) <= 0.01*penaltyII4CGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(penaltyII4CGCentralAbs(xt[3]-x[3]-want) <= 0.01*penaltyII4CGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1480,8 +1686,11 @@ func penaltyII4CGCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64,
 
 // penaltyII4CGCentralMoveTo sets out = x + t·d.
 func penaltyII4CGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1547,8 +1756,11 @@ func penaltyII4CGCentralExpandTrial(previous, current *penaltyII4CGCentralLinePo
 
 // penaltyII4CGCentralGradientChange sets out = a − b.
 func penaltyII4CGCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

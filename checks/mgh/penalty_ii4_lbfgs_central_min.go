@@ -600,8 +600,11 @@ func (s *penaltyII4LBFGSCentralDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * penaltyII4LBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *penaltyII4LBFGSCentralDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := penaltyII4LBFGSCentralDot(&s.s[newest], &s.y[newest]) / penaltyII4LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *penaltyII4LBFGSCentralDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * penaltyII4LBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	penaltyII4LBFGSCentralNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *penaltyII4LBFGSCentralDirection) firstTrial(t, slope, now float64) floa
 // penaltyII4LBFGSCentralDot returns aᵀb.
 func penaltyII4LBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // penaltyII4LBFGSCentralNegate sets out = −x.
 func penaltyII4LBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func penaltyII4LBFGSCentralFinite(v float64) bool {
 
 // penaltyII4LBFGSCentralFiniteVec reports whether every component of x is finite.
 func penaltyII4LBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !penaltyII4LBFGSCentralFinite(x[i]) {
+	{
+		if !penaltyII4LBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !penaltyII4LBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !penaltyII4LBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !penaltyII4LBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -805,16 +829,51 @@ func penaltyII4LBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII
 		}
 	}
 	noise := penaltyII4LBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := penaltyII4LBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = penaltyII4LBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := penaltyII4LBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4LBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = penaltyII4LBFGSCentralClampBetween(h, 64*penaltyII4LBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = penaltyII4LBFGSCentralClampBetween(h, 64*penaltyII4LBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := penaltyII4LBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4LBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = penaltyII4LBFGSCentralClampBetween(h, 64*penaltyII4LBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := penaltyII4LBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4LBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = penaltyII4LBFGSCentralClampBetween(h, 64*penaltyII4LBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := penaltyII4LBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = penaltyII4LBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = penaltyII4LBFGSCentralClampBetween(h, 64*penaltyII4LBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +967,11 @@ func penaltyII4LBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func penaltyII4LBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := penaltyII4LBFGSCentralAbs(fx)
-	for i := range x {
-		sum += penaltyII4LBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += penaltyII4LBFGSCentralAbs(g[0] * x[0])
+		sum += penaltyII4LBFGSCentralAbs(g[1] * x[1])
+		sum += penaltyII4LBFGSCentralAbs(g[2] * x[2])
+		sum += penaltyII4LBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * penaltyII4LBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1098,21 @@ func penaltyII4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += penaltyII4LBFGSCentralDerivative(x, fx, g, diffs)
 	calls += penaltyII4LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII4LBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyII4LBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * penaltyII4LBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * penaltyII4LBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * penaltyII4LBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * penaltyII4LBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1055,16 +1123,54 @@ func penaltyII4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 // in forwardError).
 func penaltyII4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
 	noise := penaltyII4LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, i, diffs)
-		h = penaltyII4LBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, 0, diffs)
+			h = penaltyII4LBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, 1, diffs)
+			h = penaltyII4LBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, 2, diffs)
+			h = penaltyII4LBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, 3, diffs)
+			h = penaltyII4LBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1184,11 @@ func penaltyII4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]flo
 func penaltyII4LBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
 	var h [4]float64
 	penaltyII4LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyII4LBFGSCentralUnitRoundoff * penaltyII4LBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * penaltyII4LBFGSCentralUnitRoundoff * penaltyII4LBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * penaltyII4LBFGSCentralUnitRoundoff * penaltyII4LBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * penaltyII4LBFGSCentralUnitRoundoff * penaltyII4LBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * penaltyII4LBFGSCentralUnitRoundoff * penaltyII4LBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1107,10 +1216,27 @@ func penaltyII4LBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *pena
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII4LBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[0])+e[0])*w)
+			floor = penaltyII4LBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[1]), 1) / scale
+			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[1])+e[1])*w)
+			floor = penaltyII4LBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[2]), 1) / scale
+			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[2])+e[2])*w)
+			floor = penaltyII4LBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[3]), 1) / scale
+			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[3])+e[3])*w)
+			floor = penaltyII4LBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1246,17 @@ func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (mea
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *penaltyII4LBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*penaltyII4LBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(penaltyII4LBFGSCentralAbs(s[0]) <= tol*penaltyII4LBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(penaltyII4LBFGSCentralAbs(s[1]) <= tol*penaltyII4LBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(penaltyII4LBFGSCentralAbs(s[2]) <= tol*penaltyII4LBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(penaltyII4LBFGSCentralAbs(s[3]) <= tol*penaltyII4LBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1174,9 +1309,24 @@ func (f *penaltyII4LBFGSCentralStepFloor) at(x, d *[4]float64, diffs *penaltyII4
 // step test, min over i of tol·penaltyII4LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *penaltyII4LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyII4LBFGSCentralStepScale(x[i], i, diffs) / penaltyII4LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * penaltyII4LBFGSCentralStepScale(x[0], 0, diffs) / penaltyII4LBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * penaltyII4LBFGSCentralStepScale(x[1], 1, diffs) / penaltyII4LBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * penaltyII4LBFGSCentralStepScale(x[2], 2, diffs) / penaltyII4LBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * penaltyII4LBFGSCentralStepScale(x[3], 3, diffs) / penaltyII4LBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1324,8 +1474,17 @@ func penaltyII4LBFGSCentralShrinkDirection(d, g *[4]float64) {
 // penaltyII4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyII4LBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyII4LBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := penaltyII4LBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII4LBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII4LBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII4LBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1334,8 +1493,11 @@ func penaltyII4LBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // penaltyII4LBFGSCentralScaleBy sets x = c·x.
 func penaltyII4LBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1400,8 +1562,17 @@ func (r *penaltyII4LBFGSCentralRiseTrend) contradicts() bool {
 // penaltyII4LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyII4LBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII4LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyII4LBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(penaltyII4LBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*penaltyII4LBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(penaltyII4LBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*penaltyII4LBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(penaltyII4LBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*penaltyII4LBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(penaltyII4LBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*penaltyII4LBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1450,8 +1621,11 @@ func penaltyII4LBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float
 
 // penaltyII4LBFGSCentralMoveTo sets out = x + t·d.
 func penaltyII4LBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1517,8 +1691,11 @@ func penaltyII4LBFGSCentralExpandTrial(previous, current *penaltyII4LBFGSCentral
 
 // penaltyII4LBFGSCentralGradientChange sets out = a − b.
 func penaltyII4LBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -585,18 +585,25 @@ type powellBadlyScaledBFGSAnalyticDirection struct {
 }
 
 func (s *powellBadlyScaledBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *powellBadlyScaledBFGSAnalyticDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -powellBadlyScaledBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -powellBadlyScaledBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -powellBadlyScaledBFGSAnalyticDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *powellBadlyScaledBFGSAnalyticDirection) update(step, change *[2]float64
 	}
 	if !s.scaled {
 		gamma := sy / powellBadlyScaledBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *powellBadlyScaledBFGSAnalyticDirection) update(step, change *[2]float64
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = powellBadlyScaledBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = powellBadlyScaledBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = powellBadlyScaledBFGSAnalyticDot(&s.h[1], change)
 	}
 	outer := (rho*rho*powellBadlyScaledBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *powellBadlyScaledBFGSAnalyticDirection) firstTrial(t, slope, now float6
 // powellBadlyScaledBFGSAnalyticDot returns aᵀb.
 func powellBadlyScaledBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func powellBadlyScaledBFGSAnalyticFinite(v float64) bool {
 
 // powellBadlyScaledBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledBFGSAnalyticFinite(x[i]) {
+	{
+		if !powellBadlyScaledBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !powellBadlyScaledBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -754,15 +778,17 @@ func powellBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += powellBadlyScaledBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += powellBadlyScaledBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellBadlyScaledBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellBadlyScaledBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * powellBadlyScaledBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -770,8 +796,9 @@ func powellBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 // powellBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func powellBadlyScaledBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -792,8 +819,9 @@ func powellBadlyScaledBFGSAnalyticAbs(v float64) float64 {
 func powellBadlyScaledBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
 	var h [2]float64
 	powellBadlyScaledBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellBadlyScaledBFGSAnalyticUnitRoundoff * powellBadlyScaledBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellBadlyScaledBFGSAnalyticUnitRoundoff * powellBadlyScaledBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * powellBadlyScaledBFGSAnalyticUnitRoundoff * powellBadlyScaledBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -895,10 +923,17 @@ func powellBadlyScaledBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +943,11 @@ func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float6
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(powellBadlyScaledBFGSAnalyticAbs(s[0]) <= tol*powellBadlyScaledBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellBadlyScaledBFGSAnalyticAbs(s[1]) <= tol*powellBadlyScaledBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -963,9 +1001,14 @@ func (f *powellBadlyScaledBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *pow
 // step test, min over i of tol·powellBadlyScaledBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellBadlyScaledBFGSAnalyticStepScale(x[i], i, diffs) / powellBadlyScaledBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellBadlyScaledBFGSAnalyticStepScale(x[0], 0, diffs) / powellBadlyScaledBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellBadlyScaledBFGSAnalyticStepScale(x[1], 1, diffs) / powellBadlyScaledBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1113,8 +1156,11 @@ func powellBadlyScaledBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // powellBadlyScaledBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func powellBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellBadlyScaledBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := powellBadlyScaledBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellBadlyScaledBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1123,8 +1169,9 @@ func powellBadlyScaledBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // powellBadlyScaledBFGSAnalyticScaleBy sets x = c·x.
 func powellBadlyScaledBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1189,8 +1236,11 @@ func (r *powellBadlyScaledBFGSAnalyticRiseTrend) contradicts() bool {
 // powellBadlyScaledBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(powellBadlyScaledBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*powellBadlyScaledBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellBadlyScaledBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*powellBadlyScaledBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1239,8 +1289,9 @@ func powellBadlyScaledBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[
 
 // powellBadlyScaledBFGSAnalyticMoveTo sets out = x + t·d.
 func powellBadlyScaledBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1306,8 +1357,9 @@ func powellBadlyScaledBFGSAnalyticExpandTrial(previous, current *powellBadlyScal
 
 // powellBadlyScaledBFGSAnalyticGradientChange sets out = a − b.
 func powellBadlyScaledBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

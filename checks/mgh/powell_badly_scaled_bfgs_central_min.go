@@ -585,18 +585,25 @@ type powellBadlyScaledBFGSCentralDirection struct {
 }
 
 func (s *powellBadlyScaledBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *powellBadlyScaledBFGSCentralDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -powellBadlyScaledBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -powellBadlyScaledBFGSCentralDot(&s.h[0], g)
+		d[1] = -powellBadlyScaledBFGSCentralDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *powellBadlyScaledBFGSCentralDirection) update(step, change *[2]float64)
 	}
 	if !s.scaled {
 		gamma := sy / powellBadlyScaledBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *powellBadlyScaledBFGSCentralDirection) update(step, change *[2]float64)
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = powellBadlyScaledBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = powellBadlyScaledBFGSCentralDot(&s.h[0], change)
+		hy[1] = powellBadlyScaledBFGSCentralDot(&s.h[1], change)
 	}
 	outer := (rho*rho*powellBadlyScaledBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *powellBadlyScaledBFGSCentralDirection) firstTrial(t, slope, now float64
 // powellBadlyScaledBFGSCentralDot returns aᵀb.
 func powellBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func powellBadlyScaledBFGSCentralFinite(v float64) bool {
 
 // powellBadlyScaledBFGSCentralFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledBFGSCentralFinite(x[i]) {
+	{
+		if !powellBadlyScaledBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !powellBadlyScaledBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -772,16 +796,29 @@ func powellBadlyScaledBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *pow
 		}
 	}
 	noise := powellBadlyScaledBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := powellBadlyScaledBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = powellBadlyScaledBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := powellBadlyScaledBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellBadlyScaledBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = powellBadlyScaledBFGSCentralClampBetween(h, 64*powellBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = powellBadlyScaledBFGSCentralClampBetween(h, 64*powellBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := powellBadlyScaledBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellBadlyScaledBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = powellBadlyScaledBFGSCentralClampBetween(h, 64*powellBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +912,9 @@ func powellBadlyScaledBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func powellBadlyScaledBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := powellBadlyScaledBFGSCentralAbs(fx)
-	for i := range x {
-		sum += powellBadlyScaledBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += powellBadlyScaledBFGSCentralAbs(g[0] * x[0])
+		sum += powellBadlyScaledBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * powellBadlyScaledBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1041,17 @@ func powellBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += powellBadlyScaledBFGSCentralDerivative(x, fx, g, diffs)
 	calls += powellBadlyScaledBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellBadlyScaledBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellBadlyScaledBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * powellBadlyScaledBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1022,16 +1062,30 @@ func powellBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 // in forwardError).
 func powellBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
 	noise := powellBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := powellBadlyScaledBFGSCentralCentralInterval(x, i, diffs)
-		h = powellBadlyScaledBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := powellBadlyScaledBFGSCentralCentralInterval(x, 0, diffs)
+			h = powellBadlyScaledBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellBadlyScaledBFGSCentralCentralInterval(x, 1, diffs)
+			h = powellBadlyScaledBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1099,9 @@ func powellBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *
 func powellBadlyScaledBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
 	var h [2]float64
 	powellBadlyScaledBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellBadlyScaledBFGSCentralUnitRoundoff * powellBadlyScaledBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellBadlyScaledBFGSCentralUnitRoundoff * powellBadlyScaledBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * powellBadlyScaledBFGSCentralUnitRoundoff * powellBadlyScaledBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1074,10 +1129,17 @@ func powellBadlyScaledBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[0])+e[0])*w)
+			floor = powellBadlyScaledBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[1]), 1) / scale
+			measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[1])+e[1])*w)
+			floor = powellBadlyScaledBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1149,11 @@ func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*powellBadlyScaledBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(powellBadlyScaledBFGSCentralAbs(s[0]) <= tol*powellBadlyScaledBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellBadlyScaledBFGSCentralAbs(s[1]) <= tol*powellBadlyScaledBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1142,9 +1207,14 @@ func (f *powellBadlyScaledBFGSCentralStepFloor) at(x, d *[2]float64, diffs *powe
 // step test, min over i of tol·powellBadlyScaledBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellBadlyScaledBFGSCentralStepScale(x[i], i, diffs) / powellBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellBadlyScaledBFGSCentralStepScale(x[0], 0, diffs) / powellBadlyScaledBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellBadlyScaledBFGSCentralStepScale(x[1], 1, diffs) / powellBadlyScaledBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1292,8 +1362,11 @@ func powellBadlyScaledBFGSCentralShrinkDirection(d, g *[2]float64) {
 // powellBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func powellBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellBadlyScaledBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := powellBadlyScaledBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellBadlyScaledBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1302,8 +1375,9 @@ func powellBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // powellBadlyScaledBFGSCentralScaleBy sets x = c·x.
 func powellBadlyScaledBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1368,8 +1442,11 @@ func (r *powellBadlyScaledBFGSCentralRiseTrend) contradicts() bool {
 // powellBadlyScaledBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(powellBadlyScaledBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*powellBadlyScaledBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellBadlyScaledBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*powellBadlyScaledBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1418,8 +1495,9 @@ func powellBadlyScaledBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2
 
 // powellBadlyScaledBFGSCentralMoveTo sets out = x + t·d.
 func powellBadlyScaledBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1485,8 +1563,9 @@ func powellBadlyScaledBFGSCentralExpandTrial(previous, current *powellBadlyScale
 
 // powellBadlyScaledBFGSCentralGradientChange sets out = a − b.
 func powellBadlyScaledBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -618,8 +618,9 @@ type powellBadlyScaledCGAnalyticDirection struct {
 func (s *powellBadlyScaledCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
 	}
 }
 
@@ -627,16 +628,18 @@ func (s *powellBadlyScaledCGAnalyticDirection) compute(g, d *[2]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := powellBadlyScaledCGAnalyticDot(g, &z), powellBadlyScaledCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && powellBadlyScaledCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = powellBadlyScaledCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +658,42 @@ func (s *powellBadlyScaledCGAnalyticDirection) compute(g, d *[2]float64) {
 func (s *powellBadlyScaledCGAnalyticDirection) update(step, change *[2]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
 	}
 	if !powellBadlyScaledCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && powellBadlyScaledCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && powellBadlyScaledCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && powellBadlyScaledCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
 		}
 	}
 }
@@ -701,8 +718,9 @@ func (s *powellBadlyScaledCGAnalyticDirection) firstTrial(t, slope, now float64)
 // powellBadlyScaledCGAnalyticDot returns aᵀb.
 func powellBadlyScaledCGAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -781,8 +799,11 @@ func powellBadlyScaledCGAnalyticValue(x, g *[2]float64, diffs *powellBadlyScaled
 
 // powellBadlyScaledCGAnalyticFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledCGAnalyticFinite(x[i]) {
+	{
+		if !powellBadlyScaledCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !powellBadlyScaledCGAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -836,15 +857,17 @@ func powellBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += powellBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
 	calls += powellBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellBadlyScaledCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellBadlyScaledCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * powellBadlyScaledCGAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -852,8 +875,9 @@ func powellBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e 
 // powellBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func powellBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -866,8 +890,9 @@ func powellBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[
 func powellBadlyScaledCGAnalyticRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
 	var h [2]float64
 	powellBadlyScaledCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellBadlyScaledCGAnalyticUnitRoundoff * powellBadlyScaledCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellBadlyScaledCGAnalyticUnitRoundoff * powellBadlyScaledCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * powellBadlyScaledCGAnalyticUnitRoundoff * powellBadlyScaledCGAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -959,10 +984,17 @@ func powellBadlyScaledCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[0])+e[0])*w)
+			floor = powellBadlyScaledCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[1]), 1) / scale
+			measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[1])+e[1])*w)
+			floor = powellBadlyScaledCGAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1004,11 @@ func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64)
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*powellBadlyScaledCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(powellBadlyScaledCGAnalyticAbs(s[0]) <= tol*powellBadlyScaledCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellBadlyScaledCGAnalyticAbs(s[1]) <= tol*powellBadlyScaledCGAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1027,9 +1062,14 @@ func (f *powellBadlyScaledCGAnalyticStepFloor) at(x, d *[2]float64, diffs *powel
 // step test, min over i of tol·powellBadlyScaledCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellBadlyScaledCGAnalyticStepScale(x[i], i, diffs) / powellBadlyScaledCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellBadlyScaledCGAnalyticStepScale(x[0], 0, diffs) / powellBadlyScaledCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellBadlyScaledCGAnalyticStepScale(x[1], 1, diffs) / powellBadlyScaledCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1177,8 +1217,11 @@ func powellBadlyScaledCGAnalyticShrinkDirection(d, g *[2]float64) {
 // powellBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func powellBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := powellBadlyScaledCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellBadlyScaledCGAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1187,8 +1230,9 @@ func powellBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
 
 // powellBadlyScaledCGAnalyticScaleBy sets x = c·x.
 func powellBadlyScaledCGAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1253,8 +1297,11 @@ func (r *powellBadlyScaledCGAnalyticRiseTrend) contradicts() bool {
 // powellBadlyScaledCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellBadlyScaledCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(powellBadlyScaledCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*powellBadlyScaledCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellBadlyScaledCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*powellBadlyScaledCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1303,8 +1350,9 @@ func powellBadlyScaledCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]
 
 // powellBadlyScaledCGAnalyticMoveTo sets out = x + t·d.
 func powellBadlyScaledCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1370,8 +1418,9 @@ func powellBadlyScaledCGAnalyticExpandTrial(previous, current *powellBadlyScaled
 
 // powellBadlyScaledCGAnalyticGradientChange sets out = a − b.
 func powellBadlyScaledCGAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -618,8 +618,9 @@ type powellBadlyScaledCGCentralDirection struct {
 func (s *powellBadlyScaledCGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
 	}
 }
 
@@ -627,16 +628,18 @@ func (s *powellBadlyScaledCGCentralDirection) compute(g, d *[2]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := powellBadlyScaledCGCentralDot(g, &z), powellBadlyScaledCGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && powellBadlyScaledCGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = powellBadlyScaledCGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +658,42 @@ func (s *powellBadlyScaledCGCentralDirection) compute(g, d *[2]float64) {
 func (s *powellBadlyScaledCGCentralDirection) update(step, change *[2]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
 	}
 	if !powellBadlyScaledCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && powellBadlyScaledCGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && powellBadlyScaledCGCentralFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && powellBadlyScaledCGCentralFinite(next) {
+				s.curvature[1] = next
+			}
 		}
 	}
 }
@@ -701,8 +718,9 @@ func (s *powellBadlyScaledCGCentralDirection) firstTrial(t, slope, now float64) 
 // powellBadlyScaledCGCentralDot returns aᵀb.
 func powellBadlyScaledCGCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -781,8 +799,11 @@ func powellBadlyScaledCGCentralValue(x, g *[2]float64, diffs *powellBadlyScaledC
 
 // powellBadlyScaledCGCentralFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledCGCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledCGCentralFinite(x[i]) {
+	{
+		if !powellBadlyScaledCGCentralFinite(x[0]) {
+			return false
+		}
+		if !powellBadlyScaledCGCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -854,16 +875,29 @@ func powellBadlyScaledCGCentralCalibrate(x *[2]float64, fx float64, diffs *powel
 		}
 	}
 	noise := powellBadlyScaledCGCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := powellBadlyScaledCGCentralLarger(1, powellBadlyScaledCGCentralAbs(probe[i]))
-		bar := quarter * s
-		third := powellBadlyScaledCGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = powellBadlyScaledCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := powellBadlyScaledCGCentralLarger(1, powellBadlyScaledCGCentralAbs(probe[0]))
+			bar := quarter * s
+			third := powellBadlyScaledCGCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellBadlyScaledCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = powellBadlyScaledCGCentralClampBetween(h, 64*powellBadlyScaledCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = powellBadlyScaledCGCentralClampBetween(h, 64*powellBadlyScaledCGCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := powellBadlyScaledCGCentralLarger(1, powellBadlyScaledCGCentralAbs(probe[1]))
+			bar := quarter * s
+			third := powellBadlyScaledCGCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellBadlyScaledCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = powellBadlyScaledCGCentralClampBetween(h, 64*powellBadlyScaledCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -939,8 +973,9 @@ func powellBadlyScaledCGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func powellBadlyScaledCGCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := powellBadlyScaledCGCentralAbs(fx)
-	for i := range x {
-		sum += powellBadlyScaledCGCentralAbs(g[i] * x[i])
+	{
+		sum += powellBadlyScaledCGCentralAbs(g[0] * x[0])
+		sum += powellBadlyScaledCGCentralAbs(g[1] * x[1])
 	}
 	return 4 * powellBadlyScaledCGCentralUnitRoundoff * sum
 }
@@ -1067,15 +1102,17 @@ func powellBadlyScaledCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += powellBadlyScaledCGCentralDerivative(x, fx, g, diffs)
 	calls += powellBadlyScaledCGCentralDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledCGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellBadlyScaledCGCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellBadlyScaledCGCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * powellBadlyScaledCGCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1086,16 +1123,30 @@ func powellBadlyScaledCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *
 // in forwardError).
 func powellBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
 	noise := powellBadlyScaledCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := powellBadlyScaledCGCentralCentralInterval(x, i, diffs)
-		h = powellBadlyScaledCGCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := powellBadlyScaledCGCentralCentralInterval(x, 0, diffs)
+			h = powellBadlyScaledCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellBadlyScaledCGCentralCentralInterval(x, 1, diffs)
+			h = powellBadlyScaledCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1109,8 +1160,9 @@ func powellBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2
 func powellBadlyScaledCGCentralRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
 	var h [2]float64
 	powellBadlyScaledCGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellBadlyScaledCGCentralUnitRoundoff * powellBadlyScaledCGCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellBadlyScaledCGCentralUnitRoundoff * powellBadlyScaledCGCentralAbs(x[0]) * h[0]
+		e[1] += 4 * powellBadlyScaledCGCentralUnitRoundoff * powellBadlyScaledCGCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1138,10 +1190,17 @@ func powellBadlyScaledCGCentralStationarity(g, e, x *[2]float64, fx float64, b *
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledCGCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[0])+e[0])*w)
+			floor = powellBadlyScaledCGCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[1]), 1) / scale
+			measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[1])+e[1])*w)
+			floor = powellBadlyScaledCGCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1151,8 +1210,11 @@ func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledCGCentralDifferences) bool {
-	for i := range s {
-		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*powellBadlyScaledCGCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(powellBadlyScaledCGCentralAbs(s[0]) <= tol*powellBadlyScaledCGCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellBadlyScaledCGCentralAbs(s[1]) <= tol*powellBadlyScaledCGCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1205,9 +1267,14 @@ func (f *powellBadlyScaledCGCentralStepFloor) at(x, d *[2]float64, diffs *powell
 // step test, min over i of tol·powellBadlyScaledCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledCGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellBadlyScaledCGCentralStepScale(x[i], i, diffs) / powellBadlyScaledCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellBadlyScaledCGCentralStepScale(x[0], 0, diffs) / powellBadlyScaledCGCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellBadlyScaledCGCentralStepScale(x[1], 1, diffs) / powellBadlyScaledCGCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1355,8 +1422,11 @@ func powellBadlyScaledCGCentralShrinkDirection(d, g *[2]float64) {
 // powellBadlyScaledCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func powellBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellBadlyScaledCGCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := powellBadlyScaledCGCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellBadlyScaledCGCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1365,8 +1435,9 @@ func powellBadlyScaledCGCentralMaxAbs(x *[2]float64) float64 {
 
 // powellBadlyScaledCGCentralScaleBy sets x = c·x.
 func powellBadlyScaledCGCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1431,8 +1502,11 @@ func (r *powellBadlyScaledCGCentralRiseTrend) contradicts() bool {
 // powellBadlyScaledCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellBadlyScaledCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledCGCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledCGCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(powellBadlyScaledCGCentralAbs(xt[0]-x[0]-want) <= 0.01*powellBadlyScaledCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellBadlyScaledCGCentralAbs(xt[1]-x[1]-want) <= 0.01*powellBadlyScaledCGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1481,8 +1555,9 @@ func powellBadlyScaledCGCentralTrialPoint(out, x *[2]float64, t float64, d *[2]f
 
 // powellBadlyScaledCGCentralMoveTo sets out = x + t·d.
 func powellBadlyScaledCGCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1548,8 +1623,9 @@ func powellBadlyScaledCGCentralExpandTrial(previous, current *powellBadlyScaledC
 
 // powellBadlyScaledCGCentralGradientChange sets out = a − b.
 func powellBadlyScaledCGCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -600,8 +600,9 @@ func (s *powellBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * powellBadlyScaledLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *powellBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := powellBadlyScaledLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / powellBadlyScaledLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *powellBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * powellBadlyScaledLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	powellBadlyScaledLBFGSAnalyticNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *powellBadlyScaledLBFGSAnalyticDirection) firstTrial(t, slope, now float
 // powellBadlyScaledLBFGSAnalyticDot returns aᵀb.
 func powellBadlyScaledLBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // powellBadlyScaledLBFGSAnalyticNegate sets out = −x.
 func powellBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func powellBadlyScaledLBFGSAnalyticFinite(v float64) bool {
 
 // powellBadlyScaledLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledLBFGSAnalyticFinite(x[i]) {
+	{
+		if !powellBadlyScaledLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !powellBadlyScaledLBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -787,15 +795,17 @@ func powellBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g,
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += powellBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += powellBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellBadlyScaledLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellBadlyScaledLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * powellBadlyScaledLBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -803,8 +813,9 @@ func powellBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g,
 // powellBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func powellBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -825,8 +836,9 @@ func powellBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
 func powellBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
 	var h [2]float64
 	powellBadlyScaledLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellBadlyScaledLBFGSAnalyticUnitRoundoff * powellBadlyScaledLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellBadlyScaledLBFGSAnalyticUnitRoundoff * powellBadlyScaledLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * powellBadlyScaledLBFGSAnalyticUnitRoundoff * powellBadlyScaledLBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -928,10 +940,17 @@ func powellBadlyScaledLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64,
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +960,11 @@ func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*powellBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(powellBadlyScaledLBFGSAnalyticAbs(s[0]) <= tol*powellBadlyScaledLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellBadlyScaledLBFGSAnalyticAbs(s[1]) <= tol*powellBadlyScaledLBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -996,9 +1018,14 @@ func (f *powellBadlyScaledLBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *po
 // step test, min over i of tol·powellBadlyScaledLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellBadlyScaledLBFGSAnalyticStepScale(x[i], i, diffs) / powellBadlyScaledLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellBadlyScaledLBFGSAnalyticStepScale(x[0], 0, diffs) / powellBadlyScaledLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellBadlyScaledLBFGSAnalyticStepScale(x[1], 1, diffs) / powellBadlyScaledLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1146,8 +1173,11 @@ func powellBadlyScaledLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // powellBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func powellBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := powellBadlyScaledLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellBadlyScaledLBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1156,8 +1186,9 @@ func powellBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // powellBadlyScaledLBFGSAnalyticScaleBy sets x = c·x.
 func powellBadlyScaledLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1222,8 +1253,11 @@ func (r *powellBadlyScaledLBFGSAnalyticRiseTrend) contradicts() bool {
 // powellBadlyScaledLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(powellBadlyScaledLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*powellBadlyScaledLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellBadlyScaledLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*powellBadlyScaledLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1272,8 +1306,9 @@ func powellBadlyScaledLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *
 
 // powellBadlyScaledLBFGSAnalyticMoveTo sets out = x + t·d.
 func powellBadlyScaledLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1339,8 +1374,9 @@ func powellBadlyScaledLBFGSAnalyticExpandTrial(previous, current *powellBadlySca
 
 // powellBadlyScaledLBFGSAnalyticGradientChange sets out = a − b.
 func powellBadlyScaledLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -600,8 +600,9 @@ func (s *powellBadlyScaledLBFGSCentralDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * powellBadlyScaledLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *powellBadlyScaledLBFGSCentralDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := powellBadlyScaledLBFGSCentralDot(&s.s[newest], &s.y[newest]) / powellBadlyScaledLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *powellBadlyScaledLBFGSCentralDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * powellBadlyScaledLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	powellBadlyScaledLBFGSCentralNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *powellBadlyScaledLBFGSCentralDirection) firstTrial(t, slope, now float6
 // powellBadlyScaledLBFGSCentralDot returns aᵀb.
 func powellBadlyScaledLBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // powellBadlyScaledLBFGSCentralNegate sets out = −x.
 func powellBadlyScaledLBFGSCentralNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func powellBadlyScaledLBFGSCentralFinite(v float64) bool {
 
 // powellBadlyScaledLBFGSCentralFiniteVec reports whether every component of x is finite.
 func powellBadlyScaledLBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !powellBadlyScaledLBFGSCentralFinite(x[i]) {
+	{
+		if !powellBadlyScaledLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !powellBadlyScaledLBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -805,16 +813,29 @@ func powellBadlyScaledLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *po
 		}
 	}
 	noise := powellBadlyScaledLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := powellBadlyScaledLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = powellBadlyScaledLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := powellBadlyScaledLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellBadlyScaledLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = powellBadlyScaledLBFGSCentralClampBetween(h, 64*powellBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = powellBadlyScaledLBFGSCentralClampBetween(h, 64*powellBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := powellBadlyScaledLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellBadlyScaledLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = powellBadlyScaledLBFGSCentralClampBetween(h, 64*powellBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +929,9 @@ func powellBadlyScaledLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func powellBadlyScaledLBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := powellBadlyScaledLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += powellBadlyScaledLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += powellBadlyScaledLBFGSCentralAbs(g[0] * x[0])
+		sum += powellBadlyScaledLBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * powellBadlyScaledLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1058,17 @@ func powellBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += powellBadlyScaledLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += powellBadlyScaledLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellBadlyScaledLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellBadlyScaledLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * powellBadlyScaledLBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1055,16 +1079,30 @@ func powellBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, 
 // in forwardError).
 func powellBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
 	noise := powellBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := powellBadlyScaledLBFGSCentralCentralInterval(x, i, diffs)
-		h = powellBadlyScaledLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := powellBadlyScaledLBFGSCentralCentralInterval(x, 0, diffs)
+			h = powellBadlyScaledLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellBadlyScaledLBFGSCentralCentralInterval(x, 1, diffs)
+			h = powellBadlyScaledLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1116,9 @@ func powellBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e 
 func powellBadlyScaledLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
 	var h [2]float64
 	powellBadlyScaledLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellBadlyScaledLBFGSCentralUnitRoundoff * powellBadlyScaledLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellBadlyScaledLBFGSCentralUnitRoundoff * powellBadlyScaledLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * powellBadlyScaledLBFGSCentralUnitRoundoff * powellBadlyScaledLBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1107,10 +1146,17 @@ func powellBadlyScaledLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = powellBadlyScaledLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[1]), 1) / scale
+			measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = powellBadlyScaledLBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1166,11 @@ func powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float6
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *powellBadlyScaledLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(powellBadlyScaledLBFGSCentralAbs(s[i]) <= tol*powellBadlyScaledLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(powellBadlyScaledLBFGSCentralAbs(s[0]) <= tol*powellBadlyScaledLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellBadlyScaledLBFGSCentralAbs(s[1]) <= tol*powellBadlyScaledLBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1175,9 +1224,14 @@ func (f *powellBadlyScaledLBFGSCentralStepFloor) at(x, d *[2]float64, diffs *pow
 // step test, min over i of tol·powellBadlyScaledLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *powellBadlyScaledLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellBadlyScaledLBFGSCentralStepScale(x[i], i, diffs) / powellBadlyScaledLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellBadlyScaledLBFGSCentralStepScale(x[0], 0, diffs) / powellBadlyScaledLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellBadlyScaledLBFGSCentralStepScale(x[1], 1, diffs) / powellBadlyScaledLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1325,8 +1379,11 @@ func powellBadlyScaledLBFGSCentralShrinkDirection(d, g *[2]float64) {
 // powellBadlyScaledLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func powellBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellBadlyScaledLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := powellBadlyScaledLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellBadlyScaledLBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1335,8 +1392,9 @@ func powellBadlyScaledLBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // powellBadlyScaledLBFGSCentralScaleBy sets x = c·x.
 func powellBadlyScaledLBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1401,8 +1459,11 @@ func (r *powellBadlyScaledLBFGSCentralRiseTrend) contradicts() bool {
 // powellBadlyScaledLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(powellBadlyScaledLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*powellBadlyScaledLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellBadlyScaledLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*powellBadlyScaledLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1451,8 +1512,9 @@ func powellBadlyScaledLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[
 
 // powellBadlyScaledLBFGSCentralMoveTo sets out = x + t·d.
 func powellBadlyScaledLBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1518,8 +1580,9 @@ func powellBadlyScaledLBFGSCentralExpandTrial(previous, current *powellBadlyScal
 
 // powellBadlyScaledLBFGSCentralGradientChange sets out = a − b.
 func powellBadlyScaledLBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

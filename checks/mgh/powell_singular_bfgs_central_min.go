@@ -585,18 +585,45 @@ type powellSingularBFGSCentralDirection struct {
 }
 
 func (s *powellSingularBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *powellSingularBFGSCentralDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -powellSingularBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -powellSingularBFGSCentralDot(&s.h[0], g)
+		d[1] = -powellSingularBFGSCentralDot(&s.h[1], g)
+		d[2] = -powellSingularBFGSCentralDot(&s.h[2], g)
+		d[3] = -powellSingularBFGSCentralDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *powellSingularBFGSCentralDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / powellSingularBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *powellSingularBFGSCentralDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = powellSingularBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = powellSingularBFGSCentralDot(&s.h[0], change)
+		hy[1] = powellSingularBFGSCentralDot(&s.h[1], change)
+		hy[2] = powellSingularBFGSCentralDot(&s.h[2], change)
+		hy[3] = powellSingularBFGSCentralDot(&s.h[3], change)
 	}
 	outer := (rho*rho*powellSingularBFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *powellSingularBFGSCentralDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *powellSingularBFGSCentralDirection) firstTrial(t, slope, now float64) f
 // powellSingularBFGSCentralDot returns aᵀb.
 func powellSingularBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func powellSingularBFGSCentralFinite(v float64) bool {
 
 // powellSingularBFGSCentralFiniteVec reports whether every component of x is finite.
 func powellSingularBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularBFGSCentralFinite(x[i]) {
+	{
+		if !powellSingularBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !powellSingularBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !powellSingularBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !powellSingularBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -772,16 +820,51 @@ func powellSingularBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *powell
 		}
 	}
 	noise := powellSingularBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := powellSingularBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = powellSingularBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := powellSingularBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = powellSingularBFGSCentralClampBetween(h, 64*powellSingularBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = powellSingularBFGSCentralClampBetween(h, 64*powellSingularBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := powellSingularBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = powellSingularBFGSCentralClampBetween(h, 64*powellSingularBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := powellSingularBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = powellSingularBFGSCentralClampBetween(h, 64*powellSingularBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := powellSingularBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = powellSingularBFGSCentralClampBetween(h, 64*powellSingularBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +958,11 @@ func powellSingularBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func powellSingularBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := powellSingularBFGSCentralAbs(fx)
-	for i := range x {
-		sum += powellSingularBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += powellSingularBFGSCentralAbs(g[0] * x[0])
+		sum += powellSingularBFGSCentralAbs(g[1] * x[1])
+		sum += powellSingularBFGSCentralAbs(g[2] * x[2])
+		sum += powellSingularBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * powellSingularBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1089,21 @@ func powellSingularBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += powellSingularBFGSCentralDerivative(x, fx, g, diffs)
 	calls += powellSingularBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellSingularBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellSingularBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellSingularBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * powellSingularBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * powellSingularBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * powellSingularBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1022,16 +1114,54 @@ func powellSingularBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[
 // in forwardError).
 func powellSingularBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
 	noise := powellSingularBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := powellSingularBFGSCentralCentralInterval(x, i, diffs)
-		h = powellSingularBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := powellSingularBFGSCentralCentralInterval(x, 0, diffs)
+			h = powellSingularBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularBFGSCentralCentralInterval(x, 1, diffs)
+			h = powellSingularBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularBFGSCentralCentralInterval(x, 2, diffs)
+			h = powellSingularBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularBFGSCentralCentralInterval(x, 3, diffs)
+			h = powellSingularBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1175,11 @@ func powellSingularBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]
 func powellSingularBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
 	var h [4]float64
 	powellSingularBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellSingularBFGSCentralUnitRoundoff * powellSingularBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellSingularBFGSCentralUnitRoundoff * powellSingularBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * powellSingularBFGSCentralUnitRoundoff * powellSingularBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * powellSingularBFGSCentralUnitRoundoff * powellSingularBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * powellSingularBFGSCentralUnitRoundoff * powellSingularBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1074,10 +1207,27 @@ func powellSingularBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *p
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellSingularBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[0])+e[0])*w)
+			floor = powellSingularBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[1]), 1) / scale
+			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[1])+e[1])*w)
+			floor = powellSingularBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[2]), 1) / scale
+			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[2])+e[2])*w)
+			floor = powellSingularBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[3]), 1) / scale
+			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[3])+e[3])*w)
+			floor = powellSingularBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1237,17 @@ func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*powellSingularBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(powellSingularBFGSCentralAbs(s[0]) <= tol*powellSingularBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellSingularBFGSCentralAbs(s[1]) <= tol*powellSingularBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(powellSingularBFGSCentralAbs(s[2]) <= tol*powellSingularBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(powellSingularBFGSCentralAbs(s[3]) <= tol*powellSingularBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1141,9 +1300,24 @@ func (f *powellSingularBFGSCentralStepFloor) at(x, d *[4]float64, diffs *powellS
 // step test, min over i of tol·powellSingularBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellSingularBFGSCentralStepScale(x[i], i, diffs) / powellSingularBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellSingularBFGSCentralStepScale(x[0], 0, diffs) / powellSingularBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellSingularBFGSCentralStepScale(x[1], 1, diffs) / powellSingularBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * powellSingularBFGSCentralStepScale(x[2], 2, diffs) / powellSingularBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * powellSingularBFGSCentralStepScale(x[3], 3, diffs) / powellSingularBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1291,8 +1465,17 @@ func powellSingularBFGSCentralShrinkDirection(d, g *[4]float64) {
 // powellSingularBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func powellSingularBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellSingularBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := powellSingularBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1301,8 +1484,11 @@ func powellSingularBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // powellSingularBFGSCentralScaleBy sets x = c·x.
 func powellSingularBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1367,8 +1553,17 @@ func (r *powellSingularBFGSCentralRiseTrend) contradicts() bool {
 // powellSingularBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellSingularBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(powellSingularBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellSingularBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(powellSingularBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(powellSingularBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1417,8 +1612,11 @@ func powellSingularBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]fl
 
 // powellSingularBFGSCentralMoveTo sets out = x + t·d.
 func powellSingularBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1484,8 +1682,11 @@ func powellSingularBFGSCentralExpandTrial(previous, current *powellSingularBFGSC
 
 // powellSingularBFGSCentralGradientChange sets out = a − b.
 func powellSingularBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -618,8 +618,11 @@ type powellSingularCGAnalyticDirection struct {
 func (s *powellSingularCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
+		s.curvature[3] = 1
 	}
 }
 
@@ -627,16 +630,22 @@ func (s *powellSingularCGAnalyticDirection) compute(g, d *[4]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2]
+			z[3] /= s.curvature[3] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := powellSingularCGAnalyticDot(g, &z), powellSingularCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && powellSingularCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = powellSingularCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2]
+		d[3] = -z[3] + beta*s.previous[3] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +664,66 @@ func (s *powellSingularCGAnalyticDirection) compute(g, d *[4]float64) {
 func (s *powellSingularCGAnalyticDirection) update(step, change *[4]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
+		sy += step[3] * change[3]
+		ss += step[3] * step[3]
+		yy += change[3] * change[3]
+		sbs += s.curvature[3] * step[3] * step[3]
 	}
 	if !powellSingularCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
+			s.curvature[3] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && powellSingularCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && powellSingularCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && powellSingularCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && powellSingularCGAnalyticFinite(next) {
+				s.curvature[2] = next
+			}
+		}
+		{
+			bs := s.curvature[3] * step[3]
+			next := s.curvature[3] - bs*(bs/sbs) + change[3]*(change[3]/sy)
+			if next > 0 && powellSingularCGAnalyticFinite(next) {
+				s.curvature[3] = next
+			}
 		}
 	}
 }
@@ -701,8 +748,11 @@ func (s *powellSingularCGAnalyticDirection) firstTrial(t, slope, now float64) fl
 // powellSingularCGAnalyticDot returns aᵀb.
 func powellSingularCGAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -781,8 +831,17 @@ func powellSingularCGAnalyticValue(x, g *[4]float64, diffs *powellSingularCGAnal
 
 // powellSingularCGAnalyticFiniteVec reports whether every component of x is finite.
 func powellSingularCGAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularCGAnalyticFinite(x[i]) {
+	{
+		if !powellSingularCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !powellSingularCGAnalyticFinite(x[1]) {
+			return false
+		}
+		if !powellSingularCGAnalyticFinite(x[2]) {
+			return false
+		}
+		if !powellSingularCGAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -836,15 +895,21 @@ func powellSingularCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += powellSingularCGAnalyticDerivative(x, fx, g, diffs)
 	calls += powellSingularCGAnalyticDerivative(x, fx, &doubled, &wide)
 	powellSingularCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellSingularCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellSingularCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * powellSingularCGAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * powellSingularCGAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * powellSingularCGAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -852,8 +917,11 @@ func powellSingularCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4
 // powellSingularCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func powellSingularCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -866,8 +934,11 @@ func powellSingularCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]f
 func powellSingularCGAnalyticRoundingFloor(x, g, e *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
 	var h [4]float64
 	powellSingularCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellSingularCGAnalyticUnitRoundoff * powellSingularCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellSingularCGAnalyticUnitRoundoff * powellSingularCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * powellSingularCGAnalyticUnitRoundoff * powellSingularCGAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * powellSingularCGAnalyticUnitRoundoff * powellSingularCGAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * powellSingularCGAnalyticUnitRoundoff * powellSingularCGAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -959,10 +1030,27 @@ func powellSingularCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *po
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[i])+e[i])*w)
-		floor = powellSingularCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[0])+e[0])*w)
+			floor = powellSingularCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[1]), 1) / scale
+			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[1])+e[1])*w)
+			floor = powellSingularCGAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[2]), 1) / scale
+			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[2])+e[2])*w)
+			floor = powellSingularCGAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[3]), 1) / scale
+			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[3])+e[3])*w)
+			floor = powellSingularCGAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1060,17 @@ func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (m
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*powellSingularCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(powellSingularCGAnalyticAbs(s[0]) <= tol*powellSingularCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellSingularCGAnalyticAbs(s[1]) <= tol*powellSingularCGAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(powellSingularCGAnalyticAbs(s[2]) <= tol*powellSingularCGAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(powellSingularCGAnalyticAbs(s[3]) <= tol*powellSingularCGAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1123,24 @@ func (f *powellSingularCGAnalyticStepFloor) at(x, d *[4]float64, diffs *powellSi
 // step test, min over i of tol·powellSingularCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellSingularCGAnalyticStepScale(x[i], i, diffs) / powellSingularCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellSingularCGAnalyticStepScale(x[0], 0, diffs) / powellSingularCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellSingularCGAnalyticStepScale(x[1], 1, diffs) / powellSingularCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * powellSingularCGAnalyticStepScale(x[2], 2, diffs) / powellSingularCGAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * powellSingularCGAnalyticStepScale(x[3], 3, diffs) / powellSingularCGAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1288,17 @@ func powellSingularCGAnalyticShrinkDirection(d, g *[4]float64) {
 // powellSingularCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func powellSingularCGAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellSingularCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := powellSingularCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularCGAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularCGAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularCGAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1307,11 @@ func powellSingularCGAnalyticMaxAbs(x *[4]float64) float64 {
 
 // powellSingularCGAnalyticScaleBy sets x = c·x.
 func powellSingularCGAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1252,8 +1376,17 @@ func (r *powellSingularCGAnalyticRiseTrend) contradicts() bool {
 // powellSingularCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellSingularCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(powellSingularCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellSingularCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(powellSingularCGAnalyticAbs(xt[2]-x[2]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(powellSingularCGAnalyticAbs(xt[3]-x[3]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1435,11 @@ func powellSingularCGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]flo
 
 // powellSingularCGAnalyticMoveTo sets out = x + t·d.
 func powellSingularCGAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1369,8 +1505,11 @@ func powellSingularCGAnalyticExpandTrial(previous, current *powellSingularCGAnal
 
 // powellSingularCGAnalyticGradientChange sets out = a − b.
 func powellSingularCGAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -618,8 +618,11 @@ type powellSingularCGCentralDirection struct {
 func (s *powellSingularCGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
+		s.curvature[3] = 1
 	}
 }
 
@@ -627,16 +630,22 @@ func (s *powellSingularCGCentralDirection) compute(g, d *[4]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2]
+			z[3] /= s.curvature[3] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := powellSingularCGCentralDot(g, &z), powellSingularCGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && powellSingularCGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = powellSingularCGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2]
+		d[3] = -z[3] + beta*s.previous[3] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +664,66 @@ func (s *powellSingularCGCentralDirection) compute(g, d *[4]float64) {
 func (s *powellSingularCGCentralDirection) update(step, change *[4]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
+		sy += step[3] * change[3]
+		ss += step[3] * step[3]
+		yy += change[3] * change[3]
+		sbs += s.curvature[3] * step[3] * step[3]
 	}
 	if !powellSingularCGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
+			s.curvature[3] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && powellSingularCGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && powellSingularCGCentralFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && powellSingularCGCentralFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && powellSingularCGCentralFinite(next) {
+				s.curvature[2] = next
+			}
+		}
+		{
+			bs := s.curvature[3] * step[3]
+			next := s.curvature[3] - bs*(bs/sbs) + change[3]*(change[3]/sy)
+			if next > 0 && powellSingularCGCentralFinite(next) {
+				s.curvature[3] = next
+			}
 		}
 	}
 }
@@ -701,8 +748,11 @@ func (s *powellSingularCGCentralDirection) firstTrial(t, slope, now float64) flo
 // powellSingularCGCentralDot returns aᵀb.
 func powellSingularCGCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -781,8 +831,17 @@ func powellSingularCGCentralValue(x, g *[4]float64, diffs *powellSingularCGCentr
 
 // powellSingularCGCentralFiniteVec reports whether every component of x is finite.
 func powellSingularCGCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularCGCentralFinite(x[i]) {
+	{
+		if !powellSingularCGCentralFinite(x[0]) {
+			return false
+		}
+		if !powellSingularCGCentralFinite(x[1]) {
+			return false
+		}
+		if !powellSingularCGCentralFinite(x[2]) {
+			return false
+		}
+		if !powellSingularCGCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -854,16 +913,51 @@ func powellSingularCGCentralCalibrate(x *[4]float64, fx float64, diffs *powellSi
 		}
 	}
 	noise := powellSingularCGCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(probe[i]))
-		bar := quarter * s
-		third := powellSingularCGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = powellSingularCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(probe[0]))
+			bar := quarter * s
+			third := powellSingularCGCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = powellSingularCGCentralClampBetween(h, 64*powellSingularCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = powellSingularCGCentralClampBetween(h, 64*powellSingularCGCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(probe[1]))
+			bar := quarter * s
+			third := powellSingularCGCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = powellSingularCGCentralClampBetween(h, 64*powellSingularCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(probe[2]))
+			bar := quarter * s
+			third := powellSingularCGCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = powellSingularCGCentralClampBetween(h, 64*powellSingularCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(probe[3]))
+			bar := quarter * s
+			third := powellSingularCGCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularCGCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = powellSingularCGCentralClampBetween(h, 64*powellSingularCGCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -939,8 +1033,11 @@ func powellSingularCGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func powellSingularCGCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := powellSingularCGCentralAbs(fx)
-	for i := range x {
-		sum += powellSingularCGCentralAbs(g[i] * x[i])
+	{
+		sum += powellSingularCGCentralAbs(g[0] * x[0])
+		sum += powellSingularCGCentralAbs(g[1] * x[1])
+		sum += powellSingularCGCentralAbs(g[2] * x[2])
+		sum += powellSingularCGCentralAbs(g[3] * x[3])
 	}
 	return 4 * powellSingularCGCentralUnitRoundoff * sum
 }
@@ -1067,15 +1164,21 @@ func powellSingularCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += powellSingularCGCentralDerivative(x, fx, g, diffs)
 	calls += powellSingularCGCentralDerivative(x, fx, &doubled, &wide)
 	powellSingularCGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellSingularCGCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellSingularCGCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * powellSingularCGCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * powellSingularCGCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * powellSingularCGCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1086,16 +1189,54 @@ func powellSingularCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 // in forwardError).
 func powellSingularCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGCentralDifferences) {
 	noise := powellSingularCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := powellSingularCGCentralCentralInterval(x, i, diffs)
-		h = powellSingularCGCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := powellSingularCGCentralCentralInterval(x, 0, diffs)
+			h = powellSingularCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularCGCentralCentralInterval(x, 1, diffs)
+			h = powellSingularCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularCGCentralCentralInterval(x, 2, diffs)
+			h = powellSingularCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularCGCentralCentralInterval(x, 3, diffs)
+			h = powellSingularCGCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1109,8 +1250,11 @@ func powellSingularCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]fl
 func powellSingularCGCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSingularCGCentralDifferences) {
 	var h [4]float64
 	powellSingularCGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellSingularCGCentralUnitRoundoff * powellSingularCGCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellSingularCGCentralUnitRoundoff * powellSingularCGCentralAbs(x[0]) * h[0]
+		e[1] += 4 * powellSingularCGCentralUnitRoundoff * powellSingularCGCentralAbs(x[1]) * h[1]
+		e[2] += 4 * powellSingularCGCentralUnitRoundoff * powellSingularCGCentralAbs(x[2]) * h[2]
+		e[3] += 4 * powellSingularCGCentralUnitRoundoff * powellSingularCGCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1138,10 +1282,27 @@ func powellSingularCGCentralStationarity(g, e, x *[4]float64, fx float64, b *pow
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := powellSingularCGCentralLarger(powellSingularCGCentralAbs(fx), 1)
-	for i := range g {
-		w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[i])+e[i])*w)
-		floor = powellSingularCGCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[0])+e[0])*w)
+			floor = powellSingularCGCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[1]), 1) / scale
+			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[1])+e[1])*w)
+			floor = powellSingularCGCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[2]), 1) / scale
+			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[2])+e[2])*w)
+			floor = powellSingularCGCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[3]), 1) / scale
+			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[3])+e[3])*w)
+			floor = powellSingularCGCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1151,8 +1312,17 @@ func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularCGCentralDifferences) bool {
-	for i := range s {
-		if !(powellSingularCGCentralAbs(s[i]) <= tol*powellSingularCGCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(powellSingularCGCentralAbs(s[0]) <= tol*powellSingularCGCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellSingularCGCentralAbs(s[1]) <= tol*powellSingularCGCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(powellSingularCGCentralAbs(s[2]) <= tol*powellSingularCGCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(powellSingularCGCentralAbs(s[3]) <= tol*powellSingularCGCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1205,9 +1375,24 @@ func (f *powellSingularCGCentralStepFloor) at(x, d *[4]float64, diffs *powellSin
 // step test, min over i of tol·powellSingularCGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularCGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellSingularCGCentralStepScale(x[i], i, diffs) / powellSingularCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellSingularCGCentralStepScale(x[0], 0, diffs) / powellSingularCGCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellSingularCGCentralStepScale(x[1], 1, diffs) / powellSingularCGCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * powellSingularCGCentralStepScale(x[2], 2, diffs) / powellSingularCGCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * powellSingularCGCentralStepScale(x[3], 3, diffs) / powellSingularCGCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1355,8 +1540,17 @@ func powellSingularCGCentralShrinkDirection(d, g *[4]float64) {
 // powellSingularCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func powellSingularCGCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellSingularCGCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := powellSingularCGCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularCGCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularCGCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularCGCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1365,8 +1559,11 @@ func powellSingularCGCentralMaxAbs(x *[4]float64) float64 {
 
 // powellSingularCGCentralScaleBy sets x = c·x.
 func powellSingularCGCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1431,8 +1628,17 @@ func (r *powellSingularCGCentralRiseTrend) contradicts() bool {
 // powellSingularCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellSingularCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularCGCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(powellSingularCGCentralAbs(xt[0]-x[0]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellSingularCGCentralAbs(xt[1]-x[1]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(powellSingularCGCentralAbs(xt[2]-x[2]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(powellSingularCGCentralAbs(xt[3]-x[3]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1481,8 +1687,11 @@ func powellSingularCGCentralTrialPoint(out, x *[4]float64, t float64, d *[4]floa
 
 // powellSingularCGCentralMoveTo sets out = x + t·d.
 func powellSingularCGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1548,8 +1757,11 @@ func powellSingularCGCentralExpandTrial(previous, current *powellSingularCGCentr
 
 // powellSingularCGCentralGradientChange sets out = a − b.
 func powellSingularCGCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -600,8 +600,11 @@ func (s *powellSingularLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * powellSingularLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *powellSingularLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := powellSingularLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / powellSingularLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *powellSingularLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * powellSingularLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	powellSingularLBFGSAnalyticNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *powellSingularLBFGSAnalyticDirection) firstTrial(t, slope, now float64)
 // powellSingularLBFGSAnalyticDot returns aᵀb.
 func powellSingularLBFGSAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // powellSingularLBFGSAnalyticNegate sets out = −x.
 func powellSingularLBFGSAnalyticNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func powellSingularLBFGSAnalyticFinite(v float64) bool {
 
 // powellSingularLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func powellSingularLBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularLBFGSAnalyticFinite(x[i]) {
+	{
+		if !powellSingularLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !powellSingularLBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !powellSingularLBFGSAnalyticFinite(x[2]) {
+			return false
+		}
+		if !powellSingularLBFGSAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -787,15 +811,21 @@ func powellSingularLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += powellSingularLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += powellSingularLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellSingularLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellSingularLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellSingularLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * powellSingularLBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * powellSingularLBFGSAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * powellSingularLBFGSAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -803,8 +833,11 @@ func powellSingularLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e 
 // powellSingularLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func powellSingularLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -825,8 +858,11 @@ func powellSingularLBFGSAnalyticAbs(v float64) float64 {
 func powellSingularLBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
 	var h [4]float64
 	powellSingularLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellSingularLBFGSAnalyticUnitRoundoff * powellSingularLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellSingularLBFGSAnalyticUnitRoundoff * powellSingularLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * powellSingularLBFGSAnalyticUnitRoundoff * powellSingularLBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * powellSingularLBFGSAnalyticUnitRoundoff * powellSingularLBFGSAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * powellSingularLBFGSAnalyticUnitRoundoff * powellSingularLBFGSAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -928,10 +964,27 @@ func powellSingularLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b 
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellSingularLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = powellSingularLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = powellSingularLBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = powellSingularLBFGSAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[3]), 1) / scale
+			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[3])+e[3])*w)
+			floor = powellSingularLBFGSAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +994,17 @@ func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64)
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*powellSingularLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(powellSingularLBFGSAnalyticAbs(s[0]) <= tol*powellSingularLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellSingularLBFGSAnalyticAbs(s[1]) <= tol*powellSingularLBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(powellSingularLBFGSAnalyticAbs(s[2]) <= tol*powellSingularLBFGSAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(powellSingularLBFGSAnalyticAbs(s[3]) <= tol*powellSingularLBFGSAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -996,9 +1058,24 @@ func (f *powellSingularLBFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *powel
 // step test, min over i of tol·powellSingularLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellSingularLBFGSAnalyticStepScale(x[i], i, diffs) / powellSingularLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellSingularLBFGSAnalyticStepScale(x[0], 0, diffs) / powellSingularLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellSingularLBFGSAnalyticStepScale(x[1], 1, diffs) / powellSingularLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * powellSingularLBFGSAnalyticStepScale(x[2], 2, diffs) / powellSingularLBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * powellSingularLBFGSAnalyticStepScale(x[3], 3, diffs) / powellSingularLBFGSAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1146,8 +1223,17 @@ func powellSingularLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 // powellSingularLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func powellSingularLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellSingularLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := powellSingularLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularLBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularLBFGSAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularLBFGSAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1156,8 +1242,11 @@ func powellSingularLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 
 // powellSingularLBFGSAnalyticScaleBy sets x = c·x.
 func powellSingularLBFGSAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1222,8 +1311,17 @@ func (r *powellSingularLBFGSAnalyticRiseTrend) contradicts() bool {
 // powellSingularLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellSingularLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellSingularLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(powellSingularLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*powellSingularLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellSingularLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*powellSingularLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(powellSingularLBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*powellSingularLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(powellSingularLBFGSAnalyticAbs(xt[3]-x[3]-want) <= 0.01*powellSingularLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1272,8 +1370,11 @@ func powellSingularLBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]
 
 // powellSingularLBFGSAnalyticMoveTo sets out = x + t·d.
 func powellSingularLBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1339,8 +1440,11 @@ func powellSingularLBFGSAnalyticExpandTrial(previous, current *powellSingularLBF
 
 // powellSingularLBFGSAnalyticGradientChange sets out = a − b.
 func powellSingularLBFGSAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

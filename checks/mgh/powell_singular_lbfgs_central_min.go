@@ -600,8 +600,11 @@ func (s *powellSingularLBFGSCentralDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * powellSingularLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *powellSingularLBFGSCentralDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := powellSingularLBFGSCentralDot(&s.s[newest], &s.y[newest]) / powellSingularLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *powellSingularLBFGSCentralDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * powellSingularLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	powellSingularLBFGSCentralNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *powellSingularLBFGSCentralDirection) firstTrial(t, slope, now float64) 
 // powellSingularLBFGSCentralDot returns aᵀb.
 func powellSingularLBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // powellSingularLBFGSCentralNegate sets out = −x.
 func powellSingularLBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func powellSingularLBFGSCentralFinite(v float64) bool {
 
 // powellSingularLBFGSCentralFiniteVec reports whether every component of x is finite.
 func powellSingularLBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !powellSingularLBFGSCentralFinite(x[i]) {
+	{
+		if !powellSingularLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !powellSingularLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !powellSingularLBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !powellSingularLBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -805,16 +829,51 @@ func powellSingularLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *powel
 		}
 	}
 	noise := powellSingularLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := powellSingularLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = powellSingularLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := powellSingularLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = powellSingularLBFGSCentralClampBetween(h, 64*powellSingularLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = powellSingularLBFGSCentralClampBetween(h, 64*powellSingularLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := powellSingularLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = powellSingularLBFGSCentralClampBetween(h, 64*powellSingularLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := powellSingularLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = powellSingularLBFGSCentralClampBetween(h, 64*powellSingularLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := powellSingularLBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = powellSingularLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = powellSingularLBFGSCentralClampBetween(h, 64*powellSingularLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +967,11 @@ func powellSingularLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func powellSingularLBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := powellSingularLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += powellSingularLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += powellSingularLBFGSCentralAbs(g[0] * x[0])
+		sum += powellSingularLBFGSCentralAbs(g[1] * x[1])
+		sum += powellSingularLBFGSCentralAbs(g[2] * x[2])
+		sum += powellSingularLBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * powellSingularLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1098,21 @@ func powellSingularLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += powellSingularLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += powellSingularLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellSingularLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * powellSingularLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * powellSingularLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * powellSingularLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * powellSingularLBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * powellSingularLBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1055,16 +1123,54 @@ func powellSingularLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *
 // in forwardError).
 func powellSingularLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
 	noise := powellSingularLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := powellSingularLBFGSCentralCentralInterval(x, i, diffs)
-		h = powellSingularLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := powellSingularLBFGSCentralCentralInterval(x, 0, diffs)
+			h = powellSingularLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularLBFGSCentralCentralInterval(x, 1, diffs)
+			h = powellSingularLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularLBFGSCentralCentralInterval(x, 2, diffs)
+			h = powellSingularLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := powellSingularLBFGSCentralCentralInterval(x, 3, diffs)
+			h = powellSingularLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1184,11 @@ func powellSingularLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4
 func powellSingularLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
 	var h [4]float64
 	powellSingularLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * powellSingularLBFGSCentralUnitRoundoff * powellSingularLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * powellSingularLBFGSCentralUnitRoundoff * powellSingularLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * powellSingularLBFGSCentralUnitRoundoff * powellSingularLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * powellSingularLBFGSCentralUnitRoundoff * powellSingularLBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * powellSingularLBFGSCentralUnitRoundoff * powellSingularLBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1107,10 +1216,27 @@ func powellSingularLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellSingularLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = powellSingularLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[1]), 1) / scale
+			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = powellSingularLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[2]), 1) / scale
+			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = powellSingularLBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[3]), 1) / scale
+			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[3])+e[3])*w)
+			floor = powellSingularLBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1246,17 @@ func powellSingularLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func powellSingularLBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *powellSingularLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(powellSingularLBFGSCentralAbs(s[i]) <= tol*powellSingularLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(powellSingularLBFGSCentralAbs(s[0]) <= tol*powellSingularLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(powellSingularLBFGSCentralAbs(s[1]) <= tol*powellSingularLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(powellSingularLBFGSCentralAbs(s[2]) <= tol*powellSingularLBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(powellSingularLBFGSCentralAbs(s[3]) <= tol*powellSingularLBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1174,9 +1309,24 @@ func (f *powellSingularLBFGSCentralStepFloor) at(x, d *[4]float64, diffs *powell
 // step test, min over i of tol·powellSingularLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *powellSingularLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * powellSingularLBFGSCentralStepScale(x[i], i, diffs) / powellSingularLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * powellSingularLBFGSCentralStepScale(x[0], 0, diffs) / powellSingularLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * powellSingularLBFGSCentralStepScale(x[1], 1, diffs) / powellSingularLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * powellSingularLBFGSCentralStepScale(x[2], 2, diffs) / powellSingularLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * powellSingularLBFGSCentralStepScale(x[3], 3, diffs) / powellSingularLBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1324,8 +1474,17 @@ func powellSingularLBFGSCentralShrinkDirection(d, g *[4]float64) {
 // powellSingularLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func powellSingularLBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := powellSingularLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := powellSingularLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularLBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := powellSingularLBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1334,8 +1493,11 @@ func powellSingularLBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // powellSingularLBFGSCentralScaleBy sets x = c·x.
 func powellSingularLBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1400,8 +1562,17 @@ func (r *powellSingularLBFGSCentralRiseTrend) contradicts() bool {
 // powellSingularLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func powellSingularLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(powellSingularLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(powellSingularLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(powellSingularLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(powellSingularLBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1450,8 +1621,11 @@ func powellSingularLBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]f
 
 // powellSingularLBFGSCentralMoveTo sets out = x + t·d.
 func powellSingularLBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1517,8 +1691,11 @@ func powellSingularLBFGSCentralExpandTrial(previous, current *powellSingularLBFG
 
 // powellSingularLBFGSCentralGradientChange sets out = a − b.
 func powellSingularLBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -585,18 +585,25 @@ type rosenbrockBFGSAnalyticDirection struct {
 }
 
 func (s *rosenbrockBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *rosenbrockBFGSAnalyticDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -rosenbrockBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -rosenbrockBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -rosenbrockBFGSAnalyticDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *rosenbrockBFGSAnalyticDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / rosenbrockBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *rosenbrockBFGSAnalyticDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = rosenbrockBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = rosenbrockBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = rosenbrockBFGSAnalyticDot(&s.h[1], change)
 	}
 	outer := (rho*rho*rosenbrockBFGSAnalyticDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *rosenbrockBFGSAnalyticDirection) firstTrial(t, slope, now float64) floa
 // rosenbrockBFGSAnalyticDot returns aᵀb.
 func rosenbrockBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func rosenbrockBFGSAnalyticFinite(v float64) bool {
 
 // rosenbrockBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func rosenbrockBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockBFGSAnalyticFinite(x[i]) {
+	{
+		if !rosenbrockBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !rosenbrockBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -754,15 +778,17 @@ func rosenbrockBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += rosenbrockBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += rosenbrockBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	rosenbrockBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * rosenbrockBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * rosenbrockBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * rosenbrockBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -770,8 +796,9 @@ func rosenbrockBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 // rosenbrockBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func rosenbrockBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -792,8 +819,9 @@ func rosenbrockBFGSAnalyticAbs(v float64) float64 {
 func rosenbrockBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
 	var h [2]float64
 	rosenbrockBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * rosenbrockBFGSAnalyticUnitRoundoff * rosenbrockBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * rosenbrockBFGSAnalyticUnitRoundoff * rosenbrockBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * rosenbrockBFGSAnalyticUnitRoundoff * rosenbrockBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -895,10 +923,17 @@ func rosenbrockBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rose
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = rosenbrockBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = rosenbrockBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = rosenbrockBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +943,11 @@ func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (mea
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*rosenbrockBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(rosenbrockBFGSAnalyticAbs(s[0]) <= tol*rosenbrockBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(rosenbrockBFGSAnalyticAbs(s[1]) <= tol*rosenbrockBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -962,9 +1000,14 @@ func (f *rosenbrockBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *rosenbrock
 // step test, min over i of tol·rosenbrockBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * rosenbrockBFGSAnalyticStepScale(x[i], i, diffs) / rosenbrockBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * rosenbrockBFGSAnalyticStepScale(x[0], 0, diffs) / rosenbrockBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * rosenbrockBFGSAnalyticStepScale(x[1], 1, diffs) / rosenbrockBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1155,11 @@ func rosenbrockBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // rosenbrockBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func rosenbrockBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := rosenbrockBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := rosenbrockBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := rosenbrockBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1168,9 @@ func rosenbrockBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // rosenbrockBFGSAnalyticScaleBy sets x = c·x.
 func rosenbrockBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1188,8 +1235,11 @@ func (r *rosenbrockBFGSAnalyticRiseTrend) contradicts() bool {
 // rosenbrockBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func rosenbrockBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(rosenbrockBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*rosenbrockBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(rosenbrockBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*rosenbrockBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1238,8 +1288,9 @@ func rosenbrockBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float
 
 // rosenbrockBFGSAnalyticMoveTo sets out = x + t·d.
 func rosenbrockBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1305,8 +1356,9 @@ func rosenbrockBFGSAnalyticExpandTrial(previous, current *rosenbrockBFGSAnalytic
 
 // rosenbrockBFGSAnalyticGradientChange sets out = a − b.
 func rosenbrockBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -585,18 +585,25 @@ type rosenbrockBFGSCentralDirection struct {
 }
 
 func (s *rosenbrockBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *rosenbrockBFGSCentralDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -rosenbrockBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -rosenbrockBFGSCentralDot(&s.h[0], g)
+		d[1] = -rosenbrockBFGSCentralDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *rosenbrockBFGSCentralDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / rosenbrockBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *rosenbrockBFGSCentralDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = rosenbrockBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = rosenbrockBFGSCentralDot(&s.h[0], change)
+		hy[1] = rosenbrockBFGSCentralDot(&s.h[1], change)
 	}
 	outer := (rho*rho*rosenbrockBFGSCentralDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *rosenbrockBFGSCentralDirection) firstTrial(t, slope, now float64) float
 // rosenbrockBFGSCentralDot returns aᵀb.
 func rosenbrockBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func rosenbrockBFGSCentralFinite(v float64) bool {
 
 // rosenbrockBFGSCentralFiniteVec reports whether every component of x is finite.
 func rosenbrockBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockBFGSCentralFinite(x[i]) {
+	{
+		if !rosenbrockBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !rosenbrockBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -772,16 +796,29 @@ func rosenbrockBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbrock
 		}
 	}
 	noise := rosenbrockBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := rosenbrockBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = rosenbrockBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := rosenbrockBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = rosenbrockBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = rosenbrockBFGSCentralClampBetween(h, 64*rosenbrockBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = rosenbrockBFGSCentralClampBetween(h, 64*rosenbrockBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := rosenbrockBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = rosenbrockBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = rosenbrockBFGSCentralClampBetween(h, 64*rosenbrockBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +912,9 @@ func rosenbrockBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func rosenbrockBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := rosenbrockBFGSCentralAbs(fx)
-	for i := range x {
-		sum += rosenbrockBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += rosenbrockBFGSCentralAbs(g[0] * x[0])
+		sum += rosenbrockBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * rosenbrockBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1041,17 @@ func rosenbrockBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]fl
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += rosenbrockBFGSCentralDerivative(x, fx, g, diffs)
 	calls += rosenbrockBFGSCentralDerivative(x, fx, &doubled, &wide)
 	rosenbrockBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * rosenbrockBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * rosenbrockBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * rosenbrockBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1022,16 +1062,30 @@ func rosenbrockBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]fl
 // in forwardError).
 func rosenbrockBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
 	noise := rosenbrockBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := rosenbrockBFGSCentralCentralInterval(x, i, diffs)
-		h = rosenbrockBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := rosenbrockBFGSCentralCentralInterval(x, 0, diffs)
+			h = rosenbrockBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := rosenbrockBFGSCentralCentralInterval(x, 1, diffs)
+			h = rosenbrockBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1099,9 @@ func rosenbrockBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]floa
 func rosenbrockBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
 	var h [2]float64
 	rosenbrockBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * rosenbrockBFGSCentralUnitRoundoff * rosenbrockBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * rosenbrockBFGSCentralUnitRoundoff * rosenbrockBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * rosenbrockBFGSCentralUnitRoundoff * rosenbrockBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1074,10 +1129,17 @@ func rosenbrockBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *rosen
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[i])+e[i])*w)
-		floor = rosenbrockBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[0])+e[0])*w)
+			floor = rosenbrockBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[1]), 1) / scale
+			measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[1])+e[1])*w)
+			floor = rosenbrockBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1149,11 @@ func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (meas
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*rosenbrockBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(rosenbrockBFGSCentralAbs(s[0]) <= tol*rosenbrockBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(rosenbrockBFGSCentralAbs(s[1]) <= tol*rosenbrockBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1205,14 @@ func (f *rosenbrockBFGSCentralStepFloor) at(x, d *[2]float64, diffs *rosenbrockB
 // step test, min over i of tol·rosenbrockBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * rosenbrockBFGSCentralStepScale(x[i], i, diffs) / rosenbrockBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * rosenbrockBFGSCentralStepScale(x[0], 0, diffs) / rosenbrockBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * rosenbrockBFGSCentralStepScale(x[1], 1, diffs) / rosenbrockBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1360,11 @@ func rosenbrockBFGSCentralShrinkDirection(d, g *[2]float64) {
 // rosenbrockBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func rosenbrockBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := rosenbrockBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := rosenbrockBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := rosenbrockBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1373,9 @@ func rosenbrockBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // rosenbrockBFGSCentralScaleBy sets x = c·x.
 func rosenbrockBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1366,8 +1440,11 @@ func (r *rosenbrockBFGSCentralRiseTrend) contradicts() bool {
 // rosenbrockBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func rosenbrockBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(rosenbrockBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*rosenbrockBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(rosenbrockBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*rosenbrockBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1493,9 @@ func rosenbrockBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float6
 
 // rosenbrockBFGSCentralMoveTo sets out = x + t·d.
 func rosenbrockBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1483,8 +1561,9 @@ func rosenbrockBFGSCentralExpandTrial(previous, current *rosenbrockBFGSCentralLi
 
 // rosenbrockBFGSCentralGradientChange sets out = a − b.
 func rosenbrockBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

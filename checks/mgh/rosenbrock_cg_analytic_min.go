@@ -618,8 +618,9 @@ type rosenbrockCGAnalyticDirection struct {
 func (s *rosenbrockCGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
 	}
 }
 
@@ -627,16 +628,18 @@ func (s *rosenbrockCGAnalyticDirection) compute(g, d *[2]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := rosenbrockCGAnalyticDot(g, &z), rosenbrockCGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && rosenbrockCGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = rosenbrockCGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -655,28 +658,42 @@ func (s *rosenbrockCGAnalyticDirection) compute(g, d *[2]float64) {
 func (s *rosenbrockCGAnalyticDirection) update(step, change *[2]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
 	}
 	if !rosenbrockCGAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && rosenbrockCGAnalyticFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && rosenbrockCGAnalyticFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && rosenbrockCGAnalyticFinite(next) {
+				s.curvature[1] = next
+			}
 		}
 	}
 }
@@ -701,8 +718,9 @@ func (s *rosenbrockCGAnalyticDirection) firstTrial(t, slope, now float64) float6
 // rosenbrockCGAnalyticDot returns aᵀb.
 func rosenbrockCGAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -781,8 +799,11 @@ func rosenbrockCGAnalyticValue(x, g *[2]float64, diffs *rosenbrockCGAnalyticDiff
 
 // rosenbrockCGAnalyticFiniteVec reports whether every component of x is finite.
 func rosenbrockCGAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockCGAnalyticFinite(x[i]) {
+	{
+		if !rosenbrockCGAnalyticFinite(x[0]) {
+			return false
+		}
+		if !rosenbrockCGAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -836,15 +857,17 @@ func rosenbrockCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += rosenbrockCGAnalyticDerivative(x, fx, g, diffs)
 	calls += rosenbrockCGAnalyticDerivative(x, fx, &doubled, &wide)
 	rosenbrockCGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * rosenbrockCGAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * rosenbrockCGAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * rosenbrockCGAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -852,8 +875,9 @@ func rosenbrockCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]flo
 // rosenbrockCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func rosenbrockCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -866,8 +890,9 @@ func rosenbrockCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float
 func rosenbrockCGAnalyticRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
 	var h [2]float64
 	rosenbrockCGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * rosenbrockCGAnalyticUnitRoundoff * rosenbrockCGAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * rosenbrockCGAnalyticUnitRoundoff * rosenbrockCGAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * rosenbrockCGAnalyticUnitRoundoff * rosenbrockCGAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -959,10 +984,17 @@ func rosenbrockCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rosenb
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[i])+e[i])*w)
-		floor = rosenbrockCGAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[0])+e[0])*w)
+			floor = rosenbrockCGAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[1]), 1) / scale
+			measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[1])+e[1])*w)
+			floor = rosenbrockCGAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -972,8 +1004,11 @@ func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockCGAnalyticDifferences) bool {
-	for i := range s {
-		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*rosenbrockCGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(rosenbrockCGAnalyticAbs(s[0]) <= tol*rosenbrockCGAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(rosenbrockCGAnalyticAbs(s[1]) <= tol*rosenbrockCGAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1025,9 +1060,14 @@ func (f *rosenbrockCGAnalyticStepFloor) at(x, d *[2]float64, diffs *rosenbrockCG
 // step test, min over i of tol·rosenbrockCGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockCGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * rosenbrockCGAnalyticStepScale(x[i], i, diffs) / rosenbrockCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * rosenbrockCGAnalyticStepScale(x[0], 0, diffs) / rosenbrockCGAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * rosenbrockCGAnalyticStepScale(x[1], 1, diffs) / rosenbrockCGAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1175,8 +1215,11 @@ func rosenbrockCGAnalyticShrinkDirection(d, g *[2]float64) {
 // rosenbrockCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func rosenbrockCGAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := rosenbrockCGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := rosenbrockCGAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := rosenbrockCGAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1185,8 +1228,9 @@ func rosenbrockCGAnalyticMaxAbs(x *[2]float64) float64 {
 
 // rosenbrockCGAnalyticScaleBy sets x = c·x.
 func rosenbrockCGAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1251,8 +1295,11 @@ func (r *rosenbrockCGAnalyticRiseTrend) contradicts() bool {
 // rosenbrockCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func rosenbrockCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockCGAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(rosenbrockCGAnalyticAbs(xt[0]-x[0]-want) <= 0.01*rosenbrockCGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(rosenbrockCGAnalyticAbs(xt[1]-x[1]-want) <= 0.01*rosenbrockCGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1301,8 +1348,9 @@ func rosenbrockCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64
 
 // rosenbrockCGAnalyticMoveTo sets out = x + t·d.
 func rosenbrockCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1368,8 +1416,9 @@ func rosenbrockCGAnalyticExpandTrial(previous, current *rosenbrockCGAnalyticLine
 
 // rosenbrockCGAnalyticGradientChange sets out = a − b.
 func rosenbrockCGAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

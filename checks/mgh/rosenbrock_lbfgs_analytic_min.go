@@ -600,8 +600,9 @@ func (s *rosenbrockLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * rosenbrockLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *rosenbrockLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := rosenbrockLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / rosenbrockLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *rosenbrockLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * rosenbrockLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	rosenbrockLBFGSAnalyticNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *rosenbrockLBFGSAnalyticDirection) firstTrial(t, slope, now float64) flo
 // rosenbrockLBFGSAnalyticDot returns aᵀb.
 func rosenbrockLBFGSAnalyticDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // rosenbrockLBFGSAnalyticNegate sets out = −x.
 func rosenbrockLBFGSAnalyticNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func rosenbrockLBFGSAnalyticFinite(v float64) bool {
 
 // rosenbrockLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func rosenbrockLBFGSAnalyticFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockLBFGSAnalyticFinite(x[i]) {
+	{
+		if !rosenbrockLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !rosenbrockLBFGSAnalyticFinite(x[1]) {
 			return false
 		}
 	}
@@ -787,15 +795,17 @@ func rosenbrockLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += rosenbrockLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += rosenbrockLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	rosenbrockLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * rosenbrockLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * rosenbrockLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * rosenbrockLBFGSAnalyticAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -803,8 +813,9 @@ func rosenbrockLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]
 // rosenbrockLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func rosenbrockLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -825,8 +836,9 @@ func rosenbrockLBFGSAnalyticAbs(v float64) float64 {
 func rosenbrockLBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
 	var h [2]float64
 	rosenbrockLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * rosenbrockLBFGSAnalyticUnitRoundoff * rosenbrockLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * rosenbrockLBFGSAnalyticUnitRoundoff * rosenbrockLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * rosenbrockLBFGSAnalyticUnitRoundoff * rosenbrockLBFGSAnalyticAbs(x[1]) * h[1]
 	}
 }
 
@@ -928,10 +940,17 @@ func rosenbrockLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *ros
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = rosenbrockLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = rosenbrockLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = rosenbrockLBFGSAnalyticLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +960,11 @@ func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*rosenbrockLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(rosenbrockLBFGSAnalyticAbs(s[0]) <= tol*rosenbrockLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(rosenbrockLBFGSAnalyticAbs(s[1]) <= tol*rosenbrockLBFGSAnalyticStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -995,9 +1017,14 @@ func (f *rosenbrockLBFGSAnalyticStepFloor) at(x, d *[2]float64, diffs *rosenbroc
 // step test, min over i of tol·rosenbrockLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * rosenbrockLBFGSAnalyticStepScale(x[i], i, diffs) / rosenbrockLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * rosenbrockLBFGSAnalyticStepScale(x[0], 0, diffs) / rosenbrockLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * rosenbrockLBFGSAnalyticStepScale(x[1], 1, diffs) / rosenbrockLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1145,8 +1172,11 @@ func rosenbrockLBFGSAnalyticShrinkDirection(d, g *[2]float64) {
 // rosenbrockLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func rosenbrockLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := rosenbrockLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := rosenbrockLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := rosenbrockLBFGSAnalyticAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1155,8 +1185,9 @@ func rosenbrockLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
 
 // rosenbrockLBFGSAnalyticScaleBy sets x = c·x.
 func rosenbrockLBFGSAnalyticScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1221,8 +1252,11 @@ func (r *rosenbrockLBFGSAnalyticRiseTrend) contradicts() bool {
 // rosenbrockLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func rosenbrockLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(rosenbrockLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*rosenbrockLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(rosenbrockLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*rosenbrockLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1271,8 +1305,9 @@ func rosenbrockLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]floa
 
 // rosenbrockLBFGSAnalyticMoveTo sets out = x + t·d.
 func rosenbrockLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1338,8 +1373,9 @@ func rosenbrockLBFGSAnalyticExpandTrial(previous, current *rosenbrockLBFGSAnalyt
 
 // rosenbrockLBFGSAnalyticGradientChange sets out = a − b.
 func rosenbrockLBFGSAnalyticGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

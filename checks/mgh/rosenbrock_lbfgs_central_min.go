@@ -600,8 +600,9 @@ func (s *rosenbrockLBFGSCentralDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * rosenbrockLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *rosenbrockLBFGSCentralDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := rosenbrockLBFGSCentralDot(&s.s[newest], &s.y[newest]) / rosenbrockLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *rosenbrockLBFGSCentralDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * rosenbrockLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	rosenbrockLBFGSCentralNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *rosenbrockLBFGSCentralDirection) firstTrial(t, slope, now float64) floa
 // rosenbrockLBFGSCentralDot returns aᵀb.
 func rosenbrockLBFGSCentralDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // rosenbrockLBFGSCentralNegate sets out = −x.
 func rosenbrockLBFGSCentralNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func rosenbrockLBFGSCentralFinite(v float64) bool {
 
 // rosenbrockLBFGSCentralFiniteVec reports whether every component of x is finite.
 func rosenbrockLBFGSCentralFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !rosenbrockLBFGSCentralFinite(x[i]) {
+	{
+		if !rosenbrockLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !rosenbrockLBFGSCentralFinite(x[1]) {
 			return false
 		}
 	}
@@ -805,16 +813,29 @@ func rosenbrockLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbroc
 		}
 	}
 	noise := rosenbrockLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := rosenbrockLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = rosenbrockLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := rosenbrockLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = rosenbrockLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = rosenbrockLBFGSCentralClampBetween(h, 64*rosenbrockLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = rosenbrockLBFGSCentralClampBetween(h, 64*rosenbrockLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := rosenbrockLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = rosenbrockLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = rosenbrockLBFGSCentralClampBetween(h, 64*rosenbrockLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +929,9 @@ func rosenbrockLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func rosenbrockLBFGSCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
 	sum := rosenbrockLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += rosenbrockLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += rosenbrockLBFGSCentralAbs(g[0] * x[0])
+		sum += rosenbrockLBFGSCentralAbs(g[1] * x[1])
 	}
 	return 4 * rosenbrockLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1058,17 @@ func rosenbrockLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += rosenbrockLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += rosenbrockLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	rosenbrockLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * rosenbrockLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * rosenbrockLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * rosenbrockLBFGSCentralAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -1055,16 +1079,30 @@ func rosenbrockLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 // in forwardError).
 func rosenbrockLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
 	noise := rosenbrockLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := rosenbrockLBFGSCentralCentralInterval(x, i, diffs)
-		h = rosenbrockLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := rosenbrockLBFGSCentralCentralInterval(x, 0, diffs)
+			h = rosenbrockLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := rosenbrockLBFGSCentralCentralInterval(x, 1, diffs)
+			h = rosenbrockLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1116,9 @@ func rosenbrockLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]flo
 func rosenbrockLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
 	var h [2]float64
 	rosenbrockLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * rosenbrockLBFGSCentralUnitRoundoff * rosenbrockLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * rosenbrockLBFGSCentralUnitRoundoff * rosenbrockLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * rosenbrockLBFGSCentralUnitRoundoff * rosenbrockLBFGSCentralAbs(x[1]) * h[1]
 	}
 }
 
@@ -1107,10 +1146,17 @@ func rosenbrockLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *rose
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = rosenbrockLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = rosenbrockLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[1]), 1) / scale
+			measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = rosenbrockLBFGSCentralLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1166,11 @@ func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (mea
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64, diffs *rosenbrockLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*rosenbrockLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(rosenbrockLBFGSCentralAbs(s[0]) <= tol*rosenbrockLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(rosenbrockLBFGSCentralAbs(s[1]) <= tol*rosenbrockLBFGSCentralStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1174,9 +1223,14 @@ func (f *rosenbrockLBFGSCentralStepFloor) at(x, d *[2]float64, diffs *rosenbrock
 // step test, min over i of tol·rosenbrockLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64, diffs *rosenbrockLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * rosenbrockLBFGSCentralStepScale(x[i], i, diffs) / rosenbrockLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * rosenbrockLBFGSCentralStepScale(x[0], 0, diffs) / rosenbrockLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * rosenbrockLBFGSCentralStepScale(x[1], 1, diffs) / rosenbrockLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1324,8 +1378,11 @@ func rosenbrockLBFGSCentralShrinkDirection(d, g *[2]float64) {
 // rosenbrockLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func rosenbrockLBFGSCentralMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := rosenbrockLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := rosenbrockLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := rosenbrockLBFGSCentralAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1334,8 +1391,9 @@ func rosenbrockLBFGSCentralMaxAbs(x *[2]float64) float64 {
 
 // rosenbrockLBFGSCentralScaleBy sets x = c·x.
 func rosenbrockLBFGSCentralScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1400,8 +1458,11 @@ func (r *rosenbrockLBFGSCentralRiseTrend) contradicts() bool {
 // rosenbrockLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func rosenbrockLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(rosenbrockLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*rosenbrockLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(rosenbrockLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*rosenbrockLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1450,8 +1511,9 @@ func rosenbrockLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float
 
 // rosenbrockLBFGSCentralMoveTo sets out = x + t·d.
 func rosenbrockLBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1517,8 +1579,9 @@ func rosenbrockLBFGSCentralExpandTrial(previous, current *rosenbrockLBFGSCentral
 
 // rosenbrockLBFGSCentralGradientChange sets out = a − b.
 func rosenbrockLBFGSCentralGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

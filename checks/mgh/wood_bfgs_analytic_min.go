@@ -585,18 +585,45 @@ type woodBFGSAnalyticDirection struct {
 }
 
 func (s *woodBFGSAnalyticDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *woodBFGSAnalyticDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -woodBFGSAnalyticDot(&s.h[i], g)
+	{
+		d[0] = -woodBFGSAnalyticDot(&s.h[0], g)
+		d[1] = -woodBFGSAnalyticDot(&s.h[1], g)
+		d[2] = -woodBFGSAnalyticDot(&s.h[2], g)
+		d[3] = -woodBFGSAnalyticDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *woodBFGSAnalyticDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / woodBFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *woodBFGSAnalyticDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = woodBFGSAnalyticDot(&s.h[i], change)
+	{
+		hy[0] = woodBFGSAnalyticDot(&s.h[0], change)
+		hy[1] = woodBFGSAnalyticDot(&s.h[1], change)
+		hy[2] = woodBFGSAnalyticDot(&s.h[2], change)
+		hy[3] = woodBFGSAnalyticDot(&s.h[3], change)
 	}
 	outer := (rho*rho*woodBFGSAnalyticDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *woodBFGSAnalyticDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *woodBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 // woodBFGSAnalyticDot returns aᵀb.
 func woodBFGSAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func woodBFGSAnalyticFinite(v float64) bool {
 
 // woodBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func woodBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !woodBFGSAnalyticFinite(x[i]) {
+	{
+		if !woodBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !woodBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !woodBFGSAnalyticFinite(x[2]) {
+			return false
+		}
+		if !woodBFGSAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -754,15 +802,21 @@ func woodBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += woodBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += woodBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	woodBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * woodBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * woodBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * woodBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * woodBFGSAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * woodBFGSAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -770,8 +824,11 @@ func woodBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 // woodBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func woodBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -792,8 +849,11 @@ func woodBFGSAnalyticAbs(v float64) float64 {
 func woodBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *woodBFGSAnalyticDifferences) {
 	var h [4]float64
 	woodBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * woodBFGSAnalyticUnitRoundoff * woodBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * woodBFGSAnalyticUnitRoundoff * woodBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * woodBFGSAnalyticUnitRoundoff * woodBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * woodBFGSAnalyticUnitRoundoff * woodBFGSAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * woodBFGSAnalyticUnitRoundoff * woodBFGSAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -895,10 +955,27 @@ func woodBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodBFGSAn
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = woodBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = woodBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = woodBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = woodBFGSAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[3]), 1) / scale
+			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[3])+e[3])*w)
+			floor = woodBFGSAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +985,17 @@ func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *woodBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(woodBFGSAnalyticAbs(s[i]) <= tol*woodBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(woodBFGSAnalyticAbs(s[0]) <= tol*woodBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(woodBFGSAnalyticAbs(s[1]) <= tol*woodBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(woodBFGSAnalyticAbs(s[2]) <= tol*woodBFGSAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(woodBFGSAnalyticAbs(s[3]) <= tol*woodBFGSAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1047,24 @@ func (f *woodBFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *woodBFGSAnalytic
 // step test, min over i of tol·woodBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * woodBFGSAnalyticStepScale(x[i], i, diffs) / woodBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * woodBFGSAnalyticStepScale(x[0], 0, diffs) / woodBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * woodBFGSAnalyticStepScale(x[1], 1, diffs) / woodBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * woodBFGSAnalyticStepScale(x[2], 2, diffs) / woodBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * woodBFGSAnalyticStepScale(x[3], 3, diffs) / woodBFGSAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1212,17 @@ func woodBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 // woodBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func woodBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := woodBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := woodBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := woodBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := woodBFGSAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := woodBFGSAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1231,11 @@ func woodBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 
 // woodBFGSAnalyticScaleBy sets x = c·x.
 func woodBFGSAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1187,8 +1300,17 @@ func (r *woodBFGSAnalyticRiseTrend) contradicts() bool {
 // woodBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func woodBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(woodBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(woodBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(woodBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(woodBFGSAnalyticAbs(xt[3]-x[3]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1359,11 @@ func woodBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b 
 
 // woodBFGSAnalyticMoveTo sets out = x + t·d.
 func woodBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1304,8 +1429,11 @@ func woodBFGSAnalyticExpandTrial(previous, current *woodBFGSAnalyticLinePoint) f
 
 // woodBFGSAnalyticGradientChange sets out = a − b.
 func woodBFGSAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -585,18 +585,45 @@ type woodBFGSCentralDirection struct {
 }
 
 func (s *woodBFGSCentralDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
+			s.h[0][3] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+			s.h[1][3] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+			s.h[2][3] = 0
+		}
+		s.h[2][2] = 1
+		{
+			s.h[3][0] = 0
+			s.h[3][1] = 0
+			s.h[3][2] = 0
+			s.h[3][3] = 0
+		}
+		s.h[3][3] = 1
 	}
 	s.scaled = false
 }
 
 func (s *woodBFGSCentralDirection) compute(g, d *[4]float64) {
-	for i := range s.h {
-		d[i] = -woodBFGSCentralDot(&s.h[i], g)
+	{
+		d[0] = -woodBFGSCentralDot(&s.h[0], g)
+		d[1] = -woodBFGSCentralDot(&s.h[1], g)
+		d[2] = -woodBFGSCentralDot(&s.h[2], g)
+		d[3] = -woodBFGSCentralDot(&s.h[3], g)
 	}
 }
 
@@ -607,8 +634,11 @@ func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / woodBFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
+			s.h[3][3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +646,11 @@ func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [4]float64
-	for i := range s.h {
-		hy[i] = woodBFGSCentralDot(&s.h[i], change)
+	{
+		hy[0] = woodBFGSCentralDot(&s.h[0], change)
+		hy[1] = woodBFGSCentralDot(&s.h[1], change)
+		hy[2] = woodBFGSCentralDot(&s.h[2], change)
+		hy[3] = woodBFGSCentralDot(&s.h[3], change)
 	}
 	outer := (rho*rho*woodBFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +658,11 @@ func (s *woodBFGSCentralDirection) update(step, change *[4]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			s.h[i][0] += a*step[0] - b*hy[0]
+			s.h[i][1] += a*step[1] - b*hy[1]
+			s.h[i][2] += a*step[2] - b*hy[2]
+			s.h[i][3] += a*step[3] - b*hy[3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +679,11 @@ func (s *woodBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 // woodBFGSCentralDot returns aᵀb.
 func woodBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
@@ -699,8 +738,17 @@ func woodBFGSCentralFinite(v float64) bool {
 
 // woodBFGSCentralFiniteVec reports whether every component of x is finite.
 func woodBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !woodBFGSCentralFinite(x[i]) {
+	{
+		if !woodBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !woodBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !woodBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !woodBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -772,16 +820,51 @@ func woodBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *woodBFGSCentralD
 		}
 	}
 	noise := woodBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := woodBFGSCentralLarger(1, woodBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := woodBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = woodBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := woodBFGSCentralLarger(1, woodBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := woodBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = woodBFGSCentralClampBetween(h, 64*woodBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = woodBFGSCentralClampBetween(h, 64*woodBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := woodBFGSCentralLarger(1, woodBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := woodBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = woodBFGSCentralClampBetween(h, 64*woodBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := woodBFGSCentralLarger(1, woodBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := woodBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = woodBFGSCentralClampBetween(h, 64*woodBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := woodBFGSCentralLarger(1, woodBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := woodBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = woodBFGSCentralClampBetween(h, 64*woodBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -875,8 +958,11 @@ func woodBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func woodBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := woodBFGSCentralAbs(fx)
-	for i := range x {
-		sum += woodBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += woodBFGSCentralAbs(g[0] * x[0])
+		sum += woodBFGSCentralAbs(g[1] * x[1])
+		sum += woodBFGSCentralAbs(g[2] * x[2])
+		sum += woodBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * woodBFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1089,21 @@ func woodBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64,
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += woodBFGSCentralDerivative(x, fx, g, diffs)
 	calls += woodBFGSCentralDerivative(x, fx, &doubled, &wide)
 	woodBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * woodBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * woodBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * woodBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * woodBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * woodBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1022,16 +1114,54 @@ func woodBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64,
 // in forwardError).
 func woodBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSCentralDifferences) {
 	noise := woodBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := woodBFGSCentralCentralInterval(x, i, diffs)
-		h = woodBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := woodBFGSCentralCentralInterval(x, 0, diffs)
+			h = woodBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := woodBFGSCentralCentralInterval(x, 1, diffs)
+			h = woodBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := woodBFGSCentralCentralInterval(x, 2, diffs)
+			h = woodBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := woodBFGSCentralCentralInterval(x, 3, diffs)
+			h = woodBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1175,11 @@ func woodBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, d
 func woodBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *woodBFGSCentralDifferences) {
 	var h [4]float64
 	woodBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * woodBFGSCentralUnitRoundoff * woodBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * woodBFGSCentralUnitRoundoff * woodBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * woodBFGSCentralUnitRoundoff * woodBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * woodBFGSCentralUnitRoundoff * woodBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * woodBFGSCentralUnitRoundoff * woodBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1074,10 +1207,27 @@ func woodBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *woodBFGSCen
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := woodBFGSCentralLarger(woodBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[i])+e[i])*w)
-		floor = woodBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[0])+e[0])*w)
+			floor = woodBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[1]), 1) / scale
+			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[1])+e[1])*w)
+			floor = woodBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[2]), 1) / scale
+			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[2])+e[2])*w)
+			floor = woodBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[3]), 1) / scale
+			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[3])+e[3])*w)
+			floor = woodBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1237,17 @@ func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *woodBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(woodBFGSCentralAbs(s[i]) <= tol*woodBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(woodBFGSCentralAbs(s[0]) <= tol*woodBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(woodBFGSCentralAbs(s[1]) <= tol*woodBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(woodBFGSCentralAbs(s[2]) <= tol*woodBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(woodBFGSCentralAbs(s[3]) <= tol*woodBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1299,24 @@ func (f *woodBFGSCentralStepFloor) at(x, d *[4]float64, diffs *woodBFGSCentralDi
 // step test, min over i of tol·woodBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * woodBFGSCentralStepScale(x[i], i, diffs) / woodBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * woodBFGSCentralStepScale(x[0], 0, diffs) / woodBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * woodBFGSCentralStepScale(x[1], 1, diffs) / woodBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * woodBFGSCentralStepScale(x[2], 2, diffs) / woodBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * woodBFGSCentralStepScale(x[3], 3, diffs) / woodBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1464,17 @@ func woodBFGSCentralShrinkDirection(d, g *[4]float64) {
 // woodBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func woodBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := woodBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := woodBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := woodBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := woodBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := woodBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1483,11 @@ func woodBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // woodBFGSCentralScaleBy sets x = c·x.
 func woodBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1366,8 +1552,17 @@ func (r *woodBFGSCentralRiseTrend) contradicts() bool {
 // woodBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func woodBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*woodBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(woodBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*woodBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(woodBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*woodBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(woodBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*woodBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(woodBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*woodBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1611,11 @@ func woodBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *
 
 // woodBFGSCentralMoveTo sets out = x + t·d.
 func woodBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1483,8 +1681,11 @@ func woodBFGSCentralExpandTrial(previous, current *woodBFGSCentralLinePoint) flo
 
 // woodBFGSCentralGradientChange sets out = a − b.
 func woodBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -600,8 +600,11 @@ func (s *woodLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * woodLBFGSAnalyticDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *woodLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := woodLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / woodLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *woodLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * woodLBFGSAnalyticDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	woodLBFGSAnalyticNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *woodLBFGSAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 // woodLBFGSAnalyticDot returns aᵀb.
 func woodLBFGSAnalyticDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // woodLBFGSAnalyticNegate sets out = −x.
 func woodLBFGSAnalyticNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func woodLBFGSAnalyticFinite(v float64) bool {
 
 // woodLBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func woodLBFGSAnalyticFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !woodLBFGSAnalyticFinite(x[i]) {
+	{
+		if !woodLBFGSAnalyticFinite(x[0]) {
+			return false
+		}
+		if !woodLBFGSAnalyticFinite(x[1]) {
+			return false
+		}
+		if !woodLBFGSAnalyticFinite(x[2]) {
+			return false
+		}
+		if !woodLBFGSAnalyticFinite(x[3]) {
 			return false
 		}
 	}
@@ -787,15 +811,21 @@ func woodLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += woodLBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += woodLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	woodLBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * woodLBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * woodLBFGSAnalyticAbs(g[0]-doubled[0])
+		e[1] += 3 * woodLBFGSAnalyticAbs(g[1]-doubled[1])
+		e[2] += 3 * woodLBFGSAnalyticAbs(g[2]-doubled[2])
+		e[3] += 3 * woodLBFGSAnalyticAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -803,8 +833,11 @@ func woodLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float6
 // woodLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func woodLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
+		e[2] = 0
+		e[3] = 0
 	}
 }
 
@@ -825,8 +858,11 @@ func woodLBFGSAnalyticAbs(v float64) float64 {
 func woodLBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
 	var h [4]float64
 	woodLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * woodLBFGSAnalyticUnitRoundoff * woodLBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * woodLBFGSAnalyticUnitRoundoff * woodLBFGSAnalyticAbs(x[0]) * h[0]
+		e[1] += 4 * woodLBFGSAnalyticUnitRoundoff * woodLBFGSAnalyticAbs(x[1]) * h[1]
+		e[2] += 4 * woodLBFGSAnalyticUnitRoundoff * woodLBFGSAnalyticAbs(x[2]) * h[2]
+		e[3] += 4 * woodLBFGSAnalyticUnitRoundoff * woodLBFGSAnalyticAbs(x[3]) * h[3]
 	}
 }
 
@@ -928,10 +964,27 @@ func woodLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodLBFGS
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = woodLBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		{
+			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[0])+e[0])*w)
+			floor = woodLBFGSAnalyticLarger(floor, e[0]*w)
+		}
+		{
+			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[1]), 1) / scale
+			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[1])+e[1])*w)
+			floor = woodLBFGSAnalyticLarger(floor, e[1]*w)
+		}
+		{
+			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[2]), 1) / scale
+			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[2])+e[2])*w)
+			floor = woodLBFGSAnalyticLarger(floor, e[2]*w)
+		}
+		{
+			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[3]), 1) / scale
+			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[3])+e[3])*w)
+			floor = woodLBFGSAnalyticLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +994,17 @@ func woodLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func woodLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64, diffs *woodLBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(woodLBFGSAnalyticAbs(s[i]) <= tol*woodLBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		if !(woodLBFGSAnalyticAbs(s[0]) <= tol*woodLBFGSAnalyticStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(woodLBFGSAnalyticAbs(s[1]) <= tol*woodLBFGSAnalyticStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(woodLBFGSAnalyticAbs(s[2]) <= tol*woodLBFGSAnalyticStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(woodLBFGSAnalyticAbs(s[3]) <= tol*woodLBFGSAnalyticStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -994,9 +1056,24 @@ func (f *woodLBFGSAnalyticStepFloor) at(x, d *[4]float64, diffs *woodLBFGSAnalyt
 // step test, min over i of tol·woodLBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * woodLBFGSAnalyticStepScale(x[i], i, diffs) / woodLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * woodLBFGSAnalyticStepScale(x[0], 0, diffs) / woodLBFGSAnalyticAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * woodLBFGSAnalyticStepScale(x[1], 1, diffs) / woodLBFGSAnalyticAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * woodLBFGSAnalyticStepScale(x[2], 2, diffs) / woodLBFGSAnalyticAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * woodLBFGSAnalyticStepScale(x[3], 3, diffs) / woodLBFGSAnalyticAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1144,8 +1221,17 @@ func woodLBFGSAnalyticShrinkDirection(d, g *[4]float64) {
 // woodLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func woodLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := woodLBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		if a := woodLBFGSAnalyticAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := woodLBFGSAnalyticAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := woodLBFGSAnalyticAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := woodLBFGSAnalyticAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1154,8 +1240,11 @@ func woodLBFGSAnalyticMaxAbs(x *[4]float64) float64 {
 
 // woodLBFGSAnalyticScaleBy sets x = c·x.
 func woodLBFGSAnalyticScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1220,8 +1309,17 @@ func (r *woodLBFGSAnalyticRiseTrend) contradicts() bool {
 // woodLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func woodLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
+	{
+		if want := t * d[0]; !(woodLBFGSAnalyticAbs(xt[0]-x[0]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(woodLBFGSAnalyticAbs(xt[1]-x[1]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(woodLBFGSAnalyticAbs(xt[2]-x[2]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(woodLBFGSAnalyticAbs(xt[3]-x[3]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1270,8 +1368,11 @@ func woodLBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b
 
 // woodLBFGSAnalyticMoveTo sets out = x + t·d.
 func woodLBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1337,8 +1438,11 @@ func woodLBFGSAnalyticExpandTrial(previous, current *woodLBFGSAnalyticLinePoint)
 
 // woodLBFGSAnalyticGradientChange sets out = a − b.
 func woodLBFGSAnalyticGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -600,8 +600,11 @@ func (s *woodLBFGSCentralDirection) compute(g, d *[4]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * woodLBFGSCentralDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
+			q[2] -= alpha[k] * s.y[k][2]
+			q[3] -= alpha[k] * s.y[k][3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *woodLBFGSCentralDirection) compute(g, d *[4]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := woodLBFGSCentralDot(&s.s[newest], &s.y[newest]) / woodLBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
+			q[2] *= gamma
+			q[3] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +628,11 @@ func (s *woodLBFGSCentralDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * woodLBFGSCentralDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[3] += s.s[k][3] * (alpha[k] - beta)
 		}
 	}
 	woodLBFGSCentralNegate(d, &q)
@@ -658,16 +667,22 @@ func (s *woodLBFGSCentralDirection) firstTrial(t, slope, now float64) float64 {
 // woodLBFGSCentralDot returns aᵀb.
 func woodLBFGSCentralDot(a, b *[4]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
+		s += a[3] * b[3]
 	}
 	return s
 }
 
 // woodLBFGSCentralNegate sets out = −x.
 func woodLBFGSCentralNegate(out, x *[4]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
+		out[3] = -x[3]
 	}
 }
 
@@ -732,8 +747,17 @@ func woodLBFGSCentralFinite(v float64) bool {
 
 // woodLBFGSCentralFiniteVec reports whether every component of x is finite.
 func woodLBFGSCentralFiniteVec(x *[4]float64) bool {
-	for i := range x {
-		if !woodLBFGSCentralFinite(x[i]) {
+	{
+		if !woodLBFGSCentralFinite(x[0]) {
+			return false
+		}
+		if !woodLBFGSCentralFinite(x[1]) {
+			return false
+		}
+		if !woodLBFGSCentralFinite(x[2]) {
+			return false
+		}
+		if !woodLBFGSCentralFinite(x[3]) {
 			return false
 		}
 	}
@@ -805,16 +829,51 @@ func woodLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *woodLBFGSCentra
 		}
 	}
 	noise := woodLBFGSCentralNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(probe[i]))
-		bar := quarter * s
-		third := woodLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = woodLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(probe[0]))
+			bar := quarter * s
+			third := woodLBFGSCentralLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = woodLBFGSCentralClampBetween(h, 64*woodLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = woodLBFGSCentralClampBetween(h, 64*woodLBFGSCentralUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(probe[1]))
+			bar := quarter * s
+			third := woodLBFGSCentralLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = woodLBFGSCentralClampBetween(h, 64*woodLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(probe[2]))
+			bar := quarter * s
+			third := woodLBFGSCentralLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = woodLBFGSCentralClampBetween(h, 64*woodLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
+		{
+			s := woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(probe[3]))
+			bar := quarter * s
+			third := woodLBFGSCentralLarger(diffs.curvature[3], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = woodLBFGSCentralCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[3] = woodLBFGSCentralClampBetween(h, 64*woodLBFGSCentralUnitRoundoff*s, bar) / s
+			diffs.curvature[3] = third
+		}
 	}
 	return calls, true
 }
@@ -908,8 +967,11 @@ func woodLBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func woodLBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
 	sum := woodLBFGSCentralAbs(fx)
-	for i := range x {
-		sum += woodLBFGSCentralAbs(g[i] * x[i])
+	{
+		sum += woodLBFGSCentralAbs(g[0] * x[0])
+		sum += woodLBFGSCentralAbs(g[1] * x[1])
+		sum += woodLBFGSCentralAbs(g[2] * x[2])
+		sum += woodLBFGSCentralAbs(g[3] * x[3])
 	}
 	return 4 * woodLBFGSCentralUnitRoundoff * sum
 }
@@ -1036,15 +1098,21 @@ func woodLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
+		wide.ratio[3] *= 2
 	}
 	var doubled [4]float64
 	calls += woodLBFGSCentralDerivative(x, fx, g, diffs)
 	calls += woodLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	woodLBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * woodLBFGSCentralAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * woodLBFGSCentralAbs(g[0]-doubled[0])
+		e[1] += 3 * woodLBFGSCentralAbs(g[1]-doubled[1])
+		e[2] += 3 * woodLBFGSCentralAbs(g[2]-doubled[2])
+		e[3] += 3 * woodLBFGSCentralAbs(g[3]-doubled[3])
 	}
 	return calls, true
 }
@@ -1055,16 +1123,54 @@ func woodLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 // in forwardError).
 func woodLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences) {
 	noise := woodLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := woodLBFGSCentralCentralInterval(x, i, diffs)
-		h = woodLBFGSCentralAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := woodLBFGSCentralCentralInterval(x, 0, diffs)
+			h = woodLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := woodLBFGSCentralCentralInterval(x, 1, diffs)
+			h = woodLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := woodLBFGSCentralCentralInterval(x, 2, diffs)
+			h = woodLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := woodLBFGSCentralCentralInterval(x, 3, diffs)
+			h = woodLBFGSCentralAbs(h)
+			switch {
+			case h == 0:
+				e[3] = 0
+			case oneSided:
+				e[3] = 2 * (h*h*diffs.curvature[3]/3 + 4*noise/h)
+			default:
+				e[3] = 2 * (h*h*diffs.curvature[3]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1078,8 +1184,11 @@ func woodLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, 
 func woodLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *woodLBFGSCentralDifferences) {
 	var h [4]float64
 	woodLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * woodLBFGSCentralUnitRoundoff * woodLBFGSCentralAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * woodLBFGSCentralUnitRoundoff * woodLBFGSCentralAbs(x[0]) * h[0]
+		e[1] += 4 * woodLBFGSCentralUnitRoundoff * woodLBFGSCentralAbs(x[1]) * h[1]
+		e[2] += 4 * woodLBFGSCentralUnitRoundoff * woodLBFGSCentralAbs(x[2]) * h[2]
+		e[3] += 4 * woodLBFGSCentralUnitRoundoff * woodLBFGSCentralAbs(x[3]) * h[3]
 	}
 }
 
@@ -1107,10 +1216,27 @@ func woodLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *woodLBFGSC
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
 	scale := woodLBFGSCentralLarger(woodLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = woodLBFGSCentralLarger(floor, e[i]*w)
+	{
+		{
+			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[0])+e[0])*w)
+			floor = woodLBFGSCentralLarger(floor, e[0]*w)
+		}
+		{
+			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[1]), 1) / scale
+			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[1])+e[1])*w)
+			floor = woodLBFGSCentralLarger(floor, e[1]*w)
+		}
+		{
+			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[2]), 1) / scale
+			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[2])+e[2])*w)
+			floor = woodLBFGSCentralLarger(floor, e[2]*w)
+		}
+		{
+			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[3]), 1) / scale
+			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[3])+e[3])*w)
+			floor = woodLBFGSCentralLarger(floor, e[3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1246,17 @@ func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64, diffs *woodLBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(woodLBFGSCentralAbs(s[i]) <= tol*woodLBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		if !(woodLBFGSCentralAbs(s[0]) <= tol*woodLBFGSCentralStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(woodLBFGSCentralAbs(s[1]) <= tol*woodLBFGSCentralStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(woodLBFGSCentralAbs(s[2]) <= tol*woodLBFGSCentralStepScale(x[2], 2, diffs)) {
+			return false
+		}
+		if !(woodLBFGSCentralAbs(s[3]) <= tol*woodLBFGSCentralStepScale(x[3], 3, diffs)) {
 			return false
 		}
 	}
@@ -1173,9 +1308,24 @@ func (f *woodLBFGSCentralStepFloor) at(x, d *[4]float64, diffs *woodLBFGSCentral
 // step test, min over i of tol·woodLBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64, diffs *woodLBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * woodLBFGSCentralStepScale(x[i], i, diffs) / woodLBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * woodLBFGSCentralStepScale(x[0], 0, diffs) / woodLBFGSCentralAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * woodLBFGSCentralStepScale(x[1], 1, diffs) / woodLBFGSCentralAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * woodLBFGSCentralStepScale(x[2], 2, diffs) / woodLBFGSCentralAbs(d[2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[3] != 0 {
+			if t := tol * woodLBFGSCentralStepScale(x[3], 3, diffs) / woodLBFGSCentralAbs(d[3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1323,8 +1473,17 @@ func woodLBFGSCentralShrinkDirection(d, g *[4]float64) {
 // woodLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func woodLBFGSCentralMaxAbs(x *[4]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := woodLBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		if a := woodLBFGSCentralAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := woodLBFGSCentralAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := woodLBFGSCentralAbs(x[2]); a > m || a != a {
+			m = a
+		}
+		if a := woodLBFGSCentralAbs(x[3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1333,8 +1492,11 @@ func woodLBFGSCentralMaxAbs(x *[4]float64) float64 {
 
 // woodLBFGSCentralScaleBy sets x = c·x.
 func woodLBFGSCentralScaleBy(x *[4]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
+		x[3] *= c
 	}
 }
 
@@ -1399,8 +1561,17 @@ func (r *woodLBFGSCentralRiseTrend) contradicts() bool {
 // woodLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func woodLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
+	{
+		if want := t * d[0]; !(woodLBFGSCentralAbs(xt[0]-x[0]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(woodLBFGSCentralAbs(xt[1]-x[1]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(woodLBFGSCentralAbs(xt[2]-x[2]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[3]; !(woodLBFGSCentralAbs(xt[3]-x[3]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1449,8 +1620,11 @@ func woodLBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b 
 
 // woodLBFGSCentralMoveTo sets out = x + t·d.
 func woodLBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
+		out[3] = x[3] + t*d[3]
 	}
 }
 
@@ -1516,8 +1690,11 @@ func woodLBFGSCentralExpandTrial(previous, current *woodLBFGSCentralLinePoint) f
 
 // woodLBFGSCentralGradientChange sets out = a − b.
 func woodLBFGSCentralGradientChange(out, a, b *[4]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
+		out[3] = a[3] - b[3]
 	}
 }
 

@@ -595,18 +595,18 @@ type impliedVolDirection struct {
 }
 
 func (s *impliedVolDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
 	}
 	s.scaled = false
 }
 
 func (s *impliedVolDirection) compute(g, d *[1]float64) {
-	for i := range s.h {
-		d[i] = -impliedVolDot(&s.h[i], g)
+	{
+		d[0] = -impliedVolDot(&s.h[0], g)
 	}
 }
 
@@ -617,8 +617,8 @@ func (s *impliedVolDirection) update(step, change *[1]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / impliedVolDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,17 +626,19 @@ func (s *impliedVolDirection) update(step, change *[1]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [1]float64
-	for i := range s.h {
-		hy[i] = impliedVolDot(&s.h[i], change)
+	{
+		hy[0] = impliedVolDot(&s.h[0], change)
 	}
 	outer := (rho*rho*impliedVolDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0] // N&W eq. 6.17
+			}
 		}
 	}
 }
@@ -653,8 +655,8 @@ func (s *impliedVolDirection) firstTrial(t, slope, now float64) float64 {
 // impliedVolDot returns aᵀb.
 func impliedVolDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -683,8 +685,8 @@ const (
 // impliedVolEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func impliedVolEnterBox(x *[1]float64, b *impliedVolBox) {
-	for i := range x {
-		x[i] = impliedVolClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = impliedVolClampBetween(x[0], b.lower[0], b.upper[0])
 	}
 }
 
@@ -729,8 +731,8 @@ func impliedVolFinite(v float64) bool {
 
 // impliedVolFiniteVec reports whether every component of x is finite.
 func impliedVolFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !impliedVolFinite(x[i]) {
+	{
+		if !impliedVolFinite(x[0]) {
 			return false
 		}
 	}
@@ -784,15 +786,15 @@ func impliedVolConfirmGradient(recv *Trade, x *[1]float64, fx float64, g, e *[1]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += impliedVolDerivative(recv, x, fx, g, diffs)
 	calls += impliedVolDerivative(recv, x, fx, &doubled, &wide)
 	impliedVolGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * impliedVolAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * impliedVolAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -800,8 +802,8 @@ func impliedVolConfirmGradient(recv *Trade, x *[1]float64, fx float64, g, e *[1]
 // impliedVolGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func impliedVolGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *impliedVolDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
 	}
 }
 
@@ -822,8 +824,8 @@ func impliedVolAbs(v float64) float64 {
 func impliedVolRoundingFloor(recv *Trade, x, g, e *[1]float64, diffs *impliedVolDifferences) {
 	var h [1]float64
 	impliedVolDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * impliedVolUnitRoundoff * impliedVolAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * impliedVolUnitRoundoff * impliedVolAbs(x[0]) * h[0]
 	}
 }
 
@@ -900,9 +902,9 @@ func impliedVolLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func impliedVolStationarity(g, e, x *[1]float64, fx float64, b *impliedVolBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if impliedVolPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, impliedVolLarger(0, e[i]-impliedVolAbs(g[i]))
+	{
+		if impliedVolPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, impliedVolLarger(0, e[0]-impliedVolAbs(g[0]))
 		}
 	}
 	return impliedVolGradientMeasure(&pg, &pe, x, fx)
@@ -928,10 +930,12 @@ func impliedVolPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func impliedVolGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := impliedVolLarger(impliedVolAbs(fx), 1)
-	for i := range g {
-		w := impliedVolLarger(impliedVolAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = impliedVolLarger(measure, (impliedVolAbs(g[i])+e[i])*w)
-		floor = impliedVolLarger(floor, e[i]*w)
+	{
+		{
+			w := impliedVolLarger(impliedVolAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = impliedVolLarger(measure, (impliedVolAbs(g[0])+e[0])*w)
+			floor = impliedVolLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +945,8 @@ func impliedVolGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func impliedVolStepWithin(s, x *[1]float64, tol float64, diffs *impliedVolDifferences) bool {
-	for i := range s {
-		if !(impliedVolAbs(s[i]) <= tol*impliedVolStepScale(x[i], i, diffs)) {
+	{
+		if !(impliedVolAbs(s[0]) <= tol*impliedVolStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +969,9 @@ func impliedVolStepScale(xi float64, i int, diffs *impliedVolDifferences) float6
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func impliedVolCurvaturePair(s, y, x *[1]float64, b *impliedVolBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
 		}
 	}
 }
@@ -1003,28 +1007,30 @@ func impliedVolLearnCurvature(s, y *[1]float64, diffs *impliedVolDifferences) {}
 func impliedVolSearchDirection(dir *impliedVolDirection, x, g, d *[1]float64, diffs *impliedVolDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = impliedVolLarger(reach, impliedVolAbs(x[i]-impliedVolClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = impliedVolLarger(reach, impliedVolAbs(x[0]-impliedVolClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
 	}
 	var free [1]float64
 	var active [1]bool
-	for i := range x {
-		margin := impliedVolActiveMargin * impliedVolLarger(1, impliedVolAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
-		}
-		active[i] = impliedVolPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+	{
+		{
+			margin := impliedVolActiveMargin * impliedVolLarger(1, impliedVolAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = impliedVolPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
 	}
 	impliedVolSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if impliedVolPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if impliedVolPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
 		}
 	}
 }
@@ -1058,9 +1064,9 @@ func (f *impliedVolStepFloor) at(x, d *[1]float64, diffs *impliedVolDifferences)
 // step test, min over i of tol·impliedVolStepScale(x_i)/|d_i|, or −1 when d is zero.
 func impliedVolTinyStep(x, d *[1]float64, tol float64, diffs *impliedVolDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * impliedVolStepScale(x[i], i, diffs) / impliedVolAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * impliedVolStepScale(x[0], 0, diffs) / impliedVolAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1214,8 @@ func impliedVolShrinkDirection(d, g *[1]float64) {
 // impliedVolMaxAbs returns the largest |x_i|, the infinity norm.
 func impliedVolMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := impliedVolAbs(x[i]); a > m || a != a {
+	{
+		if a := impliedVolAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1224,8 @@ func impliedVolMaxAbs(x *[1]float64) float64 {
 
 // impliedVolScaleBy sets x = c·x.
 func impliedVolScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1284,8 +1290,8 @@ func (r *impliedVolRiseTrend) contradicts() bool {
 // impliedVolFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func impliedVolFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(impliedVolAbs(xt[i]-x[i]-want) <= 0.01*impliedVolAbs(want)) {
+	{
+		if want := t * d[0]; !(impliedVolAbs(xt[0]-x[0]-want) <= 0.01*impliedVolAbs(want)) {
 			return false
 		}
 	}
@@ -1304,16 +1310,18 @@ func impliedVolFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 func impliedVolStepCap(x, d *[1]float64, floor *impliedVolStepFloor, diffs *impliedVolDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
-		}
-		if hit > tiny && hit < limit {
-			limit = hit
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1436,8 +1444,8 @@ func impliedVolExpandTrial(previous, current *impliedVolLinePoint) float64 {
 
 // impliedVolGradientChange sets out = a − b.
 func impliedVolGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -585,18 +585,25 @@ type calibrateDirection struct {
 }
 
 func (s *calibrateDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *calibrateDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -calibrateDot(&s.h[i], g)
+	{
+		d[0] = -calibrateDot(&s.h[0], g)
+		d[1] = -calibrateDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *calibrateDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / calibrateDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *calibrateDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = calibrateDot(&s.h[i], change)
+	{
+		hy[0] = calibrateDot(&s.h[0], change)
+		hy[1] = calibrateDot(&s.h[1], change)
 	}
 	outer := (rho*rho*calibrateDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *calibrateDirection) firstTrial(t, slope, now float64) float64 {
 // calibrateDot returns aᵀb.
 func calibrateDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func calibrateFinite(v float64) bool {
 
 // calibrateFiniteVec reports whether every component of x is finite.
 func calibrateFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !calibrateFinite(x[i]) {
+	{
+		if !calibrateFinite(x[0]) {
+			return false
+		}
+		if !calibrateFinite(x[1]) {
 			return false
 		}
 	}
@@ -754,15 +778,17 @@ func calibrateConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += calibrateDerivative(x, fx, g, diffs)
 	calls += calibrateDerivative(x, fx, &doubled, &wide)
 	calibrateGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * calibrateAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * calibrateAbs(g[0]-doubled[0])
+		e[1] += 3 * calibrateAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -770,8 +796,9 @@ func calibrateConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs
 // calibrateGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func calibrateGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -792,8 +819,9 @@ func calibrateAbs(v float64) float64 {
 func calibrateRoundingFloor(x, g, e *[2]float64, diffs *calibrateDifferences) {
 	var h [2]float64
 	calibrateDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * calibrateUnitRoundoff * calibrateAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * calibrateUnitRoundoff * calibrateAbs(x[0]) * h[0]
+		e[1] += 4 * calibrateUnitRoundoff * calibrateAbs(x[1]) * h[1]
 	}
 }
 
@@ -895,10 +923,17 @@ func calibrateStationarity(g, e, x *[2]float64, fx float64, b *calibrateBox) (me
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := calibrateLarger(calibrateAbs(fx), 1)
-	for i := range g {
-		w := calibrateLarger(calibrateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = calibrateLarger(measure, (calibrateAbs(g[i])+e[i])*w)
-		floor = calibrateLarger(floor, e[i]*w)
+	{
+		{
+			w := calibrateLarger(calibrateAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = calibrateLarger(measure, (calibrateAbs(g[0])+e[0])*w)
+			floor = calibrateLarger(floor, e[0]*w)
+		}
+		{
+			w := calibrateLarger(calibrateAbs(x[1]), 1) / scale
+			measure = calibrateLarger(measure, (calibrateAbs(g[1])+e[1])*w)
+			floor = calibrateLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +943,11 @@ func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func calibrateStepWithin(s, x *[2]float64, tol float64, diffs *calibrateDifferences) bool {
-	for i := range s {
-		if !(calibrateAbs(s[i]) <= tol*calibrateStepScale(x[i], i, diffs)) {
+	{
+		if !(calibrateAbs(s[0]) <= tol*calibrateStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(calibrateAbs(s[1]) <= tol*calibrateStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +999,14 @@ func (f *calibrateStepFloor) at(x, d *[2]float64, diffs *calibrateDifferences) f
 // step test, min over i of tol·calibrateStepScale(x_i)/|d_i|, or −1 when d is zero.
 func calibrateTinyStep(x, d *[2]float64, tol float64, diffs *calibrateDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * calibrateStepScale(x[i], i, diffs) / calibrateAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * calibrateStepScale(x[0], 0, diffs) / calibrateAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * calibrateStepScale(x[1], 1, diffs) / calibrateAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1045,8 +1088,11 @@ func calibrateShrinkDirection(d, g *[2]float64) {
 // calibrateMaxAbs returns the largest |x_i|, the infinity norm.
 func calibrateMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := calibrateAbs(x[i]); a > m || a != a {
+	{
+		if a := calibrateAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := calibrateAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1055,8 +1101,9 @@ func calibrateMaxAbs(x *[2]float64) float64 {
 
 // calibrateScaleBy sets x = c·x.
 func calibrateScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1114,8 +1161,11 @@ func (r *calibrateRiseTrend) contradicts() bool {
 // calibrateFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func calibrateFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(calibrateAbs(xt[i]-x[i]-want) <= 0.01*calibrateAbs(want)) {
+	{
+		if want := t * d[0]; !(calibrateAbs(xt[0]-x[0]-want) <= 0.01*calibrateAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(calibrateAbs(xt[1]-x[1]-want) <= 0.01*calibrateAbs(want)) {
 			return false
 		}
 	}
@@ -1148,8 +1198,9 @@ func calibrateTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *calibr
 
 // calibrateMoveTo sets out = x + t·d.
 func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1175,8 +1226,9 @@ func calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) floa
 
 // calibrateGradientChange sets out = a − b.
 func calibrateGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

@@ -585,18 +585,18 @@ type tuneGainDirection struct {
 }
 
 func (s *tuneGainDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
 	}
 	s.scaled = false
 }
 
 func (s *tuneGainDirection) compute(g, d *[1]float64) {
-	for i := range s.h {
-		d[i] = -tuneGainDot(&s.h[i], g)
+	{
+		d[0] = -tuneGainDot(&s.h[0], g)
 	}
 }
 
@@ -607,8 +607,8 @@ func (s *tuneGainDirection) update(step, change *[1]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / tuneGainDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +616,19 @@ func (s *tuneGainDirection) update(step, change *[1]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [1]float64
-	for i := range s.h {
-		hy[i] = tuneGainDot(&s.h[i], change)
+	{
+		hy[0] = tuneGainDot(&s.h[0], change)
 	}
 	outer := (rho*rho*tuneGainDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0] // N&W eq. 6.17
+			}
 		}
 	}
 }
@@ -643,8 +645,8 @@ func (s *tuneGainDirection) firstTrial(t, slope, now float64) float64 {
 // tuneGainDot returns aᵀb.
 func tuneGainDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -699,8 +701,8 @@ func tuneGainFinite(v float64) bool {
 
 // tuneGainFiniteVec reports whether every component of x is finite.
 func tuneGainFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !tuneGainFinite(x[i]) {
+	{
+		if !tuneGainFinite(x[0]) {
 			return false
 		}
 	}
@@ -772,16 +774,18 @@ func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, bu
 		}
 	}
 	noise := tuneGainNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := tuneGainLarger(1, tuneGainAbs(probe[i]))
-		bar := quarter * s
-		third := tuneGainLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = tuneGainCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := tuneGainLarger(1, tuneGainAbs(probe[0]))
+			bar := quarter * s
+			third := tuneGainLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = tuneGainCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = tuneGainClampBetween(h, 64*tuneGainUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = tuneGainClampBetween(h, 64*tuneGainUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
 	}
 	return calls, true
 }
@@ -875,8 +879,8 @@ func tuneGainMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func tuneGainNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
 	sum := tuneGainAbs(fx)
-	for i := range x {
-		sum += tuneGainAbs(g[i] * x[i])
+	{
+		sum += tuneGainAbs(g[0] * x[0])
 	}
 	return 4 * tuneGainUnitRoundoff * sum
 }
@@ -1003,15 +1007,15 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += tuneGainDerivative(x, fx, g, diffs)
 	calls += tuneGainDerivative(x, fx, &doubled, &wide)
 	tuneGainGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * tuneGainAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * tuneGainAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -1022,16 +1026,18 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 // in forwardError).
 func tuneGainGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences) {
 	noise := tuneGainNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := tuneGainCentralInterval(x, i, diffs)
-		h = tuneGainAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := tuneGainCentralInterval(x, 0, diffs)
+			h = tuneGainAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1051,8 @@ func tuneGainGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *t
 func tuneGainRoundingFloor(x, g, e *[1]float64, diffs *tuneGainDifferences) {
 	var h [1]float64
 	tuneGainDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * tuneGainUnitRoundoff * tuneGainAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * tuneGainUnitRoundoff * tuneGainAbs(x[0]) * h[0]
 	}
 }
 
@@ -1074,10 +1080,12 @@ func tuneGainStationarity(g, e, x *[1]float64, fx float64, b *tuneGainBox) (meas
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := tuneGainLarger(tuneGainAbs(fx), 1)
-	for i := range g {
-		w := tuneGainLarger(tuneGainAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = tuneGainLarger(measure, (tuneGainAbs(g[i])+e[i])*w)
-		floor = tuneGainLarger(floor, e[i]*w)
+	{
+		{
+			w := tuneGainLarger(tuneGainAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = tuneGainLarger(measure, (tuneGainAbs(g[0])+e[0])*w)
+			floor = tuneGainLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1095,8 @@ func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func tuneGainStepWithin(s, x *[1]float64, tol float64, diffs *tuneGainDifferences) bool {
-	for i := range s {
-		if !(tuneGainAbs(s[i]) <= tol*tuneGainStepScale(x[i], i, diffs)) {
+	{
+		if !(tuneGainAbs(s[0]) <= tol*tuneGainStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1148,9 @@ func (f *tuneGainStepFloor) at(x, d *[1]float64, diffs *tuneGainDifferences) flo
 // step test, min over i of tol·tuneGainStepScale(x_i)/|d_i|, or −1 when d is zero.
 func tuneGainTinyStep(x, d *[1]float64, tol float64, diffs *tuneGainDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * tuneGainStepScale(x[i], i, diffs) / tuneGainAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * tuneGainStepScale(x[0], 0, diffs) / tuneGainAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1224,8 +1232,8 @@ func tuneGainShrinkDirection(d, g *[1]float64) {
 // tuneGainMaxAbs returns the largest |x_i|, the infinity norm.
 func tuneGainMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := tuneGainAbs(x[i]); a > m || a != a {
+	{
+		if a := tuneGainAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1234,8 +1242,8 @@ func tuneGainMaxAbs(x *[1]float64) float64 {
 
 // tuneGainScaleBy sets x = c·x.
 func tuneGainScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1293,8 +1301,8 @@ func (r *tuneGainRiseTrend) contradicts() bool {
 // tuneGainFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func tuneGainFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(tuneGainAbs(xt[i]-x[i]-want) <= 0.01*tuneGainAbs(want)) {
+	{
+		if want := t * d[0]; !(tuneGainAbs(xt[0]-x[0]-want) <= 0.01*tuneGainAbs(want)) {
 			return false
 		}
 	}
@@ -1327,8 +1335,8 @@ func tuneGainTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *tuneGai
 
 // tuneGainMoveTo sets out = x + t·d.
 func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1354,8 +1362,8 @@ func tuneGainBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) float
 
 // tuneGainGradientChange sets out = a − b.
 func tuneGainGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -612,18 +612,34 @@ type fitSteinhartHartDirection struct {
 }
 
 func (s *fitSteinhartHartDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *fitSteinhartHartDirection) compute(g, d *[3]float64) {
-	for i := range s.h {
-		d[i] = -fitSteinhartHartDot(&s.h[i], g)
+	{
+		d[0] = -fitSteinhartHartDot(&s.h[0], g)
+		d[1] = -fitSteinhartHartDot(&s.h[1], g)
+		d[2] = -fitSteinhartHartDot(&s.h[2], g)
 	}
 }
 
@@ -634,8 +650,10 @@ func (s *fitSteinhartHartDirection) update(step, change *[3]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / fitSteinhartHartDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -643,17 +661,41 @@ func (s *fitSteinhartHartDirection) update(step, change *[3]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float64
-	for i := range s.h {
-		hy[i] = fitSteinhartHartDot(&s.h[i], change)
+	{
+		hy[0] = fitSteinhartHartDot(&s.h[0], change)
+		hy[1] = fitSteinhartHartDot(&s.h[1], change)
+		hy[2] = fitSteinhartHartDot(&s.h[2], change)
 	}
 	outer := (rho*rho*fitSteinhartHartDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -670,8 +712,10 @@ func (s *fitSteinhartHartDirection) firstTrial(t, slope, now float64) float64 {
 // fitSteinhartHartDot returns aᵀb.
 func fitSteinhartHartDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -726,8 +770,14 @@ func fitSteinhartHartFinite(v float64) bool {
 
 // fitSteinhartHartFiniteVec reports whether every component of x is finite.
 func fitSteinhartHartFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !fitSteinhartHartFinite(x[i]) {
+	{
+		if !fitSteinhartHartFinite(x[0]) {
+			return false
+		}
+		if !fitSteinhartHartFinite(x[1]) {
+			return false
+		}
+		if !fitSteinhartHartFinite(x[2]) {
 			return false
 		}
 	}
@@ -799,16 +849,40 @@ func fitSteinhartHartCalibrate(recv *Calibration, x *[3]float64, fx float64, dif
 		}
 	}
 	noise := fitSteinhartHartNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := fitSteinhartHartLarger(1, fitSteinhartHartAbs(probe[i]))
-		bar := quarter * s
-		third := fitSteinhartHartLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = fitSteinhartHartCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := fitSteinhartHartLarger(1, fitSteinhartHartAbs(probe[0]))
+			bar := quarter * s
+			third := fitSteinhartHartLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = fitSteinhartHartCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = fitSteinhartHartClampBetween(h, 64*fitSteinhartHartUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = fitSteinhartHartClampBetween(h, 64*fitSteinhartHartUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := fitSteinhartHartLarger(1, fitSteinhartHartAbs(probe[1]))
+			bar := quarter * s
+			third := fitSteinhartHartLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = fitSteinhartHartCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = fitSteinhartHartClampBetween(h, 64*fitSteinhartHartUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := fitSteinhartHartLarger(1, fitSteinhartHartAbs(probe[2]))
+			bar := quarter * s
+			third := fitSteinhartHartLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = fitSteinhartHartCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = fitSteinhartHartClampBetween(h, 64*fitSteinhartHartUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -902,8 +976,10 @@ func fitSteinhartHartMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func fitSteinhartHartNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := fitSteinhartHartAbs(fx)
-	for i := range x {
-		sum += fitSteinhartHartAbs(g[i] * x[i])
+	{
+		sum += fitSteinhartHartAbs(g[0] * x[0])
+		sum += fitSteinhartHartAbs(g[1] * x[1])
+		sum += fitSteinhartHartAbs(g[2] * x[2])
 	}
 	return 4 * fitSteinhartHartUnitRoundoff * sum
 }
@@ -1030,15 +1106,19 @@ func fitSteinhartHartConfirmGradient(recv *Calibration, x *[3]float64, fx float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float64
 	calls += fitSteinhartHartDerivative(recv, x, fx, g, diffs)
 	calls += fitSteinhartHartDerivative(recv, x, fx, &doubled, &wide)
 	fitSteinhartHartGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * fitSteinhartHartAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * fitSteinhartHartAbs(g[0]-doubled[0])
+		e[1] += 3 * fitSteinhartHartAbs(g[1]-doubled[1])
+		e[2] += 3 * fitSteinhartHartAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1049,16 +1129,42 @@ func fitSteinhartHartConfirmGradient(recv *Calibration, x *[3]float64, fx float6
 // in forwardError).
 func fitSteinhartHartGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitSteinhartHartDifferences) {
 	noise := fitSteinhartHartNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := fitSteinhartHartCentralInterval(x, i, diffs)
-		h = fitSteinhartHartAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := fitSteinhartHartCentralInterval(x, 0, diffs)
+			h = fitSteinhartHartAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := fitSteinhartHartCentralInterval(x, 1, diffs)
+			h = fitSteinhartHartAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := fitSteinhartHartCentralInterval(x, 2, diffs)
+			h = fitSteinhartHartAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1072,8 +1178,10 @@ func fitSteinhartHartGradientError(x *[3]float64, fx float64, g, e *[3]float64, 
 func fitSteinhartHartRoundingFloor(recv *Calibration, x, g, e *[3]float64, diffs *fitSteinhartHartDifferences) {
 	var h [3]float64
 	fitSteinhartHartDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * fitSteinhartHartUnitRoundoff * fitSteinhartHartAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * fitSteinhartHartUnitRoundoff * fitSteinhartHartAbs(x[0]) * h[0]
+		e[1] += 4 * fitSteinhartHartUnitRoundoff * fitSteinhartHartAbs(x[1]) * h[1]
+		e[2] += 4 * fitSteinhartHartUnitRoundoff * fitSteinhartHartAbs(x[2]) * h[2]
 	}
 }
 
@@ -1101,10 +1209,22 @@ func fitSteinhartHartStationarity(g, e, x *[3]float64, fx float64, b *fitSteinha
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func fitSteinhartHartGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := fitSteinhartHartLarger(fitSteinhartHartAbs(fx), 1)
-	for i := range g {
-		w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[i])+e[i])*w)
-		floor = fitSteinhartHartLarger(floor, e[i]*w)
+	{
+		{
+			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[0])+e[0])*w)
+			floor = fitSteinhartHartLarger(floor, e[0]*w)
+		}
+		{
+			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[1]), 1) / scale
+			measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[1])+e[1])*w)
+			floor = fitSteinhartHartLarger(floor, e[1]*w)
+		}
+		{
+			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[2]), 1) / scale
+			measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[2])+e[2])*w)
+			floor = fitSteinhartHartLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1114,8 +1234,14 @@ func fitSteinhartHartGradientMeasure(g, e, x *[3]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func fitSteinhartHartStepWithin(s, x *[3]float64, tol float64, diffs *fitSteinhartHartDifferences) bool {
-	for i := range s {
-		if !(fitSteinhartHartAbs(s[i]) <= tol*fitSteinhartHartStepScale(x[i], i, diffs)) {
+	{
+		if !(fitSteinhartHartAbs(s[0]) <= tol*fitSteinhartHartStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(fitSteinhartHartAbs(s[1]) <= tol*fitSteinhartHartStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(fitSteinhartHartAbs(s[2]) <= tol*fitSteinhartHartStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1167,9 +1293,19 @@ func (f *fitSteinhartHartStepFloor) at(x, d *[3]float64, diffs *fitSteinhartHart
 // step test, min over i of tol·fitSteinhartHartStepScale(x_i)/|d_i|, or −1 when d is zero.
 func fitSteinhartHartTinyStep(x, d *[3]float64, tol float64, diffs *fitSteinhartHartDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * fitSteinhartHartStepScale(x[i], i, diffs) / fitSteinhartHartAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * fitSteinhartHartStepScale(x[0], 0, diffs) / fitSteinhartHartAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * fitSteinhartHartStepScale(x[1], 1, diffs) / fitSteinhartHartAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * fitSteinhartHartStepScale(x[2], 2, diffs) / fitSteinhartHartAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1317,8 +1453,14 @@ func fitSteinhartHartShrinkDirection(d, g *[3]float64) {
 // fitSteinhartHartMaxAbs returns the largest |x_i|, the infinity norm.
 func fitSteinhartHartMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := fitSteinhartHartAbs(x[i]); a > m || a != a {
+	{
+		if a := fitSteinhartHartAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := fitSteinhartHartAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := fitSteinhartHartAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1327,8 +1469,10 @@ func fitSteinhartHartMaxAbs(x *[3]float64) float64 {
 
 // fitSteinhartHartScaleBy sets x = c·x.
 func fitSteinhartHartScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1393,8 +1537,14 @@ func (r *fitSteinhartHartRiseTrend) contradicts() bool {
 // fitSteinhartHartFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func fitSteinhartHartFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(fitSteinhartHartAbs(xt[i]-x[i]-want) <= 0.01*fitSteinhartHartAbs(want)) {
+	{
+		if want := t * d[0]; !(fitSteinhartHartAbs(xt[0]-x[0]-want) <= 0.01*fitSteinhartHartAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(fitSteinhartHartAbs(xt[1]-x[1]-want) <= 0.01*fitSteinhartHartAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(fitSteinhartHartAbs(xt[2]-x[2]-want) <= 0.01*fitSteinhartHartAbs(want)) {
 			return false
 		}
 	}
@@ -1443,8 +1593,10 @@ func fitSteinhartHartTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b 
 
 // fitSteinhartHartMoveTo sets out = x + t·d.
 func fitSteinhartHartMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1510,8 +1662,10 @@ func fitSteinhartHartExpandTrial(previous, current *fitSteinhartHartLinePoint) f
 
 // fitSteinhartHartGradientChange sets out = a − b.
 func fitSteinhartHartGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

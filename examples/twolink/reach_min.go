@@ -595,18 +595,25 @@ type reachDirection struct {
 }
 
 func (s *reachDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *reachDirection) compute(g, d *[2]float32) {
-	for i := range s.h {
-		d[i] = -reachDot(&s.h[i], g)
+	{
+		d[0] = -reachDot(&s.h[0], g)
+		d[1] = -reachDot(&s.h[1], g)
 	}
 }
 
@@ -617,8 +624,9 @@ func (s *reachDirection) update(step, change *[2]float32) {
 	}
 	if !s.scaled {
 		gamma := sy / reachDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,17 +634,29 @@ func (s *reachDirection) update(step, change *[2]float32) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float32
-	for i := range s.h {
-		hy[i] = reachDot(&s.h[i], change)
+	{
+		hy[0] = reachDot(&s.h[0], change)
+		hy[1] = reachDot(&s.h[1], change)
 	}
 	outer := (rho*rho*reachDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -653,8 +673,9 @@ func (s *reachDirection) firstTrial(t, slope, now float32) float32 {
 // reachDot returns aᵀb.
 func reachDot(a, b *[2]float32) float32 {
 	var s float32
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -683,8 +704,9 @@ const (
 // reachEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func reachEnterBox(x *[2]float32, b *reachBox) {
-	for i := range x {
-		x[i] = reachClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = reachClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = reachClampBetween(x[1], b.lower[1], b.upper[1])
 	}
 }
 
@@ -729,8 +751,11 @@ func reachFinite(v float32) bool {
 
 // reachFiniteVec reports whether every component of x is finite.
 func reachFiniteVec(x *[2]float32) bool {
-	for i := range x {
-		if !reachFinite(x[i]) {
+	{
+		if !reachFinite(x[0]) {
+			return false
+		}
+		if !reachFinite(x[1]) {
 			return false
 		}
 	}
@@ -784,15 +809,17 @@ func reachConfirmGradient(recv *Arm, x *[2]float32, fx float32, g, e *[2]float32
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float32
 	calls += reachDerivative(recv, x, fx, g, diffs)
 	calls += reachDerivative(recv, x, fx, &doubled, &wide)
 	reachGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * reachAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * reachAbs(g[0]-doubled[0])
+		e[1] += 3 * reachAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -800,8 +827,9 @@ func reachConfirmGradient(recv *Arm, x *[2]float32, fx float32, g, e *[2]float32
 // reachGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func reachGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *reachDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -822,8 +850,9 @@ func reachAbs(v float32) float32 {
 func reachRoundingFloor(recv *Arm, x, g, e *[2]float32, diffs *reachDifferences) {
 	var h [2]float32
 	reachDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * reachUnitRoundoff * reachAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * reachUnitRoundoff * reachAbs(x[0]) * h[0]
+		e[1] += 4 * reachUnitRoundoff * reachAbs(x[1]) * h[1]
 	}
 }
 
@@ -900,9 +929,12 @@ func reachLarger(a, b float32) float32 {
 // eᵢ − |gᵢ|, which is what is counted.
 func reachStationarity(g, e, x *[2]float32, fx float32, b *reachBox) (measure, floor float32) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if reachPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, reachLarger(0, e[i]-reachAbs(g[i]))
+	{
+		if reachPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, reachLarger(0, e[0]-reachAbs(g[0]))
+		}
+		if reachPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, reachLarger(0, e[1]-reachAbs(g[1]))
 		}
 	}
 	return reachGradientMeasure(&pg, &pe, x, fx)
@@ -928,10 +960,17 @@ func reachPushedAgainst(xi, gi, lower, upper float32) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func reachGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
 	scale := reachLarger(reachAbs(fx), 1)
-	for i := range g {
-		w := reachLarger(reachAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = reachLarger(measure, (reachAbs(g[i])+e[i])*w)
-		floor = reachLarger(floor, e[i]*w)
+	{
+		{
+			w := reachLarger(reachAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = reachLarger(measure, (reachAbs(g[0])+e[0])*w)
+			floor = reachLarger(floor, e[0]*w)
+		}
+		{
+			w := reachLarger(reachAbs(x[1]), 1) / scale
+			measure = reachLarger(measure, (reachAbs(g[1])+e[1])*w)
+			floor = reachLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +980,11 @@ func reachGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func reachStepWithin(s, x *[2]float32, tol float32, diffs *reachDifferences) bool {
-	for i := range s {
-		if !(reachAbs(s[i]) <= tol*reachStepScale(x[i], i, diffs)) {
+	{
+		if !(reachAbs(s[0]) <= tol*reachStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(reachAbs(s[1]) <= tol*reachStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +1007,12 @@ func reachStepScale(xi float32, i int, diffs *reachDifferences) float32 {
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func reachCurvaturePair(s, y, x *[2]float32, b *reachBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
 		}
 	}
 }
@@ -1003,28 +1048,47 @@ func reachLearnCurvature(s, y *[2]float32, diffs *reachDifferences) {}
 func reachSearchDirection(dir *reachDirection, x, g, d *[2]float32, diffs *reachDifferences) {
 	b := &diffs.bounds
 	var reach float32 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = reachLarger(reach, reachAbs(x[i]-reachClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = reachLarger(reach, reachAbs(x[0]-reachClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = reachLarger(reach, reachAbs(x[1]-reachClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
 	}
 	var free [2]float32
 	var active [2]bool
-	for i := range x {
-		margin := reachActiveMargin * reachLarger(1, reachAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := reachActiveMargin * reachLarger(1, reachAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = reachPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = reachPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := reachActiveMargin * reachLarger(1, reachAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = reachPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
 		}
 	}
 	reachSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if reachPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if reachPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if reachPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
 		}
 	}
 }
@@ -1058,9 +1122,14 @@ func (f *reachStepFloor) at(x, d *[2]float32, diffs *reachDifferences) float32 {
 // step test, min over i of tol·reachStepScale(x_i)/|d_i|, or −1 when d is zero.
 func reachTinyStep(x, d *[2]float32, tol float32, diffs *reachDifferences) float32 {
 	tiny := float32(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * reachStepScale(x[i], i, diffs) / reachAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * reachStepScale(x[0], 0, diffs) / reachAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * reachStepScale(x[1], 1, diffs) / reachAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1277,11 @@ func reachShrinkDirection(d, g *[2]float32) {
 // reachMaxAbs returns the largest |x_i|, the infinity norm.
 func reachMaxAbs(x *[2]float32) float32 {
 	var m float32
-	for i := range x {
-		if a := reachAbs(x[i]); a > m || a != a {
+	{
+		if a := reachAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := reachAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1290,9 @@ func reachMaxAbs(x *[2]float32) float32 {
 
 // reachScaleBy sets x = c·x.
 func reachScaleBy(x *[2]float32, c float32) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1284,8 +1357,11 @@ func (r *reachRiseTrend) contradicts() bool {
 // reachFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func reachFaithfulStep(x, xt, d *[2]float32, t float32) bool {
-	for i := range x {
-		if want := t * d[i]; !(reachAbs(xt[i]-x[i]-want) <= 0.01*reachAbs(want)) {
+	{
+		if want := t * d[0]; !(reachAbs(xt[0]-x[0]-want) <= 0.01*reachAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(reachAbs(xt[1]-x[1]-want) <= 0.01*reachAbs(want)) {
 			return false
 		}
 	}
@@ -1304,16 +1380,30 @@ func reachFaithfulStep(x, xt, d *[2]float32, t float32) bool {
 func reachStepCap(x, d *[2]float32, floor *reachStepFloor, diffs *reachDifferences) float32 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := float32(math.Inf(1))
-	for i := range x {
-		hit := float32(math.Inf(1))
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
+	{
+		{
+			hit := float32(math.Inf(1))
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
-		if hit > tiny && hit < limit {
-			limit = hit
+		{
+			hit := float32(math.Inf(1))
+			switch {
+			case d[1] > 0:
+				hit = (b.upper[1] - x[1]) / d[1]
+			case d[1] < 0:
+				hit = (b.lower[1] - x[1]) / d[1]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1436,8 +1526,9 @@ func reachExpandTrial(previous, current *reachLinePoint) float32 {
 
 // reachGradientChange sets out = a − b.
 func reachGradientChange(out, a, b *[2]float32) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

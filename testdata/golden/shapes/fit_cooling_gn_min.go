@@ -688,8 +688,14 @@ func fitCoolingGNFinite(v float64) bool {
 
 // fitCoolingGNFiniteVec reports whether every component of x is finite.
 func fitCoolingGNFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !fitCoolingGNFinite(x[i]) {
+	{
+		if !fitCoolingGNFinite(x[0]) {
+			return false
+		}
+		if !fitCoolingGNFinite(x[1]) {
+			return false
+		}
+		if !fitCoolingGNFinite(x[2]) {
 			return false
 		}
 	}
@@ -732,17 +738,31 @@ func fitCoolingGNDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fit
 	m.normal = [3][3]float64{}
 	for k := range jac {
 		row := &jac[k]
-		for i := range row {
-			for j := 0; j <= i; j++ {
-				m.normal[i][j] += row[i] * row[j] // N&W eq. 10.4: JᵀJ
+		{
+			for j := 0; j <= 0; j++ {
+				m.normal[0][j] += row[0] * row[j] // N&W eq. 10.4: JᵀJ
+			}
+			for j := 0; j <= 1; j++ {
+				m.normal[1][j] += row[1] * row[j]
+			}
+			for j := 0; j <= 2; j++ {
+				m.normal[2][j] += row[2] * row[j]
 			}
 		}
 	}
-	for i := range m.normal {
-		for j := 0; j < i; j++ {
-			m.normal[j][i] = m.normal[i][j]
+	{
+		for j := 0; j < 0; j++ {
+			m.normal[j][0] = m.normal[0][j]
 		}
-		m.scale[i] = fitCoolingGNLarger(m.scale[i], m.normal[i][i])
+		m.scale[0] = fitCoolingGNLarger(m.scale[0], m.normal[0][0])
+		for j := 0; j < 1; j++ {
+			m.normal[j][1] = m.normal[1][j]
+		}
+		m.scale[1] = fitCoolingGNLarger(m.scale[1], m.normal[1][1])
+		for j := 0; j < 2; j++ {
+			m.normal[j][2] = m.normal[2][j]
+		}
+		m.scale[2] = fitCoolingGNLarger(m.scale[2], m.normal[2][2])
 	}
 	// f's rounding noise: each rᵢ = model − yᵢ carries rounding of the
 	// model's size, |rᵢ| + Σⱼ|Jᵢⱼxⱼ| (the sum is the model itself for
@@ -754,8 +774,10 @@ func fitCoolingGNDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fit
 	m.noise = 0
 	for k := range jac {
 		size := fitCoolingGNAbs(m.r[k])
-		for j := range x {
-			size += fitCoolingGNAbs(jac[k][j] * x[j])
+		{
+			size += fitCoolingGNAbs(jac[k][0] * x[0])
+			size += fitCoolingGNAbs(jac[k][1] * x[1])
+			size += fitCoolingGNAbs(jac[k][2] * x[2])
 		}
 		m.noise += fitCoolingGNAbs(m.r[k]) * size
 	}
@@ -911,8 +933,10 @@ func fitCoolingGNParabola(f0, a, fa, b, fb float64) (slope, second float64) {
 func fitCoolingGNTransposeTimes(jac *[5][3]float64, r *[5]float64, g *[3]float64) {
 	*g = [3]float64{}
 	for k := range jac {
-		for i := range g {
-			g[i] += jac[k][i] * r[k]
+		{
+			g[0] += jac[k][0] * r[k]
+			g[1] += jac[k][1] * r[k]
+			g[2] += jac[k][2] * r[k]
 		}
 	}
 }
@@ -930,8 +954,10 @@ func fitCoolingGNTransposeTimes(jac *[5][3]float64, r *[5]float64, g *[3]float64
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func fitCoolingGNNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := fitCoolingGNAbs(fx)
-	for i := range x {
-		sum += fitCoolingGNAbs(g[i] * x[i])
+	{
+		sum += fitCoolingGNAbs(g[0] * x[0])
+		sum += fitCoolingGNAbs(g[1] * x[1])
+		sum += fitCoolingGNAbs(g[2] * x[2])
 	}
 	return 4 * fitCoolingGNUnitRoundoff * sum
 }
@@ -950,13 +976,31 @@ func fitCoolingGNJacobianError(x *[3]float64, jac *[5][3]float64, r *[5]float64,
 // rounding·|rᵢ|/sⱼ), the bound on the error of gⱼ = (Jᵀr)ⱼ that a
 // difference Jacobian of that order leaves.
 func fitCoolingGNDifferenceError(x *[3]float64, jac *[5][3]float64, r *[5]float64, e *[3]float64, diffs *fitCoolingGNDifferences, order, truncation, rounding float64) {
-	for j := range e {
-		s := fitCoolingGNStepScale(x[j], j, diffs)
-		var sum float64
-		for i := range jac {
-			sum += fitCoolingGNAbs(r[i]) * order * (truncation*fitCoolingGNAbs(jac[i][j]) + rounding*fitCoolingGNAbs(r[i])/s)
+	{
+		{
+			s := fitCoolingGNStepScale(x[0], 0, diffs)
+			var sum float64
+			for i := range jac {
+				sum += fitCoolingGNAbs(r[i]) * order * (truncation*fitCoolingGNAbs(jac[i][0]) + rounding*fitCoolingGNAbs(r[i])/s)
+			}
+			e[0] = sum
 		}
-		e[j] = sum
+		{
+			s := fitCoolingGNStepScale(x[1], 1, diffs)
+			var sum float64
+			for i := range jac {
+				sum += fitCoolingGNAbs(r[i]) * order * (truncation*fitCoolingGNAbs(jac[i][1]) + rounding*fitCoolingGNAbs(r[i])/s)
+			}
+			e[1] = sum
+		}
+		{
+			s := fitCoolingGNStepScale(x[2], 2, diffs)
+			var sum float64
+			for i := range jac {
+				sum += fitCoolingGNAbs(r[i]) * order * (truncation*fitCoolingGNAbs(jac[i][2]) + rounding*fitCoolingGNAbs(r[i])/s)
+			}
+			e[2] = sum
+		}
 	}
 }
 
@@ -992,14 +1036,26 @@ func fitCoolingGNSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitC
 		m.wide = false
 		var wide [3]float64
 		fitCoolingGNTransposeTimes(&jac, &m.r, &wide)
-		for i := range e {
-			change := fitCoolingGNAbs(wide[i] - g[i])
-			e[i] += 3 * change // Richardson: the change with twice the intervals
+		{
+			{
+				change := fitCoolingGNAbs(wide[0] - g[0])
+				e[0] += 3 * change // Richardson: the change with twice the intervals
+			}
+			{
+				change := fitCoolingGNAbs(wide[1] - g[1])
+				e[1] += 3 * change
+			}
+			{
+				change := fitCoolingGNAbs(wide[2] - g[2])
+				e[2] += 3 * change
+			}
 		}
 	}
 	if stall {
-		for i := range e {
-			e[i] += 4 * fitCoolingGNUnitRoundoff * fitCoolingGNAbs(x[i]) * m.normal[i][i]
+		{
+			e[0] += 4 * fitCoolingGNUnitRoundoff * fitCoolingGNAbs(x[0]) * m.normal[0][0]
+			e[1] += 4 * fitCoolingGNUnitRoundoff * fitCoolingGNAbs(x[1]) * m.normal[1][1]
+			e[2] += 4 * fitCoolingGNUnitRoundoff * fitCoolingGNAbs(x[2]) * m.normal[2][2]
 		}
 	}
 	return calls, true
@@ -1029,10 +1085,22 @@ func fitCoolingGNStationarity(g, e, x *[3]float64, fx float64, b *fitCoolingGNBo
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func fitCoolingGNGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := fitCoolingGNLarger(fitCoolingGNAbs(fx), 1)
-	for i := range g {
-		w := fitCoolingGNLarger(fitCoolingGNAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[i])+e[i])*w)
-		floor = fitCoolingGNLarger(floor, e[i]*w)
+	{
+		{
+			w := fitCoolingGNLarger(fitCoolingGNAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[0])+e[0])*w)
+			floor = fitCoolingGNLarger(floor, e[0]*w)
+		}
+		{
+			w := fitCoolingGNLarger(fitCoolingGNAbs(x[1]), 1) / scale
+			measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[1])+e[1])*w)
+			floor = fitCoolingGNLarger(floor, e[1]*w)
+		}
+		{
+			w := fitCoolingGNLarger(fitCoolingGNAbs(x[2]), 1) / scale
+			measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[2])+e[2])*w)
+			floor = fitCoolingGNLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1042,8 +1110,14 @@ func fitCoolingGNGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func fitCoolingGNStepWithin(s, x *[3]float64, tol float64, diffs *fitCoolingGNDifferences) bool {
-	for i := range s {
-		if !(fitCoolingGNAbs(s[i]) <= tol*fitCoolingGNStepScale(x[i], i, diffs)) {
+	{
+		if !(fitCoolingGNAbs(s[0]) <= tol*fitCoolingGNStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(fitCoolingGNAbs(s[1]) <= tol*fitCoolingGNStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(fitCoolingGNAbs(s[2]) <= tol*fitCoolingGNStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1080,8 +1154,10 @@ func fitCoolingGNSolveDirection(dir *fitCoolingGNDirection, g, d *[3]float64, di
 func fitCoolingGNShiftedSolve(a *[3][3]float64, w *[3]float64, lambda float64, g, d *[3]float64) {
 	var l [3][3]float64
 	var largest float64
-	for i := range a {
-		largest = fitCoolingGNLarger(largest, fitCoolingGNAbs(a[i][i]))
+	{
+		largest = fitCoolingGNLarger(largest, fitCoolingGNAbs(a[0][0]))
+		largest = fitCoolingGNLarger(largest, fitCoolingGNAbs(a[1][1]))
+		largest = fitCoolingGNLarger(largest, fitCoolingGNAbs(a[2][2]))
 	}
 	tau := float64(0)
 	for attempt := 0; attempt < 64; attempt++ {
@@ -1131,12 +1207,28 @@ func fitCoolingGNSquareRoot(v float64) float64 {
 // fitCoolingGNCholeskySolve sets d to the solution of L·Lᵀ·d = −g by forward and
 // back substitution.
 func fitCoolingGNCholeskySolve(l *[3][3]float64, g, d *[3]float64) {
-	for i := range d {
-		sum := -g[i]
-		for k := 0; k < i; k++ {
-			sum -= l[i][k] * d[k]
+	{
+		{
+			sum := -g[0]
+			for k := 0; k < 0; k++ {
+				sum -= l[0][k] * d[k]
+			}
+			d[0] = sum / l[0][0]
 		}
-		d[i] = sum / l[i][i]
+		{
+			sum := -g[1]
+			for k := 0; k < 1; k++ {
+				sum -= l[1][k] * d[k]
+			}
+			d[1] = sum / l[1][1]
+		}
+		{
+			sum := -g[2]
+			for k := 0; k < 2; k++ {
+				sum -= l[2][k] * d[k]
+			}
+			d[2] = sum / l[2][2]
+		}
 	}
 	for i := len(d) - 1; i >= 0; i-- {
 		sum := d[i]
@@ -1149,16 +1241,20 @@ func fitCoolingGNCholeskySolve(l *[3][3]float64, g, d *[3]float64) {
 
 // fitCoolingGNNegate sets out = −x.
 func fitCoolingGNNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
 // fitCoolingGNDot returns aᵀb.
 func fitCoolingGNDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -1187,9 +1283,19 @@ func (f *fitCoolingGNStepFloor) at(x, d *[3]float64, diffs *fitCoolingGNDifferen
 // step test, min over i of tol·fitCoolingGNStepScale(x_i)/|d_i|, or −1 when d is zero.
 func fitCoolingGNTinyStep(x, d *[3]float64, tol float64, diffs *fitCoolingGNDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * fitCoolingGNStepScale(x[i], i, diffs) / fitCoolingGNAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * fitCoolingGNStepScale(x[0], 0, diffs) / fitCoolingGNAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * fitCoolingGNStepScale(x[1], 1, diffs) / fitCoolingGNAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * fitCoolingGNStepScale(x[2], 2, diffs) / fitCoolingGNAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1271,8 +1377,14 @@ func fitCoolingGNShrinkDirection(d, g *[3]float64) {
 // fitCoolingGNMaxAbs returns the largest |x_i|, the infinity norm.
 func fitCoolingGNMaxAbs(x *[3]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := fitCoolingGNAbs(x[i]); a > m || a != a {
+	{
+		if a := fitCoolingGNAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := fitCoolingGNAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := fitCoolingGNAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1281,8 +1393,10 @@ func fitCoolingGNMaxAbs(x *[3]float64) float64 {
 
 // fitCoolingGNScaleBy sets x = c·x.
 func fitCoolingGNScaleBy(x *[3]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1340,8 +1454,14 @@ func (r *fitCoolingGNRiseTrend) contradicts() bool {
 // fitCoolingGNFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func fitCoolingGNFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(fitCoolingGNAbs(xt[i]-x[i]-want) <= 0.01*fitCoolingGNAbs(want)) {
+	{
+		if want := t * d[0]; !(fitCoolingGNAbs(xt[0]-x[0]-want) <= 0.01*fitCoolingGNAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(fitCoolingGNAbs(xt[1]-x[1]-want) <= 0.01*fitCoolingGNAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(fitCoolingGNAbs(xt[2]-x[2]-want) <= 0.01*fitCoolingGNAbs(want)) {
 			return false
 		}
 	}
@@ -1374,8 +1494,10 @@ func fitCoolingGNTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *fit
 
 // fitCoolingGNMoveTo sets out = x + t·d.
 func fitCoolingGNMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1401,8 +1523,10 @@ func fitCoolingGNBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) f
 
 // fitCoolingGNDifference sets out = a − b.
 func fitCoolingGNDifference(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 
@@ -1440,12 +1564,30 @@ func fitCoolingGNUncertainty(x [3]float64, bounds fitCoolingGNBox) (cov [3][3]fl
 	// row and column of JᵀJ give way to the identity, and its variance
 	// and covariances are 0.
 	normal := diffs.model.normal
-	for i := range normal {
-		if fitCoolingGNPinned(i, &bounds) {
-			for j := range normal {
-				normal[i][j], normal[j][i] = 0, 0
+	{
+		if fitCoolingGNPinned(0, &bounds) {
+			{
+				normal[0][0], normal[0][0] = 0, 0
+				normal[0][1], normal[1][0] = 0, 0
+				normal[0][2], normal[2][0] = 0, 0
 			}
-			normal[i][i] = 1
+			normal[0][0] = 1
+		}
+		if fitCoolingGNPinned(1, &bounds) {
+			{
+				normal[1][0], normal[0][1] = 0, 0
+				normal[1][1], normal[1][1] = 0, 0
+				normal[1][2], normal[2][1] = 0, 0
+			}
+			normal[1][1] = 1
+		}
+		if fitCoolingGNPinned(2, &bounds) {
+			{
+				normal[2][0], normal[0][2] = 0, 0
+				normal[2][1], normal[1][2] = 0, 0
+				normal[2][2], normal[2][2] = 0, 0
+			}
+			normal[2][2] = 1
 		}
 	}
 	var l [3][3]float64
@@ -1457,14 +1599,22 @@ func fitCoolingGNUncertainty(x [3]float64, bounds fitCoolingGNBox) (cov [3][3]fl
 		var unit, column [3]float64
 		unit[j] = -1 // fitCoolingGNCholeskySolve solves for −g
 		fitCoolingGNCholeskySolve(&l, &unit, &column)
-		for i := range column {
-			if !fitCoolingGNPinned(i, &bounds) && !fitCoolingGNPinned(j, &bounds) {
-				cov[i][j] = variance * column[i]
+		{
+			if !fitCoolingGNPinned(0, &bounds) && !fitCoolingGNPinned(j, &bounds) {
+				cov[0][j] = variance * column[0]
+			}
+			if !fitCoolingGNPinned(1, &bounds) && !fitCoolingGNPinned(j, &bounds) {
+				cov[1][j] = variance * column[1]
+			}
+			if !fitCoolingGNPinned(2, &bounds) && !fitCoolingGNPinned(j, &bounds) {
+				cov[2][j] = variance * column[2]
 			}
 		}
 	}
-	for i := range stdErr {
-		stdErr[i] = fitCoolingGNSquareRoot(cov[i][i])
+	{
+		stdErr[0] = fitCoolingGNSquareRoot(cov[0][0])
+		stdErr[1] = fitCoolingGNSquareRoot(cov[1][1])
+		stdErr[2] = fitCoolingGNSquareRoot(cov[2][2])
 	}
 	return cov, stdErr, variance, calls, fitCoolingGNFiniteVec(&stdErr)
 }

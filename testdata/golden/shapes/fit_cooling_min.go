@@ -686,8 +686,14 @@ func fitCoolingFinite(v float64) bool {
 
 // fitCoolingFiniteVec reports whether every component of x is finite.
 func fitCoolingFiniteVec(x *[3]float64) bool {
-	for i := range x {
-		if !fitCoolingFinite(x[i]) {
+	{
+		if !fitCoolingFinite(x[0]) {
+			return false
+		}
+		if !fitCoolingFinite(x[1]) {
+			return false
+		}
+		if !fitCoolingFinite(x[2]) {
 			return false
 		}
 	}
@@ -730,17 +736,31 @@ func fitCoolingDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCo
 	m.normal = [3][3]float64{}
 	for k := range jac {
 		row := &jac[k]
-		for i := range row {
-			for j := 0; j <= i; j++ {
-				m.normal[i][j] += row[i] * row[j] // N&W eq. 10.4: JᵀJ
+		{
+			for j := 0; j <= 0; j++ {
+				m.normal[0][j] += row[0] * row[j] // N&W eq. 10.4: JᵀJ
+			}
+			for j := 0; j <= 1; j++ {
+				m.normal[1][j] += row[1] * row[j]
+			}
+			for j := 0; j <= 2; j++ {
+				m.normal[2][j] += row[2] * row[j]
 			}
 		}
 	}
-	for i := range m.normal {
-		for j := 0; j < i; j++ {
-			m.normal[j][i] = m.normal[i][j]
+	{
+		for j := 0; j < 0; j++ {
+			m.normal[j][0] = m.normal[0][j]
 		}
-		m.scale[i] = fitCoolingLarger(m.scale[i], m.normal[i][i])
+		m.scale[0] = fitCoolingLarger(m.scale[0], m.normal[0][0])
+		for j := 0; j < 1; j++ {
+			m.normal[j][1] = m.normal[1][j]
+		}
+		m.scale[1] = fitCoolingLarger(m.scale[1], m.normal[1][1])
+		for j := 0; j < 2; j++ {
+			m.normal[j][2] = m.normal[2][j]
+		}
+		m.scale[2] = fitCoolingLarger(m.scale[2], m.normal[2][2])
 	}
 	// f's rounding noise: each rᵢ = model − yᵢ carries rounding of the
 	// model's size, |rᵢ| + Σⱼ|Jᵢⱼxⱼ| (the sum is the model itself for
@@ -752,8 +772,10 @@ func fitCoolingDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *fitCo
 	m.noise = 0
 	for k := range jac {
 		size := fitCoolingAbs(m.r[k])
-		for j := range x {
-			size += fitCoolingAbs(jac[k][j] * x[j])
+		{
+			size += fitCoolingAbs(jac[k][0] * x[0])
+			size += fitCoolingAbs(jac[k][1] * x[1])
+			size += fitCoolingAbs(jac[k][2] * x[2])
 		}
 		m.noise += fitCoolingAbs(m.r[k]) * size
 	}
@@ -772,8 +794,10 @@ func fitCoolingJacobian(x *[3]float64, r *[5]float64, jac *[5][3]float64, diffs 
 func fitCoolingTransposeTimes(jac *[5][3]float64, r *[5]float64, g *[3]float64) {
 	*g = [3]float64{}
 	for k := range jac {
-		for i := range g {
-			g[i] += jac[k][i] * r[k]
+		{
+			g[0] += jac[k][0] * r[k]
+			g[1] += jac[k][1] * r[k]
+			g[2] += jac[k][2] * r[k]
 		}
 	}
 }
@@ -801,8 +825,10 @@ func fitCoolingLarger(a, b float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func fitCoolingNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
 	sum := fitCoolingAbs(fx)
-	for i := range x {
-		sum += fitCoolingAbs(g[i] * x[i])
+	{
+		sum += fitCoolingAbs(g[0] * x[0])
+		sum += fitCoolingAbs(g[1] * x[1])
+		sum += fitCoolingAbs(g[2] * x[2])
 	}
 	return 4 * fitCoolingUnitRoundoff * sum
 }
@@ -845,14 +871,26 @@ func fitCoolingSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *fitCoo
 		m.wide = false
 		var wide [3]float64
 		fitCoolingTransposeTimes(&jac, &m.r, &wide)
-		for i := range e {
-			change := fitCoolingAbs(wide[i] - g[i])
-			e[i] += 3 * change // Richardson: the change with twice the intervals
+		{
+			{
+				change := fitCoolingAbs(wide[0] - g[0])
+				e[0] += 3 * change // Richardson: the change with twice the intervals
+			}
+			{
+				change := fitCoolingAbs(wide[1] - g[1])
+				e[1] += 3 * change
+			}
+			{
+				change := fitCoolingAbs(wide[2] - g[2])
+				e[2] += 3 * change
+			}
 		}
 	}
 	if stall {
-		for i := range e {
-			e[i] += 4 * fitCoolingUnitRoundoff * fitCoolingAbs(x[i]) * m.normal[i][i]
+		{
+			e[0] += 4 * fitCoolingUnitRoundoff * fitCoolingAbs(x[0]) * m.normal[0][0]
+			e[1] += 4 * fitCoolingUnitRoundoff * fitCoolingAbs(x[1]) * m.normal[1][1]
+			e[2] += 4 * fitCoolingUnitRoundoff * fitCoolingAbs(x[2]) * m.normal[2][2]
 		}
 	}
 	return calls, true
@@ -882,10 +920,22 @@ func fitCoolingStationarity(g, e, x *[3]float64, fx float64, b *fitCoolingBox) (
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func fitCoolingGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
 	scale := fitCoolingLarger(fitCoolingAbs(fx), 1)
-	for i := range g {
-		w := fitCoolingLarger(fitCoolingAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = fitCoolingLarger(measure, (fitCoolingAbs(g[i])+e[i])*w)
-		floor = fitCoolingLarger(floor, e[i]*w)
+	{
+		{
+			w := fitCoolingLarger(fitCoolingAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = fitCoolingLarger(measure, (fitCoolingAbs(g[0])+e[0])*w)
+			floor = fitCoolingLarger(floor, e[0]*w)
+		}
+		{
+			w := fitCoolingLarger(fitCoolingAbs(x[1]), 1) / scale
+			measure = fitCoolingLarger(measure, (fitCoolingAbs(g[1])+e[1])*w)
+			floor = fitCoolingLarger(floor, e[1]*w)
+		}
+		{
+			w := fitCoolingLarger(fitCoolingAbs(x[2]), 1) / scale
+			measure = fitCoolingLarger(measure, (fitCoolingAbs(g[2])+e[2])*w)
+			floor = fitCoolingLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -895,8 +945,14 @@ func fitCoolingGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func fitCoolingStepWithin(s, x *[3]float64, tol float64, diffs *fitCoolingDifferences) bool {
-	for i := range s {
-		if !(fitCoolingAbs(s[i]) <= tol*fitCoolingStepScale(x[i], i, diffs)) {
+	{
+		if !(fitCoolingAbs(s[0]) <= tol*fitCoolingStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(fitCoolingAbs(s[1]) <= tol*fitCoolingStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(fitCoolingAbs(s[2]) <= tol*fitCoolingStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -951,17 +1007,35 @@ func fitCoolingCurvaturePair(s, y, x *[3]float64, b *fitCoolingBox) {}
 func fitCoolingLearnCurvature(s, y *[3]float64, diffs *fitCoolingDifferences) {
 	m := &diffs.model
 	var ss, sharp [3]float64
-	for i := range m.second {
-		ss[i] = fitCoolingDot(&m.second[i], s)
-		sharp[i] = y[i] - fitCoolingDot(&m.normal[i], s) // y♯ = y − JᵀJ·s
+	{
+		ss[0] = fitCoolingDot(&m.second[0], s)
+		sharp[0] = y[0] - fitCoolingDot(&m.normal[0], s)
+		ss[1] = fitCoolingDot(&m.second[1], s)
+		sharp[1] = y[1] - fitCoolingDot(&m.normal[1], s)
+		ss[2] = fitCoolingDot(&m.second[2], s)
+		sharp[2] = y[2] - fitCoolingDot(&m.normal[2], s) // y♯ = y − JᵀJ·s
 	}
 	if sss := fitCoolingDot(s, &ss); sss != 0 {
 		if tau := fitCoolingAbs(fitCoolingDot(s, &sharp) / sss); tau < 1 { // DGW's sizing
-			for i := range m.second {
-				for j := range m.second[i] {
-					m.second[i][j] *= tau
+			{
+				{
+					m.second[0][0] *= tau
+					m.second[0][1] *= tau
+					m.second[0][2] *= tau
 				}
-				ss[i] *= tau
+				ss[0] *= tau
+				{
+					m.second[1][0] *= tau
+					m.second[1][1] *= tau
+					m.second[1][2] *= tau
+				}
+				ss[1] *= tau
+				{
+					m.second[2][0] *= tau
+					m.second[2][1] *= tau
+					m.second[2][2] *= tau
+				}
+				ss[2] *= tau
 			}
 		}
 	}
@@ -972,11 +1046,27 @@ func fitCoolingLearnCurvature(s, y *[3]float64, diffs *fitCoolingDifferences) {
 	var w [3]float64
 	fitCoolingGradientChange(&w, &sharp, &ss)
 	ws := fitCoolingDot(&w, s) / sy / sy // not (sy·sy): its square may overflow or underflow in float32
-	for i := range m.second {
-		a, b := w[i]/sy, y[i]/sy
-		for j := 0; j <= i; j++ {
-			m.second[i][j] += a*y[j] + b*w[j] - ws*y[i]*y[j] // DGW's update
-			m.second[j][i] = m.second[i][j]                  // symmetric by construction, whatever the compiler fuses
+	{
+		{
+			a, b := w[0]/sy, y[0]/sy
+			for j := 0; j <= 0; j++ {
+				m.second[0][j] += a*y[j] + b*w[j] - ws*y[0]*y[j] // DGW's update
+				m.second[j][0] = m.second[0][j]                  // symmetric by construction, whatever the compiler fuses
+			}
+		}
+		{
+			a, b := w[1]/sy, y[1]/sy
+			for j := 0; j <= 1; j++ {
+				m.second[1][j] += a*y[j] + b*w[j] - ws*y[1]*y[j]
+				m.second[j][1] = m.second[1][j]
+			}
+		}
+		{
+			a, b := w[2]/sy, y[2]/sy
+			for j := 0; j <= 2; j++ {
+				m.second[2][j] += a*y[j] + b*w[j] - ws*y[2]*y[j]
+				m.second[j][2] = m.second[2][j]
+			}
 		}
 	}
 }
@@ -984,8 +1074,10 @@ func fitCoolingLearnCurvature(s, y *[3]float64, diffs *fitCoolingDifferences) {
 // fitCoolingDot returns aᵀb.
 func fitCoolingDot(a, b *[3]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -1004,8 +1096,10 @@ func fitCoolingCurvatureSafeFrom(sy, ss, yy float64) bool {
 
 // fitCoolingGradientChange sets out = a − b.
 func fitCoolingGradientChange(out, a, b *[3]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 
@@ -1042,13 +1136,23 @@ func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs 
 	}
 	var weight [3]float64
 	var largest float64
-	for i := range weight {
-		largest = fitCoolingLarger(largest, m.scale[i])
+	{
+		largest = fitCoolingLarger(largest, m.scale[0])
+		largest = fitCoolingLarger(largest, m.scale[1])
+		largest = fitCoolingLarger(largest, m.scale[2])
 	}
-	for i := range weight {
-		weight[i] = fitCoolingLarger(m.scale[i], fitCoolingUnitRoundoff*largest) // Moré 1978: D from the columns' norms
-		if !(weight[i] > 0) {
-			weight[i] = 1
+	{
+		weight[0] = fitCoolingLarger(m.scale[0], fitCoolingUnitRoundoff*largest) // Moré 1978: D from the columns' norms
+		if !(weight[0] > 0) {
+			weight[0] = 1
+		}
+		weight[1] = fitCoolingLarger(m.scale[1], fitCoolingUnitRoundoff*largest)
+		if !(weight[1] > 0) {
+			weight[1] = 1
+		}
+		weight[2] = fitCoolingLarger(m.scale[2], fitCoolingUnitRoundoff*largest)
+		if !(weight[2] > 0) {
+			weight[2] = 1
 		}
 	}
 	if !m.augmented {
@@ -1056,9 +1160,21 @@ func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs 
 		return
 	}
 	model := m.normal
-	for i := range model {
-		for j := range model[i] {
-			model[i][j] += m.second[i][j]
+	{
+		{
+			model[0][0] += m.second[0][0]
+			model[0][1] += m.second[0][1]
+			model[0][2] += m.second[0][2]
+		}
+		{
+			model[1][0] += m.second[1][0]
+			model[1][1] += m.second[1][1]
+			model[1][2] += m.second[1][2]
+		}
+		{
+			model[2][0] += m.second[2][0]
+			model[2][1] += m.second[2][1]
+			model[2][2] += m.second[2][2]
 		}
 	}
 	fitCoolingShiftedSolve(&model, &weight, m.damping, g, d)
@@ -1071,8 +1187,10 @@ func fitCoolingSolveDirection(dir *fitCoolingDirection, g, d *[3]float64, diffs 
 func fitCoolingShiftedSolve(a *[3][3]float64, w *[3]float64, lambda float64, g, d *[3]float64) {
 	var l [3][3]float64
 	var largest float64
-	for i := range a {
-		largest = fitCoolingLarger(largest, fitCoolingAbs(a[i][i]))
+	{
+		largest = fitCoolingLarger(largest, fitCoolingAbs(a[0][0]))
+		largest = fitCoolingLarger(largest, fitCoolingAbs(a[1][1]))
+		largest = fitCoolingLarger(largest, fitCoolingAbs(a[2][2]))
 	}
 	tau := float64(0)
 	for attempt := 0; attempt < 64; attempt++ {
@@ -1122,12 +1240,28 @@ func fitCoolingSquareRoot(v float64) float64 {
 // fitCoolingCholeskySolve sets d to the solution of L·Lᵀ·d = −g by forward and
 // back substitution.
 func fitCoolingCholeskySolve(l *[3][3]float64, g, d *[3]float64) {
-	for i := range d {
-		sum := -g[i]
-		for k := 0; k < i; k++ {
-			sum -= l[i][k] * d[k]
+	{
+		{
+			sum := -g[0]
+			for k := 0; k < 0; k++ {
+				sum -= l[0][k] * d[k]
+			}
+			d[0] = sum / l[0][0]
 		}
-		d[i] = sum / l[i][i]
+		{
+			sum := -g[1]
+			for k := 0; k < 1; k++ {
+				sum -= l[1][k] * d[k]
+			}
+			d[1] = sum / l[1][1]
+		}
+		{
+			sum := -g[2]
+			for k := 0; k < 2; k++ {
+				sum -= l[2][k] * d[k]
+			}
+			d[2] = sum / l[2][2]
+		}
 	}
 	for i := len(d) - 1; i >= 0; i-- {
 		sum := d[i]
@@ -1140,8 +1274,10 @@ func fitCoolingCholeskySolve(l *[3][3]float64, g, d *[3]float64) {
 
 // fitCoolingNegate sets out = −x.
 func fitCoolingNegate(out, x *[3]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
+		out[2] = -x[2]
 	}
 }
 
@@ -1169,9 +1305,19 @@ func (f *fitCoolingStepFloor) at(x, d *[3]float64, diffs *fitCoolingDifferences)
 // step test, min over i of tol·fitCoolingStepScale(x_i)/|d_i|, or −1 when d is zero.
 func fitCoolingTinyStep(x, d *[3]float64, tol float64, diffs *fitCoolingDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * fitCoolingStepScale(x[i], i, diffs) / fitCoolingAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * fitCoolingStepScale(x[0], 0, diffs) / fitCoolingAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * fitCoolingStepScale(x[1], 1, diffs) / fitCoolingAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * fitCoolingStepScale(x[2], 2, diffs) / fitCoolingAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1257,8 +1403,14 @@ type fitCoolingSearchEnd uint8
 // fitCoolingWithin reports whether every |dᵢ| is at most tiny·|firstᵢ|, so that the
 // step d passes the step test wherever tiny·first does.
 func fitCoolingWithin(d, first *[3]float64, tiny float64) bool {
-	for i := range d {
-		if !(fitCoolingAbs(d[i]) <= tiny*fitCoolingAbs(first[i])) {
+	{
+		if !(fitCoolingAbs(d[0]) <= tiny*fitCoolingAbs(first[0])) {
+			return false
+		}
+		if !(fitCoolingAbs(d[1]) <= tiny*fitCoolingAbs(first[1])) {
+			return false
+		}
+		if !(fitCoolingAbs(d[2]) <= tiny*fitCoolingAbs(first[2])) {
 			return false
 		}
 	}
@@ -1280,8 +1432,10 @@ func fitCoolingTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *fitCo
 
 // fitCoolingMoveTo sets out = x + t·d.
 func fitCoolingMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1292,9 +1446,13 @@ func fitCoolingMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 func fitCoolingModelTerms(x, xt, g *[3]float64, m *fitCoolingResidualModel) (linear, normalTerm, secondTerm float64) {
 	var s [3]float64
 	fitCoolingGradientChange(&s, xt, x)
-	for i := range s {
-		normalTerm += s[i] * fitCoolingDot(&m.normal[i], &s)
-		secondTerm += s[i] * fitCoolingDot(&m.second[i], &s)
+	{
+		normalTerm += s[0] * fitCoolingDot(&m.normal[0], &s)
+		secondTerm += s[0] * fitCoolingDot(&m.second[0], &s)
+		normalTerm += s[1] * fitCoolingDot(&m.normal[1], &s)
+		secondTerm += s[1] * fitCoolingDot(&m.second[1], &s)
+		normalTerm += s[2] * fitCoolingDot(&m.normal[2], &s)
+		secondTerm += s[2] * fitCoolingDot(&m.second[2], &s)
 	}
 	return -fitCoolingDot(g, &s), normalTerm, secondTerm
 }
@@ -1344,12 +1502,30 @@ func fitCoolingUncertainty(x [3]float64, bounds fitCoolingBox) (cov [3][3]float6
 	// row and column of JᵀJ give way to the identity, and its variance
 	// and covariances are 0.
 	normal := diffs.model.normal
-	for i := range normal {
-		if fitCoolingPinned(i, &bounds) {
-			for j := range normal {
-				normal[i][j], normal[j][i] = 0, 0
+	{
+		if fitCoolingPinned(0, &bounds) {
+			{
+				normal[0][0], normal[0][0] = 0, 0
+				normal[0][1], normal[1][0] = 0, 0
+				normal[0][2], normal[2][0] = 0, 0
 			}
-			normal[i][i] = 1
+			normal[0][0] = 1
+		}
+		if fitCoolingPinned(1, &bounds) {
+			{
+				normal[1][0], normal[0][1] = 0, 0
+				normal[1][1], normal[1][1] = 0, 0
+				normal[1][2], normal[2][1] = 0, 0
+			}
+			normal[1][1] = 1
+		}
+		if fitCoolingPinned(2, &bounds) {
+			{
+				normal[2][0], normal[0][2] = 0, 0
+				normal[2][1], normal[1][2] = 0, 0
+				normal[2][2], normal[2][2] = 0, 0
+			}
+			normal[2][2] = 1
 		}
 	}
 	var l [3][3]float64
@@ -1361,14 +1537,22 @@ func fitCoolingUncertainty(x [3]float64, bounds fitCoolingBox) (cov [3][3]float6
 		var unit, column [3]float64
 		unit[j] = -1 // fitCoolingCholeskySolve solves for −g
 		fitCoolingCholeskySolve(&l, &unit, &column)
-		for i := range column {
-			if !fitCoolingPinned(i, &bounds) && !fitCoolingPinned(j, &bounds) {
-				cov[i][j] = variance * column[i]
+		{
+			if !fitCoolingPinned(0, &bounds) && !fitCoolingPinned(j, &bounds) {
+				cov[0][j] = variance * column[0]
+			}
+			if !fitCoolingPinned(1, &bounds) && !fitCoolingPinned(j, &bounds) {
+				cov[1][j] = variance * column[1]
+			}
+			if !fitCoolingPinned(2, &bounds) && !fitCoolingPinned(j, &bounds) {
+				cov[2][j] = variance * column[2]
 			}
 		}
 	}
-	for i := range stdErr {
-		stdErr[i] = fitCoolingSquareRoot(cov[i][i])
+	{
+		stdErr[0] = fitCoolingSquareRoot(cov[0][0])
+		stdErr[1] = fitCoolingSquareRoot(cov[1][1])
+		stdErr[2] = fitCoolingSquareRoot(cov[2][2])
 	}
 	return cov, stdErr, variance, calls, fitCoolingFiniteVec(&stdErr)
 }

@@ -595,18 +595,34 @@ type minBowlInBoxDirection struct {
 }
 
 func (s *minBowlInBoxDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
+			s.h[0][2] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+			s.h[1][2] = 0
+		}
+		s.h[1][1] = 1
+		{
+			s.h[2][0] = 0
+			s.h[2][1] = 0
+			s.h[2][2] = 0
+		}
+		s.h[2][2] = 1
 	}
 	s.scaled = false
 }
 
 func (s *minBowlInBoxDirection) compute(g, d *[3]float32) {
-	for i := range s.h {
-		d[i] = -minBowlInBoxDot(&s.h[i], g)
+	{
+		d[0] = -minBowlInBoxDot(&s.h[0], g)
+		d[1] = -minBowlInBoxDot(&s.h[1], g)
+		d[2] = -minBowlInBoxDot(&s.h[2], g)
 	}
 }
 
@@ -617,8 +633,10 @@ func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
 	}
 	if !s.scaled {
 		gamma := sy / minBowlInBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
+			s.h[2][2] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,17 +644,41 @@ func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [3]float32
-	for i := range s.h {
-		hy[i] = minBowlInBoxDot(&s.h[i], change)
+	{
+		hy[0] = minBowlInBoxDot(&s.h[0], change)
+		hy[1] = minBowlInBoxDot(&s.h[1], change)
+		hy[2] = minBowlInBoxDot(&s.h[2], change)
 	}
 	outer := (rho*rho*minBowlInBoxDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1]
+				s.h[0][2] += a*step[2] - b*hy[2] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+				s.h[1][2] += a*step[2] - b*hy[2]
+			}
+		}
+		{
+
+			a, b := outer*step[2]-rho*hy[2], rho*step[2]
+			{
+				s.h[2][0] += a*step[0] - b*hy[0]
+				s.h[2][1] += a*step[1] - b*hy[1]
+				s.h[2][2] += a*step[2] - b*hy[2]
+			}
 		}
 	}
 }
@@ -653,8 +695,10 @@ func (s *minBowlInBoxDirection) firstTrial(t, slope, now float32) float32 {
 // minBowlInBoxDot returns aᵀb.
 func minBowlInBoxDot(a, b *[3]float32) float32 {
 	var s float32
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -683,8 +727,10 @@ const (
 // minBowlInBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func minBowlInBoxEnterBox(x *[3]float32, b *minBowlInBoxBox) {
-	for i := range x {
-		x[i] = minBowlInBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = minBowlInBoxClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = minBowlInBoxClampBetween(x[1], b.lower[1], b.upper[1])
+		x[2] = minBowlInBoxClampBetween(x[2], b.lower[2], b.upper[2])
 	}
 }
 
@@ -729,8 +775,14 @@ func minBowlInBoxFinite(v float32) bool {
 
 // minBowlInBoxFiniteVec reports whether every component of x is finite.
 func minBowlInBoxFiniteVec(x *[3]float32) bool {
-	for i := range x {
-		if !minBowlInBoxFinite(x[i]) {
+	{
+		if !minBowlInBoxFinite(x[0]) {
+			return false
+		}
+		if !minBowlInBoxFinite(x[1]) {
+			return false
+		}
+		if !minBowlInBoxFinite(x[2]) {
 			return false
 		}
 	}
@@ -802,16 +854,40 @@ func minBowlInBoxCalibrate(x *[3]float32, fx float32, diffs *minBowlInBoxDiffere
 		}
 	}
 	noise := minBowlInBoxNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := minBowlInBoxLarger(1, minBowlInBoxAbs(probe[i]))
-		bar := quarter * s
-		third := minBowlInBoxLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = minBowlInBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := minBowlInBoxLarger(1, minBowlInBoxAbs(probe[0]))
+			bar := quarter * s
+			third := minBowlInBoxLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = minBowlInBoxCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = minBowlInBoxClampBetween(h, 64*minBowlInBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = minBowlInBoxClampBetween(h, 64*minBowlInBoxUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := minBowlInBoxLarger(1, minBowlInBoxAbs(probe[1]))
+			bar := quarter * s
+			third := minBowlInBoxLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = minBowlInBoxCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = minBowlInBoxClampBetween(h, 64*minBowlInBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
+		{
+			s := minBowlInBoxLarger(1, minBowlInBoxAbs(probe[2]))
+			bar := quarter * s
+			third := minBowlInBoxLarger(diffs.curvature[2], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = minBowlInBoxCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[2] = minBowlInBoxClampBetween(h, 64*minBowlInBoxUnitRoundoff*s, bar) / s
+			diffs.curvature[2] = third
+		}
 	}
 	return calls, true
 }
@@ -890,8 +966,10 @@ func minBowlInBoxMagnitude(v float32) float32 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func minBowlInBoxNoiseLevel(x *[3]float32, fx float32, g *[3]float32) float32 {
 	sum := minBowlInBoxAbs(fx)
-	for i := range x {
-		sum += minBowlInBoxAbs(g[i] * x[i])
+	{
+		sum += minBowlInBoxAbs(g[0] * x[0])
+		sum += minBowlInBoxAbs(g[1] * x[1])
+		sum += minBowlInBoxAbs(g[2] * x[2])
 	}
 	return 4 * minBowlInBoxUnitRoundoff * sum
 }
@@ -1018,15 +1096,19 @@ func minBowlInBoxConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, di
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float32
 	calls += minBowlInBoxDerivative(x, fx, g, diffs)
 	calls += minBowlInBoxDerivative(x, fx, &doubled, &wide)
 	minBowlInBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minBowlInBoxAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minBowlInBoxAbs(g[0]-doubled[0])
+		e[1] += 3 * minBowlInBoxAbs(g[1]-doubled[1])
+		e[2] += 3 * minBowlInBoxAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1037,16 +1119,42 @@ func minBowlInBoxConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, di
 // in forwardError).
 func minBowlInBoxGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlInBoxDifferences) {
 	noise := minBowlInBoxNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := minBowlInBoxCentralInterval(x, i, diffs)
-		h = minBowlInBoxAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := minBowlInBoxCentralInterval(x, 0, diffs)
+			h = minBowlInBoxAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := minBowlInBoxCentralInterval(x, 1, diffs)
+			h = minBowlInBoxAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := minBowlInBoxCentralInterval(x, 2, diffs)
+			h = minBowlInBoxAbs(h)
+			switch {
+			case h == 0:
+				e[2] = 0
+			case oneSided:
+				e[2] = 2 * (h*h*diffs.curvature[2]/3 + 4*noise/h)
+			default:
+				e[2] = 2 * (h*h*diffs.curvature[2]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1060,8 +1168,10 @@ func minBowlInBoxGradientError(x *[3]float32, fx float32, g, e *[3]float32, diff
 func minBowlInBoxRoundingFloor(x, g, e *[3]float32, diffs *minBowlInBoxDifferences) {
 	var h [3]float32
 	minBowlInBoxDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minBowlInBoxUnitRoundoff * minBowlInBoxAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minBowlInBoxUnitRoundoff * minBowlInBoxAbs(x[0]) * h[0]
+		e[1] += 4 * minBowlInBoxUnitRoundoff * minBowlInBoxAbs(x[1]) * h[1]
+		e[2] += 4 * minBowlInBoxUnitRoundoff * minBowlInBoxAbs(x[2]) * h[2]
 	}
 }
 
@@ -1079,9 +1189,15 @@ func minBowlInBoxDiagonalCurvature(x, g *[3]float32, diffs *minBowlInBoxDifferen
 // eᵢ − |gᵢ|, which is what is counted.
 func minBowlInBoxStationarity(g, e, x *[3]float32, fx float32, b *minBowlInBoxBox) (measure, floor float32) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if minBowlInBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, minBowlInBoxLarger(0, e[i]-minBowlInBoxAbs(g[i]))
+	{
+		if minBowlInBoxPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, minBowlInBoxLarger(0, e[0]-minBowlInBoxAbs(g[0]))
+		}
+		if minBowlInBoxPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, minBowlInBoxLarger(0, e[1]-minBowlInBoxAbs(g[1]))
+		}
+		if minBowlInBoxPushedAgainst(x[2], g[2], b.lower[2], b.upper[2]) {
+			pg[2], pe[2] = 0, minBowlInBoxLarger(0, e[2]-minBowlInBoxAbs(g[2]))
 		}
 	}
 	return minBowlInBoxGradientMeasure(&pg, &pe, x, fx)
@@ -1107,10 +1223,22 @@ func minBowlInBoxPushedAgainst(xi, gi, lower, upper float32) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minBowlInBoxGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
 	scale := minBowlInBoxLarger(minBowlInBoxAbs(fx), 1)
-	for i := range g {
-		w := minBowlInBoxLarger(minBowlInBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[i])+e[i])*w)
-		floor = minBowlInBoxLarger(floor, e[i]*w)
+	{
+		{
+			w := minBowlInBoxLarger(minBowlInBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[0])+e[0])*w)
+			floor = minBowlInBoxLarger(floor, e[0]*w)
+		}
+		{
+			w := minBowlInBoxLarger(minBowlInBoxAbs(x[1]), 1) / scale
+			measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[1])+e[1])*w)
+			floor = minBowlInBoxLarger(floor, e[1]*w)
+		}
+		{
+			w := minBowlInBoxLarger(minBowlInBoxAbs(x[2]), 1) / scale
+			measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[2])+e[2])*w)
+			floor = minBowlInBoxLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1120,8 +1248,14 @@ func minBowlInBoxGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minBowlInBoxStepWithin(s, x *[3]float32, tol float32, diffs *minBowlInBoxDifferences) bool {
-	for i := range s {
-		if !(minBowlInBoxAbs(s[i]) <= tol*minBowlInBoxStepScale(x[i], i, diffs)) {
+	{
+		if !(minBowlInBoxAbs(s[0]) <= tol*minBowlInBoxStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minBowlInBoxAbs(s[1]) <= tol*minBowlInBoxStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(minBowlInBoxAbs(s[2]) <= tol*minBowlInBoxStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1144,9 +1278,15 @@ func minBowlInBoxStepScale(xi float32, i int, diffs *minBowlInBoxDifferences) fl
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func minBowlInBoxCurvaturePair(s, y, x *[3]float32, b *minBowlInBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
+		}
+		if s[2] == 0 && (x[2] <= b.lower[2] || x[2] >= b.upper[2]) {
+			y[2] = 0
 		}
 	}
 }
@@ -1182,28 +1322,64 @@ func minBowlInBoxLearnCurvature(s, y *[3]float32, diffs *minBowlInBoxDifferences
 func minBowlInBoxSearchDirection(dir *minBowlInBoxDirection, x, g, d *[3]float32, diffs *minBowlInBoxDifferences) {
 	b := &diffs.bounds
 	var reach float32 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = minBowlInBoxLarger(reach, minBowlInBoxAbs(x[i]-minBowlInBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = minBowlInBoxLarger(reach, minBowlInBoxAbs(x[0]-minBowlInBoxClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = minBowlInBoxLarger(reach, minBowlInBoxAbs(x[1]-minBowlInBoxClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
+		reach = minBowlInBoxLarger(reach, minBowlInBoxAbs(x[2]-minBowlInBoxClampBetween(x[2]-g[2], b.lower[2], b.upper[2])))
 	}
 	var free [3]float32
 	var active [3]bool
-	for i := range x {
-		margin := minBowlInBoxActiveMargin * minBowlInBoxLarger(1, minBowlInBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := minBowlInBoxActiveMargin * minBowlInBoxLarger(1, minBowlInBoxAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = minBowlInBoxPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = minBowlInBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := minBowlInBoxActiveMargin * minBowlInBoxLarger(1, minBowlInBoxAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = minBowlInBoxPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
+		}
+		{
+			margin := minBowlInBoxActiveMargin * minBowlInBoxLarger(1, minBowlInBoxAbs(x[2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[2] = minBowlInBoxPushedAgainst(x[2], g[2], b.lower[2]+margin, b.upper[2]-margin)
+			if !active[2] {
+				free[2] = g[2]
+			}
 		}
 	}
 	minBowlInBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if minBowlInBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if minBowlInBoxPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if minBowlInBoxPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
+		}
+		if active[2] {
+			d[2] = -g[2]
+		}
+		if minBowlInBoxPushedAgainst(x[2], -d[2], b.lower[2], b.upper[2]) {
+			d[2] = 0
 		}
 	}
 }
@@ -1237,9 +1413,19 @@ func (f *minBowlInBoxStepFloor) at(x, d *[3]float32, diffs *minBowlInBoxDifferen
 // step test, min over i of tol·minBowlInBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minBowlInBoxTinyStep(x, d *[3]float32, tol float32, diffs *minBowlInBoxDifferences) float32 {
 	tiny := float32(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minBowlInBoxStepScale(x[i], i, diffs) / minBowlInBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minBowlInBoxStepScale(x[0], 0, diffs) / minBowlInBoxAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minBowlInBoxStepScale(x[1], 1, diffs) / minBowlInBoxAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * minBowlInBoxStepScale(x[2], 2, diffs) / minBowlInBoxAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1321,8 +1507,14 @@ func minBowlInBoxShrinkDirection(d, g *[3]float32) {
 // minBowlInBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func minBowlInBoxMaxAbs(x *[3]float32) float32 {
 	var m float32
-	for i := range x {
-		if a := minBowlInBoxAbs(x[i]); a > m || a != a {
+	{
+		if a := minBowlInBoxAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := minBowlInBoxAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := minBowlInBoxAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1331,8 +1523,10 @@ func minBowlInBoxMaxAbs(x *[3]float32) float32 {
 
 // minBowlInBoxScaleBy sets x = c·x.
 func minBowlInBoxScaleBy(x *[3]float32, c float32) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1390,8 +1584,14 @@ func (r *minBowlInBoxRiseTrend) contradicts() bool {
 // minBowlInBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minBowlInBoxFaithfulStep(x, xt, d *[3]float32, t float32) bool {
-	for i := range x {
-		if want := t * d[i]; !(minBowlInBoxAbs(xt[i]-x[i]-want) <= 0.01*minBowlInBoxAbs(want)) {
+	{
+		if want := t * d[0]; !(minBowlInBoxAbs(xt[0]-x[0]-want) <= 0.01*minBowlInBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(minBowlInBoxAbs(xt[1]-x[1]-want) <= 0.01*minBowlInBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(minBowlInBoxAbs(xt[2]-x[2]-want) <= 0.01*minBowlInBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1451,8 +1651,10 @@ func minBowlInBoxTrialPoint(out, x *[3]float32, t float32, d *[3]float32, b *min
 // stands in for armijoDecrease when the spec has bounds.
 func minBowlInBoxAcceptable(fx, ft, t, slope float32, x, xt, g *[3]float32) bool {
 	var change float32
-	for i := range x {
-		change += g[i] * (xt[i] - x[i])
+	{
+		change += g[0] * (xt[0] - x[0])
+		change += g[1] * (xt[1] - x[1])
+		change += g[2] * (xt[2] - x[2])
 	}
 	return change < 0 && ft <= fx+minBowlInBoxStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1464,8 +1666,10 @@ func minBowlInBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float32) f
 
 // minBowlInBoxGradientChange sets out = a − b.
 func minBowlInBoxGradientChange(out, a, b *[3]float32) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

@@ -619,8 +619,10 @@ type minBowlDirection struct {
 func (s *minBowlDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		s.curvature[0] = 1
+		s.curvature[1] = 1
+		s.curvature[2] = 1
 	}
 }
 
@@ -628,16 +630,20 @@ func (s *minBowlDirection) compute(g, d *[3]float32) {
 	var beta float32
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			z[0] /= s.curvature[0]
+			z[1] /= s.curvature[1]
+			z[2] /= s.curvature[2] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := minBowlDot(g, &z), minBowlDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && minBowlAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = minBowlLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		d[0] = -z[0] + beta*s.previous[0]
+		d[1] = -z[1] + beta*s.previous[1]
+		d[2] = -z[2] + beta*s.previous[2] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -656,28 +662,54 @@ func (s *minBowlDirection) compute(g, d *[3]float32) {
 func (s *minBowlDirection) update(step, change *[3]float32) {
 	s.change = *change
 	var sy, ss, yy, sbs float32 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		sy += step[0] * change[0]
+		ss += step[0] * step[0]
+		yy += change[0] * change[0]
+		sbs += s.curvature[0] * step[0] * step[0]
+		sy += step[1] * change[1]
+		ss += step[1] * step[1]
+		yy += change[1] * change[1]
+		sbs += s.curvature[1] * step[1] * step[1]
+		sy += step[2] * change[2]
+		ss += step[2] * step[2]
+		yy += change[2] * change[2]
+		sbs += s.curvature[2] * step[2] * step[2]
 	}
 	if !minBowlCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			s.curvature[0] = gamma
+			s.curvature[1] = gamma
+			s.curvature[2] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
 	}
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && minBowlFinite(next) {
-			s.curvature[i] = next
+	{
+		{
+			bs := s.curvature[0] * step[0]
+			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && minBowlFinite(next) {
+				s.curvature[0] = next
+			}
+		}
+		{
+			bs := s.curvature[1] * step[1]
+			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			if next > 0 && minBowlFinite(next) {
+				s.curvature[1] = next
+			}
+		}
+		{
+			bs := s.curvature[2] * step[2]
+			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			if next > 0 && minBowlFinite(next) {
+				s.curvature[2] = next
+			}
 		}
 	}
 }
@@ -702,8 +734,10 @@ func (s *minBowlDirection) firstTrial(t, slope, now float32) float32 {
 // minBowlDot returns aᵀb.
 func minBowlDot(a, b *[3]float32) float32 {
 	var s float32
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
+		s += a[2] * b[2]
 	}
 	return s
 }
@@ -782,8 +816,14 @@ func minBowlValue(x, g *[3]float32, diffs *minBowlDifferences) float32 {
 
 // minBowlFiniteVec reports whether every component of x is finite.
 func minBowlFiniteVec(x *[3]float32) bool {
-	for i := range x {
-		if !minBowlFinite(x[i]) {
+	{
+		if !minBowlFinite(x[0]) {
+			return false
+		}
+		if !minBowlFinite(x[1]) {
+			return false
+		}
+		if !minBowlFinite(x[2]) {
 			return false
 		}
 	}
@@ -965,8 +1005,10 @@ func minBowlMagnitude(v float32) float32 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func minBowlNoiseLevel(x *[3]float32, fx float32, g *[3]float32) float32 {
 	sum := minBowlAbs(fx)
-	for i := range x {
-		sum += minBowlAbs(g[i] * x[i])
+	{
+		sum += minBowlAbs(g[0] * x[0])
+		sum += minBowlAbs(g[1] * x[1])
+		sum += minBowlAbs(g[2] * x[2])
 	}
 	return 4 * minBowlUnitRoundoff * sum
 }
@@ -1048,15 +1090,19 @@ func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
+		wide.ratio[2] *= 2
 	}
 	var doubled [3]float32
 	calls += minBowlDerivative(x, fx, g, diffs)
 	calls += minBowlDerivative(x, fx, &doubled, &wide)
 	minBowlGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minBowlAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minBowlAbs(g[0]-doubled[0])
+		e[1] += 3 * minBowlAbs(g[1]-doubled[1])
+		e[2] += 3 * minBowlAbs(g[2]-doubled[2])
 	}
 	return calls, true
 }
@@ -1068,11 +1114,27 @@ func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *
 // common practice).
 func minBowlGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences) {
 	noise := minBowlNoiseLevel(x, fx, g)
-	for i := range e {
-		h := minBowlAbs(minBowlForwardInterval(x, i, diffs))
-		e[i] = 0 // fixed by equal bounds
-		if h > 0 {
-			e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
+	{
+		{
+			h := minBowlAbs(minBowlForwardInterval(x, 0, diffs))
+			e[0] = 0 // fixed by equal bounds
+			if h > 0 {
+				e[0] = 2 * (h*diffs.curvature[0]/2 + 2*noise/h)
+			}
+		}
+		{
+			h := minBowlAbs(minBowlForwardInterval(x, 1, diffs))
+			e[1] = 0
+			if h > 0 {
+				e[1] = 2 * (h*diffs.curvature[1]/2 + 2*noise/h)
+			}
+		}
+		{
+			h := minBowlAbs(minBowlForwardInterval(x, 2, diffs))
+			e[2] = 0
+			if h > 0 {
+				e[2] = 2 * (h*diffs.curvature[2]/2 + 2*noise/h)
+			}
 		}
 	}
 }
@@ -1086,8 +1148,10 @@ func minBowlGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *mi
 func minBowlRoundingFloor(x, g, e *[3]float32, diffs *minBowlDifferences) {
 	var h [3]float32
 	minBowlDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minBowlUnitRoundoff * minBowlAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minBowlUnitRoundoff * minBowlAbs(x[0]) * h[0]
+		e[1] += 4 * minBowlUnitRoundoff * minBowlAbs(x[1]) * h[1]
+		e[2] += 4 * minBowlUnitRoundoff * minBowlAbs(x[2]) * h[2]
 	}
 }
 
@@ -1115,10 +1179,22 @@ func minBowlStationarity(g, e, x *[3]float32, fx float32, b *minBowlBox) (measur
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
 	scale := minBowlLarger(minBowlAbs(fx), 1)
-	for i := range g {
-		w := minBowlLarger(minBowlAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minBowlLarger(measure, (minBowlAbs(g[i])+e[i])*w)
-		floor = minBowlLarger(floor, e[i]*w)
+	{
+		{
+			w := minBowlLarger(minBowlAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minBowlLarger(measure, (minBowlAbs(g[0])+e[0])*w)
+			floor = minBowlLarger(floor, e[0]*w)
+		}
+		{
+			w := minBowlLarger(minBowlAbs(x[1]), 1) / scale
+			measure = minBowlLarger(measure, (minBowlAbs(g[1])+e[1])*w)
+			floor = minBowlLarger(floor, e[1]*w)
+		}
+		{
+			w := minBowlLarger(minBowlAbs(x[2]), 1) / scale
+			measure = minBowlLarger(measure, (minBowlAbs(g[2])+e[2])*w)
+			floor = minBowlLarger(floor, e[2]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1128,8 +1204,14 @@ func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minBowlStepWithin(s, x *[3]float32, tol float32, diffs *minBowlDifferences) bool {
-	for i := range s {
-		if !(minBowlAbs(s[i]) <= tol*minBowlStepScale(x[i], i, diffs)) {
+	{
+		if !(minBowlAbs(s[0]) <= tol*minBowlStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minBowlAbs(s[1]) <= tol*minBowlStepScale(x[1], 1, diffs)) {
+			return false
+		}
+		if !(minBowlAbs(s[2]) <= tol*minBowlStepScale(x[2], 2, diffs)) {
 			return false
 		}
 	}
@@ -1181,9 +1263,19 @@ func (f *minBowlStepFloor) at(x, d *[3]float32, diffs *minBowlDifferences) float
 // step test, min over i of tol·minBowlStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minBowlTinyStep(x, d *[3]float32, tol float32, diffs *minBowlDifferences) float32 {
 	tiny := float32(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minBowlStepScale(x[i], i, diffs) / minBowlAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minBowlStepScale(x[0], 0, diffs) / minBowlAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minBowlStepScale(x[1], 1, diffs) / minBowlAbs(d[1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[2] != 0 {
+			if t := tol * minBowlStepScale(x[2], 2, diffs) / minBowlAbs(d[2]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1331,8 +1423,14 @@ func minBowlShrinkDirection(d, g *[3]float32) {
 // minBowlMaxAbs returns the largest |x_i|, the infinity norm.
 func minBowlMaxAbs(x *[3]float32) float32 {
 	var m float32
-	for i := range x {
-		if a := minBowlAbs(x[i]); a > m || a != a {
+	{
+		if a := minBowlAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := minBowlAbs(x[1]); a > m || a != a {
+			m = a
+		}
+		if a := minBowlAbs(x[2]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1341,8 +1439,10 @@ func minBowlMaxAbs(x *[3]float32) float32 {
 
 // minBowlScaleBy sets x = c·x.
 func minBowlScaleBy(x *[3]float32, c float32) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
+		x[2] *= c
 	}
 }
 
@@ -1407,8 +1507,14 @@ func (r *minBowlRiseTrend) contradicts() bool {
 // minBowlFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minBowlFaithfulStep(x, xt, d *[3]float32, t float32) bool {
-	for i := range x {
-		if want := t * d[i]; !(minBowlAbs(xt[i]-x[i]-want) <= 0.01*minBowlAbs(want)) {
+	{
+		if want := t * d[0]; !(minBowlAbs(xt[0]-x[0]-want) <= 0.01*minBowlAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(minBowlAbs(xt[1]-x[1]-want) <= 0.01*minBowlAbs(want)) {
+			return false
+		}
+		if want := t * d[2]; !(minBowlAbs(xt[2]-x[2]-want) <= 0.01*minBowlAbs(want)) {
 			return false
 		}
 	}
@@ -1457,8 +1563,10 @@ func minBowlTrialPoint(out, x *[3]float32, t float32, d *[3]float32, b *minBowlB
 
 // minBowlMoveTo sets out = x + t·d.
 func minBowlMoveTo(out, x *[3]float32, t float32, d *[3]float32) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
+		out[2] = x[2] + t*d[2]
 	}
 }
 
@@ -1524,8 +1632,10 @@ func minBowlExpandTrial(previous, current *minBowlLinePoint) float32 {
 
 // minBowlGradientChange sets out = a − b.
 func minBowlGradientChange(out, a, b *[3]float32) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
+		out[2] = a[2] - b[2]
 	}
 }
 

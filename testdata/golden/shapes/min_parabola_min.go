@@ -585,18 +585,18 @@ type minParabolaDirection struct {
 }
 
 func (s *minParabolaDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
 	}
 	s.scaled = false
 }
 
 func (s *minParabolaDirection) compute(g, d *[1]float64) {
-	for i := range s.h {
-		d[i] = -minParabolaDot(&s.h[i], g)
+	{
+		d[0] = -minParabolaDot(&s.h[0], g)
 	}
 }
 
@@ -607,8 +607,8 @@ func (s *minParabolaDirection) update(step, change *[1]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / minParabolaDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +616,19 @@ func (s *minParabolaDirection) update(step, change *[1]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [1]float64
-	for i := range s.h {
-		hy[i] = minParabolaDot(&s.h[i], change)
+	{
+		hy[0] = minParabolaDot(&s.h[0], change)
 	}
 	outer := (rho*rho*minParabolaDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0] // N&W eq. 6.17
+			}
 		}
 	}
 }
@@ -643,8 +645,8 @@ func (s *minParabolaDirection) firstTrial(t, slope, now float64) float64 {
 // minParabolaDot returns aᵀb.
 func minParabolaDot(a, b *[1]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
 	}
 	return s
 }
@@ -699,8 +701,8 @@ func minParabolaFinite(v float64) bool {
 
 // minParabolaFiniteVec reports whether every component of x is finite.
 func minParabolaFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !minParabolaFinite(x[i]) {
+	{
+		if !minParabolaFinite(x[0]) {
 			return false
 		}
 	}
@@ -772,16 +774,18 @@ func minParabolaCalibrate(x *[1]float64, fx float64, diffs *minParabolaDifferenc
 		}
 	}
 	noise := minParabolaNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := minParabolaLarger(1, minParabolaAbs(probe[i]))
-		bar := quarter * s
-		third := minParabolaLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = minParabolaCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := minParabolaLarger(1, minParabolaAbs(probe[0]))
+			bar := quarter * s
+			third := minParabolaLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = minParabolaCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = minParabolaClampBetween(h, 64*minParabolaUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = minParabolaClampBetween(h, 64*minParabolaUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
 	}
 	return calls, true
 }
@@ -875,8 +879,8 @@ func minParabolaMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func minParabolaNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
 	sum := minParabolaAbs(fx)
-	for i := range x {
-		sum += minParabolaAbs(g[i] * x[i])
+	{
+		sum += minParabolaAbs(g[0] * x[0])
 	}
 	return 4 * minParabolaUnitRoundoff * sum
 }
@@ -1003,15 +1007,15 @@ func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, dif
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
 	}
 	var doubled [1]float64
 	calls += minParabolaDerivative(x, fx, g, diffs)
 	calls += minParabolaDerivative(x, fx, &doubled, &wide)
 	minParabolaGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minParabolaAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minParabolaAbs(g[0]-doubled[0])
 	}
 	return calls, true
 }
@@ -1022,16 +1026,18 @@ func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, dif
 // in forwardError).
 func minParabolaGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences) {
 	noise := minParabolaNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := minParabolaCentralInterval(x, i, diffs)
-		h = minParabolaAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := minParabolaCentralInterval(x, 0, diffs)
+			h = minParabolaAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1045,8 +1051,8 @@ func minParabolaGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs
 func minParabolaRoundingFloor(x, g, e *[1]float64, diffs *minParabolaDifferences) {
 	var h [1]float64
 	minParabolaDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minParabolaUnitRoundoff * minParabolaAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minParabolaUnitRoundoff * minParabolaAbs(x[0]) * h[0]
 	}
 }
 
@@ -1074,10 +1080,12 @@ func minParabolaStationarity(g, e, x *[1]float64, fx float64, b *minParabolaBox)
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
 	scale := minParabolaLarger(minParabolaAbs(fx), 1)
-	for i := range g {
-		w := minParabolaLarger(minParabolaAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minParabolaLarger(measure, (minParabolaAbs(g[i])+e[i])*w)
-		floor = minParabolaLarger(floor, e[i]*w)
+	{
+		{
+			w := minParabolaLarger(minParabolaAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minParabolaLarger(measure, (minParabolaAbs(g[0])+e[0])*w)
+			floor = minParabolaLarger(floor, e[0]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1095,8 @@ func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minParabolaStepWithin(s, x *[1]float64, tol float64, diffs *minParabolaDifferences) bool {
-	for i := range s {
-		if !(minParabolaAbs(s[i]) <= tol*minParabolaStepScale(x[i], i, diffs)) {
+	{
+		if !(minParabolaAbs(s[0]) <= tol*minParabolaStepScale(x[0], 0, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1148,9 @@ func (f *minParabolaStepFloor) at(x, d *[1]float64, diffs *minParabolaDifference
 // step test, min over i of tol·minParabolaStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minParabolaTinyStep(x, d *[1]float64, tol float64, diffs *minParabolaDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minParabolaStepScale(x[i], i, diffs) / minParabolaAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minParabolaStepScale(x[0], 0, diffs) / minParabolaAbs(d[0]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1298,8 @@ func minParabolaShrinkDirection(d, g *[1]float64) {
 // minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
 func minParabolaMaxAbs(x *[1]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := minParabolaAbs(x[i]); a > m || a != a {
+	{
+		if a := minParabolaAbs(x[0]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1308,8 @@ func minParabolaMaxAbs(x *[1]float64) float64 {
 
 // minParabolaScaleBy sets x = c·x.
 func minParabolaScaleBy(x *[1]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
 	}
 }
 
@@ -1366,8 +1374,8 @@ func (r *minParabolaRiseTrend) contradicts() bool {
 // minParabolaFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minParabolaFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(minParabolaAbs(xt[i]-x[i]-want) <= 0.01*minParabolaAbs(want)) {
+	{
+		if want := t * d[0]; !(minParabolaAbs(xt[0]-x[0]-want) <= 0.01*minParabolaAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1424,8 @@ func minParabolaTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *minP
 
 // minParabolaMoveTo sets out = x + t·d.
 func minParabolaMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
 	}
 }
 
@@ -1483,8 +1491,8 @@ func minParabolaExpandTrial(previous, current *minParabolaLinePoint) float64 {
 
 // minParabolaGradientChange sets out = a − b.
 func minParabolaGradientChange(out, a, b *[1]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
 	}
 }
 

@@ -599,8 +599,9 @@ func (s *minPlateDecreaseDirection) firstTrial(t, slope, now float32) float32 {
 
 // minPlateDecreaseNegate sets out = −x.
 func minPlateDecreaseNegate(out, x *[2]float32) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -659,8 +660,11 @@ func minPlateDecreaseValue(x, g *[2]float32, diffs *minPlateDecreaseDifferences)
 
 // minPlateDecreaseFiniteVec reports whether every component of x is finite.
 func minPlateDecreaseFiniteVec(x *[2]float32) bool {
-	for i := range x {
-		if !minPlateDecreaseFinite(x[i]) {
+	{
+		if !minPlateDecreaseFinite(x[0]) {
+			return false
+		}
+		if !minPlateDecreaseFinite(x[1]) {
 			return false
 		}
 	}
@@ -732,16 +736,29 @@ func minPlateDecreaseCalibrate(x *[2]float32, fx float32, diffs *minPlateDecreas
 		}
 	}
 	noise := minPlateDecreaseNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := minPlateDecreaseLarger(1, minPlateDecreaseAbs(probe[i]))
-		bar := quarter * s
-		third := minPlateDecreaseLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = minPlateDecreaseCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+	{
+		{
+			s := minPlateDecreaseLarger(1, minPlateDecreaseAbs(probe[0]))
+			bar := quarter * s
+			third := minPlateDecreaseLarger(diffs.curvature[0], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = minPlateDecreaseCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+			}
+			diffs.ratio[0] = minPlateDecreaseClampBetween(h, 64*minPlateDecreaseUnitRoundoff*s, bar) / s
+			diffs.curvature[0] = third
 		}
-		diffs.ratio[i] = minPlateDecreaseClampBetween(h, 64*minPlateDecreaseUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
+		{
+			s := minPlateDecreaseLarger(1, minPlateDecreaseAbs(probe[1]))
+			bar := quarter * s
+			third := minPlateDecreaseLarger(diffs.curvature[1], 3*noise/(bar*bar*bar))
+			h := bar
+			if third > 0 {
+				h = minPlateDecreaseCubeRoot(3 * noise / third)
+			}
+			diffs.ratio[1] = minPlateDecreaseClampBetween(h, 64*minPlateDecreaseUnitRoundoff*s, bar) / s
+			diffs.curvature[1] = third
+		}
 	}
 	return calls, true
 }
@@ -835,8 +852,9 @@ func minPlateDecreaseMagnitude(v float32) float32 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func minPlateDecreaseNoiseLevel(x *[2]float32, fx float32, g *[2]float32) float32 {
 	sum := minPlateDecreaseAbs(fx)
-	for i := range x {
-		sum += minPlateDecreaseAbs(g[i] * x[i])
+	{
+		sum += minPlateDecreaseAbs(g[0] * x[0])
+		sum += minPlateDecreaseAbs(g[1] * x[1])
 	}
 	return 4 * minPlateDecreaseUnitRoundoff * sum
 }
@@ -963,15 +981,17 @@ func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float32
 	calls += minPlateDecreaseDerivative(x, fx, g, diffs)
 	calls += minPlateDecreaseDerivative(x, fx, &doubled, &wide)
 	minPlateDecreaseGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minPlateDecreaseAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minPlateDecreaseAbs(g[0]-doubled[0])
+		e[1] += 3 * minPlateDecreaseAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -982,16 +1002,30 @@ func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32
 // in forwardError).
 func minPlateDecreaseGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
 	noise := minPlateDecreaseNoiseLevel(x, fx, g)
-	for i := range e {
-		h, oneSided := minPlateDecreaseCentralInterval(x, i, diffs)
-		h = minPlateDecreaseAbs(h)
-		switch {
-		case h == 0:
-			e[i] = 0 // fixed by equal bounds
-		case oneSided:
-			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
-		default:
-			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	{
+		{
+			h, oneSided := minPlateDecreaseCentralInterval(x, 0, diffs)
+			h = minPlateDecreaseAbs(h)
+			switch {
+			case h == 0:
+				e[0] = 0 // fixed by equal bounds
+			case oneSided:
+				e[0] = 2 * (h*h*diffs.curvature[0]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+			default:
+				e[0] = 2 * (h*h*diffs.curvature[0]/6 + noise/h)
+			}
+		}
+		{
+			h, oneSided := minPlateDecreaseCentralInterval(x, 1, diffs)
+			h = minPlateDecreaseAbs(h)
+			switch {
+			case h == 0:
+				e[1] = 0
+			case oneSided:
+				e[1] = 2 * (h*h*diffs.curvature[1]/3 + 4*noise/h)
+			default:
+				e[1] = 2 * (h*h*diffs.curvature[1]/6 + noise/h)
+			}
 		}
 	}
 }
@@ -1005,8 +1039,9 @@ func minPlateDecreaseGradientError(x *[2]float32, fx float32, g, e *[2]float32, 
 func minPlateDecreaseRoundingFloor(x, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
 	var h [2]float32
 	minPlateDecreaseDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minPlateDecreaseUnitRoundoff * minPlateDecreaseAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minPlateDecreaseUnitRoundoff * minPlateDecreaseAbs(x[0]) * h[0]
+		e[1] += 4 * minPlateDecreaseUnitRoundoff * minPlateDecreaseAbs(x[1]) * h[1]
 	}
 }
 
@@ -1034,10 +1069,17 @@ func minPlateDecreaseStationarity(g, e, x *[2]float32, fx float32, b *minPlateDe
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
 	scale := minPlateDecreaseLarger(minPlateDecreaseAbs(fx), 1)
-	for i := range g {
-		w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[i])+e[i])*w)
-		floor = minPlateDecreaseLarger(floor, e[i]*w)
+	{
+		{
+			w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[0])+e[0])*w)
+			floor = minPlateDecreaseLarger(floor, e[0]*w)
+		}
+		{
+			w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[1]), 1) / scale
+			measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[1])+e[1])*w)
+			floor = minPlateDecreaseLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1047,8 +1089,11 @@ func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32, diffs *minPlateDecreaseDifferences) bool {
-	for i := range s {
-		if !(minPlateDecreaseAbs(s[i]) <= tol*minPlateDecreaseStepScale(x[i], i, diffs)) {
+	{
+		if !(minPlateDecreaseAbs(s[0]) <= tol*minPlateDecreaseStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minPlateDecreaseAbs(s[1]) <= tol*minPlateDecreaseStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1079,8 +1124,9 @@ func minPlateDecreaseSolveDirection(dir *minPlateDecreaseDirection, g, d *[2]flo
 // minPlateDecreaseDot returns aᵀb.
 func minPlateDecreaseDot(a, b *[2]float32) float32 {
 	var s float32
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -1109,9 +1155,14 @@ func (f *minPlateDecreaseStepFloor) at(x, d *[2]float32, diffs *minPlateDecrease
 // step test, min over i of tol·minPlateDecreaseStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDecreaseDifferences) float32 {
 	tiny := float32(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minPlateDecreaseStepScale(x[i], i, diffs) / minPlateDecreaseAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minPlateDecreaseStepScale(x[0], 0, diffs) / minPlateDecreaseAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minPlateDecreaseStepScale(x[1], 1, diffs) / minPlateDecreaseAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1193,8 +1244,11 @@ func minPlateDecreaseShrinkDirection(d, g *[2]float32) {
 // minPlateDecreaseMaxAbs returns the largest |x_i|, the infinity norm.
 func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
 	var m float32
-	for i := range x {
-		if a := minPlateDecreaseAbs(x[i]); a > m || a != a {
+	{
+		if a := minPlateDecreaseAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := minPlateDecreaseAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1203,8 +1257,9 @@ func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
 
 // minPlateDecreaseScaleBy sets x = c·x.
 func minPlateDecreaseScaleBy(x *[2]float32, c float32) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1262,8 +1317,11 @@ func (r *minPlateDecreaseRiseTrend) contradicts() bool {
 // minPlateDecreaseFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minPlateDecreaseFaithfulStep(x, xt, d *[2]float32, t float32) bool {
-	for i := range x {
-		if want := t * d[i]; !(minPlateDecreaseAbs(xt[i]-x[i]-want) <= 0.01*minPlateDecreaseAbs(want)) {
+	{
+		if want := t * d[0]; !(minPlateDecreaseAbs(xt[0]-x[0]-want) <= 0.01*minPlateDecreaseAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(minPlateDecreaseAbs(xt[1]-x[1]-want) <= 0.01*minPlateDecreaseAbs(want)) {
 			return false
 		}
 	}
@@ -1296,8 +1354,9 @@ func minPlateDecreaseTrialPoint(out, x *[2]float32, t float32, d *[2]float32, b 
 
 // minPlateDecreaseMoveTo sets out = x + t·d.
 func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1360,8 +1419,9 @@ func minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious float3
 
 // minPlateDecreaseDifference sets out = a − b.
 func minPlateDecreaseDifference(out, a, b *[2]float32) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

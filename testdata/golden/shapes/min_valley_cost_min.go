@@ -585,18 +585,25 @@ type minValleyCostDirection struct {
 }
 
 func (s *minValleyCostDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *minValleyCostDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -minValleyCostDot(&s.h[i], g)
+	{
+		d[0] = -minValleyCostDot(&s.h[0], g)
+		d[1] = -minValleyCostDot(&s.h[1], g)
 	}
 }
 
@@ -607,8 +614,9 @@ func (s *minValleyCostDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / minValleyCostDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,17 +624,29 @@ func (s *minValleyCostDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = minValleyCostDot(&s.h[i], change)
+	{
+		hy[0] = minValleyCostDot(&s.h[0], change)
+		hy[1] = minValleyCostDot(&s.h[1], change)
 	}
 	outer := (rho*rho*minValleyCostDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -643,8 +663,9 @@ func (s *minValleyCostDirection) firstTrial(t, slope, now float64) float64 {
 // minValleyCostDot returns aᵀb.
 func minValleyCostDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -699,8 +720,11 @@ func minValleyCostFinite(v float64) bool {
 
 // minValleyCostFiniteVec reports whether every component of x is finite.
 func minValleyCostFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !minValleyCostFinite(x[i]) {
+	{
+		if !minValleyCostFinite(x[0]) {
+			return false
+		}
+		if !minValleyCostFinite(x[1]) {
 			return false
 		}
 	}
@@ -826,8 +850,9 @@ func minValleyCostAbs(v float64) float64 {
 // minValleyCostGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func minValleyCostGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyCostDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -849,10 +874,17 @@ func minValleyCostStationarity(g, e, x *[2]float64, fx float64, b *minValleyCost
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minValleyCostGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := minValleyCostLarger(minValleyCostAbs(fx), 1)
-	for i := range g {
-		w := minValleyCostLarger(minValleyCostAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minValleyCostLarger(measure, (minValleyCostAbs(g[i])+e[i])*w)
-		floor = minValleyCostLarger(floor, e[i]*w)
+	{
+		{
+			w := minValleyCostLarger(minValleyCostAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minValleyCostLarger(measure, (minValleyCostAbs(g[0])+e[0])*w)
+			floor = minValleyCostLarger(floor, e[0]*w)
+		}
+		{
+			w := minValleyCostLarger(minValleyCostAbs(x[1]), 1) / scale
+			measure = minValleyCostLarger(measure, (minValleyCostAbs(g[1])+e[1])*w)
+			floor = minValleyCostLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -862,8 +894,11 @@ func minValleyCostGradientMeasure(g, e, x *[2]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minValleyCostStepWithin(s, x *[2]float64, tol float64, diffs *minValleyCostDifferences) bool {
-	for i := range s {
-		if !(minValleyCostAbs(s[i]) <= tol*minValleyCostStepScale(x[i], i, diffs)) {
+	{
+		if !(minValleyCostAbs(s[0]) <= tol*minValleyCostStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minValleyCostAbs(s[1]) <= tol*minValleyCostStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -915,9 +950,14 @@ func (f *minValleyCostStepFloor) at(x, d *[2]float64, diffs *minValleyCostDiffer
 // step test, min over i of tol·minValleyCostStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minValleyCostTinyStep(x, d *[2]float64, tol float64, diffs *minValleyCostDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minValleyCostStepScale(x[i], i, diffs) / minValleyCostAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minValleyCostStepScale(x[0], 0, diffs) / minValleyCostAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minValleyCostStepScale(x[1], 1, diffs) / minValleyCostAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -999,8 +1039,11 @@ func minValleyCostShrinkDirection(d, g *[2]float64) {
 // minValleyCostMaxAbs returns the largest |x_i|, the infinity norm.
 func minValleyCostMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := minValleyCostAbs(x[i]); a > m || a != a {
+	{
+		if a := minValleyCostAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := minValleyCostAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1009,8 +1052,9 @@ func minValleyCostMaxAbs(x *[2]float64) float64 {
 
 // minValleyCostScaleBy sets x = c·x.
 func minValleyCostScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1068,8 +1112,11 @@ func (r *minValleyCostRiseTrend) contradicts() bool {
 // minValleyCostFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minValleyCostFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(minValleyCostAbs(xt[i]-x[i]-want) <= 0.01*minValleyCostAbs(want)) {
+	{
+		if want := t * d[0]; !(minValleyCostAbs(xt[0]-x[0]-want) <= 0.01*minValleyCostAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(minValleyCostAbs(xt[1]-x[1]-want) <= 0.01*minValleyCostAbs(want)) {
 			return false
 		}
 	}
@@ -1102,8 +1149,9 @@ func minValleyCostTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *mi
 
 // minValleyCostMoveTo sets out = x + t·d.
 func minValleyCostMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1129,8 +1177,9 @@ func minValleyCostBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) 
 
 // minValleyCostGradientChange sets out = a − b.
 func minValleyCostGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

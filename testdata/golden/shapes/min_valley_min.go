@@ -600,8 +600,9 @@ func (s *minValleyDirection) compute(g, d *[2]float64) {
 	k := s.newest
 	for n := 0; n < s.count; n++ {
 		alpha[k] = s.rho[k] * minValleyDot(&s.s[k], &q)
-		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+		{
+			q[0] -= alpha[k] * s.y[k][0]
+			q[1] -= alpha[k] * s.y[k][1]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +612,9 @@ func (s *minValleyDirection) compute(g, d *[2]float64) {
 	if s.count > 0 {
 		newest := s.newest
 		gamma := minValleyDot(&s.s[newest], &s.y[newest]) / minValleyDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
-		for i := range q {
-			q[i] *= gamma
+		{
+			q[0] *= gamma
+			q[1] *= gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,8 +624,9 @@ func (s *minValleyDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * minValleyDot(&s.y[k], &q)
-		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+		{
+			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[1] += s.s[k][1] * (alpha[k] - beta)
 		}
 	}
 	minValleyNegate(d, &q)
@@ -658,16 +661,18 @@ func (s *minValleyDirection) firstTrial(t, slope, now float64) float64 {
 // minValleyDot returns aᵀb.
 func minValleyDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
 
 // minValleyNegate sets out = −x.
 func minValleyNegate(out, x *[2]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -732,8 +737,11 @@ func minValleyFinite(v float64) bool {
 
 // minValleyFiniteVec reports whether every component of x is finite.
 func minValleyFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !minValleyFinite(x[i]) {
+	{
+		if !minValleyFinite(x[0]) {
+			return false
+		}
+		if !minValleyFinite(x[1]) {
 			return false
 		}
 	}
@@ -787,15 +795,17 @@ func minValleyConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, e *[2]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += minValleyDerivative(recv, x, fx, g, diffs)
 	calls += minValleyDerivative(recv, x, fx, &doubled, &wide)
 	minValleyGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minValleyAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minValleyAbs(g[0]-doubled[0])
+		e[1] += 3 * minValleyAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -803,8 +813,9 @@ func minValleyConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, e *[2]
 // minValleyGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func minValleyGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -825,8 +836,9 @@ func minValleyAbs(v float64) float64 {
 func minValleyRoundingFloor(recv *Valley, x, g, e *[2]float64, diffs *minValleyDifferences) {
 	var h [2]float64
 	minValleyDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minValleyUnitRoundoff * minValleyAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minValleyUnitRoundoff * minValleyAbs(x[0]) * h[0]
+		e[1] += 4 * minValleyUnitRoundoff * minValleyAbs(x[1]) * h[1]
 	}
 }
 
@@ -928,10 +940,17 @@ func minValleyStationarity(g, e, x *[2]float64, fx float64, b *minValleyBox) (me
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := minValleyLarger(minValleyAbs(fx), 1)
-	for i := range g {
-		w := minValleyLarger(minValleyAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minValleyLarger(measure, (minValleyAbs(g[i])+e[i])*w)
-		floor = minValleyLarger(floor, e[i]*w)
+	{
+		{
+			w := minValleyLarger(minValleyAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minValleyLarger(measure, (minValleyAbs(g[0])+e[0])*w)
+			floor = minValleyLarger(floor, e[0]*w)
+		}
+		{
+			w := minValleyLarger(minValleyAbs(x[1]), 1) / scale
+			measure = minValleyLarger(measure, (minValleyAbs(g[1])+e[1])*w)
+			floor = minValleyLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +960,11 @@ func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minValleyStepWithin(s, x *[2]float64, tol float64, diffs *minValleyDifferences) bool {
-	for i := range s {
-		if !(minValleyAbs(s[i]) <= tol*minValleyStepScale(x[i], i, diffs)) {
+	{
+		if !(minValleyAbs(s[0]) <= tol*minValleyStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minValleyAbs(s[1]) <= tol*minValleyStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -994,9 +1016,14 @@ func (f *minValleyStepFloor) at(x, d *[2]float64, diffs *minValleyDifferences) f
 // step test, min over i of tol·minValleyStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minValleyTinyStep(x, d *[2]float64, tol float64, diffs *minValleyDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minValleyStepScale(x[i], i, diffs) / minValleyAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minValleyStepScale(x[0], 0, diffs) / minValleyAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minValleyStepScale(x[1], 1, diffs) / minValleyAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1144,8 +1171,11 @@ func minValleyShrinkDirection(d, g *[2]float64) {
 // minValleyMaxAbs returns the largest |x_i|, the infinity norm.
 func minValleyMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := minValleyAbs(x[i]); a > m || a != a {
+	{
+		if a := minValleyAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := minValleyAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1154,8 +1184,9 @@ func minValleyMaxAbs(x *[2]float64) float64 {
 
 // minValleyScaleBy sets x = c·x.
 func minValleyScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1220,8 +1251,11 @@ func (r *minValleyRiseTrend) contradicts() bool {
 // minValleyFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minValleyFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(minValleyAbs(xt[i]-x[i]-want) <= 0.01*minValleyAbs(want)) {
+	{
+		if want := t * d[0]; !(minValleyAbs(xt[0]-x[0]-want) <= 0.01*minValleyAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(minValleyAbs(xt[1]-x[1]-want) <= 0.01*minValleyAbs(want)) {
 			return false
 		}
 	}
@@ -1270,8 +1304,9 @@ func minValleyTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *minVal
 
 // minValleyMoveTo sets out = x + t·d.
 func minValleyMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
@@ -1337,8 +1372,9 @@ func minValleyExpandTrial(previous, current *minValleyLinePoint) float64 {
 
 // minValleyGradientChange sets out = a − b.
 func minValleyGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

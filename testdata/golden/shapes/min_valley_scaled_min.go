@@ -639,18 +639,25 @@ type minValleyScaledDirection struct {
 }
 
 func (s *minValleyScaledDirection) reset() {
-	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+	{
+		{
+			s.h[0][0] = 0
+			s.h[0][1] = 0
 		}
-		s.h[i][i] = 1
+		s.h[0][0] = 1
+		{
+			s.h[1][0] = 0
+			s.h[1][1] = 0
+		}
+		s.h[1][1] = 1
 	}
 	s.scaled = false
 }
 
 func (s *minValleyScaledDirection) compute(g, d *[2]float64) {
-	for i := range s.h {
-		d[i] = -minValleyScaledDot(&s.h[i], g)
+	{
+		d[0] = -minValleyScaledDot(&s.h[0], g)
+		d[1] = -minValleyScaledDot(&s.h[1], g)
 	}
 }
 
@@ -661,8 +668,9 @@ func (s *minValleyScaledDirection) update(step, change *[2]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / minValleyScaledDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			s.h[0][0] = gamma
+			s.h[1][1] = gamma
 		}
 		s.scaled = true
 	}
@@ -670,17 +678,29 @@ func (s *minValleyScaledDirection) update(step, change *[2]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [2]float64
-	for i := range s.h {
-		hy[i] = minValleyScaledDot(&s.h[i], change)
+	{
+		hy[0] = minValleyScaledDot(&s.h[0], change)
+		hy[1] = minValleyScaledDot(&s.h[1], change)
 	}
 	outer := (rho*rho*minValleyScaledDot(change, &hy) + rho)
-	for i := range s.h {
-		// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
-		// two multiply-adds per element instead of six multiplies and
-		// three adds
-		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+	{
+		{
+			// row i of the update is a·sᵀ − b·hyᵀ, its coefficients hoisted:
+			// two multiply-adds per element instead of six multiplies and
+			// three adds
+			a, b := outer*step[0]-rho*hy[0], rho*step[0]
+			{
+				s.h[0][0] += a*step[0] - b*hy[0]
+				s.h[0][1] += a*step[1] - b*hy[1] // N&W eq. 6.17
+			}
+		}
+		{
+
+			a, b := outer*step[1]-rho*hy[1], rho*step[1]
+			{
+				s.h[1][0] += a*step[0] - b*hy[0]
+				s.h[1][1] += a*step[1] - b*hy[1]
+			}
 		}
 	}
 }
@@ -697,8 +717,9 @@ func (s *minValleyScaledDirection) firstTrial(t, slope, now float64) float64 {
 // minValleyScaledDot returns aᵀb.
 func minValleyScaledDot(a, b *[2]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -727,8 +748,9 @@ const (
 // minValleyScaledEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func minValleyScaledEnterBox(x *[2]float64, b *minValleyScaledBox) {
-	for i := range x {
-		x[i] = minValleyScaledClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		x[0] = minValleyScaledClampBetween(x[0], b.lower[0], b.upper[0])
+		x[1] = minValleyScaledClampBetween(x[1], b.lower[1], b.upper[1])
 	}
 }
 
@@ -773,8 +795,11 @@ func minValleyScaledFinite(v float64) bool {
 
 // minValleyScaledFiniteVec reports whether every component of x is finite.
 func minValleyScaledFiniteVec(x *[2]float64) bool {
-	for i := range x {
-		if !minValleyScaledFinite(x[i]) {
+	{
+		if !minValleyScaledFinite(x[0]) {
+			return false
+		}
+		if !minValleyScaledFinite(x[1]) {
 			return false
 		}
 	}
@@ -828,15 +853,17 @@ func minValleyScaledConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float64
 	calls += minValleyScaledDerivative(recv, x, fx, g, diffs)
 	calls += minValleyScaledDerivative(recv, x, fx, &doubled, &wide)
 	minValleyScaledGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minValleyScaledAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minValleyScaledAbs(g[0]-doubled[0])
+		e[1] += 3 * minValleyScaledAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -844,8 +871,9 @@ func minValleyScaledConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, 
 // minValleyScaledGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func minValleyScaledGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyScaledDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -866,8 +894,9 @@ func minValleyScaledAbs(v float64) float64 {
 func minValleyScaledRoundingFloor(recv *Valley, x, g, e *[2]float64, diffs *minValleyScaledDifferences) {
 	var h [2]float64
 	minValleyScaledDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minValleyScaledUnitRoundoff * minValleyScaledAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minValleyScaledUnitRoundoff * minValleyScaledAbs(x[0]) * h[0]
+		e[1] += 4 * minValleyScaledUnitRoundoff * minValleyScaledAbs(x[1]) * h[1]
 	}
 }
 
@@ -944,9 +973,12 @@ func minValleyScaledLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func minValleyScaledStationarity(g, e, x *[2]float64, fx float64, b *minValleyScaledBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if minValleyScaledPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, minValleyScaledLarger(0, e[i]-minValleyScaledAbs(g[i]))
+	{
+		if minValleyScaledPushedAgainst(x[0], g[0], b.lower[0], b.upper[0]) {
+			pg[0], pe[0] = 0, minValleyScaledLarger(0, e[0]-minValleyScaledAbs(g[0]))
+		}
+		if minValleyScaledPushedAgainst(x[1], g[1], b.lower[1], b.upper[1]) {
+			pg[1], pe[1] = 0, minValleyScaledLarger(0, e[1]-minValleyScaledAbs(g[1]))
 		}
 	}
 	return minValleyScaledGradientMeasure(&pg, &pe, x, fx)
@@ -972,10 +1004,17 @@ func minValleyScaledPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minValleyScaledGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
 	scale := minValleyScaledLarger(minValleyScaledAbs(fx), 1)
-	for i := range g {
-		w := minValleyScaledLarger(minValleyScaledAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minValleyScaledLarger(measure, (minValleyScaledAbs(g[i])+e[i])*w)
-		floor = minValleyScaledLarger(floor, e[i]*w)
+	{
+		{
+			w := minValleyScaledLarger(minValleyScaledAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minValleyScaledLarger(measure, (minValleyScaledAbs(g[0])+e[0])*w)
+			floor = minValleyScaledLarger(floor, e[0]*w)
+		}
+		{
+			w := minValleyScaledLarger(minValleyScaledAbs(x[1]), 1) / scale
+			measure = minValleyScaledLarger(measure, (minValleyScaledAbs(g[1])+e[1])*w)
+			floor = minValleyScaledLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -985,8 +1024,11 @@ func minValleyScaledGradientMeasure(g, e, x *[2]float64, fx float64) (measure, f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minValleyScaledStepWithin(s, x *[2]float64, tol float64, diffs *minValleyScaledDifferences) bool {
-	for i := range s {
-		if !(minValleyScaledAbs(s[i]) <= tol*minValleyScaledStepScale(x[i], i, diffs)) {
+	{
+		if !(minValleyScaledAbs(s[0]) <= tol*minValleyScaledStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minValleyScaledAbs(s[1]) <= tol*minValleyScaledStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -1009,9 +1051,12 @@ func minValleyScaledStepScale(xi float64, i int, diffs *minValleyScaledDifferenc
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func minValleyScaledCurvaturePair(s, y, x *[2]float64, b *minValleyScaledBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		if s[0] == 0 && (x[0] <= b.lower[0] || x[0] >= b.upper[0]) {
+			y[0] = 0
+		}
+		if s[1] == 0 && (x[1] <= b.lower[1] || x[1] >= b.upper[1]) {
+			y[1] = 0
 		}
 	}
 }
@@ -1047,28 +1092,47 @@ func minValleyScaledLearnCurvature(s, y *[2]float64, diffs *minValleyScaledDiffe
 func minValleyScaledSearchDirection(dir *minValleyScaledDirection, x, g, d *[2]float64, diffs *minValleyScaledDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = minValleyScaledLarger(reach, minValleyScaledAbs(x[i]-minValleyScaledClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		reach = minValleyScaledLarger(reach, minValleyScaledAbs(x[0]-minValleyScaledClampBetween(x[0]-g[0], b.lower[0], b.upper[0])))
+		reach = minValleyScaledLarger(reach, minValleyScaledAbs(x[1]-minValleyScaledClampBetween(x[1]-g[1], b.lower[1], b.upper[1])))
 	}
 	var free [2]float64
 	var active [2]bool
-	for i := range x {
-		margin := minValleyScaledActiveMargin * minValleyScaledLarger(1, minValleyScaledAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		{
+			margin := minValleyScaledActiveMargin * minValleyScaledLarger(1, minValleyScaledAbs(x[0]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[0] = minValleyScaledPushedAgainst(x[0], g[0], b.lower[0]+margin, b.upper[0]-margin)
+			if !active[0] {
+				free[0] = g[0]
+			}
 		}
-		active[i] = minValleyScaledPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := minValleyScaledActiveMargin * minValleyScaledLarger(1, minValleyScaledAbs(x[1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[1] = minValleyScaledPushedAgainst(x[1], g[1], b.lower[1]+margin, b.upper[1]-margin)
+			if !active[1] {
+				free[1] = g[1]
+			}
 		}
 	}
 	minValleyScaledSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		if active[0] {
+			d[0] = -g[0]
 		}
-		if minValleyScaledPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if minValleyScaledPushedAgainst(x[0], -d[0], b.lower[0], b.upper[0]) { // d would leave the box
+			d[0] = 0
+		}
+		if active[1] {
+			d[1] = -g[1]
+		}
+		if minValleyScaledPushedAgainst(x[1], -d[1], b.lower[1], b.upper[1]) {
+			d[1] = 0
 		}
 	}
 }
@@ -1102,9 +1166,14 @@ func (f *minValleyScaledStepFloor) at(x, d *[2]float64, diffs *minValleyScaledDi
 // step test, min over i of tol·minValleyScaledStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minValleyScaledTinyStep(x, d *[2]float64, tol float64, diffs *minValleyScaledDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minValleyScaledStepScale(x[i], i, diffs) / minValleyScaledAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minValleyScaledStepScale(x[0], 0, diffs) / minValleyScaledAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minValleyScaledStepScale(x[1], 1, diffs) / minValleyScaledAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1252,8 +1321,11 @@ func minValleyScaledShrinkDirection(d, g *[2]float64) {
 // minValleyScaledMaxAbs returns the largest |x_i|, the infinity norm.
 func minValleyScaledMaxAbs(x *[2]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := minValleyScaledAbs(x[i]); a > m || a != a {
+	{
+		if a := minValleyScaledAbs(x[0]); a > m || a != a {
+			m = a
+		}
+		if a := minValleyScaledAbs(x[1]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1262,8 +1334,9 @@ func minValleyScaledMaxAbs(x *[2]float64) float64 {
 
 // minValleyScaledScaleBy sets x = c·x.
 func minValleyScaledScaleBy(x *[2]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		x[0] *= c
+		x[1] *= c
 	}
 }
 
@@ -1328,8 +1401,11 @@ func (r *minValleyScaledRiseTrend) contradicts() bool {
 // minValleyScaledFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func minValleyScaledFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(minValleyScaledAbs(xt[i]-x[i]-want) <= 0.01*minValleyScaledAbs(want)) {
+	{
+		if want := t * d[0]; !(minValleyScaledAbs(xt[0]-x[0]-want) <= 0.01*minValleyScaledAbs(want)) {
+			return false
+		}
+		if want := t * d[1]; !(minValleyScaledAbs(xt[1]-x[1]-want) <= 0.01*minValleyScaledAbs(want)) {
 			return false
 		}
 	}
@@ -1348,16 +1424,30 @@ func minValleyScaledFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 func minValleyScaledStepCap(x, d *[2]float64, floor *minValleyScaledStepFloor, diffs *minValleyScaledDifferences) float64 {
 	tiny, b := floor.at(x, d, diffs), &diffs.bounds
 	limit := math.Inf(1)
-	for i := range x {
-		hit := math.Inf(1)
-		switch {
-		case d[i] > 0:
-			hit = (b.upper[i] - x[i]) / d[i]
-		case d[i] < 0:
-			hit = (b.lower[i] - x[i]) / d[i]
+	{
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[0] > 0:
+				hit = (b.upper[0] - x[0]) / d[0]
+			case d[0] < 0:
+				hit = (b.lower[0] - x[0]) / d[0]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
-		if hit > tiny && hit < limit {
-			limit = hit
+		{
+			hit := math.Inf(1)
+			switch {
+			case d[1] > 0:
+				hit = (b.upper[1] - x[1]) / d[1]
+			case d[1] < 0:
+				hit = (b.lower[1] - x[1]) / d[1]
+			}
+			if hit > tiny && hit < limit {
+				limit = hit
+			}
 		}
 	}
 	return limit
@@ -1480,8 +1570,9 @@ func minValleyScaledExpandTrial(previous, current *minValleyScaledLinePoint) flo
 
 // minValleyScaledGradientChange sets out = a − b.
 func minValleyScaledGradientChange(out, a, b *[2]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 

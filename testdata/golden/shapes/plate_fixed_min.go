@@ -598,8 +598,9 @@ func (s *minPlateDirection) firstTrial(t, slope, now float32) float32 {
 
 // minPlateNegate sets out = −x.
 func minPlateNegate(out, x *[2]float32) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		out[0] = -x[0]
+		out[1] = -x[1]
 	}
 }
 
@@ -658,8 +659,11 @@ func minPlateValue(x, g *[2]float32, diffs *minPlateDifferences) float32 {
 
 // minPlateFiniteVec reports whether every component of x is finite.
 func minPlateFiniteVec(x *[2]float32) bool {
-	for i := range x {
-		if !minPlateFinite(x[i]) {
+	{
+		if !minPlateFinite(x[0]) {
+			return false
+		}
+		if !minPlateFinite(x[1]) {
 			return false
 		}
 	}
@@ -713,15 +717,17 @@ func minPlateConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		wide.ratio[0] *= 2
+		wide.ratio[1] *= 2
 	}
 	var doubled [2]float32
 	calls += minPlateDerivative(x, fx, g, diffs)
 	calls += minPlateDerivative(x, fx, &doubled, &wide)
 	minPlateGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * minPlateAbs(g[i]-doubled[i])
+	{
+		e[0] += 3 * minPlateAbs(g[0]-doubled[0])
+		e[1] += 3 * minPlateAbs(g[1]-doubled[1])
 	}
 	return calls, true
 }
@@ -729,8 +735,9 @@ func minPlateConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs 
 // minPlateGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func minPlateGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		e[0] = 0
+		e[1] = 0
 	}
 }
 
@@ -751,8 +758,9 @@ func minPlateAbs(v float32) float32 {
 func minPlateRoundingFloor(x, g, e *[2]float32, diffs *minPlateDifferences) {
 	var h [2]float32
 	minPlateDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * minPlateUnitRoundoff * minPlateAbs(x[i]) * h[i]
+	{
+		e[0] += 4 * minPlateUnitRoundoff * minPlateAbs(x[0]) * h[0]
+		e[1] += 4 * minPlateUnitRoundoff * minPlateAbs(x[1]) * h[1]
 	}
 }
 
@@ -854,10 +862,17 @@ func minPlateStationarity(g, e, x *[2]float32, fx float32, b *minPlateBox) (meas
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
 	scale := minPlateLarger(minPlateAbs(fx), 1)
-	for i := range g {
-		w := minPlateLarger(minPlateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minPlateLarger(measure, (minPlateAbs(g[i])+e[i])*w)
-		floor = minPlateLarger(floor, e[i]*w)
+	{
+		{
+			w := minPlateLarger(minPlateAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
+			measure = minPlateLarger(measure, (minPlateAbs(g[0])+e[0])*w)
+			floor = minPlateLarger(floor, e[0]*w)
+		}
+		{
+			w := minPlateLarger(minPlateAbs(x[1]), 1) / scale
+			measure = minPlateLarger(measure, (minPlateAbs(g[1])+e[1])*w)
+			floor = minPlateLarger(floor, e[1]*w)
+		}
 	}
 	return measure, floor
 }
@@ -867,8 +882,11 @@ func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func minPlateStepWithin(s, x *[2]float32, tol float32, diffs *minPlateDifferences) bool {
-	for i := range s {
-		if !(minPlateAbs(s[i]) <= tol*minPlateStepScale(x[i], i, diffs)) {
+	{
+		if !(minPlateAbs(s[0]) <= tol*minPlateStepScale(x[0], 0, diffs)) {
+			return false
+		}
+		if !(minPlateAbs(s[1]) <= tol*minPlateStepScale(x[1], 1, diffs)) {
 			return false
 		}
 	}
@@ -899,8 +917,9 @@ func minPlateSolveDirection(dir *minPlateDirection, g, d *[2]float32, diffs *min
 // minPlateDot returns aᵀb.
 func minPlateDot(a, b *[2]float32) float32 {
 	var s float32
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		s += a[0] * b[0]
+		s += a[1] * b[1]
 	}
 	return s
 }
@@ -929,9 +948,14 @@ func (f *minPlateStepFloor) at(x, d *[2]float32, diffs *minPlateDifferences) flo
 // step test, min over i of tol·minPlateStepScale(x_i)/|d_i|, or −1 when d is zero.
 func minPlateTinyStep(x, d *[2]float32, tol float32, diffs *minPlateDifferences) float32 {
 	tiny := float32(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * minPlateStepScale(x[i], i, diffs) / minPlateAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		if d[0] != 0 {
+			if t := tol * minPlateStepScale(x[0], 0, diffs) / minPlateAbs(d[0]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[1] != 0 {
+			if t := tol * minPlateStepScale(x[1], 1, diffs) / minPlateAbs(d[1]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -984,15 +1008,17 @@ func minPlateTrialPoint(out, x *[2]float32, t float32, d *[2]float32, b *minPlat
 
 // minPlateMoveTo sets out = x + t·d.
 func minPlateMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		out[0] = x[0] + t*d[0]
+		out[1] = x[1] + t*d[1]
 	}
 }
 
 // minPlateDifference sets out = a − b.
 func minPlateDifference(out, a, b *[2]float32) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		out[0] = a[0] - b[0]
+		out[1] = a[1] - b[1]
 	}
 }
 
