@@ -52,7 +52,7 @@ var (
 		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			memory := int(value(Memory))
-			return 2*memory*dim*elemBytes + memory*elemBytes + 16, fmt.Sprintf("%d vectors (memory %d) of %d", 2*memory, memory, dim)
+			return 2*memory*dim*elemBytes + (memory+1)*elemBytes + 16, fmt.Sprintf("%d vectors (memory %d) of %d", 2*memory, memory, dim)
 		},
 		SmallerState: `lower memory or use direction "cg"`,
 		Fallback:     CG,

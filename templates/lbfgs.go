@@ -19,8 +19,9 @@ package templates
 type lbfgsDirection struct {
 	s, y   [lbfgsMemory]vec
 	rho    [lbfgsMemory]elem
-	newest int // index of the newest pair
-	count  int // pairs held, at most lbfgsMemory
+	gamma  elem // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int  // index of the newest pair
+	count  int  // pairs held, at most lbfgsMemory
 }
 
 func (s *lbfgsDirection) reset() {
@@ -34,9 +35,10 @@ func (s *lbfgsDirection) compute(g, d *vec) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * dot(&s.s[k], &q)
+		a, y := s.rho[k]*dot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -44,10 +46,8 @@ func (s *lbfgsDirection) compute(g, d *vec) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := dot(&s.s[newest], &s.y[newest]) / dot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -57,15 +57,17 @@ func (s *lbfgsDirection) compute(g, d *vec) {
 			k = 0
 		}
 		beta := s.rho[k] * dot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	negate(d, &q)
 }
 
 func (s *lbfgsDirection) update(step, change *vec) {
-	if !curvatureSafe(step, change) {
+	sy, ss, yy := dot(step, change), dot(step, step), dot(change, change)
+	if !curvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -79,7 +81,8 @@ func (s *lbfgsDirection) update(step, change *vec) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / dot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.

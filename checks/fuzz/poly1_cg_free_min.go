@@ -672,10 +672,11 @@ func (s *poly1CGFreeDirection) update(step, change *[1]float64) {
 		sbs = gamma * ss
 		s.scaled = true
 	}
+	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
 	{
 		{
 			bs := s.curvature[0] * step[0]
-			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			next := s.curvature[0] - bs*bs*overSBS + change[0]*change[0]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
 			if next > 0 && poly1CGFreeFinite(next) {
 				s.curvature[0] = next
 			}

@@ -139,7 +139,7 @@ const Poly1LBFGSBoxTickMinimum = 144
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly1LBFGSBox and Poly1LBFGSBoxWithLimits use at most 2120 bytes, the run's state included; Advance at most 1216 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 248 bytes.
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly1LBFGSBox and Poly1LBFGSBoxWithLimits use at most 2128 bytes, the run's state included; Advance at most 1216 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 248 bytes.
 //
 // While Status is Poly1LBFGSBoxRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly1LBFGSBoxSolver struct {
@@ -594,8 +594,9 @@ type poly1LBFGSBoxResidualModel struct{}
 type poly1LBFGSBoxDirection struct {
 	s, y   [poly1LBFGSBoxLbfgsMemory][1]float64
 	rho    [poly1LBFGSBoxLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly1LBFGSBoxLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly1LBFGSBoxLbfgsMemory
 }
 
 func (s *poly1LBFGSBoxDirection) reset() {
@@ -609,9 +610,10 @@ func (s *poly1LBFGSBoxDirection) compute(g, d *[1]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly1LBFGSBoxDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly1LBFGSBoxDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
+			q[0] -= a * y[0]
 		}
 		k--
 		if k < 0 {
@@ -619,10 +621,8 @@ func (s *poly1LBFGSBoxDirection) compute(g, d *[1]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly1LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly1LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
+			q[0] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -632,15 +632,17 @@ func (s *poly1LBFGSBoxDirection) compute(g, d *[1]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly1LBFGSBoxDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[0] += step[0] * c
 		}
 	}
 	poly1LBFGSBoxNegate(d, &q)
 }
 
 func (s *poly1LBFGSBoxDirection) update(step, change *[1]float64) {
-	if !poly1LBFGSBoxCurvatureSafe(step, change) {
+	sy, ss, yy := poly1LBFGSBoxDot(step, change), poly1LBFGSBoxDot(step, step), poly1LBFGSBoxDot(change, change)
+	if !poly1LBFGSBoxCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -654,7 +656,8 @@ func (s *poly1LBFGSBoxDirection) update(step, change *[1]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly1LBFGSBoxDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -681,24 +684,7 @@ func poly1LBFGSBoxNegate(out, x *[1]float64) {
 	}
 }
 
-// poly1LBFGSBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly1LBFGSBoxCurvatureSafe(s, y *[1]float64) bool {
-	return poly1LBFGSBoxCurvatureSafeWith(poly1LBFGSBoxDot(s, y), s, y)
-}
-
-// poly1LBFGSBoxCurvatureSafeWith is poly1LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly1LBFGSBoxCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return poly1LBFGSBoxCurvatureSafeFrom(sy, poly1LBFGSBoxDot(s, s), poly1LBFGSBoxDot(y, y))
-}
-
-// poly1LBFGSBoxCurvatureSafeFrom is poly1LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// poly1LBFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly1LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly1LBFGSBoxUnitRoundoff

@@ -133,7 +133,7 @@ const Poly1LBFGSFreeTickMinimum = 144
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly1LBFGSFree and Poly1LBFGSFreeWithLimits use at most 1992 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly1LBFGSFree and Poly1LBFGSFreeWithLimits use at most 2000 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
 //
 // While Status is Poly1LBFGSFreeRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly1LBFGSFreeSolver struct {
@@ -584,8 +584,9 @@ type poly1LBFGSFreeResidualModel struct{}
 type poly1LBFGSFreeDirection struct {
 	s, y   [poly1LBFGSFreeLbfgsMemory][1]float64
 	rho    [poly1LBFGSFreeLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly1LBFGSFreeLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly1LBFGSFreeLbfgsMemory
 }
 
 func (s *poly1LBFGSFreeDirection) reset() {
@@ -599,9 +600,10 @@ func (s *poly1LBFGSFreeDirection) compute(g, d *[1]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly1LBFGSFreeDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly1LBFGSFreeDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
+			q[0] -= a * y[0]
 		}
 		k--
 		if k < 0 {
@@ -609,10 +611,8 @@ func (s *poly1LBFGSFreeDirection) compute(g, d *[1]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly1LBFGSFreeDot(&s.s[newest], &s.y[newest]) / poly1LBFGSFreeDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
+			q[0] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,15 +622,17 @@ func (s *poly1LBFGSFreeDirection) compute(g, d *[1]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly1LBFGSFreeDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
+			q[0] += step[0] * c
 		}
 	}
 	poly1LBFGSFreeNegate(d, &q)
 }
 
 func (s *poly1LBFGSFreeDirection) update(step, change *[1]float64) {
-	if !poly1LBFGSFreeCurvatureSafe(step, change) {
+	sy, ss, yy := poly1LBFGSFreeDot(step, change), poly1LBFGSFreeDot(step, step), poly1LBFGSFreeDot(change, change)
+	if !poly1LBFGSFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -644,7 +646,8 @@ func (s *poly1LBFGSFreeDirection) update(step, change *[1]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly1LBFGSFreeDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -671,24 +674,7 @@ func poly1LBFGSFreeNegate(out, x *[1]float64) {
 	}
 }
 
-// poly1LBFGSFreeCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly1LBFGSFreeCurvatureSafe(s, y *[1]float64) bool {
-	return poly1LBFGSFreeCurvatureSafeWith(poly1LBFGSFreeDot(s, y), s, y)
-}
-
-// poly1LBFGSFreeCurvatureSafeWith is poly1LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly1LBFGSFreeCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return poly1LBFGSFreeCurvatureSafeFrom(sy, poly1LBFGSFreeDot(s, s), poly1LBFGSFreeDot(y, y))
-}
-
-// poly1LBFGSFreeCurvatureSafeFrom is poly1LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// poly1LBFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly1LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly1LBFGSFreeUnitRoundoff

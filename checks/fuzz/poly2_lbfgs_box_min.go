@@ -139,7 +139,7 @@ const Poly2LBFGSBoxTickMinimum = 240
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly2LBFGSBox and Poly2LBFGSBoxWithLimits use at most 2648 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 368 bytes.
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly2LBFGSBox and Poly2LBFGSBoxWithLimits use at most 2656 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 368 bytes.
 //
 // While Status is Poly2LBFGSBoxRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly2LBFGSBoxSolver struct {
@@ -594,8 +594,9 @@ type poly2LBFGSBoxResidualModel struct{}
 type poly2LBFGSBoxDirection struct {
 	s, y   [poly2LBFGSBoxLbfgsMemory][2]float64
 	rho    [poly2LBFGSBoxLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly2LBFGSBoxLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly2LBFGSBoxLbfgsMemory
 }
 
 func (s *poly2LBFGSBoxDirection) reset() {
@@ -609,10 +610,11 @@ func (s *poly2LBFGSBoxDirection) compute(g, d *[2]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly2LBFGSBoxDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly2LBFGSBoxDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
-			q[1] -= alpha[k] * s.y[k][1]
+			q[0] -= a * y[0]
+			q[1] -= a * y[1]
 		}
 		k--
 		if k < 0 {
@@ -620,11 +622,9 @@ func (s *poly2LBFGSBoxDirection) compute(g, d *[2]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly2LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly2LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
-			q[1] *= gamma
+			q[0] *= s.gamma
+			q[1] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -634,16 +634,18 @@ func (s *poly2LBFGSBoxDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly2LBFGSBoxDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
-			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[0] += step[0] * c
+			q[1] += step[1] * c
 		}
 	}
 	poly2LBFGSBoxNegate(d, &q)
 }
 
 func (s *poly2LBFGSBoxDirection) update(step, change *[2]float64) {
-	if !poly2LBFGSBoxCurvatureSafe(step, change) {
+	sy, ss, yy := poly2LBFGSBoxDot(step, change), poly2LBFGSBoxDot(step, step), poly2LBFGSBoxDot(change, change)
+	if !poly2LBFGSBoxCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -657,7 +659,8 @@ func (s *poly2LBFGSBoxDirection) update(step, change *[2]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly2LBFGSBoxDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -686,24 +689,7 @@ func poly2LBFGSBoxNegate(out, x *[2]float64) {
 	}
 }
 
-// poly2LBFGSBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly2LBFGSBoxCurvatureSafe(s, y *[2]float64) bool {
-	return poly2LBFGSBoxCurvatureSafeWith(poly2LBFGSBoxDot(s, y), s, y)
-}
-
-// poly2LBFGSBoxCurvatureSafeWith is poly2LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly2LBFGSBoxCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return poly2LBFGSBoxCurvatureSafeFrom(sy, poly2LBFGSBoxDot(s, s), poly2LBFGSBoxDot(y, y))
-}
-
-// poly2LBFGSBoxCurvatureSafeFrom is poly2LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// poly2LBFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly2LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly2LBFGSBoxUnitRoundoff

@@ -139,7 +139,7 @@ const Poly3LBFGSBoxTickMinimum = 336
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly3LBFGSBox and Poly3LBFGSBoxWithLimits use at most 3176 bytes, the run's state included; Advance at most 1600 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 488 bytes.
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly3LBFGSBox and Poly3LBFGSBoxWithLimits use at most 3184 bytes, the run's state included; Advance at most 1600 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 488 bytes.
 //
 // While Status is Poly3LBFGSBoxRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly3LBFGSBoxSolver struct {
@@ -594,8 +594,9 @@ type poly3LBFGSBoxResidualModel struct{}
 type poly3LBFGSBoxDirection struct {
 	s, y   [poly3LBFGSBoxLbfgsMemory][3]float64
 	rho    [poly3LBFGSBoxLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly3LBFGSBoxLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly3LBFGSBoxLbfgsMemory
 }
 
 func (s *poly3LBFGSBoxDirection) reset() {
@@ -609,11 +610,12 @@ func (s *poly3LBFGSBoxDirection) compute(g, d *[3]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly3LBFGSBoxDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly3LBFGSBoxDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
-			q[1] -= alpha[k] * s.y[k][1]
-			q[2] -= alpha[k] * s.y[k][2]
+			q[0] -= a * y[0]
+			q[1] -= a * y[1]
+			q[2] -= a * y[2]
 		}
 		k--
 		if k < 0 {
@@ -621,12 +623,10 @@ func (s *poly3LBFGSBoxDirection) compute(g, d *[3]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly3LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly3LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
-			q[1] *= gamma
-			q[2] *= gamma
+			q[0] *= s.gamma
+			q[1] *= s.gamma
+			q[2] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -636,17 +636,19 @@ func (s *poly3LBFGSBoxDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly3LBFGSBoxDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
-			q[1] += s.s[k][1] * (alpha[k] - beta)
-			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[0] += step[0] * c
+			q[1] += step[1] * c
+			q[2] += step[2] * c
 		}
 	}
 	poly3LBFGSBoxNegate(d, &q)
 }
 
 func (s *poly3LBFGSBoxDirection) update(step, change *[3]float64) {
-	if !poly3LBFGSBoxCurvatureSafe(step, change) {
+	sy, ss, yy := poly3LBFGSBoxDot(step, change), poly3LBFGSBoxDot(step, step), poly3LBFGSBoxDot(change, change)
+	if !poly3LBFGSBoxCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -660,7 +662,8 @@ func (s *poly3LBFGSBoxDirection) update(step, change *[3]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly3LBFGSBoxDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -691,24 +694,7 @@ func poly3LBFGSBoxNegate(out, x *[3]float64) {
 	}
 }
 
-// poly3LBFGSBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly3LBFGSBoxCurvatureSafe(s, y *[3]float64) bool {
-	return poly3LBFGSBoxCurvatureSafeWith(poly3LBFGSBoxDot(s, y), s, y)
-}
-
-// poly3LBFGSBoxCurvatureSafeWith is poly3LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly3LBFGSBoxCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return poly3LBFGSBoxCurvatureSafeFrom(sy, poly3LBFGSBoxDot(s, s), poly3LBFGSBoxDot(y, y))
-}
-
-// poly3LBFGSBoxCurvatureSafeFrom is poly3LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// poly3LBFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly3LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly3LBFGSBoxUnitRoundoff

@@ -133,7 +133,7 @@ const Poly3LBFGSFreeTickMinimum = 336
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly3LBFGSFree and Poly3LBFGSFreeWithLimits use at most 2792 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
+// Stack, for 3 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly3LBFGSFree and Poly3LBFGSFreeWithLimits use at most 2800 bytes, the run's state included; Advance at most 1408 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 272 bytes.
 //
 // While Status is Poly3LBFGSFreeRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly3LBFGSFreeSolver struct {
@@ -584,8 +584,9 @@ type poly3LBFGSFreeResidualModel struct{}
 type poly3LBFGSFreeDirection struct {
 	s, y   [poly3LBFGSFreeLbfgsMemory][3]float64
 	rho    [poly3LBFGSFreeLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly3LBFGSFreeLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly3LBFGSFreeLbfgsMemory
 }
 
 func (s *poly3LBFGSFreeDirection) reset() {
@@ -599,11 +600,12 @@ func (s *poly3LBFGSFreeDirection) compute(g, d *[3]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly3LBFGSFreeDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly3LBFGSFreeDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
-			q[1] -= alpha[k] * s.y[k][1]
-			q[2] -= alpha[k] * s.y[k][2]
+			q[0] -= a * y[0]
+			q[1] -= a * y[1]
+			q[2] -= a * y[2]
 		}
 		k--
 		if k < 0 {
@@ -611,12 +613,10 @@ func (s *poly3LBFGSFreeDirection) compute(g, d *[3]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly3LBFGSFreeDot(&s.s[newest], &s.y[newest]) / poly3LBFGSFreeDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
-			q[1] *= gamma
-			q[2] *= gamma
+			q[0] *= s.gamma
+			q[1] *= s.gamma
+			q[2] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -626,17 +626,19 @@ func (s *poly3LBFGSFreeDirection) compute(g, d *[3]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly3LBFGSFreeDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
-			q[1] += s.s[k][1] * (alpha[k] - beta)
-			q[2] += s.s[k][2] * (alpha[k] - beta)
+			q[0] += step[0] * c
+			q[1] += step[1] * c
+			q[2] += step[2] * c
 		}
 	}
 	poly3LBFGSFreeNegate(d, &q)
 }
 
 func (s *poly3LBFGSFreeDirection) update(step, change *[3]float64) {
-	if !poly3LBFGSFreeCurvatureSafe(step, change) {
+	sy, ss, yy := poly3LBFGSFreeDot(step, change), poly3LBFGSFreeDot(step, step), poly3LBFGSFreeDot(change, change)
+	if !poly3LBFGSFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -650,7 +652,8 @@ func (s *poly3LBFGSFreeDirection) update(step, change *[3]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly3LBFGSFreeDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -681,24 +684,7 @@ func poly3LBFGSFreeNegate(out, x *[3]float64) {
 	}
 }
 
-// poly3LBFGSFreeCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly3LBFGSFreeCurvatureSafe(s, y *[3]float64) bool {
-	return poly3LBFGSFreeCurvatureSafeWith(poly3LBFGSFreeDot(s, y), s, y)
-}
-
-// poly3LBFGSFreeCurvatureSafeWith is poly3LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly3LBFGSFreeCurvatureSafeWith(sy float64, s, y *[3]float64) bool {
-	return poly3LBFGSFreeCurvatureSafeFrom(sy, poly3LBFGSFreeDot(s, s), poly3LBFGSFreeDot(y, y))
-}
-
-// poly3LBFGSFreeCurvatureSafeFrom is poly3LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// poly3LBFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly3LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly3LBFGSFreeUnitRoundoff

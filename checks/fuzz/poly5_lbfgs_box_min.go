@@ -139,7 +139,7 @@ const Poly5LBFGSBoxTickMinimum = 528
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 5 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly5LBFGSBox and Poly5LBFGSBoxWithLimits use at most 4232 bytes, the run's state included; Advance at most 1984 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 728 bytes.
+// Stack, for 5 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly5LBFGSBox and Poly5LBFGSBoxWithLimits use at most 4240 bytes, the run's state included; Advance at most 1984 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 728 bytes.
 //
 // While Status is Poly5LBFGSBoxRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly5LBFGSBoxSolver struct {
@@ -594,8 +594,9 @@ type poly5LBFGSBoxResidualModel struct{}
 type poly5LBFGSBoxDirection struct {
 	s, y   [poly5LBFGSBoxLbfgsMemory][5]float64
 	rho    [poly5LBFGSBoxLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly5LBFGSBoxLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly5LBFGSBoxLbfgsMemory
 }
 
 func (s *poly5LBFGSBoxDirection) reset() {
@@ -609,9 +610,10 @@ func (s *poly5LBFGSBoxDirection) compute(g, d *[5]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly5LBFGSBoxDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly5LBFGSBoxDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -619,10 +621,8 @@ func (s *poly5LBFGSBoxDirection) compute(g, d *[5]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly5LBFGSBoxDot(&s.s[newest], &s.y[newest]) / poly5LBFGSBoxDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -632,15 +632,17 @@ func (s *poly5LBFGSBoxDirection) compute(g, d *[5]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly5LBFGSBoxDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	poly5LBFGSBoxNegate(d, &q)
 }
 
 func (s *poly5LBFGSBoxDirection) update(step, change *[5]float64) {
-	if !poly5LBFGSBoxCurvatureSafe(step, change) {
+	sy, ss, yy := poly5LBFGSBoxDot(step, change), poly5LBFGSBoxDot(step, step), poly5LBFGSBoxDot(change, change)
+	if !poly5LBFGSBoxCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -654,7 +656,8 @@ func (s *poly5LBFGSBoxDirection) update(step, change *[5]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly5LBFGSBoxDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -681,24 +684,7 @@ func poly5LBFGSBoxNegate(out, x *[5]float64) {
 	}
 }
 
-// poly5LBFGSBoxCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly5LBFGSBoxCurvatureSafe(s, y *[5]float64) bool {
-	return poly5LBFGSBoxCurvatureSafeWith(poly5LBFGSBoxDot(s, y), s, y)
-}
-
-// poly5LBFGSBoxCurvatureSafeWith is poly5LBFGSBoxCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly5LBFGSBoxCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return poly5LBFGSBoxCurvatureSafeFrom(sy, poly5LBFGSBoxDot(s, s), poly5LBFGSBoxDot(y, y))
-}
-
-// poly5LBFGSBoxCurvatureSafeFrom is poly5LBFGSBoxCurvatureSafe from the three products sᵀy, sᵀs
+// poly5LBFGSBoxCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly5LBFGSBoxCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly5LBFGSBoxUnitRoundoff

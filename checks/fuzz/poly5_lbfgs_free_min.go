@@ -133,7 +133,7 @@ const Poly5LBFGSFreeTickMinimum = 528
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 5 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly5LBFGSFree and Poly5LBFGSFreeWithLimits use at most 3592 bytes, the run's state included; Advance at most 1664 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 368 bytes.
+// Stack, for 5 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly5LBFGSFree and Poly5LBFGSFreeWithLimits use at most 3600 bytes, the run's state included; Advance at most 1664 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 368 bytes.
 //
 // While Status is Poly5LBFGSFreeRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly5LBFGSFreeSolver struct {
@@ -584,8 +584,9 @@ type poly5LBFGSFreeResidualModel struct{}
 type poly5LBFGSFreeDirection struct {
 	s, y   [poly5LBFGSFreeLbfgsMemory][5]float64
 	rho    [poly5LBFGSFreeLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly5LBFGSFreeLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly5LBFGSFreeLbfgsMemory
 }
 
 func (s *poly5LBFGSFreeDirection) reset() {
@@ -599,9 +600,10 @@ func (s *poly5LBFGSFreeDirection) compute(g, d *[5]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly5LBFGSFreeDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly5LBFGSFreeDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -609,10 +611,8 @@ func (s *poly5LBFGSFreeDirection) compute(g, d *[5]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly5LBFGSFreeDot(&s.s[newest], &s.y[newest]) / poly5LBFGSFreeDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,15 +622,17 @@ func (s *poly5LBFGSFreeDirection) compute(g, d *[5]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly5LBFGSFreeDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	poly5LBFGSFreeNegate(d, &q)
 }
 
 func (s *poly5LBFGSFreeDirection) update(step, change *[5]float64) {
-	if !poly5LBFGSFreeCurvatureSafe(step, change) {
+	sy, ss, yy := poly5LBFGSFreeDot(step, change), poly5LBFGSFreeDot(step, step), poly5LBFGSFreeDot(change, change)
+	if !poly5LBFGSFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -644,7 +646,8 @@ func (s *poly5LBFGSFreeDirection) update(step, change *[5]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly5LBFGSFreeDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -671,24 +674,7 @@ func poly5LBFGSFreeNegate(out, x *[5]float64) {
 	}
 }
 
-// poly5LBFGSFreeCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly5LBFGSFreeCurvatureSafe(s, y *[5]float64) bool {
-	return poly5LBFGSFreeCurvatureSafeWith(poly5LBFGSFreeDot(s, y), s, y)
-}
-
-// poly5LBFGSFreeCurvatureSafeWith is poly5LBFGSFreeCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly5LBFGSFreeCurvatureSafeWith(sy float64, s, y *[5]float64) bool {
-	return poly5LBFGSFreeCurvatureSafeFrom(sy, poly5LBFGSFreeDot(s, s), poly5LBFGSFreeDot(y, y))
-}
-
-// poly5LBFGSFreeCurvatureSafeFrom is poly5LBFGSFreeCurvatureSafe from the three products sᵀy, sᵀs
+// poly5LBFGSFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly5LBFGSFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly5LBFGSFreeUnitRoundoff

@@ -672,9 +672,10 @@ func (s *poly8CGFreeDirection) update(step, change *[8]float64) {
 		sbs = gamma * ss
 		s.scaled = true
 	}
+	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
 	for i := range s.curvature {
 		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*(bs/sbs) + change[i]*(change[i]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+		next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
 		if next > 0 && poly8CGFreeFinite(next) {
 			s.curvature[i] = next
 		}

@@ -139,7 +139,7 @@ const Poly8LBFGSMixedTickMinimum = 816
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 8 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly8LBFGSMixed and Poly8LBFGSMixedWithLimits use at most 5816 bytes, the run's state included; Advance at most 2560 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 1088 bytes.
+// Stack, for 8 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Poly8LBFGSMixed and Poly8LBFGSMixedWithLimits use at most 5824 bytes, the run's state included; Advance at most 2560 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 1088 bytes.
 //
 // While Status is Poly8LBFGSMixedRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Poly8LBFGSMixedSolver struct {
@@ -594,8 +594,9 @@ type poly8LBFGSMixedResidualModel struct{}
 type poly8LBFGSMixedDirection struct {
 	s, y   [poly8LBFGSMixedLbfgsMemory][8]float64
 	rho    [poly8LBFGSMixedLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most poly8LBFGSMixedLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most poly8LBFGSMixedLbfgsMemory
 }
 
 func (s *poly8LBFGSMixedDirection) reset() {
@@ -609,9 +610,10 @@ func (s *poly8LBFGSMixedDirection) compute(g, d *[8]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * poly8LBFGSMixedDot(&s.s[k], &q)
+		a, y := s.rho[k]*poly8LBFGSMixedDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -619,10 +621,8 @@ func (s *poly8LBFGSMixedDirection) compute(g, d *[8]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := poly8LBFGSMixedDot(&s.s[newest], &s.y[newest]) / poly8LBFGSMixedDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -632,15 +632,17 @@ func (s *poly8LBFGSMixedDirection) compute(g, d *[8]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * poly8LBFGSMixedDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	poly8LBFGSMixedNegate(d, &q)
 }
 
 func (s *poly8LBFGSMixedDirection) update(step, change *[8]float64) {
-	if !poly8LBFGSMixedCurvatureSafe(step, change) {
+	sy, ss, yy := poly8LBFGSMixedDot(step, change), poly8LBFGSMixedDot(step, step), poly8LBFGSMixedDot(change, change)
+	if !poly8LBFGSMixedCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -654,7 +656,8 @@ func (s *poly8LBFGSMixedDirection) update(step, change *[8]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / poly8LBFGSMixedDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -681,24 +684,7 @@ func poly8LBFGSMixedNegate(out, x *[8]float64) {
 	}
 }
 
-// poly8LBFGSMixedCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func poly8LBFGSMixedCurvatureSafe(s, y *[8]float64) bool {
-	return poly8LBFGSMixedCurvatureSafeWith(poly8LBFGSMixedDot(s, y), s, y)
-}
-
-// poly8LBFGSMixedCurvatureSafeWith is poly8LBFGSMixedCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func poly8LBFGSMixedCurvatureSafeWith(sy float64, s, y *[8]float64) bool {
-	return poly8LBFGSMixedCurvatureSafeFrom(sy, poly8LBFGSMixedDot(s, s), poly8LBFGSMixedDot(y, y))
-}
-
-// poly8LBFGSMixedCurvatureSafeFrom is poly8LBFGSMixedCurvatureSafe from the three products sᵀy, sᵀs
+// poly8LBFGSMixedCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func poly8LBFGSMixedCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly8LBFGSMixedUnitRoundoff

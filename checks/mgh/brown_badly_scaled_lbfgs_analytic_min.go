@@ -133,7 +133,7 @@ const BrownBadlyScaledLBFGSAnalyticTickMinimum = 48
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x) and the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownBadlyScaledLBFGSAnalytic and BrownBadlyScaledLBFGSAnalyticWithLimits use at most 2392 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
+// Stack, for 2 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): BrownBadlyScaledLBFGSAnalytic and BrownBadlyScaledLBFGSAnalyticWithLimits use at most 2400 bytes, the run's state included; Advance at most 1280 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 224 bytes.
 //
 // While Status is BrownBadlyScaledLBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type BrownBadlyScaledLBFGSAnalyticSolver struct {
@@ -584,8 +584,9 @@ type brownBadlyScaledLBFGSAnalyticResidualModel struct{}
 type brownBadlyScaledLBFGSAnalyticDirection struct {
 	s, y   [brownBadlyScaledLBFGSAnalyticLbfgsMemory][2]float64
 	rho    [brownBadlyScaledLBFGSAnalyticLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most brownBadlyScaledLBFGSAnalyticLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most brownBadlyScaledLBFGSAnalyticLbfgsMemory
 }
 
 func (s *brownBadlyScaledLBFGSAnalyticDirection) reset() {
@@ -599,10 +600,11 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * brownBadlyScaledLBFGSAnalyticDot(&s.s[k], &q)
+		a, y := s.rho[k]*brownBadlyScaledLBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
-			q[1] -= alpha[k] * s.y[k][1]
+			q[0] -= a * y[0]
+			q[1] -= a * y[1]
 		}
 		k--
 		if k < 0 {
@@ -610,11 +612,9 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := brownBadlyScaledLBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / brownBadlyScaledLBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
-			q[1] *= gamma
+			q[0] *= s.gamma
+			q[1] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -624,16 +624,18 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * brownBadlyScaledLBFGSAnalyticDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
-			q[1] += s.s[k][1] * (alpha[k] - beta)
+			q[0] += step[0] * c
+			q[1] += step[1] * c
 		}
 	}
 	brownBadlyScaledLBFGSAnalyticNegate(d, &q)
 }
 
 func (s *brownBadlyScaledLBFGSAnalyticDirection) update(step, change *[2]float64) {
-	if !brownBadlyScaledLBFGSAnalyticCurvatureSafe(step, change) {
+	sy, ss, yy := brownBadlyScaledLBFGSAnalyticDot(step, change), brownBadlyScaledLBFGSAnalyticDot(step, step), brownBadlyScaledLBFGSAnalyticDot(change, change)
+	if !brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -647,7 +649,8 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) update(step, change *[2]float64
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / brownBadlyScaledLBFGSAnalyticDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -676,24 +679,7 @@ func brownBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
 	}
 }
 
-// brownBadlyScaledLBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func brownBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
-	return brownBadlyScaledLBFGSAnalyticCurvatureSafeWith(brownBadlyScaledLBFGSAnalyticDot(s, y), s, y)
-}
-
-// brownBadlyScaledLBFGSAnalyticCurvatureSafeWith is brownBadlyScaledLBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func brownBadlyScaledLBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, brownBadlyScaledLBFGSAnalyticDot(s, s), brownBadlyScaledLBFGSAnalyticDot(y, y))
-}
-
-// brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom is brownBadlyScaledLBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledLBFGSAnalyticUnitRoundoff

@@ -133,7 +133,7 @@ const PenaltyI4LBFGSAnalyticTickMinimum = 48
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x) and the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI4LBFGSAnalytic and PenaltyI4LBFGSAnalyticWithLimits use at most 3192 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
+// Stack, for 4 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): PenaltyI4LBFGSAnalytic and PenaltyI4LBFGSAnalyticWithLimits use at most 3200 bytes, the run's state included; Advance at most 1536 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 320 bytes.
 //
 // While Status is PenaltyI4LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type PenaltyI4LBFGSAnalyticSolver struct {
@@ -584,8 +584,9 @@ type penaltyI4LBFGSAnalyticResidualModel struct{}
 type penaltyI4LBFGSAnalyticDirection struct {
 	s, y   [penaltyI4LBFGSAnalyticLbfgsMemory][4]float64
 	rho    [penaltyI4LBFGSAnalyticLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most penaltyI4LBFGSAnalyticLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most penaltyI4LBFGSAnalyticLbfgsMemory
 }
 
 func (s *penaltyI4LBFGSAnalyticDirection) reset() {
@@ -599,12 +600,13 @@ func (s *penaltyI4LBFGSAnalyticDirection) compute(g, d *[4]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * penaltyI4LBFGSAnalyticDot(&s.s[k], &q)
+		a, y := s.rho[k]*penaltyI4LBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		{
-			q[0] -= alpha[k] * s.y[k][0]
-			q[1] -= alpha[k] * s.y[k][1]
-			q[2] -= alpha[k] * s.y[k][2]
-			q[3] -= alpha[k] * s.y[k][3]
+			q[0] -= a * y[0]
+			q[1] -= a * y[1]
+			q[2] -= a * y[2]
+			q[3] -= a * y[3]
 		}
 		k--
 		if k < 0 {
@@ -612,13 +614,11 @@ func (s *penaltyI4LBFGSAnalyticDirection) compute(g, d *[4]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := penaltyI4LBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / penaltyI4LBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		{
-			q[0] *= gamma
-			q[1] *= gamma
-			q[2] *= gamma
-			q[3] *= gamma
+			q[0] *= s.gamma
+			q[1] *= s.gamma
+			q[2] *= s.gamma
+			q[3] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -628,18 +628,20 @@ func (s *penaltyI4LBFGSAnalyticDirection) compute(g, d *[4]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * penaltyI4LBFGSAnalyticDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		{
-			q[0] += s.s[k][0] * (alpha[k] - beta)
-			q[1] += s.s[k][1] * (alpha[k] - beta)
-			q[2] += s.s[k][2] * (alpha[k] - beta)
-			q[3] += s.s[k][3] * (alpha[k] - beta)
+			q[0] += step[0] * c
+			q[1] += step[1] * c
+			q[2] += step[2] * c
+			q[3] += step[3] * c
 		}
 	}
 	penaltyI4LBFGSAnalyticNegate(d, &q)
 }
 
 func (s *penaltyI4LBFGSAnalyticDirection) update(step, change *[4]float64) {
-	if !penaltyI4LBFGSAnalyticCurvatureSafe(step, change) {
+	sy, ss, yy := penaltyI4LBFGSAnalyticDot(step, change), penaltyI4LBFGSAnalyticDot(step, step), penaltyI4LBFGSAnalyticDot(change, change)
+	if !penaltyI4LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -653,7 +655,8 @@ func (s *penaltyI4LBFGSAnalyticDirection) update(step, change *[4]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / penaltyI4LBFGSAnalyticDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -686,24 +689,7 @@ func penaltyI4LBFGSAnalyticNegate(out, x *[4]float64) {
 	}
 }
 
-// penaltyI4LBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func penaltyI4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
-	return penaltyI4LBFGSAnalyticCurvatureSafeWith(penaltyI4LBFGSAnalyticDot(s, y), s, y)
-}
-
-// penaltyI4LBFGSAnalyticCurvatureSafeWith is penaltyI4LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func penaltyI4LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[4]float64) bool {
-	return penaltyI4LBFGSAnalyticCurvatureSafeFrom(sy, penaltyI4LBFGSAnalyticDot(s, s), penaltyI4LBFGSAnalyticDot(y, y))
-}
-
-// penaltyI4LBFGSAnalyticCurvatureSafeFrom is penaltyI4LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// penaltyI4LBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func penaltyI4LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4LBFGSAnalyticUnitRoundoff

@@ -696,31 +696,32 @@ func (s *penaltyII4CGAnalyticDirection) update(step, change *[4]float64) {
 		sbs = gamma * ss
 		s.scaled = true
 	}
+	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
 	{
 		{
 			bs := s.curvature[0] * step[0]
-			next := s.curvature[0] - bs*(bs/sbs) + change[0]*(change[0]/sy) // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			next := s.curvature[0] - bs*bs*overSBS + change[0]*change[0]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
 			if next > 0 && penaltyII4CGAnalyticFinite(next) {
 				s.curvature[0] = next
 			}
 		}
 		{
 			bs := s.curvature[1] * step[1]
-			next := s.curvature[1] - bs*(bs/sbs) + change[1]*(change[1]/sy)
+			next := s.curvature[1] - bs*bs*overSBS + change[1]*change[1]*overSY
 			if next > 0 && penaltyII4CGAnalyticFinite(next) {
 				s.curvature[1] = next
 			}
 		}
 		{
 			bs := s.curvature[2] * step[2]
-			next := s.curvature[2] - bs*(bs/sbs) + change[2]*(change[2]/sy)
+			next := s.curvature[2] - bs*bs*overSBS + change[2]*change[2]*overSY
 			if next > 0 && penaltyII4CGAnalyticFinite(next) {
 				s.curvature[2] = next
 			}
 		}
 		{
 			bs := s.curvature[3] * step[3]
-			next := s.curvature[3] - bs*(bs/sbs) + change[3]*(change[3]/sy)
+			next := s.curvature[3] - bs*bs*overSBS + change[3]*change[3]*overSY
 			if next > 0 && penaltyII4CGAnalyticFinite(next) {
 				s.curvature[3] = next
 			}

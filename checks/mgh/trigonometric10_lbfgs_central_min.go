@@ -133,7 +133,7 @@ const Trigonometric10LBFGSCentralTickMinimum = 1008
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Trigonometric10LBFGSCentral and Trigonometric10LBFGSCentralWithLimits use at most 5592 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
+// Stack, for 10 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Trigonometric10LBFGSCentral and Trigonometric10LBFGSCentralWithLimits use at most 5600 bytes, the run's state included; Advance at most 2304 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 608 bytes.
 //
 // While Status is Trigonometric10LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Trigonometric10LBFGSCentralSolver struct {
@@ -584,8 +584,9 @@ type trigonometric10LBFGSCentralResidualModel struct{}
 type trigonometric10LBFGSCentralDirection struct {
 	s, y   [trigonometric10LBFGSCentralLbfgsMemory][10]float64
 	rho    [trigonometric10LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most trigonometric10LBFGSCentralLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most trigonometric10LBFGSCentralLbfgsMemory
 }
 
 func (s *trigonometric10LBFGSCentralDirection) reset() {
@@ -599,9 +600,10 @@ func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * trigonometric10LBFGSCentralDot(&s.s[k], &q)
+		a, y := s.rho[k]*trigonometric10LBFGSCentralDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -609,10 +611,8 @@ func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := trigonometric10LBFGSCentralDot(&s.s[newest], &s.y[newest]) / trigonometric10LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,15 +622,17 @@ func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * trigonometric10LBFGSCentralDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	trigonometric10LBFGSCentralNegate(d, &q)
 }
 
 func (s *trigonometric10LBFGSCentralDirection) update(step, change *[10]float64) {
-	if !trigonometric10LBFGSCentralCurvatureSafe(step, change) {
+	sy, ss, yy := trigonometric10LBFGSCentralDot(step, change), trigonometric10LBFGSCentralDot(step, step), trigonometric10LBFGSCentralDot(change, change)
+	if !trigonometric10LBFGSCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -644,7 +646,8 @@ func (s *trigonometric10LBFGSCentralDirection) update(step, change *[10]float64)
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / trigonometric10LBFGSCentralDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -671,24 +674,7 @@ func trigonometric10LBFGSCentralNegate(out, x *[10]float64) {
 	}
 }
 
-// trigonometric10LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
-	return trigonometric10LBFGSCentralCurvatureSafeWith(trigonometric10LBFGSCentralDot(s, y), s, y)
-}
-
-// trigonometric10LBFGSCentralCurvatureSafeWith is trigonometric10LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func trigonometric10LBFGSCentralCurvatureSafeWith(sy float64, s, y *[10]float64) bool {
-	return trigonometric10LBFGSCentralCurvatureSafeFrom(sy, trigonometric10LBFGSCentralDot(s, s), trigonometric10LBFGSCentralDot(y, y))
-}
-
-// trigonometric10LBFGSCentralCurvatureSafeFrom is trigonometric10LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// trigonometric10LBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func trigonometric10LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10LBFGSCentralUnitRoundoff

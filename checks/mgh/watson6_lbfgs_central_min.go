@@ -133,7 +133,7 @@ const Watson6LBFGSCentralTickMinimum = 624
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson6LBFGSCentral and Watson6LBFGSCentralWithLimits use at most 3992 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
+// Stack, for 6 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson6LBFGSCentral and Watson6LBFGSCentralWithLimits use at most 4000 bytes, the run's state included; Advance at most 1792 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 416 bytes.
 //
 // While Status is Watson6LBFGSCentralRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Watson6LBFGSCentralSolver struct {
@@ -584,8 +584,9 @@ type watson6LBFGSCentralResidualModel struct{}
 type watson6LBFGSCentralDirection struct {
 	s, y   [watson6LBFGSCentralLbfgsMemory][6]float64
 	rho    [watson6LBFGSCentralLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most watson6LBFGSCentralLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most watson6LBFGSCentralLbfgsMemory
 }
 
 func (s *watson6LBFGSCentralDirection) reset() {
@@ -599,9 +600,10 @@ func (s *watson6LBFGSCentralDirection) compute(g, d *[6]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * watson6LBFGSCentralDot(&s.s[k], &q)
+		a, y := s.rho[k]*watson6LBFGSCentralDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -609,10 +611,8 @@ func (s *watson6LBFGSCentralDirection) compute(g, d *[6]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := watson6LBFGSCentralDot(&s.s[newest], &s.y[newest]) / watson6LBFGSCentralDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,15 +622,17 @@ func (s *watson6LBFGSCentralDirection) compute(g, d *[6]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * watson6LBFGSCentralDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	watson6LBFGSCentralNegate(d, &q)
 }
 
 func (s *watson6LBFGSCentralDirection) update(step, change *[6]float64) {
-	if !watson6LBFGSCentralCurvatureSafe(step, change) {
+	sy, ss, yy := watson6LBFGSCentralDot(step, change), watson6LBFGSCentralDot(step, step), watson6LBFGSCentralDot(change, change)
+	if !watson6LBFGSCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -644,7 +646,8 @@ func (s *watson6LBFGSCentralDirection) update(step, change *[6]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / watson6LBFGSCentralDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -671,24 +674,7 @@ func watson6LBFGSCentralNegate(out, x *[6]float64) {
 	}
 }
 
-// watson6LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
-	return watson6LBFGSCentralCurvatureSafeWith(watson6LBFGSCentralDot(s, y), s, y)
-}
-
-// watson6LBFGSCentralCurvatureSafeWith is watson6LBFGSCentralCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func watson6LBFGSCentralCurvatureSafeWith(sy float64, s, y *[6]float64) bool {
-	return watson6LBFGSCentralCurvatureSafeFrom(sy, watson6LBFGSCentralDot(s, s), watson6LBFGSCentralDot(y, y))
-}
-
-// watson6LBFGSCentralCurvatureSafeFrom is watson6LBFGSCentralCurvatureSafe from the three products sᵀy, sᵀs
+// watson6LBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func watson6LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson6LBFGSCentralUnitRoundoff

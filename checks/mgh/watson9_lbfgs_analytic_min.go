@@ -133,7 +133,7 @@ const Watson9LBFGSAnalyticTickMinimum = 48
 //
 // Advancing assumes the objective stays the same function throughout a run: f(x) and the gradient kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
-// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9LBFGSAnalytic and Watson9LBFGSAnalyticWithLimits use at most 5192 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
+// Stack, for 9 unknowns of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): Watson9LBFGSAnalytic and Watson9LBFGSAnalyticWithLimits use at most 5200 bytes, the run's state included; Advance at most 2176 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 560 bytes.
 //
 // While Status is Watson9LBFGSAnalyticRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
 type Watson9LBFGSAnalyticSolver struct {
@@ -584,8 +584,9 @@ type watson9LBFGSAnalyticResidualModel struct{}
 type watson9LBFGSAnalyticDirection struct {
 	s, y   [watson9LBFGSAnalyticLbfgsMemory][9]float64
 	rho    [watson9LBFGSAnalyticLbfgsMemory]float64
-	newest int // index of the newest pair
-	count  int // pairs held, at most watson9LBFGSAnalyticLbfgsMemory
+	gamma  float64 // sᵀy/yᵀy of the newest pair, H₀'s scale (N&W eq. 7.20)
+	newest int     // index of the newest pair
+	count  int     // pairs held, at most watson9LBFGSAnalyticLbfgsMemory
 }
 
 func (s *watson9LBFGSAnalyticDirection) reset() {
@@ -599,9 +600,10 @@ func (s *watson9LBFGSAnalyticDirection) compute(g, d *[9]float64) {
 	// First loop, newest pair to oldest (Algorithm 7.4).
 	k := s.newest
 	for n := 0; n < s.count; n++ {
-		alpha[k] = s.rho[k] * watson9LBFGSAnalyticDot(&s.s[k], &q)
+		a, y := s.rho[k]*watson9LBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
+		alpha[k] = a
 		for i := range q {
-			q[i] -= alpha[k] * s.y[k][i]
+			q[i] -= a * y[i]
 		}
 		k--
 		if k < 0 {
@@ -609,10 +611,8 @@ func (s *watson9LBFGSAnalyticDirection) compute(g, d *[9]float64) {
 		}
 	}
 	if s.count > 0 {
-		newest := s.newest
-		gamma := watson9LBFGSAnalyticDot(&s.s[newest], &s.y[newest]) / watson9LBFGSAnalyticDot(&s.y[newest], &s.y[newest]) // N&W eq. 7.20
 		for i := range q {
-			q[i] *= gamma
+			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -622,15 +622,17 @@ func (s *watson9LBFGSAnalyticDirection) compute(g, d *[9]float64) {
 			k = 0
 		}
 		beta := s.rho[k] * watson9LBFGSAnalyticDot(&s.y[k], &q)
+		c, step := alpha[k]-beta, &s.s[k]
 		for i := range q {
-			q[i] += s.s[k][i] * (alpha[k] - beta)
+			q[i] += step[i] * c
 		}
 	}
 	watson9LBFGSAnalyticNegate(d, &q)
 }
 
 func (s *watson9LBFGSAnalyticDirection) update(step, change *[9]float64) {
-	if !watson9LBFGSAnalyticCurvatureSafe(step, change) {
+	sy, ss, yy := watson9LBFGSAnalyticDot(step, change), watson9LBFGSAnalyticDot(step, step), watson9LBFGSAnalyticDot(change, change)
+	if !watson9LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if s.count > 0 {
@@ -644,7 +646,8 @@ func (s *watson9LBFGSAnalyticDirection) update(step, change *[9]float64) {
 	}
 	s.s[s.newest] = *step
 	s.y[s.newest] = *change
-	s.rho[s.newest] = 1 / watson9LBFGSAnalyticDot(step, change)
+	s.rho[s.newest] = 1 / sy
+	s.gamma = sy / yy // N&W eq. 7.20
 }
 
 // stalled: lbfgs keeps nothing in reserve for a stall.
@@ -671,24 +674,7 @@ func watson9LBFGSAnalyticNegate(out, x *[9]float64) {
 	}
 }
 
-// watson9LBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func watson9LBFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
-	return watson9LBFGSAnalyticCurvatureSafeWith(watson9LBFGSAnalyticDot(s, y), s, y)
-}
-
-// watson9LBFGSAnalyticCurvatureSafeWith is watson9LBFGSAnalyticCurvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func watson9LBFGSAnalyticCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return watson9LBFGSAnalyticCurvatureSafeFrom(sy, watson9LBFGSAnalyticDot(s, s), watson9LBFGSAnalyticDot(y, y))
-}
-
-// watson9LBFGSAnalyticCurvatureSafeFrom is watson9LBFGSAnalyticCurvatureSafe from the three products sᵀy, sᵀs
+// watson9LBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
 // and yᵀy (cg sums them in one pass).
 func watson9LBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson9LBFGSAnalyticUnitRoundoff
